@@ -1,0 +1,97 @@
+package geometry
+
+import (
+	"fmt"
+	"strings"
+)
+
+// Origin records where a point came from, so that every report can point back
+// into the user's file.
+type Origin struct {
+	File string // display name of the file, as given by the user
+	Line int    // 1-based line in the file; 0 when the format has no lines (binary STL)
+	// Entity is the 1-based index of the entity the point belongs to: the DXF
+	// entity, the STL facet, or 0 when the point stands alone on its line.
+	Entity int
+}
+
+// String formats o as file:line, or file#entity when there is no line.
+func (o Origin) String() string {
+	switch {
+	case o.Line > 0:
+		return fmt.Sprintf("%s:%d", o.File, o.Line)
+	case o.Entity > 0:
+		return fmt.Sprintf("%s#%d", o.File, o.Entity)
+	default:
+		return o.File
+	}
+}
+
+// Unit is a length unit of an input file. It is always recorded, never
+// guessed silently.
+type Unit string
+
+// The length units foilwright accepts.
+const (
+	Millimetre Unit = "mm"
+	Inch       Unit = "in"
+	Metre      Unit = "m"
+	ChordUnit  Unit = "chord" // already normalised to unit chord
+)
+
+// ParseUnit returns the Unit named by s (mm, in, m or chord, case-insensitive;
+// also "millimetre(s)", "inch(es)", "metre(s)"/"meter(s)"). It returns an error
+// wrapping ErrUnknownUnit for anything else.
+func ParseUnit(s string) (Unit, error) {
+	switch strings.ToLower(strings.TrimSpace(s)) {
+	case "mm", "millimetre", "millimetres", "millimeter", "millimeters":
+		return Millimetre, nil
+	case "in", "inch", "inches", "\"":
+		return Inch, nil
+	case "m", "metre", "metres", "meter", "meters":
+		return Metre, nil
+	case "chord", "c":
+		return ChordUnit, nil
+	}
+	return "", fmt.Errorf("%w %q (want mm, in, m or chord)", ErrUnknownUnit, s)
+}
+
+// A Note records a line of an input file that was not read as a point, and why
+// (a header, a comment, a name line), so that the user sees what was skipped.
+type Note struct {
+	Origin Origin
+	Reason string
+	Text   string // the line, trimmed and cut to at most 80 bytes
+}
+
+// Cloud is a set of points read from one or more files, each with its Origin.
+// Points of a 2D file have Z = 0 and Dim = 2.
+type Cloud struct {
+	Points  []Vec3
+	Origins []Origin // Origins[i] is where Points[i] came from
+	Dim     int      // 2 or 3: how many coordinates the file gave
+	Units   Unit     // "" when neither the user nor the file said
+	Format  string   // what the reader took the file for, e.g. "delimited", "dxf"
+	Name    string   // a name line or header title, if the file had one
+	// Ordered reports that the file's own format orders the points into a
+	// single loop (a coordinate listing or a polyline), so the order is
+	// meaningful and should be kept.
+	Ordered bool
+	Notes   []Note // lines skipped, with reasons
+}
+
+// Len returns the number of points in c.
+func (c *Cloud) Len() int { return len(c.Points) }
+
+// Contour is a closed loop of points in a plane, each with its Origin. The
+// last point joins the first. After orientation the points run in the node
+// order of the package conventions: trailing edge, upper surface, leading
+// edge, lower surface.
+type Contour struct {
+	Points  []Point
+	Origins []Origin
+	Units   Unit
+}
+
+// Len returns the number of points in c.
+func (c *Contour) Len() int { return len(c.Points) }

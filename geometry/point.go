@@ -1,0 +1,83 @@
+package geometry
+
+import "math"
+
+// Point is a point or vector in a plane.
+type Point struct{ X, Y float64 }
+
+// Add returns p + q.
+func (p Point) Add(q Point) Point { return Point{p.X + q.X, p.Y + q.Y} }
+
+// Sub returns p − q.
+func (p Point) Sub(q Point) Point { return Point{p.X - q.X, p.Y - q.Y} }
+
+// Scale returns f·p.
+func (p Point) Scale(f float64) Point { return Point{f * p.X, f * p.Y} }
+
+// Dot returns the scalar product p·q.
+func (p Point) Dot(q Point) float64 { return p.X*q.X + p.Y*q.Y }
+
+// Cross returns the z component of p × q.
+func (p Point) Cross(q Point) float64 { return p.X*q.Y - p.Y*q.X }
+
+// Norm returns the length of p.
+func (p Point) Norm() float64 { return math.Hypot(p.X, p.Y) }
+
+// Dist returns the distance between p and q.
+func (p Point) Dist(q Point) float64 { return math.Hypot(p.X-q.X, p.Y-q.Y) }
+
+// Rotate returns p rotated counter-clockwise by angle (radians) about the origin.
+func (p Point) Rotate(angle float64) Point {
+	s, c := math.Sincos(angle)
+	return Point{c*p.X - s*p.Y, s*p.X + c*p.Y}
+}
+
+// IsFinite reports whether both coordinates are finite.
+func (p Point) IsFinite() bool {
+	return !math.IsNaN(p.X) && !math.IsInf(p.X, 0) && !math.IsNaN(p.Y) && !math.IsInf(p.Y, 0)
+}
+
+// Vec3 is a point or vector in space.
+type Vec3 struct{ X, Y, Z float64 }
+
+// Add returns p + q.
+func (p Vec3) Add(q Vec3) Vec3 { return Vec3{p.X + q.X, p.Y + q.Y, p.Z + q.Z} }
+
+// Sub returns p − q.
+func (p Vec3) Sub(q Vec3) Vec3 { return Vec3{p.X - q.X, p.Y - q.Y, p.Z - q.Z} }
+
+// Scale returns f·p.
+func (p Vec3) Scale(f float64) Vec3 { return Vec3{f * p.X, f * p.Y, f * p.Z} }
+
+// Dot returns the scalar product p·q.
+func (p Vec3) Dot(q Vec3) float64 { return p.X*q.X + p.Y*q.Y + p.Z*q.Z }
+
+// Cross returns the vector product p × q.
+func (p Vec3) Cross(q Vec3) Vec3 {
+	return Vec3{p.Y*q.Z - p.Z*q.Y, p.Z*q.X - p.X*q.Z, p.X*q.Y - p.Y*q.X}
+}
+
+// Norm returns the length of p.
+func (p Vec3) Norm() float64 { return math.Sqrt(p.Dot(p)) }
+
+// Unit returns p scaled to unit length. It returns the zero vector for the
+// zero vector.
+func (p Vec3) Unit() Vec3 {
+	n := p.Norm()
+	if n == 0 {
+		return Vec3{}
+	}
+	return p.Scale(1 / n)
+}
+
+// SignedArea returns the shoelace area of the closed polygon pts (the last
+// point joins the first): positive when the points run counter-clockwise.
+func SignedArea(pts []Point) float64 {
+	var a float64
+	n := len(pts)
+	for i := range n {
+		p, q := pts[i], pts[(i+1)%n]
+		a += p.X*q.Y - q.X*p.Y
+	}
+	return a / 2
+}

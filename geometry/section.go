@@ -1,0 +1,202 @@
+package geometry
+
+import (
+	"encoding/json"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+)
+
+// SectionFormat is the value of the "format" key of a section document.
+const SectionFormat = "foilwright.section/1"
+
+// Section is the section document (format foilwright.section/1): the nodes of
+// a clean, normalised, repanelled section in the package node order, with the
+// record of how it was made and how it maps back to the part.
+//
+// A reader accepts any document with "format" and "nodes"; the other keys are
+// optional and may be added to, never renamed. Lengths are in chord units
+// except where a field says "input units".
+type Section struct {
+	Format       string        `json:"format"`
+	Name         string        `json:"name,omitempty"`
+	Units        Unit          `json:"units,omitempty"`
+	Source       *SourceInfo   `json:"source,omitempty"`
+	Frame        *Frame        `json:"frame,omitempty"`
+	Fit          *FitSummary   `json:"fit,omitempty"`
+	TrailingEdge *TrailingEdge `json:"trailing_edge,omitempty"`
+	LEIndex      *int          `json:"le_index,omitempty"`
+	Panels       *PanelSummary `json:"panels,omitempty"`
+	Properties   *Properties   `json:"properties,omitempty"`
+	Warnings     []string      `json:"warnings,omitempty"`
+	Nodes        []Point       `json:"nodes"`
+}
+
+// SourceInfo records the files a section was made from and what was dropped.
+type SourceInfo struct {
+	Files      []string  `json:"files"`
+	SHA256     []string  `json:"sha256"` // SHA256[i] is the hex digest of Files[i]
+	PointsRead int       `json:"points_read"`
+	PointsUsed int       `json:"points_used"`
+	Dropped    []Dropped `json:"dropped"`
+}
+
+// Dropped is one input point that did not make it into the section.
+type Dropped struct {
+	File   string `json:"file"`
+	Line   int    `json:"line"`
+	Entity int    `json:"entity,omitempty"`
+	Reason string `json:"reason"`
+}
+
+// Frame maps the normalised section back to the part, in input units:
+// chord, twist (degrees, positive nose-up), the leading edge in input
+// coordinates, and whether the section was mirrored to bring it into the
+// normalised frame. Methods that apply it live beside the normalisation code.
+type Frame struct {
+	Chord    float64    `json:"chord"`
+	TwistDeg float64    `json:"twist_deg"`
+	LE       [2]float64 `json:"le"`
+	Mirrored bool       `json:"mirrored"`
+	// Plane is set when the section was cut from or fitted to 3D data: the
+	// section's 2D input coordinates (u, v) are Origin + u·U + v·V in space.
+	Plane *Plane `json:"plane,omitempty"`
+}
+
+// Plane is a plane in space with an orthonormal in-plane basis U, V and unit
+// normal N = U × V, in input units.
+type Plane struct {
+	Origin [3]float64 `json:"origin"`
+	U      [3]float64 `json:"u"`
+	V      [3]float64 `json:"v"`
+	N      [3]float64 `json:"normal"`
+}
+
+// FitSummary reports how far the fitted curve departs from the kept input
+// points, in input units.
+type FitSummary struct {
+	Method string  `json:"method"`
+	RMS    float64 `json:"rms"`
+	Max    float64 `json:"max"`
+	MaxAt  string  `json:"max_at"` // origin of the worst point, "file:line"
+}
+
+// TrailingEdge reports the kind of trailing edge found and what was done to it.
+type TrailingEdge struct {
+	Kind      string  `json:"kind"`      // sharp | blunt | rounded | open
+	Thickness float64 `json:"thickness"` // chord units
+	Action    string  `json:"action"`    // kept | closed | sharpened
+	MaxShift  float64 `json:"max_shift"` // input units
+}
+
+// PanelSummary describes the panel distribution of the nodes.
+type PanelSummary struct {
+	Count      int     `json:"count"`
+	Spacing    string  `json:"spacing"`
+	MaxRatio   float64 `json:"max_ratio"`
+	MaxTurnDeg float64 `json:"max_turn_deg"`
+}
+
+// Properties are the geometric properties of a normalised section, in chord
+// units.
+type Properties struct {
+	Thickness   float64    `json:"thickness"`
+	ThicknessAt float64    `json:"thickness_at"`
+	Camber      float64    `json:"camber"`
+	CamberAt    float64    `json:"camber_at"`
+	LERadius    float64    `json:"le_radius"`
+	TEAngleDeg  float64    `json:"te_angle_deg"`
+	Area        float64    `json:"area"`
+	Centroid    [2]float64 `json:"centroid"`
+	Ixx         float64    `json:"ixx"`
+	Iyy         float64    `json:"iyy"`
+	Ixy         float64    `json:"ixy"`
+	Perimeter   float64    `json:"perimeter"`
+}
+
+// MarshalJSON writes p as [x, y].
+func (p Point) MarshalJSON() ([]byte, error) {
+	if !p.IsFinite() {
+		return nil, fmt.Errorf("geometry: cannot write non-finite point (%g, %g)", p.X, p.Y)
+	}
+	return json.Marshal([2]float64{p.X, p.Y})
+}
+
+// UnmarshalJSON reads p from [x, y].
+func (p *Point) UnmarshalJSON(b []byte) error {
+	var a []float64
+	if err := json.Unmarshal(b, &a); err != nil {
+		return err
+	}
+	if len(a) != 2 {
+		return fmt.Errorf("want [x, y], got %d number(s)", len(a))
+	}
+	p.X, p.Y = a[0], a[1]
+	return nil
+}
+
+// ErrNotSection means a document is not a section document.
+var ErrNotSection = errors.New("not a foilwright section document")
+
+// ReadSection decodes a section document from r. name is used in errors. It
+// accepts any document with a "format" of SectionFormat and "nodes"; it
+// returns an error wrapping ErrNotSection otherwise, and a *ParseError for
+// malformed JSON or non-finite nodes.
+func ReadSection(r io.Reader, name string) (*Section, error) {
+	data, err := io.ReadAll(r)
+	if err != nil {
+		return nil, &ParseError{File: name, Err: err}
+	}
+	var s Section
+	if err := json.Unmarshal(data, &s); err != nil {
+		line := 0
+		var se *json.SyntaxError
+		if errors.As(err, &se) {
+			line = lineOf(data, se.Offset)
+		}
+		var te *json.UnmarshalTypeError
+		if errors.As(err, &te) {
+			line = lineOf(data, te.Offset)
+		}
+		return nil, &ParseError{File: name, Line: line, Err: fmt.Errorf("%w: %v", ErrNotSection, err)}
+	}
+	if s.Format != SectionFormat {
+		return nil, &ParseError{File: name, Err: fmt.Errorf("%w: format %q, want %q", ErrNotSection, s.Format, SectionFormat)}
+	}
+	if s.Nodes == nil {
+		return nil, &ParseError{File: name, Err: fmt.Errorf("%w: no \"nodes\"", ErrNotSection)}
+	}
+	for i, p := range s.Nodes {
+		if !p.IsFinite() || math.IsNaN(p.X) {
+			return nil, &ParseError{File: name, Err: fmt.Errorf("node %d: %w", i, ErrNonFinite)}
+		}
+	}
+	return &s, nil
+}
+
+// WriteSection encodes s to w as indented JSON followed by a newline. The
+// output is deterministic: the same section gives the same bytes.
+func WriteSection(w io.Writer, s *Section) error {
+	if s.Format == "" {
+		s.Format = SectionFormat
+	}
+	b, err := json.MarshalIndent(s, "", "  ")
+	if err != nil {
+		return fmt.Errorf("geometry: write section: %w", err)
+	}
+	b = append(b, '\n')
+	_, err = w.Write(b)
+	return err
+}
+
+// lineOf returns the 1-based line of byte offset off in data.
+func lineOf(data []byte, off int64) int {
+	line := 1
+	for i := int64(0); i < off && i < int64(len(data)); i++ {
+		if data[i] == '\n' {
+			line++
+		}
+	}
+	return line
+}
