@@ -77,7 +77,11 @@ type Cloud struct {
 	// single loop (a coordinate listing or a polyline), so the order is
 	// meaningful and should be kept.
 	Ordered bool
-	Notes   []Note // lines skipped, with reasons
+	// Segments holds the start index of each ordered run of points (a DXF
+	// polyline, a loop cut from a mesh) when Ordered is set and the file
+	// has more than one run; nil means a single run.
+	Segments []int
+	Notes    []Note // lines skipped, with reasons
 }
 
 // Len returns the number of points in c.
