@@ -5,4 +5,4 @@
 set -euo pipefail
 cd "$(dirname "$0")/.."
 pattern=${1:-.}
-go test -run '^$' -bench "$pattern" -benchmem -benchtime=${BENCHTIME:-1x} -count=1 ./... 2>&1 | tee /tmp/foilwright-bench.txt | go run ./internal/benchratio
+go test -run '^$' -bench "$pattern" -benchmem -benchtime=${BENCHTIME:-1s} -count=1 ./... 2>&1 | tee /tmp/foilwright-bench.txt | go run ./internal/benchratio
