@@ -14,7 +14,7 @@ import (
 // practice).
 func TestDistributeFlatPlateCosine(t *testing.T) {
 	const tol = 1e-14
-	for _, n := range []int{16, 40, 160, 2000} {
+	for _, n := range []int{16, 17, 40, 160, 161, 2000} {
 		nodes, err := Distribute(plate{}, 1, Options{Panels: n})
 		if err != nil {
 			t.Fatal(err)
@@ -22,15 +22,49 @@ func TestDistributeFlatPlateCosine(t *testing.T) {
 		if len(nodes) != n+1 {
 			t.Fatalf("n=%d: %d nodes, want %d", n, len(nodes), n+1)
 		}
-		half := n / 2
+		_, le, _ := Stations(plate{}, 1, Options{Panels: n})
+		if want := (n + 1) / 2; le != want {
+			t.Fatalf("n=%d: leading edge at node %d, want %d", n, le, want)
+		}
 		for i, p := range nodes {
-			k := half - i // upper surface: from the TE (k = half) to the LE (k = 0)
-			if i > half {
-				k = i - half // lower surface
+			// Upper surface: k from le at the TE down to 0 at the LE;
+			// lower surface: k from 1 to n − le.
+			k, m := le-i, le
+			if i > le {
+				k, m = i-le, n-le
 			}
-			want := (1 - math.Cos(math.Pi*float64(k)/float64(half))) / 2
+			want := (1 - math.Cos(math.Pi*float64(k)/float64(m))) / 2
 			if !scalar.EqualWithinAbs(p.X, want, tol) || p.Y != 0 {
 				t.Errorf("n=%d node %d: (%v, %v), want (%v, 0)", n, i, p.X, p.Y, want)
+			}
+		}
+	}
+}
+
+// The laws do not depend on the units of the path: the same section in
+// millimetres (chord 1000) gets the same nodes, scaled. The curvature floor
+// ε = 1/ℓ scales with the curvature.
+func TestDistributeScaleFree(t *testing.T) {
+	const tol = 1e-9 // relative to the chord; round-off through the inversion
+	p, sle := naca0012()
+	pts := make([]geometry.Point, len(p.pts))
+	for i, q := range p.pts {
+		pts[i] = q.Scale(1000)
+	}
+	mm := newPolyline(pts)
+	for _, law := range Laws {
+		o := Options{Panels: 120, Spacing: law, LECluster: 0.5}
+		a, err := Distribute(p, sle, o)
+		if err != nil {
+			t.Fatal(err)
+		}
+		b, err := Distribute(mm, mm.cum[2000], o)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for i := range a {
+			if d := a[i].Dist(b[i].Scale(1e-3)); d > tol {
+				t.Errorf("%s: node %d differs by %g chord in millimetres", law, i, d)
 			}
 		}
 	}

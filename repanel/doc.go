@@ -63,7 +63,7 @@
 // # Quality limits
 //
 // Measure warns when neighbouring panels differ in length by more than
-// RatioLimit (3.5; plain cosine spacing has 3 at its ends), when the surface
+// RatioLimit (3.5; plain cosine spacing has just under 3 at its ends), when the surface
 // turns more than TurnLimitDeg (15°) between neighbouring panels, and when
 // a panel is shorter than ShortLimit (1e-7) times the perimeter. These are
 // judgement values of common practice.

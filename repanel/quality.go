@@ -12,14 +12,17 @@ import (
 // quiet on ordinary sections and the usual trouble does not:
 //
 //   - RatioLimit bounds the length ratio of neighbouring panels. Cosine
-//     spacing itself has a ratio of exactly 3 between the first and second
+//     spacing itself has a ratio just under 3 between the first and second
 //     panel at each clustered end, since (1 − cos 2h)/(1 − cos h) → 4 as
 //     h → 0; the limit sits just above it, so only laws or clustering
 //     strengths that grow panels faster than plain cosine spacing warn.
 //   - TurnLimitDeg bounds the turn of the surface between neighbouring
-//     panels, in degrees: coarser panels misrepresent the nose.
+//     panels, in degrees: coarser panels misrepresent the nose. Cosine
+//     spacing with 160 panels on a NACA 0012 turns at most about 10°;
+//     uniform spacing with 160 panels turns about 43° at its nose.
 //   - ShortLimit bounds the shortest panel relative to the whole perimeter:
-//     shorter panels make panel-method influence matrices badly conditioned.
+//     shorter panels usually come from near-duplicate nodes or extreme
+//     clustering and add round-off rather than resolution.
 const (
 	RatioLimit   = 3.5
 	TurnLimitDeg = 15.0
@@ -42,12 +45,18 @@ type Quality struct {
 // and left out of the ratio and the turn. Measure warns when MaxRatio
 // exceeds RatioLimit, MaxTurnDeg exceeds TurnLimitDeg, or a panel is shorter
 // than ShortLimit times the perimeter; and when fewer than 2 nodes are
-// given, in which case every figure is zero.
+// given or a node is NaN or infinite, in which case every figure is zero.
 func Measure(nodes []geometry.Point) Quality {
 	var q Quality
 	if len(nodes) < 2 {
 		q.Warnings = append(q.Warnings, fmt.Sprintf("%d node(s): need at least 2 to form a panel", len(nodes)))
 		return q
+	}
+	for i, p := range nodes {
+		if !p.IsFinite() {
+			q.Warnings = append(q.Warnings, fmt.Sprintf("node %d (%g, %g) is not finite", i, p.X, p.Y))
+			return q
+		}
 	}
 	n := len(nodes) - 1
 	lens := make([]float64, n)

@@ -67,6 +67,11 @@ func TestMeasure(t *testing.T) {
 			warn:  []string{"1 node(s)"},
 		},
 		{
+			name:  "NaN node",
+			nodes: []geometry.Point{pt(0, 0), pt(math.NaN(), 0), pt(1, 1)},
+			warn:  []string{"node 1 (NaN, 0) is not finite"},
+		},
+		{
 			name:  "one panel",
 			nodes: []geometry.Point{pt(0, 0), pt(3, 4)},
 			min:   5, max: 5,
