@@ -40,7 +40,8 @@ var (
 	ErrOptionRange = errors.New("repanel: option out of range")
 	// ErrPath means the path or the leading-edge arc length cannot be used:
 	// a length that is not positive and finite, a leading edge not strictly
-	// inside the path, or a curvature that is NaN or infinite.
+	// inside the path, a point or a curvature that is NaN or infinite, or a
+	// surface too short to hold its panels in floating point.
 	ErrPath = errors.New("repanel: unusable path")
 )
 
@@ -119,6 +120,9 @@ func Distribute(p geometry.Path, sLE float64, opts Options) ([]geometry.Point, e
 	nodes := make([]geometry.Point, len(ss))
 	for i, s := range ss {
 		nodes[i] = p.At(s)
+		if !nodes[i].IsFinite() {
+			return nil, fmt.Errorf("%w: point (%g, %g) at arc length %g is not finite", ErrPath, nodes[i].X, nodes[i].Y, s)
+		}
 	}
 	return nodes, nil
 }

@@ -184,12 +184,36 @@ func TestDistributeErrors(t *testing.T) {
 		{"LE NaN", plate{}, math.NaN(), Options{}, ErrPath},
 		{"zero length", circle{r: 0}, 0, Options{}, ErrPath},
 		{"NaN curvature", nanPath{}, 1, Options{Spacing: LawCurvature}, ErrPath},
+		{"curvature spike at weight 1", spikePath{}, 1, Options{Spacing: LawCurvature, CurvatureWeight: 1}, ErrPath},
+		{"NaN point", nanPoint{}, 1, Options{}, ErrPath},
+		{"tiny upper surface", plate{}, 5e-324, Options{}, ErrPath},
 	} {
 		nodes, err := Distribute(tc.p, tc.sLE, tc.o)
 		if !errors.Is(err, tc.want) || nodes != nil {
 			t.Errorf("%s: %d nodes, error %v; want %v", tc.name, len(nodes), err, tc.want)
 		}
 	}
+}
+
+// spikePath is a flat plate whose curvature peaks at 1e80 over the first
+// tenth of the lower surface.
+type spikePath struct{ plate }
+
+func (spikePath) Curvature(s float64) float64 {
+	if s > 1 && s < 1.1 {
+		return 1e80
+	}
+	return 0
+}
+
+// nanPoint is a flat plate whose points are NaN past the leading edge.
+type nanPoint struct{ plate }
+
+func (nanPoint) At(s float64) geometry.Point {
+	if s > 1 {
+		return geometry.Point{X: math.NaN()}
+	}
+	return plate{}.At(s)
 }
 
 // Raising LECluster shrinks the leading-edge panels and raising TECluster

@@ -163,8 +163,9 @@ type Curvature struct {
 
 // Fractions returns the curvature-weighted fractions. It panics if n < 1,
 // Path is nil, From equals To, From or To is outside [0, Path.Length()],
-// Weight is outside [0, 1], or the curvature of Path is not finite between
-// From and To.
+// Weight is outside [0, 1], or the curvature of Path between From and To is
+// not finite or, at Weight 1, peaks so far above the rest (by some 30 orders
+// of magnitude) that the cumulative density cannot be inverted.
 func (c Curvature) Fractions(n int) []float64 {
 	ts, err := c.fractions(n)
 	if err != nil {
@@ -173,8 +174,9 @@ func (c Curvature) Fractions(n int) []float64 {
 	return ts
 }
 
-// errCurvature means a path reported a curvature that is NaN or infinite.
-var errCurvature = errors.New("curvature is NaN or infinite")
+// errCurvature means a path's curvature cannot be used: NaN, infinite, or so
+// uneven that the cumulative density cannot be inverted.
+var errCurvature = errors.New("unusable curvature")
 
 // fractions is Fractions with data-dependent failures returned as errors.
 func (c Curvature) fractions(n int) ([]float64, error) {
@@ -202,7 +204,7 @@ func (c Curvature) fractions(n int) ([]float64, error) {
 	density := func(t float64) (float64, error) {
 		k := c.Path.Curvature(c.From + t*(c.To-c.From))
 		if math.IsNaN(k) || math.IsInf(k, 0) {
-			return 0, fmt.Errorf("%w at arc length %g", errCurvature, c.From+t*(c.To-c.From))
+			return 0, fmt.Errorf("%w: %g at arc length %g", errCurvature, k, c.From+t*(c.To-c.From))
 		}
 		return math.Sqrt(eps + math.Abs(k)), nil
 	}
@@ -235,6 +237,13 @@ func (c Curvature) fractions(n int) ([]float64, error) {
 		phis[i] = (1-w)*taus[i] + w*ks[i]/total
 	}
 	phis[len(phis)-1] = 1
+	for i := 1; i < len(phis); i++ {
+		if !(phis[i] > phis[i-1]) {
+			// Only at w = 1, where a curvature peak many orders of magnitude
+			// above the rest leaves no resolvable density elsewhere.
+			return nil, fmt.Errorf("%w: curvature varies too widely for weight %g near arc length %g", errCurvature, w, c.From+ts[i]*(c.To-c.From))
+		}
+	}
 	var inv interp.FritschButland
 	if err := inv.Fit(phis, ts); err != nil {
 		return nil, err
