@@ -8,6 +8,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/repanel"
 )
 
 // shapeOptions are the flags shared by the analytic shapes.
@@ -64,14 +65,22 @@ uses the variant that closes it.`,
 				Units:        geometry.ChordUnit,
 				TrailingEdge: &geometry.TrailingEdge{Kind: kind, Thickness: thick, Action: "kept"},
 				LEIndex:      &le,
-				Panels:       &geometry.PanelSummary{Count: opts.panels, Spacing: "cosine"},
 				Nodes:        nodes,
 			}
+			setPanels(s, "cosine")
 			return writeShape(cmd.OutOrStdout(), opts, s)
 		},
 	}
 	cmd.Flags().BoolVar(&sharp, "sharp", false, "close the trailing edge (coefficient 0.1036 instead of 0.1015)")
 	return cmd
+}
+
+// setPanels records the panel count, spacing law and quality of s.Nodes,
+// and the quality warnings.
+func setPanels(s *geometry.Section, spacing string) {
+	q := repanel.Measure(s.Nodes)
+	s.Panels = &geometry.PanelSummary{Count: len(s.Nodes) - 1, Spacing: spacing, MaxRatio: q.MaxRatio, MaxTurnDeg: q.MaxTurnDeg}
+	s.Warnings = append(s.Warnings, q.Warnings...)
 }
 
 // checkPanels rejects a panel count outside 16 to 2000.
