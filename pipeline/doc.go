@@ -1,0 +1,43 @@
+// Package pipeline implements foilwright's reproducible pipeline file: it
+// parses and checks the file (every error names the key path and its
+// line:column), plans the work (inputs expanded, stages ordered by their
+// dependencies), runs each input section through the geometry chain and the
+// stages, and writes the run folder with its manifest. Verify re-runs a
+// manifest and reports every output that no longer matches byte for byte.
+//
+// # The pipeline file
+//
+// A pipeline file is a JSON object:
+//
+//	{
+//	  "foilwright": 1,
+//	  "name": "mast-rotor",
+//	  "inputs": [
+//	    {"name": "r040", "files": ["scan/blade.stl"], "cut": "z=240", "station": 240},
+//	    {"files": ["probe/*.csv"], "per_file": true, "columns": "2,3", "merge_tol": 0.02}
+//	  ],
+//	  "prepare": {"units": "mm", "panels": 160, "spacing": "cosine", "te": "auto"},
+//	  "stages": [
+//	    {"id": "vortex", "stage": "vortex-panel", "params": {"alpha_deg": [0, 4, 8]}},
+//	    {"id": "report", "stage": "./stages/report", "sha256": "…", "after": ["vortex"],
+//	     "on_error": "continue", "timeout_s": 30}
+//	  ],
+//	  "outputs": {"folder": "runs/mast-rotor", "documents": ["section", "nodes", "results"]}
+//	}
+//
+// Paths and globs are relative to the folder of the pipeline file. Each
+// input is one section made from all its files, or, with "per_file", one
+// section per matching file. "prepare" holds every prep option under its
+// pipeline key (see PrepSettings); an input may override the reading keys
+// (format, columns, units, cut, band, flat_tol). A stage sees the results of
+// the stages it lists in "after", and only those.
+//
+// # The run folder
+//
+// One subfolder per section, named after it, holding section.json,
+// nodes.dat, results/<stage-id>.json and the artifacts the stages returned
+// under plots/; manifest.json at the root. Every file is written atomically.
+// Two runs of the same pipeline over the same inputs with the same stages
+// give identical bytes in every file, except the "timings" field of the
+// manifest.
+package pipeline
