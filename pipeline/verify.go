@@ -241,4 +241,3 @@ func short(sum string) string {
 	}
 	return sum
 }
-
