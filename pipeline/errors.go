@@ -104,6 +104,8 @@ type collector struct {
 	file string
 	pos  *positions
 	errs ErrorList
+	// keyAt is the offset of the key whose value a wantObject visit is at.
+	keyAt int
 }
 
 // add records an error at byte offset off (negative: no position).

@@ -1,6 +1,7 @@
 package pipeline
 
 import (
+	"bytes"
 	"crypto/sha256"
 	"encoding/hex"
 	"encoding/json"
@@ -135,7 +136,7 @@ func Parse(data []byte, file string, opts ParseOptions) (*Pipeline, error) {
 		return nil, c.err()
 	}
 	root := gjson.ParseBytes(data)
-	root.Index = len(data) - len(root.Raw) // Parse leaves it 0 after leading blanks
+	root.Index = len(data) - len(bytes.TrimLeft(data, " \t\r\n")) // Parse leaves it 0 after leading blanks
 	sum := sha256.Sum256(data)
 	p := &Parser{c: c, opts: opts, p: &Pipeline{File: file, Dir: opts.Dir, SHA256: hex.EncodeToString(sum[:])}}
 	p.parse(root)
@@ -179,6 +180,27 @@ var (
 	inputKeys  = keySet("name", "files", "per_file", "station", "format", "columns", "units", "cut", "band", "flat_tol")
 	stageKeys  = keySet("id", "stage", "sha256", "params", "after", "on_error", "timeout_s")
 	outputKeys = keySet("folder", "documents", "plots")
+	// inputAllowed also admits the prepare keys an input may not set, so
+	// that they get a message of their own.
+	inputAllowed = func() map[string]bool {
+		m := keySet()
+		for k := range inputKeys {
+			m[k] = true
+		}
+		for _, k := range prepKeys {
+			m[k.name] = true
+		}
+		return m
+	}()
+	readingList = func() string {
+		var names []string
+		for _, k := range prepKeys {
+			if k.reading {
+				names = append(names, k.name)
+			}
+		}
+		return strings.Join(names, ", ")
+	}()
 	prepareSet = func() map[string]bool {
 		m := map[string]bool{}
 		for _, k := range prepKeys {
@@ -253,7 +275,13 @@ func (ps *Parser) inputs(v gjson.Result) {
 		n++
 		var spec InputSpec
 		vals := map[string]gjson.Result{}
-		if !c.wantObject(ipath, in, inputKeys, func(k, _ string, val gjson.Result) { vals[k] = val }) {
+		if !c.wantObject(ipath, in, inputAllowed, func(k, kpath string, val gjson.Result) {
+			if !inputKeys[k] {
+				c.add(c.keyAt, kpath, "%q cannot be set per input; set it in \"prepare\" (an input may set %s)", k, readingList)
+				return
+			}
+			vals[k] = val
+		}) {
 			return
 		}
 		// Reading overrides: the same keys and checks as in "prepare".
@@ -294,11 +322,16 @@ func (ps *Parser) inputs(v gjson.Result) {
 				c.add(in.Index, ipath, "section name %q made from the file name is not usable; give the input a \"name\"", name)
 				continue
 			}
-			if other, dup := names[name]; dup {
+			if strings.EqualFold(name, ManifestName) {
+				c.add(in.Index, ipath, "section name %q is the manifest's file name; give the input another \"name\"", name)
+				continue
+			}
+			// Folder names may not differ only in case (case-insensitive file systems).
+			if other, dup := names[strings.ToLower(name)]; dup {
 				c.add(in.Index, ipath, "section name %q is also made by %s; give each input its own \"name\"", name, other)
 				continue
 			}
-			names[name] = ipath
+			names[strings.ToLower(name)] = ipath
 		}
 	})
 	if v.IsArray() && n == 0 {
@@ -437,7 +470,18 @@ func (ps *Parser) stages(v gjson.Result) {
 		if val, ok := vals["id"]; !ok {
 			c.add(st.Index, ipath, `missing key "id"`)
 		} else if id, ok := c.wantString(ipath+".id", val, true); ok {
-			switch first, dup := ids[id]; {
+			first, dup := ids[id]
+			caseOf := ""
+			for other, off := range ids {
+				if !dup && strings.EqualFold(other, id) {
+					// results/<id>.json may not differ only in case.
+					first, dup, caseOf = off, true, other
+				}
+			}
+			switch {
+			case caseOf != "":
+				l, col := c.pos.at(first)
+				c.add(val.Index, ipath+".id", "stage id %q differs only in case from %q (at %d:%d)", id, caseOf, l, col)
 			case !safeName.MatchString(id):
 				c.add(val.Index, ipath+".id", "%q is not a usable stage id (letters, digits, '.', '_', '-'; up to 64, starting with a letter or digit)", id)
 			case dup:

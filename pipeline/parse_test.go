@@ -119,6 +119,10 @@ func TestParseInvalid(t *testing.T) {
 			"invalid-values.json:8:85: inputs[3].columns: mix of column numbers and names in \"x,2\"",
 			"invalid-values.json:9:5: inputs[4]: section name \"probe-probe-1\" is also made by inputs[3]; give each input its own \"name\"",
 			"invalid-values.json:9:72: inputs[4].columns: column \"x\" chosen twice",
+			"invalid-values.json:10:5: inputs[5]: section name \"PLANE\" is also made by inputs[2]; give each input its own \"name\"",
+			"invalid-values.json:10:53: inputs[5].panels: \"panels\" cannot be set per input; set it in \"prepare\" (an input may set format, columns, units, cut, band, flat_tol)",
+			"invalid-values.json:11:5: inputs[6]: section name \"manifest.json\" is the manifest's file name; give the input another \"name\"",
+			"invalid-values.json:13:64: stages[1].id: stage id \"Vortex\" differs only in case from \"vortex\" (at 13:21)",
 		}},
 	} {
 		t.Run(tc.file, func(t *testing.T) {

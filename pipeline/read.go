@@ -141,7 +141,8 @@ func (c *collector) wantInt(path string, v gjson.Result, lo, hi int) (int, bool)
 
 // wantObject checks that v is an object and walks its keys in order: it
 // reports duplicate keys and, when allowed is not nil, keys not in allowed,
-// at the key's position. visit is called once per distinct, allowed key.
+// at the key's position. visit is called once per distinct, allowed key,
+// with c.keyAt set to the key's offset.
 func (c *collector) wantObject(path string, v gjson.Result, allowed map[string]bool, visit func(key string, kpath string, val gjson.Result)) bool {
 	if !c.wantType(path, v, "object", v.IsObject()) {
 		return false
@@ -160,6 +161,7 @@ func (c *collector) wantObject(path string, v gjson.Result, allowed map[string]b
 			return true
 		}
 		if visit != nil {
+			c.keyAt = k.Index
 			visit(k.Str, kpath, val)
 		}
 		return true

@@ -461,13 +461,14 @@ func checkOutput(out StageOutput, id string, by map[string]string) error {
 		if !artifactName.MatchString(a.Name) {
 			return fmt.Errorf("the stage returned an artifact named %q (want a plain file name)", a.Name)
 		}
-		if other, ok := by[a.Name]; ok || names[a.Name] {
+		key := strings.ToLower(a.Name) // file names may not differ only in case
+		if other, ok := by[key]; ok || names[key] {
 			if !ok {
 				other = id
 			}
 			return fmt.Errorf("artifact %q is also returned by stage %q", a.Name, other)
 		}
-		names[a.Name] = true
+		names[key] = true
 	}
 	for n := range names {
 		by[n] = id

@@ -533,3 +533,26 @@ func TestNodesDat(t *testing.T) {
 		t.Errorf("got %q, want %q", got, want)
 	}
 }
+
+func TestSummaryWrite(t *testing.T) {
+	s := &Summary{Manifest: "out/manifest.json", Sections: []SectionReport{
+		{Name: "a", Status: StatusOK, Summary: "5 points\nchord 1"},
+		{Name: "b", Status: StatusFailed, Err: "prepare: b.dat:3: not a number"},
+		{Name: "c", Status: StatusPartial, Stages: []StageReport{{ID: "x", Status: "failed", Err: "boom"}, {ID: "y", Status: "skipped", Err: `runs after "x", which did not succeed`}}},
+	}}
+	var b strings.Builder
+	if err := s.Write(&b); err != nil {
+		t.Fatal(err)
+	}
+	want := `ok        a: 5 points; chord 1
+failed    b
+          prepare: b.dat:3: not a number
+partial   c
+          stage "x" failed: boom
+          stage "y" skipped: runs after "x", which did not succeed
+3 section(s): 1 ok, 1 partial, 1 failed; manifest out/manifest.json
+`
+	if b.String() != want {
+		t.Errorf("got\n%s\nwant\n%s", b.String(), want)
+	}
+}

@@ -144,3 +144,16 @@ func TestVerifyNotManifest(t *testing.T) {
 		t.Errorf("got %v, want ErrNotManifest", err)
 	}
 }
+
+func TestVerifyReportWrite(t *testing.T) {
+	r := &VerifyReport{Manifest: "m.json", Checked: 3,
+		Differences: []Difference{{Path: "a/x.json", Want: "11", Got: "22"}, {Path: "a/y.json", Want: "33"}},
+		Notes:       []string{"foilwright was 0.1.0, now 0.2.0"}}
+	var b strings.Builder
+	r.Write(&b)
+	want := "differs: a/x.json: want sha256 11, got 22\ndiffers: a/y.json: missing (want sha256 33)\n" +
+		"note: foilwright was 0.1.0, now 0.2.0\nnot reproduced: 2 of 3 output(s) differ, 0 section(s) changed\n"
+	if b.String() != want {
+		t.Errorf("got\n%s\nwant\n%s", b.String(), want)
+	}
+}
