@@ -14,7 +14,7 @@
 //	  "name": "mast-rotor",
 //	  "inputs": [
 //	    {"name": "r040", "files": ["scan/blade.stl"], "cut": "z=240", "station": 240},
-//	    {"files": ["probe/*.csv"], "per_file": true, "columns": "2,3", "merge_tol": 0.02}
+//	    {"files": ["probe/*.csv"], "per_file": true, "columns": "2,3", "units": "in"}
 //	  ],
 //	  "prepare": {"units": "mm", "panels": 160, "spacing": "cosine", "te": "auto"},
 //	  "stages": [
@@ -31,6 +31,31 @@
 // pipeline key (see PrepSettings); an input may override the reading keys
 // (format, columns, units, cut, band, flat_tol). A stage sees the results of
 // the stages it lists in "after", and only those.
+//
+// Stage keys: "id" (names results/<id>.json), "stage", "sha256" (pins an
+// executable), "params" (any object, handed to the stage as written),
+// "after", "on_error" ("stop", the default, fails the section; "continue"
+// records the failure and skips only the stages that run after it) and
+// "timeout_s". Output keys: "folder" (default runs/<name>), "documents"
+// (any of "section", "nodes", "results"; all by default) and "plots" (a
+// list of names, checked and recorded; artifacts the stages return are
+// always written).
+//
+// # Checks
+//
+// Parse reports every problem it finds, not only the first, each as
+// file:line:column: key path: reason — invalid JSON, unknown and duplicate
+// keys (also inside "params"), wrong types, values out of range, files and
+// globs that match nothing, duplicate or unknown stage ids, dependency
+// cycles, and stages that are neither built in nor an executable.
+//
+// # Running
+//
+// Run makes the sections with a Preparer and runs the stages through a
+// StageRunner, one per worker. A section that fails is reported with its
+// reason and does not touch the others. When the context is cancelled, the
+// sections already done keep their outputs, the one under way writes
+// nothing, and the manifest says the run was interrupted.
 //
 // # The run folder
 //

@@ -138,7 +138,7 @@ func Parse(data []byte, file string, opts ParseOptions) (*Pipeline, error) {
 	root := gjson.ParseBytes(data)
 	root.Index = len(data) - len(bytes.TrimLeft(data, " \t\r\n")) // Parse leaves it 0 after leading blanks
 	sum := sha256.Sum256(data)
-	p := &Parser{c: c, opts: opts, p: &Pipeline{File: file, Dir: opts.Dir, SHA256: hex.EncodeToString(sum[:])}}
+	p := &parser{c: c, opts: opts, p: &Pipeline{File: file, Dir: opts.Dir, SHA256: hex.EncodeToString(sum[:])}}
 	p.parse(root)
 	if err := c.err(); err != nil {
 		return nil, err
@@ -168,8 +168,8 @@ func (c *collector) syntaxError(data []byte) {
 	}
 }
 
-// Parser holds the state of one parse.
-type Parser struct {
+// parser holds the state of one parse.
+type parser struct {
 	c    *collector
 	opts ParseOptions
 	p    *Pipeline
@@ -224,7 +224,7 @@ var safeName = regexp.MustCompile(`^[A-Za-z0-9][A-Za-z0-9._-]{0,63}$`)
 
 var hexDigest = regexp.MustCompile(`^[0-9a-fA-F]{64}$`)
 
-func (ps *Parser) parse(root gjson.Result) {
+func (ps *parser) parse(root gjson.Result) {
 	c := ps.c
 	vals := map[string]gjson.Result{}
 	if !c.wantObject("", root, topKeys, func(k, _ string, v gjson.Result) { vals[k] = v }) {
@@ -259,7 +259,7 @@ func (ps *Parser) parse(root gjson.Result) {
 }
 
 // settings reads the "prepare" object.
-func (ps *Parser) settings(path string, v gjson.Result) PrepSettings {
+func (ps *parser) settings(path string, v gjson.Result) PrepSettings {
 	var s PrepSettings
 	ps.c.wantObject(path, v, prepareSet, func(k, kpath string, val gjson.Result) {
 		prepKeys[prepKeyIndex[k]].read(ps.c, kpath, val, &s)
@@ -267,7 +267,7 @@ func (ps *Parser) settings(path string, v gjson.Result) PrepSettings {
 	return s
 }
 
-func (ps *Parser) inputs(v gjson.Result) {
+func (ps *parser) inputs(v gjson.Result) {
 	c := ps.c
 	names := map[string]string{} // section name → path of the input that made it
 	n := 0
@@ -340,7 +340,7 @@ func (ps *Parser) inputs(v gjson.Result) {
 }
 
 // files expands the paths and globs of one input.
-func (ps *Parser) files(path string, v gjson.Result, spec *InputSpec) {
+func (ps *parser) files(path string, v gjson.Result, spec *InputSpec) {
 	c := ps.c
 	seen := map[string]bool{}
 	n := 0
@@ -399,7 +399,7 @@ func (ps *Parser) files(path string, v gjson.Result, spec *InputSpec) {
 }
 
 // abs resolves a path of the pipeline file.
-func (ps *Parser) abs(s string) string {
+func (ps *parser) abs(s string) string {
 	s = filepath.FromSlash(s)
 	if filepath.IsAbs(s) {
 		return filepath.Clean(s)
@@ -409,7 +409,7 @@ func (ps *Parser) abs(s string) string {
 
 // rel gives the recorded form of a file path: slash-separated and relative
 // to the pipeline's folder when it is inside it.
-func (ps *Parser) rel(p string) string {
+func (ps *parser) rel(p string) string {
 	base := ps.opts.Dir
 	if base == "" {
 		base = "."
@@ -445,7 +445,7 @@ func sectionNames(spec InputSpec) []string {
 	return names
 }
 
-func (ps *Parser) stages(v gjson.Result) {
+func (ps *parser) stages(v gjson.Result) {
 	c := ps.c
 	ids := map[string]int{} // id → offset of its first use
 	type afterRef struct {
@@ -578,7 +578,7 @@ func keysOf(m map[string]int) map[string]bool {
 
 // stageTarget resolves s.Stage to a built-in name or an executable and
 // checks its pin.
-func (ps *Parser) stageTarget(ipath string, val, pin gjson.Result, s *Stage) {
+func (ps *parser) stageTarget(ipath string, val, pin gjson.Result, s *Stage) {
 	c := ps.c
 	if pin.Exists() {
 		if d, ok := c.wantString(ipath+".sha256", pin, true); ok {
@@ -622,7 +622,7 @@ func (ps *Parser) stageTarget(ipath string, val, pin gjson.Result, s *Stage) {
 	}
 }
 
-func (ps *Parser) outputs(v gjson.Result) {
+func (ps *parser) outputs(v gjson.Result) {
 	c := ps.c
 	out := Outputs{Documents: []string{DocSection, DocNodes, DocResults}}
 	defer func() {
