@@ -288,3 +288,40 @@ func TestPositionsCountCharacters(t *testing.T) {
 		t.Errorf("got\n%v\nwant\n%s", err, want)
 	}
 }
+
+// TestTypedReaders covers the gjson conversions that succeed quietly on
+// the wrong type (PLUGINS.md §6, measured): each must be refused.
+func TestTypedReaders(t *testing.T) {
+	for _, tc := range []struct {
+		key, value, want string
+	}{
+		{"panels", `"160"`, `want integer, got string "160"`},
+		{"panels", `160.5`, `want integer, got 160.5`},
+		{"panels", `1e400`, `want an integer in [16, 2000], got 1e400`},
+		{"panels", `99999999999999999999`, `want an integer in [16, 2000], got 99999999999999999999`},
+		{"panels", `null`, `want integer, got null`},
+		{"panels", `1.6e2`, ``},
+		{"keep_outliers", `"yes"`, `want true or false, got string "yes"`},
+		{"keep_outliers", `1`, `want true or false, got 1`},
+		{"merge_tol", `"0.1"`, `want number, got string "0.1"`},
+		{"merge_tol", `-1e400`, `number -1e400 is out of range`},
+		{"merge_tol", `[0.1]`, `want number, got array`},
+		{"spacing", `{"law": "cosine"}`, `want one of "cosine", "half-cosine", "uniform", "curvature", got object`},
+		{"noise", `"auto"`, ``},
+		{"noise", `0`, ``},
+		{"le_at", `[1, "2"]`, `want number, got string "2"`},
+		{"columns", `""`, `must not be empty`},
+	} {
+		data := `{"foilwright": 1, "name": "t", "inputs": [{"files": ["points/r040.dat"]}], "prepare": {"` + tc.key + `": ` + tc.value + `}}`
+		_, err := Parse([]byte(data), "t.json", ParseOptions{Dir: "testdata"})
+		got := ""
+		if err != nil {
+			got = err.Error()
+			_, got, _ = strings.Cut(got, ": "+"prepare."+tc.key)
+			got = strings.TrimPrefix(strings.TrimPrefix(got, "[1]"), ": ")
+		}
+		if got != tc.want {
+			t.Errorf("%s: %s: got %q (%v), want %q", tc.key, tc.value, got, err, tc.want)
+		}
+	}
+}

@@ -127,16 +127,17 @@ func (c *collector) wantNumber(path string, v gjson.Result, r numRange) (float64
 
 // wantInt reads an integer within [lo, hi].
 func (c *collector) wantInt(path string, v gjson.Result, lo, hi int) (int, bool) {
-	if v.Type != gjson.Number || math.Trunc(v.Num) != v.Num || math.Abs(v.Num) > 1<<53 {
+	if v.Type != gjson.Number || math.Trunc(v.Num) != v.Num {
 		c.add(v.Index, path, "want integer, got %s", describe(v))
 		return 0, false
 	}
-	n := int(v.Num)
-	if n < lo || n > hi {
+	// gjson clamps big integers and turns 1e400 into +Inf: range-check the
+	// float before converting.
+	if v.Num < float64(lo) || v.Num > float64(hi) {
 		c.add(v.Index, path, "want an integer in [%d, %d], got %s", lo, hi, v.Raw)
 		return 0, false
 	}
-	return n, true
+	return int(v.Num), true
 }
 
 // wantObject checks that v is an object and walks its keys in order: it

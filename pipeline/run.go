@@ -111,8 +111,9 @@ type RunOptions struct {
 	// NewRunner gives each worker its own StageRunner. Required when the
 	// pipeline has stages.
 	NewRunner func() (StageRunner, error)
-	// Done, if set, is called after each section, from the worker that made
-	// it.
+	// Done, if set, is called after each section (also a cancelled one),
+	// from the worker that made it: calls may come from several goroutines
+	// at once.
 	Done func(SectionReport)
 }
 
