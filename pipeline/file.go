@@ -287,15 +287,17 @@ func (ps *parser) inputs(v gjson.Result) {
 		// Reading overrides: the same keys and checks as in "prepare".
 		for k, val := range vals {
 			if i, ok := prepKeyIndex[k]; ok && prepKeys[i].reading {
-				prepKeys[prepKeyIndex[k]].read(c, joinKey(ipath, k), val, &spec.Read)
+				prepKeys[i].read(c, joinKey(ipath, k), val, &spec.Read)
 			}
 		}
+		nameBad := false
 		if val, ok := vals["name"]; ok {
+			nameBad = true
 			if s, ok := c.wantString(ipath+".name", val, true); ok {
 				if !safeName.MatchString(s) {
 					c.add(val.Index, ipath+".name", "%q is not a usable section name (letters, digits, '.', '_', '-'; up to 64, starting with a letter or digit)", s)
 				} else {
-					spec.Name = s
+					spec.Name, nameBad = s, false
 				}
 			}
 		}
@@ -314,7 +316,7 @@ func (ps *parser) inputs(v gjson.Result) {
 		}
 		ps.files(ipath+".files", val, &spec)
 		ps.p.Inputs = append(ps.p.Inputs, spec)
-		if len(spec.Paths) == 0 {
+		if len(spec.Paths) == 0 || nameBad {
 			return
 		}
 		for _, name := range sectionNames(spec) {
