@@ -341,7 +341,7 @@ func (sv *Solver) Solve(alphas []float64) ([]Case, error) {
 // result computes the coefficients of one case from its solution vector.
 func (sv *Solver) result(alpha float64, v []float64) Case {
 	n := sv.n
-	c := Case{Alpha: alpha, Gamma: v[:n+1:n+1], Cp: make([]float64, n+1), sv: sv, x0: v}
+	c := Case{Alpha: alpha, Gamma: v[: n+1 : n+1], Cp: make([]float64, n+1), sv: sv, x0: v}
 	for k, g := range c.Gamma {
 		c.Cp[k] = 1 - g*g
 	}
