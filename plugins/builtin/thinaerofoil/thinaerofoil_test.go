@@ -186,8 +186,14 @@ func TestBadInput(t *testing.T) {
 	}{
 		{"lengths", xs, ycs[:19], ErrLengths},
 		{"few", xs[:7], ycs[:7], ErrTooFewSamples},
-		{"nan", func() []float64 { x, _ := bad(func(x, y []float64) ([]float64, []float64) { x[5] = math.NaN(); return x, y }); return x }(), ycs, ErrNonFinite},
-		{"order", func() []float64 { x, _ := bad(func(x, y []float64) ([]float64, []float64) { x[5], x[6] = x[6], x[5]; return x, y }); return x }(), ycs, ErrNotIncreasing},
+		{"nan", func() []float64 {
+			x, _ := bad(func(x, y []float64) ([]float64, []float64) { x[5] = math.NaN(); return x, y })
+			return x
+		}(), ycs, ErrNonFinite},
+		{"order", func() []float64 {
+			x, _ := bad(func(x, y []float64) ([]float64, []float64) { x[5], x[6] = x[6], x[5]; return x, y })
+			return x
+		}(), ycs, ErrNotIncreasing},
 		{"short", xs[:15], ycs[:15], ErrChordEnds},
 	} {
 		if _, err := New(tc.xs, tc.ycs); !errors.Is(err, tc.want) {
