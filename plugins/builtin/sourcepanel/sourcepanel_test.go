@@ -140,6 +140,21 @@ func TestNoLiftOnSections(t *testing.T) {
 	}
 }
 
+// A section squashed to a thickness of 1e-14 chord has nearly coincident
+// upper and lower panels: the matrix is numerically singular (measured
+// condition 1e15) and New must say so rather than return numbers.
+func TestIllConditioned(t *testing.T) {
+	nodes := geometry.NACA4{Thickness: 0.12, SharpTE: true}.Loop(20)
+	for i := range nodes {
+		nodes[i].Y *= 1e-13
+	}
+	_, err := New(nodes)
+	var ce *ConditionError
+	if !errors.Is(err, ErrIllConditioned) || !errors.As(err, &ce) || !(ce.Cond > MaxCondition) {
+		t.Errorf("err = %v, want a *ConditionError above %g", err, MaxCondition)
+	}
+}
+
 func TestBadInput(t *testing.T) {
 	good := circle(32)
 	open := append([]geometry.Point(nil), good[:32]...)
