@@ -35,7 +35,7 @@ func solve(t *testing.T, nodes []geometry.Point, alphas ...float64) (*Solver, []
 }
 
 // Exact: Cp = 1 − 4 sin²θ on a circular cylinder in a uniform stream
-// (Anderson, Fundamentals of Aerodynamics, §3.13), with θ measured from the
+// (Anderson, Fundamentals of Aerodynamics), with θ measured from the
 // free-stream direction.
 func TestCircularCylinder(t *testing.T) {
 	const (
@@ -69,7 +69,7 @@ func TestCircularCylinder(t *testing.T) {
 
 // Exact: the flow about a cylinder, w = V∞(e^{−iα} − R² e^{iα}/(z − z_c)²)
 // and ψ = Im(V∞(z′e^{−iα} + R² e^{iα}/z′)) with z′ = z − z_c (Anderson,
-// Fundamentals of Aerodynamics, §3.12).
+// Fundamentals of Aerodynamics).
 func TestCylinderField(t *testing.T) {
 	alpha := 10 * math.Pi / 180
 	_, cs := solve(t, circle(512), alpha)
