@@ -82,3 +82,25 @@ func TestFailedWriteKeepsOutput(t *testing.T) {
 		t.Errorf("earlier output changed to %q", got)
 	}
 }
+
+func TestShapeKarmanTrefftz(t *testing.T) {
+	out, stderr, code := runCLI(t, "shape", "karman-trefftz", "--centre", "-0.1,0.05", "--te-angle", "8", "--panels", "64")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	s, err := geometry.ReadSection(strings.NewReader(out), "stdout")
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Normalised: the trailing edge at (1, 0) closes the loop, the leading
+	// edge node is the one nearest the origin.
+	if len(s.Nodes) != 65 || s.Nodes[0] != s.Nodes[64] || s.Nodes[0].Dist(geometry.Point{X: 1}) > 1e-12 {
+		t.Errorf("nodes: %d, first %v, last %v", len(s.Nodes), s.Nodes[0], s.Nodes[64])
+	}
+	if _, _, code := runCLI(t, "shape", "kt", "--centre", "0.1,0"); code != exitUsage {
+		t.Errorf("centre inside the circle: exit %d, want %d", code, exitUsage)
+	}
+	if _, _, code := runCLI(t, "shape", "kt", "--centre", "x"); code != exitUsage {
+		t.Errorf("bad centre: exit %d, want %d", code, exitUsage)
+	}
+}

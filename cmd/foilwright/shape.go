@@ -3,6 +3,8 @@ package main
 import (
 	"fmt"
 	"io"
+	"math"
+	"strconv"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -29,7 +31,7 @@ as section documents: for tests, demos and as references for measured parts.`,
 	cmd.PersistentFlags().IntVar(&opts.panels, "panels", 160, "number of panels (nodes = panels + 1), 16 to 2000")
 	cmd.PersistentFlags().StringVarP(&opts.out, "out", "o", "-", "section document to write (- for stdout)")
 	cmd.PersistentFlags().StringVar(&opts.nodes, "nodes", "", "also write the plain node listing (name line, then x y) to this file")
-	cmd.AddCommand(newShapeNACA4Cmd(&opts))
+	cmd.AddCommand(newShapeNACA4Cmd(&opts), newShapeKarmanTrefftzCmd(&opts))
 	return cmd
 }
 
@@ -73,6 +75,74 @@ uses the variant that closes it.`,
 	}
 	cmd.Flags().BoolVar(&sharp, "sharp", false, "close the trailing edge (coefficient 0.1036 instead of 0.1015)")
 	return cmd
+}
+
+func newShapeKarmanTrefftzCmd(opts *shapeOptions) *cobra.Command {
+	var centre string
+	var teAngle float64
+	cmd := &cobra.Command{
+		Use:     "karman-trefftz",
+		Aliases: []string{"kt"},
+		Short:   "A Kármán–Trefftz section, whose potential flow is known exactly",
+		Long: `karman-trefftz writes the image of a circle under the Kármán–Trefftz map
+(Milne-Thomson, Theoretical Hydrodynamics, ch. 7), normalised to unit chord. The
+circle passes through ζ = 1; its centre (--centre, in the ζ-plane) sets the
+thickness (negative x) and camber (positive y); --te-angle sets the included
+trailing-edge angle (0 gives a Joukowski section with a cusp). Nodes are equally
+spaced in the circle angle, which clusters them at both edges.`,
+		Example: "  foilwright shape karman-trefftz --centre -0.08,0.06 --te-angle 12 -o kt.json",
+		Args:    cobra.NoArgs,
+		RunE: func(cmd *cobra.Command, args []string) error {
+			c, err := parsePair(centre)
+			if err != nil {
+				return badInputf("--centre %q: %v", centre, err)
+			}
+			if err := checkPanels(opts.panels); err != nil {
+				return err
+			}
+			kt := geometry.KarmanTrefftz{Centre: c, TEAngle: teAngle * math.Pi / 180}
+			nodes, err := kt.Normalized(opts.panels)
+			if err != nil {
+				return badInput(err)
+			}
+			le := 0
+			for i, p := range nodes {
+				if p.Norm() < nodes[le].Norm() {
+					le = i
+				}
+			}
+			s := &geometry.Section{
+				Format:       geometry.SectionFormat,
+				Name:         fmt.Sprintf("Karman-Trefftz centre (%g, %g), TE angle %g deg", c.X, c.Y, teAngle),
+				Units:        geometry.ChordUnit,
+				TrailingEdge: &geometry.TrailingEdge{Kind: "sharp", Action: "kept"},
+				LEIndex:      &le,
+				Nodes:        nodes,
+			}
+			setPanels(s, "circle-angle")
+			return writeShape(cmd.OutOrStdout(), opts, s)
+		},
+	}
+	cmd.Flags().StringVar(&centre, "centre", "-0.08,0.06", "circle centre X,Y in the mapping plane (circle through 1, 0)")
+	cmd.Flags().Float64Var(&teAngle, "te-angle", 10, "included trailing-edge angle (degrees, 0 to 180)")
+	return cmd
+}
+
+// parsePair parses "X,Y".
+func parsePair(s string) (geometry.Point, error) {
+	parts := strings.Split(s, ",")
+	if len(parts) != 2 {
+		return geometry.Point{}, fmt.Errorf("want X,Y")
+	}
+	var v [2]float64
+	for i, f := range parts {
+		x, err := strconv.ParseFloat(strings.TrimSpace(f), 64)
+		if err != nil || math.IsNaN(x) || math.IsInf(x, 0) {
+			return geometry.Point{}, fmt.Errorf("%q is not a finite number", f)
+		}
+		v[i] = x
+	}
+	return geometry.Point{X: v[0], Y: v[1]}, nil
 }
 
 // setPanels records the panel count, spacing law and quality of s.Nodes,
