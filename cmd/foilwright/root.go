@@ -64,6 +64,9 @@ from them.`,
 	root.CompletionOptions.HiddenDefaultCmd = false
 	for _, c := range []*cobra.Command{
 		newVersionCmd(),
+		newAnalyzeCmd(),
+		newStagesCmd(),
+		newStageServeCmd(),
 	} {
 		root.AddCommand(c)
 	}
