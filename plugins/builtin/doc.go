@@ -20,6 +20,13 @@
 // integrated surface pressure), cl_diff (Kutta–Joukowski Cl minus
 // cl_pressure), cd_pressure (pressure drag, zero in exact potential flow),
 // stagnation_x, and base_source for a blunt trailing edge.
+//
+// source-panel: scalars panels, condition and closure_max (the largest
+// closed-body source sum |Σλs/Σ|λ|s| over the cases); checks closure (the
+// source sum of the case, zero for exact closure) and cd_pressure. Its
+// lift is a discretisation figure (no circulation) that vanishes as panels
+// are added; the pressure is given at the panel midpoints. An open trailing
+// edge is closed by a straight base panel unless close_te is false.
 package builtin
 
 import (

@@ -2,7 +2,6 @@ package builtin
 
 import (
 	"context"
-	"errors"
 	"time"
 
 	"github.com/foilwright/foilwright/plugins/builtin/vortexpanel"
@@ -37,14 +36,14 @@ func (vortexPanel) Run(ctx context.Context, req stage.Request) (stage.Result, er
 	}
 	sv, err := vortexpanel.New(r.section.Nodes)
 	if err != nil {
-		return stage.Result{}, vortexError(err)
+		return stage.Result{}, panelError(err, vortexpanel.ErrIllConditioned)
 	}
 	if err := ctx.Err(); err != nil {
 		return stage.Result{}, err
 	}
 	cases, err := sv.Solve(r.alphas)
 	if err != nil {
-		return stage.Result{}, vortexError(err)
+		return stage.Result{}, panelError(err, vortexpanel.ErrIllConditioned)
 	}
 	tm := sv.Timings()
 	d := stage.NewResultDoc(vortexPanelInfo)
@@ -82,13 +81,4 @@ func (vortexPanel) Run(ctx context.Context, req stage.Request) (stage.Result, er
 		"solve":  tm.Solve,
 		"total":  time.Since(start),
 	})
-}
-
-// vortexError marks a solver error (the host adds the stage and section): an ill-conditioned system is
-// ErrDiverged, anything else is a property of the input.
-func vortexError(err error) error {
-	if errors.Is(err, vortexpanel.ErrIllConditioned) {
-		return stage.Diverged(err)
-	}
-	return stage.BadInput(err)
 }
