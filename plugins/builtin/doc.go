@@ -27,6 +27,13 @@
 // lift is a discretisation figure (no circulation) that vanishes as panels
 // are added; the pressure is given at the panel midpoints. An open trailing
 // edge is closed by a straight base panel unless close_te is false.
+//
+// thin-aerofoil: scalars cl_alpha (per radian), alpha_l0_deg, cm_c4 and
+// camber_samples; per case a0, a1, a2 (the Fourier coefficients A₀, A₁, A₂)
+// and x_cp (centre of pressure, chord fractions, where Cl ≠ 0), and the
+// load ΔCp along the chord instead of a surface pressure distribution. Its
+// timings are build (camber line from the nodes), factor (spline fit and
+// Fourier integrals) and solve.
 package builtin
 
 import (

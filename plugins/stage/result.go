@@ -38,6 +38,15 @@ type Case struct {
 	// closed-body source sum), as documented by the stage.
 	Checks map[string]float64 `json:"checks,omitempty"`
 	Cp     []CpPoint          `json:"cp,omitempty"`
+	// Load is the chordwise load distribution of a thin-section stage,
+	// ΔCp = Cp,lower − Cp,upper along the chord.
+	Load []LoadPoint `json:"load,omitempty"`
+}
+
+// LoadPoint is the load ΔCp = Cp,lower − Cp,upper at chord station x.
+type LoadPoint struct {
+	X   float64 `json:"x"`
+	DCp float64 `json:"dcp"`
 }
 
 // CpPoint is the pressure coefficient at a point of the section, in chord
@@ -112,6 +121,11 @@ func (c *Case) nonFinite() (string, bool) {
 	for i, p := range c.Cp {
 		if bad(p.X) || bad(p.Y) || bad(p.Cp) {
 			return fmt.Sprintf("cp point %d", i), true
+		}
+	}
+	for i, p := range c.Load {
+		if bad(p.X) || bad(p.DCp) {
+			return fmt.Sprintf("load point %d", i), true
 		}
 	}
 	return "", false
