@@ -11,6 +11,7 @@ import (
 
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/plugins/builtin"
+	"github.com/foilwright/foilwright/plugins/host"
 	"github.com/foilwright/foilwright/plugins/stage"
 )
 
@@ -240,5 +241,41 @@ func TestStageCommandByHand(t *testing.T) {
 	}
 	if out.Len() != 0 || !strings.Contains(errb.String(), "This binary is a plugin") {
 		t.Errorf("stdout %q, stderr %q", out.String(), errb.String())
+	}
+}
+
+// TestExternalStage runs a built-in through a wrapper script as an
+// external stage executable, pinned by its sha256.
+func TestExternalStage(t *testing.T) {
+	self, err := os.Executable()
+	if err != nil {
+		t.Fatal(err)
+	}
+	dir := t.TempDir()
+	script := filepath.Join(dir, "my-stage")
+	if err := os.WriteFile(script, []byte("#!/bin/sh\nexec \""+self+"\" __stage thin-aerofoil\n"), 0o755); err != nil {
+		t.Fatal(err)
+	}
+	sum, err := host.FileSHA256(script)
+	if err != nil {
+		t.Fatal(err)
+	}
+	sec := writeSection(t, dir, "4412", 30)
+	code, out, errs := run(t, "", "analyze", sec, "--stage", script, "--sha256", sum, "--alpha", "2")
+	if code != 0 || !strings.Contains(out, "thin-aerofoil") {
+		t.Fatalf("pinned external stage: exit %d\n%s%s", code, out, errs)
+	}
+	code, out, errs = run(t, "", "stages", "describe", script)
+	if code != 0 || !strings.Contains(out, "thin-aerofoil") || !strings.Contains(out, "alpha_l0_deg") {
+		t.Errorf("describe external: exit %d\n%s%s", code, out, errs)
+	}
+	wrong := strings.Repeat("0", 64)
+	code, _, errs = run(t, "", "analyze", sec, "--stage", script, "--sha256", wrong)
+	if code != exitUsage || !strings.Contains(errs, "sha256 of "+script+" is "+sum+", but "+wrong+" is pinned") {
+		t.Errorf("wrong pin: exit %d, %q", code, errs)
+	}
+	code, _, errs = run(t, "", "analyze", sec, "--stage", "vortex-panel", "--sha256", wrong)
+	if code != exitUsage || !strings.Contains(errs, "pins an external stage") {
+		t.Errorf("pin on a built-in: exit %d, %q", code, errs)
 	}
 }

@@ -4,6 +4,7 @@ import (
 	"context"
 	"os"
 	"testing"
+	"time"
 
 	"github.com/foilwright/foilwright/plugins/builtin"
 	"github.com/foilwright/foilwright/plugins/host"
@@ -80,4 +81,50 @@ func BenchmarkBatch(b *testing.B) {
 			}
 		}
 	})
+}
+
+// BenchmarkBatchRatio alternates an in-process and a subprocess batch in
+// every iteration, so that both see the same machine load, and reports
+// their times and ratio (subprocess / in process; target ≤ 1.25).
+func BenchmarkBatchRatio(b *testing.B) {
+	names := builtin.Names()
+	reqs := batchRequests(b)
+	stages := make([]stage.Stage, len(names))
+	h, err := host.New(host.Options{})
+	if err != nil {
+		b.Fatal(err)
+	}
+	defer h.Close()
+	runners := make([]*host.Runner, len(names))
+	for i, n := range names {
+		stages[i], _ = builtin.Lookup(n)
+		runners[i] = h.Runner(host.Builtin(n))
+		if _, err := runners[i].Describe(b.Context()); err != nil {
+			b.Fatal(err)
+		}
+	}
+	var in, sub time.Duration
+	for b.Loop() {
+		t0 := time.Now()
+		for i, req := range reqs {
+			res, err := stages[i%len(stages)].Run(context.Background(), req)
+			if err != nil {
+				b.Fatal(err)
+			}
+			if _, err := stage.DecodeResult(res.JSON); err != nil {
+				b.Fatal(err)
+			}
+		}
+		t1 := time.Now()
+		for i, req := range reqs {
+			if _, err := runners[i%len(runners)].Run(b.Context(), req); err != nil {
+				b.Fatal(err)
+			}
+		}
+		in += t1.Sub(t0)
+		sub += time.Since(t1)
+	}
+	b.ReportMetric(float64(in.Milliseconds())/float64(b.N), "inprocess-ms/batch")
+	b.ReportMetric(float64(sub.Milliseconds())/float64(b.N), "subprocess-ms/batch")
+	b.ReportMetric(float64(sub)/float64(in), "ratio")
 }
