@@ -109,6 +109,9 @@ func TestRunReusesProcess(t *testing.T) {
 	if fi, err := os.Stat(h.SocketDir()); err != nil || fi.Mode().Perm() != 0o700 {
 		t.Errorf("socket folder: %v, %v", fi.Mode(), err)
 	}
+	if ents, err := os.ReadDir(h.SocketDir()); err != nil || len(ents) == 0 {
+		t.Errorf("the stage's socket is not in the host's folder (%v)", err)
+	}
 	dir := h.SocketDir()
 	h.Close()
 	if !waitGone(pid, 2*time.Second) {
@@ -188,6 +191,7 @@ func TestStartFailures(t *testing.T) {
 		{"stdout before serve", host.Builtin("garbage"), host.ErrHandshake, "hello from init"},
 		{"version", host.Builtin("badversion"), host.ErrVersion, "Plugin version: 99"},
 		{"wrong name", host.Builtin("wrongname"), host.ErrHandshake, `describes itself as "not-wrongname"`},
+		{"bad description", host.Builtin("badinfo"), stage.ErrMalformed, `default: parameter "panels": want an integer, got 2.5`},
 		{"unknown builtin", host.Builtin("no-such-toy"), host.ErrHandshake, `unknown toy stage "no-such-toy"`},
 	} {
 		t.Run(tc.name, func(t *testing.T) {

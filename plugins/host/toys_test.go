@@ -156,6 +156,10 @@ func serveToy(name string) {
 			VersionedPlugins: map[int]plugin.PluginSet{99: stage.PluginMap(toys["echo"])},
 			GRPCServer:       sdk.GRPCServer,
 		})
+	case "badinfo":
+		t := toys["echo"]
+		t.params = []stage.Param{{Name: "panels", Type: stage.Integer, Default: json.RawMessage("2.5")}}
+		sdk.Serve(t)
 	case "wrongname":
 		t := toys["echo"]
 		t.name = "not-wrongname"
