@@ -19,9 +19,9 @@ import (
 //
 // References:
 //
-//	Milne-Thomson, L. M., Theoretical Hydrodynamics, 5th ed., Macmillan (1968), ch. 7.
+//	Milne-Thomson, L. M., Theoretical Hydrodynamics, 5th ed., Macmillan (1968).
 //	Katz, J. and Plotkin, A., Low-Speed Aerodynamics, 2nd ed., Cambridge
-//	University Press (2001), §6.7–6.8.
+//	University Press (2001), ch. 6.
 //
 // Far from the circle z ≈ ζ, so the free stream is the same in both planes;
 // the exact flow about the section follows from the flow about the circle.

@@ -8,7 +8,7 @@ import (
 )
 
 // For τ = 0 the Kármán–Trefftz map is the Joukowski map z = ζ + b²/ζ
-// (Milne-Thomson, Theoretical Hydrodynamics, ch. 7), evaluated here directly.
+// (Milne-Thomson, Theoretical Hydrodynamics), evaluated here directly.
 func TestKarmanTrefftzJoukowskiLimit(t *testing.T) {
 	const tol = 1e-12
 	k := KarmanTrefftz{Centre: Point{-0.1, 0.08}}
@@ -85,7 +85,7 @@ func TestKarmanTrefftzSymmetricAndNormalized(t *testing.T) {
 }
 
 // The map turns the smooth point ζ = b of the circle into a corner of
-// interior angle τ (Milne-Thomson, ch. 7): the angle between the two panels
+// interior angle τ (Milne-Thomson, Theoretical Hydrodynamics): the angle between the two panels
 // at the trailing edge tends to τ as the panels shrink.
 func TestKarmanTrefftzTrailingEdgeAngle(t *testing.T) {
 	for _, deg := range []float64{5, 15, 30} {

@@ -35,7 +35,7 @@ func solve(t *testing.T, nodes []geometry.Point, alphas ...float64) (*Solver, []
 }
 
 // Exact: Cp = 1 − 4 sin²θ on a circular cylinder in a uniform stream
-// (Anderson, Fundamentals of Aerodynamics, §3.13), with θ measured from the
+// (Anderson, Fundamentals of Aerodynamics), with θ measured from the
 // free-stream direction.
 func TestCircularCylinder(t *testing.T) {
 	const (
@@ -69,7 +69,7 @@ func TestCircularCylinder(t *testing.T) {
 
 // Exact: the flow about a cylinder, w = V∞(e^{−iα} − R² e^{iα}/(z − z_c)²)
 // and ψ = Im(V∞(z′e^{−iα} + R² e^{iα}/z′)) with z′ = z − z_c (Anderson,
-// Fundamentals of Aerodynamics, §3.12).
+// Fundamentals of Aerodynamics).
 func TestCylinderField(t *testing.T) {
 	alpha := 10 * math.Pi / 180
 	_, cs := solve(t, circle(512), alpha)
@@ -137,6 +137,21 @@ func TestNoLiftOnSections(t *testing.T) {
 			}
 			prev = c.Cl
 		}
+	}
+}
+
+// A section squashed to a thickness of 1e-14 chord has nearly coincident
+// upper and lower panels: the matrix is numerically singular (measured
+// condition 1e15) and New must say so rather than return numbers.
+func TestIllConditioned(t *testing.T) {
+	nodes := geometry.NACA4{Thickness: 0.12, SharpTE: true}.Loop(20)
+	for i := range nodes {
+		nodes[i].Y *= 1e-13
+	}
+	_, err := New(nodes)
+	var ce *ConditionError
+	if !errors.Is(err, ErrIllConditioned) || !errors.As(err, &ce) || !(ce.Cond > MaxCondition) {
+		t.Errorf("err = %v, want a *ConditionError above %g", err, MaxCondition)
 	}
 }
 

@@ -12,7 +12,7 @@ import (
 // ktExact is the exact potential flow about a Kármán–Trefftz section, from
 // the flow about its circle with the Kutta condition at ζ = b, carried over
 // by the conformal map (Milne-Thomson, Theoretical Hydrodynamics, 5th ed.,
-// 1968, ch. 6–7; Katz & Plotkin, Low-Speed Aerodynamics, 2nd ed., 2001, §6.7–6.8).
+// 1968; Katz & Plotkin, Low-Speed Aerodynamics, 2nd ed., 2001, ch. 6).
 // It works in the section's normalised frame: the free stream at α there is
 // at α + θ in the mapping plane, θ = arg(te − le).
 type ktExact struct {

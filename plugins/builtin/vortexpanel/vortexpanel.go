@@ -144,9 +144,10 @@ func (sv *Solver) mid(j int) (x, y float64) {
 
 // parallelMinPanels is the panel count from which the matrix build is split
 // across goroutines. Measured with BenchmarkBuild against
-// BenchmarkBuildSerial on the two shared cores of the development machine
-// (load about 4): splitting lost at 100 panels (0.64 ms against 0.32 ms) and
-// broke even from 200 on; on an idle machine the split rows halve the time.
+// BenchmarkBuildSerial on the two cores of the development machine, shared
+// with other jobs (load 4–7): at 100 panels splitting lost (0.64 ms against
+// 0.32 ms), at 200 it broke even, at 400 it gave 2.3 ms against 4.5 ms when
+// a core was free and nothing when none was.
 const parallelMinPanels = 300
 
 // buildWorkers returns the number of goroutines for the build of a

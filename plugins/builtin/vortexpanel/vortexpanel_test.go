@@ -132,6 +132,22 @@ func TestStagnation(t *testing.T) {
 	}
 }
 
+// A section squashed to a thickness of 1e-10 chord has nearly coincident
+// upper and lower panels: the matrix is numerically singular and New must
+// say so with the condition estimate (measured 2e12) rather than return
+// numbers.
+func TestIllConditioned(t *testing.T) {
+	nodes := geometry.NACA4{Thickness: 0.12, SharpTE: false}.Loop(20)
+	for i := range nodes {
+		nodes[i].Y *= 1e-9
+	}
+	_, err := New(nodes)
+	var ce *ConditionError
+	if !errors.Is(err, ErrIllConditioned) || !errors.As(err, &ce) || !(ce.Cond > MaxCondition) {
+		t.Errorf("err = %v, want a *ConditionError above %g", err, MaxCondition)
+	}
+}
+
 func TestBadInput(t *testing.T) {
 	good := naca(t, "0012", 20, true)
 	crossed := append([]geometry.Point(nil), good...)
