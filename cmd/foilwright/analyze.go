@@ -8,6 +8,7 @@ import (
 	"io"
 	"math"
 	"os"
+	"path/filepath"
 	"sort"
 	"strconv"
 	"strings"
@@ -41,7 +42,8 @@ func newAnalyzeCmd() *cobra.Command {
 		Long: `analyze runs a section document (written by prep) through one analysis stage, in
 a separate process, and prints a table of the cases: angle of attack, lift and
 quarter-chord moment coefficients and the stage's self-checks. With --json the
-result document is printed instead; -o writes it to a file.
+result document is printed instead; -o writes it to a file, and any files the
+stage returns (plots) beside it.
 
 Angles are in degrees, positive nose-up: a list "-4,0,4" or a range
 "start:stop:step" such as "-4:12:1" (stop included). SECTION "-" reads stdin.
@@ -120,6 +122,14 @@ func runAnalyze(ctx context.Context, stdin io.Reader, stdout, stderr io.Writer, 
 		if err := atomicfile.WriteBytes(opts.out, doc); err != nil {
 			return err
 		}
+		// Stages never write files; their artifacts go beside the result.
+		for _, a := range reply.Artifacts {
+			if err := atomicfile.WriteBytes(filepath.Join(filepath.Dir(opts.out), a.Name), a.Data); err != nil {
+				return err
+			}
+		}
+	} else if n := len(reply.Artifacts); n > 0 {
+		fmt.Fprintf(stderr, "note: the stage returned %d artifact(s); give -o to write them beside the result\n", n)
 	}
 	if opts.json {
 		_, err := stdout.Write(doc)
