@@ -65,6 +65,9 @@ from them.`,
 	for _, c := range []*cobra.Command{
 		newShapeCmd(),
 		newVersionCmd(),
+		newAnalyzeCmd(),
+		newStagesCmd(),
+		newStageServeCmd(),
 	} {
 		root.AddCommand(c)
 	}

@@ -1,0 +1,304 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"encoding/json"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"path/filepath"
+	"sort"
+	"strconv"
+	"strings"
+	"text/tabwriter"
+	"time"
+
+	"github.com/spf13/cobra"
+
+	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/internal/atomicfile"
+	"github.com/foilwright/foilwright/plugins/builtin"
+	"github.com/foilwright/foilwright/plugins/stage"
+)
+
+type analyzeOptions struct {
+	stage   string
+	sha256  string
+	alpha   string
+	params  string
+	json    bool
+	out     string
+	timings bool
+	host    hostFlags
+}
+
+func newAnalyzeCmd() *cobra.Command {
+	var opts analyzeOptions
+	cmd := &cobra.Command{
+		Use:   "analyze [flags] SECTION",
+		Short: "Run one section through one analysis stage",
+		Long: `analyze runs a section document (written by prep) through one analysis stage, in
+a separate process, and prints a table of the cases: angle of attack, lift and
+quarter-chord moment coefficients and the stage's self-checks. With --json the
+result document is printed instead; -o writes it to a file, and any files the
+stage returns (plots) beside it.
+
+Angles are in degrees, positive nose-up: a list "-4,0,4" or a range
+"start:stop:step" such as "-4:12:1" (stop included). SECTION "-" reads stdin.
+
+Results are inviscid estimates; check them against test data before relying
+on them.`,
+		Args: cobra.ExactArgs(1),
+		Example: `  foilwright analyze blade-r1.json --stage vortex-panel --alpha -4:12:1
+  foilwright analyze blade-r1.json --stage thin-aerofoil --alpha 0,2,4 --json
+  foilwright analyze blade-r1.json --stage source-panel -o results/source.json --timings`,
+		ValidArgsFunction: func(*cobra.Command, []string, string) ([]string, cobra.ShellCompDirective) {
+			return []string{"json"}, cobra.ShellCompDirectiveFilterFileExt
+		},
+		RunE: func(cmd *cobra.Command, args []string) error {
+			return runAnalyze(cmd.Context(), cmd.InOrStdin(), cmd.OutOrStdout(), cmd.ErrOrStderr(), args[0], opts, cmd.Flags().Changed("alpha"))
+		},
+	}
+	f := cmd.Flags()
+	f.StringVar(&opts.stage, "stage", "vortex-panel", "stage to run: a built-in name or the path of a stage executable")
+	f.StringVar(&opts.sha256, "sha256", "", "hex sha256 an external stage executable must have")
+	f.StringVar(&opts.alpha, "alpha", "0", `angles of attack (degrees): "a,b,c" or "start:stop:step"`)
+	f.StringVar(&opts.params, "params", "", `more stage parameters as a JSON object, e.g. '{"cp": false}'`)
+	f.BoolVar(&opts.json, "json", false, "print the result document instead of the table")
+	f.StringVarP(&opts.out, "output", "o", "", "write the result document to this file")
+	f.BoolVar(&opts.timings, "timings", false, "print the solver's build, factor, solve and total times on stderr")
+	opts.host.register(cmd)
+	cmd.MarkFlagFilename("output", "json")
+	cmd.RegisterFlagCompletionFunc("stage", func(*cobra.Command, []string, string) ([]string, cobra.ShellCompDirective) {
+		return builtin.Names(), cobra.ShellCompDirectiveNoFileComp
+	})
+	return cmd
+}
+
+func runAnalyze(ctx context.Context, stdin io.Reader, stdout, stderr io.Writer, path string, opts analyzeOptions, alphaSet bool) error {
+	spec, err := stageSpec(opts.stage, opts.sha256)
+	if err != nil {
+		return err
+	}
+	params, err := analyzeParams(opts, alphaSet)
+	if err != nil {
+		return err
+	}
+	data, name, err := readSectionFile(stdin, path)
+	if err != nil {
+		return err
+	}
+	sec, err := geometry.ReadSection(bytes.NewReader(data), name)
+	if err != nil {
+		return badInput(err)
+	}
+
+	h, err := opts.host.newHost(stderr)
+	if err != nil {
+		return err
+	}
+	defer h.Close()
+	reply, err := h.Runner(spec).Run(ctx, stage.Request{Section: data, Params: params, SectionName: name})
+	if err != nil {
+		return stageError(err)
+	}
+
+	for _, w := range reply.Doc.Warnings {
+		fmt.Fprintf(stderr, "warning: %s\n", w)
+	}
+	for _, w := range reply.Warnings {
+		fmt.Fprintf(stderr, "warning: %s\n", w)
+	}
+	if opts.timings {
+		printTimings(stderr, reply.Timings)
+	}
+	doc := reply.JSON
+	if !bytes.HasSuffix(doc, []byte("\n")) {
+		doc = append(doc, '\n')
+	}
+	if opts.out != "" {
+		if err := atomicfile.WriteBytes(opts.out, doc); err != nil {
+			return err
+		}
+		// Stages never write files; their artifacts go beside the result.
+		for _, a := range reply.Artifacts {
+			if err := atomicfile.WriteBytes(filepath.Join(filepath.Dir(opts.out), a.Name), a.Data); err != nil {
+				return err
+			}
+		}
+	} else if n := len(reply.Artifacts); n > 0 {
+		fmt.Fprintf(stderr, "note: the stage returned %d artifact(s); give -o to write them beside the result\n", n)
+	}
+	if opts.json {
+		_, err := stdout.Write(doc)
+		return err
+	}
+	return printCases(stdout, name, sec, reply.Doc)
+}
+
+// readSectionFile reads the section file path, or stdin for "-", whole
+// (before any stage starts: go-plugin hands stdin to the stage process).
+func readSectionFile(stdin io.Reader, path string) ([]byte, string, error) {
+	if path == "-" {
+		data, err := io.ReadAll(stdin)
+		if err != nil {
+			return nil, "", badInputf("stdin: %v", err)
+		}
+		return data, "stdin", nil
+	}
+	data, err := os.ReadFile(path)
+	if err != nil {
+		return nil, "", badInput(err)
+	}
+	return data, path, nil
+}
+
+// analyzeParams builds the stage's parameter object from --params and
+// --alpha.
+func analyzeParams(opts analyzeOptions, alphaSet bool) ([]byte, error) {
+	params := map[string]json.RawMessage{}
+	if strings.TrimSpace(opts.params) != "" {
+		dec := json.NewDecoder(strings.NewReader(opts.params))
+		if err := dec.Decode(&params); err != nil || params == nil || dec.More() {
+			return nil, badInputf("--params %q: want a JSON object", opts.params)
+		}
+	}
+	if _, given := params["alpha_deg"]; given && alphaSet {
+		return nil, badInputf("--alpha and --params both set alpha_deg")
+	}
+	if _, given := params["alpha_deg"]; !given {
+		alphas, err := parseAngles(opts.alpha)
+		if err != nil {
+			return nil, badInputf("--alpha %q: %v", opts.alpha, err)
+		}
+		b, err := json.Marshal(alphas)
+		if err != nil {
+			return nil, err
+		}
+		params["alpha_deg"] = b
+	}
+	return json.Marshal(params)
+}
+
+// maxAngles is the most angles --alpha may give.
+const maxAngles = builtin.MaxAngles
+
+// parseAngles reads "a,b,c" or "start:stop:step" (stop included when the
+// steps reach it) in degrees. Every angle must be finite and within
+// [-90, 90].
+func parseAngles(s string) ([]float64, error) {
+	num := func(f string) (float64, error) {
+		x, err := strconv.ParseFloat(strings.TrimSpace(f), 64)
+		if err != nil || math.IsNaN(x) || math.IsInf(x, 0) {
+			return 0, fmt.Errorf("%q is not a number", strings.TrimSpace(f))
+		}
+		return x, nil
+	}
+	var out []float64
+	if parts := strings.Split(s, ":"); len(parts) > 1 {
+		if len(parts) != 3 {
+			return nil, fmt.Errorf("a range is start:stop:step, got %d field(s)", len(parts))
+		}
+		var v [3]float64
+		for i, p := range parts {
+			x, err := num(p)
+			if err != nil {
+				return nil, err
+			}
+			v[i] = x
+		}
+		start, stop, step := v[0], v[1], v[2]
+		if step == 0 || (stop-start)*step < 0 {
+			return nil, fmt.Errorf("step %g does not lead from %g to %g", step, start, stop)
+		}
+		// Count the steps once, allowing for rounding in (stop-start)/step,
+		// and compute each angle from its index so errors do not add up.
+		n := math.Floor((stop-start)/step + 1e-9)
+		if n+1 > maxAngles {
+			return nil, fmt.Errorf("%g angles, at most %d allowed", n+1, maxAngles)
+		}
+		for i := 0; i <= int(n); i++ {
+			out = append(out, start+float64(i)*step)
+		}
+	} else {
+		for _, f := range strings.Split(s, ",") {
+			x, err := num(f)
+			if err != nil {
+				return nil, err
+			}
+			out = append(out, x)
+		}
+		if len(out) > maxAngles {
+			return nil, fmt.Errorf("%d angles, at most %d allowed", len(out), maxAngles)
+		}
+	}
+	for _, a := range out {
+		if math.Abs(a) > 90 {
+			return nil, fmt.Errorf("angle %g is outside [-90, 90] degrees", a)
+		}
+	}
+	return out, nil
+}
+
+// printTimings prints the stage's phase times, in a fixed order.
+func printTimings(w io.Writer, t map[string]time.Duration) {
+	for _, k := range []string{"build", "factor", "solve", "total"} {
+		if d, ok := t[k]; ok {
+			fmt.Fprintf(w, "%s %.3f ms\n", k, float64(d)/float64(time.Millisecond))
+		}
+	}
+}
+
+// printCases prints the scalars and a table of the cases.
+func printCases(w io.Writer, name string, sec *geometry.Section, doc *stage.ResultDoc) error {
+	title := sec.Name
+	if title == "" {
+		title = name
+	}
+	fmt.Fprintf(w, "%s: %s %s, %d nodes\n", title, doc.Stage, doc.Version, len(sec.Nodes))
+	keys := make([]string, 0, len(doc.Scalars))
+	for k := range doc.Scalars {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys)
+	for _, k := range keys {
+		fmt.Fprintf(w, "  %s = %.6g\n", k, doc.Scalars[k])
+	}
+	checkSet := map[string]bool{}
+	for _, c := range doc.Cases {
+		if c != nil {
+			for k := range c.Checks {
+				checkSet[k] = true
+			}
+		}
+	}
+	checks := make([]string, 0, len(checkSet))
+	for k := range checkSet {
+		checks = append(checks, k)
+	}
+	sort.Strings(checks)
+	tw := tabwriter.NewWriter(w, 0, 4, 2, ' ', tabwriter.AlignRight)
+	fmt.Fprint(tw, "alpha_deg\tcl\tcm_c4\t")
+	for _, k := range checks {
+		fmt.Fprintf(tw, "%s\t", k)
+	}
+	fmt.Fprintln(tw)
+	for i, c := range doc.Cases {
+		if c == nil {
+			fmt.Fprintf(tw, "case %d\tfailed\t(see warnings)\t\n", i)
+			continue
+		}
+		fmt.Fprintf(tw, "%.2f\t%.4f\t%.4f\t", c.AlphaDeg, c.CL, c.CMc4)
+		for _, k := range checks {
+			if v, ok := c.Checks[k]; ok {
+				fmt.Fprintf(tw, "%.3g\t", v)
+			} else {
+				fmt.Fprint(tw, "-\t")
+			}
+		}
+		fmt.Fprintln(tw)
+	}
+	return tw.Flush()
+}

@@ -1,0 +1,220 @@
+package main
+
+import (
+	"context"
+	"encoding/json"
+	"fmt"
+	"io"
+	"strings"
+	"text/tabwriter"
+
+	"github.com/spf13/cobra"
+
+	"github.com/foilwright/foilwright/plugins/builtin"
+	"github.com/foilwright/foilwright/plugins/host"
+	"github.com/foilwright/foilwright/plugins/stage"
+)
+
+func newStagesCmd() *cobra.Command {
+	cmd := &cobra.Command{
+		Use:   "stages",
+		Short: "List the built-in analysis stages",
+		Long: `stages lists the analysis stages built into foilwright. Each runs as a separate
+process; "stages describe" shows a stage's parameters, their defaults and ranges.`,
+		Args:    cobra.NoArgs,
+		Example: "  foilwright stages\n  foilwright stages describe vortex-panel",
+		RunE: func(cmd *cobra.Command, args []string) error {
+			return listStages(cmd.Context(), cmd.OutOrStdout())
+		},
+	}
+	cmd.AddCommand(newStagesDescribeCmd())
+	return cmd
+}
+
+func listStages(ctx context.Context, w io.Writer) error {
+	tw := tabwriter.NewWriter(w, 0, 4, 2, ' ', 0)
+	fmt.Fprintln(tw, "STAGE\tVERSION\tSUMMARY")
+	for _, name := range builtin.Names() {
+		s, _ := builtin.Lookup(name)
+		info, err := s.Describe(ctx)
+		if err != nil {
+			return err
+		}
+		fmt.Fprintf(tw, "%s\t%s\t%s\n", info.Name, info.Version, info.Summary)
+	}
+	return tw.Flush()
+}
+
+type describeOptions struct {
+	json   bool
+	sha256 string
+	host   hostFlags
+}
+
+func newStagesDescribeCmd() *cobra.Command {
+	var opts describeOptions
+	cmd := &cobra.Command{
+		Use:   "describe NAME|PATH",
+		Short: "Show a stage's parameters, defaults, ranges and scalars",
+		Long: `describe starts the stage as a child process and shows what it answers: its
+version, parameters (type, default, range, unit) and the scalars its results
+carry. NAME is a built-in stage; a PATH (containing a slash) is an external
+stage executable.`,
+		Args:    cobra.ExactArgs(1),
+		Example: "  foilwright stages describe thin-aerofoil\n  foilwright stages describe ./my-stage --sha256 3f1c...",
+		ValidArgsFunction: func(*cobra.Command, []string, string) ([]string, cobra.ShellCompDirective) {
+			return builtin.Names(), cobra.ShellCompDirectiveNoFileComp
+		},
+		RunE: func(cmd *cobra.Command, args []string) error {
+			return describeStage(cmd.Context(), cmd.OutOrStdout(), cmd.ErrOrStderr(), args[0], opts)
+		},
+	}
+	cmd.Flags().BoolVar(&opts.json, "json", false, "print the description as JSON")
+	cmd.Flags().StringVar(&opts.sha256, "sha256", "", "hex sha256 the external stage executable must have")
+	opts.host.register(cmd)
+	return cmd
+}
+
+// stageSpec turns a stage argument into a host.Spec: a path for anything
+// with a slash, else a built-in name, which must exist.
+func stageSpec(name, sha string) (host.Spec, error) {
+	if strings.ContainsRune(name, '/') {
+		return host.Spec{Path: name, SHA256: sha}, nil
+	}
+	if sha != "" {
+		return host.Spec{}, badInputf("--sha256 pins an external stage executable; %q is a built-in stage", name)
+	}
+	if _, ok := builtin.Lookup(name); !ok {
+		return host.Spec{}, badInputf("unknown stage %q (built-in stages: %s; an external stage is given by a path)", name, strings.Join(builtin.Names(), ", "))
+	}
+	return host.Builtin(name), nil
+}
+
+func describeStage(ctx context.Context, stdout, stderr io.Writer, name string, opts describeOptions) error {
+	spec, err := stageSpec(name, opts.sha256)
+	if err != nil {
+		return err
+	}
+	h, err := opts.host.newHost(stderr)
+	if err != nil {
+		return err
+	}
+	defer h.Close()
+	info, err := h.Runner(spec).Describe(ctx)
+	if err != nil {
+		return stageError(err)
+	}
+	if opts.json {
+		return writeInfoJSON(stdout, info)
+	}
+	return writeInfo(stdout, info)
+}
+
+func writeInfo(w io.Writer, info stage.Info) error {
+	fmt.Fprintf(w, "%s %s\n%s\n", info.Name, info.Version, info.Summary)
+	if info.MaxConcurrency > 0 {
+		fmt.Fprintf(w, "serves at most %d call(s) at once per process\n", info.MaxConcurrency)
+	}
+	fmt.Fprintln(w, "\nPARAMETERS")
+	tw := tabwriter.NewWriter(w, 0, 4, 2, ' ', 0)
+	if len(info.Params) == 0 {
+		fmt.Fprintln(tw, "  (none)")
+	} else {
+		fmt.Fprintln(tw, "  NAME\tTYPE\tDEFAULT\tRANGE\tUNIT\tDESCRIPTION")
+	}
+	for _, p := range info.Params {
+		def := "(required)"
+		if p.Default != nil {
+			def = string(p.Default)
+		}
+		unit := p.Unit
+		if unit == "" {
+			unit = "-"
+		}
+		fmt.Fprintf(tw, "  %s\t%s\t%s\t%s\t%s\t%s\n", p.Name, p.Type, def, paramRange(p), unit, p.Doc)
+	}
+	if err := tw.Flush(); err != nil {
+		return err
+	}
+	fmt.Fprintln(w, "\nSCALARS")
+	tw = tabwriter.NewWriter(w, 0, 4, 2, ' ', 0)
+	if len(info.Scalars) == 0 {
+		fmt.Fprintln(tw, "  (none)")
+	}
+	for _, s := range info.Scalars {
+		fmt.Fprintf(tw, "  %s\t%s\n", s.Name, s.Doc)
+	}
+	return tw.Flush()
+}
+
+// paramRange says which values a parameter accepts.
+func paramRange(p stage.Param) string {
+	var parts []string
+	switch {
+	case p.Min != nil && p.Max != nil:
+		parts = append(parts, fmt.Sprintf("[%g, %g]", *p.Min, *p.Max))
+	case p.Min != nil:
+		parts = append(parts, fmt.Sprintf(">= %g", *p.Min))
+	case p.Max != nil:
+		parts = append(parts, fmt.Sprintf("<= %g", *p.Max))
+	}
+	if p.MinItems > 0 || p.MaxItems > 0 {
+		hi := "any"
+		if p.MaxItems > 0 {
+			hi = fmt.Sprint(p.MaxItems)
+		}
+		parts = append(parts, fmt.Sprintf("%d..%s values", p.MinItems, hi))
+	}
+	if len(p.Choices) > 0 {
+		parts = append(parts, strings.Join(p.Choices, "|"))
+	}
+	if len(parts) == 0 {
+		return "-"
+	}
+	return strings.Join(parts, ", ")
+}
+
+// infoJSON is the JSON form of a description printed by describe --json.
+type infoJSON struct {
+	Name           string       `json:"name"`
+	Version        string       `json:"version"`
+	Summary        string       `json:"summary"`
+	MaxConcurrency int          `json:"max_concurrency"`
+	Parameters     []paramJSON  `json:"parameters"`
+	Scalars        []scalarJSON `json:"scalars"`
+}
+
+type scalarJSON struct {
+	Name string `json:"name"`
+	Doc  string `json:"doc"`
+}
+
+type paramJSON struct {
+	Name     string          `json:"name"`
+	Type     stage.ParamType `json:"type"`
+	Default  json.RawMessage `json:"default,omitempty"`
+	Min      *float64        `json:"min,omitempty"`
+	Max      *float64        `json:"max,omitempty"`
+	MinItems int             `json:"min_items,omitempty"`
+	MaxItems int             `json:"max_items,omitempty"`
+	Choices  []string        `json:"choices,omitempty"`
+	Unit     string          `json:"unit,omitempty"`
+	Doc      string          `json:"doc,omitempty"`
+}
+
+func writeInfoJSON(w io.Writer, info stage.Info) error {
+	out := infoJSON{Name: info.Name, Version: info.Version, Summary: info.Summary, MaxConcurrency: info.MaxConcurrency,
+		Parameters: []paramJSON{}, Scalars: []scalarJSON{}}
+	for _, s := range info.Scalars {
+		out.Scalars = append(out.Scalars, scalarJSON{s.Name, s.Doc})
+	}
+	for _, p := range info.Params {
+		out.Parameters = append(out.Parameters, paramJSON{p.Name, p.Type, p.Default, p.Min, p.Max, p.MinItems, p.MaxItems, p.Choices, p.Unit, p.Doc})
+	}
+	b, err := json.MarshalIndent(out, "", "  ")
+	if err != nil {
+		return err
+	}
+	_, err = fmt.Fprintf(w, "%s\n", b)
+	return err
+}

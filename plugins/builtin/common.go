@@ -1,0 +1,87 @@
+package builtin
+
+import (
+	"encoding/json"
+	"fmt"
+	"math"
+	"time"
+
+	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/internal/version"
+	"github.com/foilwright/foilwright/plugins/stage"
+)
+
+// Version is the version of every built-in stage: that of foilwright, which
+// serves them.
+var Version = version.Version
+
+// MaxAngles is the most angles of attack one request may ask for.
+const MaxAngles = 1000
+
+// alphaParam is the angle-of-attack list every built-in takes.
+var alphaParam = stage.Param{
+	Name:     "alpha_deg",
+	Type:     stage.Numbers,
+	Default:  json.RawMessage("[0]"),
+	Min:      stage.Bound(-90),
+	Max:      stage.Bound(90),
+	MinItems: 1,
+	MaxItems: MaxAngles,
+	Unit:     "degrees",
+	Doc:      "angles of attack, positive nose-up",
+}
+
+// cpParam switches the pressure distribution in the result on or off.
+var cpParam = stage.Param{
+	Name:    "cp",
+	Type:    stage.Boolean,
+	Default: json.RawMessage("true"),
+	Doc:     "include the pressure distribution of each case",
+}
+
+// request is a checked request: parameters, section, angles.
+type request struct {
+	v         stage.Values
+	section   *geometry.Section
+	alphasDeg []float64
+	alphas    []float64 // radians
+}
+
+// decode validates the parameters against info and decodes the section.
+func decode(info stage.Info, req stage.Request) (*request, error) {
+	v, err := stage.Validate(info.Params, req.Params)
+	if err != nil {
+		return nil, err
+	}
+	s, err := req.DecodeSection()
+	if err != nil {
+		return nil, err
+	}
+	r := &request{v: v, section: s}
+	if _, ok := info.Param("alpha_deg"); ok {
+		r.alphasDeg = v.Numbers("alpha_deg")
+		r.alphas = make([]float64, len(r.alphasDeg))
+		for i, a := range r.alphasDeg {
+			r.alphas[i] = a * math.Pi / 180
+		}
+	}
+	return r, nil
+}
+
+// finish encodes d into a Result with the given timings.
+func finish(d *stage.ResultDoc, timings map[string]time.Duration) (stage.Result, error) {
+	b, err := d.Encode()
+	if err != nil {
+		return stage.Result{}, fmt.Errorf("builtin: %w", err)
+	}
+	return stage.Result{JSON: b, Timings: timings}, nil
+}
+
+// cpPoints pairs the nodes with their pressure coefficients.
+func cpPoints(nodes []geometry.Point, cp []float64) []stage.CpPoint {
+	out := make([]stage.CpPoint, len(cp))
+	for i := range cp {
+		out[i] = stage.CpPoint{X: nodes[i].X, Y: nodes[i].Y, Cp: cp[i]}
+	}
+	return out
+}

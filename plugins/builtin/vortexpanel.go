@@ -1,0 +1,84 @@
+package builtin
+
+import (
+	"context"
+	"time"
+
+	"github.com/foilwright/foilwright/plugins/builtin/vortexpanel"
+	"github.com/foilwright/foilwright/plugins/stage"
+)
+
+func init() { register(vortexPanel{}) }
+
+// vortexPanel is the stage "vortex-panel": the linear-strength vortex
+// panel method with the Kutta condition (package vortexpanel).
+type vortexPanel struct{}
+
+var vortexPanelInfo = stage.Info{
+	Name:    "vortex-panel",
+	Version: Version,
+	Summary: "inviscid lift, moment and pressure by linear-strength vortex panels with the Kutta condition",
+	Params:  []stage.Param{alphaParam, cpParam},
+	Scalars: []stage.Scalar{
+		{Name: "panels", Doc: "number of panels along the surface"},
+		{Name: "condition", Doc: "condition number estimate of the influence matrix"},
+		{Name: "blunt", Doc: "1 if the trailing edge is blunt and closed by a source base panel, else 0"},
+	},
+}
+
+func (vortexPanel) Describe(context.Context) (stage.Info, error) { return vortexPanelInfo, nil }
+
+func (vortexPanel) Run(ctx context.Context, req stage.Request) (stage.Result, error) {
+	start := time.Now()
+	r, err := decode(vortexPanelInfo, req)
+	if err != nil {
+		return stage.Result{}, err
+	}
+	sv, err := vortexpanel.New(r.section.Nodes)
+	if err != nil {
+		return stage.Result{}, panelError(err, vortexpanel.ErrIllConditioned)
+	}
+	if err := ctx.Err(); err != nil {
+		return stage.Result{}, err
+	}
+	cases, err := sv.Solve(r.alphas)
+	if err != nil {
+		return stage.Result{}, panelError(err, vortexpanel.ErrIllConditioned)
+	}
+	tm := sv.Timings()
+	d := stage.NewResultDoc(vortexPanelInfo)
+	d.SetScalar("panels", float64(len(r.section.Nodes)-1))
+	d.SetScalar("condition", sv.Cond())
+	blunt := 0.0
+	if sv.Blunt() {
+		blunt = 1
+	}
+	d.SetScalar("blunt", blunt)
+	withCp := r.v.Bool("cp")
+	for i, c := range cases {
+		out := stage.Case{
+			AlphaDeg: r.alphasDeg[i],
+			CL:       c.Cl,
+			CMc4:     c.Cm,
+			Checks: map[string]float64{
+				"cl_pressure":  c.ClPressure,
+				"cl_diff":      c.ClDiff,
+				"cd_pressure":  c.CdPressure,
+				"stagnation_x": c.Stagnation.X,
+			},
+		}
+		if sv.Blunt() {
+			out.Checks["base_source"] = c.BaseSource
+		}
+		if withCp {
+			out.Cp = cpPoints(r.section.Nodes, c.Cp)
+		}
+		d.AddCase(out)
+	}
+	return finish(d, map[string]time.Duration{
+		"build":  tm.Build,
+		"factor": tm.Factor,
+		"solve":  tm.Solve,
+		"total":  time.Since(start),
+	})
+}

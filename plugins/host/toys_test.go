@@ -1,0 +1,199 @@
+package host_test
+
+import (
+	"context"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"os"
+	"strconv"
+	"strings"
+	"time"
+
+	"github.com/hashicorp/go-plugin"
+
+	"github.com/foilwright/foilwright/plugins/sdk"
+	"github.com/foilwright/foilwright/plugins/stage"
+)
+
+// The test binary serves the toy stages below when started as
+// "TESTBINARY __stage NAME" with the handshake cookie set (PLUGINS.md §3),
+// so the fault tests run real processes without building anything.
+
+// toy is a stage made of a run function, for host tests.
+type toy struct {
+	name   string
+	params []stage.Param
+	run    func(ctx context.Context, req stage.Request, v stage.Values) (stage.Result, error)
+}
+
+func (t toy) info() stage.Info {
+	return stage.Info{Name: t.name, Version: "1.0.0", Summary: "toy stage for host tests", Params: t.params}
+}
+
+func (t toy) Describe(context.Context) (stage.Info, error) { return t.info(), nil }
+
+func (t toy) Run(ctx context.Context, req stage.Request) (stage.Result, error) {
+	v, err := stage.Validate(t.params, req.Params)
+	if err != nil {
+		return stage.Result{}, err
+	}
+	return t.run(ctx, req, v)
+}
+
+// okResult is a valid result document of info with one case whose cl is
+// the length of the section document.
+func okResult(info stage.Info, req stage.Request) (stage.Result, error) {
+	d := stage.NewResultDoc(info)
+	d.AddCase(stage.Case{AlphaDeg: 0, CL: float64(len(req.Section))})
+	d.SetScalar("pid", float64(os.Getpid()))
+	b, err := d.Encode()
+	return stage.Result{JSON: b, Timings: map[string]time.Duration{"total": time.Millisecond}}, err
+}
+
+var toys = map[string]toy{}
+
+func addToy(t toy) { toys[t.name] = t }
+
+func init() {
+	addToy(toy{name: "echo",
+		params: []stage.Param{
+			{Name: "reply_bytes", Type: stage.Integer, Default: json.RawMessage("0"), Min: stage.Bound(0)},
+			{Name: "fail", Type: stage.String, Default: json.RawMessage(`""`), Choices: []string{"", "bad-input", "diverged"}},
+			{Name: "sleep_ms", Type: stage.Integer, Default: json.RawMessage("0"), Min: stage.Bound(0), Max: stage.Bound(5000)},
+		},
+		run: func(ctx context.Context, req stage.Request, v stage.Values) (stage.Result, error) {
+			switch v.String("fail") {
+			case "bad-input":
+				return stage.Result{}, stage.BadInputf("section %s: too few nodes", req.SectionName)
+			case "diverged":
+				return stage.Result{}, stage.Diverged(errors.New("singular system"))
+			}
+			if ms := v.Int("sleep_ms"); ms > 0 {
+				select {
+				case <-time.After(time.Duration(ms) * time.Millisecond):
+				case <-ctx.Done():
+					return stage.Result{}, ctx.Err()
+				}
+			}
+			res, err := okResult(toys["echo"].info(), req)
+			if n := v.Int("reply_bytes"); n > 0 {
+				res.Artifacts = []stage.Artifact{{Name: "big.bin", MediaType: "application/octet-stream", Data: make([]byte, n)}}
+			}
+			return res, err
+		}})
+	addToy(toy{name: "exit", run: func(context.Context, stage.Request, stage.Values) (stage.Result, error) {
+		sdk.Logger().Error("giving up", "why", "toy exits on every call")
+		time.Sleep(20 * time.Millisecond) // let the log line reach the host
+		os.Exit(3)
+		return stage.Result{}, nil
+	}})
+	addToy(toy{name: "panic", run: func(context.Context, stage.Request, stage.Values) (stage.Result, error) {
+		var m map[string]int
+		m["boom"]++ // assignment to a nil map
+		return stage.Result{}, nil
+	}})
+	addToy(toy{name: "gopanic", run: func(context.Context, stage.Request, stage.Values) (stage.Result, error) {
+		done := make(chan struct{})
+		go func() { panic("toy panics in a goroutine") }()
+		<-done
+		return stage.Result{}, nil
+	}})
+	addToy(toy{name: "hang", run: func(context.Context, stage.Request, stage.Values) (stage.Result, error) {
+		time.Sleep(time.Hour) // ignores its context
+		return stage.Result{}, nil
+	}})
+	addToy(toy{name: "flaky",
+		params: []stage.Param{{Name: "marker", Type: stage.String}},
+		run: func(_ context.Context, req stage.Request, v stage.Values) (stage.Result, error) {
+			// Crashes the first time, when the marker file does not exist yet.
+			if _, err := os.Stat(v.String("marker")); err != nil {
+				os.WriteFile(v.String("marker"), nil, 0o644)
+				os.Exit(4)
+			}
+			return okResult(toys["flaky"].info(), req)
+		}})
+	addToy(toy{name: "malformed",
+		params: []stage.Param{{Name: "kind", Type: stage.String}},
+		run: func(_ context.Context, req stage.Request, v stage.Values) (stage.Result, error) {
+			good, _ := okResult(toys["malformed"].info(), req)
+			switch v.String("kind") {
+			case "truncated":
+				return stage.Result{JSON: good.JSON[:len(good.JSON)/2]}, nil
+			case "empty":
+				return stage.Result{}, nil
+			case "format":
+				return stage.Result{JSON: []byte(`{"format": "something/2", "stage": "malformed", "version": "1"}`)}, nil
+			case "stage":
+				return stage.Result{JSON: []byte(`{"format": "foilwright.result/1", "stage": "other", "version": "1", "cases": []}`)}, nil
+			case "case":
+				return stage.Result{JSON: []byte(`{"format": "foilwright.result/1", "stage": "malformed", "version": "1", "cases": [{"cl": 1}]}`)}, nil
+			case "artifact":
+				good.Artifacts = []stage.Artifact{{Name: "../escape.svg", MediaType: "image/svg+xml"}}
+				return good, nil
+			}
+			return good, nil
+		}})
+}
+
+// serveToy serves the toy stage name, or one of the stages that misbehave
+// before or during the handshake.
+func serveToy(name string) {
+	switch name {
+	case "garbage":
+		fmt.Println("hello from init")
+		sdk.Serve(toys["echo"])
+	case "nohandshake":
+		fmt.Fprintln(os.Stderr, "this process is not a stage")
+		os.Exit(0)
+	case "slowstart":
+		time.Sleep(time.Hour)
+	case "badversion":
+		hs := stage.Handshake
+		hs.ProtocolVersion = 99
+		plugin.Serve(&plugin.ServeConfig{
+			HandshakeConfig:  hs,
+			VersionedPlugins: map[int]plugin.PluginSet{99: stage.PluginMap(toys["echo"])},
+			GRPCServer:       sdk.GRPCServer,
+		})
+	case "badinfo":
+		t := toys["echo"]
+		t.params = []stage.Param{{Name: "panels", Type: stage.Integer, Default: json.RawMessage("2.5")}}
+		sdk.Serve(t)
+	case "wrongname":
+		t := toys["echo"]
+		t.name = "not-wrongname"
+		sdk.Serve(t)
+	default:
+		t, ok := toys[name]
+		if !ok {
+			fmt.Fprintf(os.Stderr, "unknown toy stage %q\n", name)
+			os.Exit(2)
+		}
+		sdk.Serve(t)
+	}
+}
+
+// pidAlive reports whether pid is a live process (not gone, not a zombie).
+func pidAlive(pid int) bool {
+	b, err := os.ReadFile("/proc/" + strconv.Itoa(pid) + "/stat")
+	if err != nil {
+		return false
+	}
+	// pid (comm) state ...; comm may hold spaces, so split after ')'.
+	s := string(b)
+	i := strings.LastIndexByte(s, ')')
+	return i >= 0 && i+2 < len(s) && s[i+2] != 'Z'
+}
+
+// waitGone waits up to d for pid to be gone.
+func waitGone(pid int, d time.Duration) bool {
+	deadline := time.Now().Add(d)
+	for time.Now().Before(deadline) {
+		if !pidAlive(pid) {
+			return true
+		}
+		time.Sleep(10 * time.Millisecond)
+	}
+	return !pidAlive(pid)
+}

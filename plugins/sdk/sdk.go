@@ -1,0 +1,104 @@
+// Package sdk is what a stage author imports to serve a stage: Serve runs
+// the stage as a foilwright stage process, speaking the protocol of package
+// stage over gRPC through go-plugin.
+//
+// A stage must never print to stdout: stdout carries the handshake. Log
+// through Logger, which writes hclog JSON lines to stderr; the host shows
+// them at its own log level and keeps the last of them for crash reports.
+//
+//	func main() {
+//		sdk.Serve(myStage{})
+//	}
+package sdk
+
+import (
+	"os"
+	"sync"
+	"time"
+
+	"github.com/hashicorp/go-hclog"
+	"github.com/hashicorp/go-plugin"
+	"google.golang.org/grpc"
+
+	"github.com/foilwright/foilwright/plugins/stage"
+)
+
+// MaxMessageSize is the largest request or reply, in bytes, a stage served
+// by Serve accepts or sends. gRPC's default of 4 MiB is too small for large
+// sections.
+const MaxMessageSize = 64 << 20
+
+// ParentPollInterval is how often a stage checks that the host that
+// started it is still alive. A stage whose host has gone exits.
+const ParentPollInterval = 200 * time.Millisecond
+
+var (
+	logOnce sync.Once
+	logger  hclog.Logger
+)
+
+// Logger returns the stage's logger: hclog JSON lines on stderr, at the level
+// named by the environment variable stage.LogLevelEnv (default warn).
+func Logger() hclog.Logger {
+	logOnce.Do(func() {
+		level := hclog.LevelFromString(os.Getenv(stage.LogLevelEnv))
+		if level == hclog.NoLevel {
+			level = hclog.Warn
+		}
+		logger = hclog.New(&hclog.LoggerOptions{
+			Name:       "stage",
+			Level:      level,
+			Output:     os.Stderr,
+			JSONFormat: true,
+		})
+	})
+	return logger
+}
+
+// Serve serves impl as a stage process and returns when the host ends it.
+// Each call is protected by a recover: a panic in impl answers that call with
+// stage.ErrInternal and a message (the stack goes to the log) and the
+// process keeps serving. Serve exits the process when the host that started
+// it dies. Run by hand, without the host's handshake, it prints a notice to
+// stderr and exits with status 1.
+//
+// Nothing may be written to stdout before Serve is called.
+func Serve(impl stage.Stage) {
+	log := Logger()
+	go watchParent(os.Getppid(), ParentPollInterval, func() {
+		log.Error("host process went away; exiting")
+		os.Exit(3)
+	})
+	plugin.Serve(&plugin.ServeConfig{
+		HandshakeConfig: stage.Handshake,
+		VersionedPlugins: map[int]plugin.PluginSet{
+			stage.ProtocolVersion: {stage.PluginName: &stage.Plugin{Impl: impl, Logger: log}},
+		},
+		GRPCServer: GRPCServer,
+		Logger:     log,
+	})
+}
+
+// GRPCServer is the gRPC server factory Serve uses: go-plugin's default
+// server with message limits raised to MaxMessageSize.
+func GRPCServer(opts []grpc.ServerOption) *grpc.Server {
+	opts = append(opts, grpc.MaxRecvMsgSize(MaxMessageSize), grpc.MaxSendMsgSize(MaxMessageSize))
+	return plugin.DefaultGRPCServer(opts)
+}
+
+// watchParent calls gone once the parent of the process is no longer ppid
+// (the host died and the process was reparented). A process started with
+// no real parent (ppid 1) is not watched.
+func watchParent(ppid int, every time.Duration, gone func()) {
+	if ppid <= 1 {
+		return
+	}
+	t := time.NewTicker(every)
+	defer t.Stop()
+	for range t.C {
+		if os.Getppid() != ppid {
+			gone()
+			return
+		}
+	}
+}
