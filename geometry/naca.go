@@ -114,13 +114,25 @@ func (n NACA4) Loop(perSurface int) []Point {
 	if perSurface < 2 {
 		panic("geometry: NACA4 loop needs at least 2 points per surface")
 	}
-	pts := make([]Point, 0, 2*perSurface+1)
-	for i := perSurface; i >= 1; i-- {
-		pts = append(pts, n.Upper(cosineStation(i, perSurface)))
+	return n.Nodes(2 * perSurface)
+}
+
+// Nodes returns panels+1 nodes in the package node order with cosine
+// spacing in x on each surface: (panels+1)/2 panels on the upper surface and
+// panels/2 on the lower, and a node exactly at the leading edge. It panics
+// if panels < 4.
+func (n NACA4) Nodes(panels int) []Point {
+	if panels < 4 {
+		panic("geometry: NACA4 needs at least 4 panels")
+	}
+	up, lo := (panels+1)/2, panels/2
+	pts := make([]Point, 0, panels+1)
+	for i := up; i >= 1; i-- {
+		pts = append(pts, n.Upper(cosineStation(i, up)))
 	}
 	pts = append(pts, Point{0, 0})
-	for i := 1; i <= perSurface; i++ {
-		pts = append(pts, n.Lower(cosineStation(i, perSurface)))
+	for i := 1; i <= lo; i++ {
+		pts = append(pts, n.Lower(cosineStation(i, lo)))
 	}
 	return pts
 }

@@ -45,3 +45,17 @@ func TestNACA4Equations(t *testing.T) {
 		}
 	}
 }
+
+func TestNACA4NodesOddCount(t *testing.T) {
+	n := NACA4{Thickness: 0.12, SharpTE: true}
+	pts := n.Nodes(161)
+	if len(pts) != 162 {
+		t.Fatalf("%d nodes, want 162", len(pts))
+	}
+	if pts[81] != (Point{}) {
+		t.Errorf("node 81 = %v, want the leading edge", pts[81])
+	}
+	if pts[0].Dist(pts[161]) > 1e-12 {
+		t.Errorf("sharp trailing edge not closed: %v, %v", pts[0], pts[161])
+	}
+}

@@ -1,11 +1,11 @@
 package geometry
 
 import (
+	"bytes"
 	"encoding/json"
 	"errors"
 	"fmt"
 	"io"
-	"math"
 )
 
 // SectionFormat is the value of the "format" key of a section document.
@@ -168,26 +168,110 @@ func ReadSection(r io.Reader, name string) (*Section, error) {
 		return nil, &ParseError{File: name, Err: fmt.Errorf("%w: no \"nodes\"", ErrNotSection)}
 	}
 	for i, p := range s.Nodes {
-		if !p.IsFinite() || math.IsNaN(p.X) {
+		if !p.IsFinite() {
 			return nil, &ParseError{File: name, Err: fmt.Errorf("node %d: %w", i, ErrNonFinite)}
 		}
 	}
 	return &s, nil
 }
 
-// WriteSection encodes s to w as indented JSON followed by a newline. The
-// output is deterministic: the same section gives the same bytes.
+// WriteSection encodes s to w as indented JSON followed by a newline, with
+// one node "[x, y]" per line. The output is deterministic: the same section
+// gives the same bytes. It returns an error for non-finite nodes.
 func WriteSection(w io.Writer, s *Section) error {
-	if s.Format == "" {
-		s.Format = SectionFormat
-	}
-	b, err := json.MarshalIndent(s, "", "  ")
+	b, err := EncodeSection(s)
 	if err != nil {
-		return fmt.Errorf("geometry: write section: %w", err)
+		return err
 	}
-	b = append(b, '\n')
 	_, err = w.Write(b)
 	return err
+}
+
+// EncodeSection returns the bytes WriteSection writes. A section with an
+// empty Format gets SectionFormat.
+func EncodeSection(s *Section) ([]byte, error) {
+	c := *s
+	if c.Format == "" {
+		c.Format = SectionFormat
+	}
+	for k, p := range c.Nodes {
+		if !p.IsFinite() {
+			return nil, fmt.Errorf("geometry: write section: node %d is not finite (%g, %g)", k, p.X, p.Y)
+		}
+	}
+	b, err := json.MarshalIndent(&c, "", "  ")
+	if err != nil {
+		return nil, fmt.Errorf("geometry: write section: %w", err)
+	}
+	b = CompactNumberArrays(b)
+	return append(b, '\n'), nil
+}
+
+// CompactNumberArrays rewrites indented JSON so that every array holding
+// only numbers sits on one line, "[x, y]". Other text is unchanged, so a
+// list of points prints one point per line.
+func CompactNumberArrays(b []byte) []byte {
+	out := make([]byte, 0, len(b))
+	inString := false
+	for i := 0; i < len(b); i++ {
+		ch := b[i]
+		if inString {
+			out = append(out, ch)
+			switch ch {
+			case '\\':
+				if i+1 < len(b) {
+					i++
+					out = append(out, b[i])
+				}
+			case '"':
+				inString = false
+			}
+			continue
+		}
+		switch ch {
+		case '"':
+			inString = true
+			out = append(out, ch)
+		case '[':
+			if j, ok := sectionNumberArray(b, i); ok {
+				out = append(out, '[')
+				first := true
+				for _, f := range bytes.Split(b[i+1:j], []byte{','}) {
+					f = bytes.TrimSpace(f)
+					if len(f) == 0 {
+						continue
+					}
+					if !first {
+						out = append(out, ", "...)
+					}
+					first = false
+					out = append(out, f...)
+				}
+				out = append(out, ']')
+				i = j
+				continue
+			}
+			out = append(out, ch)
+		default:
+			out = append(out, ch)
+		}
+	}
+	return out
+}
+
+// sectionNumberArray reports whether the array opening at b[i] holds only
+// numbers, and the index of its closing bracket.
+func sectionNumberArray(b []byte, i int) (int, bool) {
+	for j := i + 1; j < len(b); j++ {
+		switch c := b[j]; {
+		case c == ']':
+			return j, true
+		case c == ',' || c == ' ' || c == '\n' || c == '\t' || c == '\r' || c == '-' || c == '+' || c == '.' || c == 'e' || c == 'E' || (c >= '0' && c <= '9'):
+		default:
+			return 0, false
+		}
+	}
+	return 0, false
 }
 
 // lineOf returns the 1-based line of byte offset off in data.

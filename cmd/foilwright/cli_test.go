@@ -1,0 +1,84 @@
+package main
+
+import (
+	"bytes"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"github.com/foilwright/foilwright/geometry"
+)
+
+// runCLI runs the command line in process and returns its streams and exit
+// status.
+func runCLI(t *testing.T, args ...string) (stdout, stderr string, code int) {
+	t.Helper()
+	var out, errb bytes.Buffer
+	code = execute(args, strings.NewReader(""), &out, &errb)
+	return out.String(), errb.String(), code
+}
+
+func TestExitStatuses(t *testing.T) {
+	for _, tc := range []struct {
+		name string
+		args []string
+		code int
+		msg  string
+	}{
+		{"unknown command", []string{"bogus"}, exitUsage, `unknown command "bogus"`},
+		{"bad flag", []string{"version", "--nope"}, exitUsage, "unknown flag"},
+		{"extra args", []string{"version", "x"}, exitUsage, "unknown command"},
+		{"bad naca code", []string{"shape", "naca4", "24x2"}, exitUsage, `"24x2"`},
+		{"panels out of range", []string{"shape", "naca4", "0012", "--panels", "8"}, exitUsage, "--panels 8"},
+		{"ok", []string{"version"}, exitOK, ""},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			_, stderr, code := runCLI(t, tc.args...)
+			if code != tc.code {
+				t.Errorf("exit %d, want %d (stderr %q)", code, tc.code, stderr)
+			}
+			if !strings.Contains(stderr, tc.msg) {
+				t.Errorf("stderr %q lacks %q", stderr, tc.msg)
+			}
+		})
+	}
+}
+
+func TestShapeNACA4(t *testing.T) {
+	dir := t.TempDir()
+	out := filepath.Join(dir, "s.json")
+	dat := filepath.Join(dir, "s.dat")
+	if _, stderr, code := runCLI(t, "shape", "naca4", "0012", "--sharp", "--panels", "161", "-o", out, "--nodes", dat); code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	f, err := os.Open(out)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	s, err := geometry.ReadSection(f, out)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(s.Nodes) != 162 || s.Name != "NACA 0012" || s.TrailingEdge.Kind != "sharp" {
+		t.Errorf("got %d nodes, name %q, TE %+v", len(s.Nodes), s.Name, s.TrailingEdge)
+	}
+	listing, _ := os.ReadFile(dat)
+	lines := strings.Split(strings.TrimSpace(string(listing)), "\n")
+	if lines[0] != "NACA 0012" || len(lines) != 163 {
+		t.Errorf("node listing: first line %q, %d lines", lines[0], len(lines))
+	}
+}
+
+func TestFailedWriteKeepsOutput(t *testing.T) {
+	dir := t.TempDir()
+	out := filepath.Join(dir, "s.json")
+	os.WriteFile(out, []byte("earlier good output"), 0o644)
+	if _, _, code := runCLI(t, "shape", "naca4", "00x2", "-o", out); code != exitUsage {
+		t.Fatalf("exit %d, want %d", code, exitUsage)
+	}
+	if got, _ := os.ReadFile(out); string(got) != "earlier good output" {
+		t.Errorf("earlier output changed to %q", got)
+	}
+}

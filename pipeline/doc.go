@@ -1,0 +1,68 @@
+// Package pipeline implements foilwright's reproducible pipeline file: it
+// parses and checks the file (every error names the key path and its
+// line:column), plans the work (inputs expanded, stages ordered by their
+// dependencies), runs each input section through the geometry chain and the
+// stages, and writes the run folder with its manifest. Verify re-runs a
+// manifest and reports every output that no longer matches byte for byte.
+//
+// # The pipeline file
+//
+// A pipeline file is a JSON object:
+//
+//	{
+//	  "foilwright": 1,
+//	  "name": "mast-rotor",
+//	  "inputs": [
+//	    {"name": "r040", "files": ["scan/blade.stl"], "cut": "z=240", "station": 240},
+//	    {"files": ["probe/*.csv"], "per_file": true, "columns": "2,3", "units": "in"}
+//	  ],
+//	  "prepare": {"units": "mm", "panels": 160, "spacing": "cosine", "te": "auto"},
+//	  "stages": [
+//	    {"id": "vortex", "stage": "vortex-panel", "params": {"alpha_deg": [0, 4, 8]}},
+//	    {"id": "report", "stage": "./stages/report", "sha256": "…", "after": ["vortex"],
+//	     "on_error": "continue", "timeout_s": 30}
+//	  ],
+//	  "outputs": {"folder": "runs/mast-rotor", "documents": ["section", "nodes", "results"]}
+//	}
+//
+// Paths and globs are relative to the folder of the pipeline file. Each
+// input is one section made from all its files, or, with "per_file", one
+// section per matching file. "prepare" holds every prep option under its
+// pipeline key (see PrepSettings); an input may override the reading keys
+// (format, columns, units, cut, band, flat_tol). A stage sees the results of
+// the stages it lists in "after", and only those.
+//
+// Stage keys: "id" (names results/<id>.json), "stage", "sha256" (pins an
+// executable), "params" (any object, handed to the stage as written),
+// "after", "on_error" ("stop", the default, fails the section; "continue"
+// records the failure and skips only the stages that run after it) and
+// "timeout_s". Output keys: "folder" (default runs/<name>), "documents"
+// (any of "section", "nodes", "results"; all by default) and "plots" (a
+// list of names, checked and recorded; artifacts the stages return are
+// always written).
+//
+// # Checks
+//
+// Parse reports every problem it finds, not only the first, each as
+// file:line:column: key path: reason — invalid JSON, unknown and duplicate
+// keys (also inside "params"), wrong types, values out of range, files and
+// globs that match nothing, duplicate or unknown stage ids, dependency
+// cycles, and stages that are neither built in nor an executable.
+//
+// # Running
+//
+// Run makes the sections with a Preparer and runs the stages through a
+// StageRunner, one per worker. A section that fails is reported with its
+// reason and does not touch the others. When the context is cancelled, the
+// sections already done keep their outputs, the one under way writes
+// nothing, and the manifest says the run was interrupted.
+//
+// # The run folder
+//
+// One subfolder per section, named after it, holding section.json,
+// nodes.dat, results/<stage-id>.json and the artifacts the stages returned
+// under plots/; manifest.json at the root. Every file is written atomically.
+// Two runs of the same pipeline over the same inputs with the same stages
+// give identical bytes in every file, except the "timings" field of the
+// manifest.
+package pipeline

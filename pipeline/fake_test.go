@@ -1,0 +1,198 @@
+package pipeline
+
+import (
+	"bufio"
+	"bytes"
+	"context"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"math"
+	"strconv"
+	"strings"
+	"sync"
+	"time"
+
+	"github.com/foilwright/foilwright/geometry"
+	"github.com/tidwall/gjson"
+)
+
+// fakePrep is an honest stand-in for the geometry chain: it reads "x y"
+// lines, shifts the point with the smallest x to the origin, divides by the
+// chord (the x extent) and returns the result as a section document. A file
+// with a line that is not two numbers fails, naming the file and line.
+type fakePrep struct{}
+
+func (fakePrep) Prepare(ctx context.Context, in Input, s PrepSettings) (Prepared, error) {
+	var pts []geometry.Point
+	for _, f := range in.Files {
+		sc := bufio.NewScanner(bytes.NewReader(f.Data))
+		for line := 1; sc.Scan(); line++ {
+			text := strings.TrimSpace(sc.Text())
+			if text == "" || strings.HasPrefix(text, "#") {
+				continue
+			}
+			fields := strings.Fields(text)
+			if len(fields) != 2 {
+				return Prepared{}, &geometry.ParseError{File: f.Path, Line: line, Err: geometry.ErrColumnCount}
+			}
+			x, errx := strconv.ParseFloat(fields[0], 64)
+			y, erry := strconv.ParseFloat(fields[1], 64)
+			if errx != nil || erry != nil {
+				return Prepared{}, &geometry.ParseError{File: f.Path, Line: line, Err: geometry.ErrNotNumeric}
+			}
+			pts = append(pts, geometry.Point{X: x, Y: y})
+		}
+	}
+	if len(pts) < 3 {
+		return Prepared{}, geometry.ErrTooFewPoints
+	}
+	lo, hi := pts[0], pts[0]
+	for _, p := range pts {
+		if p.X < lo.X {
+			lo = p
+		}
+		hi.X = math.Max(hi.X, p.X)
+	}
+	chord := hi.X - lo.X
+	for i := range pts {
+		pts[i] = geometry.Point{X: (pts[i].X - lo.X) / chord, Y: (pts[i].Y - lo.Y) / chord}
+	}
+	sec := &geometry.Section{Name: in.Section, Units: geometry.Unit(s.Units), Nodes: pts,
+		Frame: &geometry.Frame{Chord: chord, LE: [2]float64{lo.X, lo.Y}}}
+	var b bytes.Buffer
+	if err := geometry.WriteSection(&b, sec); err != nil {
+		return Prepared{}, err
+	}
+	return Prepared{Section: b.Bytes(), Summary: fmt.Sprintf("%d points, chord %g", len(pts), chord)}, nil
+}
+
+// fakeStages names the built-in stages the fake runner serves.
+func fakeStages(name string) bool {
+	switch name {
+	case "area", "scale", "plot", "fail", "slow", "badplot":
+		return true
+	}
+	return false
+}
+
+// fakeRunner serves the fake stages in process:
+//
+//	area     the shoelace area of the section's nodes
+//	scale    params.factor times the "area" scalar of the stage it runs after
+//	plot     an SVG polyline of the nodes as an artifact
+//	fail     always fails
+//	slow     waits params.ms milliseconds, or until its context ends
+//	badplot  returns an artifact with a path for a name
+type fakeRunner struct {
+	reg     *fakeRegistry
+	version string
+	calls   int
+	closed  bool
+}
+
+// fakeRegistry counts the runners made and closed, to check that each
+// worker gets its own and all are closed.
+type fakeRegistry struct {
+	mu      sync.Mutex
+	version string // the version the stages report; "" is "1.0"
+	runners []*fakeRunner
+	areaAdd float64 // added to every area, to simulate a changed stage
+}
+
+func (r *fakeRegistry) New() (StageRunner, error) {
+	r.mu.Lock()
+	defer r.mu.Unlock()
+	v := r.version
+	if v == "" {
+		v = "1.0"
+	}
+	fr := &fakeRunner{reg: r, version: v}
+	r.runners = append(r.runners, fr)
+	return fr, nil
+}
+
+func (f *fakeRunner) Describe(ctx context.Context, call StageCall) (StageInfo, error) {
+	if f.closed {
+		return StageInfo{}, errors.New("runner closed")
+	}
+	return StageInfo{Name: call.Stage, Version: f.version, Executable: strings.Repeat("ab", 32)}, nil
+}
+
+func (f *fakeRunner) Close() error {
+	if f.closed {
+		return errors.New("closed twice")
+	}
+	f.closed = true
+	return nil
+}
+
+func (f *fakeRunner) Run(ctx context.Context, call StageCall, in StageInput) (StageOutput, error) {
+	if f.closed {
+		return StageOutput{}, errors.New("runner closed")
+	}
+	f.calls++
+	sec, err := geometry.ReadSection(bytes.NewReader(in.Section), "section")
+	if err != nil {
+		return StageOutput{}, err
+	}
+	params := gjson.ParseBytes(call.Params)
+	result := func(scalars map[string]float64, warnings ...string) (StageOutput, error) {
+		b, err := json.MarshalIndent(map[string]any{"format": "foilwright.result/1", "stage": call.Stage,
+			"version": f.version, "scalars": scalars, "warnings": warnings}, "", "  ")
+		return StageOutput{Result: b, Warnings: warnings}, err
+	}
+	switch call.Stage {
+	case "area":
+		return result(map[string]float64{"area": shoelace(sec.Nodes) + f.reg.areaAdd})
+	case "scale":
+		if len(in.Deps) != 1 {
+			return StageOutput{}, fmt.Errorf("scale wants one dependency, got %d", len(in.Deps))
+		}
+		for _, dep := range in.Deps {
+			a := gjson.GetBytes(dep, "scalars.area")
+			if !a.Exists() {
+				return StageOutput{}, errors.New("dependency has no area")
+			}
+			return result(map[string]float64{"scaled": params.Get("factor").Float() * a.Float()}, "scaled by the factor")
+		}
+	case "plot", "badplot":
+		var b strings.Builder
+		b.WriteString(`<svg xmlns="http://www.w3.org/2000/svg"><polyline points="`)
+		for i, p := range sec.Nodes {
+			if i > 0 {
+				b.WriteByte(' ')
+			}
+			fmt.Fprintf(&b, "%g,%g", p.X, -p.Y)
+		}
+		b.WriteString(`"/></svg>` + "\n")
+		out, err := result(map[string]float64{"nodes": float64(len(sec.Nodes))})
+		name := "shape.svg"
+		if call.Stage == "badplot" {
+			name = "../shape.svg"
+		}
+		out.Artifacts = []Artifact{{Name: name, MediaType: "image/svg+xml", Data: []byte(b.String())}}
+		return out, err
+	case "fail":
+		return StageOutput{}, errors.New("the fake stage fails on purpose")
+	case "slow":
+		select {
+		case <-time.After(time.Duration(params.Get("ms").Int()) * time.Millisecond):
+			return result(map[string]float64{})
+		case <-ctx.Done():
+			return StageOutput{}, ctx.Err()
+		}
+	}
+	return StageOutput{}, fmt.Errorf("unknown stage %q", call.Stage)
+}
+
+// shoelace returns the area enclosed by the closed polygon through pts,
+// positive counter-clockwise.
+func shoelace(pts []geometry.Point) float64 {
+	var a float64
+	for i := range pts {
+		p, q := pts[i], pts[(i+1)%len(pts)]
+		a += p.X*q.Y - q.X*p.Y
+	}
+	return a / 2
+}

@@ -1,0 +1,679 @@
+package pipeline
+
+import (
+	"bytes"
+	"crypto/sha256"
+	"encoding/hex"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"math"
+	"os"
+	"path/filepath"
+	"regexp"
+	"runtime"
+	"sort"
+	"strings"
+
+	"github.com/tidwall/gjson"
+)
+
+// FormatVersion is the pipeline file format this package reads, the value of
+// the "foilwright" key.
+const FormatVersion = 1
+
+// Document kinds of outputs.documents.
+const (
+	DocSection = "section" // section.json
+	DocNodes   = "nodes"   // nodes.dat
+	DocResults = "results" // results/<stage-id>.json
+)
+
+// On-error policies of a stage.
+const (
+	// OnErrorStop fails the section when the stage fails: its later stages
+	// do not run. Other sections are not affected.
+	OnErrorStop = "stop"
+	// OnErrorContinue records the failure and goes on with the stages that
+	// do not depend on the failed one.
+	OnErrorContinue = "continue"
+)
+
+// MaxTimeoutS is the largest timeout_s a stage may ask for (one day).
+const MaxTimeoutS = 86400
+
+// A Pipeline is a parsed, checked pipeline file.
+type Pipeline struct {
+	File    string // the name it was parsed under, used in messages
+	Path    string // absolute path of the file, "" when parsed from memory
+	Dir     string // the folder inputs, stages and the run folder are relative to
+	SHA256  string // hex digest of the file's bytes
+	Name    string
+	Inputs  []InputSpec
+	Prepare PrepSettings
+	Stages  []Stage // in file order
+	Outputs Outputs
+
+	order []int // Stages indexes in dependency order
+}
+
+// An InputSpec is one entry of "inputs".
+type InputSpec struct {
+	Name    string   // section name; "" means the first file's base name
+	Files   []string // paths or globs as written
+	Paths   []string // the matching files, sorted, without repeats; slash-separated, relative to Dir unless absolute
+	PerFile bool     // one section per file instead of one section from all files
+	Station *float64 // spanwise position of a blade station, if given
+	Read    PrepSettings
+}
+
+// A Stage is one entry of "stages".
+type Stage struct {
+	ID       string
+	Stage    string   // as written: a built-in name or an executable path
+	Exec     string   // absolute path of the executable; "" for a built-in stage
+	SHA256   string   // pinned executable digest, lower-case hex, or ""
+	Params   []byte   // the "params" object, raw as written ("{}" when absent)
+	After    []string // ids of the stages whose results this stage sees
+	OnError  string   // OnErrorStop or OnErrorContinue
+	TimeoutS float64  // 0 means the stage runner's default
+}
+
+// Outputs is the "outputs" entry.
+type Outputs struct {
+	Folder    string   // run folder, relative to Dir unless absolute
+	Documents []string // DocSection, DocNodes, DocResults (all three by default)
+	Plots     []string // plot names; checked and recorded, not yet acted on
+}
+
+// Has reports whether documents lists kind.
+func (o Outputs) Has(kind string) bool {
+	for _, d := range o.Documents {
+		if d == kind {
+			return true
+		}
+	}
+	return false
+}
+
+// ParseOptions say where a pipeline file's relative paths start and which
+// stage names are built in.
+type ParseOptions struct {
+	// Dir is the folder relative paths start from; "" means the current folder.
+	Dir string
+	// Known reports whether name is a built-in stage. Nil knows none.
+	Known func(name string) bool
+}
+
+// Load reads and parses the pipeline file at path; relative paths in it
+// start from the file's folder. It returns the error of reading the file as
+// is, and an ErrorList for a file that does not pass the checks.
+func Load(path string, known func(name string) bool) (*Pipeline, error) {
+	data, err := os.ReadFile(path)
+	if err != nil {
+		return nil, err
+	}
+	abs, err := filepath.Abs(path)
+	if err != nil {
+		return nil, err
+	}
+	p, err := Parse(data, path, ParseOptions{Dir: filepath.Dir(abs), Known: known})
+	if err != nil {
+		return nil, err
+	}
+	p.Path = abs
+	return p, nil
+}
+
+// Parse checks the pipeline file data, named file in messages, and returns
+// it parsed. Globs are expanded and every file is checked to exist. It
+// returns an ErrorList holding every problem found, each with its key path
+// and line:column.
+func Parse(data []byte, file string, opts ParseOptions) (*Pipeline, error) {
+	c := &collector{file: file, pos: newPositions(data)}
+	if !gjson.ValidBytes(data) {
+		c.syntaxError(data)
+		return nil, c.err()
+	}
+	root := gjson.ParseBytes(data)
+	root.Index = len(data) - len(bytes.TrimLeft(data, " \t\r\n")) // Parse leaves it 0 after leading blanks
+	sum := sha256.Sum256(data)
+	p := &parser{c: c, opts: opts, p: &Pipeline{File: file, Dir: opts.Dir, SHA256: hex.EncodeToString(sum[:])}}
+	p.parse(root)
+	if err := c.err(); err != nil {
+		return nil, err
+	}
+	return p.p, nil
+}
+
+// syntaxError reports where data stops being JSON. gjson gives no position,
+// so encoding/json is asked.
+func (c *collector) syntaxError(data []byte) {
+	var v any
+	err := json.Unmarshal(data, &v)
+	var se *json.SyntaxError
+	switch {
+	case len(strings.TrimSpace(string(data))) == 0:
+		c.add(-1, "", "file is empty")
+	case errors.As(err, &se):
+		off := int(se.Offset)
+		if off > 0 && off <= len(data) && se.Error() != "unexpected end of JSON input" {
+			off-- // Offset is just past the offending byte
+		}
+		c.add(off, "", "invalid JSON: %s", se.Error())
+	case err != nil:
+		c.add(-1, "", "invalid JSON: %v", err)
+	default:
+		c.add(-1, "", "invalid JSON")
+	}
+}
+
+// parser holds the state of one parse.
+type parser struct {
+	c    *collector
+	opts ParseOptions
+	p    *Pipeline
+}
+
+var (
+	topKeys    = keySet("foilwright", "name", "inputs", "prepare", "stages", "outputs")
+	inputKeys  = keySet("name", "files", "per_file", "station", "format", "columns", "units", "cut", "band", "flat_tol")
+	stageKeys  = keySet("id", "stage", "sha256", "params", "after", "on_error", "timeout_s")
+	outputKeys = keySet("folder", "documents", "plots")
+	// inputAllowed also admits the prepare keys an input may not set, so
+	// that they get a message of their own.
+	inputAllowed = func() map[string]bool {
+		m := keySet()
+		for k := range inputKeys {
+			m[k] = true
+		}
+		for _, k := range prepKeys {
+			m[k.name] = true
+		}
+		return m
+	}()
+	readingList = func() string {
+		var names []string
+		for _, k := range prepKeys {
+			if k.reading {
+				names = append(names, k.name)
+			}
+		}
+		return strings.Join(names, ", ")
+	}()
+	prepareSet = func() map[string]bool {
+		m := map[string]bool{}
+		for _, k := range prepKeys {
+			m[k.name] = true
+		}
+		return m
+	}()
+)
+
+func keySet(keys ...string) map[string]bool {
+	m := map[string]bool{}
+	for _, k := range keys {
+		m[k] = true
+	}
+	return m
+}
+
+// safeName is the form of section names, stage ids and the pipeline name:
+// they become folder and file names.
+var safeName = regexp.MustCompile(`^[A-Za-z0-9][A-Za-z0-9._-]{0,63}$`)
+
+var hexDigest = regexp.MustCompile(`^[0-9a-fA-F]{64}$`)
+
+func (ps *parser) parse(root gjson.Result) {
+	c := ps.c
+	vals := map[string]gjson.Result{}
+	if !c.wantObject("", root, topKeys, func(k, _ string, v gjson.Result) { vals[k] = v }) {
+		return
+	}
+	if v, ok := vals["foilwright"]; !ok {
+		c.add(root.Index, "", `missing key "foilwright" (the file format version, %d)`, FormatVersion)
+	} else if n, ok := c.wantInt("foilwright", v, math.MinInt32, math.MaxInt32); ok && n != FormatVersion {
+		c.add(v.Index, "foilwright", "file format version %d is not supported (this foilwright reads %d)", n, FormatVersion)
+	}
+	if v, ok := vals["name"]; !ok {
+		c.add(root.Index, "", `missing key "name"`)
+	} else if s, ok := c.wantString("name", v, true); ok {
+		if !safeName.MatchString(s) {
+			c.add(v.Index, "name", "%q is not a usable name (letters, digits, '.', '_', '-'; up to 64, starting with a letter or digit)", s)
+		} else {
+			ps.p.Name = s
+		}
+	}
+	if v, ok := vals["prepare"]; ok {
+		ps.p.Prepare = ps.settings("prepare", v)
+	}
+	if v, ok := vals["inputs"]; !ok {
+		c.add(root.Index, "", `missing key "inputs"`)
+	} else {
+		ps.inputs(v)
+	}
+	if v, ok := vals["stages"]; ok {
+		ps.stages(v)
+	}
+	ps.outputs(vals["outputs"])
+}
+
+// settings reads the "prepare" object.
+func (ps *parser) settings(path string, v gjson.Result) PrepSettings {
+	var s PrepSettings
+	ps.c.wantObject(path, v, prepareSet, func(k, kpath string, val gjson.Result) {
+		prepKeys[prepKeyIndex[k]].read(ps.c, kpath, val, &s)
+	})
+	return s
+}
+
+func (ps *parser) inputs(v gjson.Result) {
+	c := ps.c
+	names := map[string]string{} // section name → path of the input that made it
+	n := 0
+	c.wantArray("inputs", v, func(i int, ipath string, in gjson.Result) {
+		n++
+		var spec InputSpec
+		vals := map[string]gjson.Result{}
+		if !c.wantObject(ipath, in, inputAllowed, func(k, kpath string, val gjson.Result) {
+			if !inputKeys[k] {
+				c.add(c.keyAt, kpath, "%q cannot be set per input; set it in \"prepare\" (an input may set %s)", k, readingList)
+				return
+			}
+			vals[k] = val
+		}) {
+			return
+		}
+		// Reading overrides: the same keys and checks as in "prepare".
+		for k, val := range vals {
+			if i, ok := prepKeyIndex[k]; ok && prepKeys[i].reading {
+				prepKeys[i].read(c, joinKey(ipath, k), val, &spec.Read)
+			}
+		}
+		nameBad := false
+		if val, ok := vals["name"]; ok {
+			nameBad = true
+			if s, ok := c.wantString(ipath+".name", val, true); ok {
+				if !safeName.MatchString(s) {
+					c.add(val.Index, ipath+".name", "%q is not a usable section name (letters, digits, '.', '_', '-'; up to 64, starting with a letter or digit)", s)
+				} else {
+					spec.Name, nameBad = s, false
+				}
+			}
+		}
+		if val, ok := vals["per_file"]; ok {
+			spec.PerFile, _ = c.wantBool(ipath+".per_file", val)
+		}
+		if val, ok := vals["station"]; ok {
+			if x, ok := c.wantNumber(ipath+".station", val, anyFinite); ok {
+				spec.Station = &x
+			}
+		}
+		val, ok := vals["files"]
+		if !ok {
+			c.add(in.Index, ipath, `missing key "files"`)
+			return
+		}
+		ps.files(ipath+".files", val, &spec)
+		ps.p.Inputs = append(ps.p.Inputs, spec)
+		if len(spec.Paths) == 0 || nameBad {
+			return
+		}
+		for _, name := range sectionNames(spec) {
+			if !safeName.MatchString(name) {
+				c.add(in.Index, ipath, "section name %q made from the file name is not usable; give the input a \"name\"", name)
+				continue
+			}
+			if strings.EqualFold(name, ManifestName) {
+				c.add(in.Index, ipath, "section name %q is the manifest's file name; give the input another \"name\"", name)
+				continue
+			}
+			// Folder names may not differ only in case (case-insensitive file systems).
+			if other, dup := names[strings.ToLower(name)]; dup {
+				c.add(in.Index, ipath, "section name %q is also made by %s; give each input its own \"name\"", name, other)
+				continue
+			}
+			names[strings.ToLower(name)] = ipath
+		}
+	})
+	if v.IsArray() && n == 0 {
+		c.add(v.Index, "inputs", "no inputs")
+	}
+}
+
+// files expands the paths and globs of one input.
+func (ps *parser) files(path string, v gjson.Result, spec *InputSpec) {
+	c := ps.c
+	seen := map[string]bool{}
+	n := 0
+	c.wantArray(path, v, func(_ int, ipath string, f gjson.Result) {
+		n++
+		s, ok := c.wantString(ipath, f, true)
+		if !ok {
+			return
+		}
+		spec.Files = append(spec.Files, s)
+		full := ps.abs(s)
+		var matches []string
+		if strings.ContainsAny(s, "*?[") {
+			m, err := filepath.Glob(full)
+			if err != nil {
+				c.add(f.Index, ipath, "bad pattern %q: %v", s, err)
+				return
+			}
+			for _, p := range m {
+				if st, err := os.Stat(p); err == nil && st.Mode().IsRegular() {
+					matches = append(matches, p)
+				}
+			}
+			if len(matches) == 0 {
+				c.add(f.Index, ipath, "no file matches %q", s)
+				return
+			}
+		} else {
+			st, err := os.Stat(full)
+			switch {
+			case errors.Is(err, os.ErrNotExist):
+				c.add(f.Index, ipath, "file %q not found", s)
+				return
+			case err != nil:
+				c.add(f.Index, ipath, "file %q: %v", s, err)
+				return
+			case !st.Mode().IsRegular():
+				c.add(f.Index, ipath, "%q is not a regular file", s)
+				return
+			}
+			matches = []string{full}
+		}
+		sort.Strings(matches)
+		for _, m := range matches {
+			rel := ps.rel(m)
+			if !seen[rel] {
+				seen[rel] = true
+				spec.Paths = append(spec.Paths, rel)
+			}
+		}
+	})
+	if v.IsArray() && n == 0 {
+		c.add(v.Index, path, "no files")
+	}
+	sort.Strings(spec.Paths)
+}
+
+// abs resolves a path of the pipeline file.
+func (ps *parser) abs(s string) string {
+	s = filepath.FromSlash(s)
+	if filepath.IsAbs(s) {
+		return filepath.Clean(s)
+	}
+	return filepath.Join(ps.opts.Dir, s)
+}
+
+// rel gives the recorded form of a file path: slash-separated and relative
+// to the pipeline's folder when it is inside it.
+func (ps *parser) rel(p string) string {
+	base := ps.opts.Dir
+	if base == "" {
+		base = "."
+	}
+	if r, err := filepath.Rel(base, p); err == nil && r != ".." && !strings.HasPrefix(r, ".."+string(filepath.Separator)) {
+		return filepath.ToSlash(r)
+	}
+	if a, err := filepath.Abs(p); err == nil {
+		return filepath.ToSlash(a)
+	}
+	return filepath.ToSlash(p)
+}
+
+// sectionNames returns the names of the sections an input makes.
+func sectionNames(spec InputSpec) []string {
+	stem := func(p string) string {
+		b := filepath.Base(filepath.FromSlash(p))
+		return strings.TrimSuffix(b, filepath.Ext(b))
+	}
+	if !spec.PerFile {
+		if spec.Name != "" {
+			return []string{spec.Name}
+		}
+		return []string{stem(spec.Paths[0])}
+	}
+	names := make([]string, len(spec.Paths))
+	for i, p := range spec.Paths {
+		names[i] = stem(p)
+		if spec.Name != "" {
+			names[i] = spec.Name + "-" + names[i]
+		}
+	}
+	return names
+}
+
+func (ps *parser) stages(v gjson.Result) {
+	c := ps.c
+	ids := map[string]int{} // id → offset of its first use
+	type afterRef struct {
+		id   string
+		path string
+		off  int
+	}
+	var refs [][]afterRef // per stage
+	idsOK := true
+	c.wantArray("stages", v, func(i int, ipath string, st gjson.Result) {
+		s := Stage{Params: []byte("{}"), OnError: OnErrorStop}
+		var ar []afterRef
+		defer func() {
+			idsOK = idsOK && s.ID != ""
+			ps.p.Stages = append(ps.p.Stages, s)
+			refs = append(refs, ar)
+		}()
+		vals := map[string]gjson.Result{}
+		if !c.wantObject(ipath, st, stageKeys, func(k, _ string, val gjson.Result) { vals[k] = val }) {
+			return
+		}
+		if val, ok := vals["id"]; !ok {
+			c.add(st.Index, ipath, `missing key "id"`)
+		} else if id, ok := c.wantString(ipath+".id", val, true); ok {
+			first, dup := ids[id]
+			caseOf := ""
+			for other, off := range ids {
+				if !dup && strings.EqualFold(other, id) {
+					// results/<id>.json may not differ only in case.
+					first, dup, caseOf = off, true, other
+				}
+			}
+			switch {
+			case caseOf != "":
+				l, col := c.pos.at(first)
+				c.add(val.Index, ipath+".id", "stage id %q differs only in case from %q (at %d:%d)", id, caseOf, l, col)
+			case !safeName.MatchString(id):
+				c.add(val.Index, ipath+".id", "%q is not a usable stage id (letters, digits, '.', '_', '-'; up to 64, starting with a letter or digit)", id)
+			case dup:
+				l, col := c.pos.at(first)
+				c.add(val.Index, ipath+".id", "duplicate stage id %q (first at %d:%d)", id, l, col)
+			default:
+				ids[id] = val.Index
+				s.ID = id
+			}
+		}
+		if val, ok := vals["stage"]; !ok {
+			c.add(st.Index, ipath, `missing key "stage" (a built-in stage name or an executable path)`)
+		} else if name, ok := c.wantString(ipath+".stage", val, true); ok {
+			s.Stage = name
+			ps.stageTarget(ipath, val, vals["sha256"], &s)
+		}
+		if val, ok := vals["params"]; ok {
+			if c.wantType(ipath+".params", val, "object", val.IsObject()) {
+				c.checkDuplicates(ipath+".params", val)
+				s.Params = []byte(val.Raw)
+			}
+		}
+		if val, ok := vals["after"]; ok {
+			seen := map[string]bool{}
+			c.wantArray(ipath+".after", val, func(_ int, apath string, a gjson.Result) {
+				id, ok := c.wantString(apath, a, true)
+				if !ok {
+					return
+				}
+				if seen[id] {
+					c.add(a.Index, apath, "stage %q listed twice", id)
+					return
+				}
+				seen[id] = true
+				s.After = append(s.After, id)
+				ar = append(ar, afterRef{id, apath, a.Index})
+			})
+		}
+		if val, ok := vals["on_error"]; ok {
+			if e, ok := c.wantEnum(ipath+".on_error", val, OnErrorStop, OnErrorContinue); ok {
+				s.OnError = e
+			}
+		}
+		if val, ok := vals["timeout_s"]; ok {
+			if x, ok := c.wantNumber(ipath+".timeout_s", val, numRange{lo: 0, hi: MaxTimeoutS, loOpen: true}); ok {
+				s.TimeoutS = x
+			}
+		}
+	})
+	// Dependencies: known ids, no stage after itself, no cycles.
+	valid := true
+	for i, ar := range refs {
+		for _, r := range ar {
+			switch _, ok := ids[r.id]; {
+			case r.id == ps.p.Stages[i].ID:
+				c.add(r.off, r.path, "stage %q cannot run after itself", r.id)
+				valid = false
+			case !ok:
+				c.add(r.off, r.path, "unknown stage id %q%s", r.id, suggest(r.id, keysOf(ids)))
+				valid = false
+			}
+		}
+	}
+	if !valid || !idsOK {
+		return
+	}
+	order, cycle := orderStages(ps.p.Stages)
+	if cycle != nil {
+		first := cycle[0]
+		names := make([]string, len(cycle)+1)
+		for k, i := range cycle {
+			names[k] = fmt.Sprintf("%q", ps.p.Stages[i].ID)
+		}
+		names[len(cycle)] = names[0]
+		off := ids[ps.p.Stages[first].ID]
+		for _, r := range refs[first] {
+			if r.id == ps.p.Stages[cycle[1%len(cycle)]].ID {
+				off = r.off
+			}
+		}
+		c.add(off, fmt.Sprintf("stages[%d].after", first), "dependency cycle: %s", strings.Join(names, " after "))
+		return
+	}
+	ps.p.order = order
+}
+
+func keysOf(m map[string]int) map[string]bool {
+	s := map[string]bool{}
+	for k := range m {
+		s[k] = true
+	}
+	return s
+}
+
+// stageTarget resolves s.Stage to a built-in name or an executable and
+// checks its pin.
+func (ps *parser) stageTarget(ipath string, val, pin gjson.Result, s *Stage) {
+	c := ps.c
+	if pin.Exists() {
+		if d, ok := c.wantString(ipath+".sha256", pin, true); ok {
+			if !hexDigest.MatchString(d) {
+				c.add(pin.Index, ipath+".sha256", "want 64 hexadecimal digits, got %q", d)
+			} else {
+				s.SHA256 = strings.ToLower(d)
+			}
+		}
+	}
+	if !strings.ContainsAny(s.Stage, `/\`) {
+		if ps.opts.Known == nil || !ps.opts.Known(s.Stage) {
+			c.add(val.Index, ipath+".stage", "unknown stage %q (not a built-in stage; write a path such as \"./%s\" for an executable)", s.Stage, s.Stage)
+		}
+		return
+	}
+	full := ps.abs(s.Stage)
+	st, err := os.Stat(full)
+	switch {
+	case errors.Is(err, os.ErrNotExist):
+		c.add(val.Index, ipath+".stage", "stage executable %q not found", s.Stage)
+		return
+	case err != nil:
+		c.add(val.Index, ipath+".stage", "stage executable %q: %v", s.Stage, err)
+		return
+	case !st.Mode().IsRegular():
+		c.add(val.Index, ipath+".stage", "stage executable %q is not a regular file", s.Stage)
+		return
+	case runtime.GOOS != "windows" && st.Mode().Perm()&0o111 == 0:
+		c.add(val.Index, ipath+".stage", "stage %q is not executable", s.Stage)
+		return
+	}
+	s.Exec = full
+	if s.SHA256 != "" {
+		got, err := fileSHA256(full)
+		if err != nil {
+			c.add(val.Index, ipath+".stage", "stage executable %q: %v", s.Stage, err)
+		} else if got != s.SHA256 {
+			c.add(pin.Index, ipath+".sha256", "stage executable %q has sha256 %s, the pipeline pins %s", s.Stage, got, s.SHA256)
+		}
+	}
+}
+
+func (ps *parser) outputs(v gjson.Result) {
+	c := ps.c
+	out := Outputs{Documents: []string{DocSection, DocNodes, DocResults}}
+	defer func() {
+		if out.Folder == "" && ps.p.Name != "" {
+			out.Folder = "runs/" + ps.p.Name
+		}
+		ps.p.Outputs = out
+	}()
+	if !v.Exists() {
+		return
+	}
+	vals := map[string]gjson.Result{}
+	if !c.wantObject("outputs", v, outputKeys, func(k, _ string, val gjson.Result) { vals[k] = val }) {
+		return
+	}
+	if val, ok := vals["folder"]; ok {
+		if s, ok := c.wantString("outputs.folder", val, true); ok {
+			out.Folder = s
+		}
+	}
+	if val, ok := vals["documents"]; ok {
+		out.Documents = nil
+		seen := map[string]bool{}
+		c.wantArray("outputs.documents", val, func(_ int, ipath string, d gjson.Result) {
+			if e, ok := c.wantEnum(ipath, d, DocSection, DocNodes, DocResults); ok {
+				if seen[e] {
+					c.add(d.Index, ipath, "%q listed twice", e)
+					return
+				}
+				seen[e] = true
+				out.Documents = append(out.Documents, e)
+			}
+		})
+	}
+	if val, ok := vals["plots"]; ok {
+		c.wantArray("outputs.plots", val, func(_ int, ipath string, d gjson.Result) {
+			if s, ok := c.wantString(ipath, d, true); ok {
+				out.Plots = append(out.Plots, s)
+			}
+		})
+	}
+}
+
+// fileSHA256 returns the hex sha256 of the file at path.
+func fileSHA256(path string) (string, error) {
+	data, err := os.ReadFile(path)
+	if err != nil {
+		return "", err
+	}
+	sum := sha256.Sum256(data)
+	return hex.EncodeToString(sum[:]), nil
+}

@@ -1,0 +1,182 @@
+package pipeline
+
+import (
+	"bytes"
+	"encoding/json"
+	"fmt"
+	"io"
+	"os"
+	"strconv"
+
+	"github.com/foilwright/foilwright/internal/atomicfile"
+	"github.com/foilwright/foilwright/internal/version"
+)
+
+// ManifestName is the manifest's file name at the root of a run folder.
+const ManifestName = "manifest.json"
+
+// ManifestFormat is the value of the manifest's "format" key.
+const ManifestFormat = "foilwright.manifest/1"
+
+// A Manifest records a run so that it can be repeated and checked: the tool,
+// the pipeline file, each section's input files, the stages and their
+// parameters, and the sha256 of every output. All of it is the same for two
+// runs of the same work except Timings, which Verify ignores.
+type Manifest struct {
+	Format      string            `json:"format"`
+	Tool        Tool              `json:"tool"`
+	Pipeline    PipelineRef       `json:"pipeline"`
+	Interrupted bool              `json:"interrupted,omitempty"` // the run was cancelled
+	Stages      []StageRecord     `json:"stages"`                // dependency order
+	Sections    []SectionRecord   `json:"sections"`
+	Outputs     map[string]string `json:"outputs"` // slash path in the run folder → sha256
+	Timings     Timings           `json:"timings"`
+}
+
+// Tool identifies the program that made a run.
+type Tool struct {
+	Name     string `json:"name"`
+	Version  string `json:"version"`
+	Revision string `json:"revision,omitempty"`
+}
+
+// PipelineRef identifies the pipeline file of a run.
+type PipelineRef struct {
+	File   string `json:"file"` // absolute path
+	Name   string `json:"name"`
+	SHA256 string `json:"sha256"`
+}
+
+// A StageRecord is one stage as the pipeline named it and as it described
+// itself.
+type StageRecord struct {
+	ID         string          `json:"id"`
+	Stage      string          `json:"stage"` // as written in the pipeline file
+	Name       string          `json:"name"`
+	Version    string          `json:"version"`
+	Executable string          `json:"executable_sha256,omitempty"`
+	Pin        string          `json:"pinned_sha256,omitempty"`
+	Params     json.RawMessage `json:"params"`
+	After      []string        `json:"after,omitempty"`
+	OnError    string          `json:"on_error"`
+	TimeoutS   float64         `json:"timeout_s,omitempty"`
+}
+
+// A SectionRecord is one section: what went in and how it went.
+type SectionRecord struct {
+	Name     string        `json:"name"`
+	Station  *float64      `json:"station,omitempty"`
+	Inputs   []FileHash    `json:"inputs"`
+	Settings PrepSettings  `json:"settings"`
+	Status   string        `json:"status"`
+	Err      string        `json:"error,omitempty"`
+	Stages   []StageReport `json:"stages,omitempty"`
+}
+
+// FileHash is a recorded file and its sha256.
+type FileHash struct {
+	Path   string `json:"path"`
+	SHA256 string `json:"sha256"`
+}
+
+// Timings is how long a run took; it is the one part of a manifest that
+// differs between two runs of the same work.
+type Timings struct {
+	Started  string          `json:"started"` // RFC 3339, UTC
+	TotalS   float64         `json:"total_s"`
+	Jobs     int             `json:"jobs"`
+	Sections []SectionTiming `json:"sections"`
+}
+
+// SectionTiming is the time one section took, in seconds.
+type SectionTiming struct {
+	Name     string        `json:"name"`
+	PrepareS float64       `json:"prepare_s"`
+	Stages   []StageTiming `json:"stages,omitempty"`
+}
+
+// StageTiming is the time one stage took for one section, in seconds.
+type StageTiming struct {
+	ID string  `json:"id"`
+	S  float64 `json:"s"`
+}
+
+func newManifest(pl *Plan, infos []StageInfo, results []sectionResult, interrupted bool) *Manifest {
+	p := pl.Pipeline
+	file := p.Path
+	if file == "" {
+		file = p.File
+	}
+	m := &Manifest{
+		Format:      ManifestFormat,
+		Tool:        Tool{Name: "foilwright", Version: version.Version, Revision: version.Revision()},
+		Pipeline:    PipelineRef{File: file, Name: p.Name, SHA256: p.SHA256},
+		Interrupted: interrupted,
+		Stages:      []StageRecord{},
+		Sections:    []SectionRecord{},
+		Outputs:     map[string]string{},
+		Timings:     Timings{Sections: []SectionTiming{}},
+	}
+	for i, st := range pl.Stages {
+		m.Stages = append(m.Stages, StageRecord{
+			ID: st.ID, Stage: st.Stage, Name: infos[i].Name, Version: infos[i].Version,
+			Executable: infos[i].Executable, Pin: st.SHA256, Params: json.RawMessage(st.Params),
+			After: st.After, OnError: st.OnError, TimeoutS: st.TimeoutS,
+		})
+	}
+	for i, sp := range pl.Sections {
+		r := results[i]
+		inputs := r.files
+		if inputs == nil {
+			inputs = []FileHash{}
+		}
+		m.Sections = append(m.Sections, SectionRecord{
+			Name: sp.Name, Station: sp.Station, Inputs: inputs, Settings: sp.Settings,
+			Status: r.report.Status, Err: r.report.Err, Stages: r.report.Stages,
+		})
+		for path, sum := range r.outputs {
+			m.Outputs[path] = sum
+		}
+		m.Timings.Sections = append(m.Timings.Sections, r.timing)
+	}
+	return m
+}
+
+func writeManifest(path string, m *Manifest) error {
+	b, err := json.MarshalIndent(m, "", "  ")
+	if err != nil {
+		return fmt.Errorf("pipeline: write manifest: %w", err)
+	}
+	return atomicfile.WriteBytes(path, append(b, '\n'))
+}
+
+// ReadManifest reads the manifest at path. It returns an error wrapping
+// ErrNotManifest when the file is not one.
+func ReadManifest(path string) (*Manifest, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	data, err := io.ReadAll(f)
+	if err != nil {
+		return nil, err
+	}
+	var m Manifest
+	if err := json.NewDecoder(bytes.NewReader(data)).Decode(&m); err != nil {
+		return nil, fmt.Errorf("%w: %s: %v", ErrNotManifest, path, err)
+	}
+	if m.Format != ManifestFormat {
+		return nil, fmt.Errorf("%w: %s: format %q, want %q", ErrNotManifest, path, m.Format, ManifestFormat)
+	}
+	return &m, nil
+}
+
+// fmtCoord formats a coordinate in the shortest decimal form that reads
+// back to the same float64, without an exponent.
+func fmtCoord(x float64) string {
+	if x == 0 {
+		return "0" // also for -0
+	}
+	return strconv.FormatFloat(x, 'f', -1, 64)
+}

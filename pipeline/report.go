@@ -1,0 +1,66 @@
+package pipeline
+
+import (
+	"fmt"
+	"io"
+	"strings"
+)
+
+// Write prints the summary for a person: one line per section with its
+// status, then the reason of every failure and each stage that failed.
+func (s *Summary) Write(w io.Writer) error {
+	var b strings.Builder
+	counts := map[string]int{}
+	for _, r := range s.Sections {
+		counts[r.Status]++
+		fmt.Fprintf(&b, "%-9s %s", r.Status, r.Name)
+		if r.Summary != "" {
+			fmt.Fprintf(&b, ": %s", strings.ReplaceAll(strings.TrimSpace(r.Summary), "\n", "; "))
+		}
+		b.WriteByte('\n')
+		if r.Err != "" {
+			fmt.Fprintf(&b, "          %s\n", r.Err)
+		}
+		for _, st := range r.Stages {
+			if st.Status == "failed" || st.Status == "skipped" {
+				if st.Err != "" && !strings.Contains(r.Err, st.Err) {
+					fmt.Fprintf(&b, "          stage %q %s: %s\n", st.ID, st.Status, st.Err)
+				}
+			}
+		}
+	}
+	fmt.Fprintf(&b, "%d section(s): %d ok", len(s.Sections), counts[StatusOK])
+	for _, st := range []string{StatusPartial, StatusFailed, StatusCancelled} {
+		if counts[st] > 0 {
+			fmt.Fprintf(&b, ", %d %s", counts[st], st)
+		}
+	}
+	fmt.Fprintf(&b, "; manifest %s\n", s.Manifest)
+	_, err := io.WriteString(w, b.String())
+	return err
+}
+
+// Write prints the verify report for a person: every difference, change
+// and note, then the verdict.
+func (r *VerifyReport) Write(w io.Writer) error {
+	var b strings.Builder
+	for _, d := range r.Differences {
+		fmt.Fprintf(&b, "differs: %s\n", d)
+	}
+	for _, c := range r.Changes {
+		fmt.Fprintf(&b, "changed: %s\n", c)
+	}
+	for _, n := range r.Notes {
+		fmt.Fprintf(&b, "note: %s\n", n)
+	}
+	if r.Folder != "" {
+		fmt.Fprintf(&b, "re-run kept in %s\n", r.Folder)
+	}
+	if r.OK() {
+		fmt.Fprintf(&b, "reproduced: %d output(s) match %s\n", r.Checked, r.Manifest)
+	} else {
+		fmt.Fprintf(&b, "not reproduced: %d of %d output(s) differ, %d section(s) changed\n", len(r.Differences), r.Checked, len(r.Changes))
+	}
+	_, err := io.WriteString(w, b.String())
+	return err
+}

@@ -1,0 +1,292 @@
+package pipeline
+
+import (
+	"fmt"
+	"math"
+	"strconv"
+	"strings"
+
+	"github.com/tidwall/gjson"
+)
+
+// PrepSettings are the prep options of one section, named and typed as the
+// "prepare" keys of a pipeline file (the same options as the prep command's
+// flags). A nil pointer or an empty string means "not set": the geometry
+// chain uses its default. Ranges are checked when the file is parsed.
+type PrepSettings struct {
+	// Reading; an input may override these.
+	Format  string   `json:"format,omitempty"`   // "" auto, delimited, loop, surfaces, dxf, stl
+	Columns string   `json:"columns,omitempty"`  // "2,3,4" (1-based) or header names "x,y,z"
+	Units   string   `json:"units,omitempty"`    // mm, in, m, chord
+	Cut     string   `json:"cut,omitempty"`      // "z=240" or "px,py,pz:nx,ny,nz"
+	Band    *float64 `json:"band,omitempty"`     // keep 3D points within ±Band of the plane, input units
+	FlatTol *float64 `json:"flat_tol,omitempty"` // refuse when points depart from their plane by more, input units
+
+	// Cleaning.
+	MergeTol     *float64 `json:"merge_tol,omitempty"`     // merge points closer than this, input units
+	OutlierSigma *float64 `json:"outlier_sigma,omitempty"` // drop points beyond this many robust sigmas
+	KeepOutliers *bool    `json:"keep_outliers,omitempty"` // report outliers but keep them
+	Loop         *int     `json:"loop,omitempty"`          // 0 largest-area loop, K the K-th largest
+
+	// Fitting and edges.
+	Noise   *float64    `json:"noise,omitempty"`    // nil auto, 0 interpolate, else expected noise in input units
+	FitTol  *float64    `json:"fit_tol,omitempty"`  // list points farther than this from the curve, input units
+	TE      string      `json:"te,omitempty"`       // auto, keep, close, sharpen
+	TEBlend *float64    `json:"te_blend,omitempty"` // aft chord fraction over which a blunt TE is closed
+	LEAt    *[2]float64 `json:"le_at,omitempty"`    // leading edge in input coordinates
+	Mirror  string      `json:"mirror,omitempty"`   // auto, yes, no
+
+	// Repanelling.
+	Panels          *int     `json:"panels,omitempty"`  // 16..2000
+	Spacing         string   `json:"spacing,omitempty"` // cosine, half-cosine, uniform, curvature
+	LECluster       *float64 `json:"le_cluster,omitempty"`
+	TECluster       *float64 `json:"te_cluster,omitempty"`
+	CurvatureWeight *float64 `json:"curvature_weight,omitempty"`
+
+	// Properties.
+	ThicknessMode string `json:"thickness_mode,omitempty"` // chord, camber
+	CamberMode    string `json:"camber_mode,omitempty"`    // mean, inscribed
+}
+
+// prepKey describes one "prepare" key: whether an input may override it,
+// and how to read and store it.
+type prepKey struct {
+	name    string
+	reading bool
+	read    func(c *collector, path string, v gjson.Result, s *PrepSettings)
+}
+
+var (
+	positive = numRange{lo: 0, hi: math.Inf(1), loOpen: true}
+	nonNeg   = numRange{lo: 0, hi: math.Inf(1)}
+	unit     = numRange{lo: 0, hi: 1}
+)
+
+func numKey(name string, reading bool, r numRange, field func(*PrepSettings) **float64) prepKey {
+	return prepKey{name, reading, func(c *collector, path string, v gjson.Result, s *PrepSettings) {
+		if x, ok := c.wantNumber(path, v, r); ok {
+			*field(s) = &x
+		}
+	}}
+}
+
+func enumKey(name string, reading bool, field func(*PrepSettings) *string, allowed ...string) prepKey {
+	return prepKey{name, reading, func(c *collector, path string, v gjson.Result, s *PrepSettings) {
+		if e, ok := c.wantEnum(path, v, allowed...); ok {
+			*field(s) = e
+		}
+	}}
+}
+
+// prepKeys lists every "prepare" key (PREP_OPTIONS). The numeric ranges
+// that the geometry packages do not fix themselves are ours: a value outside
+// them is a slip, not a setting (common practice for outlier_sigma is 3 to 5).
+var prepKeys = []prepKey{
+	{"format", true, func(c *collector, path string, v gjson.Result, s *PrepSettings) {
+		if e, ok := c.wantEnum(path, v, "auto", "delimited", "loop", "surfaces", "dxf", "stl"); ok && e != "auto" {
+			s.Format = e
+		}
+	}},
+	{"columns", true, func(c *collector, path string, v gjson.Result, s *PrepSettings) {
+		if str, ok := c.wantString(path, v, true); ok {
+			if err := checkColumns(str); err != nil {
+				c.add(v.Index, path, "%v", err)
+				return
+			}
+			s.Columns = str
+		}
+	}},
+	enumKey("units", true, func(s *PrepSettings) *string { return &s.Units }, "mm", "in", "m", "chord"),
+	{"cut", true, func(c *collector, path string, v gjson.Result, s *PrepSettings) {
+		if str, ok := c.wantString(path, v, true); ok {
+			if err := checkCut(str); err != nil {
+				c.add(v.Index, path, "%v", err)
+				return
+			}
+			s.Cut = str
+		}
+	}},
+	numKey("band", true, positive, func(s *PrepSettings) **float64 { return &s.Band }),
+	numKey("flat_tol", true, positive, func(s *PrepSettings) **float64 { return &s.FlatTol }),
+	numKey("merge_tol", false, nonNeg, func(s *PrepSettings) **float64 { return &s.MergeTol }),
+	numKey("outlier_sigma", false, numRange{lo: 0, hi: 100, loOpen: true}, func(s *PrepSettings) **float64 { return &s.OutlierSigma }),
+	{"keep_outliers", false, func(c *collector, path string, v gjson.Result, s *PrepSettings) {
+		if b, ok := c.wantBool(path, v); ok {
+			s.KeepOutliers = &b
+		}
+	}},
+	{"loop", false, func(c *collector, path string, v gjson.Result, s *PrepSettings) {
+		if n, ok := c.wantInt(path, v, 0, 1000); ok {
+			s.Loop = &n
+		}
+	}},
+	{"noise", false, func(c *collector, path string, v gjson.Result, s *PrepSettings) {
+		if v.Type == gjson.String {
+			if v.Str != "auto" {
+				c.add(v.Index, path, `want "auto" or a number at least 0, got %q`, v.Str)
+			}
+			return
+		}
+		if v.Type != gjson.Number {
+			c.add(v.Index, path, `want "auto" or a number, got %s`, describe(v))
+			return
+		}
+		if x, ok := c.wantNumber(path, v, nonNeg); ok {
+			s.Noise = &x
+		}
+	}},
+	numKey("fit_tol", false, positive, func(s *PrepSettings) **float64 { return &s.FitTol }),
+	enumKey("te", false, func(s *PrepSettings) *string { return &s.TE }, "auto", "keep", "close", "sharpen"),
+	numKey("te_blend", false, numRange{lo: 0, hi: 1, loOpen: true}, func(s *PrepSettings) **float64 { return &s.TEBlend }),
+	{"le_at", false, func(c *collector, path string, v gjson.Result, s *PrepSettings) {
+		var xy [2]float64
+		n, good := 0, true
+		if !c.wantArray(path, v, func(i int, ipath string, el gjson.Result) {
+			n++
+			x, ok := c.wantNumber(ipath, el, anyFinite)
+			good = good && ok
+			if i < 2 {
+				xy[i] = x
+			}
+		}) {
+			return
+		}
+		if n != 2 {
+			c.add(v.Index, path, "want [x, y], got %d number(s)", n)
+			return
+		}
+		if good {
+			s.LEAt = &xy
+		}
+	}},
+	enumKey("mirror", false, func(s *PrepSettings) *string { return &s.Mirror }, "auto", "yes", "no"),
+	{"panels", false, func(c *collector, path string, v gjson.Result, s *PrepSettings) {
+		if n, ok := c.wantInt(path, v, 16, 2000); ok {
+			s.Panels = &n
+		}
+	}},
+	enumKey("spacing", false, func(s *PrepSettings) *string { return &s.Spacing }, "cosine", "half-cosine", "uniform", "curvature"),
+	numKey("le_cluster", false, unit, func(s *PrepSettings) **float64 { return &s.LECluster }),
+	numKey("te_cluster", false, unit, func(s *PrepSettings) **float64 { return &s.TECluster }),
+	numKey("curvature_weight", false, unit, func(s *PrepSettings) **float64 { return &s.CurvatureWeight }),
+	enumKey("thickness_mode", false, func(s *PrepSettings) *string { return &s.ThicknessMode }, "chord", "camber"),
+	enumKey("camber_mode", false, func(s *PrepSettings) *string { return &s.CamberMode }, "mean", "inscribed"),
+}
+
+// prepKeyIndex maps a key name to its entry in prepKeys.
+var prepKeyIndex = func() map[string]int {
+	m := map[string]int{}
+	for i, k := range prepKeys {
+		m[k.name] = i
+	}
+	return m
+}()
+
+// overlay returns s with the reading settings that o sets replacing those of s.
+func (s PrepSettings) overlay(o PrepSettings) PrepSettings {
+	if o.Format != "" {
+		s.Format = o.Format
+	}
+	if o.Columns != "" {
+		s.Columns = o.Columns
+	}
+	if o.Units != "" {
+		s.Units = o.Units
+	}
+	if o.Cut != "" {
+		s.Cut = o.Cut
+	}
+	if o.Band != nil {
+		s.Band = o.Band
+	}
+	if o.FlatTol != nil {
+		s.FlatTol = o.FlatTol
+	}
+	return s
+}
+
+// checkColumns checks a column choice: two or three 1-based column numbers,
+// or two or three header names, separated by commas.
+func checkColumns(s string) error {
+	parts := strings.Split(s, ",")
+	if len(parts) < 2 || len(parts) > 3 {
+		return fmt.Errorf("want 2 or 3 columns separated by commas, got %q", s)
+	}
+	numbers := 0
+	seen := map[string]bool{}
+	for _, p := range parts {
+		p = strings.TrimSpace(p)
+		if p == "" {
+			return fmt.Errorf("empty column in %q", s)
+		}
+		if seen[p] {
+			return fmt.Errorf("column %q chosen twice", p)
+		}
+		seen[p] = true
+		if n, err := strconv.Atoi(p); err == nil {
+			if n < 1 {
+				return fmt.Errorf("column numbers start at 1, got %d", n)
+			}
+			numbers++
+		}
+	}
+	if numbers != 0 && numbers != len(parts) {
+		return fmt.Errorf("mix of column numbers and names in %q", s)
+	}
+	return nil
+}
+
+// checkCut checks a cutting plane: "x=V", "y=V" or "z=V", or a point and a
+// normal "px,py,pz:nx,ny,nz" with a non-zero normal.
+func checkCut(s string) error {
+	if axis, val, ok := strings.Cut(s, "="); ok {
+		switch strings.TrimSpace(axis) {
+		case "x", "y", "z":
+		default:
+			return fmt.Errorf("want x=, y= or z= before the value, got %q", s)
+		}
+		if _, err := finite(val); err != nil {
+			return fmt.Errorf("plane %q: %v", s, err)
+		}
+		return nil
+	}
+	p, n, ok := strings.Cut(s, ":")
+	if !ok {
+		return fmt.Errorf(`want "z=240" or "px,py,pz:nx,ny,nz", got %q`, s)
+	}
+	if _, err := triple(p); err != nil {
+		return fmt.Errorf("plane %q: point: %v", s, err)
+	}
+	v, err := triple(n)
+	if err != nil {
+		return fmt.Errorf("plane %q: normal: %v", s, err)
+	}
+	if v[0] == 0 && v[1] == 0 && v[2] == 0 {
+		return fmt.Errorf("plane %q: normal is zero", s)
+	}
+	return nil
+}
+
+func triple(s string) ([3]float64, error) {
+	var v [3]float64
+	parts := strings.Split(s, ",")
+	if len(parts) != 3 {
+		return v, fmt.Errorf("want 3 numbers, got %d", len(parts))
+	}
+	for i, p := range parts {
+		x, err := finite(p)
+		if err != nil {
+			return v, err
+		}
+		v[i] = x
+	}
+	return v, nil
+}
+
+func finite(s string) (float64, error) {
+	x, err := strconv.ParseFloat(strings.TrimSpace(s), 64)
+	if err != nil || math.IsNaN(x) || math.IsInf(x, 0) {
+		return 0, fmt.Errorf("%q is not a finite number", strings.TrimSpace(s))
+	}
+	return x, nil
+}
