@@ -94,7 +94,7 @@ var info = stage.Info{
 		{Name: "ixy_m4", Doc: "product of inertia about the centroid, ∫(x−x̄)(y−ȳ) dA, m⁴"},
 		{Name: "i_flap_m4", Doc: "principal second moment about the flapwise axis (the principal axis nearer the chord line), m⁴"},
 		{Name: "i_edge_m4", Doc: "principal second moment about the edgewise axis (perpendicular to the flapwise axis), m⁴"},
-		{Name: "principal_deg", Doc: "angle of the flapwise axis from the chord line, degrees in (−45, 45], positive towards the upper side at the trailing edge"},
+		{Name: "principal_deg", Doc: "angle of the flapwise axis from the chord line, degrees in (−45, 45], counter-clockwise: positive when the axis rises towards the trailing edge"},
 		{Name: "principal_part_deg", Doc: "angle of the flapwise axis in the part's input coordinates, counter-clockwise from +x, degrees in (−90, 90]; only when the section has a frame"},
 		{Name: "ei_flap_nm2", Doc: "flapwise bending stiffness, N·m²: fill_fraction · modulus · i_flap_m4 (bending out of the chord plane)"},
 		{Name: "ei_edge_nm2", Doc: "edgewise bending stiffness, N·m²: fill_fraction · modulus · i_edge_m4 (bending in the chord plane)"},
