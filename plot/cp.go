@@ -8,10 +8,7 @@ import (
 	gplot "gonum.org/v1/plot"
 	"gonum.org/v1/plot/plotter"
 	"gonum.org/v1/plot/vg"
-	"gonum.org/v1/plot/vg/draw"
 )
-
-var _ draw.GlyphDrawer = draw.CircleGlyph{}
 
 // CpCase is the pressure distribution of one case: Cp at the points (X, Y)
 // (chord units, normalised frame) in node order, trailing edge → upper
@@ -144,7 +141,7 @@ func PolarPlot(series []PolarSeries) (*Figure, error) {
 		return nil, fmt.Errorf("%w: no polar series", ErrNoData)
 	}
 	cl := newPlot("Lift and moment", "", "Cl")
-	cm := newPlot("", "α (deg)", "Cm c/4")
+	cm := newPlot("", "α (deg)", "Cm, c/4")
 	var as, cls, cms []float64
 	for k, s := range series {
 		field := fmt.Sprintf("series[%d]", k)

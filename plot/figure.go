@@ -158,6 +158,8 @@ func (f *Figure) layout(c draw.Canvas) (canvases [][]draw.Canvas, titleTops []vg
 	for i, r := range f.rows {
 		out[i] = slices.Clone(tiles[i])
 		for j, p := range r.panels {
+			// Start from the same state whatever an earlier layout left.
+			autoTicks(p.plot, draw.Canvas{Rectangle: vg.Rectangle{Max: vg.Point{X: 6 * xTickSpacing, Y: 6 * yTickSpacing}}})
 			if p.equal {
 				out[i][j] = p.fitEqual(out[i][j])
 			}
@@ -165,6 +167,11 @@ func (f *Figure) layout(c draw.Canvas) (canvases [][]draw.Canvas, titleTops []vg
 	}
 	type insets struct{ l, r, b, t vg.Length }
 	for range 3 {
+		for i, r := range f.rows {
+			for j, p := range r.panels {
+				autoTicks(p.plot, p.plot.DataCanvas(out[i][j]))
+			}
+		}
 		in := make([][]insets, len(f.rows))
 		rowMax := make([]insets, len(f.rows))
 		colMax := map[[2]int]insets{} // key: panels in row, column
@@ -257,4 +264,21 @@ func (p *panel) equalHeight(width vg.Length) vg.Length {
 		h = vg.Length(dh) + (h - (d.Max.Y - d.Min.Y))
 	}
 	return h
+}
+
+// Tick spacing, points between labelled ticks, that autoTicks aims for.
+const (
+	xTickSpacing = 80
+	yTickSpacing = 25
+)
+
+// autoTicks sets the number of ticks of p's axes from the size of its data
+// area d, where the axes use niceTicks.
+func autoTicks(p *gplot.Plot, d draw.Canvas) {
+	if _, ok := p.X.Tick.Marker.(niceTicks); ok {
+		p.X.Tick.Marker = niceTicks{min(max(int(float64(d.Max.X-d.Min.X)/xTickSpacing), 3), 8)}
+	}
+	if _, ok := p.Y.Tick.Marker.(niceTicks); ok {
+		p.Y.Tick.Marker = niceTicks{min(max(int(float64(d.Max.Y-d.Min.Y)/yTickSpacing), 3), 8)}
+	}
 }

@@ -160,13 +160,14 @@ func TestRender(t *testing.T) {
 		{"prep", hexes(colRed), hexes(colBlue), map[color.Color]int{colInk: 4},
 			map[color.Color]int{colBlue: 297 + 1}}, // kept points in the main panel, legend
 		{"deviation", hexes(colBlue, colRed), hexes(colBlue, colRed), map[color.Color]int{colBlue: 1}, map[color.Color]int{colBlue: 297}},
-		{"nodes", hexes(colBlue, colOrange, colPurple), hexes(colBlue), map[color.Color]int{colInk: 1, colBlue: 1, colOrange: 1, colPurple: 1}, map[color.Color]int{colBlue: 161 + 160}},
+		{"nodes", hexes(colBlue, colOrange, colPurple), hexes(colBlue, colOrange), map[color.Color]int{colInk: 1, colBlue: 1, colOrange: 1, colPurple: 1}, map[color.Color]int{colBlue: 161 + 160}},
 		{"section", hexes(colBlue, colOrange), hexes(colBlue), map[color.Color]int{colInk: 1, colBlue: 2, colOrange: 2}, nil},
 		{"cp", hexes(colBlue, colOrange), nil, map[color.Color]int{colBlue: 1, colOrange: 1}, nil},
 		{"cp-sweep", hexes(colBlue, colOrange, colSky), nil, map[color.Color]int{colBlue: 2, colOrange: 2, colSky: 2}, nil},
-		{"polar", hexes(colBlue, colOrange), hexes(colBlue), nil, map[color.Color]int{colBlue: 2*8 + 1}},
+		{"polar", hexes(colBlue, colOrange), hexes(colBlue, colOrange), nil, map[color.Color]int{colBlue: 2*8 + 1}},
 		{"streamlines", hexes(colBlue), nil, nil, nil},
-		{"stations", hexes(colBlue, colOrange, colSky, colPurple), hexes(colBlue), nil, map[color.Color]int{colBlue: 5 + 0}},
+		{"stations", hexes(colBlue, colOrange, colSky, colPurple), hexes(colBlue, colOrange, colSky), nil,
+			map[color.Color]int{colBlue: 5, colOrange: 5, colSky: 5}},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			var d demoFigure
@@ -268,6 +269,21 @@ func TestDeterministic(t *testing.T) {
 			}
 			if !bytes.Equal(out[0], out[1]) {
 				t.Errorf("%s.%s: two renderings differ", d.name, format)
+			}
+			// The same figure again after drawing it at another size.
+			f, err := d.build()
+			if err != nil {
+				t.Fatal(err)
+			}
+			var other, again bytes.Buffer
+			if err := Write(&other, f, format, 700, 260); err != nil {
+				t.Fatal(err)
+			}
+			if err := Write(&again, f, format, 0, 0); err != nil {
+				t.Fatal(err)
+			}
+			if !bytes.Equal(out[0], again.Bytes()) {
+				t.Errorf("%s.%s: drawing at another size first changes the picture", d.name, format)
 			}
 		}
 	}

@@ -181,8 +181,6 @@ func PrepPlot(d PrepData) (*Figure, error) {
 
 	leP := newPlot("leading edge", "x ("+u8+")", "y ("+u8+")")
 	teP := newPlot("trailing edge", "x ("+u8+")", "y ("+u8+")")
-	fewTicks(leP)
-	fewTicks(teP)
 	if err := addPrepLayers(leP, &leWin, false); err != nil {
 		return nil, err
 	}
@@ -351,7 +349,6 @@ func NodesPlot(nodes []geometry.Point) (*Figure, error) {
 
 	quality := func(title, xl, yl string, q plotter.XYs, c int, ref float64) *gplot.Plot {
 		p := newPlot(title, xl, yl)
-		fewTicks(p)
 		if len(q) > 0 {
 			p.Add(newLine(plotter.XYs{{X: 0, Y: ref}, {X: float64(n), Y: ref}}, lineStyle(colGuide, 0.8, nil)))
 			p.Add(newLine(q, lineStyle(seriesColour(c), 0.8, nil)), newScatter(q, glyphStyle(seriesColour(c), seriesGlyphs[c], 1.4)))

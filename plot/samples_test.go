@@ -6,8 +6,6 @@ import (
 	"os"
 	"path/filepath"
 	"testing"
-
-	"github.com/foilwright/foilwright/geometry"
 )
 
 var samplesDir = flag.String("samples", "", "write every demo figure as PNG and SVG into this folder")
@@ -34,8 +32,6 @@ func demoFigures() []demoFigure {
 		{"stations", func() (*Figure, error) { return StationsPlot("mm", demoStations) }},
 	}
 }
-
-var _ = geometry.Point{}
 
 // TestWriteSamples writes every demo figure to the folder given by
 // -samples, for looking at; without the flag it is skipped.

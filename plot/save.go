@@ -41,16 +41,19 @@ func FormatOf(path string) (string, error) {
 }
 
 // Write draws f at width × height and writes it to w in format (SVG or
-// PNG). A zero width or height takes f's natural size. The output is
+// PNG). A zero width and height take f's natural size; when only one of
+// them is zero, it follows the other in the natural proportions. The output is
 // deterministic. SVG text names the Liberation Sans font without embedding
 // it. It returns an error wrapping ErrFormat for an unknown format, and any
 // error of w.
 func Write(w io.Writer, f *Figure, format string, width, height vg.Length) error {
-	if width <= 0 {
-		width = f.Width
-	}
-	if height <= 0 {
-		height = f.Height
+	switch {
+	case width <= 0 && height <= 0:
+		width, height = f.Width, f.Height
+	case height <= 0 && f.Width > 0:
+		height = f.Height * width / f.Width
+	case width <= 0 && f.Height > 0:
+		width = f.Width * height / f.Height
 	}
 	if width <= 0 || height <= 0 {
 		return fmt.Errorf("plot: figure size %g × %g pt is not positive", width.Points(), height.Points())

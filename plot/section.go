@@ -22,6 +22,22 @@ type SectionData struct {
 	LERadius  float64          // its radius; 0 draws no circle
 }
 
+// SectionFrom returns the drawing data of a section document: its name,
+// nodes and, when it records its properties, the leading-edge circle. The
+// circle's centre is taken at (r, 0), on the chord line: that holds when the
+// leading edge is the point of the section farthest from the trailing edge
+// (common practice), for the section's normal there, which holds the
+// centre, then runs along the chord. The camber line and thickness
+// distribution are left for the caller to fill.
+func SectionFrom(s *geometry.Section) SectionData {
+	d := SectionData{Name: s.Name, Nodes: s.Nodes}
+	if s.Properties != nil && s.Properties.LERadius > 0 {
+		d.LERadius = s.Properties.LERadius
+		d.LECentre = geometry.Point{X: s.Properties.LERadius}
+	}
+	return d
+}
+
 // SectionPlot draws a normalised section, shaded, with its chord line,
 // camber line and inscribed leading-edge circle at equal axis scales, and,
 // below it on the same x range, the thickness distribution and camber line

@@ -46,7 +46,6 @@ func StationsPlot(units string, stations []Station) (*Figure, error) {
 	p0, p1 := rangePad(0.05, pos)
 	panel := func(k int, title, yl string, v func(Station) float64, fromZero bool) *gplot.Plot {
 		p := newPlot(title, "position ("+units+")", yl)
-		fewTicks(p)
 		ys := make([]float64, len(st))
 		for i, s := range st {
 			ys[i] = v(s)

@@ -40,8 +40,8 @@ func seriesColour(i int) color.Color { return seriesColours[i%len(seriesColours)
 // seriesGlyphs are the marker shapes given to the i-th series, so that
 // series differ by more than colour.
 var seriesGlyphs = []draw.GlyphDrawer{
-	draw.CircleGlyph{}, draw.SquareGlyph{}, draw.TriangleGlyph{},
-	draw.RingGlyph{}, draw.BoxGlyph{}, draw.PyramidGlyph{},
+	draw.CircleGlyph{}, draw.BoxGlyph{}, draw.PyramidGlyph{},
+	draw.RingGlyph{}, draw.SquareGlyph{}, draw.TriangleGlyph{},
 }
 
 // seriesDashes are the line dashes given to the i-th series.
@@ -89,11 +89,6 @@ func newPlot(title, xLabel, yLabel string) *gplot.Plot {
 	g.Vertical.Width, g.Horizontal.Width = vg.Points(0.5), vg.Points(0.5)
 	p.Add(g)
 	return p
-}
-
-// fewTicks asks for fewer ticks on both axes, for small panels.
-func fewTicks(p *gplot.Plot) {
-	p.X.Tick.Marker, p.Y.Tick.Marker = niceTicks{4}, niceTicks{4}
 }
 
 // lineStyle returns a solid or dashed line style.

@@ -28,7 +28,7 @@ func (t niceTicks) Ticks(lo, hi float64) []gplot.Tick {
 			count := (hi - lo) / (m.step * mag)
 			miss := math.Abs(math.Log(count / float64(n)))
 			if m.step == 2.5 {
-				miss += 0.2 // a less familiar step: only when clearly better
+				miss += 0.35 // a less familiar step: only when clearly better
 			}
 			if miss < best-1e-9 {
 				best, step, minor = miss, m.step*mag, m.minor
