@@ -6,6 +6,8 @@ import (
 	"os"
 	"path/filepath"
 	"testing"
+
+	"gonum.org/v1/plot/vg"
 )
 
 var samplesDir = flag.String("samples", "", "write every demo figure as PNG and SVG into this folder")
@@ -51,6 +53,13 @@ func TestWriteSamples(t *testing.T) {
 			if err := Save(f, filepath.Join(*samplesDir, d.name+ext), 0, 0); err != nil {
 				t.Fatalf("%s: %v", d.name, err)
 			}
+		}
+		// The same figure in a tall and a wide frame.
+		if err := Save(f, filepath.Join(*samplesDir, d.name+"-tall.png"), 5*vg.Inch, 7*vg.Inch); err != nil {
+			t.Fatalf("%s: %v", d.name, err)
+		}
+		if err := Save(f, filepath.Join(*samplesDir, d.name+"-wide.png"), 10*vg.Inch, 3*vg.Inch); err != nil {
+			t.Fatalf("%s: %v", d.name, err)
 		}
 	}
 }
