@@ -82,10 +82,6 @@ func runAnalyze(ctx context.Context, stdin io.Reader, stdout, stderr io.Writer, 
 	if err != nil {
 		return err
 	}
-	params, err := analyzeParams(opts, alphaSet)
-	if err != nil {
-		return err
-	}
 	data, name, err := readSectionFile(stdin, path)
 	if err != nil {
 		return err
@@ -100,7 +96,17 @@ func runAnalyze(ctx context.Context, stdin io.Reader, stdout, stderr io.Writer, 
 		return err
 	}
 	defer h.Close()
-	reply, err := h.Runner(spec).Run(ctx, stage.Request{Section: data, Params: params, SectionName: name})
+	runner := h.Runner(spec)
+	info, err := runner.Describe(ctx)
+	if err != nil {
+		return stageError(err)
+	}
+	_, takesAlpha := info.Param("alpha_deg")
+	params, err := analyzeParams(opts, alphaSet, takesAlpha)
+	if err != nil {
+		return err
+	}
+	reply, err := runner.Run(ctx, stage.Request{Section: data, Params: params, SectionName: name})
 	if err != nil {
 		return stageError(err)
 	}
@@ -156,8 +162,8 @@ func readSectionFile(stdin io.Reader, path string) ([]byte, string, error) {
 }
 
 // analyzeParams builds the stage's parameter object from --params and
-// --alpha.
-func analyzeParams(opts analyzeOptions, alphaSet bool) ([]byte, error) {
+// --alpha. Angles are passed only to a stage that declares alpha_deg.
+func analyzeParams(opts analyzeOptions, alphaSet, takesAlpha bool) ([]byte, error) {
 	params := map[string]json.RawMessage{}
 	if strings.TrimSpace(opts.params) != "" {
 		dec := json.NewDecoder(strings.NewReader(opts.params))
@@ -167,6 +173,12 @@ func analyzeParams(opts analyzeOptions, alphaSet bool) ([]byte, error) {
 	}
 	if _, given := params["alpha_deg"]; given && alphaSet {
 		return nil, badInputf("--alpha and --params both set alpha_deg")
+	}
+	if !takesAlpha {
+		if alphaSet {
+			return nil, badInputf("--alpha: the stage takes no angles of attack")
+		}
+		return json.Marshal(params)
 	}
 	if _, given := params["alpha_deg"]; !given {
 		alphas, err := parseAngles(opts.alpha)
@@ -265,6 +277,9 @@ func printCases(w io.Writer, name string, sec *geometry.Section, doc *stage.Resu
 	sort.Strings(keys)
 	for _, k := range keys {
 		fmt.Fprintf(w, "  %s = %.6g\n", k, doc.Scalars[k])
+	}
+	if len(doc.Cases) == 0 {
+		return nil
 	}
 	checkSet := map[string]bool{}
 	for _, c := range doc.Cases {
