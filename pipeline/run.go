@@ -69,6 +69,7 @@ type StageInfo struct {
 // A StageInput is what a stage run gets: the section document and the
 // result documents of the stages it runs after, by stage id.
 type StageInput struct {
+	Name    string // section name, for messages
 	Section []byte
 	Deps    map[string][]byte
 }
@@ -375,7 +376,7 @@ func runSection(ctx context.Context, pl *Plan, folder string, i int, calls []Sta
 				deps[id] = results[id]
 			}
 			t := time.Now()
-			out, err := runStage(ctx, runner, calls[k], StageInput{Section: prepared.Section, Deps: deps})
+			out, err := runStage(ctx, runner, calls[k], StageInput{Name: sp.Name, Section: prepared.Section, Deps: deps})
 			res.timing.Stages = append(res.timing.Stages, StageTiming{ID: st.ID, S: seconds(time.Since(t))})
 			if ctx.Err() != nil {
 				return cancelled()

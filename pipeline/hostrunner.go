@@ -1,0 +1,91 @@
+package pipeline
+
+import (
+	"context"
+	"sync"
+
+	"github.com/foilwright/foilwright/plugins/host"
+	"github.com/foilwright/foilwright/plugins/stage"
+)
+
+// HostRunners returns a StageRunner factory for RunOptions.NewRunner that
+// runs stages as child processes through h. Each runner it makes (one per
+// worker) starts its own process for each stage on first use and keeps it
+// for every later section; Close stops them. self is the sha256 of the
+// executable that serves the built-in stages (the running binary), recorded
+// in the manifest.
+func HostRunners(h *host.Host, self string) func() (StageRunner, error) {
+	return func() (StageRunner, error) {
+		return &hostRunner{h: h, self: self, runners: map[host.Spec]*host.Runner{}}, nil
+	}
+}
+
+type hostRunner struct {
+	h    *host.Host
+	self string
+
+	mu      sync.Mutex
+	runners map[host.Spec]*host.Runner
+}
+
+func specOf(call StageCall) host.Spec {
+	if call.Exec {
+		return host.Spec{Path: call.Stage, SHA256: call.SHA256}
+	}
+	return host.Builtin(call.Stage)
+}
+
+func (r *hostRunner) runner(call StageCall) *host.Runner {
+	spec := specOf(call)
+	r.mu.Lock()
+	defer r.mu.Unlock()
+	run, ok := r.runners[spec]
+	if !ok {
+		run = r.h.Runner(spec)
+		r.runners[spec] = run
+	}
+	return run
+}
+
+// Describe starts the stage if needed and returns its identity.
+func (r *hostRunner) Describe(ctx context.Context, call StageCall) (StageInfo, error) {
+	info, err := r.runner(call).Describe(ctx)
+	if err != nil {
+		return StageInfo{}, err
+	}
+	exe := r.self
+	if call.Exec {
+		if exe, err = host.FileSHA256(call.Stage); err != nil {
+			return StageInfo{}, err
+		}
+	}
+	return StageInfo{Name: info.Name, Version: info.Version, Executable: exe}, nil
+}
+
+// Run runs one stage call, limited by call.Timeout when it is set.
+func (r *hostRunner) Run(ctx context.Context, call StageCall, in StageInput) (StageOutput, error) {
+	if call.Timeout > 0 {
+		var cancel context.CancelFunc
+		ctx, cancel = context.WithTimeout(ctx, call.Timeout)
+		defer cancel()
+	}
+	reply, err := r.runner(call).Run(ctx, stage.Request{Section: in.Section, Params: call.Params, Deps: in.Deps, SectionName: in.Name})
+	if err != nil {
+		return StageOutput{}, err
+	}
+	out := StageOutput{Result: reply.JSON, Warnings: reply.Warnings}
+	for _, a := range reply.Artifacts {
+		out.Artifacts = append(out.Artifacts, Artifact{Name: a.Name, MediaType: a.MediaType, Data: a.Data})
+	}
+	return out, nil
+}
+
+// Close stops every stage process this runner started.
+func (r *hostRunner) Close() error {
+	r.mu.Lock()
+	defer r.mu.Unlock()
+	for _, run := range r.runners {
+		run.Close()
+	}
+	return nil
+}
