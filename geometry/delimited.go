@@ -191,7 +191,7 @@ func delimHeaderField(f string) (name, unit string) {
 func delimJoinUnits(fields []string) []string {
 	out := make([]string, 0, len(fields))
 	for _, f := range fields {
-		if len(out) > 0 && (f[0] == '[' || f[0] == '(') {
+		if len(out) > 0 && f != "" && (f[0] == '[' || f[0] == '(') {
 			out[len(out)-1] += " " + f
 			continue
 		}
@@ -369,7 +369,7 @@ func (d *delimReader) resolve(fields []string, no int, t string) (bool, error) {
 		d.cols = []int{0, 1, 2}[:k]
 		return true, nil
 	case k == 1 && len(fields) == 1:
-		if v, _ := delimNumber(fields[0], d.decComma); !d.counted && v == math.Trunc(v) && v >= 0 {
+		if v, _ := delimNumber(fields[0], d.decComma); !d.counted && v == math.Trunc(v) && v >= 0 && v < 1e15 {
 			d.counted = true
 			d.notes.add(d.name, no, "point count line", t)
 			return false, nil

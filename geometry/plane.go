@@ -67,16 +67,26 @@ func ParsePlane(s string) (PlaneSpec, error) {
 	return PlaneSpec{Point: p, Normal: n}, nil
 }
 
-// String formats p the way ParsePlane reads it.
+// String formats p the way ParsePlane reads it: "z=240" when the normal is
+// a unit axis and the point lies on that axis, else "px,py,pz:nx,ny,nz".
 func (p PlaneSpec) String() string {
 	g := func(x float64) string { return strconv.FormatFloat(x, 'g', -1, 64) }
 	n := p.Normal
-	switch {
-	case n.X > 0 && n.Y == 0 && n.Z == 0:
+	switch n {
+	case Vec3{X: 1}:
+		if p.Point.Y != 0 || p.Point.Z != 0 {
+			break
+		}
 		return "x=" + g(p.Point.X)
-	case n.X == 0 && n.Y > 0 && n.Z == 0:
+	case Vec3{Y: 1}:
+		if p.Point.X != 0 || p.Point.Z != 0 {
+			break
+		}
 		return "y=" + g(p.Point.Y)
-	case n.X == 0 && n.Y == 0 && n.Z > 0:
+	case Vec3{Z: 1}:
+		if p.Point.X != 0 || p.Point.Y != 0 {
+			break
+		}
 		return "z=" + g(p.Point.Z)
 	}
 	return fmt.Sprintf("%s,%s,%s:%s,%s,%s", g(p.Point.X), g(p.Point.Y), g(p.Point.Z), g(n.X), g(n.Y), g(n.Z))
@@ -214,8 +224,7 @@ func Flatten(c *Cloud, opts FlattenOptions) (*Cloud, Flatness, error) {
 		}
 		if opts.Band > 0 && math.Abs(d) > opts.Band {
 			fl.Outside++
-			notes.add(o.File, o.Line, fmt.Sprintf("point %.6g from the plane, outside the band ±%g", d, opts.Band), "")
-			notes.notes[len(notes.notes)-1].Origin = o
+			notes.addAt(o, fmt.Sprintf("point %.6g from the plane, outside the band ±%g", d, opts.Band), "")
 			continue
 		}
 		if pending {

@@ -76,9 +76,16 @@ func Read(r io.Reader, name string, opts ReadOptions) (*Cloud, error) {
 	if len(bytes.TrimSpace(data)) == 0 {
 		return nil, &ParseError{File: name, Err: ErrEmpty}
 	}
-	format := opts.Format
+	// Convert to text once, and not at all for a binary mesh.
+	format, text := opts.Format, ""
+	if format == "" && (readIsBinary(data[:min(len(data), 1024)]) || stlBinarySizeMatches(data)) {
+		format = FormatSTL
+	}
+	if format != FormatSTL {
+		text = readText(data)
+	}
 	if format == "" {
-		format = readDetect(data)
+		format = readDetect(text)
 	}
 	var (
 		c      *Cloud
@@ -98,13 +105,13 @@ func Read(r io.Reader, name string, opts ReadOptions) (*Cloud, error) {
 			return nil, err
 		}
 	case FormatDXF:
-		c, stated, err = dxfRead(readText(data), name)
+		c, stated, err = dxfRead(text, name)
 	case FormatLoop:
-		c, stated, err = listingReadLoop(readText(data), name)
+		c, stated, err = listingReadLoop(text, name)
 	case FormatSurfaces:
-		c, stated, err = listingReadSurfaces(readText(data), name)
+		c, stated, err = listingReadSurfaces(text, name)
 	case FormatDelimited:
-		c, stated, err = delimRead(readText(data), name, opts.Columns)
+		c, stated, err = delimRead(text, name, opts.Columns)
 	default:
 		return nil, fmt.Errorf("geometry: format %q: want %s, %s, %s, %s or %s", opts.Format,
 			FormatDelimited, FormatLoop, FormatSurfaces, FormatDXF, FormatSTL)
@@ -118,22 +125,19 @@ func Read(r io.Reader, name string, opts ReadOptions) (*Cloud, error) {
 	return c, nil
 }
 
-// readDetect guesses the format of data from its content.
-func readDetect(data []byte) string {
-	head := data[:min(len(data), 1024)]
-	if readIsBinary(head) || stlBinarySizeMatches(data) {
-		return FormatSTL
-	}
-	s := readText(data[:min(len(data), 64<<10)])
-	if t := strings.TrimLeft(s, " \t\r\n"); len(t) >= 5 && strings.EqualFold(t[:5], "solid") {
-		if strings.Contains(s, "facet") || strings.Contains(s, "endsolid") {
+// readDetect guesses the format of the text s (binary data has been taken
+// for STL already).
+func readDetect(s string) string {
+	head := s[:min(len(s), 64<<10)]
+	if t := strings.TrimLeft(head, " \t\r\n"); len(t) >= 5 && strings.EqualFold(t[:5], "solid") {
+		if strings.Contains(head, "facet") || strings.Contains(head, "endsolid") {
 			return FormatSTL
 		}
 	}
-	if dxfLooksLike(s) {
+	if dxfLooksLike(head) {
 		return FormatDXF
 	}
-	if f := listingDetect(readText(data)); f != "" {
+	if f := listingDetect(s); f != "" {
 		return f
 	}
 	return FormatDelimited
@@ -198,11 +202,16 @@ type readNotes struct {
 
 // add records that line no of file was skipped, and why.
 func (n *readNotes) add(file string, no int, reason, text string) {
+	n.addAt(Origin{File: file, Line: no}, reason, text)
+}
+
+// addAt records that the point or line at o was skipped, and why.
+func (n *readNotes) addAt(o Origin, reason, text string) {
 	if len(n.notes) >= readMaxNotes {
 		n.extra++
 		return
 	}
-	n.notes = append(n.notes, Note{Origin: Origin{File: file, Line: no}, Reason: reason, Text: readClip(text)})
+	n.notes = append(n.notes, Note{Origin: o, Reason: reason, Text: readClip(text)})
 }
 
 // list returns the notes, with a closing note counting those left out.

@@ -261,7 +261,7 @@ func TestReadDetect(t *testing.T) {
 		{"solid x\nendsolid x\n", FormatSTL},
 		{"solid state physics\n1 2\n", FormatDelimited},
 	} {
-		if got := readDetect([]byte(tc.in)); got != tc.want {
+		if got := readDetect(tc.in); got != tc.want {
 			t.Errorf("readDetect(%q) = %q, want %q", tc.in, got, tc.want)
 		}
 	}
