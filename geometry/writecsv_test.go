@@ -46,4 +46,3 @@ func TestWriteCSVRoundTrip(t *testing.T) {
 		t.Error("NaN point written")
 	}
 }
-
