@@ -2,7 +2,6 @@ package geometry
 
 import (
 	"bytes"
-	"fmt"
 	"math"
 	"strconv"
 	"testing"
@@ -11,7 +10,11 @@ import (
 // BenchmarkReadDelimited reads n lines of "x,y,z" probe points generated in
 // memory (a 3D ring, 6 decimals, as a measuring machine writes them).
 func BenchmarkReadDelimited(b *testing.B) {
-	for _, n := range []int{1e4, 1e5, 1e6} {
+	for _, size := range []struct {
+		name string
+		n    int
+	}{{"n=1e4", 1e4}, {"n=1e5", 1e5}, {"n=1e6", 1e6}} {
+		n := size.n
 		var buf bytes.Buffer
 		buf.WriteString("# units: mm\nx [mm],y [mm],z [mm]\n")
 		var line []byte
@@ -24,7 +27,7 @@ func BenchmarkReadDelimited(b *testing.B) {
 			buf.Write(line)
 		}
 		data := buf.Bytes()
-		b.Run(fmt.Sprintf("n=%.0e", float64(n)), func(b *testing.B) {
+		b.Run(size.name, func(b *testing.B) {
 			b.SetBytes(int64(len(data)))
 			for b.Loop() {
 				c, err := Read(bytes.NewReader(data), "bench.csv", ReadOptions{})

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"fmt"
 	"io"
+	"io/fs"
 	"strings"
 )
 
@@ -62,7 +63,7 @@ const readMaxNotes = 1000
 // Read never checks that the points make a section (how many, whether
 // collinear); the cleaning step does.
 func Read(r io.Reader, name string, opts ReadOptions) (*Cloud, error) {
-	data, err := io.ReadAll(r)
+	data, err := readAll(r)
 	if err != nil {
 		return nil, &ParseError{File: name, Err: err}
 	}
@@ -123,6 +124,27 @@ func Read(r io.Reader, name string, opts ReadOptions) (*Cloud, error) {
 		return nil, err
 	}
 	return c, nil
+}
+
+// readAll reads r to the end, in one allocation when r can tell its size
+// (a bytes or strings reader, a file).
+func readAll(r io.Reader) ([]byte, error) {
+	size := -1
+	switch v := r.(type) {
+	case interface{ Len() int }:
+		size = v.Len()
+	case interface{ Stat() (fs.FileInfo, error) }:
+		if fi, err := v.Stat(); err == nil && fi.Mode().IsRegular() && fi.Size() < 1<<40 {
+			size = int(fi.Size())
+		}
+	}
+	if size < 0 {
+		return io.ReadAll(r)
+	}
+	var b bytes.Buffer
+	b.Grow(size + 512)
+	_, err := b.ReadFrom(r)
+	return b.Bytes(), err
 }
 
 // readDetect guesses the format of the text s (binary data has been taken

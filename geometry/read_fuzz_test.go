@@ -9,6 +9,12 @@ import (
 	"testing"
 )
 
+// The seeds include whole fixtures (up to 37 kB); with them the fuzzer
+// spends long stretches minimizing new inputs, so run each target with a
+// short minimize time, e.g.
+//
+//	go test ./geometry -run '^$' -fuzz '^FuzzReadSTL$' -fuzztime=40s -fuzzminimizetime=2s
+
 // readFuzzMax skips inputs larger than this: the readers are linear, and
 // big inputs only slow the fuzzer down.
 const readFuzzMax = 1 << 16

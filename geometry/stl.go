@@ -35,7 +35,7 @@ const (
 // gives ErrNotSTL; one that ends before the facet count of its header says
 // gives ErrTruncated; both in a *ParseError.
 func ReadSTL(r io.Reader, name string) (*Mesh, error) {
-	data, err := io.ReadAll(r)
+	data, err := readAll(r)
 	if err != nil {
 		return nil, &ParseError{File: name, Err: err}
 	}
