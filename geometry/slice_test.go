@@ -232,3 +232,44 @@ func TestReadSTLWelds(t *testing.T) {
 		}
 	}
 }
+
+// TestSliceTouching cuts simple solids where the plane only touches them or
+// runs through vertices (exact answers by construction).
+func TestSliceTouching(t *testing.T) {
+	// Octahedron with its equator vertices on z = 0: the cut is exactly
+	// those four vertices, each once.
+	eq := []Vec3{{1, 0, 0}, {0, 1, 0}, {-1, 0, 0}, {0, -1, 0}}
+	top, bot := Vec3{0, 0, 1}, Vec3{0, 0, -1}
+	var octa [][3]Vec3
+	for i := range eq {
+		j := (i + 1) % len(eq)
+		octa = append(octa, [3]Vec3{eq[i], eq[j], top}, [3]Vec3{eq[j], eq[i], bot})
+	}
+	m, err := ReadSTL(strings.NewReader(readTestSTLASCII(octa)), "octa.stl")
+	if err != nil {
+		t.Fatal(err)
+	}
+	c, err := m.Slice(PlaneSpec{Normal: Vec3{Z: 1}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if c.Len() != 4 {
+		t.Fatalf("cut %v, want the 4 equator vertices", c.Points)
+	}
+	for _, p := range c.Points {
+		found := false
+		for _, q := range eq {
+			found = found || p == q
+		}
+		if !found {
+			t.Errorf("cut point %v is not an equator vertex", p)
+		}
+	}
+	// Planes touching the solid only at an apex: the perturbed cut is a
+	// loop of one repeated point, which is no loop.
+	for _, cut := range []PlaneSpec{{Point: top, Normal: Vec3{Z: 1}}, {Point: bot, Normal: Vec3{Z: -1}}} {
+		if c, err := m.Slice(cut); !errors.Is(err, ErrNoLoop) {
+			t.Errorf("plane %v touching the apex: %v, %v; want ErrNoLoop", cut, c, err)
+		}
+	}
+}
