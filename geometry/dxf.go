@@ -199,7 +199,7 @@ func (d *dxfReader) insUnits(p dxfPair) {
 	}
 }
 
-// dxfNumber parses a coordinate value.
+// number parses a coordinate value.
 func (d *dxfReader) number(p dxfPair) (float64, error) {
 	v, num := delimNumber(p.value, false)
 	if !num {
@@ -211,7 +211,7 @@ func (d *dxfReader) number(p dxfPair) (float64, error) {
 	return v, nil
 }
 
-// dxfCoords collects points whose x group is base (10 or 11): each x value
+// coords collects points whose x group is base (10 or 11): each x value
 // starts a point, the y and z groups (base+10, base+20) fill it in. line is
 // the line of the x value.
 func (d *dxfReader) coords(pairs []dxfPair, base int) (pts []Vec3, lines []int, err error) {

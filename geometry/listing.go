@@ -53,6 +53,13 @@ func listingSplit(s, file string, detect bool) *listingScan {
 		if t == "" {
 			continue
 		}
+		if t[0] == '#' {
+			if detect {
+				return nil // the listings have no comments: delimited text
+			}
+			sc.notes.add(file, no, "comment", t)
+			continue
+		}
 		if first {
 			first = false
 			f := strings.Fields(t)
@@ -65,13 +72,6 @@ func listingSplit(s, file string, detect bool) *listingScan {
 				return nil
 			}
 		}
-		if t[0] == '#' {
-			if detect {
-				return nil
-			}
-			sc.notes.add(file, no, "comment", t)
-			continue
-		}
 		f := strings.Fields(t)
 		if detect && len(f) != 2 {
 			return nil
@@ -82,7 +82,7 @@ func listingSplit(s, file string, detect bool) *listingScan {
 	return sc
 }
 
-// listingPairs parses rows[from:] as x y pairs.
+// pairs parses rows[from:] as x y pairs.
 func (sc *listingScan) pairs(file string, from int) ([]listingPair, error) {
 	out := make([]listingPair, 0, len(sc.rows)-from)
 	for i := from; i < len(sc.rows); i++ {

@@ -257,6 +257,7 @@ func TestReadDetect(t *testing.T) {
 		{"x y\n1 0\n0.5 0.06\n0 0\n0.5 -0.06\n1 0\n", FormatDelimited},              // a header, not a name
 		{"Probe run\n0 0\n10 10\n0.1 0.2\n9 9.5\n0.2 0.1\n10 9\n", FormatDelimited}, // points in no order
 		{"1 0\n0.5 0.06\n0 0\n", FormatDelimited},
+		{"# probe run\n1 0\n0.5 0.06\n0 0\n0.5 -0.06\n1 0\n", FormatDelimited}, // a comment, not a name
 		{"  0\nSECTION\n  2\nENTITIES\n  0\nENDSEC\n  0\nEOF\n", FormatDXF},
 		{"solid x\nendsolid x\n", FormatSTL},
 		{"solid state physics\n1 2\n", FormatDelimited},
