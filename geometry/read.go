@@ -1,0 +1,304 @@
+package geometry
+
+import (
+	"bytes"
+	"fmt"
+	"io"
+	"io/fs"
+	"strings"
+)
+
+// ReadOptions control how Read takes a point file apart. The zero value
+// detects everything from the content.
+type ReadOptions struct {
+	// Format is "" to detect from the content (never from the file name), or
+	// one of "delimited", "loop", "surfaces", "dxf", "stl".
+	Format string
+	// Columns chooses the coordinate columns of a delimited file: "" takes
+	// the first 2 or 3 numeric columns of the first data line; "2,3,4" gives
+	// 1-based indices; "x,y,z" gives names from the header line
+	// (case-insensitive; a unit decoration such as "x [mm]" is ignored).
+	// Two names or indices read a 2D file, three a 3D file.
+	Columns string
+	// Units is the length unit of the file. "" takes the unit from the file
+	// when it states one ("# units: mm", a header "x [mm]", DXF $INSUNITS)
+	// and leaves it "" otherwise. A unit given here wins over the file's.
+	Units Unit
+	// Cut is the plane that cuts an STL mesh into section loops; Read
+	// refuses an STL file without it. Other formats ignore it (flatten 3D
+	// points with Flatten).
+	Cut *PlaneSpec
+}
+
+// The formats Read knows, as named in ReadOptions.Format and Cloud.Format.
+const (
+	FormatDelimited = "delimited"
+	FormatLoop      = "loop"
+	FormatSurfaces  = "surfaces"
+	FormatDXF       = "dxf"
+	FormatSTL       = "stl"
+)
+
+// readMaxNotes caps the notes one file may add to a Cloud; the rest are
+// counted in a final note, so a file of a million comment lines cannot
+// flood the report.
+const readMaxNotes = 1000
+
+// Read reads a point file of any supported format from r into a Cloud. name
+// is the display name used in errors and in every point's Origin.
+//
+// The format is detected from the content unless opts.Format names it:
+// binary data is taken for binary STL; text starting with "solid" and
+// holding facets for ASCII STL; group-code pairs opening a SECTION for ASCII
+// DXF; a name line followed only by coordinate pairs for the "loop" listing
+// (a name line, then x y pairs around the section); a name line, a line of
+// two point counts and that many pairs for the "surfaces" listing (upper
+// then lower surface, each from leading to trailing edge); anything else is
+// delimited text. See ReadOptions for columns, units and the STL cut.
+//
+// Malformed input gives a *ParseError naming the file, the line where there
+// is one, and the reason, which wraps one of ErrEmpty, ErrNoNumbers,
+// ErrNotNumeric, ErrColumnCount, ErrColumnRange, ErrNonFinite,
+// ErrUnknownUnit, ErrNotSTL, ErrTruncated, ErrNoEntities or ErrFormat.
+// Read never checks that the points make a section (how many, whether
+// collinear); the cleaning step does.
+func Read(r io.Reader, name string, opts ReadOptions) (*Cloud, error) {
+	data, err := readAll(r)
+	if err != nil {
+		return nil, &ParseError{File: name, Err: err}
+	}
+	if opts.Units != "" {
+		u, err := ParseUnit(string(opts.Units))
+		if err != nil {
+			return nil, fmt.Errorf("geometry: units option: %w", err)
+		}
+		opts.Units = u
+	}
+	if len(bytes.TrimSpace(data)) == 0 {
+		return nil, &ParseError{File: name, Err: ErrEmpty}
+	}
+	// Convert to text once, and not at all for a binary mesh.
+	format, text := opts.Format, ""
+	if format == "" && (readIsBinary(data[:min(len(data), 1024)]) || stlBinarySizeMatches(data)) {
+		format = FormatSTL
+	}
+	if format != FormatSTL {
+		text = readText(data)
+	}
+	if format == "" {
+		format = readDetect(text)
+	}
+	var (
+		c      *Cloud
+		stated readUnit
+	)
+	switch format {
+	case FormatSTL:
+		m, err := readSTLBytes(data, name)
+		if err != nil {
+			return nil, err
+		}
+		if opts.Cut == nil {
+			return nil, fmt.Errorf("geometry: %s: an STL mesh needs a cut plane (e.g. \"z=240\") to give a section", name)
+		}
+		c, err = m.Slice(*opts.Cut)
+		if err != nil {
+			return nil, err
+		}
+	case FormatDXF:
+		c, stated, err = dxfRead(text, name)
+	case FormatLoop:
+		c, stated, err = listingReadLoop(text, name)
+	case FormatSurfaces:
+		c, stated, err = listingReadSurfaces(text, name)
+	case FormatDelimited:
+		c, stated, err = delimRead(text, name, opts.Columns)
+	default:
+		return nil, fmt.Errorf("geometry: format %q: want %s, %s, %s, %s or %s", opts.Format,
+			FormatDelimited, FormatLoop, FormatSurfaces, FormatDXF, FormatSTL)
+	}
+	if err != nil {
+		return nil, err
+	}
+	if err := readSettleUnits(c, name, stated, opts.Units); err != nil {
+		return nil, err
+	}
+	return c, nil
+}
+
+// readAll reads r to the end, in one allocation when r can tell its size
+// (a bytes or strings reader, a file).
+func readAll(r io.Reader) ([]byte, error) {
+	size := -1
+	switch v := r.(type) {
+	case interface{ Len() int }:
+		size = v.Len()
+	case interface{ Stat() (fs.FileInfo, error) }:
+		if fi, err := v.Stat(); err == nil && fi.Mode().IsRegular() && fi.Size() < 1<<40 {
+			size = int(fi.Size())
+		}
+	}
+	if size < 0 {
+		return io.ReadAll(r)
+	}
+	var b bytes.Buffer
+	b.Grow(size + 512)
+	_, err := b.ReadFrom(r)
+	return b.Bytes(), err
+}
+
+// readDetect guesses the format of the text s (binary data has been taken
+// for STL already).
+func readDetect(s string) string {
+	head := s[:min(len(s), 64<<10)]
+	if t := strings.TrimLeft(head, " \t\r\n"); len(t) >= 5 && strings.EqualFold(t[:5], "solid") {
+		if strings.Contains(head, "facet") || strings.Contains(head, "endsolid") {
+			return FormatSTL
+		}
+	}
+	if dxfLooksLike(head) {
+		return FormatDXF
+	}
+	if f := listingDetect(s); f != "" {
+		return f
+	}
+	return FormatDelimited
+}
+
+// readIsBinary reports whether b holds control bytes that never occur in a
+// text file (NUL and the C0 controls other than tab, newline, vertical tab,
+// form feed, carriage return and the DOS end-of-file mark).
+func readIsBinary(b []byte) bool {
+	for _, c := range b {
+		if c < 0x20 && c != '\t' && c != '\n' && c != '\v' && c != '\f' && c != '\r' && c != 0x1a {
+			return true
+		}
+	}
+	return false
+}
+
+// readText returns data as a string without a UTF-8 byte-order mark and
+// with old-style lone carriage returns turned into newlines.
+func readText(data []byte) string {
+	data = bytes.TrimPrefix(data, []byte("\xef\xbb\xbf"))
+	if bytes.IndexByte(data, '\n') < 0 && bytes.IndexByte(data, '\r') >= 0 {
+		data = bytes.ReplaceAll(data, []byte("\r"), []byte("\n"))
+	}
+	return string(data)
+}
+
+// readLines walks the lines of a text, numbering them from 1 and dropping
+// the line ends (\n or \r\n).
+type readLines struct {
+	s   string
+	pos int
+	no  int
+}
+
+// next returns the next line and its number; ok is false at the end.
+func (l *readLines) next() (line string, no int, ok bool) {
+	if l.pos >= len(l.s) {
+		return "", l.no, false
+	}
+	rest := l.s[l.pos:]
+	i := strings.IndexByte(rest, '\n')
+	if i < 0 {
+		line = rest
+		l.pos = len(l.s)
+	} else {
+		line = rest[:i]
+		l.pos += i + 1
+	}
+	if n := len(line); n > 0 && line[n-1] == '\r' {
+		line = line[:n-1]
+	}
+	l.no++
+	return line, l.no, true
+}
+
+// readNotes collects the notes of one file, up to readMaxNotes.
+type readNotes struct {
+	notes []Note
+	extra int
+}
+
+// add records that line no of file was skipped, and why.
+func (n *readNotes) add(file string, no int, reason, text string) {
+	n.addAt(Origin{File: file, Line: no}, reason, text)
+}
+
+// addAt records that the point or line at o was skipped, and why.
+func (n *readNotes) addAt(o Origin, reason, text string) {
+	if len(n.notes) >= readMaxNotes {
+		n.extra++
+		return
+	}
+	n.notes = append(n.notes, Note{Origin: o, Reason: reason, Text: readClip(text)})
+}
+
+// list returns the notes, with a closing note counting those left out.
+func (n *readNotes) list(file string) []Note {
+	if n.extra > 0 {
+		return append(n.notes, Note{Origin: Origin{File: file}, Reason: fmt.Sprintf("%d more skipped line(s) not listed", n.extra)})
+	}
+	return n.notes
+}
+
+// readClip trims s and cuts it to at most 80 bytes, at a rune boundary.
+func readClip(s string) string {
+	s = strings.TrimSpace(s)
+	if len(s) <= 80 {
+		return s
+	}
+	cut := 80
+	for cut > 0 && s[cut]&0xc0 == 0x80 {
+		cut--
+	}
+	return s[:cut]
+}
+
+// readUnit records the unit a file states and where it said so.
+type readUnit struct {
+	unit Unit
+	line int
+	err  error // a *ParseError for a unit the file names but foilwright does not know
+}
+
+// set records that line no names unit text. A second, different unit is an
+// error; an unknown one is kept as an error for readSettleUnits to report
+// unless the caller gave the unit.
+func (u *readUnit) set(file string, no int, text string) error {
+	unit, err := ParseUnit(text)
+	if err != nil {
+		if u.err == nil {
+			u.err = &ParseError{File: file, Line: no, Err: err}
+		}
+		return nil
+	}
+	if u.unit != "" && u.unit != unit {
+		return &ParseError{File: file, Line: no, Err: fmt.Errorf("%w: unit %s here but %s at line %d", ErrFormat, unit, u.unit, u.line)}
+	}
+	if u.unit == "" {
+		u.unit, u.line = unit, no
+	}
+	return nil
+}
+
+// readSettleUnits sets c.Units from the caller's choice, else from the unit
+// the file stated. A unit the file names but foilwright does not know is an
+// error only when the caller gave none.
+func readSettleUnits(c *Cloud, file string, stated readUnit, given Unit) error {
+	switch {
+	case given != "":
+		if stated.unit != "" && stated.unit != given {
+			c.Notes = append(c.Notes, Note{Origin: Origin{File: file, Line: stated.line},
+				Reason: fmt.Sprintf("the file says %s; using %s as asked", stated.unit, given)})
+		}
+		c.Units = given
+	case stated.err != nil:
+		return stated.err
+	default:
+		c.Units = stated.unit
+	}
+	return nil
+}
