@@ -3,6 +3,7 @@ package geometry
 import (
 	"fmt"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 )
@@ -292,59 +293,6 @@ func Fit(c *Contour, opts FitOptions) (*Curve, *FitReport, error) {
 	if ends.open {
 		rep.Ends = FitEndsOpen
 	}
-	var cv *Curve
-	var lambda, trace float64
-	for pass := 0; pass < fitPasses; pass++ {
-		prob := newSplineProblem(ts, ws, !ends.open, period)
-		var err error
-		lambda, err = fitChooseLambda(prob, xs, ys, opts, rep)
-		if err != nil {
-			return nil, nil, err
-		}
-		f, err := prob.fit(lambda, [][]float64{xs, ys}, true)
-		if err != nil {
-			return nil, nil, fmt.Errorf("geometry: fit: %w", err)
-		}
-		trace = f.trace
-		cv = curveFromFit(prob, f, !ends.open)
-		if pass == 1 || lambda == 0 {
-			break
-		}
-		// Reparametrise by the arc length of each point's foot.
-		L := cv.Length()
-		nts := make([]float64, m)
-		ok := true
-		var s0 float64
-		for i, p := range pts {
-			s, _ := cv.residual(p, min(i, cv.Pieces()-1), fitKnotU(cv, i))
-			if !ends.open {
-				if i == 0 {
-					s0 = s
-				}
-				s -= s0
-				if s < 0 {
-					s += L
-				}
-				if i == 0 {
-					s = 0
-				}
-			}
-			nts[i] = s
-			if i > 0 && !(nts[i]-nts[i-1] > 1e-9*L) {
-				ok = false
-				break
-			}
-		}
-		if !ok || (!ends.open && !(L-nts[m-1] > 1e-9*L)) {
-			break
-		}
-		if !ends.open {
-			period = L
-		}
-		ts = nts
-	}
-	rep.Lambda = lambda
-	rep.EffectiveParams = trace
 	switch {
 	case opts.Exact:
 		rep.Method = FitInterpolate
@@ -353,39 +301,43 @@ func Fit(c *Contour, opts FitOptions) (*Curve, *FitReport, error) {
 	default:
 		rep.Method = FitGCV
 	}
-
-	// Residuals of every contour point.
-	rep.S = make([]float64, n)
-	rep.Residual = make([]float64, n)
 	baseSet := make(map[int]bool, len(ends.base))
 	for _, i := range ends.base {
 		baseSet[i] = true
 		rep.Base = append(rep.Base, fitOrigin(c, i))
 	}
-	var sum2 float64
-	for i, p := range c.Points {
-		if baseSet[i] {
-			a, b := cv.End(), cv.Start()
-			rep.Residual[i] = fitSegmentSide(p, a, b)
-			if p.Dist(a) <= p.Dist(b) {
-				rep.S[i] = cv.Length()
+	var cv *Curve
+	for round := 0; ; round++ {
+		var err error
+		cv, err = fitPasses(pts, ts, ws, xs, ys, ends.open, period, opts, rep)
+		if err != nil {
+			return nil, nil, err
+		}
+		fitResiduals(c, cv, knot, baseSet, rep)
+		rep.Tolerance = opts.Tolerance
+		if rep.Tolerance == 0 && !opts.Exact {
+			rep.Tolerance = 4 * math.Max(opts.Noise, rep.RMS)
+		}
+		if opts.Exact || rep.Tolerance == 0 || round == fitRobustRounds {
+			break
+		}
+		// Points beyond the tolerance are listed, not moved. Those that are
+		// also gross outliers (beyond fitOutlierSigmas robust standard
+		// deviations) get a tiny weight so that they do not drag the curve
+		// towards them.
+		cut := math.Max(rep.Tolerance, fitOutlierSigmas*fitRobustSigma(rep.Residual))
+		changed := false
+		for i, r := range rep.Residual {
+			if j := knot[i]; j >= 0 && math.Abs(r) > cut && ws[j] > fitOutlierWeight && j > 0 && j < m-1 {
+				ws[j] = fitOutlierWeight
+				changed = true
 			}
-		} else {
-			j := knot[i]
-			rep.S[i], rep.Residual[i] = cv.residual(p, min(j, cv.Pieces()-1), fitKnotU(cv, j))
 		}
-		r := rep.Residual[i]
-		sum2 += r * r
-		if math.Abs(r) > rep.Max {
-			rep.Max = math.Abs(r)
-			rep.MaxAt = fitOrigin(c, i)
+		if !changed {
+			break
 		}
 	}
-	rep.RMS = math.Sqrt(sum2 / float64(n))
-	rep.Tolerance = opts.Tolerance
-	if rep.Tolerance == 0 && !opts.Exact {
-		rep.Tolerance = 4 * math.Max(opts.Noise, rep.RMS)
-	}
+	rep.Beyond = nil
 	if rep.Tolerance > 0 {
 		for i, r := range rep.Residual {
 			if math.Abs(r) > rep.Tolerance {
@@ -393,6 +345,15 @@ func Fit(c *Contour, opts FitOptions) (*Curve, *FitReport, error) {
 			}
 		}
 	}
+	seen := map[string]bool{}
+	var ws2 []string
+	for _, w := range rep.Warnings {
+		if !seen[w] {
+			seen[w] = true
+			ws2 = append(ws2, w)
+		}
+	}
+	rep.Warnings = ws2
 	if len(rep.Beyond) > 0 {
 		rep.Warnings = append(rep.Warnings, fmt.Sprintf("%d point(s) farther than %g from the curve (worst %g at %s)", len(rep.Beyond), rep.Tolerance, rep.Max, rep.MaxAt))
 	}
@@ -542,12 +503,14 @@ func fitGolden(f func(float64) float64, a, b float64, iters int) float64 {
 }
 
 // fitNormalRMS returns the RMS of the residuals projected on the curve
-// normal at each knot, a cheap stand-in for the distance to the curve.
+// normal at each knot, a cheap stand-in for the distance to the curve; each
+// point counts with its weight capped at 1, so down-weighted outliers drop
+// out.
 func fitNormalRMS(p *splineProblem, f *splineFit, xs, ys []float64) float64 {
 	n := p.n()
 	px := p.pieces(f.gs[0], f.gams[0])
 	py := p.pieces(f.gs[1], f.gams[1])
-	var ss float64
+	var ss, sw float64
 	for i := 0; i < n; i++ {
 		var dx, dy float64
 		if i < len(px) {
@@ -563,11 +526,112 @@ func fitNormalRMS(p *splineProblem, f *splineFit, xs, ys []float64) float64 {
 			continue
 		}
 		r := ((xs[i]-f.gs[0][i])*dy - (ys[i]-f.gs[1][i])*dx) / l
-		ss += r * r
+		w := math.Min(p.ws[i], 1)
+		ss += w * r * r
+		sw += w
 	}
-	return math.Sqrt(ss / float64(n))
+	return math.Sqrt(ss / sw)
 }
 
-// fitPasses is the number of fits: the first in chord length, then one in
-// the foot-point arc length.
-const fitPasses = 2
+
+// fitRobustRounds is how many times the fit is repeated with the points
+// beyond the tolerance down-weighted to fitOutlierWeight.
+const (
+	fitRobustRounds  = 2
+	fitOutlierWeight = 1e-4
+	fitOutlierSigmas = 6
+)
+
+// fitRobustSigma returns 1.4826 times the median absolute residual, a
+// standard deviation that outliers do not inflate.
+func fitRobustSigma(rs []float64) float64 {
+	a := make([]float64, len(rs))
+	for i, r := range rs {
+		a[i] = math.Abs(r)
+	}
+	slices.Sort(a)
+	return 1.4826 * a[len(a)/2]
+}
+
+// fitPasses fits twice: in the chord-length parameter ts, then in the arc
+// length of each point's foot on the first curve (unless that would not
+// increase strictly). It records λ and tr H in rep.
+func fitPasses(pts []Point, ts, ws, xs, ys []float64, open bool, period float64, opts FitOptions, rep *FitReport) (*Curve, error) {
+	m := len(pts)
+	var cv *Curve
+	for pass := 0; pass < 2; pass++ {
+		prob := newSplineProblem(ts, ws, !open, period)
+		lambda, err := fitChooseLambda(prob, xs, ys, opts, rep)
+		if err != nil {
+			return nil, err
+		}
+		f, err := prob.fit(lambda, [][]float64{xs, ys}, true)
+		if err != nil {
+			return nil, fmt.Errorf("geometry: fit: %w", err)
+		}
+		rep.Lambda, rep.EffectiveParams = lambda, f.trace
+		cv = curveFromFit(prob, f, !open)
+		if pass == 1 || lambda == 0 {
+			break
+		}
+		L := cv.Length()
+		nts := make([]float64, m)
+		var s0 float64
+		for i, p := range pts {
+			s, _ := cv.residual(p, min(i, cv.Pieces()-1), fitKnotU(cv, i))
+			if !open {
+				if i == 0 {
+					s0 = s
+				}
+				s -= s0
+				if s < 0 {
+					s += L
+				}
+				if i == 0 {
+					s = 0
+				}
+			}
+			nts[i] = s
+			if i > 0 && !(nts[i]-nts[i-1] > 1e-9*L) {
+				return cv, nil
+			}
+		}
+		if !open {
+			if !(L-nts[m-1] > 1e-9*L) {
+				return cv, nil
+			}
+			period = L
+		}
+		ts = nts
+	}
+	return cv, nil
+}
+
+// fitResiduals fills S, Residual, RMS, Max and MaxAt of rep for every
+// contour point.
+func fitResiduals(c *Contour, cv *Curve, knot []int, base map[int]bool, rep *FitReport) {
+	n := c.Len()
+	rep.S = make([]float64, n)
+	rep.Residual = make([]float64, n)
+	rep.Max, rep.MaxAt = 0, Origin{}
+	var sum2 float64
+	for i, p := range c.Points {
+		if base[i] {
+			a, b := cv.End(), cv.Start()
+			rep.Residual[i] = fitSegmentSide(p, a, b)
+			if p.Dist(a) <= p.Dist(b) {
+				rep.S[i] = cv.Length()
+			}
+		} else {
+			j := knot[i]
+			rep.S[i], rep.Residual[i] = cv.residual(p, min(j, cv.Pieces()-1), fitKnotU(cv, j))
+		}
+		r := rep.Residual[i]
+		sum2 += r * r
+		if math.Abs(r) > rep.Max {
+			rep.Max = math.Abs(r)
+			rep.MaxAt = fitOrigin(c, i)
+		}
+	}
+	rep.RMS = math.Sqrt(sum2 / float64(n))
+}

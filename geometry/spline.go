@@ -300,7 +300,7 @@ type splineSolver struct {
 	band   *splineBand
 	ldl    *splineLDL
 	cyclic bool
-	y1, y2 []float64  // B⁻¹ c₁, B⁻¹ c₂ (cyclic)
+	y1, y2 []float64     // B⁻¹ c₁, B⁻¹ c₂ (cyclic)
 	sInv   [2][2]float64 // inverse Schur complement (cyclic)
 }
 
