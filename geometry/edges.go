@@ -381,18 +381,34 @@ func edgeExtend(cv *Curve, e *edgeFind) (*Curve, string, float64, error) {
 }
 
 // edgeSharpenRounded replaces the rounded end by the extensions of both
-// surfaces: from the tip it walks each way until the curvature falls below
-// 30% of the tip's, and extends the tangents there to their intersection.
+// surfaces: from the tip it walks each way until the mean curvature over a
+// window of one tip radius (the turning of the tangent across the window
+// divided by its length, which measurement noise does not upset) falls
+// below 20% of the tip's, steps on by two spline pieces (the fit spreads the
+// end's curvature about one knot spacing into the surfaces), and extends the
+// tangents there to their intersection.
 func edgeSharpenRounded(cv *Curve, e *edgeFind) (*Curve, string, float64, error) {
 	L := cv.Length()
-	kTip := cv.Curvature(e.sTip)
 	wrap := func(s float64) float64 { return math.Mod(math.Mod(s, L)+L, L) }
-	ds := math.Min(e.rTip/20, L/2000)
+	turn := func(a, b float64) float64 {
+		ta, tb := cv.Tangent(wrap(a)), cv.Tangent(wrap(b))
+		return math.Atan2(ta.Cross(tb), ta.Dot(tb))
+	}
+	w := math.Min(e.rTip, L/50)
+	kTip := turn(e.sTip-w/2, e.sTip+w/2) / w
+	if !(kTip > 0) {
+		return nil, "", 0, fmt.Errorf("geometry: %w: the rounded end is not convex", ErrTrailingEdge)
+	}
+	w = math.Min(1/kTip, L/50)
+	ds := w / 10
 	walk := func(sign float64) (float64, bool) {
 		for d := ds; d < L/4; d += ds {
-			s := wrap(e.sTip + sign*d)
-			if cv.Curvature(s) < 0.3*kTip {
-				return s, true
+			s := e.sTip + sign*d
+			if turn(s-w/2, s+w/2)/w < 0.2*kTip {
+				// Step on by two pieces: the spline carries the end's
+				// curvature about one knot spacing into the surface.
+				i, _ := cv.locate(wrap(s + sign*w/2))
+				return wrap(s + sign*(w/2+2*(cv.ss[i+1]-cv.ss[i]))), true
 			}
 		}
 		return 0, false

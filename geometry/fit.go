@@ -533,7 +533,6 @@ func fitNormalRMS(p *splineProblem, f *splineFit, xs, ys []float64) float64 {
 	return math.Sqrt(ss / sw)
 }
 
-
 // fitRobustRounds is how many times the fit is repeated with the points
 // beyond the tolerance down-weighted to fitOutlierWeight.
 const (

@@ -103,12 +103,9 @@ func fitTestMaxDist(qs, poly []Point) float64 {
 		return p.Dist(a.Add(d.Scale(t)))
 	}
 	var worst float64
-	at := -1
+	at := 0 // both start at the upper trailing edge
 	for _, q := range qs {
-		lo, hi := 0, len(poly)-1
-		if at >= 0 {
-			lo, hi = max(0, at-400), min(len(poly)-1, at+400)
-		}
+		lo, hi := max(0, at-400), min(len(poly)-1, at+400)
 		best := math.Inf(1)
 		for k := lo; k < hi; k++ {
 			if d := segDist(q, k); d < best {

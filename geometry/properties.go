@@ -142,7 +142,7 @@ func propSurface(p Path, sa, sb, x float64) float64 {
 // surfaces (blade sections). Both maxima are refined by golden-section
 // search between stations. The leading-edge radius is that of the circle
 // fitted by least squares (geometric distance) to the nose within
-// ±0.3 osculating radii of arc of the leading edge. The trailing-edge angle
+// ±propLEArc (0.15) osculating radii of arc of the leading edge. The trailing-edge angle
 // is the angle between the surface tangents at the trailing edge. Area,
 // centroid and second moments about the centroid (Ixx = ∫∫(y−ȳ)² dA,
 // Iyy = ∫∫(x−x̄)² dA, Ixy = ∫∫(x−x̄)(y−ȳ) dA) come from Green's theorem on
@@ -204,8 +204,11 @@ func ComputeProperties(p Path, sLE float64, opts PropertyOptions) (*SectionPrope
 			m := Point{x, camber(x)}
 			t := Point{1, slope}.Scale(1 / math.Hypot(1, slope))
 			along := func(s float64) float64 { return c.At(s).Sub(m).Dot(t) }
-			cut := func(sa, sb float64) Point {
+			cut := func(sa, sb float64) (Point, bool) {
 				fa := along(sa)
+				if (fa > 0) == (along(sb) > 0) {
+					return Point{}, false // the normal misses this surface
+				}
 				for range 60 {
 					mid := (sa + sb) / 2
 					if fm := along(mid); (fm > 0) == (fa > 0) {
@@ -214,9 +217,14 @@ func ComputeProperties(p Path, sLE float64, opts PropertyOptions) (*SectionPrope
 						sb = mid
 					}
 				}
-				return c.At((sa + sb) / 2)
+				return c.At((sa + sb) / 2), true
 			}
-			return cut(0, sLE).Dist(cut(L, sLE))
+			pu, ok1 := cut(0, sLE)
+			pl, ok2 := cut(L, sLE)
+			if !ok1 || !ok2 {
+				return 0
+			}
+			return pu.Dist(pl)
 		}
 	}
 	sp.Thickness, sp.ThicknessAt = propMax(thick, st[1:len(st)-1])
@@ -230,6 +238,7 @@ func ComputeProperties(p Path, sLE float64, opts PropertyOptions) (*SectionPrope
 		}
 		abs := func(x float64) float64 { return math.Abs(camber(x)) }
 		_, at := propMax(abs, st[1:len(st)-1])
+		at = propVertex(abs, at, math.Min(propCamberWindow, math.Min(at, xEnd-at)))
 		sp.Camber, sp.CamberAt = camber(at), at
 	} else {
 		best := -1
@@ -257,7 +266,7 @@ func ComputeProperties(p Path, sLE float64, opts PropertyOptions) (*SectionPrope
 		center := c.At(sLE).Sub(c.Normal(sLE).Scale(r0))
 		var pts []Point
 		for j := -20; j <= 20; j++ {
-			pts = append(pts, c.At(sLE+0.3*r0*float64(j)/20))
+			pts = append(pts, c.At(sLE+propLEArc*r0*float64(j)/20))
 		}
 		sp.LECenter, sp.LERadius = propCircle(pts, center, r0)
 	}
@@ -387,4 +396,48 @@ func propSolve3(a [3][3]float64, b [3]float64) ([3]float64, bool) {
 		x[k] = det(m) / d
 	}
 	return x, true
+}
+
+// propLEArc is the half-width of the nose arc, in osculating radii at the
+// leading edge, to which the leading-edge circle is fitted.
+const propLEArc = 0.15
+
+// propCamberWindow is the half-width (chord units) of the window over which
+// the position of maximum camber is taken as the vertex of a least-squares
+// parabola. The camber line is flat near its maximum, so the plain maximum
+// wanders with measurement noise; the parabola steadies it at the cost of
+// a bias towards the flatter side of an asymmetric peak (+0.008 chord for
+// the NACA 2412, whose camber parabolas differ fore and aft).
+const propCamberWindow = 0.04
+
+// propVertex returns the vertex of the least-squares parabola through f at
+// 41 points within x0 ± w, or x0 if the parabola has no maximum there.
+func propVertex(f func(float64) float64, x0, w float64) float64 {
+	if !(w > 0) {
+		return x0
+	}
+	var s [5]float64
+	var r [3]float64
+	for k := -20; k <= 20; k++ {
+		u := w * float64(k) / 20
+		y := f(x0 + u)
+		p := 1.0
+		for j := 0; j < 5; j++ {
+			s[j] += p
+			if j < 3 {
+				r[j] += p * y
+			}
+			p *= u
+		}
+	}
+	a := [3][3]float64{{s[0], s[1], s[2]}, {s[1], s[2], s[3]}, {s[2], s[3], s[4]}}
+	c, ok := propSolve3(a, r)
+	if !ok || !(c[2] < 0) {
+		return x0
+	}
+	u := -c[1] / (2 * c[2])
+	if math.Abs(u) > w {
+		return x0
+	}
+	return x0 + u
 }
