@@ -267,10 +267,10 @@ func (c *Curve) projectNear(p Point, i int, u float64) (int, float64, float64) {
 	return i, u, q.Dist(p)
 }
 
-// Residual returns the signed distance of p from c, positive outside a
-// counter-clockwise loop (on the side of the outward normal), with the arc
-// length of the foot point. It searches near arc length sGuess first and
-// falls back to a global search when the local foot is poor.
+// residual returns the arc length of the foot of p on c, found by Newton's
+// method from piece i, local parameter u, and the signed distance of p from
+// c there: positive outside a counter-clockwise loop (on the side of the
+// outward normal).
 func (c *Curve) residual(p Point, i int, u float64) (s, d float64) {
 	fi, fu, dist := c.projectNear(p, i, u)
 	q, d1, _ := c.eval(fi, fu)

@@ -103,6 +103,7 @@ const (
 	fitBluntDeg    = 40
 	fitBluntSumDeg = 130
 	fitBaseDeg     = 20
+	fitGapRatio    = 4 // a segment this many times the median spacing is a base
 )
 
 // fitDetectEnds looks for a sharp corner or the two corners of a blunt base
@@ -142,6 +143,26 @@ func fitDetectEnds(pts []Point, mode string) fitEnds {
 	for j := range turn {
 		if turn[j] > turn[top] {
 			top = j
+		}
+	}
+	// A blunt edge without base points: a segment in the corner region
+	// much longer than the spacing around it is the base itself.
+	if turn[top] >= fitSharpDeg && k > 1 {
+		var lens []float64
+		for i := top - w - 4*k; i < top-w+4*k; i++ {
+			lens = append(lens, at(i+1).Dist(at(i)))
+		}
+		med := append([]float64(nil), lens...)
+		slices.Sort(med)
+		long, li := 0.0, 0
+		for j, l := range lens {
+			if l > long {
+				long, li = l, j
+			}
+		}
+		if long > fitGapRatio*med[len(med)/2] {
+			lower := idx(top - w - 4*k + li)
+			return openAt(idx(lower + 1))
 		}
 	}
 	if turn[top] >= fitSharpDeg {
@@ -396,7 +417,11 @@ func fitOrigin(c *Contour, i int) Origin {
 
 // fitChooseLambda returns λ for the options: 0 for exact interpolation, the
 // λ whose RMS normal residual equals opts.Noise, or the GCV minimiser.
-func fitChooseLambda(p *splineProblem, xs, ys []float64, opts FitOptions, rep *FitReport) (float64, error) {
+//
+// A positive hint (a λ from an earlier fit of nearly the same data) narrows
+// the search to a factor of e³ either side of it when that brackets the
+// answer.
+func fitChooseLambda(p *splineProblem, xs, ys []float64, opts FitOptions, hint float64, rep *FitReport) (float64, error) {
 	if opts.Exact {
 		return 0, nil
 	}
@@ -410,6 +435,7 @@ func fitChooseLambda(p *splineProblem, xs, ys []float64, opts FitOptions, rep *F
 	lo := math.Log(1e-8 * hbar * hbar * hbar)
 	hi := math.Log(math.Pow(span/2, 4) / hbar)
 	cols := [][]float64{xs, ys}
+	const hintSpan = 3
 	if opts.Noise > 0 {
 		rms := func(ll float64) (float64, error) {
 			f, err := p.fit(math.Exp(ll), cols, false)
@@ -418,7 +444,21 @@ func fitChooseLambda(p *splineProblem, xs, ys []float64, opts FitOptions, rep *F
 			}
 			return fitNormalRMS(p, f, xs, ys), nil
 		}
+		if hint > 0 {
+			a, b := math.Log(hint)-hintSpan, math.Log(hint)+hintSpan
+			ra, errA := rms(a)
+			rb, errB := rms(b)
+			if errA == nil && errB == nil && ra < opts.Noise && rb > opts.Noise {
+				lo, hi = a, b
+			}
+		}
+		// Very strong smoothing of many points is ill-conditioned (the
+		// condition number grows as (ℓ/h)⁴); back off until the system factors.
 		rHi, err := rms(hi)
+		for k := 0; err != nil && k < 60 && hi > lo; k++ {
+			hi -= math.Log(16) // halve the smoothing length
+			rHi, err = rms(hi)
+		}
 		if err != nil {
 			return 0, fmt.Errorf("geometry: fit: %w", err)
 		}
@@ -426,14 +466,19 @@ func fitChooseLambda(p *splineProblem, xs, ys []float64, opts FitOptions, rep *F
 			rep.Warnings = append(rep.Warnings, fmt.Sprintf("noise %g exceeds the scatter of the points about the smoothest curve (%g); using the smoothest curve", opts.Noise, rHi))
 			return math.Exp(hi), nil
 		}
+		best, bestDiff := hi, math.Abs(rHi-opts.Noise)
 		for range 60 {
 			mid := (lo + hi) / 2
 			r, err := rms(mid)
 			if err != nil {
-				return 0, fmt.Errorf("geometry: fit: %w", err)
+				hi = mid // treat as too smooth
+				continue
 			}
-			if math.Abs(r-opts.Noise) <= 1e-4*opts.Noise {
-				return math.Exp(mid), nil
+			if d := math.Abs(r - opts.Noise); d < bestDiff {
+				best, bestDiff = mid, d
+			}
+			if d := math.Abs(r - opts.Noise); d <= 1e-3*opts.Noise {
+				break
 			}
 			if r < opts.Noise {
 				lo = mid
@@ -444,7 +489,7 @@ func fitChooseLambda(p *splineProblem, xs, ys []float64, opts FitOptions, rep *F
 				break
 			}
 		}
-		return math.Exp((lo + hi) / 2), nil
+		return math.Exp(best), nil
 	}
 	gcv := func(ll float64) float64 {
 		f, err := p.fit(math.Exp(ll), cols, true)
@@ -462,11 +507,14 @@ func fitChooseLambda(p *splineProblem, xs, ys []float64, opts FitOptions, rep *F
 		}
 		return ss / float64(n) / (den * den)
 	}
-	const grid = 40
+	grid := 40
+	if hint > 0 {
+		lo, hi, grid = math.Log(hint)-hintSpan, math.Log(hint)+hintSpan, 12
+	}
 	best, bestV := 0, math.Inf(1)
 	vs := make([]float64, grid+1)
 	for k := 0; k <= grid; k++ {
-		vs[k] = gcv(lo + (hi-lo)*float64(k)/grid)
+		vs[k] = gcv(lo + (hi-lo)*float64(k)/float64(grid))
 		if vs[k] < bestV {
 			best, bestV = k, vs[k]
 		}
@@ -474,10 +522,10 @@ func fitChooseLambda(p *splineProblem, xs, ys []float64, opts FitOptions, rep *F
 	if math.IsInf(bestV, 1) {
 		return 0, fmt.Errorf("geometry: fit: cross-validation failed for every smoothing strength")
 	}
-	a := lo + (hi-lo)*float64(max(best-1, 0))/grid
-	b := lo + (hi-lo)*float64(min(best+1, grid))/grid
+	a := lo + (hi-lo)*float64(max(best-1, 0))/float64(grid)
+	b := lo + (hi-lo)*float64(min(best+1, grid))/float64(grid)
 	ll := fitGolden(gcv, a, b, 40)
-	if best == 0 {
+	if best == 0 && hint == 0 {
 		rep.Warnings = append(rep.Warnings, "cross-validation chose the weakest smoothing tried: the points look noise-free; consider noise 0")
 	}
 	return math.Exp(ll), nil
@@ -536,6 +584,7 @@ func fitNormalRMS(p *splineProblem, f *splineFit, xs, ys []float64) float64 {
 // fitRobustRounds is how many times the fit is repeated with the points
 // beyond the tolerance down-weighted to fitOutlierWeight.
 const (
+	fitMinStep       = 0.05 // least ratio of a reparametrised step to its chord-length step
 	fitRobustRounds  = 2
 	fitOutlierWeight = 1e-4
 	fitOutlierSigmas = 6
@@ -558,9 +607,10 @@ func fitRobustSigma(rs []float64) float64 {
 func fitPasses(pts []Point, ts, ws, xs, ys []float64, open bool, period float64, opts FitOptions, rep *FitReport) (*Curve, error) {
 	m := len(pts)
 	var cv *Curve
+	hint := rep.Lambda
 	for pass := 0; pass < 2; pass++ {
 		prob := newSplineProblem(ts, ws, !open, period)
-		lambda, err := fitChooseLambda(prob, xs, ys, opts, rep)
+		lambda, err := fitChooseLambda(prob, xs, ys, opts, hint, rep)
 		if err != nil {
 			return nil, err
 		}
@@ -569,6 +619,7 @@ func fitPasses(pts []Point, ts, ws, xs, ys []float64, open bool, period float64,
 			return nil, fmt.Errorf("geometry: fit: %w", err)
 		}
 		rep.Lambda, rep.EffectiveParams = lambda, f.trace
+		hint = lambda
 		cv = curveFromFit(prob, f, !open)
 		if pass == 1 || lambda == 0 {
 			break
@@ -590,13 +641,17 @@ func fitPasses(pts []Point, ts, ws, xs, ys []float64, open bool, period float64,
 					s = 0
 				}
 			}
-			nts[i] = s
-			if i > 0 && !(nts[i]-nts[i-1] > 1e-9*L) {
-				return cv, nil
+			if i > 0 {
+				// Feet of dense, noisy points can crowd or swap; keep every
+				// step at least a twentieth of its chord-length step so the
+				// system stays well conditioned.
+				s = math.Max(s, nts[i-1]+fitMinStep*(ts[i]-ts[i-1]))
 			}
+			nts[i] = s
 		}
 		if !open {
-			if !(L-nts[m-1] > 1e-9*L) {
+			closing := period - (ts[m-1] - ts[0])
+			if L-nts[m-1] < fitMinStep*closing {
 				return cv, nil
 			}
 			period = L
