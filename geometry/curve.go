@@ -83,15 +83,34 @@ func (c *Curve) speed(i int, u float64) float64 {
 	return math.Hypot(dx, dy)
 }
 
-// partial returns the arc length of piece i from u = 0 to u.
+// partial returns the arc length of piece i from u = 0 to u, by
+// Gauss–Legendre quadrature, bisected adaptively where the speed is far
+// from smooth (a piece that nearly folds back on itself) so that every
+// partial length agrees with the sum of its parts to rounding error.
 func (c *Curve) partial(i int, u float64) float64 {
+	return c.partialOn(i, 0, u, c.glOn(i, 0, u), 0)
+}
+
+func (c *Curve) glOn(i int, a, b float64) float64 {
 	gl := curveGL()
 	var l float64
 	for k, x := range gl[0] {
-		l += gl[1][k] * c.speed(i, x*u)
+		l += gl[1][k] * c.speed(i, a+x*(b-a))
 	}
-	return l * u
+	return l * (b - a)
 }
+
+func (c *Curve) partialOn(i int, a, b, whole float64, depth int) float64 {
+	m := (a + b) / 2
+	l, r := c.glOn(i, a, m), c.glOn(i, m, b)
+	if depth >= curveMaxDepth || math.Abs(l+r-whole) <= 1e-11*math.Abs(whole) {
+		return l + r
+	}
+	return c.partialOn(i, a, m, l, depth+1) + c.partialOn(i, m, b, r, depth+1)
+}
+
+// curveMaxDepth bounds the bisection of partial.
+const curveMaxDepth = 20
 
 // locate returns the piece and local parameter at arc length s.
 func (c *Curve) locate(s float64) (int, float64) {
@@ -117,10 +136,11 @@ func (c *Curve) locate(s float64) (int, float64) {
 		return i, 0
 	}
 	u := h * target / pl
+	tol := 1e-14 * (L + 1)
 	for range 12 {
 		f := c.partial(i, u) - target
-		if math.Abs(f) <= 1e-14*(L+1) {
-			break
+		if math.Abs(f) <= tol {
+			return i, u
 		}
 		sp := c.speed(i, u)
 		if sp <= 0 {
@@ -128,7 +148,24 @@ func (c *Curve) locate(s float64) (int, float64) {
 		}
 		u = math.Min(h, math.Max(0, u-f/sp))
 	}
-	return i, u
+	if math.Abs(c.partial(i, u)-target) <= 1e3*tol {
+		return i, u
+	}
+	// Newton stalled (a piece with nearly zero speed): bisect, the arc
+	// length being monotone in u.
+	a, b := 0.0, h
+	for range 100 {
+		u = (a + b) / 2
+		if c.partial(i, u) < target {
+			a = u
+		} else {
+			b = u
+		}
+		if b-a <= 1e-15*h {
+			break
+		}
+	}
+	return i, (a + b) / 2
 }
 
 // arc returns the arc length at piece i, local parameter u.
@@ -175,7 +212,7 @@ func (c *Curve) curvatureAt(i int, u float64) float64 {
 	return d1.Cross(d2) / (sp * sp * sp)
 }
 
-// Start and End return the first and last point of c.
+// Start returns the first point of c.
 func (c *Curve) Start() Point { return Point{c.xs[0][0], c.ys[0][0]} }
 
 // End returns the last point of c.
@@ -186,32 +223,38 @@ func (c *Curve) End() Point {
 }
 
 // Project returns the arc length of the point of c nearest to p and the
-// distance to it. It scans every piece end for the nearest one, then refines
-// by Newton's method on the pieces either side.
+// distance to it. It scans the start and middle of every piece for the
+// nearest one, then refines by Newton's method from there and from the
+// neighbouring samples.
 func (c *Curve) Project(p Point) (s, dist float64) {
-	best, bestD := 0, math.Inf(1)
+	np := len(c.xs)
+	bi, bu, bd := 0, 0.0, math.Inf(1)
 	for i := range c.xs {
-		q := Point{c.xs[i][0], c.ys[i][0]}
-		if d := q.Dist(p); d < bestD {
-			best, bestD = i, d
+		for _, f := range [...]float64{0, 0.5} {
+			u := f * c.h(i)
+			q, _, _ := c.eval(i, u)
+			if d := q.Dist(p); d < bd {
+				bi, bu, bd = i, u, d
+			}
 		}
 	}
-	if e := c.End(); e.Dist(p) < bestD {
-		best = len(c.xs) - 1
-		bestD = e.Dist(p)
+	if e := c.End(); e.Dist(p) < bd {
+		bi, bu, bd = np-1, c.h(np-1), e.Dist(p)
 	}
-	bi, bu, bd := c.projectNear(p, best, 0)
-	if best > 0 {
-		if i, u, d := c.projectNear(p, best-1, c.h(best-1)); d < bd {
-			bi, bu, bd = i, u, d
-		}
-	} else if c.closed {
-		last := len(c.xs) - 1
-		if i, u, d := c.projectNear(p, last, c.h(last)); d < bd {
-			bi, bu, bd = i, u, d
+	starts := [][2]float64{{float64(bi), bu}, {float64(bi), 0}, {float64(bi), c.h(bi)}}
+	if bi > 0 {
+		starts = append(starts, [2]float64{float64(bi - 1), c.h(bi-1) / 2})
+	}
+	if bi < np-1 {
+		starts = append(starts, [2]float64{float64(bi + 1), c.h(bi+1) / 2})
+	}
+	fi, fu, fd := bi, bu, bd
+	for _, st := range starts {
+		if i, u, d := c.projectNear(p, int(st[0]), st[1]); d < fd {
+			fi, fu, fd = i, u, d
 		}
 	}
-	return c.arc(bi, bu), bd
+	return c.arc(fi, fu), fd
 }
 
 // projectNear finds a local minimum of |C − p| starting at piece i, local

@@ -53,6 +53,10 @@ const (
 	EdgeMirrorCentroid = 1e-3
 )
 
+// edgeCornerRad is the tangent turn (radians, 10°) at the start of a closed
+// curve that makes it a corner rather than a smooth, rounded edge.
+const edgeCornerRad = 10 * math.Pi / 180
+
 // ErrNoLeadingEdge means the body has no distinct far point and trailing
 // edge (a circle, a square), so the leading edge must be given.
 var ErrNoLeadingEdge = errors.New("no identifiable leading edge")
@@ -163,7 +167,11 @@ func edgeLocate(cv *Curve, leAt *Point) (*edgeFind, error) {
 		}
 		e.le = cv.At(e.sLE)
 	}
-	if cv.closed {
+	// A closed curve with a corner at its start (a normalised sharp
+	// section) is treated like an open one whose ends meet.
+	ta, tb := cv.Tangent(L), cv.Tangent(0)
+	cornered := math.Abs(math.Atan2(ta.Cross(tb), ta.Dot(tb))) > edgeCornerRad
+	if cv.closed && !cornered {
 		e.kind = TERounded
 		e.te = cv.Start()
 		for range 4 {
@@ -198,7 +206,7 @@ func edgeLocate(cv *Curve, leAt *Point) (*edgeFind, error) {
 		}
 	}
 	e.width = hi - lo
-	if !cv.closed {
+	if !cv.closed || cornered {
 		switch {
 		case e.gap <= EdgeSharpGap*e.chord:
 			e.kind = TESharp

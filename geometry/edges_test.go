@@ -131,9 +131,12 @@ func TestTrailingEdgeBluntTreatments(t *testing.T) {
 	}
 	// Ahead of the blend region nothing moves.
 	kp := kept.Path.(*Curve)
+	pu, _ := propSides(p, cl.SLE)
+	ku, _ := propSides(kp, kept.SLE)
 	for _, x := range []float64{0.1, 0.5, 0.75} {
-		yu := p.At(propSurface(p, 0, cl.SLE, x)).Y
-		yk := kp.At(propSurface(kp, 0, kept.SLE, x)).Y
+		_, _, q, _ := pu.atX(x)
+		_, _, k, _ := ku.atX(x)
+		yu, yk := q.Y, k.Y
 		if math.Abs(yu-yk) > 2e-6 {
 			t.Errorf("close: upper surface at x = %g moved by %.2g", x, yu-yk)
 		}

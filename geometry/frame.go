@@ -146,7 +146,7 @@ func Normalize(cv *Curve, opts EdgeOptions) (*Normalized, error) {
 	if opts.LEAt != nil {
 		sLE, _ = treated.Project(*opts.LEAt)
 	} else if treated.closed {
-		// Keep the search away from the trailing-edge corner itself.
+		// Keep the search away from the trailing edge itself.
 		L := treated.Length()
 		sLE, _ = edgeFarthest(treated, te, 0.05*L, 0.95*L)
 	} else {
@@ -170,13 +170,16 @@ func Normalize(cv *Curve, opts EdgeOptions) (*Normalized, error) {
 			warn("section is (nearly) symmetric: mirroring cannot be detected; use mirror yes if it was measured upside down")
 		}
 	}
+	// Affine maps scale arc length by 1/chord; a reversal counts it from the
+	// other end.
+	out.SLE = sLE / fr.Chord
 	if mirrored {
 		fr = frameFrom(le, te, true)
 		chord = fr.frameApply(treated).Reverse()
+		out.SLE = chord.Length() - sLE/fr.Chord
 	}
 	out.Frame = fr
 	out.Path = chord
-	out.SLE, _ = chord.Project(Point{})
 	return out, nil
 }
 

@@ -251,3 +251,51 @@ func TestNormalizeNoLeadingEdge(t *testing.T) {
 		}
 	}
 }
+
+func TestNormalizeIdempotent(t *testing.T) {
+	// Normalising a normalised section changes nothing: unit chord, no
+	// twist, leading edge at the origin (exact by the frame's definition).
+	const tol = 1e-7
+	for _, sharp := range []bool{false, true} {
+		nz, _ := propTestSection(t, "2412", sharp, 0.02, EdgeOptions{})
+		again, err := Normalize(nz.Path.(*Curve), EdgeOptions{Mirror: MirrorNo})
+		if err != nil {
+			t.Fatal(err)
+		}
+		f := again.Frame
+		if math.Abs(f.Chord-1) > tol || math.Abs(f.TwistDeg) > 1e-5 || math.Hypot(f.LE[0], f.LE[1]) > tol {
+			t.Errorf("sharp=%v: renormalised frame %+v, want chord 1, twist 0, LE (0, 0)", sharp, f)
+		}
+		if again.TE.Kind != nz.TE.Kind || math.Abs(again.TE.Thickness-nz.TE.Thickness) > tol {
+			t.Errorf("sharp=%v: trailing edge %+v, first pass %+v", sharp, again.TE, nz.TE)
+		}
+	}
+}
+
+func TestNormalizeNACA4Loop(t *testing.T) {
+	// The cosine-spaced loop of geometry.NACA4 (NACA Report 824 equations),
+	// noise-free and interpolated: the open edge is blunt with thickness
+	// 2·yt(1) = 0.00252 of the Report 824 chord, and the chord is the
+	// farthest-point distance.
+	n, _ := ParseNACA4("0012")
+	part := fitTestPart{chord: 152.4, rotDeg: 7, shift: Point{37, -12}}
+	c := fitTestContour(n.Loop(100), part)
+	cv, _, err := Fit(c, FitOptions{Exact: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	nz, err := Normalize(cv, EdgeOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want, dense := frameExpected(n, part, false)
+	if nz.TE.Kind != TEBlunt || math.Abs(nz.TE.Thickness*nz.Frame.Chord/152.4-0.00252) > 1e-6 {
+		t.Errorf("trailing edge %+v, want blunt, 0.00252 of the Report 824 chord", nz.TE)
+	}
+	if math.Abs(nz.Frame.Chord/want.Chord-1) > 1e-6 || math.Abs(frameAngleDiff(nz.Frame.TwistDeg, want.TwistDeg)) > 1e-4 {
+		t.Errorf("frame %+v, want %+v", nz.Frame, want)
+	}
+	if d := fitTestMaxDist(nz.Path.(*Curve).Samples(4000), dense); d > 2e-5 {
+		t.Errorf("normalised curve departs %.2g chord from the analytic contour", d)
+	}
+}

@@ -115,20 +115,74 @@ func propCentroid(c *Curve) (float64, float64) {
 	return g.sx / g.a, g.sy / g.a
 }
 
-// propSurface finds the arc length in [sa, sb] where the x coordinate of p
-// equals x, by bisection (the surface is taken to be monotone in x there).
-func propSurface(p Path, sa, sb, x float64) float64 {
-	fa := p.At(sa).X - x
-	for range 60 {
-		m := (sa + sb) / 2
-		fm := p.At(m).X - x
-		if (fm > 0) == (fa > 0) {
-			sa, fa = m, fm
+// propSide is one surface of a curve, from parameter position (i0, u0) to
+// (i1, u1) (pieces in order; i0 ≤ i1).
+type propSide struct {
+	c      *Curve
+	i0, i1 int
+	u0, u1 float64
+}
+
+// propSides splits c at arc length sLE into the upper side (start to sLE)
+// and the lower side (sLE to the end).
+func propSides(c *Curve, sLE float64) (upper, lower propSide) {
+	i, u := c.locate(sLE)
+	last := c.Pieces() - 1
+	return propSide{c, 0, i, 0, u}, propSide{c, i, last, u, c.h(last)}
+}
+
+// bounds returns the local parameter range of piece i on the side.
+func (ps propSide) bounds(i int) (float64, float64) {
+	a, b := 0.0, ps.c.h(i)
+	if i == ps.i0 {
+		a = ps.u0
+	}
+	if i == ps.i1 {
+		b = ps.u1
+	}
+	return a, b
+}
+
+// cross finds where g changes sign along the side, taking it to change sign
+// once: binary search over the pieces, then bisection in the piece. It
+// returns the piece, local parameter and point, and false when g has the
+// same sign at both ends.
+func (ps propSide) cross(g func(Point) float64) (int, float64, Point, bool) {
+	c := ps.c
+	at := func(i int, u float64) Point { p, _, _ := c.eval(i, u); return p }
+	a0, _ := ps.bounds(ps.i0)
+	_, b1 := ps.bounds(ps.i1)
+	ga, gb := g(at(ps.i0, a0)), g(at(ps.i1, b1))
+	if (ga > 0) == (gb > 0) {
+		return 0, 0, Point{}, false
+	}
+	lo, hi := ps.i0, ps.i1 // g changes sign within pieces lo..hi
+	for hi > lo {
+		mid := (lo + hi + 1) / 2
+		a, _ := ps.bounds(mid)
+		if (g(at(mid, a)) > 0) == (ga > 0) {
+			lo = mid
 		} else {
-			sb = m
+			hi = mid - 1
 		}
 	}
-	return (sa + sb) / 2
+	a, b := ps.bounds(lo)
+	fa := g(at(lo, a))
+	for range 60 {
+		m := (a + b) / 2
+		if (g(at(lo, m)) > 0) == (fa > 0) {
+			a = m
+		} else {
+			b = m
+		}
+	}
+	u := (a + b) / 2
+	return lo, u, at(lo, u), true
+}
+
+// atX returns the point of the side at chord station x.
+func (ps propSide) atX(x float64) (int, float64, Point, bool) {
+	return ps.cross(func(p Point) float64 { return p.X - x })
 }
 
 // ComputeProperties returns the geometric properties of the normalised
@@ -183,8 +237,9 @@ func ComputeProperties(p Path, sLE float64, opts PropertyOptions) (*SectionPrope
 		return nil, nil, fmt.Errorf("geometry: %w: surfaces end at x = %.4g, leading edge at (%.4g, %.4g)", ErrNotNormalized, xEnd, c.At(sLE).X, c.At(sLE).Y)
 	}
 	sp := &SectionProperties{ThicknessMode: opts.Thickness, CamberMode: opts.Camber}
-	yu := func(x float64) float64 { return c.At(propSurface(c, 0, sLE, x)).Y }
-	yl := func(x float64) float64 { return c.At(propSurface(c, L, sLE, x)).Y }
+	up, lo := propSides(c, sLE)
+	yu := func(x float64) float64 { _, _, p, _ := up.atX(x); return p.Y }
+	yl := func(x float64) float64 { _, _, p, _ := lo.atX(x); return p.Y }
 	camber := func(x float64) float64 { return (yu(x) + yl(x)) / 2 }
 	st := make([]float64, opts.Stations+1)
 	for k := range st {
@@ -203,26 +258,11 @@ func ComputeProperties(p Path, sLE float64, opts PropertyOptions) (*SectionPrope
 			slope := (camber(xb) - camber(xa)) / (xb - xa)
 			m := Point{x, camber(x)}
 			t := Point{1, slope}.Scale(1 / math.Hypot(1, slope))
-			along := func(s float64) float64 { return c.At(s).Sub(m).Dot(t) }
-			cut := func(sa, sb float64) (Point, bool) {
-				fa := along(sa)
-				if (fa > 0) == (along(sb) > 0) {
-					return Point{}, false // the normal misses this surface
-				}
-				for range 60 {
-					mid := (sa + sb) / 2
-					if fm := along(mid); (fm > 0) == (fa > 0) {
-						sa, fa = mid, fm
-					} else {
-						sb = mid
-					}
-				}
-				return c.At((sa + sb) / 2), true
-			}
-			pu, ok1 := cut(0, sLE)
-			pl, ok2 := cut(L, sLE)
+			along := func(p Point) float64 { return p.Sub(m).Dot(t) }
+			_, _, pu, ok1 := up.cross(along)
+			_, _, pl, ok2 := lo.cross(along)
 			if !ok1 || !ok2 {
-				return 0
+				return 0 // the normal misses a surface
 			}
 			return pu.Dist(pl)
 		}
@@ -246,7 +286,7 @@ func ComputeProperties(p Path, sLE float64, opts PropertyOptions) (*SectionPrope
 			if x < 0.005 || x > xEnd-0.005 {
 				continue
 			}
-			m, d := propInscribed(c, sLE, Point{x, camber(x)}, x)
+			m, d := propInscribed(c, up, lo, Point{x, camber(x)}, x)
 			cl.X = append(cl.X, m.X)
 			cl.Y = append(cl.Y, m.Y)
 			cl.Thickness = append(cl.Thickness, d)
@@ -317,10 +357,9 @@ func propMax(f func(float64) float64, st []float64) (float64, float64) {
 // propInscribed moves the point m0 (between the surfaces at station x) to
 // the centre of the circle touching both surfaces, and returns the centre
 // and the diameter.
-func propInscribed(c *Curve, sLE float64, m0 Point, x float64) (Point, float64) {
-	L := c.Length()
-	iu, uu := c.locate(propSurface(c, 0, sLE, x))
-	il, ul := c.locate(propSurface(c, L, sLE, x))
+func propInscribed(c *Curve, up, lo propSide, m0 Point, x float64) (Point, float64) {
+	iu, uu, _, _ := up.atX(x)
+	il, ul, _, _ := lo.atX(x)
 	m := m0
 	var du, dl float64
 	for range 50 {
