@@ -192,6 +192,17 @@ func (c *Curve) Tangent(s float64) Point {
 	return d.Scale(1 / d.Norm())
 }
 
+// Derivatives returns the first and second derivatives of the point with
+// respect to arc length at s: the unit tangent T and κ·N, where N is T
+// turned counter-clockwise and κ the signed curvature.
+func (c *Curve) Derivatives(s float64) (d1, d2 Point) {
+	i, u := c.locate(s)
+	_, p1, _ := c.eval(i, u)
+	t := p1.Scale(1 / p1.Norm())
+	k := c.curvatureAt(i, u)
+	return t, Point{-t.Y, t.X}.Scale(k)
+}
+
 // Normal returns the outward unit normal at s: the tangent turned clockwise,
 // which points out of a counter-clockwise loop.
 func (c *Curve) Normal(s float64) Point {

@@ -100,3 +100,26 @@ func TestCurveOperations(t *testing.T) {
 		t.Errorf("sub: At differs by %g", d)
 	}
 }
+
+func TestCurveDerivatives(t *testing.T) {
+	// Exact solution: on a circle of radius R travelled counter-clockwise,
+	// d²C/ds² = −(C − centre)/R².
+	const R = 2.0
+	var pts []Point
+	for i := range 80 {
+		a := 2 * math.Pi * float64(i) / 80
+		pts = append(pts, Point{R * math.Cos(a), R * math.Sin(a)})
+	}
+	c := curveInterpolate(pts, true)
+	for k := range 10 {
+		s := c.Length() * (float64(k) + 0.3) / 10
+		d1, d2 := c.Derivatives(s)
+		p := c.At(s)
+		if math.Abs(d1.Norm()-1) > 1e-12 || math.Abs(d1.Dot(p)) > 1e-5 {
+			t.Errorf("tangent at %g: %v", s, d1)
+		}
+		if d := d2.Add(p.Scale(1 / (R * R))); d.Norm() > 1e-3/R {
+			t.Errorf("second derivative at %g: %v, want %v", s, d2, p.Scale(-1/(R*R)))
+		}
+	}
+}

@@ -103,9 +103,12 @@ func TestNormalizeNACA(t *testing.T) {
 		if d := p.At(nz.SLE).Norm(); d > 1e-9 {
 			t.Errorf("%s: point at SLE is %g from the origin", name, d)
 		}
-		if d := fitTestMaxDist(p.Samples(4000), dense); d > curveTol {
+		d := fitTestMaxDist(p.Samples(4000), dense)
+		if d > curveTol {
 			t.Errorf("%s: normalised curve departs %.5f chord from the analytic contour", name, d)
 		}
+		t.Logf("%s: chord error %.3g%%, twist error %.4f°, max departure %.2g chord, TE %s %.5f",
+			name, 100*(nz.Frame.Chord/want.Chord-1), frameAngleDiff(nz.Frame.TwistDeg, want.TwistDeg), d, nz.TE.Kind, nz.TE.Thickness)
 		// Node order: counter-clockwise, upper surface first.
 		if p.At(0.25*p.Length()).Y <= 0 || p.At(0.75*p.Length()).Y >= 0 {
 			t.Errorf("%s: not in node order (upper surface first)", name)

@@ -216,3 +216,21 @@ func TestPropertiesModes(t *testing.T) {
 		t.Error("bad thickness mode: no error")
 	}
 }
+
+func BenchmarkNormalizeAndProperties(b *testing.B) {
+	n, _ := ParseNACA4("2412")
+	c := fitTestContour(fitTestLoop(n, 150), fitTestPart{chord: 152.4, rotDeg: 7, noise: 0.02, seed: 1})
+	cv, _, err := Fit(c, FitOptions{Noise: 0.02})
+	if err != nil {
+		b.Fatal(err)
+	}
+	for b.Loop() {
+		nz, err := Normalize(cv, EdgeOptions{})
+		if err != nil {
+			b.Fatal(err)
+		}
+		if _, _, err := ComputeProperties(nz.Path, nz.SLE, PropertyOptions{}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
