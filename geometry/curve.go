@@ -442,7 +442,8 @@ func (b *curveBuilder) curve(closed bool) *Curve { return newCurve(b.ts, b.xs, b
 
 // Sub returns the part of c from arc length s0 to s1 as a new curve. For a
 // closed curve s1 < s0 wraps through the start; s0 == s1 on a closed curve
-// returns the whole loop starting at s0, closed.
+// returns the whole loop starting at s0, closed. It panics for an open curve
+// unless s0 < s1.
 func (c *Curve) Sub(s0, s1 float64) *Curve {
 	var b curveBuilder
 	i0, u0 := c.locate(s0)

@@ -156,3 +156,32 @@ func TestTrailingEdgeBluntTreatments(t *testing.T) {
 		t.Error("unknown treatment: no error")
 	}
 }
+
+func TestTrailingEdgeOpen(t *testing.T) {
+	// An outline with the aft 10% of its lower surface missing: the ends
+	// do not meet and no base joins them.
+	n, _ := ParseNACA4("2412")
+	loop := fitTestLoop(n, 150)
+	var cut []Point
+	for i, p := range loop {
+		if i > 150 && p.X > 0.9 {
+			continue
+		}
+		cut = append(cut, p)
+	}
+	c := fitTestContour(cut, fitTestPart{chord: 152.4, rotDeg: 7, noise: 0.02, seed: 4})
+	cv, rep, err := Fit(c, FitOptions{Noise: 0.02})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if rep.Ends != FitEndsOpen || cv.End().Dist(c.Points[len(c.Points)-1]) > 0.01 {
+		t.Fatalf("ends %q, curve end %v, want open at the last point %v", rep.Ends, cv.End(), c.Points[len(c.Points)-1])
+	}
+	nz, err := Normalize(cv, EdgeOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if nz.TE.Kind != TEOpen || nz.TE.Action != TEKept || len(nz.Warnings) == 0 {
+		t.Errorf("trailing edge %+v, warnings %q: want open, kept, with a warning", nz.TE, nz.Warnings)
+	}
+}

@@ -145,9 +145,10 @@ func fitDetectEnds(pts []Point, mode string) fitEnds {
 			top = j
 		}
 	}
-	// A blunt edge without base points: a segment in the corner region
-	// much longer than the spacing around it is the base itself.
-	if turn[top] >= fitSharpDeg && k > 1 {
+	// A blunt edge without base points (or a gap in the outline): a segment
+	// in the corner region much longer than the spacing around it joins
+	// the two ends.
+	if turn[top] >= fitSharpDeg {
 		var lens []float64
 		for i := top - w - 4*k; i < top-w+4*k; i++ {
 			lens = append(lens, at(i+1).Dist(at(i)))
