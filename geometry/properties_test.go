@@ -234,3 +234,41 @@ func BenchmarkNormalizeAndProperties(b *testing.B) {
 		}
 	}
 }
+
+// propPathOnly hides every method of a Curve but those of Path.
+type propPathOnly struct{ c *Curve }
+
+func (p propPathOnly) Length() float64             { return p.c.Length() }
+func (p propPathOnly) At(s float64) Point          { return p.c.At(s) }
+func (p propPathOnly) Curvature(s float64) float64 { return p.c.Curvature(s) }
+
+func TestPropertiesAnyPath(t *testing.T) {
+	// A Path that is not a *Curve is resampled and interpolated; its
+	// properties agree with those of the curve itself.
+	for _, sharp := range []bool{false, true} {
+		nz, _ := propTestSection(t, "2412", sharp, 0, EdgeOptions{})
+		want, _, err := ComputeProperties(nz.Path, nz.SLE, PropertyOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		got, _, err := ComputeProperties(propPathOnly{nz.Path.(*Curve)}, nz.SLE, PropertyOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, tc := range []struct {
+			name      string
+			got, want float64
+		}{
+			{"area", got.Area, want.Area},
+			{"thickness", got.Thickness, want.Thickness},
+			{"camber", got.Camber, want.Camber},
+			{"LE radius", got.LERadius, want.LERadius},
+			{"Iyy", got.Iyy, want.Iyy},
+			{"TE angle", got.TEAngleDeg / 100, want.TEAngleDeg / 100},
+		} {
+			if math.Abs(tc.got/tc.want-1) > 1e-3 {
+				t.Errorf("sharp=%v: %s %.6g via Path, %.6g via Curve", sharp, tc.name, tc.got, tc.want)
+			}
+		}
+	}
+}
