@@ -44,9 +44,9 @@ var curveGL = sync.OnceValue(func() [2][]float64 {
 	return [2][]float64{x, w}
 })
 
-// newCurve builds a curve from piece coefficients. ts has one more entry
+// curveNew builds a curve from piece coefficients. ts has one more entry
 // than xs and ys. It computes the arc-length table.
-func newCurve(ts []float64, xs, ys [][4]float64, closed bool) *Curve {
+func curveNew(ts []float64, xs, ys [][4]float64, closed bool) *Curve {
 	if len(xs) == 0 || len(xs) != len(ys) || len(ts) != len(xs)+1 {
 		panic("geometry: inconsistent curve pieces")
 	}
@@ -366,7 +366,7 @@ func (c *Curve) Transform(m [2][2]float64, b Point) *Curve {
 			}
 		}
 	}
-	return newCurve(ts, xs, ys, c.closed)
+	return curveNew(ts, xs, ys, c.closed)
 }
 
 // Reverse returns c traversed the other way.
@@ -382,7 +382,7 @@ func (c *Curve) Reverse() *Curve {
 		ys[j] = curveFlip(c.ys[i], h)
 		ts[j+1] = ts[j] + h
 	}
-	return newCurve(ts, xs, ys, c.closed)
+	return curveNew(ts, xs, ys, c.closed)
 }
 
 // curveFlip returns the coefficients of P(h − v).
@@ -438,7 +438,7 @@ func (b *curveBuilder) addLine(p, q Point) {
 	b.add([4]float64{p.X, d.X}, [4]float64{p.Y, d.Y}, l)
 }
 
-func (b *curveBuilder) curve(closed bool) *Curve { return newCurve(b.ts, b.xs, b.ys, closed) }
+func (b *curveBuilder) curve(closed bool) *Curve { return curveNew(b.ts, b.xs, b.ys, closed) }
 
 // Sub returns the part of c from arc length s0 to s1 as a new curve. For a
 // closed curve s1 < s0 wraps through the start; s0 == s1 on a closed curve
@@ -491,7 +491,7 @@ func curveInterpolate(pts []Point, closed bool) *Curve {
 	if closed {
 		period = ts[len(ts)-1] + keep[len(keep)-1].Dist(keep[0])
 	}
-	prob := newSplineProblem(ts, nil, closed, period)
+	prob := splineNewProblem(ts, nil, closed, period)
 	xs, ys := make([]float64, len(keep)), make([]float64, len(keep))
 	for i, p := range keep {
 		xs[i], ys[i] = p.X, p.Y
@@ -512,7 +512,7 @@ func curveFromFit(p *splineProblem, f *splineFit, closed bool) *Curve {
 	for i, h := range p.hs {
 		ts[i+1] = ts[i] + h
 	}
-	return newCurve(ts, px, py, closed)
+	return curveNew(ts, px, py, closed)
 }
 
 // Samples returns the curve points at n+1 arc lengths equally spaced from 0

@@ -292,7 +292,7 @@ func edgeSnap(cv *Curve) (*Curve, float64) {
 	hk := cv.h(k)
 	xs[k] = curveAddCube(xs[k], d1.X, hk, false)
 	ys[k] = curveAddCube(ys[k], d1.Y, hk, false)
-	return newCurve(append([]float64(nil), cv.ts...), xs, ys, true), math.Max(d0.Norm(), d1.Norm())
+	return curveNew(append([]float64(nil), cv.ts...), xs, ys, true), math.Max(d0.Norm(), d1.Norm())
 }
 
 // curveAddCube adds δ(1 − u/h)³ (falling) or δ(u/h)³ (rising) to k.

@@ -610,7 +610,7 @@ func fitPasses(pts []Point, ts, ws, xs, ys []float64, open bool, period float64,
 	var cv *Curve
 	hint := rep.Lambda
 	for pass := 0; pass < 2; pass++ {
-		prob := newSplineProblem(ts, ws, !open, period)
+		prob := splineNewProblem(ts, ws, !open, period)
 		lambda, err := fitChooseLambda(prob, xs, ys, opts, hint, rep)
 		if err != nil {
 			return nil, err

@@ -44,12 +44,12 @@ type splineProblem struct {
 	m        int // number of unknown second derivatives: n−2 open, n periodic
 }
 
-// newSplineProblem returns the problem for knots ts (strictly increasing)
+// splineNewProblem returns the problem for knots ts (strictly increasing)
 // and weights ws (nil for all 1). For a periodic problem period is the
 // parameter length of the loop (period > ts[n−1] − ts[0]); it is ignored
 // otherwise. It panics if fewer than splineMinKnots knots are given or the
 // knots do not increase.
-func newSplineProblem(ts, ws []float64, periodic bool, period float64) *splineProblem {
+func splineNewProblem(ts, ws []float64, periodic bool, period float64) *splineProblem {
 	n := len(ts)
 	if n < splineMinKnots {
 		panic("geometry: spline needs at least 8 knots")
@@ -134,7 +134,7 @@ type splineBand struct {
 	cyclic     bool
 }
 
-func newSplineBand(m int, cyclic bool) *splineBand {
+func splineNewBand(m int, cyclic bool) *splineBand {
 	return &splineBand{d0: make([]float64, m), d1: make([]float64, m), d2: make([]float64, m), cyclic: cyclic}
 }
 
@@ -169,8 +169,8 @@ func (b *splineBand) add(j, k int, v float64) {
 // assemble returns the band of R and of λ QᵀW⁻¹Q.
 func (p *splineProblem) assemble(lambda float64) (r, a *splineBand) {
 	m := p.m
-	r = newSplineBand(m, p.periodic)
-	a = newSplineBand(m, p.periodic)
+	r = splineNewBand(m, p.periodic)
+	a = splineNewBand(m, p.periodic)
 	for i, h := range p.hs {
 		u0, u1 := p.unknown(i), p.unknown(i+1)
 		if u0 >= 0 {
@@ -304,7 +304,7 @@ type splineSolver struct {
 	sInv   [2][2]float64 // inverse Schur complement (cyclic)
 }
 
-func newSplineSolver(b *splineBand) (*splineSolver, error) {
+func splineNewSolver(b *splineBand) (*splineSolver, error) {
 	m := len(b.d0)
 	s := &splineSolver{band: b, cyclic: b.cyclic}
 	if !b.cyclic {
@@ -401,7 +401,7 @@ type splineFit struct {
 // when the problem is periodic; the two differ by O(1)).
 func (p *splineProblem) fit(lambda float64, ys [][]float64, wantTrace bool) (*splineFit, error) {
 	r, a := p.assemble(lambda)
-	sol, err := newSplineSolver(a)
+	sol, err := splineNewSolver(a)
 	if err != nil {
 		return nil, err
 	}
@@ -441,7 +441,7 @@ func (p *splineProblem) fit(lambda float64, ys [][]float64, wantTrace bool) (*sp
 	if wantTrace {
 		q := p
 		if p.periodic {
-			q = newSplineProblem(p.ts, p.ws, false, 0)
+			q = splineNewProblem(p.ts, p.ws, false, 0)
 			r, a = q.assemble(lambda)
 		}
 		f, err := splineFactor(a, q.m)

@@ -15,7 +15,7 @@ func TestSplineSolverMatchesDense(t *testing.T) {
 	rng := rand.New(rand.NewPCG(1, 2))
 	for _, cyclic := range []bool{false, true} {
 		for _, m := range []int{6, 7, 12, 41} {
-			b := newSplineBand(m, cyclic)
+			b := splineNewBand(m, cyclic)
 			dense := mat.NewDense(m, m, nil)
 			set := func(j, k int, v float64) {
 				b.add(j, k, v)
@@ -41,7 +41,7 @@ func TestSplineSolverMatchesDense(t *testing.T) {
 			if err := want.SolveVec(dense, mat.NewVecDense(m, append([]float64(nil), rhs...))); err != nil {
 				t.Fatal(err)
 			}
-			s, err := newSplineSolver(b)
+			s, err := splineNewSolver(b)
 			if err != nil {
 				t.Fatal(err)
 			}
