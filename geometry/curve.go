@@ -1,0 +1,530 @@
+package geometry
+
+import (
+	"math"
+	"sort"
+	"sync"
+
+	"gonum.org/v1/gonum/integrate/quad"
+)
+
+// Curve is a parametric piecewise-cubic curve in the plane, the result of a
+// fit or of normalisation. It implements Path: At, Curvature and the other
+// methods that take s use arc length s in [0, Length()], measured from the
+// start of the curve, and clamp s to that range.
+//
+// A closed curve ends where it starts (Closed reports it); a curve fitted to
+// a loop with a smooth (rounded) trailing edge is also smooth across its
+// start, while a curve with a sharp trailing edge has a corner there. An open
+// curve (a blunt trailing edge kept as it is) runs from the upper
+// trailing-edge corner to the lower one; the base between them is not part
+// of the curve.
+//
+// Internally a Curve is a sequence of pieces, each a cubic polynomial in its
+// own parameter u ∈ [0, hᵢ]; the parameter is close to, but not exactly,
+// arc length. Arc length is integrated per piece by 8-point Gauss–Legendre
+// quadrature. A Curve is immutable; the zero Curve is not usable.
+type Curve struct {
+	ts     []float64    // parameter at the start of each piece; len = pieces+1
+	xs, ys [][4]float64 // coefficients of each piece in u = t − ts[i]
+	ss     []float64    // arc length at ts
+	closed bool
+}
+
+// curveGLOrder is the order of the Gauss–Legendre rule used per piece:
+// exact for polynomials of degree 15, which covers the Green's-theorem
+// integrands of cubic pieces (degree ≤ 11).
+const curveGLOrder = 8
+
+// curveGL returns Gauss–Legendre nodes and weights on [0, 1].
+var curveGL = sync.OnceValue(func() [2][]float64 {
+	x := make([]float64, curveGLOrder)
+	w := make([]float64, curveGLOrder)
+	quad.Legendre{}.FixedLocations(x, w, 0, 1)
+	return [2][]float64{x, w}
+})
+
+// curveNew builds a curve from piece coefficients. ts has one more entry
+// than xs and ys. It computes the arc-length table.
+func curveNew(ts []float64, xs, ys [][4]float64, closed bool) *Curve {
+	if len(xs) == 0 || len(xs) != len(ys) || len(ts) != len(xs)+1 {
+		panic("geometry: inconsistent curve pieces")
+	}
+	c := &Curve{ts: ts, xs: xs, ys: ys, closed: closed}
+	c.ss = make([]float64, len(ts))
+	for i := range xs {
+		c.ss[i+1] = c.ss[i] + c.partial(i, ts[i+1]-ts[i])
+	}
+	return c
+}
+
+// curvePoly evaluates a cubic and its first two derivatives at u.
+func curvePoly(k [4]float64, u float64) (v, d1, d2 float64) {
+	v = k[0] + u*(k[1]+u*(k[2]+u*k[3]))
+	d1 = k[1] + u*(2*k[2]+3*u*k[3])
+	d2 = 2*k[2] + 6*u*k[3]
+	return v, d1, d2
+}
+
+// Pieces returns the number of cubic pieces of c.
+func (c *Curve) Pieces() int { return len(c.xs) }
+
+// Closed reports whether c ends where it starts.
+func (c *Curve) Closed() bool { return c.closed }
+
+// Length returns the arc length of c.
+func (c *Curve) Length() float64 { return c.ss[len(c.ss)-1] }
+
+func (c *Curve) h(i int) float64 { return c.ts[i+1] - c.ts[i] }
+
+func (c *Curve) speed(i int, u float64) float64 {
+	_, dx, _ := curvePoly(c.xs[i], u)
+	_, dy, _ := curvePoly(c.ys[i], u)
+	return math.Hypot(dx, dy)
+}
+
+// partial returns the arc length of piece i from u = 0 to u, by
+// Gauss–Legendre quadrature, bisected adaptively where the speed is far
+// from smooth (a piece that nearly folds back on itself) so that every
+// partial length agrees with the sum of its parts to rounding error.
+func (c *Curve) partial(i int, u float64) float64 {
+	return c.partialOn(i, 0, u, c.glOn(i, 0, u), 0)
+}
+
+func (c *Curve) glOn(i int, a, b float64) float64 {
+	gl := curveGL()
+	var l float64
+	for k, x := range gl[0] {
+		l += gl[1][k] * c.speed(i, a+x*(b-a))
+	}
+	return l * (b - a)
+}
+
+func (c *Curve) partialOn(i int, a, b, whole float64, depth int) float64 {
+	m := (a + b) / 2
+	l, r := c.glOn(i, a, m), c.glOn(i, m, b)
+	if depth >= curveMaxDepth || math.Abs(l+r-whole) <= 1e-11*math.Abs(whole) {
+		return l + r
+	}
+	return c.partialOn(i, a, m, l, depth+1) + c.partialOn(i, m, b, r, depth+1)
+}
+
+// curveMaxDepth bounds the bisection of partial.
+const curveMaxDepth = 20
+
+// locate returns the piece and local parameter at arc length s.
+func (c *Curve) locate(s float64) (int, float64) {
+	L := c.Length()
+	switch {
+	case !(s > 0):
+		return 0, 0
+	case s >= L:
+		i := len(c.xs) - 1
+		return i, c.h(i)
+	}
+	i := sort.SearchFloat64s(c.ss, s) - 1
+	if i < 0 {
+		i = 0
+	}
+	if i >= len(c.xs) {
+		i = len(c.xs) - 1
+	}
+	target := s - c.ss[i]
+	h := c.h(i)
+	pl := c.ss[i+1] - c.ss[i]
+	if pl <= 0 {
+		return i, 0
+	}
+	u := h * target / pl
+	tol := 1e-14 * (L + 1)
+	for range 12 {
+		f := c.partial(i, u) - target
+		if math.Abs(f) <= tol {
+			return i, u
+		}
+		sp := c.speed(i, u)
+		if sp <= 0 {
+			break
+		}
+		u = math.Min(h, math.Max(0, u-f/sp))
+	}
+	if math.Abs(c.partial(i, u)-target) <= 1e3*tol {
+		return i, u
+	}
+	// Newton stalled (a piece with nearly zero speed): bisect, the arc
+	// length being monotone in u.
+	a, b := 0.0, h
+	for range 100 {
+		u = (a + b) / 2
+		if c.partial(i, u) < target {
+			a = u
+		} else {
+			b = u
+		}
+		if b-a <= 1e-15*h {
+			break
+		}
+	}
+	return i, (a + b) / 2
+}
+
+// arc returns the arc length at piece i, local parameter u.
+func (c *Curve) arc(i int, u float64) float64 { return c.ss[i] + c.partial(i, u) }
+
+func (c *Curve) eval(i int, u float64) (p, d1, d2 Point) {
+	x, dx, ddx := curvePoly(c.xs[i], u)
+	y, dy, ddy := curvePoly(c.ys[i], u)
+	return Point{x, y}, Point{dx, dy}, Point{ddx, ddy}
+}
+
+// At returns the point at arc length s.
+func (c *Curve) At(s float64) Point {
+	i, u := c.locate(s)
+	p, _, _ := c.eval(i, u)
+	return p
+}
+
+// Tangent returns the unit tangent (direction of increasing s) at arc
+// length s.
+func (c *Curve) Tangent(s float64) Point {
+	i, u := c.locate(s)
+	_, d, _ := c.eval(i, u)
+	return d.Scale(1 / d.Norm())
+}
+
+// Derivatives returns the first and second derivatives of the point with
+// respect to arc length at s: the unit tangent T and κ·N, where N is T
+// turned counter-clockwise and κ the signed curvature.
+func (c *Curve) Derivatives(s float64) (d1, d2 Point) {
+	i, u := c.locate(s)
+	_, p1, _ := c.eval(i, u)
+	t := p1.Scale(1 / p1.Norm())
+	k := c.curvatureAt(i, u)
+	return t, Point{-t.Y, t.X}.Scale(k)
+}
+
+// Normal returns the outward unit normal at s: the tangent turned clockwise,
+// which points out of a counter-clockwise loop.
+func (c *Curve) Normal(s float64) Point {
+	t := c.Tangent(s)
+	return Point{t.Y, -t.X}
+}
+
+// Curvature returns the signed curvature dθ/ds at arc length s, positive
+// where c turns counter-clockwise.
+func (c *Curve) Curvature(s float64) float64 {
+	i, u := c.locate(s)
+	return c.curvatureAt(i, u)
+}
+
+func (c *Curve) curvatureAt(i int, u float64) float64 {
+	_, d1, d2 := c.eval(i, u)
+	sp := d1.Norm()
+	return d1.Cross(d2) / (sp * sp * sp)
+}
+
+// Start returns the first point of c.
+func (c *Curve) Start() Point { return Point{c.xs[0][0], c.ys[0][0]} }
+
+// End returns the last point of c.
+func (c *Curve) End() Point {
+	i := len(c.xs) - 1
+	p, _, _ := c.eval(i, c.h(i))
+	return p
+}
+
+// Project returns the arc length of the point of c nearest to p and the
+// distance to it. It scans the start and middle of every piece for the
+// nearest one, then refines by Newton's method from there and from the
+// neighbouring samples.
+func (c *Curve) Project(p Point) (s, dist float64) {
+	np := len(c.xs)
+	bi, bu, bd := 0, 0.0, math.Inf(1)
+	for i := range c.xs {
+		for _, f := range [...]float64{0, 0.5} {
+			u := f * c.h(i)
+			q, _, _ := c.eval(i, u)
+			if d := q.Dist(p); d < bd {
+				bi, bu, bd = i, u, d
+			}
+		}
+	}
+	if e := c.End(); e.Dist(p) < bd {
+		bi, bu, bd = np-1, c.h(np-1), e.Dist(p)
+	}
+	starts := [][2]float64{{float64(bi), bu}, {float64(bi), 0}, {float64(bi), c.h(bi)}}
+	if bi > 0 {
+		starts = append(starts, [2]float64{float64(bi - 1), c.h(bi-1) / 2})
+	}
+	if bi < np-1 {
+		starts = append(starts, [2]float64{float64(bi + 1), c.h(bi+1) / 2})
+	}
+	fi, fu, fd := bi, bu, bd
+	for _, st := range starts {
+		if i, u, d := c.projectNear(p, int(st[0]), st[1]); d < fd {
+			fi, fu, fd = i, u, d
+		}
+	}
+	return c.arc(fi, fu), fd
+}
+
+// projectNear finds a local minimum of |C − p| starting at piece i, local
+// parameter u, moving across pieces as needed. It returns the piece, local
+// parameter and distance.
+func (c *Curve) projectNear(p Point, i int, u float64) (int, float64, float64) {
+	np := len(c.xs)
+	for range 40 {
+		q, d1, d2 := c.eval(i, u)
+		r := q.Sub(p)
+		f := r.Dot(d1)
+		fp := d1.Dot(d1) + r.Dot(d2)
+		if fp <= 0 {
+			fp = d1.Dot(d1)
+		}
+		step := -f / fp
+		h := c.h(i)
+		un := u + step
+		switch {
+		case un < 0:
+			if i > 0 || c.closed {
+				if i == 0 {
+					i = np - 1
+				} else {
+					i--
+				}
+				u = c.h(i)
+				if step > -1e-300 {
+					break
+				}
+				continue
+			}
+			un = 0
+		case un > h:
+			if i < np-1 || c.closed {
+				if i == np-1 {
+					i = 0
+				} else {
+					i++
+				}
+				u = 0
+				continue
+			}
+			un = h
+		}
+		done := math.Abs(un-u) <= 1e-13*(h+math.Abs(u))
+		u = un
+		if done {
+			break
+		}
+	}
+	q, _, _ := c.eval(i, u)
+	return i, u, q.Dist(p)
+}
+
+// residual returns the arc length of the foot of p on c, found by Newton's
+// method from piece i, local parameter u, and the signed distance of p from
+// c there: positive outside a counter-clockwise loop (on the side of the
+// outward normal).
+func (c *Curve) residual(p Point, i int, u float64) (s, d float64) {
+	fi, fu, dist := c.projectNear(p, i, u)
+	q, d1, _ := c.eval(fi, fu)
+	n := Point{d1.Y, -d1.X}
+	sign := 1.0
+	if p.Sub(q).Dot(n) < 0 {
+		sign = -1
+	}
+	return c.arc(fi, fu), sign * dist
+}
+
+// Transform returns the image of c under x ↦ m·x + b (m a 2×2 matrix given
+// by rows). Affine maps carry cubic pieces to cubic pieces exactly. When m
+// reverses orientation (det m < 0) the direction of travel is kept; use
+// Reverse to restore counter-clockwise order.
+func (c *Curve) Transform(m [2][2]float64, b Point) *Curve {
+	xs := make([][4]float64, len(c.xs))
+	ys := make([][4]float64, len(c.ys))
+	for i := range c.xs {
+		for k := 0; k < 4; k++ {
+			xs[i][k] = m[0][0]*c.xs[i][k] + m[0][1]*c.ys[i][k]
+			ys[i][k] = m[1][0]*c.xs[i][k] + m[1][1]*c.ys[i][k]
+		}
+		xs[i][0] += b.X
+		ys[i][0] += b.Y
+	}
+	ts := append([]float64(nil), c.ts...)
+	// Scale the parameter with the map so that it stays close to arc length.
+	f := math.Sqrt(math.Abs(m[0][0]*m[1][1] - m[0][1]*m[1][0]))
+	if f > 0 && f != 1 {
+		for i := range ts {
+			ts[i] *= f
+		}
+		for i := range xs {
+			for k := 1; k < 4; k++ {
+				p := math.Pow(f, -float64(k))
+				xs[i][k] *= p
+				ys[i][k] *= p
+			}
+		}
+	}
+	return curveNew(ts, xs, ys, c.closed)
+}
+
+// Reverse returns c traversed the other way.
+func (c *Curve) Reverse() *Curve {
+	np := len(c.xs)
+	xs := make([][4]float64, np)
+	ys := make([][4]float64, np)
+	ts := make([]float64, np+1)
+	for j := 0; j < np; j++ {
+		i := np - 1 - j
+		h := c.h(i)
+		xs[j] = curveFlip(c.xs[i], h)
+		ys[j] = curveFlip(c.ys[i], h)
+		ts[j+1] = ts[j] + h
+	}
+	return curveNew(ts, xs, ys, c.closed)
+}
+
+// curveFlip returns the coefficients of P(h − v).
+func curveFlip(k [4]float64, h float64) [4]float64 {
+	a, b, cc, d := k[0], k[1], k[2], k[3]
+	return [4]float64{
+		a + h*(b+h*(cc+h*d)),
+		-b - 2*cc*h - 3*d*h*h,
+		cc + 3*d*h,
+		-d,
+	}
+}
+
+// curveShift returns the coefficients of P(u₀ + v).
+func curveShift(k [4]float64, u0 float64) [4]float64 {
+	v, d1, d2 := curvePoly(k, u0)
+	return [4]float64{v, d1, d2 / 2, k[3]}
+}
+
+// curveBuilder collects pieces of a new curve.
+type curveBuilder struct {
+	ts     []float64
+	xs, ys [][4]float64
+}
+
+func (b *curveBuilder) add(x, y [4]float64, h float64) {
+	if h <= 0 {
+		return
+	}
+	if len(b.ts) == 0 {
+		b.ts = append(b.ts, 0)
+	}
+	b.xs = append(b.xs, x)
+	b.ys = append(b.ys, y)
+	b.ts = append(b.ts, b.ts[len(b.ts)-1]+h)
+}
+
+// addPiece adds the part [u0, u1] of piece i of c.
+func (b *curveBuilder) addPiece(c *Curve, i int, u0, u1 float64) {
+	if u1-u0 <= 1e-15*c.h(i) {
+		return
+	}
+	b.add(curveShift(c.xs[i], u0), curveShift(c.ys[i], u0), u1-u0)
+}
+
+// addLine adds the straight segment from p to q, parametrised by length.
+func (b *curveBuilder) addLine(p, q Point) {
+	l := p.Dist(q)
+	if l == 0 {
+		return
+	}
+	d := q.Sub(p).Scale(1 / l)
+	b.add([4]float64{p.X, d.X}, [4]float64{p.Y, d.Y}, l)
+}
+
+func (b *curveBuilder) curve(closed bool) *Curve { return curveNew(b.ts, b.xs, b.ys, closed) }
+
+// Sub returns the part of c from arc length s0 to s1 as a new curve. For a
+// closed curve s1 < s0 wraps through the start; s0 == s1 on a closed curve
+// returns the whole loop starting at s0, closed. It panics for an open curve
+// unless s0 < s1.
+func (c *Curve) Sub(s0, s1 float64) *Curve {
+	var b curveBuilder
+	i0, u0 := c.locate(s0)
+	i1, u1 := c.locate(s1)
+	c.subTo(&b, i0, u0, i1, u1)
+	return b.curve(c.closed && s0 == s1)
+}
+
+func (c *Curve) subTo(b *curveBuilder, i0 int, u0 float64, i1 int, u1 float64) {
+	np := len(c.xs)
+	if i0 == i1 && u1 > u0 {
+		b.addPiece(c, i0, u0, u1)
+		return
+	}
+	if !c.closed && (i1 < i0 || (i1 == i0 && u1 <= u0)) {
+		panic("geometry: Sub of an open curve needs s0 < s1")
+	}
+	b.addPiece(c, i0, u0, c.h(i0))
+	for i := (i0 + 1) % np; i != i1; i = (i + 1) % np {
+		b.addPiece(c, i, 0, c.h(i))
+	}
+	b.addPiece(c, i1, 0, u1)
+}
+
+// curveInterpolate returns the interpolating cubic spline through pts with
+// a chord-length parameter: periodic when closed (pts holds each point once,
+// the last joins the first), natural at both ends otherwise. It panics if
+// fewer than splineMinKnots points are given; coincident neighbours are
+// skipped.
+func curveInterpolate(pts []Point, closed bool) *Curve {
+	keep := []Point{pts[0]}
+	for _, p := range pts[1:] {
+		if p.Dist(keep[len(keep)-1]) > 0 {
+			keep = append(keep, p)
+		}
+	}
+	if closed && len(keep) > 1 && keep[len(keep)-1].Dist(keep[0]) == 0 {
+		keep = keep[:len(keep)-1]
+	}
+	ts := make([]float64, len(keep))
+	for i := 1; i < len(keep); i++ {
+		ts[i] = ts[i-1] + keep[i].Dist(keep[i-1])
+	}
+	period := 0.0
+	if closed {
+		period = ts[len(ts)-1] + keep[len(keep)-1].Dist(keep[0])
+	}
+	prob := splineNewProblem(ts, nil, closed, period)
+	xs, ys := make([]float64, len(keep)), make([]float64, len(keep))
+	for i, p := range keep {
+		xs[i], ys[i] = p.X, p.Y
+	}
+	f, err := prob.fit(0, [][]float64{xs, ys}, false)
+	if err != nil {
+		panic("geometry: interpolation failed: " + err.Error())
+	}
+	return curveFromFit(prob, f, closed)
+}
+
+// curveFromFit builds the curve of a spline fit with columns x and y.
+func curveFromFit(p *splineProblem, f *splineFit, closed bool) *Curve {
+	px := p.pieces(f.gs[0], f.gams[0])
+	py := p.pieces(f.gs[1], f.gams[1])
+	ts := make([]float64, len(px)+1)
+	ts[0] = p.ts[0]
+	for i, h := range p.hs {
+		ts[i+1] = ts[i] + h
+	}
+	return curveNew(ts, px, py, closed)
+}
+
+// Samples returns the curve points at n+1 arc lengths equally spaced from 0
+// to Length(). It panics if n < 1.
+func (c *Curve) Samples(n int) []Point {
+	if n < 1 {
+		panic("geometry: Samples needs n ≥ 1")
+	}
+	out := make([]Point, n+1)
+	L := c.Length()
+	for k := range out {
+		out[k] = c.At(L * float64(k) / float64(n))
+	}
+	return out
+}

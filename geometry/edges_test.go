@@ -1,0 +1,187 @@
+package geometry
+
+import (
+	"errors"
+	"math"
+	"testing"
+)
+
+// edgeTestRounded returns the closed-edge NACA 0012 (NACA Report 824
+// equations) grown outward by r in chord units: each surface offset along
+// its normal, joined at the trailing edge by a circular arc of radius r
+// about the sharp corner, the shape a printer leaves of a sharp edge. Index
+// 0 is the tip of the arc.
+func edgeTestRounded(r float64, perSurface, arc int) []Point {
+	n := NACA4{Thickness: 0.12, SharpTE: true}
+	normal := func(x float64, upper bool) Point {
+		const h = 1e-7
+		f := n.Lower
+		if upper {
+			f = n.Upper
+		}
+		a, b := f(math.Max(0, x-h)), f(math.Min(1, x+h))
+		d := b.Sub(a) // direction of increasing x
+		if upper {
+			d = d.Scale(-1) // travel towards the leading edge
+		}
+		d = d.Scale(1 / d.Norm())
+		return Point{d.Y, -d.X} // outward for counter-clockwise travel
+	}
+	nu, nl := normal(1, true), normal(1, false)
+	au, al := math.Atan2(nu.Y, nu.X), math.Atan2(nl.Y, nl.X)
+	te := Point{1, 0}
+	var pts []Point
+	for k := 0; k < arc; k++ { // tip up to the upper surface
+		a := au * float64(k) / float64(arc)
+		pts = append(pts, te.Add(Point{math.Cos(a), math.Sin(a)}.Scale(r)))
+	}
+	for i := perSurface; i >= 1; i-- {
+		x := fitTestStation(i, perSurface)
+		pts = append(pts, n.Upper(x).Add(normal(x, true).Scale(r)))
+	}
+	pts = append(pts, Point{-r, 0})
+	for i := 1; i <= perSurface; i++ {
+		x := fitTestStation(i, perSurface)
+		pts = append(pts, n.Lower(x).Add(normal(x, false).Scale(r)))
+	}
+	for k := 1; k < arc; k++ { // lower surface back to the tip
+		a := al * float64(arc-k) / float64(arc)
+		pts = append(pts, te.Add(Point{math.Cos(a), math.Sin(a)}.Scale(r)))
+	}
+	return pts
+}
+
+func TestTrailingEdgeRounded(t *testing.T) {
+	// Exact geometry: straight offset surfaces of a corner of included angle
+	// θ meet r/sin(θ/2) behind it, so sharpening moves the tip by
+	// r/sin(θ/2) − r. θ is the included angle of the closed 0012 at x = 1
+	// (slope of the Report 824 thickness equation with a₄ = 0.1036). The
+	// surfaces are slightly convex and are extended along their tangents
+	// from about 3% chord ahead of the edge, which puts the point about 5%
+	// farther aft (measured: +5.4% for exact interpolation, +4% for GCV);
+	// hence the 10% tolerance.
+	const r = 0.005
+	part := fitTestPart{chord: 100, rotDeg: -4, shift: Point{10, 3}, noise: 0.001, seed: 11}
+	c := fitTestContour(edgeTestRounded(r, 150, 16), part)
+	cv, rep, err := Fit(c, FitOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if rep.Ends != FitEndsClosed {
+		t.Fatalf("ends %q, want closed (smooth rounded edge)", rep.Ends)
+	}
+	keep, err := Normalize(cv, EdgeOptions{TE: TEKeep})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if keep.TE.Kind != TERounded || keep.TE.Action != TEKept || !keep.Path.(*Curve).Closed() {
+		t.Errorf("keep: %+v", keep.TE)
+	}
+	if p := keep.Path.At(0); p.Dist(Point{1, 0}) > 1e-9 {
+		t.Errorf("keep: path starts at %v, want the tip (1, 0)", p)
+	}
+	sh, err := Normalize(cv, EdgeOptions{}) // auto sharpens a rounded edge
+	if err != nil {
+		t.Fatal(err)
+	}
+	slope := 0.12 / 0.2 * (0.2969/2 - 0.126 - 2*0.3516 + 3*0.2843 - 4*0.1036)
+	half := math.Atan(-slope)
+	want := (r/math.Sin(half) - r) * part.chord
+	if sh.TE.Kind != TERounded || sh.TE.Action != TESharpened {
+		t.Errorf("auto: %+v, want rounded, sharpened", sh.TE)
+	}
+	if math.Abs(sh.TE.MaxShift/want-1) > 0.10 {
+		t.Errorf("sharpened tip moved %.4f, want %.4f (exact offset geometry) within 10%%", sh.TE.MaxShift, want)
+	}
+	p := sh.Path.(*Curve)
+	if !p.Closed() || p.Start().Dist(Point{1, 0}) > 1e-9 || p.End().Dist(Point{1, 0}) > 1e-9 {
+		t.Errorf("sharpened path ends %v %v, want both at (1, 0)", p.Start(), p.End())
+	}
+	if _, err := Normalize(cv, EdgeOptions{TE: TEClose}); !errors.Is(err, ErrTrailingEdge) {
+		t.Errorf("close on a rounded edge: err = %v, want ErrTrailingEdge", err)
+	}
+}
+
+func TestTrailingEdgeBluntTreatments(t *testing.T) {
+	n, _ := ParseNACA4("0012")
+	part := fitTestPart{chord: 152.4, rotDeg: 7, shift: Point{37, -12}, noise: 0.02, seed: 42}
+	c := fitTestContour(fitTestLoop(n, 150), part)
+	cv, _, err := Fit(c, FitOptions{Noise: 0.02})
+	if err != nil {
+		t.Fatal(err)
+	}
+	kept, err := Normalize(cv, EdgeOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	cl, err := Normalize(cv, EdgeOptions{TE: TEClose, Blend: 0.2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	p := cl.Path.(*Curve)
+	if cl.TE.Kind != TEBlunt || cl.TE.Action != TEClosed || !p.Closed() {
+		t.Errorf("close: %+v, closed %v", cl.TE, p.Closed())
+	}
+	// Closing moves each corner to the midpoint: half the thickness.
+	if want := kept.TE.Thickness / 2 * kept.Frame.Chord; math.Abs(cl.TE.MaxShift-want) > 1e-9 {
+		t.Errorf("close: max shift %.5f, want %.5f", cl.TE.MaxShift, want)
+	}
+	if p.Start().Dist(Point{1, 0}) > 1e-9 || p.End().Dist(Point{1, 0}) > 1e-9 {
+		t.Errorf("close: ends %v %v, want (1, 0)", p.Start(), p.End())
+	}
+	// Ahead of the blend region nothing moves.
+	kp := kept.Path.(*Curve)
+	pu, _ := propSides(p, cl.SLE)
+	ku, _ := propSides(kp, kept.SLE)
+	for _, x := range []float64{0.1, 0.5, 0.75} {
+		_, _, q, _ := pu.atX(x)
+		_, _, k, _ := ku.atX(x)
+		yu, yk := q.Y, k.Y
+		if math.Abs(yu-yk) > 2e-6 {
+			t.Errorf("close: upper surface at x = %g moved by %.2g", x, yu-yk)
+		}
+	}
+	sh, err := Normalize(cv, EdgeOptions{TE: TESharpen})
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Extending surfaces of slope ±tan(θ/2) from a gap g meets g/(2 tan(θ/2))
+	// behind the base (exact geometry); θ from the Report 824 equation.
+	slope := 0.12 / 0.2 * (0.2969/2 - 0.126 - 2*0.3516 + 3*0.2843 - 4*0.1015)
+	want := kept.TE.Thickness / 2 / -slope * kept.Frame.Chord
+	if sh.TE.Action != TESharpened || math.Abs(sh.TE.MaxShift/want-1) > 0.1 {
+		t.Errorf("sharpen: %+v, want shift %.4f within 10%%", sh.TE, want)
+	}
+	if _, err := Normalize(cv, EdgeOptions{TE: "cut"}); err == nil {
+		t.Error("unknown treatment: no error")
+	}
+}
+
+func TestTrailingEdgeOpen(t *testing.T) {
+	// An outline with the aft 10% of its lower surface missing: the ends
+	// do not meet and no base joins them.
+	n, _ := ParseNACA4("2412")
+	loop := fitTestLoop(n, 150)
+	var cut []Point
+	for i, p := range loop {
+		if i > 150 && p.X > 0.9 {
+			continue
+		}
+		cut = append(cut, p)
+	}
+	c := fitTestContour(cut, fitTestPart{chord: 152.4, rotDeg: 7, noise: 0.02, seed: 4})
+	cv, rep, err := Fit(c, FitOptions{Noise: 0.02})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if rep.Ends != FitEndsOpen || cv.End().Dist(c.Points[len(c.Points)-1]) > 0.01 {
+		t.Fatalf("ends %q, curve end %v, want open at the last point %v", rep.Ends, cv.End(), c.Points[len(c.Points)-1])
+	}
+	nz, err := Normalize(cv, EdgeOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if nz.TE.Kind != TEOpen || nz.TE.Action != TEKept || len(nz.Warnings) == 0 {
+		t.Errorf("trailing edge %+v, warnings %q: want open, kept, with a warning", nz.TE, nz.Warnings)
+	}
+}

@@ -1,0 +1,692 @@
+package geometry
+
+import (
+	"fmt"
+	"math"
+	"slices"
+	"strconv"
+	"strings"
+)
+
+// Fit methods, as reported in FitReport.Method and the section document.
+const (
+	FitInterpolate = "interpolate" // exact interpolation (noise 0)
+	FitNoise       = "noise"       // smoothing set from the expected noise
+	FitGCV         = "gcv"         // smoothing set by generalised cross-validation
+)
+
+// Curve ends chosen by Fit, FitOptions.Ends and FitReport.Ends.
+const (
+	FitEndsAuto   = ""       // decide from the contour (corners at the trailing edge)
+	FitEndsClosed = "closed" // periodic spline, smooth all round (rounded trailing edge)
+	FitEndsOpen   = "open"   // open spline with both ends at the trailing edge
+)
+
+// FitOptions controls Fit. The zero value chooses the smoothing strength
+// automatically (generalised cross-validation) and the curve ends from the
+// contour.
+type FitOptions struct {
+	// Noise is the expected measurement noise in input units (a standard
+	// deviation, normal to the surface). When positive, the smoothing strength
+	// is chosen so that the RMS residual equals Noise. Zero means automatic
+	// unless Exact is set.
+	Noise float64
+	// Exact interpolates every point (no smoothing): what "noise 0" means.
+	Exact bool
+	// Tolerance lists the points farther than this from the curve, in input
+	// units, in FitReport.Beyond; they are not moved. Zero means 4 times the
+	// larger of Noise and the RMS residual; with Exact and Tolerance 0
+	// nothing is listed.
+	Tolerance float64
+	// Ends is FitEndsAuto (default), FitEndsClosed or FitEndsOpen.
+	Ends string
+}
+
+// SetNoise sets the smoothing from a user value: "auto" (or "") for
+// generalised cross-validation, "0" for exact interpolation, or a positive
+// number (input units). It returns an error for anything else.
+func (o *FitOptions) SetNoise(s string) error {
+	s = strings.TrimSpace(s)
+	if s == "" || strings.EqualFold(s, "auto") {
+		o.Noise, o.Exact = 0, false
+		return nil
+	}
+	v, err := strconv.ParseFloat(s, 64)
+	if err != nil || v < 0 || math.IsInf(v, 0) || math.IsNaN(v) {
+		return fmt.Errorf("geometry: noise %q: want auto, 0 or a positive length", s)
+	}
+	o.Noise, o.Exact = v, v == 0
+	return nil
+}
+
+// FitReport says how the curve was fitted and how far it departs from every
+// kept input point. Lengths are in input units.
+type FitReport struct {
+	Method string  // FitInterpolate, FitNoise or FitGCV
+	Lambda float64 // smoothing parameter λ of the penalty λ∫|C''|² (0 for interpolation)
+	Ends   string  // FitEndsClosed or FitEndsOpen
+	// EffectiveParams is tr H(λ), the equivalent number of parameters per
+	// coordinate (n for interpolation).
+	EffectiveParams float64
+	RMS, Max        float64 // RMS and largest |Residual|
+	MaxAt           Origin  // where the largest residual is
+	// S[i] and Residual[i] belong to point i of the contour: the arc length
+	// of its foot on the curve and its signed normal distance (positive
+	// outside the loop). Points on the base of a blunt trailing edge (listed
+	// in Base) are measured from the straight base between the curve ends,
+	// with S at the nearer end.
+	S, Residual []float64
+	Beyond      []Origin // points farther than the tolerance, in contour order
+	Tolerance   float64  // the tolerance used for Beyond
+	Base        []Origin // points on a blunt trailing-edge base, left out of the fit
+	Warnings    []string
+}
+
+// Summary returns the fit record of the section document.
+func (r *FitReport) Summary() *FitSummary {
+	return &FitSummary{Method: r.Method, RMS: r.RMS, Max: r.Max, MaxAt: r.MaxAt.String()}
+}
+
+// fitEnds is the result of looking for corners at the trailing edge.
+type fitEnds struct {
+	open  bool
+	order []int // contour indices in fit order; for a sharp edge the first is repeated at the end
+	base  []int // contour indices on a blunt base
+}
+
+// fitCornerDeg are the turning angles (degrees) that make a corner: one
+// vertex turning at least fitSharpDeg is a sharp edge; two vertices turning
+// at least fitBluntDeg each, with a nearly straight base between them and at
+// least fitBluntSumDeg together, are the corners of a blunt edge.
+const (
+	fitSharpDeg    = 110
+	fitBluntDeg    = 40
+	fitBluntSumDeg = 130
+	fitBaseDeg     = 20
+	fitGapRatio    = 4 // a segment this many times the median spacing is a base
+)
+
+// fitDetectEnds looks for a sharp corner or the two corners of a blunt base
+// near index 0 of the counter-clockwise loop pts. It uses the turning angle
+// between the chords to the k-th neighbours, k growing with the point count
+// so that dense scans are not read point by point.
+func fitDetectEnds(pts []Point, mode string) fitEnds {
+	n := len(pts)
+	at := func(i int) Point { return pts[((i%n)+n)%n] }
+	idx := func(i int) int { return ((i % n) + n) % n }
+	periodic := func() fitEnds {
+		o := make([]int, n)
+		for i := range o {
+			o[i] = i
+		}
+		return fitEnds{order: o}
+	}
+	openAt := func(start int) fitEnds { // ends at start−1 and start: blunt without base
+		o := make([]int, n)
+		for i := range o {
+			o[i] = idx(start + i)
+		}
+		return fitEnds{open: true, order: o}
+	}
+	if mode == FitEndsClosed {
+		return periodic()
+	}
+	k := max(1, n/1000)
+	w := max(4*k, n/16)
+	turn := make([]float64, 2*w+1) // turn[j] at vertex j−w
+	for j := range turn {
+		i := j - w
+		a, b := at(i).Sub(at(i-k)), at(i+k).Sub(at(i))
+		turn[j] = math.Atan2(a.Cross(b), a.Dot(b)) * 180 / math.Pi
+	}
+	top := 0
+	for j := range turn {
+		if turn[j] > turn[top] {
+			top = j
+		}
+	}
+	// A blunt edge without base points (or a gap in the outline): a segment
+	// in the corner region much longer than the spacing around it joins
+	// the two ends.
+	if turn[top] >= fitSharpDeg {
+		var lens []float64
+		for i := top - w - 4*k; i < top-w+4*k; i++ {
+			lens = append(lens, at(i+1).Dist(at(i)))
+		}
+		med := append([]float64(nil), lens...)
+		slices.Sort(med)
+		long, li := 0.0, 0
+		for j, l := range lens {
+			if l > long {
+				long, li = l, j
+			}
+		}
+		if long > fitGapRatio*med[len(med)/2] {
+			lower := idx(top - w - 4*k + li)
+			return openAt(idx(lower + 1))
+		}
+	}
+	if turn[top] >= fitSharpDeg {
+		start := idx(top - w)
+		o := make([]int, n+1)
+		for i := 0; i < n; i++ {
+			o[i] = idx(start + i)
+		}
+		o[n] = start
+		return fitEnds{open: true, order: o}
+	}
+	// Second corner: the largest turning beyond the first one's stencil.
+	sec := -1
+	for j := range turn {
+		if j > top-k && j < top+k {
+			continue
+		}
+		if sec < 0 || turn[j] > turn[sec] {
+			sec = j
+		}
+	}
+	if sec >= 0 && turn[top] >= fitBluntDeg && turn[sec] >= fitBluntDeg && turn[top]+turn[sec] >= fitBluntSumDeg {
+		a, b := min(top, sec), max(top, sec) // a lower corner, b upper corner
+		straight := true
+		for j := a + k + 1; j < b-k; j++ {
+			if math.Abs(turn[j]) >= fitBaseDeg {
+				straight = false
+			}
+		}
+		if straight {
+			ia, ib := idx(a-w), idx(b-w)
+			var base []int
+			for i := idx(ia + 1); i != ib; i = idx(i + 1) {
+				base = append(base, i)
+			}
+			var o []int
+			for i := ib; ; i = idx(i + 1) {
+				o = append(o, i)
+				if i == ia {
+					break
+				}
+			}
+			return fitEnds{open: true, order: o, base: base}
+		}
+	}
+	if mode == FitEndsOpen {
+		return openAt(0)
+	}
+	return periodic()
+}
+
+// fitEndWeight is the weight of the two end points of an open fit (all
+// other points weigh 1): it pins the curve ends to the trailing-edge points.
+const fitEndWeight = 1e4
+
+// Fit fits a cubic smoothing spline (Reinsch 1967, see spline.go) in a
+// chord-length parameter to the contour c, coordinates x(t) and y(t)
+// separately with one smoothing parameter: periodic over the loop when the
+// trailing edge is smooth, open with both ends at the trailing edge when it
+// has a corner (sharp) or two (blunt, whose base points are left out). c must
+// run counter-clockwise with index 0 at or near the trailing edge.
+//
+// The smoothing strength λ follows opts: exact interpolation, the RMS normal
+// residual equal to opts.Noise (bisection on log λ), or the minimum of the
+// generalised cross-validation score (Craven and Wahba, Numer. Math. 31
+// (1979), 377–403) over log λ. After a first fit the parameter of every
+// point is replaced by the arc length of its foot on the curve and the fit
+// is repeated, which keeps dense, noisy scans from wrinkling the parameter.
+// Each fit costs O(n).
+//
+// Fit returns an error wrapping ErrTooFewPoints for fewer than 8 distinct
+// points, ErrNonFinite for NaN or infinite coordinates and ErrCollinear for
+// points on a line.
+func Fit(c *Contour, opts FitOptions) (*Curve, *FitReport, error) {
+	n := c.Len()
+	if n < splineMinKnots {
+		return nil, nil, fmt.Errorf("geometry: fit: %w: %d point(s), need at least %d", ErrTooFewPoints, n, splineMinKnots)
+	}
+	for i, p := range c.Points {
+		if !p.IsFinite() {
+			return nil, nil, fmt.Errorf("geometry: fit: point %d (%s): %w", i, fitOrigin(c, i), ErrNonFinite)
+		}
+	}
+	if opts.Noise < 0 || math.IsNaN(opts.Noise) || math.IsInf(opts.Noise, 0) {
+		return nil, nil, fmt.Errorf("geometry: fit: noise %g: want 0 or a positive length", opts.Noise)
+	}
+	switch opts.Ends {
+	case FitEndsAuto, FitEndsClosed, FitEndsOpen:
+	default:
+		return nil, nil, fmt.Errorf("geometry: fit: ends %q: want closed or open", opts.Ends)
+	}
+	var perim float64
+	for i := range c.Points {
+		perim += c.Points[i].Dist(c.Points[(i+1)%n])
+	}
+	if a := SignedArea(c.Points); math.Abs(a) <= 1e-9*perim*perim {
+		return nil, nil, fmt.Errorf("geometry: fit: %w", ErrCollinear)
+	}
+	ends := fitDetectEnds(c.Points, opts.Ends)
+
+	// Data in fit order, without coincident neighbours. knot[i] is the data
+	// index of contour point i (−1 for base points).
+	knot := make([]int, n)
+	for i := range knot {
+		knot[i] = -1
+	}
+	var pts []Point
+	for _, ci := range ends.order {
+		p := c.Points[ci]
+		if len(pts) > 0 && p.Dist(pts[len(pts)-1]) <= 1e-12*perim {
+			if knot[ci] < 0 {
+				knot[ci] = len(pts) - 1
+			}
+			continue
+		}
+		if knot[ci] < 0 {
+			knot[ci] = len(pts)
+		}
+		pts = append(pts, p)
+	}
+	if !ends.open && len(pts) > 1 && pts[len(pts)-1].Dist(pts[0]) <= 1e-12*perim {
+		pts = pts[:len(pts)-1]
+	}
+	if len(pts) < splineMinKnots {
+		return nil, nil, fmt.Errorf("geometry: fit: %w: %d distinct point(s), need at least %d", ErrTooFewPoints, len(pts), splineMinKnots)
+	}
+	m := len(pts)
+	ws := make([]float64, m)
+	for i := range ws {
+		ws[i] = 1
+	}
+	if ends.open {
+		ws[0], ws[m-1] = fitEndWeight, fitEndWeight
+	}
+	xs, ys := make([]float64, m), make([]float64, m)
+	for i, p := range pts {
+		xs[i], ys[i] = p.X, p.Y
+	}
+	ts := make([]float64, m)
+	for i := 1; i < m; i++ {
+		ts[i] = ts[i-1] + pts[i].Dist(pts[i-1])
+	}
+	period := 0.0
+	if !ends.open {
+		period = ts[m-1] + pts[m-1].Dist(pts[0])
+	}
+
+	rep := &FitReport{Ends: FitEndsClosed}
+	if ends.open {
+		rep.Ends = FitEndsOpen
+	}
+	switch {
+	case opts.Exact:
+		rep.Method = FitInterpolate
+	case opts.Noise > 0:
+		rep.Method = FitNoise
+	default:
+		rep.Method = FitGCV
+	}
+	baseSet := make(map[int]bool, len(ends.base))
+	for _, i := range ends.base {
+		baseSet[i] = true
+		rep.Base = append(rep.Base, fitOrigin(c, i))
+	}
+	var cv *Curve
+	for round := 0; ; round++ {
+		var err error
+		cv, err = fitPasses(pts, ts, ws, xs, ys, ends.open, period, opts, rep)
+		if err != nil {
+			return nil, nil, err
+		}
+		fitResiduals(c, cv, knot, baseSet, rep)
+		rep.Tolerance = opts.Tolerance
+		if rep.Tolerance == 0 && !opts.Exact {
+			rep.Tolerance = 4 * math.Max(opts.Noise, rep.RMS)
+		}
+		if opts.Exact || rep.Tolerance == 0 || round == fitRobustRounds {
+			break
+		}
+		// Points beyond the tolerance are listed, not moved. Those that are
+		// also gross outliers (beyond fitOutlierSigmas robust standard
+		// deviations) get a tiny weight so that they do not drag the curve
+		// towards them.
+		cut := math.Max(rep.Tolerance, fitOutlierSigmas*fitRobustSigma(rep.Residual))
+		changed := false
+		for i, r := range rep.Residual {
+			if j := knot[i]; j >= 0 && math.Abs(r) > cut && ws[j] > fitOutlierWeight && j > 0 && j < m-1 {
+				ws[j] = fitOutlierWeight
+				changed = true
+			}
+		}
+		if !changed {
+			break
+		}
+	}
+	rep.Beyond = nil
+	if rep.Tolerance > 0 {
+		for i, r := range rep.Residual {
+			if math.Abs(r) > rep.Tolerance {
+				rep.Beyond = append(rep.Beyond, fitOrigin(c, i))
+			}
+		}
+	}
+	seen := map[string]bool{}
+	var ws2 []string
+	for _, w := range rep.Warnings {
+		if !seen[w] {
+			seen[w] = true
+			ws2 = append(ws2, w)
+		}
+	}
+	rep.Warnings = ws2
+	if len(rep.Beyond) > 0 {
+		rep.Warnings = append(rep.Warnings, fmt.Sprintf("%d point(s) farther than %g from the curve (worst %g at %s)", len(rep.Beyond), rep.Tolerance, rep.Max, rep.MaxAt))
+	}
+	return cv, rep, nil
+}
+
+// fitKnotU returns the local parameter of knot j on its piece (0, or the end
+// of the last piece for the last knot of an open curve).
+func fitKnotU(cv *Curve, j int) float64 {
+	if j >= cv.Pieces() {
+		return cv.h(cv.Pieces() - 1)
+	}
+	return 0
+}
+
+// fitSegmentSide returns the signed distance of p from segment a→b,
+// positive to the right of the direction of travel (outside a
+// counter-clockwise loop).
+func fitSegmentSide(p, a, b Point) float64 {
+	d := b.Sub(a)
+	l := d.Norm()
+	if l == 0 {
+		return p.Dist(a)
+	}
+	tt := math.Max(0, math.Min(1, p.Sub(a).Dot(d)/(l*l)))
+	q := a.Add(d.Scale(tt))
+	dist := p.Dist(q)
+	if d.Cross(p.Sub(a)) > 0 {
+		return -dist
+	}
+	return dist
+}
+
+func fitOrigin(c *Contour, i int) Origin {
+	if i < len(c.Origins) {
+		return c.Origins[i]
+	}
+	return Origin{File: fmt.Sprintf("point %d", i+1)}
+}
+
+// fitChooseLambda returns λ for the options: 0 for exact interpolation, the
+// λ whose RMS normal residual equals opts.Noise, or the GCV minimiser.
+//
+// A positive hint (a λ from an earlier fit of nearly the same data) narrows
+// the search to a factor of e³ either side of it when that brackets the
+// answer.
+func fitChooseLambda(p *splineProblem, xs, ys []float64, opts FitOptions, hint float64, rep *FitReport) (float64, error) {
+	if opts.Exact {
+		return 0, nil
+	}
+	n := p.n()
+	var span float64
+	for _, h := range p.hs {
+		span += h
+	}
+	hbar := span / float64(len(p.hs))
+	// λ ≈ ℓ⁴/h̄ for a smoothing length ℓ; search ℓ from 10⁻² h̄ to span/2.
+	lo := math.Log(1e-8 * hbar * hbar * hbar)
+	hi := math.Log(math.Pow(span/2, 4) / hbar)
+	cols := [][]float64{xs, ys}
+	const hintSpan = 3
+	if opts.Noise > 0 {
+		rms := func(ll float64) (float64, error) {
+			f, err := p.fit(math.Exp(ll), cols, false)
+			if err != nil {
+				return 0, err
+			}
+			return fitNormalRMS(p, f, xs, ys), nil
+		}
+		if hint > 0 {
+			a, b := math.Log(hint)-hintSpan, math.Log(hint)+hintSpan
+			ra, errA := rms(a)
+			rb, errB := rms(b)
+			if errA == nil && errB == nil && ra < opts.Noise && rb > opts.Noise {
+				lo, hi = a, b
+			}
+		}
+		// Very strong smoothing of many points is ill-conditioned (the
+		// condition number grows as (ℓ/h)⁴); back off until the system factors.
+		rHi, err := rms(hi)
+		for k := 0; err != nil && k < 60 && hi > lo; k++ {
+			hi -= math.Log(16) // halve the smoothing length
+			rHi, err = rms(hi)
+		}
+		if err != nil {
+			return 0, fmt.Errorf("geometry: fit: %w", err)
+		}
+		if rHi <= opts.Noise {
+			rep.Warnings = append(rep.Warnings, fmt.Sprintf("noise %g exceeds the scatter of the points about the smoothest curve (%g); using the smoothest curve", opts.Noise, rHi))
+			return math.Exp(hi), nil
+		}
+		best, bestDiff := hi, math.Abs(rHi-opts.Noise)
+		for range 60 {
+			mid := (lo + hi) / 2
+			r, err := rms(mid)
+			if err != nil {
+				hi = mid // treat as too smooth
+				continue
+			}
+			if d := math.Abs(r - opts.Noise); d < bestDiff {
+				best, bestDiff = mid, d
+			}
+			if d := math.Abs(r - opts.Noise); d <= 1e-3*opts.Noise {
+				break
+			}
+			if r < opts.Noise {
+				lo = mid
+			} else {
+				hi = mid
+			}
+			if hi-lo < 1e-6 {
+				break
+			}
+		}
+		return math.Exp(best), nil
+	}
+	gcv := func(ll float64) float64 {
+		f, err := p.fit(math.Exp(ll), cols, true)
+		if err != nil {
+			return math.Inf(1)
+		}
+		var ss float64
+		for i := 0; i < n; i++ {
+			dx, dy := xs[i]-f.gs[0][i], ys[i]-f.gs[1][i]
+			ss += p.ws[i] * (dx*dx + dy*dy)
+		}
+		den := 1 - f.trace/float64(n)
+		if !(den > 0) {
+			return math.Inf(1)
+		}
+		return ss / float64(n) / (den * den)
+	}
+	grid := 40
+	if hint > 0 {
+		lo, hi, grid = math.Log(hint)-hintSpan, math.Log(hint)+hintSpan, 12
+	}
+	best, bestV := 0, math.Inf(1)
+	vs := make([]float64, grid+1)
+	for k := 0; k <= grid; k++ {
+		vs[k] = gcv(lo + (hi-lo)*float64(k)/float64(grid))
+		if vs[k] < bestV {
+			best, bestV = k, vs[k]
+		}
+	}
+	if math.IsInf(bestV, 1) {
+		return 0, fmt.Errorf("geometry: fit: cross-validation failed for every smoothing strength")
+	}
+	a := lo + (hi-lo)*float64(max(best-1, 0))/float64(grid)
+	b := lo + (hi-lo)*float64(min(best+1, grid))/float64(grid)
+	ll := fitGolden(gcv, a, b, 40)
+	if best == 0 && hint == 0 {
+		rep.Warnings = append(rep.Warnings, "cross-validation chose the weakest smoothing tried: the points look noise-free; consider noise 0")
+	}
+	return math.Exp(ll), nil
+}
+
+// fitGolden returns the minimiser of f on [a, b] by golden-section search.
+func fitGolden(f func(float64) float64, a, b float64, iters int) float64 {
+	const g = 0.6180339887498949
+	c, d := b-g*(b-a), a+g*(b-a)
+	fc, fd := f(c), f(d)
+	for range iters {
+		if fc < fd {
+			b, d, fd = d, c, fc
+			c = b - g*(b-a)
+			fc = f(c)
+		} else {
+			a, c, fc = c, d, fd
+			d = a + g*(b-a)
+			fd = f(d)
+		}
+	}
+	return (a + b) / 2
+}
+
+// fitNormalRMS returns the RMS of the residuals projected on the curve
+// normal at each knot, a cheap stand-in for the distance to the curve; each
+// point counts with its weight capped at 1, so down-weighted outliers drop
+// out.
+func fitNormalRMS(p *splineProblem, f *splineFit, xs, ys []float64) float64 {
+	n := p.n()
+	px := p.pieces(f.gs[0], f.gams[0])
+	py := p.pieces(f.gs[1], f.gams[1])
+	var ss, sw float64
+	for i := 0; i < n; i++ {
+		var dx, dy float64
+		if i < len(px) {
+			dx, dy = px[i][1], py[i][1]
+		} else {
+			j := len(px) - 1
+			h := p.hs[j]
+			_, dx, _ = curvePoly(px[j], h)
+			_, dy, _ = curvePoly(py[j], h)
+		}
+		l := math.Hypot(dx, dy)
+		if l == 0 {
+			continue
+		}
+		r := ((xs[i]-f.gs[0][i])*dy - (ys[i]-f.gs[1][i])*dx) / l
+		w := math.Min(p.ws[i], 1)
+		ss += w * r * r
+		sw += w
+	}
+	return math.Sqrt(ss / sw)
+}
+
+// fitRobustRounds is how many times the fit is repeated with the points
+// beyond the tolerance down-weighted to fitOutlierWeight.
+const (
+	fitMinStep       = 0.05 // least ratio of a reparametrised step to its chord-length step
+	fitRobustRounds  = 2
+	fitOutlierWeight = 1e-4
+	fitOutlierSigmas = 6
+)
+
+// fitRobustSigma returns 1.4826 times the median absolute residual, a
+// standard deviation that outliers do not inflate.
+func fitRobustSigma(rs []float64) float64 {
+	a := make([]float64, len(rs))
+	for i, r := range rs {
+		a[i] = math.Abs(r)
+	}
+	slices.Sort(a)
+	return 1.4826 * a[len(a)/2]
+}
+
+// fitPasses fits twice: in the chord-length parameter ts, then in the arc
+// length of each point's foot on the first curve (unless that would not
+// increase strictly). It records λ and tr H in rep.
+func fitPasses(pts []Point, ts, ws, xs, ys []float64, open bool, period float64, opts FitOptions, rep *FitReport) (*Curve, error) {
+	m := len(pts)
+	var cv *Curve
+	hint := rep.Lambda
+	for pass := 0; pass < 2; pass++ {
+		prob := splineNewProblem(ts, ws, !open, period)
+		lambda, err := fitChooseLambda(prob, xs, ys, opts, hint, rep)
+		if err != nil {
+			return nil, err
+		}
+		f, err := prob.fit(lambda, [][]float64{xs, ys}, true)
+		if err != nil {
+			return nil, fmt.Errorf("geometry: fit: %w", err)
+		}
+		rep.Lambda, rep.EffectiveParams = lambda, f.trace
+		hint = lambda
+		cv = curveFromFit(prob, f, !open)
+		if pass == 1 || lambda == 0 {
+			break
+		}
+		L := cv.Length()
+		nts := make([]float64, m)
+		var s0 float64
+		for i, p := range pts {
+			s, _ := cv.residual(p, min(i, cv.Pieces()-1), fitKnotU(cv, i))
+			if !open {
+				if i == 0 {
+					s0 = s
+				}
+				s -= s0
+				if s < 0 {
+					s += L
+				}
+				if i == 0 {
+					s = 0
+				}
+			}
+			if i > 0 {
+				// Feet of dense, noisy points can crowd or swap; keep every
+				// step at least a twentieth of its chord-length step so the
+				// system stays well conditioned.
+				s = math.Max(s, nts[i-1]+fitMinStep*(ts[i]-ts[i-1]))
+			}
+			nts[i] = s
+		}
+		if !open {
+			closing := period - (ts[m-1] - ts[0])
+			if L-nts[m-1] < fitMinStep*closing {
+				return cv, nil
+			}
+			period = L
+		}
+		ts = nts
+	}
+	return cv, nil
+}
+
+// fitResiduals fills S, Residual, RMS, Max and MaxAt of rep for every
+// contour point.
+func fitResiduals(c *Contour, cv *Curve, knot []int, base map[int]bool, rep *FitReport) {
+	n := c.Len()
+	rep.S = make([]float64, n)
+	rep.Residual = make([]float64, n)
+	rep.Max, rep.MaxAt = 0, Origin{}
+	var sum2 float64
+	for i, p := range c.Points {
+		if base[i] {
+			a, b := cv.End(), cv.Start()
+			rep.Residual[i] = fitSegmentSide(p, a, b)
+			if p.Dist(a) <= p.Dist(b) {
+				rep.S[i] = cv.Length()
+			}
+		} else {
+			j := knot[i]
+			rep.S[i], rep.Residual[i] = cv.residual(p, min(j, cv.Pieces()-1), fitKnotU(cv, j))
+		}
+		r := rep.Residual[i]
+		sum2 += r * r
+		if math.Abs(r) > rep.Max {
+			rep.Max = math.Abs(r)
+			rep.MaxAt = fitOrigin(c, i)
+		}
+	}
+	rep.RMS = math.Sqrt(sum2 / float64(n))
+}

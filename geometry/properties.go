@@ -1,0 +1,482 @@
+package geometry
+
+import (
+	"errors"
+	"fmt"
+	"math"
+)
+
+// Thickness and camber modes (PropertyOptions).
+const (
+	ThicknessChord  = "chord"     // perpendicular to the chord line: yᵤ(x) − yₗ(x)
+	ThicknessCamber = "camber"    // along the normal to the mean camber line
+	CamberMean      = "mean"      // mean of the surfaces at equal x
+	CamberInscribed = "inscribed" // centres of circles inscribed between the surfaces
+)
+
+// PropertyOptions controls ComputeProperties. The zero value measures
+// thickness perpendicular to the chord line and the camber line as the mean
+// of the surfaces at equal x, on 200 cosine-spaced stations.
+type PropertyOptions struct {
+	Thickness string // ThicknessChord (default, "") or ThicknessCamber
+	Camber    string // CamberMean (default, "") or CamberInscribed
+	Stations  int    // chord stations for the camber line; 0 means 200
+}
+
+// SectionProperties holds the document properties of a normalised section
+// and the extra figures behind them. All lengths are chord units.
+type SectionProperties struct {
+	Properties
+	ThicknessMode, CamberMode string
+	TEThickness               float64 // distance between the trailing-edge ends
+	LECenter                  Point   // centre of the leading-edge circle
+	// Imin and Imax are the principal second moments about the centroid;
+	// PrincipalDeg is the angle (degrees, counter-clockwise from +x) of the
+	// axis about which the moment is Imin (the axis closest to the chord
+	// line for a slender section).
+	Imin, Imax, PrincipalDeg float64
+}
+
+// CamberLine is the camber line of a section with the thickness at each
+// station, in chord units. X holds the chord stations; Y the camber; for
+// CamberInscribed, (X, Y) are the centres of the inscribed circles and
+// Thickness their diameters.
+type CamberLine struct {
+	Mode      string
+	X, Y      []float64
+	Thickness []float64
+}
+
+// ErrNotNormalized means a path given to ComputeProperties is not a
+// normalised section.
+var ErrNotNormalized = errors.New("path is not a normalised section")
+
+// propCurve returns p as a *Curve: p itself, or an interpolating spline
+// through 4000 points equally spaced in arc length.
+func propCurve(p Path) *Curve {
+	if c, ok := p.(*Curve); ok {
+		return c
+	}
+	const n = 4000
+	L := p.Length()
+	pts := make([]Point, n+1)
+	for k := range pts {
+		pts[k] = p.At(L * float64(k) / n)
+	}
+	c := curveInterpolate(pts, false)
+	c.closed = pts[0].Dist(pts[n]) <= 1e-12*L
+	return c
+}
+
+// propGreen holds ∮ integrals of Green's theorem over the outline.
+type propGreen struct {
+	a, sx, sy, ixx, iyy, ixy float64 // ∫∫ 1, x, y, y², x², xy dA
+}
+
+// propIntegrals integrates over every piece of c by Gauss–Legendre
+// quadrature (exact for cubic pieces) and over the straight closing segment
+// from the end back to the start:
+//
+//	A = ½∮(x dy − y dx),  ∫∫x dA = ∮ x²/2 dy,  ∫∫y dA = −∮ y²/2 dx,
+//	∫∫y² dA = −∮ y³/3 dx, ∫∫x² dA = ∮ x³/3 dy, ∫∫xy dA = ∮ x²y/2 dy.
+func propIntegrals(c *Curve) propGreen {
+	gl := curveGL()
+	var g propGreen
+	add := func(x, y, dx, dy, w float64) {
+		g.a += w * (x*dy - y*dx) / 2
+		g.sx += w * x * x * dy / 2
+		g.sy -= w * y * y * dx / 2
+		g.ixx -= w * y * y * y * dx / 3
+		g.iyy += w * x * x * x * dy / 3
+		g.ixy += w * x * x * y * dy / 2
+	}
+	for i := 0; i < c.Pieces(); i++ {
+		h := c.h(i)
+		for k, t := range gl[0] {
+			x, dx, _ := curvePoly(c.xs[i], t*h)
+			y, dy, _ := curvePoly(c.ys[i], t*h)
+			add(x, y, dx, dy, gl[1][k]*h)
+		}
+	}
+	p, q := c.End(), c.Start()
+	if d := q.Sub(p); d.Norm() > 0 {
+		for k, t := range gl[0] {
+			r := p.Add(d.Scale(t))
+			add(r.X, r.Y, d.X, d.Y, gl[1][k])
+		}
+	}
+	return g
+}
+
+// propCentroid returns the centroid of the area enclosed by c (closed by a
+// straight segment if open).
+func propCentroid(c *Curve) (float64, float64) {
+	g := propIntegrals(c)
+	return g.sx / g.a, g.sy / g.a
+}
+
+// propSide is one surface of a curve, from parameter position (i0, u0) to
+// (i1, u1) (pieces in order; i0 ≤ i1).
+type propSide struct {
+	c      *Curve
+	i0, i1 int
+	u0, u1 float64
+}
+
+// propSides splits c at arc length sLE into the upper side (start to sLE)
+// and the lower side (sLE to the end).
+func propSides(c *Curve, sLE float64) (upper, lower propSide) {
+	i, u := c.locate(sLE)
+	last := c.Pieces() - 1
+	return propSide{c, 0, i, 0, u}, propSide{c, i, last, u, c.h(last)}
+}
+
+// bounds returns the local parameter range of piece i on the side.
+func (ps propSide) bounds(i int) (float64, float64) {
+	a, b := 0.0, ps.c.h(i)
+	if i == ps.i0 {
+		a = ps.u0
+	}
+	if i == ps.i1 {
+		b = ps.u1
+	}
+	return a, b
+}
+
+// cross finds where g changes sign along the side, taking it to change sign
+// once: binary search over the pieces, then bisection in the piece. It
+// returns the piece, local parameter and point, and false when g has the
+// same sign at both ends.
+func (ps propSide) cross(g func(Point) float64) (int, float64, Point, bool) {
+	c := ps.c
+	at := func(i int, u float64) Point { p, _, _ := c.eval(i, u); return p }
+	a0, _ := ps.bounds(ps.i0)
+	_, b1 := ps.bounds(ps.i1)
+	ga, gb := g(at(ps.i0, a0)), g(at(ps.i1, b1))
+	if (ga > 0) == (gb > 0) {
+		return 0, 0, Point{}, false
+	}
+	lo, hi := ps.i0, ps.i1 // g changes sign within pieces lo..hi
+	for hi > lo {
+		mid := (lo + hi + 1) / 2
+		a, _ := ps.bounds(mid)
+		if (g(at(mid, a)) > 0) == (ga > 0) {
+			lo = mid
+		} else {
+			hi = mid - 1
+		}
+	}
+	a, b := ps.bounds(lo)
+	fa := g(at(lo, a))
+	for range 60 {
+		m := (a + b) / 2
+		if (g(at(lo, m)) > 0) == (fa > 0) {
+			a = m
+		} else {
+			b = m
+		}
+	}
+	u := (a + b) / 2
+	return lo, u, at(lo, u), true
+}
+
+// atX returns the point of the side at chord station x.
+func (ps propSide) atX(x float64) (int, float64, Point, bool) {
+	return ps.cross(func(p Point) float64 { return p.X - x })
+}
+
+// ComputeProperties returns the geometric properties of the normalised
+// section p (chord units, package node order, leading edge at arc length
+// sLE) and its camber line.
+//
+// Thickness is yᵤ(x) − yₗ(x), perpendicular to the chord line, or in
+// ThicknessCamber mode the distance between the surfaces along the normal to
+// the mean camber line; camber is the mean of the surfaces at equal x, or in
+// CamberInscribed mode the centre line of the circles inscribed between the
+// surfaces (blade sections). Both maxima are refined by golden-section
+// search between stations. The leading-edge radius is that of the circle
+// fitted by least squares (geometric distance) to the nose within
+// ±propLEArc (0.15) osculating radii of arc of the leading edge. The trailing-edge angle
+// is the angle between the surface tangents at the trailing edge. Area,
+// centroid and second moments about the centroid (Ixx = ∫∫(y−ȳ)² dA,
+// Iyy = ∫∫(x−x̄)² dA, Ixy = ∫∫(x−x̄)(y−ȳ) dA) come from Green's theorem on
+// the curve, with Gauss–Legendre quadrature per piece (gonum quad); an open
+// (blunt) section is closed by its straight base for these and for the
+// perimeter.
+//
+// It returns an error wrapping ErrNotNormalized if sLE is not inside the
+// path or the surfaces do not span the chord.
+func ComputeProperties(p Path, sLE float64, opts PropertyOptions) (*SectionProperties, *CamberLine, error) {
+	switch opts.Thickness {
+	case "":
+		opts.Thickness = ThicknessChord
+	case ThicknessChord, ThicknessCamber:
+	default:
+		return nil, nil, fmt.Errorf("geometry: thickness mode %q: want chord or camber", opts.Thickness)
+	}
+	switch opts.Camber {
+	case "":
+		opts.Camber = CamberMean
+	case CamberMean, CamberInscribed:
+	default:
+		return nil, nil, fmt.Errorf("geometry: camber mode %q: want mean or inscribed", opts.Camber)
+	}
+	if opts.Stations == 0 {
+		opts.Stations = 200
+	}
+	if opts.Stations < 10 {
+		return nil, nil, fmt.Errorf("geometry: %d camber stations: want at least 10", opts.Stations)
+	}
+	c := propCurve(p)
+	L := c.Length()
+	if !(sLE > 0 && sLE < L) {
+		return nil, nil, fmt.Errorf("geometry: %w: leading edge at arc length %g outside (0, %g)", ErrNotNormalized, sLE, L)
+	}
+	xEnd := math.Min(c.Start().X, c.End().X)
+	if !(xEnd > 0.5) || c.At(sLE).Norm() > 1e-3 {
+		return nil, nil, fmt.Errorf("geometry: %w: surfaces end at x = %.4g, leading edge at (%.4g, %.4g)", ErrNotNormalized, xEnd, c.At(sLE).X, c.At(sLE).Y)
+	}
+	sp := &SectionProperties{ThicknessMode: opts.Thickness, CamberMode: opts.Camber}
+	up, lo := propSides(c, sLE)
+	yu := func(x float64) float64 { _, _, p, _ := up.atX(x); return p.Y }
+	yl := func(x float64) float64 { _, _, p, _ := lo.atX(x); return p.Y }
+	camber := func(x float64) float64 { return (yu(x) + yl(x)) / 2 }
+	st := make([]float64, opts.Stations+1)
+	for k := range st {
+		st[k] = xEnd * (1 - math.Cos(math.Pi*float64(k)/float64(opts.Stations))) / 2
+	}
+	cl := &CamberLine{Mode: opts.Camber}
+
+	// Thickness.
+	var thick func(x float64) float64
+	if opts.Thickness == ThicknessChord {
+		thick = func(x float64) float64 { return yu(x) - yl(x) }
+	} else {
+		thick = func(x float64) float64 {
+			const dx = 1e-4
+			xa, xb := math.Max(0, x-dx), math.Min(xEnd, x+dx)
+			slope := (camber(xb) - camber(xa)) / (xb - xa)
+			m := Point{x, camber(x)}
+			t := Point{1, slope}.Scale(1 / math.Hypot(1, slope))
+			along := func(p Point) float64 { return p.Sub(m).Dot(t) }
+			_, _, pu, ok1 := up.cross(along)
+			_, _, pl, ok2 := lo.cross(along)
+			if !ok1 || !ok2 {
+				return 0 // the normal misses a surface
+			}
+			return pu.Dist(pl)
+		}
+	}
+	sp.Thickness, sp.ThicknessAt = propMax(thick, st[1:len(st)-1])
+
+	// Camber.
+	if opts.Camber == CamberMean {
+		for _, x := range st {
+			cl.X = append(cl.X, x)
+			cl.Y = append(cl.Y, camber(x))
+			cl.Thickness = append(cl.Thickness, thick(x))
+		}
+		abs := func(x float64) float64 { return math.Abs(camber(x)) }
+		_, at := propMax(abs, st[1:len(st)-1])
+		at = propVertex(abs, at, math.Min(propCamberWindow, math.Min(at, xEnd-at)))
+		sp.Camber, sp.CamberAt = camber(at), at
+	} else {
+		best := -1
+		for _, x := range st[1 : len(st)-1] {
+			if x < 0.005 || x > xEnd-0.005 {
+				continue
+			}
+			m, d := propInscribed(c, up, lo, Point{x, camber(x)}, x)
+			cl.X = append(cl.X, m.X)
+			cl.Y = append(cl.Y, m.Y)
+			cl.Thickness = append(cl.Thickness, d)
+			if best < 0 || math.Abs(m.Y) > math.Abs(cl.Y[best]) {
+				best = len(cl.Y) - 1
+			}
+		}
+		if best >= 0 {
+			sp.Camber, sp.CamberAt = cl.Y[best], cl.X[best]
+		}
+	}
+
+	// Leading-edge radius.
+	k := c.Curvature(sLE)
+	if k > 0 {
+		r0 := 1 / k
+		center := c.At(sLE).Sub(c.Normal(sLE).Scale(r0))
+		var pts []Point
+		for j := -20; j <= 20; j++ {
+			pts = append(pts, c.At(sLE+propLEArc*r0*float64(j)/20))
+		}
+		sp.LECenter, sp.LERadius = propCircle(pts, center, r0)
+	}
+
+	// Trailing edge.
+	sp.TEThickness = c.Start().Dist(c.End())
+	tu, tl := c.Tangent(0), c.Tangent(L).Scale(-1)
+	sp.TEAngleDeg = math.Acos(math.Max(-1, math.Min(1, tu.Dot(tl)))) * 180 / math.Pi
+
+	// Area and moments.
+	g := propIntegrals(c)
+	if !(g.a > 0) {
+		return nil, nil, fmt.Errorf("geometry: %w: enclosed area %g is not positive (not counter-clockwise?)", ErrNotNormalized, g.a)
+	}
+	sp.Area = g.a
+	cx, cy := g.sx/g.a, g.sy/g.a
+	sp.Centroid = [2]float64{cx, cy}
+	sp.Ixx = g.ixx - g.a*cy*cy
+	sp.Iyy = g.iyy - g.a*cx*cx
+	sp.Ixy = g.ixy - g.a*cx*cy
+	mean, half := (sp.Ixx+sp.Iyy)/2, (sp.Ixx-sp.Iyy)/2
+	r := math.Hypot(half, sp.Ixy)
+	sp.Imin, sp.Imax = mean-r, mean+r
+	sp.PrincipalDeg = 0.5 * math.Atan2(2*sp.Ixy, sp.Iyy-sp.Ixx) * 180 / math.Pi
+	sp.Perimeter = L + sp.TEThickness
+	return sp, cl, nil
+}
+
+// propMax returns the maximum of f and where it is: the best of the
+// stations, refined by golden-section search between its neighbours.
+func propMax(f func(float64) float64, st []float64) (float64, float64) {
+	best := 0
+	vals := make([]float64, len(st))
+	for k, x := range st {
+		vals[k] = f(x)
+		if vals[k] > vals[best] {
+			best = k
+		}
+	}
+	a, b := st[max(best-1, 0)], st[min(best+1, len(st)-1)]
+	x := fitGolden(func(x float64) float64 { return -f(x) }, a, b, 50)
+	if v := f(x); v >= vals[best] {
+		return v, x
+	}
+	return vals[best], st[best]
+}
+
+// propInscribed moves the point m0 (between the surfaces at station x) to
+// the centre of the circle touching both surfaces, and returns the centre
+// and the diameter.
+func propInscribed(c *Curve, up, lo propSide, m0 Point, x float64) (Point, float64) {
+	iu, uu, _, _ := up.atX(x)
+	il, ul, _, _ := lo.atX(x)
+	m := m0
+	var du, dl float64
+	for range 50 {
+		var pu, pl Point
+		iu, uu, du = c.projectNear(m, iu, uu)
+		il, ul, dl = c.projectNear(m, il, ul)
+		pu, _, _ = c.eval(iu, uu)
+		pl, _, _ = c.eval(il, ul)
+		e := pu.Sub(pl)
+		n := e.Norm()
+		if n == 0 {
+			break
+		}
+		step := 0.5 * (du - dl)
+		m = m.Add(e.Scale(step / n))
+		if math.Abs(step) < 1e-13 {
+			break
+		}
+	}
+	return m, du + dl
+}
+
+// propCircle fits a circle to pts by Gauss–Newton on the geometric
+// distances, from the given centre and radius.
+func propCircle(pts []Point, center Point, r float64) (Point, float64) {
+	for range 30 {
+		// Unknowns: cx, cy, r. Residual dᵢ = |pᵢ − c| − r.
+		var a [3][3]float64
+		var b [3]float64
+		for _, p := range pts {
+			v := p.Sub(center)
+			d := v.Norm()
+			if d == 0 {
+				continue
+			}
+			j := [3]float64{-v.X / d, -v.Y / d, -1}
+			res := d - r
+			for x := 0; x < 3; x++ {
+				b[x] -= j[x] * res
+				for y := 0; y < 3; y++ {
+					a[x][y] += j[x] * j[y]
+				}
+			}
+		}
+		dx, ok := propSolve3(a, b)
+		if !ok {
+			break
+		}
+		center = center.Add(Point{dx[0], dx[1]})
+		r += dx[2]
+		if math.Abs(dx[0])+math.Abs(dx[1])+math.Abs(dx[2]) < 1e-14 {
+			break
+		}
+	}
+	return center, r
+}
+
+// propSolve3 solves a 3×3 system by Cramer's rule.
+func propSolve3(a [3][3]float64, b [3]float64) ([3]float64, bool) {
+	det := func(m [3][3]float64) float64 {
+		return m[0][0]*(m[1][1]*m[2][2]-m[1][2]*m[2][1]) - m[0][1]*(m[1][0]*m[2][2]-m[1][2]*m[2][0]) + m[0][2]*(m[1][0]*m[2][1]-m[1][1]*m[2][0])
+	}
+	d := det(a)
+	if math.Abs(d) < 1e-300 {
+		return [3]float64{}, false
+	}
+	var x [3]float64
+	for k := 0; k < 3; k++ {
+		m := a
+		for r := 0; r < 3; r++ {
+			m[r][k] = b[r]
+		}
+		x[k] = det(m) / d
+	}
+	return x, true
+}
+
+// propLEArc is the half-width of the nose arc, in osculating radii at the
+// leading edge, to which the leading-edge circle is fitted.
+const propLEArc = 0.15
+
+// propCamberWindow is the half-width (chord units) of the window over which
+// the position of maximum camber is taken as the vertex of a least-squares
+// parabola. The camber line is flat near its maximum, so the plain maximum
+// wanders with measurement noise; the parabola steadies it at the cost of
+// a bias towards the flatter side of an asymmetric peak (+0.008 chord for
+// the NACA 2412, whose camber parabolas differ fore and aft).
+const propCamberWindow = 0.04
+
+// propVertex returns the vertex of the least-squares parabola through f at
+// 41 points within x0 ± w, or x0 if the parabola has no maximum there.
+func propVertex(f func(float64) float64, x0, w float64) float64 {
+	if !(w > 0) {
+		return x0
+	}
+	var s [5]float64
+	var r [3]float64
+	for k := -20; k <= 20; k++ {
+		u := w * float64(k) / 20
+		y := f(x0 + u)
+		p := 1.0
+		for j := 0; j < 5; j++ {
+			s[j] += p
+			if j < 3 {
+				r[j] += p * y
+			}
+			p *= u
+		}
+	}
+	a := [3][3]float64{{s[0], s[1], s[2]}, {s[1], s[2], s[3]}, {s[2], s[3], s[4]}}
+	c, ok := propSolve3(a, r)
+	if !ok || !(c[2] < 0) {
+		return x0
+	}
+	u := -c[1] / (2 * c[2])
+	if math.Abs(u) > w {
+		return x0
+	}
+	return x0 + u
+}
