@@ -196,7 +196,7 @@ func EncodeSection(s *Section) ([]byte, error) {
 	}
 	for k, p := range c.Nodes {
 		if !p.IsFinite() {
-			return nil, fmt.Errorf("geometry: write section: node %d is not finite (%g, %g)", k, p.X, p.Y)
+			return nil, fmt.Errorf("geometry: write section: node %d (%g, %g): %w", k, p.X, p.Y, ErrNonFinite)
 		}
 	}
 	b, err := json.MarshalIndent(&c, "", "  ")
