@@ -1,0 +1,344 @@
+package geometry
+
+import (
+	"math"
+	"slices"
+)
+
+// outlierK is the number of loop neighbours on each side of a point that its
+// local fit uses.
+const outlierK = 3
+
+// outlierFloor is the least robust scale, as a fraction of the median point
+// spacing of the loop. It keeps noise-free input (exact coordinates, whose
+// residuals are only the local fits' own approximation error) from having
+// every slightly curved stretch called an outlier.
+const outlierFloor = 0.02
+
+// outlierRounds bounds the detect-and-drop rounds of outlierDrop.
+const outlierRounds = 10
+
+// outlierHit is one point found to be an outlier or a stray.
+type outlierHit struct {
+	idx          int32
+	reason       string
+	dist, sigmas float64
+	kept         bool
+}
+
+// outlierResiduals returns, for each position of the loop seq, the residual
+// of its point against local fits of its outlierK neighbours on each side
+// (the point itself excluded): the least of
+//
+//   - the normal distance to a parametric quadratic (x(s), y(s)) fitted by
+//     least squares to both sides, s the chord length along the neighbours,
+//     evaluated where the point projects between its two nearest
+//     neighbours;
+//   - the distances to the straight lines fitted to either side alone.
+//
+// The one-sided fits let a corner (a sharp trailing edge, the corners of a
+// blunt one) be predicted from the side it continues; a point off the
+// surface is far from all three. The work runs on every CPU.
+func outlierResiduals(pts []Point, seq []int32) []float64 {
+	n := len(seq)
+	r := make([]float64, n)
+	k := min(outlierK, (n-1)/2)
+	cleanParallel(n, func(a, b int) {
+		for i := a; i < b; i++ {
+			r[i] = outlierFit(pts, seq, i, k)
+		}
+	})
+	return r
+}
+
+// outlierFit returns the residual of position i of seq, described at
+// outlierResiduals.
+func outlierFit(pts []Point, seq []int32, i, k int) float64 {
+	n := len(seq)
+	at := func(j int) Point { return pts[seq[((i+j)%n+n)%n]] }
+	p0 := at(0)
+	pm, pp := at(-1), at(1)
+	gap := pp.Sub(pm)
+	g := gap.Norm()
+	best := math.Inf(1)
+	// Two-sided parametric quadratic.
+	if g > 0 {
+		var ss [2 * outlierK]float64
+		var ps [2 * outlierK]Point
+		m := 0
+		s := -g / 2
+		for j := 1; j <= k; j++ {
+			if j > 1 {
+				s -= at(-j + 1).Dist(at(-j))
+			}
+			ss[m], ps[m] = s, at(-j)
+			m++
+		}
+		s = g / 2
+		for j := 1; j <= k; j++ {
+			if j > 1 {
+				s += at(j - 1).Dist(at(j))
+			}
+			ss[m], ps[m] = s, at(j)
+			m++
+		}
+		span := max(-ss[k-1], ss[m-1])
+		t := p0.Sub(pm).Dot(gap) / (g * g)
+		u := (-g/2 + min(1, max(0, t))*g) / span
+		if c, d, ok := outlierQuadratic(ss[:m], ps[:m], span, u); ok {
+			if l := d.Norm(); l > 0 {
+				best = math.Abs(p0.Sub(c).Cross(d.Scale(1 / l)))
+			} else {
+				best = p0.Dist(c)
+			}
+		}
+	}
+	// One-sided lines.
+	for _, side := range [2]int{-1, 1} {
+		var c Point
+		for j := 1; j <= k; j++ {
+			c = c.Add(at(side * j))
+		}
+		c = c.Scale(1 / float64(k))
+		var sxx, sxy, syy float64
+		for j := 1; j <= k; j++ {
+			d := at(side * j).Sub(c)
+			sxx += d.X * d.X
+			sxy += d.X * d.Y
+			syy += d.Y * d.Y
+		}
+		if sxx+syy == 0 {
+			continue
+		}
+		t := cleanPrincipal(sxx, sxy, syy)
+		best = min(best, math.Abs(p0.Sub(c).Cross(t)))
+	}
+	return best
+}
+
+// outlierSagitta returns how far a smooth curve may bulge from the chord
+// between the neighbours i−1 and i+1 of position i of seq, given how much
+// it turns from the step i−2 → i−1 to the step i+1 → i+2: a circular arc
+// over a chord g that turns by τ has sagitta g/2 · tan(τ/4). Where the
+// points are sparse for the curvature (a nose sampled more coarsely than its
+// radius) a good point can be that far from any local fit; a point off a
+// gently curved surface cannot hide behind it.
+func outlierSagitta(pts []Point, seq []int32, i int) float64 {
+	n := len(seq)
+	at := func(j int) Point { return pts[seq[((i+j)%n+n)%n]] }
+	a, b := at(-1).Sub(at(-2)), at(2).Sub(at(1))
+	g := at(1).Dist(at(-1))
+	la, lb := a.Norm(), b.Norm()
+	if la == 0 || lb == 0 {
+		return 0
+	}
+	tau := math.Atan2(math.Abs(a.Cross(b)), a.Dot(b))
+	return g / 2 * math.Tan(tau/4)
+}
+
+// outlierQuadratic fits x(u) and y(u), u = s/span, by least-squares
+// quadratics to the points ps at parameters ss and returns the point and the
+// derivative at u. ok is false when the normal equations are singular.
+func outlierQuadratic(ss []float64, ps []Point, span, u float64) (c, d Point, ok bool) {
+	var a [3][3]float64
+	var bx, by [3]float64
+	for j, s := range ss {
+		v := s / span
+		b := [3]float64{1, v, v * v}
+		for r := range 3 {
+			for q := range 3 {
+				a[r][q] += b[r] * b[q]
+			}
+			bx[r] += b[r] * ps[j].X
+			by[r] += b[r] * ps[j].Y
+		}
+	}
+	det := a[0][0]*(a[1][1]*a[2][2]-a[1][2]*a[2][1]) -
+		a[0][1]*(a[1][0]*a[2][2]-a[1][2]*a[2][0]) +
+		a[0][2]*(a[1][0]*a[2][1]-a[1][1]*a[2][0])
+	if math.Abs(det) < 1e-12 {
+		return c, d, false
+	}
+	solve := func(b [3]float64) [3]float64 {
+		var x [3]float64
+		for col := range 3 {
+			m := a
+			for r := range 3 {
+				m[r][col] = b[r]
+			}
+			x[col] = (m[0][0]*(m[1][1]*m[2][2]-m[1][2]*m[2][1]) -
+				m[0][1]*(m[1][0]*m[2][2]-m[1][2]*m[2][0]) +
+				m[0][2]*(m[1][0]*m[2][1]-m[1][1]*m[2][0])) / det
+		}
+		return x
+	}
+	cx, cy := solve(bx), solve(by)
+	c = Point{cx[0] + cx[1]*u + cx[2]*u*u, cy[0] + cy[1]*u + cy[2]*u*u}
+	d = Point{cx[1] + 2*cx[2]*u, cy[1] + 2*cy[2]*u}
+	return c, d, true
+}
+
+// outlierScale returns the robust scale of residuals r, 1.4826 × their
+// median absolute value (the MAD of a residual centred on the curve, which
+// is σ for Gaussian noise), floored at outlierFloor × the median spacing
+// of seq.
+func outlierScale(pts []Point, seq []int32, r []float64) float64 {
+	abs := slices.Clone(r)
+	s := 1.4826 * cleanMedian(abs)
+	gaps := make([]float64, len(seq))
+	for k := range seq {
+		gaps[k] = pts[seq[k]].Dist(pts[seq[(k+1)%len(seq)]])
+	}
+	return max(s, outlierFloor*cleanMedian(gaps))
+}
+
+// outlierDrop finds the gross outliers of the loop seq. Residuals come from
+// outlierResiduals and the scale from outlierScale, both from the first
+// round. In each round the points beyond sigma·scale that have the largest
+// residual within outlierK positions are taken out (a point next to an
+// outlier has a large residual too, through the outlier in its fit), and the
+// residuals are computed again with the outliers' neighbours joined. The
+// rounds stop when no point is beyond the threshold. A point within the
+// sagitta bound of outlierSagitta is never an outlier. It returns the loop
+// without the outliers (with them, if keep), the scale and the outliers.
+func outlierDrop(pts []Point, seq []int32, sigma float64, keep bool) ([]int32, float64, []outlierHit) {
+	if len(seq) < cleanMinPoints {
+		return seq, 0, nil
+	}
+	r := outlierResiduals(pts, seq)
+	scale := outlierScale(pts, seq, r)
+	thr := sigma * scale
+	work := seq
+	var hits []outlierHit
+	for range outlierRounds {
+		n := len(work)
+		var out []bool
+		for i := range n {
+			if r[i] <= thr || r[i] <= outlierSagitta(pts, work, i) {
+				continue
+			}
+			top := true
+			for j := -outlierK; j <= outlierK && top; j++ {
+				q := ((i+j)%n + n) % n
+				if j != 0 && (r[q] > r[i] || r[q] == r[i] && q < i) {
+					top = false
+				}
+			}
+			if !top {
+				continue
+			}
+			if out == nil {
+				out = make([]bool, n)
+			}
+			out[i] = true
+			hits = append(hits, outlierHit{idx: work[i], reason: "outlier", dist: r[i], sigmas: r[i] / scale, kept: keep})
+		}
+		if out == nil {
+			break
+		}
+		next := make([]int32, 0, n)
+		for i, p := range work {
+			if !out[i] {
+				next = append(next, p)
+			}
+		}
+		work = next
+		if len(work) < cleanMinPoints {
+			break
+		}
+		r = outlierResiduals(pts, work)
+	}
+	if keep {
+		return seq, scale, hits
+	}
+	return work, scale, hits
+}
+
+// outlierPlace deals with the points of rest, which joined no loop. A point
+// none of whose nearest neighbours is on the loop seq is a stray. Otherwise
+// its residual is its distance from the loop's polyline next to its nearest
+// loop neighbour: beyond thr it is an outlier (put in only if keep), and
+// within thr it is put back into the loop where it projects.
+func outlierPlace(pts []Point, seq []int32, rest [][]int32, nb *orderNbrs, thr, scale float64, keep bool) ([]int32, []outlierHit) {
+	if len(rest) == 0 {
+		return seq, nil
+	}
+	n := len(seq)
+	pos := make([]int32, len(pts))
+	for i := range pos {
+		pos[i] = -1
+	}
+	for k, i := range seq {
+		pos[i] = int32(k)
+	}
+	type ins struct {
+		at  int32 // insert after this position
+		t   float64
+		idx int32
+	}
+	var adds []ins
+	var hits []outlierHit
+	for _, ch := range rest {
+		for _, i := range ch {
+			p := pts[i]
+			j := int32(-1)
+			for _, q := range nb.of(i) {
+				if pos[q] >= 0 {
+					j = pos[q]
+					break
+				}
+			}
+			if j < 0 {
+				hits = append(hits, outlierHit{idx: i, reason: "stray"})
+				continue
+			}
+			best, at, bt := math.Inf(1), int32(0), 0.0
+			for _, e := range [2]int32{(j - 1 + int32(n)) % int32(n), j} {
+				a, b := pts[seq[e]], pts[seq[(e+1)%int32(n)]]
+				ab := b.Sub(a)
+				t := 0.0
+				if l2 := ab.Dot(ab); l2 > 0 {
+					t = min(1, max(0, p.Sub(a).Dot(ab)/l2))
+				}
+				if d := p.Dist(a.Add(ab.Scale(t))); d < best {
+					best, at, bt = d, e, t
+				}
+			}
+			if best > thr {
+				sg := 0.0
+				if scale > 0 {
+					sg = best / scale
+				}
+				hits = append(hits, outlierHit{idx: i, reason: "outlier", dist: best, sigmas: sg, kept: keep})
+				if !keep {
+					continue
+				}
+			}
+			adds = append(adds, ins{at, bt, i})
+		}
+	}
+	if len(adds) == 0 {
+		return seq, hits
+	}
+	slices.SortFunc(adds, func(a, b ins) int {
+		switch {
+		case a.at != b.at:
+			return int(a.at - b.at)
+		case a.t < b.t:
+			return -1
+		case a.t > b.t:
+			return 1
+		}
+		return int(a.idx - b.idx)
+	})
+	out := make([]int32, 0, n+len(adds))
+	k := 0
+	for e := range int32(n) {
+		out = append(out, seq[e])
+		for k < len(adds) && adds[k].at == e {
+			out = append(out, adds[k].idx)
+			k++
+		}
+	}
+	return out, hits
+}
