@@ -8,8 +8,9 @@ type mergePair struct {
 
 // mergeClose merges points of pts that lie within tol of an earlier kept
 // point. It returns the input indices of the kept points in increasing order
-// and the merges made. Each point is compared only with the points of its own
-// and the 8 neighbouring cells of a spatial hash with cells of size ≥ tol, so
+// and the merges made. Each point is compared only with the points of the
+// 2×2 cells nearest to it in a spatial hash with cells of size 2·tol (the
+// cells that its tolerance disk can reach), so
 // the cost is O(n log n) (the sort that builds the hash), not O(n²). The
 // lowest input index of a group is kept; a point is merged when it lies
 // within tol of a kept point (not transitively through another merged point).
@@ -23,7 +24,7 @@ func mergeClose(pts []Point, tol float64) (kept []int32, pairs []mergePair) {
 		return kept, nil
 	}
 	lo, hi := cleanBounds(pts)
-	g := cleanNewGrid(pts, nil, tol, lo, hi)
+	g := cleanNewGrid(pts, nil, 2*tol, lo, hi)
 	gone := make([]bool, n)
 	kept = make([]int32, 0, n)
 	tol2 := tol * tol
@@ -33,9 +34,10 @@ func mergeClose(pts []Point, tol float64) (kept []int32, pairs []mergePair) {
 		}
 		kept = append(kept, int32(i))
 		p := pts[i]
-		ix, iy := g.cell(p)
-		for dy := int64(-1); dy <= 1; dy++ {
-			for dx := int64(-1); dx <= 1; dx++ {
+		// The disk of radius tol about p lies in the 2×2 cells nearest to p.
+		ix, iy := g.cell(Point{p.X - tol, p.Y - tol})
+		for dy := int64(0); dy <= 1; dy++ {
+			for dx := int64(0); dx <= 1; dx++ {
 				for _, j := range g.at(ix+dx, iy+dy) {
 					if int(j) <= i || gone[j] {
 						continue

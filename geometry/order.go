@@ -7,6 +7,11 @@ import (
 // orderK is the number of nearest neighbours kept per point.
 const orderK = 12
 
+// orderOccupancy is the number of points per occupied cell orderKNN aims
+// at: for points along a curve, enough that the 3×3 cells about a point
+// usually hold its 12 nearest neighbours.
+const orderOccupancy = 8
+
 // orderMaxRing bounds the ring search of orderKNN, so that an isolated point
 // costs at most (2·orderMaxRing+1)² cell look-ups; such a point keeps the
 // neighbours found so far (perhaps none).
@@ -37,8 +42,8 @@ func orderNeighbours(pts []Point, lo, hi Point) *orderNbrs {
 
 // orderKNN returns, for each point sel[j] (every point when sel is nil), its
 // k nearest neighbours among sel, nearest first, in a len(sel)·k slice padded
-// with −1. The points are hashed into a grid whose cells hold about three
-// points (the cell size is first guessed for points along a curve of length
+// with −1. The points are hashed into a grid whose cells hold about
+// orderOccupancy points (the cell size is first guessed for points along a curve of length
 // twice the bounding-box half-perimeter, then corrected from the observed
 // occupancy), and each query searches rings of cells outwards until no
 // unsearched cell can hold a nearer point. The queries run on every CPU.
@@ -55,15 +60,15 @@ func orderKNN(pts []Point, sel []int32, k int, lo, hi Point) []int32 {
 		return out
 	}
 	w, h := hi.X-lo.X, hi.Y-lo.Y
-	cell := 3 * 2 * (w + h) / float64(n)
+	cell := orderOccupancy * 2 * (w + h) / float64(n)
 	var g *cleanGrid
 	for range 4 {
 		g = cleanNewGrid(pts, sel, cell, lo, hi)
 		occ := float64(n) / float64(len(g.cells))
-		if occ >= 1.5 && occ <= 6 {
+		if occ >= orderOccupancy/2 && occ <= 2*orderOccupancy {
 			break
 		}
-		cell = g.h * min(10, max(0.1, 3/occ))
+		cell = g.h * min(10, max(0.1, orderOccupancy/occ))
 	}
 	query := func(j int) int32 {
 		if sel != nil {
@@ -253,7 +258,7 @@ func orderLink(pts []Point, nb *orderNbrs, g *loopGraph) {
 				if t2 > orderMaxTan2 {
 					continue
 				}
-				cost := d.Norm() * (1 + 4*t2)
+				cost := math.Sqrt(d.Dot(d)) * (1 + 4*t2)
 				if al > 0 && cost < fc {
 					f, fc = q, cost
 				} else if al < 0 && cost < bc {
@@ -281,21 +286,25 @@ func orderTangent(pts []Point, i int32, nbrs []int32) Point {
 	}
 	// Seed: the direction towards one of the nearest neighbours that the
 	// most (nearest) neighbours agree with.
+	var ds [orderK]Point
+	var ls [orderK]float64
+	nbrs = nbrs[:min(len(nbrs), orderK)]
+	for j, q := range nbrs {
+		ds[j] = pts[q].Sub(p)
+		ls[j] = math.Sqrt(ds[j].Dot(ds[j]))
+	}
 	var t Point
 	bestScore := -1.0
-	for _, q := range nbrs[:min(len(nbrs), orderTangentSeed)] {
-		d := pts[q].Sub(p)
-		l := d.Norm()
-		if l == 0 {
+	for j := range min(len(nbrs), orderTangentSeed) {
+		if ls[j] == 0 {
 			continue
 		}
-		u := d.Scale(1 / l)
+		u := ds[j].Scale(1 / ls[j])
 		var score float64
-		for _, r := range nbrs {
-			e := pts[r].Sub(p)
-			a, h := e.Dot(u), e.Cross(u)
-			if h*h <= orderTangentCone*a*a {
-				score += 1 / e.Norm()
+		for r := range nbrs {
+			a, h := ds[r].Dot(u), ds[r].Cross(u)
+			if h*h <= orderTangentCone*a*a && ls[r] > 0 {
+				score += 1 / ls[r]
 			}
 		}
 		if score > bestScore {
@@ -305,17 +314,13 @@ func orderTangent(pts []Point, i int32, nbrs []int32) Point {
 	if bestScore < 0 {
 		return Point{1, 0}
 	}
-	var sxx, sxy, syy float64
 	for range 2 {
-		sxx, sxy, syy = 0, 0, 0
-		for _, q := range nbrs {
-			d := pts[q].Sub(p)
+		var sxx, sxy, syy float64
+		for j := range nbrs {
+			d := ds[j]
 			a, h := d.Dot(t), d.Cross(t)
-			if h*h > orderTangentCone*a*a {
-				continue
-			}
-			l2 := d.Dot(d)
-			if l2 == 0 {
+			l2 := ls[j] * ls[j]
+			if h*h > orderTangentCone*a*a || l2 == 0 {
 				continue
 			}
 			w := 1 / (l2 * (1 + 16*h*h/l2))

@@ -59,7 +59,7 @@ func outlierFit(pts []Point, seq []int32, i, k int) float64 {
 	p0 := at(0)
 	pm, pp := at(-1), at(1)
 	gap := pp.Sub(pm)
-	g := gap.Norm()
+	g := math.Sqrt(gap.Dot(gap))
 	best := math.Inf(1)
 	// Two-sided parametric quadratic.
 	if g > 0 {
@@ -69,7 +69,7 @@ func outlierFit(pts []Point, seq []int32, i, k int) float64 {
 		s := -g / 2
 		for j := 1; j <= k; j++ {
 			if j > 1 {
-				s -= at(-j + 1).Dist(at(-j))
+				s -= cleanDist(at(-j+1), at(-j))
 			}
 			ss[m], ps[m] = s, at(-j)
 			m++
@@ -77,7 +77,7 @@ func outlierFit(pts []Point, seq []int32, i, k int) float64 {
 		s = g / 2
 		for j := 1; j <= k; j++ {
 			if j > 1 {
-				s += at(j - 1).Dist(at(j))
+				s += cleanDist(at(j-1), at(j))
 			}
 			ss[m], ps[m] = s, at(j)
 			m++
@@ -127,7 +127,7 @@ func outlierSagitta(pts []Point, seq []int32, i int) float64 {
 	n := len(seq)
 	at := func(j int) Point { return pts[seq[((i+j)%n+n)%n]] }
 	a, b := at(-1).Sub(at(-2)), at(2).Sub(at(1))
-	g := at(1).Dist(at(-1))
+	g := cleanDist(at(1), at(-1))
 	la, lb := a.Norm(), b.Norm()
 	if la == 0 || lb == 0 {
 		return 0
@@ -187,7 +187,7 @@ func outlierScale(pts []Point, seq []int32, r []float64) float64 {
 	s := 1.4826 * cleanMedian(abs)
 	gaps := make([]float64, len(seq))
 	for k := range seq {
-		gaps[k] = pts[seq[k]].Dist(pts[seq[(k+1)%len(seq)]])
+		gaps[k] = cleanDist(pts[seq[k]], pts[seq[(k+1)%len(seq)]])
 	}
 	return max(s, outlierFloor*cleanMedian(gaps))
 }
