@@ -214,9 +214,10 @@ const orderMaxTan2 = 3
 // same surface. Here, instead:
 //
 //  1. Each point gets a tangent t. The first is the direction towards one of
-//     its 6 nearest neighbours, the one with the most support: the sum of
-//     1/d over those of its 12 nearest neighbours (d their distance) that
-//     lie within 27° of that line. It is refined twice as the principal
+//     its 6 nearest neighbours, the one with the most support: the number
+//     of its 12 nearest neighbours that lie within 27° of that line (a
+//     single point across a thin trailing edge, however near, is outvoted
+//     by the points along the surface). It is refined twice as the principal
 //     direction (second moments about the point itself) of the neighbours
 //     within 27° of the current tangent, each weighted by
 //     1/(d²·(1 + (4·h/d)²)),
@@ -285,7 +286,7 @@ func orderTangent(pts []Point, i int32, nbrs []int32) Point {
 		return Point{1, 0}
 	}
 	// Seed: the direction towards one of the nearest neighbours that the
-	// most (nearest) neighbours agree with.
+	// most neighbours agree with (the nearest such on a tie).
 	var ds [orderK]Point
 	var ls [orderK]float64
 	nbrs = nbrs[:min(len(nbrs), orderK)]
@@ -304,7 +305,7 @@ func orderTangent(pts []Point, i int32, nbrs []int32) Point {
 		for r := range nbrs {
 			a, h := ds[r].Dot(u), ds[r].Cross(u)
 			if h*h <= orderTangentCone*a*a && ls[r] > 0 {
-				score += 1 / ls[r]
+				score++
 			}
 		}
 		if score > bestScore {
