@@ -111,8 +111,9 @@ type CleanReport struct {
 //  5. Orient (provisional; a later step refines the edges): the two points
 //     of the loop farthest apart are the edge candidates; the trailing edge
 //     is the one where the loop is thinner 5% of that distance inwards. The
-//     loop is rotated to start at the trailing-edge point and run
-//     counter-clockwise (positive signed area) in the input frame.
+//     loop is rotated to start at the trailing-edge point (for a blunt edge,
+//     its upper corner) and run counter-clockwise (positive signed area) in
+//     the input frame.
 //
 // Clean returns an error wrapping ErrNonFinite for a NaN or infinite
 // coordinate, ErrTooFewPoints when fewer than 8 points remain, ErrCollinear
@@ -199,6 +200,15 @@ func Clean(c *Cloud, opts CleanOptions) (*Contour, *CleanReport, error) {
 	rep.OrderKept = kept
 	loopJoin(pts, nb, g)
 	loops, rest := g.components(cleanMinPoints)
+	// A loop that encloses nothing (it runs out and back along a line) is
+	// not a section.
+	loops = slices.DeleteFunc(loops, func(l []int32) bool {
+		if math.Abs(loopArea(pts, l)) <= 1e-9*diag*diag {
+			rest = append(rest, l)
+			return true
+		}
+		return false
+	})
 	if len(loops) == 0 {
 		return nil, rep, fmt.Errorf("geometry: clean: %w: %d points form %d open chain(s)", ErrNoLoop, m, len(rest))
 	}
@@ -324,7 +334,10 @@ func cleanPrincipal(sxx, sxy, syy float64) Point {
 // run counter-clockwise. The edge candidates are the two points farthest
 // apart (found by two farthest-point sweeps from the centroid); the trailing
 // edge is the candidate where the loop is thinner at 5% of their distance
-// inwards.
+// inwards. While the first step from the start runs more than 45° off the
+// direction to the leading edge (the start is the lower corner of a blunt
+// trailing edge, or a point on its base), the start moves on, up to 3
+// points, so that the walk starts at the upper corner.
 func cleanOrient(pts []Point, seq []int32) []int32 {
 	var c Point
 	for _, i := range seq {
@@ -353,6 +366,25 @@ func cleanOrient(pts []Point, seq []int32) []int32 {
 	out = append(out, seq[:te]...)
 	if loopArea(pts, out) < 0 {
 		slices.Reverse(out[1:])
+	}
+	// At a blunt trailing edge the farthest point may be the lower corner or
+	// a point of the base; the walk should start at the upper corner, so move
+	// on while the first step runs across the chord.
+	le := pts[seq[b]]
+	if te == b {
+		le = pts[seq[a]]
+	}
+	start := 0
+	for range 3 {
+		p, q := pts[out[start]], pts[out[(start+1)%len(out)]]
+		step, toLE := q.Sub(p), le.Sub(p)
+		if step.Dot(toLE) >= math.Sqrt(0.5)*step.Norm()*toLE.Norm() {
+			break
+		}
+		start++
+	}
+	if start > 0 {
+		out = append(out[start:], out[:start]...)
 	}
 	return out
 }

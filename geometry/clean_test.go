@@ -315,7 +315,10 @@ func TestCleanKeepsCleanInput(t *testing.T) {
 			if nf < 1 || gl > 0 {
 				t.Errorf("neighbours %.4f (want 1), lost %.4f (want 0)", nf, gl)
 			}
-			cleanTestOriented(t, ct, cleanTE(n), 0.01*cleanChord)
+			// The walk starts at the trailing edge: the apex of a sharp one, the
+			// upper corner of a blunt one (within one point spacing).
+			upperTE := n.Upper(1).Scale(cleanChord).Rotate(cleanRot).Add(cleanOff)
+			cleanTestOriented(t, ct, upperTE, loop[0].Dist(loop[1])+1e-9)
 		})
 	}
 }
@@ -533,4 +536,83 @@ func TestCleanErrors(t *testing.T) {
 			t.Errorf("%+v: no error", opts)
 		}
 	}
+}
+
+// Points far from the section, near only each other (a stray scan of the
+// fixture), are dropped as "stray"; the section is unaffected.
+func TestCleanStray(t *testing.T) {
+	n := NACA4{Thickness: 0.12}
+	loop := cleanTestSample(n, cleanChord, cleanRot, cleanOff, cleanCount)
+	rng := rand.New(rand.NewPCG(21, 21))
+	c, _ := cleanTestCloud(rng, [][]Point{loop}, cleanNoise, 0, 0)
+	for k := range 3 {
+		c.Points = append(c.Points, Vec3{X: 2000 + float64(k), Y: 1500})
+		c.Origins = append(c.Origins, Origin{File: "scan.csv", Line: c.Len() + 1})
+	}
+	ct, rep, err := Clean(c, CleanOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(rep.Dropped) != 3 {
+		t.Fatalf("dropped %+v, want the 3 far points", rep.Dropped)
+	}
+	for _, d := range rep.Dropped {
+		if d.Reason != "stray" || d.Origin.Line <= cleanCount || d.Point.X < 1999 {
+			t.Errorf("drop %+v: want a stray far point", d)
+		}
+	}
+	if ct.Len() != cleanCount {
+		t.Errorf("contour has %d points, want %d", ct.Len(), cleanCount)
+	}
+}
+
+// FuzzClean feeds Clean small clouds of arbitrary points: it must never
+// panic, and a contour it returns has at least 8 points, each from a distinct
+// input line, with positive signed area.
+func FuzzClean(f *testing.F) {
+	f.Add(uint64(1), uint8(40), uint8(0))
+	f.Add(uint64(2), uint8(200), uint8(1))
+	f.Add(uint64(3), uint8(9), uint8(2))
+	f.Fuzz(func(t *testing.T, seed uint64, count, kind uint8) {
+		rng := rand.New(rand.NewPCG(seed, 99))
+		var pts []Point
+		switch kind % 3 {
+		case 0: // uniform in a square
+			for range count {
+				pts = append(pts, Point{rng.Float64(), rng.Float64()})
+			}
+		case 1: // a noisy NACA loop with random extras
+			loop := cleanTestSample(NACA4{Camber: 0.04 * rng.Float64(), CamberPos: 0.4, Thickness: 0.02 + 0.2*rng.Float64(), SharpTE: rng.IntN(2) == 0}, 1, rng.Float64()*6, Point{}, max(int(count), 8))
+			noise := 0.01 * rng.Float64()
+			for _, p := range loop {
+				pts = append(pts, p.Add(Point{noise * rng.NormFloat64(), noise * rng.NormFloat64()}))
+				if rng.IntN(10) == 0 {
+					pts = append(pts, Point{rng.Float64(), rng.Float64() - 0.5})
+				}
+			}
+		default: // a few points on a small integer lattice (duplicates, lines)
+			for range count {
+				pts = append(pts, Point{float64(rng.IntN(4)), float64(rng.IntN(3))})
+			}
+		}
+		c := &Cloud{Dim: 2}
+		for i, p := range pts {
+			c.Points = append(c.Points, Vec3{p.X, p.Y, 0})
+			c.Origins = append(c.Origins, Origin{File: "f", Line: i + 1})
+		}
+		ct, _, err := Clean(c, CleanOptions{KeepOutliers: rng.IntN(2) == 0})
+		if err != nil {
+			return
+		}
+		if ct.Len() < cleanMinPoints || SignedArea(ct.Points) <= 0 {
+			t.Fatalf("contour of %d points, area %g", ct.Len(), SignedArea(ct.Points))
+		}
+		seen := map[int]bool{}
+		for _, o := range ct.Origins {
+			if seen[o.Line] {
+				t.Fatalf("line %d twice in the contour", o.Line)
+			}
+			seen[o.Line] = true
+		}
+	})
 }
