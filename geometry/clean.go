@@ -43,6 +43,14 @@ const (
 // cleanMinPoints is the fewest usable points Clean accepts.
 const cleanMinPoints = 8
 
+// cleanLoopShare is the least share of the points of the most populous
+// loop that another loop needs to count as a wall of the part.
+const cleanLoopShare = 0.1
+
+// cleanMaxBandFit bounds the half-width, in points, of the local fits that
+// test a band of points for outliers.
+const cleanMaxBandFit = 30
+
 // Merged records one input point merged into an earlier one.
 type Merged struct {
 	Kept, Dropped Origin
@@ -82,7 +90,12 @@ type CleanReport struct {
 	OrderKept bool
 	// Reordered holds why an ordered input was reordered, "" otherwise.
 	Reordered string
-	MergeTol  float64 // merge tolerance used, input units
+	// Band reports that the points form a band (noise comparable to their
+	// spacing, as in a dense scan) and were ordered by projection onto a
+	// thinned curve, so that only their order along the curve, not their
+	// order across the band, is meaningful.
+	Band     bool
+	MergeTol float64 // merge tolerance used, input units
 	// Sigma is the robust scale of the residuals of the picked loop against
 	// the local fit (1.4826 × median absolute residual), input units.
 	Sigma float64
@@ -101,7 +114,13 @@ type CleanReport struct {
 //     every run is a local one; otherwise, and for unordered clouds, the
 //     points are linked by tangent-guided mutual neighbours (see orderLink)
 //     into chains, and chain ends are joined into loops (see loopJoin).
+//     A dense scan whose noise is comparable to its spacing is a band, not
+//     a line (see orderIsBand); it is thinned to centroids that link as a
+//     line, and every point is ordered by where it projects onto them (see
+//     orderBand; CleanReport.Band is set).
 //  3. Pick: the loops are ranked by enclosed area and opts.Loop picks one.
+//     Loops with less than a tenth of the points of the most populous loop
+//     are not walls but chance chains of stray points, and are not ranked.
 //  4. Outliers: each point of the loop is tested against a local fit of its
 //     neighbours along the loop (see outlierResiduals); points beyond
 //     OutlierSigma robust sigmas are dropped, and their neighbours close up.
@@ -194,16 +213,31 @@ func Clean(c *Cloud, opts CleanOptions) (*Contour, *CleanReport, error) {
 			rep.Reordered = fmt.Sprintf("the step from %s to %s jumps %.3g, beyond the points' neighbourhoods", c.Origins[src[a]], c.Origins[src[b]], pts[a].Dist(pts[b]))
 		}
 	}
-	if !kept {
-		orderLink(pts, nb, g)
-	}
 	rep.OrderKept = kept
-	loopJoin(pts, nb, g)
-	loops, rest := g.components(cleanMinPoints)
+	var loops, rest [][]int32
+	band := 0 // for a band, the half-width of the outlier fits in points
+	if !kept && orderIsBand(pts, nb) {
+		rep.Band = true
+		var per int
+		loops, rest, per = orderBand(pts, nb, lo, hi)
+		band = min(max(outlierK, 2*per), cleanMaxBandFit)
+	} else {
+		if !kept {
+			orderLink(pts, nb, g)
+		}
+		loopJoin(pts, nb, g)
+		loops, rest = g.components(cleanMinPoints)
+	}
 	// A loop that encloses nothing (it runs out and back along a line) is
-	// not a section.
+	// not a section, nor is one with under cleanLoopShare of the points of
+	// the most populous loop (stray points or outliers that happen to
+	// chain around the part).
+	most := 0
+	for _, l := range loops {
+		most = max(most, len(l))
+	}
 	loops = slices.DeleteFunc(loops, func(l []int32) bool {
-		if math.Abs(loopArea(pts, l)) <= 1e-9*diag*diag {
+		if math.Abs(loopArea(pts, l)) <= 1e-9*diag*diag || float64(len(l)) < cleanLoopShare*float64(most) {
 			rest = append(rest, l)
 			return true
 		}
@@ -247,7 +281,7 @@ func Clean(c *Cloud, opts CleanOptions) (*Contour, *CleanReport, error) {
 	seq := rs[opts.Loop].seq
 
 	// 4. Outliers.
-	seq, scale, outs := outlierDrop(pts, seq, sigma, opts.KeepOutliers)
+	seq, scale, outs := outlierDrop(pts, seq, sigma, opts.KeepOutliers, band)
 	rep.Sigma = scale
 	seq, extra := outlierPlace(pts, seq, rest, nb, sigma*scale, scale, opts.KeepOutliers)
 	outs = append(outs, extra...)

@@ -616,3 +616,50 @@ func FuzzClean(f *testing.F) {
 		}
 	})
 }
+
+// A dense scan: 20000 points per loop, so that the 0.02 mm noise exceeds
+// the 0.015 mm spacing and no point-to-point order exists across the band.
+// The order along the curve must hold: consecutive contour points are at
+// most 4·noise/spacing + 2 sample positions apart (a band of ±2σ holds that
+// many), for ≥ 99% of pairs. Sections from the NACA Report 824 equations
+// via NACA4; the noise, outlier and duplicate set-up is this test's own.
+func TestCleanBand(t *testing.T) {
+	const count = 20000
+	for _, tc := range []struct {
+		n    NACA4
+		seed uint64
+	}{{NACA4{Thickness: 0.12, SharpTE: true}, 1}, {NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12}, 2}} {
+		t.Run(tc.n.String(), func(t *testing.T) {
+			loop := cleanTestSample(tc.n, cleanChord, cleanRot, cleanOff, count)
+			spacing := loop[0].Dist(loop[1])
+			c, es := cleanTestCloud(rand.New(rand.NewPCG(tc.seed, 31)), [][]Point{loop}, cleanNoise, 0.01, 0.02)
+			ct, rep, err := Clean(c, CleanOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if !rep.Band {
+				t.Error("Band not set for a cloud whose noise exceeds its spacing")
+			}
+			_, od, gl := cleanTestScore(ct, es, 0, count)
+			w := int(4*cleanNoise/spacing) + 2
+			good, pairs := 0, 0
+			for k := range ct.Len() {
+				a, b := es[ct.Origins[k].Line-1], es[ct.Origins[(k+1)%ct.Len()].Line-1]
+				if a.pos < 0 || b.pos < 0 {
+					continue
+				}
+				pairs++
+				d := (a.pos - b.pos + count) % count
+				if min(d, count-d) <= w {
+					good++
+				}
+			}
+			frac := float64(good) / float64(pairs)
+			t.Logf("within %d positions: %.4f, outliers dropped %.3f, good lost %.4f", w, frac, od, gl)
+			if frac < 0.99 || od < 0.95 || gl > 0.005 {
+				t.Errorf("within %d: %.4f (≥ 0.99), outliers dropped %.3f (≥ 0.95), good lost %.4f (≤ 0.005)", w, frac, od, gl)
+			}
+			cleanTestOriented(t, ct, cleanTE(tc.n), 1)
+		})
+	}
+}

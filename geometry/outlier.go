@@ -39,16 +39,120 @@ type outlierHit struct {
 // The one-sided fits let a corner (a sharp trailing edge, the corners of a
 // blunt one) be predicted from the side it continues; a point off the
 // surface is far from all three. The work runs on every CPU.
-func outlierResiduals(pts []Point, seq []int32) []float64 {
+//
+// When band > 0 the loop is a band of points ordered only along the curve
+// (orderBand), and the fits are those of outlierBandFit over band
+// neighbours on each side.
+func outlierResiduals(pts []Point, seq []int32, band int) []float64 {
 	n := len(seq)
 	r := make([]float64, n)
 	k := min(outlierK, (n-1)/2)
+	if band > 0 {
+		k = min(band, (n-1)/2)
+	}
 	cleanParallel(n, func(a, b int) {
 		for i := a; i < b; i++ {
-			r[i] = outlierFit(pts, seq, i, k)
+			if band > 0 {
+				r[i] = outlierBandFit(pts, seq, i, k)
+			} else {
+				r[i] = outlierFit(pts, seq, i, k)
+			}
 		}
 	})
 	return r
+}
+
+// outlierBandFit returns the residual of position i of a band-ordered loop
+// seq: the least of its distances from a quadratic y(x) fitted by least
+// squares to its k neighbours on each side, in their principal frame, and
+// from the principal lines of either side alone. Across a band the order of
+// the points is arbitrary, so no chord-length parameter exists; the window
+// spans several band widths, so its principal frame follows the curve.
+func outlierBandFit(pts []Point, seq []int32, i, k int) float64 {
+	n := len(seq)
+	at := func(j int) Point { return pts[seq[((i+j)%n+n)%n]] }
+	p0 := at(0)
+	frame := func(js []int) (c, u Point) {
+		for _, j := range js {
+			c = c.Add(at(j))
+		}
+		c = c.Scale(1 / float64(len(js)))
+		var sxx, sxy, syy float64
+		for _, j := range js {
+			d := at(j).Sub(c)
+			sxx += d.X * d.X
+			sxy += d.X * d.Y
+			syy += d.Y * d.Y
+		}
+		return c, cleanPrincipal(sxx, sxy, syy)
+	}
+	var buf [2 * cleanMaxBandFit]int
+	left, right := buf[:0:k], buf[k:k:2*k]
+	for j := 1; j <= k; j++ {
+		left = append(left, -j)
+		right = append(right, j)
+	}
+	best := math.Inf(1)
+	for _, side := range [][]int{left, right} {
+		c, u := frame(side)
+		best = min(best, math.Abs(p0.Sub(c).Cross(u)))
+	}
+	both := buf[:2*k]
+	c, u := frame(both)
+	// y = a + b x + c x² in the frame (x along u, y across), x scaled by
+	// the window's extent.
+	var xbuf, ybuf [2 * cleanMaxBandFit]float64
+	xs, ys := xbuf[:0], ybuf[:0]
+	span := 0.0
+	for _, j := range both {
+		d := at(j).Sub(c)
+		x, y := d.Dot(u), u.Cross(d)
+		xs, ys = append(xs, x), append(ys, y)
+		span = max(span, math.Abs(x))
+	}
+	if span == 0 {
+		return best
+	}
+	var a [3][3]float64
+	var by [3]float64
+	for j := range xs {
+		v := xs[j] / span
+		b := [3]float64{1, v, v * v}
+		for r := range 3 {
+			for q := range 3 {
+				a[r][q] += b[r] * b[q]
+			}
+			by[r] += b[r] * ys[j]
+		}
+	}
+	if cf, ok := outlierSolve3(a, by); ok {
+		d := p0.Sub(c)
+		v := d.Dot(u) / span
+		best = min(best, math.Abs(u.Cross(d)-(cf[0]+cf[1]*v+cf[2]*v*v)))
+	}
+	return best
+}
+
+// outlierSolve3 solves the 3×3 system a·x = b by Cramer's rule; ok is false
+// when a is near singular.
+func outlierSolve3(a [3][3]float64, b [3]float64) (x [3]float64, ok bool) {
+	det3 := func(m [3][3]float64) float64 {
+		return m[0][0]*(m[1][1]*m[2][2]-m[1][2]*m[2][1]) -
+			m[0][1]*(m[1][0]*m[2][2]-m[1][2]*m[2][0]) +
+			m[0][2]*(m[1][0]*m[2][1]-m[1][1]*m[2][0])
+	}
+	det := det3(a)
+	if math.Abs(det) < 1e-12 {
+		return x, false
+	}
+	for col := range 3 {
+		m := a
+		for r := range 3 {
+			m[r][col] = b[r]
+		}
+		x[col] = det3(m) / det
+	}
+	return x, true
 }
 
 // outlierFit returns the residual of position i of seq, described at
@@ -201,11 +305,16 @@ func outlierScale(pts []Point, seq []int32, r []float64) float64 {
 // rounds stop when no point is beyond the threshold. A point within the
 // sagitta bound of outlierSagitta is never an outlier. It returns the loop
 // without the outliers (with them, if keep), the scale and the outliers.
-func outlierDrop(pts []Point, seq []int32, sigma float64, keep bool) ([]int32, float64, []outlierHit) {
+//
+// band > 0 marks a band-ordered loop (see outlierResiduals); the sagitta
+// bound is then not used. (The local maxima are still taken over outlierK
+// positions: in a wide band fit one outlier moves its neighbours' fits
+// little.)
+func outlierDrop(pts []Point, seq []int32, sigma float64, keep bool, band int) ([]int32, float64, []outlierHit) {
 	if len(seq) < cleanMinPoints {
 		return seq, 0, nil
 	}
-	r := outlierResiduals(pts, seq)
+	r := outlierResiduals(pts, seq, band)
 	scale := outlierScale(pts, seq, r)
 	thr := sigma * scale
 	work := seq
@@ -214,7 +323,7 @@ func outlierDrop(pts []Point, seq []int32, sigma float64, keep bool) ([]int32, f
 		n := len(work)
 		var out []bool
 		for i := range n {
-			if r[i] <= thr || r[i] <= outlierSagitta(pts, work, i) {
+			if r[i] <= thr || band == 0 && r[i] <= outlierSagitta(pts, work, i) {
 				continue
 			}
 			top := true
@@ -246,7 +355,7 @@ func outlierDrop(pts []Point, seq []int32, sigma float64, keep bool) ([]int32, f
 		if len(work) < cleanMinPoints {
 			break
 		}
-		r = outlierResiduals(pts, work)
+		r = outlierResiduals(pts, work, band)
 	}
 	if keep {
 		return seq, scale, hits
