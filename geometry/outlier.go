@@ -44,14 +44,29 @@ type outlierHit struct {
 // (orderBand), and the fits are those of outlierBandFit over band
 // neighbours on each side.
 func outlierResiduals(pts []Point, seq []int32, band int) []float64 {
+	r := make([]float64, len(seq))
+	outlierResidualsAt(pts, seq, band, nil, r)
+	return r
+}
+
+// outlierResidualsAt sets r[i] to the residual of position i of seq for
+// each i in at (every position when at is nil), as outlierResiduals does.
+func outlierResidualsAt(pts []Point, seq []int32, band int, at []int, r []float64) {
 	n := len(seq)
-	r := make([]float64, n)
 	k := min(outlierK, (n-1)/2)
 	if band > 0 {
 		k = min(band, (n-1)/2)
 	}
-	cleanParallel(n, func(a, b int) {
-		for i := a; i < b; i++ {
+	m := n
+	if at != nil {
+		m = len(at)
+	}
+	cleanParallel(m, func(a, b int) {
+		for j := a; j < b; j++ {
+			i := j
+			if at != nil {
+				i = at[j]
+			}
 			if band > 0 {
 				r[i] = outlierBandFit(pts, seq, i, k)
 			} else {
@@ -59,7 +74,6 @@ func outlierResiduals(pts []Point, seq []int32, band int) []float64 {
 			}
 		}
 	})
-	return r
 }
 
 // outlierBandFit returns the residual of position i of a band-ordered loop
@@ -70,63 +84,68 @@ func outlierResiduals(pts []Point, seq []int32, band int) []float64 {
 // spans several band widths, so its principal frame follows the curve.
 func outlierBandFit(pts []Point, seq []int32, i, k int) float64 {
 	n := len(seq)
-	at := func(j int) Point { return pts[seq[((i+j)%n+n)%n]] }
-	p0 := at(0)
-	frame := func(js []int) (c, u Point) {
-		for _, j := range js {
-			c = c.Add(at(j))
-		}
-		c = c.Scale(1 / float64(len(js)))
-		var sxx, sxy, syy float64
-		for _, j := range js {
-			d := at(j).Sub(c)
-			sxx += d.X * d.X
-			sxy += d.X * d.Y
-			syy += d.Y * d.Y
-		}
-		return c, cleanPrincipal(sxx, sxy, syy)
-	}
-	var buf [2 * cleanMaxBandFit]int
-	left, right := buf[:0:k], buf[k:k:2*k]
+	p0 := pts[seq[i]]
+	// The window, relative to p0: w[0:k] the left side, w[k:2k] the right.
+	var buf [2 * cleanMaxBandFit]Point
+	w := buf[:2*k]
 	for j := 1; j <= k; j++ {
-		left = append(left, -j)
-		right = append(right, j)
+		l, r := i-j, i+j
+		if l < 0 {
+			l += n
+		}
+		if r >= n {
+			r -= n
+		}
+		w[k-j], w[k+j-1] = pts[seq[l]].Sub(p0), pts[seq[r]].Sub(p0)
+	}
+	// frame returns the centroid and principal direction of ps.
+	frame := func(ps []Point) (c, u Point) {
+		var sx, sy, sxx, sxy, syy float64
+		for _, q := range ps {
+			sx += q.X
+			sy += q.Y
+			sxx += q.X * q.X
+			sxy += q.X * q.Y
+			syy += q.Y * q.Y
+		}
+		m := float64(len(ps))
+		c = Point{sx / m, sy / m}
+		return c, cleanPrincipal(sxx-sx*c.X, sxy-sx*c.Y, syy-sy*c.Y)
 	}
 	best := math.Inf(1)
-	for _, side := range [][]int{left, right} {
+	for _, side := range [2][]Point{w[:k], w[k:]} {
 		c, u := frame(side)
-		best = min(best, math.Abs(p0.Sub(c).Cross(u)))
+		best = min(best, math.Abs(c.Scale(-1).Cross(u)))
 	}
-	both := buf[:2*k]
-	c, u := frame(both)
+	c, u := frame(w)
 	// y = a + b x + c x² in the frame (x along u, y across), x scaled by
 	// the window's extent.
-	var xbuf, ybuf [2 * cleanMaxBandFit]float64
-	xs, ys := xbuf[:0], ybuf[:0]
 	span := 0.0
-	for _, j := range both {
-		d := at(j).Sub(c)
-		x, y := d.Dot(u), u.Cross(d)
-		xs, ys = append(xs, x), append(ys, y)
-		span = max(span, math.Abs(x))
+	for _, q := range w {
+		span = max(span, math.Abs(q.Sub(c).Dot(u)))
 	}
 	if span == 0 {
 		return best
 	}
 	var a [3][3]float64
 	var by [3]float64
-	for j := range xs {
-		v := xs[j] / span
-		b := [3]float64{1, v, v * v}
-		for r := range 3 {
-			for q := range 3 {
-				a[r][q] += b[r] * b[q]
-			}
-			by[r] += b[r] * ys[j]
-		}
+	for _, q := range w {
+		d := q.Sub(c)
+		v, y := d.Dot(u)/span, u.Cross(d)
+		v2 := v * v
+		a[0][1] += v
+		a[0][2] += v2
+		a[1][2] += v2 * v
+		a[2][2] += v2 * v2
+		by[0] += y
+		by[1] += v * y
+		by[2] += v2 * y
 	}
+	a[0][0] = float64(len(w))
+	a[1][0], a[1][1], a[2][0], a[2][1] = a[0][1], a[0][2], a[0][2], a[1][2]
+	a[0][1], a[0][2] = a[1][0], a[2][0]
 	if cf, ok := outlierSolve3(a, by); ok {
-		d := p0.Sub(c)
+		d := c.Scale(-1)
 		v := d.Dot(u) / span
 		best = min(best, math.Abs(u.Cross(d)-(cf[0]+cf[1]*v+cf[2]*v*v)))
 	}
@@ -345,17 +364,42 @@ func outlierDrop(pts []Point, seq []int32, sigma float64, keep bool, band int) (
 		if out == nil {
 			break
 		}
-		next := make([]int32, 0, n)
-		for i, p := range work {
-			if !out[i] {
-				next = append(next, p)
-			}
+		// Take the outliers out; only the residuals of points whose fits
+		// reached one change.
+		reach := outlierK + 2
+		if band > 0 {
+			reach = band + 2
 		}
-		work = next
-		if len(work) < cleanMinPoints {
+		next := make([]int32, 0, n)
+		nr := make([]float64, 0, n)
+		var cuts []int
+		for i, p := range work {
+			if out[i] {
+				cuts = append(cuts, len(next))
+				continue
+			}
+			next = append(next, p)
+			nr = append(nr, r[i])
+		}
+		work, r = next, nr
+		nn := len(work)
+		if nn < cleanMinPoints {
 			break
 		}
-		r = outlierResiduals(pts, work, band)
+		dirty := make([]bool, nn)
+		var at []int
+		for _, c := range cuts {
+			for d := -reach; d < reach; d++ {
+				if q := ((c+d)%nn + nn) % nn; !dirty[q] {
+					dirty[q] = true
+					at = append(at, q)
+				}
+			}
+		}
+		if 2*reach+1 >= nn {
+			at = nil
+		}
+		outlierResidualsAt(pts, work, band, at, r)
 	}
 	if keep {
 		return seq, scale, hits
