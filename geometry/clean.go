@@ -74,7 +74,7 @@ type Drop struct {
 
 // LoopInfo describes one closed loop found in the cloud.
 type LoopInfo struct {
-	Points int     // number of points in the loop
+	Points int     // number of points in the loop as found, before outliers are tested
 	Area   float64 // enclosed area, input units squared, positive
 	Picked bool    // this loop is the contour returned
 	First  Origin  // origin of the loop's point that comes first in the input
@@ -97,7 +97,9 @@ type CleanReport struct {
 	Band     bool
 	MergeTol float64 // merge tolerance used, input units
 	// Sigma is the robust scale of the residuals of the picked loop against
-	// the local fit (1.4826 × median absolute residual), input units.
+	// the local fit (1.4826 × median absolute residual, at least 0.02 × the
+	// median point spacing so that exact coordinates lose nothing), input
+	// units.
 	Sigma float64
 }
 
@@ -139,6 +141,10 @@ type CleanReport struct {
 // when all points lie on one line, and ErrNoLoop when no closed loop forms or
 // opts.Loop asks for a loop that does not exist. It panics if
 // len(c.Origins) != len(c.Points).
+//
+// The cost is O(n log n) in time (sorts for the spatial hashes; every
+// neighbour search and fit is local) and O(n) in memory; the neighbour
+// searches and fits run on every CPU.
 func Clean(c *Cloud, opts CleanOptions) (*Contour, *CleanReport, error) {
 	if len(c.Origins) != len(c.Points) {
 		panic("geometry: Clean: len(Origins) != len(Points)")

@@ -371,6 +371,21 @@ func TestCleanOrderedInput(t *testing.T) {
 		}
 		cleanTestOriented(t, ct, cleanTE(n), 0.01*cleanChord)
 	})
+	t.Run("two runs", func(t *testing.T) {
+		// Upper and lower surface as two polylines (as a DXF file may hold
+		// them), both through the leading edge, the lower one listed first.
+		pts := append(slices.Clone(loop[80:]), loop[:81]...)
+		c := mk(pts)
+		c.Segments = []int{0, len(loop) - 80}
+		ct, rep, err := Clean(c, CleanOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !rep.OrderKept || len(rep.Merged) != 1 || ct.Len() != len(loop) {
+			t.Errorf("OrderKept %v (%s), merged %d (want the shared LE), %d points (want %d)", rep.OrderKept, rep.Reordered, len(rep.Merged), ct.Len(), len(loop))
+		}
+		cleanTestOriented(t, ct, n.Upper(1).Scale(cleanChord).Rotate(cleanRot).Add(cleanOff), 1e-9)
+	})
 	t.Run("shuffled", func(t *testing.T) {
 		pts := slices.Clone(loop)
 		rand.New(rand.NewPCG(3, 3)).Shuffle(len(pts), func(i, j int) { pts[i], pts[j] = pts[j], pts[i] })

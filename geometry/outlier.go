@@ -276,34 +276,19 @@ func outlierQuadratic(ss []float64, ps []Point, span, u float64) (c, d Point, ok
 			by[r] += b[r] * ps[j].Y
 		}
 	}
-	det := a[0][0]*(a[1][1]*a[2][2]-a[1][2]*a[2][1]) -
-		a[0][1]*(a[1][0]*a[2][2]-a[1][2]*a[2][0]) +
-		a[0][2]*(a[1][0]*a[2][1]-a[1][1]*a[2][0])
-	if math.Abs(det) < 1e-12 {
+	cx, okx := outlierSolve3(a, bx)
+	cy, oky := outlierSolve3(a, by)
+	if !okx || !oky {
 		return c, d, false
 	}
-	solve := func(b [3]float64) [3]float64 {
-		var x [3]float64
-		for col := range 3 {
-			m := a
-			for r := range 3 {
-				m[r][col] = b[r]
-			}
-			x[col] = (m[0][0]*(m[1][1]*m[2][2]-m[1][2]*m[2][1]) -
-				m[0][1]*(m[1][0]*m[2][2]-m[1][2]*m[2][0]) +
-				m[0][2]*(m[1][0]*m[2][1]-m[1][1]*m[2][0])) / det
-		}
-		return x
-	}
-	cx, cy := solve(bx), solve(by)
 	c = Point{cx[0] + cx[1]*u + cx[2]*u*u, cy[0] + cy[1]*u + cy[2]*u*u}
 	d = Point{cx[1] + 2*cx[2]*u, cy[1] + 2*cy[2]*u}
 	return c, d, true
 }
 
 // outlierScale returns the robust scale of residuals r, 1.4826 × their
-// median absolute value (the MAD of a residual centred on the curve, which
-// is σ for Gaussian noise), floored at outlierFloor × the median spacing
+// median absolute value (the MAD of a residual centred on the curve; 1.4826
+// makes it σ for Gaussian noise, common practice), floored at outlierFloor × the median spacing
 // of seq.
 func outlierScale(pts []Point, seq []int32, r []float64) float64 {
 	abs := slices.Clone(r)
