@@ -263,6 +263,15 @@ func TestCleanScan(t *testing.T) {
 			if rep.OrderKept {
 				t.Error("OrderKept set for an unordered cloud")
 			}
+			// KeepOutliers reports the same outliers and keeps them all.
+			kt, krep, err := Clean(c, CleanOptions{KeepOutliers: true})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if _, kod, _ := cleanTestScore(kt, es, 0, cleanCount); kod != 0 || len(krep.Dropped) != len(rep.Dropped) || kt.Len() != ct.Len()+len(rep.Dropped) {
+				t.Errorf("KeepOutliers: %d reported (want %d), %d points (want %d), outliers dropped %.3f (want 0)",
+					len(krep.Dropped), len(rep.Dropped), kt.Len(), ct.Len()+len(rep.Dropped), kod)
+			}
 		})
 	}
 }
