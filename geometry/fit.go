@@ -69,7 +69,11 @@ type FitReport struct {
 	// coordinate (n for interpolation).
 	EffectiveParams float64
 	RMS, Max        float64 // RMS and largest |Residual|
-	MaxAt           Origin  // where the largest residual is
+	// NoiseEstimate is the noise the residuals imply, RMS·√(n/(n − tr H)):
+	// smaller residuals than the noise are expected, since the curve takes
+	// up tr H of the n degrees of freedom. 0 for interpolation.
+	NoiseEstimate float64
+	MaxAt         Origin // where the largest residual is
 	// S[i] and Residual[i] belong to point i of the contour: the arc length
 	// of its foot on the curve and its signed normal distance (positive
 	// outside the loop). Points on the base of a blunt trailing edge (listed
@@ -84,7 +88,7 @@ type FitReport struct {
 
 // Summary returns the fit record of the section document.
 func (r *FitReport) Summary() *FitSummary {
-	return &FitSummary{Method: r.Method, RMS: r.RMS, Max: r.Max, MaxAt: r.MaxAt.String()}
+	return &FitSummary{Method: r.Method, RMS: r.RMS, Max: r.Max, MaxAt: r.MaxAt.String(), NoiseEstimate: r.NoiseEstimate}
 }
 
 // fitEnds is the result of looking for corners at the trailing edge.
@@ -359,6 +363,9 @@ func Fit(c *Contour, opts FitOptions) (*Curve, *FitReport, error) {
 			break
 		}
 	}
+	if !opts.Exact && rep.EffectiveParams < float64(len(pts)) {
+		rep.NoiseEstimate = rep.RMS / math.Sqrt(1-rep.EffectiveParams/float64(len(pts)))
+	}
 	rep.Beyond = nil
 	if rep.Tolerance > 0 {
 		for i, r := range rep.Residual {
@@ -377,7 +384,7 @@ func Fit(c *Contour, opts FitOptions) (*Curve, *FitReport, error) {
 	}
 	rep.Warnings = ws2
 	if len(rep.Beyond) > 0 {
-		rep.Warnings = append(rep.Warnings, fmt.Sprintf("%d point(s) farther than %g from the curve (worst %g at %s)", len(rep.Beyond), rep.Tolerance, rep.Max, rep.MaxAt))
+		rep.Warnings = append(rep.Warnings, fmt.Sprintf("%d point(s) farther than %.3g from the curve (worst %.3g at %s)", len(rep.Beyond), rep.Tolerance, rep.Max, rep.MaxAt))
 	}
 	return cv, rep, nil
 }
@@ -438,59 +445,34 @@ func fitChooseLambda(p *splineProblem, xs, ys []float64, opts FitOptions, hint f
 	cols := [][]float64{xs, ys}
 	const hintSpan = 3
 	if opts.Noise > 0 {
-		rms := func(ll float64) (float64, error) {
-			f, err := p.fit(math.Exp(ll), cols, false)
+		// With the noise known, λ minimises the unbiased risk estimate
+		//
+		//	U(λ) = RSS(λ)/n + 2·(2σ²)·tr H(λ)/n
+		//
+		// (Craven and Wahba, Numer. Math. 31 (1979) 377–403; Wahba, Spline
+		// Models for Observational Data, SIAM 1990, §4.7), the expected
+		// squared error of the curve at the points, both coordinates
+		// counted. Matching the raw residual RMS to σ instead (the
+		// discrepancy principle) over-smooths, and the nose, where the
+		// curvature is largest, flattens first. Residuals are capped at
+		// fitOutlierSigmas·σ, so a few gross outliers are not taken for
+		// noise. The residual RMS then comes out near σ·√(1 − tr H/n).
+		sigma := opts.Noise
+		clip := fitOutlierSigmas * sigma
+		ubre := func(ll float64) float64 {
+			f, err := p.fit(math.Exp(ll), cols, true)
 			if err != nil {
-				return 0, err
+				return math.Inf(1)
 			}
-			return fitNormalRMS(p, f, xs, ys), nil
+			var ss float64
+			for i := 0; i < n; i++ {
+				dx, dy := xs[i]-f.gs[0][i], ys[i]-f.gs[1][i]
+				r2 := dx*dx + dy*dy
+				ss += math.Min(p.ws[i], 1) * math.Min(r2, clip*clip)
+			}
+			return ss/float64(n) + 4*sigma*sigma*f.trace/float64(n)
 		}
-		if hint > 0 {
-			a, b := math.Log(hint)-hintSpan, math.Log(hint)+hintSpan
-			ra, errA := rms(a)
-			rb, errB := rms(b)
-			if errA == nil && errB == nil && ra < opts.Noise && rb > opts.Noise {
-				lo, hi = a, b
-			}
-		}
-		// Very strong smoothing of many points is ill-conditioned (the
-		// condition number grows as (ℓ/h)⁴); back off until the system factors.
-		rHi, err := rms(hi)
-		for k := 0; err != nil && k < 60 && hi > lo; k++ {
-			hi -= math.Log(16) // halve the smoothing length
-			rHi, err = rms(hi)
-		}
-		if err != nil {
-			return 0, fmt.Errorf("geometry: fit: %w", err)
-		}
-		if rHi <= opts.Noise {
-			rep.Warnings = append(rep.Warnings, fmt.Sprintf("noise %g exceeds the scatter of the points about the smoothest curve (%g); using the smoothest curve", opts.Noise, rHi))
-			return math.Exp(hi), nil
-		}
-		best, bestDiff := hi, math.Abs(rHi-opts.Noise)
-		for range 60 {
-			mid := (lo + hi) / 2
-			r, err := rms(mid)
-			if err != nil {
-				hi = mid // treat as too smooth
-				continue
-			}
-			if d := math.Abs(r - opts.Noise); d < bestDiff {
-				best, bestDiff = mid, d
-			}
-			if d := math.Abs(r - opts.Noise); d <= 1e-3*opts.Noise {
-				break
-			}
-			if r < opts.Noise {
-				lo = mid
-			} else {
-				hi = mid
-			}
-			if hi-lo < 1e-6 {
-				break
-			}
-		}
-		return math.Exp(best), nil
+		return fitMinimise(ubre, lo, hi, hint, hintSpan), nil
 	}
 	gcv := func(ll float64) float64 {
 		f, err := p.fit(math.Exp(ll), cols, true)
@@ -508,28 +490,40 @@ func fitChooseLambda(p *splineProblem, xs, ys []float64, opts FitOptions, hint f
 		}
 		return ss / float64(n) / (den * den)
 	}
+	ll, atEdge := fitMinimiseLog(gcv, lo, hi, hint, hintSpan)
+	if math.IsInf(gcv(ll), 1) {
+		return 0, fmt.Errorf("geometry: fit: cross-validation failed for every smoothing strength")
+	}
+	if atEdge && hint == 0 {
+		rep.Warnings = append(rep.Warnings, "cross-validation chose the weakest smoothing tried: the points look noise-free; consider noise 0")
+	}
+	return math.Exp(ll), nil
+}
+
+// fitMinimise returns the λ that minimises crit(log λ) over [lo, hi] (or
+// within hintSpan of log hint when hint > 0).
+func fitMinimise(crit func(float64) float64, lo, hi, hint, hintSpan float64) float64 {
+	ll, _ := fitMinimiseLog(crit, lo, hi, hint, hintSpan)
+	return math.Exp(ll)
+}
+
+// fitMinimiseLog scans crit on a grid over [lo, hi] and refines the best
+// sample by golden-section search. atEdge reports that the weakest
+// smoothing tried was best.
+func fitMinimiseLog(crit func(float64) float64, lo, hi, hint, hintSpan float64) (ll float64, atEdge bool) {
 	grid := 40
 	if hint > 0 {
 		lo, hi, grid = math.Log(hint)-hintSpan, math.Log(hint)+hintSpan, 12
 	}
 	best, bestV := 0, math.Inf(1)
-	vs := make([]float64, grid+1)
 	for k := 0; k <= grid; k++ {
-		vs[k] = gcv(lo + (hi-lo)*float64(k)/float64(grid))
-		if vs[k] < bestV {
-			best, bestV = k, vs[k]
+		if v := crit(lo + (hi-lo)*float64(k)/float64(grid)); v < bestV {
+			best, bestV = k, v
 		}
-	}
-	if math.IsInf(bestV, 1) {
-		return 0, fmt.Errorf("geometry: fit: cross-validation failed for every smoothing strength")
 	}
 	a := lo + (hi-lo)*float64(max(best-1, 0))/float64(grid)
 	b := lo + (hi-lo)*float64(min(best+1, grid))/float64(grid)
-	ll := fitGolden(gcv, a, b, 40)
-	if best == 0 && hint == 0 {
-		rep.Warnings = append(rep.Warnings, "cross-validation chose the weakest smoothing tried: the points look noise-free; consider noise 0")
-	}
-	return math.Exp(ll), nil
+	return fitGolden(crit, a, b, 40), best == 0
 }
 
 // fitGolden returns the minimiser of f on [a, b] by golden-section search.
@@ -556,10 +550,26 @@ func fitGolden(f func(float64) float64, a, b float64, iters int) float64 {
 // point counts with its weight capped at 1, so down-weighted outliers drop
 // out.
 func fitNormalRMS(p *splineProblem, f *splineFit, xs, ys []float64) float64 {
+	rs := fitNormalResiduals(p, f, xs, ys)
+	var ss, sw float64
+	for i, r := range rs {
+		if math.IsNaN(r) {
+			continue
+		}
+		w := math.Min(p.ws[i], 1)
+		ss += w * r * r
+		sw += w
+	}
+	return math.Sqrt(ss / sw)
+}
+
+// fitNormalResiduals returns the residual of every point normal to the fit
+// at its knot (NaN where the tangent vanishes; weights are not applied).
+func fitNormalResiduals(p *splineProblem, f *splineFit, xs, ys []float64) []float64 {
 	n := p.n()
 	px := p.pieces(f.gs[0], f.gams[0])
 	py := p.pieces(f.gs[1], f.gams[1])
-	var ss, sw float64
+	out := make([]float64, n)
 	for i := 0; i < n; i++ {
 		var dx, dy float64
 		if i < len(px) {
@@ -572,14 +582,12 @@ func fitNormalRMS(p *splineProblem, f *splineFit, xs, ys []float64) float64 {
 		}
 		l := math.Hypot(dx, dy)
 		if l == 0 {
+			out[i] = math.NaN()
 			continue
 		}
-		r := ((xs[i]-f.gs[0][i])*dy - (ys[i]-f.gs[1][i])*dx) / l
-		w := math.Min(p.ws[i], 1)
-		ss += w * r * r
-		sw += w
+		out[i] = ((xs[i]-f.gs[0][i])*dy - (ys[i]-f.gs[1][i])*dx) / l
 	}
-	return math.Sqrt(ss / sw)
+	return out
 }
 
 // fitRobustRounds is how many times the fit is repeated with the points

@@ -80,6 +80,10 @@ type FitSummary struct {
 	RMS    float64 `json:"rms"`
 	Max    float64 `json:"max"`
 	MaxAt  string  `json:"max_at"` // origin of the worst point, "file:line"
+	// NoiseEstimate is the measurement noise the residuals imply (larger
+	// than RMS: the curve takes up some of the points' freedom); 0 for an
+	// interpolating fit.
+	NoiseEstimate float64 `json:"noise_estimate,omitempty"`
 }
 
 // TrailingEdge reports the kind of trailing edge found and what was done to it.

@@ -195,8 +195,9 @@ func writeProbe(w io.Writer) error {
 	k := 0
 	for pass := 0; pass < 2; pass++ {
 		for i := 0; i < perPass; i++ {
-			// Stations cluster at the nose, as a careful operator probes.
-			x := 0.002 + 0.995*math.Pow(float64(i)/float64(perPass-1), 1.6)
+			// Stations cluster at the nose, as a careful operator probes;
+			// both passes start at the nose, so it is probed twice.
+			x := math.Pow(float64(i)/float64(perPass-1), 1.6)
 			var p geometry.Point
 			if pass == 0 {
 				p = foil.Upper(x)

@@ -1,0 +1,123 @@
+package main
+
+import (
+	"fmt"
+	"io"
+
+	"github.com/spf13/cobra"
+
+	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/pipeline"
+	"github.com/foilwright/foilwright/plot"
+)
+
+type prepOptions struct {
+	flags prepFlags
+	out   string
+	nodes string
+	name  string
+	plot  string
+	quiet bool
+}
+
+func newPrepCmd() *cobra.Command {
+	var opts prepOptions
+	cmd := &cobra.Command{
+		Use:   "prep FILE... [flags]",
+		Short: "Turn measured or exported points into a clean, normalised, repanelled section",
+		Long: `prep runs the whole geometry chain on the points of one section: it reads the
+files (delimited text, coordinate listings, DXF, STL cut by a plane), flattens 3D
+points onto their plane, merges duplicates, orders the points into a loop, drops
+gross outliers, fits a smoothing spline, finds the trailing and leading edge,
+normalises to unit chord with the leading edge at (0, 0), repanels, and computes
+the section's properties. It writes the section document and prints a summary:
+how far the curve departs from the kept points, how the section maps back to the
+part (chord, twist, leading edge, mirroring), and every point it dropped, with
+its file and line.`,
+		Example: `  foilwright prep examples/tunnel-model/probe.csv -o section.json
+  foilwright prep blade-scan.stl --units mm --cut z=700 --panels 200 -o r700.json --nodes r700.dat
+  foilwright prep section.dxf --noise 0.01 --te close --plot prep.svg -o section.json`,
+		Args: cobra.MinimumNArgs(1),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			s, err := opts.flags.settings(cmd.Flags())
+			if err != nil {
+				return err
+			}
+			files, err := inputFiles(cmd.InOrStdin(), args)
+			if err != nil {
+				return err
+			}
+			name := opts.name
+			if name == "" {
+				name = sectionName(args)
+			}
+			p, err := pipeline.Prepare(name, files, s)
+			if err != nil {
+				return badInput(err)
+			}
+			return writePrep(cmd.OutOrStdout(), cmd.ErrOrStderr(), p, opts)
+		},
+	}
+	opts.flags.registerRead(cmd.Flags())
+	opts.flags.registerShape(cmd)
+	f := cmd.Flags()
+	f.StringVarP(&opts.out, "out", "o", "-", "section document to write (- for stdout; the summary then goes to stderr)")
+	f.StringVar(&opts.nodes, "nodes", "", "also write the plain node listing (name line, then x y) to this file")
+	f.StringVar(&opts.name, "name", "", "name of the section (default: the first file's name)")
+	f.StringVar(&opts.plot, "plot", "", "draw the preparation to this .svg or .png file, and the deviation, nodes and section beside it")
+	f.BoolVarP(&opts.quiet, "quiet", "q", false, "print no summary")
+	cmd.MarkFlagFilename("out", "json")
+	cmd.MarkFlagFilename("plot", "svg", "png")
+	return cmd
+}
+
+// writePrep writes the outputs of a preparation: plots first, then the node
+// listing, then the section document, each atomically, and the summary.
+func writePrep(stdout, stderr io.Writer, p *pipeline.Preparation, opts prepOptions) error {
+	if opts.plot != "" {
+		if err := writePrepPlots(opts.plot, p); err != nil {
+			return err
+		}
+	}
+	if opts.nodes != "" {
+		if err := writeOutput(stdout, opts.nodes, func(w io.Writer) error {
+			return geometry.WriteNodes(w, p.Section.Name, p.Section.Nodes)
+		}); err != nil {
+			return err
+		}
+	}
+	if err := writeOutput(stdout, opts.out, func(w io.Writer) error { return geometry.WriteSection(w, p.Section) }); err != nil {
+		return err
+	}
+	if opts.quiet {
+		return nil
+	}
+	summary := stdout
+	if opts.out == "-" || opts.out == "" {
+		summary = stderr
+	}
+	p.WriteSummary(summary)
+	if opts.out != "-" && opts.out != "" {
+		fmt.Fprintf(summary, "wrote %s\n", opts.out)
+	}
+	return nil
+}
+
+// writePrepPlots draws the preparation pictures to path (its extension
+// chooses SVG or PNG) and to siblings named path-deviation, path-nodes and
+// path-section.
+func writePrepPlots(path string, p *pipeline.Preparation) error {
+	if _, err := plot.FormatOf(path); err != nil {
+		return badInputf("--plot %s: %v", path, err)
+	}
+	figs, err := p.PrepFigures()
+	if err != nil {
+		return err
+	}
+	for _, name := range pipeline.PlotNames {
+		if err := plot.Save(figs[name], pipeline.SiblingPath(path, name), 0, 0); err != nil {
+			return err
+		}
+	}
+	return nil
+}

@@ -1,0 +1,404 @@
+package pipeline
+
+import (
+	"bytes"
+	"context"
+	"crypto/sha256"
+	"encoding/hex"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"path/filepath"
+	"strings"
+
+	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/repanel"
+)
+
+// ErrNoUnits means neither the user nor the file said what unit the
+// coordinates are in; foilwright never guesses.
+var ErrNoUnits = errors.New("the file does not say its length unit: give one (mm, in, m or chord)")
+
+// ErrNoiseTooLarge means the expected noise given is not small beside the
+// section itself.
+var ErrNoiseTooLarge = errors.New("the noise figure is not small beside the section")
+
+// maxNoiseFraction is the largest expected noise accepted, as a fraction of
+// the contour's bounding-box diagonal (a noise of 5 % of the part's size
+// would smooth the section away).
+const maxNoiseFraction = 0.05
+
+// Preparation is everything the geometry chain made of one section: the
+// section document and the intermediate results a report or a plot needs.
+type Preparation struct {
+	Section  *geometry.Section
+	Clouds   []*geometry.Cloud     // as read, one per file
+	Flatness *geometry.Flatness    // set when the points were 3D
+	Clean    *geometry.CleanReport // merging, ordering, outliers, loops
+	Contour  *geometry.Contour     // the kept points, in order, input coordinates (plane coordinates for 3D input)
+	Curve    *geometry.Curve       // the fitted curve, same coordinates as Contour
+	Fit      *geometry.FitReport
+	Shape    *geometry.Normalized // the normalised curve, chord units
+	Props    *geometry.SectionProperties
+	Camber   *geometry.CamberLine
+	Quality  repanel.Quality
+}
+
+// Prepare runs the whole geometry chain on the files of one section: read,
+// flatten 3D points onto their plane, merge, order and clean, fit, locate
+// the edges and normalise, repanel, and compute the properties. Every error
+// comes from the data or the settings and names the file where there is one.
+func Prepare(name string, files []InputFile, s PrepSettings) (*Preparation, error) {
+	if len(files) == 0 {
+		return nil, fmt.Errorf("section %q: no input files", name)
+	}
+	ro, err := readOptions(s)
+	if err != nil {
+		return nil, err
+	}
+	p := &Preparation{}
+	var all geometry.Cloud
+	var names, sums []string
+	for _, f := range files {
+		c, err := geometry.Read(bytes.NewReader(f.Data), f.Path, ro)
+		if err != nil {
+			return nil, err
+		}
+		if c.Units == "" {
+			return nil, fmt.Errorf("%s: %w", f.Path, ErrNoUnits)
+		}
+		if all.Units != "" && c.Units != all.Units {
+			return nil, fmt.Errorf("%s: units %s differ from %s of %s", f.Path, c.Units, all.Units, names[0])
+		}
+		p.Clouds = append(p.Clouds, c)
+		sum := sha256.Sum256(f.Data)
+		names = append(names, f.Path)
+		sums = append(sums, hex.EncodeToString(sum[:]))
+		mergeCloud(&all, c)
+	}
+	cloud := &all
+	if len(p.Clouds) == 1 {
+		cloud = p.Clouds[0]
+	}
+	read := cloud.Len()
+
+	var plane *geometry.Plane
+	if cloud.Dim == 3 {
+		fo := geometry.FlattenOptions{Plane: ro.Cut}
+		if s.Band != nil {
+			fo.Band = *s.Band
+		}
+		if s.FlatTol != nil {
+			fo.Tolerance = *s.FlatTol
+		}
+		flat, fl, err := geometry.Flatten(cloud, fo)
+		if err != nil {
+			return nil, fmt.Errorf("%s: %w", strings.Join(names, ", "), err)
+		}
+		cloud, p.Flatness, plane = flat, &fl, &fl.Plane
+	}
+
+	var co geometry.CleanOptions
+	if s.MergeTol != nil {
+		co.MergeTol = *s.MergeTol
+	}
+	if s.OutlierSigma != nil {
+		co.OutlierSigma = *s.OutlierSigma
+	}
+	if s.KeepOutliers != nil {
+		co.KeepOutliers = *s.KeepOutliers
+	}
+	if s.Loop != nil {
+		co.Loop = *s.Loop
+	}
+	contour, rep, err := geometry.Clean(cloud, co)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", strings.Join(names, ", "), err)
+	}
+	p.Contour, p.Clean = contour, rep
+
+	var fo geometry.FitOptions
+	switch {
+	case s.Noise == nil:
+	case *s.Noise == 0:
+		fo.Exact = true
+	default:
+		if diag := contourDiagonal(contour); *s.Noise > maxNoiseFraction*diag {
+			return nil, fmt.Errorf("noise %g %s: %w (the points span %.4g %s)", *s.Noise, cloud.Units, ErrNoiseTooLarge, diag, cloud.Units)
+		}
+		fo.Noise = *s.Noise
+	}
+	if s.FitTol != nil {
+		fo.Tolerance = *s.FitTol
+	}
+	curve, fit, err := geometry.Fit(contour, fo)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", strings.Join(names, ", "), err)
+	}
+	p.Curve, p.Fit = curve, fit
+
+	eo := geometry.EdgeOptions{TE: s.TE, Mirror: s.Mirror}
+	if s.TEBlend != nil {
+		eo.Blend = *s.TEBlend
+	}
+	if s.LEAt != nil {
+		at := geometry.Point{X: s.LEAt[0], Y: s.LEAt[1]}
+		if plane != nil {
+			// The user gives the leading edge in the part's own 3D frame
+			// only as 2D plane coordinates; nothing to convert.
+			_ = plane
+		}
+		eo.LEAt = &at
+	}
+	shape, err := geometry.Normalize(curve, eo)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", strings.Join(names, ", "), err)
+	}
+	p.Shape = shape
+
+	rp := repanel.Options{Spacing: s.Spacing}
+	if s.Panels != nil {
+		rp.Panels = *s.Panels
+	}
+	if s.LECluster != nil {
+		rp.LECluster = *s.LECluster
+	}
+	if s.TECluster != nil {
+		rp.TECluster = *s.TECluster
+	}
+	if s.CurvatureWeight != nil {
+		rp.CurvatureWeight = *s.CurvatureWeight
+	}
+	ss, le, err := repanel.Stations(shape.Path, shape.SLE, rp)
+	if err != nil {
+		return nil, err
+	}
+	nodes := make([]geometry.Point, len(ss))
+	for i, sv := range ss {
+		nodes[i] = shape.Path.At(sv)
+	}
+	nodes[le] = geometry.Point{}
+	if i, j, crossed := geometry.FirstCrossing(nodes); crossed {
+		return nil, fmt.Errorf("%s: %w: panels %d and %d cross", strings.Join(names, ", "), geometry.ErrSelfIntersecting, i, j)
+	}
+	p.Quality = repanel.Measure(nodes)
+
+	props, camber, err := geometry.ComputeProperties(shape.Path, shape.SLE, geometry.PropertyOptions{Thickness: s.ThicknessMode, Camber: s.CamberMode})
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", strings.Join(names, ", "), err)
+	}
+	p.Props, p.Camber = props, camber
+
+	frame := shape.Frame
+	frame.Plane = plane
+	te := shape.TE
+	spacing := rp.Spacing
+	if spacing == "" {
+		spacing = repanel.LawCosine
+	}
+	sec := &geometry.Section{
+		Format: geometry.SectionFormat,
+		Name:   name,
+		Units:  cloud.Units,
+		Source: &geometry.SourceInfo{
+			Files: names, SHA256: sums,
+			PointsRead: read, PointsUsed: contour.Len(),
+			Dropped: droppedOf(rep),
+		},
+		Frame:        &frame,
+		Fit:          fit.Summary(),
+		TrailingEdge: &te,
+		LEIndex:      &le,
+		Panels: &geometry.PanelSummary{
+			Count: len(nodes) - 1, Spacing: spacing,
+			MaxRatio: p.Quality.MaxRatio, MaxTurnDeg: p.Quality.MaxTurnDeg,
+		},
+		Properties: &props.Properties,
+		Nodes:      nodes,
+	}
+	for _, c := range p.Clouds {
+		for _, n := range c.Notes {
+			if strings.HasPrefix(n.Reason, "warning") {
+				sec.Warnings = append(sec.Warnings, n.Origin.String()+": "+n.Reason)
+			}
+		}
+	}
+	sec.Warnings = append(sec.Warnings, fit.Warnings...)
+	if len(fit.Beyond) > 0 {
+		list := make([]string, 0, len(fit.Beyond))
+		for _, o := range fit.Beyond {
+			list = append(list, o.String())
+		}
+		sec.Warnings = append(sec.Warnings, fmt.Sprintf("listed, not moved: %s", strings.Join(list, ", ")))
+	}
+	sec.Warnings = append(sec.Warnings, shape.Warnings...)
+	sec.Warnings = append(sec.Warnings, p.Quality.Warnings...)
+	p.Section = sec
+	return p, nil
+}
+
+// readOptions turns the reading settings into geometry.ReadOptions.
+func readOptions(s PrepSettings) (geometry.ReadOptions, error) {
+	ro := geometry.ReadOptions{Format: s.Format, Columns: s.Columns}
+	if s.Units != "" {
+		u, err := geometry.ParseUnit(s.Units)
+		if err != nil {
+			return ro, err
+		}
+		ro.Units = u
+	}
+	if s.Cut != "" {
+		pl, err := geometry.ParsePlane(s.Cut)
+		if err != nil {
+			return ro, err
+		}
+		ro.Cut = &pl
+	}
+	return ro, nil
+}
+
+// mergeCloud appends the points of c to all. The result is unordered when
+// it holds more than one file.
+func mergeCloud(all, c *geometry.Cloud) {
+	if all.Len() == 0 {
+		*all = *c
+		all.Points = append([]geometry.Vec3(nil), c.Points...)
+		all.Origins = append([]geometry.Origin(nil), c.Origins...)
+		all.Notes = append([]geometry.Note(nil), c.Notes...)
+		all.Segments = nil
+		return
+	}
+	all.Points = append(all.Points, c.Points...)
+	all.Origins = append(all.Origins, c.Origins...)
+	all.Notes = append(all.Notes, c.Notes...)
+	all.Ordered = false
+	if c.Dim > all.Dim {
+		all.Dim = c.Dim
+	}
+}
+
+// contourDiagonal returns the diagonal of the bounding box of c.
+func contourDiagonal(c *geometry.Contour) float64 {
+	lo := geometry.Point{X: math.Inf(1), Y: math.Inf(1)}
+	hi := geometry.Point{X: math.Inf(-1), Y: math.Inf(-1)}
+	for _, p := range c.Points {
+		lo.X, lo.Y = math.Min(lo.X, p.X), math.Min(lo.Y, p.Y)
+		hi.X, hi.Y = math.Max(hi.X, p.X), math.Max(hi.Y, p.Y)
+	}
+	return hi.Dist(lo)
+}
+
+// droppedOf lists every input point that is not in the contour: merged
+// duplicates, outliers and stray points.
+func droppedOf(rep *geometry.CleanReport) []geometry.Dropped {
+	out := []geometry.Dropped{}
+	for _, m := range rep.Merged {
+		out = append(out, geometry.Dropped{File: m.Dropped.File, Line: m.Dropped.Line, Entity: m.Dropped.Entity,
+			Reason: fmt.Sprintf("duplicate of %s (%.3g apart)", m.Kept, m.Distance)})
+	}
+	for _, d := range rep.Dropped {
+		if d.Kept {
+			continue
+		}
+		reason := d.Reason
+		if d.Sigmas > 0 {
+			reason = fmt.Sprintf("%s: %.3g off the local fit (%.1f robust sigmas)", d.Reason, d.Distance, d.Sigmas)
+		}
+		out = append(out, geometry.Dropped{File: d.Origin.File, Line: d.Origin.Line, Entity: d.Origin.Entity, Reason: reason})
+	}
+	return out
+}
+
+// Chain is the Preparer of the real geometry chain, for Run.
+type Chain struct{}
+
+// Prepare makes the section document of one input.
+func (Chain) Prepare(ctx context.Context, in Input, s PrepSettings) (Prepared, error) {
+	if err := ctx.Err(); err != nil {
+		return Prepared{}, err
+	}
+	p, err := Prepare(in.Section, in.Files, s)
+	if err != nil {
+		return Prepared{}, err
+	}
+	doc, err := geometry.EncodeSection(p.Section)
+	if err != nil {
+		return Prepared{}, err
+	}
+	var sum strings.Builder
+	p.WriteSummary(&sum)
+	return Prepared{Section: doc, Summary: sum.String()}, nil
+}
+
+// WriteSummary writes a short human summary of the preparation: what was
+// read and dropped, the fit, the frame, the trailing edge, the panels, the
+// main properties and the warnings.
+func (p *Preparation) WriteSummary(w io.Writer) {
+	s := p.Section
+	u := string(s.Units)
+	notes := 0
+	for _, c := range p.Clouds {
+		notes += len(c.Notes)
+	}
+	files := make([]string, len(s.Source.Files))
+	for i, f := range s.Source.Files {
+		files[i] = filepath.Base(f)
+	}
+	fmt.Fprintf(w, "%s: %d points read from %s (%d lines skipped), %d used, %d dropped\n",
+		s.Name, s.Source.PointsRead, strings.Join(files, ", "), notes, s.Source.PointsUsed, len(s.Source.Dropped))
+	const maxListed = 12
+	for i, d := range s.Source.Dropped {
+		if i == maxListed {
+			fmt.Fprintf(w, "  ... and %d more (see the section document)\n", len(s.Source.Dropped)-maxListed)
+			break
+		}
+		at := geometry.Origin{File: filepath.Base(d.File), Line: d.Line, Entity: d.Entity}
+		fmt.Fprintf(w, "  dropped %s: %s\n", at, d.Reason)
+	}
+	if f := p.Flatness; f != nil {
+		fmt.Fprintf(w, "  plane       %d points kept, %d outside the band; flatness RMS %.3g %s, max %.3g %s\n", f.Kept, f.Outside, f.RMS, u, f.Max, u)
+	}
+	if len(p.Clean.Loops) > 1 {
+		fmt.Fprintf(w, "  loops       %d found; the section is the one of largest area unless told\n", len(p.Clean.Loops))
+	}
+	fmt.Fprintf(w, "  fit         %s smoothing spline, RMS %.3g %s, max %.3g %s at %s", s.Fit.Method, s.Fit.RMS, u, s.Fit.Max, u, shortOrigin(s.Fit.MaxAt))
+	if s.Fit.NoiseEstimate > 0 {
+		fmt.Fprintf(w, "; noise estimate %.3g %s", s.Fit.NoiseEstimate, u)
+	}
+	fmt.Fprintln(w)
+	mirrored := "not mirrored"
+	if s.Frame.Mirrored {
+		mirrored = "mirrored"
+	}
+	fmt.Fprintf(w, "  frame       chord %.5g %s, twist %.3f° nose-up, LE at (%.5g, %.5g) %s, %s\n", s.Frame.Chord, u, s.Frame.TwistDeg, s.Frame.LE[0], s.Frame.LE[1], u, mirrored)
+	te := s.TrailingEdge
+	fmt.Fprintf(w, "  trailing    %s, thickness %.4g c, %s", te.Kind, te.Thickness, te.Action)
+	if te.MaxShift > 0 {
+		fmt.Fprintf(w, " (largest shift %.3g %s)", te.MaxShift, u)
+	}
+	fmt.Fprintln(w)
+	fmt.Fprintf(w, "  panels      %d (%s), largest length ratio %.2f, largest turn %.1f°\n", s.Panels.Count, s.Panels.Spacing, s.Panels.MaxRatio, s.Panels.MaxTurnDeg)
+	pr := s.Properties
+	fmt.Fprintf(w, "  thickness   %.4f c at x = %.3f (%s)\n", pr.Thickness, pr.ThicknessAt, thicknessWords(p.Props.ThicknessMode))
+	fmt.Fprintf(w, "  camber      %.4f c at x = %.3f (%s)\n", pr.Camber, pr.CamberAt, p.Props.CamberMode)
+	fmt.Fprintf(w, "  LE radius   %.4f c; TE angle %.1f°; area %.5f c²\n", pr.LERadius, pr.TEAngleDeg, pr.Area)
+	for _, warn := range s.Warnings {
+		fmt.Fprintf(w, "  warning: %s\n", warn)
+	}
+}
+
+func thicknessWords(mode string) string {
+	if mode == geometry.ThicknessCamber {
+		return "normal to the camber line"
+	}
+	return "perpendicular to the chord line"
+}
+
+// shortOrigin trims the folder from "folder/file:line".
+func shortOrigin(s string) string {
+	if i := strings.LastIndexAny(s, `/\`); i >= 0 {
+		return s[i+1:]
+	}
+	return s
+}
