@@ -71,7 +71,8 @@ type FitReport struct {
 	RMS, Max        float64 // RMS and largest |Residual|
 	// NoiseEstimate is the noise the residuals imply, RMS·√(n/(n − tr H)):
 	// smaller residuals than the noise are expected, since the curve takes
-	// up tr H of the n degrees of freedom. 0 for interpolation.
+	// up tr H of the n degrees of freedom. 0 for interpolation, and when
+	// the curve takes up more than 90 % of the freedom.
 	NoiseEstimate float64
 	MaxAt         Origin // where the largest residual is
 	// S[i] and Residual[i] belong to point i of the contour: the arc length
@@ -363,8 +364,10 @@ func Fit(c *Contour, opts FitOptions) (*Curve, *FitReport, error) {
 			break
 		}
 	}
-	if !opts.Exact && rep.EffectiveParams < float64(len(pts)) {
-		rep.NoiseEstimate = rep.RMS / math.Sqrt(1-rep.EffectiveParams/float64(len(pts)))
+	// The estimate means little when the curve takes up nearly all the
+	// freedom of the points (nearly interpolating): then it is left at 0.
+	if dof := 1 - rep.EffectiveParams/float64(len(pts)); !opts.Exact && dof >= 0.1 {
+		rep.NoiseEstimate = rep.RMS / math.Sqrt(dof)
 	}
 	rep.Beyond = nil
 	if rep.Tolerance > 0 {

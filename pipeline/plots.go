@@ -40,10 +40,12 @@ func (p *Preparation) PrepData() plot.PrepData {
 // thickness distribution and leading-edge circle, in chord units.
 func (p *Preparation) SectionData() plot.SectionData {
 	d := plot.SectionData{
-		Name:     p.Section.Name,
-		Nodes:    p.Section.Nodes,
-		LECentre: p.Props.LECenter,
-		LERadius: p.Props.LERadius,
+		Name:         p.Section.Name,
+		Nodes:        p.Section.Nodes,
+		LECentre:     p.Props.LECenter,
+		LERadius:     p.Props.LERadius,
+		MaxThickness: geometry.Point{X: p.Props.ThicknessAt, Y: p.Props.Thickness},
+		MaxCamber:    geometry.Point{X: p.Props.CamberAt, Y: p.Props.Camber},
 	}
 	if c := p.Camber; c != nil {
 		for i, x := range c.X {

@@ -45,21 +45,34 @@ type Preparation struct {
 	Quality  repanel.Quality
 }
 
-// Prepare runs the whole geometry chain on the files of one section: read,
-// flatten 3D points onto their plane, merge, order and clean, fit, locate
-// the edges and normalise, repanel, and compute the properties. Every error
-// comes from the data or the settings and names the file where there is one.
-func Prepare(name string, files []InputFile, s PrepSettings) (*Preparation, error) {
+// Cleaned is what the first half of the geometry chain made of a
+// section's files: the clouds read, the flatness of 3D points and their
+// plane, and the clean, ordered contour with its report.
+type Cleaned struct {
+	Clouds   []*geometry.Cloud
+	Flatness *geometry.Flatness
+	Plane    *geometry.Plane // the plane of 3D points; nil for 2D input
+	Clean    *geometry.CleanReport
+	Contour  *geometry.Contour
+	Units    geometry.Unit
+	Files    []string // display names
+	SHA256   []string // hex digests of the files' bytes
+	Read     int      // points read from all files
+}
+
+// ReadAndClean runs the first half of the geometry chain on the files of
+// one section: read, flatten 3D points onto their plane, merge duplicates,
+// order into loops, pick the section loop and drop gross outliers.
+func ReadAndClean(files []InputFile, s PrepSettings) (*Cleaned, error) {
 	if len(files) == 0 {
-		return nil, fmt.Errorf("section %q: no input files", name)
+		return nil, errors.New("no input files")
 	}
 	ro, err := readOptions(s)
 	if err != nil {
 		return nil, err
 	}
-	p := &Preparation{}
+	out := &Cleaned{}
 	var all geometry.Cloud
-	var names, sums []string
 	for _, f := range files {
 		c, err := geometry.Read(bytes.NewReader(f.Data), f.Path, ro)
 		if err != nil {
@@ -69,21 +82,21 @@ func Prepare(name string, files []InputFile, s PrepSettings) (*Preparation, erro
 			return nil, fmt.Errorf("%s: %w", f.Path, ErrNoUnits)
 		}
 		if all.Units != "" && c.Units != all.Units {
-			return nil, fmt.Errorf("%s: units %s differ from %s of %s", f.Path, c.Units, all.Units, names[0])
+			return nil, fmt.Errorf("%s: units %s differ from %s of %s", f.Path, c.Units, all.Units, out.Files[0])
 		}
-		p.Clouds = append(p.Clouds, c)
+		out.Clouds = append(out.Clouds, c)
 		sum := sha256.Sum256(f.Data)
-		names = append(names, f.Path)
-		sums = append(sums, hex.EncodeToString(sum[:]))
+		out.Files = append(out.Files, f.Path)
+		out.SHA256 = append(out.SHA256, hex.EncodeToString(sum[:]))
 		mergeCloud(&all, c)
 	}
 	cloud := &all
-	if len(p.Clouds) == 1 {
-		cloud = p.Clouds[0]
+	if len(out.Clouds) == 1 {
+		cloud = out.Clouds[0]
 	}
-	read := cloud.Len()
+	out.Read, out.Units = cloud.Len(), cloud.Units
+	where := strings.Join(out.Files, ", ")
 
-	var plane *geometry.Plane
 	if cloud.Dim == 3 {
 		fo := geometry.FlattenOptions{Plane: ro.Cut}
 		if s.Band != nil {
@@ -94,9 +107,9 @@ func Prepare(name string, files []InputFile, s PrepSettings) (*Preparation, erro
 		}
 		flat, fl, err := geometry.Flatten(cloud, fo)
 		if err != nil {
-			return nil, fmt.Errorf("%s: %w", strings.Join(names, ", "), err)
+			return nil, fmt.Errorf("%s: %w", where, err)
 		}
-		cloud, p.Flatness, plane = flat, &fl, &fl.Plane
+		cloud, out.Flatness, out.Plane = flat, &fl, &fl.Plane
 	}
 
 	var co geometry.CleanOptions
@@ -114,9 +127,23 @@ func Prepare(name string, files []InputFile, s PrepSettings) (*Preparation, erro
 	}
 	contour, rep, err := geometry.Clean(cloud, co)
 	if err != nil {
-		return nil, fmt.Errorf("%s: %w", strings.Join(names, ", "), err)
+		return nil, fmt.Errorf("%s: %w", where, err)
 	}
-	p.Contour, p.Clean = contour, rep
+	out.Contour, out.Clean = contour, rep
+	return out, nil
+}
+
+// Prepare runs the whole geometry chain on the files of one section:
+// ReadAndClean, then fit, locate the edges and normalise, repanel, and
+// compute the properties. Every error comes from the data or the settings
+// and names the file where there is one.
+func Prepare(name string, files []InputFile, s PrepSettings) (*Preparation, error) {
+	cl, err := ReadAndClean(files, s)
+	if err != nil {
+		return nil, err
+	}
+	p := &Preparation{Clouds: cl.Clouds, Flatness: cl.Flatness, Clean: cl.Clean, Contour: cl.Contour}
+	contour, rep, plane, names := cl.Contour, cl.Clean, cl.Plane, cl.Files
 
 	var fo geometry.FitOptions
 	switch {
@@ -125,7 +152,7 @@ func Prepare(name string, files []InputFile, s PrepSettings) (*Preparation, erro
 		fo.Exact = true
 	default:
 		if diag := contourDiagonal(contour); *s.Noise > maxNoiseFraction*diag {
-			return nil, fmt.Errorf("noise %g %s: %w (the points span %.4g %s)", *s.Noise, cloud.Units, ErrNoiseTooLarge, diag, cloud.Units)
+			return nil, fmt.Errorf("noise %g %s: %w (the points span %.4g %s)", *s.Noise, cl.Units, ErrNoiseTooLarge, diag, cl.Units)
 		}
 		fo.Noise = *s.Noise
 	}
@@ -144,11 +171,6 @@ func Prepare(name string, files []InputFile, s PrepSettings) (*Preparation, erro
 	}
 	if s.LEAt != nil {
 		at := geometry.Point{X: s.LEAt[0], Y: s.LEAt[1]}
-		if plane != nil {
-			// The user gives the leading edge in the part's own 3D frame
-			// only as 2D plane coordinates; nothing to convert.
-			_ = plane
-		}
 		eo.LEAt = &at
 	}
 	shape, err := geometry.Normalize(curve, eo)
@@ -200,10 +222,10 @@ func Prepare(name string, files []InputFile, s PrepSettings) (*Preparation, erro
 	sec := &geometry.Section{
 		Format: geometry.SectionFormat,
 		Name:   name,
-		Units:  cloud.Units,
+		Units:  cl.Units,
 		Source: &geometry.SourceInfo{
-			Files: names, SHA256: sums,
-			PointsRead: read, PointsUsed: contour.Len(),
+			Files: names, SHA256: cl.SHA256,
+			PointsRead: cl.Read, PointsUsed: contour.Len(),
 			Dropped: droppedOf(rep),
 		},
 		Frame:        &frame,

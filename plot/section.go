@@ -20,6 +20,10 @@ type SectionData struct {
 	Thickness []geometry.Point // thickness distribution (x, t(x)) in x order; nil draws none
 	LECentre  geometry.Point   // centre of the inscribed leading-edge circle
 	LERadius  float64          // its radius; 0 draws no circle
+	// MaxThickness and MaxCamber, when their value is not zero, mark the
+	// maxima the section document reports (x, value) instead of the largest
+	// sample of the drawn lines, so the picture and the report agree.
+	MaxThickness, MaxCamber geometry.Point
 }
 
 // SectionFrom returns the drawing data of a section document: its name,
@@ -98,13 +102,14 @@ func SectionPlot(d SectionData) (*Figure, error) {
 	var ranged []float64
 	for _, s := range []struct {
 		pts   []geometry.Point
+		max   geometry.Point
 		name  string
 		col   int
 		dash  []vg.Length
 		glyph draw.GlyphDrawer
 	}{
-		{d.Thickness, "thickness", 0, nil, draw.CircleGlyph{}},
-		{d.Camber, "camber", 1, seriesDashes[1], draw.SquareGlyph{}},
+		{d.Thickness, d.MaxThickness, "thickness", 0, nil, draw.CircleGlyph{}},
+		{d.Camber, d.MaxCamber, "camber", 1, seriesDashes[1], draw.SquareGlyph{}},
 	} {
 		if len(s.pts) < 2 {
 			continue
@@ -120,6 +125,9 @@ func SectionPlot(d SectionData) (*Figure, error) {
 			}
 		}
 		m := plotter.XYs{pts[im]}
+		if s.max.Y != 0 && s.max.IsFinite() {
+			m = plotter.XYs{{X: s.max.X, Y: s.max.Y}}
+		}
 		sc := newScatter(m, glyphStyle(seriesColour(s.col), s.glyph, 3))
 		bottom.Add(sc)
 		bottom.Legend.Add(fmt.Sprintf("%s, max %.4g at x/c %.3g", s.name, m[0].Y, m[0].X), l, sc)

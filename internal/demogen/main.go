@@ -236,7 +236,7 @@ func writeDXF(w io.Writer) error {
 	}
 	pts = append(pts, geometry.Point{})
 	for i := 1; i <= n; i++ {
-		pts = append(pts, foil.Lower(math.Sqrt(float64(i)/float64(n))))
+		pts = append(pts, foil.Lower(math.Pow(float64(i)/float64(n), 1.5)))
 	}
 	pts = append(pts, pts[len(pts)-1]) // the exporter repeats the closing point
 	bw := bufio.NewWriter(w)
