@@ -226,7 +226,7 @@ func Prepare(name string, files []InputFile, s PrepSettings) (*Preparation, erro
 		Source: &geometry.SourceInfo{
 			Files: names, SHA256: cl.SHA256,
 			PointsRead: cl.Read, PointsUsed: contour.Len(),
-			Dropped: droppedOf(rep),
+			Dropped: DroppedOf(rep),
 		},
 		Frame:        &frame,
 		Fit:          fit.Summary(),
@@ -311,9 +311,9 @@ func contourDiagonal(c *geometry.Contour) float64 {
 	return hi.Dist(lo)
 }
 
-// droppedOf lists every input point that is not in the contour: merged
+// DroppedOf lists every input point that is not in the contour: merged
 // duplicates, outliers and stray points.
-func droppedOf(rep *geometry.CleanReport) []geometry.Dropped {
+func DroppedOf(rep *geometry.CleanReport) []geometry.Dropped {
 	out := []geometry.Dropped{}
 	for _, m := range rep.Merged {
 		out = append(out, geometry.Dropped{File: m.Dropped.File, Line: m.Dropped.Line, Entity: m.Dropped.Entity,
