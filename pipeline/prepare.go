@@ -384,27 +384,55 @@ func (p *Preparation) WriteSummary(w io.Writer) {
 	if len(p.Clean.Loops) > 1 {
 		fmt.Fprintf(w, "  loops       %d found; the section is the one of largest area unless told\n", len(p.Clean.Loops))
 	}
-	fmt.Fprintf(w, "  fit         %s smoothing spline, RMS %.3g %s, max %.3g %s at %s", s.Fit.Method, s.Fit.RMS, u, s.Fit.Max, u, shortOrigin(s.Fit.MaxAt))
-	if s.Fit.NoiseEstimate > 0 {
-		fmt.Fprintf(w, "; noise estimate %.3g %s", s.Fit.NoiseEstimate, u)
+	WriteSectionReport(w, s, p.Props.ThicknessMode, p.Props.CamberMode)
+}
+
+// WriteSectionReport writes what a section document records: fit, frame,
+// trailing edge, panels, properties and warnings, one topic a line. The
+// modes name how thickness and camber were measured ("" when unknown).
+func WriteSectionReport(w io.Writer, s *geometry.Section, thicknessMode, camberMode string) {
+	u := string(s.Units)
+	if f := s.Fit; f != nil && f.Method == geometry.FitInterpolate {
+		fmt.Fprintf(w, "  fit         interpolating spline through every kept point\n")
+	} else if f != nil {
+		fmt.Fprintf(w, "  fit         %s smoothing spline, RMS %.3g %s, max %.3g %s at %s", f.Method, f.RMS, u, f.Max, u, shortOrigin(f.MaxAt))
+		if f.NoiseEstimate > 0 {
+			fmt.Fprintf(w, "; noise estimate %.3g %s", f.NoiseEstimate, u)
+		}
+		fmt.Fprintln(w)
 	}
-	fmt.Fprintln(w)
-	mirrored := "not mirrored"
-	if s.Frame.Mirrored {
-		mirrored = "mirrored"
+	if fr := s.Frame; fr != nil {
+		mirrored := "not mirrored"
+		if fr.Mirrored {
+			mirrored = "mirrored"
+		}
+		fmt.Fprintf(w, "  frame       chord %.5g %s, twist %.3f° nose-up, LE at (%.5g, %.5g) %s, %s\n", fr.Chord, u, fr.TwistDeg, fr.LE[0], fr.LE[1], u, mirrored)
 	}
-	fmt.Fprintf(w, "  frame       chord %.5g %s, twist %.3f° nose-up, LE at (%.5g, %.5g) %s, %s\n", s.Frame.Chord, u, s.Frame.TwistDeg, s.Frame.LE[0], s.Frame.LE[1], u, mirrored)
-	te := s.TrailingEdge
-	fmt.Fprintf(w, "  trailing    %s, thickness %.4g c, %s", te.Kind, te.Thickness, te.Action)
-	if te.MaxShift > 0 {
-		fmt.Fprintf(w, " (largest shift %.3g %s)", te.MaxShift, u)
+	if te := s.TrailingEdge; te != nil {
+		fmt.Fprintf(w, "  trailing    %s, thickness %.4g c, %s", te.Kind, te.Thickness, te.Action)
+		if te.MaxShift > 0 {
+			fmt.Fprintf(w, " (largest shift %.3g %s)", te.MaxShift, u)
+		}
+		fmt.Fprintln(w)
 	}
-	fmt.Fprintln(w)
-	fmt.Fprintf(w, "  panels      %d (%s), largest length ratio %.2f, largest turn %.1f°\n", s.Panels.Count, s.Panels.Spacing, s.Panels.MaxRatio, s.Panels.MaxTurnDeg)
-	pr := s.Properties
-	fmt.Fprintf(w, "  thickness   %.4f c at x = %.3f (%s)\n", pr.Thickness, pr.ThicknessAt, thicknessWords(p.Props.ThicknessMode))
-	fmt.Fprintf(w, "  camber      %.4f c at x = %.3f (%s)\n", pr.Camber, pr.CamberAt, p.Props.CamberMode)
-	fmt.Fprintf(w, "  LE radius   %.4f c; TE angle %.1f°; area %.5f c²\n", pr.LERadius, pr.TEAngleDeg, pr.Area)
+	if pn := s.Panels; pn != nil {
+		fmt.Fprintf(w, "  panels      %d (%s), largest length ratio %.2f, largest turn %.1f°\n", pn.Count, pn.Spacing, pn.MaxRatio, pn.MaxTurnDeg)
+	}
+	if pr := s.Properties; pr != nil {
+		fmt.Fprintf(w, "  thickness   %.4f c at x = %.3f", pr.Thickness, pr.ThicknessAt)
+		if thicknessMode != "" {
+			fmt.Fprintf(w, " (%s)", thicknessWords(thicknessMode))
+		}
+		if math.Abs(pr.Camber) < 5e-5 {
+			fmt.Fprintf(w, "\n  camber      none (symmetric within 0.00005 c)")
+		} else {
+			fmt.Fprintf(w, "\n  camber      %.4f c at x = %.3f", pr.Camber, pr.CamberAt)
+		}
+		if camberMode != "" {
+			fmt.Fprintf(w, " (%s)", camberMode)
+		}
+		fmt.Fprintf(w, "\n  LE radius   %.4f c; TE angle %.1f°; area %.5f c²\n", pr.LERadius, pr.TEAngleDeg, pr.Area)
+	}
 	for _, warn := range s.Warnings {
 		fmt.Fprintf(w, "  warning: %s\n", warn)
 	}

@@ -63,6 +63,7 @@ from them.`,
 	}
 	root.CompletionOptions.HiddenDefaultCmd = false
 	for _, c := range []*cobra.Command{
+		newInspectCmd(),
 		newPointsCmd(),
 		newPrepCmd(),
 		newShapeCmd(),

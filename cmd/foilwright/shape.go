@@ -145,6 +145,21 @@ func parsePair(s string) (geometry.Point, error) {
 	return geometry.Point{X: v[0], Y: v[1]}, nil
 }
 
+// setProperties computes the properties of s from its nodes (through the
+// interpolating spline of the nodes).
+func setProperties(s *geometry.Section) error {
+	cv, sle, err := geometry.NodeCurve(s.Nodes)
+	if err != nil {
+		return err
+	}
+	pr, _, err := geometry.ComputeProperties(cv, sle, geometry.PropertyOptions{})
+	if err != nil {
+		return err
+	}
+	s.Properties = &pr.Properties
+	return nil
+}
+
 // setPanels records the panel count, spacing law and quality of s.Nodes,
 // and the quality warnings.
 func setPanels(s *geometry.Section, spacing string) {
@@ -163,6 +178,9 @@ func checkPanels(n int) error {
 
 // writeShape writes the section document and, if asked, the node listing.
 func writeShape(stdout io.Writer, opts *shapeOptions, s *geometry.Section) error {
+	if err := setProperties(s); err != nil {
+		return err
+	}
 	if err := writeOutput(stdout, opts.out, func(w io.Writer) error { return geometry.WriteSection(w, s) }); err != nil {
 		return err
 	}
