@@ -1,12 +1,16 @@
 package pipeline
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"strconv"
 	"strings"
 
 	"github.com/tidwall/gjson"
+
+	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/repanel"
 )
 
 // PrepSettings are the prep options of one section, named and typed as the
@@ -59,6 +63,7 @@ type prepKey struct {
 var (
 	positive = numRange{lo: 0, hi: math.Inf(1), loOpen: true}
 	nonNeg   = numRange{lo: 0, hi: math.Inf(1)}
+	cluster  = numRange{lo: -repanel.ClusterLimit, hi: repanel.ClusterLimit}
 	unit     = numRange{lo: 0, hi: 1}
 )
 
@@ -166,8 +171,8 @@ var prepKeys = []prepKey{
 		}
 	}},
 	enumKey("spacing", false, func(s *PrepSettings) *string { return &s.Spacing }, "cosine", "half-cosine", "uniform", "curvature"),
-	numKey("le_cluster", false, unit, func(s *PrepSettings) **float64 { return &s.LECluster }),
-	numKey("te_cluster", false, unit, func(s *PrepSettings) **float64 { return &s.TECluster }),
+	numKey("le_cluster", false, cluster, func(s *PrepSettings) **float64 { return &s.LECluster }),
+	numKey("te_cluster", false, cluster, func(s *PrepSettings) **float64 { return &s.TECluster }),
 	numKey("curvature_weight", false, unit, func(s *PrepSettings) **float64 { return &s.CurvatureWeight }),
 	enumKey("thickness_mode", false, func(s *PrepSettings) *string { return &s.ThicknessMode }, "chord", "camber"),
 	enumKey("camber_mode", false, func(s *PrepSettings) *string { return &s.CamberMode }, "mean", "inscribed"),
@@ -236,51 +241,12 @@ func checkColumns(s string) error {
 	return nil
 }
 
-// checkCut checks a cutting plane: "x=V", "y=V" or "z=V", or a point and a
-// normal "px,py,pz:nx,ny,nz" with a non-zero normal.
+// checkCut checks a cutting plane with the reader's own parser.
 func checkCut(s string) error {
-	if axis, val, ok := strings.Cut(s, "="); ok {
-		switch strings.TrimSpace(axis) {
-		case "x", "y", "z":
-		default:
-			return fmt.Errorf("want x=, y= or z= before the value, got %q", s)
-		}
-		if _, err := finite(val); err != nil {
-			return fmt.Errorf("plane %q: %v", s, err)
-		}
-		return nil
-	}
-	p, n, ok := strings.Cut(s, ":")
-	if !ok {
-		return fmt.Errorf(`want "z=240" or "px,py,pz:nx,ny,nz", got %q`, s)
-	}
-	if _, err := triple(p); err != nil {
-		return fmt.Errorf("plane %q: point: %v", s, err)
-	}
-	v, err := triple(n)
-	if err != nil {
-		return fmt.Errorf("plane %q: normal: %v", s, err)
-	}
-	if v[0] == 0 && v[1] == 0 && v[2] == 0 {
-		return fmt.Errorf("plane %q: normal is zero", s)
+	if _, err := geometry.ParsePlane(s); err != nil {
+		return errors.New(strings.TrimPrefix(err.Error(), "geometry: "))
 	}
 	return nil
-}
-
-func triple(s string) ([3]float64, error) {
-	var v [3]float64
-	parts := strings.Split(s, ",")
-	if len(parts) != 3 {
-		return v, fmt.Errorf("want 3 numbers, got %d", len(parts))
-	}
-	for i, p := range parts {
-		x, err := finite(p)
-		if err != nil {
-			return v, err
-		}
-		v[i] = x
-	}
-	return v, nil
 }
 
 func finite(s string) (float64, error) {
