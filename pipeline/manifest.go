@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"path/filepath"
 	"strconv"
 
 	"github.com/foilwright/foilwright/internal/atomicfile"
@@ -42,7 +43,7 @@ type Tool struct {
 
 // PipelineRef identifies the pipeline file of a run.
 type PipelineRef struct {
-	File   string `json:"file"` // absolute path
+	File   string `json:"file"` // relative to the manifest's folder (or absolute)
 	Name   string `json:"name"`
 	SHA256 string `json:"sha256"`
 }
@@ -101,11 +102,20 @@ type StageTiming struct {
 	S  float64 `json:"s"`
 }
 
-func newManifest(pl *Plan, infos []StageInfo, results []sectionResult, interrupted bool) *Manifest {
+func newManifest(pl *Plan, folder string, infos []StageInfo, results []sectionResult, interrupted bool) *Manifest {
 	p := pl.Pipeline
 	file := p.Path
 	if file == "" {
 		file = p.File
+	}
+	// Record the pipeline file relative to the run folder, so that a run
+	// folder moved together with its inputs (a fresh clone) still verifies.
+	if abs, err := filepath.Abs(file); err == nil {
+		if af, err := filepath.Abs(folder); err == nil {
+			if rel, err := filepath.Rel(af, abs); err == nil {
+				file = filepath.ToSlash(rel)
+			}
+		}
 	}
 	m := &Manifest{
 		Format:      ManifestFormat,

@@ -348,9 +348,21 @@ func (Chain) Prepare(ctx context.Context, in Input, s PrepSettings) (Prepared, e
 	if err != nil {
 		return Prepared{}, err
 	}
-	var sum strings.Builder
-	p.WriteSummary(&sum)
-	return Prepared{Section: doc, Summary: sum.String()}, nil
+	return Prepared{Section: doc, Summary: p.OneLine()}, nil
+}
+
+// OneLine returns a one-line summary of the preparation: chord, twist,
+// fit, trailing edge, thickness and what was dropped.
+func (p *Preparation) OneLine() string {
+	s := p.Section
+	u := s.Units
+	line := fmt.Sprintf("chord %.5g %s, twist %.2f°, fit RMS %.3g %s, TE %s, t/c %.4f at %.3f, %d of %d points used",
+		s.Frame.Chord, u, s.Frame.TwistDeg, s.Fit.RMS, u, s.TrailingEdge.Kind, s.Properties.Thickness, s.Properties.ThicknessAt,
+		s.Source.PointsUsed, s.Source.PointsRead)
+	if n := len(s.Warnings); n > 0 {
+		line += fmt.Sprintf(", %d warning(s)", n)
+	}
+	return line
 }
 
 // WriteSummary writes a short human summary of the preparation: what was

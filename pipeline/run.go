@@ -259,7 +259,7 @@ feed:
 		}
 		sum.Sections = append(sum.Sections, results[i].report)
 	}
-	m := newManifest(pl, infos, results, cancelled)
+	m := newManifest(pl, folder, infos, results, cancelled)
 	m.Timings.Jobs = jobs
 	m.Timings.Started = start.UTC().Format(time.RFC3339)
 	m.Timings.TotalS = seconds(time.Since(start))

@@ -171,7 +171,7 @@ func TestRun(t *testing.T) {
 		}
 	}
 	pipeData, _ := os.ReadFile(path)
-	if m.Pipeline.File != path || m.Pipeline.SHA256 != hexSum(pipeData) || m.Pipeline.Name != "rotor" || m.Tool.Name != "foilwright" || m.Tool.Version == "" {
+	if filepath.Join(out, filepath.FromSlash(m.Pipeline.File)) != path || m.Pipeline.SHA256 != hexSum(pipeData) || m.Pipeline.Name != "rotor" || m.Tool.Name != "foilwright" || m.Tool.Version == "" {
 		t.Errorf("manifest head %+v %+v", m.Tool, m.Pipeline)
 	}
 	var order []string

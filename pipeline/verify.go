@@ -76,7 +76,10 @@ func Verify(ctx context.Context, path string, opts VerifyOptions) (*VerifyReport
 	}
 	file := opts.Pipeline
 	if file == "" {
-		file = m.Pipeline.File
+		file = filepath.FromSlash(m.Pipeline.File)
+		if !filepath.IsAbs(file) {
+			file = filepath.Join(filepath.Dir(path), file)
+		}
 	}
 	rep := &VerifyReport{Manifest: path, Pipeline: file}
 	data, err := os.ReadFile(file)
@@ -95,10 +98,7 @@ func Verify(ctx context.Context, path string, opts VerifyOptions) (*VerifyReport
 	if err != nil {
 		return nil, err
 	}
-	p.Path = m.Pipeline.File
-	if opts.Pipeline != "" {
-		p.Path = abs
-	}
+	p.Path = abs
 	pl := p.Plan()
 	if err := checkInputs(p, pl, m); err != nil {
 		return nil, err

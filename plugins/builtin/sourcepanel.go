@@ -29,7 +29,7 @@ var sourcePanelInfo = stage.Info{
 		Type:    stage.Boolean,
 		Default: json.RawMessage("true"),
 		Doc:     "close an open trailing edge with a straight base panel (else an open section is refused)",
-	}},
+	}, fieldParam},
 	Scalars: []stage.Scalar{
 		{Name: "panels", Doc: "number of panels, including a base panel that closes the trailing edge"},
 		{Name: "condition", Doc: "condition number estimate of the influence matrix"},
@@ -68,6 +68,10 @@ func (sourcePanel) Run(ctx context.Context, req stage.Request) (stage.Result, er
 	d.SetScalar("condition", sv.Cond())
 	worst := 0.0
 	withCp := r.v.Bool("cp")
+	g, withField, err := fieldGrid(r.v)
+	if err != nil {
+		return stage.Result{}, err
+	}
 	for i, c := range cases {
 		worst = math.Max(worst, math.Abs(c.Closure))
 		out := stage.Case{
@@ -86,6 +90,15 @@ func (sourcePanel) Run(ctx context.Context, req stage.Request) (stage.Result, er
 		}
 		for _, w := range c.Warnings {
 			d.Warnings = append(d.Warnings, fmt.Sprintf("alpha %g deg: %s", r.alphasDeg[i], w))
+		}
+		if withField {
+			out.Field = g.sample(func(p geometry.Point) (float64, float64, error) {
+				fp, err := c.Field([]geometry.Point{p})
+				if err != nil {
+					return 0, 0, err
+				}
+				return fp[0].StreamFunction, fp[0].Cp, nil
+			})
 		}
 		d.AddCase(out)
 	}

@@ -4,6 +4,7 @@ import (
 	"context"
 	"time"
 
+	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/plugins/builtin/vortexpanel"
 	"github.com/foilwright/foilwright/plugins/stage"
 )
@@ -18,7 +19,7 @@ var vortexPanelInfo = stage.Info{
 	Name:    "vortex-panel",
 	Version: Version,
 	Summary: "inviscid lift, moment and pressure by linear-strength vortex panels with the Kutta condition",
-	Params:  []stage.Param{alphaParam, cpParam},
+	Params:  []stage.Param{alphaParam, cpParam, fieldParam},
 	Scalars: []stage.Scalar{
 		{Name: "panels", Doc: "number of panels along the surface"},
 		{Name: "condition", Doc: "condition number estimate of the influence matrix"},
@@ -55,6 +56,10 @@ func (vortexPanel) Run(ctx context.Context, req stage.Request) (stage.Result, er
 	}
 	d.SetScalar("blunt", blunt)
 	withCp := r.v.Bool("cp")
+	g, withField, err := fieldGrid(r.v)
+	if err != nil {
+		return stage.Result{}, err
+	}
 	for i, c := range cases {
 		out := stage.Case{
 			AlphaDeg: r.alphasDeg[i],
@@ -72,6 +77,15 @@ func (vortexPanel) Run(ctx context.Context, req stage.Request) (stage.Result, er
 		}
 		if withCp {
 			out.Cp = cpPoints(r.section.Nodes, c.Cp)
+		}
+		if withField {
+			out.Field = g.sample(func(p geometry.Point) (float64, float64, error) {
+				fp, err := c.Field([]geometry.Point{p})
+				if err != nil {
+					return 0, 0, err
+				}
+				return fp[0].StreamFunction, fp[0].Cp, nil
+			})
 		}
 		d.AddCase(out)
 	}

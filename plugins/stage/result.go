@@ -41,6 +41,23 @@ type Case struct {
 	// Load is the chordwise load distribution of a thin-section stage,
 	// ΔCp = Cp,lower − Cp,upper along the chord.
 	Load []LoadPoint `json:"load,omitempty"`
+	// Field is the flow on a grid around the section, when asked for.
+	Field *Field `json:"field,omitempty"`
+}
+
+// Field is the flow of one case on a regular grid in chord units: point
+// (i, j) is (X0 + i·DX, Y0 + j·DY), stored row by row (j outer). Values at
+// points inside the body, or too near the surface to evaluate, are null.
+// Psi is the stream function ψ/(V∞ c), defined up to a constant.
+type Field struct {
+	X0  float64    `json:"x0"`
+	Y0  float64    `json:"y0"`
+	DX  float64    `json:"dx"`
+	DY  float64    `json:"dy"`
+	NX  int        `json:"nx"`
+	NY  int        `json:"ny"`
+	Psi []*float64 `json:"psi"`
+	Cp  []*float64 `json:"cp"`
 }
 
 // LoadPoint is the load ΔCp = Cp,lower − Cp,upper at chord station x.

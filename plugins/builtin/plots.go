@@ -1,0 +1,180 @@
+package builtin
+
+import (
+	"bytes"
+	"context"
+	"encoding/json"
+	"fmt"
+	"math"
+	"sort"
+
+	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/plot"
+	"github.com/foilwright/foilwright/plugins/stage"
+)
+
+func init() { register(plots{}) }
+
+// plots is the stage "plots": it draws the section and the results of the
+// stages it runs after (pressure distributions, Cl and Cm against α for
+// every method on one chart, streamlines where a panel stage gave a flow
+// field) and returns the pictures as artifacts. It computes nothing new.
+type plots struct{}
+
+// maxCpCases is the most angles drawn on one Cp chart.
+const maxCpCases = 5
+
+var plotsInfo = stage.Info{
+	Name:    "plots",
+	Version: Version,
+	Summary: "pictures of the section and of the results of the stages it runs after: Cp, Cl and Cm against alpha, streamlines",
+	Params: []stage.Param{
+		{Name: "format", Type: stage.String, Default: json.RawMessage(`"svg"`), Choices: []string{plot.SVG, plot.PNG}, Doc: "picture format"},
+		{Name: "section", Type: stage.Boolean, Default: json.RawMessage("true"), Doc: "draw the section (section.FORMAT)"},
+		{Name: "cp", Type: stage.Boolean, Default: json.RawMessage("true"), Doc: "draw Cp against x/c of each stage with pressures (cp-STAGEID.FORMAT), at most 5 angles each"},
+		{Name: "polar", Type: stage.Boolean, Default: json.RawMessage("true"), Doc: "draw Cl and Cm against alpha of every stage with two or more angles on one chart (polar.FORMAT)"},
+		{Name: "streamlines", Type: stage.Boolean, Default: json.RawMessage("true"), Doc: "draw the streamlines of the first case with a flow field (streamlines-STAGEID.FORMAT)"},
+	},
+	Scalars: []stage.Scalar{{Name: "figures", Doc: "number of pictures drawn"}},
+}
+
+func (plots) Describe(context.Context) (stage.Info, error) { return plotsInfo, nil }
+
+func (plots) Run(ctx context.Context, req stage.Request) (stage.Result, error) {
+	r, err := decode(plotsInfo, req)
+	if err != nil {
+		return stage.Result{}, err
+	}
+	format := r.v.String("format")
+	d := stage.NewResultDoc(plotsInfo)
+	var arts []stage.Artifact
+	add := func(name string, f *plot.Figure, err error) {
+		if err != nil {
+			d.Warnings = append(d.Warnings, fmt.Sprintf("%s: %v", name, err))
+			return
+		}
+		var buf bytes.Buffer
+		if err := plot.Write(&buf, f, format, 0, 0); err != nil {
+			d.Warnings = append(d.Warnings, fmt.Sprintf("%s: %v", name, err))
+			return
+		}
+		media := "image/svg+xml"
+		if format == plot.PNG {
+			media = "image/png"
+		}
+		arts = append(arts, stage.Artifact{Name: name + "." + format, MediaType: media, Data: buf.Bytes()})
+	}
+	if r.v.Bool("section") {
+		f, err := plot.SectionPlot(plot.SectionFrom(r.section))
+		add("section", f, err)
+	}
+	ids := make([]string, 0, len(req.Deps))
+	for id := range req.Deps {
+		ids = append(ids, id)
+	}
+	sort.Strings(ids)
+	var polars []plot.PolarSeries
+	streamDone := !r.v.Bool("streamlines")
+	for _, id := range ids {
+		doc, err := stage.DecodeResult(req.Deps[id])
+		if err != nil {
+			return stage.Result{}, stage.BadInput(fmt.Errorf("result of %q: %w", id, err))
+		}
+		var cases []*stage.Case
+		for _, c := range doc.Cases {
+			if c != nil {
+				cases = append(cases, c)
+			}
+		}
+		if r.v.Bool("cp") {
+			var cps []plot.CpCase
+			for _, c := range pick(cases, maxCpCases) {
+				if len(c.Cp) < 3 {
+					continue
+				}
+				cc := plot.CpCase{AlphaDeg: c.AlphaDeg, Method: doc.Stage}
+				for _, p := range c.Cp {
+					cc.X, cc.Y, cc.Cp = append(cc.X, p.X), append(cc.Y, p.Y), append(cc.Cp, p.Cp)
+				}
+				cps = append(cps, cc)
+			}
+			if len(cps) > 0 {
+				f, err := plot.CpPlot(cps)
+				add("cp-"+id, f, err)
+			}
+		}
+		if len(cases) >= 2 {
+			ps := plot.PolarSeries{Method: doc.Stage}
+			for _, c := range cases {
+				ps.AlphaDeg, ps.Cl, ps.Cm = append(ps.AlphaDeg, c.AlphaDeg), append(ps.Cl, c.CL), append(ps.Cm, c.CMc4)
+			}
+			polars = append(polars, ps)
+		}
+		if !streamDone {
+			for _, c := range cases {
+				if c.Field != nil {
+					f, err := plot.StreamlinePlot(flowOf(c, doc.Stage, r.section.Nodes))
+					add("streamlines-"+id, f, err)
+					streamDone = true
+					break
+				}
+			}
+		}
+	}
+	if r.v.Bool("polar") && len(polars) > 0 {
+		f, err := plot.PolarPlot(polars)
+		add("polar", f, err)
+	}
+	d.SetScalar("figures", float64(len(arts)))
+	res, err := finish(d, nil)
+	res.Artifacts = arts
+	return res, err
+}
+
+// pick returns at most n of cases, evenly spread and always the first and
+// last.
+func pick(cases []*stage.Case, n int) []*stage.Case {
+	if len(cases) <= n {
+		return cases
+	}
+	out := make([]*stage.Case, n)
+	for i := range n {
+		out[i] = cases[int(math.Round(float64(i)*float64(len(cases)-1)/float64(n-1)))]
+	}
+	return out
+}
+
+// flowOf turns a case's flow field into plot data. Points inside the body
+// have no value; they get the stream function of the body surface (the
+// median of their valued neighbours), which the filled body hides.
+func flowOf(c *stage.Case, method string, body []geometry.Point) plot.FlowField {
+	f := c.Field
+	psi := make([]float64, len(f.Psi))
+	var edge []float64
+	for k, v := range f.Psi {
+		if v != nil {
+			psi[k] = *v
+			continue
+		}
+		i, j := k%f.NX, k/f.NX
+		for _, d := range [][2]int{{1, 0}, {-1, 0}, {0, 1}, {0, -1}} {
+			ii, jj := i+d[0], j+d[1]
+			if ii >= 0 && ii < f.NX && jj >= 0 && jj < f.NY {
+				if n := f.Psi[jj*f.NX+ii]; n != nil {
+					edge = append(edge, *n)
+				}
+			}
+		}
+	}
+	fill := 0.0
+	if len(edge) > 0 {
+		sort.Float64s(edge)
+		fill = edge[len(edge)/2]
+	}
+	for k, v := range f.Psi {
+		if v == nil {
+			psi[k] = fill
+		}
+	}
+	return plot.FlowField{AlphaDeg: c.AlphaDeg, Method: method, Nx: f.NX, Ny: f.NY, X0: f.X0, Y0: f.Y0, DX: f.DX, DY: f.DY, Psi: psi, Body: body}
+}
