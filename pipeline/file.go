@@ -29,6 +29,13 @@ const (
 	DocResults = "results" // results/<stage-id>.json
 )
 
+// Pictures of outputs.plots. Pictures of analysis results come from the
+// built-in "plots" stage, which a pipeline lists among its stages.
+const (
+	PlotPrep     = "prep"     // per section: points against the curve, deviation, nodes, section
+	PlotStations = "stations" // per run: chord, twist, thickness and fit RMS against the station
+)
+
 // On-error policies of a stage.
 const (
 	// OnErrorStop fails the section when the stage fails: its later stages
@@ -83,7 +90,19 @@ type Stage struct {
 type Outputs struct {
 	Folder    string   // run folder, relative to Dir unless absolute
 	Documents []string // DocSection, DocNodes, DocResults (all three by default)
-	Plots     []string // plot names; checked and recorded, not yet acted on
+	Plots     []string // PlotPrep, PlotStations
+	// PlotFormat is the picture format of Plots, "svg" (default) or "png".
+	PlotFormat string
+}
+
+// HasPlot reports whether plots lists name.
+func (o Outputs) HasPlot(name string) bool {
+	for _, p := range o.Plots {
+		if p == name {
+			return true
+		}
+	}
+	return false
 }
 
 // Has reports whether documents lists kind.
@@ -179,7 +198,7 @@ var (
 	topKeys    = keySet("foilwright", "name", "inputs", "prepare", "stages", "outputs")
 	inputKeys  = keySet("name", "files", "per_file", "station", "format", "columns", "units", "cut", "band", "flat_tol")
 	stageKeys  = keySet("id", "stage", "sha256", "params", "after", "on_error", "timeout_s")
-	outputKeys = keySet("folder", "documents", "plots")
+	outputKeys = keySet("folder", "documents", "plots", "plot_format")
 	// inputAllowed also admits the prepare keys an input may not set, so
 	// that they get a message of their own.
 	inputAllowed = func() map[string]bool {
@@ -626,7 +645,7 @@ func (ps *parser) stageTarget(ipath string, val, pin gjson.Result, s *Stage) {
 
 func (ps *parser) outputs(v gjson.Result) {
 	c := ps.c
-	out := Outputs{Documents: []string{DocSection, DocNodes, DocResults}}
+	out := Outputs{Documents: []string{DocSection, DocNodes, DocResults}, PlotFormat: "svg"}
 	defer func() {
 		if out.Folder == "" && ps.p.Name != "" {
 			out.Folder = "runs/" + ps.p.Name
@@ -660,11 +679,22 @@ func (ps *parser) outputs(v gjson.Result) {
 		})
 	}
 	if val, ok := vals["plots"]; ok {
+		seen := map[string]bool{}
 		c.wantArray("outputs.plots", val, func(_ int, ipath string, d gjson.Result) {
-			if s, ok := c.wantString(ipath, d, true); ok {
-				out.Plots = append(out.Plots, s)
+			if e, ok := c.wantEnum(ipath, d, PlotPrep, PlotStations); ok {
+				if seen[e] {
+					c.add(d.Index, ipath, "%q listed twice", e)
+					return
+				}
+				seen[e] = true
+				out.Plots = append(out.Plots, e)
 			}
 		})
+	}
+	if val, ok := vals["plot_format"]; ok {
+		if e, ok := c.wantEnum("outputs.plot_format", val, "svg", "png"); ok {
+			out.PlotFormat = e
+		}
 	}
 }
 

@@ -165,7 +165,7 @@ func TestParseGood(t *testing.T) {
 		t.Errorf("prepare:\ngot  %+v\nwant %+v", p.Prepare, wantPrep)
 	}
 	if p.Name != "mast-rotor" || p.Outputs.Folder != "out/rotor" || !p.Outputs.Has(DocSection) || p.Outputs.Has(DocNodes) ||
-		!reflect.DeepEqual(p.Outputs.Plots, []string{"cp"}) {
+		!reflect.DeepEqual(p.Outputs.Plots, []string{"stations", "prep"}) || p.Outputs.PlotFormat != "png" {
 		t.Errorf("name %q, outputs %+v", p.Name, p.Outputs)
 	}
 	abs, _ := filepath.Abs("testdata")

@@ -13,6 +13,7 @@ import (
 	"strings"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/plot"
 	"github.com/foilwright/foilwright/repanel"
 )
 
@@ -348,7 +349,25 @@ func (Chain) Prepare(ctx context.Context, in Input, s PrepSettings) (Prepared, e
 	if err != nil {
 		return Prepared{}, err
 	}
-	return Prepared{Section: doc, Summary: p.OneLine()}, nil
+	out := Prepared{Section: doc, Summary: p.OneLine()}
+	if in.PlotFormat != "" {
+		figs, err := p.PrepFigures()
+		if err != nil {
+			return Prepared{}, err
+		}
+		media := "image/svg+xml"
+		if in.PlotFormat == plot.PNG {
+			media = "image/png"
+		}
+		for _, name := range PlotNames {
+			data, err := RenderFigure(figs[name], in.PlotFormat)
+			if err != nil {
+				return Prepared{}, err
+			}
+			out.Artifacts = append(out.Artifacts, Artifact{Name: name + "." + in.PlotFormat, MediaType: media, Data: data})
+		}
+	}
+	return out, nil
 }
 
 // OneLine returns a one-line summary of the preparation: chord, twist,

@@ -17,6 +17,7 @@ import (
 
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/internal/atomicfile"
+	"github.com/foilwright/foilwright/plot"
 	"github.com/tidwall/gjson"
 )
 
@@ -27,6 +28,9 @@ type Input struct {
 	Section string   // section name
 	Station *float64 // spanwise station, if given
 	Files   []InputFile
+	// PlotFormat, when not empty, asks for the preparation pictures in
+	// that format (plot.SVG or plot.PNG), as Prepared.Artifacts.
+	PlotFormat string
 }
 
 // An InputFile is one input file's bytes and its recorded path (used as the
@@ -38,8 +42,9 @@ type InputFile struct {
 
 // Prepared is the geometry chain's answer for one section.
 type Prepared struct {
-	Section []byte // the section document, JSON (format foilwright.section/1)
-	Summary string // one or a few lines for a person: points used, fit, warnings
+	Section   []byte     // the section document, JSON (format foilwright.section/1)
+	Summary   string     // one or a few lines for a person: points used, fit, warnings
+	Artifacts []Artifact // pictures of the preparation, when asked for
 }
 
 // A Preparer runs the geometry chain (read, clean, fit, edges, normalise,
@@ -260,6 +265,19 @@ feed:
 		sum.Sections = append(sum.Sections, results[i].report)
 	}
 	m := newManifest(pl, folder, infos, results, cancelled)
+	if !cancelled && pl.Pipeline.Outputs.HasPlot(PlotStations) {
+		name, data, err := stationsPlot(pl, results)
+		if err == nil && data != nil {
+			err = atomicfile.WriteBytes(filepath.Join(folder, name), data)
+		}
+		if err != nil {
+			return sum, fmt.Errorf("stations plot: %w", err)
+		}
+		if data != nil {
+			h := sha256.Sum256(data)
+			m.Outputs[name] = hex.EncodeToString(h[:])
+		}
+	}
 	m.Timings.Jobs = jobs
 	m.Timings.Started = start.UTC().Format(time.RFC3339)
 	m.Timings.TotalS = seconds(time.Since(start))
@@ -284,7 +302,8 @@ func callOf(st Stage) StageCall {
 // sectionResult is what one section produced.
 type sectionResult struct {
 	report  SectionReport
-	files   []FileHash // inputs as read
+	section *geometry.Section // the section made, when preparing succeeded
+	files   []FileHash        // inputs as read
 	outputs map[string]string
 	timing  SectionTiming
 }
@@ -314,6 +333,9 @@ func runSection(ctx context.Context, pl *Plan, folder string, i int, calls []Sta
 	}
 
 	in := Input{Section: sp.Name, Station: sp.Station}
+	if pl.Pipeline.Outputs.HasPlot(PlotPrep) {
+		in.PlotFormat = pl.Pipeline.Outputs.PlotFormat
+	}
 	for _, f := range sp.Files {
 		data, err := os.ReadFile(pl.Pipeline.abs(f))
 		if err != nil {
@@ -350,6 +372,11 @@ func runSection(ctx context.Context, pl *Plan, folder string, i int, calls []Sta
 		}
 		outs = append(outs, output{sp.Name + "/nodes.dat", nodesDat(name, sec.Nodes)})
 	}
+
+	for _, a := range prepared.Artifacts {
+		outs = append(outs, output{sp.Name + "/plots/" + a.Name, a.Data})
+	}
+	res.section = sec
 
 	results := map[string][]byte{}
 	failed := map[string]bool{}
@@ -559,3 +586,34 @@ func inside(folder, p string) (string, bool) {
 }
 
 func seconds(d time.Duration) float64 { return d.Round(time.Microsecond).Seconds() }
+
+// stationsPlot draws chord, twist, thickness and fit RMS against the station
+// of every section that was made and has a station. It returns no data when
+// fewer than two sections qualify.
+func stationsPlot(pl *Plan, results []sectionResult) (string, []byte, error) {
+	var st []plot.Station
+	units := ""
+	for i, r := range results {
+		s, at := r.section, pl.Sections[i].Station
+		if s == nil || at == nil || s.Frame == nil || s.Properties == nil {
+			continue
+		}
+		units = string(s.Units)
+		rms := 0.0
+		if s.Fit != nil {
+			rms = s.Fit.RMS
+		}
+		st = append(st, plot.Station{Position: *at, Chord: s.Frame.Chord, TwistDeg: s.Frame.TwistDeg, Thickness: s.Properties.Thickness, FitRMS: rms})
+	}
+	if len(st) < 2 {
+		return "", nil, nil
+	}
+	sort.SliceStable(st, func(a, b int) bool { return st[a].Position < st[b].Position })
+	f, err := plot.StationsPlot(units, st)
+	if err != nil {
+		return "", nil, err
+	}
+	format := pl.Pipeline.Outputs.PlotFormat
+	data, err := RenderFigure(f, format)
+	return "stations." + format, data, err
+}

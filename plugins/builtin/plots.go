@@ -24,6 +24,10 @@ type plots struct{}
 // maxCpCases is the most angles drawn on one Cp chart.
 const maxCpCases = 5
 
+// streamAlphaDeg is the angle of attack whose streamlines are drawn, or the
+// nearest one with a flow field.
+const streamAlphaDeg = 6
+
 var plotsInfo = stage.Info{
 	Name:    "plots",
 	Version: Version,
@@ -31,9 +35,9 @@ var plotsInfo = stage.Info{
 	Params: []stage.Param{
 		{Name: "format", Type: stage.String, Default: json.RawMessage(`"svg"`), Choices: []string{plot.SVG, plot.PNG}, Doc: "picture format"},
 		{Name: "section", Type: stage.Boolean, Default: json.RawMessage("true"), Doc: "draw the section (section.FORMAT)"},
-		{Name: "cp", Type: stage.Boolean, Default: json.RawMessage("true"), Doc: "draw Cp against x/c of each stage with pressures (cp-STAGEID.FORMAT), at most 5 angles each"},
+		{Name: "cp", Type: stage.Boolean, Default: json.RawMessage("true"), Doc: "draw Cp against x/c of each stage with pressures (cp-STAGEID.FORMAT), at most 5 angles each; the singular corner nodes of a blunt trailing edge are left out"},
 		{Name: "polar", Type: stage.Boolean, Default: json.RawMessage("true"), Doc: "draw Cl and Cm against alpha of every stage with two or more angles on one chart (polar.FORMAT)"},
-		{Name: "streamlines", Type: stage.Boolean, Default: json.RawMessage("true"), Doc: "draw the streamlines of the first case with a flow field (streamlines-STAGEID.FORMAT)"},
+		{Name: "streamlines", Type: stage.Boolean, Default: json.RawMessage("true"), Doc: "draw the streamlines of the case nearest 6° among those with a flow field (streamlines-STAGEID.FORMAT)"},
 	},
 	Scalars: []stage.Scalar{{Name: "figures", Doc: "number of pictures drawn"}},
 }
@@ -73,6 +77,8 @@ func (plots) Run(ctx context.Context, req stage.Request) (stage.Result, error) {
 		ids = append(ids, id)
 	}
 	sort.Strings(ids)
+	nodes := r.section.Nodes
+	blunt := len(nodes) > 1 && nodes[0].Dist(nodes[len(nodes)-1]) > 1e-12
 	var polars []plot.PolarSeries
 	streamDone := !r.v.Bool("streamlines")
 	for _, id := range ids {
@@ -93,7 +99,14 @@ func (plots) Run(ctx context.Context, req stage.Request) (stage.Result, error) {
 					continue
 				}
 				cc := plot.CpCase{AlphaDeg: c.AlphaDeg, Method: doc.Stage}
-				for _, p := range c.Cp {
+				pts := c.Cp
+				if blunt && len(pts) == len(r.section.Nodes) && len(pts) > 4 {
+					// At the corners of a blunt trailing edge the flow turns
+					// round a sharp edge and the node values are singular;
+					// they would set the scale of the whole chart.
+					pts = pts[1 : len(pts)-1]
+				}
+				for _, p := range pts {
 					cc.X, cc.Y, cc.Cp = append(cc.X, p.X), append(cc.Y, p.Y), append(cc.Cp, p.Cp)
 				}
 				cps = append(cps, cc)
@@ -111,13 +124,17 @@ func (plots) Run(ctx context.Context, req stage.Request) (stage.Result, error) {
 			polars = append(polars, ps)
 		}
 		if !streamDone {
+			// The case nearest streamAlphaDeg, a typical working angle.
+			var best *stage.Case
 			for _, c := range cases {
-				if c.Field != nil {
-					f, err := plot.StreamlinePlot(flowOf(c, doc.Stage, r.section.Nodes))
-					add("streamlines-"+id, f, err)
-					streamDone = true
-					break
+				if c.Field != nil && (best == nil || math.Abs(c.AlphaDeg-streamAlphaDeg) < math.Abs(best.AlphaDeg-streamAlphaDeg)) {
+					best = c
 				}
+			}
+			if best != nil {
+				f, err := plot.StreamlinePlot(flowOf(best, doc.Stage, r.section.Nodes))
+				add("streamlines-"+id, f, err)
+				streamDone = true
 			}
 		}
 	}
