@@ -154,16 +154,25 @@ func CamberFromNodes(nodes []geometry.Point) (xs, ycs []float64, err error) {
 		upper = append(upper, nodes[i])
 	}
 	lower := nodes[le:]
-	for _, s := range [][]geometry.Point{upper, lower} {
+	surfaces := [][]geometry.Point{upper, lower}
+	for k, s := range surfaces {
 		if len(s) < 2 {
 			return nil, nil, fmt.Errorf("thinaerofoil: %w: a surface has %d node(s)", ErrTooFewSamples, len(s))
 		}
 		for i := 1; i < len(s); i++ {
 			if !(s[i].X > s[i-1].X) {
+				// A rounded or hooked trailing edge doubles back in its last
+				// few per cent of chord: the surface ends where x stops
+				// growing. Anywhere else the section is not a thin one.
+				if s[i-1].X >= taHookFrom && i >= 2 {
+					surfaces[k] = s[:i]
+					break
+				}
 				return nil, nil, fmt.Errorf("thinaerofoil: %w: surface node at x = %g follows x = %g", ErrNotIncreasing, s[i].X, s[i-1].X)
 			}
 		}
 	}
+	upper, lower = surfaces[0], surfaces[1]
 	x0 := nodes[le].X
 	x1 := math.Min(upper[len(upper)-1].X, lower[len(lower)-1].X)
 	m := max(len(upper), len(lower))
@@ -178,6 +187,10 @@ func CamberFromNodes(nodes []geometry.Point) (xs, ycs []float64, err error) {
 	}
 	return xs, ycs, nil
 }
+
+// taHookFrom is the chord station beyond which a surface may double back
+// (a rounded trailing edge) and is cut where it does.
+const taHookFrom = 0.9
 
 // taLinear interpolates y at x on a surface with strictly increasing x.
 func taLinear(s []geometry.Point, x float64) float64 {

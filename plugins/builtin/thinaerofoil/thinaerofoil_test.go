@@ -204,7 +204,7 @@ func TestBadInput(t *testing.T) {
 		t.Errorf("7 nodes: err = %v", err)
 	}
 	hooked := geometry.NACA4{Thickness: 0.1}.Loop(10)
-	hooked[3].X = hooked[1].X + 0.01
+	hooked[6].X = hooked[4].X + 0.01 // doubles back at mid-chord
 	if _, _, err := CamberFromNodes(hooked); !errors.Is(err, ErrNotIncreasing) {
 		t.Errorf("hooked surface: err = %v", err)
 	}
@@ -220,5 +220,32 @@ func TestBadInput(t *testing.T) {
 	}
 	if _, err := c.Load(math.NaN(), []float64{0.5}); !errors.Is(err, ErrNonFinite) {
 		t.Errorf("α NaN: err = %v", err)
+	}
+}
+
+func TestCamberFromNodesHookedTrailingEdge(t *testing.T) {
+	// A rounded trailing edge doubles back in x behind its tip; the camber
+	// line stops there and matches that of the section without the hook
+	// (NACA 2412, NACA Report 824 equations).
+	foil := geometry.NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12, SharpTE: true}
+	nodes := foil.Nodes(120)
+	hooked := append([]geometry.Point{{X: 0.998, Y: 0.004}}, nodes...)
+	hooked = append(hooked, geometry.Point{X: 0.998, Y: -0.004})
+	xs, ycs, err := CamberFromNodes(hooked)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want, _ := foil.CamberLine(0.4)
+	best := 0.0
+	for i := range xs {
+		best = math.Max(best, ycs[i])
+	}
+	if math.Abs(best-want) > 1e-3 {
+		t.Errorf("max camber %.4f, want %.4f", best, want)
+	}
+	bad := append([]geometry.Point(nil), nodes...)
+	bad[20].X = bad[22].X // doubles back at mid-chord
+	if _, _, err := CamberFromNodes(bad); !errors.Is(err, ErrNotIncreasing) {
+		t.Errorf("mid-chord reversal: err = %v, want ErrNotIncreasing", err)
 	}
 }
