@@ -19,7 +19,10 @@ import (
 
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/internal/atomicfile"
+	"github.com/foilwright/foilwright/pipeline"
+	"github.com/foilwright/foilwright/plot"
 	"github.com/foilwright/foilwright/plugins/builtin"
+	"github.com/foilwright/foilwright/plugins/host"
 	"github.com/foilwright/foilwright/plugins/stage"
 )
 
@@ -31,6 +34,7 @@ type analyzeOptions struct {
 	json    bool
 	out     string
 	timings bool
+	plot    string
 	host    hostFlags
 }
 
@@ -69,6 +73,8 @@ on them.`,
 	f.BoolVar(&opts.json, "json", false, "print the result document instead of the table")
 	f.StringVarP(&opts.out, "output", "o", "", "write the result document to this file")
 	f.BoolVar(&opts.timings, "timings", false, "print the solver's build, factor, solve and total times on stderr")
+	f.StringVar(&opts.plot, "plot", "", "draw Cp to this .svg or .png file, and beside it Cl and Cm against alpha (2 or more angles), the section, and streamlines when field_grid is given")
+	cmd.MarkFlagFilename("plot", "svg", "png")
 	opts.host.register(cmd)
 	cmd.MarkFlagFilename("output", "json")
 	cmd.RegisterFlagCompletionFunc("stage", func(*cobra.Command, []string, string) ([]string, cobra.ShellCompDirective) {
@@ -120,6 +126,11 @@ func runAnalyze(ctx context.Context, stdin io.Reader, stdout, stderr io.Writer, 
 	if opts.timings {
 		printTimings(stderr, reply.Timings)
 	}
+	if opts.plot != "" {
+		if err := analyzePlots(ctx, h, opts.plot, data, name, reply.JSON); err != nil {
+			return err
+		}
+	}
 	doc := reply.JSON
 	if !bytes.HasSuffix(doc, []byte("\n")) {
 		doc = append(doc, '\n')
@@ -142,6 +153,36 @@ func runAnalyze(ctx context.Context, stdin io.Reader, stdout, stderr io.Writer, 
 		return err
 	}
 	return printCases(stdout, name, sec, reply.Doc)
+}
+
+// analyzePlots draws the result through the built-in plots stage (in its
+// own process, like every stage) and writes its pictures: Cp to path, the
+// others beside it (path-polar, path-section, path-streamlines).
+func analyzePlots(ctx context.Context, h *host.Host, path string, section []byte, name string, result []byte) error {
+	format, err := plot.FormatOf(path)
+	if err != nil {
+		return badInputf("--plot %s: %v", path, err)
+	}
+	params, _ := json.Marshal(map[string]string{"format": format})
+	reply, err := h.Runner(host.Builtin("plots")).Run(ctx, stage.Request{
+		Section: section, Params: params, SectionName: name,
+		Deps: map[string][]byte{"analysis": result},
+	})
+	if err != nil {
+		return stageError(err)
+	}
+	for _, a := range reply.Artifacts {
+		stem := strings.TrimSuffix(a.Name, "."+format)
+		stem = strings.TrimSuffix(stem, "-analysis")
+		target := pipeline.SiblingPath(path, stem)
+		if stem == "cp" {
+			target = path
+		}
+		if err := atomicfile.WriteBytes(target, a.Data); err != nil {
+			return err
+		}
+	}
+	return nil
 }
 
 // readSectionFile reads the section file path, or stdin for "-", whole

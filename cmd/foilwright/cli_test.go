@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"image/png"
 	"os"
 	"path/filepath"
 	"strings"
@@ -102,5 +103,30 @@ func TestShapeKarmanTrefftz(t *testing.T) {
 	}
 	if _, _, code := runCLI(t, "shape", "kt", "--centre", "x"); code != exitUsage {
 		t.Errorf("bad centre: exit %d, want %d", code, exitUsage)
+	}
+}
+
+func TestAnalyzePlot(t *testing.T) {
+	dir := t.TempDir()
+	sec := filepath.Join(dir, "s.json")
+	if _, stderr, code := runCLI(t, "shape", "naca4", "2412", "-o", sec); code != 0 {
+		t.Fatal(stderr)
+	}
+	pic := filepath.Join(dir, "cp.png")
+	if _, stderr, code := runCLI(t, "analyze", sec, "--alpha", "0,4,8", "--plot", pic); code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	for _, name := range []string{"cp.png", "cp-polar.png", "cp-section.png"} {
+		f, err := os.Open(filepath.Join(dir, name))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if _, err := png.Decode(f); err != nil {
+			t.Errorf("%s: %v", name, err)
+		}
+		f.Close()
+	}
+	if _, _, code := runCLI(t, "analyze", sec, "--plot", filepath.Join(dir, "cp.gif")); code != exitUsage {
+		t.Errorf("--plot cp.gif: exit %d, want %d", code, exitUsage)
 	}
 }

@@ -51,7 +51,7 @@ func runStage(t *testing.T, name string, section []byte, params string) (*stage.
 }
 
 func TestNames(t *testing.T) {
-	if got := builtin.Names(); !slices.Equal(got, []string{"source-panel", "thin-aerofoil", "vortex-panel"}) {
+	if got := builtin.Names(); !slices.Equal(got, []string{"plots", "source-panel", "thin-aerofoil", "vortex-panel"}) {
 		t.Errorf("Names = %v", got)
 	}
 	if _, ok := builtin.Lookup("nope"); ok {

@@ -49,6 +49,9 @@ func (plots) Run(ctx context.Context, req stage.Request) (stage.Result, error) {
 	if err != nil {
 		return stage.Result{}, err
 	}
+	if n := len(r.section.Nodes); n < 8 {
+		return stage.Result{}, stage.BadInput(fmt.Errorf("section %s: %d node(s), want at least 8", req.SectionName, n))
+	}
 	format := r.v.String("format")
 	d := stage.NewResultDoc(plotsInfo)
 	var arts []stage.Artifact
