@@ -514,9 +514,9 @@ func fitMinimise(crit func(float64) float64, lo, hi, hint, hintSpan float64) flo
 // sample by golden-section search. atEdge reports that the weakest
 // smoothing tried was best.
 func fitMinimiseLog(crit func(float64) float64, lo, hi, hint, hintSpan float64) (ll float64, atEdge bool) {
-	grid := 40
+	grid := 20
 	if hint > 0 {
-		lo, hi, grid = math.Log(hint)-hintSpan, math.Log(hint)+hintSpan, 12
+		lo, hi, grid = math.Log(hint)-hintSpan, math.Log(hint)+hintSpan, 6
 	}
 	best, bestV := 0, math.Inf(1)
 	for k := 0; k <= grid; k++ {
@@ -526,7 +526,7 @@ func fitMinimiseLog(crit func(float64) float64, lo, hi, hint, hintSpan float64) 
 	}
 	a := lo + (hi-lo)*float64(max(best-1, 0))/float64(grid)
 	b := lo + (hi-lo)*float64(min(best+1, grid))/float64(grid)
-	return fitGolden(crit, a, b, 40), best == 0
+	return fitGolden(crit, a, b, 14), best == 0
 }
 
 // fitGolden returns the minimiser of f on [a, b] by golden-section search.

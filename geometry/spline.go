@@ -42,6 +42,9 @@ type splineProblem struct {
 	ws       []float64 // weights, > 0
 	periodic bool
 	m        int // number of unknown second derivatives: n−2 open, n periodic
+	// open is the open problem on the same knots, made once for the trace
+	// of a periodic problem (the weights must not change meanwhile).
+	open *splineProblem
 }
 
 // splineNewProblem returns the problem for knots ts (strictly increasing)
@@ -441,7 +444,10 @@ func (p *splineProblem) fit(lambda float64, ys [][]float64, wantTrace bool) (*sp
 	if wantTrace {
 		q := p
 		if p.periodic {
-			q = splineNewProblem(p.ts, p.ws, false, 0)
+			if p.open == nil {
+				p.open = splineNewProblem(p.ts, p.ws, false, 0)
+			}
+			q = p.open
 			r, a = q.assemble(lambda)
 		}
 		f, err := splineFactor(a, q.m)
