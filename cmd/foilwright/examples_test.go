@@ -92,8 +92,8 @@ func TestExamplePipelines(t *testing.T) {
 		sections int
 		files    []string // some outputs that must exist
 	}{
-		{"tunnel-model", 1, []string{"midspan/section.json", "midspan/results/vortex.json", "midspan/plots/polar.png", "midspan/plots/streamlines-vortex.png"}},
-		{"rotor", 5, []string{"r700/results/stiffness.json", "r300/plots/prep.png", "stations.png"}},
+		{"tunnel-model", 1, []string{"midspan/section.json", "midspan/results/vortex.json", "midspan/plots/polar.svg", "midspan/plots/streamlines-vortex.svg"}},
+		{"rotor", 5, []string{"r700/results/stiffness.json", "r300/plots/prep.svg", "stations.svg"}},
 	} {
 		t.Run(ex.name, func(t *testing.T) {
 			pipe := filepath.Join(dir, "examples", ex.name, "pipeline.json")
