@@ -36,6 +36,33 @@ func (p *Preparation) PrepData() plot.PrepData {
 	return d
 }
 
+// PlotData returns the data of the contour picture of a cleaned section:
+// the ordered points joined in order, the dropped points with their source
+// lines, the provisional trailing edge (the first point) and leading edge
+// (the point farthest from it).
+func (c *Cleaned) PlotData() plot.PrepData {
+	pts := c.Contour.Points
+	d := plot.PrepData{Units: string(c.Units), Measured: pts, CurveLabel: "ordered contour"}
+	if len(c.Files) > 0 {
+		d.Name = filepath.Base(c.Files[0])
+	}
+	d.Curve = append(append([]geometry.Point(nil), pts...), pts[0])
+	d.TE, d.LE = pts[0], pts[0]
+	for _, p := range pts {
+		if p.Dist(d.TE) > d.LE.Dist(d.TE) {
+			d.LE = p
+		}
+	}
+	for _, dr := range c.Clean.Dropped {
+		if !dr.Kept {
+			at := dr.Origin
+			at.File = filepath.Base(at.File)
+			d.Dropped = append(d.Dropped, plot.DroppedPoint{At: dr.Point, Label: at.String(), Reason: dr.Reason})
+		}
+	}
+	return d
+}
+
 // SectionData returns the data of the section plot: nodes, camber line,
 // thickness distribution and leading-edge circle, in chord units.
 func (p *Preparation) SectionData() plot.SectionData {

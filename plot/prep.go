@@ -5,6 +5,7 @@ import (
 	"image/color"
 	"math"
 	"slices"
+	"strings"
 
 	gplot "gonum.org/v1/plot"
 	"gonum.org/v1/plot/plotter"
@@ -33,6 +34,10 @@ type PrepData struct {
 	Tolerance   float64 // half-width of the band drawn on the deviation plot; 0 draws none
 
 	LE, TE geometry.Point // leading and trailing edge (TE: trailing-edge midpoint)
+
+	// CurveLabel names Curve in the legend and title; empty means "fitted
+	// curve" (a caller drawing the ordered points before any fit says so).
+	CurveLabel string
 }
 
 // DroppedPoint is one input point that was left out, with where it came
@@ -107,7 +112,11 @@ func PrepPlot(d PrepData) (*Figure, error) {
 	teWin := box{teC.X - h, teC.X + h, teC.Y - h, teC.Y + h}
 
 	u8 := d.units()
-	title := "Fitted curve and input points"
+	curveLabel := d.CurveLabel
+	if curveLabel == "" {
+		curveLabel = "fitted curve"
+	}
+	title := strings.ToUpper(curveLabel[:1]) + curveLabel[1:] + " and input points"
 	if d.Name != "" {
 		title = d.Name + ": " + title
 	}
@@ -118,7 +127,7 @@ func PrepPlot(d PrepData) (*Figure, error) {
 			l := newLine(curve, lineStyle(colInk, 1.2, nil))
 			p.Add(l)
 			if legend {
-				p.Legend.Add("fitted curve", l)
+				p.Legend.Add(curveLabel, l)
 			}
 		}
 		if len(measured) > 0 {

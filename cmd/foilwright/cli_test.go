@@ -130,3 +130,25 @@ func TestAnalyzePlot(t *testing.T) {
 		t.Errorf("--plot cp.gif: exit %d, want %d", code, exitUsage)
 	}
 }
+
+func TestPointsAndShapePlots(t *testing.T) {
+	dir := t.TempDir()
+	for _, args := range [][]string{
+		{"points", "../../examples/tunnel-model/probe.csv", "--plot", filepath.Join(dir, "points.png")},
+		{"shape", "naca4", "4415", "-o", filepath.Join(dir, "s.json"), "--plot", filepath.Join(dir, "shape.png")},
+	} {
+		if _, stderr, code := runCLI(t, args...); code != 0 {
+			t.Fatalf("%v: exit %d: %s", args, code, stderr)
+		}
+	}
+	for _, name := range []string{"points.png", "shape.png"} {
+		f, err := os.Open(filepath.Join(dir, name))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if _, err := png.Decode(f); err != nil {
+			t.Errorf("%s: %v", name, err)
+		}
+		f.Close()
+	}
+}

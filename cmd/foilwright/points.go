@@ -10,6 +10,7 @@ import (
 
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/pipeline"
+	"github.com/foilwright/foilwright/plot"
 )
 
 type pointsOptions struct {
@@ -17,6 +18,7 @@ type pointsOptions struct {
 	out   string
 	json  bool
 	notes bool
+	plot  string
 }
 
 func newPointsCmd() *cobra.Command {
@@ -55,6 +57,8 @@ and reasons, loops found, flatness) and writes the ordered contour as CSV
 	cmd.Flags().StringVarP(&opts.out, "out", "o", "", "write the ordered contour to this file (CSV x,y,file,line; JSON with --json)")
 	cmd.Flags().BoolVar(&opts.json, "json", false, "write the contour and the report as JSON (to stdout without -o)")
 	cmd.Flags().BoolVar(&opts.notes, "notes", false, "also list every skipped line")
+	cmd.Flags().StringVar(&opts.plot, "plot", "", "draw the ordered contour and the dropped points to this .svg or .png file")
+	cmd.MarkFlagFilename("plot", "svg", "png")
 	cmd.MarkFlagFilename("out", "csv", "json")
 	return cmd
 }
@@ -98,6 +102,18 @@ type originDoc struct {
 
 func writePoints(stdout, stderr io.Writer, cl *pipeline.Cleaned, opts pointsOptions) error {
 	c := cl.Contour
+	if opts.plot != "" {
+		if _, err := plot.FormatOf(opts.plot); err != nil {
+			return badInputf("--plot %s: %v", opts.plot, err)
+		}
+		f, err := plot.PrepPlot(cl.PlotData())
+		if err != nil {
+			return err
+		}
+		if err := plot.Save(f, opts.plot, 0, 0); err != nil {
+			return err
+		}
+	}
 	if opts.json {
 		doc := contourDoc{
 			Format: "foilwright.contour/1", Units: cl.Units, Files: cl.Files, SHA256: cl.SHA256, Read: cl.Read,

@@ -10,6 +10,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/plot"
 	"github.com/foilwright/foilwright/repanel"
 )
 
@@ -18,6 +19,7 @@ type shapeOptions struct {
 	panels int
 	out    string
 	nodes  string
+	plot   string
 }
 
 func newShapeCmd() *cobra.Command {
@@ -31,6 +33,7 @@ as section documents: for tests, demos and as references for measured parts.`,
 	cmd.PersistentFlags().IntVar(&opts.panels, "panels", 160, "number of panels (nodes = panels + 1), 16 to 2000")
 	cmd.PersistentFlags().StringVarP(&opts.out, "out", "o", "-", "section document to write (- for stdout)")
 	cmd.PersistentFlags().StringVar(&opts.nodes, "nodes", "", "also write the plain node listing (name line, then x y) to this file")
+	cmd.PersistentFlags().StringVar(&opts.plot, "plot", "", "draw the section, its camber line and thickness to this .svg or .png file")
 	cmd.AddCommand(newShapeNACA4Cmd(&opts), newShapeKarmanTrefftzCmd(&opts))
 	return cmd
 }
@@ -146,18 +149,27 @@ func parsePair(s string) (geometry.Point, error) {
 }
 
 // setProperties computes the properties of s from its nodes (through the
-// interpolating spline of the nodes).
-func setProperties(s *geometry.Section) error {
+// interpolating spline of the nodes) and returns the picture's data.
+func setProperties(s *geometry.Section) (plot.SectionData, error) {
 	cv, sle, err := geometry.NodeCurve(s.Nodes)
 	if err != nil {
-		return err
+		return plot.SectionData{}, err
 	}
-	pr, _, err := geometry.ComputeProperties(cv, sle, geometry.PropertyOptions{})
+	pr, camber, err := geometry.ComputeProperties(cv, sle, geometry.PropertyOptions{})
 	if err != nil {
-		return err
+		return plot.SectionData{}, err
 	}
 	s.Properties = &pr.Properties
-	return nil
+	d := plot.SectionData{
+		Name: s.Name, Nodes: s.Nodes, LECentre: pr.LECenter, LERadius: pr.LERadius,
+		MaxThickness: geometry.Point{X: pr.ThicknessAt, Y: pr.Thickness},
+		MaxCamber:    geometry.Point{X: pr.CamberAt, Y: pr.Camber},
+	}
+	for i, x := range camber.X {
+		d.Camber = append(d.Camber, geometry.Point{X: x, Y: camber.Y[i]})
+		d.Thickness = append(d.Thickness, geometry.Point{X: x, Y: camber.Thickness[i]})
+	}
+	return d, nil
 }
 
 // setPanels records the panel count, spacing law and quality of s.Nodes,
@@ -178,8 +190,23 @@ func checkPanels(n int) error {
 
 // writeShape writes the section document and, if asked, the node listing.
 func writeShape(stdout io.Writer, opts *shapeOptions, s *geometry.Section) error {
-	if err := setProperties(s); err != nil {
+	if opts.plot != "" {
+		if _, err := plot.FormatOf(opts.plot); err != nil {
+			return badInputf("--plot %s: %v", opts.plot, err)
+		}
+	}
+	pd, err := setProperties(s)
+	if err != nil {
 		return err
+	}
+	if opts.plot != "" {
+		f, err := plot.SectionPlot(pd)
+		if err != nil {
+			return err
+		}
+		if err := plot.Save(f, opts.plot, 0, 0); err != nil {
+			return err
+		}
 	}
 	if err := writeOutput(stdout, opts.out, func(w io.Writer) error { return geometry.WriteSection(w, s) }); err != nil {
 		return err
