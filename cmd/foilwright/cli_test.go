@@ -152,3 +152,18 @@ func TestPointsAndShapePlots(t *testing.T) {
 		f.Close()
 	}
 }
+
+func TestStagesOfPipeline(t *testing.T) {
+	out, stderr, code := runCLI(t, "stages", "--pipeline", "../../examples/tunnel-model/pipeline.json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	for _, want := range []string{"vortex  vortex-panel   0.1.0    built-in  -", "plots   plots", "vortex, thin, source"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("output lacks %q:\n%s", want, out)
+		}
+	}
+	if _, _, code := runCLI(t, "stages", "--pipeline", "nope.json"); code != exitUsage {
+		t.Errorf("missing pipeline file: exit %d, want %d", code, exitUsage)
+	}
+}

@@ -10,25 +10,73 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"github.com/foilwright/foilwright/pipeline"
 	"github.com/foilwright/foilwright/plugins/builtin"
 	"github.com/foilwright/foilwright/plugins/host"
 	"github.com/foilwright/foilwright/plugins/stage"
 )
 
 func newStagesCmd() *cobra.Command {
+	var pipe string
+	var hf hostFlags
 	cmd := &cobra.Command{
-		Use:   "stages",
-		Short: "List the built-in analysis stages",
+		Use:   "stages [--pipeline FILE]",
+		Short: "List the built-in analysis stages, or those a pipeline file configures",
 		Long: `stages lists the analysis stages built into foilwright. Each runs as a separate
-process; "stages describe" shows a stage's parameters, their defaults and ranges.`,
+process; "stages describe" shows a stage's parameters, their defaults and ranges.
+With --pipeline it lists the stages a pipeline file configures instead: each
+id, what runs it (a built-in, or an external executable, started to ask its
+name and version, and checked against its sha256 pin), and what it runs after.`,
 		Args:    cobra.NoArgs,
-		Example: "  foilwright stages\n  foilwright stages describe vortex-panel",
+		Example: "  foilwright stages\n  foilwright stages --pipeline examples/rotor/pipeline.json\n  foilwright stages describe vortex-panel",
 		RunE: func(cmd *cobra.Command, args []string) error {
+			if pipe != "" {
+				return listPipelineStages(cmd.Context(), cmd.OutOrStdout(), cmd.ErrOrStderr(), pipe, hf)
+			}
 			return listStages(cmd.Context(), cmd.OutOrStdout())
 		},
 	}
+	cmd.Flags().StringVar(&pipe, "pipeline", "", "list the stages this pipeline file configures")
+	hf.register(cmd)
 	cmd.AddCommand(newStagesDescribeCmd())
 	return cmd
+}
+
+// listPipelineStages lists the stages of a pipeline file, starting each
+// external one to ask for its name and version.
+func listPipelineStages(ctx context.Context, w, stderr io.Writer, path string, hf hostFlags) error {
+	p, err := pipeline.Load(path, known)
+	if err != nil {
+		return badInput(err)
+	}
+	h, err := hf.newHost(stderr)
+	if err != nil {
+		return err
+	}
+	defer h.Close()
+	tw := tabwriter.NewWriter(w, 0, 4, 2, ' ', 0)
+	fmt.Fprintln(tw, "ID\tSTAGE\tVERSION\tRUN BY\tAFTER")
+	for _, st := range p.Plan().Stages {
+		spec, by := host.Builtin(st.Stage), "built-in"
+		if st.Exec != "" {
+			spec, by = host.Spec{Path: st.Exec, SHA256: st.SHA256}, st.Stage
+			if st.SHA256 != "" {
+				by += " (sha256 pinned)"
+			}
+		}
+		r := h.Runner(spec)
+		info, err := r.Describe(ctx)
+		r.Close()
+		if err != nil {
+			return stageError(err)
+		}
+		after := strings.Join(st.After, ", ")
+		if after == "" {
+			after = "-"
+		}
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\n", st.ID, info.Name, info.Version, by, after)
+	}
+	return tw.Flush()
 }
 
 func listStages(ctx context.Context, w io.Writer) error {
