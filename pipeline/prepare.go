@@ -202,8 +202,8 @@ func Prepare(name string, files []InputFile, s PrepSettings) (*Preparation, erro
 		nodes[i] = shape.Path.At(sv)
 	}
 	nodes[le] = geometry.Point{}
-	if i, j, crossed := geometry.FirstCrossing(nodes); crossed {
-		return nil, fmt.Errorf("%s: %w: panels %d and %d cross", strings.Join(names, ", "), geometry.ErrSelfIntersecting, i, j)
+	if _, err := geometry.CheckNodes(nodes); err != nil {
+		return nil, fmt.Errorf("%s: the repanelled section is not usable: %w", strings.Join(names, ", "), err)
 	}
 	p.Quality = repanel.Measure(nodes)
 

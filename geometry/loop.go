@@ -1,0 +1,150 @@
+package geometry
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"slices"
+)
+
+// MinNodes is the smallest number of nodes a section may have for the panel
+// methods.
+const MinNodes = 8
+
+// Errors of CheckNodes, wrapped with figures in the message.
+var (
+	// ErrTooFewNodes means a section has fewer than MinNodes nodes.
+	ErrTooFewNodes = errors.New("too few nodes")
+	// ErrRepeatedNode means two consecutive nodes coincide (a zero-length panel).
+	ErrRepeatedNode = errors.New("repeated node")
+	// ErrCrossing means two panels of a section cross or touch.
+	ErrCrossing = errors.New("panels cross")
+	// ErrClockwise means the nodes run clockwise, against the package node order.
+	ErrClockwise = errors.New("nodes run clockwise")
+)
+
+// loopCoincide is the distance, relative to the size of the section, below
+// which two nodes count as the same point.
+const loopCoincide = 1e-12
+
+// CheckNodes validates the nodes of a section in the package node order and
+// reports whether its first and last node coincide (a sharp trailing edge).
+// The section is checked as a closed loop: for an open one, the segment from
+// the last node back to the first is part of it. It returns an error
+// wrapping ErrTooFewNodes, ErrNonFinite, ErrRepeatedNode, ErrCrossing or
+// ErrClockwise, with the node or panel numbers (panel k joins nodes k and
+// k+1).
+func CheckNodes(nodes []Point) (sharp bool, err error) {
+	if len(nodes) < MinNodes {
+		return false, fmt.Errorf("%w: %d node(s), want at least %d", ErrTooFewNodes, len(nodes), MinNodes)
+	}
+	lo, hi := Point{math.Inf(1), math.Inf(1)}, Point{math.Inf(-1), math.Inf(-1)}
+	for i, p := range nodes {
+		if !p.IsFinite() {
+			return false, fmt.Errorf("%w: node %d is (%g, %g)", ErrNonFinite, i, p.X, p.Y)
+		}
+		lo = Point{math.Min(lo.X, p.X), math.Min(lo.Y, p.Y)}
+		hi = Point{math.Max(hi.X, p.X), math.Max(hi.Y, p.Y)}
+	}
+	tol := loopCoincide * hi.Sub(lo).Norm()
+	n := len(nodes) - 1
+	for i := range n {
+		if nodes[i].Dist(nodes[i+1]) <= tol {
+			return false, fmt.Errorf("%w: nodes %d and %d are both (%g, %g)", ErrRepeatedNode, i, i+1, nodes[i].X, nodes[i].Y)
+		}
+	}
+	sharp = nodes[0].Dist(nodes[n]) <= tol
+	loop := nodes
+	if sharp {
+		loop = nodes[:n]
+	}
+	if i, j, ok := LoopCrossing(loop); ok {
+		return false, fmt.Errorf("%w: panels %d and %d (panel k joins nodes k and k+1)", ErrCrossing, i, j)
+	}
+	if a := SignedArea(loop); a <= 0 {
+		return false, fmt.Errorf("%w: signed area %g, want > 0 (trailing edge, upper surface, leading edge, lower surface)", ErrClockwise, a)
+	}
+	return sharp, nil
+}
+
+// LoopCrossing looks for two segments of the closed polygon pts (segment k
+// joins pts[k] and pts[k+1 mod len]) that cross or touch, other than
+// neighbours meeting at their common node; neighbours that fold back onto
+// each other count as crossing. Segments are swept in order of their least
+// x, so the cost is O(m log m) plus the pairs whose x ranges overlap.
+func LoopCrossing(pts []Point) (i, j int, found bool) {
+	m := len(pts)
+	seg := func(k int) (Point, Point) { return pts[k], pts[(k+1)%m] }
+	for k := range m {
+		a, b := seg(k)
+		_, c := seg((k + 1) % m)
+		d1, d2 := b.Sub(a), c.Sub(b)
+		if d1.Cross(d2) == 0 && d1.Dot(d2) < 0 {
+			return k, (k + 1) % m, true
+		}
+	}
+	order := make([]int, m)
+	minX := make([]float64, m)
+	for k := range m {
+		a, b := seg(k)
+		order[k], minX[k] = k, math.Min(a.X, b.X)
+	}
+	slices.SortFunc(order, func(p, q int) int {
+		switch {
+		case minX[p] < minX[q]:
+			return -1
+		case minX[p] > minX[q]:
+			return 1
+		}
+		return 0
+	})
+	for oi, p := range order {
+		a, b := seg(p)
+		maxX := math.Max(a.X, b.X)
+		for _, q := range order[oi+1:] {
+			if minX[q] > maxX {
+				break
+			}
+			if d := (p - q + m) % m; d == 1 || d == m-1 {
+				continue
+			}
+			c, e := seg(q)
+			if crossingSegments(a, b, c, e) {
+				return min(p, q), max(p, q), true
+			}
+		}
+	}
+	return 0, 0, false
+}
+
+// InsideLoop reports whether p lies inside the closed polygon pts (even-odd
+// rule).
+func InsideLoop(pts []Point, p Point) bool {
+	in := false
+	m := len(pts)
+	for k := range m {
+		a, b := pts[k], pts[(k+1)%m]
+		if (a.Y > p.Y) != (b.Y > p.Y) {
+			x := a.X + (p.Y-a.Y)*(b.X-a.X)/(b.Y-a.Y)
+			if p.X < x {
+				in = !in
+			}
+		}
+	}
+	return in
+}
+
+// crossingSegments reports whether segments ab and cd share a point.
+func crossingSegments(a, b, c, d Point) bool {
+	d1 := b.Sub(a).Cross(c.Sub(a))
+	d2 := b.Sub(a).Cross(d.Sub(a))
+	d3 := d.Sub(c).Cross(a.Sub(c))
+	d4 := d.Sub(c).Cross(b.Sub(c))
+	if ((d1 > 0 && d2 < 0) || (d1 < 0 && d2 > 0)) && ((d3 > 0 && d4 < 0) || (d3 < 0 && d4 > 0)) {
+		return true
+	}
+	on := func(p, q, r Point) bool { // r on segment pq, given collinear
+		return math.Min(p.X, q.X) <= r.X && r.X <= math.Max(p.X, q.X) && math.Min(p.Y, q.Y) <= r.Y && r.Y <= math.Max(p.Y, q.Y)
+	}
+	return (d1 == 0 && on(a, b, c)) || (d2 == 0 && on(a, b, d)) || (d3 == 0 && on(c, d, a)) || (d4 == 0 && on(c, d, b))
+}
