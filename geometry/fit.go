@@ -115,7 +115,9 @@ const (
 // near index 0 of the counter-clockwise loop pts. It uses the turning angle
 // between the chords to the k-th neighbours, k growing with the point count
 // so that dense scans are not read point by point.
-func fitDetectEnds(pts []Point, mode string) fitEnds {
+//
+// sigma is the scatter of the points (roundedScatter), 0 for clean data.
+func fitDetectEnds(pts []Point, mode string, sigma float64) fitEnds {
 	n := len(pts)
 	at := func(i int) Point { return pts[((i%n)+n)%n] }
 	idx := func(i int) int { return ((i % n) + n) % n }
@@ -138,10 +140,21 @@ func fitDetectEnds(pts []Point, mode string) fitEnds {
 	}
 	k := max(1, n/1000)
 	w := max(4*k, n/16)
+	// The chords reach at least k points and at least fitCornerScatter
+	// times the scatter σ along the outline each way: on a noisy scan whose
+	// spacing is comparable to the noise, the turning between neighbours is
+	// mostly noise, and a wiggle of a few σ over a few points must not pass
+	// for a corner. Over a chord of ℓ ≥ 10σ the noise tilts each chord by
+	// about √2σ/ℓ ≤ 8°, well below the corner thresholds, while a rounded
+	// end of radius r > ℓ still turns gradually, point by point.
+	reach := fitCornerScatter * sigma
+	kb := make([]int, 2*w+1) // points reached behind and ahead of each vertex
+	kf := make([]int, 2*w+1)
 	turn := make([]float64, 2*w+1) // turn[j] at vertex j−w
 	for j := range turn {
 		i := j - w
-		a, b := at(i).Sub(at(i-k)), at(i+k).Sub(at(i))
+		kb[j], kf[j] = fitReach(pts, i, -1, k, reach), fitReach(pts, i, 1, k, reach)
+		a, b := at(i).Sub(at(i-kb[j])), at(i+kf[j]).Sub(at(i))
 		turn[j] = math.Atan2(a.Cross(b), a.Dot(b)) * 180 / math.Pi
 	}
 	top := 0
@@ -149,6 +162,11 @@ func fitDetectEnds(pts []Point, mode string) fitEnds {
 		if turn[j] > turn[top] {
 			top = j
 		}
+	}
+	// A rounded end: the turning is spread over a run of points that lie
+	// on a circle, within the scatter, whose radius the stencil resolves.
+	if turn[top] >= fitBluntDeg && fitRoundedEnd(pts, turn, kb, kf, top, w, k, sigma, reach) {
+		return periodic()
 	}
 	// A blunt edge without base points (or a gap in the outline): a segment
 	// in the corner region much longer than the spacing around it joins
@@ -183,7 +201,7 @@ func fitDetectEnds(pts []Point, mode string) fitEnds {
 	// Second corner: the largest turning beyond the first one's stencil.
 	sec := -1
 	for j := range turn {
-		if j > top-k && j < top+k {
+		if j > top-max(k, kb[top]) && j < top+max(k, kf[top]) {
 			continue
 		}
 		if sec < 0 || turn[j] > turn[sec] {
@@ -194,6 +212,9 @@ func fitDetectEnds(pts []Point, mode string) fitEnds {
 		a, b := min(top, sec), max(top, sec) // a lower corner, b upper corner
 		straight := true
 		for j := a + k + 1; j < b-k; j++ {
+			if j-kb[j] < a || j+kf[j] > b {
+				continue // the chords reach past the corners
+			}
 			if math.Abs(turn[j]) >= fitBaseDeg {
 				straight = false
 			}
@@ -218,6 +239,82 @@ func fitDetectEnds(pts []Point, mode string) fitEnds {
 		return openAt(0)
 	}
 	return periodic()
+}
+
+// fitCornerScatter is the least reach, in units of the scatter of the
+// points, of the chords whose turning finds a corner.
+const fitCornerScatter = 10
+
+// fitReach returns how many points from i (going the way of dir, ±1) the
+// chord of the turning stencil reaches: at least k, and on until the arc
+// along the polyline is at least reach, but at most an eighth of the loop.
+func fitReach(pts []Point, i, dir, k int, reach float64) int {
+	n := len(pts)
+	at := func(i int) Point { return pts[((i%n)+n)%n] }
+	var arc float64
+	for j := 1; j <= max(k, n/8); j++ {
+		arc += at(i + dir*j).Dist(at(i + dir*(j-1)))
+		if j >= k && arc >= reach {
+			return j
+		}
+	}
+	return max(k, n/8)
+}
+
+// Limits of a rounded end (fitRoundedEnd).
+const (
+	fitRoundRunDeg  = 15  // least turning of the points on the rounded end
+	fitRoundSpanDeg = 120 // least angle the end spans about its centre
+	fitRoundFit     = 2.5 // largest RMS residual of the circle, in scatters
+	fitRoundRel     = 0.02
+	fitRoundPoints  = 5 // least number of points on the end
+)
+
+// fitRoundedEnd reports whether the turning around vertex top−w (turn,
+// stencils kb, kf as in fitDetectEnds) is a rounded end rather than a
+// corner or the two corners of a blunt base: the run of vertices around it
+// that turn at least fitRoundRunDeg each must hold at least fitRoundPoints
+// points lying on a circle (RMS residual at most fitRoundFit scatters, or
+// fitRoundRel of the radius on clean data) that span at least
+// fitRoundSpanDeg about its centre, with a radius no smaller than the
+// stencil reach. A sharp corner fails the last test (its run is the width
+// of the stencil, the fitted circle smaller than the reach), a blunt base
+// fails the residual (its two corners and straight base are no circle).
+func fitRoundedEnd(pts []Point, turn []float64, kb, kf []int, top, w, k int, sigma, reach float64) bool {
+	n := len(pts)
+	at := func(i int) Point { return pts[((i%n)+n)%n] }
+	lo, hi := top, top
+	for lo > 0 && turn[lo-1] >= fitRoundRunDeg {
+		lo--
+	}
+	for hi < len(turn)-1 && turn[hi+1] >= fitRoundRunDeg {
+		hi++
+	}
+	if hi-lo+1 < fitRoundPoints {
+		return false
+	}
+	var run []Point
+	for j := lo; j <= hi; j++ {
+		run = append(run, at(j-w))
+	}
+	c, r, rms, ok := roundedCircle(run)
+	if !ok || rms > math.Max(fitRoundFit*sigma, fitRoundRel*r) {
+		return false
+	}
+	// The stencil's own reach: the larger of the scatter reach and the
+	// chord to the k-th neighbour.
+	stencil := math.Max(reach, at(top-w).Dist(at(top-w+k)))
+	if r < stencil {
+		return false
+	}
+	// Angle spanned by the run about the centre (the run is in order, so
+	// sum the signed steps).
+	var span float64
+	for j := 1; j < len(run); j++ {
+		a, b := run[j-1].Sub(c), run[j].Sub(c)
+		span += math.Atan2(a.Cross(b), a.Dot(b))
+	}
+	return math.Abs(span)*180/math.Pi >= fitRoundSpanDeg
 }
 
 // fitEndWeight is the weight of the two end points of an open fit (all
@@ -267,7 +364,13 @@ func Fit(c *Contour, opts FitOptions) (*Curve, *FitReport, error) {
 	if a := SignedArea(c.Points); math.Abs(a) <= 1e-9*perim*perim {
 		return nil, nil, fmt.Errorf("geometry: fit: %w", ErrCollinear)
 	}
-	ends := fitDetectEnds(c.Points, opts.Ends)
+	// The scatter sets the scale at which corners are sought; it is not
+	// needed when interpolating exactly.
+	var scatter float64
+	if !opts.Exact {
+		scatter = roundedScatter(c.Points)
+	}
+	ends := fitDetectEnds(c.Points, opts.Ends, scatter)
 
 	// Data in fit order, without coincident neighbours. knot[i] is the data
 	// index of contour point i (−1 for base points).
