@@ -84,7 +84,10 @@ type FitReport struct {
 	Beyond      []Origin // points farther than the tolerance, in contour order
 	Tolerance   float64  // the tolerance used for Beyond
 	Base        []Origin // points on a blunt trailing-edge base, left out of the fit
-	Warnings    []string
+	// Scatter is the local scatter of the points used as the noise when
+	// cross-validation nearly interpolated correlated noise (0 otherwise).
+	Scatter  float64
+	Warnings []string
 }
 
 // Summary returns the fit record of the section document.
@@ -317,6 +320,12 @@ func fitRoundedEnd(pts []Point, turn []float64, kb, kf []int, top, w, k int, sig
 	return math.Abs(span)*180/math.Pi >= fitRoundSpanDeg
 }
 
+// Limits of the cross-validation check (fitChooseLambda).
+const (
+	fitGCVScatter   = 0.05 // residual RMS, as a fraction of the scatter, that counts as interpolating
+	fitGCVMinPoints = 100 // fewer points are too few to judge the scatter
+)
+
 // fitEndWeight is the weight of the two end points of an open fit (all
 // other points weigh 1): it pins the curve ends to the trailing-edge points.
 const fitEndWeight = 1e4
@@ -439,7 +448,7 @@ func Fit(c *Contour, opts FitOptions) (*Curve, *FitReport, error) {
 	var cv *Curve
 	for round := 0; ; round++ {
 		var err error
-		cv, err = fitPasses(pts, ts, ws, xs, ys, ends.open, period, opts, rep)
+		cv, err = fitPasses(pts, ts, ws, xs, ys, ends.open, period, opts, scatter, rep)
 		if err != nil {
 			return nil, nil, err
 		}
@@ -535,7 +544,11 @@ func fitOrigin(c *Contour, i int) Origin {
 // A positive hint (a λ from an earlier fit of nearly the same data) narrows
 // the search to a factor of e³ either side of it when that brackets the
 // answer.
-func fitChooseLambda(p *splineProblem, xs, ys []float64, opts FitOptions, hint float64, rep *FitReport) (float64, error) {
+//
+// scatter is the local scatter of the points (roundedScatter); when
+// cross-validation leaves residuals below fitGCVScatter of it on at least
+// fitGCVMinPoints points, the scatter is used as the noise.
+func fitChooseLambda(p *splineProblem, xs, ys []float64, opts FitOptions, hint, scatter float64, rep *FitReport) (float64, error) {
 	if opts.Exact {
 		return 0, nil
 	}
@@ -599,6 +612,34 @@ func fitChooseLambda(p *splineProblem, xs, ys []float64, opts FitOptions, hint f
 	ll, atEdge := fitMinimiseLog(gcv, lo, hi, hint, hintSpan)
 	if math.IsInf(gcv(ll), 1) {
 		return 0, fmt.Errorf("geometry: fit: cross-validation failed for every smoothing strength")
+	}
+	// Cross-validation assumes independent errors. Points cut from a noisy
+	// mesh lie on straight edges between noisy vertices, so neighbours
+	// share their noise, a curve through every point looks predictable,
+	// and the score prefers (nearly) interpolating the noise, which ruins
+	// curvature. When the chosen curve leaves residuals far below the local
+	// scatter of the points (roundedScatter, measured over windows wider
+	// than the correlation), the scatter is taken as the noise instead and
+	// λ minimises the unbiased risk estimate as for a given noise. White
+	// noise gives residuals of about σ·√(1 − tr H/n), above 0.2σ even when
+	// a sharply curved part of the outline makes the score keep 95 % of
+	// the freedom, so only a curve that keeps more than 99.75 % (residuals
+	// below fitGCVScatter = 0.05 of the scatter) is overruled; exact data
+	// have (nearly) no scatter.
+	// The check is made once, on the first full search (no hint); the
+	// verdict holds for the later passes and rounds (fitPasses).
+	if scatter > 0 && n >= fitGCVMinPoints && hint == 0 {
+		f, err := p.fit(math.Exp(ll), cols, true)
+		if err == nil && fitNormalRMS(p, f, xs, ys) < fitGCVScatter*scatter {
+			o := opts
+			o.Noise = scatter
+			lam, err := fitChooseLambda(p, xs, ys, o, hint, 0, rep)
+			if err == nil {
+				rep.Warnings = append(rep.Warnings, fmt.Sprintf("cross-validation nearly interpolated points whose local scatter is %.3g (noise correlated along the outline, as in a cut mesh): smoothing set from that scatter; give the noise to override", scatter))
+				rep.Scatter = scatter
+			}
+			return lam, err
+		}
 	}
 	if atEdge && hint == 0 {
 		rep.Warnings = append(rep.Warnings, "cross-validation chose the weakest smoothing tried: the points look noise-free; consider noise 0")
@@ -719,13 +760,19 @@ func fitRobustSigma(rs []float64) float64 {
 // fitPasses fits twice: in the chord-length parameter ts, then in the arc
 // length of each point's foot on the first curve (unless that would not
 // increase strictly). It records λ and tr H in rep.
-func fitPasses(pts []Point, ts, ws, xs, ys []float64, open bool, period float64, opts FitOptions, rep *FitReport) (*Curve, error) {
+func fitPasses(pts []Point, ts, ws, xs, ys []float64, open bool, period float64, opts FitOptions, scatter float64, rep *FitReport) (*Curve, error) {
 	m := len(pts)
 	var cv *Curve
 	hint := rep.Lambda
 	for pass := 0; pass < 2; pass++ {
 		prob := splineNewProblem(ts, ws, !open, period)
-		lambda, err := fitChooseLambda(prob, xs, ys, opts, hint, rep)
+		o := opts
+		if rep.Scatter > 0 && !o.Exact && o.Noise == 0 {
+			// Cross-validation was overruled once: later passes and rounds
+			// of the same data keep the scatter as the noise.
+			o.Noise = rep.Scatter
+		}
+		lambda, err := fitChooseLambda(prob, xs, ys, o, hint, scatter, rep)
 		if err != nil {
 			return nil, err
 		}
