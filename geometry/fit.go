@@ -323,7 +323,7 @@ func fitRoundedEnd(pts []Point, turn []float64, kb, kf []int, top, w, k int, sig
 // Limits of the cross-validation check (fitChooseLambda).
 const (
 	fitGCVScatter   = 0.05 // residual RMS, as a fraction of the scatter, that counts as interpolating
-	fitGCVMinPoints = 100 // fewer points are too few to judge the scatter
+	fitGCVMinPoints = 100  // fewer points are too few to judge the scatter
 )
 
 // fitEndWeight is the weight of the two end points of an open fit (all

@@ -197,7 +197,11 @@ func (ps propSide) atX(x float64) (int, float64, Point, bool) {
 // search between stations. The leading-edge radius is that of the circle
 // fitted by least squares (geometric distance) to the nose within
 // ±propLEArc (0.15) osculating radii of arc of the leading edge. The trailing-edge angle
-// is the angle between the surface tangents at the trailing edge. Area,
+// is the angle between the surface tangents at the trailing edge; for a
+// rounded edge (a closed path, smooth through the tip) it is the angle
+// between the straight continuations of the surfaces just ahead of the
+// rounding, and TEThickness the distance between the surfaces where the
+// rounding starts (see Normalize). Area,
 // centroid and second moments about the centroid (Ixx = ∫∫(y−ȳ)² dA,
 // Iyy = ∫∫(x−x̄)² dA, Ixy = ∫∫(x−x̄)(y−ȳ) dA) come from Green's theorem on
 // the curve, with Gauss–Legendre quadrature per piece (gonum quad); an open
@@ -315,6 +319,15 @@ func ComputeProperties(p Path, sLE float64, opts PropertyOptions) (*SectionPrope
 	sp.TEThickness = c.Start().Dist(c.End())
 	tu, tl := c.Tangent(0), c.Tangent(L).Scale(-1)
 	sp.TEAngleDeg = math.Acos(math.Max(-1, math.Min(1, tu.Dot(tl)))) * 180 / math.Pi
+	if ta, tb := c.Tangent(L), c.Tangent(0); sp.TEThickness <= 1e-9 && math.Abs(roundedTurn(ta, tb)) <= edgeCornerRad {
+		// A rounded edge, kept: the path runs smoothly through the tip, so
+		// the end tangents are one line. Measure the surfaces just ahead of
+		// the rounding instead.
+		if r, ok := roundedAnalyse(c, 0, 1); ok {
+			sp.TEAngleDeg = r.angle * 180 / math.Pi
+			sp.TEThickness = r.thickness
+		}
+	}
 
 	// Area and moments.
 	g := propIntegrals(c)
@@ -331,7 +344,7 @@ func ComputeProperties(p Path, sLE float64, opts PropertyOptions) (*SectionPrope
 	r := math.Hypot(half, sp.Ixy)
 	sp.Imin, sp.Imax = mean-r, mean+r
 	sp.PrincipalDeg = 0.5 * math.Atan2(2*sp.Ixy, sp.Iyy-sp.Ixx) * 180 / math.Pi
-	sp.Perimeter = L + sp.TEThickness
+	sp.Perimeter = L + c.Start().Dist(c.End())
 	return sp, cl, nil
 }
 
