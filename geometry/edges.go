@@ -191,6 +191,24 @@ func edgeLocate(cv *Curve, leAt *Point) (*edgeFind, error) {
 			e.te = cv.At(e.sTip)
 		}
 		e.round, e.roundOK = roundedAnalyse(cv, e.sTip, e.le.Dist(e.te))
+		if e.roundOK {
+			// The farthest curve point of a smooth end slides along it
+			// with the slightest wiggle (a radial error δ moves it by
+			// about √(2rδ)), so the tip is taken as the curve point
+			// nearest to the point of the end's fitted circle farthest
+			// from the leading edge.
+			c, r := e.round.center, e.round.radius
+			if d := c.Sub(e.le); d.Norm() > 0 {
+				q := c.Add(d.Scale(r / d.Norm()))
+				if s, _ := cv.Project(q); cv.At(s).Dist(e.te) < 2*r {
+					e.sTip, e.te = s, cv.At(s)
+					leFrom(e.te)
+					if r2, ok := roundedAnalyse(cv, e.sTip, e.le.Dist(e.te)); ok {
+						e.round = r2
+					}
+				}
+			}
+		}
 		e.rTip = math.Inf(1)
 		if e.roundOK {
 			e.rTip = e.round.radius

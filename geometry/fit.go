@@ -84,10 +84,13 @@ type FitReport struct {
 	Beyond      []Origin // points farther than the tolerance, in contour order
 	Tolerance   float64  // the tolerance used for Beyond
 	Base        []Origin // points on a blunt trailing-edge base, left out of the fit
-	// Scatter is the local scatter of the points used as the noise when
-	// cross-validation nearly interpolated correlated noise (0 otherwise).
-	Scatter  float64
-	Warnings []string
+	// Scatter is the local scatter of the points about parabolas through
+	// their neighbours (a noise estimate made before fitting, 0 with
+	// Exact); ScatterSmoothing reports that it replaced cross-validation
+	// as the noise because cross-validation nearly interpolated.
+	Scatter          float64
+	ScatterSmoothing bool
+	Warnings         []string
 }
 
 // Summary returns the fit record of the section document.
@@ -112,6 +115,7 @@ const (
 	fitBluntSumDeg = 130
 	fitBaseDeg     = 20
 	fitGapRatio    = 4 // a segment this many times the median spacing is a base
+	fitBaseSigmas  = 4 // largest distance of noisy base points from the line between the corners, in scatters
 )
 
 // fitDetectEnds looks for a sharp corner or the two corners of a blunt base
@@ -222,6 +226,30 @@ func fitDetectEnds(pts []Point, mode string, sigma float64) fitEnds {
 				straight = false
 			}
 		}
+		if !straight && sigma > 0 && b-a >= 4 {
+			// On noisy points the turning of a short base is mostly
+			// noise: take it as straight when every point between the
+			// corners lies within fitBaseSigmas scatters of the line
+			// fitted to them (principal axis).
+			var o Point
+			for j := a + 1; j < b; j++ {
+				o = o.Add(at(j - w))
+			}
+			o = o.Scale(1 / float64(b-a-1))
+			var sxx, sxy, syy float64
+			for j := a + 1; j < b; j++ {
+				d := at(j - w).Sub(o)
+				sxx, sxy, syy = sxx+d.X*d.X, sxy+d.X*d.Y, syy+d.Y*d.Y
+			}
+			th := 0.5 * math.Atan2(2*sxy, sxx-syy)
+			dir := Point{math.Cos(th), math.Sin(th)}
+			straight = true
+			for j := a + 1; j < b; j++ {
+				if math.Abs(dir.Cross(at(j-w).Sub(o))) > fitBaseSigmas*sigma {
+					straight = false
+				}
+			}
+		}
 		if straight {
 			ia, ib := idx(a-w), idx(b-w)
 			var base []int
@@ -310,8 +338,16 @@ func fitRoundedEnd(pts []Point, turn []float64, kb, kf []int, top, w, k int, sig
 	if r < stencil {
 		return false
 	}
-	// Angle spanned by the run about the centre (the run is in order, so
-	// sum the signed steps).
+	// The outline must turn through fitRoundSpanDeg across the run, from
+	// the chord that arrives at its first point to the one that leaves its
+	// last (a single corner of a blunt base turns about 90°) ...
+	in := at(lo - w).Sub(at(lo - w - kb[lo]))
+	out := at(hi - w + kf[hi]).Sub(at(hi - w))
+	if math.Atan2(in.Cross(out), in.Dot(out))*180/math.Pi < fitRoundSpanDeg {
+		return false
+	}
+	// ... and the run must span as much about the centre (the run is in
+	// order, so sum the signed steps).
 	var span float64
 	for j := 1; j < len(run); j++ {
 		a, b := run[j-1].Sub(c), run[j].Sub(c)
@@ -324,6 +360,9 @@ func fitRoundedEnd(pts []Point, turn []float64, kb, kf []int, top, w, k int, sig
 const (
 	fitGCVScatter   = 0.05 // residual RMS, as a fraction of the scatter, that counts as interpolating
 	fitGCVMinPoints = 100  // fewer points are too few to judge the scatter
+	// fitGCVMinScatter is the least scatter, as a fraction of the median
+	// point spacing, that counts as noise.
+	fitGCVMinScatter = 0.01
 )
 
 // fitEndWeight is the weight of the two end points of an open fit (all
@@ -380,6 +419,7 @@ func Fit(c *Contour, opts FitOptions) (*Curve, *FitReport, error) {
 		scatter = roundedScatter(c.Points)
 	}
 	ends := fitDetectEnds(c.Points, opts.Ends, scatter)
+	rep0Scatter := scatter
 
 	// Data in fit order, without coincident neighbours. knot[i] is the data
 	// index of contour point i (−1 for base points).
@@ -428,7 +468,7 @@ func Fit(c *Contour, opts FitOptions) (*Curve, *FitReport, error) {
 		period = ts[m-1] + pts[m-1].Dist(pts[0])
 	}
 
-	rep := &FitReport{Ends: FitEndsClosed}
+	rep := &FitReport{Ends: FitEndsClosed, Scatter: rep0Scatter}
 	if ends.open {
 		rep.Ends = FitEndsOpen
 	}
@@ -628,7 +668,13 @@ func fitChooseLambda(p *splineProblem, xs, ys []float64, opts FitOptions, hint, 
 	// have (nearly) no scatter.
 	// The check is made once, on the first full search (no hint); the
 	// verdict holds for the later passes and rounds (fitPasses).
-	if scatter > 0 && n >= fitGCVMinPoints && hint == 0 {
+	//
+	// A scatter below fitGCVMinScatter of the median point spacing h is
+	// left alone: it bends the curve by about σ/h², under 1 % of the
+	// curvature of a nose resolved by a few points, and on clean data it
+	// is the sag of straight facets (a cut of an exact mesh, a polyline),
+	// which interpolation follows correctly.
+	if scatter > fitGCVMinScatter*fitMedianStep(p) && n >= fitGCVMinPoints && hint == 0 {
 		f, err := p.fit(math.Exp(ll), cols, true)
 		if err == nil && fitNormalRMS(p, f, xs, ys) < fitGCVScatter*scatter {
 			o := opts
@@ -636,7 +682,7 @@ func fitChooseLambda(p *splineProblem, xs, ys []float64, opts FitOptions, hint, 
 			lam, err := fitChooseLambda(p, xs, ys, o, hint, 0, rep)
 			if err == nil {
 				rep.Warnings = append(rep.Warnings, fmt.Sprintf("cross-validation nearly interpolated points whose local scatter is %.3g (noise correlated along the outline, as in a cut mesh): smoothing set from that scatter; give the noise to override", scatter))
-				rep.Scatter = scatter
+				rep.ScatterSmoothing = true
 			}
 			return lam, err
 		}
@@ -645,6 +691,13 @@ func fitChooseLambda(p *splineProblem, xs, ys []float64, opts FitOptions, hint, 
 		rep.Warnings = append(rep.Warnings, "cross-validation chose the weakest smoothing tried: the points look noise-free; consider noise 0")
 	}
 	return math.Exp(ll), nil
+}
+
+// fitMedianStep returns the median parameter step of p (the point spacing).
+func fitMedianStep(p *splineProblem) float64 {
+	hs := append([]float64(nil), p.hs...)
+	slices.Sort(hs)
+	return hs[len(hs)/2]
 }
 
 // fitMinimise returns the λ that minimises crit(log λ) over [lo, hi] (or
@@ -767,7 +820,7 @@ func fitPasses(pts []Point, ts, ws, xs, ys []float64, open bool, period float64,
 	for pass := 0; pass < 2; pass++ {
 		prob := splineNewProblem(ts, ws, !open, period)
 		o := opts
-		if rep.Scatter > 0 && !o.Exact && o.Noise == 0 {
+		if rep.ScatterSmoothing && !o.Exact && o.Noise == 0 {
 			// Cross-validation was overruled once: later passes and rounds
 			// of the same data keep the scatter as the noise.
 			o.Noise = rep.Scatter

@@ -21,7 +21,8 @@ type roundedEnd struct {
 	su, sl     float64 // arc lengths on the curve where the surface lines start (near ends of their fits)
 	pu, pl     Point   // curve points at su and sl
 	du, dl     Point   // unit directions of the surface lines, pointing aft (towards the tip)
-	radius     float64 // radius of the circle fitted to the rounding
+	radius     float64 // radius of the circle fitted to the rounding ...
+	center     Point   // ... and its centre
 	thickness  float64 // distance between the ends of the rounding
 	angle      float64 // included angle between the surface lines, radians
 	sharp      Point   // intersection of the surface lines
@@ -167,10 +168,11 @@ func roundedAnalyse(cv *Curve, sTip, chord float64) (roundedEnd, bool) {
 	for k := range arc {
 		arc[k] = cv.At(wrap(sTip - e.el + (e.eu+e.el)*float64(k)/(m-1)))
 	}
-	if _, r, _, ok := roundedCircle(arc); ok {
-		e.radius = r
+	if c, r, _, ok := roundedCircle(arc); ok {
+		e.center, e.radius = c, r
 	} else {
 		e.radius = e.thickness / 2
+		e.center = cv.At(wrap(sTip + e.eu)).Add(cv.At(wrap(sTip - e.el))).Scale(0.5)
 	}
 	e.sharp, e.sharpValid = edgeLines(e.pu, e.du.Scale(-1), e.pl, e.dl, 0.5*chord)
 	return e, true
