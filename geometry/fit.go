@@ -35,8 +35,8 @@ type FitOptions struct {
 	Exact bool
 	// Tolerance lists the points farther than this from the curve, in input
 	// units, in FitReport.Beyond; they are not moved. Zero means 4 times the
-	// larger of Noise and the RMS residual; with Exact and Tolerance 0
-	// nothing is listed.
+	// larger of Noise (or the scatter, when it replaced cross-validation)
+	// and the RMS residual; with Exact and Tolerance 0 nothing is listed.
 	Tolerance float64
 	// Ends is FitEndsAuto (default), FitEndsClosed or FitEndsOpen.
 	Ends string
@@ -495,7 +495,12 @@ func Fit(c *Contour, opts FitOptions) (*Curve, *FitReport, error) {
 		fitResiduals(c, cv, knot, baseSet, rep)
 		rep.Tolerance = opts.Tolerance
 		if rep.Tolerance == 0 && !opts.Exact {
-			rep.Tolerance = 4 * math.Max(opts.Noise, rep.RMS)
+			noise := opts.Noise
+			if rep.ScatterSmoothing {
+				// The scatter stands for the noise the user did not give.
+				noise = rep.Scatter
+			}
+			rep.Tolerance = 4 * math.Max(noise, rep.RMS)
 		}
 		if opts.Exact || rep.Tolerance == 0 || round == fitRobustRounds {
 			break

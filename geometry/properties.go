@@ -462,38 +462,49 @@ func propSolve3(a [3][3]float64, b [3]float64) ([3]float64, bool) {
 // radius when the nose is not convex.
 func propLECircle(c *Curve, sLE, noise float64) (Point, float64) {
 	k := c.Curvature(sLE)
-	if !(k > 0) {
-		return Point{}, 0
-	}
-	r := 1 / k
-	if noise > 0 {
-		// A noisy osculating radius is only a start: take the circle
-		// through the nose and the points a knot spacing either side.
-		i, _ := c.locate(sLE)
-		h := c.ss[i+1] - c.ss[i]
-		if _, r1, _, ok := roundedCircle([]Point{c.At(sLE - 2*h), c.At(sLE), c.At(sLE + 2*h)}); ok {
-			r = r1
-		}
-	}
 	L := c.Length()
-	var center Point
-	for range 3 {
-		a := propLEArc * r
-		if noise > 0 {
-			i, _ := c.locate(sLE)
-			h := c.ss[i+1] - c.ss[i]
-			a = math.Max(a, math.Max(math.Sqrt(noise*r/propLENoiseTol), propLEKnots*h))
-		}
+	fit := func(a, r float64) (Point, float64) {
 		a = math.Min(a, math.Min(sLE, L-sLE)/2)
-		center = c.At(sLE).Sub(c.Normal(sLE).Scale(r))
+		center := c.At(sLE).Sub(c.Normal(sLE).Scale(r))
 		var pts []Point
 		for j := -20; j <= 20; j++ {
 			pts = append(pts, c.At(sLE+a*float64(j)/20))
 		}
-		center, r = propCircle(pts, center, r)
-		if noise == 0 || !(r > 0) {
+		return propCircle(pts, center, r)
+	}
+	if noise == 0 {
+		if !(k > 0) {
+			return Point{}, 0
+		}
+		return fit(propLEArc/k, 1/k)
+	}
+	// Knot spacing at the nose: the mean over propLEKnotSpan pieces either
+	// side (cut meshes pair their points, so single pieces mislead).
+	i, _ := c.locate(sLE)
+	lo, hi := max(0, i-propLEKnotSpan), min(c.Pieces(), i+propLEKnotSpan+1)
+	h := (c.ss[hi] - c.ss[lo]) / float64(hi-lo)
+	// A noisy osculating radius is only a start: take the circle through
+	// the nose over the knot span, then widen the arc from the radius.
+	center, r, _, ok := roundedCircle(func() []Point {
+		var pts []Point
+		for j := -20; j <= 20; j++ {
+			pts = append(pts, c.At(sLE+propLEKnotSpan*h*float64(j)/20))
+		}
+		return pts
+	}())
+	if !ok || !(r > 0 && r < L) {
+		if !(k > 0) {
+			return Point{}, 0
+		}
+		center, r = c.At(sLE).Sub(c.Normal(sLE).Scale(1/k)), 1/k
+	}
+	for range 3 {
+		a := math.Max(propLEArc*r, math.Max(math.Sqrt(noise*r/propLENoiseTol), propLEKnots*h))
+		c2, r2 := fit(a, r)
+		if !(r2 > 0 && r2 < L) {
 			break
 		}
+		center, r = c2, r2
 	}
 	return center, r
 }
@@ -502,6 +513,7 @@ func propLECircle(c *Curve, sLE, noise float64) (Point, float64) {
 const (
 	propLENoiseTol = 0.03 // curvature error the noise may cause, relative
 	propLEKnots    = 2    // least half-arc, in knot spacings at the nose
+	propLEKnotSpan = 5    // pieces either side over which the knot spacing is averaged
 )
 
 // propLEArc is the half-width of the nose arc, in osculating radii at the
