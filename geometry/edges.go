@@ -279,9 +279,9 @@ func edgeTreat(cv *Curve, e *edgeFind, opts EdgeOptions, warn func(string)) (*Cu
 		switch mode {
 		case TEKeep:
 			if e.roundOK {
-				msg := fmt.Sprintf("trailing edge is rounded (radius %.3g chord, %.3g thick where the rounding starts) and was kept", e.round.radius/e.chord, e.round.thickness/e.chord)
+				msg := fmt.Sprintf("trailing edge is rounded (radius %.3g chord, %.3g chord thick where the rounding starts) and was kept", e.round.radius/e.chord, e.round.thickness/e.chord)
 				if e.round.sharpValid {
-					msg += fmt.Sprintf("; sharpen would extend the surfaces to meet %.3g %s", e.round.sharp.Dist(e.te), "behind the tip")
+					msg += fmt.Sprintf("; sharpen would extend the surfaces to a point %.3g chord behind the tip", e.round.sharp.Dist(e.te)/e.chord)
 				}
 				warn(msg)
 			}

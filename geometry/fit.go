@@ -121,7 +121,10 @@ const (
 // fitDetectEnds looks for a sharp corner or the two corners of a blunt base
 // near index 0 of the counter-clockwise loop pts. It uses the turning angle
 // between the chords to the k-th neighbours, k growing with the point count
-// so that dense scans are not read point by point.
+// so that dense scans are not read point by point, and the chords reaching
+// at least fitCornerScatter scatters along the outline so that noise is not
+// read as corners. A strong turn spread over a run of points on a circle is
+// a rounded end (fitRoundedEnd) and gives a periodic fit.
 //
 // sigma is the scatter of the points (roundedScatter), 0 for clean data.
 func fitDetectEnds(pts []Point, mode string, sigma float64) fitEnds {
@@ -383,6 +386,14 @@ const fitEndWeight = 1e4
 // point is replaced by the arc length of its foot on the curve and the fit
 // is repeated, which keeps dense, noisy scans from wrinkling the parameter.
 // Each fit costs O(n).
+//
+// Noisy scans. The local scatter of the points (FitReport.Scatter, the
+// spread about parabolas through 10 neighbours) sets the scale at which
+// trailing-edge corners are sought. Cross-validation assumes independent
+// errors; points cut from a noisy mesh share their noise with their
+// neighbours, and it then nearly interpolates them. When its curve leaves
+// residuals below fitGCVScatter of the scatter on dense points, the scatter
+// is used as the noise instead (FitReport.ScatterSmoothing, with a warning).
 //
 // Fit returns an error wrapping ErrTooFewPoints for fewer than 8 distinct
 // points, ErrNonFinite for NaN or infinite coordinates and ErrCollinear for
