@@ -457,7 +457,10 @@ func propSolve3(a [3][3]float64, b [3]float64) ([3]float64, bool) {
 // curvature, and to at least propLEKnots knot spacings at the nose, which
 // averages out the sag of straight facets between the points of a cut
 // mesh. The wider arc costs a bias on a nose whose curvature falls away
-// from the leading edge: +2 % at ±0.5 r on NACA 4-digit noses (measured).
+// from the leading edge (measured on NACA 4-digit noses: +2 % at ±0.5 r,
+// +5 % at ±0.7 r, +11 % at ±r), so the noise term stops at propLENoiseArc
+// radii and the knot term, which on sparse points would reach far round
+// the nose, at propLEKnotArc.
 // The radius is refined three times, each from the last. It returns a zero
 // radius when the nose is not convex.
 func propLECircle(c *Curve, sLE, noise float64) (Point, float64) {
@@ -499,7 +502,7 @@ func propLECircle(c *Curve, sLE, noise float64) (Point, float64) {
 		center, r = c.At(sLE).Sub(c.Normal(sLE).Scale(1/k)), 1/k
 	}
 	for range 3 {
-		a := math.Max(propLEArc*r, math.Max(math.Sqrt(noise*r/propLENoiseTol), propLEKnots*h))
+		a := math.Max(propLEArc*r, math.Max(math.Min(math.Sqrt(noise*r/propLENoiseTol), propLENoiseArc*r), math.Min(propLEKnots*h, propLEKnotArc*r)))
 		c2, r2 := fit(a, r)
 		if !(r2 > 0 && r2 < L) {
 			break
@@ -514,6 +517,8 @@ const (
 	propLENoiseTol = 0.03 // curvature error the noise may cause, relative
 	propLEKnots    = 2    // least half-arc, in knot spacings at the nose
 	propLEKnotSpan = 5    // pieces either side over which the knot spacing is averaged
+	propLENoiseArc = 1    // largest half-arc for the noise, in radii (bias +11 % on NACA 4-digit noses)
+	propLEKnotArc  = 0.5  // largest half-arc for the knot spacing, in radii (bias +2 %)
 )
 
 // propLEArc is the half-width of the nose arc, in osculating radii at the
