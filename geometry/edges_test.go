@@ -80,7 +80,14 @@ func TestTrailingEdgeRounded(t *testing.T) {
 	if p := keep.Path.At(0); p.Dist(Point{1, 0}) > 1e-9 {
 		t.Errorf("keep: path starts at %v, want the tip (1, 0)", p)
 	}
-	sh, err := Normalize(cv, EdgeOptions{}) // auto sharpens a rounded edge
+	auto, err := Normalize(cv, EdgeOptions{}) // auto keeps a rounded edge
+	if err != nil {
+		t.Fatal(err)
+	}
+	if auto.TE != keep.TE {
+		t.Errorf("auto: %+v, want the same as keep %+v", auto.TE, keep.TE)
+	}
+	sh, err := Normalize(cv, EdgeOptions{TE: TESharpen})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -88,7 +95,7 @@ func TestTrailingEdgeRounded(t *testing.T) {
 	half := math.Atan(-slope)
 	want := (r/math.Sin(half) - r) * part.chord
 	if sh.TE.Kind != TERounded || sh.TE.Action != TESharpened {
-		t.Errorf("auto: %+v, want rounded, sharpened", sh.TE)
+		t.Errorf("sharpen: %+v, want rounded, sharpened", sh.TE)
 	}
 	if math.Abs(sh.TE.MaxShift/want-1) > 0.10 {
 		t.Errorf("sharpened tip moved %.4f, want %.4f (exact offset geometry) within 10%%", sh.TE.MaxShift, want)

@@ -35,8 +35,8 @@ type FitOptions struct {
 	Exact bool
 	// Tolerance lists the points farther than this from the curve, in input
 	// units, in FitReport.Beyond; they are not moved. Zero means 4 times the
-	// larger of Noise and the RMS residual; with Exact and Tolerance 0
-	// nothing is listed.
+	// larger of Noise (or the scatter, when it replaced cross-validation)
+	// and the RMS residual; with Exact and Tolerance 0 nothing is listed.
 	Tolerance float64
 	// Ends is FitEndsAuto (default), FitEndsClosed or FitEndsOpen.
 	Ends string
@@ -84,7 +84,13 @@ type FitReport struct {
 	Beyond      []Origin // points farther than the tolerance, in contour order
 	Tolerance   float64  // the tolerance used for Beyond
 	Base        []Origin // points on a blunt trailing-edge base, left out of the fit
-	Warnings    []string
+	// Scatter is the local scatter of the points about parabolas through
+	// their neighbours (a noise estimate made before fitting, 0 with
+	// Exact); ScatterSmoothing reports that it replaced cross-validation
+	// as the noise because cross-validation nearly interpolated.
+	Scatter          float64
+	ScatterSmoothing bool
+	Warnings         []string
 }
 
 // Summary returns the fit record of the section document.
@@ -109,13 +115,19 @@ const (
 	fitBluntSumDeg = 130
 	fitBaseDeg     = 20
 	fitGapRatio    = 4 // a segment this many times the median spacing is a base
+	fitBaseSigmas  = 4 // largest distance of noisy base points from the line between the corners, in scatters
 )
 
 // fitDetectEnds looks for a sharp corner or the two corners of a blunt base
 // near index 0 of the counter-clockwise loop pts. It uses the turning angle
 // between the chords to the k-th neighbours, k growing with the point count
-// so that dense scans are not read point by point.
-func fitDetectEnds(pts []Point, mode string) fitEnds {
+// so that dense scans are not read point by point, and the chords reaching
+// at least fitCornerScatter scatters along the outline so that noise is not
+// read as corners. A strong turn spread over a run of points on a circle is
+// a rounded end (fitRoundedEnd) and gives a periodic fit.
+//
+// sigma is the scatter of the points (roundedScatter), 0 for clean data.
+func fitDetectEnds(pts []Point, mode string, sigma float64) fitEnds {
 	n := len(pts)
 	at := func(i int) Point { return pts[((i%n)+n)%n] }
 	idx := func(i int) int { return ((i % n) + n) % n }
@@ -138,10 +150,21 @@ func fitDetectEnds(pts []Point, mode string) fitEnds {
 	}
 	k := max(1, n/1000)
 	w := max(4*k, n/16)
+	// The chords reach at least k points and at least fitCornerScatter
+	// times the scatter σ along the outline each way: on a noisy scan whose
+	// spacing is comparable to the noise, the turning between neighbours is
+	// mostly noise, and a wiggle of a few σ over a few points must not pass
+	// for a corner. Over a chord of ℓ ≥ 10σ the noise tilts each chord by
+	// about √2σ/ℓ ≤ 8°, well below the corner thresholds, while a rounded
+	// end of radius r > ℓ still turns gradually, point by point.
+	reach := fitCornerScatter * sigma
+	kb := make([]int, 2*w+1) // points reached behind and ahead of each vertex
+	kf := make([]int, 2*w+1)
 	turn := make([]float64, 2*w+1) // turn[j] at vertex j−w
 	for j := range turn {
 		i := j - w
-		a, b := at(i).Sub(at(i-k)), at(i+k).Sub(at(i))
+		kb[j], kf[j] = fitReach(pts, i, -1, k, reach), fitReach(pts, i, 1, k, reach)
+		a, b := at(i).Sub(at(i-kb[j])), at(i+kf[j]).Sub(at(i))
 		turn[j] = math.Atan2(a.Cross(b), a.Dot(b)) * 180 / math.Pi
 	}
 	top := 0
@@ -149,6 +172,11 @@ func fitDetectEnds(pts []Point, mode string) fitEnds {
 		if turn[j] > turn[top] {
 			top = j
 		}
+	}
+	// A rounded end: the turning is spread over a run of points that lie
+	// on a circle, within the scatter, whose radius the stencil resolves.
+	if turn[top] >= fitBluntDeg && fitRoundedEnd(pts, turn, kb, kf, top, w, k, sigma, reach) {
+		return periodic()
 	}
 	// A blunt edge without base points (or a gap in the outline): a segment
 	// in the corner region much longer than the spacing around it joins
@@ -183,7 +211,7 @@ func fitDetectEnds(pts []Point, mode string) fitEnds {
 	// Second corner: the largest turning beyond the first one's stencil.
 	sec := -1
 	for j := range turn {
-		if j > top-k && j < top+k {
+		if j > top-max(k, kb[top]) && j < top+max(k, kf[top]) {
 			continue
 		}
 		if sec < 0 || turn[j] > turn[sec] {
@@ -194,8 +222,35 @@ func fitDetectEnds(pts []Point, mode string) fitEnds {
 		a, b := min(top, sec), max(top, sec) // a lower corner, b upper corner
 		straight := true
 		for j := a + k + 1; j < b-k; j++ {
+			if j-kb[j] < a || j+kf[j] > b {
+				continue // the chords reach past the corners
+			}
 			if math.Abs(turn[j]) >= fitBaseDeg {
 				straight = false
+			}
+		}
+		if !straight && sigma > 0 && b-a >= 4 {
+			// On noisy points the turning of a short base is mostly
+			// noise: take it as straight when every point between the
+			// corners lies within fitBaseSigmas scatters of the line
+			// fitted to them (principal axis).
+			var o Point
+			for j := a + 1; j < b; j++ {
+				o = o.Add(at(j - w))
+			}
+			o = o.Scale(1 / float64(b-a-1))
+			var sxx, sxy, syy float64
+			for j := a + 1; j < b; j++ {
+				d := at(j - w).Sub(o)
+				sxx, sxy, syy = sxx+d.X*d.X, sxy+d.X*d.Y, syy+d.Y*d.Y
+			}
+			th := 0.5 * math.Atan2(2*sxy, sxx-syy)
+			dir := Point{math.Cos(th), math.Sin(th)}
+			straight = true
+			for j := a + 1; j < b; j++ {
+				if math.Abs(dir.Cross(at(j-w).Sub(o))) > fitBaseSigmas*sigma {
+					straight = false
+				}
 			}
 		}
 		if straight {
@@ -220,6 +275,99 @@ func fitDetectEnds(pts []Point, mode string) fitEnds {
 	return periodic()
 }
 
+// fitCornerScatter is the least reach, in units of the scatter of the
+// points, of the chords whose turning finds a corner.
+const fitCornerScatter = 10
+
+// fitReach returns how many points from i (going the way of dir, ±1) the
+// chord of the turning stencil reaches: at least k, and on until the arc
+// along the polyline is at least reach, but at most an eighth of the loop.
+func fitReach(pts []Point, i, dir, k int, reach float64) int {
+	n := len(pts)
+	at := func(i int) Point { return pts[((i%n)+n)%n] }
+	var arc float64
+	for j := 1; j <= max(k, n/8); j++ {
+		arc += at(i + dir*j).Dist(at(i + dir*(j-1)))
+		if j >= k && arc >= reach {
+			return j
+		}
+	}
+	return max(k, n/8)
+}
+
+// Limits of a rounded end (fitRoundedEnd).
+const (
+	fitRoundRunDeg  = 15  // least turning of the points on the rounded end
+	fitRoundSpanDeg = 120 // least angle the end spans about its centre
+	fitRoundFit     = 2.5 // largest RMS residual of the circle, in scatters
+	fitRoundRel     = 0.02
+	fitRoundPoints  = 5 // least number of points on the end
+)
+
+// fitRoundedEnd reports whether the turning around vertex top−w (turn,
+// stencils kb, kf as in fitDetectEnds) is a rounded end rather than a
+// corner or the two corners of a blunt base: the run of vertices around it
+// that turn at least fitRoundRunDeg each must hold at least fitRoundPoints
+// points lying on a circle (RMS residual at most fitRoundFit scatters, or
+// fitRoundRel of the radius on clean data) that span at least
+// fitRoundSpanDeg about its centre, with a radius no smaller than the
+// stencil reach. A sharp corner fails the last test (its run is the width
+// of the stencil, the fitted circle smaller than the reach), a blunt base
+// fails the residual (its two corners and straight base are no circle).
+func fitRoundedEnd(pts []Point, turn []float64, kb, kf []int, top, w, k int, sigma, reach float64) bool {
+	n := len(pts)
+	at := func(i int) Point { return pts[((i%n)+n)%n] }
+	lo, hi := top, top
+	for lo > 0 && turn[lo-1] >= fitRoundRunDeg {
+		lo--
+	}
+	for hi < len(turn)-1 && turn[hi+1] >= fitRoundRunDeg {
+		hi++
+	}
+	if hi-lo+1 < fitRoundPoints {
+		return false
+	}
+	var run []Point
+	for j := lo; j <= hi; j++ {
+		run = append(run, at(j-w))
+	}
+	c, r, rms, ok := roundedCircle(run)
+	if !ok || rms > math.Max(fitRoundFit*sigma, fitRoundRel*r) {
+		return false
+	}
+	// The stencil's own reach: the larger of the scatter reach and the
+	// chord to the k-th neighbour.
+	stencil := math.Max(reach, at(top-w).Dist(at(top-w+k)))
+	if r < stencil {
+		return false
+	}
+	// The outline must turn through fitRoundSpanDeg across the run, from
+	// the chord that arrives at its first point to the one that leaves its
+	// last (a single corner of a blunt base turns about 90°) ...
+	in := at(lo - w).Sub(at(lo - w - kb[lo]))
+	out := at(hi - w + kf[hi]).Sub(at(hi - w))
+	if math.Atan2(in.Cross(out), in.Dot(out))*180/math.Pi < fitRoundSpanDeg {
+		return false
+	}
+	// ... and the run must span as much about the centre (the run is in
+	// order, so sum the signed steps).
+	var span float64
+	for j := 1; j < len(run); j++ {
+		a, b := run[j-1].Sub(c), run[j].Sub(c)
+		span += math.Atan2(a.Cross(b), a.Dot(b))
+	}
+	return math.Abs(span)*180/math.Pi >= fitRoundSpanDeg
+}
+
+// Limits of the cross-validation check (fitChooseLambda).
+const (
+	fitGCVScatter   = 0.05 // residual RMS, as a fraction of the scatter, that counts as interpolating
+	fitGCVMinPoints = 100  // fewer points are too few to judge the scatter
+	// fitGCVMinScatter is the least scatter, as a fraction of the median
+	// point spacing, that counts as noise.
+	fitGCVMinScatter = 0.01
+)
+
 // fitEndWeight is the weight of the two end points of an open fit (all
 // other points weigh 1): it pins the curve ends to the trailing-edge points.
 const fitEndWeight = 1e4
@@ -238,6 +386,14 @@ const fitEndWeight = 1e4
 // point is replaced by the arc length of its foot on the curve and the fit
 // is repeated, which keeps dense, noisy scans from wrinkling the parameter.
 // Each fit costs O(n).
+//
+// Noisy scans. The local scatter of the points (FitReport.Scatter, the
+// spread about parabolas through 10 neighbours) sets the scale at which
+// trailing-edge corners are sought. Cross-validation assumes independent
+// errors; points cut from a noisy mesh share their noise with their
+// neighbours, and it then nearly interpolates them. When its curve leaves
+// residuals below fitGCVScatter of the scatter on dense points, the scatter
+// is used as the noise instead (FitReport.ScatterSmoothing, with a warning).
 //
 // Fit returns an error wrapping ErrTooFewPoints for fewer than 8 distinct
 // points, ErrNonFinite for NaN or infinite coordinates and ErrCollinear for
@@ -267,7 +423,14 @@ func Fit(c *Contour, opts FitOptions) (*Curve, *FitReport, error) {
 	if a := SignedArea(c.Points); math.Abs(a) <= 1e-9*perim*perim {
 		return nil, nil, fmt.Errorf("geometry: fit: %w", ErrCollinear)
 	}
-	ends := fitDetectEnds(c.Points, opts.Ends)
+	// The scatter sets the scale at which corners are sought; it is not
+	// needed when interpolating exactly.
+	var scatter float64
+	if !opts.Exact {
+		scatter = roundedScatter(c.Points)
+	}
+	ends := fitDetectEnds(c.Points, opts.Ends, scatter)
+	rep0Scatter := scatter
 
 	// Data in fit order, without coincident neighbours. knot[i] is the data
 	// index of contour point i (−1 for base points).
@@ -316,7 +479,7 @@ func Fit(c *Contour, opts FitOptions) (*Curve, *FitReport, error) {
 		period = ts[m-1] + pts[m-1].Dist(pts[0])
 	}
 
-	rep := &FitReport{Ends: FitEndsClosed}
+	rep := &FitReport{Ends: FitEndsClosed, Scatter: rep0Scatter}
 	if ends.open {
 		rep.Ends = FitEndsOpen
 	}
@@ -336,14 +499,19 @@ func Fit(c *Contour, opts FitOptions) (*Curve, *FitReport, error) {
 	var cv *Curve
 	for round := 0; ; round++ {
 		var err error
-		cv, err = fitPasses(pts, ts, ws, xs, ys, ends.open, period, opts, rep)
+		cv, err = fitPasses(pts, ts, ws, xs, ys, ends.open, period, opts, scatter, rep)
 		if err != nil {
 			return nil, nil, err
 		}
 		fitResiduals(c, cv, knot, baseSet, rep)
 		rep.Tolerance = opts.Tolerance
 		if rep.Tolerance == 0 && !opts.Exact {
-			rep.Tolerance = 4 * math.Max(opts.Noise, rep.RMS)
+			noise := opts.Noise
+			if rep.ScatterSmoothing {
+				// The scatter stands for the noise the user did not give.
+				noise = rep.Scatter
+			}
+			rep.Tolerance = 4 * math.Max(noise, rep.RMS)
 		}
 		if opts.Exact || rep.Tolerance == 0 || round == fitRobustRounds {
 			break
@@ -432,7 +600,11 @@ func fitOrigin(c *Contour, i int) Origin {
 // A positive hint (a λ from an earlier fit of nearly the same data) narrows
 // the search to a factor of e³ either side of it when that brackets the
 // answer.
-func fitChooseLambda(p *splineProblem, xs, ys []float64, opts FitOptions, hint float64, rep *FitReport) (float64, error) {
+//
+// scatter is the local scatter of the points (roundedScatter); when
+// cross-validation leaves residuals below fitGCVScatter of it on at least
+// fitGCVMinPoints points, the scatter is used as the noise.
+func fitChooseLambda(p *splineProblem, xs, ys []float64, opts FitOptions, hint, scatter float64, rep *FitReport) (float64, error) {
 	if opts.Exact {
 		return 0, nil
 	}
@@ -497,10 +669,51 @@ func fitChooseLambda(p *splineProblem, xs, ys []float64, opts FitOptions, hint f
 	if math.IsInf(gcv(ll), 1) {
 		return 0, fmt.Errorf("geometry: fit: cross-validation failed for every smoothing strength")
 	}
+	// Cross-validation assumes independent errors. Points cut from a noisy
+	// mesh lie on straight edges between noisy vertices, so neighbours
+	// share their noise, a curve through every point looks predictable,
+	// and the score prefers (nearly) interpolating the noise, which ruins
+	// curvature. When the chosen curve leaves residuals far below the local
+	// scatter of the points (roundedScatter, measured over windows wider
+	// than the correlation), the scatter is taken as the noise instead and
+	// λ minimises the unbiased risk estimate as for a given noise. White
+	// noise gives residuals of about σ·√(1 − tr H/n), above 0.2σ even when
+	// a sharply curved part of the outline makes the score keep 95 % of
+	// the freedom, so only a curve that keeps more than 99.75 % (residuals
+	// below fitGCVScatter = 0.05 of the scatter) is overruled; exact data
+	// have (nearly) no scatter.
+	// The check is made once, on the first full search (no hint); the
+	// verdict holds for the later passes and rounds (fitPasses).
+	//
+	// A scatter below fitGCVMinScatter of the median point spacing h is
+	// left alone: it bends the curve by about σ/h², under 1 % of the
+	// curvature of a nose resolved by a few points, and on clean data it
+	// is the sag of straight facets (a cut of an exact mesh, a polyline),
+	// which interpolation follows correctly.
+	if scatter > fitGCVMinScatter*fitMedianStep(p) && n >= fitGCVMinPoints && hint == 0 {
+		f, err := p.fit(math.Exp(ll), cols, true)
+		if err == nil && fitNormalRMS(p, f, xs, ys) < fitGCVScatter*scatter {
+			o := opts
+			o.Noise = scatter
+			lam, err := fitChooseLambda(p, xs, ys, o, hint, 0, rep)
+			if err == nil {
+				rep.Warnings = append(rep.Warnings, fmt.Sprintf("cross-validation nearly interpolated points whose local scatter is %.3g (noise correlated along the outline, as in a cut mesh): smoothing set from that scatter; give the noise to override", scatter))
+				rep.ScatterSmoothing = true
+			}
+			return lam, err
+		}
+	}
 	if atEdge && hint == 0 {
 		rep.Warnings = append(rep.Warnings, "cross-validation chose the weakest smoothing tried: the points look noise-free; consider noise 0")
 	}
 	return math.Exp(ll), nil
+}
+
+// fitMedianStep returns the median parameter step of p (the point spacing).
+func fitMedianStep(p *splineProblem) float64 {
+	hs := append([]float64(nil), p.hs...)
+	slices.Sort(hs)
+	return hs[len(hs)/2]
 }
 
 // fitMinimise returns the λ that minimises crit(log λ) over [lo, hi] (or
@@ -616,13 +829,19 @@ func fitRobustSigma(rs []float64) float64 {
 // fitPasses fits twice: in the chord-length parameter ts, then in the arc
 // length of each point's foot on the first curve (unless that would not
 // increase strictly). It records λ and tr H in rep.
-func fitPasses(pts []Point, ts, ws, xs, ys []float64, open bool, period float64, opts FitOptions, rep *FitReport) (*Curve, error) {
+func fitPasses(pts []Point, ts, ws, xs, ys []float64, open bool, period float64, opts FitOptions, scatter float64, rep *FitReport) (*Curve, error) {
 	m := len(pts)
 	var cv *Curve
 	hint := rep.Lambda
 	for pass := 0; pass < 2; pass++ {
 		prob := splineNewProblem(ts, ws, !open, period)
-		lambda, err := fitChooseLambda(prob, xs, ys, opts, hint, rep)
+		o := opts
+		if rep.ScatterSmoothing && !o.Exact && o.Noise == 0 {
+			// Cross-validation was overruled once: later passes and rounds
+			// of the same data keep the scatter as the noise.
+			o.Noise = rep.Scatter
+		}
+		lambda, err := fitChooseLambda(prob, xs, ys, o, hint, scatter, rep)
 		if err != nil {
 			return nil, err
 		}

@@ -87,7 +87,13 @@ type Normalized struct {
 // Trailing edge. An open curve whose ends meet (within EdgeSharpGap chord)
 // has a sharp edge; one whose ends are joined by a short base roughly across
 // the chord line is blunt, otherwise open. A closed (periodic) curve has a
-// rounded edge: its tip is the curve point farthest from the leading edge.
+// rounded edge: its tip, the trailing-edge point, is the curve point
+// farthest from the leading edge (common practice); TEKeep (and TEAuto)
+// keep it as a closed path through the tip, TESharpen extends the straight
+// continuations of both surfaces just ahead of the rounding to their
+// intersection (see EdgeOptions.TE). TrailingEdge.Thickness of a kept
+// rounded edge is the distance between the surfaces where the rounding
+// starts.
 //
 // Leading edge. The curve point farthest from the trailing-edge midpoint
 // (or tip), found on the curve by golden-section search (common practice);
@@ -132,8 +138,13 @@ func Normalize(cv *Curve, opts EdgeOptions) (*Normalized, error) {
 		return nil, err
 	}
 	out.TE = TrailingEdge{Kind: e.kind, Action: action, MaxShift: shift}
-	if e.kind == TEBlunt || e.kind == TEOpen {
+	switch {
+	case e.kind == TEBlunt || e.kind == TEOpen:
 		out.TE.Thickness = e.gap / e.chord
+	case e.kind == TERounded && action == TEKept && e.roundOK:
+		// The thickness where the rounding starts, in units of the chord
+		// from the leading edge to the tip.
+		out.TE.Thickness = e.round.thickness / e.chord
 	}
 	// Trailing-edge point and leading edge of the treated curve.
 	te := e.te

@@ -21,6 +21,10 @@ type PropertyOptions struct {
 	Thickness string // ThicknessChord (default, "") or ThicknessCamber
 	Camber    string // CamberMean (default, "") or CamberInscribed
 	Stations  int    // chord stations for the camber line; 0 means 200
+	// Noise is the scatter of the measured points about the section, in
+	// chord units (FitReport.Scatter divided by the chord); 0 means an
+	// exact curve. It widens the arc of the leading-edge circle.
+	Noise float64
 }
 
 // SectionProperties holds the document properties of a normalised section
@@ -196,8 +200,14 @@ func (ps propSide) atX(x float64) (int, float64, Point, bool) {
 // surfaces (blade sections). Both maxima are refined by golden-section
 // search between stations. The leading-edge radius is that of the circle
 // fitted by least squares (geometric distance) to the nose within
-// ±propLEArc (0.15) osculating radii of arc of the leading edge. The trailing-edge angle
-// is the angle between the surface tangents at the trailing edge. Area,
+// ±propLEArc (0.15) osculating radii of arc of the leading edge, over a
+// wider arc when opts.Noise says the points were noisy (propLECircle). The
+// trailing-edge angle is the angle between the surface tangents at the
+// trailing edge; for a
+// rounded edge (a closed path, smooth through the tip) it is the angle
+// between the straight continuations of the surfaces just ahead of the
+// rounding, and TEThickness the distance between the surfaces where the
+// rounding starts (see Normalize). Area,
 // centroid and second moments about the centroid (Ixx = ∫∫(y−ȳ)² dA,
 // Iyy = ∫∫(x−x̄)² dA, Ixy = ∫∫(x−x̄)(y−ȳ) dA) come from Green's theorem on
 // the curve, with Gauss–Legendre quadrature per piece (gonum quad); an open
@@ -300,21 +310,21 @@ func ComputeProperties(p Path, sLE float64, opts PropertyOptions) (*SectionPrope
 	}
 
 	// Leading-edge radius.
-	k := c.Curvature(sLE)
-	if k > 0 {
-		r0 := 1 / k
-		center := c.At(sLE).Sub(c.Normal(sLE).Scale(r0))
-		var pts []Point
-		for j := -20; j <= 20; j++ {
-			pts = append(pts, c.At(sLE+propLEArc*r0*float64(j)/20))
-		}
-		sp.LECenter, sp.LERadius = propCircle(pts, center, r0)
-	}
+	sp.LECenter, sp.LERadius = propLECircle(c, sLE, opts.Noise)
 
 	// Trailing edge.
 	sp.TEThickness = c.Start().Dist(c.End())
 	tu, tl := c.Tangent(0), c.Tangent(L).Scale(-1)
 	sp.TEAngleDeg = math.Acos(math.Max(-1, math.Min(1, tu.Dot(tl)))) * 180 / math.Pi
+	if ta, tb := c.Tangent(L), c.Tangent(0); sp.TEThickness <= 1e-9 && math.Abs(roundedTurn(ta, tb)) <= edgeCornerRad {
+		// A rounded edge, kept: the path runs smoothly through the tip, so
+		// the end tangents are one line. Measure the surfaces just ahead of
+		// the rounding instead.
+		if r, ok := roundedAnalyse(c, 0, 1); ok {
+			sp.TEAngleDeg = r.angle * 180 / math.Pi
+			sp.TEThickness = r.thickness
+		}
+	}
 
 	// Area and moments.
 	g := propIntegrals(c)
@@ -331,7 +341,7 @@ func ComputeProperties(p Path, sLE float64, opts PropertyOptions) (*SectionPrope
 	r := math.Hypot(half, sp.Ixy)
 	sp.Imin, sp.Imax = mean-r, mean+r
 	sp.PrincipalDeg = 0.5 * math.Atan2(2*sp.Ixy, sp.Iyy-sp.Ixx) * 180 / math.Pi
-	sp.Perimeter = L + sp.TEThickness
+	sp.Perimeter = L + c.Start().Dist(c.End())
 	return sp, cl, nil
 }
 
@@ -436,6 +446,80 @@ func propSolve3(a [3][3]float64, b [3]float64) ([3]float64, bool) {
 	}
 	return x, true
 }
+
+// propLECircle returns the leading-edge circle of c (leading edge at arc
+// length sLE): the circle fitted by least squares (geometric distance) to
+// 41 points of the nose within ±a of arc, a = propLEArc osculating radii
+// on an exact curve. When the points scattered by noise (chord units), the
+// curve keeps wiggles of about that size, and the curvature over a short
+// arc a changes by about noise/a²; so a grows to at least √(noise·r/
+// propLENoiseTol), which keeps that error near propLENoiseTol of the
+// curvature, and to at least propLEKnots knot spacings at the nose, which
+// averages out the sag of straight facets between the points of a cut
+// mesh. The wider arc costs a bias on a nose whose curvature falls away
+// from the leading edge (measured on NACA 4-digit noses: +2 % at ±0.5 r,
+// +5 % at ±0.7 r, +11 % at ±r), so the noise term stops at propLENoiseArc
+// radii and the knot term, which on sparse points would reach far round
+// the nose, at propLEKnotArc.
+// The radius is refined three times, each from the last. It returns a zero
+// radius when the nose is not convex.
+func propLECircle(c *Curve, sLE, noise float64) (Point, float64) {
+	k := c.Curvature(sLE)
+	L := c.Length()
+	fit := func(a, r float64) (Point, float64) {
+		a = math.Min(a, math.Min(sLE, L-sLE)/2)
+		center := c.At(sLE).Sub(c.Normal(sLE).Scale(r))
+		var pts []Point
+		for j := -20; j <= 20; j++ {
+			pts = append(pts, c.At(sLE+a*float64(j)/20))
+		}
+		return propCircle(pts, center, r)
+	}
+	if noise == 0 {
+		if !(k > 0) {
+			return Point{}, 0
+		}
+		return fit(propLEArc/k, 1/k)
+	}
+	// Knot spacing at the nose: the mean over propLEKnotSpan pieces either
+	// side (cut meshes pair their points, so single pieces mislead).
+	i, _ := c.locate(sLE)
+	lo, hi := max(0, i-propLEKnotSpan), min(c.Pieces(), i+propLEKnotSpan+1)
+	h := (c.ss[hi] - c.ss[lo]) / float64(hi-lo)
+	// A noisy osculating radius is only a start: take the circle through
+	// the nose over the knot span, then widen the arc from the radius.
+	center, r, _, ok := roundedCircle(func() []Point {
+		var pts []Point
+		for j := -20; j <= 20; j++ {
+			pts = append(pts, c.At(sLE+propLEKnotSpan*h*float64(j)/20))
+		}
+		return pts
+	}())
+	if !ok || !(r > 0 && r < L) {
+		if !(k > 0) {
+			return Point{}, 0
+		}
+		center, r = c.At(sLE).Sub(c.Normal(sLE).Scale(1/k)), 1/k
+	}
+	for range 3 {
+		a := math.Max(propLEArc*r, math.Max(math.Min(math.Sqrt(noise*r/propLENoiseTol), propLENoiseArc*r), math.Min(propLEKnots*h, propLEKnotArc*r)))
+		c2, r2 := fit(a, r)
+		if !(r2 > 0 && r2 < L) {
+			break
+		}
+		center, r = c2, r2
+	}
+	return center, r
+}
+
+// Limits of the leading-edge circle on noisy curves (propLECircle).
+const (
+	propLENoiseTol = 0.03 // curvature error the noise may cause, relative
+	propLEKnots    = 2    // least half-arc, in knot spacings at the nose
+	propLEKnotSpan = 5    // pieces either side over which the knot spacing is averaged
+	propLENoiseArc = 1    // largest half-arc for the noise, in radii (bias +11 % on NACA 4-digit noses)
+	propLEKnotArc  = 0.5  // largest half-arc for the knot spacing, in radii (bias +2 %)
+)
 
 // propLEArc is the half-width of the nose arc, in osculating radii at the
 // leading edge, to which the leading-edge circle is fitted.

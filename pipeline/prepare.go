@@ -207,7 +207,10 @@ func Prepare(name string, files []InputFile, s PrepSettings) (*Preparation, erro
 	}
 	p.Quality = repanel.Measure(nodes)
 
-	props, camber, err := geometry.ComputeProperties(shape.Path, shape.SLE, geometry.PropertyOptions{Thickness: s.ThicknessMode, Camber: s.CamberMode})
+	// The scatter of the points widens the arc of the leading-edge circle
+	// so that noise left in the curve does not upset the radius.
+	po := geometry.PropertyOptions{Thickness: s.ThicknessMode, Camber: s.CamberMode, Noise: fit.Scatter / shape.Frame.Chord}
+	props, camber, err := geometry.ComputeProperties(shape.Path, shape.SLE, po)
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", strings.Join(names, ", "), err)
 	}
