@@ -54,7 +54,7 @@ func (p *prepFlags) registerShape(cmd *cobra.Command) {
 	f := cmd.Flags()
 	f.StringVar(&p.noise, "noise", "auto", `expected measurement noise (input units): "auto" chooses the smoothing by cross-validation, 0 interpolates every point`)
 	f.Float64Var(&p.fitTol, "fit-tol", 0, "list points farther than this from the fitted curve (input units; 0: 4 times the noise)")
-	f.StringVar(&p.te, "te", "auto", "trailing edge: auto, keep, close (blend a blunt edge shut) or sharpen (extend a rounded edge to a point)")
+	f.StringVar(&p.te, "te", "auto", "trailing edge: auto (keep it as found and report it), keep, close (blend a blunt edge shut) or sharpen (extend the surfaces of a rounded edge to their intersection)")
 	f.Float64Var(&p.teBlend, "te-blend", 0, "aft chord fraction over which --te close blends the thickness away (0: default)")
 	f.StringVar(&p.leAt, "le-at", "", "put the leading edge at the curve point nearest X,Y (input coordinates)")
 	f.StringVar(&p.mirror, "mirror", "auto", "mirror the section into the normalised frame: auto, yes or no")
