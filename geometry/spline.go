@@ -3,6 +3,7 @@ package geometry
 import (
 	"fmt"
 	"math"
+	"sync"
 )
 
 // This file holds the cubic smoothing spline of
@@ -45,6 +46,46 @@ type splineProblem struct {
 	// open is the open problem on the same knots, made once for the trace
 	// of a periodic problem (the weights must not change meanwhile).
 	open *splineProblem
+
+	// The λ-independent parts of the system, made on the first fit, and
+	// work space reused by later fits (the smoothing-parameter search fits
+	// one problem many times). Weights must not change after the first fit.
+	fixedOnce sync.Once
+	fixed     *splineFixed
+	scratchMu sync.Mutex
+	scratch   []*splineScratch
+}
+
+// splineFixed holds what every fit of a problem shares: the band of R and,
+// for each data row, the entries of Q and where the products of its entries
+// land in the band of QᵀW⁻¹Q.
+type splineFixed struct {
+	r *splineBand
+	// qu[i][x] is the unknown of entry x of row i of Q (−1 where γ is fixed
+	// at zero) and qv[i][x] its value.
+	qu [][3]int32
+	qv [][3]float64
+	// The products qv[i][x]·qv[i][y] of row i go to band slots
+	// pairs[rowEnd[i−1]:rowEnd[i]], in the order assemble adds them.
+	pairs  []splineQQ
+	rowEnd []int32
+}
+
+// splineQQ is one product of two entries of a row of Q and its slot in the
+// flat storage of a band (splineBand.all).
+type splineQQ struct {
+	slot   int32
+	qx, qy float64
+}
+
+// splineScratch is the work space of one fit.
+type splineScratch struct {
+	a          *splineBand
+	ldl        splineLDL
+	sol        splineSolver
+	c1, c2     []float64
+	rhs        [][]float64
+	s0, s1, s2 []float64
 }
 
 // splineNewProblem returns the problem for knots ts (strictly increasing)
@@ -134,16 +175,23 @@ func (p *splineProblem) qRow(i int) (cs [3]int, qs [3]float64) {
 // cyclic the indices wrap modulo m.
 type splineBand struct {
 	d0, d1, d2 []float64
+	all        []float64 // d0, d1 and d2 one after the other
 	cyclic     bool
 }
 
 func splineNewBand(m int, cyclic bool) *splineBand {
-	return &splineBand{d0: make([]float64, m), d1: make([]float64, m), d2: make([]float64, m), cyclic: cyclic}
+	all := make([]float64, 3*m)
+	return &splineBand{d0: all[:m:m], d1: all[m : 2*m : 2*m], d2: all[2*m:], all: all, cyclic: cyclic}
 }
 
 // add adds v to A[j][k] (and, by symmetry, A[k][j]); callers pass each
 // unordered pair once, or each ordered pair and accept the diagonal twice.
 func (b *splineBand) add(j, k int, v float64) {
+	b.all[b.slot(j, k)] += v
+}
+
+// slot returns the index in b.all of the stored entry A[j][k] (or A[k][j]).
+func (b *splineBand) slot(j, k int) int {
 	m := len(b.d0)
 	off := k - j
 	if b.cyclic {
@@ -151,19 +199,19 @@ func (b *splineBand) add(j, k int, v float64) {
 	}
 	switch {
 	case off == 0:
-		b.d0[j] += v
+		return j
 	case off == 1:
-		b.d1[j] += v
+		return m + j
 	case off == 2:
-		b.d2[j] += v
+		return 2*m + j
 	case b.cyclic && off == m-1:
-		b.d1[k] += v
+		return m + k
 	case b.cyclic && off == m-2:
-		b.d2[k] += v
+		return 2*m + k
 	case !b.cyclic && off == -1:
-		b.d1[k] += v
+		return m + k
 	case !b.cyclic && off == -2:
-		b.d2[k] += v
+		return 2*m + k
 	default:
 		panic("geometry: spline band entry outside the band")
 	}
@@ -212,6 +260,92 @@ func (p *splineProblem) assemble(lambda float64) (r, a *splineBand) {
 	return r, a
 }
 
+// fixedPart returns the λ-independent parts of p's system, made once.
+func (p *splineProblem) fixedPart() *splineFixed {
+	p.fixedOnce.Do(func() {
+		if p.periodic {
+			p.open = splineNewProblem(p.ts, p.ws, false, 0)
+		}
+		n, m := p.n(), p.m
+		fx := &splineFixed{qu: make([][3]int32, n), qv: make([][3]float64, n), rowEnd: make([]int32, n)}
+		fx.r, _ = p.assemble(0)
+		a := splineNewBand(m, p.periodic) // only for slot
+		fx.pairs = make([]splineQQ, 0, 6*n)
+		for i := 0; i < n; i++ {
+			cs, qs := p.qRow(i)
+			for x := 0; x < 3; x++ {
+				fx.qu[i][x] = int32(p.unknown(cs[x]))
+				fx.qv[i][x] = qs[x]
+			}
+			// The same order as assemble.
+			for x := 0; x < 3; x++ {
+				ux := p.unknown(cs[x])
+				if ux < 0 || qs[x] == 0 {
+					continue
+				}
+				fx.pairs = append(fx.pairs, splineQQ{int32(a.slot(ux, ux)), qs[x], qs[x]})
+				for y := x + 1; y < 3; y++ {
+					uy := p.unknown(cs[y])
+					if uy < 0 || qs[y] == 0 {
+						continue
+					}
+					fx.pairs = append(fx.pairs, splineQQ{int32(a.slot(ux, uy)), qs[x], qs[y]})
+				}
+			}
+			fx.rowEnd[i] = int32(len(fx.pairs))
+		}
+		p.fixed = fx
+	})
+	return p.fixed
+}
+
+// getScratch returns work space for one fit of p; putScratch gives it back.
+// Concurrent fits of one problem each get their own.
+func (p *splineProblem) getScratch() *splineScratch {
+	p.scratchMu.Lock()
+	defer p.scratchMu.Unlock()
+	if k := len(p.scratch); k > 0 {
+		sc := p.scratch[k-1]
+		p.scratch = p.scratch[:k-1]
+		return sc
+	}
+	m := p.m
+	sc := &splineScratch{
+		a:   splineNewBand(m, p.periodic),
+		ldl: splineLDL{d: make([]float64, m), l1: make([]float64, m), l2: make([]float64, m)},
+		s0:  make([]float64, m), s1: make([]float64, m), s2: make([]float64, m),
+	}
+	if p.periodic {
+		sc.c1, sc.c2 = make([]float64, m-2), make([]float64, m-2)
+		sc.sol.y1, sc.sol.y2 = make([]float64, m-2), make([]float64, m-2)
+	}
+	return sc
+}
+
+func (p *splineProblem) putScratch(sc *splineScratch) {
+	p.scratchMu.Lock()
+	p.scratch = append(p.scratch, sc)
+	p.scratchMu.Unlock()
+}
+
+// assembleInto writes R + λ QᵀW⁻¹Q into a, adding the same terms in the
+// same order as assemble, so the result is identical.
+func (p *splineProblem) assembleInto(fx *splineFixed, lambda float64, a *splineBand) {
+	all := a.all
+	clear(all)
+	start := int32(0)
+	for i, end := range fx.rowEnd {
+		f := lambda / p.ws[i]
+		for _, e := range fx.pairs[start:end] {
+			all[e.slot] += f * e.qx * e.qy
+		}
+		start = end
+	}
+	for j, v := range fx.r.all {
+		all[j] += v
+	}
+}
+
 // splineLDL is the LDLᵀ factorisation of a (non-cyclic) pentadiagonal band:
 // L has unit diagonal and sub-diagonals l1 (L[j][j−1]) and l2 (L[j][j−2]).
 type splineLDL struct {
@@ -222,6 +356,20 @@ type splineLDL struct {
 // entries. It returns an error if the block is not positive definite.
 func splineFactor(b *splineBand, m int) (*splineLDL, error) {
 	f := &splineLDL{d: make([]float64, m), l1: make([]float64, m), l2: make([]float64, m)}
+	if err := splineFactorInto(b, m, f); err != nil {
+		return nil, err
+	}
+	return f, nil
+}
+
+// splineFactorInto is splineFactor into the storage of f, which it
+// reslices to length m (its capacity must be at least m).
+func splineFactorInto(b *splineBand, m int, f *splineLDL) error {
+	f.d, f.l1, f.l2 = f.d[:m], f.l1[:m], f.l2[:m]
+	f.l1[0], f.l2[0] = 0, 0
+	if m > 1 {
+		f.l2[1] = 0
+	}
 	for j := 0; j < m; j++ {
 		dj := b.d0[j]
 		if j >= 2 {
@@ -237,11 +385,11 @@ func splineFactor(b *splineBand, m int) (*splineLDL, error) {
 			dj -= f.l1[j] * f.l1[j] * f.d[j-1]
 		}
 		if !(dj > 0) || math.IsInf(dj, 0) {
-			return nil, fmt.Errorf("geometry: spline system not positive definite at row %d", j)
+			return fmt.Errorf("geometry: spline system not positive definite at row %d", j)
 		}
 		f.d[j] = dj
 	}
-	return f, nil
+	return nil
 }
 
 // solve overwrites x with the solution of L D Lᵀ x = x.
@@ -269,31 +417,29 @@ func (f *splineLDL) solve(x []float64) {
 func (f *splineLDL) inverseBand() (s0, s1, s2 []float64) {
 	m := len(f.d)
 	s0, s1, s2 = make([]float64, m), make([]float64, m), make([]float64, m)
-	at := func(s []float64, j int) float64 {
-		if j < m {
-			return s[j]
-		}
-		return 0
-	}
-	l1 := func(j int) float64 {
-		if j < m {
-			return f.l1[j]
-		}
-		return 0
-	}
-	l2 := func(j int) float64 {
-		if j < m {
-			return f.l2[j]
-		}
-		return 0
-	}
-	for j := m - 1; j >= 0; j-- {
-		// Σ[j][j+2], Σ[j][j+1], Σ[j][j] from rows below.
-		s2[j] = -l1(j+1)*at(s1, j+1) - l2(j+2)*at(s0, j+2)
-		s1[j] = -l1(j+1)*at(s0, j+1) - l2(j+2)*at(s1, j+1)
-		s0[j] = 1/f.d[j] - l1(j+1)*s1[j] - l2(j+2)*s2[j]
-	}
+	f.inverseBandInto(s0, s1, s2)
 	return s0, s1, s2
+}
+
+// inverseBandInto is inverseBand into s0, s1 and s2 (each of length m).
+func (f *splineLDL) inverseBandInto(s0, s1, s2 []float64) {
+	m := len(f.d)
+	s0, s1, s2 = s0[:m], s1[:m], s2[:m]
+	d, l1, l2 := f.d, f.l1, f.l2
+	for j := m - 1; j >= 0; j-- {
+		// Σ[j][j+2], Σ[j][j+1], Σ[j][j] from rows below; entries past
+		// the end count as zero.
+		var a1, b1, b2, c0, c1 float64 // l1[j+1], s1[j+1], l2[j+2], s0[j+2], s0[j+1]
+		if j+1 < m {
+			a1, b1, c1 = l1[j+1], s1[j+1], s0[j+1]
+		}
+		if j+2 < m {
+			b2, c0 = l2[j+2], s0[j+2]
+		}
+		s2[j] = -a1*b1 - b2*c0
+		s1[j] = -a1*c1 - b2*b1
+		s0[j] = 1/d[j] - a1*s1[j] - b2*s2[j]
+	}
 }
 
 // splineSolver solves A x = b for a pentadiagonal band A, cyclic or not. The
@@ -309,30 +455,42 @@ type splineSolver struct {
 
 func splineNewSolver(b *splineBand) (*splineSolver, error) {
 	m := len(b.d0)
-	s := &splineSolver{band: b, cyclic: b.cyclic}
-	if !b.cyclic {
-		f, err := splineFactor(b, m)
-		if err != nil {
-			return nil, err
+	s := &splineSolver{ldl: &splineLDL{d: make([]float64, m), l1: make([]float64, m), l2: make([]float64, m)}}
+	if b.cyclic {
+		if m < 6 {
+			panic("geometry: cyclic spline system needs at least 6 unknowns")
 		}
-		s.ldl = f
-		return s, nil
+		s.y1, s.y2 = make([]float64, m-2), make([]float64, m-2)
+	}
+	if err := s.setup(b, nil, nil); err != nil {
+		return nil, err
+	}
+	return s, nil
+}
+
+// setup factors b into the storage s already has (s.ldl, and s.y1, s.y2
+// of length m−2 when b is cyclic). c1 and c2 are work space of length m−2
+// for a cyclic b, or nil to allocate it.
+func (s *splineSolver) setup(b *splineBand, c1, c2 []float64) error {
+	m := len(b.d0)
+	s.band, s.cyclic = b, b.cyclic
+	if !b.cyclic {
+		return splineFactorInto(b, m, s.ldl)
 	}
 	if m < 6 {
 		panic("geometry: cyclic spline system needs at least 6 unknowns")
 	}
-	f, err := splineFactor(b, m-2)
-	if err != nil {
-		return nil, err
+	f := s.ldl
+	if err := splineFactorInto(b, m-2, f); err != nil {
+		return err
 	}
-	s.ldl = f
-	s.y1 = make([]float64, m-2)
-	s.y2 = make([]float64, m-2)
 	s.couplingTo(s.y1, s.y2)
 	f.solve(s.y1)
 	f.solve(s.y2)
 	// S = D − Cᵀ B⁻¹ C.
-	c1, c2 := make([]float64, m-2), make([]float64, m-2)
+	if c1 == nil {
+		c1, c2 = make([]float64, m-2), make([]float64, m-2)
+	}
 	s.couplingTo(c1, c2)
 	var d [2][2]float64
 	d[0][0] = b.d0[m-2] - splineDot(c1, s.y1)
@@ -341,10 +499,10 @@ func splineNewSolver(b *splineBand) (*splineSolver, error) {
 	d[1][1] = b.d0[m-1] - splineDot(c2, s.y2)
 	det := d[0][0]*d[1][1] - d[0][1]*d[1][0]
 	if !(det > 0) {
-		return nil, fmt.Errorf("geometry: cyclic spline system not positive definite")
+		return fmt.Errorf("geometry: cyclic spline system not positive definite")
 	}
 	s.sInv = [2][2]float64{{d[1][1] / det, -d[0][1] / det}, {-d[1][0] / det, d[0][0] / det}}
-	return s, nil
+	return nil
 }
 
 // couplingTo writes the columns of C (coupling of the first m−2 unknowns to
@@ -403,20 +561,29 @@ type splineFit struct {
 // wantTrace it also computes tr H(λ) (of the open problem on the same knots
 // when the problem is periodic; the two differ by O(1)).
 func (p *splineProblem) fit(lambda float64, ys [][]float64, wantTrace bool) (*splineFit, error) {
-	r, a := p.assemble(lambda)
-	sol, err := splineNewSolver(a)
-	if err != nil {
+	fx := p.fixedPart()
+	sc := p.getScratch()
+	defer p.putScratch(sc)
+	a := sc.a
+	p.assembleInto(fx, lambda, a)
+	sol := &sc.sol
+	sol.ldl = &sc.ldl
+	if err := sol.setup(a, sc.c1, sc.c2); err != nil {
 		return nil, err
 	}
 	n := p.n()
-	out := &splineFit{trace: math.NaN()}
-	for _, y := range ys {
-		rhs := make([]float64, p.m)
+	out := &splineFit{trace: math.NaN(), gs: make([][]float64, 0, len(ys)), gams: make([][]float64, 0, len(ys))}
+	for len(sc.rhs) < len(ys) {
+		sc.rhs = append(sc.rhs, make([]float64, p.m))
+	}
+	for k, y := range ys {
+		rhs := sc.rhs[k]
+		clear(rhs)
 		for i := 0; i < n; i++ {
-			cs, qs := p.qRow(i)
+			qu, qv := &fx.qu[i], &fx.qv[i]
 			for x := 0; x < 3; x++ {
-				if u := p.unknown(cs[x]); u >= 0 {
-					rhs[u] += qs[x] * y[i]
+				if u := qu[x]; u >= 0 {
+					rhs[u] += qv[x] * y[i]
 				}
 			}
 		}
@@ -429,11 +596,11 @@ func (p *splineProblem) fit(lambda float64, ys [][]float64, wantTrace bool) (*sp
 			}
 		}
 		for i := 0; i < n; i++ {
-			cs, qs := p.qRow(i)
+			qu, qv := &fx.qu[i], &fx.qv[i]
 			var qg float64
 			for x := 0; x < 3; x++ {
-				if u := p.unknown(cs[x]); u >= 0 {
-					qg += qs[x] * rhs[u]
+				if u := qu[x]; u >= 0 {
+					qg += qv[x] * rhs[u]
 				}
 			}
 			g[i] = y[i] - lambda/p.ws[i]*qg
@@ -442,19 +609,22 @@ func (p *splineProblem) fit(lambda float64, ys [][]float64, wantTrace bool) (*sp
 		out.gams = append(out.gams, gam)
 	}
 	if wantTrace {
-		q := p
+		q, qfx, qsc, f := p, fx, sc, &sc.ldl
 		if p.periodic {
-			if p.open == nil {
-				p.open = splineNewProblem(p.ts, p.ws, false, 0)
-			}
 			q = p.open
-			r, a = q.assemble(lambda)
+			qfx = q.fixedPart()
+			qsc = q.getScratch()
+			defer q.putScratch(qsc)
+			q.assembleInto(qfx, lambda, qsc.a)
+			f = &qsc.ldl
+			if err := splineFactorInto(qsc.a, q.m, f); err != nil {
+				return nil, err
+			}
 		}
-		f, err := splineFactor(a, q.m)
-		if err != nil {
-			return nil, err
-		}
-		s0, s1, s2 := f.inverseBand()
+		// An open problem's solver factored the whole band already.
+		a, r := qsc.a, qfx.r
+		f.inverseBandInto(qsc.s0, qsc.s1, qsc.s2)
+		s0, s1, s2 := qsc.s0, qsc.s1, qsc.s2
 		// tr H = n − tr(A⁻¹ (A − R)), both symmetric pentadiagonal.
 		var t float64
 		for j := 0; j < q.m; j++ {
