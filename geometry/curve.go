@@ -28,7 +28,14 @@ type Curve struct {
 	ts     []float64    // parameter at the start of each piece; len = pieces+1
 	xs, ys [][4]float64 // coefficients of each piece in u = t − ts[i]
 	ss     []float64    // arc length at ts
-	closed bool
+	pl     []float64    // arc length of each piece
+	// The leaves of the adaptive quadrature of each piece (see curveNew):
+	// piece i has leaves leafAt[i] ≤ k < leafAt[i+1], leaf k ending at
+	// parameter leafU[k] with arc length leafS[k] from the start of the
+	// piece to there.
+	leafAt       []int32
+	leafU, leafS []float64
+	closed       bool
 }
 
 // curveGLOrder is the order of the Gauss–Legendre rule used per piece:
@@ -46,16 +53,69 @@ var curveGL = sync.OnceValue(func() [2][]float64 {
 
 // curveNew builds a curve from piece coefficients. ts has one more entry
 // than xs and ys. It computes the arc-length table.
+//
+// The length of each piece comes from Gauss–Legendre rules on a bisection
+// of the piece, refined where the speed is far from smooth (a piece that
+// nearly folds back on itself) until the rule on every part agrees with the
+// sum of its halves. The finest parts, the leaves, are kept, so that the
+// arc length to any parameter u needs one rule, over the part of its leaf
+// before u (see partial).
 func curveNew(ts []float64, xs, ys [][4]float64, closed bool) *Curve {
 	if len(xs) == 0 || len(xs) != len(ys) || len(ts) != len(xs)+1 {
 		panic("geometry: inconsistent curve pieces")
 	}
+	np := len(xs)
 	c := &Curve{ts: ts, xs: xs, ys: ys, closed: closed}
-	c.ss = make([]float64, len(ts))
-	for i := range xs {
-		c.ss[i+1] = c.ss[i] + c.partial(i, ts[i+1]-ts[i])
+	c.ss = make([]float64, np+1)
+	c.pl = make([]float64, np)
+	c.leafAt = make([]int32, np+1)
+	if np >= curveParallelPieces {
+		// The pieces are independent; the table does not depend on the
+		// split.
+		mid := np / 2
+		var lo curveLeaves
+		var wg sync.WaitGroup
+		wg.Go(func() { lo = c.measure(0, mid) })
+		hi := c.measure(mid, np)
+		wg.Wait()
+		off := int32(len(lo.u))
+		for i := mid + 1; i <= np; i++ {
+			c.leafAt[i] += off
+		}
+		c.leafU = append(lo.u, hi.u...)
+		c.leafS = append(lo.s, hi.s...)
+	} else {
+		all := c.measure(0, np)
+		c.leafU, c.leafS = all.u, all.s
+	}
+	for i, l := range c.pl {
+		c.ss[i+1] = c.ss[i] + l
 	}
 	return c
+}
+
+// curveParallelPieces is the least number of pieces for which curveNew
+// measures the pieces on two goroutines.
+const curveParallelPieces = 8192
+
+// curveLeaves collects the leaves of a run of pieces.
+type curveLeaves struct {
+	u, s []float64
+	sum  float64 // arc length from the start of the current piece
+}
+
+// measure sets pl[i] and leafAt[i+1] for pieces lo ≤ i < hi, with leaf
+// indices counted from the first leaf of piece lo, and returns their
+// leaves.
+func (c *Curve) measure(lo, hi int) curveLeaves {
+	lv := curveLeaves{u: make([]float64, 0, 2*(hi-lo)+16), s: make([]float64, 0, 2*(hi-lo)+16)}
+	for i := lo; i < hi; i++ {
+		h := c.h(i)
+		lv.sum = 0
+		c.pl[i] = c.partialOn(i, 0, h, c.glOn(i, 0, h), 0, &lv)
+		c.leafAt[i+1] = int32(len(lv.u))
+	}
+	return lv
 }
 
 // curvePoly evaluates a cubic and its first two derivatives at u.
@@ -78,35 +138,76 @@ func (c *Curve) Length() float64 { return c.ss[len(c.ss)-1] }
 func (c *Curve) h(i int) float64 { return c.ts[i+1] - c.ts[i] }
 
 func (c *Curve) speed(i int, u float64) float64 {
-	_, dx, _ := curvePoly(c.xs[i], u)
-	_, dy, _ := curvePoly(c.ys[i], u)
-	return math.Hypot(dx, dy)
+	return curveSpeed(&c.xs[i], &c.ys[i], u)
 }
 
-// partial returns the arc length of piece i from u = 0 to u, by
-// Gauss–Legendre quadrature, bisected adaptively where the speed is far
-// from smooth (a piece that nearly folds back on itself) so that every
-// partial length agrees with the sum of its parts to rounding error.
+// curveSpeed returns |(x'(u), y'(u))| for pieces x and y. The components
+// are of the order of 1 (the parameter is close to arc length), so the
+// plain root of the sum of squares neither overflows nor underflows.
+func curveSpeed(x, y *[4]float64, u float64) float64 {
+	dx := x[1] + u*(2*x[2]+3*u*x[3])
+	dy := y[1] + u*(2*y[2]+3*u*y[3])
+	return math.Sqrt(dx*dx + dy*dy)
+}
+
+// partial returns the arc length of piece i from u = 0 to u: the length
+// up to the start of the leaf holding u plus the Gauss–Legendre rule over
+// the part of the leaf before u. A leaf is a part of the piece on which the
+// rule agrees with the bisected rule, so the rule is as accurate on any part
+// of it.
 func (c *Curve) partial(i int, u float64) float64 {
-	return c.partialOn(i, 0, u, c.glOn(i, 0, u), 0)
+	if u >= c.h(i) {
+		if u == c.h(i) {
+			return c.pl[i]
+		}
+		return c.pl[i] + c.glOn(i, c.h(i), u)
+	}
+	if !(u > 0) {
+		return c.glOn(i, 0, u)
+	}
+	k0, k1 := int(c.leafAt[i]), int(c.leafAt[i+1])
+	us := c.leafU[k0:k1]
+	// The leaf holding u is the first that ends after u.
+	k := 0
+	if len(us) <= 8 {
+		for k < len(us)-1 && us[k] <= u {
+			k++
+		}
+	} else {
+		k = sort.Search(len(us)-1, func(j int) bool { return us[j] > u })
+	}
+	var a, before float64
+	if k > 0 {
+		a, before = us[k-1], c.leafS[k0+k-1]
+	}
+	return before + c.glOn(i, a, u)
 }
 
 func (c *Curve) glOn(i int, a, b float64) float64 {
 	gl := curveGL()
+	x, y := &c.xs[i], &c.ys[i]
+	nodes, weights := gl[0][:curveGLOrder], gl[1][:curveGLOrder]
 	var l float64
-	for k, x := range gl[0] {
-		l += gl[1][k] * c.speed(i, a+x*(b-a))
+	for k, t := range nodes {
+		l += weights[k] * curveSpeed(x, y, a+t*(b-a))
 	}
 	return l * (b - a)
 }
 
-func (c *Curve) partialOn(i int, a, b, whole float64, depth int) float64 {
+// partialOn returns the length of piece i from a to b, given the rule over
+// the whole of [a, b], bisecting until the halves agree with the whole.
+// It records the halves of every accepted part as leaves in lv.
+func (c *Curve) partialOn(i int, a, b, whole float64, depth int, lv *curveLeaves) float64 {
 	m := (a + b) / 2
 	l, r := c.glOn(i, a, m), c.glOn(i, m, b)
 	if depth >= curveMaxDepth || math.Abs(l+r-whole) <= 1e-11*math.Abs(whole) {
+		lv.sum += l
+		lv.u, lv.s = append(lv.u, m), append(lv.s, lv.sum)
+		lv.sum += r
+		lv.u, lv.s = append(lv.u, b), append(lv.s, lv.sum)
 		return l + r
 	}
-	return c.partialOn(i, a, m, l, depth+1) + c.partialOn(i, m, b, r, depth+1)
+	return c.partialOn(i, a, m, l, depth+1, lv) + c.partialOn(i, m, b, r, depth+1, lv)
 }
 
 // curveMaxDepth bounds the bisection of partial.
