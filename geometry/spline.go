@@ -65,16 +65,17 @@ type splineFixed struct {
 	// at zero) and qv[i][x] its value.
 	qu [][3]int32
 	qv [][3]float64
-	// The products qv[i][x]·qv[i][y] of row i go to band slots
-	// pairs[rowEnd[i−1]:rowEnd[i]], in the order assemble adds them.
-	pairs  []splineQQ
-	rowEnd []int32
+	// Slot k of the flat band storage (splineBand.all) of QᵀW⁻¹Q is the
+	// sum of the products of two entries of a row of Q in
+	// terms[slotAt[k]:slotAt[k+1]], in the order of the rows, as assemble
+	// adds them.
+	terms  []splineQQ
+	slotAt []int32
 }
 
-// splineQQ is one product of two entries of a row of Q and its slot in the
-// flat storage of a band (splineBand.all).
+// splineQQ is the product of two entries qx, qy of row row of Q.
 type splineQQ struct {
-	slot   int32
+	row    int32
 	qx, qy float64
 }
 
@@ -86,6 +87,7 @@ type splineScratch struct {
 	c1, c2     []float64
 	rhs        [][]float64
 	s0, s1, s2 []float64
+	fs         []float64 // λ/wᵢ
 }
 
 // splineNewProblem returns the problem for knots ts (strictly increasing)
@@ -267,10 +269,14 @@ func (p *splineProblem) fixedPart() *splineFixed {
 			p.open = splineNewProblem(p.ts, p.ws, false, 0)
 		}
 		n, m := p.n(), p.m
-		fx := &splineFixed{qu: make([][3]int32, n), qv: make([][3]float64, n), rowEnd: make([]int32, n)}
+		fx := &splineFixed{qu: make([][3]int32, n), qv: make([][3]float64, n)}
 		fx.r, _ = p.assemble(0)
 		a := splineNewBand(m, p.periodic) // only for slot
-		fx.pairs = make([]splineQQ, 0, 6*n)
+		type slotted struct {
+			slot int
+			t    splineQQ
+		}
+		var all []slotted
 		for i := 0; i < n; i++ {
 			cs, qs := p.qRow(i)
 			for x := 0; x < 3; x++ {
@@ -283,16 +289,29 @@ func (p *splineProblem) fixedPart() *splineFixed {
 				if ux < 0 || qs[x] == 0 {
 					continue
 				}
-				fx.pairs = append(fx.pairs, splineQQ{int32(a.slot(ux, ux)), qs[x], qs[x]})
+				all = append(all, slotted{a.slot(ux, ux), splineQQ{int32(i), qs[x], qs[x]}})
 				for y := x + 1; y < 3; y++ {
 					uy := p.unknown(cs[y])
 					if uy < 0 || qs[y] == 0 {
 						continue
 					}
-					fx.pairs = append(fx.pairs, splineQQ{int32(a.slot(ux, uy)), qs[x], qs[y]})
+					all = append(all, slotted{a.slot(ux, uy), splineQQ{int32(i), qs[x], qs[y]}})
 				}
 			}
-			fx.rowEnd[i] = int32(len(fx.pairs))
+		}
+		// Group by slot, keeping the order of the rows within a slot.
+		fx.slotAt = make([]int32, 3*m+1)
+		for _, e := range all {
+			fx.slotAt[e.slot+1]++
+		}
+		for k := 0; k < 3*m; k++ {
+			fx.slotAt[k+1] += fx.slotAt[k]
+		}
+		fx.terms = make([]splineQQ, len(all))
+		next := append([]int32(nil), fx.slotAt[:3*m]...)
+		for _, e := range all {
+			fx.terms[next[e.slot]] = e.t
+			next[e.slot]++
 		}
 		p.fixed = fx
 	})
@@ -314,6 +333,7 @@ func (p *splineProblem) getScratch() *splineScratch {
 		a:   splineNewBand(m, p.periodic),
 		ldl: splineLDL{d: make([]float64, m), l1: make([]float64, m), l2: make([]float64, m)},
 		s0:  make([]float64, m), s1: make([]float64, m), s2: make([]float64, m),
+		fs: make([]float64, p.n()),
 	}
 	if p.periodic {
 		sc.c1, sc.c2 = make([]float64, m-2), make([]float64, m-2)
@@ -329,20 +349,19 @@ func (p *splineProblem) putScratch(sc *splineScratch) {
 }
 
 // assembleInto writes R + λ QᵀW⁻¹Q into a, adding the same terms in the
-// same order as assemble, so the result is identical.
-func (p *splineProblem) assembleInto(fx *splineFixed, lambda float64, a *splineBand) {
-	all := a.all
-	clear(all)
-	start := int32(0)
-	for i, end := range fx.rowEnd {
-		f := lambda / p.ws[i]
-		for _, e := range fx.pairs[start:end] {
-			all[e.slot] += f * e.qx * e.qy
-		}
-		start = end
+// same order as assemble, so the result is identical. fs is work space of
+// length n.
+func (p *splineProblem) assembleInto(fx *splineFixed, lambda float64, a *splineBand, fs []float64) {
+	for i, w := range p.ws {
+		fs[i] = lambda / w
 	}
-	for j, v := range fx.r.all {
-		all[j] += v
+	r := fx.r.all
+	for k := range a.all {
+		var v float64
+		for _, t := range fx.terms[fx.slotAt[k]:fx.slotAt[k+1]] {
+			v += fs[t.row] * t.qx * t.qy
+		}
+		a.all[k] = v + r[k]
 	}
 }
 
@@ -408,6 +427,135 @@ func (f *splineLDL) solve(x []float64) {
 		x[j] -= f.l1[j+1] * x[j+1]
 		if j+2 < m {
 			x[j] -= f.l2[j+2] * x[j+2]
+		}
+	}
+}
+
+// solve2 is solve for x and y at once, with the same operations on each.
+func (f *splineLDL) solve2(x, y []float64) {
+	m := len(f.d)
+	d, l1, l2 := f.d, f.l1, f.l2
+	x, y = x[:m], y[:m]
+	if m > 1 {
+		x[1] -= l1[1] * x[0]
+		y[1] -= l1[1] * y[0]
+	}
+	for j := 2; j < m; j++ {
+		a, b := l1[j], l2[j]
+		x[j] -= a * x[j-1]
+		y[j] -= a * y[j-1]
+		x[j] -= b * x[j-2]
+		y[j] -= b * y[j-2]
+	}
+	for j := 0; j < m; j++ {
+		x[j] /= d[j]
+		y[j] /= d[j]
+	}
+	for j := m - 2; j >= 0; j-- {
+		a := l1[j+1]
+		x[j] -= a * x[j+1]
+		y[j] -= a * y[j+1]
+		if j+2 < m {
+			b := l2[j+2]
+			x[j] -= b * x[j+2]
+			y[j] -= b * y[j+2]
+		}
+	}
+}
+
+// splineTiny is the magnitude below which solveSparse sets entries to zero.
+const splineTiny = 1e-280
+
+// solveSparse is solve for a right-hand side that is zero but for a few
+// entries near the ends, as the coupling columns of a cyclic system are.
+// Its solution decays geometrically away from them, through subnormal
+// numbers, which are very slow to compute with; solveSparse sets entries
+// below splineTiny in magnitude to zero instead, changing the solution by
+// less than that.
+func (f *splineLDL) solveSparse(x []float64) {
+	m := len(f.d)
+	// An entry whose two predecessors (successors, going back) are zero
+	// does not change; the long run of zeros in the middle is skipped.
+	for j := 1; j < m; j++ {
+		if j >= 2 && x[j-1] == 0 && x[j-2] == 0 {
+			continue
+		}
+		x[j] -= f.l1[j] * x[j-1]
+		if j >= 2 {
+			x[j] -= f.l2[j] * x[j-2]
+		}
+		if math.Abs(x[j]) < splineTiny {
+			x[j] = 0
+		}
+	}
+	for j := 0; j < m; j++ {
+		if x[j] != 0 {
+			x[j] /= f.d[j]
+		}
+	}
+	for j := m - 2; j >= 0; j-- {
+		if j+2 < m && x[j+1] == 0 && x[j+2] == 0 {
+			continue
+		}
+		x[j] -= f.l1[j+1] * x[j+1]
+		if j+2 < m {
+			x[j] -= f.l2[j+2] * x[j+2]
+		}
+		if math.Abs(x[j]) < splineTiny {
+			x[j] = 0
+		}
+	}
+}
+
+// solveSparse2 is solveSparse for x and y at once (see solve2).
+func (f *splineLDL) solveSparse2(x, y []float64) {
+	m := len(f.d)
+	d, l1, l2 := f.d, f.l1, f.l2
+	x, y = x[:m], y[:m]
+	for j := 1; j < m; j++ {
+		if j >= 2 && x[j-1] == 0 && x[j-2] == 0 && y[j-1] == 0 && y[j-2] == 0 {
+			continue
+		}
+		a := l1[j]
+		x[j] -= a * x[j-1]
+		y[j] -= a * y[j-1]
+		if j >= 2 {
+			b := l2[j]
+			x[j] -= b * x[j-2]
+			y[j] -= b * y[j-2]
+		}
+		if math.Abs(x[j]) < splineTiny {
+			x[j] = 0
+		}
+		if math.Abs(y[j]) < splineTiny {
+			y[j] = 0
+		}
+	}
+	for j := 0; j < m; j++ {
+		if x[j] != 0 {
+			x[j] /= d[j]
+		}
+		if y[j] != 0 {
+			y[j] /= d[j]
+		}
+	}
+	for j := m - 2; j >= 0; j-- {
+		if j+2 < m && x[j+1] == 0 && x[j+2] == 0 && y[j+1] == 0 && y[j+2] == 0 {
+			continue
+		}
+		a := l1[j+1]
+		x[j] -= a * x[j+1]
+		y[j] -= a * y[j+1]
+		if j+2 < m {
+			b := l2[j+2]
+			x[j] -= b * x[j+2]
+			y[j] -= b * y[j+2]
+		}
+		if math.Abs(x[j]) < splineTiny {
+			x[j] = 0
+		}
+		if math.Abs(y[j]) < splineTiny {
+			y[j] = 0
 		}
 	}
 }
@@ -485,8 +633,7 @@ func (s *splineSolver) setup(b *splineBand, c1, c2 []float64) error {
 		return err
 	}
 	s.couplingTo(s.y1, s.y2)
-	f.solve(s.y1)
-	f.solve(s.y2)
+	f.solveSparse2(s.y1, s.y2)
 	// S = D − Cᵀ B⁻¹ C.
 	if c1 == nil {
 		c1, c2 = make([]float64, m-2), make([]float64, m-2)
@@ -534,10 +681,28 @@ func (s *splineSolver) solve(x []float64) {
 		s.ldl.solve(x)
 		return
 	}
+	s.ldl.solve(x[:len(x)-2])
+	s.finish(x)
+}
+
+// solve2 is solve for two right-hand sides at once. The sweeps are
+// sequential chains of operations; two independent chains in one loop run
+// side by side in the processor, so this takes little longer than one.
+func (s *splineSolver) solve2(x, y []float64) {
+	if !s.cyclic {
+		s.ldl.solve2(x, y)
+		return
+	}
+	s.ldl.solve2(x[:len(x)-2], y[:len(y)-2])
+	s.finish(x)
+	s.finish(y)
+}
+
+// finish completes a cyclic solve once the leading block of x holds B⁻¹ b₁.
+func (s *splineSolver) finish(x []float64) {
 	m := len(x)
 	z := x[:m-2]
 	b1, b2 := x[m-2], x[m-1]
-	s.ldl.solve(z)
 	// r = b₂ − Cᵀ z.
 	var r1, r2 float64
 	b := s.band
@@ -562,10 +727,23 @@ type splineFit struct {
 // when the problem is periodic; the two differ by O(1)).
 func (p *splineProblem) fit(lambda float64, ys [][]float64, wantTrace bool) (*splineFit, error) {
 	fx := p.fixedPart()
+	// The trace of a periodic problem comes from the open problem on the
+	// same knots, independent of the rest: for many knots it is computed
+	// on a second goroutine meanwhile.
+	var (
+		tr       float64
+		trErr    error
+		wg       sync.WaitGroup
+		parallel = wantTrace && p.periodic && p.n() >= splineParallelKnots
+	)
+	if parallel {
+		wg.Go(func() { tr, trErr = p.open.openTrace(lambda) })
+		defer wg.Wait()
+	}
 	sc := p.getScratch()
 	defer p.putScratch(sc)
 	a := sc.a
-	p.assembleInto(fx, lambda, a)
+	p.assembleInto(fx, lambda, a, sc.fs)
 	sol := &sc.sol
 	sol.ldl = &sc.ldl
 	if err := sol.setup(a, sc.c1, sc.c2); err != nil {
@@ -587,7 +765,16 @@ func (p *splineProblem) fit(lambda float64, ys [][]float64, wantTrace bool) (*sp
 				}
 			}
 		}
-		sol.solve(rhs)
+	}
+	k := 0
+	for ; k+1 < len(ys); k += 2 {
+		sol.solve2(sc.rhs[k], sc.rhs[k+1])
+	}
+	if k < len(ys) {
+		sol.solve(sc.rhs[k])
+	}
+	for k, y := range ys {
+		rhs := sc.rhs[k]
 		g := make([]float64, n)
 		gam := make([]float64, n)
 		for i := 0; i < n; i++ {
@@ -609,36 +796,58 @@ func (p *splineProblem) fit(lambda float64, ys [][]float64, wantTrace bool) (*sp
 		out.gams = append(out.gams, gam)
 	}
 	if wantTrace {
-		q, qfx, qsc, f := p, fx, sc, &sc.ldl
 		if p.periodic {
-			q = p.open
-			qfx = q.fixedPart()
-			qsc = q.getScratch()
-			defer q.putScratch(qsc)
-			q.assembleInto(qfx, lambda, qsc.a)
-			f = &qsc.ldl
-			if err := splineFactorInto(qsc.a, q.m, f); err != nil {
-				return nil, err
+			if parallel {
+				wg.Wait()
+			} else {
+				tr, trErr = p.open.openTrace(lambda)
 			}
+			if trErr != nil {
+				return nil, trErr
+			}
+			out.trace = float64(n) - tr
+		} else {
+			// An open problem's solver factored the whole band already.
+			out.trace = float64(n) - p.traceTerm(fx, sc, &sc.ldl)
 		}
-		// An open problem's solver factored the whole band already.
-		a, r := qsc.a, qfx.r
-		f.inverseBandInto(qsc.s0, qsc.s1, qsc.s2)
-		s0, s1, s2 := qsc.s0, qsc.s1, qsc.s2
-		// tr H = n − tr(A⁻¹ (A − R)), both symmetric pentadiagonal.
-		var t float64
-		for j := 0; j < q.m; j++ {
-			t += s0[j] * (a.d0[j] - r.d0[j])
-			if j+1 < q.m {
-				t += 2 * s1[j] * (a.d1[j] - r.d1[j])
-			}
-			if j+2 < q.m {
-				t += 2 * s2[j] * (a.d2[j] - r.d2[j])
-			}
-		}
-		out.trace = float64(n) - t
 	}
 	return out, nil
+}
+
+// splineParallelKnots is the least number of knots for which fit computes
+// the trace of a periodic problem on a second goroutine.
+const splineParallelKnots = 2000
+
+// openTrace returns tr(A⁻¹ (A − R)) for the open problem p at λ.
+func (p *splineProblem) openTrace(lambda float64) (float64, error) {
+	fx := p.fixedPart()
+	sc := p.getScratch()
+	defer p.putScratch(sc)
+	p.assembleInto(fx, lambda, sc.a, sc.fs)
+	if err := splineFactorInto(sc.a, p.m, &sc.ldl); err != nil {
+		return 0, err
+	}
+	return p.traceTerm(fx, sc, &sc.ldl), nil
+}
+
+// traceTerm returns tr(A⁻¹ (A − R)) for the open problem p, whose system is
+// in sc.a and factored in f: tr H = n − tr(A⁻¹ (A − R)), both symmetric
+// pentadiagonal.
+func (p *splineProblem) traceTerm(fx *splineFixed, sc *splineScratch, f *splineLDL) float64 {
+	a, r := sc.a, fx.r
+	f.inverseBandInto(sc.s0, sc.s1, sc.s2)
+	s0, s1, s2 := sc.s0, sc.s1, sc.s2
+	var t float64
+	for j := 0; j < p.m; j++ {
+		t += s0[j] * (a.d0[j] - r.d0[j])
+		if j+1 < p.m {
+			t += 2 * s1[j] * (a.d1[j] - r.d1[j])
+		}
+		if j+2 < p.m {
+			t += 2 * s2[j] * (a.d2[j] - r.d2[j])
+		}
+	}
+	return t
 }
 
 // splinePieces converts knot values g and second derivatives γ into cubic
