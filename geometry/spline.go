@@ -65,18 +65,6 @@ type splineFixed struct {
 	// at zero) and qv[i][x] its value.
 	qu [][3]int32
 	qv [][3]float64
-	// Slot k of the flat band storage (splineBand.all) of QᵀW⁻¹Q is the
-	// sum of the products of two entries of a row of Q in
-	// terms[slotAt[k]:slotAt[k+1]], in the order of the rows, as assemble
-	// adds them.
-	terms  []splineQQ
-	slotAt []int32
-}
-
-// splineQQ is the product of two entries qx, qy of row row of Q.
-type splineQQ struct {
-	row    int32
-	qx, qy float64
 }
 
 // splineScratch is the work space of one fit.
@@ -268,50 +256,15 @@ func (p *splineProblem) fixedPart() *splineFixed {
 		if p.periodic {
 			p.open = splineNewProblem(p.ts, p.ws, false, 0)
 		}
-		n, m := p.n(), p.m
+		n := p.n()
 		fx := &splineFixed{qu: make([][3]int32, n), qv: make([][3]float64, n)}
 		fx.r, _ = p.assemble(0)
-		a := splineNewBand(m, p.periodic) // only for slot
-		type slotted struct {
-			slot int
-			t    splineQQ
-		}
-		var all []slotted
 		for i := 0; i < n; i++ {
 			cs, qs := p.qRow(i)
 			for x := 0; x < 3; x++ {
 				fx.qu[i][x] = int32(p.unknown(cs[x]))
 				fx.qv[i][x] = qs[x]
 			}
-			// The same order as assemble.
-			for x := 0; x < 3; x++ {
-				ux := p.unknown(cs[x])
-				if ux < 0 || qs[x] == 0 {
-					continue
-				}
-				all = append(all, slotted{a.slot(ux, ux), splineQQ{int32(i), qs[x], qs[x]}})
-				for y := x + 1; y < 3; y++ {
-					uy := p.unknown(cs[y])
-					if uy < 0 || qs[y] == 0 {
-						continue
-					}
-					all = append(all, slotted{a.slot(ux, uy), splineQQ{int32(i), qs[x], qs[y]}})
-				}
-			}
-		}
-		// Group by slot, keeping the order of the rows within a slot.
-		fx.slotAt = make([]int32, 3*m+1)
-		for _, e := range all {
-			fx.slotAt[e.slot+1]++
-		}
-		for k := 0; k < 3*m; k++ {
-			fx.slotAt[k+1] += fx.slotAt[k]
-		}
-		fx.terms = make([]splineQQ, len(all))
-		next := append([]int32(nil), fx.slotAt[:3*m]...)
-		for _, e := range all {
-			fx.terms[next[e.slot]] = e.t
-			next[e.slot]++
 		}
 		p.fixed = fx
 	})
@@ -351,17 +304,57 @@ func (p *splineProblem) putScratch(sc *splineScratch) {
 // assembleInto writes R + λ QᵀW⁻¹Q into a, adding the same terms in the
 // same order as assemble, so the result is identical. fs is work space of
 // length n.
+//
+// Entry (u, u+δ) of QᵀW⁻¹Q, u the unknown at knot c, sums over the rows
+// i = c+1−x of Q (x = 2−δ, …, 0; modulo n when periodic) the products
+// (λ/wᵢ)·Q[i][x]·Q[i][x+δ] of the entries x and x+δ of row i, in the order
+// of i, as assemble adds them.
 func (p *splineProblem) assembleInto(fx *splineFixed, lambda float64, a *splineBand, fs []float64) {
+	n, m := p.n(), p.m
 	for i, w := range p.ws {
 		fs[i] = lambda / w
 	}
-	r := fx.r.all
-	for k := range a.all {
-		var v float64
-		for _, t := range fx.terms[fx.slotAt[k]:fx.slotAt[k+1]] {
-			v += fs[t.row] * t.qx * t.qy
+	qv := fx.qv
+	shift := 1 // knot of unknown 0
+	if p.periodic {
+		shift = 0
+	}
+	for delta := 0; delta < 3; delta++ {
+		d := a.all[delta*m : (delta+1)*m]
+		r := fx.r.all[delta*m : (delta+1)*m]
+		for u := range d {
+			if !p.periodic && u+delta > m-1 {
+				d[u] = 0 + r[u]
+				continue
+			}
+			c := u + shift
+			var v float64
+			if c-1+delta >= 0 && c+1 <= n-1 {
+				for x := 2 - delta; x >= 0; x-- {
+					i := c + 1 - x
+					v += fs[i] * qv[i][x] * qv[i][x+delta]
+				}
+			} else {
+				// The rows wrap round: take them in increasing order.
+				var rows, xs [3]int
+				k := 0
+				for x := 2 - delta; x >= 0; x-- {
+					i := ((c+1-x)%n + n) % n
+					j := k
+					for j > 0 && rows[j-1] > i {
+						rows[j], xs[j] = rows[j-1], xs[j-1]
+						j--
+					}
+					rows[j], xs[j] = i, x
+					k++
+				}
+				for j := 0; j < k; j++ {
+					i, x := rows[j], xs[j]
+					v += fs[i] * qv[i][x] * qv[i][x+delta]
+				}
+			}
+			d[u] = v + r[u]
 		}
-		a.all[k] = v + r[k]
 	}
 }
 
