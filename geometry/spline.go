@@ -378,28 +378,44 @@ func splineFactor(b *splineBand, m int) (*splineLDL, error) {
 // reslices to length m (its capacity must be at least m).
 func splineFactorInto(b *splineBand, m int, f *splineLDL) error {
 	f.d, f.l1, f.l2 = f.d[:m], f.l1[:m], f.l2[:m]
-	f.l1[0], f.l2[0] = 0, 0
-	if m > 1 {
-		f.l2[1] = 0
+	if m == 0 {
+		return nil
 	}
-	for j := 0; j < m; j++ {
-		dj := b.d0[j]
-		if j >= 2 {
-			f.l2[j] = b.d2[j-2] / f.d[j-2]
-			dj -= f.l2[j] * f.l2[j] * f.d[j-2]
+	d, l1, l2 := f.d, f.l1, f.l2
+	b0, b1, b2 := b.d0[:m], b.d1[:m], b.d2[:m]
+	l1[0], l2[0] = 0, 0
+	bad := func(j int) error {
+		return fmt.Errorf("geometry: spline system not positive definite at row %d", j)
+	}
+	dj := b0[0]
+	if !(dj > 0 && dj <= math.MaxFloat64) {
+		return bad(0)
+	}
+	d[0] = dj
+	if m == 1 {
+		return nil
+	}
+	l2[1] = 0
+	l1j := b1[0] / d[0]
+	dj = b0[1] - l1j*l1j*d[0]
+	if !(dj > 0 && dj <= math.MaxFloat64) {
+		return bad(1)
+	}
+	l1[1], d[1] = l1j, dj
+	// The previous pivots and multiplier stay in registers: the loop is
+	// one chain of dependent operations.
+	dPrev2, dPrev1, l1Prev := d[0], d[1], l1j
+	for j := 2; j < m; j++ {
+		l2j := b2[j-2] / dPrev2
+		dj := b0[j] - l2j*l2j*dPrev2
+		v := b1[j-1] - l2j*dPrev2*l1Prev
+		l1j := v / dPrev1
+		dj -= l1j * l1j * dPrev1
+		if !(dj > 0 && dj <= math.MaxFloat64) {
+			return bad(j)
 		}
-		if j >= 1 {
-			v := b.d1[j-1]
-			if j >= 2 {
-				v -= f.l2[j] * f.d[j-2] * f.l1[j-1]
-			}
-			f.l1[j] = v / f.d[j-1]
-			dj -= f.l1[j] * f.l1[j] * f.d[j-1]
-		}
-		if !(dj > 0) || math.IsInf(dj, 0) {
-			return fmt.Errorf("geometry: spline system not positive definite at row %d", j)
-		}
-		f.d[j] = dj
+		l2[j], l1[j], d[j] = l2j, l1j, dj
+		dPrev2, dPrev1, l1Prev = dPrev1, dj, l1j
 	}
 	return nil
 }
@@ -427,32 +443,37 @@ func (f *splineLDL) solve(x []float64) {
 // solve2 is solve for x and y at once, with the same operations on each.
 func (f *splineLDL) solve2(x, y []float64) {
 	m := len(f.d)
-	d, l1, l2 := f.d, f.l1, f.l2
-	x, y = x[:m], y[:m]
-	if m > 1 {
-		x[1] -= l1[1] * x[0]
-		y[1] -= l1[1] * y[0]
+	if m < 3 {
+		f.solve(x)
+		f.solve(y)
+		return
 	}
+	d, l1, l2 := f.d[:m], f.l1[:m], f.l2[:m]
+	x, y = x[:m], y[:m]
+	// The last two values of each sweep stay in registers, and the
+	// division by the pivots is done on the way back.
+	x1, y1 := x[1]-l1[1]*x[0], y[1]-l1[1]*y[0]
+	x[1], y[1] = x1, y1
+	x2, y2 := x[0], y[0]
 	for j := 2; j < m; j++ {
 		a, b := l1[j], l2[j]
-		x[j] -= a * x[j-1]
-		y[j] -= a * y[j-1]
-		x[j] -= b * x[j-2]
-		y[j] -= b * y[j-2]
+		vx := x[j] - a*x1 - b*x2
+		vy := y[j] - a*y1 - b*y2
+		x[j], y[j] = vx, vy
+		x2, x1, y2, y1 = x1, vx, y1, vy
 	}
-	for j := 0; j < m; j++ {
-		x[j] /= d[j]
-		y[j] /= d[j]
-	}
-	for j := m - 2; j >= 0; j-- {
-		a := l1[j+1]
-		x[j] -= a * x[j+1]
-		y[j] -= a * y[j+1]
-		if j+2 < m {
-			b := l2[j+2]
-			x[j] -= b * x[j+2]
-			y[j] -= b * y[j+2]
-		}
+	x1, y1 = x[m-1]/d[m-1], y[m-1]/d[m-1]
+	x[m-1], y[m-1] = x1, y1
+	a := l1[m-1]
+	vx, vy := x[m-2]/d[m-2]-a*x1, y[m-2]/d[m-2]-a*y1
+	x[m-2], y[m-2] = vx, vy
+	x2, x1, y2, y1 = x1, vx, y1, vy
+	for j := m - 3; j >= 0; j-- {
+		a, b := l1[j+1], l2[j+2]
+		vx := x[j]/d[j] - a*x1 - b*x2
+		vy := y[j]/d[j] - a*y1 - b*y2
+		x[j], y[j] = vx, vy
+		x2, x1, y2, y1 = x1, vx, y1, vy
 	}
 }
 
@@ -770,11 +791,12 @@ func (p *splineProblem) fit(lambda float64, ys [][]float64, wantTrace bool) (*sp
 		rhs := sc.rhs[k]
 		g := make([]float64, n)
 		gam := make([]float64, n)
-		for i := 0; i < n; i++ {
-			if u := p.unknown(i); u >= 0 {
-				gam[i] = rhs[u]
-			}
+		if p.periodic {
+			copy(gam, rhs)
+		} else {
+			copy(gam[1:n-1], rhs)
 		}
+		fs := sc.fs // λ/wᵢ, from assembleInto
 		for i := 0; i < n; i++ {
 			qu, qv := &fx.qu[i], &fx.qv[i]
 			var qg float64
@@ -783,7 +805,7 @@ func (p *splineProblem) fit(lambda float64, ys [][]float64, wantTrace bool) (*sp
 					qg += qv[x] * rhs[u]
 				}
 			}
-			g[i] = y[i] - lambda/p.ws[i]*qg
+			g[i] = y[i] - fs[i]*qg
 		}
 		out.gs = append(out.gs, g)
 		out.gams = append(out.gams, gam)
