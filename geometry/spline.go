@@ -312,7 +312,11 @@ func (p *splineProblem) putScratch(sc *splineScratch) {
 func (p *splineProblem) assembleInto(fx *splineFixed, lambda float64, a *splineBand, fs []float64) {
 	n, m := p.n(), p.m
 	for i, w := range p.ws {
-		fs[i] = lambda / w
+		if w == 1 {
+			fs[i] = lambda // λ/1, exactly, without the slow division
+		} else {
+			fs[i] = lambda / w
+		}
 	}
 	qv := fx.qv
 	shift := 1 // knot of unknown 0
@@ -322,7 +326,36 @@ func (p *splineProblem) assembleInto(fx *splineFixed, lambda float64, a *splineB
 	for delta := 0; delta < 3; delta++ {
 		d := a.all[delta*m : (delta+1)*m]
 		r := fx.r.all[delta*m : (delta+1)*m]
-		for u := range d {
+		// Interior entries, whose rows do not wrap round.
+		lo := max(1-delta-shift, 0)
+		hi := min(n-2-shift, m-1-delta)
+		switch delta {
+		case 0:
+			for u := lo; u <= hi; u++ {
+				i := u + shift
+				v := fs[i-1] * qv[i-1][2] * qv[i-1][2]
+				v += fs[i] * qv[i][1] * qv[i][1]
+				v += fs[i+1] * qv[i+1][0] * qv[i+1][0]
+				d[u] = v + r[u]
+			}
+		case 1:
+			for u := lo; u <= hi; u++ {
+				i := u + shift
+				v := fs[i] * qv[i][1] * qv[i][2]
+				v += fs[i+1] * qv[i+1][0] * qv[i+1][1]
+				d[u] = v + r[u]
+			}
+		case 2:
+			for u := lo; u <= hi; u++ {
+				i := u + shift + 1
+				d[u] = fs[i]*qv[i][0]*qv[i][2] + r[u]
+			}
+		}
+		for u := 0; u < m; u++ {
+			if u == lo && lo <= hi {
+				u = hi // skip the interior
+				continue
+			}
 			if !p.periodic && u+delta > m-1 {
 				d[u] = 0 + r[u]
 				continue
