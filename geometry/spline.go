@@ -774,19 +774,19 @@ type splineFit struct {
 // when the problem is periodic; the two differ by O(1)).
 func (p *splineProblem) fit(lambda float64, ys [][]float64, wantTrace bool) (*splineFit, error) {
 	fx := p.fixedPart()
-	// The trace of a periodic problem comes from the open problem on the
-	// same knots, independent of the rest: for many knots it is computed
-	// on a second goroutine meanwhile.
 	var (
-		tr       float64
-		trErr    error
-		wg       sync.WaitGroup
-		parallel = wantTrace && p.periodic && p.n() >= splineParallelKnots
+		tr    float64
+		trErr error
+		wg    sync.WaitGroup
+		// For many knots the trace is computed on a second goroutine,
+		// meanwhile: of the open problem on the same knots from the start
+		// when p is periodic, else once p's system is factored.
+		parallel = wantTrace && p.n() >= splineParallelKnots
 	)
-	if parallel {
+	if parallel && p.periodic {
 		wg.Go(func() { tr, trErr = p.open.openTrace(lambda) })
-		defer wg.Wait()
 	}
+	defer wg.Wait()
 	sc := p.getScratch()
 	defer p.putScratch(sc)
 	a := sc.a
@@ -796,22 +796,17 @@ func (p *splineProblem) fit(lambda float64, ys [][]float64, wantTrace bool) (*sp
 	if err := sol.setup(a, sc.c1, sc.c2); err != nil {
 		return nil, err
 	}
+	if parallel && !p.periodic {
+		// The solves below only read the factor.
+		wg.Go(func() { tr = p.traceTerm(fx, sc, &sc.ldl) })
+	}
 	n := p.n()
 	out := &splineFit{trace: math.NaN(), gs: make([][]float64, 0, len(ys)), gams: make([][]float64, 0, len(ys))}
 	for len(sc.rhs) < len(ys) {
 		sc.rhs = append(sc.rhs, make([]float64, p.m))
 	}
 	for k, y := range ys {
-		rhs := sc.rhs[k]
-		clear(rhs)
-		for i := 0; i < n; i++ {
-			qu, qv := &fx.qu[i], &fx.qv[i]
-			for x := 0; x < 3; x++ {
-				if u := qu[x]; u >= 0 {
-					rhs[u] += qv[x] * y[i]
-				}
-			}
-		}
+		p.rhsInto(fx, y, sc.rhs[k])
 	}
 	k := 0
 	for ; k+1 < len(ys); k += 2 {
@@ -829,41 +824,109 @@ func (p *splineProblem) fit(lambda float64, ys [][]float64, wantTrace bool) (*sp
 		} else {
 			copy(gam[1:n-1], rhs)
 		}
-		fs := sc.fs // λ/wᵢ, from assembleInto
-		for i := 0; i < n; i++ {
-			qu, qv := &fx.qu[i], &fx.qv[i]
-			var qg float64
-			for x := 0; x < 3; x++ {
-				if u := qu[x]; u >= 0 {
-					qg += qv[x] * rhs[u]
-				}
-			}
-			g[i] = y[i] - fs[i]*qg
-		}
+		p.valuesInto(fx, y, rhs, sc.fs, g)
 		out.gs = append(out.gs, g)
 		out.gams = append(out.gams, gam)
 	}
 	if wantTrace {
-		if p.periodic {
-			if parallel {
-				wg.Wait()
-			} else {
-				tr, trErr = p.open.openTrace(lambda)
-			}
-			if trErr != nil {
-				return nil, trErr
-			}
-			out.trace = float64(n) - tr
-		} else {
+		switch {
+		case parallel:
+			wg.Wait()
+		case p.periodic:
+			tr, trErr = p.open.openTrace(lambda)
+		default:
 			// An open problem's solver factored the whole band already.
-			out.trace = float64(n) - p.traceTerm(fx, sc, &sc.ldl)
+			tr = p.traceTerm(fx, sc, &sc.ldl)
 		}
+		if trErr != nil {
+			return nil, trErr
+		}
+		out.trace = float64(n) - tr
 	}
 	return out, nil
 }
 
+// rhsInto writes Qᵀy into rhs, adding the same terms in the same order as
+// the row-by-row sum: entry u, at knot c, takes rows c−1, c, c+1 of Q
+// (entries 2, 1, 0), in increasing row order.
+func (p *splineProblem) rhsInto(fx *splineFixed, y, rhs []float64) {
+	n, m := p.n(), p.m
+	qv := fx.qv
+	shift := 1 // knot of unknown 0
+	if p.periodic {
+		shift = 0
+	}
+	lo, hi := max(1-shift, 0), min(n-2-shift, m-1)
+	for u := lo; u <= hi; u++ {
+		c := u + shift
+		v := qv[c-1][2] * y[c-1]
+		v += qv[c][1] * y[c]
+		v += qv[c+1][0] * y[c+1]
+		rhs[u] = v
+	}
+	for u := 0; u < m; u++ {
+		if u == lo && lo <= hi {
+			u = hi
+			continue
+		}
+		// Rows wrapping round (periodic ends): in increasing order.
+		c := u + shift
+		var rows, xs [3]int
+		k := 0
+		for x := 2; x >= 0; x-- {
+			i := ((c+1-x)%n + n) % n
+			j := k
+			for j > 0 && rows[j-1] > i {
+				rows[j], xs[j] = rows[j-1], xs[j-1]
+				j--
+			}
+			rows[j], xs[j] = i, x
+			k++
+		}
+		var v float64
+		for j := 0; j < k; j++ {
+			v += qv[rows[j]][xs[j]] * y[rows[j]]
+		}
+		rhs[u] = v
+	}
+}
+
+// valuesInto writes the fitted values g = y − λW⁻¹Qγ, γ the solution in
+// gam (indexed by unknown) and fs[i] = λ/wᵢ, with the terms of each row in
+// the order of its entries.
+func (p *splineProblem) valuesInto(fx *splineFixed, y, gam, fs, g []float64) {
+	n := p.n()
+	qu, qv := fx.qu, fx.qv
+	shift := 1
+	if p.periodic {
+		shift = 0
+	}
+	// Rows 2 … n−3 have three unknowns, knots i−1, i, i+1, without wrap.
+	row := func(i int) {
+		var qg float64
+		for x := 0; x < 3; x++ {
+			if u := qu[i][x]; u >= 0 {
+				qg += qv[i][x] * gam[u]
+			}
+		}
+		g[i] = y[i] - fs[i]*qg
+	}
+	row(0)
+	row(1)
+	for i := 2; i <= n-3; i++ {
+		u := i - shift
+		q := &qv[i]
+		qg := q[0] * gam[u-1]
+		qg += q[1] * gam[u]
+		qg += q[2] * gam[u+1]
+		g[i] = y[i] - fs[i]*qg
+	}
+	row(n - 2)
+	row(n - 1)
+}
+
 // splineParallelKnots is the least number of knots for which fit computes
-// the trace of a periodic problem on a second goroutine.
+// the trace on a second goroutine.
 const splineParallelKnots = 2000
 
 // openTrace returns tr(A⁻¹ (A − R)) for the open problem p at λ.
