@@ -96,12 +96,24 @@ func curveNew(ts []float64, xs, ys [][4]float64, closed bool) *Curve {
 
 // curveParallelPieces is the least number of pieces for which curveNew
 // measures the pieces on two goroutines.
-const curveParallelPieces = 8192
+const curveParallelPieces = 2048
 
 // curveLeaves collects the leaves of a run of pieces.
 type curveLeaves struct {
 	u, s []float64
 	sum  float64 // arc length from the start of the current piece
+}
+
+// add records a leaf ending at u with arc length l. The storage doubles
+// when full: a curve with many rough pieces has many leaves.
+func (lv *curveLeaves) add(u, l float64) {
+	if len(lv.u) == cap(lv.u) {
+		k := 2*cap(lv.u) + 16
+		lv.u = append(make([]float64, 0, k), lv.u...)
+		lv.s = append(make([]float64, 0, k), lv.s...)
+	}
+	lv.sum += l
+	lv.u, lv.s = append(lv.u, u), append(lv.s, lv.sum)
 }
 
 // measure sets pl[i] and leafAt[i+1] for pieces lo ≤ i < hi, with leaf
@@ -184,15 +196,22 @@ func (c *Curve) partial(i int, u float64) float64 {
 }
 
 func (c *Curve) glOn(i int, a, b float64) float64 {
-	gl := curveGL()
 	x, y := &c.xs[i], &c.ys[i]
-	nodes, weights := gl[0][:curveGLOrder], gl[1][:curveGLOrder]
 	var l float64
-	for k, t := range nodes {
-		l += weights[k] * curveSpeed(x, y, a+t*(b-a))
+	for k, t := range curveGLNodes {
+		l += curveGLWeights[k] * curveSpeed(x, y, a+t*(b-a))
 	}
 	return l * (b - a)
 }
+
+// curveGLNodes and curveGLWeights are curveGL in arrays, for the hot loop
+// of glOn.
+var curveGLNodes, curveGLWeights = func() (x, w [curveGLOrder]float64) {
+	gl := curveGL()
+	copy(x[:], gl[0])
+	copy(w[:], gl[1])
+	return x, w
+}()
 
 // partialOn returns the length of piece i from a to b, given the rule over
 // the whole of [a, b], bisecting until the halves agree with the whole.
@@ -201,10 +220,8 @@ func (c *Curve) partialOn(i int, a, b, whole float64, depth int, lv *curveLeaves
 	m := (a + b) / 2
 	l, r := c.glOn(i, a, m), c.glOn(i, m, b)
 	if depth >= curveMaxDepth || math.Abs(l+r-whole) <= 1e-11*math.Abs(whole) {
-		lv.sum += l
-		lv.u, lv.s = append(lv.u, m), append(lv.s, lv.sum)
-		lv.sum += r
-		lv.u, lv.s = append(lv.u, b), append(lv.s, lv.sum)
+		lv.add(m, l)
+		lv.add(b, r)
 		return l + r
 	}
 	return c.partialOn(i, a, m, l, depth+1, lv) + c.partialOn(i, m, b, r, depth+1, lv)
