@@ -472,7 +472,9 @@ func (c *Curve) Transform(m [2][2]float64, b Point) *Curve {
 	ts := append([]float64(nil), c.ts...)
 	// Scale the parameter with the map so that it stays close to arc length.
 	f := math.Sqrt(math.Abs(m[0][0]*m[1][1] - m[0][1]*m[1][0]))
+	fu := 1.0 // factor of the parameter
 	if f > 0 && f != 1 {
+		fu = f
 		for i := range ts {
 			ts[i] *= f
 		}
@@ -484,7 +486,65 @@ func (c *Curve) Transform(m [2][2]float64, b Point) *Curve {
 			}
 		}
 	}
+	// A similarity (rotation, reflection, uniform scale) multiplies every
+	// arc length by its scale: the image keeps the quadrature of c, scaled.
+	a, b2, cc, d := m[0][0], m[0][1], m[1][0], m[1][1]
+	sq := a*a + b2*b2 + cc*cc + d*d
+	if sq > 0 && math.Abs(a*a+cc*cc-b2*b2-d*d) <= 1e-13*sq && math.Abs(a*b2+cc*d) <= 1e-13*sq {
+		fs := math.Sqrt(sq / 2)
+		pl := make([]float64, len(c.pl))
+		for i, l := range c.pl {
+			pl[i] = fs * l
+		}
+		lu := make([]float64, len(c.leafU))
+		ls := make([]float64, len(c.leafS))
+		for k := range lu {
+			lu[k] = fu * c.leafU[k]
+			ls[k] = fs * c.leafS[k]
+		}
+		out := curveWithTables(ts, xs, ys, c.closed, pl, append([]int32(nil), c.leafAt...), lu, ls)
+		out.fixEnds(func(i int) float64 { return fu * c.h(i) })
+		return out
+	}
 	return curveNew(ts, xs, ys, c.closed)
+}
+
+// fixEnds corrects tables carried over from another curve for the
+// rounding of the piece parameters: piece i was measured over [0, want(i)]
+// but its parameter, a difference of cumulative values, spans [0, h(i)].
+// The length of the sliver between them is added (midpoint rule: the
+// sliver is a few units of rounding wide) and the arc-length table redone.
+func (c *Curve) fixEnds(want func(int) float64) {
+	changed := false
+	for i := range c.pl {
+		h, w := c.h(i), want(i)
+		if h == w {
+			continue
+		}
+		changed = true
+		dl := (h - w) * c.speed(i, (h+w)/2)
+		c.pl[i] += dl
+		last := int(c.leafAt[i+1]) - 1
+		c.leafU[last] = h
+		c.leafS[last] += dl
+	}
+	if changed {
+		for i, l := range c.pl {
+			c.ss[i+1] = c.ss[i] + l
+		}
+	}
+}
+
+// curveWithTables returns the curve with the given pieces, piece lengths
+// and quadrature leaves (see Curve), which must be those curveNew would
+// find up to rounding.
+func curveWithTables(ts []float64, xs, ys [][4]float64, closed bool, pl []float64, leafAt []int32, leafU, leafS []float64) *Curve {
+	c := &Curve{ts: ts, xs: xs, ys: ys, closed: closed, pl: pl, leafAt: leafAt, leafU: leafU, leafS: leafS}
+	c.ss = make([]float64, len(pl)+1)
+	for i, l := range pl {
+		c.ss[i+1] = c.ss[i] + l
+	}
+	return c
 }
 
 // Reverse returns c traversed the other way.
@@ -493,14 +553,31 @@ func (c *Curve) Reverse() *Curve {
 	xs := make([][4]float64, np)
 	ys := make([][4]float64, np)
 	ts := make([]float64, np+1)
+	// Piece j is piece i = np−1−j run backwards: its leaves end where
+	// those of piece i begin, seen from the other end.
+	pl := make([]float64, np)
+	leafAt := make([]int32, np+1)
+	leafU := make([]float64, 0, len(c.leafU))
+	leafS := make([]float64, 0, len(c.leafS))
 	for j := 0; j < np; j++ {
 		i := np - 1 - j
 		h := c.h(i)
 		xs[j] = curveFlip(c.xs[i], h)
 		ys[j] = curveFlip(c.ys[i], h)
 		ts[j+1] = ts[j] + h
+		pl[j] = c.pl[i]
+		k0, k1 := int(c.leafAt[i]), int(c.leafAt[i+1])
+		for k := k1 - 2; k >= k0; k-- {
+			leafU = append(leafU, h-c.leafU[k])
+			leafS = append(leafS, c.pl[i]-c.leafS[k])
+		}
+		leafU = append(leafU, ts[j+1]-ts[j])
+		leafS = append(leafS, c.pl[i])
+		leafAt[j+1] = int32(len(leafU))
 	}
-	return curveNew(ts, xs, ys, c.closed)
+	out := curveWithTables(ts, xs, ys, c.closed, pl, leafAt, leafU, leafS)
+	out.fixEnds(func(j int) float64 { return c.h(np - 1 - j) })
+	return out
 }
 
 // curveFlip returns the coefficients of P(h − v).
