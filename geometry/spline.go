@@ -926,8 +926,9 @@ func (p *splineProblem) valuesInto(fx *splineFixed, y, gam, fs, g []float64) {
 }
 
 // splineParallelKnots is the least number of knots for which fit computes
-// the trace on a second goroutine.
-const splineParallelKnots = 2000
+// the trace on a second goroutine (a variable so that tests can take either
+// path).
+var splineParallelKnots = 2000
 
 // openTrace returns tr(A⁻¹ (A − R)) for the open problem p at λ.
 func (p *splineProblem) openTrace(lambda float64) (float64, error) {
