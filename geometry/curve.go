@@ -4,6 +4,7 @@ import (
 	"math"
 	"sort"
 	"sync"
+	"sync/atomic"
 
 	"gonum.org/v1/gonum/integrate/quad"
 )
@@ -71,19 +72,37 @@ func curveNew(ts []float64, xs, ys [][4]float64, closed bool) *Curve {
 	c.leafAt = make([]int32, np+1)
 	if np >= curveParallelPieces {
 		// The pieces are independent; the table does not depend on the
-		// split.
-		mid := np / 2
-		var lo curveLeaves
-		var wg sync.WaitGroup
-		wg.Go(func() { lo = c.measure(0, mid) })
-		hi := c.measure(mid, np)
-		wg.Wait()
-		off := int32(len(lo.u))
-		for i := mid + 1; i <= np; i++ {
-			c.leafAt[i] += off
+		// split. Rough pieces, which cost most, bunch together, so two
+		// goroutines take chunks in turn rather than half each.
+		nc := (np + curveChunk - 1) / curveChunk
+		chunks := make([]curveLeaves, nc)
+		var next atomic.Int64
+		work := func() {
+			for {
+				k := int(next.Add(1)) - 1
+				if k >= nc {
+					return
+				}
+				chunks[k] = c.measure(k*curveChunk, min((k+1)*curveChunk, np))
+			}
 		}
-		c.leafU = append(lo.u, hi.u...)
-		c.leafS = append(lo.s, hi.s...)
+		var wg sync.WaitGroup
+		wg.Go(work)
+		work()
+		wg.Wait()
+		total := 0
+		for _, ch := range chunks {
+			total += len(ch.u)
+		}
+		c.leafU, c.leafS = make([]float64, 0, total), make([]float64, 0, total)
+		for k, ch := range chunks {
+			off := int32(len(c.leafU))
+			for i := k*curveChunk + 1; i <= min((k+1)*curveChunk, np); i++ {
+				c.leafAt[i] += off
+			}
+			c.leafU = append(c.leafU, ch.u...)
+			c.leafS = append(c.leafS, ch.s...)
+		}
 	} else {
 		all := c.measure(0, np)
 		c.leafU, c.leafS = all.u, all.s
@@ -97,6 +116,10 @@ func curveNew(ts []float64, xs, ys [][4]float64, closed bool) *Curve {
 // curveParallelPieces is the least number of pieces for which curveNew
 // measures the pieces on two goroutines.
 const curveParallelPieces = 2048
+
+// curveChunk is the number of pieces a goroutine of curveNew measures at a
+// time.
+const curveChunk = 512
 
 // curveLeaves collects the leaves of a run of pieces.
 type curveLeaves struct {
