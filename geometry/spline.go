@@ -510,51 +510,16 @@ func (f *splineLDL) solve2(x, y []float64) {
 	}
 }
 
-// splineTiny is the magnitude below which solveSparse sets entries to zero.
+// splineTiny is the magnitude below which solveSparse2 sets entries to zero.
 const splineTiny = 1e-280
 
-// solveSparse is solve for a right-hand side that is zero but for a few
+// solveSparse2 is solve2 for right-hand sides that are zero but for a few
 // entries near the ends, as the coupling columns of a cyclic system are.
-// Its solution decays geometrically away from them, through subnormal
-// numbers, which are very slow to compute with; solveSparse sets entries
+// The solutions decay geometrically away from them, through subnormal
+// numbers, which are very slow to compute with; solveSparse2 sets entries
 // below splineTiny in magnitude to zero instead, changing the solution by
-// less than that.
-func (f *splineLDL) solveSparse(x []float64) {
-	m := len(f.d)
-	// An entry whose two predecessors (successors, going back) are zero
-	// does not change; the long run of zeros in the middle is skipped.
-	for j := 1; j < m; j++ {
-		if j >= 2 && x[j-1] == 0 && x[j-2] == 0 {
-			continue
-		}
-		x[j] -= f.l1[j] * x[j-1]
-		if j >= 2 {
-			x[j] -= f.l2[j] * x[j-2]
-		}
-		if math.Abs(x[j]) < splineTiny {
-			x[j] = 0
-		}
-	}
-	for j := 0; j < m; j++ {
-		if x[j] != 0 {
-			x[j] /= f.d[j]
-		}
-	}
-	for j := m - 2; j >= 0; j-- {
-		if j+2 < m && x[j+1] == 0 && x[j+2] == 0 {
-			continue
-		}
-		x[j] -= f.l1[j+1] * x[j+1]
-		if j+2 < m {
-			x[j] -= f.l2[j+2] * x[j+2]
-		}
-		if math.Abs(x[j]) < splineTiny {
-			x[j] = 0
-		}
-	}
-}
-
-// solveSparse2 is solveSparse for x and y at once (see solve2).
+// less than that. An entry whose two predecessors (successors, going back)
+// are zero does not change, so the long run of zeros is passed over.
 func (f *splineLDL) solveSparse2(x, y []float64) {
 	m := len(f.d)
 	d, l1, l2 := f.d, f.l1, f.l2
