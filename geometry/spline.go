@@ -739,36 +739,68 @@ type splineFit struct {
 // when the problem is periodic; the two differ by O(1)).
 func (p *splineProblem) fit(lambda float64, ys [][]float64, wantTrace bool) (*splineFit, error) {
 	fx := p.fixedPart()
-	var (
-		tr    float64
-		trErr error
-		wg    sync.WaitGroup
-		// For many knots the trace is computed on a second goroutine,
-		// meanwhile: of the open problem on the same knots from the start
-		// when p is periodic, else once p's system is factored.
-		parallel = wantTrace && p.n() >= splineParallelKnots
-	)
-	if parallel && p.periodic {
-		wg.Go(func() { tr, trErr = p.open.openTrace(lambda) })
-	}
-	defer wg.Wait()
+	n := p.n()
+	out := &splineFit{trace: math.NaN(), gs: make([][]float64, len(ys)), gams: make([][]float64, len(ys))}
 	sc := p.getScratch()
 	defer p.putScratch(sc)
+	for len(sc.rhs) < len(ys) {
+		sc.rhs = append(sc.rhs, make([]float64, p.m))
+	}
+	// values fills in column k once the solve is done.
+	values := func(k int) {
+		rhs := sc.rhs[k]
+		g := make([]float64, n)
+		gam := make([]float64, n)
+		if p.periodic {
+			copy(gam, rhs)
+		} else {
+			copy(gam[1:n-1], rhs)
+		}
+		p.valuesInto(fx, ys[k], rhs, sc.fs, g)
+		out.gs[k], out.gams[k] = g, gam
+	}
+	// For many knots a second goroutine computes the trace meanwhile (of
+	// the open problem on the same knots from the start when p is
+	// periodic, else once p's system is factored), then the values of the
+	// second half of the columns once they are solved.
+	var (
+		tr       float64
+		trErr    error
+		wg       sync.WaitGroup
+		parallel = wantTrace && n >= splineParallelKnots
+		solved   = make(chan bool, 1) // true once solved, false on failure
+		split    = len(ys)
+	)
+	if parallel {
+		split = (len(ys) + 1) / 2
+		defer wg.Wait()
+	}
+	second := func() {
+		if p.periodic {
+			tr, trErr = p.open.openTrace(lambda)
+		} else {
+			tr = p.traceTerm(fx, sc, &sc.ldl)
+		}
+		if <-solved {
+			for k := split; k < len(ys); k++ {
+				values(k)
+			}
+		}
+	}
+	if parallel && p.periodic {
+		wg.Go(second)
+	}
 	a := sc.a
 	p.assembleInto(fx, lambda, a, sc.fs)
 	sol := &sc.sol
 	sol.ldl = &sc.ldl
 	if err := sol.setup(a, sc.c1, sc.c2); err != nil {
+		solved <- false
 		return nil, err
 	}
 	if parallel && !p.periodic {
 		// The solves below only read the factor.
-		wg.Go(func() { tr = p.traceTerm(fx, sc, &sc.ldl) })
-	}
-	n := p.n()
-	out := &splineFit{trace: math.NaN(), gs: make([][]float64, 0, len(ys)), gams: make([][]float64, 0, len(ys))}
-	for len(sc.rhs) < len(ys) {
-		sc.rhs = append(sc.rhs, make([]float64, p.m))
+		wg.Go(second)
 	}
 	for k, y := range ys {
 		p.rhsInto(fx, y, sc.rhs[k])
@@ -780,18 +812,9 @@ func (p *splineProblem) fit(lambda float64, ys [][]float64, wantTrace bool) (*sp
 	if k < len(ys) {
 		sol.solve(sc.rhs[k])
 	}
-	for k, y := range ys {
-		rhs := sc.rhs[k]
-		g := make([]float64, n)
-		gam := make([]float64, n)
-		if p.periodic {
-			copy(gam, rhs)
-		} else {
-			copy(gam[1:n-1], rhs)
-		}
-		p.valuesInto(fx, y, rhs, sc.fs, g)
-		out.gs = append(out.gs, g)
-		out.gams = append(out.gams, gam)
+	solved <- true
+	for k := range split {
+		values(k)
 	}
 	if wantTrace {
 		switch {
