@@ -4,6 +4,7 @@ import (
 	"math"
 	"sort"
 	"sync"
+	"sync/atomic"
 
 	"gonum.org/v1/gonum/integrate/quad"
 )
@@ -28,7 +29,14 @@ type Curve struct {
 	ts     []float64    // parameter at the start of each piece; len = pieces+1
 	xs, ys [][4]float64 // coefficients of each piece in u = t − ts[i]
 	ss     []float64    // arc length at ts
-	closed bool
+	pl     []float64    // arc length of each piece
+	// The leaves of the adaptive quadrature of each piece (see curveNew):
+	// piece i has leaves leafAt[i] ≤ k < leafAt[i+1], leaf k ending at
+	// parameter leafU[k] with arc length leafS[k] from the start of the
+	// piece to there.
+	leafAt       []int32
+	leafU, leafS []float64
+	closed       bool
 }
 
 // curveGLOrder is the order of the Gauss–Legendre rule used per piece:
@@ -46,16 +54,103 @@ var curveGL = sync.OnceValue(func() [2][]float64 {
 
 // curveNew builds a curve from piece coefficients. ts has one more entry
 // than xs and ys. It computes the arc-length table.
+//
+// The length of each piece comes from Gauss–Legendre rules on a bisection
+// of the piece, refined where the speed is far from smooth (a piece that
+// nearly folds back on itself) until the rule on every part agrees with the
+// sum of its halves. The finest parts, the leaves, are kept, so that the
+// arc length to any parameter u needs one rule, over the part of its leaf
+// before u (see partial).
 func curveNew(ts []float64, xs, ys [][4]float64, closed bool) *Curve {
 	if len(xs) == 0 || len(xs) != len(ys) || len(ts) != len(xs)+1 {
 		panic("geometry: inconsistent curve pieces")
 	}
+	np := len(xs)
 	c := &Curve{ts: ts, xs: xs, ys: ys, closed: closed}
-	c.ss = make([]float64, len(ts))
-	for i := range xs {
-		c.ss[i+1] = c.ss[i] + c.partial(i, ts[i+1]-ts[i])
+	c.ss = make([]float64, np+1)
+	c.pl = make([]float64, np)
+	c.leafAt = make([]int32, np+1)
+	if np >= curveParallelPieces {
+		// The pieces are independent; the table does not depend on the
+		// split. Rough pieces, which cost most, bunch together, so two
+		// goroutines take chunks in turn rather than half each.
+		nc := (np + curveChunk - 1) / curveChunk
+		chunks := make([]curveLeaves, nc)
+		var next atomic.Int64
+		work := func() {
+			for {
+				k := int(next.Add(1)) - 1
+				if k >= nc {
+					return
+				}
+				chunks[k] = c.measure(k*curveChunk, min((k+1)*curveChunk, np))
+			}
+		}
+		var wg sync.WaitGroup
+		wg.Go(work)
+		work()
+		wg.Wait()
+		total := 0
+		for _, ch := range chunks {
+			total += len(ch.u)
+		}
+		c.leafU, c.leafS = make([]float64, 0, total), make([]float64, 0, total)
+		for k, ch := range chunks {
+			off := int32(len(c.leafU))
+			for i := k*curveChunk + 1; i <= min((k+1)*curveChunk, np); i++ {
+				c.leafAt[i] += off
+			}
+			c.leafU = append(c.leafU, ch.u...)
+			c.leafS = append(c.leafS, ch.s...)
+		}
+	} else {
+		all := c.measure(0, np)
+		c.leafU, c.leafS = all.u, all.s
+	}
+	for i, l := range c.pl {
+		c.ss[i+1] = c.ss[i] + l
 	}
 	return c
+}
+
+// curveParallelPieces is the least number of pieces for which curveNew
+// measures the pieces on two goroutines.
+const curveParallelPieces = 2048
+
+// curveChunk is the number of pieces a goroutine of curveNew measures at a
+// time.
+const curveChunk = 512
+
+// curveLeaves collects the leaves of a run of pieces.
+type curveLeaves struct {
+	u, s []float64
+	sum  float64 // arc length from the start of the current piece
+}
+
+// add records a leaf ending at u with arc length l. The storage doubles
+// when full: a curve with many rough pieces has many leaves.
+func (lv *curveLeaves) add(u, l float64) {
+	if len(lv.u) == cap(lv.u) {
+		k := 2*cap(lv.u) + 16
+		lv.u = append(make([]float64, 0, k), lv.u...)
+		lv.s = append(make([]float64, 0, k), lv.s...)
+	}
+	lv.sum += l
+	lv.u, lv.s = append(lv.u, u), append(lv.s, lv.sum)
+}
+
+// measure sets pl[i] and leafAt[i+1] for pieces lo ≤ i < hi, with leaf
+// indices counted from the first leaf of piece lo, and returns their
+// leaves.
+func (c *Curve) measure(lo, hi int) curveLeaves {
+	lv := curveLeaves{u: make([]float64, 0, 2*(hi-lo)+16), s: make([]float64, 0, 2*(hi-lo)+16)}
+	for i := lo; i < hi; i++ {
+		h := c.h(i)
+		lv.sum = 0
+		c.pl[i] = c.partialOn(i, 0, h, c.glOn(i, 0, h), 0, &lv)
+		c.leafAt[i+1] = int32(len(lv.u))
+	}
+	return lv
 }
 
 // curvePoly evaluates a cubic and its first two derivatives at u.
@@ -78,35 +173,87 @@ func (c *Curve) Length() float64 { return c.ss[len(c.ss)-1] }
 func (c *Curve) h(i int) float64 { return c.ts[i+1] - c.ts[i] }
 
 func (c *Curve) speed(i int, u float64) float64 {
-	_, dx, _ := curvePoly(c.xs[i], u)
-	_, dy, _ := curvePoly(c.ys[i], u)
-	return math.Hypot(dx, dy)
+	return curveSpeed(&c.xs[i], &c.ys[i], u)
 }
 
-// partial returns the arc length of piece i from u = 0 to u, by
-// Gauss–Legendre quadrature, bisected adaptively where the speed is far
-// from smooth (a piece that nearly folds back on itself) so that every
-// partial length agrees with the sum of its parts to rounding error.
+// curveSpeed returns |(x'(u), y'(u))| for pieces x and y. The components
+// are of the order of 1 (the parameter is close to arc length), so the
+// plain root of the sum of squares neither overflows nor underflows.
+func curveSpeed(x, y *[4]float64, u float64) float64 {
+	dx := x[1] + u*(2*x[2]+3*u*x[3])
+	dy := y[1] + u*(2*y[2]+3*u*y[3])
+	return math.Sqrt(dx*dx + dy*dy)
+}
+
+// partial returns the arc length of piece i from u = 0 to u: the length
+// up to the start of the leaf holding u plus the Gauss–Legendre rule over
+// the part of the leaf before u. A leaf is a part of the piece on which the
+// rule agrees with the bisected rule, so the rule is as accurate on any part
+// of it.
 func (c *Curve) partial(i int, u float64) float64 {
-	return c.partialOn(i, 0, u, c.glOn(i, 0, u), 0)
+	if u >= c.h(i) {
+		if u == c.h(i) {
+			return c.pl[i]
+		}
+		return c.pl[i] + c.glOn(i, c.h(i), u)
+	}
+	if !(u > 0) {
+		return c.glOn(i, 0, u)
+	}
+	k0, k1 := int(c.leafAt[i]), int(c.leafAt[i+1])
+	us := c.leafU[k0:k1]
+	// The leaf holding u is the first that ends after u.
+	k := 0
+	if len(us) <= 8 {
+		for k < len(us)-1 && us[k] <= u {
+			k++
+		}
+	} else {
+		k = sort.Search(len(us)-1, func(j int) bool { return us[j] > u })
+	}
+	var a, before float64
+	if k > 0 {
+		a, before = us[k-1], c.leafS[k0+k-1]
+	}
+	return before + c.glOn(i, a, u)
 }
 
 func (c *Curve) glOn(i int, a, b float64) float64 {
-	gl := curveGL()
+	// curveSpeed with the coefficients in registers.
+	x1, x2, x3 := c.xs[i][1], 2*c.xs[i][2], c.xs[i][3]
+	y1, y2, y3 := c.ys[i][1], 2*c.ys[i][2], c.ys[i][3]
+	w := b - a
 	var l float64
-	for k, x := range gl[0] {
-		l += gl[1][k] * c.speed(i, a+x*(b-a))
+	for k, t := range curveGLNodes {
+		u := a + t*w
+		dx := x1 + u*(x2+3*u*x3)
+		dy := y1 + u*(y2+3*u*y3)
+		l += curveGLWeights[k] * math.Sqrt(dx*dx+dy*dy)
 	}
-	return l * (b - a)
+	return l * w
 }
 
-func (c *Curve) partialOn(i int, a, b, whole float64, depth int) float64 {
+// curveGLNodes and curveGLWeights are curveGL in arrays, for the hot loop
+// of glOn.
+var curveGLNodes, curveGLWeights = func() (x, w [curveGLOrder]float64) {
+	gl := curveGL()
+	copy(x[:], gl[0])
+	copy(w[:], gl[1])
+	return x, w
+}()
+
+// partialOn returns the length of piece i from a to b, given the rule over
+// the whole of [a, b], bisecting until the halves agree with the whole.
+// It records the halves of every accepted part as leaves in lv.
+func (c *Curve) partialOn(i int, a, b, whole float64, depth int, lv *curveLeaves) float64 {
 	m := (a + b) / 2
 	l, r := c.glOn(i, a, m), c.glOn(i, m, b)
 	if depth >= curveMaxDepth || math.Abs(l+r-whole) <= 1e-11*math.Abs(whole) {
+		lv.add(m, l)
+		lv.add(b, r)
 		return l + r
 	}
-	return c.partialOn(i, a, m, l, depth+1) + c.partialOn(i, m, b, r, depth+1)
+	return c.partialOn(i, a, m, l, depth+1, lv) + c.partialOn(i, m, b, r, depth+1, lv)
 }
 
 // curveMaxDepth bounds the bisection of partial.
@@ -354,7 +501,9 @@ func (c *Curve) Transform(m [2][2]float64, b Point) *Curve {
 	ts := append([]float64(nil), c.ts...)
 	// Scale the parameter with the map so that it stays close to arc length.
 	f := math.Sqrt(math.Abs(m[0][0]*m[1][1] - m[0][1]*m[1][0]))
+	fu := 1.0 // factor of the parameter
 	if f > 0 && f != 1 {
+		fu = f
 		for i := range ts {
 			ts[i] *= f
 		}
@@ -366,7 +515,65 @@ func (c *Curve) Transform(m [2][2]float64, b Point) *Curve {
 			}
 		}
 	}
+	// A similarity (rotation, reflection, uniform scale) multiplies every
+	// arc length by its scale: the image keeps the quadrature of c, scaled.
+	a, b2, cc, d := m[0][0], m[0][1], m[1][0], m[1][1]
+	sq := a*a + b2*b2 + cc*cc + d*d
+	if sq > 0 && math.Abs(a*a+cc*cc-b2*b2-d*d) <= 1e-13*sq && math.Abs(a*b2+cc*d) <= 1e-13*sq {
+		fs := math.Sqrt(sq / 2)
+		pl := make([]float64, len(c.pl))
+		for i, l := range c.pl {
+			pl[i] = fs * l
+		}
+		lu := make([]float64, len(c.leafU))
+		ls := make([]float64, len(c.leafS))
+		for k := range lu {
+			lu[k] = fu * c.leafU[k]
+			ls[k] = fs * c.leafS[k]
+		}
+		out := curveWithTables(ts, xs, ys, c.closed, pl, append([]int32(nil), c.leafAt...), lu, ls)
+		out.fixEnds(func(i int) float64 { return fu * c.h(i) })
+		return out
+	}
 	return curveNew(ts, xs, ys, c.closed)
+}
+
+// fixEnds corrects tables carried over from another curve for the
+// rounding of the piece parameters: piece i was measured over [0, want(i)]
+// but its parameter, a difference of cumulative values, spans [0, h(i)].
+// The length of the sliver between them is added (midpoint rule: the
+// sliver is a few units of rounding wide) and the arc-length table redone.
+func (c *Curve) fixEnds(want func(int) float64) {
+	changed := false
+	for i := range c.pl {
+		h, w := c.h(i), want(i)
+		if h == w {
+			continue
+		}
+		changed = true
+		dl := (h - w) * c.speed(i, (h+w)/2)
+		c.pl[i] += dl
+		last := int(c.leafAt[i+1]) - 1
+		c.leafU[last] = h
+		c.leafS[last] += dl
+	}
+	if changed {
+		for i, l := range c.pl {
+			c.ss[i+1] = c.ss[i] + l
+		}
+	}
+}
+
+// curveWithTables returns the curve with the given pieces, piece lengths
+// and quadrature leaves (see Curve), which must be those curveNew would
+// find up to rounding.
+func curveWithTables(ts []float64, xs, ys [][4]float64, closed bool, pl []float64, leafAt []int32, leafU, leafS []float64) *Curve {
+	c := &Curve{ts: ts, xs: xs, ys: ys, closed: closed, pl: pl, leafAt: leafAt, leafU: leafU, leafS: leafS}
+	c.ss = make([]float64, len(pl)+1)
+	for i, l := range pl {
+		c.ss[i+1] = c.ss[i] + l
+	}
+	return c
 }
 
 // Reverse returns c traversed the other way.
@@ -375,14 +582,31 @@ func (c *Curve) Reverse() *Curve {
 	xs := make([][4]float64, np)
 	ys := make([][4]float64, np)
 	ts := make([]float64, np+1)
+	// Piece j is piece i = np−1−j run backwards: its leaves end where
+	// those of piece i begin, seen from the other end.
+	pl := make([]float64, np)
+	leafAt := make([]int32, np+1)
+	leafU := make([]float64, 0, len(c.leafU))
+	leafS := make([]float64, 0, len(c.leafS))
 	for j := 0; j < np; j++ {
 		i := np - 1 - j
 		h := c.h(i)
 		xs[j] = curveFlip(c.xs[i], h)
 		ys[j] = curveFlip(c.ys[i], h)
 		ts[j+1] = ts[j] + h
+		pl[j] = c.pl[i]
+		k0, k1 := int(c.leafAt[i]), int(c.leafAt[i+1])
+		for k := k1 - 2; k >= k0; k-- {
+			leafU = append(leafU, h-c.leafU[k])
+			leafS = append(leafS, c.pl[i]-c.leafS[k])
+		}
+		leafU = append(leafU, ts[j+1]-ts[j])
+		leafS = append(leafS, c.pl[i])
+		leafAt[j+1] = int32(len(leafU))
 	}
-	return curveNew(ts, xs, ys, c.closed)
+	out := curveWithTables(ts, xs, ys, c.closed, pl, leafAt, leafU, leafS)
+	out.fixEnds(func(j int) float64 { return c.h(np - 1 - j) })
+	return out
 }
 
 // curveFlip returns the coefficients of P(h − v).

@@ -3,6 +3,7 @@ package geometry
 import (
 	"fmt"
 	"math"
+	"sync"
 )
 
 // This file holds the cubic smoothing spline of
@@ -45,6 +46,36 @@ type splineProblem struct {
 	// open is the open problem on the same knots, made once for the trace
 	// of a periodic problem (the weights must not change meanwhile).
 	open *splineProblem
+
+	// The λ-independent parts of the system, made on the first fit, and
+	// work space reused by later fits (the smoothing-parameter search fits
+	// one problem many times). Weights must not change after the first fit.
+	fixedOnce sync.Once
+	fixed     *splineFixed
+	scratchMu sync.Mutex
+	scratch   []*splineScratch
+}
+
+// splineFixed holds what every fit of a problem shares: the band of R and,
+// for each data row, the entries of Q and where the products of its entries
+// land in the band of QᵀW⁻¹Q.
+type splineFixed struct {
+	r *splineBand
+	// qu[i][x] is the unknown of entry x of row i of Q (−1 where γ is fixed
+	// at zero) and qv[i][x] its value.
+	qu [][3]int32
+	qv [][3]float64
+}
+
+// splineScratch is the work space of one fit.
+type splineScratch struct {
+	a          *splineBand
+	ldl        splineLDL
+	sol        splineSolver
+	c1, c2     []float64
+	rhs        [][]float64
+	s0, s1, s2 []float64
+	fs         []float64 // λ/wᵢ
 }
 
 // splineNewProblem returns the problem for knots ts (strictly increasing)
@@ -134,16 +165,23 @@ func (p *splineProblem) qRow(i int) (cs [3]int, qs [3]float64) {
 // cyclic the indices wrap modulo m.
 type splineBand struct {
 	d0, d1, d2 []float64
+	all        []float64 // d0, d1 and d2 one after the other
 	cyclic     bool
 }
 
 func splineNewBand(m int, cyclic bool) *splineBand {
-	return &splineBand{d0: make([]float64, m), d1: make([]float64, m), d2: make([]float64, m), cyclic: cyclic}
+	all := make([]float64, 3*m)
+	return &splineBand{d0: all[:m:m], d1: all[m : 2*m : 2*m], d2: all[2*m:], all: all, cyclic: cyclic}
 }
 
 // add adds v to A[j][k] (and, by symmetry, A[k][j]); callers pass each
 // unordered pair once, or each ordered pair and accept the diagonal twice.
 func (b *splineBand) add(j, k int, v float64) {
+	b.all[b.slot(j, k)] += v
+}
+
+// slot returns the index in b.all of the stored entry A[j][k] (or A[k][j]).
+func (b *splineBand) slot(j, k int) int {
 	m := len(b.d0)
 	off := k - j
 	if b.cyclic {
@@ -151,19 +189,19 @@ func (b *splineBand) add(j, k int, v float64) {
 	}
 	switch {
 	case off == 0:
-		b.d0[j] += v
+		return j
 	case off == 1:
-		b.d1[j] += v
+		return m + j
 	case off == 2:
-		b.d2[j] += v
+		return 2*m + j
 	case b.cyclic && off == m-1:
-		b.d1[k] += v
+		return m + k
 	case b.cyclic && off == m-2:
-		b.d2[k] += v
+		return 2*m + k
 	case !b.cyclic && off == -1:
-		b.d1[k] += v
+		return m + k
 	case !b.cyclic && off == -2:
-		b.d2[k] += v
+		return 2*m + k
 	default:
 		panic("geometry: spline band entry outside the band")
 	}
@@ -212,6 +250,147 @@ func (p *splineProblem) assemble(lambda float64) (r, a *splineBand) {
 	return r, a
 }
 
+// fixedPart returns the λ-independent parts of p's system, made once.
+func (p *splineProblem) fixedPart() *splineFixed {
+	p.fixedOnce.Do(func() {
+		if p.periodic {
+			p.open = splineNewProblem(p.ts, p.ws, false, 0)
+		}
+		n := p.n()
+		fx := &splineFixed{qu: make([][3]int32, n), qv: make([][3]float64, n)}
+		fx.r, _ = p.assemble(0)
+		for i := 0; i < n; i++ {
+			cs, qs := p.qRow(i)
+			for x := 0; x < 3; x++ {
+				fx.qu[i][x] = int32(p.unknown(cs[x]))
+				fx.qv[i][x] = qs[x]
+			}
+		}
+		p.fixed = fx
+	})
+	return p.fixed
+}
+
+// getScratch returns work space for one fit of p; putScratch gives it back.
+// Concurrent fits of one problem each get their own.
+func (p *splineProblem) getScratch() *splineScratch {
+	p.scratchMu.Lock()
+	defer p.scratchMu.Unlock()
+	if k := len(p.scratch); k > 0 {
+		sc := p.scratch[k-1]
+		p.scratch = p.scratch[:k-1]
+		return sc
+	}
+	m := p.m
+	sc := &splineScratch{
+		a:   splineNewBand(m, p.periodic),
+		ldl: splineLDL{d: make([]float64, m), l1: make([]float64, m), l2: make([]float64, m)},
+		s0:  make([]float64, m), s1: make([]float64, m), s2: make([]float64, m),
+		fs: make([]float64, p.n()),
+	}
+	if p.periodic {
+		sc.c1, sc.c2 = make([]float64, m-2), make([]float64, m-2)
+		sc.sol.y1, sc.sol.y2 = make([]float64, m-2), make([]float64, m-2)
+	}
+	return sc
+}
+
+func (p *splineProblem) putScratch(sc *splineScratch) {
+	p.scratchMu.Lock()
+	p.scratch = append(p.scratch, sc)
+	p.scratchMu.Unlock()
+}
+
+// assembleInto writes R + λ QᵀW⁻¹Q into a, adding the same terms in the
+// same order as assemble, so the result is identical. fs is work space of
+// length n.
+//
+// Entry (u, u+δ) of QᵀW⁻¹Q, u the unknown at knot c, sums over the rows
+// i = c+1−x of Q (x = 2−δ, …, 0; modulo n when periodic) the products
+// (λ/wᵢ)·Q[i][x]·Q[i][x+δ] of the entries x and x+δ of row i, in the order
+// of i, as assemble adds them.
+func (p *splineProblem) assembleInto(fx *splineFixed, lambda float64, a *splineBand, fs []float64) {
+	n, m := p.n(), p.m
+	for i, w := range p.ws {
+		if w == 1 {
+			fs[i] = lambda // λ/1, exactly, without the slow division
+		} else {
+			fs[i] = lambda / w
+		}
+	}
+	qv := fx.qv
+	shift := 1 // knot of unknown 0
+	if p.periodic {
+		shift = 0
+	}
+	for delta := 0; delta < 3; delta++ {
+		d := a.all[delta*m : (delta+1)*m]
+		r := fx.r.all[delta*m : (delta+1)*m]
+		// Interior entries, whose rows do not wrap round.
+		lo := max(1-delta-shift, 0)
+		hi := min(n-2-shift, m-1-delta)
+		switch delta {
+		case 0:
+			for u := lo; u <= hi; u++ {
+				i := u + shift
+				v := fs[i-1] * qv[i-1][2] * qv[i-1][2]
+				v += fs[i] * qv[i][1] * qv[i][1]
+				v += fs[i+1] * qv[i+1][0] * qv[i+1][0]
+				d[u] = v + r[u]
+			}
+		case 1:
+			for u := lo; u <= hi; u++ {
+				i := u + shift
+				v := fs[i] * qv[i][1] * qv[i][2]
+				v += fs[i+1] * qv[i+1][0] * qv[i+1][1]
+				d[u] = v + r[u]
+			}
+		case 2:
+			for u := lo; u <= hi; u++ {
+				i := u + shift + 1
+				d[u] = fs[i]*qv[i][0]*qv[i][2] + r[u]
+			}
+		}
+		for u := 0; u < m; u++ {
+			if u == lo && lo <= hi {
+				u = hi // skip the interior
+				continue
+			}
+			if !p.periodic && u+delta > m-1 {
+				d[u] = 0 + r[u]
+				continue
+			}
+			c := u + shift
+			var v float64
+			if c-1+delta >= 0 && c+1 <= n-1 {
+				for x := 2 - delta; x >= 0; x-- {
+					i := c + 1 - x
+					v += fs[i] * qv[i][x] * qv[i][x+delta]
+				}
+			} else {
+				// The rows wrap round: take them in increasing order.
+				var rows, xs [3]int
+				k := 0
+				for x := 2 - delta; x >= 0; x-- {
+					i := ((c+1-x)%n + n) % n
+					j := k
+					for j > 0 && rows[j-1] > i {
+						rows[j], xs[j] = rows[j-1], xs[j-1]
+						j--
+					}
+					rows[j], xs[j] = i, x
+					k++
+				}
+				for j := 0; j < k; j++ {
+					i, x := rows[j], xs[j]
+					v += fs[i] * qv[i][x] * qv[i][x+delta]
+				}
+			}
+			d[u] = v + r[u]
+		}
+	}
+}
+
 // splineLDL is the LDLᵀ factorisation of a (non-cyclic) pentadiagonal band:
 // L has unit diagonal and sub-diagonals l1 (L[j][j−1]) and l2 (L[j][j−2]).
 type splineLDL struct {
@@ -222,26 +401,56 @@ type splineLDL struct {
 // entries. It returns an error if the block is not positive definite.
 func splineFactor(b *splineBand, m int) (*splineLDL, error) {
 	f := &splineLDL{d: make([]float64, m), l1: make([]float64, m), l2: make([]float64, m)}
-	for j := 0; j < m; j++ {
-		dj := b.d0[j]
-		if j >= 2 {
-			f.l2[j] = b.d2[j-2] / f.d[j-2]
-			dj -= f.l2[j] * f.l2[j] * f.d[j-2]
-		}
-		if j >= 1 {
-			v := b.d1[j-1]
-			if j >= 2 {
-				v -= f.l2[j] * f.d[j-2] * f.l1[j-1]
-			}
-			f.l1[j] = v / f.d[j-1]
-			dj -= f.l1[j] * f.l1[j] * f.d[j-1]
-		}
-		if !(dj > 0) || math.IsInf(dj, 0) {
-			return nil, fmt.Errorf("geometry: spline system not positive definite at row %d", j)
-		}
-		f.d[j] = dj
+	if err := splineFactorInto(b, m, f); err != nil {
+		return nil, err
 	}
 	return f, nil
+}
+
+// splineFactorInto is splineFactor into the storage of f, which it
+// reslices to length m (its capacity must be at least m).
+func splineFactorInto(b *splineBand, m int, f *splineLDL) error {
+	f.d, f.l1, f.l2 = f.d[:m], f.l1[:m], f.l2[:m]
+	if m == 0 {
+		return nil
+	}
+	d, l1, l2 := f.d, f.l1, f.l2
+	b0, b1, b2 := b.d0[:m], b.d1[:m], b.d2[:m]
+	l1[0], l2[0] = 0, 0
+	bad := func(j int) error {
+		return fmt.Errorf("geometry: spline system not positive definite at row %d", j)
+	}
+	dj := b0[0]
+	if !(dj > 0 && dj <= math.MaxFloat64) {
+		return bad(0)
+	}
+	d[0] = dj
+	if m == 1 {
+		return nil
+	}
+	l2[1] = 0
+	l1j := b1[0] / d[0]
+	dj = b0[1] - l1j*l1j*d[0]
+	if !(dj > 0 && dj <= math.MaxFloat64) {
+		return bad(1)
+	}
+	l1[1], d[1] = l1j, dj
+	// The previous pivots and multiplier stay in registers: the loop is
+	// one chain of dependent operations.
+	dPrev2, dPrev1, l1Prev := d[0], d[1], l1j
+	for j := 2; j < m; j++ {
+		l2j := b2[j-2] / dPrev2
+		dj := b0[j] - l2j*l2j*dPrev2
+		v := b1[j-1] - l2j*dPrev2*l1Prev
+		l1j := v / dPrev1
+		dj -= l1j * l1j * dPrev1
+		if !(dj > 0 && dj <= math.MaxFloat64) {
+			return bad(j)
+		}
+		l2[j], l1[j], d[j] = l2j, l1j, dj
+		dPrev2, dPrev1, l1Prev = dPrev1, dj, l1j
+	}
+	return nil
 }
 
 // solve overwrites x with the solution of L D Lᵀ x = x.
@@ -264,36 +473,133 @@ func (f *splineLDL) solve(x []float64) {
 	}
 }
 
+// solve2 is solve for x and y at once, with the same operations on each.
+func (f *splineLDL) solve2(x, y []float64) {
+	m := len(f.d)
+	if m < 3 {
+		f.solve(x)
+		f.solve(y)
+		return
+	}
+	d, l1, l2 := f.d[:m], f.l1[:m], f.l2[:m]
+	x, y = x[:m], y[:m]
+	// The last two values of each sweep stay in registers, and the
+	// division by the pivots is done on the way back.
+	x1, y1 := x[1]-l1[1]*x[0], y[1]-l1[1]*y[0]
+	x[1], y[1] = x1, y1
+	x2, y2 := x[0], y[0]
+	for j := 2; j < m; j++ {
+		a, b := l1[j], l2[j]
+		vx := x[j] - a*x1 - b*x2
+		vy := y[j] - a*y1 - b*y2
+		x[j], y[j] = vx, vy
+		x2, x1, y2, y1 = x1, vx, y1, vy
+	}
+	x1, y1 = x[m-1]/d[m-1], y[m-1]/d[m-1]
+	x[m-1], y[m-1] = x1, y1
+	a := l1[m-1]
+	vx, vy := x[m-2]/d[m-2]-a*x1, y[m-2]/d[m-2]-a*y1
+	x[m-2], y[m-2] = vx, vy
+	x2, x1, y2, y1 = x1, vx, y1, vy
+	for j := m - 3; j >= 0; j-- {
+		a, b := l1[j+1], l2[j+2]
+		vx := x[j]/d[j] - a*x1 - b*x2
+		vy := y[j]/d[j] - a*y1 - b*y2
+		x[j], y[j] = vx, vy
+		x2, x1, y2, y1 = x1, vx, y1, vy
+	}
+}
+
+// splineTiny is the magnitude below which solveSparse2 sets entries to zero.
+const splineTiny = 1e-280
+
+// solveSparse2 is solve2 for right-hand sides that are zero but for a few
+// entries near the ends, as the coupling columns of a cyclic system are.
+// The solutions decay geometrically away from them, through subnormal
+// numbers, which are very slow to compute with; solveSparse2 sets entries
+// below splineTiny in magnitude to zero instead, changing the solution by
+// less than that. An entry whose two predecessors (successors, going back)
+// are zero does not change, so the long run of zeros is passed over.
+func (f *splineLDL) solveSparse2(x, y []float64) {
+	m := len(f.d)
+	d, l1, l2 := f.d, f.l1, f.l2
+	x, y = x[:m], y[:m]
+	for j := 1; j < m; j++ {
+		if j >= 2 && x[j-1] == 0 && x[j-2] == 0 && y[j-1] == 0 && y[j-2] == 0 {
+			continue
+		}
+		a := l1[j]
+		x[j] -= a * x[j-1]
+		y[j] -= a * y[j-1]
+		if j >= 2 {
+			b := l2[j]
+			x[j] -= b * x[j-2]
+			y[j] -= b * y[j-2]
+		}
+		if math.Abs(x[j]) < splineTiny {
+			x[j] = 0
+		}
+		if math.Abs(y[j]) < splineTiny {
+			y[j] = 0
+		}
+	}
+	for j := 0; j < m; j++ {
+		if x[j] != 0 {
+			x[j] /= d[j]
+		}
+		if y[j] != 0 {
+			y[j] /= d[j]
+		}
+	}
+	for j := m - 2; j >= 0; j-- {
+		if j+2 < m && x[j+1] == 0 && x[j+2] == 0 && y[j+1] == 0 && y[j+2] == 0 {
+			continue
+		}
+		a := l1[j+1]
+		x[j] -= a * x[j+1]
+		y[j] -= a * y[j+1]
+		if j+2 < m {
+			b := l2[j+2]
+			x[j] -= b * x[j+2]
+			y[j] -= b * y[j+2]
+		}
+		if math.Abs(x[j]) < splineTiny {
+			x[j] = 0
+		}
+		if math.Abs(y[j]) < splineTiny {
+			y[j] = 0
+		}
+	}
+}
+
 // inverseBand returns the entries of A⁻¹ inside the band (diagonals 0, 1, 2)
 // by the backward recursion of Hutchinson and de Hoog (1985).
 func (f *splineLDL) inverseBand() (s0, s1, s2 []float64) {
 	m := len(f.d)
 	s0, s1, s2 = make([]float64, m), make([]float64, m), make([]float64, m)
-	at := func(s []float64, j int) float64 {
-		if j < m {
-			return s[j]
-		}
-		return 0
-	}
-	l1 := func(j int) float64 {
-		if j < m {
-			return f.l1[j]
-		}
-		return 0
-	}
-	l2 := func(j int) float64 {
-		if j < m {
-			return f.l2[j]
-		}
-		return 0
-	}
-	for j := m - 1; j >= 0; j-- {
-		// Σ[j][j+2], Σ[j][j+1], Σ[j][j] from rows below.
-		s2[j] = -l1(j+1)*at(s1, j+1) - l2(j+2)*at(s0, j+2)
-		s1[j] = -l1(j+1)*at(s0, j+1) - l2(j+2)*at(s1, j+1)
-		s0[j] = 1/f.d[j] - l1(j+1)*s1[j] - l2(j+2)*s2[j]
-	}
+	f.inverseBandInto(s0, s1, s2)
 	return s0, s1, s2
+}
+
+// inverseBandInto is inverseBand into s0, s1 and s2 (each of length m).
+func (f *splineLDL) inverseBandInto(s0, s1, s2 []float64) {
+	m := len(f.d)
+	s0, s1, s2 = s0[:m], s1[:m], s2[:m]
+	d, l1, l2 := f.d, f.l1, f.l2
+	for j := m - 1; j >= 0; j-- {
+		// Σ[j][j+2], Σ[j][j+1], Σ[j][j] from rows below; entries past
+		// the end count as zero.
+		var a1, b1, b2, c0, c1 float64 // l1[j+1], s1[j+1], l2[j+2], s0[j+2], s0[j+1]
+		if j+1 < m {
+			a1, b1, c1 = l1[j+1], s1[j+1], s0[j+1]
+		}
+		if j+2 < m {
+			b2, c0 = l2[j+2], s0[j+2]
+		}
+		s2[j] = -a1*b1 - b2*c0
+		s1[j] = -a1*c1 - b2*b1
+		s0[j] = 1/d[j] - a1*s1[j] - b2*s2[j]
+	}
 }
 
 // splineSolver solves A x = b for a pentadiagonal band A, cyclic or not. The
@@ -309,30 +615,41 @@ type splineSolver struct {
 
 func splineNewSolver(b *splineBand) (*splineSolver, error) {
 	m := len(b.d0)
-	s := &splineSolver{band: b, cyclic: b.cyclic}
-	if !b.cyclic {
-		f, err := splineFactor(b, m)
-		if err != nil {
-			return nil, err
+	s := &splineSolver{ldl: &splineLDL{d: make([]float64, m), l1: make([]float64, m), l2: make([]float64, m)}}
+	if b.cyclic {
+		if m < 6 {
+			panic("geometry: cyclic spline system needs at least 6 unknowns")
 		}
-		s.ldl = f
-		return s, nil
+		s.y1, s.y2 = make([]float64, m-2), make([]float64, m-2)
+	}
+	if err := s.setup(b, nil, nil); err != nil {
+		return nil, err
+	}
+	return s, nil
+}
+
+// setup factors b into the storage s already has (s.ldl, and s.y1, s.y2
+// of length m−2 when b is cyclic). c1 and c2 are work space of length m−2
+// for a cyclic b, or nil to allocate it.
+func (s *splineSolver) setup(b *splineBand, c1, c2 []float64) error {
+	m := len(b.d0)
+	s.band, s.cyclic = b, b.cyclic
+	if !b.cyclic {
+		return splineFactorInto(b, m, s.ldl)
 	}
 	if m < 6 {
 		panic("geometry: cyclic spline system needs at least 6 unknowns")
 	}
-	f, err := splineFactor(b, m-2)
-	if err != nil {
-		return nil, err
+	f := s.ldl
+	if err := splineFactorInto(b, m-2, f); err != nil {
+		return err
 	}
-	s.ldl = f
-	s.y1 = make([]float64, m-2)
-	s.y2 = make([]float64, m-2)
 	s.couplingTo(s.y1, s.y2)
-	f.solve(s.y1)
-	f.solve(s.y2)
+	f.solveSparse2(s.y1, s.y2)
 	// S = D − Cᵀ B⁻¹ C.
-	c1, c2 := make([]float64, m-2), make([]float64, m-2)
+	if c1 == nil {
+		c1, c2 = make([]float64, m-2), make([]float64, m-2)
+	}
 	s.couplingTo(c1, c2)
 	var d [2][2]float64
 	d[0][0] = b.d0[m-2] - splineDot(c1, s.y1)
@@ -341,10 +658,10 @@ func splineNewSolver(b *splineBand) (*splineSolver, error) {
 	d[1][1] = b.d0[m-1] - splineDot(c2, s.y2)
 	det := d[0][0]*d[1][1] - d[0][1]*d[1][0]
 	if !(det > 0) {
-		return nil, fmt.Errorf("geometry: cyclic spline system not positive definite")
+		return fmt.Errorf("geometry: cyclic spline system not positive definite")
 	}
 	s.sInv = [2][2]float64{{d[1][1] / det, -d[0][1] / det}, {-d[1][0] / det, d[0][0] / det}}
-	return s, nil
+	return nil
 }
 
 // couplingTo writes the columns of C (coupling of the first m−2 unknowns to
@@ -376,10 +693,28 @@ func (s *splineSolver) solve(x []float64) {
 		s.ldl.solve(x)
 		return
 	}
+	s.ldl.solve(x[:len(x)-2])
+	s.finish(x)
+}
+
+// solve2 is solve for two right-hand sides at once. The sweeps are
+// sequential chains of operations; two independent chains in one loop run
+// side by side in the processor, so this takes little longer than one.
+func (s *splineSolver) solve2(x, y []float64) {
+	if !s.cyclic {
+		s.ldl.solve2(x, y)
+		return
+	}
+	s.ldl.solve2(x[:len(x)-2], y[:len(y)-2])
+	s.finish(x)
+	s.finish(y)
+}
+
+// finish completes a cyclic solve once the leading block of x holds B⁻¹ b₁.
+func (s *splineSolver) finish(x []float64) {
 	m := len(x)
 	z := x[:m-2]
 	b1, b2 := x[m-2], x[m-1]
-	s.ldl.solve(z)
 	// r = b₂ − Cᵀ z.
 	var r1, r2 float64
 	b := s.band
@@ -403,72 +738,216 @@ type splineFit struct {
 // wantTrace it also computes tr H(λ) (of the open problem on the same knots
 // when the problem is periodic; the two differ by O(1)).
 func (p *splineProblem) fit(lambda float64, ys [][]float64, wantTrace bool) (*splineFit, error) {
-	r, a := p.assemble(lambda)
-	sol, err := splineNewSolver(a)
-	if err != nil {
-		return nil, err
-	}
+	fx := p.fixedPart()
 	n := p.n()
-	out := &splineFit{trace: math.NaN()}
-	for _, y := range ys {
-		rhs := make([]float64, p.m)
-		for i := 0; i < n; i++ {
-			cs, qs := p.qRow(i)
-			for x := 0; x < 3; x++ {
-				if u := p.unknown(cs[x]); u >= 0 {
-					rhs[u] += qs[x] * y[i]
-				}
-			}
-		}
-		sol.solve(rhs)
+	out := &splineFit{trace: math.NaN(), gs: make([][]float64, len(ys)), gams: make([][]float64, len(ys))}
+	sc := p.getScratch()
+	defer p.putScratch(sc)
+	for len(sc.rhs) < len(ys) {
+		sc.rhs = append(sc.rhs, make([]float64, p.m))
+	}
+	// values fills in column k once the solve is done.
+	values := func(k int) {
+		rhs := sc.rhs[k]
 		g := make([]float64, n)
 		gam := make([]float64, n)
-		for i := 0; i < n; i++ {
-			if u := p.unknown(i); u >= 0 {
-				gam[i] = rhs[u]
+		if p.periodic {
+			copy(gam, rhs)
+		} else {
+			copy(gam[1:n-1], rhs)
+		}
+		p.valuesInto(fx, ys[k], rhs, sc.fs, g)
+		out.gs[k], out.gams[k] = g, gam
+	}
+	// For many knots a second goroutine computes the trace meanwhile (of
+	// the open problem on the same knots from the start when p is
+	// periodic, else once p's system is factored), then the values of the
+	// second half of the columns once they are solved.
+	var (
+		tr       float64
+		trErr    error
+		wg       sync.WaitGroup
+		parallel = wantTrace && n >= splineParallelKnots
+		solved   = make(chan bool, 1) // true once solved, false on failure
+		split    = len(ys)
+	)
+	if parallel {
+		split = (len(ys) + 1) / 2
+		defer wg.Wait()
+	}
+	second := func() {
+		if p.periodic {
+			tr, trErr = p.open.openTrace(lambda)
+		} else {
+			tr = p.traceTerm(fx, sc, &sc.ldl)
+		}
+		if <-solved {
+			for k := split; k < len(ys); k++ {
+				values(k)
 			}
 		}
-		for i := 0; i < n; i++ {
-			cs, qs := p.qRow(i)
-			var qg float64
-			for x := 0; x < 3; x++ {
-				if u := p.unknown(cs[x]); u >= 0 {
-					qg += qs[x] * rhs[u]
-				}
-			}
-			g[i] = y[i] - lambda/p.ws[i]*qg
-		}
-		out.gs = append(out.gs, g)
-		out.gams = append(out.gams, gam)
+	}
+	if parallel && p.periodic {
+		wg.Go(second)
+	}
+	a := sc.a
+	p.assembleInto(fx, lambda, a, sc.fs)
+	sol := &sc.sol
+	sol.ldl = &sc.ldl
+	if err := sol.setup(a, sc.c1, sc.c2); err != nil {
+		solved <- false
+		return nil, err
+	}
+	if parallel && !p.periodic {
+		// The solves below only read the factor.
+		wg.Go(second)
+	}
+	for k, y := range ys {
+		p.rhsInto(fx, y, sc.rhs[k])
+	}
+	k := 0
+	for ; k+1 < len(ys); k += 2 {
+		sol.solve2(sc.rhs[k], sc.rhs[k+1])
+	}
+	if k < len(ys) {
+		sol.solve(sc.rhs[k])
+	}
+	solved <- true
+	for k := range split {
+		values(k)
 	}
 	if wantTrace {
-		q := p
-		if p.periodic {
-			if p.open == nil {
-				p.open = splineNewProblem(p.ts, p.ws, false, 0)
-			}
-			q = p.open
-			r, a = q.assemble(lambda)
+		switch {
+		case parallel:
+			wg.Wait()
+		case p.periodic:
+			tr, trErr = p.open.openTrace(lambda)
+		default:
+			// An open problem's solver factored the whole band already.
+			tr = p.traceTerm(fx, sc, &sc.ldl)
 		}
-		f, err := splineFactor(a, q.m)
-		if err != nil {
-			return nil, err
+		if trErr != nil {
+			return nil, trErr
 		}
-		s0, s1, s2 := f.inverseBand()
-		// tr H = n − tr(A⁻¹ (A − R)), both symmetric pentadiagonal.
-		var t float64
-		for j := 0; j < q.m; j++ {
-			t += s0[j] * (a.d0[j] - r.d0[j])
-			if j+1 < q.m {
-				t += 2 * s1[j] * (a.d1[j] - r.d1[j])
-			}
-			if j+2 < q.m {
-				t += 2 * s2[j] * (a.d2[j] - r.d2[j])
-			}
-		}
-		out.trace = float64(n) - t
+		out.trace = float64(n) - tr
 	}
 	return out, nil
+}
+
+// rhsInto writes Qᵀy into rhs, adding the same terms in the same order as
+// the row-by-row sum: entry u, at knot c, takes rows c−1, c, c+1 of Q
+// (entries 2, 1, 0), in increasing row order.
+func (p *splineProblem) rhsInto(fx *splineFixed, y, rhs []float64) {
+	n, m := p.n(), p.m
+	qv := fx.qv
+	shift := 1 // knot of unknown 0
+	if p.periodic {
+		shift = 0
+	}
+	lo, hi := max(1-shift, 0), min(n-2-shift, m-1)
+	for u := lo; u <= hi; u++ {
+		c := u + shift
+		v := qv[c-1][2] * y[c-1]
+		v += qv[c][1] * y[c]
+		v += qv[c+1][0] * y[c+1]
+		rhs[u] = v
+	}
+	for u := 0; u < m; u++ {
+		if u == lo && lo <= hi {
+			u = hi
+			continue
+		}
+		// Rows wrapping round (periodic ends): in increasing order.
+		c := u + shift
+		var rows, xs [3]int
+		k := 0
+		for x := 2; x >= 0; x-- {
+			i := ((c+1-x)%n + n) % n
+			j := k
+			for j > 0 && rows[j-1] > i {
+				rows[j], xs[j] = rows[j-1], xs[j-1]
+				j--
+			}
+			rows[j], xs[j] = i, x
+			k++
+		}
+		var v float64
+		for j := 0; j < k; j++ {
+			v += qv[rows[j]][xs[j]] * y[rows[j]]
+		}
+		rhs[u] = v
+	}
+}
+
+// valuesInto writes the fitted values g = y − λW⁻¹Qγ, γ the solution in
+// gam (indexed by unknown) and fs[i] = λ/wᵢ, with the terms of each row in
+// the order of its entries.
+func (p *splineProblem) valuesInto(fx *splineFixed, y, gam, fs, g []float64) {
+	n := p.n()
+	qu, qv := fx.qu, fx.qv
+	shift := 1
+	if p.periodic {
+		shift = 0
+	}
+	// Rows 2 … n−3 have three unknowns, knots i−1, i, i+1, without wrap.
+	row := func(i int) {
+		var qg float64
+		for x := 0; x < 3; x++ {
+			if u := qu[i][x]; u >= 0 {
+				qg += qv[i][x] * gam[u]
+			}
+		}
+		g[i] = y[i] - fs[i]*qg
+	}
+	row(0)
+	row(1)
+	for i := 2; i <= n-3; i++ {
+		u := i - shift
+		q := &qv[i]
+		qg := q[0] * gam[u-1]
+		qg += q[1] * gam[u]
+		qg += q[2] * gam[u+1]
+		g[i] = y[i] - fs[i]*qg
+	}
+	row(n - 2)
+	row(n - 1)
+}
+
+// splineParallelKnots is the least number of knots for which fit computes
+// the trace on a second goroutine (a variable so that tests can take either
+// path).
+var splineParallelKnots = 2000
+
+// openTrace returns tr(A⁻¹ (A − R)) for the open problem p at λ.
+func (p *splineProblem) openTrace(lambda float64) (float64, error) {
+	fx := p.fixedPart()
+	sc := p.getScratch()
+	defer p.putScratch(sc)
+	p.assembleInto(fx, lambda, sc.a, sc.fs)
+	if err := splineFactorInto(sc.a, p.m, &sc.ldl); err != nil {
+		return 0, err
+	}
+	return p.traceTerm(fx, sc, &sc.ldl), nil
+}
+
+// traceTerm returns tr(A⁻¹ (A − R)) for the open problem p, whose system is
+// in sc.a and factored in f: tr H = n − tr(A⁻¹ (A − R)), both symmetric
+// pentadiagonal.
+func (p *splineProblem) traceTerm(fx *splineFixed, sc *splineScratch, f *splineLDL) float64 {
+	a, r := sc.a, fx.r
+	f.inverseBandInto(sc.s0, sc.s1, sc.s2)
+	s0, s1, s2 := sc.s0, sc.s1, sc.s2
+	var t float64
+	for j := 0; j < p.m; j++ {
+		t += s0[j] * (a.d0[j] - r.d0[j])
+		if j+1 < p.m {
+			t += 2 * s1[j] * (a.d1[j] - r.d1[j])
+		}
+		if j+2 < p.m {
+			t += 2 * s2[j] * (a.d2[j] - r.d2[j])
+		}
+	}
+	return t
 }
 
 // splinePieces converts knot values g and second derivatives γ into cubic
