@@ -167,3 +167,34 @@ func TestStagesOfPipeline(t *testing.T) {
 		t.Errorf("missing pipeline file: exit %d, want %d", code, exitUsage)
 	}
 }
+
+func TestRunProgressLines(t *testing.T) {
+	// Off a terminal, progress is one line per section on stderr; --quiet
+	// silences it.
+	dir := t.TempDir()
+	pipe := filepath.Join(dir, "p.json")
+	os.WriteFile(filepath.Join(dir, "probe.csv"), must(os.ReadFile("../../examples/tunnel-model/probe.csv")), 0o644)
+	os.WriteFile(pipe, []byte(`{"foilwright": 1, "name": "progress", "inputs": [{"name": "a", "files": ["probe.csv"]}, {"name": "b", "files": ["probe.csv"]}],
+  "stages": [{"id": "thin", "stage": "thin-aerofoil"}], "outputs": {"folder": "out"}}`), 0o644)
+	_, stderr, code := runCLI(t, "run", pipe)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	if !strings.Contains(stderr, "[1/2] ok ") || !strings.Contains(stderr, "[2/2] ok ") || !strings.Contains(stderr, "s left)") {
+		t.Errorf("progress lines missing:\n%s", stderr)
+	}
+	_, stderr, code = runCLI(t, "run", pipe, "--replace", "--quiet")
+	if code != 0 || strings.Contains(stderr, "[1/2]") {
+		t.Errorf("--quiet: exit %d, stderr %q", code, stderr)
+	}
+	if _, _, code := runCLI(t, "run", pipe); code != exitUsage {
+		t.Errorf("run into a folder holding an earlier run without --replace: exit %d, want %d", code, exitUsage)
+	}
+}
+
+func must(b []byte, err error) []byte {
+	if err != nil {
+		panic(err)
+	}
+	return b
+}
