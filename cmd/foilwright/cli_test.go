@@ -2,7 +2,9 @@ package main
 
 import (
 	"bytes"
+	"fmt"
 	"image/png"
+	"math"
 	"os"
 	"path/filepath"
 	"strings"
@@ -197,4 +199,53 @@ func must(b []byte, err error) []byte {
 		panic(err)
 	}
 	return b
+}
+
+func TestPrepBadInput(t *testing.T) {
+	dir := t.TempDir()
+	write := func(name, text string) string {
+		p := filepath.Join(dir, name)
+		os.WriteFile(p, []byte(text), 0o644)
+		return p
+	}
+	var circle, square strings.Builder
+	circle.WriteString("# units: mm\n")
+	square.WriteString("# units: mm\n")
+	for i := range 60 {
+		a := 2 * math.Pi * float64(i) / 60
+		fmt.Fprintf(&circle, "%.6f %.6f\n", 50*math.Cos(a), 50*math.Sin(a))
+	}
+	for i := range 15 {
+		f := float64(i) / 15
+		fmt.Fprintf(&square, "%g 0\n1 %g\n%g 1\n0 %g\n", f, f, 1-f, 1-f)
+	}
+	probe := "../../examples/tunnel-model/probe.csv"
+	out := write("out.json", "earlier good output")
+	for _, tc := range []struct {
+		name string
+		args []string
+		msg  string
+	}{
+		{"circle", []string{write("circle.txt", circle.String())}, "--le-at"},
+		{"square", []string{write("square.txt", square.String())}, "--le-at"},
+		{"empty", []string{write("empty.txt", "")}, "empty"},
+		{"no units", []string{write("nounits.txt", "0 0\n1 0\n1 1\n0 1\n0.5 0.5\n0.2 0.1\n0.3 0.7\n0.9 0.4\n")}, "unit"},
+		{"panels", []string{probe, "--panels", "8"}, "--panels 8"},
+		{"noise", []string{probe, "--noise", "50"}, "noise"},
+		{"bad noise", []string{probe, "--noise", "lots"}, "--noise"},
+		{"too few points", []string{write("few.txt", "# units: mm\n0 0\n1 0\n1 1\n0 1\n")}, "too few"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			_, stderr, code := runCLI(t, append(append([]string{"prep"}, tc.args...), "-o", out)...)
+			if code != exitUsage {
+				t.Errorf("exit %d, want %d (%s)", code, exitUsage, stderr)
+			}
+			if !strings.Contains(stderr, tc.msg) {
+				t.Errorf("stderr %q lacks %q", stderr, tc.msg)
+			}
+			if got, _ := os.ReadFile(out); string(got) != "earlier good output" {
+				t.Errorf("earlier output changed")
+			}
+		})
+	}
 }
