@@ -249,3 +249,43 @@ func TestPrepBadInput(t *testing.T) {
 		})
 	}
 }
+
+func TestPointsBadInput(t *testing.T) {
+	dir := t.TempDir()
+	write := func(name string, data []byte) string {
+		p := filepath.Join(dir, name)
+		os.WriteFile(p, data, 0o644)
+		return p
+	}
+	stl := make([]byte, 84) // header + a count of 3 facets, but no facets
+	stl[80] = 3
+	for _, tc := range []struct {
+		name string
+		args []string
+		msg  string // part of the message: file, line, reason
+	}{
+		{"empty", []string{write("empty.csv", nil)}, "empty.csv: file is empty"},
+		{"no numbers", []string{write("words.csv", []byte("# units: mm\nsome words\nmore words\n"))}, "words.csv"},
+		{"one coordinate", []string{write("one.csv", []byte("# units: mm\n1 2\n3 4\n5\n"))}, "one.csv:4"},
+		{"NaN", []string{write("nan.csv", []byte("# units: mm\n1 2\nNaN 4\n"))}, "nan.csv:3"},
+		{"binary, not STL", []string{write("blob.bin", []byte{0x89, 'P', 'N', 'G', 0, 1, 2, 3, 0xff, 0xfe, 0, 0})}, "blob.bin"},
+		{"truncated STL", []string{write("cut.stl", stl), "--cut", "z=0", "--units", "mm"}, "truncated"},
+		{"DXF without entities", []string{write("empty.dxf", []byte("  0\nSECTION\n  2\nENTITIES\n  0\nENDSEC\n  0\nEOF\n"))}, "empty.dxf"},
+		{"unknown unit", []string{write("ok.csv", []byte("0 0\n1 0\n")), "--units", "furlong"}, "furlong"},
+		{"column out of range", []string{write("cols.csv", []byte("# units: mm\n1 2\n3 4\n")), "--columns", "2,5"}, "cols.csv"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			out := filepath.Join(dir, "out-"+strings.ReplaceAll(tc.name, " ", "-")+".csv")
+			_, stderr, code := runCLI(t, append(append([]string{"points"}, tc.args...), "-o", out)...)
+			if code != exitUsage {
+				t.Errorf("exit %d, want %d (%s)", code, exitUsage, stderr)
+			}
+			if !strings.Contains(stderr, tc.msg) {
+				t.Errorf("stderr %q lacks %q", stderr, tc.msg)
+			}
+			if _, err := os.Stat(out); err == nil {
+				t.Error("an output file was written")
+			}
+		})
+	}
+}
