@@ -63,6 +63,3 @@ func checkAlphas(alphas []float64) error {
 	}
 	return nil
 }
-
-// insideLoop reports whether p lies inside the closed polygon pts.
-func insideLoop(pts []geometry.Point, p geometry.Point) bool { return geometry.InsideLoop(pts, p) }

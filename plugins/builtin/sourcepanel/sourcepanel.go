@@ -287,7 +287,7 @@ func (c *Case) Field(pts []geometry.Point) ([]FieldPoint, error) {
 		if !p.IsFinite() {
 			return nil, fmt.Errorf("sourcepanel: %w: field point %d is (%g, %g)", ErrNonFinite, k, p.X, p.Y)
 		}
-		if insideLoop(loop, p) {
+		if geometry.InsideLoop(loop, p) {
 			return nil, fmt.Errorf("sourcepanel: %w: field point %d (%g, %g)", ErrInside, k, p.X, p.Y)
 		}
 		u, v := ca, sa
