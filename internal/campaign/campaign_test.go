@@ -5,6 +5,8 @@ import (
 	"os"
 	"strings"
 	"testing"
+
+	"github.com/foilwright/foilwright/internal/scangen"
 )
 
 // StrictEnv names the environment variable that turns the campaign's
@@ -16,8 +18,8 @@ import (
 const StrictEnv = "FOILWRIGHT_CAMPAIGN_STRICT"
 
 // TestCampaign runs seeded cases through the geometry chain and checks the
-// table of issue 10: 400 cases (about 15 s on two cores), 80 with -short,
-// 40 under the race detector. The truth is exact: NACA Report 824
+// table of issue 10: 400 cases (about 20 s on two cores), 80 with -short,
+// 40 without the 1e5-point scans under the race detector. The truth is exact: NACA Report 824
 // sections and Kármán–Trefftz sections with their exact potential flow
 // (Milne-Thomson); see internal/scangen.
 func TestCampaign(t *testing.T) {
@@ -28,9 +30,12 @@ func TestCampaign(t *testing.T) {
 	case testing.Short():
 		n = 80
 	}
-	seeds := make([]uint64, n)
-	for i := range seeds {
-		seeds[i] = uint64(1 + i)
+	var seeds []uint64
+	for s := uint64(1); len(seeds) < n; s++ {
+		if raceEnabled && scangen.Draw(s).Category == "dense" {
+			continue
+		}
+		seeds = append(seeds, s)
 	}
 	recs, err := Run(seeds, Options{})
 	if err != nil {

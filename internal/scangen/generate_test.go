@@ -88,7 +88,11 @@ func toChord(tr *Truth, p geometry.Vec3) (geometry.Point, float64) {
 // duplicates repeat their original within a hair; line numbers point at
 // the right lines; the files say they are invented.
 func TestPointsOnTheOutline(t *testing.T) {
-	for seed := uint64(1); seed <= 60; seed++ {
+	n := uint64(60)
+	if raceEnabled || testing.Short() {
+		n = 15
+	}
+	for seed := uint64(1); seed <= n; seed++ {
 		spec := Draw(seed)
 		if spec.Category == "dense" {
 			continue
@@ -257,7 +261,11 @@ func TestTwoPassOrder(t *testing.T) {
 // Every category draws valid cases.
 func TestDrawCategories(t *testing.T) {
 	seen := map[string]int{}
-	for seed := uint64(1000); seed < 1400; seed++ {
+	n := uint64(400)
+	if raceEnabled || testing.Short() {
+		n = 100
+	}
+	for seed := uint64(1000); seed < 1000+n; seed++ {
 		spec := Draw(seed)
 		seen[spec.Category]++
 		if spec.Category == "dense" {
@@ -269,7 +277,7 @@ func TestDrawCategories(t *testing.T) {
 	}
 	for _, c := range Categories() {
 		if seen[c] == 0 {
-			t.Errorf("category %s never drawn in 400 seeds", c)
+			t.Errorf("category %s never drawn in %d seeds", c, n)
 		}
 	}
 }
