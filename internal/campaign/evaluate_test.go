@@ -1,0 +1,253 @@
+package campaign
+
+import (
+	"encoding/json"
+	"math"
+	"strings"
+	"testing"
+
+	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/internal/scangen"
+)
+
+// perfectDoc returns the section document a perfect chain would write for
+// the case: the truth's frame (in the plane of 3D points), the kind of its
+// trailing edge and nodes on the true outline; edit changes it before it
+// is encoded.
+func perfectDoc(t *testing.T, c *Case, panels int, edit func(map[string]any)) []byte {
+	t.Helper()
+	tr := c.Scan.Truth
+	sh := tr.Section.Shape
+	nodes := make([][2]float64, panels+1)
+	for i := range nodes {
+		p := sh.At(float64(sh.Pieces()) * float64(i) / float64(panels))
+		nodes[i] = [2]float64{p.X, p.Y}
+	}
+	frame := map[string]any{"chord": tr.Chord, "twist_deg": tr.TwistDeg, "mirrored": tr.Mirrored}
+	le := tr.LE
+	if pl := tr.Plane; pl != nil {
+		// In-plane coordinates of the leading edge.
+		d := [3]float64{le[0] - pl.Origin[0], le[1] - pl.Origin[1], le[2] - pl.Origin[2]}
+		dot := func(a [3]float64) float64 { return a[0]*d[0] + a[1]*d[1] + a[2]*d[2] }
+		frame["le"] = [2]float64{dot(pl.U), dot(pl.V)}
+		frame["plane"] = map[string]any{"origin": pl.Origin, "u": pl.U, "v": pl.V, "normal": pl.Normal}
+	} else {
+		frame["le"] = [2]float64{le[0], le[1]}
+	}
+	doc := map[string]any{
+		"format": "foilwright.section/1", "units": tr.Units, "frame": frame,
+		"trailing_edge": map[string]any{"kind": tr.TEKind},
+		"source":        map[string]any{"dropped": []any{}},
+		"nodes":         nodes,
+	}
+	if edit != nil {
+		edit(doc)
+	}
+	data, err := json.Marshal(doc)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return data
+}
+
+// caseOf returns the first case from seed on whose spec passes keep.
+func caseOf(t *testing.T, seed uint64, keep func(scangen.Spec) bool) *Case {
+	t.Helper()
+	for s := seed; s < seed+5000; s++ {
+		if spec := scangen.Draw(s); keep(spec) {
+			c, err := NewCase(s)
+			if err != nil {
+				t.Fatal(err)
+			}
+			return c
+		}
+	}
+	t.Fatal("no such case")
+	return nil
+}
+
+func evaluateDoc(t *testing.T, c *Case, doc []byte) Record {
+	t.Helper()
+	sec, err := decodeSection(doc)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var r Record
+	evaluate(&r, c.Scan.Truth, sec)
+	return r
+}
+
+// A section that is the truth has no error, whatever the orientation,
+// the plane and the unit; a symmetric section may come back with the
+// other mirror flag and the matching twist and still be right.
+func TestEvaluatePerfect(t *testing.T) {
+	for _, tc := range []struct {
+		name string
+		keep func(scangen.Spec) bool
+	}{
+		{"2D", func(s scangen.Spec) bool { return s.Placement.Plane == "" && s.Category != "dense" }},
+		{"tilted", func(s scangen.Spec) bool { return s.Placement.Plane == "tilted" && s.Category != "dense" }},
+		{"mirrored", func(s scangen.Spec) bool {
+			return s.Placement.Orientation == "upside-down" && s.Placement.Plane == "" && s.Category != "dense"
+		}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			c := caseOf(t, 1, tc.keep)
+			r := evaluateDoc(t, c, perfectDoc(t, c, 160, nil))
+			const tol = 1e-9
+			if r.ChordErr > tol || r.TwistErr > 1e-6 || r.LEErr > tol || r.NodeErr > 1e-7 || !r.TERight || r.Wrong != "" {
+				t.Errorf("perfect section: chord %g, twist %g°, le %g, node %g, TE right %v, wrong %q",
+					r.ChordErr, r.TwistErr, r.LEErr, r.NodeErr, r.TERight, r.Wrong)
+			}
+		})
+	}
+	t.Run("symmetric, other mirror flag", func(t *testing.T) {
+		c := caseOf(t, 1, func(s scangen.Spec) bool {
+			return s.Shape.NACA != nil && s.Shape.NACA.Camber == 0 && s.Shape.RoundRadius == 0 && s.Placement.Plane == "" && s.Category != "dense"
+		})
+		tr := c.Scan.Truth
+		// y ↦ −y of the normalised frame: the other mirror flag at
+		// twist −τ − 180°.
+		doc := perfectDoc(t, c, 160, func(d map[string]any) {
+			f := d["frame"].(map[string]any)
+			f["mirrored"] = !tr.Mirrored
+			f["twist_deg"] = -tr.TwistDeg - 180
+		})
+		r := evaluateDoc(t, c, doc)
+		if r.TwistErr > 1e-6 || r.NodeErr > 1e-6 || r.Wrong != "" {
+			t.Errorf("twist %g°, node %g, wrong %q", r.TwistErr, r.NodeErr, r.Wrong)
+		}
+	})
+}
+
+// Errors beyond the thresholds count as wrong unless the stated
+// uncertainty covers them.
+func TestEvaluateWrong(t *testing.T) {
+	c := caseOf(t, 1, func(s scangen.Spec) bool { return s.Placement.Plane == "" && s.Category == "general" })
+	tr := c.Scan.Truth
+	off := func(d map[string]any) {
+		f := d["frame"].(map[string]any)
+		f["chord"] = tr.Chord * 1.01
+		f["twist_deg"] = tr.TwistDeg + 0.5
+	}
+	r := evaluateDoc(t, c, perfectDoc(t, c, 160, off))
+	if r.Wrong != "chord+twist" || math.Abs(r.ChordErr-0.01) > 1e-12 || math.Abs(r.TwistErr-0.5) > 1e-9 {
+		t.Errorf("wrong %q, chord %g, twist %g", r.Wrong, r.ChordErr, r.TwistErr)
+	}
+	if r.NodeErr > 1e-7 {
+		t.Errorf("node error %g from a frame error", r.NodeErr)
+	}
+	covered := perfectDoc(t, c, 160, func(d map[string]any) {
+		off(d)
+		d["uncertainty"] = map[string]any{"chord": 0.02 * tr.Chord, "twist_deg": 0.6, "le": []float64{0.001, 0.001}, "surface": 0.001}
+	})
+	r = evaluateDoc(t, c, covered)
+	if r.Wrong != "" || r.Stated == nil || r.Covered != [4]bool{true, true, true, true} {
+		t.Errorf("covered: wrong %q, stated %v, covered %v", r.Wrong, r.Stated, r.Covered)
+	}
+	// Chord and twist turn about the leading edge, which stays put.
+	if r.LEErr > 1e-12 {
+		t.Errorf("leading edge error %g", r.LEErr)
+	}
+	tooTight := perfectDoc(t, c, 160, func(d map[string]any) {
+		off(d)
+		d["uncertainty"] = map[string]any{"chord": 0.001 * tr.Chord, "twist_deg": 0.6, "le": 0, "surface": 0.001}
+	})
+	if r = evaluateDoc(t, c, tooTight); r.Wrong != "chord" || r.Covered != [4]bool{false, true, true, true} {
+		t.Errorf("too tight: wrong %q, covered %v", r.Wrong, r.Covered)
+	}
+	// A node 0.01 c off the outline.
+	bent := perfectDoc(t, c, 160, func(d map[string]any) {
+		n := d["nodes"].([][2]float64)
+		n[40][1] += 0.01
+	})
+	if r = evaluateDoc(t, c, bent); r.Wrong != "nodes" || math.Abs(r.NodeErr-0.01) > 2e-3 {
+		t.Errorf("bent: wrong %q, node error %g", r.Wrong, r.NodeErr)
+	}
+}
+
+// Dropped lines are counted against the truth: good lines dropped as
+// anything but duplicates, planted outliers caught.
+func TestCountDropped(t *testing.T) {
+	c := caseOf(t, 1, func(s scangen.Spec) bool {
+		return s.Defects.Outliers > 0.01 && s.Defects.Duplicates > 0.01 && s.Category == "general"
+	})
+	tr := c.Scan.Truth
+	var outliers, goods []int
+	paired := map[int]bool{}
+	for _, l := range tr.Lines {
+		if l.Kind == scangen.LineDuplicate {
+			paired[l.No], paired[l.Of] = true, true
+		}
+	}
+	for _, l := range tr.Lines {
+		switch {
+		case l.Kind == scangen.LineOutlier:
+			outliers = append(outliers, l.No)
+		case l.Kind == scangen.LineGood && !paired[l.No]:
+			goods = append(goods, l.No)
+		}
+	}
+	dropped := []any{
+		map[string]any{"line": outliers[0], "reason": "outlier: 3 off"},
+		map[string]any{"line": goods[0], "reason": "outlier: 1 off"},
+		map[string]any{"line": goods[1], "reason": "duplicate of x:1 (0 apart)"},
+	}
+	r := evaluateDoc(t, c, perfectDoc(t, c, 160, func(d map[string]any) { d["source"] = map[string]any{"dropped": dropped} }))
+	if r.Planted != len(outliers) || r.Caught != 1 || r.Good != len(goods) || r.GoodDropped != 1 {
+		t.Errorf("planted %d caught %d (want %d, 1), good %d dropped %d (want %d, 1)", r.Planted, r.Caught, len(outliers), r.Good, r.GoodDropped, len(goods))
+	}
+}
+
+// The kind of trailing edge is right as the documentation of teRight says.
+func TestTERight(t *testing.T) {
+	for _, tc := range []struct {
+		kind       string
+		thick, sig float64
+		got        string
+		want       bool
+	}{
+		{scangen.TESharp, 0, 1e-4, "sharp", true},
+		{scangen.TESharp, 0, 1e-4, "blunt", false},
+		{scangen.TEBlunt, 0.0025, 1e-4, "blunt", true},
+		{scangen.TEBlunt, 0.0025, 1e-4, "sharp", false},
+		{scangen.TEBlunt, 0.0025, 1e-3, "sharp", true},
+		{scangen.TEBlunt, 0.0025, 0, "open", false},
+		{scangen.TERounded, 0.01, 1e-4, "rounded", true},
+		{scangen.TERounded, 0.01, 1e-4, "blunt", false},
+		{scangen.TERounded, 0.01, 3e-3, "blunt", true},
+	} {
+		tr := &scangen.Truth{TEKind: tc.kind, TEThickness: tc.thick, Noise: tc.sig}
+		if got := teRight(tr, tc.got); got != tc.want {
+			t.Errorf("%s %g at noise %g stated %s: right %v, want %v", tc.kind, tc.thick, tc.sig, tc.got, got, tc.want)
+		}
+	}
+}
+
+// toPart follows the frame's documented map p = LE + c·M·R(−τ)·q
+// (DESIGN.md; values calculated by hand): at twist 90° nose-up the
+// trailing edge lies a chord below the leading edge.
+func TestToPart(t *testing.T) {
+	for _, tc := range []struct {
+		frame string
+		q     geometry.Point
+		want  geometry.Vec3
+	}{
+		{`{"chord": 2, "twist_deg": 90, "le": [1, 1]}`, geometry.Point{X: 1}, geometry.Vec3{X: 1, Y: -1}},
+		{`{"chord": 2, "twist_deg": 90, "le": [1, 1], "mirrored": true}`, geometry.Point{X: 0.5, Y: 0.5}, geometry.Vec3{X: 0, Y: 0}},
+		{`{"chord": 2, "twist_deg": 0, "le": [1, 1], "plane": {"origin": [0, 0, 5], "u": [0, 1, 0], "v": [0, 0, 1]}}`,
+			geometry.Point{X: 1, Y: 0.5}, geometry.Vec3{X: 0, Y: 3, Z: 7}},
+	} {
+		sec, err := decodeSection([]byte(`{"frame": ` + tc.frame + `, "nodes": [[1,0],[0,0],[1,0]]}`))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if got := sec.toPart(tc.q); got.Sub(tc.want).Norm() > 1e-12 {
+			t.Errorf("frame %s, q %v: %v, want %v", tc.frame, tc.q, got, tc.want)
+		}
+	}
+	if _, err := decodeSection([]byte(`{"frame": {"chord": 1}, "nodes": [[1,0],[0,0],[1,0]], "uncertainty": {"le": "x"}}`)); err == nil ||
+		!strings.Contains(err.Error(), "uncertainty.le") {
+		t.Errorf("bad le uncertainty: %v", err)
+	}
+}

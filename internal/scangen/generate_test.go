@@ -1,0 +1,283 @@
+package scangen
+
+import (
+	"bytes"
+	"encoding/json"
+	"math"
+	"math/rand/v2"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/foilwright/foilwright/geometry"
+)
+
+// readBack returns the point of every line of a generated file by its line
+// number, with a reader of its own (the formats scangen writes only), so
+// that the recorded line numbers are checked independently of the tool.
+func readBack(t *testing.T, data []byte, f FileSpec) map[int]geometry.Vec3 {
+	t.Helper()
+	lines := strings.Split(string(data), "\n")
+	out := map[int]geometry.Vec3{}
+	if strings.HasPrefix(f.Format, "dxf") {
+		for i := 0; i+1 < len(lines); i += 2 {
+			if strings.TrimSpace(lines[i]) != "10" {
+				continue
+			}
+			var v geometry.Vec3
+			v.X = mustFloat(t, lines[i+1])
+			v.Y = mustFloat(t, lines[i+3])
+			if i+5 < len(lines) && strings.TrimSpace(lines[i+4]) == "30" {
+				v.Z = mustFloat(t, lines[i+5])
+			}
+			out[i+2] = v
+		}
+		return out
+	}
+	sep := map[string]string{"csv": ",", "blank": " ", "tab": "\t", "semicolon": ";"}[f.Format]
+	skip := 0
+	if f.Header == "idx" || f.Header == "point" {
+		skip = 1
+	}
+	for i, l := range lines {
+		if l == "" || l[0] == '#' || strings.ContainsAny(l, "xyz") {
+			continue
+		}
+		fs := strings.Split(l, sep)[skip:]
+		var v [3]float64
+		for j, s := range fs {
+			v[j] = mustFloat(t, strings.Replace(s, ",", ".", 1))
+		}
+		out[i+1] = geometry.Vec3{X: v[0], Y: v[1], Z: v[2]}
+	}
+	return out
+}
+
+func mustFloat(t *testing.T, s string) float64 {
+	t.Helper()
+	v, err := strconv.ParseFloat(strings.TrimSpace(s), 64)
+	if err != nil {
+		t.Fatalf("number %q: %v", s, err)
+	}
+	return v
+}
+
+// toChord maps file coordinates back into the normalised frame with the
+// truth's frame, q = R(τ)·M·(p − LE)/c in the plane of the points, and
+// returns the distance from that plane too (chord units).
+func toChord(tr *Truth, p geometry.Vec3) (geometry.Point, float64) {
+	d := p.Sub(geometry.Vec3{X: tr.LE[0], Y: tr.LE[1], Z: tr.LE[2]})
+	u, v, n := geometry.Vec3{X: 1}, geometry.Vec3{Y: 1}, geometry.Vec3{Z: 1}
+	if tr.Plane != nil {
+		vec := func(a [3]float64) geometry.Vec3 { return geometry.Vec3{X: a[0], Y: a[1], Z: a[2]} }
+		u, v, n = vec(tr.Plane.U), vec(tr.Plane.V), vec(tr.Plane.Normal)
+	}
+	q := geometry.Point{X: d.Dot(u), Y: d.Dot(v)}.Scale(1 / tr.Chord)
+	if tr.Mirrored {
+		q.X = -q.X
+	}
+	off := d.Dot(n) / tr.Chord
+	if tr.Plane == nil {
+		off = 0
+	}
+	return q.Rotate(tr.TwistDeg * math.Pi / 180), off
+}
+
+// Every good point lies on the true outline within the noise, and the
+// scatter has the requested size; outliers lie off it by their offset;
+// duplicates repeat their original within a hair; line numbers point at
+// the right lines; the files say they are invented.
+func TestPointsOnTheOutline(t *testing.T) {
+	n := uint64(60)
+	if raceEnabled || testing.Short() {
+		n = 15
+	}
+	for seed := uint64(1); seed <= n; seed++ {
+		spec := Draw(seed)
+		if spec.Category == "dense" {
+			continue
+		}
+		sc, err := Generate(spec, seed)
+		if err != nil {
+			t.Fatalf("seed %d: %v", seed, err)
+		}
+		tr := sc.Truth
+		if !bytes.Contains(sc.Data, []byte("not measured")) {
+			t.Errorf("seed %d: the file does not say it is invented", seed)
+		}
+		pts := readBack(t, sc.Data, spec.File)
+		if len(pts) != len(tr.Lines) {
+			t.Fatalf("seed %d: %d point lines read back, %d in the truth", seed, len(pts), len(tr.Lines))
+		}
+		sh := tr.Section.Shape
+		// A good point is off the outline by its noise (5σ bounds every one
+		// of a few thousand Gaussian draws but once in a few hundred cases)
+		// and the rounding of the written numbers.
+		limit := 5*tr.Noise + tr.Resolution + 1e-9
+		var sum2 float64
+		var good int
+		for _, l := range tr.Lines {
+			p, ok := pts[l.No]
+			if !ok {
+				t.Fatalf("seed %d: line %d holds no point", seed, l.No)
+			}
+			q, off := toChord(tr, p)
+			d, _ := sh.Nearest(q)
+			switch l.Kind {
+			case LineGood:
+				good++
+				sum2 += d * d
+				if d > limit || math.Abs(off) > limit {
+					t.Errorf("seed %d line %d: good point %.3g off the outline, %.3g off the plane (noise %.3g)", seed, l.No, d, off, tr.Noise)
+				}
+				if at := sh.At(l.T); at.Dist(q) > limit {
+					t.Errorf("seed %d line %d: %.3g from its outline point", seed, l.No, at.Dist(q))
+				}
+			case LineOutlier:
+				if d < 0.004 || d > math.Abs(l.Offset)+limit {
+					t.Errorf("seed %d line %d: outlier %.4f off the outline, offset %.4f", seed, l.No, d, l.Offset)
+				}
+			case LineDuplicate:
+				o, ok := pts[l.Of]
+				if !ok {
+					t.Fatalf("seed %d line %d: duplicate of line %d, which holds no point", seed, l.No, l.Of)
+				}
+				if dd := o.Sub(p).Norm() / tr.Chord; dd > 3.2e-5+2*tr.Resolution {
+					t.Errorf("seed %d line %d: duplicate %.3g from its original", seed, l.No, dd)
+				}
+			}
+		}
+		if good != tr.GoodPoints {
+			t.Errorf("seed %d: %d good lines, truth says %d", seed, good, tr.GoodPoints)
+		}
+		// The RMS distance matches the noise (distance is |noise| where the
+		// outline is flat; tolerance for a few hundred samples, and the
+		// rounding of the numbers).
+		if tr.Noise > 0 && good >= 300 {
+			rms := math.Sqrt(sum2 / float64(good))
+			want := math.Sqrt(tr.Noise*tr.Noise + tr.Resolution*tr.Resolution/12)
+			if math.Abs(rms/want-1) > 0.15 {
+				t.Errorf("seed %d: RMS distance %.4g, noise %.4g", seed, rms, want)
+			}
+		}
+	}
+}
+
+// The gaps between neighbouring points are log-normal with the requested
+// σ: log(gᵢ₊₁/gᵢ) has standard deviation σ√2 whatever the slow density
+// wave, which cancels between neighbours.
+func TestGapSigma(t *testing.T) {
+	sec, err := shapeCases[1].spec.Build()
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, tc := range []struct {
+		sigma, wave float64
+	}{{0, 0}, {0.3, 0}, {0.5, 0.8}, {0.8, 0.8}} {
+		rng := rand.New(rand.NewPCG(7, 7))
+		s := &sampler{sh: sec.Shape, sm: Sampling{Points: 3000, Sigma: tc.sigma, Wave: tc.wave}, rng: rng}
+		ts := s.params()
+		var logs []float64
+		for i := 1; i+1 < len(ts); i++ {
+			g0 := sec.Shape.ArcAt(ts[i]) - sec.Shape.ArcAt(ts[i-1])
+			g1 := sec.Shape.ArcAt(ts[i+1]) - sec.Shape.ArcAt(ts[i])
+			if g0 <= 0 || g1 <= 0 {
+				continue // across the start of the loop
+			}
+			logs = append(logs, math.Log(g1/g0))
+		}
+		var m, v float64
+		for _, l := range logs {
+			m += l
+		}
+		m /= float64(len(logs))
+		for _, l := range logs {
+			v += (l - m) * (l - m)
+		}
+		sd := math.Sqrt(v / float64(len(logs)-1))
+		want := tc.sigma * math.Sqrt2
+		// 3000 samples: the standard deviation is known to about 2.6 %; the
+		// wave adds a little (its slope between neighbours).
+		if math.Abs(sd-want) > 0.06*want+0.01 {
+			t.Errorf("σ %.1f wave %.1f: log gap ratios have sd %.4f, want %.4f", tc.sigma, tc.wave, sd, want)
+		}
+	}
+}
+
+// The same spec and seed give the same bytes and truth.
+func TestDeterministic(t *testing.T) {
+	for _, seed := range []uint64{3, 17, 42} {
+		a, err := Generate(Draw(seed), seed)
+		if err != nil {
+			t.Fatal(err)
+		}
+		b, err := Generate(Draw(seed), seed)
+		if err != nil {
+			t.Fatal(err)
+		}
+		ja, _ := json.Marshal(a.Truth)
+		jb, _ := json.Marshal(b.Truth)
+		if !bytes.Equal(a.Data, b.Data) || !bytes.Equal(ja, jb) {
+			t.Errorf("seed %d: two runs differ", seed)
+		}
+	}
+}
+
+// A two-pass probe file runs over the upper surface from the nose to the
+// tail, then over the lower surface from the nose to the tail.
+func TestTwoPassOrder(t *testing.T) {
+	spec := Draw(1)
+	spec.Order = Order{Mode: "two-pass"}
+	spec.Defects = Defects{}
+	sc, err := Generate(spec, 1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	sh := sc.Truth.Section.Shape
+	var xs []float64
+	var upper []bool
+	for _, l := range sc.Truth.Lines {
+		p := sh.At(l.T)
+		xs = append(xs, p.X)
+		upper = append(upper, sh.Kind(l.T) == Upper)
+	}
+	pass2 := 0
+	for i := 1; i < len(xs); i++ {
+		if xs[i] < xs[i-1]-1e-12 {
+			if pass2 != 0 {
+				t.Fatalf("x falls at lines %d and %d: more than two passes", pass2, i)
+			}
+			pass2 = i
+		}
+	}
+	if pass2 == 0 || !upper[0] || upper[len(upper)-1] {
+		t.Errorf("second pass starts at %d of %d; first point upper %v, last upper %v", pass2, len(xs), upper[0], upper[len(upper)-1])
+	}
+	if !bytes.Contains(sc.Data, []byte("# pass 2")) {
+		t.Error("no comment marks the second pass")
+	}
+}
+
+// Every category draws valid cases.
+func TestDrawCategories(t *testing.T) {
+	seen := map[string]int{}
+	n := uint64(400)
+	if raceEnabled || testing.Short() {
+		n = 100
+	}
+	for seed := uint64(1000); seed < 1000+n; seed++ {
+		spec := Draw(seed)
+		seen[spec.Category]++
+		if spec.Category == "dense" {
+			continue
+		}
+		if _, err := Generate(spec, seed); err != nil {
+			t.Errorf("seed %d (%s): %v", seed, spec.Category, err)
+		}
+	}
+	for _, c := range Categories() {
+		if seen[c] == 0 {
+			t.Errorf("category %s never drawn in %d seeds", c, n)
+		}
+	}
+}

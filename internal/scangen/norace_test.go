@@ -1,0 +1,5 @@
+//go:build !race
+
+package scangen
+
+const raceEnabled = false
