@@ -256,7 +256,7 @@ type delimReader struct {
 	title      string
 	titleLine  int
 	unit       readUnit
-	notes      readNotes
+	notes      Notes
 }
 
 // delimRead reads delimited text s. columns is ReadOptions.Columns.
@@ -286,7 +286,7 @@ func delimRead(s, name, columns string) (*Cloud, readUnit, error) {
 					return nil, d.unit, err
 				}
 			}
-			d.notes.add(name, no, "comment", t)
+			d.notes.Add(name, no, "comment", t)
 			continue
 		}
 		fields = delimSplit(t, d.sep, fields)
@@ -320,7 +320,7 @@ func delimRead(s, name, columns string) (*Cloud, readUnit, error) {
 	}
 	c.Dim = len(d.cols)
 	c.Name = d.title
-	c.Notes = d.notes.list(name)
+	c.Notes = d.notes.List(name)
 	return c, d.unit, nil
 }
 
@@ -345,7 +345,7 @@ func (d *delimReader) resolve(fields []string, no int, t string) (bool, error) {
 			d.named = true
 			d.cols = cols
 			d.header, d.headerLine = hdr, no
-			d.notes.add(d.name, no, "column header", t)
+			d.notes.Add(d.name, no, "column header", t)
 			if err := d.headerUnits(); err != nil {
 				return false, err
 			}
@@ -371,7 +371,7 @@ func (d *delimReader) resolve(fields []string, no int, t string) (bool, error) {
 	case k == 1 && len(fields) == 1:
 		if v, _ := delimNumber(fields[0], d.decComma); !d.counted && v == math.Trunc(v) && v >= 0 && v < 1e15 {
 			d.counted = true
-			d.notes.add(d.name, no, "point count line", t)
+			d.notes.Add(d.name, no, "point count line", t)
 			return false, nil
 		}
 		return false, &ParseError{File: d.name, Line: no, Err: fmt.Errorf("%w: 1 coordinate, want 2 or 3", ErrColumnCount)}
@@ -383,18 +383,18 @@ func (d *delimReader) resolve(fields []string, no int, t string) (bool, error) {
 // text records a line that holds no coordinates.
 func (d *delimReader) text(fields []string, no int, t string) {
 	if d.started {
-		d.notes.add(d.name, no, "text line among the data", t)
+		d.notes.Add(d.name, no, "text line among the data", t)
 		return
 	}
 	if d.title == "" {
-		d.title, d.titleLine = readClip(t), no
+		d.title, d.titleLine = Excerpt(t), no
 	}
 	d.header, d.headerLine = delimJoinUnits(fields), no
-	d.headerNote = len(d.notes.notes)
-	if d.headerNote >= readMaxNotes {
+	d.headerNote = len(d.notes.Kept())
+	if d.headerNote >= MaxNotes {
 		d.headerNote = -1
 	}
-	d.notes.add(d.name, no, "text line before the data", t)
+	d.notes.Add(d.name, no, "text line before the data", t)
 }
 
 // start is called at the first data line: it takes the last text line
@@ -416,7 +416,7 @@ func (d *delimReader) start() error {
 		}
 	}
 	if d.headerNote >= 0 {
-		d.notes.notes[d.headerNote].Reason = "column header"
+		d.notes.Kept()[d.headerNote].Reason = "column header"
 	}
 	if d.titleLine == d.headerLine {
 		d.title = ""
@@ -473,7 +473,7 @@ func (d *delimReader) point(fields []string, no int) (p Vec3, isData bool, err e
 		}
 		switch {
 		case bad >= 0:
-			return p, false, &ParseError{File: d.name, Line: no, Err: fmt.Errorf("%w: column %d is %q", ErrNotNumeric, d.cols[bad]+1, readClip(fields[d.cols[bad]]))}
+			return p, false, &ParseError{File: d.name, Line: no, Err: fmt.Errorf("%w: column %d is %q", ErrNotNumeric, d.cols[bad]+1, Excerpt(fields[d.cols[bad]]))}
 		case d.explicit:
 			return p, false, &ParseError{File: d.name, Line: no, Err: fmt.Errorf("%w: column %d asked for, line has %d field(s)", ErrColumnRange, d.cols[missing]+1, len(fields))}
 		default:
@@ -482,7 +482,7 @@ func (d *delimReader) point(fields []string, no int) (p Vec3, isData bool, err e
 	}
 	for j := range d.cols {
 		if math.IsNaN(v[j]) || math.IsInf(v[j], 0) {
-			return p, false, &ParseError{File: d.name, Line: no, Err: fmt.Errorf("%w: column %d is %q", ErrNonFinite, d.cols[j]+1, readClip(fields[d.cols[j]]))}
+			return p, false, &ParseError{File: d.name, Line: no, Err: fmt.Errorf("%w: column %d is %q", ErrNonFinite, d.cols[j]+1, Excerpt(fields[d.cols[j]]))}
 		}
 	}
 	return Vec3{v[0], v[1], v[2]}, true, nil

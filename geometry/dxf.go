@@ -65,7 +65,7 @@ func dxfPairs(s, file string) ([]dxfPair, error) {
 			if ct == "" && lines.pos >= len(lines.s) {
 				break // a final empty line
 			}
-			return nil, &ParseError{File: file, Line: cno, Err: fmt.Errorf("%w: group code %q is not an integer", ErrFormat, readClip(ct))}
+			return nil, &ParseError{File: file, Line: cno, Err: fmt.Errorf("%w: group code %q is not an integer", ErrFormat, Excerpt(ct))}
 		}
 		vl, vno, ok := lines.next()
 		if !ok {
@@ -98,7 +98,7 @@ type dxfReader struct {
 	loose   []Vec3   // POINT entities
 	looseAt []Origin // their origins
 	ignored map[string]int
-	notes   readNotes
+	notes   Notes
 	unit    readUnit
 }
 
@@ -175,7 +175,7 @@ func (d *dxfReader) insUnits(p dxfPair) {
 	}
 	n, err := strconv.Atoi(p.value)
 	if err != nil {
-		d.unit.err = &ParseError{File: d.file, Line: p.line, Err: fmt.Errorf("%w: $INSUNITS %q", ErrUnknownUnit, readClip(p.value))}
+		d.unit.err = &ParseError{File: d.file, Line: p.line, Err: fmt.Errorf("%w: $INSUNITS %q", ErrUnknownUnit, Excerpt(p.value))}
 		return
 	}
 	// Unit codes of the DXF format's $INSUNITS header variable.
@@ -203,10 +203,10 @@ func (d *dxfReader) insUnits(p dxfPair) {
 func (d *dxfReader) number(p dxfPair) (float64, error) {
 	v, num := delimNumber(p.value, false)
 	if !num {
-		return 0, &ParseError{File: d.file, Line: p.line, Err: fmt.Errorf("%w: group %d is %q", ErrNotNumeric, p.code, readClip(p.value))}
+		return 0, &ParseError{File: d.file, Line: p.line, Err: fmt.Errorf("%w: group %d is %q", ErrNotNumeric, p.code, Excerpt(p.value))}
 	}
 	if math.IsNaN(v) || math.IsInf(v, 0) {
-		return 0, &ParseError{File: d.file, Line: p.line, Err: fmt.Errorf("%w: group %d is %q", ErrNonFinite, p.code, readClip(p.value))}
+		return 0, &ParseError{File: d.file, Line: p.line, Err: fmt.Errorf("%w: group %d is %q", ErrNonFinite, p.code, Excerpt(p.value))}
 	}
 	return v, nil
 }
@@ -358,7 +358,7 @@ func (d *dxfReader) lwpolyline(pairs []dxfPair, ent int) error {
 		pts[i] = toWorld(Vec3{pts[i].X, pts[i].Y, elev})
 	}
 	if bulged && len(lines) > 0 {
-		d.notes.add(d.file, lines[0], fmt.Sprintf("LWPOLYLINE entity %d has arc segments (bulges); only its vertices are read", ent), "")
+		d.notes.Add(d.file, lines[0], fmt.Sprintf("LWPOLYLINE entity %d has arc segments (bulges); only its vertices are read", ent), "")
 	}
 	d.addRun(pts, lines, ent, dxfFlags(pairs)&1 != 0)
 	return nil
@@ -374,7 +374,7 @@ func (d *dxfReader) spline(pairs []dxfPair, ent int) error {
 			return err
 		}
 		if len(pts) > 0 {
-			d.notes.add(d.file, lines[0], fmt.Sprintf("SPLINE entity %d has no fit points; its control points are read, which lie off the curve", ent), "")
+			d.notes.Add(d.file, lines[0], fmt.Sprintf("SPLINE entity %d has no fit points; its control points are read, which lie off the curve", ent), "")
 		}
 	}
 	d.addRun(pts, lines, ent, dxfFlags(pairs)&1 != 0)
@@ -458,7 +458,7 @@ func (d *dxfReader) chainLines() {
 	for k, l := range d.lines {
 		na[k], nb[k] = w.id(l.a), w.id(l.b)
 		if na[k] == nb[k] {
-			d.notes.add(d.file, l.la, fmt.Sprintf("LINE entity %d has zero length and is not read", l.ent), "")
+			d.notes.Add(d.file, l.la, fmt.Sprintf("LINE entity %d has zero length and is not read", l.ent), "")
 			continue
 		}
 		adj[na[k]] = append(adj[na[k]], k)
@@ -544,7 +544,7 @@ func (d *dxfReader) cloud() (*Cloud, readUnit, error) {
 	c.Ordered = len(d.runs) > 0 && len(d.loose) == 0
 	if len(d.runs) > 0 && len(d.loose) > 0 {
 		c.Segments = nil
-		d.notes.add(d.file, 0, fmt.Sprintf("%d POINT entities alongside %d polyline run(s): the order of the runs is not kept", len(d.loose), len(d.runs)), "")
+		d.notes.Add(d.file, 0, fmt.Sprintf("%d POINT entities alongside %d polyline run(s): the order of the runs is not kept", len(d.loose), len(d.runs)), "")
 	}
 	c.Points = append(c.Points, d.loose...)
 	c.Origins = append(c.Origins, d.looseAt...)
@@ -560,9 +560,9 @@ func (d *dxfReader) cloud() (*Cloud, readUnit, error) {
 	}
 	sort.Strings(types)
 	for _, t := range types {
-		d.notes.add(d.file, 0, fmt.Sprintf("%d %s entit%s not read", d.ignored[t], t, map[bool]string{true: "y", false: "ies"}[d.ignored[t] == 1]), "")
+		d.notes.Add(d.file, 0, fmt.Sprintf("%d %s entit%s not read", d.ignored[t], t, map[bool]string{true: "y", false: "ies"}[d.ignored[t] == 1]), "")
 	}
-	c.Notes = d.notes.list(d.file)
+	c.Notes = d.notes.List(d.file)
 	return c, d.unit, nil
 }
 

@@ -4,6 +4,8 @@ import (
 	"errors"
 	"fmt"
 	"math"
+
+	"github.com/foilwright/foilwright/internal/numeric"
 )
 
 // Trailing-edge kinds (TrailingEdge.Kind).
@@ -141,7 +143,7 @@ func edgeFarthest(cv *Curve, p Point, s0, s1 float64) (float64, float64) {
 		}
 		return math.Max(0, math.Min(L, s))
 	}
-	s := fitGolden(func(s float64) float64 { return -cv.At(wrap(s)).Dist(p) }, a, b, 60)
+	s := numeric.Golden(func(s float64) float64 { return -cv.At(wrap(s)).Dist(p) }, a, b, 60)
 	s = wrap(s)
 	if d := cv.At(s).Dist(p); d > bestD {
 		return s, d

@@ -6,6 +6,8 @@ import (
 	"slices"
 	"strconv"
 	"strings"
+
+	"github.com/foilwright/foilwright/internal/numeric"
 )
 
 // Fit methods, as reported in FitReport.Method and the section document.
@@ -739,26 +741,7 @@ func fitMinimiseLog(crit func(float64) float64, lo, hi, hint, hintSpan float64) 
 	}
 	a := lo + (hi-lo)*float64(max(best-1, 0))/float64(grid)
 	b := lo + (hi-lo)*float64(min(best+1, grid))/float64(grid)
-	return fitGolden(crit, a, b, 14), best == 0
-}
-
-// fitGolden returns the minimiser of f on [a, b] by golden-section search.
-func fitGolden(f func(float64) float64, a, b float64, iters int) float64 {
-	const g = 0.6180339887498949
-	c, d := b-g*(b-a), a+g*(b-a)
-	fc, fd := f(c), f(d)
-	for range iters {
-		if fc < fd {
-			b, d, fd = d, c, fc
-			c = b - g*(b-a)
-			fc = f(c)
-		} else {
-			a, c, fc = c, d, fd
-			d = a + g*(b-a)
-			fd = f(d)
-		}
-	}
-	return (a + b) / 2
+	return numeric.Golden(crit, a, b, 14), best == 0
 }
 
 // fitNormalRMS returns the RMS of the residuals projected on the curve

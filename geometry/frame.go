@@ -172,7 +172,7 @@ func Normalize(cv *Curve, opts EdgeOptions) (*Normalized, error) {
 		mirrored = true
 	case MirrorNo:
 	default:
-		_, cy := propCentroid(chord)
+		_, cy := chord.Centroid()
 		switch {
 		case cy < -EdgeMirrorCentroid:
 			mirrored = true

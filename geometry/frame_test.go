@@ -211,7 +211,7 @@ func TestNormalizeMirrored(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if _, cy := propCentroid(nz2.Path.(*Curve)); nz2.Frame.Mirrored || cy >= 0 {
+		if _, cy := nz2.Path.(*Curve).Centroid(); nz2.Frame.Mirrored || cy >= 0 {
 			t.Errorf("%s: mirror no: mirrored %v, centroid y %g", tc.name, nz2.Frame.Mirrored, cy)
 		}
 	}

@@ -35,7 +35,7 @@ type listingScan struct {
 	nameLine int
 	rows     [][]string
 	lines    []int
-	notes    readNotes
+	notes    Notes
 }
 
 // With detect set it gives up (returning nil) as soon as s cannot be a
@@ -57,15 +57,15 @@ func listingSplit(s, file string, detect bool) *listingScan {
 			if detect {
 				return nil // the listings have no comments: delimited text
 			}
-			sc.notes.add(file, no, "comment", t)
+			sc.notes.Add(file, no, "comment", t)
 			continue
 		}
 		if first {
 			first = false
 			f := strings.Fields(t)
 			if _, num := delimNumber(f[0], false); !num {
-				sc.name, sc.nameLine = readClip(t), no
-				sc.notes.add(file, no, "name line", t)
+				sc.name, sc.nameLine = Excerpt(t), no
+				sc.notes.Add(file, no, "name line", t)
 				continue
 			}
 			if detect {
@@ -104,10 +104,10 @@ func listingPairOf(f []string, file string, no int) (Point, error) {
 	for j := range 2 {
 		x, num := delimNumber(f[j], false)
 		if !num {
-			return Point{}, &ParseError{File: file, Line: no, Err: fmt.Errorf("%w: %q", ErrNotNumeric, readClip(f[j]))}
+			return Point{}, &ParseError{File: file, Line: no, Err: fmt.Errorf("%w: %q", ErrNotNumeric, Excerpt(f[j]))}
 		}
 		if math.IsNaN(x) || math.IsInf(x, 0) {
-			return Point{}, &ParseError{File: file, Line: no, Err: fmt.Errorf("%w: %q", ErrNonFinite, readClip(f[j]))}
+			return Point{}, &ParseError{File: file, Line: no, Err: fmt.Errorf("%w: %q", ErrNonFinite, Excerpt(f[j]))}
 		}
 		v[j] = x
 	}
@@ -200,7 +200,7 @@ func listingIsHeader(t string) bool {
 // listingCloud builds the cloud of a listing from its pairs.
 func listingCloud(sc *listingScan, file, format string, pairs []listingPair) *Cloud {
 	c := &Cloud{Format: format, Dim: 2, Name: sc.name, Ordered: true,
-		Points: make([]Vec3, len(pairs)), Origins: make([]Origin, len(pairs)), Notes: sc.notes.list(file)}
+		Points: make([]Vec3, len(pairs)), Origins: make([]Origin, len(pairs)), Notes: sc.notes.List(file)}
 	for i, q := range pairs {
 		c.Points[i] = Vec3{q.p.X, q.p.Y, 0}
 		c.Origins[i] = Origin{File: file, Line: q.line}
@@ -244,7 +244,7 @@ func listingReadSurfaces(s, file string) (*Cloud, readUnit, error) {
 		return nil, readUnit{}, &ParseError{File: file, Line: pairs[nu+nl].line,
 			Err: fmt.Errorf("%w: more points than the counts line (line %d) promises (%d + %d)", ErrFormat, sc.lines[0], nu, nl)}
 	}
-	sc.notes.add(file, sc.lines[0], "point counts line", strings.Join(sc.rows[0], " "))
+	sc.notes.Add(file, sc.lines[0], "point counts line", strings.Join(sc.rows[0], " "))
 	upper, lower := pairs[:nu], pairs[nu:]
 	loop := make([]listingPair, 0, nu+nl)
 	for i := nu - 1; i >= 0; i-- {

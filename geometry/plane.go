@@ -202,7 +202,7 @@ func Flatten(c *Cloud, opts FlattenOptions) (*Cloud, Flatness, error) {
 	out := &Cloud{Dim: 2, Units: c.Units, Format: c.Format, Name: c.Name, Ordered: c.Ordered,
 		Points: make([]Vec3, 0, len(c.Points)), Origins: make([]Origin, 0, len(c.Points))}
 	out.Notes = append(out.Notes, c.Notes...)
-	var notes readNotes
+	var notes Notes
 	var fl Flatness
 	fl.Plane = pl
 	segStart := map[int]bool{}
@@ -224,7 +224,7 @@ func Flatten(c *Cloud, opts FlattenOptions) (*Cloud, Flatness, error) {
 		}
 		if opts.Band > 0 && math.Abs(d) > opts.Band {
 			fl.Outside++
-			notes.addAt(o, fmt.Sprintf("point %.6g from the plane, outside the band ±%g", d, opts.Band), "")
+			notes.AddAt(o, fmt.Sprintf("point %.6g from the plane, outside the band ±%g", d, opts.Band), "")
 			continue
 		}
 		if pending {
@@ -241,10 +241,11 @@ func Flatten(c *Cloud, opts FlattenOptions) (*Cloud, Flatness, error) {
 		hi = Point{math.Max(hi.X, uv.X), math.Max(hi.Y, uv.Y)}
 	}
 	fl.Kept = len(out.Points)
-	if n := len(notes.notes); n > 0 && notes.extra > 0 {
-		notes.notes = append(notes.notes, Note{Reason: fmt.Sprintf("%d more point(s) outside the band not listed", notes.extra)})
+	kept := notes.Kept()
+	if n := len(kept); n > 0 && notes.Extra() > 0 {
+		kept = append(kept, Note{Reason: fmt.Sprintf("%d more point(s) outside the band not listed", notes.Extra())})
 	}
-	out.Notes = append(out.Notes, notes.notes...)
+	out.Notes = append(out.Notes, kept...)
 	if len(out.Segments) > 0 && out.Segments[0] != 0 {
 		out.Segments = append([]int{0}, out.Segments...)
 	}

@@ -70,6 +70,15 @@ func (p Vec3) Unit() Vec3 {
 	return p.Scale(1 / n)
 }
 
+// Plane is a plane in space with an orthonormal in-plane basis U, V and unit
+// normal N = U × V, in input units.
+type Plane struct {
+	Origin [3]float64 `json:"origin"`
+	U      [3]float64 `json:"u"`
+	V      [3]float64 `json:"v"`
+	N      [3]float64 `json:"normal"`
+}
+
 // SignedArea returns the shoelace area of the closed polygon pts (the last
 // point joins the first): positive when the points run counter-clockwise.
 func SignedArea(pts []Point) float64 {

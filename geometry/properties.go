@@ -4,6 +4,8 @@ import (
 	"errors"
 	"fmt"
 	"math"
+
+	"github.com/foilwright/foilwright/internal/numeric"
 )
 
 // Thickness and camber modes (PropertyOptions).
@@ -70,53 +72,6 @@ func propCurve(p Path) *Curve {
 	c := curveInterpolate(pts, false)
 	c.closed = pts[0].Dist(pts[n]) <= 1e-12*L
 	return c
-}
-
-// propGreen holds ∮ integrals of Green's theorem over the outline.
-type propGreen struct {
-	a, sx, sy, ixx, iyy, ixy float64 // ∫∫ 1, x, y, y², x², xy dA
-}
-
-// propIntegrals integrates over every piece of c by Gauss–Legendre
-// quadrature (exact for cubic pieces) and over the straight closing segment
-// from the end back to the start:
-//
-//	A = ½∮(x dy − y dx),  ∫∫x dA = ∮ x²/2 dy,  ∫∫y dA = −∮ y²/2 dx,
-//	∫∫y² dA = −∮ y³/3 dx, ∫∫x² dA = ∮ x³/3 dy, ∫∫xy dA = ∮ x²y/2 dy.
-func propIntegrals(c *Curve) propGreen {
-	gl := curveGL()
-	var g propGreen
-	add := func(x, y, dx, dy, w float64) {
-		g.a += w * (x*dy - y*dx) / 2
-		g.sx += w * x * x * dy / 2
-		g.sy -= w * y * y * dx / 2
-		g.ixx -= w * y * y * y * dx / 3
-		g.iyy += w * x * x * x * dy / 3
-		g.ixy += w * x * x * y * dy / 2
-	}
-	for i := 0; i < c.Pieces(); i++ {
-		h := c.h(i)
-		for k, t := range gl[0] {
-			x, dx, _ := curvePoly(c.xs[i], t*h)
-			y, dy, _ := curvePoly(c.ys[i], t*h)
-			add(x, y, dx, dy, gl[1][k]*h)
-		}
-	}
-	p, q := c.End(), c.Start()
-	if d := q.Sub(p); d.Norm() > 0 {
-		for k, t := range gl[0] {
-			r := p.Add(d.Scale(t))
-			add(r.X, r.Y, d.X, d.Y, gl[1][k])
-		}
-	}
-	return g
-}
-
-// propCentroid returns the centroid of the area enclosed by c (closed by a
-// straight segment if open).
-func propCentroid(c *Curve) (float64, float64) {
-	g := propIntegrals(c)
-	return g.sx / g.a, g.sy / g.a
 }
 
 // propSide is one surface of a curve, from parameter position (i0, u0) to
@@ -327,16 +282,16 @@ func ComputeProperties(p Path, sLE float64, opts PropertyOptions) (*SectionPrope
 	}
 
 	// Area and moments.
-	g := propIntegrals(c)
-	if !(g.a > 0) {
-		return nil, nil, fmt.Errorf("geometry: %w: enclosed area %g is not positive (not counter-clockwise?)", ErrNotNormalized, g.a)
+	g := c.AreaIntegrals()
+	if !(g.A > 0) {
+		return nil, nil, fmt.Errorf("geometry: %w: enclosed area %g is not positive (not counter-clockwise?)", ErrNotNormalized, g.A)
 	}
-	sp.Area = g.a
-	cx, cy := g.sx/g.a, g.sy/g.a
+	sp.Area = g.A
+	cx, cy := g.Sx/g.A, g.Sy/g.A
 	sp.Centroid = [2]float64{cx, cy}
-	sp.Ixx = g.ixx - g.a*cy*cy
-	sp.Iyy = g.iyy - g.a*cx*cx
-	sp.Ixy = g.ixy - g.a*cx*cy
+	sp.Ixx = g.Ixx - g.A*cy*cy
+	sp.Iyy = g.Iyy - g.A*cx*cx
+	sp.Ixy = g.Ixy - g.A*cx*cy
 	mean, half := (sp.Ixx+sp.Iyy)/2, (sp.Ixx-sp.Iyy)/2
 	r := math.Hypot(half, sp.Ixy)
 	sp.Imin, sp.Imax = mean-r, mean+r
@@ -357,7 +312,7 @@ func propMax(f func(float64) float64, st []float64) (float64, float64) {
 		}
 	}
 	a, b := st[max(best-1, 0)], st[min(best+1, len(st)-1)]
-	x := fitGolden(func(x float64) float64 { return -f(x) }, a, b, 50)
+	x := numeric.Golden(func(x float64) float64 { return -f(x) }, a, b, 50)
 	if v := f(x); v >= vals[best] {
 		return v, x
 	}
@@ -414,7 +369,7 @@ func propCircle(pts []Point, center Point, r float64) (Point, float64) {
 				}
 			}
 		}
-		dx, ok := propSolve3(a, b)
+		dx, ok := numeric.Solve3(a, b)
 		if !ok {
 			break
 		}
@@ -425,26 +380,6 @@ func propCircle(pts []Point, center Point, r float64) (Point, float64) {
 		}
 	}
 	return center, r
-}
-
-// propSolve3 solves a 3×3 system by Cramer's rule.
-func propSolve3(a [3][3]float64, b [3]float64) ([3]float64, bool) {
-	det := func(m [3][3]float64) float64 {
-		return m[0][0]*(m[1][1]*m[2][2]-m[1][2]*m[2][1]) - m[0][1]*(m[1][0]*m[2][2]-m[1][2]*m[2][0]) + m[0][2]*(m[1][0]*m[2][1]-m[1][1]*m[2][0])
-	}
-	d := det(a)
-	if math.Abs(d) < 1e-300 {
-		return [3]float64{}, false
-	}
-	var x [3]float64
-	for k := 0; k < 3; k++ {
-		m := a
-		for r := 0; r < 3; r++ {
-			m[r][k] = b[r]
-		}
-		x[k] = det(m) / d
-	}
-	return x, true
 }
 
 // propLECircle returns the leading-edge circle of c (leading edge at arc
@@ -554,7 +489,7 @@ func propVertex(f func(float64) float64, x0, w float64) float64 {
 		}
 	}
 	a := [3][3]float64{{s[0], s[1], s[2]}, {s[1], s[2], s[3]}, {s[2], s[3], s[4]}}
-	c, ok := propSolve3(a, r)
+	c, ok := numeric.Solve3(a, r)
 	if !ok || !(c[2] < 0) {
 		return x0
 	}

@@ -39,11 +39,6 @@ const (
 	FormatSTL       = "stl"
 )
 
-// readMaxNotes caps the notes one file may add to a Cloud; the rest are
-// counted in a final note, so a file of a million comment lines cannot
-// flood the report.
-const readMaxNotes = 1000
-
 // Read reads a point file of any supported format from r into a Cloud. name
 // is the display name used in errors and in every point's Origin.
 //
@@ -214,47 +209,6 @@ func (l *readLines) next() (line string, no int, ok bool) {
 	}
 	l.no++
 	return line, l.no, true
-}
-
-// readNotes collects the notes of one file, up to readMaxNotes.
-type readNotes struct {
-	notes []Note
-	extra int
-}
-
-// add records that line no of file was skipped, and why.
-func (n *readNotes) add(file string, no int, reason, text string) {
-	n.addAt(Origin{File: file, Line: no}, reason, text)
-}
-
-// addAt records that the point or line at o was skipped, and why.
-func (n *readNotes) addAt(o Origin, reason, text string) {
-	if len(n.notes) >= readMaxNotes {
-		n.extra++
-		return
-	}
-	n.notes = append(n.notes, Note{Origin: o, Reason: reason, Text: readClip(text)})
-}
-
-// list returns the notes, with a closing note counting those left out.
-func (n *readNotes) list(file string) []Note {
-	if n.extra > 0 {
-		return append(n.notes, Note{Origin: Origin{File: file}, Reason: fmt.Sprintf("%d more skipped line(s) not listed", n.extra)})
-	}
-	return n.notes
-}
-
-// readClip trims s and cuts it to at most 80 bytes, at a rune boundary.
-func readClip(s string) string {
-	s = strings.TrimSpace(s)
-	if len(s) <= 80 {
-		return s
-	}
-	cut := 80
-	for cut > 0 && s[cut]&0xc0 == 0x80 {
-		cut--
-	}
-	return s[:cut]
 }
 
 // readUnit records the unit a file states and where it said so.

@@ -57,7 +57,7 @@ func readFuzzCheck(t *testing.T, c *Cloud) {
 			}
 		}
 	}
-	if len(c.Notes) > readMaxNotes+16 {
+	if len(c.Notes) > MaxNotes+16 {
 		t.Fatalf("%d notes", len(c.Notes))
 	}
 }

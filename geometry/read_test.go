@@ -271,12 +271,12 @@ func TestReadDetect(t *testing.T) {
 // TestReadNoteCap checks that a file of many comments does not flood the
 // notes.
 func TestReadNoteCap(t *testing.T) {
-	in := strings.Repeat("# comment\n", 3*readMaxNotes) + "1 2\n3 4\n"
+	in := strings.Repeat("# comment\n", 3*MaxNotes) + "1 2\n3 4\n"
 	c, err := Read(strings.NewReader(in), "in.txt", ReadOptions{})
 	if err != nil {
 		t.Fatal(err)
 	}
-	if len(c.Notes) != readMaxNotes+1 || !strings.Contains(c.Notes[readMaxNotes].Reason, "2000 more") {
-		t.Errorf("%d notes, last %q; want %d and a count of 2000 more", len(c.Notes), c.Notes[len(c.Notes)-1].Reason, readMaxNotes+1)
+	if len(c.Notes) != MaxNotes+1 || !strings.Contains(c.Notes[MaxNotes].Reason, "2000 more") {
+		t.Errorf("%d notes, last %q; want %d and a count of 2000 more", len(c.Notes), c.Notes[len(c.Notes)-1].Reason, MaxNotes+1)
 	}
 }

@@ -1,6 +1,10 @@
 package geometry
 
-import "math"
+import (
+	"math"
+
+	"github.com/foilwright/foilwright/internal/numeric"
+)
 
 // Arc windows of the rounded-end analysis (roundedAnalyse), as fractions of
 // the chord unless said otherwise.
@@ -77,7 +81,7 @@ func roundedLine(cv *Curve, a, b float64) Point {
 			}
 		}
 	}
-	c, ok := propSolve3(am, bv)
+	c, ok := numeric.Solve3(am, bv)
 	if !ok {
 		return d
 	}

@@ -3,6 +3,8 @@ package geometry
 import (
 	"math"
 	"slices"
+
+	"github.com/foilwright/foilwright/internal/numeric"
 )
 
 // roundedScatterHalf is the half-width, in points, of the window of the
@@ -57,12 +59,12 @@ func roundedScatter(pts []Point) float64 {
 				}
 			}
 		}
-		c, ok := propSolve3(a, b)
+		c, ok := numeric.Solve3(a, b)
 		if !ok {
 			continue
 		}
 		// (XᵀX)⁻¹[0][0] is the variance factor of the prediction at u = 0.
-		e, ok := propSolve3(a, [3]float64{1, 0, 0})
+		e, ok := numeric.Solve3(a, [3]float64{1, 0, 0})
 		if !ok || !(e[0] >= 0) {
 			continue
 		}
@@ -103,7 +105,7 @@ func roundedCircle(pts []Point) (Point, float64, float64, bool) {
 			}
 		}
 	}
-	s, ok := propSolve3(a, b)
+	s, ok := numeric.Solve3(a, b)
 	if !ok {
 		return Point{}, 0, 0, false
 	}

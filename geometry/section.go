@@ -64,15 +64,6 @@ type Frame struct {
 	Plane *Plane `json:"plane,omitempty"`
 }
 
-// Plane is a plane in space with an orthonormal in-plane basis U, V and unit
-// normal N = U × V, in input units.
-type Plane struct {
-	Origin [3]float64 `json:"origin"`
-	U      [3]float64 `json:"u"`
-	V      [3]float64 `json:"v"`
-	N      [3]float64 `json:"normal"`
-}
-
 // FitSummary reports how far the fitted curve departs from the kept input
 // points, in input units.
 type FitSummary struct {

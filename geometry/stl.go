@@ -194,7 +194,7 @@ func stlReadASCII(s, name string) (*Mesh, error) {
 		switch {
 		case kw == "solid" && state == outside:
 			if m.Name == "" && len(f) > 1 {
-				m.Name = readClip(strings.Join(f[1:], " "))
+				m.Name = Excerpt(strings.Join(f[1:], " "))
 			}
 			state = inSolid
 		case kw == "endsolid" && state == inSolid:
@@ -211,10 +211,10 @@ func stlReadASCII(s, name string) (*Mesh, error) {
 			for j := range 3 {
 				x, num := delimNumber(f[j+1], false)
 				if !num {
-					return nil, perr(no, fmt.Errorf("%w: %q", ErrNotNumeric, readClip(f[j+1])))
+					return nil, perr(no, fmt.Errorf("%w: %q", ErrNotNumeric, Excerpt(f[j+1])))
 				}
 				if math.IsNaN(x) || math.IsInf(x, 0) {
-					return nil, perr(no, fmt.Errorf("%w: %q", ErrNonFinite, readClip(f[j+1])))
+					return nil, perr(no, fmt.Errorf("%w: %q", ErrNonFinite, Excerpt(f[j+1])))
 				}
 				v[j] = x
 			}
@@ -231,7 +231,7 @@ func stlReadASCII(s, name string) (*Mesh, error) {
 			}
 			state = inSolid
 		default:
-			return nil, perr(no, fmt.Errorf("%w: unexpected %q", ErrFormat, readClip(line)))
+			return nil, perr(no, fmt.Errorf("%w: unexpected %q", ErrFormat, Excerpt(line)))
 		}
 	}
 	if state != outside {
