@@ -95,11 +95,6 @@ type FitReport struct {
 	Warnings         []string
 }
 
-// Summary returns the fit record of the section document.
-func (r *FitReport) Summary() *FitSummary {
-	return &FitSummary{Method: r.Method, RMS: r.RMS, Max: r.Max, MaxAt: r.MaxAt.String(), NoiseEstimate: r.NoiseEstimate}
-}
-
 // fitEnds is the result of looking for corners at the trailing edge.
 type fitEnds struct {
 	open  bool

@@ -5,6 +5,28 @@ import (
 	"math"
 )
 
+// Frame maps the normalised section back to the part, in input units:
+// chord, twist (degrees, positive nose-up), the leading edge in input
+// coordinates, and whether the section was mirrored to bring it into the
+// normalised frame. Methods that apply it live beside the normalisation code.
+type Frame struct {
+	Chord    float64    `json:"chord"`
+	TwistDeg float64    `json:"twist_deg"`
+	LE       [2]float64 `json:"le"`
+	Mirrored bool       `json:"mirrored"`
+	// Plane is set when the section was cut from or fitted to 3D data: the
+	// section's 2D input coordinates (u, v) are Origin + u·U + v·V in space.
+	Plane *Plane `json:"plane,omitempty"`
+}
+
+// TrailingEdge reports the kind of trailing edge found and what was done to it.
+type TrailingEdge struct {
+	Kind      string  `json:"kind"`      // sharp | blunt | rounded | open
+	Thickness float64 `json:"thickness"` // chord units
+	Action    string  `json:"action"`    // kept | closed | sharpened
+	MaxShift  float64 `json:"max_shift"` // input units
+}
+
 // frameMatrix returns the linear part of ToChord: R(τ)·M/c, with M the
 // mirror x ↦ −x when mirrored.
 func (f Frame) frameMatrix() [2][2]float64 {

@@ -1,6 +1,10 @@
 package geometry
 
-import "math"
+import (
+	"encoding/json"
+	"fmt"
+	"math"
+)
 
 // Point is a point or vector in a plane.
 type Point struct{ X, Y float64 }
@@ -89,4 +93,25 @@ func SignedArea(pts []Point) float64 {
 		a += p.X*q.Y - q.X*p.Y
 	}
 	return a / 2
+}
+
+// MarshalJSON writes p as [x, y].
+func (p Point) MarshalJSON() ([]byte, error) {
+	if !p.IsFinite() {
+		return nil, fmt.Errorf("geometry: cannot write non-finite point (%g, %g)", p.X, p.Y)
+	}
+	return json.Marshal([2]float64{p.X, p.Y})
+}
+
+// UnmarshalJSON reads p from [x, y].
+func (p *Point) UnmarshalJSON(b []byte) error {
+	var a []float64
+	if err := json.Unmarshal(b, &a); err != nil {
+		return err
+	}
+	if len(a) != 2 {
+		return fmt.Errorf("want [x, y], got %d number(s)", len(a))
+	}
+	p.X, p.Y = a[0], a[1]
+	return nil
 }

@@ -29,6 +29,23 @@ type PropertyOptions struct {
 	Noise float64
 }
 
+// Properties are the geometric properties of a normalised section, in chord
+// units.
+type Properties struct {
+	Thickness   float64    `json:"thickness"`
+	ThicknessAt float64    `json:"thickness_at"`
+	Camber      float64    `json:"camber"`
+	CamberAt    float64    `json:"camber_at"`
+	LERadius    float64    `json:"le_radius"`
+	TEAngleDeg  float64    `json:"te_angle_deg"`
+	Area        float64    `json:"area"`
+	Centroid    [2]float64 `json:"centroid"`
+	Ixx         float64    `json:"ixx"`
+	Iyy         float64    `json:"iyy"`
+	Ixy         float64    `json:"ixy"`
+	Perimeter   float64    `json:"perimeter"`
+}
+
 // SectionProperties holds the document properties of a normalised section
 // and the extra figures behind them. All lengths are chord units.
 type SectionProperties struct {

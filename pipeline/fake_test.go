@@ -14,6 +14,7 @@ import (
 	"time"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/tidwall/gjson"
 )
 
@@ -58,10 +59,10 @@ func (fakePrep) Prepare(ctx context.Context, in Input, s PrepSettings) (Prepared
 	for i := range pts {
 		pts[i] = geometry.Point{X: (pts[i].X - lo.X) / chord, Y: (pts[i].Y - lo.Y) / chord}
 	}
-	sec := &geometry.Section{Name: in.Section, Units: geometry.Unit(s.Units), Nodes: pts,
-		Frame: &geometry.Frame{Chord: chord, LE: [2]float64{lo.X, lo.Y}}}
+	sec := &section.Section{Name: in.Section, Units: geometry.Unit(s.Units), Nodes: pts,
+		Frame: &section.Frame{Chord: chord, LE: [2]float64{lo.X, lo.Y}}}
 	var b bytes.Buffer
-	if err := geometry.WriteSection(&b, sec); err != nil {
+	if err := section.Write(&b, sec); err != nil {
 		return Prepared{}, err
 	}
 	return Prepared{Section: b.Bytes(), Summary: fmt.Sprintf("%d points, chord %g", len(pts), chord)}, nil
@@ -132,7 +133,7 @@ func (f *fakeRunner) Run(ctx context.Context, call StageCall, in StageInput) (St
 		return StageOutput{}, errors.New("runner closed")
 	}
 	f.calls++
-	sec, err := geometry.ReadSection(bytes.NewReader(in.Section), "section")
+	sec, err := section.Read(bytes.NewReader(in.Section), "section")
 	if err != nil {
 		return StageOutput{}, err
 	}

@@ -13,6 +13,7 @@ import (
 	"strings"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/plot"
 	"github.com/foilwright/foilwright/repanel"
 )
@@ -33,7 +34,7 @@ const maxNoiseFraction = 0.05
 // Preparation is everything the geometry chain made of one section: the
 // section document and the intermediate results a report or a plot needs.
 type Preparation struct {
-	Section  *geometry.Section
+	Section  *section.Section
 	Clouds   []*geometry.Cloud     // as read, one per file
 	Flatness *geometry.Flatness    // set when the points were 3D
 	Clean    *geometry.CleanReport // merging, ordering, outliers, loops
@@ -202,7 +203,7 @@ func Prepare(name string, files []InputFile, s PrepSettings) (*Preparation, erro
 		nodes[i] = shape.Path.At(sv)
 	}
 	nodes[le] = geometry.Point{}
-	if _, err := geometry.CheckNodes(nodes); err != nil {
+	if _, err := section.CheckNodes(nodes); err != nil {
 		return nil, fmt.Errorf("%s: the repanelled section is not usable: %w", strings.Join(names, ", "), err)
 	}
 	p.Quality = repanel.Measure(nodes)
@@ -216,31 +217,32 @@ func Prepare(name string, files []InputFile, s PrepSettings) (*Preparation, erro
 	}
 	p.Props, p.Camber = props, camber
 
-	frame := shape.Frame
+	frame := section.Frame(shape.Frame)
 	frame.Plane = plane
-	te := shape.TE
+	te := section.TrailingEdge(shape.TE)
+	docProps := section.Properties(props.Properties)
 	spacing := rp.Spacing
 	if spacing == "" {
 		spacing = repanel.LawCosine
 	}
-	sec := &geometry.Section{
-		Format: geometry.SectionFormat,
+	sec := &section.Section{
+		Format: section.Format,
 		Name:   name,
 		Units:  cl.Units,
-		Source: &geometry.SourceInfo{
+		Source: &section.SourceInfo{
 			Files: names, SHA256: cl.SHA256,
 			PointsRead: cl.Read, PointsUsed: contour.Len(),
 			Dropped: DroppedOf(rep),
 		},
 		Frame:        &frame,
-		Fit:          fit.Summary(),
+		Fit:          &section.FitSummary{Method: fit.Method, RMS: fit.RMS, Max: fit.Max, MaxAt: fit.MaxAt.String(), NoiseEstimate: fit.NoiseEstimate},
 		TrailingEdge: &te,
 		LEIndex:      &le,
-		Panels: &geometry.PanelSummary{
+		Panels: &section.PanelSummary{
 			Count: len(nodes) - 1, Spacing: spacing,
 			MaxRatio: p.Quality.MaxRatio, MaxTurnDeg: p.Quality.MaxTurnDeg,
 		},
-		Properties: &props.Properties,
+		Properties: &docProps,
 		Nodes:      nodes,
 	}
 	for _, c := range p.Clouds {
@@ -317,10 +319,10 @@ func contourDiagonal(c *geometry.Contour) float64 {
 
 // DroppedOf lists every input point that is not in the contour: merged
 // duplicates, outliers and stray points.
-func DroppedOf(rep *geometry.CleanReport) []geometry.Dropped {
-	out := []geometry.Dropped{}
+func DroppedOf(rep *geometry.CleanReport) []section.Dropped {
+	out := []section.Dropped{}
 	for _, m := range rep.Merged {
-		out = append(out, geometry.Dropped{File: m.Dropped.File, Line: m.Dropped.Line, Entity: m.Dropped.Entity,
+		out = append(out, section.Dropped{File: m.Dropped.File, Line: m.Dropped.Line, Entity: m.Dropped.Entity,
 			Reason: fmt.Sprintf("duplicate of %s (%.3g apart)", m.Kept, m.Distance)})
 	}
 	for _, d := range rep.Dropped {
@@ -331,7 +333,7 @@ func DroppedOf(rep *geometry.CleanReport) []geometry.Dropped {
 		if d.Sigmas > 0 {
 			reason = fmt.Sprintf("%s: %.3g off the local fit (%.1f robust sigmas)", d.Reason, d.Distance, d.Sigmas)
 		}
-		out = append(out, geometry.Dropped{File: d.Origin.File, Line: d.Origin.Line, Entity: d.Origin.Entity, Reason: reason})
+		out = append(out, section.Dropped{File: d.Origin.File, Line: d.Origin.Line, Entity: d.Origin.Entity, Reason: reason})
 	}
 	return out
 }
@@ -348,7 +350,7 @@ func (Chain) Prepare(ctx context.Context, in Input, s PrepSettings) (Prepared, e
 	if err != nil {
 		return Prepared{}, err
 	}
-	doc, err := geometry.EncodeSection(p.Section)
+	doc, err := section.Encode(p.Section)
 	if err != nil {
 		return Prepared{}, err
 	}
@@ -424,7 +426,7 @@ func (p *Preparation) WriteSummary(w io.Writer) {
 // WriteSectionReport writes what a section document records: fit, frame,
 // trailing edge, panels, properties and warnings, one topic a line. The
 // modes name how thickness and camber were measured ("" when unknown).
-func WriteSectionReport(w io.Writer, s *geometry.Section, thicknessMode, camberMode string) {
+func WriteSectionReport(w io.Writer, s *section.Section, thicknessMode, camberMode string) {
 	u := string(s.Units)
 	if f := s.Fit; f != nil && f.Method == geometry.FitInterpolate {
 		fmt.Fprintf(w, "  fit         interpolating spline through every kept point\n")

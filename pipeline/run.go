@@ -16,6 +16,7 @@ import (
 	"time"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/internal/atomicfile"
 	"github.com/foilwright/foilwright/plot"
 	"github.com/tidwall/gjson"
@@ -302,8 +303,8 @@ func callOf(st Stage) StageCall {
 // sectionResult is what one section produced.
 type sectionResult struct {
 	report  SectionReport
-	section *geometry.Section // the section made, when preparing succeeded
-	files   []FileHash        // inputs as read
+	section *section.Section // the section made, when preparing succeeded
+	files   []FileHash       // inputs as read
 	outputs map[string]string
 	timing  SectionTiming
 }
@@ -356,7 +357,7 @@ func runSection(ctx context.Context, pl *Plan, folder string, i int, calls []Sta
 		return fail("prepare: %v", err)
 	}
 	rep.Summary = prepared.Summary
-	sec, err := geometry.ReadSection(bytes.NewReader(prepared.Section), sp.Name+"/section.json")
+	sec, err := section.Read(bytes.NewReader(prepared.Section), sp.Name+"/section.json")
 	if err != nil {
 		return fail("prepare gave a bad section document: %v", err)
 	}

@@ -17,7 +17,7 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/internal/atomicfile"
 	"github.com/foilwright/foilwright/pipeline"
 	"github.com/foilwright/foilwright/plot"
@@ -92,7 +92,7 @@ func runAnalyze(ctx context.Context, stdin io.Reader, stdout, stderr io.Writer, 
 	if err != nil {
 		return err
 	}
-	sec, err := geometry.ReadSection(bytes.NewReader(data), name)
+	sec, err := section.Read(bytes.NewReader(data), name)
 	if err != nil {
 		return badInput(err)
 	}
@@ -305,7 +305,7 @@ func printTimings(w io.Writer, t map[string]time.Duration) {
 }
 
 // printCases prints the scalars and a table of the cases.
-func printCases(w io.Writer, name string, sec *geometry.Section, doc *stage.ResultDoc) error {
+func printCases(w io.Writer, name string, sec *section.Section, doc *stage.ResultDoc) error {
 	title := sec.Name
 	if title == "" {
 		title = name

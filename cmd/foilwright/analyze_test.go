@@ -10,6 +10,7 @@ import (
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/plugins/builtin"
 	"github.com/foilwright/foilwright/plugins/host"
 	"github.com/foilwright/foilwright/plugins/stage"
@@ -45,7 +46,7 @@ func writeSection(t *testing.T, dir, code string, perSurface int) string {
 	}
 	n.SharpTE = true
 	var b bytes.Buffer
-	if err := geometry.WriteSection(&b, &geometry.Section{Format: geometry.SectionFormat, Name: "naca" + code, Units: "chord", Nodes: n.Loop(perSurface)}); err != nil {
+	if err := section.Write(&b, &section.Section{Format: section.Format, Name: "naca" + code, Units: "chord", Nodes: n.Loop(perSurface)}); err != nil {
 		t.Fatal(err)
 	}
 	p := filepath.Join(dir, "naca"+code+".json")

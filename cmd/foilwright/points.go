@@ -9,6 +9,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/pipeline"
 	"github.com/foilwright/foilwright/plot"
 )
@@ -65,18 +66,18 @@ and reasons, loops found, flatness) and writes the ordered contour as CSV
 
 // contourDoc is the JSON form of a cleaned contour.
 type contourDoc struct {
-	Format   string             `json:"format"`
-	Units    geometry.Unit      `json:"units"`
-	Files    []string           `json:"files"`
-	SHA256   []string           `json:"sha256"`
-	Read     int                `json:"points_read"`
-	Flatness *flatnessDoc       `json:"flatness,omitempty"`
-	Merged   int                `json:"merged"`
-	Dropped  []geometry.Dropped `json:"dropped"`
-	Loops    []loopDoc          `json:"loops"`
-	Kept     bool               `json:"order_kept"`
-	Points   []geometry.Point   `json:"points"`
-	Origins  []originDoc        `json:"origins"`
+	Format   string            `json:"format"`
+	Units    geometry.Unit     `json:"units"`
+	Files    []string          `json:"files"`
+	SHA256   []string          `json:"sha256"`
+	Read     int               `json:"points_read"`
+	Flatness *flatnessDoc      `json:"flatness,omitempty"`
+	Merged   int               `json:"merged"`
+	Dropped  []section.Dropped `json:"dropped"`
+	Loops    []loopDoc         `json:"loops"`
+	Kept     bool              `json:"order_kept"`
+	Points   []geometry.Point  `json:"points"`
+	Origins  []originDoc       `json:"origins"`
 }
 
 type flatnessDoc struct {
@@ -133,7 +134,7 @@ func writePoints(stdout, stderr io.Writer, cl *pipeline.Cleaned, opts pointsOpti
 		if err != nil {
 			return err
 		}
-		b = append(geometry.CompactNumberArrays(b), '\n')
+		b = append(section.CompactNumberArrays(b), '\n')
 		if err := writeOutput(stdout, opts.out, func(w io.Writer) error { _, err := w.Write(b); return err }); err != nil {
 			return err
 		}

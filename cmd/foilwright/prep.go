@@ -7,6 +7,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/pipeline"
 	"github.com/foilwright/foilwright/plot"
 )
@@ -86,7 +87,7 @@ func writePrep(stdout, stderr io.Writer, p *pipeline.Preparation, opts prepOptio
 			return err
 		}
 	}
-	if err := writeOutput(stdout, opts.out, func(w io.Writer) error { return geometry.WriteSection(w, p.Section) }); err != nil {
+	if err := writeOutput(stdout, opts.out, func(w io.Writer) error { return section.Write(w, p.Section) }); err != nil {
 		return err
 	}
 	if opts.quiet {

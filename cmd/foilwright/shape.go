@@ -10,6 +10,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/plot"
 	"github.com/foilwright/foilwright/repanel"
 )
@@ -64,11 +65,11 @@ uses the variant that closes it.`,
 			if sharp {
 				kind, thick = "sharp", 0
 			}
-			s := &geometry.Section{
-				Format:       geometry.SectionFormat,
+			s := &section.Section{
+				Format:       section.Format,
 				Name:         "NACA " + foil.String(),
 				Units:        geometry.ChordUnit,
-				TrailingEdge: &geometry.TrailingEdge{Kind: kind, Thickness: thick, Action: "kept"},
+				TrailingEdge: &section.TrailingEdge{Kind: kind, Thickness: thick, Action: "kept"},
 				LEIndex:      &le,
 				Nodes:        nodes,
 			}
@@ -114,11 +115,11 @@ spaced in the circle angle, which clusters them at both edges.`,
 					le = i
 				}
 			}
-			s := &geometry.Section{
-				Format:       geometry.SectionFormat,
+			s := &section.Section{
+				Format:       section.Format,
 				Name:         fmt.Sprintf("Karman-Trefftz centre (%g, %g), TE angle %g deg", c.X, c.Y, teAngle),
 				Units:        geometry.ChordUnit,
-				TrailingEdge: &geometry.TrailingEdge{Kind: "sharp", Action: "kept"},
+				TrailingEdge: &section.TrailingEdge{Kind: "sharp", Action: "kept"},
 				LEIndex:      &le,
 				Nodes:        nodes,
 			}
@@ -150,7 +151,7 @@ func parsePair(s string) (geometry.Point, error) {
 
 // setProperties computes the properties of s from its nodes (through the
 // interpolating spline of the nodes) and returns the picture's data.
-func setProperties(s *geometry.Section) (plot.SectionData, error) {
+func setProperties(s *section.Section) (plot.SectionData, error) {
 	cv, sle, err := geometry.NodeCurve(s.Nodes)
 	if err != nil {
 		return plot.SectionData{}, err
@@ -159,7 +160,8 @@ func setProperties(s *geometry.Section) (plot.SectionData, error) {
 	if err != nil {
 		return plot.SectionData{}, err
 	}
-	s.Properties = &pr.Properties
+	props := section.Properties(pr.Properties)
+	s.Properties = &props
 	d := plot.SectionData{
 		Name: s.Name, Nodes: s.Nodes, LECentre: pr.LECenter, LERadius: pr.LERadius,
 		MaxThickness: geometry.Point{X: pr.ThicknessAt, Y: pr.Thickness},
@@ -174,9 +176,9 @@ func setProperties(s *geometry.Section) (plot.SectionData, error) {
 
 // setPanels records the panel count, spacing law and quality of s.Nodes,
 // and the quality warnings.
-func setPanels(s *geometry.Section, spacing string) {
+func setPanels(s *section.Section, spacing string) {
 	q := repanel.Measure(s.Nodes)
-	s.Panels = &geometry.PanelSummary{Count: len(s.Nodes) - 1, Spacing: spacing, MaxRatio: q.MaxRatio, MaxTurnDeg: q.MaxTurnDeg}
+	s.Panels = &section.PanelSummary{Count: len(s.Nodes) - 1, Spacing: spacing, MaxRatio: q.MaxRatio, MaxTurnDeg: q.MaxTurnDeg}
 	s.Warnings = append(s.Warnings, q.Warnings...)
 }
 
@@ -189,7 +191,7 @@ func checkPanels(n int) error {
 }
 
 // writeShape writes the section document and, if asked, the node listing.
-func writeShape(stdout io.Writer, opts *shapeOptions, s *geometry.Section) error {
+func writeShape(stdout io.Writer, opts *shapeOptions, s *section.Section) error {
 	if opts.plot != "" {
 		if _, err := plot.FormatOf(opts.plot); err != nil {
 			return badInputf("--plot %s: %v", opts.plot, err)
@@ -208,7 +210,7 @@ func writeShape(stdout io.Writer, opts *shapeOptions, s *geometry.Section) error
 			return err
 		}
 	}
-	if err := writeOutput(stdout, opts.out, func(w io.Writer) error { return geometry.WriteSection(w, s) }); err != nil {
+	if err := writeOutput(stdout, opts.out, func(w io.Writer) error { return section.Write(w, s) }); err != nil {
 		return err
 	}
 	if opts.nodes != "" {

@@ -7,6 +7,7 @@ import (
 	"time"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/internal/version"
 	"github.com/foilwright/foilwright/plugins/stage"
 )
@@ -42,7 +43,7 @@ var cpParam = stage.Param{
 // request is a checked request: parameters, section, angles.
 type request struct {
 	v         stage.Values
-	section   *geometry.Section
+	section   *section.Section
 	alphasDeg []float64
 	alphas    []float64 // radians
 }

@@ -26,6 +26,7 @@ import (
 	"github.com/hashicorp/go-plugin"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/plugins/stage"
 )
 
@@ -51,9 +52,9 @@ type Options struct {
 // equations (geometry.NACA4).
 func Section(perSurface int) []byte {
 	n := geometry.NACA4{Thickness: 0.12, SharpTE: true}
-	s := &geometry.Section{Format: geometry.SectionFormat, Name: "naca0012", Units: "chord", Nodes: n.Loop(perSurface)}
+	s := &section.Section{Format: section.Format, Name: "naca0012", Units: "chord", Nodes: n.Loop(perSurface)}
 	var b bytes.Buffer
-	if err := geometry.WriteSection(&b, s); err != nil {
+	if err := section.Write(&b, s); err != nil {
 		panic("stagetest: " + err.Error())
 	}
 	return b.Bytes()

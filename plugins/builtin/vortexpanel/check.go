@@ -6,10 +6,11 @@ import (
 	"math"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/section"
 )
 
 // MinNodes is the smallest number of nodes a section may have.
-const MinNodes = geometry.MinNodes
+const MinNodes = section.MinNodes
 
 // pkgName prefixes the messages of this package.
 const pkgName = "vortexpanel"
@@ -18,16 +19,16 @@ const pkgName = "vortexpanel"
 // Callers test them with errors.Is.
 var (
 	// ErrTooFewNodes means the section has fewer than MinNodes nodes.
-	ErrTooFewNodes = geometry.ErrTooFewNodes
+	ErrTooFewNodes = section.ErrTooFewNodes
 	// ErrNonFinite means a coordinate or an angle is NaN or infinite.
 	ErrNonFinite = geometry.ErrNonFinite
 	// ErrRepeatedNode means two consecutive nodes coincide (a zero-length panel).
-	ErrRepeatedNode = geometry.ErrRepeatedNode
+	ErrRepeatedNode = section.ErrRepeatedNode
 	// ErrCrossing means two panels of the contour cross or touch.
-	ErrCrossing = geometry.ErrCrossing
+	ErrCrossing = section.ErrCrossing
 	// ErrClockwise means the nodes run clockwise, against the node order of
 	// package geometry.
-	ErrClockwise = geometry.ErrClockwise
+	ErrClockwise = section.ErrClockwise
 	// ErrAlphaRange means an angle of attack is outside [−90°, 90°].
 	ErrAlphaRange = errors.New("angle of attack outside [-90°, 90°]")
 	// ErrIllConditioned means the influence matrix is too close to singular
@@ -40,7 +41,7 @@ var (
 // checkNodes validates a contour in node order (geometry.CheckNodes) and
 // reports whether its first and last node coincide (a sharp trailing edge).
 func checkNodes(nodes []geometry.Point) (sharp bool, err error) {
-	sharp, err = geometry.CheckNodes(nodes)
+	sharp, err = section.CheckNodes(nodes)
 	if err != nil {
 		return false, fmt.Errorf("%s: %w", pkgName, err)
 	}

@@ -1,4 +1,4 @@
-package geometry
+package section
 
 import (
 	"bytes"
@@ -6,31 +6,34 @@ import (
 	"errors"
 	"fmt"
 	"io"
+
+	"github.com/foilwright/foilwright/geometry"
 )
 
-// SectionFormat is the value of the "format" key of a section document.
-const SectionFormat = "foilwright.section/1"
+// Format is the value of the "format" key of a section document.
+const Format = "foilwright.section/1"
 
 // Section is the section document (format foilwright.section/1): the nodes of
-// a clean, normalised, repanelled section in the package node order, with the
-// record of how it was made and how it maps back to the part.
+// a clean, normalised, repanelled section in the node order of package
+// geometry, with the record of how it was made and how it maps back to the
+// part.
 //
 // A reader accepts any document with "format" and "nodes"; the other keys are
 // optional and may be added to, never renamed. Lengths are in chord units
 // except where a field says "input units".
 type Section struct {
-	Format       string        `json:"format"`
-	Name         string        `json:"name,omitempty"`
-	Units        Unit          `json:"units,omitempty"`
-	Source       *SourceInfo   `json:"source,omitempty"`
-	Frame        *Frame        `json:"frame,omitempty"`
-	Fit          *FitSummary   `json:"fit,omitempty"`
-	TrailingEdge *TrailingEdge `json:"trailing_edge,omitempty"`
-	LEIndex      *int          `json:"le_index,omitempty"`
-	Panels       *PanelSummary `json:"panels,omitempty"`
-	Properties   *Properties   `json:"properties,omitempty"`
-	Warnings     []string      `json:"warnings,omitempty"`
-	Nodes        []Point       `json:"nodes"`
+	Format       string           `json:"format"`
+	Name         string           `json:"name,omitempty"`
+	Units        geometry.Unit    `json:"units,omitempty"`
+	Source       *SourceInfo      `json:"source,omitempty"`
+	Frame        *Frame           `json:"frame,omitempty"`
+	Fit          *FitSummary      `json:"fit,omitempty"`
+	TrailingEdge *TrailingEdge    `json:"trailing_edge,omitempty"`
+	LEIndex      *int             `json:"le_index,omitempty"`
+	Panels       *PanelSummary    `json:"panels,omitempty"`
+	Properties   *Properties      `json:"properties,omitempty"`
+	Warnings     []string         `json:"warnings,omitempty"`
+	Nodes        []geometry.Point `json:"nodes"`
 }
 
 // SourceInfo records the files a section was made from and what was dropped.
@@ -50,20 +53,6 @@ type Dropped struct {
 	Reason string `json:"reason"`
 }
 
-// Frame maps the normalised section back to the part, in input units:
-// chord, twist (degrees, positive nose-up), the leading edge in input
-// coordinates, and whether the section was mirrored to bring it into the
-// normalised frame. Methods that apply it live beside the normalisation code.
-type Frame struct {
-	Chord    float64    `json:"chord"`
-	TwistDeg float64    `json:"twist_deg"`
-	LE       [2]float64 `json:"le"`
-	Mirrored bool       `json:"mirrored"`
-	// Plane is set when the section was cut from or fitted to 3D data: the
-	// section's 2D input coordinates (u, v) are Origin + u·U + v·V in space.
-	Plane *Plane `json:"plane,omitempty"`
-}
-
 // FitSummary reports how far the fitted curve departs from the kept input
 // points, in input units.
 type FitSummary struct {
@@ -75,6 +64,20 @@ type FitSummary struct {
 	// than RMS: the curve takes up some of the points' freedom); 0 for an
 	// interpolating fit.
 	NoiseEstimate float64 `json:"noise_estimate,omitempty"`
+}
+
+// Frame maps the normalised section back to the part, in input units:
+// chord, twist (degrees, positive nose-up), the leading edge in input
+// coordinates, and whether the section was mirrored to bring it into the
+// normalised frame.
+type Frame struct {
+	Chord    float64    `json:"chord"`
+	TwistDeg float64    `json:"twist_deg"`
+	LE       [2]float64 `json:"le"`
+	Mirrored bool       `json:"mirrored"`
+	// Plane is set when the section was cut from or fitted to 3D data: the
+	// section's 2D input coordinates (u, v) are Origin + u·U + v·V in space.
+	Plane *geometry.Plane `json:"plane,omitempty"`
 }
 
 // TrailingEdge reports the kind of trailing edge found and what was done to it.
@@ -110,38 +113,17 @@ type Properties struct {
 	Perimeter   float64    `json:"perimeter"`
 }
 
-// MarshalJSON writes p as [x, y].
-func (p Point) MarshalJSON() ([]byte, error) {
-	if !p.IsFinite() {
-		return nil, fmt.Errorf("geometry: cannot write non-finite point (%g, %g)", p.X, p.Y)
-	}
-	return json.Marshal([2]float64{p.X, p.Y})
-}
-
-// UnmarshalJSON reads p from [x, y].
-func (p *Point) UnmarshalJSON(b []byte) error {
-	var a []float64
-	if err := json.Unmarshal(b, &a); err != nil {
-		return err
-	}
-	if len(a) != 2 {
-		return fmt.Errorf("want [x, y], got %d number(s)", len(a))
-	}
-	p.X, p.Y = a[0], a[1]
-	return nil
-}
-
 // ErrNotSection means a document is not a section document.
 var ErrNotSection = errors.New("not a foilwright section document")
 
-// ReadSection decodes a section document from r. name is used in errors. It
-// accepts any document with a "format" of SectionFormat and "nodes"; it
+// Read decodes a section document from r. name is used in errors. It
+// accepts any document with a "format" of Format and "nodes"; it
 // returns an error wrapping ErrNotSection otherwise, and a *ParseError for
 // malformed JSON or non-finite nodes.
-func ReadSection(r io.Reader, name string) (*Section, error) {
+func Read(r io.Reader, name string) (*Section, error) {
 	data, err := io.ReadAll(r)
 	if err != nil {
-		return nil, &ParseError{File: name, Err: err}
+		return nil, &geometry.ParseError{File: name, Err: err}
 	}
 	var s Section
 	if err := json.Unmarshal(data, &s); err != nil {
@@ -154,27 +136,27 @@ func ReadSection(r io.Reader, name string) (*Section, error) {
 		if errors.As(err, &te) {
 			line = lineOf(data, te.Offset)
 		}
-		return nil, &ParseError{File: name, Line: line, Err: fmt.Errorf("%w: %v", ErrNotSection, err)}
+		return nil, &geometry.ParseError{File: name, Line: line, Err: fmt.Errorf("%w: %v", ErrNotSection, err)}
 	}
-	if s.Format != SectionFormat {
-		return nil, &ParseError{File: name, Err: fmt.Errorf("%w: format %q, want %q", ErrNotSection, s.Format, SectionFormat)}
+	if s.Format != Format {
+		return nil, &geometry.ParseError{File: name, Err: fmt.Errorf("%w: format %q, want %q", ErrNotSection, s.Format, Format)}
 	}
 	if s.Nodes == nil {
-		return nil, &ParseError{File: name, Err: fmt.Errorf("%w: no \"nodes\"", ErrNotSection)}
+		return nil, &geometry.ParseError{File: name, Err: fmt.Errorf("%w: no \"nodes\"", ErrNotSection)}
 	}
 	for i, p := range s.Nodes {
 		if !p.IsFinite() {
-			return nil, &ParseError{File: name, Err: fmt.Errorf("node %d: %w", i, ErrNonFinite)}
+			return nil, &geometry.ParseError{File: name, Err: fmt.Errorf("node %d: %w", i, geometry.ErrNonFinite)}
 		}
 	}
 	return &s, nil
 }
 
-// WriteSection encodes s to w as indented JSON followed by a newline, with
+// Write encodes s to w as indented JSON followed by a newline, with
 // one node "[x, y]" per line. The output is deterministic: the same section
 // gives the same bytes. It returns an error for non-finite nodes.
-func WriteSection(w io.Writer, s *Section) error {
-	b, err := EncodeSection(s)
+func Write(w io.Writer, s *Section) error {
+	b, err := Encode(s)
 	if err != nil {
 		return err
 	}
@@ -182,16 +164,16 @@ func WriteSection(w io.Writer, s *Section) error {
 	return err
 }
 
-// EncodeSection returns the bytes WriteSection writes. A section with an
-// empty Format gets SectionFormat.
-func EncodeSection(s *Section) ([]byte, error) {
+// Encode returns the bytes Write writes. A section with an
+// empty Format field gets Format.
+func Encode(s *Section) ([]byte, error) {
 	c := *s
 	if c.Format == "" {
-		c.Format = SectionFormat
+		c.Format = Format
 	}
 	for k, p := range c.Nodes {
 		if !p.IsFinite() {
-			return nil, fmt.Errorf("geometry: write section: node %d (%g, %g): %w", k, p.X, p.Y, ErrNonFinite)
+			return nil, fmt.Errorf("geometry: write section: node %d (%g, %g): %w", k, p.X, p.Y, geometry.ErrNonFinite)
 		}
 	}
 	b, err := json.MarshalIndent(&c, "", "  ")
@@ -228,7 +210,7 @@ func CompactNumberArrays(b []byte) []byte {
 			inString = true
 			out = append(out, ch)
 		case '[':
-			if j, ok := sectionNumberArray(b, i); ok {
+			if j, ok := numberArray(b, i); ok {
 				out = append(out, '[')
 				first := true
 				for _, f := range bytes.Split(b[i+1:j], []byte{','}) {
@@ -254,9 +236,9 @@ func CompactNumberArrays(b []byte) []byte {
 	return out
 }
 
-// sectionNumberArray reports whether the array opening at b[i] holds only
+// numberArray reports whether the array opening at b[i] holds only
 // numbers, and the index of its closing bracket.
-func sectionNumberArray(b []byte, i int) (int, bool) {
+func numberArray(b []byte, i int) (int, bool) {
 	for j := i + 1; j < len(b); j++ {
 		switch c := b[j]; {
 		case c == ']':

@@ -1,4 +1,4 @@
-package geometry
+package section
 
 import (
 	"bytes"
@@ -6,18 +6,20 @@ import (
 	"math"
 	"strings"
 	"testing"
+
+	"github.com/foilwright/foilwright/geometry"
 )
 
-func TestEncodeSection(t *testing.T) {
+func TestEncode(t *testing.T) {
 	le := 1
 	s := &Section{
 		Name:    "demo",
-		Units:   Millimetre,
+		Units:   geometry.Millimetre,
 		Frame:   &Frame{Chord: 152.4, TwistDeg: -7},
-		Nodes:   []Point{{1, 0}, {0, 0.1}, {0, 0}, {1e-21, -0.1}, {1, 0}},
+		Nodes:   []geometry.Point{{X: 1, Y: 0}, {X: 0, Y: 0.1}, {X: 0, Y: 0}, {X: 1e-21, Y: -0.1}, {X: 1, Y: 0}},
 		LEIndex: &le,
 	}
-	b, err := EncodeSection(s)
+	b, err := Encode(s)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -34,7 +36,7 @@ func TestEncodeSection(t *testing.T) {
 	if !strings.Contains(string(b), "    [1e-21, -0.1],\n") {
 		t.Errorf("node not written in shortest form:\n%s", b)
 	}
-	got, err := ReadSection(bytes.NewReader(b), "section.json")
+	got, err := Read(bytes.NewReader(b), "section.json")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -46,15 +48,15 @@ func TestEncodeSection(t *testing.T) {
 			t.Errorf("node %d: %v, want %v (exact round trip)", i, got.Nodes[i], s.Nodes[i])
 		}
 	}
-	b2, _ := EncodeSection(got)
+	b2, _ := Encode(got)
 	if !bytes.Equal(b, b2) {
 		t.Error("encoding is not deterministic")
 	}
-	empty, err := EncodeSection(&Section{Nodes: []Point{}})
+	empty, err := Encode(&Section{Nodes: []geometry.Point{}})
 	if err != nil || !strings.HasSuffix(string(empty), "\"nodes\": []\n}\n") {
 		t.Errorf("empty nodes: %q, %v", empty, err)
 	}
-	if _, err := EncodeSection(&Section{Nodes: []Point{{X: 1, Y: 2}, {X: math.NaN(), Y: 0}}}); !errors.Is(err, ErrNonFinite) {
+	if _, err := Encode(&Section{Nodes: []geometry.Point{{X: 1, Y: 2}, {X: math.NaN(), Y: 0}}}); !errors.Is(err, geometry.ErrNonFinite) {
 		t.Errorf("NaN node: err = %v, want ErrNonFinite", err)
 	}
 }

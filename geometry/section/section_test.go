@@ -1,4 +1,4 @@
-package geometry
+package section
 
 import (
 	"bytes"
@@ -8,41 +8,43 @@ import (
 	"regexp"
 	"strings"
 	"testing"
+
+	"github.com/foilwright/foilwright/geometry"
 )
 
-func TestSectionRoundTrip(t *testing.T) {
+func TestRoundTrip(t *testing.T) {
 	le := 40
 	s := &Section{
 		Name:    "NACA 0012",
-		Units:   ChordUnit,
+		Units:   geometry.ChordUnit,
 		LEIndex: &le,
 		Frame:   &Frame{Chord: 152.4, TwistDeg: 7, LE: [2]float64{37, -2}},
-		Nodes:   NACA4{Thickness: 0.12}.Loop(40),
+		Nodes:   geometry.NACA4{Thickness: 0.12}.Loop(40),
 	}
 	var buf bytes.Buffer
-	if err := WriteSection(&buf, s); err != nil {
+	if err := Write(&buf, s); err != nil {
 		t.Fatal(err)
 	}
 	out := buf.String()
 	if !regexp.MustCompile(`\n    \[1, 0\.00125\d*\],\n`).MatchString(out) || !strings.Contains(out, `"le": [37, -2]`) || !strings.HasSuffix(out, "]\n}\n") {
 		t.Errorf("nodes not written one per line:\n%s", out[:min(len(out), 400)])
 	}
-	got, err := ReadSection(strings.NewReader(out), "s.json")
+	got, err := Read(strings.NewReader(out), "s.json")
 	if err != nil {
 		t.Fatal(err)
 	}
-	s.Format = SectionFormat
+	s.Format = Format
 	if !reflect.DeepEqual(got, s) {
 		t.Errorf("round trip changed the section:\n got %+v\nwant %+v", got, s)
 	}
 	var again bytes.Buffer
-	WriteSection(&again, got)
+	Write(&again, got)
 	if again.String() != out {
 		t.Error("writing is not deterministic")
 	}
 }
 
-func TestReadSectionErrors(t *testing.T) {
+func TestReadErrors(t *testing.T) {
 	for _, tc := range []struct {
 		name, doc string
 		line      int
@@ -53,8 +55,8 @@ func TestReadSectionErrors(t *testing.T) {
 		{"bad node", `{"format": "foilwright.section/1", "nodes": [[1, 2, 3]]}`, 0},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
-			_, err := ReadSection(strings.NewReader(tc.doc), "s.json")
-			var pe *ParseError
+			_, err := Read(strings.NewReader(tc.doc), "s.json")
+			var pe *geometry.ParseError
 			if !errors.As(err, &pe) {
 				t.Fatalf("err = %v, want *ParseError", err)
 			}
@@ -63,7 +65,7 @@ func TestReadSectionErrors(t *testing.T) {
 			}
 		})
 	}
-	if err := WriteSection(&bytes.Buffer{}, &Section{Nodes: []Point{{math.NaN(), 0}}}); err == nil {
+	if err := Write(&bytes.Buffer{}, &Section{Nodes: []geometry.Point{{X: math.NaN(), Y: 0}}}); err == nil {
 		t.Error("NaN node written")
 	}
 }
