@@ -27,7 +27,7 @@ func (c *Curve) AreaIntegrals() AreaIntegrals {
 		g.Ixy += w * x * x * y * dy / 2
 	}
 	for i := 0; i < c.Pieces(); i++ {
-		h := c.h(i)
+		h := c.Span(i)
 		for k, t := range gl[0] {
 			x, dx, _ := curvePoly(c.xs[i], t*h)
 			y, dy, _ := curvePoly(c.ys[i], t*h)

@@ -145,7 +145,7 @@ func (lv *curveLeaves) add(u, l float64) {
 func (c *Curve) measure(lo, hi int) curveLeaves {
 	lv := curveLeaves{u: make([]float64, 0, 2*(hi-lo)+16), s: make([]float64, 0, 2*(hi-lo)+16)}
 	for i := lo; i < hi; i++ {
-		h := c.h(i)
+		h := c.Span(i)
 		lv.sum = 0
 		c.pl[i] = c.partialOn(i, 0, h, c.glOn(i, 0, h), 0, &lv)
 		c.leafAt[i+1] = int32(len(lv.u))
@@ -170,7 +170,7 @@ func (c *Curve) Closed() bool { return c.closed }
 // Length returns the arc length of c.
 func (c *Curve) Length() float64 { return c.ss[len(c.ss)-1] }
 
-func (c *Curve) h(i int) float64 { return c.ts[i+1] - c.ts[i] }
+func (c *Curve) Span(i int) float64 { return c.ts[i+1] - c.ts[i] }
 
 func (c *Curve) speed(i int, u float64) float64 {
 	return curveSpeed(&c.xs[i], &c.ys[i], u)
@@ -191,11 +191,11 @@ func curveSpeed(x, y *[4]float64, u float64) float64 {
 // rule agrees with the bisected rule, so the rule is as accurate on any part
 // of it.
 func (c *Curve) partial(i int, u float64) float64 {
-	if u >= c.h(i) {
-		if u == c.h(i) {
+	if u >= c.Span(i) {
+		if u == c.Span(i) {
 			return c.pl[i]
 		}
-		return c.pl[i] + c.glOn(i, c.h(i), u)
+		return c.pl[i] + c.glOn(i, c.Span(i), u)
 	}
 	if !(u > 0) {
 		return c.glOn(i, 0, u)
@@ -259,15 +259,15 @@ func (c *Curve) partialOn(i int, a, b, whole float64, depth int, lv *curveLeaves
 // curveMaxDepth bounds the bisection of partial.
 const curveMaxDepth = 20
 
-// locate returns the piece and local parameter at arc length s.
-func (c *Curve) locate(s float64) (int, float64) {
+// Locate returns the piece and local parameter at arc length s.
+func (c *Curve) Locate(s float64) (int, float64) {
 	L := c.Length()
 	switch {
 	case !(s > 0):
 		return 0, 0
 	case s >= L:
 		i := len(c.xs) - 1
-		return i, c.h(i)
+		return i, c.Span(i)
 	}
 	i := sort.SearchFloat64s(c.ss, s) - 1
 	if i < 0 {
@@ -277,7 +277,7 @@ func (c *Curve) locate(s float64) (int, float64) {
 		i = len(c.xs) - 1
 	}
 	target := s - c.ss[i]
-	h := c.h(i)
+	h := c.Span(i)
 	pl := c.ss[i+1] - c.ss[i]
 	if pl <= 0 {
 		return i, 0
@@ -318,7 +318,7 @@ func (c *Curve) locate(s float64) (int, float64) {
 // arc returns the arc length at piece i, local parameter u.
 func (c *Curve) arc(i int, u float64) float64 { return c.ss[i] + c.partial(i, u) }
 
-func (c *Curve) eval(i int, u float64) (p, d1, d2 Point) {
+func (c *Curve) Eval(i int, u float64) (p, d1, d2 Point) {
 	x, dx, ddx := curvePoly(c.xs[i], u)
 	y, dy, ddy := curvePoly(c.ys[i], u)
 	return Point{x, y}, Point{dx, dy}, Point{ddx, ddy}
@@ -326,16 +326,16 @@ func (c *Curve) eval(i int, u float64) (p, d1, d2 Point) {
 
 // At returns the point at arc length s.
 func (c *Curve) At(s float64) Point {
-	i, u := c.locate(s)
-	p, _, _ := c.eval(i, u)
+	i, u := c.Locate(s)
+	p, _, _ := c.Eval(i, u)
 	return p
 }
 
 // Tangent returns the unit tangent (direction of increasing s) at arc
 // length s.
 func (c *Curve) Tangent(s float64) Point {
-	i, u := c.locate(s)
-	_, d, _ := c.eval(i, u)
+	i, u := c.Locate(s)
+	_, d, _ := c.Eval(i, u)
 	return d.Scale(1 / d.Norm())
 }
 
@@ -343,8 +343,8 @@ func (c *Curve) Tangent(s float64) Point {
 // respect to arc length at s: the unit tangent T and κ·N, where N is T
 // turned counter-clockwise and κ the signed curvature.
 func (c *Curve) Derivatives(s float64) (d1, d2 Point) {
-	i, u := c.locate(s)
-	_, p1, _ := c.eval(i, u)
+	i, u := c.Locate(s)
+	_, p1, _ := c.Eval(i, u)
 	t := p1.Scale(1 / p1.Norm())
 	k := c.curvatureAt(i, u)
 	return t, Point{-t.Y, t.X}.Scale(k)
@@ -360,14 +360,26 @@ func (c *Curve) Normal(s float64) Point {
 // Curvature returns the signed curvature dθ/ds at arc length s, positive
 // where c turns counter-clockwise.
 func (c *Curve) Curvature(s float64) float64 {
-	i, u := c.locate(s)
+	i, u := c.Locate(s)
 	return c.curvatureAt(i, u)
 }
 
 func (c *Curve) curvatureAt(i int, u float64) float64 {
-	_, d1, d2 := c.eval(i, u)
+	_, d1, d2 := c.Eval(i, u)
 	sp := d1.Norm()
 	return d1.Cross(d2) / (sp * sp * sp)
+}
+
+// PieceStart returns the arc length at the start of piece i, for
+// 0 ≤ i ≤ Pieces() (PieceStart(Pieces()) is Length()).
+func (c *Curve) PieceStart(i int) float64 { return c.ss[i] }
+
+// WithClosed returns c marked as closed or not: a curve that ends where it
+// starts is closed. It shares c's pieces and tables.
+func (c *Curve) WithClosed(closed bool) *Curve {
+	d := *c
+	d.closed = closed
+	return &d
 }
 
 // Start returns the first point of c.
@@ -376,7 +388,7 @@ func (c *Curve) Start() Point { return Point{c.xs[0][0], c.ys[0][0]} }
 // End returns the last point of c.
 func (c *Curve) End() Point {
 	i := len(c.xs) - 1
-	p, _, _ := c.eval(i, c.h(i))
+	p, _, _ := c.Eval(i, c.Span(i))
 	return p
 }
 
@@ -389,39 +401,39 @@ func (c *Curve) Project(p Point) (s, dist float64) {
 	bi, bu, bd := 0, 0.0, math.Inf(1)
 	for i := range c.xs {
 		for _, f := range [...]float64{0, 0.5} {
-			u := f * c.h(i)
-			q, _, _ := c.eval(i, u)
+			u := f * c.Span(i)
+			q, _, _ := c.Eval(i, u)
 			if d := q.Dist(p); d < bd {
 				bi, bu, bd = i, u, d
 			}
 		}
 	}
 	if e := c.End(); e.Dist(p) < bd {
-		bi, bu, bd = np-1, c.h(np-1), e.Dist(p)
+		bi, bu, bd = np-1, c.Span(np-1), e.Dist(p)
 	}
-	starts := [][2]float64{{float64(bi), bu}, {float64(bi), 0}, {float64(bi), c.h(bi)}}
+	starts := [][2]float64{{float64(bi), bu}, {float64(bi), 0}, {float64(bi), c.Span(bi)}}
 	if bi > 0 {
-		starts = append(starts, [2]float64{float64(bi - 1), c.h(bi-1) / 2})
+		starts = append(starts, [2]float64{float64(bi - 1), c.Span(bi-1) / 2})
 	}
 	if bi < np-1 {
-		starts = append(starts, [2]float64{float64(bi + 1), c.h(bi+1) / 2})
+		starts = append(starts, [2]float64{float64(bi + 1), c.Span(bi+1) / 2})
 	}
 	fi, fu, fd := bi, bu, bd
 	for _, st := range starts {
-		if i, u, d := c.projectNear(p, int(st[0]), st[1]); d < fd {
+		if i, u, d := c.ProjectFrom(p, int(st[0]), st[1]); d < fd {
 			fi, fu, fd = i, u, d
 		}
 	}
 	return c.arc(fi, fu), fd
 }
 
-// projectNear finds a local minimum of |C − p| starting at piece i, local
+// ProjectFrom finds a local minimum of |C − p| starting at piece i, local
 // parameter u, moving across pieces as needed. It returns the piece, local
 // parameter and distance.
-func (c *Curve) projectNear(p Point, i int, u float64) (int, float64, float64) {
+func (c *Curve) ProjectFrom(p Point, i int, u float64) (int, float64, float64) {
 	np := len(c.xs)
 	for range 40 {
-		q, d1, d2 := c.eval(i, u)
+		q, d1, d2 := c.Eval(i, u)
 		r := q.Sub(p)
 		f := r.Dot(d1)
 		fp := d1.Dot(d1) + r.Dot(d2)
@@ -429,7 +441,7 @@ func (c *Curve) projectNear(p Point, i int, u float64) (int, float64, float64) {
 			fp = d1.Dot(d1)
 		}
 		step := -f / fp
-		h := c.h(i)
+		h := c.Span(i)
 		un := u + step
 		switch {
 		case un < 0:
@@ -439,7 +451,7 @@ func (c *Curve) projectNear(p Point, i int, u float64) (int, float64, float64) {
 				} else {
 					i--
 				}
-				u = c.h(i)
+				u = c.Span(i)
 				if step > -1e-300 {
 					break
 				}
@@ -464,7 +476,7 @@ func (c *Curve) projectNear(p Point, i int, u float64) (int, float64, float64) {
 			break
 		}
 	}
-	q, _, _ := c.eval(i, u)
+	q, _, _ := c.Eval(i, u)
 	return i, u, q.Dist(p)
 }
 
@@ -473,8 +485,8 @@ func (c *Curve) projectNear(p Point, i int, u float64) (int, float64, float64) {
 // c there: positive outside a counter-clockwise loop (on the side of the
 // outward normal).
 func (c *Curve) residual(p Point, i int, u float64) (s, d float64) {
-	fi, fu, dist := c.projectNear(p, i, u)
-	q, d1, _ := c.eval(fi, fu)
+	fi, fu, dist := c.ProjectFrom(p, i, u)
+	q, d1, _ := c.Eval(fi, fu)
 	n := Point{d1.Y, -d1.X}
 	sign := 1.0
 	if p.Sub(q).Dot(n) < 0 {
@@ -532,7 +544,7 @@ func (c *Curve) Transform(m [2][2]float64, b Point) *Curve {
 			ls[k] = fs * c.leafS[k]
 		}
 		out := curveWithTables(ts, xs, ys, c.closed, pl, append([]int32(nil), c.leafAt...), lu, ls)
-		out.fixEnds(func(i int) float64 { return fu * c.h(i) })
+		out.fixEnds(func(i int) float64 { return fu * c.Span(i) })
 		return out
 	}
 	return curveNew(ts, xs, ys, c.closed)
@@ -546,7 +558,7 @@ func (c *Curve) Transform(m [2][2]float64, b Point) *Curve {
 func (c *Curve) fixEnds(want func(int) float64) {
 	changed := false
 	for i := range c.pl {
-		h, w := c.h(i), want(i)
+		h, w := c.Span(i), want(i)
 		if h == w {
 			continue
 		}
@@ -590,7 +602,7 @@ func (c *Curve) Reverse() *Curve {
 	leafS := make([]float64, 0, len(c.leafS))
 	for j := 0; j < np; j++ {
 		i := np - 1 - j
-		h := c.h(i)
+		h := c.Span(i)
 		xs[j] = curveFlip(c.xs[i], h)
 		ys[j] = curveFlip(c.ys[i], h)
 		ts[j+1] = ts[j] + h
@@ -605,7 +617,7 @@ func (c *Curve) Reverse() *Curve {
 		leafAt[j+1] = int32(len(leafU))
 	}
 	out := curveWithTables(ts, xs, ys, c.closed, pl, leafAt, leafU, leafS)
-	out.fixEnds(func(j int) float64 { return c.h(np - 1 - j) })
+	out.fixEnds(func(j int) float64 { return c.Span(np - 1 - j) })
 	return out
 }
 
@@ -646,7 +658,7 @@ func (b *curveBuilder) add(x, y [4]float64, h float64) {
 
 // addPiece adds the part [u0, u1] of piece i of c.
 func (b *curveBuilder) addPiece(c *Curve, i int, u0, u1 float64) {
-	if u1-u0 <= 1e-15*c.h(i) {
+	if u1-u0 <= 1e-15*c.Span(i) {
 		return
 	}
 	b.add(curveShift(c.xs[i], u0), curveShift(c.ys[i], u0), u1-u0)
@@ -670,8 +682,8 @@ func (b *curveBuilder) curve(closed bool) *Curve { return curveNew(b.ts, b.xs, b
 // unless s0 < s1.
 func (c *Curve) Sub(s0, s1 float64) *Curve {
 	var b curveBuilder
-	i0, u0 := c.locate(s0)
-	i1, u1 := c.locate(s1)
+	i0, u0 := c.Locate(s0)
+	i1, u1 := c.Locate(s1)
 	c.subTo(&b, i0, u0, i1, u1)
 	return b.curve(c.closed && s0 == s1)
 }
@@ -685,19 +697,19 @@ func (c *Curve) subTo(b *curveBuilder, i0 int, u0 float64, i1 int, u1 float64) {
 	if !c.closed && (i1 < i0 || (i1 == i0 && u1 <= u0)) {
 		panic("geometry: Sub of an open curve needs s0 < s1")
 	}
-	b.addPiece(c, i0, u0, c.h(i0))
+	b.addPiece(c, i0, u0, c.Span(i0))
 	for i := (i0 + 1) % np; i != i1; i = (i + 1) % np {
-		b.addPiece(c, i, 0, c.h(i))
+		b.addPiece(c, i, 0, c.Span(i))
 	}
 	b.addPiece(c, i1, 0, u1)
 }
 
-// curveInterpolate returns the interpolating cubic spline through pts with
+// Interpolate returns the interpolating cubic spline through pts with
 // a chord-length parameter: periodic when closed (pts holds each point once,
 // the last joins the first), natural at both ends otherwise. It panics if
 // fewer than splineMinKnots points are given; coincident neighbours are
 // skipped.
-func curveInterpolate(pts []Point, closed bool) *Curve {
+func Interpolate(pts []Point, closed bool) *Curve {
 	keep := []Point{pts[0]}
 	for _, p := range pts[1:] {
 		if p.Dist(keep[len(keep)-1]) > 0 {

@@ -16,7 +16,7 @@ func curveTablesRough() *Curve {
 		t := 2 * math.Pi * (float64(i) + 0.4*rng.Float64()) / float64(len(pts))
 		pts[i] = Point{100 * math.Cos(t), 12 * math.Sin(t)}.Add(Point{0.5 * rng.NormFloat64(), 0.5 * rng.NormFloat64()})
 	}
-	return curveInterpolate(pts, true)
+	return Interpolate(pts, true)
 }
 
 // curveTablesRef is the arc length of piece i from 0 to u by a composite
@@ -41,7 +41,7 @@ func TestCurvePartialMatchesFineRule(t *testing.T) {
 			deep++
 		}
 		for _, f := range []float64{rng.Float64(), 0.5, 1} {
-			u := f * c.h(i)
+			u := f * c.Span(i)
 			got, want := c.partial(i, u), curveTablesRef(c, i, u)
 			if math.Abs(got-want) > 1e-13*c.pl[i] {
 				t.Fatalf("piece %d, u = %g h: partial %.17g, fine rule %.17g", i, f, got, want)
@@ -70,7 +70,7 @@ func TestCurveCarriedTablesMatchRemeasure(t *testing.T) {
 			if math.Abs(cv.pl[i]-fresh.pl[i]) > 1e-13*fresh.pl[i] {
 				t.Errorf("%s: piece %d length %.17g, measured again %.17g", name, i, cv.pl[i], fresh.pl[i])
 			}
-			u := 0.37 * cv.h(i)
+			u := 0.37 * cv.Span(i)
 			if a, b := cv.partial(i, u), fresh.partial(i, u); math.Abs(a-b) > 1e-13*fresh.pl[i] {
 				t.Errorf("%s: piece %d partial %.17g, measured again %.17g", name, i, a, b)
 			}

@@ -19,7 +19,7 @@ func TestCurveCircle(t *testing.T) {
 		a := 2 * math.Pi * float64(i) / 64
 		pts = append(pts, center.Add(Point{R * math.Cos(a), R * math.Sin(a)}))
 	}
-	c := curveInterpolate(pts, true)
+	c := Interpolate(pts, true)
 	if !c.Closed() {
 		t.Fatal("not closed")
 	}
@@ -62,7 +62,7 @@ func TestCurveOperations(t *testing.T) {
 	// identities, so to rounding error).
 	const tol = 1e-9
 	n, _ := ParseNACA4("2412")
-	c := curveInterpolate(fitTestLoop(n, 40), false)
+	c := Interpolate(fitTestLoop(n, 40), false)
 	L := c.Length()
 	r := c.Reverse()
 	if math.Abs(r.Length()-L) > tol {
@@ -110,7 +110,7 @@ func TestCurveDerivatives(t *testing.T) {
 		a := 2 * math.Pi * float64(i) / 80
 		pts = append(pts, Point{R * math.Cos(a), R * math.Sin(a)})
 	}
-	c := curveInterpolate(pts, true)
+	c := Interpolate(pts, true)
 	for k := range 10 {
 		s := c.Length() * (float64(k) + 0.3) / 10
 		d1, d2 := c.Derivatives(s)

@@ -55,9 +55,9 @@ const (
 	EdgeMirrorCentroid = 1e-3
 )
 
-// edgeCornerRad is the tangent turn (radians, 10°) at the start of a closed
+// CornerTurn is the tangent turn (radians, 10°) at the start of a closed
 // curve that makes it a corner rather than a smooth, rounded edge.
-const edgeCornerRad = 10 * math.Pi / 180
+const CornerTurn = 10 * math.Pi / 180
 
 // ErrNoLeadingEdge means the body has no distinct far point and trailing
 // edge (a circle, a square), so the leading edge must be given.
@@ -107,8 +107,8 @@ func edgeFarthest(cv *Curve, p Point, s0, s1 float64) (float64, float64) {
 	step := L / float64(4*cv.Pieces())
 	for i := 0; i < cv.Pieces(); i++ {
 		for _, f := range [...]float64{0, 0.25, 0.5, 0.75} {
-			u := f * cv.h(i)
-			q, _, _ := cv.eval(i, u)
+			u := f * cv.Span(i)
+			q, _, _ := cv.Eval(i, u)
 			var s float64
 			if f == 0 {
 				s = cv.ss[i]
@@ -165,7 +165,7 @@ type edgeFind struct {
 	width  float64 // width across the chord line (input units)
 	cosGap float64 // |cos| of the angle between the base and the chord line
 	// round describes a rounded end (valid when roundOK).
-	round   roundedEnd
+	round   RoundedEnd
 	roundOK bool
 }
 
@@ -183,7 +183,7 @@ func edgeLocate(cv *Curve, leAt *Point) (*edgeFind, error) {
 	// A closed curve with a corner at its start (a normalised sharp
 	// section) is treated like an open one whose ends meet.
 	ta, tb := cv.Tangent(L), cv.Tangent(0)
-	cornered := math.Abs(math.Atan2(ta.Cross(tb), ta.Dot(tb))) > edgeCornerRad
+	cornered := math.Abs(math.Atan2(ta.Cross(tb), ta.Dot(tb))) > CornerTurn
 	if cv.closed && !cornered {
 		e.kind = TERounded
 		e.te = cv.Start()
@@ -192,7 +192,7 @@ func edgeLocate(cv *Curve, leAt *Point) (*edgeFind, error) {
 			e.sTip, _ = edgeFarthest(cv, e.le, 0.75*L, 0.25*L)
 			e.te = cv.At(e.sTip)
 		}
-		e.round, e.roundOK = roundedAnalyse(cv, e.sTip, e.le.Dist(e.te))
+		e.round, e.roundOK = AnalyseRounded(cv, e.sTip, e.le.Dist(e.te))
 		if e.roundOK {
 			// The farthest curve point of a smooth end slides along it
 			// with the slightest wiggle (a radial error δ moves it by
@@ -205,7 +205,7 @@ func edgeLocate(cv *Curve, leAt *Point) (*edgeFind, error) {
 				if s, _ := cv.Project(q); cv.At(s).Dist(e.te) < 2*r {
 					e.sTip, e.te = s, cv.At(s)
 					leFrom(e.te)
-					if r2, ok := roundedAnalyse(cv, e.sTip, e.le.Dist(e.te)); ok {
+					if r2, ok := AnalyseRounded(cv, e.sTip, e.le.Dist(e.te)); ok {
 						e.round = r2
 					}
 				}
@@ -233,7 +233,7 @@ func edgeLocate(cv *Curve, leAt *Point) (*edgeFind, error) {
 	lo, hi := math.Inf(1), math.Inf(-1)
 	for i := 0; i < cv.Pieces(); i++ {
 		for _, f := range [...]float64{0, 0.5} {
-			q, _, _ := cv.eval(i, f*cv.h(i))
+			q, _, _ := cv.Eval(i, f*cv.Span(i))
 			v := q.Sub(e.le).Dot(nrm)
 			lo, hi = math.Min(lo, v), math.Max(hi, v)
 		}
@@ -281,7 +281,7 @@ func edgeTreat(cv *Curve, e *edgeFind, opts EdgeOptions, warn func(string)) (*Cu
 		switch mode {
 		case TEKeep:
 			if e.roundOK {
-				msg := fmt.Sprintf("trailing edge is rounded (radius %.3g chord, %.3g chord thick where the rounding starts) and was kept", e.round.radius/e.chord, e.round.thickness/e.chord)
+				msg := fmt.Sprintf("trailing edge is rounded (radius %.3g chord, %.3g chord thick where the rounding starts) and was kept", e.round.radius/e.chord, e.round.Thickness/e.chord)
 				if e.round.sharpValid {
 					msg += fmt.Sprintf("; sharpen would extend the surfaces to a point %.3g chord behind the tip", e.round.sharp.Dist(e.te)/e.chord)
 				}
@@ -322,11 +322,11 @@ func edgeSnap(cv *Curve) (*Curve, float64) {
 	xs := append([][4]float64(nil), cv.xs...)
 	ys := append([][4]float64(nil), cv.ys...)
 	// Add δ(1 − u/h)³ to the first piece and δ(u/h)³ to the last.
-	h0 := cv.h(0)
+	h0 := cv.Span(0)
 	xs[0] = curveAddCube(xs[0], d0.X, h0, true)
 	ys[0] = curveAddCube(ys[0], d0.Y, h0, true)
 	k := len(xs) - 1
-	hk := cv.h(k)
+	hk := cv.Span(k)
 	xs[k] = curveAddCube(xs[k], d1.X, hk, false)
 	ys[k] = curveAddCube(ys[k], d1.Y, hk, false)
 	return curveNew(append([]float64(nil), cv.ts...), xs, ys, true), math.Max(d0.Norm(), d1.Norm())
@@ -372,22 +372,22 @@ func edgeClose(cv *Curve, e *edgeFind, blend float64) (*Curve, float64) {
 	}
 	var pts []Point
 	for i := 0; i < cv.Pieces(); i++ {
-		h := cv.h(i)
-		p0, _, _ := cv.eval(i, 0)
-		p1, _, _ := cv.eval(i, h)
+		h := cv.Span(i)
+		p0, _, _ := cv.Eval(i, 0)
+		p1, _, _ := cv.Eval(i, h)
 		sub := 1
 		if xi(p0) > x0-0.01 || xi(p1) > x0-0.01 {
 			sub = 8
 		}
 		for k := 0; k < sub; k++ {
 			uu := h * float64(k) / float64(sub)
-			q, _, _ := cv.eval(i, uu)
+			q, _, _ := cv.Eval(i, uu)
 			pts = append(pts, shift(q, cv.ss[i] < e.sLE))
 		}
 	}
 	pts = append(pts, e.te)
 	pts[0] = e.te
-	out := curveInterpolate(pts, false)
+	out := Interpolate(pts, false)
 	out.closed = true
 	return out, e.gap / 2
 }
@@ -420,7 +420,7 @@ func edgeExtend(cv *Curve, e *edgeFind) (*Curve, string, float64, error) {
 	}
 	var b curveBuilder
 	b.addLine(pt, u)
-	cv.subTo(&b, 0, 0, cv.Pieces()-1, cv.h(cv.Pieces()-1))
+	cv.subTo(&b, 0, 0, cv.Pieces()-1, cv.Span(cv.Pieces()-1))
 	b.addLine(l, pt)
 	return b.curve(true), TESharpened, pt.Dist(e.te), nil
 }
@@ -439,8 +439,8 @@ func edgeSharpenRounded(cv *Curve, e *edgeFind) (*Curve, string, float64, error)
 	}
 	var b curveBuilder
 	b.addLine(r.sharp, r.pu)
-	i0, u0 := cv.locate(r.su)
-	i1, u1 := cv.locate(r.sl)
+	i0, u0 := cv.Locate(r.su)
+	i1, u1 := cv.Locate(r.sl)
 	cv.subTo(&b, i0, u0, i1, u1)
 	b.addLine(r.pl, r.sharp)
 	return b.curve(true), TESharpened, r.sharp.Dist(e.te), nil

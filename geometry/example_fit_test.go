@@ -5,6 +5,7 @@ import (
 	"math"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/props"
 )
 
 // A NACA 2412 with the open Report 824 trailing edge, placed at 150 mm
@@ -28,7 +29,7 @@ func ExampleNormalize() {
 	if err != nil {
 		panic(err)
 	}
-	sp, _, err := geometry.ComputeProperties(nz.Path, nz.SLE, geometry.PropertyOptions{})
+	sp, _, err := props.Compute(nz.Path, nz.SLE, props.Options{})
 	if err != nil {
 		panic(err)
 	}

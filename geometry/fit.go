@@ -328,7 +328,7 @@ func fitRoundedEnd(pts []Point, turn []float64, kb, kf []int, top, w, k int, sig
 	for j := lo; j <= hi; j++ {
 		run = append(run, at(j-w))
 	}
-	c, r, rms, ok := roundedCircle(run)
+	c, r, rms, ok := FitCircle(run)
 	if !ok || rms > math.Max(fitRoundFit*sigma, fitRoundRel*r) {
 		return false
 	}
@@ -561,7 +561,7 @@ func Fit(c *Contour, opts FitOptions) (*Curve, *FitReport, error) {
 // of the last piece for the last knot of an open curve).
 func fitKnotU(cv *Curve, j int) float64 {
 	if j >= cv.Pieces() {
-		return cv.h(cv.Pieces() - 1)
+		return cv.Span(cv.Pieces() - 1)
 	}
 	return 0
 }

@@ -166,7 +166,7 @@ func Normalize(cv *Curve, opts EdgeOptions) (*Normalized, error) {
 	case e.kind == TERounded && action == TEKept && e.roundOK:
 		// The thickness where the rounding starts, in units of the chord
 		// from the leading edge to the tip.
-		out.TE.Thickness = e.round.thickness / e.chord
+		out.TE.Thickness = e.round.Thickness / e.chord
 	}
 	// Trailing-edge point and leading edge of the treated curve.
 	te := e.te

@@ -260,7 +260,7 @@ func TestNormalizeIdempotent(t *testing.T) {
 	// twist, leading edge at the origin (exact by the frame's definition).
 	const tol = 1e-7
 	for _, sharp := range []bool{false, true} {
-		nz, _ := propTestSection(t, "2412", sharp, 0.02, EdgeOptions{})
+		nz, _ := frameTestSection(t, "2412", sharp, 0.02, EdgeOptions{})
 		again, err := Normalize(nz.Path.(*Curve), EdgeOptions{Mirror: MirrorNo})
 		if err != nil {
 			t.Fatal(err)
@@ -301,4 +301,32 @@ func TestNormalizeNACA4Loop(t *testing.T) {
 	if d := fitTestMaxDist(nz.Path.(*Curve).Samples(4000), dense); d > 2e-5 {
 		t.Errorf("normalised curve departs %.2g chord from the analytic contour", d)
 	}
+}
+
+// frameTestSection fits and normalises a NACA 4-digit contour (NACA Report
+// 824 equations) placed with 152.4 mm chord, 7° rotation, a shift and
+// 0.02 mm noise (fixed seed), or noise-free when noise is 0.
+func frameTestSection(t *testing.T, code string, sharp bool, noise float64, opts EdgeOptions) (*Normalized, NACA4) {
+	t.Helper()
+	n, err := ParseNACA4(code)
+	if err != nil {
+		t.Fatal(err)
+	}
+	n.SharpTE = sharp
+	part := fitTestPart{chord: 152.4, rotDeg: 7, shift: Point{37, -12}, noise: noise, seed: 42}
+	c := fitTestContour(fitTestLoop(n, 150), part)
+	fo := FitOptions{Noise: noise, Exact: noise == 0}
+	cv, _, err := Fit(c, fo)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if opts.LEAt != nil {
+		p := part.toPart(*opts.LEAt)
+		opts.LEAt = &p
+	}
+	nz, err := Normalize(cv, opts)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return nz, n
 }

@@ -41,6 +41,9 @@ func (p Point) IsFinite() bool {
 	return !math.IsNaN(p.X) && !math.IsInf(p.X, 0) && !math.IsNaN(p.Y) && !math.IsInf(p.Y, 0)
 }
 
+// Turn returns the signed angle (radians) from direction a to b.
+func Turn(a, b Point) float64 { return math.Atan2(a.Cross(b), a.Dot(b)) }
+
 // Vec3 is a point or vector in space.
 type Vec3 struct{ X, Y, Z float64 }
 

@@ -17,18 +17,18 @@ const (
 	roundedMinSpan = 0.08 // ... but at least this
 )
 
-// roundedEnd describes the rounded end of a closed curve: where the
+// RoundedEnd describes the rounded end of a closed curve: where the
 // rounding gives way to the surfaces, and the straight lines that continue
 // the surfaces just ahead of it.
-type roundedEnd struct {
+type RoundedEnd struct {
 	eu, el     float64 // arc from the tip to the end of the rounding, upper and lower side
 	su, sl     float64 // arc lengths on the curve where the surface lines start (near ends of their fits)
 	pu, pl     Point   // curve points at su and sl
 	du, dl     Point   // unit directions of the surface lines, pointing aft (towards the tip)
 	radius     float64 // radius of the circle fitted to the rounding ...
 	center     Point   // ... and its centre
-	thickness  float64 // distance between the ends of the rounding
-	angle      float64 // included angle between the surface lines, radians
+	Thickness  float64 // distance between the ends of the rounding
+	Angle      float64 // included angle between the surface lines, radians
 	sharp      Point   // intersection of the surface lines
 	sharpValid bool    // the lines meet behind the edge
 }
@@ -91,10 +91,7 @@ func roundedLine(cv *Curve, a, b float64) Point {
 	return t.Scale(1 / t.Norm())
 }
 
-// roundedTurn returns the signed angle (radians) from direction a to b.
-func roundedTurn(a, b Point) float64 { return math.Atan2(a.Cross(b), a.Dot(b)) }
-
-// roundedAnalyse finds where the rounded end of the closed,
+// AnalyseRounded finds where the rounded end of the closed,
 // counter-clockwise curve cv around the tip at arc length sTip gives way to
 // the surfaces, for a section of the given chord (cv's units).
 //
@@ -113,10 +110,10 @@ func roundedTurn(a, b Point) float64 { return math.Atan2(a.Cross(b), a.Dot(b)) }
 // the radius that of the circle fitted (Kåsa, then geometric) to the curve
 // between them. It returns false when the curve does not turn the right way
 // round the tip.
-func roundedAnalyse(cv *Curve, sTip, chord float64) (roundedEnd, bool) {
+func AnalyseRounded(cv *Curve, sTip, chord float64) (RoundedEnd, bool) {
 	L := cv.Length()
 	wrap := func(s float64) float64 { return math.Mod(math.Mod(s, L)+L, L) }
-	var e roundedEnd
+	var e RoundedEnd
 	a, b := roundedFarFrom*chord, roundedFarTo*chord
 	if !(b < L/4) {
 		return e, false
@@ -126,7 +123,7 @@ func roundedAnalyse(cv *Curve, sTip, chord float64) (roundedEnd, bool) {
 	fl := roundedLine(cv, sTip-a, sTip-b) // aft along the lower surface
 	// Travelling counter-clockwise, the tangent turns from fl through t0 to
 	// −fu, left (positive) all the way for a convex end.
-	phiU, phiL := roundedTurn(t0, fu.Scale(-1)), roundedTurn(fl, t0)
+	phiU, phiL := Turn(t0, fu.Scale(-1)), Turn(fl, t0)
 	if !(phiU > 0 && phiL > 0) {
 		return e, false
 	}
@@ -136,9 +133,9 @@ func roundedAnalyse(cv *Curve, sTip, chord float64) (roundedEnd, bool) {
 			t := cv.Tangent(wrap(sTip + sign*d))
 			var turned float64
 			if sign > 0 {
-				turned = roundedTurn(t0, t)
+				turned = Turn(t0, t)
 			} else {
-				turned = roundedTurn(t, t0)
+				turned = Turn(t, t0)
 			}
 			if turned >= roundedDone*phi {
 				return d, true
@@ -165,17 +162,17 @@ func roundedAnalyse(cv *Curve, sTip, chord float64) (roundedEnd, bool) {
 	e.pu, e.pl = cv.At(e.su), cv.At(e.sl)
 	e.du = roundedLine(cv, sTip+fromU, sTip+toU)
 	e.dl = roundedLine(cv, sTip-fromL, sTip-toL)
-	e.angle = math.Acos(math.Max(-1, math.Min(1, e.du.Dot(e.dl))))
-	e.thickness = cv.At(wrap(sTip + e.eu)).Dist(cv.At(wrap(sTip - e.el)))
+	e.Angle = math.Acos(math.Max(-1, math.Min(1, e.du.Dot(e.dl))))
+	e.Thickness = cv.At(wrap(sTip + e.eu)).Dist(cv.At(wrap(sTip - e.el)))
 	const m = 41
 	arc := make([]Point, m)
 	for k := range arc {
 		arc[k] = cv.At(wrap(sTip - e.el + (e.eu+e.el)*float64(k)/(m-1)))
 	}
-	if c, r, _, ok := roundedCircle(arc); ok {
+	if c, r, _, ok := FitCircle(arc); ok {
 		e.center, e.radius = c, r
 	} else {
-		e.radius = e.thickness / 2
+		e.radius = e.Thickness / 2
 		e.center = cv.At(wrap(sTip + e.eu)).Add(cv.At(wrap(sTip - e.el))).Scale(0.5)
 	}
 	e.sharp, e.sharpValid = edgeLines(e.pu, e.du.Scale(-1), e.pl, e.dl, 0.5*chord)

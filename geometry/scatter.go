@@ -77,12 +77,12 @@ func roundedScatter(pts []Point) float64 {
 	return 1.4826 * rs[len(rs)/2]
 }
 
-// roundedCircle fits a circle to pts: the algebraic fit of Kåsa (IEEE
+// FitCircle fits a circle to pts: the algebraic fit of Kåsa (IEEE
 // Trans. Instrum. Meas. 25 (1976) 8–14) as a start, refined by Gauss–Newton
 // on the geometric distances (propCircle). It returns the centre, the
 // radius and the RMS geometric residual, or false for fewer than 3 points
 // or points on a line.
-func roundedCircle(pts []Point) (Point, float64, float64, bool) {
+func FitCircle(pts []Point) (Point, float64, float64, bool) {
 	if len(pts) < 3 {
 		return Point{}, 0, 0, false
 	}
@@ -114,7 +114,7 @@ func roundedCircle(pts []Point) (Point, float64, float64, bool) {
 	if !(r2 > 0) || math.IsInf(r2, 0) {
 		return Point{}, 0, 0, false
 	}
-	c, r := propCircle(pts, c.Add(o), math.Sqrt(r2))
+	c, r := RefineCircle(pts, c.Add(o), math.Sqrt(r2))
 	if !(r > 0) || !c.IsFinite() {
 		return Point{}, 0, 0, false
 	}
@@ -124,4 +124,39 @@ func roundedCircle(pts []Point) (Point, float64, float64, bool) {
 		ss += d * d
 	}
 	return c, r, math.Sqrt(ss / float64(len(pts))), true
+}
+
+// RefineCircle fits a circle to pts by Gauss–Newton on the geometric
+// distances, from the given centre and radius.
+func RefineCircle(pts []Point, center Point, r float64) (Point, float64) {
+	for range 30 {
+		// Unknowns: cx, cy, r. Residual dᵢ = |pᵢ − c| − r.
+		var a [3][3]float64
+		var b [3]float64
+		for _, p := range pts {
+			v := p.Sub(center)
+			d := v.Norm()
+			if d == 0 {
+				continue
+			}
+			j := [3]float64{-v.X / d, -v.Y / d, -1}
+			res := d - r
+			for x := 0; x < 3; x++ {
+				b[x] -= j[x] * res
+				for y := 0; y < 3; y++ {
+					a[x][y] += j[x] * j[y]
+				}
+			}
+		}
+		dx, ok := numeric.Solve3(a, b)
+		if !ok {
+			break
+		}
+		center = center.Add(Point{dx[0], dx[1]})
+		r += dx[2]
+		if math.Abs(dx[0])+math.Abs(dx[1])+math.Abs(dx[2]) < 1e-14 {
+			break
+		}
+	}
+	return center, r
 }

@@ -13,6 +13,7 @@ import (
 	"strings"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/props"
 	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/plot"
 	"github.com/foilwright/foilwright/repanel"
@@ -42,8 +43,8 @@ type Preparation struct {
 	Curve    *geometry.Curve       // the fitted curve, same coordinates as Contour
 	Fit      *geometry.FitReport
 	Shape    *geometry.Normalized // the normalised curve, chord units
-	Props    *geometry.SectionProperties
-	Camber   *geometry.CamberLine
+	Props    *props.SectionProperties
+	Camber   *props.CamberLine
 	Quality  repanel.Quality
 }
 
@@ -210,8 +211,8 @@ func Prepare(name string, files []InputFile, s PrepSettings) (*Preparation, erro
 
 	// The scatter of the points widens the arc of the leading-edge circle
 	// so that noise left in the curve does not upset the radius.
-	po := geometry.PropertyOptions{Thickness: s.ThicknessMode, Camber: s.CamberMode, Noise: fit.Scatter / shape.Frame.Chord}
-	props, camber, err := geometry.ComputeProperties(shape.Path, shape.SLE, po)
+	po := props.Options{Thickness: s.ThicknessMode, Camber: s.CamberMode, Noise: fit.Scatter / shape.Frame.Chord}
+	props, camber, err := props.Compute(shape.Path, shape.SLE, po)
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", strings.Join(names, ", "), err)
 	}
@@ -475,7 +476,7 @@ func WriteSectionReport(w io.Writer, s *section.Section, thicknessMode, camberMo
 }
 
 func thicknessWords(mode string) string {
-	if mode == geometry.ThicknessCamber {
+	if mode == props.ThicknessCamber {
 		return "normal to the camber line"
 	}
 	return "perpendicular to the chord line"

@@ -9,6 +9,7 @@ import (
 	"github.com/spf13/pflag"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/props"
 	"github.com/foilwright/foilwright/pipeline"
 	"github.com/foilwright/foilwright/repanel"
 )
@@ -63,8 +64,8 @@ func (p *prepFlags) registerShape(cmd *cobra.Command) {
 	f.Float64Var(&p.leCluster, "le-cluster", 0, "cluster nodes at the leading edge more (> 0) or less (< 0), -3 to 3")
 	f.Float64Var(&p.teCluster, "te-cluster", 0, "cluster nodes at the trailing edge more (> 0) or less (< 0), -3 to 3")
 	f.Float64Var(&p.curvatureWeight, "curvature-weight", 0, "for --spacing curvature: blend of curvature weighting with cosine spacing, 0 to 1 (0: 0.5)")
-	f.StringVar(&p.thicknessMode, "thickness-mode", geometry.ThicknessChord, "measure thickness perpendicular to the chord line (chord) or normal to the camber line (camber)")
-	f.StringVar(&p.camberMode, "camber-mode", geometry.CamberMean, "camber line: mean (of the surfaces at equal x) or inscribed (centres of inscribed circles, for blades)")
+	f.StringVar(&p.thicknessMode, "thickness-mode", props.ThicknessChord, "measure thickness perpendicular to the chord line (chord) or normal to the camber line (camber)")
+	f.StringVar(&p.camberMode, "camber-mode", props.CamberMean, "camber line: mean (of the surfaces at equal x) or inscribed (centres of inscribed circles, for blades)")
 	cmd.RegisterFlagCompletionFunc("spacing", fixedCompletions(repanel.Laws...))
 	cmd.RegisterFlagCompletionFunc("te", fixedCompletions("auto", "keep", "close", "sharpen"))
 	cmd.RegisterFlagCompletionFunc("mirror", fixedCompletions("auto", "yes", "no"))

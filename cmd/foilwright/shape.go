@@ -10,6 +10,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/props"
 	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/plot"
 	"github.com/foilwright/foilwright/repanel"
@@ -156,7 +157,7 @@ func setProperties(s *section.Section) (plot.SectionData, error) {
 	if err != nil {
 		return plot.SectionData{}, err
 	}
-	pr, camber, err := geometry.ComputeProperties(cv, sle, geometry.PropertyOptions{})
+	pr, camber, err := props.Compute(cv, sle, props.Options{})
 	if err != nil {
 		return plot.SectionData{}, err
 	}

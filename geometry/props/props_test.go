@@ -1,35 +1,37 @@
-package geometry
+package props
 
 import (
 	"errors"
 	"math"
 	"testing"
 
+	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/internal/testfoil"
 	"gonum.org/v1/gonum/integrate/quad"
 )
 
-// propTestSection fits and normalises a NACA 4-digit contour (NACA Report
+// testSection fits and normalises a NACA 4-digit contour (NACA Report
 // 824 equations) placed with 152.4 mm chord, 7° rotation, a shift and
 // 0.02 mm noise (fixed seed), or noise-free when noise is 0.
-func propTestSection(t *testing.T, code string, sharp bool, noise float64, opts EdgeOptions) (*Normalized, NACA4) {
+func testSection(t *testing.T, code string, sharp bool, noise float64, opts geometry.EdgeOptions) (*geometry.Normalized, geometry.NACA4) {
 	t.Helper()
-	n, err := ParseNACA4(code)
+	n, err := geometry.ParseNACA4(code)
 	if err != nil {
 		t.Fatal(err)
 	}
 	n.SharpTE = sharp
-	part := fitTestPart{chord: 152.4, rotDeg: 7, shift: Point{37, -12}, noise: noise, seed: 42}
-	c := fitTestContour(fitTestLoop(n, 150), part)
-	fo := FitOptions{Noise: noise, Exact: noise == 0}
-	cv, _, err := Fit(c, fo)
+	part := testfoil.Part{Chord: 152.4, RotDeg: 7, Shift: geometry.Point{X: 37, Y: -12}, Noise: noise, Seed: 42}
+	c := testfoil.Contour(testfoil.Loop(n, 150), part)
+	fo := geometry.FitOptions{Noise: noise, Exact: noise == 0}
+	cv, _, err := geometry.Fit(c, fo)
 	if err != nil {
 		t.Fatal(err)
 	}
 	if opts.LEAt != nil {
-		p := part.toPart(*opts.LEAt)
+		p := part.ToPart(*opts.LEAt)
 		opts.LEAt = &p
 	}
-	nz, err := Normalize(cv, opts)
+	nz, err := geometry.Normalize(cv, opts)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -40,12 +42,12 @@ func TestPropertiesNACA(t *testing.T) {
 	for _, code := range []string{"0012", "2412"} {
 		// The 2412 chord line is set at the Report 824 nose so that camber
 		// is measured from the Report 824 chord line.
-		var opts EdgeOptions
+		var opts geometry.EdgeOptions
 		if code == "2412" {
-			opts.LEAt = &Point{}
+			opts.LEAt = &geometry.Point{}
 		}
-		nz, n := propTestSection(t, code, false, 0.02, opts)
-		sp, cl, err := ComputeProperties(nz.Path, nz.SLE, PropertyOptions{})
+		nz, n := testSection(t, code, false, 0.02, opts)
+		sp, cl, err := Compute(nz.Path, nz.SLE, Options{})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -80,10 +82,10 @@ func TestPropertiesNACA(t *testing.T) {
 	}
 }
 
-// propNACAAreaExact is the area of a NACA 4-digit section with the open
+// nacaAreaExact is the area of a NACA 4-digit section with the open
 // (standard) edge: ∫₀¹ 2 yt dx in closed form from the Report 824 thickness
 // equation (exact integral of each term), which camber does not change.
-func propNACAAreaExact(t float64) float64 {
+func nacaAreaExact(t float64) float64 {
 	return 2 * t / 0.2 * (0.2969*2/3 - 0.1260/2 - 0.3516/3 + 0.2843/4 - 0.1015/5)
 }
 
@@ -92,13 +94,13 @@ func TestPropertiesAreaAndMoments(t *testing.T) {
 	// integral of the thickness equation (NACA Report 824); centroid and
 	// second moments against gonum quad (Gauss–Legendre, x = u² to remove
 	// the square-root singularity) applied to the same equation.
-	nz, n := propTestSection(t, "0012", false, 0, EdgeOptions{})
-	sp, _, err := ComputeProperties(nz.Path, nz.SLE, PropertyOptions{})
+	nz, n := testSection(t, "0012", false, 0, geometry.EdgeOptions{})
+	sp, _, err := Compute(nz.Path, nz.SLE, Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
 	const tol = 2e-5 // relative; the interpolated outline has 301 points
-	area := propNACAAreaExact(n.Thickness)
+	area := nacaAreaExact(n.Thickness)
 	// Check the closed form itself with gonum quad.
 	yt := func(u float64) float64 { return n.HalfThickness(u * u) }
 	integ := func(f func(u float64) float64) float64 { return quad.Fixed(f, 0, 1, 40, quad.Legendre{}, 0) }
@@ -142,14 +144,14 @@ func TestPropertiesEllipse(t *testing.T) {
 	// πab, Ixx = πab³/4, Iyy = πa³b/4 (a = ½), thickness 2b at x = ½, and
 	// radius of curvature b²/a at the vertex (the leading edge).
 	const b = 0.06
-	var pts []Point
+	var pts []geometry.Point
 	for i := range 400 {
 		th := 2 * math.Pi * float64(i) / 400
-		pts = append(pts, Point{0.5 * (1 + math.Cos(th)), b * math.Sin(th)})
+		pts = append(pts, geometry.Point{X: 0.5 * (1 + math.Cos(th)), Y: b * math.Sin(th)})
 	}
-	cv := curveInterpolate(pts, true)
-	sLE, _ := cv.Project(Point{})
-	sp, _, err := ComputeProperties(cv, sLE, PropertyOptions{})
+	cv := geometry.Interpolate(pts, true)
+	sLE, _ := cv.Project(geometry.Point{})
+	sp, _, err := Compute(cv, sLE, Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -164,7 +166,7 @@ func TestPropertiesEllipse(t *testing.T) {
 		{"centroid x", sp.Centroid[0], 0.5},
 		{"thickness", sp.Thickness, 2 * b},
 		{"thickness at", sp.ThicknessAt, 0.5},
-		{"perimeter", sp.Perimeter, propEllipsePerimeter(0.5, b)},
+		{"perimeter", sp.Perimeter, ellipsePerimeter(0.5, b)},
 	} {
 		if math.Abs(tc.got-tc.want) > tol*math.Max(1, math.Abs(tc.want)) {
 			t.Errorf("%s = %.9g, want %.9g (exact)", tc.name, tc.got, tc.want)
@@ -177,8 +179,8 @@ func TestPropertiesEllipse(t *testing.T) {
 	}
 }
 
-// propEllipsePerimeter integrates the ellipse perimeter with gonum quad.
-func propEllipsePerimeter(a, b float64) float64 {
+// ellipsePerimeter integrates the ellipse perimeter with gonum quad.
+func ellipsePerimeter(a, b float64) float64 {
 	return quad.Fixed(func(th float64) float64 { return math.Hypot(a*math.Sin(th), b*math.Cos(th)) }, 0, 2*math.Pi, 200, quad.Legendre{}, 0)
 }
 
@@ -186,12 +188,12 @@ func TestPropertiesModes(t *testing.T) {
 	// The Report 824 thickness is laid off normal to the camber line, so
 	// thickness normal to the camber line is again 0.12; the inscribed-circle
 	// camber line of a section this thin stays within 0.001 of the mean one.
-	nz, _ := propTestSection(t, "2412", false, 0, EdgeOptions{LEAt: &Point{}})
-	mean, _, err := ComputeProperties(nz.Path, nz.SLE, PropertyOptions{})
+	nz, _ := testSection(t, "2412", false, 0, geometry.EdgeOptions{LEAt: &geometry.Point{}})
+	mean, _, err := Compute(nz.Path, nz.SLE, Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
-	sp, cl, err := ComputeProperties(nz.Path, nz.SLE, PropertyOptions{Thickness: ThicknessCamber, Camber: CamberInscribed})
+	sp, cl, err := Compute(nz.Path, nz.SLE, Options{Thickness: ThicknessCamber, Camber: CamberInscribed})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -209,49 +211,49 @@ func TestPropertiesModes(t *testing.T) {
 	if math.Abs(maxD-0.12) > 0.002 {
 		t.Errorf("largest inscribed diameter %.5f, want about 0.12", maxD)
 	}
-	if _, _, err := ComputeProperties(nz.Path, -1, PropertyOptions{}); !errors.Is(err, ErrNotNormalized) {
+	if _, _, err := Compute(nz.Path, -1, Options{}); !errors.Is(err, ErrNotNormalized) {
 		t.Errorf("sLE outside: err = %v", err)
 	}
-	if _, _, err := ComputeProperties(nz.Path, nz.SLE, PropertyOptions{Thickness: "x"}); err == nil {
+	if _, _, err := Compute(nz.Path, nz.SLE, Options{Thickness: "x"}); err == nil {
 		t.Error("bad thickness mode: no error")
 	}
 }
 
 func BenchmarkNormalizeAndProperties(b *testing.B) {
-	n, _ := ParseNACA4("2412")
-	c := fitTestContour(fitTestLoop(n, 150), fitTestPart{chord: 152.4, rotDeg: 7, noise: 0.02, seed: 1})
-	cv, _, err := Fit(c, FitOptions{Noise: 0.02})
+	n, _ := geometry.ParseNACA4("2412")
+	c := testfoil.Contour(testfoil.Loop(n, 150), testfoil.Part{Chord: 152.4, RotDeg: 7, Noise: 0.02, Seed: 1})
+	cv, _, err := geometry.Fit(c, geometry.FitOptions{Noise: 0.02})
 	if err != nil {
 		b.Fatal(err)
 	}
 	for b.Loop() {
-		nz, err := Normalize(cv, EdgeOptions{})
+		nz, err := geometry.Normalize(cv, geometry.EdgeOptions{})
 		if err != nil {
 			b.Fatal(err)
 		}
-		if _, _, err := ComputeProperties(nz.Path, nz.SLE, PropertyOptions{}); err != nil {
+		if _, _, err := Compute(nz.Path, nz.SLE, Options{}); err != nil {
 			b.Fatal(err)
 		}
 	}
 }
 
-// propPathOnly hides every method of a Curve but those of Path.
-type propPathOnly struct{ c *Curve }
+// pathOnly hides every method of a Curve but those of Path.
+type pathOnly struct{ c *geometry.Curve }
 
-func (p propPathOnly) Length() float64             { return p.c.Length() }
-func (p propPathOnly) At(s float64) Point          { return p.c.At(s) }
-func (p propPathOnly) Curvature(s float64) float64 { return p.c.Curvature(s) }
+func (p pathOnly) Length() float64             { return p.c.Length() }
+func (p pathOnly) At(s float64) geometry.Point { return p.c.At(s) }
+func (p pathOnly) Curvature(s float64) float64 { return p.c.Curvature(s) }
 
 func TestPropertiesAnyPath(t *testing.T) {
 	// A Path that is not a *Curve is resampled and interpolated; its
 	// properties agree with those of the curve itself.
 	for _, sharp := range []bool{false, true} {
-		nz, _ := propTestSection(t, "2412", sharp, 0, EdgeOptions{})
-		want, _, err := ComputeProperties(nz.Path, nz.SLE, PropertyOptions{})
+		nz, _ := testSection(t, "2412", sharp, 0, geometry.EdgeOptions{})
+		want, _, err := Compute(nz.Path, nz.SLE, Options{})
 		if err != nil {
 			t.Fatal(err)
 		}
-		got, _, err := ComputeProperties(propPathOnly{nz.Path.(*Curve)}, nz.SLE, PropertyOptions{})
+		got, _, err := Compute(pathOnly{nz.Path.(*geometry.Curve)}, nz.SLE, Options{})
 		if err != nil {
 			t.Fatal(err)
 		}

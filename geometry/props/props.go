@@ -1,14 +1,15 @@
-package geometry
+package props
 
 import (
 	"errors"
 	"fmt"
 	"math"
 
+	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/internal/numeric"
 )
 
-// Thickness and camber modes (PropertyOptions).
+// Thickness and camber modes (Options).
 const (
 	ThicknessChord  = "chord"     // perpendicular to the chord line: yᵤ(x) − yₗ(x)
 	ThicknessCamber = "camber"    // along the normal to the mean camber line
@@ -16,10 +17,10 @@ const (
 	CamberInscribed = "inscribed" // centres of circles inscribed between the surfaces
 )
 
-// PropertyOptions controls ComputeProperties. The zero value measures
+// Options controls Compute. The zero value measures
 // thickness perpendicular to the chord line and the camber line as the mean
 // of the surfaces at equal x, on 200 cosine-spaced stations.
-type PropertyOptions struct {
+type Options struct {
 	Thickness string // ThicknessChord (default, "") or ThicknessCamber
 	Camber    string // CamberMean (default, "") or CamberInscribed
 	Stations  int    // chord stations for the camber line; 0 means 200
@@ -51,8 +52,8 @@ type Properties struct {
 type SectionProperties struct {
 	Properties
 	ThicknessMode, CamberMode string
-	TEThickness               float64 // distance between the trailing-edge ends
-	LECenter                  Point   // centre of the leading-edge circle
+	TEThickness               float64        // distance between the trailing-edge ends
+	LECenter                  geometry.Point // centre of the leading-edge circle
 	// Imin and Imax are the principal second moments about the centroid;
 	// PrincipalDeg is the angle (degrees, counter-clockwise from +x) of the
 	// axis about which the moment is Imin (the axis closest to the chord
@@ -70,46 +71,44 @@ type CamberLine struct {
 	Thickness []float64
 }
 
-// ErrNotNormalized means a path given to ComputeProperties is not a
+// ErrNotNormalized means a path given to Compute is not a
 // normalised section.
 var ErrNotNormalized = errors.New("path is not a normalised section")
 
-// propCurve returns p as a *Curve: p itself, or an interpolating spline
+// curveOf returns p as a *Curve: p itself, or an interpolating spline
 // through 4000 points equally spaced in arc length.
-func propCurve(p Path) *Curve {
-	if c, ok := p.(*Curve); ok {
+func curveOf(p geometry.Path) *geometry.Curve {
+	if c, ok := p.(*geometry.Curve); ok {
 		return c
 	}
 	const n = 4000
 	L := p.Length()
-	pts := make([]Point, n+1)
+	pts := make([]geometry.Point, n+1)
 	for k := range pts {
 		pts[k] = p.At(L * float64(k) / n)
 	}
-	c := curveInterpolate(pts, false)
-	c.closed = pts[0].Dist(pts[n]) <= 1e-12*L
-	return c
+	return geometry.Interpolate(pts, false).WithClosed(pts[0].Dist(pts[n]) <= 1e-12*L)
 }
 
-// propSide is one surface of a curve, from parameter position (i0, u0) to
+// side is one surface of a curve, from parameter position (i0, u0) to
 // (i1, u1) (pieces in order; i0 ≤ i1).
-type propSide struct {
-	c      *Curve
+type side struct {
+	c      *geometry.Curve
 	i0, i1 int
 	u0, u1 float64
 }
 
-// propSides splits c at arc length sLE into the upper side (start to sLE)
+// sides splits c at arc length sLE into the upper side (start to sLE)
 // and the lower side (sLE to the end).
-func propSides(c *Curve, sLE float64) (upper, lower propSide) {
-	i, u := c.locate(sLE)
+func sides(c *geometry.Curve, sLE float64) (upper, lower side) {
+	i, u := c.Locate(sLE)
 	last := c.Pieces() - 1
-	return propSide{c, 0, i, 0, u}, propSide{c, i, last, u, c.h(last)}
+	return side{c, 0, i, 0, u}, side{c, i, last, u, c.Span(last)}
 }
 
 // bounds returns the local parameter range of piece i on the side.
-func (ps propSide) bounds(i int) (float64, float64) {
-	a, b := 0.0, ps.c.h(i)
+func (ps side) bounds(i int) (float64, float64) {
+	a, b := 0.0, ps.c.Span(i)
 	if i == ps.i0 {
 		a = ps.u0
 	}
@@ -123,14 +122,14 @@ func (ps propSide) bounds(i int) (float64, float64) {
 // once: binary search over the pieces, then bisection in the piece. It
 // returns the piece, local parameter and point, and false when g has the
 // same sign at both ends.
-func (ps propSide) cross(g func(Point) float64) (int, float64, Point, bool) {
+func (ps side) cross(g func(geometry.Point) float64) (int, float64, geometry.Point, bool) {
 	c := ps.c
-	at := func(i int, u float64) Point { p, _, _ := c.eval(i, u); return p }
+	at := func(i int, u float64) geometry.Point { p, _, _ := c.Eval(i, u); return p }
 	a0, _ := ps.bounds(ps.i0)
 	_, b1 := ps.bounds(ps.i1)
 	ga, gb := g(at(ps.i0, a0)), g(at(ps.i1, b1))
 	if (ga > 0) == (gb > 0) {
-		return 0, 0, Point{}, false
+		return 0, 0, geometry.Point{}, false
 	}
 	lo, hi := ps.i0, ps.i1 // g changes sign within pieces lo..hi
 	for hi > lo {
@@ -157,11 +156,11 @@ func (ps propSide) cross(g func(Point) float64) (int, float64, Point, bool) {
 }
 
 // atX returns the point of the side at chord station x.
-func (ps propSide) atX(x float64) (int, float64, Point, bool) {
-	return ps.cross(func(p Point) float64 { return p.X - x })
+func (ps side) atX(x float64) (int, float64, geometry.Point, bool) {
+	return ps.cross(func(p geometry.Point) float64 { return p.X - x })
 }
 
-// ComputeProperties returns the geometric properties of the normalised
+// Compute returns the geometric properties of the normalised
 // section p (chord units, package node order, leading edge at arc length
 // sLE) and its camber line.
 //
@@ -172,8 +171,8 @@ func (ps propSide) atX(x float64) (int, float64, Point, bool) {
 // surfaces (blade sections). Both maxima are refined by golden-section
 // search between stations. The leading-edge radius is that of the circle
 // fitted by least squares (geometric distance) to the nose within
-// ±propLEArc (0.15) osculating radii of arc of the leading edge, over a
-// wider arc when opts.Noise says the points were noisy (propLECircle). The
+// ±leArc (0.15) osculating radii of arc of the leading edge, over a
+// wider arc when opts.Noise says the points were noisy (leCircle). The
 // trailing-edge angle is the angle between the surface tangents at the
 // trailing edge; for a
 // rounded edge (a closed path, smooth through the tip) it is the angle
@@ -188,7 +187,7 @@ func (ps propSide) atX(x float64) (int, float64, Point, bool) {
 //
 // It returns an error wrapping ErrNotNormalized if sLE is not inside the
 // path or the surfaces do not span the chord.
-func ComputeProperties(p Path, sLE float64, opts PropertyOptions) (*SectionProperties, *CamberLine, error) {
+func Compute(p geometry.Path, sLE float64, opts Options) (*SectionProperties, *CamberLine, error) {
 	switch opts.Thickness {
 	case "":
 		opts.Thickness = ThicknessChord
@@ -209,7 +208,7 @@ func ComputeProperties(p Path, sLE float64, opts PropertyOptions) (*SectionPrope
 	if opts.Stations < 10 {
 		return nil, nil, fmt.Errorf("geometry: %d camber stations: want at least 10", opts.Stations)
 	}
-	c := propCurve(p)
+	c := curveOf(p)
 	L := c.Length()
 	if !(sLE > 0 && sLE < L) {
 		return nil, nil, fmt.Errorf("geometry: %w: leading edge at arc length %g outside (0, %g)", ErrNotNormalized, sLE, L)
@@ -219,7 +218,7 @@ func ComputeProperties(p Path, sLE float64, opts PropertyOptions) (*SectionPrope
 		return nil, nil, fmt.Errorf("geometry: %w: surfaces end at x = %.4g, leading edge at (%.4g, %.4g)", ErrNotNormalized, xEnd, c.At(sLE).X, c.At(sLE).Y)
 	}
 	sp := &SectionProperties{ThicknessMode: opts.Thickness, CamberMode: opts.Camber}
-	up, lo := propSides(c, sLE)
+	up, lo := sides(c, sLE)
 	yu := func(x float64) float64 { _, _, p, _ := up.atX(x); return p.Y }
 	yl := func(x float64) float64 { _, _, p, _ := lo.atX(x); return p.Y }
 	camber := func(x float64) float64 { return (yu(x) + yl(x)) / 2 }
@@ -238,9 +237,9 @@ func ComputeProperties(p Path, sLE float64, opts PropertyOptions) (*SectionPrope
 			const dx = 1e-4
 			xa, xb := math.Max(0, x-dx), math.Min(xEnd, x+dx)
 			slope := (camber(xb) - camber(xa)) / (xb - xa)
-			m := Point{x, camber(x)}
-			t := Point{1, slope}.Scale(1 / math.Hypot(1, slope))
-			along := func(p Point) float64 { return p.Sub(m).Dot(t) }
+			m := geometry.Point{X: x, Y: camber(x)}
+			t := geometry.Point{X: 1, Y: slope}.Scale(1 / math.Hypot(1, slope))
+			along := func(p geometry.Point) float64 { return p.Sub(m).Dot(t) }
 			_, _, pu, ok1 := up.cross(along)
 			_, _, pl, ok2 := lo.cross(along)
 			if !ok1 || !ok2 {
@@ -249,7 +248,7 @@ func ComputeProperties(p Path, sLE float64, opts PropertyOptions) (*SectionPrope
 			return pu.Dist(pl)
 		}
 	}
-	sp.Thickness, sp.ThicknessAt = propMax(thick, st[1:len(st)-1])
+	sp.Thickness, sp.ThicknessAt = maxOn(thick, st[1:len(st)-1])
 
 	// Camber.
 	if opts.Camber == CamberMean {
@@ -259,8 +258,8 @@ func ComputeProperties(p Path, sLE float64, opts PropertyOptions) (*SectionPrope
 			cl.Thickness = append(cl.Thickness, thick(x))
 		}
 		abs := func(x float64) float64 { return math.Abs(camber(x)) }
-		_, at := propMax(abs, st[1:len(st)-1])
-		at = propVertex(abs, at, math.Min(propCamberWindow, math.Min(at, xEnd-at)))
+		_, at := maxOn(abs, st[1:len(st)-1])
+		at = vertex(abs, at, math.Min(camberWindow, math.Min(at, xEnd-at)))
 		sp.Camber, sp.CamberAt = camber(at), at
 	} else {
 		best := -1
@@ -268,7 +267,7 @@ func ComputeProperties(p Path, sLE float64, opts PropertyOptions) (*SectionPrope
 			if x < 0.005 || x > xEnd-0.005 {
 				continue
 			}
-			m, d := propInscribed(c, up, lo, Point{x, camber(x)}, x)
+			m, d := inscribed(c, up, lo, geometry.Point{X: x, Y: camber(x)}, x)
 			cl.X = append(cl.X, m.X)
 			cl.Y = append(cl.Y, m.Y)
 			cl.Thickness = append(cl.Thickness, d)
@@ -282,19 +281,19 @@ func ComputeProperties(p Path, sLE float64, opts PropertyOptions) (*SectionPrope
 	}
 
 	// Leading-edge radius.
-	sp.LECenter, sp.LERadius = propLECircle(c, sLE, opts.Noise)
+	sp.LECenter, sp.LERadius = leCircle(c, sLE, opts.Noise)
 
 	// Trailing edge.
 	sp.TEThickness = c.Start().Dist(c.End())
 	tu, tl := c.Tangent(0), c.Tangent(L).Scale(-1)
 	sp.TEAngleDeg = math.Acos(math.Max(-1, math.Min(1, tu.Dot(tl)))) * 180 / math.Pi
-	if ta, tb := c.Tangent(L), c.Tangent(0); sp.TEThickness <= 1e-9 && math.Abs(roundedTurn(ta, tb)) <= edgeCornerRad {
+	if ta, tb := c.Tangent(L), c.Tangent(0); sp.TEThickness <= 1e-9 && math.Abs(geometry.Turn(ta, tb)) <= geometry.CornerTurn {
 		// A rounded edge, kept: the path runs smoothly through the tip, so
 		// the end tangents are one line. Measure the surfaces just ahead of
 		// the rounding instead.
-		if r, ok := roundedAnalyse(c, 0, 1); ok {
-			sp.TEAngleDeg = r.angle * 180 / math.Pi
-			sp.TEThickness = r.thickness
+		if r, ok := geometry.AnalyseRounded(c, 0, 1); ok {
+			sp.TEAngleDeg = r.Angle * 180 / math.Pi
+			sp.TEThickness = r.Thickness
 		}
 	}
 
@@ -317,9 +316,9 @@ func ComputeProperties(p Path, sLE float64, opts PropertyOptions) (*SectionPrope
 	return sp, cl, nil
 }
 
-// propMax returns the maximum of f and where it is: the best of the
+// maxOn returns the maximum of f and where it is: the best of the
 // stations, refined by golden-section search between its neighbours.
-func propMax(f func(float64) float64, st []float64) (float64, float64) {
+func maxOn(f func(float64) float64, st []float64) (float64, float64) {
 	best := 0
 	vals := make([]float64, len(st))
 	for k, x := range st {
@@ -336,20 +335,20 @@ func propMax(f func(float64) float64, st []float64) (float64, float64) {
 	return vals[best], st[best]
 }
 
-// propInscribed moves the point m0 (between the surfaces at station x) to
+// inscribed moves the point m0 (between the surfaces at station x) to
 // the centre of the circle touching both surfaces, and returns the centre
 // and the diameter.
-func propInscribed(c *Curve, up, lo propSide, m0 Point, x float64) (Point, float64) {
+func inscribed(c *geometry.Curve, up, lo side, m0 geometry.Point, x float64) (geometry.Point, float64) {
 	iu, uu, _, _ := up.atX(x)
 	il, ul, _, _ := lo.atX(x)
 	m := m0
 	var du, dl float64
 	for range 50 {
-		var pu, pl Point
-		iu, uu, du = c.projectNear(m, iu, uu)
-		il, ul, dl = c.projectNear(m, il, ul)
-		pu, _, _ = c.eval(iu, uu)
-		pl, _, _ = c.eval(il, ul)
+		var pu, pl geometry.Point
+		iu, uu, du = c.ProjectFrom(m, iu, uu)
+		il, ul, dl = c.ProjectFrom(m, il, ul)
+		pu, _, _ = c.Eval(iu, uu)
+		pl, _, _ = c.Eval(il, ul)
 		e := pu.Sub(pl)
 		n := e.Norm()
 		if n == 0 {
@@ -364,97 +363,62 @@ func propInscribed(c *Curve, up, lo propSide, m0 Point, x float64) (Point, float
 	return m, du + dl
 }
 
-// propCircle fits a circle to pts by Gauss–Newton on the geometric
-// distances, from the given centre and radius.
-func propCircle(pts []Point, center Point, r float64) (Point, float64) {
-	for range 30 {
-		// Unknowns: cx, cy, r. Residual dᵢ = |pᵢ − c| − r.
-		var a [3][3]float64
-		var b [3]float64
-		for _, p := range pts {
-			v := p.Sub(center)
-			d := v.Norm()
-			if d == 0 {
-				continue
-			}
-			j := [3]float64{-v.X / d, -v.Y / d, -1}
-			res := d - r
-			for x := 0; x < 3; x++ {
-				b[x] -= j[x] * res
-				for y := 0; y < 3; y++ {
-					a[x][y] += j[x] * j[y]
-				}
-			}
-		}
-		dx, ok := numeric.Solve3(a, b)
-		if !ok {
-			break
-		}
-		center = center.Add(Point{dx[0], dx[1]})
-		r += dx[2]
-		if math.Abs(dx[0])+math.Abs(dx[1])+math.Abs(dx[2]) < 1e-14 {
-			break
-		}
-	}
-	return center, r
-}
-
-// propLECircle returns the leading-edge circle of c (leading edge at arc
+// leCircle returns the leading-edge circle of c (leading edge at arc
 // length sLE): the circle fitted by least squares (geometric distance) to
-// 41 points of the nose within ±a of arc, a = propLEArc osculating radii
+// 41 points of the nose within ±a of arc, a = leArc osculating radii
 // on an exact curve. When the points scattered by noise (chord units), the
 // curve keeps wiggles of about that size, and the curvature over a short
 // arc a changes by about noise/a²; so a grows to at least √(noise·r/
-// propLENoiseTol), which keeps that error near propLENoiseTol of the
-// curvature, and to at least propLEKnots knot spacings at the nose, which
+// leNoiseTol), which keeps that error near leNoiseTol of the
+// curvature, and to at least leKnots knot spacings at the nose, which
 // averages out the sag of straight facets between the points of a cut
 // mesh. The wider arc costs a bias on a nose whose curvature falls away
 // from the leading edge (measured on NACA 4-digit noses: +2 % at ±0.5 r,
-// +5 % at ±0.7 r, +11 % at ±r), so the noise term stops at propLENoiseArc
+// +5 % at ±0.7 r, +11 % at ±r), so the noise term stops at leNoiseArc
 // radii and the knot term, which on sparse points would reach far round
-// the nose, at propLEKnotArc.
+// the nose, at leKnotArc.
 // The radius is refined three times, each from the last. It returns a zero
 // radius when the nose is not convex.
-func propLECircle(c *Curve, sLE, noise float64) (Point, float64) {
+func leCircle(c *geometry.Curve, sLE, noise float64) (geometry.Point, float64) {
 	k := c.Curvature(sLE)
 	L := c.Length()
-	fit := func(a, r float64) (Point, float64) {
+	fit := func(a, r float64) (geometry.Point, float64) {
 		a = math.Min(a, math.Min(sLE, L-sLE)/2)
 		center := c.At(sLE).Sub(c.Normal(sLE).Scale(r))
-		var pts []Point
+		var pts []geometry.Point
 		for j := -20; j <= 20; j++ {
 			pts = append(pts, c.At(sLE+a*float64(j)/20))
 		}
-		return propCircle(pts, center, r)
+		return geometry.RefineCircle(pts, center, r)
 	}
 	if noise == 0 {
 		if !(k > 0) {
-			return Point{}, 0
+			return geometry.Point{}, 0
 		}
-		return fit(propLEArc/k, 1/k)
+		return fit(leArc/k, 1/k)
 	}
-	// Knot spacing at the nose: the mean over propLEKnotSpan pieces either
+	// Knot spacing at the nose: the mean over leKnotSpan pieces either
 	// side (cut meshes pair their points, so single pieces mislead).
-	i, _ := c.locate(sLE)
-	lo, hi := max(0, i-propLEKnotSpan), min(c.Pieces(), i+propLEKnotSpan+1)
-	h := (c.ss[hi] - c.ss[lo]) / float64(hi-lo)
+	i, _ := c.Locate(sLE)
+	lo, hi := max(0, i-leKnotSpan), min(c.Pieces(), i+leKnotSpan+1)
+	h := (c.PieceStart(hi) - c.PieceStart(lo)) / float64(hi-lo)
 	// A noisy osculating radius is only a start: take the circle through
 	// the nose over the knot span, then widen the arc from the radius.
-	center, r, _, ok := roundedCircle(func() []Point {
-		var pts []Point
+	center, r, _, ok := geometry.FitCircle(func() []geometry.Point {
+		var pts []geometry.Point
 		for j := -20; j <= 20; j++ {
-			pts = append(pts, c.At(sLE+propLEKnotSpan*h*float64(j)/20))
+			pts = append(pts, c.At(sLE+leKnotSpan*h*float64(j)/20))
 		}
 		return pts
 	}())
 	if !ok || !(r > 0 && r < L) {
 		if !(k > 0) {
-			return Point{}, 0
+			return geometry.Point{}, 0
 		}
 		center, r = c.At(sLE).Sub(c.Normal(sLE).Scale(1/k)), 1/k
 	}
 	for range 3 {
-		a := math.Max(propLEArc*r, math.Max(math.Min(math.Sqrt(noise*r/propLENoiseTol), propLENoiseArc*r), math.Min(propLEKnots*h, propLEKnotArc*r)))
+		a := math.Max(leArc*r, math.Max(math.Min(math.Sqrt(noise*r/leNoiseTol), leNoiseArc*r), math.Min(leKnots*h, leKnotArc*r)))
 		c2, r2 := fit(a, r)
 		if !(r2 > 0 && r2 < L) {
 			break
@@ -464,30 +428,30 @@ func propLECircle(c *Curve, sLE, noise float64) (Point, float64) {
 	return center, r
 }
 
-// Limits of the leading-edge circle on noisy curves (propLECircle).
+// Limits of the leading-edge circle on noisy curves (leCircle).
 const (
-	propLENoiseTol = 0.03 // curvature error the noise may cause, relative
-	propLEKnots    = 2    // least half-arc, in knot spacings at the nose
-	propLEKnotSpan = 5    // pieces either side over which the knot spacing is averaged
-	propLENoiseArc = 1    // largest half-arc for the noise, in radii (bias +11 % on NACA 4-digit noses)
-	propLEKnotArc  = 0.5  // largest half-arc for the knot spacing, in radii (bias +2 %)
+	leNoiseTol = 0.03 // curvature error the noise may cause, relative
+	leKnots    = 2    // least half-arc, in knot spacings at the nose
+	leKnotSpan = 5    // pieces either side over which the knot spacing is averaged
+	leNoiseArc = 1    // largest half-arc for the noise, in radii (bias +11 % on NACA 4-digit noses)
+	leKnotArc  = 0.5  // largest half-arc for the knot spacing, in radii (bias +2 %)
 )
 
-// propLEArc is the half-width of the nose arc, in osculating radii at the
+// leArc is the half-width of the nose arc, in osculating radii at the
 // leading edge, to which the leading-edge circle is fitted.
-const propLEArc = 0.15
+const leArc = 0.15
 
-// propCamberWindow is the half-width (chord units) of the window over which
+// camberWindow is the half-width (chord units) of the window over which
 // the position of maximum camber is taken as the vertex of a least-squares
 // parabola. The camber line is flat near its maximum, so the plain maximum
 // wanders with measurement noise; the parabola steadies it at the cost of
 // a bias towards the flatter side of an asymmetric peak (+0.008 chord for
 // the NACA 2412, whose camber parabolas differ fore and aft).
-const propCamberWindow = 0.04
+const camberWindow = 0.04
 
-// propVertex returns the vertex of the least-squares parabola through f at
+// vertex returns the vertex of the least-squares parabola through f at
 // 41 points within x0 ± w, or x0 if the parabola has no maximum there.
-func propVertex(f func(float64) float64, x0, w float64) float64 {
+func vertex(f func(float64) float64, x0, w float64) float64 {
 	if !(w > 0) {
 		return x0
 	}
