@@ -6,6 +6,7 @@ import (
 	"sync"
 	"sync/atomic"
 
+	"github.com/foilwright/foilwright/internal/numeric"
 	"gonum.org/v1/gonum/integrate/quad"
 )
 
@@ -638,13 +639,106 @@ func curveShift(k [4]float64, u0 float64) [4]float64 {
 	return [4]float64{v, d1, d2 / 2, k[3]}
 }
 
-// curveBuilder collects pieces of a new curve.
-type curveBuilder struct {
+// Farthest returns the arc length in [s0, s1] (s1 < s0 wraps through the
+// start of a closed curve) of the point of cv farthest from p, and the
+// distance, refined by golden-section search between the neighbours of the
+// best sample.
+func (cv *Curve) Farthest(p Point, s0, s1 float64) (float64, float64) {
+	L := cv.Length()
+	in := func(s float64) bool {
+		if s0 <= s1 {
+			return s >= s0 && s <= s1
+		}
+		return s >= s0 || s <= s1
+	}
+	best, bestD := math.NaN(), -1.0
+	step := L / float64(4*cv.Pieces())
+	for i := 0; i < cv.Pieces(); i++ {
+		for _, f := range [...]float64{0, 0.25, 0.5, 0.75} {
+			u := f * cv.Span(i)
+			q, _, _ := cv.Eval(i, u)
+			var s float64
+			if f == 0 {
+				s = cv.ss[i]
+			} else {
+				s = cv.arc(i, u)
+			}
+			if !in(s) {
+				continue
+			}
+			if d := q.Dist(p); d > bestD {
+				best, bestD = s, d
+			}
+		}
+	}
+	if e := cv.End(); in(L) && e.Dist(p) > bestD {
+		best, bestD = L, e.Dist(p)
+	}
+	if math.IsNaN(best) {
+		return s0, cv.At(s0).Dist(p)
+	}
+	// Refine on [best − 2 step, best + 2 step] (the largest sample gap is
+	// below a quarter piece, so this brackets the maximum).
+	span := 0.0
+	for i := 0; i < cv.Pieces(); i++ {
+		span = math.Max(span, cv.ss[i+1]-cv.ss[i])
+	}
+	span = math.Max(span/2, step)
+	a, b := best-span, best+span
+	wrap := func(s float64) float64 {
+		if cv.closed {
+			return math.Mod(math.Mod(s, L)+L, L)
+		}
+		return math.Max(0, math.Min(L, s))
+	}
+	s := numeric.Golden(func(s float64) float64 { return -cv.At(wrap(s)).Dist(p) }, a, b, 60)
+	s = wrap(s)
+	if d := cv.At(s).Dist(p); d > bestD {
+		return s, d
+	}
+	return best, bestD
+}
+
+// SnapEnds moves both ends of an open curve whose ends (nearly) meet to
+// their midpoint, fading the move out over the first and last piece, and
+// returns the closed curve and the shift.
+func (cv *Curve) SnapEnds() (*Curve, float64) {
+	m := cv.Start().Add(cv.End()).Scale(0.5)
+	d0, d1 := m.Sub(cv.Start()), m.Sub(cv.End())
+	xs := append([][4]float64(nil), cv.xs...)
+	ys := append([][4]float64(nil), cv.ys...)
+	// Add δ(1 − u/h)³ to the first piece and δ(u/h)³ to the last.
+	h0 := cv.Span(0)
+	xs[0] = curveAddCube(xs[0], d0.X, h0, true)
+	ys[0] = curveAddCube(ys[0], d0.Y, h0, true)
+	k := len(xs) - 1
+	hk := cv.Span(k)
+	xs[k] = curveAddCube(xs[k], d1.X, hk, false)
+	ys[k] = curveAddCube(ys[k], d1.Y, hk, false)
+	return curveNew(append([]float64(nil), cv.ts...), xs, ys, true), math.Max(d0.Norm(), d1.Norm())
+}
+
+// curveAddCube adds δ(1 − u/h)³ (falling) or δ(u/h)³ (rising) to k.
+func curveAddCube(k [4]float64, delta, h float64, falling bool) [4]float64 {
+	if falling {
+		k[0] += delta
+		k[1] -= 3 * delta / h
+		k[2] += 3 * delta / (h * h)
+		k[3] -= delta / (h * h * h)
+	} else {
+		k[3] += delta / (h * h * h)
+	}
+	return k
+}
+
+// Builder collects pieces of a new curve: straight segments and arcs of
+// other curves, in order. The zero value is empty and ready to use.
+type Builder struct {
 	ts     []float64
 	xs, ys [][4]float64
 }
 
-func (b *curveBuilder) add(x, y [4]float64, h float64) {
+func (b *Builder) add(x, y [4]float64, h float64) {
 	if h <= 0 {
 		return
 	}
@@ -657,15 +751,15 @@ func (b *curveBuilder) add(x, y [4]float64, h float64) {
 }
 
 // addPiece adds the part [u0, u1] of piece i of c.
-func (b *curveBuilder) addPiece(c *Curve, i int, u0, u1 float64) {
+func (b *Builder) addPiece(c *Curve, i int, u0, u1 float64) {
 	if u1-u0 <= 1e-15*c.Span(i) {
 		return
 	}
 	b.add(curveShift(c.xs[i], u0), curveShift(c.ys[i], u0), u1-u0)
 }
 
-// addLine adds the straight segment from p to q, parametrised by length.
-func (b *curveBuilder) addLine(p, q Point) {
+// AddLine adds the straight segment from p to q, parametrised by length.
+func (b *Builder) AddLine(p, q Point) {
 	l := p.Dist(q)
 	if l == 0 {
 		return
@@ -674,21 +768,29 @@ func (b *curveBuilder) addLine(p, q Point) {
 	b.add([4]float64{p.X, d.X}, [4]float64{p.Y, d.Y}, l)
 }
 
-func (b *curveBuilder) curve(closed bool) *Curve { return curveNew(b.ts, b.xs, b.ys, closed) }
+// AddArc adds the part of c from arc length s0 to s1, as Sub takes it: for
+// a closed curve s1 < s0 wraps through the start. It panics for an open
+// curve unless s0 < s1.
+func (b *Builder) AddArc(c *Curve, s0, s1 float64) {
+	i0, u0 := c.Locate(s0)
+	i1, u1 := c.Locate(s1)
+	c.subTo(b, i0, u0, i1, u1)
+}
+
+// Curve returns the curve of the pieces added, closed or not.
+func (b *Builder) Curve(closed bool) *Curve { return curveNew(b.ts, b.xs, b.ys, closed) }
 
 // Sub returns the part of c from arc length s0 to s1 as a new curve. For a
 // closed curve s1 < s0 wraps through the start; s0 == s1 on a closed curve
 // returns the whole loop starting at s0, closed. It panics for an open curve
 // unless s0 < s1.
 func (c *Curve) Sub(s0, s1 float64) *Curve {
-	var b curveBuilder
-	i0, u0 := c.Locate(s0)
-	i1, u1 := c.Locate(s1)
-	c.subTo(&b, i0, u0, i1, u1)
-	return b.curve(c.closed && s0 == s1)
+	var b Builder
+	b.AddArc(c, s0, s1)
+	return b.Curve(c.closed && s0 == s1)
 }
 
-func (c *Curve) subTo(b *curveBuilder, i0 int, u0 float64, i1 int, u1 float64) {
+func (c *Curve) subTo(b *Builder, i0 int, u0 float64, i1 int, u1 float64) {
 	np := len(c.xs)
 	if i0 == i1 && u1 > u0 {
 		b.addPiece(c, i0, u0, u1)

@@ -77,18 +77,19 @@ func TestCurveOperations(t *testing.T) {
 			t.Errorf("reverse: curvature at %g: %g vs %g", s, c.Curvature(s), r.Curvature(L-s))
 		}
 	}
-	f := Frame{Chord: 152.4, TwistDeg: 7, LE: [2]float64{37, -12}}
-	m := f.frameMatrix()
-	// The inverse of ToChord as a matrix: ToPart's linear part.
-	det := m[0][0]*m[1][1] - m[0][1]*m[1][0]
-	inv := [2][2]float64{{m[1][1] / det, -m[0][1] / det}, {-m[1][0] / det, m[0][0] / det}}
+	// The map of a section frame back to the part, chord 152.4, twist 7°,
+	// leading edge (37, −12): p = LE + c·R(−τ)·q.
+	const chord = 152.4
+	tw := 7 * math.Pi / 180
+	inv := [2][2]float64{{chord * math.Cos(tw), chord * math.Sin(tw)}, {-chord * math.Sin(tw), chord * math.Cos(tw)}}
+	toPart := func(q Point) Point { return q.Rotate(-tw).Scale(chord).Add(Point{37, -12}) }
 	p := c.Transform(inv, Point{37, -12})
 	if math.Abs(p.Length()-152.4*L) > 1e-9*152.4 {
 		t.Errorf("transform length %g, want %g", p.Length(), 152.4*L)
 	}
 	for k := 0; k <= 20; k++ {
 		s := L * float64(k) / 20
-		if d := p.At(152.4 * s).Dist(f.ToPart(c.At(s))); d > 1e-9*152.4 {
+		if d := p.At(152.4 * s).Dist(toPart(c.At(s))); d > 1e-9*152.4 {
 			t.Errorf("transform: At differs by %g", d)
 		}
 	}

@@ -5,6 +5,7 @@ import (
 	"math"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/frame"
 	"github.com/foilwright/foilwright/geometry/props"
 )
 
@@ -25,7 +26,7 @@ func ExampleNormalize() {
 	if err != nil {
 		panic(err)
 	}
-	nz, err := geometry.Normalize(cv, geometry.EdgeOptions{})
+	nz, err := frame.Normalize(cv, frame.Options{})
 	if err != nil {
 		panic(err)
 	}

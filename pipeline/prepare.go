@@ -13,6 +13,7 @@ import (
 	"strings"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/frame"
 	"github.com/foilwright/foilwright/geometry/props"
 	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/plot"
@@ -42,7 +43,7 @@ type Preparation struct {
 	Contour  *geometry.Contour     // the kept points, in order, input coordinates (plane coordinates for 3D input)
 	Curve    *geometry.Curve       // the fitted curve, same coordinates as Contour
 	Fit      *geometry.FitReport
-	Shape    *geometry.Normalized // the normalised curve, chord units
+	Shape    *frame.Normalized // the normalised curve, chord units
 	Props    *props.SectionProperties
 	Camber   *props.CamberLine
 	Quality  repanel.Quality
@@ -168,7 +169,7 @@ func Prepare(name string, files []InputFile, s PrepSettings) (*Preparation, erro
 	}
 	p.Curve, p.Fit = curve, fit
 
-	eo := geometry.EdgeOptions{TE: s.TE, Mirror: s.Mirror}
+	eo := frame.Options{TE: s.TE, Mirror: s.Mirror}
 	if s.TEBlend != nil {
 		eo.Blend = *s.TEBlend
 	}
@@ -176,7 +177,7 @@ func Prepare(name string, files []InputFile, s PrepSettings) (*Preparation, erro
 		at := geometry.Point{X: s.LEAt[0], Y: s.LEAt[1]}
 		eo.LEAt = &at
 	}
-	shape, err := geometry.Normalize(curve, eo)
+	shape, err := frame.Normalize(curve, eo)
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", strings.Join(names, ", "), err)
 	}

@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/frame"
 )
 
 // FuzzFitNormalize feeds arbitrary loops through Fit, Normalize and
@@ -45,8 +46,8 @@ func FuzzFitNormalize(f *testing.F) {
 			if err != nil {
 				continue
 			}
-			for _, te := range []string{geometry.TEAuto, geometry.TEClose, geometry.TESharpen} {
-				nz, err := geometry.Normalize(cv, geometry.EdgeOptions{TE: te})
+			for _, te := range []string{frame.TEAuto, frame.TEClose, frame.TESharpen} {
+				nz, err := frame.Normalize(cv, frame.Options{TE: te})
 				if err != nil {
 					continue
 				}

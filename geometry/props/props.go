@@ -6,6 +6,7 @@ import (
 	"math"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/frame"
 	"github.com/foilwright/foilwright/internal/numeric"
 )
 
@@ -287,11 +288,11 @@ func Compute(p geometry.Path, sLE float64, opts Options) (*SectionProperties, *C
 	sp.TEThickness = c.Start().Dist(c.End())
 	tu, tl := c.Tangent(0), c.Tangent(L).Scale(-1)
 	sp.TEAngleDeg = math.Acos(math.Max(-1, math.Min(1, tu.Dot(tl)))) * 180 / math.Pi
-	if ta, tb := c.Tangent(L), c.Tangent(0); sp.TEThickness <= 1e-9 && math.Abs(geometry.Turn(ta, tb)) <= geometry.CornerTurn {
+	if ta, tb := c.Tangent(L), c.Tangent(0); sp.TEThickness <= 1e-9 && math.Abs(geometry.Turn(ta, tb)) <= frame.CornerTurn {
 		// A rounded edge, kept: the path runs smoothly through the tip, so
 		// the end tangents are one line. Measure the surfaces just ahead of
 		// the rounding instead.
-		if r, ok := geometry.AnalyseRounded(c, 0, 1); ok {
+		if r, ok := frame.AnalyseRounded(c, 0, 1); ok {
 			sp.TEAngleDeg = r.Angle * 180 / math.Pi
 			sp.TEThickness = r.Thickness
 		}

@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/frame"
 	"github.com/foilwright/foilwright/internal/testfoil"
 	"gonum.org/v1/gonum/integrate/quad"
 )
@@ -13,7 +14,7 @@ import (
 // testSection fits and normalises a NACA 4-digit contour (NACA Report
 // 824 equations) placed with 152.4 mm chord, 7° rotation, a shift and
 // 0.02 mm noise (fixed seed), or noise-free when noise is 0.
-func testSection(t *testing.T, code string, sharp bool, noise float64, opts geometry.EdgeOptions) (*geometry.Normalized, geometry.NACA4) {
+func testSection(t *testing.T, code string, sharp bool, noise float64, opts frame.Options) (*frame.Normalized, geometry.NACA4) {
 	t.Helper()
 	n, err := geometry.ParseNACA4(code)
 	if err != nil {
@@ -31,7 +32,7 @@ func testSection(t *testing.T, code string, sharp bool, noise float64, opts geom
 		p := part.ToPart(*opts.LEAt)
 		opts.LEAt = &p
 	}
-	nz, err := geometry.Normalize(cv, opts)
+	nz, err := frame.Normalize(cv, opts)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -42,7 +43,7 @@ func TestPropertiesNACA(t *testing.T) {
 	for _, code := range []string{"0012", "2412"} {
 		// The 2412 chord line is set at the Report 824 nose so that camber
 		// is measured from the Report 824 chord line.
-		var opts geometry.EdgeOptions
+		var opts frame.Options
 		if code == "2412" {
 			opts.LEAt = &geometry.Point{}
 		}
@@ -94,7 +95,7 @@ func TestPropertiesAreaAndMoments(t *testing.T) {
 	// integral of the thickness equation (NACA Report 824); centroid and
 	// second moments against gonum quad (Gauss–Legendre, x = u² to remove
 	// the square-root singularity) applied to the same equation.
-	nz, n := testSection(t, "0012", false, 0, geometry.EdgeOptions{})
+	nz, n := testSection(t, "0012", false, 0, frame.Options{})
 	sp, _, err := Compute(nz.Path, nz.SLE, Options{})
 	if err != nil {
 		t.Fatal(err)
@@ -188,7 +189,7 @@ func TestPropertiesModes(t *testing.T) {
 	// The Report 824 thickness is laid off normal to the camber line, so
 	// thickness normal to the camber line is again 0.12; the inscribed-circle
 	// camber line of a section this thin stays within 0.001 of the mean one.
-	nz, _ := testSection(t, "2412", false, 0, geometry.EdgeOptions{LEAt: &geometry.Point{}})
+	nz, _ := testSection(t, "2412", false, 0, frame.Options{LEAt: &geometry.Point{}})
 	mean, _, err := Compute(nz.Path, nz.SLE, Options{})
 	if err != nil {
 		t.Fatal(err)
@@ -227,7 +228,7 @@ func BenchmarkNormalizeAndProperties(b *testing.B) {
 		b.Fatal(err)
 	}
 	for b.Loop() {
-		nz, err := geometry.Normalize(cv, geometry.EdgeOptions{})
+		nz, err := frame.Normalize(cv, frame.Options{})
 		if err != nil {
 			b.Fatal(err)
 		}
@@ -248,7 +249,7 @@ func TestPropertiesAnyPath(t *testing.T) {
 	// A Path that is not a *Curve is resampled and interpolated; its
 	// properties agree with those of the curve itself.
 	for _, sharp := range []bool{false, true} {
-		nz, _ := testSection(t, "2412", sharp, 0, geometry.EdgeOptions{})
+		nz, _ := testSection(t, "2412", sharp, 0, frame.Options{})
 		want, _, err := Compute(nz.Path, nz.SLE, Options{})
 		if err != nil {
 			t.Fatal(err)

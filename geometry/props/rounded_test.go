@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/frame"
 	"github.com/foilwright/foilwright/internal/testfoil"
 )
 
@@ -66,11 +67,11 @@ func roundedCheck(t *testing.T, bl testfoil.RoundedBlade, c *geometry.Contour, s
 		t.Errorf("fit ends %q, want closed (a rounded edge)", rep.Ends)
 		return wantLER
 	}
-	keep, err := geometry.Normalize(cv, geometry.EdgeOptions{})
+	keep, err := frame.Normalize(cv, frame.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
-	if keep.TE.Kind != geometry.TERounded || keep.TE.Action != geometry.TEKept || !keep.Path.(*geometry.Curve).Closed() {
+	if keep.TE.Kind != frame.TERounded || keep.TE.Action != frame.TEKept || !keep.Path.(*geometry.Curve).Closed() {
 		t.Fatalf("auto: %+v, want rounded, kept, closed path", keep.TE)
 	}
 	if d := keep.Frame.ToPart(geometry.Point{X: 1, Y: 0}).Dist(tip); d > 0.1 {
@@ -90,11 +91,11 @@ func roundedCheck(t *testing.T, bl testfoil.RoundedBlade, c *geometry.Contour, s
 	if math.Abs(sp.LERadius/wantLER-1) > lerTol {
 		t.Errorf("LE radius %.5f, want %.5f (1.1019 t², NACA Report 824) within %.0f%%", sp.LERadius, wantLER, 100*lerTol)
 	}
-	sh, err := geometry.Normalize(cv, geometry.EdgeOptions{TE: geometry.TESharpen})
+	sh, err := frame.Normalize(cv, frame.Options{TE: frame.TESharpen})
 	if err != nil {
 		t.Fatal(err)
 	}
-	if sh.TE.Kind != geometry.TERounded || sh.TE.Action != geometry.TESharpened || sh.TE.Thickness != 0 {
+	if sh.TE.Kind != frame.TERounded || sh.TE.Action != frame.TESharpened || sh.TE.Thickness != 0 {
 		t.Errorf("sharpen: %+v, want rounded, sharpened, thickness 0", sh.TE)
 	}
 	got := sh.Frame.ToPart(geometry.Point{X: 1, Y: 0})

@@ -1,8 +1,10 @@
-package geometry
+package frame
 
 import (
 	"fmt"
 	"math"
+
+	"github.com/foilwright/foilwright/geometry"
 )
 
 // Frame maps the normalised section back to the part, in input units:
@@ -16,7 +18,7 @@ type Frame struct {
 	Mirrored bool       `json:"mirrored"`
 	// Plane is set when the section was cut from or fitted to 3D data: the
 	// section's 2D input coordinates (u, v) are Origin + u·U + v·V in space.
-	Plane *Plane `json:"plane,omitempty"`
+	Plane *geometry.Plane `json:"plane,omitempty"`
 }
 
 // TrailingEdge reports the kind of trailing edge found and what was done to it.
@@ -27,9 +29,9 @@ type TrailingEdge struct {
 	MaxShift  float64 `json:"max_shift"` // input units
 }
 
-// frameMatrix returns the linear part of ToChord: R(τ)·M/c, with M the
+// matrix returns the linear part of ToChord: R(τ)·M/c, with M the
 // mirror x ↦ −x when mirrored.
-func (f Frame) frameMatrix() [2][2]float64 {
+func (f Frame) matrix() [2][2]float64 {
 	s, c := math.Sincos(f.TwistDeg * math.Pi / 180)
 	m := [2][2]float64{{c / f.Chord, -s / f.Chord}, {s / f.Chord, c / f.Chord}}
 	if f.Mirrored {
@@ -46,13 +48,13 @@ func (f Frame) frameMatrix() [2][2]float64 {
 // where c is the chord, τ the twist (radians, positive nose-up), R(τ) the
 // counter-clockwise rotation by τ, and M the mirror x ↦ −x when Mirrored.
 // It is the exact inverse of ToPart. It panics if the chord is not positive.
-func (f Frame) ToChord(p Point) Point {
+func (f Frame) ToChord(p geometry.Point) geometry.Point {
 	if !(f.Chord > 0) {
 		panic("geometry: frame with non-positive chord")
 	}
-	m := f.frameMatrix()
-	d := p.Sub(Point{f.LE[0], f.LE[1]})
-	return Point{m[0][0]*d.X + m[0][1]*d.Y, m[1][0]*d.X + m[1][1]*d.Y}
+	m := f.matrix()
+	d := p.Sub(geometry.Point{X: f.LE[0], Y: f.LE[1]})
+	return geometry.Point{X: m[0][0]*d.X + m[0][1]*d.Y, Y: m[1][0]*d.X + m[1][1]*d.Y}
 }
 
 // ToPart maps a point q of the normalised frame back to the part:
@@ -61,7 +63,7 @@ func (f Frame) ToChord(p Point) Point {
 //
 // It is the exact inverse of ToChord. It panics if the chord is not
 // positive.
-func (f Frame) ToPart(q Point) Point {
+func (f Frame) ToPart(q geometry.Point) geometry.Point {
 	if !(f.Chord > 0) {
 		panic("geometry: frame with non-positive chord")
 	}
@@ -69,12 +71,12 @@ func (f Frame) ToPart(q Point) Point {
 	if f.Mirrored {
 		p.X = -p.X
 	}
-	return p.Add(Point{f.LE[0], f.LE[1]})
+	return p.Add(geometry.Point{X: f.LE[0], Y: f.LE[1]})
 }
 
-// frameFrom returns the frame whose leading edge is le and whose
+// fromEdges returns the frame whose leading edge is le and whose
 // trailing-edge midpoint is te.
-func frameFrom(le, te Point, mirrored bool) Frame {
+func fromEdges(le, te geometry.Point, mirrored bool) Frame {
 	d := te.Sub(le)
 	if mirrored {
 		d.X = -d.X
@@ -89,7 +91,7 @@ type Normalized struct {
 	// (first point = last point = (1, 0)) for a sharp, closed, sharpened or
 	// kept rounded trailing edge; open from the upper to the lower corner
 	// for a kept blunt or open edge. It is a *Curve.
-	Path Path
+	Path geometry.Path
 	// SLE is the arc length of the leading edge (0, 0) along Path.
 	SLE float64
 	// Frame maps Path back to the part.
@@ -113,7 +115,7 @@ type Normalized struct {
 // farthest from the leading edge (common practice); TEKeep (and TEAuto)
 // keep it as a closed path through the tip, TESharpen extends the straight
 // continuations of both surfaces just ahead of the rounding to their
-// intersection (see EdgeOptions.TE). TrailingEdge.Thickness of a kept
+// intersection (see Options.TE). TrailingEdge.Thickness of a kept
 // rounded edge is the distance between the surfaces where the rounding
 // starts.
 //
@@ -132,7 +134,7 @@ type Normalized struct {
 // Normalize returns an error wrapping ErrNoLeadingEdge for a body with no
 // distinct nose and tail (a circle, a square), and ErrTrailingEdge when the
 // requested treatment cannot be applied.
-func Normalize(cv *Curve, opts EdgeOptions) (*Normalized, error) {
+func Normalize(cv *geometry.Curve, opts Options) (*Normalized, error) {
 	switch opts.TE {
 	case "", TEAuto, TEKeep, TEClose, TESharpen:
 	default:
@@ -147,15 +149,15 @@ func Normalize(cv *Curve, opts EdgeOptions) (*Normalized, error) {
 		return nil, fmt.Errorf("geometry: blend %g: want a chord fraction in (0, 1)", opts.Blend)
 	}
 	if opts.LEAt != nil && !opts.LEAt.IsFinite() {
-		return nil, fmt.Errorf("geometry: leading edge at (%g, %g): %w", opts.LEAt.X, opts.LEAt.Y, ErrNonFinite)
+		return nil, fmt.Errorf("geometry: leading edge at (%g, %g): %w", opts.LEAt.X, opts.LEAt.Y, geometry.ErrNonFinite)
 	}
 	out := &Normalized{}
 	warn := func(s string) { out.Warnings = append(out.Warnings, s) }
-	e, err := edgeLocate(cv, opts.LEAt)
+	e, err := locate(cv, opts.LEAt)
 	if err != nil {
 		return nil, err
 	}
-	treated, action, shift, err := edgeTreat(cv, e, opts, warn)
+	treated, action, shift, err := treat(cv, e, opts, warn)
 	if err != nil {
 		return nil, err
 	}
@@ -170,7 +172,7 @@ func Normalize(cv *Curve, opts EdgeOptions) (*Normalized, error) {
 	}
 	// Trailing-edge point and leading edge of the treated curve.
 	te := e.te
-	if treated.closed {
+	if treated.Closed() {
 		te = treated.Start()
 	} else {
 		te = treated.Start().Add(treated.End()).Scale(0.5)
@@ -178,16 +180,16 @@ func Normalize(cv *Curve, opts EdgeOptions) (*Normalized, error) {
 	var sLE float64
 	if opts.LEAt != nil {
 		sLE, _ = treated.Project(*opts.LEAt)
-	} else if treated.closed {
+	} else if treated.Closed() {
 		// Keep the search away from the trailing edge itself.
 		L := treated.Length()
-		sLE, _ = edgeFarthest(treated, te, 0.05*L, 0.95*L)
+		sLE, _ = treated.Farthest(te, 0.05*L, 0.95*L)
 	} else {
-		sLE, _ = edgeFarthest(treated, te, 0, treated.Length())
+		sLE, _ = treated.Farthest(te, 0, treated.Length())
 	}
 	le := treated.At(sLE)
-	fr := frameFrom(le, te, false)
-	chord := fr.frameApply(treated)
+	fr := fromEdges(le, te, false)
+	chord := fr.apply(treated)
 	var mirrored bool
 	switch opts.Mirror {
 	case MirrorYes:
@@ -207,8 +209,8 @@ func Normalize(cv *Curve, opts EdgeOptions) (*Normalized, error) {
 	// other end.
 	out.SLE = sLE / fr.Chord
 	if mirrored {
-		fr = frameFrom(le, te, true)
-		chord = fr.frameApply(treated).Reverse()
+		fr = fromEdges(le, te, true)
+		chord = fr.apply(treated).Reverse()
 		out.SLE = chord.Length() - sLE/fr.Chord
 	}
 	out.Frame = fr
@@ -216,10 +218,10 @@ func Normalize(cv *Curve, opts EdgeOptions) (*Normalized, error) {
 	return out, nil
 }
 
-// frameApply maps cv into the normalised frame of f.
-func (f Frame) frameApply(cv *Curve) *Curve {
-	m := f.frameMatrix()
-	le := Point{f.LE[0], f.LE[1]}
-	b := Point{-(m[0][0]*le.X + m[0][1]*le.Y), -(m[1][0]*le.X + m[1][1]*le.Y)}
+// apply maps cv into the normalised frame of f.
+func (f Frame) apply(cv *geometry.Curve) *geometry.Curve {
+	m := f.matrix()
+	le := geometry.Point{X: f.LE[0], Y: f.LE[1]}
+	b := geometry.Point{X: -(m[0][0]*le.X + m[0][1]*le.Y), Y: -(m[1][0]*le.X + m[1][1]*le.Y)}
 	return cv.Transform(m, b)
 }

@@ -1,10 +1,13 @@
-package geometry
+package frame
 
 import (
 	"errors"
 	"math"
 	"strings"
 	"testing"
+
+	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/internal/testfoil"
 )
 
 // frameExpected returns the frame of the analytic outline placed by part,
@@ -13,18 +16,18 @@ import (
 // practice), found on the dense analytic polyline (NACA Report 824
 // equations). For a cambered section that chord line differs from the
 // Report 824 one (about 0.09° for the 2412).
-func frameExpected(n NACA4, part fitTestPart, mirrored bool) (Frame, []Point) {
-	dense := fitTestDense(n)
+func frameExpected(n geometry.NACA4, part testfoil.Part, mirrored bool) (Frame, []geometry.Point) {
+	dense := testfoil.Dense(n)
 	te := dense[0].Add(dense[len(dense)-1]).Scale(0.5)
-	le := fitTestFarthest(dense, te)
-	lp, tp := part.toPart(le), part.toPart(te)
+	le := testfoil.Farthest(dense, te)
+	lp, tp := part.ToPart(le), part.ToPart(te)
 	d := tp.Sub(lp)
 	if mirrored {
 		d.X = -d.X
 	}
 	f := Frame{Chord: lp.Dist(tp), TwistDeg: -math.Atan2(d.Y, d.X) * 180 / math.Pi, LE: [2]float64{lp.X, lp.Y}, Mirrored: mirrored}
 	for i := range dense {
-		dense[i] = f.ToChord(part.toPart(dense[i]))
+		dense[i] = f.ToChord(part.ToPart(dense[i]))
 	}
 	return f, dense
 }
@@ -59,15 +62,15 @@ func TestNormalizeNACA(t *testing.T) {
 		{"0012", true, TESharp},
 		{"2412", true, TESharp},
 	} {
-		n, _ := ParseNACA4(tc.code)
+		n, _ := geometry.ParseNACA4(tc.code)
 		n.SharpTE = tc.sharp
-		part := fitTestPart{chord: 152.4, rotDeg: 7, shift: Point{37, -12}, noise: 0.02, seed: 42}
-		c := fitTestContour(fitTestLoop(n, 150), part)
-		cv, _, err := Fit(c, FitOptions{Noise: 0.02})
+		part := testfoil.Part{Chord: 152.4, RotDeg: 7, Shift: geometry.Point{X: 37, Y: -12}, Noise: 0.02, Seed: 42}
+		c := testfoil.Contour(testfoil.Loop(n, 150), part)
+		cv, _, err := geometry.Fit(c, geometry.FitOptions{Noise: 0.02})
 		if err != nil {
 			t.Fatal(err)
 		}
-		nz, err := Normalize(cv, EdgeOptions{})
+		nz, err := Normalize(cv, Options{})
 		if err != nil {
 			t.Fatalf("%s sharp=%v: %v", tc.code, tc.sharp, err)
 		}
@@ -96,14 +99,14 @@ func TestNormalizeNACA(t *testing.T) {
 		if math.Abs(nz.TE.Thickness-wantGap) > gapTol {
 			t.Errorf("%s: TE thickness %.5f, want %.5f", name, nz.TE.Thickness, wantGap)
 		}
-		p := nz.Path.(*Curve)
+		p := nz.Path.(*geometry.Curve)
 		if p.Closed() != tc.sharp {
 			t.Errorf("%s: closed = %v", name, p.Closed())
 		}
 		if d := p.At(nz.SLE).Norm(); d > 1e-9 {
 			t.Errorf("%s: point at SLE is %g from the origin", name, d)
 		}
-		d := fitTestMaxDist(p.Samples(4000), dense)
+		d := testfoil.MaxDist(p.Samples(4000), dense)
 		if d > curveTol {
 			t.Errorf("%s: normalised curve departs %.5f chord from the analytic contour", name, d)
 		}
@@ -119,15 +122,15 @@ func TestNormalizeNACA(t *testing.T) {
 func TestNormalizeLEAt(t *testing.T) {
 	// With the leading edge set at the Report 824 nose (x = 0), the chord
 	// line is that of NACA Report 824: twist −7° exactly as placed.
-	n, _ := ParseNACA4("2412")
-	part := fitTestPart{chord: 152.4, rotDeg: 7, shift: Point{37, -12}, noise: 0.02, seed: 42}
-	c := fitTestContour(fitTestLoop(n, 150), part)
-	cv, _, err := Fit(c, FitOptions{Noise: 0.02})
+	n, _ := geometry.ParseNACA4("2412")
+	part := testfoil.Part{Chord: 152.4, RotDeg: 7, Shift: geometry.Point{X: 37, Y: -12}, Noise: 0.02, Seed: 42}
+	c := testfoil.Contour(testfoil.Loop(n, 150), part)
+	cv, _, err := geometry.Fit(c, geometry.FitOptions{Noise: 0.02})
 	if err != nil {
 		t.Fatal(err)
 	}
-	le := part.toPart(Point{})
-	nz, err := Normalize(cv, EdgeOptions{LEAt: &le})
+	le := part.ToPart(geometry.Point{})
+	nz, err := Normalize(cv, Options{LEAt: &le})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -147,7 +150,7 @@ func TestFrameRoundTrip(t *testing.T) {
 		{Chord: 0.3, TwistDeg: 173.2, LE: [2]float64{-1e3, 2e3}, Mirrored: true},
 		{Chord: 1, TwistDeg: 0},
 	} {
-		for _, q := range []Point{{0, 0}, {1, 0}, {0.3, 0.06}, {0.7, -0.02}, {-2, 5}} {
+		for _, q := range []geometry.Point{{X: 0, Y: 0}, {X: 1, Y: 0}, {X: 0.3, Y: 0.06}, {X: 0.7, Y: -0.02}, {X: -2, Y: 5}} {
 			p := f.ToPart(q)
 			if r := f.ToChord(p); r.Dist(q) > tol*(1+q.Norm()) {
 				t.Errorf("%+v: ToChord(ToPart(%v)) = %v", f, q, r)
@@ -156,13 +159,13 @@ func TestFrameRoundTrip(t *testing.T) {
 				t.Errorf("%+v: ToPart(ToChord(%v)) = %v", f, p, r)
 			}
 		}
-		if got := f.ToPart(Point{}); got.Dist(Point{f.LE[0], f.LE[1]}) > tol*(1+got.Norm()) {
+		if got := f.ToPart(geometry.Point{}); got.Dist(geometry.Point{X: f.LE[0], Y: f.LE[1]}) > tol*(1+got.Norm()) {
 			t.Errorf("%+v: leading edge maps to %v", f, got)
 		}
 	}
 	// Nose-up twist puts the trailing edge below the leading edge.
 	f := Frame{Chord: 1, TwistDeg: 5}
-	if te := f.ToPart(Point{1, 0}); !(te.Y < 0) {
+	if te := f.ToPart(geometry.Point{X: 1, Y: 0}); !(te.Y < 0) {
 		t.Errorf("twist +5° (nose up): trailing edge at %v, want below the leading edge", te)
 	}
 }
@@ -170,18 +173,18 @@ func TestFrameRoundTrip(t *testing.T) {
 func TestNormalizeMirrored(t *testing.T) {
 	// A 2412 with the nose pointing the other way, or measured upside down,
 	// shows negative camber until it is mirrored.
-	n, _ := ParseNACA4("2412")
+	n, _ := geometry.ParseNACA4("2412")
 	for _, tc := range []struct {
 		name         string
 		flipX, flipY bool
 	}{{"nose reversed", true, false}, {"upside down", false, true}} {
-		part := fitTestPart{chord: 152.4, rotDeg: 7, shift: Point{37, -12}, noise: 0.02, seed: 9, flipX: tc.flipX, flipY: tc.flipY}
-		c := fitTestContour(fitTestLoop(n, 150), part)
-		cv, _, err := Fit(c, FitOptions{Noise: 0.02})
+		part := testfoil.Part{Chord: 152.4, RotDeg: 7, Shift: geometry.Point{X: 37, Y: -12}, Noise: 0.02, Seed: 9, FlipX: tc.flipX, FlipY: tc.flipY}
+		c := testfoil.Contour(testfoil.Loop(n, 150), part)
+		cv, _, err := geometry.Fit(c, geometry.FitOptions{Noise: 0.02})
 		if err != nil {
 			t.Fatal(err)
 		}
-		nz, err := Normalize(cv, EdgeOptions{})
+		nz, err := Normalize(cv, Options{})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -193,8 +196,8 @@ func TestNormalizeMirrored(t *testing.T) {
 		if d := frameAngleDiff(nz.Frame.TwistDeg, want.TwistDeg); math.Abs(d) > 0.05 {
 			t.Errorf("%s: twist %.4f°, want %.4f°", tc.name, nz.Frame.TwistDeg, want.TwistDeg)
 		}
-		p := nz.Path.(*Curve)
-		if d := fitTestMaxDist(p.Samples(4000), dense); d > 0.001 {
+		p := nz.Path.(*geometry.Curve)
+		if d := testfoil.MaxDist(p.Samples(4000), dense); d > 0.001 {
 			t.Errorf("%s: normalised curve departs %.5f chord from the analytic contour", tc.name, d)
 		}
 		// Mapping the normalised curve back lands on the measured points.
@@ -207,11 +210,11 @@ func TestNormalizeMirrored(t *testing.T) {
 			t.Errorf("%s: measured points up to %.3f mm from the mapped-back curve", tc.name, worst)
 		}
 		// Forcing no mirror keeps it upside down.
-		nz2, err := Normalize(cv, EdgeOptions{Mirror: MirrorNo})
+		nz2, err := Normalize(cv, Options{Mirror: MirrorNo})
 		if err != nil {
 			t.Fatal(err)
 		}
-		if _, cy := nz2.Path.(*Curve).Centroid(); nz2.Frame.Mirrored || cy >= 0 {
+		if _, cy := nz2.Path.(*geometry.Curve).Centroid(); nz2.Frame.Mirrored || cy >= 0 {
 			t.Errorf("%s: mirror no: mirrored %v, centroid y %g", tc.name, nz2.Frame.Mirrored, cy)
 		}
 	}
@@ -219,36 +222,36 @@ func TestNormalizeMirrored(t *testing.T) {
 
 func TestNormalizeNoLeadingEdge(t *testing.T) {
 	// A circle and a square have no distinct nose and tail.
-	circle := &Contour{}
+	circle := &geometry.Contour{}
 	for i := range 64 {
 		a := 2 * math.Pi * float64(i) / 64
-		circle.Points = append(circle.Points, Point{10 + 5*math.Cos(a), 5 * math.Sin(a)})
+		circle.Points = append(circle.Points, geometry.Point{X: 10 + 5*math.Cos(a), Y: 5 * math.Sin(a)})
 	}
-	square := &Contour{}
+	square := &geometry.Contour{}
 	for i := range 40 {
 		s := float64(i%10) / 10
-		var p Point
+		var p geometry.Point
 		switch i / 10 {
 		case 0:
-			p = Point{1, s}
+			p = geometry.Point{X: 1, Y: s}
 		case 1:
-			p = Point{1 - s, 1}
+			p = geometry.Point{X: 1 - s, Y: 1}
 		case 2:
-			p = Point{0, 1 - s}
+			p = geometry.Point{X: 0, Y: 1 - s}
 		default:
-			p = Point{s, 0}
+			p = geometry.Point{X: s, Y: 0}
 		}
 		square.Points = append(square.Points, p)
 	}
 	for _, tc := range []struct {
 		name string
-		c    *Contour
+		c    *geometry.Contour
 	}{{"circle", circle}, {"square", square}} {
-		cv, _, err := Fit(tc.c, FitOptions{Exact: true})
+		cv, _, err := geometry.Fit(tc.c, geometry.FitOptions{Exact: true})
 		if err != nil {
 			t.Fatal(err)
 		}
-		_, err = Normalize(cv, EdgeOptions{})
+		_, err = Normalize(cv, Options{})
 		if !errors.Is(err, ErrNoLeadingEdge) || !strings.Contains(err.Error(), "--le-at") {
 			t.Errorf("%s: err = %v, want ErrNoLeadingEdge mentioning --le-at", tc.name, err)
 		}
@@ -260,8 +263,8 @@ func TestNormalizeIdempotent(t *testing.T) {
 	// twist, leading edge at the origin (exact by the frame's definition).
 	const tol = 1e-7
 	for _, sharp := range []bool{false, true} {
-		nz, _ := frameTestSection(t, "2412", sharp, 0.02, EdgeOptions{})
-		again, err := Normalize(nz.Path.(*Curve), EdgeOptions{Mirror: MirrorNo})
+		nz, _ := frameTestSection(t, "2412", sharp, 0.02, Options{})
+		again, err := Normalize(nz.Path.(*geometry.Curve), Options{Mirror: MirrorNo})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -280,14 +283,14 @@ func TestNormalizeNACA4Loop(t *testing.T) {
 	// noise-free and interpolated: the open edge is blunt with thickness
 	// 2·yt(1) = 0.00252 of the Report 824 chord, and the chord is the
 	// farthest-point distance.
-	n, _ := ParseNACA4("0012")
-	part := fitTestPart{chord: 152.4, rotDeg: 7, shift: Point{37, -12}}
-	c := fitTestContour(n.Loop(100), part)
-	cv, _, err := Fit(c, FitOptions{Exact: true})
+	n, _ := geometry.ParseNACA4("0012")
+	part := testfoil.Part{Chord: 152.4, RotDeg: 7, Shift: geometry.Point{X: 37, Y: -12}}
+	c := testfoil.Contour(n.Loop(100), part)
+	cv, _, err := geometry.Fit(c, geometry.FitOptions{Exact: true})
 	if err != nil {
 		t.Fatal(err)
 	}
-	nz, err := Normalize(cv, EdgeOptions{})
+	nz, err := Normalize(cv, Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -298,7 +301,7 @@ func TestNormalizeNACA4Loop(t *testing.T) {
 	if math.Abs(nz.Frame.Chord/want.Chord-1) > 1e-6 || math.Abs(frameAngleDiff(nz.Frame.TwistDeg, want.TwistDeg)) > 1e-4 {
 		t.Errorf("frame %+v, want %+v", nz.Frame, want)
 	}
-	if d := fitTestMaxDist(nz.Path.(*Curve).Samples(4000), dense); d > 2e-5 {
+	if d := testfoil.MaxDist(nz.Path.(*geometry.Curve).Samples(4000), dense); d > 2e-5 {
 		t.Errorf("normalised curve departs %.2g chord from the analytic contour", d)
 	}
 }
@@ -306,22 +309,22 @@ func TestNormalizeNACA4Loop(t *testing.T) {
 // frameTestSection fits and normalises a NACA 4-digit contour (NACA Report
 // 824 equations) placed with 152.4 mm chord, 7° rotation, a shift and
 // 0.02 mm noise (fixed seed), or noise-free when noise is 0.
-func frameTestSection(t *testing.T, code string, sharp bool, noise float64, opts EdgeOptions) (*Normalized, NACA4) {
+func frameTestSection(t *testing.T, code string, sharp bool, noise float64, opts Options) (*Normalized, geometry.NACA4) {
 	t.Helper()
-	n, err := ParseNACA4(code)
+	n, err := geometry.ParseNACA4(code)
 	if err != nil {
 		t.Fatal(err)
 	}
 	n.SharpTE = sharp
-	part := fitTestPart{chord: 152.4, rotDeg: 7, shift: Point{37, -12}, noise: noise, seed: 42}
-	c := fitTestContour(fitTestLoop(n, 150), part)
-	fo := FitOptions{Noise: noise, Exact: noise == 0}
-	cv, _, err := Fit(c, fo)
+	part := testfoil.Part{Chord: 152.4, RotDeg: 7, Shift: geometry.Point{X: 37, Y: -12}, Noise: noise, Seed: 42}
+	c := testfoil.Contour(testfoil.Loop(n, 150), part)
+	fo := geometry.FitOptions{Noise: noise, Exact: noise == 0}
+	cv, _, err := geometry.Fit(c, fo)
 	if err != nil {
 		t.Fatal(err)
 	}
 	if opts.LEAt != nil {
-		p := part.toPart(*opts.LEAt)
+		p := part.ToPart(*opts.LEAt)
 		opts.LEAt = &p
 	}
 	nz, err := Normalize(cv, opts)
