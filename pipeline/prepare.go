@@ -13,6 +13,7 @@ import (
 	"strings"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/curve"
 	"github.com/foilwright/foilwright/geometry/frame"
 	"github.com/foilwright/foilwright/geometry/props"
 	"github.com/foilwright/foilwright/geometry/section"
@@ -41,8 +42,8 @@ type Preparation struct {
 	Flatness *geometry.Flatness    // set when the points were 3D
 	Clean    *geometry.CleanReport // merging, ordering, outliers, loops
 	Contour  *geometry.Contour     // the kept points, in order, input coordinates (plane coordinates for 3D input)
-	Curve    *geometry.Curve       // the fitted curve, same coordinates as Contour
-	Fit      *geometry.FitReport
+	Curve    *curve.Curve          // the fitted curve, same coordinates as Contour
+	Fit      *curve.FitReport
 	Shape    *frame.Normalized // the normalised curve, chord units
 	Props    *props.SectionProperties
 	Camber   *props.CamberLine
@@ -149,7 +150,7 @@ func Prepare(name string, files []InputFile, s PrepSettings) (*Preparation, erro
 	p := &Preparation{Clouds: cl.Clouds, Flatness: cl.Flatness, Clean: cl.Clean, Contour: cl.Contour}
 	contour, rep, plane, names := cl.Contour, cl.Clean, cl.Plane, cl.Files
 
-	var fo geometry.FitOptions
+	var fo curve.FitOptions
 	switch {
 	case s.Noise == nil:
 	case *s.Noise == 0:
@@ -163,7 +164,7 @@ func Prepare(name string, files []InputFile, s PrepSettings) (*Preparation, erro
 	if s.FitTol != nil {
 		fo.Tolerance = *s.FitTol
 	}
-	curve, fit, err := geometry.Fit(contour, fo)
+	curve, fit, err := curve.Fit(contour, fo)
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", strings.Join(names, ", "), err)
 	}
@@ -430,7 +431,7 @@ func (p *Preparation) WriteSummary(w io.Writer) {
 // modes name how thickness and camber were measured ("" when unknown).
 func WriteSectionReport(w io.Writer, s *section.Section, thicknessMode, camberMode string) {
 	u := string(s.Units)
-	if f := s.Fit; f != nil && f.Method == geometry.FitInterpolate {
+	if f := s.Fit; f != nil && f.Method == curve.FitInterpolate {
 		fmt.Fprintf(w, "  fit         interpolating spline through every kept point\n")
 	} else if f != nil {
 		fmt.Fprintf(w, "  fit         %s smoothing spline, RMS %.3g %s, max %.3g %s at %s", f.Method, f.RMS, u, f.Max, u, shortOrigin(f.MaxAt))

@@ -10,6 +10,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/curve"
 	"github.com/foilwright/foilwright/geometry/props"
 	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/plot"
@@ -153,7 +154,7 @@ func parsePair(s string) (geometry.Point, error) {
 // setProperties computes the properties of s from its nodes (through the
 // interpolating spline of the nodes) and returns the picture's data.
 func setProperties(s *section.Section) (plot.SectionData, error) {
-	cv, sle, err := geometry.NodeCurve(s.Nodes)
+	cv, sle, err := curve.NodeCurve(s.Nodes)
 	if err != nil {
 		return plot.SectionData{}, err
 	}

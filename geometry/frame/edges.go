@@ -6,6 +6,7 @@ import (
 	"math"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/curve"
 )
 
 // Trailing-edge kinds (TrailingEdge.Kind).
@@ -110,7 +111,7 @@ type edges struct {
 	roundOK bool
 }
 
-func locate(cv *geometry.Curve, leAt *geometry.Point) (*edges, error) {
+func locate(cv *curve.Curve, leAt *geometry.Point) (*edges, error) {
 	L := cv.Length()
 	e := &edges{}
 	leFrom := func(te geometry.Point) {
@@ -206,7 +207,7 @@ func locate(cv *geometry.Curve, leAt *geometry.Point) (*edges, error) {
 
 // treat applies the treatment to cv and returns the treated curve (input
 // coordinates), the action and the largest shift.
-func treat(cv *geometry.Curve, e *edges, opts Options, warn func(string)) (*geometry.Curve, string, float64, error) {
+func treat(cv *curve.Curve, e *edges, opts Options, warn func(string)) (*curve.Curve, string, float64, error) {
 	mode := opts.TE
 	if mode == "" || mode == TEAuto {
 		mode = TEKeep
@@ -261,7 +262,7 @@ func treat(cv *geometry.Curve, e *edges, opts Options, warn func(string)) (*geom
 // f(r) = r³(10 − 15r + 6r²) keeps the curvature continuous; the lower
 // surface likewise. The treated outline is resampled (every piece in the
 // blend region split in eight) and interpolated.
-func closeBlunt(cv *geometry.Curve, e *edges, blend float64) (*geometry.Curve, float64) {
+func closeBlunt(cv *curve.Curve, e *edges, blend float64) (*curve.Curve, float64) {
 	u, l := cv.Start(), cv.End()
 	dir := e.te.Sub(e.le).Scale(1 / e.chord)
 	xi := func(p geometry.Point) float64 { return p.Sub(e.le).Dot(dir) / e.chord }
@@ -296,7 +297,7 @@ func closeBlunt(cv *geometry.Curve, e *edges, blend float64) (*geometry.Curve, f
 	}
 	pts = append(pts, e.te)
 	pts[0] = e.te
-	return geometry.Interpolate(pts, false).WithClosed(true), e.gap / 2
+	return curve.Interpolate(pts, false).WithClosed(true), e.gap / 2
 }
 
 // meet returns the intersection of the lines p − a·tp and q + b·tq
@@ -319,13 +320,13 @@ func meet(p, tp, q, tq geometry.Point, limit float64) (geometry.Point, bool) {
 
 // extend sharpens a blunt or open edge by extending both surfaces along
 // their end tangents to where they meet.
-func extend(cv *geometry.Curve, e *edges) (*geometry.Curve, string, float64, error) {
+func extend(cv *curve.Curve, e *edges) (*curve.Curve, string, float64, error) {
 	u, l := cv.Start(), cv.End()
 	pt, ok := meet(u, cv.Tangent(0), l, cv.Tangent(cv.Length()), 0.5*e.chord)
 	if !ok {
 		return nil, "", 0, fmt.Errorf("geometry: %w: the surfaces do not converge behind the trailing edge, so they cannot be extended to a point (use keep or close)", ErrTrailingEdge)
 	}
-	var b geometry.Builder
+	var b curve.Builder
 	b.AddLine(pt, u)
 	b.AddArc(cv, 0, cv.Length())
 	b.AddLine(l, pt)
@@ -336,7 +337,7 @@ func extend(cv *geometry.Curve, e *edges) (*geometry.Curve, string, float64, err
 // surfaces: the straight lines that continue them just ahead of the
 // rounding (AnalyseRounded) are drawn to their intersection, which becomes
 // the trailing-edge point; the shift is its distance from the tip.
-func sharpenRounded(cv *geometry.Curve, e *edges) (*geometry.Curve, string, float64, error) {
+func sharpenRounded(cv *curve.Curve, e *edges) (*curve.Curve, string, float64, error) {
 	if !e.roundOK {
 		return nil, "", 0, fmt.Errorf("geometry: %w: the rounded end does not give way to straighter surfaces", ErrTrailingEdge)
 	}
@@ -344,7 +345,7 @@ func sharpenRounded(cv *geometry.Curve, e *edges) (*geometry.Curve, string, floa
 	if !r.sharpValid {
 		return nil, "", 0, fmt.Errorf("geometry: %w: the surfaces do not converge behind the rounded end", ErrTrailingEdge)
 	}
-	var b geometry.Builder
+	var b curve.Builder
 	b.AddLine(r.sharp, r.pu)
 	b.AddArc(cv, r.su, r.sl)
 	b.AddLine(r.pl, r.sharp)

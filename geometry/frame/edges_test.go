@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/curve"
 	"github.com/foilwright/foilwright/internal/testfoil"
 )
 
@@ -66,18 +67,18 @@ func TestTrailingEdgeRounded(t *testing.T) {
 	const r = 0.005
 	part := testfoil.Part{Chord: 100, RotDeg: -4, Shift: geometry.Point{X: 10, Y: 3}, Noise: 0.001, Seed: 11}
 	c := testfoil.Contour(edgeTestRounded(r, 150, 16), part)
-	cv, rep, err := geometry.Fit(c, geometry.FitOptions{})
+	cv, rep, err := curve.Fit(c, curve.FitOptions{})
 	if err != nil {
 		t.Fatal(err)
 	}
-	if rep.Ends != geometry.FitEndsClosed {
+	if rep.Ends != curve.FitEndsClosed {
 		t.Fatalf("ends %q, want closed (smooth rounded edge)", rep.Ends)
 	}
 	keep, err := Normalize(cv, Options{TE: TEKeep})
 	if err != nil {
 		t.Fatal(err)
 	}
-	if keep.TE.Kind != TERounded || keep.TE.Action != TEKept || !keep.Path.(*geometry.Curve).Closed() {
+	if keep.TE.Kind != TERounded || keep.TE.Action != TEKept || !keep.Path.(*curve.Curve).Closed() {
 		t.Errorf("keep: %+v", keep.TE)
 	}
 	if p := keep.Path.At(0); p.Dist(geometry.Point{X: 1, Y: 0}) > 1e-9 {
@@ -103,7 +104,7 @@ func TestTrailingEdgeRounded(t *testing.T) {
 	if math.Abs(sh.TE.MaxShift/want-1) > 0.10 {
 		t.Errorf("sharpened tip moved %.4f, want %.4f (exact offset geometry) within 10%%", sh.TE.MaxShift, want)
 	}
-	p := sh.Path.(*geometry.Curve)
+	p := sh.Path.(*curve.Curve)
 	if !p.Closed() || p.Start().Dist(geometry.Point{X: 1, Y: 0}) > 1e-9 || p.End().Dist(geometry.Point{X: 1, Y: 0}) > 1e-9 {
 		t.Errorf("sharpened path ends %v %v, want both at (1, 0)", p.Start(), p.End())
 	}
@@ -116,7 +117,7 @@ func TestTrailingEdgeBluntTreatments(t *testing.T) {
 	n, _ := geometry.ParseNACA4("0012")
 	part := testfoil.Part{Chord: 152.4, RotDeg: 7, Shift: geometry.Point{X: 37, Y: -12}, Noise: 0.02, Seed: 42}
 	c := testfoil.Contour(testfoil.Loop(n, 150), part)
-	cv, _, err := geometry.Fit(c, geometry.FitOptions{Noise: 0.02})
+	cv, _, err := curve.Fit(c, curve.FitOptions{Noise: 0.02})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -128,7 +129,7 @@ func TestTrailingEdgeBluntTreatments(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	p := cl.Path.(*geometry.Curve)
+	p := cl.Path.(*curve.Curve)
 	if cl.TE.Kind != TEBlunt || cl.TE.Action != TEClosed || !p.Closed() {
 		t.Errorf("close: %+v, closed %v", cl.TE, p.Closed())
 	}
@@ -140,7 +141,7 @@ func TestTrailingEdgeBluntTreatments(t *testing.T) {
 		t.Errorf("close: ends %v %v, want (1, 0)", p.Start(), p.End())
 	}
 	// Ahead of the blend region nothing moves.
-	kp := kept.Path.(*geometry.Curve)
+	kp := kept.Path.(*curve.Curve)
 	for _, x := range []float64{0.1, 0.5, 0.75} {
 		yu, yk := edgeTestUpperY(p, cl.SLE, x), edgeTestUpperY(kp, kept.SLE, x)
 		if math.Abs(yu-yk) > 2e-6 {
@@ -176,11 +177,11 @@ func TestTrailingEdgeOpen(t *testing.T) {
 		cut = append(cut, p)
 	}
 	c := testfoil.Contour(cut, testfoil.Part{Chord: 152.4, RotDeg: 7, Noise: 0.02, Seed: 4})
-	cv, rep, err := geometry.Fit(c, geometry.FitOptions{Noise: 0.02})
+	cv, rep, err := curve.Fit(c, curve.FitOptions{Noise: 0.02})
 	if err != nil {
 		t.Fatal(err)
 	}
-	if rep.Ends != geometry.FitEndsOpen || cv.End().Dist(c.Points[len(c.Points)-1]) > 0.01 {
+	if rep.Ends != curve.FitEndsOpen || cv.End().Dist(c.Points[len(c.Points)-1]) > 0.01 {
 		t.Fatalf("ends %q, curve end %v, want open at the last point %v", rep.Ends, cv.End(), c.Points[len(c.Points)-1])
 	}
 	nz, err := Normalize(cv, Options{})
@@ -195,7 +196,7 @@ func TestTrailingEdgeOpen(t *testing.T) {
 // edgeTestUpperY returns y of the upper surface of the normalised curve c
 // (leading edge at arc length sLE) at chord station x, by bisection on the
 // arc length: x falls from the trailing edge to the leading edge.
-func edgeTestUpperY(c *geometry.Curve, sLE, x float64) float64 {
+func edgeTestUpperY(c *curve.Curve, sLE, x float64) float64 {
 	a, b := 0.0, sLE
 	for range 100 {
 		m := (a + b) / 2

@@ -5,6 +5,7 @@ import (
 	"math"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/curve"
 )
 
 // Frame maps the normalised section back to the part, in input units:
@@ -134,7 +135,7 @@ type Normalized struct {
 // Normalize returns an error wrapping ErrNoLeadingEdge for a body with no
 // distinct nose and tail (a circle, a square), and ErrTrailingEdge when the
 // requested treatment cannot be applied.
-func Normalize(cv *geometry.Curve, opts Options) (*Normalized, error) {
+func Normalize(cv *curve.Curve, opts Options) (*Normalized, error) {
 	switch opts.TE {
 	case "", TEAuto, TEKeep, TEClose, TESharpen:
 	default:
@@ -219,7 +220,7 @@ func Normalize(cv *geometry.Curve, opts Options) (*Normalized, error) {
 }
 
 // apply maps cv into the normalised frame of f.
-func (f Frame) apply(cv *geometry.Curve) *geometry.Curve {
+func (f Frame) apply(cv *curve.Curve) *curve.Curve {
 	m := f.matrix()
 	le := geometry.Point{X: f.LE[0], Y: f.LE[1]}
 	b := geometry.Point{X: -(m[0][0]*le.X + m[0][1]*le.Y), Y: -(m[1][0]*le.X + m[1][1]*le.Y)}

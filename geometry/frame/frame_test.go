@@ -7,6 +7,7 @@ import (
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/curve"
 	"github.com/foilwright/foilwright/internal/testfoil"
 )
 
@@ -66,7 +67,7 @@ func TestNormalizeNACA(t *testing.T) {
 		n.SharpTE = tc.sharp
 		part := testfoil.Part{Chord: 152.4, RotDeg: 7, Shift: geometry.Point{X: 37, Y: -12}, Noise: 0.02, Seed: 42}
 		c := testfoil.Contour(testfoil.Loop(n, 150), part)
-		cv, _, err := geometry.Fit(c, geometry.FitOptions{Noise: 0.02})
+		cv, _, err := curve.Fit(c, curve.FitOptions{Noise: 0.02})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -99,7 +100,7 @@ func TestNormalizeNACA(t *testing.T) {
 		if math.Abs(nz.TE.Thickness-wantGap) > gapTol {
 			t.Errorf("%s: TE thickness %.5f, want %.5f", name, nz.TE.Thickness, wantGap)
 		}
-		p := nz.Path.(*geometry.Curve)
+		p := nz.Path.(*curve.Curve)
 		if p.Closed() != tc.sharp {
 			t.Errorf("%s: closed = %v", name, p.Closed())
 		}
@@ -125,7 +126,7 @@ func TestNormalizeLEAt(t *testing.T) {
 	n, _ := geometry.ParseNACA4("2412")
 	part := testfoil.Part{Chord: 152.4, RotDeg: 7, Shift: geometry.Point{X: 37, Y: -12}, Noise: 0.02, Seed: 42}
 	c := testfoil.Contour(testfoil.Loop(n, 150), part)
-	cv, _, err := geometry.Fit(c, geometry.FitOptions{Noise: 0.02})
+	cv, _, err := curve.Fit(c, curve.FitOptions{Noise: 0.02})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -180,7 +181,7 @@ func TestNormalizeMirrored(t *testing.T) {
 	}{{"nose reversed", true, false}, {"upside down", false, true}} {
 		part := testfoil.Part{Chord: 152.4, RotDeg: 7, Shift: geometry.Point{X: 37, Y: -12}, Noise: 0.02, Seed: 9, FlipX: tc.flipX, FlipY: tc.flipY}
 		c := testfoil.Contour(testfoil.Loop(n, 150), part)
-		cv, _, err := geometry.Fit(c, geometry.FitOptions{Noise: 0.02})
+		cv, _, err := curve.Fit(c, curve.FitOptions{Noise: 0.02})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -196,7 +197,7 @@ func TestNormalizeMirrored(t *testing.T) {
 		if d := frameAngleDiff(nz.Frame.TwistDeg, want.TwistDeg); math.Abs(d) > 0.05 {
 			t.Errorf("%s: twist %.4f°, want %.4f°", tc.name, nz.Frame.TwistDeg, want.TwistDeg)
 		}
-		p := nz.Path.(*geometry.Curve)
+		p := nz.Path.(*curve.Curve)
 		if d := testfoil.MaxDist(p.Samples(4000), dense); d > 0.001 {
 			t.Errorf("%s: normalised curve departs %.5f chord from the analytic contour", tc.name, d)
 		}
@@ -214,7 +215,7 @@ func TestNormalizeMirrored(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if _, cy := nz2.Path.(*geometry.Curve).Centroid(); nz2.Frame.Mirrored || cy >= 0 {
+		if _, cy := nz2.Path.(*curve.Curve).Centroid(); nz2.Frame.Mirrored || cy >= 0 {
 			t.Errorf("%s: mirror no: mirrored %v, centroid y %g", tc.name, nz2.Frame.Mirrored, cy)
 		}
 	}
@@ -247,7 +248,7 @@ func TestNormalizeNoLeadingEdge(t *testing.T) {
 		name string
 		c    *geometry.Contour
 	}{{"circle", circle}, {"square", square}} {
-		cv, _, err := geometry.Fit(tc.c, geometry.FitOptions{Exact: true})
+		cv, _, err := curve.Fit(tc.c, curve.FitOptions{Exact: true})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -264,7 +265,7 @@ func TestNormalizeIdempotent(t *testing.T) {
 	const tol = 1e-7
 	for _, sharp := range []bool{false, true} {
 		nz, _ := frameTestSection(t, "2412", sharp, 0.02, Options{})
-		again, err := Normalize(nz.Path.(*geometry.Curve), Options{Mirror: MirrorNo})
+		again, err := Normalize(nz.Path.(*curve.Curve), Options{Mirror: MirrorNo})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -286,7 +287,7 @@ func TestNormalizeNACA4Loop(t *testing.T) {
 	n, _ := geometry.ParseNACA4("0012")
 	part := testfoil.Part{Chord: 152.4, RotDeg: 7, Shift: geometry.Point{X: 37, Y: -12}}
 	c := testfoil.Contour(n.Loop(100), part)
-	cv, _, err := geometry.Fit(c, geometry.FitOptions{Exact: true})
+	cv, _, err := curve.Fit(c, curve.FitOptions{Exact: true})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -301,7 +302,7 @@ func TestNormalizeNACA4Loop(t *testing.T) {
 	if math.Abs(nz.Frame.Chord/want.Chord-1) > 1e-6 || math.Abs(frameAngleDiff(nz.Frame.TwistDeg, want.TwistDeg)) > 1e-4 {
 		t.Errorf("frame %+v, want %+v", nz.Frame, want)
 	}
-	if d := testfoil.MaxDist(nz.Path.(*geometry.Curve).Samples(4000), dense); d > 2e-5 {
+	if d := testfoil.MaxDist(nz.Path.(*curve.Curve).Samples(4000), dense); d > 2e-5 {
 		t.Errorf("normalised curve departs %.2g chord from the analytic contour", d)
 	}
 }
@@ -318,8 +319,8 @@ func frameTestSection(t *testing.T, code string, sharp bool, noise float64, opts
 	n.SharpTE = sharp
 	part := testfoil.Part{Chord: 152.4, RotDeg: 7, Shift: geometry.Point{X: 37, Y: -12}, Noise: noise, Seed: 42}
 	c := testfoil.Contour(testfoil.Loop(n, 150), part)
-	fo := geometry.FitOptions{Noise: noise, Exact: noise == 0}
-	cv, _, err := geometry.Fit(c, fo)
+	fo := curve.FitOptions{Noise: noise, Exact: noise == 0}
+	cv, _, err := curve.Fit(c, fo)
 	if err != nil {
 		t.Fatal(err)
 	}

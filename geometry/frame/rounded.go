@@ -4,6 +4,7 @@ import (
 	"math"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/curve"
 	"github.com/foilwright/foilwright/internal/numeric"
 )
 
@@ -41,7 +42,7 @@ type RoundedEnd struct {
 // curvature of a convex surface from tilting the direction (a straight
 // line would give the mean slope over the window, not the slope at its
 // near end) while still averaging out what wiggles are left.
-func surfaceLine(cv *geometry.Curve, a, b float64) geometry.Point {
+func surfaceLine(cv *curve.Curve, a, b float64) geometry.Point {
 	L := cv.Length()
 	wrap := func(s float64) float64 { return math.Mod(math.Mod(s, L)+L, L) }
 	const m = 41
@@ -111,7 +112,7 @@ func surfaceLine(cv *geometry.Curve, a, b float64) geometry.Point {
 // the radius that of the circle fitted (Kåsa, then geometric) to the curve
 // between them. It returns false when the curve does not turn the right way
 // round the tip.
-func AnalyseRounded(cv *geometry.Curve, sTip, chord float64) (RoundedEnd, bool) {
+func AnalyseRounded(cv *curve.Curve, sTip, chord float64) (RoundedEnd, bool) {
 	L := cv.Length()
 	wrap := func(s float64) float64 { return math.Mod(math.Mod(s, L)+L, L) }
 	var e RoundedEnd
@@ -170,7 +171,7 @@ func AnalyseRounded(cv *geometry.Curve, sTip, chord float64) (RoundedEnd, bool) 
 	for k := range arc {
 		arc[k] = cv.At(wrap(sTip - e.el + (e.eu+e.el)*float64(k)/(m-1)))
 	}
-	if c, r, _, ok := geometry.FitCircle(arc); ok {
+	if c, r, _, ok := numeric.FitCircle(arc); ok {
 		e.center, e.radius = c, r
 	} else {
 		e.radius = e.Thickness / 2

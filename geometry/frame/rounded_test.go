@@ -5,6 +5,7 @@ import (
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/curve"
 	"github.com/foilwright/foilwright/internal/testfoil"
 )
 
@@ -31,11 +32,11 @@ func TestNoisyCornersNotRounded(t *testing.T) {
 			}
 			for seed := uint64(1); seed <= 4; seed++ {
 				c := testfoil.Cut(tc.loop, 0.04, seed)
-				cv, rep, err := geometry.Fit(c, geometry.FitOptions{})
+				cv, rep, err := curve.Fit(c, curve.FitOptions{})
 				if err != nil {
 					t.Fatal(err)
 				}
-				if rep.Ends != geometry.FitEndsOpen {
+				if rep.Ends != curve.FitEndsOpen {
 					t.Errorf("seed %d: fit ends %q, want open (a corner)", seed, rep.Ends)
 					continue
 				}

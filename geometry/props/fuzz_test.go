@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/curve"
 	"github.com/foilwright/foilwright/geometry/frame"
 )
 
@@ -41,8 +42,8 @@ func FuzzFitNormalize(f *testing.F) {
 				c.Points[i], c.Points[j] = c.Points[j], c.Points[i]
 			}
 		}
-		for _, o := range []geometry.FitOptions{{}, {Exact: true}, {Noise: 0.01}} {
-			cv, _, err := geometry.Fit(c, o)
+		for _, o := range []curve.FitOptions{{}, {Exact: true}, {Noise: 0.01}} {
+			cv, _, err := curve.Fit(c, o)
 			if err != nil {
 				continue
 			}

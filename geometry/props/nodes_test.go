@@ -5,6 +5,7 @@ import (
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/curve"
 )
 
 func TestNodeCurveProperties(t *testing.T) {
@@ -12,7 +13,7 @@ func TestNodeCurveProperties(t *testing.T) {
 	// 824); maximum thickness t at x = 0.30 (NACA Report 824).
 	for _, sharp := range []bool{false, true} {
 		nodes := geometry.NACA4{Thickness: 0.12, SharpTE: sharp}.Nodes(160)
-		cv, sle, err := geometry.NodeCurve(nodes)
+		cv, sle, err := curve.NodeCurve(nodes)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -30,7 +31,7 @@ func TestNodeCurveProperties(t *testing.T) {
 			t.Errorf("sharp=%v: thickness %.4f at %.3f, want 0.120 at 0.30", sharp, pr.Thickness, pr.ThicknessAt)
 		}
 	}
-	if _, _, err := geometry.NodeCurve([]geometry.Point{{X: 1, Y: 0}, {X: 0, Y: 0}, {X: 1, Y: 0}}); err == nil {
+	if _, _, err := curve.NodeCurve([]geometry.Point{{X: 1, Y: 0}, {X: 0, Y: 0}, {X: 1, Y: 0}}); err == nil {
 		t.Error("three nodes: no error")
 	}
 }

@@ -6,6 +6,7 @@ import (
 	"math"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/curve"
 	"github.com/foilwright/foilwright/geometry/frame"
 	"github.com/foilwright/foilwright/internal/numeric"
 )
@@ -78,8 +79,8 @@ var ErrNotNormalized = errors.New("path is not a normalised section")
 
 // curveOf returns p as a *Curve: p itself, or an interpolating spline
 // through 4000 points equally spaced in arc length.
-func curveOf(p geometry.Path) *geometry.Curve {
-	if c, ok := p.(*geometry.Curve); ok {
+func curveOf(p geometry.Path) *curve.Curve {
+	if c, ok := p.(*curve.Curve); ok {
 		return c
 	}
 	const n = 4000
@@ -88,20 +89,20 @@ func curveOf(p geometry.Path) *geometry.Curve {
 	for k := range pts {
 		pts[k] = p.At(L * float64(k) / n)
 	}
-	return geometry.Interpolate(pts, false).WithClosed(pts[0].Dist(pts[n]) <= 1e-12*L)
+	return curve.Interpolate(pts, false).WithClosed(pts[0].Dist(pts[n]) <= 1e-12*L)
 }
 
 // side is one surface of a curve, from parameter position (i0, u0) to
 // (i1, u1) (pieces in order; i0 ≤ i1).
 type side struct {
-	c      *geometry.Curve
+	c      *curve.Curve
 	i0, i1 int
 	u0, u1 float64
 }
 
 // sides splits c at arc length sLE into the upper side (start to sLE)
 // and the lower side (sLE to the end).
-func sides(c *geometry.Curve, sLE float64) (upper, lower side) {
+func sides(c *curve.Curve, sLE float64) (upper, lower side) {
 	i, u := c.Locate(sLE)
 	last := c.Pieces() - 1
 	return side{c, 0, i, 0, u}, side{c, i, last, u, c.Span(last)}
@@ -339,7 +340,7 @@ func maxOn(f func(float64) float64, st []float64) (float64, float64) {
 // inscribed moves the point m0 (between the surfaces at station x) to
 // the centre of the circle touching both surfaces, and returns the centre
 // and the diameter.
-func inscribed(c *geometry.Curve, up, lo side, m0 geometry.Point, x float64) (geometry.Point, float64) {
+func inscribed(c *curve.Curve, up, lo side, m0 geometry.Point, x float64) (geometry.Point, float64) {
 	iu, uu, _, _ := up.atX(x)
 	il, ul, _, _ := lo.atX(x)
 	m := m0
@@ -380,7 +381,7 @@ func inscribed(c *geometry.Curve, up, lo side, m0 geometry.Point, x float64) (ge
 // the nose, at leKnotArc.
 // The radius is refined three times, each from the last. It returns a zero
 // radius when the nose is not convex.
-func leCircle(c *geometry.Curve, sLE, noise float64) (geometry.Point, float64) {
+func leCircle(c *curve.Curve, sLE, noise float64) (geometry.Point, float64) {
 	k := c.Curvature(sLE)
 	L := c.Length()
 	fit := func(a, r float64) (geometry.Point, float64) {
@@ -390,7 +391,7 @@ func leCircle(c *geometry.Curve, sLE, noise float64) (geometry.Point, float64) {
 		for j := -20; j <= 20; j++ {
 			pts = append(pts, c.At(sLE+a*float64(j)/20))
 		}
-		return geometry.RefineCircle(pts, center, r)
+		return numeric.RefineCircle(pts, center, r)
 	}
 	if noise == 0 {
 		if !(k > 0) {
@@ -405,7 +406,7 @@ func leCircle(c *geometry.Curve, sLE, noise float64) (geometry.Point, float64) {
 	h := (c.PieceStart(hi) - c.PieceStart(lo)) / float64(hi-lo)
 	// A noisy osculating radius is only a start: take the circle through
 	// the nose over the knot span, then widen the arc from the radius.
-	center, r, _, ok := geometry.FitCircle(func() []geometry.Point {
+	center, r, _, ok := numeric.FitCircle(func() []geometry.Point {
 		var pts []geometry.Point
 		for j := -20; j <= 20; j++ {
 			pts = append(pts, c.At(sLE+leKnotSpan*h*float64(j)/20))

@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/curve"
 	"github.com/foilwright/foilwright/geometry/frame"
 	"github.com/foilwright/foilwright/internal/testfoil"
 	"gonum.org/v1/gonum/integrate/quad"
@@ -23,8 +24,8 @@ func testSection(t *testing.T, code string, sharp bool, noise float64, opts fram
 	n.SharpTE = sharp
 	part := testfoil.Part{Chord: 152.4, RotDeg: 7, Shift: geometry.Point{X: 37, Y: -12}, Noise: noise, Seed: 42}
 	c := testfoil.Contour(testfoil.Loop(n, 150), part)
-	fo := geometry.FitOptions{Noise: noise, Exact: noise == 0}
-	cv, _, err := geometry.Fit(c, fo)
+	fo := curve.FitOptions{Noise: noise, Exact: noise == 0}
+	cv, _, err := curve.Fit(c, fo)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -150,7 +151,7 @@ func TestPropertiesEllipse(t *testing.T) {
 		th := 2 * math.Pi * float64(i) / 400
 		pts = append(pts, geometry.Point{X: 0.5 * (1 + math.Cos(th)), Y: b * math.Sin(th)})
 	}
-	cv := geometry.Interpolate(pts, true)
+	cv := curve.Interpolate(pts, true)
 	sLE, _ := cv.Project(geometry.Point{})
 	sp, _, err := Compute(cv, sLE, Options{})
 	if err != nil {
@@ -223,7 +224,7 @@ func TestPropertiesModes(t *testing.T) {
 func BenchmarkNormalizeAndProperties(b *testing.B) {
 	n, _ := geometry.ParseNACA4("2412")
 	c := testfoil.Contour(testfoil.Loop(n, 150), testfoil.Part{Chord: 152.4, RotDeg: 7, Noise: 0.02, Seed: 1})
-	cv, _, err := geometry.Fit(c, geometry.FitOptions{Noise: 0.02})
+	cv, _, err := curve.Fit(c, curve.FitOptions{Noise: 0.02})
 	if err != nil {
 		b.Fatal(err)
 	}
@@ -239,7 +240,7 @@ func BenchmarkNormalizeAndProperties(b *testing.B) {
 }
 
 // pathOnly hides every method of a Curve but those of Path.
-type pathOnly struct{ c *geometry.Curve }
+type pathOnly struct{ c *curve.Curve }
 
 func (p pathOnly) Length() float64             { return p.c.Length() }
 func (p pathOnly) At(s float64) geometry.Point { return p.c.At(s) }
@@ -254,7 +255,7 @@ func TestPropertiesAnyPath(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		got, _, err := Compute(pathOnly{nz.Path.(*geometry.Curve)}, nz.SLE, Options{})
+		got, _, err := Compute(pathOnly{nz.Path.(*curve.Curve)}, nz.SLE, Options{})
 		if err != nil {
 			t.Fatal(err)
 		}

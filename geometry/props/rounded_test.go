@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/curve"
 	"github.com/foilwright/foilwright/geometry/frame"
 	"github.com/foilwright/foilwright/internal/testfoil"
 )
@@ -52,7 +53,7 @@ func TestRoundedTrailingEdge(t *testing.T) {
 // radius.
 func roundedCheck(t *testing.T, bl testfoil.RoundedBlade, c *geometry.Contour, sigma float64, tip, sharp geometry.Point, angle, wantLER, sharpTol, angleTol, lerTol float64) float64 {
 	t.Helper()
-	cv, rep, err := geometry.Fit(c, geometry.FitOptions{})
+	cv, rep, err := curve.Fit(c, curve.FitOptions{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -63,7 +64,7 @@ func roundedCheck(t *testing.T, bl testfoil.RoundedBlade, c *geometry.Contour, s
 	if sigma > 0 && (!rep.ScatterSmoothing || rep.RMS < 0.25*sigma) {
 		t.Errorf("fit: scatter smoothing %v, residual RMS %.4f mm, want true and at least %.3f for noise %.3f", rep.ScatterSmoothing, rep.RMS, 0.25*sigma, sigma)
 	}
-	if rep.Ends != geometry.FitEndsClosed {
+	if rep.Ends != curve.FitEndsClosed {
 		t.Errorf("fit ends %q, want closed (a rounded edge)", rep.Ends)
 		return wantLER
 	}
@@ -71,7 +72,7 @@ func roundedCheck(t *testing.T, bl testfoil.RoundedBlade, c *geometry.Contour, s
 	if err != nil {
 		t.Fatal(err)
 	}
-	if keep.TE.Kind != frame.TERounded || keep.TE.Action != frame.TEKept || !keep.Path.(*geometry.Curve).Closed() {
+	if keep.TE.Kind != frame.TERounded || keep.TE.Action != frame.TEKept || !keep.Path.(*curve.Curve).Closed() {
 		t.Fatalf("auto: %+v, want rounded, kept, closed path", keep.TE)
 	}
 	if d := keep.Frame.ToPart(geometry.Point{X: 1, Y: 0}).Dist(tip); d > 0.1 {

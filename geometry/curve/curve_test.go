@@ -1,8 +1,11 @@
-package geometry
+package curve
 
 import (
 	"math"
 	"testing"
+
+	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/internal/testfoil"
 )
 
 func TestCurveCircle(t *testing.T) {
@@ -13,11 +16,11 @@ func TestCurveCircle(t *testing.T) {
 		valueTol = 1e-6 // interpolation error of 64 knots, measured, rounded up
 		curvTol  = 1e-3
 	)
-	center := Point{1, -2}
-	var pts []Point
+	center := geometry.Point{X: 1, Y: -2}
+	var pts []geometry.Point
 	for i := range 64 {
 		a := 2 * math.Pi * float64(i) / 64
-		pts = append(pts, center.Add(Point{R * math.Cos(a), R * math.Sin(a)}))
+		pts = append(pts, center.Add(geometry.Point{X: R * math.Cos(a), Y: R * math.Sin(a)}))
 	}
 	c := Interpolate(pts, true)
 	if !c.Closed() {
@@ -45,7 +48,7 @@ func TestCurveCircle(t *testing.T) {
 			t.Errorf("Normal(%g) = %v, want outward", s, n)
 		}
 	}
-	for _, p := range []Point{{5, 5}, {1, -2.5}, {-10, 0}} {
+	for _, p := range []geometry.Point{{X: 5, Y: 5}, {X: 1, Y: -2.5}, {X: -10, Y: 0}} {
 		s, d := c.Project(p)
 		want := math.Abs(p.Dist(center) - R)
 		if math.Abs(d-want) > valueTol*R {
@@ -61,8 +64,8 @@ func TestCurveOperations(t *testing.T) {
 	// Transform, Reverse and Sub keep the geometry (exact polynomial
 	// identities, so to rounding error).
 	const tol = 1e-9
-	n, _ := ParseNACA4("2412")
-	c := Interpolate(fitTestLoop(n, 40), false)
+	n, _ := geometry.ParseNACA4("2412")
+	c := Interpolate(testfoil.Loop(n, 40), false)
 	L := c.Length()
 	r := c.Reverse()
 	if math.Abs(r.Length()-L) > tol {
@@ -82,8 +85,10 @@ func TestCurveOperations(t *testing.T) {
 	const chord = 152.4
 	tw := 7 * math.Pi / 180
 	inv := [2][2]float64{{chord * math.Cos(tw), chord * math.Sin(tw)}, {-chord * math.Sin(tw), chord * math.Cos(tw)}}
-	toPart := func(q Point) Point { return q.Rotate(-tw).Scale(chord).Add(Point{37, -12}) }
-	p := c.Transform(inv, Point{37, -12})
+	toPart := func(q geometry.Point) geometry.Point {
+		return q.Rotate(-tw).Scale(chord).Add(geometry.Point{X: 37, Y: -12})
+	}
+	p := c.Transform(inv, geometry.Point{X: 37, Y: -12})
 	if math.Abs(p.Length()-152.4*L) > 1e-9*152.4 {
 		t.Errorf("transform length %g, want %g", p.Length(), 152.4*L)
 	}
@@ -106,10 +111,10 @@ func TestCurveDerivatives(t *testing.T) {
 	// Exact solution: on a circle of radius R travelled counter-clockwise,
 	// d²C/ds² = −(C − centre)/R².
 	const R = 2.0
-	var pts []Point
+	var pts []geometry.Point
 	for i := range 80 {
 		a := 2 * math.Pi * float64(i) / 80
-		pts = append(pts, Point{R * math.Cos(a), R * math.Sin(a)})
+		pts = append(pts, geometry.Point{X: R * math.Cos(a), Y: R * math.Sin(a)})
 	}
 	c := Interpolate(pts, true)
 	for k := range 10 {

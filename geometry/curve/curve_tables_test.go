@@ -1,9 +1,11 @@
-package geometry
+package curve
 
 import (
 	"math"
 	"math/rand/v2"
 	"testing"
+
+	"github.com/foilwright/foilwright/geometry"
 )
 
 // curveTablesRough returns an interpolating spline through a noisy ellipse
@@ -11,10 +13,10 @@ import (
 // arc-length quadrature bisects them deeply.
 func curveTablesRough() *Curve {
 	rng := rand.New(rand.NewPCG(7, 8))
-	pts := make([]Point, 400)
+	pts := make([]geometry.Point, 400)
 	for i := range pts {
 		t := 2 * math.Pi * (float64(i) + 0.4*rng.Float64()) / float64(len(pts))
-		pts[i] = Point{100 * math.Cos(t), 12 * math.Sin(t)}.Add(Point{0.5 * rng.NormFloat64(), 0.5 * rng.NormFloat64()})
+		pts[i] = geometry.Point{X: 100 * math.Cos(t), Y: 12 * math.Sin(t)}.Add(geometry.Point{X: 0.5 * rng.NormFloat64(), Y: 0.5 * rng.NormFloat64()})
 	}
 	return Interpolate(pts, true)
 }
@@ -60,12 +62,12 @@ func TestCurveCarriedTablesMatchRemeasure(t *testing.T) {
 	th, f := 0.3, 1/152.4
 	cs, sn := math.Cos(th), math.Sin(th)
 	for name, cv := range map[string]*Curve{
-		"rotate-scale": c.Transform([2][2]float64{{f * cs, -f * sn}, {f * sn, f * cs}}, Point{1, 2}),
-		"reflect":      c.Transform([2][2]float64{{cs, sn}, {sn, -cs}}, Point{}),
+		"rotate-scale": c.Transform([2][2]float64{{f * cs, -f * sn}, {f * sn, f * cs}}, geometry.Point{X: 1, Y: 2}),
+		"reflect":      c.Transform([2][2]float64{{cs, sn}, {sn, -cs}}, geometry.Point{}),
 		"reverse":      c.Reverse(),
-		"both":         c.Transform([2][2]float64{{-f, 0}, {0, f}}, Point{}).Reverse(),
+		"both":         c.Transform([2][2]float64{{-f, 0}, {0, f}}, geometry.Point{}).Reverse(),
 	} {
-		fresh := curveNew(cv.ts, cv.xs, cv.ys, cv.closed)
+		fresh := newCurve(cv.ts, cv.xs, cv.ys, cv.closed)
 		for i := range cv.pl {
 			if math.Abs(cv.pl[i]-fresh.pl[i]) > 1e-13*fresh.pl[i] {
 				t.Errorf("%s: piece %d length %.17g, measured again %.17g", name, i, cv.pl[i], fresh.pl[i])
@@ -80,8 +82,8 @@ func TestCurveCarriedTablesMatchRemeasure(t *testing.T) {
 		}
 	}
 	// A shear is not a similarity: measured afresh.
-	sh := c.Transform([2][2]float64{{1, 0.5}, {0, 1}}, Point{})
-	fresh := curveNew(sh.ts, sh.xs, sh.ys, sh.closed)
+	sh := c.Transform([2][2]float64{{1, 0.5}, {0, 1}}, geometry.Point{})
+	fresh := newCurve(sh.ts, sh.xs, sh.ys, sh.closed)
 	if sh.Length() != fresh.Length() {
 		t.Errorf("shear: length %.17g, measured again %.17g", sh.Length(), fresh.Length())
 	}

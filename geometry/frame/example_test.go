@@ -1,10 +1,11 @@
-package geometry_test
+package frame_test
 
 import (
 	"fmt"
 	"math"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/curve"
 	"github.com/foilwright/foilwright/geometry/frame"
 	"github.com/foilwright/foilwright/geometry/props"
 )
@@ -22,7 +23,7 @@ func ExampleNormalize() {
 		c.Points = append(c.Points, q)
 		c.Origins = append(c.Origins, geometry.Origin{File: "demo.csv", Line: len(c.Points)})
 	}
-	cv, rep, err := geometry.Fit(c, geometry.FitOptions{Exact: true})
+	cv, rep, err := curve.Fit(c, curve.FitOptions{Exact: true})
 	if err != nil {
 		panic(err)
 	}

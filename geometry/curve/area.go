@@ -1,4 +1,4 @@
-package geometry
+package curve
 
 // AreaIntegrals are the integrals over the area a curve encloses, closed by
 // a straight segment from its end back to its start when it is open:
@@ -16,7 +16,7 @@ type AreaIntegrals struct {
 //	A = ½∮(x dy − y dx),  ∫∫x dA = ∮ x²/2 dy,  ∫∫y dA = −∮ y²/2 dx,
 //	∫∫y² dA = −∮ y³/3 dx, ∫∫x² dA = ∮ x³/3 dy, ∫∫xy dA = ∮ x²y/2 dy.
 func (c *Curve) AreaIntegrals() AreaIntegrals {
-	gl := curveGL()
+	gl := glRule()
 	var g AreaIntegrals
 	add := func(x, y, dx, dy, w float64) {
 		g.A += w * (x*dy - y*dx) / 2
@@ -29,8 +29,8 @@ func (c *Curve) AreaIntegrals() AreaIntegrals {
 	for i := 0; i < c.Pieces(); i++ {
 		h := c.Span(i)
 		for k, t := range gl[0] {
-			x, dx, _ := curvePoly(c.xs[i], t*h)
-			y, dy, _ := curvePoly(c.ys[i], t*h)
+			x, dx, _ := poly(c.xs[i], t*h)
+			y, dy, _ := poly(c.ys[i], t*h)
 			add(x, y, dx, dy, gl[1][k]*h)
 		}
 	}

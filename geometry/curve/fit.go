@@ -1,4 +1,4 @@
-package geometry
+package curve
 
 import (
 	"fmt"
@@ -7,6 +7,7 @@ import (
 	"strconv"
 	"strings"
 
+	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/internal/numeric"
 )
 
@@ -76,16 +77,16 @@ type FitReport struct {
 	// up tr H of the n degrees of freedom. 0 for interpolation, and when
 	// the curve takes up more than 90 % of the freedom.
 	NoiseEstimate float64
-	MaxAt         Origin // where the largest residual is
+	MaxAt         geometry.Origin // where the largest residual is
 	// S[i] and Residual[i] belong to point i of the contour: the arc length
 	// of its foot on the curve and its signed normal distance (positive
 	// outside the loop). Points on the base of a blunt trailing edge (listed
 	// in Base) are measured from the straight base between the curve ends,
 	// with S at the nearer end.
 	S, Residual []float64
-	Beyond      []Origin // points farther than the tolerance, in contour order
-	Tolerance   float64  // the tolerance used for Beyond
-	Base        []Origin // points on a blunt trailing-edge base, left out of the fit
+	Beyond      []geometry.Origin // points farther than the tolerance, in contour order
+	Tolerance   float64           // the tolerance used for Beyond
+	Base        []geometry.Origin // points on a blunt trailing-edge base, left out of the fit
 	// Scatter is the local scatter of the points about parabolas through
 	// their neighbours (a noise estimate made before fitting, 0 with
 	// Exact); ScatterSmoothing reports that it replaced cross-validation
@@ -95,72 +96,72 @@ type FitReport struct {
 	Warnings         []string
 }
 
-// fitEnds is the result of looking for corners at the trailing edge.
-type fitEnds struct {
+// trailingEnds is the result of looking for corners at the trailing edge.
+type trailingEnds struct {
 	open  bool
 	order []int // contour indices in fit order; for a sharp edge the first is repeated at the end
 	base  []int // contour indices on a blunt base
 }
 
-// fitCornerDeg are the turning angles (degrees) that make a corner: one
-// vertex turning at least fitSharpDeg is a sharp edge; two vertices turning
-// at least fitBluntDeg each, with a nearly straight base between them and at
-// least fitBluntSumDeg together, are the corners of a blunt edge.
+// sharpDeg are the turning angles (degrees) that make a corner: one
+// vertex turning at least sharpDeg is a sharp edge; two vertices turning
+// at least bluntDeg each, with a nearly straight base between them and at
+// least bluntSumDeg together, are the corners of a blunt edge.
 const (
-	fitSharpDeg    = 110
-	fitBluntDeg    = 40
-	fitBluntSumDeg = 130
-	fitBaseDeg     = 20
-	fitGapRatio    = 4 // a segment this many times the median spacing is a base
-	fitBaseSigmas  = 4 // largest distance of noisy base points from the line between the corners, in scatters
+	sharpDeg    = 110
+	bluntDeg    = 40
+	bluntSumDeg = 130
+	baseDeg     = 20
+	gapRatio    = 4 // a segment this many times the median spacing is a base
+	baseSigmas  = 4 // largest distance of noisy base points from the line between the corners, in scatters
 )
 
-// fitDetectEnds looks for a sharp corner or the two corners of a blunt base
+// detectEnds looks for a sharp corner or the two corners of a blunt base
 // near index 0 of the counter-clockwise loop pts. It uses the turning angle
 // between the chords to the k-th neighbours, k growing with the point count
 // so that dense scans are not read point by point, and the chords reaching
-// at least fitCornerScatter scatters along the outline so that noise is not
+// at least cornerScatter scatters along the outline so that noise is not
 // read as corners. A strong turn spread over a run of points on a circle is
-// a rounded end (fitRoundedEnd) and gives a periodic fit.
+// a rounded end (roundedEnd) and gives a periodic fit.
 //
-// sigma is the scatter of the points (roundedScatter), 0 for clean data.
-func fitDetectEnds(pts []Point, mode string, sigma float64) fitEnds {
+// sigma is the scatter of the points (localScatter), 0 for clean data.
+func detectEnds(pts []geometry.Point, mode string, sigma float64) trailingEnds {
 	n := len(pts)
-	at := func(i int) Point { return pts[((i%n)+n)%n] }
+	at := func(i int) geometry.Point { return pts[((i%n)+n)%n] }
 	idx := func(i int) int { return ((i % n) + n) % n }
-	periodic := func() fitEnds {
+	periodic := func() trailingEnds {
 		o := make([]int, n)
 		for i := range o {
 			o[i] = i
 		}
-		return fitEnds{order: o}
+		return trailingEnds{order: o}
 	}
-	openAt := func(start int) fitEnds { // ends at start−1 and start: blunt without base
+	openAt := func(start int) trailingEnds { // ends at start−1 and start: blunt without base
 		o := make([]int, n)
 		for i := range o {
 			o[i] = idx(start + i)
 		}
-		return fitEnds{open: true, order: o}
+		return trailingEnds{open: true, order: o}
 	}
 	if mode == FitEndsClosed {
 		return periodic()
 	}
 	k := max(1, n/1000)
 	w := max(4*k, n/16)
-	// The chords reach at least k points and at least fitCornerScatter
+	// The chords reach at least k points and at least cornerScatter
 	// times the scatter σ along the outline each way: on a noisy scan whose
 	// spacing is comparable to the noise, the turning between neighbours is
 	// mostly noise, and a wiggle of a few σ over a few points must not pass
 	// for a corner. Over a chord of ℓ ≥ 10σ the noise tilts each chord by
 	// about √2σ/ℓ ≤ 8°, well below the corner thresholds, while a rounded
 	// end of radius r > ℓ still turns gradually, point by point.
-	reach := fitCornerScatter * sigma
+	reach := cornerScatter * sigma
 	kb := make([]int, 2*w+1) // points reached behind and ahead of each vertex
 	kf := make([]int, 2*w+1)
 	turn := make([]float64, 2*w+1) // turn[j] at vertex j−w
 	for j := range turn {
 		i := j - w
-		kb[j], kf[j] = fitReach(pts, i, -1, k, reach), fitReach(pts, i, 1, k, reach)
+		kb[j], kf[j] = stencilReach(pts, i, -1, k, reach), stencilReach(pts, i, 1, k, reach)
 		a, b := at(i).Sub(at(i-kb[j])), at(i+kf[j]).Sub(at(i))
 		turn[j] = math.Atan2(a.Cross(b), a.Dot(b)) * 180 / math.Pi
 	}
@@ -172,13 +173,13 @@ func fitDetectEnds(pts []Point, mode string, sigma float64) fitEnds {
 	}
 	// A rounded end: the turning is spread over a run of points that lie
 	// on a circle, within the scatter, whose radius the stencil resolves.
-	if turn[top] >= fitBluntDeg && fitRoundedEnd(pts, turn, kb, kf, top, w, k, sigma, reach) {
+	if turn[top] >= bluntDeg && roundedEnd(pts, turn, kb, kf, top, w, k, sigma, reach) {
 		return periodic()
 	}
 	// A blunt edge without base points (or a gap in the outline): a segment
 	// in the corner region much longer than the spacing around it joins
 	// the two ends.
-	if turn[top] >= fitSharpDeg {
+	if turn[top] >= sharpDeg {
 		var lens []float64
 		for i := top - w - 4*k; i < top-w+4*k; i++ {
 			lens = append(lens, at(i+1).Dist(at(i)))
@@ -191,19 +192,19 @@ func fitDetectEnds(pts []Point, mode string, sigma float64) fitEnds {
 				long, li = l, j
 			}
 		}
-		if long > fitGapRatio*med[len(med)/2] {
+		if long > gapRatio*med[len(med)/2] {
 			lower := idx(top - w - 4*k + li)
 			return openAt(idx(lower + 1))
 		}
 	}
-	if turn[top] >= fitSharpDeg {
+	if turn[top] >= sharpDeg {
 		start := idx(top - w)
 		o := make([]int, n+1)
 		for i := 0; i < n; i++ {
 			o[i] = idx(start + i)
 		}
 		o[n] = start
-		return fitEnds{open: true, order: o}
+		return trailingEnds{open: true, order: o}
 	}
 	// Second corner: the largest turning beyond the first one's stencil.
 	sec := -1
@@ -215,23 +216,23 @@ func fitDetectEnds(pts []Point, mode string, sigma float64) fitEnds {
 			sec = j
 		}
 	}
-	if sec >= 0 && turn[top] >= fitBluntDeg && turn[sec] >= fitBluntDeg && turn[top]+turn[sec] >= fitBluntSumDeg {
+	if sec >= 0 && turn[top] >= bluntDeg && turn[sec] >= bluntDeg && turn[top]+turn[sec] >= bluntSumDeg {
 		a, b := min(top, sec), max(top, sec) // a lower corner, b upper corner
 		straight := true
 		for j := a + k + 1; j < b-k; j++ {
 			if j-kb[j] < a || j+kf[j] > b {
 				continue // the chords reach past the corners
 			}
-			if math.Abs(turn[j]) >= fitBaseDeg {
+			if math.Abs(turn[j]) >= baseDeg {
 				straight = false
 			}
 		}
 		if !straight && sigma > 0 && b-a >= 4 {
 			// On noisy points the turning of a short base is mostly
 			// noise: take it as straight when every point between the
-			// corners lies within fitBaseSigmas scatters of the line
+			// corners lies within baseSigmas scatters of the line
 			// fitted to them (principal axis).
-			var o Point
+			var o geometry.Point
 			for j := a + 1; j < b; j++ {
 				o = o.Add(at(j - w))
 			}
@@ -242,10 +243,10 @@ func fitDetectEnds(pts []Point, mode string, sigma float64) fitEnds {
 				sxx, sxy, syy = sxx+d.X*d.X, sxy+d.X*d.Y, syy+d.Y*d.Y
 			}
 			th := 0.5 * math.Atan2(2*sxy, sxx-syy)
-			dir := Point{math.Cos(th), math.Sin(th)}
+			dir := geometry.Point{X: math.Cos(th), Y: math.Sin(th)}
 			straight = true
 			for j := a + 1; j < b; j++ {
-				if math.Abs(dir.Cross(at(j-w).Sub(o))) > fitBaseSigmas*sigma {
+				if math.Abs(dir.Cross(at(j-w).Sub(o))) > baseSigmas*sigma {
 					straight = false
 				}
 			}
@@ -263,7 +264,7 @@ func fitDetectEnds(pts []Point, mode string, sigma float64) fitEnds {
 					break
 				}
 			}
-			return fitEnds{open: true, order: o, base: base}
+			return trailingEnds{open: true, order: o, base: base}
 		}
 	}
 	if mode == FitEndsOpen {
@@ -272,16 +273,16 @@ func fitDetectEnds(pts []Point, mode string, sigma float64) fitEnds {
 	return periodic()
 }
 
-// fitCornerScatter is the least reach, in units of the scatter of the
+// cornerScatter is the least reach, in units of the scatter of the
 // points, of the chords whose turning finds a corner.
-const fitCornerScatter = 10
+const cornerScatter = 10
 
-// fitReach returns how many points from i (going the way of dir, ±1) the
+// stencilReach returns how many points from i (going the way of dir, ±1) the
 // chord of the turning stencil reaches: at least k, and on until the arc
 // along the polyline is at least reach, but at most an eighth of the loop.
-func fitReach(pts []Point, i, dir, k int, reach float64) int {
+func stencilReach(pts []geometry.Point, i, dir, k int, reach float64) int {
 	n := len(pts)
-	at := func(i int) Point { return pts[((i%n)+n)%n] }
+	at := func(i int) geometry.Point { return pts[((i%n)+n)%n] }
 	var arc float64
 	for j := 1; j <= max(k, n/8); j++ {
 		arc += at(i + dir*j).Dist(at(i + dir*(j-1)))
@@ -292,44 +293,44 @@ func fitReach(pts []Point, i, dir, k int, reach float64) int {
 	return max(k, n/8)
 }
 
-// Limits of a rounded end (fitRoundedEnd).
+// Limits of a rounded end (roundedEnd).
 const (
-	fitRoundRunDeg  = 15  // least turning of the points on the rounded end
-	fitRoundSpanDeg = 120 // least angle the end spans about its centre
-	fitRoundFit     = 2.5 // largest RMS residual of the circle, in scatters
-	fitRoundRel     = 0.02
-	fitRoundPoints  = 5 // least number of points on the end
+	roundRunDeg  = 15  // least turning of the points on the rounded end
+	roundSpanDeg = 120 // least angle the end spans about its centre
+	roundFit     = 2.5 // largest RMS residual of the circle, in scatters
+	roundRel     = 0.02
+	roundPoints  = 5 // least number of points on the end
 )
 
-// fitRoundedEnd reports whether the turning around vertex top−w (turn,
-// stencils kb, kf as in fitDetectEnds) is a rounded end rather than a
+// roundedEnd reports whether the turning around vertex top−w (turn,
+// stencils kb, kf as in detectEnds) is a rounded end rather than a
 // corner or the two corners of a blunt base: the run of vertices around it
-// that turn at least fitRoundRunDeg each must hold at least fitRoundPoints
-// points lying on a circle (RMS residual at most fitRoundFit scatters, or
-// fitRoundRel of the radius on clean data) that span at least
-// fitRoundSpanDeg about its centre, with a radius no smaller than the
+// that turn at least roundRunDeg each must hold at least roundPoints
+// points lying on a circle (RMS residual at most roundFit scatters, or
+// roundRel of the radius on clean data) that span at least
+// roundSpanDeg about its centre, with a radius no smaller than the
 // stencil reach. A sharp corner fails the last test (its run is the width
 // of the stencil, the fitted circle smaller than the reach), a blunt base
 // fails the residual (its two corners and straight base are no circle).
-func fitRoundedEnd(pts []Point, turn []float64, kb, kf []int, top, w, k int, sigma, reach float64) bool {
+func roundedEnd(pts []geometry.Point, turn []float64, kb, kf []int, top, w, k int, sigma, reach float64) bool {
 	n := len(pts)
-	at := func(i int) Point { return pts[((i%n)+n)%n] }
+	at := func(i int) geometry.Point { return pts[((i%n)+n)%n] }
 	lo, hi := top, top
-	for lo > 0 && turn[lo-1] >= fitRoundRunDeg {
+	for lo > 0 && turn[lo-1] >= roundRunDeg {
 		lo--
 	}
-	for hi < len(turn)-1 && turn[hi+1] >= fitRoundRunDeg {
+	for hi < len(turn)-1 && turn[hi+1] >= roundRunDeg {
 		hi++
 	}
-	if hi-lo+1 < fitRoundPoints {
+	if hi-lo+1 < roundPoints {
 		return false
 	}
-	var run []Point
+	var run []geometry.Point
 	for j := lo; j <= hi; j++ {
 		run = append(run, at(j-w))
 	}
-	c, r, rms, ok := FitCircle(run)
-	if !ok || rms > math.Max(fitRoundFit*sigma, fitRoundRel*r) {
+	c, r, rms, ok := numeric.FitCircle(run)
+	if !ok || rms > math.Max(roundFit*sigma, roundRel*r) {
 		return false
 	}
 	// The stencil's own reach: the larger of the scatter reach and the
@@ -338,12 +339,12 @@ func fitRoundedEnd(pts []Point, turn []float64, kb, kf []int, top, w, k int, sig
 	if r < stencil {
 		return false
 	}
-	// The outline must turn through fitRoundSpanDeg across the run, from
+	// The outline must turn through roundSpanDeg across the run, from
 	// the chord that arrives at its first point to the one that leaves its
 	// last (a single corner of a blunt base turns about 90°) ...
 	in := at(lo - w).Sub(at(lo - w - kb[lo]))
 	out := at(hi - w + kf[hi]).Sub(at(hi - w))
-	if math.Atan2(in.Cross(out), in.Dot(out))*180/math.Pi < fitRoundSpanDeg {
+	if math.Atan2(in.Cross(out), in.Dot(out))*180/math.Pi < roundSpanDeg {
 		return false
 	}
 	// ... and the run must span as much about the centre (the run is in
@@ -353,21 +354,21 @@ func fitRoundedEnd(pts []Point, turn []float64, kb, kf []int, top, w, k int, sig
 		a, b := run[j-1].Sub(c), run[j].Sub(c)
 		span += math.Atan2(a.Cross(b), a.Dot(b))
 	}
-	return math.Abs(span)*180/math.Pi >= fitRoundSpanDeg
+	return math.Abs(span)*180/math.Pi >= roundSpanDeg
 }
 
-// Limits of the cross-validation check (fitChooseLambda).
+// Limits of the cross-validation check (chooseLambda).
 const (
-	fitGCVScatter   = 0.05 // residual RMS, as a fraction of the scatter, that counts as interpolating
-	fitGCVMinPoints = 100  // fewer points are too few to judge the scatter
-	// fitGCVMinScatter is the least scatter, as a fraction of the median
+	gcvScatter   = 0.05 // residual RMS, as a fraction of the scatter, that counts as interpolating
+	gcvMinPoints = 100  // fewer points are too few to judge the scatter
+	// gcvMinScatter is the least scatter, as a fraction of the median
 	// point spacing, that counts as noise.
-	fitGCVMinScatter = 0.01
+	gcvMinScatter = 0.01
 )
 
-// fitEndWeight is the weight of the two end points of an open fit (all
+// endWeight is the weight of the two end points of an open fit (all
 // other points weigh 1): it pins the curve ends to the trailing-edge points.
-const fitEndWeight = 1e4
+const endWeight = 1e4
 
 // Fit fits a cubic smoothing spline (Reinsch 1967, see spline.go) in a
 // chord-length parameter to the contour c, coordinates x(t) and y(t)
@@ -389,20 +390,20 @@ const fitEndWeight = 1e4
 // trailing-edge corners are sought. Cross-validation assumes independent
 // errors; points cut from a noisy mesh share their noise with their
 // neighbours, and it then nearly interpolates them. When its curve leaves
-// residuals below fitGCVScatter of the scatter on dense points, the scatter
+// residuals below gcvScatter of the scatter on dense points, the scatter
 // is used as the noise instead (FitReport.ScatterSmoothing, with a warning).
 //
 // Fit returns an error wrapping ErrTooFewPoints for fewer than 8 distinct
 // points, ErrNonFinite for NaN or infinite coordinates and ErrCollinear for
 // points on a line.
-func Fit(c *Contour, opts FitOptions) (*Curve, *FitReport, error) {
+func Fit(c *geometry.Contour, opts FitOptions) (*Curve, *FitReport, error) {
 	n := c.Len()
 	if n < splineMinKnots {
-		return nil, nil, fmt.Errorf("geometry: fit: %w: %d point(s), need at least %d", ErrTooFewPoints, n, splineMinKnots)
+		return nil, nil, fmt.Errorf("geometry: fit: %w: %d point(s), need at least %d", geometry.ErrTooFewPoints, n, splineMinKnots)
 	}
 	for i, p := range c.Points {
 		if !p.IsFinite() {
-			return nil, nil, fmt.Errorf("geometry: fit: point %d (%s): %w", i, fitOrigin(c, i), ErrNonFinite)
+			return nil, nil, fmt.Errorf("geometry: fit: point %d (%s): %w", i, originOf(c, i), geometry.ErrNonFinite)
 		}
 	}
 	if opts.Noise < 0 || math.IsNaN(opts.Noise) || math.IsInf(opts.Noise, 0) {
@@ -417,16 +418,16 @@ func Fit(c *Contour, opts FitOptions) (*Curve, *FitReport, error) {
 	for i := range c.Points {
 		perim += c.Points[i].Dist(c.Points[(i+1)%n])
 	}
-	if a := SignedArea(c.Points); math.Abs(a) <= 1e-9*perim*perim {
-		return nil, nil, fmt.Errorf("geometry: fit: %w", ErrCollinear)
+	if a := geometry.SignedArea(c.Points); math.Abs(a) <= 1e-9*perim*perim {
+		return nil, nil, fmt.Errorf("geometry: fit: %w", geometry.ErrCollinear)
 	}
 	// The scatter sets the scale at which corners are sought; it is not
 	// needed when interpolating exactly.
 	var scatter float64
 	if !opts.Exact {
-		scatter = roundedScatter(c.Points)
+		scatter = localScatter(c.Points)
 	}
-	ends := fitDetectEnds(c.Points, opts.Ends, scatter)
+	ends := detectEnds(c.Points, opts.Ends, scatter)
 	rep0Scatter := scatter
 
 	// Data in fit order, without coincident neighbours. knot[i] is the data
@@ -435,7 +436,7 @@ func Fit(c *Contour, opts FitOptions) (*Curve, *FitReport, error) {
 	for i := range knot {
 		knot[i] = -1
 	}
-	var pts []Point
+	var pts []geometry.Point
 	for _, ci := range ends.order {
 		p := c.Points[ci]
 		if len(pts) > 0 && p.Dist(pts[len(pts)-1]) <= 1e-12*perim {
@@ -453,7 +454,7 @@ func Fit(c *Contour, opts FitOptions) (*Curve, *FitReport, error) {
 		pts = pts[:len(pts)-1]
 	}
 	if len(pts) < splineMinKnots {
-		return nil, nil, fmt.Errorf("geometry: fit: %w: %d distinct point(s), need at least %d", ErrTooFewPoints, len(pts), splineMinKnots)
+		return nil, nil, fmt.Errorf("geometry: fit: %w: %d distinct point(s), need at least %d", geometry.ErrTooFewPoints, len(pts), splineMinKnots)
 	}
 	m := len(pts)
 	ws := make([]float64, m)
@@ -461,7 +462,7 @@ func Fit(c *Contour, opts FitOptions) (*Curve, *FitReport, error) {
 		ws[i] = 1
 	}
 	if ends.open {
-		ws[0], ws[m-1] = fitEndWeight, fitEndWeight
+		ws[0], ws[m-1] = endWeight, endWeight
 	}
 	xs, ys := make([]float64, m), make([]float64, m)
 	for i, p := range pts {
@@ -491,16 +492,16 @@ func Fit(c *Contour, opts FitOptions) (*Curve, *FitReport, error) {
 	baseSet := make(map[int]bool, len(ends.base))
 	for _, i := range ends.base {
 		baseSet[i] = true
-		rep.Base = append(rep.Base, fitOrigin(c, i))
+		rep.Base = append(rep.Base, originOf(c, i))
 	}
 	var cv *Curve
 	for round := 0; ; round++ {
 		var err error
-		cv, err = fitPasses(pts, ts, ws, xs, ys, ends.open, period, opts, scatter, rep)
+		cv, err = passes(pts, ts, ws, xs, ys, ends.open, period, opts, scatter, rep)
 		if err != nil {
 			return nil, nil, err
 		}
-		fitResiduals(c, cv, knot, baseSet, rep)
+		residuals(c, cv, knot, baseSet, rep)
 		rep.Tolerance = opts.Tolerance
 		if rep.Tolerance == 0 && !opts.Exact {
 			noise := opts.Noise
@@ -510,18 +511,18 @@ func Fit(c *Contour, opts FitOptions) (*Curve, *FitReport, error) {
 			}
 			rep.Tolerance = 4 * math.Max(noise, rep.RMS)
 		}
-		if opts.Exact || rep.Tolerance == 0 || round == fitRobustRounds {
+		if opts.Exact || rep.Tolerance == 0 || round == robustRounds {
 			break
 		}
 		// Points beyond the tolerance are listed, not moved. Those that are
-		// also gross outliers (beyond fitOutlierSigmas robust standard
+		// also gross outliers (beyond outlierSigmas robust standard
 		// deviations) get a tiny weight so that they do not drag the curve
 		// towards them.
-		cut := math.Max(rep.Tolerance, fitOutlierSigmas*fitRobustSigma(rep.Residual))
+		cut := math.Max(rep.Tolerance, outlierSigmas*robustSigma(rep.Residual))
 		changed := false
 		for i, r := range rep.Residual {
-			if j := knot[i]; j >= 0 && math.Abs(r) > cut && ws[j] > fitOutlierWeight && j > 0 && j < m-1 {
-				ws[j] = fitOutlierWeight
+			if j := knot[i]; j >= 0 && math.Abs(r) > cut && ws[j] > outlierWeight && j > 0 && j < m-1 {
+				ws[j] = outlierWeight
 				changed = true
 			}
 		}
@@ -538,7 +539,7 @@ func Fit(c *Contour, opts FitOptions) (*Curve, *FitReport, error) {
 	if rep.Tolerance > 0 {
 		for i, r := range rep.Residual {
 			if math.Abs(r) > rep.Tolerance {
-				rep.Beyond = append(rep.Beyond, fitOrigin(c, i))
+				rep.Beyond = append(rep.Beyond, originOf(c, i))
 			}
 		}
 	}
@@ -557,19 +558,19 @@ func Fit(c *Contour, opts FitOptions) (*Curve, *FitReport, error) {
 	return cv, rep, nil
 }
 
-// fitKnotU returns the local parameter of knot j on its piece (0, or the end
+// knotU returns the local parameter of knot j on its piece (0, or the end
 // of the last piece for the last knot of an open curve).
-func fitKnotU(cv *Curve, j int) float64 {
+func knotU(cv *Curve, j int) float64 {
 	if j >= cv.Pieces() {
 		return cv.Span(cv.Pieces() - 1)
 	}
 	return 0
 }
 
-// fitSegmentSide returns the signed distance of p from segment a→b,
+// segmentSide returns the signed distance of p from segment a→b,
 // positive to the right of the direction of travel (outside a
 // counter-clockwise loop).
-func fitSegmentSide(p, a, b Point) float64 {
+func segmentSide(p, a, b geometry.Point) float64 {
 	d := b.Sub(a)
 	l := d.Norm()
 	if l == 0 {
@@ -584,24 +585,24 @@ func fitSegmentSide(p, a, b Point) float64 {
 	return dist
 }
 
-func fitOrigin(c *Contour, i int) Origin {
+func originOf(c *geometry.Contour, i int) geometry.Origin {
 	if i < len(c.Origins) {
 		return c.Origins[i]
 	}
-	return Origin{File: fmt.Sprintf("point %d", i+1)}
+	return geometry.Origin{File: fmt.Sprintf("point %d", i+1)}
 }
 
-// fitChooseLambda returns λ for the options: 0 for exact interpolation, the
+// chooseLambda returns λ for the options: 0 for exact interpolation, the
 // λ whose RMS normal residual equals opts.Noise, or the GCV minimiser.
 //
 // A positive hint (a λ from an earlier fit of nearly the same data) narrows
 // the search to a factor of e³ either side of it when that brackets the
 // answer.
 //
-// scatter is the local scatter of the points (roundedScatter); when
-// cross-validation leaves residuals below fitGCVScatter of it on at least
-// fitGCVMinPoints points, the scatter is used as the noise.
-func fitChooseLambda(p *splineProblem, xs, ys []float64, opts FitOptions, hint, scatter float64, rep *FitReport) (float64, error) {
+// scatter is the local scatter of the points (localScatter); when
+// cross-validation leaves residuals below gcvScatter of it on at least
+// gcvMinPoints points, the scatter is used as the noise.
+func chooseLambda(p *splineProblem, xs, ys []float64, opts FitOptions, hint, scatter float64, rep *FitReport) (float64, error) {
 	if opts.Exact {
 		return 0, nil
 	}
@@ -627,10 +628,10 @@ func fitChooseLambda(p *splineProblem, xs, ys []float64, opts FitOptions, hint, 
 		// counted. Matching the raw residual RMS to σ instead (the
 		// discrepancy principle) over-smooths, and the nose, where the
 		// curvature is largest, flattens first. Residuals are capped at
-		// fitOutlierSigmas·σ, so a few gross outliers are not taken for
+		// outlierSigmas·σ, so a few gross outliers are not taken for
 		// noise. The residual RMS then comes out near σ·√(1 − tr H/n).
 		sigma := opts.Noise
-		clip := fitOutlierSigmas * sigma
+		clip := outlierSigmas * sigma
 		ubre := func(ll float64) float64 {
 			f, err := p.fit(math.Exp(ll), cols, true)
 			if err != nil {
@@ -644,7 +645,7 @@ func fitChooseLambda(p *splineProblem, xs, ys []float64, opts FitOptions, hint, 
 			}
 			return ss/float64(n) + 4*sigma*sigma*f.trace/float64(n)
 		}
-		return fitMinimise(ubre, lo, hi, hint, hintSpan), nil
+		return minimise(ubre, lo, hi, hint, hintSpan), nil
 	}
 	gcv := func(ll float64) float64 {
 		f, err := p.fit(math.Exp(ll), cols, true)
@@ -662,7 +663,7 @@ func fitChooseLambda(p *splineProblem, xs, ys []float64, opts FitOptions, hint, 
 		}
 		return ss / float64(n) / (den * den)
 	}
-	ll, atEdge := fitMinimiseLog(gcv, lo, hi, hint, hintSpan)
+	ll, atEdge := minimiseLog(gcv, lo, hi, hint, hintSpan)
 	if math.IsInf(gcv(ll), 1) {
 		return 0, fmt.Errorf("geometry: fit: cross-validation failed for every smoothing strength")
 	}
@@ -671,28 +672,28 @@ func fitChooseLambda(p *splineProblem, xs, ys []float64, opts FitOptions, hint, 
 	// share their noise, a curve through every point looks predictable,
 	// and the score prefers (nearly) interpolating the noise, which ruins
 	// curvature. When the chosen curve leaves residuals far below the local
-	// scatter of the points (roundedScatter, measured over windows wider
+	// scatter of the points (localScatter, measured over windows wider
 	// than the correlation), the scatter is taken as the noise instead and
 	// λ minimises the unbiased risk estimate as for a given noise. White
 	// noise gives residuals of about σ·√(1 − tr H/n), above 0.2σ even when
 	// a sharply curved part of the outline makes the score keep 95 % of
 	// the freedom, so only a curve that keeps more than 99.75 % (residuals
-	// below fitGCVScatter = 0.05 of the scatter) is overruled; exact data
+	// below gcvScatter = 0.05 of the scatter) is overruled; exact data
 	// have (nearly) no scatter.
 	// The check is made once, on the first full search (no hint); the
-	// verdict holds for the later passes and rounds (fitPasses).
+	// verdict holds for the later passes and rounds (passes).
 	//
-	// A scatter below fitGCVMinScatter of the median point spacing h is
+	// A scatter below gcvMinScatter of the median point spacing h is
 	// left alone: it bends the curve by about σ/h², under 1 % of the
 	// curvature of a nose resolved by a few points, and on clean data it
 	// is the sag of straight facets (a cut of an exact mesh, a polyline),
 	// which interpolation follows correctly.
-	if scatter > fitGCVMinScatter*fitMedianStep(p) && n >= fitGCVMinPoints && hint == 0 {
+	if scatter > gcvMinScatter*medianStep(p) && n >= gcvMinPoints && hint == 0 {
 		f, err := p.fit(math.Exp(ll), cols, true)
-		if err == nil && fitNormalRMS(p, f, xs, ys) < fitGCVScatter*scatter {
+		if err == nil && normalRMS(p, f, xs, ys) < gcvScatter*scatter {
 			o := opts
 			o.Noise = scatter
-			lam, err := fitChooseLambda(p, xs, ys, o, hint, 0, rep)
+			lam, err := chooseLambda(p, xs, ys, o, hint, 0, rep)
 			if err == nil {
 				rep.Warnings = append(rep.Warnings, fmt.Sprintf("cross-validation nearly interpolated points whose local scatter is %.3g (noise correlated along the outline, as in a cut mesh): smoothing set from that scatter; give the noise to override", scatter))
 				rep.ScatterSmoothing = true
@@ -706,24 +707,24 @@ func fitChooseLambda(p *splineProblem, xs, ys []float64, opts FitOptions, hint, 
 	return math.Exp(ll), nil
 }
 
-// fitMedianStep returns the median parameter step of p (the point spacing).
-func fitMedianStep(p *splineProblem) float64 {
+// medianStep returns the median parameter step of p (the point spacing).
+func medianStep(p *splineProblem) float64 {
 	hs := append([]float64(nil), p.hs...)
 	slices.Sort(hs)
 	return hs[len(hs)/2]
 }
 
-// fitMinimise returns the λ that minimises crit(log λ) over [lo, hi] (or
+// minimise returns the λ that minimises crit(log λ) over [lo, hi] (or
 // within hintSpan of log hint when hint > 0).
-func fitMinimise(crit func(float64) float64, lo, hi, hint, hintSpan float64) float64 {
-	ll, _ := fitMinimiseLog(crit, lo, hi, hint, hintSpan)
+func minimise(crit func(float64) float64, lo, hi, hint, hintSpan float64) float64 {
+	ll, _ := minimiseLog(crit, lo, hi, hint, hintSpan)
 	return math.Exp(ll)
 }
 
-// fitMinimiseLog scans crit on a grid over [lo, hi] and refines the best
+// minimiseLog scans crit on a grid over [lo, hi] and refines the best
 // sample by golden-section search. atEdge reports that the weakest
 // smoothing tried was best.
-func fitMinimiseLog(crit func(float64) float64, lo, hi, hint, hintSpan float64) (ll float64, atEdge bool) {
+func minimiseLog(crit func(float64) float64, lo, hi, hint, hintSpan float64) (ll float64, atEdge bool) {
 	grid := 20
 	if hint > 0 {
 		lo, hi, grid = math.Log(hint)-hintSpan, math.Log(hint)+hintSpan, 6
@@ -739,12 +740,12 @@ func fitMinimiseLog(crit func(float64) float64, lo, hi, hint, hintSpan float64) 
 	return numeric.Golden(crit, a, b, 14), best == 0
 }
 
-// fitNormalRMS returns the RMS of the residuals projected on the curve
+// normalRMS returns the RMS of the residuals projected on the curve
 // normal at each knot, a cheap stand-in for the distance to the curve; each
 // point counts with its weight capped at 1, so down-weighted outliers drop
 // out.
-func fitNormalRMS(p *splineProblem, f *splineFit, xs, ys []float64) float64 {
-	rs := fitNormalResiduals(p, f, xs, ys)
+func normalRMS(p *splineProblem, f *splineFit, xs, ys []float64) float64 {
+	rs := normalResiduals(p, f, xs, ys)
 	var ss, sw float64
 	for i, r := range rs {
 		if math.IsNaN(r) {
@@ -757,9 +758,9 @@ func fitNormalRMS(p *splineProblem, f *splineFit, xs, ys []float64) float64 {
 	return math.Sqrt(ss / sw)
 }
 
-// fitNormalResiduals returns the residual of every point normal to the fit
+// normalResiduals returns the residual of every point normal to the fit
 // at its knot (NaN where the tangent vanishes; weights are not applied).
-func fitNormalResiduals(p *splineProblem, f *splineFit, xs, ys []float64) []float64 {
+func normalResiduals(p *splineProblem, f *splineFit, xs, ys []float64) []float64 {
 	n := p.n()
 	px := p.pieces(f.gs[0], f.gams[0])
 	py := p.pieces(f.gs[1], f.gams[1])
@@ -771,8 +772,8 @@ func fitNormalResiduals(p *splineProblem, f *splineFit, xs, ys []float64) []floa
 		} else {
 			j := len(px) - 1
 			h := p.hs[j]
-			_, dx, _ = curvePoly(px[j], h)
-			_, dy, _ = curvePoly(py[j], h)
+			_, dx, _ = poly(px[j], h)
+			_, dy, _ = poly(py[j], h)
 		}
 		l := math.Hypot(dx, dy)
 		if l == 0 {
@@ -784,18 +785,18 @@ func fitNormalResiduals(p *splineProblem, f *splineFit, xs, ys []float64) []floa
 	return out
 }
 
-// fitRobustRounds is how many times the fit is repeated with the points
-// beyond the tolerance down-weighted to fitOutlierWeight.
+// robustRounds is how many times the fit is repeated with the points
+// beyond the tolerance down-weighted to outlierWeight.
 const (
-	fitMinStep       = 0.05 // least ratio of a reparametrised step to its chord-length step
-	fitRobustRounds  = 2
-	fitOutlierWeight = 1e-4
-	fitOutlierSigmas = 6
+	minStep       = 0.05 // least ratio of a reparametrised step to its chord-length step
+	robustRounds  = 2
+	outlierWeight = 1e-4
+	outlierSigmas = 6
 )
 
-// fitRobustSigma returns 1.4826 times the median absolute residual, a
+// robustSigma returns 1.4826 times the median absolute residual, a
 // standard deviation that outliers do not inflate.
-func fitRobustSigma(rs []float64) float64 {
+func robustSigma(rs []float64) float64 {
 	a := make([]float64, len(rs))
 	for i, r := range rs {
 		a[i] = math.Abs(r)
@@ -804,10 +805,10 @@ func fitRobustSigma(rs []float64) float64 {
 	return 1.4826 * a[len(a)/2]
 }
 
-// fitPasses fits twice: in the chord-length parameter ts, then in the arc
+// passes fits twice: in the chord-length parameter ts, then in the arc
 // length of each point's foot on the first curve (unless that would not
 // increase strictly). It records λ and tr H in rep.
-func fitPasses(pts []Point, ts, ws, xs, ys []float64, open bool, period float64, opts FitOptions, scatter float64, rep *FitReport) (*Curve, error) {
+func passes(pts []geometry.Point, ts, ws, xs, ys []float64, open bool, period float64, opts FitOptions, scatter float64, rep *FitReport) (*Curve, error) {
 	m := len(pts)
 	var cv *Curve
 	hint := rep.Lambda
@@ -819,7 +820,7 @@ func fitPasses(pts []Point, ts, ws, xs, ys []float64, open bool, period float64,
 			// of the same data keep the scatter as the noise.
 			o.Noise = rep.Scatter
 		}
-		lambda, err := fitChooseLambda(prob, xs, ys, o, hint, scatter, rep)
+		lambda, err := chooseLambda(prob, xs, ys, o, hint, scatter, rep)
 		if err != nil {
 			return nil, err
 		}
@@ -829,7 +830,7 @@ func fitPasses(pts []Point, ts, ws, xs, ys []float64, open bool, period float64,
 		}
 		rep.Lambda, rep.EffectiveParams = lambda, f.trace
 		hint = lambda
-		cv = curveFromFit(prob, f, !open)
+		cv = fromFit(prob, f, !open)
 		if pass == 1 || lambda == 0 {
 			break
 		}
@@ -837,7 +838,7 @@ func fitPasses(pts []Point, ts, ws, xs, ys []float64, open bool, period float64,
 		nts := make([]float64, m)
 		var s0 float64
 		for i, p := range pts {
-			s, _ := cv.residual(p, min(i, cv.Pieces()-1), fitKnotU(cv, i))
+			s, _ := cv.residual(p, min(i, cv.Pieces()-1), knotU(cv, i))
 			if !open {
 				if i == 0 {
 					s0 = s
@@ -854,13 +855,13 @@ func fitPasses(pts []Point, ts, ws, xs, ys []float64, open bool, period float64,
 				// Feet of dense, noisy points can crowd or swap; keep every
 				// step at least a twentieth of its chord-length step so the
 				// system stays well conditioned.
-				s = math.Max(s, nts[i-1]+fitMinStep*(ts[i]-ts[i-1]))
+				s = math.Max(s, nts[i-1]+minStep*(ts[i]-ts[i-1]))
 			}
 			nts[i] = s
 		}
 		if !open {
 			closing := period - (ts[m-1] - ts[0])
-			if L-nts[m-1] < fitMinStep*closing {
+			if L-nts[m-1] < minStep*closing {
 				return cv, nil
 			}
 			period = L
@@ -870,30 +871,30 @@ func fitPasses(pts []Point, ts, ws, xs, ys []float64, open bool, period float64,
 	return cv, nil
 }
 
-// fitResiduals fills S, Residual, RMS, Max and MaxAt of rep for every
+// residuals fills S, Residual, RMS, Max and MaxAt of rep for every
 // contour point.
-func fitResiduals(c *Contour, cv *Curve, knot []int, base map[int]bool, rep *FitReport) {
+func residuals(c *geometry.Contour, cv *Curve, knot []int, base map[int]bool, rep *FitReport) {
 	n := c.Len()
 	rep.S = make([]float64, n)
 	rep.Residual = make([]float64, n)
-	rep.Max, rep.MaxAt = 0, Origin{}
+	rep.Max, rep.MaxAt = 0, geometry.Origin{}
 	var sum2 float64
 	for i, p := range c.Points {
 		if base[i] {
 			a, b := cv.End(), cv.Start()
-			rep.Residual[i] = fitSegmentSide(p, a, b)
+			rep.Residual[i] = segmentSide(p, a, b)
 			if p.Dist(a) <= p.Dist(b) {
 				rep.S[i] = cv.Length()
 			}
 		} else {
 			j := knot[i]
-			rep.S[i], rep.Residual[i] = cv.residual(p, min(j, cv.Pieces()-1), fitKnotU(cv, j))
+			rep.S[i], rep.Residual[i] = cv.residual(p, min(j, cv.Pieces()-1), knotU(cv, j))
 		}
 		r := rep.Residual[i]
 		sum2 += r * r
 		if math.Abs(r) > rep.Max {
 			rep.Max = math.Abs(r)
-			rep.MaxAt = fitOrigin(c, i)
+			rep.MaxAt = originOf(c, i)
 		}
 	}
 	rep.RMS = math.Sqrt(sum2 / float64(n))

@@ -1,4 +1,4 @@
-package geometry
+package curve
 
 import (
 	"math"
@@ -6,6 +6,7 @@ import (
 	"sync"
 	"sync/atomic"
 
+	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/internal/numeric"
 	"gonum.org/v1/gonum/integrate/quad"
 )
@@ -31,7 +32,7 @@ type Curve struct {
 	xs, ys [][4]float64 // coefficients of each piece in u = t − ts[i]
 	ss     []float64    // arc length at ts
 	pl     []float64    // arc length of each piece
-	// The leaves of the adaptive quadrature of each piece (see curveNew):
+	// The leaves of the adaptive quadrature of each piece (see newCurve):
 	// piece i has leaves leafAt[i] ≤ k < leafAt[i+1], leaf k ending at
 	// parameter leafU[k] with arc length leafS[k] from the start of the
 	// piece to there.
@@ -40,20 +41,20 @@ type Curve struct {
 	closed       bool
 }
 
-// curveGLOrder is the order of the Gauss–Legendre rule used per piece:
+// glOrder is the order of the Gauss–Legendre rule used per piece:
 // exact for polynomials of degree 15, which covers the Green's-theorem
 // integrands of cubic pieces (degree ≤ 11).
-const curveGLOrder = 8
+const glOrder = 8
 
-// curveGL returns Gauss–Legendre nodes and weights on [0, 1].
-var curveGL = sync.OnceValue(func() [2][]float64 {
-	x := make([]float64, curveGLOrder)
-	w := make([]float64, curveGLOrder)
+// glRule returns Gauss–Legendre nodes and weights on [0, 1].
+var glRule = sync.OnceValue(func() [2][]float64 {
+	x := make([]float64, glOrder)
+	w := make([]float64, glOrder)
 	quad.Legendre{}.FixedLocations(x, w, 0, 1)
 	return [2][]float64{x, w}
 })
 
-// curveNew builds a curve from piece coefficients. ts has one more entry
+// newCurve builds a curve from piece coefficients. ts has one more entry
 // than xs and ys. It computes the arc-length table.
 //
 // The length of each piece comes from Gauss–Legendre rules on a bisection
@@ -62,7 +63,7 @@ var curveGL = sync.OnceValue(func() [2][]float64 {
 // sum of its halves. The finest parts, the leaves, are kept, so that the
 // arc length to any parameter u needs one rule, over the part of its leaf
 // before u (see partial).
-func curveNew(ts []float64, xs, ys [][4]float64, closed bool) *Curve {
+func newCurve(ts []float64, xs, ys [][4]float64, closed bool) *Curve {
 	if len(xs) == 0 || len(xs) != len(ys) || len(ts) != len(xs)+1 {
 		panic("geometry: inconsistent curve pieces")
 	}
@@ -71,12 +72,12 @@ func curveNew(ts []float64, xs, ys [][4]float64, closed bool) *Curve {
 	c.ss = make([]float64, np+1)
 	c.pl = make([]float64, np)
 	c.leafAt = make([]int32, np+1)
-	if np >= curveParallelPieces {
+	if np >= parallelPieces {
 		// The pieces are independent; the table does not depend on the
 		// split. Rough pieces, which cost most, bunch together, so two
 		// goroutines take chunks in turn rather than half each.
-		nc := (np + curveChunk - 1) / curveChunk
-		chunks := make([]curveLeaves, nc)
+		nc := (np + measureChunk - 1) / measureChunk
+		chunks := make([]leaves, nc)
 		var next atomic.Int64
 		work := func() {
 			for {
@@ -84,7 +85,7 @@ func curveNew(ts []float64, xs, ys [][4]float64, closed bool) *Curve {
 				if k >= nc {
 					return
 				}
-				chunks[k] = c.measure(k*curveChunk, min((k+1)*curveChunk, np))
+				chunks[k] = c.measure(k*measureChunk, min((k+1)*measureChunk, np))
 			}
 		}
 		var wg sync.WaitGroup
@@ -98,7 +99,7 @@ func curveNew(ts []float64, xs, ys [][4]float64, closed bool) *Curve {
 		c.leafU, c.leafS = make([]float64, 0, total), make([]float64, 0, total)
 		for k, ch := range chunks {
 			off := int32(len(c.leafU))
-			for i := k*curveChunk + 1; i <= min((k+1)*curveChunk, np); i++ {
+			for i := k*measureChunk + 1; i <= min((k+1)*measureChunk, np); i++ {
 				c.leafAt[i] += off
 			}
 			c.leafU = append(c.leafU, ch.u...)
@@ -114,23 +115,23 @@ func curveNew(ts []float64, xs, ys [][4]float64, closed bool) *Curve {
 	return c
 }
 
-// curveParallelPieces is the least number of pieces for which curveNew
+// parallelPieces is the least number of pieces for which newCurve
 // measures the pieces on two goroutines.
-const curveParallelPieces = 2048
+const parallelPieces = 2048
 
-// curveChunk is the number of pieces a goroutine of curveNew measures at a
+// measureChunk is the number of pieces a goroutine of newCurve measures at a
 // time.
-const curveChunk = 512
+const measureChunk = 512
 
-// curveLeaves collects the leaves of a run of pieces.
-type curveLeaves struct {
+// leaves collects the leaves of a run of pieces.
+type leaves struct {
 	u, s []float64
 	sum  float64 // arc length from the start of the current piece
 }
 
 // add records a leaf ending at u with arc length l. The storage doubles
 // when full: a curve with many rough pieces has many leaves.
-func (lv *curveLeaves) add(u, l float64) {
+func (lv *leaves) add(u, l float64) {
 	if len(lv.u) == cap(lv.u) {
 		k := 2*cap(lv.u) + 16
 		lv.u = append(make([]float64, 0, k), lv.u...)
@@ -143,8 +144,8 @@ func (lv *curveLeaves) add(u, l float64) {
 // measure sets pl[i] and leafAt[i+1] for pieces lo ≤ i < hi, with leaf
 // indices counted from the first leaf of piece lo, and returns their
 // leaves.
-func (c *Curve) measure(lo, hi int) curveLeaves {
-	lv := curveLeaves{u: make([]float64, 0, 2*(hi-lo)+16), s: make([]float64, 0, 2*(hi-lo)+16)}
+func (c *Curve) measure(lo, hi int) leaves {
+	lv := leaves{u: make([]float64, 0, 2*(hi-lo)+16), s: make([]float64, 0, 2*(hi-lo)+16)}
 	for i := lo; i < hi; i++ {
 		h := c.Span(i)
 		lv.sum = 0
@@ -154,8 +155,8 @@ func (c *Curve) measure(lo, hi int) curveLeaves {
 	return lv
 }
 
-// curvePoly evaluates a cubic and its first two derivatives at u.
-func curvePoly(k [4]float64, u float64) (v, d1, d2 float64) {
+// poly evaluates a cubic and its first two derivatives at u.
+func poly(k [4]float64, u float64) (v, d1, d2 float64) {
 	v = k[0] + u*(k[1]+u*(k[2]+u*k[3]))
 	d1 = k[1] + u*(2*k[2]+3*u*k[3])
 	d2 = 2*k[2] + 6*u*k[3]
@@ -174,13 +175,13 @@ func (c *Curve) Length() float64 { return c.ss[len(c.ss)-1] }
 func (c *Curve) Span(i int) float64 { return c.ts[i+1] - c.ts[i] }
 
 func (c *Curve) speed(i int, u float64) float64 {
-	return curveSpeed(&c.xs[i], &c.ys[i], u)
+	return speedOf(&c.xs[i], &c.ys[i], u)
 }
 
-// curveSpeed returns |(x'(u), y'(u))| for pieces x and y. The components
+// speedOf returns |(x'(u), y'(u))| for pieces x and y. The components
 // are of the order of 1 (the parameter is close to arc length), so the
 // plain root of the sum of squares neither overflows nor underflows.
-func curveSpeed(x, y *[4]float64, u float64) float64 {
+func speedOf(x, y *[4]float64, u float64) float64 {
 	dx := x[1] + u*(2*x[2]+3*u*x[3])
 	dy := y[1] + u*(2*y[2]+3*u*y[3])
 	return math.Sqrt(dx*dx + dy*dy)
@@ -220,24 +221,24 @@ func (c *Curve) partial(i int, u float64) float64 {
 }
 
 func (c *Curve) glOn(i int, a, b float64) float64 {
-	// curveSpeed with the coefficients in registers.
+	// speedOf with the coefficients in registers.
 	x1, x2, x3 := c.xs[i][1], 2*c.xs[i][2], c.xs[i][3]
 	y1, y2, y3 := c.ys[i][1], 2*c.ys[i][2], c.ys[i][3]
 	w := b - a
 	var l float64
-	for k, t := range curveGLNodes {
+	for k, t := range glNodes {
 		u := a + t*w
 		dx := x1 + u*(x2+3*u*x3)
 		dy := y1 + u*(y2+3*u*y3)
-		l += curveGLWeights[k] * math.Sqrt(dx*dx+dy*dy)
+		l += glWeights[k] * math.Sqrt(dx*dx+dy*dy)
 	}
 	return l * w
 }
 
-// curveGLNodes and curveGLWeights are curveGL in arrays, for the hot loop
+// glNodes and glWeights are glRule in arrays, for the hot loop
 // of glOn.
-var curveGLNodes, curveGLWeights = func() (x, w [curveGLOrder]float64) {
-	gl := curveGL()
+var glNodes, glWeights = func() (x, w [glOrder]float64) {
+	gl := glRule()
 	copy(x[:], gl[0])
 	copy(w[:], gl[1])
 	return x, w
@@ -246,10 +247,10 @@ var curveGLNodes, curveGLWeights = func() (x, w [curveGLOrder]float64) {
 // partialOn returns the length of piece i from a to b, given the rule over
 // the whole of [a, b], bisecting until the halves agree with the whole.
 // It records the halves of every accepted part as leaves in lv.
-func (c *Curve) partialOn(i int, a, b, whole float64, depth int, lv *curveLeaves) float64 {
+func (c *Curve) partialOn(i int, a, b, whole float64, depth int, lv *leaves) float64 {
 	m := (a + b) / 2
 	l, r := c.glOn(i, a, m), c.glOn(i, m, b)
-	if depth >= curveMaxDepth || math.Abs(l+r-whole) <= 1e-11*math.Abs(whole) {
+	if depth >= maxDepth || math.Abs(l+r-whole) <= 1e-11*math.Abs(whole) {
 		lv.add(m, l)
 		lv.add(b, r)
 		return l + r
@@ -257,8 +258,8 @@ func (c *Curve) partialOn(i int, a, b, whole float64, depth int, lv *curveLeaves
 	return c.partialOn(i, a, m, l, depth+1, lv) + c.partialOn(i, m, b, r, depth+1, lv)
 }
 
-// curveMaxDepth bounds the bisection of partial.
-const curveMaxDepth = 20
+// maxDepth bounds the bisection of partial.
+const maxDepth = 20
 
 // Locate returns the piece and local parameter at arc length s.
 func (c *Curve) Locate(s float64) (int, float64) {
@@ -319,14 +320,14 @@ func (c *Curve) Locate(s float64) (int, float64) {
 // arc returns the arc length at piece i, local parameter u.
 func (c *Curve) arc(i int, u float64) float64 { return c.ss[i] + c.partial(i, u) }
 
-func (c *Curve) Eval(i int, u float64) (p, d1, d2 Point) {
-	x, dx, ddx := curvePoly(c.xs[i], u)
-	y, dy, ddy := curvePoly(c.ys[i], u)
-	return Point{x, y}, Point{dx, dy}, Point{ddx, ddy}
+func (c *Curve) Eval(i int, u float64) (p, d1, d2 geometry.Point) {
+	x, dx, ddx := poly(c.xs[i], u)
+	y, dy, ddy := poly(c.ys[i], u)
+	return geometry.Point{X: x, Y: y}, geometry.Point{X: dx, Y: dy}, geometry.Point{X: ddx, Y: ddy}
 }
 
 // At returns the point at arc length s.
-func (c *Curve) At(s float64) Point {
+func (c *Curve) At(s float64) geometry.Point {
 	i, u := c.Locate(s)
 	p, _, _ := c.Eval(i, u)
 	return p
@@ -334,7 +335,7 @@ func (c *Curve) At(s float64) Point {
 
 // Tangent returns the unit tangent (direction of increasing s) at arc
 // length s.
-func (c *Curve) Tangent(s float64) Point {
+func (c *Curve) Tangent(s float64) geometry.Point {
 	i, u := c.Locate(s)
 	_, d, _ := c.Eval(i, u)
 	return d.Scale(1 / d.Norm())
@@ -343,19 +344,19 @@ func (c *Curve) Tangent(s float64) Point {
 // Derivatives returns the first and second derivatives of the point with
 // respect to arc length at s: the unit tangent T and κ·N, where N is T
 // turned counter-clockwise and κ the signed curvature.
-func (c *Curve) Derivatives(s float64) (d1, d2 Point) {
+func (c *Curve) Derivatives(s float64) (d1, d2 geometry.Point) {
 	i, u := c.Locate(s)
 	_, p1, _ := c.Eval(i, u)
 	t := p1.Scale(1 / p1.Norm())
 	k := c.curvatureAt(i, u)
-	return t, Point{-t.Y, t.X}.Scale(k)
+	return t, geometry.Point{X: -t.Y, Y: t.X}.Scale(k)
 }
 
 // Normal returns the outward unit normal at s: the tangent turned clockwise,
 // which points out of a counter-clockwise loop.
-func (c *Curve) Normal(s float64) Point {
+func (c *Curve) Normal(s float64) geometry.Point {
 	t := c.Tangent(s)
-	return Point{t.Y, -t.X}
+	return geometry.Point{X: t.Y, Y: -t.X}
 }
 
 // Curvature returns the signed curvature dθ/ds at arc length s, positive
@@ -384,10 +385,10 @@ func (c *Curve) WithClosed(closed bool) *Curve {
 }
 
 // Start returns the first point of c.
-func (c *Curve) Start() Point { return Point{c.xs[0][0], c.ys[0][0]} }
+func (c *Curve) Start() geometry.Point { return geometry.Point{X: c.xs[0][0], Y: c.ys[0][0]} }
 
 // End returns the last point of c.
-func (c *Curve) End() Point {
+func (c *Curve) End() geometry.Point {
 	i := len(c.xs) - 1
 	p, _, _ := c.Eval(i, c.Span(i))
 	return p
@@ -397,7 +398,7 @@ func (c *Curve) End() Point {
 // distance to it. It scans the start and middle of every piece for the
 // nearest one, then refines by Newton's method from there and from the
 // neighbouring samples.
-func (c *Curve) Project(p Point) (s, dist float64) {
+func (c *Curve) Project(p geometry.Point) (s, dist float64) {
 	np := len(c.xs)
 	bi, bu, bd := 0, 0.0, math.Inf(1)
 	for i := range c.xs {
@@ -431,7 +432,7 @@ func (c *Curve) Project(p Point) (s, dist float64) {
 // ProjectFrom finds a local minimum of |C − p| starting at piece i, local
 // parameter u, moving across pieces as needed. It returns the piece, local
 // parameter and distance.
-func (c *Curve) ProjectFrom(p Point, i int, u float64) (int, float64, float64) {
+func (c *Curve) ProjectFrom(p geometry.Point, i int, u float64) (int, float64, float64) {
 	np := len(c.xs)
 	for range 40 {
 		q, d1, d2 := c.Eval(i, u)
@@ -485,10 +486,10 @@ func (c *Curve) ProjectFrom(p Point, i int, u float64) (int, float64, float64) {
 // method from piece i, local parameter u, and the signed distance of p from
 // c there: positive outside a counter-clockwise loop (on the side of the
 // outward normal).
-func (c *Curve) residual(p Point, i int, u float64) (s, d float64) {
+func (c *Curve) residual(p geometry.Point, i int, u float64) (s, d float64) {
 	fi, fu, dist := c.ProjectFrom(p, i, u)
 	q, d1, _ := c.Eval(fi, fu)
-	n := Point{d1.Y, -d1.X}
+	n := geometry.Point{X: d1.Y, Y: -d1.X}
 	sign := 1.0
 	if p.Sub(q).Dot(n) < 0 {
 		sign = -1
@@ -500,7 +501,7 @@ func (c *Curve) residual(p Point, i int, u float64) (s, d float64) {
 // by rows). Affine maps carry cubic pieces to cubic pieces exactly. When m
 // reverses orientation (det m < 0) the direction of travel is kept; use
 // Reverse to restore counter-clockwise order.
-func (c *Curve) Transform(m [2][2]float64, b Point) *Curve {
+func (c *Curve) Transform(m [2][2]float64, b geometry.Point) *Curve {
 	xs := make([][4]float64, len(c.xs))
 	ys := make([][4]float64, len(c.ys))
 	for i := range c.xs {
@@ -544,11 +545,11 @@ func (c *Curve) Transform(m [2][2]float64, b Point) *Curve {
 			lu[k] = fu * c.leafU[k]
 			ls[k] = fs * c.leafS[k]
 		}
-		out := curveWithTables(ts, xs, ys, c.closed, pl, append([]int32(nil), c.leafAt...), lu, ls)
+		out := withTables(ts, xs, ys, c.closed, pl, append([]int32(nil), c.leafAt...), lu, ls)
 		out.fixEnds(func(i int) float64 { return fu * c.Span(i) })
 		return out
 	}
-	return curveNew(ts, xs, ys, c.closed)
+	return newCurve(ts, xs, ys, c.closed)
 }
 
 // fixEnds corrects tables carried over from another curve for the
@@ -577,10 +578,10 @@ func (c *Curve) fixEnds(want func(int) float64) {
 	}
 }
 
-// curveWithTables returns the curve with the given pieces, piece lengths
-// and quadrature leaves (see Curve), which must be those curveNew would
+// withTables returns the curve with the given pieces, piece lengths
+// and quadrature leaves (see Curve), which must be those newCurve would
 // find up to rounding.
-func curveWithTables(ts []float64, xs, ys [][4]float64, closed bool, pl []float64, leafAt []int32, leafU, leafS []float64) *Curve {
+func withTables(ts []float64, xs, ys [][4]float64, closed bool, pl []float64, leafAt []int32, leafU, leafS []float64) *Curve {
 	c := &Curve{ts: ts, xs: xs, ys: ys, closed: closed, pl: pl, leafAt: leafAt, leafU: leafU, leafS: leafS}
 	c.ss = make([]float64, len(pl)+1)
 	for i, l := range pl {
@@ -604,8 +605,8 @@ func (c *Curve) Reverse() *Curve {
 	for j := 0; j < np; j++ {
 		i := np - 1 - j
 		h := c.Span(i)
-		xs[j] = curveFlip(c.xs[i], h)
-		ys[j] = curveFlip(c.ys[i], h)
+		xs[j] = flip(c.xs[i], h)
+		ys[j] = flip(c.ys[i], h)
 		ts[j+1] = ts[j] + h
 		pl[j] = c.pl[i]
 		k0, k1 := int(c.leafAt[i]), int(c.leafAt[i+1])
@@ -617,13 +618,13 @@ func (c *Curve) Reverse() *Curve {
 		leafS = append(leafS, c.pl[i])
 		leafAt[j+1] = int32(len(leafU))
 	}
-	out := curveWithTables(ts, xs, ys, c.closed, pl, leafAt, leafU, leafS)
+	out := withTables(ts, xs, ys, c.closed, pl, leafAt, leafU, leafS)
 	out.fixEnds(func(j int) float64 { return c.Span(np - 1 - j) })
 	return out
 }
 
-// curveFlip returns the coefficients of P(h − v).
-func curveFlip(k [4]float64, h float64) [4]float64 {
+// flip returns the coefficients of P(h − v).
+func flip(k [4]float64, h float64) [4]float64 {
 	a, b, cc, d := k[0], k[1], k[2], k[3]
 	return [4]float64{
 		a + h*(b+h*(cc+h*d)),
@@ -633,9 +634,9 @@ func curveFlip(k [4]float64, h float64) [4]float64 {
 	}
 }
 
-// curveShift returns the coefficients of P(u₀ + v).
-func curveShift(k [4]float64, u0 float64) [4]float64 {
-	v, d1, d2 := curvePoly(k, u0)
+// shiftPoly returns the coefficients of P(u₀ + v).
+func shiftPoly(k [4]float64, u0 float64) [4]float64 {
+	v, d1, d2 := poly(k, u0)
 	return [4]float64{v, d1, d2 / 2, k[3]}
 }
 
@@ -643,7 +644,7 @@ func curveShift(k [4]float64, u0 float64) [4]float64 {
 // start of a closed curve) of the point of cv farthest from p, and the
 // distance, refined by golden-section search between the neighbours of the
 // best sample.
-func (cv *Curve) Farthest(p Point, s0, s1 float64) (float64, float64) {
+func (cv *Curve) Farthest(p geometry.Point, s0, s1 float64) (float64, float64) {
 	L := cv.Length()
 	in := func(s float64) bool {
 		if s0 <= s1 {
@@ -709,17 +710,17 @@ func (cv *Curve) SnapEnds() (*Curve, float64) {
 	ys := append([][4]float64(nil), cv.ys...)
 	// Add δ(1 − u/h)³ to the first piece and δ(u/h)³ to the last.
 	h0 := cv.Span(0)
-	xs[0] = curveAddCube(xs[0], d0.X, h0, true)
-	ys[0] = curveAddCube(ys[0], d0.Y, h0, true)
+	xs[0] = addCube(xs[0], d0.X, h0, true)
+	ys[0] = addCube(ys[0], d0.Y, h0, true)
 	k := len(xs) - 1
 	hk := cv.Span(k)
-	xs[k] = curveAddCube(xs[k], d1.X, hk, false)
-	ys[k] = curveAddCube(ys[k], d1.Y, hk, false)
-	return curveNew(append([]float64(nil), cv.ts...), xs, ys, true), math.Max(d0.Norm(), d1.Norm())
+	xs[k] = addCube(xs[k], d1.X, hk, false)
+	ys[k] = addCube(ys[k], d1.Y, hk, false)
+	return newCurve(append([]float64(nil), cv.ts...), xs, ys, true), math.Max(d0.Norm(), d1.Norm())
 }
 
-// curveAddCube adds δ(1 − u/h)³ (falling) or δ(u/h)³ (rising) to k.
-func curveAddCube(k [4]float64, delta, h float64, falling bool) [4]float64 {
+// addCube adds δ(1 − u/h)³ (falling) or δ(u/h)³ (rising) to k.
+func addCube(k [4]float64, delta, h float64, falling bool) [4]float64 {
 	if falling {
 		k[0] += delta
 		k[1] -= 3 * delta / h
@@ -755,11 +756,11 @@ func (b *Builder) addPiece(c *Curve, i int, u0, u1 float64) {
 	if u1-u0 <= 1e-15*c.Span(i) {
 		return
 	}
-	b.add(curveShift(c.xs[i], u0), curveShift(c.ys[i], u0), u1-u0)
+	b.add(shiftPoly(c.xs[i], u0), shiftPoly(c.ys[i], u0), u1-u0)
 }
 
 // AddLine adds the straight segment from p to q, parametrised by length.
-func (b *Builder) AddLine(p, q Point) {
+func (b *Builder) AddLine(p, q geometry.Point) {
 	l := p.Dist(q)
 	if l == 0 {
 		return
@@ -778,7 +779,7 @@ func (b *Builder) AddArc(c *Curve, s0, s1 float64) {
 }
 
 // Curve returns the curve of the pieces added, closed or not.
-func (b *Builder) Curve(closed bool) *Curve { return curveNew(b.ts, b.xs, b.ys, closed) }
+func (b *Builder) Curve(closed bool) *Curve { return newCurve(b.ts, b.xs, b.ys, closed) }
 
 // Sub returns the part of c from arc length s0 to s1 as a new curve. For a
 // closed curve s1 < s0 wraps through the start; s0 == s1 on a closed curve
@@ -811,8 +812,8 @@ func (c *Curve) subTo(b *Builder, i0 int, u0 float64, i1 int, u1 float64) {
 // the last joins the first), natural at both ends otherwise. It panics if
 // fewer than splineMinKnots points are given; coincident neighbours are
 // skipped.
-func Interpolate(pts []Point, closed bool) *Curve {
-	keep := []Point{pts[0]}
+func Interpolate(pts []geometry.Point, closed bool) *Curve {
+	keep := []geometry.Point{pts[0]}
 	for _, p := range pts[1:] {
 		if p.Dist(keep[len(keep)-1]) > 0 {
 			keep = append(keep, p)
@@ -838,11 +839,11 @@ func Interpolate(pts []Point, closed bool) *Curve {
 	if err != nil {
 		panic("geometry: interpolation failed: " + err.Error())
 	}
-	return curveFromFit(prob, f, closed)
+	return fromFit(prob, f, closed)
 }
 
-// curveFromFit builds the curve of a spline fit with columns x and y.
-func curveFromFit(p *splineProblem, f *splineFit, closed bool) *Curve {
+// fromFit builds the curve of a spline fit with columns x and y.
+func fromFit(p *splineProblem, f *splineFit, closed bool) *Curve {
 	px := p.pieces(f.gs[0], f.gams[0])
 	py := p.pieces(f.gs[1], f.gams[1])
 	ts := make([]float64, len(px)+1)
@@ -850,16 +851,16 @@ func curveFromFit(p *splineProblem, f *splineFit, closed bool) *Curve {
 	for i, h := range p.hs {
 		ts[i+1] = ts[i] + h
 	}
-	return curveNew(ts, px, py, closed)
+	return newCurve(ts, px, py, closed)
 }
 
 // Samples returns the curve points at n+1 arc lengths equally spaced from 0
 // to Length(). It panics if n < 1.
-func (c *Curve) Samples(n int) []Point {
+func (c *Curve) Samples(n int) []geometry.Point {
 	if n < 1 {
 		panic("geometry: Samples needs n ≥ 1")
 	}
-	out := make([]Point, n+1)
+	out := make([]geometry.Point, n+1)
 	L := c.Length()
 	for k := range out {
 		out[k] = c.At(L * float64(k) / float64(n))
