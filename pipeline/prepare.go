@@ -13,6 +13,7 @@ import (
 	"strings"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/clean"
 	"github.com/foilwright/foilwright/geometry/curve"
 	"github.com/foilwright/foilwright/geometry/frame"
 	"github.com/foilwright/foilwright/geometry/props"
@@ -38,11 +39,11 @@ const maxNoiseFraction = 0.05
 // section document and the intermediate results a report or a plot needs.
 type Preparation struct {
 	Section  *section.Section
-	Clouds   []*geometry.Cloud     // as read, one per file
-	Flatness *geometry.Flatness    // set when the points were 3D
-	Clean    *geometry.CleanReport // merging, ordering, outliers, loops
-	Contour  *geometry.Contour     // the kept points, in order, input coordinates (plane coordinates for 3D input)
-	Curve    *curve.Curve          // the fitted curve, same coordinates as Contour
+	Clouds   []*geometry.Cloud  // as read, one per file
+	Flatness *geometry.Flatness // set when the points were 3D
+	Clean    *clean.Report // merging, ordering, outliers, loops
+	Contour  *geometry.Contour  // the kept points, in order, input coordinates (plane coordinates for 3D input)
+	Curve    *curve.Curve       // the fitted curve, same coordinates as Contour
 	Fit      *curve.FitReport
 	Shape    *frame.Normalized // the normalised curve, chord units
 	Props    *props.SectionProperties
@@ -57,7 +58,7 @@ type Cleaned struct {
 	Clouds   []*geometry.Cloud
 	Flatness *geometry.Flatness
 	Plane    *geometry.Plane // the plane of 3D points; nil for 2D input
-	Clean    *geometry.CleanReport
+	Clean    *clean.Report
 	Contour  *geometry.Contour
 	Units    geometry.Unit
 	Files    []string // display names
@@ -117,7 +118,7 @@ func ReadAndClean(files []InputFile, s PrepSettings) (*Cleaned, error) {
 		cloud, out.Flatness, out.Plane = flat, &fl, &fl.Plane
 	}
 
-	var co geometry.CleanOptions
+	var co clean.Options
 	if s.MergeTol != nil {
 		co.MergeTol = *s.MergeTol
 	}
@@ -130,7 +131,7 @@ func ReadAndClean(files []InputFile, s PrepSettings) (*Cleaned, error) {
 	if s.Loop != nil {
 		co.Loop = *s.Loop
 	}
-	contour, rep, err := geometry.Clean(cloud, co)
+	contour, rep, err := clean.Clean(cloud, co)
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", where, err)
 	}
@@ -322,7 +323,7 @@ func contourDiagonal(c *geometry.Contour) float64 {
 
 // DroppedOf lists every input point that is not in the contour: merged
 // duplicates, outliers and stray points.
-func DroppedOf(rep *geometry.CleanReport) []section.Dropped {
+func DroppedOf(rep *clean.Report) []section.Dropped {
 	out := []section.Dropped{}
 	for _, m := range rep.Merged {
 		out = append(out, section.Dropped{File: m.Dropped.File, Line: m.Dropped.Line, Entity: m.Dropped.Entity,

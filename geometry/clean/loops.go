@@ -1,16 +1,20 @@
-package geometry
+package clean
 
-import "slices"
+import (
+	"slices"
 
-// loopGraph is an undirected graph on the points in which every point has
+	"github.com/foilwright/foilwright/geometry"
+)
+
+// graph is an undirected graph on the points in which every point has
 // at most two links: its components are chains and cycles.
-type loopGraph struct {
+type graph struct {
 	adj [][2]int32 // −1 marks a free slot
 }
 
-// loopNewGraph returns a graph of n points with no links.
-func loopNewGraph(n int) *loopGraph {
-	g := &loopGraph{adj: make([][2]int32, n)}
+// newGraph returns a graph of n points with no links.
+func newGraph(n int) *graph {
+	g := &graph{adj: make([][2]int32, n)}
 	for i := range g.adj {
 		g.adj[i] = [2]int32{-1, -1}
 	}
@@ -18,7 +22,7 @@ func loopNewGraph(n int) *loopGraph {
 }
 
 // deg returns the number of links of i.
-func (g *loopGraph) deg(i int32) int {
+func (g *graph) deg(i int32) int {
 	d := 0
 	for _, q := range g.adj[i] {
 		if q >= 0 {
@@ -29,11 +33,11 @@ func (g *loopGraph) deg(i int32) int {
 }
 
 // linked reports whether i and j are linked.
-func (g *loopGraph) linked(i, j int32) bool { return g.adj[i][0] == j || g.adj[i][1] == j }
+func (g *graph) linked(i, j int32) bool { return g.adj[i][0] == j || g.adj[i][1] == j }
 
 // addEdge links i and j. It panics if either already has two links, or if
 // i == j.
-func (g *loopGraph) addEdge(i, j int32) {
+func (g *graph) addEdge(i, j int32) {
 	if i == j || g.linked(i, j) {
 		panic("geometry: loop graph: bad link")
 	}
@@ -41,7 +45,7 @@ func (g *loopGraph) addEdge(i, j int32) {
 	g.addSlot(j, i)
 }
 
-func (g *loopGraph) addSlot(i, j int32) {
+func (g *graph) addSlot(i, j int32) {
 	switch {
 	case g.adj[i][0] < 0:
 		g.adj[i][0] = j
@@ -53,7 +57,7 @@ func (g *loopGraph) addSlot(i, j int32) {
 }
 
 // walk returns the points reached from start, marking them in seen.
-func (g *loopGraph) walk(start int32, seen []bool) []int32 {
+func (g *graph) walk(start int32, seen []bool) []int32 {
 	var seq []int32
 	prev, cur := int32(-1), start
 	for cur >= 0 && !seen[cur] {
@@ -71,7 +75,7 @@ func (g *loopGraph) walk(start int32, seen []bool) []int32 {
 
 // components returns the cycles of at least minLoop points, each in walk
 // order, and the remaining points as chains (open chains and short cycles).
-func (g *loopGraph) components(minLoop int) (loops, rest [][]int32) {
+func (g *graph) components(minLoop int) (loops, rest [][]int32) {
 	n := len(g.adj)
 	seen := make([]bool, n)
 	for i := range int32(n) {
@@ -92,8 +96,8 @@ func (g *loopGraph) components(minLoop int) (loops, rest [][]int32) {
 	return loops, rest
 }
 
-// loopArea returns the signed area of the polygon pts[seq[0]], pts[seq[1]], …
-func loopArea(pts []Point, seq []int32) float64 {
+// area returns the signed area of the polygon pts[seq[0]], pts[seq[1]], …
+func area(pts []geometry.Point, seq []int32) float64 {
 	var a float64
 	n := len(seq)
 	if n == 0 {
@@ -107,19 +111,19 @@ func loopArea(pts []Point, seq []int32) float64 {
 	return a / 2
 }
 
-// loopJoinReach is how far, in local point spacings, a chain end looks for
+// joinReach is how far, in local point spacings, a chain end looks for
 // another end to join.
-const loopJoinReach = 5
+const joinReach = 5
 
-// loopSelfClose is the largest gap, as a fraction of the chain's length,
+// selfClose is the largest gap, as a fraction of the chain's length,
 // across which a chain that met no other end is closed on itself (an open
 // trailing edge with dense points on either side).
-const loopSelfClose = 0.25
+const selfClose = 0.25
 
-// loopJoin joins the ends of the chains of g into loops. Each end e has an
+// join joins the ends of the chains of g into loops. Each end e has an
 // outward direction u (from the chain point three links in, towards e) and a
 // local spacing h (its last link; for a lone point, its nearest-neighbour
-// distance). Every pair of ends (e, f) within loopJoinReach·min(h_e, h_f) of
+// distance). Every pair of ends (e, f) within joinReach·min(h_e, h_f) of
 // each other is a candidate, with cost
 //
 //	|e − f| · w_e · w_f,   w_e = 1 + (1 − cos θ_e)/2,
@@ -129,10 +133,10 @@ const loopSelfClose = 0.25
 // corner such as a sharp trailing edge, where one chain turns back onto the
 // other, costs up to twice as much, which is still cheaper than a jump to a
 // point off the surface. Candidates are taken greedily, cheapest first; a
-// join that closes a chain into a loop needs at least cleanMinPoints points.
-// Finally every open chain of at least cleanMinPoints points whose ends are
-// less than loopSelfClose of its length apart is closed on itself.
-func loopJoin(pts []Point, nb *orderNbrs, g *loopGraph) {
+// join that closes a chain into a loop needs at least minPoints points.
+// Finally every open chain of at least minPoints points whose ends are
+// less than selfClose of its length apart is closed on itself.
+func join(pts []geometry.Point, nb *nbrs, g *graph) {
 	n := len(pts)
 	parent := make([]int32, n)
 	size := make([]int32, n)
@@ -172,7 +176,7 @@ func loopJoin(pts []Point, nb *orderNbrs, g *loopGraph) {
 	if len(ends) == 0 {
 		return
 	}
-	dir := make(map[int32]Point, len(ends))
+	dir := make(map[int32]geometry.Point, len(ends))
 	spc := make(map[int32]float64, len(ends))
 	for _, e := range ends {
 		switch g.deg(e) {
@@ -205,14 +209,14 @@ func loopJoin(pts []Point, nb *orderNbrs, g *loopGraph) {
 			}
 		}
 	}
-	lo, hi := cleanBounds(pts)
+	lo, hi := bounds(pts)
 	const m = 8
-	near := orderKNN(pts, ends, m, lo, hi)
+	near := knn(pts, ends, m, lo, hi)
 	type cand struct {
 		e, f int32
 		cost float64
 	}
-	weight := func(e int32, step Point) float64 {
+	weight := func(e int32, step geometry.Point) float64 {
 		u, ok := dir[e]
 		if !ok {
 			return 1.5
@@ -227,7 +231,7 @@ func loopJoin(pts []Point, nb *orderNbrs, g *loopGraph) {
 			}
 			d := pts[f].Sub(pts[e])
 			l := d.Norm()
-			if l == 0 || l > loopJoinReach*min(spc[e], spc[f]) {
+			if l == 0 || l > joinReach*min(spc[e], spc[f]) {
 				continue
 			}
 			s := d.Scale(1 / l)
@@ -247,7 +251,7 @@ func loopJoin(pts []Point, nb *orderNbrs, g *loopGraph) {
 		if g.deg(c.e) == 2 || g.deg(c.f) == 2 || g.linked(c.e, c.f) {
 			continue
 		}
-		if find(c.e) == find(c.f) && size[find(c.e)] < cleanMinPoints {
+		if find(c.e) == find(c.f) && size[find(c.e)] < minPoints {
 			continue
 		}
 		g.addEdge(c.e, c.f)
@@ -260,7 +264,7 @@ func loopJoin(pts []Point, nb *orderNbrs, g *loopGraph) {
 			continue
 		}
 		ch := g.walk(e, seen)
-		if len(ch) < cleanMinPoints {
+		if len(ch) < minPoints {
 			continue
 		}
 		var length float64
@@ -268,7 +272,7 @@ func loopJoin(pts []Point, nb *orderNbrs, g *loopGraph) {
 			length += pts[ch[k-1]].Dist(pts[ch[k]])
 		}
 		a, b := ch[0], ch[len(ch)-1]
-		if pts[a].Dist(pts[b]) <= loopSelfClose*length {
+		if pts[a].Dist(pts[b]) <= selfClose*length {
 			g.addEdge(a, b)
 		}
 	}

@@ -1,33 +1,36 @@
-package geometry
+package clean
 
 import (
 	"math"
 	"slices"
+
+	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/internal/numeric"
 )
 
-// outlierK is the number of loop neighbours on each side of a point that its
+// fitK is the number of loop neighbours on each side of a point that its
 // local fit uses.
-const outlierK = 3
+const fitK = 3
 
-// outlierFloor is the least robust scale, as a fraction of the median point
+// scaleFloor is the least robust scale, as a fraction of the median point
 // spacing of the loop. It keeps noise-free input (exact coordinates, whose
 // residuals are only the local fits' own approximation error) from having
 // every slightly curved stretch called an outlier.
-const outlierFloor = 0.02
+const scaleFloor = 0.02
 
-// outlierRounds bounds the detect-and-drop rounds of outlierDrop.
-const outlierRounds = 10
+// dropRounds bounds the detect-and-drop rounds of dropOutliers.
+const dropRounds = 10
 
-// outlierHit is one point found to be an outlier or a stray.
-type outlierHit struct {
+// hit is one point found to be an outlier or a stray.
+type hit struct {
 	idx          int32
 	reason       string
 	dist, sigmas float64
 	kept         bool
 }
 
-// outlierResiduals returns, for each position of the loop seq, the residual
-// of its point against local fits of its outlierK neighbours on each side
+// residuals returns, for each position of the loop seq, the residual
+// of its point against local fits of its fitK neighbours on each side
 // (the point itself excluded): the least of
 //
 //   - the normal distance to a parametric quadratic (x(s), y(s)) fitted by
@@ -41,19 +44,19 @@ type outlierHit struct {
 // surface is far from all three. The work runs on every CPU.
 //
 // When band > 0 the loop is a band of points ordered only along the curve
-// (orderBand), and the fits are those of outlierBandFit over band
+// (byBand), and the fits are those of bandFit over band
 // neighbours on each side.
-func outlierResiduals(pts []Point, seq []int32, band int) []float64 {
+func residuals(pts []geometry.Point, seq []int32, band int) []float64 {
 	r := make([]float64, len(seq))
-	outlierResidualsAt(pts, seq, band, nil, r)
+	residualsAt(pts, seq, band, nil, r)
 	return r
 }
 
-// outlierResidualsAt sets r[i] to the residual of position i of seq for
-// each i in at (every position when at is nil), as outlierResiduals does.
-func outlierResidualsAt(pts []Point, seq []int32, band int, at []int, r []float64) {
+// residualsAt sets r[i] to the residual of position i of seq for
+// each i in at (every position when at is nil), as residuals does.
+func residualsAt(pts []geometry.Point, seq []int32, band int, at []int, r []float64) {
 	n := len(seq)
-	k := min(outlierK, (n-1)/2)
+	k := min(fitK, (n-1)/2)
 	if band > 0 {
 		k = min(band, (n-1)/2)
 	}
@@ -61,32 +64,32 @@ func outlierResidualsAt(pts []Point, seq []int32, band int, at []int, r []float6
 	if at != nil {
 		m = len(at)
 	}
-	cleanParallel(m, func(a, b int) {
+	parallel(m, func(a, b int) {
 		for j := a; j < b; j++ {
 			i := j
 			if at != nil {
 				i = at[j]
 			}
 			if band > 0 {
-				r[i] = outlierBandFit(pts, seq, i, k)
+				r[i] = bandFit(pts, seq, i, k)
 			} else {
-				r[i] = outlierFit(pts, seq, i, k)
+				r[i] = localFit(pts, seq, i, k)
 			}
 		}
 	})
 }
 
-// outlierBandFit returns the residual of position i of a band-ordered loop
+// bandFit returns the residual of position i of a band-ordered loop
 // seq: the least of its distances from a quadratic y(x) fitted by least
 // squares to its k neighbours on each side, in their principal frame, and
 // from the principal lines of either side alone. Across a band the order of
 // the points is arbitrary, so no chord-length parameter exists; the window
 // spans several band widths, so its principal frame follows the curve.
-func outlierBandFit(pts []Point, seq []int32, i, k int) float64 {
+func bandFit(pts []geometry.Point, seq []int32, i, k int) float64 {
 	n := len(seq)
 	p0 := pts[seq[i]]
 	// The window, relative to p0: w[0:k] the left side, w[k:2k] the right.
-	var buf [2 * cleanMaxBandFit]Point
+	var buf [2 * maxBandFit]geometry.Point
 	w := buf[:2*k]
 	for j := 1; j <= k; j++ {
 		l, r := i-j, i+j
@@ -99,7 +102,7 @@ func outlierBandFit(pts []Point, seq []int32, i, k int) float64 {
 		w[k-j], w[k+j-1] = pts[seq[l]].Sub(p0), pts[seq[r]].Sub(p0)
 	}
 	// frame returns the centroid and principal direction of ps.
-	frame := func(ps []Point) (c, u Point) {
+	frame := func(ps []geometry.Point) (c, u geometry.Point) {
 		var sx, sy, sxx, sxy, syy float64
 		for _, q := range ps {
 			sx += q.X
@@ -109,11 +112,11 @@ func outlierBandFit(pts []Point, seq []int32, i, k int) float64 {
 			syy += q.Y * q.Y
 		}
 		m := float64(len(ps))
-		c = Point{sx / m, sy / m}
-		return c, cleanPrincipal(sxx-sx*c.X, sxy-sx*c.Y, syy-sy*c.Y)
+		c = geometry.Point{X: sx / m, Y: sy / m}
+		return c, principal(sxx-sx*c.X, sxy-sx*c.Y, syy-sy*c.Y)
 	}
 	best := math.Inf(1)
-	for _, side := range [2][]Point{w[:k], w[k:]} {
+	for _, side := range [2][]geometry.Point{w[:k], w[k:]} {
 		c, u := frame(side)
 		best = min(best, math.Abs(c.Scale(-1).Cross(u)))
 	}
@@ -144,7 +147,7 @@ func outlierBandFit(pts []Point, seq []int32, i, k int) float64 {
 	a[0][0] = float64(len(w))
 	a[1][0], a[1][1], a[2][0], a[2][1] = a[0][1], a[0][2], a[0][2], a[1][2]
 	a[0][1], a[0][2] = a[1][0], a[2][0]
-	if cf, ok := outlierSolve3(a, by); ok {
+	if cf, ok := numeric.Cramer3(a, by, 1e-12); ok {
 		d := c.Scale(-1)
 		v := d.Dot(u) / span
 		best = min(best, math.Abs(u.Cross(d)-(cf[0]+cf[1]*v+cf[2]*v*v)))
@@ -152,33 +155,11 @@ func outlierBandFit(pts []Point, seq []int32, i, k int) float64 {
 	return best
 }
 
-// outlierSolve3 solves the 3×3 system a·x = b by Cramer's rule; ok is false
-// when a is near singular.
-func outlierSolve3(a [3][3]float64, b [3]float64) (x [3]float64, ok bool) {
-	det3 := func(m [3][3]float64) float64 {
-		return m[0][0]*(m[1][1]*m[2][2]-m[1][2]*m[2][1]) -
-			m[0][1]*(m[1][0]*m[2][2]-m[1][2]*m[2][0]) +
-			m[0][2]*(m[1][0]*m[2][1]-m[1][1]*m[2][0])
-	}
-	det := det3(a)
-	if math.Abs(det) < 1e-12 {
-		return x, false
-	}
-	for col := range 3 {
-		m := a
-		for r := range 3 {
-			m[r][col] = b[r]
-		}
-		x[col] = det3(m) / det
-	}
-	return x, true
-}
-
-// outlierFit returns the residual of position i of seq, described at
-// outlierResiduals.
-func outlierFit(pts []Point, seq []int32, i, k int) float64 {
+// localFit returns the residual of position i of seq, described at
+// residuals.
+func localFit(pts []geometry.Point, seq []int32, i, k int) float64 {
 	n := len(seq)
-	at := func(j int) Point { return pts[seq[((i+j)%n+n)%n]] }
+	at := func(j int) geometry.Point { return pts[seq[((i+j)%n+n)%n]] }
 	p0 := at(0)
 	pm, pp := at(-1), at(1)
 	gap := pp.Sub(pm)
@@ -186,13 +167,13 @@ func outlierFit(pts []Point, seq []int32, i, k int) float64 {
 	best := math.Inf(1)
 	// Two-sided parametric quadratic.
 	if g > 0 {
-		var ss [2 * outlierK]float64
-		var ps [2 * outlierK]Point
+		var ss [2 * fitK]float64
+		var ps [2 * fitK]geometry.Point
 		m := 0
 		s := -g / 2
 		for j := 1; j <= k; j++ {
 			if j > 1 {
-				s -= cleanDist(at(-j+1), at(-j))
+				s -= fastDist(at(-j+1), at(-j))
 			}
 			ss[m], ps[m] = s, at(-j)
 			m++
@@ -200,7 +181,7 @@ func outlierFit(pts []Point, seq []int32, i, k int) float64 {
 		s = g / 2
 		for j := 1; j <= k; j++ {
 			if j > 1 {
-				s += cleanDist(at(j-1), at(j))
+				s += fastDist(at(j-1), at(j))
 			}
 			ss[m], ps[m] = s, at(j)
 			m++
@@ -208,7 +189,7 @@ func outlierFit(pts []Point, seq []int32, i, k int) float64 {
 		span := max(-ss[k-1], ss[m-1])
 		t := p0.Sub(pm).Dot(gap) / (g * g)
 		u := (-g/2 + min(1, max(0, t))*g) / span
-		if c, d, ok := outlierQuadratic(ss[:m], ps[:m], span, u); ok {
+		if c, d, ok := quadratic(ss[:m], ps[:m], span, u); ok {
 			if l := d.Norm(); l > 0 {
 				best = math.Abs(p0.Sub(c).Cross(d.Scale(1 / l)))
 			} else {
@@ -218,7 +199,7 @@ func outlierFit(pts []Point, seq []int32, i, k int) float64 {
 	}
 	// One-sided lines.
 	for _, side := range [2]int{-1, 1} {
-		var c Point
+		var c geometry.Point
 		for j := 1; j <= k; j++ {
 			c = c.Add(at(side * j))
 		}
@@ -233,24 +214,24 @@ func outlierFit(pts []Point, seq []int32, i, k int) float64 {
 		if sxx+syy == 0 {
 			continue
 		}
-		t := cleanPrincipal(sxx, sxy, syy)
+		t := principal(sxx, sxy, syy)
 		best = min(best, math.Abs(p0.Sub(c).Cross(t)))
 	}
 	return best
 }
 
-// outlierSagitta returns how far a smooth curve may bulge from the chord
+// sagitta returns how far a smooth curve may bulge from the chord
 // between the neighbours i−1 and i+1 of position i of seq, given how much
 // it turns from the step i−2 → i−1 to the step i+1 → i+2: a circular arc
 // over a chord g that turns by τ has sagitta g/2 · tan(τ/4). Where the
 // points are sparse for the curvature (a nose sampled more coarsely than its
 // radius) a good point can be that far from any local fit; a point off a
 // gently curved surface cannot hide behind it.
-func outlierSagitta(pts []Point, seq []int32, i int) float64 {
+func sagitta(pts []geometry.Point, seq []int32, i int) float64 {
 	n := len(seq)
-	at := func(j int) Point { return pts[seq[((i+j)%n+n)%n]] }
+	at := func(j int) geometry.Point { return pts[seq[((i+j)%n+n)%n]] }
 	a, b := at(-1).Sub(at(-2)), at(2).Sub(at(1))
-	g := cleanDist(at(1), at(-1))
+	g := fastDist(at(1), at(-1))
 	la, lb := a.Norm(), b.Norm()
 	if la == 0 || lb == 0 {
 		return 0
@@ -259,10 +240,10 @@ func outlierSagitta(pts []Point, seq []int32, i int) float64 {
 	return g / 2 * math.Tan(tau/4)
 }
 
-// outlierQuadratic fits x(u) and y(u), u = s/span, by least-squares
+// quadratic fits x(u) and y(u), u = s/span, by least-squares
 // quadratics to the points ps at parameters ss and returns the point and the
 // derivative at u. ok is false when the normal equations are singular.
-func outlierQuadratic(ss []float64, ps []Point, span, u float64) (c, d Point, ok bool) {
+func quadratic(ss []float64, ps []geometry.Point, span, u float64) (c, d geometry.Point, ok bool) {
 	var a [3][3]float64
 	var bx, by [3]float64
 	for j, s := range ss {
@@ -276,62 +257,62 @@ func outlierQuadratic(ss []float64, ps []Point, span, u float64) (c, d Point, ok
 			by[r] += b[r] * ps[j].Y
 		}
 	}
-	cx, okx := outlierSolve3(a, bx)
-	cy, oky := outlierSolve3(a, by)
+	cx, okx := numeric.Cramer3(a, bx, 1e-12)
+	cy, oky := numeric.Cramer3(a, by, 1e-12)
 	if !okx || !oky {
 		return c, d, false
 	}
-	c = Point{cx[0] + cx[1]*u + cx[2]*u*u, cy[0] + cy[1]*u + cy[2]*u*u}
-	d = Point{cx[1] + 2*cx[2]*u, cy[1] + 2*cy[2]*u}
+	c = geometry.Point{X: cx[0] + cx[1]*u + cx[2]*u*u, Y: cy[0] + cy[1]*u + cy[2]*u*u}
+	d = geometry.Point{X: cx[1] + 2*cx[2]*u, Y: cy[1] + 2*cy[2]*u}
 	return c, d, true
 }
 
-// outlierScale returns the robust scale of residuals r, 1.4826 × their
+// robustScale returns the robust scale of residuals r, 1.4826 × their
 // median absolute value (the MAD of a residual centred on the curve; 1.4826
-// makes it σ for Gaussian noise, common practice), floored at outlierFloor × the median spacing
+// makes it σ for Gaussian noise, common practice), floored at scaleFloor × the median spacing
 // of seq.
-func outlierScale(pts []Point, seq []int32, r []float64) float64 {
+func robustScale(pts []geometry.Point, seq []int32, r []float64) float64 {
 	abs := slices.Clone(r)
-	s := 1.4826 * cleanMedian(abs)
+	s := 1.4826 * median(abs)
 	gaps := make([]float64, len(seq))
 	for k := range seq {
-		gaps[k] = cleanDist(pts[seq[k]], pts[seq[(k+1)%len(seq)]])
+		gaps[k] = fastDist(pts[seq[k]], pts[seq[(k+1)%len(seq)]])
 	}
-	return max(s, outlierFloor*cleanMedian(gaps))
+	return max(s, scaleFloor*median(gaps))
 }
 
-// outlierDrop finds the gross outliers of the loop seq. Residuals come from
-// outlierResiduals and the scale from outlierScale, both from the first
+// dropOutliers finds the gross outliers of the loop seq. Residuals come from
+// residuals and the scale from robustScale, both from the first
 // round. In each round the points beyond sigma·scale that have the largest
-// residual within outlierK positions are taken out (a point next to an
+// residual within fitK positions are taken out (a point next to an
 // outlier has a large residual too, through the outlier in its fit), and the
 // residuals are computed again with the outliers' neighbours joined. The
 // rounds stop when no point is beyond the threshold. A point within the
-// sagitta bound of outlierSagitta is never an outlier. It returns the loop
+// sagitta bound of sagitta is never an outlier. It returns the loop
 // without the outliers (with them, if keep), the scale and the outliers.
 //
-// band > 0 marks a band-ordered loop (see outlierResiduals); the sagitta
-// bound is then not used. (The local maxima are still taken over outlierK
+// band > 0 marks a band-ordered loop (see residuals); the sagitta
+// bound is then not used. (The local maxima are still taken over fitK
 // positions: in a wide band fit one outlier moves its neighbours' fits
 // little.)
-func outlierDrop(pts []Point, seq []int32, sigma float64, keep bool, band int) ([]int32, float64, []outlierHit) {
-	if len(seq) < cleanMinPoints {
+func dropOutliers(pts []geometry.Point, seq []int32, sigma float64, keep bool, band int) ([]int32, float64, []hit) {
+	if len(seq) < minPoints {
 		return seq, 0, nil
 	}
-	r := outlierResiduals(pts, seq, band)
-	scale := outlierScale(pts, seq, r)
+	r := residuals(pts, seq, band)
+	scale := robustScale(pts, seq, r)
 	thr := sigma * scale
 	work := seq
-	var hits []outlierHit
-	for range outlierRounds {
+	var hits []hit
+	for range dropRounds {
 		n := len(work)
 		var out []bool
 		for i := range n {
-			if r[i] <= thr || band == 0 && r[i] <= outlierSagitta(pts, work, i) {
+			if r[i] <= thr || band == 0 && r[i] <= sagitta(pts, work, i) {
 				continue
 			}
 			top := true
-			for j := -outlierK; j <= outlierK && top; j++ {
+			for j := -fitK; j <= fitK && top; j++ {
 				q := ((i+j)%n + n) % n
 				if j != 0 && (r[q] > r[i] || r[q] == r[i] && q < i) {
 					top = false
@@ -344,14 +325,14 @@ func outlierDrop(pts []Point, seq []int32, sigma float64, keep bool, band int) (
 				out = make([]bool, n)
 			}
 			out[i] = true
-			hits = append(hits, outlierHit{idx: work[i], reason: "outlier", dist: r[i], sigmas: r[i] / scale, kept: keep})
+			hits = append(hits, hit{idx: work[i], reason: "outlier", dist: r[i], sigmas: r[i] / scale, kept: keep})
 		}
 		if out == nil {
 			break
 		}
 		// Take the outliers out; only the residuals of points whose fits
 		// reached one change.
-		reach := outlierK + 2
+		reach := fitK + 2
 		if band > 0 {
 			reach = band + 2
 		}
@@ -368,7 +349,7 @@ func outlierDrop(pts []Point, seq []int32, sigma float64, keep bool, band int) (
 		}
 		work, r = next, nr
 		nn := len(work)
-		if nn < cleanMinPoints {
+		if nn < minPoints {
 			break
 		}
 		dirty := make([]bool, nn)
@@ -384,7 +365,7 @@ func outlierDrop(pts []Point, seq []int32, sigma float64, keep bool, band int) (
 		if 2*reach+1 >= nn {
 			at = nil
 		}
-		outlierResidualsAt(pts, work, band, at, r)
+		residualsAt(pts, work, band, at, r)
 	}
 	if keep {
 		return seq, scale, hits
@@ -392,12 +373,12 @@ func outlierDrop(pts []Point, seq []int32, sigma float64, keep bool, band int) (
 	return work, scale, hits
 }
 
-// outlierPlace deals with the points of rest, which joined no loop. A point
+// placeRest deals with the points of rest, which joined no loop. A point
 // none of whose nearest neighbours is on the loop seq is a stray. Otherwise
 // its residual is its distance from the loop's polyline next to its nearest
 // loop neighbour: beyond thr it is an outlier (put in only if keep), and
 // within thr it is put back into the loop where it projects.
-func outlierPlace(pts []Point, seq []int32, rest [][]int32, nb *orderNbrs, thr, scale float64, keep bool) ([]int32, []outlierHit) {
+func placeRest(pts []geometry.Point, seq []int32, rest [][]int32, nb *nbrs, thr, scale float64, keep bool) ([]int32, []hit) {
 	if len(rest) == 0 {
 		return seq, nil
 	}
@@ -415,7 +396,7 @@ func outlierPlace(pts []Point, seq []int32, rest [][]int32, nb *orderNbrs, thr, 
 		idx int32
 	}
 	var adds []ins
-	var hits []outlierHit
+	var hits []hit
 	for _, ch := range rest {
 		for _, i := range ch {
 			p := pts[i]
@@ -427,7 +408,7 @@ func outlierPlace(pts []Point, seq []int32, rest [][]int32, nb *orderNbrs, thr, 
 				}
 			}
 			if j < 0 {
-				hits = append(hits, outlierHit{idx: i, reason: "stray"})
+				hits = append(hits, hit{idx: i, reason: "stray"})
 				continue
 			}
 			best, at, bt := math.Inf(1), int32(0), 0.0
@@ -447,7 +428,7 @@ func outlierPlace(pts []Point, seq []int32, rest [][]int32, nb *orderNbrs, thr, 
 				if scale > 0 {
 					sg = best / scale
 				}
-				hits = append(hits, outlierHit{idx: i, reason: "outlier", dist: best, sigmas: sg, kept: keep})
+				hits = append(hits, hit{idx: i, reason: "outlier", dist: best, sigmas: sg, kept: keep})
 				if !keep {
 					continue
 				}

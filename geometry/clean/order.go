@@ -1,31 +1,33 @@
-package geometry
+package clean
 
 import (
 	"math"
+
+	"github.com/foilwright/foilwright/geometry"
 )
 
-// orderK is the number of nearest neighbours kept per point.
-const orderK = 12
+// knnK is the number of nearest neighbours kept per point.
+const knnK = 12
 
-// orderOccupancy is the number of points per occupied cell orderKNN aims
+// occupancy is the number of points per occupied cell knn aims
 // at: for points along a curve, enough that the 3×3 cells about a point
 // usually hold its 12 nearest neighbours.
-const orderOccupancy = 8
+const occupancy = 8
 
-// orderMaxRing bounds the ring search of orderKNN, so that an isolated point
-// costs at most (2·orderMaxRing+1)² cell look-ups; such a point keeps the
+// maxRing bounds the ring search of knn, so that an isolated point
+// costs at most (2·maxRing+1)² cell look-ups; such a point keeps the
 // neighbours found so far (perhaps none).
-const orderMaxRing = 8
+const maxRing = 8
 
-// orderNbrs holds the k nearest neighbours of each point, nearest first,
+// nbrs holds the k nearest neighbours of each point, nearest first,
 // padded with −1 where fewer were found.
-type orderNbrs struct {
+type nbrs struct {
 	k   int
 	idx []int32
 }
 
 // of returns the neighbours of point i.
-func (nb *orderNbrs) of(i int32) []int32 {
+func (nb *nbrs) of(i int32) []int32 {
 	row := nb.idx[int(i)*nb.k : int(i+1)*nb.k]
 	for j, q := range row {
 		if q < 0 {
@@ -35,19 +37,19 @@ func (nb *orderNbrs) of(i int32) []int32 {
 	return row
 }
 
-// orderNeighbours returns the orderK nearest neighbours of every point.
-func orderNeighbours(pts []Point, lo, hi Point) *orderNbrs {
-	return &orderNbrs{k: orderK, idx: orderKNN(pts, nil, orderK, lo, hi)}
+// neighbours returns the knnK nearest neighbours of every point.
+func neighbours(pts []geometry.Point, lo, hi geometry.Point) *nbrs {
+	return &nbrs{k: knnK, idx: knn(pts, nil, knnK, lo, hi)}
 }
 
-// orderKNN returns, for each point sel[j] (every point when sel is nil), its
+// knn returns, for each point sel[j] (every point when sel is nil), its
 // k nearest neighbours among sel, nearest first, in a len(sel)·k slice padded
 // with −1. The points are hashed into a grid whose cells hold about
-// orderOccupancy points (the cell size is first guessed for points along a curve of length
+// occupancy points (the cell size is first guessed for points along a curve of length
 // twice the bounding-box half-perimeter, then corrected from the observed
 // occupancy), and each query searches rings of cells outwards until no
 // unsearched cell can hold a nearer point. The queries run on every CPU.
-func orderKNN(pts []Point, sel []int32, k int, lo, hi Point) []int32 {
+func knn(pts []geometry.Point, sel []int32, k int, lo, hi geometry.Point) []int32 {
 	n := len(pts)
 	if sel != nil {
 		n = len(sel)
@@ -60,15 +62,15 @@ func orderKNN(pts []Point, sel []int32, k int, lo, hi Point) []int32 {
 		return out
 	}
 	w, h := hi.X-lo.X, hi.Y-lo.Y
-	cell := orderOccupancy * 2 * (w + h) / float64(n)
-	var g *cleanGrid
+	cell := occupancy * 2 * (w + h) / float64(n)
+	var g *grid
 	for range 4 {
-		g = cleanNewGrid(pts, sel, cell, lo, hi)
+		g = newGrid(pts, sel, cell, lo, hi)
 		occ := float64(n) / float64(len(g.cells))
-		if occ >= orderOccupancy/2 && occ <= 2*orderOccupancy {
+		if occ >= occupancy/2 && occ <= 2*occupancy {
 			break
 		}
-		cell = g.h * min(10, max(0.1, orderOccupancy/occ))
+		cell = g.h * min(10, max(0.1, occupancy/occ))
 	}
 	query := func(j int) int32 {
 		if sel != nil {
@@ -76,18 +78,18 @@ func orderKNN(pts []Point, sel []int32, k int, lo, hi Point) []int32 {
 		}
 		return int32(j)
 	}
-	cleanParallel(n, func(a, b int) {
+	parallel(n, func(a, b int) {
 		d2s := make([]float64, k)
 		for j := a; j < b; j++ {
-			orderQuery(g, pts, query(j), out[j*k:(j+1)*k], d2s)
+			nearest(g, pts, query(j), out[j*k:(j+1)*k], d2s)
 		}
 	})
 	return out
 }
 
-// orderQuery fills nbr with the nearest points to pts[self] in g, nearest
+// nearest fills nbr with the nearest points to pts[self] in g, nearest
 // first; d2s is scratch space of the same length.
-func orderQuery(g *cleanGrid, pts []Point, self int32, nbr []int32, d2s []float64) {
+func nearest(g *grid, pts []geometry.Point, self int32, nbr []int32, d2s []float64) {
 	k := len(nbr)
 	cnt := 0
 	p := pts[self]
@@ -113,7 +115,7 @@ func orderQuery(g *cleanGrid, pts []Point, self int32, nbr []int32, d2s []float6
 			}
 		}
 	}
-	for r := int64(0); r <= orderMaxRing; r++ {
+	for r := int64(0); r <= maxRing; r++ {
 		if r == 0 {
 			visit(ix, iy)
 		} else {
@@ -135,9 +137,9 @@ func orderQuery(g *cleanGrid, pts []Point, self int32, nbr []int32, d2s []float6
 	}
 }
 
-// orderRuns returns the ordered runs of c in compact indices: src maps
+// runsOf returns the ordered runs of c in compact indices: src maps
 // compact indices to input indices and increases.
-func orderRuns(c *Cloud, src []int32) [][]int32 {
+func runsOf(c *geometry.Cloud, src []int32) [][]int32 {
 	starts := c.Segments
 	if len(starts) == 0 {
 		starts = []int{0}
@@ -163,12 +165,12 @@ func orderRuns(c *Cloud, src []int32) [][]int32 {
 	return runs
 }
 
-// orderRunsValid checks the input's own order: every step of a run must be
+// runsValid checks the input's own order: every step of a run must be
 // local, no longer than twice the larger radius of the two points'
-// orderK-neighbourhoods. A valid order of a curve passes (consecutive points
+// knnK-neighbourhoods. A valid order of a curve passes (consecutive points
 // are near neighbours, however uneven the spacing); a shuffled cloud fails
 // at once. It returns the first bad step, or ok.
-func orderRunsValid(pts []Point, runs [][]int32, nb *orderNbrs) (a, b int32, ok bool) {
+func runsValid(pts []geometry.Point, runs [][]int32, nb *nbrs) (a, b int32, ok bool) {
 	radius := func(i int32) float64 {
 		row := nb.of(i)
 		if len(row) == 0 {
@@ -187,19 +189,19 @@ func orderRunsValid(pts []Point, runs [][]int32, nb *orderNbrs) (a, b int32, ok 
 	return 0, 0, true
 }
 
-// orderTangentSeed is the number of nearest neighbours whose directions are
+// tangentSeed is the number of nearest neighbours whose directions are
 // tried as a first tangent.
-const orderTangentSeed = 6
+const tangentSeed = 6
 
-// orderTangentCone is tan² of the half-angle (about 27°) of the double cone
+// tangentCone is tan² of the half-angle (about 27°) of the double cone
 // about a first tangent within which neighbours refine it.
-const orderTangentCone = 0.25
+const tangentCone = 0.25
 
-// orderMaxTan2 is tan² of the widest angle (60°) between the tangent and the
+// maxTan2 is tan² of the widest angle (60°) between the tangent and the
 // step to a linked neighbour.
-const orderMaxTan2 = 3
+const maxTan2 = 3
 
-// orderLink links an unordered cloud into chains, adding the links to g.
+// link links an unordered cloud into chains, adding the links to g.
 //
 // The method is a tangent-guided form of the nearest-neighbour curve
 // reconstruction of
@@ -232,19 +234,19 @@ const orderMaxTan2 = 3
 //  3. A link is kept only when it is mutual: q is a pick of p and p a pick of
 //     q. Every point then has at most two links, so the links form chains
 //     and cycles. At a sharp corner (the trailing edge) both neighbours lie
-//     on one side of the tangent, so a chain ends there; loopJoin joins the
+//     on one side of the tangent, so a chain ends there; join joins the
 //     chain ends.
-func orderLink(pts []Point, nb *orderNbrs, g *loopGraph) {
+func link(pts []geometry.Point, nb *nbrs, g *graph) {
 	n := len(pts)
-	tan := make([]Point, n)
+	tan := make([]geometry.Point, n)
 	fwd := make([]int32, n)
 	bwd := make([]int32, n)
-	cleanParallel(n, func(a, b int) {
+	parallel(n, func(a, b int) {
 		for i := a; i < b; i++ {
-			tan[i] = orderTangent(pts, int32(i), nb.of(int32(i)))
+			tan[i] = tangent(pts, int32(i), nb.of(int32(i)))
 		}
 	})
-	cleanParallel(n, func(a, b int) {
+	parallel(n, func(a, b int) {
 		for i := a; i < b; i++ {
 			p, t := pts[i], tan[i]
 			f, bk := int32(-1), int32(-1)
@@ -256,7 +258,7 @@ func orderLink(pts []Point, nb *orderNbrs, g *loopGraph) {
 					continue
 				}
 				t2 := (ac * ac) / (al * al)
-				if t2 > orderMaxTan2 {
+				if t2 > maxTan2 {
 					continue
 				}
 				cost := math.Sqrt(d.Dot(d)) * (1 + 4*t2)
@@ -278,25 +280,25 @@ func orderLink(pts []Point, nb *orderNbrs, g *loopGraph) {
 	}
 }
 
-// orderTangent returns the unit tangent at pts[i] fitted to its nearest
-// neighbours nbrs, as described at orderLink.
-func orderTangent(pts []Point, i int32, nbrs []int32) Point {
+// tangent returns the unit tangent at pts[i] fitted to its nearest
+// neighbours nbrs, as described at link.
+func tangent(pts []geometry.Point, i int32, nbrs []int32) geometry.Point {
 	p := pts[i]
 	if len(nbrs) == 0 {
-		return Point{1, 0}
+		return geometry.Point{X: 1, Y: 0}
 	}
 	// Seed: the direction towards one of the nearest neighbours that the
 	// most neighbours agree with (the nearest such on a tie).
-	var ds [orderK]Point
-	var ls [orderK]float64
-	nbrs = nbrs[:min(len(nbrs), orderK)]
+	var ds [knnK]geometry.Point
+	var ls [knnK]float64
+	nbrs = nbrs[:min(len(nbrs), knnK)]
 	for j, q := range nbrs {
 		ds[j] = pts[q].Sub(p)
 		ls[j] = math.Sqrt(ds[j].Dot(ds[j]))
 	}
-	var t Point
+	var t geometry.Point
 	bestScore := -1.0
-	for j := range min(len(nbrs), orderTangentSeed) {
+	for j := range min(len(nbrs), tangentSeed) {
 		if ls[j] == 0 {
 			continue
 		}
@@ -304,7 +306,7 @@ func orderTangent(pts []Point, i int32, nbrs []int32) Point {
 		var score float64
 		for r := range nbrs {
 			a, h := ds[r].Dot(u), ds[r].Cross(u)
-			if h*h <= orderTangentCone*a*a && ls[r] > 0 {
+			if h*h <= tangentCone*a*a && ls[r] > 0 {
 				score++
 			}
 		}
@@ -313,7 +315,7 @@ func orderTangent(pts []Point, i int32, nbrs []int32) Point {
 		}
 	}
 	if bestScore < 0 {
-		return Point{1, 0}
+		return geometry.Point{X: 1, Y: 0}
 	}
 	for range 2 {
 		var sxx, sxy, syy float64
@@ -321,7 +323,7 @@ func orderTangent(pts []Point, i int32, nbrs []int32) Point {
 			d := ds[j]
 			a, h := d.Dot(t), d.Cross(t)
 			l2 := ls[j] * ls[j]
-			if h*h > orderTangentCone*a*a || l2 == 0 {
+			if h*h > tangentCone*a*a || l2 == 0 {
 				continue
 			}
 			w := 1 / (l2 * (1 + 16*h*h/l2))
@@ -332,7 +334,7 @@ func orderTangent(pts []Point, i int32, nbrs []int32) Point {
 		if sxx+syy == 0 {
 			break
 		}
-		t = cleanPrincipal(sxx, sxy, syy)
+		t = principal(sxx, sxy, syy)
 	}
 	return t
 }

@@ -1,10 +1,11 @@
-package geometry_test
+package clean_test
 
 import (
 	"fmt"
 	"math/rand/v2"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/clean"
 )
 
 // Clean orders a shuffled cloud (here a NACA 2412, 152.4 mm chord, from
@@ -23,7 +24,7 @@ func ExampleClean() {
 		cloud.Points[i], cloud.Points[j] = cloud.Points[j], cloud.Points[i]
 		cloud.Origins[i], cloud.Origins[j] = cloud.Origins[j], cloud.Origins[i]
 	})
-	ct, rep, err := geometry.Clean(cloud, geometry.CleanOptions{})
+	ct, rep, err := clean.Clean(cloud, clean.Options{})
 	if err != nil {
 		fmt.Println(err)
 		return

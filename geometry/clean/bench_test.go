@@ -1,9 +1,11 @@
-package geometry
+package clean
 
 import (
 	"fmt"
 	"math/rand/v2"
 	"testing"
+
+	"github.com/foilwright/foilwright/geometry"
 )
 
 // cleanBenchCloud returns a scan-like shuffled cloud of about n points from
@@ -13,14 +15,14 @@ import (
 //
 // With band set the noise is instead 0.02 mm, which exceeds the spacing from
 // n = 2e4 on, as in a dense hand-held scan: Clean then orders a band.
-func cleanBenchCloud(n int, band bool) *Cloud {
+func cleanBenchCloud(n int, band bool) *geometry.Cloud {
 	count := n * 100 / 103
-	loop := cleanTestSample(NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12}, cleanChord, cleanRot, cleanOff, count)
+	loop := cleanTestSample(geometry.NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12}, cleanChord, cleanRot, cleanOff, count)
 	noise := 0.1 * loop[0].Dist(loop[1])
 	if band {
 		noise = cleanNoise
 	}
-	c, _ := cleanTestCloud(rand.New(rand.NewPCG(1, uint64(n))), [][]Point{loop}, noise, 0.01, 0.02)
+	c, _ := cleanTestCloud(rand.New(rand.NewPCG(1, uint64(n))), [][]geometry.Point{loop}, noise, 0.01, 0.02)
 	return c
 }
 
@@ -33,10 +35,10 @@ func cleanBench(b *testing.B, band bool) {
 		c := cleanBenchCloud(n, band)
 		b.Run(fmt.Sprintf("n=1e%d", cleanLog10(n)), func(b *testing.B) {
 			b.ReportAllocs()
-			var ct *Contour
+			var ct *geometry.Contour
 			for b.Loop() {
 				var err error
-				ct, _, err = Clean(c, CleanOptions{})
+				ct, _, err = Clean(c, Options{})
 				if err != nil {
 					b.Fatal(err)
 				}

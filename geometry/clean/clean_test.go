@@ -1,4 +1,4 @@
-package geometry
+package clean
 
 import (
 	"errors"
@@ -8,6 +8,8 @@ import (
 	"slices"
 	"strings"
 	"testing"
+
+	"github.com/foilwright/foilwright/geometry"
 )
 
 // cleanTestSample returns count points spaced evenly by arc length around
@@ -18,7 +20,7 @@ import (
 // Arc-length spacing is chosen over cosine spacing because it is the hard
 // case for ordering: near the trailing edge the upper and lower surfaces
 // are closer to each other than neighbouring points along a surface.
-func cleanTestSample(n NACA4, chord, rot float64, off Point, count int) []Point {
+func cleanTestSample(n geometry.NACA4, chord, rot float64, off geometry.Point, count int) []geometry.Point {
 	dense := n.Loop(4000)
 	if dense[0].Dist(dense[len(dense)-1]) < 1e-15 {
 		dense = dense[:len(dense)-1]
@@ -29,7 +31,7 @@ func cleanTestSample(n NACA4, chord, rot float64, off Point, count int) []Point 
 		cum[i+1] = cum[i] + dense[i].Dist(dense[(i+1)%m])
 	}
 	total := cum[m]
-	out := make([]Point, count)
+	out := make([]geometry.Point, count)
 	seg := 0
 	for k := range count {
 		s := total * float64(k) / float64(count)
@@ -46,7 +48,7 @@ func cleanTestSample(n NACA4, chord, rot float64, off Point, count int) []Point 
 
 // cleanTestEntry is one point of a generated cloud and what it truly is.
 type cleanTestEntry struct {
-	p       Point
+	p       geometry.Point
 	loop    int // which sampled loop it belongs to
 	pos     int // position in the loop; −1 for a planted outlier
 	outlier bool
@@ -61,18 +63,18 @@ type cleanTestEntry struct {
 // dupFrac·count duplicates (half exact, half displaced by 1e-5 units), all
 // shuffled. The set-up is this test's own. It returns the cloud and, for
 // each point of it, the truth.
-func cleanTestCloud(rng *rand.Rand, loops [][]Point, noise, outFrac, dupFrac float64) (*Cloud, []cleanTestEntry) {
+func cleanTestCloud(rng *rand.Rand, loops [][]geometry.Point, noise, outFrac, dupFrac float64) (*geometry.Cloud, []cleanTestEntry) {
 	var es []cleanTestEntry
 	for l, loop := range loops {
 		n := len(loop)
 		for k, p := range loop {
-			es = append(es, cleanTestEntry{p: p.Add(Point{rng.NormFloat64() * noise, rng.NormFloat64() * noise}), loop: l, pos: k})
+			es = append(es, cleanTestEntry{p: p.Add(geometry.Point{X: rng.NormFloat64() * noise, Y: rng.NormFloat64() * noise}), loop: l, pos: k})
 		}
 		for range int(math.Round(outFrac * float64(n))) {
 			for {
 				k := rng.IntN(n)
 				t := loop[(k+1)%n].Sub(loop[(k+n-1)%n])
-				nrm := Point{-t.Y, t.X}.Scale(1 / t.Norm())
+				nrm := geometry.Point{X: -t.Y, Y: t.X}.Scale(1 / t.Norm())
 				d := 2 + 3*rng.Float64()
 				if rng.IntN(2) == 0 {
 					d = -d
@@ -96,21 +98,21 @@ func cleanTestCloud(rng *rand.Rand, loops [][]Point, noise, outFrac, dupFrac flo
 		}
 		if j%2 == 1 {
 			a := rng.Float64() * 2 * math.Pi
-			e.p = e.p.Add(Point{1e-5 * math.Cos(a), 1e-5 * math.Sin(a)})
+			e.p = e.p.Add(geometry.Point{X: 1e-5 * math.Cos(a), Y: 1e-5 * math.Sin(a)})
 		}
 		es = append(es, e)
 	}
 	rng.Shuffle(len(es), func(i, j int) { es[i], es[j] = es[j], es[i] })
-	c := &Cloud{Dim: 2, Units: Millimetre, Format: "test"}
+	c := &geometry.Cloud{Dim: 2, Units: geometry.Millimetre, Format: "test"}
 	for i, e := range es {
-		c.Points = append(c.Points, Vec3{e.p.X, e.p.Y, 0})
-		c.Origins = append(c.Origins, Origin{File: "scan.csv", Line: i + 1})
+		c.Points = append(c.Points, geometry.Vec3{X: e.p.X, Y: e.p.Y, Z: 0})
+		c.Origins = append(c.Origins, geometry.Origin{File: "scan.csv", Line: i + 1})
 	}
 	return c, es
 }
 
 // cleanTestNear reports whether p is within d of a point of loops.
-func cleanTestNear(loops [][]Point, p Point, d float64) bool {
+func cleanTestNear(loops [][]geometry.Point, p geometry.Point, d float64) bool {
 	for _, l := range loops {
 		for _, q := range l {
 			if p.Dist(q) < d {
@@ -126,7 +128,7 @@ func cleanTestNear(loops [][]Point, p Point, d float64) bool {
 // between them that are missing from the contour are skipped), the
 // fraction of planted outliers dropped, and the fraction of good sample
 // positions of loop that are missing.
-func cleanTestScore(ct *Contour, es []cleanTestEntry, loop, count int) (nbrFrac, outDropped, goodLost float64) {
+func cleanTestScore(ct *geometry.Contour, es []cleanTestEntry, loop, count int) (nbrFrac, outDropped, goodLost float64) {
 	present := make([]bool, count)
 	var poss []int
 	outliers, outIn := 0, 0
@@ -194,9 +196,9 @@ func cleanTestScore(ct *Contour, es []cleanTestEntry, loop, count int) (nbrFrac,
 
 // cleanTestOriented checks that ct starts within tol of te and runs
 // counter-clockwise.
-func cleanTestOriented(t *testing.T, ct *Contour, te Point, tol float64) {
+func cleanTestOriented(t *testing.T, ct *geometry.Contour, te geometry.Point, tol float64) {
 	t.Helper()
-	if a := SignedArea(ct.Points); a <= 0 {
+	if a := geometry.SignedArea(ct.Points); a <= 0 {
 		t.Errorf("signed area %g: want counter-clockwise (> 0)", a)
 	}
 	if d := ct.Points[0].Dist(te); d > tol {
@@ -211,10 +213,10 @@ const (
 	cleanNoise = 0.02 // mm
 )
 
-var cleanOff = Point{250, -40}
+var cleanOff = geometry.Point{X: 250, Y: -40}
 
 // cleanTE returns the trailing-edge midpoint of n in the test frame.
-func cleanTE(n NACA4) Point {
+func cleanTE(n geometry.NACA4) geometry.Point {
 	m := n.Upper(1).Add(n.Lower(1)).Scale(0.5)
 	return m.Scale(cleanChord).Rotate(cleanRot).Add(cleanOff)
 }
@@ -235,15 +237,15 @@ func TestCleanScan(t *testing.T) {
 	} {
 		name := fmt.Sprintf("%s/sharp=%v/seed=%d", tc.code, tc.sharp, tc.seed)
 		t.Run(name, func(t *testing.T) {
-			n, err := ParseNACA4(tc.code)
+			n, err := geometry.ParseNACA4(tc.code)
 			if err != nil {
 				t.Fatal(err)
 			}
 			n.SharpTE = tc.sharp
 			rng := rand.New(rand.NewPCG(tc.seed, 2026))
 			loop := cleanTestSample(n, cleanChord, cleanRot, cleanOff, cleanCount)
-			c, es := cleanTestCloud(rng, [][]Point{loop}, cleanNoise, 0.01, 0.02)
-			ct, rep, err := Clean(c, CleanOptions{})
+			c, es := cleanTestCloud(rng, [][]geometry.Point{loop}, cleanNoise, 0.01, 0.02)
+			ct, rep, err := Clean(c, Options{})
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -264,7 +266,7 @@ func TestCleanScan(t *testing.T) {
 				t.Error("OrderKept set for an unordered cloud")
 			}
 			// KeepOutliers reports the same outliers and keeps them all.
-			kt, krep, err := Clean(c, CleanOptions{KeepOutliers: true})
+			kt, krep, err := Clean(c, Options{KeepOutliers: true})
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -295,12 +297,12 @@ func TestCleanKeepsCleanInput(t *testing.T) {
 		{"0012", true, 0.0005, true},
 	} {
 		t.Run(fmt.Sprintf("%s/sharp=%v/noise=%g/cosine=%v", tc.code, tc.sharp, tc.noise, tc.cosine), func(t *testing.T) {
-			n, err := ParseNACA4(tc.code)
+			n, err := geometry.ParseNACA4(tc.code)
 			if err != nil {
 				t.Fatal(err)
 			}
 			n.SharpTE = tc.sharp
-			var loop []Point
+			var loop []geometry.Point
 			if tc.cosine {
 				for _, p := range n.Loop(120) {
 					loop = append(loop, p.Scale(cleanChord).Rotate(cleanRot).Add(cleanOff))
@@ -312,8 +314,8 @@ func TestCleanKeepsCleanInput(t *testing.T) {
 				loop = cleanTestSample(n, cleanChord, cleanRot, cleanOff, cleanCount)
 			}
 			rng := rand.New(rand.NewPCG(7, 7))
-			c, es := cleanTestCloud(rng, [][]Point{loop}, tc.noise, 0, 0)
-			ct, rep, err := Clean(c, CleanOptions{})
+			c, es := cleanTestCloud(rng, [][]geometry.Point{loop}, tc.noise, 0, 0)
+			ct, rep, err := Clean(c, Options{})
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -336,31 +338,31 @@ func TestCleanKeepsCleanInput(t *testing.T) {
 // the NACA Report 824 equations via NACA4.Loop) keeps its own order; the
 // same points flagged ordered but shuffled are reordered, and say why.
 func TestCleanOrderedInput(t *testing.T) {
-	n, err := ParseNACA4("2412")
+	n, err := geometry.ParseNACA4("2412")
 	if err != nil {
 		t.Fatal(err)
 	}
-	var loop []Point
+	var loop []geometry.Point
 	for _, p := range n.Loop(80) {
 		loop = append(loop, p.Scale(cleanChord).Rotate(cleanRot).Add(cleanOff))
 	}
-	mk := func(pts []Point) *Cloud {
-		c := &Cloud{Dim: 2, Ordered: true}
+	mk := func(pts []geometry.Point) *geometry.Cloud {
+		c := &geometry.Cloud{Dim: 2, Ordered: true}
 		for i, p := range pts {
-			c.Points = append(c.Points, Vec3{p.X, p.Y, 0})
-			c.Origins = append(c.Origins, Origin{File: "list.dat", Line: i + 2})
+			c.Points = append(c.Points, geometry.Vec3{X: p.X, Y: p.Y, Z: 0})
+			c.Origins = append(c.Origins, geometry.Origin{File: "list.dat", Line: i + 2})
 		}
 		return c
 	}
 	t.Run("kept", func(t *testing.T) {
 		// Start the listing at the leading edge, run clockwise, and repeat the
 		// first point at the end, as some exports do.
-		var pts []Point
+		var pts []geometry.Point
 		for k := range loop {
 			pts = append(pts, loop[(80-k+len(loop))%len(loop)])
 		}
 		pts = append(pts, pts[0])
-		ct, rep, err := Clean(mk(pts), CleanOptions{})
+		ct, rep, err := Clean(mk(pts), Options{})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -386,7 +388,7 @@ func TestCleanOrderedInput(t *testing.T) {
 		pts := append(slices.Clone(loop[80:]), loop[:81]...)
 		c := mk(pts)
 		c.Segments = []int{0, len(loop) - 80}
-		ct, rep, err := Clean(c, CleanOptions{})
+		ct, rep, err := Clean(c, Options{})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -398,7 +400,7 @@ func TestCleanOrderedInput(t *testing.T) {
 	t.Run("shuffled", func(t *testing.T) {
 		pts := slices.Clone(loop)
 		rand.New(rand.NewPCG(3, 3)).Shuffle(len(pts), func(i, j int) { pts[i], pts[j] = pts[j], pts[i] })
-		ct, rep, err := Clean(mk(pts), CleanOptions{})
+		ct, rep, err := Clean(mk(pts), Options{})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -416,9 +418,9 @@ func TestCleanOrderedInput(t *testing.T) {
 		pts := slices.Clone(loop)
 		for _, k := range []int{30, 120} {
 			d := pts[k+1].Sub(pts[k-1])
-			pts[k] = pts[k].Add(Point{-d.Y, d.X}.Scale(1 / d.Norm()))
+			pts[k] = pts[k].Add(geometry.Point{X: -d.Y, Y: d.X}.Scale(1 / d.Norm()))
 		}
-		ct, rep, err := Clean(mk(pts), CleanOptions{})
+		ct, rep, err := Clean(mk(pts), Options{})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -439,7 +441,7 @@ func TestCleanOrderedInput(t *testing.T) {
 			t.Errorf("contour has %d points, want %d", ct.Len(), len(loop)-2)
 		}
 		// Kept at the user's request: reported, still in the contour.
-		ct, rep, err = Clean(mk(pts), CleanOptions{KeepOutliers: true})
+		ct, rep, err = Clean(mk(pts), Options{KeepOutliers: true})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -453,15 +455,15 @@ func TestCleanOrderedInput(t *testing.T) {
 // the chord (NACA Report 824 equations via NACA4), as one shuffled cloud.
 // The outer loop is picked by default, the inner one with Loop: 1.
 func TestCleanTwoLoops(t *testing.T) {
-	outer := cleanTestSample(NACA4{Thickness: 0.12}, cleanChord, cleanRot, cleanOff, cleanCount)
-	inOff := Point{0.1 * cleanChord, 0}.Rotate(cleanRot).Add(cleanOff)
-	inner := cleanTestSample(NACA4{Thickness: 0.08, SharpTE: true}, 0.6*cleanChord, cleanRot, inOff, 250)
+	outer := cleanTestSample(geometry.NACA4{Thickness: 0.12}, cleanChord, cleanRot, cleanOff, cleanCount)
+	inOff := geometry.Point{X: 0.1 * cleanChord, Y: 0}.Rotate(cleanRot).Add(cleanOff)
+	inner := cleanTestSample(geometry.NACA4{Thickness: 0.08, SharpTE: true}, 0.6*cleanChord, cleanRot, inOff, 250)
 	rng := rand.New(rand.NewPCG(11, 11))
-	c, es := cleanTestCloud(rng, [][]Point{outer, inner}, cleanNoise, 0.01, 0.02)
+	c, es := cleanTestCloud(rng, [][]geometry.Point{outer, inner}, cleanNoise, 0.01, 0.02)
 	for _, tc := range []struct {
 		loop, count int
 	}{{0, cleanCount}, {1, 250}} {
-		ct, rep, err := Clean(c, CleanOptions{Loop: tc.loop})
+		ct, rep, err := Clean(c, Options{Loop: tc.loop})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -479,7 +481,7 @@ func TestCleanTwoLoops(t *testing.T) {
 			t.Errorf("loop %d: neighbours %.4f (≥ 0.99), outliers dropped %.3f (≥ 0.95), good lost %.4f (≤ 0.005)", tc.loop, nf, od, gl)
 		}
 	}
-	if _, _, err := Clean(c, CleanOptions{Loop: 2}); !errors.Is(err, ErrNoLoop) {
+	if _, _, err := Clean(c, Options{Loop: 2}); !errors.Is(err, geometry.ErrNoLoop) {
 		t.Errorf("Loop 2 of 2: got %v, want ErrNoLoop", err)
 	}
 }
@@ -487,20 +489,20 @@ func TestCleanTwoLoops(t *testing.T) {
 // Exact and near duplicates merge into the first (lowest) input line, and
 // points just beyond the tolerance stay.
 func TestCleanMerge(t *testing.T) {
-	loop := cleanTestSample(NACA4{Thickness: 0.12}, 100, 0, Point{}, 100)
-	var pts []Point
+	loop := cleanTestSample(geometry.NACA4{Thickness: 0.12}, 100, 0, geometry.Point{}, 100)
+	var pts []geometry.Point
 	pts = append(pts, loop...)
-	pts = append(pts, loop[10], loop[20].Add(Point{0.0005, 0}), loop[30].Add(Point{0, 0.002}))
-	c := &Cloud{Dim: 2}
+	pts = append(pts, loop[10], loop[20].Add(geometry.Point{X: 0.0005, Y: 0}), loop[30].Add(geometry.Point{X: 0, Y: 0.002}))
+	c := &geometry.Cloud{Dim: 2}
 	for i, p := range pts {
-		c.Points = append(c.Points, Vec3{p.X, p.Y, 0})
-		c.Origins = append(c.Origins, Origin{File: "m.csv", Line: i + 1})
+		c.Points = append(c.Points, geometry.Vec3{X: p.X, Y: p.Y, Z: 0})
+		c.Origins = append(c.Origins, geometry.Origin{File: "m.csv", Line: i + 1})
 	}
-	_, rep, err := Clean(c, CleanOptions{MergeTol: 0.001})
+	_, rep, err := Clean(c, Options{MergeTol: 0.001})
 	if err != nil {
 		t.Fatal(err)
 	}
-	want := []Merged{{Origin{"m.csv", 11, 0}, Origin{"m.csv", 101, 0}, 0}, {Origin{"m.csv", 21, 0}, Origin{"m.csv", 102, 0}, 0.0005}}
+	want := []Merged{{geometry.Origin{File: "m.csv", Line: 11, Entity: 0}, geometry.Origin{File: "m.csv", Line: 101, Entity: 0}, 0}, {geometry.Origin{File: "m.csv", Line: 21, Entity: 0}, geometry.Origin{File: "m.csv", Line: 102, Entity: 0}, 0.0005}}
 	if len(rep.Merged) != len(want) {
 		t.Fatalf("merged %+v, want %+v", rep.Merged, want)
 	}
@@ -515,38 +517,38 @@ func TestCleanMerge(t *testing.T) {
 }
 
 func TestCleanErrors(t *testing.T) {
-	mk := func(pts []Point) *Cloud {
-		c := &Cloud{Dim: 2}
+	mk := func(pts []geometry.Point) *geometry.Cloud {
+		c := &geometry.Cloud{Dim: 2}
 		for i, p := range pts {
-			c.Points = append(c.Points, Vec3{p.X, p.Y, 0})
-			c.Origins = append(c.Origins, Origin{File: "e.csv", Line: i + 1})
+			c.Points = append(c.Points, geometry.Vec3{X: p.X, Y: p.Y, Z: 0})
+			c.Origins = append(c.Origins, geometry.Origin{File: "e.csv", Line: i + 1})
 		}
 		return c
 	}
-	var line, arc, dup []Point
+	var line, arc, dup []geometry.Point
 	for i := range 30 {
-		line = append(line, Point{float64(i), 2*float64(i) + 1})
+		line = append(line, geometry.Point{X: float64(i), Y: 2*float64(i) + 1})
 		a := float64(i) / 29 * math.Pi / 2
-		arc = append(arc, Point{10 * math.Cos(a), 10 * math.Sin(a)})
+		arc = append(arc, geometry.Point{X: 10 * math.Cos(a), Y: 10 * math.Sin(a)})
 	}
 	for i := range 20 {
-		dup = append(dup, Point{float64(i % 5), float64(i%5) * float64(i%5)})
+		dup = append(dup, geometry.Point{X: float64(i % 5), Y: float64(i%5) * float64(i%5)})
 	}
 	nan := slices.Clone(arc)
 	nan[3].Y = math.NaN()
 	for _, tc := range []struct {
 		name string
-		pts  []Point
-		opts CleanOptions
+		pts  []geometry.Point
+		opts Options
 		want error
 		text string
 	}{
-		{"five points", arc[:5], CleanOptions{}, ErrTooFewPoints, "5 point(s)"},
-		{"five distinct", dup, CleanOptions{}, ErrTooFewPoints, "5 distinct"},
-		{"collinear", line, CleanOptions{}, ErrCollinear, "30 points lie within"},
-		{"open arc", arc, CleanOptions{}, ErrNoLoop, "open chain"},
-		{"loop beyond", cleanTestSample(NACA4{Thickness: 0.12}, 1, 0, Point{}, 50), CleanOptions{Loop: 1}, ErrNoLoop, "loop 1 asked for, 1 loop(s) found"},
-		{"NaN", nan, CleanOptions{}, ErrNonFinite, "e.csv:4"},
+		{"five points", arc[:5], Options{}, geometry.ErrTooFewPoints, "5 point(s)"},
+		{"five distinct", dup, Options{}, geometry.ErrTooFewPoints, "5 distinct"},
+		{"collinear", line, Options{}, geometry.ErrCollinear, "30 points lie within"},
+		{"open arc", arc, Options{}, geometry.ErrNoLoop, "open chain"},
+		{"loop beyond", cleanTestSample(geometry.NACA4{Thickness: 0.12}, 1, 0, geometry.Point{}, 50), Options{Loop: 1}, geometry.ErrNoLoop, "loop 1 asked for, 1 loop(s) found"},
+		{"NaN", nan, Options{}, geometry.ErrNonFinite, "e.csv:4"},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			_, _, err := Clean(mk(tc.pts), tc.opts)
@@ -555,7 +557,7 @@ func TestCleanErrors(t *testing.T) {
 			}
 		})
 	}
-	for _, opts := range []CleanOptions{{MergeTol: -1}, {OutlierSigma: -2}, {Loop: -1}} {
+	for _, opts := range []Options{{MergeTol: -1}, {OutlierSigma: -2}, {Loop: -1}} {
 		if _, _, err := Clean(mk(arc), opts); err == nil {
 			t.Errorf("%+v: no error", opts)
 		}
@@ -565,15 +567,15 @@ func TestCleanErrors(t *testing.T) {
 // Points far from the section, near only each other (a stray scan of the
 // fixture), are dropped as "stray"; the section is unaffected.
 func TestCleanStray(t *testing.T) {
-	n := NACA4{Thickness: 0.12}
+	n := geometry.NACA4{Thickness: 0.12}
 	loop := cleanTestSample(n, cleanChord, cleanRot, cleanOff, cleanCount)
 	rng := rand.New(rand.NewPCG(21, 21))
-	c, _ := cleanTestCloud(rng, [][]Point{loop}, cleanNoise, 0, 0)
+	c, _ := cleanTestCloud(rng, [][]geometry.Point{loop}, cleanNoise, 0, 0)
 	for k := range 3 {
-		c.Points = append(c.Points, Vec3{X: 2000 + float64(k), Y: 1500})
-		c.Origins = append(c.Origins, Origin{File: "scan.csv", Line: c.Len() + 1})
+		c.Points = append(c.Points, geometry.Vec3{X: 2000 + float64(k), Y: 1500})
+		c.Origins = append(c.Origins, geometry.Origin{File: "scan.csv", Line: c.Len() + 1})
 	}
-	ct, rep, err := Clean(c, CleanOptions{})
+	ct, rep, err := Clean(c, Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -599,37 +601,37 @@ func FuzzClean(f *testing.F) {
 	f.Add(uint64(3), uint8(9), uint8(2))
 	f.Fuzz(func(t *testing.T, seed uint64, count, kind uint8) {
 		rng := rand.New(rand.NewPCG(seed, 99))
-		var pts []Point
+		var pts []geometry.Point
 		switch kind % 3 {
 		case 0: // uniform in a square
 			for range count {
-				pts = append(pts, Point{rng.Float64(), rng.Float64()})
+				pts = append(pts, geometry.Point{X: rng.Float64(), Y: rng.Float64()})
 			}
 		case 1: // a noisy NACA loop with random extras
-			loop := cleanTestSample(NACA4{Camber: 0.04 * rng.Float64(), CamberPos: 0.4, Thickness: 0.02 + 0.2*rng.Float64(), SharpTE: rng.IntN(2) == 0}, 1, rng.Float64()*6, Point{}, max(int(count), 8))
+			loop := cleanTestSample(geometry.NACA4{Camber: 0.04 * rng.Float64(), CamberPos: 0.4, Thickness: 0.02 + 0.2*rng.Float64(), SharpTE: rng.IntN(2) == 0}, 1, rng.Float64()*6, geometry.Point{}, max(int(count), 8))
 			noise := 0.01 * rng.Float64()
 			for _, p := range loop {
-				pts = append(pts, p.Add(Point{noise * rng.NormFloat64(), noise * rng.NormFloat64()}))
+				pts = append(pts, p.Add(geometry.Point{X: noise * rng.NormFloat64(), Y: noise * rng.NormFloat64()}))
 				if rng.IntN(10) == 0 {
-					pts = append(pts, Point{rng.Float64(), rng.Float64() - 0.5})
+					pts = append(pts, geometry.Point{X: rng.Float64(), Y: rng.Float64() - 0.5})
 				}
 			}
 		default: // a few points on a small integer lattice (duplicates, lines)
 			for range count {
-				pts = append(pts, Point{float64(rng.IntN(4)), float64(rng.IntN(3))})
+				pts = append(pts, geometry.Point{X: float64(rng.IntN(4)), Y: float64(rng.IntN(3))})
 			}
 		}
-		c := &Cloud{Dim: 2}
+		c := &geometry.Cloud{Dim: 2}
 		for i, p := range pts {
-			c.Points = append(c.Points, Vec3{p.X, p.Y, 0})
-			c.Origins = append(c.Origins, Origin{File: "f", Line: i + 1})
+			c.Points = append(c.Points, geometry.Vec3{X: p.X, Y: p.Y, Z: 0})
+			c.Origins = append(c.Origins, geometry.Origin{File: "f", Line: i + 1})
 		}
-		ct, _, err := Clean(c, CleanOptions{KeepOutliers: rng.IntN(2) == 0})
+		ct, _, err := Clean(c, Options{KeepOutliers: rng.IntN(2) == 0})
 		if err != nil {
 			return
 		}
-		if ct.Len() < cleanMinPoints || SignedArea(ct.Points) <= 0 {
-			t.Fatalf("contour of %d points, area %g", ct.Len(), SignedArea(ct.Points))
+		if ct.Len() < minPoints || geometry.SignedArea(ct.Points) <= 0 {
+			t.Fatalf("contour of %d points, area %g", ct.Len(), geometry.SignedArea(ct.Points))
 		}
 		seen := map[int]bool{}
 		for _, o := range ct.Origins {
@@ -650,14 +652,14 @@ func FuzzClean(f *testing.F) {
 func TestCleanBand(t *testing.T) {
 	const count = 20000
 	for _, tc := range []struct {
-		n    NACA4
+		n    geometry.NACA4
 		seed uint64
-	}{{NACA4{Thickness: 0.12, SharpTE: true}, 1}, {NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12}, 2}} {
+	}{{geometry.NACA4{Thickness: 0.12, SharpTE: true}, 1}, {geometry.NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12}, 2}} {
 		t.Run(tc.n.String(), func(t *testing.T) {
 			loop := cleanTestSample(tc.n, cleanChord, cleanRot, cleanOff, count)
 			spacing := loop[0].Dist(loop[1])
-			c, es := cleanTestCloud(rand.New(rand.NewPCG(tc.seed, 31)), [][]Point{loop}, cleanNoise, 0.01, 0.02)
-			ct, rep, err := Clean(c, CleanOptions{})
+			c, es := cleanTestCloud(rand.New(rand.NewPCG(tc.seed, 31)), [][]geometry.Point{loop}, cleanNoise, 0.01, 0.02)
+			ct, rep, err := Clean(c, Options{})
 			if err != nil {
 				t.Fatal(err)
 			}

@@ -1,4 +1,4 @@
-package geometry
+package clean
 
 import (
 	"fmt"
@@ -6,10 +6,12 @@ import (
 	"runtime"
 	"slices"
 	"sync"
+
+	"github.com/foilwright/foilwright/geometry"
 )
 
-// CleanOptions control Clean. The zero value gives the documented defaults.
-type CleanOptions struct {
+// Options control Clean. The zero value gives the documented defaults.
+type Options struct {
 	// MergeTol merges points closer than this to an earlier kept point, in
 	// input units. 0 means DefaultMergeRel times the diagonal of the
 	// bounding box (1e-6: far below any measurement noise, far above
@@ -18,7 +20,7 @@ type CleanOptions struct {
 	// OutlierSigma is the threshold, in robust sigmas, beyond which a point
 	// is a gross outlier. 0 means DefaultOutlierSigma.
 	OutlierSigma float64
-	// KeepOutliers reports outliers in CleanReport.Dropped but keeps them in
+	// KeepOutliers reports outliers in Report.Dropped but keeps them in
 	// the contour.
 	KeepOutliers bool
 	// Loop picks the section loop: 0 is the loop of largest enclosed area,
@@ -26,7 +28,7 @@ type CleanOptions struct {
 	Loop int
 }
 
-// Defaults of CleanOptions.
+// Defaults of Options.
 const (
 	// DefaultMergeRel is the default merge tolerance as a fraction of the
 	// bounding-box diagonal.
@@ -40,27 +42,27 @@ const (
 	DefaultOutlierSigma = 6
 )
 
-// cleanMinPoints is the fewest usable points Clean accepts.
-const cleanMinPoints = 8
+// minPoints is the fewest usable points Clean accepts.
+const minPoints = 8
 
-// cleanLoopShare is the least share of the points of the most populous
+// loopShare is the least share of the points of the most populous
 // loop that another loop needs to count as a wall of the part.
-const cleanLoopShare = 0.1
+const loopShare = 0.1
 
-// cleanMaxBandFit bounds the half-width, in points, of the local fits that
+// maxBandFit bounds the half-width, in points, of the local fits that
 // test a band of points for outliers.
-const cleanMaxBandFit = 30
+const maxBandFit = 30
 
 // Merged records one input point merged into an earlier one.
 type Merged struct {
-	Kept, Dropped Origin
+	Kept, Dropped geometry.Origin
 	Distance      float64 // input units
 }
 
 // Drop records one input point that is not in the contour.
 type Drop struct {
-	Origin Origin
-	Point  Point
+	Origin geometry.Origin
+	Point  geometry.Point
 	Reason string // "outlier" or "stray"
 	// Distance is the residual against the local fit along the curve, input
 	// units; 0 for a stray point.
@@ -68,20 +70,20 @@ type Drop struct {
 	// Sigmas is Distance in robust sigmas of the loop's residuals.
 	Sigmas float64
 	// Kept reports that the point was an outlier kept at the user's request
-	// (CleanOptions.KeepOutliers).
+	// (Options.KeepOutliers).
 	Kept bool
 }
 
 // LoopInfo describes one closed loop found in the cloud.
 type LoopInfo struct {
-	Points int     // number of points in the loop as found, before outliers are tested
-	Area   float64 // enclosed area, input units squared, positive
-	Picked bool    // this loop is the contour returned
-	First  Origin  // origin of the loop's point that comes first in the input
+	Points int             // number of points in the loop as found, before outliers are tested
+	Area   float64         // enclosed area, input units squared, positive
+	Picked bool            // this loop is the contour returned
+	First  geometry.Origin // origin of the loop's point that comes first in the input
 }
 
-// CleanReport is the record of what Clean did.
-type CleanReport struct {
+// Report is the record of what Clean did.
+type Report struct {
 	Read    int      // points in the cloud
 	Merged  []Merged // duplicates and near-duplicates merged
 	Dropped []Drop   // outliers and stray points, with reasons
@@ -114,17 +116,17 @@ type CleanReport struct {
 //     size 2·MergeTol, checking the 2×2 cells a point's tolerance disk reaches.
 //  2. Order: an ordered cloud (c.Ordered) keeps its runs when every step of
 //     every run is a local one; otherwise, and for unordered clouds, the
-//     points are linked by tangent-guided mutual neighbours (see orderLink)
-//     into chains, and chain ends are joined into loops (see loopJoin).
+//     points are linked by tangent-guided mutual neighbours (see link)
+//     into chains, and chain ends are joined into loops (see join).
 //     A dense scan whose noise is comparable to its spacing is a band, not
-//     a line (see orderIsBand); it is thinned to centroids that link as a
+//     a line (see isBand); it is thinned to centroids that link as a
 //     line, and every point is ordered by where it projects onto them (see
-//     orderBand; CleanReport.Band is set).
+//     byBand; Report.Band is set).
 //  3. Pick: the loops are ranked by enclosed area and opts.Loop picks one.
 //     Loops with less than a tenth of the points of the most populous loop
 //     are not walls but chance chains of stray points, and are not ranked.
 //  4. Outliers: each point of the loop is tested against a local fit of its
-//     neighbours along the loop (see outlierResiduals); points beyond
+//     neighbours along the loop (see residuals); points beyond
 //     OutlierSigma robust sigmas are dropped, and their neighbours close up.
 //     Points that joined no loop are tested against the picked loop and put
 //     back, dropped as outliers, or dropped as "stray" when no loop point is
@@ -145,12 +147,12 @@ type CleanReport struct {
 // The cost is O(n log n) in time (sorts for the spatial hashes; every
 // neighbour search and fit is local) and O(n) in memory; the neighbour
 // searches and fits run on every CPU.
-func Clean(c *Cloud, opts CleanOptions) (*Contour, *CleanReport, error) {
+func Clean(c *geometry.Cloud, opts Options) (*geometry.Contour, *Report, error) {
 	if len(c.Origins) != len(c.Points) {
 		panic("geometry: Clean: len(Origins) != len(Points)")
 	}
 	n := len(c.Points)
-	rep := &CleanReport{Read: n}
+	rep := &Report{Read: n}
 	if opts.MergeTol < 0 || math.IsNaN(opts.MergeTol) || math.IsInf(opts.MergeTol, 0) {
 		return nil, rep, fmt.Errorf("geometry: clean: merge tolerance %g: must be a finite value ≥ 0", opts.MergeTol)
 	}
@@ -160,17 +162,17 @@ func Clean(c *Cloud, opts CleanOptions) (*Contour, *CleanReport, error) {
 	if opts.Loop < 0 {
 		return nil, rep, fmt.Errorf("geometry: clean: loop %d: must be ≥ 0", opts.Loop)
 	}
-	all := make([]Point, n)
+	all := make([]geometry.Point, n)
 	for i, p := range c.Points {
-		all[i] = Point{p.X, p.Y}
+		all[i] = geometry.Point{X: p.X, Y: p.Y}
 		if !all[i].IsFinite() {
-			return nil, rep, fmt.Errorf("geometry: clean: point at %s: %w", c.Origins[i], ErrNonFinite)
+			return nil, rep, fmt.Errorf("geometry: clean: point at %s: %w", c.Origins[i], geometry.ErrNonFinite)
 		}
 	}
-	if n < cleanMinPoints {
-		return nil, rep, fmt.Errorf("geometry: clean: %w: %d point(s), need at least %d", ErrTooFewPoints, n, cleanMinPoints)
+	if n < minPoints {
+		return nil, rep, fmt.Errorf("geometry: clean: %w: %d point(s), need at least %d", geometry.ErrTooFewPoints, n, minPoints)
 	}
-	lo, hi := cleanBounds(all)
+	lo, hi := bounds(all)
 	diag := hi.Dist(lo)
 	tol := opts.MergeTol
 	if tol == 0 {
@@ -183,32 +185,32 @@ func Clean(c *Cloud, opts CleanOptions) (*Contour, *CleanReport, error) {
 	}
 
 	// 1. Merge. src maps the compact index of a kept point to its input index.
-	src, pairs := mergeClose(all, tol)
+	src, pairs := merge(all, tol)
 	for _, m := range pairs {
 		rep.Merged = append(rep.Merged, Merged{Kept: c.Origins[m.kept], Dropped: c.Origins[m.dropped], Distance: m.dist})
 	}
 	m := len(src)
-	if m < cleanMinPoints {
-		return nil, rep, fmt.Errorf("geometry: clean: %w: %d distinct point(s) after merging within %.3g, need at least %d", ErrTooFewPoints, m, tol, cleanMinPoints)
+	if m < minPoints {
+		return nil, rep, fmt.Errorf("geometry: clean: %w: %d distinct point(s) after merging within %.3g, need at least %d", geometry.ErrTooFewPoints, m, tol, minPoints)
 	}
 	if !c.Ordered {
-		cleanLocalise(all, src)
+		localise(all, src)
 	}
-	pts := make([]Point, m)
+	pts := make([]geometry.Point, m)
 	for i, s := range src {
 		pts[i] = all[s]
 	}
-	if dev, ok := cleanCollinear(pts, diag); ok {
-		return nil, rep, fmt.Errorf("geometry: clean: %w: %d points lie within %.3g of one line (extent %.3g)", ErrCollinear, m, dev, diag)
+	if dev, ok := collinear(pts, diag); ok {
+		return nil, rep, fmt.Errorf("geometry: clean: %w: %d points lie within %.3g of one line (extent %.3g)", geometry.ErrCollinear, m, dev, diag)
 	}
 
 	// 2. Order.
-	nb := orderNeighbours(pts, lo, hi)
-	g := loopNewGraph(m)
+	nb := neighbours(pts, lo, hi)
+	g := newGraph(m)
 	kept := false
 	if c.Ordered {
-		runs := orderRuns(c, src)
-		if a, b, ok := orderRunsValid(pts, runs, nb); ok {
+		runs := runsOf(c, src)
+		if a, b, ok := runsValid(pts, runs, nb); ok {
 			for _, r := range runs {
 				for k := 1; k < len(r); k++ {
 					g.addEdge(r[k-1], r[k])
@@ -222,20 +224,20 @@ func Clean(c *Cloud, opts CleanOptions) (*Contour, *CleanReport, error) {
 	rep.OrderKept = kept
 	var loops, rest [][]int32
 	band := 0 // for a band, the half-width of the outlier fits in points
-	if !kept && orderIsBand(pts, nb) {
+	if !kept && isBand(pts, nb) {
 		rep.Band = true
 		var per int
-		loops, rest, per = orderBand(pts, nb, lo, hi)
-		band = min(max(outlierK, 2*per), cleanMaxBandFit)
+		loops, rest, per = byBand(pts, nb, lo, hi)
+		band = min(max(fitK, 2*per), maxBandFit)
 	} else {
 		if !kept {
-			orderLink(pts, nb, g)
+			link(pts, nb, g)
 		}
-		loopJoin(pts, nb, g)
-		loops, rest = g.components(cleanMinPoints)
+		join(pts, nb, g)
+		loops, rest = g.components(minPoints)
 	}
 	// A loop that encloses nothing (it runs out and back along a line) is
-	// not a section, nor is one with under cleanLoopShare of the points of
+	// not a section, nor is one with under loopShare of the points of
 	// the most populous loop (stray points or outliers that happen to
 	// chain around the part).
 	most := 0
@@ -243,14 +245,14 @@ func Clean(c *Cloud, opts CleanOptions) (*Contour, *CleanReport, error) {
 		most = max(most, len(l))
 	}
 	loops = slices.DeleteFunc(loops, func(l []int32) bool {
-		if math.Abs(loopArea(pts, l)) <= 1e-9*diag*diag || float64(len(l)) < cleanLoopShare*float64(most) {
+		if math.Abs(area(pts, l)) <= 1e-9*diag*diag || float64(len(l)) < loopShare*float64(most) {
 			rest = append(rest, l)
 			return true
 		}
 		return false
 	})
 	if len(loops) == 0 {
-		return nil, rep, fmt.Errorf("geometry: clean: %w: %d points form %d open chain(s)", ErrNoLoop, m, len(rest))
+		return nil, rep, fmt.Errorf("geometry: clean: %w: %d points form %d open chain(s)", geometry.ErrNoLoop, m, len(rest))
 	}
 
 	// 3. Pick.
@@ -267,7 +269,7 @@ func Clean(c *Cloud, opts CleanOptions) (*Contour, *CleanReport, error) {
 				first = j
 			}
 		}
-		rs[i] = ranked{seq: l, area: math.Abs(loopArea(pts, l)), first: first}
+		rs[i] = ranked{seq: l, area: math.Abs(area(pts, l)), first: first}
 	}
 	slices.SortStableFunc(rs, func(a, b ranked) int {
 		switch {
@@ -279,7 +281,7 @@ func Clean(c *Cloud, opts CleanOptions) (*Contour, *CleanReport, error) {
 		return int(src[a.first] - src[b.first])
 	})
 	if opts.Loop >= len(rs) {
-		return nil, rep, fmt.Errorf("geometry: clean: %w: loop %d asked for, %d loop(s) found", ErrNoLoop, opts.Loop, len(rs))
+		return nil, rep, fmt.Errorf("geometry: clean: %w: loop %d asked for, %d loop(s) found", geometry.ErrNoLoop, opts.Loop, len(rs))
 	}
 	for i, r := range rs {
 		rep.Loops = append(rep.Loops, LoopInfo{Points: len(r.seq), Area: r.area, Picked: i == opts.Loop, First: c.Origins[src[r.first]]})
@@ -287,9 +289,9 @@ func Clean(c *Cloud, opts CleanOptions) (*Contour, *CleanReport, error) {
 	seq := rs[opts.Loop].seq
 
 	// 4. Outliers.
-	seq, scale, outs := outlierDrop(pts, seq, sigma, opts.KeepOutliers, band)
+	seq, scale, outs := dropOutliers(pts, seq, sigma, opts.KeepOutliers, band)
 	rep.Sigma = scale
-	seq, extra := outlierPlace(pts, seq, rest, nb, sigma*scale, scale, opts.KeepOutliers)
+	seq, extra := placeRest(pts, seq, rest, nb, sigma*scale, scale, opts.KeepOutliers)
 	outs = append(outs, extra...)
 	for _, o := range outs {
 		rep.Dropped = append(rep.Dropped, Drop{
@@ -297,14 +299,14 @@ func Clean(c *Cloud, opts CleanOptions) (*Contour, *CleanReport, error) {
 			Distance: o.dist, Sigmas: o.sigmas, Kept: o.kept,
 		})
 	}
-	slices.SortFunc(rep.Dropped, func(a, b Drop) int { return cleanOriginCmp(a.Origin, b.Origin) })
-	if len(seq) < cleanMinPoints {
-		return nil, rep, fmt.Errorf("geometry: clean: %w: %d point(s) left in the loop, need at least %d", ErrTooFewPoints, len(seq), cleanMinPoints)
+	slices.SortFunc(rep.Dropped, func(a, b Drop) int { return originCmp(a.Origin, b.Origin) })
+	if len(seq) < minPoints {
+		return nil, rep, fmt.Errorf("geometry: clean: %w: %d point(s) left in the loop, need at least %d", geometry.ErrTooFewPoints, len(seq), minPoints)
 	}
 
 	// 5. Orient.
-	seq = cleanOrient(pts, seq)
-	out := &Contour{Points: make([]Point, len(seq)), Origins: make([]Origin, len(seq)), Units: c.Units}
+	seq = orient(pts, seq)
+	out := &geometry.Contour{Points: make([]geometry.Point, len(seq)), Origins: make([]geometry.Origin, len(seq)), Units: c.Units}
 	for k, i := range seq {
 		out.Points[k] = pts[i]
 		out.Origins[k] = c.Origins[src[i]]
@@ -312,8 +314,8 @@ func Clean(c *Cloud, opts CleanOptions) (*Contour, *CleanReport, error) {
 	return out, rep, nil
 }
 
-// cleanOriginCmp orders origins by file, line and entity.
-func cleanOriginCmp(a, b Origin) int {
+// originCmp orders origins by file, line and entity.
+func originCmp(a, b geometry.Origin) int {
 	switch {
 	case a.File != b.File:
 		if a.File < b.File {
@@ -326,10 +328,10 @@ func cleanOriginCmp(a, b Origin) int {
 	return a.Entity - b.Entity
 }
 
-// cleanBounds returns the corners of the bounding box of pts.
-func cleanBounds(pts []Point) (lo, hi Point) {
-	lo = Point{math.Inf(1), math.Inf(1)}
-	hi = Point{math.Inf(-1), math.Inf(-1)}
+// bounds returns the corners of the bounding box of pts.
+func bounds(pts []geometry.Point) (lo, hi geometry.Point) {
+	lo = geometry.Point{X: math.Inf(1), Y: math.Inf(1)}
+	hi = geometry.Point{X: math.Inf(-1), Y: math.Inf(-1)}
 	for _, p := range pts {
 		lo.X, lo.Y = min(lo.X, p.X), min(lo.Y, p.Y)
 		hi.X, hi.Y = max(hi.X, p.X), max(hi.Y, p.Y)
@@ -337,9 +339,9 @@ func cleanBounds(pts []Point) (lo, hi Point) {
 	return lo, hi
 }
 
-// cleanCollinear reports whether all pts lie within 1e-9·diag of their
+// collinear reports whether all pts lie within 1e-9·diag of their
 // principal line, and the largest distance from it.
-func cleanCollinear(pts []Point, diag float64) (float64, bool) {
+func collinear(pts []geometry.Point, diag float64) (float64, bool) {
 	var cx, cy float64
 	for _, p := range pts {
 		cx += p.X
@@ -354,23 +356,23 @@ func cleanCollinear(pts []Point, diag float64) (float64, bool) {
 		sxy += dx * dy
 		syy += dy * dy
 	}
-	t := cleanPrincipal(sxx, sxy, syy)
+	t := principal(sxx, sxy, syy)
 	var dev float64
 	for _, p := range pts {
-		dev = max(dev, math.Abs(Point{p.X - cx, p.Y - cy}.Cross(t)))
+		dev = max(dev, math.Abs(geometry.Point{X: p.X - cx, Y: p.Y - cy}.Cross(t)))
 	}
 	return dev, dev <= 1e-9*diag
 }
 
-// cleanPrincipal returns the unit principal direction of the symmetric 2×2
+// principal returns the unit principal direction of the symmetric 2×2
 // matrix [[sxx, sxy], [sxy, syy]].
-func cleanPrincipal(sxx, sxy, syy float64) Point {
+func principal(sxx, sxy, syy float64) geometry.Point {
 	th := 0.5 * math.Atan2(2*sxy, sxx-syy)
 	s, c := math.Sincos(th)
-	return Point{c, s}
+	return geometry.Point{X: c, Y: s}
 }
 
-// cleanOrient rotates the loop seq to start at its trailing-edge point and
+// orient rotates the loop seq to start at its trailing-edge point and
 // run counter-clockwise. The edge candidates are the two points farthest
 // apart (found by two farthest-point sweeps from the centroid); the trailing
 // edge is the candidate where the loop is thinner at 5% of their distance
@@ -378,13 +380,13 @@ func cleanPrincipal(sxx, sxy, syy float64) Point {
 // direction to the leading edge (the start is the lower corner of a blunt
 // trailing edge, or a point on its base), the start moves on, up to 3
 // points, so that the walk starts at the upper corner.
-func cleanOrient(pts []Point, seq []int32) []int32 {
-	var c Point
+func orient(pts []geometry.Point, seq []int32) []int32 {
+	var c geometry.Point
 	for _, i := range seq {
 		c = c.Add(pts[i])
 	}
 	c = c.Scale(1 / float64(len(seq)))
-	far := func(from Point) int {
+	far := func(from geometry.Point) int {
 		best, bd := 0, -1.0
 		for k, i := range seq {
 			if d := pts[i].Dist(from); d > bd {
@@ -398,13 +400,13 @@ func cleanOrient(pts []Point, seq []int32) []int32 {
 	a = far(pts[seq[b]])
 	pa, pb := pts[seq[a]], pts[seq[b]]
 	te := a
-	if cleanThickness(pts, seq, pb, pa) < cleanThickness(pts, seq, pa, pb) {
+	if thickness(pts, seq, pb, pa) < thickness(pts, seq, pa, pb) {
 		te = b
 	}
 	out := make([]int32, 0, len(seq))
 	out = append(out, seq[te:]...)
 	out = append(out, seq[:te]...)
-	if loopArea(pts, out) < 0 {
+	if area(pts, out) < 0 {
 		slices.Reverse(out[1:])
 	}
 	// At a blunt trailing edge the farthest point may be the lower corner or
@@ -429,9 +431,9 @@ func cleanOrient(pts []Point, seq []int32) []int32 {
 	return out
 }
 
-// cleanThickness returns the width of the loop across the line perpendicular
+// thickness returns the width of the loop across the line perpendicular
 // to end→other at 5% of their distance from end.
-func cleanThickness(pts []Point, seq []int32, end, other Point) float64 {
+func thickness(pts []geometry.Point, seq []int32, end, other geometry.Point) float64 {
 	d := other.Sub(end)
 	l := d.Norm()
 	u := d.Scale(1 / l)
@@ -454,8 +456,8 @@ func cleanThickness(pts []Point, seq []int32, end, other Point) float64 {
 	return hi - lo
 }
 
-// cleanParallel calls f on [lo, hi) slices of [0, n) on every CPU and waits.
-func cleanParallel(n int, f func(lo, hi int)) {
+// parallel calls f on [lo, hi) slices of [0, n) on every CPU and waits.
+func parallel(n int, f func(lo, hi int)) {
 	w := runtime.GOMAXPROCS(0)
 	if n < 4096 || w == 1 {
 		f(0, n)
@@ -474,22 +476,22 @@ func cleanParallel(n int, f func(lo, hi int)) {
 	wg.Wait()
 }
 
-// cleanGrid is a spatial hash of a set of points: cells of size h, the point
+// grid is a spatial hash of a set of points: cells of size h, the point
 // indices of a cell stored contiguously.
-type cleanGrid struct {
+type grid struct {
 	h      float64
 	x0, y0 float64
 	idx    []int32           // point indices sorted by cell
 	cells  map[uint64]uint64 // cell key → start<<32 | count
 }
 
-// cleanNewGrid hashes the points sel of pts (all of pts when sel is nil)
+// newGrid hashes the points sel of pts (all of pts when sel is nil)
 // into cells of size h, enlarged if need be so that a cell index fits in 30
 // bits.
-func cleanNewGrid(pts []Point, sel []int32, h float64, lo, hi Point) *cleanGrid {
+func newGrid(pts []geometry.Point, sel []int32, h float64, lo, hi geometry.Point) *grid {
 	ext := max(hi.X-lo.X, hi.Y-lo.Y)
 	h = max(h, ext/(1<<30), math.SmallestNonzeroFloat64)
-	g := &cleanGrid{h: h, x0: lo.X, y0: lo.Y}
+	g := &grid{h: h, x0: lo.X, y0: lo.Y}
 	if sel == nil {
 		sel = make([]int32, len(pts))
 		for i := range sel {
@@ -527,18 +529,18 @@ func cleanNewGrid(pts []Point, sel []int32, h float64, lo, hi Point) *cleanGrid 
 }
 
 // cell returns the cell coordinates of p.
-func (g *cleanGrid) cell(p Point) (int64, int64) {
+func (g *grid) cell(p geometry.Point) (int64, int64) {
 	return int64(math.Floor((p.X - g.x0) / g.h)), int64(math.Floor((p.Y - g.y0) / g.h))
 }
 
 // key packs cell coordinates; out-of-range neighbours (−1) get keys no
 // point has.
-func (g *cleanGrid) key(ix, iy int64) uint64 {
+func (g *grid) key(ix, iy int64) uint64 {
 	return uint64(uint32(iy))<<32 | uint64(uint32(ix))
 }
 
 // at returns the point indices in cell (ix, iy).
-func (g *cleanGrid) at(ix, iy int64) []int32 {
+func (g *grid) at(ix, iy int64) []int32 {
 	v, ok := g.cells[g.key(ix, iy)]
 	if !ok {
 		return nil
@@ -547,12 +549,12 @@ func (g *cleanGrid) at(ix, iy int64) []int32 {
 	return g.idx[s : s+v&0xffffffff]
 }
 
-// cleanLocalise reorders the input indices idx of points of pts along a
+// localise reorders the input indices idx of points of pts along a
 // Morton (Z-order) curve, so that points near each other in the plane are
 // near each other in memory: a shuffled cloud is then walked with few cache
 // misses.
-func cleanLocalise(pts []Point, idx []int32) {
-	lo, hi := cleanBounds(pts)
+func localise(pts []geometry.Point, idx []int32) {
+	lo, hi := bounds(pts)
 	ext := max(hi.X-lo.X, hi.Y-lo.Y)
 	if ext == 0 {
 		return
@@ -591,15 +593,15 @@ func cleanLocalise(pts []Point, idx []int32) {
 	}
 }
 
-// cleanDist returns |p − q|, faster than Point.Dist where overflow cannot
+// fastDist returns |p − q|, faster than Point.Dist where overflow cannot
 // happen (coordinates of a measured part).
-func cleanDist(p, q Point) float64 {
+func fastDist(p, q geometry.Point) float64 {
 	dx, dy := p.X-q.X, p.Y-q.Y
 	return math.Sqrt(dx*dx + dy*dy)
 }
 
-// cleanMedian returns the median of xs, reordering xs.
-func cleanMedian(xs []float64) float64 {
+// median returns the median of xs, reordering xs.
+func median(xs []float64) float64 {
 	if len(xs) == 0 {
 		return 0
 	}

@@ -1,12 +1,14 @@
-package geometry
+package clean
 
-// mergePair is one point merged into an earlier kept one.
-type mergePair struct {
+import "github.com/foilwright/foilwright/geometry"
+
+// pair is one point merged into an earlier kept one.
+type pair struct {
 	kept, dropped int
 	dist          float64
 }
 
-// mergeClose merges points of pts that lie within tol of an earlier kept
+// merge merges points of pts that lie within tol of an earlier kept
 // point. It returns the input indices of the kept points in increasing order
 // and the merges made. Each point is compared only with the points of the
 // 2×2 cells nearest to it in a spatial hash with cells of size 2·tol (the
@@ -14,7 +16,7 @@ type mergePair struct {
 // the cost is O(n log n) (the sort that builds the hash), not O(n²). The
 // lowest input index of a group is kept; a point is merged when it lies
 // within tol of a kept point (not transitively through another merged point).
-func mergeClose(pts []Point, tol float64) (kept []int32, pairs []mergePair) {
+func merge(pts []geometry.Point, tol float64) (kept []int32, pairs []pair) {
 	n := len(pts)
 	if tol <= 0 {
 		kept = make([]int32, n)
@@ -23,8 +25,8 @@ func mergeClose(pts []Point, tol float64) (kept []int32, pairs []mergePair) {
 		}
 		return kept, nil
 	}
-	lo, hi := cleanBounds(pts)
-	g := cleanNewGrid(pts, nil, 2*tol, lo, hi)
+	lo, hi := bounds(pts)
+	g := newGrid(pts, nil, 2*tol, lo, hi)
 	gone := make([]bool, n)
 	kept = make([]int32, 0, n)
 	tol2 := tol * tol
@@ -35,7 +37,7 @@ func mergeClose(pts []Point, tol float64) (kept []int32, pairs []mergePair) {
 		kept = append(kept, int32(i))
 		p := pts[i]
 		// The disk of radius tol about p lies in the 2×2 cells nearest to p.
-		ix, iy := g.cell(Point{p.X - tol, p.Y - tol})
+		ix, iy := g.cell(geometry.Point{X: p.X - tol, Y: p.Y - tol})
 		for dy := int64(0); dy <= 1; dy++ {
 			for dx := int64(0); dx <= 1; dx++ {
 				for _, j := range g.at(ix+dx, iy+dy) {
@@ -46,7 +48,7 @@ func mergeClose(pts []Point, tol float64) (kept []int32, pairs []mergePair) {
 					ddx, ddy := q.X-p.X, q.Y-p.Y
 					if d2 := ddx*ddx + ddy*ddy; d2 <= tol2 {
 						gone[j] = true
-						pairs = append(pairs, mergePair{kept: i, dropped: int(j), dist: p.Dist(q)})
+						pairs = append(pairs, pair{kept: i, dropped: int(j), dist: p.Dist(q)})
 					}
 				}
 			}
