@@ -67,6 +67,11 @@ func (p Vec3) Cross(q Vec3) Vec3 {
 // Norm returns the length of p.
 func (p Vec3) Norm() float64 { return math.Sqrt(p.Dot(p)) }
 
+// IsFinite reports whether all three coordinates are finite.
+func (p Vec3) IsFinite() bool {
+	return !math.IsNaN(p.X+p.Y+p.Z) && !math.IsInf(p.X, 0) && !math.IsInf(p.Y, 0) && !math.IsInf(p.Z, 0)
+}
+
 // Unit returns p scaled to unit length. It returns the zero vector for the
 // zero vector.
 func (p Vec3) Unit() Vec3 {

@@ -14,6 +14,7 @@ import (
 	"time"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/pointfile"
 	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/tidwall/gjson"
 )
@@ -35,12 +36,12 @@ func (fakePrep) Prepare(ctx context.Context, in Input, s PrepSettings) (Prepared
 			}
 			fields := strings.Fields(text)
 			if len(fields) != 2 {
-				return Prepared{}, &geometry.ParseError{File: f.Path, Line: line, Err: geometry.ErrColumnCount}
+				return Prepared{}, &geometry.ParseError{File: f.Path, Line: line, Err: pointfile.ErrColumnCount}
 			}
 			x, errx := strconv.ParseFloat(fields[0], 64)
 			y, erry := strconv.ParseFloat(fields[1], 64)
 			if errx != nil || erry != nil {
-				return Prepared{}, &geometry.ParseError{File: f.Path, Line: line, Err: geometry.ErrNotNumeric}
+				return Prepared{}, &geometry.ParseError{File: f.Path, Line: line, Err: pointfile.ErrNotNumeric}
 			}
 			pts = append(pts, geometry.Point{X: x, Y: y})
 		}

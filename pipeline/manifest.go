@@ -7,7 +7,6 @@ import (
 	"io"
 	"os"
 	"path/filepath"
-	"strconv"
 
 	"github.com/foilwright/foilwright/internal/atomicfile"
 	"github.com/foilwright/foilwright/internal/version"
@@ -180,13 +179,4 @@ func ReadManifest(path string) (*Manifest, error) {
 		return nil, fmt.Errorf("%w: %s: format %q, want %q", ErrNotManifest, path, m.Format, ManifestFormat)
 	}
 	return &m, nil
-}
-
-// fmtCoord formats a coordinate in the shortest decimal form that reads
-// back to the same float64, without an exponent.
-func fmtCoord(x float64) string {
-	if x == 0 {
-		return "0" // also for -0
-	}
-	return strconv.FormatFloat(x, 'f', -1, 64)
 }

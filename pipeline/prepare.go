@@ -16,6 +16,8 @@ import (
 	"github.com/foilwright/foilwright/geometry/clean"
 	"github.com/foilwright/foilwright/geometry/curve"
 	"github.com/foilwright/foilwright/geometry/frame"
+	"github.com/foilwright/foilwright/geometry/planar"
+	"github.com/foilwright/foilwright/geometry/pointfile"
 	"github.com/foilwright/foilwright/geometry/props"
 	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/plot"
@@ -39,11 +41,11 @@ const maxNoiseFraction = 0.05
 // section document and the intermediate results a report or a plot needs.
 type Preparation struct {
 	Section  *section.Section
-	Clouds   []*geometry.Cloud  // as read, one per file
-	Flatness *geometry.Flatness // set when the points were 3D
-	Clean    *clean.Report // merging, ordering, outliers, loops
-	Contour  *geometry.Contour  // the kept points, in order, input coordinates (plane coordinates for 3D input)
-	Curve    *curve.Curve       // the fitted curve, same coordinates as Contour
+	Clouds   []*geometry.Cloud // as read, one per file
+	Flatness *planar.Flatness  // set when the points were 3D
+	Clean    *clean.Report     // merging, ordering, outliers, loops
+	Contour  *geometry.Contour // the kept points, in order, input coordinates (plane coordinates for 3D input)
+	Curve    *curve.Curve      // the fitted curve, same coordinates as Contour
 	Fit      *curve.FitReport
 	Shape    *frame.Normalized // the normalised curve, chord units
 	Props    *props.SectionProperties
@@ -56,7 +58,7 @@ type Preparation struct {
 // plane, and the clean, ordered contour with its report.
 type Cleaned struct {
 	Clouds   []*geometry.Cloud
-	Flatness *geometry.Flatness
+	Flatness *planar.Flatness
 	Plane    *geometry.Plane // the plane of 3D points; nil for 2D input
 	Clean    *clean.Report
 	Contour  *geometry.Contour
@@ -80,7 +82,7 @@ func ReadAndClean(files []InputFile, s PrepSettings) (*Cleaned, error) {
 	out := &Cleaned{}
 	var all geometry.Cloud
 	for _, f := range files {
-		c, err := geometry.Read(bytes.NewReader(f.Data), f.Path, ro)
+		c, err := pointfile.Read(bytes.NewReader(f.Data), f.Path, ro)
 		if err != nil {
 			return nil, err
 		}
@@ -104,14 +106,14 @@ func ReadAndClean(files []InputFile, s PrepSettings) (*Cleaned, error) {
 	where := strings.Join(out.Files, ", ")
 
 	if cloud.Dim == 3 {
-		fo := geometry.FlattenOptions{Plane: ro.Cut}
+		fo := planar.FlattenOptions{Plane: ro.Cut}
 		if s.Band != nil {
 			fo.Band = *s.Band
 		}
 		if s.FlatTol != nil {
 			fo.Tolerance = *s.FlatTol
 		}
-		flat, fl, err := geometry.Flatten(cloud, fo)
+		flat, fl, err := planar.Flatten(cloud, fo)
 		if err != nil {
 			return nil, fmt.Errorf("%s: %w", where, err)
 		}
@@ -271,8 +273,8 @@ func Prepare(name string, files []InputFile, s PrepSettings) (*Preparation, erro
 }
 
 // readOptions turns the reading settings into geometry.ReadOptions.
-func readOptions(s PrepSettings) (geometry.ReadOptions, error) {
-	ro := geometry.ReadOptions{Format: s.Format, Columns: s.Columns}
+func readOptions(s PrepSettings) (pointfile.Options, error) {
+	ro := pointfile.Options{Format: s.Format, Columns: s.Columns}
 	if s.Units != "" {
 		u, err := geometry.ParseUnit(s.Units)
 		if err != nil {
@@ -281,7 +283,7 @@ func readOptions(s PrepSettings) (geometry.ReadOptions, error) {
 		ro.Units = u
 	}
 	if s.Cut != "" {
-		pl, err := geometry.ParsePlane(s.Cut)
+		pl, err := planar.ParseSpec(s.Cut)
 		if err != nil {
 			return ro, err
 		}

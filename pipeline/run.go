@@ -15,7 +15,7 @@ import (
 	"sync"
 	"time"
 
-	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/pointfile"
 	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/internal/atomicfile"
 	"github.com/foilwright/foilwright/plot"
@@ -371,7 +371,11 @@ func runSection(ctx context.Context, pl *Plan, folder string, i int, calls []Sta
 		if name == "" {
 			name = sp.Name
 		}
-		outs = append(outs, output{sp.Name + "/nodes.dat", nodesDat(name, sec.Nodes)})
+		var b bytes.Buffer
+		if err := pointfile.WriteNodes(&b, name, sec.Nodes); err != nil {
+			return fail("prepare gave a bad section document: %v", err)
+		}
+		outs = append(outs, output{sp.Name + "/nodes.dat", b.Bytes()})
 	}
 
 	for _, a := range prepared.Artifacts {
@@ -512,22 +516,6 @@ func withNewline(b []byte) []byte {
 		return b
 	}
 	return append(append([]byte{}, b...), '\n')
-}
-
-// nodesDat writes nodes as the plain node file: the name on the first line,
-// then "x y" per line, each number in the shortest form that reads back
-// exactly.
-func nodesDat(name string, nodes []geometry.Point) []byte {
-	var b bytes.Buffer
-	b.WriteString(strings.ReplaceAll(name, "\n", " "))
-	b.WriteByte('\n')
-	for _, p := range nodes {
-		b.WriteString(fmtCoord(p.X))
-		b.WriteByte(' ')
-		b.WriteString(fmtCoord(p.Y))
-		b.WriteByte('\n')
-	}
-	return b.Bytes()
 }
 
 // prepareFolder makes sure folder exists and holds no files other than an

@@ -16,7 +16,6 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/foilwright/foilwright/geometry"
 	"github.com/tidwall/gjson"
 )
 
@@ -524,13 +523,6 @@ func TestRunChecksWhatItIsGiven(t *testing.T) {
 	}
 	if f := sum.Failed(); len(f) != 1 || !strings.Contains(f[0].Err, "prepare gave a bad section document") {
 		t.Errorf("failed %+v", f)
-	}
-}
-
-func TestNodesDat(t *testing.T) {
-	got := string(nodesDat("r040\nx", []geometry.Point{{X: 1, Y: math.Copysign(0, -1)}, {X: 1e-7, Y: -0.1}, {X: 0.30000000000000004, Y: 2}}))
-	if want := "r040 x\n1 0\n0.0000001 -0.1\n0.30000000000000004 2\n"; got != want {
-		t.Errorf("got %q, want %q", got, want)
 	}
 }
 

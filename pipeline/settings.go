@@ -9,7 +9,7 @@ import (
 
 	"github.com/tidwall/gjson"
 
-	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/planar"
 	"github.com/foilwright/foilwright/repanel"
 )
 
@@ -243,7 +243,7 @@ func checkColumns(s string) error {
 
 // checkCut checks a cutting plane with the reader's own parser.
 func checkCut(s string) error {
-	if _, err := geometry.ParsePlane(s); err != nil {
+	if _, err := planar.ParseSpec(s); err != nil {
 		return errors.New(strings.TrimPrefix(err.Error(), "geometry: "))
 	}
 	return nil

@@ -9,6 +9,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/pointfile"
 	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/pipeline"
 	"github.com/foilwright/foilwright/plot"
@@ -142,7 +143,7 @@ func writePoints(stdout, stderr io.Writer, cl *pipeline.Cleaned, opts pointsOpti
 			return nil
 		}
 	} else if opts.out != "" {
-		if err := writeOutput(stdout, opts.out, func(w io.Writer) error { return geometry.WriteCSV(w, c.Points, c.Origins) }); err != nil {
+		if err := writeOutput(stdout, opts.out, func(w io.Writer) error { return pointfile.WriteCSV(w, c.Points, c.Origins) }); err != nil {
 			return err
 		}
 	}

@@ -6,7 +6,7 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/pointfile"
 	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/pipeline"
 	"github.com/foilwright/foilwright/plot"
@@ -82,7 +82,7 @@ func writePrep(stdout, stderr io.Writer, p *pipeline.Preparation, opts prepOptio
 	}
 	if opts.nodes != "" {
 		if err := writeOutput(stdout, opts.nodes, func(w io.Writer) error {
-			return geometry.WriteNodes(w, p.Section.Name, p.Section.Nodes)
+			return pointfile.WriteNodes(w, p.Section.Name, p.Section.Nodes)
 		}); err != nil {
 			return err
 		}

@@ -11,6 +11,7 @@ import (
 
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/curve"
+	"github.com/foilwright/foilwright/geometry/pointfile"
 	"github.com/foilwright/foilwright/geometry/props"
 	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/plot"
@@ -217,7 +218,7 @@ func writeShape(stdout io.Writer, opts *shapeOptions, s *section.Section) error 
 	}
 	if opts.nodes != "" {
 		name := strings.TrimSpace(s.Name)
-		if err := writeOutput(stdout, opts.nodes, func(w io.Writer) error { return geometry.WriteNodes(w, name, s.Nodes) }); err != nil {
+		if err := writeOutput(stdout, opts.nodes, func(w io.Writer) error { return pointfile.WriteNodes(w, name, s.Nodes) }); err != nil {
 			return fmt.Errorf("write %s: %w", opts.nodes, err)
 		}
 	}

@@ -1,13 +1,15 @@
-package geometry
+package planar
 
 import (
 	"fmt"
 	"math"
+
+	"github.com/foilwright/foilwright/geometry"
 )
 
 // Slice cuts m with the plane p and returns the cut as a Cloud of 3D points
-// on the plane (Dim 3, Format "stl", Ordered), one run per loop (Segments
-// holds their starts when there is more than one). Each point's Origin
+// on the plane (Dim 3, Ordered; the reader sets Format), one run per loop
+// (Segments holds their starts when there is more than one). Each point's Origin
 // names the facet it was cut from (Entity, 1-based) and, for an ASCII file,
 // the facet's line.
 //
@@ -26,9 +28,9 @@ import (
 // Chains that do not close (a mesh with holes) are kept as open runs and
 // noted. Slice returns an error wrapping ErrNoLoop when the plane misses
 // the mesh, and an error when p has a zero normal.
-func (m *Mesh) Slice(p PlaneSpec) (*Cloud, error) {
+func (m *Mesh) Slice(p Spec) (*geometry.Cloud, error) {
 	n := p.Normal.Unit()
-	if n == (Vec3{}) || !sliceFinite(n) || !sliceFinite(p.Point) {
+	if n == (geometry.Vec3{}) || !n.IsFinite() || !p.Point.IsFinite() {
 		return nil, fmt.Errorf("geometry: cut plane %s: normal must be finite and non-zero", p)
 	}
 	dist := make([]float64, len(m.Vertices))
@@ -37,7 +39,7 @@ func (m *Mesh) Slice(p PlaneSpec) (*Cloud, error) {
 		dist[i] = v.Sub(p.Point).Dot(n)
 		lo, hi = math.Min(lo, dist[i]), math.Max(hi, dist[i])
 	}
-	s := sliceGraph{m: m, dist: dist, node: map[uint64]int{}}
+	s := cutGraph{m: m, dist: dist, node: map[uint64]int{}}
 	for fi, f := range m.Facets {
 		if f[0] == f[1] || f[1] == f[2] || f[2] == f[0] {
 			continue // degenerate: no area to cut
@@ -57,7 +59,7 @@ func (m *Mesh) Slice(p PlaneSpec) (*Cloud, error) {
 			s.add(ends[0], ends[1], fi)
 		}
 	}
-	c := &Cloud{Format: FormatSTL, Dim: 3, Ordered: true, Name: m.Name}
+	c := &geometry.Cloud{Dim: 3, Ordered: true, Name: m.Name}
 	c.Notes = append(c.Notes, m.Notes...)
 	loops := s.walk()
 	kept := 0
@@ -67,7 +69,7 @@ func (m *Mesh) Slice(p PlaneSpec) (*Cloud, error) {
 		}
 		kept++
 		if !l.closed {
-			c.Notes = append(c.Notes, Note{Origin: l.origins[0], Reason: fmt.Sprintf("open chain of %d points: the mesh has a hole or a free edge here", len(l.pts))})
+			c.Notes = append(c.Notes, geometry.Note{Origin: l.origins[0], Reason: fmt.Sprintf("open chain of %d points: the mesh has a hole or a free edge here", len(l.pts))})
 		}
 	}
 	for _, l := range loops {
@@ -82,32 +84,28 @@ func (m *Mesh) Slice(p PlaneSpec) (*Cloud, error) {
 	}
 	if kept == 0 {
 		if len(m.Vertices) == 0 {
-			return nil, fmt.Errorf("geometry: %s: %w: the mesh has no facets", m.File, ErrNoLoop)
+			return nil, fmt.Errorf("geometry: %s: %w: the mesh has no facets", m.File, geometry.ErrNoLoop)
 		}
-		return nil, fmt.Errorf("geometry: %s: %w: the plane %s does not cut the mesh (signed distances of its vertices run from %.6g to %.6g)", m.File, ErrNoLoop, p, lo, hi)
+		return nil, fmt.Errorf("geometry: %s: %w: the plane %s does not cut the mesh (signed distances of its vertices run from %.6g to %.6g)", m.File, geometry.ErrNoLoop, p, lo, hi)
 	}
 	return c, nil
 }
 
-func sliceFinite(v Vec3) bool {
-	return !math.IsNaN(v.X+v.Y+v.Z) && !math.IsInf(v.X, 0) && !math.IsInf(v.Y, 0) && !math.IsInf(v.Z, 0)
-}
-
-// sliceGraph holds the cut points (one per crossing edge) and the segments
+// cutGraph holds the cut points (one per crossing edge) and the segments
 // joining them (one per cut facet).
-type sliceGraph struct {
+type cutGraph struct {
 	m    *Mesh
 	dist []float64
 	node map[uint64]int // edge (i<j) → cut point
-	pts  []Vec3
+	pts  []geometry.Vec3
 	adj  [][]int // cut point → segments
-	segs []sliceSeg
+	segs []cutSeg
 }
 
-type sliceSeg struct{ a, b, facet int }
+type cutSeg struct{ a, b, facet int }
 
 // cut returns the cut point of edge (a, b), computing it the first time.
-func (s *sliceGraph) cut(a, b int) int {
+func (s *cutGraph) cut(a, b int) int {
 	if a > b {
 		a, b = b, a
 	}
@@ -117,7 +115,7 @@ func (s *sliceGraph) cut(a, b int) int {
 	}
 	va, vb := s.m.Vertices[a], s.m.Vertices[b]
 	da, db := s.dist[a], s.dist[b]
-	var p Vec3
+	var p geometry.Vec3
 	switch {
 	case da == 0:
 		p = va
@@ -133,23 +131,23 @@ func (s *sliceGraph) cut(a, b int) int {
 	return k
 }
 
-func (s *sliceGraph) add(a, b, facet int) {
+func (s *cutGraph) add(a, b, facet int) {
 	k := len(s.segs)
-	s.segs = append(s.segs, sliceSeg{a, b, facet})
+	s.segs = append(s.segs, cutSeg{a, b, facet})
 	s.adj[a] = append(s.adj[a], k)
 	s.adj[b] = append(s.adj[b], k)
 }
 
-type sliceLoop struct {
-	pts     []Vec3
-	origins []Origin
+type cutLoop struct {
+	pts     []geometry.Vec3
+	origins []geometry.Origin
 	closed  bool
 }
 
 // origin is the Origin of a point reached through segment k.
-func (s *sliceGraph) origin(k int) Origin {
+func (s *cutGraph) origin(k int) geometry.Origin {
 	f := s.segs[k].facet
-	o := Origin{File: s.m.File, Entity: f + 1}
+	o := geometry.Origin{File: s.m.File, Entity: f + 1}
 	if f < len(s.m.Lines) {
 		o.Line = s.m.Lines[f]
 	}
@@ -161,11 +159,11 @@ func (s *sliceGraph) origin(k int) Origin {
 // the cut points were made (facet order), so the result is deterministic.
 // Consecutive equal points (a loop through a vertex on the plane) are
 // merged.
-func (s *sliceGraph) walk() []sliceLoop {
+func (s *cutGraph) walk() []cutLoop {
 	used := make([]bool, len(s.segs))
-	var loops []sliceLoop
-	follow := func(start, k int) sliceLoop {
-		l := sliceLoop{pts: []Vec3{s.pts[start]}, origins: []Origin{s.origin(k)}}
+	var loops []cutLoop
+	follow := func(start, k int) cutLoop {
+		l := cutLoop{pts: []geometry.Vec3{s.pts[start]}, origins: []geometry.Origin{s.origin(k)}}
 		n := start
 		for {
 			used[k] = true
@@ -194,7 +192,7 @@ func (s *sliceGraph) walk() []sliceLoop {
 			}
 			k = next
 		}
-		return sliceMerge(l)
+		return dropRepeats(l)
 	}
 	for n, segs := range s.adj {
 		if len(segs) == 2 {
@@ -214,10 +212,10 @@ func (s *sliceGraph) walk() []sliceLoop {
 	return loops
 }
 
-// sliceMerge drops points equal to the one before them (and, in a closed
+// dropRepeats drops points equal to the one before them (and, in a closed
 // loop, a last point equal to the first).
-func sliceMerge(l sliceLoop) sliceLoop {
-	out := sliceLoop{closed: l.closed}
+func dropRepeats(l cutLoop) cutLoop {
+	out := cutLoop{closed: l.closed}
 	for i, p := range l.pts {
 		if i > 0 && p == out.pts[len(out.pts)-1] {
 			continue

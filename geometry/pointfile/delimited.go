@@ -1,10 +1,12 @@
-package geometry
+package pointfile
 
 import (
 	"fmt"
 	"math"
 	"strconv"
 	"strings"
+
+	"github.com/foilwright/foilwright/geometry"
 )
 
 // Delimited text: one point per line, fields separated by whitespace, commas,
@@ -19,7 +21,7 @@ import (
 // (a quoted file name) do not count.
 func delimDetectSep(s string) (sep byte, decComma bool) {
 	var semi, tab, comma, commaSpaced, commaInNumber bool
-	lines := readLines{s: s}
+	lines := lineScanner{s: s}
 	for seen := 0; seen < 100; {
 		line, _, ok := lines.next()
 		if !ok {
@@ -107,10 +109,10 @@ func delimSplit(line string, sep byte, fields []string) []string {
 	}
 }
 
-// delimNumber parses field f as a number. ok reports that f is written as
+// parseNumber parses field f as a number. ok reports that f is written as
 // a number, which includes NaN, Inf and values too large for a float64
 // (returned as ±Inf); the caller rejects those.
-func delimNumber(f string, decComma bool) (v float64, ok bool) {
+func parseNumber(f string, decComma bool) (v float64, ok bool) {
 	if n := len(f); n >= 2 && f[0] == '"' && f[n-1] == '"' {
 		f = f[1 : n-1]
 	}
@@ -255,22 +257,22 @@ type delimReader struct {
 	headerNote int // index of its note, or -1
 	title      string
 	titleLine  int
-	unit       readUnit
-	notes      Notes
+	unit       statedUnit
+	notes      geometry.Notes
 }
 
-// delimRead reads delimited text s. columns is ReadOptions.Columns.
-func delimRead(s, name, columns string) (*Cloud, readUnit, error) {
+// readDelimited reads delimited text s. columns is Options.Columns.
+func readDelimited(s, name, columns string) (*geometry.Cloud, statedUnit, error) {
 	idx, names, err := delimParseColumns(columns)
 	if err != nil {
-		return nil, readUnit{}, err
+		return nil, statedUnit{}, err
 	}
 	d := &delimReader{name: name, cols: idx, names: names, explicit: idx != nil || names != nil, headerNote: -1}
 	d.sep, d.decComma = delimDetectSep(s)
 	n := strings.Count(s, "\n") + 1
-	c := &Cloud{Format: FormatDelimited, Points: make([]Vec3, 0, n), Origins: make([]Origin, 0, n)}
+	c := &geometry.Cloud{Format: FormatDelimited, Points: make([]geometry.Vec3, 0, n), Origins: make([]geometry.Origin, 0, n)}
 	var fields []string
-	lines := readLines{s: s}
+	lines := lineScanner{s: s}
 	for {
 		line, no, ok := lines.next()
 		if !ok {
@@ -313,10 +315,10 @@ func delimRead(s, name, columns string) (*Cloud, readUnit, error) {
 			}
 		}
 		c.Points = append(c.Points, p)
-		c.Origins = append(c.Origins, Origin{File: name, Line: no})
+		c.Origins = append(c.Origins, geometry.Origin{File: name, Line: no})
 	}
 	if !d.started {
-		return nil, d.unit, &ParseError{File: name, Err: ErrNoNumbers}
+		return nil, d.unit, &geometry.ParseError{File: name, Err: ErrNoNumbers}
 	}
 	c.Dim = len(d.cols)
 	c.Name = d.title
@@ -351,15 +353,15 @@ func (d *delimReader) resolve(fields []string, no int, t string) (bool, error) {
 			}
 			return false, nil
 		}
-		if _, num := delimNumber(fields[0], d.decComma); num {
-			return false, &ParseError{File: d.name, Line: no, Err: fmt.Errorf("%w: no header line names column %q", ErrColumnRange, d.names[len(cols)])}
+		if _, num := parseNumber(fields[0], d.decComma); num {
+			return false, &geometry.ParseError{File: d.name, Line: no, Err: fmt.Errorf("%w: no header line names column %q", ErrColumnRange, d.names[len(cols)])}
 		}
 		d.text(fields, no, t)
 		return false, nil
 	}
 	k := 0
 	for k < len(fields) && k < 3 {
-		if _, num := delimNumber(fields[k], d.decComma); !num {
+		if _, num := parseNumber(fields[k], d.decComma); !num {
 			break
 		}
 		k++
@@ -369,12 +371,12 @@ func (d *delimReader) resolve(fields []string, no int, t string) (bool, error) {
 		d.cols = []int{0, 1, 2}[:k]
 		return true, nil
 	case k == 1 && len(fields) == 1:
-		if v, _ := delimNumber(fields[0], d.decComma); !d.counted && v == math.Trunc(v) && v >= 0 && v < 1e15 {
+		if v, _ := parseNumber(fields[0], d.decComma); !d.counted && v == math.Trunc(v) && v >= 0 && v < 1e15 {
 			d.counted = true
 			d.notes.Add(d.name, no, "point count line", t)
 			return false, nil
 		}
-		return false, &ParseError{File: d.name, Line: no, Err: fmt.Errorf("%w: 1 coordinate, want 2 or 3", ErrColumnCount)}
+		return false, &geometry.ParseError{File: d.name, Line: no, Err: fmt.Errorf("%w: 1 coordinate, want 2 or 3", ErrColumnCount)}
 	}
 	d.text(fields, no, t)
 	return false, nil
@@ -387,11 +389,11 @@ func (d *delimReader) text(fields []string, no int, t string) {
 		return
 	}
 	if d.title == "" {
-		d.title, d.titleLine = Excerpt(t), no
+		d.title, d.titleLine = geometry.Excerpt(t), no
 	}
 	d.header, d.headerLine = delimJoinUnits(fields), no
 	d.headerNote = len(d.notes.Kept())
-	if d.headerNote >= MaxNotes {
+	if d.headerNote >= geometry.MaxNotes {
 		d.headerNote = -1
 	}
 	d.notes.Add(d.name, no, "text line before the data", t)
@@ -410,7 +412,7 @@ func (d *delimReader) start() error {
 		return nil
 	}
 	for _, f := range d.header {
-		if _, num := delimNumber(f, d.decComma); num {
+		if _, num := parseNumber(f, d.decComma); num {
 			d.header = nil
 			return nil
 		}
@@ -443,7 +445,7 @@ func (d *delimReader) headerUnits() error {
 // that holds none of them as numbers (a text line); a line holding some of
 // them but not all is an error once the data has started, or when every
 // field of the line is a number (the column does not exist).
-func (d *delimReader) point(fields []string, no int) (p Vec3, isData bool, err error) {
+func (d *delimReader) point(fields []string, no int) (p geometry.Vec3, isData bool, err error) {
 	var v [3]float64
 	got := 0
 	bad, missing := -1, -1
@@ -454,7 +456,7 @@ func (d *delimReader) point(fields []string, no int) (p Vec3, isData bool, err e
 			}
 			continue
 		}
-		x, num := delimNumber(fields[col], d.decComma)
+		x, num := parseNumber(fields[col], d.decComma)
 		if !num {
 			if bad < 0 {
 				bad = j
@@ -473,25 +475,25 @@ func (d *delimReader) point(fields []string, no int) (p Vec3, isData bool, err e
 		}
 		switch {
 		case bad >= 0:
-			return p, false, &ParseError{File: d.name, Line: no, Err: fmt.Errorf("%w: column %d is %q", ErrNotNumeric, d.cols[bad]+1, Excerpt(fields[d.cols[bad]]))}
+			return p, false, &geometry.ParseError{File: d.name, Line: no, Err: fmt.Errorf("%w: column %d is %q", ErrNotNumeric, d.cols[bad]+1, geometry.Excerpt(fields[d.cols[bad]]))}
 		case d.explicit:
-			return p, false, &ParseError{File: d.name, Line: no, Err: fmt.Errorf("%w: column %d asked for, line has %d field(s)", ErrColumnRange, d.cols[missing]+1, len(fields))}
+			return p, false, &geometry.ParseError{File: d.name, Line: no, Err: fmt.Errorf("%w: column %d asked for, line has %d field(s)", ErrColumnRange, d.cols[missing]+1, len(fields))}
 		default:
-			return p, false, &ParseError{File: d.name, Line: no, Err: fmt.Errorf("%w: %d coordinate(s), want %d", ErrColumnCount, got, len(d.cols))}
+			return p, false, &geometry.ParseError{File: d.name, Line: no, Err: fmt.Errorf("%w: %d coordinate(s), want %d", ErrColumnCount, got, len(d.cols))}
 		}
 	}
 	for j := range d.cols {
 		if math.IsNaN(v[j]) || math.IsInf(v[j], 0) {
-			return p, false, &ParseError{File: d.name, Line: no, Err: fmt.Errorf("%w: column %d is %q", ErrNonFinite, d.cols[j]+1, Excerpt(fields[d.cols[j]]))}
+			return p, false, &geometry.ParseError{File: d.name, Line: no, Err: fmt.Errorf("%w: column %d is %q", geometry.ErrNonFinite, d.cols[j]+1, geometry.Excerpt(fields[d.cols[j]]))}
 		}
 	}
-	return Vec3{v[0], v[1], v[2]}, true, nil
+	return geometry.Vec3{X: v[0], Y: v[1], Z: v[2]}, true, nil
 }
 
 // allNumbers reports whether every field is a number.
 func (d *delimReader) allNumbers(fields []string) bool {
 	for _, f := range fields {
-		if _, num := delimNumber(f, d.decComma); !num {
+		if _, num := parseNumber(f, d.decComma); !num {
 			return false
 		}
 	}

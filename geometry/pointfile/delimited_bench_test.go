@@ -1,4 +1,4 @@
-package geometry
+package pointfile
 
 import (
 	"bytes"
@@ -30,7 +30,7 @@ func BenchmarkReadDelimited(b *testing.B) {
 		b.Run(size.name, func(b *testing.B) {
 			b.SetBytes(int64(len(data)))
 			for b.Loop() {
-				c, err := Read(bytes.NewReader(data), "bench.csv", ReadOptions{})
+				c, err := Read(bytes.NewReader(data), "bench.csv", Options{})
 				if err != nil || c.Len() != n {
 					b.Fatalf("%v, %d points", err, c.Len())
 				}

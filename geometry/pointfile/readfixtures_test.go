@@ -1,4 +1,4 @@
-package geometry
+package pointfile
 
 import (
 	"bytes"
@@ -12,13 +12,15 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"github.com/foilwright/foilwright/geometry"
 )
 
 // The reader fixtures under testdata/ are all generated here, from the NACA
 // 4-digit equations of NACA Report 824 (geometry.NACA4) with invented
 // scales and invented noise; none is measured. Regenerate them with
 //
-//	go test ./geometry -run TestReadFixturesCurrent -update-read-fixtures
+//	go test ./geometry/pointfile -run TestReadFixturesCurrent -update-read-fixtures
 var readUpdateFixtures = flag.Bool("update-read-fixtures", false, "rewrite the reader fixtures in testdata/")
 
 // readTestChord is the invented chord of the demo section, in mm.
@@ -30,8 +32,8 @@ func readTestF(x float64) string { return strconv.FormatFloat(x, 'f', 6, 64) }
 // readTestSection returns the NACA 2412 loop (30 points per surface, open
 // trailing edge, chord 150 mm) as the fixtures hold it: each coordinate
 // rounded to 6 decimals.
-func readTestSection() []Point {
-	n, err := ParseNACA4("2412")
+func readTestSection() []geometry.Point {
+	n, err := geometry.ParseNACA4("2412")
 	if err != nil {
 		panic(err)
 	}
@@ -39,7 +41,7 @@ func readTestSection() []Point {
 	for i, p := range loop {
 		x, _ := strconv.ParseFloat(readTestF(p.X*readTestChord), 64)
 		y, _ := strconv.ParseFloat(readTestF(p.Y*readTestChord), 64)
-		loop[i] = Point{x, y}
+		loop[i] = geometry.Point{X: x, Y: y}
 	}
 	return loop
 }
@@ -140,19 +142,19 @@ func readTestTab() string {
 // readTestProbe returns the section as a 3D probe file: the points shuffled,
 // at z = 240 mm with invented uniform noise of ±0.05 mm across the plane
 // (fixed seed), as comma-separated text with a header.
-func readTestProbe() (string, []Vec3) {
+func readTestProbe() (string, []geometry.Vec3) {
 	r := rand.New(rand.NewPCG(2412, 240))
 	loop := readTestSection()
 	loop = loop[:len(loop)-1]
 	r.Shuffle(len(loop), func(i, j int) { loop[i], loop[j] = loop[j], loop[i] })
 	var b strings.Builder
 	b.WriteString("# invented probe points for tests: NACA 2412 at z = 240 mm with +-0.05 mm noise\nx [mm],y [mm],z [mm]\n")
-	pts := make([]Vec3, len(loop))
+	pts := make([]geometry.Vec3, len(loop))
 	for i, p := range loop {
 		z := 240 + 0.1*(r.Float64()-0.5)
 		zs := readTestF(z)
 		z, _ = strconv.ParseFloat(zs, 64)
-		pts[i] = Vec3{p.X, p.Y, z}
+		pts[i] = geometry.Vec3{X: p.X, Y: p.Y, Z: z}
 		fmt.Fprintf(&b, "%s,%s,%s\n", readTestF(p.X), readTestF(p.Y), zs)
 	}
 	return b.String(), pts
@@ -162,29 +164,29 @@ func readTestProbe() (string, []Vec3) {
 // (points not repeated) at z = 0 and shifted by top at the far end, with
 // fan caps. The facets wind so that their normals point outwards for a
 // counter-clockwise ring.
-func readTestExtrude(ring []Point, top Vec3) [][3]Vec3 {
+func readTestExtrude(ring []geometry.Point, top geometry.Vec3) [][3]geometry.Vec3 {
 	n := len(ring)
-	bot := make([]Vec3, n)
-	up := make([]Vec3, n)
-	var c Point
+	bot := make([]geometry.Vec3, n)
+	up := make([]geometry.Vec3, n)
+	var c geometry.Point
 	for i, p := range ring {
-		bot[i] = Vec3{p.X, p.Y, 0}
+		bot[i] = geometry.Vec3{X: p.X, Y: p.Y, Z: 0}
 		up[i] = bot[i].Add(top)
 		c = c.Add(p)
 	}
 	c = c.Scale(1 / float64(n))
-	cb, ct := Vec3{c.X, c.Y, 0}, Vec3{c.X, c.Y, 0}.Add(top)
-	var f [][3]Vec3
+	cb, ct := geometry.Vec3{X: c.X, Y: c.Y, Z: 0}, geometry.Vec3{X: c.X, Y: c.Y, Z: 0}.Add(top)
+	var f [][3]geometry.Vec3
 	for i := range n {
 		j := (i + 1) % n
-		f = append(f, [3]Vec3{bot[i], bot[j], up[j]}, [3]Vec3{bot[i], up[j], up[i]})
-		f = append(f, [3]Vec3{cb, bot[j], bot[i]}, [3]Vec3{ct, up[i], up[j]})
+		f = append(f, [3]geometry.Vec3{bot[i], bot[j], up[j]}, [3]geometry.Vec3{bot[i], up[j], up[i]})
+		f = append(f, [3]geometry.Vec3{cb, bot[j], bot[i]}, [3]geometry.Vec3{ct, up[i], up[j]})
 	}
 	return f
 }
 
 // readTestSTLBinary writes facets as a binary STL (float32 coordinates).
-func readTestSTLBinary(facets [][3]Vec3) []byte {
+func readTestSTLBinary(facets [][3]geometry.Vec3) []byte {
 	var b bytes.Buffer
 	hdr := make([]byte, 80)
 	copy(hdr, "solid wing (generated test fixture)")
@@ -205,7 +207,7 @@ func readTestSTLBinary(facets [][3]Vec3) []byte {
 }
 
 // readTestSTLASCII writes facets as ASCII STL, coordinates in full.
-func readTestSTLASCII(facets [][3]Vec3) string {
+func readTestSTLASCII(facets [][3]geometry.Vec3) string {
 	var b strings.Builder
 	g := func(x float64) string { return strconv.FormatFloat(x, 'g', -1, 64) }
 	b.WriteString("solid wing\n")
@@ -224,12 +226,12 @@ func readTestSTLASCII(facets [][3]Vec3) string {
 // readTestWingRing returns the ring of the STL fixtures: NACA 2412 with a
 // closed trailing edge, 20 points per surface, chord 150 mm, coordinates
 // rounded to float32 so that a binary STL holds them exactly.
-func readTestWingRing() []Point {
-	n := NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12, SharpTE: true}
+func readTestWingRing() []geometry.Point {
+	n := geometry.NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12, SharpTE: true}
 	loop := n.Loop(20)
 	loop = loop[:len(loop)-1] // first and last coincide
 	for i, p := range loop {
-		loop[i] = Point{float64(float32(p.X * readTestChord)), float64(float32(p.Y * readTestChord))}
+		loop[i] = geometry.Point{X: float64(float32(p.X * readTestChord)), Y: float64(float32(p.Y * readTestChord))}
 	}
 	return loop
 }
@@ -237,7 +239,7 @@ func readTestWingRing() []Point {
 // readTestFixtures returns every fixture file by name.
 func readTestFixtures() map[string][]byte {
 	probe, _ := readTestProbe()
-	wing := readTestExtrude(readTestWingRing(), Vec3{0, 0, 300})
+	wing := readTestExtrude(readTestWingRing(), geometry.Vec3{X: 0, Y: 0, Z: 300})
 	bin := readTestSTLBinary(wing)
 	notSTL := make([]byte, 600)
 	r := rand.New(rand.NewPCG(1, 2))
@@ -284,13 +286,13 @@ func TestReadFixturesCurrent(t *testing.T) {
 			t.Fatalf("%v (run with -update-read-fixtures)", err)
 		}
 		if !bytes.Equal(got, want) {
-			t.Errorf("testdata/%s is stale: run go test ./geometry -run TestReadFixturesCurrent -update-read-fixtures", name)
+			t.Errorf("testdata/%s is stale: run go test ./geometry/pointfile -run TestReadFixturesCurrent -update-read-fixtures", name)
 		}
 	}
 }
 
 // readTestOpen reads a fixture with opts.
-func readTestOpen(t testing.TB, name string, opts ReadOptions) (*Cloud, error) {
+func readTestOpen(t testing.TB, name string, opts Options) (*geometry.Cloud, error) {
 	t.Helper()
 	f, err := os.Open(filepath.Join("testdata", name))
 	if err != nil {
@@ -301,17 +303,17 @@ func readTestOpen(t testing.TB, name string, opts ReadOptions) (*Cloud, error) {
 }
 
 // readTestPlanar returns the (x, y) of the cloud's points.
-func readTestPlanar(c *Cloud) []Point {
-	out := make([]Point, len(c.Points))
+func readTestPlanar(c *geometry.Cloud) []geometry.Point {
+	out := make([]geometry.Point, len(c.Points))
 	for i, p := range c.Points {
-		out[i] = Point{p.X, p.Y}
+		out[i] = geometry.Point{X: p.X, Y: p.Y}
 	}
 	return out
 }
 
 // readTestMaxDist returns the largest distance between matching points,
 // or +Inf when the lengths differ.
-func readTestMaxDist(a, b []Point) float64 {
+func readTestMaxDist(a, b []geometry.Point) float64 {
 	if len(a) != len(b) {
 		return math.Inf(1)
 	}

@@ -1,4 +1,4 @@
-package geometry
+package pointfile
 
 import (
 	"fmt"
@@ -6,6 +6,8 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+
+	"github.com/foilwright/foilwright/geometry"
 )
 
 // ASCII DXF: a sequence of group-code / value line pairs. The reader takes
@@ -23,10 +25,10 @@ type dxfPair struct {
 	line  int
 }
 
-// dxfLooksLike reports whether s starts like an ASCII DXF file: "0" then
+// looksLikeDXF reports whether s starts like an ASCII DXF file: "0" then
 // "SECTION", possibly after a 999 comment pair.
-func dxfLooksLike(s string) bool {
-	lines := readLines{s: s}
+func looksLikeDXF(s string) bool {
+	lines := lineScanner{s: s}
 	var first [4]string
 	n := 0
 	for n < 4 {
@@ -50,7 +52,7 @@ func dxfLooksLike(s string) bool {
 // dxfPairs splits s into group-code pairs.
 func dxfPairs(s, file string) ([]dxfPair, error) {
 	pairs := make([]dxfPair, 0, strings.Count(s, "\n")/2+1)
-	lines := readLines{s: s}
+	lines := lineScanner{s: s}
 	for {
 		cl, cno, ok := lines.next()
 		if !ok {
@@ -65,11 +67,11 @@ func dxfPairs(s, file string) ([]dxfPair, error) {
 			if ct == "" && lines.pos >= len(lines.s) {
 				break // a final empty line
 			}
-			return nil, &ParseError{File: file, Line: cno, Err: fmt.Errorf("%w: group code %q is not an integer", ErrFormat, Excerpt(ct))}
+			return nil, &geometry.ParseError{File: file, Line: cno, Err: fmt.Errorf("%w: group code %q is not an integer", ErrFormat, geometry.Excerpt(ct))}
 		}
 		vl, vno, ok := lines.next()
 		if !ok {
-			return nil, &ParseError{File: file, Line: cno, Err: fmt.Errorf("%w: group code %d has no value", ErrTruncated, code)}
+			return nil, &geometry.ParseError{File: file, Line: cno, Err: fmt.Errorf("%w: group code %d has no value", ErrTruncated, code)}
 		}
 		pairs = append(pairs, dxfPair{code, strings.TrimSpace(vl), vno})
 	}
@@ -78,14 +80,14 @@ func dxfPairs(s, file string) ([]dxfPair, error) {
 
 // dxfRun is an ordered run of points from one entity or from chained LINEs.
 type dxfRun struct {
-	pts     []Vec3
-	origins []Origin
+	pts     []geometry.Vec3
+	origins []geometry.Origin
 	first   int // entity index of its first entity, for the output order
 }
 
 // dxfLine is one LINE entity.
 type dxfLine struct {
-	a, b   Vec3
+	a, b   geometry.Vec3
 	la, lb int // lines of the start and end x values
 	ent    int
 }
@@ -95,18 +97,18 @@ type dxfReader struct {
 	file    string
 	runs    []dxfRun
 	lines   []dxfLine
-	loose   []Vec3   // POINT entities
-	looseAt []Origin // their origins
+	loose   []geometry.Vec3   // POINT entities
+	looseAt []geometry.Origin // their origins
 	ignored map[string]int
-	notes   Notes
-	unit    readUnit
+	notes   geometry.Notes
+	unit    statedUnit
 }
 
-// dxfRead reads an ASCII DXF file.
-func dxfRead(s, file string) (*Cloud, readUnit, error) {
+// readDXF reads an ASCII DXF file.
+func readDXF(s, file string) (*geometry.Cloud, statedUnit, error) {
 	pairs, err := dxfPairs(s, file)
 	if err != nil {
-		return nil, readUnit{}, err
+		return nil, statedUnit{}, err
 	}
 	d := &dxfReader{file: file, ignored: map[string]int{}}
 	section := ""
@@ -175,7 +177,7 @@ func (d *dxfReader) insUnits(p dxfPair) {
 	}
 	n, err := strconv.Atoi(p.value)
 	if err != nil {
-		d.unit.err = &ParseError{File: d.file, Line: p.line, Err: fmt.Errorf("%w: $INSUNITS %q", ErrUnknownUnit, Excerpt(p.value))}
+		d.unit.err = &geometry.ParseError{File: d.file, Line: p.line, Err: fmt.Errorf("%w: $INSUNITS %q", geometry.ErrUnknownUnit, geometry.Excerpt(p.value))}
 		return
 	}
 	// Unit codes of the DXF format's $INSUNITS header variable.
@@ -194,19 +196,19 @@ func (d *dxfReader) insUnits(p dxfPair) {
 		if what == "" {
 			what = "an unknown code"
 		}
-		d.unit.err = &ParseError{File: d.file, Line: p.line,
-			Err: fmt.Errorf("%w: $INSUNITS %d (%s); give the unit as mm, in or m", ErrUnknownUnit, n, what)}
+		d.unit.err = &geometry.ParseError{File: d.file, Line: p.line,
+			Err: fmt.Errorf("%w: $INSUNITS %d (%s); give the unit as mm, in or m", geometry.ErrUnknownUnit, n, what)}
 	}
 }
 
 // number parses a coordinate value.
 func (d *dxfReader) number(p dxfPair) (float64, error) {
-	v, num := delimNumber(p.value, false)
+	v, num := parseNumber(p.value, false)
 	if !num {
-		return 0, &ParseError{File: d.file, Line: p.line, Err: fmt.Errorf("%w: group %d is %q", ErrNotNumeric, p.code, Excerpt(p.value))}
+		return 0, &geometry.ParseError{File: d.file, Line: p.line, Err: fmt.Errorf("%w: group %d is %q", ErrNotNumeric, p.code, geometry.Excerpt(p.value))}
 	}
 	if math.IsNaN(v) || math.IsInf(v, 0) {
-		return 0, &ParseError{File: d.file, Line: p.line, Err: fmt.Errorf("%w: group %d is %q", ErrNonFinite, p.code, Excerpt(p.value))}
+		return 0, &geometry.ParseError{File: d.file, Line: p.line, Err: fmt.Errorf("%w: group %d is %q", geometry.ErrNonFinite, p.code, geometry.Excerpt(p.value))}
 	}
 	return v, nil
 }
@@ -214,7 +216,7 @@ func (d *dxfReader) number(p dxfPair) (float64, error) {
 // coords collects points whose x group is base (10 or 11): each x value
 // starts a point, the y and z groups (base+10, base+20) fill it in. line is
 // the line of the x value.
-func (d *dxfReader) coords(pairs []dxfPair, base int) (pts []Vec3, lines []int, err error) {
+func (d *dxfReader) coords(pairs []dxfPair, base int) (pts []geometry.Vec3, lines []int, err error) {
 	for _, p := range pairs {
 		switch p.code {
 		case base, base + 10, base + 20:
@@ -227,7 +229,7 @@ func (d *dxfReader) coords(pairs []dxfPair, base int) (pts []Vec3, lines []int, 
 		}
 		switch p.code {
 		case base:
-			pts = append(pts, Vec3{X: v})
+			pts = append(pts, geometry.Vec3{X: v})
 			lines = append(lines, p.line)
 		case base + 10:
 			if len(pts) > 0 {
@@ -257,8 +259,8 @@ func dxfFlags(pairs []dxfPair) int {
 // extrusion direction groups 210/220/230 to world coordinates, by the
 // "arbitrary axis" rule of the DXF format: Ax = Wy × N when N is within
 // 1/64 of the world z axis in x and y, else Wz × N; Ay = N × Ax.
-func (d *dxfReader) ocs(pairs []dxfPair) (func(Vec3) Vec3, error) {
-	n := Vec3{0, 0, 1}
+func (d *dxfReader) ocs(pairs []dxfPair) (func(geometry.Vec3) geometry.Vec3, error) {
+	n := geometry.Vec3{X: 0, Y: 0, Z: 1}
 	for _, p := range pairs {
 		if p.code != 210 && p.code != 220 && p.code != 230 {
 			continue
@@ -277,17 +279,17 @@ func (d *dxfReader) ocs(pairs []dxfPair) (func(Vec3) Vec3, error) {
 		}
 	}
 	n = n.Unit()
-	if n == (Vec3{0, 0, 1}) || n == (Vec3{}) {
-		return func(p Vec3) Vec3 { return p }, nil
+	if n == (geometry.Vec3{X: 0, Y: 0, Z: 1}) || n == (geometry.Vec3{}) {
+		return func(p geometry.Vec3) geometry.Vec3 { return p }, nil
 	}
-	var ax Vec3
+	var ax geometry.Vec3
 	if math.Abs(n.X) < 1.0/64 && math.Abs(n.Y) < 1.0/64 {
-		ax = Vec3{0, 1, 0}.Cross(n).Unit()
+		ax = geometry.Vec3{X: 0, Y: 1, Z: 0}.Cross(n).Unit()
 	} else {
-		ax = Vec3{0, 0, 1}.Cross(n).Unit()
+		ax = geometry.Vec3{X: 0, Y: 0, Z: 1}.Cross(n).Unit()
 	}
 	ay := n.Cross(ax).Unit()
-	return func(p Vec3) Vec3 { return ax.Scale(p.X).Add(ay.Scale(p.Y)).Add(n.Scale(p.Z)) }, nil
+	return func(p geometry.Vec3) geometry.Vec3 { return ax.Scale(p.X).Add(ay.Scale(p.Y)).Add(n.Scale(p.Z)) }, nil
 }
 
 func (d *dxfReader) point(pairs []dxfPair, ent int) error {
@@ -296,7 +298,7 @@ func (d *dxfReader) point(pairs []dxfPair, ent int) error {
 		return err
 	}
 	d.loose = append(d.loose, pts[0])
-	d.looseAt = append(d.looseAt, Origin{File: d.file, Line: lines[0], Entity: ent})
+	d.looseAt = append(d.looseAt, geometry.Origin{File: d.file, Line: lines[0], Entity: ent})
 	return nil
 }
 
@@ -315,16 +317,16 @@ func (d *dxfReader) line(pairs []dxfPair, ent int) error {
 
 // addRun records an ordered run; closed runs are listed without repeating
 // their first point.
-func (d *dxfReader) addRun(pts []Vec3, lines []int, ent int, closed bool) {
+func (d *dxfReader) addRun(pts []geometry.Vec3, lines []int, ent int, closed bool) {
 	if closed && len(pts) > 1 && pts[0] == pts[len(pts)-1] {
 		pts, lines = pts[:len(pts)-1], lines[:len(lines)-1]
 	}
 	if len(pts) == 0 {
 		return
 	}
-	r := dxfRun{pts: pts, origins: make([]Origin, len(pts)), first: ent}
+	r := dxfRun{pts: pts, origins: make([]geometry.Origin, len(pts)), first: ent}
 	for i := range pts {
-		r.origins[i] = Origin{File: d.file, Line: lines[i], Entity: ent}
+		r.origins[i] = geometry.Origin{File: d.file, Line: lines[i], Entity: ent}
 	}
 	d.runs = append(d.runs, r)
 }
@@ -355,7 +357,7 @@ func (d *dxfReader) lwpolyline(pairs []dxfPair, ent int) error {
 		return err
 	}
 	for i := range pts {
-		pts[i] = toWorld(Vec3{pts[i].X, pts[i].Y, elev})
+		pts[i] = toWorld(geometry.Vec3{X: pts[i].X, Y: pts[i].Y, Z: elev})
 	}
 	if bulged && len(lines) > 0 {
 		d.notes.Add(d.file, lines[0], fmt.Sprintf("LWPOLYLINE entity %d has arc segments (bulges); only its vertices are read", ent), "")
@@ -386,7 +388,7 @@ func (d *dxfReader) spline(pairs []dxfPair, ent int) error {
 func (d *dxfReader) polyline(pairs []dxfPair, i, j, ent int) (int, error) {
 	head := pairs[i:j]
 	flags := dxfFlags(head)
-	var pts []Vec3
+	var pts []geometry.Vec3
 	var lines []int
 	var elev float64
 	for _, p := range head {
@@ -398,7 +400,7 @@ func (d *dxfReader) polyline(pairs []dxfPair, i, j, ent int) (int, error) {
 			elev = v
 		}
 	}
-	toWorld := func(p Vec3) Vec3 { return p }
+	toWorld := func(p geometry.Vec3) geometry.Vec3 { return p }
 	if flags&8 == 0 { // a 2D polyline: vertices in its object coordinate system
 		var err error
 		if toWorld, err = d.ocs(head); err != nil {
@@ -419,7 +421,7 @@ func (d *dxfReader) polyline(pairs []dxfPair, i, j, ent int) (int, error) {
 			if len(vp) > 0 {
 				p := vp[0]
 				if flags&8 == 0 {
-					p = toWorld(Vec3{p.X, p.Y, elev})
+					p = toWorld(geometry.Vec3{X: p.X, Y: p.Y, Z: elev})
 				}
 				pts = append(pts, p)
 				lines = append(lines, vl[0])
@@ -447,7 +449,7 @@ func (d *dxfReader) chainLines() {
 		return
 	}
 	var w dxfWelder
-	ends := make([]Vec3, 0, 2*len(d.lines))
+	ends := make([]geometry.Vec3, 0, 2*len(d.lines))
 	for _, l := range d.lines {
 		ends = append(ends, l.a, l.b)
 	}
@@ -468,12 +470,12 @@ func (d *dxfReader) chainLines() {
 	// walk follows unused lines from node n through nodes of degree 2.
 	walk := func(n, k int) {
 		l := d.lines[k]
-		var pts []Vec3
-		var origins []Origin
+		var pts []geometry.Vec3
+		var origins []geometry.Origin
 		if na[k] == n {
-			pts, origins = append(pts, l.a), append(origins, Origin{d.file, l.la, l.ent})
+			pts, origins = append(pts, l.a), append(origins, geometry.Origin{File: d.file, Line: l.la, Entity: l.ent})
 		} else {
-			pts, origins = append(pts, l.b), append(origins, Origin{d.file, l.lb, l.ent})
+			pts, origins = append(pts, l.b), append(origins, geometry.Origin{File: d.file, Line: l.lb, Entity: l.ent})
 		}
 		start, first := n, l.ent
 		for {
@@ -481,10 +483,10 @@ func (d *dxfReader) chainLines() {
 			l = d.lines[k]
 			if na[k] == n {
 				n = nb[k]
-				pts, origins = append(pts, l.b), append(origins, Origin{d.file, l.lb, l.ent})
+				pts, origins = append(pts, l.b), append(origins, geometry.Origin{File: d.file, Line: l.lb, Entity: l.ent})
 			} else {
 				n = na[k]
-				pts, origins = append(pts, l.a), append(origins, Origin{d.file, l.la, l.ent})
+				pts, origins = append(pts, l.a), append(origins, geometry.Origin{File: d.file, Line: l.la, Entity: l.ent})
 			}
 			first = min(first, l.ent)
 			if len(adj[n]) != 2 || n == start {
@@ -528,12 +530,12 @@ func (d *dxfReader) chainLines() {
 
 // cloud assembles the cloud: runs in the order of their first entity, then
 // the POINT entities.
-func (d *dxfReader) cloud() (*Cloud, readUnit, error) {
+func (d *dxfReader) cloud() (*geometry.Cloud, statedUnit, error) {
 	if len(d.runs) == 0 && len(d.loose) == 0 {
-		return nil, d.unit, &ParseError{File: d.file, Err: ErrNoEntities}
+		return nil, d.unit, &geometry.ParseError{File: d.file, Err: ErrNoEntities}
 	}
 	sort.SliceStable(d.runs, func(a, b int) bool { return d.runs[a].first < d.runs[b].first })
-	c := &Cloud{Format: FormatDXF, Dim: 2}
+	c := &geometry.Cloud{Format: FormatDXF, Dim: 2}
 	for _, r := range d.runs {
 		if len(d.runs) > 1 {
 			c.Segments = append(c.Segments, len(c.Points))
@@ -571,24 +573,24 @@ func (d *dxfReader) cloud() (*Cloud, readUnit, error) {
 // cells).
 type dxfWelder struct {
 	tol  float64
-	lo   Vec3
-	pts  []Vec3
+	lo   geometry.Vec3
+	pts  []geometry.Vec3
 	grid map[[3]int64][]int
 }
 
 // init sets the tolerance to 1e-9 of the extent of pts.
-func (w *dxfWelder) init(pts []Vec3) {
+func (w *dxfWelder) init(pts []geometry.Vec3) {
 	lo, hi := pts[0], pts[0]
 	for _, p := range pts {
-		lo = Vec3{math.Min(lo.X, p.X), math.Min(lo.Y, p.Y), math.Min(lo.Z, p.Z)}
-		hi = Vec3{math.Max(hi.X, p.X), math.Max(hi.Y, p.Y), math.Max(hi.Z, p.Z)}
+		lo = geometry.Vec3{X: math.Min(lo.X, p.X), Y: math.Min(lo.Y, p.Y), Z: math.Min(lo.Z, p.Z)}
+		hi = geometry.Vec3{X: math.Max(hi.X, p.X), Y: math.Max(hi.Y, p.Y), Z: math.Max(hi.Z, p.Z)}
 	}
 	w.lo = lo
 	w.tol = 1e-9 * hi.Sub(lo).Norm()
 	w.grid = map[[3]int64][]int{}
 }
 
-func (w *dxfWelder) cell(p Vec3) [3]int64 {
+func (w *dxfWelder) cell(p geometry.Vec3) [3]int64 {
 	if w.tol == 0 {
 		return [3]int64{}
 	}
@@ -598,7 +600,7 @@ func (w *dxfWelder) cell(p Vec3) [3]int64 {
 }
 
 // id returns the id of the point within tol of p, adding p if there is none.
-func (w *dxfWelder) id(p Vec3) int {
+func (w *dxfWelder) id(p geometry.Vec3) int {
 	c := w.cell(p)
 	for dx := int64(-1); dx <= 1; dx++ {
 		for dy := int64(-1); dy <= 1; dy++ {

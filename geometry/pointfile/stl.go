@@ -1,4 +1,4 @@
-package geometry
+package pointfile
 
 import (
 	"bytes"
@@ -7,20 +7,10 @@ import (
 	"io"
 	"math"
 	"strings"
-)
 
-// Mesh is a triangle mesh read from an STL file. Identical vertices are
-// welded into one, so facets that share an edge share its vertex indices.
-type Mesh struct {
-	File     string   // display name of the file
-	Name     string   // the solid's name, if the file gives one
-	Vertices []Vec3   // distinct vertices
-	Facets   [][3]int // vertex indices of each facet, in file order
-	// Lines[i] is the line of facet i's "facet" keyword in an ASCII file;
-	// nil for a binary file.
-	Lines []int
-	Notes []Note
-}
+	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/planar"
+)
 
 // STL binary layout (common practice): an 80-byte header, a little-endian
 // uint32 facet count, then 50 bytes per facet: normal and three vertices as
@@ -34,12 +24,30 @@ const (
 // content. name is used in errors. A binary file that is not an STL mesh
 // gives ErrNotSTL; one that ends before the facet count of its header says
 // gives ErrTruncated; both in a *ParseError.
-func ReadSTL(r io.Reader, name string) (*Mesh, error) {
+func ReadSTL(r io.Reader, name string) (*planar.Mesh, error) {
 	data, err := readAll(r)
 	if err != nil {
-		return nil, &ParseError{File: name, Err: err}
+		return nil, &geometry.ParseError{File: name, Err: err}
 	}
-	return readSTLBytes(data, name)
+	return parseSTL(data, name)
+}
+
+// readSTLCut reads an STL mesh from data and cuts it with opts.Cut, which
+// it must have.
+func readSTLCut(data []byte, _, name string, opts Options) (*geometry.Cloud, statedUnit, error) {
+	m, err := parseSTL(data, name)
+	if err != nil {
+		return nil, statedUnit{}, err
+	}
+	if opts.Cut == nil {
+		return nil, statedUnit{}, fmt.Errorf("geometry: %s: an STL mesh needs a cut plane (e.g. \"z=240\") to give a section", name)
+	}
+	c, err := m.Slice(*opts.Cut)
+	if err != nil {
+		return nil, statedUnit{}, err
+	}
+	c.Format = FormatSTL
+	return c, statedUnit{}, nil
 }
 
 // stlBinarySizeMatches reports whether data has exactly the size its
@@ -52,27 +60,27 @@ func stlBinarySizeMatches(data []byte) bool {
 	return stlHeader+stlFacet*n == uint64(len(data))
 }
 
-func readSTLBytes(data []byte, name string) (*Mesh, error) {
+func parseSTL(data []byte, name string) (*planar.Mesh, error) {
 	if len(bytes.TrimSpace(data)) == 0 {
-		return nil, &ParseError{File: name, Err: ErrEmpty}
+		return nil, &geometry.ParseError{File: name, Err: geometry.ErrEmpty}
 	}
-	if stlBinarySizeMatches(data) || readIsBinary(data[:min(len(data), 1024)]) {
-		return stlReadBinary(data, name)
+	if stlBinarySizeMatches(data) || isBinary(data[:min(len(data), 1024)]) {
+		return readSTLBinary(data, name)
 	}
-	s := readText(data)
+	s := asText(data)
 	if t := strings.TrimLeft(s, " \t\r\n"); len(t) < 5 || !strings.EqualFold(t[:5], "solid") {
-		return nil, &ParseError{File: name, Err: fmt.Errorf("%w: text that does not start with \"solid\"", ErrNotSTL)}
+		return nil, &geometry.ParseError{File: name, Err: fmt.Errorf("%w: text that does not start with \"solid\"", ErrNotSTL)}
 	}
-	return stlReadASCII(s, name)
+	return readSTLText(s, name)
 }
 
 // stlWelder maps each distinct vertex to one index.
 type stlWelder struct {
-	m   *Mesh
-	ids map[Vec3]int
+	m   *planar.Mesh
+	ids map[geometry.Vec3]int
 }
 
-func (w *stlWelder) id(v Vec3) int {
+func (w *stlWelder) id(v geometry.Vec3) int {
 	if k, ok := w.ids[v]; ok {
 		return k
 	}
@@ -99,31 +107,31 @@ func stlPlausible(b []byte) bool {
 	return n2 <= 1.01
 }
 
-func stlReadBinary(data []byte, name string) (*Mesh, error) {
+func readSTLBinary(data []byte, name string) (*planar.Mesh, error) {
 	if len(data) < stlHeader {
-		return nil, &ParseError{File: name, Err: fmt.Errorf("%w: %d bytes, fewer than the %d of a binary STL header", ErrTruncated, len(data), stlHeader)}
+		return nil, &geometry.ParseError{File: name, Err: fmt.Errorf("%w: %d bytes, fewer than the %d of a binary STL header", ErrTruncated, len(data), stlHeader)}
 	}
 	n := uint64(binary.LittleEndian.Uint32(data[80:84]))
 	avail := uint64(len(data)-stlHeader) / stlFacet
-	m := &Mesh{File: name, Name: stlHeaderName(data[:80])}
+	m := &planar.Mesh{File: name, Name: stlHeaderName(data[:80])}
 	if uint64(len(data)) != stlHeader+stlFacet*n {
 		// The size does not match the count: tell a cut-off or padded mesh
 		// from data that is no mesh at all by what the facets hold.
 		for i := range min(avail, max(n, 1)) {
 			if !stlPlausible(data[stlHeader+stlFacet*i:]) {
-				return nil, &ParseError{File: name, Err: fmt.Errorf("%w: binary data whose record %d is not a facet", ErrNotSTL, i+1)}
+				return nil, &geometry.ParseError{File: name, Err: fmt.Errorf("%w: binary data whose record %d is not a facet", ErrNotSTL, i+1)}
 			}
 		}
 		switch {
 		case n > 1e8:
-			return nil, &ParseError{File: name, Err: fmt.Errorf("%w: binary data with an implausible facet count %d", ErrNotSTL, n)}
+			return nil, &geometry.ParseError{File: name, Err: fmt.Errorf("%w: binary data with an implausible facet count %d", ErrNotSTL, n)}
 		case n > avail:
-			return nil, &ParseError{File: name, Err: fmt.Errorf("%w: the header promises %d facet(s), the file holds %d (%d bytes)", ErrTruncated, n, avail, len(data))}
+			return nil, &geometry.ParseError{File: name, Err: fmt.Errorf("%w: the header promises %d facet(s), the file holds %d (%d bytes)", ErrTruncated, n, avail, len(data))}
 		}
-		m.Notes = append(m.Notes, Note{Origin: Origin{File: name},
+		m.Notes = append(m.Notes, geometry.Note{Origin: geometry.Origin{File: name},
 			Reason: fmt.Sprintf("%d byte(s) after the last of %d facets ignored", uint64(len(data))-stlHeader-stlFacet*n, n)})
 	}
-	w := stlWelder{m: m, ids: make(map[Vec3]int, n/2+1)}
+	w := stlWelder{m: m, ids: make(map[geometry.Vec3]int, n/2+1)}
 	m.Facets = make([][3]int, 0, n)
 	for i := range n {
 		b := data[stlHeader+stlFacet*i+12:]
@@ -133,10 +141,10 @@ func stlReadBinary(data []byte, name string) (*Mesh, error) {
 			for j := range 3 {
 				v[j] = float64(math.Float32frombits(binary.LittleEndian.Uint32(b[12*k+4*j:])))
 				if math.IsNaN(v[j]) || math.IsInf(v[j], 0) {
-					return nil, &ParseError{File: name, Err: fmt.Errorf("facet %d: %w", i+1, ErrNonFinite)}
+					return nil, &geometry.ParseError{File: name, Err: fmt.Errorf("facet %d: %w", i+1, geometry.ErrNonFinite)}
 				}
 			}
-			f[k] = w.id(Vec3{v[0], v[1], v[2]})
+			f[k] = w.id(geometry.Vec3{X: v[0], Y: v[1], Z: v[2]})
 		}
 		m.Facets = append(m.Facets, f)
 	}
@@ -161,14 +169,14 @@ func stlHeaderName(h []byte) string {
 	return strings.TrimSpace(string(h))
 }
 
-// stlReadASCII reads the ASCII form: solid NAME, then facets of the form
+// readSTLText reads the ASCII form: solid NAME, then facets of the form
 // "facet normal nx ny nz / outer loop / vertex x y z (3 or more) / endloop
 // / endfacet", then endsolid. A facet of more than three vertices is split
 // into a fan of triangles.
-func stlReadASCII(s, name string) (*Mesh, error) {
-	m := &Mesh{File: name}
-	w := stlWelder{m: m, ids: map[Vec3]int{}}
-	lines := readLines{s: s}
+func readSTLText(s, name string) (*planar.Mesh, error) {
+	m := &planar.Mesh{File: name}
+	w := stlWelder{m: m, ids: map[geometry.Vec3]int{}}
+	lines := lineScanner{s: s}
 	const (
 		outside = iota // before solid or after endsolid
 		inSolid
@@ -179,7 +187,7 @@ func stlReadASCII(s, name string) (*Mesh, error) {
 	state := outside
 	var verts []int
 	facetLine, last := 0, 0
-	perr := func(no int, err error) error { return &ParseError{File: name, Line: no, Err: err} }
+	perr := func(no int, err error) error { return &geometry.ParseError{File: name, Line: no, Err: err} }
 	for {
 		line, no, ok := lines.next()
 		if !ok {
@@ -194,7 +202,7 @@ func stlReadASCII(s, name string) (*Mesh, error) {
 		switch {
 		case kw == "solid" && state == outside:
 			if m.Name == "" && len(f) > 1 {
-				m.Name = Excerpt(strings.Join(f[1:], " "))
+				m.Name = geometry.Excerpt(strings.Join(f[1:], " "))
 			}
 			state = inSolid
 		case kw == "endsolid" && state == inSolid:
@@ -209,16 +217,16 @@ func stlReadASCII(s, name string) (*Mesh, error) {
 			}
 			var v [3]float64
 			for j := range 3 {
-				x, num := delimNumber(f[j+1], false)
+				x, num := parseNumber(f[j+1], false)
 				if !num {
-					return nil, perr(no, fmt.Errorf("%w: %q", ErrNotNumeric, Excerpt(f[j+1])))
+					return nil, perr(no, fmt.Errorf("%w: %q", ErrNotNumeric, geometry.Excerpt(f[j+1])))
 				}
 				if math.IsNaN(x) || math.IsInf(x, 0) {
-					return nil, perr(no, fmt.Errorf("%w: %q", ErrNonFinite, Excerpt(f[j+1])))
+					return nil, perr(no, fmt.Errorf("%w: %q", geometry.ErrNonFinite, geometry.Excerpt(f[j+1])))
 				}
 				v[j] = x
 			}
-			verts = append(verts, w.id(Vec3{v[0], v[1], v[2]}))
+			verts = append(verts, w.id(geometry.Vec3{X: v[0], Y: v[1], Z: v[2]}))
 		case kw == "endloop" && state == inLoop:
 			if len(verts) < 3 {
 				return nil, perr(no, fmt.Errorf("%w: facet with %d vertex(es), want 3", ErrFormat, len(verts)))
@@ -231,7 +239,7 @@ func stlReadASCII(s, name string) (*Mesh, error) {
 			}
 			state = inSolid
 		default:
-			return nil, perr(no, fmt.Errorf("%w: unexpected %q", ErrFormat, Excerpt(line)))
+			return nil, perr(no, fmt.Errorf("%w: unexpected %q", ErrFormat, geometry.Excerpt(line)))
 		}
 	}
 	if state != outside {

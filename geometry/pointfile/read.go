@@ -1,4 +1,4 @@
-package geometry
+package pointfile
 
 import (
 	"bytes"
@@ -6,13 +6,17 @@ import (
 	"io"
 	"io/fs"
 	"strings"
+
+	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/planar"
+	"github.com/foilwright/foilwright/internal/enum"
 )
 
-// ReadOptions control how Read takes a point file apart. The zero value
+// Options control how Read takes a point file apart. The zero value
 // detects everything from the content.
-type ReadOptions struct {
+type Options struct {
 	// Format is "" to detect from the content (never from the file name), or
-	// one of "delimited", "loop", "surfaces", "dxf", "stl".
+	// one of Formats().
 	Format string
 	// Columns chooses the coordinate columns of a delimited file: "" takes
 	// the first 2 or 3 numeric columns of the first data line; "2,3,4" gives
@@ -23,14 +27,14 @@ type ReadOptions struct {
 	// Units is the length unit of the file. "" takes the unit from the file
 	// when it states one ("# units: mm", a header "x [mm]", DXF $INSUNITS)
 	// and leaves it "" otherwise. A unit given here wins over the file's.
-	Units Unit
+	Units geometry.Unit
 	// Cut is the plane that cuts an STL mesh into section loops; Read
 	// refuses an STL file without it. Other formats ignore it (flatten 3D
-	// points with Flatten).
-	Cut *PlaneSpec
+	// points with planar.Flatten).
+	Cut *planar.Spec
 }
 
-// The formats Read knows, as named in ReadOptions.Format and Cloud.Format.
+// The formats Read knows, as named in Options.Format and Cloud.Format.
 const (
 	FormatDelimited = "delimited"
 	FormatLoop      = "loop"
@@ -38,6 +42,54 @@ const (
 	FormatDXF       = "dxf"
 	FormatSTL       = "stl"
 )
+
+// A reader reads one format: a text format from text, a binary one from
+// data. It returns the cloud and the unit the file states.
+type reader func(data []byte, text, name string, opts Options) (*geometry.Cloud, statedUnit, error)
+
+// formats is the one list of the formats Read knows, in the order messages,
+// help texts, completions and the pipeline file's checks give them. A new
+// format is an entry here (and in detect, if it can be told from its
+// content) and a file of its own.
+var formats = []struct {
+	name   string
+	binary bool // read from the bytes, not converted to text
+	read   reader
+}{
+	{FormatDelimited, false, func(_ []byte, text, name string, o Options) (*geometry.Cloud, statedUnit, error) {
+		return readDelimited(text, name, o.Columns)
+	}},
+	{FormatLoop, false, func(_ []byte, text, name string, _ Options) (*geometry.Cloud, statedUnit, error) {
+		return readLoop(text, name)
+	}},
+	{FormatSurfaces, false, func(_ []byte, text, name string, _ Options) (*geometry.Cloud, statedUnit, error) {
+		return readSurfaces(text, name)
+	}},
+	{FormatDXF, false, func(_ []byte, text, name string, _ Options) (*geometry.Cloud, statedUnit, error) {
+		return readDXF(text, name)
+	}},
+	{FormatSTL, true, readSTLCut},
+}
+
+// Formats returns the names of the formats Read knows, in the order of the
+// list (the order messages give them).
+func Formats() []string {
+	out := make([]string, len(formats))
+	for i, f := range formats {
+		out[i] = f.name
+	}
+	return out
+}
+
+// formatOf returns the entry of the format called name.
+func formatOf(name string) (reader, bool, bool) {
+	for _, f := range formats {
+		if f.name == name {
+			return f.read, f.binary, true
+		}
+	}
+	return nil, false, false
+}
 
 // Read reads a point file of any supported format from r into a Cloud. name
 // is the display name used in errors and in every point's Origin.
@@ -49,73 +101,51 @@ const (
 // (a name line, then x y pairs around the section); a name line, a line of
 // two point counts and that many pairs for the "surfaces" listing (upper
 // then lower surface, each from leading to trailing edge); anything else is
-// delimited text. See ReadOptions for columns, units and the STL cut.
+// delimited text. See Options for columns, units and the STL cut.
 //
-// Malformed input gives a *ParseError naming the file, the line where there
-// is one, and the reason, which wraps one of ErrEmpty, ErrNoNumbers,
-// ErrNotNumeric, ErrColumnCount, ErrColumnRange, ErrNonFinite,
-// ErrUnknownUnit, ErrNotSTL, ErrTruncated, ErrNoEntities or ErrFormat.
+// Malformed input gives a *geometry.ParseError naming the file, the line
+// where there is one, and the reason, which wraps geometry.ErrEmpty,
+// ErrNonFinite or ErrUnknownUnit, or one of ErrNoNumbers, ErrNotNumeric,
+// ErrColumnCount, ErrColumnRange, ErrNotSTL, ErrTruncated, ErrNoEntities or
+// ErrFormat.
 // Read never checks that the points make a section (how many, whether
 // collinear); the cleaning step does.
-func Read(r io.Reader, name string, opts ReadOptions) (*Cloud, error) {
+func Read(r io.Reader, name string, opts Options) (*geometry.Cloud, error) {
 	data, err := readAll(r)
 	if err != nil {
-		return nil, &ParseError{File: name, Err: err}
+		return nil, &geometry.ParseError{File: name, Err: err}
 	}
 	if opts.Units != "" {
-		u, err := ParseUnit(string(opts.Units))
+		u, err := geometry.ParseUnit(string(opts.Units))
 		if err != nil {
 			return nil, fmt.Errorf("geometry: units option: %w", err)
 		}
 		opts.Units = u
 	}
 	if len(bytes.TrimSpace(data)) == 0 {
-		return nil, &ParseError{File: name, Err: ErrEmpty}
+		return nil, &geometry.ParseError{File: name, Err: geometry.ErrEmpty}
 	}
 	// Convert to text once, and not at all for a binary mesh.
 	format, text := opts.Format, ""
-	if format == "" && (readIsBinary(data[:min(len(data), 1024)]) || stlBinarySizeMatches(data)) {
+	if format == "" && (isBinary(data[:min(len(data), 1024)]) || stlBinarySizeMatches(data)) {
 		format = FormatSTL
 	}
-	if format != FormatSTL {
-		text = readText(data)
+	read, binary, known := formatOf(format)
+	if !binary {
+		text = asText(data)
 	}
 	if format == "" {
-		format = readDetect(text)
+		format = detect(text)
+		read, _, known = formatOf(format)
 	}
-	var (
-		c      *Cloud
-		stated readUnit
-	)
-	switch format {
-	case FormatSTL:
-		m, err := readSTLBytes(data, name)
-		if err != nil {
-			return nil, err
-		}
-		if opts.Cut == nil {
-			return nil, fmt.Errorf("geometry: %s: an STL mesh needs a cut plane (e.g. \"z=240\") to give a section", name)
-		}
-		c, err = m.Slice(*opts.Cut)
-		if err != nil {
-			return nil, err
-		}
-	case FormatDXF:
-		c, stated, err = dxfRead(text, name)
-	case FormatLoop:
-		c, stated, err = listingReadLoop(text, name)
-	case FormatSurfaces:
-		c, stated, err = listingReadSurfaces(text, name)
-	case FormatDelimited:
-		c, stated, err = delimRead(text, name, opts.Columns)
-	default:
-		return nil, fmt.Errorf("geometry: format %q: want %s, %s, %s, %s or %s", opts.Format,
-			FormatDelimited, FormatLoop, FormatSurfaces, FormatDXF, FormatSTL)
+	if !known {
+		return nil, fmt.Errorf("geometry: format %q: want %s", opts.Format, enum.Or(Formats()...))
 	}
+	c, stated, err := read(data, text, name, opts)
 	if err != nil {
 		return nil, err
 	}
-	if err := readSettleUnits(c, name, stated, opts.Units); err != nil {
+	if err := settleUnits(c, name, stated, opts.Units); err != nil {
 		return nil, err
 	}
 	return c, nil
@@ -142,28 +172,28 @@ func readAll(r io.Reader) ([]byte, error) {
 	return b.Bytes(), err
 }
 
-// readDetect guesses the format of the text s (binary data has been taken
+// detect guesses the format of the text s (binary data has been taken
 // for STL already).
-func readDetect(s string) string {
+func detect(s string) string {
 	head := s[:min(len(s), 64<<10)]
 	if t := strings.TrimLeft(head, " \t\r\n"); len(t) >= 5 && strings.EqualFold(t[:5], "solid") {
 		if strings.Contains(head, "facet") || strings.Contains(head, "endsolid") {
 			return FormatSTL
 		}
 	}
-	if dxfLooksLike(head) {
+	if looksLikeDXF(head) {
 		return FormatDXF
 	}
-	if f := listingDetect(s); f != "" {
+	if f := detectListing(s); f != "" {
 		return f
 	}
 	return FormatDelimited
 }
 
-// readIsBinary reports whether b holds control bytes that never occur in a
+// isBinary reports whether b holds control bytes that never occur in a
 // text file (NUL and the C0 controls other than tab, newline, vertical tab,
 // form feed, carriage return and the DOS end-of-file mark).
-func readIsBinary(b []byte) bool {
+func isBinary(b []byte) bool {
 	for _, c := range b {
 		if c < 0x20 && c != '\t' && c != '\n' && c != '\v' && c != '\f' && c != '\r' && c != 0x1a {
 			return true
@@ -172,9 +202,9 @@ func readIsBinary(b []byte) bool {
 	return false
 }
 
-// readText returns data as a string without a UTF-8 byte-order mark and
+// asText returns data as a string without a UTF-8 byte-order mark and
 // with old-style lone carriage returns turned into newlines.
-func readText(data []byte) string {
+func asText(data []byte) string {
 	data = bytes.TrimPrefix(data, []byte("\xef\xbb\xbf"))
 	if bytes.IndexByte(data, '\n') < 0 && bytes.IndexByte(data, '\r') >= 0 {
 		data = bytes.ReplaceAll(data, []byte("\r"), []byte("\n"))
@@ -182,16 +212,16 @@ func readText(data []byte) string {
 	return string(data)
 }
 
-// readLines walks the lines of a text, numbering them from 1 and dropping
+// lineScanner walks the lines of a text, numbering them from 1 and dropping
 // the line ends (\n or \r\n).
-type readLines struct {
+type lineScanner struct {
 	s   string
 	pos int
 	no  int
 }
 
 // next returns the next line and its number; ok is false at the end.
-func (l *readLines) next() (line string, no int, ok bool) {
+func (l *lineScanner) next() (line string, no int, ok bool) {
 	if l.pos >= len(l.s) {
 		return "", l.no, false
 	}
@@ -211,26 +241,26 @@ func (l *readLines) next() (line string, no int, ok bool) {
 	return line, l.no, true
 }
 
-// readUnit records the unit a file states and where it said so.
-type readUnit struct {
-	unit Unit
+// statedUnit records the unit a file states and where it said so.
+type statedUnit struct {
+	unit geometry.Unit
 	line int
 	err  error // a *ParseError for a unit the file names but foilwright does not know
 }
 
 // set records that line no names unit text. A second, different unit is an
-// error; an unknown one is kept as an error for readSettleUnits to report
+// error; an unknown one is kept as an error for settleUnits to report
 // unless the caller gave the unit.
-func (u *readUnit) set(file string, no int, text string) error {
-	unit, err := ParseUnit(text)
+func (u *statedUnit) set(file string, no int, text string) error {
+	unit, err := geometry.ParseUnit(text)
 	if err != nil {
 		if u.err == nil {
-			u.err = &ParseError{File: file, Line: no, Err: err}
+			u.err = &geometry.ParseError{File: file, Line: no, Err: err}
 		}
 		return nil
 	}
 	if u.unit != "" && u.unit != unit {
-		return &ParseError{File: file, Line: no, Err: fmt.Errorf("%w: unit %s here but %s at line %d", ErrFormat, unit, u.unit, u.line)}
+		return &geometry.ParseError{File: file, Line: no, Err: fmt.Errorf("%w: unit %s here but %s at line %d", ErrFormat, unit, u.unit, u.line)}
 	}
 	if u.unit == "" {
 		u.unit, u.line = unit, no
@@ -238,14 +268,14 @@ func (u *readUnit) set(file string, no int, text string) error {
 	return nil
 }
 
-// readSettleUnits sets c.Units from the caller's choice, else from the unit
+// settleUnits sets c.Units from the caller's choice, else from the unit
 // the file stated. A unit the file names but foilwright does not know is an
 // error only when the caller gave none.
-func readSettleUnits(c *Cloud, file string, stated readUnit, given Unit) error {
+func settleUnits(c *geometry.Cloud, file string, stated statedUnit, given geometry.Unit) error {
 	switch {
 	case given != "":
 		if stated.unit != "" && stated.unit != given {
-			c.Notes = append(c.Notes, Note{Origin: Origin{File: file, Line: stated.line},
+			c.Notes = append(c.Notes, geometry.Note{Origin: geometry.Origin{File: file, Line: stated.line},
 				Reason: fmt.Sprintf("the file says %s; using %s as asked", stated.unit, given)})
 		}
 		c.Units = given

@@ -1,4 +1,4 @@
-package geometry
+package pointfile
 
 import (
 	"bufio"
@@ -6,6 +6,8 @@ import (
 	"io"
 	"strconv"
 	"strings"
+
+	"github.com/foilwright/foilwright/geometry"
 )
 
 // WriteCSV writes pts as comma-separated text with the header
@@ -18,7 +20,7 @@ import (
 //
 // It returns an error for a non-finite point or a failing writer, and
 // panics if origins is not nil and len(origins) != len(pts).
-func WriteCSV(w io.Writer, pts []Point, origins []Origin) error {
+func WriteCSV(w io.Writer, pts []geometry.Point, origins []geometry.Origin) error {
 	if origins != nil && len(origins) != len(pts) {
 		panic("geometry: WriteCSV with len(origins) != len(pts)")
 	}

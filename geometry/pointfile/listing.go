@@ -1,9 +1,11 @@
-package geometry
+package pointfile
 
 import (
 	"fmt"
 	"math"
 	"strings"
+
+	"github.com/foilwright/foilwright/geometry"
 )
 
 // The two plain coordinate listings of the trade (common practice):
@@ -23,7 +25,7 @@ import (
 
 // listingPair is one coordinate line of a listing.
 type listingPair struct {
-	p    Point
+	p    geometry.Point
 	line int
 }
 
@@ -35,14 +37,14 @@ type listingScan struct {
 	nameLine int
 	rows     [][]string
 	lines    []int
-	notes    Notes
+	notes    geometry.Notes
 }
 
 // With detect set it gives up (returning nil) as soon as s cannot be a
 // listing: no name line, a comment, or a line that is not two fields.
 func listingSplit(s, file string, detect bool) *listingScan {
 	sc := &listingScan{}
-	lines := readLines{s: s}
+	lines := lineScanner{s: s}
 	first := true
 	for {
 		line, no, ok := lines.next()
@@ -63,8 +65,8 @@ func listingSplit(s, file string, detect bool) *listingScan {
 		if first {
 			first = false
 			f := strings.Fields(t)
-			if _, num := delimNumber(f[0], false); !num {
-				sc.name, sc.nameLine = Excerpt(t), no
+			if _, num := parseNumber(f[0], false); !num {
+				sc.name, sc.nameLine = geometry.Excerpt(t), no
 				sc.notes.Add(file, no, "name line", t)
 				continue
 			}
@@ -96,22 +98,22 @@ func (sc *listingScan) pairs(file string, from int) ([]listingPair, error) {
 }
 
 // listingPairOf parses one "x y" line.
-func listingPairOf(f []string, file string, no int) (Point, error) {
+func listingPairOf(f []string, file string, no int) (geometry.Point, error) {
 	if len(f) != 2 {
-		return Point{}, &ParseError{File: file, Line: no, Err: fmt.Errorf("%w: %d field(s), want x y", ErrColumnCount, len(f))}
+		return geometry.Point{}, &geometry.ParseError{File: file, Line: no, Err: fmt.Errorf("%w: %d field(s), want x y", ErrColumnCount, len(f))}
 	}
 	var v [2]float64
 	for j := range 2 {
-		x, num := delimNumber(f[j], false)
+		x, num := parseNumber(f[j], false)
 		if !num {
-			return Point{}, &ParseError{File: file, Line: no, Err: fmt.Errorf("%w: %q", ErrNotNumeric, Excerpt(f[j]))}
+			return geometry.Point{}, &geometry.ParseError{File: file, Line: no, Err: fmt.Errorf("%w: %q", ErrNotNumeric, geometry.Excerpt(f[j]))}
 		}
 		if math.IsNaN(x) || math.IsInf(x, 0) {
-			return Point{}, &ParseError{File: file, Line: no, Err: fmt.Errorf("%w: %q", ErrNonFinite, Excerpt(f[j]))}
+			return geometry.Point{}, &geometry.ParseError{File: file, Line: no, Err: fmt.Errorf("%w: %q", geometry.ErrNonFinite, geometry.Excerpt(f[j]))}
 		}
 		v[j] = x
 	}
-	return Point{v[0], v[1]}, nil
+	return geometry.Point{X: v[0], Y: v[1]}, nil
 }
 
 // listingCounts parses a counts line such as "61. 61.": two whole numbers
@@ -122,7 +124,7 @@ func listingCounts(f []string) (nu, nl int, ok bool) {
 	}
 	var n [2]int
 	for j := range 2 {
-		x, num := delimNumber(f[j], false)
+		x, num := parseNumber(f[j], false)
 		if !num || x != math.Trunc(x) || x < 1 || x > 1e9 {
 			return 0, 0, false
 		}
@@ -131,7 +133,7 @@ func listingCounts(f []string) (nu, nl int, ok bool) {
 	return n[0], n[1], true
 }
 
-// listingDetect returns FormatLoop or FormatSurfaces when s is one of the
+// detectListing returns FormatLoop or FormatSurfaces when s is one of the
 // listings, or "" otherwise. A listing needs a name line that is not a
 // column header and only two-number lines after it; it is a surfaces
 // listing when the first of those holds two whole counts adding up to the
@@ -139,7 +141,7 @@ func listingCounts(f []string) (nu, nl int, ok bool) {
 // and closed, make a path no longer than 4 times the diagonal of their
 // bounding box (an ordered loop around a section is about 2 to 2.5 times;
 // points in no order are far longer).
-func listingDetect(s string) string {
+func detectListing(s string) string {
 	sc := listingSplit(s, "", true)
 	if sc == nil || sc.nameLine == 0 || len(sc.rows) < 3 || listingIsHeader(sc.name) {
 		return ""
@@ -149,7 +151,7 @@ func listingDetect(s string) string {
 			return ""
 		}
 		for _, f := range r {
-			if _, num := delimNumber(f, false); !num {
+			if _, num := parseNumber(f, false); !num {
 				return ""
 			}
 		}
@@ -157,11 +159,11 @@ func listingDetect(s string) string {
 	if nu, nl, ok := listingCounts(sc.rows[0]); ok && nu+nl == len(sc.rows)-1 {
 		return FormatSurfaces
 	}
-	pts := make([]Point, 0, len(sc.rows))
+	pts := make([]geometry.Point, 0, len(sc.rows))
 	for _, r := range sc.rows {
-		x, _ := delimNumber(r[0], false)
-		y, _ := delimNumber(r[1], false)
-		p := Point{x, y}
+		x, _ := parseNumber(r[0], false)
+		y, _ := parseNumber(r[1], false)
+		p := geometry.Point{X: x, Y: y}
 		if !p.IsFinite() {
 			return FormatLoop // let the reader report it
 		}
@@ -170,8 +172,8 @@ func listingDetect(s string) string {
 	lo, hi := pts[0], pts[0]
 	var path float64
 	for i, p := range pts {
-		lo = Point{math.Min(lo.X, p.X), math.Min(lo.Y, p.Y)}
-		hi = Point{math.Max(hi.X, p.X), math.Max(hi.Y, p.Y)}
+		lo = geometry.Point{X: math.Min(lo.X, p.X), Y: math.Min(lo.Y, p.Y)}
+		hi = geometry.Point{X: math.Max(hi.X, p.X), Y: math.Max(hi.Y, p.Y)}
 		path += p.Dist(pts[(i+1)%len(pts)])
 	}
 	if diag := hi.Dist(lo); diag > 0 && path <= 4*diag {
@@ -198,50 +200,50 @@ func listingIsHeader(t string) bool {
 }
 
 // listingCloud builds the cloud of a listing from its pairs.
-func listingCloud(sc *listingScan, file, format string, pairs []listingPair) *Cloud {
-	c := &Cloud{Format: format, Dim: 2, Name: sc.name, Ordered: true,
-		Points: make([]Vec3, len(pairs)), Origins: make([]Origin, len(pairs)), Notes: sc.notes.List(file)}
+func listingCloud(sc *listingScan, file, format string, pairs []listingPair) *geometry.Cloud {
+	c := &geometry.Cloud{Format: format, Dim: 2, Name: sc.name, Ordered: true,
+		Points: make([]geometry.Vec3, len(pairs)), Origins: make([]geometry.Origin, len(pairs)), Notes: sc.notes.List(file)}
 	for i, q := range pairs {
-		c.Points[i] = Vec3{q.p.X, q.p.Y, 0}
-		c.Origins[i] = Origin{File: file, Line: q.line}
+		c.Points[i] = geometry.Vec3{X: q.p.X, Y: q.p.Y, Z: 0}
+		c.Origins[i] = geometry.Origin{File: file, Line: q.line}
 	}
 	return c
 }
 
-// listingReadLoop reads a loop listing.
-func listingReadLoop(s, file string) (*Cloud, readUnit, error) {
+// readLoop reads a loop listing.
+func readLoop(s, file string) (*geometry.Cloud, statedUnit, error) {
 	sc := listingSplit(s, file, false)
 	if len(sc.rows) == 0 {
-		return nil, readUnit{}, &ParseError{File: file, Err: ErrNoNumbers}
+		return nil, statedUnit{}, &geometry.ParseError{File: file, Err: ErrNoNumbers}
 	}
 	pairs, err := sc.pairs(file, 0)
 	if err != nil {
-		return nil, readUnit{}, err
+		return nil, statedUnit{}, err
 	}
-	return listingCloud(sc, file, FormatLoop, pairs), readUnit{}, nil
+	return listingCloud(sc, file, FormatLoop, pairs), statedUnit{}, nil
 }
 
-// listingReadSurfaces reads a surfaces listing and turns it into one loop.
-func listingReadSurfaces(s, file string) (*Cloud, readUnit, error) {
+// readSurfaces reads a surfaces listing and turns it into one loop.
+func readSurfaces(s, file string) (*geometry.Cloud, statedUnit, error) {
 	sc := listingSplit(s, file, false)
 	if len(sc.rows) == 0 {
-		return nil, readUnit{}, &ParseError{File: file, Err: ErrNoNumbers}
+		return nil, statedUnit{}, &geometry.ParseError{File: file, Err: ErrNoNumbers}
 	}
 	nu, nl, ok := listingCounts(sc.rows[0])
 	if !ok {
-		return nil, readUnit{}, &ParseError{File: file, Line: sc.lines[0],
+		return nil, statedUnit{}, &geometry.ParseError{File: file, Line: sc.lines[0],
 			Err: fmt.Errorf("%w: want the point counts of the upper and lower surface, e.g. \"61. 61.\"", ErrFormat)}
 	}
 	pairs, err := sc.pairs(file, 1)
 	if err != nil {
-		return nil, readUnit{}, err
+		return nil, statedUnit{}, err
 	}
 	switch {
 	case len(pairs) < nu+nl:
-		return nil, readUnit{}, &ParseError{File: file, Line: sc.lines[len(sc.lines)-1],
+		return nil, statedUnit{}, &geometry.ParseError{File: file, Line: sc.lines[len(sc.lines)-1],
 			Err: fmt.Errorf("%w: %d point(s) after the counts line, which promises %d + %d", ErrTruncated, len(pairs), nu, nl)}
 	case len(pairs) > nu+nl:
-		return nil, readUnit{}, &ParseError{File: file, Line: pairs[nu+nl].line,
+		return nil, statedUnit{}, &geometry.ParseError{File: file, Line: pairs[nu+nl].line,
 			Err: fmt.Errorf("%w: more points than the counts line (line %d) promises (%d + %d)", ErrFormat, sc.lines[0], nu, nl)}
 	}
 	sc.notes.Add(file, sc.lines[0], "point counts line", strings.Join(sc.rows[0], " "))
@@ -254,5 +256,5 @@ func listingReadSurfaces(s, file string) (*Cloud, readUnit, error) {
 		lower = lower[1:]
 	}
 	loop = append(loop, lower...)
-	return listingCloud(sc, file, FormatSurfaces, loop), readUnit{}, nil
+	return listingCloud(sc, file, FormatSurfaces, loop), statedUnit{}, nil
 }

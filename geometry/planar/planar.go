@@ -1,26 +1,32 @@
-package geometry
+package planar
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"strconv"
 	"strings"
 
+	"github.com/foilwright/foilwright/geometry"
 	"gonum.org/v1/gonum/mat"
 )
 
-// PlaneSpec is a plane given by a point on it and a normal (any non-zero
-// length), in input units.
-type PlaneSpec struct{ Point, Normal Vec3 }
+// ErrNotPlanar means a 3D point set departs from its plane by more than
+// the tolerance.
+var ErrNotPlanar = errors.New("points are not planar")
 
-// ParsePlane parses a plane written as "z=240" (also "x=-3.5", "y=0": the
+// Spec is a plane given by a point on it and a normal (any non-zero
+// length), in input units.
+type Spec struct{ Point, Normal geometry.Vec3 }
+
+// ParseSpec parses a plane written as "z=240" (also "x=-3.5", "y=0": the
 // plane where that coordinate has that value, normal along the axis) or
 // "px,py,pz:nx,ny,nz" (a point and a normal). Blanks are allowed around the
 // numbers. It returns an error for anything else, for non-finite numbers
 // and for a zero normal.
-func ParsePlane(s string) (PlaneSpec, error) {
-	bad := func(why string) (PlaneSpec, error) {
-		return PlaneSpec{}, fmt.Errorf("geometry: plane %q: %s (want e.g. \"z=240\" or \"0,0,240:0,0,1\")", s, why)
+func ParseSpec(s string) (Spec, error) {
+	bad := func(why string) (Spec, error) {
+		return Spec{}, fmt.Errorf("geometry: plane %q: %s (want e.g. \"z=240\" or \"0,0,240:0,0,1\")", s, why)
 	}
 	t := strings.TrimSpace(s)
 	if axis, val, ok := strings.Cut(t, "="); ok {
@@ -30,11 +36,11 @@ func ParsePlane(s string) (PlaneSpec, error) {
 		}
 		switch strings.ToLower(strings.TrimSpace(axis)) {
 		case "x":
-			return PlaneSpec{Point: Vec3{X: v}, Normal: Vec3{X: 1}}, nil
+			return Spec{Point: geometry.Vec3{X: v}, Normal: geometry.Vec3{X: 1}}, nil
 		case "y":
-			return PlaneSpec{Point: Vec3{Y: v}, Normal: Vec3{Y: 1}}, nil
+			return Spec{Point: geometry.Vec3{Y: v}, Normal: geometry.Vec3{Y: 1}}, nil
 		case "z":
-			return PlaneSpec{Point: Vec3{Z: v}, Normal: Vec3{Z: 1}}, nil
+			return Spec{Point: geometry.Vec3{Z: v}, Normal: geometry.Vec3{Z: 1}}, nil
 		}
 		return bad("the axis must be x, y or z")
 	}
@@ -42,10 +48,10 @@ func ParsePlane(s string) (PlaneSpec, error) {
 	if !ok {
 		return bad("no \"=\" or \":\"")
 	}
-	var p, n Vec3
+	var p, n geometry.Vec3
 	for _, part := range []struct {
 		text string
-		dst  *Vec3
+		dst  *geometry.Vec3
 	}{{ps, &p}, {ns, &n}} {
 		f := strings.Split(part.text, ",")
 		if len(f) != 3 {
@@ -59,31 +65,31 @@ func ParsePlane(s string) (PlaneSpec, error) {
 			}
 			v[i] = x
 		}
-		*part.dst = Vec3{v[0], v[1], v[2]}
+		*part.dst = geometry.Vec3{X: v[0], Y: v[1], Z: v[2]}
 	}
-	if n.Unit() == (Vec3{}) {
+	if n.Unit() == (geometry.Vec3{}) {
 		return bad("the normal is zero")
 	}
-	return PlaneSpec{Point: p, Normal: n}, nil
+	return Spec{Point: p, Normal: n}, nil
 }
 
-// String formats p the way ParsePlane reads it: "z=240" when the normal is
+// String formats p the way ParseSpec reads it: "z=240" when the normal is
 // a unit axis and the point lies on that axis, else "px,py,pz:nx,ny,nz".
-func (p PlaneSpec) String() string {
+func (p Spec) String() string {
 	g := func(x float64) string { return strconv.FormatFloat(x, 'g', -1, 64) }
 	n := p.Normal
 	switch n {
-	case Vec3{X: 1}:
+	case geometry.Vec3{X: 1}:
 		if p.Point.Y != 0 || p.Point.Z != 0 {
 			break
 		}
 		return "x=" + g(p.Point.X)
-	case Vec3{Y: 1}:
+	case geometry.Vec3{Y: 1}:
 		if p.Point.X != 0 || p.Point.Z != 0 {
 			break
 		}
 		return "y=" + g(p.Point.Y)
-	case Vec3{Z: 1}:
+	case geometry.Vec3{Z: 1}:
 		if p.Point.X != 0 || p.Point.Y != 0 {
 			break
 		}
@@ -92,7 +98,7 @@ func (p PlaneSpec) String() string {
 	return fmt.Sprintf("%s,%s,%s:%s,%s,%s", g(p.Point.X), g(p.Point.Y), g(p.Point.Z), g(n.X), g(n.Y), g(n.Z))
 }
 
-// PlaneThrough returns the plane through o with normal n and the in-plane axes
+// Through returns the plane through o with normal n and the in-plane axes
 // foilwright uses for it, chosen to keep the user's own axes:
 //
 //   - k is the global axis n is closest to (largest |n_k|; ties go to x,
@@ -108,12 +114,12 @@ func (p PlaneSpec) String() string {
 // ties and near-ties (as in the normal of a noisy fit) resolved by the axis
 // the plane faces, so that the choice does not flip with the noise. A point
 // p maps to u = (p − O)·U, v = (p − O)·V. It panics if n is zero.
-func PlaneThrough(o, n Vec3) Plane {
+func Through(o, n geometry.Vec3) geometry.Plane {
 	n = n.Unit()
-	if n == (Vec3{}) {
-		panic("geometry: PlaneThrough with a zero normal")
+	if n == (geometry.Vec3{}) {
+		panic("geometry: Through with a zero normal")
 	}
-	axes := [3]Vec3{{X: 1}, {Y: 1}, {Z: 1}}
+	axes := [3]geometry.Vec3{{X: 1}, {Y: 1}, {Z: 1}}
 	comp := [3]float64{math.Abs(n.X), math.Abs(n.Y), math.Abs(n.Z)}
 	k := 0
 	for i := 1; i < 3; i++ {
@@ -128,17 +134,17 @@ func PlaneThrough(o, n Vec3) Plane {
 	if v.Dot(b) < 0 {
 		n, v = n.Scale(-1), v.Scale(-1)
 	}
-	return Plane{Origin: [3]float64{o.X, o.Y, o.Z}, U: [3]float64{u.X, u.Y, u.Z}, V: [3]float64{v.X, v.Y, v.Z}, N: [3]float64{n.X, n.Y, n.Z}}
+	return geometry.Plane{Origin: [3]float64{o.X, o.Y, o.Z}, U: [3]float64{u.X, u.Y, u.Z}, V: [3]float64{v.X, v.Y, v.Z}, N: [3]float64{n.X, n.Y, n.Z}}
 }
 
-// planeVec turns a [3]float64 of a Plane into a Vec3.
-func planeVec(a [3]float64) Vec3 { return Vec3{a[0], a[1], a[2]} }
+// vec turns a [3]float64 of a Plane into a Vec3.
+func vec(a [3]float64) geometry.Vec3 { return geometry.Vec3{X: a[0], Y: a[1], Z: a[2]} }
 
-// planeMap returns the plane coordinates (u, v) of p and its signed
+// mapTo returns the plane coordinates (u, v) of p and its signed
 // distance d from the plane pl.
-func planeMap(pl Plane, p Vec3) (uv Point, d float64) {
-	q := p.Sub(planeVec(pl.Origin))
-	return Point{q.Dot(planeVec(pl.U)), q.Dot(planeVec(pl.V))}, q.Dot(planeVec(pl.N))
+func mapTo(pl geometry.Plane, p geometry.Vec3) (uv geometry.Point, d float64) {
+	q := p.Sub(vec(pl.Origin))
+	return geometry.Point{X: q.Dot(vec(pl.U)), Y: q.Dot(vec(pl.V))}, q.Dot(vec(pl.N))
 }
 
 // FlattenOptions control how Flatten maps a 3D cloud onto a plane.
@@ -148,7 +154,7 @@ type FlattenOptions struct {
 	// the smallest singular value of the centred points (gonum/mat SVD).
 	// The fitted plane's origin is the foot of the perpendicular from the
 	// global origin, so an axis-aligned section keeps its coordinates.
-	Plane *PlaneSpec
+	Plane *Spec
 	// Band, when > 0, keeps only the points within ±Band of the plane (given
 	// or fitted); the others are dropped and noted. 0 keeps all points.
 	Band float64
@@ -169,11 +175,11 @@ const DefaultFlatTolerance = 1e-3
 type Flatness struct {
 	RMS, Max      float64
 	Kept, Outside int
-	Plane         Plane
+	Plane         geometry.Plane
 }
 
 // Flatten maps the 3D cloud c onto a plane and returns a 2D cloud (Dim 2,
-// Z = 0) of plane coordinates (u, v) as PlaneThrough defines them, with the
+// Z = 0) of plane coordinates (u, v) as Through defines them, with the
 // Origins, Segments (renumbered when points are dropped), Ordered flag,
 // name, units and notes of c. A 2D cloud with no plane given is returned as
 // a copy, on the plane z = 0.
@@ -183,26 +189,26 @@ type Flatness struct {
 // than the tolerance from the plane (the Flatness is returned as well);
 // ErrTooFewPoints when a fit has fewer than 3 points or the band keeps
 // none; ErrCollinear when the points fix no plane.
-func Flatten(c *Cloud, opts FlattenOptions) (*Cloud, Flatness, error) {
-	var pl Plane
+func Flatten(c *geometry.Cloud, opts FlattenOptions) (*geometry.Cloud, Flatness, error) {
+	var pl geometry.Plane
 	switch {
 	case opts.Plane != nil:
-		if n := opts.Plane.Normal.Unit(); n == (Vec3{}) || !sliceFinite(n) || !sliceFinite(opts.Plane.Point) {
+		if n := opts.Plane.Normal.Unit(); n == (geometry.Vec3{}) || !n.IsFinite() || !opts.Plane.Point.IsFinite() {
 			return nil, Flatness{}, fmt.Errorf("geometry: flatten: plane %s: normal must be finite and non-zero", *opts.Plane)
 		}
-		pl = PlaneThrough(opts.Plane.Point, opts.Plane.Normal)
+		pl = Through(opts.Plane.Point, opts.Plane.Normal)
 	case c.Dim != 3:
-		pl = PlaneThrough(Vec3{}, Vec3{Z: 1})
+		pl = Through(geometry.Vec3{}, geometry.Vec3{Z: 1})
 	default:
 		var err error
-		if pl, err = planeFit(c.Points); err != nil {
+		if pl, err = fitPlane(c.Points); err != nil {
 			return nil, Flatness{}, err
 		}
 	}
-	out := &Cloud{Dim: 2, Units: c.Units, Format: c.Format, Name: c.Name, Ordered: c.Ordered,
-		Points: make([]Vec3, 0, len(c.Points)), Origins: make([]Origin, 0, len(c.Points))}
+	out := &geometry.Cloud{Dim: 2, Units: c.Units, Format: c.Format, Name: c.Name, Ordered: c.Ordered,
+		Points: make([]geometry.Vec3, 0, len(c.Points)), Origins: make([]geometry.Origin, 0, len(c.Points))}
 	out.Notes = append(out.Notes, c.Notes...)
-	var notes Notes
+	var notes geometry.Notes
 	var fl Flatness
 	fl.Plane = pl
 	segStart := map[int]bool{}
@@ -212,10 +218,10 @@ func Flatten(c *Cloud, opts FlattenOptions) (*Cloud, Flatness, error) {
 	pending := false // a run has started and none of its points is kept yet
 	var sum2 float64
 	worst := -1
-	lo, hi := Point{math.Inf(1), math.Inf(1)}, Point{math.Inf(-1), math.Inf(-1)}
+	lo, hi := geometry.Point{X: math.Inf(1), Y: math.Inf(1)}, geometry.Point{X: math.Inf(-1), Y: math.Inf(-1)}
 	for i, p := range c.Points {
-		uv, d := planeMap(pl, p)
-		var o Origin
+		uv, d := mapTo(pl, p)
+		var o geometry.Origin
 		if i < len(c.Origins) {
 			o = c.Origins[i]
 		}
@@ -231,19 +237,19 @@ func Flatten(c *Cloud, opts FlattenOptions) (*Cloud, Flatness, error) {
 			out.Segments = append(out.Segments, len(out.Points))
 			pending = false
 		}
-		out.Points = append(out.Points, Vec3{uv.X, uv.Y, 0})
+		out.Points = append(out.Points, geometry.Vec3{X: uv.X, Y: uv.Y, Z: 0})
 		out.Origins = append(out.Origins, o)
 		sum2 += d * d
 		if math.Abs(d) > fl.Max || worst < 0 {
 			fl.Max, worst = math.Abs(d), i
 		}
-		lo = Point{math.Min(lo.X, uv.X), math.Min(lo.Y, uv.Y)}
-		hi = Point{math.Max(hi.X, uv.X), math.Max(hi.Y, uv.Y)}
+		lo = geometry.Point{X: math.Min(lo.X, uv.X), Y: math.Min(lo.Y, uv.Y)}
+		hi = geometry.Point{X: math.Max(hi.X, uv.X), Y: math.Max(hi.Y, uv.Y)}
 	}
 	fl.Kept = len(out.Points)
 	kept := notes.Kept()
 	if n := len(kept); n > 0 && notes.Extra() > 0 {
-		kept = append(kept, Note{Reason: fmt.Sprintf("%d more point(s) outside the band not listed", notes.Extra())})
+		kept = append(kept, geometry.Note{Reason: fmt.Sprintf("%d more point(s) outside the band not listed", notes.Extra())})
 	}
 	out.Notes = append(out.Notes, kept...)
 	if len(out.Segments) > 0 && out.Segments[0] != 0 {
@@ -253,7 +259,7 @@ func Flatten(c *Cloud, opts FlattenOptions) (*Cloud, Flatness, error) {
 		out.Segments = nil
 	}
 	if fl.Kept == 0 {
-		return nil, fl, fmt.Errorf("geometry: flatten: %w: no point lies within ±%g of the plane", ErrTooFewPoints, opts.Band)
+		return nil, fl, fmt.Errorf("geometry: flatten: %w: no point lies within ±%g of the plane", geometry.ErrTooFewPoints, opts.Band)
 	}
 	fl.RMS = math.Sqrt(sum2 / float64(fl.Kept))
 	tol := opts.Tolerance
@@ -274,12 +280,12 @@ func Flatten(c *Cloud, opts FlattenOptions) (*Cloud, Flatness, error) {
 	return out, fl, nil
 }
 
-// planeFit returns the least-squares plane through pts (see FlattenOptions).
-func planeFit(pts []Vec3) (Plane, error) {
+// fitPlane returns the least-squares plane through pts (see FlattenOptions).
+func fitPlane(pts []geometry.Vec3) (geometry.Plane, error) {
 	if len(pts) < 3 {
-		return Plane{}, fmt.Errorf("geometry: flatten: %w: %d point(s), a plane needs 3", ErrTooFewPoints, len(pts))
+		return geometry.Plane{}, fmt.Errorf("geometry: flatten: %w: %d point(s), a plane needs 3", geometry.ErrTooFewPoints, len(pts))
 	}
-	var c Vec3
+	var c geometry.Vec3
 	for _, p := range pts {
 		c = c.Add(p)
 	}
@@ -293,14 +299,14 @@ func planeFit(pts []Vec3) (Plane, error) {
 	}
 	var svd mat.SVD
 	if !svd.Factorize(a, mat.SVDThinV) {
-		return Plane{}, fmt.Errorf("geometry: flatten: the plane fit failed to converge")
+		return geometry.Plane{}, fmt.Errorf("geometry: flatten: the plane fit failed to converge")
 	}
 	s := svd.Values(nil)
 	if s[0] == 0 || s[1] <= 1e-12*s[0] {
-		return Plane{}, fmt.Errorf("geometry: flatten: %w: the points fix no plane", ErrCollinear)
+		return geometry.Plane{}, fmt.Errorf("geometry: flatten: %w: the points fix no plane", geometry.ErrCollinear)
 	}
 	var v mat.Dense
 	svd.VTo(&v)
-	n := Vec3{v.At(0, 2), v.At(1, 2), v.At(2, 2)}.Unit()
-	return PlaneThrough(n.Scale(c.Dot(n)), n), nil
+	n := geometry.Vec3{X: v.At(0, 2), Y: v.At(1, 2), Z: v.At(2, 2)}.Unit()
+	return Through(n.Scale(c.Dot(n)), n), nil
 }

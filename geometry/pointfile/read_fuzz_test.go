@@ -1,4 +1,4 @@
-package geometry
+package pointfile
 
 import (
 	"bytes"
@@ -7,13 +7,16 @@ import (
 	"os"
 	"path/filepath"
 	"testing"
+
+	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/planar"
 )
 
 // The seeds include whole fixtures (up to 37 kB); with them the fuzzer
 // spends long stretches minimizing new inputs, so run each target with a
 // short minimize time, e.g.
 //
-//	go test ./geometry -run '^$' -fuzz '^FuzzReadSTL$' -fuzztime=40s -fuzzminimizetime=2s
+//	go test ./geometry/pointfile -run '^$' -fuzz '^FuzzReadSTL$' -fuzztime=40s -fuzzminimizetime=2s
 
 // readFuzzMax skips inputs larger than this: the readers are linear, and
 // big inputs only slow the fuzzer down.
@@ -34,7 +37,7 @@ func readFuzzSeed(f *testing.F, files []string, extra ...string) {
 }
 
 // readFuzzCheck checks the invariants of any cloud a reader returns.
-func readFuzzCheck(t *testing.T, c *Cloud) {
+func readFuzzCheck(t *testing.T, c *geometry.Cloud) {
 	t.Helper()
 	if c.Len() == 0 || len(c.Origins) != c.Len() {
 		t.Fatalf("%d points, %d origins", c.Len(), len(c.Origins))
@@ -43,7 +46,7 @@ func readFuzzCheck(t *testing.T, c *Cloud) {
 		t.Fatalf("dim %d", c.Dim)
 	}
 	for i, p := range c.Points {
-		if !sliceFinite(p) || (c.Dim == 2 && p.Z != 0) {
+		if !p.IsFinite() || (c.Dim == 2 && p.Z != 0) {
 			t.Fatalf("point %d = %v in a %dD cloud", i, p, c.Dim)
 		}
 	}
@@ -57,7 +60,7 @@ func readFuzzCheck(t *testing.T, c *Cloud) {
 			}
 		}
 	}
-	if len(c.Notes) > MaxNotes+16 {
+	if len(c.Notes) > geometry.MaxNotes+16 {
 		t.Fatalf("%d notes", len(c.Notes))
 	}
 }
@@ -65,7 +68,7 @@ func readFuzzCheck(t *testing.T, c *Cloud) {
 // readFuzzParseError checks that a reader error is a *ParseError for file.
 func readFuzzParseError(t *testing.T, err error, file string) {
 	t.Helper()
-	var pe *ParseError
+	var pe *geometry.ParseError
 	if !errors.As(err, &pe) || pe.File != file || pe.Err == nil || pe.Line < 0 {
 		t.Fatalf("error %v is not a *ParseError for %s", err, file)
 	}
@@ -82,7 +85,7 @@ func FuzzReadDelimited(f *testing.F) {
 		if len(data) > readFuzzMax {
 			t.Skip()
 		}
-		c, err := Read(bytes.NewReader(data), "fuzz", ReadOptions{Format: FormatDelimited})
+		c, err := Read(bytes.NewReader(data), "fuzz", Options{Format: FormatDelimited})
 		if err != nil {
 			readFuzzParseError(t, err, "fuzz")
 			return
@@ -92,7 +95,7 @@ func FuzzReadDelimited(f *testing.F) {
 		if err := WriteCSV(&buf, readTestPlanar(c), c.Origins); err != nil {
 			t.Fatal(err)
 		}
-		back, err := Read(bytes.NewReader(buf.Bytes()), "back", ReadOptions{Columns: "x,y"})
+		back, err := Read(bytes.NewReader(buf.Bytes()), "back", Options{Columns: "x,y"})
 		if err != nil {
 			t.Fatalf("re-reading the written points: %v\n%s", err, buf.String())
 		}
@@ -112,13 +115,13 @@ func FuzzReadDelimited(f *testing.F) {
 func FuzzReadListing(f *testing.F) {
 	readFuzzSeed(f, []string{"naca2412-loop.dat", "naca2412-surfaces.dat", "invalid-no-numbers.txt"},
 		"N\n1 0\n0 0.1\n0 0\n0 -0.1\n1 0\n", "N\n2. 2.\n0 0\n1 1\n0 0\n1 -1\n", "N\n1. 1.\n0 0\n\n0 0\n")
-	cut := &PlaneSpec{Normal: Vec3{Z: 1}}
+	cut := &planar.Spec{Normal: geometry.Vec3{Z: 1}}
 	f.Fuzz(func(t *testing.T, data []byte) {
 		if len(data) > readFuzzMax {
 			t.Skip()
 		}
 		for _, format := range []string{"", FormatLoop, FormatSurfaces} {
-			c, err := Read(bytes.NewReader(data), "fuzz", ReadOptions{Format: format, Cut: cut})
+			c, err := Read(bytes.NewReader(data), "fuzz", Options{Format: format, Cut: cut})
 			if err != nil {
 				if format != "" {
 					readFuzzParseError(t, err, "fuzz")
@@ -137,14 +140,14 @@ func FuzzReadListing(f *testing.F) {
 func FuzzReadDXF(f *testing.F) {
 	readFuzzSeed(f, []string{"naca2412-lwpolyline.dxf", "naca2412-lines.dxf", "naca2412-polyline.dxf",
 		"naca2412-spline.dxf", "invalid-no-entities.dxf"},
-		readTestDXF(dxfTestLine(Point{0, 0}, Point{1, 0})+dxfTestLine(Point{1, 0}, Point{0, 0})),
-		readTestDXF(dxfTestLW([]Point{{1, 2}, {3, 4}, {1, 2}}, 1, "210\n0\n220\n0.5\n230\n-1\n")),
+		readTestDXF(dxfTestLine(geometry.Point{X: 0, Y: 0}, geometry.Point{X: 1, Y: 0})+dxfTestLine(geometry.Point{X: 1, Y: 0}, geometry.Point{X: 0, Y: 0})),
+		readTestDXF(dxfTestLW([]geometry.Point{{X: 1, Y: 2}, {X: 3, Y: 4}, {X: 1, Y: 2}}, 1, "210\n0\n220\n0.5\n230\n-1\n")),
 		readTestDXF("  0\nPOINT\n 10\n1\n 20\n2\n  0\nPOLYLINE\n 70\n64\n  0\nVERTEX\n 10\n1\n  0\nSEQEND\n"))
 	f.Fuzz(func(t *testing.T, data []byte) {
 		if len(data) > readFuzzMax {
 			t.Skip()
 		}
-		c, err := Read(bytes.NewReader(data), "fuzz", ReadOptions{Format: FormatDXF})
+		c, err := Read(bytes.NewReader(data), "fuzz", Options{Format: FormatDXF})
 		if err != nil {
 			readFuzzParseError(t, err, "fuzz")
 			return
@@ -182,17 +185,17 @@ func FuzzReadSTL(f *testing.F) {
 		if len(m.Vertices) == 0 {
 			return
 		}
-		var mid Vec3
+		var mid geometry.Vec3
 		for _, v := range m.Vertices {
 			mid = mid.Add(v.Scale(1 / float64(len(m.Vertices))))
 		}
-		for _, cut := range []PlaneSpec{{mid, Vec3{0.3, -0.2, 1}}, {m.Vertices[0], Vec3{0, 0, 1}}} {
-			if !sliceFinite(cut.Point) {
+		for _, cut := range []planar.Spec{{Point: mid, Normal: geometry.Vec3{X: 0.3, Y: -0.2, Z: 1}}, {Point: m.Vertices[0], Normal: geometry.Vec3{X: 0, Y: 0, Z: 1}}} {
+			if !cut.Point.IsFinite() {
 				continue
 			}
 			c, err := m.Slice(cut)
 			if err != nil {
-				if !errors.Is(err, ErrNoLoop) {
+				if !errors.Is(err, geometry.ErrNoLoop) {
 					t.Fatalf("cut %v: %v", cut, err)
 				}
 				continue

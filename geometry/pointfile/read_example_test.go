@@ -1,17 +1,18 @@
-package geometry_test
+package pointfile_test
 
 import (
 	"fmt"
 	"strings"
 
-	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/planar"
+	"github.com/foilwright/foilwright/geometry/pointfile"
 )
 
 // A semicolon-separated export with a decimal comma, a unit comment and a
 // header naming the columns.
 func ExampleRead() {
 	in := "# units: mm\nt;x;y\n0;150,0;0,19\n1;75,2;9,8\n2;0;0\n"
-	c, err := geometry.Read(strings.NewReader(in), "export.csv", geometry.ReadOptions{Columns: "x,y"})
+	c, err := pointfile.Read(strings.NewReader(in), "export.csv", pointfile.Options{Columns: "x,y"})
 	if err != nil {
 		fmt.Println(err)
 		return
@@ -30,7 +31,7 @@ func ExampleRead() {
 
 // Bad input names the file, the line and the reason.
 func ExampleRead_error() {
-	_, err := geometry.Read(strings.NewReader("x y\n1.5 2.5\n3.5\n"), "probe.txt", geometry.ReadOptions{})
+	_, err := pointfile.Read(strings.NewReader("x y\n1.5 2.5\n3.5\n"), "probe.txt", pointfile.Options{})
 	fmt.Println(err)
 	// Output:
 	// probe.txt:3: wrong number of columns: 1 coordinate(s), want 2
@@ -40,9 +41,9 @@ func ExampleRead_error() {
 // x and y kept.
 func ExampleFlatten() {
 	in := "x,y,z\n150,0.19,240.02\n75.2,9.8,239.99\n0,0,240.01\n75.2,-5.1,239.98\n"
-	c, _ := geometry.Read(strings.NewReader(in), "probe.csv", geometry.ReadOptions{})
-	cut, _ := geometry.ParsePlane("z=240")
-	flat, fl, err := geometry.Flatten(c, geometry.FlattenOptions{Plane: &cut, Band: 0.1})
+	c, _ := pointfile.Read(strings.NewReader(in), "probe.csv", pointfile.Options{})
+	cut, _ := planar.ParseSpec("z=240")
+	flat, fl, err := planar.Flatten(c, planar.FlattenOptions{Plane: &cut, Band: 0.1})
 	if err != nil {
 		fmt.Println(err)
 		return

@@ -1,4 +1,4 @@
-package geometry
+package pointfile
 
 import (
 	"bytes"
@@ -6,6 +6,9 @@ import (
 	"math"
 	"strings"
 	"testing"
+
+	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/planar"
 )
 
 // sliceTol is "floating-point accuracy" for the cut of a 150 mm section:
@@ -14,7 +17,7 @@ import (
 const sliceTol = 1e-12 * readTestChord
 
 // sliceTestNearest returns the distance from p to the nearest of pts.
-func sliceTestNearest(p Point, pts []Point) float64 {
+func sliceTestNearest(p geometry.Point, pts []geometry.Point) float64 {
 	d := math.Inf(1)
 	for _, q := range pts {
 		d = math.Min(d, p.Dist(q))
@@ -31,7 +34,7 @@ func sliceTestNearest(p Point, pts []Point) float64 {
 // sweep, with the midpoints of its sides between.
 func TestSliceExtrudedMidSpan(t *testing.T) {
 	ring := readTestWingRing()
-	sweep := Vec3{20, 5, 300} // invented: the far end is 20 mm aft, 5 mm up
+	sweep := geometry.Vec3{X: 20, Y: 5, Z: 300} // invented: the far end is 20 mm aft, 5 mm up
 	facets := readTestExtrude(ring, sweep)
 	for _, tc := range []struct {
 		name  string
@@ -45,21 +48,21 @@ func TestSliceExtrudedMidSpan(t *testing.T) {
 		t.Run(tc.name, func(t *testing.T) {
 			// The far-end ring as the file holds it (the near ring is
 			// exact in both).
-			far := make([]Point, len(ring))
+			far := make([]geometry.Point, len(ring))
 			for i, p := range ring {
-				far[i] = Point{tc.round(p.X + sweep.X), tc.round(p.Y + sweep.Y)}
+				far[i] = geometry.Point{X: tc.round(p.X + sweep.X), Y: tc.round(p.Y + sweep.Y)}
 			}
-			var want, mids []Point
+			var want, mids []geometry.Point
 			for i, p := range ring {
 				j := (i + 1) % len(ring)
 				want = append(want, p.Add(far[i]).Scale(0.5))
 				mids = append(mids, p.Add(far[j]).Scale(0.5))
 			}
-			cut, err := ParsePlane("z=150")
+			cut, err := planar.ParseSpec("z=150")
 			if err != nil {
 				t.Fatal(err)
 			}
-			c, err := Read(bytes.NewReader(tc.data), "wing.stl", ReadOptions{Cut: &cut})
+			c, err := Read(bytes.NewReader(tc.data), "wing.stl", Options{Cut: &cut})
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -67,12 +70,12 @@ func TestSliceExtrudedMidSpan(t *testing.T) {
 				t.Fatalf("format %q dim %d ordered %v segments %v, %d points; want stl 3 true nil %d",
 					c.Format, c.Dim, c.Ordered, c.Segments, c.Len(), 2*len(ring))
 			}
-			got := make([]Point, c.Len())
+			got := make([]geometry.Point, c.Len())
 			for i, p := range c.Points {
 				if math.Abs(p.Z-150) > sliceTol {
 					t.Fatalf("point %d at z = %.17g, want 150", i, p.Z)
 				}
-				got[i] = Point{p.X, p.Y}
+				got[i] = geometry.Point{X: p.X, Y: p.Y}
 				o := c.Origins[i]
 				if o.Entity < 1 || o.Entity > len(facets) || (o.Line > 0) != tc.line {
 					t.Fatalf("origin %d = %+v", i, o)
@@ -107,17 +110,17 @@ func TestSliceExtrudedMidSpan(t *testing.T) {
 // once.
 func TestSliceThroughVertices(t *testing.T) {
 	ring := readTestWingRing()
-	lower := readTestExtrude(ring, Vec3{0, 0, 150})
-	var facets [][3]Vec3
+	lower := readTestExtrude(ring, geometry.Vec3{X: 0, Y: 0, Z: 150})
+	var facets [][3]geometry.Vec3
 	for _, f := range lower {
 		facets = append(facets, f)
-		facets = append(facets, [3]Vec3{f[0].Add(Vec3{Z: 150}), f[1].Add(Vec3{Z: 150}), f[2].Add(Vec3{Z: 150})})
+		facets = append(facets, [3]geometry.Vec3{f[0].Add(geometry.Vec3{Z: 150}), f[1].Add(geometry.Vec3{Z: 150}), f[2].Add(geometry.Vec3{Z: 150})})
 	}
 	m, err := ReadSTL(bytes.NewReader(readTestSTLBinary(facets)), "two.stl")
 	if err != nil {
 		t.Fatal(err)
 	}
-	c, err := m.Slice(PlaneSpec{Point: Vec3{Z: 150}, Normal: Vec3{Z: 1}})
+	c, err := m.Slice(planar.Spec{Point: geometry.Vec3{Z: 150}, Normal: geometry.Vec3{Z: 1}})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -125,7 +128,7 @@ func TestSliceThroughVertices(t *testing.T) {
 		t.Fatalf("%d points in runs %v, want the %d ring points in one run", c.Len(), c.Segments, len(ring))
 	}
 	for i, p := range c.Points {
-		if d := sliceTestNearest(Point{p.X, p.Y}, ring); d != 0 || p.Z != 150 {
+		if d := sliceTestNearest(geometry.Point{X: p.X, Y: p.Y}, ring); d != 0 || p.Z != 150 {
 			t.Errorf("point %d = %v is not a ring vertex", i, p)
 		}
 	}
@@ -133,13 +136,13 @@ func TestSliceThroughVertices(t *testing.T) {
 
 func TestSliceLoopsAndHoles(t *testing.T) {
 	ring := readTestWingRing()
-	a := readTestExtrude(ring, Vec3{0, 0, 300})
-	var shifted []Point
+	a := readTestExtrude(ring, geometry.Vec3{X: 0, Y: 0, Z: 300})
+	var shifted []geometry.Point
 	for _, p := range ring {
-		shifted = append(shifted, p.Add(Point{400, 0}))
+		shifted = append(shifted, p.Add(geometry.Point{X: 400, Y: 0}))
 	}
-	b := readTestExtrude(shifted, Vec3{0, 0, 300})
-	cut := PlaneSpec{Point: Vec3{Z: 100}, Normal: Vec3{Z: 2}}
+	b := readTestExtrude(shifted, geometry.Vec3{X: 0, Y: 0, Z: 300})
+	cut := planar.Spec{Point: geometry.Vec3{Z: 100}, Normal: geometry.Vec3{Z: 2}}
 
 	m, err := ReadSTL(bytes.NewReader(readTestSTLBinary(append(a, b...))), "two.stl")
 	if err != nil {
@@ -154,7 +157,7 @@ func TestSliceLoopsAndHoles(t *testing.T) {
 	}
 
 	// Drop the two facets of one side quad: the cut becomes an open chain.
-	holed := append(append([][3]Vec3{}, a[:4]...), a[6:]...)
+	holed := append(append([][3]geometry.Vec3{}, a[:4]...), a[6:]...)
 	m, err = ReadSTL(bytes.NewReader(readTestSTLBinary(holed)), "holed.stl")
 	if err != nil {
 		t.Fatal(err)
@@ -167,48 +170,48 @@ func TestSliceLoopsAndHoles(t *testing.T) {
 		t.Errorf("%d points, notes %+v; want %d and an open-chain note", c.Len(), c.Notes, 2*len(ring)-1)
 	}
 
-	if _, err := m.Slice(PlaneSpec{Point: Vec3{Z: 400}, Normal: Vec3{Z: 1}}); !errors.Is(err, ErrNoLoop) {
+	if _, err := m.Slice(planar.Spec{Point: geometry.Vec3{Z: 400}, Normal: geometry.Vec3{Z: 1}}); !errors.Is(err, geometry.ErrNoLoop) {
 		t.Errorf("plane beyond the mesh: error %v, want ErrNoLoop", err)
 	}
-	if _, err := m.Slice(PlaneSpec{Point: Vec3{Z: 1}}); err == nil {
+	if _, err := m.Slice(planar.Spec{Point: geometry.Vec3{Z: 1}}); err == nil {
 		t.Error("zero normal: no error")
 	}
 }
 
 func TestReadSTLBad(t *testing.T) {
-	facets := readTestExtrude(readTestWingRing(), Vec3{0, 0, 300})
+	facets := readTestExtrude(readTestWingRing(), geometry.Vec3{X: 0, Y: 0, Z: 300})
 	bin := readTestSTLBinary(facets)
 	ascii := readTestSTLASCII(facets)
 	nanBin := append([]byte{}, bin...)
 	copy(nanBin[84+12:], []byte{0, 0, 0xc0, 0x7f}) // a float32 NaN as the first vertex x
-	cut := &PlaneSpec{Point: Vec3{Z: 150}, Normal: Vec3{Z: 1}}
+	cut := &planar.Spec{Point: geometry.Vec3{Z: 150}, Normal: geometry.Vec3{Z: 1}}
 	for _, tc := range []struct {
 		name string
 		data []byte
-		opts ReadOptions
+		opts Options
 		want error
 		line int
 	}{
-		{"short binary", []byte("\x00\x01\x02 not a mesh"), ReadOptions{Cut: cut}, ErrTruncated, 0},
-		{"truncated binary", bin[:len(bin)-120], ReadOptions{Cut: cut}, ErrTruncated, 0},
-		{"binary not STL", readTestFixtures()["invalid-not-stl.bin"], ReadOptions{Cut: cut}, ErrNotSTL, 0},
-		{"binary NaN", nanBin, ReadOptions{Cut: cut}, ErrNonFinite, 0},
-		{"text not STL", []byte("1 2 3\n"), ReadOptions{Format: "stl", Cut: cut}, ErrNotSTL, 0},
-		{"ASCII cut off", []byte(strings.Join(strings.SplitAfter(ascii, "\n")[:8], "")), ReadOptions{Cut: cut}, ErrTruncated, 8},
-		{"ASCII bad vertex", []byte("solid s\nfacet normal 0 0 1\nouter loop\nvertex 0 0 0\nvertex 1 x 0\n"), ReadOptions{Cut: cut}, ErrNotNumeric, 5},
-		{"ASCII NaN", []byte("solid s\nfacet normal 0 0 1\nouter loop\nvertex 0 0 NaN\n"), ReadOptions{Cut: cut}, ErrNonFinite, 4},
-		{"ASCII two coordinates", []byte("solid s\nfacet normal 0 0 1\nouter loop\nvertex 0 0\n"), ReadOptions{Cut: cut}, ErrColumnCount, 4},
-		{"ASCII stray keyword", []byte("solid s\nfacet normal 0 0 1\nvertex 0 0 0\n"), ReadOptions{Cut: cut}, ErrFormat, 3},
+		{"short binary", []byte("\x00\x01\x02 not a mesh"), Options{Cut: cut}, ErrTruncated, 0},
+		{"truncated binary", bin[:len(bin)-120], Options{Cut: cut}, ErrTruncated, 0},
+		{"binary not STL", readTestFixtures()["invalid-not-stl.bin"], Options{Cut: cut}, ErrNotSTL, 0},
+		{"binary NaN", nanBin, Options{Cut: cut}, geometry.ErrNonFinite, 0},
+		{"text not STL", []byte("1 2 3\n"), Options{Format: "stl", Cut: cut}, ErrNotSTL, 0},
+		{"ASCII cut off", []byte(strings.Join(strings.SplitAfter(ascii, "\n")[:8], "")), Options{Cut: cut}, ErrTruncated, 8},
+		{"ASCII bad vertex", []byte("solid s\nfacet normal 0 0 1\nouter loop\nvertex 0 0 0\nvertex 1 x 0\n"), Options{Cut: cut}, ErrNotNumeric, 5},
+		{"ASCII NaN", []byte("solid s\nfacet normal 0 0 1\nouter loop\nvertex 0 0 NaN\n"), Options{Cut: cut}, geometry.ErrNonFinite, 4},
+		{"ASCII two coordinates", []byte("solid s\nfacet normal 0 0 1\nouter loop\nvertex 0 0\n"), Options{Cut: cut}, ErrColumnCount, 4},
+		{"ASCII stray keyword", []byte("solid s\nfacet normal 0 0 1\nvertex 0 0 0\n"), Options{Cut: cut}, ErrFormat, 3},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			_, err := Read(bytes.NewReader(tc.data), "m.stl", tc.opts)
-			var pe *ParseError
+			var pe *geometry.ParseError
 			if !errors.Is(err, tc.want) || !errors.As(err, &pe) || pe.File != "m.stl" || pe.Line != tc.line {
 				t.Errorf("error %v, want %v at line %d", err, tc.want, tc.line)
 			}
 		})
 	}
-	if _, err := Read(bytes.NewReader(bin), "m.stl", ReadOptions{}); err == nil || !strings.Contains(err.Error(), "cut plane") {
+	if _, err := Read(bytes.NewReader(bin), "m.stl", Options{}); err == nil || !strings.Contains(err.Error(), "cut plane") {
 		t.Errorf("STL without a cut: error %v, want one asking for the cut plane", err)
 	}
 	// Trailing bytes after the last facet are noted, not fatal.
@@ -221,7 +224,7 @@ func TestReadSTLBad(t *testing.T) {
 // TestReadSTLWelds checks that the vertices shared by facets are welded.
 func TestReadSTLWelds(t *testing.T) {
 	ring := readTestWingRing()
-	facets := readTestExtrude(ring, Vec3{0, 0, 300})
+	facets := readTestExtrude(ring, geometry.Vec3{X: 0, Y: 0, Z: 300})
 	for _, data := range [][]byte{readTestSTLBinary(facets), []byte(readTestSTLASCII(facets))} {
 		m, err := ReadSTL(bytes.NewReader(data), "w.stl")
 		if err != nil {
@@ -238,18 +241,18 @@ func TestReadSTLWelds(t *testing.T) {
 func TestSliceTouching(t *testing.T) {
 	// Octahedron with its equator vertices on z = 0: the cut is exactly
 	// those four vertices, each once.
-	eq := []Vec3{{1, 0, 0}, {0, 1, 0}, {-1, 0, 0}, {0, -1, 0}}
-	top, bot := Vec3{0, 0, 1}, Vec3{0, 0, -1}
-	var octa [][3]Vec3
+	eq := []geometry.Vec3{{X: 1, Y: 0, Z: 0}, {X: 0, Y: 1, Z: 0}, {X: -1, Y: 0, Z: 0}, {X: 0, Y: -1, Z: 0}}
+	top, bot := geometry.Vec3{X: 0, Y: 0, Z: 1}, geometry.Vec3{X: 0, Y: 0, Z: -1}
+	var octa [][3]geometry.Vec3
 	for i := range eq {
 		j := (i + 1) % len(eq)
-		octa = append(octa, [3]Vec3{eq[i], eq[j], top}, [3]Vec3{eq[j], eq[i], bot})
+		octa = append(octa, [3]geometry.Vec3{eq[i], eq[j], top}, [3]geometry.Vec3{eq[j], eq[i], bot})
 	}
 	m, err := ReadSTL(strings.NewReader(readTestSTLASCII(octa)), "octa.stl")
 	if err != nil {
 		t.Fatal(err)
 	}
-	c, err := m.Slice(PlaneSpec{Normal: Vec3{Z: 1}})
+	c, err := m.Slice(planar.Spec{Normal: geometry.Vec3{Z: 1}})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -267,8 +270,8 @@ func TestSliceTouching(t *testing.T) {
 	}
 	// Planes touching the solid only at an apex: the perturbed cut is a
 	// loop of one repeated point, which is no loop.
-	for _, cut := range []PlaneSpec{{Point: top, Normal: Vec3{Z: 1}}, {Point: bot, Normal: Vec3{Z: -1}}} {
-		if c, err := m.Slice(cut); !errors.Is(err, ErrNoLoop) {
+	for _, cut := range []planar.Spec{{Point: top, Normal: geometry.Vec3{Z: 1}}, {Point: bot, Normal: geometry.Vec3{Z: -1}}} {
+		if c, err := m.Slice(cut); !errors.Is(err, geometry.ErrNoLoop) {
 			t.Errorf("plane %v touching the apex: %v, %v; want ErrNoLoop", cut, c, err)
 		}
 	}

@@ -1,0 +1,27 @@
+// Package enum words the lists of allowed names (input formats, spacing
+// laws, trailing-edge treatments, units) for messages and help texts, so
+// that each list is written once, by the package that owns it.
+package enum
+
+import "strings"
+
+// Or joins names the way messages give a choice: "a", "a or b",
+// "a, b or c".
+func Or(names ...string) string {
+	switch len(names) {
+	case 0:
+		return ""
+	case 1:
+		return names[0]
+	}
+	return strings.Join(names[:len(names)-1], ", ") + " or " + names[len(names)-1]
+}
+
+// Strings converts a list of string-like names to plain strings.
+func Strings[S ~string](names []S) []string {
+	out := make([]string, len(names))
+	for i, n := range names {
+		out[i] = string(n)
+	}
+	return out
+}
