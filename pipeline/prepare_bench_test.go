@@ -8,6 +8,7 @@ import (
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/shape"
 )
 
 // scanCSV returns an invented scan of a NACA 2412 section (NACA Report 824
@@ -16,7 +17,7 @@ import (
 // delimited text in millimetres.
 func scanCSV(n int) []byte {
 	rng := rand.New(rand.NewPCG(2412, uint64(n)))
-	foil := geometry.NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12}
+	foil := shape.NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12}
 	dense := foil.Nodes(20000)
 	arc := make([]float64, len(dense))
 	for i := 1; i < len(dense); i++ {

@@ -6,8 +6,8 @@ import (
 	"image/png"
 	"log"
 
-	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/section"
+	"github.com/foilwright/foilwright/geometry/shape"
 	"github.com/foilwright/foilwright/plot"
 )
 
@@ -16,7 +16,7 @@ import (
 func ExampleSectionPlot() {
 	s := &section.Section{
 		Name:       "NACA 0012",
-		Nodes:      geometry.NACA4{Thickness: 0.12}.Loop(60),
+		Nodes:      shape.NACA4{Thickness: 0.12}.Loop(60),
 		Properties: &section.Properties{LERadius: 1.1019 * 0.12 * 0.12},
 	}
 	f, err := plot.SectionPlot(plot.SectionFrom(s))

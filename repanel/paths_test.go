@@ -5,6 +5,7 @@ import (
 	"sort"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/shape"
 )
 
 // plate is a flat plate of unit chord as a degenerate closed loop: the upper
@@ -89,7 +90,7 @@ func (p *polyline) Curvature(s float64) float64 {
 // 4001 points, and the arc length of its leading edge.
 func naca0012() (*polyline, float64) {
 	const per = 2000
-	n := geometry.NACA4{Thickness: 0.12, SharpTE: true}
+	n := shape.NACA4{Thickness: 0.12, SharpTE: true}
 	p := newPolyline(n.Loop(per))
 	return p, p.cum[per]
 }

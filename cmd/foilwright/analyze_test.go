@@ -9,8 +9,8 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/section"
+	"github.com/foilwright/foilwright/geometry/shape"
 	"github.com/foilwright/foilwright/plugins/builtin"
 	"github.com/foilwright/foilwright/plugins/host"
 	"github.com/foilwright/foilwright/plugins/stage"
@@ -40,7 +40,7 @@ func run(t *testing.T, stdin string, args ...string) (int, string, string) {
 // equations, geometry.NACA4) with 2·perSurface cosine-spaced panels.
 func writeSection(t *testing.T, dir, code string, perSurface int) string {
 	t.Helper()
-	n, err := geometry.ParseNACA4(code)
+	n, err := shape.ParseNACA4(code)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -14,6 +14,7 @@ import (
 	"github.com/foilwright/foilwright/geometry/pointfile"
 	"github.com/foilwright/foilwright/geometry/props"
 	"github.com/foilwright/foilwright/geometry/section"
+	"github.com/foilwright/foilwright/geometry/shape"
 	"github.com/foilwright/foilwright/plot"
 	"github.com/foilwright/foilwright/repanel"
 )
@@ -54,7 +55,7 @@ uses the variant that closes it.`,
 		Example: "  foilwright shape naca4 2412 --panels 160 -o naca2412.json\n  foilwright shape naca4 0012 --sharp --nodes naca0012.dat",
 		Args:    cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
-			foil, err := geometry.ParseNACA4(args[0])
+			foil, err := shape.ParseNACA4(args[0])
 			if err != nil {
 				return badInput(err)
 			}
@@ -107,7 +108,7 @@ spaced in the circle angle, which clusters them at both edges.`,
 			if err := checkPanels(opts.panels); err != nil {
 				return err
 			}
-			kt := geometry.KarmanTrefftz{Centre: c, TEAngle: teAngle * math.Pi / 180}
+			kt := shape.KarmanTrefftz{Centre: c, TEAngle: teAngle * math.Pi / 180}
 			nodes, err := kt.Normalized(opts.panels)
 			if err != nil {
 				return badInput(err)

@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/shape"
 )
 
 // cleanBenchCloud returns a scan-like shuffled cloud of about n points from
@@ -17,7 +18,7 @@ import (
 // n = 2e4 on, as in a dense hand-held scan: Clean then orders a band.
 func cleanBenchCloud(n int, band bool) *geometry.Cloud {
 	count := n * 100 / 103
-	loop := cleanTestSample(geometry.NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12}, cleanChord, cleanRot, cleanOff, count)
+	loop := cleanTestSample(shape.NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12}, cleanChord, cleanRot, cleanOff, count)
 	noise := 0.1 * loop[0].Dist(loop[1])
 	if band {
 		noise = cleanNoise

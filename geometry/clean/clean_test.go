@@ -10,6 +10,7 @@ import (
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/shape"
 )
 
 // cleanTestSample returns count points spaced evenly by arc length around
@@ -20,7 +21,7 @@ import (
 // Arc-length spacing is chosen over cosine spacing because it is the hard
 // case for ordering: near the trailing edge the upper and lower surfaces
 // are closer to each other than neighbouring points along a surface.
-func cleanTestSample(n geometry.NACA4, chord, rot float64, off geometry.Point, count int) []geometry.Point {
+func cleanTestSample(n shape.NACA4, chord, rot float64, off geometry.Point, count int) []geometry.Point {
 	dense := n.Loop(4000)
 	if dense[0].Dist(dense[len(dense)-1]) < 1e-15 {
 		dense = dense[:len(dense)-1]
@@ -216,7 +217,7 @@ const (
 var cleanOff = geometry.Point{X: 250, Y: -40}
 
 // cleanTE returns the trailing-edge midpoint of n in the test frame.
-func cleanTE(n geometry.NACA4) geometry.Point {
+func cleanTE(n shape.NACA4) geometry.Point {
 	m := n.Upper(1).Add(n.Lower(1)).Scale(0.5)
 	return m.Scale(cleanChord).Rotate(cleanRot).Add(cleanOff)
 }
@@ -237,7 +238,7 @@ func TestCleanScan(t *testing.T) {
 	} {
 		name := fmt.Sprintf("%s/sharp=%v/seed=%d", tc.code, tc.sharp, tc.seed)
 		t.Run(name, func(t *testing.T) {
-			n, err := geometry.ParseNACA4(tc.code)
+			n, err := shape.ParseNACA4(tc.code)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -297,7 +298,7 @@ func TestCleanKeepsCleanInput(t *testing.T) {
 		{"0012", true, 0.0005, true},
 	} {
 		t.Run(fmt.Sprintf("%s/sharp=%v/noise=%g/cosine=%v", tc.code, tc.sharp, tc.noise, tc.cosine), func(t *testing.T) {
-			n, err := geometry.ParseNACA4(tc.code)
+			n, err := shape.ParseNACA4(tc.code)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -338,7 +339,7 @@ func TestCleanKeepsCleanInput(t *testing.T) {
 // the NACA Report 824 equations via NACA4.Loop) keeps its own order; the
 // same points flagged ordered but shuffled are reordered, and say why.
 func TestCleanOrderedInput(t *testing.T) {
-	n, err := geometry.ParseNACA4("2412")
+	n, err := shape.ParseNACA4("2412")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -455,9 +456,9 @@ func TestCleanOrderedInput(t *testing.T) {
 // the chord (NACA Report 824 equations via NACA4), as one shuffled cloud.
 // The outer loop is picked by default, the inner one with Loop: 1.
 func TestCleanTwoLoops(t *testing.T) {
-	outer := cleanTestSample(geometry.NACA4{Thickness: 0.12}, cleanChord, cleanRot, cleanOff, cleanCount)
+	outer := cleanTestSample(shape.NACA4{Thickness: 0.12}, cleanChord, cleanRot, cleanOff, cleanCount)
 	inOff := geometry.Point{X: 0.1 * cleanChord, Y: 0}.Rotate(cleanRot).Add(cleanOff)
-	inner := cleanTestSample(geometry.NACA4{Thickness: 0.08, SharpTE: true}, 0.6*cleanChord, cleanRot, inOff, 250)
+	inner := cleanTestSample(shape.NACA4{Thickness: 0.08, SharpTE: true}, 0.6*cleanChord, cleanRot, inOff, 250)
 	rng := rand.New(rand.NewPCG(11, 11))
 	c, es := cleanTestCloud(rng, [][]geometry.Point{outer, inner}, cleanNoise, 0.01, 0.02)
 	for _, tc := range []struct {
@@ -489,7 +490,7 @@ func TestCleanTwoLoops(t *testing.T) {
 // Exact and near duplicates merge into the first (lowest) input line, and
 // points just beyond the tolerance stay.
 func TestCleanMerge(t *testing.T) {
-	loop := cleanTestSample(geometry.NACA4{Thickness: 0.12}, 100, 0, geometry.Point{}, 100)
+	loop := cleanTestSample(shape.NACA4{Thickness: 0.12}, 100, 0, geometry.Point{}, 100)
 	var pts []geometry.Point
 	pts = append(pts, loop...)
 	pts = append(pts, loop[10], loop[20].Add(geometry.Point{X: 0.0005, Y: 0}), loop[30].Add(geometry.Point{X: 0, Y: 0.002}))
@@ -547,7 +548,7 @@ func TestCleanErrors(t *testing.T) {
 		{"five distinct", dup, Options{}, geometry.ErrTooFewPoints, "5 distinct"},
 		{"collinear", line, Options{}, geometry.ErrCollinear, "30 points lie within"},
 		{"open arc", arc, Options{}, geometry.ErrNoLoop, "open chain"},
-		{"loop beyond", cleanTestSample(geometry.NACA4{Thickness: 0.12}, 1, 0, geometry.Point{}, 50), Options{Loop: 1}, geometry.ErrNoLoop, "loop 1 asked for, 1 loop(s) found"},
+		{"loop beyond", cleanTestSample(shape.NACA4{Thickness: 0.12}, 1, 0, geometry.Point{}, 50), Options{Loop: 1}, geometry.ErrNoLoop, "loop 1 asked for, 1 loop(s) found"},
 		{"NaN", nan, Options{}, geometry.ErrNonFinite, "e.csv:4"},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
@@ -567,7 +568,7 @@ func TestCleanErrors(t *testing.T) {
 // Points far from the section, near only each other (a stray scan of the
 // fixture), are dropped as "stray"; the section is unaffected.
 func TestCleanStray(t *testing.T) {
-	n := geometry.NACA4{Thickness: 0.12}
+	n := shape.NACA4{Thickness: 0.12}
 	loop := cleanTestSample(n, cleanChord, cleanRot, cleanOff, cleanCount)
 	rng := rand.New(rand.NewPCG(21, 21))
 	c, _ := cleanTestCloud(rng, [][]geometry.Point{loop}, cleanNoise, 0, 0)
@@ -608,7 +609,7 @@ func FuzzClean(f *testing.F) {
 				pts = append(pts, geometry.Point{X: rng.Float64(), Y: rng.Float64()})
 			}
 		case 1: // a noisy NACA loop with random extras
-			loop := cleanTestSample(geometry.NACA4{Camber: 0.04 * rng.Float64(), CamberPos: 0.4, Thickness: 0.02 + 0.2*rng.Float64(), SharpTE: rng.IntN(2) == 0}, 1, rng.Float64()*6, geometry.Point{}, max(int(count), 8))
+			loop := cleanTestSample(shape.NACA4{Camber: 0.04 * rng.Float64(), CamberPos: 0.4, Thickness: 0.02 + 0.2*rng.Float64(), SharpTE: rng.IntN(2) == 0}, 1, rng.Float64()*6, geometry.Point{}, max(int(count), 8))
 			noise := 0.01 * rng.Float64()
 			for _, p := range loop {
 				pts = append(pts, p.Add(geometry.Point{X: noise * rng.NormFloat64(), Y: noise * rng.NormFloat64()}))
@@ -652,9 +653,9 @@ func FuzzClean(f *testing.F) {
 func TestCleanBand(t *testing.T) {
 	const count = 20000
 	for _, tc := range []struct {
-		n    geometry.NACA4
+		n    shape.NACA4
 		seed uint64
-	}{{geometry.NACA4{Thickness: 0.12, SharpTE: true}, 1}, {geometry.NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12}, 2}} {
+	}{{shape.NACA4{Thickness: 0.12, SharpTE: true}, 1}, {shape.NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12}, 2}} {
 		t.Run(tc.n.String(), func(t *testing.T) {
 			loop := cleanTestSample(tc.n, cleanChord, cleanRot, cleanOff, count)
 			spacing := loop[0].Dist(loop[1])

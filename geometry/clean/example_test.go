@@ -6,13 +6,14 @@ import (
 
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/clean"
+	"github.com/foilwright/foilwright/geometry/shape"
 )
 
 // Clean orders a shuffled cloud (here a NACA 2412, 152.4 mm chord, from
 // the equations of NACA Report 824) with one probe hit that slipped, and
 // starts it at the trailing edge.
 func ExampleClean() {
-	pts := geometry.NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12}.Loop(60)
+	pts := shape.NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12}.Loop(60)
 	cloud := &geometry.Cloud{Dim: 2, Units: geometry.Millimetre}
 	for i, p := range pts {
 		cloud.Points = append(cloud.Points, geometry.Vec3{X: 152.4 * p.X, Y: 152.4 * p.Y})

@@ -5,6 +5,7 @@ import (
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/shape"
 	"github.com/foilwright/foilwright/internal/testfoil"
 )
 
@@ -64,7 +65,7 @@ func TestCurveOperations(t *testing.T) {
 	// Transform, Reverse and Sub keep the geometry (exact polynomial
 	// identities, so to rounding error).
 	const tol = 1e-9
-	n, _ := geometry.ParseNACA4("2412")
+	n, _ := shape.ParseNACA4("2412")
 	c := Interpolate(testfoil.Loop(n, 40), false)
 	L := c.Length()
 	r := c.Reverse()

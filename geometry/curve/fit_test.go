@@ -7,6 +7,7 @@ import (
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/shape"
 	"github.com/foilwright/foilwright/internal/testfoil"
 )
 
@@ -18,7 +19,7 @@ func TestFitNoiseMatchesRMS(t *testing.T) {
 	// Report 824 equations) must stay well below 0.001 chord.
 	const noiseTol = 0.10 // relative; tolerance from a few seeds, rounded up
 	for _, code := range []string{"0012", "2412"} {
-		n, _ := geometry.ParseNACA4(code)
+		n, _ := shape.ParseNACA4(code)
 		part := testfoil.Part{Chord: 152.4, RotDeg: 7, Shift: geometry.Point{X: 37, Y: -12}, Noise: 0.02, Seed: 42}
 		c := testfoil.Contour(testfoil.Loop(n, 150), part)
 		cv, rep, err := Fit(c, FitOptions{Noise: 0.02})
@@ -58,7 +59,7 @@ func TestFitGCV(t *testing.T) {
 	// residual RMS of a good fit is σ·√(1 − tr H/n) (Green and Silverman 1994,
 	// ch. 3), between 0.5σ and σ here, and the curve stays close to the
 	// analytic contour (NACA Report 824 equations).
-	n, _ := geometry.ParseNACA4("2412")
+	n, _ := shape.ParseNACA4("2412")
 	part := testfoil.Part{Chord: 152.4, RotDeg: 7, Shift: geometry.Point{X: 37, Y: -12}, Noise: 0.02, Seed: 3}
 	c := testfoil.Contour(testfoil.Loop(n, 150), part)
 	cv, rep, err := Fit(c, FitOptions{})
@@ -84,7 +85,7 @@ func TestFitExactAndSharp(t *testing.T) {
 	// Noise 0 interpolates: every residual vanishes (exact by construction).
 	// The closed-edge variant of NACA Report 824 is fitted open at its
 	// corner, with both curve ends at the trailing-edge point.
-	n := geometry.NACA4{Thickness: 0.12, SharpTE: true}
+	n := shape.NACA4{Thickness: 0.12, SharpTE: true}
 	c := testfoil.Contour(testfoil.Loop(n, 80), testfoil.Part{Chord: 100, RotDeg: -3, Shift: geometry.Point{X: 5, Y: 5}})
 	cv, rep, err := Fit(c, FitOptions{Exact: true})
 	if err != nil {
@@ -105,7 +106,7 @@ func TestFitExactAndSharp(t *testing.T) {
 func TestFitListsOutliers(t *testing.T) {
 	// Two probe slips of 0.5 mm are listed beyond the tolerance and not
 	// moved: their residuals stay near 0.5 mm.
-	n, _ := geometry.ParseNACA4("0012")
+	n, _ := shape.ParseNACA4("0012")
 	c := testfoil.Contour(testfoil.Loop(n, 150), testfoil.Part{Chord: 152.4, Noise: 0.02, Seed: 5})
 	for _, i := range []int{60, 220} {
 		c.Points[i] = c.Points[i].Add(geometry.Point{X: 0, Y: 0.5 * math.Copysign(1, c.Points[i].Y)})
@@ -129,7 +130,7 @@ func TestFitErrors(t *testing.T) {
 	for i := range 10 {
 		line.Points = append(line.Points, geometry.Point{X: float64(i), Y: 2 * float64(i)})
 	}
-	nan := testfoil.Contour(testfoil.Loop(geometry.NACA4{Thickness: 0.12}, 10), testfoil.Part{Chord: 1})
+	nan := testfoil.Contour(testfoil.Loop(shape.NACA4{Thickness: 0.12}, 10), testfoil.Part{Chord: 1})
 	nan.Points[3].X = math.NaN()
 	for _, tc := range []struct {
 		name string
@@ -159,7 +160,7 @@ func TestFitErrors(t *testing.T) {
 }
 
 func BenchmarkFit(b *testing.B) {
-	n, _ := geometry.ParseNACA4("2412")
+	n, _ := shape.ParseNACA4("2412")
 	for _, size := range []int{1000, 10000, 100000} {
 		c := testfoil.Contour(testfoil.Loop(n, size/2), testfoil.Part{Chord: 152.4, RotDeg: 7, Noise: 0.002, Seed: 1})
 		b.Run(fmt.Sprintf("n=1e%d", int(math.Log10(float64(size)))), func(b *testing.B) {

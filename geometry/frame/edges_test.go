@@ -7,6 +7,7 @@ import (
 
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/curve"
+	"github.com/foilwright/foilwright/geometry/shape"
 	"github.com/foilwright/foilwright/internal/testfoil"
 )
 
@@ -16,7 +17,7 @@ import (
 // about the sharp corner, the shape a printer leaves of a sharp edge. Index
 // 0 is the tip of the arc.
 func edgeTestRounded(r float64, perSurface, arc int) []geometry.Point {
-	n := geometry.NACA4{Thickness: 0.12, SharpTE: true}
+	n := shape.NACA4{Thickness: 0.12, SharpTE: true}
 	normal := func(x float64, upper bool) geometry.Point {
 		const h = 1e-7
 		f := n.Lower
@@ -114,7 +115,7 @@ func TestTrailingEdgeRounded(t *testing.T) {
 }
 
 func TestTrailingEdgeBluntTreatments(t *testing.T) {
-	n, _ := geometry.ParseNACA4("0012")
+	n, _ := shape.ParseNACA4("0012")
 	part := testfoil.Part{Chord: 152.4, RotDeg: 7, Shift: geometry.Point{X: 37, Y: -12}, Noise: 0.02, Seed: 42}
 	c := testfoil.Contour(testfoil.Loop(n, 150), part)
 	cv, _, err := curve.Fit(c, curve.FitOptions{Noise: 0.02})
@@ -167,7 +168,7 @@ func TestTrailingEdgeBluntTreatments(t *testing.T) {
 func TestTrailingEdgeOpen(t *testing.T) {
 	// An outline with the aft 10% of its lower surface missing: the ends
 	// do not meet and no base joins them.
-	n, _ := geometry.ParseNACA4("2412")
+	n, _ := shape.ParseNACA4("2412")
 	loop := testfoil.Loop(n, 150)
 	var cut []geometry.Point
 	for i, p := range loop {

@@ -8,6 +8,7 @@ import (
 	"github.com/foilwright/foilwright/geometry/curve"
 	"github.com/foilwright/foilwright/geometry/frame"
 	"github.com/foilwright/foilwright/geometry/props"
+	"github.com/foilwright/foilwright/geometry/shape"
 )
 
 // A NACA 2412 with the open Report 824 trailing edge, placed at 150 mm
@@ -16,7 +17,7 @@ import (
 // farthest from the trailing edge, which for this cambered section lies
 // 0.09° off the Report 824 chord line.
 func ExampleNormalize() {
-	n, _ := geometry.ParseNACA4("2412")
+	n, _ := shape.ParseNACA4("2412")
 	c := &geometry.Contour{Units: geometry.Millimetre}
 	for _, p := range n.Loop(60) {
 		q := p.Scale(150).Rotate(-3 * math.Pi / 180).Add(geometry.Point{X: 20, Y: 5})

@@ -8,6 +8,7 @@ import (
 
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/curve"
+	"github.com/foilwright/foilwright/geometry/shape"
 	"github.com/foilwright/foilwright/internal/testfoil"
 )
 
@@ -17,7 +18,7 @@ import (
 // practice), found on the dense analytic polyline (NACA Report 824
 // equations). For a cambered section that chord line differs from the
 // Report 824 one (about 0.09° for the 2412).
-func frameExpected(n geometry.NACA4, part testfoil.Part, mirrored bool) (Frame, []geometry.Point) {
+func frameExpected(n shape.NACA4, part testfoil.Part, mirrored bool) (Frame, []geometry.Point) {
 	dense := testfoil.Dense(n)
 	te := dense[0].Add(dense[len(dense)-1]).Scale(0.5)
 	le := testfoil.Farthest(dense, te)
@@ -63,7 +64,7 @@ func TestNormalizeNACA(t *testing.T) {
 		{"0012", true, TESharp},
 		{"2412", true, TESharp},
 	} {
-		n, _ := geometry.ParseNACA4(tc.code)
+		n, _ := shape.ParseNACA4(tc.code)
 		n.SharpTE = tc.sharp
 		part := testfoil.Part{Chord: 152.4, RotDeg: 7, Shift: geometry.Point{X: 37, Y: -12}, Noise: 0.02, Seed: 42}
 		c := testfoil.Contour(testfoil.Loop(n, 150), part)
@@ -123,7 +124,7 @@ func TestNormalizeNACA(t *testing.T) {
 func TestNormalizeLEAt(t *testing.T) {
 	// With the leading edge set at the Report 824 nose (x = 0), the chord
 	// line is that of NACA Report 824: twist −7° exactly as placed.
-	n, _ := geometry.ParseNACA4("2412")
+	n, _ := shape.ParseNACA4("2412")
 	part := testfoil.Part{Chord: 152.4, RotDeg: 7, Shift: geometry.Point{X: 37, Y: -12}, Noise: 0.02, Seed: 42}
 	c := testfoil.Contour(testfoil.Loop(n, 150), part)
 	cv, _, err := curve.Fit(c, curve.FitOptions{Noise: 0.02})
@@ -174,7 +175,7 @@ func TestFrameRoundTrip(t *testing.T) {
 func TestNormalizeMirrored(t *testing.T) {
 	// A 2412 with the nose pointing the other way, or measured upside down,
 	// shows negative camber until it is mirrored.
-	n, _ := geometry.ParseNACA4("2412")
+	n, _ := shape.ParseNACA4("2412")
 	for _, tc := range []struct {
 		name         string
 		flipX, flipY bool
@@ -284,7 +285,7 @@ func TestNormalizeNACA4Loop(t *testing.T) {
 	// noise-free and interpolated: the open edge is blunt with thickness
 	// 2·yt(1) = 0.00252 of the Report 824 chord, and the chord is the
 	// farthest-point distance.
-	n, _ := geometry.ParseNACA4("0012")
+	n, _ := shape.ParseNACA4("0012")
 	part := testfoil.Part{Chord: 152.4, RotDeg: 7, Shift: geometry.Point{X: 37, Y: -12}}
 	c := testfoil.Contour(n.Loop(100), part)
 	cv, _, err := curve.Fit(c, curve.FitOptions{Exact: true})
@@ -310,9 +311,9 @@ func TestNormalizeNACA4Loop(t *testing.T) {
 // frameTestSection fits and normalises a NACA 4-digit contour (NACA Report
 // 824 equations) placed with 152.4 mm chord, 7° rotation, a shift and
 // 0.02 mm noise (fixed seed), or noise-free when noise is 0.
-func frameTestSection(t *testing.T, code string, sharp bool, noise float64, opts Options) (*Normalized, geometry.NACA4) {
+func frameTestSection(t *testing.T, code string, sharp bool, noise float64, opts Options) (*Normalized, shape.NACA4) {
 	t.Helper()
-	n, err := geometry.ParseNACA4(code)
+	n, err := shape.ParseNACA4(code)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -6,6 +6,7 @@ import (
 
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/curve"
+	"github.com/foilwright/foilwright/geometry/shape"
 	"github.com/foilwright/foilwright/internal/testfoil"
 )
 
@@ -22,8 +23,8 @@ func TestNoisyCornersNotRounded(t *testing.T) {
 		loop  []geometry.Point
 		kinds []string // acceptable kinds
 	}{
-		{"sharp", testfoil.Loop(geometry.NACA4{Thickness: 0.12, SharpTE: true}, 90), []string{TESharp}},
-		{"thin base", testfoil.Loop(geometry.NACA4{Thickness: 0.12}, 90), []string{TESharp, TEBlunt}},
+		{"sharp", testfoil.Loop(shape.NACA4{Thickness: 0.12, SharpTE: true}, 90), []string{TESharp}},
+		{"thin base", testfoil.Loop(shape.NACA4{Thickness: 0.12}, 90), []string{TESharp, TEBlunt}},
 		{"thick base", testfoil.Truncated(0.9, 90), []string{TEBlunt}},
 	} {
 		t.Run(tc.name, func(t *testing.T) {

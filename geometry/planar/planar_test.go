@@ -8,6 +8,7 @@ import (
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/shape"
 )
 
 func TestParsePlane(t *testing.T) {
@@ -158,7 +159,7 @@ func TestFlattenRefuses(t *testing.T) {
 // flattenTestLoop returns the NACA 2412 loop (NACA Report 824 equations,
 // 30 points per surface, open trailing edge) at a chord of 150 mm.
 func flattenTestLoop() []geometry.Point {
-	loop := geometry.NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12}.Loop(30)
+	loop := shape.NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12}.Loop(30)
 	for i := range loop {
 		loop[i] = loop[i].Scale(150)
 	}

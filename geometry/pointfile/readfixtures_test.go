@@ -14,6 +14,7 @@ import (
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/shape"
 )
 
 // The reader fixtures under testdata/ are all generated here, from the NACA
@@ -33,7 +34,7 @@ func readTestF(x float64) string { return strconv.FormatFloat(x, 'f', 6, 64) }
 // trailing edge, chord 150 mm) as the fixtures hold it: each coordinate
 // rounded to 6 decimals.
 func readTestSection() []geometry.Point {
-	n, err := geometry.ParseNACA4("2412")
+	n, err := shape.ParseNACA4("2412")
 	if err != nil {
 		panic(err)
 	}
@@ -227,7 +228,7 @@ func readTestSTLASCII(facets [][3]geometry.Vec3) string {
 // closed trailing edge, 20 points per surface, chord 150 mm, coordinates
 // rounded to float32 so that a binary STL holds them exactly.
 func readTestWingRing() []geometry.Point {
-	n := geometry.NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12, SharpTE: true}
+	n := shape.NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12, SharpTE: true}
 	loop := n.Loop(20)
 	loop = loop[:len(loop)-1] // first and last coincide
 	for i, p := range loop {

@@ -8,6 +8,7 @@ import (
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/curve"
 	"github.com/foilwright/foilwright/geometry/frame"
+	"github.com/foilwright/foilwright/geometry/shape"
 )
 
 // FuzzFitNormalize feeds arbitrary loops through Fit, Normalize and
@@ -22,7 +23,7 @@ func FuzzFitNormalize(f *testing.F) {
 		}
 		return b
 	}
-	n, _ := geometry.ParseNACA4("2412")
+	n, _ := shape.ParseNACA4("2412")
 	f.Add(seed(n.Loop(12)))
 	n.SharpTE = true
 	f.Add(seed(n.Loop(10)[:20]))

@@ -6,13 +6,14 @@ import (
 
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/curve"
+	"github.com/foilwright/foilwright/geometry/shape"
 )
 
 func TestNodeCurveProperties(t *testing.T) {
 	// Leading-edge radius of a NACA 4-digit section: 1.1019 t² (NACA Report
 	// 824); maximum thickness t at x = 0.30 (NACA Report 824).
 	for _, sharp := range []bool{false, true} {
-		nodes := geometry.NACA4{Thickness: 0.12, SharpTE: sharp}.Nodes(160)
+		nodes := shape.NACA4{Thickness: 0.12, SharpTE: sharp}.Nodes(160)
 		cv, sle, err := curve.NodeCurve(nodes)
 		if err != nil {
 			t.Fatal(err)

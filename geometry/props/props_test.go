@@ -8,6 +8,7 @@ import (
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/curve"
 	"github.com/foilwright/foilwright/geometry/frame"
+	"github.com/foilwright/foilwright/geometry/shape"
 	"github.com/foilwright/foilwright/internal/testfoil"
 	"gonum.org/v1/gonum/integrate/quad"
 )
@@ -15,9 +16,9 @@ import (
 // testSection fits and normalises a NACA 4-digit contour (NACA Report
 // 824 equations) placed with 152.4 mm chord, 7° rotation, a shift and
 // 0.02 mm noise (fixed seed), or noise-free when noise is 0.
-func testSection(t *testing.T, code string, sharp bool, noise float64, opts frame.Options) (*frame.Normalized, geometry.NACA4) {
+func testSection(t *testing.T, code string, sharp bool, noise float64, opts frame.Options) (*frame.Normalized, shape.NACA4) {
 	t.Helper()
-	n, err := geometry.ParseNACA4(code)
+	n, err := shape.ParseNACA4(code)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -222,7 +223,7 @@ func TestPropertiesModes(t *testing.T) {
 }
 
 func BenchmarkNormalizeAndProperties(b *testing.B) {
-	n, _ := geometry.ParseNACA4("2412")
+	n, _ := shape.ParseNACA4("2412")
 	c := testfoil.Contour(testfoil.Loop(n, 150), testfoil.Part{Chord: 152.4, RotDeg: 7, Noise: 0.02, Seed: 1})
 	cv, _, err := curve.Fit(c, curve.FitOptions{Noise: 0.02})
 	if err != nil {

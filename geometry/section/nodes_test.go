@@ -5,14 +5,15 @@ import (
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/shape"
 )
 
 func TestCheckNodes(t *testing.T) {
-	sharp := geometry.NACA4{Thickness: 0.12, SharpTE: true}.Nodes(40)
-	open := geometry.NACA4{Thickness: 0.12}.Nodes(40)
-	pulled := geometry.NACA4{Thickness: 0.12}.Nodes(40)
+	sharp := shape.NACA4{Thickness: 0.12, SharpTE: true}.Nodes(40)
+	open := shape.NACA4{Thickness: 0.12}.Nodes(40)
+	pulled := shape.NACA4{Thickness: 0.12}.Nodes(40)
 	pulled[10].Y = -0.2 // the upper surface dips through the lower one
-	repeated := geometry.NACA4{Thickness: 0.12}.Nodes(40)
+	repeated := shape.NACA4{Thickness: 0.12}.Nodes(40)
 	repeated[5] = repeated[6]
 	clockwise := make([]geometry.Point, len(open))
 	for i, p := range open {

@@ -10,6 +10,7 @@ import (
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/shape"
 )
 
 func TestRoundTrip(t *testing.T) {
@@ -19,7 +20,7 @@ func TestRoundTrip(t *testing.T) {
 		Units:   geometry.ChordUnit,
 		LEIndex: &le,
 		Frame:   &Frame{Chord: 152.4, TwistDeg: 7, LE: [2]float64{37, -2}},
-		Nodes:   geometry.NACA4{Thickness: 0.12}.Loop(40),
+		Nodes:   shape.NACA4{Thickness: 0.12}.Loop(40),
 	}
 	var buf bytes.Buffer
 	if err := Write(&buf, s); err != nil {

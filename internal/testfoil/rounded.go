@@ -5,6 +5,7 @@ import (
 	"math/rand/v2"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/shape"
 )
 
 // RoundedBlade is a NACA 4415-like section (NACA Report 824 equations: 4 %
@@ -14,7 +15,7 @@ import (
 // internal/demogen builds the demo blade). It is placed in the part frame
 // at chord Chord (mm), twisted Twist degrees nose-up.
 type RoundedBlade struct {
-	Foil  geometry.NACA4
+	Foil  shape.NACA4
 	R     float64 // radius of the rounded end, chord units
 	Chord float64 // mm
 	Twist float64 // degrees nose-up
@@ -23,7 +24,7 @@ type RoundedBlade struct {
 // DefaultBlade is the blade of the rounded-edge tests: 136 mm chord, 12°
 // twist, a 0.6 mm radius.
 func DefaultBlade() RoundedBlade {
-	return RoundedBlade{Foil: geometry.NACA4{Camber: 0.04, CamberPos: 0.4, Thickness: 0.15}, R: 0.6 / 136, Chord: 136, Twist: 12}
+	return RoundedBlade{Foil: shape.NACA4{Camber: 0.04, CamberPos: 0.4, Thickness: 0.15}, R: 0.6 / 136, Chord: 136, Twist: 12}
 }
 
 func (b RoundedBlade) half(x float64) float64 {
@@ -145,7 +146,7 @@ func CutAt(loop []geometry.Point, sigma float64, seed uint64, f float64) *geomet
 // 0.0025 chord, in the node order of package geometry (upper corner first,
 // base last).
 func Truncated(xEnd float64, perSurface int) []geometry.Point {
-	n := geometry.NACA4{Thickness: 0.12}
+	n := shape.NACA4{Thickness: 0.12}
 	var pts []geometry.Point
 	for i := perSurface; i >= 1; i-- {
 		pts = append(pts, n.Upper(xEnd*CosineStation(i, perSurface)))

@@ -10,6 +10,7 @@ import (
 	"math/rand/v2"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/shape"
 )
 
 // Part describes how a test contour is placed in the part frame.
@@ -55,7 +56,7 @@ func CosineStation(i, n int) float64 {
 // Loop returns a NACA 4-digit loop (NACA Report 824 equations) in the node
 // order of package geometry, with stations Station(i, perSurface). For the
 // closed-edge variant the repeated trailing-edge point is left out.
-func Loop(n geometry.NACA4, perSurface int) []geometry.Point {
+func Loop(n shape.NACA4, perSurface int) []geometry.Point {
 	var pts []geometry.Point
 	for i := perSurface; i >= 1; i-- {
 		pts = append(pts, n.Upper(Station(i, perSurface)))
@@ -96,7 +97,7 @@ func Contour(loop []geometry.Point, f Part) *geometry.Contour {
 // Dense returns the analytic outline (NACA Report 824 equations) as a dense
 // polyline in the NACA frame, upper trailing edge to lower: 6000 cosine
 // stations per surface.
-func Dense(n geometry.NACA4) []geometry.Point {
+func Dense(n shape.NACA4) []geometry.Point {
 	return n.Nodes(12000)
 }
 

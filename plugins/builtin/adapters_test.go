@@ -11,6 +11,7 @@ import (
 
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/section"
+	"github.com/foilwright/foilwright/geometry/shape"
 	"github.com/foilwright/foilwright/plugins/builtin"
 	"github.com/foilwright/foilwright/plugins/builtin/sourcepanel"
 	"github.com/foilwright/foilwright/plugins/builtin/vortexpanel"
@@ -21,7 +22,7 @@ import (
 // (NACA Report 824 equations) with 2·perSurface cosine-spaced panels.
 func naca(t *testing.T, code string, perSurface int, sharp bool) ([]byte, []geometry.Point) {
 	t.Helper()
-	n, err := geometry.ParseNACA4(code)
+	n, err := shape.ParseNACA4(code)
 	if err != nil {
 		t.Fatal(err)
 	}

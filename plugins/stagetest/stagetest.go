@@ -25,8 +25,8 @@ import (
 
 	"github.com/hashicorp/go-plugin"
 
-	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/section"
+	"github.com/foilwright/foilwright/geometry/shape"
 	"github.com/foilwright/foilwright/plugins/stage"
 )
 
@@ -51,7 +51,7 @@ type Options struct {
 // node order of package geometry. The shape is that of NACA Report 824's
 // equations (geometry.NACA4).
 func Section(perSurface int) []byte {
-	n := geometry.NACA4{Thickness: 0.12, SharpTE: true}
+	n := shape.NACA4{Thickness: 0.12, SharpTE: true}
 	s := &section.Section{Format: section.Format, Name: "naca0012", Units: "chord", Nodes: n.Loop(perSurface)}
 	var b bytes.Buffer
 	if err := section.Write(&b, s); err != nil {

@@ -1,17 +1,19 @@
-package geometry
+package shape
 
 import (
 	"errors"
 	"math"
 	"math/cmplx"
 	"testing"
+
+	"github.com/foilwright/foilwright/geometry"
 )
 
 // For τ = 0 the Kármán–Trefftz map is the Joukowski map z = ζ + b²/ζ
 // (Milne-Thomson, Theoretical Hydrodynamics), evaluated here directly.
 func TestKarmanTrefftzJoukowskiLimit(t *testing.T) {
 	const tol = 1e-12
-	k := KarmanTrefftz{Centre: Point{-0.1, 0.08}}
+	k := KarmanTrefftz{Centre: geometry.Point{X: -0.1, Y: 0.08}}
 	const panels = 64
 	pts, err := k.Points(panels)
 	if err != nil {
@@ -26,7 +28,7 @@ func TestKarmanTrefftzJoukowskiLimit(t *testing.T) {
 			t.Errorf("point %d = %v, Joukowski map gives %v (|diff| %g)", i, p, z, d)
 		}
 	}
-	if a := SignedArea(pts); a <= 0 {
+	if a := geometry.SignedArea(pts); a <= 0 {
 		t.Errorf("signed area %g: want counter-clockwise", a)
 	}
 	// Upper surface first: the node a quarter of the way round is above the chord.
@@ -40,7 +42,7 @@ func TestKarmanTrefftzJoukowskiLimit(t *testing.T) {
 // practice), is then the image of the circle's leftmost point ζ = ζ_c − R.
 func TestKarmanTrefftzSymmetricAndNormalized(t *testing.T) {
 	const tol = 1e-9
-	k := KarmanTrefftz{Centre: Point{-0.08, 0}, TEAngle: 10 * math.Pi / 180}
+	k := KarmanTrefftz{Centre: geometry.Point{X: -0.08, Y: 0}, TEAngle: 10 * math.Pi / 180}
 	const panels = 100
 	pts, err := k.Points(panels)
 	if err != nil {
@@ -58,7 +60,7 @@ func TestKarmanTrefftzSymmetricAndNormalized(t *testing.T) {
 	}
 	// On the axis the leading edge is the image of ζ = ζ_c − R.
 	r := 1 - k.Centre.X
-	want := k.ktMap(complex(k.Centre.X-r, 0))
+	want := k.mapZeta(complex(k.Centre.X-r, 0))
 	// The search is in a stationary distance: the point is good to ~1e-8.
 	if math.Abs(le.X-real(want)) > 1e-7 || math.Abs(le.Y) > 1e-7 {
 		t.Errorf("LE = %v, want %v", le, want)
@@ -72,7 +74,7 @@ func TestKarmanTrefftzSymmetricAndNormalized(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if norm[0] != (Point{1, 0}) || norm[panels] != (Point{1, 0}) {
+	if norm[0] != (geometry.Point{X: 1, Y: 0}) || norm[panels] != (geometry.Point{X: 1, Y: 0}) {
 		t.Errorf("TE = %v, %v; want (1, 0)", norm[0], norm[panels])
 	}
 	minX := math.Inf(1)
@@ -89,7 +91,7 @@ func TestKarmanTrefftzSymmetricAndNormalized(t *testing.T) {
 // at the trailing edge tends to τ as the panels shrink.
 func TestKarmanTrefftzTrailingEdgeAngle(t *testing.T) {
 	for _, deg := range []float64{5, 15, 30} {
-		k := KarmanTrefftz{Centre: Point{-0.1, 0.05}, TEAngle: deg * math.Pi / 180}
+		k := KarmanTrefftz{Centre: geometry.Point{X: -0.1, Y: 0.05}, TEAngle: deg * math.Pi / 180}
 		const panels = 20000
 		pts, err := k.Points(panels)
 		if err != nil {
@@ -105,17 +107,17 @@ func TestKarmanTrefftzTrailingEdgeAngle(t *testing.T) {
 
 func TestKarmanTrefftzBadParameters(t *testing.T) {
 	for _, k := range []KarmanTrefftz{
-		{Centre: Point{0, 0.1}},
-		{Centre: Point{0.1, 0}},
-		{Centre: Point{-0.1, 0}, TEAngle: math.Pi},
-		{Centre: Point{-0.1, 0}, TEAngle: -0.1},
-		{Centre: Point{math.NaN(), 0}},
+		{Centre: geometry.Point{X: 0, Y: 0.1}},
+		{Centre: geometry.Point{X: 0.1, Y: 0}},
+		{Centre: geometry.Point{X: -0.1, Y: 0}, TEAngle: math.Pi},
+		{Centre: geometry.Point{X: -0.1, Y: 0}, TEAngle: -0.1},
+		{Centre: geometry.Point{X: math.NaN(), Y: 0}},
 	} {
 		if _, err := k.Points(40); !errors.Is(err, ErrKarmanTrefftz) {
 			t.Errorf("%+v: err = %v, want ErrKarmanTrefftz", k, err)
 		}
 	}
-	if _, err := (KarmanTrefftz{Centre: Point{-0.1, 0}}).Points(3); !errors.Is(err, ErrKarmanTrefftz) {
+	if _, err := (KarmanTrefftz{Centre: geometry.Point{X: -0.1, Y: 0}}).Points(3); !errors.Is(err, ErrKarmanTrefftz) {
 		t.Errorf("3 panels: err = %v", err)
 	}
 }

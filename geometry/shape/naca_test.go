@@ -1,8 +1,10 @@
-package geometry
+package shape
 
 import (
 	"math"
 	"testing"
+
+	"github.com/foilwright/foilwright/geometry"
 )
 
 // Values from the NACA 4-digit equations of NACA Report 824 (Abbott, von
@@ -33,10 +35,10 @@ func TestNACA4Equations(t *testing.T) {
 		t.Errorf("2412 camber at p = (%g, %g), want (0.02, 0)", yc, slope)
 	}
 	loop := c.Loop(40)
-	if len(loop) != 81 || loop[40] != (Point{0, 0}) {
+	if len(loop) != 81 || loop[40] != (geometry.Point{X: 0, Y: 0}) {
 		t.Fatalf("loop: %d points, LE %v", len(loop), loop[40])
 	}
-	if a := SignedArea(loop); a <= 0 {
+	if a := geometry.SignedArea(loop); a <= 0 {
 		t.Errorf("loop area %g: want counter-clockwise (positive)", a)
 	}
 	for _, bad := range []string{"241", "24a2", "2012", "0400", "0000"} {
@@ -52,7 +54,7 @@ func TestNACA4NodesOddCount(t *testing.T) {
 	if len(pts) != 162 {
 		t.Fatalf("%d nodes, want 162", len(pts))
 	}
-	if pts[81] != (Point{}) {
+	if pts[81] != (geometry.Point{}) {
 		t.Errorf("node 81 = %v, want the leading edge", pts[81])
 	}
 	if pts[0].Dist(pts[161]) > 1e-12 {

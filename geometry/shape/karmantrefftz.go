@@ -1,10 +1,12 @@
-package geometry
+package shape
 
 import (
 	"errors"
 	"fmt"
 	"math"
 	"math/cmplx"
+
+	"github.com/foilwright/foilwright/geometry"
 )
 
 // KarmanTrefftz is a Kármán–Trefftz section: the image of a circle in the
@@ -26,8 +28,8 @@ import (
 // Far from the circle z ≈ ζ, so the free stream is the same in both planes;
 // the exact flow about the section follows from the flow about the circle.
 type KarmanTrefftz struct {
-	Centre  Point   // circle centre in the ζ-plane, in units of b; X < 0
-	TEAngle float64 // trailing-edge angle τ, radians, 0 ≤ τ < π; 0 gives a cusp (Joukowski)
+	Centre  geometry.Point // circle centre in the ζ-plane, in units of b; X < 0
+	TEAngle float64        // trailing-edge angle τ, radians, 0 ≤ τ < π; 0 gives a cusp (Joukowski)
 }
 
 // ErrKarmanTrefftz means the parameters of a Kármán–Trefftz section do not
@@ -49,19 +51,19 @@ func (k KarmanTrefftz) check(panels int) error {
 	return nil
 }
 
-// ktExponent returns n = 2 − τ/π.
-func (k KarmanTrefftz) ktExponent() float64 { return 2 - k.TEAngle/math.Pi }
+// exponent returns n = 2 − τ/π.
+func (k KarmanTrefftz) exponent() float64 { return 2 - k.TEAngle/math.Pi }
 
-// ktRadius returns the circle radius |b − centre| and the angle φ₀ of ζ = b
+// radius returns the circle radius |b − centre| and the angle φ₀ of ζ = b
 // on the circle, ζ = centre + R e^{iφ₀}.
-func (k KarmanTrefftz) ktRadius() (r, phi0 float64) {
+func (k KarmanTrefftz) radius() (r, phi0 float64) {
 	d := complex(1-k.Centre.X, -k.Centre.Y)
 	return cmplx.Abs(d), cmplx.Phase(d)
 }
 
-// ktMap returns the image z of a point ζ on or outside the circle.
-func (k KarmanTrefftz) ktMap(zeta complex128) complex128 {
-	n := k.ktExponent()
+// mapZeta returns the image z of a point ζ on or outside the circle.
+func (k KarmanTrefftz) mapZeta(zeta complex128) complex128 {
+	n := k.exponent()
 	if zeta == 1 {
 		return complex(n, 0)
 	}
@@ -71,9 +73,9 @@ func (k KarmanTrefftz) ktMap(zeta complex128) complex128 {
 	return complex(n, 0) * (1 + w) / (1 - w)
 }
 
-// ktCircle returns the point of the circle at angle φ.
-func (k KarmanTrefftz) ktCircle(phi float64) complex128 {
-	r, _ := k.ktRadius()
+// circle returns the point of the circle at angle φ.
+func (k KarmanTrefftz) circle(phi float64) complex128 {
+	r, _ := k.radius()
 	s, c := math.Sincos(phi)
 	return complex(k.Centre.X+r*c, k.Centre.Y+r*s)
 }
@@ -84,17 +86,17 @@ func (k KarmanTrefftz) ktCircle(phi float64) complex128 {
 // The first and last point are the trailing edge z = n b. It returns an
 // error wrapping ErrKarmanTrefftz if Centre.X ≥ 0, τ is outside [0, π),
 // a parameter is not finite or panels < 4.
-func (k KarmanTrefftz) Points(panels int) ([]Point, error) {
+func (k KarmanTrefftz) Points(panels int) ([]geometry.Point, error) {
 	if err := k.check(panels); err != nil {
 		return nil, err
 	}
-	_, phi0 := k.ktRadius()
-	pts := make([]Point, panels+1)
+	_, phi0 := k.radius()
+	pts := make([]geometry.Point, panels+1)
 	for i := range pts {
-		z := k.ktMap(k.ktCircle(phi0 + 2*math.Pi*float64(i)/float64(panels)))
-		pts[i] = Point{real(z), imag(z)}
+		z := k.mapZeta(k.circle(phi0 + 2*math.Pi*float64(i)/float64(panels)))
+		pts[i] = geometry.Point{X: real(z), Y: imag(z)}
 	}
-	te := Point{k.ktExponent(), 0}
+	te := geometry.Point{X: k.exponent(), Y: 0}
 	pts[0], pts[panels] = te, te
 	return pts, nil
 }
@@ -104,14 +106,14 @@ func (k KarmanTrefftz) Points(panels int) ([]Point, error) {
 // section farthest from it (common practice), found by golden-section search
 // in the circle angle; since the distance is stationary there, the point is
 // located to about 1e-8 (its distance to the trailing edge to about 1e-15).
-func (k KarmanTrefftz) Edges() (le, te Point, err error) {
+func (k KarmanTrefftz) Edges() (le, te geometry.Point, err error) {
 	if err := k.check(4); err != nil {
-		return Point{}, Point{}, err
+		return geometry.Point{}, geometry.Point{}, err
 	}
-	n := k.ktExponent()
+	n := k.exponent()
 	tez := complex(n, 0)
-	_, phi0 := k.ktRadius()
-	dist := func(phi float64) float64 { return cmplx.Abs(k.ktMap(k.ktCircle(phi)) - tez) }
+	_, phi0 := k.radius()
+	dist := func(phi float64) float64 { return cmplx.Abs(k.mapZeta(k.circle(phi)) - tez) }
 	// Coarse scan, then golden-section search around the best sample.
 	const samples = 720
 	best, bestD := 0, -1.0
@@ -136,15 +138,15 @@ func (k KarmanTrefftz) Edges() (le, te Point, err error) {
 			fd = dist(d)
 		}
 	}
-	z := k.ktMap(k.ktCircle((a + b) / 2))
-	return Point{real(z), imag(z)}, Point{n, 0}, nil
+	z := k.mapZeta(k.circle((a + b) / 2))
+	return geometry.Point{X: real(z), Y: imag(z)}, geometry.Point{X: n, Y: 0}, nil
 }
 
 // Normalized returns the points of Points(panels) translated, rotated and
 // scaled so that the leading edge of Edges is at (0, 0) and the trailing edge
 // at (1, 0). A point z of the mapping plane goes to (z − le)·e^{−iθ}/c, where
 // c = |te − le| and θ = arg(te − le). It returns the errors of Points.
-func (k KarmanTrefftz) Normalized(panels int) ([]Point, error) {
+func (k KarmanTrefftz) Normalized(panels int) ([]geometry.Point, error) {
 	pts, err := k.Points(panels)
 	if err != nil {
 		return nil, err
@@ -158,6 +160,6 @@ func (k KarmanTrefftz) Normalized(panels int) ([]Point, error) {
 	for i, p := range pts {
 		pts[i] = p.Sub(le).Rotate(-theta).Scale(1 / c)
 	}
-	pts[0], pts[panels] = Point{1, 0}, Point{1, 0}
+	pts[0], pts[panels] = geometry.Point{X: 1, Y: 0}, geometry.Point{X: 1, Y: 0}
 	return pts, nil
 }

@@ -1,8 +1,10 @@
-package geometry
+package shape
 
 import (
 	"fmt"
 	"math"
+
+	"github.com/foilwright/foilwright/geometry"
 )
 
 // NACA4 is a NACA 4-digit section, defined by the equations of
@@ -90,19 +92,19 @@ func (n NACA4) CamberLine(x float64) (yc, slope float64) {
 }
 
 // Upper returns the upper-surface point at chord station x.
-func (n NACA4) Upper(x float64) Point {
+func (n NACA4) Upper(x float64) geometry.Point {
 	yt := n.HalfThickness(x)
 	yc, dy := n.CamberLine(x)
 	th := math.Atan(dy)
-	return Point{x - yt*math.Sin(th), yc + yt*math.Cos(th)}
+	return geometry.Point{X: x - yt*math.Sin(th), Y: yc + yt*math.Cos(th)}
 }
 
 // Lower returns the lower-surface point at chord station x.
-func (n NACA4) Lower(x float64) Point {
+func (n NACA4) Lower(x float64) geometry.Point {
 	yt := n.HalfThickness(x)
 	yc, dy := n.CamberLine(x)
 	th := math.Atan(dy)
-	return Point{x + yt*math.Sin(th), yc - yt*math.Cos(th)}
+	return geometry.Point{X: x + yt*math.Sin(th), Y: yc - yt*math.Cos(th)}
 }
 
 // Loop returns 2·perSurface+1 points in the package node order: the upper
@@ -110,7 +112,7 @@ func (n NACA4) Lower(x float64) Point {
 // surface back to the trailing edge, with chord stations x = (1 − cos β)/2
 // spaced evenly in β. For a sharp trailing edge the first and last point
 // coincide. It panics if perSurface < 2.
-func (n NACA4) Loop(perSurface int) []Point {
+func (n NACA4) Loop(perSurface int) []geometry.Point {
 	if perSurface < 2 {
 		panic("geometry: NACA4 loop needs at least 2 points per surface")
 	}
@@ -121,16 +123,16 @@ func (n NACA4) Loop(perSurface int) []Point {
 // spacing in x on each surface: (panels+1)/2 panels on the upper surface and
 // panels/2 on the lower, and a node exactly at the leading edge. It panics
 // if panels < 4.
-func (n NACA4) Nodes(panels int) []Point {
+func (n NACA4) Nodes(panels int) []geometry.Point {
 	if panels < 4 {
 		panic("geometry: NACA4 needs at least 4 panels")
 	}
 	up, lo := (panels+1)/2, panels/2
-	pts := make([]Point, 0, panels+1)
+	pts := make([]geometry.Point, 0, panels+1)
 	for i := up; i >= 1; i-- {
 		pts = append(pts, n.Upper(cosineStation(i, up)))
 	}
-	pts = append(pts, Point{0, 0})
+	pts = append(pts, geometry.Point{X: 0, Y: 0})
 	for i := 1; i <= lo; i++ {
 		pts = append(pts, n.Lower(cosineStation(i, lo)))
 	}
