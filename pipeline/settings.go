@@ -9,7 +9,12 @@ import (
 
 	"github.com/tidwall/gjson"
 
+	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/frame"
 	"github.com/foilwright/foilwright/geometry/planar"
+	"github.com/foilwright/foilwright/geometry/pointfile"
+	"github.com/foilwright/foilwright/geometry/props"
+	"github.com/foilwright/foilwright/internal/enum"
 	"github.com/foilwright/foilwright/repanel"
 )
 
@@ -88,7 +93,7 @@ func enumKey(name string, reading bool, field func(*PrepSettings) *string, allow
 // them is a slip, not a setting (common practice for outlier_sigma is 3 to 5).
 var prepKeys = []prepKey{
 	{"format", true, func(c *collector, path string, v gjson.Result, s *PrepSettings) {
-		if e, ok := c.wantEnum(path, v, "auto", "delimited", "loop", "surfaces", "dxf", "stl"); ok && e != "auto" {
+		if e, ok := c.wantEnum(path, v, append([]string{"auto"}, pointfile.Formats()...)...); ok && e != "auto" {
 			s.Format = e
 		}
 	}},
@@ -101,7 +106,7 @@ var prepKeys = []prepKey{
 			s.Columns = str
 		}
 	}},
-	enumKey("units", true, func(s *PrepSettings) *string { return &s.Units }, "mm", "in", "m", "chord"),
+	enumKey("units", true, func(s *PrepSettings) *string { return &s.Units }, enum.Strings(geometry.Units())...),
 	{"cut", true, func(c *collector, path string, v gjson.Result, s *PrepSettings) {
 		if str, ok := c.wantString(path, v, true); ok {
 			if err := checkCut(str); err != nil {
@@ -141,7 +146,7 @@ var prepKeys = []prepKey{
 		}
 	}},
 	numKey("fit_tol", false, positive, func(s *PrepSettings) **float64 { return &s.FitTol }),
-	enumKey("te", false, func(s *PrepSettings) *string { return &s.TE }, "auto", "keep", "close", "sharpen"),
+	enumKey("te", false, func(s *PrepSettings) *string { return &s.TE }, enum.Names(frame.Treatments())...),
 	numKey("te_blend", false, numRange{lo: 0, hi: 1, loOpen: true}, func(s *PrepSettings) **float64 { return &s.TEBlend }),
 	{"le_at", false, func(c *collector, path string, v gjson.Result, s *PrepSettings) {
 		var xy [2]float64
@@ -164,18 +169,18 @@ var prepKeys = []prepKey{
 			s.LEAt = &xy
 		}
 	}},
-	enumKey("mirror", false, func(s *PrepSettings) *string { return &s.Mirror }, "auto", "yes", "no"),
+	enumKey("mirror", false, func(s *PrepSettings) *string { return &s.Mirror }, enum.Names(frame.MirrorModes())...),
 	{"panels", false, func(c *collector, path string, v gjson.Result, s *PrepSettings) {
 		if n, ok := c.wantInt(path, v, 16, 2000); ok {
 			s.Panels = &n
 		}
 	}},
-	enumKey("spacing", false, func(s *PrepSettings) *string { return &s.Spacing }, "cosine", "half-cosine", "uniform", "curvature"),
+	enumKey("spacing", false, func(s *PrepSettings) *string { return &s.Spacing }, repanel.Laws()...),
 	numKey("le_cluster", false, cluster, func(s *PrepSettings) **float64 { return &s.LECluster }),
 	numKey("te_cluster", false, cluster, func(s *PrepSettings) **float64 { return &s.TECluster }),
 	numKey("curvature_weight", false, unit, func(s *PrepSettings) **float64 { return &s.CurvatureWeight }),
-	enumKey("thickness_mode", false, func(s *PrepSettings) *string { return &s.ThicknessMode }, "chord", "camber"),
-	enumKey("camber_mode", false, func(s *PrepSettings) *string { return &s.CamberMode }, "mean", "inscribed"),
+	enumKey("thickness_mode", false, func(s *PrepSettings) *string { return &s.ThicknessMode }, enum.Names(props.ThicknessModes())...),
+	enumKey("camber_mode", false, func(s *PrepSettings) *string { return &s.CamberMode }, enum.Names(props.CamberModes())...),
 }
 
 // prepKeyIndex maps a key name to its entry in prepKeys.

@@ -7,6 +7,7 @@ import (
 
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/curve"
+	"github.com/foilwright/foilwright/internal/enum"
 )
 
 // Trailing-edge kinds (TrailingEdge.Kind).
@@ -35,6 +36,24 @@ const (
 	MirrorYes  = "yes"
 	MirrorNo   = "no"
 )
+
+// Treatments lists the trailing-edge treatments a user may ask for
+// (Options.TE), with what each does, in the order help texts, completions,
+// the pipeline file's checks and messages give them.
+func Treatments() []enum.Choice {
+	return []enum.Choice{
+		{Name: TEAuto, Doc: "keep it as found and report it"},
+		{Name: TEKeep},
+		{Name: TEClose, Doc: "blend a blunt edge shut"},
+		{Name: TESharpen, Doc: "extend the surfaces of a rounded edge to their intersection"},
+	}
+}
+
+// MirrorModes lists the mirror modes (Options.Mirror) in the order help
+// texts give them.
+func MirrorModes() []enum.Choice {
+	return []enum.Choice{{Name: MirrorAuto}, {Name: MirrorYes}, {Name: MirrorNo}}
+}
 
 // Tolerances of the edge analysis, in chord units, that users can see.
 const (

@@ -6,6 +6,7 @@ import (
 
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/curve"
+	"github.com/foilwright/foilwright/internal/enum"
 )
 
 // Frame maps the normalised section back to the part, in input units:
@@ -136,15 +137,11 @@ type Normalized struct {
 // distinct nose and tail (a circle, a square), and ErrTrailingEdge when the
 // requested treatment cannot be applied.
 func Normalize(cv *curve.Curve, opts Options) (*Normalized, error) {
-	switch opts.TE {
-	case "", TEAuto, TEKeep, TEClose, TESharpen:
-	default:
-		return nil, fmt.Errorf("geometry: trailing-edge treatment %q: want auto, keep, close or sharpen", opts.TE)
+	if opts.TE != "" && !enum.Has(Treatments(), opts.TE) {
+		return nil, fmt.Errorf("geometry: trailing-edge treatment %q: want %s", opts.TE, enum.Or(enum.Names(Treatments())...))
 	}
-	switch opts.Mirror {
-	case "", MirrorAuto, MirrorYes, MirrorNo:
-	default:
-		return nil, fmt.Errorf("geometry: mirror %q: want auto, yes or no", opts.Mirror)
+	if opts.Mirror != "" && !enum.Has(MirrorModes(), opts.Mirror) {
+		return nil, fmt.Errorf("geometry: mirror %q: want %s", opts.Mirror, enum.Or(enum.Names(MirrorModes())...))
 	}
 	if opts.Blend < 0 || opts.Blend >= 1 || math.IsNaN(opts.Blend) {
 		return nil, fmt.Errorf("geometry: blend %g: want a chord fraction in (0, 1)", opts.Blend)

@@ -8,6 +8,7 @@ import (
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/curve"
 	"github.com/foilwright/foilwright/geometry/frame"
+	"github.com/foilwright/foilwright/internal/enum"
 	"github.com/foilwright/foilwright/internal/numeric"
 )
 
@@ -18,6 +19,22 @@ const (
 	CamberMean      = "mean"      // mean of the surfaces at equal x
 	CamberInscribed = "inscribed" // centres of circles inscribed between the surfaces
 )
+
+// ThicknessModes lists the thickness modes (Options.Thickness) in the order
+// help texts, completions, the pipeline file's checks and messages give
+// them.
+func ThicknessModes() []enum.Choice {
+	return []enum.Choice{{Name: ThicknessChord}, {Name: ThicknessCamber}}
+}
+
+// CamberModes lists the camber modes (Options.Camber), with what each
+// measures, in the same order.
+func CamberModes() []enum.Choice {
+	return []enum.Choice{
+		{Name: CamberMean, Doc: "of the surfaces at equal x"},
+		{Name: CamberInscribed, Doc: "centres of inscribed circles, for blades"},
+	}
+}
 
 // Options controls Compute. The zero value measures
 // thickness perpendicular to the chord line and the camber line as the mean
@@ -190,19 +207,17 @@ func (ps side) atX(x float64) (int, float64, geometry.Point, bool) {
 // It returns an error wrapping ErrNotNormalized if sLE is not inside the
 // path or the surfaces do not span the chord.
 func Compute(p geometry.Path, sLE float64, opts Options) (*SectionProperties, *CamberLine, error) {
-	switch opts.Thickness {
-	case "":
+	if opts.Thickness == "" {
 		opts.Thickness = ThicknessChord
-	case ThicknessChord, ThicknessCamber:
-	default:
-		return nil, nil, fmt.Errorf("geometry: thickness mode %q: want chord or camber", opts.Thickness)
 	}
-	switch opts.Camber {
-	case "":
+	if !enum.Has(ThicknessModes(), opts.Thickness) {
+		return nil, nil, fmt.Errorf("geometry: thickness mode %q: want %s", opts.Thickness, enum.Or(enum.Names(ThicknessModes())...))
+	}
+	if opts.Camber == "" {
 		opts.Camber = CamberMean
-	case CamberMean, CamberInscribed:
-	default:
-		return nil, nil, fmt.Errorf("geometry: camber mode %q: want mean or inscribed", opts.Camber)
+	}
+	if !enum.Has(CamberModes(), opts.Camber) {
+		return nil, nil, fmt.Errorf("geometry: camber mode %q: want %s", opts.Camber, enum.Or(enum.Names(CamberModes())...))
 	}
 	if opts.Stations == 0 {
 		opts.Stations = 200

@@ -25,3 +25,39 @@ func Strings[S ~string](names []S) []string {
 	}
 	return out
 }
+
+// A Choice is one allowed name with what it does, for help texts; Doc may
+// be empty.
+type Choice struct{ Name, Doc string }
+
+// Names returns the names of cs.
+func Names(cs []Choice) []string {
+	out := make([]string, len(cs))
+	for i, c := range cs {
+		out[i] = c.Name
+	}
+	return out
+}
+
+// Help words cs for a flag's help text: "a (what a does), b or c (what c
+// does)".
+func Help(cs []Choice) string {
+	items := make([]string, len(cs))
+	for i, c := range cs {
+		items[i] = c.Name
+		if c.Doc != "" {
+			items[i] += " (" + c.Doc + ")"
+		}
+	}
+	return Or(items...)
+}
+
+// Has reports whether name is one of cs.
+func Has(cs []Choice, name string) bool {
+	for _, c := range cs {
+		if c.Name == name {
+			return true
+		}
+	}
+	return false
+}

@@ -21,3 +21,16 @@ func TestOr(t *testing.T) {
 		t.Errorf("Strings = %q", got)
 	}
 }
+
+func TestHelp(t *testing.T) {
+	cs := []Choice{{"auto", "keep it"}, {"keep", ""}, {"close", "blend it shut"}}
+	if got, want := Help(cs), "auto (keep it), keep or close (blend it shut)"; got != want {
+		t.Errorf("Help = %q, want %q", got, want)
+	}
+	if got := Names(cs); len(got) != 3 || got[2] != "close" {
+		t.Errorf("Names = %q", got)
+	}
+	if !Has(cs, "keep") || Has(cs, "sharpen") {
+		t.Error("Has")
+	}
+}
