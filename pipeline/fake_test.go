@@ -16,6 +16,7 @@ import (
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/pointfile"
 	"github.com/foilwright/foilwright/geometry/section"
+	"github.com/foilwright/foilwright/prep"
 	"github.com/tidwall/gjson"
 )
 
@@ -25,7 +26,7 @@ import (
 // with a line that is not two numbers fails, naming the file and line.
 type fakePrep struct{}
 
-func (fakePrep) Prepare(ctx context.Context, in Input, s PrepSettings) (Prepared, error) {
+func (fakePrep) Prepare(ctx context.Context, in Input, s prep.Settings) (Prepared, error) {
 	var pts []geometry.Point
 	for _, f := range in.Files {
 		sc := bufio.NewScanner(bytes.NewReader(f.Data))

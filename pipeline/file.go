@@ -2,8 +2,6 @@ package pipeline
 
 import (
 	"bytes"
-	"crypto/sha256"
-	"encoding/hex"
 	"encoding/json"
 	"errors"
 	"fmt"
@@ -15,6 +13,8 @@ import (
 	"sort"
 	"strings"
 
+	"github.com/foilwright/foilwright/internal/digest"
+	"github.com/foilwright/foilwright/prep"
 	"github.com/tidwall/gjson"
 )
 
@@ -57,7 +57,7 @@ type Pipeline struct {
 	SHA256  string // hex digest of the file's bytes
 	Name    string
 	Inputs  []InputSpec
-	Prepare PrepSettings
+	Prepare prep.Settings
 	Stages  []Stage // in file order
 	Outputs Outputs
 
@@ -71,7 +71,7 @@ type InputSpec struct {
 	Paths   []string // the matching files, sorted, without repeats; slash-separated, relative to Dir unless absolute
 	PerFile bool     // one section per file instead of one section from all files
 	Station *float64 // spanwise position of a blade station, if given
-	Read    PrepSettings
+	Read    prep.Settings
 }
 
 // A Stage is one entry of "stages".
@@ -156,8 +156,7 @@ func Parse(data []byte, file string, opts ParseOptions) (*Pipeline, error) {
 	}
 	root := gjson.ParseBytes(data)
 	root.Index = len(data) - len(bytes.TrimLeft(data, " \t\r\n")) // Parse leaves it 0 after leading blanks
-	sum := sha256.Sum256(data)
-	p := &parser{c: c, opts: opts, p: &Pipeline{File: file, Dir: opts.Dir, SHA256: hex.EncodeToString(sum[:])}}
+	p := &parser{c: c, opts: opts, p: &Pipeline{File: file, Dir: opts.Dir, SHA256: digest.Bytes(data)}}
 	p.parse(root)
 	if err := c.err(); err != nil {
 		return nil, err
@@ -278,8 +277,8 @@ func (ps *parser) parse(root gjson.Result) {
 }
 
 // settings reads the "prepare" object.
-func (ps *parser) settings(path string, v gjson.Result) PrepSettings {
-	var s PrepSettings
+func (ps *parser) settings(path string, v gjson.Result) prep.Settings {
+	var s prep.Settings
 	ps.c.wantObject(path, v, prepareSet, func(k, kpath string, val gjson.Result) {
 		prepKeys[prepKeyIndex[k]].read(ps.c, kpath, val, &s)
 	})
@@ -634,7 +633,7 @@ func (ps *parser) stageTarget(ipath string, val, pin gjson.Result, s *Stage) {
 	}
 	s.Exec = full
 	if s.SHA256 != "" {
-		got, err := fileSHA256(full)
+		got, err := digest.File(full)
 		if err != nil {
 			c.add(val.Index, ipath+".stage", "stage executable %q: %v", s.Stage, err)
 		} else if got != s.SHA256 {
@@ -696,14 +695,4 @@ func (ps *parser) outputs(v gjson.Result) {
 			out.PlotFormat = e
 		}
 	}
-}
-
-// fileSHA256 returns the hex sha256 of the file at path.
-func fileSHA256(path string) (string, error) {
-	data, err := os.ReadFile(path)
-	if err != nil {
-		return "", err
-	}
-	sum := sha256.Sum256(data)
-	return hex.EncodeToString(sum[:]), nil
 }

@@ -10,6 +10,7 @@ import (
 
 	"github.com/foilwright/foilwright/internal/atomicfile"
 	"github.com/foilwright/foilwright/internal/version"
+	"github.com/foilwright/foilwright/prep"
 )
 
 // ManifestName is the manifest's file name at the root of a run folder.
@@ -67,7 +68,7 @@ type SectionRecord struct {
 	Name     string        `json:"name"`
 	Station  *float64      `json:"station,omitempty"`
 	Inputs   []FileHash    `json:"inputs"`
-	Settings PrepSettings  `json:"settings"`
+	Settings prep.Settings `json:"settings"`
 	Status   string        `json:"status"`
 	Err      string        `json:"error,omitempty"`
 	Stages   []StageReport `json:"stages,omitempty"`

@@ -3,8 +3,6 @@ package pipeline
 import (
 	"bytes"
 	"context"
-	"crypto/sha256"
-	"encoding/hex"
 	"errors"
 	"fmt"
 	"os"
@@ -18,7 +16,9 @@ import (
 	"github.com/foilwright/foilwright/geometry/pointfile"
 	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/internal/atomicfile"
+	"github.com/foilwright/foilwright/internal/digest"
 	"github.com/foilwright/foilwright/plot"
+	"github.com/foilwright/foilwright/prep"
 	"github.com/tidwall/gjson"
 )
 
@@ -28,17 +28,10 @@ import (
 type Input struct {
 	Section string   // section name
 	Station *float64 // spanwise station, if given
-	Files   []InputFile
+	Files   []prep.File
 	// PlotFormat, when not empty, asks for the preparation pictures in
 	// that format (plot.SVG or plot.PNG), as Prepared.Artifacts.
 	PlotFormat string
-}
-
-// An InputFile is one input file's bytes and its recorded path (used as the
-// display name in messages).
-type InputFile struct {
-	Path string
-	Data []byte
 }
 
 // Prepared is the geometry chain's answer for one section.
@@ -52,7 +45,7 @@ type Prepared struct {
 // repanel, properties) for one section. It must be deterministic and safe
 // for concurrent use by several workers.
 type Preparer interface {
-	Prepare(ctx context.Context, in Input, s PrepSettings) (Prepared, error)
+	Prepare(ctx context.Context, in Input, s prep.Settings) (Prepared, error)
 }
 
 // A StageCall names one stage of a pipeline for a StageRunner.
@@ -275,8 +268,7 @@ feed:
 			return sum, fmt.Errorf("stations plot: %w", err)
 		}
 		if data != nil {
-			h := sha256.Sum256(data)
-			m.Outputs[name] = hex.EncodeToString(h[:])
+			m.Outputs[name] = digest.Bytes(data)
 		}
 	}
 	m.Timings.Jobs = jobs
@@ -317,7 +309,7 @@ type output struct {
 
 // runSection makes one section and writes its outputs. When the run is
 // cancelled while the section is under way, nothing of it is written.
-func runSection(ctx context.Context, pl *Plan, folder string, i int, calls []StageCall, prep Preparer, runner StageRunner) sectionResult {
+func runSection(ctx context.Context, pl *Plan, folder string, i int, calls []StageCall, preparer Preparer, runner StageRunner) sectionResult {
 	sp := pl.Sections[i]
 	res := sectionResult{report: SectionReport{Name: sp.Name}, timing: SectionTiming{Name: sp.Name}}
 	rep := &res.report
@@ -342,13 +334,13 @@ func runSection(ctx context.Context, pl *Plan, folder string, i int, calls []Sta
 		if err != nil {
 			return fail("read %s: %v", f, err)
 		}
-		sum := sha256.Sum256(data)
-		res.files = append(res.files, FileHash{Path: f, SHA256: hex.EncodeToString(sum[:])})
-		in.Files = append(in.Files, InputFile{Path: f, Data: data})
+		file := prep.NewFile(f, data)
+		res.files = append(res.files, FileHash{Path: f, SHA256: file.SHA256})
+		in.Files = append(in.Files, file)
 	}
 
 	t := time.Now()
-	prepared, err := prep.Prepare(ctx, in, sp.Settings)
+	prepared, err := preparer.Prepare(ctx, in, sp.Settings)
 	res.timing.PrepareS = seconds(time.Since(t))
 	if ctx.Err() != nil {
 		return cancelled()
@@ -456,8 +448,7 @@ func runSection(ctx context.Context, pl *Plan, folder string, i int, calls []Sta
 		if err := atomicfile.WriteBytes(full, o.data); err != nil {
 			return fail("%v", err)
 		}
-		sum := sha256.Sum256(o.data)
-		res.outputs[o.path] = hex.EncodeToString(sum[:])
+		res.outputs[o.path] = digest.Bytes(o.data)
 	}
 	return res
 }
@@ -603,6 +594,6 @@ func stationsPlot(pl *Plan, results []sectionResult) (string, []byte, error) {
 		return "", nil, err
 	}
 	format := pl.Pipeline.Outputs.PlotFormat
-	data, err := RenderFigure(f, format)
+	data, err := plot.Encode(f, format)
 	return "stations." + format, data, err
 }

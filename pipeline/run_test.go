@@ -16,6 +16,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/foilwright/foilwright/prep"
 	"github.com/tidwall/gjson"
 )
 
@@ -506,7 +507,7 @@ func TestRunFolder(t *testing.T) {
 // badPrep returns a document that is not a section.
 type badPrep struct{}
 
-func (badPrep) Prepare(context.Context, Input, PrepSettings) (Prepared, error) {
+func (badPrep) Prepare(context.Context, Input, prep.Settings) (Prepared, error) {
 	return Prepared{Section: []byte(`{"format": "foilwright.result/1", "nodes": []}`)}, nil
 }
 

@@ -10,7 +10,7 @@ import (
 
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/section"
-	"github.com/foilwright/foilwright/pipeline"
+	"github.com/foilwright/foilwright/prep"
 	"github.com/foilwright/foilwright/repanel"
 )
 
@@ -48,7 +48,7 @@ geometry chain as prep, with the same flags, and prints prep's summary.`,
 			if err != nil {
 				return err
 			}
-			p, err := pipeline.Prepare(sectionName(args), files, s)
+			p, err := prep.Prepare(sectionName(args), files, s)
 			if err != nil {
 				return badInput(err)
 			}
@@ -126,7 +126,7 @@ func inspectSection(w io.Writer, path string, s *section.Section, asJSON bool) e
 		fmt.Fprintf(w, "  made from   %d points of %v, %d used, %d dropped\n", src.PointsRead, src.Files, src.PointsUsed, len(src.Dropped))
 	}
 	fmt.Fprintf(w, "  measured    panel lengths %.3g to %.3g c, largest ratio %.2f, largest turn %.1f°\n", q.MinLength, q.MaxLength, q.MaxRatio, q.MaxTurnDeg)
-	pipeline.WriteSectionReport(w, s, "", "")
+	prep.WriteSectionReport(w, s, "", "")
 	for _, warn := range q.Warnings {
 		fmt.Fprintf(w, "  warning: %s\n", warn)
 	}

@@ -8,8 +8,8 @@ import (
 
 	"github.com/foilwright/foilwright/geometry/pointfile"
 	"github.com/foilwright/foilwright/geometry/section"
-	"github.com/foilwright/foilwright/pipeline"
 	"github.com/foilwright/foilwright/plot"
+	"github.com/foilwright/foilwright/prep"
 )
 
 type prepOptions struct {
@@ -52,7 +52,7 @@ its file and line.`,
 			if name == "" {
 				name = sectionName(args)
 			}
-			p, err := pipeline.Prepare(name, files, s)
+			p, err := prep.Prepare(name, files, s)
 			if err != nil {
 				return badInput(err)
 			}
@@ -74,7 +74,7 @@ its file and line.`,
 
 // writePrep writes the outputs of a preparation: plots first, then the node
 // listing, then the section document, each atomically, and the summary.
-func writePrep(stdout, stderr io.Writer, p *pipeline.Preparation, opts prepOptions) error {
+func writePrep(stdout, stderr io.Writer, p *prep.Preparation, opts prepOptions) error {
 	if opts.plot != "" {
 		if err := writePrepPlots(opts.plot, p); err != nil {
 			return err
@@ -107,7 +107,7 @@ func writePrep(stdout, stderr io.Writer, p *pipeline.Preparation, opts prepOptio
 // writePrepPlots draws the preparation pictures to path (its extension
 // chooses SVG or PNG) and to siblings named path-deviation, path-nodes and
 // path-section.
-func writePrepPlots(path string, p *pipeline.Preparation) error {
+func writePrepPlots(path string, p *prep.Preparation) error {
 	if _, err := plot.FormatOf(path); err != nil {
 		return badInputf("--plot %s: %v", path, err)
 	}
@@ -115,8 +115,8 @@ func writePrepPlots(path string, p *pipeline.Preparation) error {
 	if err != nil {
 		return err
 	}
-	for _, name := range pipeline.PlotNames {
-		if err := plot.Save(figs[name], pipeline.SiblingPath(path, name), 0, 0); err != nil {
+	for _, name := range prep.PlotNames {
+		if err := plot.Save(figs[name], prep.SiblingPath(path, name), 0, 0); err != nil {
 			return err
 		}
 	}

@@ -13,7 +13,7 @@ import (
 	"github.com/foilwright/foilwright/geometry/pointfile"
 	"github.com/foilwright/foilwright/geometry/props"
 	"github.com/foilwright/foilwright/internal/enum"
-	"github.com/foilwright/foilwright/pipeline"
+	"github.com/foilwright/foilwright/prep"
 	"github.com/foilwright/foilwright/repanel"
 )
 
@@ -84,8 +84,8 @@ func fixedCompletions(values ...string) func(*cobra.Command, []string, string) (
 
 // settings turns the flags that were set into pipeline settings; flags left
 // at their defaults stay unset so the chain's own defaults apply.
-func (p *prepFlags) settings(f *pflag.FlagSet) (pipeline.PrepSettings, error) {
-	var s pipeline.PrepSettings
+func (p *prepFlags) settings(f *pflag.FlagSet) (prep.Settings, error) {
+	var s prep.Settings
 	set := func(name string) bool { fl := f.Lookup(name); return fl != nil && fl.Changed }
 	num := func(name string, v float64) *float64 {
 		if !set(name) {
@@ -161,8 +161,8 @@ func (p *prepFlags) settings(f *pflag.FlagSet) (pipeline.PrepSettings, error) {
 }
 
 // inputFiles reads the named files whole (or stdin for "-").
-func inputFiles(stdin io.Reader, paths []string) ([]pipeline.InputFile, error) {
-	var files []pipeline.InputFile
+func inputFiles(stdin io.Reader, paths []string) ([]prep.File, error) {
+	var files []prep.File
 	for _, p := range paths {
 		data, name, err := readSectionFile(stdin, p)
 		if err != nil {
@@ -171,7 +171,7 @@ func inputFiles(stdin io.Reader, paths []string) ([]pipeline.InputFile, error) {
 		if len(data) == 0 {
 			return nil, badInput(&geometry.ParseError{File: name, Err: geometry.ErrEmpty})
 		}
-		files = append(files, pipeline.InputFile{Path: name, Data: data})
+		files = append(files, prep.NewFile(name, data))
 	}
 	return files, nil
 }

@@ -1,10 +1,8 @@
-package pipeline
+package prep
 
 import (
-	"bytes"
 	"fmt"
 	"path/filepath"
-	"strings"
 
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/plot"
@@ -111,22 +109,7 @@ func (p *Preparation) PrepFigures() (map[string]*plot.Figure, error) {
 // are written.
 var PlotNames = []string{"prep", "deviation", "nodes", "section"}
 
-// SiblingPath returns the path of picture name beside path: path itself for
-// "prep", else path with "-name" before its extension.
-func SiblingPath(path, name string) string {
-	if name == "prep" {
-		return path
-	}
-	ext := filepath.Ext(path)
-	return strings.TrimSuffix(path, ext) + "-" + name + ext
-}
-
-// RenderFigure returns f drawn in format (plot.SVG or plot.PNG) at its
-// natural size.
-func RenderFigure(f *plot.Figure, format string) ([]byte, error) {
-	var buf bytes.Buffer
-	if err := plot.Write(&buf, f, format, 0, 0); err != nil {
-		return nil, err
-	}
-	return buf.Bytes(), nil
-}
+// SiblingPath returns the path of the preparation picture called name
+// beside path: path itself for "prep", else path with "-name" before its
+// extension.
+func SiblingPath(path, name string) string { return plot.Beside(path, "prep", name) }

@@ -1,4 +1,4 @@
-package pipeline
+package prep
 
 import (
 	"bytes"
@@ -51,7 +51,7 @@ func BenchmarkPrepare(b *testing.B) {
 		b.Run(fmt.Sprintf("n=%d", n), func(b *testing.B) {
 			b.ReportAllocs()
 			for b.Loop() {
-				if _, err := Prepare("scan", []InputFile{{Path: "scan.csv", Data: data}}, PrepSettings{}); err != nil {
+				if _, err := Prepare("scan", []File{{Path: "scan.csv", Data: data}}, Settings{}); err != nil {
 					b.Fatal(err)
 				}
 			}
@@ -62,7 +62,7 @@ func BenchmarkPrepare(b *testing.B) {
 func TestPrepareScan(t *testing.T) {
 	// The chain on a shuffled, noisy scan of NACA 2412 (NACA Report 824):
 	// chord 152.4 mm within 0.1 %, thickness 0.120 ± 0.001.
-	p, err := Prepare("scan", []InputFile{{Path: "scan.csv", Data: scanCSV(2000)}}, PrepSettings{})
+	p, err := Prepare("scan", []File{{Path: "scan.csv", Data: scanCSV(2000)}}, Settings{})
 	if err != nil {
 		t.Fatal(err)
 	}
