@@ -5,6 +5,7 @@ import (
 
 	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/plot"
+	"github.com/foilwright/foilwright/plugins/stage"
 	"github.com/foilwright/foilwright/prep"
 )
 
@@ -25,7 +26,7 @@ func (Chain) Prepare(ctx context.Context, in Input, s prep.Settings) (Prepared, 
 	if err != nil {
 		return Prepared{}, err
 	}
-	out := Prepared{Section: doc, Summary: p.OneLine()}
+	out := Prepared{Section: doc, Doc: p.Section, Summary: p.OneLine()}
 	if in.PlotFormat != "" {
 		figs, err := p.PrepFigures()
 		if err != nil {
@@ -36,7 +37,7 @@ func (Chain) Prepare(ctx context.Context, in Input, s prep.Settings) (Prepared, 
 			if err != nil {
 				return Prepared{}, err
 			}
-			out.Artifacts = append(out.Artifacts, Artifact{Name: name + "." + in.PlotFormat, MediaType: plot.MediaType(in.PlotFormat), Data: data})
+			out.Artifacts = append(out.Artifacts, stage.Artifact{Name: name + "." + in.PlotFormat, MediaType: plot.MediaType(in.PlotFormat), Data: data})
 		}
 	}
 	return out, nil

@@ -16,6 +16,7 @@ import (
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/pointfile"
 	"github.com/foilwright/foilwright/geometry/section"
+	"github.com/foilwright/foilwright/plugins/stage"
 	"github.com/foilwright/foilwright/prep"
 	"github.com/tidwall/gjson"
 )
@@ -115,11 +116,11 @@ func (r *fakeRegistry) New() (StageRunner, error) {
 	return fr, nil
 }
 
-func (f *fakeRunner) Describe(ctx context.Context, call StageCall) (StageInfo, error) {
+func (f *fakeRunner) Describe(ctx context.Context, call StageCall) (stage.Info, string, error) {
 	if f.closed {
-		return StageInfo{}, errors.New("runner closed")
+		return stage.Info{}, "", errors.New("runner closed")
 	}
-	return StageInfo{Name: call.Stage, Version: f.version, Executable: strings.Repeat("ab", 32)}, nil
+	return stage.Info{Name: call.Stage, Version: f.version}, strings.Repeat("ab", 32), nil
 }
 
 func (f *fakeRunner) Close() error {
@@ -130,32 +131,32 @@ func (f *fakeRunner) Close() error {
 	return nil
 }
 
-func (f *fakeRunner) Run(ctx context.Context, call StageCall, in StageInput) (StageOutput, error) {
+func (f *fakeRunner) Run(ctx context.Context, call StageCall, in stage.Request) (stage.Result, error) {
 	if f.closed {
-		return StageOutput{}, errors.New("runner closed")
+		return stage.Result{}, errors.New("runner closed")
 	}
 	f.calls++
 	sec, err := section.Read(bytes.NewReader(in.Section), "section")
 	if err != nil {
-		return StageOutput{}, err
+		return stage.Result{}, err
 	}
 	params := gjson.ParseBytes(call.Params)
-	result := func(scalars map[string]float64, warnings ...string) (StageOutput, error) {
+	result := func(scalars map[string]float64, warnings ...string) (stage.Result, error) {
 		b, err := json.MarshalIndent(map[string]any{"format": "foilwright.result/1", "stage": call.Stage,
 			"version": f.version, "scalars": scalars, "warnings": warnings}, "", "  ")
-		return StageOutput{Result: b, Warnings: warnings}, err
+		return stage.Result{JSON: b, Warnings: warnings}, err
 	}
 	switch call.Stage {
 	case "area":
 		return result(map[string]float64{"area": shoelace(sec.Nodes) + f.reg.areaAdd})
 	case "scale":
 		if len(in.Deps) != 1 {
-			return StageOutput{}, fmt.Errorf("scale wants one dependency, got %d", len(in.Deps))
+			return stage.Result{}, fmt.Errorf("scale wants one dependency, got %d", len(in.Deps))
 		}
 		for _, dep := range in.Deps {
 			a := gjson.GetBytes(dep, "scalars.area")
 			if !a.Exists() {
-				return StageOutput{}, errors.New("dependency has no area")
+				return stage.Result{}, errors.New("dependency has no area")
 			}
 			return result(map[string]float64{"scaled": params.Get("factor").Float() * a.Float()}, "scaled by the factor")
 		}
@@ -174,19 +175,19 @@ func (f *fakeRunner) Run(ctx context.Context, call StageCall, in StageInput) (St
 		if call.Stage == "badplot" {
 			name = "../shape.svg"
 		}
-		out.Artifacts = []Artifact{{Name: name, MediaType: "image/svg+xml", Data: []byte(b.String())}}
+		out.Artifacts = []stage.Artifact{{Name: name, MediaType: "image/svg+xml", Data: []byte(b.String())}}
 		return out, err
 	case "fail":
-		return StageOutput{}, errors.New("the fake stage fails on purpose")
+		return stage.Result{}, errors.New("the fake stage fails on purpose")
 	case "slow":
 		select {
 		case <-time.After(time.Duration(params.Get("ms").Int()) * time.Millisecond):
 			return result(map[string]float64{})
 		case <-ctx.Done():
-			return StageOutput{}, ctx.Err()
+			return stage.Result{}, ctx.Err()
 		}
 	}
-	return StageOutput{}, fmt.Errorf("unknown stage %q", call.Stage)
+	return stage.Result{}, fmt.Errorf("unknown stage %q", call.Stage)
 }
 
 // shoelace returns the area enclosed by the closed polygon through pts,

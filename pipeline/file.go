@@ -22,13 +22,6 @@ import (
 // the "foilwright" key.
 const FormatVersion = 1
 
-// Document kinds of outputs.documents.
-const (
-	DocSection = "section" // section.json
-	DocNodes   = "nodes"   // nodes.dat
-	DocResults = "results" // results/<stage-id>.json
-)
-
 // Pictures of outputs.plots. Pictures of analysis results come from the
 // built-in "plots" stage, which a pipeline lists among its stages.
 const (
@@ -644,7 +637,7 @@ func (ps *parser) stageTarget(ipath string, val, pin gjson.Result, s *Stage) {
 
 func (ps *parser) outputs(v gjson.Result) {
 	c := ps.c
-	out := Outputs{Documents: []string{DocSection, DocNodes, DocResults}, PlotFormat: "svg"}
+	out := Outputs{Documents: Documents(), PlotFormat: "svg"}
 	defer func() {
 		if out.Folder == "" && ps.p.Name != "" {
 			out.Folder = "runs/" + ps.p.Name
@@ -667,7 +660,7 @@ func (ps *parser) outputs(v gjson.Result) {
 		out.Documents = nil
 		seen := map[string]bool{}
 		c.wantArray("outputs.documents", val, func(_ int, ipath string, d gjson.Result) {
-			if e, ok := c.wantEnum(ipath, d, DocSection, DocNodes, DocResults); ok {
+			if e, ok := c.wantEnum(ipath, d, Documents()...); ok {
 				if seen[e] {
 					c.add(d.Index, ipath, "%q listed twice", e)
 					return

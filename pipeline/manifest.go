@@ -10,6 +10,7 @@ import (
 
 	"github.com/foilwright/foilwright/internal/atomicfile"
 	"github.com/foilwright/foilwright/internal/version"
+	"github.com/foilwright/foilwright/plugins/stage"
 	"github.com/foilwright/foilwright/prep"
 )
 
@@ -102,7 +103,7 @@ type StageTiming struct {
 	S  float64 `json:"s"`
 }
 
-func newManifest(pl *Plan, folder string, infos []StageInfo, results []sectionResult, interrupted bool) *Manifest {
+func newManifest(pl *Plan, folder string, infos []stage.Info, exes []string, results []sectionResult, interrupted bool) *Manifest {
 	p := pl.Pipeline
 	file := p.Path
 	if file == "" {
@@ -130,7 +131,7 @@ func newManifest(pl *Plan, folder string, infos []StageInfo, results []sectionRe
 	for i, st := range pl.Stages {
 		m.Stages = append(m.Stages, StageRecord{
 			ID: st.ID, Stage: st.Stage, Name: infos[i].Name, Version: infos[i].Version,
-			Executable: infos[i].Executable, Pin: st.SHA256, Params: json.RawMessage(st.Params),
+			Executable: exes[i], Pin: st.SHA256, Params: json.RawMessage(st.Params),
 			After: st.After, OnError: st.OnError, TimeoutS: st.TimeoutS,
 		})
 	}

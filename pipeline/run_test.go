@@ -16,6 +16,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/foilwright/foilwright/plugins/stage"
 	"github.com/foilwright/foilwright/prep"
 	"github.com/tidwall/gjson"
 )
@@ -447,7 +448,7 @@ type switched struct {
 	s *switchRunner
 }
 
-func (w *switched) Run(ctx context.Context, call StageCall, in StageInput) (StageOutput, error) {
+func (w *switched) Run(ctx context.Context, call StageCall, in stage.Request) (stage.Result, error) {
 	if call.Stage == "slow" {
 		w.s.seen++
 		switch w.s.seen {
