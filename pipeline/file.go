@@ -458,93 +458,120 @@ func sectionNames(spec InputSpec) []string {
 	return names
 }
 
+// afterRef is one entry of a stage's "after", and where it is written.
+type afterRef struct {
+	id   string
+	path string
+	off  int
+}
+
+// stages reads the "stages" array: each stage, then the dependencies
+// (known ids, no stage after itself, no cycles) and their order.
 func (ps *parser) stages(v gjson.Result) {
-	c := ps.c
 	ids := map[string]int{} // id → offset of its first use
-	type afterRef struct {
-		id   string
-		path string
-		off  int
-	}
-	var refs [][]afterRef // per stage
+	var refs [][]afterRef   // per stage
 	idsOK := true
-	c.wantArray("stages", v, func(i int, ipath string, st gjson.Result) {
-		s := Stage{Params: []byte("{}"), OnError: OnErrorStop}
-		var ar []afterRef
-		defer func() {
-			idsOK = idsOK && s.ID != ""
-			ps.p.Stages = append(ps.p.Stages, s)
-			refs = append(refs, ar)
-		}()
-		vals := map[string]gjson.Result{}
-		if !c.wantObject(ipath, st, stageKeys, func(k, _ string, val gjson.Result) { vals[k] = val }) {
-			return
-		}
-		if val, ok := vals["id"]; !ok {
-			c.add(st.Index, ipath, `missing key "id"`)
-		} else if id, ok := c.wantString(ipath+".id", val, true); ok {
-			first, dup := ids[id]
-			caseOf := ""
-			for other, off := range ids {
-				if !dup && strings.EqualFold(other, id) {
-					// results/<id>.json may not differ only in case.
-					first, dup, caseOf = off, true, other
-				}
-			}
-			switch {
-			case caseOf != "":
-				l, col := c.pos.at(first)
-				c.add(val.Index, ipath+".id", "stage id %q differs only in case from %q (at %d:%d)", id, caseOf, l, col)
-			case !safeName.MatchString(id):
-				c.add(val.Index, ipath+".id", "%q is not a usable stage id (letters, digits, '.', '_', '-'; up to 64, starting with a letter or digit)", id)
-			case dup:
-				l, col := c.pos.at(first)
-				c.add(val.Index, ipath+".id", "duplicate stage id %q (first at %d:%d)", id, l, col)
-			default:
-				ids[id] = val.Index
-				s.ID = id
-			}
-		}
-		if val, ok := vals["stage"]; !ok {
-			c.add(st.Index, ipath, `missing key "stage" (a built-in stage name or an executable path)`)
-		} else if name, ok := c.wantString(ipath+".stage", val, true); ok {
-			s.Stage = name
-			ps.stageTarget(ipath, val, vals["sha256"], &s)
-		}
-		if val, ok := vals["params"]; ok {
-			if c.wantType(ipath+".params", val, "object", val.IsObject()) {
-				c.checkDuplicates(ipath+".params", val)
-				s.Params = []byte(val.Raw)
-			}
-		}
-		if val, ok := vals["after"]; ok {
-			seen := map[string]bool{}
-			c.wantArray(ipath+".after", val, func(_ int, apath string, a gjson.Result) {
-				id, ok := c.wantString(apath, a, true)
-				if !ok {
-					return
-				}
-				if seen[id] {
-					c.add(a.Index, apath, "stage %q listed twice", id)
-					return
-				}
-				seen[id] = true
-				s.After = append(s.After, id)
-				ar = append(ar, afterRef{id, apath, a.Index})
-			})
-		}
-		if val, ok := vals["on_error"]; ok {
-			if e, ok := c.wantEnum(ipath+".on_error", val, OnErrorStop, OnErrorContinue); ok {
-				s.OnError = e
-			}
-		}
-		if val, ok := vals["timeout_s"]; ok {
-			if x, ok := c.wantNumber(ipath+".timeout_s", val, numRange{lo: 0, hi: MaxTimeoutS, loOpen: true}); ok {
-				s.TimeoutS = x
-			}
-		}
+	ps.c.wantArray("stages", v, func(_ int, ipath string, st gjson.Result) {
+		s, ar := ps.stage(ipath, st, ids)
+		idsOK = idsOK && s.ID != ""
+		ps.p.Stages = append(ps.p.Stages, s)
+		refs = append(refs, ar)
 	})
-	// Dependencies: known ids, no stage after itself, no cycles.
+	if !ps.checkAfter(ids, refs) || !idsOK {
+		return
+	}
+	ps.order(ids, refs)
+}
+
+// stage reads one entry of "stages", recording its id in ids, and returns
+// it with its "after" references. A stage with errors is returned too, as
+// far as it was read, so that later stages are numbered right.
+func (ps *parser) stage(ipath string, st gjson.Result, ids map[string]int) (Stage, []afterRef) {
+	c := ps.c
+	s := Stage{Params: []byte("{}"), OnError: OnErrorStop}
+	var ar []afterRef
+	vals := map[string]gjson.Result{}
+	if !c.wantObject(ipath, st, stageKeys, func(k, _ string, val gjson.Result) { vals[k] = val }) {
+		return s, ar
+	}
+	if val, ok := vals["id"]; !ok {
+		c.add(st.Index, ipath, `missing key "id"`)
+	} else if id, ok := c.wantString(ipath+".id", val, true); ok {
+		s.ID = ps.stageID(ipath, val, id, ids)
+	}
+	if val, ok := vals["stage"]; !ok {
+		c.add(st.Index, ipath, `missing key "stage" (a built-in stage name or an executable path)`)
+	} else if name, ok := c.wantString(ipath+".stage", val, true); ok {
+		s.Stage = name
+		ps.stageTarget(ipath, val, vals["sha256"], &s)
+	}
+	if val, ok := vals["params"]; ok {
+		if c.wantType(ipath+".params", val, "object", val.IsObject()) {
+			c.checkDuplicates(ipath+".params", val)
+			s.Params = []byte(val.Raw)
+		}
+	}
+	if val, ok := vals["after"]; ok {
+		seen := map[string]bool{}
+		c.wantArray(ipath+".after", val, func(_ int, apath string, a gjson.Result) {
+			id, ok := c.wantString(apath, a, true)
+			if !ok {
+				return
+			}
+			if seen[id] {
+				c.add(a.Index, apath, "stage %q listed twice", id)
+				return
+			}
+			seen[id] = true
+			s.After = append(s.After, id)
+			ar = append(ar, afterRef{id, apath, a.Index})
+		})
+	}
+	if val, ok := vals["on_error"]; ok {
+		if e, ok := c.wantEnum(ipath+".on_error", val, OnErrorStop, OnErrorContinue); ok {
+			s.OnError = e
+		}
+	}
+	if val, ok := vals["timeout_s"]; ok {
+		if x, ok := c.wantNumber(ipath+".timeout_s", val, numRange{lo: 0, hi: MaxTimeoutS, loOpen: true}); ok {
+			s.TimeoutS = x
+		}
+	}
+	return s, ar
+}
+
+// stageID checks a stage id against those seen (ids) and records it; it
+// returns "" for an id that cannot be used.
+func (ps *parser) stageID(ipath string, val gjson.Result, id string, ids map[string]int) string {
+	c := ps.c
+	first, dup := ids[id]
+	caseOf := ""
+	for other, off := range ids {
+		if !dup && strings.EqualFold(other, id) {
+			// results/<id>.json may not differ only in case.
+			first, dup, caseOf = off, true, other
+		}
+	}
+	switch {
+	case caseOf != "":
+		l, col := c.pos.at(first)
+		c.add(val.Index, ipath+".id", "stage id %q differs only in case from %q (at %d:%d)", id, caseOf, l, col)
+	case !safeName.MatchString(id):
+		c.add(val.Index, ipath+".id", "%q is not a usable stage id (letters, digits, '.', '_', '-'; up to 64, starting with a letter or digit)", id)
+	case dup:
+		l, col := c.pos.at(first)
+		c.add(val.Index, ipath+".id", "duplicate stage id %q (first at %d:%d)", id, l, col)
+	default:
+		ids[id] = val.Index
+		return id
+	}
+	return ""
+}
+
+// checkAfter reports "after" references to unknown ids and to the stage
+// itself, and returns whether there were none.
+func (ps *parser) checkAfter(ids map[string]int, refs [][]afterRef) bool {
+	c := ps.c
 	valid := true
 	for i, ar := range refs {
 		for _, r := range ar {
@@ -558,9 +585,13 @@ func (ps *parser) stages(v gjson.Result) {
 			}
 		}
 	}
-	if !valid || !idsOK {
-		return
-	}
+	return valid
+}
+
+// order puts the stages in dependency order, or reports a cycle at the
+// "after" entry that closes it.
+func (ps *parser) order(ids map[string]int, refs [][]afterRef) {
+	c := ps.c
 	order, cycle := orderStages(ps.p.Stages)
 	if cycle != nil {
 		first := cycle[0]

@@ -164,21 +164,68 @@ func Run(ctx context.Context, pl *Plan, opts RunOptions) (*Summary, error) {
 	jobs = min(jobs, max(len(pl.Sections), 1))
 
 	// One runner per worker; the first also describes the stages.
-	runners := make([]StageRunner, 0, jobs)
+	runners, err := startRunners(pl, opts, jobs)
 	defer func() {
 		for _, r := range runners {
 			r.Close()
 		}
 	}()
-	if len(pl.Stages) > 0 {
-		for range jobs {
-			r, err := opts.NewRunner()
-			if err != nil {
-				return nil, fmt.Errorf("pipeline: start stage runner: %w", err)
-			}
-			runners = append(runners, r)
+	if err != nil {
+		return nil, err
+	}
+	calls, infos, exes, err := describeStages(ctx, pl, runners)
+	if err != nil {
+		return nil, err
+	}
+	results, cancelled := runSections(ctx, pl, folder, calls, opts, runners, jobs)
+
+	sum := &Summary{Folder: folder, Manifest: filepath.Join(folder, ManifestName), Cancelled: cancelled}
+	for i := range results {
+		if results[i].report.Name == "" { // never started
+			results[i].report = SectionReport{Name: pl.Sections[i].Name, Status: StatusCancelled}
+		}
+		sum.Sections = append(sum.Sections, results[i].report)
+	}
+	m := newManifest(pl, folder, infos, exes, results, cancelled)
+	if !cancelled && pl.Pipeline.Outputs.HasPlot(PlotStations) {
+		if err := writeStations(pl, folder, results, m); err != nil {
+			return sum, err
 		}
 	}
+	m.Timings.Jobs = jobs
+	m.Timings.Started = start.UTC().Format(time.RFC3339)
+	m.Timings.TotalS = seconds(time.Since(start))
+	if err := writeManifest(filepath.Join(folder, ManifestName), m); err != nil {
+		return sum, err
+	}
+	if cancelled {
+		return sum, ctx.Err()
+	}
+	return sum, nil
+}
+
+// startRunners makes one stage runner per worker when the pipeline has
+// stages. The runners made so far are returned with an error, for the
+// caller to close.
+func startRunners(pl *Plan, opts RunOptions, jobs int) ([]StageRunner, error) {
+	runners := make([]StageRunner, 0, jobs)
+	if len(pl.Stages) == 0 {
+		return runners, nil
+	}
+	for range jobs {
+		r, err := opts.NewRunner()
+		if err != nil {
+			return runners, fmt.Errorf("pipeline: start stage runner: %w", err)
+		}
+		runners = append(runners, r)
+	}
+	return runners, nil
+}
+
+// describeStages makes the call of every stage and asks the first runner
+// to describe it, for the manifest: its description and the digest of its
+// executable.
+func describeStages(ctx context.Context, pl *Plan, runners []StageRunner) ([]StageCall, []stage.Info, []string, error) {
 	calls := make([]StageCall, len(pl.Stages))
 	infos := make([]stage.Info, len(pl.Stages))
 	exes := make([]string, len(pl.Stages))
@@ -187,13 +234,19 @@ func Run(ctx context.Context, pl *Plan, opts RunOptions) (*Summary, error) {
 		info, exe, err := runners[0].Describe(ctx, calls[i])
 		if err != nil {
 			if ctx.Err() != nil {
-				return nil, ctx.Err()
+				return nil, nil, nil, ctx.Err()
 			}
-			return nil, fmt.Errorf("pipeline: stage %q (%s): %w", st.ID, st.Stage, err)
+			return nil, nil, nil, fmt.Errorf("pipeline: stage %q (%s): %w", st.ID, st.Stage, err)
 		}
 		infos[i], exes[i] = info, exe
 	}
+	return calls, infos, exes, nil
+}
 
+// runSections makes the sections on jobs workers, each with its own
+// runner, and reports whether the run was cancelled. Sections never
+// started have an empty report.
+func runSections(ctx context.Context, pl *Plan, folder string, calls []StageCall, opts RunOptions, runners []StageRunner, jobs int) ([]sectionResult, bool) {
 	results := make([]sectionResult, len(pl.Sections))
 	work := make(chan int)
 	var wg sync.WaitGroup
@@ -226,38 +279,23 @@ feed:
 	}
 	close(work)
 	wg.Wait()
-	cancelled = cancelled || ctx.Err() != nil
+	return results, cancelled || ctx.Err() != nil
+}
 
-	sum := &Summary{Folder: folder, Manifest: filepath.Join(folder, ManifestName), Cancelled: cancelled}
-	for i := range results {
-		if results[i].report.Name == "" { // never started
-			results[i].report = SectionReport{Name: pl.Sections[i].Name, Status: StatusCancelled}
-		}
-		sum.Sections = append(sum.Sections, results[i].report)
+// writeStations writes the run's stations picture, when two or more
+// sections have a station, and records it in m.
+func writeStations(pl *Plan, folder string, results []sectionResult, m *Manifest) error {
+	name, data, err := stationsPlot(pl, results)
+	if err == nil && data != nil {
+		err = atomicfile.WriteBytes(filepath.Join(folder, name), data)
 	}
-	m := newManifest(pl, folder, infos, exes, results, cancelled)
-	if !cancelled && pl.Pipeline.Outputs.HasPlot(PlotStations) {
-		name, data, err := stationsPlot(pl, results)
-		if err == nil && data != nil {
-			err = atomicfile.WriteBytes(filepath.Join(folder, name), data)
-		}
-		if err != nil {
-			return sum, fmt.Errorf("stations plot: %w", err)
-		}
-		if data != nil {
-			m.Outputs[name] = digest.Bytes(data)
-		}
+	if err != nil {
+		return fmt.Errorf("stations plot: %w", err)
 	}
-	m.Timings.Jobs = jobs
-	m.Timings.Started = start.UTC().Format(time.RFC3339)
-	m.Timings.TotalS = seconds(time.Since(start))
-	if err := writeManifest(filepath.Join(folder, ManifestName), m); err != nil {
-		return sum, err
+	if data != nil {
+		m.Outputs[name] = digest.Bytes(data)
 	}
-	if cancelled {
-		return sum, ctx.Err()
-	}
-	return sum, nil
+	return nil
 }
 
 func callOf(st Stage) StageCall {

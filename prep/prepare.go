@@ -149,28 +149,59 @@ func Prepare(name string, files []File, s Settings) (*Preparation, error) {
 		return nil, err
 	}
 	p := &Preparation{Clouds: cl.Clouds, Flatness: cl.Flatness, Clean: cl.Clean, Contour: cl.Contour}
-	contour, rep, plane, names := cl.Contour, cl.Clean, cl.Plane, cl.Files
+	where := strings.Join(cl.Files, ", ")
+	if err := p.fit(cl, s); err != nil {
+		return nil, err
+	}
+	if p.Shape, err = frame.Normalize(p.Curve, edgeOptions(s)); err != nil {
+		return nil, fmt.Errorf("%s: %w", where, err)
+	}
+	rp := panelOptions(s)
+	nodes, le, err := p.repanel(rp)
+	if err != nil {
+		return nil, err
+	}
+	if _, err := section.CheckNodes(nodes); err != nil {
+		return nil, fmt.Errorf("%s: the repanelled section is not usable: %w", where, err)
+	}
+	p.Quality = repanel.Measure(nodes)
+	// The scatter of the points widens the arc of the leading-edge circle
+	// so that noise left in the curve does not upset the radius.
+	po := props.Options{Thickness: s.ThicknessMode, Camber: s.CamberMode, Noise: p.Fit.Scatter / p.Shape.Frame.Chord}
+	if p.Props, p.Camber, err = props.Compute(p.Shape.Path, p.Shape.SLE, po); err != nil {
+		return nil, fmt.Errorf("%s: %w", where, err)
+	}
+	p.Section = p.document(name, cl, nodes, le, rp.Spacing)
+	return p, nil
+}
 
+// fit fits the smoothing spline to the cleaned contour, with the noise and
+// tolerance the settings give.
+func (p *Preparation) fit(cl *Cleaned, s Settings) error {
 	var fo curve.FitOptions
 	switch {
 	case s.Noise == nil:
 	case *s.Noise == 0:
 		fo.Exact = true
 	default:
-		if diag := contourDiagonal(contour); *s.Noise > maxNoiseFraction*diag {
-			return nil, fmt.Errorf("noise %g %s: %w (the points span %.4g %s)", *s.Noise, cl.Units, ErrNoiseTooLarge, diag, cl.Units)
+		if diag := contourDiagonal(cl.Contour); *s.Noise > maxNoiseFraction*diag {
+			return fmt.Errorf("noise %g %s: %w (the points span %.4g %s)", *s.Noise, cl.Units, ErrNoiseTooLarge, diag, cl.Units)
 		}
 		fo.Noise = *s.Noise
 	}
 	if s.FitTol != nil {
 		fo.Tolerance = *s.FitTol
 	}
-	curve, fit, err := curve.Fit(contour, fo)
+	cv, rep, err := curve.Fit(cl.Contour, fo)
 	if err != nil {
-		return nil, fmt.Errorf("%s: %w", strings.Join(names, ", "), err)
+		return fmt.Errorf("%s: %w", strings.Join(cl.Files, ", "), err)
 	}
-	p.Curve, p.Fit = curve, fit
+	p.Curve, p.Fit = cv, rep
+	return nil
+}
 
+// edgeOptions returns the edge and normalisation options of the settings.
+func edgeOptions(s Settings) frame.Options {
 	eo := frame.Options{TE: s.TE, Mirror: s.Mirror}
 	if s.TEBlend != nil {
 		eo.Blend = *s.TEBlend
@@ -179,12 +210,11 @@ func Prepare(name string, files []File, s Settings) (*Preparation, error) {
 		at := geometry.Point{X: s.LEAt[0], Y: s.LEAt[1]}
 		eo.LEAt = &at
 	}
-	shape, err := frame.Normalize(curve, eo)
-	if err != nil {
-		return nil, fmt.Errorf("%s: %w", strings.Join(names, ", "), err)
-	}
-	p.Shape = shape
+	return eo
+}
 
+// panelOptions returns the repanelling options of the settings.
+func panelOptions(s Settings) repanel.Options {
 	rp := repanel.Options{Spacing: s.Spacing}
 	if s.Panels != nil {
 		rp.Panels = *s.Panels
@@ -198,34 +228,32 @@ func Prepare(name string, files []File, s Settings) (*Preparation, error) {
 	if s.CurvatureWeight != nil {
 		rp.CurvatureWeight = *s.CurvatureWeight
 	}
-	ss, le, err := repanel.Stations(shape.Path, shape.SLE, rp)
+	return rp
+}
+
+// repanel places the nodes along the normalised section and returns them
+// with the index of the leading-edge node, which is exactly (0, 0).
+func (p *Preparation) repanel(rp repanel.Options) ([]geometry.Point, int, error) {
+	ss, le, err := repanel.Stations(p.Shape.Path, p.Shape.SLE, rp)
 	if err != nil {
-		return nil, err
+		return nil, 0, err
 	}
 	nodes := make([]geometry.Point, len(ss))
 	for i, sv := range ss {
-		nodes[i] = shape.Path.At(sv)
+		nodes[i] = p.Shape.Path.At(sv)
 	}
 	nodes[le] = geometry.Point{}
-	if _, err := section.CheckNodes(nodes); err != nil {
-		return nil, fmt.Errorf("%s: the repanelled section is not usable: %w", strings.Join(names, ", "), err)
-	}
-	p.Quality = repanel.Measure(nodes)
+	return nodes, le, nil
+}
 
-	// The scatter of the points widens the arc of the leading-edge circle
-	// so that noise left in the curve does not upset the radius.
-	po := props.Options{Thickness: s.ThicknessMode, Camber: s.CamberMode, Noise: fit.Scatter / shape.Frame.Chord}
-	props, camber, err := props.Compute(shape.Path, shape.SLE, po)
-	if err != nil {
-		return nil, fmt.Errorf("%s: %w", strings.Join(names, ", "), err)
-	}
-	p.Props, p.Camber = props, camber
-
-	frame := section.Frame(shape.Frame)
-	frame.Plane = plane
+// document returns the section document of the preparation: the nodes
+// and the record of how they were made, with every warning of the chain.
+func (p *Preparation) document(name string, cl *Cleaned, nodes []geometry.Point, le int, spacing string) *section.Section {
+	fit, shape := p.Fit, p.Shape
+	fr := section.Frame(shape.Frame)
+	fr.Plane = cl.Plane
 	te := section.TrailingEdge(shape.TE)
-	docProps := section.Properties(props.Properties)
-	spacing := rp.Spacing
+	docProps := section.Properties(p.Props.Properties)
 	if spacing == "" {
 		spacing = repanel.LawCosine
 	}
@@ -234,11 +262,11 @@ func Prepare(name string, files []File, s Settings) (*Preparation, error) {
 		Name:   name,
 		Units:  cl.Units,
 		Source: &section.SourceInfo{
-			Files: names, SHA256: cl.SHA256,
-			PointsRead: cl.Read, PointsUsed: contour.Len(),
-			Dropped: DroppedOf(rep),
+			Files: cl.Files, SHA256: cl.SHA256,
+			PointsRead: cl.Read, PointsUsed: cl.Contour.Len(),
+			Dropped: DroppedOf(cl.Clean),
 		},
-		Frame:        &frame,
+		Frame:        &fr,
 		Fit:          &section.FitSummary{Method: fit.Method, RMS: fit.RMS, Max: fit.Max, MaxAt: fit.MaxAt.String(), NoiseEstimate: fit.NoiseEstimate},
 		TrailingEdge: &te,
 		LEIndex:      &le,
@@ -266,11 +294,10 @@ func Prepare(name string, files []File, s Settings) (*Preparation, error) {
 	}
 	sec.Warnings = append(sec.Warnings, shape.Warnings...)
 	sec.Warnings = append(sec.Warnings, p.Quality.Warnings...)
-	p.Section = sec
-	return p, nil
+	return sec
 }
 
-// readOptions turns the reading settings into geometry.ReadOptions.
+// readOptions turns the reading settings into pointfile.Options.
 func readOptions(s Settings) (pointfile.Options, error) {
 	ro := pointfile.Options{Format: s.Format, Columns: s.Columns}
 	if s.Units != "" {

@@ -184,14 +184,55 @@ func Clean(c *geometry.Cloud, opts Options) (*geometry.Contour, *Report, error) 
 		sigma = DefaultOutlierSigma
 	}
 
-	// 1. Merge. src maps the compact index of a kept point to its input index.
+	// 1. Merge.
+	cl := &cleaning{c: c, rep: rep, lo: lo, hi: hi, diag: diag}
+	if err := cl.merge(all, tol); err != nil {
+		return nil, rep, err
+	}
+	// 2. Order.
+	loops, rest, band, err := cl.order()
+	if err != nil {
+		return nil, rep, err
+	}
+	// 3. Pick.
+	seq, err := cl.pick(loops, opts.Loop)
+	if err != nil {
+		return nil, rep, err
+	}
+	// 4. Outliers.
+	if seq, err = cl.outliers(seq, rest, sigma, opts.KeepOutliers, band); err != nil {
+		return nil, rep, err
+	}
+	// 5. Orient.
+	return cl.contour(orient(cl.pts, seq)), rep, nil
+}
+
+// cleaning is one Clean under way: the cloud, the distinct points left
+// after merging (pts, compact) with the input index of each (src), their
+// bounds and neighbours, and the report.
+type cleaning struct {
+	c      *geometry.Cloud
+	rep    *Report
+	lo, hi geometry.Point
+	diag   float64
+	pts    []geometry.Point
+	src    []int32 // src[i] is the input index of pts[i]
+	nb     *nbrs
+}
+
+// merge merges the points within tol of an earlier one (the lowest input
+// index is kept) and keeps the distinct points, in the cloud's order or, for
+// an unordered cloud, along a Morton curve. It refuses too few points and
+// points on one line.
+func (cl *cleaning) merge(all []geometry.Point, tol float64) error {
+	c, rep := cl.c, cl.rep
 	src, pairs := merge(all, tol)
 	for _, m := range pairs {
 		rep.Merged = append(rep.Merged, Merged{Kept: c.Origins[m.kept], Dropped: c.Origins[m.dropped], Distance: m.dist})
 	}
 	m := len(src)
 	if m < minPoints {
-		return nil, rep, fmt.Errorf("geometry: clean: %w: %d distinct point(s) after merging within %.3g, need at least %d", geometry.ErrTooFewPoints, m, tol, minPoints)
+		return fmt.Errorf("geometry: clean: %w: %d distinct point(s) after merging within %.3g, need at least %d", geometry.ErrTooFewPoints, m, tol, minPoints)
 	}
 	if !c.Ordered {
 		localise(all, src)
@@ -200,12 +241,23 @@ func Clean(c *geometry.Cloud, opts Options) (*geometry.Contour, *Report, error) 
 	for i, s := range src {
 		pts[i] = all[s]
 	}
-	if dev, ok := collinear(pts, diag); ok {
-		return nil, rep, fmt.Errorf("geometry: clean: %w: %d points lie within %.3g of one line (extent %.3g)", geometry.ErrCollinear, m, dev, diag)
+	if dev, ok := collinear(pts, cl.diag); ok {
+		return fmt.Errorf("geometry: clean: %w: %d points lie within %.3g of one line (extent %.3g)", geometry.ErrCollinear, m, dev, cl.diag)
 	}
+	cl.pts, cl.src = pts, src
+	return nil
+}
 
-	// 2. Order.
-	nb := neighbours(pts, lo, hi)
+// order orders the points into loops: the file's own runs when every step
+// is a local one, by band projection for a dense noisy band, else by
+// tangent-guided linking and joining. It returns the loops that enclose an
+// area and hold a fair share of the points, the chains and points left
+// over, and, for a band, the half-width of the outlier fits in points.
+func (cl *cleaning) order() (loops, rest [][]int32, band int, err error) {
+	c, rep, pts, src := cl.c, cl.rep, cl.pts, cl.src
+	m := len(pts)
+	cl.nb = neighbours(pts, cl.lo, cl.hi)
+	nb := cl.nb
 	g := newGraph(m)
 	kept := false
 	if c.Ordered {
@@ -222,12 +274,10 @@ func Clean(c *geometry.Cloud, opts Options) (*geometry.Contour, *Report, error) 
 		}
 	}
 	rep.OrderKept = kept
-	var loops, rest [][]int32
-	band := 0 // for a band, the half-width of the outlier fits in points
 	if !kept && isBand(pts, nb) {
 		rep.Band = true
 		var per int
-		loops, rest, per = byBand(pts, nb, lo, hi)
+		loops, rest, per = byBand(pts, nb, cl.lo, cl.hi)
 		band = min(max(fitK, 2*per), maxBandFit)
 	} else {
 		if !kept {
@@ -244,6 +294,7 @@ func Clean(c *geometry.Cloud, opts Options) (*geometry.Contour, *Report, error) 
 	for _, l := range loops {
 		most = max(most, len(l))
 	}
+	diag := cl.diag
 	loops = slices.DeleteFunc(loops, func(l []int32) bool {
 		if math.Abs(area(pts, l)) <= 1e-9*diag*diag || float64(len(l)) < loopShare*float64(most) {
 			rest = append(rest, l)
@@ -252,10 +303,15 @@ func Clean(c *geometry.Cloud, opts Options) (*geometry.Contour, *Report, error) 
 		return false
 	})
 	if len(loops) == 0 {
-		return nil, rep, fmt.Errorf("geometry: clean: %w: %d points form %d open chain(s)", geometry.ErrNoLoop, m, len(rest))
+		return nil, nil, 0, fmt.Errorf("geometry: clean: %w: %d points form %d open chain(s)", geometry.ErrNoLoop, m, len(rest))
 	}
+	return loops, rest, band, nil
+}
 
-	// 3. Pick.
+// pick ranks the loops by enclosed area (ties by the first input point)
+// and returns loop k of the ranking, recording every loop in the report.
+func (cl *cleaning) pick(loops [][]int32, k int) ([]int32, error) {
+	pts, src := cl.pts, cl.src
 	type ranked struct {
 		seq   []int32
 		area  float64
@@ -280,38 +336,45 @@ func Clean(c *geometry.Cloud, opts Options) (*geometry.Contour, *Report, error) 
 		}
 		return int(src[a.first] - src[b.first])
 	})
-	if opts.Loop >= len(rs) {
-		return nil, rep, fmt.Errorf("geometry: clean: %w: loop %d asked for, %d loop(s) found", geometry.ErrNoLoop, opts.Loop, len(rs))
+	if k >= len(rs) {
+		return nil, fmt.Errorf("geometry: clean: %w: loop %d asked for, %d loop(s) found", geometry.ErrNoLoop, k, len(rs))
 	}
 	for i, r := range rs {
-		rep.Loops = append(rep.Loops, LoopInfo{Points: len(r.seq), Area: r.area, Picked: i == opts.Loop, First: c.Origins[src[r.first]]})
+		cl.rep.Loops = append(cl.rep.Loops, LoopInfo{Points: len(r.seq), Area: r.area, Picked: i == k, First: cl.c.Origins[src[r.first]]})
 	}
-	seq := rs[opts.Loop].seq
+	return rs[k].seq, nil
+}
 
-	// 4. Outliers.
-	seq, scale, outs := dropOutliers(pts, seq, sigma, opts.KeepOutliers, band)
+// outliers drops the gross outliers of the loop seq and places the points
+// left over (rest): back into the loop, dropped as outliers, or dropped as
+// stray. Dropped points are recorded in the report, in file order.
+func (cl *cleaning) outliers(seq []int32, rest [][]int32, sigma float64, keep bool, band int) ([]int32, error) {
+	pts, src, rep := cl.pts, cl.src, cl.rep
+	seq, scale, outs := dropOutliers(pts, seq, sigma, keep, band)
 	rep.Sigma = scale
-	seq, extra := placeRest(pts, seq, rest, nb, sigma*scale, scale, opts.KeepOutliers)
+	seq, extra := placeRest(pts, seq, rest, cl.nb, sigma*scale, scale, keep)
 	outs = append(outs, extra...)
 	for _, o := range outs {
 		rep.Dropped = append(rep.Dropped, Drop{
-			Origin: c.Origins[src[o.idx]], Point: pts[o.idx], Reason: o.reason,
+			Origin: cl.c.Origins[src[o.idx]], Point: pts[o.idx], Reason: o.reason,
 			Distance: o.dist, Sigmas: o.sigmas, Kept: o.kept,
 		})
 	}
 	slices.SortFunc(rep.Dropped, func(a, b Drop) int { return originCmp(a.Origin, b.Origin) })
 	if len(seq) < minPoints {
-		return nil, rep, fmt.Errorf("geometry: clean: %w: %d point(s) left in the loop, need at least %d", geometry.ErrTooFewPoints, len(seq), minPoints)
+		return nil, fmt.Errorf("geometry: clean: %w: %d point(s) left in the loop, need at least %d", geometry.ErrTooFewPoints, len(seq), minPoints)
 	}
+	return seq, nil
+}
 
-	// 5. Orient.
-	seq = orient(pts, seq)
-	out := &geometry.Contour{Points: make([]geometry.Point, len(seq)), Origins: make([]geometry.Origin, len(seq)), Units: c.Units}
+// contour returns the contour of the loop seq, with each point's origin.
+func (cl *cleaning) contour(seq []int32) *geometry.Contour {
+	out := &geometry.Contour{Points: make([]geometry.Point, len(seq)), Origins: make([]geometry.Origin, len(seq)), Units: cl.c.Units}
 	for k, i := range seq {
-		out.Points[k] = pts[i]
-		out.Origins[k] = c.Origins[src[i]]
+		out.Points[k] = cl.pts[i]
+		out.Origins[k] = cl.c.Origins[cl.src[i]]
 	}
-	return out, rep, nil
+	return out
 }
 
 // originCmp orders origins by file, line and entity.

@@ -397,29 +397,9 @@ const endWeight = 1e4
 // points, ErrNonFinite for NaN or infinite coordinates and ErrCollinear for
 // points on a line.
 func Fit(c *geometry.Contour, opts FitOptions) (*Curve, *FitReport, error) {
-	n := c.Len()
-	if n < splineMinKnots {
-		return nil, nil, fmt.Errorf("geometry: fit: %w: %d point(s), need at least %d", geometry.ErrTooFewPoints, n, splineMinKnots)
-	}
-	for i, p := range c.Points {
-		if !p.IsFinite() {
-			return nil, nil, fmt.Errorf("geometry: fit: point %d (%s): %w", i, originOf(c, i), geometry.ErrNonFinite)
-		}
-	}
-	if opts.Noise < 0 || math.IsNaN(opts.Noise) || math.IsInf(opts.Noise, 0) {
-		return nil, nil, fmt.Errorf("geometry: fit: noise %g: want 0 or a positive length", opts.Noise)
-	}
-	switch opts.Ends {
-	case FitEndsAuto, FitEndsClosed, FitEndsOpen:
-	default:
-		return nil, nil, fmt.Errorf("geometry: fit: ends %q: want closed or open", opts.Ends)
-	}
-	var perim float64
-	for i := range c.Points {
-		perim += c.Points[i].Dist(c.Points[(i+1)%n])
-	}
-	if a := geometry.SignedArea(c.Points); math.Abs(a) <= 1e-9*perim*perim {
-		return nil, nil, fmt.Errorf("geometry: fit: %w", geometry.ErrCollinear)
+	perim, err := checkContour(c, opts)
+	if err != nil {
+		return nil, nil, err
 	}
 	// The scatter sets the scale at which corners are sought; it is not
 	// needed when interpolating exactly.
@@ -430,31 +410,9 @@ func Fit(c *geometry.Contour, opts FitOptions) (*Curve, *FitReport, error) {
 	ends := detectEnds(c.Points, opts.Ends, scatter)
 	rep0Scatter := scatter
 
-	// Data in fit order, without coincident neighbours. knot[i] is the data
-	// index of contour point i (−1 for base points).
-	knot := make([]int, n)
-	for i := range knot {
-		knot[i] = -1
-	}
-	var pts []geometry.Point
-	for _, ci := range ends.order {
-		p := c.Points[ci]
-		if len(pts) > 0 && p.Dist(pts[len(pts)-1]) <= 1e-12*perim {
-			if knot[ci] < 0 {
-				knot[ci] = len(pts) - 1
-			}
-			continue
-		}
-		if knot[ci] < 0 {
-			knot[ci] = len(pts)
-		}
-		pts = append(pts, p)
-	}
-	if !ends.open && len(pts) > 1 && pts[len(pts)-1].Dist(pts[0]) <= 1e-12*perim {
-		pts = pts[:len(pts)-1]
-	}
-	if len(pts) < splineMinKnots {
-		return nil, nil, fmt.Errorf("geometry: fit: %w: %d distinct point(s), need at least %d", geometry.ErrTooFewPoints, len(pts), splineMinKnots)
+	pts, knot, err := fitOrder(c, ends, perim)
+	if err != nil {
+		return nil, nil, err
 	}
 	m := len(pts)
 	ws := make([]float64, m)
@@ -530,9 +488,79 @@ func Fit(c *geometry.Contour, opts FitOptions) (*Curve, *FitReport, error) {
 			break
 		}
 	}
+	finishReport(c, opts, len(pts), rep)
+	return cv, rep, nil
+}
+
+// checkContour checks the contour and options Fit is given and returns
+// the perimeter of the contour.
+func checkContour(c *geometry.Contour, opts FitOptions) (float64, error) {
+	n := c.Len()
+	if n < splineMinKnots {
+		return 0, fmt.Errorf("geometry: fit: %w: %d point(s), need at least %d", geometry.ErrTooFewPoints, n, splineMinKnots)
+	}
+	for i, p := range c.Points {
+		if !p.IsFinite() {
+			return 0, fmt.Errorf("geometry: fit: point %d (%s): %w", i, originOf(c, i), geometry.ErrNonFinite)
+		}
+	}
+	if opts.Noise < 0 || math.IsNaN(opts.Noise) || math.IsInf(opts.Noise, 0) {
+		return 0, fmt.Errorf("geometry: fit: noise %g: want 0 or a positive length", opts.Noise)
+	}
+	switch opts.Ends {
+	case FitEndsAuto, FitEndsClosed, FitEndsOpen:
+	default:
+		return 0, fmt.Errorf("geometry: fit: ends %q: want closed or open", opts.Ends)
+	}
+	var perim float64
+	for i := range c.Points {
+		perim += c.Points[i].Dist(c.Points[(i+1)%n])
+	}
+	if a := geometry.SignedArea(c.Points); math.Abs(a) <= 1e-9*perim*perim {
+		return 0, fmt.Errorf("geometry: fit: %w", geometry.ErrCollinear)
+	}
+	return perim, nil
+}
+
+// fitOrder returns the contour points in fit order (ends.order) without
+// coincident neighbours, and knot[i], the index among them of contour
+// point i (−1 for points on a blunt base).
+func fitOrder(c *geometry.Contour, ends trailingEnds, perim float64) ([]geometry.Point, []int, error) {
+	n := c.Len()
+	knot := make([]int, n)
+	for i := range knot {
+		knot[i] = -1
+	}
+	var pts []geometry.Point
+	for _, ci := range ends.order {
+		p := c.Points[ci]
+		if len(pts) > 0 && p.Dist(pts[len(pts)-1]) <= 1e-12*perim {
+			if knot[ci] < 0 {
+				knot[ci] = len(pts) - 1
+			}
+			continue
+		}
+		if knot[ci] < 0 {
+			knot[ci] = len(pts)
+		}
+		pts = append(pts, p)
+	}
+	if !ends.open && len(pts) > 1 && pts[len(pts)-1].Dist(pts[0]) <= 1e-12*perim {
+		pts = pts[:len(pts)-1]
+	}
+	if len(pts) < splineMinKnots {
+		return nil, nil, fmt.Errorf("geometry: fit: %w: %d distinct point(s), need at least %d", geometry.ErrTooFewPoints, len(pts), splineMinKnots)
+	}
+	return pts, knot, nil
+}
+
+// finishReport completes rep once the fit is done: the noise estimate,
+// the points beyond the tolerance and the warnings, each once. n is the
+// number of points fitted.
+func finishReport(c *geometry.Contour, opts FitOptions, n int, rep *FitReport) {
 	// The estimate means little when the curve takes up nearly all the
 	// freedom of the points (nearly interpolating): then it is left at 0.
-	if dof := 1 - rep.EffectiveParams/float64(len(pts)); !opts.Exact && dof >= 0.1 {
+	if dof := 1 - rep.EffectiveParams/float64(n); !opts.Exact && dof >= 0.1 {
 		rep.NoiseEstimate = rep.RMS / math.Sqrt(dof)
 	}
 	rep.Beyond = nil
@@ -555,7 +583,6 @@ func Fit(c *geometry.Contour, opts FitOptions) (*Curve, *FitReport, error) {
 	if len(rep.Beyond) > 0 {
 		rep.Warnings = append(rep.Warnings, fmt.Sprintf("%d point(s) farther than %.3g from the curve (worst %.3g at %s)", len(rep.Beyond), rep.Tolerance, rep.Max, rep.MaxAt))
 	}
-	return cv, rep, nil
 }
 
 // knotU returns the local parameter of knot j on its piece (0, or the end

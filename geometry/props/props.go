@@ -235,72 +235,99 @@ func Compute(p geometry.Path, sLE float64, opts Options) (*SectionProperties, *C
 		return nil, nil, fmt.Errorf("geometry: %w: surfaces end at x = %.4g, leading edge at (%.4g, %.4g)", ErrNotNormalized, xEnd, c.At(sLE).X, c.At(sLE).Y)
 	}
 	sp := &SectionProperties{ThicknessMode: opts.Thickness, CamberMode: opts.Camber}
-	up, lo := sides(c, sLE)
-	yu := func(x float64) float64 { _, _, p, _ := up.atX(x); return p.Y }
-	yl := func(x float64) float64 { _, _, p, _ := lo.atX(x); return p.Y }
-	camber := func(x float64) float64 { return (yu(x) + yl(x)) / 2 }
+	o := outline{c: c, xEnd: xEnd}
+	o.up, o.lo = sides(c, sLE)
 	st := make([]float64, opts.Stations+1)
 	for k := range st {
 		st[k] = xEnd * (1 - math.Cos(math.Pi*float64(k)/float64(opts.Stations))) / 2
 	}
-	cl := &CamberLine{Mode: opts.Camber}
-
-	// Thickness.
-	var thick func(x float64) float64
-	if opts.Thickness == ThicknessChord {
-		thick = func(x float64) float64 { return yu(x) - yl(x) }
-	} else {
-		thick = func(x float64) float64 {
-			const dx = 1e-4
-			xa, xb := math.Max(0, x-dx), math.Min(xEnd, x+dx)
-			slope := (camber(xb) - camber(xa)) / (xb - xa)
-			m := geometry.Point{X: x, Y: camber(x)}
-			t := geometry.Point{X: 1, Y: slope}.Scale(1 / math.Hypot(1, slope))
-			along := func(p geometry.Point) float64 { return p.Sub(m).Dot(t) }
-			_, _, pu, ok1 := up.cross(along)
-			_, _, pl, ok2 := lo.cross(along)
-			if !ok1 || !ok2 {
-				return 0 // the normal misses a surface
-			}
-			return pu.Dist(pl)
-		}
-	}
+	thick := o.thickness(opts.Thickness)
 	sp.Thickness, sp.ThicknessAt = maxOn(thick, st[1:len(st)-1])
+	cl := o.camberLine(opts.Camber, st, thick, sp)
+	sp.LECenter, sp.LERadius = leCircle(c, sLE, opts.Noise)
+	trailingEdge(c, sp)
+	if err := areaAndMoments(c, sp); err != nil {
+		return nil, nil, err
+	}
+	return sp, cl, nil
+}
 
-	// Camber.
-	if opts.Camber == CamberMean {
+// outline is a normalised section split at its leading edge into its
+// upper and lower side, whose surfaces end at chord station xEnd.
+type outline struct {
+	c      *curve.Curve
+	up, lo side
+	xEnd   float64
+}
+
+func (o outline) yu(x float64) float64     { _, _, p, _ := o.up.atX(x); return p.Y }
+func (o outline) yl(x float64) float64     { _, _, p, _ := o.lo.atX(x); return p.Y }
+func (o outline) camber(x float64) float64 { return (o.yu(x) + o.yl(x)) / 2 }
+
+// thickness returns the thickness at chord station x in the given mode:
+// yᵤ(x) − yₗ(x), or the distance between the surfaces along the normal to
+// the mean camber line.
+func (o outline) thickness(mode string) func(x float64) float64 {
+	if mode == ThicknessChord {
+		return func(x float64) float64 { return o.yu(x) - o.yl(x) }
+	}
+	return func(x float64) float64 {
+		const dx = 1e-4
+		xa, xb := math.Max(0, x-dx), math.Min(o.xEnd, x+dx)
+		slope := (o.camber(xb) - o.camber(xa)) / (xb - xa)
+		m := geometry.Point{X: x, Y: o.camber(x)}
+		t := geometry.Point{X: 1, Y: slope}.Scale(1 / math.Hypot(1, slope))
+		along := func(p geometry.Point) float64 { return p.Sub(m).Dot(t) }
+		_, _, pu, ok1 := o.up.cross(along)
+		_, _, pl, ok2 := o.lo.cross(along)
+		if !ok1 || !ok2 {
+			return 0 // the normal misses a surface
+		}
+		return pu.Dist(pl)
+	}
+}
+
+// camberLine returns the camber line at the stations st in the given mode
+// (the mean of the surfaces, or the centres of inscribed circles) and
+// records the maximum camber and where it is in sp.
+func (o outline) camberLine(mode string, st []float64, thick func(float64) float64, sp *SectionProperties) *CamberLine {
+	cl := &CamberLine{Mode: mode}
+	if mode == CamberMean {
 		for _, x := range st {
 			cl.X = append(cl.X, x)
-			cl.Y = append(cl.Y, camber(x))
+			cl.Y = append(cl.Y, o.camber(x))
 			cl.Thickness = append(cl.Thickness, thick(x))
 		}
-		abs := func(x float64) float64 { return math.Abs(camber(x)) }
+		abs := func(x float64) float64 { return math.Abs(o.camber(x)) }
 		_, at := maxOn(abs, st[1:len(st)-1])
-		at = vertex(abs, at, math.Min(camberWindow, math.Min(at, xEnd-at)))
-		sp.Camber, sp.CamberAt = camber(at), at
-	} else {
-		best := -1
-		for _, x := range st[1 : len(st)-1] {
-			if x < 0.005 || x > xEnd-0.005 {
-				continue
-			}
-			m, d := inscribed(c, up, lo, geometry.Point{X: x, Y: camber(x)}, x)
-			cl.X = append(cl.X, m.X)
-			cl.Y = append(cl.Y, m.Y)
-			cl.Thickness = append(cl.Thickness, d)
-			if best < 0 || math.Abs(m.Y) > math.Abs(cl.Y[best]) {
-				best = len(cl.Y) - 1
-			}
+		at = vertex(abs, at, math.Min(camberWindow, math.Min(at, o.xEnd-at)))
+		sp.Camber, sp.CamberAt = o.camber(at), at
+		return cl
+	}
+	best := -1
+	for _, x := range st[1 : len(st)-1] {
+		if x < 0.005 || x > o.xEnd-0.005 {
+			continue
 		}
-		if best >= 0 {
-			sp.Camber, sp.CamberAt = cl.Y[best], cl.X[best]
+		m, d := inscribed(o.c, o.up, o.lo, geometry.Point{X: x, Y: o.camber(x)}, x)
+		cl.X = append(cl.X, m.X)
+		cl.Y = append(cl.Y, m.Y)
+		cl.Thickness = append(cl.Thickness, d)
+		if best < 0 || math.Abs(m.Y) > math.Abs(cl.Y[best]) {
+			best = len(cl.Y) - 1
 		}
 	}
+	if best >= 0 {
+		sp.Camber, sp.CamberAt = cl.Y[best], cl.X[best]
+	}
+	return cl
+}
 
-	// Leading-edge radius.
-	sp.LECenter, sp.LERadius = leCircle(c, sLE, opts.Noise)
-
-	// Trailing edge.
+// trailingEdge records the trailing-edge thickness and included angle of
+// c in sp: between the end tangents, or for a kept rounded edge (a path
+// smooth through the tip) between the surfaces just ahead of the rounding.
+func trailingEdge(c *curve.Curve, sp *SectionProperties) {
+	L := c.Length()
 	sp.TEThickness = c.Start().Dist(c.End())
 	tu, tl := c.Tangent(0), c.Tangent(L).Scale(-1)
 	sp.TEAngleDeg = math.Acos(math.Max(-1, math.Min(1, tu.Dot(tl)))) * 180 / math.Pi
@@ -313,11 +340,15 @@ func Compute(p geometry.Path, sLE float64, opts Options) (*SectionProperties, *C
 			sp.TEThickness = r.Thickness
 		}
 	}
+}
 
-	// Area and moments.
+// areaAndMoments records the area, centroid, second moments about the
+// centroid, principal moments and perimeter of c in sp. It returns an
+// error wrapping ErrNotNormalized when the area is not positive.
+func areaAndMoments(c *curve.Curve, sp *SectionProperties) error {
 	g := c.AreaIntegrals()
 	if !(g.A > 0) {
-		return nil, nil, fmt.Errorf("geometry: %w: enclosed area %g is not positive (not counter-clockwise?)", ErrNotNormalized, g.A)
+		return fmt.Errorf("geometry: %w: enclosed area %g is not positive (not counter-clockwise?)", ErrNotNormalized, g.A)
 	}
 	sp.Area = g.A
 	cx, cy := g.Sx/g.A, g.Sy/g.A
@@ -329,8 +360,8 @@ func Compute(p geometry.Path, sLE float64, opts Options) (*SectionProperties, *C
 	r := math.Hypot(half, sp.Ixy)
 	sp.Imin, sp.Imax = mean-r, mean+r
 	sp.PrincipalDeg = 0.5 * math.Atan2(2*sp.Ixy, sp.Iyy-sp.Ixx) * 180 / math.Pi
-	sp.Perimeter = L + c.Start().Dist(c.End())
-	return sp, cl, nil
+	sp.Perimeter = c.Length() + c.Start().Dist(c.End())
+	return nil
 }
 
 // maxOn returns the maximum of f and where it is: the best of the
