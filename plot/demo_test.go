@@ -10,7 +10,7 @@ import (
 )
 
 // The demo data of these tests is invented: NACA 2412 sections from the
-// NACA Report 824 equations (geometry.NACA4) with invented noise and
+// NACA Report 824 equations (shape.NACA4) with invented noise and
 // invented probe slips, the exact potential flow about a Joukowski section,
 // thin-aerofoil theory integrals, and invented blade stations.
 

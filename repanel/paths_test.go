@@ -86,7 +86,7 @@ func (p *polyline) Curvature(s float64) float64 {
 }
 
 // naca0012 returns the NACA 0012 section with the closed trailing edge
-// (NACA Report 824 equations, geometry.NACA4) as a dense polyline Path of
+// (NACA Report 824 equations, shape.NACA4) as a dense polyline Path of
 // 4001 points, and the arc length of its leading edge.
 func naca0012() (*polyline, float64) {
 	const per = 2000

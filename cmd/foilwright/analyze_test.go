@@ -37,7 +37,7 @@ func run(t *testing.T, stdin string, args ...string) (int, string, string) {
 }
 
 // writeSection writes a NACA 4-digit section document (NACA Report 824
-// equations, geometry.NACA4) with 2·perSurface cosine-spaced panels.
+// equations, shape.NACA4) with 2·perSurface cosine-spaced panels.
 func writeSection(t *testing.T, dir, code string, perSurface int) string {
 	t.Helper()
 	n, err := shape.ParseNACA4(code)

@@ -281,7 +281,7 @@ func TestNormalizeIdempotent(t *testing.T) {
 }
 
 func TestNormalizeNACA4Loop(t *testing.T) {
-	// The cosine-spaced loop of geometry.NACA4 (NACA Report 824 equations),
+	// The cosine-spaced loop of shape.NACA4 (NACA Report 824 equations),
 	// noise-free and interpolated: the open edge is blunt with thickness
 	// 2·yt(1) = 0.00252 of the Report 824 chord, and the chord is the
 	// farthest-point distance.

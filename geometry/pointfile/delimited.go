@@ -15,11 +15,11 @@ import (
 // Lines starting with #, // or ; are comments; text lines (a title, a column
 // header) are skipped. Every skipped line becomes a Note with its reason.
 
-// delimDetectSep returns the field separator of s (' ' for runs of blanks,
+// detectSeparator returns the field separator of s (' ' for runs of blanks,
 // ',', ';' or '\t') and whether a decimal comma is allowed, judged from the
 // first lines that start like a number. Characters inside double quotes
 // (a quoted file name) do not count.
-func delimDetectSep(s string) (sep byte, decComma bool) {
+func detectSeparator(s string) (sep byte, decComma bool) {
 	var semi, tab, comma, commaSpaced, commaInNumber bool
 	lines := lineScanner{s: s}
 	for seen := 0; seen < 100; {
@@ -28,7 +28,7 @@ func delimDetectSep(s string) (sep byte, decComma bool) {
 			break
 		}
 		t := strings.TrimSpace(line)
-		if u := strings.TrimLeft(t, "\""); u == "" || !delimNumberStart(u[0]) {
+		if u := strings.TrimLeft(t, "\""); u == "" || !numberStart(u[0]) {
 			continue
 		}
 		seen++
@@ -50,7 +50,7 @@ func delimDetectSep(s string) (sep byte, decComma bool) {
 				if i > 0 && (t[i-1] == ' ' || t[i-1] == '\t') || i+1 < len(t) && (t[i+1] == ' ' || t[i+1] == '\t') {
 					commaSpaced = true
 				}
-				if i > 0 && i+1 < len(t) && delimDigit(t[i-1]) && delimDigit(t[i+1]) {
+				if i > 0 && i+1 < len(t) && isDigit(t[i-1]) && isDigit(t[i+1]) {
 					commaInNumber = true
 				}
 			}
@@ -69,17 +69,17 @@ func delimDetectSep(s string) (sep byte, decComma bool) {
 	return ' ', false
 }
 
-func delimDigit(c byte) bool { return c >= '0' && c <= '9' }
+func isDigit(c byte) bool { return c >= '0' && c <= '9' }
 
-// delimNumberStart reports whether a field starting with c may be a number.
-func delimNumberStart(c byte) bool {
-	return delimDigit(c) || c == '-' || c == '+' || c == '.'
+// numberStart reports whether a field starting with c may be a number.
+func numberStart(c byte) bool {
+	return isDigit(c) || c == '-' || c == '+' || c == '.'
 }
 
-// delimSplit splits line into fields, appending to fields[:0]. Blank and
+// splitFields splits line into fields, appending to fields[:0]. Blank and
 // tab separators split at runs of blanks; ',' and ';' split at each
 // separator and trim the fields.
-func delimSplit(line string, sep byte, fields []string) []string {
+func splitFields(line string, sep byte, fields []string) []string {
 	fields = fields[:0]
 	if sep == ' ' || sep == '\t' {
 		i, n := 0, len(line)
@@ -120,7 +120,7 @@ func parseNumber(f string, decComma bool) (v float64, ok bool) {
 		return 0, false
 	}
 	switch c := f[0]; {
-	case delimNumberStart(c), c == 'i', c == 'I', c == 'n', c == 'N':
+	case numberStart(c), c == 'i', c == 'I', c == 'n', c == 'N':
 	default:
 		return 0, false
 	}
@@ -147,14 +147,14 @@ func parseNumber(f string, decComma bool) (v float64, ok bool) {
 	return v, true
 }
 
-// delimIsComment reports whether the trimmed line t is a comment.
-func delimIsComment(t string) bool {
+// isComment reports whether the trimmed line t is a comment.
+func isComment(t string) bool {
 	return t[0] == '#' || t[0] == ';' || strings.HasPrefix(t, "//")
 }
 
-// delimCommentUnit returns the unit a comment states, as in "# units: mm"
+// commentUnit returns the unit a comment states, as in "# units: mm"
 // or "// unit = in", or "" when it states none.
-func delimCommentUnit(t string) string {
+func commentUnit(t string) string {
 	t = strings.TrimLeft(t, "#/; \t")
 	if len(t) < 4 || !strings.EqualFold(t[:4], "unit") {
 		return ""
@@ -174,9 +174,9 @@ func delimCommentUnit(t string) string {
 	return strings.Trim(f[0], ".,;")
 }
 
-// delimHeaderField splits a header field such as "X [mm]" or "y (in)" into
+// headerField splits a header field such as "X [mm]" or "y (in)" into
 // its lower-case name and unit ("" when there is none).
-func delimHeaderField(f string) (name, unit string) {
+func headerField(f string) (name, unit string) {
 	f = strings.TrimSpace(strings.Trim(strings.TrimSpace(f), "\"'"))
 	for _, br := range [...]string{"[]", "()"} {
 		if n := len(f); n > 0 && f[n-1] == br[1] {
@@ -188,9 +188,9 @@ func delimHeaderField(f string) (name, unit string) {
 	return strings.ToLower(f), ""
 }
 
-// delimJoinUnits glues a blank-separated unit decoration ("x [mm]") back to
+// joinUnits glues a blank-separated unit decoration ("x [mm]") back to
 // its name, so that a header splits into one field per column.
-func delimJoinUnits(fields []string) []string {
+func joinUnits(fields []string) []string {
 	out := make([]string, 0, len(fields))
 	for _, f := range fields {
 		if len(out) > 0 && f != "" && (f[0] == '[' || f[0] == '(') {
@@ -202,8 +202,8 @@ func delimJoinUnits(fields []string) []string {
 	return out
 }
 
-// delimParseColumns parses the Columns option: 0-based indices, or names.
-func delimParseColumns(s string) (idx []int, names []string, err error) {
+// parseColumns parses the Columns option: 0-based indices, or names.
+func parseColumns(s string) (idx []int, names []string, err error) {
 	if strings.TrimSpace(s) == "" {
 		return nil, nil, nil
 	}
@@ -223,7 +223,7 @@ func delimParseColumns(s string) (idx []int, names []string, err error) {
 			idx = append(idx, k-1)
 			continue
 		}
-		name, _ := delimHeaderField(p)
+		name, _ := headerField(p)
 		names = append(names, name)
 	}
 	if idx != nil && names != nil {
@@ -240,8 +240,8 @@ func delimParseColumns(s string) (idx []int, names []string, err error) {
 	return idx, names, nil
 }
 
-// delimReader holds the state of reading one delimited file.
-type delimReader struct {
+// delimitedReader holds the state of reading one delimited file.
+type delimitedReader struct {
 	name     string
 	sep      byte
 	decComma bool
@@ -263,12 +263,12 @@ type delimReader struct {
 
 // readDelimited reads delimited text s. columns is Options.Columns.
 func readDelimited(s, name, columns string) (*geometry.Cloud, statedUnit, error) {
-	idx, names, err := delimParseColumns(columns)
+	idx, names, err := parseColumns(columns)
 	if err != nil {
 		return nil, statedUnit{}, err
 	}
-	d := &delimReader{name: name, cols: idx, names: names, explicit: idx != nil || names != nil, headerNote: -1}
-	d.sep, d.decComma = delimDetectSep(s)
+	d := &delimitedReader{name: name, cols: idx, names: names, explicit: idx != nil || names != nil, headerNote: -1}
+	d.sep, d.decComma = detectSeparator(s)
 	n := strings.Count(s, "\n") + 1
 	c := &geometry.Cloud{Format: FormatDelimited, Points: make([]geometry.Vec3, 0, n), Origins: make([]geometry.Origin, 0, n)}
 	var fields []string
@@ -282,8 +282,8 @@ func readDelimited(s, name, columns string) (*geometry.Cloud, statedUnit, error)
 		if t == "" {
 			continue
 		}
-		if delimIsComment(t) {
-			if u := delimCommentUnit(t); u != "" {
+		if isComment(t) {
+			if u := commentUnit(t); u != "" {
 				if err := d.unit.set(name, no, u); err != nil {
 					return nil, d.unit, err
 				}
@@ -291,7 +291,7 @@ func readDelimited(s, name, columns string) (*geometry.Cloud, statedUnit, error)
 			d.notes.Add(name, no, "comment", t)
 			continue
 		}
-		fields = delimSplit(t, d.sep, fields)
+		fields = splitFields(t, d.sep, fields)
 		if d.cols == nil {
 			isData, err := d.resolve(fields, no, t)
 			if err != nil {
@@ -330,13 +330,13 @@ func readDelimited(s, name, columns string) (*geometry.Cloud, statedUnit, error)
 // the columns from a header naming them (names asked for) or from the first
 // line of 2 or 3 leading numbers (no columns asked for), and reports whether
 // the line is a data line.
-func (d *delimReader) resolve(fields []string, no int, t string) (bool, error) {
+func (d *delimitedReader) resolve(fields []string, no int, t string) (bool, error) {
 	if d.names != nil {
-		hdr := delimJoinUnits(fields)
+		hdr := joinUnits(fields)
 		cols := make([]int, 0, len(d.names))
 		for _, want := range d.names {
 			for i, f := range hdr {
-				if name, _ := delimHeaderField(f); name == want {
+				if name, _ := headerField(f); name == want {
 					cols = append(cols, i)
 					break
 				}
@@ -383,7 +383,7 @@ func (d *delimReader) resolve(fields []string, no int, t string) (bool, error) {
 }
 
 // text records a line that holds no coordinates.
-func (d *delimReader) text(fields []string, no int, t string) {
+func (d *delimitedReader) text(fields []string, no int, t string) {
 	if d.started {
 		d.notes.Add(d.name, no, "text line among the data", t)
 		return
@@ -391,7 +391,7 @@ func (d *delimReader) text(fields []string, no int, t string) {
 	if d.title == "" {
 		d.title, d.titleLine = geometry.Excerpt(t), no
 	}
-	d.header, d.headerLine = delimJoinUnits(fields), no
+	d.header, d.headerLine = joinUnits(fields), no
 	d.headerNote = len(d.notes.Kept())
 	if d.headerNote >= geometry.MaxNotes {
 		d.headerNote = -1
@@ -402,12 +402,12 @@ func (d *delimReader) text(fields []string, no int, t string) {
 // start is called at the first data line: it takes the last text line
 // before it as the column header when it has a field for every chosen
 // column and no number, and reads units from it.
-func (d *delimReader) start() error {
+func (d *delimitedReader) start() error {
 	d.started = true
 	if d.named {
 		return nil // the header was found and read by resolve
 	}
-	if d.header == nil || len(d.header) <= delimMaxCol(d.cols) {
+	if d.header == nil || len(d.header) <= maxColumn(d.cols) {
 		d.header = nil
 		return nil
 	}
@@ -427,12 +427,12 @@ func (d *delimReader) start() error {
 }
 
 // headerUnits reads the unit decorations of the chosen header fields.
-func (d *delimReader) headerUnits() error {
+func (d *delimitedReader) headerUnits() error {
 	for _, col := range d.cols {
 		if col >= len(d.header) {
 			continue
 		}
-		if _, u := delimHeaderField(d.header[col]); u != "" {
+		if _, u := headerField(d.header[col]); u != "" {
 			if err := d.unit.set(d.name, d.headerLine, u); err != nil {
 				return err
 			}
@@ -445,7 +445,7 @@ func (d *delimReader) headerUnits() error {
 // that holds none of them as numbers (a text line); a line holding some of
 // them but not all is an error once the data has started, or when every
 // field of the line is a number (the column does not exist).
-func (d *delimReader) point(fields []string, no int) (p geometry.Vec3, isData bool, err error) {
+func (d *delimitedReader) point(fields []string, no int) (p geometry.Vec3, isData bool, err error) {
 	var v [3]float64
 	got := 0
 	bad, missing := -1, -1
@@ -491,7 +491,7 @@ func (d *delimReader) point(fields []string, no int) (p geometry.Vec3, isData bo
 }
 
 // allNumbers reports whether every field is a number.
-func (d *delimReader) allNumbers(fields []string) bool {
+func (d *delimitedReader) allNumbers(fields []string) bool {
 	for _, f := range fields {
 		if _, num := parseNumber(f, d.decComma); !num {
 			return false
@@ -500,8 +500,8 @@ func (d *delimReader) allNumbers(fields []string) bool {
 	return true
 }
 
-// delimMaxCol returns the largest of the non-empty xs.
-func delimMaxCol(xs []int) int {
+// maxColumn returns the largest of the non-empty xs.
+func maxColumn(xs []int) int {
 	m := xs[0]
 	for _, x := range xs[1:] {
 		m = max(m, x)

@@ -185,12 +185,12 @@ func detectListing(s string) string {
 // listingIsHeader reports whether a first line is a column header ("x y",
 // "X [mm], Y [mm]") rather than a name.
 func listingIsHeader(t string) bool {
-	f := delimJoinUnits(strings.FieldsFunc(t, func(r rune) bool { return r == ' ' || r == '\t' || r == ',' || r == ';' }))
+	f := joinUnits(strings.FieldsFunc(t, func(r rune) bool { return r == ' ' || r == '\t' || r == ',' || r == ';' }))
 	if len(f) < 2 {
 		return false
 	}
 	for _, x := range f {
-		switch name, _ := delimHeaderField(x); name {
+		switch name, _ := headerField(x); name {
 		case "x", "y", "z", "u", "v", "n", "i", "no", "id", "point":
 		default:
 			return false

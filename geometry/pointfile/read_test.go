@@ -10,7 +10,7 @@ import (
 )
 
 // TestReadSameSection reads the NACA 2412 section (equations of NACA Report
-// 824, via geometry.NACA4) from every plain listing, every DXF entity kind
+// 824, via shape.NACA4) from every plain listing, every DXF entity kind
 // and the delimited fixtures, and checks that all give the same points in
 // the package node order, exactly: all fixtures write the same 6-decimal
 // numbers, so any difference is a reader error.

@@ -18,7 +18,7 @@ import (
 )
 
 // The reader fixtures under testdata/ are all generated here, from the NACA
-// 4-digit equations of NACA Report 824 (geometry.NACA4) with invented
+// 4-digit equations of NACA Report 824 (shape.NACA4) with invented
 // scales and invented noise; none is measured. Regenerate them with
 //
 //	go test ./geometry/pointfile -run TestReadFixturesCurrent -update-read-fixtures

@@ -25,7 +25,7 @@ func sliceTestNearest(p geometry.Point, pts []geometry.Point) float64 {
 	return d
 }
 
-// TestSliceExtrudedMidSpan extrudes a NACA 2412 loop (geometry.NACA4, NACA
+// TestSliceExtrudedMidSpan extrudes a NACA 2412 loop (shape.NACA4, NACA
 // Report 824 equations) along a swept axis, writes the mesh as binary and
 // as ASCII STL, reads it back and cuts it at mid-span. Exact answer: each
 // side edge from ring point b_i to the far-end point b_i + s is cut at

@@ -197,7 +197,7 @@ func (ps side) atX(x float64) (int, float64, geometry.Point, bool) {
 // rounded edge (a closed path, smooth through the tip) it is the angle
 // between the straight continuations of the surfaces just ahead of the
 // rounding, and TEThickness the distance between the surfaces where the
-// rounding starts (see Normalize). Area,
+// rounding starts (see frame.Normalize). Area,
 // centroid and second moments about the centroid (Ixx = ∫∫(y−ȳ)² dA,
 // Iyy = ∫∫(x−x̄)² dA, Ixy = ∫∫(x−x̄)(y−ȳ) dA) come from Green's theorem on
 // the curve, with Gauss–Legendre quadrature per piece (gonum quad); an open

@@ -49,7 +49,7 @@ type Options struct {
 // Section returns a section document of a NACA 0012 section with a sharp
 // trailing edge and 2·perSurface panels spaced by the cosine law, in the
 // node order of package geometry. The shape is that of NACA Report 824's
-// equations (geometry.NACA4).
+// equations (shape.NACA4).
 func Section(perSurface int) []byte {
 	n := shape.NACA4{Thickness: 0.12, SharpTE: true}
 	s := &section.Section{Format: section.Format, Name: "naca0012", Units: "chord", Nodes: n.Loop(perSurface)}

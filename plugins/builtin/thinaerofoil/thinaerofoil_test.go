@@ -104,7 +104,7 @@ func TestSymmetric(t *testing.T) {
 }
 
 // analytic2412 evaluates the thin-aerofoil integrals of the NACA 2412 camber
-// line (NACA Report 824 equations, geometry.NACA4) by 200-point
+// line (NACA Report 824 equations, shape.NACA4) by 200-point
 // Gauss–Legendre quadrature (gonum quad) on each side of the kink at x = p.
 func analytic2412(t *testing.T) (alphaL0, cm float64) {
 	t.Helper()

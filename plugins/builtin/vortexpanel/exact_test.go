@@ -42,7 +42,7 @@ func newKTExact(t *testing.T, k shape.KarmanTrefftz) ktExact {
 }
 
 // phi returns the circle angle of node i of `panels` (uniform from the TE,
-// as documented by geometry.KarmanTrefftz.Points).
+// as documented by shape.KarmanTrefftz.Points).
 func (e ktExact) phi(i, panels int) float64 {
 	return e.phi0 + 2*math.Pi*float64(i)/float64(panels)
 }
