@@ -313,15 +313,11 @@ func TestNormalizeNACA4Loop(t *testing.T) {
 // 0.02 mm noise (fixed seed), or noise-free when noise is 0.
 func frameTestSection(t *testing.T, code string, sharp bool, noise float64, opts Options) (*Normalized, shape.NACA4) {
 	t.Helper()
-	n, err := shape.ParseNACA4(code)
+	c, part, n, err := testfoil.Placed(code, sharp, noise)
 	if err != nil {
 		t.Fatal(err)
 	}
-	n.SharpTE = sharp
-	part := testfoil.Part{Chord: 152.4, RotDeg: 7, Shift: geometry.Point{X: 37, Y: -12}, Noise: noise, Seed: 42}
-	c := testfoil.Contour(testfoil.Loop(n, 150), part)
-	fo := curve.FitOptions{Noise: noise, Exact: noise == 0}
-	cv, _, err := curve.Fit(c, fo)
+	cv, _, err := curve.Fit(c, curve.FitOptions{Noise: noise, Exact: noise == 0})
 	if err != nil {
 		t.Fatal(err)
 	}

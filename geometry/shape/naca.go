@@ -130,17 +130,17 @@ func (n NACA4) Nodes(panels int) []geometry.Point {
 	up, lo := (panels+1)/2, panels/2
 	pts := make([]geometry.Point, 0, panels+1)
 	for i := up; i >= 1; i-- {
-		pts = append(pts, n.Upper(cosineStation(i, up)))
+		pts = append(pts, n.Upper(CosineStation(i, up)))
 	}
 	pts = append(pts, geometry.Point{X: 0, Y: 0})
 	for i := 1; i <= lo; i++ {
-		pts = append(pts, n.Lower(cosineStation(i, lo)))
+		pts = append(pts, n.Lower(CosineStation(i, lo)))
 	}
 	return pts
 }
 
-// cosineStation returns (1 − cos(π i / n)) / 2, exact at both ends.
-func cosineStation(i, n int) float64 {
+// CosineStation returns (1 − cos(π i / n)) / 2, exact at both ends.
+func CosineStation(i, n int) float64 {
 	switch i {
 	case 0:
 		return 0

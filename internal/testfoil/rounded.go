@@ -52,11 +52,11 @@ func (b RoundedBlade) toPart(p geometry.Point) geometry.Point {
 func (b RoundedBlade) Loop(perSurface, capPts int) []geometry.Point {
 	var pts []geometry.Point
 	for i := perSurface; i >= 1; i-- {
-		pts = append(pts, b.surf(CosineStation(i, perSurface), true))
+		pts = append(pts, b.surf(shape.CosineStation(i, perSurface), true))
 	}
 	pts = append(pts, geometry.Point{})
 	for i := 1; i <= perSurface; i++ {
-		pts = append(pts, b.surf(CosineStation(i, perSurface), false))
+		pts = append(pts, b.surf(shape.CosineStation(i, perSurface), false))
 	}
 	_, dy := b.Foil.CamberLine(1)
 	th := math.Atan(dy)
@@ -149,11 +149,11 @@ func Truncated(xEnd float64, perSurface int) []geometry.Point {
 	n := shape.NACA4{Thickness: 0.12}
 	var pts []geometry.Point
 	for i := perSurface; i >= 1; i-- {
-		pts = append(pts, n.Upper(xEnd*CosineStation(i, perSurface)))
+		pts = append(pts, n.Upper(xEnd*shape.CosineStation(i, perSurface)))
 	}
 	pts = append(pts, geometry.Point{})
 	for i := 1; i <= perSurface; i++ {
-		pts = append(pts, n.Lower(xEnd*CosineStation(i, perSurface)))
+		pts = append(pts, n.Lower(xEnd*shape.CosineStation(i, perSurface)))
 	}
 	lo, up := n.Lower(xEnd), n.Upper(xEnd)
 	m := int(up.Dist(lo) / 0.0025)

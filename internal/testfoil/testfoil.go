@@ -42,17 +42,6 @@ func Station(i, n int) float64 {
 	return math.Min(1, 1-math.Cos(math.Pi/2*float64(i)/float64(n)))
 }
 
-// CosineStation returns (1 − cos(π i / n)) / 2, exact at both ends.
-func CosineStation(i, n int) float64 {
-	switch i {
-	case 0:
-		return 0
-	case n:
-		return 1
-	}
-	return (1 - math.Cos(math.Pi*float64(i)/float64(n))) / 2
-}
-
 // Loop returns a NACA 4-digit loop (NACA Report 824 equations) in the node
 // order of package geometry, with stations Station(i, perSurface). For the
 // closed-edge variant the repeated trailing-edge point is left out.
@@ -135,4 +124,19 @@ func Farthest(poly []geometry.Point, p geometry.Point) geometry.Point {
 		}
 	}
 	return best
+}
+
+// Placed returns the NACA 4-digit section of code (NACA Report 824
+// equations; sharp closes its trailing edge) as a contour of 150 points per
+// surface placed with a 152.4 mm chord, a 7° rotation and a shift, with
+// Gaussian noise of the given standard deviation (seed 42), and the
+// placement, which maps section points into the part.
+func Placed(code string, sharp bool, noise float64) (*geometry.Contour, Part, shape.NACA4, error) {
+	n, err := shape.ParseNACA4(code)
+	if err != nil {
+		return nil, Part{}, n, err
+	}
+	n.SharpTE = sharp
+	part := Part{Chord: 152.4, RotDeg: 7, Shift: geometry.Point{X: 37, Y: -12}, Noise: noise, Seed: 42}
+	return Contour(Loop(n, 150), part), part, n, nil
 }
