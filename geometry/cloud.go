@@ -53,7 +53,21 @@ func ParseUnit(s string) (Unit, error) {
 	case "chord", "c":
 		return ChordUnit, nil
 	}
-	return "", fmt.Errorf("%w %q (want mm, in, m or chord)", ErrUnknownUnit, s)
+	return "", fmt.Errorf("%w %q (want %s)", ErrUnknownUnit, s, unitChoice())
+}
+
+// Units returns the length units foilwright accepts, in the order messages,
+// help texts, completions and the pipeline file's checks give them.
+func Units() []Unit { return []Unit{Millimetre, Inch, Metre, ChordUnit} }
+
+// unitChoice words Units for a message: "mm, in, m or chord".
+func unitChoice() string {
+	us := Units()
+	names := make([]string, len(us))
+	for i, u := range us {
+		names[i] = string(u)
+	}
+	return strings.Join(names[:len(names)-1], ", ") + " or " + names[len(names)-1]
 }
 
 // A Note records a line of an input file that was not read as a point, and why

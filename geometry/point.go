@@ -1,6 +1,10 @@
 package geometry
 
-import "math"
+import (
+	"encoding/json"
+	"fmt"
+	"math"
+)
 
 // Point is a point or vector in a plane.
 type Point struct{ X, Y float64 }
@@ -37,6 +41,9 @@ func (p Point) IsFinite() bool {
 	return !math.IsNaN(p.X) && !math.IsInf(p.X, 0) && !math.IsNaN(p.Y) && !math.IsInf(p.Y, 0)
 }
 
+// Turn returns the signed angle (radians) from direction a to b.
+func Turn(a, b Point) float64 { return math.Atan2(a.Cross(b), a.Dot(b)) }
+
 // Vec3 is a point or vector in space.
 type Vec3 struct{ X, Y, Z float64 }
 
@@ -60,6 +67,11 @@ func (p Vec3) Cross(q Vec3) Vec3 {
 // Norm returns the length of p.
 func (p Vec3) Norm() float64 { return math.Sqrt(p.Dot(p)) }
 
+// IsFinite reports whether all three coordinates are finite.
+func (p Vec3) IsFinite() bool {
+	return !math.IsNaN(p.X+p.Y+p.Z) && !math.IsInf(p.X, 0) && !math.IsInf(p.Y, 0) && !math.IsInf(p.Z, 0)
+}
+
 // Unit returns p scaled to unit length. It returns the zero vector for the
 // zero vector.
 func (p Vec3) Unit() Vec3 {
@@ -68,6 +80,15 @@ func (p Vec3) Unit() Vec3 {
 		return Vec3{}
 	}
 	return p.Scale(1 / n)
+}
+
+// Plane is a plane in space with an orthonormal in-plane basis U, V and unit
+// normal N = U × V, in input units.
+type Plane struct {
+	Origin [3]float64 `json:"origin"`
+	U      [3]float64 `json:"u"`
+	V      [3]float64 `json:"v"`
+	N      [3]float64 `json:"normal"`
 }
 
 // SignedArea returns the shoelace area of the closed polygon pts (the last
@@ -80,4 +101,25 @@ func SignedArea(pts []Point) float64 {
 		a += p.X*q.Y - q.X*p.Y
 	}
 	return a / 2
+}
+
+// MarshalJSON writes p as [x, y].
+func (p Point) MarshalJSON() ([]byte, error) {
+	if !p.IsFinite() {
+		return nil, fmt.Errorf("geometry: cannot write non-finite point (%g, %g)", p.X, p.Y)
+	}
+	return json.Marshal([2]float64{p.X, p.Y})
+}
+
+// UnmarshalJSON reads p from [x, y].
+func (p *Point) UnmarshalJSON(b []byte) error {
+	var a []float64
+	if err := json.Unmarshal(b, &a); err != nil {
+		return err
+	}
+	if len(a) != 2 {
+		return fmt.Errorf("want [x, y], got %d number(s)", len(a))
+	}
+	p.X, p.Y = a[0], a[1]
+	return nil
 }

@@ -28,7 +28,7 @@
 // Paths and globs are relative to the folder of the pipeline file. Each
 // input is one section made from all its files, or, with "per_file", one
 // section per matching file. "prepare" holds every prep option under its
-// pipeline key (see PrepSettings); an input may override the reading keys
+// pipeline key (see prep.Settings); an input may override the reading keys
 // (format, columns, units, cut, band, flat_tol). A stage sees the results of
 // the stages it lists in "after", and only those.
 //

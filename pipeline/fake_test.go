@@ -14,6 +14,10 @@ import (
 	"time"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/pointfile"
+	"github.com/foilwright/foilwright/geometry/section"
+	"github.com/foilwright/foilwright/plugins/stage"
+	"github.com/foilwright/foilwright/prep"
 	"github.com/tidwall/gjson"
 )
 
@@ -23,7 +27,7 @@ import (
 // with a line that is not two numbers fails, naming the file and line.
 type fakePrep struct{}
 
-func (fakePrep) Prepare(ctx context.Context, in Input, s PrepSettings) (Prepared, error) {
+func (fakePrep) Prepare(ctx context.Context, in Input, s prep.Settings) (Prepared, error) {
 	var pts []geometry.Point
 	for _, f := range in.Files {
 		sc := bufio.NewScanner(bytes.NewReader(f.Data))
@@ -34,12 +38,12 @@ func (fakePrep) Prepare(ctx context.Context, in Input, s PrepSettings) (Prepared
 			}
 			fields := strings.Fields(text)
 			if len(fields) != 2 {
-				return Prepared{}, &geometry.ParseError{File: f.Path, Line: line, Err: geometry.ErrColumnCount}
+				return Prepared{}, &geometry.ParseError{File: f.Path, Line: line, Err: pointfile.ErrColumnCount}
 			}
 			x, errx := strconv.ParseFloat(fields[0], 64)
 			y, erry := strconv.ParseFloat(fields[1], 64)
 			if errx != nil || erry != nil {
-				return Prepared{}, &geometry.ParseError{File: f.Path, Line: line, Err: geometry.ErrNotNumeric}
+				return Prepared{}, &geometry.ParseError{File: f.Path, Line: line, Err: pointfile.ErrNotNumeric}
 			}
 			pts = append(pts, geometry.Point{X: x, Y: y})
 		}
@@ -58,10 +62,10 @@ func (fakePrep) Prepare(ctx context.Context, in Input, s PrepSettings) (Prepared
 	for i := range pts {
 		pts[i] = geometry.Point{X: (pts[i].X - lo.X) / chord, Y: (pts[i].Y - lo.Y) / chord}
 	}
-	sec := &geometry.Section{Name: in.Section, Units: geometry.Unit(s.Units), Nodes: pts,
-		Frame: &geometry.Frame{Chord: chord, LE: [2]float64{lo.X, lo.Y}}}
+	sec := &section.Section{Name: in.Section, Units: geometry.Unit(s.Units), Nodes: pts,
+		Frame: &section.Frame{Chord: chord, LE: [2]float64{lo.X, lo.Y}}}
 	var b bytes.Buffer
-	if err := geometry.WriteSection(&b, sec); err != nil {
+	if err := section.Write(&b, sec); err != nil {
 		return Prepared{}, err
 	}
 	return Prepared{Section: b.Bytes(), Summary: fmt.Sprintf("%d points, chord %g", len(pts), chord)}, nil
@@ -112,11 +116,11 @@ func (r *fakeRegistry) New() (StageRunner, error) {
 	return fr, nil
 }
 
-func (f *fakeRunner) Describe(ctx context.Context, call StageCall) (StageInfo, error) {
+func (f *fakeRunner) Describe(ctx context.Context, call StageCall) (stage.Info, string, error) {
 	if f.closed {
-		return StageInfo{}, errors.New("runner closed")
+		return stage.Info{}, "", errors.New("runner closed")
 	}
-	return StageInfo{Name: call.Stage, Version: f.version, Executable: strings.Repeat("ab", 32)}, nil
+	return stage.Info{Name: call.Stage, Version: f.version}, strings.Repeat("ab", 32), nil
 }
 
 func (f *fakeRunner) Close() error {
@@ -127,32 +131,32 @@ func (f *fakeRunner) Close() error {
 	return nil
 }
 
-func (f *fakeRunner) Run(ctx context.Context, call StageCall, in StageInput) (StageOutput, error) {
+func (f *fakeRunner) Run(ctx context.Context, call StageCall, in stage.Request) (stage.Result, error) {
 	if f.closed {
-		return StageOutput{}, errors.New("runner closed")
+		return stage.Result{}, errors.New("runner closed")
 	}
 	f.calls++
-	sec, err := geometry.ReadSection(bytes.NewReader(in.Section), "section")
+	sec, err := section.Read(bytes.NewReader(in.Section), "section")
 	if err != nil {
-		return StageOutput{}, err
+		return stage.Result{}, err
 	}
 	params := gjson.ParseBytes(call.Params)
-	result := func(scalars map[string]float64, warnings ...string) (StageOutput, error) {
+	result := func(scalars map[string]float64, warnings ...string) (stage.Result, error) {
 		b, err := json.MarshalIndent(map[string]any{"format": "foilwright.result/1", "stage": call.Stage,
 			"version": f.version, "scalars": scalars, "warnings": warnings}, "", "  ")
-		return StageOutput{Result: b, Warnings: warnings}, err
+		return stage.Result{JSON: b, Warnings: warnings}, err
 	}
 	switch call.Stage {
 	case "area":
 		return result(map[string]float64{"area": shoelace(sec.Nodes) + f.reg.areaAdd})
 	case "scale":
 		if len(in.Deps) != 1 {
-			return StageOutput{}, fmt.Errorf("scale wants one dependency, got %d", len(in.Deps))
+			return stage.Result{}, fmt.Errorf("scale wants one dependency, got %d", len(in.Deps))
 		}
 		for _, dep := range in.Deps {
 			a := gjson.GetBytes(dep, "scalars.area")
 			if !a.Exists() {
-				return StageOutput{}, errors.New("dependency has no area")
+				return stage.Result{}, errors.New("dependency has no area")
 			}
 			return result(map[string]float64{"scaled": params.Get("factor").Float() * a.Float()}, "scaled by the factor")
 		}
@@ -171,19 +175,19 @@ func (f *fakeRunner) Run(ctx context.Context, call StageCall, in StageInput) (St
 		if call.Stage == "badplot" {
 			name = "../shape.svg"
 		}
-		out.Artifacts = []Artifact{{Name: name, MediaType: "image/svg+xml", Data: []byte(b.String())}}
+		out.Artifacts = []stage.Artifact{{Name: name, MediaType: "image/svg+xml", Data: []byte(b.String())}}
 		return out, err
 	case "fail":
-		return StageOutput{}, errors.New("the fake stage fails on purpose")
+		return stage.Result{}, errors.New("the fake stage fails on purpose")
 	case "slow":
 		select {
 		case <-time.After(time.Duration(params.Get("ms").Int()) * time.Millisecond):
 			return result(map[string]float64{})
 		case <-ctx.Done():
-			return StageOutput{}, ctx.Err()
+			return stage.Result{}, ctx.Err()
 		}
 	}
-	return StageOutput{}, fmt.Errorf("unknown stage %q", call.Stage)
+	return stage.Result{}, fmt.Errorf("unknown stage %q", call.Stage)
 }
 
 // shoelace returns the area enclosed by the closed polygon through pts,

@@ -2,8 +2,6 @@ package pipeline
 
 import (
 	"bytes"
-	"crypto/sha256"
-	"encoding/hex"
 	"encoding/json"
 	"errors"
 	"fmt"
@@ -15,19 +13,14 @@ import (
 	"sort"
 	"strings"
 
+	"github.com/foilwright/foilwright/internal/digest"
+	"github.com/foilwright/foilwright/prep"
 	"github.com/tidwall/gjson"
 )
 
 // FormatVersion is the pipeline file format this package reads, the value of
 // the "foilwright" key.
 const FormatVersion = 1
-
-// Document kinds of outputs.documents.
-const (
-	DocSection = "section" // section.json
-	DocNodes   = "nodes"   // nodes.dat
-	DocResults = "results" // results/<stage-id>.json
-)
 
 // Pictures of outputs.plots. Pictures of analysis results come from the
 // built-in "plots" stage, which a pipeline lists among its stages.
@@ -57,7 +50,7 @@ type Pipeline struct {
 	SHA256  string // hex digest of the file's bytes
 	Name    string
 	Inputs  []InputSpec
-	Prepare PrepSettings
+	Prepare prep.Settings
 	Stages  []Stage // in file order
 	Outputs Outputs
 
@@ -71,7 +64,7 @@ type InputSpec struct {
 	Paths   []string // the matching files, sorted, without repeats; slash-separated, relative to Dir unless absolute
 	PerFile bool     // one section per file instead of one section from all files
 	Station *float64 // spanwise position of a blade station, if given
-	Read    PrepSettings
+	Read    prep.Settings
 }
 
 // A Stage is one entry of "stages".
@@ -156,8 +149,7 @@ func Parse(data []byte, file string, opts ParseOptions) (*Pipeline, error) {
 	}
 	root := gjson.ParseBytes(data)
 	root.Index = len(data) - len(bytes.TrimLeft(data, " \t\r\n")) // Parse leaves it 0 after leading blanks
-	sum := sha256.Sum256(data)
-	p := &parser{c: c, opts: opts, p: &Pipeline{File: file, Dir: opts.Dir, SHA256: hex.EncodeToString(sum[:])}}
+	p := &parser{c: c, opts: opts, p: &Pipeline{File: file, Dir: opts.Dir, SHA256: digest.Bytes(data)}}
 	p.parse(root)
 	if err := c.err(); err != nil {
 		return nil, err
@@ -278,8 +270,8 @@ func (ps *parser) parse(root gjson.Result) {
 }
 
 // settings reads the "prepare" object.
-func (ps *parser) settings(path string, v gjson.Result) PrepSettings {
-	var s PrepSettings
+func (ps *parser) settings(path string, v gjson.Result) prep.Settings {
+	var s prep.Settings
 	ps.c.wantObject(path, v, prepareSet, func(k, kpath string, val gjson.Result) {
 		prepKeys[prepKeyIndex[k]].read(ps.c, kpath, val, &s)
 	})
@@ -466,93 +458,120 @@ func sectionNames(spec InputSpec) []string {
 	return names
 }
 
+// afterRef is one entry of a stage's "after", and where it is written.
+type afterRef struct {
+	id   string
+	path string
+	off  int
+}
+
+// stages reads the "stages" array: each stage, then the dependencies
+// (known ids, no stage after itself, no cycles) and their order.
 func (ps *parser) stages(v gjson.Result) {
-	c := ps.c
 	ids := map[string]int{} // id → offset of its first use
-	type afterRef struct {
-		id   string
-		path string
-		off  int
-	}
-	var refs [][]afterRef // per stage
+	var refs [][]afterRef   // per stage
 	idsOK := true
-	c.wantArray("stages", v, func(i int, ipath string, st gjson.Result) {
-		s := Stage{Params: []byte("{}"), OnError: OnErrorStop}
-		var ar []afterRef
-		defer func() {
-			idsOK = idsOK && s.ID != ""
-			ps.p.Stages = append(ps.p.Stages, s)
-			refs = append(refs, ar)
-		}()
-		vals := map[string]gjson.Result{}
-		if !c.wantObject(ipath, st, stageKeys, func(k, _ string, val gjson.Result) { vals[k] = val }) {
-			return
-		}
-		if val, ok := vals["id"]; !ok {
-			c.add(st.Index, ipath, `missing key "id"`)
-		} else if id, ok := c.wantString(ipath+".id", val, true); ok {
-			first, dup := ids[id]
-			caseOf := ""
-			for other, off := range ids {
-				if !dup && strings.EqualFold(other, id) {
-					// results/<id>.json may not differ only in case.
-					first, dup, caseOf = off, true, other
-				}
-			}
-			switch {
-			case caseOf != "":
-				l, col := c.pos.at(first)
-				c.add(val.Index, ipath+".id", "stage id %q differs only in case from %q (at %d:%d)", id, caseOf, l, col)
-			case !safeName.MatchString(id):
-				c.add(val.Index, ipath+".id", "%q is not a usable stage id (letters, digits, '.', '_', '-'; up to 64, starting with a letter or digit)", id)
-			case dup:
-				l, col := c.pos.at(first)
-				c.add(val.Index, ipath+".id", "duplicate stage id %q (first at %d:%d)", id, l, col)
-			default:
-				ids[id] = val.Index
-				s.ID = id
-			}
-		}
-		if val, ok := vals["stage"]; !ok {
-			c.add(st.Index, ipath, `missing key "stage" (a built-in stage name or an executable path)`)
-		} else if name, ok := c.wantString(ipath+".stage", val, true); ok {
-			s.Stage = name
-			ps.stageTarget(ipath, val, vals["sha256"], &s)
-		}
-		if val, ok := vals["params"]; ok {
-			if c.wantType(ipath+".params", val, "object", val.IsObject()) {
-				c.checkDuplicates(ipath+".params", val)
-				s.Params = []byte(val.Raw)
-			}
-		}
-		if val, ok := vals["after"]; ok {
-			seen := map[string]bool{}
-			c.wantArray(ipath+".after", val, func(_ int, apath string, a gjson.Result) {
-				id, ok := c.wantString(apath, a, true)
-				if !ok {
-					return
-				}
-				if seen[id] {
-					c.add(a.Index, apath, "stage %q listed twice", id)
-					return
-				}
-				seen[id] = true
-				s.After = append(s.After, id)
-				ar = append(ar, afterRef{id, apath, a.Index})
-			})
-		}
-		if val, ok := vals["on_error"]; ok {
-			if e, ok := c.wantEnum(ipath+".on_error", val, OnErrorStop, OnErrorContinue); ok {
-				s.OnError = e
-			}
-		}
-		if val, ok := vals["timeout_s"]; ok {
-			if x, ok := c.wantNumber(ipath+".timeout_s", val, numRange{lo: 0, hi: MaxTimeoutS, loOpen: true}); ok {
-				s.TimeoutS = x
-			}
-		}
+	ps.c.wantArray("stages", v, func(_ int, ipath string, st gjson.Result) {
+		s, ar := ps.stage(ipath, st, ids)
+		idsOK = idsOK && s.ID != ""
+		ps.p.Stages = append(ps.p.Stages, s)
+		refs = append(refs, ar)
 	})
-	// Dependencies: known ids, no stage after itself, no cycles.
+	if !ps.checkAfter(ids, refs) || !idsOK {
+		return
+	}
+	ps.order(ids, refs)
+}
+
+// stage reads one entry of "stages", recording its id in ids, and returns
+// it with its "after" references. A stage with errors is returned too, as
+// far as it was read, so that later stages are numbered right.
+func (ps *parser) stage(ipath string, st gjson.Result, ids map[string]int) (Stage, []afterRef) {
+	c := ps.c
+	s := Stage{Params: []byte("{}"), OnError: OnErrorStop}
+	var ar []afterRef
+	vals := map[string]gjson.Result{}
+	if !c.wantObject(ipath, st, stageKeys, func(k, _ string, val gjson.Result) { vals[k] = val }) {
+		return s, ar
+	}
+	if val, ok := vals["id"]; !ok {
+		c.add(st.Index, ipath, `missing key "id"`)
+	} else if id, ok := c.wantString(ipath+".id", val, true); ok {
+		s.ID = ps.stageID(ipath, val, id, ids)
+	}
+	if val, ok := vals["stage"]; !ok {
+		c.add(st.Index, ipath, `missing key "stage" (a built-in stage name or an executable path)`)
+	} else if name, ok := c.wantString(ipath+".stage", val, true); ok {
+		s.Stage = name
+		ps.stageTarget(ipath, val, vals["sha256"], &s)
+	}
+	if val, ok := vals["params"]; ok {
+		if c.wantType(ipath+".params", val, "object", val.IsObject()) {
+			c.checkDuplicates(ipath+".params", val)
+			s.Params = []byte(val.Raw)
+		}
+	}
+	if val, ok := vals["after"]; ok {
+		seen := map[string]bool{}
+		c.wantArray(ipath+".after", val, func(_ int, apath string, a gjson.Result) {
+			id, ok := c.wantString(apath, a, true)
+			if !ok {
+				return
+			}
+			if seen[id] {
+				c.add(a.Index, apath, "stage %q listed twice", id)
+				return
+			}
+			seen[id] = true
+			s.After = append(s.After, id)
+			ar = append(ar, afterRef{id, apath, a.Index})
+		})
+	}
+	if val, ok := vals["on_error"]; ok {
+		if e, ok := c.wantEnum(ipath+".on_error", val, OnErrorStop, OnErrorContinue); ok {
+			s.OnError = e
+		}
+	}
+	if val, ok := vals["timeout_s"]; ok {
+		if x, ok := c.wantNumber(ipath+".timeout_s", val, numRange{lo: 0, hi: MaxTimeoutS, loOpen: true}); ok {
+			s.TimeoutS = x
+		}
+	}
+	return s, ar
+}
+
+// stageID checks a stage id against those seen (ids) and records it; it
+// returns "" for an id that cannot be used.
+func (ps *parser) stageID(ipath string, val gjson.Result, id string, ids map[string]int) string {
+	c := ps.c
+	first, dup := ids[id]
+	caseOf := ""
+	for other, off := range ids {
+		if !dup && strings.EqualFold(other, id) {
+			// results/<id>.json may not differ only in case.
+			first, dup, caseOf = off, true, other
+		}
+	}
+	switch {
+	case caseOf != "":
+		l, col := c.pos.at(first)
+		c.add(val.Index, ipath+".id", "stage id %q differs only in case from %q (at %d:%d)", id, caseOf, l, col)
+	case !safeName.MatchString(id):
+		c.add(val.Index, ipath+".id", "%q is not a usable stage id (letters, digits, '.', '_', '-'; up to 64, starting with a letter or digit)", id)
+	case dup:
+		l, col := c.pos.at(first)
+		c.add(val.Index, ipath+".id", "duplicate stage id %q (first at %d:%d)", id, l, col)
+	default:
+		ids[id] = val.Index
+		return id
+	}
+	return ""
+}
+
+// checkAfter reports "after" references to unknown ids and to the stage
+// itself, and returns whether there were none.
+func (ps *parser) checkAfter(ids map[string]int, refs [][]afterRef) bool {
+	c := ps.c
 	valid := true
 	for i, ar := range refs {
 		for _, r := range ar {
@@ -566,9 +585,13 @@ func (ps *parser) stages(v gjson.Result) {
 			}
 		}
 	}
-	if !valid || !idsOK {
-		return
-	}
+	return valid
+}
+
+// order puts the stages in dependency order, or reports a cycle at the
+// "after" entry that closes it.
+func (ps *parser) order(ids map[string]int, refs [][]afterRef) {
+	c := ps.c
 	order, cycle := orderStages(ps.p.Stages)
 	if cycle != nil {
 		first := cycle[0]
@@ -634,7 +657,7 @@ func (ps *parser) stageTarget(ipath string, val, pin gjson.Result, s *Stage) {
 	}
 	s.Exec = full
 	if s.SHA256 != "" {
-		got, err := fileSHA256(full)
+		got, err := digest.File(full)
 		if err != nil {
 			c.add(val.Index, ipath+".stage", "stage executable %q: %v", s.Stage, err)
 		} else if got != s.SHA256 {
@@ -645,7 +668,7 @@ func (ps *parser) stageTarget(ipath string, val, pin gjson.Result, s *Stage) {
 
 func (ps *parser) outputs(v gjson.Result) {
 	c := ps.c
-	out := Outputs{Documents: []string{DocSection, DocNodes, DocResults}, PlotFormat: "svg"}
+	out := Outputs{Documents: Documents(), PlotFormat: "svg"}
 	defer func() {
 		if out.Folder == "" && ps.p.Name != "" {
 			out.Folder = "runs/" + ps.p.Name
@@ -668,7 +691,7 @@ func (ps *parser) outputs(v gjson.Result) {
 		out.Documents = nil
 		seen := map[string]bool{}
 		c.wantArray("outputs.documents", val, func(_ int, ipath string, d gjson.Result) {
-			if e, ok := c.wantEnum(ipath, d, DocSection, DocNodes, DocResults); ok {
+			if e, ok := c.wantEnum(ipath, d, Documents()...); ok {
 				if seen[e] {
 					c.add(d.Index, ipath, "%q listed twice", e)
 					return
@@ -696,14 +719,4 @@ func (ps *parser) outputs(v gjson.Result) {
 			out.PlotFormat = e
 		}
 	}
-}
-
-// fileSHA256 returns the hex sha256 of the file at path.
-func fileSHA256(path string) (string, error) {
-	data, err := os.ReadFile(path)
-	if err != nil {
-		return "", err
-	}
-	sum := sha256.Sum256(data)
-	return hex.EncodeToString(sum[:]), nil
 }

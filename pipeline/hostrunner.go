@@ -47,37 +47,31 @@ func (r *hostRunner) runner(call StageCall) *host.Runner {
 	return run
 }
 
-// Describe starts the stage if needed and returns its identity.
-func (r *hostRunner) Describe(ctx context.Context, call StageCall) (StageInfo, error) {
+// Describe starts the stage if needed and returns its description and the
+// sha256 of its executable.
+func (r *hostRunner) Describe(ctx context.Context, call StageCall) (stage.Info, string, error) {
 	info, err := r.runner(call).Describe(ctx)
 	if err != nil {
-		return StageInfo{}, err
+		return stage.Info{}, "", err
 	}
 	exe := r.self
 	if call.Exec {
 		if exe, err = host.FileSHA256(call.Stage); err != nil {
-			return StageInfo{}, err
+			return stage.Info{}, "", err
 		}
 	}
-	return StageInfo{Name: info.Name, Version: info.Version, Executable: exe}, nil
+	return info, exe, nil
 }
 
-// Run runs one stage call, limited by call.Timeout when it is set.
-func (r *hostRunner) Run(ctx context.Context, call StageCall, in StageInput) (StageOutput, error) {
-	if call.Timeout > 0 {
-		var cancel context.CancelFunc
-		ctx, cancel = context.WithTimeout(ctx, call.Timeout)
-		defer cancel()
-	}
-	reply, err := r.runner(call).Run(ctx, stage.Request{Section: in.Section, Params: call.Params, Deps: in.Deps, SectionName: in.Name})
+// Run runs req through the stage of call. Its time limit, timeout_s, is
+// applied by Run's caller (runStage); the host's own call limit still
+// holds.
+func (r *hostRunner) Run(ctx context.Context, call StageCall, req stage.Request) (stage.Result, error) {
+	reply, err := r.runner(call).Run(ctx, req)
 	if err != nil {
-		return StageOutput{}, err
+		return stage.Result{}, err
 	}
-	out := StageOutput{Result: reply.JSON, Warnings: reply.Warnings}
-	for _, a := range reply.Artifacts {
-		out.Artifacts = append(out.Artifacts, Artifact{Name: a.Name, MediaType: a.MediaType, Data: a.Data})
-	}
-	return out, nil
+	return reply.Result, nil
 }
 
 // Close stops every stage process this runner started.

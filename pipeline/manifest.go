@@ -7,10 +7,11 @@ import (
 	"io"
 	"os"
 	"path/filepath"
-	"strconv"
 
 	"github.com/foilwright/foilwright/internal/atomicfile"
 	"github.com/foilwright/foilwright/internal/version"
+	"github.com/foilwright/foilwright/plugins/stage"
+	"github.com/foilwright/foilwright/prep"
 )
 
 // ManifestName is the manifest's file name at the root of a run folder.
@@ -68,7 +69,7 @@ type SectionRecord struct {
 	Name     string        `json:"name"`
 	Station  *float64      `json:"station,omitempty"`
 	Inputs   []FileHash    `json:"inputs"`
-	Settings PrepSettings  `json:"settings"`
+	Settings prep.Settings `json:"settings"`
 	Status   string        `json:"status"`
 	Err      string        `json:"error,omitempty"`
 	Stages   []StageReport `json:"stages,omitempty"`
@@ -102,7 +103,7 @@ type StageTiming struct {
 	S  float64 `json:"s"`
 }
 
-func newManifest(pl *Plan, folder string, infos []StageInfo, results []sectionResult, interrupted bool) *Manifest {
+func newManifest(pl *Plan, folder string, infos []stage.Info, exes []string, results []sectionResult, interrupted bool) *Manifest {
 	p := pl.Pipeline
 	file := p.Path
 	if file == "" {
@@ -130,7 +131,7 @@ func newManifest(pl *Plan, folder string, infos []StageInfo, results []sectionRe
 	for i, st := range pl.Stages {
 		m.Stages = append(m.Stages, StageRecord{
 			ID: st.ID, Stage: st.Stage, Name: infos[i].Name, Version: infos[i].Version,
-			Executable: infos[i].Executable, Pin: st.SHA256, Params: json.RawMessage(st.Params),
+			Executable: exes[i], Pin: st.SHA256, Params: json.RawMessage(st.Params),
 			After: st.After, OnError: st.OnError, TimeoutS: st.TimeoutS,
 		})
 	}
@@ -180,13 +181,4 @@ func ReadManifest(path string) (*Manifest, error) {
 		return nil, fmt.Errorf("%w: %s: format %q, want %q", ErrNotManifest, path, m.Format, ManifestFormat)
 	}
 	return &m, nil
-}
-
-// fmtCoord formats a coordinate in the shortest decimal form that reads
-// back to the same float64, without an exponent.
-func fmtCoord(x float64) string {
-	if x == 0 {
-		return "0" // also for -0
-	}
-	return strconv.FormatFloat(x, 'f', -1, 64)
 }

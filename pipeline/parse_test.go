@@ -7,6 +7,8 @@ import (
 	"reflect"
 	"strings"
 	"testing"
+
+	"github.com/foilwright/foilwright/prep"
 )
 
 // builtins is the stage lookup the parser tests use.
@@ -154,7 +156,7 @@ func TestParseGood(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	wantPrep := PrepSettings{
+	wantPrep := prep.Settings{
 		Columns: "1,2", Units: "mm", Cut: "z=240", Band: ptr(0.2), FlatTol: ptr(0.05),
 		MergeTol: ptr(0.01), OutlierSigma: ptr(4.0), KeepOutliers: ptr(false), Loop: ptr(0),
 		Noise: ptr(0.02), FitTol: ptr(0.1), TE: "sharpen", TEBlend: ptr(0.1), LEAt: &[2]float64{12.5, -3}, Mirror: "no",

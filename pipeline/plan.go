@@ -5,6 +5,8 @@ import (
 	"io"
 	"path/filepath"
 	"strings"
+
+	"github.com/foilwright/foilwright/prep"
 )
 
 // A Plan is the work a pipeline asks for: the sections its inputs make, in
@@ -18,11 +20,11 @@ type Plan struct {
 
 // A SectionPlan is one section to make.
 type SectionPlan struct {
-	Name     string       // folder name in the run folder
-	Input    int          // index of the input in Pipeline.Inputs
-	Files    []string     // recorded paths (see InputSpec.Paths), in reading order
-	Station  *float64     // spanwise station, if the input gives one
-	Settings PrepSettings // "prepare" with the input's reading keys on top
+	Name     string        // folder name in the run folder
+	Input    int           // index of the input in Pipeline.Inputs
+	Files    []string      // recorded paths (see InputSpec.Paths), in reading order
+	Station  *float64      // spanwise station, if the input gives one
+	Settings prep.Settings // "prepare" with the input's reading keys on top
 }
 
 // Plan expands the inputs into sections and orders the stages. Globs were
@@ -32,7 +34,7 @@ func (p *Pipeline) Plan() *Plan {
 	pl := &Plan{Pipeline: p}
 	for i, in := range p.Inputs {
 		names := sectionNames(in)
-		settings := p.Prepare.overlay(in.Read)
+		settings := overlay(p.Prepare, in.Read)
 		if in.PerFile {
 			for k, f := range in.Paths {
 				pl.Sections = append(pl.Sections, SectionPlan{Name: names[k], Input: i, Files: []string{f}, Station: in.Station, Settings: settings})

@@ -1,24 +1,22 @@
 package pipeline
 
 import (
-	"bytes"
 	"context"
-	"crypto/sha256"
-	"encoding/hex"
 	"errors"
 	"fmt"
 	"os"
 	"path/filepath"
-	"regexp"
 	"sort"
 	"strings"
 	"sync"
 	"time"
 
-	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/internal/atomicfile"
+	"github.com/foilwright/foilwright/internal/digest"
 	"github.com/foilwright/foilwright/plot"
-	"github.com/tidwall/gjson"
+	"github.com/foilwright/foilwright/plugins/stage"
+	"github.com/foilwright/foilwright/prep"
 )
 
 // An Input is what the geometry chain gets for one section: its name,
@@ -27,31 +25,27 @@ import (
 type Input struct {
 	Section string   // section name
 	Station *float64 // spanwise station, if given
-	Files   []InputFile
+	Files   []prep.File
 	// PlotFormat, when not empty, asks for the preparation pictures in
 	// that format (plot.SVG or plot.PNG), as Prepared.Artifacts.
 	PlotFormat string
 }
 
-// An InputFile is one input file's bytes and its recorded path (used as the
-// display name in messages).
-type InputFile struct {
-	Path string
-	Data []byte
-}
-
 // Prepared is the geometry chain's answer for one section.
 type Prepared struct {
-	Section   []byte     // the section document, JSON (format foilwright.section/1)
-	Summary   string     // one or a few lines for a person: points used, fit, warnings
-	Artifacts []Artifact // pictures of the preparation, when asked for
+	Section []byte // the section document, JSON (format foilwright.section/1)
+	// Doc is the section Section encodes, when the preparer has it; nil
+	// means Run decodes Section.
+	Doc       *section.Section
+	Summary   string           // one or a few lines for a person: points used, fit, warnings
+	Artifacts []stage.Artifact // pictures of the preparation, when asked for; Run writes them under plots/
 }
 
 // A Preparer runs the geometry chain (read, clean, fit, edges, normalise,
 // repanel, properties) for one section. It must be deterministic and safe
 // for concurrent use by several workers.
 type Preparer interface {
-	Prepare(ctx context.Context, in Input, s PrepSettings) (Prepared, error)
+	Prepare(ctx context.Context, in Input, s prep.Settings) (Prepared, error)
 }
 
 // A StageCall names one stage of a pipeline for a StageRunner.
@@ -64,41 +58,17 @@ type StageCall struct {
 	Timeout time.Duration // 0 means the runner's default
 }
 
-// StageInfo identifies a stage for the manifest.
-type StageInfo struct {
-	Name       string // the name the stage gives itself
-	Version    string
-	Executable string // sha256 of the executable that serves it
-}
-
-// A StageInput is what a stage run gets: the section document and the
-// result documents of the stages it runs after, by stage id.
-type StageInput struct {
-	Name    string // section name, for messages
-	Section []byte
-	Deps    map[string][]byte
-}
-
-// An Artifact is a file a stage returns; Run writes it under plots/.
-type Artifact struct {
-	Name      string // base name, e.g. "cp.svg"
-	MediaType string
-	Data      []byte
-}
-
-// StageOutput is the answer of one stage run.
-type StageOutput struct {
-	Result    []byte // the result document, JSON (format foilwright.result/1)
-	Artifacts []Artifact
-	Warnings  []string
-}
-
 // A StageRunner runs stage calls. One worker uses one runner, never
 // concurrently, so a runner may keep its stage processes alive between
 // calls; Close stops them.
 type StageRunner interface {
-	Describe(ctx context.Context, call StageCall) (StageInfo, error)
-	Run(ctx context.Context, call StageCall, in StageInput) (StageOutput, error)
+	// Describe starts the stage of call if need be and returns its
+	// description and the hex sha256 of the executable that serves it.
+	Describe(ctx context.Context, call StageCall) (info stage.Info, executable string, err error)
+	// Run runs the stage of call on req, which carries the section
+	// document, call's parameters, the results of the stages it runs after
+	// (by stage id) and the section's name.
+	Run(ctx context.Context, call StageCall, req stage.Request) (stage.Result, error)
 	Close() error
 }
 
@@ -194,35 +164,89 @@ func Run(ctx context.Context, pl *Plan, opts RunOptions) (*Summary, error) {
 	jobs = min(jobs, max(len(pl.Sections), 1))
 
 	// One runner per worker; the first also describes the stages.
-	runners := make([]StageRunner, 0, jobs)
+	runners, err := startRunners(pl, opts, jobs)
 	defer func() {
 		for _, r := range runners {
 			r.Close()
 		}
 	}()
-	if len(pl.Stages) > 0 {
-		for range jobs {
-			r, err := opts.NewRunner()
-			if err != nil {
-				return nil, fmt.Errorf("pipeline: start stage runner: %w", err)
-			}
-			runners = append(runners, r)
+	if err != nil {
+		return nil, err
+	}
+	calls, infos, exes, err := describeStages(ctx, pl, runners)
+	if err != nil {
+		return nil, err
+	}
+	results, cancelled := runSections(ctx, pl, folder, calls, opts, runners, jobs)
+
+	sum := &Summary{Folder: folder, Manifest: filepath.Join(folder, ManifestName), Cancelled: cancelled}
+	for i := range results {
+		if results[i].report.Name == "" { // never started
+			results[i].report = SectionReport{Name: pl.Sections[i].Name, Status: StatusCancelled}
+		}
+		sum.Sections = append(sum.Sections, results[i].report)
+	}
+	m := newManifest(pl, folder, infos, exes, results, cancelled)
+	if !cancelled && pl.Pipeline.Outputs.HasPlot(PlotStations) {
+		if err := writeStations(pl, folder, results, m); err != nil {
+			return sum, err
 		}
 	}
+	m.Timings.Jobs = jobs
+	m.Timings.Started = start.UTC().Format(time.RFC3339)
+	m.Timings.TotalS = seconds(time.Since(start))
+	if err := writeManifest(filepath.Join(folder, ManifestName), m); err != nil {
+		return sum, err
+	}
+	if cancelled {
+		return sum, ctx.Err()
+	}
+	return sum, nil
+}
+
+// startRunners makes one stage runner per worker when the pipeline has
+// stages. The runners made so far are returned with an error, for the
+// caller to close.
+func startRunners(pl *Plan, opts RunOptions, jobs int) ([]StageRunner, error) {
+	runners := make([]StageRunner, 0, jobs)
+	if len(pl.Stages) == 0 {
+		return runners, nil
+	}
+	for range jobs {
+		r, err := opts.NewRunner()
+		if err != nil {
+			return runners, fmt.Errorf("pipeline: start stage runner: %w", err)
+		}
+		runners = append(runners, r)
+	}
+	return runners, nil
+}
+
+// describeStages makes the call of every stage and asks the first runner
+// to describe it, for the manifest: its description and the digest of its
+// executable.
+func describeStages(ctx context.Context, pl *Plan, runners []StageRunner) ([]StageCall, []stage.Info, []string, error) {
 	calls := make([]StageCall, len(pl.Stages))
-	infos := make([]StageInfo, len(pl.Stages))
+	infos := make([]stage.Info, len(pl.Stages))
+	exes := make([]string, len(pl.Stages))
 	for i, st := range pl.Stages {
 		calls[i] = callOf(st)
-		info, err := runners[0].Describe(ctx, calls[i])
+		info, exe, err := runners[0].Describe(ctx, calls[i])
 		if err != nil {
 			if ctx.Err() != nil {
-				return nil, ctx.Err()
+				return nil, nil, nil, ctx.Err()
 			}
-			return nil, fmt.Errorf("pipeline: stage %q (%s): %w", st.ID, st.Stage, err)
+			return nil, nil, nil, fmt.Errorf("pipeline: stage %q (%s): %w", st.ID, st.Stage, err)
 		}
-		infos[i] = info
+		infos[i], exes[i] = info, exe
 	}
+	return calls, infos, exes, nil
+}
 
+// runSections makes the sections on jobs workers, each with its own
+// runner, and reports whether the run was cancelled. Sections never
+// started have an empty report.
+func runSections(ctx context.Context, pl *Plan, folder string, calls []StageCall, opts RunOptions, runners []StageRunner, jobs int) ([]sectionResult, bool) {
 	results := make([]sectionResult, len(pl.Sections))
 	work := make(chan int)
 	var wg sync.WaitGroup
@@ -255,39 +279,23 @@ feed:
 	}
 	close(work)
 	wg.Wait()
-	cancelled = cancelled || ctx.Err() != nil
+	return results, cancelled || ctx.Err() != nil
+}
 
-	sum := &Summary{Folder: folder, Manifest: filepath.Join(folder, ManifestName), Cancelled: cancelled}
-	for i := range results {
-		if results[i].report.Name == "" { // never started
-			results[i].report = SectionReport{Name: pl.Sections[i].Name, Status: StatusCancelled}
-		}
-		sum.Sections = append(sum.Sections, results[i].report)
+// writeStations writes the run's stations picture, when two or more
+// sections have a station, and records it in m.
+func writeStations(pl *Plan, folder string, results []sectionResult, m *Manifest) error {
+	name, data, err := stationsPlot(pl, results)
+	if err == nil && data != nil {
+		err = atomicfile.WriteBytes(filepath.Join(folder, name), data)
 	}
-	m := newManifest(pl, folder, infos, results, cancelled)
-	if !cancelled && pl.Pipeline.Outputs.HasPlot(PlotStations) {
-		name, data, err := stationsPlot(pl, results)
-		if err == nil && data != nil {
-			err = atomicfile.WriteBytes(filepath.Join(folder, name), data)
-		}
-		if err != nil {
-			return sum, fmt.Errorf("stations plot: %w", err)
-		}
-		if data != nil {
-			h := sha256.Sum256(data)
-			m.Outputs[name] = hex.EncodeToString(h[:])
-		}
+	if err != nil {
+		return fmt.Errorf("stations plot: %w", err)
 	}
-	m.Timings.Jobs = jobs
-	m.Timings.Started = start.UTC().Format(time.RFC3339)
-	m.Timings.TotalS = seconds(time.Since(start))
-	if err := writeManifest(filepath.Join(folder, ManifestName), m); err != nil {
-		return sum, err
+	if data != nil {
+		m.Outputs[name] = digest.Bytes(data)
 	}
-	if cancelled {
-		return sum, ctx.Err()
-	}
-	return sum, nil
+	return nil
 }
 
 func callOf(st Stage) StageCall {
@@ -297,236 +305,6 @@ func callOf(st Stage) StageCall {
 		c.Stage, c.Exec = st.Exec, true
 	}
 	return c
-}
-
-// sectionResult is what one section produced.
-type sectionResult struct {
-	report  SectionReport
-	section *geometry.Section // the section made, when preparing succeeded
-	files   []FileHash        // inputs as read
-	outputs map[string]string
-	timing  SectionTiming
-}
-
-// output is one file of a section, relative to the run folder.
-type output struct {
-	path string
-	data []byte
-}
-
-// runSection makes one section and writes its outputs. When the run is
-// cancelled while the section is under way, nothing of it is written.
-func runSection(ctx context.Context, pl *Plan, folder string, i int, calls []StageCall, prep Preparer, runner StageRunner) sectionResult {
-	sp := pl.Sections[i]
-	res := sectionResult{report: SectionReport{Name: sp.Name}, timing: SectionTiming{Name: sp.Name}}
-	rep := &res.report
-	cancelled := func() sectionResult {
-		return sectionResult{report: SectionReport{Name: sp.Name, Status: StatusCancelled}, timing: res.timing}
-	}
-	if ctx.Err() != nil {
-		return cancelled()
-	}
-	fail := func(format string, args ...any) sectionResult {
-		rep.Status = StatusFailed
-		rep.Err = fmt.Sprintf(format, args...)
-		return res
-	}
-
-	in := Input{Section: sp.Name, Station: sp.Station}
-	if pl.Pipeline.Outputs.HasPlot(PlotPrep) {
-		in.PlotFormat = pl.Pipeline.Outputs.PlotFormat
-	}
-	for _, f := range sp.Files {
-		data, err := os.ReadFile(pl.Pipeline.abs(f))
-		if err != nil {
-			return fail("read %s: %v", f, err)
-		}
-		sum := sha256.Sum256(data)
-		res.files = append(res.files, FileHash{Path: f, SHA256: hex.EncodeToString(sum[:])})
-		in.Files = append(in.Files, InputFile{Path: f, Data: data})
-	}
-
-	t := time.Now()
-	prepared, err := prep.Prepare(ctx, in, sp.Settings)
-	res.timing.PrepareS = seconds(time.Since(t))
-	if ctx.Err() != nil {
-		return cancelled()
-	}
-	if err != nil {
-		return fail("prepare: %v", err)
-	}
-	rep.Summary = prepared.Summary
-	sec, err := geometry.ReadSection(bytes.NewReader(prepared.Section), sp.Name+"/section.json")
-	if err != nil {
-		return fail("prepare gave a bad section document: %v", err)
-	}
-	doc := pl.Pipeline.Outputs
-	var outs []output
-	if doc.Has(DocSection) {
-		outs = append(outs, output{sp.Name + "/section.json", withNewline(prepared.Section)})
-	}
-	if doc.Has(DocNodes) {
-		name := sec.Name
-		if name == "" {
-			name = sp.Name
-		}
-		outs = append(outs, output{sp.Name + "/nodes.dat", nodesDat(name, sec.Nodes)})
-	}
-
-	for _, a := range prepared.Artifacts {
-		outs = append(outs, output{sp.Name + "/plots/" + a.Name, a.Data})
-	}
-	res.section = sec
-
-	results := map[string][]byte{}
-	failed := map[string]bool{}
-	artifactBy := map[string]string{} // artifact name → stage id
-	stopped := false
-	for k, st := range pl.Stages {
-		sr := StageReport{ID: st.ID}
-		var missing []string
-		for _, id := range st.After {
-			if failed[id] {
-				missing = append(missing, fmt.Sprintf("%q", id))
-			}
-		}
-		switch {
-		case stopped:
-			sr.Status = "not-run"
-		case len(missing) > 0:
-			sr.Status = "skipped"
-			sr.Err = "runs after " + strings.Join(missing, ", ") + ", which did not succeed"
-			failed[st.ID] = true
-		default:
-			deps := map[string][]byte{}
-			for _, id := range st.After {
-				deps[id] = results[id]
-			}
-			t := time.Now()
-			out, err := runStage(ctx, runner, calls[k], StageInput{Name: sp.Name, Section: prepared.Section, Deps: deps})
-			res.timing.Stages = append(res.timing.Stages, StageTiming{ID: st.ID, S: seconds(time.Since(t))})
-			if ctx.Err() != nil {
-				return cancelled()
-			}
-			if err == nil {
-				err = checkOutput(out, st.ID, artifactBy)
-			}
-			if err != nil {
-				sr.Status = "failed"
-				sr.Err = err.Error()
-				failed[st.ID] = true
-				if st.OnError == OnErrorStop {
-					stopped = true
-					rep.Status = StatusFailed
-					rep.Err = fmt.Sprintf("stage %q: %v", st.ID, err)
-				} else if rep.Status == "" {
-					rep.Status = StatusPartial
-				}
-				break
-			}
-			sr.Status = StatusOK
-			sr.Warnings = out.Warnings
-			results[st.ID] = out.Result
-			if doc.Has(DocResults) {
-				outs = append(outs, output{sp.Name + "/results/" + st.ID + ".json", withNewline(out.Result)})
-			}
-			for _, a := range out.Artifacts {
-				outs = append(outs, output{sp.Name + "/plots/" + a.Name, a.Data})
-			}
-		}
-		rep.Stages = append(rep.Stages, sr)
-	}
-	if rep.Status == "" {
-		rep.Status = StatusOK
-	}
-	if ctx.Err() != nil {
-		return cancelled()
-	}
-	res.outputs = map[string]string{}
-	for _, o := range outs {
-		full := filepath.Join(folder, filepath.FromSlash(o.path))
-		if err := os.MkdirAll(filepath.Dir(full), 0o755); err != nil {
-			return fail("write %s: %v", o.path, err)
-		}
-		if err := atomicfile.WriteBytes(full, o.data); err != nil {
-			return fail("%v", err)
-		}
-		sum := sha256.Sum256(o.data)
-		res.outputs[o.path] = hex.EncodeToString(sum[:])
-	}
-	return res
-}
-
-// runStage runs one call with its time limit, turning a panic in the runner
-// into an error.
-func runStage(ctx context.Context, r StageRunner, call StageCall, in StageInput) (out StageOutput, err error) {
-	if call.Timeout > 0 {
-		var cancel context.CancelFunc
-		ctx, cancel = context.WithTimeout(ctx, call.Timeout)
-		defer cancel()
-	}
-	defer func() {
-		if p := recover(); p != nil {
-			err = fmt.Errorf("stage runner panicked: %v", p)
-		}
-	}()
-	out, err = r.Run(ctx, call, in)
-	if err != nil && errors.Is(ctx.Err(), context.DeadlineExceeded) {
-		err = fmt.Errorf("timed out after %v: %w", call.Timeout, err)
-	}
-	return out, err
-}
-
-// artifactName is the form of an artifact's file name.
-var artifactName = regexp.MustCompile(`^[A-Za-z0-9][A-Za-z0-9._-]{0,127}$`)
-
-// checkOutput checks what a stage returned before anything is written.
-func checkOutput(out StageOutput, id string, by map[string]string) error {
-	if !gjson.ValidBytes(out.Result) || !gjson.ParseBytes(out.Result).IsObject() {
-		return errors.New("the stage returned a result that is not a JSON object")
-	}
-	names := map[string]bool{}
-	for _, a := range out.Artifacts {
-		if !artifactName.MatchString(a.Name) {
-			return fmt.Errorf("the stage returned an artifact named %q (want a plain file name)", a.Name)
-		}
-		key := strings.ToLower(a.Name) // file names may not differ only in case
-		if other, ok := by[key]; ok || names[key] {
-			if !ok {
-				other = id
-			}
-			return fmt.Errorf("artifact %q is also returned by stage %q", a.Name, other)
-		}
-		names[key] = true
-	}
-	for n := range names {
-		by[n] = id
-	}
-	return nil
-}
-
-// withNewline returns b ending in a newline.
-func withNewline(b []byte) []byte {
-	if len(b) > 0 && b[len(b)-1] == '\n' {
-		return b
-	}
-	return append(append([]byte{}, b...), '\n')
-}
-
-// nodesDat writes nodes as the plain node file: the name on the first line,
-// then "x y" per line, each number in the shortest form that reads back
-// exactly.
-func nodesDat(name string, nodes []geometry.Point) []byte {
-	var b bytes.Buffer
-	b.WriteString(strings.ReplaceAll(name, "\n", " "))
-	b.WriteByte('\n')
-	for _, p := range nodes {
-		b.WriteString(fmtCoord(p.X))
-		b.WriteByte(' ')
-		b.WriteString(fmtCoord(p.Y))
-		b.WriteByte('\n')
-	}
-	return b.Bytes()
 }
 
 // prepareFolder makes sure folder exists and holds no files other than an
@@ -614,6 +392,6 @@ func stationsPlot(pl *Plan, results []sectionResult) (string, []byte, error) {
 		return "", nil, err
 	}
 	format := pl.Pipeline.Outputs.PlotFormat
-	data, err := RenderFigure(f, format)
+	data, err := plot.Encode(f, format)
 	return "stations." + format, data, err
 }

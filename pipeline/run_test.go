@@ -16,7 +16,8 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/plugins/stage"
+	"github.com/foilwright/foilwright/prep"
 	"github.com/tidwall/gjson"
 )
 
@@ -447,7 +448,7 @@ type switched struct {
 	s *switchRunner
 }
 
-func (w *switched) Run(ctx context.Context, call StageCall, in StageInput) (StageOutput, error) {
+func (w *switched) Run(ctx context.Context, call StageCall, in stage.Request) (stage.Result, error) {
 	if call.Stage == "slow" {
 		w.s.seen++
 		switch w.s.seen {
@@ -507,7 +508,7 @@ func TestRunFolder(t *testing.T) {
 // badPrep returns a document that is not a section.
 type badPrep struct{}
 
-func (badPrep) Prepare(context.Context, Input, PrepSettings) (Prepared, error) {
+func (badPrep) Prepare(context.Context, Input, prep.Settings) (Prepared, error) {
 	return Prepared{Section: []byte(`{"format": "foilwright.result/1", "nodes": []}`)}, nil
 }
 
@@ -524,13 +525,6 @@ func TestRunChecksWhatItIsGiven(t *testing.T) {
 	}
 	if f := sum.Failed(); len(f) != 1 || !strings.Contains(f[0].Err, "prepare gave a bad section document") {
 		t.Errorf("failed %+v", f)
-	}
-}
-
-func TestNodesDat(t *testing.T) {
-	got := string(nodesDat("r040\nx", []geometry.Point{{X: 1, Y: math.Copysign(0, -1)}, {X: 1e-7, Y: -0.1}, {X: 0.30000000000000004, Y: 2}}))
-	if want := "r040 x\n1 0\n0.0000001 -0.1\n0.30000000000000004 2\n"; got != want {
-		t.Errorf("got %q, want %q", got, want)
 	}
 }
 

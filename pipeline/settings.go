@@ -10,54 +10,21 @@ import (
 	"github.com/tidwall/gjson"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/frame"
+	"github.com/foilwright/foilwright/geometry/planar"
+	"github.com/foilwright/foilwright/geometry/pointfile"
+	"github.com/foilwright/foilwright/geometry/props"
+	"github.com/foilwright/foilwright/internal/enum"
+	"github.com/foilwright/foilwright/prep"
 	"github.com/foilwright/foilwright/repanel"
 )
-
-// PrepSettings are the prep options of one section, named and typed as the
-// "prepare" keys of a pipeline file (the same options as the prep command's
-// flags). A nil pointer or an empty string means "not set": the geometry
-// chain uses its default. Ranges are checked when the file is parsed.
-type PrepSettings struct {
-	// Reading; an input may override these.
-	Format  string   `json:"format,omitempty"`   // "" auto, delimited, loop, surfaces, dxf, stl
-	Columns string   `json:"columns,omitempty"`  // "2,3,4" (1-based) or header names "x,y,z"
-	Units   string   `json:"units,omitempty"`    // mm, in, m, chord
-	Cut     string   `json:"cut,omitempty"`      // "z=240" or "px,py,pz:nx,ny,nz"
-	Band    *float64 `json:"band,omitempty"`     // keep 3D points within ±Band of the plane, input units
-	FlatTol *float64 `json:"flat_tol,omitempty"` // refuse when points depart from their plane by more, input units
-
-	// Cleaning.
-	MergeTol     *float64 `json:"merge_tol,omitempty"`     // merge points closer than this, input units
-	OutlierSigma *float64 `json:"outlier_sigma,omitempty"` // drop points beyond this many robust sigmas
-	KeepOutliers *bool    `json:"keep_outliers,omitempty"` // report outliers but keep them
-	Loop         *int     `json:"loop,omitempty"`          // 0 largest-area loop, K the K-th largest
-
-	// Fitting and edges.
-	Noise   *float64    `json:"noise,omitempty"`    // nil auto, 0 interpolate, else expected noise in input units
-	FitTol  *float64    `json:"fit_tol,omitempty"`  // list points farther than this from the curve, input units
-	TE      string      `json:"te,omitempty"`       // auto, keep, close, sharpen
-	TEBlend *float64    `json:"te_blend,omitempty"` // aft chord fraction over which a blunt TE is closed
-	LEAt    *[2]float64 `json:"le_at,omitempty"`    // leading edge in input coordinates
-	Mirror  string      `json:"mirror,omitempty"`   // auto, yes, no
-
-	// Repanelling.
-	Panels          *int     `json:"panels,omitempty"`  // 16..2000
-	Spacing         string   `json:"spacing,omitempty"` // cosine, half-cosine, uniform, curvature
-	LECluster       *float64 `json:"le_cluster,omitempty"`
-	TECluster       *float64 `json:"te_cluster,omitempty"`
-	CurvatureWeight *float64 `json:"curvature_weight,omitempty"`
-
-	// Properties.
-	ThicknessMode string `json:"thickness_mode,omitempty"` // chord, camber
-	CamberMode    string `json:"camber_mode,omitempty"`    // mean, inscribed
-}
 
 // prepKey describes one "prepare" key: whether an input may override it,
 // and how to read and store it.
 type prepKey struct {
 	name    string
 	reading bool
-	read    func(c *collector, path string, v gjson.Result, s *PrepSettings)
+	read    func(c *collector, path string, v gjson.Result, s *prep.Settings)
 }
 
 var (
@@ -67,16 +34,16 @@ var (
 	unit     = numRange{lo: 0, hi: 1}
 )
 
-func numKey(name string, reading bool, r numRange, field func(*PrepSettings) **float64) prepKey {
-	return prepKey{name, reading, func(c *collector, path string, v gjson.Result, s *PrepSettings) {
+func numKey(name string, reading bool, r numRange, field func(*prep.Settings) **float64) prepKey {
+	return prepKey{name, reading, func(c *collector, path string, v gjson.Result, s *prep.Settings) {
 		if x, ok := c.wantNumber(path, v, r); ok {
 			*field(s) = &x
 		}
 	}}
 }
 
-func enumKey(name string, reading bool, field func(*PrepSettings) *string, allowed ...string) prepKey {
-	return prepKey{name, reading, func(c *collector, path string, v gjson.Result, s *PrepSettings) {
+func enumKey(name string, reading bool, field func(*prep.Settings) *string, allowed ...string) prepKey {
+	return prepKey{name, reading, func(c *collector, path string, v gjson.Result, s *prep.Settings) {
 		if e, ok := c.wantEnum(path, v, allowed...); ok {
 			*field(s) = e
 		}
@@ -87,12 +54,12 @@ func enumKey(name string, reading bool, field func(*PrepSettings) *string, allow
 // that the geometry packages do not fix themselves are ours: a value outside
 // them is a slip, not a setting (common practice for outlier_sigma is 3 to 5).
 var prepKeys = []prepKey{
-	{"format", true, func(c *collector, path string, v gjson.Result, s *PrepSettings) {
-		if e, ok := c.wantEnum(path, v, "auto", "delimited", "loop", "surfaces", "dxf", "stl"); ok && e != "auto" {
+	{"format", true, func(c *collector, path string, v gjson.Result, s *prep.Settings) {
+		if e, ok := c.wantEnum(path, v, append([]string{"auto"}, pointfile.Formats()...)...); ok && e != "auto" {
 			s.Format = e
 		}
 	}},
-	{"columns", true, func(c *collector, path string, v gjson.Result, s *PrepSettings) {
+	{"columns", true, func(c *collector, path string, v gjson.Result, s *prep.Settings) {
 		if str, ok := c.wantString(path, v, true); ok {
 			if err := checkColumns(str); err != nil {
 				c.add(v.Index, path, "%v", err)
@@ -101,8 +68,8 @@ var prepKeys = []prepKey{
 			s.Columns = str
 		}
 	}},
-	enumKey("units", true, func(s *PrepSettings) *string { return &s.Units }, "mm", "in", "m", "chord"),
-	{"cut", true, func(c *collector, path string, v gjson.Result, s *PrepSettings) {
+	enumKey("units", true, func(s *prep.Settings) *string { return &s.Units }, enum.Strings(geometry.Units())...),
+	{"cut", true, func(c *collector, path string, v gjson.Result, s *prep.Settings) {
 		if str, ok := c.wantString(path, v, true); ok {
 			if err := checkCut(str); err != nil {
 				c.add(v.Index, path, "%v", err)
@@ -111,21 +78,21 @@ var prepKeys = []prepKey{
 			s.Cut = str
 		}
 	}},
-	numKey("band", true, positive, func(s *PrepSettings) **float64 { return &s.Band }),
-	numKey("flat_tol", true, positive, func(s *PrepSettings) **float64 { return &s.FlatTol }),
-	numKey("merge_tol", false, nonNeg, func(s *PrepSettings) **float64 { return &s.MergeTol }),
-	numKey("outlier_sigma", false, numRange{lo: 0, hi: 100, loOpen: true}, func(s *PrepSettings) **float64 { return &s.OutlierSigma }),
-	{"keep_outliers", false, func(c *collector, path string, v gjson.Result, s *PrepSettings) {
+	numKey("band", true, positive, func(s *prep.Settings) **float64 { return &s.Band }),
+	numKey("flat_tol", true, positive, func(s *prep.Settings) **float64 { return &s.FlatTol }),
+	numKey("merge_tol", false, nonNeg, func(s *prep.Settings) **float64 { return &s.MergeTol }),
+	numKey("outlier_sigma", false, numRange{lo: 0, hi: 100, loOpen: true}, func(s *prep.Settings) **float64 { return &s.OutlierSigma }),
+	{"keep_outliers", false, func(c *collector, path string, v gjson.Result, s *prep.Settings) {
 		if b, ok := c.wantBool(path, v); ok {
 			s.KeepOutliers = &b
 		}
 	}},
-	{"loop", false, func(c *collector, path string, v gjson.Result, s *PrepSettings) {
+	{"loop", false, func(c *collector, path string, v gjson.Result, s *prep.Settings) {
 		if n, ok := c.wantInt(path, v, 0, 1000); ok {
 			s.Loop = &n
 		}
 	}},
-	{"noise", false, func(c *collector, path string, v gjson.Result, s *PrepSettings) {
+	{"noise", false, func(c *collector, path string, v gjson.Result, s *prep.Settings) {
 		if v.Type == gjson.String {
 			if v.Str != "auto" {
 				c.add(v.Index, path, `want "auto" or a number at least 0, got %q`, v.Str)
@@ -140,10 +107,10 @@ var prepKeys = []prepKey{
 			s.Noise = &x
 		}
 	}},
-	numKey("fit_tol", false, positive, func(s *PrepSettings) **float64 { return &s.FitTol }),
-	enumKey("te", false, func(s *PrepSettings) *string { return &s.TE }, "auto", "keep", "close", "sharpen"),
-	numKey("te_blend", false, numRange{lo: 0, hi: 1, loOpen: true}, func(s *PrepSettings) **float64 { return &s.TEBlend }),
-	{"le_at", false, func(c *collector, path string, v gjson.Result, s *PrepSettings) {
+	numKey("fit_tol", false, positive, func(s *prep.Settings) **float64 { return &s.FitTol }),
+	enumKey("te", false, func(s *prep.Settings) *string { return &s.TE }, enum.Names(frame.Treatments())...),
+	numKey("te_blend", false, numRange{lo: 0, hi: 1, loOpen: true}, func(s *prep.Settings) **float64 { return &s.TEBlend }),
+	{"le_at", false, func(c *collector, path string, v gjson.Result, s *prep.Settings) {
 		var xy [2]float64
 		n, good := 0, true
 		if !c.wantArray(path, v, func(i int, ipath string, el gjson.Result) {
@@ -164,18 +131,18 @@ var prepKeys = []prepKey{
 			s.LEAt = &xy
 		}
 	}},
-	enumKey("mirror", false, func(s *PrepSettings) *string { return &s.Mirror }, "auto", "yes", "no"),
-	{"panels", false, func(c *collector, path string, v gjson.Result, s *PrepSettings) {
+	enumKey("mirror", false, func(s *prep.Settings) *string { return &s.Mirror }, enum.Names(frame.MirrorModes())...),
+	{"panels", false, func(c *collector, path string, v gjson.Result, s *prep.Settings) {
 		if n, ok := c.wantInt(path, v, 16, 2000); ok {
 			s.Panels = &n
 		}
 	}},
-	enumKey("spacing", false, func(s *PrepSettings) *string { return &s.Spacing }, "cosine", "half-cosine", "uniform", "curvature"),
-	numKey("le_cluster", false, cluster, func(s *PrepSettings) **float64 { return &s.LECluster }),
-	numKey("te_cluster", false, cluster, func(s *PrepSettings) **float64 { return &s.TECluster }),
-	numKey("curvature_weight", false, unit, func(s *PrepSettings) **float64 { return &s.CurvatureWeight }),
-	enumKey("thickness_mode", false, func(s *PrepSettings) *string { return &s.ThicknessMode }, "chord", "camber"),
-	enumKey("camber_mode", false, func(s *PrepSettings) *string { return &s.CamberMode }, "mean", "inscribed"),
+	enumKey("spacing", false, func(s *prep.Settings) *string { return &s.Spacing }, repanel.Laws()...),
+	numKey("le_cluster", false, cluster, func(s *prep.Settings) **float64 { return &s.LECluster }),
+	numKey("te_cluster", false, cluster, func(s *prep.Settings) **float64 { return &s.TECluster }),
+	numKey("curvature_weight", false, unit, func(s *prep.Settings) **float64 { return &s.CurvatureWeight }),
+	enumKey("thickness_mode", false, func(s *prep.Settings) *string { return &s.ThicknessMode }, enum.Names(props.ThicknessModes())...),
+	enumKey("camber_mode", false, func(s *prep.Settings) *string { return &s.CamberMode }, enum.Names(props.CamberModes())...),
 }
 
 // prepKeyIndex maps a key name to its entry in prepKeys.
@@ -187,8 +154,9 @@ var prepKeyIndex = func() map[string]int {
 	return m
 }()
 
-// overlay returns s with the reading settings that o sets replacing those of s.
-func (s PrepSettings) overlay(o PrepSettings) PrepSettings {
+// overlay returns s with the reading settings that o sets (an input's own
+// reading keys) replacing those of s.
+func overlay(s, o prep.Settings) prep.Settings {
 	if o.Format != "" {
 		s.Format = o.Format
 	}
@@ -243,7 +211,7 @@ func checkColumns(s string) error {
 
 // checkCut checks a cutting plane with the reader's own parser.
 func checkCut(s string) error {
-	if _, err := geometry.ParsePlane(s); err != nil {
+	if _, err := planar.ParseSpec(s); err != nil {
 		return errors.New(strings.TrimPrefix(err.Error(), "geometry: "))
 	}
 	return nil

@@ -2,14 +2,14 @@ package pipeline
 
 import (
 	"context"
-	"crypto/sha256"
-	"encoding/hex"
 	"fmt"
 	"os"
 	"path/filepath"
 	"slices"
 	"sort"
 	"strings"
+
+	"github.com/foilwright/foilwright/internal/digest"
 )
 
 // VerifyOptions say how Verify re-runs a manifest.
@@ -86,8 +86,7 @@ func Verify(ctx context.Context, path string, opts VerifyOptions) (*VerifyReport
 	if err != nil {
 		return nil, fmt.Errorf("%w: %s: %v", ErrPipelineChanged, file, err)
 	}
-	sum := sha256.Sum256(data)
-	if got := hex.EncodeToString(sum[:]); got != m.Pipeline.SHA256 {
+	if got := digest.Bytes(data); got != m.Pipeline.SHA256 {
 		return nil, fmt.Errorf("%w: %s has sha256 %s, the run used %s", ErrPipelineChanged, file, got, m.Pipeline.SHA256)
 	}
 	abs, err := filepath.Abs(file)
@@ -129,7 +128,7 @@ func checkInputs(p *Pipeline, pl *Plan, m *Manifest) error {
 	var changed []string
 	for _, s := range m.Sections {
 		for _, f := range s.Inputs {
-			sum, err := fileSHA256(p.abs(f.Path))
+			sum, err := digest.File(p.abs(f.Path))
 			switch {
 			case err != nil:
 				changed = append(changed, fmt.Sprintf("%s: %v", f.Path, err))

@@ -6,15 +6,16 @@ import (
 	"math/rand/v2"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/shape"
 )
 
 // The demo data of these tests is invented: NACA 2412 sections from the
-// NACA Report 824 equations (geometry.NACA4) with invented noise and
+// NACA Report 824 equations (shape.NACA4) with invented noise and
 // invented probe slips, the exact potential flow about a Joukowski section,
 // thin-aerofoil theory integrals, and invented blade stations.
 
 // naca2412 is the section of the demo.
-var naca2412 = geometry.NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12}
+var naca2412 = shape.NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12}
 
 // demoPrep returns a NACA 2412 of 152.4 mm chord as a coordinate-measuring
 // machine might report it: 299 points with normal noise of 0.02 mm (σ), the

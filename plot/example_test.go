@@ -6,17 +6,18 @@ import (
 	"image/png"
 	"log"
 
-	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/section"
+	"github.com/foilwright/foilwright/geometry/shape"
 	"github.com/foilwright/foilwright/plot"
 )
 
 // A section document drawn as a PNG 800 points wide; the height follows in
 // the figure's natural proportions.
 func ExampleSectionPlot() {
-	s := &geometry.Section{
+	s := &section.Section{
 		Name:       "NACA 0012",
-		Nodes:      geometry.NACA4{Thickness: 0.12}.Loop(60),
-		Properties: &geometry.Properties{LERadius: 1.1019 * 0.12 * 0.12},
+		Nodes:      shape.NACA4{Thickness: 0.12}.Loop(60),
+		Properties: &section.Properties{LERadius: 1.1019 * 0.12 * 0.12},
 	}
 	f, err := plot.SectionPlot(plot.SectionFrom(s))
 	if err != nil {

@@ -1,6 +1,7 @@
 package plot
 
 import (
+	"bytes"
 	"errors"
 	"fmt"
 	"io"
@@ -107,4 +108,33 @@ func Save(f *Figure, path string, width, height vg.Length) (err error) {
 		return fmt.Errorf("plot: write %s: %w", path, err)
 	}
 	return nil
+}
+
+// Encode returns f drawn in format (SVG or PNG) at its natural size.
+func Encode(f *Figure, format string) ([]byte, error) {
+	var buf bytes.Buffer
+	if err := Write(&buf, f, format, 0, 0); err != nil {
+		return nil, err
+	}
+	return buf.Bytes(), nil
+}
+
+// Beside returns the path of the picture called name that goes beside the
+// main picture at path: path itself when name is main, else path with
+// "-name" before its extension (prep.svg, prep-deviation.svg, ...).
+func Beside(path, main, name string) string {
+	if name == main {
+		return path
+	}
+	ext := filepath.Ext(path)
+	return strings.TrimSuffix(path, ext) + "-" + name + ext
+}
+
+// MediaType returns the media type of format: image/svg+xml for SVG,
+// image/png for PNG.
+func MediaType(format string) string {
+	if format == PNG {
+		return "image/png"
+	}
+	return "image/svg+xml"
 }

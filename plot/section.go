@@ -9,6 +9,7 @@ import (
 	"gonum.org/v1/plot/vg/draw"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/section"
 )
 
 // SectionData is a normalised section with the lines drawn on it, all in
@@ -33,7 +34,7 @@ type SectionData struct {
 // (common practice), for the section's normal there, which holds the
 // centre, then runs along the chord. The camber line and thickness
 // distribution are left for the caller to fill.
-func SectionFrom(s *geometry.Section) SectionData {
+func SectionFrom(s *section.Section) SectionData {
 	d := SectionData{Name: s.Name, Nodes: s.Nodes}
 	if s.Properties != nil && s.Properties.LERadius > 0 {
 		d.LERadius = s.Properties.LERadius

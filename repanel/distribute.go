@@ -25,8 +25,39 @@ const (
 	LawCurvature  = "curvature"
 )
 
-// Laws lists the spacing law names in the order a user sees them.
-var Laws = []string{LawCosine, LawHalfCosine, LawUniform, LawCurvature}
+// laws is the one list of spacing laws: the name a user gives and how the
+// law is made for one surface (from arc length from to arc length to of p,
+// n panels). Flags, completions, the pipeline file's checks and messages
+// read it through Laws; a new law is a type in spacing.go and an entry
+// here.
+var laws = []struct {
+	name string
+	law  func(p geometry.Path, from, to float64, n int, o Options) (Spacing, error)
+}{
+	{LawCosine, func(geometry.Path, float64, float64, int, Options) (Spacing, error) { return Cosine{}, nil }},
+	{LawHalfCosine, func(geometry.Path, float64, float64, int, Options) (Spacing, error) { return HalfCosine{}, nil }},
+	{LawUniform, func(geometry.Path, float64, float64, int, Options) (Spacing, error) { return Uniform{}, nil }},
+	{LawCurvature, curvatureLaw},
+}
+
+// Laws returns the spacing law names in the order a user sees them.
+func Laws() []string {
+	out := make([]string, len(laws))
+	for i, l := range laws {
+		out[i] = l.name
+	}
+	return out
+}
+
+// lawIndex returns the index in laws of the law called name, or -1.
+func lawIndex(name string) int {
+	for i, l := range laws {
+		if l.name == name {
+			return i
+		}
+	}
+	return -1
+}
 
 // Errors Distribute returns for options or a path it cannot use; the
 // returned error wraps one of them and quotes the offending value.
@@ -83,10 +114,8 @@ func (o Options) withDefaults() (Options, error) {
 	if o.Spacing == "" {
 		o.Spacing = LawCosine
 	}
-	switch o.Spacing {
-	case LawCosine, LawHalfCosine, LawUniform, LawCurvature:
-	default:
-		return o, fmt.Errorf("%w %q, want one of %q", ErrUnknownSpacing, o.Spacing, Laws)
+	if lawIndex(o.Spacing) < 0 {
+		return o, fmt.Errorf("%w %q, want one of %q", ErrUnknownSpacing, o.Spacing, Laws())
 	}
 	if !inCluster(o.LECluster) {
 		return o, fmt.Errorf("%w: leading-edge cluster %g, want %g..%g", ErrOptionRange, o.LECluster, -ClusterLimit, ClusterLimit)
@@ -192,26 +221,25 @@ func Stations(p geometry.Path, sLE float64, opts Options) (ss []float64, le int,
 // surfaceFractions returns n+1 fractions for the surface from arc length
 // from (the leading edge, u = 0) to arc length to (the trailing edge, u = 1).
 func surfaceFractions(p geometry.Path, from, to float64, n int, o Options) ([]float64, error) {
-	var law Spacing
-	switch o.Spacing {
-	case LawCosine:
-		law = Cosine{}
-	case LawHalfCosine:
-		law = HalfCosine{}
-	case LawUniform:
-		law = Uniform{}
-	case LawCurvature:
-		c := Curvature{Path: p, From: from, To: to, Weight: o.CurvatureWeight}
-		ts, err := c.fractions(n)
-		if err != nil {
-			return nil, fmt.Errorf("%w: %v", ErrPath, err)
-		}
-		law = fixed(ts)
+	law, err := laws[lawIndex(o.Spacing)].law(p, from, to, n, o)
+	if err != nil {
+		return nil, err
 	}
 	if o.LECluster != 0 || o.TECluster != 0 {
 		law = Stretched{Base: law, Start: o.LECluster, End: o.TECluster}
 	}
 	return law.Fractions(n), nil
+}
+
+// curvatureLaw evaluates the curvature law on the surface from arc length
+// from to to of p for n panels.
+func curvatureLaw(p geometry.Path, from, to float64, n int, o Options) (Spacing, error) {
+	c := Curvature{Path: p, From: from, To: to, Weight: o.CurvatureWeight}
+	ts, err := c.fractions(n)
+	if err != nil {
+		return nil, fmt.Errorf("%w: %v", ErrPath, err)
+	}
+	return fixed(ts), nil
 }
 
 // fixed is a law already evaluated for one n.

@@ -52,7 +52,7 @@ func TestDistributeScaleFree(t *testing.T) {
 		pts[i] = q.Scale(1000)
 	}
 	mm := newPolyline(pts)
-	for _, law := range Laws {
+	for _, law := range Laws() {
 		o := Options{Panels: 120, Spacing: law, LECluster: 0.5}
 		a, err := Distribute(p, sle, o)
 		if err != nil {

@@ -23,7 +23,7 @@ func FuzzDistribute(f *testing.F) {
 		if panels > MaxPanels+10 {
 			panels = MaxPanels + 10 // keep runs short; larger counts only fail the range check
 		}
-		o := Options{Panels: panels, Spacing: Laws[int(law)%len(Laws)], LECluster: le, TECluster: te, CurvatureWeight: w}
+		o := Options{Panels: panels, Spacing: Laws()[int(law)%len(Laws())], LECluster: le, TECluster: te, CurvatureWeight: w}
 		// Move the leading edge along the section to get unequal surfaces.
 		s := sle
 		if where > 0.05 && where < 0.95 {

@@ -5,6 +5,7 @@ import (
 	"sort"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/shape"
 )
 
 // plate is a flat plate of unit chord as a degenerate closed loop: the upper
@@ -85,11 +86,11 @@ func (p *polyline) Curvature(s float64) float64 {
 }
 
 // naca0012 returns the NACA 0012 section with the closed trailing edge
-// (NACA Report 824 equations, geometry.NACA4) as a dense polyline Path of
+// (NACA Report 824 equations, shape.NACA4) as a dense polyline Path of
 // 4001 points, and the arc length of its leading edge.
 func naca0012() (*polyline, float64) {
 	const per = 2000
-	n := geometry.NACA4{Thickness: 0.12, SharpTE: true}
+	n := shape.NACA4{Thickness: 0.12, SharpTE: true}
 	p := newPolyline(n.Loop(per))
 	return p, p.cum[per]
 }

@@ -6,20 +6,17 @@ import (
 	"encoding/json"
 	"fmt"
 	"io"
-	"math"
 	"os"
 	"path/filepath"
 	"sort"
-	"strconv"
 	"strings"
 	"text/tabwriter"
 	"time"
 
 	"github.com/spf13/cobra"
 
-	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/internal/atomicfile"
-	"github.com/foilwright/foilwright/pipeline"
 	"github.com/foilwright/foilwright/plot"
 	"github.com/foilwright/foilwright/plugins/builtin"
 	"github.com/foilwright/foilwright/plugins/host"
@@ -92,7 +89,7 @@ func runAnalyze(ctx context.Context, stdin io.Reader, stdout, stderr io.Writer, 
 	if err != nil {
 		return err
 	}
-	sec, err := geometry.ReadSection(bytes.NewReader(data), name)
+	sec, err := section.Read(bytes.NewReader(data), name)
 	if err != nil {
 		return badInput(err)
 	}
@@ -155,6 +152,10 @@ func runAnalyze(ctx context.Context, stdin io.Reader, stdout, stderr io.Writer, 
 	return printCases(stdout, name, sec, reply.Doc)
 }
 
+// analysisID is the id under which the plots stage sees the result it
+// draws.
+const analysisID = "analysis"
+
 // analyzePlots draws the result through the built-in plots stage (in its
 // own process, like every stage) and writes its pictures: Cp to path, the
 // others beside it (path-polar, path-section, path-streamlines).
@@ -166,19 +167,13 @@ func analyzePlots(ctx context.Context, h *host.Host, path string, section []byte
 	params, _ := json.Marshal(map[string]string{"format": format})
 	reply, err := h.Runner(host.Builtin("plots")).Run(ctx, stage.Request{
 		Section: section, Params: params, SectionName: name,
-		Deps: map[string][]byte{"analysis": result},
+		Deps: map[string][]byte{analysisID: result},
 	})
 	if err != nil {
 		return stageError(err)
 	}
 	for _, a := range reply.Artifacts {
-		stem := strings.TrimSuffix(a.Name, "."+format)
-		stem = strings.TrimSuffix(stem, "-analysis")
-		target := pipeline.SiblingPath(path, stem)
-		if stem == "cp" {
-			target = path
-		}
-		if err := atomicfile.WriteBytes(target, a.Data); err != nil {
+		if err := atomicfile.WriteBytes(builtin.PicturePath(path, a.Name, format, analysisID), a.Data); err != nil {
 			return err
 		}
 	}
@@ -222,7 +217,7 @@ func analyzeParams(opts analyzeOptions, alphaSet, takesAlpha bool) ([]byte, erro
 		return json.Marshal(params)
 	}
 	if _, given := params["alpha_deg"]; !given {
-		alphas, err := parseAngles(opts.alpha)
+		alphas, err := builtin.ParseAngles(opts.alpha)
 		if err != nil {
 			return nil, badInputf("--alpha %q: %v", opts.alpha, err)
 		}
@@ -235,66 +230,6 @@ func analyzeParams(opts analyzeOptions, alphaSet, takesAlpha bool) ([]byte, erro
 	return json.Marshal(params)
 }
 
-// maxAngles is the most angles --alpha may give.
-const maxAngles = builtin.MaxAngles
-
-// parseAngles reads "a,b,c" or "start:stop:step" (stop included when the
-// steps reach it) in degrees. Every angle must be finite and within
-// [-90, 90].
-func parseAngles(s string) ([]float64, error) {
-	num := func(f string) (float64, error) {
-		x, err := strconv.ParseFloat(strings.TrimSpace(f), 64)
-		if err != nil || math.IsNaN(x) || math.IsInf(x, 0) {
-			return 0, fmt.Errorf("%q is not a number", strings.TrimSpace(f))
-		}
-		return x, nil
-	}
-	var out []float64
-	if parts := strings.Split(s, ":"); len(parts) > 1 {
-		if len(parts) != 3 {
-			return nil, fmt.Errorf("a range is start:stop:step, got %d field(s)", len(parts))
-		}
-		var v [3]float64
-		for i, p := range parts {
-			x, err := num(p)
-			if err != nil {
-				return nil, err
-			}
-			v[i] = x
-		}
-		start, stop, step := v[0], v[1], v[2]
-		if step == 0 || (stop-start)*step < 0 {
-			return nil, fmt.Errorf("step %g does not lead from %g to %g", step, start, stop)
-		}
-		// Count the steps once, allowing for rounding in (stop-start)/step,
-		// and compute each angle from its index so errors do not add up.
-		n := math.Floor((stop-start)/step + 1e-9)
-		if n+1 > maxAngles {
-			return nil, fmt.Errorf("%g angles, at most %d allowed", n+1, maxAngles)
-		}
-		for i := 0; i <= int(n); i++ {
-			out = append(out, start+float64(i)*step)
-		}
-	} else {
-		for _, f := range strings.Split(s, ",") {
-			x, err := num(f)
-			if err != nil {
-				return nil, err
-			}
-			out = append(out, x)
-		}
-		if len(out) > maxAngles {
-			return nil, fmt.Errorf("%d angles, at most %d allowed", len(out), maxAngles)
-		}
-	}
-	for _, a := range out {
-		if math.Abs(a) > 90 {
-			return nil, fmt.Errorf("angle %g is outside [-90, 90] degrees", a)
-		}
-	}
-	return out, nil
-}
-
 // printTimings prints the stage's phase times, in a fixed order.
 func printTimings(w io.Writer, t map[string]time.Duration) {
 	for _, k := range []string{"build", "factor", "solve", "total"} {
@@ -305,7 +240,7 @@ func printTimings(w io.Writer, t map[string]time.Duration) {
 }
 
 // printCases prints the scalars and a table of the cases.
-func printCases(w io.Writer, name string, sec *geometry.Section, doc *stage.ResultDoc) error {
+func printCases(w io.Writer, name string, sec *section.Section, doc *stage.ResultDoc) error {
 	title := sec.Name
 	if title == "" {
 		title = name

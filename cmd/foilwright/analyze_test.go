@@ -9,7 +9,8 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/section"
+	"github.com/foilwright/foilwright/geometry/shape"
 	"github.com/foilwright/foilwright/plugins/builtin"
 	"github.com/foilwright/foilwright/plugins/host"
 	"github.com/foilwright/foilwright/plugins/stage"
@@ -36,16 +37,16 @@ func run(t *testing.T, stdin string, args ...string) (int, string, string) {
 }
 
 // writeSection writes a NACA 4-digit section document (NACA Report 824
-// equations, geometry.NACA4) with 2·perSurface cosine-spaced panels.
+// equations, shape.NACA4) with 2·perSurface cosine-spaced panels.
 func writeSection(t *testing.T, dir, code string, perSurface int) string {
 	t.Helper()
-	n, err := geometry.ParseNACA4(code)
+	n, err := shape.ParseNACA4(code)
 	if err != nil {
 		t.Fatal(err)
 	}
 	n.SharpTE = true
 	var b bytes.Buffer
-	if err := geometry.WriteSection(&b, &geometry.Section{Format: geometry.SectionFormat, Name: "naca" + code, Units: "chord", Nodes: n.Loop(perSurface)}); err != nil {
+	if err := section.Write(&b, &section.Section{Format: section.Format, Name: "naca" + code, Units: "chord", Nodes: n.Loop(perSurface)}); err != nil {
 		t.Fatal(err)
 	}
 	p := filepath.Join(dir, "naca"+code+".json")
@@ -157,38 +158,6 @@ func TestAnalyzeBadInput(t *testing.T) {
 				t.Errorf("exit %d, stderr %q; want 2 and %q", code, errs, tc.want)
 			}
 		})
-	}
-}
-
-func TestParseAngles(t *testing.T) {
-	for _, tc := range []struct {
-		in   string
-		want []float64
-	}{
-		{"-4:12:1", []float64{-4, -3, -2, -1, 0, 1, 2, 3, 4, 5, 6, 7, 8, 9, 10, 11, 12}},
-		{"0:1:0.25", []float64{0, 0.25, 0.5, 0.75, 1}},
-		{"0:0.3:0.1", []float64{0, 0.1, 0.2, 0.30000000000000004}},
-		{"5:-5:-5", []float64{5, 0, -5}},
-		{"0:1:0.4", []float64{0, 0.4, 0.8}},
-		{" 1, 2.5 ,-90", []float64{1, 2.5, -90}},
-		{"90", []float64{90}},
-	} {
-		got, err := parseAngles(tc.in)
-		if err != nil || len(got) != len(tc.want) {
-			t.Errorf("%q: got %v, %v; want %v", tc.in, got, err, tc.want)
-			continue
-		}
-		for i := range got {
-			if d := got[i] - tc.want[i]; d > 1e-12 || d < -1e-12 {
-				t.Errorf("%q: got %v, want %v", tc.in, got, tc.want)
-				break
-			}
-		}
-	}
-	for _, in := range []string{"", "1:2", "1:2:0", "1:2:3:4", "NaN", "Inf", "1e400", "0:2000:1", "1,,2"} {
-		if got, err := parseAngles(in); err == nil {
-			t.Errorf("%q: got %v, want an error", in, got)
-		}
 	}
 }
 

@@ -11,6 +11,7 @@ import (
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/section"
 )
 
 // runCLI runs the command line in process and returns its streams and exit
@@ -60,7 +61,7 @@ func TestShapeNACA4(t *testing.T) {
 		t.Fatal(err)
 	}
 	defer f.Close()
-	s, err := geometry.ReadSection(f, out)
+	s, err := section.Read(f, out)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -91,7 +92,7 @@ func TestShapeKarmanTrefftz(t *testing.T) {
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
-	s, err := geometry.ReadSection(strings.NewReader(out), "stdout")
+	s, err := section.Read(strings.NewReader(out), "stdout")
 	if err != nil {
 		t.Fatal(err)
 	}

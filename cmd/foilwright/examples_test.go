@@ -10,7 +10,7 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/section"
 )
 
 // The examples are invented demo data (internal/demogen): NACA 4-digit
@@ -45,14 +45,14 @@ func TestExampleProbe(t *testing.T) {
 	}
 }
 
-func loadSection(t *testing.T, path string) *geometry.Section {
+func loadSection(t *testing.T, path string) *section.Section {
 	t.Helper()
 	f, err := os.Open(path)
 	if err != nil {
 		t.Fatal(err)
 	}
 	defer f.Close()
-	s, err := geometry.ReadSection(f, path)
+	s, err := section.Read(f, path)
 	if err != nil {
 		t.Fatal(err)
 	}

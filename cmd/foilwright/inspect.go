@@ -9,7 +9,8 @@ import (
 	"github.com/spf13/cobra"
 
 	"github.com/foilwright/foilwright/geometry"
-	"github.com/foilwright/foilwright/pipeline"
+	"github.com/foilwright/foilwright/geometry/section"
+	"github.com/foilwright/foilwright/prep"
 	"github.com/foilwright/foilwright/repanel"
 )
 
@@ -37,7 +38,7 @@ geometry chain as prep, with the same flags, and prints prep's summary.`,
 				return err
 			}
 			if len(files) == 1 && looksLikeSection(files[0].Data) {
-				sec, err := geometry.ReadSection(bytes.NewReader(files[0].Data), files[0].Path)
+				sec, err := section.Read(bytes.NewReader(files[0].Data), files[0].Path)
 				if err != nil {
 					return badInput(err)
 				}
@@ -47,12 +48,12 @@ geometry chain as prep, with the same flags, and prints prep's summary.`,
 			if err != nil {
 				return err
 			}
-			p, err := pipeline.Prepare(sectionName(args), files, s)
+			p, err := prep.Prepare(sectionName(args), files, s)
 			if err != nil {
 				return badInput(err)
 			}
 			if opts.json {
-				return geometry.WriteSection(cmd.OutOrStdout(), p.Section)
+				return section.Write(cmd.OutOrStdout(), p.Section)
 			}
 			p.WriteSummary(cmd.OutOrStdout())
 			return nil
@@ -74,26 +75,26 @@ func looksLikeSection(data []byte) bool {
 	var head struct {
 		Format string `json:"format"`
 	}
-	return json.Unmarshal(t, &head) != nil || head.Format == geometry.SectionFormat || bytes.Contains(t[:min(len(t), 4096)], []byte(`"nodes"`))
+	return json.Unmarshal(t, &head) != nil || head.Format == section.Format || bytes.Contains(t[:min(len(t), 4096)], []byte(`"nodes"`))
 }
 
 // sectionReport is the JSON report of inspect on a section document.
 type sectionReport struct {
-	Name       string                 `json:"name,omitempty"`
-	Units      geometry.Unit          `json:"units,omitempty"`
-	Nodes      int                    `json:"nodes"`
-	Panels     int                    `json:"panels"`
-	LEIndex    *int                   `json:"le_index,omitempty"`
-	Closed     bool                   `json:"closed"`
-	Quality    repanel.Quality        `json:"quality"`
-	Frame      *geometry.Frame        `json:"frame,omitempty"`
-	Fit        *geometry.FitSummary   `json:"fit,omitempty"`
-	TE         *geometry.TrailingEdge `json:"trailing_edge,omitempty"`
-	Properties *geometry.Properties   `json:"properties,omitempty"`
-	Warnings   []string               `json:"warnings"`
+	Name       string                `json:"name,omitempty"`
+	Units      geometry.Unit         `json:"units,omitempty"`
+	Nodes      int                   `json:"nodes"`
+	Panels     int                   `json:"panels"`
+	LEIndex    *int                  `json:"le_index,omitempty"`
+	Closed     bool                  `json:"closed"`
+	Quality    repanel.Quality       `json:"quality"`
+	Frame      *section.Frame        `json:"frame,omitempty"`
+	Fit        *section.FitSummary   `json:"fit,omitempty"`
+	TE         *section.TrailingEdge `json:"trailing_edge,omitempty"`
+	Properties *section.Properties   `json:"properties,omitempty"`
+	Warnings   []string              `json:"warnings"`
 }
 
-func inspectSection(w io.Writer, path string, s *geometry.Section, asJSON bool) error {
+func inspectSection(w io.Writer, path string, s *section.Section, asJSON bool) error {
 	if len(s.Nodes) < 3 {
 		return badInputf("%s: %d node(s): a section needs at least 3", path, len(s.Nodes))
 	}
@@ -109,7 +110,7 @@ func inspectSection(w io.Writer, path string, s *geometry.Section, asJSON bool) 
 		if err != nil {
 			return err
 		}
-		_, err = w.Write(append(geometry.CompactNumberArrays(b), '\n'))
+		_, err = w.Write(append(section.CompactNumberArrays(b), '\n'))
 		return err
 	}
 	name := s.Name
@@ -125,7 +126,7 @@ func inspectSection(w io.Writer, path string, s *geometry.Section, asJSON bool) 
 		fmt.Fprintf(w, "  made from   %d points of %v, %d used, %d dropped\n", src.PointsRead, src.Files, src.PointsUsed, len(src.Dropped))
 	}
 	fmt.Fprintf(w, "  measured    panel lengths %.3g to %.3g c, largest ratio %.2f, largest turn %.1f°\n", q.MinLength, q.MaxLength, q.MaxRatio, q.MaxTurnDeg)
-	pipeline.WriteSectionReport(w, s, "", "")
+	prep.WriteSectionReport(w, s, "", "")
 	for _, warn := range q.Warnings {
 		fmt.Fprintf(w, "  warning: %s\n", warn)
 	}

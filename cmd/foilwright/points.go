@@ -1,16 +1,15 @@
 package main
 
 import (
-	"encoding/json"
 	"fmt"
 	"io"
 	"path/filepath"
 
 	"github.com/spf13/cobra"
 
-	"github.com/foilwright/foilwright/geometry"
-	"github.com/foilwright/foilwright/pipeline"
+	"github.com/foilwright/foilwright/geometry/pointfile"
 	"github.com/foilwright/foilwright/plot"
+	"github.com/foilwright/foilwright/prep"
 )
 
 type pointsOptions struct {
@@ -46,7 +45,7 @@ and reasons, loops found, flatness) and writes the ordered contour as CSV
 			if err != nil {
 				return err
 			}
-			cl, err := pipeline.ReadAndClean(files, s)
+			cl, err := prep.ReadAndClean(files, s)
 			if err != nil {
 				return badInput(err)
 			}
@@ -63,44 +62,7 @@ and reasons, loops found, flatness) and writes the ordered contour as CSV
 	return cmd
 }
 
-// contourDoc is the JSON form of a cleaned contour.
-type contourDoc struct {
-	Format   string             `json:"format"`
-	Units    geometry.Unit      `json:"units"`
-	Files    []string           `json:"files"`
-	SHA256   []string           `json:"sha256"`
-	Read     int                `json:"points_read"`
-	Flatness *flatnessDoc       `json:"flatness,omitempty"`
-	Merged   int                `json:"merged"`
-	Dropped  []geometry.Dropped `json:"dropped"`
-	Loops    []loopDoc          `json:"loops"`
-	Kept     bool               `json:"order_kept"`
-	Points   []geometry.Point   `json:"points"`
-	Origins  []originDoc        `json:"origins"`
-}
-
-type flatnessDoc struct {
-	RMS     float64         `json:"rms"`
-	Max     float64         `json:"max"`
-	Kept    int             `json:"kept"`
-	Outside int             `json:"outside"`
-	Plane   *geometry.Plane `json:"plane"`
-}
-
-type loopDoc struct {
-	Points int     `json:"points"`
-	Area   float64 `json:"area"`
-	Picked bool    `json:"picked"`
-	First  string  `json:"first"`
-}
-
-type originDoc struct {
-	File   string `json:"file"`
-	Line   int    `json:"line,omitempty"`
-	Entity int    `json:"entity,omitempty"`
-}
-
-func writePoints(stdout, stderr io.Writer, cl *pipeline.Cleaned, opts pointsOptions) error {
+func writePoints(stdout, stderr io.Writer, cl *prep.Cleaned, opts pointsOptions) error {
 	c := cl.Contour
 	if opts.plot != "" {
 		if _, err := plot.FormatOf(opts.plot); err != nil {
@@ -115,25 +77,10 @@ func writePoints(stdout, stderr io.Writer, cl *pipeline.Cleaned, opts pointsOpti
 		}
 	}
 	if opts.json {
-		doc := contourDoc{
-			Format: "foilwright.contour/1", Units: cl.Units, Files: cl.Files, SHA256: cl.SHA256, Read: cl.Read,
-			Merged: len(cl.Clean.Merged), Dropped: pipeline.DroppedOf(cl.Clean), Kept: cl.Clean.OrderKept,
-			Points: c.Points,
-		}
-		if f := cl.Flatness; f != nil {
-			doc.Flatness = &flatnessDoc{RMS: f.RMS, Max: f.Max, Kept: f.Kept, Outside: f.Outside, Plane: cl.Plane}
-		}
-		for _, l := range cl.Clean.Loops {
-			doc.Loops = append(doc.Loops, loopDoc{Points: l.Points, Area: l.Area, Picked: l.Picked, First: l.First.String()})
-		}
-		for _, o := range c.Origins {
-			doc.Origins = append(doc.Origins, originDoc{File: o.File, Line: o.Line, Entity: o.Entity})
-		}
-		b, err := json.MarshalIndent(doc, "", "  ")
+		b, err := cl.ContourDocument()
 		if err != nil {
 			return err
 		}
-		b = append(geometry.CompactNumberArrays(b), '\n')
 		if err := writeOutput(stdout, opts.out, func(w io.Writer) error { _, err := w.Write(b); return err }); err != nil {
 			return err
 		}
@@ -141,7 +88,7 @@ func writePoints(stdout, stderr io.Writer, cl *pipeline.Cleaned, opts pointsOpti
 			return nil
 		}
 	} else if opts.out != "" {
-		if err := writeOutput(stdout, opts.out, func(w io.Writer) error { return geometry.WriteCSV(w, c.Points, c.Origins) }); err != nil {
+		if err := writeOutput(stdout, opts.out, func(w io.Writer) error { return pointfile.WriteCSV(w, c.Points, c.Origins) }); err != nil {
 			return err
 		}
 	}
@@ -157,7 +104,7 @@ func writePoints(stdout, stderr io.Writer, cl *pipeline.Cleaned, opts pointsOpti
 }
 
 // writePointsReport prints what the chain made of the files.
-func writePointsReport(w io.Writer, cl *pipeline.Cleaned, allNotes bool) {
+func writePointsReport(w io.Writer, cl *prep.Cleaned, allNotes bool) {
 	u := cl.Units
 	for i, c := range cl.Clouds {
 		dim := "2D"

@@ -6,9 +6,10 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"github.com/foilwright/foilwright/geometry"
-	"github.com/foilwright/foilwright/pipeline"
+	"github.com/foilwright/foilwright/geometry/pointfile"
+	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/plot"
+	"github.com/foilwright/foilwright/prep"
 )
 
 type prepOptions struct {
@@ -51,7 +52,7 @@ its file and line.`,
 			if name == "" {
 				name = sectionName(args)
 			}
-			p, err := pipeline.Prepare(name, files, s)
+			p, err := prep.Prepare(name, files, s)
 			if err != nil {
 				return badInput(err)
 			}
@@ -73,7 +74,7 @@ its file and line.`,
 
 // writePrep writes the outputs of a preparation: plots first, then the node
 // listing, then the section document, each atomically, and the summary.
-func writePrep(stdout, stderr io.Writer, p *pipeline.Preparation, opts prepOptions) error {
+func writePrep(stdout, stderr io.Writer, p *prep.Preparation, opts prepOptions) error {
 	if opts.plot != "" {
 		if err := writePrepPlots(opts.plot, p); err != nil {
 			return err
@@ -81,12 +82,12 @@ func writePrep(stdout, stderr io.Writer, p *pipeline.Preparation, opts prepOptio
 	}
 	if opts.nodes != "" {
 		if err := writeOutput(stdout, opts.nodes, func(w io.Writer) error {
-			return geometry.WriteNodes(w, p.Section.Name, p.Section.Nodes)
+			return pointfile.WriteNodes(w, p.Section.Name, p.Section.Nodes)
 		}); err != nil {
 			return err
 		}
 	}
-	if err := writeOutput(stdout, opts.out, func(w io.Writer) error { return geometry.WriteSection(w, p.Section) }); err != nil {
+	if err := writeOutput(stdout, opts.out, func(w io.Writer) error { return section.Write(w, p.Section) }); err != nil {
 		return err
 	}
 	if opts.quiet {
@@ -106,7 +107,7 @@ func writePrep(stdout, stderr io.Writer, p *pipeline.Preparation, opts prepOptio
 // writePrepPlots draws the preparation pictures to path (its extension
 // chooses SVG or PNG) and to siblings named path-deviation, path-nodes and
 // path-section.
-func writePrepPlots(path string, p *pipeline.Preparation) error {
+func writePrepPlots(path string, p *prep.Preparation) error {
 	if _, err := plot.FormatOf(path); err != nil {
 		return badInputf("--plot %s: %v", path, err)
 	}
@@ -114,8 +115,8 @@ func writePrepPlots(path string, p *pipeline.Preparation) error {
 	if err != nil {
 		return err
 	}
-	for _, name := range pipeline.PlotNames {
-		if err := plot.Save(figs[name], pipeline.SiblingPath(path, name), 0, 0); err != nil {
+	for _, name := range prep.PlotNames {
+		if err := plot.Save(figs[name], prep.SiblingPath(path, name), 0, 0); err != nil {
 			return err
 		}
 	}

@@ -9,7 +9,11 @@ import (
 	"github.com/spf13/pflag"
 
 	"github.com/foilwright/foilwright/geometry"
-	"github.com/foilwright/foilwright/pipeline"
+	"github.com/foilwright/foilwright/geometry/frame"
+	"github.com/foilwright/foilwright/geometry/pointfile"
+	"github.com/foilwright/foilwright/geometry/props"
+	"github.com/foilwright/foilwright/internal/enum"
+	"github.com/foilwright/foilwright/prep"
 	"github.com/foilwright/foilwright/repanel"
 )
 
@@ -37,9 +41,9 @@ type prepFlags struct {
 
 // registerRead adds the reading and cleaning flags.
 func (p *prepFlags) registerRead(f *pflag.FlagSet) {
-	f.StringVar(&p.format, "format", "", "input format: delimited, loop, surfaces, dxf or stl (default: detected from the content)")
+	f.StringVar(&p.format, "format", "", "input format: "+enum.Or(pointfile.Formats()...)+" (default: detected from the content)")
 	f.StringVar(&p.columns, "columns", "", `columns holding x,y[,z]: 1-based numbers "2,3,4" or header names "x,y,z"`)
-	f.StringVar(&p.units, "units", "", "length unit of the input: mm, in, m or chord (default: what the file says)")
+	f.StringVar(&p.units, "units", "", "length unit of the input: "+enum.Or(enum.Strings(geometry.Units())...)+" (default: what the file says)")
 	f.StringVar(&p.cut, "cut", "", `plane that cuts a mesh or selects 3D points: "z=240" or "px,py,pz:nx,ny,nz"`)
 	f.Float64Var(&p.band, "band", 0, "keep 3D points within this distance of the --cut plane (input units; 0 keeps all)")
 	f.Float64Var(&p.flatTol, "flat-tol", 0, "refuse 3D points farther than this from their plane (input units; 0: 0.1% of the part's size)")
@@ -54,22 +58,22 @@ func (p *prepFlags) registerShape(cmd *cobra.Command) {
 	f := cmd.Flags()
 	f.StringVar(&p.noise, "noise", "auto", `expected measurement noise (input units): "auto" chooses the smoothing by cross-validation, 0 interpolates every point`)
 	f.Float64Var(&p.fitTol, "fit-tol", 0, "list points farther than this from the fitted curve (input units; 0: 4 times the noise)")
-	f.StringVar(&p.te, "te", "auto", "trailing edge: auto (keep it as found and report it), keep, close (blend a blunt edge shut) or sharpen (extend the surfaces of a rounded edge to their intersection)")
+	f.StringVar(&p.te, "te", frame.TEAuto, "trailing edge: "+enum.Help(frame.Treatments()))
 	f.Float64Var(&p.teBlend, "te-blend", 0, "aft chord fraction over which --te close blends the thickness away (0: default)")
 	f.StringVar(&p.leAt, "le-at", "", "put the leading edge at the curve point nearest X,Y (input coordinates)")
-	f.StringVar(&p.mirror, "mirror", "auto", "mirror the section into the normalised frame: auto, yes or no")
+	f.StringVar(&p.mirror, "mirror", frame.MirrorAuto, "mirror the section into the normalised frame: "+enum.Or(enum.Names(frame.MirrorModes())...))
 	f.IntVar(&p.panels, "panels", repanel.DefaultPanels, "number of panels, 16 to 2000 (nodes = panels + 1)")
-	f.StringVar(&p.spacing, "spacing", repanel.LawCosine, "node spacing: "+strings.Join(repanel.Laws, ", "))
+	f.StringVar(&p.spacing, "spacing", repanel.LawCosine, "node spacing: "+strings.Join(repanel.Laws(), ", "))
 	f.Float64Var(&p.leCluster, "le-cluster", 0, "cluster nodes at the leading edge more (> 0) or less (< 0), -3 to 3")
 	f.Float64Var(&p.teCluster, "te-cluster", 0, "cluster nodes at the trailing edge more (> 0) or less (< 0), -3 to 3")
 	f.Float64Var(&p.curvatureWeight, "curvature-weight", 0, "for --spacing curvature: blend of curvature weighting with cosine spacing, 0 to 1 (0: 0.5)")
-	f.StringVar(&p.thicknessMode, "thickness-mode", geometry.ThicknessChord, "measure thickness perpendicular to the chord line (chord) or normal to the camber line (camber)")
-	f.StringVar(&p.camberMode, "camber-mode", geometry.CamberMean, "camber line: mean (of the surfaces at equal x) or inscribed (centres of inscribed circles, for blades)")
-	cmd.RegisterFlagCompletionFunc("spacing", fixedCompletions(repanel.Laws...))
-	cmd.RegisterFlagCompletionFunc("te", fixedCompletions("auto", "keep", "close", "sharpen"))
-	cmd.RegisterFlagCompletionFunc("mirror", fixedCompletions("auto", "yes", "no"))
-	cmd.RegisterFlagCompletionFunc("units", fixedCompletions("mm", "in", "m", "chord"))
-	cmd.RegisterFlagCompletionFunc("format", fixedCompletions("delimited", "loop", "surfaces", "dxf", "stl"))
+	f.StringVar(&p.thicknessMode, "thickness-mode", props.ThicknessChord, "measure thickness perpendicular to the chord line (chord) or normal to the camber line (camber)")
+	f.StringVar(&p.camberMode, "camber-mode", props.CamberMean, "camber line: "+enum.Help(props.CamberModes()))
+	cmd.RegisterFlagCompletionFunc("spacing", fixedCompletions(repanel.Laws()...))
+	cmd.RegisterFlagCompletionFunc("te", fixedCompletions(enum.Names(frame.Treatments())...))
+	cmd.RegisterFlagCompletionFunc("mirror", fixedCompletions(enum.Names(frame.MirrorModes())...))
+	cmd.RegisterFlagCompletionFunc("units", fixedCompletions(enum.Strings(geometry.Units())...))
+	cmd.RegisterFlagCompletionFunc("format", fixedCompletions(pointfile.Formats()...))
 }
 
 func fixedCompletions(values ...string) func(*cobra.Command, []string, string) ([]string, cobra.ShellCompDirective) {
@@ -80,8 +84,8 @@ func fixedCompletions(values ...string) func(*cobra.Command, []string, string) (
 
 // settings turns the flags that were set into pipeline settings; flags left
 // at their defaults stay unset so the chain's own defaults apply.
-func (p *prepFlags) settings(f *pflag.FlagSet) (pipeline.PrepSettings, error) {
-	var s pipeline.PrepSettings
+func (p *prepFlags) settings(f *pflag.FlagSet) (prep.Settings, error) {
+	var s prep.Settings
 	set := func(name string) bool { fl := f.Lookup(name); return fl != nil && fl.Changed }
 	num := func(name string, v float64) *float64 {
 		if !set(name) {
@@ -123,7 +127,7 @@ func (p *prepFlags) settings(f *pflag.FlagSet) (pipeline.PrepSettings, error) {
 		s.Noise = &v
 	}
 	s.FitTol = num("fit-tol", p.fitTol)
-	if p.te != "auto" {
+	if p.te != frame.TEAuto {
 		s.TE = p.te
 	}
 	s.TEBlend = num("te-blend", p.teBlend)
@@ -134,7 +138,7 @@ func (p *prepFlags) settings(f *pflag.FlagSet) (pipeline.PrepSettings, error) {
 		}
 		s.LEAt = &[2]float64{pt.X, pt.Y}
 	}
-	if p.mirror != "auto" {
+	if p.mirror != frame.MirrorAuto {
 		s.Mirror = p.mirror
 	}
 	if set("panels") {
@@ -157,8 +161,8 @@ func (p *prepFlags) settings(f *pflag.FlagSet) (pipeline.PrepSettings, error) {
 }
 
 // inputFiles reads the named files whole (or stdin for "-").
-func inputFiles(stdin io.Reader, paths []string) ([]pipeline.InputFile, error) {
-	var files []pipeline.InputFile
+func inputFiles(stdin io.Reader, paths []string) ([]prep.File, error) {
+	var files []prep.File
 	for _, p := range paths {
 		data, name, err := readSectionFile(stdin, p)
 		if err != nil {
@@ -167,7 +171,7 @@ func inputFiles(stdin io.Reader, paths []string) ([]pipeline.InputFile, error) {
 		if len(data) == 0 {
 			return nil, badInput(&geometry.ParseError{File: name, Err: geometry.ErrEmpty})
 		}
-		files = append(files, pipeline.InputFile{Path: name, Data: data})
+		files = append(files, prep.NewFile(name, data))
 	}
 	return files, nil
 }

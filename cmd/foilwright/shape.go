@@ -10,8 +10,11 @@ import (
 	"github.com/spf13/cobra"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/pointfile"
+	"github.com/foilwright/foilwright/geometry/section"
+	"github.com/foilwright/foilwright/geometry/shape"
 	"github.com/foilwright/foilwright/plot"
-	"github.com/foilwright/foilwright/repanel"
+	"github.com/foilwright/foilwright/prep"
 )
 
 // shapeOptions are the flags shared by the analytic shapes.
@@ -50,7 +53,7 @@ uses the variant that closes it.`,
 		Example: "  foilwright shape naca4 2412 --panels 160 -o naca2412.json\n  foilwright shape naca4 0012 --sharp --nodes naca0012.dat",
 		Args:    cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
-			foil, err := geometry.ParseNACA4(args[0])
+			foil, err := shape.ParseNACA4(args[0])
 			if err != nil {
 				return badInput(err)
 			}
@@ -58,21 +61,7 @@ uses the variant that closes it.`,
 			if err := checkPanels(opts.panels); err != nil {
 				return err
 			}
-			nodes := foil.Nodes(opts.panels)
-			le := (opts.panels + 1) / 2
-			kind, thick := "blunt", nodes[0].Dist(nodes[len(nodes)-1])
-			if sharp {
-				kind, thick = "sharp", 0
-			}
-			s := &geometry.Section{
-				Format:       geometry.SectionFormat,
-				Name:         "NACA " + foil.String(),
-				Units:        geometry.ChordUnit,
-				TrailingEdge: &geometry.TrailingEdge{Kind: kind, Thickness: thick, Action: "kept"},
-				LEIndex:      &le,
-				Nodes:        nodes,
-			}
-			setPanels(s, "cosine")
+			s := prep.NACA4Section(foil, opts.panels)
 			return writeShape(cmd.OutOrStdout(), opts, s)
 		},
 	}
@@ -103,26 +92,10 @@ spaced in the circle angle, which clusters them at both edges.`,
 			if err := checkPanels(opts.panels); err != nil {
 				return err
 			}
-			kt := geometry.KarmanTrefftz{Centre: c, TEAngle: teAngle * math.Pi / 180}
-			nodes, err := kt.Normalized(opts.panels)
+			s, err := prep.KarmanTrefftzSection(c, teAngle, opts.panels)
 			if err != nil {
 				return badInput(err)
 			}
-			le := 0
-			for i, p := range nodes {
-				if p.Norm() < nodes[le].Norm() {
-					le = i
-				}
-			}
-			s := &geometry.Section{
-				Format:       geometry.SectionFormat,
-				Name:         fmt.Sprintf("Karman-Trefftz centre (%g, %g), TE angle %g deg", c.X, c.Y, teAngle),
-				Units:        geometry.ChordUnit,
-				TrailingEdge: &geometry.TrailingEdge{Kind: "sharp", Action: "kept"},
-				LEIndex:      &le,
-				Nodes:        nodes,
-			}
-			setPanels(s, "circle-angle")
 			return writeShape(cmd.OutOrStdout(), opts, s)
 		},
 	}
@@ -148,38 +121,6 @@ func parsePair(s string) (geometry.Point, error) {
 	return geometry.Point{X: v[0], Y: v[1]}, nil
 }
 
-// setProperties computes the properties of s from its nodes (through the
-// interpolating spline of the nodes) and returns the picture's data.
-func setProperties(s *geometry.Section) (plot.SectionData, error) {
-	cv, sle, err := geometry.NodeCurve(s.Nodes)
-	if err != nil {
-		return plot.SectionData{}, err
-	}
-	pr, camber, err := geometry.ComputeProperties(cv, sle, geometry.PropertyOptions{})
-	if err != nil {
-		return plot.SectionData{}, err
-	}
-	s.Properties = &pr.Properties
-	d := plot.SectionData{
-		Name: s.Name, Nodes: s.Nodes, LECentre: pr.LECenter, LERadius: pr.LERadius,
-		MaxThickness: geometry.Point{X: pr.ThicknessAt, Y: pr.Thickness},
-		MaxCamber:    geometry.Point{X: pr.CamberAt, Y: pr.Camber},
-	}
-	for i, x := range camber.X {
-		d.Camber = append(d.Camber, geometry.Point{X: x, Y: camber.Y[i]})
-		d.Thickness = append(d.Thickness, geometry.Point{X: x, Y: camber.Thickness[i]})
-	}
-	return d, nil
-}
-
-// setPanels records the panel count, spacing law and quality of s.Nodes,
-// and the quality warnings.
-func setPanels(s *geometry.Section, spacing string) {
-	q := repanel.Measure(s.Nodes)
-	s.Panels = &geometry.PanelSummary{Count: len(s.Nodes) - 1, Spacing: spacing, MaxRatio: q.MaxRatio, MaxTurnDeg: q.MaxTurnDeg}
-	s.Warnings = append(s.Warnings, q.Warnings...)
-}
-
 // checkPanels rejects a panel count outside 16 to 2000.
 func checkPanels(n int) error {
 	if n < 16 || n > 2000 {
@@ -189,13 +130,13 @@ func checkPanels(n int) error {
 }
 
 // writeShape writes the section document and, if asked, the node listing.
-func writeShape(stdout io.Writer, opts *shapeOptions, s *geometry.Section) error {
+func writeShape(stdout io.Writer, opts *shapeOptions, s *section.Section) error {
 	if opts.plot != "" {
 		if _, err := plot.FormatOf(opts.plot); err != nil {
 			return badInputf("--plot %s: %v", opts.plot, err)
 		}
 	}
-	pd, err := setProperties(s)
+	pd, err := prep.NodeProperties(s)
 	if err != nil {
 		return err
 	}
@@ -208,12 +149,12 @@ func writeShape(stdout io.Writer, opts *shapeOptions, s *geometry.Section) error
 			return err
 		}
 	}
-	if err := writeOutput(stdout, opts.out, func(w io.Writer) error { return geometry.WriteSection(w, s) }); err != nil {
+	if err := writeOutput(stdout, opts.out, func(w io.Writer) error { return section.Write(w, s) }); err != nil {
 		return err
 	}
 	if opts.nodes != "" {
 		name := strings.TrimSpace(s.Name)
-		if err := writeOutput(stdout, opts.nodes, func(w io.Writer) error { return geometry.WriteNodes(w, name, s.Nodes) }); err != nil {
+		if err := writeOutput(stdout, opts.nodes, func(w io.Writer) error { return pointfile.WriteNodes(w, name, s.Nodes) }); err != nil {
 			return fmt.Errorf("write %s: %w", opts.nodes, err)
 		}
 	}

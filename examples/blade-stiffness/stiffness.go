@@ -7,6 +7,7 @@ import (
 	"math"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/plugins/stage"
 )
 
@@ -189,7 +190,7 @@ func (st Stiffness) setScalars(d *stage.ResultDoc) {
 // It returns an error when s has fewer than three nodes, no properties
 // block, properties no real section can have, or no way to know its chord
 // in metres.
-func Compute(s *geometry.Section, m Material, chordM float64) (Stiffness, []string, error) {
+func Compute(s *section.Section, m Material, chordM float64) (Stiffness, []string, error) {
 	var warnings []string
 	if len(s.Nodes) < 3 {
 		return Stiffness{}, nil, fmt.Errorf("%d node(s): a section needs at least 3", len(s.Nodes))
@@ -244,7 +245,7 @@ func Compute(s *geometry.Section, m Material, chordM float64) (Stiffness, []stri
 // chordMetres returns the chord of s in metres: the frame's chord times the
 // length of the document's unit, or chordM for a section in chord units,
 // without units or without a frame.
-func chordMetres(s *geometry.Section, chordM float64) (float64, []string, error) {
+func chordMetres(s *section.Section, chordM float64) (float64, []string, error) {
 	var u geometry.Unit
 	if s.Units != "" {
 		var err error

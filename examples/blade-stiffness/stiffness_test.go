@@ -13,6 +13,7 @@ import (
 	"time"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/plugins/host"
 	"github.com/foilwright/foilwright/plugins/stage"
 	"github.com/foilwright/foilwright/plugins/stagetest"
@@ -59,16 +60,16 @@ type doc struct {
 	twistDeg float64
 	mirrored bool
 	nodes    []geometry.Point
-	props    *geometry.Properties
+	props    *section.Properties
 }
 
 func (d doc) encode(t testing.TB) []byte {
 	t.Helper()
-	s := &geometry.Section{Format: geometry.SectionFormat, Name: "test", Units: d.units, Nodes: d.nodes, Properties: d.props}
+	s := &section.Section{Format: section.Format, Name: "test", Units: d.units, Nodes: d.nodes, Properties: d.props}
 	if d.chord != 0 {
-		s.Frame = &geometry.Frame{Chord: d.chord, TwistDeg: d.twistDeg, LE: [2]float64{12, -3}, Mirrored: d.mirrored}
+		s.Frame = &section.Frame{Chord: d.chord, TwistDeg: d.twistDeg, LE: [2]float64{12, -3}, Mirrored: d.mirrored}
 	}
-	b, err := geometry.EncodeSection(s)
+	b, err := section.Encode(s)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -81,9 +82,9 @@ func (d doc) encode(t testing.TB) []byte {
 // a rectangle of width b and depth h about its centroidal axis; exact, any
 // strength-of-materials handbook, e.g. Roark's Formulas for Stress and
 // Strain, table of properties of sections).
-func rectangle(t float64) ([]geometry.Point, *geometry.Properties) {
+func rectangle(t float64) ([]geometry.Point, *section.Properties) {
 	nodes := []geometry.Point{{X: 1, Y: t / 2}, {X: 0, Y: t / 2}, {X: 0, Y: 0}, {X: 0, Y: -t / 2}, {X: 1, Y: -t / 2}}
-	return nodes, &geometry.Properties{Thickness: t, Area: t, Centroid: [2]float64{0.5, 0}, Ixx: t * t * t / 12, Iyy: t / 12}
+	return nodes, &section.Properties{Thickness: t, Area: t, Centroid: [2]float64{0.5, 0}, Ixx: t * t * t / 12, Iyy: t / 12}
 }
 
 // ellipse returns n+1 nodes of the ellipse with semi-axes 1/2 (along the
@@ -91,7 +92,7 @@ func rectangle(t float64) ([]geometry.Point, *geometry.Properties) {
 // properties in chord units: A = π a b, Ixx = π a b³/4, Iyy = π a³ b/4
 // (exact, e.g. Roark's Formulas for Stress and Strain, properties of
 // sections).
-func ellipse(t float64, n int) ([]geometry.Point, *geometry.Properties) {
+func ellipse(t float64, n int) ([]geometry.Point, *section.Properties) {
 	a, b := 0.5, t/2
 	nodes := make([]geometry.Point, n+1)
 	for i := range nodes {
@@ -99,7 +100,7 @@ func ellipse(t float64, n int) ([]geometry.Point, *geometry.Properties) {
 		nodes[i] = geometry.Point{X: 0.5 + a*math.Cos(phi), Y: b * math.Sin(phi)}
 	}
 	nodes[n] = nodes[0]
-	return nodes, &geometry.Properties{Thickness: t, Area: math.Pi * a * b, Centroid: [2]float64{0.5, 0},
+	return nodes, &section.Properties{Thickness: t, Area: math.Pi * a * b, Centroid: [2]float64{0.5, 0},
 		Ixx: math.Pi * a * b * b * b / 4, Iyy: math.Pi * a * a * a * b / 4}
 }
 
@@ -202,10 +203,10 @@ func TestEllipse(t *testing.T) {
 // axis, integrating over the rotated coordinates x = u cosφ − v sinφ,
 // y = u sinφ + v cosφ with ∫u² dA = h b³/12, ∫v² dA = b h³/12, ∫uv dA = 0
 // (calculated by hand).
-func rotated(b, h, phi float64) *geometry.Properties {
+func rotated(b, h, phi float64) *section.Properties {
 	uu, vv := h*b*b*b/12, b*h*h*h/12
 	s, c := math.Sincos(phi)
-	return &geometry.Properties{
+	return &section.Properties{
 		Area:     b * h,
 		Centroid: [2]float64{0.5, 0},
 		Ixx:      s*s*uu + c*c*vv,
@@ -358,7 +359,7 @@ func TestChordUnits(t *testing.T) {
 // TestBadSections checks the errors for sections the stage cannot use.
 func TestBadSections(t *testing.T) {
 	nodes, props := rectangle(0.1)
-	bad := func(f func(p *geometry.Properties)) *geometry.Properties {
+	bad := func(f func(p *section.Properties)) *section.Properties {
 		q := *props
 		f(&q)
 		return &q
@@ -369,9 +370,9 @@ func TestBadSections(t *testing.T) {
 		want string
 	}{
 		{"no properties", doc{units: geometry.Millimetre, chord: 100, nodes: nodes}, "run the points through prep"},
-		{"zero area", doc{units: geometry.Millimetre, chord: 100, nodes: nodes, props: bad(func(p *geometry.Properties) { p.Area = 0 })}, "must be positive"},
-		{"negative ixx", doc{units: geometry.Millimetre, chord: 100, nodes: nodes, props: bad(func(p *geometry.Properties) { p.Ixx = -1e-4 })}, "must be positive"},
-		{"ixy too large", doc{units: geometry.Millimetre, chord: 100, nodes: nodes, props: bad(func(p *geometry.Properties) { p.Ixy = 0.01 })}, "no real section"},
+		{"zero area", doc{units: geometry.Millimetre, chord: 100, nodes: nodes, props: bad(func(p *section.Properties) { p.Area = 0 })}, "must be positive"},
+		{"negative ixx", doc{units: geometry.Millimetre, chord: 100, nodes: nodes, props: bad(func(p *section.Properties) { p.Ixx = -1e-4 })}, "must be positive"},
+		{"ixy too large", doc{units: geometry.Millimetre, chord: 100, nodes: nodes, props: bad(func(p *section.Properties) { p.Ixy = 0.01 })}, "no real section"},
 		{"unknown units", doc{units: "furlong", chord: 100, nodes: nodes, props: props}, "furlong"},
 		{"negative chord", doc{units: geometry.Millimetre, chord: -5, nodes: nodes, props: props}, "frame chord -5"},
 		{"two nodes", doc{units: geometry.Millimetre, chord: 100, nodes: nodes[:2], props: props}, "at least 3"},

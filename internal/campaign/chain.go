@@ -1,8 +1,8 @@
 package campaign
 
 import (
-	"github.com/foilwright/foilwright/geometry"
-	"github.com/foilwright/foilwright/pipeline"
+	secdoc "github.com/foilwright/foilwright/geometry/section"
+	"github.com/foilwright/foilwright/prep"
 )
 
 // This file is the only one of the package that calls the geometry chain;
@@ -13,13 +13,13 @@ import (
 // count), and returns the section document as JSON. An error is what the
 // command would print before exiting with a non-zero status.
 func prepare(name string, data []byte, panels int) ([]byte, error) {
-	var s pipeline.PrepSettings
+	var s prep.Settings
 	if panels > 0 {
 		s.Panels = &panels
 	}
-	p, err := pipeline.Prepare(name, []pipeline.InputFile{{Path: name, Data: data}}, s)
+	p, err := prep.Prepare(name, []prep.File{prep.NewFile(name, data)}, s)
 	if err != nil {
 		return nil, err
 	}
-	return geometry.EncodeSection(p.Section)
+	return secdoc.Encode(p.Section)
 }

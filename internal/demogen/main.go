@@ -20,6 +20,7 @@ import (
 	"path/filepath"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/shape"
 	"github.com/foilwright/foilwright/internal/atomicfile"
 )
 
@@ -69,7 +70,7 @@ func bladeSection(r float64, perSurface int) []geometry.Point {
 	f := (r - rootR) / (tipR - rootR)
 	chord := rootChord + f*(tipChd-rootChord)
 	twist := (rootTwist + f*(tipTw-rootTwist)) * math.Pi / 180
-	foil := geometry.NACA4{Camber: 0.04, CamberPos: 0.4, Thickness: rootT + f*(tipT-rootT)}
+	foil := shape.NACA4{Camber: 0.04, CamberPos: 0.4, Thickness: rootT + f*(tipT-rootT)}
 	// Thicken linearly towards the trailing edge so that it ends in a
 	// semicircle of radius teRadius (a printed part cannot be sharp).
 	rte := teRadius / chord
@@ -185,7 +186,7 @@ func writeBladeScan(w io.Writer) error {
 // 3 µm probing noise and two probe hits that slipped.
 func writeProbe(w io.Writer) error {
 	rng := rand.New(rand.NewPCG(824, 2412))
-	foil := geometry.NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12}
+	foil := shape.NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12}
 	const chord, tilt, perPass = 200.0, 4.0, 150
 	origin := geometry.Point{X: 412.35, Y: 118.6}
 	bw := bufio.NewWriter(w)
@@ -225,7 +226,7 @@ func writeProbe(w io.Writer) error {
 // chord, with uneven spacing, a duplicated closing point, the standard open
 // trailing edge, and the nose at x = 37 mm.
 func writeDXF(w io.Writer) error {
-	foil := geometry.NACA4{Camber: 0.04, CamberPos: 0.4, Thickness: 0.15}
+	foil := shape.NACA4{Camber: 0.04, CamberPos: 0.4, Thickness: 0.15}
 	const chord = 120.0
 	var pts []geometry.Point
 	uneven := func(i, n int) float64 {

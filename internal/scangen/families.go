@@ -6,6 +6,7 @@ import (
 	"math/cmplx"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/shape"
 )
 
 // This file is the only one of the package that uses the reference shapes
@@ -27,8 +28,8 @@ type KTSpec struct {
 	TEAngleDeg float64 `json:"te_angle_deg"`
 }
 
-func (n NACASpec) shape() geometry.NACA4 {
-	return geometry.NACA4{Camber: n.Camber, CamberPos: n.CamberPos, Thickness: n.Thickness, SharpTE: n.ClosedTE}
+func (n NACASpec) shape() shape.NACA4 {
+	return shape.NACA4{Camber: n.Camber, CamberPos: n.CamberPos, Thickness: n.Thickness, SharpTE: n.ClosedTE}
 }
 
 // nacaPieces returns the upper and lower surface of a NACA 4-digit
@@ -89,7 +90,7 @@ func ktMap(zeta complex128, n float64) complex128 {
 // ζ = 1 (φ₀) to φ₀ + π and on to φ₀ + 2π, and the map from the loop
 // parameter to φ.
 func ktPieces(spec KTSpec) ([]piece, func(t float64) float64, error) {
-	k := geometry.KarmanTrefftz{Centre: geometry.Point{X: spec.CentreX, Y: spec.CentreY}, TEAngle: spec.TEAngleDeg * math.Pi / 180}
+	k := shape.KarmanTrefftz{Centre: geometry.Point{X: spec.CentreX, Y: spec.CentreY}, TEAngle: spec.TEAngleDeg * math.Pi / 180}
 	if _, err := k.Points(4); err != nil { // the shape's own parameter check
 		return nil, nil, fmt.Errorf("scangen: %w", err)
 	}

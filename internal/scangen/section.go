@@ -42,7 +42,7 @@ type Section struct {
 }
 
 // Build returns the true section of s. It returns an error for parameters
-// that describe no section (see geometry.KarmanTrefftz) or a rounding
+// that describe no section (see shape.KarmanTrefftz) or a rounding
 // radius that does not fit the trailing edge.
 func (s ShapeSpec) Build() (*Section, error) {
 	var ps []piece

@@ -5,6 +5,7 @@ import (
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/shape"
 )
 
 // shapeCases cover every family and trailing edge.
@@ -96,7 +97,7 @@ func TestKTAgainstShapePackage(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			k := geometry.KarmanTrefftz{Centre: geometry.Point{X: tc.spec.KT.CentreX, Y: tc.spec.KT.CentreY}, TEAngle: tc.spec.KT.TEAngleDeg * math.Pi / 180}
+			k := shape.KarmanTrefftz{Centre: geometry.Point{X: tc.spec.KT.CentreX, Y: tc.spec.KT.CentreY}, TEAngle: tc.spec.KT.TEAngleDeg * math.Pi / 180}
 			pts, err := k.Normalized(400)
 			if err != nil {
 				t.Fatal(err)

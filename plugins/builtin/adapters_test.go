@@ -10,6 +10,8 @@ import (
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/section"
+	"github.com/foilwright/foilwright/geometry/shape"
 	"github.com/foilwright/foilwright/plugins/builtin"
 	"github.com/foilwright/foilwright/plugins/builtin/sourcepanel"
 	"github.com/foilwright/foilwright/plugins/builtin/vortexpanel"
@@ -20,14 +22,14 @@ import (
 // (NACA Report 824 equations) with 2·perSurface cosine-spaced panels.
 func naca(t *testing.T, code string, perSurface int, sharp bool) ([]byte, []geometry.Point) {
 	t.Helper()
-	n, err := geometry.ParseNACA4(code)
+	n, err := shape.ParseNACA4(code)
 	if err != nil {
 		t.Fatal(err)
 	}
 	n.SharpTE = sharp
 	nodes := n.Loop(perSurface)
 	var b bytes.Buffer
-	if err := geometry.WriteSection(&b, &geometry.Section{Format: geometry.SectionFormat, Nodes: nodes}); err != nil {
+	if err := section.Write(&b, &section.Section{Format: section.Format, Nodes: nodes}); err != nil {
 		t.Fatal(err)
 	}
 	return b.Bytes(), nodes
@@ -153,7 +155,7 @@ func TestAdaptersMarkBadSections(t *testing.T) {
 	_, nodes := naca(t, "0012", 10, true)
 	slices.Reverse(nodes) // clockwise
 	var b bytes.Buffer
-	geometry.WriteSection(&b, &geometry.Section{Format: geometry.SectionFormat, Nodes: nodes})
+	section.Write(&b, &section.Section{Format: section.Format, Nodes: nodes})
 	for _, name := range []string{"vortex-panel", "source-panel"} {
 		if _, _, err := runStage(t, name, b.Bytes(), ""); !errors.Is(err, stage.ErrBadInput) || !strings.Contains(err.Error(), "clockwise") {
 			t.Errorf("%s: clockwise nodes: %v", name, err)

@@ -2,12 +2,15 @@ package builtin
 
 import (
 	"encoding/json"
+	"errors"
 	"fmt"
 	"math"
 	"time"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/internal/version"
+	"github.com/foilwright/foilwright/plugins/builtin/solver"
 	"github.com/foilwright/foilwright/plugins/stage"
 )
 
@@ -42,7 +45,7 @@ var cpParam = stage.Param{
 // request is a checked request: parameters, section, angles.
 type request struct {
 	v         stage.Values
-	section   *geometry.Section
+	section   *section.Section
 	alphasDeg []float64
 	alphas    []float64 // radians
 }
@@ -84,4 +87,20 @@ func cpPoints(nodes []geometry.Point, cp []float64) []stage.CpPoint {
 		out[i] = stage.CpPoint{X: nodes[i].X, Y: nodes[i].Y, Cp: cp[i]}
 	}
 	return out
+}
+
+// timings returns the phase times of a solver run for Result.Timings, with
+// the total since start.
+func timings(tm solver.Timings, start time.Time) map[string]time.Duration {
+	return map[string]time.Duration{"build": tm.Build, "factor": tm.Factor, "solve": tm.Solve, "total": time.Since(start)}
+}
+
+// panelError marks a panel solver's error: an ill-conditioned system is
+// ErrDiverged, anything else is a property of the input. The host adds the
+// stage and section to the message.
+func panelError(err error) error {
+	if errors.Is(err, solver.ErrIllConditioned) {
+		return stage.Diverged(err)
+	}
+	return stage.BadInput(err)
 }

@@ -11,29 +11,12 @@
 //
 // # Scalars and checks
 //
-// Every stage documents its scalars (per result) in Info.Scalars and its
-// checks (per case) below.
-//
-// vortex-panel: scalars panels (count), condition (condition number
-// estimate of the influence matrix), blunt (1 for a blunt trailing edge
-// closed by a source base panel, else 0); checks cl_pressure (Cl from the
-// integrated surface pressure), cl_diff (Kutta–Joukowski Cl minus
-// cl_pressure), cd_pressure (pressure drag, zero in exact potential flow),
-// stagnation_x, and base_source for a blunt trailing edge.
-//
-// source-panel: scalars panels, condition and closure_max (the largest
-// closed-body source sum |Σλs/Σ|λ|s| over the cases); checks closure (the
-// source sum of the case, zero for exact closure) and cd_pressure. Its
-// lift is a discretisation figure (no circulation) that vanishes as panels
-// are added; the pressure is given at the panel midpoints. An open trailing
-// edge is closed by a straight base panel unless close_te is false.
-//
-// thin-aerofoil: scalars cl_alpha (per radian), alpha_l0_deg, cm_c4 and
-// camber_samples; per case a0, a1, a2 (the Fourier coefficients A₀, A₁, A₂)
-// and x_cp (centre of pressure, chord fractions, where Cl ≠ 0), and the
-// load ΔCp along the chord instead of a surface pressure distribution. Its
-// timings are build (camber line from the nodes), factor (spline fit and
-// Fourier integrals) and solve.
+// Every stage documents its scalars (per result) in Info.Scalars, which
+// "stages describe" prints, and its checks (per case) in the doc comment
+// of its adapter type. A new built-in stage is a solver package under
+// plugins/builtin/NAME/, built on the checks, sentinels, condition error and
+// timings of package solver, and an adapter in plugins/builtin/NAME.go
+// that registers itself in init.
 package builtin
 
 import (

@@ -1,12 +1,12 @@
 package builtin
 
 import (
-	"bytes"
 	"context"
 	"encoding/json"
 	"fmt"
 	"math"
 	"sort"
+	"strings"
 
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/plot"
@@ -60,16 +60,12 @@ func (plots) Run(ctx context.Context, req stage.Request) (stage.Result, error) {
 			d.Warnings = append(d.Warnings, fmt.Sprintf("%s: %v", name, err))
 			return
 		}
-		var buf bytes.Buffer
-		if err := plot.Write(&buf, f, format, 0, 0); err != nil {
+		data, err := plot.Encode(f, format)
+		if err != nil {
 			d.Warnings = append(d.Warnings, fmt.Sprintf("%s: %v", name, err))
 			return
 		}
-		media := "image/svg+xml"
-		if format == plot.PNG {
-			media = "image/png"
-		}
-		arts = append(arts, stage.Artifact{Name: name + "." + format, MediaType: media, Data: buf.Bytes()})
+		arts = append(arts, stage.Artifact{Name: name + "." + format, MediaType: plot.MediaType(format), Data: data})
 	}
 	if r.v.Bool("section") {
 		f, err := plot.SectionPlot(plot.SectionFrom(r.section))
@@ -197,4 +193,14 @@ func flowOf(c *stage.Case, method string, body []geometry.Point) plot.FlowField 
 		}
 	}
 	return plot.FlowField{AlphaDeg: c.AlphaDeg, Method: method, Nx: f.NX, Ny: f.NY, X0: f.X0, Y0: f.Y0, DX: f.DX, DY: f.DY, Psi: psi, Body: body}
+}
+
+// PicturePath returns the file a picture of the plots stage goes to when it
+// draws the result of one stage, seen under id, beside the main picture at
+// path: the Cp chart (artifact cp-ID.FORMAT) at path itself, the others
+// beside it (path-polar, path-section, path-streamlines).
+func PicturePath(path, artifact, format, id string) string {
+	stem := strings.TrimSuffix(artifact, "."+format)
+	stem = strings.TrimSuffix(stem, "-"+id)
+	return plot.Beside(path, "cp", stem)
 }

@@ -18,6 +18,13 @@ func init() { register(sourcePanel{}) }
 // sourcePanel is the stage "source-panel": the Hess–Smith constant-source
 // panel method for non-lifting flow about a closed body (package
 // sourcepanel).
+//
+// Scalars: panels, condition and closure_max (the largest closed-body
+// source sum |Σλs/Σ|λ|s| over the cases). Checks per case: closure (the
+// source sum of the case, zero for exact closure) and cd_pressure. Its
+// lift is a discretisation figure (no circulation) that vanishes as panels
+// are added; the pressure is given at the panel midpoints. An open trailing
+// edge is closed by a straight base panel unless close_te is false.
 type sourcePanel struct{}
 
 var sourcePanelInfo = stage.Info{
@@ -54,14 +61,14 @@ func (sourcePanel) Run(ctx context.Context, req stage.Request) (stage.Result, er
 		sv, err = sourcepanel.New(nodes)
 	}
 	if err != nil {
-		return stage.Result{}, panelError(err, sourcepanel.ErrIllConditioned)
+		return stage.Result{}, panelError(err)
 	}
 	if err := ctx.Err(); err != nil {
 		return stage.Result{}, err
 	}
 	cases, err := sv.Solve(r.alphas)
 	if err != nil {
-		return stage.Result{}, panelError(err, sourcepanel.ErrIllConditioned)
+		return stage.Result{}, panelError(err)
 	}
 	tm := sv.Timings()
 	d.SetScalar("panels", float64(len(nodes)-1))
@@ -103,20 +110,5 @@ func (sourcePanel) Run(ctx context.Context, req stage.Request) (stage.Result, er
 		d.AddCase(out)
 	}
 	d.SetScalar("closure_max", worst)
-	return finish(d, map[string]time.Duration{
-		"build":  tm.Build,
-		"factor": tm.Factor,
-		"solve":  tm.Solve,
-		"total":  time.Since(start),
-	})
-}
-
-// panelError marks a panel solver's error: an ill-conditioned system is
-// ErrDiverged, anything else is a property of the input. The host adds the
-// stage and section to the message.
-func panelError(err, illConditioned error) error {
-	if errors.Is(err, illConditioned) {
-		return stage.Diverged(err)
-	}
-	return stage.BadInput(err)
+	return finish(d, timings(tm, start))
 }

@@ -6,6 +6,7 @@ import (
 	"math"
 	"time"
 
+	"github.com/foilwright/foilwright/plugins/builtin/solver"
 	"github.com/foilwright/foilwright/plugins/builtin/thinaerofoil"
 	"github.com/foilwright/foilwright/plugins/stage"
 )
@@ -14,6 +15,13 @@ func init() { register(thinAerofoil{}) }
 
 // thinAerofoil is the stage "thin-aerofoil": thin-aerofoil theory from the
 // section's camber line (package thinaerofoil).
+//
+// Scalars: cl_alpha (per radian), alpha_l0_deg, cm_c4 and camber_samples.
+// Per case: a0, a1, a2 (the Fourier coefficients A₀, A₁, A₂) and x_cp
+// (centre of pressure, chord fractions, where Cl ≠ 0), and the load ΔCp
+// along the chord instead of a surface pressure distribution. Its timings
+// are build (camber line from the nodes), factor (spline fit and Fourier
+// integrals) and solve.
 type thinAerofoil struct{}
 
 var thinAerofoilInfo = stage.Info{
@@ -93,10 +101,5 @@ func (thinAerofoil) Run(ctx context.Context, req stage.Request) (stage.Result, e
 		}
 		d.AddCase(out)
 	}
-	return finish(d, map[string]time.Duration{
-		"build":  t1.Sub(start),
-		"factor": t2.Sub(t1),
-		"solve":  time.Since(t2),
-		"total":  time.Since(start),
-	})
+	return finish(d, timings(solver.Timings{Build: t1.Sub(start), Factor: t2.Sub(t1), Solve: time.Since(t2)}, start))
 }

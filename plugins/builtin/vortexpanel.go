@@ -13,6 +13,13 @@ func init() { register(vortexPanel{}) }
 
 // vortexPanel is the stage "vortex-panel": the linear-strength vortex
 // panel method with the Kutta condition (package vortexpanel).
+//
+// Scalars: panels (count), condition (condition number estimate of the
+// influence matrix), blunt (1 for a blunt trailing edge closed by a source
+// base panel, else 0). Checks per case: cl_pressure (Cl from the integrated
+// surface pressure), cl_diff (Kutta–Joukowski Cl minus cl_pressure),
+// cd_pressure (pressure drag, zero in exact potential flow), stagnation_x,
+// and base_source for a blunt trailing edge.
 type vortexPanel struct{}
 
 var vortexPanelInfo = stage.Info{
@@ -37,14 +44,14 @@ func (vortexPanel) Run(ctx context.Context, req stage.Request) (stage.Result, er
 	}
 	sv, err := vortexpanel.New(r.section.Nodes)
 	if err != nil {
-		return stage.Result{}, panelError(err, vortexpanel.ErrIllConditioned)
+		return stage.Result{}, panelError(err)
 	}
 	if err := ctx.Err(); err != nil {
 		return stage.Result{}, err
 	}
 	cases, err := sv.Solve(r.alphas)
 	if err != nil {
-		return stage.Result{}, panelError(err, vortexpanel.ErrIllConditioned)
+		return stage.Result{}, panelError(err)
 	}
 	tm := sv.Timings()
 	d := stage.NewResultDoc(vortexPanelInfo)
@@ -89,10 +96,5 @@ func (vortexPanel) Run(ctx context.Context, req stage.Request) (stage.Result, er
 		}
 		d.AddCase(out)
 	}
-	return finish(d, map[string]time.Duration{
-		"build":  tm.Build,
-		"factor": tm.Factor,
-		"solve":  tm.Solve,
-		"total":  time.Since(start),
-	})
+	return finish(d, timings(tm, start))
 }

@@ -17,6 +17,7 @@ import (
 	"github.com/hashicorp/go-hclog"
 	"github.com/hashicorp/go-plugin"
 
+	"github.com/foilwright/foilwright/internal/digest"
 	"github.com/foilwright/foilwright/plugins/stage"
 )
 
@@ -314,7 +315,7 @@ func (h *Host) startError(spec Spec, path string, want []byte, err error) error 
 	switch {
 	case errors.Is(err, plugin.ErrChecksumsDoNotMatch):
 		got := "unknown"
-		if sum, herr := fileSHA256(path); herr == nil {
+		if sum, herr := digest.File(path); herr == nil {
 			got = sum
 		}
 		return fmt.Errorf("%w: sha256 of %s is %s, but %s is pinned; the executable changed since it was pinned: check it, then update the pin",
@@ -369,17 +370,4 @@ func executable(path string) (string, error) {
 
 // FileSHA256 returns the hex sha256 of the file at path, as a pin for
 // Spec.SHA256 and for manifests.
-func FileSHA256(path string) (string, error) { return fileSHA256(path) }
-
-func fileSHA256(path string) (string, error) {
-	f, err := os.Open(path)
-	if err != nil {
-		return "", err
-	}
-	defer f.Close()
-	h := sha256.New()
-	if _, err := io.Copy(h, f); err != nil {
-		return "", err
-	}
-	return hex.EncodeToString(h.Sum(nil)), nil
-}
+func FileSHA256(path string) (string, error) { return digest.File(path) }

@@ -171,7 +171,14 @@ func (r *Runner) call(ctx context.Context, p *process, info stage.Info, req stag
 		e.Stderr = p.tail.lines()
 		return e
 	}
-	switch code := status.Code(err); {
+	code := status.Code(err)
+	if code == codes.DeadlineExceeded {
+		// The stage gets the deadline as a timeout header and may give up
+		// a moment before this side's context ends: wait for it (it is due
+		// now), so that the failure is told by the context that ended.
+		<-cctx.Done()
+	}
+	switch {
 	case ctx.Err() != nil:
 		// Cancelled by the caller (Ctrl-C): end the process, which may be
 		// busy with a call nobody waits for.

@@ -5,7 +5,7 @@ import (
 	"context"
 	"time"
 
-	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/section"
 )
 
 // Stage is one analysis step, run in its own process.
@@ -63,12 +63,12 @@ type Request struct {
 
 // DecodeSection decodes the section document of r. Errors are marked
 // BadInput and name r.SectionName.
-func (r Request) DecodeSection() (*geometry.Section, error) {
+func (r Request) DecodeSection() (*section.Section, error) {
 	name := r.SectionName
 	if name == "" {
 		name = "section"
 	}
-	s, err := geometry.ReadSection(bytes.NewReader(r.Section), name)
+	s, err := section.Read(bytes.NewReader(r.Section), name)
 	if err != nil {
 		return nil, BadInput(err)
 	}

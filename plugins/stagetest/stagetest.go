@@ -25,7 +25,8 @@ import (
 
 	"github.com/hashicorp/go-plugin"
 
-	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/section"
+	"github.com/foilwright/foilwright/geometry/shape"
 	"github.com/foilwright/foilwright/plugins/stage"
 )
 
@@ -48,12 +49,12 @@ type Options struct {
 // Section returns a section document of a NACA 0012 section with a sharp
 // trailing edge and 2·perSurface panels spaced by the cosine law, in the
 // node order of package geometry. The shape is that of NACA Report 824's
-// equations (geometry.NACA4).
+// equations (shape.NACA4).
 func Section(perSurface int) []byte {
-	n := geometry.NACA4{Thickness: 0.12, SharpTE: true}
-	s := &geometry.Section{Format: geometry.SectionFormat, Name: "naca0012", Units: "chord", Nodes: n.Loop(perSurface)}
+	n := shape.NACA4{Thickness: 0.12, SharpTE: true}
+	s := &section.Section{Format: section.Format, Name: "naca0012", Units: "chord", Nodes: n.Loop(perSurface)}
 	var b bytes.Buffer
-	if err := geometry.WriteSection(&b, s); err != nil {
+	if err := section.Write(&b, s); err != nil {
 		panic("stagetest: " + err.Error())
 	}
 	return b.Bytes()

@@ -5,6 +5,7 @@ import (
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/shape"
 )
 
 // FuzzNew feeds arbitrary contours to New and Solve: they must return an
@@ -17,8 +18,8 @@ func FuzzNew(f *testing.F) {
 		}
 		return b
 	}
-	f.Add(seed(geometry.NACA4{Thickness: 0.12, SharpTE: true}.Loop(8)))
-	f.Add(seed(geometry.NACA4{Camber: 0.04, CamberPos: 0.4, Thickness: 0.15, SharpTE: true}.Loop(10)))
+	f.Add(seed(shape.NACA4{Thickness: 0.12, SharpTE: true}.Loop(8)))
+	f.Add(seed(shape.NACA4{Camber: 0.04, CamberPos: 0.4, Thickness: 0.15, SharpTE: true}.Loop(10)))
 	f.Add([]byte{1, 2, 3})
 	f.Fuzz(func(t *testing.T, data []byte) {
 		if len(data) > 400 {

@@ -5,6 +5,7 @@ import (
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/shape"
 )
 
 // ellipse returns an ellipse of chord 1 about (0.5, 0) with thickness ratio
@@ -60,7 +61,7 @@ func TestMomentEllipse(t *testing.T) {
 // A symmetric section at 0° has no moment by symmetry; at ±α the moments
 // are opposite.
 func TestMomentSymmetricSection(t *testing.T) {
-	n, err := geometry.ParseNACA4("0012")
+	n, err := shape.ParseNACA4("0012")
 	if err != nil {
 		t.Fatal(err)
 	}

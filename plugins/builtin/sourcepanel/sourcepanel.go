@@ -51,25 +51,6 @@ const ClosureTolerance = 1e-2
 // influence matrix that New accepts.
 const MaxCondition = 1e12
 
-// A ConditionError reports an influence matrix whose condition number
-// exceeds MaxCondition. It wraps ErrIllConditioned.
-type ConditionError struct {
-	Cond float64 // condition number estimate
-}
-
-func (e *ConditionError) Error() string {
-	return fmt.Sprintf("sourcepanel: %v: condition number %.3g exceeds %.3g", ErrIllConditioned, e.Cond, MaxCondition)
-}
-
-func (e *ConditionError) Unwrap() error { return ErrIllConditioned }
-
-// Timings are the durations of the phases of a solution measured inside the
-// solver: the matrix build and its LU factorisation (in New) and the last
-// call to Solve.
-type Timings struct {
-	Build, Factor, Solve time.Duration
-}
-
 // Solver holds the panels of a closed body and its factored influence
 // matrix. It is safe for concurrent use.
 type Solver struct {
@@ -117,7 +98,7 @@ func New(nodes []geometry.Point) (*Solver, error) {
 	t2 := time.Now()
 	sv.timings = Timings{Build: t1.Sub(t0), Factor: t2.Sub(t1)}
 	if !(sv.cond <= MaxCondition) {
-		return nil, &ConditionError{Cond: sv.cond}
+		return nil, &ConditionError{Solver: pkgName, Cond: sv.cond, Max: MaxCondition}
 	}
 	return sv, nil
 }
@@ -215,7 +196,7 @@ func (sv *Solver) Solve(alphas []float64) ([]Case, error) {
 	}
 	var x mat.Dense
 	if err := sv.lu.SolveTo(&x, false, b); err != nil {
-		return nil, &ConditionError{Cond: sv.cond}
+		return nil, &ConditionError{Solver: pkgName, Cond: sv.cond, Max: MaxCondition}
 	}
 	cases := make([]Case, len(alphas))
 	for k, alpha := range alphas {

@@ -7,6 +7,7 @@ import (
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/shape"
 )
 
 // circle returns a circle of radius 0.5 about (0.5, 0) in node order,
@@ -114,7 +115,7 @@ func TestCylinderField(t *testing.T) {
 // panels are added and the source sum closes.
 func TestNoLiftOnSections(t *testing.T) {
 	for _, code := range []string{"0012", "4415"} {
-		n, err := geometry.ParseNACA4(code)
+		n, err := shape.ParseNACA4(code)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -144,7 +145,7 @@ func TestNoLiftOnSections(t *testing.T) {
 // upper and lower panels: the matrix is numerically singular (measured
 // condition 1e15) and New must say so rather than return numbers.
 func TestIllConditioned(t *testing.T) {
-	nodes := geometry.NACA4{Thickness: 0.12, SharpTE: true}.Loop(20)
+	nodes := shape.NACA4{Thickness: 0.12, SharpTE: true}.Loop(20)
 	for i := range nodes {
 		nodes[i].Y *= 1e-13
 	}

@@ -5,13 +5,14 @@ import (
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/shape"
 )
 
 // Potential-flow theory: the body surface is a streamline. This also checks
 // that the centroid-relative branch of the source angles leaves ψ
 // single-valued round a section.
 func TestSurfaceIsStreamline(t *testing.T) {
-	n, err := geometry.ParseNACA4("4412")
+	n, err := shape.ParseNACA4("4412")
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -4,13 +4,13 @@ import (
 	"fmt"
 	"math"
 
-	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/shape"
 	"github.com/foilwright/foilwright/plugins/builtin/thinaerofoil"
 )
 
 // The camber line of a NACA 2412 taken from its nodes.
 func Example() {
-	nodes := geometry.NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12, SharpTE: true}.Loop(100)
+	nodes := shape.NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12, SharpTE: true}.Loop(100)
 	xs, ycs, err := thinaerofoil.CamberFromNodes(nodes)
 	if err != nil {
 		fmt.Println(err)

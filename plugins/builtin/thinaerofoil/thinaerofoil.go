@@ -34,6 +34,7 @@ import (
 	"math"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/plugins/builtin/solver"
 	"gonum.org/v1/gonum/integrate/quad"
 	"gonum.org/v1/gonum/interp"
 )
@@ -67,8 +68,9 @@ var (
 	ErrChordEnds = errors.New("camber line does not span the chord")
 	// ErrLengths means xs and ycs differ in length.
 	ErrLengths = errors.New("xs and ycs differ in length")
-	// ErrAlphaRange means an angle of attack is outside [−90°, 90°].
-	ErrAlphaRange = errors.New("angle of attack outside [-90°, 90°]")
+	// ErrAlphaRange means an angle of attack is outside [−90°, 90°] (the
+	// panel solvers' own, package solver).
+	ErrAlphaRange = solver.ErrAlphaRange
 	// ErrStation means a load station is not strictly inside (0, 1).
 	ErrStation = errors.New("load station outside (0, 1)")
 )
@@ -242,7 +244,7 @@ type Case struct {
 // Solve returns the case at each angle of attack (radians). It returns an
 // error wrapping ErrNonFinite or ErrAlphaRange for a bad angle.
 func (c *Camber) Solve(alphas []float64) ([]Case, error) {
-	if err := taCheckAlphas(alphas); err != nil {
+	if err := solver.CheckAlphas("thinaerofoil", alphas, ErrNonFinite); err != nil {
 		return nil, err
 	}
 	out := make([]Case, len(alphas))
@@ -262,7 +264,7 @@ func (c *Camber) Solve(alphas []float64) ([]Case, error) {
 // A₀ … A_Terms. It returns an error wrapping ErrStation for a station not
 // strictly inside (0, 1), or the errors of Solve for a bad angle.
 func (c *Camber) Load(alpha float64, xs []float64) ([]float64, error) {
-	if err := taCheckAlphas([]float64{alpha}); err != nil {
+	if err := solver.CheckAlphas("thinaerofoil", []float64{alpha}, ErrNonFinite); err != nil {
 		return nil, err
 	}
 	out := make([]float64, len(xs))
@@ -280,16 +282,4 @@ func (c *Camber) Load(alpha float64, xs []float64) ([]float64, error) {
 		out[k] = 4 * v
 	}
 	return out, nil
-}
-
-func taCheckAlphas(alphas []float64) error {
-	for i, a := range alphas {
-		if math.IsNaN(a) || math.IsInf(a, 0) {
-			return fmt.Errorf("thinaerofoil: %w: angle %d is %g", ErrNonFinite, i, a)
-		}
-		if math.Abs(a) > math.Pi/2*(1+1e-15) {
-			return fmt.Errorf("thinaerofoil: %w: angle %d is %.6g°", ErrAlphaRange, i, a*180/math.Pi)
-		}
-	}
-	return nil
 }

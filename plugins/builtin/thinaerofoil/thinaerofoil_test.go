@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/shape"
 	"gonum.org/v1/gonum/integrate/quad"
 )
 
@@ -69,7 +70,7 @@ func TestParabolicCamber(t *testing.T) {
 // Exact: a flat plate has Cl = 2πα, x_cp = 1/4 and ΔCp = 4α √((1 − x)/x)
 // (Katz & Plotkin 2001, ch. 5); a symmetric section has zero α_L0 and Cm.
 func TestSymmetric(t *testing.T) {
-	xs, ycs, err := CamberFromNodes(geometry.NACA4{Thickness: 0.12}.Loop(60))
+	xs, ycs, err := CamberFromNodes(shape.NACA4{Thickness: 0.12}.Loop(60))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -103,11 +104,11 @@ func TestSymmetric(t *testing.T) {
 }
 
 // analytic2412 evaluates the thin-aerofoil integrals of the NACA 2412 camber
-// line (NACA Report 824 equations, geometry.NACA4) by 200-point
+// line (NACA Report 824 equations, shape.NACA4) by 200-point
 // Gauss–Legendre quadrature (gonum quad) on each side of the kink at x = p.
 func analytic2412(t *testing.T) (alphaL0, cm float64) {
 	t.Helper()
-	n, err := geometry.ParseNACA4("2412")
+	n, err := shape.ParseNACA4("2412")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -133,7 +134,7 @@ func TestNACA2412(t *testing.T) {
 	if math.Abs(refAL0*180/math.Pi+2.08) > 0.005 || math.Abs(refCm+0.053) > 0.0005 {
 		t.Errorf("analytic α_L0 = %.4f°, Cm = %.4f; textbook −2.08°, −0.053", refAL0*180/math.Pi, refCm)
 	}
-	n, err := geometry.ParseNACA4("2412")
+	n, err := shape.ParseNACA4("2412")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -200,10 +201,10 @@ func TestBadInput(t *testing.T) {
 			t.Errorf("%s: err = %v, want %v", tc.name, err, tc.want)
 		}
 	}
-	if _, _, err := CamberFromNodes(geometry.NACA4{Thickness: 0.1}.Loop(3)); !errors.Is(err, ErrTooFewSamples) {
+	if _, _, err := CamberFromNodes(shape.NACA4{Thickness: 0.1}.Loop(3)); !errors.Is(err, ErrTooFewSamples) {
 		t.Errorf("7 nodes: err = %v", err)
 	}
-	hooked := geometry.NACA4{Thickness: 0.1}.Loop(10)
+	hooked := shape.NACA4{Thickness: 0.1}.Loop(10)
 	hooked[6].X = hooked[4].X + 0.01 // doubles back at mid-chord
 	if _, _, err := CamberFromNodes(hooked); !errors.Is(err, ErrNotIncreasing) {
 		t.Errorf("hooked surface: err = %v", err)
@@ -227,7 +228,7 @@ func TestCamberFromNodesHookedTrailingEdge(t *testing.T) {
 	// A rounded trailing edge doubles back in x behind its tip; the camber
 	// line stops there and matches that of the section without the hook
 	// (NACA 2412, NACA Report 824 equations).
-	foil := geometry.NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12, SharpTE: true}
+	foil := shape.NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12, SharpTE: true}
 	nodes := foil.Nodes(120)
 	hooked := append([]geometry.Point{{X: 0.998, Y: 0.004}}, nodes...)
 	hooked = append(hooked, geometry.Point{X: 0.998, Y: -0.004})

@@ -6,13 +6,14 @@ import (
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/shape"
 	"gonum.org/v1/gonum/mat"
 )
 
 var benchPanels = []int{100, 200, 400, 800}
 
 func benchNodes(panels int) []geometry.Point {
-	return geometry.NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12, SharpTE: true}.Loop(panels / 2)
+	return shape.NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12, SharpTE: true}.Loop(panels / 2)
 }
 
 func benchSolver(b *testing.B, panels int) *Solver {

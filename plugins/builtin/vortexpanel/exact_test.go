@@ -7,6 +7,7 @@ import (
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/shape"
 )
 
 // ktExact is the exact potential flow about a Kármán–Trefftz section, from
@@ -16,7 +17,7 @@ import (
 // It works in the section's normalised frame: the free stream at α there is
 // at α + θ in the mapping plane, θ = arg(te − le).
 type ktExact struct {
-	k           geometry.KarmanTrefftz
+	k           shape.KarmanTrefftz
 	n           float64 // map exponent 2 − τ/π
 	zc          complex128
 	r, phi0     float64
@@ -24,7 +25,7 @@ type ktExact struct {
 	chord, turn float64 // mapping-plane chord and θ
 }
 
-func newKTExact(t *testing.T, k geometry.KarmanTrefftz) ktExact {
+func newKTExact(t *testing.T, k shape.KarmanTrefftz) ktExact {
 	t.Helper()
 	le, te, err := k.Edges()
 	if err != nil {
@@ -41,7 +42,7 @@ func newKTExact(t *testing.T, k geometry.KarmanTrefftz) ktExact {
 }
 
 // phi returns the circle angle of node i of `panels` (uniform from the TE,
-// as documented by geometry.KarmanTrefftz.Points).
+// as documented by shape.KarmanTrefftz.Points).
 func (e ktExact) phi(i, panels int) float64 {
 	return e.phi0 + 2*math.Pi*float64(i)/float64(panels)
 }
@@ -94,18 +95,18 @@ func (e ktExact) mapped(t *testing.T, zeta complex128, alpha float64) (p, vel ge
 // trailing edge) and a Kármán–Trefftz section with a 12° trailing edge.
 var ktCases = []struct {
 	name  string
-	k     geometry.KarmanTrefftz
+	k     shape.KarmanTrefftz
 	alpha float64 // degrees
 }{
-	{"joukowski-cambered", geometry.KarmanTrefftz{Centre: geometry.Point{X: -0.08, Y: 0.06}}, 4},
-	{"joukowski-symmetric", geometry.KarmanTrefftz{Centre: geometry.Point{X: -0.1, Y: 0}}, 6},
-	{"karman-trefftz-12deg", geometry.KarmanTrefftz{Centre: geometry.Point{X: -0.08, Y: 0.06}, TEAngle: 12 * math.Pi / 180}, 4},
+	{"joukowski-cambered", shape.KarmanTrefftz{Centre: geometry.Point{X: -0.08, Y: 0.06}}, 4},
+	{"joukowski-symmetric", shape.KarmanTrefftz{Centre: geometry.Point{X: -0.1, Y: 0}}, 6},
+	{"karman-trefftz-12deg", shape.KarmanTrefftz{Centre: geometry.Point{X: -0.08, Y: 0.06}, TEAngle: 12 * math.Pi / 180}, 4},
 }
 
 // solveKT solves section k at alpha (degrees) with `panels` panels and
 // returns the relative Cl error and the RMS Cp error over the nodes with
 // x < cpRegion (away from the trailing edge).
-func solveKT(t *testing.T, k geometry.KarmanTrefftz, alphaDeg float64, panels int) (clErr, cpRMS float64, c Case) {
+func solveKT(t *testing.T, k shape.KarmanTrefftz, alphaDeg float64, panels int) (clErr, cpRMS float64, c Case) {
 	t.Helper()
 	const cpRegion = 0.95
 	e := newKTExact(t, k)

@@ -4,13 +4,13 @@ import (
 	"fmt"
 	"math"
 
-	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/shape"
 	"github.com/foilwright/foilwright/plugins/builtin/vortexpanel"
 )
 
 // A sweep over three angles of a NACA 2412 with 160 panels.
 func Example() {
-	nodes := geometry.NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12, SharpTE: true}.Loop(80)
+	nodes := shape.NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12, SharpTE: true}.Loop(80)
 	sv, err := vortexpanel.New(nodes)
 	if err != nil {
 		fmt.Println(err)

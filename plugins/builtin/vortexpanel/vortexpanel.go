@@ -1,7 +1,6 @@
 package vortexpanel
 
 import (
-	"fmt"
 	"math"
 	"runtime"
 	"sync"
@@ -21,25 +20,6 @@ const MaxCondition = 1e12
 // a sharp trailing edge below which the edge is treated as a cusp: see the
 // package documentation. It is 2°.
 const CuspAngle = 2 * math.Pi / 180
-
-// A ConditionError reports an influence matrix whose condition number
-// exceeds MaxCondition. It wraps ErrIllConditioned.
-type ConditionError struct {
-	Cond float64 // condition number estimate
-}
-
-func (e *ConditionError) Error() string {
-	return fmt.Sprintf("vortexpanel: %v: condition number %.3g exceeds %.3g", ErrIllConditioned, e.Cond, MaxCondition)
-}
-
-func (e *ConditionError) Unwrap() error { return ErrIllConditioned }
-
-// Timings are the durations of the phases of a solution, measured inside the
-// solver: building the influence matrix and factoring it (both in New), and
-// the last call to Solve (two back-substitutions and the per-angle results).
-type Timings struct {
-	Build, Factor, Solve time.Duration
-}
 
 // Solver holds a section's panels and the factored influence matrix. It is
 // safe for concurrent use.
@@ -83,7 +63,7 @@ func New(nodes []geometry.Point) (*Solver, error) {
 	t2 := time.Now()
 	sv.timings = Timings{Build: t1.Sub(t0), Factor: t2.Sub(t1)}
 	if !(sv.cond <= MaxCondition) {
-		return nil, &ConditionError{Cond: sv.cond}
+		return nil, &ConditionError{Solver: pkgName, Cond: sv.cond, Max: MaxCondition}
 	}
 	return sv, nil
 }
@@ -322,7 +302,7 @@ func (sv *Solver) Solve(alphas []float64) ([]Case, error) {
 	}
 	var x mat.Dense
 	if err := sv.lu.SolveTo(&x, false, b); err != nil {
-		return nil, &ConditionError{Cond: sv.cond}
+		return nil, &ConditionError{Solver: pkgName, Cond: sv.cond, Max: MaxCondition}
 	}
 	cases := make([]Case, len(alphas))
 	for k, alpha := range alphas {

@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/shape"
 )
 
 func deg(d float64) float64 { return d * math.Pi / 180 }
@@ -14,7 +15,7 @@ func deg(d float64) float64 { return d * math.Pi / 180 }
 // 2·half panels, sharp or with the standard open trailing edge.
 func naca(t *testing.T, code string, half int, sharp bool) []geometry.Point {
 	t.Helper()
-	n, err := geometry.ParseNACA4(code)
+	n, err := shape.ParseNACA4(code)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -137,7 +138,7 @@ func TestStagnation(t *testing.T) {
 // say so with the condition estimate (measured 2e12) rather than return
 // numbers.
 func TestIllConditioned(t *testing.T) {
-	nodes := geometry.NACA4{Thickness: 0.12, SharpTE: false}.Loop(20)
+	nodes := shape.NACA4{Thickness: 0.12, SharpTE: false}.Loop(20)
 	for i := range nodes {
 		nodes[i].Y *= 1e-9
 	}

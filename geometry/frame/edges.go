@@ -1,0 +1,372 @@
+package frame
+
+import (
+	"errors"
+	"fmt"
+	"math"
+
+	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/curve"
+	"github.com/foilwright/foilwright/internal/enum"
+)
+
+// Trailing-edge kinds (TrailingEdge.Kind).
+const (
+	TESharp   = "sharp"   // the surfaces meet in a corner
+	TEBlunt   = "blunt"   // a straight base of some thickness joins the surfaces
+	TERounded = "rounded" // a small-radius, nose-like end
+	TEOpen    = "open"    // the ends do not meet and no base joins them
+)
+
+// Trailing-edge treatments (Options.TE) and what was done
+// (TrailingEdge.Action).
+const (
+	TEAuto      = "auto"    // keep every edge as found (see Options.TE)
+	TEKeep      = "keep"    // leave the edge as it is
+	TEClose     = "close"   // close a blunt edge by blending its thickness away
+	TESharpen   = "sharpen" // extend both surfaces to their intersection
+	TEKept      = "kept"
+	TEClosed    = "closed"
+	TESharpened = "sharpened"
+)
+
+// Mirror modes (Options.Mirror).
+const (
+	MirrorAuto = "auto" // decide from the sign of the camber
+	MirrorYes  = "yes"
+	MirrorNo   = "no"
+)
+
+// Treatments lists the trailing-edge treatments a user may ask for
+// (Options.TE), with what each does, in the order help texts, completions,
+// the pipeline file's checks and messages give them.
+func Treatments() []enum.Choice {
+	return []enum.Choice{
+		{Name: TEAuto, Doc: "keep it as found and report it"},
+		{Name: TEKeep},
+		{Name: TEClose, Doc: "blend a blunt edge shut"},
+		{Name: TESharpen, Doc: "extend the surfaces of a rounded edge to their intersection"},
+	}
+}
+
+// MirrorModes lists the mirror modes (Options.Mirror) in the order help
+// texts give them.
+func MirrorModes() []enum.Choice {
+	return []enum.Choice{{Name: MirrorAuto}, {Name: MirrorYes}, {Name: MirrorNo}}
+}
+
+// Tolerances of the edge analysis, in chord units, that users can see.
+const (
+	// EdgeSharpGap is the largest distance between the curve ends for which
+	// they count as meeting (a sharp trailing edge).
+	EdgeSharpGap = 1e-4
+	// EdgeDefaultBlend is the aft chord fraction over which a blunt edge is
+	// closed when Options.Blend is 0.
+	EdgeDefaultBlend = 0.1
+	// EdgeMaxWidth is the largest width of the body across its chord line,
+	// as a fraction of the chord, for which it counts as a section with an
+	// identifiable leading edge.
+	EdgeMaxWidth = 0.5
+	// EdgeMaxTERadius is the largest radius of a rounded trailing edge, as a
+	// fraction of the chord.
+	EdgeMaxTERadius = 0.05
+	// EdgeMirrorCentroid is how far below the chord line (chord units) the
+	// centroid must lie before an automatic mirror is applied.
+	EdgeMirrorCentroid = 1e-3
+)
+
+// CornerTurn is the tangent turn (radians, 10°) at the start of a closed
+// curve that makes it a corner rather than a smooth, rounded edge.
+const CornerTurn = 10 * math.Pi / 180
+
+// ErrNoLeadingEdge means the body has no distinct far point and trailing
+// edge (a circle, a square), so the leading edge must be given.
+var ErrNoLeadingEdge = errors.New("no identifiable leading edge")
+
+// ErrTrailingEdge means the requested trailing-edge treatment cannot be
+// applied to the edge found.
+var ErrTrailingEdge = errors.New("cannot treat the trailing edge")
+
+// Options controls Normalize. The zero value finds both edges
+// automatically, keeps the trailing edge as found (sharp, blunt, open or
+// rounded), and mirrors when the camber says the section is upside down.
+type Options struct {
+	// TE is TEAuto (or ""), TEKeep, TEClose or TESharpen. TEAuto keeps
+	// every edge: a rounded end is the shape of the part (a printed or worn
+	// edge), and sharpening it adds material that is not there, about
+	// r/sin(θ/2) − r behind the tip for radius r and included angle θ
+	// (2–3 % of the chord for a 0.5 % chord radius on a 20° edge), which
+	// lengthens the chord and shifts every chord-unit figure. So auto
+	// keeps it, reports it (kind rounded, its radius, thickness and the
+	// angle of the surfaces just ahead of it) and says in a warning how far
+	// sharpening would move the tip; TESharpen is the explicit request.
+	TE string
+	// Blend is the aft chord fraction over which TEClose blends a blunt
+	// edge's thickness away; 0 means EdgeDefaultBlend. It must lie in (0, 1).
+	Blend float64
+	// LEAt, when set, places the leading edge at the curve point nearest to
+	// it (input coordinates) instead of the point farthest from the
+	// trailing edge.
+	LEAt *geometry.Point
+	// Mirror is MirrorAuto (or ""), MirrorYes or MirrorNo.
+	Mirror string
+}
+
+// edges locates the trailing edge and the leading edge of cv (input
+// coordinates) and classifies the trailing edge.
+type edges struct {
+	kind   string
+	te     geometry.Point // trailing-edge point: midpoint of the ends, or the tip of a rounded edge
+	sTip   float64        // arc length of the tip (rounded)
+	sLE    float64        // arc length of the leading edge
+	le     geometry.Point
+	chord  float64
+	gap    float64 // distance between the ends (input units)
+	rTip   float64 // radius of a rounded edge (input units)
+	width  float64 // width across the chord line (input units)
+	cosGap float64 // |cos| of the angle between the base and the chord line
+	// round describes a rounded end (valid when roundOK).
+	round   RoundedEnd
+	roundOK bool
+}
+
+func locate(cv *curve.Curve, leAt *geometry.Point) (*edges, error) {
+	L := cv.Length()
+	e := &edges{}
+	leFrom := func(te geometry.Point) {
+		if leAt != nil {
+			e.sLE, _ = cv.Project(*leAt)
+		} else {
+			e.sLE, _ = cv.Farthest(te, 0, L)
+		}
+		e.le = cv.At(e.sLE)
+	}
+	// A closed curve with a corner at its start (a normalised sharp
+	// section) is treated like an open one whose ends meet.
+	ta, tb := cv.Tangent(L), cv.Tangent(0)
+	cornered := math.Abs(math.Atan2(ta.Cross(tb), ta.Dot(tb))) > CornerTurn
+	if cv.Closed() && !cornered {
+		e.kind = TERounded
+		e.te = cv.Start()
+		for range 4 {
+			leFrom(e.te)
+			e.sTip, _ = cv.Farthest(e.le, 0.75*L, 0.25*L)
+			e.te = cv.At(e.sTip)
+		}
+		e.round, e.roundOK = AnalyseRounded(cv, e.sTip, e.le.Dist(e.te))
+		if e.roundOK {
+			// The farthest curve point of a smooth end slides along it
+			// with the slightest wiggle (a radial error δ moves it by
+			// about √(2rδ)), so the tip is taken as the curve point
+			// nearest to the point of the end's fitted circle farthest
+			// from the leading edge.
+			c, r := e.round.center, e.round.radius
+			if d := c.Sub(e.le); d.Norm() > 0 {
+				q := c.Add(d.Scale(r / d.Norm()))
+				if s, _ := cv.Project(q); cv.At(s).Dist(e.te) < 2*r {
+					e.sTip, e.te = s, cv.At(s)
+					leFrom(e.te)
+					if r2, ok := AnalyseRounded(cv, e.sTip, e.le.Dist(e.te)); ok {
+						e.round = r2
+					}
+				}
+			}
+		}
+		e.rTip = math.Inf(1)
+		if e.roundOK {
+			e.rTip = e.round.radius
+		} else if k := cv.Curvature(e.sTip); k > 0 {
+			e.rTip = 1 / k
+		}
+	} else {
+		u, l := cv.Start(), cv.End()
+		e.te = u.Add(l).Scale(0.5)
+		e.gap = u.Dist(l)
+		leFrom(e.te)
+	}
+	d := e.te.Sub(e.le)
+	e.chord = d.Norm()
+	if !(e.chord > 0) {
+		return nil, fmt.Errorf("geometry: %w: the leading edge coincides with the trailing edge; set it with --le-at X,Y", ErrNoLeadingEdge)
+	}
+	dir := d.Scale(1 / e.chord)
+	nrm := geometry.Point{X: -dir.Y, Y: dir.X}
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for i := 0; i < cv.Pieces(); i++ {
+		for _, f := range [...]float64{0, 0.5} {
+			q, _, _ := cv.Eval(i, f*cv.Span(i))
+			v := q.Sub(e.le).Dot(nrm)
+			lo, hi = math.Min(lo, v), math.Max(hi, v)
+		}
+	}
+	e.width = hi - lo
+	if !cv.Closed() || cornered {
+		switch {
+		case e.gap <= EdgeSharpGap*e.chord:
+			e.kind = TESharp
+		default:
+			e.cosGap = math.Abs(cv.End().Sub(cv.Start()).Dot(dir)) / e.gap
+			if e.cosGap < 0.5 && e.gap < 0.1*e.chord {
+				e.kind = TEBlunt
+			} else {
+				e.kind = TEOpen
+			}
+		}
+	}
+	if leAt == nil {
+		if e.width >= EdgeMaxWidth*e.chord {
+			return nil, fmt.Errorf("geometry: %w: the body is %.0f%% as wide as it is long, so no point stands out as the nose; set the leading edge with --le-at X,Y", ErrNoLeadingEdge, 100*e.width/e.chord)
+		}
+		if e.kind == TERounded && !(e.rTip <= EdgeMaxTERadius*e.chord) {
+			return nil, fmt.Errorf("geometry: %w: the outline is smooth all round with no small-radius trailing edge (smallest radius at the far end %.3g chord); set the leading edge with --le-at X,Y", ErrNoLeadingEdge, e.rTip/e.chord)
+		}
+	}
+	return e, nil
+}
+
+// treat applies the treatment to cv and returns the treated curve (input
+// coordinates), the action and the largest shift.
+func treat(cv *curve.Curve, e *edges, opts Options, warn func(string)) (*curve.Curve, string, float64, error) {
+	mode := opts.TE
+	if mode == "" || mode == TEAuto {
+		mode = TEKeep
+	}
+	switch e.kind {
+	case TESharp:
+		if mode != TEKeep {
+			warn(fmt.Sprintf("trailing edge is already sharp; %q changes nothing", mode))
+		}
+		out, shift := cv.SnapEnds()
+		return out, TEKept, shift, nil
+	case TERounded:
+		switch mode {
+		case TEKeep:
+			if e.roundOK {
+				msg := fmt.Sprintf("trailing edge is rounded (radius %.3g chord, %.3g chord thick where the rounding starts) and was kept", e.round.radius/e.chord, e.round.Thickness/e.chord)
+				if e.round.sharpValid {
+					msg += fmt.Sprintf("; sharpen would extend the surfaces to a point %.3g chord behind the tip", e.round.sharp.Dist(e.te)/e.chord)
+				}
+				warn(msg)
+			}
+			return cv.Sub(e.sTip, e.sTip), TEKept, 0, nil
+		case TESharpen:
+			return sharpenRounded(cv, e)
+		default:
+			return nil, "", 0, fmt.Errorf("geometry: %w: %q applies to a blunt edge, this one is rounded (use sharpen or keep)", ErrTrailingEdge, mode)
+		}
+	default: // blunt, open
+		if e.kind == TEOpen {
+			warn(fmt.Sprintf("contour ends do not meet (gap %.3g chord) and no base joins them: part of the outline may be missing", e.gap/e.chord))
+		}
+		switch mode {
+		case TEKeep:
+			return cv, TEKept, 0, nil
+		case TEClose:
+			b := opts.Blend
+			if b == 0 {
+				b = EdgeDefaultBlend
+			}
+			out, shift := closeBlunt(cv, e, b)
+			return out, TEClosed, shift, nil
+		default:
+			return extend(cv, e)
+		}
+	}
+}
+
+// closeBlunt blends the thickness of a blunt edge away over the aft fraction
+// blend of the chord: a point of the upper surface at chord station ξ moves
+// by f(r)·(M − U), where U is the upper corner, M the midpoint of the
+// corners, r runs from 0 at ξ = 1 − blend to 1 at the corner and
+// f(r) = r³(10 − 15r + 6r²) keeps the curvature continuous; the lower
+// surface likewise. The treated outline is resampled (every piece in the
+// blend region split in eight) and interpolated.
+func closeBlunt(cv *curve.Curve, e *edges, blend float64) (*curve.Curve, float64) {
+	u, l := cv.Start(), cv.End()
+	dir := e.te.Sub(e.le).Scale(1 / e.chord)
+	xi := func(p geometry.Point) float64 { return p.Sub(e.le).Dot(dir) / e.chord }
+	x0 := 1 - blend
+	shift := func(p geometry.Point, upper bool) geometry.Point {
+		corner := l
+		if upper {
+			corner = u
+		}
+		end := xi(corner)
+		if end <= x0 {
+			return p
+		}
+		r := math.Max(0, math.Min(1, (xi(p)-x0)/(end-x0)))
+		f := r * r * r * (10 - 15*r + 6*r*r)
+		return p.Add(e.te.Sub(corner).Scale(f))
+	}
+	var pts []geometry.Point
+	for i := 0; i < cv.Pieces(); i++ {
+		h := cv.Span(i)
+		p0, _, _ := cv.Eval(i, 0)
+		p1, _, _ := cv.Eval(i, h)
+		sub := 1
+		if xi(p0) > x0-0.01 || xi(p1) > x0-0.01 {
+			sub = 8
+		}
+		for k := 0; k < sub; k++ {
+			uu := h * float64(k) / float64(sub)
+			q, _, _ := cv.Eval(i, uu)
+			pts = append(pts, shift(q, cv.PieceStart(i) < e.sLE))
+		}
+	}
+	pts = append(pts, e.te)
+	pts[0] = e.te
+	return curve.Interpolate(pts, false).WithClosed(true), e.gap / 2
+}
+
+// meet returns the intersection of the lines p − a·tp and q + b·tq
+// with a, b > 0, or false.
+func meet(p, tp, q, tq geometry.Point, limit float64) (geometry.Point, bool) {
+	// −a tp − b tq = q − p.
+	r := q.Sub(p)
+	det := tp.Cross(tq)
+	if math.Abs(det) < 1e-12 {
+		return geometry.Point{}, false
+	}
+	// Solve [−tp −tq][a b]ᵀ = r by Cramer's rule.
+	a := -r.Cross(tq) / det
+	b := -tp.Cross(r) / det
+	if !(a > 0 && b > 0 && a < limit && b < limit) {
+		return geometry.Point{}, false
+	}
+	return p.Sub(tp.Scale(a)), true
+}
+
+// extend sharpens a blunt or open edge by extending both surfaces along
+// their end tangents to where they meet.
+func extend(cv *curve.Curve, e *edges) (*curve.Curve, string, float64, error) {
+	u, l := cv.Start(), cv.End()
+	pt, ok := meet(u, cv.Tangent(0), l, cv.Tangent(cv.Length()), 0.5*e.chord)
+	if !ok {
+		return nil, "", 0, fmt.Errorf("geometry: %w: the surfaces do not converge behind the trailing edge, so they cannot be extended to a point (use keep or close)", ErrTrailingEdge)
+	}
+	var b curve.Builder
+	b.AddLine(pt, u)
+	b.AddArc(cv, 0, cv.Length())
+	b.AddLine(l, pt)
+	return b.Curve(true), TESharpened, pt.Dist(e.te), nil
+}
+
+// sharpenRounded replaces the rounded end by the extensions of both
+// surfaces: the straight lines that continue them just ahead of the
+// rounding (AnalyseRounded) are drawn to their intersection, which becomes
+// the trailing-edge point; the shift is its distance from the tip.
+func sharpenRounded(cv *curve.Curve, e *edges) (*curve.Curve, string, float64, error) {
+	if !e.roundOK {
+		return nil, "", 0, fmt.Errorf("geometry: %w: the rounded end does not give way to straighter surfaces", ErrTrailingEdge)
+	}
+	r := e.round
+	if !r.sharpValid {
+		return nil, "", 0, fmt.Errorf("geometry: %w: the surfaces do not converge behind the rounded end", ErrTrailingEdge)
+	}
+	var b curve.Builder
+	b.AddLine(r.sharp, r.pu)
+	b.AddArc(cv, r.su, r.sl)
+	b.AddLine(r.pl, r.sharp)
+	return b.Curve(true), TESharpened, r.sharp.Dist(e.te), nil
+}

@@ -1,0 +1,333 @@
+package frame
+
+import (
+	"errors"
+	"math"
+	"strings"
+	"testing"
+
+	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/curve"
+	"github.com/foilwright/foilwright/geometry/shape"
+	"github.com/foilwright/foilwright/internal/testfoil"
+)
+
+// frameExpected returns the frame of the analytic outline placed by part,
+// with the leading edge where Normalize puts it by definition: the point
+// of the outline farthest from the trailing-edge midpoint (common
+// practice), found on the dense analytic polyline (NACA Report 824
+// equations). For a cambered section that chord line differs from the
+// Report 824 one (about 0.09° for the 2412).
+func frameExpected(n shape.NACA4, part testfoil.Part, mirrored bool) (Frame, []geometry.Point) {
+	dense := testfoil.Dense(n)
+	te := dense[0].Add(dense[len(dense)-1]).Scale(0.5)
+	le := testfoil.Farthest(dense, te)
+	lp, tp := part.ToPart(le), part.ToPart(te)
+	d := tp.Sub(lp)
+	if mirrored {
+		d.X = -d.X
+	}
+	f := Frame{Chord: lp.Dist(tp), TwistDeg: -math.Atan2(d.Y, d.X) * 180 / math.Pi, LE: [2]float64{lp.X, lp.Y}, Mirrored: mirrored}
+	for i := range dense {
+		dense[i] = f.ToChord(part.ToPart(dense[i]))
+	}
+	return f, dense
+}
+
+func frameAngleDiff(a, b float64) float64 {
+	d := math.Mod(a-b, 360)
+	if d > 180 {
+		d -= 360
+	}
+	if d < -180 {
+		d += 360
+	}
+	return d
+}
+
+func TestNormalizeNACA(t *testing.T) {
+	// NACA Report 824 sections as a noisy measured contour: 152.4 mm chord,
+	// rotated 7°, shifted, 0.02 mm Gaussian noise, fixed seed.
+	const (
+		chordTol = 0.001 // relative
+		twistTol = 0.05  // degrees
+		curveTol = 0.001 // chord units
+		gapTol   = 3e-4  // chord units: the corners carry 0.02 mm noise each
+	)
+	for _, tc := range []struct {
+		code  string
+		sharp bool
+		kind  string
+	}{
+		{"0012", false, TEBlunt},
+		{"2412", false, TEBlunt},
+		{"0012", true, TESharp},
+		{"2412", true, TESharp},
+	} {
+		n, _ := shape.ParseNACA4(tc.code)
+		n.SharpTE = tc.sharp
+		part := testfoil.Part{Chord: 152.4, RotDeg: 7, Shift: geometry.Point{X: 37, Y: -12}, Noise: 0.02, Seed: 42}
+		c := testfoil.Contour(testfoil.Loop(n, 150), part)
+		cv, _, err := curve.Fit(c, curve.FitOptions{Noise: 0.02})
+		if err != nil {
+			t.Fatal(err)
+		}
+		nz, err := Normalize(cv, Options{})
+		if err != nil {
+			t.Fatalf("%s sharp=%v: %v", tc.code, tc.sharp, err)
+		}
+		want, dense := frameExpected(n, part, false)
+		name := tc.code
+		if tc.sharp {
+			name += " closed TE"
+		}
+		if e := math.Abs(nz.Frame.Chord/want.Chord - 1); e > chordTol {
+			t.Errorf("%s: chord %.4f, want %.4f (rel. error %.2g)", name, nz.Frame.Chord, want.Chord, e)
+		}
+		if d := frameAngleDiff(nz.Frame.TwistDeg, want.TwistDeg); math.Abs(d) > twistTol {
+			t.Errorf("%s: twist %.4f°, want %.4f°", name, nz.Frame.TwistDeg, want.TwistDeg)
+		}
+		if nz.Frame.Mirrored {
+			t.Errorf("%s: mirrored", name)
+		}
+		if nz.TE.Kind != tc.kind || nz.TE.Action != TEKept {
+			t.Errorf("%s: trailing edge %+v, want %s, kept", name, nz.TE, tc.kind)
+		}
+		// Open trailing edge of the Report 824 equation: 2·yt(1) = 0.00252 for t = 0.12.
+		wantGap := 0.0
+		if !tc.sharp {
+			wantGap = 2 * n.HalfThickness(1)
+		}
+		if math.Abs(nz.TE.Thickness-wantGap) > gapTol {
+			t.Errorf("%s: TE thickness %.5f, want %.5f", name, nz.TE.Thickness, wantGap)
+		}
+		p := nz.Path.(*curve.Curve)
+		if p.Closed() != tc.sharp {
+			t.Errorf("%s: closed = %v", name, p.Closed())
+		}
+		if d := p.At(nz.SLE).Norm(); d > 1e-9 {
+			t.Errorf("%s: point at SLE is %g from the origin", name, d)
+		}
+		d := testfoil.MaxDist(p.Samples(4000), dense)
+		if d > curveTol {
+			t.Errorf("%s: normalised curve departs %.5f chord from the analytic contour", name, d)
+		}
+		t.Logf("%s: chord error %.3g%%, twist error %.4f°, max departure %.2g chord, TE %s %.5f",
+			name, 100*(nz.Frame.Chord/want.Chord-1), frameAngleDiff(nz.Frame.TwistDeg, want.TwistDeg), d, nz.TE.Kind, nz.TE.Thickness)
+		// Node order: counter-clockwise, upper surface first.
+		if p.At(0.25*p.Length()).Y <= 0 || p.At(0.75*p.Length()).Y >= 0 {
+			t.Errorf("%s: not in node order (upper surface first)", name)
+		}
+	}
+}
+
+func TestNormalizeLEAt(t *testing.T) {
+	// With the leading edge set at the Report 824 nose (x = 0), the chord
+	// line is that of NACA Report 824: twist −7° exactly as placed.
+	n, _ := shape.ParseNACA4("2412")
+	part := testfoil.Part{Chord: 152.4, RotDeg: 7, Shift: geometry.Point{X: 37, Y: -12}, Noise: 0.02, Seed: 42}
+	c := testfoil.Contour(testfoil.Loop(n, 150), part)
+	cv, _, err := curve.Fit(c, curve.FitOptions{Noise: 0.02})
+	if err != nil {
+		t.Fatal(err)
+	}
+	le := part.ToPart(geometry.Point{})
+	nz, err := Normalize(cv, Options{LEAt: &le})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if d := nz.Frame.TwistDeg + 7; math.Abs(d) > 0.05 {
+		t.Errorf("twist %.4f°, want −7° (placed)", nz.Frame.TwistDeg)
+	}
+	if e := math.Abs(nz.Frame.Chord/152.4 - 1); e > 0.001 {
+		t.Errorf("chord %.4f, want 152.4 (placed)", nz.Frame.Chord)
+	}
+}
+
+func TestFrameRoundTrip(t *testing.T) {
+	// ToPart and ToChord are exact inverses (to floating-point tolerance).
+	const tol = 1e-12
+	for _, f := range []Frame{
+		{Chord: 152.4, TwistDeg: -7, LE: [2]float64{37, -12}},
+		{Chord: 0.3, TwistDeg: 173.2, LE: [2]float64{-1e3, 2e3}, Mirrored: true},
+		{Chord: 1, TwistDeg: 0},
+	} {
+		for _, q := range []geometry.Point{{X: 0, Y: 0}, {X: 1, Y: 0}, {X: 0.3, Y: 0.06}, {X: 0.7, Y: -0.02}, {X: -2, Y: 5}} {
+			p := f.ToPart(q)
+			if r := f.ToChord(p); r.Dist(q) > tol*(1+q.Norm()) {
+				t.Errorf("%+v: ToChord(ToPart(%v)) = %v", f, q, r)
+			}
+			if r := f.ToPart(f.ToChord(p)); r.Dist(p) > tol*(1+p.Norm()) {
+				t.Errorf("%+v: ToPart(ToChord(%v)) = %v", f, p, r)
+			}
+		}
+		if got := f.ToPart(geometry.Point{}); got.Dist(geometry.Point{X: f.LE[0], Y: f.LE[1]}) > tol*(1+got.Norm()) {
+			t.Errorf("%+v: leading edge maps to %v", f, got)
+		}
+	}
+	// Nose-up twist puts the trailing edge below the leading edge.
+	f := Frame{Chord: 1, TwistDeg: 5}
+	if te := f.ToPart(geometry.Point{X: 1, Y: 0}); !(te.Y < 0) {
+		t.Errorf("twist +5° (nose up): trailing edge at %v, want below the leading edge", te)
+	}
+}
+
+func TestNormalizeMirrored(t *testing.T) {
+	// A 2412 with the nose pointing the other way, or measured upside down,
+	// shows negative camber until it is mirrored.
+	n, _ := shape.ParseNACA4("2412")
+	for _, tc := range []struct {
+		name         string
+		flipX, flipY bool
+	}{{"nose reversed", true, false}, {"upside down", false, true}} {
+		part := testfoil.Part{Chord: 152.4, RotDeg: 7, Shift: geometry.Point{X: 37, Y: -12}, Noise: 0.02, Seed: 9, FlipX: tc.flipX, FlipY: tc.flipY}
+		c := testfoil.Contour(testfoil.Loop(n, 150), part)
+		cv, _, err := curve.Fit(c, curve.FitOptions{Noise: 0.02})
+		if err != nil {
+			t.Fatal(err)
+		}
+		nz, err := Normalize(cv, Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !nz.Frame.Mirrored {
+			t.Errorf("%s: not detected as mirrored", tc.name)
+			continue
+		}
+		want, dense := frameExpected(n, part, true)
+		if d := frameAngleDiff(nz.Frame.TwistDeg, want.TwistDeg); math.Abs(d) > 0.05 {
+			t.Errorf("%s: twist %.4f°, want %.4f°", tc.name, nz.Frame.TwistDeg, want.TwistDeg)
+		}
+		p := nz.Path.(*curve.Curve)
+		if d := testfoil.MaxDist(p.Samples(4000), dense); d > 0.001 {
+			t.Errorf("%s: normalised curve departs %.5f chord from the analytic contour", tc.name, d)
+		}
+		// Mapping the normalised curve back lands on the measured points.
+		var worst float64
+		for _, q := range c.Points {
+			_, d := p.Project(nz.Frame.ToChord(q))
+			worst = math.Max(worst, d*nz.Frame.Chord)
+		}
+		if worst > 0.1 {
+			t.Errorf("%s: measured points up to %.3f mm from the mapped-back curve", tc.name, worst)
+		}
+		// Forcing no mirror keeps it upside down.
+		nz2, err := Normalize(cv, Options{Mirror: MirrorNo})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if _, cy := nz2.Path.(*curve.Curve).Centroid(); nz2.Frame.Mirrored || cy >= 0 {
+			t.Errorf("%s: mirror no: mirrored %v, centroid y %g", tc.name, nz2.Frame.Mirrored, cy)
+		}
+	}
+}
+
+func TestNormalizeNoLeadingEdge(t *testing.T) {
+	// A circle and a square have no distinct nose and tail.
+	circle := &geometry.Contour{}
+	for i := range 64 {
+		a := 2 * math.Pi * float64(i) / 64
+		circle.Points = append(circle.Points, geometry.Point{X: 10 + 5*math.Cos(a), Y: 5 * math.Sin(a)})
+	}
+	square := &geometry.Contour{}
+	for i := range 40 {
+		s := float64(i%10) / 10
+		var p geometry.Point
+		switch i / 10 {
+		case 0:
+			p = geometry.Point{X: 1, Y: s}
+		case 1:
+			p = geometry.Point{X: 1 - s, Y: 1}
+		case 2:
+			p = geometry.Point{X: 0, Y: 1 - s}
+		default:
+			p = geometry.Point{X: s, Y: 0}
+		}
+		square.Points = append(square.Points, p)
+	}
+	for _, tc := range []struct {
+		name string
+		c    *geometry.Contour
+	}{{"circle", circle}, {"square", square}} {
+		cv, _, err := curve.Fit(tc.c, curve.FitOptions{Exact: true})
+		if err != nil {
+			t.Fatal(err)
+		}
+		_, err = Normalize(cv, Options{})
+		if !errors.Is(err, ErrNoLeadingEdge) || !strings.Contains(err.Error(), "--le-at") {
+			t.Errorf("%s: err = %v, want ErrNoLeadingEdge mentioning --le-at", tc.name, err)
+		}
+	}
+}
+
+func TestNormalizeIdempotent(t *testing.T) {
+	// Normalising a normalised section changes nothing: unit chord, no
+	// twist, leading edge at the origin (exact by the frame's definition).
+	const tol = 1e-7
+	for _, sharp := range []bool{false, true} {
+		nz, _ := frameTestSection(t, "2412", sharp, 0.02, Options{})
+		again, err := Normalize(nz.Path.(*curve.Curve), Options{Mirror: MirrorNo})
+		if err != nil {
+			t.Fatal(err)
+		}
+		f := again.Frame
+		if math.Abs(f.Chord-1) > tol || math.Abs(f.TwistDeg) > 1e-5 || math.Hypot(f.LE[0], f.LE[1]) > tol {
+			t.Errorf("sharp=%v: renormalised frame %+v, want chord 1, twist 0, LE (0, 0)", sharp, f)
+		}
+		if again.TE.Kind != nz.TE.Kind || math.Abs(again.TE.Thickness-nz.TE.Thickness) > tol {
+			t.Errorf("sharp=%v: trailing edge %+v, first pass %+v", sharp, again.TE, nz.TE)
+		}
+	}
+}
+
+func TestNormalizeNACA4Loop(t *testing.T) {
+	// The cosine-spaced loop of shape.NACA4 (NACA Report 824 equations),
+	// noise-free and interpolated: the open edge is blunt with thickness
+	// 2·yt(1) = 0.00252 of the Report 824 chord, and the chord is the
+	// farthest-point distance.
+	n, _ := shape.ParseNACA4("0012")
+	part := testfoil.Part{Chord: 152.4, RotDeg: 7, Shift: geometry.Point{X: 37, Y: -12}}
+	c := testfoil.Contour(n.Loop(100), part)
+	cv, _, err := curve.Fit(c, curve.FitOptions{Exact: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	nz, err := Normalize(cv, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want, dense := frameExpected(n, part, false)
+	if nz.TE.Kind != TEBlunt || math.Abs(nz.TE.Thickness*nz.Frame.Chord/152.4-0.00252) > 1e-6 {
+		t.Errorf("trailing edge %+v, want blunt, 0.00252 of the Report 824 chord", nz.TE)
+	}
+	if math.Abs(nz.Frame.Chord/want.Chord-1) > 1e-6 || math.Abs(frameAngleDiff(nz.Frame.TwistDeg, want.TwistDeg)) > 1e-4 {
+		t.Errorf("frame %+v, want %+v", nz.Frame, want)
+	}
+	if d := testfoil.MaxDist(nz.Path.(*curve.Curve).Samples(4000), dense); d > 2e-5 {
+		t.Errorf("normalised curve departs %.2g chord from the analytic contour", d)
+	}
+}
+
+// frameTestSection fits and normalises a NACA 4-digit contour (NACA Report
+// 824 equations) placed with 152.4 mm chord, 7° rotation, a shift and
+// 0.02 mm noise (fixed seed), or noise-free when noise is 0.
+func frameTestSection(t *testing.T, code string, sharp bool, noise float64, opts Options) (*Normalized, shape.NACA4) {
+	t.Helper()
+	c, part, n, err := testfoil.Placed(code, sharp, noise)
+	if err != nil {
+		t.Fatal(err)
+	}
+	cv, _, err := curve.Fit(c, curve.FitOptions{Noise: noise, Exact: noise == 0})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if opts.LEAt != nil {
+		p := part.ToPart(*opts.LEAt)
+		opts.LEAt = &p
+	}
+	nz, err := Normalize(cv, opts)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return nz, n
+}

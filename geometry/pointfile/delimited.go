@@ -1,0 +1,510 @@
+package pointfile
+
+import (
+	"fmt"
+	"math"
+	"strconv"
+	"strings"
+
+	"github.com/foilwright/foilwright/geometry"
+)
+
+// Delimited text: one point per line, fields separated by whitespace, commas,
+// semicolons or tabs. With semicolons or tabs a decimal comma is accepted
+// ("12,5;3,25"), as spreadsheets in many locales write it (common practice).
+// Lines starting with #, // or ; are comments; text lines (a title, a column
+// header) are skipped. Every skipped line becomes a Note with its reason.
+
+// detectSeparator returns the field separator of s (' ' for runs of blanks,
+// ',', ';' or '\t') and whether a decimal comma is allowed, judged from the
+// first lines that start like a number. Characters inside double quotes
+// (a quoted file name) do not count.
+func detectSeparator(s string) (sep byte, decComma bool) {
+	var semi, tab, comma, commaSpaced, commaInNumber bool
+	lines := lineScanner{s: s}
+	for seen := 0; seen < 100; {
+		line, _, ok := lines.next()
+		if !ok {
+			break
+		}
+		t := strings.TrimSpace(line)
+		if u := strings.TrimLeft(t, "\""); u == "" || !numberStart(u[0]) {
+			continue
+		}
+		seen++
+		quoted := false
+		for i := 0; i < len(t); i++ {
+			if t[i] == '"' {
+				quoted = !quoted
+			}
+			if quoted {
+				continue
+			}
+			switch t[i] {
+			case ';':
+				semi = true
+			case '\t':
+				tab = true
+			case ',':
+				comma = true
+				if i > 0 && (t[i-1] == ' ' || t[i-1] == '\t') || i+1 < len(t) && (t[i+1] == ' ' || t[i+1] == '\t') {
+					commaSpaced = true
+				}
+				if i > 0 && i+1 < len(t) && isDigit(t[i-1]) && isDigit(t[i+1]) {
+					commaInNumber = true
+				}
+			}
+		}
+	}
+	switch {
+	case semi:
+		return ';', true
+	case tab && comma && commaInNumber && !commaSpaced:
+		return '\t', true
+	case comma:
+		return ',', false
+	case tab:
+		return '\t', true
+	}
+	return ' ', false
+}
+
+func isDigit(c byte) bool { return c >= '0' && c <= '9' }
+
+// numberStart reports whether a field starting with c may be a number.
+func numberStart(c byte) bool {
+	return isDigit(c) || c == '-' || c == '+' || c == '.'
+}
+
+// splitFields splits line into fields, appending to fields[:0]. Blank and
+// tab separators split at runs of blanks; ',' and ';' split at each
+// separator and trim the fields.
+func splitFields(line string, sep byte, fields []string) []string {
+	fields = fields[:0]
+	if sep == ' ' || sep == '\t' {
+		i, n := 0, len(line)
+		for i < n {
+			for i < n && (line[i] == ' ' || line[i] == '\t') {
+				i++
+			}
+			if i >= n {
+				break
+			}
+			j := i
+			for j < n && line[j] != ' ' && line[j] != '\t' {
+				j++
+			}
+			fields = append(fields, line[i:j])
+			i = j
+		}
+		return fields
+	}
+	for {
+		k := strings.IndexByte(line, sep)
+		if k < 0 {
+			return append(fields, strings.TrimSpace(line))
+		}
+		fields = append(fields, strings.TrimSpace(line[:k]))
+		line = line[k+1:]
+	}
+}
+
+// parseNumber parses field f as a number. ok reports that f is written as
+// a number, which includes NaN, Inf and values too large for a float64
+// (returned as ±Inf); the caller rejects those.
+func parseNumber(f string, decComma bool) (v float64, ok bool) {
+	if n := len(f); n >= 2 && f[0] == '"' && f[n-1] == '"' {
+		f = f[1 : n-1]
+	}
+	if f == "" {
+		return 0, false
+	}
+	switch c := f[0]; {
+	case numberStart(c), c == 'i', c == 'I', c == 'n', c == 'N':
+	default:
+		return 0, false
+	}
+	if decComma && strings.IndexByte(f, ',') >= 0 {
+		if len(f) > 64 {
+			return 0, false
+		}
+		var buf [64]byte
+		n := copy(buf[:], f)
+		for i := range n {
+			if buf[i] == ',' {
+				buf[i] = '.'
+			}
+		}
+		f = string(buf[:n])
+	}
+	v, err := strconv.ParseFloat(f, 64)
+	if err != nil {
+		if ne, isNum := err.(*strconv.NumError); isNum && ne.Err == strconv.ErrRange {
+			return v, true
+		}
+		return 0, false
+	}
+	return v, true
+}
+
+// isComment reports whether the trimmed line t is a comment.
+func isComment(t string) bool {
+	return t[0] == '#' || t[0] == ';' || strings.HasPrefix(t, "//")
+}
+
+// commentUnit returns the unit a comment states, as in "# units: mm"
+// or "// unit = in", or "" when it states none.
+func commentUnit(t string) string {
+	t = strings.TrimLeft(t, "#/; \t")
+	if len(t) < 4 || !strings.EqualFold(t[:4], "unit") {
+		return ""
+	}
+	t = t[4:]
+	if len(t) > 0 && (t[0] == 's' || t[0] == 'S') {
+		t = t[1:]
+	}
+	t = strings.TrimLeft(t, " \t")
+	if t == "" || (t[0] != ':' && t[0] != '=') {
+		return ""
+	}
+	f := strings.Fields(t[1:])
+	if len(f) == 0 {
+		return ""
+	}
+	return strings.Trim(f[0], ".,;")
+}
+
+// headerField splits a header field such as "X [mm]" or "y (in)" into
+// its lower-case name and unit ("" when there is none).
+func headerField(f string) (name, unit string) {
+	f = strings.TrimSpace(strings.Trim(strings.TrimSpace(f), "\"'"))
+	for _, br := range [...]string{"[]", "()"} {
+		if n := len(f); n > 0 && f[n-1] == br[1] {
+			if i := strings.LastIndexByte(f, br[0]); i >= 0 {
+				return strings.ToLower(strings.TrimSpace(f[:i])), strings.TrimSpace(f[i+1 : n-1])
+			}
+		}
+	}
+	return strings.ToLower(f), ""
+}
+
+// joinUnits glues a blank-separated unit decoration ("x [mm]") back to
+// its name, so that a header splits into one field per column.
+func joinUnits(fields []string) []string {
+	out := make([]string, 0, len(fields))
+	for _, f := range fields {
+		if len(out) > 0 && f != "" && (f[0] == '[' || f[0] == '(') {
+			out[len(out)-1] += " " + f
+			continue
+		}
+		out = append(out, f)
+	}
+	return out
+}
+
+// parseColumns parses the Columns option: 0-based indices, or names.
+func parseColumns(s string) (idx []int, names []string, err error) {
+	if strings.TrimSpace(s) == "" {
+		return nil, nil, nil
+	}
+	parts := strings.Split(s, ",")
+	if len(parts) < 2 || len(parts) > 3 {
+		return nil, nil, fmt.Errorf("geometry: columns %q: want 2 or 3 columns, got %d: %w", s, len(parts), ErrColumnCount)
+	}
+	for _, p := range parts {
+		p = strings.TrimSpace(p)
+		if p == "" {
+			return nil, nil, fmt.Errorf("geometry: columns %q: empty column: %w", s, ErrColumnRange)
+		}
+		if k, err := strconv.Atoi(p); err == nil {
+			if k < 1 {
+				return nil, nil, fmt.Errorf("geometry: columns %q: column %d: columns count from 1: %w", s, k, ErrColumnRange)
+			}
+			idx = append(idx, k-1)
+			continue
+		}
+		name, _ := headerField(p)
+		names = append(names, name)
+	}
+	if idx != nil && names != nil {
+		return nil, nil, fmt.Errorf("geometry: columns %q: mix of numbers and names", s)
+	}
+	seen := map[string]bool{}
+	for _, p := range parts {
+		k := strings.ToLower(strings.TrimSpace(p))
+		if seen[k] {
+			return nil, nil, fmt.Errorf("geometry: columns %q: column %q given twice", s, p)
+		}
+		seen[k] = true
+	}
+	return idx, names, nil
+}
+
+// delimitedReader holds the state of reading one delimited file.
+type delimitedReader struct {
+	name     string
+	sep      byte
+	decComma bool
+	cols     []int    // 0-based columns of x, y[, z]; nil until known
+	names    []string // column names asked for, until resolved
+	explicit bool     // the caller chose the columns
+	named    bool     // ... by names, found in a header line
+	started  bool     // a data line has been read
+	counted  bool     // a point-count line has been seen
+
+	header     []string // the last text line before the data, split
+	headerLine int
+	headerNote int // index of its note, or -1
+	title      string
+	titleLine  int
+	unit       statedUnit
+	notes      geometry.Notes
+}
+
+// readDelimited reads delimited text s. columns is Options.Columns.
+func readDelimited(s, name, columns string) (*geometry.Cloud, statedUnit, error) {
+	idx, names, err := parseColumns(columns)
+	if err != nil {
+		return nil, statedUnit{}, err
+	}
+	d := &delimitedReader{name: name, cols: idx, names: names, explicit: idx != nil || names != nil, headerNote: -1}
+	d.sep, d.decComma = detectSeparator(s)
+	n := strings.Count(s, "\n") + 1
+	c := &geometry.Cloud{Format: FormatDelimited, Points: make([]geometry.Vec3, 0, n), Origins: make([]geometry.Origin, 0, n)}
+	var fields []string
+	lines := lineScanner{s: s}
+	for {
+		line, no, ok := lines.next()
+		if !ok {
+			break
+		}
+		t := strings.TrimSpace(line)
+		if t == "" {
+			continue
+		}
+		if isComment(t) {
+			if u := commentUnit(t); u != "" {
+				if err := d.unit.set(name, no, u); err != nil {
+					return nil, d.unit, err
+				}
+			}
+			d.notes.Add(name, no, "comment", t)
+			continue
+		}
+		fields = splitFields(t, d.sep, fields)
+		if d.cols == nil {
+			isData, err := d.resolve(fields, no, t)
+			if err != nil {
+				return nil, d.unit, err
+			}
+			if !isData {
+				continue
+			}
+		}
+		p, isData, err := d.point(fields, no)
+		if err != nil {
+			return nil, d.unit, err
+		}
+		if !isData {
+			d.text(fields, no, t)
+			continue
+		}
+		if !d.started {
+			if err := d.start(); err != nil {
+				return nil, d.unit, err
+			}
+		}
+		c.Points = append(c.Points, p)
+		c.Origins = append(c.Origins, geometry.Origin{File: name, Line: no})
+	}
+	if !d.started {
+		return nil, d.unit, &geometry.ParseError{File: name, Err: ErrNoNumbers}
+	}
+	c.Dim = len(d.cols)
+	c.Name = d.title
+	c.Notes = d.notes.List(name)
+	return c, d.unit, nil
+}
+
+// resolve is called for each line while the columns are unknown. It finds
+// the columns from a header naming them (names asked for) or from the first
+// line of 2 or 3 leading numbers (no columns asked for), and reports whether
+// the line is a data line.
+func (d *delimitedReader) resolve(fields []string, no int, t string) (bool, error) {
+	if d.names != nil {
+		hdr := joinUnits(fields)
+		cols := make([]int, 0, len(d.names))
+		for _, want := range d.names {
+			for i, f := range hdr {
+				if name, _ := headerField(f); name == want {
+					cols = append(cols, i)
+					break
+				}
+			}
+		}
+		if len(cols) == len(d.names) {
+			d.names = nil
+			d.named = true
+			d.cols = cols
+			d.header, d.headerLine = hdr, no
+			d.notes.Add(d.name, no, "column header", t)
+			if err := d.headerUnits(); err != nil {
+				return false, err
+			}
+			return false, nil
+		}
+		if _, num := parseNumber(fields[0], d.decComma); num {
+			return false, &geometry.ParseError{File: d.name, Line: no, Err: fmt.Errorf("%w: no header line names column %q", ErrColumnRange, d.names[len(cols)])}
+		}
+		d.text(fields, no, t)
+		return false, nil
+	}
+	k := 0
+	for k < len(fields) && k < 3 {
+		if _, num := parseNumber(fields[k], d.decComma); !num {
+			break
+		}
+		k++
+	}
+	switch {
+	case k >= 2:
+		d.cols = []int{0, 1, 2}[:k]
+		return true, nil
+	case k == 1 && len(fields) == 1:
+		if v, _ := parseNumber(fields[0], d.decComma); !d.counted && v == math.Trunc(v) && v >= 0 && v < 1e15 {
+			d.counted = true
+			d.notes.Add(d.name, no, "point count line", t)
+			return false, nil
+		}
+		return false, &geometry.ParseError{File: d.name, Line: no, Err: fmt.Errorf("%w: 1 coordinate, want 2 or 3", ErrColumnCount)}
+	}
+	d.text(fields, no, t)
+	return false, nil
+}
+
+// text records a line that holds no coordinates.
+func (d *delimitedReader) text(fields []string, no int, t string) {
+	if d.started {
+		d.notes.Add(d.name, no, "text line among the data", t)
+		return
+	}
+	if d.title == "" {
+		d.title, d.titleLine = geometry.Excerpt(t), no
+	}
+	d.header, d.headerLine = joinUnits(fields), no
+	d.headerNote = len(d.notes.Kept())
+	if d.headerNote >= geometry.MaxNotes {
+		d.headerNote = -1
+	}
+	d.notes.Add(d.name, no, "text line before the data", t)
+}
+
+// start is called at the first data line: it takes the last text line
+// before it as the column header when it has a field for every chosen
+// column and no number, and reads units from it.
+func (d *delimitedReader) start() error {
+	d.started = true
+	if d.named {
+		return nil // the header was found and read by resolve
+	}
+	if d.header == nil || len(d.header) <= maxColumn(d.cols) {
+		d.header = nil
+		return nil
+	}
+	for _, f := range d.header {
+		if _, num := parseNumber(f, d.decComma); num {
+			d.header = nil
+			return nil
+		}
+	}
+	if d.headerNote >= 0 {
+		d.notes.Kept()[d.headerNote].Reason = "column header"
+	}
+	if d.titleLine == d.headerLine {
+		d.title = ""
+	}
+	return d.headerUnits()
+}
+
+// headerUnits reads the unit decorations of the chosen header fields.
+func (d *delimitedReader) headerUnits() error {
+	for _, col := range d.cols {
+		if col >= len(d.header) {
+			continue
+		}
+		if _, u := headerField(d.header[col]); u != "" {
+			if err := d.unit.set(d.name, d.headerLine, u); err != nil {
+				return err
+			}
+		}
+	}
+	return nil
+}
+
+// point parses the chosen columns of a line. isData is false for a line
+// that holds none of them as numbers (a text line); a line holding some of
+// them but not all is an error once the data has started, or when every
+// field of the line is a number (the column does not exist).
+func (d *delimitedReader) point(fields []string, no int) (p geometry.Vec3, isData bool, err error) {
+	var v [3]float64
+	got := 0
+	bad, missing := -1, -1
+	for j, col := range d.cols {
+		if col >= len(fields) {
+			if missing < 0 {
+				missing = j
+			}
+			continue
+		}
+		x, num := parseNumber(fields[col], d.decComma)
+		if !num {
+			if bad < 0 {
+				bad = j
+			}
+			continue
+		}
+		v[j] = x
+		got++
+	}
+	if got == 0 {
+		return p, false, nil
+	}
+	if got < len(d.cols) {
+		if !d.started && !d.allNumbers(fields) {
+			return p, false, nil
+		}
+		switch {
+		case bad >= 0:
+			return p, false, &geometry.ParseError{File: d.name, Line: no, Err: fmt.Errorf("%w: column %d is %q", ErrNotNumeric, d.cols[bad]+1, geometry.Excerpt(fields[d.cols[bad]]))}
+		case d.explicit:
+			return p, false, &geometry.ParseError{File: d.name, Line: no, Err: fmt.Errorf("%w: column %d asked for, line has %d field(s)", ErrColumnRange, d.cols[missing]+1, len(fields))}
+		default:
+			return p, false, &geometry.ParseError{File: d.name, Line: no, Err: fmt.Errorf("%w: %d coordinate(s), want %d", ErrColumnCount, got, len(d.cols))}
+		}
+	}
+	for j := range d.cols {
+		if math.IsNaN(v[j]) || math.IsInf(v[j], 0) {
+			return p, false, &geometry.ParseError{File: d.name, Line: no, Err: fmt.Errorf("%w: column %d is %q", geometry.ErrNonFinite, d.cols[j]+1, geometry.Excerpt(fields[d.cols[j]]))}
+		}
+	}
+	return geometry.Vec3{X: v[0], Y: v[1], Z: v[2]}, true, nil
+}
+
+// allNumbers reports whether every field is a number.
+func (d *delimitedReader) allNumbers(fields []string) bool {
+	for _, f := range fields {
+		if _, num := parseNumber(f, d.decComma); !num {
+			return false
+		}
+	}
+	return true
+}
+
+// maxColumn returns the largest of the non-empty xs.
+func maxColumn(xs []int) int {
+	m := xs[0]
+	for _, x := range xs[1:] {
+		m = max(m, x)
+	}
+	return m
+}

@@ -1,0 +1,343 @@
+package pipeline
+
+import (
+	"bytes"
+	"context"
+	"errors"
+	"fmt"
+	"os"
+	"path/filepath"
+	"regexp"
+	"strings"
+	"time"
+
+	"github.com/tidwall/gjson"
+
+	"github.com/foilwright/foilwright/geometry/pointfile"
+	"github.com/foilwright/foilwright/geometry/section"
+	"github.com/foilwright/foilwright/internal/atomicfile"
+	"github.com/foilwright/foilwright/internal/digest"
+	"github.com/foilwright/foilwright/plugins/stage"
+	"github.com/foilwright/foilwright/prep"
+)
+
+// Document kinds of outputs.documents.
+const (
+	DocSection = "section" // section.json
+	DocNodes   = "nodes"   // nodes.dat
+	DocResults = "results" // results/<stage-id>.json
+)
+
+// documents is the one list of the files a section's preparation gives,
+// in the order they are written: the outputs.documents kind that asks for
+// each ("" for those written whenever they are made) and how it is made.
+// A new per-section output is an entry here (and its kind in Documents).
+var documents = []struct {
+	kind string
+	make func(r *sectionRun) ([]output, error)
+}{
+	{DocSection, func(r *sectionRun) ([]output, error) {
+		return []output{{r.sp.Name + "/section.json", withNewline(r.prepared.Section)}}, nil
+	}},
+	{DocNodes, func(r *sectionRun) ([]output, error) {
+		name := r.sec.Name
+		if name == "" {
+			name = r.sp.Name
+		}
+		var b bytes.Buffer
+		if err := pointfile.WriteNodes(&b, name, r.sec.Nodes); err != nil {
+			return nil, fmt.Errorf("prepare gave a bad section document: %v", err)
+		}
+		return []output{{r.sp.Name + "/nodes.dat", b.Bytes()}}, nil
+	}},
+	// The preparation's pictures, when outputs.plots asks for them.
+	{"", func(r *sectionRun) ([]output, error) {
+		var outs []output
+		for _, a := range r.prepared.Artifacts {
+			outs = append(outs, output{r.sp.Name + "/plots/" + a.Name, a.Data})
+		}
+		return outs, nil
+	}},
+}
+
+// Documents returns the kinds outputs.documents may list, in the order a
+// section's files are written; the results of the stages come last.
+func Documents() []string {
+	var kinds []string
+	for _, d := range documents {
+		if d.kind != "" {
+			kinds = append(kinds, d.kind)
+		}
+	}
+	return append(kinds, DocResults)
+}
+
+// sectionResult is what one section produced.
+type sectionResult struct {
+	report  SectionReport
+	section *section.Section // the section made, when preparing succeeded
+	files   []FileHash       // inputs as read
+	outputs map[string]string
+	timing  SectionTiming
+}
+
+// output is one file of a section, relative to the run folder.
+type output struct {
+	path string
+	data []byte
+}
+
+// sectionRun is one section on its way through Run: what it has made so
+// far and the files it will write. Each step returns false when the
+// section ends early, failed or cancelled, with res saying so.
+type sectionRun struct {
+	ctx      context.Context
+	pl       *Plan
+	sp       SectionPlan
+	res      sectionResult
+	in       Input
+	prepared Prepared
+	sec      *section.Section
+	outs     []output
+}
+
+// runSection makes one section and writes its outputs: read its files,
+// prepare it, collect its documents, run the stages, write. When the run
+// is cancelled while the section is under way, nothing of it is written.
+func runSection(ctx context.Context, pl *Plan, folder string, i int, calls []StageCall, preparer Preparer, runner StageRunner) sectionResult {
+	sp := pl.Sections[i]
+	r := &sectionRun{ctx: ctx, pl: pl, sp: sp,
+		res: sectionResult{report: SectionReport{Name: sp.Name}, timing: SectionTiming{Name: sp.Name}}}
+	if ctx.Err() != nil {
+		r.cancel()
+		return r.res
+	}
+	_ = r.readInputs() &&
+		r.prepare(preparer) &&
+		r.collectDocuments() &&
+		r.runStages(calls, runner) &&
+		r.write(folder)
+	return r.res
+}
+
+// cancel marks the section cancelled, dropping what it made.
+func (r *sectionRun) cancel() bool {
+	r.res = sectionResult{report: SectionReport{Name: r.sp.Name, Status: StatusCancelled}, timing: r.res.timing}
+	return false
+}
+
+// fail marks the section failed for the reason given.
+func (r *sectionRun) fail(format string, args ...any) bool {
+	r.res.report.Status = StatusFailed
+	r.res.report.Err = fmt.Sprintf(format, args...)
+	return false
+}
+
+// readInputs reads the section's files (the chain reads none) and takes
+// their digests, once, for the section document and the manifest.
+func (r *sectionRun) readInputs() bool {
+	r.in = Input{Section: r.sp.Name, Station: r.sp.Station}
+	if out := r.pl.Pipeline.Outputs; out.HasPlot(PlotPrep) {
+		r.in.PlotFormat = out.PlotFormat
+	}
+	for _, f := range r.sp.Files {
+		data, err := os.ReadFile(r.pl.Pipeline.abs(f))
+		if err != nil {
+			return r.fail("read %s: %v", f, err)
+		}
+		file := prep.NewFile(f, data)
+		r.res.files = append(r.res.files, FileHash{Path: f, SHA256: file.SHA256})
+		r.in.Files = append(r.in.Files, file)
+	}
+	return true
+}
+
+// prepare runs the geometry chain and takes the section it made: as the
+// preparer gave it, or decoded from the document when it gave only that.
+func (r *sectionRun) prepare(preparer Preparer) bool {
+	t := time.Now()
+	prepared, err := preparer.Prepare(r.ctx, r.in, r.sp.Settings)
+	r.res.timing.PrepareS = seconds(time.Since(t))
+	if r.ctx.Err() != nil {
+		return r.cancel()
+	}
+	if err != nil {
+		return r.fail("prepare: %v", err)
+	}
+	r.res.report.Summary = prepared.Summary
+	r.prepared, r.sec = prepared, prepared.Doc
+	if r.sec == nil {
+		if r.sec, err = section.Read(bytes.NewReader(prepared.Section), r.sp.Name+"/section.json"); err != nil {
+			return r.fail("prepare gave a bad section document: %v", err)
+		}
+	}
+	return true
+}
+
+// collectDocuments makes the documents outputs.documents asks for (see
+// documents).
+func (r *sectionRun) collectDocuments() bool {
+	out := r.pl.Pipeline.Outputs
+	for _, d := range documents {
+		if d.kind != "" && !out.Has(d.kind) {
+			continue
+		}
+		outs, err := d.make(r)
+		if err != nil {
+			return r.fail("%v", err)
+		}
+		r.outs = append(r.outs, outs...)
+	}
+	r.res.section = r.sec
+	return true
+}
+
+// runStages runs the stages in order, each seeing the results of those it
+// runs after, and collects their results and artifacts.
+func (r *sectionRun) runStages(calls []StageCall, runner StageRunner) bool {
+	rep := &r.res.report
+	results := map[string][]byte{}
+	failed := map[string]bool{}
+	artifactBy := map[string]string{} // artifact name → stage id
+	stopped := false
+	for k, st := range r.pl.Stages {
+		sr := StageReport{ID: st.ID}
+		var missing []string
+		for _, id := range st.After {
+			if failed[id] {
+				missing = append(missing, fmt.Sprintf("%q", id))
+			}
+		}
+		switch {
+		case stopped:
+			sr.Status = "not-run"
+		case len(missing) > 0:
+			sr.Status = "skipped"
+			sr.Err = "runs after " + strings.Join(missing, ", ") + ", which did not succeed"
+			failed[st.ID] = true
+		default:
+			deps := map[string][]byte{}
+			for _, id := range st.After {
+				deps[id] = results[id]
+			}
+			t := time.Now()
+			out, err := runStage(r.ctx, runner, calls[k], stage.Request{Section: r.prepared.Section, Params: calls[k].Params, Deps: deps, SectionName: r.sp.Name})
+			r.res.timing.Stages = append(r.res.timing.Stages, StageTiming{ID: st.ID, S: seconds(time.Since(t))})
+			if r.ctx.Err() != nil {
+				return r.cancel()
+			}
+			if err == nil {
+				err = checkOutput(out, st.ID, artifactBy)
+			}
+			if err != nil {
+				sr.Status = "failed"
+				sr.Err = err.Error()
+				failed[st.ID] = true
+				if st.OnError == OnErrorStop {
+					stopped = true
+					rep.Status = StatusFailed
+					rep.Err = fmt.Sprintf("stage %q: %v", st.ID, err)
+				} else if rep.Status == "" {
+					rep.Status = StatusPartial
+				}
+				break
+			}
+			sr.Status = StatusOK
+			sr.Warnings = out.Warnings
+			results[st.ID] = out.JSON
+			r.stageOutputs(st.ID, out)
+		}
+		rep.Stages = append(rep.Stages, sr)
+	}
+	if rep.Status == "" {
+		rep.Status = StatusOK
+	}
+	if r.ctx.Err() != nil {
+		return r.cancel()
+	}
+	return true
+}
+
+// stageOutputs collects what a stage that succeeded gives: its result
+// document, when outputs.documents lists results, and its artifacts.
+func (r *sectionRun) stageOutputs(id string, out stage.Result) {
+	if r.pl.Pipeline.Outputs.Has(DocResults) {
+		r.outs = append(r.outs, output{r.sp.Name + "/results/" + id + ".json", withNewline(out.JSON)})
+	}
+	for _, a := range out.Artifacts {
+		r.outs = append(r.outs, output{r.sp.Name + "/plots/" + a.Name, a.Data})
+	}
+}
+
+// write writes the collected files into the run folder, each atomically,
+// and records their digests.
+func (r *sectionRun) write(folder string) bool {
+	r.res.outputs = map[string]string{}
+	for _, o := range r.outs {
+		full := filepath.Join(folder, filepath.FromSlash(o.path))
+		if err := os.MkdirAll(filepath.Dir(full), 0o755); err != nil {
+			return r.fail("write %s: %v", o.path, err)
+		}
+		if err := atomicfile.WriteBytes(full, o.data); err != nil {
+			return r.fail("%v", err)
+		}
+		r.res.outputs[o.path] = digest.Bytes(o.data)
+	}
+	return true
+}
+
+// runStage runs one call with its time limit, the one place a stage's
+// timeout_s is applied, turning a panic in the runner into an error.
+func runStage(ctx context.Context, r StageRunner, call StageCall, req stage.Request) (out stage.Result, err error) {
+	if call.Timeout > 0 {
+		var cancel context.CancelFunc
+		ctx, cancel = context.WithTimeout(ctx, call.Timeout)
+		defer cancel()
+	}
+	defer func() {
+		if p := recover(); p != nil {
+			err = fmt.Errorf("stage runner panicked: %v", p)
+		}
+	}()
+	out, err = r.Run(ctx, call, req)
+	if err != nil && errors.Is(ctx.Err(), context.DeadlineExceeded) {
+		err = fmt.Errorf("timed out after %v: %w", call.Timeout, err)
+	}
+	return out, err
+}
+
+// artifactName is the form of an artifact's file name.
+var artifactName = regexp.MustCompile(`^[A-Za-z0-9][A-Za-z0-9._-]{0,127}$`)
+
+// checkOutput checks what a stage returned before anything is written.
+func checkOutput(out stage.Result, id string, by map[string]string) error {
+	if !gjson.ValidBytes(out.JSON) || !gjson.ParseBytes(out.JSON).IsObject() {
+		return errors.New("the stage returned a result that is not a JSON object")
+	}
+	names := map[string]bool{}
+	for _, a := range out.Artifacts {
+		if !artifactName.MatchString(a.Name) {
+			return fmt.Errorf("the stage returned an artifact named %q (want a plain file name)", a.Name)
+		}
+		key := strings.ToLower(a.Name) // file names may not differ only in case
+		if other, ok := by[key]; ok || names[key] {
+			if !ok {
+				other = id
+			}
+			return fmt.Errorf("artifact %q is also returned by stage %q", a.Name, other)
+		}
+		names[key] = true
+	}
+	for n := range names {
+		by[n] = id
+	}
+	return nil
+}
+
+// withNewline returns b ending in a newline.
+func withNewline(b []byte) []byte {
+	if len(b) > 0 && b[len(b)-1] == '\n' {
+		return b
+	}
+	return append(append([]byte{}, b...), '\n')
+}

@@ -1,0 +1,370 @@
+package prep
+
+import (
+	"bytes"
+	"errors"
+	"fmt"
+	"math"
+	"strings"
+
+	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/clean"
+	"github.com/foilwright/foilwright/geometry/curve"
+	"github.com/foilwright/foilwright/geometry/frame"
+	"github.com/foilwright/foilwright/geometry/planar"
+	"github.com/foilwright/foilwright/geometry/pointfile"
+	"github.com/foilwright/foilwright/geometry/props"
+	"github.com/foilwright/foilwright/geometry/section"
+	"github.com/foilwright/foilwright/internal/digest"
+	"github.com/foilwright/foilwright/repanel"
+)
+
+// ErrNoUnits means neither the user nor the file said what unit the
+// coordinates are in; foilwright never guesses.
+var ErrNoUnits = errors.New("the file does not say its length unit: give one (mm, in, m or chord)")
+
+// ErrNoiseTooLarge means the expected noise given is not small beside the
+// section itself.
+var ErrNoiseTooLarge = errors.New("the noise figure is not small beside the section")
+
+// maxNoiseFraction is the largest expected noise accepted, as a fraction of
+// the contour's bounding-box diagonal (a noise of 5 % of the part's size
+// would smooth the section away).
+const maxNoiseFraction = 0.05
+
+// Preparation is everything the geometry chain made of one section: the
+// section document and the intermediate results a report or a plot needs.
+type Preparation struct {
+	Section  *section.Section
+	Clouds   []*geometry.Cloud // as read, one per file
+	Flatness *planar.Flatness  // set when the points were 3D
+	Clean    *clean.Report     // merging, ordering, outliers, loops
+	Contour  *geometry.Contour // the kept points, in order, input coordinates (plane coordinates for 3D input)
+	Curve    *curve.Curve      // the fitted curve, same coordinates as Contour
+	Fit      *curve.FitReport
+	Shape    *frame.Normalized // the normalised curve, chord units
+	Props    *props.SectionProperties
+	Camber   *props.CamberLine
+	Quality  repanel.Quality
+}
+
+// Cleaned is what the first half of the geometry chain made of a
+// section's files: the clouds read, the flatness of 3D points and their
+// plane, and the clean, ordered contour with its report.
+type Cleaned struct {
+	Clouds   []*geometry.Cloud
+	Flatness *planar.Flatness
+	Plane    *geometry.Plane // the plane of 3D points; nil for 2D input
+	Clean    *clean.Report
+	Contour  *geometry.Contour
+	Units    geometry.Unit
+	Files    []string // display names
+	SHA256   []string // hex digests of the files' bytes
+	Read     int      // points read from all files
+}
+
+// ReadAndClean runs the first half of the geometry chain on the files of
+// one section: read, flatten 3D points onto their plane, merge duplicates,
+// order into loops, pick the section loop and drop gross outliers.
+func ReadAndClean(files []File, s Settings) (*Cleaned, error) {
+	if len(files) == 0 {
+		return nil, errors.New("no input files")
+	}
+	ro, err := readOptions(s)
+	if err != nil {
+		return nil, err
+	}
+	out := &Cleaned{}
+	var all geometry.Cloud
+	for _, f := range files {
+		c, err := pointfile.Read(bytes.NewReader(f.Data), f.Path, ro)
+		if err != nil {
+			return nil, err
+		}
+		if c.Units == "" {
+			return nil, fmt.Errorf("%s: %w", f.Path, ErrNoUnits)
+		}
+		if all.Units != "" && c.Units != all.Units {
+			return nil, fmt.Errorf("%s: units %s differ from %s of %s", f.Path, c.Units, all.Units, out.Files[0])
+		}
+		out.Clouds = append(out.Clouds, c)
+		sum := f.SHA256
+		if sum == "" {
+			sum = digest.Bytes(f.Data)
+		}
+		out.Files = append(out.Files, f.Path)
+		out.SHA256 = append(out.SHA256, sum)
+		mergeCloud(&all, c)
+	}
+	cloud := &all
+	if len(out.Clouds) == 1 {
+		cloud = out.Clouds[0]
+	}
+	out.Read, out.Units = cloud.Len(), cloud.Units
+	where := strings.Join(out.Files, ", ")
+
+	if cloud.Dim == 3 {
+		fo := planar.FlattenOptions{Plane: ro.Cut}
+		if s.Band != nil {
+			fo.Band = *s.Band
+		}
+		if s.FlatTol != nil {
+			fo.Tolerance = *s.FlatTol
+		}
+		flat, fl, err := planar.Flatten(cloud, fo)
+		if err != nil {
+			return nil, fmt.Errorf("%s: %w", where, err)
+		}
+		cloud, out.Flatness, out.Plane = flat, &fl, &fl.Plane
+	}
+
+	var co clean.Options
+	if s.MergeTol != nil {
+		co.MergeTol = *s.MergeTol
+	}
+	if s.OutlierSigma != nil {
+		co.OutlierSigma = *s.OutlierSigma
+	}
+	if s.KeepOutliers != nil {
+		co.KeepOutliers = *s.KeepOutliers
+	}
+	if s.Loop != nil {
+		co.Loop = *s.Loop
+	}
+	contour, rep, err := clean.Clean(cloud, co)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", where, err)
+	}
+	out.Contour, out.Clean = contour, rep
+	return out, nil
+}
+
+// Prepare runs the whole geometry chain on the files of one section:
+// ReadAndClean, then fit, locate the edges and normalise, repanel, and
+// compute the properties. Every error comes from the data or the settings
+// and names the file where there is one.
+func Prepare(name string, files []File, s Settings) (*Preparation, error) {
+	cl, err := ReadAndClean(files, s)
+	if err != nil {
+		return nil, err
+	}
+	p := &Preparation{Clouds: cl.Clouds, Flatness: cl.Flatness, Clean: cl.Clean, Contour: cl.Contour}
+	where := strings.Join(cl.Files, ", ")
+	if err := p.fit(cl, s); err != nil {
+		return nil, err
+	}
+	if p.Shape, err = frame.Normalize(p.Curve, edgeOptions(s)); err != nil {
+		return nil, fmt.Errorf("%s: %w", where, err)
+	}
+	rp := panelOptions(s)
+	nodes, le, err := p.repanel(rp)
+	if err != nil {
+		return nil, err
+	}
+	if _, err := section.CheckNodes(nodes); err != nil {
+		return nil, fmt.Errorf("%s: the repanelled section is not usable: %w", where, err)
+	}
+	p.Quality = repanel.Measure(nodes)
+	// The scatter of the points widens the arc of the leading-edge circle
+	// so that noise left in the curve does not upset the radius.
+	po := props.Options{Thickness: s.ThicknessMode, Camber: s.CamberMode, Noise: p.Fit.Scatter / p.Shape.Frame.Chord}
+	if p.Props, p.Camber, err = props.Compute(p.Shape.Path, p.Shape.SLE, po); err != nil {
+		return nil, fmt.Errorf("%s: %w", where, err)
+	}
+	p.Section = p.document(name, cl, nodes, le, rp.Spacing)
+	return p, nil
+}
+
+// fit fits the smoothing spline to the cleaned contour, with the noise and
+// tolerance the settings give.
+func (p *Preparation) fit(cl *Cleaned, s Settings) error {
+	var fo curve.FitOptions
+	switch {
+	case s.Noise == nil:
+	case *s.Noise == 0:
+		fo.Exact = true
+	default:
+		if diag := contourDiagonal(cl.Contour); *s.Noise > maxNoiseFraction*diag {
+			return fmt.Errorf("noise %g %s: %w (the points span %.4g %s)", *s.Noise, cl.Units, ErrNoiseTooLarge, diag, cl.Units)
+		}
+		fo.Noise = *s.Noise
+	}
+	if s.FitTol != nil {
+		fo.Tolerance = *s.FitTol
+	}
+	cv, rep, err := curve.Fit(cl.Contour, fo)
+	if err != nil {
+		return fmt.Errorf("%s: %w", strings.Join(cl.Files, ", "), err)
+	}
+	p.Curve, p.Fit = cv, rep
+	return nil
+}
+
+// edgeOptions returns the edge and normalisation options of the settings.
+func edgeOptions(s Settings) frame.Options {
+	eo := frame.Options{TE: s.TE, Mirror: s.Mirror}
+	if s.TEBlend != nil {
+		eo.Blend = *s.TEBlend
+	}
+	if s.LEAt != nil {
+		at := geometry.Point{X: s.LEAt[0], Y: s.LEAt[1]}
+		eo.LEAt = &at
+	}
+	return eo
+}
+
+// panelOptions returns the repanelling options of the settings.
+func panelOptions(s Settings) repanel.Options {
+	rp := repanel.Options{Spacing: s.Spacing}
+	if s.Panels != nil {
+		rp.Panels = *s.Panels
+	}
+	if s.LECluster != nil {
+		rp.LECluster = *s.LECluster
+	}
+	if s.TECluster != nil {
+		rp.TECluster = *s.TECluster
+	}
+	if s.CurvatureWeight != nil {
+		rp.CurvatureWeight = *s.CurvatureWeight
+	}
+	return rp
+}
+
+// repanel places the nodes along the normalised section and returns them
+// with the index of the leading-edge node, which is exactly (0, 0).
+func (p *Preparation) repanel(rp repanel.Options) ([]geometry.Point, int, error) {
+	ss, le, err := repanel.Stations(p.Shape.Path, p.Shape.SLE, rp)
+	if err != nil {
+		return nil, 0, err
+	}
+	nodes := make([]geometry.Point, len(ss))
+	for i, sv := range ss {
+		nodes[i] = p.Shape.Path.At(sv)
+	}
+	nodes[le] = geometry.Point{}
+	return nodes, le, nil
+}
+
+// document returns the section document of the preparation: the nodes
+// and the record of how they were made, with every warning of the chain.
+func (p *Preparation) document(name string, cl *Cleaned, nodes []geometry.Point, le int, spacing string) *section.Section {
+	fit, shape := p.Fit, p.Shape
+	fr := section.Frame(shape.Frame)
+	fr.Plane = cl.Plane
+	te := section.TrailingEdge(shape.TE)
+	docProps := section.Properties(p.Props.Properties)
+	if spacing == "" {
+		spacing = repanel.LawCosine
+	}
+	sec := &section.Section{
+		Format: section.Format,
+		Name:   name,
+		Units:  cl.Units,
+		Source: &section.SourceInfo{
+			Files: cl.Files, SHA256: cl.SHA256,
+			PointsRead: cl.Read, PointsUsed: cl.Contour.Len(),
+			Dropped: DroppedOf(cl.Clean),
+		},
+		Frame:        &fr,
+		Fit:          &section.FitSummary{Method: fit.Method, RMS: fit.RMS, Max: fit.Max, MaxAt: fit.MaxAt.String(), NoiseEstimate: fit.NoiseEstimate},
+		TrailingEdge: &te,
+		LEIndex:      &le,
+		Panels: &section.PanelSummary{
+			Count: len(nodes) - 1, Spacing: spacing,
+			MaxRatio: p.Quality.MaxRatio, MaxTurnDeg: p.Quality.MaxTurnDeg,
+		},
+		Properties: &docProps,
+		Nodes:      nodes,
+	}
+	for _, c := range p.Clouds {
+		for _, n := range c.Notes {
+			if strings.HasPrefix(n.Reason, "warning") {
+				sec.Warnings = append(sec.Warnings, n.Origin.String()+": "+n.Reason)
+			}
+		}
+	}
+	sec.Warnings = append(sec.Warnings, fit.Warnings...)
+	if len(fit.Beyond) > 0 {
+		list := make([]string, 0, len(fit.Beyond))
+		for _, o := range fit.Beyond {
+			list = append(list, o.String())
+		}
+		sec.Warnings = append(sec.Warnings, fmt.Sprintf("listed, not moved: %s", strings.Join(list, ", ")))
+	}
+	sec.Warnings = append(sec.Warnings, shape.Warnings...)
+	sec.Warnings = append(sec.Warnings, p.Quality.Warnings...)
+	return sec
+}
+
+// readOptions turns the reading settings into pointfile.Options.
+func readOptions(s Settings) (pointfile.Options, error) {
+	ro := pointfile.Options{Format: s.Format, Columns: s.Columns}
+	if s.Units != "" {
+		u, err := geometry.ParseUnit(s.Units)
+		if err != nil {
+			return ro, err
+		}
+		ro.Units = u
+	}
+	if s.Cut != "" {
+		pl, err := planar.ParseSpec(s.Cut)
+		if err != nil {
+			return ro, err
+		}
+		ro.Cut = &pl
+	}
+	return ro, nil
+}
+
+// mergeCloud appends the points of c to all. The result is unordered when
+// it holds more than one file.
+func mergeCloud(all, c *geometry.Cloud) {
+	if all.Len() == 0 {
+		*all = *c
+		all.Points = append([]geometry.Vec3(nil), c.Points...)
+		all.Origins = append([]geometry.Origin(nil), c.Origins...)
+		all.Notes = append([]geometry.Note(nil), c.Notes...)
+		all.Segments = nil
+		return
+	}
+	all.Points = append(all.Points, c.Points...)
+	all.Origins = append(all.Origins, c.Origins...)
+	all.Notes = append(all.Notes, c.Notes...)
+	all.Ordered = false
+	if c.Dim > all.Dim {
+		all.Dim = c.Dim
+	}
+}
+
+// contourDiagonal returns the diagonal of the bounding box of c.
+func contourDiagonal(c *geometry.Contour) float64 {
+	lo := geometry.Point{X: math.Inf(1), Y: math.Inf(1)}
+	hi := geometry.Point{X: math.Inf(-1), Y: math.Inf(-1)}
+	for _, p := range c.Points {
+		lo.X, lo.Y = math.Min(lo.X, p.X), math.Min(lo.Y, p.Y)
+		hi.X, hi.Y = math.Max(hi.X, p.X), math.Max(hi.Y, p.Y)
+	}
+	return hi.Dist(lo)
+}
+
+// DroppedOf lists every input point that is not in the contour: merged
+// duplicates, outliers and stray points.
+func DroppedOf(rep *clean.Report) []section.Dropped {
+	out := []section.Dropped{}
+	for _, m := range rep.Merged {
+		out = append(out, section.Dropped{File: m.Dropped.File, Line: m.Dropped.Line, Entity: m.Dropped.Entity,
+			Reason: fmt.Sprintf("duplicate of %s (%.3g apart)", m.Kept, m.Distance)})
+	}
+	for _, d := range rep.Dropped {
+		if d.Kept {
+			continue
+		}
+		reason := d.Reason
+		if d.Sigmas > 0 {
+			reason = fmt.Sprintf("%s: %.3g off the local fit (%.1f robust sigmas)", d.Reason, d.Distance, d.Sigmas)
+		}
+		out = append(out, section.Dropped{File: d.Origin.File, Line: d.Origin.Line, Entity: d.Origin.Entity, Reason: reason})
+	}
+	return out
+}
