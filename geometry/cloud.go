@@ -96,6 +96,14 @@ type Cloud struct {
 	// has more than one run; nil means a single run.
 	Segments []int
 	Notes    []Note // lines skipped, with reasons
+	// Columns says which columns of a delimited file were read as the
+	// coordinates and why, e.g. "2, 3, 4 (named x, y, z by the header)";
+	// "" for other formats.
+	Columns string
+	// ColumnsGuessed reports that no header named the coordinate columns
+	// while the lines hold more numbers than were read, so the first ones
+	// were taken: a guess an error message should mention.
+	ColumnsGuessed bool
 }
 
 // Len returns the number of points in c.

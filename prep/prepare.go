@@ -113,7 +113,7 @@ func ReadAndClean(files []File, s Settings) (*Cleaned, error) {
 		}
 		flat, fl, err := planar.Flatten(cloud, fo)
 		if err != nil {
-			return nil, fmt.Errorf("%s: %w", where, err)
+			return nil, fmt.Errorf("%s: %w%s", where, err, columnsHint(out.Clouds))
 		}
 		cloud, out.Flatness, out.Plane = flat, &fl, &fl.Plane
 	}
@@ -133,7 +133,7 @@ func ReadAndClean(files []File, s Settings) (*Cleaned, error) {
 	}
 	contour, rep, err := clean.Clean(cloud, co)
 	if err != nil {
-		return nil, fmt.Errorf("%s: %w", where, err)
+		return nil, fmt.Errorf("%s: %w%s", where, err, columnsHint(out.Clouds))
 	}
 	out.Contour, out.Clean = contour, rep
 	return out, nil
@@ -315,6 +315,19 @@ func readOptions(s Settings) (pointfile.Options, error) {
 		ro.Cut = &pl
 	}
 	return ro, nil
+}
+
+// columnsHint returns, for an error message, what to do when the
+// coordinate columns of a file were a guess (no header named them and the
+// lines hold more numbers than were read), "" otherwise.
+func columnsHint(clouds []*geometry.Cloud) string {
+	for _, c := range clouds {
+		if c.ColumnsGuessed && len(c.Origins) > 0 {
+			return fmt.Sprintf("; the coordinates of %s were read from columns %s: if those are not x, y (z), name the columns in a header (x, y, z) or give them with --columns (e.g. --columns 2,3,4)",
+				c.Origins[0].File, c.Columns)
+		}
+	}
+	return ""
 }
 
 // mergeCloud appends the points of c to all. The result is unordered when

@@ -52,6 +52,12 @@ func (p *Preparation) WriteSummary(w io.Writer) {
 		at := geometry.Origin{File: filepath.Base(d.File), Line: d.Line, Entity: d.Entity}
 		fmt.Fprintf(w, "  dropped %s: %s\n", at, d.Reason)
 	}
+	for i, c := range p.Clouds {
+		// The plain case (the numbers of each line) goes without saying.
+		if c.Columns != "" && (c.ColumnsGuessed || !strings.HasSuffix(c.Columns, "(the numbers of each line)")) {
+			fmt.Fprintf(w, "  columns     %s: %s\n", files[min(i, len(files)-1)], c.Columns)
+		}
+	}
 	if f := p.Flatness; f != nil {
 		fmt.Fprintf(w, "  plane       %d points kept, %d outside the band; flatness RMS %.3g %s, max %.3g %s\n", f.Kept, f.Outside, f.RMS, u, f.Max, u)
 	}
