@@ -1,0 +1,307 @@
+package clean
+
+import (
+	"fmt"
+	"math"
+	"slices"
+	"strings"
+
+	"github.com/foilwright/foilwright/geometry"
+)
+
+// Ordering strategies, as Report.Strategy names them.
+const (
+	// OrderFile keeps the order of the file (an ordered listing or
+	// polyline whose every step is a local one).
+	OrderFile = "file"
+	// OrderSection places every point round a section by its chordwise
+	// position and side (sectionOrder): one loop, whatever the spacing
+	// and the noise.
+	OrderSection = "section"
+	// OrderLinked links points to their tangent-guided mutual neighbours
+	// and joins the chains (link, join): any number of loops of any shape,
+	// for points that lie on thin lines.
+	OrderLinked = "linked"
+	// OrderBand orders a dense noisy band by projection onto a thinned
+	// curve (byBand): any number of loops.
+	OrderBand = "band"
+)
+
+// minCoverage is the least share of the distinct points the section loop
+// must keep (gate "coverage"): outliers are a few per cent of a scan, so a
+// loop that leaves more out has missed part of the outline.
+const minCoverage = 0.9
+
+// attempt is one ordering strategy carried through picking and outliers.
+type attempt struct {
+	strategy string
+	loops    []LoopInfo
+	seq      []int32 // the picked loop, outliers taken out (kept with KeepOutliers)
+	hits     []hit   // outliers and strays
+	scale    float64 // robust scale of the residuals
+	fail     string  // why a gate refused the loop, "" if none did
+	err      error   // a failure that no other strategy can mend
+}
+
+// arrange orders the distinct points into loops, picks the section loop
+// and drops its outliers, by the first strategy whose loop passes the
+// gates: the file's own order when it is valid; linking when it finds
+// several walls (or a loop other than the first is asked for); the
+// section order; linking and band projection for one loop. It records the
+// strategies refused, and why, in the report.
+func (cl *cleaning) arrange(opts Options, sigma float64) (*attempt, error) {
+	var refused []string
+	pass := func(a *attempt) bool {
+		if a == nil {
+			return false
+		}
+		if a.fail == "" && a.err == nil {
+			return true
+		}
+		why := a.fail
+		if a.err != nil {
+			why = a.err.Error()
+		}
+		refused = append(refused, fmt.Sprintf("%s order: %s", a.strategy, why))
+		return false
+	}
+	finish := func(a *attempt) (*attempt, error) {
+		cl.rep.Strategy = a.strategy
+		cl.rep.Refused = refused
+		return a, nil
+	}
+	cl.nb = neighbours(cl.pts, cl.lo, cl.hi)
+	if cl.c.Ordered {
+		if a := cl.fromFile(opts, sigma); pass(a) {
+			return finish(a)
+		}
+	}
+	loops, rest := cl.linkLoops()
+	walls := substantial(cl.pts, loops, cl.diag)
+	if walls > 1 || opts.Loop > 0 {
+		a := cl.evaluate(OrderLinked, loops, rest, opts, sigma, 0)
+		if pass(a) || a.err != nil {
+			if a.err != nil {
+				return nil, a.err
+			}
+			return finish(a)
+		}
+	}
+	if opts.Loop == 0 {
+		if a := cl.bySection(opts, sigma); pass(a) {
+			return finish(a)
+		}
+		if walls == 1 {
+			if a := cl.evaluate(OrderLinked, loops, rest, opts, sigma, 0); pass(a) {
+				return finish(a)
+			}
+		}
+	}
+	if a := cl.byBandLoops(opts, sigma); pass(a) {
+		return finish(a)
+	}
+	cl.rep.Refused = refused
+	if len(loops) == 0 {
+		return nil, fmt.Errorf("geometry: clean: %w: %d points form no closed loop (%s)", geometry.ErrNoLoop, len(cl.pts), strings.Join(refused, "; "))
+	}
+	return nil, fmt.Errorf("geometry: clean: %w: no ordering of the %d points passes the checks (%s)", geometry.ErrNoLoop, len(cl.pts), strings.Join(refused, "; "))
+}
+
+// substantial counts the loops that enclose an area and hold at least
+// loopShare of the points of the most populous loop.
+func substantial(pts []geometry.Point, loops [][]int32, diag float64) int {
+	most := 0
+	for _, l := range loops {
+		most = max(most, len(l))
+	}
+	k := 0
+	for _, l := range loops {
+		if math.Abs(area(pts, l)) > 1e-9*diag*diag && float64(len(l)) >= loopShare*float64(most) {
+			k++
+		}
+	}
+	return k
+}
+
+// fromFile tries the file's own runs as the loops.
+func (cl *cleaning) fromFile(opts Options, sigma float64) *attempt {
+	c, pts, src := cl.c, cl.pts, cl.src
+	runs := runsOf(c, src)
+	if a, b, ok := runsValid(pts, runs, cl.nb); !ok {
+		cl.rep.Reordered = fmt.Sprintf("the step from %s to %s jumps %.3g, beyond the points' neighbourhoods", c.Origins[src[a]], c.Origins[src[b]], pts[a].Dist(pts[b]))
+		return &attempt{strategy: OrderFile, fail: cl.rep.Reordered}
+	}
+	g := newGraph(len(pts))
+	for _, r := range runs {
+		for k := 1; k < len(r); k++ {
+			g.addEdge(r[k-1], r[k])
+		}
+	}
+	join(pts, cl.nb, g)
+	loops, rest := g.components(minPoints)
+	a := cl.evaluate(OrderFile, loops, rest, opts, sigma, 0)
+	if a.fail == "" && a.err == nil {
+		cl.rep.OrderKept = true
+	}
+	return a
+}
+
+// linkLoops links the points into chains and joins them into loops.
+func (cl *cleaning) linkLoops() (loops, rest [][]int32) {
+	g := newGraph(len(cl.pts))
+	link(cl.pts, cl.nb, g)
+	join(cl.pts, cl.nb, g)
+	return g.components(minPoints)
+}
+
+// byBandLoops tries band projection.
+func (cl *cleaning) byBandLoops(opts Options, sigma float64) *attempt {
+	loops, rest, per := byBand(cl.pts, cl.nb, cl.lo, cl.hi)
+	band := min(max(fitK, 2*per), maxBandFit)
+	a := cl.evaluate(OrderBand, loops, rest, opts, sigma, band)
+	if a.fail == "" && a.err == nil {
+		cl.rep.Band = true
+	}
+	return a
+}
+
+// bySection tries the section order: the chord frame of the points that
+// are not isolated, the order, its outliers; then, with the outliers set
+// aside, the frame and the order once more.
+func (cl *cleaning) bySection(opts Options, sigma float64) *attempt {
+	pts := cl.pts
+	sel := dense(pts, cl.nb)
+	var a *attempt
+	for pass := range 2 {
+		f, ok := sectionFrame(pts, sel)
+		if !ok {
+			return &attempt{strategy: OrderSection, fail: "no thin end: the points do not look like a section"}
+		}
+		seq := sectionOrder(pts, sel, f)
+		// Isolated points wait outside the loop, to be put back, dropped
+		// as outliers or as strays by where they lie from it.
+		var rest [][]int32
+		if len(sel) < len(pts) {
+			in := make([]bool, len(pts))
+			for _, i := range sel {
+				in[i] = true
+			}
+			var left []int32
+			for i := range int32(len(pts)) {
+				if !in[i] {
+					left = append(left, i)
+				}
+			}
+			rest = [][]int32{left}
+		}
+		a = cl.evaluate(OrderSection, [][]int32{seq}, rest, opts, sigma, sectionFitK(len(pts)))
+		if a.err != nil || pass == 1 {
+			break
+		}
+		// The frame again from the points kept (strays stay out).
+		out := make(map[int32]bool, len(a.hits))
+		for _, h := range a.hits {
+			out[h.idx] = true
+		}
+		sel = make([]int32, 0, len(pts))
+		for _, i := range a.seq {
+			if !out[i] {
+				sel = append(sel, i)
+			}
+		}
+		slices.Sort(sel)
+		if len(sel) < minPoints {
+			break
+		}
+	}
+	return a
+}
+
+// sectionFitK is the half-width, in points, of the local fits that test
+// a section-ordered loop for outliers: such a loop is ordered along the
+// chord, so neighbours may lie across a noisy band from each other, and the
+// fits (bandFit) take a few more of them the denser the points.
+func sectionFitK(n int) int {
+	return min(max(fitK, n/400), 12)
+}
+
+// dense returns the points whose fourth nearest neighbour is no farther
+// than six times the median such distance: isolated points (gross
+// outliers) are left out of the chord frame.
+func dense(pts []geometry.Point, nb *nbrs) []int32 {
+	d := make([]float64, len(pts))
+	for i := range pts {
+		row := nb.of(int32(i))
+		if len(row) < 4 {
+			d[i] = math.Inf(1)
+			continue
+		}
+		d[i] = fastDist(pts[i], pts[row[3]])
+	}
+	lim := 6 * median(slices.Clone(d))
+	var sel []int32
+	for i, v := range d {
+		if v <= lim {
+			sel = append(sel, int32(i))
+		}
+	}
+	if len(sel) < minPoints {
+		return allNeighbours(len(pts))
+	}
+	return sel
+}
+
+// evaluate picks loop opts.Loop of loops (the rest are left over), drops
+// its outliers and places the points left over, and applies the gates:
+// the loop must keep at least minCoverage of the points.
+func (cl *cleaning) evaluate(strategy string, loops, rest [][]int32, opts Options, sigma float64, band int) *attempt {
+	a := &attempt{strategy: strategy}
+	pts := cl.pts
+	most := 0
+	for _, l := range loops {
+		most = max(most, len(l))
+	}
+	diag := cl.diag
+	loops = slices.DeleteFunc(slices.Clone(loops), func(l []int32) bool {
+		if math.Abs(area(pts, l)) <= 1e-9*diag*diag || float64(len(l)) < loopShare*float64(most) {
+			rest = append(rest, l)
+			return true
+		}
+		return false
+	})
+	if len(loops) == 0 {
+		a.fail = fmt.Sprintf("%d points form %d open chain(s) and no closed loop", len(pts), len(rest))
+		return a
+	}
+	seq, infos, err := cl.pick(loops, opts.Loop)
+	a.loops = infos
+	if err != nil {
+		a.err = err
+		return a
+	}
+	// The other loops are walls of the part, not points of this one.
+	walls := 0
+	for _, l := range loops {
+		walls += len(l)
+	}
+	walls -= len(seq)
+	seq, scale, outs := dropOutliers(pts, seq, sigma, opts.KeepOutliers, band)
+	seq, extra := placeRest(pts, seq, rest, cl.nb, sigma*scale, scale, opts.KeepOutliers)
+	a.seq, a.scale, a.hits = seq, scale, append(outs, extra...)
+	kept := len(a.seq)
+	if opts.KeepOutliers {
+		for _, h := range a.hits {
+			if h.kept {
+				kept--
+			}
+		}
+	}
+	need := len(pts) - walls
+	if float64(kept) < minCoverage*float64(need) {
+		a.fail = fmt.Sprintf("the loop keeps %d of %d points (coverage %.0f %%, want at least %.0f %%)", kept, need, 100*float64(kept)/float64(need), 100*minCoverage)
+	}
+	if len(a.seq) < minPoints {
+		a.fail = fmt.Sprintf("%d point(s) left in the loop, need at least %d", len(a.seq), minPoints)
+	}
+	return a
+}
