@@ -192,12 +192,22 @@ func (p *Preparation) fit(cl *Cleaned, s Settings) error {
 	if s.FitTol != nil {
 		fo.Tolerance = *s.FitTol
 	}
+	fo.Edge = fitEdge(cl.Clean.Edge)
 	cv, rep, err := curve.Fit(cl.Contour, fo)
 	if err != nil {
 		return fmt.Errorf("%s: %w", strings.Join(cl.Files, ", "), err)
 	}
 	p.Curve, p.Fit = cv, rep
 	return nil
+}
+
+// fitEdge returns the trailing edge the cleaning step found on the
+// points as the fit takes it, nil when it found none.
+func fitEdge(e *clean.Edge) *curve.Edge {
+	if e == nil {
+		return nil
+	}
+	return &curve.Edge{Closed: e.Kind == clean.EdgeRounded, Base: e.Base, Upper: e.Upper, Lower: e.Lower}
 }
 
 // edgeOptions returns the edge and normalisation options of the settings.

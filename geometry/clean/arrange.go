@@ -38,7 +38,8 @@ type attempt struct {
 	loops    []LoopInfo
 	seq      []int32 // the picked loop, outliers taken out (kept with KeepOutliers)
 	hits     []hit   // outliers and strays
-	scale    float64 // robust scale of the residuals
+	scale    float64 // robust scale of the residuals (floored, see robustScale)
+	raw      float64 // the same, not floored: the scatter of the points about local fits
 	fail     string  // why a gate refused the loop, "" if none did
 	err      error   // a failure that no other strategy can mend
 }
@@ -285,9 +286,9 @@ func (cl *cleaning) evaluate(strategy string, loops, rest [][]int32, opts Option
 		walls += len(l)
 	}
 	walls -= len(seq)
-	seq, scale, outs := dropOutliers(pts, seq, sigma, opts.KeepOutliers, band)
+	seq, scale, raw, outs := dropOutliers(pts, seq, sigma, opts.KeepOutliers, band)
 	seq, extra := placeRest(pts, seq, rest, cl.nb, sigma*scale, scale, opts.KeepOutliers)
-	a.seq, a.scale, a.hits = seq, scale, append(outs, extra...)
+	a.seq, a.scale, a.raw, a.hits = seq, scale, raw, append(outs, extra...)
 	kept := len(a.seq)
 	if opts.KeepOutliers {
 		for _, h := range a.hits {

@@ -96,6 +96,10 @@ type Report struct {
 	// Refused lists the orderings tried before it and why a gate refused
 	// each ("section order: the loop keeps 812 of 3000 points ...").
 	Refused []string
+	// Edge is the trailing edge found on the points (see findEdge), nil
+	// when the loop shows no thin end to analyse; the contour then starts
+	// at the provisional trailing edge of step 5.
+	Edge *Edge
 	// Reordered holds why an ordered input was reordered, "" otherwise.
 	Reordered string
 	// Band reports that the points form a band (their scatter is at least
@@ -202,8 +206,13 @@ func Clean(c *geometry.Cloud, opts Options) (*geometry.Contour, *Report, error) 
 		return nil, rep, err
 	}
 	cl.commit(a)
-	// 5. Orient.
-	return cl.contour(orient(cl.pts, a.seq)), rep, nil
+	// 5. Orient: start at the trailing edge found on the points; failing
+	// that, at the provisional one.
+	seq := orient(cl.pts, a.seq)
+	if rot, e, ok := findEdge(cl.pts, seq, a.raw); ok {
+		seq, rep.Edge = rot, &e
+	}
+	return cl.contour(seq), rep, nil
 }
 
 // cleaning is one Clean under way: the cloud, the distinct points left

@@ -271,19 +271,19 @@ func quadratic(ss []float64, ps []geometry.Point, span, u float64) (c, d geometr
 // median absolute value (the MAD of a residual centred on the curve; 1.4826
 // makes it σ for Gaussian noise, common practice), floored at scaleFloor × the median spacing
 // of seq.
-func robustScale(pts []geometry.Point, seq []int32, r []float64) float64 {
+func robustScale(pts []geometry.Point, seq []int32, r []float64) (floored, raw float64) {
 	abs := slices.Clone(r)
 	s := 1.4826 * median(abs)
 	gaps := make([]float64, len(seq))
 	for k := range seq {
 		gaps[k] = fastDist(pts[seq[k]], pts[seq[(k+1)%len(seq)]])
 	}
-	return max(s, scaleFloor*median(gaps))
+	return max(s, scaleFloor*median(gaps)), s
 }
 
 // dropOutliers finds the gross outliers of the loop seq. Residuals come from
 // residuals and the scale from robustScale, both from the first
-// round. In each round the points beyond sigma·scale that have the largest
+// round (the scale floored, and raw). In each round the points beyond sigma·scale that have the largest
 // residual within fitK positions are taken out (a point next to an
 // outlier has a large residual too, through the outlier in its fit), and the
 // residuals are computed again with the outliers' neighbours joined. The
@@ -295,12 +295,12 @@ func robustScale(pts []geometry.Point, seq []int32, r []float64) float64 {
 // bound is then not used. (The local maxima are still taken over fitK
 // positions: in a wide band fit one outlier moves its neighbours' fits
 // little.)
-func dropOutliers(pts []geometry.Point, seq []int32, sigma float64, keep bool, band int) ([]int32, float64, []hit) {
+func dropOutliers(pts []geometry.Point, seq []int32, sigma float64, keep bool, band int) ([]int32, float64, float64, []hit) {
 	if len(seq) < minPoints {
-		return seq, 0, nil
+		return seq, 0, 0, nil
 	}
 	r := residuals(pts, seq, band)
-	scale := robustScale(pts, seq, r)
+	scale, raw := robustScale(pts, seq, r)
 	thr := sigma * scale
 	work := seq
 	var hits []hit
@@ -368,9 +368,9 @@ func dropOutliers(pts []geometry.Point, seq []int32, sigma float64, keep bool, b
 		residualsAt(pts, work, band, at, r)
 	}
 	if keep {
-		return seq, scale, hits
+		return seq, scale, raw, hits
 	}
-	return work, scale, hits
+	return work, scale, raw, hits
 }
 
 // placeRest deals with the points of rest, which joined no loop. A point

@@ -43,6 +43,50 @@ type FitOptions struct {
 	Tolerance float64
 	// Ends is FitEndsAuto (default), FitEndsClosed or FitEndsOpen.
 	Ends string
+	// Edge, when set, is the trailing edge as the caller found it on the
+	// points (the cleaning step does): Fit takes the curve's ends from it
+	// and does not look for corners itself; Ends is then ignored.
+	Edge *Edge
+}
+
+// Edge is the trailing edge of a contour as the caller found it
+// (FitOptions.Edge). The contour starts at the end of the upper surface.
+type Edge struct {
+	// Closed asks for a periodic fit (a rounded edge, its tip at contour
+	// point 0).
+	Closed bool
+	// Base is the number of points at the end of the contour that lie on
+	// a blunt base: the fit leaves them out and measures them from the
+	// straight base between the curve's ends (FitReport.Base).
+	Base int
+	// Upper and Lower are where an open curve starts and ends: the ends of
+	// the upper and the lower surface, equal for a sharp edge. They are
+	// added to the fit as end points (pinned by endWeight) unless they
+	// coincide with contour point 0 and the last point before the base, so
+	// a corner no point sampled is part of the curve.
+	Upper, Lower geometry.Point
+}
+
+// endsOf returns the fit order of a contour of n points with the edge e.
+func endsOf(e *Edge, n int) trailingEnds {
+	if e.Closed || e.Base < 0 || e.Base > n-splineMinKnots {
+		o := make([]int, n)
+		for i := range o {
+			o[i] = i
+		}
+		return trailingEnds{order: o}
+	}
+	m := n - e.Base
+	o := make([]int, m)
+	for i := range o {
+		o[i] = i
+	}
+	var base []int
+	for i := m; i < n; i++ {
+		base = append(base, i)
+	}
+	up, lo := e.Upper, e.Lower
+	return trailingEnds{open: true, order: o, base: base, upper: &up, lower: &lo}
 }
 
 // SetNoise sets the smoothing from a user value: "auto" (or "") for
@@ -101,6 +145,9 @@ type trailingEnds struct {
 	open  bool
 	order []int // contour indices in fit order; for a sharp edge the first is repeated at the end
 	base  []int // contour indices on a blunt base
+	// upper and lower, when set, are end points added before and after
+	// the order (FitOptions.Edge).
+	upper, lower *geometry.Point
 }
 
 // sharpDeg are the turning angles (degrees) that make a corner: one
@@ -407,7 +454,12 @@ func Fit(c *geometry.Contour, opts FitOptions) (*Curve, *FitReport, error) {
 	if !opts.Exact {
 		scatter = localScatter(c.Points)
 	}
-	ends := detectEnds(c.Points, opts.Ends, scatter)
+	var ends trailingEnds
+	if opts.Edge != nil {
+		ends = endsOf(opts.Edge, c.Len())
+	} else {
+		ends = detectEnds(c.Points, opts.Ends, scatter)
+	}
 	rep0Scatter := scatter
 
 	pts, knot, err := fitOrder(c, ends, perim)
@@ -532,6 +584,9 @@ func fitOrder(c *geometry.Contour, ends trailingEnds, perim float64) ([]geometry
 		knot[i] = -1
 	}
 	var pts []geometry.Point
+	if ends.upper != nil {
+		pts = append(pts, *ends.upper)
+	}
 	for _, ci := range ends.order {
 		p := c.Points[ci]
 		if len(pts) > 0 && p.Dist(pts[len(pts)-1]) <= 1e-12*perim {
@@ -544,6 +599,9 @@ func fitOrder(c *geometry.Contour, ends trailingEnds, perim float64) ([]geometry
 			knot[ci] = len(pts)
 		}
 		pts = append(pts, p)
+	}
+	if ends.lower != nil && (len(pts) == 0 || ends.lower.Dist(pts[len(pts)-1]) > 1e-12*perim) {
+		pts = append(pts, *ends.lower)
 	}
 	if !ends.open && len(pts) > 1 && pts[len(pts)-1].Dist(pts[0]) <= 1e-12*perim {
 		pts = pts[:len(pts)-1]
