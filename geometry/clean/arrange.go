@@ -80,7 +80,7 @@ func (cl *cleaning) arrange(opts Options, sigma float64) (*attempt, error) {
 	loops, rest := cl.linkLoops()
 	walls := substantial(cl.pts, loops, cl.diag)
 	if walls > 1 || opts.Loop > 0 {
-		a := cl.evaluate(OrderLinked, loops, rest, opts, sigma, 0)
+		a := cl.evaluate(OrderLinked, loops, rest, opts, sigma, localFits{})
 		if pass(a) || a.err != nil {
 			if a.err != nil {
 				return nil, a.err
@@ -93,7 +93,7 @@ func (cl *cleaning) arrange(opts Options, sigma float64) (*attempt, error) {
 			return finish(a)
 		}
 		if walls == 1 {
-			if a := cl.evaluate(OrderLinked, loops, rest, opts, sigma, 0); pass(a) {
+			if a := cl.evaluate(OrderLinked, loops, rest, opts, sigma, localFits{}); pass(a) {
 				return finish(a)
 			}
 		}
@@ -140,7 +140,7 @@ func (cl *cleaning) fromFile(opts Options, sigma float64) *attempt {
 	}
 	join(pts, cl.nb, g)
 	loops, rest := g.components(minPoints)
-	a := cl.evaluate(OrderFile, loops, rest, opts, sigma, 0)
+	a := cl.evaluate(OrderFile, loops, rest, opts, sigma, localFits{})
 	if a.fail == "" && a.err == nil {
 		cl.rep.OrderKept = true
 	}
@@ -159,7 +159,7 @@ func (cl *cleaning) linkLoops() (loops, rest [][]int32) {
 func (cl *cleaning) byBandLoops(opts Options, sigma float64) *attempt {
 	loops, rest, per := byBand(cl.pts, cl.nb, cl.lo, cl.hi)
 	band := min(max(fitK, 2*per), maxBandFit)
-	a := cl.evaluate(OrderBand, loops, rest, opts, sigma, band)
+	a := cl.evaluate(OrderBand, loops, rest, opts, sigma, localFits{band: band})
 	if a.fail == "" && a.err == nil {
 		cl.rep.Band = true
 	}
@@ -178,7 +178,7 @@ func (cl *cleaning) bySection(opts Options, sigma float64) *attempt {
 		if !ok {
 			return &attempt{strategy: OrderSection, fail: "no thin end: the points do not look like a section"}
 		}
-		seq := sectionOrder(pts, sel, f)
+		seq, sc := sectionOrder(pts, sel, f)
 		// Isolated points wait outside the loop, to be put back, dropped
 		// as outliers or as strays by where they lie from it.
 		var rest [][]int32
@@ -195,7 +195,14 @@ func (cl *cleaning) bySection(opts Options, sigma float64) *attempt {
 			}
 			rest = [][]int32{left}
 		}
-		a = cl.evaluate(OrderSection, [][]int32{seq}, rest, opts, sigma, sectionFitK(len(pts)))
+		a = cl.evaluate(OrderSection, [][]int32{seq}, rest, opts, sigma, localFits{sc: sc, chord: f.chord})
+		if edgeTrace != nil {
+			edgeTrace("pass %d frame le %v te %v chord %g hits %d", pass, f.le, f.te, f.chord, len(a.hits))
+			for _, h := range a.hits {
+				x, y := f.at(pts[h.idx])
+				edgeTrace("  hit %.4f %.4f %s %.3g region %d", x, y, h.reason, h.dist, sc.region[h.idx])
+			}
+		}
 		if a.err != nil || pass == 1 {
 			break
 		}
@@ -216,14 +223,6 @@ func (cl *cleaning) bySection(opts Options, sigma float64) *attempt {
 		}
 	}
 	return a
-}
-
-// sectionFitK is the half-width, in points, of the local fits that test
-// a section-ordered loop for outliers: such a loop is ordered along the
-// chord, so neighbours may lie across a noisy band from each other, and the
-// fits (bandFit) take a few more of them the denser the points.
-func sectionFitK(n int) int {
-	return min(max(fitK, n/400), 12)
 }
 
 // dense returns the points whose fourth nearest neighbour is no farther
@@ -255,7 +254,7 @@ func dense(pts []geometry.Point, nb *nbrs) []int32 {
 // evaluate picks loop opts.Loop of loops (the rest are left over), drops
 // its outliers and places the points left over, and applies the gates:
 // the loop must keep at least minCoverage of the points.
-func (cl *cleaning) evaluate(strategy string, loops, rest [][]int32, opts Options, sigma float64, band int) *attempt {
+func (cl *cleaning) evaluate(strategy string, loops, rest [][]int32, opts Options, sigma float64, lf localFits) *attempt {
 	a := &attempt{strategy: strategy}
 	pts := cl.pts
 	most := 0
@@ -286,7 +285,15 @@ func (cl *cleaning) evaluate(strategy string, loops, rest [][]int32, opts Option
 		walls += len(l)
 	}
 	walls -= len(seq)
-	seq, scale, raw, outs := dropOutliers(pts, seq, sigma, opts.KeepOutliers, band)
+	// The trailing edge's end zone is left to the edge's model.
+	var exempt []bool
+	if ef, ok := findEdge(pts, orient(pts, seq), 0); ok {
+		exempt = make([]bool, len(pts))
+		for _, i := range ef.zone {
+			exempt[i] = true
+		}
+	}
+	seq, scale, raw, outs := dropOutliers(pts, seq, sigma, opts.KeepOutliers, lf, exempt)
 	seq, extra := placeRest(pts, seq, rest, cl.nb, sigma*scale, scale, opts.KeepOutliers)
 	a.seq, a.scale, a.raw, a.hits = seq, scale, raw, append(outs, extra...)
 	kept := len(a.seq)

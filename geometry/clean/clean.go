@@ -209,8 +209,39 @@ func Clean(c *geometry.Cloud, opts Options) (*geometry.Contour, *Report, error) 
 	// 5. Orient: start at the trailing edge found on the points; failing
 	// that, at the provisional one.
 	seq := orient(cl.pts, a.seq)
-	if rot, e, ok := findEdge(cl.pts, seq, a.raw); ok {
-		seq, rep.Edge = rot, &e
+	// With KeepOutliers the edge is analysed without the outliers kept,
+	// which go back in beside their neighbours afterwards.
+	kept := make(map[int32]bool)
+	for _, h := range a.hits {
+		if h.kept {
+			kept[h.idx] = true
+		}
+	}
+	work := slices.DeleteFunc(slices.Clone(seq), func(i int32) bool { return kept[i] })
+	if len(work) >= minPoints {
+		if ef, ok := findEdge(cl.pts, work, a.raw); ok {
+			if len(ef.outliers) > 0 {
+				// Outliers of the end model: drop them and look again.
+				cl.record(ef.outliers, opts.KeepOutliers)
+				out := make(map[int32]bool, len(ef.outliers))
+				for _, h := range ef.outliers {
+					out[h.idx] = true
+					if opts.KeepOutliers {
+						kept[h.idx] = true
+					}
+				}
+				work = slices.DeleteFunc(work, func(i int32) bool { return out[i] })
+				if len(work) < minPoints {
+					return nil, rep, fmt.Errorf("geometry: clean: %w: %d point(s) left in the loop, need at least %d", geometry.ErrTooFewPoints, len(work), minPoints)
+				}
+				ef, ok = findEdge(cl.pts, orient(cl.pts, work), a.raw)
+			}
+			if ok {
+				e := ef.edge
+				seq = reinsert(ef.seq, seq, kept, &e)
+				rep.Edge = &e
+			}
+		}
 	}
 	return cl.contour(seq), rep, nil
 }
@@ -297,14 +328,21 @@ func (cl *cleaning) pick(loops [][]int32, k int) ([]int32, []LoopInfo, error) {
 // commit records the accepted attempt in the report: its loops and the
 // points it dropped, in file order.
 func (cl *cleaning) commit(a *attempt) {
-	pts, src, rep := cl.pts, cl.src, cl.rep
+	pts, rep := cl.pts, cl.rep
 	rep.Loops = a.loops
 	rep.Sigma = a.scale
 	rep.Band = rep.Band || bandLike(pts, a.seq, a.scale)
-	for _, o := range a.hits {
+	cl.record(a.hits, false)
+}
+
+// record adds the points hits to the report's dropped points (kept, if
+// keep), in file order.
+func (cl *cleaning) record(hits []hit, keep bool) {
+	pts, src, rep := cl.pts, cl.src, cl.rep
+	for _, o := range hits {
 		rep.Dropped = append(rep.Dropped, Drop{
 			Origin: cl.c.Origins[src[o.idx]], Point: pts[o.idx], Reason: o.reason,
-			Distance: o.dist, Sigmas: o.sigmas, Kept: o.kept,
+			Distance: o.dist, Sigmas: o.sigmas, Kept: o.kept || keep,
 		})
 	}
 	slices.SortFunc(rep.Dropped, func(a, b Drop) int { return originCmp(a.Origin, b.Origin) })
@@ -316,6 +354,46 @@ func (cl *cleaning) contour(seq []int32) *geometry.Contour {
 	for k, i := range seq {
 		out.Points[k] = cl.pts[i]
 		out.Origins[k] = cl.c.Origins[cl.src[i]]
+	}
+	return out
+}
+
+// reinsert puts the points kept back into the loop work (which starts at
+// the trailing edge), each right after the point that precedes it in the
+// loop full; a kept point among the base points at the end of work counts
+// as one of them.
+func reinsert(work, full []int32, kept map[int32]bool, e *Edge) []int32 {
+	if len(kept) == 0 {
+		return work
+	}
+	after := make(map[int32][]int32) // a point of work → the kept points that follow it in full
+	n := len(full)
+	start := 0
+	for start < n && kept[full[start]] {
+		start++
+	}
+	if start == n {
+		return work
+	}
+	prev := full[start]
+	for k := 1; k <= n; k++ {
+		i := full[(start+k)%n]
+		if kept[i] {
+			after[prev] = append(after[prev], i)
+			continue
+		}
+		prev = i
+	}
+	out := make([]int32, 0, len(work)+len(kept))
+	baseFrom := len(work) - e.Base
+	for k, i := range work {
+		out = append(out, i)
+		if ins := after[i]; len(ins) > 0 {
+			out = append(out, ins...)
+			if k >= baseFrom-1 && k < len(work)-1 && e.Base > 0 {
+				e.Base += len(ins)
+			}
+		}
 	}
 	return out
 }

@@ -67,6 +67,9 @@ const (
 type endModel struct {
 	kind  string
 	score float64
+	// extra is what the model pays besides its points' misfits: for the
+	// numbers it fits and the stretches it leaves unsampled.
+	extra float64
 	// xu, xl: the surfaces count up to these x (beyond them, the distance
 	// to their last point).
 	xu, xl float64
@@ -150,13 +153,23 @@ func (m *endModel) side(u, l quadFit, p geometry.Point, scat float64) int {
 // scoreOf sets m.score: the misfits of the zone points in scatters,
 // squared and capped at edgeCap (common practice for a robust loss).
 func (m *endModel) scoreOf(u, l quadFit, z []geometry.Point, scat float64) {
+	m.score = m.misfit(u, l, z, scat, edgeCap, nil) + m.extra
+}
+
+// misfit returns the sum of the squared misfits of the points z in
+// scatters, each capped at limit scatters, leaving out the points marked
+// in skip (nil: none).
+func (m *endModel) misfit(u, l quadFit, z []geometry.Point, scat, limit float64, skip []bool) float64 {
 	var s float64
-	for _, p := range z {
+	for j, p := range z {
+		if skip != nil && skip[j] {
+			continue
+		}
 		d, _ := m.miss(u, l, p)
-		r := min(d/scat, edgeCap)
+		r := min(d/scat, limit)
 		s += r * r
 	}
-	m.score = s
+	return s
 }
 
 // roundEnd returns the rounded end of radius r tangent to the surfaces u
@@ -253,6 +266,22 @@ func roundEndAt(u, l quadFit, x0, r float64) (endModel, bool) {
 	return endModel{kind: EdgeRounded, xu: tu.X, xl: tl.X, centre: c, r: r, tu: tu, tl: tl}, true
 }
 
+// edgeFound is what findEdge found: the loop re-ordered to start at the
+// end of the upper surface, the edge, the points of the end zone, and
+// those of them that miss the winning end model by more than edgeOutlier
+// scatters (and a tenth of the local step): gross outliers, which the
+// generic test leaves to the edge's model there.
+type edgeFound struct {
+	seq      []int32
+	edge     Edge
+	zone     []int32
+	outliers []hit
+}
+
+// edgeOutlier is the misfit, in scatters, beyond which a point of the end
+// zone is an outlier of the end model.
+const edgeOutlier = 6
+
 // findEdge analyses the trailing edge of the loop seq (counter-clockwise,
 // outliers removed) whose points scatter by sigma about local fits. It
 // returns the loop rotated to start at the end of the upper surface, with
@@ -286,14 +315,14 @@ func roundEndAt(u, l quadFit, x0, r float64) (endModel, bool) {
 // wins, sharp before blunt before rounded. The points of the zone are
 // then split into the lower surface, the joining piece and the upper
 // surface in loop order, as the winning model assigns them.
-func findEdge(pts []geometry.Point, seq []int32, sigma float64) ([]int32, Edge, bool) {
+func findEdge(pts []geometry.Point, seq []int32, sigma float64) (edgeFound, bool) {
 	n := len(seq)
 	if n < 2*edgeMinFit+2 {
-		return seq, Edge{}, false
+		return edgeFound{seq: seq}, false
 	}
 	f, ok := sectionFrame(pts, seq)
 	if !ok {
-		return seq, Edge{}, false
+		return edgeFound{seq: seq}, false
 	}
 	xs, ys := make([]float64, n), make([]float64, n)
 	for k, i := range seq {
@@ -330,7 +359,7 @@ func findEdge(pts []geometry.Point, seq []int32, sigma float64) ([]int32, Edge, 
 	uf, uidx := core(1)
 	lf, lidx := core(-1)
 	if len(uidx) < edgeMinFit || len(lidx) < edgeMinFit {
-		return seq, Edge{}, false
+		return edgeFound{seq: seq}, false
 	}
 	// The zone: the positions between the cores, from the lower side
 	// through the edge to the upper side.
@@ -350,21 +379,23 @@ func findEdge(pts []geometry.Point, seq []int32, sigma float64) ([]int32, Edge, 
 	// points the first verdict gave it, which shortens the reach of the
 	// fits into the zone to the last of them.
 	var best endModel
+	var out []bool
 	var u, l quadFit
 	var scat float64
+	coreU, coreL := slices.Clone(uidx), slices.Clone(lidx)
 	for round := range 2 {
 		var us, ls float64
 		u, us = fitScatter(xs, ys, uidx)
 		l, ls = fitScatter(xs, ys, lidx)
 		if !u.ok || !l.ok {
-			return seq, Edge{}, false
+			return edgeFound{seq: seq}, false
 		}
 		scat = max(sigma/f.chord, us, ls, 1e-9)
-		m, ok := chooseEnd(u, l, z, xmax, step, scat)
+		m, o, ok := chooseEnd(u, l, z, xmax, step, scat)
 		if !ok {
-			return seq, Edge{}, false
+			return edgeFound{seq: seq}, false
 		}
-		best = m
+		best, out = m, o
 		if round == 1 {
 			break
 		}
@@ -387,12 +418,34 @@ func findEdge(pts []geometry.Point, seq []int32, sigma float64) ([]int32, Edge, 
 			}
 		}
 	}
-	return best.apply(pts, seq, f, u, l, zpos, z, scat, step)
+	// The surfaces fitted once more over their whole side of the zone as
+	// well, robustly: near a sharp corner or a small base on exact or
+	// nearly exact data the fits carried into the zone from outside miss by
+	// more than the scatter, while fits that take the zone in do not (and
+	// near a large rounded end they bend and lose). The better scored
+	// verdict of the two wins.
+	for j, k := range zpos {
+		switch {
+		case k == k0:
+		case j < slices.Index(zpos, k0):
+			coreL = append(coreL, k)
+		default:
+			coreU = append(coreU, k)
+		}
+	}
+	if u2, _ := fitScatter(xs, ys, coreU); u2.ok {
+		if l2, _ := fitScatter(xs, ys, coreL); l2.ok {
+			if m, o, ok := chooseEnd(u2, l2, z, xmax, step, scat); ok && m.score < best.score {
+				best, out, u, l = m, o, u2, l2
+			}
+		}
+	}
+	return best.apply(pts, seq, f, u, l, zpos, z, out, scat, step)
 }
 
 // chooseEnd fits the three end models to the zone points z and returns the
 // winner (see findEdge).
-func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, scat float64) (endModel, bool) {
+func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, scat float64) (endModel, []bool, bool) {
 	pen := 2 * math.Log(float64(len(z))+2)
 	var models []endModel
 	// Sharp.
@@ -415,15 +468,15 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, scat float64) (endM
 		lastU, lastL := lastOn(z, u, l, xc)
 		if c.Dist(lastU)+c.Dist(lastL) <= edgeReach*step+lastU.Dist(lastL)+2*scat || sepEnd <= 2*scat {
 			m := endModel{kind: EdgeSharp, xu: xc, xl: xc, corner: c}
-			m.scoreOf(u, l, z, scat)
 			if !sampled(z, c, 2*scat) {
 				// A corner no point sampled: the stretch round it is an
 				// unsampled gap, and the surfaces' last points end at the
 				// same chord station only by chance (as the stations of a
 				// drawing end at a blunt base, never short of a corner).
 				a, b := c.Dist(lastU), c.Dist(lastL)
-				m.score += gapDeviance(a+b, step) + coincidence(math.Abs(lastU.X-lastL.X)+scat, step)
+				m.extra = gapDeviance(a+b, step) + coincidence(math.Abs(lastU.X-lastL.X)+scat, step)
 			}
+			m.scoreOf(u, l, z, scat)
 			models = append(models, m)
 		}
 	} else if sepEnd <= 2*scat {
@@ -440,15 +493,14 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, scat float64) (endM
 		if hi.Y <= lo.Y {
 			continue
 		}
-		m := endModel{kind: EdgeBlunt, xu: xb, xl: xb, lo: lo, hi: hi}
-		m.scoreOf(u, l, z, scat)
-		m.score += pen
+		m := endModel{kind: EdgeBlunt, xu: xb, xl: xb, lo: lo, hi: hi, extra: pen}
 		if !sampled(z, geometry.Point{X: xb, Y: (lo.Y + hi.Y) / 2}, (hi.Y-lo.Y)/2+2*scat) {
 			// No point on the base: its path from the last points of the
 			// surfaces across is an unsampled gap.
 			lastU, lastL := lastOn(z, u, l, xb)
-			m.score += gapDeviance(lastU.Dist(hi)+hi.Dist(lo)+lo.Dist(lastL), step)
+			m.extra += gapDeviance(lastU.Dist(hi)+hi.Dist(lo)+lo.Dist(lastL), step)
 		}
+		m.scoreOf(u, l, z, scat)
 		if bestB == nil || m.score < bestB.score {
 			bestB = &m
 		}
@@ -465,8 +517,8 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, scat float64) (endM
 			if !ok {
 				continue
 			}
+			m.extra = pen
 			m.scoreOf(u, l, z, scat)
-			m.score += pen
 			if bestR == nil || m.score < bestR.score {
 				bestR = &m
 			}
@@ -476,7 +528,24 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, scat float64) (endM
 		models = append(models, *bestR)
 	}
 	if len(models) == 0 {
-		return endModel{}, false
+		return endModel{}, nil, false
+	}
+	// Points that every model misses by more than edgeOutlier scatters
+	// (and a tenth of the step) are outliers; the models are scored again
+	// without them, their misfits now capped only there, so that a model
+	// that misses a good point by many scatters pays for it.
+	out := make([]bool, len(z))
+	for j, p := range z {
+		out[j] = true
+		for k := range models {
+			if d, _ := models[k].miss(u, l, p); d <= edgeOutlier*scat || d <= 0.1*step {
+				out[j] = false
+				break
+			}
+		}
+	}
+	for k := range models {
+		models[k].score = models[k].misfit(u, l, z, scat, edgeOutlier, out) + models[k].extra
 	}
 	best := models[0]
 	for _, m := range models[1:] {
@@ -490,7 +559,7 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, scat float64) (endM
 		}
 		edgeTrace("zone %d points, xmax %.5f step %.4g scat %.3g pen %.1f", len(z), xmax, step, scat, pen)
 	}
-	return best, true
+	return best, out, true
 }
 
 // edgeTrace, when set (by a debugging test), receives the scores.
@@ -570,7 +639,7 @@ func lastOn(z []geometry.Point, u, l quadFit, x float64) (lu, ll geometry.Point)
 // those of the upper surface away from the edge; near a thin, noisy edge
 // the points of the two surfaces mingle in any order made without the
 // model, and the loop would zigzag between them.
-func (m endModel) apply(pts []geometry.Point, seq []int32, f chordFrame, u, l quadFit, zpos []int, z []geometry.Point, scat, step float64) ([]int32, Edge, bool) {
+func (m endModel) apply(pts []geometry.Point, seq []int32, f chordFrame, u, l quadFit, zpos []int, z []geometry.Point, outl []bool, scat, step float64) (edgeFound, bool) {
 	n, nz := len(seq), len(z)
 	type placed struct {
 		key float64
@@ -642,11 +711,11 @@ func (m endModel) apply(pts []geometry.Point, seq []int32, f chordFrame, u, l qu
 			at := slices.Index(out, seq[zpos[near]])
 			e.Upper = pts[out[at]]
 			e.Lower = e.Upper
-			return rotateTo(out, at), e, true
+			return m.found(rotateTo(out, at), e, pts, seq, u, l, zpos, z, outl, scat, f), true
 		}
 		p := f.point(m.corner.X, m.corner.Y)
 		e.Upper, e.Lower, e.Reconstructed = p, p, true
-		return out, e, true
+		return m.found(out, e, pts, seq, u, l, zpos, z, outl, scat, f), true
 	case EdgeBlunt:
 		e.Upper, e.Lower, e.Reconstructed = f.point(m.hi.X, m.hi.Y), f.point(m.lo.X, m.lo.Y), true
 		e.Thickness = m.hi.Dist(m.lo) * f.chord
@@ -656,7 +725,7 @@ func (m endModel) apply(pts []geometry.Point, seq []int32, f chordFrame, u, l qu
 		} else {
 			e.Why = fmt.Sprintf("%d point(s) lie on a straight base %.3g chord across the end", e.Base, m.hi.Dist(m.lo))
 		}
-		return out, e, true
+		return m.found(out, e, pts, seq, u, l, zpos, z, outl, scat, f), true
 	default:
 		e.Thickness = m.tu.Dist(m.tl) * f.chord
 		e.Why = fmt.Sprintf("%d point(s) lie on an arc of radius %.3g chord round the end", len(end), m.r)
@@ -676,8 +745,22 @@ func (m endModel) apply(pts []geometry.Point, seq []int32, f chordFrame, u, l qu
 				}
 			}
 		}
-		return rotateTo(out, slices.Index(out, seq[zpos[k]])), e, true
+		return m.found(rotateTo(out, slices.Index(out, seq[zpos[k]])), e, pts, seq, u, l, zpos, z, outl, scat, f), true
 	}
+}
+
+// found completes the result of apply: the zone's points and its
+// outliers (out, see chooseEnd).
+func (m endModel) found(loop []int32, e Edge, pts []geometry.Point, seq []int32, u, l quadFit, zpos []int, z []geometry.Point, out []bool, scat float64, f chordFrame) edgeFound {
+	r := edgeFound{seq: loop, edge: e}
+	for j, k := range zpos {
+		r.zone = append(r.zone, seq[k])
+		if out[j] {
+			d, _ := m.miss(u, l, z[j])
+			r.outliers = append(r.outliers, hit{idx: seq[k], reason: "outlier", dist: d * f.chord, sigmas: d / scat})
+		}
+	}
+	return r
 }
 
 // rotateTo returns seq rotated to start at position k.

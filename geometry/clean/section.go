@@ -145,7 +145,8 @@ func (c camberLine) at(x float64) float64 {
 // surfaces; their middle is the middle of the largest gap between
 // consecutive values of y inside the 10–90 % quantiles (the space between
 // the surfaces; trimming keeps a far outlier from making the largest gap
-// outside the body). The middles are then smoothed by a robust running
+// outside the body), and a bin counts only when that gap is wider than the
+// spread of the values on either side of it. The middles are then smoothed by a robust running
 // line (Tukey's biweight, three rounds, common practice), which sets aside
 // bins that a missing stretch left one-sided.
 func camber(xs, ys []float64) camberLine {
@@ -167,13 +168,16 @@ func camber(xs, ys []float64) camberLine {
 		slices.Sort(b)
 		t := len(b) / 10
 		lo, hi := t, len(b)-1-t
-		gap, mid := -1.0, 0.0
+		gap, mid, at := -1.0, 0.0, 0
 		for j := lo; j < hi; j++ {
 			if g := b[j+1] - b[j]; g > gap {
-				gap, mid = g, (b[j+1]+b[j])/2
+				gap, mid, at = g, (b[j+1]+b[j])/2, j
 			}
 		}
-		if gap < 0 {
+		// Both surfaces must be there: the gap between them wider than the
+		// spread of either (a missing stretch leaves one surface alone, and
+		// the largest gap in it is a gap along it).
+		if gap < 0 || gap <= b[at]-b[lo] || gap <= b[hi]-b[at+1] {
 			continue
 		}
 		bx = append(bx, (float64(k)+0.5)/float64(nb))
@@ -450,7 +454,7 @@ func robustQuad(xs, ys []float64, idx []int, x0 float64) quadFit {
 // along the chord than their scatter may swap, which a fit does not see.
 // The loop starts in the tail cap, at the first point past the tail's
 // direction, and runs counter-clockwise.
-func sectionOrder(pts []geometry.Point, sel []int32, f chordFrame) []int32 {
+func sectionOrder(pts []geometry.Point, sel []int32, f chordFrame) ([]int32, *sectionCoords) {
 	n := len(sel)
 	xs, ys := make([]float64, n), make([]float64, n)
 	for k, i := range sel {
@@ -470,17 +474,23 @@ func sectionOrder(pts []geometry.Point, sel []int32, f chordFrame) []int32 {
 	}
 	us := make([]float64, n)
 	span := xt - xn
+	sc := newSectionCoords(len(pts))
 	for k := range n {
 		x, y := xs[k], ys[k]
+		i := sel[k]
 		switch {
 		case x < xn:
 			us[k] = 1 + math.Atan2(xn-x, y-yn)/math.Pi
+			sc.set(i, regionNose, us[k], math.Hypot(x-xn, y-yn))
 		case x > xt:
 			us[k] = 3 + math.Atan2(x-xt, -(y-yt))/math.Pi
+			sc.set(i, regionTail, us[k], math.Hypot(x-xt, y-yt))
 		case upper[k]:
 			us[k] = (xt - x) / span
+			sc.set(i, regionUpper, x, y)
 		default:
 			us[k] = 2 + (x-xn)/span
+			sc.set(i, regionLower, x, y)
 		}
 	}
 	// Start at the tail: places from 3.5 (straight behind the tail cap's
@@ -507,7 +517,7 @@ func sectionOrder(pts []geometry.Point, sel []int32, f chordFrame) []int32 {
 	for k, o := range order {
 		out[k] = sel[o]
 	}
-	return out
+	return out, sc
 }
 
 // tailMiddle returns the middle between parabolas fitted to the upper and
