@@ -354,13 +354,17 @@ func dropOutliers(pts []geometry.Point, seq []int32, sigma float64, keep bool, l
 	lf.residualsAt(pts, seq, nil, r)
 	scale, raw := robustScale(pts, seq, r)
 	loc := localScales(pts, seq, r)
+	// The sagitta bound needs neighbours in their true order: point to
+	// point fits on a thin line, or a section order of points that do not
+	// form a band.
+	useSagitta := band == 0 && (lf.sc == nil || !bandLike(pts, seq, scale))
 	work := seq
 	var hits []hit
 	for range dropRounds {
 		n := len(work)
 		var out []bool
 		for i := range n {
-			if r[i] <= sigma*max(scale, loc[work[i]]) || band == 0 && lf.sc == nil && r[i] <= sagitta(pts, work, i) || exempt != nil && exempt[work[i]] {
+			if r[i] <= sigma*max(scale, loc[work[i]]) || useSagitta && r[i] <= sagitta(pts, work, i) || exempt != nil && exempt[work[i]] {
 				continue
 			}
 			top := true
