@@ -195,12 +195,11 @@ func flowOf(c *stage.Case, method string, body []geometry.Point) plot.FlowField 
 	return plot.FlowField{AlphaDeg: c.AlphaDeg, Method: method, Nx: f.NX, Ny: f.NY, X0: f.X0, Y0: f.Y0, DX: f.DX, DY: f.DY, Psi: psi, Body: body}
 }
 
-// PicturePath returns the file a picture of the plots stage goes to when it
-// draws the result of one stage, seen under id, beside the main picture at
-// path: the Cp chart (artifact cp-ID.FORMAT) at path itself, the others
-// beside it (path-polar, path-section, path-streamlines).
-func PicturePath(path, artifact, format, id string) string {
+// PictureKind returns the kind of a picture of the plots stage from its
+// artifact name, when it draws the result of one stage seen under id:
+// "cp", "polar", "section" or "streamlines" for cp-ID.FORMAT, polar.FORMAT,
+// section.FORMAT and streamlines-ID.FORMAT.
+func PictureKind(artifact, format, id string) string {
 	stem := strings.TrimSuffix(artifact, "."+format)
-	stem = strings.TrimSuffix(stem, "-"+id)
-	return plot.Beside(path, "cp", stem)
+	return strings.TrimSuffix(stem, "-"+id)
 }
