@@ -2,8 +2,10 @@
 
 package dense
 
-// useBackend is false without the openblas build tag: Factorize runs the
-// pure-Go factorisation.
+// Without the openblas build tag (or without cgo) there is no OpenBLAS
+// path: Factorize runs the pure-Go factorisation.
+const haveBackend = false
+
 var useBackend = false
 
 func backendFactor(n int, a []float64, ipiv []int) bool {

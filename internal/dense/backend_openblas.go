@@ -4,8 +4,10 @@ package dense
 
 import "github.com/foilwright/foilwright/internal/dense/openblas"
 
-// useBackend makes Factorize call OpenBLAS (build tag openblas); the tests
-// turn it off to compare with the pure-Go factorisation.
+// With the openblas build tag, Factorize calls OpenBLAS (useBackend); Use
+// switches to the pure-Go paths for comparison.
+const haveBackend = true
+
 var useBackend = true
 
 // backendFactor factors the row-major n×n a with OpenBLAS's dgetrf, which

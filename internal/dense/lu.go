@@ -3,6 +3,7 @@ package dense
 import (
 	"fmt"
 	"math"
+	"slices"
 )
 
 // ConditionTolerance is the condition number above which Solve reports the
@@ -48,7 +49,7 @@ type LU struct {
 // The pure-Go factorisation runs on up to GOMAXPROCS goroutines when the
 // matrix is large enough for it to pay; its factors do not depend on how
 // many run. Built with the tag openblas, Factorize calls OpenBLAS instead
-// (see Backend).
+// (see Paths).
 func (lu *LU) Factorize(n int, a []float64) {
 	if n < 1 || len(a) < n*n {
 		panic(fmt.Sprintf("dense: Factorize of a %d×%d matrix from %d entries", n, n, len(a)))
@@ -74,16 +75,61 @@ func (lu *LU) Factorize(n int, a []float64) {
 	}
 }
 
-// Backend names the factorisation Factorize runs: "OpenBLAS" (build tag
-// openblas), "Go, AVX2 kernels" (amd64 with AVX2 and FMA) or "Go".
-func Backend() string {
+// A Path is a way Factorize can run.
+type Path int
+
+const (
+	GoPath       Path = iota // pure Go, Go micro-kernel
+	AVX2Path                 // pure Go, assembly micro-kernels (amd64 with AVX2 and FMA)
+	OpenBLASPath             // OpenBLAS dgetrf (build tag openblas)
+)
+
+func (p Path) String() string {
+	switch p {
+	case GoPath:
+		return "Go"
+	case AVX2Path:
+		return "Go with AVX2 kernels"
+	case OpenBLASPath:
+		return "OpenBLAS"
+	}
+	return fmt.Sprintf("Path(%d)", int(p))
+}
+
+// Paths returns the paths this build offers on this CPU; the last is the
+// one Factorize takes.
+func Paths() []Path {
+	p := []Path{GoPath}
+	if haveAVX2 {
+		p = append(p, AVX2Path)
+	}
+	if haveBackend {
+		p = append(p, OpenBLASPath)
+	}
+	return p
+}
+
+// Current returns the path Factorize takes.
+func Current() Path {
 	switch {
 	case useBackend:
-		return "OpenBLAS"
+		return OpenBLASPath
 	case useAsm:
-		return "Go, AVX2 kernels"
+		return AVX2Path
 	}
-	return "Go"
+	return GoPath
+}
+
+// Use makes Factorize take path p (one of Paths) until the returned
+// function restores the previous one: for tests and benchmarks that
+// compare the paths. It must not run concurrently with Factorize.
+func Use(p Path) (restore func()) {
+	if !slices.Contains(Paths(), p) {
+		panic(fmt.Sprintf("dense: path %v is not available", p))
+	}
+	asm, backend := useAsm, useBackend
+	useAsm, useBackend = p == AVX2Path, p == OpenBLASPath
+	return func() { useAsm, useBackend = asm, backend }
 }
 
 // Size returns the order of the factored matrix.

@@ -30,7 +30,7 @@ func settings() []setting {
 			s = append(s, setting{fmt.Sprintf("asm=%v,workers=%d", asm, w), asm, w, false})
 		}
 	}
-	if useBackend {
+	if haveBackend {
 		s = append(s, setting{"openblas", false, 0, true})
 	}
 	return s
@@ -416,4 +416,38 @@ func equalSlices(a, b []float64) bool {
 		}
 	}
 	return true
+}
+
+func TestPaths(t *testing.T) {
+	paths := Paths()
+	if paths[0] != GoPath || paths[len(paths)-1] != Current() {
+		t.Errorf("Paths %v, Current %v", paths, Current())
+	}
+	a := panelMatrix(50)
+	var want []float64
+	for _, p := range paths {
+		restore := Use(p)
+		if Current() != p {
+			t.Errorf("Use(%v): Current is %v", p, Current())
+		}
+		var lu LU
+		lu.Factorize(50, append([]float64(nil), a...))
+		x := make([]float64, 50)
+		x[7] = 1
+		if err := lu.Solve(x, 1); err != nil {
+			t.Fatal(err)
+		}
+		if want == nil {
+			want = x
+		}
+		for i := range x {
+			if math.Abs(x[i]-want[i]) > 1e-12*math.Abs(want[i])+1e-14 {
+				t.Errorf("path %v: x[%d] = %g, path %v: %g", p, i, x[i], paths[0], want[i])
+			}
+		}
+		restore()
+	}
+	if Current() != paths[len(paths)-1] {
+		t.Errorf("restored to %v", Current())
+	}
 }

@@ -8,11 +8,11 @@ import (
 	"time"
 
 	"github.com/foilwright/foilwright/geometry"
-	"gonum.org/v1/gonum/mat"
+	"github.com/foilwright/foilwright/internal/dense"
 )
 
-// MaxCondition is the largest condition number (1-norm estimate of the LU
-// factorisation, mat.LU.Cond) of the influence matrix that New accepts. Well
+// MaxCondition is the largest condition number (∞-norm estimate of the LU
+// factorisation, dense.LU.Cond) of the influence matrix that New accepts. Well
 // panelled sections give 1e2–1e5; near 1e12 only about four significant
 // digits of the solution survive rounding.
 const MaxCondition = 1e12
@@ -52,8 +52,9 @@ type Solver struct {
 	// tangent, length.
 	x0, y0, tx, ty, s []float64
 	arc               []float64 // arc length from node 0 to each node
-	gap               float64   // base panel length (0 for a sharp TE)
-	lu                mat.LU
+	arr               panelArrays
+	gap               float64 // base panel length (0 for a sharp TE)
+	lu                dense.LU
 	cond              float64
 
 	mu      sync.Mutex
@@ -78,7 +79,7 @@ func New(nodes []geometry.Point) (*Solver, error) {
 	}
 	a := sv.build(buildWorkers(sv.n))
 	t1 := time.Now()
-	sv.lu.Factorize(a)
+	sv.lu.Factorize(sv.size(), a)
 	sv.cond = sv.lu.Cond()
 	t2 := time.Now()
 	sv.timings = Timings{Build: t1.Sub(t0), Factor: t2.Sub(t1)}
@@ -127,6 +128,7 @@ func (sv *Solver) panels() {
 			sv.gap = l
 		}
 	}
+	sv.arr = panelArrays{x0: sv.x0, y0: sv.y0, tx: sv.tx, ty: sv.ty, s: sv.s}
 }
 
 // size returns the order of the linear system.
@@ -162,8 +164,9 @@ func buildWorkers(n int) int {
 // build returns the influence matrix. Row i < n is the normal velocity at
 // the midpoint of panel i, row n the Kutta condition and, for a blunt
 // trailing edge, row n+1 the normal velocity at the base panel's midpoint.
-// Columns 0…n are the node strengths γ, column n+1 the base source σ.
-func (sv *Solver) build(workers int) *mat.Dense {
+// Columns 0…n are the node strengths γ, column n+1 the base source σ. The
+// matrix is returned row-major.
+func (sv *Solver) build(workers int) []float64 {
 	m := sv.size()
 	data := make([]float64, m*m)
 	rows := sv.n
@@ -171,12 +174,13 @@ func (sv *Solver) build(workers int) *mat.Dense {
 		rows++
 	}
 	work := func(lo, hi int) {
+		var w rowScratch
 		for i := lo; i < hi; i++ {
 			r := i
 			if i == sv.n { // the base row comes after the Kutta row
 				r = sv.n + 1
 			}
-			sv.fillRow(data[r*m:(r+1)*m], i)
+			sv.fillRow(data[r*m:(r+1)*m], i, &w)
 		}
 	}
 	if workers < 2 {
@@ -202,28 +206,58 @@ func (sv *Solver) build(workers int) *mat.Dense {
 		q = sv.s[n-1] / sv.s[n-2]
 		r1[n], r1[n-1], r1[n-2] = 1, -(1 + q), q
 	}
-	return mat.NewDense(m, m, data)
+	return data
+}
+
+// panelArrays are the per-panel arrays the assembly row reads, in this
+// order (influence_amd64.s relies on it): start point, unit tangent,
+// length.
+type panelArrays struct {
+	x0, y0, tx, ty, s []float64
+}
+
+// useAsm selects the assembly build where the CPU has AVX2 and FMA; tests
+// turn it off to compare with the Go formulas.
+var useAsm = haveAVX2
+
+// rowScratch holds fillRow's coefficient arrays for one goroutine.
+type rowScratch struct {
+	ca, cb []float64
 }
 
 // fillRow writes the normal-velocity influence of every panel at the
 // midpoint of panel i (the base panel when i == n) into row.
-func (sv *Solver) fillRow(row []float64, i int) {
+func (sv *Solver) fillRow(row []float64, i int, w *rowScratch) {
 	const inv2pi = 1 / (2 * math.Pi)
 	px, py := sv.mid(i)
 	// Outward normal of panel i: the right-hand normal of its direction.
 	nx, ny := sv.ty[i], -sv.tx[i]
-	for j := range sv.n {
-		x, y, beta, lnr := sv.local(j, px, py, i == j)
-		s := sv.s[j]
-		i1u := x*beta - y*lnr
-		i1v := x*lnr - s + y*beta
-		ua, ub := -(beta-i1u/s)*inv2pi, -i1u/s*inv2pi
-		va, vb := (lnr-i1v/s)*inv2pi, i1v/s*inv2pi
-		// Global velocity u·t + v·nL projected on n: t·n and nL·n = −t·n_perp.
-		tn := sv.tx[j]*nx + sv.ty[j]*ny
-		ln := -sv.ty[j]*nx + sv.tx[j]*ny
-		row[j] += ua*tn + va*ln
-		row[j+1] += ub*tn + vb*ln
+	n := sv.n
+	done := 0
+	if useAsm && n >= 4 {
+		// Four panels at a time: row[j] gets ca[j] + cb[j−1]; the
+		// panel's own midpoint and the last n%4 panels follow below.
+		done = n &^ 3
+		if cap(w.ca) < done {
+			w.ca, w.cb = make([]float64, done), make([]float64, done)
+		}
+		ca, cb := w.ca[:done], w.cb[:done]
+		p := [4]float64{px, py, nx, ny}
+		vortexRowAsm(ca, cb, &sv.arr, &p)
+		if i < done {
+			ca[i], cb[i] = sv.coeffs(i, px, py, nx, ny, true)
+		}
+		out := row[:done+1]
+		out[0] += ca[0]
+		for j := 1; j < done; j++ {
+			out[j] += ca[j] + cb[j-1]
+		}
+		out[done] += cb[done-1]
+	}
+	for j := done; j < n; j++ {
+		a, b := sv.coeffs(j, px, py, nx, ny, i == j)
+		row[j] += a
+		row[j+1] += b
 	}
 	if sv.blunt {
 		j := sv.n
@@ -237,6 +271,23 @@ func (sv *Solver) fillRow(row []float64, i int) {
 		ln := -sv.ty[j]*nx + sv.tx[j]*ny
 		row[sv.n+1] = u*tn + v*ln
 	}
+}
+
+// coeffs returns the coefficients of the node strengths γ_j and γ_j+1 of
+// panel j in the velocity at (px, py) normal to (nx, ny); self marks panel
+// j's own midpoint.
+func (sv *Solver) coeffs(j int, px, py, nx, ny float64, self bool) (a, b float64) {
+	const inv2pi = 1 / (2 * math.Pi)
+	x, y, beta, lnr := sv.local(j, px, py, self)
+	s := sv.s[j]
+	i1u := x*beta - y*lnr
+	i1v := x*lnr - s + y*beta
+	ua, ub := -(beta-i1u/s)*inv2pi, -i1u/s*inv2pi
+	va, vb := (lnr-i1v/s)*inv2pi, i1v/s*inv2pi
+	// Global velocity u·t + v·nL projected on n: t·n and nL·n = −t·n_perp.
+	tn := sv.tx[j]*nx + sv.ty[j]*ny
+	ln := -sv.ty[j]*nx + sv.tx[j]*ny
+	return ua*tn + va*ln, ub*tn + vb*ln
 }
 
 // local returns the coordinates of (px, py) in the frame of panel j (x along
@@ -305,33 +356,21 @@ func (sv *Solver) Solve(alphas []float64) ([]Case, error) {
 	}
 	t0 := time.Now()
 	m := sv.size()
-	b := mat.NewDense(m, 2, nil)
-	for i := range sv.n {
-		b.Set(i, 0, -sv.ty[i]) // −V∞·n with n = (ty, −tx), V∞ = (1, 0)
-		b.Set(i, 1, sv.tx[i])  // V∞ = (0, 1)
-	}
-	if sv.cusp {
-		b.Set(0, 0, 0)
-		b.Set(0, 1, 0)
-		b.Set(sv.n-1, 0, 0)
-		b.Set(sv.n-1, 1, 0)
-	}
-	if sv.blunt {
-		b.Set(sv.n+1, 0, -sv.ty[sv.n])
-		b.Set(sv.n+1, 1, sv.tx[sv.n])
-	}
-	var x mat.Dense
-	if err := sv.lu.SolveTo(&x, false, b); err != nil {
+	b := sv.rhs()
+	if err := sv.lu.Solve(b, 2); err != nil {
 		return nil, &ConditionError{Cond: sv.cond}
 	}
 	cases := make([]Case, len(alphas))
+	// One allocation each for the solutions and the pressures of all angles.
+	vs := make([]float64, m*len(alphas))
+	cps := make([]float64, (sv.n+1)*len(alphas))
 	for k, alpha := range alphas {
 		sa, ca := math.Sincos(alpha)
-		v := make([]float64, m)
+		v := vs[k*m : (k+1)*m : (k+1)*m]
 		for i := range v {
-			v[i] = ca*x.At(i, 0) + sa*x.At(i, 1)
+			v[i] = ca*b[2*i] + sa*b[2*i+1]
 		}
-		cases[k] = sv.result(alpha, v)
+		cases[k] = sv.result(alpha, v, cps[k*(sv.n+1):(k+1)*(sv.n+1):(k+1)*(sv.n+1)])
 	}
 	sv.mu.Lock()
 	sv.timings.Solve = time.Since(t0)
@@ -339,10 +378,29 @@ func (sv *Solver) Solve(alphas []float64) ([]Case, error) {
 	return cases, nil
 }
 
-// result computes the coefficients of one case from its solution vector.
-func (sv *Solver) result(alpha float64, v []float64) Case {
+// rhs returns the right-hand sides for α = 0 and α = 90°, row-major m×2.
+func (sv *Solver) rhs() []float64 {
+	b := make([]float64, 2*sv.size())
+	for i := range sv.n {
+		b[2*i] = -sv.ty[i]  // −V∞·n with n = (ty, −tx), V∞ = (1, 0)
+		b[2*i+1] = sv.tx[i] // V∞ = (0, 1)
+	}
+	if sv.cusp {
+		b[0], b[1] = 0, 0
+		b[2*(sv.n-1)], b[2*(sv.n-1)+1] = 0, 0
+	}
+	if sv.blunt {
+		b[2*(sv.n+1)] = -sv.ty[sv.n]
+		b[2*(sv.n+1)+1] = sv.tx[sv.n]
+	}
+	return b
+}
+
+// result computes the coefficients of one case from its solution vector,
+// with cp (n+1 entries) to hold the pressure coefficients.
+func (sv *Solver) result(alpha float64, v, cp []float64) Case {
 	n := sv.n
-	c := Case{Alpha: alpha, Gamma: v[: n+1 : n+1], Cp: make([]float64, n+1), sv: sv, x0: v}
+	c := Case{Alpha: alpha, Gamma: v[: n+1 : n+1], Cp: cp, sv: sv, x0: v}
 	for k, g := range c.Gamma {
 		c.Cp[k] = 1 - g*g
 	}
