@@ -9,7 +9,7 @@ import "golang.org/x/sys/cpu"
 var haveAVX2 = cpu.X86.HasAVX2 && cpu.X86.HasFMA
 
 //go:noescape
-func vortexRowAVX2(ca, cb *float64, arr *panelArrays, n int, p *[4]float64)
+func vortexRowAVX2(ca, cb *float64, arr *panelArrays, n int, p *[4]float64, w *float64)
 
 //go:noescape
 func logAVX2(dst, x *float64, n int) (special int)
@@ -18,12 +18,13 @@ func logAVX2(dst, x *float64, n int) (special int)
 func atan2AVX2(dst, y, x *float64, n int) (special int)
 
 // vortexRowAsm runs the assembly row over the first len(ca) panels of g, a
-// positive multiple of 4 that g's arrays and cb hold.
-func vortexRowAsm(ca, cb []float64, g *panelArrays, p *[4]float64) {
+// positive multiple of 4 that g's arrays and cb hold, with scratch for
+// 5·len(ca) values.
+func vortexRowAsm(ca, cb []float64, g *panelArrays, p *[4]float64, scratch []float64) {
 	n := len(ca)
-	_ = cb[n-1]
+	_, _ = cb[n-1], scratch[5*n-1]
 	_, _, _, _, _ = g.x0[n-1], g.y0[n-1], g.tx[n-1], g.ty[n-1], g.s[n-1]
-	vortexRowAVX2(&ca[0], &cb[0], g, n, p)
+	vortexRowAVX2(&ca[0], &cb[0], g, n, p, &scratch[0])
 }
 
 // logAsm and atan2Asm run the assembly logarithm and angle over slices of

@@ -370,75 +370,125 @@ atanloop:
 	MOVQ R9, special+32(FP)
 	RET
 
-// func vortexRowAVX2(ca, cb *float64, arr *panelArrays, n int, p *[4]float64)
+// func vortexRowAVX2(ca, cb *float64, arr *panelArrays, n int, p *[4]float64, w *float64)
 //
 // For panels j < n (a positive multiple of 4) and the point (px, py) with
 // normal (nx, ny) = p[0:4], the coefficients of the node strengths γ_j
 // (ca[j]) and γ_j+1 (cb[j]) in the normal velocity. arr holds the arrays
-// x0, y0, tx, ty, s of the panels. The point must not be a panel's own
-// midpoint (the caller redoes that one), nor on a panel.
+// x0, y0, tx, ty, s of the panels; w is scratch for 5n values. The point
+// must not be a panel's own midpoint (the caller redoes that one), nor on
+// a panel.
 //
-// Frame: 0(SP) x, 32(SP) y, 64(SP) y·s, 96(SP) x(x − s) + y², 128(SP) ½ln(r₁²/r₂²).
-TEXT ·vortexRowAVX2(SB), NOSPLIT, $160-40
-	MOVQ ca+0(FP), DI
-	MOVQ cb+8(FP), BX
+// Four passes over the panels, each with short independent iterations so
+// that the processor overlaps many of them: the point in each panel's
+// frame (w: x, y, y·s, x(x − s) + y², r₁²/r₂²), the logarithm, the angle,
+// and the coefficients. The operations are those of local and coeffs, in
+// their order and unfused, so that the rounding is the Go code's: the
+// logarithm of the rounded ratio r₁²/r₂² carries its rounding, which the
+// formulas multiply by up to x/s.
+TEXT ·vortexRowAVX2(SB), NOSPLIT, $0-48
 	MOVQ arr+16(FP), AX
 	MOVQ n+24(FP), CX
 	MOVQ p+32(FP), DX
+	MOVQ w+40(FP), DI
 	MOVQ 0(AX), R8   // x0
 	MOVQ 24(AX), R9  // y0
 	MOVQ 48(AX), R10 // tx
 	MOVQ 72(AX), R11 // ty
 	MOVQ 96(AX), R12 // s
+	MOVQ CX, BX
+	SHLQ $3, BX      // n·8: the stride between the scratch arrays
 	SHRQ $2, CX
 	XORQ SI, SI
-
-rowloop:
-	// The point in the panel frame, with the operations of local in the
-	// same order and unfused, so that the rounding is the Go code's: the
-	// logarithm of the rounded ratio r₁²/r₂² carries its rounding, which
-	// the formulas multiply by up to x/s.
 	VBROADCASTSD 0(DX), Y2
 	VBROADCASTSD 8(DX), Y3
-	VSUBPD       (R8)(SI*1), Y2, Y0 // dx
-	VSUBPD       (R9)(SI*1), Y3, Y1 // dy
-	VMOVUPD      (R10)(SI*1), Y4    // tx
-	VMOVUPD      (R11)(SI*1), Y5    // ty
-	VMULPD       Y0, Y4, Y6
-	VMULPD       Y1, Y5, Y7
-	VADDPD       Y7, Y6, Y6         // x = dx·tx + dy·ty
-	VMULPD       Y1, Y4, Y7
-	VMULPD       Y0, Y5, Y8
-	VSUBPD       Y8, Y7, Y7         // y = dy·tx − dx·ty
-	VMOVUPD      (R12)(SI*1), Y8    // s
-	VSUBPD       Y8, Y6, Y9         // xs = x − s
-	VMULPD       Y7, Y7, Y10        // y²
-	VMULPD       Y8, Y7, Y11        // y·s
-	VMULPD       Y9, Y6, Y12
-	VADDPD       Y10, Y12, Y12      // x·xs + y²
-	VMULPD       Y6, Y6, Y13
-	VADDPD       Y10, Y13, Y13      // r₁²
-	VMULPD       Y9, Y9, Y14
-	VADDPD       Y10, Y14, Y14      // r₂²
-	VDIVPD       Y14, Y13, Y0       // r₁²/r₂²
-	VMOVUPD      Y6, 0(SP)
-	VMOVUPD      Y7, 32(SP)
-	VMOVUPD      Y11, 64(SP)
-	VMOVUPD      Y12, 96(SP)
 
+geometry:
+	VSUBPD  (R8)(SI*1), Y2, Y0 // dx
+	VSUBPD  (R9)(SI*1), Y3, Y1 // dy
+	VMOVUPD (R10)(SI*1), Y4    // tx
+	VMOVUPD (R11)(SI*1), Y5    // ty
+	VMULPD  Y0, Y4, Y6
+	VMULPD  Y1, Y5, Y7
+	VADDPD  Y7, Y6, Y6         // x = dx·tx + dy·ty
+	VMULPD  Y1, Y4, Y7
+	VMULPD  Y0, Y5, Y8
+	VSUBPD  Y8, Y7, Y7         // y = dy·tx − dx·ty
+	VMOVUPD (R12)(SI*1), Y8    // s
+	VSUBPD  Y8, Y6, Y9         // xs = x − s
+	VMULPD  Y7, Y7, Y10        // y²
+	VMULPD  Y8, Y7, Y11        // y·s
+	VMULPD  Y9, Y6, Y12
+	VADDPD  Y10, Y12, Y12      // x·xs + y²
+	VMULPD  Y6, Y6, Y13
+	VADDPD  Y10, Y13, Y13      // r₁²
+	VMULPD  Y9, Y9, Y14
+	VADDPD  Y10, Y14, Y14      // r₂²
+	VDIVPD  Y14, Y13, Y13      // r₁²/r₂²
+	MOVQ    DI, AX
+	VMOVUPD Y6, (AX)(SI*1)
+	ADDQ    BX, AX
+	VMOVUPD Y7, (AX)(SI*1)
+	ADDQ    BX, AX
+	VMOVUPD Y11, (AX)(SI*1)
+	ADDQ    BX, AX
+	VMOVUPD Y12, (AX)(SI*1)
+	ADDQ    BX, AX
+	VMOVUPD Y13, (AX)(SI*1)
+	ADDQ    $32, SI
+	DECQ    CX
+	JNZ     geometry
+
+	// ½ln(r₁²/r₂²) in place of the ratio
+	LEAQ (DI)(BX*4), AX
+	MOVQ BX, CX
+	SHRQ $5, CX
+	XORQ SI, SI
+
+logs:
+	VMOVUPD (AX)(SI*1), Y0
 	LOG4
 	VMULPD  half, Y12, Y12
-	VMOVUPD Y12, 128(SP)
+	VMOVUPD Y12, (AX)(SI*1)
+	ADDQ    $32, SI
+	DECQ    CX
+	JNZ     logs
 
-	VMOVUPD 64(SP), Y0
-	VMOVUPD 96(SP), Y1
-	ATAN24 // Y10 = β
+	// β = atan2(y·s, x(x − s) + y²) in place of y·s
+	LEAQ (DI)(BX*2), AX
+	LEAQ (AX)(BX*1), R13
+	MOVQ BX, CX
+	SHRQ $5, CX
+	XORQ SI, SI
 
-	// I1u = xβ − y·l, I1v = x·l − s + yβ (l = ½ln(r₁²/r₂²)); u1 = I1u/s,
-	// v1 = I1v/s: the operations of coeffs, unfused.
-	VMOVUPD 0(SP), Y6          // x
-	VMOVUPD 32(SP), Y7         // y
-	VMOVUPD 128(SP), Y11       // l
+angles:
+	VMOVUPD (AX)(SI*1), Y0
+	VMOVUPD (R13)(SI*1), Y1
+	ATAN24
+	VMOVUPD Y10, (AX)(SI*1)
+	ADDQ    $32, SI
+	DECQ    CX
+	JNZ     angles
+
+	// The coefficients.
+	MOVQ         ca+0(FP), R8
+	MOVQ         cb+8(FP), R9
+	MOVQ         BX, CX
+	SHRQ         $5, CX
+	LEAQ         (DI)(BX*1), R13 // y
+	LEAQ         (R13)(BX*1), AX // β
+	LEAQ         (AX)(BX*2), BX  // l
+	VBROADCASTSD 16(DX), Y2      // nx
+	VBROADCASTSD 24(DX), Y3      // ny
+	VMOVUPD      inv2pi, Y15
+	XORQ         SI, SI
+
+coeffs:
+	// I1u = xβ − y·l, I1v = x·l − s + yβ; u1 = I1u/s, v1 = I1v/s
+	VMOVUPD (DI)(SI*1), Y6     // x
+	VMOVUPD (R13)(SI*1), Y7    // y
+	VMOVUPD (BX)(SI*1), Y11    // l
+	VMOVUPD (AX)(SI*1), Y10    // β
 	VMOVUPD (R12)(SI*1), Y9    // s
 	VMULPD  Y10, Y6, Y0
 	VMULPD  Y11, Y7, Y1
@@ -446,43 +496,39 @@ rowloop:
 	VDIVPD  Y9, Y0, Y0         // u1
 	VMULPD  Y11, Y6, Y1
 	VSUBPD  Y9, Y1, Y1
-	VMULPD  Y10, Y7, Y2
-	VADDPD  Y2, Y1, Y1         // I1v
+	VMULPD  Y10, Y7, Y4
+	VADDPD  Y4, Y1, Y1         // I1v
 	VDIVPD  Y9, Y1, Y1         // v1
 
 	// tn = t·n, ln = nL·n
-	VBROADCASTSD 16(DX), Y2    // nx
-	VBROADCASTSD 24(DX), Y3    // ny
-	VMOVUPD      (R10)(SI*1), Y4 // tx
-	VMOVUPD      (R11)(SI*1), Y5 // ty
-	VMULPD       Y2, Y4, Y6
-	VMULPD       Y3, Y5, Y7
-	VADDPD       Y7, Y6, Y6    // tn
-	VMULPD       Y3, Y4, Y7
-	VMULPD       Y2, Y5, Y8
-	VSUBPD       Y8, Y7, Y7    // ln
+	VMOVUPD (R10)(SI*1), Y4    // tx
+	VMOVUPD (R11)(SI*1), Y5    // ty
+	VMULPD  Y2, Y4, Y6
+	VMULPD  Y3, Y5, Y7
+	VADDPD  Y7, Y6, Y6         // tn
+	VMULPD  Y3, Y4, Y7
+	VMULPD  Y2, Y5, Y8
+	VSUBPD  Y8, Y7, Y7         // ln
 
 	// ua = −(β − u1)/2π, ub = −u1/2π, va = (l − v1)/2π, vb = v1/2π;
 	// ca = ua·tn + va·ln, cb = ub·tn + vb·ln
-	VMOVUPD inv2pi, Y12
 	VSUBPD  Y0, Y10, Y8
-	VMULPD  Y12, Y8, Y8
+	VMULPD  Y15, Y8, Y8
 	VMULPD  Y6, Y8, Y8         // (β − u1)/2π · tn
 	VSUBPD  Y1, Y11, Y9
-	VMULPD  Y12, Y9, Y9
+	VMULPD  Y15, Y9, Y9
 	VMULPD  Y7, Y9, Y9         // va·ln
 	VSUBPD  Y8, Y9, Y9         // ca
-	VMOVUPD Y9, (DI)(SI*1)
-	VMULPD  Y12, Y0, Y8
+	VMOVUPD Y9, (R8)(SI*1)
+	VMULPD  Y15, Y0, Y8
 	VMULPD  Y6, Y8, Y8         // u1/2π · tn
-	VMULPD  Y12, Y1, Y9
+	VMULPD  Y15, Y1, Y9
 	VMULPD  Y7, Y9, Y9         // vb·ln
 	VSUBPD  Y8, Y9, Y9         // cb
-	VMOVUPD Y9, (BX)(SI*1)
-
-	ADDQ $32, SI
-	DECQ CX
-	JNZ  rowloop
+	VMOVUPD Y9, (R9)(SI*1)
+	ADDQ    $32, SI
+	DECQ    CX
+	JNZ     coeffs
 
 	VZEROUPPER
 	RET

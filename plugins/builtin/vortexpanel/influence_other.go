@@ -4,7 +4,7 @@ package vortexpanel
 
 const haveAVX2 = false
 
-func vortexRowAsm(ca, cb []float64, g *panelArrays, p *[4]float64) {
+func vortexRowAsm(ca, cb []float64, g *panelArrays, p *[4]float64, scratch []float64) {
 	panic("vortexpanel: no assembly build")
 }
 

@@ -220,9 +220,10 @@ type panelArrays struct {
 // turn it off to compare with the Go formulas.
 var useAsm = haveAVX2
 
-// rowScratch holds fillRow's coefficient arrays for one goroutine.
+// rowScratch holds fillRow's arrays for one goroutine: the coefficients
+// and the assembly's scratch.
 type rowScratch struct {
-	ca, cb []float64
+	ca, cb, w []float64
 }
 
 // fillRow writes the normal-velocity influence of every panel at the
@@ -239,11 +240,11 @@ func (sv *Solver) fillRow(row []float64, i int, w *rowScratch) {
 		// panel's own midpoint and the last n%4 panels follow below.
 		done = n &^ 3
 		if cap(w.ca) < done {
-			w.ca, w.cb = make([]float64, done), make([]float64, done)
+			w.ca, w.cb, w.w = make([]float64, done), make([]float64, done), make([]float64, 5*done)
 		}
 		ca, cb := w.ca[:done], w.cb[:done]
 		p := [4]float64{px, py, nx, ny}
-		vortexRowAsm(ca, cb, &sv.arr, &p)
+		vortexRowAsm(ca, cb, &sv.arr, &p, w.w[:5*done])
 		if i < done {
 			ca[i], cb[i] = sv.coeffs(i, px, py, nx, ny, true)
 		}
