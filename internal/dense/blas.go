@@ -1,5 +1,7 @@
 package dense
 
+import "math"
+
 // axpy computes y += alpha·x over len(y) entries.
 func axpy(alpha float64, x, y []float64) {
 	x = x[:len(y)]
@@ -39,6 +41,18 @@ func dot(x, y []float64) float64 {
 		s0 += x[i] * y[i]
 	}
 	return (s0 + s1) + (s2 + s3)
+}
+
+// asum returns Σ |x[i]|.
+func asum(x []float64) float64 {
+	if useAsm && len(x) >= 8 {
+		return asumAVX2(&x[0], len(x))
+	}
+	s := 0.0
+	for _, v := range x {
+		s += math.Abs(v)
+	}
+	return s
 }
 
 // dot2 returns Σ r[j]·x[2j] and Σ r[j]·x[2j+1] over len(r) entries.

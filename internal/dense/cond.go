@@ -101,14 +101,6 @@ func normInvEst(n int, apply, applyT, apply2 func([]float64)) float64 {
 	return est
 }
 
-func asum(x []float64) float64 {
-	s := 0.0
-	for _, v := range x {
-		s += math.Abs(v)
-	}
-	return s
-}
-
 // iamax returns the index of the first entry of largest magnitude.
 func iamax(x []float64) int {
 	j, m := 0, -1.0

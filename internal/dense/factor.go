@@ -7,29 +7,34 @@ import (
 	"sync/atomic"
 )
 
-// Blocking of the factorisation.
+// Blocking of the factorisation, placed by measurement on the two cores
+// of the development machine (AVX2 kernels; BenchmarkSmall, BenchmarkFactor).
 const (
+	// unblockedMax is the order up to which the factorisation goes column
+	// by column over whole rows: at 64 rows 27 µs against 35 µs by halving,
+	// at 101 rows 90 µs against 82 µs.
+	unblockedMax = 80
 	// panelBase is the width below which a panel is factored column by
 	// column; wider panels split in two (recursive LU).
 	panelBase = 8
 	// trsmBase is the height below which a triangular solve goes row by row.
 	trsmBase = 16
-	// chunkCols is the width of the pieces of the trailing update that
-	// goroutines take in turn.
-	chunkCols = 192
-)
-
-// blockMin is the order from which the factorisation is blocked with a
-// look-ahead panel on a second goroutine; smaller matrices are factored by
-// recursive halving on one goroutine. blockSize is the width of the blocks.
-var (
-	blockMin  = 160
+	// blockMin is the order from which the factorisation is blocked with a
+	// look-ahead panel on a second goroutine; smaller matrices are factored
+	// by recursive halving on one goroutine.
+	blockMin = 160
+	// blockSize is the width of the blocks.
 	blockSize = 64
 )
 
-// unblockedMax is the order up to which the factorisation goes column by
-// column over whole rows (unblocked).
-var unblockedMax = 120
+// chunkCols returns the width of the pieces of a trailing update of rest
+// columns that the goroutines take in turn: about eight, so that a
+// goroutine that is held up (the machine is shared) delays the step
+// little, in multiples of the micro-kernel's width. It depends on rest
+// alone, so that the factors do not depend on the number of goroutines.
+func chunkCols(rest int) int {
+	return min(max(roundUp(rest/8, nr), 32), 256)
+}
 
 // maxWorkers caps the goroutines of one factorisation; 0 means GOMAXPROCS.
 var maxWorkers = 0
@@ -70,47 +75,84 @@ func (f *factorizer) run() {
 	}
 	nb := blockSize
 	f.panel(0, min(nb, n), ws)
+	shared := make([]float64, roundUp(n, mr)*nb)
+	last := 0
 	for k := 0; k < n; k += nb {
+		last = k
 		next := k + nb
 		if next >= n {
 			break
 		}
-		f.step(k, nb, next, min(nb, n-next), ws)
+		f.step(k, nb, next, min(nb, n-next), shared, ws)
 	}
-	// The pivots of each block, deferred, on the columns to its left.
-	for k := nb; k < n; k += nb {
-		f.swapRows(k, min(k+nb, n), 0, k)
-	}
+	// The pivots of the last block on the columns to its left.
+	f.swapRows(last, n, 0, last)
 }
 
+// packedL is the block of L below a block of pivots, packed once for all
+// the pieces of a step's trailing update: each mc rows by whichever
+// goroutine needs them first.
+type packedL struct {
+	a        []float64 // the matrix
+	n        int
+	r0, k    int // first row and column of the block
+	rows, jb int
+	buf      []float64
+	once     []sync.Once
+}
+
+// rowBlock returns the packed rows [ic, ic+mc) (ic a multiple of mc).
+func (p *packedL) rowBlock(ic int) []float64 {
+	b := p.buf[ic*p.jb : roundUp(min(ic+mc, p.rows), mr)*p.jb]
+	p.once[ic/mc].Do(func() {
+		packA(b, p.a[(p.r0+ic)*p.n+p.k:], p.n, min(mc, p.rows-ic), p.jb)
+	})
+	return b
+}
+
+// leftCols is the width of the pieces in which the pivots of a block are
+// applied to the columns left of it.
+const leftCols = 512
+
 // step applies the pivots of block [k, next) to the columns right of it,
-// solves for its rows of U and updates the trailing matrix; the columns of
+// solves for its rows of U and updates the trailing matrix: the columns of
 // the next block first, which are then factored while the other goroutines
-// update the rest.
-func (f *factorizer) step(k, jb, next, jb2 int, ws *workspace) {
+// update the rest in pieces and apply the block's pivots to the columns
+// left of it.
+func (f *factorizer) step(k, jb, next, jb2 int, shared []float64, ws *workspace) {
 	n := f.n
+	rows := n - next
+	l := &packedL{a: f.a, n: n, r0: next, k: k, rows: rows, jb: jb, buf: shared,
+		once: make([]sync.Once, (rows+mc-1)/mc)}
 	rest := n - next - jb2
-	chunks := (rest + chunkCols - 1) / chunkCols
+	width := chunkCols(rest)
+	chunks := (rest + width - 1) / width
+	lefts := (k + leftCols - 1) / leftCols
 	var taken atomic.Int64
 	work := func(ws *workspace) {
 		for {
 			c := int(taken.Add(1)) - 1
-			if c >= chunks {
+			switch {
+			case c < chunks:
+				c0 := next + jb2 + c*width
+				f.update(k, jb, c0, min(c0+width, n), l, ws)
+			case c < chunks+lefts:
+				c0 := (c - chunks) * leftCols
+				f.swapRows(k, next, c0, min(c0+leftCols, k))
+			default:
 				return
 			}
-			c0 := next + jb2 + c*chunkCols
-			f.update(k, jb, c0, min(c0+chunkCols, n), ws)
 		}
 	}
 	var wg sync.WaitGroup
-	for range min(f.workers-1, chunks) {
+	for range min(f.workers-1, chunks+lefts) {
 		wg.Go(func() {
 			w := wsPool.Get().(*workspace)
 			work(w)
 			wsPool.Put(w)
 		})
 	}
-	f.update(k, jb, next, next+jb2, ws)
+	f.update(k, jb, next, next+jb2, l, ws)
 	f.panel(next, jb2, ws)
 	work(ws)
 	wg.Wait()
@@ -118,13 +160,17 @@ func (f *factorizer) step(k, jb, next, jb2 int, ws *workspace) {
 
 // update brings columns [c0, c1) up to date with block [k, k+jb): row
 // swaps, triangular solve for the block's rows of U, and the product
-// update of the rows below.
-func (f *factorizer) update(k, jb, c0, c1 int, ws *workspace) {
+// update of the rows below with the packed block of L.
+func (f *factorizer) update(k, jb, c0, c1 int, l *packedL, ws *workspace) {
 	n, a := f.n, f.a
 	f.swapRows(k, k+jb, c0, c1)
 	w := c1 - c0
 	trsmLower(jb, w, a[k*n+k:], n, a[k*n+c0:], n, ws)
-	gemmSub(n-k-jb, w, jb, a[(k+jb)*n+k:], n, a[k*n+c0:], n, a[(k+jb)*n+c0:], n, ws)
+	bp := ws.bufB(jb * roundUp(w, nr))
+	packB(bp, a[k*n+c0:], n, jb, w)
+	for ic := 0; ic < l.rows; ic += mc {
+		gemmPacked(min(mc, l.rows-ic), w, jb, l.rowBlock(ic), bp, a[(l.r0+ic)*n+c0:], n)
+	}
 }
 
 // swapRows applies the row swaps of pivots [p0, p1) to columns [c0, c1).
@@ -204,6 +250,11 @@ func (f *factorizer) factorColumns(d, w int) {
 		uj := a[j*n+next : j*n+e]
 		small := math.Abs(piv) < sfmin
 		inv := 1 / piv
+		if useAsm && !small {
+			_ = a[(n-1)*n+e-1] // the last row the kernel touches
+			p = j + rank1AVX2(&a[j*n+j], n, n-1-j, e-j, inv)
+			continue
+		}
 		p, best = next, -1
 		for r := next; r < n; r++ {
 			row := a[r*n+j : r*n+e]
@@ -269,6 +320,11 @@ func (f *factorizer) unblocked() {
 		uk := a[k*n+next : (k+1)*n]
 		small := math.Abs(piv) < sfmin
 		inv := 1 / piv
+		if useAsm && !small {
+			_ = a[(n-1)*n+n-1] // the last row the kernel touches
+			p = k + rank1AVX2(&a[k*n+k], n, n-1-k, n-k, inv)
+			continue
+		}
 		p, best = next, -1
 		for r := next; r < n; r++ {
 			row := a[r*n+k : (r+1)*n]

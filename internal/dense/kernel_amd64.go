@@ -23,3 +23,9 @@ func axpyAVX2(alpha float64, x, y *float64, n int)
 
 //go:noescape
 func dotAVX2(x, y *float64, n int) float64
+
+//go:noescape
+func rank1AVX2(a *float64, lda, rows, w int, inv float64) (pivot int)
+
+//go:noescape
+func asumAVX2(x *float64, n int) float64

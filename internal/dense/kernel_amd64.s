@@ -266,3 +266,162 @@ dotdone:
 	VZEROUPPER
 	MOVSD X0, ret+24(FP)
 	RET
+
+// func rank1AVX2(a *float64, lda, rows, w int, inv float64) (pivot int)
+//
+// One step of elimination on rows below a pivot row: for each of rows rows
+// r = 1, …, rows (row r starts at a + r·lda; row 0 is the pivot row, whose
+// entries 1 … w−1 are u), l = a[r][0]·inv is stored in a[r][0] and
+// a[r][1:w] −= l·u. It returns the r whose new a[r][1] is largest in
+// magnitude (the first such; 1 if w < 2 or rows < 1), the next column's
+// pivot. The caller checks that the rows lie in the matrix.
+TEXT ·rank1AVX2(SB), NOSPLIT, $0-48
+	MOVQ         a+0(FP), SI
+	MOVQ         lda+8(FP), R8
+	SHLQ         $3, R8
+	MOVQ         rows+16(FP), R9
+	MOVQ         w+24(FP), R10
+	DECQ         R10               // entries after the first
+	VMOVSD       inv+32(FP), X15
+	MOVQ         $1, AX            // pivot
+	MOVQ         $1, R11           // row
+	VPCMPEQQ     Y13, Y13, Y13
+	VPSRLQ       $1, Y13, Y13      // |x| mask
+	MOVQ         $0xBFF0000000000000, R12
+	MOVQ         R12, X14          // largest magnitude so far: −1 to start
+	MOVQ         SI, DX
+	ADDQ         $8, DX            // u
+	TESTQ        R9, R9
+	JLE          rank1done
+
+rowloop:
+	ADDQ         R8, SI            // row r
+	VMOVSD       (SI), X0
+	VMULSD       X15, X0, X0
+	VMOVSD       X0, (SI)
+	VBROADCASTSD X0, Y1            // l in every lane
+	LEAQ         8(SI), DI         // row r, entry 1
+	MOVQ         DX, BX            // u
+	MOVQ         R10, CX
+
+r16:
+	CMPQ        CX, $16
+	JLT         r4
+	VMOVUPD     (DI), Y2
+	VMOVUPD     32(DI), Y3
+	VMOVUPD     64(DI), Y4
+	VMOVUPD     96(DI), Y5
+	VFNMADD231PD (BX), Y1, Y2
+	VFNMADD231PD 32(BX), Y1, Y3
+	VFNMADD231PD 64(BX), Y1, Y4
+	VFNMADD231PD 96(BX), Y1, Y5
+	VMOVUPD     Y2, (DI)
+	VMOVUPD     Y3, 32(DI)
+	VMOVUPD     Y4, 64(DI)
+	VMOVUPD     Y5, 96(DI)
+	ADDQ        $128, DI
+	ADDQ        $128, BX
+	SUBQ        $16, CX
+	JMP         r16
+
+r4:
+	CMPQ        CX, $4
+	JLT         r1
+	VMOVUPD     (DI), Y2
+	VFNMADD231PD (BX), Y1, Y2
+	VMOVUPD     Y2, (DI)
+	ADDQ        $32, DI
+	ADDQ        $32, BX
+	SUBQ        $4, CX
+	JMP         r4
+
+r1:
+	TESTQ       CX, CX
+	JZ          rowdone
+	VMOVSD      (DI), X2
+	VFNMADD231SD (BX), X1, X2
+	VMOVSD      X2, (DI)
+	ADDQ        $8, DI
+	ADDQ        $8, BX
+	DECQ        CX
+	JMP         r1
+
+rowdone:
+	TESTQ    R10, R10
+	JZ       next
+	VMOVSD   8(SI), X2
+	VANDPD   X13, X2, X2
+	VUCOMISD X14, X2               // |a[r][1]| > largest? (false for NaN)
+	JBE      next
+	VMOVSD   X2, X14, X14
+	MOVQ     R11, AX
+
+next:
+	INCQ R11
+	CMPQ R11, R9
+	JLE  rowloop
+
+rank1done:
+	VZEROUPPER
+	MOVQ AX, pivot+40(FP)
+	RET
+
+// func asumAVX2(x *float64, n int) float64
+//
+// Σ |x[i]| for i < n in four 4-wide partial sums.
+TEXT ·asumAVX2(SB), NOSPLIT, $0-24
+	MOVQ     x+0(FP), SI
+	MOVQ     n+8(FP), CX
+	VPCMPEQQ Y5, Y5, Y5
+	VPSRLQ   $1, Y5, Y5 // |x| mask
+	VXORPD   Y0, Y0, Y0
+	VXORPD   Y1, Y1, Y1
+	VXORPD   Y2, Y2, Y2
+	VXORPD   Y3, Y3, Y3
+
+asum16:
+	CMPQ   CX, $16
+	JLT    asum4
+	VANDPD (SI), Y5, Y6
+	VANDPD 32(SI), Y5, Y7
+	VANDPD 64(SI), Y5, Y8
+	VANDPD 96(SI), Y5, Y9
+	VADDPD Y6, Y0, Y0
+	VADDPD Y7, Y1, Y1
+	VADDPD Y8, Y2, Y2
+	VADDPD Y9, Y3, Y3
+	ADDQ   $128, SI
+	SUBQ   $16, CX
+	JMP    asum16
+
+asum4:
+	CMPQ   CX, $4
+	JLT    asumsum
+	VANDPD (SI), Y5, Y6
+	VADDPD Y6, Y0, Y0
+	ADDQ   $32, SI
+	SUBQ   $4, CX
+	JMP    asum4
+
+asumsum:
+	VADDPD       Y1, Y0, Y0
+	VADDPD       Y3, Y2, Y2
+	VADDPD       Y2, Y0, Y0
+	VEXTRACTF128 $1, Y0, X1
+	VADDPD       X1, X0, X0
+	VHADDPD      X0, X0, X0
+
+asum1:
+	TESTQ  CX, CX
+	JZ     asumdone
+	VMOVSD (SI), X6
+	VANDPD X5, X6, X6
+	VADDSD X6, X0, X0
+	ADDQ   $8, SI
+	DECQ   CX
+	JMP    asum1
+
+asumdone:
+	VZEROUPPER
+	MOVSD X0, ret+16(FP)
+	RET

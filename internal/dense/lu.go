@@ -230,10 +230,7 @@ func (lu *LU) solveFactorsT(x []float64, k int) {
 func normInf(n int, a []float64) float64 {
 	m := 0.0
 	for i := range n {
-		s := 0.0
-		for _, v := range a[i*n : (i+1)*n] {
-			s += math.Abs(v)
-		}
+		s := asum(a[i*n : (i+1)*n])
 		if math.IsNaN(s) {
 			return s
 		}

@@ -375,6 +375,94 @@ func TestKernels(t *testing.T) {
 	}
 }
 
+// TestRank1 checks the elimination step (assembly where the CPU has it)
+// against the same arithmetic in Go, with sentinels around the rows it may
+// touch, for every small width and row count.
+func TestRank1(t *testing.T) {
+	if !haveAVX2 {
+		t.Skip("no AVX2/FMA on this machine: the Go loop runs")
+	}
+	rng := rand.New(rand.NewPCG(15, 16))
+	for rows := 0; rows < 7; rows++ {
+		for w := 1; w < 40; w++ {
+			lda := w + 3
+			buf := make([]float64, (rows+3)*lda)
+			for i := range buf {
+				buf[i] = rng.NormFloat64()
+			}
+			a := buf[lda : lda+(rows+1)*lda] // the pivot row and rows below, with sentinel rows around
+			want := append([]float64(nil), buf...)
+			inv := 1 / a[0]
+			wantPiv, best := 1, -1.0
+			for r := 1; r <= rows; r++ {
+				row := want[lda+r*lda : lda+r*lda+w]
+				l := row[0] * inv
+				row[0] = l
+				for c := 1; c < w; c++ {
+					row[c] = math.FMA(-l, want[lda+c], row[c])
+				}
+				if w > 1 && math.Abs(row[1]) > best {
+					best, wantPiv = math.Abs(row[1]), r
+				}
+			}
+			piv := rank1AVX2(&a[0], lda, rows, w, inv)
+			if piv != wantPiv {
+				t.Errorf("rows %d w %d: pivot %d, want %d", rows, w, piv, wantPiv)
+			}
+			for i := range buf {
+				if buf[i] != want[i] {
+					t.Fatalf("rows %d w %d: entry %d (row %d) is %g, want %g", rows, w, i, i/lda-1, buf[i], want[i])
+				}
+			}
+		}
+	}
+}
+
+// TestVectorKernels checks axpy, dot and asum (assembly where the CPU has
+// them) against plain loops, for lengths around the unrolling, with a
+// sentinel after y.
+func TestVectorKernels(t *testing.T) {
+	rng := rand.New(rand.NewPCG(17, 18))
+	for _, asm := range []bool{false, true} {
+		if asm && !haveAVX2 {
+			continue
+		}
+		with(setting{asm: asm, workers: 1}, func() {
+			for n := range 70 {
+				x := make([]float64, n+1)
+				for i := range x {
+					x[i] = rng.NormFloat64()
+				}
+				y := make([]float64, n+1)
+				for i := range y {
+					y[i] = rng.NormFloat64()
+				}
+				wantDot, wantAsum := 0.0, 0.0
+				for i := range n {
+					wantDot += x[i] * y[i]
+					wantAsum += math.Abs(x[i])
+				}
+				if d := dot(x[:n], y[:n]); math.Abs(d-wantDot) > 1e-13*float64(n+1) {
+					t.Errorf("asm %v n %d: dot %g, want %g", asm, n, d, wantDot)
+				}
+				if s := asum(x[:n]); math.Abs(s-wantAsum) > 1e-13*float64(n+1) {
+					t.Errorf("asm %v n %d: asum %g, want %g", asm, n, s, wantAsum)
+				}
+				want := append([]float64(nil), y...)
+				for i := range n {
+					want[i] += 0.75 * x[i]
+				}
+				axpy(0.75, x[:n], y[:n])
+				for i := range y {
+					if math.Abs(y[i]-want[i]) > 1e-15 {
+						t.Errorf("asm %v n %d: axpy entry %d is %g, want %g", asm, n, i, y[i], want[i])
+					}
+				}
+			}
+		})
+	}
+}
+
 func TestPanics(t *testing.T) {
 	for name, f := range map[string]func(){
 		"zero order":       func() { new(LU).Factorize(0, nil) },

@@ -144,13 +144,16 @@ func (sv *Solver) mid(j int) (x, y float64) {
 	return sv.x0[j] + 0.5*sv.s[j]*sv.tx[j], sv.y0[j] + 0.5*sv.s[j]*sv.ty[j]
 }
 
+// parallelMinResults is the number of angles times unknowns from which
+// Solve computes the per-angle results on two goroutines.
+const parallelMinResults = 2000
+
 // parallelMinPanels is the panel count from which the matrix build is split
-// across goroutines. Measured with BenchmarkBuild against
-// BenchmarkBuildSerial on the two cores of the development machine, shared
-// with other jobs (load 4–7): at 100 panels splitting lost (0.64 ms against
-// 0.32 ms), at 200 it broke even, at 400 it gave 2.3 ms against 4.5 ms when
-// a core was free and nothing when none was.
-const parallelMinPanels = 300
+// across goroutines. Measured with the assembly rows on the two cores of the
+// development machine, shared with other jobs: at 64 panels splitting broke
+// even (50 µs), at 100 it gave 77 µs against 104–115 µs on one goroutine,
+// at 200 310–350 µs against 450 µs.
+const parallelMinPanels = 100
 
 // buildWorkers returns the number of goroutines for the build of a
 // section of n panels.
@@ -365,13 +368,26 @@ func (sv *Solver) Solve(alphas []float64) ([]Case, error) {
 	// One allocation each for the solutions and the pressures of all angles.
 	vs := make([]float64, m*len(alphas))
 	cps := make([]float64, (sv.n+1)*len(alphas))
-	for k, alpha := range alphas {
-		sa, ca := math.Sincos(alpha)
-		v := vs[k*m : (k+1)*m : (k+1)*m]
-		for i := range v {
-			v[i] = ca*b[2*i] + sa*b[2*i+1]
+	work := func(lo, hi int) {
+		for k := lo; k < hi; k++ {
+			alpha := alphas[k]
+			sa, ca := math.Sincos(alpha)
+			v := vs[k*m : (k+1)*m : (k+1)*m]
+			for i := range v {
+				v[i] = ca*b[2*i] + sa*b[2*i+1]
+			}
+			cases[k] = sv.result(alpha, v, cps[k*(sv.n+1):(k+1)*(sv.n+1):(k+1)*(sv.n+1)])
 		}
-		cases[k] = sv.result(alpha, v, cps[k*(sv.n+1):(k+1)*(sv.n+1):(k+1)*(sv.n+1)])
+	}
+	if len(alphas) > 1 && len(alphas)*m >= parallelMinResults && runtime.GOMAXPROCS(0) > 1 {
+		// The angles in two halves, one on another goroutine.
+		h := len(alphas) / 2
+		var wg sync.WaitGroup
+		wg.Go(func() { work(h, len(alphas)) })
+		work(0, h)
+		wg.Wait()
+	} else {
+		work(0, len(alphas))
 	}
 	sv.mu.Lock()
 	sv.timings.Solve = time.Since(t0)
@@ -409,17 +425,21 @@ func (sv *Solver) result(alpha float64, v, cp []float64) Case {
 		c.BaseSource = v[n+1]
 	}
 	var circ, fx, fy, cm float64
-	for j := range n {
-		a, b, s := v[j], v[j+1], sv.s[j]
+	const third, sixth, twelfth = 1.0 / 3, 1.0 / 6, 1.0 / 12
+	g := v[: n+1 : n+1]
+	tx, ty, x0, y0 := sv.tx[:n], sv.ty[:n], sv.x0[:n], sv.y0[:n]
+	for j, s := range sv.s[:n] {
+		a, b := g[j], g[j+1]
+		aa, ab, bb := a*a, a*b, b*b
 		circ += 0.5 * s * (a + b)
 		// Exact integrals of Cp = 1 − γ² with γ linear along the panel.
-		icp := s * (1 - (a*a+a*b+b*b)/3)
-		ixcp := s * s * (0.5 - (a*a/12 + a*b/6 + b*b/4))
-		nx, ny := sv.ty[j], -sv.tx[j]
+		icp := s * (1 - (aa+ab+bb)*third)
+		ixcp := s * s * (0.5 - (aa*twelfth + ab*sixth + bb*0.25))
+		nx, ny := ty[j], -tx[j]
 		fx -= icp * nx
 		fy -= icp * ny
 		// Nose-up moment about c/4: Σ ∫ Cp (r − r_c/4) × n ds, and t × n = −1.
-		rx, ry := sv.x0[j]-0.25, sv.y0[j]
+		rx, ry := x0[j]-0.25, y0[j]
 		cm += (rx*ny-ry*nx)*icp - ixcp
 	}
 	sa, ca := math.Sincos(alpha)
