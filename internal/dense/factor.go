@@ -5,6 +5,8 @@ import (
 	"runtime"
 	"sync"
 	"sync/atomic"
+
+	"github.com/foilwright/foilwright/internal/par"
 )
 
 // Blocking of the factorisation, placed by measurement on the two cores
@@ -67,14 +69,23 @@ func (f *factorizer) run() {
 		f.unblocked()
 		return
 	}
-	ws := wsPool.Get().(*workspace)
-	defer wsPool.Put(ws)
+	ws := make([]*workspace, max(f.workers, 1))
+	for i := range ws {
+		ws[i] = wsPool.Get().(*workspace)
+	}
+	defer func() {
+		for _, w := range ws {
+			wsPool.Put(w)
+		}
+	}()
 	if n < blockMin {
-		f.panel(0, n, ws)
+		f.panel(0, n, ws[0])
 		return
 	}
 	nb := blockSize
-	f.panel(0, min(nb, n), ws)
+	team := par.NewTeam(f.workers)
+	defer team.Close()
+	f.panel(0, min(nb, n), ws[0])
 	shared := make([]float64, roundUp(n, mr)*nb)
 	last := 0
 	for k := 0; k < n; k += nb {
@@ -83,7 +94,7 @@ func (f *factorizer) run() {
 		if next >= n {
 			break
 		}
-		f.step(k, nb, next, min(nb, n-next), shared, ws)
+		f.step(team, k, nb, next, min(nb, n-next), shared, ws)
 	}
 	// The pivots of the last block on the columns to its left.
 	f.swapRows(last, n, 0, last)
@@ -119,7 +130,7 @@ const leftCols = 512
 // the next block first, which are then factored while the other goroutines
 // update the rest in pieces and apply the block's pivots to the columns
 // left of it.
-func (f *factorizer) step(k, jb, next, jb2 int, shared []float64, ws *workspace) {
+func (f *factorizer) step(team *par.Team, k, jb, next, jb2 int, shared []float64, ws []*workspace) {
 	n := f.n
 	rows := n - next
 	l := &packedL{a: f.a, n: n, r0: next, k: k, rows: rows, jb: jb, buf: shared,
@@ -128,34 +139,21 @@ func (f *factorizer) step(k, jb, next, jb2 int, shared []float64, ws *workspace)
 	width := chunkCols(rest)
 	chunks := (rest + width - 1) / width
 	lefts := (k + leftCols - 1) / leftCols
-	var taken atomic.Int64
-	work := func(ws *workspace) {
-		for {
-			c := int(taken.Add(1)) - 1
-			switch {
-			case c < chunks:
-				c0 := next + jb2 + c*width
-				f.update(k, jb, c0, min(c0+width, n), l, ws)
-			case c < chunks+lefts:
-				c0 := (c - chunks) * leftCols
-				f.swapRows(k, next, c0, min(c0+leftCols, k))
-			default:
-				return
-			}
+	// Task 0, the next block, is the first taken.
+	body := func(w, t int) {
+		switch {
+		case t == 0:
+			f.update(k, jb, next, next+jb2, l, ws[w])
+			f.panel(next, jb2, ws[w])
+		case t <= chunks:
+			c0 := next + jb2 + (t-1)*width
+			f.update(k, jb, c0, min(c0+width, n), l, ws[w])
+		default:
+			c0 := (t - 1 - chunks) * leftCols
+			f.swapRows(k, next, c0, min(c0+leftCols, k))
 		}
 	}
-	var wg sync.WaitGroup
-	for range min(f.workers-1, chunks+lefts) {
-		wg.Go(func() {
-			w := wsPool.Get().(*workspace)
-			work(w)
-			wsPool.Put(w)
-		})
-	}
-	f.update(k, jb, next, next+jb2, l, ws)
-	f.panel(next, jb2, ws)
-	work(ws)
-	wg.Wait()
+	team.For(1+chunks+lefts, body)
 }
 
 // update brings columns [c0, c1) up to date with block [k, k+jb): row

@@ -9,6 +9,7 @@ import (
 
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/internal/dense"
+	"github.com/foilwright/foilwright/internal/par"
 )
 
 // MaxCondition is the largest condition number (∞-norm estimate of the LU
@@ -145,7 +146,7 @@ func (sv *Solver) mid(j int) (x, y float64) {
 }
 
 // parallelMinResults is the number of angles times unknowns from which
-// Solve computes the per-angle results on two goroutines.
+// Solve shares the per-angle results out between goroutines.
 const parallelMinResults = 2000
 
 // parallelMinPanels is the panel count from which the matrix build is split
@@ -176,26 +177,18 @@ func (sv *Solver) build(workers int) []float64 {
 	if sv.blunt {
 		rows++
 	}
-	work := func(lo, hi int) {
-		var w rowScratch
-		for i := lo; i < hi; i++ {
+	// Rows in batches that the goroutines take in turn.
+	const batch = 8
+	scratch := make([]rowScratch, max(workers, 1))
+	par.For((rows+batch-1)/batch, workers, func(w, b int) {
+		for i := b * batch; i < min((b+1)*batch, rows); i++ {
 			r := i
 			if i == sv.n { // the base row comes after the Kutta row
 				r = sv.n + 1
 			}
-			sv.fillRow(data[r*m:(r+1)*m], i, &w)
+			sv.fillRow(data[r*m:(r+1)*m], i, &scratch[w])
 		}
-	}
-	if workers < 2 {
-		work(0, rows)
-	} else {
-		var wg sync.WaitGroup
-		chunk := (rows + workers - 1) / workers
-		for lo := 0; lo < rows; lo += chunk {
-			wg.Go(func() { work(lo, min(lo+chunk, rows)) })
-		}
-		wg.Wait()
-	}
+	})
 	kutta := data[sv.n*m : (sv.n+1)*m]
 	kutta[0], kutta[sv.n] = 1, 1
 	if sv.cusp { // replace the two trailing-edge collocation rows by extrapolation
@@ -379,16 +372,14 @@ func (sv *Solver) Solve(alphas []float64) ([]Case, error) {
 			cases[k] = sv.result(alpha, v, cps[k*(sv.n+1):(k+1)*(sv.n+1):(k+1)*(sv.n+1)])
 		}
 	}
-	if len(alphas) > 1 && len(alphas)*m >= parallelMinResults && runtime.GOMAXPROCS(0) > 1 {
-		// The angles in two halves, one on another goroutine.
-		h := len(alphas) / 2
-		var wg sync.WaitGroup
-		wg.Go(func() { work(h, len(alphas)) })
-		work(0, h)
-		wg.Wait()
-	} else {
-		work(0, len(alphas))
+	workers := 1
+	if len(alphas)*m >= parallelMinResults {
+		workers = runtime.GOMAXPROCS(0)
 	}
+	// Angles in batches of four that the goroutines take in turn.
+	par.For((len(alphas)+3)/4, workers, func(_, b int) {
+		work(4*b, min(4*b+4, len(alphas)))
+	})
 	sv.mu.Lock()
 	sv.timings.Solve = time.Since(t0)
 	sv.mu.Unlock()
