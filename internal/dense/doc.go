@@ -8,11 +8,12 @@
 // the trailing matrix is updated by a matrix product whose inner kernel
 // computes a 6×8 tile from packed slivers of its factors (in assembly with
 // AVX2 and FMA on amd64, as are the elimination step, axpy, dot and the
-// absolute sum; in Go elsewhere or with the purego build tag). From 160
-// rows, a second goroutine factors the next panel while the trailing
-// update is shared out in column pieces (look-ahead), so both cores stay
-// busy; smaller matrices are factored on one goroutine, up to 80 rows
-// column by column. The factors do not depend on the number of goroutines.
+// absolute sum; in Go elsewhere or with the purego build tag). Blocks are
+// used from 160 rows; from 300 rows one goroutine factors the next panel
+// while the others update the rest of the trailing matrix in column
+// pieces (look-ahead), so that both cores stay busy. Up to 80 rows the
+// factorisation goes column by column. The factors do not depend on the
+// number of goroutines.
 //
 // Built with the tag openblas (and cgo, and the OpenBLAS library: Debian's
 // libopenblas-dev), Factorize calls OpenBLAS's LAPACK dgetrf instead; the
