@@ -10,6 +10,8 @@
 #
 # Usage: scripts/solver-bench.sh            (ROUNDS=7 REPS=3 by default)
 #        ROUNDS=11 PANELS=200,400 scripts/solver-bench.sh
+#        BASELINE=6b0b095 scripts/solver-bench.sh   (adds the solver at that
+#                                                    commit as a column)
 set -euo pipefail
 cd "$(dirname "$0")/.."
 
@@ -32,15 +34,31 @@ if ! cc -O2 -o "$tmp/dgetrf_rate" scripts/peer/dgetrf_rate.c -lopenblas 2>"$tmp/
   exit 2
 fi
 go build -o "$tmp/solverbench" ./internal/solverbench
-peer_go=()
+peers=()
 if go build -tags openblas -o "$tmp/solverbench-openblas" ./internal/solverbench 2>"$tmp/go.log"; then
-  peer_go=(-peer-go "$tmp/solverbench-openblas" -peer-go-name "Go+OpenBLAS")
+  peers+=(-go-peer "Go+OpenBLAS=$tmp/solverbench-openblas")
 else
   echo "solver-bench: the -tags openblas build failed; timing the pure-Go build only:" >&2
   cat "$tmp/go.log" >&2
 fi
+if [ -n "${BASELINE:-}" ]; then
+  # The solver at an earlier commit, driven by this driver: a plain copy of
+  # that tree (git archive), this driver's main.go, and a describe.go for a
+  # tree that may predate package dense.
+  mkdir "$tmp/baseline"
+  git archive "$BASELINE" | tar -x -C "$tmp/baseline"
+  mkdir -p "$tmp/baseline/internal/solverbench"
+  cp internal/solverbench/main.go "$tmp/baseline/internal/solverbench/"
+  if [ -d "$tmp/baseline/internal/dense" ]; then
+    cp internal/solverbench/describe.go "$tmp/baseline/internal/solverbench/"
+  else
+    printf 'package main\n\nfunc factorisation() string { return "gonum mat.LU" }\n' >"$tmp/baseline/internal/solverbench/describe.go"
+  fi
+  (cd "$tmp/baseline" && go build -o "$tmp/solverbench-baseline" ./internal/solverbench)
+  peers+=(-go-peer "Go at $BASELINE=$tmp/solverbench-baseline")
+fi
 
 "$tmp/solverbench" -check -python "$python"
 echo
-"$tmp/solverbench" -python "$python" -dgetrf "$tmp/dgetrf_rate" "${peer_go[@]}" \
+"$tmp/solverbench" -python "$python" -dgetrf "$tmp/dgetrf_rate" "${peers[@]}" \
   -rounds "${ROUNDS:-7}" -reps "${REPS:-3}" -panels "${PANELS:-100,200,400,800,1600}"

@@ -7,8 +7,8 @@
 // Timings are taken in turns: in each round, for each panel count, a few
 // full solutions (build, factor, solve for the angles) by the Go solver in
 // this process, then as many by the numpy peer (a child process answering
-// on a pipe), then by each further Go peer (-peer-go, e.g. this program
-// built with -tags openblas, run with -serve). After each peer's turn the
+// on a pipe), then by each further Go peer (-go-peer, e.g. this program
+// built with -tags openblas, or at an earlier commit, run with -serve). After each peer's turn the
 // driver pauses (-settle), because OpenBLAS's idle threads keep spinning
 // for about a tenth of a second after a call and would take a core from
 // the next program timed. Each figure is the median over the rounds of the
@@ -43,16 +43,21 @@ import (
 	"time"
 
 	"github.com/foilwright/foilwright/geometry"
-	"github.com/foilwright/foilwright/internal/dense"
 	"github.com/foilwright/foilwright/plugins/builtin/vortexpanel"
 )
 
 func main() {
 	o := options{}
 	flag.StringVar(&o.python, "python", "/usr/bin/python3", "Python with numpy for the peer")
-	flag.StringVar(&o.peer, "peer", "scripts/peer/vortex_numpy.py", "the numpy peer script")
-	flag.StringVar(&o.peerGo, "peer-go", "", "another build of this program to time beside (run with -serve), named by -peer-go-name")
-	flag.StringVar(&o.peerGoName, "peer-go-name", "Go+openblas", "column title of -peer-go")
+	flag.StringVar(&o.peer, "numpy", "scripts/peer/vortex_numpy.py", "the numpy peer script")
+	flag.Func("go-peer", "`NAME=PATH`: another build of this program to time beside this one (run with -serve); repeatable", func(v string) error {
+		name, path, ok := strings.Cut(v, "=")
+		if !ok || name == "" || path == "" {
+			return errors.New("want NAME=PATH")
+		}
+		o.goPeers = append(o.goPeers, goPeer{name, path})
+		return nil
+	})
 	flag.StringVar(&o.dgetrf, "dgetrf", "", "the compiled dgetrf_rate program (OpenBLAS LU rate); empty: numpy only")
 	flag.StringVar(&o.panelList, "panels", "100,200,400,800,1600", "panel counts")
 	flag.IntVar(&o.angles, "angles", 41, "angles of attack per solution, evenly spaced in [-10°, 10°]")
@@ -77,11 +82,15 @@ func main() {
 	}
 }
 
+// goPeer is another build of this program, timed beside this one.
+type goPeer struct{ name, path string }
+
 type options struct {
-	python, peer, peerGo, peerGoName, dgetrf, panelList string
-	angles, rounds, reps                                int
-	settle                                              time.Duration
-	check, serve                                        bool
+	goPeers                         []goPeer
+	python, peer, dgetrf, panelList string
+	angles, rounds, reps            int
+	settle                          time.Duration
+	check, serve                    bool
 }
 
 func (o options) panels() ([]int, error) {
@@ -171,7 +180,7 @@ func check(o options, w io.Writer) error {
 		alphas[i] = a * math.Pi / 180
 		args = append(args, strconv.FormatFloat(a, 'g', -1, 64))
 	}
-	fmt.Fprintf(w, "Go (factorisation: %v) against numpy, %d angles: largest relative differences\n", dense.Current(), len(alphas))
+	fmt.Fprintf(w, "Go (factorisation: %s) against numpy, %d angles: largest relative differences\n", factorisation(), len(alphas))
 	fmt.Fprintf(w, "%-16s %6s  %9s  %9s  %9s  %9s  %9s\n", "section", "panels", "Cl", "Cm", "Cp", "Cp inner", "κ")
 	worst := 0.0
 	for _, s := range sections {
@@ -471,12 +480,12 @@ func bench(o options, w io.Writer) error {
 	if err != nil {
 		return err
 	}
-	var pg *peer
-	if o.peerGo != "" {
-		if pg, err = startPeer(o.peerGo, "-serve"); err != nil {
+	pgs := make([]*peer, len(o.goPeers))
+	for k, g := range o.goPeers {
+		if pgs[k], err = startPeer(g.path, "-serve"); err != nil {
 			return err
 		}
-		defer pg.close()
+		defer pgs[k].close()
 	}
 	alphas := sweep(o.angles)
 	nodes := make([][]geometry.Point, len(panels))
@@ -490,7 +499,10 @@ func bench(o options, w io.Writer) error {
 	goT := make([]stat, len(panels))
 	phase := make([][3]stat, len(panels))
 	npT := make([]stat, len(panels))
-	pgT := make([]stat, len(panels))
+	pgT := make([][]stat, len(o.goPeers))
+	for k := range pgT {
+		pgT[k] = make([]stat, len(panels))
+	}
 	ratio := make([]stat, len(panels))
 	bestKernel := 0.0 // kernel evaluations per second
 	bestLU := map[string]float64{}
@@ -522,13 +534,13 @@ func bench(o options, w io.Writer) error {
 			goT[i] = append(goT[i], g)
 			npT[i] = append(npT[i], p)
 			ratio[i] = append(ratio[i], p/g)
-			if pg != nil {
+			for k, pg := range pgs {
 				tg, err := pg.ask("time %s %d %d", paths[i], o.reps, o.angles)
 				if err != nil {
 					return err
 				}
 				time.Sleep(o.settle)
-				pgT[i] = append(pgT[i], median(tg))
+				pgT[k][i] = append(pgT[k][i], median(tg))
 			}
 		}
 		// The LU rate, measured between the rounds.
@@ -559,7 +571,7 @@ func bench(o options, w io.Writer) error {
 	slices.Sort(luKeys)
 	fmt.Fprintf(w, "vortex-panel solver, NACA 2412 (sharp trailing edge), %d angles; %d rounds of %d solutions per program, interleaved\n",
 		o.angles, o.rounds, o.reps)
-	fmt.Fprintf(w, "Go: factorisation %v, GOMAXPROCS %d; peer: %s\n", dense.Current(), runtime.GOMAXPROCS(0), info)
+	fmt.Fprintf(w, "Go: factorisation %s, GOMAXPROCS %d; peer: %s\n", factorisation(), runtime.GOMAXPROCS(0), info)
 	fmt.Fprintf(w, "median over rounds (range over rounds)\n\n")
 	fmt.Fprintf(w, "dense LU rates (best of the run, GFLOP/s, ⅔N³ flops at N = %d):\n", luN)
 	for _, k := range luKeys {
@@ -569,8 +581,8 @@ func bench(o options, w io.Writer) error {
 	fmt.Fprintf(w, "limit = ⅔N³ / %.1f GFLOP/s + N² / %.3g per second\n\n", lu, bestKernel)
 	head := fmt.Sprintf("| panels | Go ms | numpy ms | numpy/Go | limit ms | Go/limit |")
 	rule := "| ---: | ---: | ---: | ---: | ---: | ---: |"
-	if pg != nil {
-		head += fmt.Sprintf(" %s ms | %s/limit |", o.peerGoName, o.peerGoName)
+	for _, g := range o.goPeers {
+		head += fmt.Sprintf(" %s ms | %s/limit |", g.name, g.name)
 		rule += " ---: | ---: |"
 	}
 	fmt.Fprintln(w, head)
@@ -589,12 +601,12 @@ func bench(o options, w io.Writer) error {
 			gl[k] = v / limit
 		}
 		fmt.Fprintf(w, "| %d | %v | %v | %v | %.3g | %v |", n, ms(goT[i]), ms(npT[i]), ratio[i], limit*1e3, gl)
-		if pg != nil {
-			pl := make(stat, len(pgT[i]))
-			for k, v := range pgT[i] {
-				pl[k] = v / limit
+		for k := range pgs {
+			pl := make(stat, len(pgT[k][i]))
+			for r, v := range pgT[k][i] {
+				pl[r] = v / limit
 			}
-			fmt.Fprintf(w, " %v | %v |", ms(pgT[i]), pl)
+			fmt.Fprintf(w, " %v | %v |", ms(pgT[k][i]), pl)
 		}
 		fmt.Fprintln(w)
 	}
