@@ -8,8 +8,8 @@ package par
 
 import (
 	"runtime"
-	"sync"
 	"sync/atomic"
+	"time"
 )
 
 // For calls body(w, i) for every i in [0, n), on the calling goroutine
@@ -49,18 +49,24 @@ func For(n, workers int, body func(w, i int)) {
 	<-finished
 }
 
-// A Team is a set of helper goroutines kept busy-waiting between loops, for
-// a caller that runs many short loops in a row (the steps of a
-// factorisation): starting goroutines for each loop would cost a wake-up
-// of an idle thread every time, tens of microseconds on a virtual machine.
-// The helpers yield the processor while they wait (runtime.Gosched) and
-// stop at Close. A Team's methods must be called from one goroutine.
+// A Team is a set of helper goroutines kept between loops, for a caller
+// that runs many short loops in a row (the steps of a factorisation):
+// starting goroutines for each loop would cost a wake-up of a parked
+// thread every time, tens of microseconds on a virtual machine. Between
+// loops a helper spins, yielding the processor to other goroutines
+// (runtime.Gosched), for up to spinFor; then it parks until the next loop,
+// so that it does not take a core from other programs while the caller
+// works alone. A Team's methods must be called from one goroutine.
 type Team struct {
 	workers int
 	cur     atomic.Pointer[loop]
 	stop    atomic.Bool
-	idle    sync.WaitGroup
+	parked  atomic.Int32
+	wake    chan struct{}
 }
+
+// spinFor is how long an idle helper spins before it parks.
+const spinFor = 50 * time.Microsecond
 
 // loop is one For of a Team.
 type loop struct {
@@ -86,24 +92,40 @@ func (l *loop) run(w int) {
 
 // NewTeam starts workers−1 helpers (none if workers < 2).
 func NewTeam(workers int) *Team {
-	t := &Team{workers: max(workers, 1)}
+	t := &Team{workers: max(workers, 1), wake: make(chan struct{}, max(workers, 1))}
 	for w := 1; w < t.workers; w++ {
-		t.idle.Add(1)
-		go func() {
-			defer t.idle.Done()
-			var last *loop
-			for !t.stop.Load() {
-				l := t.cur.Load()
-				if l == nil || l == last {
-					runtime.Gosched()
-					continue
-				}
-				last = l
-				l.run(w)
-			}
-		}()
+		go t.help(w)
 	}
 	return t
+}
+
+// help is the loop of helper w.
+func (t *Team) help(w int) {
+	var last *loop
+	idleSince := time.Now()
+	for !t.stop.Load() {
+		if l := t.cur.Load(); l != nil && l != last {
+			last = l
+			l.run(w)
+			idleSince = time.Now()
+			continue
+		}
+		if time.Since(idleSince) < spinFor {
+			runtime.Gosched()
+			continue
+		}
+		// Park, announcing it first and looking again after, so that a
+		// loop published meanwhile is not missed (For wakes parked helpers
+		// after publishing).
+		t.parked.Add(1)
+		if l := t.cur.Load(); l != nil && l != last || t.stop.Load() {
+			t.parked.Add(-1)
+			continue
+		}
+		<-t.wake
+		t.parked.Add(-1)
+		idleSince = time.Now()
+	}
 }
 
 // For is par.For on the team: body(w, i) for every i in [0, n), on the
@@ -121,12 +143,23 @@ func (t *Team) For(n int, body func(w, i int)) {
 	}
 	l := &loop{n: int64(n), body: body, finished: make(chan struct{})}
 	t.cur.Store(l)
+	for range t.parked.Load() {
+		select {
+		case t.wake <- struct{}{}:
+		default:
+		}
+	}
 	l.run(0)
 	<-l.finished
 }
 
-// Close stops the helpers and waits for them to return.
+// Close lets the helpers return, without waiting for them.
 func (t *Team) Close() {
 	t.stop.Store(true)
-	t.idle.Wait()
+	for range t.workers {
+		select {
+		case t.wake <- struct{}{}:
+		default:
+		}
+	}
 }

@@ -58,6 +58,9 @@ func TestTeam(t *testing.T) {
 	for _, workers := range []int{1, 2, 3} {
 		team := NewTeam(workers)
 		for round := range 200 {
+			if round%50 == 49 {
+				time.Sleep(time.Millisecond) // long enough for the helpers to park
+			}
 			n := round % 13
 			counts := make([]atomic.Int32, n)
 			team.For(n, func(w, i int) {
