@@ -57,6 +57,19 @@ func workersFor(n int) int {
 
 var wsPool = sync.Pool{New: func() any { return new(workspace) }}
 
+// sharedPool recycles the buffers of the packed blocks of L (up to a
+// megabyte), which cost page faults and zeroing when fresh.
+var sharedPool sync.Pool // of *[]float64
+
+func getShared(size int) *[]float64 {
+	if p, ok := sharedPool.Get().(*[]float64); ok && cap(*p) >= size {
+		*p = (*p)[:size]
+		return p
+	}
+	b := make([]float64, size)
+	return &b
+}
+
 // factorizer holds the state of one factorisation.
 type factorizer struct {
 	n        int
@@ -89,7 +102,9 @@ func (f *factorizer) run() {
 	team := par.NewTeam(f.workers)
 	defer team.Close()
 	f.panel(0, min(nb, n), ws[0])
-	shared := make([]float64, roundUp(n, mr)*nb)
+	sp := getShared(roundUp(n, mr) * nb)
+	defer sharedPool.Put(sp)
+	shared := *sp
 	last := 0
 	for k := 0; k < n; k += nb {
 		last = k

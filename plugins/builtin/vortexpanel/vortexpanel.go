@@ -85,8 +85,10 @@ func New(nodes []geometry.Point) (*Solver, error) {
 	t2 := time.Now()
 	sv.timings = Timings{Build: t1.Sub(t0), Factor: t2.Sub(t1)}
 	if !(sv.cond <= MaxCondition) {
+		putMatrix(&a)
 		return nil, &ConditionError{Cond: sv.cond}
 	}
+	recycleWith(sv, a)
 	return sv, nil
 }
 
@@ -169,10 +171,10 @@ func buildWorkers(n int) int {
 // the midpoint of panel i, row n the Kutta condition and, for a blunt
 // trailing edge, row n+1 the normal velocity at the base panel's midpoint.
 // Columns 0…n are the node strengths γ, column n+1 the base source σ. The
-// matrix is returned row-major.
+// matrix is returned row-major, every entry written (it may be recycled).
 func (sv *Solver) build(workers int) []float64 {
 	m := sv.size()
-	data := make([]float64, m*m)
+	data := getMatrix(m * m)
 	rows := sv.n
 	if sv.blunt {
 		rows++
@@ -190,6 +192,7 @@ func (sv *Solver) build(workers int) []float64 {
 		}
 	})
 	kutta := data[sv.n*m : (sv.n+1)*m]
+	clear(kutta)
 	kutta[0], kutta[sv.n] = 1, 1
 	if sv.cusp { // replace the two trailing-edge collocation rows by extrapolation
 		n := sv.n
@@ -223,9 +226,10 @@ type rowScratch struct {
 }
 
 // fillRow writes the normal-velocity influence of every panel at the
-// midpoint of panel i (the base panel when i == n) into row.
+// midpoint of panel i (the base panel when i == n) into row, every entry.
 func (sv *Solver) fillRow(row []float64, i int, w *rowScratch) {
 	const inv2pi = 1 / (2 * math.Pi)
+	clear(row)
 	px, py := sv.mid(i)
 	// Outward normal of panel i: the right-hand normal of its direction.
 	nx, ny := sv.ty[i], -sv.tx[i]
