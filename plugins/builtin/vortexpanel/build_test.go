@@ -130,7 +130,7 @@ func TestBuildOverwritesRecycledMatrix(t *testing.T) {
 			for i := range poison {
 				poison[i] = math.NaN()
 			}
-			for matrixPool.Get() != nil { // empty the pool, so that the poison comes next
+			for matrixPool(len(want)).Get() != nil { // empty the pool, so that the poison comes next
 			}
 			putMatrix(&poison)
 			got := sv.build(1)

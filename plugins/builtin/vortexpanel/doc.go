@@ -62,9 +62,10 @@
 // # Sweeps
 //
 // The influence matrix depends on the geometry only, so New builds and
-// factors it once. The solution is linear in (cos α, sin α): Solve computes
-// the α = 0 and α = 90° solutions by two back-substitutions and obtains every
-// angle of a sweep by superposition.
+// factors it once, and the solution is linear in (cos α, sin α): New
+// computes the α = 0 and α = 90° solutions by two back-substitutions, and
+// Solve obtains every angle of a sweep by superposition. A Solver keeps
+// those two solutions, not the matrix.
 //
 // # Speed
 //
@@ -76,5 +77,6 @@
 // shared between goroutines. The matrix is factored by package
 // internal/dense (blocked LU with partial pivoting on both cores, or
 // OpenBLAS with the openblas build tag), whose condition estimate is the
-// one Cond reports.
+// one Cond reports, and then goes back to a pool for the next New of the
+// same size: a fresh matrix of megabytes costs page faults and zeroing.
 package vortexpanel

@@ -36,14 +36,15 @@ func (e *ConditionError) Error() string {
 func (e *ConditionError) Unwrap() error { return ErrIllConditioned }
 
 // Timings are the durations of the phases of a solution, measured inside the
-// solver: building the influence matrix and factoring it (both in New), and
-// the last call to Solve (two back-substitutions and the per-angle results).
+// solver: building the influence matrix, and factoring it with the two
+// back-substitutions for α = 0 and α = 90° (both in New), and the last call
+// to Solve (the per-angle results).
 type Timings struct {
 	Build, Factor, Solve time.Duration
 }
 
-// Solver holds a section's panels and the factored influence matrix. It is
-// safe for concurrent use.
+// Solver holds a section's panels and the solutions for α = 0 and α = 90°,
+// of which every angle's is a combination. It is safe for concurrent use.
 type Solver struct {
 	nodes []geometry.Point
 	n     int  // panels along the surface
@@ -54,8 +55,8 @@ type Solver struct {
 	x0, y0, tx, ty, s []float64
 	arc               []float64 // arc length from node 0 to each node
 	arr               panelArrays
-	gap               float64 // base panel length (0 for a sharp TE)
-	lu                dense.LU
+	gap               float64   // base panel length (0 for a sharp TE)
+	base              []float64 // solutions for α = 0 and 90°, row-major m×2
 	cond              float64
 
 	mu      sync.Mutex
@@ -80,15 +81,22 @@ func New(nodes []geometry.Point) (*Solver, error) {
 	}
 	a := sv.build(buildWorkers(sv.n))
 	t1 := time.Now()
-	sv.lu.Factorize(sv.size(), a)
-	sv.cond = sv.lu.Cond()
+	// The factors serve only the two right-hand sides: the matrix goes
+	// back to the pool at once.
+	var lu dense.LU
+	lu.Factorize(sv.size(), a)
+	sv.cond = lu.Cond()
+	var err2 error
+	if sv.cond <= MaxCondition {
+		sv.base = sv.rhs()
+		err2 = lu.Solve(sv.base, 2)
+	}
+	putMatrix(&a)
 	t2 := time.Now()
 	sv.timings = Timings{Build: t1.Sub(t0), Factor: t2.Sub(t1)}
-	if !(sv.cond <= MaxCondition) {
-		putMatrix(&a)
+	if !(sv.cond <= MaxCondition) || err2 != nil {
 		return nil, &ConditionError{Cond: sv.cond}
 	}
-	recycleWith(sv, a)
 	return sv, nil
 }
 
@@ -349,7 +357,7 @@ type Case struct {
 }
 
 // Solve returns the solution at each angle of attack (radians) by
-// superposition of the α = 0 and α = 90° solutions of the factored system.
+// superposition of the α = 0 and α = 90° solutions New computed.
 // It returns an error wrapping ErrNonFinite or ErrAlphaRange for a bad angle.
 func (sv *Solver) Solve(alphas []float64) ([]Case, error) {
 	if err := checkAlphas(alphas); err != nil {
@@ -357,10 +365,7 @@ func (sv *Solver) Solve(alphas []float64) ([]Case, error) {
 	}
 	t0 := time.Now()
 	m := sv.size()
-	b := sv.rhs()
-	if err := sv.lu.Solve(b, 2); err != nil {
-		return nil, &ConditionError{Cond: sv.cond}
-	}
+	b := sv.base
 	cases := make([]Case, len(alphas))
 	// One allocation each for the solutions and the pressures of all angles.
 	vs := make([]float64, m*len(alphas))
