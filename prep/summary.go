@@ -80,7 +80,11 @@ func WriteSectionReport(w io.Writer, s *section.Section, thicknessMode, camberMo
 	if te := s.TrailingEdge; te != nil {
 		fmt.Fprintf(w, "  trailing    %s, thickness %.4g c, %s", te.Kind, te.Thickness, te.Action)
 		if te.Target != nil {
-			fmt.Fprintf(w, " to %.4g c over %.3g c ahead of the edge", *te.Target, te.Blend)
+			if fr := s.Frame; fr != nil && u != "" && u != geometry.ChordUnit {
+				fmt.Fprintf(w, " to %s over %s ahead of the edge", lengthG(*te.Target*fr.Chord, 4, u), lengthG(te.Blend*fr.Chord, 4, u))
+			} else {
+				fmt.Fprintf(w, " to %.4g c over %.4g c ahead of the edge", *te.Target, te.Blend)
+			}
 		}
 		if te.MaxShift > 0 {
 			fmt.Fprintf(w, " (largest shift %s)", LengthText(te.MaxShift, u))

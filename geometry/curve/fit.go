@@ -588,7 +588,11 @@ func finishReport(c *geometry.Contour, opts FitOptions, n int, rep *FitReport) {
 	}
 	rep.Warnings = ws2
 	if len(rep.Beyond) > 0 {
-		rep.Warnings = append(rep.Warnings, fmt.Sprintf("%d point(s) farther than %.3g from the curve (worst %.3g at %s)", len(rep.Beyond), rep.Tolerance, rep.Max, rep.MaxAt))
+		unit := string(c.Units)
+		if c.Units == geometry.ChordUnit {
+			unit = "c"
+		}
+		rep.Warnings = append(rep.Warnings, strings.TrimSpace(fmt.Sprintf("%d point(s) farther than %.3g %s from the curve (worst %.3g %s at %s)", len(rep.Beyond), rep.Tolerance, unit, rep.Max, unit, rep.MaxAt)))
 	}
 }
 
