@@ -22,8 +22,8 @@ func describe(p *Placed, prefix string) string {
 	case FrameChord:
 		fmt.Fprintf(&b, "%s%s: normalised section (leading edge at 0,0, trailing edge at 1,0), chord units\n", prefix, name)
 	default:
-		fmt.Fprintf(&b, "%s%s: section in part coordinates, chord %s %s, twist %s deg nose-up, leading edge at (%s, %s)",
-			prefix, name, num(round(p.Chord, 9)), unitWord(p.Units), num(round(p.TwistDeg, 9)), num(round(p.LE.X, 9)), num(round(p.LE.Y, 9)))
+		fmt.Fprintf(&b, "%s%s: section in part coordinates, chord %s %s, twist %s deg nose-up, leading edge at (%s, %s) %s",
+			prefix, name, num(round(p.Chord, 9)), unitWord(p.Units), num(round(p.TwistDeg, 9)), num(round(p.LE.X, 9)), num(round(p.LE.Y, 9)), unitWord(p.Units))
 		if p.Mirrored {
 			b.WriteString(", mirrored")
 		}

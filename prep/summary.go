@@ -32,9 +32,13 @@ func (p *Preparation) OneLine() string {
 // main properties and the warnings.
 func (p *Preparation) WriteSummary(w io.Writer) {
 	s := p.Section
-	notes := 0
+	notes := 0 // lines skipped: notes of a line (a DXF's entities on other layers are not lines)
 	for _, c := range p.Clouds {
-		notes += len(c.Notes)
+		for _, n := range c.Notes {
+			if n.Origin.Line > 0 {
+				notes++
+			}
+		}
 	}
 	fmt.Fprintf(w, "%s: %d points read from %s (%d lines skipped), %d used, %d dropped\n",
 		s.Name, s.Source.PointsRead, strings.Join(s.Source.Files, ", "), notes, s.Source.PointsUsed, len(s.Source.Dropped))

@@ -92,7 +92,8 @@ func TestExamplePipelines(t *testing.T) {
 		sections int
 		files    []string // some outputs that must exist
 	}{
-		{"tunnel-model", 1, []string{"midspan/section.json", "midspan/results/vortex.json", "midspan/plots/polar.svg", "midspan/plots/streamlines-vortex.svg"}},
+		{"tunnel-model", 1, []string{"midspan/section.json", "midspan/results/vortex.json", "midspan/plots/polar.svg", "midspan/plots/streamlines-vortex.svg",
+			"midspan/export/section.geo", "midspan/export/template.svg", "midspan/export/cp.csv"}},
 		{"rotor", 5, []string{"r700/results/stiffness.json", "r300/plots/prep.svg", "stations.svg"}},
 	} {
 		t.Run(ex.name, func(t *testing.T) {
@@ -111,6 +112,9 @@ func TestExamplePipelines(t *testing.T) {
 				if _, err := os.Stat(filepath.Join(first, f)); err != nil {
 					t.Errorf("missing output %s", f)
 				}
+			}
+			if ex.name == "rotor" {
+				checkRunExports(t, first)
 			}
 			// Two runs (1 and 2 workers) give identical bytes everywhere but
 			// in the manifest, whose timings differ.

@@ -92,18 +92,11 @@ func TestExportRoundTrip(t *testing.T) {
 	}
 }
 
-// Polars and Cp from a run folder, and the stations of the rotor, through
-// export; the pipeline file's outputs.exports writes the same files.
-func TestExportFromRunFolders(t *testing.T) {
-	if testing.Short() {
-		t.Skip("runs the example pipelines")
-	}
+// checkRunExports exports polars and the stations of the rotor's run
+// folder run (made by TestExamplePipelines) and checks them against the
+// files the pipeline file's outputs.exports wrote.
+func checkRunExports(t *testing.T, run string) {
 	dir := t.TempDir()
-	copyExample(t, dir)
-	run := filepath.Join(dir, "run")
-	if _, stderr, code := runCLI(t, "run", filepath.Join(dir, "examples", "rotor", "pipeline.json"), "-o", run, "-q", "--jobs", "2"); code != 0 {
-		t.Fatal(stderr)
-	}
 	polars := filepath.Join(dir, "polars.csv")
 	stdout, stderr, code := runCLI(t, "export", run, "--to", "polar-csv", "-o", polars)
 	if code != 0 || !strings.Contains(stdout, "of r300, r500, r700, r900, r1100") {

@@ -128,7 +128,13 @@ func writePointsReport(w io.Writer, cl *prep.Cleaned, allNotes bool) {
 		if c.Dim == 3 {
 			dim = "3D"
 		}
-		fmt.Fprintf(w, "%s: %s, %d %s points, %d line(s) skipped, units %s\n", cl.Files[i], c.Format, c.Len(), dim, len(c.Notes), c.Units)
+		lines := 0
+		for _, n := range c.Notes {
+			if n.Origin.Line > 0 {
+				lines++
+			}
+		}
+		fmt.Fprintf(w, "%s: %s, %d %s points, %d line(s) skipped, units %s\n", cl.Files[i], c.Format, c.Len(), dim, lines, c.Units)
 		for k, n := range c.Notes {
 			if k == 5 && !allNotes {
 				fmt.Fprintf(w, "  ... %d more skipped line(s) (--notes lists them)\n", len(c.Notes)-k)

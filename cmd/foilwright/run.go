@@ -6,6 +6,8 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"path/filepath"
+	"strings"
 	"sync"
 	"time"
 
@@ -119,6 +121,9 @@ func runPipeline(cmd *cobra.Command, path string, opts runOptions) error {
 		Done: prog.done,
 	})
 	prog.finish()
+	if sum != nil {
+		sum.Manifest = displayPath(sum.Manifest)
+	}
 	if sum != nil && !opts.quiet {
 		if opts.json {
 			if err := writeJSON(stdout, summaryJSON(sum)); err != nil {
@@ -173,6 +178,23 @@ func runVerify(cmd *cobra.Command, manifest string, opts runOptions) error {
 		return fmt.Errorf("%d output(s) differ, %d section outcome(s) changed", len(rep.Differences), len(rep.Changes))
 	}
 	return nil
+}
+
+// displayPath returns path relative to the current folder when it lies
+// inside it, as the user would type it, else as it is.
+func displayPath(path string) string {
+	wd, err := os.Getwd()
+	if err != nil {
+		return path
+	}
+	abs, err := filepath.Abs(path)
+	if err != nil {
+		return path
+	}
+	if rel, err := filepath.Rel(wd, abs); err == nil && rel != ".." && !strings.HasPrefix(rel, ".."+string(filepath.Separator)) {
+		return rel
+	}
+	return path
 }
 
 // writeJSON writes v as indented JSON and a newline.
