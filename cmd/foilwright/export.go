@@ -25,8 +25,8 @@ type exportOptions struct {
 	frame    string
 	chord    lengthValue
 	farfield float64
-	wallSize float64
-	farSize  float64
+	wallSize wordFloat
+	farSize  wordFloat
 	quiet    bool
 	json     bool
 }
@@ -145,13 +145,15 @@ Results are inviscid estimates: check them against test data.`,
 	f.StringVar(&opts.frame, "frame", export.FramePart, "coordinates: part (the part's, through the section's frame, in its unit) or chord (normalised)")
 	f.Var(&opts.chord, "chord", "scale a normalised section to this chord, in the part frame, e.g. 150mm or 6in (leading edge at the origin, no twist)")
 	f.Float64Var(&opts.farfield, "farfield", export.DefaultFarfield, "for --to geo: radius of the far-field circle round mid-chord (chords)")
-	f.Float64Var(&opts.wallSize, "wall-size", 0, "for --to geo: mesh size at the section (chords; 0: the panel length at each node)")
-	f.Float64Var(&opts.farSize, "far-size", 0, fmt.Sprintf("for --to geo: mesh size at the far field (chords; 0: the far-field radius / %d)", export.DefaultFarDivisions))
+	opts.wallSize = wordFloat{word: "auto", min: 0, open: true, kind: "size"}
+	opts.farSize = wordFloat{word: "auto", min: 0, open: true, kind: "size"}
+	f.Var(&opts.wallSize, "wall-size", "for --to geo: mesh size at the section (chords; auto: the panel length at each node)")
+	f.Var(&opts.farSize, "far-size", fmt.Sprintf("for --to geo: mesh size at the far field (chords; auto: the far-field radius / %d)", export.DefaultFarDivisions))
 	cmd.RegisterFlagCompletionFunc("frame", fixedCompletions(export.Frames()...))
 	cmd.RegisterFlagCompletionFunc("chord", fixedCompletions("100mm", "150mm", "200mm", "6in"))
 	cmd.RegisterFlagCompletionFunc("farfield", fixedCompletions("10", "20", "50"))
-	cmd.RegisterFlagCompletionFunc("wall-size", fixedCompletions("0", "0.001", "0.005"))
-	cmd.RegisterFlagCompletionFunc("far-size", fixedCompletions("0", "1", "2.5"))
+	cmd.RegisterFlagCompletionFunc("wall-size", fixedCompletions("auto", "0.001", "0.005"))
+	cmd.RegisterFlagCompletionFunc("far-size", fixedCompletions("auto", "1", "2.5"))
 	cmd.AddCommand(newExportStationsCmd())
 	return cmd
 }
@@ -190,7 +192,13 @@ func runExport(cmd *cobra.Command, args []string, opts *exportOptions) error {
 	if err != nil {
 		return badInput(err)
 	}
-	eo := export.Options{Geo: export.GeoOptions{Farfield: opts.farfield, WallSize: opts.wallSize, FarSize: opts.farSize}}
+	eo := export.Options{Geo: export.GeoOptions{Farfield: opts.farfield}}
+	if v := opts.wallSize.ptr(); v != nil {
+		eo.Geo.WallSize = *v
+	}
+	if v := opts.farSize.ptr(); v != nil {
+		eo.Geo.FarSize = *v
+	}
 	if err := writeOutput(stdout, opts.out, func(w io.Writer) error { return export.Write(w, opts.to, p, eo) }); err != nil {
 		if errors.Is(err, export.ErrNoScale) {
 			return badInput(err)
