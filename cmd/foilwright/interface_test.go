@@ -199,7 +199,11 @@ func TestJSONReports(t *testing.T) {
 	if code != 0 || json.Unmarshal([]byte(stdout), &list) != nil || len(list) < 4 || list[0].Name == "" {
 		t.Errorf("stages --json: exit %d, %q", code, stdout)
 	}
-	stdout, _, code = runCLI(t, "run", "../../examples/rotor/pipeline.json", "--plan", "--json")
+	// The rotor names its custom stage's executable, which a clean clone
+	// has not built: plan a copy with the stage built beside it.
+	dir := t.TempDir()
+	copyExample(t, dir)
+	stdout, _, code = runCLI(t, "run", filepath.Join(dir, "examples", "rotor", "pipeline.json"), "--plan", "--json")
 	var plan planReportJSON
 	if code != 0 || json.Unmarshal([]byte(stdout), &plan) != nil || len(plan.Sections) != 5 || *plan.Sections[2].Station != 700 {
 		t.Errorf("run --plan --json: exit %d, %q", code, stdout)
