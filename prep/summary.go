@@ -52,8 +52,10 @@ func (p *Preparation) WriteSummary(w io.Writer) {
 		fmt.Fprintf(w, "  dropped %s: %s\n", at, d.Reason)
 	}
 	for i, c := range p.Clouds {
-		// The plain case (the numbers of each line) goes without saying.
-		if c.Columns != "" && i < len(s.Source.Files) && (c.ColumnsGuessed || !strings.HasSuffix(c.Columns, "(the numbers of each line)")) {
+		// The plain case (the first columns, x, y and z) goes without
+		// saying.
+		plain := strings.HasPrefix(c.Columns, "1, 2 (") || strings.HasPrefix(c.Columns, "1, 2, 3 (")
+		if c.Columns != "" && i < len(s.Source.Files) && (c.ColumnsGuessed || !plain) {
 			fmt.Fprintf(w, "  columns     %s: %s\n", s.Source.Files[i], c.Columns)
 		}
 	}

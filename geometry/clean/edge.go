@@ -452,7 +452,7 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, scat float64) (endM
 	sepEnd := u.at(xmax) - l.at(xmax)
 	if xc, ok := crossing(u, l, xmax, xmax-edgeZone, xmax+edgeCross); ok {
 		c := geometry.Point{X: xc, Y: u.at(xc)}
-		if xc < xmax {
+		if xc < xmax+step/20 {
 			// The fits cross short of the points (a thin edge, noisy):
 			// the surfaces run on to the aftmost point, where they are
 			// within the scatter of each other; that point is the corner
@@ -564,6 +564,14 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, scat float64) (endM
 
 // edgeTrace, when set (by a debugging test), receives the scores.
 var edgeTrace func(string, ...any)
+
+// snapTol is how near (chord units) a point must lie to a corner the end
+// model places for the corner to be that point: within twice the scatter,
+// or a twentieth of the local step (on exact data the fits carried to the
+// corner miss it by their own small error).
+func snapTol(scat, step float64) float64 {
+	return max(2*scat, step/20)
+}
 
 // sampled reports whether a point of z lies within d of c.
 func sampled(z []geometry.Point, c geometry.Point, d float64) bool {
@@ -707,7 +715,7 @@ func (m endModel) apply(pts []geometry.Point, seq []int32, f chordFrame, u, l qu
 				near, nd = j, d
 			}
 		}
-		if near >= 0 && nd <= 2*scat {
+		if near >= 0 && nd <= snapTol(scat, step) {
 			at := slices.Index(out, seq[zpos[near]])
 			e.Upper = pts[out[at]]
 			e.Lower = e.Upper
@@ -720,6 +728,17 @@ func (m endModel) apply(pts []geometry.Point, seq []int32, f chordFrame, u, l qu
 		e.Upper, e.Lower, e.Reconstructed = f.point(m.hi.X, m.hi.Y), f.point(m.lo.X, m.lo.Y), true
 		e.Thickness = m.hi.Dist(m.lo) * f.chord
 		e.Base = len(end)
+		// A corner that a point sampled is that point.
+		tol := snapTol(scat, step) * f.chord
+		first, last := out[0], out[len(out)-1-e.Base]
+		snapU, snapL := pts[first].Dist(e.Upper) <= tol, pts[last].Dist(e.Lower) <= tol
+		if snapU {
+			e.Upper = pts[first]
+		}
+		if snapL {
+			e.Lower = pts[last]
+		}
+		e.Reconstructed = !snapU || !snapL
 		if e.Base == 0 {
 			e.Why = fmt.Sprintf("the surfaces end %.3g chord apart, with no point between them", m.hi.Dist(m.lo))
 		} else {
