@@ -479,8 +479,18 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, scat float64) (endM
 			m.scoreOf(u, l, z, scat)
 			models = append(models, m)
 		}
-	} else if sepEnd <= 2*scat {
+	}
+	if sepEnd <= edgeCap*scat {
+		// The surfaces end within a few scatters of each other at the
+		// aftmost point: a thin sharp edge whose corner is that point (when
+		// it lies between them) or the middle there, however far on the
+		// fits would cross (near a thin edge the crossing is ill-posed).
 		c := geometry.Point{X: xmax, Y: (u.at(xmax) + l.at(xmax)) / 2}
+		for _, p := range z {
+			if p.X == xmax && math.Abs(p.Y-c.Y) <= math.Abs(sepEnd)/2+2*scat {
+				c = p
+			}
+		}
 		m := endModel{kind: EdgeSharp, xu: xmax, xl: xmax, corner: c}
 		m.scoreOf(u, l, z, scat)
 		models = append(models, m)
