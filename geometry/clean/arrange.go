@@ -27,6 +27,45 @@ const (
 	OrderBand = "band"
 )
 
+// spared marks, by point index, the points near the trailing edge of the
+// loop seq, which the generic outlier test spares for the edge's models
+// (findEdge): the edge is found on the loop without the points a first
+// generic pass calls outliers, since one near the edge could pass for its
+// end. It returns nil when no edge is found.
+func (cl *cleaning) spared(seq []int32, sigma float64, lf localFits) []bool {
+	pts := cl.pts
+	_, _, _, first := dropOutliers(pts, seq, sigma, true, lf, nil)
+	out := make(map[int32]bool, len(first))
+	for _, h := range first {
+		out[h.idx] = true
+	}
+	reduced := slices.DeleteFunc(slices.Clone(seq), func(i int32) bool { return out[i] })
+	if len(reduced) < minPoints {
+		return nil
+	}
+	ef, ok := findEdge(pts, orient(pts, reduced), 0)
+	if !ok {
+		return nil
+	}
+	// The end zone, where the end models judge: within edgeZone of the
+	// chord of the aftmost point, and near the edge (a point beside it,
+	// off a surface, is the generic test's).
+	exempt := make([]bool, len(pts))
+	te, r := ef.edge.Upper.Add(ef.edge.Lower).Scale(0.5), edgeSpare*edgeZone*ef.edge.Chord
+	if ef.edge.Kind == EdgeRounded {
+		te = pts[ef.seq[0]]
+	}
+	for _, i := range seq {
+		x, _ := ef.frame.at(pts[i])
+		exempt[i] = x >= 1-edgeZone && pts[i].Dist(te) <= r
+	}
+	return exempt
+}
+
+// edgeSpare is the radius, in end zones (edgeZone of the chord), about
+// the trailing edge within which the generic outlier test spares points.
+const edgeSpare = 1.5
+
 // minCoverage is the least share of the distinct points the section loop
 // must keep (gate "coverage"): outliers are a few per cent of a scan, so a
 // loop that leaves more out has missed part of the outline.
@@ -80,7 +119,7 @@ func (cl *cleaning) arrange(opts Options, sigma float64) (*attempt, error) {
 	loops, rest := cl.linkLoops()
 	walls := substantial(cl.pts, loops, cl.diag)
 	if walls > 1 || opts.Loop > 0 {
-		a := cl.evaluate(OrderLinked, loops, rest, opts, sigma, localFits{})
+		a := cl.evaluate(OrderLinked, loops, rest, opts, sigma, localFits{}, true)
 		if pass(a) || a.err != nil {
 			if a.err != nil {
 				return nil, a.err
@@ -93,7 +132,7 @@ func (cl *cleaning) arrange(opts Options, sigma float64) (*attempt, error) {
 			return finish(a)
 		}
 		if walls == 1 {
-			if a := cl.evaluate(OrderLinked, loops, rest, opts, sigma, localFits{}); pass(a) {
+			if a := cl.evaluate(OrderLinked, loops, rest, opts, sigma, localFits{}, true); pass(a) {
 				return finish(a)
 			}
 		}
@@ -140,7 +179,7 @@ func (cl *cleaning) fromFile(opts Options, sigma float64) *attempt {
 	}
 	join(pts, cl.nb, g)
 	loops, rest := g.components(minPoints)
-	a := cl.evaluate(OrderFile, loops, rest, opts, sigma, localFits{})
+	a := cl.evaluate(OrderFile, loops, rest, opts, sigma, localFits{}, true)
 	if a.fail == "" && a.err == nil {
 		cl.rep.OrderKept = true
 	}
@@ -159,7 +198,7 @@ func (cl *cleaning) linkLoops() (loops, rest [][]int32) {
 func (cl *cleaning) byBandLoops(opts Options, sigma float64) *attempt {
 	loops, rest, per := byBand(cl.pts, cl.nb, cl.lo, cl.hi)
 	band := min(max(fitK, 2*per), maxBandFit)
-	a := cl.evaluate(OrderBand, loops, rest, opts, sigma, localFits{band: band})
+	a := cl.evaluate(OrderBand, loops, rest, opts, sigma, localFits{band: band}, true)
 	if a.fail == "" && a.err == nil {
 		cl.rep.Band = true
 	}
@@ -172,53 +211,56 @@ func (cl *cleaning) byBandLoops(opts Options, sigma float64) *attempt {
 func (cl *cleaning) bySection(opts Options, sigma float64) *attempt {
 	pts := cl.pts
 	sel := dense(pts, cl.nb)
+	// Isolated points wait outside the loop, to be put back, dropped as
+	// outliers or as strays by where they lie from it.
+	var rest [][]int32
+	if len(sel) < len(pts) {
+		in := make([]bool, len(pts))
+		for _, i := range sel {
+			in[i] = true
+		}
+		var left []int32
+		for i := range int32(len(pts)) {
+			if !in[i] {
+				left = append(left, i)
+			}
+		}
+		rest = [][]int32{left}
+	}
+	// Twice: the first frame, drawn from the dense points, may still end
+	// at a gross outlier off the trailing edge; the second is drawn from the
+	// points the first pass kept, and its pass spares the points near the
+	// edge for the edge's models.
+	frameOf := sel
 	var a *attempt
 	for pass := range 2 {
-		f, ok := sectionFrame(pts, sel)
+		f, ok := sectionFrame(pts, frameOf)
 		if !ok {
 			return &attempt{strategy: OrderSection, fail: "no thin end: the points do not look like a section"}
 		}
 		seq, sc := sectionOrder(pts, sel, f)
-		// Isolated points wait outside the loop, to be put back, dropped
-		// as outliers or as strays by where they lie from it.
-		var rest [][]int32
-		if len(sel) < len(pts) {
-			in := make([]bool, len(pts))
-			for _, i := range sel {
-				in[i] = true
-			}
-			var left []int32
-			for i := range int32(len(pts)) {
-				if !in[i] {
-					left = append(left, i)
-				}
-			}
-			rest = [][]int32{left}
-		}
-		a = cl.evaluate(OrderSection, [][]int32{seq}, rest, opts, sigma, localFits{sc: sc, chord: f.chord})
-		if edgeTrace != nil {
-			edgeTrace("pass %d frame le %v te %v chord %g hits %d", pass, f.le, f.te, f.chord, len(a.hits))
-			for _, h := range a.hits {
-				x, y := f.at(pts[h.idx])
-				edgeTrace("  hit %.4f %.4f %s %.3g region %d", x, y, h.reason, h.dist, sc.region[h.idx])
-			}
-		}
-		if a.err != nil || pass == 1 {
+		a = cl.evaluate(OrderSection, [][]int32{seq}, rest, opts, sigma, localFits{sc: sc, chord: f.chord}, pass == 1)
+		if a.err != nil {
 			break
 		}
-		// The frame again from the points kept (strays stay out).
+		if pass == 1 {
+			if len(a.seq) > len(seq) {
+				// Points put back went in where they project onto the
+				// loop's polygon, which near a thin edge may be the other
+				// surface: their place is the section order's.
+				kept := slices.Clone(a.seq)
+				slices.Sort(kept)
+				a.seq, _ = sectionOrder(pts, kept, f)
+			}
+			break
+		}
 		out := make(map[int32]bool, len(a.hits))
 		for _, h := range a.hits {
 			out[h.idx] = true
 		}
-		sel = make([]int32, 0, len(pts))
-		for _, i := range a.seq {
-			if !out[i] {
-				sel = append(sel, i)
-			}
-		}
-		slices.Sort(sel)
-		if len(sel) < minPoints {
+		frameOf = slices.DeleteFunc(slices.Clone(a.seq), func(i int32) bool { return out[i] })
+		slices.Sort(frameOf)
+		if len(frameOf) < minPoints {
 			break
 		}
 	}
@@ -254,7 +296,7 @@ func dense(pts []geometry.Point, nb *nbrs) []int32 {
 // evaluate picks loop opts.Loop of loops (the rest are left over), drops
 // its outliers and places the points left over, and applies the gates:
 // the loop must keep at least minCoverage of the points.
-func (cl *cleaning) evaluate(strategy string, loops, rest [][]int32, opts Options, sigma float64, lf localFits) *attempt {
+func (cl *cleaning) evaluate(strategy string, loops, rest [][]int32, opts Options, sigma float64, lf localFits, spare bool) *attempt {
 	a := &attempt{strategy: strategy}
 	pts := cl.pts
 	most := 0
@@ -285,12 +327,14 @@ func (cl *cleaning) evaluate(strategy string, loops, rest [][]int32, opts Option
 		walls += len(l)
 	}
 	walls -= len(seq)
-	// The trailing edge's end zone is left to the edge's model.
+	// The trailing edge's end zone is left to the edge's model: found on
+	// the loop without the points a first pass calls outliers (one near the
+	// edge could pass for its end), it spares every point near the edge.
 	var exempt []bool
-	if ef, ok := findEdge(pts, orient(pts, seq), 0); ok {
-		exempt = make([]bool, len(pts))
-		for _, i := range ef.zone {
-			exempt[i] = true
+	if spare {
+		exempt = cl.spared(seq, sigma, lf)
+		if lf.sc != nil {
+			lf.sc.spared = exempt
 		}
 	}
 	seq, scale, raw, outs := dropOutliers(pts, seq, sigma, opts.KeepOutliers, lf, exempt)

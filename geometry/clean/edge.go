@@ -276,6 +276,7 @@ type edgeFound struct {
 	edge     Edge
 	zone     []int32
 	outliers []hit
+	frame    chordFrame // the chord frame of the analysis
 }
 
 // edgeOutlier is the misfit, in scatters, beyond which a point of the end
@@ -339,6 +340,9 @@ func findEdge(pts []geometry.Point, seq []int32, sigma float64) (edgeFound, bool
 	// the lower side backward); its core is the part of it beyond the end
 	// zone, within edgeFit of the chord or, to hold edgeCoreFit points,
 	// up to edgeFitMax.
+	// A point within the end zone that the order put among a core's
+	// points (a stray point beside the edge) is a zone point too (hole).
+	var holes []int
 	core := func(dir int) (first int, idx []int) {
 		first = -1
 		for s := 1; s < n/2; s++ {
@@ -352,6 +356,8 @@ func findEdge(pts []geometry.Point, seq []int32, sigma float64) (edgeFound, bool
 					first = s
 				}
 				idx = append(idx, k)
+			} else if first >= 0 {
+				holes = append(holes, k)
 			}
 		}
 		return first, idx
@@ -362,11 +368,12 @@ func findEdge(pts []geometry.Point, seq []int32, sigma float64) (edgeFound, bool
 		return edgeFound{seq: seq}, false
 	}
 	// The zone: the positions between the cores, from the lower side
-	// through the edge to the upper side.
+	// through the edge to the upper side, and the holes.
 	var zpos []int
 	for k := at(k0 - lf + 1); k != at(k0+uf); k = at(k + 1) {
 		zpos = append(zpos, k)
 	}
+	zpos = append(zpos, holes...)
 	z := make([]geometry.Point, len(zpos))
 	xmax := xs[k0]
 	for j, k := range zpos {
@@ -664,6 +671,12 @@ func (m endModel) apply(pts []geometry.Point, seq []int32, f chordFrame, u, l qu
 		k   int // zone index
 	}
 	var lower, end, upper []placed
+	if edgeTrace != nil {
+		edgeTrace("apply %s: zone %d points", m.kind, len(z))
+		for j, p := range z {
+			edgeTrace("   zone %d pos %d x %.5f y %.5f side %d", j, zpos[j], p.X, p.Y, m.side(u, l, p, scat))
+		}
+	}
 	for j, p := range z {
 		w := m.side(u, l, p, scat)
 		if m.kind == EdgeSharp && w == 0 {
@@ -704,8 +717,16 @@ func (m endModel) apply(pts []geometry.Point, seq []int32, f chordFrame, u, l qu
 	for _, p := range upper {
 		out = append(out, seq[zpos[p.k]])
 	}
-	for k := (zpos[nz-1] + 1) % n; k != zpos[0]; k = (k + 1) % n {
-		out = append(out, seq[k])
+	inZone := make(map[int]bool, nz)
+	for _, k := range zpos {
+		inZone[k] = true
+	}
+	for s := 1; s < n; s++ {
+		// From the first position after the zone's contiguous part on.
+		k := (zpos[0] + s) % n
+		if !inZone[k] {
+			out = append(out, seq[k])
+		}
 	}
 	for _, p := range lower {
 		out = append(out, seq[zpos[p.k]])
@@ -781,7 +802,7 @@ func (m endModel) apply(pts []geometry.Point, seq []int32, f chordFrame, u, l qu
 // found completes the result of apply: the zone's points and its
 // outliers (out, see chooseEnd).
 func (m endModel) found(loop []int32, e Edge, pts []geometry.Point, seq []int32, u, l quadFit, zpos []int, z []geometry.Point, out []bool, scat float64, f chordFrame) edgeFound {
-	r := edgeFound{seq: loop, edge: e}
+	r := edgeFound{seq: loop, edge: e, frame: f}
 	for j, k := range zpos {
 		r.zone = append(r.zone, seq[k])
 		if out[j] {
@@ -837,3 +858,6 @@ func localStep(pts []geometry.Point, seq []int32, k, dir, w int) float64 {
 	}
 	return median(ds)
 }
+
+// SetTrace is a temporary debugging hook.
+func SetTrace(f func(string, ...any)) { edgeTrace = f }

@@ -484,7 +484,13 @@ func sectionOrder(pts []geometry.Point, sel []int32, f chordFrame) ([]int32, *se
 			sc.set(i, regionNose, us[k], math.Hypot(x-xn, y-yn))
 		case x > xt:
 			us[k] = 3 + math.Atan2(x-xt, -(y-yt))/math.Pi
-			sc.set(i, regionTail, us[k], math.Hypot(x-xt, y-yt))
+			// Its residuals are y(x) along its surface: the radius about
+			// the cap's centre turns too fast near the centre's line.
+			if us[k] >= 3.5 {
+				sc.set(i, regionUpper, x, y)
+			} else {
+				sc.set(i, regionLower, x, y)
+			}
 		case upper[k]:
 			us[k] = (xt - x) / span
 			sc.set(i, regionUpper, x, y)

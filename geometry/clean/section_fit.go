@@ -35,6 +35,9 @@ const capSpan = 0.11
 type sectionCoords struct {
 	region []int8
 	t, v   []float64
+	// spared marks, by point index, the points of the trailing edge's end
+	// zone (nil: none): no fit of another point takes them in.
+	spared []bool
 }
 
 func newSectionCoords(n int) *sectionCoords {
@@ -52,8 +55,9 @@ func (sc *sectionCoords) set(i int32, region int8, t, v float64) {
 // residualsAt sets r[i], for each position i of the loop seq in at (every
 // position when at is nil), to the residual of its point against a robust
 // local fit of v(t) to up to sectionWindow neighbours on each side within
-// its region (itself left out): a parabola, weighted by Tukey's biweight
-// after a plain fit (two rounds, common practice), so that a few outliers
+// its region (itself and the spared points of the end zone left out): a
+// parabola, weighted by Tukey's biweight after a plain fit (three rounds,
+// common practice), so that a few outliers
 // among the neighbours, even in a run, do not pull it. Between the caps the
 // offset in y is turned into the distance normal to the fitted surface.
 // In a section order a point's neighbours along the chord lie at about its
@@ -80,6 +84,9 @@ func (sc *sectionCoords) residualsAt(pts []geometry.Point, seq []int32, at []int
 				for _, dir := range [2]int{-1, 1} {
 					for s := 1; s <= sectionWindow && s < n/2; s++ {
 						q := seq[((i+dir*s)%n+n)%n]
+						if sc.spared != nil && sc.spared[q] {
+							continue // the end zone is the edge models' to judge
+						}
 						if sc.region[q] != g || (g == regionNose || g == regionTail) && math.Abs(sc.t[q]-sc.t[p]) > capSpan {
 							break
 						}
@@ -138,7 +145,7 @@ func robustParabola(ts, vs []float64) (float64, float64) {
 		return median(slices.Clone(vs)), 0
 	}
 	res := make([]float64, len(ts))
-	for range 2 {
+	for range 3 {
 		for i, t := range ts {
 			u := t / scale
 			res[i] = math.Abs(vs[i] - (c[0] + c[1]*u + c[2]*u*u))
