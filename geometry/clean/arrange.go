@@ -111,6 +111,12 @@ func (cl *cleaning) arrange(opts Options, sigma float64) (*attempt, error) {
 		return a, nil
 	}
 	cl.nb = neighbours(cl.pts, cl.lo, cl.hi)
+	if opts.MergeTol == 0 && cl.mergeNear() {
+		cl.nb = neighbours(cl.pts, cl.lo, cl.hi)
+	}
+	if len(cl.pts) < minPoints {
+		return nil, fmt.Errorf("geometry: clean: %w: %d distinct point(s) after merging within %.3g, need at least %d", geometry.ErrTooFewPoints, len(cl.pts), cl.rep.MergeTol, minPoints)
+	}
 	if cl.c.Ordered {
 		if a := cl.fromFile(opts, sigma); pass(a) {
 			return finish(a)
@@ -145,6 +151,64 @@ func (cl *cleaning) arrange(opts Options, sigma float64) (*attempt, error) {
 		return nil, fmt.Errorf("geometry: clean: %w: %d points form no closed loop (%s)", geometry.ErrNoLoop, len(cl.pts), strings.Join(refused, "; "))
 	}
 	return nil, fmt.Errorf("geometry: clean: %w: no ordering of the %d points passes the checks (%s)", geometry.ErrNoLoop, len(cl.pts), strings.Join(refused, "; "))
+}
+
+// mergeSpacing is the share of the local point spacing within which a
+// point is a duplicate of its nearest neighbour when the caller set no
+// merge tolerance: a point written twice a hair apart (a re-probed point,
+// a copy rounded differently) is a duplicate at any scale of the part, and
+// kept apart it makes cross-validation take the pair for noise-free data
+// and interpolate.
+const mergeSpacing = 0.003
+
+// mergeNear merges each point whose nearest neighbour lies within
+// mergeSpacing of the distance to its next nearest (the local spacing,
+// however uneven: cosine-spaced stations crowd at the ends, duplicates
+// stand out everywhere) into that neighbour, the lower input index kept,
+// and reports whether it merged any. The largest distance merged is
+// recorded as the merge tolerance when it exceeds the one applied.
+func (cl *cleaning) mergeNear() bool {
+	pts, src, nb := cl.pts, cl.src, cl.nb
+	n := len(pts)
+	byInput := make([]int32, n)
+	for i := range byInput {
+		byInput[i] = int32(i)
+	}
+	slices.SortFunc(byInput, func(a, b int32) int { return int(src[a] - src[b]) })
+	gone := make([]bool, n)
+	any := false
+	for _, i := range byInput {
+		if gone[i] {
+			continue
+		}
+		row := nb.of(i)
+		if len(row) < 2 {
+			continue
+		}
+		q, r := row[0], row[1]
+		if gone[q] || src[q] < src[i] {
+			continue
+		}
+		d := fastDist(pts[i], pts[q])
+		if d <= mergeSpacing*fastDist(pts[i], pts[r]) {
+			gone[q] = true
+			any = true
+			cl.rep.Merged = append(cl.rep.Merged, Merged{Kept: cl.c.Origins[src[i]], Dropped: cl.c.Origins[src[q]], Distance: d})
+			cl.rep.MergeTol = max(cl.rep.MergeTol, d)
+		}
+	}
+	if !any {
+		return false
+	}
+	k := 0
+	for i := range n {
+		if !gone[i] {
+			pts[k], src[k] = pts[i], src[i]
+			k++
+		}
+	}
+	cl.pts, cl.src = pts[:k], src[:k]
+	return true
 }
 
 // substantial counts the loops that enclose an area and hold at least
@@ -228,18 +292,26 @@ func (cl *cleaning) bySection(opts Options, sigma float64) *attempt {
 		rest = [][]int32{left}
 	}
 	// Twice: the first frame, drawn from the dense points, may still end
-	// at a gross outlier off the trailing edge; the second is drawn from the
-	// points the first pass kept, and its pass spares the points near the
-	// edge for the edge's models.
-	frameOf := sel
+	// at a gross outlier off the trailing edge, which also pulls the fits
+	// that tell the surfaces apart near it; the second pass orders only the
+	// points the first kept, in a frame drawn from them, and spares the
+	// points near the edge for the edge's models.
 	var a *attempt
 	for pass := range 2 {
-		f, ok := sectionFrame(pts, frameOf)
+		f, ok := sectionFrame(pts, sel)
 		if !ok {
 			return &attempt{strategy: OrderSection, fail: "no thin end: the points do not look like a section"}
 		}
 		seq, sc := sectionOrder(pts, sel, f)
-		a = cl.evaluate(OrderSection, [][]int32{seq}, rest, opts, sigma, localFits{sc: sc, chord: f.chord}, pass == 1)
+		if edgeTrace != nil {
+			edgeTrace("section pass %d le %v te %v", pass, f.le, f.te)
+			for k, i := range seq {
+				if x, y := f.at(pts[i]); x > 0.94 && x < 0.99 {
+					edgeTrace("   pos %d x %.5f y %.5f region %d", k, x, y, sc.region[i])
+				}
+			}
+		}
+		a = cl.evaluate(OrderSection, [][]int32{seq}, rest, opts, sigma, localFits{sc: sc, chord: f.chord}, true)
 		if a.err != nil {
 			break
 		}
@@ -254,14 +326,31 @@ func (cl *cleaning) bySection(opts Options, sigma float64) *attempt {
 			}
 			break
 		}
+		// The second pass orders the points the first kept; the others
+		// wait outside the loop.
 		out := make(map[int32]bool, len(a.hits))
 		for _, h := range a.hits {
 			out[h.idx] = true
 		}
-		frameOf = slices.DeleteFunc(slices.Clone(a.seq), func(i int32) bool { return out[i] })
-		slices.Sort(frameOf)
-		if len(frameOf) < minPoints {
+		next := slices.DeleteFunc(slices.Clone(a.seq), func(i int32) bool { return out[i] })
+		if len(next) < minPoints {
 			break
+		}
+		slices.Sort(next)
+		sel = next
+		in := make([]bool, len(pts))
+		for _, i := range sel {
+			in[i] = true
+		}
+		var left []int32
+		for i := range int32(len(pts)) {
+			if !in[i] {
+				left = append(left, i)
+			}
+		}
+		rest = nil
+		if len(left) > 0 {
+			rest = [][]int32{left}
 		}
 	}
 	return a
