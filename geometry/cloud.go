@@ -117,6 +117,13 @@ type Contour struct {
 	Points  []Point
 	Origins []Origin
 	Units   Unit
+	// Along, when set (one value a point, increasing), is the position of
+	// each point along the loop (input units) as the cleaning step measured
+	// it on a smooth curve through the points: for a band of points, whose
+	// noise is comparable to their spacing, it is a far better parameter for
+	// a fit than the distances between neighbours, which zigzag across the
+	// band. nil otherwise.
+	Along []float64
 }
 
 // Len returns the number of points in c.

@@ -59,9 +59,10 @@ type Cleaned struct {
 	Clean    *clean.Report
 	Contour  *geometry.Contour
 	Units    geometry.Unit
-	Files    []string // display names
-	SHA256   []string // hex digests of the files' bytes
-	Read     int      // points read from all files
+	Files    []string        // display names
+	SHA256   []string        // hex digests of the files' bytes
+	Read     int             // points read from all files
+	cloud    *geometry.Cloud // the planar cloud cleaned
 }
 
 // ReadAndClean runs the first half of the geometry chain on the files of
@@ -119,7 +120,17 @@ func ReadAndClean(files []File, s Settings) (*Cleaned, error) {
 		cloud, out.Flatness, out.Plane = flat, &fl, &fl.Plane
 	}
 
-	var co clean.Options
+	out.cloud = cloud
+	if err := out.clean(s, ""); err != nil {
+		return nil, err
+	}
+	return out, nil
+}
+
+// clean cleans the (planar) cloud read into the contour, by the ordering
+// named (clean.Options.Order; "" tries them in turn).
+func (c *Cleaned) clean(s Settings, order string) error {
+	co := clean.Options{Order: order}
 	if s.MergeTol != nil {
 		co.MergeTol = *s.MergeTol
 	}
@@ -132,26 +143,71 @@ func ReadAndClean(files []File, s Settings) (*Cleaned, error) {
 	if s.Loop != nil {
 		co.Loop = *s.Loop
 	}
-	contour, rep, err := clean.Clean(cloud, co)
+	contour, rep, err := clean.Clean(c.cloud, co)
 	if err != nil {
-		return nil, fmt.Errorf("%s: %w%s", where, err, columnsHint(out.Clouds))
+		return fmt.Errorf("%s: %w%s", strings.Join(c.Files, ", "), err, columnsHint(c.Clouds))
 	}
-	out.Contour, out.Clean = contour, rep
-	return out, nil
+	c.Contour, c.Clean = contour, rep
+	return nil
 }
 
 // Prepare runs the whole geometry chain on the files of one section:
 // ReadAndClean, then fit, locate the edges and normalise, repanel, and
 // compute the properties. Every error comes from the data or the settings
 // and names the file where there is one.
+//
+// Gates. The section must pass every gate of checkGates (no
+// self-crossing, chord within the points' extent, surfaces monotone along
+// the chord, a plausible trailing-edge angle, a fit within the points'
+// scatter). When it fails one, or the edges cannot be located, the chain
+// tries again with the other orderings of the points (orderings) and then
+// with the fit finding the trailing edge on its own; the first way that
+// passes wins, and its record says which (the clean report's Strategy).
+// When none does, Prepare returns the first failure as a *GateError.
 func Prepare(name string, files []File, s Settings) (*Preparation, error) {
 	cl, err := ReadAndClean(files, s)
 	if err != nil {
 		return nil, err
 	}
+	p, first := finishChain(name, cl, s, true)
+	if first == nil {
+		return p, nil
+	}
+	var ge *GateError
+	if !errors.As(first, &ge) {
+		return nil, first
+	}
+	tried := []string{cl.Clean.Strategy + " order"}
+	for _, order := range orderings(cl.Clean.Strategy) {
+		alt := *cl
+		if alt.clean(s, order) != nil {
+			continue
+		}
+		tried = append(tried, order+" order")
+		if p, err := finishChain(name, &alt, s, true); err == nil {
+			p.Section.Warnings = append(p.Section.Warnings, fmt.Sprintf("the %s order of the points failed the check %q (%s); the %s order passed", cl.Clean.Strategy, ge.Gate, ge.Seen, order))
+			return p, nil
+		}
+	}
+	if cl.Clean.Edge != nil {
+		tried = append(tried, "the fit's own trailing edge")
+		if p, err := finishChain(name, cl, s, false); err == nil {
+			p.Section.Warnings = append(p.Section.Warnings, fmt.Sprintf("the trailing edge found on the points failed the check %q (%s); the fit's own passed", ge.Gate, ge.Seen))
+			return p, nil
+		}
+	}
+	ge.Tried = tried
+	return nil, fmt.Errorf("%s: %w", strings.Join(cl.Files, ", "), ge)
+}
+
+// finishChain runs the rest of the chain on a cleaned contour: fit (with
+// the trailing edge found on the points when useEdge), normalise, repanel,
+// the gates, the properties and the document. A failure to locate the
+// edges or to pass a gate is a *GateError.
+func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparation, error) {
 	p := &Preparation{Clouds: cl.Clouds, Flatness: cl.Flatness, Clean: cl.Clean, Contour: cl.Contour}
 	where := strings.Join(cl.Files, ", ")
-	if err := p.fit(cl, s); err != nil {
+	if err := p.fit(cl, s, useEdge); err != nil {
 		return nil, err
 	}
 	eo, err := edgeOptions(s, cl.Units)
@@ -159,6 +215,9 @@ func Prepare(name string, files []File, s Settings) (*Preparation, error) {
 		return nil, err
 	}
 	if p.Shape, err = frame.Normalize(p.Curve, eo); err != nil {
+		if errors.Is(err, frame.ErrNoLeadingEdge) {
+			return nil, &GateError{Gate: GateEdges, Seen: strings.TrimPrefix(err.Error(), "geometry: ")}
+		}
 		return nil, fmt.Errorf("%s: %w", where, err)
 	}
 	rp := panelOptions(s)
@@ -166,16 +225,18 @@ func Prepare(name string, files []File, s Settings) (*Preparation, error) {
 	if err != nil {
 		return nil, err
 	}
-	if _, err := section.CheckNodes(nodes); err != nil {
-		return nil, fmt.Errorf("%s: the repanelled section is not usable: %w", where, err)
-	}
-	p.Quality = repanel.Measure(nodes)
 	// The scatter of the points widens the arc of the leading-edge circle
 	// so that noise left in the curve does not upset the radius.
 	po := props.Options{Thickness: s.ThicknessMode, Camber: s.CamberMode, Noise: p.Fit.Scatter / p.Shape.Frame.Chord}
-	if p.Props, p.Camber, err = props.Compute(p.Shape.Path, p.Shape.SLE, po); err != nil {
-		return nil, fmt.Errorf("%s: %w", where, err)
+	if _, err := section.CheckNodes(nodes); err == nil {
+		if p.Props, p.Camber, err = props.Compute(p.Shape.Path, p.Shape.SLE, po); err != nil {
+			return nil, fmt.Errorf("%s: %w", where, err)
+		}
 	}
+	if g := p.checkGates(nodes, le); g != nil {
+		return nil, g
+	}
+	p.Quality = repanel.Measure(nodes)
 	p.Section = p.document(name, cl, nodes, le, rp.Spacing)
 	p.Section.Panels.Deviation = dev
 	if rp.Panels == 0 {
@@ -192,10 +253,17 @@ func Prepare(name string, files []File, s Settings) (*Preparation, error) {
 
 // fit fits the smoothing spline to the cleaned contour, with the noise and
 // tolerance the settings give.
-func (p *Preparation) fit(cl *Cleaned, s Settings) error {
+func (p *Preparation) fit(cl *Cleaned, s Settings, useEdge bool) error {
 	var fo curve.FitOptions
 	switch {
 	case s.Noise == nil:
+		if cl.Clean.Band && cl.Clean.Sigma > 0 {
+			// A band: its points scatter about the curve by the robust
+			// scale the cleaning measured across it, a noise known well
+			// enough to set the smoothing by; cross-validation on a band
+			// leaves the curve looping through it.
+			fo.Noise = cl.Clean.Sigma
+		}
 	case *s.Noise == 0:
 		fo.Exact = true
 	default:
@@ -207,7 +275,9 @@ func (p *Preparation) fit(cl *Cleaned, s Settings) error {
 	if s.FitTol != nil {
 		fo.Tolerance = *s.FitTol
 	}
-	fo.Edge = fitEdge(cl.Clean.Edge)
+	if useEdge {
+		fo.Edge = fitEdge(cl.Clean.Edge)
+	}
 	cv, rep, err := curve.Fit(cl.Contour, fo)
 	if err != nil {
 		return fmt.Errorf("%s: %w", strings.Join(cl.Files, ", "), err)

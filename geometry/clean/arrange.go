@@ -79,6 +79,10 @@ type attempt struct {
 	hits     []hit   // outliers and strays
 	scale    float64 // robust scale of the residuals (floored, see robustScale)
 	raw      float64 // the same, not floored: the scatter of the points about local fits
+	// feet, by point index, are the points' feet on local curves, where
+	// hasFeet says so (a band in a section order; nil otherwise).
+	feet    []geometry.Point
+	hasFeet []bool
 	fail     string  // why a gate refused the loop, "" if none did
 	err      error   // a failure that no other strategy can mend
 }
@@ -117,6 +121,9 @@ func (cl *cleaning) arrange(opts Options, sigma float64) (*attempt, error) {
 	if len(cl.pts) < minPoints {
 		return nil, fmt.Errorf("geometry: clean: %w: %d distinct point(s) after merging within %.3g, need at least %d", geometry.ErrTooFewPoints, len(cl.pts), cl.rep.MergeTol, minPoints)
 	}
+	if opts.Order != "" {
+		return cl.only(opts, sigma)
+	}
 	if cl.c.Ordered {
 		if a := cl.fromFile(opts, sigma); pass(a) {
 			return finish(a)
@@ -151,6 +158,33 @@ func (cl *cleaning) arrange(opts Options, sigma float64) (*attempt, error) {
 		return nil, fmt.Errorf("geometry: clean: %w: %d points form no closed loop (%s)", geometry.ErrNoLoop, len(cl.pts), strings.Join(refused, "; "))
 	}
 	return nil, fmt.Errorf("geometry: clean: %w: no ordering of the %d points passes the checks (%s)", geometry.ErrNoLoop, len(cl.pts), strings.Join(refused, "; "))
+}
+
+// only orders by the one strategy opts.Order names, gates and all.
+func (cl *cleaning) only(opts Options, sigma float64) (*attempt, error) {
+	var a *attempt
+	switch opts.Order {
+	case OrderFile:
+		if !cl.c.Ordered {
+			return nil, fmt.Errorf("geometry: clean: %w: the file's own order was asked for, but the points come in no order", geometry.ErrNoLoop)
+		}
+		a = cl.fromFile(opts, sigma)
+	case OrderSection:
+		a = cl.bySection(opts, sigma)
+	case OrderLinked:
+		loops, rest := cl.linkLoops()
+		a = cl.evaluate(OrderLinked, loops, rest, opts, sigma, localFits{}, true)
+	case OrderBand:
+		a = cl.byBandLoops(opts, sigma)
+	}
+	if a.err != nil {
+		return nil, a.err
+	}
+	if a.fail != "" {
+		return nil, fmt.Errorf("geometry: clean: %w: %s order: %s", geometry.ErrNoLoop, a.strategy, a.fail)
+	}
+	cl.rep.Strategy = a.strategy
+	return a, nil
 }
 
 // mergeSpacing is the share of the local point spacing within which a
@@ -322,7 +356,13 @@ func (cl *cleaning) bySection(opts Options, sigma float64) *attempt {
 				// surface: their place is the section order's.
 				kept := slices.Clone(a.seq)
 				slices.Sort(kept)
-				a.seq, _ = sectionOrder(pts, kept, f)
+				a.seq, sc = sectionOrder(pts, kept, f)
+			}
+			if bandLike(pts, a.seq, a.scale) {
+				// A band: the points are ordered by their feet on the
+				// local curves, whose polygon gives the fit its parameter.
+				a.feet, a.hasFeet = sc.feet(pts, a.seq)
+				a.seq, _ = sc.byFeet(pts, a.seq, a.feet, a.hasFeet)
 			}
 			break
 		}

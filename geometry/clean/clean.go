@@ -26,6 +26,10 @@ type Options struct {
 	// Loop picks the section loop: 0 is the loop of largest enclosed area,
 	// k the k-th largest after it (1 = second largest).
 	Loop int
+	// Order, when set (OrderFile, OrderSection, OrderLinked or
+	// OrderBand), is the only ordering tried; "" tries them in turn (see
+	// Clean). A caller whose later checks refuse the loop tries another.
+	Order string
 }
 
 // Defaults of Options.
@@ -172,6 +176,11 @@ func Clean(c *geometry.Cloud, opts Options) (*geometry.Contour, *Report, error) 
 	if opts.Loop < 0 {
 		return nil, rep, fmt.Errorf("geometry: clean: loop %d: must be ≥ 0", opts.Loop)
 	}
+	switch opts.Order {
+	case "", OrderFile, OrderSection, OrderLinked, OrderBand:
+	default:
+		return nil, rep, fmt.Errorf("geometry: clean: order %q: want %s, %s, %s or %s", opts.Order, OrderFile, OrderSection, OrderLinked, OrderBand)
+	}
 	all := make([]geometry.Point, n)
 	for i, p := range c.Points {
 		all[i] = geometry.Point{X: p.X, Y: p.Y}
@@ -243,7 +252,11 @@ func Clean(c *geometry.Cloud, opts Options) (*geometry.Contour, *Report, error) 
 			}
 		}
 	}
-	return cl.contour(seq), rep, nil
+	ct := cl.contour(seq)
+	if a.feet != nil {
+		ct.Along = alongFeet(cl.pts, seq, a.feet, a.hasFeet)
+	}
+	return ct, rep, nil
 }
 
 // cleaning is one Clean under way: the cloud, the distinct points left

@@ -467,7 +467,7 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, scat float64) (endM
 			xc = xmax
 			c = geometry.Point{X: xmax, Y: (u.at(xmax) + l.at(xmax)) / 2}
 			for _, p := range z {
-				if p.X == xmax && math.Abs(p.Y-c.Y) <= math.Abs(sepEnd)/2+edgeCap*scat {
+				if p.X == xmax && math.Abs(p.Y-c.Y) <= math.Abs(sepEnd)/2+edgeCap*scat && snapTol(scat, step) > 0 {
 					c = p
 				}
 			}
@@ -494,7 +494,7 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, scat float64) (endM
 		// fits would cross (near a thin edge the crossing is ill-posed).
 		c := geometry.Point{X: xmax, Y: (u.at(xmax) + l.at(xmax)) / 2}
 		for _, p := range z {
-			if p.X == xmax && math.Abs(p.Y-c.Y) <= math.Abs(sepEnd)/2+2*scat {
+			if p.X == xmax && math.Abs(p.Y-c.Y) <= math.Abs(sepEnd)/2+2*scat && snapTol(scat, step) > 0 {
 				c = p
 			}
 		}
@@ -583,11 +583,16 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, scat float64) (endM
 var edgeTrace func(string, ...any)
 
 // snapTol is how near (chord units) a point must lie to a corner the end
-// model places for the corner to be that point: within twice the scatter,
-// or a twentieth of the local step (on exact data the fits carried to the
-// corner miss it by their own small error).
+// model places for the corner to be that point: within a twentieth of the
+// local step, on data whose scatter is well below that (exact data, whose
+// fits carried to the corner miss it by their own small error). A noisy
+// point is never the corner: pinned there, the curve would kink by the
+// noise.
 func snapTol(scat, step float64) float64 {
-	return max(2*scat, step/20)
+	if 2*scat > step/20 {
+		return 0
+	}
+	return step / 20
 }
 
 // sampled reports whether a point of z lies within d of c.
@@ -686,11 +691,17 @@ func (m endModel) apply(pts []geometry.Point, seq []int32, f chordFrame, u, l qu
 				w = 1
 			}
 		}
+		// Along a surface, by the point's foot on the surface's fit (in a
+		// noisy band x alone would zigzag the feet).
+		foot := func(q quadFit) float64 {
+			sl := q.c[1] + 2*q.c[2]*p.X
+			return p.X + sl*(p.Y-q.at(p.X))/(1+sl*sl)
+		}
 		switch w {
 		case -1:
-			lower = append(lower, placed{p.X, j})
+			lower = append(lower, placed{foot(l), j})
 		case 1:
-			upper = append(upper, placed{-p.X, j})
+			upper = append(upper, placed{-foot(u), j})
 		default:
 			key := p.Y // across a base, from the lower corner up
 			if m.kind == EdgeRounded {
@@ -754,6 +765,11 @@ func (m endModel) apply(pts []geometry.Point, seq []int32, f chordFrame, u, l qu
 		}
 		p := f.point(m.corner.X, m.corner.Y)
 		e.Upper, e.Lower, e.Reconstructed = p, p, true
+		// The loop starts at whichever of the surfaces' last points lies
+		// nearer the corner (a point at a thin edge may fall to either).
+		if last := out[len(out)-1]; pts[last].Dist(p) < pts[out[0]].Dist(p) {
+			out = rotateTo(out, len(out)-1)
+		}
 		return m.found(out, e, pts, seq, u, l, zpos, z, outl, scat, f), true
 	case EdgeBlunt:
 		e.Upper, e.Lower, e.Reconstructed = f.point(m.hi.X, m.hi.Y), f.point(m.lo.X, m.lo.Y), true

@@ -475,6 +475,7 @@ func sectionOrder(pts []geometry.Point, sel []int32, f chordFrame) ([]int32, *se
 	us := make([]float64, n)
 	span := xt - xn
 	sc := newSectionCoords(len(pts))
+	sc.frame, sc.xn, sc.yn, sc.xt = f, xn, yn, xt
 	for k := range n {
 		x, y := xs[k], ys[k]
 		i := sel[k]
@@ -505,6 +506,7 @@ func sectionOrder(pts []geometry.Point, sel []int32, f chordFrame) ([]int32, *se
 		if us[k] < 3.5 {
 			us[k] += 4
 		}
+		sc.place[sel[k]] = us[k]
 	}
 	order := make([]int, n)
 	for k := range order {

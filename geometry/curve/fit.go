@@ -469,7 +469,7 @@ func Fit(c *geometry.Contour, opts FitOptions) (*Curve, *FitReport, error) {
 	}
 	rep0Scatter := scatter
 
-	pts, knot, err := fitOrder(c, ends, perim)
+	pts, knot, along, err := fitOrder(c, ends, perim)
 	if err != nil {
 		return nil, nil, err
 	}
@@ -487,7 +487,13 @@ func Fit(c *geometry.Contour, opts FitOptions) (*Curve, *FitReport, error) {
 	}
 	ts := make([]float64, m)
 	for i := 1; i < m; i++ {
-		ts[i] = ts[i-1] + pts[i].Dist(pts[i-1])
+		step := pts[i].Dist(pts[i-1])
+		if along != nil {
+			// The contour's own positions along the loop (a band): the
+			// chord between neighbours zigzags across it.
+			step = max(along[i]-along[i-1], 1e-9*perim)
+		}
+		ts[i] = ts[i-1] + step
 	}
 	period := 0.0
 	if !ends.open {
@@ -582,17 +588,24 @@ func checkContour(c *geometry.Contour, opts FitOptions) (float64, error) {
 }
 
 // fitOrder returns the contour points in fit order (ends.order) without
-// coincident neighbours, and knot[i], the index among them of contour
-// point i (−1 for points on a blunt base).
-func fitOrder(c *geometry.Contour, ends trailingEnds, perim float64) ([]geometry.Point, []int, error) {
+// coincident neighbours, knot[i], the index among them of contour point i
+// (−1 for points on a blunt base), and, when the contour carries its
+// positions along the loop (Contour.Along), those of the fit points (nil
+// otherwise; an added end point lies its distance beyond its neighbour).
+func fitOrder(c *geometry.Contour, ends trailingEnds, perim float64) ([]geometry.Point, []int, []float64, error) {
 	n := c.Len()
 	knot := make([]int, n)
 	for i := range knot {
 		knot[i] = -1
 	}
+	useAlong := len(c.Along) == n
 	var pts []geometry.Point
+	var along []float64
+	upperAdded := false
 	if ends.upper != nil {
 		pts = append(pts, *ends.upper)
+		along = append(along, 0)
+		upperAdded = true
 	}
 	for _, ci := range ends.order {
 		p := c.Points[ci]
@@ -606,17 +619,36 @@ func fitOrder(c *geometry.Contour, ends trailingEnds, perim float64) ([]geometry
 			knot[ci] = len(pts)
 		}
 		pts = append(pts, p)
+		if useAlong {
+			a := c.Along[ci]
+			if len(along) > 0 && a < along[len(along)-1] {
+				a += c.Along[n-1] + c.Points[n-1].Dist(c.Points[0]) // a closed fit's wrap
+			}
+			along = append(along, a)
+		}
+	}
+	if useAlong && upperAdded && len(along) > 1 {
+		along[0] = along[1] - pts[0].Dist(pts[1])
 	}
 	if ends.lower != nil && (len(pts) == 0 || ends.lower.Dist(pts[len(pts)-1]) > 1e-12*perim) {
+		if useAlong && len(pts) > 0 {
+			along = append(along, along[len(along)-1]+ends.lower.Dist(pts[len(pts)-1]))
+		}
 		pts = append(pts, *ends.lower)
 	}
 	if !ends.open && len(pts) > 1 && pts[len(pts)-1].Dist(pts[0]) <= 1e-12*perim {
 		pts = pts[:len(pts)-1]
+		if useAlong {
+			along = along[:len(along)-1]
+		}
 	}
 	if len(pts) < splineMinKnots {
-		return nil, nil, fmt.Errorf("geometry: fit: %w: %d distinct point(s), need at least %d", geometry.ErrTooFewPoints, len(pts), splineMinKnots)
+		return nil, nil, nil, fmt.Errorf("geometry: fit: %w: %d distinct point(s), need at least %d", geometry.ErrTooFewPoints, len(pts), splineMinKnots)
 	}
-	return pts, knot, nil
+	if !useAlong {
+		along = nil
+	}
+	return pts, knot, along, nil
 }
 
 // finishReport completes rep once the fit is done: the noise estimate,
