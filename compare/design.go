@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -151,7 +152,7 @@ func NewDesign(spec DesignSpec, m *Measurement, po repanel.Options, pr props.Opt
 			return nil, err
 		}
 		d.Kind = DesignShape
-	case isSectionDocument(spec.Data):
+	case IsSectionDocument(spec.Data):
 		s, err := section.Read(bytes.NewReader(spec.Data), spec.Source)
 		if err != nil {
 			return nil, err
@@ -228,9 +229,9 @@ func NewDesign(spec DesignSpec, m *Measurement, po repanel.Options, pr props.Opt
 
 func ptr[T any](v T) *T { return &v }
 
-// isSectionDocument reports whether data looks like a section document (a
+// IsSectionDocument reports whether data looks like a section document (a
 // JSON object naming the section format).
-func isSectionDocument(data []byte) bool {
+func IsSectionDocument(data []byte) bool {
 	t := bytes.TrimLeft(data, " \t\r\n\ufeff")
 	return len(t) > 0 && t[0] == '{' && bytes.Contains(data, []byte(section.Format))
 }
@@ -458,4 +459,33 @@ func unitFactor(from, to geometry.Unit) (float64, error) {
 		return 0, fmt.Errorf("cannot convert %s to %s", from, to)
 	}
 	return a / b, nil
+}
+
+// PanelOptions returns the repanelling options that give the design the
+// measured section's panels: its count and spacing law, with the
+// clustering of the settings it was prepared with.
+func PanelOptions(m *section.Section, s prep.Settings) repanel.Options {
+	o := repanel.Options{Spacing: s.Spacing}
+	if m.Panels != nil {
+		o.Panels = m.Panels.Count
+		if o.Spacing == "" && slices.Contains(repanel.Laws(), m.Panels.Spacing) {
+			o.Spacing = m.Panels.Spacing
+		}
+	}
+	if s.LECluster != nil {
+		o.LECluster = *s.LECluster
+	}
+	if s.TECluster != nil {
+		o.TECluster = *s.TECluster
+	}
+	if s.CurvatureWeight != nil {
+		o.CurvatureWeight = *s.CurvatureWeight
+	}
+	return o
+}
+
+// PropsOptions returns the property options of the settings, for the
+// design's properties to be measured as the measured section's were.
+func PropsOptions(s prep.Settings) props.Options {
+	return props.Options{Thickness: s.ThicknessMode, Camber: s.CamberMode}
 }

@@ -108,7 +108,11 @@ type Summary struct {
 	Min    float64 `json:"min"`
 	Max    float64 `json:"max"`
 	Out    int     `json:"out"`
-	Worst  []Worst `json:"worst"`
+	// MinAt and MaxAt are the points of the smallest and largest
+	// deviation; Worst the points of largest |deviation|, worst first.
+	MinAt *Worst  `json:"min_at,omitempty"`
+	MaxAt *Worst  `json:"max_at,omitempty"`
+	Worst []Worst `json:"worst"`
 }
 
 // ZoneReport is one tolerance zone: where it is, its band and how its
@@ -229,25 +233,34 @@ func (c *Comparison) summary(idx []int, tol Tolerance) Summary {
 	if len(idx) == 0 {
 		return s
 	}
-	s.Min, s.Max = math.Inf(1), math.Inf(-1)
+	lo, hi := idx[0], idx[0]
 	var sum, sum2 float64
 	for _, i := range idx {
 		d := c.Points[i].Deviation
 		sum += d
 		sum2 += d * d
-		s.Min, s.Max = math.Min(s.Min, d), math.Max(s.Max, d)
+		if d < c.Points[lo].Deviation {
+			lo = i
+		}
+		if d > c.Points[hi].Deviation {
+			hi = i
+		}
 		if !c.Points[i].In {
 			s.Out++
 		}
 	}
+	s.Min, s.Max = c.Points[lo].Deviation, c.Points[hi].Deviation
 	s.Mean = sum / float64(len(idx))
 	s.RMS = math.Sqrt(sum2 / float64(len(idx)))
-	for _, i := range c.worstOf(idx, worstListed) {
+	worst := func(i int) Worst {
 		p := c.Points[i]
-		w := Worst{File: p.Origin.File, Line: p.Origin.Line, Entity: p.Origin.Entity, X: p.At.X, Y: p.At.Y,
-			Deviation: p.Deviation, XC: p.XC, Surface: p.Surface, In: p.In}
-		w.Zone = c.zoneName(p.Zone, tol)
-		s.Worst = append(s.Worst, w)
+		return Worst{File: p.Origin.File, Line: p.Origin.Line, Entity: p.Origin.Entity, X: p.At.X, Y: p.At.Y,
+			Deviation: p.Deviation, XC: p.XC, Surface: p.Surface, In: p.In, Zone: c.zoneName(p.Zone, tol)}
+	}
+	wl, wh := worst(lo), worst(hi)
+	s.MinAt, s.MaxAt = &wl, &wh
+	for _, i := range c.worstOf(idx, worstListed) {
+		s.Worst = append(s.Worst, worst(i))
 	}
 	return s
 }

@@ -15,10 +15,13 @@ import (
 // Exit statuses (DESIGN.md): 0 success, 1 processing failed, 2 bad usage or
 // unreadable input, 130 interrupted (common practice for SIGINT).
 const (
-	exitOK          = 0
-	exitFailed      = 1
-	exitUsage       = 2
-	exitInterrupted = 130
+	exitOK     = 0
+	exitFailed = 1
+	exitUsage  = 2
+	// exitOutOfTolerance: the comparison ran and a measured point lies
+	// outside its tolerance (compare, and run with a compare block).
+	exitOutOfTolerance = 3
+	exitInterrupted    = 130
 )
 
 // inputError marks an error caused by the user's input (an unreadable or
@@ -72,6 +75,7 @@ from them.`,
 		newAnalyzeCmd(),
 		newStagesCmd(),
 		newStageServeCmd(),
+		newCompareCmd(),
 	} {
 		root.AddCommand(c)
 	}
@@ -109,9 +113,12 @@ func execute(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	}
 	fmt.Fprintf(stderr, "foilwright: %v\n", err)
 	var in *inputError
+	var tol *toleranceError
 	switch {
 	case ctx.Err() != nil:
 		return exitInterrupted
+	case errors.As(err, &tol):
+		return exitOutOfTolerance
 	case !started:
 		fmt.Fprintf(stderr, "Run '%s --help' for usage.\n", root.CommandPath())
 		return exitUsage
