@@ -303,8 +303,8 @@ func reversed(pts plotter.XYs) plotter.XYs {
 // the measured Cp less the design's, upper and lower, in x order.
 type DeltaCpData struct {
 	Name             string
-	Method           string  // the stage, e.g. "vortex-panel"
-	AlphaDeg         float64 // the design's angle of attack, degrees
+	Method           string           // the stage, e.g. "vortex-panel"
+	AlphaDeg         float64          // the design's angle of attack, degrees
 	Design, Measured []geometry.Point // (x, Cp) in node order
 	Upper, Lower     []geometry.Point // (x, ΔCp) in x order
 }
