@@ -39,6 +39,10 @@ type Prepared struct {
 	Doc       *section.Section
 	Summary   string           // one or a few lines for a person: points used, fit, warnings
 	Artifacts []stage.Artifact // pictures of the preparation, when asked for; Run writes them under plots/
+	// Preparation is what the chain made, when the preparer has it: a
+	// comparison with the design reads the kept points and their lines
+	// from it (without it, the section's nodes stand for the points).
+	Preparation *prep.Preparation
 }
 
 // A Preparer runs the geometry chain (read, clean, fit, edges, normalise,
@@ -108,6 +112,9 @@ type SectionReport struct {
 	Err     string // why it failed, when it did
 	Summary string // the Preparer's summary
 	Stages  []StageReport
+	// Compare is how the section compared with its design, when the
+	// pipeline compares it.
+	Compare *Verdict
 }
 
 // A StageReport says how one stage went for one section.
@@ -124,6 +131,18 @@ type Summary struct {
 	Manifest  string // path of manifest.json
 	Sections  []SectionReport
 	Cancelled bool
+}
+
+// OutOfTolerance returns the sections that were compared with their
+// design and failed their tolerance.
+func (s *Summary) OutOfTolerance() []SectionReport {
+	var f []SectionReport
+	for _, r := range s.Sections {
+		if r.Compare != nil && r.Compare.Verdict == "fail" {
+			f = append(f, r)
+		}
+	}
+	return f
 }
 
 // Failed returns the sections that failed.
@@ -150,7 +169,7 @@ func Run(ctx context.Context, pl *Plan, opts RunOptions) (*Summary, error) {
 	if opts.Preparer == nil {
 		panic("pipeline: Run without a Preparer")
 	}
-	if len(pl.Stages) > 0 && opts.NewRunner == nil {
+	if (len(pl.Stages) > 0 || pl.needsRunner()) && opts.NewRunner == nil {
 		return nil, errors.New("pipeline: the pipeline has stages but no stage runner was given")
 	}
 	folder := opts.Folder
@@ -192,6 +211,11 @@ func Run(ctx context.Context, pl *Plan, opts RunOptions) (*Summary, error) {
 			return sum, err
 		}
 	}
+	if !cancelled {
+		if err := writeVerdicts(pl, folder, results, m); err != nil {
+			return sum, err
+		}
+	}
 	m.Timings.Jobs = jobs
 	m.Timings.Started = start.UTC().Format(time.RFC3339)
 	m.Timings.TotalS = seconds(time.Since(start))
@@ -209,7 +233,7 @@ func Run(ctx context.Context, pl *Plan, opts RunOptions) (*Summary, error) {
 // caller to close.
 func startRunners(pl *Plan, opts RunOptions, jobs int) ([]StageRunner, error) {
 	runners := make([]StageRunner, 0, jobs)
-	if len(pl.Stages) == 0 {
+	if len(pl.Stages) == 0 && !pl.needsRunner() {
 		return runners, nil
 	}
 	for range jobs {

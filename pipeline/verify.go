@@ -127,7 +127,11 @@ func Verify(ctx context.Context, path string, opts VerifyOptions) (*VerifyReport
 func checkInputs(p *Pipeline, pl *Plan, m *Manifest) error {
 	var changed []string
 	for _, s := range m.Sections {
-		for _, f := range s.Inputs {
+		files := s.Inputs
+		if s.Compare != nil && s.Compare.DesignFile != nil {
+			files = append(append([]FileHash(nil), files...), *s.Compare.DesignFile)
+		}
+		for _, f := range files {
 			sum, err := digest.File(p.abs(f.Path))
 			switch {
 			case err != nil:

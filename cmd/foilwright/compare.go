@@ -16,7 +16,6 @@ import (
 	"github.com/foilwright/foilwright/compare"
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/section"
-	"github.com/foilwright/foilwright/internal/atomicfile"
 	"github.com/foilwright/foilwright/internal/enum"
 	"github.com/foilwright/foilwright/plot"
 	"github.com/foilwright/foilwright/plugins/builtin"
@@ -138,11 +137,9 @@ data before relying on them.`,
 
 // toleranceError is the outcome "measured fine, out of tolerance": the
 // command exits with status 3.
-type toleranceError struct{ r *compare.Report }
+type toleranceError struct{ msg string }
 
-func (e *toleranceError) Error() string {
-	return fmt.Sprintf("%s: out of tolerance: %d of %d point(s) outside their band", e.r.Name, e.r.PointsOut, e.r.Deviation.Points)
-}
+func (e *toleranceError) Error() string { return e.msg }
 
 func runCompare(cmd *cobra.Command, args []string, opts compareOptions) error {
 	stdout, stderr := cmd.OutOrStdout(), cmd.ErrOrStderr()
@@ -214,8 +211,8 @@ func runCompare(cmd *cobra.Command, args []string, opts compareOptions) error {
 			}
 		}
 	}
-	if c.Report.Verdict == compare.VerdictFail {
-		return &toleranceError{c.Report}
+	if r := c.Report; r.Verdict == compare.VerdictFail {
+		return &toleranceError{fmt.Sprintf("%s: out of tolerance: %d of %d point(s) outside their band", r.Name, r.PointsOut, r.Deviation.Points)}
 	}
 	return nil
 }
@@ -362,6 +359,5 @@ func writeCompare(stdout io.Writer, c *compare.Comparison, opts compareOptions) 
 	if opts.json && opts.out != "-" {
 		return c.Report.WriteJSON(stdout)
 	}
-	_ = atomicfile.WriteBytes
 	return nil
 }

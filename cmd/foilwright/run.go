@@ -39,7 +39,10 @@ section.json, nodes.dat, results/<stage-id>.json and plots/, and manifest.json,
 which records the tool version, the pipeline's and every input's sha256, each
 stage's name, version, executable sha256 and parameters, every output's sha256
 and the timings. Outputs are written atomically; a failed section leaves the
-others intact. The exit status is 0 only when every section succeeded.
+others intact. A "compare" block holds each section against its design (see
+compare) and adds compare.json, compare.csv and verdicts.csv. The exit status is
+0 only when every section succeeded, 3 when they all did but one is out of
+tolerance against its design.
 
 With --verify, run re-runs the run that a manifest records (refusing if the
 pipeline file or an input changed) and reports every output that differs,
@@ -114,6 +117,9 @@ func runPipeline(cmd *cobra.Command, path string, opts runOptions) error {
 	}
 	if n := len(sum.Failed()); n > 0 {
 		return fmt.Errorf("%d of %d section(s) did not complete", n, len(sum.Sections))
+	}
+	if n := len(sum.OutOfTolerance()); n > 0 {
+		return &toleranceError{fmt.Sprintf("%d of %d section(s) out of tolerance against their design", n, len(sum.Sections))}
 	}
 	return nil
 }
