@@ -386,7 +386,7 @@ func (r *sectionRun) compare(runner StageRunner) bool {
 		return r.fail("compare: %v", err)
 	}
 	rep := c.Report
-	v := &Verdict{Design: d.Name, Verdict: rep.Verdict, Points: rep.Deviation.Points, PointsOut: rep.PointsOut, Units: rep.Units,
+	v := &Verdict{Design: spec.Design, Verdict: rep.Verdict, Points: rep.Deviation.Points, PointsOut: rep.PointsOut, Units: rep.Units,
 		RMS: rep.Deviation.RMS, Min: rep.Deviation.Min, Max: rep.Deviation.Max}
 	if len(rep.Deviation.Worst) > 0 {
 		w := rep.Deviation.Worst[0]
