@@ -4,7 +4,6 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"sort"
 
 	"github.com/foilwright/foilwright/compare/align"
 	"github.com/foilwright/foilwright/geometry"
@@ -312,18 +311,27 @@ func (c *Comparison) points(feet []align.Foot, tol Tolerance) {
 }
 
 // worstOf returns up to n of the points idx, largest |deviation| first
-// (ties by index).
+// (ties by index): one pass that keeps the n worst so far.
 func (c *Comparison) worstOf(idx []int, n int) []int {
-	w := append([]int(nil), idx...)
-	sort.SliceStable(w, func(a, b int) bool {
-		da, db := math.Abs(c.Points[w[a]].Deviation), math.Abs(c.Points[w[b]].Deviation)
-		if da != db {
-			return da > db
+	worse := func(a, b int) bool {
+		da, db := math.Abs(c.Points[a].Deviation), math.Abs(c.Points[b].Deviation)
+		return da > db || da == db && a < b
+	}
+	w := make([]int, 0, n+1)
+	for _, i := range idx {
+		if len(w) == n && !worse(i, w[n-1]) {
+			continue
 		}
-		return w[a] < w[b]
-	})
-	if len(w) > n {
-		w = w[:n]
+		k := len(w)
+		w = append(w, i)
+		for k > 0 && worse(i, w[k-1]) {
+			w[k] = w[k-1]
+			k--
+		}
+		w[k] = i
+		if len(w) > n {
+			w = w[:n]
+		}
 	}
 	return w
 }

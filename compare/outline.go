@@ -73,15 +73,32 @@ func (o *Outline) position(i int, u float64) float64 {
 // in which it grows; Position is the arc length of the foot from the
 // start of the spline, or beyond its length on the base.
 func (o *Outline) Nearest(p geometry.Point) align.Foot {
-	cv := o.cv
 	i0, u0 := o.grid.nearest(p)
+	return o.nearestFrom(p, i0, u0)
+}
+
+// NearestFrom is Nearest, searching from the foot near of a point nearby
+// (align.Tracker).
+func (o *Outline) NearestFrom(p geometry.Point, near align.Foot) align.Foot {
+	i := int(near.Hint[0])
+	if i < 0 {
+		// On the base: search the spline from its nearer end.
+		return o.Nearest(p)
+	}
+	return o.nearestFrom(p, i, near.Hint[1])
+}
+
+// nearestFrom finds the foot of p by Newton's method on the spline from
+// piece i0, local parameter u0, then against the base.
+func (o *Outline) nearestFrom(p geometry.Point, i0 int, u0 float64) align.Foot {
+	cv := o.cv
 	i, u, dist := cv.ProjectFrom(p, i0, u0)
 	q, d1, _ := cv.Eval(i, u)
 	out := geometry.Point{X: d1.Y, Y: -d1.X}.Scale(1 / d1.Norm())
 	last := cv.Pieces() - 1
 	atStart := i == 0 && u <= 0
 	atEnd := i == last && u >= cv.Span(last)
-	foot := align.Foot{Point: q, Position: o.position(i, u)}
+	foot := align.Foot{Point: q, Position: o.position(i, u), Hint: [2]float64{float64(i), u}}
 	if o.base {
 		a, b := cv.End(), cv.Start()
 		e := b.Sub(a)
@@ -89,7 +106,9 @@ func (o *Outline) Nearest(p geometry.Point) align.Foot {
 		qb := a.Add(e.Scale(t))
 		if db := p.Dist(qb); db < dist {
 			nb := geometry.Point{X: e.Y, Y: -e.X}.Scale(1 / e.Norm())
-			return cornerFoot(p, qb, nb, t <= 0 || t >= 1, o.length+t*e.Norm(), o.baseCornerNormal(t >= 1, nb))
+			f := cornerFoot(p, qb, nb, t <= 0 || t >= 1, o.length+t*e.Norm(), o.baseCornerNormal(t >= 1, nb))
+			f.Hint = [2]float64{-1, t}
+			return f
 		}
 	}
 	if atStart || atEnd {
@@ -108,7 +127,9 @@ func (o *Outline) Nearest(p geometry.Point) align.Foot {
 				_, d, _ := cv.Eval(0, 0)
 				other = geometry.Point{X: d.Y, Y: -d.X}.Scale(1 / d.Norm())
 			}
-			return cornerFoot(p, q, out, true, foot.Position, out.Add(other))
+			f := cornerFoot(p, q, out, true, foot.Position, out.Add(other))
+			f.Hint = foot.Hint
+			return f
 		}
 	}
 	foot.Normal = out

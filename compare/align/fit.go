@@ -86,7 +86,25 @@ func Feet(o Outline, m Motion, pts []geometry.Point) []Foot {
 }
 
 func feetInto(o Outline, m Motion, pts []geometry.Point, out []Foot) {
+	feetNear(o, m, pts, nil, out)
+}
+
+// trackReach is the largest step, as a fraction of the points' spread,
+// after which feet are tracked from the step's start rather than found
+// afresh.
+const trackReach = 0.01
+
+// feetNear is feetInto, tracking each foot from near[i] when near is not
+// nil and o is a Tracker. near and out may not be the same slice.
+func feetNear(o Outline, m Motion, pts []geometry.Point, near, out []Foot) {
+	tr, ok := o.(Tracker)
 	work := func(lo, hi int) {
+		if ok && near != nil {
+			for i := lo; i < hi; i++ {
+				out[i] = tr.NearestFrom(m.Apply(pts[i]), near[i])
+			}
+			return
+		}
 		for i := lo; i < hi; i++ {
 			out[i] = o.Nearest(m.Apply(pts[i]))
 		}

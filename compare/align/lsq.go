@@ -76,7 +76,11 @@ func LeastSquares(o Outline, pts []geometry.Point, start Motion, opts Options) (
 			}
 			step := norm(u)
 			next := lin.apply(m, u)
-			feetInto(o, next, pts, trial)
+			var near []Foot
+			if step <= trackReach*lin.length {
+				near = feet
+			}
+			feetNear(o, next, pts, near, trial)
 			c2, err := sumSquares(trial)
 			if err != nil {
 				return Result{}, err
@@ -109,6 +113,11 @@ func LeastSquares(o Outline, pts []geometry.Point, start Motion, opts Options) (
 		if res.Converged {
 			break
 		}
+	}
+	// The result's feet are found afresh, not tracked.
+	feet = Feet(o, m, pts)
+	if cost, err = sumSquares(feet); err != nil {
+		return Result{}, err
 	}
 	res.Motion, res.Feet = m, feet
 	res.Objective = math.Sqrt(cost / float64(len(pts)))

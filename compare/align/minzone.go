@@ -3,6 +3,7 @@ package align
 import (
 	"fmt"
 	"math"
+	"sort"
 
 	"github.com/foilwright/foilwright/geometry"
 )
@@ -35,7 +36,8 @@ func (b Band) Use(d float64) float64 { return math.Abs(d-b.Centre) / b.Half }
 //
 // is solved exactly by the simplex walk of lp.go, over the points that can
 // bind at all within the box (those whose linearised use can reach the
-// largest lower bound of any other). The step is taken when the true F
+// largest lower bound of any other), on a growing working set of them
+// (see chebyshev.solve). The step is taken when the true F
 // falls, and the trust region Δ grows or shrinks with the agreement
 // between predicted and true decrease; the feet are found anew after every
 // step. It stops when the program predicts no decrease beyond rounding or
@@ -110,7 +112,11 @@ func MinimumZone(o Outline, pts []geometry.Point, bands []Band, start Motion, op
 			break
 		}
 		next := lin.apply(m, u)
-		feetInto(o, next, pts, trial)
+		var near []Foot
+		if normInf(u) <= trackReach*L {
+			near = feet
+		}
+		feetNear(o, next, pts, near, trial)
 		F2, err := usage(trial)
 		if err != nil {
 			return Result{}, err
@@ -132,6 +138,11 @@ func MinimumZone(o Outline, pts []geometry.Point, bands []Band, start Motion, op
 			break
 		}
 	}
+	// The result's feet are found afresh, not tracked.
+	feet = Feet(o, m, pts)
+	if F, err = usage(feet); err != nil {
+		return Result{}, err
+	}
 	res.Motion, res.Feet, res.Objective = m, feet, F
 	return res, nil
 }
@@ -142,10 +153,19 @@ type chebyshev struct {
 	prog *linProg
 	row  []float64
 	keep []int
+	hi   []float64 // the largest use each point of keep can reach in the box
 }
 
 // solve returns the step u (scaled) and the linearised largest use z of
 // the program of MinimumZone in the box |uⱼ| ≤ delta.
+//
+// Only the points that can bind within the box take part (see below),
+// and of those the program is solved on a working set that grows: first
+// the points with the largest possible use, then, after each solve, the
+// points whose use at the step exceeds the set's optimum, until none
+// does. The optimum of the set is a lower bound of the whole program's
+// and its step is feasible for all of it, so the last step is the
+// program's optimum.
 func (c *chebyshev) solve(lin *linearisation, feet []Foot, band func(int) Band, delta float64) ([]float64, float64, error) {
 	k := lin.k
 	n := k + 1 // u and z
@@ -155,8 +175,6 @@ func (c *chebyshev) solve(lin *linearisation, feet []Foot, band func(int) Band, 
 		c.prog = newLinProg(n, cost)
 		c.row = make([]float64, n)
 	}
-	p := c.prog
-	p.reset()
 	// Within the box a point's linearised use lies in [lo, hi]; the
 	// optimum is at least the largest lo, so a point whose hi falls short
 	// of it can never bind.
@@ -167,13 +185,76 @@ func (c *chebyshev) solve(lin *linearisation, feet []Foot, band func(int) Band, 
 		lb = max(lb, max(math.Abs(f.Distance-b.Centre)-rho, 0)/b.Half)
 	}
 	c.keep = c.keep[:0]
+	c.hi = c.hi[:0]
 	for i, f := range feet {
 		b := band(i)
 		rho := delta * sumAbs(lin.rows[i*k:(i+1)*k])
-		if (math.Abs(f.Distance-b.Centre)+rho)/b.Half >= lb*(1-1e-12) {
+		if hi := (math.Abs(f.Distance-b.Centre) + rho) / b.Half; hi >= lb*(1-1e-12) {
 			c.keep = append(c.keep, i)
+			c.hi = append(c.hi, hi)
 		}
 	}
+	use := func(i int, u []float64) float64 {
+		b := band(i)
+		return math.Abs(feet[i].Distance-b.Centre+dot(lin.rows[i*k:(i+1)*k], u)) / b.Half
+	}
+	// The first working set: the points of largest possible use.
+	set := make([]int, 0, min(len(c.keep), 2*workingSet))
+	if len(c.keep) <= workingSet {
+		set = append(set, c.keep...)
+	} else {
+		order := make([]int, len(c.keep))
+		for j := range order {
+			order[j] = j
+		}
+		sort.Slice(order, func(a, b int) bool { return c.hi[order[a]] > c.hi[order[b]] })
+		for _, j := range order[:workingSet] {
+			set = append(set, c.keep[j])
+		}
+	}
+	in := make(map[int]bool, len(set))
+	for _, i := range set {
+		in[i] = true
+	}
+	for {
+		u, z, err := c.solveSet(lin, feet, band, delta, set)
+		if err != nil {
+			return nil, 0, err
+		}
+		type miss struct {
+			i int
+			v float64
+		}
+		var over []miss
+		for _, i := range c.keep {
+			if in[i] {
+				continue
+			}
+			if v := use(i, u); v > z*(1+1e-12)+1e-300 {
+				over = append(over, miss{i, v})
+			}
+		}
+		if len(over) == 0 {
+			return u, z, nil
+		}
+		sort.Slice(over, func(a, b int) bool { return over[a].v > over[b].v || over[a].v == over[b].v && over[a].i < over[b].i })
+		for _, m := range over[:min(len(over), workingSet)] {
+			set = append(set, m.i)
+			in[m.i] = true
+		}
+	}
+}
+
+// workingSet is the number of points the working set of the zone fit's
+// program starts with, and the most it grows by in one round.
+const workingSet = 256
+
+// solveSet solves the program of one step over the points in set.
+func (c *chebyshev) solveSet(lin *linearisation, feet []Foot, band func(int) Band, delta float64, set []int) ([]float64, float64, error) {
+	k := lin.k
+	n := k + 1
+	p := c.prog
+	p.reset()
 	// Box rows first: the start vertex has every uⱼ at −delta.
 	for j := range k {
 		clear(c.row)
@@ -190,7 +271,7 @@ func (c *chebyshev) solve(lin *linearisation, feet []Foot, band func(int) Band, 
 		u[j] = -delta
 	}
 	enter, zmax := -1, math.Inf(-1)
-	for _, i := range c.keep {
+	for _, i := range set {
 		b := band(i)
 		g := lin.rows[i*k : (i+1)*k]
 		r := feet[i].Distance - b.Centre
