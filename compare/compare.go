@@ -221,6 +221,7 @@ func (c *Comparison) align(opts Options, scaleFree bool, al *AlignmentInfo) (ali
 			break
 		}
 		zones = assigned
+		fit.Feet = res.Feet
 		mz, err := align.MinimumZone(o, pts, bands, res.Motion, fit)
 		if err != nil {
 			return align.Motion{}, nil, fmt.Errorf("minimum-zone fit: %w", err)

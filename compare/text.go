@@ -163,7 +163,11 @@ func (a AlignmentInfo) words(u string) string {
 		s += ", mirrored"
 	}
 	if a.Iterations > 0 {
-		s += fmt.Sprintf("; %s %.4g after %d step(s)", a.ObjectiveName, a.Objective, a.Iterations)
+		s += fmt.Sprintf("; %s %.4g", a.ObjectiveName, a.Objective)
+		if a.ObjectiveName != "largest zone use" {
+			s += " " + u
+		}
+		s += fmt.Sprintf(" after %d step(s)", a.Iterations)
 	}
 	return s
 }

@@ -6,7 +6,6 @@ import (
 	"encoding/csv"
 	"errors"
 	"fmt"
-	"math"
 	"os"
 	"path/filepath"
 	"strconv"
@@ -500,12 +499,9 @@ func writeVerdicts(pl *Plan, folder string, results []sectionResult, m *Manifest
 	return nil
 }
 
-// compareWidth is the width of the verdict column of the summary table.
+// verdictLine words a section's verdict for the run's summary.
 func verdictLine(r SectionReport) string {
 	v := r.Compare
-	u := string(v.Units)
-	return fmt.Sprintf("%-9s %-12s %-16s %5d pts %4d out  rms %-9.3g min %+-10.4g max %+-10.4g %s %s", v.Verdict, r.Name, v.Design, v.Points, v.PointsOut,
-		v.RMS, v.Min, v.Max, u, v.WorstAt)
+	return fmt.Sprintf("%-9s %s against %s: %d of %d point(s) out; deviation %+.3g to %+.3g %s, RMS %.3g %s; worst at %s",
+		v.Verdict, r.Name, v.Design, v.PointsOut, v.Points, v.Min, v.Max, v.Units, v.RMS, v.Units, v.WorstAt)
 }
-
-var _ = math.Abs

@@ -17,6 +17,10 @@ type Options struct {
 	Scale bool
 	// MaxIterations bounds the steps of the fit; 0 means 100.
 	MaxIterations int
+	// Feet, when not nil, are the feet of the points at the start motion
+	// (found afresh, as a Result's are), which the fit then need not find
+	// again.
+	Feet []Foot
 }
 
 // Result is the outcome of a fit.
@@ -59,6 +63,9 @@ func (o Options) maxIterations() int {
 
 // checkStart checks the points and the start motion of a fit.
 func checkStart(pts []geometry.Point, start Motion, opts Options) error {
+	if opts.Feet != nil && len(opts.Feet) != len(pts) {
+		panic("align: start feet of the wrong length")
+	}
 	if len(pts) < opts.freedoms()+1 {
 		return fmt.Errorf("%w: %d point(s), need at least %d", ErrTooFewPoints, len(pts), opts.freedoms()+1)
 	}
@@ -71,6 +78,14 @@ func checkStart(pts []geometry.Point, start Motion, opts Options) error {
 		return fmt.Errorf("%w: start motion %+v", ErrNonFinite, start)
 	}
 	return nil
+}
+
+// startFeet returns opts.Feet, or the feet at m found afresh.
+func startFeet(o Outline, m Motion, pts []geometry.Point, opts Options) []Foot {
+	if opts.Feet != nil {
+		return append([]Foot(nil), opts.Feet...)
+	}
+	return Feet(o, m, pts)
 }
 
 // parallelFeet is the least number of points whose feet are found on

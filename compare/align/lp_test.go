@@ -3,6 +3,7 @@ package align
 import (
 	"math"
 	"math/rand/v2"
+	"sort"
 	"testing"
 
 	"gonum.org/v1/gonum/mat"
@@ -135,5 +136,28 @@ func TestSolveSmall(t *testing.T) {
 	}
 	if solveSmall([]float64{1, 2, 2, 4}, []float64{1, 1}, 2) {
 		t.Error("singular matrix solved")
+	}
+}
+
+func TestLargest(t *testing.T) {
+	rng := rand.New(rand.NewPCG(2, 9))
+	vs := make([]float64, 1000)
+	for i := range vs {
+		vs[i] = float64(rng.IntN(50)) // many ties
+	}
+	got := largest(vs, 30)
+	// Reference: a full stable sort, largest first, ties by index.
+	idx := make([]int, len(vs))
+	for i := range idx {
+		idx[i] = i
+	}
+	sort.SliceStable(idx, func(a, b int) bool { return vs[idx[a]] > vs[idx[b]] })
+	for k := range got {
+		if got[k] != idx[k] {
+			t.Fatalf("rank %d: %d, want %d", k, got[k], idx[k])
+		}
+	}
+	if n := len(largest(vs[:10], 30)); n != 10 {
+		t.Errorf("%d of 10", n)
 	}
 }

@@ -29,7 +29,7 @@ func LeastSquares(o Outline, pts []geometry.Point, start Motion, opts Options) (
 	}
 	k := opts.freedoms()
 	m := start
-	feet := Feet(o, m, pts)
+	feet := startFeet(o, m, pts, opts)
 	cost, err := sumSquares(feet)
 	if err != nil {
 		return Result{}, err

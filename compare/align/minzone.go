@@ -76,7 +76,7 @@ func MinimumZone(o Outline, pts []geometry.Point, bands []Band, start Motion, op
 	}
 	k := opts.freedoms()
 	m := start
-	feet := Feet(o, m, pts)
+	feet := startFeet(o, m, pts, opts)
 	F, err := usage(feet)
 	if err != nil {
 		return Result{}, err
@@ -200,17 +200,8 @@ func (c *chebyshev) solve(lin *linearisation, feet []Foot, band func(int) Band, 
 	}
 	// The first working set: the points of largest possible use.
 	set := make([]int, 0, min(len(c.keep), 2*workingSet))
-	if len(c.keep) <= workingSet {
-		set = append(set, c.keep...)
-	} else {
-		order := make([]int, len(c.keep))
-		for j := range order {
-			order[j] = j
-		}
-		sort.Slice(order, func(a, b int) bool { return c.hi[order[a]] > c.hi[order[b]] })
-		for _, j := range order[:workingSet] {
-			set = append(set, c.keep[j])
-		}
+	for _, j := range largest(c.hi, workingSet) {
+		set = append(set, c.keep[j])
 	}
 	in := make(map[int]bool, len(set))
 	for _, i := range set {
@@ -221,26 +212,22 @@ func (c *chebyshev) solve(lin *linearisation, feet []Foot, band func(int) Band, 
 		if err != nil {
 			return nil, 0, err
 		}
-		type miss struct {
-			i int
-			v float64
-		}
-		var over []miss
+		var over []int
+		var overUse []float64
 		for _, i := range c.keep {
 			if in[i] {
 				continue
 			}
 			if v := use(i, u); v > z*(1+1e-12)+1e-300 {
-				over = append(over, miss{i, v})
+				over, overUse = append(over, i), append(overUse, v)
 			}
 		}
 		if len(over) == 0 {
 			return u, z, nil
 		}
-		sort.Slice(over, func(a, b int) bool { return over[a].v > over[b].v || over[a].v == over[b].v && over[a].i < over[b].i })
-		for _, m := range over[:min(len(over), workingSet)] {
-			set = append(set, m.i)
-			in[m.i] = true
+		for _, j := range largest(overUse, workingSet) {
+			set = append(set, over[j])
+			in[over[j]] = true
 		}
 	}
 }
@@ -297,6 +284,58 @@ func (c *chebyshev) solveSet(lin *linearisation, feet []Foot, band func(int) Ban
 		return nil, 0, err
 	}
 	return u[:k], u[k], nil
+}
+
+// largest returns the indices of the k largest of vs (all of them when
+// there are no more than k), largest first, ties by index: a bounded
+// min-heap, O(n log k).
+func largest(vs []float64, k int) []int {
+	if len(vs) <= k {
+		idx := make([]int, len(vs))
+		for i := range idx {
+			idx[i] = i
+		}
+		sort.SliceStable(idx, func(a, b int) bool { return vs[idx[a]] > vs[idx[b]] })
+		return idx
+	}
+	// below reports whether entry a ranks below entry b.
+	below := func(a, b int) bool { return vs[a] < vs[b] || vs[a] == vs[b] && a > b }
+	h := make([]int, 0, k)
+	down := func(i int) {
+		for {
+			l, m := 2*i+1, i
+			if l < len(h) && below(h[l], h[m]) {
+				m = l
+			}
+			if r := l + 1; r < len(h) && below(h[r], h[m]) {
+				m = r
+			}
+			if m == i {
+				return
+			}
+			h[i], h[m] = h[m], h[i]
+			i = m
+		}
+	}
+	for i := range vs {
+		switch {
+		case len(h) < k:
+			h = append(h, i)
+			for j := len(h) - 1; j > 0; {
+				p := (j - 1) / 2
+				if !below(h[j], h[p]) {
+					break
+				}
+				h[j], h[p] = h[p], h[j]
+				j = p
+			}
+		case below(h[0], i):
+			h[0] = i
+			down(0)
+		}
+	}
+	sort.Slice(h, func(a, b int) bool { return below(h[b], h[a]) })
+	return h
 }
 
 func sumAbs(v []float64) float64 {
