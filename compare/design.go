@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"path/filepath"
 	"slices"
 	"strconv"
 	"strings"
@@ -161,6 +162,9 @@ func NewDesign(spec DesignSpec, m *Measurement, po repanel.Options, pr props.Opt
 			return nil, fmt.Errorf("%s: %w", spec.Source, err)
 		}
 		cs = &chordShape{name: s.Name, nodes: s.Nodes, frame: s.Frame, units: s.Units}
+		if cs.name == "" {
+			cs.name = filepath.Base(spec.Source)
+		}
 		cs.kind = frame.TEBlunt
 		if s.TrailingEdge != nil && (s.TrailingEdge.Kind == frame.TESharp || s.TrailingEdge.Kind == frame.TERounded) {
 			cs.kind = s.TrailingEdge.Kind
@@ -174,7 +178,7 @@ func NewDesign(spec DesignSpec, m *Measurement, po repanel.Options, pr props.Opt
 			return nil, err
 		}
 		d.Kind, d.SHA256 = DesignPoints, digest.Bytes(spec.Data)
-		name := spec.Source
+		name := filepath.Base(spec.Source)
 		for _, c := range cl.Clouds {
 			if c.Name != "" {
 				name = c.Name

@@ -20,6 +20,7 @@ import (
 	"github.com/foilwright/foilwright/internal/enum"
 	"github.com/foilwright/foilwright/plot"
 	"github.com/foilwright/foilwright/plugins/stage"
+	"github.com/foilwright/foilwright/prep"
 )
 
 // DocCompare is the outputs.documents kind of the compare report
@@ -350,6 +351,9 @@ func (r *sectionRun) compare(runner StageRunner) bool {
 		ds.Source, ds.Data = spec.DesignPath, r.designData
 	}
 	d, err := fwcompare.NewDesign(ds, m, fwcompare.PanelOptions(r.sec, r.sp.Settings), fwcompare.PropsOptions(r.sp.Settings))
+	if errors.Is(err, prep.ErrNoUnits) {
+		return r.fail("compare: design %v: say it with \"design_units\"", err)
+	}
 	if err != nil {
 		return r.fail("compare: %v", err)
 	}

@@ -181,6 +181,9 @@ func runCompare(cmd *cobra.Command, args []string, opts compareOptions) error {
 		spec.Data = data
 	}
 	d, err := compare.NewDesign(spec, meas, compare.PanelOptions(meas.Section, settings), compare.PropsOptions(settings))
+	if errors.Is(err, prep.ErrNoUnits) {
+		return badInputf("design %v: say it with --design-units", err)
+	}
 	if err != nil {
 		return badInput(err)
 	}

@@ -51,6 +51,9 @@ func readReport(t *testing.T, data []byte) *compare.Report {
 func TestCompareExitStatus(t *testing.T) {
 	probe := "../../examples/tunnel-model/probe.csv"
 	base := []string{"compare", probe, "--design", "naca4:2412", "--chord", "200", "--no-aero", "-q"}
+	if _, stderr, code := runCLI(t, "compare", probe, "--design", "naca4:2412", "--scale", "locked", "--no-aero", "-q"); code != exitUsage || !strings.Contains(stderr, "locked scale needs the design's chord") {
+		t.Errorf("locked scale without a chord: exit %d, %q", code, stderr)
+	}
 	for _, tc := range []struct {
 		name string
 		args []string
@@ -66,6 +69,8 @@ func TestCompareExitStatus(t *testing.T) {
 		{"missing design file", []string{"--design", "nowhere.dat"}, exitUsage, "nowhere.dat"},
 		{"nominal datum without placement", []string{"--align", "datum", "--datum", "nominal"}, exitUsage, "placement"},
 		{"bad alignment", []string{"--align", "sideways"}, exitUsage, "--align"},
+		{"design without its unit", []string{"--design", "../../examples/rotor/design/r700.dat"}, exitUsage, "--design-units"},
+		{"zero chord", []string{"--chord", "0"}, exitUsage, "--chord 0"},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			_, stderr, code := runCLI(t, append(append([]string{}, base...), tc.args...)...)
@@ -153,5 +158,36 @@ func TestCompareAeroTwist(t *testing.T) {
 				}
 			}
 		})
+	}
+}
+
+// TestCompareDesignFiles reads the measurement and the design from files
+// of each kind: a section document on both sides, a DXF in part units
+// against itself (zero deviation: the design is the interpolating spline
+// through the very points measured).
+func TestCompareDesignFiles(t *testing.T) {
+	dir := t.TempDir()
+	sec := filepath.Join(dir, "probe.json")
+	if _, stderr, code := runCLI(t, "prep", "../../examples/tunnel-model/probe.csv", "-q", "-o", sec); code != exitOK {
+		t.Fatal(stderr)
+	}
+	shapeDoc := filepath.Join(dir, "n2412.json")
+	if _, stderr, code := runCLI(t, "shape", "naca4", "2412", "-o", shapeDoc); code != exitOK {
+		t.Fatal(stderr)
+	}
+	stdout, stderr, code := runCLI(t, "compare", sec, "--design", shapeDoc, "--chord", "200", "--tolerance", "0.05", "--no-aero", "--json")
+	if code != exitOK {
+		t.Fatalf("section documents: exit %d: %s", code, stderr)
+	}
+	if r := readReport(t, []byte(stdout)); r.Design.Kind != compare.DesignSection || r.Verdict != compare.VerdictPass {
+		t.Errorf("section documents: design %s, verdict %s", r.Design.Kind, r.Verdict)
+	}
+	dxf := "../../examples/cad-export/section.dxf"
+	stdout, stderr, code = runCLI(t, "compare", dxf, "--design", dxf, "--align", "as-is", "--tolerance", "1e-9", "--no-aero", "--json")
+	if code != exitOK {
+		t.Fatalf("DXF: exit %d: %s", code, stderr)
+	}
+	if r := readReport(t, []byte(stdout)); r.Design.Kind != compare.DesignPoints || r.Design.ChordUnits || math.Max(r.Deviation.Max, -r.Deviation.Min) > 1e-9 {
+		t.Errorf("DXF against itself: design %s (chord units %v), deviation %g to %g", r.Design.Kind, r.Design.ChordUnits, r.Deviation.Min, r.Deviation.Max)
 	}
 }
