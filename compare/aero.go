@@ -81,8 +81,12 @@ type CpPair struct {
 }
 
 // CpPoint is Cp at a surface point (chord units, each section's own
-// frame), in node order.
-type CpPoint struct{ X, Y, Cp float64 }
+// frame), in node order, as a result document gives it.
+type CpPoint struct {
+	X  float64 `json:"x"`
+	Y  float64 `json:"y"`
+	Cp float64 `json:"cp"`
+}
 
 // resultDoc is the part of a result document (foilwright.result/1) the
 // comparison reads.
@@ -99,15 +103,6 @@ type resultCase struct {
 	CL       float64   `json:"cl"`
 	CM       float64   `json:"cm_c4"`
 	Cp       []CpPoint `json:"cp"`
-}
-
-func (p *CpPoint) UnmarshalJSON(b []byte) error {
-	var v struct{ X, Y, Cp float64 }
-	if err := json.Unmarshal(b, &v); err != nil {
-		return err
-	}
-	*p = CpPoint(v)
-	return nil
 }
 
 // AeroOptions say which angles the aerodynamic comparison covers.

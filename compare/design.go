@@ -291,6 +291,9 @@ func (d *Design) place(spec DesignSpec, cs *chordShape, m *Measurement, f0 frame
 		f, err := unitFactor(cs.units, m.Units)
 		if err == nil {
 			own = &frame.Frame{Chord: cs.frame.Chord * f, TwistDeg: cs.frame.TwistDeg, LE: [2]float64{cs.frame.LE[0] * f, cs.frame.LE[1] * f}}
+			if cs.frame.Mirrored {
+				d.Warnings = append(d.Warnings, "the design document's frame is mirrored; the design is placed by its chord, twist and leading edge without the mirror")
+			}
 		}
 	}
 	mf := m.Frame()
