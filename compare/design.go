@@ -271,11 +271,12 @@ func parseShape(src string) (*chordShape, error) {
 		if !ok {
 			return nil, fmt.Errorf("%w %q: want karman-trefftz:XC,YC,TE_DEG (circle centre and trailing-edge angle in degrees)", ErrDesign, src)
 		}
-		s, err := prep.KarmanTrefftzSection(geometry.Point{X: v[0], Y: v[1]}, v[2], ShapeNodes)
+		kt := shape.KarmanTrefftz{Centre: geometry.Point{X: v[0], Y: v[1]}, TEAngle: v[2] * math.Pi / 180}
+		nodes, err := kt.Normalized(ShapeNodes)
 		if err != nil {
 			return nil, fmt.Errorf("%w %q: %v", ErrDesign, src, err)
 		}
-		return &chordShape{name: s.Name, nodes: s.Nodes, kind: frame.TESharp}, nil
+		return &chordShape{name: fmt.Sprintf("Karman-Trefftz centre (%g, %g), TE angle %g deg", v[0], v[1], v[2]), nodes: nodes, kind: frame.TESharp}, nil
 	}
 	return nil, fmt.Errorf("%w %q: unknown shape", ErrDesign, src)
 }

@@ -1,9 +1,11 @@
 package pipeline
 
 import (
+	"bytes"
 	"context"
 	"errors"
 	"fmt"
+	"io"
 	"os"
 	"path/filepath"
 	"sort"
@@ -11,6 +13,7 @@ import (
 	"sync"
 	"time"
 
+	"github.com/foilwright/foilwright/export"
 	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/internal/atomicfile"
 	"github.com/foilwright/foilwright/internal/digest"
@@ -212,6 +215,9 @@ func Run(ctx context.Context, pl *Plan, opts RunOptions) (*Summary, error) {
 		}
 	}
 	if !cancelled {
+		if err := writeStationExports(pl, folder, results, m); err != nil {
+			return sum, err
+		}
 		if err := writeVerdicts(pl, folder, results, m); err != nil {
 			return sum, err
 		}
@@ -318,6 +324,55 @@ func writeStations(pl *Plan, folder string, results []sectionResult, m *Manifest
 	}
 	if data != nil {
 		m.Outputs[name] = digest.Bytes(data)
+	}
+	return nil
+}
+
+// writeStationExports writes the stations exports outputs.exports asks
+// for (stations.dxf, stations.csv: every section made, in space, in plan
+// order) and records them in m. Sections neither cut from 3D nor given a
+// station are left out, with a note in the error when none is left.
+func writeStationExports(pl *Plan, folder string, results []sectionResult, m *Manifest) error {
+	out := pl.Pipeline.Outputs
+	if !out.HasExport(ExportStationsDXF) && !out.HasExport(ExportStationsCSV) {
+		return nil
+	}
+	var sts []export.Station
+	for i, r := range results {
+		if r.section == nil {
+			continue
+		}
+		p, err := export.Place(r.section, export.PlaceOptions{})
+		if err != nil {
+			return fmt.Errorf("stations export: section %q: %w", r.report.Name, err)
+		}
+		at := pl.Sections[i].Station
+		if p.Plane == nil {
+			if at == nil {
+				continue
+			}
+			p.AtStation(*at)
+		}
+		sts = append(sts, export.Station{Position: at, Section: p})
+	}
+	if len(sts) == 0 {
+		return errors.New("stations export: no section has a place along the span (a cut plane or a station)")
+	}
+	for _, e := range []struct {
+		kind, name string
+		write      func(io.Writer, []export.Station) error
+	}{{ExportStationsDXF, "stations.dxf", export.StationsDXF}, {ExportStationsCSV, "stations.csv", export.StationsCSV}} {
+		if !out.HasExport(e.kind) {
+			continue
+		}
+		var b bytes.Buffer
+		if err := e.write(&b, sts); err != nil {
+			return fmt.Errorf("stations export: %w", err)
+		}
+		if err := atomicfile.WriteBytes(filepath.Join(folder, e.name), b.Bytes()); err != nil {
+			return err
+		}
+		m.Outputs[e.name] = digest.Bytes(b.Bytes())
 	}
 	return nil
 }

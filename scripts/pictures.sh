@@ -19,7 +19,7 @@ for p in prep deviation section; do
   cp "$src" "$out/probe-$p.svg"
 done
 
-"$fw" run examples/tunnel-model/pipeline.json --quiet --out "$tmp/tunnel" >/dev/null
+"$fw" run examples/tunnel-model/pipeline.json -q -o "$tmp/tunnel"
 cp "$tmp/tunnel/midspan/plots/cp-vortex.svg" "$out/tunnel-cp.svg"
 cp "$tmp/tunnel/midspan/plots/polar.svg" "$out/tunnel-polar.svg"
 cp "$tmp/tunnel/midspan/plots/streamlines-vortex.svg" "$out/tunnel-streamlines.svg"
@@ -27,7 +27,7 @@ cp "$tmp/tunnel/midspan/plots/compare.svg" "$out/tunnel-compare.svg"
 cp "$tmp/tunnel/midspan/plots/compare-deviation.svg" "$out/tunnel-compare-deviation.svg"
 
 # The printed blade is out of tolerance at its trailing edge: run exits 3.
-"$fw" run examples/rotor/pipeline.json --quiet --jobs 2 --out "$tmp/rotor" >/dev/null || [ $? -eq 3 ]
+"$fw" run examples/rotor/pipeline.json -q --jobs 2 -o "$tmp/rotor" || [ $? -eq 3 ]
 cp "$tmp/rotor/stations.svg" "$out/rotor-stations.svg"
 cp "$tmp/rotor/r700/plots/compare.svg" "$out/rotor-r700-compare.svg"
 cp "$tmp/rotor/r700/plots/compare-deviation.svg" "$out/rotor-r700-compare-deviation.svg"

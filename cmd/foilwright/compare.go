@@ -44,7 +44,7 @@ type compareOptions struct {
 	out         string
 	points      string
 	plot        string
-	magnify     float64
+	magnify     wordFloat
 	name        string
 	quiet       bool
 }
@@ -95,12 +95,13 @@ data before relying on them.`,
   foilwright compare r700.json --design design/r700.dat --design-units chord --chord 118.02 \
       --twist 9.53 --offset -35.4,5.89 --align datum --datum nominal --tolerance 0.3 --plot r700.svg
   foilwright compare part.csv --design drawing.dxf --align min-zone --tolerance +0.1/-0.05 --json`,
-		Args: cobra.MinimumNArgs(1),
+		Args:              cobra.MinimumNArgs(1),
+		ValidArgsFunction: pointFileArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			return runCompare(cmd, args, opts)
 		},
 	}
-	opts.prep.registerRead(cmd.Flags())
+	opts.prep.registerRead(cmd)
 	opts.prep.registerShape(cmd)
 	f := cmd.Flags()
 	f.StringVar(&opts.design, "design", "", `the design: a file (section document, listing, DXF, ...) or a reference shape, "naca4:2412" or "karman-trefftz:XC,YC,TE_DEG"`)
@@ -116,17 +117,26 @@ data before relying on them.`,
 	f.StringVar(&opts.alpha, "alpha", "-4:8:2", `angles of attack of the aerodynamic comparison (degrees): "a,b,c" or "start:stop:step"`)
 	f.Float64Var(&opts.cpAlpha, "cp-alpha", 4, "angle of attack (degrees) of the ΔCp picture and figures: the nearest of --alpha")
 	f.BoolVar(&opts.noAero, "no-aero", false, "skip the aerodynamic comparison (no stage processes)")
-	f.BoolVar(&opts.json, "json", false, "print the report (JSON, foilwright.compare/1) on stdout instead of the summary")
-	f.StringVarP(&opts.out, "out", "o", "", "write the report (JSON) to this file (- for stdout)")
-	f.StringVar(&opts.points, "points", "", "write every point's deviation to this CSV file")
+	jsonFlag(cmd, &opts.json, "print the report (JSON, foilwright.compare/1) on standard output in place of the summary")
+	outputFlag(cmd, &opts.out, "write the report (JSON, foilwright.compare/1) to this file (- for standard output; the summary then goes to standard error)", "json")
+	f.StringVar(&opts.points, "points", "", "write every point's deviation to this CSV file (- for standard output)")
 	f.StringVar(&opts.plot, "plot", "", "draw the design with the deviations to this .svg or .png file, and beside it the deviation along the outline (-deviation) and ΔCp (-dcp)")
-	f.Float64Var(&opts.magnify, "magnify", 0, "factor the deviations are drawn at on the outline picture (0: a round factor that shows the largest at about 6 % of the chord)")
+	opts.magnify = wordFloat{word: "auto", min: 0, open: true, kind: "factor"}
+	f.Var(&opts.magnify, "magnify", "factor the deviations are drawn at on the outline picture (auto: a round factor that draws the largest at about 6 % of the chord)")
 	f.StringVar(&opts.name, "name", "", "name of the measured section (default: the first file's name)")
-	f.BoolVarP(&opts.quiet, "quiet", "q", false, "print no summary")
+	quietFlag(cmd, &opts.quiet, "print no summary")
 	opts.host.register(cmd)
 	cmd.MarkFlagRequired("design")
-	cmd.MarkFlagFilename("out", "json")
 	cmd.MarkFlagFilename("points", "csv")
+	cmd.RegisterFlagCompletionFunc("design", func(*cobra.Command, []string, string) ([]string, cobra.ShellCompDirective) {
+		return []string{compare.ShapeNACA4 + ":", compare.ShapeKarmanTrefftz + ":"}, cobra.ShellCompDirectiveDefault // a shape, or a file
+	})
+	for _, name := range []string{"chord", "twist", "offset", "cp-alpha", "magnify", "name"} {
+		cmd.RegisterFlagCompletionFunc(name, noFiles)
+	}
+	cmd.RegisterFlagCompletionFunc("tolerance", fixedCompletions("0.05", "+0.05/-0.02"))
+	cmd.RegisterFlagCompletionFunc("zone", fixedCompletions("name=nose,x=0:0.05,tol=0.02", "name=te,x=0.9:1,surface=upper,tol=+0.1/-0.05"))
+	cmd.RegisterFlagCompletionFunc("alpha", fixedCompletions("-4:8:2", "0,4,8"))
 	cmd.MarkFlagFilename("plot", "svg", "png")
 	cmd.RegisterFlagCompletionFunc("align", fixedCompletions(enum.Names(compare.Alignments())...))
 	cmd.RegisterFlagCompletionFunc("datum", fixedCompletions(enum.Names(compare.Datums())...))
@@ -154,14 +164,22 @@ func runCompare(cmd *cobra.Command, args []string, opts compareOptions) error {
 			return badInputf("--alpha %q: %v", opts.alpha, err)
 		}
 	}
-	for _, p := range []struct{ flag, path string }{{"--plot", opts.plot}} {
-		if p.path != "" {
-			if _, err := plot.FormatOf(p.path); err != nil {
-				return badInputf("%s %s: %v", p.flag, p.path, err)
-			}
+	jsonTo := ""
+	if opts.json {
+		jsonTo = stdoutPath
+	}
+	if err := oneStdout("--output", opts.out, "--points", opts.points, "--json", jsonTo); err != nil {
+		return err
+	}
+	if err := fileOnly("--plot", opts.plot); err != nil {
+		return err
+	}
+	if opts.plot != "" {
+		if _, err := plot.FormatOf(opts.plot); err != nil {
+			return badInputf("--plot %s: %v", opts.plot, err)
 		}
 	}
-	settings, err := opts.prep.settings(fl)
+	settings, err := opts.prep.settings(cmd)
 	if err != nil {
 		return err
 	}
@@ -204,14 +222,12 @@ func runCompare(cmd *cobra.Command, args []string, opts compareOptions) error {
 	}
 	if !opts.quiet {
 		summary := stdout
-		if opts.json || opts.out == "-" {
+		if opts.json || opts.out == stdoutPath || opts.points == stdoutPath {
 			summary = stderr
 		}
 		c.Report.WriteSummary(summary)
 		for _, w := range []string{opts.out, opts.points, opts.plot} {
-			if w != "" && w != "-" {
-				fmt.Fprintf(summary, "wrote %s\n", w)
-			}
+			wrote(summary, w)
 		}
 	}
 	if r := c.Report; r.Verdict == compare.VerdictFail {
@@ -274,9 +290,6 @@ func (o compareOptions) parse(fl *pflag.FlagSet) (compare.Options, compare.Desig
 		}
 		spec.Offset = &p
 	}
-	if fl.Changed("magnify") && !(o.magnify > 0) {
-		return copts, spec, badInputf("--magnify %g: want a positive factor", o.magnify)
-	}
 	return copts, spec, nil
 }
 
@@ -302,7 +315,7 @@ func measurement(files []prep.File, args []string, name string, s prep.Settings)
 	}
 	p, err := prep.Prepare(name, files, s)
 	if err != nil {
-		return nil, badInput(err)
+		return nil, chainError(err)
 	}
 	return compare.FromPreparation(p), nil
 }
@@ -337,7 +350,11 @@ func compareAero(ctx context.Context, c *compare.Comparison, opts compareOptions
 // atomically; and the report on stdout with --json or -o -.
 func writeCompare(stdout io.Writer, c *compare.Comparison, opts compareOptions) error {
 	if opts.plot != "" {
-		figs, err := c.Figures(opts.magnify)
+		magnify := 0.0 // a round factor
+		if m := opts.magnify.ptr(); m != nil {
+			magnify = *m
+		}
+		figs, err := c.Figures(magnify)
 		if err != nil {
 			return err
 		}
@@ -359,7 +376,7 @@ func writeCompare(stdout io.Writer, c *compare.Comparison, opts compareOptions) 
 			return err
 		}
 	}
-	if opts.json && opts.out != "-" {
+	if opts.json && opts.out != stdoutPath {
 		return c.Report.WriteJSON(stdout)
 	}
 	return nil

@@ -63,7 +63,12 @@ applicable codes and licensed engineering practice before anything is built
 from them.`,
 		SilenceUsage:  true,
 		SilenceErrors: true,
+		Version:       currentVersion().String(),
+		// Notes on deprecated flags go to standard error.
+		PersistentPreRunE: warnDeprecated,
 	}
+	root.SetVersionTemplate("foilwright {{.Version}}\n")
+	root.SetUsageFunc(usage)
 	root.CompletionOptions.HiddenDefaultCmd = false
 	for _, c := range []*cobra.Command{
 		newInspectCmd(),
@@ -73,6 +78,7 @@ from them.`,
 		newShapeCmd(),
 		newVersionCmd(),
 		newAnalyzeCmd(),
+		newExportCmd(),
 		newStagesCmd(),
 		newStageServeCmd(),
 		newCompareCmd(),
