@@ -201,7 +201,13 @@ func (c *Comparison) align(opts Options, scaleFree bool, al *AlignmentInfo) (ali
 		return m, align.Feet(o, m, pts), nil
 	}
 	start := c.datumMotion(scaleFree)
-	ls, err := align.LeastSquares(o, pts, start, fit)
+	lsFit := fit
+	if opts.Align == AlignMinZone {
+		// The zone fit needs a start near its optimum, not the least
+		// squares to rounding.
+		lsFit.MaxIterations = 3
+	}
+	ls, err := align.LeastSquares(o, pts, start, lsFit)
 	if err != nil {
 		return align.Motion{}, nil, fmt.Errorf("best fit: %w", err)
 	}
@@ -212,15 +218,19 @@ func (c *Comparison) align(opts Options, scaleFree bool, al *AlignmentInfo) (ali
 	}
 	// The zone fit depends on which zone each point falls in, which
 	// depends on the fit: assign, fit, and assign again until the zones
-	// hold still.
+	// hold still, or until the points that moved to another zone neither
+	// bind nor would (their use below the optimum under both bands): the
+	// points that bind and their bands are then those of the last fit, so
+	// its motion is still the optimum.
 	res := ls
 	var zones []int
+	var prev []align.Band
 	for round := 0; round < 4; round++ {
 		bands, assigned := c.bands(res.Motion, res.Feet, opts.Tolerance)
-		if round > 0 && equalInts(assigned, zones) {
+		if round > 0 && (equalInts(assigned, zones) || slack(prev, bands, zones, assigned, res)) {
 			break
 		}
-		zones = assigned
+		zones, prev = assigned, bands
 		fit.Feet = res.Feet
 		mz, err := align.MinimumZone(o, pts, bands, res.Motion, fit)
 		if err != nil {
@@ -265,6 +275,26 @@ func (c *Comparison) bands(m align.Motion, feet []align.Foot, tol Tolerance) ([]
 // station returns the chord station (design frame) and surface of a foot.
 func (c *Comparison) station(f align.Foot) (float64, string) {
 	return c.Design.Frame.ToChord(f.Point).X, c.Design.Outline.Surface(f.Position)
+}
+
+// slack reports whether every point whose zone changed from was to now
+// uses less of its band than the fit's optimum res.Objective, under its
+// old band and under its new one.
+func slack(old, now []align.Band, was, is []int, res align.Result) bool {
+	if old == nil || now == nil {
+		return false
+	}
+	limit := res.Objective * (1 - 1e-9)
+	for i := range is {
+		if is[i] == was[i] {
+			continue
+		}
+		d := res.Feet[i].Distance
+		if old[i].Use(d) >= limit || now[i].Use(d) >= limit {
+			return false
+		}
+	}
+	return true
 }
 
 func equalInts(a, b []int) bool {
