@@ -6,7 +6,6 @@ import (
 	"encoding/json"
 	"fmt"
 	"io"
-	"os"
 	"path/filepath"
 	"sort"
 	"strings"
@@ -17,6 +16,7 @@ import (
 
 	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/internal/atomicfile"
+	"github.com/foilwright/foilwright/internal/limits"
 	"github.com/foilwright/foilwright/plot"
 	"github.com/foilwright/foilwright/plugins/builtin"
 	"github.com/foilwright/foilwright/plugins/host"
@@ -59,7 +59,7 @@ on them.`,
 			return []string{"json"}, cobra.ShellCompDirectiveFilterFileExt
 		},
 		RunE: func(cmd *cobra.Command, args []string) error {
-			return runAnalyze(cmd.Context(), cmd.InOrStdin(), cmd.OutOrStdout(), cmd.ErrOrStderr(), args[0], opts, cmd.Flags().Changed("alpha"))
+			return runAnalyze(cmd, args[0], opts, cmd.Flags().Changed("alpha"))
 		},
 	}
 	f := cmd.Flags()
@@ -80,12 +80,20 @@ on them.`,
 	return cmd
 }
 
-func runAnalyze(ctx context.Context, stdin io.Reader, stdout, stderr io.Writer, path string, opts analyzeOptions, alphaSet bool) error {
+func runAnalyze(cmd *cobra.Command, path string, opts analyzeOptions, alphaSet bool) error {
+	ctx, stdout, stderr := cmd.Context(), cmd.OutOrStdout(), cmd.ErrOrStderr()
 	spec, err := stageSpec(opts.stage, opts.sha256)
 	if err != nil {
 		return err
 	}
-	data, name, err := readSectionFile(stdin, path)
+	lim, err := limitsOf(cmd)
+	if err != nil {
+		return err
+	}
+	if err := atomicfile.CheckTargets(opts.out, opts.plot); err != nil {
+		return err
+	}
+	data, name, err := readInput(cmd, path)
 	if err != nil {
 		return err
 	}
@@ -94,7 +102,7 @@ func runAnalyze(ctx context.Context, stdin io.Reader, stdout, stderr io.Writer, 
 		return badInput(err)
 	}
 
-	h, err := opts.host.newHost(stderr)
+	h, err := opts.host.newHost(stderr, lim)
 	if err != nil {
 		return err
 	}
@@ -105,7 +113,7 @@ func runAnalyze(ctx context.Context, stdin io.Reader, stdout, stderr io.Writer, 
 		return stageError(err)
 	}
 	_, takesAlpha := info.Param("alpha_deg")
-	params, err := analyzeParams(opts, alphaSet, takesAlpha)
+	params, err := analyzeParams(opts, alphaSet, takesAlpha, lim)
 	if err != nil {
 		return err
 	}
@@ -123,8 +131,11 @@ func runAnalyze(ctx context.Context, stdin io.Reader, stdout, stderr io.Writer, 
 	if opts.timings {
 		printTimings(stderr, reply.Timings)
 	}
+	// Every file is written as one set: all of them, or none.
+	var files atomicfile.Set
+	defer files.Abort()
 	if opts.plot != "" {
-		if err := analyzePlots(ctx, h, opts.plot, data, name, reply.JSON); err != nil {
+		if err := analyzePlots(ctx, h, &files, opts.plot, data, name, reply.JSON); err != nil {
 			return err
 		}
 	}
@@ -133,17 +144,20 @@ func runAnalyze(ctx context.Context, stdin io.Reader, stdout, stderr io.Writer, 
 		doc = append(doc, '\n')
 	}
 	if opts.out != "" {
-		if err := atomicfile.WriteBytes(opts.out, doc); err != nil {
+		if err := files.AddBytes(opts.out, doc); err != nil {
 			return err
 		}
 		// Stages never write files; their artifacts go beside the result.
 		for _, a := range reply.Artifacts {
-			if err := atomicfile.WriteBytes(filepath.Join(filepath.Dir(opts.out), a.Name), a.Data); err != nil {
+			if err := files.AddBytes(filepath.Join(filepath.Dir(opts.out), a.Name), a.Data); err != nil {
 				return err
 			}
 		}
 	} else if n := len(reply.Artifacts); n > 0 {
 		fmt.Fprintf(stderr, "note: the stage returned %d artifact(s); give -o to write them beside the result\n", n)
+	}
+	if err := files.Commit(); err != nil {
+		return err
 	}
 	if opts.json {
 		_, err := stdout.Write(doc)
@@ -159,7 +173,7 @@ const analysisID = "analysis"
 // analyzePlots draws the result through the built-in plots stage (in its
 // own process, like every stage) and writes its pictures: Cp to path, the
 // others beside it (path-polar, path-section, path-streamlines).
-func analyzePlots(ctx context.Context, h *host.Host, path string, section []byte, name string, result []byte) error {
+func analyzePlots(ctx context.Context, h *host.Host, files *atomicfile.Set, path string, section []byte, name string, result []byte) error {
 	format, err := plot.FormatOf(path)
 	if err != nil {
 		return badInputf("--plot %s: %v", path, err)
@@ -173,24 +187,29 @@ func analyzePlots(ctx context.Context, h *host.Host, path string, section []byte
 		return stageError(err)
 	}
 	for _, a := range reply.Artifacts {
-		if err := atomicfile.WriteBytes(builtin.PicturePath(path, a.Name, format, analysisID), a.Data); err != nil {
+		if err := files.AddBytes(builtin.PicturePath(path, a.Name, format, analysisID), a.Data); err != nil {
 			return err
 		}
 	}
 	return nil
 }
 
-// readSectionFile reads the section file path, or stdin for "-", whole
-// (before any stage starts: go-plugin hands stdin to the stage process).
-func readSectionFile(stdin io.Reader, path string) ([]byte, string, error) {
+// readInput reads the input file path, or stdin for "-", whole (before
+// any stage starts), within the input limits of cmd's command line:
+// input-bytes and input-lines.
+func readInput(cmd *cobra.Command, path string) ([]byte, string, error) {
+	lim, err := limitsOf(cmd)
+	if err != nil {
+		return nil, "", err
+	}
 	if path == "-" {
-		data, err := io.ReadAll(stdin)
+		data, err := limits.Read(cmd.InOrStdin(), "stdin", lim.InputBytes, lim.InputLines)
 		if err != nil {
-			return nil, "", badInputf("stdin: %v", err)
+			return nil, "", badInputf("%v", err)
 		}
 		return data, "stdin", nil
 	}
-	data, err := os.ReadFile(path)
+	data, err := limits.ReadFile(path, lim.InputBytes, lim.InputLines)
 	if err != nil {
 		return nil, "", badInput(err)
 	}
@@ -199,8 +218,14 @@ func readSectionFile(stdin io.Reader, path string) ([]byte, string, error) {
 
 // analyzeParams builds the stage's parameter object from --params and
 // --alpha. Angles are passed only to a stage that declares alpha_deg.
-func analyzeParams(opts analyzeOptions, alphaSet, takesAlpha bool) ([]byte, error) {
+func analyzeParams(opts analyzeOptions, alphaSet, takesAlpha bool, lim limits.Limits) ([]byte, error) {
 	params := map[string]json.RawMessage{}
+	if n := int64(len(opts.params)); lim.JSONBytes > 0 && n > lim.JSONBytes {
+		return nil, badInput(&limits.Error{File: "--params", Limit: limits.JSONBytes, Value: lim.JSONBytes, What: limits.Size(n)})
+	}
+	if err := limits.CheckDepth([]byte(opts.params), lim.JSONDepth); err != nil {
+		return nil, badInputf("--params: %v", err)
+	}
 	if strings.TrimSpace(opts.params) != "" {
 		dec := json.NewDecoder(strings.NewReader(opts.params))
 		if err := dec.Decode(&params); err != nil || params == nil || dec.More() {

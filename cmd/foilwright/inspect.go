@@ -33,7 +33,7 @@ geometry chain as prep, with the same flags, and prints prep's summary.`,
   foilwright inspect section.json --json`,
 		Args: cobra.MinimumNArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
-			files, err := inputFiles(cmd.InOrStdin(), args)
+			files, err := inputFiles(cmd, args)
 			if err != nil {
 				return err
 			}

@@ -41,7 +41,7 @@ and reasons, loops found, flatness) and writes the ordered contour as CSV
 			if err != nil {
 				return err
 			}
-			files, err := inputFiles(cmd.InOrStdin(), args)
+			files, err := inputFiles(cmd, args)
 			if err != nil {
 				return err
 			}
@@ -64,6 +64,11 @@ and reasons, loops found, flatness) and writes the ordered contour as CSV
 
 func writePoints(stdout, stderr io.Writer, cl *prep.Cleaned, opts pointsOptions) error {
 	c := cl.Contour
+	out, err := newOutputs(stdout, opts.out, opts.plot)
+	if err != nil {
+		return err
+	}
+	defer out.abort()
 	if opts.plot != "" {
 		if _, err := plot.FormatOf(opts.plot); err != nil {
 			return badInputf("--plot %s: %v", opts.plot, err)
@@ -72,7 +77,7 @@ func writePoints(stdout, stderr io.Writer, cl *prep.Cleaned, opts pointsOptions)
 		if err != nil {
 			return err
 		}
-		if err := plot.Save(f, opts.plot, 0, 0); err != nil {
+		if err := out.picture(f, opts.plot); err != nil {
 			return err
 		}
 	}
@@ -81,16 +86,22 @@ func writePoints(stdout, stderr io.Writer, cl *prep.Cleaned, opts pointsOptions)
 		if err != nil {
 			return err
 		}
-		if err := writeOutput(stdout, opts.out, func(w io.Writer) error { _, err := w.Write(b); return err }); err != nil {
+		if err := out.write(opts.out, func(w io.Writer) error { _, err := w.Write(b); return err }); err != nil {
+			return err
+		}
+		if err := out.commit(); err != nil {
 			return err
 		}
 		if opts.out == "" {
 			return nil
 		}
 	} else if opts.out != "" {
-		if err := writeOutput(stdout, opts.out, func(w io.Writer) error { return pointfile.WriteCSV(w, c.Points, c.Origins) }); err != nil {
+		if err := out.write(opts.out, func(w io.Writer) error { return pointfile.WriteCSV(w, c.Points, c.Origins) }); err != nil {
 			return err
 		}
+	}
+	if err := out.commit(); err != nil {
+		return err
 	}
 	w := stdout
 	if opts.json && opts.out == "" {

@@ -8,6 +8,7 @@ import (
 
 	"github.com/foilwright/foilwright/geometry/pointfile"
 	"github.com/foilwright/foilwright/geometry/section"
+	"github.com/foilwright/foilwright/internal/atomicfile"
 	"github.com/foilwright/foilwright/plot"
 	"github.com/foilwright/foilwright/prep"
 )
@@ -44,13 +45,17 @@ its file and line.`,
 			if err != nil {
 				return err
 			}
-			files, err := inputFiles(cmd.InOrStdin(), args)
+			files, err := inputFiles(cmd, args)
 			if err != nil {
 				return err
 			}
 			name := opts.name
 			if name == "" {
 				name = sectionName(args)
+			}
+			// Refuse an output that may not be written before any work.
+			if err := atomicfile.CheckTargets(prepTargets(opts)...); err != nil {
+				return err
 			}
 			p, err := prep.Prepare(name, files, s)
 			if err != nil {
@@ -72,22 +77,42 @@ its file and line.`,
 	return cmd
 }
 
-// writePrep writes the outputs of a preparation: plots first, then the node
-// listing, then the section document, each atomically, and the summary.
-func writePrep(stdout, stderr io.Writer, p *prep.Preparation, opts prepOptions) error {
+// prepTargets are the files prep writes: the section, the node listing
+// and the pictures.
+func prepTargets(opts prepOptions) []string {
+	ts := []string{opts.out, opts.nodes}
 	if opts.plot != "" {
-		if err := writePrepPlots(opts.plot, p); err != nil {
+		for _, name := range prep.PlotNames {
+			ts = append(ts, prep.SiblingPath(opts.plot, name))
+		}
+	}
+	return ts
+}
+
+// writePrep writes the outputs of a preparation as one set (plots, the node
+// listing, the section document: all or none), and the summary.
+func writePrep(stdout, stderr io.Writer, p *prep.Preparation, opts prepOptions) error {
+	out, err := newOutputs(stdout, prepTargets(opts)...)
+	if err != nil {
+		return err
+	}
+	defer out.abort()
+	if opts.plot != "" {
+		if err := writePrepPlots(out, opts.plot, p); err != nil {
 			return err
 		}
 	}
 	if opts.nodes != "" {
-		if err := writeOutput(stdout, opts.nodes, func(w io.Writer) error {
+		if err := out.write(opts.nodes, func(w io.Writer) error {
 			return pointfile.WriteNodes(w, p.Section.Name, p.Section.Nodes)
 		}); err != nil {
 			return err
 		}
 	}
-	if err := writeOutput(stdout, opts.out, func(w io.Writer) error { return section.Write(w, p.Section) }); err != nil {
+	if err := out.write(opts.out, func(w io.Writer) error { return section.Write(w, p.Section) }); err != nil {
+		return err
+	}
+	if err := out.commit(); err != nil {
 		return err
 	}
 	if opts.quiet {
@@ -107,7 +132,7 @@ func writePrep(stdout, stderr io.Writer, p *prep.Preparation, opts prepOptions) 
 // writePrepPlots draws the preparation pictures to path (its extension
 // chooses SVG or PNG) and to siblings named path-deviation, path-nodes and
 // path-section.
-func writePrepPlots(path string, p *prep.Preparation) error {
+func writePrepPlots(out *outputs, path string, p *prep.Preparation) error {
 	if _, err := plot.FormatOf(path); err != nil {
 		return badInputf("--plot %s: %v", path, err)
 	}
@@ -116,7 +141,7 @@ func writePrepPlots(path string, p *prep.Preparation) error {
 		return err
 	}
 	for _, name := range prep.PlotNames {
-		if err := plot.Save(figs[name], prep.SiblingPath(path, name), 0, 0); err != nil {
+		if err := out.picture(figs[name], prep.SiblingPath(path, name)); err != nil {
 			return err
 		}
 	}

@@ -1,7 +1,6 @@
 package main
 
 import (
-	"io"
 	"strconv"
 	"strings"
 
@@ -160,11 +159,12 @@ func (p *prepFlags) settings(f *pflag.FlagSet) (prep.Settings, error) {
 	return s, nil
 }
 
-// inputFiles reads the named files whole (or stdin for "-").
-func inputFiles(stdin io.Reader, paths []string) ([]prep.File, error) {
+// inputFiles reads the named files whole (or stdin for "-"), within the
+// input limits of cmd's command line.
+func inputFiles(cmd *cobra.Command, paths []string) ([]prep.File, error) {
 	var files []prep.File
 	for _, p := range paths {
-		data, name, err := readSectionFile(stdin, p)
+		data, name, err := readInput(cmd, p)
 		if err != nil {
 			return nil, err
 		}

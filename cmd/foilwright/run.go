@@ -1,6 +1,7 @@
 package main
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"io"
@@ -12,9 +13,11 @@ import (
 	"github.com/spf13/cobra"
 	"golang.org/x/term"
 
+	"github.com/foilwright/foilwright/internal/limits"
 	"github.com/foilwright/foilwright/pipeline"
 	"github.com/foilwright/foilwright/plugins/builtin"
 	"github.com/foilwright/foilwright/plugins/host"
+	"github.com/foilwright/foilwright/plugins/stage"
 )
 
 type runOptions struct {
@@ -58,7 +61,7 @@ byte for byte.`,
 	f := cmd.Flags()
 	f.StringVar(&opts.out, "out", "", "run folder (default: the pipeline's outputs.folder)")
 	f.IntVarP(&opts.jobs, "jobs", "j", 1, "sections made at once, each worker with its own stage processes")
-	f.BoolVar(&opts.replace, "replace", false, "replace an earlier run in the run folder (only the files its manifest lists)")
+	f.BoolVar(&opts.replace, "replace", false, "replace the earlier run in the run folder, as a whole, once every section succeeded (the folder must hold only that run)")
 	f.BoolVar(&opts.verify, "verify", false, "the argument is a manifest.json: re-run it and compare every output")
 	f.BoolVar(&opts.keep, "keep", false, "with --verify, keep the re-run's folder")
 	f.BoolVarP(&opts.quiet, "quiet", "q", false, "show no progress")
@@ -79,7 +82,11 @@ func runPipeline(cmd *cobra.Command, path string, opts runOptions) error {
 	if opts.jobs < 1 {
 		return badInputf("--jobs %d: want 1 or more", opts.jobs)
 	}
-	p, err := pipeline.Load(path, known)
+	lim, err := limitsOf(cmd)
+	if err != nil {
+		return err
+	}
+	p, err := pipeline.LoadWith(path, parseOptions(lim))
 	if err != nil {
 		return badInput(err)
 	}
@@ -87,7 +94,7 @@ func runPipeline(cmd *cobra.Command, path string, opts runOptions) error {
 	if opts.plan {
 		return pl.Describe(stdout)
 	}
-	h, err := opts.host.newHost(stderr)
+	h, err := opts.host.newHost(stderr, lim)
 	if err != nil {
 		return err
 	}
@@ -100,27 +107,42 @@ func runPipeline(cmd *cobra.Command, path string, opts runOptions) error {
 	sum, err := pipeline.Run(cmd.Context(), pl, pipeline.RunOptions{
 		Folder: opts.out, Replace: opts.replace, Jobs: opts.jobs,
 		Preparer: pipeline.Chain{}, NewRunner: pipeline.HostRunners(h, self),
-		Done: prog.done,
+		Done: prog.done, Limits: lim,
 	})
 	prog.finish()
 	if sum != nil {
 		sum.Write(stdout)
 	}
 	if err != nil {
-		if errors.Is(err, pipeline.ErrFolderNotEmpty) {
-			return badInput(err)
-		}
 		return err
 	}
-	if n := len(sum.Failed()); n > 0 {
-		return fmt.Errorf("%d of %d section(s) did not complete", n, len(sum.Sections))
+	return sum.Err()
+}
+
+// parseOptions are the pipeline file's checks for the limits lim: its
+// size and nesting, and the parameters of built-in stages.
+func parseOptions(lim limits.Limits) pipeline.ParseOptions {
+	return pipeline.ParseOptions{Known: known, Describe: builtinInfo, MaxBytes: lim.JSONBytes, MaxDepth: lim.JSONDepth}
+}
+
+// builtinInfo describes a built-in stage in process, for the checks of a
+// pipeline file.
+func builtinInfo(name string) (stage.Info, bool) {
+	s, ok := builtin.Lookup(name)
+	if !ok {
+		return stage.Info{}, false
 	}
-	return nil
+	info, err := s.Describe(context.Background())
+	return info, err == nil
 }
 
 func runVerify(cmd *cobra.Command, manifest string, opts runOptions) error {
 	stdout, stderr := cmd.OutOrStdout(), cmd.ErrOrStderr()
-	h, err := opts.host.newHost(stderr)
+	lim, err := limitsOf(cmd)
+	if err != nil {
+		return err
+	}
+	h, err := opts.host.newHost(stderr, lim)
 	if err != nil {
 		return err
 	}
@@ -131,9 +153,10 @@ func runVerify(cmd *cobra.Command, manifest string, opts runOptions) error {
 	}
 	rep, err := pipeline.Verify(cmd.Context(), manifest, pipeline.VerifyOptions{
 		Known: known, Jobs: opts.jobs, Preparer: pipeline.Chain{}, NewRunner: pipeline.HostRunners(h, self), Keep: opts.keep,
+		Parse: parseOptions(lim), Limits: lim,
 	})
 	if err != nil {
-		if errors.Is(err, pipeline.ErrPipelineChanged) || errors.Is(err, pipeline.ErrInputChanged) || errors.Is(err, pipeline.ErrNotManifest) || errors.Is(err, os.ErrNotExist) {
+		if errors.Is(err, os.ErrNotExist) {
 			return badInput(err)
 		}
 		return err

@@ -136,6 +136,11 @@ func writeShape(stdout io.Writer, opts *shapeOptions, s *section.Section) error 
 			return badInputf("--plot %s: %v", opts.plot, err)
 		}
 	}
+	out, err := newOutputs(stdout, opts.out, opts.nodes, opts.plot)
+	if err != nil {
+		return err
+	}
+	defer out.abort()
 	pd, err := prep.NodeProperties(s)
 	if err != nil {
 		return err
@@ -145,18 +150,18 @@ func writeShape(stdout io.Writer, opts *shapeOptions, s *section.Section) error 
 		if err != nil {
 			return err
 		}
-		if err := plot.Save(f, opts.plot, 0, 0); err != nil {
+		if err := out.picture(f, opts.plot); err != nil {
 			return err
 		}
 	}
-	if err := writeOutput(stdout, opts.out, func(w io.Writer) error { return section.Write(w, s) }); err != nil {
+	if err := out.write(opts.out, func(w io.Writer) error { return section.Write(w, s) }); err != nil {
 		return err
 	}
 	if opts.nodes != "" {
 		name := strings.TrimSpace(s.Name)
-		if err := writeOutput(stdout, opts.nodes, func(w io.Writer) error { return pointfile.WriteNodes(w, name, s.Nodes) }); err != nil {
-			return fmt.Errorf("write %s: %w", opts.nodes, err)
+		if err := out.write(opts.nodes, func(w io.Writer) error { return pointfile.WriteNodes(w, name, s.Nodes) }); err != nil {
+			return err
 		}
 	}
-	return nil
+	return out.commit()
 }

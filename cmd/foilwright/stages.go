@@ -1,6 +1,8 @@
 package main
 
 import (
+	"github.com/foilwright/foilwright/internal/limits"
+
 	"context"
 	"encoding/json"
 	"fmt"
@@ -49,7 +51,7 @@ func listPipelineStages(ctx context.Context, w, stderr io.Writer, path string, h
 	if err != nil {
 		return badInput(err)
 	}
-	h, err := hf.newHost(stderr)
+	h, err := hf.newHost(stderr, limits.Default())
 	if err != nil {
 		return err
 	}
@@ -143,7 +145,7 @@ func describeStage(ctx context.Context, stdout, stderr io.Writer, name string, o
 	if err != nil {
 		return err
 	}
-	h, err := opts.host.newHost(stderr)
+	h, err := opts.host.newHost(stderr, limits.Default())
 	if err != nil {
 		return err
 	}
