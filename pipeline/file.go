@@ -851,6 +851,16 @@ func (ps *parser) outputs(v gjson.Result) {
 	if val, ok := vals["folder"]; ok {
 		if s, ok := c.wantString("outputs.folder", val, true); ok {
 			out.Folder = s
+			// A run folder is made or replaced as a whole: it cannot be a
+			// file, nor a symbolic link (replacing it would replace the
+			// link, not the folder behind it).
+			switch fi, err := os.Lstat(ps.abs(s)); {
+			case err != nil:
+			case fi.Mode()&os.ModeSymlink != 0:
+				c.add(val.Index, "outputs.folder", "%q is a symbolic link; name the folder it points to", s)
+			case !fi.IsDir():
+				c.add(val.Index, "outputs.folder", "%q is a file, not a folder", s)
+			}
 		}
 	}
 	if val, ok := vals["documents"]; ok {

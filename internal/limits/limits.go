@@ -72,8 +72,8 @@ type Info struct {
 }
 
 var infos = []Info{
-	{InputBytes, "256 MiB", "bytes", "bytes read from one input file or standard input"},
-	{InputLines, "2000000", "lines", "lines of one text input (binary STL is bounded by input-bytes only)"},
+	{InputBytes, "128 MiB", "bytes", "bytes read from one input file or standard input"},
+	{InputLines, "500000", "lines", "lines of one text input (binary STL is bounded by input-bytes only)"},
 	{JSONBytes, "16 MiB", "bytes", "bytes of a pipeline file, a manifest or --params"},
 	{JSONDepth, "64", "levels", "nesting of arrays and objects in a pipeline file, a manifest, --params or a stage's result (at most 1000)"},
 	{StageNodes, "each stage's own", "nodes", "section nodes sent to a stage; a stage states its own maximum (stages describe)"},
@@ -87,8 +87,8 @@ func List() []Info { return append([]Info(nil), infos...) }
 // Default returns the default limits.
 func Default() Limits {
 	return Limits{
-		InputBytes:  256 << 20,
-		InputLines:  2_000_000,
+		InputBytes:  128 << 20,
+		InputLines:  500_000,
 		JSONBytes:   16 << 20,
 		JSONDepth:   64,
 		ResultBytes: 32 << 20,
