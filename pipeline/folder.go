@@ -74,6 +74,12 @@ func openRunFolder(folder string, replace bool) (rf *runFolder, err error) {
 	if rf.staging, err = os.MkdirTemp(parent, "."+base+stagingInfix); err != nil {
 		return nil, fmt.Errorf("pipeline: run folder: %w", err)
 	}
+	// MkdirTemp makes the folder private (0700); it becomes the run
+	// folder, which others may read, as a folder made by MkdirAll.
+	if err := os.Chmod(rf.staging, 0o755); err != nil {
+		os.Remove(rf.staging)
+		return nil, fmt.Errorf("pipeline: run folder: %w", err)
+	}
 	return rf, nil
 }
 

@@ -53,6 +53,9 @@ func TestReplaceKeepsEarlierRunOnFailure(t *testing.T) {
 	if after := readTree(t, folder); !reflect.DeepEqual(after, before) {
 		t.Errorf("the earlier run changed: %d files before, %d after", len(before), len(after))
 	}
+	if fi, err := os.Stat(folder); err != nil || fi.Mode().Perm() != 0o755 {
+		t.Errorf("run folder mode %v (%v), want 0755 like any folder foilwright makes", fi.Mode().Perm(), err)
+	}
 	var b strings.Builder
 	sum.Write(&b)
 	if !strings.Contains(b.String(), "earlier run in") {

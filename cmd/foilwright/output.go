@@ -8,15 +8,6 @@ import (
 	"github.com/foilwright/foilwright/plot"
 )
 
-// writeOutput writes through fill to path atomically, or to stdout when path
-// is "" or "-". A path that exists and is not a regular file is refused.
-func writeOutput(stdout io.Writer, path string, fill func(io.Writer) error) error {
-	if path == "" || path == "-" {
-		return fill(stdout)
-	}
-	return atomicfile.Write(path, fill)
-}
-
 // outputs writes a command's files as one: every target is checked before
 // any work (a FIFO, a device, a symbolic link, a folder or a path in a
 // missing folder is refused with exit status 2), each file goes to a

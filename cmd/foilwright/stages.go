@@ -165,6 +165,9 @@ func writeInfo(w io.Writer, info stage.Info) error {
 	if info.MaxConcurrency > 0 {
 		fmt.Fprintf(w, "serves at most %d call(s) at once per process\n", info.MaxConcurrency)
 	}
+	if info.MaxNodes > 0 {
+		fmt.Fprintf(w, "takes sections of at most %d nodes\n", info.MaxNodes)
+	}
 	fmt.Fprintln(w, "\nPARAMETERS")
 	tw := tabwriter.NewWriter(w, 0, 4, 2, ' ', 0)
 	if len(info.Params) == 0 {
