@@ -10,10 +10,13 @@ import (
 	"path/filepath"
 	"regexp"
 	"runtime"
+	"slices"
 	"sort"
 	"strings"
 
+	"github.com/foilwright/foilwright/export"
 	"github.com/foilwright/foilwright/internal/digest"
+	"github.com/foilwright/foilwright/internal/enum"
 	"github.com/foilwright/foilwright/internal/limits"
 	"github.com/foilwright/foilwright/plugins/stage"
 	"github.com/foilwright/foilwright/prep"
@@ -104,7 +107,30 @@ type Outputs struct {
 	Plots     []string // PlotPrep, PlotStations
 	// PlotFormat is the picture format of Plots, "svg" (default) or "png".
 	PlotFormat string
+	// Exports are the exports of each section (export.Kinds, written to
+	// <section>/export/) and of the run (ExportStationsDXF,
+	// ExportStationsCSV, at the root of the run folder).
+	Exports []string
+	// ExportFrame is the frame of the geometric exports: "" (the part
+	// frame, or the chord frame for a section in chord units), or one of
+	// export.Frames.
+	ExportFrame string
 }
+
+// Exports of the whole run (outputs.exports), beside the per-section
+// kinds of export.Kinds.
+const (
+	ExportStationsDXF = "stations-dxf" // stations.dxf: the stations in space, for a CAD loft
+	ExportStationsCSV = "stations-csv" // stations.csv
+)
+
+// ExportKinds returns the names outputs.exports accepts.
+func ExportKinds() []string {
+	return append(enum.Names(export.Kinds()), ExportStationsDXF, ExportStationsCSV)
+}
+
+// HasExport reports whether exports lists kind.
+func (o Outputs) HasExport(kind string) bool { return slices.Contains(o.Exports, kind) }
 
 // HasPlot reports whether plots lists name.
 func (o Outputs) HasPlot(name string) bool {
@@ -251,7 +277,7 @@ var (
 	topKeys    = keySet("foilwright", "name", "inputs", "prepare", "stages", "outputs")
 	inputKeys  = keySet("name", "files", "per_file", "station", "format", "columns", "units", "cut", "band", "flat_tol")
 	stageKeys  = keySet("id", "stage", "sha256", "params", "after", "on_error", "timeout_s", "env", "pins")
-	outputKeys = keySet("folder", "documents", "plots", "plot_format")
+	outputKeys = keySet("folder", "documents", "plots", "plot_format", "exports", "export_frame")
 	// inputAllowed also admits the prepare keys an input may not set, so
 	// that they get a message of their own.
 	inputAllowed = func() map[string]bool {
@@ -893,6 +919,24 @@ func (ps *parser) outputs(v gjson.Result) {
 	if val, ok := vals["plot_format"]; ok {
 		if e, ok := c.wantEnum("outputs.plot_format", val, "svg", "png"); ok {
 			out.PlotFormat = e
+		}
+	}
+	if val, ok := vals["exports"]; ok {
+		seen := map[string]bool{}
+		c.wantArray("outputs.exports", val, func(_ int, ipath string, d gjson.Result) {
+			if e, ok := c.wantEnum(ipath, d, ExportKinds()...); ok {
+				if seen[e] {
+					c.add(d.Index, ipath, "%q listed twice", e)
+					return
+				}
+				seen[e] = true
+				out.Exports = append(out.Exports, e)
+			}
+		})
+	}
+	if val, ok := vals["export_frame"]; ok {
+		if e, ok := c.wantEnum("outputs.export_frame", val, export.Frames()...); ok {
+			out.ExportFrame = e
 		}
 	}
 }

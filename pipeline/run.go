@@ -1,15 +1,18 @@
 package pipeline
 
 import (
+	"bytes"
 	"context"
 	"errors"
 	"fmt"
+	"io"
 	"path/filepath"
 	"sort"
 	"strings"
 	"sync"
 	"time"
 
+	"github.com/foilwright/foilwright/export"
 	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/internal/atomicfile"
 	"github.com/foilwright/foilwright/internal/digest"
@@ -159,20 +162,40 @@ func (s *Summary) Failed() []SectionReport {
 // first). A stage that failed with on_error "continue" counts.
 func (s *Summary) Err() error {
 	bad, input := 0, false
-	for _, r := range s.Sections {
-		if r.Status != StatusOK {
-			bad++
-			input = input || r.Input
+	var first *SectionReport
+	for i := range s.Sections {
+		r := &s.Sections[i]
+		if r.Status == StatusOK {
+			continue
+		}
+		bad++
+		input = input || r.Input
+		if first == nil || first.Err == "" && r.Err != "" {
+			first = r
 		}
 	}
 	if bad == 0 {
 		return nil
 	}
-	err := fmt.Errorf("%d of %d section(s) did not complete", bad, len(s.Sections))
+	msg := fmt.Sprintf("%d of %d section(s) did not complete; %s: %s", bad, len(s.Sections), first.Name, first.reason())
 	if input {
-		err = fmt.Errorf("%w (%w: a section's input or parameters must be fixed)", err, ErrBadInput)
+		return fmt.Errorf("%s (%w: a section's input or parameters must be fixed)", msg, ErrBadInput)
 	}
-	return err
+	return errors.New(msg)
+}
+
+// reason says why a section did not complete: its error, or the first
+// stage that failed.
+func (r *SectionReport) reason() string {
+	if r.Err != "" {
+		return r.Err
+	}
+	for _, st := range r.Stages {
+		if st.Err != "" {
+			return fmt.Sprintf("stage %q %s: %s", st.ID, st.Status, st.Err)
+		}
+	}
+	return r.Status
 }
 
 // allOK reports whether every section succeeded.
@@ -255,6 +278,11 @@ func Run(ctx context.Context, pl *Plan, opts RunOptions) (*Summary, error) {
 	m.recordEnvironment(calls, runners)
 	if !cancelled && pl.Pipeline.Outputs.HasPlot(PlotStations) {
 		if err := writeStations(pl, rf.staging, results, m); err != nil {
+			return sum, err
+		}
+	}
+	if !cancelled {
+		if err := writeStationExports(pl, rf.staging, results, m); err != nil {
 			return sum, err
 		}
 	}
@@ -374,6 +402,55 @@ func writeStations(pl *Plan, folder string, results []sectionResult, m *Manifest
 	}
 	if data != nil {
 		m.Outputs[name] = digest.Bytes(data)
+	}
+	return nil
+}
+
+// writeStationExports writes the stations exports outputs.exports asks
+// for (stations.dxf, stations.csv: every section made, in space, in plan
+// order) and records them in m. Sections neither cut from 3D nor given a
+// station are left out, with a note in the error when none is left.
+func writeStationExports(pl *Plan, folder string, results []sectionResult, m *Manifest) error {
+	out := pl.Pipeline.Outputs
+	if !out.HasExport(ExportStationsDXF) && !out.HasExport(ExportStationsCSV) {
+		return nil
+	}
+	var sts []export.Station
+	for i, r := range results {
+		if r.section == nil {
+			continue
+		}
+		p, err := export.Place(r.section, export.PlaceOptions{})
+		if err != nil {
+			return fmt.Errorf("stations export: section %q: %w", r.report.Name, err)
+		}
+		at := pl.Sections[i].Station
+		if p.Plane == nil {
+			if at == nil {
+				continue
+			}
+			p.AtStation(*at)
+		}
+		sts = append(sts, export.Station{Position: at, Section: p})
+	}
+	if len(sts) == 0 {
+		return errors.New("stations export: no section has a place along the span (a cut plane or a station)")
+	}
+	for _, e := range []struct {
+		kind, name string
+		write      func(io.Writer, []export.Station) error
+	}{{ExportStationsDXF, "stations.dxf", export.StationsDXF}, {ExportStationsCSV, "stations.csv", export.StationsCSV}} {
+		if !out.HasExport(e.kind) {
+			continue
+		}
+		var b bytes.Buffer
+		if err := e.write(&b, sts); err != nil {
+			return fmt.Errorf("stations export: %w", err)
+		}
+		if err := atomicfile.WriteBytes(filepath.Join(folder, e.name), b.Bytes()); err != nil {
+			return err
+		}
+		m.Outputs[e.name] = digest.Bytes(b.Bytes())
 	}
 	return nil
 }

@@ -8,15 +8,19 @@ import (
 	"os"
 	"path/filepath"
 	"regexp"
+	"slices"
 	"strings"
 	"time"
 
 	"github.com/tidwall/gjson"
 
+	"github.com/foilwright/foilwright/export"
+	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/pointfile"
 	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/internal/atomicfile"
 	"github.com/foilwright/foilwright/internal/digest"
+	"github.com/foilwright/foilwright/internal/enum"
 	"github.com/foilwright/foilwright/internal/limits"
 	"github.com/foilwright/foilwright/plugins/host"
 	"github.com/foilwright/foilwright/plugins/stage"
@@ -119,6 +123,7 @@ func runSection(ctx context.Context, pl *Plan, folder string, i int, calls []Sta
 		r.prepare(opts.Preparer) &&
 		r.collectDocuments() &&
 		r.runStages(calls, runner) &&
+		r.collectExports() &&
 		r.write(folder)
 	return r.res
 }
@@ -184,6 +189,9 @@ func (r *sectionRun) prepare(preparer Preparer) bool {
 	}
 	if crashed {
 		return r.fail("prepare: %v", err)
+	}
+	if errors.Is(err, prep.ErrNoUnits) {
+		return r.failInput("prepare: %v: give it with the \"units\" key of prepare or of the input", err)
 	}
 	if err != nil {
 		return r.failInput("prepare: %v", err)
@@ -306,13 +314,70 @@ func (r *sectionRun) stageOutputs(id string, out stage.Result) {
 	}
 }
 
+// collectExports makes the exports outputs.exports asks for, in the
+// part frame (the chord frame for a section in chord units), after the
+// stages, whose results the tables need.
+func (r *sectionRun) collectExports() bool {
+	out := r.pl.Pipeline.Outputs
+	if len(out.Exports) == 0 {
+		return true
+	}
+	frame := out.ExportFrame
+	if frame == "" && (r.sec.Frame == nil || r.sec.Units == "" || r.sec.Units == geometry.ChordUnit) {
+		frame = export.FrameChord
+	}
+	var results []*export.Result
+	for _, o := range r.outs {
+		if strings.HasPrefix(o.path, r.sp.Name+"/results/") {
+			res, err := export.ReadResult(o.data, o.path, r.sp.Name)
+			if err != nil {
+				return r.fail("export: %v", err)
+			}
+			results = append(results, res)
+		}
+	}
+	for _, kind := range out.Exports {
+		if !slices.ContainsFunc(export.Kinds(), func(c enum.Choice) bool { return c.Name == kind }) {
+			continue // a run-level export
+		}
+		var b bytes.Buffer
+		var err error
+		switch {
+		case kind == export.KindPolarCSV:
+			err = export.PolarCSV(&b, results)
+		case kind == export.KindCpCSV:
+			err = export.CpCSV(&b, results)
+		default:
+			var p *export.Placed
+			if p, err = export.Place(r.sec, export.PlaceOptions{Frame: frame}); err == nil {
+				err = export.Write(&b, kind, p, export.Options{})
+			}
+		}
+		if err != nil {
+			return r.fail("export %s: %v", kind, err)
+		}
+		r.outs = append(r.outs, output{r.sp.Name + "/export/" + export.FileName(kind), b.Bytes()})
+	}
+	return true
+}
+
 // writeFile writes one output; tests replace it to fail like a full disk.
 var writeFile = atomicfile.WriteBytes
 
 // write writes the collected files into the (staging) run folder, each
-// atomically, and records their digests. When a write fails (a full disk)
-// the section's files are removed again: a failed section has no outputs.
+// atomically, and records their digests. Two outputs of one name fail the
+// section before anything is written: no file silently replaces another.
+// When a write fails (a full disk) the section's files are removed again:
+// a failed section has no outputs.
 func (r *sectionRun) write(folder string) bool {
+	seen := map[string]bool{}
+	for _, o := range r.outs {
+		key := strings.ToLower(o.path) // file names may not differ only in case
+		if seen[key] {
+			return r.fail("two outputs would be written to %s", o.path)
+		}
+		seen[key] = true
+	}
 	r.res.outputs = map[string]string{}
 	for _, o := range r.outs {
 		full := filepath.Join(folder, filepath.FromSlash(o.path))

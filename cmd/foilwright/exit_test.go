@@ -91,7 +91,7 @@ func TestSameBadInputSameStatus(t *testing.T) {
 	os.WriteFile(filepath.Join(dir, "probe.csv"), data, 0o644)
 	os.WriteFile(pipe, []byte(`{"foilwright": 1, "name": "p", "inputs": [{"files": ["probe.csv"]}],
 	  "stages": [{"id": "big", "stage": "thin-aerofoil", "on_error": "continue"}], "outputs": {"folder": "run2"}}`), 0o644)
-	stdout, stderr, code = runCLI(t, "--limit", "result-bytes=100", "run", pipe, "-q")
+	stdout, stderr, code = runCLI(t, "--limit", "result-bytes=100", "run", pipe)
 	if code != exitFailed || !strings.Contains(stdout, "partial") {
 		t.Errorf("a stage failing with on_error continue: exit %d, want %d\n%s%s", code, exitFailed, stdout, stderr)
 	}

@@ -20,13 +20,22 @@ type hostFlags struct {
 	mtls         bool
 }
 
+// stageGroup is the help group of the stage-host flags.
+const stageGroup = "stage"
+
+// register adds the stage-host flags to cmd, listed together in its help.
 func (f *hostFlags) register(cmd *cobra.Command) {
-	cmd.Flags().DurationVar(&f.startTimeout, "stage-start-timeout", host.DefaultStartTimeout, "time a stage process may take to start")
-	cmd.Flags().DurationVar(&f.callTimeout, "stage-timeout", host.DefaultCallTimeout, "time one stage call may take")
-	cmd.Flags().StringVar(&f.logLevel, "log-level", "off", "level of the stages' log shown on stderr: trace, debug, info, warn, error or off")
-	cmd.Flags().BoolVar(&f.mtls, "stage-mtls", false, "secure the connection to each stage with mutual TLS")
-	cmd.RegisterFlagCompletionFunc("log-level", cobra.FixedCompletions(
-		[]string{"trace", "debug", "info", "warn", "error", "off"}, cobra.ShellCompDirectiveNoFileComp))
+	fs := cmd.Flags()
+	fs.DurationVar(&f.startTimeout, "stage-start-timeout", host.DefaultStartTimeout, "time a stage process may take to start")
+	fs.DurationVar(&f.callTimeout, "stage-timeout", host.DefaultCallTimeout, "time one stage call may take")
+	fs.StringVar(&f.logLevel, "log-level", "off", "level of the stages' log shown on stderr: trace, debug, info, warn, error or off")
+	fs.BoolVar(&f.mtls, "stage-mtls", false, "secure the connection to each stage with mutual TLS")
+	for _, name := range []string{"stage-start-timeout", "stage-timeout", "log-level", "stage-mtls"} {
+		fs.SetAnnotation(name, groupAnnotation, []string{stageGroup})
+	}
+	cmd.RegisterFlagCompletionFunc("log-level", fixedCompletions("trace", "debug", "info", "warn", "error", "off"))
+	cmd.RegisterFlagCompletionFunc("stage-start-timeout", fixedCompletions("10s", "30s", "1m"))
+	cmd.RegisterFlagCompletionFunc("stage-timeout", fixedCompletions("30s", "2m", "10m", "1h"))
 }
 
 // newHost returns a stage host configured by the flags and the limits

@@ -45,11 +45,16 @@ func (f *limitFlag) Set(s string) error {
 
 var _ pflag.Value = (*limitFlag)(nil)
 
-// registerLimits adds --limit to the root, for every command.
+// limitGroup is the help group of --limit.
+const limitGroup = "limit"
+
+// registerLimits adds --limit to the root, for every command, listed in a
+// help group of its own.
 func registerLimits(root *cobra.Command) {
 	root.PersistentFlags().Var(newLimitFlag(), "limit",
 		"raise or lower a limit, NAME=VALUE (repeatable): "+strings.Join(limits.Names(), ", ")+
 			`; sizes take KiB, MiB, GiB; "none" removes one (README, "Limits")`)
+	root.PersistentFlags().SetAnnotation("limit", groupAnnotation, []string{limitGroup})
 	root.RegisterFlagCompletionFunc("limit", func(*cobra.Command, []string, string) ([]string, cobra.ShellCompDirective) {
 		var out []string
 		for _, n := range limits.Names() {

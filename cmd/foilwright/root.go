@@ -38,7 +38,12 @@ applicable codes and licensed engineering practice before anything is built
 from them.`,
 		SilenceUsage:  true,
 		SilenceErrors: true,
+		Version:       currentVersion().String(),
+		// Notes on deprecated flags go to standard error.
+		PersistentPreRunE: warnDeprecated,
 	}
+	root.SetVersionTemplate("foilwright {{.Version}}\n")
+	root.SetUsageFunc(usage)
 	root.CompletionOptions.HiddenDefaultCmd = false
 	registerLimits(root)
 	for _, c := range []*cobra.Command{
@@ -49,6 +54,7 @@ from them.`,
 		newShapeCmd(),
 		newVersionCmd(),
 		newAnalyzeCmd(),
+		newExportCmd(),
 		newStagesCmd(),
 		newStageServeCmd(),
 	} {

@@ -16,7 +16,8 @@ import (
 // when it has none). Polylines and splines give ordered runs; LINE entities
 // that meet end to end are joined into runs. The HEADER variable $INSUNITS
 // gives the unit. Entity types foilwright cannot use (CIRCLE, TEXT, ...) are
-// counted in a Note.
+// counted in a Note. With a layer named, entities on other layers are
+// passed over and counted in a Note.
 
 // dxfPair is one group code and its value; line is the value's line.
 type dxfPair struct {
@@ -102,15 +103,19 @@ type dxfReader struct {
 	ignored map[string]int
 	notes   geometry.Notes
 	unit    statedUnit
+	layer   string         // the layer to read, "" for all
+	layers  map[string]int // entities per layer passed over
+	matched int            // entities on the layer read
 }
 
-// readDXF reads an ASCII DXF file.
-func readDXF(s, file string) (*geometry.Cloud, statedUnit, error) {
+// readDXF reads an ASCII DXF file: the entities on layer, or all of them
+// when layer is "".
+func readDXF(s, file, layer string) (*geometry.Cloud, statedUnit, error) {
 	pairs, err := dxfPairs(s, file)
 	if err != nil {
 		return nil, statedUnit{}, err
 	}
-	d := &dxfReader{file: file, ignored: map[string]int{}}
+	d := &dxfReader{file: file, ignored: map[string]int{}, layer: layer, layers: map[string]int{}}
 	section := ""
 	ent := 0
 	for i := 0; i < len(pairs); {
@@ -147,6 +152,14 @@ func readDXF(s, file string) (*geometry.Cloud, statedUnit, error) {
 			continue
 		}
 		ent++
+		if name, ok := d.otherLayer(pairs[i:j]); ok {
+			if p.value == "POLYLINE" {
+				j = dxfSkipVertices(pairs, j)
+			}
+			d.layers[name]++
+			i = j
+			continue
+		}
 		switch p.value {
 		case "POINT":
 			err = d.point(pairs[i:j], ent)
@@ -167,7 +180,63 @@ func readDXF(s, file string) (*geometry.Cloud, statedUnit, error) {
 		i = j
 	}
 	d.chainLines()
+	if d.layer != "" {
+		if err := d.layerNote(); err != nil {
+			return nil, d.unit, err
+		}
+	}
 	return d.cloud()
+}
+
+// otherLayer reports whether the entity at pairs is on a layer other than
+// the one to read, and its layer.
+func (d *dxfReader) otherLayer(pairs []dxfPair) (string, bool) {
+	if d.layer == "" {
+		return "", false
+	}
+	name := "0" // the layer of an entity that names none
+	for _, p := range pairs {
+		if p.code == 8 {
+			name = p.value
+			break
+		}
+	}
+	if strings.EqualFold(name, d.layer) {
+		d.matched++
+		return name, false
+	}
+	return name, true
+}
+
+// layerNote notes the entities passed over on other layers, or returns
+// an error when none was on the layer to read.
+func (d *dxfReader) layerNote() error {
+	names := make([]string, 0, len(d.layers))
+	for n := range d.layers {
+		names = append(names, n)
+	}
+	sort.Strings(names)
+	if d.matched == 0 {
+		return &geometry.ParseError{File: d.file, Err: fmt.Errorf("%w on layer %q (layers with entities: %s)", ErrNoEntities, d.layer, strings.Join(names, ", "))}
+	}
+	for _, n := range names {
+		d.notes.Add(d.file, 0, fmt.Sprintf("%d entit%s on layer %q not read", d.layers[n], map[bool]string{true: "y", false: "ies"}[d.layers[n] == 1], n), "")
+	}
+	return nil
+}
+
+// dxfSkipVertices returns the index after the VERTEX entities and the
+// SEQEND that follow a POLYLINE whose header ends at j.
+func dxfSkipVertices(pairs []dxfPair, j int) int {
+	for j < len(pairs) && pairs[j].code == 0 && pairs[j].value == "VERTEX" {
+		for j++; j < len(pairs) && pairs[j].code != 0; j++ {
+		}
+	}
+	if j < len(pairs) && pairs[j].code == 0 && pairs[j].value == "SEQEND" {
+		for j++; j < len(pairs) && pairs[j].code != 0; j++ {
+		}
+	}
+	return j
 }
 
 // insUnits reads the value pair of $INSUNITS.

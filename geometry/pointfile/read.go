@@ -34,6 +34,11 @@ type Options struct {
 	// refuses an STL file without it. Other formats ignore it (flatten 3D
 	// points with planar.Flatten).
 	Cut *planar.Spec
+	// Layer, when set, reads only the DXF entities on this layer (layer
+	// names compare without regard to case); entities on other layers are
+	// counted in a Note. Read refuses a file with no entity on it. Other
+	// formats ignore it.
+	Layer string
 }
 
 // The formats Read knows, as named in Options.Format and Cloud.Format.
@@ -67,8 +72,8 @@ var formats = []struct {
 	{FormatSurfaces, false, func(_ []byte, text, name string, _ Options) (*geometry.Cloud, statedUnit, error) {
 		return readSurfaces(text, name)
 	}},
-	{FormatDXF, false, func(_ []byte, text, name string, _ Options) (*geometry.Cloud, statedUnit, error) {
-		return readDXF(text, name)
+	{FormatDXF, false, func(_ []byte, text, name string, o Options) (*geometry.Cloud, statedUnit, error) {
+		return readDXF(text, name, o.Layer)
 	}},
 	{FormatSTL, true, readSTLCut},
 }
