@@ -18,6 +18,7 @@ import (
 	"github.com/foilwright/foilwright/internal/atomicfile"
 	"github.com/foilwright/foilwright/internal/digest"
 	"github.com/foilwright/foilwright/internal/enum"
+	"github.com/foilwright/foilwright/internal/limits"
 	"github.com/foilwright/foilwright/plot"
 	"github.com/foilwright/foilwright/plugins/stage"
 	"github.com/foilwright/foilwright/prep"
@@ -341,7 +342,7 @@ func (r *sectionRun) compare(runner StageRunner) bool {
 	if r.prepared.Preparation != nil {
 		m = fwcompare.FromPreparation(r.prepared.Preparation)
 	} else if m, err = fwcompare.FromSection(r.sec, r.sp.Name+"/section.json"); err != nil {
-		return r.fail("compare: %v", err)
+		return r.failInput("compare: %v", err)
 	}
 	ds := fwcompare.DesignSpec{Source: spec.Design, Units: spec.DesignUnits, Chord: spec.Chord, TwistDeg: spec.Twist}
 	if spec.Offset != nil {
@@ -352,13 +353,17 @@ func (r *sectionRun) compare(runner StageRunner) bool {
 	}
 	d, err := fwcompare.NewDesign(ds, m, fwcompare.PanelOptions(r.sec, r.sp.Settings), fwcompare.PropsOptions(r.sp.Settings))
 	if errors.Is(err, prep.ErrNoUnits) {
-		return r.fail("compare: design %v: say it with \"design_units\"", err)
+		return r.failInput("compare: design %v: say it with \"design_units\"", err)
 	}
 	if err != nil {
-		return r.fail("compare: %v", err)
+		// The design could not be read or placed: the input's fault.
+		return r.failInput("compare: %v", err)
 	}
 	opts := fwcompare.Options{Align: spec.Align, Datum: spec.Datum, Scale: spec.Scale, Tolerance: fwcompare.Tolerance{Default: spec.Tolerance, Zones: spec.Zones}}
 	c, err := fwcompare.Compare(m, d, opts)
+	if errors.Is(err, fwcompare.ErrOptions) || errors.Is(err, fwcompare.ErrTolerance) {
+		return r.failInput("compare: %v", err)
+	}
 	if err != nil {
 		return r.fail("compare: %v", err)
 	}
@@ -381,6 +386,9 @@ func (r *sectionRun) compare(runner StageRunner) bool {
 		if err := c.Aero(r.ctx, run, fwcompare.AeroOptions{AlphaDeg: alphas, CpAlphaDeg: cpa}); err != nil {
 			if r.ctx.Err() != nil {
 				return r.cancel()
+			}
+			if inputCaused(err) {
+				return r.failInput("compare: %v", err)
 			}
 			return r.fail("compare: %v", err)
 		}
@@ -447,9 +455,9 @@ func (r *sectionRun) readDesign() bool {
 	if spec == nil || spec.DesignPath == "" {
 		return true
 	}
-	data, err := os.ReadFile(r.pl.Pipeline.abs(spec.DesignPath))
+	data, err := limits.ReadFile(r.pl.Pipeline.abs(spec.DesignPath), r.limits.InputBytes, r.limits.InputLines)
 	if err != nil {
-		return r.fail("read design %s: %v", spec.DesignPath, err)
+		return r.failInput("read design %s: %v", spec.DesignPath, err)
 	}
 	r.designData = data
 	r.res.designFile = &FileHash{Path: spec.DesignPath, SHA256: digest.Bytes(data)}

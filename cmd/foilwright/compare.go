@@ -7,7 +7,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -17,6 +16,7 @@ import (
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/internal/enum"
+	"github.com/foilwright/foilwright/internal/limits"
 	"github.com/foilwright/foilwright/plot"
 	"github.com/foilwright/foilwright/plugins/builtin"
 	"github.com/foilwright/foilwright/plugins/host"
@@ -183,7 +183,13 @@ func runCompare(cmd *cobra.Command, args []string, opts compareOptions) error {
 	if err != nil {
 		return err
 	}
-	files, err := inputFiles(cmd.InOrStdin(), args)
+	// Every output is checked before any work, and written as one.
+	out, err := newOutputs(stdout, compareTargets(opts)...)
+	if err != nil {
+		return err
+	}
+	defer out.abort()
+	files, err := inputFiles(cmd, args)
 	if err != nil {
 		return err
 	}
@@ -192,9 +198,9 @@ func runCompare(cmd *cobra.Command, args []string, opts compareOptions) error {
 		return err
 	}
 	if !compare.IsShape(opts.design) {
-		data, err := os.ReadFile(opts.design)
+		data, _, err := readInput(cmd, opts.design)
 		if err != nil {
-			return badInput(err)
+			return err
 		}
 		spec.Data = data
 	}
@@ -213,11 +219,15 @@ func runCompare(cmd *cobra.Command, args []string, opts compareOptions) error {
 		return err
 	}
 	if !opts.noAero {
-		if err := compareAero(cmd.Context(), c, opts, alphas, stderr); err != nil {
+		lim, err := limitsOf(cmd)
+		if err != nil {
+			return err
+		}
+		if err := compareAero(cmd.Context(), c, opts, alphas, stderr, lim); err != nil {
 			return err
 		}
 	}
-	if err := writeCompare(stdout, c, opts); err != nil {
+	if err := writeCompare(stdout, out, c, opts); err != nil {
 		return err
 	}
 	if !opts.quiet {
@@ -321,8 +331,8 @@ func measurement(files []prep.File, args []string, name string, s prep.Settings)
 }
 
 // compareAero runs the aerodynamic comparison through stage processes.
-func compareAero(ctx context.Context, c *compare.Comparison, opts compareOptions, alphas []float64, stderr io.Writer) error {
-	h, err := opts.host.newHost(stderr)
+func compareAero(ctx context.Context, c *compare.Comparison, opts compareOptions, alphas []float64, stderr io.Writer, lim limits.Limits) error {
+	h, err := opts.host.newHost(stderr, lim)
 	if err != nil {
 		return err
 	}
@@ -346,9 +356,21 @@ func compareAero(ctx context.Context, c *compare.Comparison, opts compareOptions
 	return nil
 }
 
-// writeCompare writes the outputs: pictures, the points, the report, each
-// atomically; and the report on stdout with --json or -o -.
-func writeCompare(stdout io.Writer, c *compare.Comparison, opts compareOptions) error {
+// compareTargets are the files compare writes: the report, the points and
+// the pictures.
+func compareTargets(opts compareOptions) []string {
+	ts := []string{opts.out, opts.points}
+	if opts.plot != "" {
+		for _, name := range compare.PictureNames {
+			ts = append(ts, compare.SiblingPath(opts.plot, name))
+		}
+	}
+	return ts
+}
+
+// writeCompare writes the outputs as one set (pictures, the points, the
+// report: all or none), and the report on standard output with --json.
+func writeCompare(stdout io.Writer, out *outputs, c *compare.Comparison, opts compareOptions) error {
 	if opts.plot != "" {
 		magnify := 0.0 // a round factor
 		if m := opts.magnify.ptr(); m != nil {
@@ -360,21 +382,24 @@ func writeCompare(stdout io.Writer, c *compare.Comparison, opts compareOptions) 
 		}
 		for _, name := range compare.PictureNames {
 			if f, ok := figs[name]; ok {
-				if err := plot.Save(f, compare.SiblingPath(opts.plot, name), 0, 0); err != nil {
+				if err := out.picture(f, compare.SiblingPath(opts.plot, name)); err != nil {
 					return err
 				}
 			}
 		}
 	}
 	if opts.points != "" {
-		if err := writeOutput(stdout, opts.points, c.WriteCSV); err != nil {
+		if err := out.write(opts.points, c.WriteCSV); err != nil {
 			return err
 		}
 	}
 	if opts.out != "" {
-		if err := writeOutput(stdout, opts.out, c.Report.WriteJSON); err != nil {
+		if err := out.write(opts.out, c.Report.WriteJSON); err != nil {
 			return err
 		}
+	}
+	if err := out.commit(); err != nil {
+		return err
 	}
 	if opts.json && opts.out != stdoutPath {
 		return c.Report.WriteJSON(stdout)
