@@ -304,7 +304,7 @@ func Run(ctx context.Context, pl *Plan, opts RunOptions) (*Summary, error) {
 		if err := writeStationExports(pl, rf.staging, results, m); err != nil {
 			return sum, err
 		}
-		if err := writeVerdicts(pl, folder, results, m); err != nil {
+		if err := writeVerdicts(pl, rf.staging, results, m); err != nil {
 			return sum, err
 		}
 	}
