@@ -75,7 +75,7 @@ func Documents() []string {
 			kinds = append(kinds, d.kind)
 		}
 	}
-	return append(kinds, DocResults)
+	return append(kinds, DocResults, DocCompare)
 }
 
 // sectionResult is what one section produced.
@@ -85,6 +85,9 @@ type sectionResult struct {
 	files   []FileHash       // inputs as read
 	outputs map[string]string
 	timing  SectionTiming
+	// The comparison with the design, when the pipeline asks for one.
+	compare    *CompareRecord
+	designFile *FileHash
 }
 
 // output is one file of a section, relative to the run folder.
@@ -106,6 +109,8 @@ type sectionRun struct {
 	prepared Prepared
 	sec      *section.Section
 	outs     []output
+	// designData is the design file of the section's comparison.
+	designData []byte
 }
 
 // runSection makes one section and writes its outputs: read its files,
@@ -120,8 +125,10 @@ func runSection(ctx context.Context, pl *Plan, folder string, i int, calls []Sta
 		return r.res
 	}
 	_ = r.readInputs() &&
+		r.readDesign() &&
 		r.prepare(opts.Preparer) &&
 		r.collectDocuments() &&
+		r.compare(runner) &&
 		r.runStages(calls, runner) &&
 		r.collectExports() &&
 		r.write(folder)
@@ -130,7 +137,7 @@ func runSection(ctx context.Context, pl *Plan, folder string, i int, calls []Sta
 
 // cancel marks the section cancelled, dropping what it made.
 func (r *sectionRun) cancel() bool {
-	r.res = sectionResult{report: SectionReport{Name: r.sp.Name, Status: StatusCancelled}, timing: r.res.timing}
+	r.res = sectionResult{report: SectionReport{Name: r.sp.Name, Status: StatusCancelled}, timing: r.res.timing, designFile: r.res.designFile}
 	return false
 }
 
