@@ -21,6 +21,8 @@ import (
 	"github.com/foilwright/foilwright/internal/atomicfile"
 	"github.com/foilwright/foilwright/internal/digest"
 	"github.com/foilwright/foilwright/internal/enum"
+	"github.com/foilwright/foilwright/internal/limits"
+	"github.com/foilwright/foilwright/plugins/host"
 	"github.com/foilwright/foilwright/plugins/stage"
 	"github.com/foilwright/foilwright/prep"
 )
@@ -73,7 +75,7 @@ func Documents() []string {
 			kinds = append(kinds, d.kind)
 		}
 	}
-	return append(kinds, DocResults)
+	return append(kinds, DocResults, DocCompare)
 }
 
 // sectionResult is what one section produced.
@@ -83,6 +85,9 @@ type sectionResult struct {
 	files   []FileHash       // inputs as read
 	outputs map[string]string
 	timing  SectionTiming
+	// The comparison with the design, when the pipeline asks for one.
+	compare    *CompareRecord
+	designFile *FileHash
 }
 
 // output is one file of a section, relative to the run folder.
@@ -96,6 +101,7 @@ type output struct {
 // section ends early, failed or cancelled, with res saying so.
 type sectionRun struct {
 	ctx      context.Context
+	limits   limits.Limits
 	pl       *Plan
 	sp       SectionPlan
 	res      sectionResult
@@ -103,22 +109,26 @@ type sectionRun struct {
 	prepared Prepared
 	sec      *section.Section
 	outs     []output
+	// designData is the design file of the section's comparison.
+	designData []byte
 }
 
 // runSection makes one section and writes its outputs: read its files,
 // prepare it, collect its documents, run the stages, write. When the run
 // is cancelled while the section is under way, nothing of it is written.
-func runSection(ctx context.Context, pl *Plan, folder string, i int, calls []StageCall, preparer Preparer, runner StageRunner) sectionResult {
+func runSection(ctx context.Context, pl *Plan, folder string, i int, calls []StageCall, opts RunOptions, runner StageRunner) sectionResult {
 	sp := pl.Sections[i]
-	r := &sectionRun{ctx: ctx, pl: pl, sp: sp,
+	r := &sectionRun{ctx: ctx, pl: pl, sp: sp, limits: opts.Limits,
 		res: sectionResult{report: SectionReport{Name: sp.Name}, timing: SectionTiming{Name: sp.Name}}}
 	if ctx.Err() != nil {
 		r.cancel()
 		return r.res
 	}
 	_ = r.readInputs() &&
-		r.prepare(preparer) &&
+		r.readDesign() &&
+		r.prepare(opts.Preparer) &&
 		r.collectDocuments() &&
+		r.compare(runner) &&
 		r.runStages(calls, runner) &&
 		r.collectExports() &&
 		r.write(folder)
@@ -127,7 +137,7 @@ func runSection(ctx context.Context, pl *Plan, folder string, i int, calls []Sta
 
 // cancel marks the section cancelled, dropping what it made.
 func (r *sectionRun) cancel() bool {
-	r.res = sectionResult{report: SectionReport{Name: r.sp.Name, Status: StatusCancelled}, timing: r.res.timing}
+	r.res = sectionResult{report: SectionReport{Name: r.sp.Name, Status: StatusCancelled}, timing: r.res.timing, designFile: r.res.designFile}
 	return false
 }
 
@@ -135,6 +145,24 @@ func (r *sectionRun) cancel() bool {
 func (r *sectionRun) fail(format string, args ...any) bool {
 	r.res.report.Status = StatusFailed
 	r.res.report.Err = fmt.Sprintf(format, args...)
+	return false
+}
+
+// failInput marks the section failed because of its input.
+func (r *sectionRun) failInput(format string, args ...any) bool {
+	r.res.report.Input = true
+	return r.fail(format, args...)
+}
+
+// inputCaused reports whether a stage's error was caused by the section or
+// the parameters (the stage refused them, or its executable is missing or
+// not the pinned one), not by the stage failing.
+func inputCaused(err error) bool {
+	for _, target := range []error{stage.ErrBadInput, host.ErrTooManyNodes, host.ErrChecksum, host.ErrNotFound, host.ErrNotExecutable, limits.ErrLimit} {
+		if errors.Is(err, target) {
+			return true
+		}
+	}
 	return false
 }
 
@@ -146,9 +174,9 @@ func (r *sectionRun) readInputs() bool {
 		r.in.PlotFormat = out.PlotFormat
 	}
 	for _, f := range r.sp.Files {
-		data, err := os.ReadFile(r.pl.Pipeline.abs(f))
+		data, err := limits.ReadFile(r.pl.Pipeline.abs(f), r.limits.InputBytes, r.limits.InputLines)
 		if err != nil {
-			return r.fail("read %s: %v", f, err)
+			return r.failInput("read %s: %v", f, err)
 		}
 		file := prep.NewFile(f, data)
 		r.res.files = append(r.res.files, FileHash{Path: f, SHA256: file.SHA256})
@@ -161,16 +189,19 @@ func (r *sectionRun) readInputs() bool {
 // preparer gave it, or decoded from the document when it gave only that.
 func (r *sectionRun) prepare(preparer Preparer) bool {
 	t := time.Now()
-	prepared, err := preparer.Prepare(r.ctx, r.in, r.sp.Settings)
+	prepared, err, crashed := safePrepare(r.ctx, preparer, r.in, r.sp.Settings)
 	r.res.timing.PrepareS = seconds(time.Since(t))
 	if r.ctx.Err() != nil {
 		return r.cancel()
 	}
+	if crashed {
+		return r.fail("prepare: %v", err)
+	}
 	if errors.Is(err, prep.ErrNoUnits) {
-		return r.fail("prepare: %v: give it with the \"units\" key of prepare or of the input", err)
+		return r.failInput("prepare: %v: give it with the \"units\" key of prepare or of the input", err)
 	}
 	if err != nil {
-		return r.fail("prepare: %v", err)
+		return r.failInput("prepare: %v", err)
 	}
 	r.res.report.Summary = prepared.Summary
 	r.prepared, r.sec = prepared, prepared.Doc
@@ -180,6 +211,18 @@ func (r *sectionRun) prepare(preparer Preparer) bool {
 		}
 	}
 	return true
+}
+
+// safePrepare runs the preparer, turning a panic (a bug in the chain) into
+// an error, so that one section cannot end the run; crashed reports it.
+func safePrepare(ctx context.Context, p Preparer, in Input, s prep.Settings) (out Prepared, err error, crashed bool) {
+	defer func() {
+		if v := recover(); v != nil {
+			out, err, crashed = Prepared{}, fmt.Errorf("internal error (a bug in foilwright; please report it): %v", v), true
+		}
+	}()
+	out, err = p.Prepare(ctx, in, s)
+	return out, err, false
 }
 
 // collectDocuments makes the documents outputs.documents asks for (see
@@ -241,6 +284,7 @@ func (r *sectionRun) runStages(calls []StageCall, runner StageRunner) bool {
 				sr.Status = "failed"
 				sr.Err = err.Error()
 				failed[st.ID] = true
+				rep.Input = rep.Input || inputCaused(err)
 				if st.OnError == OnErrorStop {
 					stopped = true
 					rep.Status = StatusFailed
@@ -324,9 +368,14 @@ func (r *sectionRun) collectExports() bool {
 	return true
 }
 
-// write writes the collected files into the run folder, each atomically,
-// and records their digests. Two outputs of one name fail the section
-// before anything is written: no file silently replaces another.
+// writeFile writes one output; tests replace it to fail like a full disk.
+var writeFile = atomicfile.WriteBytes
+
+// write writes the collected files into the (staging) run folder, each
+// atomically, and records their digests. Two outputs of one name fail the
+// section before anything is written: no file silently replaces another.
+// When a write fails (a full disk) the section's files are removed again:
+// a failed section has no outputs.
 func (r *sectionRun) write(folder string) bool {
 	seen := map[string]bool{}
 	for _, o := range r.outs {
@@ -339,11 +388,16 @@ func (r *sectionRun) write(folder string) bool {
 	r.res.outputs = map[string]string{}
 	for _, o := range r.outs {
 		full := filepath.Join(folder, filepath.FromSlash(o.path))
-		if err := os.MkdirAll(filepath.Dir(full), 0o755); err != nil {
-			return r.fail("write %s: %v", o.path, err)
+		err := os.MkdirAll(filepath.Dir(full), 0o755)
+		if err == nil {
+			err = writeFile(full, o.data)
 		}
-		if err := atomicfile.WriteBytes(full, o.data); err != nil {
-			return r.fail("%v", err)
+		if err != nil {
+			for p := range r.res.outputs {
+				os.Remove(filepath.Join(folder, filepath.FromSlash(p)))
+			}
+			r.res.outputs = nil
+			return r.fail("write %s: %v", o.path, err)
 		}
 		r.res.outputs[o.path] = digest.Bytes(o.data)
 	}

@@ -6,7 +6,6 @@ import (
 	"encoding/json"
 	"fmt"
 	"io"
-	"os"
 	"path/filepath"
 	"slices"
 	"sort"
@@ -18,6 +17,7 @@ import (
 
 	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/internal/atomicfile"
+	"github.com/foilwright/foilwright/internal/limits"
 	"github.com/foilwright/foilwright/plot"
 	"github.com/foilwright/foilwright/plugins/builtin"
 	"github.com/foilwright/foilwright/plugins/host"
@@ -61,7 +61,7 @@ on them.`,
   foilwright analyze blade-r1.json --stage source-panel -o results/source.json --timings`,
 		ValidArgsFunction: sectionArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
-			return runAnalyze(cmd.Context(), cmd.InOrStdin(), cmd.OutOrStdout(), cmd.ErrOrStderr(), args[0], opts, cmd.Flags().Changed("alpha"))
+			return runAnalyze(cmd, args[0], opts, cmd.Flags().Changed("alpha"))
 		},
 	}
 	f := cmd.Flags()
@@ -85,8 +85,13 @@ on them.`,
 	return cmd
 }
 
-func runAnalyze(ctx context.Context, stdin io.Reader, stdout, stderr io.Writer, path string, opts analyzeOptions, alphaSet bool) error {
+func runAnalyze(cmd *cobra.Command, path string, opts analyzeOptions, alphaSet bool) error {
+	ctx, stdout, stderr := cmd.Context(), cmd.OutOrStdout(), cmd.ErrOrStderr()
 	spec, err := stageSpec(opts.stage, opts.sha256)
+	if err != nil {
+		return err
+	}
+	lim, err := limitsOf(cmd)
 	if err != nil {
 		return err
 	}
@@ -99,7 +104,11 @@ func runAnalyze(ctx context.Context, stdin io.Reader, stdout, stderr io.Writer, 
 			return badInputf("--plot %s: %v", opts.plot, err)
 		}
 	}
-	data, name, err := readSectionFile(stdin, path)
+	// Refuse an output that may not be written before any work.
+	if err := atomicfile.CheckTargets(opts.out, opts.plot); err != nil {
+		return err
+	}
+	data, name, err := readInput(cmd, path)
 	if err != nil {
 		return err
 	}
@@ -108,7 +117,7 @@ func runAnalyze(ctx context.Context, stdin io.Reader, stdout, stderr io.Writer, 
 		return badInput(err)
 	}
 
-	h, err := opts.host.newHost(stderr)
+	h, err := opts.host.newHost(stderr, lim)
 	if err != nil {
 		return err
 	}
@@ -119,7 +128,7 @@ func runAnalyze(ctx context.Context, stdin io.Reader, stdout, stderr io.Writer, 
 		return stageError(err)
 	}
 	_, takesAlpha := info.Param("alpha_deg")
-	params, err := analyzeParams(opts, alphaSet, takesAlpha)
+	params, err := analyzeParams(opts, alphaSet, takesAlpha, lim)
 	if err != nil {
 		return err
 	}
@@ -142,9 +151,12 @@ func runAnalyze(ctx context.Context, stdin io.Reader, stdout, stderr io.Writer, 
 	if opts.out == stdoutPath || opts.json {
 		table = stderr
 	}
+	// Every file is written as one set: all of them, or none.
+	var files atomicfile.Set
+	defer files.Abort()
 	var written []string
 	if opts.plot != "" {
-		paths, err := analyzePlots(ctx, h, opts.plot, plotFormat, data, name, reply.JSON)
+		paths, err := analyzePlots(ctx, h, &files, opts.plot, plotFormat, data, name, reply.JSON)
 		if err != nil {
 			return err
 		}
@@ -163,14 +175,14 @@ func runAnalyze(ctx context.Context, stdin io.Reader, stdout, stderr io.Writer, 
 			fmt.Fprintf(stderr, "note: the stage returned %d file(s); give -o FILE to write them beside the result\n", n)
 		}
 	case opts.out != "":
-		if err := atomicfile.WriteBytes(opts.out, doc); err != nil {
+		if err := files.AddBytes(opts.out, doc); err != nil {
 			return err
 		}
 		written = append(written, opts.out)
 		// Stages never write files; their artifacts go beside the result.
 		for _, a := range reply.Artifacts {
 			to := filepath.Join(filepath.Dir(opts.out), a.Name)
-			if err := atomicfile.WriteBytes(to, a.Data); err != nil {
+			if err := files.AddBytes(to, a.Data); err != nil {
 				return err
 			}
 			written = append(written, to)
@@ -179,6 +191,9 @@ func runAnalyze(ctx context.Context, stdin io.Reader, stdout, stderr io.Writer, 
 		if n := len(reply.Artifacts); n > 0 {
 			fmt.Fprintf(stderr, "note: the stage returned %d file(s); give -o FILE to write them beside the result\n", n)
 		}
+	}
+	if err := files.Commit(); err != nil {
+		return err
 	}
 	if opts.json && opts.out != stdoutPath {
 		if _, err := stdout.Write(doc); err != nil {
@@ -212,7 +227,7 @@ var mainPictures = []string{"cp", "polar", "section"}
 // own process, like every stage) and writes its pictures: the first of
 // mainPictures drawn to path, the others beside it (path-polar,
 // path-section, path-streamlines). It returns the paths written.
-func analyzePlots(ctx context.Context, h *host.Host, path, format string, section []byte, name string, result []byte) ([]string, error) {
+func analyzePlots(ctx context.Context, h *host.Host, files *atomicfile.Set, path, format string, section []byte, name string, result []byte) ([]string, error) {
 	params, _ := json.Marshal(map[string]string{"format": format})
 	reply, err := h.Runner(host.Builtin("plots")).Run(ctx, stage.Request{
 		Section: section, Params: params, SectionName: name,
@@ -238,7 +253,7 @@ func analyzePlots(ctx context.Context, h *host.Host, path, format string, sectio
 	var paths []string
 	for i, a := range reply.Artifacts {
 		to := plot.Beside(path, main, kinds[i])
-		if err := atomicfile.WriteBytes(to, a.Data); err != nil {
+		if err := files.AddBytes(to, a.Data); err != nil {
 			return nil, err
 		}
 		paths = append(paths, to)
@@ -246,17 +261,22 @@ func analyzePlots(ctx context.Context, h *host.Host, path, format string, sectio
 	return paths, nil
 }
 
-// readSectionFile reads the section file path, or stdin for "-", whole
-// (before any stage starts: go-plugin hands stdin to the stage process).
-func readSectionFile(stdin io.Reader, path string) ([]byte, string, error) {
+// readInput reads the input file path, or stdin for "-", whole (before
+// any stage starts: go-plugin hands stdin to the stage process), within
+// the input limits of cmd's command line: input-bytes and input-lines.
+func readInput(cmd *cobra.Command, path string) ([]byte, string, error) {
+	lim, err := limitsOf(cmd)
+	if err != nil {
+		return nil, "", err
+	}
 	if path == "-" {
-		data, err := io.ReadAll(stdin)
+		data, err := limits.Read(cmd.InOrStdin(), "stdin", lim.InputBytes, lim.InputLines)
 		if err != nil {
-			return nil, "", badInputf("stdin: %v", err)
+			return nil, "", badInputf("%v", err)
 		}
 		return data, "stdin", nil
 	}
-	data, err := os.ReadFile(path)
+	data, err := limits.ReadFile(path, lim.InputBytes, lim.InputLines)
 	if err != nil {
 		return nil, "", badInput(err)
 	}
@@ -265,8 +285,14 @@ func readSectionFile(stdin io.Reader, path string) ([]byte, string, error) {
 
 // analyzeParams builds the stage's parameter object from --params and
 // --alpha. Angles are passed only to a stage that declares alpha_deg.
-func analyzeParams(opts analyzeOptions, alphaSet, takesAlpha bool) ([]byte, error) {
+func analyzeParams(opts analyzeOptions, alphaSet, takesAlpha bool, lim limits.Limits) ([]byte, error) {
 	params := map[string]json.RawMessage{}
+	if n := int64(len(opts.params)); lim.JSONBytes > 0 && n > lim.JSONBytes {
+		return nil, badInput(&limits.Error{File: "--params", Limit: limits.JSONBytes, Value: lim.JSONBytes, What: limits.Size(n)})
+	}
+	if err := limits.CheckDepth([]byte(opts.params), lim.JSONDepth); err != nil {
+		return nil, badInputf("--params: %v", err)
+	}
 	if strings.TrimSpace(opts.params) != "" {
 		dec := json.NewDecoder(strings.NewReader(opts.params))
 		if err := dec.Decode(&params); err != nil || params == nil || dec.More() {

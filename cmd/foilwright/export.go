@@ -16,6 +16,7 @@ import (
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/internal/enum"
+	"github.com/foilwright/foilwright/internal/limits"
 	"github.com/foilwright/foilwright/pipeline"
 )
 
@@ -175,7 +176,7 @@ func runExport(cmd *cobra.Command, args []string, opts *exportOptions) error {
 	if len(args) != 1 {
 		return badInputf("--to %s writes one section; got %d arguments", opts.to, len(args))
 	}
-	data, name, err := sectionFromArg(cmd.InOrStdin(), args[0])
+	data, name, err := sectionFromArg(cmd, args[0])
 	if err != nil {
 		return err
 	}
@@ -211,11 +212,11 @@ func runExport(cmd *cobra.Command, args []string, opts *exportOptions) error {
 
 // sectionFromArg reads a section document: the file, "-" for standard
 // input, or section.json in a section folder of a run folder.
-func sectionFromArg(stdin io.Reader, arg string) ([]byte, string, error) {
+func sectionFromArg(cmd *cobra.Command, arg string) ([]byte, string, error) {
 	if st, err := os.Stat(arg); err == nil && st.IsDir() {
 		arg = filepath.Join(arg, "section.json")
 	}
-	return readSectionFile(stdin, arg)
+	return readInput(cmd, arg)
 }
 
 // exportResults writes the polars or the Cp of the result documents that
@@ -230,7 +231,7 @@ func exportResults(stdout, stderr io.Writer, args []string, opts *exportOptions)
 			return err
 		}
 		for _, f := range files {
-			data, err := os.ReadFile(f.path)
+			data, err := limits.ReadFile(f.path, limits.Default().InputBytes, 0)
 			if err != nil {
 				return badInput(err)
 			}
@@ -379,7 +380,7 @@ func runStations(folder string) ([]export.Station, error) {
 	var sts []export.Station
 	for _, rec := range m.Sections {
 		path := filepath.Join(folder, rec.Name, "section.json")
-		data, err := os.ReadFile(path)
+		data, err := limits.ReadFile(path, limits.Default().InputBytes, 0)
 		if errors.Is(err, os.ErrNotExist) {
 			continue // a section that failed
 		}

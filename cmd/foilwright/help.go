@@ -17,6 +17,7 @@ const groupAnnotation = "foilwright_group"
 var groupTitles = []struct{ id, title string }{
 	{chainGroup, "Geometry chain flags"},
 	{stageGroup, "Stage process flags"},
+	{limitGroup, "Limit flags (every command)"},
 }
 
 // flagGroup returns the flags of fs in group id ("" for those in none).
@@ -73,7 +74,11 @@ func usage(c *cobra.Command) error {
 	for _, g := range groupTitles {
 		writeFlags(w, g.title, flagGroup(local, g.id))
 	}
-	writeFlags(w, "Global Flags", c.InheritedFlags())
+	inherited := c.InheritedFlags()
+	writeFlags(w, "Global Flags", flagGroup(inherited, ""))
+	for _, g := range groupTitles {
+		writeFlags(w, g.title, flagGroup(inherited, g.id))
+	}
 	if c.HasAvailableSubCommands() {
 		fmt.Fprintf(w, "\n\nUse \"%s [command] --help\" for more information about a command.", c.CommandPath())
 	}

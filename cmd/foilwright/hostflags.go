@@ -1,7 +1,6 @@
 package main
 
 import (
-	"errors"
 	"io"
 	"strings"
 	"time"
@@ -9,8 +8,8 @@ import (
 	"github.com/hashicorp/go-hclog"
 	"github.com/spf13/cobra"
 
+	"github.com/foilwright/foilwright/internal/limits"
 	"github.com/foilwright/foilwright/plugins/host"
-	"github.com/foilwright/foilwright/plugins/stage"
 )
 
 // hostFlags are the flags of every command that runs stages.
@@ -39,8 +38,9 @@ func (f *hostFlags) register(cmd *cobra.Command) {
 	cmd.RegisterFlagCompletionFunc("stage-timeout", fixedCompletions("30s", "2m", "10m", "1h"))
 }
 
-// newHost returns a stage host configured by the flags, logging to stderr.
-func (f *hostFlags) newHost(stderr io.Writer) (*host.Host, error) {
+// newHost returns a stage host configured by the flags and the limits
+// (stage-nodes, result-bytes, stage-memory, json-depth), logging to stderr.
+func (f *hostFlags) newHost(stderr io.Writer, lim limits.Limits) (*host.Host, error) {
 	level := hclog.LevelFromString(f.logLevel)
 	if level == hclog.NoLevel {
 		return nil, badInputf("--log-level %q: want trace, debug, info, warn, error or off", f.logLevel)
@@ -57,6 +57,10 @@ func (f *hostFlags) newHost(stderr io.Writer) (*host.Host, error) {
 		CallTimeout:   f.callTimeout,
 		AutoMTLS:      f.mtls,
 		StageLogLevel: stageLevel,
+		MaxNodes:      lim.StageNodes,
+		MaxReply:      int(lim.ResultBytes),
+		Memory:        lim.StageMemory,
+		JSONDepth:     lim.JSONDepth,
 		Logger: hclog.New(&hclog.LoggerOptions{
 			Name:   "foilwright",
 			Level:  level,
@@ -65,13 +69,7 @@ func (f *hostFlags) newHost(stderr io.Writer) (*host.Host, error) {
 	})
 }
 
-// stageError marks stage failures caused by the user's input (bad section
-// or parameters, missing or mispinned executable) for exit status 2.
-func stageError(err error) error {
-	for _, target := range []error{stage.ErrBadInput, host.ErrNotFound, host.ErrNotExecutable, host.ErrChecksum} {
-		if errors.Is(err, target) {
-			return badInput(err)
-		}
-	}
-	return err
-}
+// stageError returns a stage's error as is: exitStatus tells the failures
+// caused by the input (a section or parameters the stage refuses, a
+// missing or mispinned executable) by their sentinels.
+func stageError(err error) error { return err }

@@ -40,7 +40,7 @@ it prints nothing: the exit status says whether the file could be used.`,
 			if opts.quiet {
 				stdout = io.Discard
 			}
-			files, err := inputFiles(cmd.InOrStdin(), args)
+			files, err := inputFiles(cmd, args)
 			if err != nil {
 				return err
 			}

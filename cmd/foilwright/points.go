@@ -56,7 +56,7 @@ without -o), then to standard error.`,
 			if opts.json && opts.out == "" {
 				opts.out = stdoutPath
 			}
-			files, err := inputFiles(cmd.InOrStdin(), args)
+			files, err := inputFiles(cmd, args)
 			if err != nil {
 				return err
 			}
@@ -79,13 +79,18 @@ without -o), then to standard error.`,
 
 func writePoints(stdout, stderr io.Writer, cl *prep.Cleaned, opts pointsOptions) error {
 	c := cl.Contour
+	out, err := newOutputs(stdout, opts.out, opts.plot)
+	if err != nil {
+		return err
+	}
+	defer out.abort()
 	var written []string
 	if opts.plot != "" {
 		f, err := plot.PrepPlot(cl.PlotData())
 		if err != nil {
 			return err
 		}
-		if err := plot.Save(f, opts.plot, 0, 0); err != nil {
+		if err := out.picture(f, opts.plot); err != nil {
 			return err
 		}
 		written = append(written, opts.plot)
@@ -96,15 +101,18 @@ func writePoints(stdout, stderr io.Writer, cl *prep.Cleaned, opts pointsOptions)
 		if err != nil {
 			return err
 		}
-		if err := writeBytes(stdout, opts.out, b); err != nil {
+		if err := out.write(opts.out, func(w io.Writer) error { _, err := w.Write(b); return err }); err != nil {
 			return err
 		}
 		written = append(written, opts.out)
 	case opts.out != "":
-		if err := writeOutput(stdout, opts.out, func(w io.Writer) error { return pointfile.WriteCSV(w, c.Points, c.Origins) }); err != nil {
+		if err := out.write(opts.out, func(w io.Writer) error { return pointfile.WriteCSV(w, c.Points, c.Origins) }); err != nil {
 			return err
 		}
 		written = append(written, opts.out)
+	}
+	if err := out.commit(); err != nil {
+		return err
 	}
 	if opts.quiet {
 		return nil

@@ -8,6 +8,7 @@ import (
 
 	"github.com/foilwright/foilwright/geometry/pointfile"
 	"github.com/foilwright/foilwright/geometry/section"
+	"github.com/foilwright/foilwright/internal/atomicfile"
 	"github.com/foilwright/foilwright/plot"
 	"github.com/foilwright/foilwright/prep"
 )
@@ -55,7 +56,11 @@ standard error. FILE "-" reads standard input.`,
 			if err := opts.check(cmd.OutOrStdout()); err != nil {
 				return err
 			}
-			files, err := inputFiles(cmd.InOrStdin(), args)
+			// Refuse an output that may not be written before any work.
+			if err := atomicfile.CheckTargets(prepTargets(opts)...); err != nil {
+				return err
+			}
+			files, err := inputFiles(cmd, args)
 			if err != nil {
 				return err
 			}
@@ -105,20 +110,38 @@ func (o *prepOptions) check(stdout io.Writer) error {
 	return oneStdout("--output", o.out, "--nodes", o.nodes)
 }
 
-// writePrep writes the outputs of a preparation: plots first, then the node
-// listing, then the section document, each atomically, and the summary:
-// on standard output unless a document went there, then on standard error.
+// prepTargets are the files prep writes: the section, the node listing
+// and the pictures.
+func prepTargets(opts prepOptions) []string {
+	ts := []string{opts.out, opts.nodes}
+	if opts.plot != "" {
+		for _, name := range prep.PlotNames {
+			ts = append(ts, prep.SiblingPath(opts.plot, name))
+		}
+	}
+	return ts
+}
+
+// writePrep writes the outputs of a preparation as one set (plots, the node
+// listing, the section document: all or none, see outputs), and the
+// summary: on standard output unless a document went there, then on
+// standard error.
 func writePrep(stdout, stderr io.Writer, p *prep.Preparation, opts prepOptions) error {
+	out, err := newOutputs(stdout, prepTargets(opts)...)
+	if err != nil {
+		return err
+	}
+	defer out.abort()
 	var written []string
 	if opts.plot != "" {
-		paths, err := writePrepPlots(opts.plot, p)
+		paths, err := writePrepPlots(out, opts.plot, p)
 		if err != nil {
 			return err
 		}
 		written = append(written, paths...)
 	}
 	if opts.nodes != "" {
-		if err := writeOutput(stdout, opts.nodes, func(w io.Writer) error {
+		if err := out.write(opts.nodes, func(w io.Writer) error {
 			return pointfile.WriteNodes(w, p.Section.Name, p.Section.Nodes)
 		}); err != nil {
 			return err
@@ -126,10 +149,13 @@ func writePrep(stdout, stderr io.Writer, p *prep.Preparation, opts prepOptions) 
 		written = append(written, opts.nodes)
 	}
 	if opts.out != "" {
-		if err := writeOutput(stdout, opts.out, func(w io.Writer) error { return section.Write(w, p.Section) }); err != nil {
+		if err := out.write(opts.out, func(w io.Writer) error { return section.Write(w, p.Section) }); err != nil {
 			return err
 		}
 		written = append(written, opts.out)
+	}
+	if err := out.commit(); err != nil {
+		return err
 	}
 	if opts.json && opts.out != stdoutPath {
 		if err := section.Write(stdout, p.Section); err != nil {
@@ -157,8 +183,8 @@ func writePrep(stdout, stderr io.Writer, p *prep.Preparation, opts prepOptions) 
 
 // writePrepPlots draws the preparation pictures to path (its extension
 // chooses SVG or PNG) and to siblings named path-deviation, path-nodes and
-// path-section, and returns the paths written.
-func writePrepPlots(path string, p *prep.Preparation) ([]string, error) {
+// path-section, into out, and returns their paths.
+func writePrepPlots(out *outputs, path string, p *prep.Preparation) ([]string, error) {
 	figs, err := p.PrepFigures()
 	if err != nil {
 		return nil, err
@@ -166,7 +192,7 @@ func writePrepPlots(path string, p *prep.Preparation) ([]string, error) {
 	var paths []string
 	for _, name := range prep.PlotNames {
 		to := prep.SiblingPath(path, name)
-		if err := plot.Save(figs[name], to, 0, 0); err != nil {
+		if err := out.picture(figs[name], to); err != nil {
 			return nil, err
 		}
 		paths = append(paths, to)

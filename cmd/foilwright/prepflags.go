@@ -3,7 +3,6 @@ package main
 import (
 	"errors"
 	"fmt"
-	"io"
 	"slices"
 	"strconv"
 	"strings"
@@ -265,11 +264,12 @@ func (p *prepFlags) edgeSettings(cmd *cobra.Command, s *prep.Settings) error {
 	return nil
 }
 
-// inputFiles reads the named files whole (or stdin for "-").
-func inputFiles(stdin io.Reader, paths []string) ([]prep.File, error) {
+// inputFiles reads the named files whole (or stdin for "-"), within the
+// input limits of cmd's command line.
+func inputFiles(cmd *cobra.Command, paths []string) ([]prep.File, error) {
 	var files []prep.File
 	for _, p := range paths {
-		data, name, err := readSectionFile(stdin, p)
+		data, name, err := readInput(cmd, p)
 		if err != nil {
 			return nil, err
 		}

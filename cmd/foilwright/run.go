@@ -1,6 +1,7 @@
 package main
 
 import (
+	"context"
 	"encoding/json"
 	"errors"
 	"fmt"
@@ -14,9 +15,11 @@ import (
 	"github.com/schollz/progressbar/v3"
 	"github.com/spf13/cobra"
 
+	"github.com/foilwright/foilwright/internal/limits"
 	"github.com/foilwright/foilwright/pipeline"
 	"github.com/foilwright/foilwright/plugins/builtin"
 	"github.com/foilwright/foilwright/plugins/host"
+	"github.com/foilwright/foilwright/plugins/stage"
 )
 
 type runOptions struct {
@@ -42,7 +45,10 @@ section.json, nodes.dat, results/<stage-id>.json and plots/, and manifest.json,
 which records the tool version, the pipeline's and every input's sha256, each
 stage's name, version, executable sha256 and parameters, every output's sha256
 and the timings. Outputs are written atomically; a failed section leaves the
-others intact. The exit status is 0 only when every section succeeded.
+others intact. A "compare" block holds each section against its design (see
+compare) and adds compare.json, compare.csv and verdicts.csv. The exit status is
+0 only when every section succeeded, 3 when they all did but one is out of
+tolerance against its design.
 
 Progress goes to standard error (a bar on a terminal, a line per section
 otherwise); the summary, one line per section, to standard output.
@@ -72,7 +78,7 @@ byte for byte.`,
 	deprecatedAlias(f, "out", "output")
 	cmd.MarkFlagDirname("output")
 	f.IntVarP(&opts.jobs, "jobs", "j", 1, "sections made at once, each worker with its own stage processes")
-	f.BoolVar(&opts.replace, "replace", false, "replace an earlier run in the run folder (only the files its manifest lists)")
+	f.BoolVar(&opts.replace, "replace", false, "replace the earlier run in the run folder, as a whole, once every section succeeded (the folder must hold only that run)")
 	f.BoolVar(&opts.verify, "verify", false, "the argument is a manifest.json: re-run it and compare every output")
 	f.BoolVar(&opts.keep, "keep", false, "with --verify, keep the re-run's folder")
 	quietFlag(cmd, &opts.quiet, "show no progress and print no summary: the exit status and the manifest say how the run went")
@@ -94,7 +100,11 @@ func runPipeline(cmd *cobra.Command, path string, opts runOptions) error {
 	if opts.jobs < 1 {
 		return badInputf("--jobs %d: want 1 or more", opts.jobs)
 	}
-	p, err := pipeline.Load(path, known)
+	lim, err := limitsOf(cmd)
+	if err != nil {
+		return err
+	}
+	p, err := pipeline.LoadWith(path, parseOptions(lim))
 	if err != nil {
 		return badInput(err)
 	}
@@ -105,7 +115,7 @@ func runPipeline(cmd *cobra.Command, path string, opts runOptions) error {
 		}
 		return pl.Describe(stdout)
 	}
-	h, err := opts.host.newHost(stderr)
+	h, err := opts.host.newHost(stderr, lim)
 	if err != nil {
 		return err
 	}
@@ -118,10 +128,10 @@ func runPipeline(cmd *cobra.Command, path string, opts runOptions) error {
 	sum, err := pipeline.Run(cmd.Context(), pl, pipeline.RunOptions{
 		Folder: opts.out, Replace: opts.replace, Jobs: opts.jobs,
 		Preparer: pipeline.Chain{}, NewRunner: pipeline.HostRunners(h, self),
-		Done: prog.done,
+		Done: prog.done, Limits: lim,
 	})
 	prog.finish()
-	if sum != nil {
+	if sum != nil && sum.Manifest != "" {
 		sum.Manifest = displayPath(sum.Manifest)
 	}
 	if sum != nil && !opts.quiet {
@@ -134,20 +144,41 @@ func runPipeline(cmd *cobra.Command, path string, opts runOptions) error {
 		}
 	}
 	if err != nil {
-		if errors.Is(err, pipeline.ErrFolderNotEmpty) {
-			return badInput(err)
-		}
 		return err
 	}
-	if n := len(sum.Failed()); n > 0 {
-		return fmt.Errorf("%d of %d section(s) did not complete", n, len(sum.Sections))
+	if err := sum.Err(); err != nil {
+		return err
+	}
+	if n := len(sum.OutOfTolerance()); n > 0 {
+		return &toleranceError{fmt.Sprintf("%d of %d section(s) out of tolerance against their design", n, len(sum.Sections))}
 	}
 	return nil
 }
 
+// parseOptions are the pipeline file's checks for the limits lim: its
+// size and nesting, and the parameters of built-in stages.
+func parseOptions(lim limits.Limits) pipeline.ParseOptions {
+	return pipeline.ParseOptions{Known: known, Describe: builtinInfo, MaxBytes: lim.JSONBytes, MaxDepth: lim.JSONDepth}
+}
+
+// builtinInfo describes a built-in stage in process, for the checks of a
+// pipeline file.
+func builtinInfo(name string) (stage.Info, bool) {
+	s, ok := builtin.Lookup(name)
+	if !ok {
+		return stage.Info{}, false
+	}
+	info, err := s.Describe(context.Background())
+	return info, err == nil
+}
+
 func runVerify(cmd *cobra.Command, manifest string, opts runOptions) error {
 	stdout, stderr := cmd.OutOrStdout(), cmd.ErrOrStderr()
-	h, err := opts.host.newHost(stderr)
+	lim, err := limitsOf(cmd)
+	if err != nil {
+		return err
+	}
+	h, err := opts.host.newHost(stderr, lim)
 	if err != nil {
 		return err
 	}
@@ -158,9 +189,10 @@ func runVerify(cmd *cobra.Command, manifest string, opts runOptions) error {
 	}
 	rep, err := pipeline.Verify(cmd.Context(), manifest, pipeline.VerifyOptions{
 		Known: known, Jobs: opts.jobs, Preparer: pipeline.Chain{}, NewRunner: pipeline.HostRunners(h, self), Keep: opts.keep,
+		Parse: parseOptions(lim), Limits: lim,
 	})
 	if err != nil {
-		if errors.Is(err, pipeline.ErrPipelineChanged) || errors.Is(err, pipeline.ErrInputChanged) || errors.Is(err, pipeline.ErrNotManifest) || errors.Is(err, os.ErrNotExist) {
+		if errors.Is(err, os.ErrNotExist) {
 			return badInput(err)
 		}
 		return err
@@ -213,9 +245,13 @@ type (
 		Folder    string           `json:"folder"`
 		Manifest  string           `json:"manifest"`
 		Cancelled bool             `json:"cancelled"`
+		Kept      bool             `json:"earlier_run_kept,omitempty"` // a replacement that did not succeed left the earlier run
 		Sections  []runSectionJSON `json:"sections"`
 		Counts    map[string]int   `json:"counts"`
 		Failed    []string         `json:"failed"`
+		// OutOfTolerance names the sections compared with their design
+		// that failed their tolerance.
+		OutOfTolerance []string `json:"out_of_tolerance"`
 	}
 	runSectionJSON struct {
 		Name    string                 `json:"name"`
@@ -223,6 +259,7 @@ type (
 		Error   string                 `json:"error,omitempty"`
 		Summary string                 `json:"summary,omitempty"`
 		Stages  []pipeline.StageReport `json:"stages"`
+		Compare *pipeline.Verdict      `json:"compare,omitempty"`
 	}
 	verifyReportJSON struct {
 		Manifest    string           `json:"manifest"`
@@ -234,9 +271,11 @@ type (
 		Kept        string           `json:"kept,omitempty"`
 	}
 	differenceJSON struct {
-		Path string `json:"path"`
-		Want string `json:"want_sha256,omitempty"`
-		Got  string `json:"got_sha256,omitempty"`
+		Path   string `json:"path"`
+		Want   string `json:"want_sha256,omitempty"`
+		Got    string `json:"got_sha256,omitempty"`
+		OnDisk bool   `json:"on_disk"` // in the run folder; else in the re-run
+		Note   string `json:"note,omitempty"`
 	}
 	planReportJSON struct {
 		Name     string            `json:"name"`
@@ -257,18 +296,21 @@ type (
 )
 
 func summaryJSON(s *pipeline.Summary) runSummaryJSON {
-	out := runSummaryJSON{Folder: s.Folder, Manifest: s.Manifest, Cancelled: s.Cancelled,
-		Sections: []runSectionJSON{}, Counts: map[string]int{}, Failed: []string{}}
+	out := runSummaryJSON{Folder: s.Folder, Manifest: s.Manifest, Cancelled: s.Cancelled, Kept: s.Kept,
+		Sections: []runSectionJSON{}, Counts: map[string]int{}, Failed: []string{}, OutOfTolerance: []string{}}
 	for _, r := range s.Sections {
 		st := r.Stages
 		if st == nil {
 			st = []pipeline.StageReport{}
 		}
-		out.Sections = append(out.Sections, runSectionJSON{Name: r.Name, Status: r.Status, Error: r.Err, Summary: r.Summary, Stages: st})
+		out.Sections = append(out.Sections, runSectionJSON{Name: r.Name, Status: r.Status, Error: r.Err, Summary: r.Summary, Stages: st, Compare: r.Compare})
 		out.Counts[r.Status]++
 	}
 	for _, r := range s.Failed() {
 		out.Failed = append(out.Failed, r.Name)
+	}
+	for _, r := range s.OutOfTolerance() {
+		out.OutOfTolerance = append(out.OutOfTolerance, r.Name)
 	}
 	return out
 }
@@ -277,7 +319,7 @@ func verifyJSON(r *pipeline.VerifyReport) verifyReportJSON {
 	out := verifyReportJSON{Manifest: r.Manifest, Reproduced: r.OK(), Checked: r.Checked, Kept: r.Folder,
 		Differences: []differenceJSON{}, Changes: append([]string{}, r.Changes...), Notes: append([]string{}, r.Notes...)}
 	for _, d := range r.Differences {
-		out.Differences = append(out.Differences, differenceJSON{Path: d.Path, Want: d.Want, Got: d.Got})
+		out.Differences = append(out.Differences, differenceJSON{Path: d.Path, Want: d.Want, Got: d.Got, OnDisk: d.OnDisk, Note: d.Note})
 	}
 	return out
 }

@@ -181,6 +181,11 @@ func parsePair(s string) (geometry.Point, error) {
 // and the picture, and the summary: on standard output unless a document
 // went there, then on standard error.
 func writeShape(stdout, stderr io.Writer, opts *shapeOptions, s *section.Section) error {
+	out, err := newOutputs(stdout, opts.out, opts.nodes, opts.plot)
+	if err != nil {
+		return err
+	}
+	defer out.abort()
 	pd, err := prep.NodeProperties(s)
 	if err != nil {
 		return err
@@ -191,23 +196,26 @@ func writeShape(stdout, stderr io.Writer, opts *shapeOptions, s *section.Section
 		if err != nil {
 			return err
 		}
-		if err := plot.Save(f, opts.plot, 0, 0); err != nil {
+		if err := out.picture(f, opts.plot); err != nil {
 			return err
 		}
 		written = append(written, opts.plot)
 	}
 	if opts.nodes != "" {
 		name := strings.TrimSpace(s.Name)
-		if err := writeOutput(stdout, opts.nodes, func(w io.Writer) error { return pointfile.WriteNodes(w, name, s.Nodes) }); err != nil {
-			return fmt.Errorf("write %s: %w", opts.nodes, err)
+		if err := out.write(opts.nodes, func(w io.Writer) error { return pointfile.WriteNodes(w, name, s.Nodes) }); err != nil {
+			return err
 		}
 		written = append(written, opts.nodes)
 	}
 	if opts.out != "" {
-		if err := writeOutput(stdout, opts.out, func(w io.Writer) error { return section.Write(w, s) }); err != nil {
+		if err := out.write(opts.out, func(w io.Writer) error { return section.Write(w, s) }); err != nil {
 			return err
 		}
 		written = append(written, opts.out)
+	}
+	if err := out.commit(); err != nil {
+		return err
 	}
 	if opts.json && opts.out != stdoutPath {
 		if err := section.Write(stdout, s); err != nil {

@@ -1,6 +1,8 @@
 package main
 
 import (
+	"github.com/foilwright/foilwright/internal/limits"
+
 	"context"
 	"encoding/json"
 	"fmt"
@@ -69,7 +71,7 @@ func listPipelineStages(ctx context.Context, w, stderr io.Writer, path string, h
 	if err != nil {
 		return badInput(err)
 	}
-	h, err := hf.newHost(stderr)
+	h, err := hf.newHost(stderr, limits.Default())
 	if err != nil {
 		return err
 	}
@@ -185,7 +187,7 @@ func describeStage(ctx context.Context, stdout, stderr io.Writer, name string, o
 	if err != nil {
 		return err
 	}
-	h, err := opts.host.newHost(stderr)
+	h, err := opts.host.newHost(stderr, limits.Default())
 	if err != nil {
 		return err
 	}
@@ -204,6 +206,9 @@ func writeInfo(w io.Writer, info stage.Info) error {
 	fmt.Fprintf(w, "%s %s\n%s\n", info.Name, info.Version, info.Summary)
 	if info.MaxConcurrency > 0 {
 		fmt.Fprintf(w, "serves at most %d call(s) at once per process\n", info.MaxConcurrency)
+	}
+	if info.MaxNodes > 0 {
+		fmt.Fprintf(w, "takes sections of at most %d nodes\n", info.MaxNodes)
 	}
 	fmt.Fprintln(w, "\nPARAMETERS")
 	tw := tabwriter.NewWriter(w, 0, 4, 2, ' ', 0)

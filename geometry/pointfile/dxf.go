@@ -284,8 +284,14 @@ func (d *dxfReader) number(p dxfPair) (float64, error) {
 
 // coords collects points whose x group is base (10 or 11): each x value
 // starts a point, the y and z groups (base+10, base+20) fill it in. line is
-// the line of the x value.
+// the line of the x value. A point without its y, or a y or z without an x
+// before it, is an error naming the line (a missing y once read as 0); a
+// missing z is 0 (a 2D point).
 func (d *dxfReader) coords(pairs []dxfPair, base int) (pts []geometry.Vec3, lines []int, err error) {
+	hasY := true
+	missingY := func(i int) error {
+		return &geometry.ParseError{File: d.file, Line: lines[i], Err: fmt.Errorf("%w: group %d (x) without its y (group %d)", ErrFormat, base, base+10)}
+	}
 	for _, p := range pairs {
 		switch p.code {
 		case base, base + 10, base + 20:
@@ -298,17 +304,25 @@ func (d *dxfReader) coords(pairs []dxfPair, base int) (pts []geometry.Vec3, line
 		}
 		switch p.code {
 		case base:
+			if !hasY {
+				return nil, nil, missingY(len(pts) - 1)
+			}
 			pts = append(pts, geometry.Vec3{X: v})
 			lines = append(lines, p.line)
-		case base + 10:
-			if len(pts) > 0 {
-				pts[len(pts)-1].Y = v
+			hasY = false
+		case base + 10, base + 20:
+			if len(pts) == 0 {
+				return nil, nil, &geometry.ParseError{File: d.file, Line: p.line, Err: fmt.Errorf("%w: group %d without an x (group %d) before it", ErrFormat, p.code, base)}
 			}
-		case base + 20:
-			if len(pts) > 0 {
+			if p.code == base+10 {
+				pts[len(pts)-1].Y, hasY = v, true
+			} else {
 				pts[len(pts)-1].Z = v
 			}
 		}
+	}
+	if !hasY {
+		return nil, nil, missingY(len(pts) - 1)
 	}
 	return pts, lines, nil
 }
@@ -363,8 +377,11 @@ func (d *dxfReader) ocs(pairs []dxfPair) (func(geometry.Vec3) geometry.Vec3, err
 
 func (d *dxfReader) point(pairs []dxfPair, ent int) error {
 	pts, lines, err := d.coords(pairs, 10)
-	if err != nil || len(pts) == 0 {
+	if err != nil {
 		return err
+	}
+	if len(pts) == 0 {
+		return &geometry.ParseError{File: d.file, Line: pairs[0].line, Err: fmt.Errorf("%w: POINT entity %d without coordinates (groups 10, 20)", ErrFormat, ent)}
 	}
 	d.loose = append(d.loose, pts[0])
 	d.looseAt = append(d.looseAt, geometry.Origin{File: d.file, Line: lines[0], Entity: ent})
@@ -377,8 +394,11 @@ func (d *dxfReader) line(pairs []dxfPair, ent int) error {
 		return err
 	}
 	b, lb, err := d.coords(pairs, 11)
-	if err != nil || len(a) == 0 || len(b) == 0 {
+	if err != nil {
 		return err
+	}
+	if len(a) == 0 || len(b) == 0 {
+		return &geometry.ParseError{File: d.file, Line: pairs[0].line, Err: fmt.Errorf("%w: LINE entity %d without its start (group 10) or end (group 11)", ErrFormat, ent)}
 	}
 	d.lines = append(d.lines, dxfLine{a: a[0], b: b[0], la: la[0], lb: lb[0], ent: ent})
 	return nil

@@ -29,9 +29,10 @@ const maxCpCases = 5
 const streamAlphaDeg = 6
 
 var plotsInfo = stage.Info{
-	Name:    "plots",
-	Version: Version,
-	Summary: "pictures of the section and of the results of the stages it runs after: Cp, Cl and Cm against alpha, streamlines",
+	MaxNodes: PlotsMaxNodes,
+	Name:     "plots",
+	Version:  Version,
+	Summary:  "pictures of the section and of the results of the stages it runs after: Cp, Cl and Cm against alpha, streamlines",
 	Params: []stage.Param{
 		{Name: "format", Type: stage.String, Default: json.RawMessage(`"svg"`), Choices: []string{plot.SVG, plot.PNG}, Doc: "picture format"},
 		{Name: "section", Type: stage.Boolean, Default: json.RawMessage("true"), Doc: "draw the section (section.FORMAT)"},
@@ -42,10 +43,10 @@ var plotsInfo = stage.Info{
 	Scalars: []stage.Scalar{{Name: "figures", Doc: "number of pictures drawn"}},
 }
 
-func (plots) Describe(context.Context) (stage.Info, error) { return plotsInfo, nil }
+func (plots) Describe(context.Context) (stage.Info, error) { return described(plotsInfo), nil }
 
 func (plots) Run(ctx context.Context, req stage.Request) (stage.Result, error) {
-	r, err := decode(plotsInfo, req)
+	r, err := decode(described(plotsInfo), req)
 	if err != nil {
 		return stage.Result{}, err
 	}
