@@ -7,7 +7,7 @@ import (
 
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/shape"
-	"gonum.org/v1/gonum/mat"
+	"github.com/foilwright/foilwright/internal/dense"
 )
 
 var benchPanels = []int{100, 200, 400, 800}
@@ -16,7 +16,7 @@ func benchNodes(panels int) []geometry.Point {
 	return shape.NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12, SharpTE: true}.Loop(panels / 2)
 }
 
-func benchSolver(b *testing.B, panels int) *Solver {
+func benchSolver(b testing.TB, panels int) *Solver {
 	sv, err := New(benchNodes(panels))
 	if err != nil {
 		b.Fatal(err)
@@ -37,75 +37,41 @@ func BenchmarkBuild(b *testing.B) {
 }
 
 // BenchmarkBuildSerial times the build on one goroutine, to show where the
-// parallel build pays.
+// parallel build pays, with the assembly rows (where the CPU has them) and
+// with the Go formulas.
 func BenchmarkBuildSerial(b *testing.B) {
-	for _, n := range benchPanels {
-		b.Run(fmt.Sprintf("n=%d", n), func(b *testing.B) {
-			sv := benchSolver(b, n)
-			for b.Loop() {
-				sv.build(1)
-			}
-		})
+	for _, asm := range []bool{true, false} {
+		if asm && !haveAVX2 {
+			continue
+		}
+		for _, n := range benchPanels {
+			b.Run(fmt.Sprintf("asm=%v/n=%d", asm, n), func(b *testing.B) {
+				defer func(a bool) { useAsm = a }(useAsm)
+				useAsm = asm
+				sv := benchSolver(b, n)
+				for b.Loop() {
+					sv.build(1)
+				}
+				b.ReportMetric(b.Elapsed().Seconds()*1e9/float64(b.N)/float64(n*n), "ns/eval")
+			})
+		}
 	}
 }
 
-// BenchmarkFactor times the LU factorisation (gonum mat.LU) with its
+// BenchmarkFactor times the LU factorisation (package dense) with its
 // condition estimate.
 func BenchmarkFactor(b *testing.B) {
 	for _, n := range benchPanels {
 		b.Run(fmt.Sprintf("n=%d", n), func(b *testing.B) {
 			sv := benchSolver(b, n)
-			a := sv.build(1)
-			var lu mat.LU
+			orig := sv.build(1)
+			a := make([]float64, len(orig))
+			var lu dense.LU
 			for b.Loop() {
-				lu.Factorize(a)
-				_ = lu.Cond()
+				copy(a, orig)
+				lu.Factorize(sv.size(), a)
 			}
 		})
-	}
-}
-
-// BenchmarkFactorHand times a plain row-major LU with partial pivoting, the
-// alternative to gonum that was measured.
-func BenchmarkFactorHand(b *testing.B) {
-	for _, n := range benchPanels {
-		b.Run(fmt.Sprintf("n=%d", n), func(b *testing.B) {
-			sv := benchSolver(b, n)
-			a := sv.build(1)
-			m := sv.size()
-			orig := mat.DenseCopyOf(a).RawMatrix().Data
-			w := make([]float64, len(orig))
-			for b.Loop() {
-				copy(w, orig)
-				handLU(w, m)
-			}
-		})
-	}
-}
-
-func handLU(a []float64, m int) {
-	for k := range m {
-		p := k
-		for i := k + 1; i < m; i++ {
-			if math.Abs(a[i*m+k]) > math.Abs(a[p*m+k]) {
-				p = i
-			}
-		}
-		if p != k {
-			for j := range m {
-				a[k*m+j], a[p*m+j] = a[p*m+j], a[k*m+j]
-			}
-		}
-		rk := a[k*m : (k+1)*m]
-		inv := 1 / rk[k]
-		for i := k + 1; i < m; i++ {
-			ri := a[i*m : (i+1)*m]
-			f := ri[k] * inv
-			ri[k] = f
-			for j := k + 1; j < m; j++ {
-				ri[j] -= f * rk[j]
-			}
-		}
 	}
 }
 

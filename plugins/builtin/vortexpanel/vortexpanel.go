@@ -7,11 +7,12 @@ import (
 	"time"
 
 	"github.com/foilwright/foilwright/geometry"
-	"gonum.org/v1/gonum/mat"
+	"github.com/foilwright/foilwright/internal/dense"
+	"github.com/foilwright/foilwright/internal/par"
 )
 
-// MaxCondition is the largest condition number (1-norm estimate of the LU
-// factorisation, mat.LU.Cond) of the influence matrix that New accepts. Well
+// MaxCondition is the largest condition number (∞-norm estimate of the LU
+// factorisation, dense.LU.Cond) of the influence matrix that New accepts. Well
 // panelled sections give 1e2–1e5; near 1e12 only about four significant
 // digits of the solution survive rounding.
 const MaxCondition = 1e12
@@ -21,8 +22,8 @@ const MaxCondition = 1e12
 // package documentation. It is 2°.
 const CuspAngle = 2 * math.Pi / 180
 
-// Solver holds a section's panels and the factored influence matrix. It is
-// safe for concurrent use.
+// Solver holds a section's panels and the solutions for α = 0 and α = 90°,
+// of which every angle's is a combination. It is safe for concurrent use.
 type Solver struct {
 	nodes []geometry.Point
 	n     int  // panels along the surface
@@ -32,8 +33,9 @@ type Solver struct {
 	// tangent, length.
 	x0, y0, tx, ty, s []float64
 	arc               []float64 // arc length from node 0 to each node
+	arr               panelArrays
 	gap               float64   // base panel length (0 for a sharp TE)
-	lu                mat.LU
+	base              []float64 // solutions for α = 0 and 90°, row-major m×2
 	cond              float64
 
 	mu      sync.Mutex
@@ -58,11 +60,20 @@ func New(nodes []geometry.Point) (*Solver, error) {
 	}
 	a := sv.build(buildWorkers(sv.n))
 	t1 := time.Now()
-	sv.lu.Factorize(a)
-	sv.cond = sv.lu.Cond()
+	// The factors serve only the two right-hand sides: the matrix goes
+	// back to the pool at once.
+	var lu dense.LU
+	lu.Factorize(sv.size(), a)
+	sv.cond = lu.Cond()
+	var err2 error
+	if sv.cond <= MaxCondition {
+		sv.base = sv.rhs()
+		err2 = lu.Solve(sv.base, 2)
+	}
+	putMatrix(&a)
 	t2 := time.Now()
 	sv.timings = Timings{Build: t1.Sub(t0), Factor: t2.Sub(t1)}
-	if !(sv.cond <= MaxCondition) {
+	if !(sv.cond <= MaxCondition) || err2 != nil {
 		return nil, &ConditionError{Solver: pkgName, Cond: sv.cond, Max: MaxCondition}
 	}
 	return sv, nil
@@ -107,6 +118,7 @@ func (sv *Solver) panels() {
 			sv.gap = l
 		}
 	}
+	sv.arr = panelArrays{x0: sv.x0, y0: sv.y0, tx: sv.tx, ty: sv.ty, s: sv.s}
 }
 
 // size returns the order of the linear system.
@@ -122,13 +134,16 @@ func (sv *Solver) mid(j int) (x, y float64) {
 	return sv.x0[j] + 0.5*sv.s[j]*sv.tx[j], sv.y0[j] + 0.5*sv.s[j]*sv.ty[j]
 }
 
+// parallelMinResults is the number of angles times unknowns from which
+// Solve shares the per-angle results out between goroutines.
+const parallelMinResults = 2000
+
 // parallelMinPanels is the panel count from which the matrix build is split
-// across goroutines. Measured with BenchmarkBuild against
-// BenchmarkBuildSerial on the two cores of the development machine, shared
-// with other jobs (load 4–7): at 100 panels splitting lost (0.64 ms against
-// 0.32 ms), at 200 it broke even, at 400 it gave 2.3 ms against 4.5 ms when
-// a core was free and nothing when none was.
-const parallelMinPanels = 300
+// across goroutines. Measured with the assembly rows on the two cores of the
+// development machine, shared with other jobs: at 64 panels splitting broke
+// even (50 µs), at 100 it gave 77 µs against 104–115 µs on one goroutine,
+// at 200 310–350 µs against 450 µs.
+const parallelMinPanels = 100
 
 // buildWorkers returns the number of goroutines for the build of a
 // section of n panels.
@@ -142,34 +157,29 @@ func buildWorkers(n int) int {
 // build returns the influence matrix. Row i < n is the normal velocity at
 // the midpoint of panel i, row n the Kutta condition and, for a blunt
 // trailing edge, row n+1 the normal velocity at the base panel's midpoint.
-// Columns 0…n are the node strengths γ, column n+1 the base source σ.
-func (sv *Solver) build(workers int) *mat.Dense {
+// Columns 0…n are the node strengths γ, column n+1 the base source σ. The
+// matrix is returned row-major, every entry written (it may be recycled).
+func (sv *Solver) build(workers int) []float64 {
 	m := sv.size()
-	data := make([]float64, m*m)
+	data := getMatrix(m * m)
 	rows := sv.n
 	if sv.blunt {
 		rows++
 	}
-	work := func(lo, hi int) {
-		for i := lo; i < hi; i++ {
+	// Rows in batches that the goroutines take in turn.
+	const batch = 8
+	scratch := make([]rowScratch, max(workers, 1))
+	par.For((rows+batch-1)/batch, workers, func(w, b int) {
+		for i := b * batch; i < min((b+1)*batch, rows); i++ {
 			r := i
 			if i == sv.n { // the base row comes after the Kutta row
 				r = sv.n + 1
 			}
-			sv.fillRow(data[r*m:(r+1)*m], i)
+			sv.fillRow(data[r*m:(r+1)*m], i, &scratch[w])
 		}
-	}
-	if workers < 2 {
-		work(0, rows)
-	} else {
-		var wg sync.WaitGroup
-		chunk := (rows + workers - 1) / workers
-		for lo := 0; lo < rows; lo += chunk {
-			wg.Go(func() { work(lo, min(lo+chunk, rows)) })
-		}
-		wg.Wait()
-	}
+	})
 	kutta := data[sv.n*m : (sv.n+1)*m]
+	clear(kutta)
 	kutta[0], kutta[sv.n] = 1, 1
 	if sv.cusp { // replace the two trailing-edge collocation rows by extrapolation
 		n := sv.n
@@ -182,28 +192,60 @@ func (sv *Solver) build(workers int) *mat.Dense {
 		q = sv.s[n-1] / sv.s[n-2]
 		r1[n], r1[n-1], r1[n-2] = 1, -(1 + q), q
 	}
-	return mat.NewDense(m, m, data)
+	return data
+}
+
+// panelArrays are the per-panel arrays the assembly row reads, in this
+// order (influence_amd64.s relies on it): start point, unit tangent,
+// length.
+type panelArrays struct {
+	x0, y0, tx, ty, s []float64
+}
+
+// useAsm selects the assembly build where the CPU has AVX2 and FMA; tests
+// turn it off to compare with the Go formulas.
+var useAsm = haveAVX2
+
+// rowScratch holds fillRow's arrays for one goroutine: the coefficients
+// and the assembly's scratch.
+type rowScratch struct {
+	ca, cb, w []float64
 }
 
 // fillRow writes the normal-velocity influence of every panel at the
-// midpoint of panel i (the base panel when i == n) into row.
-func (sv *Solver) fillRow(row []float64, i int) {
+// midpoint of panel i (the base panel when i == n) into row, every entry.
+func (sv *Solver) fillRow(row []float64, i int, w *rowScratch) {
 	const inv2pi = 1 / (2 * math.Pi)
+	clear(row)
 	px, py := sv.mid(i)
 	// Outward normal of panel i: the right-hand normal of its direction.
 	nx, ny := sv.ty[i], -sv.tx[i]
-	for j := range sv.n {
-		x, y, beta, lnr := sv.local(j, px, py, i == j)
-		s := sv.s[j]
-		i1u := x*beta - y*lnr
-		i1v := x*lnr - s + y*beta
-		ua, ub := -(beta-i1u/s)*inv2pi, -i1u/s*inv2pi
-		va, vb := (lnr-i1v/s)*inv2pi, i1v/s*inv2pi
-		// Global velocity u·t + v·nL projected on n: t·n and nL·n = −t·n_perp.
-		tn := sv.tx[j]*nx + sv.ty[j]*ny
-		ln := -sv.ty[j]*nx + sv.tx[j]*ny
-		row[j] += ua*tn + va*ln
-		row[j+1] += ub*tn + vb*ln
+	n := sv.n
+	done := 0
+	if useAsm && n >= 4 {
+		// Four panels at a time: row[j] gets ca[j] + cb[j−1]; the
+		// panel's own midpoint and the last n%4 panels follow below.
+		done = n &^ 3
+		if cap(w.ca) < done {
+			w.ca, w.cb, w.w = make([]float64, done), make([]float64, done), make([]float64, 5*done)
+		}
+		ca, cb := w.ca[:done], w.cb[:done]
+		p := [4]float64{px, py, nx, ny}
+		vortexRowAsm(ca, cb, &sv.arr, &p, w.w[:5*done])
+		if i < done {
+			ca[i], cb[i] = sv.coeffs(i, px, py, nx, ny, true)
+		}
+		out := row[:done+1]
+		out[0] += ca[0]
+		for j := 1; j < done; j++ {
+			out[j] += ca[j] + cb[j-1]
+		}
+		out[done] += cb[done-1]
+	}
+	for j := done; j < n; j++ {
+		a, b := sv.coeffs(j, px, py, nx, ny, i == j)
+		row[j] += a
+		row[j+1] += b
 	}
 	if sv.blunt {
 		j := sv.n
@@ -217,6 +259,23 @@ func (sv *Solver) fillRow(row []float64, i int) {
 		ln := -sv.ty[j]*nx + sv.tx[j]*ny
 		row[sv.n+1] = u*tn + v*ln
 	}
+}
+
+// coeffs returns the coefficients of the node strengths γ_j and γ_j+1 of
+// panel j in the velocity at (px, py) normal to (nx, ny); self marks panel
+// j's own midpoint.
+func (sv *Solver) coeffs(j int, px, py, nx, ny float64, self bool) (a, b float64) {
+	const inv2pi = 1 / (2 * math.Pi)
+	x, y, beta, lnr := sv.local(j, px, py, self)
+	s := sv.s[j]
+	i1u := x*beta - y*lnr
+	i1v := x*lnr - s + y*beta
+	ua, ub := -(beta-i1u/s)*inv2pi, -i1u/s*inv2pi
+	va, vb := (lnr-i1v/s)*inv2pi, i1v/s*inv2pi
+	// Global velocity u·t + v·nL projected on n: t·n and nL·n = −t·n_perp.
+	tn := sv.tx[j]*nx + sv.ty[j]*ny
+	ln := -sv.ty[j]*nx + sv.tx[j]*ny
+	return ua*tn + va*ln, ub*tn + vb*ln
 }
 
 // local returns the coordinates of (px, py) in the frame of panel j (x along
@@ -277,7 +336,7 @@ type Case struct {
 }
 
 // Solve returns the solution at each angle of attack (radians) by
-// superposition of the α = 0 and α = 90° solutions of the factored system.
+// superposition of the α = 0 and α = 90° solutions New computed.
 // It returns an error wrapping ErrNonFinite or ErrAlphaRange for a bad angle.
 func (sv *Solver) Solve(alphas []float64) ([]Case, error) {
 	if err := checkAlphas(alphas); err != nil {
@@ -285,44 +344,59 @@ func (sv *Solver) Solve(alphas []float64) ([]Case, error) {
 	}
 	t0 := time.Now()
 	m := sv.size()
-	b := mat.NewDense(m, 2, nil)
-	for i := range sv.n {
-		b.Set(i, 0, -sv.ty[i]) // −V∞·n with n = (ty, −tx), V∞ = (1, 0)
-		b.Set(i, 1, sv.tx[i])  // V∞ = (0, 1)
-	}
-	if sv.cusp {
-		b.Set(0, 0, 0)
-		b.Set(0, 1, 0)
-		b.Set(sv.n-1, 0, 0)
-		b.Set(sv.n-1, 1, 0)
-	}
-	if sv.blunt {
-		b.Set(sv.n+1, 0, -sv.ty[sv.n])
-		b.Set(sv.n+1, 1, sv.tx[sv.n])
-	}
-	var x mat.Dense
-	if err := sv.lu.SolveTo(&x, false, b); err != nil {
-		return nil, &ConditionError{Solver: pkgName, Cond: sv.cond, Max: MaxCondition}
-	}
+	b := sv.base
 	cases := make([]Case, len(alphas))
-	for k, alpha := range alphas {
-		sa, ca := math.Sincos(alpha)
-		v := make([]float64, m)
-		for i := range v {
-			v[i] = ca*x.At(i, 0) + sa*x.At(i, 1)
+	// One allocation each for the solutions and the pressures of all angles.
+	vs := make([]float64, m*len(alphas))
+	cps := make([]float64, (sv.n+1)*len(alphas))
+	work := func(lo, hi int) {
+		for k := lo; k < hi; k++ {
+			alpha := alphas[k]
+			sa, ca := math.Sincos(alpha)
+			v := vs[k*m : (k+1)*m : (k+1)*m]
+			for i := range v {
+				v[i] = ca*b[2*i] + sa*b[2*i+1]
+			}
+			cases[k] = sv.result(alpha, v, cps[k*(sv.n+1):(k+1)*(sv.n+1):(k+1)*(sv.n+1)])
 		}
-		cases[k] = sv.result(alpha, v)
 	}
+	workers := 1
+	if len(alphas)*m >= parallelMinResults {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	// Angles in batches of four that the goroutines take in turn.
+	par.For((len(alphas)+3)/4, workers, func(_, b int) {
+		work(4*b, min(4*b+4, len(alphas)))
+	})
 	sv.mu.Lock()
 	sv.timings.Solve = time.Since(t0)
 	sv.mu.Unlock()
 	return cases, nil
 }
 
-// result computes the coefficients of one case from its solution vector.
-func (sv *Solver) result(alpha float64, v []float64) Case {
+// rhs returns the right-hand sides for α = 0 and α = 90°, row-major m×2.
+func (sv *Solver) rhs() []float64 {
+	b := make([]float64, 2*sv.size())
+	for i := range sv.n {
+		b[2*i] = -sv.ty[i]  // −V∞·n with n = (ty, −tx), V∞ = (1, 0)
+		b[2*i+1] = sv.tx[i] // V∞ = (0, 1)
+	}
+	if sv.cusp {
+		b[0], b[1] = 0, 0
+		b[2*(sv.n-1)], b[2*(sv.n-1)+1] = 0, 0
+	}
+	if sv.blunt {
+		b[2*(sv.n+1)] = -sv.ty[sv.n]
+		b[2*(sv.n+1)+1] = sv.tx[sv.n]
+	}
+	return b
+}
+
+// result computes the coefficients of one case from its solution vector,
+// with cp (n+1 entries) to hold the pressure coefficients.
+func (sv *Solver) result(alpha float64, v, cp []float64) Case {
 	n := sv.n
-	c := Case{Alpha: alpha, Gamma: v[: n+1 : n+1], Cp: make([]float64, n+1), sv: sv, x0: v}
+	c := Case{Alpha: alpha, Gamma: v[: n+1 : n+1], Cp: cp, sv: sv, x0: v}
 	for k, g := range c.Gamma {
 		c.Cp[k] = 1 - g*g
 	}
@@ -330,17 +404,21 @@ func (sv *Solver) result(alpha float64, v []float64) Case {
 		c.BaseSource = v[n+1]
 	}
 	var circ, fx, fy, cm float64
-	for j := range n {
-		a, b, s := v[j], v[j+1], sv.s[j]
+	const third, sixth, twelfth = 1.0 / 3, 1.0 / 6, 1.0 / 12
+	g := v[: n+1 : n+1]
+	tx, ty, x0, y0 := sv.tx[:n], sv.ty[:n], sv.x0[:n], sv.y0[:n]
+	for j, s := range sv.s[:n] {
+		a, b := g[j], g[j+1]
+		aa, ab, bb := a*a, a*b, b*b
 		circ += 0.5 * s * (a + b)
 		// Exact integrals of Cp = 1 − γ² with γ linear along the panel.
-		icp := s * (1 - (a*a+a*b+b*b)/3)
-		ixcp := s * s * (0.5 - (a*a/12 + a*b/6 + b*b/4))
-		nx, ny := sv.ty[j], -sv.tx[j]
+		icp := s * (1 - (aa+ab+bb)*third)
+		ixcp := s * s * (0.5 - (aa*twelfth + ab*sixth + bb*0.25))
+		nx, ny := ty[j], -tx[j]
 		fx -= icp * nx
 		fy -= icp * ny
 		// Nose-up moment about c/4: Σ ∫ Cp (r − r_c/4) × n ds, and t × n = −1.
-		rx, ry := sv.x0[j]-0.25, sv.y0[j]
+		rx, ry := x0[j]-0.25, y0[j]
 		cm += (rx*ny-ry*nx)*icp - ixcp
 	}
 	sa, ca := math.Sincos(alpha)

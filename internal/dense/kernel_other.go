@@ -1,0 +1,16 @@
+//go:build !amd64 || purego
+
+package dense
+
+// haveAVX2 is false where the assembly micro-kernel is not built.
+const haveAVX2 = false
+
+func kernFast(k int, a, b, c []float64, ldc int) { kernGo(k, a, b, c, ldc) }
+
+func axpyAVX2(alpha float64, x, y *float64, n int) { panic("dense: no assembly") }
+
+func dotAVX2(x, y *float64, n int) float64 { panic("dense: no assembly") }
+
+func rank1AVX2(a *float64, lda, rows, w int, inv float64) (pivot int) { panic("dense: no assembly") }
+
+func asumAVX2(x *float64, n int) float64 { panic("dense: no assembly") }
