@@ -8,6 +8,7 @@ import (
 	"strings"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/accuracy"
 	"github.com/foilwright/foilwright/geometry/clean"
 	"github.com/foilwright/foilwright/geometry/curve"
 	"github.com/foilwright/foilwright/geometry/frame"
@@ -46,6 +47,8 @@ type Preparation struct {
 	Props    *props.SectionProperties
 	Camber   *props.CamberLine
 	Quality  repanel.Quality
+	// Uncertainty is the section's statement of its own accuracy.
+	Uncertainty accuracy.Uncertainty
 }
 
 // Cleaned is what the first half of the geometry chain made of a
@@ -171,7 +174,9 @@ func Prepare(name string, files []File, s Settings) (*Preparation, error) {
 	if p.Props, p.Camber, err = props.Compute(p.Shape.Path, p.Shape.SLE, po); err != nil {
 		return nil, fmt.Errorf("%s: %w", where, err)
 	}
+	p.Uncertainty = accuracy.Estimate(p.Curve, p.Fit, p.Shape, accuracy.Options{Edges: edgeOptions(s)})
 	p.Section = p.document(name, cl, nodes, le, rp.Spacing)
+	p.Section.Warnings = append(p.Section.Warnings, accuracy.Gaps(p.Contour, p.Fit, p.Curve, p.Shape)...)
 	return p, nil
 }
 
@@ -267,15 +272,16 @@ func (p *Preparation) document(name string, cl *Cleaned, nodes []geometry.Point,
 			Dropped: DroppedOf(cl.Clean),
 		},
 		Frame:        &fr,
-		Fit:          &section.FitSummary{Method: fit.Method, RMS: fit.RMS, Max: fit.Max, MaxAt: fit.MaxAt.String(), NoiseEstimate: fit.NoiseEstimate},
+		Fit:          p.fitSummary(),
 		TrailingEdge: &te,
 		LEIndex:      &le,
 		Panels: &section.PanelSummary{
 			Count: len(nodes) - 1, Spacing: spacing,
 			MaxRatio: p.Quality.MaxRatio, MaxTurnDeg: p.Quality.MaxTurnDeg,
 		},
-		Properties: &docProps,
-		Nodes:      nodes,
+		Properties:  &docProps,
+		Uncertainty: (*section.Uncertainty)(&p.Uncertainty),
+		Nodes:       nodes,
 	}
 	for _, c := range p.Clouds {
 		for _, n := range c.Notes {
@@ -295,6 +301,22 @@ func (p *Preparation) document(name string, cl *Cleaned, nodes []geometry.Point,
 	sec.Warnings = append(sec.Warnings, shape.Warnings...)
 	sec.Warnings = append(sec.Warnings, p.Quality.Warnings...)
 	return sec
+}
+
+// fitSummary returns the fit block of the section document: the method,
+// the residuals, the noise estimate, why the curve interpolates when it
+// does, and its fairness, the roughness in chord units.
+func (p *Preparation) fitSummary() *section.FitSummary {
+	fit := p.Fit
+	c := p.Shape.Frame.Chord
+	return &section.FitSummary{
+		Method: fit.Method, RMS: fit.RMS, Max: fit.Max, MaxAt: fit.MaxAt.String(),
+		NoiseEstimate: fit.NoiseEstimate, Interpolates: fit.Interpolates,
+		Fairness: &section.Fairness{
+			Inflections: fit.Fairness.Inflections, Wiggles: fit.Fairness.Wiggles,
+			Roughness: fit.Fairness.Roughness * c * c,
+		},
+	}
 }
 
 // readOptions turns the reading settings into pointfile.Options.

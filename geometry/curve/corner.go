@@ -19,48 +19,49 @@ import (
 // the curve, the corner is sought.
 const cornerReach = 0.02
 
-// cornerExtend is the longest extension of a branch to its corner, in
-// point spacings at the end.
-const cornerExtend = 4
+// cornerSkip is the part of each branch at a sharp corner, in point
+// spacings, that is replaced by its tangent; cornerExtend is the longest
+// extension of a branch beyond its end to the corner, in point spacings.
+const (
+	cornerSkip   = 2
+	cornerExtend = 4
+)
 
 // cornerSamples is the number of samples of each branch searched for a
 // crossing.
 const cornerSamples = 400
 
 // joinCorner returns the open curve cv with its ends brought together at
-// the corner of a sharp trailing edge: where its first and last arcs (the
-// two surfaces) cross, trimmed there; or else at the point X where the
-// tangent lines at its ends meet, each branch extended to X by a straight
-// segment, or, where X lies a little behind its end, cut back to the foot
-// of X on it first. X must lie within cornerExtend point spacings (h, the
-// spacing of the points at the ends) of both ends: an unsampled corner is
-// missed by a spacing or two, while tangents that meet farther out belong
-// to a blunt edge without base points, whose ends are then joined by
-// straight segments to their midpoint, as they are when the tangents are
-// nearly parallel.
+// the corner of a sharp trailing edge. The last cornerSkip point spacings
+// of each branch (h, the spacing of the points at the ends) are where the
+// branches feel each other's points and the corner point they share, and
+// may cross or curl; each branch is cut there and continued straight
+// along its tangent to the point X where the two tangents meet. X must
+// lie within cornerExtend spacings of both cuts: tangents that meet
+// farther out belong to a blunt edge without base points (or nearly
+// parallel surfaces), whose ends, uncut, are then joined by straight
+// segments to their midpoint.
 func joinCorner(cv *Curve, h float64) *Curve {
 	L := cv.Length()
 	reach := cornerReach * L
-	a := branch(cv, 0, reach)
-	b := branch(cv, L, L-reach)
-	if sa, sb, ok := crossing(a, b); ok {
-		return cv.Sub(sa, sb).snapped()
-	}
-	p0, p1 := cv.Start(), cv.End()
-	d0 := cv.Tangent(0).Scale(-1) // beyond the start
-	d1 := cv.Tangent(L)           // beyond the end
+	skip := math.Min(cornerSkip*h, reach/4)
+	sa, sb := skip, L-skip
+	p0, p1 := cv.At(sa), cv.At(sb)
+	d0 := cv.Tangent(sa).Scale(-1) // towards the start
+	d1 := cv.Tangent(sb)           // towards the end
 	x, ta, tb, ok := lineMeet(p0, d0, p1, d1)
-	if lim := math.Min(reach, cornerExtend*h); !ok || math.Abs(ta) > lim || math.Abs(tb) > lim {
-		x = p0.Add(p1).Scale(0.5)
+	if lim := math.Min(reach, cornerExtend*h+skip); !ok || ta < -skip || tb < -skip || ta > lim || tb > lim {
+		// No corner within reach: join the ends themselves.
+		sa, sb = 0, L
+		x = cv.Start().Add(cv.End()).Scale(0.5)
 		ta, tb = 0, 0
 	}
-	// Cut a branch back to the foot of x when x lies behind its end.
-	sa, sb := 0.0, L
+	// Cut a branch back to the foot of x when x lies behind its cut.
 	if ta < 0 {
-		sa = footOn(cv, x, 0, reach)
+		sa = footOn(cv, x, 0, sa)
 	}
 	if tb < 0 {
-		sb = footOn(cv, x, L-reach, L)
+		sb = footOn(cv, x, sb, L)
 	}
 	var bl Builder
 	bl.AddLine(x, cv.At(sa))

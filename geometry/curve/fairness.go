@@ -44,9 +44,9 @@ type Fairness struct {
 	// lobes are the arcs [a, b] of the wiggles.
 	lobes [][2]float64
 	// Roughness is the RMS of the derivative of the curvature along the
-	// arc, dκ/ds, times L² of the curve measured in (dimensionless). On a
-	// normalised section (L ≈ 2 chords) a smooth NACA section gives tens;
-	// noise left in the curve, thousands.
+	// arc, dκ/ds, in the curve's units (1/length²). In chord units a
+	// smooth NACA section gives tens (the nose dominates); noise left in
+	// the curve, hundreds to thousands.
 	Roughness float64 `json:"roughness"`
 }
 
@@ -89,7 +89,7 @@ func MeasureFairness(cv *Curve, T func(s float64) float64) Fairness {
 		sl += ds
 	}
 	if sl > 0 {
-		f.Roughness = math.Sqrt(ss/sl) * L * L
+		f.Roughness = math.Sqrt(ss / sl)
 	}
 	// Inflections with hysteresis: the sign changes when the curvature
 	// passes the far side of the flat band.

@@ -112,6 +112,8 @@ type FitReport struct {
 	Fairness  Fairness
 	FairSteps int
 	Warnings  []string
+
+	resampler *resampler // the final fit, for Replica and Half
 }
 
 // trailingEnds is the result of looking for corners at the trailing edge.
@@ -502,8 +504,12 @@ func Fit(c *geometry.Contour, opts FitOptions) (*Curve, *FitReport, error) {
 		if err != nil {
 			return nil, nil, err
 		}
-		if ends.open && !st.exact {
-			cv = rebuildEnds(cv, c, ends, sharp, endSpacing(pts))
+		if ends.open {
+			eb := newEndRebuild(c, ends, sharp, pts)
+			if !st.exact {
+				cv = rebuildEnds(cv, eb)
+			}
+			st.final.ends = eb
 		}
 		fk := make([]int, len(knot))
 		for i, j := range knot {
@@ -543,6 +549,7 @@ func Fit(c *geometry.Contour, opts FitOptions) (*Curve, *FitReport, error) {
 		}
 	}
 	finishReport(c, opts, len(pts), rep)
+	rep.resampler = st.final
 	return cv, rep, nil
 }
 
@@ -550,12 +557,35 @@ func Fit(c *geometry.Contour, opts FitOptions) (*Curve, *FitReport, error) {
 // (corner.go): the sharp corner where the branches meet, or each corner of
 // a blunt edge where its branch meets the line through the base points.
 // An open end without base points (a gap) is left where the fit put it.
-func rebuildEnds(cv *Curve, c *geometry.Contour, ends trailingEnds, sharp bool, h float64) *Curve {
-	if sharp {
-		return joinCorner(cv, h)
+func rebuildEnds(cv *Curve, e endRebuild) *Curve {
+	switch {
+	case e.sharp:
+		return joinCorner(cv, e.h)
+	case e.base:
+		return toBase(cv, e.o, e.dir)
 	}
-	if len(ends.base) < 2 {
-		return cv
+	return cv
+}
+
+// endRebuild says how rebuildEnds rebuilds the ends of a smoothed open fit:
+// a sharp corner (with h the spacing of the points at the ends), or the
+// corners on the base line through o in direction dir.
+type endRebuild struct {
+	sharp, base bool
+	h           float64
+	o, dir      geometry.Point
+	// nBase is the number of base points, spread their RMS distance along
+	// the base from o: how well they fix the line (Replica).
+	nBase  int
+	spread float64
+}
+
+// newEndRebuild returns how the ends of the open fit of c with ends are
+// rebuilt; pts are the points in fit order.
+func newEndRebuild(c *geometry.Contour, ends trailingEnds, sharp bool, pts []geometry.Point) endRebuild {
+	e := endRebuild{sharp: sharp, h: endSpacing(pts)}
+	if sharp || len(ends.base) < 2 {
+		return e
 	}
 	var o geometry.Point
 	for _, i := range ends.base {
@@ -568,7 +598,14 @@ func rebuildEnds(cv *Curve, c *geometry.Contour, ends trailingEnds, sharp bool, 
 		sxx, sxy, syy = sxx+d.X*d.X, sxy+d.X*d.Y, syy+d.Y*d.Y
 	}
 	th := 0.5 * math.Atan2(2*sxy, sxx-syy)
-	return toBase(cv, o, geometry.Point{X: math.Cos(th), Y: math.Sin(th)})
+	e.base, e.o, e.dir = true, o, geometry.Point{X: math.Cos(th), Y: math.Sin(th)}
+	e.nBase = len(ends.base)
+	for _, i := range ends.base {
+		u := c.Points[i].Sub(o).Dot(e.dir)
+		e.spread += u * u
+	}
+	e.spread = math.Sqrt(e.spread / float64(e.nBase))
+	return e
 }
 
 // endSpacing returns the median spacing of the endSpan points at either
@@ -809,6 +846,7 @@ func robustSigma(rs []float64) float64 {
 // smoothState is what the rounds of Fit share: the verdict of the
 // sampling test, the feature scales and the smoothing chosen so far.
 type smoothState struct {
+	final  *resampler // the last fit, for replicas
 	sample sampling
 	exact  bool      // interpolate
 	T      []float64 // feature scale at each fit point, from the first round
@@ -847,6 +885,7 @@ func passes(fp fitPoints, open, freeEnds bool, opts FitOptions, st *smoothState,
 			return nil, fmt.Errorf("geometry: fit: %w", err)
 		}
 		rep.Lambda, rep.EffectiveParams, rep.Smoothing, rep.NoiseEstimate = 0, float64(m), 0, 0
+		st.final = newResampler(prob, f, xs, ys, 0, 0, open, false)
 		return fromFit(prob, f, !open), nil
 	}
 	c := critWeights(ws)
@@ -953,6 +992,7 @@ func passes(fp fitPoints, open, freeEnds bool, opts FitOptions, st *smoothState,
 		}
 	}
 	rep.Lambda, rep.EffectiveParams, rep.Smoothing = lambda, f.trace, betaOfLambda(lambda, mean)
+	st.final = newResampler(prob, f, xs, ys, lambda, sigma*math.Sqrt(tau), open, freeEnds)
 	cv := fromFit(prob, f, !open)
 	rep.Fairness = MeasureFairness(cv, Tat)
 	return cv, nil
