@@ -37,7 +37,10 @@ func (Chain) Prepare(ctx context.Context, in Input, s prep.Settings) (Prepared, 
 			if err != nil {
 				return Prepared{}, err
 			}
-			out.Artifacts = append(out.Artifacts, stage.Artifact{Name: name + "." + in.PlotFormat, MediaType: plot.MediaType(in.PlotFormat), Data: data})
+			// prep.svg, prep-deviation.svg, ...: the names prep --plot
+			// gives them, apart from the plots stage's section.svg.
+			file := prep.SiblingPath("prep."+in.PlotFormat, name)
+			out.Artifacts = append(out.Artifacts, stage.Artifact{Name: file, MediaType: plot.MediaType(in.PlotFormat), Data: data})
 		}
 	}
 	return out, nil

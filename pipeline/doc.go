@@ -36,7 +36,11 @@
 // executable), "params" (any object, handed to the stage as written),
 // "after", "on_error" ("stop", the default, fails the section; "continue"
 // records the failure and skips only the stages that run after it) and
-// "timeout_s". Output keys: "folder" (default runs/<name>), "documents"
+// "timeout_s", "env" (names of variables of foilwright's environment the
+// stage may see, besides the minimal ones; recorded with their values in
+// the manifest) and "pins" (more files the stage depends on, path →
+// sha256, checked with the file: a wrapper script's pin covers only the
+// script, not the binary it runs). Output keys: "folder" (default runs/<name>), "documents"
 // (any of "section", "nodes", "results"; all by default) and "plots" (a
 // list of names, checked and recorded; artifacts the stages return are
 // always written).
@@ -47,7 +51,12 @@
 // file:line:column: key path: reason — invalid JSON, unknown and duplicate
 // keys (also inside "params"), wrong types, values out of range, files and
 // globs that match nothing, duplicate or unknown stage ids, dependency
-// cycles, and stages that are neither built in nor an executable.
+// cycles, stages that are neither built in nor an executable, and (given
+// ParseOptions.Describe) parameters a built-in stage would refuse. A file
+// past the json-bytes limit or nested past json-depth is refused first, in
+// one pass, at the bracket that goes too deep. A UTF-8 byte-order mark is
+// read past. Run checks an external stage's parameters against its
+// description before any section is made.
 //
 // # Running
 //
@@ -61,8 +70,20 @@
 //
 // One subfolder per section, named after it, holding section.json,
 // nodes.dat, results/<stage-id>.json and the artifacts the stages returned
-// under plots/; manifest.json at the root. Every file is written atomically.
-// Two runs of the same pipeline over the same inputs with the same stages
-// give identical bytes in every file, except the "timings" field of the
-// manifest.
+// under plots/; manifest.json at the root. Two runs of the same pipeline
+// over the same inputs with the same stages give identical bytes in every
+// file, except the "timings" field of the manifest.
+//
+// A run folder is committed as a whole (folder.go): the run is written
+// into a staging folder beside it and swapped into place at the end, so a
+// crash at any moment leaves the earlier run whole and no half new one. A
+// replacement (RunOptions.Replace) is kept only when every section
+// succeeded; a folder holding anything an earlier run did not write (a
+// symbolic link, a file its manifest does not list) is never replaced, and
+// nothing is ever deleted through a symbolic link. A lock file beside the
+// folder holds the process id of the run writing it; a second run into the
+// same folder is refused (ErrFolderLocked).
+//
+// Verify hashes the run folder on disk against the manifest and re-runs it,
+// naming every file that differs in either.
 package pipeline

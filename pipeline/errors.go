@@ -69,6 +69,16 @@ var (
 	ErrInputChanged = errors.New("pipeline: input changed since the run")
 	// ErrNotManifest means a file is not a foilwright run manifest.
 	ErrNotManifest = errors.New("pipeline: not a foilwright manifest")
+	// ErrFolderLocked means another run is writing the run folder.
+	ErrFolderLocked = errors.New("pipeline: run folder is in use")
+	// ErrFolderUnsafe means the run folder may not be written or replaced
+	// as a whole: it is a symbolic link or not a folder, or it holds what
+	// an earlier run did not write.
+	ErrFolderUnsafe = errors.New("pipeline: run folder cannot be replaced")
+	// ErrBadInput marks a run that failed because of its input: a section
+	// whose files could not be read or prepared, stage parameters a stage
+	// refuses, a section a stage refuses.
+	ErrBadInput = errors.New("pipeline: bad input")
 )
 
 // positions turns byte offsets of one file into line:column.

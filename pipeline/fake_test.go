@@ -120,7 +120,14 @@ func (f *fakeRunner) Describe(ctx context.Context, call StageCall) (stage.Info, 
 	if f.closed {
 		return stage.Info{}, "", errors.New("runner closed")
 	}
-	return stage.Info{Name: call.Stage, Version: f.version}, strings.Repeat("ab", 32), nil
+	info := stage.Info{Name: call.Stage, Version: f.version}
+	switch call.Stage {
+	case "scale":
+		info.Params = []stage.Param{{Name: "factor", Type: stage.Number, Default: json.RawMessage("1")}}
+	case "slow":
+		info.Params = []stage.Param{{Name: "ms", Type: stage.Integer, Default: json.RawMessage("0")}}
+	}
+	return info, strings.Repeat("ab", 32), nil
 }
 
 func (f *fakeRunner) Close() error {

@@ -10,10 +10,15 @@ import (
 	"path/filepath"
 	"regexp"
 	"runtime"
+	"slices"
 	"sort"
 	"strings"
 
+	"github.com/foilwright/foilwright/export"
 	"github.com/foilwright/foilwright/internal/digest"
+	"github.com/foilwright/foilwright/internal/enum"
+	"github.com/foilwright/foilwright/internal/limits"
+	"github.com/foilwright/foilwright/plugins/stage"
 	"github.com/foilwright/foilwright/prep"
 	"github.com/tidwall/gjson"
 )
@@ -54,7 +59,8 @@ type Pipeline struct {
 	Stages  []Stage // in file order
 	Outputs Outputs
 
-	order []int // Stages indexes in dependency order
+	order []int      // Stages indexes in dependency order
+	pos   *positions // of the file, for messages about it after parsing
 }
 
 // An InputSpec is one entry of "inputs".
@@ -77,6 +83,21 @@ type Stage struct {
 	After    []string // ids of the stages whose results this stage sees
 	OnError  string   // OnErrorStop or OnErrorContinue
 	TimeoutS float64  // 0 means the stage runner's default
+	// Env names variables of foilwright's environment the stage may see,
+	// besides the minimal ones every stage gets.
+	Env []string
+	// Pins are more files the stage depends on (a wrapper's binary, a
+	// model file), by path as written, with the sha256 each must have.
+	Pins []Pin
+
+	index    int // in file order
+	paramsAt int // byte offset of the params object in the file; -1 when absent
+}
+
+// A Pin is a file a stage depends on and the sha256 it must have.
+type Pin struct {
+	Path   string `json:"path"` // as written in the pipeline file
+	SHA256 string `json:"sha256"`
 }
 
 // Outputs is the "outputs" entry.
@@ -86,7 +107,30 @@ type Outputs struct {
 	Plots     []string // PlotPrep, PlotStations
 	// PlotFormat is the picture format of Plots, "svg" (default) or "png".
 	PlotFormat string
+	// Exports are the exports of each section (export.Kinds, written to
+	// <section>/export/) and of the run (ExportStationsDXF,
+	// ExportStationsCSV, at the root of the run folder).
+	Exports []string
+	// ExportFrame is the frame of the geometric exports: "" (the part
+	// frame, or the chord frame for a section in chord units), or one of
+	// export.Frames.
+	ExportFrame string
 }
+
+// Exports of the whole run (outputs.exports), beside the per-section
+// kinds of export.Kinds.
+const (
+	ExportStationsDXF = "stations-dxf" // stations.dxf: the stations in space, for a CAD loft
+	ExportStationsCSV = "stations-csv" // stations.csv
+)
+
+// ExportKinds returns the names outputs.exports accepts.
+func ExportKinds() []string {
+	return append(enum.Names(export.Kinds()), ExportStationsDXF, ExportStationsCSV)
+}
+
+// HasExport reports whether exports lists kind.
+func (o Outputs) HasExport(kind string) bool { return slices.Contains(o.Exports, kind) }
 
 // HasPlot reports whether plots lists name.
 func (o Outputs) HasPlot(name string) bool {
@@ -108,20 +152,47 @@ func (o Outputs) Has(kind string) bool {
 	return false
 }
 
-// ParseOptions say where a pipeline file's relative paths start and which
-// stage names are built in.
+// ParseOptions say where a pipeline file's relative paths start, which
+// stage names are built in, and how large the file may be.
 type ParseOptions struct {
 	// Dir is the folder relative paths start from; "" means the current folder.
 	Dir string
 	// Known reports whether name is a built-in stage. Nil knows none.
 	Known func(name string) bool
+	// Describe, when set, returns the description of a built-in stage, so
+	// that its parameters are checked with the file, before anything runs.
+	Describe func(name string) (stage.Info, bool)
+	// MaxBytes and MaxDepth bound the file's size and the nesting of its
+	// arrays and objects; zero means the defaults of package limits.
+	MaxBytes int64
+	MaxDepth int
+}
+
+func (o ParseOptions) maxBytes() int64 {
+	if o.MaxBytes > 0 {
+		return o.MaxBytes
+	}
+	return limits.Default().JSONBytes
+}
+
+func (o ParseOptions) maxDepth() int {
+	if o.MaxDepth > 0 {
+		return o.MaxDepth
+	}
+	return limits.Default().JSONDepth
 }
 
 // Load reads and parses the pipeline file at path; relative paths in it
 // start from the file's folder. It returns the error of reading the file as
 // is, and an ErrorList for a file that does not pass the checks.
 func Load(path string, known func(name string) bool) (*Pipeline, error) {
-	data, err := os.ReadFile(path)
+	return LoadWith(path, ParseOptions{Known: known})
+}
+
+// LoadWith is Load with options; their Dir is replaced by the file's
+// folder. The file is read with the json-bytes limit of opts.
+func LoadWith(path string, opts ParseOptions) (*Pipeline, error) {
+	data, err := limits.ReadJSON(path, opts.maxBytes())
 	if err != nil {
 		return nil, err
 	}
@@ -129,7 +200,8 @@ func Load(path string, known func(name string) bool) (*Pipeline, error) {
 	if err != nil {
 		return nil, err
 	}
-	p, err := Parse(data, path, ParseOptions{Dir: filepath.Dir(abs), Known: known})
+	opts.Dir = filepath.Dir(abs)
+	p, err := Parse(data, path, opts)
 	if err != nil {
 		return nil, err
 	}
@@ -142,14 +214,29 @@ func Load(path string, known func(name string) bool) (*Pipeline, error) {
 // returns an ErrorList holding every problem found, each with its key path
 // and line:column.
 func Parse(data []byte, file string, opts ParseOptions) (*Pipeline, error) {
+	sum := digest.Bytes(data)
+	// A UTF-8 byte-order mark, as some editors write, is not JSON: read
+	// past it (positions count from after it, as editors show them).
+	data = bytes.TrimPrefix(data, []byte("\ufeff"))
 	c := &collector{file: file, pos: newPositions(data)}
+	if max := opts.maxBytes(); int64(len(data)) > max {
+		c.add(-1, "", "%s: over the %s limit of %s (raise it with --limit %s=SIZE)", limits.Size(int64(len(data))), limits.JSONBytes, limits.Size(max), limits.JSONBytes)
+		return nil, c.err()
+	}
+	// gjson's validation and the walk below recurse once per level, and a
+	// key path grows with each: refuse deep nesting first, in one pass.
+	var de *limits.DepthError
+	if err := limits.CheckDepth(data, opts.maxDepth()); errors.As(err, &de) {
+		c.add(de.Offset, "", "%v", err)
+		return nil, c.err()
+	}
 	if !gjson.ValidBytes(data) {
 		c.syntaxError(data)
 		return nil, c.err()
 	}
 	root := gjson.ParseBytes(data)
 	root.Index = len(data) - len(bytes.TrimLeft(data, " \t\r\n")) // Parse leaves it 0 after leading blanks
-	p := &parser{c: c, opts: opts, p: &Pipeline{File: file, Dir: opts.Dir, SHA256: digest.Bytes(data)}}
+	p := &parser{c: c, opts: opts, p: &Pipeline{File: file, Dir: opts.Dir, SHA256: sum, pos: c.pos}}
 	p.parse(root)
 	if err := c.err(); err != nil {
 		return nil, err
@@ -189,8 +276,8 @@ type parser struct {
 var (
 	topKeys    = keySet("foilwright", "name", "inputs", "prepare", "stages", "outputs")
 	inputKeys  = keySet("name", "files", "per_file", "station", "format", "columns", "units", "cut", "band", "flat_tol")
-	stageKeys  = keySet("id", "stage", "sha256", "params", "after", "on_error", "timeout_s")
-	outputKeys = keySet("folder", "documents", "plots", "plot_format")
+	stageKeys  = keySet("id", "stage", "sha256", "params", "after", "on_error", "timeout_s", "env", "pins")
+	outputKeys = keySet("folder", "documents", "plots", "plot_format", "exports", "export_frame")
 	// inputAllowed also admits the prepare keys an input may not set, so
 	// that they get a message of their own.
 	inputAllowed = func() map[string]bool {
@@ -488,7 +575,7 @@ func (ps *parser) stages(v gjson.Result) {
 // far as it was read, so that later stages are numbered right.
 func (ps *parser) stage(ipath string, st gjson.Result, ids map[string]int) (Stage, []afterRef) {
 	c := ps.c
-	s := Stage{Params: []byte("{}"), OnError: OnErrorStop}
+	s := Stage{Params: []byte("{}"), OnError: OnErrorStop, paramsAt: -1}
 	var ar []afterRef
 	vals := map[string]gjson.Result{}
 	if !c.wantObject(ipath, st, stageKeys, func(k, _ string, val gjson.Result) { vals[k] = val }) {
@@ -509,7 +596,24 @@ func (ps *parser) stage(ipath string, st gjson.Result, ids map[string]int) (Stag
 		if c.wantType(ipath+".params", val, "object", val.IsObject()) {
 			c.checkDuplicates(ipath+".params", val)
 			s.Params = []byte(val.Raw)
+			s.paramsAt = val.Index
 		}
+	}
+	if val, ok := vals["env"]; ok {
+		c.wantArray(ipath+".env", val, func(_ int, epath string, e gjson.Result) {
+			if n, ok := c.wantString(epath, e, true); ok {
+				if !envName.MatchString(n) {
+					c.add(e.Index, epath, "%q is not a variable name (letters, digits and '_', not starting with a digit)", n)
+					return
+				}
+				s.Env = append(s.Env, n)
+			}
+		})
+	}
+	if val, ok := vals["pins"]; ok {
+		c.wantObject(ipath+".pins", val, nil, func(file, ppath string, d gjson.Result) {
+			ps.pin(ppath, file, d, &s)
+		})
 	}
 	if val, ok := vals["after"]; ok {
 		seen := map[string]bool{}
@@ -537,7 +641,95 @@ func (ps *parser) stage(ipath string, st gjson.Result, ids map[string]int) (Stag
 			s.TimeoutS = x
 		}
 	}
+	ps.builtinParams(ipath, &s)
 	return s, ar
+}
+
+// envName is the form of a variable name a stage may be allowed to see.
+var envName = regexp.MustCompile(`^[A-Za-z_][A-Za-z0-9_]*$`)
+
+// pin reads one entry of a stage's "pins": a file and the sha256 it must
+// have, checked now (and again whenever the file is parsed, as by verify).
+func (ps *parser) pin(ppath, file string, d gjson.Result, s *Stage) {
+	c := ps.c
+	sum, ok := c.wantString(ppath, d, true)
+	if !ok {
+		return
+	}
+	if !hexDigest.MatchString(sum) {
+		c.add(d.Index, ppath, "want 64 hexadecimal digits, got %q", sum)
+		return
+	}
+	sum = strings.ToLower(sum)
+	got, err := digest.File(ps.abs(file))
+	switch {
+	case err != nil:
+		c.add(c.keyAt, ppath, "pinned file %q: %v", file, err)
+	case got != sum:
+		c.add(d.Index, ppath, "file %q has sha256 %s, the pipeline pins %s", file, got, sum)
+	default:
+		s.Pins = append(s.Pins, Pin{Path: file, SHA256: sum})
+	}
+}
+
+// builtinParams checks the parameters of a built-in stage against its
+// description, when the options give descriptions: the file is checked
+// before anything runs.
+func (ps *parser) builtinParams(ipath string, s *Stage) {
+	if ps.opts.Describe == nil || s.Exec != "" || s.Stage == "" {
+		return
+	}
+	info, ok := ps.opts.Describe(s.Stage)
+	if !ok {
+		return
+	}
+	if _, err := stage.Validate(info.Params, s.Params); err != nil {
+		off, path := paramPosition(s.Params, s.paramsAt, ipath+".params", err)
+		ps.c.add(off, path, "%s", paramMessage(err))
+	}
+}
+
+// paramPosition finds where the parameter a stage.Validate error names is
+// written: the offset of its key in the file (params begins at paramsAt,
+// -1 when the stage has no params) and its key path.
+func paramPosition(params []byte, paramsAt int, path string, err error) (int, string) {
+	var pe *stage.ParamError
+	if paramsAt < 0 || !errors.As(err, &pe) {
+		return paramsAt, path
+	}
+	off := paramsAt
+	gjson.ParseBytes(params).ForEach(func(k, v gjson.Result) bool {
+		if k.Str == pe.Name {
+			off = paramsAt + v.Index
+			return false
+		}
+		return true
+	})
+	return off, joinKey(path, pe.Name)
+}
+
+// paramMessage is the reason of a stage.Validate error, without the name
+// the key path already gives.
+func paramMessage(err error) string {
+	var pe *stage.ParamError
+	if errors.As(err, &pe) {
+		return pe.Reason
+	}
+	return err.Error()
+}
+
+// ParamsError returns the error of stage parameters refused by a stage
+// that describes itself (an external stage, known only when it runs): the
+// parameter's key path and position in the file, as the checks of Parse
+// give them.
+func (p *Pipeline) ParamsError(st Stage, err error) error {
+	path := fmt.Sprintf("stages[%d].params", st.index)
+	off, path := paramPosition(st.Params, st.paramsAt, path, err)
+	e := &Error{File: p.File, Path: path, Msg: paramMessage(err), offset: off}
+	if off >= 0 && p.pos != nil {
+		e.Line, e.Col = p.pos.at(off)
+	}
+	return ErrorList{e}
 }
 
 // stageID checks a stage id against those seen (ids) and records it; it
@@ -685,6 +877,16 @@ func (ps *parser) outputs(v gjson.Result) {
 	if val, ok := vals["folder"]; ok {
 		if s, ok := c.wantString("outputs.folder", val, true); ok {
 			out.Folder = s
+			// A run folder is made or replaced as a whole: it cannot be a
+			// file, nor a symbolic link (replacing it would replace the
+			// link, not the folder behind it).
+			switch fi, err := os.Lstat(ps.abs(s)); {
+			case err != nil:
+			case fi.Mode()&os.ModeSymlink != 0:
+				c.add(val.Index, "outputs.folder", "%q is a symbolic link; name the folder it points to", s)
+			case !fi.IsDir():
+				c.add(val.Index, "outputs.folder", "%q is a file, not a folder", s)
+			}
 		}
 	}
 	if val, ok := vals["documents"]; ok {
@@ -717,6 +919,24 @@ func (ps *parser) outputs(v gjson.Result) {
 	if val, ok := vals["plot_format"]; ok {
 		if e, ok := c.wantEnum("outputs.plot_format", val, "svg", "png"); ok {
 			out.PlotFormat = e
+		}
+	}
+	if val, ok := vals["exports"]; ok {
+		seen := map[string]bool{}
+		c.wantArray("outputs.exports", val, func(_ int, ipath string, d gjson.Result) {
+			if e, ok := c.wantEnum(ipath, d, ExportKinds()...); ok {
+				if seen[e] {
+					c.add(d.Index, ipath, "%q listed twice", e)
+					return
+				}
+				seen[e] = true
+				out.Exports = append(out.Exports, e)
+			}
+		})
+	}
+	if val, ok := vals["export_frame"]; ok {
+		if e, ok := c.wantEnum("outputs.export_frame", val, export.Frames()...); ok {
+			out.ExportFrame = e
 		}
 	}
 }

@@ -2,6 +2,7 @@ package pipeline
 
 import (
 	"context"
+	"strings"
 	"sync"
 
 	"github.com/foilwright/foilwright/plugins/host"
@@ -29,10 +30,16 @@ type hostRunner struct {
 }
 
 func specOf(call StageCall) host.Spec {
+	env := strings.Join(call.Env, ",")
 	if call.Exec {
-		return host.Spec{Path: call.Stage, SHA256: call.SHA256}
+		return host.Spec{Path: call.Stage, SHA256: call.SHA256, Env: env}
 	}
-	return host.Builtin(call.Stage)
+	return host.Spec{Name: call.Stage, Env: env}
+}
+
+// Environment returns the environment the stage of call gets.
+func (r *hostRunner) Environment(call StageCall) []string {
+	return r.h.StageEnv(specOf(call))
 }
 
 func (r *hostRunner) runner(call StageCall) *host.Runner {

@@ -4,11 +4,9 @@ import (
 	"bytes"
 	"encoding/json"
 	"fmt"
-	"io"
-	"os"
 	"path/filepath"
 
-	"github.com/foilwright/foilwright/internal/atomicfile"
+	"github.com/foilwright/foilwright/internal/limits"
 	"github.com/foilwright/foilwright/internal/version"
 	"github.com/foilwright/foilwright/plugins/stage"
 	"github.com/foilwright/foilwright/prep"
@@ -62,6 +60,11 @@ type StageRecord struct {
 	After      []string        `json:"after,omitempty"`
 	OnError    string          `json:"on_error"`
 	TimeoutS   float64         `json:"timeout_s,omitempty"`
+	Pins       []Pin           `json:"pins,omitempty"`
+	// Environment is what the stage's process got from foilwright's
+	// environment, NAME=VALUE, sorted: the minimal variables, those the
+	// pipeline allowed and foilwright's own settings.
+	Environment []string `json:"environment,omitempty"`
 }
 
 // A SectionRecord is one section: what went in and how it went.
@@ -132,7 +135,7 @@ func newManifest(pl *Plan, folder string, infos []stage.Info, exes []string, res
 		m.Stages = append(m.Stages, StageRecord{
 			ID: st.ID, Stage: st.Stage, Name: infos[i].Name, Version: infos[i].Version,
 			Executable: exes[i], Pin: st.SHA256, Params: json.RawMessage(st.Params),
-			After: st.After, OnError: st.OnError, TimeoutS: st.TimeoutS,
+			After: st.After, OnError: st.OnError, TimeoutS: st.TimeoutS, Pins: st.Pins,
 		})
 	}
 	for i, sp := range pl.Sections {
@@ -153,25 +156,41 @@ func newManifest(pl *Plan, folder string, infos []stage.Info, exes []string, res
 	return m
 }
 
+// recordEnvironment records the environment of each stage, when the
+// runners can tell it.
+func (m *Manifest) recordEnvironment(calls []StageCall, runners []StageRunner) {
+	if len(runners) == 0 {
+		return
+	}
+	er, ok := runners[0].(EnvReporter)
+	if !ok {
+		return
+	}
+	for i := range m.Stages {
+		m.Stages[i].Environment = er.Environment(calls[i])
+	}
+}
+
 func writeManifest(path string, m *Manifest) error {
 	b, err := json.MarshalIndent(m, "", "  ")
 	if err != nil {
 		return fmt.Errorf("pipeline: write manifest: %w", err)
 	}
-	return atomicfile.WriteBytes(path, append(b, '\n'))
+	return writeFile(path, append(b, '\n'))
 }
 
 // ReadManifest reads the manifest at path. It returns an error wrapping
 // ErrNotManifest when the file is not one.
 func ReadManifest(path string) (*Manifest, error) {
-	f, err := os.Open(path)
+	l := limits.Default()
+	data, err := limits.ReadJSON(path, l.JSONBytes)
 	if err != nil {
 		return nil, err
 	}
-	defer f.Close()
-	data, err := io.ReadAll(f)
-	if err != nil {
-		return nil, err
+	// A manifest embeds parameters up to the json-depth limit, a few
+	// levels down: allow the most that may be set.
+	if err := limits.CheckDepth(data, limits.MaxJSONDepth); err != nil {
+		return nil, fmt.Errorf("%w: %s: %v", ErrNotManifest, path, err)
 	}
 	var m Manifest
 	if err := json.NewDecoder(bytes.NewReader(data)).Decode(&m); err != nil {

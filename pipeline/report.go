@@ -35,7 +35,11 @@ func (s *Summary) Write(w io.Writer) error {
 			fmt.Fprintf(&b, ", %d %s", counts[st], st)
 		}
 	}
-	fmt.Fprintf(&b, "; manifest %s\n", s.Manifest)
+	if s.Kept {
+		fmt.Fprintf(&b, "; the earlier run in %s was kept (a replacement is kept only when every section succeeds)\n", s.Folder)
+	} else {
+		fmt.Fprintf(&b, "; manifest %s\n", s.Manifest)
+	}
 	_, err := io.WriteString(w, b.String())
 	return err
 }
@@ -44,8 +48,13 @@ func (s *Summary) Write(w io.Writer) error {
 // and note, then the verdict.
 func (r *VerifyReport) Write(w io.Writer) error {
 	var b strings.Builder
+	disk := 0
 	for _, d := range r.Differences {
-		fmt.Fprintf(&b, "differs: %s\n", d)
+		where := "in the re-run"
+		if d.OnDisk {
+			where, disk = "on disk", disk+1
+		}
+		fmt.Fprintf(&b, "differs %s: %s\n", where, d)
 	}
 	for _, c := range r.Changes {
 		fmt.Fprintf(&b, "changed: %s\n", c)
@@ -57,9 +66,10 @@ func (r *VerifyReport) Write(w io.Writer) error {
 		fmt.Fprintf(&b, "re-run kept in %s\n", r.Folder)
 	}
 	if r.OK() {
-		fmt.Fprintf(&b, "reproduced: %d output(s) match %s\n", r.Checked, r.Manifest)
+		fmt.Fprintf(&b, "reproduced: %d output(s) match %s, on disk and in the re-run\n", r.Checked, r.Manifest)
 	} else {
-		fmt.Fprintf(&b, "not reproduced: %d of %d output(s) differ, %d section(s) changed\n", len(r.Differences), r.Checked, len(r.Changes))
+		fmt.Fprintf(&b, "not reproduced: %d file(s) of the run folder differ from %s, %d output(s) of the re-run differ, %d section(s) changed\n",
+			disk, r.Manifest, len(r.Differences)-disk, len(r.Changes))
 	}
 	_, err := io.WriteString(w, b.String())
 	return err

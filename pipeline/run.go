@@ -1,19 +1,22 @@
 package pipeline
 
 import (
+	"bytes"
 	"context"
 	"errors"
 	"fmt"
-	"os"
+	"io"
 	"path/filepath"
 	"sort"
 	"strings"
 	"sync"
 	"time"
 
+	"github.com/foilwright/foilwright/export"
 	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/internal/atomicfile"
 	"github.com/foilwright/foilwright/internal/digest"
+	"github.com/foilwright/foilwright/internal/limits"
 	"github.com/foilwright/foilwright/plot"
 	"github.com/foilwright/foilwright/plugins/stage"
 	"github.com/foilwright/foilwright/prep"
@@ -56,6 +59,13 @@ type StageCall struct {
 	SHA256  string        // pinned executable digest, "" when not pinned
 	Params  []byte        // parameters, the raw JSON object of the pipeline file
 	Timeout time.Duration // 0 means the runner's default
+	Env     []string      // names of variables of foilwright's environment the stage may see
+}
+
+// An EnvReporter is a StageRunner that can say which environment the stage
+// of a call gets (NAME=VALUE), for the manifest.
+type EnvReporter interface {
+	Environment(call StageCall) []string
 }
 
 // A StageRunner runs stage calls. One worker uses one runner, never
@@ -76,10 +86,15 @@ type StageRunner interface {
 type RunOptions struct {
 	// Folder is the run folder; "" means the one the pipeline file names.
 	Folder string
-	// Replace allows a run folder that holds an earlier run: the files its
-	// manifest lists and the manifest are removed first. Any other file in
-	// a non-empty folder makes Run fail with ErrFolderNotEmpty.
+	// Replace allows a run folder that holds an earlier run (and nothing
+	// else: ErrFolderUnsafe otherwise). The new run replaces it as a whole
+	// once it is made, and only if every section succeeded; otherwise the
+	// earlier run stays and the new one is dropped. Without Replace a
+	// folder that holds files makes Run fail with ErrFolderNotEmpty.
 	Replace bool
+	// Limits bound what Run reads (input-bytes, input-lines); the zero
+	// value means limits.Default().
+	Limits limits.Limits
 	// Jobs is the number of sections made at once; less than 1 means 1.
 	Jobs int
 	// Preparer makes the section documents. Required.
@@ -106,6 +121,7 @@ type SectionReport struct {
 	Name    string
 	Status  string
 	Err     string // why it failed, when it did
+	Input   bool   // it failed because of its input (files, parameters, a stage refusing the section)
 	Summary string // the Preparer's summary
 	Stages  []StageReport
 }
@@ -121,9 +137,12 @@ type StageReport struct {
 // A Summary reports a whole run.
 type Summary struct {
 	Folder    string
-	Manifest  string // path of manifest.json
+	Manifest  string // path of manifest.json; "" when the run was not kept
 	Sections  []SectionReport
 	Cancelled bool
+	// Kept is set when the run replaced nothing because it did not fully
+	// succeed: the earlier run in Folder was kept and this one dropped.
+	Kept bool
 }
 
 // Failed returns the sections that failed.
@@ -137,14 +156,72 @@ func (s *Summary) Failed() []SectionReport {
 	return f
 }
 
+// Err returns nil when every section and every stage succeeded, else an
+// error saying how many sections did not: it wraps ErrBadInput when one
+// of them failed because of its input (the exit-status rule: bad input
+// first). A stage that failed with on_error "continue" counts.
+func (s *Summary) Err() error {
+	bad, input := 0, false
+	var first *SectionReport
+	for i := range s.Sections {
+		r := &s.Sections[i]
+		if r.Status == StatusOK {
+			continue
+		}
+		bad++
+		input = input || r.Input
+		if first == nil || first.Err == "" && r.Err != "" {
+			first = r
+		}
+	}
+	if bad == 0 {
+		return nil
+	}
+	msg := fmt.Sprintf("%d of %d section(s) did not complete; %s: %s", bad, len(s.Sections), first.Name, first.reason())
+	if input {
+		return fmt.Errorf("%s (%w: a section's input or parameters must be fixed)", msg, ErrBadInput)
+	}
+	return errors.New(msg)
+}
+
+// reason says why a section did not complete: its error, or the first
+// stage that failed.
+func (r *SectionReport) reason() string {
+	if r.Err != "" {
+		return r.Err
+	}
+	for _, st := range r.Stages {
+		if st.Err != "" {
+			return fmt.Sprintf("stage %q %s: %s", st.ID, st.Status, st.Err)
+		}
+	}
+	return r.Status
+}
+
+// allOK reports whether every section succeeded.
+func (s *Summary) allOK() bool {
+	for _, r := range s.Sections {
+		if r.Status != StatusOK {
+			return false
+		}
+	}
+	return true
+}
+
 // Run makes every section of pl and runs it through the stages, writing the
 // run folder and its manifest. A failed section does not stop the others:
 // it is reported in the summary with its reason, and the run still returns
-// a nil error. Run returns an error when the run cannot start (folder, stage
-// runners, a stage that cannot describe itself), and ctx.Err() when it was
-// cancelled; then the sections already done keep their outputs, the others
-// have none, and the manifest marks the run interrupted. Every file is
-// written atomically, so no partial file remains.
+// a nil error (Summary.Err says how the sections went). Run returns an
+// error when the run cannot start (folder, lock, stage runners, a stage
+// that cannot describe itself or refuses its parameters), and ctx.Err()
+// when it was cancelled; then the sections already done keep their
+// outputs, the others have none, and the manifest marks the run
+// interrupted.
+//
+// The run is written beside the run folder and committed as a whole at
+// the end (see folder.go): a new folder gets the run whatever happened to
+// its sections; a replacement happens only when every section succeeded,
+// and otherwise the earlier run stays as it was.
 func Run(ctx context.Context, pl *Plan, opts RunOptions) (*Summary, error) {
 	start := time.Now()
 	if opts.Preparer == nil {
@@ -153,13 +230,24 @@ func Run(ctx context.Context, pl *Plan, opts RunOptions) (*Summary, error) {
 	if len(pl.Stages) > 0 && opts.NewRunner == nil {
 		return nil, errors.New("pipeline: the pipeline has stages but no stage runner was given")
 	}
+	if opts.Limits == (limits.Limits{}) {
+		opts.Limits = limits.Default()
+	}
 	folder := opts.Folder
 	if folder == "" {
 		folder = pl.Pipeline.Folder()
 	}
-	if err := prepareFolder(folder, opts.Replace); err != nil {
+	rf, err := openRunFolder(folder, opts.Replace)
+	if err != nil {
 		return nil, err
 	}
+	defer rf.close()
+	keep := false
+	defer func() {
+		if !keep {
+			rf.discard()
+		}
+	}()
 	jobs := max(opts.Jobs, 1)
 	jobs = min(jobs, max(len(pl.Sections), 1))
 
@@ -177,7 +265,7 @@ func Run(ctx context.Context, pl *Plan, opts RunOptions) (*Summary, error) {
 	if err != nil {
 		return nil, err
 	}
-	results, cancelled := runSections(ctx, pl, folder, calls, opts, runners, jobs)
+	results, cancelled := runSections(ctx, pl, rf.staging, calls, opts, runners, jobs)
 
 	sum := &Summary{Folder: folder, Manifest: filepath.Join(folder, ManifestName), Cancelled: cancelled}
 	for i := range results {
@@ -187,16 +275,32 @@ func Run(ctx context.Context, pl *Plan, opts RunOptions) (*Summary, error) {
 		sum.Sections = append(sum.Sections, results[i].report)
 	}
 	m := newManifest(pl, folder, infos, exes, results, cancelled)
+	m.recordEnvironment(calls, runners)
 	if !cancelled && pl.Pipeline.Outputs.HasPlot(PlotStations) {
-		if err := writeStations(pl, folder, results, m); err != nil {
+		if err := writeStations(pl, rf.staging, results, m); err != nil {
+			return sum, err
+		}
+	}
+	if !cancelled {
+		if err := writeStationExports(pl, rf.staging, results, m); err != nil {
 			return sum, err
 		}
 	}
 	m.Timings.Jobs = jobs
 	m.Timings.Started = start.UTC().Format(time.RFC3339)
 	m.Timings.TotalS = seconds(time.Since(start))
-	if err := writeManifest(filepath.Join(folder, ManifestName), m); err != nil {
+	if err := writeManifest(filepath.Join(rf.staging, ManifestName), m); err != nil {
+		sum.Manifest = ""
 		return sum, err
+	}
+	if rf.earlier && (cancelled || !sum.allOK()) {
+		sum.Manifest, sum.Kept = "", true
+	} else {
+		if err := rf.commit(); err != nil {
+			sum.Manifest = ""
+			return sum, err
+		}
+		keep = true
 	}
 	if cancelled {
 		return sum, ctx.Err()
@@ -238,6 +342,10 @@ func describeStages(ctx context.Context, pl *Plan, runners []StageRunner) ([]Sta
 			}
 			return nil, nil, nil, fmt.Errorf("pipeline: stage %q (%s): %w", st.ID, st.Stage, err)
 		}
+		// Every stage's parameters are checked before any section is made.
+		if _, err := stage.Validate(info.Params, st.Params); err != nil {
+			return nil, nil, nil, pl.Pipeline.ParamsError(st, err)
+		}
 		infos[i], exes[i] = info, exe
 	}
 	return calls, infos, exes, nil
@@ -259,7 +367,7 @@ func runSections(ctx context.Context, pl *Plan, folder string, calls []StageCall
 		go func() {
 			defer wg.Done()
 			for i := range work {
-				res := runSection(ctx, pl, folder, i, calls, opts.Preparer, r)
+				res := runSection(ctx, pl, folder, i, calls, opts, r)
 				results[i] = res
 				if opts.Done != nil {
 					opts.Done(res.report)
@@ -298,59 +406,62 @@ func writeStations(pl *Plan, folder string, results []sectionResult, m *Manifest
 	return nil
 }
 
+// writeStationExports writes the stations exports outputs.exports asks
+// for (stations.dxf, stations.csv: every section made, in space, in plan
+// order) and records them in m. Sections neither cut from 3D nor given a
+// station are left out, with a note in the error when none is left.
+func writeStationExports(pl *Plan, folder string, results []sectionResult, m *Manifest) error {
+	out := pl.Pipeline.Outputs
+	if !out.HasExport(ExportStationsDXF) && !out.HasExport(ExportStationsCSV) {
+		return nil
+	}
+	var sts []export.Station
+	for i, r := range results {
+		if r.section == nil {
+			continue
+		}
+		p, err := export.Place(r.section, export.PlaceOptions{})
+		if err != nil {
+			return fmt.Errorf("stations export: section %q: %w", r.report.Name, err)
+		}
+		at := pl.Sections[i].Station
+		if p.Plane == nil {
+			if at == nil {
+				continue
+			}
+			p.AtStation(*at)
+		}
+		sts = append(sts, export.Station{Position: at, Section: p})
+	}
+	if len(sts) == 0 {
+		return errors.New("stations export: no section has a place along the span (a cut plane or a station)")
+	}
+	for _, e := range []struct {
+		kind, name string
+		write      func(io.Writer, []export.Station) error
+	}{{ExportStationsDXF, "stations.dxf", export.StationsDXF}, {ExportStationsCSV, "stations.csv", export.StationsCSV}} {
+		if !out.HasExport(e.kind) {
+			continue
+		}
+		var b bytes.Buffer
+		if err := e.write(&b, sts); err != nil {
+			return fmt.Errorf("stations export: %w", err)
+		}
+		if err := atomicfile.WriteBytes(filepath.Join(folder, e.name), b.Bytes()); err != nil {
+			return err
+		}
+		m.Outputs[e.name] = digest.Bytes(b.Bytes())
+	}
+	return nil
+}
+
 func callOf(st Stage) StageCall {
 	c := StageCall{ID: st.ID, Stage: st.Stage, SHA256: st.SHA256, Params: st.Params,
-		Timeout: time.Duration(st.TimeoutS * float64(time.Second))}
+		Timeout: time.Duration(st.TimeoutS * float64(time.Second)), Env: st.Env}
 	if st.Exec != "" {
 		c.Stage, c.Exec = st.Exec, true
 	}
 	return c
-}
-
-// prepareFolder makes sure folder exists and holds no files other than an
-// earlier run's (which it removes when replace is set).
-func prepareFolder(folder string, replace bool) error {
-	entries, err := os.ReadDir(folder)
-	if errors.Is(err, os.ErrNotExist) {
-		return os.MkdirAll(folder, 0o755)
-	}
-	if err != nil {
-		return fmt.Errorf("pipeline: run folder: %w", err)
-	}
-	if len(entries) == 0 {
-		return nil
-	}
-	if !replace {
-		return fmt.Errorf("%w: %s (choose another folder, or replace the earlier run)", ErrFolderNotEmpty, folder)
-	}
-	m, err := ReadManifest(filepath.Join(folder, ManifestName))
-	if err != nil {
-		return fmt.Errorf("%w: %s holds no foilwright run to replace (%v)", ErrFolderNotEmpty, folder, err)
-	}
-	paths := make([]string, 0, len(m.Outputs))
-	for p := range m.Outputs {
-		paths = append(paths, p)
-	}
-	sort.Strings(paths)
-	for _, p := range paths {
-		full, ok := inside(folder, p)
-		if !ok {
-			return fmt.Errorf("pipeline: manifest in %s lists %q, outside the run folder", folder, p)
-		}
-		if err := os.Remove(full); err != nil && !errors.Is(err, os.ErrNotExist) {
-			return fmt.Errorf("pipeline: replace earlier run: %w", err)
-		}
-	}
-	if err := os.Remove(filepath.Join(folder, ManifestName)); err != nil {
-		return fmt.Errorf("pipeline: replace earlier run: %w", err)
-	}
-	// Remove the folders the earlier run made, if they are empty now.
-	for _, p := range paths {
-		for d := filepath.Dir(p); d != "." && d != "/"; d = filepath.Dir(d) {
-			os.Remove(filepath.Join(folder, filepath.FromSlash(d)))
-		}
-	}
-	return nil
 }
 
 // inside resolves a slash path recorded in a manifest within folder, and

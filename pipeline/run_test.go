@@ -476,26 +476,34 @@ func TestRunFolder(t *testing.T) {
 	if _, err := Run(context.Background(), pl, opts); !errors.Is(err, ErrFolderNotEmpty) {
 		t.Errorf("second run into the same folder: %v, want ErrFolderNotEmpty", err)
 	}
-	// Replace removes the earlier run's files, and only those.
-	stale := filepath.Join(folder, "a", "results", "old.json")
+	// A replacement replaces the whole folder, so a folder holding what
+	// the earlier run did not write is refused, naming it.
 	mine := filepath.Join(folder, "notes.txt")
 	os.WriteFile(mine, []byte("mine"), 0o644)
+	opts.Replace = true
+	if _, err := Run(context.Background(), pl, opts); !errors.Is(err, ErrFolderUnsafe) || !strings.Contains(err.Error(), "notes.txt") {
+		t.Errorf("replace with a foreign file: %v, want ErrFolderUnsafe naming it", err)
+	}
+	if got, _ := os.ReadFile(mine); string(got) != "mine" {
+		t.Error("the refused replace touched the foreign file")
+	}
+	os.Remove(mine)
+	// Replace drops every file of the earlier run, also one its manifest
+	// lists and the new run does not make.
+	stale := filepath.Join(folder, "a", "results", "old.json")
 	m, _ := ReadManifest(filepath.Join(folder, ManifestName))
 	m.Outputs["a/results/old.json"] = "00"
 	os.WriteFile(stale, []byte("{}"), 0o644)
 	if err := writeManifest(filepath.Join(folder, ManifestName), m); err != nil {
 		t.Fatal(err)
 	}
-	opts.Replace = true
 	if _, err := Run(context.Background(), pl, opts); err != nil {
 		t.Fatal(err)
 	}
 	if _, err := os.Stat(stale); !errors.Is(err, os.ErrNotExist) {
 		t.Error("stale output of the earlier run survived the replace")
 	}
-	if _, err := os.Stat(mine); err != nil {
-		t.Error("replace removed a file the earlier run did not make")
-	}
+	assertNoLeftovers(t, filepath.Dir(folder))
 	// A folder with files but no manifest is never replaced.
 	other := t.TempDir()
 	os.WriteFile(filepath.Join(other, "x"), nil, 0o644)
@@ -548,5 +556,17 @@ partial   c
 `
 	if b.String() != want {
 		t.Errorf("got\n%s\nwant\n%s", b.String(), want)
+	}
+}
+
+// assertNoLeftovers fails if parent holds a staging folder, a parked run
+// or a lock file of a run folder.
+func assertNoLeftovers(t *testing.T, parent string) {
+	t.Helper()
+	entries, _ := os.ReadDir(parent)
+	for _, e := range entries {
+		if n := e.Name(); strings.Contains(n, stagingInfix) || strings.Contains(n, parkedInfix) || strings.HasSuffix(n, ".lock") {
+			t.Errorf("left %s in %s", n, parent)
+		}
 	}
 }

@@ -8,15 +8,21 @@ import (
 	"os"
 	"path/filepath"
 	"regexp"
+	"slices"
 	"strings"
 	"time"
 
 	"github.com/tidwall/gjson"
 
+	"github.com/foilwright/foilwright/export"
+	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/pointfile"
 	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/internal/atomicfile"
 	"github.com/foilwright/foilwright/internal/digest"
+	"github.com/foilwright/foilwright/internal/enum"
+	"github.com/foilwright/foilwright/internal/limits"
+	"github.com/foilwright/foilwright/plugins/host"
 	"github.com/foilwright/foilwright/plugins/stage"
 	"github.com/foilwright/foilwright/prep"
 )
@@ -92,6 +98,7 @@ type output struct {
 // section ends early, failed or cancelled, with res saying so.
 type sectionRun struct {
 	ctx      context.Context
+	limits   limits.Limits
 	pl       *Plan
 	sp       SectionPlan
 	res      sectionResult
@@ -104,18 +111,19 @@ type sectionRun struct {
 // runSection makes one section and writes its outputs: read its files,
 // prepare it, collect its documents, run the stages, write. When the run
 // is cancelled while the section is under way, nothing of it is written.
-func runSection(ctx context.Context, pl *Plan, folder string, i int, calls []StageCall, preparer Preparer, runner StageRunner) sectionResult {
+func runSection(ctx context.Context, pl *Plan, folder string, i int, calls []StageCall, opts RunOptions, runner StageRunner) sectionResult {
 	sp := pl.Sections[i]
-	r := &sectionRun{ctx: ctx, pl: pl, sp: sp,
+	r := &sectionRun{ctx: ctx, pl: pl, sp: sp, limits: opts.Limits,
 		res: sectionResult{report: SectionReport{Name: sp.Name}, timing: SectionTiming{Name: sp.Name}}}
 	if ctx.Err() != nil {
 		r.cancel()
 		return r.res
 	}
 	_ = r.readInputs() &&
-		r.prepare(preparer) &&
+		r.prepare(opts.Preparer) &&
 		r.collectDocuments() &&
 		r.runStages(calls, runner) &&
+		r.collectExports() &&
 		r.write(folder)
 	return r.res
 }
@@ -133,6 +141,24 @@ func (r *sectionRun) fail(format string, args ...any) bool {
 	return false
 }
 
+// failInput marks the section failed because of its input.
+func (r *sectionRun) failInput(format string, args ...any) bool {
+	r.res.report.Input = true
+	return r.fail(format, args...)
+}
+
+// inputCaused reports whether a stage's error was caused by the section or
+// the parameters (the stage refused them, or its executable is missing or
+// not the pinned one), not by the stage failing.
+func inputCaused(err error) bool {
+	for _, target := range []error{stage.ErrBadInput, host.ErrTooManyNodes, host.ErrChecksum, host.ErrNotFound, host.ErrNotExecutable, limits.ErrLimit} {
+		if errors.Is(err, target) {
+			return true
+		}
+	}
+	return false
+}
+
 // readInputs reads the section's files (the chain reads none) and takes
 // their digests, once, for the section document and the manifest.
 func (r *sectionRun) readInputs() bool {
@@ -141,9 +167,9 @@ func (r *sectionRun) readInputs() bool {
 		r.in.PlotFormat = out.PlotFormat
 	}
 	for _, f := range r.sp.Files {
-		data, err := os.ReadFile(r.pl.Pipeline.abs(f))
+		data, err := limits.ReadFile(r.pl.Pipeline.abs(f), r.limits.InputBytes, r.limits.InputLines)
 		if err != nil {
-			return r.fail("read %s: %v", f, err)
+			return r.failInput("read %s: %v", f, err)
 		}
 		file := prep.NewFile(f, data)
 		r.res.files = append(r.res.files, FileHash{Path: f, SHA256: file.SHA256})
@@ -156,13 +182,19 @@ func (r *sectionRun) readInputs() bool {
 // preparer gave it, or decoded from the document when it gave only that.
 func (r *sectionRun) prepare(preparer Preparer) bool {
 	t := time.Now()
-	prepared, err := preparer.Prepare(r.ctx, r.in, r.sp.Settings)
+	prepared, err, crashed := safePrepare(r.ctx, preparer, r.in, r.sp.Settings)
 	r.res.timing.PrepareS = seconds(time.Since(t))
 	if r.ctx.Err() != nil {
 		return r.cancel()
 	}
-	if err != nil {
+	if crashed {
 		return r.fail("prepare: %v", err)
+	}
+	if errors.Is(err, prep.ErrNoUnits) {
+		return r.failInput("prepare: %v: give it with the \"units\" key of prepare or of the input", err)
+	}
+	if err != nil {
+		return r.failInput("prepare: %v", err)
 	}
 	r.res.report.Summary = prepared.Summary
 	r.prepared, r.sec = prepared, prepared.Doc
@@ -172,6 +204,18 @@ func (r *sectionRun) prepare(preparer Preparer) bool {
 		}
 	}
 	return true
+}
+
+// safePrepare runs the preparer, turning a panic (a bug in the chain) into
+// an error, so that one section cannot end the run; crashed reports it.
+func safePrepare(ctx context.Context, p Preparer, in Input, s prep.Settings) (out Prepared, err error, crashed bool) {
+	defer func() {
+		if v := recover(); v != nil {
+			out, err, crashed = Prepared{}, fmt.Errorf("internal error (a bug in foilwright; please report it): %v", v), true
+		}
+	}()
+	out, err = p.Prepare(ctx, in, s)
+	return out, err, false
 }
 
 // collectDocuments makes the documents outputs.documents asks for (see
@@ -233,6 +277,7 @@ func (r *sectionRun) runStages(calls []StageCall, runner StageRunner) bool {
 				sr.Status = "failed"
 				sr.Err = err.Error()
 				failed[st.ID] = true
+				rep.Input = rep.Input || inputCaused(err)
 				if st.OnError == OnErrorStop {
 					stopped = true
 					rep.Status = StatusFailed
@@ -269,17 +314,83 @@ func (r *sectionRun) stageOutputs(id string, out stage.Result) {
 	}
 }
 
-// write writes the collected files into the run folder, each atomically,
-// and records their digests.
+// collectExports makes the exports outputs.exports asks for, in the
+// part frame (the chord frame for a section in chord units), after the
+// stages, whose results the tables need.
+func (r *sectionRun) collectExports() bool {
+	out := r.pl.Pipeline.Outputs
+	if len(out.Exports) == 0 {
+		return true
+	}
+	frame := out.ExportFrame
+	if frame == "" && (r.sec.Frame == nil || r.sec.Units == "" || r.sec.Units == geometry.ChordUnit) {
+		frame = export.FrameChord
+	}
+	var results []*export.Result
+	for _, o := range r.outs {
+		if strings.HasPrefix(o.path, r.sp.Name+"/results/") {
+			res, err := export.ReadResult(o.data, o.path, r.sp.Name)
+			if err != nil {
+				return r.fail("export: %v", err)
+			}
+			results = append(results, res)
+		}
+	}
+	for _, kind := range out.Exports {
+		if !slices.ContainsFunc(export.Kinds(), func(c enum.Choice) bool { return c.Name == kind }) {
+			continue // a run-level export
+		}
+		var b bytes.Buffer
+		var err error
+		switch {
+		case kind == export.KindPolarCSV:
+			err = export.PolarCSV(&b, results)
+		case kind == export.KindCpCSV:
+			err = export.CpCSV(&b, results)
+		default:
+			var p *export.Placed
+			if p, err = export.Place(r.sec, export.PlaceOptions{Frame: frame}); err == nil {
+				err = export.Write(&b, kind, p, export.Options{})
+			}
+		}
+		if err != nil {
+			return r.fail("export %s: %v", kind, err)
+		}
+		r.outs = append(r.outs, output{r.sp.Name + "/export/" + export.FileName(kind), b.Bytes()})
+	}
+	return true
+}
+
+// writeFile writes one output; tests replace it to fail like a full disk.
+var writeFile = atomicfile.WriteBytes
+
+// write writes the collected files into the (staging) run folder, each
+// atomically, and records their digests. Two outputs of one name fail the
+// section before anything is written: no file silently replaces another.
+// When a write fails (a full disk) the section's files are removed again:
+// a failed section has no outputs.
 func (r *sectionRun) write(folder string) bool {
+	seen := map[string]bool{}
+	for _, o := range r.outs {
+		key := strings.ToLower(o.path) // file names may not differ only in case
+		if seen[key] {
+			return r.fail("two outputs would be written to %s", o.path)
+		}
+		seen[key] = true
+	}
 	r.res.outputs = map[string]string{}
 	for _, o := range r.outs {
 		full := filepath.Join(folder, filepath.FromSlash(o.path))
-		if err := os.MkdirAll(filepath.Dir(full), 0o755); err != nil {
-			return r.fail("write %s: %v", o.path, err)
+		err := os.MkdirAll(filepath.Dir(full), 0o755)
+		if err == nil {
+			err = writeFile(full, o.data)
 		}
-		if err := atomicfile.WriteBytes(full, o.data); err != nil {
-			return r.fail("%v", err)
+		if err != nil {
+			for p := range r.res.outputs {
+				os.Remove(filepath.Join(folder, filepath.FromSlash(p)))
+			}
+			r.res.outputs = nil
+			return r.fail("write %s: %v", o.path, err)
 		}
 		r.res.outputs[o.path] = digest.Bytes(o.data)
 	}

@@ -78,6 +78,11 @@ var prepKeys = []prepKey{
 			s.Cut = str
 		}
 	}},
+	{"layer", true, func(c *collector, path string, v gjson.Result, s *prep.Settings) {
+		if str, ok := c.wantString(path, v, true); ok {
+			s.Layer = str
+		}
+	}},
 	numKey("band", true, positive, func(s *prep.Settings) **float64 { return &s.Band }),
 	numKey("flat_tol", true, positive, func(s *prep.Settings) **float64 { return &s.FlatTol }),
 	numKey("merge_tol", false, nonNeg, func(s *prep.Settings) **float64 { return &s.MergeTol }),
@@ -108,8 +113,19 @@ var prepKeys = []prepKey{
 		}
 	}},
 	numKey("fit_tol", false, positive, func(s *prep.Settings) **float64 { return &s.FitTol }),
-	enumKey("te", false, func(s *prep.Settings) *string { return &s.TE }, enum.Names(frame.Treatments())...),
+	{"te", false, func(c *collector, path string, v gjson.Result, s *prep.Settings) {
+		if v.Type == gjson.String && v.Str == frame.TEClose {
+			s.TE = v.Str // the earlier form of te_thickness 0
+			return
+		}
+		if e, ok := c.wantEnum(path, v, enum.Names(frame.Treatments())...); ok {
+			s.TE = e
+		}
+	}},
 	numKey("te_blend", false, numRange{lo: 0, hi: 1, loOpen: true}, func(s *prep.Settings) **float64 { return &s.TEBlend }),
+	lengthKey("te_thickness", func(s *prep.Settings) *string { return &s.TEThickness }),
+	lengthKey("te_blend_length", func(s *prep.Settings) *string { return &s.TEBlendLength }),
+	numKey("panel_tol", false, numRange{lo: 0, hi: 0.1, loOpen: true}, func(s *prep.Settings) **float64 { return &s.PanelTol }),
 	{"le_at", false, func(c *collector, path string, v gjson.Result, s *prep.Settings) {
 		var xy [2]float64
 		n, good := 0, true
@@ -133,6 +149,9 @@ var prepKeys = []prepKey{
 	}},
 	enumKey("mirror", false, func(s *prep.Settings) *string { return &s.Mirror }, enum.Names(frame.MirrorModes())...),
 	{"panels", false, func(c *collector, path string, v gjson.Result, s *prep.Settings) {
+		if v.Type == gjson.String && v.Str == "auto" {
+			return // the count chosen for panel_tol
+		}
 		if n, ok := c.wantInt(path, v, 16, 2000); ok {
 			s.Panels = &n
 		}
@@ -143,6 +162,27 @@ var prepKeys = []prepKey{
 	numKey("curvature_weight", false, unit, func(s *prep.Settings) **float64 { return &s.CurvatureWeight }),
 	enumKey("thickness_mode", false, func(s *prep.Settings) *string { return &s.ThicknessMode }, enum.Names(props.ThicknessModes())...),
 	enumKey("camber_mode", false, func(s *prep.Settings) *string { return &s.CamberMode }, enum.Names(props.CamberModes())...),
+}
+
+// lengthKey reads a length: a number (input units) or a string with a
+// unit, "0.5mm" or "0.002c".
+func lengthKey(name string, field func(*prep.Settings) *string) prepKey {
+	return prepKey{name, false, func(c *collector, path string, v gjson.Result, s *prep.Settings) {
+		switch v.Type {
+		case gjson.Number:
+			if x, ok := c.wantNumber(path, v, anyFinite); ok {
+				*field(s) = strconv.FormatFloat(x, 'g', -1, 64)
+			}
+		case gjson.String:
+			if _, err := geometry.ParseLength(v.Str); err != nil {
+				c.add(v.Index, path, `want a length such as 0.5, "0.5mm" or "0.002c", got %q`, v.Str)
+				return
+			}
+			*field(s) = strings.TrimSpace(v.Str)
+		default:
+			c.add(v.Index, path, `want a length such as 0.5, "0.5mm" or "0.002c", got %s`, describe(v))
+		}
+	}}
 }
 
 // prepKeyIndex maps a key name to its entry in prepKeys.
@@ -168,6 +208,9 @@ func overlay(s, o prep.Settings) prep.Settings {
 	}
 	if o.Cut != "" {
 		s.Cut = o.Cut
+	}
+	if o.Layer != "" {
+		s.Layer = o.Layer
 	}
 	if o.Band != nil {
 		s.Band = o.Band

@@ -3,6 +3,7 @@ package pipeline
 import (
 	"context"
 	"fmt"
+	"io/fs"
 	"os"
 	"path/filepath"
 	"slices"
@@ -10,6 +11,7 @@ import (
 	"strings"
 
 	"github.com/foilwright/foilwright/internal/digest"
+	"github.com/foilwright/foilwright/internal/limits"
 )
 
 // VerifyOptions say how Verify re-runs a manifest.
@@ -28,19 +30,30 @@ type VerifyOptions struct {
 	// Keep keeps the scratch run folder (VerifyReport.Folder) instead of
 	// removing it.
 	Keep bool
+	// Parse are the checks of the pipeline file (Known above is used when
+	// Parse.Known is nil); Limits bound the re-run's reading.
+	Parse  ParseOptions
+	Limits limits.Limits
 }
 
-// A Difference is one output that does not match its manifest. Got is ""
-// when the re-run did not make the file; Want is "" when the manifest does
-// not list it.
+// A Difference is one output that does not match its manifest, in the run
+// folder on disk or in the re-run. Got is "" when the file is missing;
+// Want is "" when the manifest does not list it.
 type Difference struct {
 	Path string
 	Want string // sha256 in the manifest
-	Got  string // sha256 of the re-run
+	Got  string // sha256 of the file; "" when missing
+	// OnDisk is set for a difference of the run folder as it is on disk,
+	// clear for one of the re-run.
+	OnDisk bool
+	// Note says what is wrong when it is not a digest (a symbolic link).
+	Note string
 }
 
 func (d Difference) String() string {
 	switch {
+	case d.Note != "":
+		return fmt.Sprintf("%s: %s", d.Path, d.Note)
 	case d.Got == "":
 		return fmt.Sprintf("%s: missing (want sha256 %s)", d.Path, d.Want)
 	case d.Want == "":
@@ -60,20 +73,24 @@ type VerifyReport struct {
 	Notes       []string // tool or stage versions that changed (not failures by themselves)
 }
 
-// OK reports whether the re-run reproduced every output and every
-// section's outcome.
+// OK reports whether the run folder on disk and the re-run both match the
+// manifest, and the re-run reproduced every section's outcome.
 func (r *VerifyReport) OK() bool { return len(r.Differences) == 0 && len(r.Changes) == 0 }
 
-// Verify re-runs the run that the manifest at path records, into a scratch
-// folder, and compares every output byte for byte (by sha256) with the
-// manifest. It refuses, with an error wrapping ErrPipelineChanged or
-// ErrInputChanged, when the pipeline file or an input is not what the run
-// used. Outputs that differ are reported, not returned as an error.
+// Verify checks the run that the manifest at path records twice: it hashes
+// every file of the run folder (the manifest's folder) against the
+// manifest, naming each that is changed, missing, not a regular file or
+// not listed; and it re-runs the pipeline into a scratch folder and
+// compares every output byte for byte (by sha256) with the manifest. It
+// refuses, with an error wrapping ErrPipelineChanged or ErrInputChanged,
+// when the pipeline file or an input is not what the run used. Outputs
+// that differ are reported, not returned as an error.
 func Verify(ctx context.Context, path string, opts VerifyOptions) (*VerifyReport, error) {
 	m, err := ReadManifest(path)
 	if err != nil {
 		return nil, err
 	}
+	disk := checkDisk(filepath.Dir(path), m)
 	file := opts.Pipeline
 	if file == "" {
 		file = filepath.FromSlash(m.Pipeline.File)
@@ -82,7 +99,7 @@ func Verify(ctx context.Context, path string, opts VerifyOptions) (*VerifyReport
 		}
 	}
 	rep := &VerifyReport{Manifest: path, Pipeline: file}
-	data, err := os.ReadFile(file)
+	data, err := limits.ReadJSON(file, opts.Parse.maxBytes())
 	if err != nil {
 		return nil, fmt.Errorf("%w: %s: %v", ErrPipelineChanged, file, err)
 	}
@@ -93,7 +110,12 @@ func Verify(ctx context.Context, path string, opts VerifyOptions) (*VerifyReport
 	if err != nil {
 		return nil, err
 	}
-	p, err := Parse(data, file, ParseOptions{Dir: filepath.Dir(abs), Known: opts.Known})
+	po := opts.Parse
+	po.Dir = filepath.Dir(abs)
+	if po.Known == nil {
+		po.Known = opts.Known
+	}
+	p, err := Parse(data, file, po)
 	if err != nil {
 		return nil, err
 	}
@@ -112,7 +134,7 @@ func Verify(ctx context.Context, path string, opts VerifyOptions) (*VerifyReport
 	} else {
 		defer os.RemoveAll(folder)
 	}
-	if _, err := Run(ctx, pl, RunOptions{Folder: folder, Jobs: opts.Jobs, Preparer: opts.Preparer, NewRunner: opts.NewRunner}); err != nil {
+	if _, err := Run(ctx, pl, RunOptions{Folder: folder, Jobs: opts.Jobs, Preparer: opts.Preparer, NewRunner: opts.NewRunner, Limits: opts.Limits}); err != nil {
 		return nil, fmt.Errorf("pipeline: verify: re-run: %w", err)
 	}
 	got, err := ReadManifest(filepath.Join(folder, ManifestName))
@@ -120,7 +142,65 @@ func Verify(ctx context.Context, path string, opts VerifyOptions) (*VerifyReport
 		return nil, err
 	}
 	compare(rep, m, got)
+	rep.Differences = append(disk, rep.Differences...)
 	return rep, nil
+}
+
+// checkDisk hashes the files of the run folder against the manifest: every
+// output it lists must be there, a regular file with its digest, and no
+// other file may be (besides the manifest). It never follows a symbolic
+// link.
+func checkDisk(folder string, m *Manifest) []Difference {
+	var diffs []Difference
+	paths := make([]string, 0, len(m.Outputs))
+	for p := range m.Outputs {
+		paths = append(paths, p)
+	}
+	sort.Strings(paths)
+	for _, p := range paths {
+		want := m.Outputs[p]
+		d := Difference{Path: p, Want: want, OnDisk: true}
+		full, ok := inside(folder, p)
+		if !ok {
+			d.Note = "outside the run folder (the manifest was altered)"
+			diffs = append(diffs, d)
+			continue
+		}
+		fi, err := os.Lstat(full)
+		switch {
+		case err != nil:
+			diffs = append(diffs, d) // missing
+		case !fi.Mode().IsRegular():
+			d.Note = "not a regular file"
+			diffs = append(diffs, d)
+		default:
+			if d.Got, err = digest.File(full); err != nil {
+				d.Note = err.Error()
+			}
+			if d.Got != want {
+				diffs = append(diffs, d)
+			}
+		}
+	}
+	filepath.WalkDir(folder, func(p string, de fs.DirEntry, err error) error {
+		if err != nil || de.IsDir() {
+			return nil
+		}
+		rel, _ := filepath.Rel(folder, p)
+		rel = filepath.ToSlash(rel)
+		if _, listed := m.Outputs[rel]; listed || rel == ManifestName {
+			return nil
+		}
+		d := Difference{Path: rel, OnDisk: true}
+		if de.Type().IsRegular() {
+			d.Got, _ = digest.File(p)
+		} else {
+			d.Note = "not in the manifest (and not a regular file)"
+		}
+		diffs = append(diffs, d)
+		return nil
+	})
+	return diffs
 }
 
 // checkInputs refuses a re-run whose input files are not those of the run.

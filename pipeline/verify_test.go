@@ -95,14 +95,71 @@ func TestVerifyDetectsTamperedManifest(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if len(rep.Differences) != 2 {
+	// Each shows twice: the files on disk and the re-run both depart
+	// from the altered manifest.
+	if len(rep.Differences) != 4 {
 		t.Fatalf("differences %+v", rep.Differences)
 	}
-	if d := rep.Differences[0]; d.Path != "thin/nodes.dat" || d.Want != strings.Repeat("0", 64) || d.Got == "" {
-		t.Errorf("first difference %+v", d)
+	for i, onDisk := range []bool{true, true, false, false} {
+		d := rep.Differences[i]
+		if d.OnDisk != onDisk {
+			t.Errorf("difference %d: on disk %v, want %v", i, d.OnDisk, onDisk)
+		}
+		if i%2 == 0 && (d.Path != "thin/nodes.dat" || d.Want != strings.Repeat("0", 64) || d.Got == "") {
+			t.Errorf("difference %d: %+v", i, d)
+		}
+		if i%2 == 1 && (d.Path != "thin/plots/shape.svg" || d.Want != "" || d.Got != got) {
+			t.Errorf("difference %d: %+v", i, d)
+		}
 	}
-	if d := rep.Differences[1]; d.Path != "thin/plots/shape.svg" || d.Want != "" || d.Got != got {
-		t.Errorf("second difference %+v", d)
+}
+
+// TestVerifyChecksFilesOnDisk is the regression test of defect 7 of issue
+// 11: with outputs altered or deleted in the run folder, verify said
+// "reproduced" and exited 0, because it never read the folder.
+func TestVerifyChecksFilesOnDisk(t *testing.T) {
+	_, manifest := runRotor(t)
+	run := filepath.Dir(manifest)
+	os.WriteFile(filepath.Join(run, "thin", "section.json"), []byte("{}\n"), 0o644)
+	os.Remove(filepath.Join(run, "thin", "nodes.dat"))
+	os.WriteFile(filepath.Join(run, "thin", "extra.txt"), []byte("x"), 0o644)
+	os.Remove(filepath.Join(run, "thin", "results", "area.json"))
+	os.Symlink("../section.json", filepath.Join(run, "thin", "results", "area.json"))
+	rep, err := Verify(context.Background(), manifest, verifyOpts(t, &fakeRegistry{}))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if rep.OK() {
+		t.Fatal("verify passed a tampered run folder")
+	}
+	var named []string
+	for _, d := range rep.Differences {
+		if !d.OnDisk {
+			t.Errorf("the re-run differs: %v", d)
+			continue
+		}
+		named = append(named, d.String())
+	}
+	want := []string{
+		"thin/nodes.dat: missing",
+		"thin/results/area.json: not a regular file",
+		"thin/section.json: want sha256",
+		"thin/extra.txt: not in the manifest",
+	}
+	if len(named) != len(want) {
+		t.Fatalf("on disk: %q, want %d differences", named, len(want))
+	}
+	for i, w := range want {
+		if !strings.HasPrefix(named[i], w) {
+			t.Errorf("difference %d: %q, want %q…", i, named[i], w)
+		}
+	}
+	var b strings.Builder
+	rep.Write(&b)
+	for _, f := range []string{"thin/nodes.dat", "thin/results/area.json", "thin/section.json", "thin/extra.txt", "not reproduced: 4 file(s) of the run folder differ"} {
+		if !strings.Contains(b.String(), f) {
+			t.Errorf("report lacks %q:\n%s", f, b.String())
+		}
 	}
 }
 
@@ -151,8 +208,8 @@ func TestVerifyReportWrite(t *testing.T) {
 		Notes:       []string{"foilwright was 0.1.0, now 0.2.0"}}
 	var b strings.Builder
 	r.Write(&b)
-	want := "differs: a/x.json: want sha256 11, got 22\ndiffers: a/y.json: missing (want sha256 33)\n" +
-		"note: foilwright was 0.1.0, now 0.2.0\nnot reproduced: 2 of 3 output(s) differ, 0 section(s) changed\n"
+	want := "differs in the re-run: a/x.json: want sha256 11, got 22\ndiffers in the re-run: a/y.json: missing (want sha256 33)\n" +
+		"note: foilwright was 0.1.0, now 0.2.0\nnot reproduced: 0 file(s) of the run folder differ from m.json, 2 output(s) of the re-run differ, 0 section(s) changed\n"
 	if b.String() != want {
 		t.Errorf("got\n%s\nwant\n%s", b.String(), want)
 	}

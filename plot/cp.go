@@ -8,6 +8,9 @@ import (
 	gplot "gonum.org/v1/plot"
 	"gonum.org/v1/plot/plotter"
 	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot/vg/draw"
+
+	"github.com/foilwright/foilwright/geometry"
 )
 
 // CpCase is the pressure distribution of one case: Cp at the points (X, Y)
@@ -20,16 +23,31 @@ type CpCase struct {
 	X, Y, Cp []float64
 }
 
+// CpOptions add to a Cp chart.
+type CpOptions struct {
+	// Note, when set, is added to the title: what the chart leaves out,
+	// e.g. "5 of 9 angles".
+	Note string
+	// Outline, when it has 3 or more points, is the section (chord units,
+	// normalised frame) drawn in a strip below the chart, on its x axis,
+	// so that each feature of Cp sits over the part of the section it
+	// belongs to.
+	Outline []geometry.Point
+}
+
 // CpPlot draws Cp against x/c for one or more cases on one chart, with the
 // Cp axis inverted (suction up) as is the custom of the trade (common
 // practice). The upper surface is drawn solid and the lower dashed; with one
 // case the surfaces also differ in colour, with several each case has its
-// colour. It returns an error wrapping ErrNoData for no cases or a case with
-// fewer than 3 points, and an error for lengths that differ or non-finite
-// values.
-func CpPlot(cases []CpCase) (*Figure, error) {
+// colour and the keys of the two line styles are drawn in black. It returns
+// an error wrapping ErrNoData for no cases or a case with fewer than 3
+// points, and an error for lengths that differ or non-finite values.
+func CpPlot(cases []CpCase, o CpOptions) (*Figure, error) {
 	if len(cases) == 0 {
 		return nil, fmt.Errorf("%w: no Cp cases", ErrNoData)
+	}
+	if err := checkPoints("Outline", o.Outline); err != nil {
+		return nil, err
 	}
 	title := "Pressure distribution"
 	sameMethod := true
@@ -41,6 +59,9 @@ func CpPlot(cases []CpCase) (*Figure, error) {
 	}
 	if len(cases) == 1 {
 		title += fmt.Sprintf(", α = %g°", cases[0].AlphaDeg)
+	}
+	if o.Note != "" {
+		title += " (" + o.Note + ")"
 	}
 	p := newPlot(title, "x/c", "Cp")
 	p.Y.Scale = gplot.InvertedScale{Normalizer: gplot.LinearScale{}}
@@ -103,8 +124,9 @@ func CpPlot(cases []CpCase) (*Figure, error) {
 		cps = append(cps, c.Cp...)
 	}
 	if len(cases) > 1 {
-		p.Legend.Add("upper surface", newLine(nil, lineStyle(colGrey, 1.2, nil)))
-		p.Legend.Add("lower surface", newLine(nil, lineStyle(colGrey, 1.2, seriesDashes[1])))
+		upper, lower := cpStyleKeys()
+		p.Legend.Add("upper surface", newLine(nil, upper))
+		p.Legend.Add("lower surface", newLine(nil, lower))
 	}
 	entries := len(cases) + 2
 	if len(cases) == 1 {
@@ -119,8 +141,58 @@ func CpPlot(cases []CpCase) (*Figure, error) {
 	p.Legend.Top = true
 	p.Legend.XOffs = vg.Points(-6)
 	f := &Figure{Width: 7 * vg.Inch, Height: 4.5 * vg.Inch}
-	f.addRow(1, freePanel(p))
+	cp := freePanel(p)
+	f.addRow(4.5, cp)
+	if len(o.Outline) >= 3 {
+		p.X.Label.Text = ""
+		sp := newPlot("", "x/c", "y/c")
+		pts := xys(o.Outline)
+		sp.Add(newPolygon(pts, colFill, draw.LineStyle{}))
+		sp.Add(newLine(plotter.XYs{{X: 0, Y: 0}, {X: 1, Y: 0}}, lineStyle(colGuide, 0.8, []vg.Length{vg.Points(2), vg.Points(2)})))
+		sp.Add(newLine(pts, lineStyle(colInk, 1, nil)))
+		var ys []float64
+		for _, q := range o.Outline {
+			ys = append(ys, q.Y)
+		}
+		lo, hi := rangePad(0.15, ys)
+		setYRange(sp, lo, hi)
+		setXRange(sp, x0, x1)
+		strip := freePanel(sp)
+		strip.xFrom = cp
+		f.addRow(1.3, strip)
+		f.Height += 1.3*vg.Inch + rowGap
+	}
 	return f, nil
+}
+
+// cpStyleKeys returns the legend keys of the two line styles of a chart of
+// several cases: solid and dashed, in ink, a colour no case takes.
+func cpStyleKeys() (upper, lower draw.LineStyle) {
+	return lineStyle(colInk, 1.2, nil), lineStyle(colInk, 1.2, seriesDashes[1])
+}
+
+// TrailingEdgeCorners returns the indexes of the Cp points of a blunt
+// trailing edge to leave out of a chart: the points within one base
+// length (the distance between the first and last node) of either corner,
+// where inviscid flow turns round a sharp corner and Cp is singular
+// (common practice). nodes are the section's nodes, pts the points Cp is
+// given at; none is left out of a sharp section.
+func TrailingEdgeCorners(nodes []geometry.Point, pts []geometry.Point) map[int]bool {
+	out := map[int]bool{}
+	if len(nodes) < 2 {
+		return out
+	}
+	u, l := nodes[0], nodes[len(nodes)-1]
+	base := u.Dist(l)
+	if base <= 1e-12 {
+		return out
+	}
+	for i, q := range pts {
+		if q.Dist(u) <= base*(1+1e-9) || q.Dist(l) <= base*(1+1e-9) {
+			out[i] = true
+		}
+	}
+	return out
 }
 
 // PolarSeries is a polar computed by one method: lift and moment

@@ -234,3 +234,13 @@ var demoStations = []Station{
 	{Position: 960, Chord: 86.1, TwistDeg: 3.1, Thickness: 0.116, FitRMS: 0.19},
 	{Position: 1140, Chord: 72.3, TwistDeg: 1.4, Thickness: 0.111, FitRMS: 0.24},
 }
+
+// demoOutline returns the outline of the demo Joukowski section.
+func demoOutline() []geometry.Point {
+	xs, ys, _ := demoJoukowski.surface(160, 0)
+	out := make([]geometry.Point, len(xs))
+	for i := range xs {
+		out[i] = geometry.Point{X: xs[i], Y: ys[i]}
+	}
+	return out
+}

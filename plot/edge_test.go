@@ -25,7 +25,7 @@ func TestSmallestInputs(t *testing.T) {
 		{"nodes three", func() (*Figure, error) { return NodesPlot(tri[:3]) }},
 		{"section three", func() (*Figure, error) { return SectionPlot(SectionData{Nodes: tri[:3]}) }},
 		{"cp three", func() (*Figure, error) {
-			return CpPlot([]CpCase{{X: []float64{1, 0, 1}, Y: []float64{0, 0, 0}, Cp: []float64{0, 1, 0}}})
+			return CpPlot([]CpCase{{X: []float64{1, 0, 1}, Y: []float64{0, 0, 0}, Cp: []float64{0, 1, 0}}}, CpOptions{})
 		}},
 		{"polar one", func() (*Figure, error) {
 			return PolarPlot([]PolarSeries{{AlphaDeg: []float64{0}, Cl: []float64{0}}})

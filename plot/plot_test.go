@@ -487,16 +487,16 @@ func TestErrors(t *testing.T) {
 			d.LERadius = -1
 			return SectionPlot(d)
 		}, false, "negative"},
-		{"cp none", func() (*Figure, error) { return CpPlot(nil) }, true, ""},
+		{"cp none", func() (*Figure, error) { return CpPlot(nil, CpOptions{}) }, true, ""},
 		{"cp lengths", func() (*Figure, error) {
 			c := demoCp(2)
 			c[0].Cp = c[0].Cp[1:]
-			return CpPlot(c)
+			return CpPlot(c, CpOptions{})
 		}, false, "cases[0].Cp"},
 		{"cp inf", func() (*Figure, error) {
 			c := demoCp(2)
 			c[0].Cp[5] = math.Inf(1)
-			return CpPlot(c)
+			return CpPlot(c, CpOptions{})
 		}, false, "cases[0].Cp[5]"},
 		{"polar none", func() (*Figure, error) { return PolarPlot(nil) }, true, ""},
 		{"polar empty series", func() (*Figure, error) { return PolarPlot([]PolarSeries{{Method: "x"}}) }, true, ""},

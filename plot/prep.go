@@ -152,15 +152,13 @@ func PrepPlot(d PrepData) (*Figure, error) {
 					inLabels = append(inLabels, labels[i])
 				}
 			}
-			if len(in) > 0 {
-				lb, err := plotter.NewLabels(plotter.XYLabels{XYs: in, Labels: inLabels})
+			for i, q := range in {
+				lb, err := plotter.NewLabels(plotter.XYLabels{XYs: plotter.XYs{q}, Labels: []string{inLabels[i]}})
 				if err != nil {
 					return fmt.Errorf("plot: dropped point labels: %w", err)
 				}
-				for i := range lb.TextStyle {
-					lb.TextStyle[i] = noteStyle(colRed)
-				}
-				lb.Offset = vg.Point{X: vg.Points(5), Y: vg.Points(4)}
+				lb.TextStyle[0] = noteStyle(colRed)
+				lb.Offset = vg.Point{X: vg.Points(5), Y: labelRise(q, curve)}
 				p.Add(lb)
 			}
 		}
@@ -207,6 +205,23 @@ func PrepPlot(d PrepData) (*Figure, error) {
 	f.addRow(float64(h2), le, te)
 	f.Height = h1 + h2 + rowGap + 2*figMargin
 	return f, nil
+}
+
+// labelRise returns the vertical offset of the label of a point q off
+// the curve: above q when q lies above the nearest point of the curve,
+// below it (by the height of the text) otherwise, so that the label reads
+// away from the curve and is not crossed by it.
+func labelRise(q plotter.XY, curve plotter.XYs) vg.Length {
+	best, above := math.Inf(1), true
+	for _, c := range curve {
+		if d := math.Hypot(q.X-c.X, q.Y-c.Y); d < best {
+			best, above = d, q.Y >= c.Y
+		}
+	}
+	if above {
+		return vg.Points(4)
+	}
+	return -vg.Points(noteSize + 4)
 }
 
 // DeviationPlot draws the signed normal distance of every kept point from
@@ -274,12 +289,15 @@ func DeviationPlot(d PrepData) (*Figure, error) {
 			}
 		}
 		p.Add(newLine(plotter.XYs{{X: sLE, Y: -1.2 * lim}, {X: sLE, Y: 1.2 * lim}}, lineStyle(colGrey, 0.8, []vg.Length{vg.Points(4), vg.Points(3)})))
-		lb, err := plotter.NewLabels(plotter.XYLabels{XYs: plotter.XYs{{X: sLE, Y: 1.2 * lim}}, Labels: []string{"LE"}})
+		// The label goes at the end of the line away from the largest
+		// deviation, whose own label it would otherwise cover.
+		at, rise := leLabelEnd(pts[iw].Y, lim)
+		lb, err := plotter.NewLabels(plotter.XYLabels{XYs: plotter.XYs{{X: sLE, Y: at}}, Labels: []string{"LE"}})
 		if err != nil {
 			return nil, fmt.Errorf("plot: LE label: %w", err)
 		}
 		lb.TextStyle[0] = noteStyle(colGrey)
-		lb.Offset = vg.Point{X: vg.Points(3), Y: vg.Points(-12)}
+		lb.Offset = vg.Point{X: vg.Points(3), Y: rise}
 		p.Add(lb)
 	}
 	l := newLine(pts, lineStyle(colBlue, 0.6, nil))
@@ -314,6 +332,18 @@ func DeviationPlot(d PrepData) (*Figure, error) {
 	f := &Figure{Width: 8 * vg.Inch, Height: 3.6 * vg.Inch}
 	f.addRow(1, freePanel(p))
 	return f, nil
+}
+
+// leLabelEnd returns where the label of the leading-edge line of the
+// deviation chart goes (its y, and the offset of the text from it): at the
+// lower end of the line when the largest deviation worst is positive (its
+// label is near the top), at the upper end otherwise. lim is the half
+// height of the line.
+func leLabelEnd(worst, lim float64) (y float64, rise vg.Length) {
+	if worst >= 0 {
+		return -1.2 * lim, vg.Points(2)
+	}
+	return 1.2 * lim, -vg.Points(12)
 }
 
 // NodesPlot draws repanelled nodes (normalised frame, node order) and the

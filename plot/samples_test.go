@@ -25,8 +25,10 @@ func demoFigures() []demoFigure {
 		{"deviation", func() (*Figure, error) { return DeviationPlot(demoPrep()) }},
 		{"nodes", func() (*Figure, error) { return NodesPlot(naca2412.Loop(80)) }},
 		{"section", func() (*Figure, error) { return SectionPlot(demoSection()) }},
-		{"cp", func() (*Figure, error) { return CpPlot(demoCp(4)) }},
-		{"cp-sweep", func() (*Figure, error) { return CpPlot(demoCp(0, 4, 8)) }},
+		{"cp", func() (*Figure, error) { return CpPlot(demoCp(4), CpOptions{}) }},
+		{"cp-sweep", func() (*Figure, error) {
+			return CpPlot(demoCp(0, 4, 8), CpOptions{Note: "3 of 5 angles", Outline: demoOutline()})
+		}},
 		{"polar", func() (*Figure, error) { return PolarPlot(demoPolars()) }},
 		{"streamlines", func() (*Figure, error) {
 			return StreamlinePlot(demoJoukowski.flow(6*math.Pi/180, 211, 121, -0.5, -0.6, 0.01, 0.01))

@@ -57,7 +57,7 @@ type originDoc struct {
 func (c *Cleaned) ContourDocument() ([]byte, error) {
 	doc := contourDoc{
 		Format: ContourFormat, Units: c.Units, Files: c.Files, SHA256: c.SHA256, Read: c.Read,
-		Merged: len(c.Clean.Merged), Dropped: DroppedOf(c.Clean), Kept: c.Clean.OrderKept,
+		Merged: len(c.Clean.Merged), Dropped: DroppedOf(c.Clean, c.Units), Kept: c.Clean.OrderKept,
 		Points: c.Contour.Points,
 	}
 	if f := c.Flatness; f != nil {

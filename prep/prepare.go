@@ -21,8 +21,9 @@ import (
 )
 
 // ErrNoUnits means neither the user nor the file said what unit the
-// coordinates are in; foilwright never guesses.
-var ErrNoUnits = errors.New("the file does not say its length unit: give one (mm, in, m or chord)")
+// coordinates are in; foilwright never guesses. The edges (a flag, a
+// pipeline key) say how to give it.
+var ErrNoUnits = errors.New("the file does not say its length unit (mm, in, m or chord)")
 
 // ErrNoiseTooLarge means the expected noise given is not small beside the
 // section itself.
@@ -156,11 +157,15 @@ func Prepare(name string, files []File, s Settings) (*Preparation, error) {
 	if err := p.fit(cl, s); err != nil {
 		return nil, err
 	}
-	if p.Shape, err = frame.Normalize(p.Curve, edgeOptions(s)); err != nil {
+	eo, err := edgeOptions(s, cl.Units)
+	if err != nil {
+		return nil, err
+	}
+	if p.Shape, err = frame.Normalize(p.Curve, eo); err != nil {
 		return nil, fmt.Errorf("%s: %w", where, err)
 	}
 	rp := panelOptions(s)
-	nodes, le, err := p.repanel(rp)
+	nodes, le, dev, err := p.repanel(rp)
 	if err != nil {
 		return nil, err
 	}
@@ -174,9 +179,19 @@ func Prepare(name string, files []File, s Settings) (*Preparation, error) {
 	if p.Props, p.Camber, err = props.Compute(p.Shape.Path, p.Shape.SLE, po); err != nil {
 		return nil, fmt.Errorf("%s: %w", where, err)
 	}
-	p.Uncertainty = accuracy.Estimate(p.Curve, p.Fit, p.Shape, accuracy.Options{Edges: edgeOptions(s)})
+	p.Uncertainty = accuracy.Estimate(p.Curve, p.Fit, p.Shape, accuracy.Options{Edges: eo})
 	p.Section = p.document(name, cl, nodes, le, rp.Spacing)
 	p.Section.Warnings = append(p.Section.Warnings, accuracy.Gaps(p.Contour, p.Fit, p.Curve, p.Shape)...)
+	p.Section.Panels.Deviation = dev
+	if rp.Panels == 0 {
+		p.Section.Panels.Target = rp.Tolerance
+		if p.Section.Panels.Target == 0 {
+			p.Section.Panels.Target = repanel.DefaultTolerance
+		}
+		if dev > p.Section.Panels.Target {
+			p.Section.Warnings = append(p.Section.Warnings, fmt.Sprintf("%d panels, the most an automatic count takes, deviate from the curve by %.3g c, more than the %.3g c asked for", len(nodes)-1, dev, p.Section.Panels.Target))
+		}
+	}
 	return p, nil
 }
 
@@ -205,17 +220,44 @@ func (p *Preparation) fit(cl *Cleaned, s Settings) error {
 	return nil
 }
 
-// edgeOptions returns the edge and normalisation options of the settings.
-func edgeOptions(s Settings) frame.Options {
+// edgeOptions returns the edge and normalisation options of the settings
+// for an input in units: trailing-edge lengths in part units are
+// converted to the input's units. It returns an error for a length that
+// cannot be read or converted.
+func edgeOptions(s Settings, units geometry.Unit) (frame.Options, error) {
 	eo := frame.Options{TE: s.TE, Mirror: s.Mirror}
 	if s.TEBlend != nil {
 		eo.Blend = *s.TEBlend
+	}
+	length := func(name, v string) (geometry.Length, error) {
+		l, err := geometry.ParseLength(v)
+		if err == nil {
+			l, err = l.For(units)
+		}
+		if err != nil {
+			return l, fmt.Errorf("%s: %w", name, err)
+		}
+		return l, nil
+	}
+	if s.TEThickness != "" {
+		l, err := length("trailing-edge thickness", s.TEThickness)
+		if err != nil {
+			return eo, err
+		}
+		eo.Thickness = &l
+	}
+	if s.TEBlendLength != "" {
+		l, err := length("trailing-edge blend length", s.TEBlendLength)
+		if err != nil {
+			return eo, err
+		}
+		eo.BlendLength = l
 	}
 	if s.LEAt != nil {
 		at := geometry.Point{X: s.LEAt[0], Y: s.LEAt[1]}
 		eo.LEAt = &at
 	}
-	return eo
+	return eo, nil
 }
 
 // panelOptions returns the repanelling options of the settings.
@@ -223,6 +265,9 @@ func panelOptions(s Settings) repanel.Options {
 	rp := repanel.Options{Spacing: s.Spacing}
 	if s.Panels != nil {
 		rp.Panels = *s.Panels
+	}
+	if s.PanelTol != nil {
+		rp.Tolerance = *s.PanelTol
 	}
 	if s.LECluster != nil {
 		rp.LECluster = *s.LECluster
@@ -237,18 +282,20 @@ func panelOptions(s Settings) repanel.Options {
 }
 
 // repanel places the nodes along the normalised section and returns them
-// with the index of the leading-edge node, which is exactly (0, 0).
-func (p *Preparation) repanel(rp repanel.Options) ([]geometry.Point, int, error) {
+// with the index of the leading-edge node, which is exactly (0, 0), and
+// the largest distance between the panels and the curve (chord units).
+func (p *Preparation) repanel(rp repanel.Options) ([]geometry.Point, int, float64, error) {
 	ss, le, err := repanel.Stations(p.Shape.Path, p.Shape.SLE, rp)
 	if err != nil {
-		return nil, 0, err
+		return nil, 0, 0, err
 	}
 	nodes := make([]geometry.Point, len(ss))
 	for i, sv := range ss {
 		nodes[i] = p.Shape.Path.At(sv)
 	}
 	nodes[le] = geometry.Point{}
-	return nodes, le, nil
+	dev, _ := repanel.Deviation(p.Shape.Path, ss)
+	return nodes, le, dev, nil
 }
 
 // document returns the section document of the preparation: the nodes
@@ -269,7 +316,7 @@ func (p *Preparation) document(name string, cl *Cleaned, nodes []geometry.Point,
 		Source: &section.SourceInfo{
 			Files: cl.Files, SHA256: cl.SHA256,
 			PointsRead: cl.Read, PointsUsed: cl.Contour.Len(),
-			Dropped: DroppedOf(cl.Clean),
+			Dropped: DroppedOf(cl.Clean, cl.Units),
 		},
 		Frame:        &fr,
 		Fit:          p.fitSummary(),
@@ -321,7 +368,7 @@ func (p *Preparation) fitSummary() *section.FitSummary {
 
 // readOptions turns the reading settings into pointfile.Options.
 func readOptions(s Settings) (pointfile.Options, error) {
-	ro := pointfile.Options{Format: s.Format, Columns: s.Columns}
+	ro := pointfile.Options{Format: s.Format, Columns: s.Columns, Layer: s.Layer}
 	if s.Units != "" {
 		u, err := geometry.ParseUnit(s.Units)
 		if err != nil {
@@ -371,12 +418,12 @@ func contourDiagonal(c *geometry.Contour) float64 {
 }
 
 // DroppedOf lists every input point that is not in the contour: merged
-// duplicates, outliers and stray points.
-func DroppedOf(rep *clean.Report) []section.Dropped {
+// duplicates, outliers and stray points, with distances in units.
+func DroppedOf(rep *clean.Report, units geometry.Unit) []section.Dropped {
 	out := []section.Dropped{}
 	for _, m := range rep.Merged {
 		out = append(out, section.Dropped{File: m.Dropped.File, Line: m.Dropped.Line, Entity: m.Dropped.Entity,
-			Reason: fmt.Sprintf("duplicate of %s (%.3g apart)", m.Kept, m.Distance)})
+			Reason: fmt.Sprintf("duplicate of %s (%s apart)", m.Kept, LengthText(m.Distance, units))})
 	}
 	for _, d := range rep.Dropped {
 		if d.Kept {
@@ -384,7 +431,7 @@ func DroppedOf(rep *clean.Report) []section.Dropped {
 		}
 		reason := d.Reason
 		if d.Sigmas > 0 {
-			reason = fmt.Sprintf("%s: %.3g off the local fit (%.1f robust sigmas)", d.Reason, d.Distance, d.Sigmas)
+			reason = fmt.Sprintf("%s: %s off the local fit (%.1f robust sigmas)", d.Reason, LengthText(d.Distance, units), d.Sigmas)
 		}
 		out = append(out, section.Dropped{File: d.Origin.File, Line: d.Origin.Line, Entity: d.Origin.Entity, Reason: reason})
 	}

@@ -70,7 +70,11 @@ func TestPrepareScan(t *testing.T) {
 	if math.Abs(s.Frame.Chord-152.4)/152.4 > 1e-3 || math.Abs(s.Properties.Thickness-0.12) > 1e-3 {
 		t.Errorf("chord %.3f mm, thickness %.4f", s.Frame.Chord, s.Properties.Thickness)
 	}
-	if len(s.Nodes) != 161 || s.LEIndex == nil || s.Nodes[*s.LEIndex] != (geometry.Point{}) {
-		t.Errorf("%d nodes, LE index %v", len(s.Nodes), s.LEIndex)
+	if len(s.Nodes) != s.Panels.Count+1 || s.LEIndex == nil || s.Nodes[*s.LEIndex] != (geometry.Point{}) {
+		t.Errorf("%d nodes, %d panels, LE index %v", len(s.Nodes), s.Panels.Count, s.LEIndex)
+	}
+	// The panel count was chosen for the default accuracy, and meets it.
+	if s.Panels.Target != 1e-4 || !(s.Panels.Deviation > 0 && s.Panels.Deviation <= 1e-4) {
+		t.Errorf("panels %+v, want the deviation within the 1e-4 chord target", s.Panels)
 	}
 }

@@ -10,6 +10,7 @@ type Settings struct {
 	Columns string   `json:"columns,omitempty"`  // "2,3,4" (1-based) or header names "x,y,z"
 	Units   string   `json:"units,omitempty"`    // mm, in, m, chord
 	Cut     string   `json:"cut,omitempty"`      // "z=240" or "px,py,pz:nx,ny,nz"
+	Layer   string   `json:"layer,omitempty"`    // read only the DXF entities on this layer
 	Band    *float64 `json:"band,omitempty"`     // keep 3D points within ±Band of the plane, input units
 	FlatTol *float64 `json:"flat_tol,omitempty"` // refuse when points depart from their plane by more, input units
 
@@ -20,16 +21,19 @@ type Settings struct {
 	Loop         *int     `json:"loop,omitempty"`          // 0 largest-area loop, K the K-th largest
 
 	// Fitting and edges.
-	Noise   *float64    `json:"noise,omitempty"`    // nil auto, 0 interpolate, else expected noise in input units
-	FitTol  *float64    `json:"fit_tol,omitempty"`  // list points farther than this from the curve, input units
-	TE      string      `json:"te,omitempty"`       // auto, keep, close, sharpen
-	TEBlend *float64    `json:"te_blend,omitempty"` // aft chord fraction over which a blunt TE is closed
-	LEAt    *[2]float64 `json:"le_at,omitempty"`    // leading edge in input coordinates
-	Mirror  string      `json:"mirror,omitempty"`   // auto, yes, no
+	Noise         *float64    `json:"noise,omitempty"`           // nil auto, 0 interpolate, else expected noise in input units
+	FitTol        *float64    `json:"fit_tol,omitempty"`         // list points farther than this from the curve, input units
+	TE            string      `json:"te,omitempty"`              // auto, keep, sharpen (or the earlier close)
+	TEThickness   string      `json:"te_thickness,omitempty"`    // reshape the TE to this thickness: "0.5mm", "0.002c", or input units
+	TEBlendLength string      `json:"te_blend_length,omitempty"` // length ahead of the TE over which a reshape blends in, as TEThickness
+	TEBlend       *float64    `json:"te_blend,omitempty"`        // earlier form: aft chord fraction over which te close blends
+	LEAt          *[2]float64 `json:"le_at,omitempty"`           // leading edge in input coordinates
+	Mirror        string      `json:"mirror,omitempty"`          // auto, yes, no
 
 	// Repanelling.
-	Panels          *int     `json:"panels,omitempty"`  // 16..2000
-	Spacing         string   `json:"spacing,omitempty"` // cosine, half-cosine, uniform, curvature
+	Panels          *int     `json:"panels,omitempty"`    // 16..2000; nil chooses the count for PanelTol
+	PanelTol        *float64 `json:"panel_tol,omitempty"` // largest panel-to-curve distance of an automatic count, chord units
+	Spacing         string   `json:"spacing,omitempty"`   // cosine, half-cosine, uniform, curvature
 	LECluster       *float64 `json:"le_cluster,omitempty"`
 	TECluster       *float64 `json:"te_cluster,omitempty"`
 	CurvatureWeight *float64 `json:"curvature_weight,omitempty"`

@@ -4,7 +4,7 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"path/filepath"
+	"strconv"
 	"strings"
 
 	"github.com/foilwright/foilwright/geometry"
@@ -18,8 +18,8 @@ import (
 func (p *Preparation) OneLine() string {
 	s := p.Section
 	u := s.Units
-	line := fmt.Sprintf("chord %.5g %s, twist %.2f°, fit RMS %.3g %s, TE %s, t/c %.4f at %.3f, %d of %d points used",
-		s.Frame.Chord, u, s.Frame.TwistDeg, s.Fit.RMS, u, s.TrailingEdge.Kind, s.Properties.Thickness, s.Properties.ThicknessAt,
+	line := fmt.Sprintf("chord %s, twist %s°, fit RMS %s, TE %s, t/c %.4f at %.3f, %d of %d points used",
+		lengthG(s.Frame.Chord, 5, u), Fixed(s.Frame.TwistDeg, 2), LengthText(s.Fit.RMS, u), s.TrailingEdge.Kind, s.Properties.Thickness, s.Properties.ThicknessAt,
 		s.Source.PointsUsed, s.Source.PointsRead)
 	if a := s.Uncertainty; a != nil {
 		line = fmt.Sprintf("chord %.5g ± %.2g %s, twist %.2f ± %.2g°, surface ± %.2g c, fit RMS %.3g %s, TE %s, t/c %.4f at %.3f, %d of %d points used",
@@ -37,28 +37,27 @@ func (p *Preparation) OneLine() string {
 // main properties and the warnings.
 func (p *Preparation) WriteSummary(w io.Writer) {
 	s := p.Section
-	u := string(s.Units)
-	notes := 0
+	notes := 0 // lines skipped: notes of a line (a DXF's entities on other layers are not lines)
 	for _, c := range p.Clouds {
-		notes += len(c.Notes)
-	}
-	files := make([]string, len(s.Source.Files))
-	for i, f := range s.Source.Files {
-		files[i] = filepath.Base(f)
+		for _, n := range c.Notes {
+			if n.Origin.Line > 0 {
+				notes++
+			}
+		}
 	}
 	fmt.Fprintf(w, "%s: %d points read from %s (%d lines skipped), %d used, %d dropped\n",
-		s.Name, s.Source.PointsRead, strings.Join(files, ", "), notes, s.Source.PointsUsed, len(s.Source.Dropped))
+		s.Name, s.Source.PointsRead, strings.Join(s.Source.Files, ", "), notes, s.Source.PointsUsed, len(s.Source.Dropped))
 	const maxListed = 12
 	for i, d := range s.Source.Dropped {
 		if i == maxListed {
 			fmt.Fprintf(w, "  ... and %d more (see the section document)\n", len(s.Source.Dropped)-maxListed)
 			break
 		}
-		at := geometry.Origin{File: filepath.Base(d.File), Line: d.Line, Entity: d.Entity}
+		at := geometry.Origin{File: d.File, Line: d.Line, Entity: d.Entity}
 		fmt.Fprintf(w, "  dropped %s: %s\n", at, d.Reason)
 	}
 	if f := p.Flatness; f != nil {
-		fmt.Fprintf(w, "  plane       %d points kept, %d outside the band; flatness RMS %.3g %s, max %.3g %s\n", f.Kept, f.Outside, f.RMS, u, f.Max, u)
+		fmt.Fprintf(w, "  plane       %d points kept, %d outside the band; flatness RMS %s, max %s\n", f.Kept, f.Outside, LengthText(f.RMS, s.Units), LengthText(f.Max, s.Units))
 	}
 	if len(p.Clean.Loops) > 1 {
 		fmt.Fprintf(w, "  loops       %d found; the section is the one of largest area unless told\n", len(p.Clean.Loops))
@@ -70,7 +69,7 @@ func (p *Preparation) WriteSummary(w io.Writer) {
 // trailing edge, panels, properties and warnings, one topic a line. The
 // modes name how thickness and camber were measured ("" when unknown).
 func WriteSectionReport(w io.Writer, s *section.Section, thicknessMode, camberMode string) {
-	u := string(s.Units)
+	u := s.Units
 	if f := s.Fit; f != nil && f.Method == curve.FitInterpolate {
 		fmt.Fprintf(w, "  fit         interpolating spline through every kept point")
 		if f.Interpolates != "" {
@@ -78,9 +77,9 @@ func WriteSectionReport(w io.Writer, s *section.Section, thicknessMode, camberMo
 		}
 		fmt.Fprintln(w)
 	} else if f != nil {
-		fmt.Fprintf(w, "  fit         %s smoothing spline, RMS %.3g %s, max %.3g %s at %s", f.Method, f.RMS, u, f.Max, u, shortOrigin(f.MaxAt))
+		fmt.Fprintf(w, "  fit         %s smoothing spline, RMS %s, max %s at %s", f.Method, LengthText(f.RMS, u), LengthText(f.Max, u), f.MaxAt)
 		if f.NoiseEstimate > 0 {
-			fmt.Fprintf(w, "; noise estimate %.3g %s", f.NoiseEstimate, u)
+			fmt.Fprintf(w, "; noise estimate %s", LengthText(f.NoiseEstimate, u))
 		}
 		fmt.Fprintln(w)
 	}
@@ -92,12 +91,19 @@ func WriteSectionReport(w io.Writer, s *section.Section, thicknessMode, camberMo
 		if fr.Mirrored {
 			mirrored = "mirrored"
 		}
-		fmt.Fprintf(w, "  frame       chord %.5g %s, twist %.3f° nose-up, LE at (%.5g, %.5g) %s, %s\n", fr.Chord, u, fr.TwistDeg, fr.LE[0], fr.LE[1], u, mirrored)
+		fmt.Fprintf(w, "  frame       chord %s, twist %s, LE at (%.5g, %.5g) %s, %s\n", lengthG(fr.Chord, 5, u), TwistText(fr.TwistDeg), fr.LE[0], fr.LE[1], UnitSymbol(u), mirrored)
 	}
 	if te := s.TrailingEdge; te != nil {
 		fmt.Fprintf(w, "  trailing    %s, thickness %.4g c, %s", te.Kind, te.Thickness, te.Action)
+		if te.Target != nil {
+			if fr := s.Frame; fr != nil && u != "" && u != geometry.ChordUnit {
+				fmt.Fprintf(w, " to %s over %s ahead of the edge", lengthG(*te.Target*fr.Chord, 4, u), lengthG(te.Blend*fr.Chord, 4, u))
+			} else {
+				fmt.Fprintf(w, " to %.4g c over %.4g c ahead of the edge", *te.Target, te.Blend)
+			}
+		}
 		if te.MaxShift > 0 {
-			fmt.Fprintf(w, " (largest shift %.3g %s)", te.MaxShift, u)
+			fmt.Fprintf(w, " (largest shift %s)", LengthText(te.MaxShift, u))
 		}
 		fmt.Fprintln(w)
 	}
@@ -105,7 +111,14 @@ func WriteSectionReport(w io.Writer, s *section.Section, thicknessMode, camberMo
 		fmt.Fprintf(w, "  accuracy    chord ± %.2g %s, twist ± %.2g°, LE ± %.2g %s, surface ± %.2g c (95 %% bounds)\n", a.Chord, u, a.TwistDeg, a.LE, u, a.Surface)
 	}
 	if pn := s.Panels; pn != nil {
-		fmt.Fprintf(w, "  panels      %d (%s), largest length ratio %.2f, largest turn %.1f°\n", pn.Count, pn.Spacing, pn.MaxRatio, pn.MaxTurnDeg)
+		fmt.Fprintf(w, "  panels      %d (%s", pn.Count, pn.Spacing)
+		switch {
+		case pn.Target > 0:
+			fmt.Fprintf(w, "; the fewest within %g c of the curve: %.3g c", pn.Target, pn.Deviation)
+		case pn.Deviation > 0:
+			fmt.Fprintf(w, "; within %.3g c of the curve", pn.Deviation)
+		}
+		fmt.Fprintf(w, "), largest length ratio %.2f, largest turn %.1f°\n", pn.MaxRatio, pn.MaxTurnDeg)
 	}
 	if pr := s.Properties; pr != nil {
 		fmt.Fprintf(w, "  thickness   %.4f c at x = %.3f", pr.Thickness, pr.ThicknessAt)
@@ -134,10 +147,51 @@ func thicknessWords(mode string) string {
 	return "perpendicular to the chord line"
 }
 
-// shortOrigin trims the folder from "folder/file:line".
-func shortOrigin(s string) string {
-	if i := strings.LastIndexAny(s, `/\`); i >= 0 {
-		return s[i+1:]
+// UnitSymbol returns the symbol of u in a readout: its name, or "c" for
+// chord units.
+func UnitSymbol(u geometry.Unit) string {
+	if u == geometry.ChordUnit {
+		return "c"
 	}
-	return s
+	return string(u)
+}
+
+// LengthText formats a length v in unit u with three significant figures:
+// "0.0106 mm", or "0.0106 c" in chord units.
+func LengthText(v float64, u geometry.Unit) string { return lengthG(v, 3, u) }
+
+// lengthG formats v in u with digits significant figures.
+func lengthG(v float64, digits int, u geometry.Unit) string {
+	t := strconv.FormatFloat(v, 'g', digits, 64)
+	if sym := UnitSymbol(u); sym != "" {
+		t += " " + sym
+	}
+	return t
+}
+
+// Fixed formats v with prec decimals, never as a negative zero: -0.001
+// to two decimals is "0.00".
+func Fixed(v float64, prec int) string {
+	t := strconv.FormatFloat(v, 'f', prec, 64)
+	if strings.HasPrefix(t, "-") && strings.Trim(t, "-0.") == "" {
+		t = t[1:]
+	}
+	return t
+}
+
+// TwistText words a twist (degrees, positive nose-up, in (−180°, 180°]):
+// "4.091° nose-up", "2.500° nose-down", "0.000°", or for a section turned
+// more than a right angle, "180.000° (turned round)".
+func TwistText(deg float64) string {
+	t := Fixed(math.Abs(deg), 3) + "°"
+	switch {
+	case strings.Trim(t, "0.°") == "":
+		return t
+	case math.Abs(deg) > 90:
+		return Fixed(deg, 3) + "° (turned round)"
+	case deg > 0:
+		return t + " nose-up"
+	default:
+		return t + " nose-down"
+	}
 }

@@ -31,3 +31,19 @@ func BenchmarkMeasure(b *testing.B) {
 		Measure(nodes)
 	}
 }
+
+// BenchmarkAutoCount is the cost of choosing the panel count for the
+// default tolerance (the bisection of Count), beside one Stations call at
+// a given count in BenchmarkDistribute.
+func BenchmarkAutoCount(b *testing.B) {
+	p, sle := naca0012()
+	for _, law := range []string{LawCosine, LawCurvature} {
+		b.Run(law, func(b *testing.B) {
+			for b.Loop() {
+				if _, _, err := Stations(p, sle, Options{Spacing: law}); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}

@@ -8,11 +8,10 @@ import (
 	"github.com/foilwright/foilwright/geometry"
 )
 
-// Panel-count limits and the default, for Options.Panels.
+// Panel-count limits, for Options.Panels.
 const (
-	MinPanels     = 16
-	MaxPanels     = 2000
-	DefaultPanels = 160
+	MinPanels = 16
+	MaxPanels = 2000
 	// MinSurfacePanels is the fewest panels either surface receives.
 	MinSurfacePanels = 8
 )
@@ -80,8 +79,15 @@ var (
 // default.
 type Options struct {
 	// Panels is the number of panels N, in [MinPanels, MaxPanels];
-	// Distribute returns N+1 nodes. 0 means DefaultPanels (160).
+	// Distribute returns N+1 nodes. 0 means the fewest panels that trace
+	// the path within Tolerance (see Count and Deviation), in
+	// [AutoMinPanels, AutoMaxPanels].
 	Panels int
+	// Tolerance is the largest distance between the panels and the path
+	// that an automatic panel count (Panels 0) accepts, in the units of the
+	// path; 0 means DefaultTolerance (1e-4). It must not be negative; it
+	// is ignored when Panels is set.
+	Tolerance float64
 	// Spacing names the law that spaces the nodes along each surface:
 	// "cosine" (the default, for ""), "half-cosine" (clustered at the
 	// leading edge only), "uniform" or "curvature" (curvature-weighted on a
@@ -105,10 +111,13 @@ type Options struct {
 // withDefaults returns o with defaults filled in, or an error for a value
 // outside its range.
 func (o Options) withDefaults() (Options, error) {
-	if o.Panels == 0 {
-		o.Panels = DefaultPanels
+	if !(o.Tolerance >= 0) || math.IsInf(o.Tolerance, 0) {
+		return o, fmt.Errorf("%w: panel tolerance %g, want a positive length", ErrOptionRange, o.Tolerance)
 	}
-	if o.Panels < MinPanels || o.Panels > MaxPanels {
+	if o.Tolerance == 0 {
+		o.Tolerance = DefaultTolerance
+	}
+	if o.Panels != 0 && (o.Panels < MinPanels || o.Panels > MaxPanels) {
 		return o, fmt.Errorf("%w: %d, want %d..%d", ErrPanelCount, o.Panels, MinPanels, MaxPanels)
 	}
 	if o.Spacing == "" {
@@ -158,7 +167,10 @@ func Distribute(p geometry.Path, sLE float64, opts Options) ([]geometry.Point, e
 
 // Stations returns the opts.Panels+1 arc lengths at which Distribute places
 // its nodes, strictly increasing from exactly 0 to exactly p.Length(), and
-// the index le of the node at exactly sLE.
+// the index le of the node at exactly sLE. With opts.Panels 0 the count is
+// the fewest in [AutoMinPanels, AutoMaxPanels] whose panels trace p within
+// opts.Tolerance (see Count); AutoMaxPanels when none does, which
+// Deviation of the stations then shows.
 //
 // The two surfaces, [0, sLE] (upper, trailing edge to leading edge) and
 // [sLE, p.Length()] (lower), are spaced separately. The panel count is split
@@ -187,6 +199,26 @@ func Stations(p geometry.Path, sLE float64, opts Options) (ss []float64, le int,
 	if !(sLE > 0 && sLE < L) {
 		return nil, 0, fmt.Errorf("%w: leading edge at arc length %g, want strictly inside (0, %g)", ErrPath, sLE, L)
 	}
+	if o.Panels == 0 {
+		n, _, _, err := Count(AutoMinPanels, AutoMaxPanels, o.Tolerance, func(n int) (float64, error) {
+			o.Panels = n
+			ss, _, err := stations(p, sLE, L, o)
+			if err != nil {
+				return 0, err
+			}
+			d, _ := Deviation(p, ss)
+			return d, nil
+		})
+		if err != nil {
+			return nil, 0, err
+		}
+		o.Panels = n
+	}
+	return stations(p, sLE, L, o)
+}
+
+// stations places o.Panels+1 stations along p (see Stations).
+func stations(p geometry.Path, sLE, L float64, o Options) (ss []float64, le int, err error) {
 	n := o.Panels
 	nu := int(math.Round(float64(n) * sLE / L))
 	nu = min(max(nu, MinSurfacePanels), n-MinSurfacePanels)

@@ -127,10 +127,12 @@ func TestDistributeCounts(t *testing.T) {
 			checkDistribution(t, o.Spacing, p, sle, n, o)
 		}
 	}
-	// The default panel count.
-	nodes, err := Distribute(p, sle, Options{})
-	if err != nil || len(nodes) != DefaultPanels+1 {
-		t.Errorf("zero Options: %d nodes, %v; want %d", len(nodes), err, DefaultPanels+1)
+	// The default panel count: chosen for DefaultTolerance.
+	ss, _, err := Stations(p, sle, Options{})
+	if n := len(ss) - 1; err != nil || n < AutoMinPanels || n > AutoMaxPanels {
+		t.Errorf("zero Options: %d panels, %v; want %d to %d", n, err, AutoMinPanels, AutoMaxPanels)
+	} else if d, _ := Deviation(p, ss); d > DefaultTolerance {
+		t.Errorf("zero Options: %d panels deviate by %g, more than %g", n, d, DefaultTolerance)
 	}
 	// An odd count on a symmetric section: the rounding gives the upper
 	// surface the extra panel.

@@ -41,7 +41,10 @@ func FuzzDistribute(f *testing.F) {
 		}
 		n := o.Panels
 		if n == 0 {
-			n = DefaultPanels
+			n = len(ss) - 1
+			if n < AutoMinPanels || n > AutoMaxPanels {
+				t.Fatalf("%+v: automatic count %d outside %d..%d", o, n, AutoMinPanels, AutoMaxPanels)
+			}
 		}
 		if len(ss) != n+1 || ss[0] != 0 || ss[n] != p.Length() || ss[k] != s {
 			t.Fatalf("%+v: %d stations, ends %v %v, LE node %d at %v; want %d, 0, %v, LE at %v", o, len(ss), ss[0], ss[len(ss)-1], k, ss[k], n+1, p.Length(), s)

@@ -8,8 +8,8 @@ import (
 )
 
 // Limits above which Measure warns. They are judgement values of common
-// practice, chosen so that the plain laws at the default panel count stay
-// quiet on ordinary sections and the usual trouble does not:
+// practice, chosen so that the plain laws at 160 panels stay quiet on
+// ordinary sections and the usual trouble does not:
 //
 //   - RatioLimit bounds the length ratio of neighbouring panels. Cosine
 //     spacing itself has a ratio just under 3 between the first and second

@@ -104,12 +104,13 @@ func TestMeasure(t *testing.T) {
 }
 
 // The plain cosine law has a neighbour ratio just under 3 at its clustered
-// ends, which RatioLimit is set above; at the default count on a NACA 0012
-// (NACA Report 824 equations) it draws no warning, while uniform spacing,
-// too coarse at the nose, does.
+// ends, which RatioLimit is set above; at 160 panels on a NACA 0012 (NACA
+// Report 824 equations) it draws no warning, while uniform spacing, too
+// coarse at the nose, does; with the count chosen for the default
+// tolerance, uniform spacing gets enough panels to draw none.
 func TestMeasureLimits(t *testing.T) {
 	p, sle := naca0012()
-	cos, err := Distribute(p, sle, Options{})
+	cos, err := Distribute(p, sle, Options{Panels: 160})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -117,11 +118,18 @@ func TestMeasureLimits(t *testing.T) {
 	if len(q.Warnings) != 0 || q.MaxRatio > 3 || q.MaxRatio < 2.9 {
 		t.Errorf("cosine, 160 panels: ratio %v, warnings %q; want a ratio just under 3 and no warning", q.MaxRatio, q.Warnings)
 	}
-	uni, err := Distribute(p, sle, Options{Spacing: LawUniform})
+	uni, err := Distribute(p, sle, Options{Spacing: LawUniform, Panels: 160})
 	if err != nil {
 		t.Fatal(err)
 	}
 	if q := Measure(uni); len(q.Warnings) != 1 || !strings.Contains(q.Warnings[0], "turns") {
 		t.Errorf("uniform, 160 panels: warnings %q; want one about the turn at the nose", q.Warnings)
+	}
+	auto, err := Distribute(p, sle, Options{Spacing: LawUniform})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if q := Measure(auto); len(q.Warnings) != 0 {
+		t.Errorf("uniform, %d panels chosen for the default tolerance: warnings %q", len(auto)-1, q.Warnings)
 	}
 }

@@ -18,12 +18,12 @@ for p in prep deviation section; do
   cp "$src" "$out/probe-$p.svg"
 done
 
-"$fw" run examples/tunnel-model/pipeline.json --quiet --out "$tmp/tunnel" >/dev/null
+"$fw" run examples/tunnel-model/pipeline.json -q -o "$tmp/tunnel"
 cp "$tmp/tunnel/midspan/plots/cp-vortex.svg" "$out/tunnel-cp.svg"
 cp "$tmp/tunnel/midspan/plots/polar.svg" "$out/tunnel-polar.svg"
 cp "$tmp/tunnel/midspan/plots/streamlines-vortex.svg" "$out/tunnel-streamlines.svg"
 
-"$fw" run examples/rotor/pipeline.json --quiet --jobs 2 --out "$tmp/rotor" >/dev/null
+"$fw" run examples/rotor/pipeline.json -q --jobs 2 -o "$tmp/rotor"
 cp "$tmp/rotor/stations.svg" "$out/rotor-stations.svg"
 cp "$tmp/rotor/r700/plots/prep.svg" "$out/rotor-r700-prep.svg"
 ls -l "$out"

@@ -6,8 +6,8 @@ import (
 	"encoding/json"
 	"fmt"
 	"io"
-	"os"
 	"path/filepath"
+	"slices"
 	"sort"
 	"strings"
 	"text/tabwriter"
@@ -17,6 +17,7 @@ import (
 
 	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/internal/atomicfile"
+	"github.com/foilwright/foilwright/internal/limits"
 	"github.com/foilwright/foilwright/plot"
 	"github.com/foilwright/foilwright/plugins/builtin"
 	"github.com/foilwright/foilwright/plugins/host"
@@ -29,6 +30,7 @@ type analyzeOptions struct {
 	alpha   string
 	params  string
 	json    bool
+	quiet   bool
 	out     string
 	timings bool
 	plot    string
@@ -43,11 +45,13 @@ func newAnalyzeCmd() *cobra.Command {
 		Long: `analyze runs a section document (written by prep) through one analysis stage, in
 a separate process, and prints a table of the cases: angle of attack, lift and
 quarter-chord moment coefficients and the stage's self-checks. With --json the
-result document is printed instead; -o writes it to a file, and any files the
-stage returns (plots) beside it.
+result document is printed instead; -o writes it to a file (- for standard
+output, the table then going to standard error), and any files the stage
+returns beside it.
 
 Angles are in degrees, positive nose-up: a list "-4,0,4" or a range
-"start:stop:step" such as "-4:12:1" (stop included). SECTION "-" reads stdin.
+"start:stop:step" such as "-4:12:1" (stop included). SECTION "-" reads
+standard input.
 
 Results are inviscid estimates; check them against test data before relying
 on them.`,
@@ -55,11 +59,9 @@ on them.`,
 		Example: `  foilwright analyze blade-r1.json --stage vortex-panel --alpha -4:12:1
   foilwright analyze blade-r1.json --stage thin-aerofoil --alpha 0,2,4 --json
   foilwright analyze blade-r1.json --stage source-panel -o results/source.json --timings`,
-		ValidArgsFunction: func(*cobra.Command, []string, string) ([]string, cobra.ShellCompDirective) {
-			return []string{"json"}, cobra.ShellCompDirectiveFilterFileExt
-		},
+		ValidArgsFunction: sectionArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
-			return runAnalyze(cmd.Context(), cmd.InOrStdin(), cmd.OutOrStdout(), cmd.ErrOrStderr(), args[0], opts, cmd.Flags().Changed("alpha"))
+			return runAnalyze(cmd, args[0], opts, cmd.Flags().Changed("alpha"))
 		},
 	}
 	f := cmd.Flags()
@@ -67,25 +69,46 @@ on them.`,
 	f.StringVar(&opts.sha256, "sha256", "", "hex sha256 an external stage executable must have")
 	f.StringVar(&opts.alpha, "alpha", "0", `angles of attack (degrees): "a,b,c" or "start:stop:step"`)
 	f.StringVar(&opts.params, "params", "", `more stage parameters as a JSON object, e.g. '{"cp": false}'`)
-	f.BoolVar(&opts.json, "json", false, "print the result document instead of the table")
-	f.StringVarP(&opts.out, "output", "o", "", "write the result document to this file")
-	f.BoolVar(&opts.timings, "timings", false, "print the solver's build, factor, solve and total times on stderr")
-	f.StringVar(&opts.plot, "plot", "", "draw Cp to this .svg or .png file, and beside it Cl and Cm against alpha (2 or more angles), the section, and streamlines when field_grid is given")
+	jsonFlag(cmd, &opts.json, "print the result document in place of the table")
+	quietFlag(cmd, &opts.quiet, "print no table (warnings still go to standard error)")
+	outputFlag(cmd, &opts.out, "write the result document to this file (- for standard output)", "json")
+	f.BoolVar(&opts.timings, "timings", false, "print the solver's build, factor, solve and total times on standard error")
+	f.StringVar(&opts.plot, "plot", "", "draw the results to this .svg or .png file: Cp (or, when the stage gives no Cp, Cl and Cm against alpha, or else the section); the other pictures go beside it (FILE-polar, FILE-section, FILE-streamlines)")
 	cmd.MarkFlagFilename("plot", "svg", "png")
 	opts.host.register(cmd)
-	cmd.MarkFlagFilename("output", "json")
 	cmd.RegisterFlagCompletionFunc("stage", func(*cobra.Command, []string, string) ([]string, cobra.ShellCompDirective) {
-		return builtin.Names(), cobra.ShellCompDirectiveNoFileComp
+		return builtin.Names(), cobra.ShellCompDirectiveDefault // a built-in name, or a path
 	})
+	cmd.RegisterFlagCompletionFunc("sha256", noFiles)
+	cmd.RegisterFlagCompletionFunc("alpha", fixedCompletions("0", "-4:12:1", "0,4,8"))
+	cmd.RegisterFlagCompletionFunc("params", fixedCompletions(`{"field_grid": [-0.5, 1.5, -0.5, 0.5, 0.02]}`))
 	return cmd
 }
 
-func runAnalyze(ctx context.Context, stdin io.Reader, stdout, stderr io.Writer, path string, opts analyzeOptions, alphaSet bool) error {
+func runAnalyze(cmd *cobra.Command, path string, opts analyzeOptions, alphaSet bool) error {
+	ctx, stdout, stderr := cmd.Context(), cmd.OutOrStdout(), cmd.ErrOrStderr()
 	spec, err := stageSpec(opts.stage, opts.sha256)
 	if err != nil {
 		return err
 	}
-	data, name, err := readSectionFile(stdin, path)
+	lim, err := limitsOf(cmd)
+	if err != nil {
+		return err
+	}
+	if err := fileOnly("--plot", opts.plot); err != nil {
+		return err
+	}
+	var plotFormat string
+	if opts.plot != "" {
+		if plotFormat, err = plot.FormatOf(opts.plot); err != nil {
+			return badInputf("--plot %s: %v", opts.plot, err)
+		}
+	}
+	// Refuse an output that may not be written before any work.
+	if err := atomicfile.CheckTargets(opts.out, opts.plot); err != nil {
+		return err
+	}
+	data, name, err := readInput(cmd, path)
 	if err != nil {
 		return err
 	}
@@ -94,7 +117,7 @@ func runAnalyze(ctx context.Context, stdin io.Reader, stdout, stderr io.Writer, 
 		return badInput(err)
 	}
 
-	h, err := opts.host.newHost(stderr)
+	h, err := opts.host.newHost(stderr, lim)
 	if err != nil {
 		return err
 	}
@@ -105,7 +128,7 @@ func runAnalyze(ctx context.Context, stdin io.Reader, stdout, stderr io.Writer, 
 		return stageError(err)
 	}
 	_, takesAlpha := info.Param("alpha_deg")
-	params, err := analyzeParams(opts, alphaSet, takesAlpha)
+	params, err := analyzeParams(opts, alphaSet, takesAlpha, lim)
 	if err != nil {
 		return err
 	}
@@ -123,74 +146,137 @@ func runAnalyze(ctx context.Context, stdin io.Reader, stdout, stderr io.Writer, 
 	if opts.timings {
 		printTimings(stderr, reply.Timings)
 	}
+	// The table goes to standard output unless the document does.
+	table := stdout
+	if opts.out == stdoutPath || opts.json {
+		table = stderr
+	}
+	// Every file is written as one set: all of them, or none.
+	var files atomicfile.Set
+	defer files.Abort()
+	var written []string
 	if opts.plot != "" {
-		if err := analyzePlots(ctx, h, opts.plot, data, name, reply.JSON); err != nil {
+		paths, err := analyzePlots(ctx, h, &files, opts.plot, plotFormat, data, name, reply.JSON)
+		if err != nil {
 			return err
 		}
+		written = append(written, paths...)
 	}
 	doc := reply.JSON
 	if !bytes.HasSuffix(doc, []byte("\n")) {
 		doc = append(doc, '\n')
 	}
-	if opts.out != "" {
-		if err := atomicfile.WriteBytes(opts.out, doc); err != nil {
+	switch {
+	case opts.out == stdoutPath:
+		if _, err := stdout.Write(doc); err != nil {
 			return err
 		}
+		if n := len(reply.Artifacts); n > 0 {
+			fmt.Fprintf(stderr, "note: the stage returned %d file(s); give -o FILE to write them beside the result\n", n)
+		}
+	case opts.out != "":
+		if err := files.AddBytes(opts.out, doc); err != nil {
+			return err
+		}
+		written = append(written, opts.out)
 		// Stages never write files; their artifacts go beside the result.
 		for _, a := range reply.Artifacts {
-			if err := atomicfile.WriteBytes(filepath.Join(filepath.Dir(opts.out), a.Name), a.Data); err != nil {
+			to := filepath.Join(filepath.Dir(opts.out), a.Name)
+			if err := files.AddBytes(to, a.Data); err != nil {
 				return err
 			}
+			written = append(written, to)
 		}
-	} else if n := len(reply.Artifacts); n > 0 {
-		fmt.Fprintf(stderr, "note: the stage returned %d artifact(s); give -o to write them beside the result\n", n)
+	default:
+		if n := len(reply.Artifacts); n > 0 {
+			fmt.Fprintf(stderr, "note: the stage returned %d file(s); give -o FILE to write them beside the result\n", n)
+		}
 	}
-	if opts.json {
-		_, err := stdout.Write(doc)
+	if err := files.Commit(); err != nil {
 		return err
 	}
-	return printCases(stdout, name, sec, reply.Doc)
+	if opts.json && opts.out != stdoutPath {
+		if _, err := stdout.Write(doc); err != nil {
+			return err
+		}
+	}
+	if opts.quiet {
+		return nil
+	}
+	if !opts.json {
+		if err := printCases(table, name, sec, reply.Doc); err != nil {
+			return err
+		}
+	}
+	for _, p := range written {
+		wrote(table, p)
+	}
+	return nil
 }
 
 // analysisID is the id under which the plots stage sees the result it
 // draws.
 const analysisID = "analysis"
 
+// mainPictures are the kinds of picture analyze may put at the path given
+// to --plot, in order of preference: the first the plots stage drew goes
+// there, the others beside it.
+var mainPictures = []string{"cp", "polar", "section"}
+
 // analyzePlots draws the result through the built-in plots stage (in its
-// own process, like every stage) and writes its pictures: Cp to path, the
-// others beside it (path-polar, path-section, path-streamlines).
-func analyzePlots(ctx context.Context, h *host.Host, path string, section []byte, name string, result []byte) error {
-	format, err := plot.FormatOf(path)
-	if err != nil {
-		return badInputf("--plot %s: %v", path, err)
-	}
+// own process, like every stage) and writes its pictures: the first of
+// mainPictures drawn to path, the others beside it (path-polar,
+// path-section, path-streamlines). It returns the paths written.
+func analyzePlots(ctx context.Context, h *host.Host, files *atomicfile.Set, path, format string, section []byte, name string, result []byte) ([]string, error) {
 	params, _ := json.Marshal(map[string]string{"format": format})
 	reply, err := h.Runner(host.Builtin("plots")).Run(ctx, stage.Request{
 		Section: section, Params: params, SectionName: name,
 		Deps: map[string][]byte{analysisID: result},
 	})
 	if err != nil {
-		return stageError(err)
+		return nil, stageError(err)
 	}
-	for _, a := range reply.Artifacts {
-		if err := atomicfile.WriteBytes(builtin.PicturePath(path, a.Name, format, analysisID), a.Data); err != nil {
-			return err
+	kinds := make([]string, len(reply.Artifacts))
+	for i, a := range reply.Artifacts {
+		kinds[i] = builtin.PictureKind(a.Name, format, analysisID)
+	}
+	main := ""
+	for _, m := range mainPictures {
+		if slices.Contains(kinds, m) {
+			main = m
+			break
 		}
 	}
-	return nil
+	if main == "" {
+		return nil, fmt.Errorf("--plot %s: the plots stage drew nothing for this result", path)
+	}
+	var paths []string
+	for i, a := range reply.Artifacts {
+		to := plot.Beside(path, main, kinds[i])
+		if err := files.AddBytes(to, a.Data); err != nil {
+			return nil, err
+		}
+		paths = append(paths, to)
+	}
+	return paths, nil
 }
 
-// readSectionFile reads the section file path, or stdin for "-", whole
-// (before any stage starts: go-plugin hands stdin to the stage process).
-func readSectionFile(stdin io.Reader, path string) ([]byte, string, error) {
+// readInput reads the input file path, or stdin for "-", whole (before
+// any stage starts: go-plugin hands stdin to the stage process), within
+// the input limits of cmd's command line: input-bytes and input-lines.
+func readInput(cmd *cobra.Command, path string) ([]byte, string, error) {
+	lim, err := limitsOf(cmd)
+	if err != nil {
+		return nil, "", err
+	}
 	if path == "-" {
-		data, err := io.ReadAll(stdin)
+		data, err := limits.Read(cmd.InOrStdin(), "stdin", lim.InputBytes, lim.InputLines)
 		if err != nil {
-			return nil, "", badInputf("stdin: %v", err)
+			return nil, "", badInputf("%v", err)
 		}
 		return data, "stdin", nil
 	}
-	data, err := os.ReadFile(path)
+	data, err := limits.ReadFile(path, lim.InputBytes, lim.InputLines)
 	if err != nil {
 		return nil, "", badInput(err)
 	}
@@ -199,8 +285,14 @@ func readSectionFile(stdin io.Reader, path string) ([]byte, string, error) {
 
 // analyzeParams builds the stage's parameter object from --params and
 // --alpha. Angles are passed only to a stage that declares alpha_deg.
-func analyzeParams(opts analyzeOptions, alphaSet, takesAlpha bool) ([]byte, error) {
+func analyzeParams(opts analyzeOptions, alphaSet, takesAlpha bool, lim limits.Limits) ([]byte, error) {
 	params := map[string]json.RawMessage{}
+	if n := int64(len(opts.params)); lim.JSONBytes > 0 && n > lim.JSONBytes {
+		return nil, badInput(&limits.Error{File: "--params", Limit: limits.JSONBytes, Value: lim.JSONBytes, What: limits.Size(n)})
+	}
+	if err := limits.CheckDepth([]byte(opts.params), lim.JSONDepth); err != nil {
+		return nil, badInputf("--params: %v", err)
+	}
 	if strings.TrimSpace(opts.params) != "" {
 		dec := json.NewDecoder(strings.NewReader(opts.params))
 		if err := dec.Decode(&params); err != nil || params == nil || dec.More() {

@@ -11,15 +11,24 @@ import (
 
 	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/geometry/shape"
+	"github.com/foilwright/foilwright/internal/reliability"
 	"github.com/foilwright/foilwright/plugins/builtin"
 	"github.com/foilwright/foilwright/plugins/host"
 	"github.com/foilwright/foilwright/plugins/stage"
 )
 
 // TestMain lets the test binary serve built-in stages: the host starts
-// "/proc/self/exe __stage NAME", which is this binary.
+// "/proc/self/exe __stage NAME", which is this binary. For the reliability
+// campaign it also serves the campaign's fault stages and helpers, and
+// acts as foilwright itself when asCLIEnv is set.
 func TestMain(m *testing.M) {
 	if len(os.Args) > 1 && os.Args[1] == "__stage" {
+		os.Exit(execute(os.Args[1:], os.Stdin, os.Stdout, os.Stderr))
+	}
+	if reliability.Serve(os.Args[1:]) {
+		os.Exit(0)
+	}
+	if os.Getenv(asCLIEnv) == "1" {
 		os.Exit(execute(os.Args[1:], os.Stdin, os.Stdout, os.Stderr))
 	}
 	if os.Getenv("GORACE") == "" {

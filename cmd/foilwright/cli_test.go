@@ -34,7 +34,7 @@ func TestExitStatuses(t *testing.T) {
 		{"bad flag", []string{"version", "--nope"}, exitUsage, "unknown flag"},
 		{"extra args", []string{"version", "x"}, exitUsage, "unknown command"},
 		{"bad naca code", []string{"shape", "naca4", "24x2"}, exitUsage, `"24x2"`},
-		{"panels out of range", []string{"shape", "naca4", "0012", "--panels", "8"}, exitUsage, "--panels 8"},
+		{"panels out of range", []string{"shape", "naca4", "0012", "--panels", "8"}, exitUsage, `"8" for "--panels"`},
 		{"ok", []string{"version"}, exitOK, ""},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
@@ -186,9 +186,9 @@ func TestRunProgressLines(t *testing.T) {
 	if !strings.Contains(stderr, "[1/2] ok ") || !strings.Contains(stderr, "[2/2] ok ") || !strings.Contains(stderr, "s left)") {
 		t.Errorf("progress lines missing:\n%s", stderr)
 	}
-	_, stderr, code = runCLI(t, "run", pipe, "--replace", "--quiet")
-	if code != 0 || strings.Contains(stderr, "[1/2]") {
-		t.Errorf("--quiet: exit %d, stderr %q", code, stderr)
+	stdout, stderr, code := runCLI(t, "run", pipe, "--replace", "--quiet")
+	if code != 0 || strings.Contains(stderr, "[1/2]") || stdout != "" {
+		t.Errorf("--quiet: exit %d, stdout %q, stderr %q", code, stdout, stderr)
 	}
 	if _, _, code := runCLI(t, "run", pipe); code != exitUsage {
 		t.Errorf("run into a folder holding an earlier run without --replace: exit %d, want %d", code, exitUsage)
@@ -231,7 +231,7 @@ func TestPrepBadInput(t *testing.T) {
 		{"square", []string{write("square.txt", square.String())}, "--le-at"},
 		{"empty", []string{write("empty.txt", "")}, "empty"},
 		{"no units", []string{write("nounits.txt", "0 0\n1 0\n1 1\n0 1\n0.5 0.5\n0.2 0.1\n0.3 0.7\n0.9 0.4\n")}, "unit"},
-		{"panels", []string{probe, "--panels", "8"}, "--panels 8"},
+		{"panels", []string{probe, "--panels", "8"}, `"8" for "--panels"`},
 		{"noise", []string{probe, "--noise", "50"}, "noise"},
 		{"bad noise", []string{probe, "--noise", "lots"}, "--noise"},
 		{"too few points", []string{write("few.txt", "# units: mm\n0 0\n1 0\n1 1\n0 1\n")}, "too few"},

@@ -40,7 +40,7 @@ func TestExampleProbe(t *testing.T) {
 	if len(lines) != 2 || lines[0] != 66 || lines[1] != 217 {
 		t.Errorf("dropped lines %v, want [66 217]", lines)
 	}
-	if !strings.Contains(stdout, "dropped probe.csv:66: outlier") {
+	if !strings.Contains(stdout, "dropped ../../examples/tunnel-model/probe.csv:66: outlier: 1.81 mm off") {
 		t.Errorf("summary does not list the slip on line 66:\n%s", stdout)
 	}
 }
@@ -92,14 +92,15 @@ func TestExamplePipelines(t *testing.T) {
 		sections int
 		files    []string // some outputs that must exist
 	}{
-		{"tunnel-model", 1, []string{"midspan/section.json", "midspan/results/vortex.json", "midspan/plots/polar.svg", "midspan/plots/streamlines-vortex.svg"}},
+		{"tunnel-model", 1, []string{"midspan/section.json", "midspan/results/vortex.json", "midspan/plots/polar.svg", "midspan/plots/streamlines-vortex.svg",
+			"midspan/export/section.geo", "midspan/export/template.svg", "midspan/export/cp.csv"}},
 		{"rotor", 5, []string{"r700/results/stiffness.json", "r300/plots/prep.svg", "stations.svg"}},
 	} {
 		t.Run(ex.name, func(t *testing.T) {
 			pipe := filepath.Join(dir, "examples", ex.name, "pipeline.json")
 			first, second := filepath.Join(dir, "run1-"+ex.name), filepath.Join(dir, "run2-"+ex.name)
 			for i, out := range []string{first, second} {
-				stdout, stderr, code := runCLI(t, "run", pipe, "--out", out, "--quiet", "--jobs", []string{"1", "2"}[i])
+				stdout, stderr, code := runCLI(t, "run", pipe, "-o", out, "--jobs", []string{"1", "2"}[i])
 				if code != 0 {
 					t.Fatalf("run %d: exit %d\n%s\n%s", i+1, code, stdout, stderr)
 				}
@@ -111,6 +112,9 @@ func TestExamplePipelines(t *testing.T) {
 				if _, err := os.Stat(filepath.Join(first, f)); err != nil {
 					t.Errorf("missing output %s", f)
 				}
+			}
+			if ex.name == "rotor" {
+				checkRunExports(t, first)
 			}
 			// Two runs (1 and 2 workers) give identical bytes everywhere but
 			// in the manifest, whose timings differ.

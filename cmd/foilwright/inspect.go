@@ -17,6 +17,7 @@ import (
 type inspectOptions struct {
 	flags prepFlags
 	json  bool
+	quiet bool
 }
 
 func newInspectCmd() *cobra.Command {
@@ -27,13 +28,19 @@ func newInspectCmd() *cobra.Command {
 		Long: `inspect reports on a file without writing anything. Given a section document
 it prints its counts, frame, fit, trailing edge, panel quality (measured afresh
 from the nodes), properties and warnings. Given a point file it runs the same
-geometry chain as prep, with the same flags, and prints prep's summary.`,
+geometry chain as prep, with the same flags, and prints prep's summary. With -q
+it prints nothing: the exit status says whether the file could be used.`,
 		Example: `  foilwright inspect section.json
   foilwright inspect examples/cad-export/section.dxf --noise 0
   foilwright inspect section.json --json`,
-		Args: cobra.MinimumNArgs(1),
+		Args:              cobra.MinimumNArgs(1),
+		ValidArgsFunction: pointFileArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
-			files, err := inputFiles(cmd.InOrStdin(), args)
+			stdout := cmd.OutOrStdout()
+			if opts.quiet {
+				stdout = io.Discard
+			}
+			files, err := inputFiles(cmd, args)
 			if err != nil {
 				return err
 			}
@@ -42,26 +49,27 @@ geometry chain as prep, with the same flags, and prints prep's summary.`,
 				if err != nil {
 					return badInput(err)
 				}
-				return inspectSection(cmd.OutOrStdout(), files[0].Path, sec, opts.json)
+				return inspectSection(stdout, files[0].Path, sec, opts.json)
 			}
-			s, err := opts.flags.settings(cmd.Flags())
+			s, err := opts.flags.settings(cmd)
 			if err != nil {
 				return err
 			}
 			p, err := prep.Prepare(sectionName(args), files, s)
 			if err != nil {
-				return badInput(err)
+				return chainError(err)
 			}
 			if opts.json {
-				return section.Write(cmd.OutOrStdout(), p.Section)
+				return section.Write(stdout, p.Section)
 			}
-			p.WriteSummary(cmd.OutOrStdout())
+			p.WriteSummary(stdout)
 			return nil
 		},
 	}
-	opts.flags.registerRead(cmd.Flags())
+	opts.flags.registerRead(cmd)
 	opts.flags.registerShape(cmd)
-	cmd.Flags().BoolVar(&opts.json, "json", false, "print the report as JSON (for a point file: the section document prep would write)")
+	jsonFlag(cmd, &opts.json, "print the report as JSON (for a point file: the section document prep would write)")
+	quietFlag(cmd, &opts.quiet, "print nothing; the exit status says whether the file could be used")
 	return cmd
 }
 

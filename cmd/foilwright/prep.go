@@ -8,6 +8,7 @@ import (
 
 	"github.com/foilwright/foilwright/geometry/pointfile"
 	"github.com/foilwright/foilwright/geometry/section"
+	"github.com/foilwright/foilwright/internal/atomicfile"
 	"github.com/foilwright/foilwright/plot"
 	"github.com/foilwright/foilwright/prep"
 )
@@ -19,6 +20,7 @@ type prepOptions struct {
 	name  string
 	plot  string
 	quiet bool
+	json  bool
 }
 
 func newPrepCmd() *cobra.Command {
@@ -34,17 +36,31 @@ normalises to unit chord with the leading edge at (0, 0), repanels, and computes
 the section's properties. It writes the section document and prints a summary:
 how far the curve departs from the kept points, how the section maps back to the
 part (chord, twist, leading edge, mirroring), and every point it dropped, with
-its file and line.`,
+its file and line.
+
+Outputs: -o writes the section document (- for standard output); without -o it
+goes to standard output when that is a pipe or a file, and is not written on a
+terminal. The summary goes to standard output unless a document does, then to
+standard error. FILE "-" reads standard input.`,
 		Example: `  foilwright prep examples/tunnel-model/probe.csv -o section.json
   foilwright prep blade-scan.stl --units mm --cut z=700 --panels 200 -o r700.json --nodes r700.dat
-  foilwright prep section.dxf --noise 0.01 --te close --plot prep.svg -o section.json`,
-		Args: cobra.MinimumNArgs(1),
+  foilwright prep section.dxf --noise 0.01 --te-thickness 0.3mm --plot prep.svg -o section.json
+  foilwright prep probe.csv -q | foilwright analyze -`,
+		Args:              cobra.MinimumNArgs(1),
+		ValidArgsFunction: pointFileArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
-			s, err := opts.flags.settings(cmd.Flags())
+			s, err := opts.flags.settings(cmd)
 			if err != nil {
 				return err
 			}
-			files, err := inputFiles(cmd.InOrStdin(), args)
+			if err := opts.check(cmd.OutOrStdout()); err != nil {
+				return err
+			}
+			// Refuse an output that may not be written before any work.
+			if err := atomicfile.CheckTargets(prepTargets(opts)...); err != nil {
+				return err
+			}
+			files, err := inputFiles(cmd, args)
 			if err != nil {
 				return err
 			}
@@ -54,71 +70,132 @@ its file and line.`,
 			}
 			p, err := prep.Prepare(name, files, s)
 			if err != nil {
-				return badInput(err)
+				return chainError(err)
 			}
 			return writePrep(cmd.OutOrStdout(), cmd.ErrOrStderr(), p, opts)
 		},
 	}
-	opts.flags.registerRead(cmd.Flags())
+	opts.flags.registerRead(cmd)
 	opts.flags.registerShape(cmd)
 	f := cmd.Flags()
-	f.StringVarP(&opts.out, "out", "o", "-", "section document to write (- for stdout; the summary then goes to stderr)")
-	f.StringVar(&opts.nodes, "nodes", "", "also write the plain node listing (name line, then x y) to this file")
+	outputFlag(cmd, &opts.out, "write the section document to this file (- for standard output; default: standard output unless it is a terminal)", "json")
+	f.StringVar(&opts.nodes, "nodes", "", "also write the plain node listing (name line, then x y) to this file (- for standard output)")
 	f.StringVar(&opts.name, "name", "", "name of the section (default: the first file's name)")
-	f.StringVar(&opts.plot, "plot", "", "draw the preparation to this .svg or .png file, and the deviation, nodes and section beside it")
-	f.BoolVarP(&opts.quiet, "quiet", "q", false, "print no summary")
-	cmd.MarkFlagFilename("out", "json")
+	f.StringVar(&opts.plot, "plot", "", "draw the preparation to this .svg or .png file, and the deviation, nodes and section beside it (FILE-deviation.svg, ...)")
+	quietFlag(cmd, &opts.quiet, "print no summary")
+	jsonFlag(cmd, &opts.json, "print the section document on standard output in place of the summary")
+	cmd.MarkFlagFilename("nodes", "dat", "txt")
 	cmd.MarkFlagFilename("plot", "svg", "png")
+	cmd.RegisterFlagCompletionFunc("name", noFiles)
 	return cmd
 }
 
-// writePrep writes the outputs of a preparation: plots first, then the node
-// listing, then the section document, each atomically, and the summary.
-func writePrep(stdout, stderr io.Writer, p *prep.Preparation, opts prepOptions) error {
-	if opts.plot != "" {
-		if err := writePrepPlots(opts.plot, p); err != nil {
-			return err
+// check checks the outputs before any work is done, and settles where the
+// section document goes when -o is not given.
+func (o *prepOptions) check(stdout io.Writer) error {
+	if err := fileOnly("--plot", o.plot); err != nil {
+		return err
+	}
+	if o.plot != "" {
+		if _, err := plot.FormatOf(o.plot); err != nil {
+			return badInputf("--plot %s: %v", o.plot, err)
 		}
 	}
+	if o.json && o.nodes == stdoutPath {
+		return badInputf("--json and --nodes - both write to standard output: give --nodes a file")
+	}
+	if o.out == "" && !o.json && o.nodes != stdoutPath && !isTerminal(stdout) {
+		o.out = stdoutPath
+	}
+	return oneStdout("--output", o.out, "--nodes", o.nodes)
+}
+
+// prepTargets are the files prep writes: the section, the node listing
+// and the pictures.
+func prepTargets(opts prepOptions) []string {
+	ts := []string{opts.out, opts.nodes}
+	if opts.plot != "" {
+		for _, name := range prep.PlotNames {
+			ts = append(ts, prep.SiblingPath(opts.plot, name))
+		}
+	}
+	return ts
+}
+
+// writePrep writes the outputs of a preparation as one set (plots, the node
+// listing, the section document: all or none, see outputs), and the
+// summary: on standard output unless a document went there, then on
+// standard error.
+func writePrep(stdout, stderr io.Writer, p *prep.Preparation, opts prepOptions) error {
+	out, err := newOutputs(stdout, prepTargets(opts)...)
+	if err != nil {
+		return err
+	}
+	defer out.abort()
+	var written []string
+	if opts.plot != "" {
+		paths, err := writePrepPlots(out, opts.plot, p)
+		if err != nil {
+			return err
+		}
+		written = append(written, paths...)
+	}
 	if opts.nodes != "" {
-		if err := writeOutput(stdout, opts.nodes, func(w io.Writer) error {
+		if err := out.write(opts.nodes, func(w io.Writer) error {
 			return pointfile.WriteNodes(w, p.Section.Name, p.Section.Nodes)
 		}); err != nil {
 			return err
 		}
+		written = append(written, opts.nodes)
 	}
-	if err := writeOutput(stdout, opts.out, func(w io.Writer) error { return section.Write(w, p.Section) }); err != nil {
+	if opts.out != "" {
+		if err := out.write(opts.out, func(w io.Writer) error { return section.Write(w, p.Section) }); err != nil {
+			return err
+		}
+		written = append(written, opts.out)
+	}
+	if err := out.commit(); err != nil {
 		return err
+	}
+	if opts.json && opts.out != stdoutPath {
+		if err := section.Write(stdout, p.Section); err != nil {
+			return err
+		}
 	}
 	if opts.quiet {
 		return nil
 	}
 	summary := stdout
-	if opts.out == "-" || opts.out == "" {
+	if opts.json || opts.out == stdoutPath || opts.nodes == stdoutPath {
 		summary = stderr
 	}
-	p.WriteSummary(summary)
-	if opts.out != "-" && opts.out != "" {
-		fmt.Fprintf(summary, "wrote %s\n", opts.out)
+	if !opts.json {
+		p.WriteSummary(summary)
+	}
+	for _, path := range written {
+		wrote(summary, path)
+	}
+	if opts.out == "" && !opts.json {
+		fmt.Fprintln(stderr, "note: the section document was not written; give -o FILE (or -o - for standard output)")
 	}
 	return nil
 }
 
 // writePrepPlots draws the preparation pictures to path (its extension
 // chooses SVG or PNG) and to siblings named path-deviation, path-nodes and
-// path-section.
-func writePrepPlots(path string, p *prep.Preparation) error {
-	if _, err := plot.FormatOf(path); err != nil {
-		return badInputf("--plot %s: %v", path, err)
-	}
+// path-section, into out, and returns their paths.
+func writePrepPlots(out *outputs, path string, p *prep.Preparation) ([]string, error) {
 	figs, err := p.PrepFigures()
 	if err != nil {
-		return err
+		return nil, err
 	}
+	var paths []string
 	for _, name := range prep.PlotNames {
-		if err := plot.Save(figs[name], prep.SiblingPath(path, name), 0, 0); err != nil {
-			return err
+		to := prep.SiblingPath(path, name)
+		if err := out.picture(figs[name], to); err != nil {
+			return nil, err
 		}
+		paths = append(paths, to)
 	}
-	return nil
+	return paths, nil
 }

@@ -2,7 +2,6 @@ package main
 
 import (
 	"context"
-	"errors"
 	"fmt"
 	"io"
 	"os"
@@ -20,27 +19,6 @@ const (
 	exitUsage       = 2
 	exitInterrupted = 130
 )
-
-// inputError marks an error caused by the user's input (an unreadable or
-// malformed file, a bad value): the command exits with status 2.
-type inputError struct{ err error }
-
-func (e *inputError) Error() string { return e.err.Error() }
-func (e *inputError) Unwrap() error { return e.err }
-
-// badInput wraps err so that the command exits with status 2. It returns nil
-// for a nil err.
-func badInput(err error) error {
-	if err == nil {
-		return nil
-	}
-	return &inputError{err}
-}
-
-// badInputf formats a bad-input error.
-func badInputf(format string, args ...any) error {
-	return &inputError{fmt.Errorf(format, args...)}
-}
 
 // newRootCmd builds the command tree. started is set when a RunE begins, so
 // that errors before it (unknown command, bad flag, wrong argument count) are
@@ -60,8 +38,14 @@ applicable codes and licensed engineering practice before anything is built
 from them.`,
 		SilenceUsage:  true,
 		SilenceErrors: true,
+		Version:       currentVersion().String(),
+		// Notes on deprecated flags go to standard error.
+		PersistentPreRunE: warnDeprecated,
 	}
+	root.SetVersionTemplate("foilwright {{.Version}}\n")
+	root.SetUsageFunc(usage)
 	root.CompletionOptions.HiddenDefaultCmd = false
+	registerLimits(root)
 	for _, c := range []*cobra.Command{
 		newInspectCmd(),
 		newPointsCmd(),
@@ -70,6 +54,7 @@ from them.`,
 		newShapeCmd(),
 		newVersionCmd(),
 		newAnalyzeCmd(),
+		newExportCmd(),
 		newStagesCmd(),
 		newStageServeCmd(),
 	} {
@@ -93,8 +78,10 @@ func markStarted(cmd *cobra.Command, started *bool) {
 	}
 }
 
-// execute runs the command line args and returns the exit status.
-func execute(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
+// execute runs the command line args and returns the exit status, by the
+// one rule of exitStatus. A panic in a command is reported as an internal
+// error (exit 1), never as a Go stack dump.
+func execute(args []string, stdin io.Reader, stdout, stderr io.Writer) (code int) {
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
 	defer stop()
 	var started bool
@@ -103,21 +90,27 @@ func execute(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	root.SetIn(stdin)
 	root.SetOut(stdout)
 	root.SetErr(stderr)
-	err := root.ExecuteContext(ctx)
+	var cmd *cobra.Command
+	err := func() (err error) {
+		defer func() {
+			if v := recover(); v != nil {
+				err = recovered(v)
+			}
+		}()
+		cmd, err = root.ExecuteContextC(ctx)
+		return err
+	}()
+	code = exitStatus(err, started, ctx.Err() != nil)
 	if err == nil {
-		return exitOK
+		return code
 	}
 	fmt.Fprintf(stderr, "foilwright: %v\n", err)
-	var in *inputError
-	switch {
-	case ctx.Err() != nil:
-		return exitInterrupted
-	case !started:
-		fmt.Fprintf(stderr, "Run '%s --help' for usage.\n", root.CommandPath())
-		return exitUsage
-	case errors.As(err, &in):
-		return exitUsage
-	default:
-		return exitFailed
+	if !started {
+		path := root.CommandPath()
+		if cmd != nil {
+			path = cmd.CommandPath()
+		}
+		usageHint(stderr, path)
 	}
+	return code
 }

@@ -1,20 +1,25 @@
 package main
 
 import (
+	"context"
+	"encoding/json"
 	"errors"
 	"fmt"
 	"io"
 	"os"
+	"path/filepath"
+	"strings"
 	"sync"
 	"time"
 
 	"github.com/schollz/progressbar/v3"
 	"github.com/spf13/cobra"
-	"golang.org/x/term"
 
+	"github.com/foilwright/foilwright/internal/limits"
 	"github.com/foilwright/foilwright/pipeline"
 	"github.com/foilwright/foilwright/plugins/builtin"
 	"github.com/foilwright/foilwright/plugins/host"
+	"github.com/foilwright/foilwright/plugins/stage"
 )
 
 type runOptions struct {
@@ -25,6 +30,7 @@ type runOptions struct {
 	verify  bool
 	keep    bool
 	quiet   bool
+	json    bool
 	plan    bool
 }
 
@@ -41,14 +47,23 @@ stage's name, version, executable sha256 and parameters, every output's sha256
 and the timings. Outputs are written atomically; a failed section leaves the
 others intact. The exit status is 0 only when every section succeeded.
 
+Progress goes to standard error (a bar on a terminal, a line per section
+otherwise); the summary, one line per section, to standard output.
+
 With --verify, run re-runs the run that a manifest records (refusing if the
 pipeline file or an input changed) and reports every output that differs,
 byte for byte.`,
 		Example: `  foilwright run examples/tunnel-model/pipeline.json
-  foilwright run examples/rotor/pipeline.json --jobs 2 --out /tmp/rotor
+  foilwright run examples/rotor/pipeline.json --jobs 2 -o /tmp/rotor
   foilwright run --verify /tmp/rotor/manifest.json`,
 		Args: cobra.ExactArgs(1),
+		ValidArgsFunction: func(*cobra.Command, []string, string) ([]string, cobra.ShellCompDirective) {
+			return []string{"json"}, cobra.ShellCompDirectiveFilterFileExt
+		},
 		RunE: func(cmd *cobra.Command, args []string) error {
+			if err := fileOnly("--output", opts.out); err != nil {
+				return err
+			}
 			if opts.verify {
 				return runVerify(cmd, args[0], opts)
 			}
@@ -56,15 +71,18 @@ byte for byte.`,
 		},
 	}
 	f := cmd.Flags()
-	f.StringVar(&opts.out, "out", "", "run folder (default: the pipeline's outputs.folder)")
+	f.StringVarP(&opts.out, "output", "o", "", "run folder (default: the pipeline's outputs.folder)")
+	deprecatedAlias(f, "out", "output")
+	cmd.MarkFlagDirname("output")
 	f.IntVarP(&opts.jobs, "jobs", "j", 1, "sections made at once, each worker with its own stage processes")
-	f.BoolVar(&opts.replace, "replace", false, "replace an earlier run in the run folder (only the files its manifest lists)")
+	f.BoolVar(&opts.replace, "replace", false, "replace the earlier run in the run folder, as a whole, once every section succeeded (the folder must hold only that run)")
 	f.BoolVar(&opts.verify, "verify", false, "the argument is a manifest.json: re-run it and compare every output")
 	f.BoolVar(&opts.keep, "keep", false, "with --verify, keep the re-run's folder")
-	f.BoolVarP(&opts.quiet, "quiet", "q", false, "show no progress")
+	quietFlag(cmd, &opts.quiet, "show no progress and print no summary: the exit status and the manifest say how the run went")
+	jsonFlag(cmd, &opts.json, "print the summary (or the plan, or the verify report) as JSON")
 	f.BoolVar(&opts.plan, "plan", false, "check the pipeline file and print the plan, running nothing")
 	opts.host.register(cmd)
-	cmd.MarkFlagDirname("out")
+	cmd.RegisterFlagCompletionFunc("jobs", fixedCompletions("1", "2", "4", "8"))
 	return cmd
 }
 
@@ -79,15 +97,22 @@ func runPipeline(cmd *cobra.Command, path string, opts runOptions) error {
 	if opts.jobs < 1 {
 		return badInputf("--jobs %d: want 1 or more", opts.jobs)
 	}
-	p, err := pipeline.Load(path, known)
+	lim, err := limitsOf(cmd)
+	if err != nil {
+		return err
+	}
+	p, err := pipeline.LoadWith(path, parseOptions(lim))
 	if err != nil {
 		return badInput(err)
 	}
 	pl := p.Plan()
 	if opts.plan {
+		if opts.json {
+			return writeJSON(stdout, planJSON(pl))
+		}
 		return pl.Describe(stdout)
 	}
-	h, err := opts.host.newHost(stderr)
+	h, err := opts.host.newHost(stderr, lim)
 	if err != nil {
 		return err
 	}
@@ -100,27 +125,51 @@ func runPipeline(cmd *cobra.Command, path string, opts runOptions) error {
 	sum, err := pipeline.Run(cmd.Context(), pl, pipeline.RunOptions{
 		Folder: opts.out, Replace: opts.replace, Jobs: opts.jobs,
 		Preparer: pipeline.Chain{}, NewRunner: pipeline.HostRunners(h, self),
-		Done: prog.done,
+		Done: prog.done, Limits: lim,
 	})
 	prog.finish()
-	if sum != nil {
-		sum.Write(stdout)
+	if sum != nil && sum.Manifest != "" {
+		sum.Manifest = displayPath(sum.Manifest)
+	}
+	if sum != nil && !opts.quiet {
+		if opts.json {
+			if err := writeJSON(stdout, summaryJSON(sum)); err != nil {
+				return err
+			}
+		} else {
+			sum.Write(stdout)
+		}
 	}
 	if err != nil {
-		if errors.Is(err, pipeline.ErrFolderNotEmpty) {
-			return badInput(err)
-		}
 		return err
 	}
-	if n := len(sum.Failed()); n > 0 {
-		return fmt.Errorf("%d of %d section(s) did not complete", n, len(sum.Sections))
+	return sum.Err()
+}
+
+// parseOptions are the pipeline file's checks for the limits lim: its
+// size and nesting, and the parameters of built-in stages.
+func parseOptions(lim limits.Limits) pipeline.ParseOptions {
+	return pipeline.ParseOptions{Known: known, Describe: builtinInfo, MaxBytes: lim.JSONBytes, MaxDepth: lim.JSONDepth}
+}
+
+// builtinInfo describes a built-in stage in process, for the checks of a
+// pipeline file.
+func builtinInfo(name string) (stage.Info, bool) {
+	s, ok := builtin.Lookup(name)
+	if !ok {
+		return stage.Info{}, false
 	}
-	return nil
+	info, err := s.Describe(context.Background())
+	return info, err == nil
 }
 
 func runVerify(cmd *cobra.Command, manifest string, opts runOptions) error {
 	stdout, stderr := cmd.OutOrStdout(), cmd.ErrOrStderr()
-	h, err := opts.host.newHost(stderr)
+	lim, err := limitsOf(cmd)
+	if err != nil {
+		return err
+	}
+	h, err := opts.host.newHost(stderr, lim)
 	if err != nil {
 		return err
 	}
@@ -131,18 +180,147 @@ func runVerify(cmd *cobra.Command, manifest string, opts runOptions) error {
 	}
 	rep, err := pipeline.Verify(cmd.Context(), manifest, pipeline.VerifyOptions{
 		Known: known, Jobs: opts.jobs, Preparer: pipeline.Chain{}, NewRunner: pipeline.HostRunners(h, self), Keep: opts.keep,
+		Parse: parseOptions(lim), Limits: lim,
 	})
 	if err != nil {
-		if errors.Is(err, pipeline.ErrPipelineChanged) || errors.Is(err, pipeline.ErrInputChanged) || errors.Is(err, pipeline.ErrNotManifest) || errors.Is(err, os.ErrNotExist) {
+		if errors.Is(err, os.ErrNotExist) {
 			return badInput(err)
 		}
 		return err
 	}
-	rep.Write(stdout)
+	switch {
+	case opts.quiet:
+	case opts.json:
+		if err := writeJSON(stdout, verifyJSON(rep)); err != nil {
+			return err
+		}
+	default:
+		rep.Write(stdout)
+	}
 	if !rep.OK() {
 		return fmt.Errorf("%d output(s) differ, %d section outcome(s) changed", len(rep.Differences), len(rep.Changes))
 	}
 	return nil
+}
+
+// displayPath returns path relative to the current folder when it lies
+// inside it, as the user would type it, else as it is.
+func displayPath(path string) string {
+	wd, err := os.Getwd()
+	if err != nil {
+		return path
+	}
+	abs, err := filepath.Abs(path)
+	if err != nil {
+		return path
+	}
+	if rel, err := filepath.Rel(wd, abs); err == nil && rel != ".." && !strings.HasPrefix(rel, ".."+string(filepath.Separator)) {
+		return rel
+	}
+	return path
+}
+
+// writeJSON writes v as indented JSON and a newline.
+func writeJSON(w io.Writer, v any) error {
+	b, err := json.MarshalIndent(v, "", "  ")
+	if err != nil {
+		return err
+	}
+	_, err = w.Write(append(b, '\n'))
+	return err
+}
+
+// The JSON forms of run's reports.
+type (
+	runSummaryJSON struct {
+		Folder    string           `json:"folder"`
+		Manifest  string           `json:"manifest"`
+		Cancelled bool             `json:"cancelled"`
+		Kept      bool             `json:"earlier_run_kept,omitempty"` // a replacement that did not succeed left the earlier run
+		Sections  []runSectionJSON `json:"sections"`
+		Counts    map[string]int   `json:"counts"`
+		Failed    []string         `json:"failed"`
+	}
+	runSectionJSON struct {
+		Name    string                 `json:"name"`
+		Status  string                 `json:"status"`
+		Error   string                 `json:"error,omitempty"`
+		Summary string                 `json:"summary,omitempty"`
+		Stages  []pipeline.StageReport `json:"stages"`
+	}
+	verifyReportJSON struct {
+		Manifest    string           `json:"manifest"`
+		Reproduced  bool             `json:"reproduced"`
+		Checked     int              `json:"checked"`
+		Differences []differenceJSON `json:"differences"`
+		Changes     []string         `json:"changes"`
+		Notes       []string         `json:"notes"`
+		Kept        string           `json:"kept,omitempty"`
+	}
+	differenceJSON struct {
+		Path   string `json:"path"`
+		Want   string `json:"want_sha256,omitempty"`
+		Got    string `json:"got_sha256,omitempty"`
+		OnDisk bool   `json:"on_disk"` // in the run folder; else in the re-run
+		Note   string `json:"note,omitempty"`
+	}
+	planReportJSON struct {
+		Name     string            `json:"name"`
+		Folder   string            `json:"folder"`
+		Sections []planSectionJSON `json:"sections"`
+		Stages   []planStageJSON   `json:"stages"`
+	}
+	planSectionJSON struct {
+		Name    string   `json:"name"`
+		Files   []string `json:"files"`
+		Station *float64 `json:"station,omitempty"`
+	}
+	planStageJSON struct {
+		ID    string   `json:"id"`
+		Stage string   `json:"stage"`
+		After []string `json:"after"`
+	}
+)
+
+func summaryJSON(s *pipeline.Summary) runSummaryJSON {
+	out := runSummaryJSON{Folder: s.Folder, Manifest: s.Manifest, Cancelled: s.Cancelled, Kept: s.Kept,
+		Sections: []runSectionJSON{}, Counts: map[string]int{}, Failed: []string{}}
+	for _, r := range s.Sections {
+		st := r.Stages
+		if st == nil {
+			st = []pipeline.StageReport{}
+		}
+		out.Sections = append(out.Sections, runSectionJSON{Name: r.Name, Status: r.Status, Error: r.Err, Summary: r.Summary, Stages: st})
+		out.Counts[r.Status]++
+	}
+	for _, r := range s.Failed() {
+		out.Failed = append(out.Failed, r.Name)
+	}
+	return out
+}
+
+func verifyJSON(r *pipeline.VerifyReport) verifyReportJSON {
+	out := verifyReportJSON{Manifest: r.Manifest, Reproduced: r.OK(), Checked: r.Checked, Kept: r.Folder,
+		Differences: []differenceJSON{}, Changes: append([]string{}, r.Changes...), Notes: append([]string{}, r.Notes...)}
+	for _, d := range r.Differences {
+		out.Differences = append(out.Differences, differenceJSON{Path: d.Path, Want: d.Want, Got: d.Got, OnDisk: d.OnDisk, Note: d.Note})
+	}
+	return out
+}
+
+func planJSON(pl *pipeline.Plan) planReportJSON {
+	out := planReportJSON{Name: pl.Pipeline.Name, Folder: pl.Pipeline.Folder(), Sections: []planSectionJSON{}, Stages: []planStageJSON{}}
+	for _, s := range pl.Sections {
+		out.Sections = append(out.Sections, planSectionJSON{Name: s.Name, Files: s.Files, Station: s.Station})
+	}
+	for _, st := range pl.Stages {
+		after := st.After
+		if after == nil {
+			after = []string{}
+		}
+		out.Stages = append(out.Stages, planStageJSON{ID: st.ID, Stage: st.Stage, After: after})
+	}
+	return out
 }
 
 // selfSHA256 returns the sha256 of the running executable, which serves the
@@ -155,8 +333,9 @@ func selfSHA256() (string, error) {
 	return host.FileSHA256(exe)
 }
 
-// progress shows sections done: a bar with rate and time left on a
-// terminal, one line per section otherwise, nothing when quiet.
+// progress shows sections done: a bar with the time per section and the
+// time left on a terminal, one line per section otherwise, nothing when
+// quiet.
 type progress struct {
 	mu    sync.Mutex
 	w     io.Writer
@@ -172,14 +351,15 @@ func newProgress(w io.Writer, total int, quiet bool) *progress {
 	if quiet {
 		return p
 	}
-	if f, ok := w.(*os.File); ok && term.IsTerminal(int(f.Fd())) {
+	if isTerminal(w) {
+		// The bar's own rate would divide by the few microseconds before
+		// the first section is done; rateText words the rate once it
+		// means something.
 		p.bar = progressbar.NewOptions(total,
 			progressbar.OptionSetWriter(w),
 			progressbar.OptionSetDescription("sections"),
 			progressbar.OptionShowCount(),
-			progressbar.OptionShowIts(),
-			progressbar.OptionSetItsString("section"),
-			progressbar.OptionSetPredictTime(true),
+			progressbar.OptionSetPredictTime(false),
 			progressbar.OptionClearOnFinish(),
 		)
 	}
@@ -193,17 +373,38 @@ func (p *progress) done(r pipeline.SectionReport) {
 	p.mu.Lock()
 	defer p.mu.Unlock()
 	p.count++
+	el := time.Since(p.start)
 	if p.bar != nil {
+		p.bar.Describe("sections" + rateText(p.count, p.total, el))
 		p.bar.Add(1)
 		return
 	}
-	el := time.Since(p.start)
-	left := time.Duration(float64(el) / float64(p.count) * float64(p.total-p.count))
-	fmt.Fprintf(p.w, "[%d/%d] %-9s %s (%.1f s elapsed, about %.0f s left)\n", p.count, p.total, r.Status, r.Name, el.Seconds(), left.Seconds())
+	fmt.Fprintf(p.w, "[%d/%d] %-9s %s (%.1f s elapsed%s)\n", p.count, p.total, r.Status, r.Name, el.Seconds(), leftText(p.count, p.total, el))
 }
 
 func (p *progress) finish() {
 	if p.bar != nil {
 		p.bar.Finish()
 	}
+}
+
+// rateText words the pace of a run for the progress bar: the time per
+// section and the time left, once two sections are done and a second has
+// passed (before that a rate is noise); "" until then.
+func rateText(done, total int, elapsed time.Duration) string {
+	if done < 2 || elapsed < time.Second {
+		return ""
+	}
+	per := elapsed.Seconds() / float64(done)
+	return fmt.Sprintf(" (%.1f s each%s)", per, leftText(done, total, elapsed))
+}
+
+// leftText words the time left, as ", about N s left", once a section is
+// done and while some are left; "" otherwise.
+func leftText(done, total int, elapsed time.Duration) string {
+	if done < 1 || done >= total {
+		return ""
+	}
+	left := elapsed.Seconds() / float64(done) * float64(total-done)
+	return fmt.Sprintf(", about %.0f s left", left)
 }

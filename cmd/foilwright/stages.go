@@ -1,6 +1,8 @@
 package main
 
 import (
+	"github.com/foilwright/foilwright/internal/limits"
+
 	"context"
 	"encoding/json"
 	"fmt"
@@ -19,6 +21,7 @@ import (
 func newStagesCmd() *cobra.Command {
 	var pipe string
 	var hf hostFlags
+	var asJSON, quiet bool
 	cmd := &cobra.Command{
 		Use:   "stages [--pipeline FILE]",
 		Short: "List the built-in analysis stages, or those a pipeline file configures",
@@ -26,43 +29,58 @@ func newStagesCmd() *cobra.Command {
 process; "stages describe" shows a stage's parameters, their defaults and ranges.
 With --pipeline it lists the stages a pipeline file configures instead: each
 id, what runs it (a built-in, or an external executable, started to ask its
-name and version, and checked against its sha256 pin), and what it runs after.`,
+name and version, and checked against its sha256 pin), and what it runs after.
+With -q it prints nothing: the exit status says whether every stage answered.`,
 		Args:    cobra.NoArgs,
 		Example: "  foilwright stages\n  foilwright stages --pipeline examples/rotor/pipeline.json\n  foilwright stages describe vortex-panel",
 		RunE: func(cmd *cobra.Command, args []string) error {
-			if pipe != "" {
-				return listPipelineStages(cmd.Context(), cmd.OutOrStdout(), cmd.ErrOrStderr(), pipe, hf)
+			w := cmd.OutOrStdout()
+			if quiet {
+				w = io.Discard
 			}
-			return listStages(cmd.Context(), cmd.OutOrStdout())
+			if pipe != "" {
+				return listPipelineStages(cmd.Context(), w, cmd.ErrOrStderr(), pipe, hf, asJSON)
+			}
+			return listStages(cmd.Context(), w, asJSON)
 		},
 	}
 	cmd.Flags().StringVar(&pipe, "pipeline", "", "list the stages this pipeline file configures")
+	cmd.MarkFlagFilename("pipeline", "json")
+	jsonFlag(cmd, &asJSON, "print the list as JSON")
+	quietFlag(cmd, &quiet, "print nothing; the exit status says whether every stage answered")
 	hf.register(cmd)
 	cmd.AddCommand(newStagesDescribeCmd())
 	return cmd
 }
 
+// stageEntryJSON is one stage of the list stages --json prints.
+type stageEntryJSON struct {
+	ID      string   `json:"id,omitempty"`
+	Name    string   `json:"name"`
+	Version string   `json:"version"`
+	Summary string   `json:"summary,omitempty"`
+	RunBy   string   `json:"run_by,omitempty"`
+	Pinned  bool     `json:"sha256_pinned,omitempty"`
+	After   []string `json:"after,omitempty"`
+}
+
 // listPipelineStages lists the stages of a pipeline file, starting each
 // external one to ask for its name and version.
-func listPipelineStages(ctx context.Context, w, stderr io.Writer, path string, hf hostFlags) error {
+func listPipelineStages(ctx context.Context, w, stderr io.Writer, path string, hf hostFlags, asJSON bool) error {
 	p, err := pipeline.Load(path, known)
 	if err != nil {
 		return badInput(err)
 	}
-	h, err := hf.newHost(stderr)
+	h, err := hf.newHost(stderr, limits.Default())
 	if err != nil {
 		return err
 	}
 	defer h.Close()
-	tw := tabwriter.NewWriter(w, 0, 4, 2, ' ', 0)
-	fmt.Fprintln(tw, "ID\tSTAGE\tVERSION\tRUN BY\tAFTER")
+	list := []stageEntryJSON{}
 	for _, st := range p.Plan().Stages {
 		spec, by := host.Builtin(st.Stage), "built-in"
 		if st.Exec != "" {
 			spec, by = host.Spec{Path: st.Exec, SHA256: st.SHA256}, st.Stage
-			if st.SHA256 != "" {
-				by += " (sha256 pinned)"
-			}
 		}
 		r := h.Runner(spec)
 		info, err := r.Describe(ctx)
@@ -70,31 +88,51 @@ func listPipelineStages(ctx context.Context, w, stderr io.Writer, path string, h
 		if err != nil {
 			return stageError(err)
 		}
-		after := strings.Join(st.After, ", ")
+		list = append(list, stageEntryJSON{ID: st.ID, Name: info.Name, Version: info.Version, RunBy: by, Pinned: st.SHA256 != "", After: st.After})
+	}
+	if asJSON {
+		return writeJSON(w, list)
+	}
+	tw := tabwriter.NewWriter(w, 0, 4, 2, ' ', 0)
+	fmt.Fprintln(tw, "ID\tSTAGE\tVERSION\tRUN BY\tAFTER")
+	for _, e := range list {
+		by := e.RunBy
+		if e.Pinned {
+			by += " (sha256 pinned)"
+		}
+		after := strings.Join(e.After, ", ")
 		if after == "" {
 			after = "-"
 		}
-		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\n", st.ID, info.Name, info.Version, by, after)
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\n", e.ID, e.Name, e.Version, by, after)
 	}
 	return tw.Flush()
 }
 
-func listStages(ctx context.Context, w io.Writer) error {
-	tw := tabwriter.NewWriter(w, 0, 4, 2, ' ', 0)
-	fmt.Fprintln(tw, "STAGE\tVERSION\tSUMMARY")
+func listStages(ctx context.Context, w io.Writer, asJSON bool) error {
+	list := []stageEntryJSON{}
 	for _, name := range builtin.Names() {
 		s, _ := builtin.Lookup(name)
 		info, err := s.Describe(ctx)
 		if err != nil {
 			return err
 		}
-		fmt.Fprintf(tw, "%s\t%s\t%s\n", info.Name, info.Version, info.Summary)
+		list = append(list, stageEntryJSON{Name: info.Name, Version: info.Version, Summary: info.Summary})
+	}
+	if asJSON {
+		return writeJSON(w, list)
+	}
+	tw := tabwriter.NewWriter(w, 0, 4, 2, ' ', 0)
+	fmt.Fprintln(tw, "STAGE\tVERSION\tSUMMARY")
+	for _, e := range list {
+		fmt.Fprintf(tw, "%s\t%s\t%s\n", e.Name, e.Version, e.Summary)
 	}
 	return tw.Flush()
 }
 
 type describeOptions struct {
 	json   bool
+	quiet  bool
 	sha256 string
 	host   hostFlags
 }
@@ -111,14 +149,20 @@ stage executable.`,
 		Args:    cobra.ExactArgs(1),
 		Example: "  foilwright stages describe thin-aerofoil\n  foilwright stages describe ./my-stage --sha256 3f1c...",
 		ValidArgsFunction: func(*cobra.Command, []string, string) ([]string, cobra.ShellCompDirective) {
-			return builtin.Names(), cobra.ShellCompDirectiveNoFileComp
+			return builtin.Names(), cobra.ShellCompDirectiveDefault // a built-in name, or a path
 		},
 		RunE: func(cmd *cobra.Command, args []string) error {
-			return describeStage(cmd.Context(), cmd.OutOrStdout(), cmd.ErrOrStderr(), args[0], opts)
+			w := cmd.OutOrStdout()
+			if opts.quiet {
+				w = io.Discard
+			}
+			return describeStage(cmd.Context(), w, cmd.ErrOrStderr(), args[0], opts)
 		},
 	}
-	cmd.Flags().BoolVar(&opts.json, "json", false, "print the description as JSON")
+	jsonFlag(cmd, &opts.json, "print the description as JSON")
+	quietFlag(cmd, &opts.quiet, "print nothing; the exit status says whether the stage started and answered")
 	cmd.Flags().StringVar(&opts.sha256, "sha256", "", "hex sha256 the external stage executable must have")
+	cmd.RegisterFlagCompletionFunc("sha256", noFiles)
 	opts.host.register(cmd)
 	return cmd
 }
@@ -143,7 +187,7 @@ func describeStage(ctx context.Context, stdout, stderr io.Writer, name string, o
 	if err != nil {
 		return err
 	}
-	h, err := opts.host.newHost(stderr)
+	h, err := opts.host.newHost(stderr, limits.Default())
 	if err != nil {
 		return err
 	}
@@ -162,6 +206,9 @@ func writeInfo(w io.Writer, info stage.Info) error {
 	fmt.Fprintf(w, "%s %s\n%s\n", info.Name, info.Version, info.Summary)
 	if info.MaxConcurrency > 0 {
 		fmt.Fprintf(w, "serves at most %d call(s) at once per process\n", info.MaxConcurrency)
+	}
+	if info.MaxNodes > 0 {
+		fmt.Fprintf(w, "takes sections of at most %d nodes\n", info.MaxNodes)
 	}
 	fmt.Fprintln(w, "\nPARAMETERS")
 	tw := tabwriter.NewWriter(w, 0, 4, 2, ' ', 0)

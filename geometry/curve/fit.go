@@ -39,11 +39,18 @@ type FitOptions struct {
 	// Tolerance lists the points farther than this from the curve, in input
 	// units, in FitReport.Beyond; they are not moved. Zero means 4 times the
 	// larger of Noise (or the scatter, when it replaced cross-validation)
-	// and the RMS residual; with Exact and Tolerance 0 nothing is listed.
+	// and the RMS residual, but at least ToleranceFloor of the contour's
+	// perimeter; with Exact and Tolerance 0 nothing is listed.
 	Tolerance float64
 	// Ends is FitEndsAuto (default), FitEndsClosed or FitEndsOpen.
 	Ends string
 }
+
+// ToleranceFloor is the smallest automatic FitOptions.Tolerance, as a
+// fraction of the contour's perimeter: on noise-free data (a CAD export)
+// the residuals are round-off, and a tolerance of four times their RMS
+// would list points a fraction of a nanometre off the curve.
+const ToleranceFloor = 1e-6
 
 // SetNoise sets the smoothing from a user value: "auto" (or "") for
 // generalised cross-validation, "0" for exact interpolation, or a positive
@@ -522,12 +529,17 @@ func Fit(c *geometry.Contour, opts FitOptions) (*Curve, *FitReport, error) {
 			rep.NoiseEstimate = robustSigma(rep.Residual)
 		}
 		rep.Tolerance = opts.Tolerance
+		if rep.Tolerance == 0 && st.exact && !opts.Exact {
+			// Exact samples, found so: a floor, as for any automatic
+			// tolerance.
+			rep.Tolerance = ToleranceFloor * perim
+		}
 		if rep.Tolerance == 0 && !st.exact {
 			noise := opts.Noise
 			if noise == 0 {
 				noise = rep.NoiseEstimate
 			}
-			rep.Tolerance = 4 * math.Max(noise, rep.RMS)
+			rep.Tolerance = math.Max(4*math.Max(noise, rep.RMS), ToleranceFloor*perim)
 		}
 		if st.exact || rep.Tolerance == 0 || round == robustRounds {
 			break
@@ -707,7 +719,11 @@ func finishReport(c *geometry.Contour, opts FitOptions, n int, rep *FitReport) {
 	}
 	rep.Warnings = ws2
 	if len(rep.Beyond) > 0 {
-		rep.Warnings = append(rep.Warnings, fmt.Sprintf("%d point(s) farther than %.3g from the curve (worst %.3g at %s)", len(rep.Beyond), rep.Tolerance, rep.Max, rep.MaxAt))
+		unit := string(c.Units)
+		if c.Units == geometry.ChordUnit {
+			unit = "c"
+		}
+		rep.Warnings = append(rep.Warnings, strings.TrimSpace(fmt.Sprintf("%d point(s) farther than %.3g %s from the curve (worst %.3g %s at %s)", len(rep.Beyond), rep.Tolerance, unit, rep.Max, unit, rep.MaxAt)))
 	}
 }
 

@@ -21,12 +21,17 @@ const (
 // Trailing-edge treatments (Options.TE) and what was done
 // (TrailingEdge.Action).
 const (
-	TEAuto      = "auto"    // keep every edge as found (see Options.TE)
-	TEKeep      = "keep"    // leave the edge as it is
-	TEClose     = "close"   // close a blunt edge by blending its thickness away
-	TESharpen   = "sharpen" // extend both surfaces to their intersection
+	TEAuto    = "auto"    // keep every edge as found (see Options.TE)
+	TEKeep    = "keep"    // leave the edge as it is
+	TESharpen = "sharpen" // extend both surfaces to their intersection
+	// TEClose is the earlier name of a reshape to zero thickness over an
+	// aft fraction of the chord (Options.Blend); Normalize still accepts
+	// it, but Treatments no longer lists it.
+	TEClose     = "close"
 	TEKept      = "kept"
-	TEClosed    = "closed"
+	TEClosed    = "closed"    // reshaped to zero thickness
+	TEThinned   = "thinned"   // reshaped to a smaller thickness
+	TEThickened = "thickened" // reshaped to a larger thickness
 	TESharpened = "sharpened"
 )
 
@@ -44,7 +49,6 @@ func Treatments() []enum.Choice {
 	return []enum.Choice{
 		{Name: TEAuto, Doc: "keep it as found and report it"},
 		{Name: TEKeep},
-		{Name: TEClose, Doc: "blend a blunt edge shut"},
 		{Name: TESharpen, Doc: "extend the surfaces of a rounded edge to their intersection"},
 	}
 }
@@ -60,9 +64,14 @@ const (
 	// EdgeSharpGap is the largest distance between the curve ends for which
 	// they count as meeting (a sharp trailing edge).
 	EdgeSharpGap = 1e-4
-	// EdgeDefaultBlend is the aft chord fraction over which a blunt edge is
-	// closed when Options.Blend is 0.
+	// EdgeDefaultBlend is the length ahead of the trailing edge, as a
+	// fraction of the chord, over which a reshaped edge blends into the
+	// surfaces when Options.BlendLength is zero.
 	EdgeDefaultBlend = 0.1
+	// EdgeMaxReshape is the largest trailing-edge thickness a reshape may
+	// give, as a fraction of the chord (a thicker base is no longer a
+	// trailing edge; see the blunt kind).
+	EdgeMaxReshape = 0.1
 	// EdgeMaxWidth is the largest width of the body across its chord line,
 	// as a fraction of the chord, for which it counts as a section with an
 	// identifiable leading edge.
@@ -91,7 +100,8 @@ var ErrTrailingEdge = errors.New("cannot treat the trailing edge")
 // automatically, keeps the trailing edge as found (sharp, blunt, open or
 // rounded), and mirrors when the camber says the section is upside down.
 type Options struct {
-	// TE is TEAuto (or ""), TEKeep, TEClose or TESharpen. TEAuto keeps
+	// TE is TEAuto (or ""), TEKeep or TESharpen (or the earlier TEClose;
+	// see Thickness for a reshape). TEAuto keeps
 	// every edge: a rounded end is the shape of the part (a printed or worn
 	// edge), and sharpening it adds material that is not there, about
 	// r/sin(θ/2) − r behind the tip for radius r and included angle θ
@@ -101,8 +111,23 @@ type Options struct {
 	// angle of the surfaces just ahead of it) and says in a warning how far
 	// sharpening would move the tip; TESharpen is the explicit request.
 	TE string
-	// Blend is the aft chord fraction over which TEClose blends a blunt
-	// edge's thickness away; 0 means EdgeDefaultBlend. It must lie in (0, 1).
+	// Thickness, when set, reshapes a sharp, blunt or open edge to this
+	// thickness: the surfaces within BlendLength of the edge move, smoothly
+	// and more the nearer the edge, until their ends lie Thickness apart,
+	// symmetrically about the trailing-edge midpoint (which stays, so the
+	// chord and twist do not change) along the base of a blunt edge, or
+	// across the chord line at a sharp one. The length is in input units,
+	// or in chord units when its Unit is geometry.ChordUnit; it must lie in
+	// [0, EdgeMaxReshape chord). TE must then be TEAuto or "". A rounded
+	// edge cannot be reshaped (sharpen it, or keep it).
+	Thickness *geometry.Length
+	// BlendLength is the length along the chord line, ahead of the
+	// trailing edge, over which a reshape blends into the surfaces (input
+	// or chord units, as Thickness); zero means EdgeDefaultBlend chord. It
+	// must lie in (0, 1) chord.
+	BlendLength geometry.Length
+	// Blend is the aft chord fraction of the earlier TEClose, used when
+	// BlendLength is zero; 0 means EdgeDefaultBlend. It must lie in [0, 1).
 	Blend float64
 	// LEAt, when set, places the leading edge at the curve point nearest to
 	// it (input coordinates) instead of the point farthest from the
@@ -231,9 +256,23 @@ func treat(cv *curve.Curve, e *edges, opts Options, warn func(string)) (*curve.C
 	if mode == "" || mode == TEAuto {
 		mode = TEKeep
 	}
+	thickness, blend, reshape, err := reshapeOf(e, opts)
+	if err != nil {
+		return nil, "", 0, err
+	}
+	if reshape {
+		mode = TEClose
+	}
 	switch e.kind {
 	case TESharp:
-		if mode != TEKeep {
+		if mode == TEClose && thickness > 0 {
+			out, shift := reshapeEdge(cv, e, thickness, blend)
+			return out, TEThickened, shift, nil
+		}
+		switch {
+		case mode == TEClose:
+			warn("trailing edge is already sharp; reshaping it to zero thickness changes nothing")
+		case mode != TEKeep:
 			warn(fmt.Sprintf("trailing edge is already sharp; %q changes nothing", mode))
 		}
 		out, shift := cv.SnapEnds()
@@ -252,7 +291,7 @@ func treat(cv *curve.Curve, e *edges, opts Options, warn func(string)) (*curve.C
 		case TESharpen:
 			return sharpenRounded(cv, e)
 		default:
-			return nil, "", 0, fmt.Errorf("geometry: %w: %q applies to a blunt edge, this one is rounded (use sharpen or keep)", ErrTrailingEdge, mode)
+			return nil, "", 0, fmt.Errorf("geometry: %w: a rounded edge cannot be reshaped to a thickness (use sharpen or keep)", ErrTrailingEdge)
 		}
 	default: // blunt, open
 		if e.kind == TEOpen {
@@ -262,34 +301,77 @@ func treat(cv *curve.Curve, e *edges, opts Options, warn func(string)) (*curve.C
 		case TEKeep:
 			return cv, TEKept, 0, nil
 		case TEClose:
-			b := opts.Blend
-			if b == 0 {
-				b = EdgeDefaultBlend
+			out, shift := reshapeEdge(cv, e, thickness, blend)
+			action := TEClosed
+			switch {
+			case thickness > e.gap:
+				action = TEThickened
+			case thickness > 0:
+				action = TEThinned
 			}
-			out, shift := closeBlunt(cv, e, b)
-			return out, TEClosed, shift, nil
+			return out, action, shift, nil
 		default:
 			return extend(cv, e)
 		}
 	}
 }
 
-// closeBlunt blends the thickness of a blunt edge away over the aft fraction
-// blend of the chord: a point of the upper surface at chord station ξ moves
-// by f(r)·(M − U), where U is the upper corner, M the midpoint of the
-// corners, r runs from 0 at ξ = 1 − blend to 1 at the corner and
-// f(r) = r³(10 − 15r + 6r²) keeps the curvature continuous; the lower
-// surface likewise. The treated outline is resampled (every piece in the
-// blend region split in eight) and interpolated.
-func closeBlunt(cv *curve.Curve, e *edges, blend float64) (*curve.Curve, float64) {
+// reshapeOf returns the thickness and blend (input units) of a reshape
+// that opts ask for, and whether they ask for one: Thickness set, or the
+// earlier TEClose (thickness 0).
+func reshapeOf(e *edges, opts Options) (thickness, blend float64, reshape bool, err error) {
+	if opts.Thickness == nil && opts.TE != TEClose {
+		return 0, 0, false, nil
+	}
+	if opts.Thickness != nil {
+		if opts.TE != "" && opts.TE != TEAuto && opts.TE != TEClose {
+			return 0, 0, false, fmt.Errorf("geometry: %w: a thickness and %q both given", ErrTrailingEdge, opts.TE)
+		}
+		thickness = opts.Thickness.Of(e.chord)
+	}
+	if !(thickness >= 0 && thickness < EdgeMaxReshape*e.chord) {
+		return 0, 0, false, fmt.Errorf("geometry: %w: thickness %.4g (%.4g chord), want at least 0 and less than %g chord", ErrTrailingEdge, thickness, thickness/e.chord, EdgeMaxReshape)
+	}
+	blend = opts.BlendLength.Of(e.chord)
+	if blend == 0 {
+		b := opts.Blend
+		if b == 0 {
+			b = EdgeDefaultBlend
+		}
+		blend = b * e.chord
+	}
+	if !(blend > 0 && blend < e.chord) {
+		return 0, 0, false, fmt.Errorf("geometry: %w: blend length %.4g (%.4g chord), want more than 0 and less than the chord", ErrTrailingEdge, blend, blend/e.chord)
+	}
+	return thickness, blend, true, nil
+}
+
+// reshapeEdge gives a sharp, blunt or open edge the thickness t (input
+// units), blending the change into the surfaces over the length blend
+// ahead of the edge. The target corners are M ± (t/2)·b̂, with M the
+// trailing-edge midpoint and b̂ the direction of the base from the lower to
+// the upper corner (the chord normal at a sharp edge). A point of the upper
+// surface at chord station ξ moves by f(r)·(U′ − U), where U is the upper
+// corner and U′ its target, r runs from 0 at ξ = 1 − blend/c to 1 at the
+// corner and f(r) = r³(10 − 15r + 6r²) keeps the curvature continuous; the
+// lower surface likewise. The treated outline is resampled (every piece in
+// the blend region split in eight) and interpolated: closed when t is 0,
+// else open with its ends at the new corners. The shift returned is the
+// largest any point moves, |g − t|/2 for a base of length g.
+func reshapeEdge(cv *curve.Curve, e *edges, t, blend float64) (*curve.Curve, float64) {
 	u, l := cv.Start(), cv.End()
 	dir := e.te.Sub(e.le).Scale(1 / e.chord)
+	base := geometry.Point{X: -dir.Y, Y: dir.X}
+	if g := u.Sub(l); e.kind != TESharp && g.Norm() > 0 {
+		base = g.Scale(1 / g.Norm())
+	}
+	targetU, targetL := e.te.Add(base.Scale(t/2)), e.te.Sub(base.Scale(t/2))
 	xi := func(p geometry.Point) float64 { return p.Sub(e.le).Dot(dir) / e.chord }
-	x0 := 1 - blend
+	x0 := 1 - blend/e.chord
 	shift := func(p geometry.Point, upper bool) geometry.Point {
-		corner := l
+		corner, target := l, targetL
 		if upper {
-			corner = u
+			corner, target = u, targetU
 		}
 		end := xi(corner)
 		if end <= x0 {
@@ -297,7 +379,7 @@ func closeBlunt(cv *curve.Curve, e *edges, blend float64) (*curve.Curve, float64
 		}
 		r := math.Max(0, math.Min(1, (xi(p)-x0)/(end-x0)))
 		f := r * r * r * (10 - 15*r + 6*r*r)
-		return p.Add(e.te.Sub(corner).Scale(f))
+		return p.Add(target.Sub(corner).Scale(f))
 	}
 	var pts []geometry.Point
 	for i := 0; i < cv.Pieces(); i++ {
@@ -314,9 +396,14 @@ func closeBlunt(cv *curve.Curve, e *edges, blend float64) (*curve.Curve, float64
 			pts = append(pts, shift(q, cv.PieceStart(i) < e.sLE))
 		}
 	}
-	pts = append(pts, e.te)
-	pts[0] = e.te
-	return curve.Interpolate(pts, false).WithClosed(true), e.gap / 2
+	if t == 0 {
+		pts = append(pts, e.te)
+		pts[0] = e.te
+		return curve.Interpolate(pts, false).WithClosed(true), e.gap / 2
+	}
+	pts = append(pts, targetL)
+	pts[0] = targetU
+	return curve.Interpolate(pts, false), math.Abs(e.gap-t) / 2
 }
 
 // meet returns the intersection of the lines p − a·tp and q + b·tq
@@ -343,7 +430,7 @@ func extend(cv *curve.Curve, e *edges) (*curve.Curve, string, float64, error) {
 	u, l := cv.Start(), cv.End()
 	pt, ok := meet(u, cv.Tangent(0), l, cv.Tangent(cv.Length()), 0.5*e.chord)
 	if !ok {
-		return nil, "", 0, fmt.Errorf("geometry: %w: the surfaces do not converge behind the trailing edge, so they cannot be extended to a point (use keep or close)", ErrTrailingEdge)
+		return nil, "", 0, fmt.Errorf("geometry: %w: the surfaces do not converge behind the trailing edge, so they cannot be extended to a point (keep it, or reshape it to a thickness)", ErrTrailingEdge)
 	}
 	var b curve.Builder
 	b.AddLine(pt, u)

@@ -26,9 +26,15 @@ type Frame struct {
 // TrailingEdge reports the kind of trailing edge found and what was done to it.
 type TrailingEdge struct {
 	Kind      string  `json:"kind"`      // sharp | blunt | rounded | open
-	Thickness float64 `json:"thickness"` // chord units
-	Action    string  `json:"action"`    // kept | closed | sharpened
+	Thickness float64 `json:"thickness"` // as found, chord units
+	Action    string  `json:"action"`    // kept | closed | thinned | thickened | sharpened
 	MaxShift  float64 `json:"max_shift"` // input units
+	// Target is the thickness a reshape gave the edge (chord units); nil
+	// when it was not reshaped.
+	Target *float64 `json:"target_thickness,omitempty"`
+	// Blend is the length ahead of the edge over which a reshape blended
+	// into the surfaces (chord units); 0 when it was not reshaped.
+	Blend float64 `json:"blend_length,omitempty"`
 }
 
 // matrix returns the linear part of ToChord: R(τ)·M/c, with M the
@@ -84,6 +90,9 @@ func fromEdges(le, te geometry.Point, mirrored bool) Frame {
 		d.X = -d.X
 	}
 	tw := -math.Atan2(d.Y, d.X) * 180 / math.Pi
+	if tw <= -180 { // twist in (−180°, 180°]
+		tw += 360
+	}
 	return Frame{Chord: te.Dist(le), TwistDeg: tw, LE: [2]float64{le.X, le.Y}, Mirrored: mirrored}
 }
 
@@ -137,7 +146,7 @@ type Normalized struct {
 // distinct nose and tail (a circle, a square), and ErrTrailingEdge when the
 // requested treatment cannot be applied.
 func Normalize(cv *curve.Curve, opts Options) (*Normalized, error) {
-	if opts.TE != "" && !enum.Has(Treatments(), opts.TE) {
+	if opts.TE != "" && opts.TE != TEClose && !enum.Has(Treatments(), opts.TE) {
 		return nil, fmt.Errorf("geometry: trailing-edge treatment %q: want %s", opts.TE, enum.Or(enum.Names(Treatments())...))
 	}
 	if opts.Mirror != "" && !enum.Has(MirrorModes(), opts.Mirror) {
@@ -160,6 +169,10 @@ func Normalize(cv *curve.Curve, opts Options) (*Normalized, error) {
 		return nil, err
 	}
 	out.TE = TrailingEdge{Kind: e.kind, Action: action, MaxShift: shift}
+	if t, b, reshaped, _ := reshapeOf(e, opts); reshaped && action != TEKept {
+		t /= e.chord
+		out.TE.Target, out.TE.Blend = &t, b/e.chord
+	}
 	switch {
 	case e.kind == TEBlunt || e.kind == TEOpen:
 		out.TE.Thickness = e.gap / e.chord

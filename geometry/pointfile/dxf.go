@@ -16,7 +16,8 @@ import (
 // when it has none). Polylines and splines give ordered runs; LINE entities
 // that meet end to end are joined into runs. The HEADER variable $INSUNITS
 // gives the unit. Entity types foilwright cannot use (CIRCLE, TEXT, ...) are
-// counted in a Note.
+// counted in a Note. With a layer named, entities on other layers are
+// passed over and counted in a Note.
 
 // dxfPair is one group code and its value; line is the value's line.
 type dxfPair struct {
@@ -102,15 +103,19 @@ type dxfReader struct {
 	ignored map[string]int
 	notes   geometry.Notes
 	unit    statedUnit
+	layer   string         // the layer to read, "" for all
+	layers  map[string]int // entities per layer passed over
+	matched int            // entities on the layer read
 }
 
-// readDXF reads an ASCII DXF file.
-func readDXF(s, file string) (*geometry.Cloud, statedUnit, error) {
+// readDXF reads an ASCII DXF file: the entities on layer, or all of them
+// when layer is "".
+func readDXF(s, file, layer string) (*geometry.Cloud, statedUnit, error) {
 	pairs, err := dxfPairs(s, file)
 	if err != nil {
 		return nil, statedUnit{}, err
 	}
-	d := &dxfReader{file: file, ignored: map[string]int{}}
+	d := &dxfReader{file: file, ignored: map[string]int{}, layer: layer, layers: map[string]int{}}
 	section := ""
 	ent := 0
 	for i := 0; i < len(pairs); {
@@ -147,6 +152,14 @@ func readDXF(s, file string) (*geometry.Cloud, statedUnit, error) {
 			continue
 		}
 		ent++
+		if name, ok := d.otherLayer(pairs[i:j]); ok {
+			if p.value == "POLYLINE" {
+				j = dxfSkipVertices(pairs, j)
+			}
+			d.layers[name]++
+			i = j
+			continue
+		}
 		switch p.value {
 		case "POINT":
 			err = d.point(pairs[i:j], ent)
@@ -167,7 +180,63 @@ func readDXF(s, file string) (*geometry.Cloud, statedUnit, error) {
 		i = j
 	}
 	d.chainLines()
+	if d.layer != "" {
+		if err := d.layerNote(); err != nil {
+			return nil, d.unit, err
+		}
+	}
 	return d.cloud()
+}
+
+// otherLayer reports whether the entity at pairs is on a layer other than
+// the one to read, and its layer.
+func (d *dxfReader) otherLayer(pairs []dxfPair) (string, bool) {
+	if d.layer == "" {
+		return "", false
+	}
+	name := "0" // the layer of an entity that names none
+	for _, p := range pairs {
+		if p.code == 8 {
+			name = p.value
+			break
+		}
+	}
+	if strings.EqualFold(name, d.layer) {
+		d.matched++
+		return name, false
+	}
+	return name, true
+}
+
+// layerNote notes the entities passed over on other layers, or returns
+// an error when none was on the layer to read.
+func (d *dxfReader) layerNote() error {
+	names := make([]string, 0, len(d.layers))
+	for n := range d.layers {
+		names = append(names, n)
+	}
+	sort.Strings(names)
+	if d.matched == 0 {
+		return &geometry.ParseError{File: d.file, Err: fmt.Errorf("%w on layer %q (layers with entities: %s)", ErrNoEntities, d.layer, strings.Join(names, ", "))}
+	}
+	for _, n := range names {
+		d.notes.Add(d.file, 0, fmt.Sprintf("%d entit%s on layer %q not read", d.layers[n], map[bool]string{true: "y", false: "ies"}[d.layers[n] == 1], n), "")
+	}
+	return nil
+}
+
+// dxfSkipVertices returns the index after the VERTEX entities and the
+// SEQEND that follow a POLYLINE whose header ends at j.
+func dxfSkipVertices(pairs []dxfPair, j int) int {
+	for j < len(pairs) && pairs[j].code == 0 && pairs[j].value == "VERTEX" {
+		for j++; j < len(pairs) && pairs[j].code != 0; j++ {
+		}
+	}
+	if j < len(pairs) && pairs[j].code == 0 && pairs[j].value == "SEQEND" {
+		for j++; j < len(pairs) && pairs[j].code != 0; j++ {
+		}
+	}
+	return j
 }
 
 // insUnits reads the value pair of $INSUNITS.
@@ -215,8 +284,14 @@ func (d *dxfReader) number(p dxfPair) (float64, error) {
 
 // coords collects points whose x group is base (10 or 11): each x value
 // starts a point, the y and z groups (base+10, base+20) fill it in. line is
-// the line of the x value.
+// the line of the x value. A point without its y, or a y or z without an x
+// before it, is an error naming the line (a missing y once read as 0); a
+// missing z is 0 (a 2D point).
 func (d *dxfReader) coords(pairs []dxfPair, base int) (pts []geometry.Vec3, lines []int, err error) {
+	hasY := true
+	missingY := func(i int) error {
+		return &geometry.ParseError{File: d.file, Line: lines[i], Err: fmt.Errorf("%w: group %d (x) without its y (group %d)", ErrFormat, base, base+10)}
+	}
 	for _, p := range pairs {
 		switch p.code {
 		case base, base + 10, base + 20:
@@ -229,17 +304,25 @@ func (d *dxfReader) coords(pairs []dxfPair, base int) (pts []geometry.Vec3, line
 		}
 		switch p.code {
 		case base:
+			if !hasY {
+				return nil, nil, missingY(len(pts) - 1)
+			}
 			pts = append(pts, geometry.Vec3{X: v})
 			lines = append(lines, p.line)
-		case base + 10:
-			if len(pts) > 0 {
-				pts[len(pts)-1].Y = v
+			hasY = false
+		case base + 10, base + 20:
+			if len(pts) == 0 {
+				return nil, nil, &geometry.ParseError{File: d.file, Line: p.line, Err: fmt.Errorf("%w: group %d without an x (group %d) before it", ErrFormat, p.code, base)}
 			}
-		case base + 20:
-			if len(pts) > 0 {
+			if p.code == base+10 {
+				pts[len(pts)-1].Y, hasY = v, true
+			} else {
 				pts[len(pts)-1].Z = v
 			}
 		}
+	}
+	if !hasY {
+		return nil, nil, missingY(len(pts) - 1)
 	}
 	return pts, lines, nil
 }
@@ -294,8 +377,11 @@ func (d *dxfReader) ocs(pairs []dxfPair) (func(geometry.Vec3) geometry.Vec3, err
 
 func (d *dxfReader) point(pairs []dxfPair, ent int) error {
 	pts, lines, err := d.coords(pairs, 10)
-	if err != nil || len(pts) == 0 {
+	if err != nil {
 		return err
+	}
+	if len(pts) == 0 {
+		return &geometry.ParseError{File: d.file, Line: pairs[0].line, Err: fmt.Errorf("%w: POINT entity %d without coordinates (groups 10, 20)", ErrFormat, ent)}
 	}
 	d.loose = append(d.loose, pts[0])
 	d.looseAt = append(d.looseAt, geometry.Origin{File: d.file, Line: lines[0], Entity: ent})
@@ -308,8 +394,11 @@ func (d *dxfReader) line(pairs []dxfPair, ent int) error {
 		return err
 	}
 	b, lb, err := d.coords(pairs, 11)
-	if err != nil || len(a) == 0 || len(b) == 0 {
+	if err != nil {
 		return err
+	}
+	if len(a) == 0 || len(b) == 0 {
+		return &geometry.ParseError{File: d.file, Line: pairs[0].line, Err: fmt.Errorf("%w: LINE entity %d without its start (group 10) or end (group 11)", ErrFormat, ent)}
 	}
 	d.lines = append(d.lines, dxfLine{a: a[0], b: b[0], la: la[0], lb: lb[0], ent: ent})
 	return nil

@@ -22,6 +22,12 @@ import (
 // listing is turned around: upper surface reversed (trailing edge to leading
 // edge), then the lower surface without repeating the shared leading-edge
 // point.
+//
+// Both are by convention normalised to unit chord. A listing whose points
+// run in x from 0 to 1 (within ListingChordTol), with a point at the
+// origin, is read in chord units (the cloud's Units say so): the node
+// listings foilwright writes read back without a unit given. Any other
+// listing states no unit.
 
 // listingPair is one coordinate line of a listing.
 type listingPair struct {
@@ -220,7 +226,27 @@ func readLoop(s, file string) (*geometry.Cloud, statedUnit, error) {
 	if err != nil {
 		return nil, statedUnit{}, err
 	}
-	return listingCloud(sc, file, FormatLoop, pairs), statedUnit{}, nil
+	c := listingCloud(sc, file, FormatLoop, pairs)
+	return c, listingUnit(c), nil
+}
+
+// ListingChordTol is how near 0 and 1 the smallest and largest x of a
+// coordinate listing, and how near the origin its nearest point, must lie
+// for the listing to be read in chord units.
+const ListingChordTol = 1e-6
+
+// listingUnit returns chord units for a listing normalised to unit chord
+// (see the top of this file); no unit otherwise.
+func listingUnit(c *geometry.Cloud) statedUnit {
+	lo, hi, origin := math.Inf(1), math.Inf(-1), math.Inf(1)
+	for _, p := range c.Points {
+		lo, hi = math.Min(lo, p.X), math.Max(hi, p.X)
+		origin = math.Min(origin, math.Hypot(p.X, p.Y))
+	}
+	if math.Abs(lo) > ListingChordTol || math.Abs(hi-1) > ListingChordTol || origin > ListingChordTol {
+		return statedUnit{}
+	}
+	return statedUnit{unit: geometry.ChordUnit}
 }
 
 // readSurfaces reads a surfaces listing and turns it into one loop.
@@ -256,5 +282,6 @@ func readSurfaces(s, file string) (*geometry.Cloud, statedUnit, error) {
 		lower = lower[1:]
 	}
 	loop = append(loop, lower...)
-	return listingCloud(sc, file, FormatSurfaces, loop), statedUnit{}, nil
+	c := listingCloud(sc, file, FormatSurfaces, loop)
+	return c, listingUnit(c), nil
 }

@@ -2,10 +2,12 @@ package pointfile
 
 import (
 	"bytes"
+	"encoding/binary"
 	"fmt"
 	"io"
 	"io/fs"
 	"strings"
+	"unicode/utf16"
 
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/planar"
@@ -32,6 +34,11 @@ type Options struct {
 	// refuses an STL file without it. Other formats ignore it (flatten 3D
 	// points with planar.Flatten).
 	Cut *planar.Spec
+	// Layer, when set, reads only the DXF entities on this layer (layer
+	// names compare without regard to case); entities on other layers are
+	// counted in a Note. Read refuses a file with no entity on it. Other
+	// formats ignore it.
+	Layer string
 }
 
 // The formats Read knows, as named in Options.Format and Cloud.Format.
@@ -65,8 +72,8 @@ var formats = []struct {
 	{FormatSurfaces, false, func(_ []byte, text, name string, _ Options) (*geometry.Cloud, statedUnit, error) {
 		return readSurfaces(text, name)
 	}},
-	{FormatDXF, false, func(_ []byte, text, name string, _ Options) (*geometry.Cloud, statedUnit, error) {
-		return readDXF(text, name)
+	{FormatDXF, false, func(_ []byte, text, name string, o Options) (*geometry.Cloud, statedUnit, error) {
+		return readDXF(text, name, o.Layer)
 	}},
 	{FormatSTL, true, readSTLCut},
 }
@@ -122,6 +129,13 @@ func Read(r io.Reader, name string, opts Options) (*geometry.Cloud, error) {
 		}
 		opts.Units = u
 	}
+	// Text saved as UTF-16 ("Unicode text" in some spreadsheets and
+	// editors) starts with its byte-order mark: read it as the text it is,
+	// not as a binary mesh (it once read as "header promises 7471216
+	// facet(s)").
+	if opts.Format != FormatSTL && !stlBinarySizeMatches(data) {
+		data = fromUTF16(data)
+	}
 	if len(bytes.TrimSpace(data)) == 0 {
 		return nil, &geometry.ParseError{File: name, Err: geometry.ErrEmpty}
 	}
@@ -149,6 +163,25 @@ func Read(r io.Reader, name string, opts Options) (*geometry.Cloud, error) {
 		return nil, err
 	}
 	return c, nil
+}
+
+// fromUTF16 returns data decoded from UTF-16 to UTF-8 when it starts with a
+// UTF-16 byte-order mark (little- or big-endian), else data as it is.
+func fromUTF16(data []byte) []byte {
+	var order binary.ByteOrder
+	switch {
+	case len(data) >= 2 && data[0] == 0xff && data[1] == 0xfe:
+		order = binary.LittleEndian
+	case len(data) >= 2 && data[0] == 0xfe && data[1] == 0xff:
+		order = binary.BigEndian
+	default:
+		return data
+	}
+	units := make([]uint16, (len(data)-2)/2)
+	for i := range units {
+		units[i] = order.Uint16(data[2+2*i:])
+	}
+	return []byte(string(utf16.Decode(units)))
 }
 
 // readAll reads r to the end, in one allocation when r can tell its size

@@ -112,9 +112,15 @@ type Frame struct {
 // TrailingEdge reports the kind of trailing edge found and what was done to it.
 type TrailingEdge struct {
 	Kind      string  `json:"kind"`      // sharp | blunt | rounded | open
-	Thickness float64 `json:"thickness"` // chord units
-	Action    string  `json:"action"`    // kept | closed | sharpened
+	Thickness float64 `json:"thickness"` // as found, chord units
+	Action    string  `json:"action"`    // kept | closed | thinned | thickened | sharpened
 	MaxShift  float64 `json:"max_shift"` // input units
+	// Target is the thickness a reshape gave the edge (chord units); nil
+	// when it was not reshaped.
+	Target *float64 `json:"target_thickness,omitempty"`
+	// Blend is the length ahead of the edge over which a reshape blended
+	// into the surfaces (chord units); 0 when it was not reshaped.
+	Blend float64 `json:"blend_length,omitempty"`
 }
 
 // PanelSummary describes the panel distribution of the nodes.
@@ -123,6 +129,12 @@ type PanelSummary struct {
 	Spacing    string  `json:"spacing"`
 	MaxRatio   float64 `json:"max_ratio"`
 	MaxTurnDeg float64 `json:"max_turn_deg"`
+	// Deviation is the largest distance between the panels and the curve
+	// they replace (chord units); 0 when not measured.
+	Deviation float64 `json:"deviation,omitempty"`
+	// Target is the deviation the panel count was chosen to meet (chord
+	// units), when it was chosen automatically; 0 when the count was given.
+	Target float64 `json:"deviation_target,omitempty"`
 }
 
 // Properties are the geometric properties of a normalised section, in chord

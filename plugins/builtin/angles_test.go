@@ -34,14 +34,14 @@ func TestParseAngles(t *testing.T) {
 	}
 }
 
-func TestPicturePath(t *testing.T) {
+func TestPictureKind(t *testing.T) {
 	for _, tc := range []struct{ artifact, want string }{
-		{"cp-analysis.svg", "out/cp.svg"},
-		{"polar.svg", "out/cp-polar.svg"},
-		{"streamlines-analysis.svg", "out/cp-streamlines.svg"},
-		{"section.svg", "out/cp-section.svg"},
+		{"cp-analysis.svg", "cp"},
+		{"polar.svg", "polar"},
+		{"streamlines-analysis.svg", "streamlines"},
+		{"section.svg", "section"},
 	} {
-		if got := PicturePath("out/cp.svg", tc.artifact, "svg", "analysis"); got != tc.want {
+		if got := PictureKind(tc.artifact, "svg", "analysis"); got != tc.want {
 			t.Errorf("%s: %s, want %s", tc.artifact, got, tc.want)
 		}
 	}

@@ -29,23 +29,24 @@ const maxCpCases = 5
 const streamAlphaDeg = 6
 
 var plotsInfo = stage.Info{
-	Name:    "plots",
-	Version: Version,
-	Summary: "pictures of the section and of the results of the stages it runs after: Cp, Cl and Cm against alpha, streamlines",
+	MaxNodes: PlotsMaxNodes,
+	Name:     "plots",
+	Version:  Version,
+	Summary:  "pictures of the section and of the results of the stages it runs after: Cp, Cl and Cm against alpha, streamlines",
 	Params: []stage.Param{
 		{Name: "format", Type: stage.String, Default: json.RawMessage(`"svg"`), Choices: []string{plot.SVG, plot.PNG}, Doc: "picture format"},
 		{Name: "section", Type: stage.Boolean, Default: json.RawMessage("true"), Doc: "draw the section (section.FORMAT)"},
-		{Name: "cp", Type: stage.Boolean, Default: json.RawMessage("true"), Doc: "draw Cp against x/c of each stage with pressures (cp-STAGEID.FORMAT), at most 5 angles each; the singular corner nodes of a blunt trailing edge are left out"},
+		{Name: "cp", Type: stage.Boolean, Default: json.RawMessage("true"), Doc: "draw Cp against x/c of each stage with pressures (cp-STAGEID.FORMAT) over the section's outline, at most 5 angles each (the title says when some are left out); the points within one base length of the corners of a blunt trailing edge, where Cp is singular, are left out"},
 		{Name: "polar", Type: stage.Boolean, Default: json.RawMessage("true"), Doc: "draw Cl and Cm against alpha of every stage with two or more angles on one chart (polar.FORMAT)"},
 		{Name: "streamlines", Type: stage.Boolean, Default: json.RawMessage("true"), Doc: "draw the streamlines of the case nearest 6° among those with a flow field (streamlines-STAGEID.FORMAT)"},
 	},
 	Scalars: []stage.Scalar{{Name: "figures", Doc: "number of pictures drawn"}},
 }
 
-func (plots) Describe(context.Context) (stage.Info, error) { return plotsInfo, nil }
+func (plots) Describe(context.Context) (stage.Info, error) { return described(plotsInfo), nil }
 
 func (plots) Run(ctx context.Context, req stage.Request) (stage.Result, error) {
-	r, err := decode(plotsInfo, req)
+	r, err := decode(described(plotsInfo), req)
 	if err != nil {
 		return stage.Result{}, err
 	}
@@ -77,7 +78,6 @@ func (plots) Run(ctx context.Context, req stage.Request) (stage.Result, error) {
 	}
 	sort.Strings(ids)
 	nodes := r.section.Nodes
-	blunt := len(nodes) > 1 && nodes[0].Dist(nodes[len(nodes)-1]) > 1e-12
 	var polars []plot.PolarSeries
 	streamDone := !r.v.Bool("streamlines")
 	for _, id := range ids {
@@ -93,25 +93,40 @@ func (plots) Run(ctx context.Context, req stage.Request) (stage.Result, error) {
 		}
 		if r.v.Bool("cp") {
 			var cps []plot.CpCase
+			withCp := 0
+			for _, c := range cases {
+				if len(c.Cp) >= 3 {
+					withCp++
+				}
+			}
 			for _, c := range pick(cases, maxCpCases) {
 				if len(c.Cp) < 3 {
 					continue
 				}
 				cc := plot.CpCase{AlphaDeg: c.AlphaDeg, Method: doc.Stage}
-				pts := c.Cp
-				if blunt && len(pts) == len(r.section.Nodes) && len(pts) > 4 {
-					// At the corners of a blunt trailing edge the flow turns
-					// round a sharp edge and the node values are singular;
-					// they would set the scale of the whole chart.
-					pts = pts[1 : len(pts)-1]
+				at := make([]geometry.Point, len(c.Cp))
+				for i, p := range c.Cp {
+					at[i] = geometry.Point{X: p.X, Y: p.Y}
 				}
-				for _, p := range pts {
-					cc.X, cc.Y, cc.Cp = append(cc.X, p.X), append(cc.Y, p.Y), append(cc.Cp, p.Cp)
+				// Near the corners of a blunt trailing edge the flow turns
+				// round a sharp edge and the values are singular; they
+				// would set the scale of the whole chart.
+				skip := plot.TrailingEdgeCorners(nodes, at)
+				for i, p := range c.Cp {
+					if !skip[i] {
+						cc.X, cc.Y, cc.Cp = append(cc.X, p.X), append(cc.Y, p.Y), append(cc.Cp, p.Cp)
+					}
 				}
-				cps = append(cps, cc)
+				if len(cc.X) >= 3 {
+					cps = append(cps, cc)
+				}
 			}
 			if len(cps) > 0 {
-				f, err := plot.CpPlot(cps)
+				o := plot.CpOptions{Outline: nodes}
+				if len(cps) < withCp {
+					o.Note = fmt.Sprintf("%d of %d angles", len(cps), withCp)
+				}
+				f, err := plot.CpPlot(cps, o)
 				add("cp-"+id, f, err)
 			}
 		}
@@ -195,12 +210,11 @@ func flowOf(c *stage.Case, method string, body []geometry.Point) plot.FlowField 
 	return plot.FlowField{AlphaDeg: c.AlphaDeg, Method: method, Nx: f.NX, Ny: f.NY, X0: f.X0, Y0: f.Y0, DX: f.DX, DY: f.DY, Psi: psi, Body: body}
 }
 
-// PicturePath returns the file a picture of the plots stage goes to when it
-// draws the result of one stage, seen under id, beside the main picture at
-// path: the Cp chart (artifact cp-ID.FORMAT) at path itself, the others
-// beside it (path-polar, path-section, path-streamlines).
-func PicturePath(path, artifact, format, id string) string {
+// PictureKind returns the kind of a picture of the plots stage from its
+// artifact name, when it draws the result of one stage seen under id:
+// "cp", "polar", "section" or "streamlines" for cp-ID.FORMAT, polar.FORMAT,
+// section.FORMAT and streamlines-ID.FORMAT.
+func PictureKind(artifact, format, id string) string {
 	stem := strings.TrimSuffix(artifact, "."+format)
-	stem = strings.TrimSuffix(stem, "-"+id)
-	return plot.Beside(path, "cp", stem)
+	return strings.TrimSuffix(stem, "-"+id)
 }

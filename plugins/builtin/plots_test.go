@@ -8,6 +8,7 @@ import (
 	"image/png"
 	"io"
 	"slices"
+	"strings"
 	"testing"
 
 	"github.com/foilwright/foilwright/plugins/builtin"
@@ -67,5 +68,30 @@ func TestPlotsStage(t *testing.T) {
 	_, err = s.Run(context.Background(), stage.Request{Section: sec, Params: []byte(`{}`), Deps: map[string][]byte{"bad": []byte("{")}})
 	if !errors.Is(err, stage.ErrBadInput) {
 		t.Errorf("malformed dependency: err = %v, want ErrBadInput", err)
+	}
+}
+
+// With more angles than a Cp chart draws, its title says how many it
+// draws of how many; the section's outline is drawn under the chart.
+func TestPlotsCpNote(t *testing.T) {
+	sec, _ := naca(t, "2412", 60, false)
+	_, vortex, err := runStage(t, "vortex-panel", sec, `{"alpha_deg": [-4, -2, 0, 2, 4, 6, 8, 10, 12]}`)
+	if err != nil {
+		t.Fatal(err)
+	}
+	s, _ := builtin.Lookup("plots")
+	res, err := s.Run(context.Background(), stage.Request{
+		Section: sec, Params: []byte(`{"format": "svg", "polar": false, "section": false}`), SectionName: "test.json",
+		Deps: map[string][]byte{"vortex": vortex.JSON},
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(res.Artifacts) != 1 || res.Artifacts[0].Name != "cp-vortex.svg" {
+		t.Fatalf("artifacts %v", res.Artifacts)
+	}
+	svg := string(res.Artifacts[0].Data)
+	if !strings.Contains(svg, "5 of 9 angles") || !strings.Contains(svg, "y/c") {
+		t.Errorf("the Cp chart says nothing of the angles left out, or has no outline strip")
 	}
 }

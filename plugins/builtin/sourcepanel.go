@@ -28,9 +28,10 @@ func init() { register(sourcePanel{}) }
 type sourcePanel struct{}
 
 var sourcePanelInfo = stage.Info{
-	Name:    "source-panel",
-	Version: Version,
-	Summary: "non-lifting pressure distribution by Hess-Smith constant-source panels, with the closed-body source sum check",
+	MaxNodes: PanelMaxNodes,
+	Name:     "source-panel",
+	Version:  Version,
+	Summary:  "non-lifting pressure distribution by Hess-Smith constant-source panels, with the closed-body source sum check",
 	Params: []stage.Param{alphaParam, cpParam, {
 		Name:    "close_te",
 		Type:    stage.Boolean,
@@ -44,11 +45,13 @@ var sourcePanelInfo = stage.Info{
 	},
 }
 
-func (sourcePanel) Describe(context.Context) (stage.Info, error) { return sourcePanelInfo, nil }
+func (sourcePanel) Describe(context.Context) (stage.Info, error) {
+	return described(sourcePanelInfo), nil
+}
 
 func (sourcePanel) Run(ctx context.Context, req stage.Request) (stage.Result, error) {
 	start := time.Now()
-	r, err := decode(sourcePanelInfo, req)
+	r, err := decode(described(sourcePanelInfo), req)
 	if err != nil {
 		return stage.Result{}, err
 	}

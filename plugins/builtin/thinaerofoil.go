@@ -25,9 +25,10 @@ func init() { register(thinAerofoil{}) }
 type thinAerofoil struct{}
 
 var thinAerofoilInfo = stage.Info{
-	Name:    "thin-aerofoil",
-	Version: Version,
-	Summary: "lift slope, zero-lift angle, quarter-chord moment and load by thin-aerofoil theory from the camber line",
+	MaxNodes: ThinMaxNodes,
+	Name:     "thin-aerofoil",
+	Version:  Version,
+	Summary:  "lift slope, zero-lift angle, quarter-chord moment and load by thin-aerofoil theory from the camber line",
 	Params: []stage.Param{alphaParam, {
 		Name:    "load",
 		Type:    stage.Boolean,
@@ -42,11 +43,13 @@ var thinAerofoilInfo = stage.Info{
 	},
 }
 
-func (thinAerofoil) Describe(context.Context) (stage.Info, error) { return thinAerofoilInfo, nil }
+func (thinAerofoil) Describe(context.Context) (stage.Info, error) {
+	return described(thinAerofoilInfo), nil
+}
 
 func (thinAerofoil) Run(ctx context.Context, req stage.Request) (stage.Result, error) {
 	start := time.Now()
-	r, err := decode(thinAerofoilInfo, req)
+	r, err := decode(described(thinAerofoilInfo), req)
 	if err != nil {
 		return stage.Result{}, err
 	}

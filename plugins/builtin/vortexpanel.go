@@ -23,10 +23,11 @@ func init() { register(vortexPanel{}) }
 type vortexPanel struct{}
 
 var vortexPanelInfo = stage.Info{
-	Name:    "vortex-panel",
-	Version: Version,
-	Summary: "inviscid lift, moment and pressure by linear-strength vortex panels with the Kutta condition",
-	Params:  []stage.Param{alphaParam, cpParam, fieldParam},
+	MaxNodes: PanelMaxNodes,
+	Name:     "vortex-panel",
+	Version:  Version,
+	Summary:  "inviscid lift, moment and pressure by linear-strength vortex panels with the Kutta condition",
+	Params:   []stage.Param{alphaParam, cpParam, fieldParam},
 	Scalars: []stage.Scalar{
 		{Name: "panels", Doc: "number of panels along the surface"},
 		{Name: "condition", Doc: "condition number estimate of the influence matrix"},
@@ -34,11 +35,13 @@ var vortexPanelInfo = stage.Info{
 	},
 }
 
-func (vortexPanel) Describe(context.Context) (stage.Info, error) { return vortexPanelInfo, nil }
+func (vortexPanel) Describe(context.Context) (stage.Info, error) {
+	return described(vortexPanelInfo), nil
+}
 
 func (vortexPanel) Run(ctx context.Context, req stage.Request) (stage.Result, error) {
 	start := time.Now()
-	r, err := decode(vortexPanelInfo, req)
+	r, err := decode(described(vortexPanelInfo), req)
 	if err != nil {
 		return stage.Result{}, err
 	}

@@ -29,6 +29,9 @@ var (
 	ErrTimeout = errors.New("host: stage call timed out")
 	// ErrTooLarge means a request or reply exceeded the message size limit.
 	ErrTooLarge = errors.New("host: message too large")
+	// ErrTooManyNodes means the section has more nodes than the stage
+	// takes (its description, or the stage-nodes limit).
+	ErrTooManyNodes = errors.New("host: section too large for the stage")
 	// ErrClosed means the Host, Runner or Pool was closed.
 	ErrClosed = errors.New("host: closed")
 )

@@ -10,12 +10,17 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"sort"
+	"strconv"
 	"strings"
 	"sync"
+	"sync/atomic"
 	"time"
 
 	"github.com/hashicorp/go-hclog"
 	"github.com/hashicorp/go-plugin"
+	"google.golang.org/grpc/codes"
+	"google.golang.org/grpc/status"
 
 	"github.com/foilwright/foilwright/internal/digest"
 	"github.com/foilwright/foilwright/plugins/stage"
@@ -53,7 +58,28 @@ type Options struct {
 	// Self is the executable that serves built-in stages with
 	// "Self __stage NAME". Empty means the running binary.
 	Self string
+	// MaxNodes, when positive, is the most section nodes any stage is
+	// sent, whatever it describes; stages that honour stage.MaxNodesEnv
+	// describe and apply it. Zero leaves each stage its own maximum.
+	MaxNodes int
+	// MaxReply is the most bytes of one Run reply (result document and
+	// artifacts). Zero means DefaultMaxReply.
+	MaxReply int
+	// Memory limits each stage process's data memory, in bytes, where the
+	// system allows (Linux; not in a binary built with the race detector).
+	// Zero means no limit.
+	Memory int64
+	// JSONDepth is the deepest nesting a result document may have. Zero
+	// means DefaultJSONDepth.
+	JSONDepth int
 }
+
+// DefaultJSONDepth is the nesting limit of result documents when
+// Options.JSONDepth is zero.
+const DefaultJSONDepth = 64
+
+// DefaultMaxReply is the reply limit when Options.MaxReply is zero.
+const DefaultMaxReply = 32 << 20
 
 // Spec names a stage: a built-in by Name, or an external executable by
 // Path, optionally pinned by the hex sha256 of the file.
@@ -61,6 +87,9 @@ type Spec struct {
 	Name   string // built-in stage name; used when Path is empty
 	Path   string // external stage executable
 	SHA256 string // hex digest pinning Path; empty means unpinned
+	// Env names variables of the host's environment the stage may see
+	// besides the minimal ones (MinimalEnv), separated by commas.
+	Env string
 }
 
 // Builtin returns the Spec of the built-in stage name.
@@ -97,6 +126,12 @@ func New(opts Options) (*Host, error) {
 	}
 	if opts.StageLogLevel == "" {
 		opts.StageLogLevel = "warn"
+	}
+	if opts.MaxReply <= 0 {
+		opts.MaxReply = DefaultMaxReply
+	}
+	if opts.JSONDepth <= 0 {
+		opts.JSONDepth = DefaultJSONDepth
 	}
 	log := opts.Logger
 	if log == nil {
@@ -147,7 +182,8 @@ type process struct {
 	h      *Host
 	spec   Spec
 	client *plugin.Client
-	cmd    *exec.Cmd
+	cmd    *exec.Cmd                   // set when go-plugin starts the process (no process groups)
+	group  atomic.Pointer[groupRunner] // set when the host starts it in a group of its own
 	tail   *ring
 	stage  stage.Stage
 	info   stage.Info
@@ -169,7 +205,11 @@ func (p *process) kill() {
 func (p *process) exited(d time.Duration) (bool, string) {
 	deadline := time.Now().Add(d)
 	for {
-		if p.client.Exited() {
+		if g := p.group.Load(); g != nil {
+			if ok, how := g.exitedState(); ok {
+				return true, how
+			}
+		} else if p.cmd != nil && p.client.Exited() {
 			// Exited is set after Wait returned, under the client's lock,
 			// so ProcessState is safe to read now.
 			if ps := p.cmd.ProcessState; ps != nil {
@@ -186,6 +226,9 @@ func (p *process) exited(d time.Duration) (bool, string) {
 
 // pid returns the process id, or 0.
 func (p *process) pid() int {
+	if g := p.group.Load(); g != nil {
+		return groupPid(g)
+	}
 	if rc := p.client.ReattachConfig(); rc != nil {
 		return rc.Pid
 	}
@@ -215,32 +258,40 @@ func (h *Host) start(ctx context.Context, spec Spec) (*process, error) {
 		return nil, fail(err, nil)
 	}
 
-	var cmd *exec.Cmd
+	path, args := h.self, []string{"__stage", spec.Name}
 	if spec.Path == "" {
 		if spec.Name == "" {
 			return nil, fail(errors.New("host: spec names no stage"), nil)
 		}
-		cmd = exec.Command(h.self, "__stage", spec.Name)
 	} else {
-		path, err := executable(spec.Path)
-		if err != nil {
+		var err error
+		if path, err = executable(spec.Path); err != nil {
 			return nil, fail(err, nil)
 		}
-		cmd = exec.Command(path)
+		args = nil
 	}
-	// go-plugin appends its own variables; ours come after the host's
-	// environment so that they win.
-	cmd.Env = append(os.Environ(),
-		"PLUGIN_UNIX_SOCKET_DIR="+h.dir,
-		stage.LogLevelEnv+"="+h.opts.StageLogLevel,
-	)
-	setProcAttr(cmd)
+	if spec.SHA256 != "" {
+		want, err := hex.DecodeString(spec.SHA256)
+		if err != nil || len(want) != sha256.Size {
+			return nil, fail(fmt.Errorf("%w: pin %q is not a hex sha256 (64 hex digits)", ErrChecksum, spec.SHA256), nil)
+		}
+		// Checked here, not by go-plugin's SecureConfig, which needs the
+		// Cmd that a process group of our own replaces.
+		got, err := digest.File(path)
+		if err != nil {
+			return nil, fail(fmt.Errorf("%w: %v", ErrNotFound, err), nil)
+		}
+		if got != spec.SHA256 {
+			return nil, fail(fmt.Errorf("%w: sha256 of %s is %s, but %s is pinned; the executable changed since it was pinned: check it, then update the pin",
+				ErrChecksum, path, got, spec.SHA256), nil)
+		}
+	}
+	env := h.StageEnv(spec)
 
 	tail := newRing(StderrTail)
 	cfg := &plugin.ClientConfig{
 		HandshakeConfig:  stage.Handshake,
 		VersionedPlugins: stage.VersionedPlugins(nil),
-		Cmd:              cmd,
 		AllowedProtocols: []plugin.Protocol{plugin.ProtocolGRPC},
 		Logger:           h.log.Named("stage." + filepath.Base(spec.String())),
 		Stderr:           tail,
@@ -249,17 +300,22 @@ func (h *Host) start(ctx context.Context, spec Spec) (*process, error) {
 		StartTimeout:     h.opts.StartTimeout,
 		AutoMTLS:         h.opts.AutoMTLS,
 		SkipHostEnv:      true,
+		UnixSocketConfig: &plugin.UnixSocketConfig{TempDir: h.dir},
 	}
-	var want []byte
-	if spec.SHA256 != "" {
-		var err error
-		want, err = hex.DecodeString(spec.SHA256)
-		if err != nil || len(want) != sha256.Size {
-			return nil, fail(fmt.Errorf("%w: pin %q is not a hex sha256 (64 hex digits)", ErrChecksum, spec.SHA256), nil)
-		}
-		cfg.SecureConfig = &plugin.SecureConfig{Checksum: want, Hash: sha256.New()}
+	p := &process{h: h, spec: spec, tail: tail}
+	memory := h.opts.Memory
+	if raceBuild {
+		memory = 0
 	}
-	p := &process{h: h, spec: spec, client: plugin.NewClient(cfg), cmd: cmd, tail: tail}
+	if run := groupRunnerFunc(path, args, env, memory, func(g *groupRunner) { p.group.Store(g) }); run != nil {
+		cfg.RunnerFunc = run
+	} else {
+		cmd := exec.Command(path, args...)
+		cmd.Env = append(env, "PLUGIN_UNIX_SOCKET_DIR="+h.dir)
+		cfg.Cmd = cmd
+		p.cmd = cmd
+	}
+	p.client = plugin.NewClient(cfg)
 	h.mu.Lock()
 	if h.closed {
 		h.mu.Unlock()
@@ -268,10 +324,13 @@ func (h *Host) start(ctx context.Context, spec Spec) (*process, error) {
 	h.procs[p] = struct{}{}
 	h.mu.Unlock()
 
-	rpc, err := p.client.Client()
+	rpc, err := p.connect(ctx)
 	if err != nil {
 		p.kill()
-		return nil, fail(h.startError(spec, cmd.Path, want, err), p)
+		if ctx.Err() != nil {
+			return nil, fail(ctx.Err(), p)
+		}
+		return nil, fail(h.startError(err), p)
 	}
 	raw, err := rpc.Dispense(stage.PluginName)
 	if err != nil {
@@ -284,10 +343,16 @@ func (h *Host) start(ctx context.Context, spec Spec) (*process, error) {
 		return nil, fail(fmt.Errorf("%w: dispensed %T, not a stage", ErrHandshake, raw), p)
 	}
 	p.stage = st
+	if c, ok := raw.(*stage.Client); ok {
+		c.SetMaxReply(h.opts.MaxReply)
+	}
 
 	dctx, cancel := context.WithTimeout(ctx, h.opts.StartTimeout)
 	defer cancel()
 	info, err := st.Describe(dctx)
+	if err != nil {
+		err = describeError(ctx, dctx, h.opts.StartTimeout, err)
+	}
 	if err == nil {
 		err = stage.CheckInfo(info)
 		if err != nil {
@@ -303,6 +368,9 @@ func (h *Host) start(ctx context.Context, spec Spec) (*process, error) {
 		e.Op = "describe"
 		return nil, e
 	}
+	if h.opts.MaxNodes > 0 && (info.MaxNodes == 0 || info.MaxNodes > h.opts.MaxNodes) {
+		info.MaxNodes = h.opts.MaxNodes
+	}
 	p.info = info
 	h.log.Debug("stage started", "stage", spec.String(), "pid", p.pid(), "version", info.Version)
 	return p, nil
@@ -310,16 +378,9 @@ func (h *Host) start(ctx context.Context, spec Spec) (*process, error) {
 
 // startError turns an error of plugin.Client.Client into one of ours, with
 // advice.
-func (h *Host) startError(spec Spec, path string, want []byte, err error) error {
+func (h *Host) startError(err error) error {
 	msg := err.Error()
 	switch {
-	case errors.Is(err, plugin.ErrChecksumsDoNotMatch):
-		got := "unknown"
-		if sum, herr := digest.File(path); herr == nil {
-			got = sum
-		}
-		return fmt.Errorf("%w: sha256 of %s is %s, but %s is pinned; the executable changed since it was pinned: check it, then update the pin",
-			ErrChecksum, path, got, hex.EncodeToString(want))
 	case strings.Contains(msg, "incompatible API version"):
 		return fmt.Errorf("%w: this foilwright speaks stage protocol version %d (%s); rebuild the stage against a matching foilwright SDK, or use a foilwright release that speaks its version",
 			ErrVersion, stage.ProtocolVersion, firstLine(msg))
@@ -371,3 +432,105 @@ func executable(path string) (string, error) {
 // FileSHA256 returns the hex sha256 of the file at path, as a pin for
 // Spec.SHA256 and for manifests.
 func FileSHA256(path string) (string, error) { return digest.File(path) }
+
+// connect starts the process and completes the handshake, giving up when
+// ctx ends (Ctrl-C during a start).
+func (p *process) connect(ctx context.Context) (plugin.ClientProtocol, error) {
+	type result struct {
+		rpc plugin.ClientProtocol
+		err error
+	}
+	ch := make(chan result, 1)
+	go func() {
+		rpc, err := p.client.Client()
+		ch <- result{rpc, err}
+	}()
+	select {
+	case r := <-ch:
+		return r.rpc, r.err
+	case <-ctx.Done():
+		// Killing the process group ends the handshake wait at once; the
+		// process may not have started yet, so keep at it until it ends.
+		tick := time.NewTicker(20 * time.Millisecond)
+		defer tick.Stop()
+		for {
+			if g := p.group.Load(); g != nil {
+				g.Kill(context.Background())
+			}
+			select {
+			case r := <-ch:
+				if r.err == nil {
+					r.err = ctx.Err()
+				}
+				return nil, r.err
+			case <-tick.C:
+			}
+		}
+	}
+}
+
+// describeError turns a failed Describe call into an error of ours: a
+// timeout, a process that died, or a broken reply; never a raw gRPC
+// status.
+func describeError(ctx, dctx context.Context, limit time.Duration, err error) error {
+	switch {
+	case ctx.Err() != nil:
+		return ctx.Err()
+	case dctx.Err() != nil:
+		return fmt.Errorf("%w: no description within %v (raise the start timeout if the stage is slow to start)", ErrTimeout, limit)
+	}
+	return transportError(err)
+}
+
+// transportError words a gRPC failure of a call: the process went away
+// (ErrCrashed), a message was too large (ErrTooLarge), or the protocol
+// broke (ErrHandshake); the gRPC code is not shown.
+func transportError(err error) error {
+	st := status.Convert(err)
+	switch st.Code() {
+	case codes.Unavailable, codes.Canceled:
+		return fmt.Errorf("%w: the connection broke (%s)", ErrCrashed, st.Message())
+	case codes.ResourceExhausted:
+		return fmt.Errorf("%w: %s", ErrTooLarge, st.Message())
+	case codes.DeadlineExceeded:
+		return fmt.Errorf("%w: %s", ErrTimeout, st.Message())
+	}
+	return fmt.Errorf("%w: %s", ErrHandshake, st.Message())
+}
+
+// MinimalEnv lists the variables of the host's environment every stage
+// gets (those set): the search path, home, temporary folder, locale and
+// time zone, and the Go race detector's settings (for tests). A pipeline
+// allows more by name (a stage's "env"); nothing else passes, so a secret
+// in an unrelated variable stays with the host.
+var MinimalEnv = []string{"PATH", "HOME", "TMPDIR", "LANG", "LC_ALL", "TZ", "GORACE"}
+
+// StageEnv returns the environment a stage of spec gets, as NAME=VALUE,
+// sorted: the minimal variables and those spec allows, as the host's
+// environment has them, and the host's own settings (log level, node
+// limit). go-plugin adds its handshake variables at start.
+func (h *Host) StageEnv(spec Spec) []string {
+	names := append([]string{}, MinimalEnv...)
+	for _, n := range strings.Split(spec.Env, ",") {
+		if n = strings.TrimSpace(n); n != "" {
+			names = append(names, n)
+		}
+	}
+	seen := map[string]bool{}
+	var env []string
+	for _, n := range names {
+		if seen[n] {
+			continue
+		}
+		seen[n] = true
+		if v, ok := os.LookupEnv(n); ok {
+			env = append(env, n+"="+v)
+		}
+	}
+	env = append(env, stage.LogLevelEnv+"="+h.opts.StageLogLevel)
+	if h.opts.MaxNodes > 0 {
+		env = append(env, stage.MaxNodesEnv+"="+strconv.Itoa(h.opts.MaxNodes))
+	}
+	sort.Strings(env)
+	return env
+}

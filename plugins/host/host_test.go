@@ -29,6 +29,11 @@ func TestMain(m *testing.M) {
 		hostChild()
 		os.Exit(0)
 	}
+	if len(os.Args) >= 3 && os.Args[1] == "__sleep" {
+		os.WriteFile(os.Args[2], []byte(strconv.Itoa(os.Getpid())), 0o644)
+		time.Sleep(time.Hour)
+		os.Exit(0)
+	}
 	// Race-enabled children sleep 1 s at exit by default; the fault
 	// tests end many of them.
 	if os.Getenv("GORACE") == "" {

@@ -1,6 +1,7 @@
 package host
 
 import (
+	"bytes"
 	"encoding/json"
 	"fmt"
 	"sort"
@@ -21,13 +22,23 @@ type ring struct {
 	mu  sync.Mutex
 	max int
 	buf []byte
+
+	// A Go crash report (panic, fatal error) is kept apart from the tail
+	// as it is written: the goroutine dump that follows it is often longer
+	// than the tail.
+	partial []byte   // the line being written
+	crashed []string // lines from the first crash line, at most crashLines
 }
+
+// crashLines is the most lines of a crash report kept.
+const crashLines = 400
 
 func newRing(max int) *ring { return &ring{max: max} }
 
 func (r *ring) Write(p []byte) (int, error) {
 	r.mu.Lock()
 	defer r.mu.Unlock()
+	r.scan(p)
 	n := len(p)
 	if len(p) >= r.max {
 		p = p[len(p)-r.max:]
@@ -41,6 +52,36 @@ func (r *ring) Write(p []byte) (int, error) {
 	return n, nil
 }
 
+// scan follows the lines written for the start of a Go crash report.
+func (r *ring) scan(p []byte) {
+	for len(p) > 0 {
+		i := bytes.IndexByte(p, '\n')
+		if i < 0 {
+			if len(r.partial) < 4096 {
+				r.partial = append(r.partial, p[:min(len(p), 4096-len(r.partial))]...)
+			}
+			return
+		}
+		if len(r.partial) < 4096 {
+			r.partial = append(r.partial, p[:min(i, 4096-len(r.partial))]...)
+		}
+		line := string(r.partial)
+		r.partial = r.partial[:0]
+		p = p[i+1:]
+		switch {
+		case r.crashed != nil && len(r.crashed) < crashLines:
+			r.crashed = append(r.crashed, line)
+		case r.crashed == nil && crashStart(line):
+			r.crashed = []string{line}
+		}
+	}
+}
+
+// crashStart reports whether line begins a Go crash report.
+func crashStart(line string) bool {
+	return strings.HasPrefix(line, "panic: ") || strings.HasPrefix(line, "fatal error: ") || strings.HasPrefix(line, "runtime: out of memory")
+}
+
 func (r *ring) String() string {
 	r.mu.Lock()
 	defer r.mu.Unlock()
@@ -48,26 +89,75 @@ func (r *ring) String() string {
 }
 
 // lines returns the most telling lines of the tail, for an error message:
-// from the last Go panic or fatal error if there is one, else the last
-// lines, at most tailLines of them. hclog JSON lines are shown as
-// "level: message key=value ...".
+// the last lines, at most tailLines of them, hclog JSON lines shown as
+// "level: message key=value ...". A Go panic or fatal error is summed up
+// as its message and the first function of the stage's own code it went
+// through, not as a stack dump.
 func (r *ring) lines() string {
 	all := strings.Split(strings.TrimRight(r.String(), "\n"), "\n")
 	if len(all) == 1 && all[0] == "" {
 		return ""
 	}
-	start := max(0, len(all)-tailLines)
-	for i := len(all) - 1; i >= 0; i-- {
-		if strings.HasPrefix(all[i], "panic: ") || strings.HasPrefix(all[i], "fatal error: ") {
-			start = i
-			break
+	r.mu.Lock()
+	crashed := append([]string(nil), r.crashed...)
+	r.mu.Unlock()
+	if crashed != nil {
+		var before []string
+		for i, l := range all {
+			if l == crashed[0] {
+				before = all[:i]
+				break
+			}
 		}
+		return strings.Join(append(keepBefore(before), crash(crashed)...), "\n")
 	}
-	out := all[start:min(len(all), start+tailLines)]
+	out := all[max(0, len(all)-tailLines):]
 	for i, l := range out {
 		out[i] = readable(l)
 	}
 	return strings.Join(out, "\n")
+}
+
+// keepBefore returns, readable, up to three lines logged before a crash.
+func keepBefore(ls []string) []string {
+	var out []string
+	for _, l := range ls[max(0, len(ls)-3):] {
+		if l = readable(l); strings.TrimSpace(l) != "" {
+			out = append(out, l)
+		}
+	}
+	return out
+}
+
+// crash sums up a Go crash report: the panic or fatal-error lines up to
+// the first goroutine header, then "at FUNCTION (FILE:LINE)" for the first
+// frame outside the Go runtime.
+func crash(ls []string) []string {
+	var out []string
+	i := 0
+	for ; i < len(ls) && !strings.HasPrefix(ls[i], "goroutine ") && len(out) < 4; i++ {
+		if l := strings.TrimSpace(ls[i]); l != "" && !strings.HasPrefix(l, "[signal") {
+			out = append(out, ls[i])
+		}
+	}
+	for ; i+1 < len(ls); i++ {
+		fn, file := strings.TrimSpace(ls[i]), strings.TrimSpace(ls[i+1])
+		if strings.HasPrefix(ls[i], "goroutine ") || !strings.HasPrefix(ls[i+1], "\t") {
+			continue
+		}
+		if strings.HasPrefix(fn, "runtime.") || strings.HasPrefix(fn, "panic(") {
+			continue
+		}
+		if k := strings.LastIndex(file, " +0x"); k > 0 {
+			file = file[:k]
+		}
+		if k := strings.LastIndex(fn, "("); k > 0 {
+			fn = fn[:k]
+		}
+		out = append(out, fmt.Sprintf("at %s (%s)", fn, file))
+		break
+	}
+	return out
 }
 
 // readable turns an hclog JSON line into "level: message k=v ..."; other

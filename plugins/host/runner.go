@@ -7,10 +7,12 @@ import (
 	"path/filepath"
 	"strings"
 	"sync"
+	"time"
 
 	"google.golang.org/grpc/codes"
 	"google.golang.org/grpc/status"
 
+	"github.com/foilwright/foilwright/internal/limits"
 	"github.com/foilwright/foilwright/plugins/stage"
 )
 
@@ -121,6 +123,11 @@ func (r *Runner) Run(ctx context.Context, req stage.Request) (*Reply, error) {
 	if _, err := stage.Validate(info.Params, req.Params); err != nil {
 		return nil, r.errorf(req, err)
 	}
+	if max := info.MaxNodes; max > 0 {
+		if n := stage.CountNodes(req.Section); n > max {
+			return nil, r.errorf(req, fmt.Errorf("%w: the section has %d nodes; the stage takes at most %d (its description; raise the stage-nodes limit for stages that allow it)", ErrTooManyNodes, n, max))
+		}
+	}
 	if r.sem != nil {
 		select {
 		case r.sem <- struct{}{}:
@@ -153,15 +160,11 @@ func (r *Runner) call(ctx context.Context, p *process, info stage.Info, req stag
 	defer cancel()
 	res, err := p.stage.Run(cctx, req)
 	if err == nil {
-		reply, err := check(info, res)
+		reply, err := check(info, res, r.h.opts.JSONDepth)
 		if err != nil {
 			return nil, r.errorf(req, err), false
 		}
 		return reply, nil, false
-	}
-	var remote *stage.RemoteError
-	if errors.As(err, &remote) {
-		return nil, r.errorf(req, err), false
 	}
 	fail := func(err error) *Error {
 		e := r.errorf(req, err)
@@ -169,26 +172,40 @@ func (r *Runner) call(ctx context.Context, p *process, info stage.Info, req stag
 			e.Exit = how
 		}
 		e.Stderr = p.tail.lines()
+		if r.h.opts.Memory > 0 && !raceBuild && strings.Contains(e.Stderr, "out of memory") {
+			e.Err = fmt.Errorf("%w; it ran out of memory: each stage may use %d MiB of data memory (the stage-memory limit)", e.Err, r.h.opts.Memory>>20)
+		}
 		return e
 	}
+	var remote *stage.RemoteError
+	isRemote := errors.As(err, &remote)
 	code := status.Code(err)
-	if code == codes.DeadlineExceeded {
+	if code == codes.DeadlineExceeded || isRemote && remote.Code == stage.CodeCancelled {
 		// The stage gets the deadline as a timeout header and may give up
 		// a moment before this side's context ends: wait for it (it is due
 		// now), so that the failure is told by the context that ended.
-		<-cctx.Done()
+		select {
+		case <-cctx.Done():
+		case <-time.After(exitWait):
+		}
 	}
 	switch {
 	case ctx.Err() != nil:
-		// Cancelled by the caller (Ctrl-C): end the process, which may be
-		// busy with a call nobody waits for.
+		// Cancelled or timed out by the caller (Ctrl-C, a pipeline's
+		// timeout_s): end the process, which may be busy with a call
+		// nobody waits for.
 		r.drop(p)
 		return nil, r.errorf(req, ctx.Err()), false
 	case cctx.Err() != nil:
+		// Whatever the stage answered, it did not answer in time; a stage
+		// that gave up may still be computing: end it, the next call
+		// starts a new one.
 		r.drop(p)
-		return nil, fail(fmt.Errorf("%w: no reply within %v; the process was killed", ErrTimeout, r.h.opts.CallTimeout)), false
+		return nil, fail(fmt.Errorf("%w: no reply within %v; the process was ended", ErrTimeout, r.h.opts.CallTimeout)), false
+	case isRemote:
+		return nil, r.errorf(req, err), false
 	case code == codes.ResourceExhausted:
-		return nil, r.errorf(req, fmt.Errorf("%w: %s", ErrTooLarge, status.Convert(err).Message())), false
+		return nil, r.errorf(req, fmt.Errorf("%w: the reply is larger than %d MiB (the result-bytes limit): %s", ErrTooLarge, r.h.opts.MaxReply>>20, status.Convert(err).Message())), false
 	default:
 		exited, _ := p.exited(exitWait)
 		if exited || code == codes.Unavailable || code == codes.Canceled {
@@ -196,7 +213,8 @@ func (r *Runner) call(ctx context.Context, p *process, info stage.Info, req stag
 			r.drop(p)
 			return nil, e, true
 		}
-		return nil, fail(err), false
+		r.drop(p)
+		return nil, fail(transportError(err)), false
 	}
 }
 
@@ -217,9 +235,12 @@ func (r *Runner) Close() {
 }
 
 // check checks and decodes a stage's result.
-func check(info stage.Info, res stage.Result) (*Reply, error) {
+func check(info stage.Info, res stage.Result, depth int) (*Reply, error) {
 	if len(res.JSON) == 0 {
 		return nil, fmt.Errorf("%w: empty result document", stage.ErrMalformed)
+	}
+	if err := limits.CheckDepth(res.JSON, depth); err != nil {
+		return nil, fmt.Errorf("%w: result document: %v", stage.ErrMalformed, err)
 	}
 	doc, err := stage.DecodeResult(res.JSON)
 	if err != nil {

@@ -6,6 +6,7 @@ import (
 	"errors"
 	"fmt"
 	"os"
+	"os/exec"
 	"strconv"
 	"strings"
 	"time"
@@ -32,6 +33,15 @@ func (t toy) info() stage.Info {
 }
 
 func (t toy) Describe(context.Context) (stage.Info, error) { return t.info(), nil }
+
+// smallToy describes a maximum of 5 nodes.
+type smallToy struct{ toy }
+
+func (t smallToy) Describe(context.Context) (stage.Info, error) {
+	info := t.info()
+	info.MaxNodes = 5
+	return info, nil
+}
 
 func (t toy) Run(ctx context.Context, req stage.Request) (stage.Result, error) {
 	v, err := stage.Validate(t.params, req.Params)
@@ -99,6 +109,29 @@ func init() {
 		<-done
 		return stage.Result{}, nil
 	}})
+	addToy(toy{name: "grandchild", run: func(_ context.Context, req stage.Request, _ stage.Values) (stage.Result, error) {
+		sleeper(pidFile + ".grandchild")
+		time.Sleep(50 * time.Millisecond) // let it write its pid
+		return okResult(toys["grandchild"].info(), req)
+	}})
+	addToy(toy{name: "env", run: func(_ context.Context, req stage.Request, _ stage.Values) (stage.Result, error) {
+		res, err := okResult(toys["env"].info(), req)
+		res.Warnings = os.Environ()
+		return res, err
+	}})
+	addToy(toy{name: "memory", run: func(context.Context, stage.Request, stage.Values) (stage.Result, error) {
+		var keep [][]byte
+		for {
+			b := make([]byte, 16<<20)
+			for i := 0; i < len(b); i += 4096 {
+				b[i] = 1
+			}
+			keep = append(keep, b)
+		}
+	}})
+	addToy(toy{name: "small", run: func(_ context.Context, req stage.Request, _ stage.Values) (stage.Result, error) {
+		return okResult(toys["small"].info(), req)
+	}})
 	addToy(toy{name: "hang", run: func(context.Context, stage.Request, stage.Values) (stage.Result, error) {
 		time.Sleep(time.Hour) // ignores its context
 		return stage.Result{}, nil
@@ -131,14 +164,39 @@ func init() {
 			case "artifact":
 				good.Artifacts = []stage.Artifact{{Name: "../escape.svg", MediaType: "image/svg+xml"}}
 				return good, nil
+			case "deep":
+				n := 100000
+				return stage.Result{JSON: []byte(`{"format": "foilwright.result/1", "stage": "malformed", "version": "1", "x": ` +
+					strings.Repeat("[", n) + strings.Repeat("]", n) + "}")}, nil
 			}
 			return good, nil
 		}})
 }
 
+// sleeper starts "TESTBINARY __sleep PIDFILE" (a grandchild of the host)
+// and does not wait for it; the sleeper writes its pid to pidFile.
+func sleeper(pidFile string) {
+	self, err := os.Executable()
+	if err != nil {
+		return
+	}
+	cmd := exec.Command(self, "__sleep", pidFile)
+	if cmd.Start() == nil {
+		go cmd.Wait()
+	}
+}
+
+// pidFile is the third argument of a toy stage, a file to write its pid
+// to ("" when not given).
+var pidFile string
+
 // serveToy serves the toy stage name, or one of the stages that misbehave
 // before or during the handshake.
 func serveToy(name string) {
+	if len(os.Args) > 3 {
+		pidFile = os.Args[3]
+		os.WriteFile(pidFile, []byte(strconv.Itoa(os.Getpid())), 0o644)
+	}
 	switch name {
 	case "garbage":
 		fmt.Println("hello from init")
@@ -164,6 +222,8 @@ func serveToy(name string) {
 		t := toys["echo"]
 		t.name = "not-wrongname"
 		sdk.Serve(t)
+	case "small":
+		sdk.Serve(smallToy{toys["small"]})
 	default:
 		t, ok := toys[name]
 		if !ok {

@@ -44,8 +44,15 @@ func (p *Plugin) GRPCClient(_ context.Context, _ *plugin.GRPCBroker, c *grpc.Cli
 // client. Errors the stage returned are *RemoteError; transport errors are
 // gRPC status errors, which the host classifies.
 type Client struct {
-	rpc stagev1.StageClient
+	rpc      stagev1.StageClient
+	maxReply int
 }
+
+// SetMaxReply limits the size of a Run reply, in bytes (result document
+// and artifacts): a larger one fails with codes.ResourceExhausted without
+// being held in memory. Zero means gRPC's client default set by go-plugin
+// (2 GiB).
+func (c *Client) SetMaxReply(n int) { c.maxReply = n }
 
 // NewClient returns a Client on rpc.
 func NewClient(rpc stagev1.StageClient) *Client { return &Client{rpc: rpc} }
@@ -62,12 +69,16 @@ func (c *Client) Describe(ctx context.Context) (Info, error) {
 // Run calls the remote Run. It returns a *RemoteError if the stage reported
 // an error code.
 func (c *Client) Run(ctx context.Context, req Request) (Result, error) {
+	var opts []grpc.CallOption
+	if c.maxReply > 0 {
+		opts = append(opts, grpc.MaxCallRecvMsgSize(c.maxReply))
+	}
 	resp, err := c.rpc.Run(ctx, &stagev1.RunRequest{
 		SectionJson: req.Section,
 		ParamsJson:  req.Params,
 		Deps:        req.Deps,
 		SectionName: req.SectionName,
-	})
+	}, opts...)
 	if err != nil {
 		return Result{}, err
 	}
@@ -165,6 +176,7 @@ func infoToProto(info Info) *stagev1.DescribeResponse {
 		Version:        info.Version,
 		Summary:        info.Summary,
 		MaxConcurrency: int32(info.MaxConcurrency),
+		MaxNodes:       int32(info.MaxNodes),
 	}
 	for _, p := range info.Params {
 		q := &stagev1.Parameter{
@@ -197,6 +209,7 @@ func infoFromProto(in *stagev1.DescribeResponse) Info {
 		Version:        in.GetVersion(),
 		Summary:        in.GetSummary(),
 		MaxConcurrency: int(in.GetMaxConcurrency()),
+		MaxNodes:       int(in.GetMaxNodes()),
 	}
 	for _, q := range in.GetParameters() {
 		p := Param{

@@ -270,6 +270,9 @@ func CheckInfo(info Info) error {
 	if info.Summary == "" || strings.ContainsAny(info.Summary, "\n\r") {
 		bad("summary %q must be one line", info.Summary)
 	}
+	if info.MaxNodes < 0 {
+		bad("max_nodes %d is negative", info.MaxNodes)
+	}
 	if info.MaxConcurrency < 0 {
 		bad("max_concurrency %d is negative", info.MaxConcurrency)
 	}

@@ -9,6 +9,8 @@ import (
 	"sort"
 
 	"github.com/tidwall/gjson"
+
+	"github.com/foilwright/foilwright/internal/limits"
 )
 
 // ResultFormat is the value of the "format" key of a result document.
@@ -169,6 +171,11 @@ var ErrMalformed = errors.New("stage: malformed reply")
 // wrapping ErrMalformed if data is not valid JSON, has the wrong format,
 // lacks stage or version, or has a case with no alpha_deg.
 func DecodeResult(data []byte) (*ResultDoc, error) {
+	// The JSON checks below recurse once per level: refuse absurd nesting
+	// first (the documented format nests four levels).
+	if err := limits.CheckDepth(data, limits.MaxJSONDepth); err != nil {
+		return nil, fmt.Errorf("%w: result: %v", ErrMalformed, err)
+	}
 	if !gjson.ValidBytes(data) {
 		return nil, fmt.Errorf("%w: result is not valid JSON (%s)", ErrMalformed, excerpt(data))
 	}

@@ -3,7 +3,11 @@ package stage
 import (
 	"bytes"
 	"context"
+	"os"
+	"strconv"
 	"time"
+
+	"github.com/tidwall/gjson"
 
 	"github.com/foilwright/foilwright/geometry/section"
 )
@@ -29,7 +33,16 @@ type Info struct {
 	// MaxConcurrency is the number of calls the stage serves at once in one
 	// process; 0 means no limit.
 	MaxConcurrency int
+	// MaxNodes is the most section nodes the stage takes (0: it states no
+	// maximum). The host refuses a larger section before calling Run; a
+	// stage also checks it itself. Built-in stages honour MaxNodesEnv.
+	MaxNodes int
 }
+
+// MaxNodesEnv is the environment variable the host sets when the user set
+// the stage-nodes limit: a stage that honours it describes and applies
+// that maximum instead of its own.
+const MaxNodesEnv = "FOILWRIGHT_STAGE_MAX_NODES"
 
 // Param returns the parameter called name and whether there is one.
 func (in Info) Param(name string) (Param, bool) {
@@ -92,4 +105,28 @@ type Artifact struct {
 	Name      string // a plain file name, no directories
 	MediaType string // e.g. "image/svg+xml"
 	Data      []byte
+}
+
+// MaxNodesOr returns the maximum a stage should describe and apply: the
+// value of MaxNodesEnv when the host set it to a positive integer, else
+// own.
+func MaxNodesOr(own int) int {
+	if s := os.Getenv(MaxNodesEnv); s != "" {
+		if n, err := strconv.Atoi(s); err == nil && n > 0 {
+			return n
+		}
+	}
+	return own
+}
+
+// CountNodes returns the number of nodes of a section document (the length
+// of its "nodes" array), without decoding it; -1 when it has none.
+func CountNodes(section []byte) int {
+	r := gjson.GetBytes(section, "nodes")
+	if !r.IsArray() {
+		return -1
+	}
+	n := 0
+	r.ForEach(func(_, _ gjson.Result) bool { n++; return true })
+	return n
 }

@@ -141,7 +141,10 @@ type DescribeResponse struct {
 	// Most calls the stage serves at once in one process; 0 means no limit.
 	MaxConcurrency int32 `protobuf:"varint,5,opt,name=max_concurrency,json=maxConcurrency,proto3" json:"max_concurrency,omitempty"`
 	// Names of the scalars the result document carries, with their meaning.
-	Scalars       []*Scalar `protobuf:"bytes,6,rep,name=scalars,proto3" json:"scalars,omitempty"`
+	Scalars []*Scalar `protobuf:"bytes,6,rep,name=scalars,proto3" json:"scalars,omitempty"`
+	// Most section nodes the stage takes; 0 means it states no maximum. The
+	// host refuses a larger section before calling Run.
+	MaxNodes      int32 `protobuf:"varint,7,opt,name=max_nodes,json=maxNodes,proto3" json:"max_nodes,omitempty"`
 	unknownFields protoimpl.UnknownFields
 	sizeCache     protoimpl.SizeCache
 }
@@ -216,6 +219,13 @@ func (x *DescribeResponse) GetScalars() []*Scalar {
 		return x.Scalars
 	}
 	return nil
+}
+
+func (x *DescribeResponse) GetMaxNodes() int32 {
+	if x != nil {
+		return x.MaxNodes
+	}
+	return 0
 }
 
 // Parameter describes one key of the params_json object of a RunRequest.
@@ -635,7 +645,7 @@ var File_stage_v1_stage_proto protoreflect.FileDescriptor
 const file_stage_v1_stage_proto_rawDesc = "" +
 	"\n" +
 	"\x14stage/v1/stage.proto\x12\bstage.v1\"\x11\n" +
-	"\x0fDescribeRequest\"\xe4\x01\n" +
+	"\x0fDescribeRequest\"\x81\x02\n" +
 	"\x10DescribeResponse\x12\x12\n" +
 	"\x04name\x18\x01 \x01(\tR\x04name\x12\x18\n" +
 	"\aversion\x18\x02 \x01(\tR\aversion\x12\x18\n" +
@@ -644,7 +654,8 @@ const file_stage_v1_stage_proto_rawDesc = "" +
 	"parameters\x18\x04 \x03(\v2\x13.stage.v1.ParameterR\n" +
 	"parameters\x12'\n" +
 	"\x0fmax_concurrency\x18\x05 \x01(\x05R\x0emaxConcurrency\x12*\n" +
-	"\ascalars\x18\x06 \x03(\v2\x10.stage.v1.ScalarR\ascalars\"\xa6\x02\n" +
+	"\ascalars\x18\x06 \x03(\v2\x10.stage.v1.ScalarR\ascalars\x12\x1b\n" +
+	"\tmax_nodes\x18\a \x01(\x05R\bmaxNodes\"\xa6\x02\n" +
 	"\tParameter\x12\x12\n" +
 	"\x04name\x18\x01 \x01(\tR\x04name\x12\x12\n" +
 	"\x04type\x18\x02 \x01(\tR\x04type\x12!\n" +
