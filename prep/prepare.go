@@ -173,9 +173,10 @@ func Prepare(name string, files []File, s Settings) (*Preparation, error) {
 		return nil, fmt.Errorf("%s: the repanelled section is not usable: %w", where, err)
 	}
 	p.Quality = repanel.Measure(nodes)
-	// The scatter of the points widens the arc of the leading-edge circle
-	// so that noise left in the curve does not upset the radius.
-	po := props.Options{Thickness: s.ThicknessMode, Camber: s.CamberMode, Noise: p.Fit.Scatter / p.Shape.Frame.Chord}
+	// The noise of the points widens the arc of the leading-edge circle so
+	// that noise left in the curve does not upset the radius (0 for exact
+	// points, which are interpolated).
+	po := props.Options{Thickness: s.ThicknessMode, Camber: s.CamberMode, Noise: p.Fit.NoiseEstimate / p.Shape.Frame.Chord}
 	if p.Props, p.Camber, err = props.Compute(p.Shape.Path, p.Shape.SLE, po); err != nil {
 		return nil, fmt.Errorf("%s: %w", where, err)
 	}
@@ -358,7 +359,7 @@ func (p *Preparation) fitSummary() *section.FitSummary {
 	c := p.Shape.Frame.Chord
 	return &section.FitSummary{
 		Method: fit.Method, RMS: fit.RMS, Max: fit.Max, MaxAt: fit.MaxAt.String(),
-		NoiseEstimate: fit.NoiseEstimate, Interpolates: fit.Interpolates,
+		NoiseEstimate: fit.NoiseEstimate, Interpolates: fit.Interpolates, Parameter: fit.Parameter,
 		Fairness: &section.Fairness{
 			Inflections: fit.Fairness.Inflections, Wiggles: fit.Fairness.Wiggles,
 			Roughness: fit.Fairness.Roughness * c * c,

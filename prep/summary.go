@@ -72,6 +72,9 @@ func WriteSectionReport(w io.Writer, s *section.Section, thicknessMode, camberMo
 	u := s.Units
 	if f := s.Fit; f != nil && f.Method == curve.FitInterpolate {
 		fmt.Fprintf(w, "  fit         interpolating spline through every kept point")
+		if f.Parameter != "" {
+			fmt.Fprintf(w, " (%s parameter)", f.Parameter)
+		}
 		if f.Interpolates != "" {
 			fmt.Fprintf(w, ": %s", f.Interpolates)
 		}

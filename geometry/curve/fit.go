@@ -109,6 +109,10 @@ type FitReport struct {
 	// for noisy points, 3 and more for exact samples of a smooth outline;
 	// 0 when not measured.
 	SampleRatio float64
+	// Parameter names the parameter an interpolating fit runs in
+	// (bins.go, chooseParameter): "chord length", "centripetal" or
+	// "uniform"; empty for a smoothing fit (arc length of the feet).
+	Parameter string
 	// Smoothing is the smoothing length in units of the local feature
 	// scale (the arc over which the outline turns by half a radian; see
 	// smoothing.go); 0 when interpolating.
@@ -505,6 +509,9 @@ func Fit(c *geometry.Contour, opts FitOptions) (*Curve, *FitReport, error) {
 					fp = newFitPoints(pts, ws, ends.open)
 				}
 			}
+		}
+		if st.exact {
+			rep.Parameter = fp.chooseParameter(!ends.open)
 		}
 		var err error
 		cv, err = passes(fp, ends.open, ends.open && ws[0] < endWeight, opts, st, rep)

@@ -67,6 +67,10 @@ type FitSummary struct {
 	// Interpolates says why the curve passes through every point, when
 	// it does (noise 0 given, exact samples, too few points).
 	Interpolates string `json:"interpolates,omitempty"`
+	// Parameter is the parameter an interpolating fit runs in (chord
+	// length, centripetal or uniform: the one under which every second
+	// point best predicts the others).
+	Parameter string `json:"parameter,omitempty"`
 	// Fairness measures the curvature of the fitted curve (chord
 	// units): its sign changes, those of them made by noise (lobes much
 	// shorter than the outline's own turns), and its roughness.
