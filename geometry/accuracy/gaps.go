@@ -18,6 +18,8 @@ const (
 	gapTurnDeg = 45
 	// gapsListed is the most gaps listed; the rest are counted.
 	gapsListed = 4
+	// gapMin is the shortest gap considered, in chords.
+	gapMin = 1e-3
 )
 
 // Gaps returns warnings for stretches of the outline the points do not
@@ -75,8 +77,8 @@ func Gaps(c *geometry.Contour, rep *curve.FitReport, cv *curve.Curve, nz *frame.
 			}
 			b += L
 		}
-		if b-a <= 0 {
-			continue
+		if b-a <= gapMin*chord {
+			continue // too short to hide anything (points at a corner)
 		}
 		tg := turn(a, b)
 		if tg <= gapTurnDeg {
