@@ -47,14 +47,20 @@ func Gaps(c *geometry.Contour, rep *curve.FitReport, cv *curve.Curve, nz *frame.
 		}
 		return fmt.Sprintf("point %d", i+1)
 	}
+	at := func(s float64) float64 { // a closed curve wraps
+		if cv.Closed() {
+			return math.Mod(s, L)
+		}
+		return s
+	}
 	// turn returns the turn of the tangent from arc length a to b (b may
 	// pass L on a closed curve), summed over short steps.
 	turn := func(a, b float64) float64 {
 		const steps = 16
 		var total float64
-		prev := cv.Tangent(math.Mod(a, L))
+		prev := cv.Tangent(at(a))
 		for k := 1; k <= steps; k++ {
-			t := cv.Tangent(math.Mod(a+(b-a)*float64(k)/steps, L))
+			t := cv.Tangent(at(a + (b-a)*float64(k)/steps))
 			total += math.Atan2(prev.Cross(t), prev.Dot(t))
 			prev = t
 		}
@@ -85,7 +91,7 @@ func Gaps(c *geometry.Contour, rep *curve.FitReport, cv *curve.Curve, nz *frame.
 			continue
 		}
 		nose := (sLE >= a && sLE < b) || (sLE+L >= a && sLE+L < b)
-		gaps = append(gaps, gap{i: i, j: j, len: b - a, turn: tg, nose: nose, at: nz.Frame.ToChord(cv.At(math.Mod((a+b)/2, L))).X})
+		gaps = append(gaps, gap{i: i, j: j, len: b - a, turn: tg, nose: nose, at: nz.Frame.ToChord(cv.At(at((a+b)/2))).X})
 	}
 	sort.SliceStable(gaps, func(a, b int) bool {
 		if gaps[a].nose != gaps[b].nose {
