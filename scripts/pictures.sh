@@ -26,4 +26,5 @@ cp "$tmp/tunnel/midspan/plots/streamlines-vortex.svg" "$out/tunnel-streamlines.s
 "$fw" run examples/rotor/pipeline.json -q --jobs 2 -o "$tmp/rotor"
 cp "$tmp/rotor/stations.svg" "$out/rotor-stations.svg"
 cp "$tmp/rotor/r700/plots/prep.svg" "$out/rotor-r700-prep.svg"
+cp "$tmp/rotor/r700/plots/cp-vortex.svg" "$out/rotor-r700-cp.svg"
 ls -l "$out"
