@@ -91,7 +91,7 @@ func Gaps(c *geometry.Contour, rep *curve.FitReport, cv *curve.Curve, nz *frame.
 			continue
 		}
 		nose := (sLE >= a && sLE < b) || (sLE+L >= a && sLE+L < b)
-		gaps = append(gaps, gap{i: i, j: j, len: b - a, turn: tg, nose: nose, at: nz.Frame.ToChord(cv.At(at((a+b)/2))).X})
+		gaps = append(gaps, gap{i: i, j: j, len: b - a, turn: tg, nose: nose, at: nz.Frame.ToChord(cv.At(at((a + b) / 2))).X})
 	}
 	sort.SliceStable(gaps, func(a, b int) bool {
 		if gaps[a].nose != gaps[b].nose {
