@@ -8,6 +8,7 @@ import (
 	"strings"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/accuracy"
 	"github.com/foilwright/foilwright/geometry/clean"
 	"github.com/foilwright/foilwright/geometry/curve"
 	"github.com/foilwright/foilwright/geometry/frame"
@@ -47,6 +48,8 @@ type Preparation struct {
 	Props    *props.SectionProperties
 	Camber   *props.CamberLine
 	Quality  repanel.Quality
+	// Uncertainty is the section's statement of its own accuracy.
+	Uncertainty accuracy.Uncertainty
 }
 
 // Cleaned is what the first half of the geometry chain made of a
@@ -225,9 +228,10 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 	if err != nil {
 		return nil, err
 	}
-	// The scatter of the points widens the arc of the leading-edge circle
-	// so that noise left in the curve does not upset the radius.
-	po := props.Options{Thickness: s.ThicknessMode, Camber: s.CamberMode, Noise: p.Fit.Scatter / p.Shape.Frame.Chord}
+	// The noise of the points widens the arc of the leading-edge circle so
+	// that noise left in the curve does not upset the radius (0 for exact
+	// points, which are interpolated).
+	po := props.Options{Thickness: s.ThicknessMode, Camber: s.CamberMode, Noise: p.Fit.NoiseEstimate / p.Shape.Frame.Chord}
 	if _, err := section.CheckNodes(nodes); err == nil {
 		if p.Props, p.Camber, err = props.Compute(p.Shape.Path, p.Shape.SLE, po); err != nil {
 			return nil, fmt.Errorf("%s: %w", where, err)
@@ -237,7 +241,9 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 		return nil, g
 	}
 	p.Quality = repanel.Measure(nodes)
+	p.Uncertainty = accuracy.Estimate(p.Curve, p.Fit, p.Shape, accuracy.Options{Edges: eo})
 	p.Section = p.document(name, cl, nodes, le, rp.Spacing)
+	p.Section.Warnings = append(p.Section.Warnings, accuracy.Gaps(p.Contour, p.Fit, p.Curve, p.Shape)...)
 	p.Section.Panels.Deviation = dev
 	if rp.Panels == 0 {
 		p.Section.Panels.Target = rp.Tolerance
@@ -394,15 +400,16 @@ func (p *Preparation) document(name string, cl *Cleaned, nodes []geometry.Point,
 			Dropped: DroppedOf(cl.Clean, cl.Units),
 		},
 		Frame:        &fr,
-		Fit:          &section.FitSummary{Method: fit.Method, RMS: fit.RMS, Max: fit.Max, MaxAt: fit.MaxAt.String(), NoiseEstimate: fit.NoiseEstimate},
+		Fit:          p.fitSummary(),
 		TrailingEdge: &te,
 		LEIndex:      &le,
 		Panels: &section.PanelSummary{
 			Count: len(nodes) - 1, Spacing: spacing,
 			MaxRatio: p.Quality.MaxRatio, MaxTurnDeg: p.Quality.MaxTurnDeg,
 		},
-		Properties: &docProps,
-		Nodes:      nodes,
+		Properties:  &docProps,
+		Uncertainty: (*section.Uncertainty)(&p.Uncertainty),
+		Nodes:       nodes,
 	}
 	for _, c := range p.Clouds {
 		for _, n := range c.Notes {
@@ -422,6 +429,22 @@ func (p *Preparation) document(name string, cl *Cleaned, nodes []geometry.Point,
 	sec.Warnings = append(sec.Warnings, shape.Warnings...)
 	sec.Warnings = append(sec.Warnings, p.Quality.Warnings...)
 	return sec
+}
+
+// fitSummary returns the fit block of the section document: the method,
+// the residuals, the noise estimate, why the curve interpolates when it
+// does, and its fairness, the roughness in chord units.
+func (p *Preparation) fitSummary() *section.FitSummary {
+	fit := p.Fit
+	c := p.Shape.Frame.Chord
+	return &section.FitSummary{
+		Method: fit.Method, RMS: fit.RMS, Max: fit.Max, MaxAt: fit.MaxAt.String(),
+		NoiseEstimate: fit.NoiseEstimate, Interpolates: fit.Interpolates, Parameter: fit.Parameter,
+		Fairness: &section.Fairness{
+			Inflections: fit.Fairness.Inflections, Wiggles: fit.Fairness.Wiggles,
+			Roughness: fit.Fairness.Roughness * c * c,
+		},
+	}
 }
 
 // readOptions turns the reading settings into pointfile.Options.

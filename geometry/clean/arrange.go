@@ -83,8 +83,8 @@ type attempt struct {
 	// hasFeet says so (a band in a section order; nil otherwise).
 	feet    []geometry.Point
 	hasFeet []bool
-	fail     string  // why a gate refused the loop, "" if none did
-	err      error   // a failure that no other strategy can mend
+	fail    string // why a gate refused the loop, "" if none did
+	err     error  // a failure that no other strategy can mend
 }
 
 // arrange orders the distinct points into loops, picks the section loop

@@ -41,7 +41,7 @@ func untangle(cv *curve.Curve) (*curve.Curve, float64, bool) {
 		}
 		return ps, ss
 	}
-	up, su := sample(0, reach)  // from the corner forward along the upper surface
+	up, su := sample(0, reach)   // from the corner forward along the upper surface
 	lo, sl := sample(L, L-reach) // from the corner back along the lower surface
 	bestU, bestL := -1.0, -1.0
 	for i := 1; i < len(up)-1; i++ { // skip the shared corner segment's start
