@@ -277,6 +277,9 @@ type edgeFound struct {
 	zone     []int32
 	outliers []hit
 	frame    chordFrame // the chord frame of the analysis
+	// misfit is the mean squared misfit of the zone points to the model,
+	// in scatters (capped as in its score, outliers left out).
+	misfit float64
 }
 
 // edgeOutlier is the misfit, in scatters, beyond which a point of the end
@@ -321,10 +324,38 @@ func findEdge(pts []geometry.Point, seq []int32, sigma float64) (edgeFound, bool
 	if n < 2*edgeMinFit+2 {
 		return edgeFound{seq: seq}, false
 	}
-	f, ok := sectionFrame(pts, seq)
+	f, ok := sectionFrameUpTo(pts, seq, 0.3)
 	if !ok {
 		return edgeFound{seq: seq}, false
 	}
+	r, ok := findEdgeIn(pts, seq, sigma, f)
+	if ok && r.misfit <= edgePoor {
+		return r, true
+	}
+	// No model of the end explains the points of the end the widths
+	// called thin (the nose of a thin, strongly cambered section with a
+	// wide trailing-edge angle is no wider there): the other end is
+	// analysed too, and the end a model explains better is the trailing
+	// edge.
+	if r2, ok2 := findEdgeIn(pts, seq, sigma, newChordFrame(f.te, f.le)); ok2 && (!ok || r2.misfit < r.misfit) {
+		return r2, true
+	}
+	return r, ok
+}
+
+// edgeEvidence is the least difference of scores by which a rounded end
+// wins over a blunt one (a likelihood ratio of e, positive evidence on
+// the usual scale of Bayes factors, common practice).
+const edgeEvidence = 2
+
+// edgePoor is the mean squared misfit of the zone points, in scatters, of
+// the best end model beyond which findEdge looks at the other end too (a
+// model that explains the points gives about 1).
+const edgePoor = 4
+
+// findEdgeIn is findEdge in the chord frame f.
+func findEdgeIn(pts []geometry.Point, seq []int32, sigma float64, f chordFrame) (edgeFound, bool) {
+	n := len(seq)
 	xs, ys := make([]float64, n), make([]float64, n)
 	for k, i := range seq {
 		xs[k], ys[k] = f.at(pts[i])
@@ -382,6 +413,11 @@ func findEdge(pts []geometry.Point, seq []int32, sigma float64) (edgeFound, bool
 	}
 	// The step between points near the edge.
 	step := max(localStep(pts, seq, at(k0+uf), 1, 5), localStep(pts, seq, at(k0-lf), -1, 5)) / f.chord
+	if es, ok := endStep(z[:len(z)-len(holes)], lf-1); ok {
+		// The spacing at the end itself, where the models differ: a
+		// drawing's cosine stations crowd there.
+		step = es
+	}
 	// Twice: the second time each surface is fitted again with the zone
 	// points the first verdict gave it, which shortens the reach of the
 	// fits into the zone to the last of them.
@@ -454,6 +490,12 @@ func findEdge(pts []geometry.Point, seq []int32, sigma float64) (edgeFound, bool
 // winner (see findEdge).
 func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, scat float64) (endModel, []bool, bool) {
 	pen := 2 * math.Log(float64(len(z))+2)
+	// Every model's outline is measured from the foremost zone station on
+	// (the part all share is the same length in each).
+	xa := xmax
+	for _, p := range z {
+		xa = min(xa, p.X)
+	}
 	var models []endModel
 	// Sharp.
 	sepEnd := u.at(xmax) - l.at(xmax)
@@ -476,13 +518,13 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, scat float64) (endM
 		if c.Dist(lastU)+c.Dist(lastL) <= edgeReach*step+lastU.Dist(lastL)+2*scat || sepEnd <= 2*scat {
 			m := endModel{kind: EdgeSharp, xu: xc, xl: xc, corner: c}
 			if !sampled(z, c, 2*scat) {
-				// A corner no point sampled: the stretch round it is an
-				// unsampled gap, and the surfaces' last points end at the
-				// same chord station only by chance (as the stations of a
-				// drawing end at a blunt base, never short of a corner).
-				a, b := c.Dist(lastU), c.Dist(lastL)
-				m.extra = gapDeviance(a+b, step) + coincidence(math.Abs(lastU.X-lastL.X)+scat, step)
+				// A corner no point sampled: the surfaces' last points
+				// end at the same chord station only by chance (as the
+				// stations of a drawing end at a blunt base whose corners
+				// they sample, never short of a corner).
+				m.extra = coincidence(math.Abs(lastU.X-lastL.X)+scat, scat, step)
 			}
+			m.extra += gapDeviance(m.path(u, l, xa), step)
 			m.scoreOf(u, l, z, scat)
 			models = append(models, m)
 		}
@@ -499,6 +541,9 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, scat float64) (endM
 			}
 		}
 		m := endModel{kind: EdgeSharp, xu: xmax, xl: xmax, corner: c}
+		// The surfaces' fits end sepEnd apart, each half of it off the
+		// corner they share: a misfit of the fits' ends, in scatters.
+		m.extra = gapDeviance(m.path(u, l, xa), step) + 2*sq(sepEnd/2/scat)
 		m.scoreOf(u, l, z, scat)
 		models = append(models, m)
 	}
@@ -511,12 +556,13 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, scat float64) (endM
 			continue
 		}
 		m := endModel{kind: EdgeBlunt, xu: xb, xl: xb, lo: lo, hi: hi, extra: pen}
-		if !sampled(z, geometry.Point{X: xb, Y: (lo.Y + hi.Y) / 2}, (hi.Y-lo.Y)/2+2*scat) {
-			// No point on the base: its path from the last points of the
-			// surfaces across is an unsampled gap.
-			lastU, lastL := lastOn(z, u, l, xb)
-			m.extra += gapDeviance(lastU.Dist(hi)+hi.Dist(lo)+lo.Dist(lastL), step)
+		if cs := max(2*scat, snapTol(scat, step)); !sampled(z, hi, cs) || !sampled(z, lo, cs) {
+			// A corner no point sampled: the surfaces' last points end
+			// at the same station by chance, as short of a sharp corner.
+			lastU, lastL := lastOn(z, u, l, xb+cs)
+			m.extra += coincidence(math.Abs(lastU.X-lastL.X)+scat, scat, step)
 		}
+		m.extra += gapDeviance(m.path(u, l, xa), step)
 		m.scoreOf(u, l, z, scat)
 		if bestB == nil || m.score < bestB.score {
 			bestB = &m
@@ -525,23 +571,12 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, scat float64) (endM
 	if bestB != nil {
 		models = append(models, *bestB)
 	}
-	// Rounded: arcs whose tips lie about the aftmost point.
-	var bestR *endModel
-	if rmax := max(sepEnd, 0) / 2 * 2; rmax > 0 {
-		for j := range edgeBases {
-			xt := xmax + (float64(j)/float64(edgeBases-1)-0.75)*4*scat
-			m, ok := roundTip(u, l, xt, rmax)
-			if !ok {
-				continue
-			}
-			m.extra = pen
-			m.scoreOf(u, l, z, scat)
-			if bestR == nil || m.score < bestR.score {
-				bestR = &m
-			}
-		}
-	}
-	if bestR != nil {
+	// Rounded: arcs whose tips lie about the aftmost point, or beyond it
+	// by up to a step: an end sampled by one or two points need not have
+	// one at its tip (a point a angle θ round an arc of radius r lies
+	// r(1 − cos θ) short of it). The best of a grid of tips is refined by
+	// golden-section search between its neighbours.
+	if bestR := roundBest(u, l, z, xmax, xa, step, scat, max(sepEnd, 0), pen); bestR != nil {
 		models = append(models, *bestR)
 	}
 	if len(models) == 0 {
@@ -564,23 +599,92 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, scat float64) (endM
 	for k := range models {
 		models[k].score = models[k].misfit(u, l, z, scat, edgeOutlier, out) + models[k].extra
 	}
+	// A rounded end must beat a blunt one by edgeEvidence: an end sampled
+	// by a point or two fits a base and an arc alike, and the base is the
+	// more common end of a measured or drawn section (common practice).
 	best := models[0]
 	for _, m := range models[1:] {
-		if m.score < best.score {
+		margin := 0.0
+		if m.kind == EdgeRounded && best.kind == EdgeBlunt {
+			margin = edgeEvidence
+		}
+		if best.kind == EdgeRounded && m.kind == EdgeBlunt {
+			margin = -edgeEvidence
+		}
+		if m.score+margin < best.score {
 			best = m
 		}
 	}
 	if edgeTrace != nil {
 		for _, m := range models {
-			edgeTrace("model %s score %.1f xu %.5f xl %.5f r %.5g lo %v hi %v corner %v", m.kind, m.score, m.xu, m.xl, m.r, m.lo, m.hi, m.corner)
+			edgeTrace("model %s score %.1f extra %.2f xu %.5f xl %.5f r %.5g lo %v hi %v corner %v", m.kind, m.score, m.extra, m.xu, m.xl, m.r, m.lo, m.hi, m.corner)
 		}
 		edgeTrace("zone %d points, xmax %.5f step %.4g scat %.3g pen %.1f", len(z), xmax, step, scat, pen)
 	}
 	return best, out, true
 }
 
+// roundBest returns the best scored rounded end whose tip lies between
+// 3 scatters short of xmax and a step beyond it (at least a scatter), nil
+// when no arc fits; rmax is the largest radius tried.
+func roundBest(u, l quadFit, z []geometry.Point, xmax, xa, step, scat, rmax, pen float64) *endModel {
+	if !(rmax > 0) {
+		return nil
+	}
+	lo, hi := xmax-3*scat, xmax+max(scat, step)
+	tipAt := func(xt float64) (endModel, bool) {
+		m, ok := roundTip(u, l, xt, rmax)
+		if !ok {
+			return m, false
+		}
+		m.extra = pen + gapDeviance(m.path(u, l, xa), step)
+		m.scoreOf(u, l, z, scat)
+		return m, true
+	}
+	var best *endModel
+	bj := -1
+	xt := func(j int) float64 { return lo + (hi-lo)*float64(j)/float64(edgeBases-1) }
+	for j := range edgeBases {
+		if m, ok := tipAt(xt(j)); ok && (best == nil || m.score < best.score) {
+			best, bj = &m, j
+		}
+	}
+	if best == nil {
+		return nil
+	}
+	// Golden-section search over the grid cells either side of the best.
+	a, b := xt(max(bj-1, 0)), xt(min(bj+1, edgeBases-1))
+	score := func(x float64) float64 {
+		m, ok := tipAt(x)
+		if !ok {
+			return math.Inf(1)
+		}
+		if m.score < best.score {
+			best = &m
+		}
+		return m.score
+	}
+	const g = 0.6180339887498949
+	c, d := b-g*(b-a), a+g*(b-a)
+	fc, fd := score(c), score(d)
+	for range 30 {
+		if fc < fd {
+			b, d, fd = d, c, fc
+			c = b - g*(b-a)
+			fc = score(c)
+		} else {
+			a, c, fc = c, d, fd
+			d = a + g*(b-a)
+			fd = score(d)
+		}
+	}
+	return best
+}
+
 // edgeTrace, when set (by a debugging test), receives the scores.
 var edgeTrace func(string, ...any)
+
+func sq(x float64) float64 { return x * x }
 
 // snapTol is how near (chord units) a point must lie to a corner the end
 // model places for the corner to be that point: within a twentieth of the
@@ -605,9 +709,43 @@ func sampled(z []geometry.Point, c geometry.Point, d float64) bool {
 	return false
 }
 
-// gapDeviance is −2 ln of the chance that a stretch of the outline of
-// length gap holds no point when points fall along it at random with a
-// mean step (a Poisson process, common practice): 2·gap/step.
+// path returns the length of the model's outline from the station xa on
+// the lower surface round the end to xa on the upper one.
+func (m *endModel) path(u, l quadFit, xa float64) float64 {
+	arc := func(q quadFit, a, b float64) float64 {
+		if b <= a {
+			return 0
+		}
+		const k = 8
+		var s float64
+		prev := geometry.Point{X: a, Y: q.at(a)}
+		for j := 1; j <= k; j++ {
+			x := a + (b-a)*float64(j)/k
+			p := geometry.Point{X: x, Y: q.at(x)}
+			s += p.Dist(prev)
+			prev = p
+		}
+		return s
+	}
+	s := arc(u, xa, m.xu) + arc(l, xa, m.xl)
+	switch m.kind {
+	case EdgeBlunt:
+		s += m.hi.Dist(m.lo)
+	case EdgeRounded:
+		a := math.Atan2(m.tu.Y-m.centre.Y, m.tu.X-m.centre.X) - math.Atan2(m.tl.Y-m.centre.Y, m.tl.X-m.centre.X)
+		if a < 0 {
+			a += 2 * math.Pi
+		}
+		s += a * m.r
+	}
+	return s
+}
+
+// gapDeviance is −2 ln of the chance, up to a constant, of the points of
+// a stretch of the outline of length gap when they fall along it at
+// random with a mean step (a Poisson process, common practice): 2·gap/step.
+// Models of the same points that trace outlines of different lengths
+// differ by it: a longer outline leaves more of itself unsampled.
 func gapDeviance(gap, step float64) float64 {
 	if !(step > 0) {
 		return 0
@@ -617,9 +755,12 @@ func gapDeviance(gap, step float64) float64 {
 
 // coincidence is −2 ln of the chance that the last points of two surfaces
 // sampled independently with a mean step lie within dx of each other
-// along the chord: 2·dx/step, at most 1.
-func coincidence(dx, step float64) float64 {
-	if !(step > 0) {
+// along the chord: 2·dx/step, at most 1. dx includes the scatter, and it
+// counts only when the points align within two scatters (the stations of
+// a drawing): an offset the noise cannot make is no more likely under
+// one model of the end than under another.
+func coincidence(dx, scat, step float64) float64 {
+	if !(step > 0) || dx > 3*scat {
 		return 0
 	}
 	return -2 * math.Log(min(1, 2*dx/step))
@@ -683,7 +824,10 @@ func (m endModel) apply(pts []geometry.Point, seq []int32, f chordFrame, u, l qu
 		}
 	}
 	for j, p := range z {
-		w := m.side(u, l, p, scat)
+		// A point within the snapping distance of a surface's end is
+		// that surface's (a drawing's station at a corner), however
+		// close the base.
+		w := m.side(u, l, p, max(scat, snapTol(scat, step)))
 		if m.kind == EdgeSharp && w == 0 {
 			// Beyond the corner: the side it is nearer to.
 			w = -1
@@ -819,6 +963,13 @@ func (m endModel) apply(pts []geometry.Point, seq []int32, f chordFrame, u, l qu
 // outliers (out, see chooseEnd).
 func (m endModel) found(loop []int32, e Edge, pts []geometry.Point, seq []int32, u, l quadFit, zpos []int, z []geometry.Point, out []bool, scat float64, f chordFrame) edgeFound {
 	r := edgeFound{seq: loop, edge: e, frame: f}
+	kept := 0
+	for j := range z {
+		if !out[j] {
+			kept++
+		}
+	}
+	r.misfit = m.misfit(u, l, z, scat, edgeOutlier, out) / float64(max(kept, 1))
 	for j, k := range zpos {
 		r.zone = append(r.zone, seq[k])
 		if out[j] {
@@ -860,6 +1011,24 @@ func crossing(u, l quadFit, x0, lo, hi float64) (float64, bool) {
 		}
 	}
 	return best, ok
+}
+
+// endStep returns the median of the four distances between consecutive
+// zone points nearest the aftmost one (at position i0 of the zone, which
+// runs from the lower surface round the end to the upper one): two each
+// side, one of which may cross a base. ok is false when fewer than three
+// are there.
+func endStep(z []geometry.Point, i0 int) (float64, bool) {
+	var ds []float64
+	for j := i0 - 2; j <= i0+1; j++ {
+		if j >= 0 && j+1 < len(z) {
+			ds = append(ds, z[j].Dist(z[j+1]))
+		}
+	}
+	if len(ds) < 3 {
+		return 0, false
+	}
+	return median(ds), true
 }
 
 // localStep returns the median distance between consecutive points of

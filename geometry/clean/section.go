@@ -70,17 +70,33 @@ func farthestPair(pts []geometry.Point, sel []int32) (a, b int32) {
 
 // endWidth returns the width across the chord of the points of sel (in
 // chord coordinates xs, ys) whose x lies in [lo, hi]: the spread between
-// the 10 % and 90 % quantiles of their y, or −1 when fewer than 4 points
-// lie there.
+// the 10 % and 90 % quantiles of their offsets from the line fitted
+// through them, or −1 when fewer than 4 points lie there.
 func endWidth(xs, ys []float64, lo, hi float64) float64 {
 	var in []float64
+	var sx, sy, sxx, sxy float64
 	for i, x := range xs {
 		if x >= lo && x <= hi {
 			in = append(in, ys[i])
+			sx, sy, sxx, sxy = sx+x, sy+ys[i], sxx+x*x, sxy+x*ys[i]
 		}
 	}
 	if len(in) < 4 {
 		return -1
+	}
+	// Across the line fitted through the window's points (least squares):
+	// at a strongly cambered tail the surfaces slope, and the spread of y
+	// over the window would count the slope as width.
+	m := float64(len(in))
+	var slope float64
+	if d := m*sxx - sx*sx; d > 0 {
+		slope = (m*sxy - sx*sy) / d
+	}
+	in = in[:0]
+	for i, x := range xs {
+		if x >= lo && x <= hi {
+			in = append(in, ys[i]-slope*x)
+		}
 	}
 	slices.Sort(in)
 	k := len(in) / 10
@@ -92,6 +108,14 @@ func endWidth(xs, ys []float64, lo, hi float64) float64 {
 // between 2 % and 10 % of the chord inwards (a trailing edge is the thin
 // end). ok is false when neither end can be judged.
 func sectionFrame(pts []geometry.Point, sel []int32) (chordFrame, bool) {
+	return sectionFrameUpTo(pts, sel, 0.1)
+}
+
+// sectionFrameUpTo is sectionFrame with windows that widen up to
+// 2 %–reach of the chord (0.1, 0.2, 0.3) until each end holds four
+// points. Only a loop already found to be the section may widen them
+// (the trailing-edge analysis): an open arc of few points would pass.
+func sectionFrameUpTo(pts []geometry.Point, sel []int32, reach float64) (chordFrame, bool) {
 	a, b := farthestPair(pts, sel)
 	f := newChordFrame(pts[a], pts[b])
 	if !(f.chord > 0) {
@@ -101,7 +125,18 @@ func sectionFrame(pts []geometry.Point, sel []int32) (chordFrame, bool) {
 	for k, i := range sel {
 		xs[k], ys[k] = f.at(pts[i])
 	}
-	wa, wb := endWidth(xs, ys, 0.02, 0.1), endWidth(xs, ys, 0.9, 0.98)
+	// Wider windows, the same at both ends, for sparse points (the
+	// stations of a drawing, 20 a surface).
+	var wa, wb float64
+	for _, h := range [...]float64{0.1, 0.2, 0.3} {
+		if h > reach+1e-9 {
+			break
+		}
+		wa, wb = endWidth(xs, ys, 0.02, h), endWidth(xs, ys, 1-h, 0.98)
+		if wa >= 0 && wb >= 0 {
+			break
+		}
+	}
 	if wa < 0 || wb < 0 {
 		return f, false
 	}
