@@ -242,6 +242,9 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 	}
 	p.Quality = repanel.Measure(nodes)
 	p.Uncertainty = accuracy.Estimate(p.Curve, p.Fit, p.Shape, accuracy.Options{Edges: eo})
+	if useEdge {
+		widenForEdge(&p.Uncertainty, cl.Clean.Edge)
+	}
 	p.Section = p.document(name, cl, nodes, le, rp.Spacing)
 	p.Section.Warnings = append(p.Section.Warnings, accuracy.Gaps(p.Contour, p.Fit, p.Curve, p.Shape)...)
 	p.Section.Panels.Deviation = dev
@@ -290,6 +293,17 @@ func (p *Preparation) fit(cl *Cleaned, s Settings, useEdge bool) error {
 	}
 	p.Curve, p.Fit = cv, rep
 	return nil
+}
+
+// widenForEdge widens the chord's bound to the spread of the trailing
+// edges that the points cannot tell apart (clean.Edge.Spread): the end of
+// a section may be an unsampled sharp corner or a base through the last
+// points, and the chord is one or the other; the bound says so rather
+// than resting on the one chosen.
+func widenForEdge(u *accuracy.Uncertainty, e *clean.Edge) {
+	if e != nil && e.Spread > u.Chord {
+		u.Chord = e.Spread
+	}
 }
 
 // fitEdge returns the trailing edge the cleaning step found on the

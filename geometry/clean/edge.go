@@ -41,7 +41,18 @@ type Edge struct {
 	Chord float64
 	// Why says what decided the kind, in words a user can check.
 	Why string
+	// Spread is how far along the chord (input units) the trailing edge
+	// of another model of the end lies from this one's, among the models
+	// the points cannot tell from it (edgePlausible): an unsampled sharp
+	// corner beyond a base through the last points, say. 0 when the
+	// points decide.
+	Spread float64
 }
+
+// edgePlausible is the score difference (−2 ln of a likelihood ratio of
+// 20, common practice for a 95 % statement) within which another model of
+// the end counts as plausible for Edge.Spread.
+const edgePlausible = 6
 
 // Lengths of the trailing-edge analysis, in chord units.
 const (
@@ -79,6 +90,20 @@ type endModel struct {
 	centre         geometry.Point
 	r              float64
 	tl, tu         geometry.Point
+	// spread: see Edge.Spread (chord units), set on the winner.
+	spread float64
+}
+
+// tipX returns the chord station of the model's trailing edge: the
+// corner, the base, the tip of the arc.
+func (m *endModel) tipX() float64 {
+	switch m.kind {
+	case EdgeSharp:
+		return m.corner.X
+	case EdgeBlunt:
+		return (m.lo.X + m.hi.X) / 2
+	}
+	return m.centre.X + m.r
 }
 
 // surfaceMiss returns the distance of p from the surface q up to xEnd:
@@ -280,6 +305,8 @@ type edgeFound struct {
 	// misfit is the mean squared misfit of the zone points to the model,
 	// in scatters (capped as in its score, outliers left out).
 	misfit float64
+	// scat is the scatter the models were scored in (chord units).
+	scat float64
 }
 
 // edgeOutlier is the misfit, in scatters, beyond which a point of the end
@@ -335,9 +362,10 @@ func findEdge(pts []geometry.Point, seq []int32, sigma float64) (edgeFound, bool
 	// No model of the end explains the points of the end the widths
 	// called thin (the nose of a thin, strongly cambered section with a
 	// wide trailing-edge angle is no wider there): the other end is
-	// analysed too, and the end a model explains better is the trailing
-	// edge.
-	if r2, ok2 := findEdgeIn(pts, seq, sigma, newChordFrame(f.te, f.le)); ok2 && (!ok || r2.misfit < r.misfit) {
+	// analysed too, and when a model explains that one, with surfaces
+	// that parabolas fit at least as closely (a nose's do not), it is the
+	// trailing edge.
+	if r2, ok2 := findEdgeIn(pts, seq, sigma, newChordFrame(f.te, f.le)); ok2 && r2.misfit <= edgePoor && (!ok || r2.misfit < r.misfit && r2.scat <= r.scat) {
 		return r2, true
 	}
 	return r, ok
@@ -413,10 +441,13 @@ func findEdgeIn(pts []geometry.Point, seq []int32, sigma float64, f chordFrame) 
 	}
 	// The step between points near the edge.
 	step := max(localStep(pts, seq, at(k0+uf), 1, 5), localStep(pts, seq, at(k0-lf), -1, 5)) / f.chord
+	// The spacing at the end itself, where the models' outlines differ,
+	// sets the rate of the points along them (a drawing's cosine stations
+	// crowd there); the snapping and reach tolerances keep the step of
+	// the surfaces ahead.
+	pstep := step
 	if es, ok := endStep(z[:len(z)-len(holes)], lf-1); ok {
-		// The spacing at the end itself, where the models differ: a
-		// drawing's cosine stations crowd there.
-		step = es
+		pstep = es
 	}
 	// Twice: the second time each surface is fitted again with the zone
 	// points the first verdict gave it, which shortens the reach of the
@@ -434,7 +465,7 @@ func findEdgeIn(pts []geometry.Point, seq []int32, sigma float64, f chordFrame) 
 			return edgeFound{seq: seq}, false
 		}
 		scat = max(sigma/f.chord, us, ls, 1e-9)
-		m, o, ok := chooseEnd(u, l, z, xmax, step, scat)
+		m, o, ok := chooseEnd(u, l, z, xmax, step, pstep, scat)
 		if !ok {
 			return edgeFound{seq: seq}, false
 		}
@@ -478,7 +509,7 @@ func findEdgeIn(pts []geometry.Point, seq []int32, sigma float64, f chordFrame) 
 	}
 	if u2, _ := fitScatter(xs, ys, coreU); u2.ok {
 		if l2, _ := fitScatter(xs, ys, coreL); l2.ok {
-			if m, o, ok := chooseEnd(u2, l2, z, xmax, step, scat); ok && m.score < best.score {
+			if m, o, ok := chooseEnd(u2, l2, z, xmax, step, pstep, scat); ok && m.score < best.score {
 				best, out, u, l = m, o, u2, l2
 			}
 		}
@@ -488,7 +519,7 @@ func findEdgeIn(pts []geometry.Point, seq []int32, sigma float64, f chordFrame) 
 
 // chooseEnd fits the three end models to the zone points z and returns the
 // winner (see findEdge).
-func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, scat float64) (endModel, []bool, bool) {
+func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, pstep, scat float64) (endModel, []bool, bool) {
 	pen := 2 * math.Log(float64(len(z))+2)
 	// Every model's outline is measured from the foremost zone station on
 	// (the part all share is the same length in each).
@@ -522,9 +553,9 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, scat float64) (endM
 				// end at the same chord station only by chance (as the
 				// stations of a drawing end at a blunt base whose corners
 				// they sample, never short of a corner).
-				m.extra = coincidence(math.Abs(lastU.X-lastL.X)+scat, scat, step)
+				m.extra = coincidence(math.Abs(lastU.X-lastL.X)+scat, scat, pstep)
 			}
-			m.extra += gapDeviance(m.path(u, l, xa), step)
+			m.extra += gapDeviance(m.path(u, l, xa), pstep)
 			m.scoreOf(u, l, z, scat)
 			models = append(models, m)
 		}
@@ -543,7 +574,7 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, scat float64) (endM
 		m := endModel{kind: EdgeSharp, xu: xmax, xl: xmax, corner: c}
 		// The surfaces' fits end sepEnd apart, each half of it off the
 		// corner they share: a misfit of the fits' ends, in scatters.
-		m.extra = gapDeviance(m.path(u, l, xa), step) + 2*sq(sepEnd/2/scat)
+		m.extra = gapDeviance(m.path(u, l, xa), pstep) + 2*sq(sepEnd/2/scat)
 		m.scoreOf(u, l, z, scat)
 		models = append(models, m)
 	}
@@ -560,9 +591,9 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, scat float64) (endM
 			// A corner no point sampled: the surfaces' last points end
 			// at the same station by chance, as short of a sharp corner.
 			lastU, lastL := lastOn(z, u, l, xb+cs)
-			m.extra += coincidence(math.Abs(lastU.X-lastL.X)+scat, scat, step)
+			m.extra += coincidence(math.Abs(lastU.X-lastL.X)+scat, scat, pstep)
 		}
-		m.extra += gapDeviance(m.path(u, l, xa), step)
+		m.extra += gapDeviance(m.path(u, l, xa), pstep)
 		m.scoreOf(u, l, z, scat)
 		if bestB == nil || m.score < bestB.score {
 			bestB = &m
@@ -576,7 +607,7 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, scat float64) (endM
 	// one at its tip (a point a angle θ round an arc of radius r lies
 	// r(1 − cos θ) short of it). The best of a grid of tips is refined by
 	// golden-section search between its neighbours.
-	if bestR := roundBest(u, l, z, xmax, xa, step, scat, max(sepEnd, 0), pen); bestR != nil {
+	if bestR := roundBest(u, l, z, xmax, xa, step, pstep, scat, max(sepEnd, 0), pen); bestR != nil {
 		models = append(models, *bestR)
 	}
 	if len(models) == 0 {
@@ -615,6 +646,11 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, scat float64) (endM
 			best = m
 		}
 	}
+	for _, m := range models {
+		if m.score <= best.score+edgePlausible {
+			best.spread = max(best.spread, math.Abs(m.tipX()-best.tipX()))
+		}
+	}
 	if edgeTrace != nil {
 		for _, m := range models {
 			edgeTrace("model %s score %.1f extra %.2f xu %.5f xl %.5f r %.5g lo %v hi %v corner %v", m.kind, m.score, m.extra, m.xu, m.xl, m.r, m.lo, m.hi, m.corner)
@@ -627,7 +663,7 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, scat float64) (endM
 // roundBest returns the best scored rounded end whose tip lies between
 // 3 scatters short of xmax and a step beyond it (at least a scatter), nil
 // when no arc fits; rmax is the largest radius tried.
-func roundBest(u, l quadFit, z []geometry.Point, xmax, xa, step, scat, rmax, pen float64) *endModel {
+func roundBest(u, l quadFit, z []geometry.Point, xmax, xa, step, pstep, scat, rmax, pen float64) *endModel {
 	if !(rmax > 0) {
 		return nil
 	}
@@ -637,7 +673,7 @@ func roundBest(u, l quadFit, z []geometry.Point, xmax, xa, step, scat, rmax, pen
 		if !ok {
 			return m, false
 		}
-		m.extra = pen + gapDeviance(m.path(u, l, xa), step)
+		m.extra = pen + gapDeviance(m.path(u, l, xa), pstep)
 		m.scoreOf(u, l, z, scat)
 		return m, true
 	}
@@ -889,7 +925,7 @@ func (m endModel) apply(pts []geometry.Point, seq []int32, f chordFrame, u, l qu
 	for _, p := range end {
 		out = append(out, seq[zpos[p.k]])
 	}
-	e := Edge{Kind: m.kind, Chord: f.chord}
+	e := Edge{Kind: m.kind, Chord: f.chord, Spread: m.spread * f.chord}
 	switch m.kind {
 	case EdgeSharp:
 		e.Why = "the surfaces, fitted near the edge, meet in a corner"
@@ -970,6 +1006,7 @@ func (m endModel) found(loop []int32, e Edge, pts []geometry.Point, seq []int32,
 		}
 	}
 	r.misfit = m.misfit(u, l, z, scat, edgeOutlier, out) / float64(max(kept, 1))
+	r.scat = scat
 	for j, k := range zpos {
 		r.zone = append(r.zone, seq[k])
 		if out[j] {

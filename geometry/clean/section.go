@@ -70,33 +70,17 @@ func farthestPair(pts []geometry.Point, sel []int32) (a, b int32) {
 
 // endWidth returns the width across the chord of the points of sel (in
 // chord coordinates xs, ys) whose x lies in [lo, hi]: the spread between
-// the 10 % and 90 % quantiles of their offsets from the line fitted
-// through them, or −1 when fewer than 4 points lie there.
+// the 10 % and 90 % quantiles of their y, or −1 when fewer than 4 points
+// lie there.
 func endWidth(xs, ys []float64, lo, hi float64) float64 {
 	var in []float64
-	var sx, sy, sxx, sxy float64
 	for i, x := range xs {
 		if x >= lo && x <= hi {
 			in = append(in, ys[i])
-			sx, sy, sxx, sxy = sx+x, sy+ys[i], sxx+x*x, sxy+x*ys[i]
 		}
 	}
 	if len(in) < 4 {
 		return -1
-	}
-	// Across the line fitted through the window's points (least squares):
-	// at a strongly cambered tail the surfaces slope, and the spread of y
-	// over the window would count the slope as width.
-	m := float64(len(in))
-	var slope float64
-	if d := m*sxx - sx*sx; d > 0 {
-		slope = (m*sxy - sx*sy) / d
-	}
-	in = in[:0]
-	for i, x := range xs {
-		if x >= lo && x <= hi {
-			in = append(in, ys[i]-slope*x)
-		}
 	}
 	slices.Sort(in)
 	k := len(in) / 10
