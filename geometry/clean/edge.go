@@ -703,7 +703,7 @@ func roundBest(u, l quadFit, z []geometry.Point, xmax, xa, step, pstep, scat, rm
 	const g = 0.6180339887498949
 	c, d := b-g*(b-a), a+g*(b-a)
 	fc, fd := score(c), score(d)
-	for range 30 {
+	for range 20 {
 		if fc < fd {
 			b, d, fd = d, c, fc
 			c = b - g*(b-a)
