@@ -92,6 +92,24 @@ type endModel struct {
 	tl, tu         geometry.Point
 	// spread: see Edge.Spread (chord units), set on the winner.
 	spread float64
+	// tipLo, tipHi: the range of the trailing edge's station over the
+	// positions of this kind of end (the bases or arcs tried) that score
+	// within edgePlausible of this one, when tips says they were measured.
+	tipLo, tipHi float64
+	tips         bool
+}
+
+// plausibleTips returns the range of tipX over the candidates that score
+// within edgePlausible of best.
+func plausibleTips(cands []endModel, best float64) (lo, hi float64) {
+	lo, hi = math.Inf(1), math.Inf(-1)
+	for i := range cands {
+		if cands[i].score <= best+edgePlausible {
+			x := cands[i].tipX()
+			lo, hi = min(lo, x), max(hi, x)
+		}
+	}
+	return lo, hi
 }
 
 // tipX returns the chord station of the model's trailing edge: the
@@ -578,10 +596,15 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, pstep, scat float64
 		m.scoreOf(u, l, z, scat)
 		models = append(models, m)
 	}
-	// Blunt: bases about the aftmost point.
+	// Blunt: bases about the aftmost point, and beyond it by up to two
+	// steps (a base no point sampled, its position left open).
 	var bestB *endModel
-	for j := range edgeBases {
+	var cands []endModel
+	for j := range edgeBases + edgeBases/2 {
 		xb := xmax + (float64(j)/float64(edgeBases-1)-0.75)*4*scat
+		if j >= edgeBases {
+			xb = xmax + 2*pstep*float64(j-edgeBases+1)/float64(edgeBases/2)
+		}
 		lo, hi := geometry.Point{X: xb, Y: l.at(xb)}, geometry.Point{X: xb, Y: u.at(xb)}
 		if hi.Y <= lo.Y {
 			continue
@@ -595,11 +618,14 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, pstep, scat float64
 		}
 		m.extra += gapDeviance(m.path(u, l, xa), pstep)
 		m.scoreOf(u, l, z, scat)
+		cands = append(cands, m)
 		if bestB == nil || m.score < bestB.score {
 			bestB = &m
 		}
 	}
 	if bestB != nil {
+		bestB.tipLo, bestB.tipHi = plausibleTips(cands, bestB.score)
+		bestB.tips = true
 		models = append(models, *bestB)
 	}
 	// Rounded: arcs whose tips lie about the aftmost point, or beyond it
@@ -648,7 +674,12 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, pstep, scat float64
 	}
 	for _, m := range models {
 		if m.score <= best.score+edgePlausible {
-			best.spread = max(best.spread, math.Abs(m.tipX()-best.tipX()))
+			bx := best.tipX()
+			best.spread = max(best.spread, math.Abs(m.tipX()-bx))
+			if m.tips {
+				// The positions of its kind the points leave open.
+				best.spread = max(best.spread, math.Abs(m.tipLo-bx), math.Abs(m.tipHi-bx))
+			}
 		}
 	}
 	if edgeTrace != nil {
@@ -678,16 +709,26 @@ func roundBest(u, l quadFit, z []geometry.Point, xmax, xa, step, pstep, scat, rm
 		return m, true
 	}
 	var best *endModel
+	var cands []endModel
 	bj := -1
 	xt := func(j int) float64 { return lo + (hi-lo)*float64(j)/float64(edgeBases-1) }
 	for j := range edgeBases {
-		if m, ok := tipAt(xt(j)); ok && (best == nil || m.score < best.score) {
+		m, ok := tipAt(xt(j))
+		if !ok {
+			continue
+		}
+		cands = append(cands, m)
+		if best == nil || m.score < best.score {
 			best, bj = &m, j
 		}
 	}
 	if best == nil {
 		return nil
 	}
+	defer func() {
+		best.tipLo, best.tipHi = plausibleTips(cands, best.score)
+		best.tips = true
+	}()
 	// Golden-section search over the grid cells either side of the best.
 	a, b := xt(max(bj-1, 0)), xt(min(bj+1, edgeBases-1))
 	score := func(x float64) float64 {
