@@ -301,7 +301,7 @@ func (p *Preparation) fit(cl *Cleaned, s Settings, useEdge bool) error {
 // points, and the chord is one or the other; the bound says so rather
 // than resting on the one chosen.
 func widenForEdge(u *accuracy.Uncertainty, e *clean.Edge) {
-	if e != nil && e.Spread > u.Chord {
+	if e != nil && e.Spread > u.Chord && !math.IsInf(e.Spread, 0) {
 		u.Chord = e.Spread
 	}
 }

@@ -99,12 +99,12 @@ type endModel struct {
 	tips         bool
 }
 
-// plausibleTips returns the range of tipX over the candidates that score
-// within edgePlausible of best.
-func plausibleTips(cands []endModel, best float64) (lo, hi float64) {
-	lo, hi = math.Inf(1), math.Inf(-1)
+// plausibleTips returns the range of tipX over best and the candidates
+// that score within edgePlausible of it.
+func plausibleTips(cands []endModel, best *endModel) (lo, hi float64) {
+	lo, hi = best.tipX(), best.tipX()
 	for i := range cands {
-		if cands[i].score <= best+edgePlausible {
+		if cands[i].score <= best.score+edgePlausible {
 			x := cands[i].tipX()
 			lo, hi = min(lo, x), max(hi, x)
 		}
@@ -624,7 +624,7 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, pstep, scat float64
 		}
 	}
 	if bestB != nil {
-		bestB.tipLo, bestB.tipHi = plausibleTips(cands, bestB.score)
+		bestB.tipLo, bestB.tipHi = plausibleTips(cands, bestB)
 		bestB.tips = true
 		models = append(models, *bestB)
 	}
@@ -726,7 +726,7 @@ func roundBest(u, l quadFit, z []geometry.Point, xmax, xa, step, pstep, scat, rm
 		return nil
 	}
 	defer func() {
-		best.tipLo, best.tipHi = plausibleTips(cands, best.score)
+		best.tipLo, best.tipHi = plausibleTips(cands, best)
 		best.tips = true
 	}()
 	// Golden-section search over the grid cells either side of the best.
