@@ -1059,9 +1059,14 @@ func passes(fp fitPoints, open, freeEnds bool, opts FitOptions, st *smoothState,
 	}
 	if lambda > 0 {
 		period := nperiod
+		prevProb := prob
 		for step := 0; step < fairSteps; step++ {
 			f, err := prob.fit(lambda, cols, false)
 			if err != nil {
+				// Smoothed past what the system can carry: the step
+				// before stands.
+				prob = prevProb
+				rep.FairSteps--
 				break
 			}
 			fr := MeasureFairness(fromFit(prob, f, !open), Tat)
@@ -1070,8 +1075,12 @@ func passes(fp fitPoints, open, freeEnds bool, opts FitOptions, st *smoothState,
 				break
 			}
 			// Smooth more about each wiggle: the weights of the points
-			// within a lobe's length of it drop by fairGrow.
-			w = append([]float64(nil), w...)
+			// within a lobe's length of it drop by fairGrow, once a step
+			// however many lobes overlap there (dense noisy scans have
+			// many), so that the weights span at most fairGrow^fairSteps
+			// more than the risk estimate gave them and the system stays
+			// well conditioned.
+			in := make([]bool, m)
 			for _, lb := range lobes {
 				pad := lb[1] - lb[0]
 				for i, si := range s {
@@ -1080,10 +1089,17 @@ func passes(fp fitPoints, open, freeEnds bool, opts FitOptions, st *smoothState,
 						d -= period
 					}
 					if d >= lb[0]-pad && d <= lb[1]+pad {
-						w[i] /= fairGrow
+						in[i] = true
 					}
 				}
 			}
+			w = append([]float64(nil), w...)
+			for i, ok := range in {
+				if ok {
+					w[i] /= fairGrow
+				}
+			}
+			prevProb = prob
 			prob = splineNewProblem(nts, w, !open, nperiod)
 			rep.FairSteps++
 		}
