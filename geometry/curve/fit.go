@@ -1060,6 +1060,7 @@ func passes(fp fitPoints, open, freeEnds bool, opts FitOptions, st *smoothState,
 	if lambda > 0 {
 		period := nperiod
 		prevProb := prob
+		w0 := w
 		for step := 0; step < fairSteps; step++ {
 			f, err := prob.fit(lambda, cols, false)
 			if err != nil {
@@ -1075,12 +1076,13 @@ func passes(fp fitPoints, open, freeEnds bool, opts FitOptions, st *smoothState,
 				break
 			}
 			// Smooth more about each wiggle: the weights of the points
-			// within a lobe's length of it drop by fairGrow, once a step
-			// however many lobes overlap there (dense noisy scans have
-			// many), so that the weights span at most fairGrow^fairSteps
-			// more than the risk estimate gave them and the system stays
-			// well conditioned.
-			in := make([]bool, m)
+			// within a lobe's length of it drop by fairGrow for each lobe,
+			// but to no less than fairFloor of what the risk estimate gave
+			// them: on dense noisy scans many lobes overlap, and weights
+			// without a floor fell to 1e-24 of their start, where the
+			// spline system is no longer positive definite in floating
+			// point.
+			w = append([]float64(nil), w...)
 			for _, lb := range lobes {
 				pad := lb[1] - lb[0]
 				for i, si := range s {
@@ -1089,14 +1091,8 @@ func passes(fp fitPoints, open, freeEnds bool, opts FitOptions, st *smoothState,
 						d -= period
 					}
 					if d >= lb[0]-pad && d <= lb[1]+pad {
-						in[i] = true
+						w[i] = math.Max(w[i]/fairGrow, fairFloor*w0[i])
 					}
-				}
-			}
-			w = append([]float64(nil), w...)
-			for i, ok := range in {
-				if ok {
-					w[i] /= fairGrow
 				}
 			}
 			prevProb = prob
@@ -1126,6 +1122,8 @@ func passes(fp fitPoints, open, freeEnds bool, opts FitOptions, st *smoothState,
 const (
 	fairGrow  = 2
 	fairSteps = 16
+	// fairFloor is the least share of its weight a point keeps.
+	fairFloor = 1e-8
 )
 
 // reparametrise returns the arc lengths of the feet of the points on cv
