@@ -124,7 +124,7 @@ func newFitPoints(pts []geometry.Point, ws []float64, along []float64, open bool
 		fp.xs[i], fp.ys[i] = p.X, p.Y
 		if i > 0 {
 			d := p.Dist(fp.pts[i-1])
-			if fAlong != nil {
+			if fAlong != nil && fp.of == nil {
 				d = fAlong[i] - fAlong[i-1]
 			}
 			fp.ts[i] = fp.ts[i-1] + math.Max(d, 1e-12)

@@ -1059,9 +1059,15 @@ func passes(fp fitPoints, open, freeEnds bool, opts FitOptions, st *smoothState,
 	}
 	if lambda > 0 {
 		period := nperiod
+		prevProb := prob
+		w0 := w
 		for step := 0; step < fairSteps; step++ {
 			f, err := prob.fit(lambda, cols, false)
 			if err != nil {
+				// Smoothed past what the system can carry: the step
+				// before stands.
+				prob = prevProb
+				rep.FairSteps--
 				break
 			}
 			fr := MeasureFairness(fromFit(prob, f, !open), Tat)
@@ -1070,7 +1076,12 @@ func passes(fp fitPoints, open, freeEnds bool, opts FitOptions, st *smoothState,
 				break
 			}
 			// Smooth more about each wiggle: the weights of the points
-			// within a lobe's length of it drop by fairGrow.
+			// within a lobe's length of it drop by fairGrow for each lobe,
+			// but to no less than fairFloor of what the risk estimate gave
+			// them: on dense noisy scans many lobes overlap, and weights
+			// without a floor fell to 1e-24 of their start, where the
+			// spline system is no longer positive definite in floating
+			// point.
 			w = append([]float64(nil), w...)
 			for _, lb := range lobes {
 				pad := lb[1] - lb[0]
@@ -1080,10 +1091,11 @@ func passes(fp fitPoints, open, freeEnds bool, opts FitOptions, st *smoothState,
 						d -= period
 					}
 					if d >= lb[0]-pad && d <= lb[1]+pad {
-						w[i] /= fairGrow
+						w[i] = math.Max(w[i]/fairGrow, fairFloor*w0[i])
 					}
 				}
 			}
+			prevProb = prob
 			prob = splineNewProblem(nts, w, !open, nperiod)
 			rep.FairSteps++
 		}
@@ -1110,6 +1122,8 @@ func passes(fp fitPoints, open, freeEnds bool, opts FitOptions, st *smoothState,
 const (
 	fairGrow  = 2
 	fairSteps = 16
+	// fairFloor is the least share of its weight a point keeps.
+	fairFloor = 1e-8
 )
 
 // reparametrise returns the arc lengths of the feet of the points on cv
