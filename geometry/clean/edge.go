@@ -744,7 +744,9 @@ func roundBest(u, l quadFit, z []geometry.Point, xmax, xa, step, pstep, scat, rm
 	const g = 0.6180339887498949
 	c, d := b-g*(b-a), a+g*(b-a)
 	fc, fd := score(c), score(d)
-	for range 20 {
+	// Until the bracket is a tenth of the scatter: finer tips change no
+	// score that matters.
+	for k := 0; k < 20 && b-a > scat/10; k++ {
 		if fc < fd {
 			b, d, fd = d, c, fc
 			c = b - g*(b-a)
