@@ -422,6 +422,22 @@ func dense(pts []geometry.Point, nb *nbrs) []int32 {
 	return sel
 }
 
+// insideShare returns the share of up to eight points of loop l, evenly
+// spaced along it, that lie inside the polygon poly.
+func insideShare(pts []geometry.Point, l []int32, poly []geometry.Point) float64 {
+	m := min(8, len(l))
+	if m == 0 {
+		return 0
+	}
+	in := 0
+	for k := range m {
+		if geometry.InsideLoop(poly, pts[l[k*len(l)/m]]) {
+			in++
+		}
+	}
+	return float64(in) / float64(m)
+}
+
 // evaluate picks loop opts.Loop of loops (the rest are left over), drops
 // its outliers and places the points left over, and applies the gates:
 // the loop must keep at least minCoverage of the points.
@@ -450,12 +466,35 @@ func (cl *cleaning) evaluate(strategy string, loops, rest [][]int32, opts Option
 		a.err = err
 		return a
 	}
-	// The other loops are walls of the part, not points of this one.
+	// The other loops nested with this one are walls of the part (a hollow
+	// blade's inner wall), not points of this one; a loop beside it is a
+	// piece of the same outline that the ordering broke off, whose points
+	// the section must keep.
 	walls := 0
-	for _, l := range loops {
-		walls += len(l)
+	if len(loops) > 1 {
+		poly := make([]geometry.Point, len(seq))
+		for k, i := range seq {
+			poly[k] = pts[i]
+		}
+		for _, l := range loops {
+			if len(l) == len(seq) && l[0] == seq[0] {
+				continue
+			}
+			// Nested either way: the inner wall of the outer one picked,
+			// or the outer wall of the inner one the user asked for.
+			wall := insideShare(pts, l, poly) >= 0.5
+			if !wall {
+				lp := make([]geometry.Point, len(l))
+				for k, i := range l {
+					lp[k] = pts[i]
+				}
+				wall = insideShare(pts, seq, lp) >= 0.5
+			}
+			if wall {
+				walls += len(l)
+			}
+		}
 	}
-	walls -= len(seq)
 	// The trailing edge's end zone is left to the edge's model: found on
 	// the loop without the points a first pass calls outliers (one near the
 	// edge could pass for its end), it spares every point near the edge.
