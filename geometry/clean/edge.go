@@ -571,7 +571,7 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, pstep, scat float64
 				// end at the same chord station only by chance (as the
 				// stations of a drawing end at a blunt base whose corners
 				// they sample, never short of a corner).
-				m.extra = coincidence(math.Abs(lastU.X-lastL.X)+scat, scat, pstep)
+				m.extra = coincidence(math.Abs(lastU.X-lastL.X)+scat, pstep)
 			}
 			m.extra += gapDeviance(m.path(u, l, xa), pstep)
 			m.scoreOf(u, l, z, scat)
@@ -614,7 +614,7 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, pstep, scat float64
 			// A corner no point sampled: the surfaces' last points end
 			// at the same station by chance, as short of a sharp corner.
 			lastU, lastL := lastOn(z, u, l, xb+cs)
-			m.extra += coincidence(math.Abs(lastU.X-lastL.X)+scat, scat, pstep)
+			m.extra += coincidence(math.Abs(lastU.X-lastL.X)+scat, pstep)
 		}
 		m.extra += gapDeviance(m.path(u, l, xa), pstep)
 		m.scoreOf(u, l, z, scat)
@@ -834,12 +834,13 @@ func gapDeviance(gap, step float64) float64 {
 
 // coincidence is −2 ln of the chance that the last points of two surfaces
 // sampled independently with a mean step lie within dx of each other
-// along the chord: 2·dx/step, at most 1. dx includes the scatter, and it
-// counts only when the points align within two scatters (the stations of
-// a drawing): an offset the noise cannot make is no more likely under
-// one model of the end than under another.
-func coincidence(dx, scat, step float64) float64 {
-	if !(step > 0) || dx > 3*scat {
+// along the chord: 2·dx/step, at most 1 (dx includes the scatter). Every
+// model whose ends the last points do not sample pays it (a sharp corner
+// beyond them, a base one of whose corners no point lies on), so it
+// weighs only for a base whose corners both are sampled (the stations of
+// a drawing, a probe's hits at both corners).
+func coincidence(dx, step float64) float64 {
+	if !(step > 0) {
 		return 0
 	}
 	return -2 * math.Log(min(1, 2*dx/step))
