@@ -45,7 +45,7 @@ const DefaultReplicas = 12
 // bias over the tangent of half the edge angle. For exact data the half
 // fits alone speak, for the error at twice the spacing.
 var (
-	factorsNoisy = deltas{chord: 5.5, twistDeg: 2.75, le: 2.0, surface: 2.7}
+	factorsNoisy = deltas{chord: 5.5, twistDeg: 2.75, le: 2.0, surface: 2.9}
 	factorsExact = deltas{chord: 3.0, twistDeg: 2.0, le: 1.0, surface: 1.5}
 )
 
