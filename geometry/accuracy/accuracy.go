@@ -123,16 +123,25 @@ func Estimate(cv *curve.Curve, rep *curve.FitReport, nz *frame.Normalized, opts 
 	// The ends of an open fit pinned where the points end (no base points)
 	// are where the trailing edge was found. At a blunt edge they are the
 	// last points either side, and the surfaces may run on unseen for up
-	// to a spacing h: the base may lie that far beyond, whatever stations
-	// the last points share (the campaign found bases two spacings beyond
-	// ends that share a station to a thousandth of a spacing), or the
-	// surfaces may even meet in a corner there (unseenCorner). At a sharp
-	// edge the corner's place along the chord is what the replicas do not
-	// see (cornerAlong); the midpoint moves by the noise at most.
+	// to a spacing h. Ends that stop at the same station along the chord
+	// (within twice their offset and the noise) mark the base, as a probe
+	// program that ends each pass on the edge leaves them; otherwise the
+	// midpoint of the edge may lie anywhere over a spacing. The surfaces
+	// may also meet in a corner beyond them (unseenCorner). Ends the
+	// points cannot tell apart at all widen the bound further where the
+	// edge is decided (prep). At a sharp edge the corner's place along the
+	// chord is what the replicas do not see (cornerAlong); the midpoint
+	// moves by the noise at most.
 	if h := rep.EndGap(); h > 0 {
 		if cv.Start().Dist(cv.End()) > sameEnd*cv.Length() {
+			fr := nz.Frame
+			d := geometry.Point{X: math.Cos(-fr.TwistDeg * math.Pi / 180), Y: math.Sin(-fr.TwistDeg * math.Pi / 180)}
+			if fr.Mirrored {
+				d.X = -d.X
+			}
+			along := math.Abs(cv.Start().Sub(cv.End()).Dot(d))
 			dc, dt := unseenCorner(cv, nz.Frame, h)
-			u.Chord += math.Max(h, dc)
+			u.Chord += math.Max(0.95*math.Min(h, 2*along+2*rep.NoiseEstimate), dc)
 			u.TwistDeg += dt
 		} else {
 			u.Chord += 0.95*math.Min(h, 2*rep.NoiseEstimate) + cornerAlong(cv, rep)

@@ -169,8 +169,7 @@ func TestEstimateCornerNoPointSampled(t *testing.T) {
 	// blunt (ends at the last points, no base points). The surfaces may
 	// run on to a corner beyond them, which is where the part's corner is:
 	// the stated chord bound must cover the chord lost, over seeds, and
-	// stay a bound (within three times the loss: the base may lie a
-	// spacing of the last points beyond them), not a blanket.
+	// stay a bound (within three times the loss), not a blanket.
 	n := shape.NACA4{Thickness: 0.12, SharpTE: true}
 	const stations, left = 60, 3
 	var loop []geometry.Point
