@@ -45,7 +45,7 @@ const DefaultReplicas = 12
 // bias over the tangent of half the edge angle. For exact data the half
 // fits alone speak, for the error at twice the spacing.
 var (
-	factorsNoisy = deltas{chord: 5.5, twistDeg: 2.75, le: 2.0, surface: 2.4}
+	factorsNoisy = deltas{chord: 5.5, twistDeg: 2.75, le: 2.0, surface: 2.9}
 	factorsExact = deltas{chord: 3.0, twistDeg: 2.0, le: 1.0, surface: 1.5}
 )
 
@@ -120,20 +120,32 @@ func Estimate(cv *curve.Curve, rep *curve.FitReport, nz *frame.Normalized, opts 
 		LE:       f.le * math.Max(rn.le, rh.le),
 		Surface:  f.surface * math.Max(rn.surface, rh.surface),
 	}
-	// The ends of a blunt edge without base points are the last points
-	// either side; the surfaces may run on unseen for up to a spacing h.
-	// Ends that stop at the same station along the chord (within twice
-	// their offset and the noise) mark the base, as a probe program that
-	// ends each pass on the edge leaves them; otherwise the midpoint of
-	// the edge may lie anywhere over a spacing.
+	// The ends of an open fit pinned where the points end (no base points)
+	// are where the trailing edge was found. At a blunt edge they are the
+	// last points either side, and the surfaces may run on unseen for up
+	// to a spacing h. Ends that stop at the same station along the chord
+	// (within twice their offset and the noise) mark the base, as a probe
+	// program that ends each pass on the edge leaves them; otherwise the
+	// midpoint of the edge may lie anywhere over a spacing. The surfaces
+	// may also meet in a corner beyond them (unseenCorner). Ends the
+	// points cannot tell apart at all widen the bound further where the
+	// edge is decided (prep). At a sharp edge the corner's place along the
+	// chord is what the replicas do not see (cornerAlong); the midpoint
+	// moves by the noise at most.
 	if h := rep.EndGap(); h > 0 {
-		fr := nz.Frame
-		d := geometry.Point{X: math.Cos(-fr.TwistDeg * math.Pi / 180), Y: math.Sin(-fr.TwistDeg * math.Pi / 180)}
-		if fr.Mirrored {
-			d.X = -d.X
+		if cv.Start().Dist(cv.End()) > sameEnd*cv.Length() {
+			fr := nz.Frame
+			d := geometry.Point{X: math.Cos(-fr.TwistDeg * math.Pi / 180), Y: math.Sin(-fr.TwistDeg * math.Pi / 180)}
+			if fr.Mirrored {
+				d.X = -d.X
+			}
+			along := math.Abs(cv.Start().Sub(cv.End()).Dot(d))
+			dc, dt := unseenCorner(cv, nz.Frame, h)
+			u.Chord += math.Max(0.95*math.Min(h, 2*along+2*rep.NoiseEstimate), dc)
+			u.TwistDeg += dt
+		} else {
+			u.Chord += 0.95*math.Min(h, 2*rep.NoiseEstimate) + cornerAlong(cv, rep)
 		}
-		along := math.Abs(cv.Start().Sub(cv.End()).Dot(d))
-		u.Chord += 0.95 * math.Min(h, 2*along+2*rep.NoiseEstimate)
 	}
 	// Floors: what the arithmetic of the chain (projections, searches
 	// for the farthest point, quadrature) leaves even on exact data.
@@ -246,3 +258,106 @@ func maxDistance(qs, poly []geometry.Point, ratio int) float64 {
 
 // distWindow is the half-width, in segments, of maxDistance's search.
 const distWindow = 40
+
+// cornerReach is how many end spacings the surfaces of an edge read as
+// blunt may run on unseen: gaps of irregular sampling differ by that much
+// from their median (log-normal gaps of σ 0.8 exceed 3 medians one time
+// in ten, and the edge has two sides).
+const cornerReach = 3
+
+// unseenCorner returns what an edge read as blunt from the last points
+// either side (no points on a base) leaves unknown: the two surfaces,
+// run on straight along their last stretch, may meet in a sharp corner
+// beyond the points. When they meet within cornerReach end spacings h of
+// both ends, the points cannot tell that corner from a blunt edge, and the
+// chord may be longer by the corner's distance beyond the edge's midpoint
+// (input units) and the twist off by the angle the corner's offset from
+// the midpoint makes at the leading edge (degrees). Otherwise (surfaces
+// that part or meet far beyond the points) it returns zeros.
+func unseenCorner(cv *curve.Curve, fr frame.Frame, h float64) (chord, twistDeg float64) {
+	L := cv.Length()
+	if !(h > 0) || !(L > 2*h) || !(fr.Chord > 0) {
+		return 0, 0
+	}
+	a, b := fr.ToChord(cv.Start()), fr.ToChord(cv.End())
+	da := a.Sub(fr.ToChord(cv.At(h)))
+	db := b.Sub(fr.ToChord(cv.At(L - h)))
+	la, lb := math.Hypot(da.X, da.Y), math.Hypot(db.X, db.Y)
+	if !(la > 0) || !(lb > 0) {
+		return 0, 0
+	}
+	da, db = da.Scale(1/la), db.Scale(1/lb)
+	// a + s·da = b + t·db.
+	det := da.Cross(db)
+	if math.Abs(det) < 1e-9 {
+		return 0, 0
+	}
+	w := b.Sub(a)
+	s := w.Cross(db) / det
+	t := w.Cross(da) / det
+	reach := cornerReach * h / fr.Chord
+	if !(s > 0) || !(t > 0) || s > reach || t > reach {
+		return 0, 0
+	}
+	corner := a.Add(da.Scale(s))
+	mid := a.Add(b).Scale(0.5)
+	chord = math.Max(0, corner.X-mid.X) * fr.Chord
+	if corner.X > 0 && mid.X > 0 {
+		twistDeg = math.Abs(math.Atan2(corner.Y, corner.X)-math.Atan2(mid.Y, mid.X)) * 180 / math.Pi
+	}
+	return chord, twistDeg
+}
+
+// cornerFactor is the coverage factor of cornerAlong, set from the
+// campaign as the other factors are.
+var cornerFactor = 3.0
+
+// cornerGap is the share of the longer unsampled stretch to the corner
+// by which the corner may lie off along the chord beyond what cornerFactor
+// covers: the surfaces carried over the stretch follow a model of their
+// shape, not the part (set from the campaign).
+var cornerGap = 0.1
+
+// cornerAlong returns the 95 % bound on how far along the edge's bisector
+// the corner of a sharp edge that the fit was given (the surfaces' fits
+// carried to where they meet, or the aftmost point) may lie from the true
+// one (input units): the replicas move the ends across the curve, never
+// along it. A surface whose position near the corner is uncertain by δ
+// moves the corner along the bisector by δ/(2 sin(θ/2)), θ the edge angle;
+// two surfaces, independently, by δ/(√2 sin(θ/2)). δ is the noise a replica
+// simulates and, for the stretch a surface runs on unsampled to the
+// corner (a step a), the miss κa²/2 of a straight extrapolation over it
+// at the curvature κ there. It returns 0 unless the curve's ends meet.
+func cornerAlong(cv *curve.Curve, rep *curve.FitReport) float64 {
+	L := cv.Length()
+	if cv.Closed() || !(L > 0) || cv.Start().Dist(cv.End()) > sameEnd*L {
+		return 0
+	}
+	a, b := rep.EndSteps()
+	if !(a > 0) || !(b > 0) || a+b >= L/2 {
+		return 0
+	}
+	c := cv.Start()
+	da := c.Sub(cv.At(a))
+	db := c.Sub(cv.At(L - b))
+	la, lb := math.Hypot(da.X, da.Y), math.Hypot(db.X, db.Y)
+	if !(la > 0) || !(lb > 0) {
+		return 0
+	}
+	half := da.Scale(1 / la).Sub(db.Scale(1 / lb))
+	sinHalf := math.Max(math.Hypot(half.X, half.Y)/2, minSinHalf)
+	sigma := rep.ReplicaNoise()
+	ka := math.Abs(cv.Curvature(a)) * a * a / 2
+	kb := math.Abs(cv.Curvature(L-b)) * b * b / 2
+	delta := math.Sqrt(2*sigma*sigma + ka*ka + kb*kb)
+	return cornerFactor*delta/(2*sinHalf) + cornerGap*math.Max(a, b)
+}
+
+// sameEnd is how near (a share of the curve's length) the ends of an open
+// curve lie when they are one corner, pinned there by the fit.
+const sameEnd = 1e-6
+
+// minSinHalf bounds the sine of half the edge angle from below: a cusp
+// (surfaces that meet tangentially) is not a corner whose place the
+// crossing fixes, and the bound is not pushed to infinity there.
+const minSinHalf = 0.02

@@ -159,3 +159,50 @@ func TestGapsNose(t *testing.T) {
 		t.Errorf("warnings %q, want the nose between test.csv:21 and test.csv:22 first", ws)
 	}
 }
+
+func TestEstimateCornerNoPointSampled(t *testing.T) {
+	// A sharp NACA 0012 (NACA Report 824 equations, closed trailing edge)
+	// probed at 60 cosine stations a surface with 0.01 mm noise over a
+	// 150 mm chord, the last three stations left out: the last points
+	// either side stop about 1 % of the chord short of the corner, and the
+	// edge is handed to the fit as the chain hands an edge it reads as
+	// blunt (ends at the last points, no base points). The surfaces may
+	// run on to a corner beyond them, which is where the part's corner is:
+	// the stated chord bound must cover the chord lost, over seeds, and
+	// stay a bound (within three times the loss), not a blanket.
+	n := shape.NACA4{Thickness: 0.12, SharpTE: true}
+	const stations, left = 60, 3
+	var loop []geometry.Point
+	for i := stations - left; i >= 1; i-- {
+		loop = append(loop, n.Upper(shape.CosineStation(i, stations)))
+	}
+	loop = append(loop, geometry.Point{})
+	for i := 1; i <= stations-left; i++ {
+		loop = append(loop, n.Lower(shape.CosineStation(i, stations)))
+	}
+	for seed := uint64(1); seed <= 4; seed++ {
+		part := testfoil.Part{Chord: 150, RotDeg: 5, Shift: geometry.Point{X: -20, Y: 8}, Noise: 0.01, Seed: seed}
+		c := testfoil.Contour(loop, part)
+		edge := &curve.Edge{Upper: c.Points[0], Lower: c.Points[c.Len()-1]}
+		cv, rep, err := curve.Fit(c, curve.FitOptions{Edge: edge})
+		if err != nil {
+			t.Fatal(err)
+		}
+		nz, err := frame.Normalize(cv, frame.Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		u := Estimate(cv, rep, nz, Options{})
+		ec, _, _, _ := trueErrors(t, nz, n, part)
+		t.Logf("seed %d: chord error %.4f mm, bound %.4f mm", seed, ec, u.Chord)
+		if ec < 0.005*150 {
+			t.Fatalf("seed %d: chord error %.4f mm: the corner was not left unsampled", seed, ec)
+		}
+		if ec > u.Chord {
+			t.Errorf("seed %d: chord error %.4f mm beyond its bound %.4f mm", seed, ec, u.Chord)
+		}
+		if u.Chord > 3*ec {
+			t.Errorf("seed %d: chord bound %.4f mm for an error of %.4f mm: a blanket, not a bound", seed, u.Chord, ec)
+		}
+	}
+}

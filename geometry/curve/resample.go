@@ -69,6 +69,24 @@ func (r *FitReport) EndGap() float64 {
 	return rs.ends.h
 }
 
+// EndSteps returns, for an open fit, the distances from each end of the
+// curve to the first data point inside it (in the fit's parameter, which
+// is arc length): how far each surface runs on unsampled to an end the
+// fit was given (a corner found where the surfaces meet). It returns
+// zeros for a closed fit.
+func (r *FitReport) EndSteps() (first, last float64) {
+	rs := r.resampler
+	if rs == nil || !rs.open {
+		return 0, 0
+	}
+	ts := rs.prob.ts
+	n := len(ts)
+	if n < 2 {
+		return 0, 0
+	}
+	return ts[1] - ts[0], ts[n-1] - ts[n-2]
+}
+
 // ReplicaNoise returns the standard deviation of the noise a replica simulates
 // at each knot (input units; 0 when the fit interpolates).
 func (r *FitReport) ReplicaNoise() float64 {
