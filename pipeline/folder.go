@@ -35,12 +35,16 @@ type runFolder struct {
 	earlier bool   // final holds an earlier run (a manifest), replaced on commit
 	exists  bool   // final exists (an earlier run or an empty folder)
 	lock    *folderLock
+	// leftover are staging folders a crash left, kept for a resumed run
+	// to adopt (openRunFolder with adopt); the others remove them.
+	leftover []string
 }
 
 // openRunFolder takes the folder's lock, puts back an earlier run a crash
 // left parked, checks the folder (a new or empty folder; with replace, an
-// earlier run and nothing else) and makes the staging folder.
-func openRunFolder(folder string, replace bool) (rf *runFolder, err error) {
+// earlier run and nothing else) and makes the staging folder. With adopt,
+// staging folders a crash left are kept in rf.leftover, for a resumed run.
+func openRunFolder(folder string, replace, adopt bool) (rf *runFolder, err error) {
 	abs, err := filepath.Abs(folder)
 	if err != nil {
 		return nil, fmt.Errorf("pipeline: run folder: %w", err)
@@ -65,7 +69,7 @@ func openRunFolder(folder string, replace bool) (rf *runFolder, err error) {
 		}
 	}()
 	rf = &runFolder{final: abs, lock: lock}
-	if err := rf.recover(parent, base); err != nil {
+	if err := rf.recover(parent, base, adopt); err != nil {
 		return nil, err
 	}
 	if err := rf.check(folder, replace); err != nil {
@@ -85,8 +89,8 @@ func openRunFolder(folder string, replace bool) (rf *runFolder, err error) {
 
 // recover puts back an earlier run parked by a crash between the two
 // renames of a commit, and removes staging folders and parked runs that a
-// crash left.
-func (rf *runFolder) recover(parent, base string) error {
+// crash left (keeping the staging folders in rf.leftover with adopt).
+func (rf *runFolder) recover(parent, base string, adopt bool) error {
 	entries, err := os.ReadDir(parent)
 	if err != nil {
 		return fmt.Errorf("pipeline: run folder: %w", err)
@@ -105,6 +109,9 @@ func (rf *runFolder) recover(parent, base string) error {
 			return fmt.Errorf("pipeline: run folder: put back the earlier run: %w", err)
 		}
 		parked = nil
+	}
+	if adopt {
+		rf.leftover, staged = staged, nil
 	}
 	for _, p := range append(parked, staged...) {
 		os.RemoveAll(p) // never follows a symbolic link

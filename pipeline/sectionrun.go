@@ -3,6 +3,7 @@ package pipeline
 import (
 	"bytes"
 	"context"
+	"encoding/json"
 	"errors"
 	"fmt"
 	"os"
@@ -81,10 +82,47 @@ func Documents() []string {
 // sectionResult is what one section produced.
 type sectionResult struct {
 	report  SectionReport
-	section *section.Section // the section made, when preparing succeeded
-	files   []FileHash       // inputs as read
+	files   []FileHash // inputs as read
 	outputs map[string]string
 	timing  SectionTiming
+	// doc is the section document and results the stages' result
+	// documents by stage id, for the batch table and the stations.
+	doc     []byte
+	results map[string][]byte
+}
+
+// entry is the journal entry of a finished section i: its record for the
+// manifest, its outputs and timing, its report and its row of the batch
+// table (and its section document when withSection).
+func (res *sectionResult) entry(pl *Plan, i int, withSection bool) *journalEntry {
+	sp := pl.Sections[i]
+	inputs := res.files
+	if inputs == nil {
+		inputs = []FileHash{}
+	}
+	rep := res.report
+	e := &journalEntry{Index: i,
+		Record: SectionRecord{Name: sp.Name, Station: sp.Station, Inputs: inputs, Settings: sp.Settings,
+			Status: rep.Status, Err: rep.Err, Stages: rep.Stages},
+		Outputs: res.outputs, Timing: res.timing, Summary: rep.Summary, Input: rep.Input}
+	e.Row = tableRow(sp.Name, sp.Station, rep.Status, rep.Err, res.verdict(), res.doc, pl.stageIDs(), res.results)
+	if withSection && res.doc != nil {
+		e.Section = json.RawMessage(res.doc)
+	}
+	return e
+}
+
+// verdict is the section's verdict against its design, for the batch
+// table, when the pipeline compares it ("" otherwise).
+func (res *sectionResult) verdict() string { return "" }
+
+// stageIDs returns the ids of the stages in the order they run.
+func (pl *Plan) stageIDs() []string {
+	ids := make([]string, len(pl.Stages))
+	for i, st := range pl.Stages {
+		ids[i] = st.ID
+	}
+	return ids
 }
 
 // output is one file of a section, relative to the run folder.
@@ -232,7 +270,7 @@ func (r *sectionRun) collectDocuments() bool {
 		}
 		r.outs = append(r.outs, outs...)
 	}
-	r.res.section = r.sec
+	r.res.doc = r.prepared.Section
 	return true
 }
 
@@ -290,6 +328,7 @@ func (r *sectionRun) runStages(calls []StageCall, runner StageRunner) bool {
 			sr.Status = StatusOK
 			sr.Warnings = out.Warnings
 			results[st.ID] = out.JSON
+			r.res.results = results
 			r.stageOutputs(st.ID, out)
 		}
 		rep.Stages = append(rep.Stages, sr)
@@ -361,8 +400,12 @@ func (r *sectionRun) collectExports() bool {
 	return true
 }
 
-// writeFile writes one output; tests replace it to fail like a full disk.
-var writeFile = atomicfile.WriteBytes
+// writeFile and writeStream write one output; tests replace them to fail
+// like a full disk.
+var (
+	writeFile   = atomicfile.WriteBytes
+	writeStream = atomicfile.Write
+)
 
 // write writes the collected files into the (staging) run folder, each
 // atomically, and records their digests. Two outputs of one name fail the
