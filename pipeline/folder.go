@@ -6,6 +6,7 @@ import (
 	"io/fs"
 	"os"
 	"path/filepath"
+	"slices"
 	"sort"
 	"strings"
 )
@@ -45,6 +46,16 @@ type runFolder struct {
 // earlier run and nothing else) and makes the staging folder. With adopt,
 // staging folders a crash left are kept in rf.leftover, for a resumed run.
 func openRunFolder(folder string, replace, adopt bool) (rf *runFolder, err error) {
+	return openFolder(folder, replace, adopt, false)
+}
+
+// openRunFolderShards is openRunFolder for Merge: the folder may also hold
+// the shards' parts (under ShardsDir), which the merged run replaces.
+func openRunFolderShards(folder string, replace bool) (*runFolder, error) {
+	return openFolder(folder, replace, false, true)
+}
+
+func openFolder(folder string, replace, adopt, shards bool) (rf *runFolder, err error) {
 	abs, err := filepath.Abs(folder)
 	if err != nil {
 		return nil, fmt.Errorf("pipeline: run folder: %w", err)
@@ -72,7 +83,7 @@ func openRunFolder(folder string, replace, adopt bool) (rf *runFolder, err error
 	if err := rf.recover(parent, base, adopt); err != nil {
 		return nil, err
 	}
-	if err := rf.check(folder, replace); err != nil {
+	if err := rf.check(folder, replace, shards); err != nil {
 		return nil, err
 	}
 	if rf.staging, err = os.MkdirTemp(parent, "."+base+stagingInfix); err != nil {
@@ -123,7 +134,7 @@ func (rf *runFolder) recover(parent, base string, adopt bool) error {
 // replace is not set, or, with replace, anything the earlier run did not
 // write there (a symbolic link, a file its manifest does not list): the
 // whole folder is replaced, so nothing else may be in it.
-func (rf *runFolder) check(folder string, replace bool) error {
+func (rf *runFolder) check(folder string, replace, shards bool) error {
 	fi, err := os.Lstat(rf.final)
 	switch {
 	case errors.Is(err, fs.ErrNotExist):
@@ -139,6 +150,9 @@ func (rf *runFolder) check(folder string, replace bool) error {
 	entries, err := os.ReadDir(rf.final)
 	if err != nil {
 		return fmt.Errorf("pipeline: run folder: %w", err)
+	}
+	if shards {
+		entries = slices.DeleteFunc(entries, func(e fs.DirEntry) bool { return e.Name() == ShardsDir && e.IsDir() })
 	}
 	if len(entries) == 0 {
 		return nil
@@ -161,6 +175,9 @@ func (rf *runFolder) check(folder string, replace bool) error {
 		}
 		rel, _ := filepath.Rel(rf.final, p)
 		rel = filepath.ToSlash(rel)
+		if shards && rel == ShardsDir && d.IsDir() {
+			return filepath.SkipDir
+		}
 		switch t := d.Type(); {
 		case t&fs.ModeSymlink != 0:
 			foreign = append(foreign, rel+" (a symbolic link)")

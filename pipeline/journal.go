@@ -51,11 +51,15 @@ type journalHeader struct {
 	Format string `json:"format"`
 	runHead
 	Shard *Shard `json:"shard,omitempty"`
+	// Attempt counts the attempts at the run: 1, then one more for each
+	// resumed run.
+	Attempt int `json:"attempt"`
 }
 
 // A journalEntry is one finished section.
 type journalEntry struct {
-	Index   int               `json:"i"` // in the plan
+	Index   int               `json:"i"`       // in the plan
+	Attempt int               `json:"attempt"` // the attempt that made the section
 	Record  SectionRecord     `json:"record"`
 	Outputs map[string]string `json:"outputs,omitempty"`
 	Timing  SectionTiming     `json:"timing"`

@@ -116,6 +116,7 @@ func (rf *runFolder) keep(pl *Plan, hdr journalHeader, mine []bool, from string,
 		return nil, fmt.Errorf("%w: %v", ErrNotResumable, err)
 	}
 	defer old.close()
+	hdr.Attempt = old.head.Attempt + 1
 	return createJournal(journalPath(rf.staging), hdr, func(add func(*journalEntry) error) error {
 		for i := range old.at {
 			e, ok, err := old.entry(i)
@@ -163,6 +164,7 @@ func (rf *runFolder) keepManifest(pl *Plan, hdr journalHeader, mine []bool, rep 
 	if d := sameRun(was, hdr); d != "" {
 		return nil, fmt.Errorf("%w: %s was made by another run: %s", ErrNotResumable, rf.final, d)
 	}
+	hdr.Attempt = 2 // the committed run was the first we know of
 	byName := map[string]int{}
 	for i, s := range pl.Sections {
 		byName[s.Name] = i
@@ -200,7 +202,8 @@ func (rf *runFolder) keepManifest(pl *Plan, hdr journalHeader, mine []bool, rep 
 				continue
 			}
 			res.report = SectionReport{Name: rec.Name, Status: rec.Status, Err: rec.Err, Stages: rec.Stages}
-			e.Row = res.entry(pl, i, withSection).Row
+			e.Row = res.entry(pl, i, hdr.Attempt-1, withSection).Row
+			e.Attempt = hdr.Attempt - 1
 			if withSection {
 				e.Section = res.doc
 			}

@@ -111,6 +111,10 @@ type RunOptions struct {
 	// from the worker that made it: calls may come from several goroutines
 	// at once. Sections a resumed run keeps are not made, and not called.
 	Done func(SectionReport)
+	// Begin, if set, is called once the stages are described and an
+	// earlier attempt looked at (Resume), before any section is made,
+	// with the number of sections to make and what was kept.
+	Begin func(todo int, resumed ResumeReport)
 	// Shard, when set, makes the run one shard of a run split across
 	// processes or machines: only the shard's sections (Plan.ShardSections),
 	// into the shard's part of the run folder (ShardFolder), with a
@@ -304,7 +308,7 @@ func Run(ctx context.Context, pl *Plan, opts RunOptions) (*Summary, error) {
 	if err != nil {
 		return nil, err
 	}
-	hdr := journalHeader{Format: JournalFormat, runHead: newRunHead(pl, runFolder, infos, exes, calls, runners), Shard: opts.Shard}
+	hdr := journalHeader{Format: JournalFormat, runHead: newRunHead(pl, runFolder, infos, exes, calls, runners), Shard: opts.Shard, Attempt: 1}
 	var j *journal
 	var resumed ResumeReport
 	if opts.Resume {
@@ -321,6 +325,9 @@ func Run(ctx context.Context, pl *Plan, opts RunOptions) (*Summary, error) {
 		if !j.has(i) {
 			todo = append(todo, i)
 		}
+	}
+	if opts.Begin != nil {
+		opts.Begin(len(todo), resumed)
 	}
 	cancelled, err := runSections(ctx, pl, rf.staging, calls, opts, runners, min(jobs, max(len(todo), 1)), todo, j)
 	if err != nil {
@@ -494,7 +501,7 @@ func runSections(ctx context.Context, pl *Plan, folder string, calls []StageCall
 			for i := range work {
 				res := runSection(ctx, pl, folder, i, calls, opts, r)
 				if res.report.Status != StatusCancelled {
-					if err := j.add(res.entry(pl, i, withSection)); err != nil {
+					if err := j.add(res.entry(pl, i, j.head.Attempt, withSection)); err != nil {
 						mu.Lock()
 						jerr = errors.Join(jerr, err)
 						mu.Unlock()

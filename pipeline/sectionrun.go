@@ -94,14 +94,14 @@ type sectionResult struct {
 // entry is the journal entry of a finished section i: its record for the
 // manifest, its outputs and timing, its report and its row of the batch
 // table (and its section document when withSection).
-func (res *sectionResult) entry(pl *Plan, i int, withSection bool) *journalEntry {
+func (res *sectionResult) entry(pl *Plan, i, attempt int, withSection bool) *journalEntry {
 	sp := pl.Sections[i]
 	inputs := res.files
 	if inputs == nil {
 		inputs = []FileHash{}
 	}
 	rep := res.report
-	e := &journalEntry{Index: i,
+	e := &journalEntry{Index: i, Attempt: attempt,
 		Record: SectionRecord{Name: sp.Name, Station: sp.Station, Inputs: inputs, Settings: sp.Settings,
 			Status: rep.Status, Err: rep.Err, Stages: rep.Stages},
 		Outputs: res.outputs, Timing: res.timing, Summary: rep.Summary, Input: rep.Input}

@@ -6,6 +6,11 @@
 // so the files are reproducible. None of this is measured data.
 //
 //	go run ./internal/demogen -out examples
+//
+// With -batch DIR it writes instead a production batch of printed rotor
+// blades, each sliced at five stations, and its pipeline file (batch.go):
+//
+//	go run ./internal/demogen -batch runs/blade-batch -blades 8
 package main
 
 import (
@@ -26,7 +31,20 @@ import (
 
 func main() {
 	out := flag.String("out", "examples", "folder that holds the example folders")
+	batch := flag.String("batch", "", "write a blade batch and its pipeline file into this folder instead")
+	blades := flag.Int("blades", 8, "with -batch: the printed blades, each sliced at 5 stations")
+	seed := flag.Uint64("seed", 1, "with -batch: the seed of the invented deviations")
 	flag.Parse()
+	if *batch != "" {
+		if *blades < 1 {
+			fail(fmt.Errorf("-blades %d: want 1 or more", *blades))
+		}
+		if err := writeBatch(*batch, *blades, *seed); err != nil {
+			fail(err)
+		}
+		fmt.Printf("wrote %d scans and %s\n", *blades*len(batchStations), filepath.Join(*batch, "pipeline.json"))
+		return
+	}
 	steps := []struct {
 		path string
 		fill func(io.Writer) error

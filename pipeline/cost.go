@@ -1,0 +1,129 @@
+package pipeline
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"os"
+	"path/filepath"
+)
+
+// A CostModel estimates what a section costs from its input bytes (see
+// SectionCost): Seconds = Fixed + PerMB × MB of one core's time, and
+// the memory a worker needs beside foilwright's own process.
+type CostModel struct {
+	// Fixed is the seconds a section costs whatever its size (the
+	// stages, starting the chain); PerMB the seconds per MB of input.
+	Fixed, PerMB float64
+	// BaseMiB is foilwright's own process; StageMiB one stage process;
+	// PerPointKiB what preparing a section holds per point (a point being
+	// about BytesPerPoint bytes of input).
+	BaseMiB, StageMiB, PerPointKiB, BytesPerPoint float64
+	// Source says where the figures come from.
+	Source string
+}
+
+// DefaultCostModel is the cost model measured on the demo blade batch
+// (internal/demogen -batch: 40 laser-scan sections of about 1 000 points,
+// the vortex-panel, thin-aerofoil and source-panel stages) on the
+// two-core development machine, which other jobs share (see README,
+// "Running on a cluster"); BaseMiB, StageMiB and PerPointKiB are the
+// memory measured there and in the Limits section. Calibrate it with a
+// manifest of a run of your own (CalibrateCost).
+var DefaultCostModel = CostModel{
+	Fixed: 0.25, PerMB: 2.0,
+	BaseMiB: 120, StageMiB: 60, PerPointKiB: 1.1, BytesPerPoint: 30,
+	Source: "foilwright's default model (the demo batch on the development machine)",
+}
+
+// Seconds is the estimated time of a section of b input bytes on one
+// core.
+func (c CostModel) Seconds(b int64) float64 { return c.Fixed + c.PerMB*float64(b)/1e6 }
+
+// MemoryMiB is the estimated memory of a task running jobs workers of
+// a pipeline with stages stages, whose largest section has b input
+// bytes.
+func (c CostModel) MemoryMiB(jobs, stages int, b int64) float64 {
+	points := float64(b) / c.BytesPerPoint
+	return c.BaseMiB + float64(jobs)*(float64(stages)*c.StageMiB+points*c.PerPointKiB/1024)
+}
+
+// CalibrateCost fits the cost model's time to a recorded run: the time
+// of each section in its manifest (preparing and every stage) against
+// the bytes of its inputs now (their files are read relative to the
+// manifest's pipeline file), by least squares. It keeps base's memory
+// figures, raising BaseMiB to the run's own peak memory when larger.
+func CalibrateCost(manifest string, base CostModel) (CostModel, error) {
+	m, err := ReadManifest(manifest)
+	if err != nil {
+		return base, err
+	}
+	pfile := filepath.FromSlash(m.Pipeline.File)
+	if !filepath.IsAbs(pfile) {
+		pfile = filepath.Join(filepath.Dir(manifest), pfile)
+	}
+	dir := filepath.Dir(pfile)
+	size := map[string]int64{}
+	for _, s := range m.Sections {
+		var n int64
+		for _, f := range s.Inputs {
+			p := filepath.FromSlash(f.Path)
+			if !filepath.IsAbs(p) {
+				p = filepath.Join(dir, p)
+			}
+			if st, err := os.Stat(p); err == nil {
+				n += st.Size()
+			}
+		}
+		size[s.Name] = n
+	}
+	var xs, ys []float64
+	for _, t := range m.Timings.Sections {
+		if t.Name == "" {
+			continue // never started
+		}
+		y := t.PrepareS
+		for _, st := range t.Stages {
+			y += st.S
+		}
+		xs = append(xs, float64(size[t.Name])/1e6)
+		ys = append(ys, y)
+	}
+	if len(xs) == 0 {
+		return base, errors.New("the manifest times no section")
+	}
+	fixed, perMB := fitLine(xs, ys)
+	c := base
+	c.Fixed, c.PerMB = fixed, perMB
+	c.BaseMiB = max(c.BaseMiB, float64(m.Timings.MaxRSSKiB)/1024)
+	c.Source = fmt.Sprintf("calibrated on %d section(s) of %s", len(xs), manifest)
+	return c, nil
+}
+
+// fitLine fits y = a + b·x by least squares, with b ≥ 0 and a ≥ 0 (a
+// section costs something, a larger one no less).
+func fitLine(xs, ys []float64) (a, b float64) {
+	n := float64(len(xs))
+	var sx, sy, sxx, sxy float64
+	for i := range xs {
+		sx += xs[i]
+		sy += ys[i]
+		sxx += xs[i] * xs[i]
+		sxy += xs[i] * ys[i]
+	}
+	den := n*sxx - sx*sx
+	if den > 1e-12*n*sxx && den > 0 {
+		b = (n*sxy - sx*sy) / den
+	}
+	if b < 0 || math.IsNaN(b) {
+		b = 0
+	}
+	a = (sy - b*sx) / n
+	if a < 0 {
+		a = 0
+		if sxx > 0 {
+			b = sxy / sxx
+		}
+	}
+	return a, b
+}
