@@ -165,6 +165,10 @@ func (rf *runFolder) check(folder string, replace, shards bool) error {
 		return fmt.Errorf("%w: %s holds no foilwright run to replace (%v)", ErrFolderNotEmpty, folder, err)
 	}
 	listed := map[string]bool{ManifestName: true}
+	if m.Shard != nil {
+		// A shard's part keeps its journal beside its partial manifest.
+		listed[JournalName] = true
+	}
 	for p := range m.Outputs {
 		listed[p] = true
 	}

@@ -10,6 +10,7 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"slices"
 	"strings"
 	"sync"
 	"syscall"
@@ -193,6 +194,61 @@ func TestResumeShardAfterKill(t *testing.T) {
 	share := len(loadPlan(t, path).ShardSections(s))
 	if j.head.Attempt != 2 || attempts[1] != before || attempts[2] != share-before || j.count != share {
 		t.Errorf("attempt %d; sections by attempt %v, %d before the kill, share %d", j.head.Attempt, attempts, before, share)
+	}
+	t1 := Shard{1, 2}
+	if _, err := Run(context.Background(), loadPlan(t, path), RunOptions{Shard: &t1, Preparer: fakePrep{}, NewRunner: (&fakeRegistry{}).New}); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := Merge(context.Background(), filepath.Join(dir, "run"), MergeOptions{Parse: ParseOptions{Known: fakeStages}}); err != nil {
+		t.Fatal(err)
+	}
+	assertSameRun(t, filepath.Join(dir, "whole"), filepath.Join(dir, "run"))
+}
+
+// TestResumeCancelledShard: a shard cancelled in the middle (SIGTERM, as
+// scancel or a preemption sends it) commits its part with the sections
+// it finished and the others cancelled; resumed (the requeued task), it
+// keeps its part's finished sections and makes only the rest.
+func TestResumeCancelledShard(t *testing.T) {
+	path := setup(t, slowPipeline, slowFiles())
+	dir := filepath.Dir(path)
+	if _, err := Run(context.Background(), loadPlan(t, path), RunOptions{Folder: filepath.Join(dir, "whole"), Jobs: 2, Preparer: fakePrep{}, NewRunner: (&fakeRegistry{}).New}); err != nil {
+		t.Fatal(err)
+	}
+	s := Shard{0, 2}
+	ctx, cancel := context.WithCancel(context.Background())
+	defer cancel()
+	var finished []string
+	sum, err := Run(ctx, loadPlan(t, path), RunOptions{Shard: &s, Resume: true, Preparer: fakePrep{}, NewRunner: (&fakeRegistry{}).New,
+		Done: func(r SectionReport) {
+			if r.Status == StatusOK {
+				finished = append(finished, r.Name)
+			}
+			if len(finished) == 2 {
+				cancel()
+			}
+		}})
+	if !errors.Is(err, context.Canceled) || sum == nil || !sum.Cancelled {
+		t.Fatalf("cancelled shard: %v", err)
+	}
+	share := loadPlan(t, path).ShardSections(s)
+	if len(finished) >= len(share) {
+		t.Fatalf("the shard finished (%d of %d) before it was cancelled", len(finished), len(share))
+	}
+	var made []string
+	var rep ResumeReport
+	if _, err := Run(context.Background(), loadPlan(t, path), RunOptions{Shard: &s, Resume: true, Preparer: fakePrep{}, NewRunner: (&fakeRegistry{}).New,
+		Begin: func(_ int, r ResumeReport) { rep = r },
+		Done:  func(r SectionReport) { made = append(made, r.Name) }}); err != nil {
+		t.Fatal(err)
+	}
+	if rep.From != ResumeRun || rep.Kept != len(finished) || len(made) != len(share)-len(finished) {
+		t.Errorf("resumed %+v, made %q; %q finished before the cancel, share %d", rep, made, finished, len(share))
+	}
+	for _, n := range made {
+		if slices.Contains(finished, n) {
+			t.Errorf("%s was made again", n)
+		}
 	}
 	t1 := Shard{1, 2}
 	if _, err := Run(context.Background(), loadPlan(t, path), RunOptions{Shard: &t1, Preparer: fakePrep{}, NewRunner: (&fakeRegistry{}).New}); err != nil {
