@@ -127,10 +127,24 @@ func runPipeline(cmd *cobra.Command, path string, opts runOptions) error {
 		return err
 	}
 	if opts.plan {
-		if opts.json {
-			return writeJSON(stdout, planJSON(pl))
+		rep := planJSON(pl)
+		if shard != nil {
+			rep.Shard = &planShardJSON{Index: shard.Index, Count: shard.Count, Sections: []string{}}
+			for _, i := range pl.ShardSections(*shard) {
+				rep.Shard.Sections = append(rep.Shard.Sections, pl.Sections[i].Name)
+			}
 		}
-		return pl.Describe(stdout)
+		if opts.json {
+			return writeJSON(stdout, rep)
+		}
+		if err := pl.Describe(stdout); err != nil {
+			return err
+		}
+		if rep.Shard != nil {
+			_, err := fmt.Fprintf(stdout, "shard %s makes %d section(s): %s\n", shard, len(rep.Shard.Sections), strings.Join(rep.Shard.Sections, " "))
+			return err
+		}
+		return nil
 	}
 	h, err := opts.host.newHost(stderr, lim)
 	if err != nil {
@@ -318,6 +332,13 @@ type (
 		Folder   string            `json:"folder"`
 		Sections []planSectionJSON `json:"sections"`
 		Stages   []planStageJSON   `json:"stages"`
+		Shard    *planShardJSON    `json:"shard,omitempty"`
+	}
+	// planShardJSON is the share of one shard (run --plan --shard K/N).
+	planShardJSON struct {
+		Index    int      `json:"index"`
+		Count    int      `json:"count"`
+		Sections []string `json:"sections"`
 	}
 	planSectionJSON struct {
 		Name    string   `json:"name"`
