@@ -25,14 +25,14 @@ import (
 // rotor axis.
 var batchStations = []float64{300, 500, 700, 900, 1100}
 
-// batchPoints is the number of points of a slice: a dense scan, evenly
-// spaced along the outline as a laser line falls on it (about 0.3 mm
-// apart at the root).
+// batchPoints is the number of points of a slice by default: a dense
+// scan, evenly spaced along the outline as a laser line falls on it
+// (about 0.3 mm apart at the root).
 const batchPoints = 1000
 
-// writeBatch writes blades blades × 5 stations into dir: scans/bNN-rSSS.csv
-// and pipeline.json, whose run folder is dir/run.
-func writeBatch(dir string, blades int, seed uint64) error {
+// writeBatch writes blades blades × 5 stations of points points each into
+// dir: scans/bNN-rSSS.csv and pipeline.json, whose run folder is dir/run.
+func writeBatch(dir string, blades, points int, seed uint64) error {
 	if err := os.MkdirAll(filepath.Join(dir, "scans"), 0o755); err != nil {
 		return err
 	}
@@ -47,7 +47,7 @@ func writeBatch(dir string, blades int, seed uint64) error {
 			name := fmt.Sprintf("b%02d-r%d.csv", b, int(r))
 			seedB, seedR := rng.Uint64(), rng.Uint64()
 			err := atomicfile.Write(filepath.Join(dir, "scans", name), func(w io.Writer) error {
-				return writeSlice(w, b, r, shrink, twistErr, off, rand.New(rand.NewPCG(seedB, seedR)))
+				return writeSlice(w, b, r, points, shrink, twistErr, off, rand.New(rand.NewPCG(seedB, seedR)))
 			})
 			if err != nil {
 				return err
@@ -60,8 +60,8 @@ func writeBatch(dir string, blades int, seed uint64) error {
 // writeSlice writes the slice of blade b at radius r: the design section,
 // scaled, twisted and offset as this blade was printed and placed, with
 // 0.03 mm of scanner noise and three reflections 0.4 to 1.2 mm off.
-func writeSlice(w io.Writer, b int, r, shrink, twistErr float64, off geometry.Point, rng *rand.Rand) error {
-	pts := evenly(bladeSection(r, 2000), batchPoints)
+func writeSlice(w io.Writer, b int, r float64, points int, shrink, twistErr float64, off geometry.Point, rng *rand.Rand) error {
+	pts := evenly(bladeSection(r, 2000), points)
 	var c geometry.Point
 	for _, p := range pts {
 		c = c.Add(p)

@@ -10,7 +10,7 @@
 // With -batch DIR it writes instead a production batch of printed rotor
 // blades, each sliced at five stations, and its pipeline file (batch.go):
 //
-//	go run ./internal/demogen -batch runs/blade-batch -blades 8
+//	go run ./internal/demogen -batch runs/blade-batch -blades 8 [-points 1000]
 package main
 
 import (
@@ -34,12 +34,16 @@ func main() {
 	batch := flag.String("batch", "", "write a blade batch and its pipeline file into this folder instead")
 	blades := flag.Int("blades", 8, "with -batch: the printed blades, each sliced at 5 stations")
 	seed := flag.Uint64("seed", 1, "with -batch: the seed of the invented deviations")
+	points := flag.Int("points", batchPoints, "with -batch: the points of each slice")
 	flag.Parse()
 	if *batch != "" {
 		if *blades < 1 {
 			fail(fmt.Errorf("-blades %d: want 1 or more", *blades))
 		}
-		if err := writeBatch(*batch, *blades, *seed); err != nil {
+		if *points < 100 || *points > 200000 {
+			fail(fmt.Errorf("-points %d: want 100 to 200000", *points))
+		}
+		if err := writeBatch(*batch, *blades, *points, *seed); err != nil {
 			fail(err)
 		}
 		fmt.Printf("wrote %d scans and %s\n", *blades*len(batchStations), filepath.Join(*batch, "pipeline.json"))
