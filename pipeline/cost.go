@@ -6,6 +6,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"strings"
 )
 
 // A CostModel estimates what a section costs from its input bytes (see
@@ -48,15 +49,38 @@ func (c CostModel) MemoryMiB(jobs, stages int, b int64) float64 {
 	return c.BaseMiB + float64(jobs)*(float64(stages)*c.StageMiB+points*c.PerPointKiB/1024)
 }
 
-// CalibrateCost fits the cost model's time to a recorded run: the time
-// of each section in its manifest (preparing and every stage) against
-// the bytes of its inputs now (their files are read relative to the
-// manifest's pipeline file), by least squares. It keeps base's memory
-// figures, raising BaseMiB to the run's own peak memory when larger.
-func CalibrateCost(manifest string, base CostModel) (CostModel, error) {
+// CalibrateCost fits the cost model's time to recorded runs: the time of
+// each section in their manifests (preparing and every stage) against the
+// bytes of its inputs now (their files are read relative to each
+// manifest's pipeline file), by least squares. Runs of sections of
+// different sizes (a sparse and a dense batch) fix both terms. It keeps
+// base's memory figures, raising BaseMiB to the runs' own peak memory
+// when larger.
+func CalibrateCost(manifests []string, base CostModel) (CostModel, error) {
+	if len(manifests) == 0 {
+		return base, errors.New("no manifest to calibrate on")
+	}
+	c := base
+	var xs, ys []float64
+	for _, manifest := range manifests {
+		x, y, rss, err := sectionTimes(manifest)
+		if err != nil {
+			return base, err
+		}
+		xs, ys = append(xs, x...), append(ys, y...)
+		c.BaseMiB = max(c.BaseMiB, float64(rss)/1024)
+	}
+	c.Fixed, c.PerMB = fitLine(xs, ys)
+	c.Source = fmt.Sprintf("calibrated on %d section(s) of %s", len(xs), strings.Join(manifests, ", "))
+	return c, nil
+}
+
+// sectionTimes reads a manifest's section times (s of one core) and
+// the MB of each section's inputs, and the run's peak memory (KiB).
+func sectionTimes(manifest string) (mb, s []float64, rssKiB int64, err error) {
 	m, err := ReadManifest(manifest)
 	if err != nil {
-		return base, err
+		return nil, nil, 0, err
 	}
 	pfile := filepath.FromSlash(m.Pipeline.File)
 	if !filepath.IsAbs(pfile) {
@@ -77,7 +101,7 @@ func CalibrateCost(manifest string, base CostModel) (CostModel, error) {
 		}
 		size[s.Name] = n
 	}
-	var xs, ys []float64
+	var sum float64
 	for _, t := range m.Timings.Sections {
 		if t.Name == "" {
 			continue // never started
@@ -86,18 +110,23 @@ func CalibrateCost(manifest string, base CostModel) (CostModel, error) {
 		for _, st := range t.Stages {
 			y += st.S
 		}
-		xs = append(xs, float64(size[t.Name])/1e6)
-		ys = append(ys, y)
+		mb = append(mb, float64(size[t.Name])/1e6)
+		s = append(s, y)
+		sum += y
 	}
-	if len(xs) == 0 {
-		return base, errors.New("the manifest times no section")
+	if len(mb) == 0 {
+		return nil, nil, 0, fmt.Errorf("%s times no section", manifest)
 	}
-	fixed, perMB := fitLine(xs, ys)
-	c := base
-	c.Fixed, c.PerMB = fixed, perMB
-	c.BaseMiB = max(c.BaseMiB, float64(m.Timings.MaxRSSKiB)/1024)
-	c.Source = fmt.Sprintf("calibrated on %d section(s) of %s", len(xs), manifest)
-	return c, nil
+	// What the sections' own times leave out (starting the stage
+	// processes, writing the outputs, the journal and the manifest) is
+	// shared out among them: the run's core-seconds are its time by its
+	// workers (exact for one worker, an upper bound for more).
+	if extra := (m.Timings.TotalS*float64(max(m.Timings.Jobs, 1)) - sum) / float64(len(s)); extra > 0 {
+		for i := range s {
+			s[i] += extra
+		}
+	}
+	return mb, s, m.Timings.MaxRSSKiB, nil
 }
 
 // fitLine fits y = a + b·x by least squares, with b ≥ 0 and a ≥ 0 (a

@@ -39,6 +39,9 @@ type JobEstimate struct {
 	MemMiB     int     `json:"mem_mib"` // asked per task
 	MergeTimeS int     `json:"merge_time_s"`
 	MergeMiB   int     `json:"merge_mem_mib"`
+	// The cost model: seconds of one core per section and per MB of input.
+	FixedS float64 `json:"model_fixed_s"`
+	PerMBS float64 `json:"model_per_mb_s"`
 }
 
 // Safety margins of the estimates (common practice: a job past its time
@@ -60,7 +63,7 @@ const (
 // starts once every task succeeded. The script holds no date: the same
 // plan and options give the same script.
 func JobScript(pl *Plan, o JobScriptOptions) ([]byte, JobEstimate, error) {
-	est := JobEstimate{Sections: len(pl.Sections), CPUs: max(o.CPUs, 1)}
+	est := JobEstimate{Sections: len(pl.Sections), CPUs: max(o.CPUs, 1), FixedS: o.Cost.Fixed, PerMBS: o.Cost.PerMB}
 	costs := pl.Costs()
 	for _, c := range costs {
 		est.Bytes += c

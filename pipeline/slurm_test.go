@@ -54,7 +54,7 @@ func TestFitLine(t *testing.T) {
 
 func TestCalibrateCost(t *testing.T) {
 	_, manifest := runRotor(t)
-	c, err := CalibrateCost(manifest, DefaultCostModel)
+	c, err := CalibrateCost([]string{manifest}, DefaultCostModel)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -25,7 +25,7 @@ type jobScriptOptions struct {
 	account    string
 	jobName    string
 	foilwright string
-	calibrate  string
+	calibrate  []string
 	quiet      bool
 	json       bool
 }
@@ -39,7 +39,7 @@ func newJobScriptCmd() *cobra.Command {
 tasks each run one shard of the sections (run --shard auto --resume, so that a
 requeued task finishes its share instead of repeating it), with the number of
 tasks, the time and the memory per task estimated from the inputs' sizes and a
-measured cost model (--calibrate MANIFEST fits it to a run of your own), and
+measured cost model (--calibrate MANIFEST fits it to runs of your own), and
 the merge as a job that starts once every task succeeded. Every value can be
 given instead. Run the script with bash to submit both, or with sbatch to
 submit the array alone. The estimates are printed (on standard error when the
@@ -64,7 +64,7 @@ script goes to standard output).`,
 	f.StringVar(&opts.account, "account", "", "the account to charge (default: yours)")
 	f.StringVar(&opts.jobName, "job-name", "", "the job's name (default: foilwright-NAME)")
 	f.StringVar(&opts.foilwright, "foilwright", "", "the foilwright executable the tasks run (default: this one)")
-	f.StringVar(&opts.calibrate, "calibrate", "", "a manifest.json of an earlier run whose section timings fit the cost model")
+	f.StringArrayVar(&opts.calibrate, "calibrate", nil, "a manifest.json of an earlier run whose section timings fit the cost model (repeatable: runs of small and large sections fix both terms)")
 	cmd.MarkFlagFilename("calibrate", "json")
 	cmd.MarkFlagFilename("foilwright")
 	cmd.MarkFlagDirname("run-folder")
@@ -121,9 +121,9 @@ func runJobScript(cmd *cobra.Command, path string, opts jobScriptOptions) error 
 	if o.Foilwright, err = filepath.Abs(o.Foilwright); err != nil {
 		return err
 	}
-	if opts.calibrate != "" {
+	if len(opts.calibrate) > 0 {
 		if o.Cost, err = pipeline.CalibrateCost(opts.calibrate, o.Cost); err != nil {
-			return badInputf("--calibrate %s: %v", opts.calibrate, err)
+			return badInputf("--calibrate: %v", err)
 		}
 	}
 	stdout, stderr := cmd.OutOrStdout(), cmd.ErrOrStderr()
@@ -157,7 +157,8 @@ func runJobScript(cmd *cobra.Command, path string, opts jobScriptOptions) error 
 	case opts.json:
 		return writeJSON(rep, est)
 	default:
-		fmt.Fprintf(rep, "%d section(s), %.1f MB of input: about %.0f core-seconds (%s)\n", est.Sections, float64(est.Bytes)/1e6, est.CoreS, o.Cost.Source)
+		fmt.Fprintf(rep, "%d section(s), %.1f MB of input: about %.0f core-seconds at %.3g s + %.3g s per MB a section (%s)\n",
+			est.Sections, float64(est.Bytes)/1e6, est.CoreS, o.Cost.Fixed, o.Cost.PerMB, o.Cost.Source)
 		fmt.Fprintf(rep, "%d task(s) of %d CPU(s): the dearest about %.0f s of work; asking %s and %d MiB each; the merge %s and %d MiB\n",
 			est.Tasks, est.CPUs, est.DearestS/float64(est.CPUs), pipeline.SlurmTime(est.TimeS), est.MemMiB, pipeline.SlurmTime(est.MergeTimeS), est.MergeMiB)
 		wrote(rep, opts.out)

@@ -10,7 +10,8 @@
 //
 //	go run ./internal/batchmem -pipeline batch/pipeline.json -o run -stages ./foilwright -jobs 2
 //
-// It prints one line of JSON: sections, ok, wall_s, peak_rss_kib.
+// It prints one line of JSON: sections, ok, wall_s, peak_rss_kib and
+// cpu_s (the processor time of this process, its stages apart).
 package main
 
 import (
@@ -97,5 +98,6 @@ func run(pipe, out, self string, jobs int, memprof string) error {
 	}
 	return json.NewEncoder(os.Stdout).Encode(map[string]any{
 		"sections": len(s.Sections), "ok": ok, "wall_s": wall, "peak_rss_kib": ru.Maxrss,
+		"cpu_s": time.Duration(ru.Utime.Nano() + ru.Stime.Nano()).Seconds(),
 	})
 }
