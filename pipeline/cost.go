@@ -24,13 +24,15 @@ type CostModel struct {
 	Source string
 }
 
-// DefaultCostModel is the cost model measured on the demo blade batch
-// (internal/demogen -batch: 40 laser-scan sections of about 1 000 points,
-// the vortex-panel, thin-aerofoil and source-panel stages) on the
-// two-core development machine, which other jobs share (see README,
-// "Running on a cluster"); BaseMiB, StageMiB and PerPointKiB are the
-// memory measured there and in the Limits section. Calibrate it with a
-// manifest of a run of your own (CalibrateCost).
+// DefaultCostModel is the cost model of the demo blade batch
+// (internal/demogen -batch: laser-scan slices of 1 000 points through the
+// vortex-panel, thin-aerofoil and source-panel stages) on the two-core
+// development machine, which other jobs share: scripts/batch-throughput.sh
+// fitted 0.087 to 0.094 s + 1.1 to 3.9 s per MB in three runs (README,
+// "What a batch costs, measured"); the default rounds both up, since a
+// job past its time is killed. BaseMiB, StageMiB and PerPointKiB are the
+// memory measured there and in the Limits section. Calibrate it with
+// manifests of runs of your own (CalibrateCost).
 var DefaultCostModel = CostModel{
 	Fixed: 0.25, PerMB: 2.0,
 	BaseMiB: 120, StageMiB: 60, PerPointKiB: 1.1, BytesPerPoint: 30,

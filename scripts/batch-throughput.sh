@@ -14,7 +14,9 @@
 #     and, on a single-node Slurm cluster, as the 4-task array of the
 #     generated job script (one CPU a task), then merges: measured wall
 #     time against the model's;
-#  4. projects the wall time of 100 000 such sections on N cores.
+#  4. times the merge of 40 and of 200 sections (the larger batch's shards
+#     made here) and projects the wall time of 100 000 such sections on N
+#     cores: the run from the model, and the merge.
 #
 # The cluster: SLURM_CONF names a running one; else, as root with
 # slurm-wlm and munge installed, the script starts one of its own
@@ -84,23 +86,40 @@ if [ -n "${SLURM_CONF:-}" ]; then
   # The array alone (sbatch --wait), then the merge, each timed; 4 tasks
   # of one CPU take turns on the node's cores, so the model's time is the
   # dearest tasks' work shared by the cores (at least the dearest task).
-  timed bash -c "cd '$work' && sbatch --wait --parsable array.sbatch >/dev/null"; array=$took
+  # From submission until the last task has left the queue, polled every
+  # 0.1 s (sbatch --wait polls more slowly).
+  t0=$(now)
+  job=$(cd "$work" && sbatch --parsable array.sbatch); job=${job%%;*}
+  while [ -n "$(squeue -h -j "$job" 2>/dev/null)" ]; do sleep 0.1; done
+  array=$(echo "$(now) - $t0" | bc -l)
+  for k in 0 1 2 3; do
+    [ -f "$work/array/shards/$k-of-4/manifest.json" ] || { echo "task $k of the array wrote no manifest" >&2; exit 1; }
+  done
   timed "$fw" merge "$work/array" -q; merge=$took
   pred=$(echo "a = $core_s / $cores; if (a < $dearest) a = $dearest; a" | bc -l)
   row "sparse, Slurm array of 4 tasks × 1 CPU" 40 "$array" "$pred" "$cores"
-  row "merge of the 4 shards" 40 "$merge" 0 1
-  merge_per=$(echo "$merge / 40" | bc -l)
 else
-  echo "(no Slurm cluster: the array was not run)"
-  merge_per=0
+  echo "(no Slurm cluster: the array was not run; its shards are run here, one after the other)"
+  for k in 0 1 2 3; do "$fw" run "$work/sparse/pipeline.json" -o "$work/array" --shard $k/4 --jobs "$cores" -q; done
+  timed "$fw" merge "$work/array" -q; merge=$took
 fi
+row "merge of the 4 shards" 40 "$merge" 0 1
+# The merge's time per section, from a batch five times larger (its shards
+# made here): what the merge costs beside starting and writing the run's
+# own files.
+go run ./internal/demogen -batch "$work/big" -blades 40 >/dev/null
+for k in 0 1 2 3; do "$fw" run "$work/big/pipeline.json" -o "$work/big-run" --shard $k/4 --jobs "$cores" -q || true; done
+timed "$fw" merge "$work/big-run" -q; merge200=$took
+row "merge of 4 shards of 200 sections" 200 "$merge200" 0 1
+merge_per=$(echo "($merge200 - $merge) / 160" | bc -l)
+merge_fixed=$(echo "m = $merge - 40 * $merge_per; if (m < 0) m = 0; m" | bc -l)
 
 echo
 echo "100 000 sections of 1 000 points, from the model ($(printf '%.3f' "$(echo "$core_s / 40" | bc -l)") core-seconds a section)"
-echo "and the merge measured above ($(printf '%.4f' "$merge_per") s a section, on one core, after the array):"
+echo "and the merge measured above ($(printf '%.2f' "$merge_fixed") s + $(printf '%.4f' "$merge_per") s a section, on one core, after the array):"
 printf '%8s %12s %12s %12s\n' cores run_min merge_min total_min
 for n in 2 16 64 256 1024; do
-  r=$(echo "100000 * $core_s / 40 / $n / 60" | bc -l); m=$(echo "100000 * $merge_per / 60" | bc -l)
+  r=$(echo "100000 * $core_s / 40 / $n / 60" | bc -l); m=$(echo "($merge_fixed + 100000 * $merge_per) / 60" | bc -l)
   printf '%8d %12.1f %12.1f %12.1f\n' "$n" "$r" "$m" "$(echo "$r + $m" | bc -l)"
 done
 echo "load average (1 min) at the start and the end: $load0, $(cut -d' ' -f1 /proc/loadavg) on $cores cores"

@@ -64,7 +64,7 @@ script goes to standard output).`,
 	f.StringVar(&opts.account, "account", "", "the account to charge (default: yours)")
 	f.StringVar(&opts.jobName, "job-name", "", "the job's name (default: foilwright-NAME)")
 	f.StringVar(&opts.foilwright, "foilwright", "", "the foilwright executable the tasks run (default: this one)")
-	f.StringArrayVar(&opts.calibrate, "calibrate", nil, "a manifest.json of an earlier run whose section timings fit the cost model (repeatable: runs of small and large sections fix both terms)")
+	f.StringArrayVar(&opts.calibrate, "calibrate", nil, "the `MANIFEST` (manifest.json) of an earlier run, whose section timings fit the cost model (repeatable: runs of small and of large sections fix both terms)")
 	cmd.MarkFlagFilename("calibrate", "json")
 	cmd.MarkFlagFilename("foilwright")
 	cmd.MarkFlagDirname("run-folder")

@@ -38,6 +38,9 @@ func main() {
 	self := flag.String("stages", "", "the foilwright executable that serves the built-in stages")
 	memprof := flag.String("memprofile", "", "write a heap profile (what is live, and where it was allocated) at the end of the run")
 	flag.Parse()
+	if *memprof != "" {
+		runtime.MemProfileRate = 4096 // fine enough to see a few hundred bytes per section
+	}
 	if *pipe == "" || *out == "" || *self == "" {
 		fmt.Fprintln(os.Stderr, "batchmem: give -pipeline, -o and -stages")
 		os.Exit(2)
