@@ -124,3 +124,58 @@ func TestPlanDigest(t *testing.T) {
 		t.Error("another section, the same digest")
 	}
 }
+
+// TestCalibrateCostExact fits the model to two recorded runs whose times
+// lie on a known line, one with time outside its sections: least squares
+// recovers the line exactly (a line through the points is its own fit),
+// and the run's unaccounted time is shared out among its sections.
+func TestCalibrateCostExact(t *testing.T) {
+	dir := t.TempDir()
+	write := func(name string, files map[string]int, prep map[string]float64, total float64, jobs int) string {
+		m := Manifest{Format: ManifestFormat, Pipeline: PipelineRef{File: "pipeline.json"}, Timings: Timings{TotalS: total, Jobs: jobs}}
+		for f, n := range files {
+			if err := os.WriteFile(filepath.Join(dir, f), make([]byte, n), 0o644); err != nil {
+				t.Fatal(err)
+			}
+			m.Sections = append(m.Sections, SectionRecord{Name: f, Inputs: []FileHash{{Path: f}}})
+			m.Timings.Sections = append(m.Timings.Sections, SectionTiming{Name: f, PrepareS: prep[f] / 2, Stages: []StageTiming{{ID: "a", S: prep[f] / 2}}})
+		}
+		path := filepath.Join(dir, name)
+		if err := writeManifest(path, &m); err != nil {
+			t.Fatal(err)
+		}
+		return path
+	}
+	// 0.5 s + 2 s per MB, no time outside the sections.
+	a := write("a.json", map[string]int{"s1": 1e6, "s2": 3e6}, map[string]float64{"s1": 2.5, "s2": 6.5}, 9, 1)
+	c, err := CalibrateCost([]string{a}, DefaultCostModel)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if math.Abs(c.Fixed-0.5) > 1e-9 || math.Abs(c.PerMB-2) > 1e-9 {
+		t.Errorf("one run: %g s + %g s/MB, want 0.5 + 2", c.Fixed, c.PerMB)
+	}
+	// Two workers for 7 s: 14 core-seconds, 13 of them in the sections,
+	// so 0.5 s more a section: 1 s + 2 s per MB.
+	b := write("b.json", map[string]int{"s3": 2e6, "s4": 4e6}, map[string]float64{"s3": 4.5, "s4": 8.5}, 7, 2)
+	c, err = CalibrateCost([]string{b}, DefaultCostModel)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if math.Abs(c.Fixed-1) > 1e-9 || math.Abs(c.PerMB-2) > 1e-9 {
+		t.Errorf("run with time outside its sections: %g s + %g s/MB, want 1 + 2", c.Fixed, c.PerMB)
+	}
+	c, err = CalibrateCost([]string{a, b}, DefaultCostModel)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Points (1, 2.5), (3, 6.5), (2, 5), (4, 9): by the normal equations
+	// (x̄ = 2.5, ȳ = 5.75, Sxy = 10.5, Sxx = 5) slope 2.1, intercept
+	// 5.75 - 2.1·2.5 = 0.5.
+	if math.Abs(c.Fixed-0.5) > 1e-9 || math.Abs(c.PerMB-2.1) > 1e-9 || !strings.Contains(c.Source, "4 section(s)") {
+		t.Errorf("two runs: %g s + %g s/MB (%s), want 0.5 + 2.1", c.Fixed, c.PerMB, c.Source)
+	}
+	if _, err := CalibrateCost(nil, DefaultCostModel); err == nil {
+		t.Error("no manifest: no error")
+	}
+}
