@@ -143,7 +143,7 @@ func (f *fakeRunner) Run(ctx context.Context, call StageCall, in stage.Request) 
 		return stage.Result{}, errors.New("runner closed")
 	}
 	f.calls++
-	sec, err := section.Read(bytes.NewReader(in.Section), "section")
+	sec, err := in.DecodeSection()
 	if err != nil {
 		return stage.Result{}, err
 	}
@@ -157,16 +157,19 @@ func (f *fakeRunner) Run(ctx context.Context, call StageCall, in stage.Request) 
 	case "area":
 		return result(map[string]float64{"area": shoelace(sec.Nodes) + f.reg.areaAdd})
 	case "scale":
-		if len(in.Deps) != 1 {
-			return stage.Result{}, fmt.Errorf("scale wants one dependency, got %d", len(in.Deps))
+		ids := in.DepIDs()
+		if len(ids) != 1 {
+			return stage.Result{}, fmt.Errorf("scale wants one dependency, got %d", len(ids))
 		}
-		for _, dep := range in.Deps {
-			a := gjson.GetBytes(dep, "scalars.area")
-			if !a.Exists() {
-				return stage.Result{}, errors.New("dependency has no area")
-			}
-			return result(map[string]float64{"scaled": params.Get("factor").Float() * a.Float()}, "scaled by the factor")
+		dep, err := in.Dep(ids[0])
+		if err != nil {
+			return stage.Result{}, err
 		}
+		a, ok := dep.Scalars["area"]
+		if !ok {
+			return stage.Result{}, errors.New("dependency has no area")
+		}
+		return result(map[string]float64{"scaled": params.Get("factor").Float() * a}, "scaled by the factor")
 	case "plot", "badplot":
 		var b strings.Builder
 		b.WriteString(`<svg xmlns="http://www.w3.org/2000/svg"><polyline points="`)

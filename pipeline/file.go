@@ -89,6 +89,10 @@ type Stage struct {
 	// Pins are more files the stage depends on (a wrapper's binary, a
 	// model file), by path as written, with the sha256 each must have.
 	Pins []Pin
+	// Keep is the detail of the stage's result document written to the
+	// run folder: stage.KeepAll (the default), KeepCases or KeepScalars.
+	// The stages that run after it and the exports see all of it.
+	Keep string
 
 	index    int // in file order
 	paramsAt int // byte offset of the params object in the file; -1 when absent
@@ -276,7 +280,7 @@ type parser struct {
 var (
 	topKeys    = keySet("foilwright", "name", "inputs", "prepare", "stages", "outputs")
 	inputKeys  = keySet("name", "files", "per_file", "station", "format", "columns", "units", "cut", "band", "flat_tol")
-	stageKeys  = keySet("id", "stage", "sha256", "params", "after", "on_error", "timeout_s", "env", "pins")
+	stageKeys  = keySet("id", "stage", "sha256", "params", "after", "on_error", "timeout_s", "env", "pins", "keep")
 	outputKeys = keySet("folder", "documents", "plots", "plot_format", "exports", "export_frame")
 	// inputAllowed also admits the prepare keys an input may not set, so
 	// that they get a message of their own.
@@ -575,7 +579,7 @@ func (ps *parser) stages(v gjson.Result) {
 // far as it was read, so that later stages are numbered right.
 func (ps *parser) stage(ipath string, st gjson.Result, ids map[string]int) (Stage, []afterRef) {
 	c := ps.c
-	s := Stage{Params: []byte("{}"), OnError: OnErrorStop, paramsAt: -1}
+	s := Stage{Params: []byte("{}"), OnError: OnErrorStop, Keep: stage.KeepAll, paramsAt: -1}
 	var ar []afterRef
 	vals := map[string]gjson.Result{}
 	if !c.wantObject(ipath, st, stageKeys, func(k, _ string, val gjson.Result) { vals[k] = val }) {
@@ -639,6 +643,11 @@ func (ps *parser) stage(ipath string, st gjson.Result, ids map[string]int) (Stag
 	if val, ok := vals["timeout_s"]; ok {
 		if x, ok := c.wantNumber(ipath+".timeout_s", val, numRange{lo: 0, hi: MaxTimeoutS, loOpen: true}); ok {
 			s.TimeoutS = x
+		}
+	}
+	if val, ok := vals["keep"]; ok {
+		if k, ok := c.wantEnum(ipath+".keep", val, stage.Keeps()...); ok {
+			s.Keep = k
 		}
 	}
 	ps.builtinParams(ipath, &s)

@@ -61,6 +61,8 @@ type StageRecord struct {
 	OnError    string          `json:"on_error"`
 	TimeoutS   float64         `json:"timeout_s,omitempty"`
 	Pins       []Pin           `json:"pins,omitempty"`
+	// Keep is the detail of the result documents written, when not all.
+	Keep string `json:"keep,omitempty"`
 	// Environment is what the stage's process got from foilwright's
 	// environment, NAME=VALUE, sorted: the minimal variables, those the
 	// pipeline allowed and foilwright's own settings.
@@ -137,6 +139,9 @@ func newManifest(pl *Plan, folder string, infos []stage.Info, exes []string, res
 			Executable: exes[i], Pin: st.SHA256, Params: json.RawMessage(st.Params),
 			After: st.After, OnError: st.OnError, TimeoutS: st.TimeoutS, Pins: st.Pins,
 		})
+		if st.Keep != stage.KeepAll {
+			m.Stages[i].Keep = st.Keep
+		}
 	}
 	for i, sp := range pl.Sections {
 		r := results[i]
