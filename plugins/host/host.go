@@ -288,14 +288,18 @@ func (h *Host) start(ctx context.Context, spec Spec) (*process, error) {
 	}
 	env := h.StageEnv(spec)
 
+	log := h.log.Named("stage." + filepath.Base(spec.String()))
 	tail := newRing(StderrTail)
+	// The stage's log lines: parsed here, leniently (logline.go), not by
+	// go-plugin.
+	tail.onLine = (&lineLogger{log: log}).logLine
 	cfg := &plugin.ClientConfig{
 		HandshakeConfig:  stage.Handshake,
 		VersionedPlugins: stage.VersionedPlugins(nil),
 		AllowedProtocols: []plugin.Protocol{plugin.ProtocolGRPC},
-		Logger:           h.log.Named("stage." + filepath.Base(spec.String())),
+		Logger:           pluginLogger{log, filepath.Base(path)},
 		Stderr:           tail,
-		SyncStderr:       tail,
+		SyncStderr:       tail.quiet(),
 		SyncStdout:       io.Discard,
 		StartTimeout:     h.opts.StartTimeout,
 		AutoMTLS:         h.opts.AutoMTLS,
