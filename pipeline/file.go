@@ -658,7 +658,8 @@ func (ps *parser) stage(ipath string, st gjson.Result, ids map[string]int) (Stag
 var envName = regexp.MustCompile(`^[A-Za-z_][A-Za-z0-9_]*$`)
 
 // pin reads one entry of a stage's "pins": a file and the sha256 it must
-// have, checked now (and again whenever the file is parsed, as by verify).
+// have, or a folder and its tree digest (digest.Tree), checked now (and
+// again whenever the file is parsed, as by verify).
 func (ps *parser) pin(ppath, file string, d gjson.Result, s *Stage) {
 	c := ps.c
 	sum, ok := c.wantString(ppath, d, true)
@@ -670,12 +671,16 @@ func (ps *parser) pin(ppath, file string, d gjson.Result, s *Stage) {
 		return
 	}
 	sum = strings.ToLower(sum)
-	got, err := digest.File(ps.abs(file))
+	got, err := digest.Path(ps.abs(file))
 	switch {
 	case err != nil:
 		c.add(c.keyAt, ppath, "pinned file %q: %v", file, err)
 	case got != sum:
-		c.add(d.Index, ppath, "file %q has sha256 %s, the pipeline pins %s", file, got, sum)
+		kind := "file"
+		if fi, err := os.Stat(ps.abs(file)); err == nil && fi.IsDir() {
+			kind = "folder"
+		}
+		c.add(d.Index, ppath, "%s %q has sha256 %s, the pipeline pins %s", kind, file, got, sum)
 	default:
 		s.Pins = append(s.Pins, Pin{Path: file, SHA256: sum})
 	}

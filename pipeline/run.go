@@ -279,6 +279,7 @@ func Run(ctx context.Context, pl *Plan, opts RunOptions) (*Summary, error) {
 	}
 	m := newManifest(pl, folder, infos, exes, results, cancelled)
 	m.recordEnvironment(calls, runners)
+	m.recordRunsFrom(calls, runners)
 	if !cancelled && pl.Pipeline.Outputs.HasPlot(PlotStations) {
 		if err := writeStations(pl, rf.staging, results, m); err != nil {
 			return sum, err

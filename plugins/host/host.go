@@ -110,9 +110,10 @@ type Host struct {
 	self string
 	dir  string // private folder for the stages' sockets
 
-	mu     sync.Mutex
-	procs  map[*process]struct{}
-	closed bool
+	mu      sync.Mutex
+	procs   map[*process]struct{}
+	closed  bool
+	digests map[string]string // file digests by path, size and time (files.go)
 }
 
 // New returns a Host with a private socket folder (mode 0700) that Close
