@@ -156,6 +156,9 @@ func New(opts Options) (*Host, error) {
 	return &Host{opts: opts, log: log, self: self, dir: dir, procs: map[*process]struct{}{}}, nil
 }
 
+// Options returns the host's options, defaults filled in.
+func (h *Host) Options() Options { return h.opts }
+
 // SocketDir returns the private folder in which stages create their
 // sockets.
 func (h *Host) SocketDir() string { return h.dir }
@@ -186,6 +189,7 @@ type process struct {
 	cmd    *exec.Cmd                   // set when go-plugin starts the process (no process groups)
 	group  atomic.Pointer[groupRunner] // set when the host starts it in a group of its own
 	tail   *ring
+	rpc    plugin.ClientProtocol
 	stage  stage.Stage
 	info   stage.Info
 	once   sync.Once
@@ -347,7 +351,7 @@ func (h *Host) start(ctx context.Context, spec Spec) (*process, error) {
 		p.kill()
 		return nil, fail(fmt.Errorf("%w: dispensed %T, not a stage", ErrHandshake, raw), p)
 	}
-	p.stage = st
+	p.stage, p.rpc = st, rpc
 	if c, ok := raw.(*stage.Client); ok {
 		c.SetMaxReply(h.opts.MaxReply)
 	}

@@ -271,12 +271,24 @@ func check(info stage.Info, res stage.Result, depth int) (*Reply, error) {
 	return &Reply{Result: res, Doc: doc}, nil
 }
 
-// Stage returns the stage of the runner's process as it answers, with no
-// checks of the host's in between (for conformance checks).
+// Stage returns the stage of the runner's process (started if need be) as
+// it answers, with none of the host's checks in between: for conformance
+// checks of a stage executable.
 func (r *Runner) Stage(ctx context.Context) (stage.Stage, error) {
 	p, err := r.ensure(ctx)
 	if err != nil {
 		return nil, err
 	}
 	return p.stage, nil
+}
+
+// Ping asks the health service of the runner's process (started if need
+// be) whether it serves, as go-plugin's Client.Ping does. The host does
+// not need it otherwise.
+func (r *Runner) Ping(ctx context.Context) error {
+	p, err := r.ensure(ctx)
+	if err != nil {
+		return err
+	}
+	return p.rpc.Ping()
 }

@@ -133,18 +133,20 @@ func requestToProto(req Request, packed bool) (*stagev1.RunRequest, error) {
 	if packed {
 		nodes := req.Nodes
 		if nodes == nil || gjson.GetBytes(req.Section, "nodes").Exists() {
-			rest, split, err := SplitNodes(req.Section)
-			if err != nil {
-				return nil, BadInput(err)
-			}
-			in.SectionJson = rest
-			if nodes == nil {
-				nodes = split
+			// A document whose nodes cannot be taken out goes as it is,
+			// with no packed nodes: the stage refuses it.
+			if rest, split, err := SplitNodes(req.Section); err == nil {
+				in.SectionJson = rest
+				if nodes == nil {
+					nodes = split
+				}
 			}
 		}
-		in.NodeX, in.NodeY = make([]float64, len(nodes)), make([]float64, len(nodes))
-		for i, p := range nodes {
-			in.NodeX[i], in.NodeY[i] = p.X, p.Y
+		if nodes != nil {
+			in.NodeX, in.NodeY = make([]float64, len(nodes)), make([]float64, len(nodes))
+			for i, p := range nodes {
+				in.NodeX[i], in.NodeY[i] = p.X, p.Y
+			}
 		}
 		if len(ids) > 0 {
 			in.DepResults = make(map[string]*stagev1.Result, len(ids))

@@ -9,6 +9,14 @@
 // Run checks the stage both as a plain Go value and through real gRPC with
 // the in-process harness Connect, which uses the same adapters as a stage
 // process but no handshake, environment or process.
+//
+// A stage in any language is checked as an executable, started as
+// foilwright starts it (CheckExecutable; "foilwright stages check PATH"
+// on the command line):
+//
+//	func TestExecutable(t *testing.T) {
+//		stagetest.RunExecutable(t, "./my-stage")
+//	}
 package stagetest
 
 import (
@@ -27,6 +35,7 @@ import (
 
 	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/geometry/shape"
+	"github.com/foilwright/foilwright/plugins/host"
 	"github.com/foilwright/foilwright/plugins/stage"
 )
 
@@ -44,6 +53,10 @@ type Options struct {
 	Concurrent int
 	// Timeout limits each call; 0 means 30 s.
 	Timeout time.Duration
+	// Host configures the host CheckExecutable starts the stage with (its
+	// timeouts, limits and logger); the zero value is the host's
+	// defaults. Check does not use it.
+	Host host.Options
 }
 
 // Section returns a section document of a NACA 0012 section with a sharp

@@ -480,7 +480,10 @@ type RunRequest struct {
 	// For a packed stage: the section's nodes, x and y of node i at index i,
 	// in the section document's node order (chord units, normalised frame;
 	// trailing edge, upper surface, leading edge, lower surface, trailing
-	// edge). Both have the same length.
+	// edge). Both have the same length. Empty when the section document has
+	// no nodes to take out (it is then sent as it is): the stage refuses
+	// such a section with ERROR_CODE_BAD_INPUT, as it does a section_json
+	// that is not a foilwright.section/1 document.
 	NodeX []float64 `protobuf:"fixed64,5,rep,packed,name=node_x,json=nodeX,proto3" json:"node_x,omitempty"`
 	NodeY []float64 `protobuf:"fixed64,6,rep,packed,name=node_y,json=nodeY,proto3" json:"node_y,omitempty"`
 	// For a packed stage: the results of the stages it depends on, by stage
