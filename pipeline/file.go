@@ -58,6 +58,8 @@ type Pipeline struct {
 	Prepare prep.Settings
 	Stages  []Stage // in file order
 	Outputs Outputs
+	// Compare is the top-level "compare" block, or nil.
+	Compare *CompareSpec
 
 	order []int      // Stages indexes in dependency order
 	pos   *positions // of the file, for messages about it after parsing
@@ -71,6 +73,8 @@ type InputSpec struct {
 	PerFile bool     // one section per file instead of one section from all files
 	Station *float64 // spanwise position of a blade station, if given
 	Read    prep.Settings
+	// Compare is the input's own "compare" block, or nil.
+	Compare *CompareSpec
 }
 
 // A Stage is one entry of "stages".
@@ -278,8 +282,8 @@ type parser struct {
 }
 
 var (
-	topKeys    = keySet("foilwright", "name", "inputs", "prepare", "stages", "outputs")
-	inputKeys  = keySet("name", "files", "per_file", "station", "format", "columns", "units", "cut", "band", "flat_tol")
+	topKeys    = keySet("foilwright", "name", "inputs", "prepare", "stages", "outputs", "compare")
+	inputKeys  = keySet("name", "files", "per_file", "station", "format", "columns", "units", "cut", "band", "flat_tol", "compare")
 	stageKeys  = keySet("id", "stage", "sha256", "params", "after", "on_error", "timeout_s", "env", "pins", "keep")
 	outputKeys = keySet("folder", "documents", "plots", "plot_format", "exports", "export_frame")
 	// inputAllowed also admits the prepare keys an input may not set, so
@@ -349,6 +353,9 @@ func (ps *parser) parse(root gjson.Result) {
 	if v, ok := vals["prepare"]; ok {
 		ps.p.Prepare = ps.settings("prepare", v)
 	}
+	if v, ok := vals["compare"]; ok {
+		ps.p.Compare = ps.compareBlock("compare", v)
+	}
 	if v, ok := vals["inputs"]; !ok {
 		c.add(root.Index, "", `missing key "inputs"`)
 	} else {
@@ -411,6 +418,10 @@ func (ps *parser) inputs(v gjson.Result) {
 				spec.Station = &x
 			}
 		}
+		if val, ok := vals["compare"]; ok {
+			spec.Compare = ps.compareBlock(ipath+".compare", val)
+		}
+		ps.checkCompare(in, ipath, mergeCompare(ps.p.Compare, spec.Compare))
 		val, ok := vals["files"]
 		if !ok {
 			c.add(in.Index, ipath, `missing key "files"`)
@@ -920,7 +931,7 @@ func (ps *parser) outputs(v gjson.Result) {
 	if val, ok := vals["plots"]; ok {
 		seen := map[string]bool{}
 		c.wantArray("outputs.plots", val, func(_ int, ipath string, d gjson.Result) {
-			if e, ok := c.wantEnum(ipath, d, PlotPrep, PlotStations); ok {
+			if e, ok := c.wantEnum(ipath, d, PlotPrep, PlotStations, PlotCompare); ok {
 				if seen[e] {
 					c.add(d.Index, ipath, "%q listed twice", e)
 					return

@@ -83,6 +83,9 @@ type SectionRecord struct {
 	Status   string        `json:"status"`
 	Err      string        `json:"error,omitempty"`
 	Stages   []StageReport `json:"stages,omitempty"`
+	// Compare is the section's comparison with its design: settings,
+	// design file, verdict and figures.
+	Compare *CompareRecord `json:"compare,omitempty"`
 }
 
 // FileHash is a recorded file and its sha256.
@@ -157,7 +160,13 @@ func newManifest(pl *Plan, folder string, infos []stage.Info, exes []string, res
 		m.Sections = append(m.Sections, SectionRecord{
 			Name: sp.Name, Station: sp.Station, Inputs: inputs, Settings: sp.Settings,
 			Status: r.report.Status, Err: r.report.Err, Stages: r.report.Stages,
+			Compare: r.compare,
 		})
+		if r.compare == nil && sp.Compare != nil {
+			// Not compared (failed or cancelled): still record what it
+			// would have been held against.
+			m.Sections[len(m.Sections)-1].Compare = &CompareRecord{Settings: sp.Compare, DesignFile: r.designFile, Verdict: Verdict{Design: sp.Compare.Design, Verdict: "not compared"}}
+		}
 		for path, sum := range r.outputs {
 			m.Outputs[path] = sum
 		}

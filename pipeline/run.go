@@ -42,6 +42,10 @@ type Prepared struct {
 	Doc       *section.Section
 	Summary   string           // one or a few lines for a person: points used, fit, warnings
 	Artifacts []stage.Artifact // pictures of the preparation, when asked for; Run writes them under plots/
+	// Preparation is what the chain made, when the preparer has it: a
+	// comparison with the design reads the kept points and their lines
+	// from it (without it, the section's nodes stand for the points).
+	Preparation *prep.Preparation
 }
 
 // A Preparer runs the geometry chain (read, clean, fit, edges, normalise,
@@ -127,6 +131,9 @@ type SectionReport struct {
 	Input   bool   // it failed because of its input (files, parameters, a stage refusing the section)
 	Summary string // the Preparer's summary
 	Stages  []StageReport
+	// Compare is how the section compared with its design, when the
+	// pipeline compares it.
+	Compare *Verdict
 }
 
 // A StageReport says how one stage went for one section.
@@ -146,6 +153,18 @@ type Summary struct {
 	// Kept is set when the run replaced nothing because it did not fully
 	// succeed: the earlier run in Folder was kept and this one dropped.
 	Kept bool
+}
+
+// OutOfTolerance returns the sections that were compared with their
+// design and failed their tolerance.
+func (s *Summary) OutOfTolerance() []SectionReport {
+	var f []SectionReport
+	for _, r := range s.Sections {
+		if r.Compare != nil && r.Compare.Verdict == "fail" {
+			f = append(f, r)
+		}
+	}
+	return f
 }
 
 // Failed returns the sections that failed.
@@ -230,7 +249,7 @@ func Run(ctx context.Context, pl *Plan, opts RunOptions) (*Summary, error) {
 	if opts.Preparer == nil {
 		panic("pipeline: Run without a Preparer")
 	}
-	if len(pl.Stages) > 0 && opts.NewRunner == nil {
+	if (len(pl.Stages) > 0 || pl.needsRunner()) && opts.NewRunner == nil {
 		return nil, errors.New("pipeline: the pipeline has stages but no stage runner was given")
 	}
 	if opts.Limits == (limits.Limits{}) {
@@ -289,6 +308,9 @@ func Run(ctx context.Context, pl *Plan, opts RunOptions) (*Summary, error) {
 		if err := writeStationExports(pl, rf.staging, results, m); err != nil {
 			return sum, err
 		}
+		if err := writeVerdicts(pl, rf.staging, results, m); err != nil {
+			return sum, err
+		}
 	}
 	m.Timings.Jobs = jobs
 	m.Timings.Started = start.UTC().Format(time.RFC3339)
@@ -317,7 +339,7 @@ func Run(ctx context.Context, pl *Plan, opts RunOptions) (*Summary, error) {
 // caller to close.
 func startRunners(pl *Plan, opts RunOptions, jobs int) ([]StageRunner, error) {
 	runners := make([]StageRunner, 0, jobs)
-	if len(pl.Stages) == 0 {
+	if len(pl.Stages) == 0 && !pl.needsRunner() {
 		return runners, nil
 	}
 	for range jobs {

@@ -75,7 +75,7 @@ func Documents() []string {
 			kinds = append(kinds, d.kind)
 		}
 	}
-	return append(kinds, DocResults)
+	return append(kinds, DocResults, DocCompare)
 }
 
 // sectionResult is what one section produced.
@@ -85,6 +85,9 @@ type sectionResult struct {
 	files   []FileHash       // inputs as read
 	outputs map[string]string
 	timing  SectionTiming
+	// The comparison with the design, when the pipeline asks for one.
+	compare    *CompareRecord
+	designFile *FileHash
 }
 
 // output is one file of a section, relative to the run folder.
@@ -107,6 +110,8 @@ type sectionRun struct {
 	sec      *section.Section
 	outs     []output
 	results  []stageResult // the results of the stages that succeeded, in order
+	// designData is the design file of the section's comparison.
+	designData []byte
 }
 
 // stageResult is the result document of one stage, as decoded once from
@@ -128,8 +133,10 @@ func runSection(ctx context.Context, pl *Plan, folder string, i int, calls []Sta
 		return r.res
 	}
 	_ = r.readInputs() &&
+		r.readDesign() &&
 		r.prepare(opts.Preparer) &&
 		r.collectDocuments() &&
+		r.compare(runner) &&
 		r.runStages(calls, runner) &&
 		r.collectExports() &&
 		r.write(folder)
@@ -138,7 +145,7 @@ func runSection(ctx context.Context, pl *Plan, folder string, i int, calls []Sta
 
 // cancel marks the section cancelled, dropping what it made.
 func (r *sectionRun) cancel() bool {
-	r.res = sectionResult{report: SectionReport{Name: r.sp.Name, Status: StatusCancelled}, timing: r.res.timing}
+	r.res = sectionResult{report: SectionReport{Name: r.sp.Name, Status: StatusCancelled}, timing: r.res.timing, designFile: r.res.designFile}
 	return false
 }
 

@@ -207,7 +207,11 @@ func checkDisk(folder string, m *Manifest) []Difference {
 func checkInputs(p *Pipeline, pl *Plan, m *Manifest) error {
 	var changed []string
 	for _, s := range m.Sections {
-		for _, f := range s.Inputs {
+		files := s.Inputs
+		if s.Compare != nil && s.Compare.DesignFile != nil {
+			files = append(append([]FileHash(nil), files...), *s.Compare.DesignFile)
+		}
+		for _, f := range files {
 			sum, err := digest.File(p.abs(f.Path))
 			switch {
 			case err != nil:

@@ -189,6 +189,19 @@ func (r Result) Document() ([]byte, error) {
 	return r.Doc.Encode()
 }
 
+// DocumentV1 returns the result document as ResultFormatV1 JSON (points
+// as objects, ResultDoc.EncodeV1), for readers that predate ResultFormat.
+func (r Result) DocumentV1() ([]byte, error) {
+	doc := r.Doc
+	if doc == nil {
+		var err error
+		if doc, err = DecodeResult(r.JSON); err != nil {
+			return nil, err
+		}
+	}
+	return doc.EncodeV1()
+}
+
 // Artifact is a named file a stage returns for the host to write.
 type Artifact struct {
 	Name      string // a plain file name, no directories
