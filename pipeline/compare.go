@@ -373,7 +373,12 @@ func (r *sectionRun) compare(runner StageRunner) bool {
 		}
 		run := func(ctx context.Context, name string, sec, params []byte) ([]byte, error) {
 			out, err := runStage(ctx, runner, StageCall{ID: "compare-" + name, Stage: name, Params: params}, stage.Request{Section: sec, Params: params, SectionName: r.sp.Name})
-			return out.JSON, err
+			if err != nil {
+				return nil, err
+			}
+			// The comparison reads foilwright.result/1; a stage may answer
+			// packed (no JSON) or in /2.
+			return out.DocumentV1()
 		}
 		alphas := spec.AlphaDeg
 		if alphas == nil {

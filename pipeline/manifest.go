@@ -61,6 +61,13 @@ type StageRecord struct {
 	OnError    string          `json:"on_error"`
 	TimeoutS   float64         `json:"timeout_s,omitempty"`
 	Pins       []Pin           `json:"pins,omitempty"`
+	// Keep is the detail of the result documents written, when not all.
+	Keep string `json:"keep,omitempty"`
+	// RunsFrom is what an external stage runs from besides its executable:
+	// the interpreter its "#!" line names (absolute path) and the files
+	// and folders it declares (relative to its folder), with their
+	// sha256 (a folder's tree digest).
+	RunsFrom []FileHash `json:"runs_from,omitempty"`
 	// Environment is what the stage's process got from foilwright's
 	// environment, NAME=VALUE, sorted: the minimal variables, those the
 	// pipeline allowed and foilwright's own settings.
@@ -140,6 +147,9 @@ func newManifest(pl *Plan, folder string, infos []stage.Info, exes []string, res
 			Executable: exes[i], Pin: st.SHA256, Params: json.RawMessage(st.Params),
 			After: st.After, OnError: st.OnError, TimeoutS: st.TimeoutS, Pins: st.Pins,
 		})
+		if st.Keep != stage.KeepAll {
+			m.Stages[i].Keep = st.Keep
+		}
 	}
 	for i, sp := range pl.Sections {
 		r := results[i]
@@ -163,6 +173,27 @@ func newManifest(pl *Plan, folder string, infos []stage.Info, exes []string, res
 		m.Timings.Sections = append(m.Timings.Sections, r.timing)
 	}
 	return m
+}
+
+// A RunsFromReporter is a StageRunner that can say what the external
+// stage of a call runs from besides its executable, for the manifest.
+type RunsFromReporter interface {
+	RunsFrom(call StageCall) []FileHash
+}
+
+// recordRunsFrom records what each external stage runs from, when the
+// runners can tell it.
+func (m *Manifest) recordRunsFrom(calls []StageCall, runners []StageRunner) {
+	if len(runners) == 0 {
+		return
+	}
+	rr, ok := runners[0].(RunsFromReporter)
+	if !ok {
+		return
+	}
+	for i := range m.Stages {
+		m.Stages[i].RunsFrom = rr.RunsFrom(calls[i])
+	}
 }
 
 // recordEnvironment records the environment of each stage, when the

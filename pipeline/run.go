@@ -64,6 +64,7 @@ type StageCall struct {
 	Params  []byte        // parameters, the raw JSON object of the pipeline file
 	Timeout time.Duration // 0 means the runner's default
 	Env     []string      // names of variables of foilwright's environment the stage may see
+	Keep    string        // detail of the result document written (stage.KeepAll, …)
 }
 
 // An EnvReporter is a StageRunner that can say which environment the stage
@@ -80,8 +81,10 @@ type StageRunner interface {
 	// description and the hex sha256 of the executable that serves it.
 	Describe(ctx context.Context, call StageCall) (info stage.Info, executable string, err error)
 	// Run runs the stage of call on req, which carries the section
-	// document, call's parameters, the results of the stages it runs after
-	// (by stage id) and the section's name.
+	// document without its nodes and the nodes (req.DecodeSection, or
+	// stage.JoinNodes, puts them together), call's parameters, the
+	// results of the stages it runs after, decoded, by stage id
+	// (req.Dep), and the section's name. The result has Doc or JSON set.
 	Run(ctx context.Context, call StageCall, req stage.Request) (stage.Result, error)
 	Close() error
 }
@@ -295,6 +298,7 @@ func Run(ctx context.Context, pl *Plan, opts RunOptions) (*Summary, error) {
 	}
 	m := newManifest(pl, folder, infos, exes, results, cancelled)
 	m.recordEnvironment(calls, runners)
+	m.recordRunsFrom(calls, runners)
 	if !cancelled && pl.Pipeline.Outputs.HasPlot(PlotStations) {
 		if err := writeStations(pl, rf.staging, results, m); err != nil {
 			return sum, err
@@ -479,7 +483,7 @@ func writeStationExports(pl *Plan, folder string, results []sectionResult, m *Ma
 
 func callOf(st Stage) StageCall {
 	c := StageCall{ID: st.ID, Stage: st.Stage, SHA256: st.SHA256, Params: st.Params,
-		Timeout: time.Duration(st.TimeoutS * float64(time.Second)), Env: st.Env}
+		Timeout: time.Duration(st.TimeoutS * float64(time.Second)), Env: st.Env, Keep: st.Keep}
 	if st.Exec != "" {
 		c.Stage, c.Exec = st.Exec, true
 	}

@@ -298,6 +298,17 @@ func compare(rep *VerifyReport, want, got *Manifest) {
 		if g.Name != s.Name || g.Version != s.Version || g.Executable != s.Executable {
 			rep.Notes = append(rep.Notes, fmt.Sprintf("stage %s was %s %s (%s), now %s %s (%s)", s.ID, s.Name, s.Version, short(s.Executable), g.Name, g.Version, short(g.Executable)))
 		}
+		now := map[string]string{}
+		for _, f := range g.RunsFrom {
+			now[f.Path] = f.SHA256
+		}
+		for _, f := range s.RunsFrom {
+			if sum, ok := now[f.Path]; !ok {
+				rep.Notes = append(rep.Notes, fmt.Sprintf("stage %s ran from %s (%s), now does not", s.ID, f.Path, short(f.SHA256)))
+			} else if sum != f.SHA256 {
+				rep.Notes = append(rep.Notes, fmt.Sprintf("stage %s runs from %s, which was %s, now %s", s.ID, f.Path, short(f.SHA256), short(sum)))
+			}
+		}
 	}
 }
 
