@@ -42,8 +42,11 @@ func (a *assembly) record(i int) (SectionRecord, map[string]string, SectionTimin
 		return e.Record, e.Outputs, e.Timing, nil
 	}
 	sp := a.pl.Sections[i]
-	return SectionRecord{Name: sp.Name, Station: sp.Station, Inputs: []FileHash{}, Settings: sp.Settings, Status: StatusCancelled},
-		nil, SectionTiming{}, nil
+	rec := SectionRecord{Name: sp.Name, Station: sp.Station, Inputs: []FileHash{}, Settings: sp.Settings, Status: StatusCancelled}
+	if sp.Compare != nil {
+		rec.Compare = notCompared(sp, nil)
+	}
+	return rec, nil, SectionTiming{}, nil
 }
 
 // The places in the indented manifest where the streamed parts go: the

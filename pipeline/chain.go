@@ -26,7 +26,7 @@ func (Chain) Prepare(ctx context.Context, in Input, s prep.Settings) (Prepared, 
 	if err != nil {
 		return Prepared{}, err
 	}
-	out := Prepared{Section: doc, Doc: p.Section, Summary: p.OneLine()}
+	out := Prepared{Section: doc, Doc: p.Section, Summary: p.OneLine(), Preparation: p}
 	if in.PlotFormat != "" {
 		figs, err := p.PrepFigures()
 		if err != nil {

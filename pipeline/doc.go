@@ -38,12 +38,31 @@
 // records the failure and skips only the stages that run after it) and
 // "timeout_s", "env" (names of variables of foilwright's environment the
 // stage may see, besides the minimal ones; recorded with their values in
-// the manifest) and "pins" (more files the stage depends on, path →
+// the manifest), "pins" (more files the stage depends on, path →
 // sha256, checked with the file: a wrapper script's pin covers only the
-// script, not the binary it runs). Output keys: "folder" (default runs/<name>), "documents"
+// script, not the binary it runs; a folder's pin is its tree digest) and
+// "keep" (the detail of results/<id>.json: "all", the default, "cases"
+// without distributions and fields, or "scalars"; later stages and
+// exports see everything). Output keys: "folder" (default runs/<name>), "documents"
 // (any of "section", "nodes", "results"; all by default) and "plots" (a
 // list of names, checked and recorded; artifacts the stages return are
 // always written).
+//
+// # Comparing with the design
+//
+// A "compare" object, at the top level and per input, holds each section
+// against its design (package compare): "design" (a reference shape such
+// as "naca4:2412", or a file relative to the pipeline file), "design_units",
+// "chord", "twist", "offset" ([x, y]), "align", "datum", "scale",
+// "tolerance" (a number for ±, or "+a/-b"), "zones" ([{"name", "x": [from,
+// to], "surface", "tolerance"}]), "alpha_deg", "cp_alpha", "aero" and
+// "magnify". An input's keys override the top-level ones; its zones replace
+// them. Each compared section gets compare.json and compare.csv
+// (documents "compare") and its pictures (plots "compare"); the manifest
+// records the settings, the design file's sha256 and the verdict with its
+// figures, and verdicts.csv at the root of the run folder is the batch
+// table of verdicts. The aerodynamic comparison runs the built-in
+// vortex-panel and thin-aerofoil stages through the worker's StageRunner.
 //
 // # Checks
 //
@@ -69,8 +88,9 @@
 // # The run folder
 //
 // One subfolder per section, named after it, holding section.json,
-// nodes.dat, results/<stage-id>.json and the artifacts the stages returned
-// under plots/; manifest.json at the root. Two runs of the same pipeline
+// nodes.dat, results/<stage-id>.json, compare.json and compare.csv, and the
+// artifacts the stages returned under plots/; manifest.json (and
+// verdicts.csv, stations.svg) at the root. Two runs of the same pipeline
 // over the same inputs with the same stages give identical bytes in every
 // file, except the "timings" field of the manifest.
 //

@@ -66,6 +66,9 @@ type journalEntry struct {
 	// Summary and Input are the section's report beside its record.
 	Summary string `json:"summary,omitempty"`
 	Input   bool   `json:"input,omitempty"`
+	// Compare is the section's verdict against its design, when it was
+	// compared.
+	Compare *Verdict `json:"compare,omitempty"`
 	// Row is the section's row of the batch table.
 	Row []Cell `json:"row,omitempty"`
 	// Section is the section document, kept only when the run's stations
@@ -76,7 +79,7 @@ type journalEntry struct {
 // report rebuilds the section's report.
 func (e *journalEntry) report() SectionReport {
 	return SectionReport{Name: e.Record.Name, Status: e.Record.Status, Err: e.Record.Err, Input: e.Input,
-		Summary: e.Summary, Stages: e.Record.Stages}
+		Summary: e.Summary, Stages: e.Record.Stages, Compare: e.Compare}
 }
 
 // where is an entry's place in the journal file.

@@ -61,6 +61,13 @@ type StageRecord struct {
 	OnError    string          `json:"on_error"`
 	TimeoutS   float64         `json:"timeout_s,omitempty"`
 	Pins       []Pin           `json:"pins,omitempty"`
+	// Keep is the detail of the result documents written, when not all.
+	Keep string `json:"keep,omitempty"`
+	// RunsFrom is what an external stage runs from besides its executable:
+	// the interpreter its "#!" line names (absolute path) and the files
+	// and folders it declares (relative to its folder), with their
+	// sha256 (a folder's tree digest).
+	RunsFrom []FileHash `json:"runs_from,omitempty"`
 	// Environment is what the stage's process got from foilwright's
 	// environment, NAME=VALUE, sorted: the minimal variables, those the
 	// pipeline allowed and foilwright's own settings.
@@ -76,6 +83,9 @@ type SectionRecord struct {
 	Status   string        `json:"status"`
 	Err      string        `json:"error,omitempty"`
 	Stages   []StageReport `json:"stages,omitempty"`
+	// Compare is the section's comparison with its design: settings,
+	// design file, verdict and figures.
+	Compare *CompareRecord `json:"compare,omitempty"`
 }
 
 // FileHash is a recorded file and its sha256.
@@ -110,6 +120,12 @@ type SectionTiming struct {
 type StageTiming struct {
 	ID string  `json:"id"`
 	S  float64 `json:"s"`
+}
+
+// A RunsFromReporter is a StageRunner that can say what the external
+// stage of a call runs from besides its executable, for the manifest.
+type RunsFromReporter interface {
+	RunsFrom(call StageCall) []FileHash
 }
 
 func writeManifest(path string, m *Manifest) error {

@@ -25,6 +25,7 @@ type SectionPlan struct {
 	Files    []string      // recorded paths (see InputSpec.Paths), in reading order
 	Station  *float64      // spanwise station, if the input gives one
 	Settings prep.Settings // "prepare" with the input's reading keys on top
+	Compare  *CompareSpec  // the compare block (the input's over the top-level one), or nil
 }
 
 // Plan expands the inputs into sections and orders the stages. Globs were
@@ -35,13 +36,14 @@ func (p *Pipeline) Plan() *Plan {
 	for i, in := range p.Inputs {
 		names := sectionNames(in)
 		settings := overlay(p.Prepare, in.Read)
+		cmp := mergeCompare(p.Compare, in.Compare)
 		if in.PerFile {
 			for k, f := range in.Paths {
-				pl.Sections = append(pl.Sections, SectionPlan{Name: names[k], Input: i, Files: []string{f}, Station: in.Station, Settings: settings})
+				pl.Sections = append(pl.Sections, SectionPlan{Name: names[k], Input: i, Files: []string{f}, Station: in.Station, Settings: settings, Compare: cmp})
 			}
 			continue
 		}
-		pl.Sections = append(pl.Sections, SectionPlan{Name: names[0], Input: i, Files: in.Paths, Station: in.Station, Settings: settings})
+		pl.Sections = append(pl.Sections, SectionPlan{Name: names[0], Input: i, Files: in.Paths, Station: in.Station, Settings: settings, Compare: cmp})
 	}
 	order := p.order
 	if order == nil {
@@ -81,6 +83,9 @@ func (pl *Plan) Describe(w io.Writer) error {
 		fmt.Fprintf(&b, "section %s: %s", s.Name, strings.Join(s.Files, ", "))
 		if s.Station != nil {
 			fmt.Fprintf(&b, " (station %g)", *s.Station)
+		}
+		if s.Compare != nil {
+			fmt.Fprintf(&b, "; compared with %s", s.Compare.Design)
 		}
 		b.WriteByte('\n')
 	}

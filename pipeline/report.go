@@ -29,11 +29,26 @@ func (s *Summary) Write(w io.Writer) error {
 			}
 		}
 	}
+	var compared []SectionReport
+	for _, r := range s.Sections {
+		if r.Compare != nil {
+			compared = append(compared, r)
+		}
+	}
+	if len(compared) > 0 {
+		b.WriteString("verdicts against the design:\n")
+		for _, r := range compared {
+			b.WriteString(verdictLine(r) + "\n")
+		}
+	}
 	fmt.Fprintf(&b, "%d section(s): %d ok", len(s.Sections), counts[StatusOK])
 	for _, st := range []string{StatusPartial, StatusFailed, StatusCancelled} {
 		if counts[st] > 0 {
 			fmt.Fprintf(&b, ", %d %s", counts[st], st)
 		}
+	}
+	if n := len(s.OutOfTolerance()); n > 0 {
+		fmt.Fprintf(&b, ", %d out of tolerance", n)
 	}
 	if s.Kept {
 		fmt.Fprintf(&b, "; the earlier run in %s was kept (a replacement is kept only when every section succeeds)\n", s.Folder)

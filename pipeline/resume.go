@@ -14,6 +14,7 @@ import (
 
 	"github.com/foilwright/foilwright/internal/digest"
 	"github.com/foilwright/foilwright/internal/limits"
+	"github.com/foilwright/foilwright/plugins/stage"
 )
 
 // ErrNotResumable means the earlier attempt in a run folder is not an
@@ -237,10 +238,14 @@ func readBack(pl *Plan, i int, folder string, outs map[string]string) (sectionRe
 		return res, "its section document was not written, and the batch table needs it"
 	}
 	res.doc = doc
-	res.results = map[string][]byte{}
+	res.results = map[string]*stage.ResultDoc{}
 	for _, st := range pl.Stages {
 		if b, ok := read(name + "/results/" + st.ID + ".json"); ok {
-			res.results[st.ID] = b
+			d, err := stage.DecodeResult(b)
+			if err != nil {
+				return res, "the result of stage " + st.ID + " does not read: " + err.Error()
+			}
+			res.results[st.ID] = d
 		} else if pl.Pipeline.Outputs.Has(DocResults) {
 			return res, "the result of stage " + st.ID + " is missing"
 		} else {
@@ -406,11 +411,22 @@ func headDifference(a, b runHead, an, bn string) string {
 			return diff(what+"'s parameters", string(x.Params), string(y.Params))
 		case !slices.Equal(x.Environment, y.Environment):
 			return diff(what+"'s environment", envDiff(x.Environment, y.Environment), envDiff(y.Environment, x.Environment))
+		case x.Keep != y.Keep:
+			return diff(what+"'s keep", orDefault(x.Keep, stage.KeepAll), orDefault(y.Keep, stage.KeepAll))
+		case !slices.Equal(x.RunsFrom, y.RunsFrom):
+			return diff(what+"'s files it runs from", fmt.Sprint(x.RunsFrom), fmt.Sprint(y.RunsFrom))
 		case !slices.Equal(x.After, y.After) || x.OnError != y.OnError || x.TimeoutS != y.TimeoutS || x.Pin != y.Pin || !slices.Equal(x.Pins, y.Pins):
 			return diff(what+"'s settings", fmt.Sprintf("after %v, on_error %s", x.After, x.OnError), fmt.Sprintf("after %v, on_error %s", y.After, y.OnError))
 		}
 	}
 	return ""
+}
+
+func orDefault(s, d string) string {
+	if s == "" {
+		return d
+	}
+	return s
 }
 
 // envDiff lists the variables of a that b lacks or has otherwise.

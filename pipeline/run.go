@@ -47,6 +47,10 @@ type Prepared struct {
 	Doc       *section.Section
 	Summary   string           // one or a few lines for a person: points used, fit, warnings
 	Artifacts []stage.Artifact // pictures of the preparation, when asked for; Run writes them under plots/
+	// Preparation is what the chain made, when the preparer has it: a
+	// comparison with the design reads the kept points and their lines
+	// from it (without it, the section's nodes stand for the points).
+	Preparation *prep.Preparation
 }
 
 // A Preparer runs the geometry chain (read, clean, fit, edges, normalise,
@@ -65,6 +69,7 @@ type StageCall struct {
 	Params  []byte        // parameters, the raw JSON object of the pipeline file
 	Timeout time.Duration // 0 means the runner's default
 	Env     []string      // names of variables of foilwright's environment the stage may see
+	Keep    string        // detail of the result document written (stage.KeepAll, …)
 }
 
 // An EnvReporter is a StageRunner that can say which environment the stage
@@ -81,8 +86,10 @@ type StageRunner interface {
 	// description and the hex sha256 of the executable that serves it.
 	Describe(ctx context.Context, call StageCall) (info stage.Info, executable string, err error)
 	// Run runs the stage of call on req, which carries the section
-	// document, call's parameters, the results of the stages it runs after
-	// (by stage id) and the section's name.
+	// document without its nodes and the nodes (req.DecodeSection, or
+	// stage.JoinNodes, puts them together), call's parameters, the
+	// results of the stages it runs after, decoded, by stage id
+	// (req.Dep), and the section's name. The result has Doc or JSON set.
 	Run(ctx context.Context, call StageCall, req stage.Request) (stage.Result, error)
 	Close() error
 }
@@ -147,6 +154,9 @@ type SectionReport struct {
 	Input   bool   // it failed because of its input (files, parameters, a stage refusing the section)
 	Summary string // the Preparer's summary
 	Stages  []StageReport
+	// Compare is how the section compared with its design, when the
+	// pipeline compares it.
+	Compare *Verdict
 }
 
 // A StageReport says how one stage went for one section.
@@ -168,6 +178,18 @@ type Summary struct {
 	Kept bool
 	// Resumed says what a resumed run kept of the earlier attempt.
 	Resumed ResumeReport
+}
+
+// OutOfTolerance returns the sections that were compared with their
+// design and failed their tolerance.
+func (s *Summary) OutOfTolerance() []SectionReport {
+	var f []SectionReport
+	for _, r := range s.Sections {
+		if r.Compare != nil && r.Compare.Verdict == "fail" {
+			f = append(f, r)
+		}
+	}
+	return f
 }
 
 // Failed returns the sections that failed.
@@ -260,7 +282,7 @@ func Run(ctx context.Context, pl *Plan, opts RunOptions) (*Summary, error) {
 	if opts.Preparer == nil {
 		panic("pipeline: Run without a Preparer")
 	}
-	if len(pl.Stages) > 0 && opts.NewRunner == nil {
+	if (len(pl.Stages) > 0 || pl.needsRunner()) && opts.NewRunner == nil {
 		return nil, errors.New("pipeline: the pipeline has stages but no stage runner was given")
 	}
 	if opts.Limits == (limits.Limits{}) {
@@ -401,8 +423,10 @@ func newRunHead(pl *Plan, folder string, infos []stage.Info, exes []string, call
 		Sections: len(pl.Sections),
 	}
 	var er EnvReporter
+	var rr RunsFromReporter
 	if len(runners) > 0 {
 		er, _ = runners[0].(EnvReporter)
+		rr, _ = runners[0].(RunsFromReporter)
 	}
 	for i, st := range pl.Stages {
 		rec := StageRecord{
@@ -410,8 +434,14 @@ func newRunHead(pl *Plan, folder string, infos []stage.Info, exes []string, call
 			Executable: exes[i], Pin: st.SHA256, Params: json.RawMessage(st.Params),
 			After: st.After, OnError: st.OnError, TimeoutS: st.TimeoutS, Pins: st.Pins,
 		}
+		if st.Keep != stage.KeepAll {
+			rec.Keep = st.Keep
+		}
 		if er != nil {
 			rec.Environment = er.Environment(calls[i])
+		}
+		if rr != nil {
+			rec.RunsFrom = rr.RunsFrom(calls[i])
 		}
 		h.Stages = append(h.Stages, rec)
 	}
@@ -440,7 +470,7 @@ func (j *journal) reports(pl *Plan, idx []int, f func(SectionReport)) error {
 // caller to close.
 func startRunners(pl *Plan, opts RunOptions, jobs int) ([]StageRunner, error) {
 	runners := make([]StageRunner, 0, jobs)
-	if len(pl.Stages) == 0 {
+	if len(pl.Stages) == 0 && !pl.needsRunner() {
 		return runners, nil
 	}
 	for range jobs {
@@ -537,6 +567,9 @@ feed:
 // and records them in outs.
 func writeRunOutputs(pl *Plan, folder string, idx []int, entry func(int) (journalEntry, bool, error), outs map[string]string) error {
 	if err := writeTable(pl, folder, idx, entry, outs); err != nil {
+		return err
+	}
+	if err := writeVerdicts(pl, folder, idx, entry, outs); err != nil {
 		return err
 	}
 	out := pl.Pipeline.Outputs
@@ -673,7 +706,7 @@ func writeStationExports(pl *Plan, folder string, docs []stationDoc, outs map[st
 
 func callOf(st Stage) StageCall {
 	c := StageCall{ID: st.ID, Stage: st.Stage, SHA256: st.SHA256, Params: st.Params,
-		Timeout: time.Duration(st.TimeoutS * float64(time.Second)), Env: st.Env}
+		Timeout: time.Duration(st.TimeoutS * float64(time.Second)), Env: st.Env, Keep: st.Keep}
 	if st.Exec != "" {
 		c.Stage, c.Exec = st.Exec, true
 	}

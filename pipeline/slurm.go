@@ -158,7 +158,12 @@ func JobScript(pl *Plan, o JobScriptOptions) ([]byte, JobEstimate, error) {
 	p("  echo \"submitted the array as job $array and the merge as job ${merge%%%%;*}\"\n")
 	p("  exit 0\n")
 	p("fi\n")
-	p("exec \"$FOILWRIGHT\" run \"$PIPELINE\" -o \"$RUN\" --shard auto --resume --jobs \"${SLURM_CPUS_PER_TASK:-1}\"\n")
+	p("status=0\n")
+	p("\"$FOILWRIGHT\" run \"$PIPELINE\" -o \"$RUN\" --shard auto --resume --jobs \"${SLURM_CPUS_PER_TASK:-1}\" || status=$?\n")
+	p("# 3: the shard is made and a section is out of tolerance against its design;\n")
+	p("# the task succeeded (the merge runs after it) and the merge reports the verdicts.\n")
+	p("if [ \"$status\" = 3 ]; then exit 0; fi\n")
+	p("exit \"$status\"\n")
 	return b.Bytes(), est, nil
 }
 

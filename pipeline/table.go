@@ -3,10 +3,14 @@ package pipeline
 import (
 	"encoding/csv"
 	"io"
+	"maps"
+	"math"
 	"slices"
 	"strconv"
 
 	"github.com/tidwall/gjson"
+
+	"github.com/foilwright/foilwright/plugins/stage"
 )
 
 // TableName is the batch table at the root of every run folder: one row
@@ -79,7 +83,7 @@ const (
 // tableRow makes a section's row: its own columns from its section
 // document (when it was made), each stage's scalars and the numbers of
 // each of its cases (Cl, Cm at each angle), and the closing columns.
-func tableRow(name string, station *float64, status, errText, verdict string, sec []byte, stageIDs []string, results map[string][]byte) []Cell {
+func tableRow(name string, station *float64, status, errText, verdict string, sec []byte, stageIDs []string, results map[string]*stage.ResultDoc) []Cell {
 	row := []Cell{{Name: "section", Value: name}, {Name: "status", Value: status}}
 	if station != nil {
 		row = append(row, Cell{Name: "station", Value: strconv.FormatFloat(*station, 'g', -1, 64)})
@@ -95,32 +99,31 @@ func tableRow(name string, station *float64, status, errText, verdict string, se
 			}
 		}
 	}
+	num := func(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
 	for _, id := range stageIDs {
-		res, ok := results[id]
-		if !ok {
+		doc, ok := results[id]
+		if !ok || doc == nil {
 			continue
 		}
-		doc := gjson.ParseBytes(res)
-		doc.Get("scalars").ForEach(func(k, v gjson.Result) bool {
-			if v.Type == gjson.Number {
-				row = append(row, Cell{Stage: id, Name: k.String(), Value: v.Raw})
+		for _, k := range slices.Sorted(maps.Keys(doc.Scalars)) {
+			if v := doc.Scalars[k]; !math.IsNaN(v) && !math.IsInf(v, 0) {
+				row = append(row, Cell{Stage: id, Name: k, Value: num(v)})
 			}
-			return true
-		})
-		doc.Get("cases").ForEach(func(_, c gjson.Result) bool {
-			a := c.Get("alpha_deg")
-			if a.Type != gjson.Number {
-				return true
+		}
+		for _, c := range doc.Cases {
+			if c == nil {
+				continue
 			}
-			alpha := a.Num
-			c.ForEach(func(k, v gjson.Result) bool {
-				if k.String() != "alpha_deg" && v.Type == gjson.Number {
-					row = append(row, Cell{Stage: id, Name: k.String(), Alpha: &alpha, Value: v.Raw})
+			alpha := c.AlphaDeg
+			for _, f := range []struct {
+				name string
+				v    float64
+			}{{"cl", c.CL}, {"cm_c4", c.CMc4}} {
+				if !math.IsNaN(f.v) && !math.IsInf(f.v, 0) {
+					row = append(row, Cell{Stage: id, Name: f.name, Alpha: &alpha, Value: num(f.v)})
 				}
-				return true
-			})
-			return true
-		})
+			}
+		}
 	}
 	if verdict != "" {
 		row = append(row, Cell{Name: colVerdict, Value: verdict})

@@ -210,7 +210,11 @@ func checkDisk(folder string, m *Manifest) []Difference {
 func checkInputs(p *Pipeline, pl *Plan, m *Manifest) error {
 	var changed []string
 	for _, s := range m.Sections {
-		for _, f := range s.Inputs {
+		files := s.Inputs
+		if s.Compare != nil && s.Compare.DesignFile != nil {
+			files = append(append([]FileHash(nil), files...), *s.Compare.DesignFile)
+		}
+		for _, f := range files {
 			sum, err := digest.File(p.abs(f.Path))
 			switch {
 			case err != nil:
@@ -296,6 +300,17 @@ func compare(rep *VerifyReport, want, got *Manifest) {
 		g := stages[s.ID]
 		if g.Name != s.Name || g.Version != s.Version || g.Executable != s.Executable {
 			rep.Notes = append(rep.Notes, fmt.Sprintf("stage %s was %s %s (%s), now %s %s (%s)", s.ID, s.Name, s.Version, short(s.Executable), g.Name, g.Version, short(g.Executable)))
+		}
+		now := map[string]string{}
+		for _, f := range g.RunsFrom {
+			now[f.Path] = f.SHA256
+		}
+		for _, f := range s.RunsFrom {
+			if sum, ok := now[f.Path]; !ok {
+				rep.Notes = append(rep.Notes, fmt.Sprintf("stage %s ran from %s (%s), now does not", s.ID, f.Path, short(f.SHA256)))
+			} else if sum != f.SHA256 {
+				rep.Notes = append(rep.Notes, fmt.Sprintf("stage %s runs from %s, which was %s, now %s", s.ID, f.Path, short(f.SHA256), short(sum)))
+			}
 		}
 	}
 }

@@ -31,6 +31,9 @@ import (
 //     (a section or a stage failed, also with on_error "continue"; a stage
 //     crashed, timed out or broke its protocol; outputs differ from their
 //     manifest; writing failed), or foilwright itself failed (a bug).
+//   - 3: measured fine, out of tolerance: a comparison with the design ran
+//     and a measured point lies outside its tolerance (compare; run with a
+//     compare block, when every section succeeded).
 //   - 130: interrupted (Ctrl-C or SIGTERM), whatever else happened.
 //
 // When both kinds of failure happen in one run, 2 wins: the input must
@@ -99,6 +102,10 @@ func exitStatus(err error, started, interrupted bool) int {
 		return exitInterrupted
 	case !started || isInputError(err):
 		return exitUsage
+	}
+	var tol *toleranceError
+	if errors.As(err, &tol) {
+		return exitOutOfTolerance
 	}
 	return exitFailed
 }

@@ -48,6 +48,7 @@ func allCommands() map[string]*cobra.Command {
 var commandsWithOutput = []string{
 	"foilwright points", "foilwright prep", "foilwright shape naca4", "foilwright shape karman-trefftz",
 	"foilwright analyze", "foilwright run", "foilwright export", "foilwright export stations",
+	"foilwright compare",
 }
 
 func TestOutputJSONQuietEverywhere(t *testing.T) {

@@ -1,6 +1,8 @@
 package main
 
 import (
+	"fmt"
+
 	"github.com/spf13/cobra"
 
 	"github.com/foilwright/foilwright/pipeline"
@@ -29,7 +31,8 @@ against its shard's record. The merged run replaces RUN_FOLDER as a whole
 (the shards' parts go with it); run --verify checks it like any run.
 
 The summary, one line per section, goes to standard output; the exit status
-is that of a run: 0 when every section succeeded.`,
+is that of the run on one machine: 0 when every section succeeded, 3 when a
+section compared with its design is out of tolerance.`,
 		Example: `  foilwright run pipeline.json --shard 0/2 -o runs/batch
   foilwright run pipeline.json --shard 1/2 -o runs/batch
   foilwright merge runs/batch
@@ -57,7 +60,14 @@ is that of a run: 0 when every section succeeded.`,
 			default:
 				sum.Write(cmd.OutOrStdout())
 			}
-			return sum.Err()
+			if err := sum.Err(); err != nil {
+				return err
+			}
+			// The exit status of the run on one machine.
+			if n := len(sum.OutOfTolerance()); n > 0 {
+				return &toleranceError{fmt.Sprintf("%d of %d section(s) out of tolerance against their design", n, len(sum.Sections))}
+			}
+			return nil
 		},
 	}
 	f := cmd.Flags()

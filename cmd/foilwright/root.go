@@ -14,10 +14,13 @@ import (
 // Exit statuses (DESIGN.md): 0 success, 1 processing failed, 2 bad usage or
 // unreadable input, 130 interrupted (common practice for SIGINT).
 const (
-	exitOK          = 0
-	exitFailed      = 1
-	exitUsage       = 2
-	exitInterrupted = 130
+	exitOK     = 0
+	exitFailed = 1
+	exitUsage  = 2
+	// exitOutOfTolerance: the comparison ran and a measured point lies
+	// outside its tolerance (compare, and run with a compare block).
+	exitOutOfTolerance = 3
+	exitInterrupted    = 130
 )
 
 // newRootCmd builds the command tree. started is set when a RunE begins, so
@@ -59,6 +62,7 @@ from them.`,
 		newExportCmd(),
 		newStagesCmd(),
 		newStageServeCmd(),
+		newCompareCmd(),
 	} {
 		root.AddCommand(c)
 	}

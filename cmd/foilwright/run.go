@@ -48,7 +48,10 @@ section.json, nodes.dat, results/<stage-id>.json and plots/, and manifest.json,
 which records the tool version, the pipeline's and every input's sha256, each
 stage's name, version, executable sha256 and parameters, every output's sha256
 and the timings. Outputs are written atomically; a failed section leaves the
-others intact. The exit status is 0 only when every section succeeded.
+others intact. A "compare" block holds each section against its design (see
+compare) and adds compare.json, compare.csv and verdicts.csv. The exit status is
+0 only when every section succeeded, 3 when they all did but one is out of
+tolerance against its design.
 
 Progress goes to standard error (a bar on a terminal, a line per section
 otherwise); the summary, one line per section, to standard output.
@@ -178,7 +181,13 @@ func runPipeline(cmd *cobra.Command, path string, opts runOptions) error {
 	if err != nil {
 		return err
 	}
-	return sum.Err()
+	if err := sum.Err(); err != nil {
+		return err
+	}
+	if n := len(sum.OutOfTolerance()); n > 0 {
+		return &toleranceError{fmt.Sprintf("%d of %d section(s) out of tolerance against their design", n, len(sum.Sections))}
+	}
+	return nil
 }
 
 // shardOf reads --shard: "" (the whole run), K/N, auto or auto/N (from
@@ -303,6 +312,9 @@ type (
 		Sections  []runSectionJSON `json:"sections"`
 		Counts    map[string]int   `json:"counts"`
 		Failed    []string         `json:"failed"`
+		// OutOfTolerance names the sections compared with their design
+		// that failed their tolerance.
+		OutOfTolerance []string `json:"out_of_tolerance"`
 	}
 	runSectionJSON struct {
 		Name    string                 `json:"name"`
@@ -310,6 +322,7 @@ type (
 		Error   string                 `json:"error,omitempty"`
 		Summary string                 `json:"summary,omitempty"`
 		Stages  []pipeline.StageReport `json:"stages"`
+		Compare *pipeline.Verdict      `json:"compare,omitempty"`
 	}
 	verifyReportJSON struct {
 		Manifest    string           `json:"manifest"`
@@ -354,17 +367,20 @@ type (
 
 func summaryJSON(s *pipeline.Summary) runSummaryJSON {
 	out := runSummaryJSON{Folder: s.Folder, Manifest: s.Manifest, Cancelled: s.Cancelled, Kept: s.Kept,
-		Sections: []runSectionJSON{}, Counts: map[string]int{}, Failed: []string{}}
+		Sections: []runSectionJSON{}, Counts: map[string]int{}, Failed: []string{}, OutOfTolerance: []string{}}
 	for _, r := range s.Sections {
 		st := r.Stages
 		if st == nil {
 			st = []pipeline.StageReport{}
 		}
-		out.Sections = append(out.Sections, runSectionJSON{Name: r.Name, Status: r.Status, Error: r.Err, Summary: r.Summary, Stages: st})
+		out.Sections = append(out.Sections, runSectionJSON{Name: r.Name, Status: r.Status, Error: r.Err, Summary: r.Summary, Stages: st, Compare: r.Compare})
 		out.Counts[r.Status]++
 	}
 	for _, r := range s.Failed() {
 		out.Failed = append(out.Failed, r.Name)
+	}
+	for _, r := range s.OutOfTolerance() {
+		out.OutOfTolerance = append(out.OutOfTolerance, r.Name)
 	}
 	return out
 }

@@ -1,6 +1,8 @@
 // Command demogen writes the invented demo data of examples/: a laser scan of
-// a 3D-printed rotor blade (binary STL), a probe file of a wind-tunnel model
-// section from a coordinate-measuring machine (CSV), and a CAD export (DXF).
+// a 3D-printed rotor blade (binary STL) and the blade's design at five
+// stations (coordinate listings in chord units), a probe file of a
+// wind-tunnel model section from a coordinate-measuring machine (CSV), and
+// a CAD export (DXF).
 // The shapes come from the NACA 4-digit equations (NACA Report 824); the
 // noise, slips, duplicates, tilt and offsets are invented with a fixed seed,
 // so the files are reproducible. None of this is measured data.
@@ -57,6 +59,12 @@ func main() {
 		{filepath.Join(*out, "tunnel-model", "probe.csv"), writeProbe},
 		{filepath.Join(*out, "cad-export", "section.dxf"), writeDXF},
 	}
+	for _, r := range designStations {
+		steps = append(steps, struct {
+			path string
+			fill func(io.Writer) error
+		}{filepath.Join(*out, "rotor", "design", fmt.Sprintf("r%d.dat", int(r))), func(w io.Writer) error { return writeBladeDesign(w, r) }})
+	}
 	for _, s := range steps {
 		if err := os.MkdirAll(filepath.Dir(s.path), 0o755); err != nil {
 			fail(err)
@@ -84,15 +92,42 @@ const (
 	scanNoise         = 0.04          // mm, standard deviation per vertex
 )
 
+// designStations are the radii (mm) at which the blade's design is
+// written: the stations examples/rotor/pipeline.json cuts the scan at.
+var designStations = []float64{300, 500, 700, 900, 1100}
+
+// bladeDesign returns the designed section at radius r (mm): its chord
+// (mm), twist (degrees, nose-up) and NACA 4-digit shape, before printing.
+// In the rotor frame its leading edge lies at (−0.3·chord, 0) turned by
+// the twist: the pitch axis is at 30 % chord.
+func bladeDesign(r float64) (chord, twistDeg float64, foil shape.NACA4) {
+	f := (r - rootR) / (tipR - rootR)
+	return rootChord + f*(tipChd-rootChord), rootTwist + f*(tipTw-rootTwist),
+		shape.NACA4{Camber: 0.04, CamberPos: 0.4, Thickness: rootT + f*(tipT-rootT)}
+}
+
+// writeBladeDesign writes the design of the blade at radius r as a
+// coordinate listing in chord units: a name line, then x y from the upper
+// trailing edge over the nose to the lower trailing edge, 100 cosine-spaced
+// stations a surface, with the standard open trailing edge of the NACA
+// 4-digit equations (the printer then rounds it; see bladeSection).
+func writeBladeDesign(w io.Writer, r float64) error {
+	chord, twist, foil := bladeDesign(r)
+	bw := bufio.NewWriter(w)
+	fmt.Fprintf(bw, "rotor blade design r=%g mm: NACA 4-digit m=0.04 p=0.4 t=%.5f, chord %.4f mm, twist %.4f deg (invented)\n", r, foil.Thickness, chord, twist)
+	for _, p := range foil.Nodes(200) {
+		fmt.Fprintf(bw, "%10.7f %10.7f\n", p.X, p.Y)
+	}
+	return bw.Flush()
+}
+
 // bladeSection returns the section at radius r (mm) in the rotor frame:
 // x along the chord direction of the hub plane, y normal to the rotor disc,
 // pitch axis at 30 % chord. perSurface points per surface, plus a rounded
 // trailing edge.
 func bladeSection(r float64, perSurface int) []geometry.Point {
-	f := (r - rootR) / (tipR - rootR)
-	chord := rootChord + f*(tipChd-rootChord)
-	twist := (rootTwist + f*(tipTw-rootTwist)) * math.Pi / 180
-	foil := shape.NACA4{Camber: 0.04, CamberPos: 0.4, Thickness: rootT + f*(tipT-rootT)}
+	chord, twistDeg, foil := bladeDesign(r)
+	twist := twistDeg * math.Pi / 180
 	// Thicken linearly towards the trailing edge so that it ends in a
 	// semicircle of radius teRadius (a printed part cannot be sharp).
 	rte := teRadius / chord
