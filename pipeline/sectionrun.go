@@ -3,6 +3,7 @@ package pipeline
 import (
 	"bytes"
 	"context"
+	"encoding/json"
 	"errors"
 	"fmt"
 	"os"
@@ -81,13 +82,67 @@ func Documents() []string {
 // sectionResult is what one section produced.
 type sectionResult struct {
 	report  SectionReport
-	section *section.Section // the section made, when preparing succeeded
-	files   []FileHash       // inputs as read
+	files   []FileHash // inputs as read
 	outputs map[string]string
 	timing  SectionTiming
+	// doc is the section document and results the stages' result
+	// documents by stage id (as the run folder keeps them), for the batch
+	// table and the stations.
+	doc     []byte
+	results map[string]*stage.ResultDoc
 	// The comparison with the design, when the pipeline asks for one.
 	compare    *CompareRecord
 	designFile *FileHash
+}
+
+// entry is the journal entry of a finished section i: its record for the
+// manifest, its outputs and timing, its report and its row of the batch
+// table (and its section document when withSection).
+func (res *sectionResult) entry(pl *Plan, i, attempt int, withSection bool) *journalEntry {
+	sp := pl.Sections[i]
+	inputs := res.files
+	if inputs == nil {
+		inputs = []FileHash{}
+	}
+	rep := res.report
+	e := &journalEntry{Index: i, Attempt: attempt,
+		Record: SectionRecord{Name: sp.Name, Station: sp.Station, Inputs: inputs, Settings: sp.Settings,
+			Status: rep.Status, Err: rep.Err, Stages: rep.Stages, Compare: res.compare},
+		Outputs: res.outputs, Timing: res.timing, Summary: rep.Summary, Input: rep.Input, Compare: rep.Compare}
+	if res.compare == nil && sp.Compare != nil {
+		// Not compared (failed): still record what it would have been
+		// held against.
+		e.Record.Compare = notCompared(sp, res.designFile)
+	}
+	e.Row = tableRow(sp.Name, sp.Station, rep.Status, rep.Err, res.verdict(), res.doc, pl.stageIDs(), res.results)
+	if withSection && res.doc != nil {
+		e.Section = json.RawMessage(res.doc)
+	}
+	return e
+}
+
+// verdict is the section's verdict against its design, for the batch
+// table, when the pipeline compares it ("" otherwise).
+func (res *sectionResult) verdict() string {
+	if res.compare == nil {
+		return ""
+	}
+	return res.compare.Verdict.Verdict
+}
+
+// notCompared is the comparison record of a section of a comparing
+// pipeline that was not compared (it failed or was cancelled first).
+func notCompared(sp SectionPlan, designFile *FileHash) *CompareRecord {
+	return &CompareRecord{Settings: sp.Compare, DesignFile: designFile, Verdict: Verdict{Design: sp.Compare.Design, Verdict: "not compared"}}
+}
+
+// stageIDs returns the ids of the stages in the order they run.
+func (pl *Plan) stageIDs() []string {
+	ids := make([]string, len(pl.Stages))
+	for i, st := range pl.Stages {
+		ids[i] = st.ID
+	}
+	return ids
 }
 
 // output is one file of a section, relative to the run folder.
@@ -247,7 +302,7 @@ func (r *sectionRun) collectDocuments() bool {
 		}
 		r.outs = append(r.outs, outs...)
 	}
-	r.res.section = r.sec
+	r.res.doc = r.prepared.Section
 	return true
 }
 
@@ -316,6 +371,11 @@ func (r *sectionRun) runStages(calls []StageCall, runner StageRunner) bool {
 			sr.Warnings = out.Warnings
 			results[st.ID] = out.Doc
 			r.results = append(r.results, stageResult{st.ID, out.Doc})
+			// The batch table reads what the run folder keeps.
+			if r.res.results == nil {
+				r.res.results = map[string]*stage.ResultDoc{}
+			}
+			r.res.results[st.ID] = kept(out.Doc, calls[k].Keep)
 		}
 		rep.Stages = append(rep.Stages, sr)
 	}
@@ -328,6 +388,14 @@ func (r *sectionRun) runStages(calls []StageCall, runner StageRunner) bool {
 	return true
 }
 
+// kept is a result document with the detail keep asks for.
+func kept(doc *stage.ResultDoc, keep string) *stage.ResultDoc {
+	if keep == "" || keep == stage.KeepAll {
+		return doc
+	}
+	return doc.Trim(keep)
+}
+
 // stageOutputs collects what a stage that succeeded gives: its result
 // document, when outputs.documents lists results, and its artifacts. The
 // document is written with the detail keep asks for, in the result format
@@ -338,7 +406,7 @@ func (r *sectionRun) stageOutputs(id, keep string, out stage.Result) error {
 		data := out.JSON
 		if len(data) == 0 || keep != stage.KeepAll && keep != "" {
 			var err error
-			if data, err = out.Doc.Trim(keep).Encode(); err != nil {
+			if data, err = kept(out.Doc, keep).Encode(); err != nil {
 				return err
 			}
 		}
@@ -395,8 +463,12 @@ func (r *sectionRun) collectExports() bool {
 	return true
 }
 
-// writeFile writes one output; tests replace it to fail like a full disk.
-var writeFile = atomicfile.WriteBytes
+// writeFile and writeStream write one output; tests replace them to fail
+// like a full disk.
+var (
+	writeFile   = atomicfile.WriteBytes
+	writeStream = atomicfile.Write
+)
 
 // write writes the collected files into the (staging) run folder, each
 // atomically, and records their digests. Two outputs of one name fail the

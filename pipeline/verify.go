@@ -90,6 +90,9 @@ func Verify(ctx context.Context, path string, opts VerifyOptions) (*VerifyReport
 	if err != nil {
 		return nil, err
 	}
+	if m.Shard != nil {
+		return nil, fmt.Errorf("%w: %s is the partial manifest of shard %s: merge the shards (foilwright merge RUN_FOLDER) and verify the merged run", ErrNotManifest, path, m.Shard.Shard)
+	}
 	disk := checkDisk(filepath.Dir(path), m)
 	file := opts.Pipeline
 	if file == "" {
