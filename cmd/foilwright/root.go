@@ -2,6 +2,7 @@ package main
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"io"
 	"os"
@@ -108,6 +109,12 @@ func execute(args []string, stdin io.Reader, stdout, stderr io.Writer) (code int
 	}()
 	code = exitStatus(err, started, ctx.Err() != nil)
 	if err == nil {
+		return code
+	}
+	if code == 130 && errors.Is(err, context.Canceled) {
+		// The command stopped because of the signal and has nothing else
+		// to say; "context canceled" would only puzzle.
+		fmt.Fprintln(stderr, "foilwright: interrupted")
 		return code
 	}
 	fmt.Fprintf(stderr, "foilwright: %v\n", err)
