@@ -456,7 +456,10 @@ func bruteZone(o align.Outline, pts []geometry.Point, m align.Motion, half [3]fl
 func inProcess(ctx context.Context, name string, sec, params []byte) ([]byte, error) {
 	st, _ := builtin.Lookup(name)
 	res, err := st.Run(ctx, stage.Request{Section: sec, Params: params, SectionName: name})
-	return res.JSON, err
+	if err != nil {
+		return nil, err
+	}
+	return res.DocumentV1() // the built-in stages answer packed documents
 }
 
 // TestAeroTwist: a twist error δ in the datum frame shows in the

@@ -10,8 +10,15 @@ import (
 	"strings"
 )
 
-// ResultFormat is the "format" of the result documents the stages return.
-const ResultFormat = "foilwright.result/1"
+// The formats of the result documents the stages return, as package
+// plugins/stage writes them: ResultFormat with its distributions as
+// columns ("cp": {"x": […], "y": […], "cp": […]}, the points the cases
+// share once in "cp_at"), ResultFormatV1 with every point an object.
+// ReadResult reads both.
+const (
+	ResultFormat   = "foilwright.result/2"
+	ResultFormatV1 = "foilwright.result/1"
+)
 
 // ErrNotResult means a document that is not a stage's result document.
 var ErrNotResult = errors.New("export: not a foilwright result document")
@@ -42,27 +49,71 @@ type CpPoint struct {
 	Cp float64 `json:"cp"`
 }
 
-// ReadResult decodes a result document of the section called section;
-// name names the document in errors. It returns an error wrapping
-// ErrNotResult for anything else.
+// ReadResult decodes a result document of the section called section, in
+// either format; name names the document in errors. It returns an error
+// wrapping ErrNotResult for anything else.
 func ReadResult(data []byte, name, section string) (*Result, error) {
+	type columns struct {
+		X  []float64 `json:"x"`
+		Y  []float64 `json:"y"`
+		Cp []float64 `json:"cp"`
+	}
 	var doc struct {
-		Format  string  `json:"format"`
-		Stage   string  `json:"stage"`
-		Version string  `json:"version"`
-		Cases   []*Case `json:"cases"`
+		Format  string          `json:"format"`
+		Stage   string          `json:"stage"`
+		Version string          `json:"version"`
+		CpAt    *columns        `json:"cp_at"`
+		Cases   json.RawMessage `json:"cases"`
 	}
 	if err := json.Unmarshal(data, &doc); err != nil {
 		return nil, fmt.Errorf("%s: %w: %v", name, ErrNotResult, err)
 	}
-	if doc.Format != ResultFormat {
-		return nil, fmt.Errorf("%s: %w: format %q, want %q", name, ErrNotResult, doc.Format, ResultFormat)
-	}
 	r := &Result{Section: section, Stage: doc.Stage, Version: doc.Version}
-	for _, c := range doc.Cases {
-		if c != nil {
-			r.Cases = append(r.Cases, *c)
+	switch doc.Format {
+	case ResultFormatV1:
+		var cases []*Case
+		if len(doc.Cases) > 0 {
+			if err := json.Unmarshal(doc.Cases, &cases); err != nil {
+				return nil, fmt.Errorf("%s: %w: %v", name, ErrNotResult, err)
+			}
 		}
+		for _, c := range cases {
+			if c != nil {
+				r.Cases = append(r.Cases, *c)
+			}
+		}
+	case ResultFormat:
+		var cases []*struct {
+			Case
+			Cp *columns `json:"cp"`
+		}
+		if len(doc.Cases) > 0 {
+			if err := json.Unmarshal(doc.Cases, &cases); err != nil {
+				return nil, fmt.Errorf("%s: %w: %v", name, ErrNotResult, err)
+			}
+		}
+		for i, c := range cases {
+			if c == nil {
+				continue
+			}
+			out := c.Case
+			if p := c.Cp; p != nil {
+				xs, ys := p.X, p.Y
+				if xs == nil && ys == nil && doc.CpAt != nil {
+					xs, ys = doc.CpAt.X, doc.CpAt.Y
+				}
+				if len(xs) != len(p.Cp) || len(ys) != len(p.Cp) {
+					return nil, fmt.Errorf("%s: %w: case %d: %d cp value(s) at %d x and %d y", name, ErrNotResult, i, len(p.Cp), len(xs), len(ys))
+				}
+				out.Cp = make([]CpPoint, len(p.Cp))
+				for k := range p.Cp {
+					out.Cp[k] = CpPoint{X: xs[k], Y: ys[k], Cp: p.Cp[k]}
+				}
+			}
+			r.Cases = append(r.Cases, out)
+		}
+	default:
+		return nil, fmt.Errorf("%s: %w: format %q, want %q or %q", name, ErrNotResult, doc.Format, ResultFormat, ResultFormatV1)
 	}
 	return r, nil
 }

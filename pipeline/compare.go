@@ -373,7 +373,12 @@ func (r *sectionRun) compare(runner StageRunner) bool {
 		}
 		run := func(ctx context.Context, name string, sec, params []byte) ([]byte, error) {
 			out, err := runStage(ctx, runner, StageCall{ID: "compare-" + name, Stage: name, Params: params}, stage.Request{Section: sec, Params: params, SectionName: r.sp.Name})
-			return out.JSON, err
+			if err != nil {
+				return nil, err
+			}
+			// The comparison reads foilwright.result/1; a stage may answer
+			// packed (no JSON) or in /2.
+			return out.DocumentV1()
 		}
 		alphas := spec.AlphaDeg
 		if alphas == nil {
@@ -475,14 +480,15 @@ func (pl *Plan) needsRunner() bool {
 }
 
 // writeVerdicts writes the batch table of verdicts, when any section was
-// compared, and records it in m.
-func writeVerdicts(pl *Plan, folder string, results []sectionResult, m *Manifest) error {
+// compared with a design, from the journal entries of the sections idx,
+// and records it in outs.
+func writeVerdicts(pl *Plan, folder string, idx []int, entry func(int) (journalEntry, bool, error), outs map[string]string) error {
 	var b bytes.Buffer
 	w := csv.NewWriter(&b)
 	w.Write([]string{"section", "station", "design", "verdict", "points", "points_out", "units", "rms", "min", "max", "worst_at"})
 	any := false
 	f := func(v float64) string { return strconv.FormatFloat(v, 'g', 6, 64) }
-	for i, res := range results {
+	for _, i := range idx {
 		sp := pl.Sections[i]
 		if sp.Compare == nil {
 			continue
@@ -492,9 +498,17 @@ func writeVerdicts(pl *Plan, folder string, results []sectionResult, m *Manifest
 		if sp.Station != nil {
 			station = f(*sp.Station)
 		}
-		v := res.report.Compare
+		e, ok, err := entry(i)
+		if err != nil {
+			return err
+		}
+		status := StatusCancelled
+		if ok {
+			status = e.Record.Status
+		}
+		v := e.Compare
 		if v == nil {
-			w.Write([]string{sp.Name, station, sp.Compare.Design, "not compared (" + res.report.Status + ")", "", "", "", "", "", "", ""})
+			w.Write([]string{sp.Name, station, sp.Compare.Design, "not compared (" + status + ")", "", "", "", "", "", "", ""})
 			continue
 		}
 		w.Write([]string{sp.Name, station, v.Design, v.Verdict, strconv.Itoa(v.Points), strconv.Itoa(v.PointsOut), string(v.Units),
@@ -507,7 +521,7 @@ func writeVerdicts(pl *Plan, folder string, results []sectionResult, m *Manifest
 	if err := atomicfile.WriteBytes(filepath.Join(folder, VerdictsName), b.Bytes()); err != nil {
 		return fmt.Errorf("verdicts: %w", err)
 	}
-	m.Outputs[VerdictsName] = digest.Bytes(b.Bytes())
+	outs[VerdictsName] = digest.Bytes(b.Bytes())
 	return nil
 }
 

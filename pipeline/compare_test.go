@@ -187,3 +187,51 @@ func TestParseCompareErrors(t *testing.T) {
 		}
 	}
 }
+
+// TestCompareShardsMerge: a comparing pipeline split in two shards merges
+// into the run one machine makes (the verdicts table, each section's
+// comparison record and the batch table's verdict column included), and
+// a section that fails is recorded as not compared in both.
+func TestCompareShardsMerge(t *testing.T) {
+	path := setup(t, comparePipeline, map[string]string{"good.csv": probeCSV(0), "bumped.csv": "1,2\n"})
+	dir := filepath.Dir(path)
+	load := func() *Plan {
+		p, err := Load(path, known)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return p.Plan()
+	}
+	runner := func() (StageRunner, error) { return inProcessRunner{}, nil }
+	if _, err := Run(context.Background(), load(), RunOptions{Folder: filepath.Join(dir, "single"), Preparer: Chain{}, NewRunner: runner}); err != nil {
+		t.Fatal(err)
+	}
+	for k := range 2 {
+		s := Shard{k, 2}
+		if _, err := Run(context.Background(), load(), RunOptions{Folder: filepath.Join(dir, "sharded"), Shard: &s, Preparer: Chain{}, NewRunner: runner}); err != nil {
+			t.Fatal(err)
+		}
+	}
+	sum, err := Merge(context.Background(), filepath.Join(dir, "sharded"), MergeOptions{Parse: ParseOptions{Known: known}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(sum.Sections) != 2 || sum.Sections[0].Compare == nil || sum.Sections[0].Compare.Verdict != fwcompare.VerdictPass || len(sum.Failed()) != 1 {
+		t.Errorf("merged summary %+v", sum.Sections)
+	}
+	assertSameRun(t, filepath.Join(dir, "single"), filepath.Join(dir, "sharded"))
+	files := readTree(t, filepath.Join(dir, "sharded"))
+	if v := string(files[VerdictsName]); !strings.Contains(v, "good,,naca4:2412,pass,") || !strings.Contains(v, "bumped,,naca4:2412,not compared (failed)") {
+		t.Errorf("verdicts.csv:\n%s", v)
+	}
+	m, err := ReadManifest(filepath.Join(dir, "sharded", ManifestName))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if c := m.Sections[1].Compare; c == nil || c.Verdict.Verdict != "not compared" {
+		t.Errorf("the failed section's comparison record: %+v", c)
+	}
+	if table := string(files[TableName]); !strings.Contains(strings.SplitN(table, "\n", 3)[1], ",pass,") {
+		t.Errorf("batch table without the verdict:\n%s", table)
+	}
+}

@@ -38,9 +38,12 @@
 // records the failure and skips only the stages that run after it) and
 // "timeout_s", "env" (names of variables of foilwright's environment the
 // stage may see, besides the minimal ones; recorded with their values in
-// the manifest) and "pins" (more files the stage depends on, path →
+// the manifest), "pins" (more files the stage depends on, path →
 // sha256, checked with the file: a wrapper script's pin covers only the
-// script, not the binary it runs). Output keys: "folder" (default runs/<name>), "documents"
+// script, not the binary it runs; a folder's pin is its tree digest) and
+// "keep" (the detail of results/<id>.json: "all", the default, "cases"
+// without distributions and fields, or "scalars"; later stages and
+// exports see everything). Output keys: "folder" (default runs/<name>), "documents"
 // (any of "section", "nodes", "results"; all by default) and "plots" (a
 // list of names, checked and recorded; artifacts the stages return are
 // always written).

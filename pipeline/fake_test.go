@@ -74,7 +74,7 @@ func (fakePrep) Prepare(ctx context.Context, in Input, s prep.Settings) (Prepare
 // fakeStages names the built-in stages the fake runner serves.
 func fakeStages(name string) bool {
 	switch name {
-	case "area", "scale", "plot", "fail", "slow", "badplot":
+	case "area", "scale", "plot", "fail", "slow", "badplot", "pressure", "count":
 		return true
 	}
 	return false
@@ -88,6 +88,9 @@ func fakeStages(name string) bool {
 //	fail     always fails
 //	slow     waits params.ms milliseconds, or until its context ends
 //	badplot  returns an artifact with a path for a name
+//	pressure two cases (0° and 2°) with Cp = 1 − x at every node, as a
+//	         decoded document (as the host gives a packed reply)
+//	count    the number of Cp points of the stage it runs after
 type fakeRunner struct {
 	reg     *fakeRegistry
 	version string
@@ -143,7 +146,7 @@ func (f *fakeRunner) Run(ctx context.Context, call StageCall, in stage.Request) 
 		return stage.Result{}, errors.New("runner closed")
 	}
 	f.calls++
-	sec, err := section.Read(bytes.NewReader(in.Section), "section")
+	sec, err := in.DecodeSection()
 	if err != nil {
 		return stage.Result{}, err
 	}
@@ -157,16 +160,19 @@ func (f *fakeRunner) Run(ctx context.Context, call StageCall, in stage.Request) 
 	case "area":
 		return result(map[string]float64{"area": shoelace(sec.Nodes) + f.reg.areaAdd})
 	case "scale":
-		if len(in.Deps) != 1 {
-			return stage.Result{}, fmt.Errorf("scale wants one dependency, got %d", len(in.Deps))
+		ids := in.DepIDs()
+		if len(ids) != 1 {
+			return stage.Result{}, fmt.Errorf("scale wants one dependency, got %d", len(ids))
 		}
-		for _, dep := range in.Deps {
-			a := gjson.GetBytes(dep, "scalars.area")
-			if !a.Exists() {
-				return stage.Result{}, errors.New("dependency has no area")
-			}
-			return result(map[string]float64{"scaled": params.Get("factor").Float() * a.Float()}, "scaled by the factor")
+		dep, err := in.Dep(ids[0])
+		if err != nil {
+			return stage.Result{}, err
 		}
+		a, ok := dep.Scalars["area"]
+		if !ok {
+			return stage.Result{}, errors.New("dependency has no area")
+		}
+		return result(map[string]float64{"scaled": params.Get("factor").Float() * a}, "scaled by the factor")
 	case "plot", "badplot":
 		var b strings.Builder
 		b.WriteString(`<svg xmlns="http://www.w3.org/2000/svg"><polyline points="`)
@@ -184,6 +190,33 @@ func (f *fakeRunner) Run(ctx context.Context, call StageCall, in stage.Request) 
 		}
 		out.Artifacts = []stage.Artifact{{Name: name, MediaType: "image/svg+xml", Data: []byte(b.String())}}
 		return out, err
+	case "pressure":
+		d := stage.NewResultDoc(stage.Info{Name: call.Stage, Version: f.version})
+		d.SetScalar("nodes", float64(len(sec.Nodes)))
+		for _, a := range []float64{0, 2} {
+			c := stage.Case{AlphaDeg: a, CL: 0.1 * a, Checks: map[string]float64{"sum": 0}}
+			for _, p := range sec.Nodes {
+				c.Cp = append(c.Cp, stage.CpPoint{X: p.X, Y: p.Y, Cp: 1 - p.X})
+			}
+			d.AddCase(c)
+		}
+		return stage.Result{Doc: d}, nil
+	case "count":
+		ids := in.DepIDs()
+		if len(ids) != 1 {
+			return stage.Result{}, fmt.Errorf("count wants one dependency, got %d", len(ids))
+		}
+		dep, err := in.Dep(ids[0])
+		if err != nil {
+			return stage.Result{}, err
+		}
+		n := 0
+		for _, c := range dep.Cases {
+			if c != nil {
+				n += len(c.Cp)
+			}
+		}
+		return result(map[string]float64{"points": float64(n)})
 	case "fail":
 		return stage.Result{}, errors.New("the fake stage fails on purpose")
 	case "slow":

@@ -93,6 +93,10 @@ type Stage struct {
 	// Pins are more files the stage depends on (a wrapper's binary, a
 	// model file), by path as written, with the sha256 each must have.
 	Pins []Pin
+	// Keep is the detail of the stage's result document written to the
+	// run folder: stage.KeepAll (the default), KeepCases or KeepScalars.
+	// The stages that run after it and the exports see all of it.
+	Keep string
 
 	index    int // in file order
 	paramsAt int // byte offset of the params object in the file; -1 when absent
@@ -280,7 +284,7 @@ type parser struct {
 var (
 	topKeys    = keySet("foilwright", "name", "inputs", "prepare", "stages", "outputs", "compare")
 	inputKeys  = keySet("name", "files", "per_file", "station", "format", "columns", "units", "cut", "band", "flat_tol", "compare")
-	stageKeys  = keySet("id", "stage", "sha256", "params", "after", "on_error", "timeout_s", "env", "pins")
+	stageKeys  = keySet("id", "stage", "sha256", "params", "after", "on_error", "timeout_s", "env", "pins", "keep")
 	outputKeys = keySet("folder", "documents", "plots", "plot_format", "exports", "export_frame")
 	// inputAllowed also admits the prepare keys an input may not set, so
 	// that they get a message of their own.
@@ -586,7 +590,7 @@ func (ps *parser) stages(v gjson.Result) {
 // far as it was read, so that later stages are numbered right.
 func (ps *parser) stage(ipath string, st gjson.Result, ids map[string]int) (Stage, []afterRef) {
 	c := ps.c
-	s := Stage{Params: []byte("{}"), OnError: OnErrorStop, paramsAt: -1}
+	s := Stage{Params: []byte("{}"), OnError: OnErrorStop, Keep: stage.KeepAll, paramsAt: -1}
 	var ar []afterRef
 	vals := map[string]gjson.Result{}
 	if !c.wantObject(ipath, st, stageKeys, func(k, _ string, val gjson.Result) { vals[k] = val }) {
@@ -652,6 +656,11 @@ func (ps *parser) stage(ipath string, st gjson.Result, ids map[string]int) (Stag
 			s.TimeoutS = x
 		}
 	}
+	if val, ok := vals["keep"]; ok {
+		if k, ok := c.wantEnum(ipath+".keep", val, stage.Keeps()...); ok {
+			s.Keep = k
+		}
+	}
 	ps.builtinParams(ipath, &s)
 	return s, ar
 }
@@ -660,7 +669,8 @@ func (ps *parser) stage(ipath string, st gjson.Result, ids map[string]int) (Stag
 var envName = regexp.MustCompile(`^[A-Za-z_][A-Za-z0-9_]*$`)
 
 // pin reads one entry of a stage's "pins": a file and the sha256 it must
-// have, checked now (and again whenever the file is parsed, as by verify).
+// have, or a folder and its tree digest (digest.Tree), checked now (and
+// again whenever the file is parsed, as by verify).
 func (ps *parser) pin(ppath, file string, d gjson.Result, s *Stage) {
 	c := ps.c
 	sum, ok := c.wantString(ppath, d, true)
@@ -672,12 +682,16 @@ func (ps *parser) pin(ppath, file string, d gjson.Result, s *Stage) {
 		return
 	}
 	sum = strings.ToLower(sum)
-	got, err := digest.File(ps.abs(file))
+	got, err := digest.Path(ps.abs(file))
 	switch {
 	case err != nil:
 		c.add(c.keyAt, ppath, "pinned file %q: %v", file, err)
 	case got != sum:
-		c.add(d.Index, ppath, "file %q has sha256 %s, the pipeline pins %s", file, got, sum)
+		kind := "file"
+		if fi, err := os.Stat(ps.abs(file)); err == nil && fi.IsDir() {
+			kind = "folder"
+		}
+		c.add(d.Index, ppath, "%s %q has sha256 %s, the pipeline pins %s", kind, file, got, sum)
 	default:
 		s.Pins = append(s.Pins, Pin{Path: file, SHA256: sum})
 	}

@@ -6,6 +6,7 @@ import (
 	"io/fs"
 	"os"
 	"path/filepath"
+	"slices"
 	"sort"
 	"strings"
 )
@@ -35,12 +36,26 @@ type runFolder struct {
 	earlier bool   // final holds an earlier run (a manifest), replaced on commit
 	exists  bool   // final exists (an earlier run or an empty folder)
 	lock    *folderLock
+	// leftover are staging folders a crash left, kept for a resumed run
+	// to adopt (openRunFolder with adopt); the others remove them.
+	leftover []string
 }
 
 // openRunFolder takes the folder's lock, puts back an earlier run a crash
 // left parked, checks the folder (a new or empty folder; with replace, an
-// earlier run and nothing else) and makes the staging folder.
-func openRunFolder(folder string, replace bool) (rf *runFolder, err error) {
+// earlier run and nothing else) and makes the staging folder. With adopt,
+// staging folders a crash left are kept in rf.leftover, for a resumed run.
+func openRunFolder(folder string, replace, adopt bool) (rf *runFolder, err error) {
+	return openFolder(folder, replace, adopt, false)
+}
+
+// openRunFolderShards is openRunFolder for Merge: the folder may also hold
+// the shards' parts (under ShardsDir), which the merged run replaces.
+func openRunFolderShards(folder string, replace bool) (*runFolder, error) {
+	return openFolder(folder, replace, false, true)
+}
+
+func openFolder(folder string, replace, adopt, shards bool) (rf *runFolder, err error) {
 	abs, err := filepath.Abs(folder)
 	if err != nil {
 		return nil, fmt.Errorf("pipeline: run folder: %w", err)
@@ -65,10 +80,10 @@ func openRunFolder(folder string, replace bool) (rf *runFolder, err error) {
 		}
 	}()
 	rf = &runFolder{final: abs, lock: lock}
-	if err := rf.recover(parent, base); err != nil {
+	if err := rf.recover(parent, base, adopt); err != nil {
 		return nil, err
 	}
-	if err := rf.check(folder, replace); err != nil {
+	if err := rf.check(folder, replace, shards); err != nil {
 		return nil, err
 	}
 	if rf.staging, err = os.MkdirTemp(parent, "."+base+stagingInfix); err != nil {
@@ -85,8 +100,8 @@ func openRunFolder(folder string, replace bool) (rf *runFolder, err error) {
 
 // recover puts back an earlier run parked by a crash between the two
 // renames of a commit, and removes staging folders and parked runs that a
-// crash left.
-func (rf *runFolder) recover(parent, base string) error {
+// crash left (keeping the staging folders in rf.leftover with adopt).
+func (rf *runFolder) recover(parent, base string, adopt bool) error {
 	entries, err := os.ReadDir(parent)
 	if err != nil {
 		return fmt.Errorf("pipeline: run folder: %w", err)
@@ -106,6 +121,9 @@ func (rf *runFolder) recover(parent, base string) error {
 		}
 		parked = nil
 	}
+	if adopt {
+		rf.leftover, staged = staged, nil
+	}
 	for _, p := range append(parked, staged...) {
 		os.RemoveAll(p) // never follows a symbolic link
 	}
@@ -116,7 +134,7 @@ func (rf *runFolder) recover(parent, base string) error {
 // replace is not set, or, with replace, anything the earlier run did not
 // write there (a symbolic link, a file its manifest does not list): the
 // whole folder is replaced, so nothing else may be in it.
-func (rf *runFolder) check(folder string, replace bool) error {
+func (rf *runFolder) check(folder string, replace, shards bool) error {
 	fi, err := os.Lstat(rf.final)
 	switch {
 	case errors.Is(err, fs.ErrNotExist):
@@ -133,6 +151,9 @@ func (rf *runFolder) check(folder string, replace bool) error {
 	if err != nil {
 		return fmt.Errorf("pipeline: run folder: %w", err)
 	}
+	if shards {
+		entries = slices.DeleteFunc(entries, func(e fs.DirEntry) bool { return e.Name() == ShardsDir && e.IsDir() })
+	}
 	if len(entries) == 0 {
 		return nil
 	}
@@ -144,6 +165,10 @@ func (rf *runFolder) check(folder string, replace bool) error {
 		return fmt.Errorf("%w: %s holds no foilwright run to replace (%v)", ErrFolderNotEmpty, folder, err)
 	}
 	listed := map[string]bool{ManifestName: true}
+	if m.Shard != nil {
+		// A shard's part keeps its journal beside its partial manifest.
+		listed[JournalName] = true
+	}
 	for p := range m.Outputs {
 		listed[p] = true
 	}
@@ -154,6 +179,9 @@ func (rf *runFolder) check(folder string, replace bool) error {
 		}
 		rel, _ := filepath.Rel(rf.final, p)
 		rel = filepath.ToSlash(rel)
+		if shards && rel == ShardsDir && d.IsDir() {
+			return filepath.SkipDir
+		}
 		switch t := d.Type(); {
 		case t&fs.ModeSymlink != 0:
 			foreign = append(foreign, rel+" (a symbolic link)")

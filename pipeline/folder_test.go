@@ -4,6 +4,7 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"io"
 	"os"
 	"path/filepath"
 	"reflect"
@@ -89,14 +90,20 @@ func TestReplaceKeepsEarlierRunOnCancel(t *testing.T) {
 // either, nothing is committed and an earlier run stays whole.
 func TestRunWriteFailureLeavesNoHalfRun(t *testing.T) {
 	full := func(fails func(path string) bool) func() {
-		saved := writeFile
+		saved, savedStream := writeFile, writeStream
 		writeFile = func(path string, data []byte) error {
 			if fails(path) {
 				return fmt.Errorf("write %s: no space left on device", path)
 			}
 			return saved(path, data)
 		}
-		return func() { writeFile = saved }
+		writeStream = func(path string, fill func(io.Writer) error) error {
+			if fails(path) {
+				return fmt.Errorf("write %s: no space left on device", path)
+			}
+			return savedStream(path, fill)
+		}
+		return func() { writeFile, writeStream = saved, savedStream }
 	}
 
 	// A new folder: section a is written, b's second file fails; the run
@@ -147,7 +154,7 @@ func TestRunWriteFailureLeavesNoHalfRun(t *testing.T) {
 func TestConcurrentRunsIntoOneFolder(t *testing.T) {
 	pl := loadPlan(t, setup(t, twoSections, twoFiles()))
 	folder := pl.Pipeline.Folder()
-	held, err := openRunFolder(folder, false)
+	held, err := openRunFolder(folder, false, false)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -261,7 +268,7 @@ func TestOpenRunFolderRecovers(t *testing.T) {
 // system has no atomic exchange.
 func TestCommitWithoutExchange(t *testing.T) {
 	pl, before := earlierRun(t)
-	rf, err := openRunFolder(pl.Pipeline.Folder(), true)
+	rf, err := openRunFolder(pl.Pipeline.Folder(), true, false)
 	if err != nil {
 		t.Fatal(err)
 	}

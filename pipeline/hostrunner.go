@@ -25,8 +25,9 @@ type hostRunner struct {
 	h    *host.Host
 	self string
 
-	mu      sync.Mutex
-	runners map[host.Spec]*host.Runner
+	mu       sync.Mutex
+	runners  map[host.Spec]*host.Runner
+	runsFrom map[string][]FileHash // by stage id, from Describe
 }
 
 func specOf(call StageCall) host.Spec {
@@ -66,8 +67,29 @@ func (r *hostRunner) Describe(ctx context.Context, call StageCall) (stage.Info, 
 		if exe, err = host.FileSHA256(call.Stage); err != nil {
 			return stage.Info{}, "", err
 		}
+		files, err := r.h.RunsFrom(specOf(call), info)
+		if err != nil {
+			return stage.Info{}, "", err
+		}
+		r.mu.Lock()
+		if r.runsFrom == nil {
+			r.runsFrom = map[string][]FileHash{}
+		}
+		for _, f := range files {
+			r.runsFrom[call.ID] = append(r.runsFrom[call.ID], FileHash(f))
+		}
+		r.mu.Unlock()
 	}
 	return info, exe, nil
+}
+
+// RunsFrom returns what the external stage of call runs from besides its
+// executable (its interpreter, the files it declares), as Describe found
+// it.
+func (r *hostRunner) RunsFrom(call StageCall) []FileHash {
+	r.mu.Lock()
+	defer r.mu.Unlock()
+	return r.runsFrom[call.ID]
 }
 
 // Run runs req through the stage of call. Its time limit, timeout_s, is

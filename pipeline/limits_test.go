@@ -262,3 +262,29 @@ func TestParseEnvAndPins(t *testing.T) {
 		}
 	}
 }
+
+// TestParseFolderPin: a pin may name a folder (the node_modules of a
+// script stage), pinned by its tree digest.
+func TestParseFolderPin(t *testing.T) {
+	dir := t.TempDir()
+	os.MkdirAll(filepath.Join(dir, "points"), 0o755)
+	os.WriteFile(filepath.Join(dir, "points", "r040.dat"), []byte(thinPoints), 0o644)
+	os.MkdirAll(filepath.Join(dir, "mods", "a"), 0o755)
+	os.WriteFile(filepath.Join(dir, "mods", "a", "index.js"), []byte("x\n"), 0o644)
+	// The tree digest, written out (digest.Tree): the sha256 of the
+	// sha256sum listing of the folder's one file.
+	sum := hexSum([]byte(hexSum([]byte("x\n")) + "  a/index.js\n"))
+	text := `{"foilwright": 1, "name": "p", "inputs": [{"files": ["points/r040.dat"]}],
+  "stages": [{"id": "v", "stage": "vortex-panel", "pins": {"mods": "` + sum + `"}}]}`
+	p, err := Parse([]byte(text), "p.json", ParseOptions{Dir: dir, Known: builtins})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if st := p.Stages[0]; len(st.Pins) != 1 || st.Pins[0].SHA256 != sum {
+		t.Errorf("stage %+v", st)
+	}
+	os.WriteFile(filepath.Join(dir, "mods", "a", "index.js"), []byte("y\n"), 0o644)
+	if _, err := Parse([]byte(text), "p.json", ParseOptions{Dir: dir, Known: builtins}); err == nil || !strings.Contains(err.Error(), `folder "mods" has sha256`) {
+		t.Errorf("a changed folder: got %v", err)
+	}
+}

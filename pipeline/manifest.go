@@ -4,11 +4,8 @@ import (
 	"bytes"
 	"encoding/json"
 	"fmt"
-	"path/filepath"
 
 	"github.com/foilwright/foilwright/internal/limits"
-	"github.com/foilwright/foilwright/internal/version"
-	"github.com/foilwright/foilwright/plugins/stage"
 	"github.com/foilwright/foilwright/prep"
 )
 
@@ -23,14 +20,17 @@ const ManifestFormat = "foilwright.manifest/1"
 // parameters, and the sha256 of every output. All of it is the same for two
 // runs of the same work except Timings, which Verify ignores.
 type Manifest struct {
-	Format      string            `json:"format"`
-	Tool        Tool              `json:"tool"`
-	Pipeline    PipelineRef       `json:"pipeline"`
-	Interrupted bool              `json:"interrupted,omitempty"` // the run was cancelled
-	Stages      []StageRecord     `json:"stages"`                // dependency order
-	Sections    []SectionRecord   `json:"sections"`
-	Outputs     map[string]string `json:"outputs"` // slash path in the run folder → sha256
-	Timings     Timings           `json:"timings"`
+	Format      string      `json:"format"`
+	Tool        Tool        `json:"tool"`
+	Pipeline    PipelineRef `json:"pipeline"`
+	Interrupted bool        `json:"interrupted,omitempty"` // the run was cancelled
+	// Shard is set in the partial manifest of one shard of a run (in its
+	// part of the run folder), which lists only that shard's sections.
+	Shard    *ShardRecord      `json:"shard,omitempty"`
+	Stages   []StageRecord     `json:"stages"` // dependency order
+	Sections []SectionRecord   `json:"sections"`
+	Outputs  map[string]string `json:"outputs"` // slash path in the run folder → sha256
+	Timings  Timings           `json:"timings"`
 }
 
 // Tool identifies the program that made a run.
@@ -61,6 +61,13 @@ type StageRecord struct {
 	OnError    string          `json:"on_error"`
 	TimeoutS   float64         `json:"timeout_s,omitempty"`
 	Pins       []Pin           `json:"pins,omitempty"`
+	// Keep is the detail of the result documents written, when not all.
+	Keep string `json:"keep,omitempty"`
+	// RunsFrom is what an external stage runs from besides its executable:
+	// the interpreter its "#!" line names (absolute path) and the files
+	// and folders it declares (relative to its folder), with their
+	// sha256 (a folder's tree digest).
+	RunsFrom []FileHash `json:"runs_from,omitempty"`
 	// Environment is what the stage's process got from foilwright's
 	// environment, NAME=VALUE, sorted: the minimal variables, those the
 	// pipeline allowed and foilwright's own settings.
@@ -90,10 +97,16 @@ type FileHash struct {
 // Timings is how long a run took; it is the one part of a manifest that
 // differs between two runs of the same work.
 type Timings struct {
-	Started  string          `json:"started"` // RFC 3339, UTC
-	TotalS   float64         `json:"total_s"`
-	Jobs     int             `json:"jobs"`
-	Sections []SectionTiming `json:"sections"`
+	Started string  `json:"started"` // RFC 3339, UTC
+	TotalS  float64 `json:"total_s"`
+	Jobs    int     `json:"jobs"`
+	// Shards is the number of shards a merged run was made in.
+	Shards int `json:"shards,omitempty"`
+	// MaxRSSKiB is the most memory foilwright's own process held
+	// (resident, KiB) until the manifest was written; its stage processes
+	// are not counted. 0 where the system does not say.
+	MaxRSSKiB int64           `json:"max_rss_kib,omitempty"`
+	Sections  []SectionTiming `json:"sections"`
 }
 
 // SectionTiming is the time one section took, in seconds.
@@ -109,75 +122,10 @@ type StageTiming struct {
 	S  float64 `json:"s"`
 }
 
-func newManifest(pl *Plan, folder string, infos []stage.Info, exes []string, results []sectionResult, interrupted bool) *Manifest {
-	p := pl.Pipeline
-	file := p.Path
-	if file == "" {
-		file = p.File
-	}
-	// Record the pipeline file relative to the run folder, so that a run
-	// folder moved together with its inputs (a fresh clone) still verifies.
-	if abs, err := filepath.Abs(file); err == nil {
-		if af, err := filepath.Abs(folder); err == nil {
-			if rel, err := filepath.Rel(af, abs); err == nil {
-				file = filepath.ToSlash(rel)
-			}
-		}
-	}
-	m := &Manifest{
-		Format:      ManifestFormat,
-		Tool:        Tool{Name: "foilwright", Version: version.Version, Revision: version.Revision()},
-		Pipeline:    PipelineRef{File: file, Name: p.Name, SHA256: p.SHA256},
-		Interrupted: interrupted,
-		Stages:      []StageRecord{},
-		Sections:    []SectionRecord{},
-		Outputs:     map[string]string{},
-		Timings:     Timings{Sections: []SectionTiming{}},
-	}
-	for i, st := range pl.Stages {
-		m.Stages = append(m.Stages, StageRecord{
-			ID: st.ID, Stage: st.Stage, Name: infos[i].Name, Version: infos[i].Version,
-			Executable: exes[i], Pin: st.SHA256, Params: json.RawMessage(st.Params),
-			After: st.After, OnError: st.OnError, TimeoutS: st.TimeoutS, Pins: st.Pins,
-		})
-	}
-	for i, sp := range pl.Sections {
-		r := results[i]
-		inputs := r.files
-		if inputs == nil {
-			inputs = []FileHash{}
-		}
-		m.Sections = append(m.Sections, SectionRecord{
-			Name: sp.Name, Station: sp.Station, Inputs: inputs, Settings: sp.Settings,
-			Status: r.report.Status, Err: r.report.Err, Stages: r.report.Stages,
-			Compare: r.compare,
-		})
-		if r.compare == nil && sp.Compare != nil {
-			// Not compared (failed or cancelled): still record what it
-			// would have been held against.
-			m.Sections[len(m.Sections)-1].Compare = &CompareRecord{Settings: sp.Compare, DesignFile: r.designFile, Verdict: Verdict{Design: sp.Compare.Design, Verdict: "not compared"}}
-		}
-		for path, sum := range r.outputs {
-			m.Outputs[path] = sum
-		}
-		m.Timings.Sections = append(m.Timings.Sections, r.timing)
-	}
-	return m
-}
-
-// recordEnvironment records the environment of each stage, when the
-// runners can tell it.
-func (m *Manifest) recordEnvironment(calls []StageCall, runners []StageRunner) {
-	if len(runners) == 0 {
-		return
-	}
-	er, ok := runners[0].(EnvReporter)
-	if !ok {
-		return
-	}
-	for i := range m.Stages {
-		m.Stages[i].Environment = er.Environment(calls[i])
-	}
+// A RunsFromReporter is a StageRunner that can say what the external
+// stage of a call runs from besides its executable, for the manifest.
+type RunsFromReporter interface {
+	RunsFrom(call StageCall) []FileHash
 }
 
 func writeManifest(path string, m *Manifest) error {

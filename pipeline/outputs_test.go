@@ -12,6 +12,7 @@ import (
 	"github.com/foilwright/foilwright/geometry/pointfile"
 	"github.com/foilwright/foilwright/plugins/stage"
 	"github.com/foilwright/foilwright/prep"
+	"github.com/tidwall/gjson"
 )
 
 // artifactPrep is fakePrep that also returns a picture named name.
@@ -111,5 +112,71 @@ func TestRunExports(t *testing.T) {
 	st, err := os.ReadFile(filepath.Join(out, "stations.csv"))
 	if err != nil || !strings.Contains(string(st), "# station 300: a") || !strings.Contains(string(st), ",500\n") {
 		t.Errorf("stations.csv: %v\n%s", err, st)
+	}
+}
+
+// TestRunKeep: a stage's "keep" trims only what the run folder keeps of
+// its result: the stages after it and the exports see all of it.
+func TestRunKeep(t *testing.T) {
+	path := setup(t, `{"foilwright": 1, "name": "keep",
+	  "inputs": [{"name": "s", "files": ["in/s.dat"]}],
+	  "stages": [
+	    {"id": "all", "stage": "pressure"},
+	    {"id": "cases", "stage": "pressure", "keep": "cases"},
+	    {"id": "scalars", "stage": "pressure", "keep": "scalars"},
+	    {"id": "count", "stage": "count", "after": ["scalars"]}
+	  ],
+	  "outputs": {"exports": ["cp-csv"]}}`, map[string]string{"in/s.dat": thinPoints})
+	sum, err := Run(context.Background(), loadPlan(t, path), RunOptions{Preparer: fakePrep{}, NewRunner: (&fakeRegistry{}).New})
+	if err != nil || sum.Sections[0].Status != StatusOK {
+		t.Fatalf("%v, %+v", err, sum)
+	}
+	// The decoded replies are written in the columns of the current
+	// format; a reply given as text is written as it came (count's is in
+	// the row form of foilwright.result/1).
+	read := func(id string) *stage.ResultDoc {
+		b, err := os.ReadFile(filepath.Join(sum.Folder, "s", "results", id+".json"))
+		if err != nil {
+			t.Fatal(err)
+		}
+		want := stage.ResultFormat
+		if id == "count" {
+			want = stage.ResultFormatV1
+		}
+		if f := gjson.GetBytes(b, "format").Str; f != want {
+			t.Errorf("%s: format %q, want %q", id, f, want)
+		}
+		d, err := stage.DecodeResult(b)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return d
+	}
+	all, cases, scalars, count := read("all"), read("cases"), read("scalars"), read("count")
+	if all.Kept != "" || len(all.Cases) != 2 || len(all.Cases[1].Cp) != 5 || all.Cases[1].Cp[1].Cp != 0.5 {
+		t.Errorf("all: %+v", all)
+	}
+	if cases.Kept != stage.KeepCases || len(cases.Cases) != 2 || cases.Cases[1].Cp != nil || cases.Cases[1].CL != 0.2 {
+		t.Errorf("cases: %+v", cases)
+	}
+	if scalars.Kept != stage.KeepScalars || len(scalars.Cases) != 0 || scalars.Scalars["nodes"] != 5 {
+		t.Errorf("scalars: %+v", scalars)
+	}
+	if count.Scalars["points"] != 10 {
+		t.Errorf("the stage after a trimmed one saw %v points, want 10", count.Scalars["points"])
+	}
+	csv, err := os.ReadFile(filepath.Join(sum.Folder, "s", "export", "cp.csv"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if n := strings.Count(string(csv), "\ns,pressure,"); n != 30 {
+		t.Errorf("cp.csv has %d rows of pressure, want 30 (three stages, two angles, five nodes):\n%s", n, csv)
+	}
+	m, err := ReadManifest(sum.Manifest)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if m.Stages[0].Keep != "" || m.Stages[1].Keep != stage.KeepCases || m.Stages[2].Keep != stage.KeepScalars {
+		t.Errorf("manifest keeps %q %q %q", m.Stages[0].Keep, m.Stages[1].Keep, m.Stages[2].Keep)
 	}
 }

@@ -40,6 +40,7 @@ func TestParseInvalid(t *testing.T) {
 			"invalid-enum.json:5:55: prepare.te: want one of \"auto\", \"keep\", \"sharpen\", got \"round\"",
 			"invalid-enum.json:5:73: prepare.noise: want \"auto\" or a number at least 0, got \"high\"",
 			"invalid-enum.json:6:63: stages[0].on_error: want one of \"stop\", \"continue\", got \"ignore\"",
+			"invalid-enum.json:6:81: stages[0].keep: want one of \"scalars\", \"cases\", \"all\", got \"cp\"",
 			"invalid-enum.json:7:40: outputs.documents[1]: want one of \"section\", \"nodes\", \"results\", \"compare\", got \"sections\"",
 			"invalid-enum.json:7:52: outputs.documents[2]: \"section\" listed twice",
 		}},

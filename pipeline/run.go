@@ -3,9 +3,13 @@ package pipeline
 import (
 	"bytes"
 	"context"
+	"crypto/sha256"
+	"encoding/hex"
+	"encoding/json"
 	"errors"
 	"fmt"
 	"io"
+	"os"
 	"path/filepath"
 	"sort"
 	"strings"
@@ -17,6 +21,7 @@ import (
 	"github.com/foilwright/foilwright/internal/atomicfile"
 	"github.com/foilwright/foilwright/internal/digest"
 	"github.com/foilwright/foilwright/internal/limits"
+	"github.com/foilwright/foilwright/internal/version"
 	"github.com/foilwright/foilwright/plot"
 	"github.com/foilwright/foilwright/plugins/stage"
 	"github.com/foilwright/foilwright/prep"
@@ -64,6 +69,7 @@ type StageCall struct {
 	Params  []byte        // parameters, the raw JSON object of the pipeline file
 	Timeout time.Duration // 0 means the runner's default
 	Env     []string      // names of variables of foilwright's environment the stage may see
+	Keep    string        // detail of the result document written (stage.KeepAll, …)
 }
 
 // An EnvReporter is a StageRunner that can say which environment the stage
@@ -80,8 +86,10 @@ type StageRunner interface {
 	// description and the hex sha256 of the executable that serves it.
 	Describe(ctx context.Context, call StageCall) (info stage.Info, executable string, err error)
 	// Run runs the stage of call on req, which carries the section
-	// document, call's parameters, the results of the stages it runs after
-	// (by stage id) and the section's name.
+	// document without its nodes and the nodes (req.DecodeSection, or
+	// stage.JoinNodes, puts them together), call's parameters, the
+	// results of the stages it runs after, decoded, by stage id
+	// (req.Dep), and the section's name. The result has Doc or JSON set.
 	Run(ctx context.Context, call StageCall, req stage.Request) (stage.Result, error)
 	Close() error
 }
@@ -108,8 +116,26 @@ type RunOptions struct {
 	NewRunner func() (StageRunner, error)
 	// Done, if set, is called after each section (also a cancelled one),
 	// from the worker that made it: calls may come from several goroutines
-	// at once.
+	// at once. Sections a resumed run keeps are not made, and not called.
 	Done func(SectionReport)
+	// Begin, if set, is called once the stages are described and an
+	// earlier attempt looked at (Resume), before any section is made,
+	// with the number of sections to make and what was kept.
+	Begin func(todo int, resumed ResumeReport)
+	// Shard, when set, makes the run one shard of a run split across
+	// processes or machines: only the shard's sections (Plan.ShardSections),
+	// into the shard's part of the run folder (ShardFolder), with a
+	// partial manifest. Merge combines the parts once all are done.
+	Shard *Shard
+	// Resume keeps what an earlier attempt at the same run (or shard)
+	// finished, and makes only the rest: the sections it did not finish,
+	// those that failed, and those whose inputs changed or whose outputs
+	// no longer match their record. The earlier attempt is the run
+	// committed in the folder, or the staging folder a crash left there.
+	// A resumed run replaces the earlier one whatever happens (it keeps
+	// every section the earlier one had made). An earlier attempt of
+	// another pipeline, tool or stages is refused (ErrNotResumable).
+	Resume bool
 }
 
 // Section statuses.
@@ -150,6 +176,8 @@ type Summary struct {
 	// Kept is set when the run replaced nothing because it did not fully
 	// succeed: the earlier run in Folder was kept and this one dropped.
 	Kept bool
+	// Resumed says what a resumed run kept of the earlier attempt.
+	Resumed ResumeReport
 }
 
 // OutOfTolerance returns the sections that were compared with their
@@ -240,7 +268,15 @@ func (s *Summary) allOK() bool {
 // The run is written beside the run folder and committed as a whole at
 // the end (see folder.go): a new folder gets the run whatever happened to
 // its sections; a replacement happens only when every section succeeded,
-// and otherwise the earlier run stays as it was.
+// and otherwise the earlier run stays as it was. As each section ends,
+// its record is appended to the run's journal (journal.go), from which
+// the manifest is assembled at the end: a crash leaves the journal
+// complete up to the last finished section, and RunOptions.Resume picks
+// up from it.
+//
+// With RunOptions.Shard, Run makes only the shard's sections, into the
+// shard's part of the run folder (ShardFolder), with a partial manifest
+// and its journal; Merge makes the run folder of the parts.
 func Run(ctx context.Context, pl *Plan, opts RunOptions) (*Summary, error) {
 	start := time.Now()
 	if opts.Preparer == nil {
@@ -252,11 +288,21 @@ func Run(ctx context.Context, pl *Plan, opts RunOptions) (*Summary, error) {
 	if opts.Limits == (limits.Limits{}) {
 		opts.Limits = limits.Default()
 	}
-	folder := opts.Folder
-	if folder == "" {
-		folder = pl.Pipeline.Folder()
+	runFolder := opts.Folder
+	if runFolder == "" {
+		runFolder = pl.Pipeline.Folder()
 	}
-	rf, err := openRunFolder(folder, opts.Replace)
+	folder, idx := runFolder, make([]int, len(pl.Sections))
+	for i := range idx {
+		idx[i] = i
+	}
+	if opts.Shard != nil {
+		if err := opts.Shard.check(); err != nil {
+			return nil, fmt.Errorf("%w: %v", ErrBadInput, err)
+		}
+		folder, idx = ShardFolder(runFolder, *opts.Shard), pl.ShardSections(*opts.Shard)
+	}
+	rf, err := openRunFolder(folder, opts.Replace || opts.Resume, opts.Resume)
 	if err != nil {
 		return nil, err
 	}
@@ -268,7 +314,7 @@ func Run(ctx context.Context, pl *Plan, opts RunOptions) (*Summary, error) {
 		}
 	}()
 	jobs := max(opts.Jobs, 1)
-	jobs = min(jobs, max(len(pl.Sections), 1))
+	jobs = min(jobs, max(len(idx), 1))
 
 	// One runner per worker; the first also describes the stages.
 	runners, err := startRunners(pl, opts, jobs)
@@ -284,38 +330,60 @@ func Run(ctx context.Context, pl *Plan, opts RunOptions) (*Summary, error) {
 	if err != nil {
 		return nil, err
 	}
-	results, cancelled := runSections(ctx, pl, rf.staging, calls, opts, runners, jobs)
+	hdr := journalHeader{Format: JournalFormat, runHead: newRunHead(pl, runFolder, infos, exes, calls, runners), Shard: opts.Shard, Attempt: 1}
+	var j *journal
+	var resumed ResumeReport
+	if opts.Resume {
+		j, resumed, err = rf.resume(pl, hdr, idx, opts.Limits)
+	} else {
+		j, err = createJournal(journalPath(rf.staging), hdr, nil)
+	}
+	if err != nil {
+		return nil, err
+	}
+	defer j.close()
+	var todo []int
+	for _, i := range idx {
+		if !j.has(i) {
+			todo = append(todo, i)
+		}
+	}
+	if opts.Begin != nil {
+		opts.Begin(len(todo), resumed)
+	}
+	cancelled, err := runSections(ctx, pl, rf.staging, calls, opts, runners, min(jobs, max(len(todo), 1)), todo, j)
+	if err != nil {
+		return nil, err
+	}
 
-	sum := &Summary{Folder: folder, Manifest: filepath.Join(folder, ManifestName), Cancelled: cancelled}
-	for i := range results {
-		if results[i].report.Name == "" { // never started
-			results[i].report = SectionReport{Name: pl.Sections[i].Name, Status: StatusCancelled}
-		}
-		sum.Sections = append(sum.Sections, results[i].report)
+	sum := &Summary{Folder: runFolder, Manifest: filepath.Join(folder, ManifestName), Cancelled: cancelled, Resumed: resumed}
+	if err := j.reports(pl, idx, func(r SectionReport) { sum.Sections = append(sum.Sections, r) }); err != nil {
+		return sum, err
 	}
-	m := newManifest(pl, folder, infos, exes, results, cancelled)
-	m.recordEnvironment(calls, runners)
-	if !cancelled && pl.Pipeline.Outputs.HasPlot(PlotStations) {
-		if err := writeStations(pl, rf.staging, results, m); err != nil {
+	a := &assembly{pl: pl, head: hdr.runHead, interrupted: cancelled, idx: idx, entry: j.entry, runOutputs: map[string]string{}}
+	if opts.Shard != nil {
+		a.shard = &ShardRecord{Shard: *opts.Shard, Plan: hdr.Plan, Sections: hdr.Sections}
+	} else if !cancelled {
+		if err := writeRunOutputs(pl, rf.staging, idx, j.entry, a.runOutputs); err != nil {
 			return sum, err
 		}
 	}
-	if !cancelled {
-		if err := writeStationExports(pl, rf.staging, results, m); err != nil {
-			return sum, err
-		}
-		if err := writeVerdicts(pl, rf.staging, results, m); err != nil {
-			return sum, err
-		}
-	}
-	m.Timings.Jobs = jobs
-	m.Timings.Started = start.UTC().Format(time.RFC3339)
-	m.Timings.TotalS = seconds(time.Since(start))
-	if err := writeManifest(filepath.Join(rf.staging, ManifestName), m); err != nil {
+	a.timings = Timings{Started: start.UTC().Format(time.RFC3339), Jobs: jobs}
+	a.timings.TotalS = seconds(time.Since(start))
+	a.timings.MaxRSSKiB = maxRSSKiB()
+	if err := a.writeTo(filepath.Join(rf.staging, ManifestName)); err != nil {
 		sum.Manifest = ""
 		return sum, err
 	}
-	if rf.earlier && (cancelled || !sum.allOK()) {
+	j.close()
+	if opts.Shard == nil {
+		// A run folder holds what its manifest lists, and the manifest.
+		if err := os.Remove(journalPath(rf.staging)); err != nil {
+			sum.Manifest = ""
+			return sum, fmt.Errorf("pipeline: journal: %w", err)
+		}
+	}
+	if rf.earlier && !opts.Resume && (cancelled || !sum.allOK()) {
 		sum.Manifest, sum.Kept = "", true
 	} else {
 		if err := rf.commit(); err != nil {
@@ -328,6 +396,73 @@ func Run(ctx context.Context, pl *Plan, opts RunOptions) (*Summary, error) {
 		return sum, ctx.Err()
 	}
 	return sum, nil
+}
+
+// newRunHead records what makes the run the run it is: the tool, the
+// pipeline file (relative to the run folder, so that a run folder moved
+// together with its inputs still verifies), the stages as they described
+// themselves with the environment each gets, and the plan.
+func newRunHead(pl *Plan, folder string, infos []stage.Info, exes []string, calls []StageCall, runners []StageRunner) runHead {
+	p := pl.Pipeline
+	file := p.Path
+	if file == "" {
+		file = p.File
+	}
+	if abs, err := filepath.Abs(file); err == nil {
+		if af, err := filepath.Abs(folder); err == nil {
+			if rel, err := filepath.Rel(af, abs); err == nil {
+				file = filepath.ToSlash(rel)
+			}
+		}
+	}
+	h := runHead{
+		Tool:     Tool{Name: "foilwright", Version: version.Version, Revision: version.Revision()},
+		Pipeline: PipelineRef{File: file, Name: p.Name, SHA256: p.SHA256},
+		Stages:   []StageRecord{},
+		Plan:     pl.Digest(),
+		Sections: len(pl.Sections),
+	}
+	var er EnvReporter
+	var rr RunsFromReporter
+	if len(runners) > 0 {
+		er, _ = runners[0].(EnvReporter)
+		rr, _ = runners[0].(RunsFromReporter)
+	}
+	for i, st := range pl.Stages {
+		rec := StageRecord{
+			ID: st.ID, Stage: st.Stage, Name: infos[i].Name, Version: infos[i].Version,
+			Executable: exes[i], Pin: st.SHA256, Params: json.RawMessage(st.Params),
+			After: st.After, OnError: st.OnError, TimeoutS: st.TimeoutS, Pins: st.Pins,
+		}
+		if st.Keep != stage.KeepAll {
+			rec.Keep = st.Keep
+		}
+		if er != nil {
+			rec.Environment = er.Environment(calls[i])
+		}
+		if rr != nil {
+			rec.RunsFrom = rr.RunsFrom(calls[i])
+		}
+		h.Stages = append(h.Stages, rec)
+	}
+	return h
+}
+
+// reports calls f with the report of each section of idx, in plan order:
+// from its journal entry, or cancelled when it has none.
+func (j *journal) reports(pl *Plan, idx []int, f func(SectionReport)) error {
+	for _, i := range idx {
+		e, ok, err := j.entry(i)
+		if err != nil {
+			return err
+		}
+		if ok {
+			f(e.report())
+		} else {
+			f(SectionReport{Name: pl.Sections[i].Name, Status: StatusCancelled})
+		}
+	}
+	return nil
 }
 
 // startRunners makes one stage runner per worker when the pipeline has
@@ -373,13 +508,18 @@ func describeStages(ctx context.Context, pl *Plan, runners []StageRunner) ([]Sta
 	return calls, infos, exes, nil
 }
 
-// runSections makes the sections on jobs workers, each with its own
-// runner, and reports whether the run was cancelled. Sections never
-// started have an empty report.
-func runSections(ctx context.Context, pl *Plan, folder string, calls []StageCall, opts RunOptions, runners []StageRunner, jobs int) ([]sectionResult, bool) {
-	results := make([]sectionResult, len(pl.Sections))
+// runSections makes the sections todo on jobs workers, each with its own
+// runner, appending each finished section to the journal, and reports
+// whether the run was cancelled. It fails when the journal cannot be
+// written.
+func runSections(ctx context.Context, pl *Plan, folder string, calls []StageCall, opts RunOptions, runners []StageRunner, jobs int, todo []int, j *journal) (bool, error) {
+	withSection := pl.Pipeline.Outputs.HasPlot(PlotStations) || pl.Pipeline.Outputs.HasExport(ExportStationsDXF) || pl.Pipeline.Outputs.HasExport(ExportStationsCSV)
 	work := make(chan int)
 	var wg sync.WaitGroup
+	var mu sync.Mutex
+	var jerr error
+	ctx, stop := context.WithCancel(ctx)
+	defer stop()
 	for w := range jobs {
 		var r StageRunner
 		if len(runners) > 0 {
@@ -390,7 +530,14 @@ func runSections(ctx context.Context, pl *Plan, folder string, calls []StageCall
 			defer wg.Done()
 			for i := range work {
 				res := runSection(ctx, pl, folder, i, calls, opts, r)
-				results[i] = res
+				if res.report.Status != StatusCancelled {
+					if err := j.add(res.entry(pl, i, j.head.Attempt, withSection)); err != nil {
+						mu.Lock()
+						jerr = errors.Join(jerr, err)
+						mu.Unlock()
+						stop()
+					}
+				}
 				if opts.Done != nil {
 					opts.Done(res.report)
 				}
@@ -399,7 +546,7 @@ func runSections(ctx context.Context, pl *Plan, folder string, calls []StageCall
 	}
 	cancelled := false
 feed:
-	for i := range pl.Sections {
+	for _, i := range todo {
 		select {
 		case work <- i:
 		case <-ctx.Done():
@@ -409,13 +556,96 @@ feed:
 	}
 	close(work)
 	wg.Wait()
-	return results, cancelled || ctx.Err() != nil
+	if jerr != nil {
+		return false, jerr
+	}
+	return cancelled || ctx.Err() != nil, nil
+}
+
+// writeRunOutputs writes the run's own outputs (the stations picture and
+// exports, the batch table) from the journal entries of the sections idx,
+// and records them in outs.
+func writeRunOutputs(pl *Plan, folder string, idx []int, entry func(int) (journalEntry, bool, error), outs map[string]string) error {
+	if err := writeTable(pl, folder, idx, entry, outs); err != nil {
+		return err
+	}
+	if err := writeVerdicts(pl, folder, idx, entry, outs); err != nil {
+		return err
+	}
+	out := pl.Pipeline.Outputs
+	if !out.HasPlot(PlotStations) && !out.HasExport(ExportStationsDXF) && !out.HasExport(ExportStationsCSV) {
+		return nil
+	}
+	var docs []stationDoc
+	for _, i := range idx {
+		e, ok, err := entry(i)
+		if err != nil {
+			return err
+		}
+		if !ok || len(e.Section) == 0 {
+			continue
+		}
+		sec, err := section.Read(bytes.NewReader(e.Section), pl.Sections[i].Name+"/section.json")
+		if err != nil {
+			return fmt.Errorf("stations: %w", err)
+		}
+		docs = append(docs, stationDoc{i: i, sec: sec})
+	}
+	if out.HasPlot(PlotStations) {
+		if err := writeStations(pl, folder, docs, outs); err != nil {
+			return err
+		}
+	}
+	return writeStationExports(pl, folder, docs, outs)
+}
+
+// stationDoc is a section made, for the stations picture and exports.
+type stationDoc struct {
+	i   int // in the plan
+	sec *section.Section
+}
+
+// writeTable writes the batch table: a row per section, in plan order.
+func writeTable(pl *Plan, folder string, idx []int, entry func(int) (journalEntry, bool, error), outs map[string]string) error {
+	ids := pl.stageIDs()
+	cols := newTableColumns(ids)
+	rows := func(f func(row []Cell)) error {
+		for _, i := range idx {
+			e, ok, err := entry(i)
+			if err != nil {
+				return err
+			}
+			if ok {
+				f(e.Row)
+			} else {
+				sp := pl.Sections[i]
+				f(tableRow(sp.Name, sp.Station, StatusCancelled, "", "", nil, nil, nil))
+			}
+		}
+		return nil
+	}
+	if err := rows(cols.add); err != nil {
+		return err
+	}
+	h := sha256.New()
+	err := writeStream(filepath.Join(folder, TableName), func(w io.Writer) error {
+		t := newTableWriter(io.MultiWriter(w, h), cols.headers())
+		if err := rows(t.row); err != nil {
+			return err
+		}
+		return t.flush()
+	})
+	if err != nil {
+		return fmt.Errorf("batch table: %w", err)
+	}
+	outs[TableName] = hex.EncodeToString(h.Sum(nil))
+	return nil
 }
 
 // writeStations writes the run's stations picture, when two or more
 // sections have a station, and records it in m.
-func writeStations(pl *Plan, folder string, results []sectionResult, m *Manifest) error {
-	name, data, err := stationsPlot(pl, results)
+func writeStations(pl *Plan, folder string, docs []stationDoc, outs map[string]string) error {
+	name, data, err := stationsPlot(pl, docs)
 	if err == nil && data != nil {
 		err = atomicfile.WriteBytes(filepath.Join(folder, name), data)
 	}
@@ -423,7 +653,7 @@ func writeStations(pl *Plan, folder string, results []sectionResult, m *Manifest
 		return fmt.Errorf("stations plot: %w", err)
 	}
 	if data != nil {
-		m.Outputs[name] = digest.Bytes(data)
+		outs[name] = digest.Bytes(data)
 	}
 	return nil
 }
@@ -432,21 +662,18 @@ func writeStations(pl *Plan, folder string, results []sectionResult, m *Manifest
 // for (stations.dxf, stations.csv: every section made, in space, in plan
 // order) and records them in m. Sections neither cut from 3D nor given a
 // station are left out, with a note in the error when none is left.
-func writeStationExports(pl *Plan, folder string, results []sectionResult, m *Manifest) error {
+func writeStationExports(pl *Plan, folder string, docs []stationDoc, outs map[string]string) error {
 	out := pl.Pipeline.Outputs
 	if !out.HasExport(ExportStationsDXF) && !out.HasExport(ExportStationsCSV) {
 		return nil
 	}
 	var sts []export.Station
-	for i, r := range results {
-		if r.section == nil {
-			continue
-		}
-		p, err := export.Place(r.section, export.PlaceOptions{})
+	for _, d := range docs {
+		p, err := export.Place(d.sec, export.PlaceOptions{})
 		if err != nil {
-			return fmt.Errorf("stations export: section %q: %w", r.report.Name, err)
+			return fmt.Errorf("stations export: section %q: %w", pl.Sections[d.i].Name, err)
 		}
-		at := pl.Sections[i].Station
+		at := pl.Sections[d.i].Station
 		if p.Plane == nil {
 			if at == nil {
 				continue
@@ -472,14 +699,14 @@ func writeStationExports(pl *Plan, folder string, results []sectionResult, m *Ma
 		if err := atomicfile.WriteBytes(filepath.Join(folder, e.name), b.Bytes()); err != nil {
 			return err
 		}
-		m.Outputs[e.name] = digest.Bytes(b.Bytes())
+		outs[e.name] = digest.Bytes(b.Bytes())
 	}
 	return nil
 }
 
 func callOf(st Stage) StageCall {
 	c := StageCall{ID: st.ID, Stage: st.Stage, SHA256: st.SHA256, Params: st.Params,
-		Timeout: time.Duration(st.TimeoutS * float64(time.Second)), Env: st.Env}
+		Timeout: time.Duration(st.TimeoutS * float64(time.Second)), Env: st.Env, Keep: st.Keep}
 	if st.Exec != "" {
 		c.Stage, c.Exec = st.Exec, true
 	}
@@ -501,12 +728,12 @@ func seconds(d time.Duration) float64 { return d.Round(time.Microsecond).Seconds
 // stationsPlot draws chord, twist, thickness and fit RMS against the station
 // of every section that was made and has a station. It returns no data when
 // fewer than two sections qualify.
-func stationsPlot(pl *Plan, results []sectionResult) (string, []byte, error) {
+func stationsPlot(pl *Plan, docs []stationDoc) (string, []byte, error) {
 	var st []plot.Station
 	units := ""
-	for i, r := range results {
-		s, at := r.section, pl.Sections[i].Station
-		if s == nil || at == nil || s.Frame == nil || s.Properties == nil {
+	for _, d := range docs {
+		s, at := d.sec, pl.Sections[d.i].Station
+		if at == nil || s.Frame == nil || s.Properties == nil {
 			continue
 		}
 		units = string(s.Units)

@@ -319,9 +319,9 @@ func TestRunOnError(t *testing.T) {
 		files   []string
 	}{
 		{"continue", StatusPartial, []string{"area:ok", "broken:failed", "needs-broken:skipped", "double:ok"},
-			[]string{"s/nodes.dat", "s/results/area.json", "s/results/double.json", "s/section.json"}},
+			[]string{TableName, "s/nodes.dat", "s/results/area.json", "s/results/double.json", "s/section.json"}},
 		{"stop", StatusFailed, []string{"area:ok", "broken:failed", "needs-broken:not-run", "double:not-run"},
-			[]string{"s/nodes.dat", "s/results/area.json", "s/section.json"}},
+			[]string{TableName, "s/nodes.dat", "s/results/area.json", "s/section.json"}},
 	} {
 		t.Run(tc.onError, func(t *testing.T) {
 			path := setup(t, strings.Replace(pipeline, "%s", tc.onError, 1), map[string]string{"in/s.dat": thinPoints})

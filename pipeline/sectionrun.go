@@ -3,6 +3,7 @@ package pipeline
 import (
 	"bytes"
 	"context"
+	"encoding/json"
 	"errors"
 	"fmt"
 	"os"
@@ -81,13 +82,67 @@ func Documents() []string {
 // sectionResult is what one section produced.
 type sectionResult struct {
 	report  SectionReport
-	section *section.Section // the section made, when preparing succeeded
-	files   []FileHash       // inputs as read
+	files   []FileHash // inputs as read
 	outputs map[string]string
 	timing  SectionTiming
+	// doc is the section document and results the stages' result
+	// documents by stage id (as the run folder keeps them), for the batch
+	// table and the stations.
+	doc     []byte
+	results map[string]*stage.ResultDoc
 	// The comparison with the design, when the pipeline asks for one.
 	compare    *CompareRecord
 	designFile *FileHash
+}
+
+// entry is the journal entry of a finished section i: its record for the
+// manifest, its outputs and timing, its report and its row of the batch
+// table (and its section document when withSection).
+func (res *sectionResult) entry(pl *Plan, i, attempt int, withSection bool) *journalEntry {
+	sp := pl.Sections[i]
+	inputs := res.files
+	if inputs == nil {
+		inputs = []FileHash{}
+	}
+	rep := res.report
+	e := &journalEntry{Index: i, Attempt: attempt,
+		Record: SectionRecord{Name: sp.Name, Station: sp.Station, Inputs: inputs, Settings: sp.Settings,
+			Status: rep.Status, Err: rep.Err, Stages: rep.Stages, Compare: res.compare},
+		Outputs: res.outputs, Timing: res.timing, Summary: rep.Summary, Input: rep.Input, Compare: rep.Compare}
+	if res.compare == nil && sp.Compare != nil {
+		// Not compared (failed): still record what it would have been
+		// held against.
+		e.Record.Compare = notCompared(sp, res.designFile)
+	}
+	e.Row = tableRow(sp.Name, sp.Station, rep.Status, rep.Err, res.verdict(), res.doc, pl.stageIDs(), res.results)
+	if withSection && res.doc != nil {
+		e.Section = json.RawMessage(res.doc)
+	}
+	return e
+}
+
+// verdict is the section's verdict against its design, for the batch
+// table, when the pipeline compares it ("" otherwise).
+func (res *sectionResult) verdict() string {
+	if res.compare == nil {
+		return ""
+	}
+	return res.compare.Verdict.Verdict
+}
+
+// notCompared is the comparison record of a section of a comparing
+// pipeline that was not compared (it failed or was cancelled first).
+func notCompared(sp SectionPlan, designFile *FileHash) *CompareRecord {
+	return &CompareRecord{Settings: sp.Compare, DesignFile: designFile, Verdict: Verdict{Design: sp.Compare.Design, Verdict: "not compared"}}
+}
+
+// stageIDs returns the ids of the stages in the order they run.
+func (pl *Plan) stageIDs() []string {
+	ids := make([]string, len(pl.Stages))
+	for i, st := range pl.Stages {
+		ids[i] = st.ID
+	}
+	return ids
 }
 
 // output is one file of a section, relative to the run folder.
@@ -109,8 +164,16 @@ type sectionRun struct {
 	prepared Prepared
 	sec      *section.Section
 	outs     []output
+	results  []stageResult // the results of the stages that succeeded, in order
 	// designData is the design file of the section's comparison.
 	designData []byte
+}
+
+// stageResult is the result document of one stage, as decoded once from
+// the stage's reply.
+type stageResult struct {
+	id  string
+	doc *stage.ResultDoc
 }
 
 // runSection makes one section and writes its outputs: read its files,
@@ -239,7 +302,7 @@ func (r *sectionRun) collectDocuments() bool {
 		}
 		r.outs = append(r.outs, outs...)
 	}
-	r.res.section = r.sec
+	r.res.doc = r.prepared.Section
 	return true
 }
 
@@ -247,8 +310,15 @@ func (r *sectionRun) collectDocuments() bool {
 // runs after, and collects their results and artifacts.
 func (r *sectionRun) runStages(calls []StageCall, runner StageRunner) bool {
 	rep := &r.res.report
-	results := map[string][]byte{}
+	results := map[string]*stage.ResultDoc{}
 	failed := map[string]bool{}
+	// The section goes to every stage as its document without the nodes
+	// and the nodes, taken out once: the host sends them packed, or joins
+	// them back for a stage that reads them from the document.
+	sec, nodes, err := stage.SplitNodes(r.prepared.Section)
+	if err != nil {
+		return r.fail("prepare gave a bad section document: %v", err)
+	}
 	artifactBy := map[string]string{} // artifact name → stage id
 	stopped := false
 	for k, st := range r.pl.Stages {
@@ -267,18 +337,18 @@ func (r *sectionRun) runStages(calls []StageCall, runner StageRunner) bool {
 			sr.Err = "runs after " + strings.Join(missing, ", ") + ", which did not succeed"
 			failed[st.ID] = true
 		default:
-			deps := map[string][]byte{}
+			deps := map[string]*stage.ResultDoc{}
 			for _, id := range st.After {
 				deps[id] = results[id]
 			}
 			t := time.Now()
-			out, err := runStage(r.ctx, runner, calls[k], stage.Request{Section: r.prepared.Section, Params: calls[k].Params, Deps: deps, SectionName: r.sp.Name})
+			out, err := runStage(r.ctx, runner, calls[k], stage.Request{Section: sec, Nodes: nodes, Params: calls[k].Params, DepResults: deps, SectionName: r.sp.Name})
 			r.res.timing.Stages = append(r.res.timing.Stages, StageTiming{ID: st.ID, S: seconds(time.Since(t))})
 			if r.ctx.Err() != nil {
 				return r.cancel()
 			}
 			if err == nil {
-				err = checkOutput(out, st.ID, artifactBy)
+				err = checkOutput(&out, st.ID, artifactBy)
 			}
 			if err != nil {
 				sr.Status = "failed"
@@ -294,10 +364,18 @@ func (r *sectionRun) runStages(calls []StageCall, runner StageRunner) bool {
 				}
 				break
 			}
+			if err = r.stageOutputs(st.ID, calls[k].Keep, out); err != nil {
+				return r.fail("stage %q: %v", st.ID, err)
+			}
 			sr.Status = StatusOK
 			sr.Warnings = out.Warnings
-			results[st.ID] = out.JSON
-			r.stageOutputs(st.ID, out)
+			results[st.ID] = out.Doc
+			r.results = append(r.results, stageResult{st.ID, out.Doc})
+			// The batch table reads what the run folder keeps.
+			if r.res.results == nil {
+				r.res.results = map[string]*stage.ResultDoc{}
+			}
+			r.res.results[st.ID] = kept(out.Doc, calls[k].Keep)
 		}
 		rep.Stages = append(rep.Stages, sr)
 	}
@@ -310,15 +388,34 @@ func (r *sectionRun) runStages(calls []StageCall, runner StageRunner) bool {
 	return true
 }
 
+// kept is a result document with the detail keep asks for.
+func kept(doc *stage.ResultDoc, keep string) *stage.ResultDoc {
+	if keep == "" || keep == stage.KeepAll {
+		return doc
+	}
+	return doc.Trim(keep)
+}
+
 // stageOutputs collects what a stage that succeeded gives: its result
-// document, when outputs.documents lists results, and its artifacts.
-func (r *sectionRun) stageOutputs(id string, out stage.Result) {
+// document, when outputs.documents lists results, and its artifacts. The
+// document is written with the detail keep asks for, in the result format
+// of package stage (columns); a stage that answered with JSON text has its
+// text written as it is when everything is kept.
+func (r *sectionRun) stageOutputs(id, keep string, out stage.Result) error {
 	if r.pl.Pipeline.Outputs.Has(DocResults) {
-		r.outs = append(r.outs, output{r.sp.Name + "/results/" + id + ".json", withNewline(out.JSON)})
+		data := out.JSON
+		if len(data) == 0 || keep != stage.KeepAll && keep != "" {
+			var err error
+			if data, err = kept(out.Doc, keep).Encode(); err != nil {
+				return err
+			}
+		}
+		r.outs = append(r.outs, output{r.sp.Name + "/results/" + id + ".json", withNewline(data)})
 	}
 	for _, a := range out.Artifacts {
 		r.outs = append(r.outs, output{r.sp.Name + "/plots/" + a.Name, a.Data})
 	}
+	return nil
 }
 
 // collectExports makes the exports outputs.exports asks for, in the
@@ -333,14 +430,12 @@ func (r *sectionRun) collectExports() bool {
 	if frame == "" && (r.sec.Frame == nil || r.sec.Units == "" || r.sec.Units == geometry.ChordUnit) {
 		frame = export.FrameChord
 	}
+	// The tables are made from every stage's whole result, whatever the
+	// run folder keeps of it.
 	var results []*export.Result
-	for _, o := range r.outs {
-		if strings.HasPrefix(o.path, r.sp.Name+"/results/") {
-			res, err := export.ReadResult(o.data, o.path, r.sp.Name)
-			if err != nil {
-				return r.fail("export: %v", err)
-			}
-			results = append(results, res)
+	if r.pl.Pipeline.Outputs.Has(DocResults) {
+		for _, sr := range r.results {
+			results = append(results, exportResult(sr.doc, r.sp.Name))
 		}
 	}
 	for _, kind := range out.Exports {
@@ -368,8 +463,12 @@ func (r *sectionRun) collectExports() bool {
 	return true
 }
 
-// writeFile writes one output; tests replace it to fail like a full disk.
-var writeFile = atomicfile.WriteBytes
+// writeFile and writeStream write one output; tests replace them to fail
+// like a full disk.
+var (
+	writeFile   = atomicfile.WriteBytes
+	writeStream = atomicfile.Write
+)
 
 // write writes the collected files into the (staging) run folder, each
 // atomically, and records their digests. Two outputs of one name fail the
@@ -427,10 +526,37 @@ func runStage(ctx context.Context, r StageRunner, call StageCall, req stage.Requ
 // artifactName is the form of an artifact's file name.
 var artifactName = regexp.MustCompile(`^[A-Za-z0-9][A-Za-z0-9._-]{0,127}$`)
 
-// checkOutput checks what a stage returned before anything is written.
-func checkOutput(out stage.Result, id string, by map[string]string) error {
-	if !gjson.ValidBytes(out.JSON) || !gjson.ParseBytes(out.JSON).IsObject() {
-		return errors.New("the stage returned a result that is not a JSON object")
+// exportResult is the part of a result document the export tables need.
+func exportResult(d *stage.ResultDoc, section string) *export.Result {
+	r := &export.Result{Section: section, Stage: d.Stage, Version: d.Version}
+	for _, c := range d.Cases {
+		if c == nil {
+			continue
+		}
+		ec := export.Case{AlphaDeg: c.AlphaDeg, CL: c.CL, CMc4: c.CMc4, Checks: c.Checks}
+		if len(c.Cp) > 0 {
+			ec.Cp = make([]export.CpPoint, len(c.Cp))
+			for k, p := range c.Cp {
+				ec.Cp[k] = export.CpPoint{X: p.X, Y: p.Y, Cp: p.Cp}
+			}
+		}
+		r.Cases = append(r.Cases, ec)
+	}
+	return r
+}
+
+// checkOutput checks what a stage returned before anything is written,
+// decoding its result document when the runner gave only its text.
+func checkOutput(out *stage.Result, id string, by map[string]string) error {
+	if out.Doc == nil {
+		if !gjson.ValidBytes(out.JSON) || !gjson.ParseBytes(out.JSON).IsObject() {
+			return errors.New("the stage returned a result that is not a JSON object")
+		}
+		d, err := stage.DecodeResult(out.JSON)
+		if err != nil {
+			return err
+		}
+		out.Doc = d
 	}
 	names := map[string]bool{}
 	for _, a := range out.Artifacts {

@@ -90,6 +90,9 @@ func Verify(ctx context.Context, path string, opts VerifyOptions) (*VerifyReport
 	if err != nil {
 		return nil, err
 	}
+	if m.Shard != nil {
+		return nil, fmt.Errorf("%w: %s is the partial manifest of shard %s: merge the shards (foilwright merge RUN_FOLDER) and verify the merged run", ErrNotManifest, path, m.Shard.Shard)
+	}
 	disk := checkDisk(filepath.Dir(path), m)
 	file := opts.Pipeline
 	if file == "" {
@@ -297,6 +300,17 @@ func compare(rep *VerifyReport, want, got *Manifest) {
 		g := stages[s.ID]
 		if g.Name != s.Name || g.Version != s.Version || g.Executable != s.Executable {
 			rep.Notes = append(rep.Notes, fmt.Sprintf("stage %s was %s %s (%s), now %s %s (%s)", s.ID, s.Name, s.Version, short(s.Executable), g.Name, g.Version, short(g.Executable)))
+		}
+		now := map[string]string{}
+		for _, f := range g.RunsFrom {
+			now[f.Path] = f.SHA256
+		}
+		for _, f := range s.RunsFrom {
+			if sum, ok := now[f.Path]; !ok {
+				rep.Notes = append(rep.Notes, fmt.Sprintf("stage %s ran from %s (%s), now does not", s.ID, f.Path, short(f.SHA256)))
+			} else if sum != f.SHA256 {
+				rep.Notes = append(rep.Notes, fmt.Sprintf("stage %s runs from %s, which was %s, now %s", s.ID, f.Path, short(f.SHA256), short(sum)))
+			}
 		}
 	}
 }

@@ -31,8 +31,8 @@ func TestVerifyReproduces(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if !rep.OK() || rep.Checked != 24 || len(rep.Notes) != 0 {
-		t.Errorf("report %+v, want OK over 24 outputs", rep)
+	if !rep.OK() || rep.Checked != 25 || len(rep.Notes) != 0 {
+		t.Errorf("report %+v, want OK over 25 outputs (24 and the batch table)", rep)
 	}
 	if left, _ := os.ReadDir(opts.TempDir); len(left) != 0 {
 		t.Errorf("verify left %d entries in its scratch folder", len(left))
@@ -61,9 +61,9 @@ func TestVerifyDetectsChangedOutput(t *testing.T) {
 			t.Errorf("difference %+v", d)
 		}
 	}
-	// Results carry the stage version, so every result changes; the
-	// section documents, nodes and plots do not.
-	var want []string
+	// Results carry the stage version, so every result changes, and the
+	// batch table with them; the section documents, nodes and plots do not.
+	want := []string{TableName}
 	for _, s := range []string{"probe-a", "probe-b", "probe-c", "thin"} {
 		for _, f := range []string{"area", "double", "plot"} {
 			want = append(want, s+"/results/"+f+".json")
@@ -75,7 +75,7 @@ func TestVerifyDetectsChangedOutput(t *testing.T) {
 	if len(rep.Notes) != 3 || !strings.Contains(rep.Notes[0], "stage area was area 1.0") {
 		t.Errorf("notes %q", rep.Notes)
 	}
-	if s := rep.Differences[0].String(); !strings.HasPrefix(s, "probe-a/results/area.json: want sha256 "+m.Outputs["probe-a/results/area.json"]+", got ") {
+	if s := rep.Differences[1].String(); !strings.HasPrefix(s, "probe-a/results/area.json: want sha256 "+m.Outputs["probe-a/results/area.json"]+", got ") {
 		t.Errorf("difference prints %q", s)
 	}
 }

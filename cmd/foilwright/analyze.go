@@ -156,13 +156,16 @@ func runAnalyze(cmd *cobra.Command, path string, opts analyzeOptions, alphaSet b
 	defer files.Abort()
 	var written []string
 	if opts.plot != "" {
-		paths, err := analyzePlots(ctx, h, &files, opts.plot, plotFormat, data, name, reply.JSON)
+		paths, err := analyzePlots(ctx, h, &files, opts.plot, plotFormat, data, name, reply.Doc)
 		if err != nil {
 			return err
 		}
 		written = append(written, paths...)
 	}
-	doc := reply.JSON
+	doc, err := reply.Document()
+	if err != nil {
+		return err
+	}
 	if !bytes.HasSuffix(doc, []byte("\n")) {
 		doc = append(doc, '\n')
 	}
@@ -227,11 +230,11 @@ var mainPictures = []string{"cp", "polar", "section"}
 // own process, like every stage) and writes its pictures: the first of
 // mainPictures drawn to path, the others beside it (path-polar,
 // path-section, path-streamlines). It returns the paths written.
-func analyzePlots(ctx context.Context, h *host.Host, files *atomicfile.Set, path, format string, section []byte, name string, result []byte) ([]string, error) {
+func analyzePlots(ctx context.Context, h *host.Host, files *atomicfile.Set, path, format string, section []byte, name string, result *stage.ResultDoc) ([]string, error) {
 	params, _ := json.Marshal(map[string]string{"format": format})
 	reply, err := h.Runner(host.Builtin("plots")).Run(ctx, stage.Request{
 		Section: section, Params: params, SectionName: name,
-		Deps: map[string][]byte{analysisID: result},
+		DepResults: map[string]*stage.ResultDoc{analysisID: result},
 	})
 	if err != nil {
 		return nil, stageError(err)

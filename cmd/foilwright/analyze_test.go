@@ -260,3 +260,47 @@ func TestExternalStage(t *testing.T) {
 		t.Errorf("pin on a built-in: exit %d, %q", code, errs)
 	}
 }
+
+// TestStagesCheck: stages check runs the conformance suite on a stage as
+// a process: a wrapper script around a built-in conforms and runs from
+// its interpreter; a stage that cannot do the good call fails (1); a
+// missing executable or a wrong pin is bad input (2).
+func TestStagesCheck(t *testing.T) {
+	self, err := os.Executable()
+	if err != nil {
+		t.Fatal(err)
+	}
+	dir := t.TempDir()
+	script := filepath.Join(dir, "my-stage")
+	if err := os.WriteFile(script, []byte("#!/bin/sh\nexec \""+self+"\" __stage thin-aerofoil\n"), 0o755); err != nil {
+		t.Fatal(err)
+	}
+	code, out, errs := run(t, "", "stages", "check", script, "--params", `{"alpha_deg": [0, 4]}`)
+	if code != 0 || !strings.Contains(out, "thin-aerofoil") || !strings.Contains(out, "ok: keeps the stage protocol") || !strings.Contains(out, "runs from") {
+		t.Errorf("check: exit %d\n%s%s", code, out, errs)
+	}
+	code, out, _ = run(t, "", "stages", "check", script, "--json")
+	var rep struct {
+		Conforms bool
+		RunsFrom []struct{ Path, SHA256 string } `json:"runs_from"`
+	}
+	if code != 0 || json.Unmarshal([]byte(out), &rep) != nil || !rep.Conforms || len(rep.RunsFrom) != 1 || !filepath.IsAbs(rep.RunsFrom[0].Path) {
+		t.Errorf("check --json: exit %d\n%s", code, out)
+	}
+	// A section this stage refuses (too few nodes to find a camber line):
+	// the good calls fail.
+	bad := filepath.Join(dir, "tiny.json")
+	os.WriteFile(bad, []byte(`{"format": "foilwright.section/1", "nodes": [[1, 0], [0, 0.1], [0, -0.1], [1, 0]]}`), 0o644)
+	if code, out, errs := run(t, "", "stages", "check", script, "--section", bad); code != exitFailed || !strings.Contains(out, "FAIL first run") || !strings.Contains(errs, "does not keep the stage protocol") {
+		t.Errorf("a failing check: exit %d\n%s%s", code, out, errs)
+	}
+	if code, _, errs := run(t, "", "stages", "check", filepath.Join(dir, "none")); code != exitUsage || !strings.Contains(errs, "does not exist") {
+		t.Errorf("missing: exit %d, %q", code, errs)
+	}
+	if code, _, errs := run(t, "", "stages", "check", script, "--sha256", strings.Repeat("0", 64)); code != exitUsage || !strings.Contains(errs, "is pinned") {
+		t.Errorf("wrong pin: exit %d, %q", code, errs)
+	}
+	if code, _, errs := run(t, "", "stages", "check", script, "--params", "[1]"); code != exitUsage || !strings.Contains(errs, "want a JSON object") {
+		t.Errorf("bad params: exit %d, %q", code, errs)
+	}
+}

@@ -348,7 +348,9 @@ func compareAero(ctx context.Context, c *compare.Comparison, opts compareOptions
 		if err != nil {
 			return nil, stageError(err)
 		}
-		return reply.JSON, nil
+		// The comparison reads foilwright.result/1; a stage may answer
+		// packed (no JSON) or in /2.
+		return reply.Result.DocumentV1()
 	}
 	if err := c.Aero(ctx, run, compare.AeroOptions{AlphaDeg: alphas, CpAlphaDeg: opts.cpAlpha}); err != nil {
 		return fmt.Errorf("aerodynamic comparison: %w", err)

@@ -67,7 +67,7 @@ var inputCauses = []error{
 	atomicfile.ErrNotRegular, atomicfile.ErrNoFolder,
 	pipeline.ErrFolderNotEmpty, pipeline.ErrFolderLocked, pipeline.ErrFolderUnsafe,
 	pipeline.ErrPipelineChanged, pipeline.ErrInputChanged, pipeline.ErrNotManifest,
-	pipeline.ErrBadInput,
+	pipeline.ErrBadInput, pipeline.ErrNotMergeable, pipeline.ErrNotResumable,
 	stage.ErrBadInput,
 	host.ErrNotFound, host.ErrNotExecutable, host.ErrChecksum, host.ErrTooManyNodes,
 }

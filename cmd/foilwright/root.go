@@ -2,6 +2,7 @@ package main
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"io"
 	"os"
@@ -54,6 +55,8 @@ from them.`,
 		newPointsCmd(),
 		newPrepCmd(),
 		newRunCmd(),
+		newMergeCmd(),
+		newJobScriptCmd(),
 		newShapeCmd(),
 		newVersionCmd(),
 		newAnalyzeCmd(),
@@ -106,6 +109,12 @@ func execute(args []string, stdin io.Reader, stdout, stderr io.Writer) (code int
 	}()
 	code = exitStatus(err, started, ctx.Err() != nil)
 	if err == nil {
+		return code
+	}
+	if code == 130 && errors.Is(err, context.Canceled) {
+		// The command stopped because of the signal and has nothing else
+		// to say; "context canceled" would only puzzle.
+		fmt.Fprintln(stderr, "foilwright: interrupted")
 		return code
 	}
 	fmt.Fprintf(stderr, "foilwright: %v\n", err)

@@ -8,6 +8,7 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"sync"
 	"time"
@@ -32,6 +33,8 @@ type runOptions struct {
 	quiet   bool
 	json    bool
 	plan    bool
+	shard   string
+	resume  bool
 }
 
 func newRunCmd() *cobra.Command {
@@ -55,7 +58,14 @@ otherwise); the summary, one line per section, to standard output.
 
 With --verify, run re-runs the run that a manifest records (refusing if the
 pipeline file or an input changed) and reports every output that differs,
-byte for byte.`,
+byte for byte.
+
+Batches: the manifest is written as the run goes (a journal of finished
+sections), so --resume after a crash, a kill or a failure makes only what is
+missing, failed or no longer matches its record. --shard K/N runs one of N
+shards (sections balanced by input size) into OUT/shards/K-of-N; --shard auto
+takes K and N from a Slurm job array (or a Kubernetes indexed Job's index,
+with auto/N); merge combines the shards into the run one machine would make.`,
 		Example: `  foilwright run examples/tunnel-model/pipeline.json
   foilwright run examples/rotor/pipeline.json --jobs 2 -o /tmp/rotor
   foilwright run --verify /tmp/rotor/manifest.json`,
@@ -68,6 +78,9 @@ byte for byte.`,
 				return err
 			}
 			if opts.verify {
+				if opts.shard != "" || opts.resume {
+					return badInputf("--verify re-runs a whole run: it takes neither --shard nor --resume")
+				}
 				return runVerify(cmd, args[0], opts)
 			}
 			return runPipeline(cmd, args[0], opts)
@@ -84,8 +97,11 @@ byte for byte.`,
 	quietFlag(cmd, &opts.quiet, "show no progress and print no summary: the exit status and the manifest say how the run went")
 	jsonFlag(cmd, &opts.json, "print the summary (or the plan, or the verify report) as JSON")
 	f.BoolVar(&opts.plan, "plan", false, "check the pipeline file and print the plan, running nothing")
+	f.StringVar(&opts.shard, "shard", "", "run one shard of the sections: K/N (K from 0), or auto (auto/N) from a job array's environment (SLURM_ARRAY_TASK_ID and COUNT, or JOB_COMPLETION_INDEX)")
+	f.BoolVar(&opts.resume, "resume", false, "keep what an earlier attempt at this run (or shard) finished and still checks, make the rest")
 	opts.host.register(cmd)
 	cmd.RegisterFlagCompletionFunc("jobs", fixedCompletions("1", "2", "4", "8"))
+	cmd.RegisterFlagCompletionFunc("shard", fixedCompletions("auto", "0/2", "1/2", "0/4"))
 	return cmd
 }
 
@@ -109,11 +125,29 @@ func runPipeline(cmd *cobra.Command, path string, opts runOptions) error {
 		return badInput(err)
 	}
 	pl := p.Plan()
+	shard, err := shardOf(opts.shard, os.Getenv)
+	if err != nil {
+		return err
+	}
 	if opts.plan {
-		if opts.json {
-			return writeJSON(stdout, planJSON(pl))
+		rep := planJSON(pl)
+		if shard != nil {
+			rep.Shard = &planShardJSON{Index: shard.Index, Count: shard.Count, Sections: []string{}}
+			for _, i := range pl.ShardSections(*shard) {
+				rep.Shard.Sections = append(rep.Shard.Sections, pl.Sections[i].Name)
+			}
 		}
-		return pl.Describe(stdout)
+		if opts.json {
+			return writeJSON(stdout, rep)
+		}
+		if err := pl.Describe(stdout); err != nil {
+			return err
+		}
+		if rep.Shard != nil {
+			_, err := fmt.Fprintf(stdout, "shard %s makes %d section(s): %s\n", shard, len(rep.Shard.Sections), strings.Join(rep.Shard.Sections, " "))
+			return err
+		}
+		return nil
 	}
 	h, err := opts.host.newHost(stderr, lim)
 	if err != nil {
@@ -128,7 +162,8 @@ func runPipeline(cmd *cobra.Command, path string, opts runOptions) error {
 	sum, err := pipeline.Run(cmd.Context(), pl, pipeline.RunOptions{
 		Folder: opts.out, Replace: opts.replace, Jobs: opts.jobs,
 		Preparer: pipeline.Chain{}, NewRunner: pipeline.HostRunners(h, self),
-		Done: prog.done, Limits: lim,
+		Done: prog.done, Limits: lim, Shard: shard, Resume: opts.resume,
+		Begin: func(todo int, r pipeline.ResumeReport) { prog.begin(todo, shard, r) },
 	})
 	prog.finish()
 	if sum != nil && sum.Manifest != "" {
@@ -153,6 +188,34 @@ func runPipeline(cmd *cobra.Command, path string, opts runOptions) error {
 		return &toleranceError{fmt.Sprintf("%d of %d section(s) out of tolerance against their design", n, len(sum.Sections))}
 	}
 	return nil
+}
+
+// shardOf reads --shard: "" (the whole run), K/N, auto or auto/N (from
+// the environment of a job-array task).
+func shardOf(flag string, getenv func(string) string) (*pipeline.Shard, error) {
+	switch {
+	case flag == "":
+		return nil, nil
+	case flag == "auto" || strings.HasPrefix(flag, "auto/"):
+		count := 0
+		if n, ok := strings.CutPrefix(flag, "auto/"); ok {
+			c, err := strconv.Atoi(n)
+			if err != nil || c < 1 {
+				return nil, badInputf("--shard %s: want auto or auto/N with N the number of tasks", flag)
+			}
+			count = c
+		}
+		s, err := pipeline.ShardFromEnv(getenv, count)
+		if err != nil {
+			return nil, badInputf("--shard %s: %v", flag, err)
+		}
+		return &s, nil
+	}
+	s, err := pipeline.ParseShard(flag)
+	if err != nil {
+		return nil, badInputf("--shard: %v", err)
+	}
+	return &s, nil
 }
 
 // parseOptions are the pipeline file's checks for the limits lim: its
@@ -282,6 +345,13 @@ type (
 		Folder   string            `json:"folder"`
 		Sections []planSectionJSON `json:"sections"`
 		Stages   []planStageJSON   `json:"stages"`
+		Shard    *planShardJSON    `json:"shard,omitempty"`
+	}
+	// planShardJSON is the share of one shard (run --plan --shard K/N).
+	planShardJSON struct {
+		Index    int      `json:"index"`
+		Count    int      `json:"count"`
+		Sections []string `json:"sections"`
 	}
 	planSectionJSON struct {
 		Name    string   `json:"name"`
@@ -380,6 +450,35 @@ func newProgress(w io.Writer, total int, quiet bool) *progress {
 		)
 	}
 	return p
+}
+
+// begin learns the sections to make, and says what a shard makes and
+// what a resumed run kept.
+func (p *progress) begin(todo int, shard *pipeline.Shard, r pipeline.ResumeReport) {
+	if p.quiet {
+		return
+	}
+	p.mu.Lock()
+	defer p.mu.Unlock()
+	p.total = todo
+	if p.bar != nil {
+		p.bar.ChangeMax(todo)
+	}
+	if shard != nil {
+		fmt.Fprintf(p.w, "shard %s: %d section(s) of the run's to make\n", shard, todo+r.Kept)
+	}
+	switch r.From {
+	case pipeline.ResumeCrash:
+		fmt.Fprintf(p.w, "resumed from the journal of an attempt that did not finish: %d section(s) kept, %d to make\n", r.Kept, todo)
+	case pipeline.ResumeRun:
+		fmt.Fprintf(p.w, "resumed from the earlier run in the folder: %d section(s) kept, %d to make\n", r.Kept, todo)
+	}
+	for _, why := range r.Reasons {
+		fmt.Fprintf(p.w, "  made again: %s\n", why)
+	}
+	if r.Redo > len(r.Reasons) {
+		fmt.Fprintf(p.w, "  and %d more made again\n", r.Redo-len(r.Reasons))
+	}
 }
 
 func (p *progress) done(r pipeline.SectionReport) {

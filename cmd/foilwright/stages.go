@@ -49,7 +49,7 @@ With -q it prints nothing: the exit status says whether every stage answered.`,
 	jsonFlag(cmd, &asJSON, "print the list as JSON")
 	quietFlag(cmd, &quiet, "print nothing; the exit status says whether every stage answered")
 	hf.register(cmd)
-	cmd.AddCommand(newStagesDescribeCmd())
+	cmd.AddCommand(newStagesDescribeCmd(), newStagesCheckCmd())
 	return cmd
 }
 

@@ -8,6 +8,11 @@
 // so the files are reproducible. None of this is measured data.
 //
 //	go run ./internal/demogen -out examples
+//
+// With -batch DIR it writes instead a production batch of printed rotor
+// blades, each sliced at five stations, and its pipeline file (batch.go):
+//
+//	go run ./internal/demogen -batch runs/blade-batch -blades 8 [-points 1000]
 package main
 
 import (
@@ -28,7 +33,24 @@ import (
 
 func main() {
 	out := flag.String("out", "examples", "folder that holds the example folders")
+	batch := flag.String("batch", "", "write a blade batch and its pipeline file into this folder instead")
+	blades := flag.Int("blades", 8, "with -batch: the printed blades, each sliced at 5 stations")
+	seed := flag.Uint64("seed", 1, "with -batch: the seed of the invented deviations")
+	points := flag.Int("points", batchPoints, "with -batch: the points of each slice")
 	flag.Parse()
+	if *batch != "" {
+		if *blades < 1 {
+			fail(fmt.Errorf("-blades %d: want 1 or more", *blades))
+		}
+		if *points < 100 || *points > 200000 {
+			fail(fmt.Errorf("-points %d: want 100 to 200000", *points))
+		}
+		if err := writeBatch(*batch, *blades, *points, *seed); err != nil {
+			fail(err)
+		}
+		fmt.Printf("wrote %d scans and %s\n", *blades*len(batchStations), filepath.Join(*batch, "pipeline.json"))
+		return
+	}
 	steps := []struct {
 		path string
 		fill func(io.Writer) error

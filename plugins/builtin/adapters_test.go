@@ -5,6 +5,7 @@ import (
 	"context"
 	"errors"
 	"math"
+	"reflect"
 	"slices"
 	"strings"
 	"testing"
@@ -45,9 +46,18 @@ func runStage(t *testing.T, name string, section []byte, params string) (*stage.
 	if err != nil {
 		return nil, res, err
 	}
-	doc, err := stage.DecodeResult(res.JSON)
+	// The document as the run folder holds it, read back: the same
+	// numbers, bit for bit, as the stage gave.
+	text, err := res.Document()
 	if err != nil {
 		t.Fatal(err)
+	}
+	doc, err := stage.DecodeResult(text)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !reflect.DeepEqual(doc, res.Doc) {
+		t.Errorf("%s: the written result document reads back different", name)
 	}
 	return doc, res, nil
 }

@@ -3,7 +3,6 @@ package builtin
 import (
 	"encoding/json"
 	"errors"
-	"fmt"
 	"math"
 	"time"
 
@@ -35,9 +34,12 @@ const (
 )
 
 // described returns info with the maximum number of nodes the host asked
-// for, if it did.
+// for, if it did. Every built-in stage takes its arrays packed: it reads
+// the section through Request.DecodeSection and its dependencies through
+// Request.Dep.
 func described(info stage.Info) stage.Info {
 	info.MaxNodes = stage.MaxNodesOr(info.MaxNodes)
+	info.Packed = true
 	return info
 }
 
@@ -78,7 +80,7 @@ func decode(info stage.Info, req stage.Request) (*request, error) {
 	if err != nil {
 		return nil, err
 	}
-	if n := stage.CountNodes(req.Section); info.MaxNodes > 0 && n > info.MaxNodes {
+	if n := req.NodeCount(); info.MaxNodes > 0 && n > info.MaxNodes {
 		return nil, stage.BadInputf("the section has %d nodes; %s takes at most %d (the stage-nodes limit raises it)", n, info.Name, info.MaxNodes)
 	}
 	s, err := req.DecodeSection()
@@ -96,13 +98,10 @@ func decode(info stage.Info, req stage.Request) (*request, error) {
 	return r, nil
 }
 
-// finish encodes d into a Result with the given timings.
+// finish returns d as a Result with the given timings. The document is
+// not encoded here: it crosses to the host packed, and the host writes it.
 func finish(d *stage.ResultDoc, timings map[string]time.Duration) (stage.Result, error) {
-	b, err := d.Encode()
-	if err != nil {
-		return stage.Result{}, fmt.Errorf("builtin: %w", err)
-	}
-	return stage.Result{JSON: b, Timings: timings}, nil
+	return stage.Result{Doc: d, Timings: timings}, nil
 }
 
 // cpPoints pairs the nodes with their pressure coefficients.

@@ -72,18 +72,14 @@ func (plots) Run(ctx context.Context, req stage.Request) (stage.Result, error) {
 		f, err := plot.SectionPlot(plot.SectionFrom(r.section))
 		add("section", f, err)
 	}
-	ids := make([]string, 0, len(req.Deps))
-	for id := range req.Deps {
-		ids = append(ids, id)
-	}
-	sort.Strings(ids)
+	ids := req.DepIDs()
 	nodes := r.section.Nodes
 	var polars []plot.PolarSeries
 	streamDone := !r.v.Bool("streamlines")
 	for _, id := range ids {
-		doc, err := stage.DecodeResult(req.Deps[id])
+		doc, err := req.Dep(id)
 		if err != nil {
-			return stage.Result{}, stage.BadInput(fmt.Errorf("result of %q: %w", id, err))
+			return stage.Result{}, err
 		}
 		var cases []*stage.Case
 		for _, c := range doc.Cases {

@@ -26,11 +26,24 @@ func TestPlotsStage(t *testing.T) {
 		t.Fatal(err)
 	}
 	s, _ := builtin.Lookup("plots")
+	// The results of the stages it runs after reach it decoded (as the
+	// host gives them) or as JSON text in the row form of
+	// foilwright.result/1 (as a JSON stage may give them): both draw.
+	v1 := func(d *stage.ResultDoc) []byte {
+		b, err := d.EncodeV1()
+		if err != nil {
+			t.Fatal(err)
+		}
+		return b
+	}
 	for _, format := range []string{"svg", "png"} {
-		res, err := s.Run(context.Background(), stage.Request{
-			Section: sec, Params: []byte(`{"format": "` + format + `"}`), SectionName: "test.json",
-			Deps: map[string][]byte{"vortex": vortex.JSON, "thin": thin.JSON},
-		})
+		req := stage.Request{Section: sec, Params: []byte(`{"format": "` + format + `"}`), SectionName: "test.json",
+			DepResults: map[string]*stage.ResultDoc{"vortex": vortex.Doc, "thin": thin.Doc}}
+		if format == "png" {
+			req.DepResults = nil
+			req.Deps = map[string][]byte{"vortex": v1(vortex.Doc), "thin": v1(thin.Doc)}
+		}
+		res, err := s.Run(context.Background(), req)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -82,7 +95,7 @@ func TestPlotsCpNote(t *testing.T) {
 	s, _ := builtin.Lookup("plots")
 	res, err := s.Run(context.Background(), stage.Request{
 		Section: sec, Params: []byte(`{"format": "svg", "polar": false, "section": false}`), SectionName: "test.json",
-		Deps: map[string][]byte{"vortex": vortex.JSON},
+		DepResults: map[string]*stage.ResultDoc{"vortex": vortex.Doc},
 	})
 	if err != nil {
 		t.Fatal(err)

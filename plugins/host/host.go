@@ -110,9 +110,10 @@ type Host struct {
 	self string
 	dir  string // private folder for the stages' sockets
 
-	mu     sync.Mutex
-	procs  map[*process]struct{}
-	closed bool
+	mu      sync.Mutex
+	procs   map[*process]struct{}
+	closed  bool
+	digests map[string]string // file digests by path, size and time (files.go)
 }
 
 // New returns a Host with a private socket folder (mode 0700) that Close
@@ -155,6 +156,9 @@ func New(opts Options) (*Host, error) {
 	return &Host{opts: opts, log: log, self: self, dir: dir, procs: map[*process]struct{}{}}, nil
 }
 
+// Options returns the host's options, defaults filled in.
+func (h *Host) Options() Options { return h.opts }
+
 // SocketDir returns the private folder in which stages create their
 // sockets.
 func (h *Host) SocketDir() string { return h.dir }
@@ -185,6 +189,7 @@ type process struct {
 	cmd    *exec.Cmd                   // set when go-plugin starts the process (no process groups)
 	group  atomic.Pointer[groupRunner] // set when the host starts it in a group of its own
 	tail   *ring
+	rpc    plugin.ClientProtocol
 	stage  stage.Stage
 	info   stage.Info
 	once   sync.Once
@@ -288,14 +293,18 @@ func (h *Host) start(ctx context.Context, spec Spec) (*process, error) {
 	}
 	env := h.StageEnv(spec)
 
+	log := h.log.Named("stage." + filepath.Base(spec.String()))
 	tail := newRing(StderrTail)
+	// The stage's log lines: parsed here, leniently (logline.go), not by
+	// go-plugin.
+	tail.onLine = (&lineLogger{log: log}).logLine
 	cfg := &plugin.ClientConfig{
 		HandshakeConfig:  stage.Handshake,
 		VersionedPlugins: stage.VersionedPlugins(nil),
 		AllowedProtocols: []plugin.Protocol{plugin.ProtocolGRPC},
-		Logger:           h.log.Named("stage." + filepath.Base(spec.String())),
+		Logger:           pluginLogger{log, filepath.Base(path)},
 		Stderr:           tail,
-		SyncStderr:       tail,
+		SyncStderr:       tail.quiet(),
 		SyncStdout:       io.Discard,
 		StartTimeout:     h.opts.StartTimeout,
 		AutoMTLS:         h.opts.AutoMTLS,
@@ -342,7 +351,7 @@ func (h *Host) start(ctx context.Context, spec Spec) (*process, error) {
 		p.kill()
 		return nil, fail(fmt.Errorf("%w: dispensed %T, not a stage", ErrHandshake, raw), p)
 	}
-	p.stage = st
+	p.stage, p.rpc = st, rpc
 	if c, ok := raw.(*stage.Client); ok {
 		c.SetMaxReply(h.opts.MaxReply)
 	}

@@ -2,6 +2,7 @@ package host_test
 
 import (
 	"bufio"
+	"bytes"
 	"context"
 	"crypto/sha256"
 	"encoding/hex"
@@ -12,9 +13,12 @@ import (
 	"path/filepath"
 	"strconv"
 	"strings"
+	"sync"
 	"syscall"
 	"testing"
 	"time"
+
+	"github.com/hashicorp/go-hclog"
 
 	"github.com/foilwright/foilwright/plugins/host"
 	"github.com/foilwright/foilwright/plugins/stage"
@@ -486,4 +490,52 @@ func TestNoOrphanWhenHostIsKilled(t *testing.T) {
 		syscall.Kill(pid, syscall.SIGKILL)
 		t.Fatalf("stage pid %d outlived its killed host", pid)
 	}
+}
+
+// TestStageLogLines: a stage's log lines reach the host's log at their
+// levels, whatever the fraction digits of their timestamps (a stage in
+// JavaScript writes three); other lines are debug unless prefixed.
+func TestStageLogLines(t *testing.T) {
+	var buf syncBuffer
+	log := hclog.New(&hclog.LoggerOptions{Level: hclog.Info, Output: &buf})
+	h := newHost(t, host.Options{Logger: log})
+	r := h.Runner(host.Builtin("logs"))
+	if _, err := r.Run(t.Context(), request("")); err != nil {
+		t.Fatal(err)
+	}
+	r.Close() // the lines are read by the time the process has ended
+	got := buf.String()
+	for _, want := range []string{
+		`[WARN]  stage.logs: three fraction digits: section=toy.json timestamp=2026-12-03T21:00:00.123Z`,
+		`[ERROR] stage.logs: no fraction: timestamp="2026-12-03T21:00:00.000+0100"`,
+		`[INFO]  stage.logs: six fraction digits: timestamp=2026-12-03T21:00:00.123Z`,
+		`[WARN]  stage.logs: no timestamp` + "\n",
+		`[WARN]  stage.logs: a timestamp that is not one` + "\n",
+		`[WARN]  stage.logs: [WARN] a prefixed line`,
+	} {
+		if !strings.Contains(got, want) {
+			t.Errorf("log lacks %q:\n%s", want, got)
+		}
+	}
+	if strings.Contains(got, "plain text") {
+		t.Errorf("a plain line was logged above debug:\n%s", got)
+	}
+}
+
+// syncBuffer is a bytes.Buffer safe for concurrent use.
+type syncBuffer struct {
+	mu sync.Mutex
+	b  bytes.Buffer
+}
+
+func (s *syncBuffer) Write(p []byte) (int, error) {
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	return s.b.Write(p)
+}
+
+func (s *syncBuffer) String() string {
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	return s.b.String()
 }

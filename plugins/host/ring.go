@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"encoding/json"
 	"fmt"
+	"io"
 	"sort"
 	"strings"
 	"sync"
@@ -28,6 +29,11 @@ type ring struct {
 	// than the tail.
 	partial []byte   // the line being written
 	crashed []string // lines from the first crash line, at most crashLines
+
+	// onLine, when set, gets every complete line (at most 4096 bytes of
+	// it), after the ring's lock is released.
+	onLine func(string)
+	done   []string
 }
 
 // crashLines is the most lines of a crash report kept.
@@ -35,25 +41,47 @@ const crashLines = 400
 
 func newRing(max int) *ring { return &ring{max: max} }
 
-func (r *ring) Write(p []byte) (int, error) {
+func (r *ring) Write(p []byte) (int, error) { return r.write(p, r.onLine != nil) }
+
+// quiet returns a writer into r whose lines are not passed to onLine (the
+// stage's standard streams as go-plugin forwards them, not its log).
+func (r *ring) quiet() io.Writer { return quietRing{r} }
+
+type quietRing struct{ r *ring }
+
+func (q quietRing) Write(p []byte) (int, error) { return q.r.write(p, false) }
+
+func (r *ring) write(p []byte, collect bool) (int, error) {
 	r.mu.Lock()
-	defer r.mu.Unlock()
-	r.scan(p)
+	r.scan(p, collect)
+	lines := r.done
+	r.done = nil
+	n := r.keep(p)
+	r.mu.Unlock()
+	for _, l := range lines {
+		r.onLine(l)
+	}
+	return n, nil
+}
+
+// keep appends p to the tail, dropping the oldest bytes beyond max.
+func (r *ring) keep(p []byte) int {
 	n := len(p)
 	if len(p) >= r.max {
 		p = p[len(p)-r.max:]
 		r.buf = append(r.buf[:0], p...)
-		return n, nil
+		return n
 	}
 	if over := len(r.buf) + len(p) - r.max; over > 0 {
 		r.buf = append(r.buf[:0], r.buf[over:]...)
 	}
 	r.buf = append(r.buf, p...)
-	return n, nil
+	return n
 }
 
-// scan follows the lines written for the start of a Go crash report.
-func (r *ring) scan(p []byte) {
+// scan follows the lines written for the start of a Go crash report, and
+// collects them for onLine when collect is set.
+func (r *ring) scan(p []byte, collect bool) {
 	for len(p) > 0 {
 		i := bytes.IndexByte(p, '\n')
 		if i < 0 {
@@ -68,6 +96,9 @@ func (r *ring) scan(p []byte) {
 		line := string(r.partial)
 		r.partial = r.partial[:0]
 		p = p[i+1:]
+		if collect {
+			r.done = append(r.done, line)
+		}
 		switch {
 		case r.crashed != nil && len(r.crashed) < crashLines:
 			r.crashed = append(r.crashed, line)

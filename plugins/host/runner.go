@@ -17,7 +17,7 @@ import (
 )
 
 // Reply is a checked reply of a stage: the result as received plus the
-// decoded result document.
+// decoded result document (also in Result.Doc).
 type Reply struct {
 	stage.Result
 	Doc *stage.ResultDoc
@@ -124,7 +124,7 @@ func (r *Runner) Run(ctx context.Context, req stage.Request) (*Reply, error) {
 		return nil, r.errorf(req, err)
 	}
 	if max := info.MaxNodes; max > 0 {
-		if n := stage.CountNodes(req.Section); n > max {
+		if n := req.NodeCount(); n > max {
 			return nil, r.errorf(req, fmt.Errorf("%w: the section has %d nodes; the stage takes at most %d (its description; raise the stage-nodes limit for stages that allow it)", ErrTooManyNodes, n, max))
 		}
 	}
@@ -202,7 +202,9 @@ func (r *Runner) call(ctx context.Context, p *process, info stage.Info, req stag
 		// starts a new one.
 		r.drop(p)
 		return nil, fail(fmt.Errorf("%w: no reply within %v; the process was ended", ErrTimeout, r.h.opts.CallTimeout)), false
-	case isRemote:
+	case isRemote, errors.Is(err, stage.ErrMalformed), errors.Is(err, stage.ErrBadInput):
+		// The stage's own error, a packed reply that is not well formed,
+		// or a request that could not be sent (checked before the call).
 		return nil, r.errorf(req, err), false
 	case code == codes.ResourceExhausted:
 		return nil, r.errorf(req, fmt.Errorf("%w: the reply is larger than %d MiB (the result-bytes limit): %s", ErrTooLarge, r.h.opts.MaxReply>>20, status.Convert(err).Message())), false
@@ -234,17 +236,22 @@ func (r *Runner) Close() {
 	}
 }
 
-// check checks and decodes a stage's result.
+// check checks a stage's result and decodes it when it came as JSON
+// text (a packed one was decoded and checked as it came).
 func check(info stage.Info, res stage.Result, depth int) (*Reply, error) {
-	if len(res.JSON) == 0 {
-		return nil, fmt.Errorf("%w: empty result document", stage.ErrMalformed)
-	}
-	if err := limits.CheckDepth(res.JSON, depth); err != nil {
-		return nil, fmt.Errorf("%w: result document: %v", stage.ErrMalformed, err)
-	}
-	doc, err := stage.DecodeResult(res.JSON)
-	if err != nil {
-		return nil, err
+	doc := res.Doc
+	if doc == nil {
+		if len(res.JSON) == 0 {
+			return nil, fmt.Errorf("%w: empty result document", stage.ErrMalformed)
+		}
+		if err := limits.CheckDepth(res.JSON, depth); err != nil {
+			return nil, fmt.Errorf("%w: result document: %v", stage.ErrMalformed, err)
+		}
+		var err error
+		if doc, err = stage.DecodeResult(res.JSON); err != nil {
+			return nil, err
+		}
+		res.Doc = doc
 	}
 	if doc.Stage != info.Name {
 		return nil, fmt.Errorf("%w: result of stage %q, want %q", stage.ErrMalformed, doc.Stage, info.Name)
@@ -262,4 +269,26 @@ func check(info stage.Info, res stage.Result, depth int) (*Reply, error) {
 		seen[a.Name] = true
 	}
 	return &Reply{Result: res, Doc: doc}, nil
+}
+
+// Stage returns the stage of the runner's process (started if need be) as
+// it answers, with none of the host's checks in between: for conformance
+// checks of a stage executable.
+func (r *Runner) Stage(ctx context.Context) (stage.Stage, error) {
+	p, err := r.ensure(ctx)
+	if err != nil {
+		return nil, err
+	}
+	return p.stage, nil
+}
+
+// Ping asks the health service of the runner's process (started if need
+// be) whether it serves, as go-plugin's Client.Ping does. The host does
+// not need it otherwise.
+func (r *Runner) Ping(ctx context.Context) error {
+	p, err := r.ensure(ctx)
+	if err != nil {
+		return err
+	}
+	return p.rpc.Ping()
 }

@@ -92,6 +92,20 @@ func init() {
 			}
 			return res, err
 		}})
+	// logs writes log lines to its stderr as a stage in another language
+	// does: hclog JSON with JavaScript's three fraction digits, with none,
+	// with six, without a timestamp, a prefixed line and plain text.
+	addToy(toy{name: "logs", run: func(_ context.Context, req stage.Request, _ stage.Values) (stage.Result, error) {
+		fd2 := os.NewFile(2, "stderr") // the process's stderr, not go-plugin's forwarded os.Stderr
+		fd2.WriteString(`{"@level":"warn","@message":"three fraction digits","@timestamp":"2026-12-03T21:00:00.123Z","section":"toy.json"}` + "\n" +
+			`{"@level":"error","@message":"no fraction","@timestamp":"2026-12-03T21:00:00+01:00"}` + "\n" +
+			`{"@level":"info","@message":"six fraction digits","@timestamp":"2026-12-03T21:00:00.123456Z"}` + "\n" +
+			`{"@level":"warn","@message":"no timestamp"}` + "\n" +
+			`{"@level":"warn","@message":"a timestamp that is not one","@timestamp":"yesterday"}` + "\n" +
+			"[WARN] a prefixed line\n" +
+			"plain text at debug\n")
+		return okResult(toys["logs"].info(), req)
+	}})
 	addToy(toy{name: "exit", run: func(context.Context, stage.Request, stage.Values) (stage.Result, error) {
 		sdk.Logger().Error("giving up", "why", "toy exits on every call")
 		time.Sleep(20 * time.Millisecond) // let the log line reach the host

@@ -6,7 +6,11 @@ import (
 	"fmt"
 	"math"
 	"runtime/debug"
+	"sync"
+	"sync/atomic"
 	"time"
+
+	"github.com/tidwall/gjson"
 
 	"github.com/hashicorp/go-hclog"
 	"github.com/hashicorp/go-plugin"
@@ -14,6 +18,7 @@ import (
 	"google.golang.org/grpc/codes"
 	"google.golang.org/grpc/status"
 
+	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/plugins/gen/stagev1"
 )
 
@@ -46,6 +51,7 @@ func (p *Plugin) GRPCClient(_ context.Context, _ *plugin.GRPCBroker, c *grpc.Cli
 type Client struct {
 	rpc      stagev1.StageClient
 	maxReply int
+	packed   atomic.Bool // the stage described itself Packed
 }
 
 // SetMaxReply limits the size of a Run reply, in bytes (result document
@@ -63,22 +69,27 @@ func (c *Client) Describe(ctx context.Context) (Info, error) {
 	if err != nil {
 		return Info{}, err
 	}
-	return infoFromProto(resp), nil
+	info := infoFromProto(resp)
+	c.packed.Store(info.Packed)
+	return info, nil
 }
 
-// Run calls the remote Run. It returns a *RemoteError if the stage reported
-// an error code.
+// Run calls the remote Run. It sends the nodes and the results of the
+// dependencies packed when the stage's description (from an earlier
+// Describe) says Packed, else as JSON. It returns a *RemoteError if the
+// stage reported an error code, and an error wrapping ErrMalformed if its
+// packed result is not well formed; the Result has Doc set for a packed
+// result, JSON for a result as text.
 func (c *Client) Run(ctx context.Context, req Request) (Result, error) {
 	var opts []grpc.CallOption
 	if c.maxReply > 0 {
 		opts = append(opts, grpc.MaxCallRecvMsgSize(c.maxReply))
 	}
-	resp, err := c.rpc.Run(ctx, &stagev1.RunRequest{
-		SectionJson: req.Section,
-		ParamsJson:  req.Params,
-		Deps:        req.Deps,
-		SectionName: req.SectionName,
-	}, opts...)
+	in, err := requestToProto(req, c.packed.Load())
+	if err != nil {
+		return Result{}, err
+	}
+	resp, err := c.rpc.Run(ctx, in, opts...)
 	if err != nil {
 		return Result{}, err
 	}
@@ -89,9 +100,13 @@ func (c *Client) Run(ctx context.Context, req Request) (Result, error) {
 		}
 		return Result{}, &RemoteError{Code: code, Message: msg}
 	}
-	res := Result{
-		JSON:     resp.GetResultJson(),
-		Warnings: resp.GetWarnings(),
+	res := Result{Warnings: resp.GetWarnings()}
+	if m := resp.GetResult(); m != nil {
+		if res.Doc, err = ResultFromProto(m); err != nil {
+			return Result{}, err
+		}
+	} else {
+		res.JSON = resp.GetResultJson()
 	}
 	for _, a := range resp.GetArtifacts() {
 		res.Artifacts = append(res.Artifacts, Artifact{Name: a.GetName(), MediaType: a.GetMediaType(), Data: a.GetData()})
@@ -107,6 +122,66 @@ func (c *Client) Run(ctx context.Context, req Request) (Result, error) {
 	return res, nil
 }
 
+// requestToProto makes the message of req for a stage that takes arrays
+// packed or not: a packed stage gets the nodes in node_x/node_y and the
+// section document without them, and its dependencies as Result messages;
+// another gets the whole section document and its dependencies as
+// ResultFormatV1 JSON. Errors are marked BadInput.
+func requestToProto(req Request, packed bool) (*stagev1.RunRequest, error) {
+	in := &stagev1.RunRequest{ParamsJson: req.Params, SectionName: req.SectionName, SectionJson: req.Section}
+	ids := req.DepIDs()
+	if packed {
+		nodes := req.Nodes
+		if nodes == nil || gjson.GetBytes(req.Section, "nodes").Exists() {
+			// A document whose nodes cannot be taken out goes as it is,
+			// with no packed nodes: the stage refuses it.
+			if rest, split, err := SplitNodes(req.Section); err == nil {
+				in.SectionJson = rest
+				if nodes == nil {
+					nodes = split
+				}
+			}
+		}
+		if nodes != nil {
+			in.NodeX, in.NodeY = make([]float64, len(nodes)), make([]float64, len(nodes))
+			for i, p := range nodes {
+				in.NodeX[i], in.NodeY[i] = p.X, p.Y
+			}
+		}
+		if len(ids) > 0 {
+			in.DepResults = make(map[string]*stagev1.Result, len(ids))
+			for _, id := range ids {
+				d, err := req.Dep(id)
+				if err != nil {
+					return nil, err
+				}
+				in.DepResults[id] = ResultToProto(d)
+			}
+		}
+		return in, nil
+	}
+	if req.Nodes != nil && !gjson.GetBytes(req.Section, "nodes").Exists() {
+		in.SectionJson = JoinNodes(req.Section, req.Nodes)
+	}
+	if len(ids) > 0 {
+		in.Deps = make(map[string][]byte, len(ids))
+		for _, id := range ids {
+			if b, ok := req.Deps[id]; ok && gjson.GetBytes(b, "format").Str == ResultFormatV1 {
+				in.Deps[id] = b
+				continue
+			}
+			d, err := req.Dep(id)
+			if err != nil {
+				return nil, err
+			}
+			if in.Deps[id], err = d.EncodeV1(); err != nil {
+				return nil, BadInput(err)
+			}
+		}
+	}
+	return in, nil
+}
+
 // grpcServer serves a Stage. It recovers panics of the stage per call, so a
 // panicking solver answers with ErrInternal and a message instead of taking
 // the process down.
@@ -114,6 +189,19 @@ type grpcServer struct {
 	stagev1.UnimplementedStageServer
 	impl Stage
 	log  hclog.Logger
+
+	packedOnce sync.Once
+	isPacked   bool
+}
+
+// packed reports whether the stage takes arrays packed, from its
+// description.
+func (s *grpcServer) packed(ctx context.Context) bool {
+	s.packedOnce.Do(func() {
+		info, err := s.impl.Describe(ctx)
+		s.isPacked = err == nil && info.Packed
+	})
+	return s.isPacked
 }
 
 func (s *grpcServer) logger() hclog.Logger {
@@ -148,16 +236,74 @@ func (s *grpcServer) Run(ctx context.Context, in *stagev1.RunRequest) (resp *sta
 			err = nil
 		}
 	}()
-	res, err := s.impl.Run(ctx, Request{
+	req, err := requestFromProto(in, s.packed(ctx))
+	if err == nil {
+		var res Result
+		if res, err = s.impl.Run(ctx, req); err == nil {
+			return resultToResponse(res), nil
+		}
+	}
+	return &stagev1.RunResponse{ErrorCode: stagev1.ErrorCode(CodeOf(err)), ErrorMessage: err.Error()}, nil
+}
+
+// requestFromProto makes the Request a stage gets from the message in: a
+// packed stage gets the packed nodes and dependency results as they came;
+// another gets them joined into the section document and as JSON.
+func requestFromProto(in *stagev1.RunRequest, packed bool) (Request, error) {
+	req := Request{
 		Section:     in.GetSectionJson(),
 		Params:      in.GetParamsJson(),
 		Deps:        in.GetDeps(),
 		SectionName: in.GetSectionName(),
-	})
-	if err != nil {
-		return &stagev1.RunResponse{ErrorCode: stagev1.ErrorCode(CodeOf(err)), ErrorMessage: err.Error()}, nil
 	}
-	out := &stagev1.RunResponse{ResultJson: res.JSON, Warnings: res.Warnings}
+	if xs, ys := in.GetNodeX(), in.GetNodeY(); len(xs) > 0 || len(ys) > 0 {
+		if len(xs) != len(ys) {
+			return Request{}, BadInputf("section %s: %d node_x and %d node_y", req.SectionName, len(xs), len(ys))
+		}
+		req.Nodes = make([]geometry.Point, len(xs))
+		for i := range xs {
+			req.Nodes[i] = geometry.Point{X: xs[i], Y: ys[i]}
+		}
+		if !packed {
+			req.Section, req.Nodes = JoinNodes(req.Section, req.Nodes), nil
+		}
+	}
+	if m := in.GetDepResults(); len(m) > 0 {
+		req.DepResults = make(map[string]*ResultDoc, len(m))
+		for id, r := range m {
+			d, err := ResultFromProto(r)
+			if err != nil {
+				return Request{}, BadInput(fmt.Errorf("result of %q: %w", id, err))
+			}
+			req.DepResults[id] = d
+		}
+		if !packed {
+			deps := make(map[string][]byte, len(m)+len(req.Deps))
+			for id, b := range req.Deps {
+				deps[id] = b
+			}
+			for id, d := range req.DepResults {
+				b, err := d.EncodeV1()
+				if err != nil {
+					return Request{}, BadInput(err)
+				}
+				deps[id] = b
+			}
+			req.Deps, req.DepResults = deps, nil
+		}
+	}
+	return req, nil
+}
+
+// resultToResponse makes the message of a stage's result: the result
+// document packed when the stage gave it as a ResultDoc, else its JSON.
+func resultToResponse(res Result) *stagev1.RunResponse {
+	out := &stagev1.RunResponse{Warnings: res.Warnings}
+	if res.Doc != nil {
+		out.Result = ResultToProto(res.Doc)
+	} else {
+		out.ResultJson = res.JSON
+	}
 	for _, a := range res.Artifacts {
 		out.Artifacts = append(out.Artifacts, &stagev1.Artifact{Name: a.Name, MediaType: a.MediaType, Data: a.Data})
 	}
@@ -167,7 +313,7 @@ func (s *grpcServer) Run(ctx context.Context, in *stagev1.RunRequest) (resp *sta
 			out.TimingsMs[k] = float64(d) / float64(time.Millisecond)
 		}
 	}
-	return out, nil
+	return out
 }
 
 func infoToProto(info Info) *stagev1.DescribeResponse {
@@ -177,6 +323,8 @@ func infoToProto(info Info) *stagev1.DescribeResponse {
 		Summary:        info.Summary,
 		MaxConcurrency: int32(info.MaxConcurrency),
 		MaxNodes:       int32(info.MaxNodes),
+		Packed:         info.Packed,
+		Files:          info.Files,
 	}
 	for _, p := range info.Params {
 		q := &stagev1.Parameter{
@@ -210,6 +358,8 @@ func infoFromProto(in *stagev1.DescribeResponse) Info {
 		Summary:        in.GetSummary(),
 		MaxConcurrency: int(in.GetMaxConcurrency()),
 		MaxNodes:       int(in.GetMaxNodes()),
+		Packed:         in.GetPacked(),
+		Files:          in.GetFiles(),
 	}
 	for _, q := range in.GetParameters() {
 		p := Param{

@@ -13,17 +13,46 @@ import (
 	"github.com/foilwright/foilwright/internal/limits"
 )
 
-// ResultFormat is the value of the "format" key of a result document.
-const ResultFormat = "foilwright.result/1"
+// The formats of result documents. ResultFormat is the one written;
+// DecodeResult reads both.
+//
+// In foilwright.result/1 every pressure and load point is an object,
+// "cp": [{"x": …, "y": …, "cp": …}, …]. In foilwright.result/2 the
+// distributions are columns, "cp": {"x": […], "y": […], "cp": […]} and
+// "load": {"x": […], "dcp": […]}, and the points or stations the cases
+// share are given once at the top, "cp_at": {"x": […], "y": […]} and
+// "load_at": {"x": […]}, the cases then leaving out their own "x" and "y".
+// Everything else is the same. A document a pipeline trimmed says what it
+// kept ("kept": "scalars" or "cases").
+const (
+	ResultFormat   = "foilwright.result/2"
+	ResultFormatV1 = "foilwright.result/1"
+)
 
-// ResultDoc is the result document (format foilwright.result/1) of one stage
-// run on one section. JSON has no NaN: a case that failed is null in Cases,
+// The detail of a result document a pipeline may keep (the "keep" key of
+// a stage in a pipeline file); Keeps lists them.
+const (
+	KeepScalars = "scalars" // scalars and warnings; no cases
+	KeepCases   = "cases"   // also each case's coefficients and checks; no distributions or fields
+	KeepAll     = "all"     // everything the stage gave
+)
+
+// Keeps returns the detail levels a result document may be trimmed to,
+// from the least to the most.
+func Keeps() []string { return []string{KeepScalars, KeepCases, KeepAll} }
+
+// ResultDoc is the result document of one stage run on one section. JSON
+// has no NaN: a case that failed is nil in Cases (null in the document),
 // with a warning saying why. A stage documents its scalars and checks in
 // Info.Scalars and its package documentation.
+//
+// The Go value is the same whichever format the document was read from;
+// Encode writes ResultFormat, EncodeV1 the row form of ResultFormatV1.
 type ResultDoc struct {
 	Format   string             `json:"format"`
 	Stage    string             `json:"stage"`
 	Version  string             `json:"version"`
+	Kept     string             `json:"kept,omitempty"` // "" when nothing was left out
 	Scalars  map[string]float64 `json:"scalars"`
 	Cases    []*Case            `json:"cases"`
 	Warnings []string           `json:"warnings"`
@@ -150,37 +179,72 @@ func (c *Case) nonFinite() (string, bool) {
 	return "", false
 }
 
-// Encode returns d as indented JSON followed by a newline. The output is
-// deterministic (map keys sorted). It fails on non-finite values.
+// Encode returns d as a ResultFormat document followed by a newline (see
+// ResultFormat; the cases keep what d.Kept says). The output is
+// deterministic: keys sorted, every number in the shortest form that reads
+// back to the same float64. It fails on non-finite values.
 func (d *ResultDoc) Encode() ([]byte, error) {
-	if d.Format == "" {
-		d.Format = ResultFormat
-	}
-	b, err := json.MarshalIndent(d, "", "  ")
+	return encodeV2(d)
+}
+
+// EncodeV1 returns d as an indented ResultFormatV1 document (points as
+// objects) followed by a newline, for readers that predate
+// ResultFormat. The output is deterministic. It fails on non-finite
+// values.
+func (d *ResultDoc) EncodeV1() ([]byte, error) {
+	c := *d
+	c.Format = ResultFormatV1
+	b, err := json.MarshalIndent(&c, "", "  ")
 	if err != nil {
 		return nil, fmt.Errorf("stage: encode result: %w", err)
 	}
 	return append(b, '\n'), nil
 }
 
+// Trim returns a copy of d keeping only the detail keep asks for
+// (KeepScalars, KeepCases or KeepAll; "" means KeepAll), with Kept set.
+// d is not changed; what the copy keeps is shared with d.
+func (d *ResultDoc) Trim(keep string) *ResultDoc {
+	c := *d
+	switch keep {
+	case KeepScalars:
+		c.Kept = KeepScalars
+		c.Cases = []*Case{}
+	case KeepCases:
+		if c.Kept != KeepScalars {
+			c.Kept = KeepCases
+		}
+		c.Cases = make([]*Case, len(d.Cases))
+		for i, k := range d.Cases {
+			if k != nil {
+				c.Cases[i] = &Case{AlphaDeg: k.AlphaDeg, CL: k.CL, CMc4: k.CMc4, Checks: k.Checks}
+			}
+		}
+	}
+	return &c
+}
+
 // ErrMalformed means a document received from a stage is not valid JSON or
 // not the documented format.
 var ErrMalformed = errors.New("stage: malformed reply")
 
-// DecodeResult checks and decodes a result document. It returns an error
-// wrapping ErrMalformed if data is not valid JSON, has the wrong format,
-// lacks stage or version, or has a case with no alpha_deg.
+// DecodeResult checks and decodes a result document of either format
+// (ResultFormat or ResultFormatV1). It returns an error wrapping
+// ErrMalformed if data is not valid JSON, has another format, lacks stage
+// or version, has a case with no alpha_deg, or (in ResultFormat) columns
+// of different lengths or points given nowhere.
 func DecodeResult(data []byte) (*ResultDoc, error) {
 	// The JSON checks below recurse once per level: refuse absurd nesting
-	// first (the documented format nests four levels).
+	// first (the documented formats nest four levels).
 	if err := limits.CheckDepth(data, limits.MaxJSONDepth); err != nil {
 		return nil, fmt.Errorf("%w: result: %v", ErrMalformed, err)
 	}
 	if !gjson.ValidBytes(data) {
 		return nil, fmt.Errorf("%w: result is not valid JSON (%s)", ErrMalformed, excerpt(data))
 	}
-	if f := gjson.GetBytes(data, "format"); f.Type != gjson.String || f.Str != ResultFormat {
-		return nil, fmt.Errorf("%w: result format %s, want %q", ErrMalformed, describe(f), ResultFormat)
+	f := gjson.GetBytes(data, "format")
+	if f.Type != gjson.String || f.Str != ResultFormat && f.Str != ResultFormatV1 {
+		return nil, fmt.Errorf("%w: result format %s, want %q or %q", ErrMalformed, describe(f), ResultFormat, ResultFormatV1)
 	}
 	for _, k := range []string{"stage", "version"} {
 		if v := gjson.GetBytes(data, k); v.Type != gjson.String || v.Str == "" {
@@ -206,9 +270,17 @@ func DecodeResult(data []byte) (*ResultDoc, error) {
 	if bad != nil {
 		return nil, bad
 	}
-	var d ResultDoc
-	if err := json.NewDecoder(bytes.NewReader(data)).Decode(&d); err != nil {
-		return nil, fmt.Errorf("%w: result: %v", ErrMalformed, err)
+	var d *ResultDoc
+	if f.Str == ResultFormatV1 {
+		d = &ResultDoc{}
+		if err := json.NewDecoder(bytes.NewReader(data)).Decode(d); err != nil {
+			return nil, fmt.Errorf("%w: result: %v", ErrMalformed, err)
+		}
+	} else {
+		var err error
+		if d, err = decodeV2(data); err != nil {
+			return nil, err
+		}
 	}
 	if d.Scalars == nil {
 		d.Scalars = map[string]float64{}
@@ -219,7 +291,10 @@ func DecodeResult(data []byte) (*ResultDoc, error) {
 	if d.Warnings == nil {
 		d.Warnings = []string{}
 	}
-	return &d, nil
+	if d.Kept != "" && d.Kept != KeepScalars && d.Kept != KeepCases {
+		return nil, fmt.Errorf("%w: result kept is %q, want %q or %q", ErrMalformed, d.Kept, KeepScalars, KeepCases)
+	}
+	return d, nil
 }
 
 // describe says what a gjson value is, for messages.

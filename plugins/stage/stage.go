@@ -3,12 +3,15 @@ package stage
 import (
 	"bytes"
 	"context"
+	"fmt"
 	"os"
+	"sort"
 	"strconv"
 	"time"
 
 	"github.com/tidwall/gjson"
 
+	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/section"
 )
 
@@ -37,6 +40,18 @@ type Info struct {
 	// maximum). The host refuses a larger section before calling Run; a
 	// stage also checks it itself. Built-in stages honour MaxNodesEnv.
 	MaxNodes int
+	// Packed says the stage reads a request's nodes from Request.Nodes
+	// when they are there (Request.DecodeSection does) and its
+	// dependencies through Request.Dep: the host then sends numeric
+	// arrays packed, not as JSON text. A stage that parses
+	// Request.Section or Request.Deps itself leaves it false.
+	Packed bool
+	// Files are the files the stage runs from besides its executable
+	// (modules of a script, data, a lock file; a folder stands for all
+	// below it), as slash paths relative to the executable's folder. The
+	// host hashes them for the manifest. Go stages, one static binary,
+	// leave it empty.
+	Files []string
 }
 
 // MaxNodesEnv is the environment variable the host sets when the user set
@@ -63,23 +78,41 @@ type Scalar struct {
 // Request is the input of one Run call.
 type Request struct {
 	// Section is the section document (foilwright.section/1), as JSON.
+	// When Nodes is set it may lack "nodes" (SplitNodes takes them out).
 	Section []byte
+	// Nodes, when not nil, are the section's nodes, Section's "nodes" if
+	// it has them. The host sends them packed to a stage that describes
+	// itself Packed.
+	Nodes []geometry.Point
 	// Params is a JSON object of parameters; nil or empty means {}.
 	Params []byte
-	// Deps holds the result documents of the stages this one depends on,
-	// by stage id.
-	Deps map[string][]byte
+	// Deps holds the result documents (JSON) of the stages this one
+	// depends on, by stage id; DepResults the same decoded. A stage reads
+	// either through Dep.
+	Deps       map[string][]byte
+	DepResults map[string]*ResultDoc
 	// SectionName is a display name for the section (a file name), used in
 	// messages only.
 	SectionName string
 }
 
-// DecodeSection decodes the section document of r. Errors are marked
-// BadInput and name r.SectionName.
+// DecodeSection decodes the section document of r, with r.Nodes when they
+// are set. Errors are marked BadInput and name r.SectionName.
 func (r Request) DecodeSection() (*section.Section, error) {
 	name := r.SectionName
 	if name == "" {
 		name = "section"
+	}
+	if r.Nodes != nil {
+		rest := r.Section
+		if gjson.GetBytes(rest, "nodes").Exists() {
+			var err error
+			if rest, _, err = SplitNodes(rest); err != nil {
+				return nil, BadInput(fmt.Errorf("%s: %w", name, err))
+			}
+		}
+		s, err := decodePacked(rest, r.Nodes, name)
+		return s, BadInput(err)
 	}
 	s, err := section.Read(bytes.NewReader(r.Section), name)
 	if err != nil {
@@ -88,9 +121,56 @@ func (r Request) DecodeSection() (*section.Section, error) {
 	return s, nil
 }
 
+// NodeCount returns the number of section nodes of r, -1 when it has
+// none.
+func (r Request) NodeCount() int {
+	if r.Nodes != nil {
+		return len(r.Nodes)
+	}
+	return CountNodes(r.Section)
+}
+
+// DepIDs returns the ids of the stages whose results r carries, sorted.
+func (r Request) DepIDs() []string {
+	ids := make([]string, 0, len(r.Deps)+len(r.DepResults))
+	for id := range r.DepResults {
+		ids = append(ids, id)
+	}
+	for id := range r.Deps {
+		if _, ok := r.DepResults[id]; !ok {
+			ids = append(ids, id)
+		}
+	}
+	sort.Strings(ids)
+	return ids
+}
+
+// Dep returns the result document of the stage id this one depends on,
+// decoded from Deps when it is not in DepResults. Errors are marked
+// BadInput.
+func (r Request) Dep(id string) (*ResultDoc, error) {
+	if d, ok := r.DepResults[id]; ok && d != nil {
+		return d, nil
+	}
+	b, ok := r.Deps[id]
+	if !ok {
+		return nil, BadInputf("no result of stage %q", id)
+	}
+	d, err := DecodeResult(b)
+	if err != nil {
+		return nil, BadInput(fmt.Errorf("result of %q: %w", id, err))
+	}
+	return d, nil
+}
+
 // Result is the output of one Run call.
 type Result struct {
-	// JSON is the result document (foilwright.result/1).
+	// Doc is the result document. A stage sets Doc (the host receives its
+	// arrays packed) or JSON; the host sets both Doc and, when the stage
+	// answered with JSON text, JSON.
+	Doc *ResultDoc
+	// JSON is the result document as JSON text (foilwright.result/1 or
+	// /2), from a stage that gives it as text.
 	JSON      []byte
 	Artifacts []Artifact
 	Warnings  []string
@@ -98,6 +178,28 @@ type Result struct {
 	// ("build", "factor", "solve", "total"). They are not part of the result
 	// document, which stays reproducible byte for byte.
 	Timings map[string]time.Duration
+}
+
+// Document returns the result document as JSON text: JSON when the stage
+// answered with text, else Doc encoded in ResultFormat.
+func (r Result) Document() ([]byte, error) {
+	if len(r.JSON) > 0 || r.Doc == nil {
+		return r.JSON, nil
+	}
+	return r.Doc.Encode()
+}
+
+// DocumentV1 returns the result document as ResultFormatV1 JSON (points
+// as objects, ResultDoc.EncodeV1), for readers that predate ResultFormat.
+func (r Result) DocumentV1() ([]byte, error) {
+	doc := r.Doc
+	if doc == nil {
+		var err error
+		if doc, err = DecodeResult(r.JSON); err != nil {
+			return nil, err
+		}
+	}
+	return doc.EncodeV1()
 }
 
 // Artifact is a named file a stage returns for the host to write.

@@ -9,6 +9,14 @@
 // Run checks the stage both as a plain Go value and through real gRPC with
 // the in-process harness Connect, which uses the same adapters as a stage
 // process but no handshake, environment or process.
+//
+// A stage in any language is checked as an executable, started as
+// foilwright starts it (CheckExecutable; "foilwright stages check PATH"
+// on the command line):
+//
+//	func TestExecutable(t *testing.T) {
+//		stagetest.RunExecutable(t, "./my-stage")
+//	}
 package stagetest
 
 import (
@@ -27,6 +35,7 @@ import (
 
 	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/geometry/shape"
+	"github.com/foilwright/foilwright/plugins/host"
 	"github.com/foilwright/foilwright/plugins/stage"
 )
 
@@ -44,6 +53,10 @@ type Options struct {
 	Concurrent int
 	// Timeout limits each call; 0 means 30 s.
 	Timeout time.Duration
+	// Host configures the host CheckExecutable starts the stage with (its
+	// timeouts, limits and logger); the zero value is the host's
+	// defaults. Check does not use it.
+	Host host.Options
 }
 
 // Section returns a section document of a NACA 0012 section with a sharp
@@ -163,7 +176,7 @@ func (c *checker) run() {
 	if !ok {
 		return
 	}
-	if again, ok := c.good("second run", c.opts.Params); ok && !bytes.Equal(again.JSON, good.JSON) {
+	if again, ok := c.good("second run", c.opts.Params); ok && !bytes.Equal(text(again), text(good)) {
 		c.fail("Run is not deterministic: two runs of the same request gave different result documents")
 	}
 	c.checkDefaults(good)
@@ -171,6 +184,15 @@ func (c *checker) run() {
 	c.checkBadSections()
 	c.checkConcurrent(good)
 	c.checkCancel()
+}
+
+// text is the result document of res as JSON text, for comparisons.
+func text(res stage.Result) []byte {
+	b, err := res.Document()
+	if err != nil {
+		return []byte(err.Error())
+	}
+	return b
 }
 
 // normalInfo makes empty and nil slices compare equal.
@@ -196,9 +218,15 @@ func (c *checker) good(what string, params []byte) (stage.Result, bool) {
 		c.fail("%s: Run on a good section with parameters %s: %v", what, params, err)
 		return res, false
 	}
-	doc, err := stage.DecodeResult(res.JSON)
-	if err != nil {
-		c.fail("%s: %v", what, err)
+	doc := res.Doc
+	if doc == nil {
+		var err error
+		if doc, err = stage.DecodeResult(res.JSON); err != nil {
+			c.fail("%s: %v", what, err)
+			return res, false
+		}
+	} else if _, err := doc.Encode(); err != nil {
+		c.fail("%s: the result document cannot be written: %v", what, err)
 		return res, false
 	}
 	if doc.Stage != c.info.Name || doc.Version != c.info.Version {
@@ -253,7 +281,7 @@ func (c *checker) checkDefaults(good stage.Result) {
 		return
 	}
 	b, _ := json.Marshal(params)
-	if res, ok := c.good("defaults given explicitly", b); ok && !bytes.Equal(res.JSON, good.JSON) {
+	if res, ok := c.good("defaults given explicitly", b); ok && !bytes.Equal(text(res), text(good)) {
 		c.fail("parameters given at their defaults (%s) changed the result", b)
 	}
 }
@@ -337,7 +365,7 @@ func (c *checker) checkConcurrent(good stage.Result) {
 	for i := range n {
 		if errs[i] != nil {
 			c.fail("concurrent call %d: %v", i, errs[i])
-		} else if !bytes.Equal(results[i].JSON, good.JSON) {
+		} else if !bytes.Equal(text(results[i]), text(good)) {
 			c.fail("concurrent call %d gave a different result document", i)
 		}
 	}

@@ -2,8 +2,24 @@
 //
 // A stage is a child process that speaks this service over gRPC through
 // go-plugin. Documents travel as UTF-8 JSON in *_json fields, exactly in the
-// formats the project documents (foilwright.section/1, foilwright.result/1),
-// so a stage in any language needs only a JSON parser and these stubs.
+// formats the project documents (foilwright.section/1, foilwright.result/1
+// and /2), so a stage in any language needs only a JSON parser and these
+// stubs.
+//
+// Numeric arrays may instead cross as packed numbers (repeated double, which
+// proto3 packs: 8 bytes a number, no text to format or parse), which is what
+// makes a call cheap beside the solver's own time:
+//
+//   - a stage that sets DescribeResponse.packed gets the section's nodes in
+//     RunRequest.node_x/node_y (section_json then has no "nodes" key) and
+//     the results of the stages it runs after in RunRequest.dep_results
+//     (deps is then empty);
+//   - any stage may answer with RunResponse.result (a Result message: the
+//     result document with its arrays packed) instead of result_json.
+//
+// A stage that does neither keeps working unchanged: it gets the full
+// section document and its dependencies as foilwright.result/1 JSON, and
+// its result_json is read as before.
 //
 // Compatibility: add fields and RPCs freely; never renumber or retype a
 // field. An incompatible change bumps the handshake protocol version.
@@ -144,7 +160,20 @@ type DescribeResponse struct {
 	Scalars []*Scalar `protobuf:"bytes,6,rep,name=scalars,proto3" json:"scalars,omitempty"`
 	// Most section nodes the stage takes; 0 means it states no maximum. The
 	// host refuses a larger section before calling Run.
-	MaxNodes      int32 `protobuf:"varint,7,opt,name=max_nodes,json=maxNodes,proto3" json:"max_nodes,omitempty"`
+	MaxNodes int32 `protobuf:"varint,7,opt,name=max_nodes,json=maxNodes,proto3" json:"max_nodes,omitempty"`
+	// The stage takes numeric arrays packed: the section's nodes in
+	// RunRequest.node_x/node_y and the results it depends on in
+	// RunRequest.dep_results (see RunRequest). False: the section document
+	// with its nodes in section_json, and deps as foilwright.result/1 JSON.
+	Packed bool `protobuf:"varint,8,opt,name=packed,proto3" json:"packed,omitempty"`
+	// Files the stage runs from besides its executable, as slash paths
+	// relative to the executable's folder: the script's modules, a data
+	// file, a package lock, "node_modules" (a folder stands for every file
+	// below it). The host hashes them (sha256) and the manifest of a run
+	// records them with the interpreter a "#!" line names, so that a run
+	// records what actually ran, not only a wrapper. Paths may not leave the
+	// executable's folder.
+	Files         []string `protobuf:"bytes,9,rep,name=files,proto3" json:"files,omitempty"`
 	unknownFields protoimpl.UnknownFields
 	sizeCache     protoimpl.SizeCache
 }
@@ -226,6 +255,20 @@ func (x *DescribeResponse) GetMaxNodes() int32 {
 		return x.MaxNodes
 	}
 	return 0
+}
+
+func (x *DescribeResponse) GetPacked() bool {
+	if x != nil {
+		return x.Packed
+	}
+	return false
+}
+
+func (x *DescribeResponse) GetFiles() []string {
+	if x != nil {
+		return x.Files
+	}
+	return nil
 }
 
 // Parameter describes one key of the params_json object of a RunRequest.
@@ -422,14 +465,30 @@ func (x *Scalar) GetDoc() string {
 
 type RunRequest struct {
 	state protoimpl.MessageState `protogen:"open.v1"`
-	// The section document (foilwright.section/1).
+	// The section document (foilwright.section/1). For a packed stage it has
+	// no "nodes" key: the nodes are node_x/node_y.
 	SectionJson []byte `protobuf:"bytes,1,opt,name=section_json,json=sectionJson,proto3" json:"section_json,omitempty"`
-	// A JSON object of parameters, as described by Describe.
+	// A JSON object of parameters, as the user wrote it (defaults not filled
+	// in): the stage fills in defaults and refuses unknown, mistyped and
+	// out-of-range parameters with ERROR_CODE_BAD_INPUT itself.
 	ParamsJson []byte `protobuf:"bytes,2,opt,name=params_json,json=paramsJson,proto3" json:"params_json,omitempty"`
-	// Result documents of the stages this one depends on, by stage id.
+	// Result documents (foilwright.result/1 JSON) of the stages this one
+	// depends on, by stage id; empty for a packed stage.
 	Deps map[string][]byte `protobuf:"bytes,3,rep,name=deps,proto3" json:"deps,omitempty" protobuf_key:"bytes,1,opt,name=key" protobuf_val:"bytes,2,opt,name=value"`
 	// Display name of the section (a file name), for messages only.
-	SectionName   string `protobuf:"bytes,4,opt,name=section_name,json=sectionName,proto3" json:"section_name,omitempty"`
+	SectionName string `protobuf:"bytes,4,opt,name=section_name,json=sectionName,proto3" json:"section_name,omitempty"`
+	// For a packed stage: the section's nodes, x and y of node i at index i,
+	// in the section document's node order (chord units, normalised frame;
+	// trailing edge, upper surface, leading edge, lower surface, trailing
+	// edge). Both have the same length. Empty when the section document has
+	// no nodes to take out (it is then sent as it is): the stage refuses
+	// such a section with ERROR_CODE_BAD_INPUT, as it does a section_json
+	// that is not a foilwright.section/1 document.
+	NodeX []float64 `protobuf:"fixed64,5,rep,packed,name=node_x,json=nodeX,proto3" json:"node_x,omitempty"`
+	NodeY []float64 `protobuf:"fixed64,6,rep,packed,name=node_y,json=nodeY,proto3" json:"node_y,omitempty"`
+	// For a packed stage: the results of the stages it depends on, by stage
+	// id.
+	DepResults    map[string]*Result `protobuf:"bytes,7,rep,name=dep_results,json=depResults,proto3" json:"dep_results,omitempty" protobuf_key:"bytes,1,opt,name=key" protobuf_val:"bytes,2,opt,name=value"`
 	unknownFields protoimpl.UnknownFields
 	sizeCache     protoimpl.SizeCache
 }
@@ -490,6 +549,27 @@ func (x *RunRequest) GetSectionName() string {
 		return x.SectionName
 	}
 	return ""
+}
+
+func (x *RunRequest) GetNodeX() []float64 {
+	if x != nil {
+		return x.NodeX
+	}
+	return nil
+}
+
+func (x *RunRequest) GetNodeY() []float64 {
+	if x != nil {
+		return x.NodeY
+	}
+	return nil
+}
+
+func (x *RunRequest) GetDepResults() map[string]*Result {
+	if x != nil {
+		return x.DepResults
+	}
+	return nil
 }
 
 type Artifact struct {
@@ -554,7 +634,8 @@ func (x *Artifact) GetData() []byte {
 
 type RunResponse struct {
 	state protoimpl.MessageState `protogen:"open.v1"`
-	// The result document (foilwright.result/1); empty when error_code is set.
+	// The result document as JSON (foilwright.result/1 or /2); empty when
+	// error_code is set or result is given.
 	ResultJson   []byte      `protobuf:"bytes,1,opt,name=result_json,json=resultJson,proto3" json:"result_json,omitempty"`
 	Artifacts    []*Artifact `protobuf:"bytes,2,rep,name=artifacts,proto3" json:"artifacts,omitempty"`
 	Warnings     []string    `protobuf:"bytes,3,rep,name=warnings,proto3" json:"warnings,omitempty"`
@@ -563,7 +644,10 @@ type RunResponse struct {
 	// Wall-clock time spent in named phases of the run ("build", "factor",
 	// "solve", "total"), in milliseconds. Not part of the result document, so
 	// that results stay reproducible byte for byte.
-	TimingsMs     map[string]float64 `protobuf:"bytes,6,rep,name=timings_ms,json=timingsMs,proto3" json:"timings_ms,omitempty" protobuf_key:"bytes,1,opt,name=key" protobuf_val:"fixed64,2,opt,name=value"`
+	TimingsMs map[string]float64 `protobuf:"bytes,6,rep,name=timings_ms,json=timingsMs,proto3" json:"timings_ms,omitempty" protobuf_key:"bytes,1,opt,name=key" protobuf_val:"fixed64,2,opt,name=value"`
+	// The result document with its arrays packed, in place of result_json
+	// (which is then empty). The host reads this when it is set.
+	Result        *Result `protobuf:"bytes,7,opt,name=result,proto3" json:"result,omitempty"`
 	unknownFields protoimpl.UnknownFields
 	sizeCache     protoimpl.SizeCache
 }
@@ -640,12 +724,386 @@ func (x *RunResponse) GetTimingsMs() map[string]float64 {
 	return nil
 }
 
+func (x *RunResponse) GetResult() *Result {
+	if x != nil {
+		return x.Result
+	}
+	return nil
+}
+
+// Result is a result document with its numeric arrays packed. It holds
+// what a foilwright.result/2 document holds, key for key; the host writes
+// it to the run folder as that document. Every number must be finite
+// (NaN and infinities are refused: report a failed case with failed and a
+// warning), except the values of a Field, where NaN marks a point with no
+// value.
+type Result struct {
+	state protoimpl.MessageState `protogen:"open.v1"`
+	// The stage's name and version, as in DescribeResponse.
+	Stage   string `protobuf:"bytes,1,opt,name=stage,proto3" json:"stage,omitempty"`
+	Version string `protobuf:"bytes,2,opt,name=version,proto3" json:"version,omitempty"`
+	// The scalars, each declared in DescribeResponse.scalars.
+	Scalars map[string]float64 `protobuf:"bytes,3,rep,name=scalars,proto3" json:"scalars,omitempty" protobuf_key:"bytes,1,opt,name=key" protobuf_val:"fixed64,2,opt,name=value"`
+	// One case per angle of attack asked for, in the order asked.
+	Cases    []*Case  `protobuf:"bytes,4,rep,name=cases,proto3" json:"cases,omitempty"`
+	Warnings []string `protobuf:"bytes,5,rep,name=warnings,proto3" json:"warnings,omitempty"`
+	// The surface points at which Cp is given, when every case with a
+	// pressure distribution gives it at the same points (the usual case: the
+	// nodes, or the panels' midpoints). A case that gives its own points
+	// sets Case.cp_x/cp_y instead.
+	CpX []float64 `protobuf:"fixed64,6,rep,packed,name=cp_x,json=cpX,proto3" json:"cp_x,omitempty"`
+	CpY []float64 `protobuf:"fixed64,7,rep,packed,name=cp_y,json=cpY,proto3" json:"cp_y,omitempty"`
+	// The chord stations at which the load is given, when every case with a
+	// load gives it at the same stations; else Case.load_x.
+	LoadX []float64 `protobuf:"fixed64,8,rep,packed,name=load_x,json=loadX,proto3" json:"load_x,omitempty"`
+	// The names of the cases' self-checks (Case.checks), each once, in the
+	// order of every case's values.
+	CheckNames    []string `protobuf:"bytes,9,rep,name=check_names,json=checkNames,proto3" json:"check_names,omitempty"`
+	unknownFields protoimpl.UnknownFields
+	sizeCache     protoimpl.SizeCache
+}
+
+func (x *Result) Reset() {
+	*x = Result{}
+	mi := &file_stage_v1_stage_proto_msgTypes[7]
+	ms := protoimpl.X.MessageStateOf(protoimpl.Pointer(x))
+	ms.StoreMessageInfo(mi)
+}
+
+func (x *Result) String() string {
+	return protoimpl.X.MessageStringOf(x)
+}
+
+func (*Result) ProtoMessage() {}
+
+func (x *Result) ProtoReflect() protoreflect.Message {
+	mi := &file_stage_v1_stage_proto_msgTypes[7]
+	if x != nil {
+		ms := protoimpl.X.MessageStateOf(protoimpl.Pointer(x))
+		if ms.LoadMessageInfo() == nil {
+			ms.StoreMessageInfo(mi)
+		}
+		return ms
+	}
+	return mi.MessageOf(x)
+}
+
+// Deprecated: Use Result.ProtoReflect.Descriptor instead.
+func (*Result) Descriptor() ([]byte, []int) {
+	return file_stage_v1_stage_proto_rawDescGZIP(), []int{7}
+}
+
+func (x *Result) GetStage() string {
+	if x != nil {
+		return x.Stage
+	}
+	return ""
+}
+
+func (x *Result) GetVersion() string {
+	if x != nil {
+		return x.Version
+	}
+	return ""
+}
+
+func (x *Result) GetScalars() map[string]float64 {
+	if x != nil {
+		return x.Scalars
+	}
+	return nil
+}
+
+func (x *Result) GetCases() []*Case {
+	if x != nil {
+		return x.Cases
+	}
+	return nil
+}
+
+func (x *Result) GetWarnings() []string {
+	if x != nil {
+		return x.Warnings
+	}
+	return nil
+}
+
+func (x *Result) GetCpX() []float64 {
+	if x != nil {
+		return x.CpX
+	}
+	return nil
+}
+
+func (x *Result) GetCpY() []float64 {
+	if x != nil {
+		return x.CpY
+	}
+	return nil
+}
+
+func (x *Result) GetLoadX() []float64 {
+	if x != nil {
+		return x.LoadX
+	}
+	return nil
+}
+
+func (x *Result) GetCheckNames() []string {
+	if x != nil {
+		return x.CheckNames
+	}
+	return nil
+}
+
+// Case is the result at one angle of attack. Coefficients follow the
+// project's conventions: cm_c4 about the quarter chord, positive nose-up;
+// Cp = 1 - (V/Vinf)^2; lengths in chord units, normalised frame.
+type Case struct {
+	state protoimpl.MessageState `protogen:"open.v1"`
+	// The case failed (the result document holds null for it); a warning
+	// says why. The other fields are then ignored.
+	Failed   bool    `protobuf:"varint,1,opt,name=failed,proto3" json:"failed,omitempty"`
+	AlphaDeg float64 `protobuf:"fixed64,2,opt,name=alpha_deg,json=alphaDeg,proto3" json:"alpha_deg,omitempty"`
+	Cl       float64 `protobuf:"fixed64,3,opt,name=cl,proto3" json:"cl,omitempty"`
+	CmC4     float64 `protobuf:"fixed64,4,opt,name=cm_c4,json=cmC4,proto3" json:"cm_c4,omitempty"`
+	// The self-checks the stage documents, one value per name of
+	// Result.check_names, in that order; NaN where the case has no such
+	// check. Empty when the case has none.
+	Checks []float64 `protobuf:"fixed64,5,rep,packed,name=checks,proto3" json:"checks,omitempty"`
+	// The pressure coefficient at the points cp_x/cp_y of this case, or, when
+	// those are empty, at Result.cp_x/cp_y; the same length as the points.
+	Cp  []float64 `protobuf:"fixed64,6,rep,packed,name=cp,proto3" json:"cp,omitempty"`
+	CpX []float64 `protobuf:"fixed64,7,rep,packed,name=cp_x,json=cpX,proto3" json:"cp_x,omitempty"`
+	CpY []float64 `protobuf:"fixed64,8,rep,packed,name=cp_y,json=cpY,proto3" json:"cp_y,omitempty"`
+	// The chordwise load, dCp = Cp,lower - Cp,upper, at the stations load_x
+	// of this case or, when that is empty, at Result.load_x.
+	LoadDcp []float64 `protobuf:"fixed64,9,rep,packed,name=load_dcp,json=loadDcp,proto3" json:"load_dcp,omitempty"`
+	LoadX   []float64 `protobuf:"fixed64,10,rep,packed,name=load_x,json=loadX,proto3" json:"load_x,omitempty"`
+	// The flow on a grid around the section, when asked for.
+	Field         *Field `protobuf:"bytes,11,opt,name=field,proto3" json:"field,omitempty"`
+	unknownFields protoimpl.UnknownFields
+	sizeCache     protoimpl.SizeCache
+}
+
+func (x *Case) Reset() {
+	*x = Case{}
+	mi := &file_stage_v1_stage_proto_msgTypes[8]
+	ms := protoimpl.X.MessageStateOf(protoimpl.Pointer(x))
+	ms.StoreMessageInfo(mi)
+}
+
+func (x *Case) String() string {
+	return protoimpl.X.MessageStringOf(x)
+}
+
+func (*Case) ProtoMessage() {}
+
+func (x *Case) ProtoReflect() protoreflect.Message {
+	mi := &file_stage_v1_stage_proto_msgTypes[8]
+	if x != nil {
+		ms := protoimpl.X.MessageStateOf(protoimpl.Pointer(x))
+		if ms.LoadMessageInfo() == nil {
+			ms.StoreMessageInfo(mi)
+		}
+		return ms
+	}
+	return mi.MessageOf(x)
+}
+
+// Deprecated: Use Case.ProtoReflect.Descriptor instead.
+func (*Case) Descriptor() ([]byte, []int) {
+	return file_stage_v1_stage_proto_rawDescGZIP(), []int{8}
+}
+
+func (x *Case) GetFailed() bool {
+	if x != nil {
+		return x.Failed
+	}
+	return false
+}
+
+func (x *Case) GetAlphaDeg() float64 {
+	if x != nil {
+		return x.AlphaDeg
+	}
+	return 0
+}
+
+func (x *Case) GetCl() float64 {
+	if x != nil {
+		return x.Cl
+	}
+	return 0
+}
+
+func (x *Case) GetCmC4() float64 {
+	if x != nil {
+		return x.CmC4
+	}
+	return 0
+}
+
+func (x *Case) GetChecks() []float64 {
+	if x != nil {
+		return x.Checks
+	}
+	return nil
+}
+
+func (x *Case) GetCp() []float64 {
+	if x != nil {
+		return x.Cp
+	}
+	return nil
+}
+
+func (x *Case) GetCpX() []float64 {
+	if x != nil {
+		return x.CpX
+	}
+	return nil
+}
+
+func (x *Case) GetCpY() []float64 {
+	if x != nil {
+		return x.CpY
+	}
+	return nil
+}
+
+func (x *Case) GetLoadDcp() []float64 {
+	if x != nil {
+		return x.LoadDcp
+	}
+	return nil
+}
+
+func (x *Case) GetLoadX() []float64 {
+	if x != nil {
+		return x.LoadX
+	}
+	return nil
+}
+
+func (x *Case) GetField() *Field {
+	if x != nil {
+		return x.Field
+	}
+	return nil
+}
+
+// Field is the flow of one case on a regular grid in chord units: point
+// (i, j) is (x0 + i*dx, y0 + j*dy), values stored row by row (j outer),
+// nx*ny of each. NaN marks a point inside the body or too near the
+// surface to evaluate (null in the result document).
+type Field struct {
+	state protoimpl.MessageState `protogen:"open.v1"`
+	X0    float64                `protobuf:"fixed64,1,opt,name=x0,proto3" json:"x0,omitempty"`
+	Y0    float64                `protobuf:"fixed64,2,opt,name=y0,proto3" json:"y0,omitempty"`
+	Dx    float64                `protobuf:"fixed64,3,opt,name=dx,proto3" json:"dx,omitempty"`
+	Dy    float64                `protobuf:"fixed64,4,opt,name=dy,proto3" json:"dy,omitempty"`
+	Nx    int32                  `protobuf:"varint,5,opt,name=nx,proto3" json:"nx,omitempty"`
+	Ny    int32                  `protobuf:"varint,6,opt,name=ny,proto3" json:"ny,omitempty"`
+	// Stream function psi/(Vinf c), defined up to a constant.
+	Psi           []float64 `protobuf:"fixed64,7,rep,packed,name=psi,proto3" json:"psi,omitempty"`
+	Cp            []float64 `protobuf:"fixed64,8,rep,packed,name=cp,proto3" json:"cp,omitempty"`
+	unknownFields protoimpl.UnknownFields
+	sizeCache     protoimpl.SizeCache
+}
+
+func (x *Field) Reset() {
+	*x = Field{}
+	mi := &file_stage_v1_stage_proto_msgTypes[9]
+	ms := protoimpl.X.MessageStateOf(protoimpl.Pointer(x))
+	ms.StoreMessageInfo(mi)
+}
+
+func (x *Field) String() string {
+	return protoimpl.X.MessageStringOf(x)
+}
+
+func (*Field) ProtoMessage() {}
+
+func (x *Field) ProtoReflect() protoreflect.Message {
+	mi := &file_stage_v1_stage_proto_msgTypes[9]
+	if x != nil {
+		ms := protoimpl.X.MessageStateOf(protoimpl.Pointer(x))
+		if ms.LoadMessageInfo() == nil {
+			ms.StoreMessageInfo(mi)
+		}
+		return ms
+	}
+	return mi.MessageOf(x)
+}
+
+// Deprecated: Use Field.ProtoReflect.Descriptor instead.
+func (*Field) Descriptor() ([]byte, []int) {
+	return file_stage_v1_stage_proto_rawDescGZIP(), []int{9}
+}
+
+func (x *Field) GetX0() float64 {
+	if x != nil {
+		return x.X0
+	}
+	return 0
+}
+
+func (x *Field) GetY0() float64 {
+	if x != nil {
+		return x.Y0
+	}
+	return 0
+}
+
+func (x *Field) GetDx() float64 {
+	if x != nil {
+		return x.Dx
+	}
+	return 0
+}
+
+func (x *Field) GetDy() float64 {
+	if x != nil {
+		return x.Dy
+	}
+	return 0
+}
+
+func (x *Field) GetNx() int32 {
+	if x != nil {
+		return x.Nx
+	}
+	return 0
+}
+
+func (x *Field) GetNy() int32 {
+	if x != nil {
+		return x.Ny
+	}
+	return 0
+}
+
+func (x *Field) GetPsi() []float64 {
+	if x != nil {
+		return x.Psi
+	}
+	return nil
+}
+
+func (x *Field) GetCp() []float64 {
+	if x != nil {
+		return x.Cp
+	}
+	return nil
+}
+
 var File_stage_v1_stage_proto protoreflect.FileDescriptor
 
 const file_stage_v1_stage_proto_rawDesc = "" +
 	"\n" +
 	"\x14stage/v1/stage.proto\x12\bstage.v1\"\x11\n" +
-	"\x0fDescribeRequest\"\x81\x02\n" +
+	"\x0fDescribeRequest\"\xaf\x02\n" +
 	"\x10DescribeResponse\x12\x12\n" +
 	"\x04name\x18\x01 \x01(\tR\x04name\x12\x18\n" +
 	"\aversion\x18\x02 \x01(\tR\aversion\x12\x18\n" +
@@ -655,7 +1113,9 @@ const file_stage_v1_stage_proto_rawDesc = "" +
 	"parameters\x12'\n" +
 	"\x0fmax_concurrency\x18\x05 \x01(\x05R\x0emaxConcurrency\x12*\n" +
 	"\ascalars\x18\x06 \x03(\v2\x10.stage.v1.ScalarR\ascalars\x12\x1b\n" +
-	"\tmax_nodes\x18\a \x01(\x05R\bmaxNodes\"\xa6\x02\n" +
+	"\tmax_nodes\x18\a \x01(\x05R\bmaxNodes\x12\x16\n" +
+	"\x06packed\x18\b \x01(\bR\x06packed\x12\x14\n" +
+	"\x05files\x18\t \x03(\tR\x05files\"\xa6\x02\n" +
 	"\tParameter\x12\x12\n" +
 	"\x04name\x18\x01 \x01(\tR\x04name\x12\x12\n" +
 	"\x04type\x18\x02 \x01(\tR\x04type\x12!\n" +
@@ -672,22 +1132,29 @@ const file_stage_v1_stage_proto_rawDesc = "" +
 	"\tmax_items\x18\f \x01(\x05R\bmaxItems\".\n" +
 	"\x06Scalar\x12\x12\n" +
 	"\x04name\x18\x01 \x01(\tR\x04name\x12\x10\n" +
-	"\x03doc\x18\x02 \x01(\tR\x03doc\"\xe0\x01\n" +
+	"\x03doc\x18\x02 \x01(\tR\x03doc\"\xa6\x03\n" +
 	"\n" +
 	"RunRequest\x12!\n" +
 	"\fsection_json\x18\x01 \x01(\fR\vsectionJson\x12\x1f\n" +
 	"\vparams_json\x18\x02 \x01(\fR\n" +
 	"paramsJson\x122\n" +
 	"\x04deps\x18\x03 \x03(\v2\x1e.stage.v1.RunRequest.DepsEntryR\x04deps\x12!\n" +
-	"\fsection_name\x18\x04 \x01(\tR\vsectionName\x1a7\n" +
+	"\fsection_name\x18\x04 \x01(\tR\vsectionName\x12\x15\n" +
+	"\x06node_x\x18\x05 \x03(\x01R\x05nodeX\x12\x15\n" +
+	"\x06node_y\x18\x06 \x03(\x01R\x05nodeY\x12E\n" +
+	"\vdep_results\x18\a \x03(\v2$.stage.v1.RunRequest.DepResultsEntryR\n" +
+	"depResults\x1a7\n" +
 	"\tDepsEntry\x12\x10\n" +
 	"\x03key\x18\x01 \x01(\tR\x03key\x12\x14\n" +
-	"\x05value\x18\x02 \x01(\fR\x05value:\x028\x01\"Q\n" +
+	"\x05value\x18\x02 \x01(\fR\x05value:\x028\x01\x1aO\n" +
+	"\x0fDepResultsEntry\x12\x10\n" +
+	"\x03key\x18\x01 \x01(\tR\x03key\x12&\n" +
+	"\x05value\x18\x02 \x01(\v2\x10.stage.v1.ResultR\x05value:\x028\x01\"Q\n" +
 	"\bArtifact\x12\x12\n" +
 	"\x04name\x18\x01 \x01(\tR\x04name\x12\x1d\n" +
 	"\n" +
 	"media_type\x18\x02 \x01(\tR\tmediaType\x12\x12\n" +
-	"\x04data\x18\x03 \x01(\fR\x04data\"\xd8\x02\n" +
+	"\x04data\x18\x03 \x01(\fR\x04data\"\x82\x03\n" +
 	"\vRunResponse\x12\x1f\n" +
 	"\vresult_json\x18\x01 \x01(\fR\n" +
 	"resultJson\x120\n" +
@@ -697,10 +1164,47 @@ const file_stage_v1_stage_proto_rawDesc = "" +
 	"error_code\x18\x04 \x01(\x0e2\x13.stage.v1.ErrorCodeR\terrorCode\x12#\n" +
 	"\rerror_message\x18\x05 \x01(\tR\ferrorMessage\x12C\n" +
 	"\n" +
-	"timings_ms\x18\x06 \x03(\v2$.stage.v1.RunResponse.TimingsMsEntryR\ttimingsMs\x1a<\n" +
+	"timings_ms\x18\x06 \x03(\v2$.stage.v1.RunResponse.TimingsMsEntryR\ttimingsMs\x12(\n" +
+	"\x06result\x18\a \x01(\v2\x10.stage.v1.ResultR\x06result\x1a<\n" +
 	"\x0eTimingsMsEntry\x12\x10\n" +
 	"\x03key\x18\x01 \x01(\tR\x03key\x12\x14\n" +
-	"\x05value\x18\x02 \x01(\x01R\x05value:\x028\x01*\xa9\x01\n" +
+	"\x05value\x18\x02 \x01(\x01R\x05value:\x028\x01\"\xcd\x02\n" +
+	"\x06Result\x12\x14\n" +
+	"\x05stage\x18\x01 \x01(\tR\x05stage\x12\x18\n" +
+	"\aversion\x18\x02 \x01(\tR\aversion\x127\n" +
+	"\ascalars\x18\x03 \x03(\v2\x1d.stage.v1.Result.ScalarsEntryR\ascalars\x12$\n" +
+	"\x05cases\x18\x04 \x03(\v2\x0e.stage.v1.CaseR\x05cases\x12\x1a\n" +
+	"\bwarnings\x18\x05 \x03(\tR\bwarnings\x12\x11\n" +
+	"\x04cp_x\x18\x06 \x03(\x01R\x03cpX\x12\x11\n" +
+	"\x04cp_y\x18\a \x03(\x01R\x03cpY\x12\x15\n" +
+	"\x06load_x\x18\b \x03(\x01R\x05loadX\x12\x1f\n" +
+	"\vcheck_names\x18\t \x03(\tR\n" +
+	"checkNames\x1a:\n" +
+	"\fScalarsEntry\x12\x10\n" +
+	"\x03key\x18\x01 \x01(\tR\x03key\x12\x14\n" +
+	"\x05value\x18\x02 \x01(\x01R\x05value:\x028\x01\"\x87\x02\n" +
+	"\x04Case\x12\x16\n" +
+	"\x06failed\x18\x01 \x01(\bR\x06failed\x12\x1b\n" +
+	"\talpha_deg\x18\x02 \x01(\x01R\balphaDeg\x12\x0e\n" +
+	"\x02cl\x18\x03 \x01(\x01R\x02cl\x12\x13\n" +
+	"\x05cm_c4\x18\x04 \x01(\x01R\x04cmC4\x12\x16\n" +
+	"\x06checks\x18\x05 \x03(\x01R\x06checks\x12\x0e\n" +
+	"\x02cp\x18\x06 \x03(\x01R\x02cp\x12\x11\n" +
+	"\x04cp_x\x18\a \x03(\x01R\x03cpX\x12\x11\n" +
+	"\x04cp_y\x18\b \x03(\x01R\x03cpY\x12\x19\n" +
+	"\bload_dcp\x18\t \x03(\x01R\aloadDcp\x12\x15\n" +
+	"\x06load_x\x18\n" +
+	" \x03(\x01R\x05loadX\x12%\n" +
+	"\x05field\x18\v \x01(\v2\x0f.stage.v1.FieldR\x05field\"\x89\x01\n" +
+	"\x05Field\x12\x0e\n" +
+	"\x02x0\x18\x01 \x01(\x01R\x02x0\x12\x0e\n" +
+	"\x02y0\x18\x02 \x01(\x01R\x02y0\x12\x0e\n" +
+	"\x02dx\x18\x03 \x01(\x01R\x02dx\x12\x0e\n" +
+	"\x02dy\x18\x04 \x01(\x01R\x02dy\x12\x0e\n" +
+	"\x02nx\x18\x05 \x01(\x05R\x02nx\x12\x0e\n" +
+	"\x02ny\x18\x06 \x01(\x05R\x02ny\x12\x10\n" +
+	"\x03psi\x18\a \x03(\x01R\x03psi\x12\x0e\n" +
+	"\x02cp\x18\b \x03(\x01R\x02cp*\xa9\x01\n" +
 	"\tErrorCode\x12\x1a\n" +
 	"\x16ERROR_CODE_UNSPECIFIED\x10\x00\x12\x18\n" +
 	"\x14ERROR_CODE_BAD_INPUT\x10\x01\x12\x17\n" +
@@ -725,7 +1229,7 @@ func file_stage_v1_stage_proto_rawDescGZIP() []byte {
 }
 
 var file_stage_v1_stage_proto_enumTypes = make([]protoimpl.EnumInfo, 1)
-var file_stage_v1_stage_proto_msgTypes = make([]protoimpl.MessageInfo, 9)
+var file_stage_v1_stage_proto_msgTypes = make([]protoimpl.MessageInfo, 14)
 var file_stage_v1_stage_proto_goTypes = []any{
 	(ErrorCode)(0),           // 0: stage.v1.ErrorCode
 	(*DescribeRequest)(nil),  // 1: stage.v1.DescribeRequest
@@ -735,25 +1239,36 @@ var file_stage_v1_stage_proto_goTypes = []any{
 	(*RunRequest)(nil),       // 5: stage.v1.RunRequest
 	(*Artifact)(nil),         // 6: stage.v1.Artifact
 	(*RunResponse)(nil),      // 7: stage.v1.RunResponse
-	nil,                      // 8: stage.v1.RunRequest.DepsEntry
-	nil,                      // 9: stage.v1.RunResponse.TimingsMsEntry
+	(*Result)(nil),           // 8: stage.v1.Result
+	(*Case)(nil),             // 9: stage.v1.Case
+	(*Field)(nil),            // 10: stage.v1.Field
+	nil,                      // 11: stage.v1.RunRequest.DepsEntry
+	nil,                      // 12: stage.v1.RunRequest.DepResultsEntry
+	nil,                      // 13: stage.v1.RunResponse.TimingsMsEntry
+	nil,                      // 14: stage.v1.Result.ScalarsEntry
 }
 var file_stage_v1_stage_proto_depIdxs = []int32{
-	3, // 0: stage.v1.DescribeResponse.parameters:type_name -> stage.v1.Parameter
-	4, // 1: stage.v1.DescribeResponse.scalars:type_name -> stage.v1.Scalar
-	8, // 2: stage.v1.RunRequest.deps:type_name -> stage.v1.RunRequest.DepsEntry
-	6, // 3: stage.v1.RunResponse.artifacts:type_name -> stage.v1.Artifact
-	0, // 4: stage.v1.RunResponse.error_code:type_name -> stage.v1.ErrorCode
-	9, // 5: stage.v1.RunResponse.timings_ms:type_name -> stage.v1.RunResponse.TimingsMsEntry
-	1, // 6: stage.v1.Stage.Describe:input_type -> stage.v1.DescribeRequest
-	5, // 7: stage.v1.Stage.Run:input_type -> stage.v1.RunRequest
-	2, // 8: stage.v1.Stage.Describe:output_type -> stage.v1.DescribeResponse
-	7, // 9: stage.v1.Stage.Run:output_type -> stage.v1.RunResponse
-	8, // [8:10] is the sub-list for method output_type
-	6, // [6:8] is the sub-list for method input_type
-	6, // [6:6] is the sub-list for extension type_name
-	6, // [6:6] is the sub-list for extension extendee
-	0, // [0:6] is the sub-list for field type_name
+	3,  // 0: stage.v1.DescribeResponse.parameters:type_name -> stage.v1.Parameter
+	4,  // 1: stage.v1.DescribeResponse.scalars:type_name -> stage.v1.Scalar
+	11, // 2: stage.v1.RunRequest.deps:type_name -> stage.v1.RunRequest.DepsEntry
+	12, // 3: stage.v1.RunRequest.dep_results:type_name -> stage.v1.RunRequest.DepResultsEntry
+	6,  // 4: stage.v1.RunResponse.artifacts:type_name -> stage.v1.Artifact
+	0,  // 5: stage.v1.RunResponse.error_code:type_name -> stage.v1.ErrorCode
+	13, // 6: stage.v1.RunResponse.timings_ms:type_name -> stage.v1.RunResponse.TimingsMsEntry
+	8,  // 7: stage.v1.RunResponse.result:type_name -> stage.v1.Result
+	14, // 8: stage.v1.Result.scalars:type_name -> stage.v1.Result.ScalarsEntry
+	9,  // 9: stage.v1.Result.cases:type_name -> stage.v1.Case
+	10, // 10: stage.v1.Case.field:type_name -> stage.v1.Field
+	8,  // 11: stage.v1.RunRequest.DepResultsEntry.value:type_name -> stage.v1.Result
+	1,  // 12: stage.v1.Stage.Describe:input_type -> stage.v1.DescribeRequest
+	5,  // 13: stage.v1.Stage.Run:input_type -> stage.v1.RunRequest
+	2,  // 14: stage.v1.Stage.Describe:output_type -> stage.v1.DescribeResponse
+	7,  // 15: stage.v1.Stage.Run:output_type -> stage.v1.RunResponse
+	14, // [14:16] is the sub-list for method output_type
+	12, // [12:14] is the sub-list for method input_type
+	12, // [12:12] is the sub-list for extension type_name
+	12, // [12:12] is the sub-list for extension extendee
+	0,  // [0:12] is the sub-list for field type_name
 }
 
 func init() { file_stage_v1_stage_proto_init() }
@@ -767,7 +1282,7 @@ func file_stage_v1_stage_proto_init() {
 			GoPackagePath: reflect.TypeOf(x{}).PkgPath(),
 			RawDescriptor: unsafe.Slice(unsafe.StringData(file_stage_v1_stage_proto_rawDesc), len(file_stage_v1_stage_proto_rawDesc)),
 			NumEnums:      1,
-			NumMessages:   9,
+			NumMessages:   14,
 			NumExtensions: 0,
 			NumServices:   1,
 		},

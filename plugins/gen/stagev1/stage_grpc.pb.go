@@ -2,8 +2,24 @@
 //
 // A stage is a child process that speaks this service over gRPC through
 // go-plugin. Documents travel as UTF-8 JSON in *_json fields, exactly in the
-// formats the project documents (foilwright.section/1, foilwright.result/1),
-// so a stage in any language needs only a JSON parser and these stubs.
+// formats the project documents (foilwright.section/1, foilwright.result/1
+// and /2), so a stage in any language needs only a JSON parser and these
+// stubs.
+//
+// Numeric arrays may instead cross as packed numbers (repeated double, which
+// proto3 packs: 8 bytes a number, no text to format or parse), which is what
+// makes a call cheap beside the solver's own time:
+//
+//   - a stage that sets DescribeResponse.packed gets the section's nodes in
+//     RunRequest.node_x/node_y (section_json then has no "nodes" key) and
+//     the results of the stages it runs after in RunRequest.dep_results
+//     (deps is then empty);
+//   - any stage may answer with RunResponse.result (a Result message: the
+//     result document with its arrays packed) instead of result_json.
+//
+// A stage that does neither keeps working unchanged: it gets the full
+// section document and its dependencies as foilwright.result/1 JSON, and
+// its result_json is read as before.
 //
 // Compatibility: add fields and RPCs freely; never renumber or retype a
 // field. An incompatible change bumps the handshake protocol version.
