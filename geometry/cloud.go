@@ -96,6 +96,14 @@ type Cloud struct {
 	// has more than one run; nil means a single run.
 	Segments []int
 	Notes    []Note // lines skipped, with reasons
+	// Columns says which columns of a delimited file were read as the
+	// coordinates and why, e.g. "2, 3, 4 (named x, y, z by the header)";
+	// "" for other formats.
+	Columns string
+	// ColumnsGuessed reports that no header named the coordinate columns
+	// while the lines hold more numbers than were read, so the first ones
+	// were taken: a guess an error message should mention.
+	ColumnsGuessed bool
 }
 
 // Len returns the number of points in c.
@@ -109,6 +117,13 @@ type Contour struct {
 	Points  []Point
 	Origins []Origin
 	Units   Unit
+	// Along, when set (one value a point, increasing), is the position of
+	// each point along the loop (input units) as the cleaning step measured
+	// it on a smooth curve through the points: for a band of points, whose
+	// noise is comparable to their spacing, it is a far better parameter for
+	// a fit than the distances between neighbours, which zigzag across the
+	// band. nil otherwise.
+	Along []float64
 }
 
 // Len returns the number of points in c.

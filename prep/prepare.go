@@ -8,6 +8,7 @@ import (
 	"strings"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/accuracy"
 	"github.com/foilwright/foilwright/geometry/clean"
 	"github.com/foilwright/foilwright/geometry/curve"
 	"github.com/foilwright/foilwright/geometry/frame"
@@ -47,6 +48,8 @@ type Preparation struct {
 	Props    *props.SectionProperties
 	Camber   *props.CamberLine
 	Quality  repanel.Quality
+	// Uncertainty is the section's statement of its own accuracy.
+	Uncertainty accuracy.Uncertainty
 }
 
 // Cleaned is what the first half of the geometry chain made of a
@@ -59,9 +62,10 @@ type Cleaned struct {
 	Clean    *clean.Report
 	Contour  *geometry.Contour
 	Units    geometry.Unit
-	Files    []string // display names
-	SHA256   []string // hex digests of the files' bytes
-	Read     int      // points read from all files
+	Files    []string        // display names
+	SHA256   []string        // hex digests of the files' bytes
+	Read     int             // points read from all files
+	cloud    *geometry.Cloud // the planar cloud cleaned
 }
 
 // ReadAndClean runs the first half of the geometry chain on the files of
@@ -114,12 +118,22 @@ func ReadAndClean(files []File, s Settings) (*Cleaned, error) {
 		}
 		flat, fl, err := planar.Flatten(cloud, fo)
 		if err != nil {
-			return nil, fmt.Errorf("%s: %w", where, err)
+			return nil, fmt.Errorf("%s: %w%s", where, err, columnsHint(out.Clouds))
 		}
 		cloud, out.Flatness, out.Plane = flat, &fl, &fl.Plane
 	}
 
-	var co clean.Options
+	out.cloud = cloud
+	if err := out.clean(s, ""); err != nil {
+		return nil, err
+	}
+	return out, nil
+}
+
+// clean cleans the (planar) cloud read into the contour, by the ordering
+// named (clean.Options.Order; "" tries them in turn).
+func (c *Cleaned) clean(s Settings, order string) error {
+	co := clean.Options{Order: order}
 	if s.MergeTol != nil {
 		co.MergeTol = *s.MergeTol
 	}
@@ -132,26 +146,71 @@ func ReadAndClean(files []File, s Settings) (*Cleaned, error) {
 	if s.Loop != nil {
 		co.Loop = *s.Loop
 	}
-	contour, rep, err := clean.Clean(cloud, co)
+	contour, rep, err := clean.Clean(c.cloud, co)
 	if err != nil {
-		return nil, fmt.Errorf("%s: %w", where, err)
+		return fmt.Errorf("%s: %w%s", strings.Join(c.Files, ", "), err, columnsHint(c.Clouds))
 	}
-	out.Contour, out.Clean = contour, rep
-	return out, nil
+	c.Contour, c.Clean = contour, rep
+	return nil
 }
 
 // Prepare runs the whole geometry chain on the files of one section:
 // ReadAndClean, then fit, locate the edges and normalise, repanel, and
 // compute the properties. Every error comes from the data or the settings
 // and names the file where there is one.
+//
+// Gates. The section must pass every gate of checkGates (no
+// self-crossing, chord within the points' extent, surfaces monotone along
+// the chord, a plausible trailing-edge angle, a fit within the points'
+// scatter). When it fails one, or the edges cannot be located, the chain
+// tries again with the other orderings of the points (orderings) and then
+// with the fit finding the trailing edge on its own; the first way that
+// passes wins, and its record says which (the clean report's Strategy).
+// When none does, Prepare returns the first failure as a *GateError.
 func Prepare(name string, files []File, s Settings) (*Preparation, error) {
 	cl, err := ReadAndClean(files, s)
 	if err != nil {
 		return nil, err
 	}
+	p, first := finishChain(name, cl, s, true)
+	if first == nil {
+		return p, nil
+	}
+	var ge *GateError
+	if !errors.As(first, &ge) {
+		return nil, first
+	}
+	tried := []string{cl.Clean.Strategy + " order"}
+	for _, order := range orderings(cl.Clean.Strategy) {
+		alt := *cl
+		if alt.clean(s, order) != nil {
+			continue
+		}
+		tried = append(tried, order+" order")
+		if p, err := finishChain(name, &alt, s, true); err == nil {
+			p.Section.Warnings = append(p.Section.Warnings, fmt.Sprintf("the %s order of the points failed the check %q (%s); the %s order passed", cl.Clean.Strategy, ge.Gate, ge.Seen, order))
+			return p, nil
+		}
+	}
+	if cl.Clean.Edge != nil {
+		tried = append(tried, "the fit's own trailing edge")
+		if p, err := finishChain(name, cl, s, false); err == nil {
+			p.Section.Warnings = append(p.Section.Warnings, fmt.Sprintf("the trailing edge found on the points failed the check %q (%s); the fit's own passed", ge.Gate, ge.Seen))
+			return p, nil
+		}
+	}
+	ge.Tried = tried
+	return nil, fmt.Errorf("%s: %w", strings.Join(cl.Files, ", "), ge)
+}
+
+// finishChain runs the rest of the chain on a cleaned contour: fit (with
+// the trailing edge found on the points when useEdge), normalise, repanel,
+// the gates, the properties and the document. A failure to locate the
+// edges or to pass a gate is a *GateError.
+func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparation, error) {
 	p := &Preparation{Clouds: cl.Clouds, Flatness: cl.Flatness, Clean: cl.Clean, Contour: cl.Contour}
 	where := strings.Join(cl.Files, ", ")
-	if err := p.fit(cl, s); err != nil {
+	if err := p.fit(cl, s, useEdge); err != nil {
 		return nil, err
 	}
 	eo, err := edgeOptions(s, cl.Units)
@@ -159,6 +218,9 @@ func Prepare(name string, files []File, s Settings) (*Preparation, error) {
 		return nil, err
 	}
 	if p.Shape, err = frame.Normalize(p.Curve, eo); err != nil {
+		if errors.Is(err, frame.ErrNoLeadingEdge) {
+			return nil, &GateError{Gate: GateEdges, Seen: strings.TrimPrefix(err.Error(), "geometry: ")}
+		}
 		return nil, fmt.Errorf("%s: %w", where, err)
 	}
 	rp := panelOptions(s)
@@ -166,17 +228,25 @@ func Prepare(name string, files []File, s Settings) (*Preparation, error) {
 	if err != nil {
 		return nil, err
 	}
-	if _, err := section.CheckNodes(nodes); err != nil {
-		return nil, fmt.Errorf("%s: the repanelled section is not usable: %w", where, err)
+	// The noise of the points widens the arc of the leading-edge circle so
+	// that noise left in the curve does not upset the radius (0 for exact
+	// points, which are interpolated).
+	po := props.Options{Thickness: s.ThicknessMode, Camber: s.CamberMode, Noise: p.Fit.NoiseEstimate / p.Shape.Frame.Chord}
+	if _, err := section.CheckNodes(nodes); err == nil {
+		if p.Props, p.Camber, err = props.Compute(p.Shape.Path, p.Shape.SLE, po); err != nil {
+			return nil, fmt.Errorf("%s: %w", where, err)
+		}
+	}
+	if g := p.checkGates(nodes, le); g != nil {
+		return nil, g
 	}
 	p.Quality = repanel.Measure(nodes)
-	// The scatter of the points widens the arc of the leading-edge circle
-	// so that noise left in the curve does not upset the radius.
-	po := props.Options{Thickness: s.ThicknessMode, Camber: s.CamberMode, Noise: p.Fit.Scatter / p.Shape.Frame.Chord}
-	if p.Props, p.Camber, err = props.Compute(p.Shape.Path, p.Shape.SLE, po); err != nil {
-		return nil, fmt.Errorf("%s: %w", where, err)
+	p.Uncertainty = accuracy.Estimate(p.Curve, p.Fit, p.Shape, accuracy.Options{Edges: eo})
+	if useEdge {
+		widenForEdge(&p.Uncertainty, cl.Clean.Edge)
 	}
 	p.Section = p.document(name, cl, nodes, le, rp.Spacing)
+	p.Section.Warnings = append(p.Section.Warnings, accuracy.Gaps(p.Contour, p.Fit, p.Curve, p.Shape)...)
 	p.Section.Panels.Deviation = dev
 	if rp.Panels == 0 {
 		p.Section.Panels.Target = rp.Tolerance
@@ -192,10 +262,17 @@ func Prepare(name string, files []File, s Settings) (*Preparation, error) {
 
 // fit fits the smoothing spline to the cleaned contour, with the noise and
 // tolerance the settings give.
-func (p *Preparation) fit(cl *Cleaned, s Settings) error {
+func (p *Preparation) fit(cl *Cleaned, s Settings, useEdge bool) error {
 	var fo curve.FitOptions
 	switch {
 	case s.Noise == nil:
+		if cl.Clean.Band && cl.Clean.Sigma > 0 {
+			// A band: its points scatter about the curve by the robust
+			// scale the cleaning measured across it, a noise known well
+			// enough to set the smoothing by; cross-validation on a band
+			// leaves the curve looping through it.
+			fo.Noise = cl.Clean.Sigma
+		}
 	case *s.Noise == 0:
 		fo.Exact = true
 	default:
@@ -207,12 +284,35 @@ func (p *Preparation) fit(cl *Cleaned, s Settings) error {
 	if s.FitTol != nil {
 		fo.Tolerance = *s.FitTol
 	}
+	if useEdge {
+		fo.Edge = fitEdge(cl.Clean.Edge)
+	}
 	cv, rep, err := curve.Fit(cl.Contour, fo)
 	if err != nil {
 		return fmt.Errorf("%s: %w", strings.Join(cl.Files, ", "), err)
 	}
 	p.Curve, p.Fit = cv, rep
 	return nil
+}
+
+// widenForEdge widens the chord's bound to the spread of the trailing
+// edges that the points cannot tell apart (clean.Edge.Spread): the end of
+// a section may be an unsampled sharp corner or a base through the last
+// points, and the chord is one or the other; the bound says so rather
+// than resting on the one chosen.
+func widenForEdge(u *accuracy.Uncertainty, e *clean.Edge) {
+	if e != nil && e.Spread > u.Chord && !math.IsInf(e.Spread, 0) {
+		u.Chord = e.Spread
+	}
+}
+
+// fitEdge returns the trailing edge the cleaning step found on the
+// points as the fit takes it, nil when it found none.
+func fitEdge(e *clean.Edge) *curve.Edge {
+	if e == nil {
+		return nil
+	}
+	return &curve.Edge{Closed: e.Kind == clean.EdgeRounded, Base: e.Base, Upper: e.Upper, Lower: e.Lower}
 }
 
 // edgeOptions returns the edge and normalisation options of the settings
@@ -314,15 +414,16 @@ func (p *Preparation) document(name string, cl *Cleaned, nodes []geometry.Point,
 			Dropped: DroppedOf(cl.Clean, cl.Units),
 		},
 		Frame:        &fr,
-		Fit:          &section.FitSummary{Method: fit.Method, RMS: fit.RMS, Max: fit.Max, MaxAt: fit.MaxAt.String(), NoiseEstimate: fit.NoiseEstimate},
+		Fit:          p.fitSummary(),
 		TrailingEdge: &te,
 		LEIndex:      &le,
 		Panels: &section.PanelSummary{
 			Count: len(nodes) - 1, Spacing: spacing,
 			MaxRatio: p.Quality.MaxRatio, MaxTurnDeg: p.Quality.MaxTurnDeg,
 		},
-		Properties: &docProps,
-		Nodes:      nodes,
+		Properties:  &docProps,
+		Uncertainty: (*section.Uncertainty)(&p.Uncertainty),
+		Nodes:       nodes,
 	}
 	for _, c := range p.Clouds {
 		for _, n := range c.Notes {
@@ -344,6 +445,22 @@ func (p *Preparation) document(name string, cl *Cleaned, nodes []geometry.Point,
 	return sec
 }
 
+// fitSummary returns the fit block of the section document: the method,
+// the residuals, the noise estimate, why the curve interpolates when it
+// does, and its fairness, the roughness in chord units.
+func (p *Preparation) fitSummary() *section.FitSummary {
+	fit := p.Fit
+	c := p.Shape.Frame.Chord
+	return &section.FitSummary{
+		Method: fit.Method, RMS: fit.RMS, Max: fit.Max, MaxAt: fit.MaxAt.String(),
+		NoiseEstimate: fit.NoiseEstimate, Interpolates: fit.Interpolates, Parameter: fit.Parameter,
+		Fairness: &section.Fairness{
+			Inflections: fit.Fairness.Inflections, Wiggles: fit.Fairness.Wiggles,
+			Roughness: fit.Fairness.Roughness * c * c,
+		},
+	}
+}
+
 // readOptions turns the reading settings into pointfile.Options.
 func readOptions(s Settings) (pointfile.Options, error) {
 	ro := pointfile.Options{Format: s.Format, Columns: s.Columns, Layer: s.Layer}
@@ -362,6 +479,19 @@ func readOptions(s Settings) (pointfile.Options, error) {
 		ro.Cut = &pl
 	}
 	return ro, nil
+}
+
+// columnsHint returns, for an error message, what to do when the
+// coordinate columns of a file were a guess (no header named them and the
+// lines hold more numbers than were read), "" otherwise.
+func columnsHint(clouds []*geometry.Cloud) string {
+	for _, c := range clouds {
+		if c.ColumnsGuessed && len(c.Origins) > 0 {
+			return fmt.Sprintf("; the coordinates of %s were read from columns %s: if those are not x, y (z), name the columns in a header (x, y, z) or give them with --columns (e.g. --columns 2,3,4)",
+				c.Origins[0].File, c.Columns)
+		}
+	}
+	return ""
 }
 
 // mergeCloud appends the points of c to all. The result is unordered when

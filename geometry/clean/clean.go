@@ -26,6 +26,10 @@ type Options struct {
 	// Loop picks the section loop: 0 is the loop of largest enclosed area,
 	// k the k-th largest after it (1 = second largest).
 	Loop int
+	// Order, when set (OrderFile, OrderSection, OrderLinked or
+	// OrderBand), is the only ordering tried; "" tries them in turn (see
+	// Clean). A caller whose later checks refuse the loop tries another.
+	Order string
 }
 
 // Defaults of Options.
@@ -90,12 +94,22 @@ type Report struct {
 	Loops   []LoopInfo
 	// OrderKept reports that the input's own order was valid and kept.
 	OrderKept bool
+	// Strategy names the ordering that made the loop: OrderFile,
+	// OrderSection, OrderLinked or OrderBand.
+	Strategy string
+	// Refused lists the orderings tried before it and why a gate refused
+	// each ("section order: the loop keeps 812 of 3000 points ...").
+	Refused []string
+	// Edge is the trailing edge found on the points (see findEdge), nil
+	// when the loop shows no thin end to analyse; the contour then starts
+	// at the provisional trailing edge of step 5.
+	Edge *Edge
 	// Reordered holds why an ordered input was reordered, "" otherwise.
 	Reordered string
-	// Band reports that the points form a band (noise comparable to their
-	// spacing, as in a dense scan) and were ordered by projection onto a
-	// thinned curve, so that only their order along the curve, not their
-	// order across the band, is meaningful.
+	// Band reports that the points form a band (their scatter is at least
+	// bandScatter of their spacing, as in a dense scan), so that only their
+	// order along the curve, not their order across the band, is
+	// meaningful.
 	Band     bool
 	MergeTol float64 // merge tolerance used, input units
 	// Sigma is the robust scale of the residuals of the picked loop against
@@ -162,6 +176,11 @@ func Clean(c *geometry.Cloud, opts Options) (*geometry.Contour, *Report, error) 
 	if opts.Loop < 0 {
 		return nil, rep, fmt.Errorf("geometry: clean: loop %d: must be ≥ 0", opts.Loop)
 	}
+	switch opts.Order {
+	case "", OrderFile, OrderSection, OrderLinked, OrderBand:
+	default:
+		return nil, rep, fmt.Errorf("geometry: clean: order %q: want %s, %s, %s or %s", opts.Order, OrderFile, OrderSection, OrderLinked, OrderBand)
+	}
 	all := make([]geometry.Point, n)
 	for i, p := range c.Points {
 		all[i] = geometry.Point{X: p.X, Y: p.Y}
@@ -189,22 +208,55 @@ func Clean(c *geometry.Cloud, opts Options) (*geometry.Contour, *Report, error) 
 	if err := cl.merge(all, tol); err != nil {
 		return nil, rep, err
 	}
-	// 2. Order.
-	loops, rest, band, err := cl.order()
+	// 2–4. Order, pick, outliers: the first strategy whose loop passes the
+	// gates.
+	a, err := cl.arrange(opts, sigma)
 	if err != nil {
 		return nil, rep, err
 	}
-	// 3. Pick.
-	seq, err := cl.pick(loops, opts.Loop)
-	if err != nil {
-		return nil, rep, err
+	cl.commit(a)
+	// 5. Orient: start at the trailing edge found on the points; failing
+	// that, at the provisional one.
+	seq := orient(cl.pts, a.seq)
+	// With KeepOutliers the edge is analysed without the outliers kept,
+	// which go back in beside their neighbours afterwards.
+	kept := make(map[int32]bool)
+	for _, h := range a.hits {
+		if h.kept {
+			kept[h.idx] = true
+		}
 	}
-	// 4. Outliers.
-	if seq, err = cl.outliers(seq, rest, sigma, opts.KeepOutliers, band); err != nil {
-		return nil, rep, err
+	work := slices.DeleteFunc(slices.Clone(seq), func(i int32) bool { return kept[i] })
+	if len(work) >= minPoints {
+		if ef, ok := findEdge(cl.pts, work, a.raw); ok {
+			if len(ef.outliers) > 0 {
+				// Outliers of the end model: drop them and look again.
+				cl.record(ef.outliers, opts.KeepOutliers)
+				out := make(map[int32]bool, len(ef.outliers))
+				for _, h := range ef.outliers {
+					out[h.idx] = true
+					if opts.KeepOutliers {
+						kept[h.idx] = true
+					}
+				}
+				work = slices.DeleteFunc(work, func(i int32) bool { return out[i] })
+				if len(work) < minPoints {
+					return nil, rep, fmt.Errorf("geometry: clean: %w: %d point(s) left in the loop, need at least %d", geometry.ErrTooFewPoints, len(work), minPoints)
+				}
+				ef, ok = findEdge(cl.pts, orient(cl.pts, work), a.raw)
+			}
+			if ok {
+				e := ef.edge
+				seq = reinsert(ef.seq, seq, kept, &e)
+				rep.Edge = &e
+			}
+		}
 	}
-	// 5. Orient.
-	return cl.contour(orient(cl.pts, seq)), rep, nil
+	ct := cl.contour(seq)
+	if a.feet != nil {
+		ct.Along = alongFeet(cl.pts, seq, a.feet, a.hasFeet)
+	}
+	return ct, rep, nil
 }
 
 // cleaning is one Clean under way: the cloud, the distinct points left
@@ -248,69 +300,9 @@ func (cl *cleaning) merge(all []geometry.Point, tol float64) error {
 	return nil
 }
 
-// order orders the points into loops: the file's own runs when every step
-// is a local one, by band projection for a dense noisy band, else by
-// tangent-guided linking and joining. It returns the loops that enclose an
-// area and hold a fair share of the points, the chains and points left
-// over, and, for a band, the half-width of the outlier fits in points.
-func (cl *cleaning) order() (loops, rest [][]int32, band int, err error) {
-	c, rep, pts, src := cl.c, cl.rep, cl.pts, cl.src
-	m := len(pts)
-	cl.nb = neighbours(pts, cl.lo, cl.hi)
-	nb := cl.nb
-	g := newGraph(m)
-	kept := false
-	if c.Ordered {
-		runs := runsOf(c, src)
-		if a, b, ok := runsValid(pts, runs, nb); ok {
-			for _, r := range runs {
-				for k := 1; k < len(r); k++ {
-					g.addEdge(r[k-1], r[k])
-				}
-			}
-			kept = true
-		} else {
-			rep.Reordered = fmt.Sprintf("the step from %s to %s jumps %.3g, beyond the points' neighbourhoods", c.Origins[src[a]], c.Origins[src[b]], pts[a].Dist(pts[b]))
-		}
-	}
-	rep.OrderKept = kept
-	if !kept && isBand(pts, nb) {
-		rep.Band = true
-		var per int
-		loops, rest, per = byBand(pts, nb, cl.lo, cl.hi)
-		band = min(max(fitK, 2*per), maxBandFit)
-	} else {
-		if !kept {
-			link(pts, nb, g)
-		}
-		join(pts, nb, g)
-		loops, rest = g.components(minPoints)
-	}
-	// A loop that encloses nothing (it runs out and back along a line) is
-	// not a section, nor is one with under loopShare of the points of
-	// the most populous loop (stray points or outliers that happen to
-	// chain around the part).
-	most := 0
-	for _, l := range loops {
-		most = max(most, len(l))
-	}
-	diag := cl.diag
-	loops = slices.DeleteFunc(loops, func(l []int32) bool {
-		if math.Abs(area(pts, l)) <= 1e-9*diag*diag || float64(len(l)) < loopShare*float64(most) {
-			rest = append(rest, l)
-			return true
-		}
-		return false
-	})
-	if len(loops) == 0 {
-		return nil, nil, 0, fmt.Errorf("geometry: clean: %w: %d points form %d open chain(s)", geometry.ErrNoLoop, m, len(rest))
-	}
-	return loops, rest, band, nil
-}
-
 // pick ranks the loops by enclosed area (ties by the first input point)
-// and returns loop k of the ranking, recording every loop in the report.
-func (cl *cleaning) pick(loops [][]int32, k int) ([]int32, error) {
+// and returns loop k of the ranking, with a record of every loop.
+func (cl *cleaning) pick(loops [][]int32, k int) ([]int32, []LoopInfo, error) {
 	pts, src := cl.pts, cl.src
 	type ranked struct {
 		seq   []int32
@@ -337,34 +329,36 @@ func (cl *cleaning) pick(loops [][]int32, k int) ([]int32, error) {
 		return int(src[a.first] - src[b.first])
 	})
 	if k >= len(rs) {
-		return nil, fmt.Errorf("geometry: clean: %w: loop %d asked for, %d loop(s) found", geometry.ErrNoLoop, k, len(rs))
+		return nil, nil, fmt.Errorf("geometry: clean: %w: loop %d asked for, %d loop(s) found", geometry.ErrNoLoop, k, len(rs))
 	}
+	infos := make([]LoopInfo, len(rs))
 	for i, r := range rs {
-		cl.rep.Loops = append(cl.rep.Loops, LoopInfo{Points: len(r.seq), Area: r.area, Picked: i == k, First: cl.c.Origins[src[r.first]]})
+		infos[i] = LoopInfo{Points: len(r.seq), Area: r.area, Picked: i == k, First: cl.c.Origins[src[r.first]]}
 	}
-	return rs[k].seq, nil
+	return rs[k].seq, infos, nil
 }
 
-// outliers drops the gross outliers of the loop seq and places the points
-// left over (rest): back into the loop, dropped as outliers, or dropped as
-// stray. Dropped points are recorded in the report, in file order.
-func (cl *cleaning) outliers(seq []int32, rest [][]int32, sigma float64, keep bool, band int) ([]int32, error) {
+// commit records the accepted attempt in the report: its loops and the
+// points it dropped, in file order.
+func (cl *cleaning) commit(a *attempt) {
+	pts, rep := cl.pts, cl.rep
+	rep.Loops = a.loops
+	rep.Sigma = a.scale
+	rep.Band = rep.Band || bandLike(pts, a.seq, a.scale)
+	cl.record(a.hits, false)
+}
+
+// record adds the points hits to the report's dropped points (kept, if
+// keep), in file order.
+func (cl *cleaning) record(hits []hit, keep bool) {
 	pts, src, rep := cl.pts, cl.src, cl.rep
-	seq, scale, outs := dropOutliers(pts, seq, sigma, keep, band)
-	rep.Sigma = scale
-	seq, extra := placeRest(pts, seq, rest, cl.nb, sigma*scale, scale, keep)
-	outs = append(outs, extra...)
-	for _, o := range outs {
+	for _, o := range hits {
 		rep.Dropped = append(rep.Dropped, Drop{
 			Origin: cl.c.Origins[src[o.idx]], Point: pts[o.idx], Reason: o.reason,
-			Distance: o.dist, Sigmas: o.sigmas, Kept: o.kept,
+			Distance: o.dist, Sigmas: o.sigmas, Kept: o.kept || keep,
 		})
 	}
 	slices.SortFunc(rep.Dropped, func(a, b Drop) int { return originCmp(a.Origin, b.Origin) })
-	if len(seq) < minPoints {
-		return nil, fmt.Errorf("geometry: clean: %w: %d point(s) left in the loop, need at least %d", geometry.ErrTooFewPoints, len(seq), minPoints)
-	}
-	return seq, nil
 }
 
 // contour returns the contour of the loop seq, with each point's origin.
@@ -376,6 +370,68 @@ func (cl *cleaning) contour(seq []int32) *geometry.Contour {
 	}
 	return out
 }
+
+// reinsert puts the points kept back into the loop work (which starts at
+// the trailing edge), each right after the point that precedes it in the
+// loop full; a kept point among the base points at the end of work counts
+// as one of them.
+func reinsert(work, full []int32, kept map[int32]bool, e *Edge) []int32 {
+	if len(kept) == 0 {
+		return work
+	}
+	after := make(map[int32][]int32) // a point of work → the kept points that follow it in full
+	n := len(full)
+	start := 0
+	for start < n && kept[full[start]] {
+		start++
+	}
+	if start == n {
+		return work
+	}
+	prev := full[start]
+	for k := 1; k <= n; k++ {
+		i := full[(start+k)%n]
+		if kept[i] {
+			after[prev] = append(after[prev], i)
+			continue
+		}
+		prev = i
+	}
+	out := make([]int32, 0, len(work)+len(kept))
+	baseFrom := len(work) - e.Base
+	for k, i := range work {
+		out = append(out, i)
+		if ins := after[i]; len(ins) > 0 {
+			out = append(out, ins...)
+			if k >= baseFrom-1 && k < len(work)-1 && e.Base > 0 {
+				e.Base += len(ins)
+			}
+		}
+	}
+	return out
+}
+
+// bandLike reports whether the robust scale of the residuals of the loop
+// seq is at least bandScatter of its point spacing along the curve (the
+// length of the polygon through every tenth point, which noise hardly
+// lengthens, shared among the points): then the points form a band.
+func bandLike(pts []geometry.Point, seq []int32, scale float64) bool {
+	n := len(seq)
+	const step = 10
+	if n < 4*step {
+		return false
+	}
+	var length float64
+	for k := 0; k < n; k += step {
+		length += fastDist(pts[seq[k]], pts[seq[(k+step)%n]])
+	}
+	length *= float64(n) / float64(step*((n+step-1)/step))
+	return scale >= bandScatter*length/float64(n)
+}
+
+// bandScatter is the scatter, in point spacings, from which points along
+// a curve form a band (see Report.Band).
+const bandScatter = 0.3
 
 // originCmp orders origins by file, line and entity.
 func originCmp(a, b geometry.Origin) int {

@@ -29,6 +29,24 @@ type hit struct {
 	kept         bool
 }
 
+// localFits says how the residuals of a loop are found: point to point
+// (localFit), over band neighbours in a band (bandFit), or, for a section
+// order, by robust fits along its regions (sectionCoords).
+type localFits struct {
+	band  int
+	sc    *sectionCoords
+	chord float64 // the chord of sc's coordinates, input units
+}
+
+// residualsAt sets r at the positions at (every position when nil).
+func (lf localFits) residualsAt(pts []geometry.Point, seq []int32, at []int, r []float64) {
+	if lf.sc != nil {
+		lf.sc.residualsAt(pts, seq, at, r, lf.chord)
+		return
+	}
+	residualsAt(pts, seq, lf.band, at, r)
+}
+
 // residuals returns, for each position of the loop seq, the residual
 // of its point against local fits of its fitK neighbours on each side
 // (the point itself excluded): the least of
@@ -267,48 +285,86 @@ func quadratic(ss []float64, ps []geometry.Point, span, u float64) (c, d geometr
 	return c, d, true
 }
 
+// localWindow is the half-width, in points, of the window whose
+// residuals make a point's local scale (localScales).
+const localWindow = 10
+
+// localScales returns, by point index, the local robust scale of the
+// residuals r of the loop seq: 1.4826 × the median absolute residual of
+// the localWindow points on either side of each point (itself left out).
+// Where the local fits cannot follow the outline as well as elsewhere (a
+// nose or an edge sampled by few points, exact data whose only residual is
+// the fits' own error) the good points' residuals rise together, and the
+// threshold with them; a gross outlier stands out from its neighbours
+// wherever it is.
+func localScales(pts []geometry.Point, seq []int32, r []float64) []float64 {
+	n := len(seq)
+	loc := make([]float64, len(pts))
+	w := min(localWindow, (n-1)/2)
+	parallel(n, func(a, b int) {
+		buf := make([]float64, 0, 2*localWindow)
+		for i := a; i < b; i++ {
+			buf = buf[:0]
+			for d := 1; d <= w; d++ {
+				buf = append(buf, r[((i-d)%n+n)%n], r[(i+d)%n])
+			}
+			loc[seq[i]] = 1.4826 * median(buf)
+		}
+	})
+	return loc
+}
+
 // robustScale returns the robust scale of residuals r, 1.4826 × their
 // median absolute value (the MAD of a residual centred on the curve; 1.4826
 // makes it σ for Gaussian noise, common practice), floored at scaleFloor × the median spacing
 // of seq.
-func robustScale(pts []geometry.Point, seq []int32, r []float64) float64 {
+func robustScale(pts []geometry.Point, seq []int32, r []float64) (floored, raw float64) {
 	abs := slices.Clone(r)
 	s := 1.4826 * median(abs)
 	gaps := make([]float64, len(seq))
 	for k := range seq {
 		gaps[k] = fastDist(pts[seq[k]], pts[seq[(k+1)%len(seq)]])
 	}
-	return max(s, scaleFloor*median(gaps))
+	return max(s, scaleFloor*median(gaps)), s
 }
 
 // dropOutliers finds the gross outliers of the loop seq. Residuals come from
 // residuals and the scale from robustScale, both from the first
-// round. In each round the points beyond sigma·scale that have the largest
+// round (the scale floored, and raw). In each round the points beyond sigma·scale that have the largest
 // residual within fitK positions are taken out (a point next to an
 // outlier has a large residual too, through the outlier in its fit), and the
 // residuals are computed again with the outliers' neighbours joined. The
 // rounds stop when no point is beyond the threshold. A point within the
 // sagitta bound of sagitta is never an outlier. It returns the loop
 // without the outliers (with them, if keep), the scale and the outliers.
+// Points marked in exempt (by point index; nil for none) are never
+// outliers here: the trailing edge's end zone, whose tight turns the end
+// model of findEdge judges instead.
 //
 // band > 0 marks a band-ordered loop (see residuals); the sagitta
 // bound is then not used. (The local maxima are still taken over fitK
 // positions: in a wide band fit one outlier moves its neighbours' fits
 // little.)
-func dropOutliers(pts []geometry.Point, seq []int32, sigma float64, keep bool, band int) ([]int32, float64, []hit) {
+func dropOutliers(pts []geometry.Point, seq []int32, sigma float64, keep bool, lf localFits, exempt []bool) ([]int32, float64, float64, []hit) {
 	if len(seq) < minPoints {
-		return seq, 0, nil
+		return seq, 0, 0, nil
 	}
-	r := residuals(pts, seq, band)
-	scale := robustScale(pts, seq, r)
-	thr := sigma * scale
+	band := lf.band
+	r := make([]float64, len(seq))
+	lf.residualsAt(pts, seq, nil, r)
+	scale, raw := robustScale(pts, seq, r)
+	loc := localScales(pts, seq, r)
+	// The sagitta bound needs neighbours in their true order: point to
+	// point fits on a thin line, or a section order of points that do not
+	// form a band.
+	useSagitta := band == 0 && (lf.sc == nil || !bandLike(pts, seq, scale))
 	work := seq
 	var hits []hit
 	for range dropRounds {
 		n := len(work)
 		var out []bool
 		for i := range n {
-			if r[i] <= thr || band == 0 && r[i] <= sagitta(pts, work, i) {
+			if r[i] <= sigma*max(scale, loc[work[i]]) || useSagitta && r[i] <= sagitta(pts, work, i) || exempt != nil && exempt[work[i]] {
 				continue
 			}
 			top := true
@@ -333,7 +389,10 @@ func dropOutliers(pts []geometry.Point, seq []int32, sigma float64, keep bool, b
 		// Take the outliers out; only the residuals of points whose fits
 		// reached one change.
 		reach := fitK + 2
-		if band > 0 {
+		switch {
+		case lf.sc != nil:
+			reach = sectionWindow + 2
+		case band > 0:
 			reach = band + 2
 		}
 		next := make([]int32, 0, n)
@@ -365,12 +424,12 @@ func dropOutliers(pts []geometry.Point, seq []int32, sigma float64, keep bool, b
 		if 2*reach+1 >= nn {
 			at = nil
 		}
-		residualsAt(pts, work, band, at, r)
+		lf.residualsAt(pts, work, at, r)
 	}
 	if keep {
-		return seq, scale, hits
+		return seq, scale, raw, hits
 	}
-	return work, scale, hits
+	return work, scale, raw, hits
 }
 
 // placeRest deals with the points of rest, which joined no loop. A point

@@ -13,9 +13,9 @@ import (
 
 // Fit methods, as reported in FitReport.Method and the section document.
 const (
-	FitInterpolate = "interpolate" // exact interpolation (noise 0)
-	FitNoise       = "noise"       // smoothing set from the expected noise
-	FitGCV         = "gcv"         // smoothing set by generalised cross-validation
+	FitInterpolate = "interpolate" // exact interpolation: noise 0 given, or the points are exact samples
+	FitNoise       = "noise"       // smoothing set from the noise the user gave
+	FitAuto        = "auto"        // smoothing set from the noise the points show
 )
 
 // Curve ends chosen by Fit, FitOptions.Ends and FitReport.Ends.
@@ -44,6 +44,50 @@ type FitOptions struct {
 	Tolerance float64
 	// Ends is FitEndsAuto (default), FitEndsClosed or FitEndsOpen.
 	Ends string
+	// Edge, when set, is the trailing edge as the caller found it on the
+	// points (the cleaning step does): Fit takes the curve's ends from it
+	// and does not look for corners itself; Ends is then ignored.
+	Edge *Edge
+}
+
+// Edge is the trailing edge of a contour as the caller found it
+// (FitOptions.Edge). The contour starts at the end of the upper surface.
+type Edge struct {
+	// Closed asks for a periodic fit (a rounded edge, its tip at contour
+	// point 0).
+	Closed bool
+	// Base is the number of points at the end of the contour that lie on
+	// a blunt base: the fit leaves them out and measures them from the
+	// straight base between the curve's ends (FitReport.Base).
+	Base int
+	// Upper and Lower are where an open curve starts and ends: the ends of
+	// the upper and the lower surface, equal for a sharp edge. They are
+	// added to the fit as end points (pinned by endWeight) unless they
+	// coincide with contour point 0 and the last point before the base, so
+	// a corner no point sampled is part of the curve.
+	Upper, Lower geometry.Point
+}
+
+// endsOf returns the fit order of a contour of n points with the edge e.
+func endsOf(e *Edge, n int) trailingEnds {
+	if e.Closed || e.Base < 0 || e.Base > n-splineMinKnots {
+		o := make([]int, n)
+		for i := range o {
+			o[i] = i
+		}
+		return trailingEnds{order: o}
+	}
+	m := n - e.Base
+	o := make([]int, m)
+	for i := range o {
+		o[i] = i
+	}
+	var base []int
+	for i := m; i < n; i++ {
+		base = append(base, i)
+	}
+	up, lo := e.Upper, e.Lower
+	return trailingEnds{open: true, order: o, base: base, upper: &up, lower: &lo}
 }
 
 // ToleranceFloor is the smallest automatic FitOptions.Tolerance, as a
@@ -79,10 +123,11 @@ type FitReport struct {
 	// coordinate (n for interpolation).
 	EffectiveParams float64
 	RMS, Max        float64 // RMS and largest |Residual|
-	// NoiseEstimate is the noise the residuals imply, RMS·√(n/(n − tr H)):
-	// smaller residuals than the noise are expected, since the curve takes
-	// up tr H of the n degrees of freedom. 0 for interpolation, and when
-	// the curve takes up more than 90 % of the freedom.
+	// NoiseEstimate is the noise (a standard deviation normal to the
+	// outline) the points show: their scatter about a pilot curve that
+	// smooths over a tenth of the feature scale, corrected for the freedom
+	// the pilot takes up, or, where the points are too sparse for that,
+	// the scatter the sampling test implies. 0 for interpolation.
 	NoiseEstimate float64
 	MaxAt         geometry.Origin // where the largest residual is
 	// S[i] and Residual[i] belong to point i of the contour: the arc length
@@ -95,12 +140,35 @@ type FitReport struct {
 	Tolerance   float64           // the tolerance used for Beyond
 	Base        []geometry.Origin // points on a blunt trailing-edge base, left out of the fit
 	// Scatter is the local scatter of the points about parabolas through
-	// their neighbours (a noise estimate made before fitting, 0 with
-	// Exact); ScatterSmoothing reports that it replaced cross-validation
-	// as the noise because cross-validation nearly interpolated.
-	Scatter          float64
-	ScatterSmoothing bool
-	Warnings         []string
+	// their neighbours (made before fitting, 0 with Exact): the scale at
+	// which trailing-edge corners are sought.
+	Scatter float64
+	// Interpolates says why the curve passes through every point, when it
+	// does: noise 0 was given, or the points are exact samples (the
+	// sampling test, SampleRatio), or too few to tell noise from shape.
+	Interpolates string
+	// SampleRatio is the ratio of the errors with which interpolating
+	// splines through every fourth and every second point predict the
+	// points between their knots (the sampling test, sampling.go): near 1
+	// for noisy points, 3 and more for exact samples of a smooth outline;
+	// 0 when not measured.
+	SampleRatio float64
+	// Parameter names the parameter an interpolating fit runs in
+	// (bins.go, chooseParameter): "chord length", "centripetal" or
+	// "uniform"; empty for a smoothing fit (arc length of the feet).
+	Parameter string
+	// Smoothing is the smoothing length in units of the local feature
+	// scale (the arc over which the outline turns by half a radian; see
+	// smoothing.go); 0 when interpolating.
+	Smoothing float64
+	// Fairness measures the fitted curve (fairness.go); FairSteps counts
+	// the doublings of λ the fairness guard made to take noise-made
+	// wiggles out of the curvature.
+	Fairness  Fairness
+	FairSteps int
+	Warnings  []string
+
+	resampler *resampler // the final fit, for Replica and Half
 }
 
 // trailingEnds is the result of looking for corners at the trailing edge.
@@ -108,6 +176,9 @@ type trailingEnds struct {
 	open  bool
 	order []int // contour indices in fit order; for a sharp edge the first is repeated at the end
 	base  []int // contour indices on a blunt base
+	// upper and lower, when set, are end points added before and after
+	// the order (FitOptions.Edge).
+	upper, lower *geometry.Point
 }
 
 // sharpDeg are the turning angles (degrees) that make a corner: one
@@ -364,41 +435,42 @@ func roundedEnd(pts []geometry.Point, turn []float64, kb, kf []int, top, w, k in
 	return math.Abs(span)*180/math.Pi >= roundSpanDeg
 }
 
-// Limits of the cross-validation check (chooseLambda).
-const (
-	gcvScatter   = 0.05 // residual RMS, as a fraction of the scatter, that counts as interpolating
-	gcvMinPoints = 100  // fewer points are too few to judge the scatter
-	// gcvMinScatter is the least scatter, as a fraction of the median
-	// point spacing, that counts as noise.
-	gcvMinScatter = 0.01
-)
-
 // endWeight is the weight of the two end points of an open fit (all
 // other points weigh 1): it pins the curve ends to the trailing-edge points.
 const endWeight = 1e4
 
-// Fit fits a cubic smoothing spline (Reinsch 1967, see spline.go) in a
-// chord-length parameter to the contour c, coordinates x(t) and y(t)
-// separately with one smoothing parameter: periodic over the loop when the
-// trailing edge is smooth, open with both ends at the trailing edge when it
-// has a corner (sharp) or two (blunt, whose base points are left out). c must
-// run counter-clockwise with index 0 at or near the trailing edge.
+// Fit fits a cubic smoothing spline (Reinsch 1967, see spline.go) to the
+// contour c, coordinates x(t) and y(t) separately with one smoothing
+// parameter: periodic over the loop when the trailing edge is smooth, open
+// with both ends at the trailing edge when it has a corner (sharp) or two
+// (blunt, whose base points are left out). c must run counter-clockwise
+// with index 0 at or near the trailing edge.
 //
-// The smoothing strength λ follows opts: exact interpolation, the RMS normal
-// residual equal to opts.Noise (bisection on log λ), or the minimum of the
-// generalised cross-validation score (Craven and Wahba, Numer. Math. 31
-// (1979), 377–403) over log λ. After a first fit the parameter of every
-// point is replaced by the arc length of its foot on the curve and the fit
-// is repeated, which keeps dense, noisy scans from wrinkling the parameter.
-// Each fit costs O(n).
+// How much it smooths, and where (smoothing.go):
 //
-// Noisy scans. The local scatter of the points (FitReport.Scatter, the
-// spread about parabolas through 10 neighbours) sets the scale at which
-// trailing-edge corners are sought. Cross-validation assumes independent
-// errors; points cut from a noisy mesh share their noise with their
-// neighbours, and it then nearly interpolates them. When its curve leaves
-// residuals below gcvScatter of the scatter on dense points, the scatter
-// is used as the noise instead (FitReport.ScatterSmoothing, with a warning).
+//   - opts.Exact interpolates every point;
+//   - otherwise the sampling test (sampling.go) first asks whether the
+//     points are exact samples of a smooth outline (a CAD polyline): then
+//     they are interpolated too, and FitReport.Interpolates says why;
+//   - otherwise a pilot fit in the chord-length parameter gives each
+//     point's foot (its arc length, the parameter of the final fit) and
+//     the feature scale of the outline about it; the final fit smooths
+//     each part over a length that grows with its feature scale, short at
+//     the nose and at a rounded end, long along the surfaces, with one
+//     factor chosen by the unbiased risk estimate for the noise (opts.Noise,
+//     or the noise the points show by local regression), corrected for
+//     noise that neighbouring points share (a cut mesh); a fairness guard
+//     then smooths more wherever wiggles of the curvature remain along the
+//     surfaces (fairness.go).
+//
+// Points farther than the tolerance are listed; gross outliers among them
+// are down-weighted and the fit repeated (robustRounds). More than binFrom
+// points are fitted through bins of neighbours (bins.go) and every point's
+// residual is measured against the curve. Each fit costs O(n).
+//
+// The local scatter of the points (FitReport.Scatter, the spread about
+// parabolas through 10 neighbours) sets the scale at which trailing-edge
+// corners are sought.
 //
 // Fit returns an error wrapping ErrTooFewPoints for fewer than 8 distinct
 // points, ErrNonFinite for NaN or infinite coordinates and ErrCollinear for
@@ -414,10 +486,15 @@ func Fit(c *geometry.Contour, opts FitOptions) (*Curve, *FitReport, error) {
 	if !opts.Exact {
 		scatter = localScatter(c.Points)
 	}
-	ends := detectEnds(c.Points, opts.Ends, scatter)
+	var ends trailingEnds
+	if opts.Edge != nil {
+		ends = endsOf(opts.Edge, c.Len())
+	} else {
+		ends = detectEnds(c.Points, opts.Ends, scatter)
+	}
 	rep0Scatter := scatter
 
-	pts, knot, err := fitOrder(c, ends, perim)
+	pts, knot, along, err := fitOrder(c, ends, perim)
 	if err != nil {
 		return nil, nil, err
 	}
@@ -426,33 +503,35 @@ func Fit(c *geometry.Contour, opts FitOptions) (*Curve, *FitReport, error) {
 	for i := range ws {
 		ws[i] = 1
 	}
+	// The ends of an open fit are pinned to the trailing-edge points when
+	// interpolating; a smoothing fit leaves them free (the corner point of
+	// a sharp edge, at both ends, counts half at each) and rebuilds the
+	// corner afterwards (corner.go).
+	sharp := ends.open && len(ends.base) == 0 && ends.order[0] == ends.order[len(ends.order)-1]
 	if ends.open {
-		ws[0], ws[m-1] = endWeight, endWeight
+		switch {
+		case opts.Exact || (!sharp && len(ends.base) < 2):
+			// Interpolation, or the two sides of a gap, which end where
+			// the points do.
+			ws[0], ws[m-1] = endWeight, endWeight
+		case sharp:
+			ws[0], ws[m-1] = 0.5, 0.5
+		}
 	}
-	xs, ys := make([]float64, m), make([]float64, m)
-	for i, p := range pts {
-		xs[i], ys[i] = p.X, p.Y
-	}
-	ts := make([]float64, m)
-	for i := 1; i < m; i++ {
-		ts[i] = ts[i-1] + pts[i].Dist(pts[i-1])
-	}
-	period := 0.0
-	if !ends.open {
-		period = ts[m-1] + pts[m-1].Dist(pts[0])
-	}
-
 	rep := &FitReport{Ends: FitEndsClosed, Scatter: rep0Scatter}
 	if ends.open {
 		rep.Ends = FitEndsOpen
 	}
+	st := &smoothState{}
 	switch {
 	case opts.Exact:
 		rep.Method = FitInterpolate
+		rep.Interpolates = "noise 0 was given"
+		st.exact = true
 	case opts.Noise > 0:
 		rep.Method = FitNoise
 	default:
-		rep.Method = FitGCV
+		rep.Method = FitAuto
 	}
 	baseSet := make(map[int]bool, len(ends.base))
 	for _, i := range ends.base {
@@ -461,22 +540,67 @@ func Fit(c *geometry.Contour, opts FitOptions) (*Curve, *FitReport, error) {
 	}
 	var cv *Curve
 	for round := 0; ; round++ {
+		fp := newFitPoints(pts, ws, along, ends.open)
+		if round == 0 && !opts.Exact {
+			st.sample = sampleTest(fp.ts, fp.xs, fp.ys, !ends.open, fp.period, perim)
+			rep.SampleRatio = st.sample.Ratio
+			if opts.Noise == 0 {
+				switch {
+				case st.sample.Ratio == 0:
+					st.exact = true
+					rep.Method = FitInterpolate
+					rep.Interpolates = fmt.Sprintf("too few points (%d) to tell noise from shape", m)
+				case st.sample.Exact:
+					st.exact = true
+					rep.Method = FitInterpolate
+					rep.Interpolates = exactReason(st.sample)
+				}
+				if st.exact && ends.open && ws[0] < endWeight {
+					// Exact points are interpolated, ends and all.
+					ws[0], ws[m-1] = endWeight, endWeight
+					fp = newFitPoints(pts, ws, along, ends.open)
+				}
+			}
+		}
+		if st.exact {
+			rep.Parameter = fp.chooseParameter(!ends.open)
+		}
 		var err error
-		cv, err = passes(pts, ts, ws, xs, ys, ends.open, period, opts, scatter, rep)
+		cv, err = passes(fp, ends.open, ends.open && ws[0] < endWeight, opts, st, rep)
 		if err != nil {
 			return nil, nil, err
 		}
-		residuals(c, cv, knot, baseSet, rep)
+		if ends.open {
+			eb := newEndRebuild(c, ends, sharp, pts)
+			if !st.exact {
+				cv = rebuildEnds(cv, eb)
+			}
+			st.final.ends = eb
+		}
+		fk := make([]int, len(knot))
+		for i, j := range knot {
+			fk[i] = fp.index(j)
+		}
+		residuals(c, cv, fk, baseSet, rep)
+		if fp.of != nil && !st.exact {
+			// The noise of single points, from their residuals: the
+			// curve takes up a negligible share of their freedom.
+			rep.NoiseEstimate = robustSigma(rep.Residual)
+		}
 		rep.Tolerance = opts.Tolerance
-		if rep.Tolerance == 0 && !opts.Exact {
+		if rep.Tolerance == 0 && st.exact && !opts.Exact {
+			// Exact samples, found so: a floor, as for any automatic
+			// tolerance.
+			rep.Tolerance = ToleranceFloor * perim
+		}
+		if rep.Tolerance == 0 && !st.exact {
 			noise := opts.Noise
-			if rep.ScatterSmoothing {
-				// The scatter stands for the noise the user did not give.
-				noise = rep.Scatter
+			if noise == 0 {
+				noise = rep.NoiseEstimate
 			}
 			rep.Tolerance = math.Max(4*math.Max(noise, rep.RMS), ToleranceFloor*perim)
 		}
-		if opts.Exact || rep.Tolerance == 0 || round == robustRounds {
+		if st.exact || rep.Tolerance == 0 || round == robustRounds {
 			break
 		}
 		// Points beyond the tolerance are listed, not moved. Those that are
@@ -496,8 +620,79 @@ func Fit(c *geometry.Contour, opts FitOptions) (*Curve, *FitReport, error) {
 		}
 	}
 	finishReport(c, opts, len(pts), rep)
+	rep.resampler = st.final
 	return cv, rep, nil
 }
+
+// rebuildEnds rebuilds the trailing-edge corners of a smoothed open fit
+// (corner.go): the sharp corner where the branches meet, or each corner of
+// a blunt edge where its branch meets the line through the base points.
+// An open end without base points (a gap) is left where the fit put it.
+func rebuildEnds(cv *Curve, e endRebuild) *Curve {
+	switch {
+	case e.sharp:
+		return joinCorner(cv, e.h)
+	case e.base:
+		return toBase(cv, e.o, e.dir)
+	}
+	return cv
+}
+
+// endRebuild says how rebuildEnds rebuilds the ends of a smoothed open fit:
+// a sharp corner (with h the spacing of the points at the ends), or the
+// corners on the base line through o in direction dir.
+type endRebuild struct {
+	sharp, base bool
+	h           float64
+	o, dir      geometry.Point
+	// nBase is the number of base points, spread their RMS distance along
+	// the base from o: how well they fix the line (Replica).
+	nBase  int
+	spread float64
+}
+
+// newEndRebuild returns how the ends of the open fit of c with ends are
+// rebuilt; pts are the points in fit order.
+func newEndRebuild(c *geometry.Contour, ends trailingEnds, sharp bool, pts []geometry.Point) endRebuild {
+	e := endRebuild{sharp: sharp, h: endSpacing(pts)}
+	if sharp || len(ends.base) < 2 {
+		return e
+	}
+	var o geometry.Point
+	for _, i := range ends.base {
+		o = o.Add(c.Points[i])
+	}
+	o = o.Scale(1 / float64(len(ends.base)))
+	var sxx, sxy, syy float64
+	for _, i := range ends.base {
+		d := c.Points[i].Sub(o)
+		sxx, sxy, syy = sxx+d.X*d.X, sxy+d.X*d.Y, syy+d.Y*d.Y
+	}
+	th := 0.5 * math.Atan2(2*sxy, sxx-syy)
+	e.base, e.o, e.dir = true, o, geometry.Point{X: math.Cos(th), Y: math.Sin(th)}
+	e.nBase = len(ends.base)
+	for _, i := range ends.base {
+		u := c.Points[i].Sub(o).Dot(e.dir)
+		e.spread += u * u
+	}
+	e.spread = math.Sqrt(e.spread / float64(e.nBase))
+	return e
+}
+
+// endSpacing returns the median spacing of the endSpan points at either
+// end of pts (fit order).
+func endSpacing(pts []geometry.Point) float64 {
+	m := len(pts)
+	var gaps []float64
+	for i := 1; i <= min(endSpan, m-1); i++ {
+		gaps = append(gaps, pts[i].Dist(pts[i-1]), pts[m-i].Dist(pts[m-i-1]))
+	}
+	return median(gaps)
+}
+
+// endSpan is the number of gaps at each end over which endSpacing takes
+// the median.
+const endSpan = 10
 
 // checkContour checks the contour and options Fit is given and returns
 // the perimeter of the contour.
@@ -530,15 +725,25 @@ func checkContour(c *geometry.Contour, opts FitOptions) (float64, error) {
 }
 
 // fitOrder returns the contour points in fit order (ends.order) without
-// coincident neighbours, and knot[i], the index among them of contour
-// point i (−1 for points on a blunt base).
-func fitOrder(c *geometry.Contour, ends trailingEnds, perim float64) ([]geometry.Point, []int, error) {
+// coincident neighbours, knot[i], the index among them of contour point i
+// (−1 for points on a blunt base), and, when the contour carries its
+// positions along the loop (Contour.Along), those of the fit points (nil
+// otherwise; an added end point lies its distance beyond its neighbour).
+func fitOrder(c *geometry.Contour, ends trailingEnds, perim float64) ([]geometry.Point, []int, []float64, error) {
 	n := c.Len()
 	knot := make([]int, n)
 	for i := range knot {
 		knot[i] = -1
 	}
+	useAlong := len(c.Along) == n
 	var pts []geometry.Point
+	var along []float64
+	upperAdded := false
+	if ends.upper != nil {
+		pts = append(pts, *ends.upper)
+		along = append(along, 0)
+		upperAdded = true
+	}
 	for _, ci := range ends.order {
 		p := c.Points[ci]
 		if len(pts) > 0 && p.Dist(pts[len(pts)-1]) <= 1e-12*perim {
@@ -551,25 +756,42 @@ func fitOrder(c *geometry.Contour, ends trailingEnds, perim float64) ([]geometry
 			knot[ci] = len(pts)
 		}
 		pts = append(pts, p)
+		if useAlong {
+			a := c.Along[ci]
+			if len(along) > 0 && a < along[len(along)-1] {
+				a += c.Along[n-1] + c.Points[n-1].Dist(c.Points[0]) // a closed fit's wrap
+			}
+			along = append(along, a)
+		}
+	}
+	if useAlong && upperAdded && len(along) > 1 {
+		along[0] = along[1] - pts[0].Dist(pts[1])
+	}
+	if ends.lower != nil && (len(pts) == 0 || ends.lower.Dist(pts[len(pts)-1]) > 1e-12*perim) {
+		if useAlong && len(pts) > 0 {
+			along = append(along, along[len(along)-1]+ends.lower.Dist(pts[len(pts)-1]))
+		}
+		pts = append(pts, *ends.lower)
 	}
 	if !ends.open && len(pts) > 1 && pts[len(pts)-1].Dist(pts[0]) <= 1e-12*perim {
 		pts = pts[:len(pts)-1]
+		if useAlong {
+			along = along[:len(along)-1]
+		}
 	}
 	if len(pts) < splineMinKnots {
-		return nil, nil, fmt.Errorf("geometry: fit: %w: %d distinct point(s), need at least %d", geometry.ErrTooFewPoints, len(pts), splineMinKnots)
+		return nil, nil, nil, fmt.Errorf("geometry: fit: %w: %d distinct point(s), need at least %d", geometry.ErrTooFewPoints, len(pts), splineMinKnots)
 	}
-	return pts, knot, nil
+	if !useAlong {
+		along = nil
+	}
+	return pts, knot, along, nil
 }
 
 // finishReport completes rep once the fit is done: the noise estimate,
 // the points beyond the tolerance and the warnings, each once. n is the
 // number of points fitted.
 func finishReport(c *geometry.Contour, opts FitOptions, n int, rep *FitReport) {
-	// The estimate means little when the curve takes up nearly all the
-	// freedom of the points (nearly interpolating): then it is left at 0.
-	if dof := 1 - rep.EffectiveParams/float64(n); !opts.Exact && dof >= 0.1 {
-		rep.NoiseEstimate = rep.RMS / math.Sqrt(dof)
-	}
 	rep.Beyond = nil
 	if rep.Tolerance > 0 {
 		for i, r := range rep.Residual {
@@ -628,121 +850,6 @@ func originOf(c *geometry.Contour, i int) geometry.Origin {
 		return c.Origins[i]
 	}
 	return geometry.Origin{File: fmt.Sprintf("point %d", i+1)}
-}
-
-// chooseLambda returns λ for the options: 0 for exact interpolation, the
-// λ whose RMS normal residual equals opts.Noise, or the GCV minimiser.
-//
-// A positive hint (a λ from an earlier fit of nearly the same data) narrows
-// the search to a factor of e³ either side of it when that brackets the
-// answer.
-//
-// scatter is the local scatter of the points (localScatter); when
-// cross-validation leaves residuals below gcvScatter of it on at least
-// gcvMinPoints points, the scatter is used as the noise.
-func chooseLambda(p *splineProblem, xs, ys []float64, opts FitOptions, hint, scatter float64, rep *FitReport) (float64, error) {
-	if opts.Exact {
-		return 0, nil
-	}
-	n := p.n()
-	var span float64
-	for _, h := range p.hs {
-		span += h
-	}
-	hbar := span / float64(len(p.hs))
-	// λ ≈ ℓ⁴/h̄ for a smoothing length ℓ; search ℓ from 10⁻² h̄ to span/2.
-	lo := math.Log(1e-8 * hbar * hbar * hbar)
-	hi := math.Log(math.Pow(span/2, 4) / hbar)
-	cols := [][]float64{xs, ys}
-	const hintSpan = 3
-	if opts.Noise > 0 {
-		// With the noise known, λ minimises the unbiased risk estimate
-		//
-		//	U(λ) = RSS(λ)/n + 2·(2σ²)·tr H(λ)/n
-		//
-		// (Craven and Wahba, Numer. Math. 31 (1979) 377–403; Wahba, Spline
-		// Models for Observational Data, SIAM 1990, §4.7), the expected
-		// squared error of the curve at the points, both coordinates
-		// counted. Matching the raw residual RMS to σ instead (the
-		// discrepancy principle) over-smooths, and the nose, where the
-		// curvature is largest, flattens first. Residuals are capped at
-		// outlierSigmas·σ, so a few gross outliers are not taken for
-		// noise. The residual RMS then comes out near σ·√(1 − tr H/n).
-		sigma := opts.Noise
-		clip := outlierSigmas * sigma
-		ubre := func(ll float64) float64 {
-			f, err := p.fit(math.Exp(ll), cols, true)
-			if err != nil {
-				return math.Inf(1)
-			}
-			var ss float64
-			for i := 0; i < n; i++ {
-				dx, dy := xs[i]-f.gs[0][i], ys[i]-f.gs[1][i]
-				r2 := dx*dx + dy*dy
-				ss += math.Min(p.ws[i], 1) * math.Min(r2, clip*clip)
-			}
-			return ss/float64(n) + 4*sigma*sigma*f.trace/float64(n)
-		}
-		return minimise(ubre, lo, hi, hint, hintSpan), nil
-	}
-	gcv := func(ll float64) float64 {
-		f, err := p.fit(math.Exp(ll), cols, true)
-		if err != nil {
-			return math.Inf(1)
-		}
-		var ss float64
-		for i := 0; i < n; i++ {
-			dx, dy := xs[i]-f.gs[0][i], ys[i]-f.gs[1][i]
-			ss += p.ws[i] * (dx*dx + dy*dy)
-		}
-		den := 1 - f.trace/float64(n)
-		if !(den > 0) {
-			return math.Inf(1)
-		}
-		return ss / float64(n) / (den * den)
-	}
-	ll, atEdge := minimiseLog(gcv, lo, hi, hint, hintSpan)
-	if math.IsInf(gcv(ll), 1) {
-		return 0, fmt.Errorf("geometry: fit: cross-validation failed for every smoothing strength")
-	}
-	// Cross-validation assumes independent errors. Points cut from a noisy
-	// mesh lie on straight edges between noisy vertices, so neighbours
-	// share their noise, a curve through every point looks predictable,
-	// and the score prefers (nearly) interpolating the noise, which ruins
-	// curvature. When the chosen curve leaves residuals far below the local
-	// scatter of the points (localScatter, measured over windows wider
-	// than the correlation), the scatter is taken as the noise instead and
-	// λ minimises the unbiased risk estimate as for a given noise. White
-	// noise gives residuals of about σ·√(1 − tr H/n), above 0.2σ even when
-	// a sharply curved part of the outline makes the score keep 95 % of
-	// the freedom, so only a curve that keeps more than 99.75 % (residuals
-	// below gcvScatter = 0.05 of the scatter) is overruled; exact data
-	// have (nearly) no scatter.
-	// The check is made once, on the first full search (no hint); the
-	// verdict holds for the later passes and rounds (passes).
-	//
-	// A scatter below gcvMinScatter of the median point spacing h is
-	// left alone: it bends the curve by about σ/h², under 1 % of the
-	// curvature of a nose resolved by a few points, and on clean data it
-	// is the sag of straight facets (a cut of an exact mesh, a polyline),
-	// which interpolation follows correctly.
-	if scatter > gcvMinScatter*medianStep(p) && n >= gcvMinPoints && hint == 0 {
-		f, err := p.fit(math.Exp(ll), cols, true)
-		if err == nil && normalRMS(p, f, xs, ys) < gcvScatter*scatter {
-			o := opts
-			o.Noise = scatter
-			lam, err := chooseLambda(p, xs, ys, o, hint, 0, rep)
-			if err == nil {
-				rep.Warnings = append(rep.Warnings, fmt.Sprintf("cross-validation nearly interpolated points whose local scatter is %.3g (noise correlated along the outline, as in a cut mesh): smoothing set from that scatter; give the noise to override", scatter))
-				rep.ScatterSmoothing = true
-			}
-			return lam, err
-		}
-	}
-	if atEdge && hint == 0 {
-		rep.Warnings = append(rep.Warnings, "cross-validation chose the weakest smoothing tried: the points look noise-free; consider noise 0")
-	}
-	return math.Exp(ll), nil
 }
 
 // medianStep returns the median parameter step of p (the point spacing).
@@ -843,70 +950,222 @@ func robustSigma(rs []float64) float64 {
 	return 1.4826 * a[len(a)/2]
 }
 
-// passes fits twice: in the chord-length parameter ts, then in the arc
-// length of each point's foot on the first curve (unless that would not
-// increase strictly). It records λ and tr H in rep.
-func passes(pts []geometry.Point, ts, ws, xs, ys []float64, open bool, period float64, opts FitOptions, scatter float64, rep *FitReport) (*Curve, error) {
+// smoothState is what the rounds of Fit share: the verdict of the
+// sampling test, the feature scales and the smoothing chosen so far.
+type smoothState struct {
+	final  *resampler // the last fit, for replicas
+	sample sampling
+	exact  bool      // interpolate
+	T      []float64 // feature scale at each fit point, from the first round
+	lambda float64   // λ of the last round (a hint for the next)
+	pilot  float64   // λ of the last pilot pass
+}
+
+// exactReason says why points the sampling test found exact are
+// interpolated.
+func exactReason(s sampling) string {
+	if math.IsInf(s.Ratio, 1) {
+		return "the points lie on a smooth curve to the last digits (exact data)"
+	}
+	return fmt.Sprintf("the points are exact samples: the spline through every fourth point misses the others %.3g times as far as the spline through every second point (noise would give about 1)", s.Ratio)
+}
+
+// passes fits the curve in two passes. An exact fit interpolates the
+// points in the chord-length parameter ts. Otherwise the first pass
+// smooths in ts with one λ for every point, for the noise given or the
+// noise of the sampling test, as a pilot of the shape; the second pass
+// takes as parameters the arc lengths of the points' feet on the pilot,
+// the feature scales along it, and smooths each part over a length in
+// proportion to its feature scale with the factor the risk estimate
+// chooses (smoothing.go). It records λ, tr H, the smoothing factor and
+// the noise estimate in rep.
+func passes(fp fitPoints, open, freeEnds bool, opts FitOptions, st *smoothState, rep *FitReport) (*Curve, error) {
+	pts, ts, ws, xs, ys, period := fp.pts, fp.ts, fp.ws, fp.xs, fp.ys, fp.period
 	m := len(pts)
-	var cv *Curve
-	hint := rep.Lambda
-	for pass := 0; pass < 2; pass++ {
+	cols := [][]float64{xs, ys}
+	// The noise the user gave, per fit point: a bin averages its points.
+	userNoise := opts.Noise / math.Sqrt(fp.count)
+	if st.exact {
 		prob := splineNewProblem(ts, ws, !open, period)
-		o := opts
-		if rep.ScatterSmoothing && !o.Exact && o.Noise == 0 {
-			// Cross-validation was overruled once: later passes and rounds
-			// of the same data keep the scatter as the noise.
-			o.Noise = rep.Scatter
-		}
-		lambda, err := chooseLambda(prob, xs, ys, o, hint, scatter, rep)
-		if err != nil {
-			return nil, err
-		}
-		f, err := prob.fit(lambda, [][]float64{xs, ys}, true)
+		f, err := prob.fit(0, cols, false)
 		if err != nil {
 			return nil, fmt.Errorf("geometry: fit: %w", err)
 		}
-		rep.Lambda, rep.EffectiveParams = lambda, f.trace
-		hint = lambda
-		cv = fromFit(prob, f, !open)
-		if pass == 1 || lambda == 0 {
-			break
-		}
-		L := cv.Length()
-		nts := make([]float64, m)
-		var s0 float64
-		for i, p := range pts {
-			s, _ := cv.residual(p, min(i, cv.Pieces()-1), knotU(cv, i))
-			if !open {
-				if i == 0 {
-					s0 = s
-				}
-				s -= s0
-				if s < 0 {
-					s += L
-				}
-				if i == 0 {
-					s = 0
-				}
-			}
-			if i > 0 {
-				// Feet of dense, noisy points can crowd or swap; keep every
-				// step at least a twentieth of its chord-length step so the
-				// system stays well conditioned.
-				s = math.Max(s, nts[i-1]+minStep*(ts[i]-ts[i-1]))
-			}
-			nts[i] = s
-		}
-		if !open {
-			closing := period - (ts[m-1] - ts[0])
-			if L-nts[m-1] < minStep*closing {
-				return cv, nil
-			}
-			period = L
-		}
-		ts = nts
+		rep.Lambda, rep.EffectiveParams, rep.Smoothing, rep.NoiseEstimate = 0, float64(m), 0, 0
+		st.final = newResampler(prob, f, xs, ys, 0, 0, open, false)
+		return fromFit(prob, f, !open), nil
 	}
+	c := critWeights(ws)
+
+	// Pass 1: the pilot of the shape.
+	sigma0 := userNoise
+	if sigma0 == 0 {
+		sigma0 = st.sample.Noise
+	}
+	prob0 := splineNewProblem(ts, ws, !open, period)
+	span := ts[m-1] - ts[0]
+	if !open {
+		span = period
+	}
+	hbar := span / float64(len(prob0.hs))
+	// λ ≈ ℓ⁴/h̄ for a smoothing length ℓ; search ℓ from 10⁻² h̄ to span/2.
+	lo, hi := math.Log(1e-8*hbar*hbar*hbar), math.Log(math.Pow(span/2, 4)/hbar)
+	lambda0 := riskLambda(prob0, xs, ys, c, sigma0, 1, lo, hi, st.pilot)
+	st.pilot = lambda0
+	f0, err := prob0.fit(lambda0, cols, false)
+	if err != nil {
+		return nil, fmt.Errorf("geometry: fit: %w", err)
+	}
+	cv0 := fromFit(prob0, f0, !open)
+
+	// Pass 2: arc-length parameter, feature scales, adaptive smoothing.
+	nts, nperiod := reparametrise(cv0, pts, ts, open, period)
+	s := make([]float64, m)
+	for i := range s {
+		s[i] = nts[i] - nts[0]
+	}
+	st.T = featureScales(cv0, s, open)
+	a, mean := arcWeights(nts, st.T, !open, nperiod, featurePower, spacingPower)
+	w := make([]float64, m)
+	for i := range w {
+		w[i] = ws[i] * a[i]
+	}
+	prob := splineNewProblem(nts, w, !open, nperiod)
+	lp := 0.0
+	if !open {
+		lp = nperiod
+	}
+	noise, tau, _ := localNoise(xs, ys, s, st.T, c, lp)
+	rep.NoiseEstimate = noise
+	sigma := userNoise
+	if sigma == 0 {
+		sigma = noise
+	}
+	var lambda float64
+	llo, lhi := math.Log(lambdaOfBeta(betaMin, mean)), math.Log(lambdaOfBeta(betaMax, mean))
+	switch {
+	case userNoise > 0:
+		lambda = riskLambda(prob, xs, ys, c, sigma, tau, llo, lhi, st.lambda)
+	case sigma > 0:
+		lambda = riskLambda(prob, xs, ys, c, sigma, tau, llo, lhi, st.lambda)
+	}
+	st.lambda = lambda
+	// The fairness guard: noise the risk estimate left in the curve
+	// (noise shared by neighbours that it could not tell from shape)
+	// shows as wiggles; smooth more until there are none.
+	Tat := func(sv float64) float64 {
+		j := searchSorted(s, sv)
+		return st.T[max(0, min(j, m-1))]
+	}
+	if lambda > 0 {
+		period := nperiod
+		prevProb := prob
+		w0 := w
+		for step := 0; step < fairSteps; step++ {
+			f, err := prob.fit(lambda, cols, false)
+			if err != nil {
+				// Smoothed past what the system can carry: the step
+				// before stands.
+				prob = prevProb
+				rep.FairSteps--
+				break
+			}
+			fr := MeasureFairness(fromFit(prob, f, !open), Tat)
+			lobes := fr.lobes
+			if len(lobes) == 0 {
+				break
+			}
+			// Smooth more about each wiggle: the weights of the points
+			// within a lobe's length of it drop by fairGrow for each lobe,
+			// but to no less than fairFloor of what the risk estimate gave
+			// them: on dense noisy scans many lobes overlap, and weights
+			// without a floor fell to 1e-24 of their start, where the
+			// spline system is no longer positive definite in floating
+			// point.
+			w = append([]float64(nil), w...)
+			for _, lb := range lobes {
+				pad := lb[1] - lb[0]
+				for i, si := range s {
+					d := si
+					if !open && d > lb[1]+pad {
+						d -= period
+					}
+					if d >= lb[0]-pad && d <= lb[1]+pad {
+						w[i] = math.Max(w[i]/fairGrow, fairFloor*w0[i])
+					}
+				}
+			}
+			prevProb = prob
+			prob = splineNewProblem(nts, w, !open, nperiod)
+			rep.FairSteps++
+		}
+	}
+	f, err := prob.fit(lambda, cols, true)
+	if err != nil {
+		return nil, fmt.Errorf("geometry: fit: %w", err)
+	}
+	if open && freeEnds && lambda > 0 {
+		if fc, ok := endCorrected(prob, xs, ys, lambda, f); ok {
+			fc.trace = f.trace
+			f = fc
+		}
+	}
+	rep.Lambda, rep.EffectiveParams, rep.Smoothing = lambda, f.trace, betaOfLambda(lambda, mean)
+	st.final = newResampler(prob, f, xs, ys, lambda, sigma*math.Sqrt(tau), open, freeEnds)
+	cv := fromFit(prob, f, !open)
+	rep.Fairness = MeasureFairness(cv, Tat)
 	return cv, nil
+}
+
+// The fairness guard divides the weights about a wiggle by fairGrow at
+// most fairSteps times.
+const (
+	fairGrow  = 2
+	fairSteps = 16
+	// fairFloor is the least share of its weight a point keeps.
+	fairFloor = 1e-8
+)
+
+// reparametrise returns the arc lengths of the feet of the points on cv
+// (from the foot of the first point on a closed curve), kept increasing by
+// at least minStep of each chord-length step, and the period of a closed
+// curve (its length). When the feet leave too short a closing step, the
+// chord-length parameter stands.
+func reparametrise(cv *Curve, pts []geometry.Point, ts []float64, open bool, period float64) ([]float64, float64) {
+	m := len(pts)
+	L := cv.Length()
+	nts := make([]float64, m)
+	var s0 float64
+	for i, p := range pts {
+		s, _ := cv.residual(p, min(i, cv.Pieces()-1), knotU(cv, i))
+		if !open {
+			if i == 0 {
+				s0 = s
+			}
+			s -= s0
+			if s < 0 {
+				s += L
+			}
+			if i == 0 {
+				s = 0
+			}
+		}
+		if i > 0 {
+			// Feet of dense, noisy points can crowd or swap; keep every
+			// step at least a twentieth of its chord-length step so the
+			// system stays well conditioned.
+			s = math.Max(s, nts[i-1]+minStep*(ts[i]-ts[i-1]))
+		}
+		nts[i] = s
+	}
+	if !open {
+		closing := period - (ts[m-1] - ts[0])
+		if L-nts[m-1] < minStep*closing {
+			return ts, period
+		}
+		return nts, L
+	}
+	return nts, period
 }
 
 // residuals fills S, Residual, RMS, Max and MaxAt of rep for every

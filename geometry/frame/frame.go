@@ -160,6 +160,17 @@ func Normalize(cv *curve.Curve, opts Options) (*Normalized, error) {
 	}
 	out := &Normalized{}
 	warn := func(s string) { out.Warnings = append(out.Warnings, s) }
+	if !cv.Closed() {
+		// A sharp edge whose surfaces cross just ahead of it (a thin,
+		// noisy edge) ends where they cross.
+		if cut, moved, ok := untangle(cv); ok {
+			chord := cv.Start().Dist(cv.At(cv.Length() / 2))
+			if cv.Start().Dist(cv.End()) <= EdgeSharpGap*max(chord, moved) {
+				cv = cut
+				warn(fmt.Sprintf("the surfaces near the trailing edge are within the noise of each other and crossed %.3g chord ahead of the corner; the edge was put where they cross", moved/chord))
+			}
+		}
+	}
 	e, err := locate(cv, opts.LEAt)
 	if err != nil {
 		return nil, err

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -160,8 +161,9 @@ type FlattenOptions struct {
 	Band float64
 	// Tolerance is the largest out-of-plane distance of a kept point that
 	// Flatten accepts; beyond it returns ErrNotPlanar. 0 means Band when
-	// Band > 0, else DefaultFlatTolerance × the diagonal of the kept
-	// points' bounding box.
+	// Band > 0, else the default: DefaultFlatTolerance × the diagonal of
+	// the kept points' bounding box, widened by the measured scatter (see
+	// Flatten).
 	Tolerance float64
 }
 
@@ -170,12 +172,29 @@ type FlattenOptions struct {
 // about 0.1 mm on a 100 mm part (common practice for a "flat" CMM scan).
 const DefaultFlatTolerance = 1e-3
 
+// scatterSample is the number of points whose neighbours the scatter
+// estimate of Flatten looks at.
+const scatterSample = 4000
+
+// scatterMargin is added to √(2 ln 2n), in units of the scatter, to make
+// the allowance for the noise of n points: a Gaussian scatter exceeds
+// (√(2 ln 2n) + 2)σ anywhere among n points with a probability below 1e-5.
+const scatterMargin = 2
+
 // Flatness reports how far the kept points lie from the plane, in input
 // units, how many were kept and how many fell outside the band.
 type Flatness struct {
 	RMS, Max      float64
 	Kept, Outside int
 	Plane         geometry.Plane
+	// Scatter is the out-of-plane noise of the points: the robust spread
+	// of the difference between the distances of neighbouring points from
+	// the plane, divided by √2 (input units). A systematic departure (a
+	// warped or twisted set) moves neighbours alike and does not count.
+	Scatter float64
+	// Tolerance is the out-of-plane distance Flatten accepted (the
+	// allowance for the scatter included).
+	Tolerance float64
 }
 
 // Flatten maps the 3D cloud c onto a plane and returns a 2D cloud (Dim 2,
@@ -266,18 +285,104 @@ func Flatten(c *geometry.Cloud, opts FlattenOptions) (*geometry.Cloud, Flatness,
 	if tol <= 0 {
 		tol = opts.Band
 	}
+	allowance := ""
 	if tol <= 0 {
-		tol = DefaultFlatTolerance * hi.Dist(lo)
+		// The default: a fixed share of the extent for the departure of
+		// the part from a plane, plus what the noise of this many points
+		// reaches.
+		fl.Scatter = outOfPlaneScatter(c, pl)
+		base := DefaultFlatTolerance * hi.Dist(lo)
+		k := math.Sqrt(2*math.Log(2*float64(fl.Kept))) + scatterMargin
+		tol = base + k*fl.Scatter
+		allowance = fmt.Sprintf(" (%.4g for the part's size plus %.3g for the scatter %.3g of neighbouring points; a warp moves neighbours alike, noise does not)", base, k*fl.Scatter, fl.Scatter)
 	}
+	fl.Tolerance = tol
 	if fl.Max > tol {
 		where := ""
 		if worst < len(c.Origins) {
 			where = " at " + c.Origins[worst].String()
 		}
-		return nil, fl, fmt.Errorf("geometry: flatten: %w: max out-of-plane distance %.4g%s, rms %.4g, exceeds the tolerance %.4g",
-			ErrNotPlanar, fl.Max, where, fl.RMS, tol)
+		return nil, fl, fmt.Errorf("geometry: flatten: %w: max out-of-plane distance %.4g%s, rms %.4g, exceeds the tolerance %.4g%s; cut the section out with --cut and --band, or give --flat-tol if the part may be that far from flat",
+			ErrNotPlanar, fl.Max, where, fl.RMS, tol, allowance)
 	}
 	return out, fl, nil
+}
+
+// outOfPlaneScatter returns the out-of-plane noise of the points of c
+// about the plane pl. For up to scatterSample evenly chosen points, the
+// distance from the plane is predicted from the two nearest neighbours in
+// the plane: linearly between them when they lie on either side of it,
+// else the nearest one's distance. The scatter is 1.4826 × the median
+// absolute prediction error (a robust standard deviation, common
+// practice), each error divided by its own noise factor (√(1 + w² + (1−w)²)
+// for weights w, 1 − w; √2 for one neighbour). A smooth warp is predicted
+// well by neighbours and does not count; noise does.
+func outOfPlaneScatter(c *geometry.Cloud, pl geometry.Plane) float64 {
+	n := len(c.Points)
+	if n < 3 {
+		return 0
+	}
+	uv := make([]geometry.Point, n)
+	d := make([]float64, n)
+	for i, p := range c.Points {
+		uv[i], d[i] = mapTo(pl, p)
+	}
+	lo, hi := geometry.Point{X: math.Inf(1), Y: math.Inf(1)}, geometry.Point{X: math.Inf(-1), Y: math.Inf(-1)}
+	for _, p := range uv {
+		lo = geometry.Point{X: math.Min(lo.X, p.X), Y: math.Min(lo.Y, p.Y)}
+		hi = geometry.Point{X: math.Max(hi.X, p.X), Y: math.Max(hi.Y, p.Y)}
+	}
+	// Cells of about one point each for points along a curve whose length
+	// is about the bounding box's perimeter.
+	h := 2 * ((hi.X - lo.X) + (hi.Y - lo.Y)) / float64(n)
+	if !(h > 0) {
+		return 0
+	}
+	type key struct{ x, y int64 }
+	cellOf := func(p geometry.Point) key {
+		return key{int64(math.Floor((p.X - lo.X) / h)), int64(math.Floor((p.Y - lo.Y) / h))}
+	}
+	cells := make(map[key][]int32, n)
+	for i, p := range uv {
+		k := cellOf(p)
+		cells[k] = append(cells[k], int32(i))
+	}
+	step := max(1, n/scatterSample)
+	var diffs []float64
+	for i := 0; i < n; i += step {
+		p, k := uv[i], cellOf(uv[i])
+		a, b := -1, -1 // the nearest and the second nearest
+		da, db := math.Inf(1), math.Inf(1)
+		for dy := int64(-1); dy <= 1; dy++ {
+			for dx := int64(-1); dx <= 1; dx++ {
+				for _, j := range cells[key{k.x + dx, k.y + dy}] {
+					if int(j) == i {
+						continue
+					}
+					switch e := p.Dist(uv[j]); {
+					case e < da:
+						b, db = a, da
+						a, da = int(j), e
+					case e < db:
+						b, db = int(j), e
+					}
+				}
+			}
+		}
+		switch {
+		case a >= 0 && b >= 0 && uv[a].Sub(p).Dot(uv[b].Sub(p)) < 0 && da+db > 0:
+			w := da / (da + db) // weight of b
+			r := d[i] - ((1-w)*d[a] + w*d[b])
+			diffs = append(diffs, math.Abs(r)/math.Sqrt(1+w*w+(1-w)*(1-w)))
+		case a >= 0:
+			diffs = append(diffs, math.Abs(d[i]-d[a])/math.Sqrt2)
+		}
+	}
+	if len(diffs) == 0 {
+		return 0
+	}
+	slices.Sort(diffs)
+	return 1.4826 * diffs[len(diffs)/2]
 }
 
 // fitPlane returns the least-squares plane through pts (see FlattenOptions).

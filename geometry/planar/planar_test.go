@@ -174,3 +174,39 @@ func flattenTestXY(c *geometry.Cloud) []geometry.Point {
 	}
 	return out
 }
+
+// TestFlattenNoisyPlane checks that the default tolerance makes room for
+// the measured out-of-plane scatter of a noisy scan (its largest residual
+// is beyond a plain share of the extent), that the scatter comes back
+// near the noise drawn, and that a smooth warp of the same points beyond
+// the tolerance is still refused with the figure.
+func TestFlattenNoisyPlane(t *testing.T) {
+	const n, sigma = 3000, 0.05 // a 100 mm thin ellipse, 0.05 mm noise (a laser scan)
+	r := rand.New(rand.NewPCG(3, 9))
+	noisy := &geometry.Cloud{Dim: 3}
+	warped := &geometry.Cloud{Dim: 3}
+	for i := range n {
+		a := 2 * math.Pi * r.Float64()
+		x, y := 50*math.Cos(a), 6*math.Sin(a)
+		z := sigma * r.NormFloat64()
+		noisy.Points = append(noisy.Points, geometry.Vec3{X: x, Y: y, Z: 240 + z})
+		warped.Points = append(warped.Points, geometry.Vec3{X: x, Y: y, Z: 240 + z + 0.8*(x/50)*(x/50)*(y/6)})
+		o := geometry.Origin{File: "scan", Line: i + 1}
+		noisy.Origins = append(noisy.Origins, o)
+		warped.Origins = append(warped.Origins, o)
+	}
+	_, fl, err := Flatten(noisy, FlattenOptions{})
+	if err != nil {
+		t.Fatalf("noisy plane refused: %v", err)
+	}
+	if base := DefaultFlatTolerance * 100; fl.Max <= base {
+		t.Fatalf("max %g within the plain tolerance %g: the test does not test the allowance", fl.Max, base)
+	}
+	if fl.Scatter < 0.8*sigma || fl.Scatter > 1.2*sigma {
+		t.Errorf("scatter %g, want %g ± 20 %%", fl.Scatter, sigma)
+	}
+	_, fl, err = Flatten(warped, FlattenOptions{})
+	if !errors.Is(err, ErrNotPlanar) || !strings.Contains(err.Error(), "scatter") {
+		t.Errorf("warped: error %v (max %g, scatter %g); want ErrNotPlanar with the scatter", err, fl.Max, fl.Scatter)
+	}
+}

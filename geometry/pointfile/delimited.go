@@ -248,7 +248,8 @@ type delimitedReader struct {
 	cols     []int    // 0-based columns of x, y[, z]; nil until known
 	names    []string // column names asked for, until resolved
 	explicit bool     // the caller chose the columns
-	named    bool     // ... by names, found in a header line
+	named    bool     // ... by names, found in a header line, or the header named x, y (z)
+	guessed  bool     // no header named the columns and the lines hold more numbers than were read
 	started  bool     // a data line has been read
 	counted  bool     // a point-count line has been seen
 
@@ -323,7 +324,106 @@ func readDelimited(s, name, columns string) (*geometry.Cloud, statedUnit, error)
 	c.Dim = len(d.cols)
 	c.Name = d.title
 	c.Notes = d.notes.List(name)
+	c.Columns, c.ColumnsGuessed = d.describeColumns(), d.guessed
 	return c, d.unit, nil
+}
+
+// describeColumns says which columns were read as the coordinates and
+// why, for Cloud.Columns.
+func (d *delimitedReader) describeColumns() string {
+	nums := make([]string, len(d.cols))
+	for i, c := range d.cols {
+		nums[i] = strconv.Itoa(c + 1)
+	}
+	list := strings.Join(nums, ", ")
+	axes := "x, y"
+	if len(d.cols) == 3 {
+		axes = "x, y, z"
+	}
+	switch {
+	case d.explicit:
+		return fmt.Sprintf("%s as asked", list)
+	case d.named:
+		return fmt.Sprintf("%s (named %s by the header)", list, axes)
+	case d.guessed:
+		return fmt.Sprintf("%s (the first numbers of each line; no header names %s)", list, axes)
+	}
+	return fmt.Sprintf("%s (the numbers of each line)", list)
+}
+
+// headerAxes takes the coordinate columns from the header line before the
+// first data line (fields) when it names x and y (and z), as "idx,x,y,z",
+// "point;X [mm];Y [mm]" or "x_mm y_mm" do, and every named column holds a
+// number on that line. It reports whether it did, and the error of a unit
+// decoration that contradicts another.
+func (d *delimitedReader) headerAxes(fields []string) (bool, error) {
+	if d.header == nil {
+		return false, nil
+	}
+	at := [3]int{-1, -1, -1}
+	for i, f := range d.header {
+		name, _ := headerField(f)
+		a := axisOf(name)
+		if a < 0 {
+			continue
+		}
+		if at[a] >= 0 {
+			return false, nil // two columns claim one axis: leave it to --columns
+		}
+		at[a] = i
+	}
+	if at[0] < 0 || at[1] < 0 {
+		return false, nil
+	}
+	cols := []int{at[0], at[1]}
+	if at[2] >= 0 {
+		cols = append(cols, at[2])
+	}
+	for _, c := range cols {
+		if c >= len(fields) {
+			return false, nil
+		}
+		if _, num := parseNumber(fields[c], d.decComma); !num {
+			return false, nil
+		}
+	}
+	d.cols, d.named = cols, true
+	if d.headerNote >= 0 {
+		d.notes.Kept()[d.headerNote].Reason = "column header"
+	}
+	if d.titleLine == d.headerLine {
+		d.title = ""
+	}
+	return true, d.headerUnits()
+}
+
+// axisOf returns 0, 1 or 2 when a header name (lower case, unit
+// decoration removed) names the x, y or z coordinate, else −1. The name
+// may carry a unit ("x_mm", "x mm") or a word such as "coord" ("x-coord",
+// "coord x", "pos_y") around the letter.
+func axisOf(name string) int {
+	var letter string
+	for _, tok := range strings.FieldsFunc(name, func(r rune) bool {
+		return !(r >= 'a' && r <= 'z' || r >= '0' && r <= '9' || r == 'µ')
+	}) {
+		switch tok {
+		case "mm", "cm", "m", "in", "inch", "inches", "um", "µm", "coord", "coords", "coordinate", "pos", "position", "value", "axis":
+			continue
+		}
+		if letter != "" {
+			return -1
+		}
+		letter = tok
+	}
+	switch letter {
+	case "x":
+		return 0
+	case "y":
+		return 1
+	case "z":
+		return 2
+	}
+	return -1
 }
 
 // resolve is called for each line while the columns are unknown. It finds
@@ -359,16 +459,34 @@ func (d *delimitedReader) resolve(fields []string, no int, t string) (bool, erro
 		d.text(fields, no, t)
 		return false, nil
 	}
+	first := 0
+	if len(fields) >= 3 && len(fields) <= 4 {
+		// A label before the numbers ("P1 12.5 3.25 0"), as probe
+		// programs write it: the numbers after it are the coordinates.
+		if _, num := parseNumber(fields[0], d.decComma); !num && d.allNumbers(fields[1:]) {
+			first = 1
+		}
+	}
 	k := 0
-	for k < len(fields) && k < 3 {
-		if _, num := parseNumber(fields[k], d.decComma); !num {
+	for first+k < len(fields) && k < 3 {
+		if _, num := parseNumber(fields[first+k], d.decComma); !num {
 			break
 		}
 		k++
 	}
 	switch {
 	case k >= 2:
-		d.cols = []int{0, 1, 2}[:k]
+		if ok, err := d.headerAxes(fields); ok || err != nil {
+			return ok, err
+		}
+		d.cols = []int{first, first + 1, first + 2}[:k]
+		numbers := 0
+		for _, f := range fields {
+			if _, num := parseNumber(f, d.decComma); num {
+				numbers++
+			}
+		}
+		d.guessed = numbers > k
 		return true, nil
 	case k == 1 && len(fields) == 1:
 		if v, _ := parseNumber(fields[0], d.decComma); !d.counted && v == math.Trunc(v) && v >= 0 && v < 1e15 {

@@ -128,6 +128,9 @@ func TestReadDelimited(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
+			if c.Columns == "" {
+				t.Errorf("the columns read are not described")
+			}
 			if c.Format != FormatDelimited {
 				t.Errorf("format %q, want delimited", c.Format)
 			}
@@ -148,6 +151,51 @@ func TestReadDelimited(t *testing.T) {
 			}
 			if strings.Join(reasons, "|") != strings.Join(tc.reasons, "|") {
 				t.Errorf("notes %q, want %q", reasons, tc.reasons)
+			}
+		})
+	}
+}
+
+// TestReadColumnsByHeader checks that a header naming the coordinate
+// columns among others (an index, a point label) decides which columns
+// are read, that the cloud says which, and that a guess is flagged.
+func TestReadColumnsByHeader(t *testing.T) {
+	for _, tc := range []struct {
+		name    string
+		in      string
+		want    []geometry.Vec3
+		dim     int
+		units   geometry.Unit
+		columns string
+		guessed bool
+	}{
+		{"idx,x,y,z", "idx,x,y,z\n1,10,20,30\n2,11,21,31\n", []geometry.Vec3{{X: 10, Y: 20, Z: 30}, {X: 11, Y: 21, Z: 31}}, 3, "", "2, 3, 4 (named x, y, z by the header)", false},
+		{"point,x,y", "# units: mm\npoint,x,y\n1,10,20\n2,11,21\n", []geometry.Vec3{{X: 10, Y: 20}, {X: 11, Y: 21}}, 2, geometry.Millimetre, "2, 3 (named x, y by the header)", false},
+		{"any order, units", "n;Y [in];X [in];Z [in]\n1;2,5;1,5;0\n2;3;4;0\n", []geometry.Vec3{{X: 1.5, Y: 2.5}, {X: 4, Y: 3}}, 3, geometry.Inch, "3, 2, 4 (named x, y, z by the header)", false},
+		{"unit suffixes", "id x_mm y_mm\n7 1 2\n8 3 4\n", []geometry.Vec3{{X: 1, Y: 2}, {X: 3, Y: 4}}, 2, "", "2, 3 (named x, y by the header)", false},
+		{"coord words", "label X-coord Y-coord Z-coord\nP1 1 2 3\nP2 4 5 6\n", []geometry.Vec3{{X: 1, Y: 2, Z: 3}, {X: 4, Y: 5, Z: 6}}, 3, "", "2, 3, 4 (named x, y, z by the header)", false},
+		{"label column, no header", "P1 1 2 3\nP2 4 5 6\n", []geometry.Vec3{{X: 1, Y: 2, Z: 3}, {X: 4, Y: 5, Z: 6}}, 3, "", "2, 3, 4 (the numbers of each line)", false},
+		{"unnamed extra columns", "a b c d\n1 2 3 4\n5 6 7 8\n", []geometry.Vec3{{X: 1, Y: 2, Z: 3}, {X: 5, Y: 6, Z: 7}}, 3, "", "1, 2, 3 (the first numbers of each line; no header names x, y, z)", true},
+		{"two x columns", "x,x,y\n1,2,3\n4,5,6\n", []geometry.Vec3{{X: 1, Y: 2, Z: 3}, {X: 4, Y: 5, Z: 6}}, 3, "", "1, 2, 3 (the numbers of each line)", false},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			c, err := Read(strings.NewReader(tc.in), "in.txt", Options{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if len(c.Points) != len(tc.want) {
+				t.Fatalf("points %v, want %v", c.Points, tc.want)
+			}
+			for i := range tc.want {
+				if c.Points[i] != tc.want[i] {
+					t.Errorf("point %d = %v, want %v", i, c.Points[i], tc.want[i])
+				}
+			}
+			if c.Dim != tc.dim || c.Units != tc.units {
+				t.Errorf("dim %d units %q, want %d %q", c.Dim, c.Units, tc.dim, tc.units)
+			}
+			if c.Columns != tc.columns || c.ColumnsGuessed != tc.guessed {
+				t.Errorf("columns %q (guessed %v), want %q (%v)", c.Columns, c.ColumnsGuessed, tc.columns, tc.guessed)
 			}
 		})
 	}

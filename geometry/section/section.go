@@ -32,6 +32,7 @@ type Section struct {
 	LEIndex      *int             `json:"le_index,omitempty"`
 	Panels       *PanelSummary    `json:"panels,omitempty"`
 	Properties   *Properties      `json:"properties,omitempty"`
+	Uncertainty  *Uncertainty     `json:"uncertainty,omitempty"`
 	Warnings     []string         `json:"warnings,omitempty"`
 	Nodes        []geometry.Point `json:"nodes"`
 }
@@ -60,10 +61,42 @@ type FitSummary struct {
 	RMS    float64 `json:"rms"`
 	Max    float64 `json:"max"`
 	MaxAt  string  `json:"max_at"` // origin of the worst point, "file:line"
-	// NoiseEstimate is the measurement noise the residuals imply (larger
-	// than RMS: the curve takes up some of the points' freedom); 0 for an
-	// interpolating fit.
+	// NoiseEstimate is the measurement noise the points show (a standard
+	// deviation normal to the outline); 0 for an interpolating fit.
 	NoiseEstimate float64 `json:"noise_estimate,omitempty"`
+	// Interpolates says why the curve passes through every point, when
+	// it does (noise 0 given, exact samples, too few points).
+	Interpolates string `json:"interpolates,omitempty"`
+	// Parameter is the parameter an interpolating fit runs in (chord
+	// length, centripetal or uniform: the one under which every second
+	// point best predicts the others).
+	Parameter string `json:"parameter,omitempty"`
+	// Fairness measures the curvature of the fitted curve (chord
+	// units): its sign changes, those of them made by noise (lobes much
+	// shorter than the outline's own turns), and its roughness.
+	Fairness *Fairness `json:"fairness,omitempty"`
+}
+
+// Fairness is the fairness of a section's fitted curve.
+type Fairness struct {
+	// Inflections counts the sign changes of the curvature.
+	Inflections int `json:"inflections"`
+	// Wiggles counts the short lobes of curvature noise leaves: 0 on a
+	// fair curve.
+	Wiggles int `json:"wiggles"`
+	// Roughness is the RMS of dκ/ds along the outline, chord units (1/c²).
+	Roughness float64 `json:"roughness"`
+}
+
+// Uncertainty holds 95 % bounds on the error of the section against the
+// part: chord and leading-edge position (a distance) in input units,
+// twist in degrees, and the surface (the largest distance of the section
+// from the part's outline, normalised) in chord units.
+type Uncertainty struct {
+	Chord    float64 `json:"chord"`
+	TwistDeg float64 `json:"twist_deg"`
+	LE       float64 `json:"le"`
+	Surface  float64 `json:"surface"`
 }
 
 // Frame maps the normalised section back to the part, in input units:

@@ -9,12 +9,12 @@ import (
 	"github.com/foilwright/foilwright/internal/scangen"
 )
 
-// StrictEnv names the environment variable that turns the campaign's
-// targets into assertions: FOILWRIGHT_CAMPAIGN_STRICT=1. Without it the
-// test runs the cases, checks that every case was generated, run and
-// evaluated, and logs the table; the targets of issue 10 are not met by
-// today's chain, and the developer who fixes the chain sets it (and then
-// makes it the default).
+// StrictEnv names the environment variable that turns every target of
+// the campaign into an assertion: FOILWRIGHT_CAMPAIGN_STRICT=1. Without
+// it the test runs the cases, checks that every case was generated, run
+// and evaluated, logs the table and asserts the targets the chain meets
+// (metFigures); the others are not met by today's chain, and whoever
+// makes the chain meet one adds it there.
 const StrictEnv = "FOILWRIGHT_CAMPAIGN_STRICT"
 
 // TestCampaign runs seeded cases through the geometry chain and checks the
@@ -56,13 +56,27 @@ func TestCampaign(t *testing.T) {
 	WriteTable(&b, figs)
 	WriteFailures(&b, recs, 8)
 	t.Logf("campaign of %d cases:\n%s", n, b.String())
-	if os.Getenv(StrictEnv) != "1" {
-		t.Logf("targets not asserted: set %s=1", StrictEnv)
-		return
-	}
+	strict := os.Getenv(StrictEnv) == "1"
 	for _, f := range figs {
-		if f.Checked && !f.Met {
+		// The figures the chain meets are asserted on every full run (not
+		// on the samples of -short and -race, too few for a 95th
+		// percentile); the others only when strict.
+		met := metFigures[f.Name] && n >= 400
+		if f.Checked && !f.Met && (strict || met) {
 			t.Errorf("%s: measured %s, target %s", f.Name, f.Measured, f.Target)
 		}
 	}
+	if !strict {
+		t.Logf("targets not yet met not asserted: set %s=1", StrictEnv)
+	}
+}
+
+// metFigures names the figures of the table (Figure.Name) that the chain
+// meets on the suite's seeds and on fresh ones (scripts/campaign.sh), so
+// that the normal suite asserts them.
+var metFigures = map[string]bool{
+	"prep succeeds, all": true,
+	"node error against the true shape, well-sampled, 95th pct": true,
+	"good points dropped (median / 95th pct)":                   true,
+	"planted outliers caught":                                   true,
 }

@@ -1,0 +1,363 @@
+package accuracy
+
+import (
+	"math"
+	"math/rand/v2"
+	"sync"
+
+	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/curve"
+	"github.com/foilwright/foilwright/geometry/frame"
+)
+
+// Uncertainty holds 95 % bounds on the error of a section against the
+// part: chord and leading-edge position in input units, twist in degrees,
+// and the surface, the largest distance of the section from the part's
+// outline in the normalised frame, in chord units.
+type Uncertainty struct {
+	Chord    float64 `json:"chord"`
+	TwistDeg float64 `json:"twist_deg"`
+	LE       float64 `json:"le"`
+	Surface  float64 `json:"surface"`
+}
+
+// Options controls Estimate. The zero value uses DefaultReplicas replicas
+// and seed 1.
+type Options struct {
+	Replicas int    // replicas of the fit; 0 means DefaultReplicas
+	Seed     uint64 // seed of the simulated noise (outputs are reproducible)
+	// Edges are the options the section was normalised with; Mirror is
+	// replaced by the decision the section made.
+	Edges frame.Options
+}
+
+// DefaultReplicas is the number of replicas Estimate makes by default.
+const DefaultReplicas = 12
+
+// Coverage factors: each figure is the larger RMS change of the replicas
+// and of the half fits times its factor, set from the robustness campaign
+// so that the bounds cover the true error in at least 95 % of its cases
+// with the trailing edge read right (see DEVELOPERS.md, "Running
+// campaigns"). A Gaussian figure would need 2; the chord of a noisy scan
+// needs more: the corner of a thin trailing edge lies where two nearly
+// parallel surfaces meet, so a bias of their last stretch, which the
+// replicas (fitted the same way) share, moves it along the chord by that
+// bias over the tangent of half the edge angle. For exact data the half
+// fits alone speak, for the error at twice the spacing.
+var (
+	factorsNoisy = deltas{chord: 5.5, twistDeg: 2.75, le: 2.0, surface: 2.9}
+	factorsExact = deltas{chord: 3.0, twistDeg: 2.0, le: 1.0, surface: 1.5}
+)
+
+// floorLength is the least bound on a length, in chords (and on the twist,
+// in radians).
+const floorLength = 1e-6
+
+// deltas are the differences of one replica (or half fit) from the
+// section.
+type deltas struct {
+	chord, twistDeg, le, surface float64
+	ok                           bool
+}
+
+// Estimate returns the uncertainty of the section nz, normalised from the
+// fitted curve cv with fit report rep.
+func Estimate(cv *curve.Curve, rep *curve.FitReport, nz *frame.Normalized, opts Options) Uncertainty {
+	if opts.Replicas <= 0 {
+		opts.Replicas = DefaultReplicas
+	}
+	eo := opts.Edges
+	eo.Mirror = frame.MirrorNo
+	if nz.Frame.Mirrored {
+		eo.Mirror = frame.MirrorYes
+	}
+	ref := newReference(nz)
+	measure := func(c *curve.Curve) deltas {
+		z, err := frame.Normalize(c, eo)
+		if err != nil {
+			return deltas{}
+		}
+		return ref.compare(z)
+	}
+	// Replicas, on two goroutines; replica k has its own seed, so the
+	// result does not depend on the split.
+	var noise []deltas
+	if rep.ReplicaNoise() > 0 {
+		noise = make([]deltas, opts.Replicas)
+		var wg sync.WaitGroup
+		run := func(k0 int) {
+			for k := k0; k < opts.Replicas; k += 2 {
+				rng := rand.New(rand.NewPCG(opts.Seed, uint64(k)+1))
+				c, err := rep.Replica(rng)
+				if err != nil {
+					continue
+				}
+				noise[k] = measure(c)
+			}
+		}
+		wg.Go(func() { run(1) })
+		run(0)
+		wg.Wait()
+	}
+	// The fits of every second point show what the spacing leaves
+	// unknown between the points (all an interpolating fit does not
+	// know), and take a second look at the noise, from the real
+	// residuals, where the sampling is irregular or sparse.
+	var half []deltas
+	for phase := 0; phase < 2; phase++ {
+		if c, err := rep.Half(phase); err == nil {
+			half = append(half, measure(c))
+		}
+	}
+	rn, rh := rms(noise), rms(half)
+	f := factorsNoisy
+	if len(noise) == 0 {
+		f = factorsExact
+	}
+	u := Uncertainty{
+		Chord:    f.chord * math.Max(rn.chord, rh.chord),
+		TwistDeg: f.twistDeg * math.Max(rn.twistDeg, rh.twistDeg),
+		LE:       f.le * math.Max(rn.le, rh.le),
+		Surface:  f.surface * math.Max(rn.surface, rh.surface),
+	}
+	// The ends of an open fit pinned where the points end (no base points)
+	// are where the trailing edge was found. At a blunt edge they are the
+	// last points either side, and the surfaces may run on unseen for up
+	// to a spacing h. Ends that stop at the same station along the chord
+	// (within twice their offset and the noise) mark the base, as a probe
+	// program that ends each pass on the edge leaves them; otherwise the
+	// midpoint of the edge may lie anywhere over a spacing. The surfaces
+	// may also meet in a corner beyond them (unseenCorner). Ends the
+	// points cannot tell apart at all widen the bound further where the
+	// edge is decided (prep). At a sharp edge the corner's place along the
+	// chord is what the replicas do not see (cornerAlong); the midpoint
+	// moves by the noise at most.
+	if h := rep.EndGap(); h > 0 {
+		if cv.Start().Dist(cv.End()) > sameEnd*cv.Length() {
+			fr := nz.Frame
+			d := geometry.Point{X: math.Cos(-fr.TwistDeg * math.Pi / 180), Y: math.Sin(-fr.TwistDeg * math.Pi / 180)}
+			if fr.Mirrored {
+				d.X = -d.X
+			}
+			along := math.Abs(cv.Start().Sub(cv.End()).Dot(d))
+			dc, dt := unseenCorner(cv, nz.Frame, h)
+			u.Chord += math.Max(0.95*math.Min(h, 2*along+2*rep.NoiseEstimate), dc)
+			u.TwistDeg += dt
+		} else {
+			u.Chord += 0.95*math.Min(h, 2*rep.NoiseEstimate) + cornerAlong(cv, rep)
+		}
+	}
+	// Floors: what the arithmetic of the chain (projections, searches
+	// for the farthest point, quadrature) leaves even on exact data.
+	c := nz.Frame.Chord
+	u.Chord = math.Max(u.Chord, floorLength*c)
+	u.LE = math.Max(u.LE, floorLength*c)
+	u.TwistDeg = math.Max(u.TwistDeg, floorLength*180/math.Pi)
+	u.Surface = math.Max(u.Surface, floorLength)
+	return u
+}
+
+// rms returns the root mean square of each figure over the deltas that
+// were measured; a failed measurement counts as missing.
+func rms(ds []deltas) deltas {
+	var out deltas
+	n := 0
+	for _, d := range ds {
+		if !d.ok {
+			continue
+		}
+		out.chord += d.chord * d.chord
+		out.twistDeg += d.twistDeg * d.twistDeg
+		out.le += d.le * d.le
+		out.surface += d.surface * d.surface
+		n++
+	}
+	if n == 0 {
+		return out
+	}
+	f := 1 / float64(n)
+	out.chord = math.Sqrt(out.chord * f)
+	out.twistDeg = math.Sqrt(out.twistDeg * f)
+	out.le = math.Sqrt(out.le * f)
+	out.surface = math.Sqrt(out.surface * f)
+	out.ok = true
+	return out
+}
+
+// reference is the section the replicas are compared with: its frame and
+// its normalised outline as a dense polyline.
+type reference struct {
+	fr   frame.Frame
+	poly []geometry.Point
+}
+
+// refSamples is the number of points on each side of the reference
+// polyline; a compared outline is sampled refRatio times less densely.
+const (
+	refSamples = 2000
+	refRatio   = 16
+)
+
+func newReference(nz *frame.Normalized) reference {
+	return reference{fr: nz.Frame, poly: samples(nz.Path, nz.SLE, refSamples)}
+}
+
+// samples returns points of the normalised outline p (leading edge at
+// arc length sLE): n+1 on each side, from the trailing edge to the
+// leading edge and on, by a cosine law that crowds them at both edges.
+func samples(p geometry.Path, sLE float64, n int) []geometry.Point {
+	L := p.Length()
+	out := make([]geometry.Point, 0, 2*n+1)
+	for k := 0; k <= n; k++ {
+		out = append(out, p.At(sLE*(1-math.Cos(math.Pi*float64(k)/float64(n)))/2))
+	}
+	for k := 1; k <= n; k++ {
+		out = append(out, p.At(sLE+(L-sLE)*(1-math.Cos(math.Pi*float64(k)/float64(n)))/2))
+	}
+	return out
+}
+
+// compare returns the differences of the normalised section z from the
+// reference.
+func (r reference) compare(z *frame.Normalized) deltas {
+	d := deltas{ok: true}
+	d.chord = math.Abs(z.Frame.Chord - r.fr.Chord)
+	d.le = math.Hypot(z.Frame.LE[0]-r.fr.LE[0], z.Frame.LE[1]-r.fr.LE[1])
+	d.twistDeg = math.Abs(math.Remainder(z.Frame.TwistDeg-r.fr.TwistDeg, 360))
+	d.surface = maxDistance(samples(z.Path, z.SLE, refSamples/refRatio), r.poly, refRatio)
+	return d
+}
+
+// maxDistance returns the largest distance from the points qs to the
+// polyline poly. Both sample the same outline at the same fractions of arc
+// on each side (samples), poly ratio times as densely, so the segment
+// nearest to qs[k] lies near poly[ratio·k]; a window of distWindow
+// segments either side is searched.
+func maxDistance(qs, poly []geometry.Point, ratio int) float64 {
+	var worst2 float64
+	for k, q := range qs {
+		c := ratio * k
+		lo, hi := max(0, c-distWindow), min(len(poly)-1, c+distWindow)
+		best := math.Inf(1)
+		for j := lo; j < hi; j++ {
+			a, b := poly[j], poly[j+1]
+			dx, dy := b.X-a.X, b.Y-a.Y
+			px, py := q.X-a.X, q.Y-a.Y
+			dd := dx*dx + dy*dy
+			t := 0.0
+			if dd > 0 {
+				t = math.Max(0, math.Min(1, (px*dx+py*dy)/dd))
+			}
+			ex, ey := px-t*dx, py-t*dy
+			best = math.Min(best, ex*ex+ey*ey)
+		}
+		worst2 = math.Max(worst2, best)
+	}
+	return math.Sqrt(worst2)
+}
+
+// distWindow is the half-width, in segments, of maxDistance's search.
+const distWindow = 40
+
+// cornerReach is how many end spacings the surfaces of an edge read as
+// blunt may run on unseen: gaps of irregular sampling differ by that much
+// from their median (log-normal gaps of σ 0.8 exceed 3 medians one time
+// in ten, and the edge has two sides).
+const cornerReach = 3
+
+// unseenCorner returns what an edge read as blunt from the last points
+// either side (no points on a base) leaves unknown: the two surfaces,
+// run on straight along their last stretch, may meet in a sharp corner
+// beyond the points. When they meet within cornerReach end spacings h of
+// both ends, the points cannot tell that corner from a blunt edge, and the
+// chord may be longer by the corner's distance beyond the edge's midpoint
+// (input units) and the twist off by the angle the corner's offset from
+// the midpoint makes at the leading edge (degrees). Otherwise (surfaces
+// that part or meet far beyond the points) it returns zeros.
+func unseenCorner(cv *curve.Curve, fr frame.Frame, h float64) (chord, twistDeg float64) {
+	L := cv.Length()
+	if !(h > 0) || !(L > 2*h) || !(fr.Chord > 0) {
+		return 0, 0
+	}
+	a, b := fr.ToChord(cv.Start()), fr.ToChord(cv.End())
+	da := a.Sub(fr.ToChord(cv.At(h)))
+	db := b.Sub(fr.ToChord(cv.At(L - h)))
+	la, lb := math.Hypot(da.X, da.Y), math.Hypot(db.X, db.Y)
+	if !(la > 0) || !(lb > 0) {
+		return 0, 0
+	}
+	da, db = da.Scale(1/la), db.Scale(1/lb)
+	// a + s·da = b + t·db.
+	det := da.Cross(db)
+	if math.Abs(det) < 1e-9 {
+		return 0, 0
+	}
+	w := b.Sub(a)
+	s := w.Cross(db) / det
+	t := w.Cross(da) / det
+	reach := cornerReach * h / fr.Chord
+	if !(s > 0) || !(t > 0) || s > reach || t > reach {
+		return 0, 0
+	}
+	corner := a.Add(da.Scale(s))
+	mid := a.Add(b).Scale(0.5)
+	chord = math.Max(0, corner.X-mid.X) * fr.Chord
+	if corner.X > 0 && mid.X > 0 {
+		twistDeg = math.Abs(math.Atan2(corner.Y, corner.X)-math.Atan2(mid.Y, mid.X)) * 180 / math.Pi
+	}
+	return chord, twistDeg
+}
+
+// cornerFactor is the coverage factor of cornerAlong, set from the
+// campaign as the other factors are.
+var cornerFactor = 3.0
+
+// cornerGap is the share of the longer unsampled stretch to the corner
+// by which the corner may lie off along the chord beyond what cornerFactor
+// covers: the surfaces carried over the stretch follow a model of their
+// shape, not the part (set from the campaign).
+var cornerGap = 0.1
+
+// cornerAlong returns the 95 % bound on how far along the edge's bisector
+// the corner of a sharp edge that the fit was given (the surfaces' fits
+// carried to where they meet, or the aftmost point) may lie from the true
+// one (input units): the replicas move the ends across the curve, never
+// along it. A surface whose position near the corner is uncertain by δ
+// moves the corner along the bisector by δ/(2 sin(θ/2)), θ the edge angle;
+// two surfaces, independently, by δ/(√2 sin(θ/2)). δ is the noise a replica
+// simulates and, for the stretch a surface runs on unsampled to the
+// corner (a step a), the miss κa²/2 of a straight extrapolation over it
+// at the curvature κ there. It returns 0 unless the curve's ends meet.
+func cornerAlong(cv *curve.Curve, rep *curve.FitReport) float64 {
+	L := cv.Length()
+	if cv.Closed() || !(L > 0) || cv.Start().Dist(cv.End()) > sameEnd*L {
+		return 0
+	}
+	a, b := rep.EndSteps()
+	if !(a > 0) || !(b > 0) || a+b >= L/2 {
+		return 0
+	}
+	c := cv.Start()
+	da := c.Sub(cv.At(a))
+	db := c.Sub(cv.At(L - b))
+	la, lb := math.Hypot(da.X, da.Y), math.Hypot(db.X, db.Y)
+	if !(la > 0) || !(lb > 0) {
+		return 0
+	}
+	half := da.Scale(1 / la).Sub(db.Scale(1 / lb))
+	sinHalf := math.Max(math.Hypot(half.X, half.Y)/2, minSinHalf)
+	sigma := rep.ReplicaNoise()
+	ka := math.Abs(cv.Curvature(a)) * a * a / 2
+	kb := math.Abs(cv.Curvature(L-b)) * b * b / 2
+	delta := math.Sqrt(2*sigma*sigma + ka*ka + kb*kb)
+	return cornerFactor*delta/(2*sinHalf) + cornerGap*math.Max(a, b)
+}
+
+// sameEnd is how near (a share of the curve's length) the ends of an open
+// curve lie when they are one corner, pinned there by the fit.
+const sameEnd = 1e-6
+
+// minSinHalf bounds the sine of half the edge angle from below: a cusp
+// (surfaces that meet tangentially) is not a corner whose place the
+// crossing fixes, and the bound is not pushed to infinity there.
+const minSinHalf = 0.02

@@ -1,0 +1,117 @@
+package accuracy
+
+import (
+	"fmt"
+	"math"
+	"sort"
+
+	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/curve"
+	"github.com/foilwright/foilwright/geometry/frame"
+)
+
+// Limits of Gaps.
+const (
+	// gapTurnDeg is the largest turn of the outline (degrees) between two
+	// neighbouring points that passes without a warning: a curve through
+	// points that far apart round a bend guesses its shape.
+	gapTurnDeg = 45
+	// gapsListed is the most gaps listed; the rest are counted.
+	gapsListed = 4
+	// gapMin is the shortest gap considered, in chords.
+	gapMin = 1e-3
+)
+
+// Gaps returns warnings for stretches of the outline the points do not
+// support: where the outline turns by more than gapTurnDeg between two
+// neighbouring points, the nose (the stretch holding the leading edge)
+// first, each with the size of the gap, the turn and the points either
+// side (file:line), the worst gapsListed of the rest listed. c is the
+// contour fitted, rep the fit's report (the arc length of each point's
+// foot on cv), nz the normalised section.
+func Gaps(c *geometry.Contour, rep *curve.FitReport, cv *curve.Curve, nz *frame.Normalized) []string {
+	n := c.Len()
+	if n < 2 || len(rep.S) != n {
+		return nil
+	}
+	chord := nz.Frame.Chord
+	L := cv.Length()
+	order := make([]int, n)
+	for i := range order {
+		order[i] = i
+	}
+	sort.SliceStable(order, func(a, b int) bool { return rep.S[order[a]] < rep.S[order[b]] })
+	origin := func(i int) string {
+		if i < len(c.Origins) {
+			return c.Origins[i].String()
+		}
+		return fmt.Sprintf("point %d", i+1)
+	}
+	at := func(s float64) float64 { // a closed curve wraps
+		if cv.Closed() {
+			return math.Mod(s, L)
+		}
+		return s
+	}
+	// turn returns the turn of the tangent from arc length a to b (b may
+	// pass L on a closed curve), summed over short steps.
+	turn := func(a, b float64) float64 {
+		const steps = 16
+		var total float64
+		prev := cv.Tangent(at(a))
+		for k := 1; k <= steps; k++ {
+			t := cv.Tangent(at(a + (b-a)*float64(k)/steps))
+			total += math.Atan2(prev.Cross(t), prev.Dot(t))
+			prev = t
+		}
+		return math.Abs(total) * 180 / math.Pi
+	}
+	sLE, _ := cv.Project(geometry.Point{X: nz.Frame.LE[0], Y: nz.Frame.LE[1]})
+	type gap struct {
+		i, j      int
+		len, turn float64
+		nose      bool
+		at        float64 // chord station of its middle
+	}
+	var gaps []gap
+	for k := 0; k < n; k++ {
+		i, j := order[k], order[(k+1)%n]
+		a, b := rep.S[i], rep.S[j]
+		if k == n-1 {
+			if !cv.Closed() {
+				break
+			}
+			b += L
+		}
+		if b-a <= gapMin*chord {
+			continue // too short to hide anything (points at a corner)
+		}
+		tg := turn(a, b)
+		if tg <= gapTurnDeg {
+			continue
+		}
+		nose := (sLE >= a && sLE < b) || (sLE+L >= a && sLE+L < b)
+		gaps = append(gaps, gap{i: i, j: j, len: b - a, turn: tg, nose: nose, at: nz.Frame.ToChord(cv.At(at((a + b) / 2))).X})
+	}
+	sort.SliceStable(gaps, func(a, b int) bool {
+		if gaps[a].nose != gaps[b].nose {
+			return gaps[a].nose
+		}
+		return gaps[a].turn > gaps[b].turn
+	})
+	var out []string
+	for k, g := range gaps {
+		if k == gapsListed {
+			out = append(out, fmt.Sprintf("and %d more stretch(es) where the outline turns more than %d° between neighbouring points", len(gaps)-k, gapTurnDeg))
+			break
+		}
+		if g.nose {
+			out = append(out, fmt.Sprintf("the nose is sampled too sparsely: %s and %s, either side of the leading edge, are %.3g %s (%.3g c) apart and the outline turns %.0f° between them; the leading edge, the chord and the nose radius rest on the curve's guess there",
+				origin(g.i), origin(g.j), g.len, c.Units, g.len/chord, g.turn))
+			continue
+		}
+		out = append(out, fmt.Sprintf("the outline turns %.0f° between %s and %s, %.3g %s (%.3g c) apart about x = %.2f: the curve there is a guess",
+			g.turn, origin(g.i), origin(g.j), g.len, c.Units, g.len/chord, g.at))
+	}
+	return out
+}

@@ -1,0 +1,527 @@
+package clean
+
+import (
+	"fmt"
+	"math"
+	"slices"
+	"strings"
+
+	"github.com/foilwright/foilwright/geometry"
+)
+
+// Ordering strategies, as Report.Strategy names them.
+const (
+	// OrderFile keeps the order of the file (an ordered listing or
+	// polyline whose every step is a local one).
+	OrderFile = "file"
+	// OrderSection places every point round a section by its chordwise
+	// position and side (sectionOrder): one loop, whatever the spacing
+	// and the noise.
+	OrderSection = "section"
+	// OrderLinked links points to their tangent-guided mutual neighbours
+	// and joins the chains (link, join): any number of loops of any shape,
+	// for points that lie on thin lines.
+	OrderLinked = "linked"
+	// OrderBand orders a dense noisy band by projection onto a thinned
+	// curve (byBand): any number of loops.
+	OrderBand = "band"
+)
+
+// spared marks, by point index, the points near the trailing edge of the
+// loop seq, which the generic outlier test spares for the edge's models
+// (findEdge): the edge is found on the loop without the points a first
+// generic pass calls outliers, since one near the edge could pass for its
+// end. It returns nil when no edge is found.
+func (cl *cleaning) spared(seq []int32, sigma float64, lf localFits) []bool {
+	pts := cl.pts
+	_, _, _, first := dropOutliers(pts, seq, sigma, true, lf, nil)
+	out := make(map[int32]bool, len(first))
+	for _, h := range first {
+		out[h.idx] = true
+	}
+	reduced := slices.DeleteFunc(slices.Clone(seq), func(i int32) bool { return out[i] })
+	if len(reduced) < minPoints {
+		return nil
+	}
+	ef, ok := findEdge(pts, orient(pts, reduced), 0)
+	if !ok {
+		return nil
+	}
+	// The end zone, where the end models judge: within edgeZone of the
+	// chord of the aftmost point, and near the edge (a point beside it,
+	// off a surface, is the generic test's).
+	exempt := make([]bool, len(pts))
+	te, r := ef.edge.Upper.Add(ef.edge.Lower).Scale(0.5), edgeSpare*edgeZone*ef.edge.Chord
+	if ef.edge.Kind == EdgeRounded {
+		te = pts[ef.seq[0]]
+	}
+	for _, i := range seq {
+		x, _ := ef.frame.at(pts[i])
+		exempt[i] = x >= 1-edgeZone && pts[i].Dist(te) <= r
+	}
+	return exempt
+}
+
+// edgeSpare is the radius, in end zones (edgeZone of the chord), about
+// the trailing edge within which the generic outlier test spares points.
+const edgeSpare = 1.5
+
+// minCoverage is the least share of the distinct points the section loop
+// must keep (gate "coverage"): outliers are a few per cent of a scan, so a
+// loop that leaves more out has missed part of the outline.
+const minCoverage = 0.9
+
+// attempt is one ordering strategy carried through picking and outliers.
+type attempt struct {
+	strategy string
+	loops    []LoopInfo
+	seq      []int32 // the picked loop, outliers taken out (kept with KeepOutliers)
+	hits     []hit   // outliers and strays
+	scale    float64 // robust scale of the residuals (floored, see robustScale)
+	raw      float64 // the same, not floored: the scatter of the points about local fits
+	// feet, by point index, are the points' feet on local curves, where
+	// hasFeet says so (a band in a section order; nil otherwise).
+	feet    []geometry.Point
+	hasFeet []bool
+	fail    string // why a gate refused the loop, "" if none did
+	err     error  // a failure that no other strategy can mend
+}
+
+// arrange orders the distinct points into loops, picks the section loop
+// and drops its outliers, by the first strategy whose loop passes the
+// gates: the file's own order when it is valid; linking when it finds
+// several walls (or a loop other than the first is asked for); the
+// section order; linking and band projection for one loop. It records the
+// strategies refused, and why, in the report.
+func (cl *cleaning) arrange(opts Options, sigma float64) (*attempt, error) {
+	var refused []string
+	pass := func(a *attempt) bool {
+		if a == nil {
+			return false
+		}
+		if a.fail == "" && a.err == nil {
+			return true
+		}
+		why := a.fail
+		if a.err != nil {
+			why = a.err.Error()
+		}
+		refused = append(refused, fmt.Sprintf("%s order: %s", a.strategy, why))
+		return false
+	}
+	finish := func(a *attempt) (*attempt, error) {
+		cl.rep.Strategy = a.strategy
+		cl.rep.Refused = refused
+		return a, nil
+	}
+	cl.nb = neighbours(cl.pts, cl.lo, cl.hi)
+	if opts.MergeTol == 0 && cl.mergeNear() {
+		cl.nb = neighbours(cl.pts, cl.lo, cl.hi)
+	}
+	if len(cl.pts) < minPoints {
+		return nil, fmt.Errorf("geometry: clean: %w: %d distinct point(s) after merging within %.3g, need at least %d", geometry.ErrTooFewPoints, len(cl.pts), cl.rep.MergeTol, minPoints)
+	}
+	if opts.Order != "" {
+		return cl.only(opts, sigma)
+	}
+	if cl.c.Ordered {
+		if a := cl.fromFile(opts, sigma); pass(a) {
+			return finish(a)
+		}
+	}
+	loops, rest := cl.linkLoops()
+	walls := substantial(cl.pts, loops, cl.diag)
+	if walls > 1 || opts.Loop > 0 {
+		a := cl.evaluate(OrderLinked, loops, rest, opts, sigma, localFits{}, true)
+		if pass(a) || a.err != nil {
+			if a.err != nil {
+				return nil, a.err
+			}
+			return finish(a)
+		}
+	}
+	if opts.Loop == 0 {
+		if a := cl.bySection(opts, sigma); pass(a) {
+			return finish(a)
+		}
+		if walls == 1 {
+			if a := cl.evaluate(OrderLinked, loops, rest, opts, sigma, localFits{}, true); pass(a) {
+				return finish(a)
+			}
+		}
+	}
+	if a := cl.byBandLoops(opts, sigma); pass(a) {
+		return finish(a)
+	}
+	cl.rep.Refused = refused
+	if len(loops) == 0 {
+		return nil, fmt.Errorf("geometry: clean: %w: %d points form no closed loop (%s)", geometry.ErrNoLoop, len(cl.pts), strings.Join(refused, "; "))
+	}
+	return nil, fmt.Errorf("geometry: clean: %w: no ordering of the %d points passes the checks (%s)", geometry.ErrNoLoop, len(cl.pts), strings.Join(refused, "; "))
+}
+
+// only orders by the one strategy opts.Order names, gates and all.
+func (cl *cleaning) only(opts Options, sigma float64) (*attempt, error) {
+	var a *attempt
+	switch opts.Order {
+	case OrderFile:
+		if !cl.c.Ordered {
+			return nil, fmt.Errorf("geometry: clean: %w: the file's own order was asked for, but the points come in no order", geometry.ErrNoLoop)
+		}
+		a = cl.fromFile(opts, sigma)
+	case OrderSection:
+		a = cl.bySection(opts, sigma)
+	case OrderLinked:
+		loops, rest := cl.linkLoops()
+		a = cl.evaluate(OrderLinked, loops, rest, opts, sigma, localFits{}, true)
+	case OrderBand:
+		a = cl.byBandLoops(opts, sigma)
+	}
+	if a.err != nil {
+		return nil, a.err
+	}
+	if a.fail != "" {
+		return nil, fmt.Errorf("geometry: clean: %w: %s order: %s", geometry.ErrNoLoop, a.strategy, a.fail)
+	}
+	cl.rep.Strategy = a.strategy
+	return a, nil
+}
+
+// mergeSpacing is the share of the local point spacing within which a
+// point is a duplicate of its nearest neighbour when the caller set no
+// merge tolerance: a point written twice a hair apart (a re-probed point,
+// a copy rounded differently) is a duplicate at any scale of the part, and
+// kept apart it makes cross-validation take the pair for noise-free data
+// and interpolate.
+const mergeSpacing = 0.003
+
+// mergeNear merges each point whose nearest neighbour lies within
+// mergeSpacing of the distance to its next nearest (the local spacing,
+// however uneven: cosine-spaced stations crowd at the ends, duplicates
+// stand out everywhere) into that neighbour, the lower input index kept,
+// and reports whether it merged any. The largest distance merged is
+// recorded as the merge tolerance when it exceeds the one applied.
+func (cl *cleaning) mergeNear() bool {
+	pts, src, nb := cl.pts, cl.src, cl.nb
+	n := len(pts)
+	byInput := make([]int32, n)
+	for i := range byInput {
+		byInput[i] = int32(i)
+	}
+	slices.SortFunc(byInput, func(a, b int32) int { return int(src[a] - src[b]) })
+	gone := make([]bool, n)
+	any := false
+	for _, i := range byInput {
+		if gone[i] {
+			continue
+		}
+		row := nb.of(i)
+		if len(row) < 2 {
+			continue
+		}
+		q, r := row[0], row[1]
+		if gone[q] || src[q] < src[i] {
+			continue
+		}
+		d := fastDist(pts[i], pts[q])
+		if d <= mergeSpacing*fastDist(pts[i], pts[r]) {
+			gone[q] = true
+			any = true
+			cl.rep.Merged = append(cl.rep.Merged, Merged{Kept: cl.c.Origins[src[i]], Dropped: cl.c.Origins[src[q]], Distance: d})
+			cl.rep.MergeTol = max(cl.rep.MergeTol, d)
+		}
+	}
+	if !any {
+		return false
+	}
+	k := 0
+	for i := range n {
+		if !gone[i] {
+			pts[k], src[k] = pts[i], src[i]
+			k++
+		}
+	}
+	cl.pts, cl.src = pts[:k], src[:k]
+	return true
+}
+
+// substantial counts the loops that enclose an area and hold at least
+// loopShare of the points of the most populous loop.
+func substantial(pts []geometry.Point, loops [][]int32, diag float64) int {
+	most := 0
+	for _, l := range loops {
+		most = max(most, len(l))
+	}
+	k := 0
+	for _, l := range loops {
+		if math.Abs(area(pts, l)) > 1e-9*diag*diag && float64(len(l)) >= loopShare*float64(most) {
+			k++
+		}
+	}
+	return k
+}
+
+// fromFile tries the file's own runs as the loops.
+func (cl *cleaning) fromFile(opts Options, sigma float64) *attempt {
+	c, pts, src := cl.c, cl.pts, cl.src
+	runs := runsOf(c, src)
+	if a, b, ok := runsValid(pts, runs, cl.nb); !ok {
+		cl.rep.Reordered = fmt.Sprintf("the step from %s to %s jumps %.3g, beyond the points' neighbourhoods", c.Origins[src[a]], c.Origins[src[b]], pts[a].Dist(pts[b]))
+		return &attempt{strategy: OrderFile, fail: cl.rep.Reordered}
+	}
+	g := newGraph(len(pts))
+	for _, r := range runs {
+		for k := 1; k < len(r); k++ {
+			g.addEdge(r[k-1], r[k])
+		}
+	}
+	join(pts, cl.nb, g)
+	loops, rest := g.components(minPoints)
+	a := cl.evaluate(OrderFile, loops, rest, opts, sigma, localFits{}, true)
+	if a.fail == "" && a.err == nil {
+		cl.rep.OrderKept = true
+	}
+	return a
+}
+
+// linkLoops links the points into chains and joins them into loops.
+func (cl *cleaning) linkLoops() (loops, rest [][]int32) {
+	g := newGraph(len(cl.pts))
+	link(cl.pts, cl.nb, g)
+	join(cl.pts, cl.nb, g)
+	return g.components(minPoints)
+}
+
+// byBandLoops tries band projection.
+func (cl *cleaning) byBandLoops(opts Options, sigma float64) *attempt {
+	loops, rest, per := byBand(cl.pts, cl.nb, cl.lo, cl.hi)
+	band := min(max(fitK, 2*per), maxBandFit)
+	a := cl.evaluate(OrderBand, loops, rest, opts, sigma, localFits{band: band}, true)
+	if a.fail == "" && a.err == nil {
+		cl.rep.Band = true
+	}
+	return a
+}
+
+// bySection tries the section order: the chord frame of the points that
+// are not isolated, the order, its outliers; then, with the outliers set
+// aside, the frame and the order once more.
+func (cl *cleaning) bySection(opts Options, sigma float64) *attempt {
+	pts := cl.pts
+	sel := dense(pts, cl.nb)
+	// Isolated points wait outside the loop, to be put back, dropped as
+	// outliers or as strays by where they lie from it.
+	var rest [][]int32
+	if len(sel) < len(pts) {
+		in := make([]bool, len(pts))
+		for _, i := range sel {
+			in[i] = true
+		}
+		var left []int32
+		for i := range int32(len(pts)) {
+			if !in[i] {
+				left = append(left, i)
+			}
+		}
+		rest = [][]int32{left}
+	}
+	// Twice: the first frame, drawn from the dense points, may still end
+	// at a gross outlier off the trailing edge, which also pulls the fits
+	// that tell the surfaces apart near it; the second pass orders only the
+	// points the first kept, in a frame drawn from them, and spares the
+	// points near the edge for the edge's models.
+	var a *attempt
+	for pass := range 2 {
+		f, ok := sectionFrame(pts, sel)
+		if !ok {
+			return &attempt{strategy: OrderSection, fail: "no thin end: the points do not look like a section"}
+		}
+		seq, sc := sectionOrder(pts, sel, f)
+		if edgeTrace != nil {
+			edgeTrace("section pass %d le %v te %v", pass, f.le, f.te)
+			for k, i := range seq {
+				if x, y := f.at(pts[i]); x > 0.94 && x < 0.99 {
+					edgeTrace("   pos %d x %.5f y %.5f region %d", k, x, y, sc.region[i])
+				}
+			}
+		}
+		a = cl.evaluate(OrderSection, [][]int32{seq}, rest, opts, sigma, localFits{sc: sc, chord: f.chord}, true)
+		if a.err != nil {
+			break
+		}
+		if pass == 1 {
+			if len(a.seq) > len(seq) {
+				// Points put back went in where they project onto the
+				// loop's polygon, which near a thin edge may be the other
+				// surface: their place is the section order's.
+				kept := slices.Clone(a.seq)
+				slices.Sort(kept)
+				a.seq, sc = sectionOrder(pts, kept, f)
+			}
+			if bandLike(pts, a.seq, a.scale) {
+				// A band: the points are ordered by their feet on the
+				// local curves, whose polygon gives the fit its parameter.
+				a.feet, a.hasFeet = sc.feet(pts, a.seq)
+				a.seq, _ = sc.byFeet(pts, a.seq, a.feet, a.hasFeet)
+			}
+			break
+		}
+		// The second pass orders the points the first kept; the others
+		// wait outside the loop.
+		out := make(map[int32]bool, len(a.hits))
+		for _, h := range a.hits {
+			out[h.idx] = true
+		}
+		next := slices.DeleteFunc(slices.Clone(a.seq), func(i int32) bool { return out[i] })
+		if len(next) < minPoints {
+			break
+		}
+		slices.Sort(next)
+		sel = next
+		in := make([]bool, len(pts))
+		for _, i := range sel {
+			in[i] = true
+		}
+		var left []int32
+		for i := range int32(len(pts)) {
+			if !in[i] {
+				left = append(left, i)
+			}
+		}
+		rest = nil
+		if len(left) > 0 {
+			rest = [][]int32{left}
+		}
+	}
+	return a
+}
+
+// dense returns the points whose fourth nearest neighbour is no farther
+// than six times the median such distance: isolated points (gross
+// outliers) are left out of the chord frame.
+func dense(pts []geometry.Point, nb *nbrs) []int32 {
+	d := make([]float64, len(pts))
+	for i := range pts {
+		row := nb.of(int32(i))
+		if len(row) < 4 {
+			d[i] = math.Inf(1)
+			continue
+		}
+		d[i] = fastDist(pts[i], pts[row[3]])
+	}
+	lim := 6 * median(slices.Clone(d))
+	var sel []int32
+	for i, v := range d {
+		if v <= lim {
+			sel = append(sel, int32(i))
+		}
+	}
+	if len(sel) < minPoints {
+		return allNeighbours(len(pts))
+	}
+	return sel
+}
+
+// insideShare returns the share of up to eight points of loop l, evenly
+// spaced along it, that lie inside the polygon poly.
+func insideShare(pts []geometry.Point, l []int32, poly []geometry.Point) float64 {
+	m := min(8, len(l))
+	if m == 0 {
+		return 0
+	}
+	in := 0
+	for k := range m {
+		if geometry.InsideLoop(poly, pts[l[k*len(l)/m]]) {
+			in++
+		}
+	}
+	return float64(in) / float64(m)
+}
+
+// evaluate picks loop opts.Loop of loops (the rest are left over), drops
+// its outliers and places the points left over, and applies the gates:
+// the loop must keep at least minCoverage of the points.
+func (cl *cleaning) evaluate(strategy string, loops, rest [][]int32, opts Options, sigma float64, lf localFits, spare bool) *attempt {
+	a := &attempt{strategy: strategy}
+	pts := cl.pts
+	most := 0
+	for _, l := range loops {
+		most = max(most, len(l))
+	}
+	diag := cl.diag
+	loops = slices.DeleteFunc(slices.Clone(loops), func(l []int32) bool {
+		if math.Abs(area(pts, l)) <= 1e-9*diag*diag || float64(len(l)) < loopShare*float64(most) {
+			rest = append(rest, l)
+			return true
+		}
+		return false
+	})
+	if len(loops) == 0 {
+		a.fail = fmt.Sprintf("%d points form %d open chain(s) and no closed loop", len(pts), len(rest))
+		return a
+	}
+	seq, infos, err := cl.pick(loops, opts.Loop)
+	a.loops = infos
+	if err != nil {
+		a.err = err
+		return a
+	}
+	// The other loops nested with this one are walls of the part (a hollow
+	// blade's inner wall), not points of this one; a loop beside it is a
+	// piece of the same outline that the ordering broke off, whose points
+	// the section must keep.
+	walls := 0
+	if len(loops) > 1 {
+		poly := make([]geometry.Point, len(seq))
+		for k, i := range seq {
+			poly[k] = pts[i]
+		}
+		for _, l := range loops {
+			if len(l) == len(seq) && l[0] == seq[0] {
+				continue
+			}
+			// Nested either way: the inner wall of the outer one picked,
+			// or the outer wall of the inner one the user asked for.
+			wall := insideShare(pts, l, poly) >= 0.5
+			if !wall {
+				lp := make([]geometry.Point, len(l))
+				for k, i := range l {
+					lp[k] = pts[i]
+				}
+				wall = insideShare(pts, seq, lp) >= 0.5
+			}
+			if wall {
+				walls += len(l)
+			}
+		}
+	}
+	// The trailing edge's end zone is left to the edge's model: found on
+	// the loop without the points a first pass calls outliers (one near the
+	// edge could pass for its end), it spares every point near the edge.
+	var exempt []bool
+	if spare {
+		exempt = cl.spared(seq, sigma, lf)
+		if lf.sc != nil {
+			lf.sc.spared = exempt
+		}
+	}
+	seq, scale, raw, outs := dropOutliers(pts, seq, sigma, opts.KeepOutliers, lf, exempt)
+	seq, extra := placeRest(pts, seq, rest, cl.nb, sigma*scale, scale, opts.KeepOutliers)
+	a.seq, a.scale, a.raw, a.hits = seq, scale, raw, append(outs, extra...)
+	kept := len(a.seq)
+	if opts.KeepOutliers {
+		for _, h := range a.hits {
+			if h.kept {
+				kept--
+			}
+		}
+	}
+	need := len(pts) - walls
+	if float64(kept) < minCoverage*float64(need) {
+		a.fail = fmt.Sprintf("the loop keeps %d of %d points (coverage %.0f %%, want at least %.0f %%)", kept, need, 100*float64(kept)/float64(need), 100*minCoverage)
+	}
+	if len(a.seq) < minPoints {
+		a.fail = fmt.Sprintf("%d point(s) left in the loop, need at least %d", len(a.seq), minPoints)
+	}
+	return a
+}

@@ -1,0 +1,1129 @@
+package clean
+
+import (
+	"fmt"
+	"math"
+	"slices"
+
+	"github.com/foilwright/foilwright/geometry"
+)
+
+// Trailing-edge kinds (Edge.Kind).
+const (
+	EdgeSharp   = "sharp"   // the surfaces meet in a corner
+	EdgeBlunt   = "blunt"   // a base joins the ends of the surfaces
+	EdgeRounded = "rounded" // a small-radius end turns from one surface to the other
+)
+
+// Edge is the trailing edge found on the contour's points (Report.Edge).
+// The contour starts at the end of the upper surface: the corner of a
+// sharp edge when a point lies there, else the first point past it; the
+// upper corner of a blunt edge; the tip of a rounded one. The last Base
+// points of the contour lie on a blunt edge's base.
+type Edge struct {
+	Kind string
+	// Base is the number of points at the end of the contour on a blunt
+	// base, from the lower to the upper corner.
+	Base int
+	// Upper and Lower are the ends of the upper and the lower surface
+	// (input coordinates) for a sharp or blunt edge: where the surfaces,
+	// each fitted near the edge, meet each other (sharp: Upper = Lower) or
+	// the base (blunt). They need not be points of the contour: a corner
+	// that no point sampled is reconstructed.
+	Upper, Lower geometry.Point
+	// Reconstructed reports that Upper or Lower is not a contour point.
+	Reconstructed bool
+	// Thickness is the distance between the ends (blunt), or the width
+	// where a rounded end gives way to the surfaces, input units.
+	Thickness float64
+	// Chord is the length of the coarse chord line the analysis used
+	// (input units), for scaling its figures.
+	Chord float64
+	// Why says what decided the kind, in words a user can check.
+	Why string
+	// Spread is how far along the chord (input units) the trailing edge
+	// of another model of the end lies from this one's, among the models
+	// the points cannot tell from it (edgePlausible): an unsampled sharp
+	// corner beyond a base through the last points, say. 0 when the
+	// points decide.
+	Spread float64
+}
+
+// edgePlausible is the score difference (−2 ln of a likelihood ratio of
+// 20, common practice for a 95 % statement) within which another model of
+// the end counts as plausible for Edge.Spread.
+const edgePlausible = 6
+
+// Lengths of the trailing-edge analysis, in chord units.
+const (
+	edgeFit     = 0.03 // each surface is fitted over this much of the chord ...
+	edgeFitMax  = 0.4  // ... or more, up to this, to hold edgeCoreFit points ...
+	edgeZone    = 0.02 // ... short of this end zone, where the end models compete
+	edgeCoreFit = 8    // points a surface fit takes when it has to reach farther
+	edgeMinFit  = 4    // least points of a surface fit
+	edgeCross   = 0.15 // the fits' crossing is sought this far beyond the aftmost point
+)
+
+// Limits of the trailing-edge analysis.
+const (
+	edgeCap   = 4   // a point's misfit counts at most this many scatters (outliers of the end models)
+	edgeOn    = 2   // a zone point within this many scatters of a surface's first fit joins its second ...
+	edgeShare = 0.1 // ... or within this share of the surfaces' separation
+	edgeReach = 2.5 // a corner no point sampled lies within this many local steps of the last points
+	edgeBases = 24  // positions of a blunt end's base, or a rounded end's tip, tried
+)
+
+// endModel is one model of the end of a section: the two surfaces up to
+// where they end, and what joins them.
+type endModel struct {
+	kind  string
+	score float64
+	// extra is what the model pays besides its points' misfits: for the
+	// numbers it fits and the stretches it leaves unsampled.
+	extra float64
+	// xu, xl: the surfaces count up to these x (beyond them, the distance
+	// to their last point).
+	xu, xl float64
+	// Sharp: the corner. Blunt: the base from lo to hi. Rounded: the
+	// circle (centre, r), from the tangent point tl to tu.
+	corner, lo, hi geometry.Point
+	centre         geometry.Point
+	r              float64
+	tl, tu         geometry.Point
+	// spread: see Edge.Spread (chord units), set on the winner.
+	spread float64
+	// tipLo, tipHi: the range of the trailing edge's station over the
+	// positions of this kind of end (the bases or arcs tried) that score
+	// within edgePlausible of this one, when tips says they were measured.
+	tipLo, tipHi float64
+	tips         bool
+}
+
+// plausibleTips returns the range of tipX over best and the candidates
+// that score within edgePlausible of it.
+func plausibleTips(cands []endModel, best *endModel) (lo, hi float64) {
+	lo, hi = best.tipX(), best.tipX()
+	for i := range cands {
+		if cands[i].score <= best.score+edgePlausible {
+			x := cands[i].tipX()
+			lo, hi = min(lo, x), max(hi, x)
+		}
+	}
+	return lo, hi
+}
+
+// tipX returns the chord station of the model's trailing edge: the
+// corner, the base, the tip of the arc.
+func (m *endModel) tipX() float64 {
+	switch m.kind {
+	case EdgeSharp:
+		return m.corner.X
+	case EdgeBlunt:
+		return (m.lo.X + m.hi.X) / 2
+	}
+	return m.centre.X + m.r
+}
+
+// surfaceMiss returns the distance of p from the surface q up to xEnd:
+// the offset in y where p lies before xEnd (the surfaces run nearly along
+// the chord near the edge), else the distance to the surface's last point.
+func surfaceMiss(q quadFit, xEnd float64, p geometry.Point) float64 {
+	if p.X <= xEnd {
+		return math.Abs(p.Y - q.at(p.X))
+	}
+	return p.Dist(geometry.Point{X: xEnd, Y: q.at(xEnd)})
+}
+
+// segmentDist returns the distance of p from the segment a–b.
+func segmentDist(p, a, b geometry.Point) float64 {
+	d := b.Sub(a)
+	l2 := d.Dot(d)
+	if l2 == 0 {
+		return p.Dist(a)
+	}
+	t := min(1, max(0, p.Sub(a).Dot(d)/l2))
+	return p.Dist(a.Add(d.Scale(t)))
+}
+
+// miss returns the distance of p from the model: from the nearer surface
+// and from the piece that joins them, and which it is nearest to: −1 the
+// lower surface, 0 the joining piece, +1 the upper surface.
+func (m *endModel) miss(u, l quadFit, p geometry.Point) (float64, int) {
+	du, dl := surfaceMiss(u, m.xu, p), surfaceMiss(l, m.xl, p)
+	best, which := du, 1
+	if dl < best {
+		best, which = dl, -1
+	}
+	var de float64
+	switch m.kind {
+	case EdgeSharp:
+		de = p.Dist(m.corner)
+	case EdgeBlunt:
+		de = segmentDist(p, m.lo, m.hi)
+	default:
+		v := p.Sub(m.centre)
+		a, al, au := math.Atan2(v.Y, v.X), math.Atan2(m.tl.Y-m.centre.Y, m.tl.X-m.centre.X), math.Atan2(m.tu.Y-m.centre.Y, m.tu.X-m.centre.X)
+		if a >= al && a <= au {
+			de = math.Abs(v.Norm() - m.r)
+		} else {
+			de = math.Min(p.Dist(m.tl), p.Dist(m.tu))
+		}
+	}
+	if de < best {
+		best, which = de, 0
+	}
+	return best, which
+}
+
+// side returns which part of the model p belongs to, as miss does, but
+// with the surfaces keeping a point that is within the scatter of both
+// a surface and the joining piece (a corner point is a surface's end).
+func (m *endModel) side(u, l quadFit, p geometry.Point, scat float64) int {
+	d, w := m.miss(u, l, p)
+	if w != 0 {
+		return w
+	}
+	du, dl := surfaceMiss(u, m.xu, p), surfaceMiss(l, m.xl, p)
+	switch {
+	case du <= d+scat && du <= dl:
+		return 1
+	case dl <= d+scat:
+		return -1
+	}
+	return 0
+}
+
+// scoreOf sets m.score: the misfits of the zone points in scatters,
+// squared and capped at edgeCap (common practice for a robust loss).
+func (m *endModel) scoreOf(u, l quadFit, z []geometry.Point, scat float64) {
+	m.score = m.misfit(u, l, z, scat, edgeCap, nil) + m.extra
+}
+
+// misfit returns the sum of the squared misfits of the points z in
+// scatters, each capped at limit scatters, leaving out the points marked
+// in skip (nil: none).
+func (m *endModel) misfit(u, l quadFit, z []geometry.Point, scat, limit float64, skip []bool) float64 {
+	var s float64
+	for j, p := range z {
+		if skip != nil && skip[j] {
+			continue
+		}
+		d, _ := m.miss(u, l, p)
+		r := min(d/scat, limit)
+		s += r * r
+	}
+	return s
+}
+
+// roundEnd returns the rounded end of radius r tangent to the surfaces u
+// and l near their end at xmax: the circle tangent to their tangent lines,
+// taken where the circle touches them (three rounds, starting at xmax), or
+// false when no such circle lies between them.
+func roundEnd(u, l quadFit, xmax, r float64) (endModel, bool) {
+	x0 := xmax
+	var m endModel
+	for range 3 {
+		var ok bool
+		if m, ok = roundEndAt(u, l, x0, r); !ok {
+			return m, false
+		}
+		x0 = (m.tu.X + m.tl.X) / 2
+	}
+	return m, true
+}
+
+// roundTip returns the rounded end tangent to the surfaces (roundEnd)
+// whose aftmost point lies at xtip, its radius found by bisection (the tip
+// of a circle between converging surfaces moves forward as it grows), or
+// false when none does.
+func roundTip(u, l quadFit, xtip, rmax float64) (endModel, bool) {
+	tipOf := func(r float64) (float64, bool) {
+		m, ok := roundEnd(u, l, xtip, r)
+		return m.centre.X + r, ok
+	}
+	// A bracket on a log scale from the largest radius down: the tip lies
+	// beyond xtip for the smaller radius and short of it for the larger.
+	hi := rmax
+	th, okh := tipOf(hi)
+	lo := hi
+	found := false
+	for range 40 {
+		lo = hi / 1.5
+		tl, okl := tipOf(lo)
+		if okl && okh && th <= xtip && tl >= xtip {
+			found = true
+			break
+		}
+		hi, th, okh = lo, tl, okl
+	}
+	if !found {
+		return endModel{}, false
+	}
+	for range 50 {
+		mid := math.Sqrt(lo * hi)
+		t, ok := tipOf(mid)
+		if !ok {
+			return endModel{}, false
+		}
+		if t > xtip {
+			lo = mid
+		} else {
+			hi = mid
+		}
+		if hi-lo <= 1e-9*hi {
+			break
+		}
+	}
+	return roundEnd(u, l, xtip, math.Sqrt(lo*hi))
+}
+
+// roundEndAt returns the rounded end of radius r tangent to the lines that
+// continue u and l from x0 (their tangents there), or false when no such
+// circle lies between them.
+func roundEndAt(u, l quadFit, x0, r float64) (endModel, bool) {
+	su, sl := u.c[1]+2*u.c[2]*x0, l.c[1]+2*l.c[2]*x0
+	yu, yl := u.at(x0), l.at(x0)
+	if yu <= yl {
+		return endModel{}, false
+	}
+	// The centre is r below the upper line and r above the lower one:
+	//   yc − yu − su (xc − x0) = −r √(1 + su²)
+	//   yc − yl − sl (xc − x0) = +r √(1 + sl²)
+	nu, nl := math.Sqrt(1+su*su), math.Sqrt(1+sl*sl)
+	var xc float64
+	if math.Abs(su-sl) < 1e-9 {
+		// Parallel: the radius is fixed by their distance; put the circle
+		// at the end.
+		xc = x0 - r
+	} else {
+		// Subtract: (yl − yu) + (sl − su)(xc − x0) ... solve for xc.
+		xc = x0 + ((yu-yl)-r*(nu+nl))/(sl-su)
+	}
+	yc := yu + su*(xc-x0) - r*nu
+	c := geometry.Point{X: xc, Y: yc}
+	tu := c.Add(geometry.Point{X: -su, Y: 1}.Scale(r / nu))
+	tl := c.Add(geometry.Point{X: sl, Y: -1}.Scale(r / nl))
+	if !(tu.Y > tl.Y) || !(r > 0) {
+		return endModel{}, false
+	}
+	return endModel{kind: EdgeRounded, xu: tu.X, xl: tl.X, centre: c, r: r, tu: tu, tl: tl}, true
+}
+
+// edgeFound is what findEdge found: the loop re-ordered to start at the
+// end of the upper surface, the edge, the points of the end zone, and
+// those of them that miss the winning end model by more than edgeOutlier
+// scatters (and a tenth of the local step): gross outliers, which the
+// generic test leaves to the edge's model there.
+type edgeFound struct {
+	seq      []int32
+	edge     Edge
+	zone     []int32
+	outliers []hit
+	frame    chordFrame // the chord frame of the analysis
+	// misfit is the mean squared misfit of the zone points to the model,
+	// in scatters (capped as in its score, outliers left out).
+	misfit float64
+	// scat is the scatter the models were scored in (chord units).
+	scat float64
+}
+
+// edgeOutlier is the misfit, in scatters, beyond which a point of the end
+// zone is an outlier of the end model.
+const edgeOutlier = 6
+
+// findEdge analyses the trailing edge of the loop seq (counter-clockwise,
+// outliers removed) whose points scatter by sigma about local fits. It
+// returns the loop rotated to start at the end of the upper surface, with
+// the base points of a blunt edge last, and the edge; ok is false when the
+// loop does not show a thin end it can analyse (the caller keeps its own
+// start).
+//
+// The method. In the chord frame of the loop (farthest pair, the thin end
+// aft, see sectionFrame) each surface is fitted by a parabola y(x) over
+// edgeFit of the chord (farther, up to edgeFitMax, until it holds
+// edgeCoreFit points) short of the end zone (edgeZone): short, so that the
+// parabola's own error where it is carried into the zone stays below the
+// scatter of good data. The scatter is the larger of sigma and
+// those fits' own. Three models of the end then compete for the points of
+// the zone, each scored by the sum of their squared misfits in scatters,
+// capped at edgeCap (so that no single point decides):
+//
+//   - sharp: the surfaces run on to where their fits cross. A corner that
+//     no point sampled is allowed only within reach of the last points
+//     (edgeReach local steps), or where the surfaces end within the
+//     scatter of each other; otherwise the surfaces must have ended apart.
+//   - blunt: the surfaces run to a base across the chord at some x (the
+//     best of edgeBases positions about the aftmost point), which joins
+//     them; a lone point on it is a base point.
+//   - rounded: a circular arc tangent to the surfaces joins them, its tip
+//     at the best of edgeBases positions about the aftmost point.
+//
+// The blunt and rounded models each fit one number more than the sharp
+// one and pay for it (twice the log of the zone's point count, a Bayesian
+// information criterion, common practice); on a tie the simpler model
+// wins, sharp before blunt before rounded. The points of the zone are
+// then split into the lower surface, the joining piece and the upper
+// surface in loop order, as the winning model assigns them.
+func findEdge(pts []geometry.Point, seq []int32, sigma float64) (edgeFound, bool) {
+	n := len(seq)
+	if n < 2*edgeMinFit+2 {
+		return edgeFound{seq: seq}, false
+	}
+	f, ok := sectionFrameUpTo(pts, seq, 0.3)
+	if !ok {
+		return edgeFound{seq: seq}, false
+	}
+	r, ok := findEdgeIn(pts, seq, sigma, f)
+	if ok && r.misfit <= edgePoor {
+		return r, true
+	}
+	// No model of the end explains the points of the end the widths
+	// called thin (the nose of a thin, strongly cambered section with a
+	// wide trailing-edge angle is no wider there): the other end is
+	// analysed too, and when a model explains that one, with surfaces
+	// that parabolas fit at least as closely (a nose's do not), it is the
+	// trailing edge.
+	if r2, ok2 := findEdgeIn(pts, seq, sigma, newChordFrame(f.te, f.le)); ok2 && r2.misfit <= edgePoor && (!ok || r2.misfit < r.misfit && r2.scat <= r.scat) {
+		return r2, true
+	}
+	return r, ok
+}
+
+// edgeEvidence is the least difference of scores by which a rounded end
+// wins over a blunt one (a likelihood ratio of e, positive evidence on
+// the usual scale of Bayes factors, common practice).
+const edgeEvidence = 2
+
+// edgePoor is the mean squared misfit of the zone points, in scatters, of
+// the best end model beyond which findEdge looks at the other end too (a
+// model that explains the points gives about 1).
+const edgePoor = 4
+
+// findEdgeIn is findEdge in the chord frame f.
+func findEdgeIn(pts []geometry.Point, seq []int32, sigma float64, f chordFrame) (edgeFound, bool) {
+	n := len(seq)
+	xs, ys := make([]float64, n), make([]float64, n)
+	for k, i := range seq {
+		xs[k], ys[k] = f.at(pts[i])
+	}
+	at := func(k int) int { return ((k % n) + n) % n }
+	k0 := 0
+	for k := range n {
+		if xs[k] > xs[k0] {
+			k0 = k
+		}
+	}
+	// The cores: from the edge each side runs on (the upper side forward,
+	// the lower side backward); its core is the part of it beyond the end
+	// zone, within edgeFit of the chord or, to hold edgeCoreFit points,
+	// up to edgeFitMax.
+	// A point within the end zone that the order put among a core's
+	// points (a stray point beside the edge) is a zone point too (hole).
+	var holes []int
+	core := func(dir int) (first int, idx []int) {
+		first = -1
+		for s := 1; s < n/2; s++ {
+			k := at(k0 + dir*s)
+			x := xs[k]
+			if x < 1-edgeFitMax || x < 1-edgeZone-edgeFit && len(idx) >= edgeCoreFit {
+				break
+			}
+			if x <= 1-edgeZone {
+				if first < 0 {
+					first = s
+				}
+				idx = append(idx, k)
+			} else if first >= 0 {
+				holes = append(holes, k)
+			}
+		}
+		return first, idx
+	}
+	uf, uidx := core(1)
+	lf, lidx := core(-1)
+	if len(uidx) < edgeMinFit || len(lidx) < edgeMinFit {
+		return edgeFound{seq: seq}, false
+	}
+	// The zone: the positions between the cores, from the lower side
+	// through the edge to the upper side, and the holes.
+	var zpos []int
+	for k := at(k0 - lf + 1); k != at(k0+uf); k = at(k + 1) {
+		zpos = append(zpos, k)
+	}
+	zpos = append(zpos, holes...)
+	z := make([]geometry.Point, len(zpos))
+	xmax := xs[k0]
+	for j, k := range zpos {
+		z[j] = geometry.Point{X: xs[k], Y: ys[k]}
+		xmax = max(xmax, xs[k])
+	}
+	// The step between points near the edge.
+	step := max(localStep(pts, seq, at(k0+uf), 1, 5), localStep(pts, seq, at(k0-lf), -1, 5)) / f.chord
+	// The spacing at the end itself, where the models' outlines differ,
+	// sets the rate of the points along them (a drawing's cosine stations
+	// crowd there); the snapping and reach tolerances keep the step of
+	// the surfaces ahead.
+	pstep := step
+	if es, ok := endStep(z[:len(z)-len(holes)], lf-1); ok {
+		pstep = es
+	}
+	// Twice: the second time each surface is fitted again with the zone
+	// points the first verdict gave it, which shortens the reach of the
+	// fits into the zone to the last of them.
+	var best endModel
+	var out []bool
+	var u, l quadFit
+	var scat float64
+	coreU, coreL := slices.Clone(uidx), slices.Clone(lidx)
+	for round := range 2 {
+		var us, ls float64
+		u, us = fitScatter(xs, ys, uidx)
+		l, ls = fitScatter(xs, ys, lidx)
+		if !u.ok || !l.ok {
+			return edgeFound{seq: seq}, false
+		}
+		scat = max(sigma/f.chord, us, ls, 1e-9)
+		m, o, ok := chooseEnd(u, l, z, xmax, step, pstep, scat)
+		if !ok {
+			return edgeFound{seq: seq}, false
+		}
+		best, out = m, o
+		if round == 1 {
+			break
+		}
+		for j, p := range z {
+			// Only points well on a surface (near a rounded end the
+			// surfaces already bend): within edgeOn scatters of its fit,
+			// or edgeShare of the surfaces' separation there (the first
+			// fits carried into the zone miss exact data by more than
+			// their scatter, and a base or an arc lies far off).
+			on := max(edgeOn*scat, edgeShare*(u.at(p.X)-l.at(p.X)))
+			switch m.side(u, l, p, scat) {
+			case 1:
+				if math.Abs(p.Y-u.at(p.X)) <= on {
+					uidx = append(uidx, zpos[j])
+				}
+			case -1:
+				if math.Abs(p.Y-l.at(p.X)) <= on {
+					lidx = append(lidx, zpos[j])
+				}
+			}
+		}
+	}
+	// The surfaces fitted once more over their whole side of the zone as
+	// well, robustly: near a sharp corner or a small base on exact or
+	// nearly exact data the fits carried into the zone from outside miss by
+	// more than the scatter, while fits that take the zone in do not (and
+	// near a large rounded end they bend and lose). The better scored
+	// verdict of the two wins.
+	for j, k := range zpos {
+		switch {
+		case k == k0:
+		case j < slices.Index(zpos, k0):
+			coreL = append(coreL, k)
+		default:
+			coreU = append(coreU, k)
+		}
+	}
+	if u2, _ := fitScatter(xs, ys, coreU); u2.ok {
+		if l2, _ := fitScatter(xs, ys, coreL); l2.ok {
+			if m, o, ok := chooseEnd(u2, l2, z, xmax, step, pstep, scat); ok && m.score < best.score {
+				best, out, u, l = m, o, u2, l2
+			}
+		}
+	}
+	return best.apply(pts, seq, f, u, l, zpos, z, out, scat, step)
+}
+
+// chooseEnd fits the three end models to the zone points z and returns the
+// winner (see findEdge).
+func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, pstep, scat float64) (endModel, []bool, bool) {
+	pen := 2 * math.Log(float64(len(z))+2)
+	// Every model's outline is measured from the foremost zone station on
+	// (the part all share is the same length in each).
+	xa := xmax
+	for _, p := range z {
+		xa = min(xa, p.X)
+	}
+	var models []endModel
+	// Sharp.
+	sepEnd := u.at(xmax) - l.at(xmax)
+	if xc, ok := crossing(u, l, xmax, xmax-edgeZone, xmax+edgeCross); ok {
+		c := geometry.Point{X: xc, Y: u.at(xc)}
+		if xc < xmax+step/20 {
+			// The fits cross short of the points (a thin edge, noisy):
+			// the surfaces run on to the aftmost point, where they are
+			// within the scatter of each other; that point is the corner
+			// when it lies between them.
+			xc = xmax
+			c = geometry.Point{X: xmax, Y: (u.at(xmax) + l.at(xmax)) / 2}
+			for _, p := range z {
+				if p.X == xmax && math.Abs(p.Y-c.Y) <= math.Abs(sepEnd)/2+edgeCap*scat && snapTol(scat, step) > 0 {
+					c = p
+				}
+			}
+		}
+		lastU, lastL := lastOn(z, u, l, xc)
+		if c.Dist(lastU)+c.Dist(lastL) <= edgeReach*step+lastU.Dist(lastL)+2*scat || sepEnd <= 2*scat {
+			m := endModel{kind: EdgeSharp, xu: xc, xl: xc, corner: c}
+			if !sampled(z, c, 2*scat) {
+				// A corner no point sampled: the surfaces' last points
+				// end at the same chord station only by chance (as the
+				// stations of a drawing end at a blunt base whose corners
+				// they sample, never short of a corner).
+				m.extra = coincidence(math.Abs(lastU.X-lastL.X)+scat, pstep)
+			}
+			m.extra += gapDeviance(m.path(u, l, xa), pstep)
+			m.scoreOf(u, l, z, scat)
+			models = append(models, m)
+		}
+	}
+	if sepEnd <= edgeCap*scat {
+		// The surfaces end within a few scatters of each other at the
+		// aftmost point: a thin sharp edge whose corner is that point (when
+		// it lies between them) or the middle there, however far on the
+		// fits would cross (near a thin edge the crossing is ill-posed).
+		c := geometry.Point{X: xmax, Y: (u.at(xmax) + l.at(xmax)) / 2}
+		for _, p := range z {
+			if p.X == xmax && math.Abs(p.Y-c.Y) <= math.Abs(sepEnd)/2+2*scat && snapTol(scat, step) > 0 {
+				c = p
+			}
+		}
+		m := endModel{kind: EdgeSharp, xu: xmax, xl: xmax, corner: c}
+		// The surfaces' fits end sepEnd apart, each half of it off the
+		// corner they share: a misfit of the fits' ends, in scatters.
+		m.extra = gapDeviance(m.path(u, l, xa), pstep) + 2*sq(sepEnd/2/scat)
+		m.scoreOf(u, l, z, scat)
+		models = append(models, m)
+	}
+	// Blunt: bases about the aftmost point, and beyond it by up to two
+	// steps (a base no point sampled, its position left open).
+	var bestB *endModel
+	var cands []endModel
+	for j := range edgeBases + edgeBases/2 {
+		xb := xmax + (float64(j)/float64(edgeBases-1)-0.75)*4*scat
+		if j >= edgeBases {
+			xb = xmax + 2*pstep*float64(j-edgeBases+1)/float64(edgeBases/2)
+		}
+		lo, hi := geometry.Point{X: xb, Y: l.at(xb)}, geometry.Point{X: xb, Y: u.at(xb)}
+		if hi.Y <= lo.Y {
+			continue
+		}
+		m := endModel{kind: EdgeBlunt, xu: xb, xl: xb, lo: lo, hi: hi, extra: pen}
+		if cs := max(2*scat, snapTol(scat, step)); !sampled(z, hi, cs) || !sampled(z, lo, cs) {
+			// A corner no point sampled: the surfaces' last points end
+			// at the same station by chance, as short of a sharp corner.
+			lastU, lastL := lastOn(z, u, l, xb+cs)
+			m.extra += coincidence(math.Abs(lastU.X-lastL.X)+scat, pstep)
+		}
+		m.extra += gapDeviance(m.path(u, l, xa), pstep)
+		m.scoreOf(u, l, z, scat)
+		cands = append(cands, m)
+		if bestB == nil || m.score < bestB.score {
+			bestB = &m
+		}
+	}
+	if bestB != nil {
+		bestB.tipLo, bestB.tipHi = plausibleTips(cands, bestB)
+		bestB.tips = true
+		models = append(models, *bestB)
+	}
+	// Rounded: arcs whose tips lie about the aftmost point, or beyond it
+	// by up to a step: an end sampled by one or two points need not have
+	// one at its tip (a point a angle θ round an arc of radius r lies
+	// r(1 − cos θ) short of it). The best of a grid of tips is refined by
+	// golden-section search between its neighbours.
+	if bestR := roundBest(u, l, z, xmax, xa, step, pstep, scat, max(sepEnd, 0), pen); bestR != nil {
+		models = append(models, *bestR)
+	}
+	if len(models) == 0 {
+		return endModel{}, nil, false
+	}
+	// Points that every model misses by more than edgeOutlier scatters
+	// (and a tenth of the step) are outliers; the models are scored again
+	// without them, their misfits now capped only there, so that a model
+	// that misses a good point by many scatters pays for it.
+	out := make([]bool, len(z))
+	for j, p := range z {
+		out[j] = true
+		for k := range models {
+			if d, _ := models[k].miss(u, l, p); d <= edgeOutlier*scat || d <= 0.1*step {
+				out[j] = false
+				break
+			}
+		}
+	}
+	for k := range models {
+		models[k].score = models[k].misfit(u, l, z, scat, edgeOutlier, out) + models[k].extra
+	}
+	// A rounded end must beat a blunt one by edgeEvidence: an end sampled
+	// by a point or two fits a base and an arc alike, and the base is the
+	// more common end of a measured or drawn section (common practice).
+	best := models[0]
+	for _, m := range models[1:] {
+		margin := 0.0
+		if m.kind == EdgeRounded && best.kind == EdgeBlunt {
+			margin = edgeEvidence
+		}
+		if best.kind == EdgeRounded && m.kind == EdgeBlunt {
+			margin = -edgeEvidence
+		}
+		if m.score+margin < best.score {
+			best = m
+		}
+	}
+	for _, m := range models {
+		if m.score <= best.score+edgePlausible {
+			bx := best.tipX()
+			best.spread = max(best.spread, math.Abs(m.tipX()-bx))
+			if m.tips {
+				// The positions of its kind the points leave open.
+				best.spread = max(best.spread, math.Abs(m.tipLo-bx), math.Abs(m.tipHi-bx))
+			}
+		}
+	}
+	if edgeTrace != nil {
+		for _, m := range models {
+			edgeTrace("model %s score %.1f extra %.2f xu %.5f xl %.5f r %.5g lo %v hi %v corner %v", m.kind, m.score, m.extra, m.xu, m.xl, m.r, m.lo, m.hi, m.corner)
+		}
+		edgeTrace("zone %d points, xmax %.5f step %.4g scat %.3g pen %.1f", len(z), xmax, step, scat, pen)
+	}
+	return best, out, true
+}
+
+// roundBest returns the best scored rounded end whose tip lies between
+// 3 scatters short of xmax and a step beyond it (at least a scatter), nil
+// when no arc fits; rmax is the largest radius tried.
+func roundBest(u, l quadFit, z []geometry.Point, xmax, xa, step, pstep, scat, rmax, pen float64) *endModel {
+	if !(rmax > 0) {
+		return nil
+	}
+	lo, hi := xmax-3*scat, xmax+max(scat, step)
+	tipAt := func(xt float64) (endModel, bool) {
+		m, ok := roundTip(u, l, xt, rmax)
+		if !ok {
+			return m, false
+		}
+		m.extra = pen + gapDeviance(m.path(u, l, xa), pstep)
+		m.scoreOf(u, l, z, scat)
+		return m, true
+	}
+	var best *endModel
+	var cands []endModel
+	bj := -1
+	xt := func(j int) float64 { return lo + (hi-lo)*float64(j)/float64(edgeBases-1) }
+	for j := range edgeBases {
+		m, ok := tipAt(xt(j))
+		if !ok {
+			continue
+		}
+		cands = append(cands, m)
+		if best == nil || m.score < best.score {
+			best, bj = &m, j
+		}
+	}
+	if best == nil {
+		return nil
+	}
+	defer func() {
+		best.tipLo, best.tipHi = plausibleTips(cands, best)
+		best.tips = true
+	}()
+	// Golden-section search over the grid cells either side of the best.
+	a, b := xt(max(bj-1, 0)), xt(min(bj+1, edgeBases-1))
+	score := func(x float64) float64 {
+		m, ok := tipAt(x)
+		if !ok {
+			return math.Inf(1)
+		}
+		if m.score < best.score {
+			best = &m
+		}
+		return m.score
+	}
+	const g = 0.6180339887498949
+	c, d := b-g*(b-a), a+g*(b-a)
+	fc, fd := score(c), score(d)
+	// Until the bracket is a tenth of the scatter: finer tips change no
+	// score that matters.
+	for k := 0; k < 20 && b-a > scat/10; k++ {
+		if fc < fd {
+			b, d, fd = d, c, fc
+			c = b - g*(b-a)
+			fc = score(c)
+		} else {
+			a, c, fc = c, d, fd
+			d = a + g*(b-a)
+			fd = score(d)
+		}
+	}
+	return best
+}
+
+// edgeTrace, when set (by a debugging test), receives the scores.
+var edgeTrace func(string, ...any)
+
+func sq(x float64) float64 { return x * x }
+
+// snapTol is how near (chord units) a point must lie to a corner the end
+// model places for the corner to be that point: within a twentieth of the
+// local step, on data whose scatter is well below that (exact data, whose
+// fits carried to the corner miss it by their own small error). A noisy
+// point is never the corner: pinned there, the curve would kink by the
+// noise.
+func snapTol(scat, step float64) float64 {
+	if 2*scat > step/20 {
+		return 0
+	}
+	return step / 20
+}
+
+// sampled reports whether a point of z lies within d of c.
+func sampled(z []geometry.Point, c geometry.Point, d float64) bool {
+	for _, p := range z {
+		if p.Dist(c) <= d {
+			return true
+		}
+	}
+	return false
+}
+
+// path returns the length of the model's outline from the station xa on
+// the lower surface round the end to xa on the upper one.
+func (m *endModel) path(u, l quadFit, xa float64) float64 {
+	arc := func(q quadFit, a, b float64) float64 {
+		if b <= a {
+			return 0
+		}
+		const k = 8
+		var s float64
+		prev := geometry.Point{X: a, Y: q.at(a)}
+		for j := 1; j <= k; j++ {
+			x := a + (b-a)*float64(j)/k
+			p := geometry.Point{X: x, Y: q.at(x)}
+			s += p.Dist(prev)
+			prev = p
+		}
+		return s
+	}
+	s := arc(u, xa, m.xu) + arc(l, xa, m.xl)
+	switch m.kind {
+	case EdgeBlunt:
+		s += m.hi.Dist(m.lo)
+	case EdgeRounded:
+		a := math.Atan2(m.tu.Y-m.centre.Y, m.tu.X-m.centre.X) - math.Atan2(m.tl.Y-m.centre.Y, m.tl.X-m.centre.X)
+		if a < 0 {
+			a += 2 * math.Pi
+		}
+		s += a * m.r
+	}
+	return s
+}
+
+// gapDeviance is −2 ln of the chance, up to a constant, of the points of
+// a stretch of the outline of length gap when they fall along it at
+// random with a mean step (a Poisson process, common practice): 2·gap/step.
+// Models of the same points that trace outlines of different lengths
+// differ by it: a longer outline leaves more of itself unsampled.
+func gapDeviance(gap, step float64) float64 {
+	if !(step > 0) {
+		return 0
+	}
+	return 2 * gap / step
+}
+
+// coincidence is −2 ln of the chance that the last points of two surfaces
+// sampled independently with a mean step lie within dx of each other
+// along the chord: 2·dx/step, at most 1 (dx includes the scatter). Every
+// model whose ends the last points do not sample pays it (a sharp corner
+// beyond them, a base one of whose corners no point lies on), so it
+// weighs only for a base whose corners both are sampled (the stations of
+// a drawing, a probe's hits at both corners).
+func coincidence(dx, step float64) float64 {
+	if !(step > 0) {
+		return 0
+	}
+	return -2 * math.Log(min(1, 2*dx/step))
+}
+
+// fitScatter fits a parabola y(x) robustly to the points idx and returns
+// it with the robust scale of its residuals.
+func fitScatter(xs, ys []float64, idx []int) (quadFit, float64) {
+	q := robustQuad(xs, ys, idx, 1)
+	res := make([]float64, 0, len(idx))
+	for _, k := range idx {
+		res = append(res, math.Abs(ys[k]-q.at(xs[k])))
+	}
+	return q, 1.4826 * median(res)
+}
+
+// lastOn returns the zone points nearest the edge (before x) that lie
+// nearer the upper and the lower fit.
+func lastOn(z []geometry.Point, u, l quadFit, x float64) (lu, ll geometry.Point) {
+	lu, ll = geometry.Point{X: math.Inf(-1)}, geometry.Point{X: math.Inf(-1)}
+	for _, p := range z {
+		if p.X > x {
+			continue
+		}
+		if math.Abs(p.Y-u.at(p.X)) < math.Abs(p.Y-l.at(p.X)) {
+			if p.X > lu.X {
+				lu = p
+			}
+		} else if p.X > ll.X {
+			ll = p
+		}
+	}
+	if math.IsInf(lu.X, -1) {
+		lu = geometry.Point{X: x, Y: u.at(x)}
+	}
+	if math.IsInf(ll.X, -1) {
+		ll = geometry.Point{X: x, Y: l.at(x)}
+	}
+	return lu, ll
+}
+
+// apply turns the winning model into the edge and the loop that starts
+// at the end of the upper surface. The zone points are re-ordered as the
+// model places them: those of the lower surface by chordwise position
+// towards the edge, those of the joining piece across the end (a base
+// from its lower to its upper corner, an arc by angle about its centre),
+// those of the upper surface away from the edge; near a thin, noisy edge
+// the points of the two surfaces mingle in any order made without the
+// model, and the loop would zigzag between them.
+func (m endModel) apply(pts []geometry.Point, seq []int32, f chordFrame, u, l quadFit, zpos []int, z []geometry.Point, outl []bool, scat, step float64) (edgeFound, bool) {
+	n, nz := len(seq), len(z)
+	type placed struct {
+		key float64
+		k   int // zone index
+	}
+	var lower, end, upper []placed
+	if edgeTrace != nil {
+		edgeTrace("apply %s: zone %d points", m.kind, len(z))
+		for j, p := range z {
+			edgeTrace("   zone %d pos %d x %.5f y %.5f side %d", j, zpos[j], p.X, p.Y, m.side(u, l, p, scat))
+		}
+	}
+	for j, p := range z {
+		// A point within the snapping distance of a surface's end is
+		// that surface's (a drawing's station at a corner), however
+		// close the base.
+		w := m.side(u, l, p, max(scat, snapTol(scat, step)))
+		if m.kind == EdgeSharp && w == 0 {
+			// Beyond the corner: the side it is nearer to.
+			w = -1
+			if math.Abs(p.Y-u.at(m.corner.X)) < math.Abs(p.Y-l.at(m.corner.X)) {
+				w = 1
+			}
+		}
+		// Along a surface, by the point's foot on the surface's fit (in a
+		// noisy band x alone would zigzag the feet).
+		foot := func(q quadFit) float64 {
+			sl := q.c[1] + 2*q.c[2]*p.X
+			return p.X + sl*(p.Y-q.at(p.X))/(1+sl*sl)
+		}
+		switch w {
+		case -1:
+			lower = append(lower, placed{foot(l), j})
+		case 1:
+			upper = append(upper, placed{-foot(u), j})
+		default:
+			key := p.Y // across a base, from the lower corner up
+			if m.kind == EdgeRounded {
+				key = math.Atan2(p.Y-m.centre.Y, p.X-m.centre.X)
+			}
+			end = append(end, placed{key, j})
+		}
+	}
+	for _, ps := range [][]placed{lower, end, upper} {
+		slices.SortStableFunc(ps, func(a, b placed) int {
+			switch {
+			case a.key < b.key:
+				return -1
+			case a.key > b.key:
+				return 1
+			}
+			return a.k - b.k
+		})
+	}
+	// The loop: the upper zone points, the rest of the loop from the upper
+	// core round to the lower core, the lower zone points, the joining
+	// piece.
+	out := make([]int32, 0, n)
+	for _, p := range upper {
+		out = append(out, seq[zpos[p.k]])
+	}
+	inZone := make(map[int]bool, nz)
+	for _, k := range zpos {
+		inZone[k] = true
+	}
+	for s := 1; s < n; s++ {
+		// From the first position after the zone's contiguous part on.
+		k := (zpos[0] + s) % n
+		if !inZone[k] {
+			out = append(out, seq[k])
+		}
+	}
+	for _, p := range lower {
+		out = append(out, seq[zpos[p.k]])
+	}
+	for _, p := range end {
+		out = append(out, seq[zpos[p.k]])
+	}
+	e := Edge{Kind: m.kind, Chord: f.chord, Spread: m.spread * f.chord}
+	switch m.kind {
+	case EdgeSharp:
+		e.Why = "the surfaces, fitted near the edge, meet in a corner"
+		// A zone point within the scatter of the corner is the corner:
+		// the loop starts there.
+		near, nd := -1, math.Inf(1)
+		for j, p := range z {
+			if d := p.Dist(m.corner); d < nd {
+				near, nd = j, d
+			}
+		}
+		if near >= 0 && nd <= snapTol(scat, step) {
+			at := slices.Index(out, seq[zpos[near]])
+			e.Upper = pts[out[at]]
+			e.Lower = e.Upper
+			return m.found(rotateTo(out, at), e, pts, seq, u, l, zpos, z, outl, scat, f), true
+		}
+		p := f.point(m.corner.X, m.corner.Y)
+		e.Upper, e.Lower, e.Reconstructed = p, p, true
+		// The loop starts at whichever of the surfaces' last points lies
+		// nearer the corner (a point at a thin edge may fall to either).
+		if last := out[len(out)-1]; pts[last].Dist(p) < pts[out[0]].Dist(p) {
+			out = rotateTo(out, len(out)-1)
+		}
+		return m.found(out, e, pts, seq, u, l, zpos, z, outl, scat, f), true
+	case EdgeBlunt:
+		e.Upper, e.Lower, e.Reconstructed = f.point(m.hi.X, m.hi.Y), f.point(m.lo.X, m.lo.Y), true
+		e.Thickness = m.hi.Dist(m.lo) * f.chord
+		e.Base = len(end)
+		// A corner that a point sampled is that point.
+		tol := snapTol(scat, step) * f.chord
+		first, last := out[0], out[len(out)-1-e.Base]
+		snapU, snapL := pts[first].Dist(e.Upper) <= tol, pts[last].Dist(e.Lower) <= tol
+		if snapU {
+			e.Upper = pts[first]
+		}
+		if snapL {
+			e.Lower = pts[last]
+		}
+		e.Reconstructed = !snapU || !snapL
+		if e.Base == 0 {
+			e.Why = fmt.Sprintf("the surfaces end %.3g chord apart, with no point between them", m.hi.Dist(m.lo))
+		} else {
+			e.Why = fmt.Sprintf("%d point(s) lie on a straight base %.3g chord across the end", e.Base, m.hi.Dist(m.lo))
+		}
+		return m.found(out, e, pts, seq, u, l, zpos, z, outl, scat, f), true
+	default:
+		e.Thickness = m.tu.Dist(m.tl) * f.chord
+		e.Why = fmt.Sprintf("%d point(s) lie on an arc of radius %.3g chord round the end", len(end), m.r)
+		// Start at the tip: the point of the arc nearest its aftmost
+		// point (any zone point when none is on the arc).
+		tip := geometry.Point{X: m.centre.X + m.r, Y: m.centre.Y}
+		k, kd := -1, math.Inf(1)
+		for _, p := range end {
+			if d := z[p.k].Dist(tip); d < kd {
+				k, kd = p.k, d
+			}
+		}
+		if k < 0 {
+			for j := range z {
+				if d := z[j].Dist(tip); d < kd {
+					k, kd = j, d
+				}
+			}
+		}
+		return m.found(rotateTo(out, slices.Index(out, seq[zpos[k]])), e, pts, seq, u, l, zpos, z, outl, scat, f), true
+	}
+}
+
+// found completes the result of apply: the zone's points and its
+// outliers (out, see chooseEnd).
+func (m endModel) found(loop []int32, e Edge, pts []geometry.Point, seq []int32, u, l quadFit, zpos []int, z []geometry.Point, out []bool, scat float64, f chordFrame) edgeFound {
+	r := edgeFound{seq: loop, edge: e, frame: f}
+	kept := 0
+	for j := range z {
+		if !out[j] {
+			kept++
+		}
+	}
+	r.misfit = m.misfit(u, l, z, scat, edgeOutlier, out) / float64(max(kept, 1))
+	r.scat = scat
+	for j, k := range zpos {
+		r.zone = append(r.zone, seq[k])
+		if out[j] {
+			d, _ := m.miss(u, l, z[j])
+			r.outliers = append(r.outliers, hit{idx: seq[k], reason: "outlier", dist: d * f.chord, sigmas: d / scat})
+		}
+	}
+	return r
+}
+
+// rotateTo returns seq rotated to start at position k.
+func rotateTo(seq []int32, k int) []int32 {
+	out := make([]int32, 0, len(seq))
+	out = append(out, seq[k:]...)
+	return append(out, seq[:k]...)
+}
+
+// crossing returns where the parabolas u and l cross nearest to x0 within
+// [lo, hi], or false.
+func crossing(u, l quadFit, x0, lo, hi float64) (float64, bool) {
+	a, b, c := u.c[2]-l.c[2], u.c[1]-l.c[1], u.c[0]-l.c[0]
+	var roots []float64
+	if math.Abs(a) < 1e-12*(math.Abs(b)+math.Abs(c)) {
+		if b != 0 {
+			roots = append(roots, -c/b)
+		}
+	} else if disc := b*b - 4*a*c; disc >= 0 {
+		q := -0.5 * (b + math.Copysign(math.Sqrt(disc), b))
+		if q != 0 {
+			roots = append(roots, q/a, c/q)
+		} else {
+			roots = append(roots, 0)
+		}
+	}
+	best, ok := 0.0, false
+	for _, r := range roots {
+		if r >= lo && r <= hi && (!ok || math.Abs(r-x0) < math.Abs(best-x0)) {
+			best, ok = r, true
+		}
+	}
+	return best, ok
+}
+
+// endStep returns the median of the four distances between consecutive
+// zone points nearest the aftmost one (at position i0 of the zone, which
+// runs from the lower surface round the end to the upper one): two each
+// side, one of which may cross a base. ok is false when fewer than three
+// are there.
+func endStep(z []geometry.Point, i0 int) (float64, bool) {
+	var ds []float64
+	for j := i0 - 2; j <= i0+1; j++ {
+		if j >= 0 && j+1 < len(z) {
+			ds = append(ds, z[j].Dist(z[j+1]))
+		}
+	}
+	if len(ds) < 3 {
+		return 0, false
+	}
+	return median(ds), true
+}
+
+// localStep returns the median distance between consecutive points of
+// seq over the w positions before position k (dir −1) or after it (+1).
+func localStep(pts []geometry.Point, seq []int32, k, dir, w int) float64 {
+	n := len(seq)
+	var ds []float64
+	for s := range w {
+		a := seq[((k+dir*s)%n+n)%n]
+		b := seq[((k+dir*(s+1))%n+n)%n]
+		ds = append(ds, fastDist(pts[a], pts[b]))
+	}
+	return median(ds)
+}
+
+// SetTrace is a temporary debugging hook.
+func SetTrace(f func(string, ...any)) { edgeTrace = f }

@@ -1,0 +1,102 @@
+package clean
+
+import (
+	"math"
+	"math/rand/v2"
+	"testing"
+
+	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/shape"
+)
+
+// edgeTestCloud returns pts as an ordered cloud (origins test.csv:1, 2, …).
+func edgeTestCloud(pts []geometry.Point) *geometry.Cloud {
+	c := &geometry.Cloud{Ordered: true, Dim: 2}
+	for i, p := range pts {
+		c.Points = append(c.Points, geometry.Vec3{X: p.X, Y: p.Y})
+		c.Origins = append(c.Origins, geometry.Origin{File: "test.csv", Line: i + 1})
+	}
+	return c
+}
+
+// A drawing's stations, 20 a surface evenly along the chord, of a NACA
+// 4415 with its open trailing edge (NACA Report 824 equations): the end is
+// a base 0.021·t thick (the thickness polynomial at x = 1: 2·5t·0.0021,
+// laid off normal to the camber line), whose two corners are stations. So
+// few points hold no four within 2–10 % of either end, and the thin end
+// must still be found and read as blunt. (Its thickness comes within 10 %:
+// the scatter that local fits measure on stations this sparse is their
+// curvature, not noise, so the corners are fitted rather than snapped to
+// the stations.)
+func TestEdgeSparseStationsBlunt(t *testing.T) {
+	foil := shape.NACA4{Camber: 0.04, CamberPos: 0.4, Thickness: 0.15}
+	var pts []geometry.Point
+	for i := 20; i >= 1; i-- {
+		pts = append(pts, foil.Upper(float64(i)/20))
+	}
+	pts = append(pts, geometry.Point{})
+	for i := 1; i <= 20; i++ {
+		pts = append(pts, foil.Lower(float64(i)/20))
+	}
+	for i := range pts {
+		pts[i] = pts[i].Scale(380).Rotate(-0.16).Add(geometry.Point{X: 716, Y: 303})
+	}
+	_, rep, err := Clean(edgeTestCloud(pts), Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if rep.Edge == nil {
+		t.Fatal("no trailing edge found on 41 stations")
+	}
+	want := 380 * 2 * 5 * 0.15 * (0.2969 - 0.1260 - 0.3516 + 0.2843 - 0.1015) // NACA Report 824, x = 1
+	if rep.Edge.Kind != EdgeBlunt || math.Abs(rep.Edge.Thickness-want) > 0.1*want {
+		t.Errorf("edge %s, thickness %.4g mm (%s), want blunt, %.4g mm", rep.Edge.Kind, rep.Edge.Thickness, rep.Edge.Why, want)
+	}
+}
+
+// A sharp trailing edge (NACA 2412, closed-edge coefficient, NACA Report
+// 824) probed with a little noise and irregular steps, its corner not
+// sampled: the last points of the surfaces stop short of it at different
+// stations. The corner is rebuilt where the surfaces meet, not cut off by
+// a base through the last points (which shortens the chord).
+func TestEdgeUnsampledSharpCorner(t *testing.T) {
+	foil := shape.NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12, SharpTE: true}
+	const chord = 52.0
+	misses := 0
+	for seed := range uint64(8) {
+		rng := rand.New(rand.NewPCG(seed, 17))
+		// Stations by cosine spacing, each surface with its own phase, so
+		// that neither reaches x = 1.
+		var pts []geometry.Point
+		const n = 160
+		station := func(k float64) float64 { return 0.5 * (1 - math.Cos(math.Pi*k/n)) }
+		pu, pl := 0.2+0.6*rng.Float64(), 0.2+0.6*rng.Float64()
+		for k := n - 1; k >= 1; k-- {
+			pts = append(pts, foil.Upper(station(float64(k)-1+pu)))
+		}
+		pts = append(pts, geometry.Point{})
+		for k := 1; k < n; k++ {
+			pts = append(pts, foil.Lower(station(float64(k)-1+pl)))
+		}
+		for i := range pts {
+			nz := geometry.Point{X: rng.NormFloat64(), Y: rng.NormFloat64()}.Scale(0.003 / chord)
+			pts[i] = pts[i].Add(nz).Scale(chord).Rotate(0.3)
+		}
+		_, rep, err := Clean(edgeTestCloud(pts), Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		te := geometry.Point{X: 1}.Scale(chord).Rotate(0.3) // the corner of the closed-edge section
+		if rep.Edge == nil || rep.Edge.Kind != EdgeSharp || rep.Edge.Upper.Dist(te) > 0.002*chord {
+			misses++
+			if rep.Edge != nil {
+				t.Logf("seed %d: %s edge, end %.4g mm from the corner (%s)", seed, rep.Edge.Kind, rep.Edge.Upper.Dist(te), rep.Edge.Why)
+			} else {
+				t.Logf("seed %d: no edge", seed)
+			}
+		}
+	}
+	if misses > 0 {
+		t.Errorf("%d of 8 unsampled sharp corners not rebuilt within 0.002 chord", misses)
+	}
+}

@@ -1,0 +1,576 @@
+package clean
+
+import (
+	"math"
+	"slices"
+
+	"github.com/foilwright/foilwright/geometry"
+)
+
+// chordFrame is the coarse frame of a section-like set of points: the
+// chord line from the nose end to the tail end of the points' extent, in
+// which x runs from 0 at the nose end to 1 at the tail end and y is the
+// offset to the left of the chord line, both in units of the chord. It is
+// a rotation (never a mirror) of the input frame, so a loop that runs
+// counter-clockwise in one runs counter-clockwise in the other.
+type chordFrame struct {
+	le, te geometry.Point // the nose end and the tail end
+	d      geometry.Point // unit vector le → te
+	chord  float64
+}
+
+// newChordFrame returns the frame with its nose at le and tail at te.
+func newChordFrame(le, te geometry.Point) chordFrame {
+	d := te.Sub(le)
+	c := d.Norm()
+	return chordFrame{le: le, te: te, d: d.Scale(1 / c), chord: c}
+}
+
+// at returns the chord coordinates of p.
+func (f chordFrame) at(p geometry.Point) (x, y float64) {
+	q := p.Sub(f.le)
+	return q.Dot(f.d) / f.chord, f.d.Cross(q) / f.chord
+}
+
+// point returns the input coordinates of the chord coordinates (x, y).
+func (f chordFrame) point(x, y float64) geometry.Point {
+	n := geometry.Point{X: -f.d.Y, Y: f.d.X}
+	return f.le.Add(f.d.Scale(x * f.chord)).Add(n.Scale(y * f.chord))
+}
+
+// farthestPair returns the two points of sel (indices into pts) farthest
+// apart, found by alternating farthest-point sweeps from the centroid
+// (exact for the ends of an elongated body, O(n) a sweep).
+func farthestPair(pts []geometry.Point, sel []int32) (a, b int32) {
+	var c geometry.Point
+	for _, i := range sel {
+		c = c.Add(pts[i])
+	}
+	c = c.Scale(1 / float64(len(sel)))
+	far := func(from geometry.Point) (int32, float64) {
+		best, bd := sel[0], -1.0
+		for _, i := range sel {
+			if d := fastDist(pts[i], from); d > bd {
+				best, bd = i, d
+			}
+		}
+		return best, bd
+	}
+	a, _ = far(c)
+	b, db := far(pts[a])
+	for range 4 {
+		a2, da := far(pts[b])
+		if da <= db {
+			break
+		}
+		a, b, db = b, a2, da
+	}
+	return a, b
+}
+
+// endWidth returns the width across the chord of the points of sel (in
+// chord coordinates xs, ys) whose x lies in [lo, hi]: the spread between
+// the 10 % and 90 % quantiles of their y, or −1 when fewer than 4 points
+// lie there.
+func endWidth(xs, ys []float64, lo, hi float64) float64 {
+	var in []float64
+	for i, x := range xs {
+		if x >= lo && x <= hi {
+			in = append(in, ys[i])
+		}
+	}
+	if len(in) < 4 {
+		return -1
+	}
+	slices.Sort(in)
+	k := len(in) / 10
+	return in[len(in)-1-k] - in[k]
+}
+
+// sectionFrame returns the coarse chord frame of the points sel: the ends
+// of the farthest pair, the nose being the end where the body is wider
+// between 2 % and 10 % of the chord inwards (a trailing edge is the thin
+// end). ok is false when neither end can be judged.
+func sectionFrame(pts []geometry.Point, sel []int32) (chordFrame, bool) {
+	return sectionFrameUpTo(pts, sel, 0.1)
+}
+
+// sectionFrameUpTo is sectionFrame with windows that widen up to
+// 2 %–reach of the chord (0.1, 0.2, 0.3) until each end holds four
+// points. Only a loop already found to be the section may widen them
+// (the trailing-edge analysis): an open arc of few points would pass.
+func sectionFrameUpTo(pts []geometry.Point, sel []int32, reach float64) (chordFrame, bool) {
+	a, b := farthestPair(pts, sel)
+	f := newChordFrame(pts[a], pts[b])
+	if !(f.chord > 0) {
+		return f, false
+	}
+	xs, ys := make([]float64, len(sel)), make([]float64, len(sel))
+	for k, i := range sel {
+		xs[k], ys[k] = f.at(pts[i])
+	}
+	// Wider windows, the same at both ends, for sparse points (the
+	// stations of a drawing, 20 a surface).
+	var wa, wb float64
+	for _, h := range [...]float64{0.1, 0.2, 0.3} {
+		if h > reach+1e-9 {
+			break
+		}
+		wa, wb = endWidth(xs, ys, 0.02, h), endWidth(xs, ys, 1-h, 0.98)
+		if wa >= 0 && wb >= 0 {
+			break
+		}
+	}
+	if wa < 0 || wb < 0 {
+		return f, false
+	}
+	if wb > wa {
+		f = newChordFrame(pts[b], pts[a])
+	}
+	return f, true
+}
+
+// Sizes of the section ordering, in chord units.
+const (
+	noseCap  = 0.05 // the nose cap, ordered by angle, reaches this far from the nose
+	tailCap  = 0.03 // the tail cap likewise from the tail
+	tailSide = 0.15 // near the tail, the side of a point is judged by fits of both surfaces over this length
+)
+
+// camberLine is the coarse camber line of a section: the middle between
+// the surfaces, tabulated on bins of x, linear between them.
+type camberLine struct {
+	x, y []float64
+}
+
+// at returns the camber at x (constant beyond the first and last bins).
+func (c camberLine) at(x float64) float64 {
+	n := len(c.x)
+	switch {
+	case n == 0:
+		return 0
+	case x <= c.x[0]:
+		return c.y[0]
+	case x >= c.x[n-1]:
+		return c.y[n-1]
+	}
+	k, _ := slices.BinarySearch(c.x, x)
+	f := (x - c.x[k-1]) / (c.x[k] - c.x[k-1])
+	return c.y[k-1] + f*(c.y[k]-c.y[k-1])
+}
+
+// camber estimates the camber line of a section from the chord
+// coordinates of its points. Each bin of x holds points of both
+// surfaces; their middle is the middle of the largest gap between
+// consecutive values of y inside the 10–90 % quantiles (the space between
+// the surfaces; trimming keeps a far outlier from making the largest gap
+// outside the body), and a bin counts only when that gap is wider than the
+// spread of the values on either side of it. The middles are then smoothed by a robust running
+// line (Tukey's biweight, three rounds, common practice), which sets aside
+// bins that a missing stretch left one-sided.
+func camber(xs, ys []float64) camberLine {
+	n := len(xs)
+	nb := min(max(n/12, 8), 64)
+	bins := make([][]float64, nb)
+	for i, x := range xs {
+		if x < 0 || x > 1 {
+			continue
+		}
+		k := min(int(x*float64(nb)), nb-1)
+		bins[k] = append(bins[k], ys[i])
+	}
+	var bx, by []float64
+	for k, b := range bins {
+		if len(b) < 4 {
+			continue
+		}
+		slices.Sort(b)
+		t := len(b) / 10
+		lo, hi := t, len(b)-1-t
+		gap, mid, at := -1.0, 0.0, 0
+		for j := lo; j < hi; j++ {
+			if g := b[j+1] - b[j]; g > gap {
+				gap, mid, at = g, (b[j+1]+b[j])/2, j
+			}
+		}
+		// Both surfaces must be there: the gap between them wider than the
+		// spread of either (a missing stretch leaves one surface alone, and
+		// the largest gap in it is a gap along it).
+		if gap < 0 || gap <= b[at]-b[lo] || gap <= b[hi]-b[at+1] {
+			continue
+		}
+		bx = append(bx, (float64(k)+0.5)/float64(nb))
+		by = append(by, mid)
+	}
+	if len(bx) < 3 {
+		return camberLine{x: []float64{0, 1}, y: []float64{0, 0}}
+	}
+	w := make([]float64, len(bx))
+	for i := range w {
+		w[i] = 1
+	}
+	fit := make([]float64, len(bx))
+	const half = 3 // bins each side of the running line
+	for round := range 4 {
+		for i := range bx {
+			var sw, sx, sy, sxx, sxy float64
+			for j := max(0, i-half); j <= min(len(bx)-1, i+half); j++ {
+				sw += w[j]
+				sx += w[j] * bx[j]
+				sy += w[j] * by[j]
+				sxx += w[j] * bx[j] * bx[j]
+				sxy += w[j] * bx[j] * by[j]
+			}
+			if sw == 0 {
+				fit[i] = by[i]
+				continue
+			}
+			mx, my := sx/sw, sy/sw
+			vx := sxx/sw - mx*mx
+			slope := 0.0
+			if vx > 1e-12 {
+				slope = (sxy/sw - mx*my) / vx
+			}
+			fit[i] = my + slope*(bx[i]-mx)
+		}
+		if round == 3 {
+			break
+		}
+		res := make([]float64, len(bx))
+		for i := range res {
+			res[i] = math.Abs(by[i] - fit[i])
+		}
+		s := 1.4826 * median(slices.Clone(res))
+		if s == 0 {
+			break
+		}
+		for i, r := range res {
+			u := r / (4.685 * s)
+			if u >= 1 {
+				w[i] = 0
+			} else {
+				w[i] = (1 - u*u) * (1 - u*u)
+			}
+		}
+	}
+	return camberLine{x: bx, y: fit}
+}
+
+// quadFit is y = c0 + c1·x + c2·x² fitted by least squares.
+type quadFit struct {
+	c  [3]float64
+	ok bool
+}
+
+func (q quadFit) at(x float64) float64 { return q.c[0] + q.c[1]*x + q.c[2]*x*x }
+
+// fitQuad fits y(x) to the points (xs[i], ys[i]) for i in idx, with weights
+// w (nil: all 1). x is shifted by x0 inside for conditioning.
+func fitQuad(xs, ys, w []float64, idx []int, x0 float64) quadFit {
+	var a [3][3]float64
+	var b [3]float64
+	m := 0
+	for _, i := range idx {
+		wi := 1.0
+		if w != nil {
+			wi = w[i]
+		}
+		if wi == 0 {
+			continue
+		}
+		m++
+		u := xs[i] - x0
+		v := [3]float64{1, u, u * u}
+		for r := range 3 {
+			b[r] += wi * v[r] * ys[i]
+			for c := range 3 {
+				a[r][c] += wi * v[r] * v[c]
+			}
+		}
+	}
+	if m < 3 {
+		// Too few points for a parabola: a constant or a line through them.
+		return fitLine(xs, ys, w, idx, x0)
+	}
+	var q quadFit
+	sol, ok := solve3(a, b)
+	if !ok {
+		return fitLine(xs, ys, w, idx, x0)
+	}
+	// Back to the unshifted x: c0 + c1 (x − x0) + c2 (x − x0)².
+	q.c = [3]float64{sol[0] - sol[1]*x0 + sol[2]*x0*x0, sol[1] - 2*sol[2]*x0, sol[2]}
+	q.ok = true
+	return q
+}
+
+// fitLine fits a straight line y(x) (or a constant for one point).
+func fitLine(xs, ys, w []float64, idx []int, x0 float64) quadFit {
+	var sw, sx, sy, sxx, sxy float64
+	for _, i := range idx {
+		wi := 1.0
+		if w != nil {
+			wi = w[i]
+		}
+		u := xs[i] - x0
+		sw += wi
+		sx += wi * u
+		sy += wi * ys[i]
+		sxx += wi * u * u
+		sxy += wi * u * ys[i]
+	}
+	if sw == 0 {
+		return quadFit{}
+	}
+	mx, my := sx/sw, sy/sw
+	v := sxx/sw - mx*mx
+	slope := 0.0
+	if v > 1e-18 {
+		slope = (sxy/sw - mx*my) / v
+	}
+	// y = my + slope (u − mx), u = x − x0.
+	return quadFit{c: [3]float64{my - slope*(mx+x0), slope, 0}, ok: true}
+}
+
+// solve3 solves the 3×3 system a·x = b by Gaussian elimination with
+// partial pivoting; ok is false when it is (nearly) singular.
+func solve3(a [3][3]float64, b [3]float64) ([3]float64, bool) {
+	scale := 0.0
+	for r := range 3 {
+		for c := range 3 {
+			scale = max(scale, math.Abs(a[r][c]))
+		}
+	}
+	if scale == 0 {
+		return [3]float64{}, false
+	}
+	for col := range 3 {
+		p := col
+		for r := col + 1; r < 3; r++ {
+			if math.Abs(a[r][col]) > math.Abs(a[p][col]) {
+				p = r
+			}
+		}
+		if math.Abs(a[p][col]) <= 1e-13*scale {
+			return [3]float64{}, false
+		}
+		a[col], a[p] = a[p], a[col]
+		b[col], b[p] = b[p], b[col]
+		for r := col + 1; r < 3; r++ {
+			f := a[r][col] / a[col][col]
+			for c := col; c < 3; c++ {
+				a[r][c] -= f * a[col][c]
+			}
+			b[r] -= f * b[col]
+		}
+	}
+	var x [3]float64
+	for r := 2; r >= 0; r-- {
+		s := b[r]
+		for c := r + 1; c < 3; c++ {
+			s -= a[r][c] * x[c]
+		}
+		x[r] = s / a[r][r]
+	}
+	return x, true
+}
+
+// tailSides decides, near the tail (x > 1 − tailSide), which points
+// lie on the upper surface: starting from the side of the camber line,
+// each surface is fitted by a parabola y(x) (weighted towards the tail by
+// the biweight of its residuals) and every point joins the surface it lies
+// nearer to, three times over. Where the surfaces are far apart beside the
+// scatter this only confirms the camber line's verdict; near a thin
+// trailing edge it corrects it.
+func tailSides(xs, ys []float64, upper []bool) {
+	var near []int
+	for i, x := range xs {
+		if x > 1-tailSide && x <= 1+tailSide {
+			near = append(near, i)
+		}
+	}
+	if len(near) < 8 {
+		return
+	}
+	for range 3 {
+		var us, ls []int
+		for _, i := range near {
+			if upper[i] {
+				us = append(us, i)
+			} else {
+				ls = append(ls, i)
+			}
+		}
+		if len(us) < 3 || len(ls) < 3 {
+			return
+		}
+		u, l := robustQuad(xs, ys, us, 1), robustQuad(xs, ys, ls, 1)
+		if !u.ok || !l.ok {
+			return
+		}
+		changed := false
+		for _, i := range near {
+			up := math.Abs(ys[i]-u.at(xs[i])) < math.Abs(ys[i]-l.at(xs[i]))
+			if up != upper[i] {
+				upper[i], changed = up, true
+			}
+		}
+		if !changed {
+			return
+		}
+	}
+}
+
+// robustQuad fits y(x) to the points idx by a parabola with Tukey's
+// biweight (two rounds after a plain fit), so that a few points of the
+// other surface or outliers do not pull it; x0 centres x.
+func robustQuad(xs, ys []float64, idx []int, x0 float64) quadFit {
+	q := fitQuad(xs, ys, nil, idx, x0)
+	if !q.ok {
+		return q
+	}
+	w := make([]float64, len(xs))
+	for range 2 {
+		res := make([]float64, 0, len(idx))
+		for _, i := range idx {
+			res = append(res, math.Abs(ys[i]-q.at(xs[i])))
+		}
+		s := 1.4826 * median(res)
+		if s == 0 {
+			return q
+		}
+		for _, i := range idx {
+			u := math.Abs(ys[i]-q.at(xs[i])) / (4.685 * s)
+			if u >= 1 {
+				w[i] = 0
+			} else {
+				w[i] = (1 - u*u) * (1 - u*u)
+			}
+		}
+		if r := fitQuad(xs, ys, w, idx, x0); r.ok {
+			q = r
+		}
+	}
+	return q
+}
+
+// sectionOrder orders the points sel of a section-like cloud into one loop
+// without looking at their spacing: in the coarse chord frame every point
+// gets a place u round the loop, and the loop is the points sorted by u.
+//
+//   - Between the caps (noseCap ≤ x ≤ 1 − tailCap) a point lies on the upper
+//     surface when it is above the camber line (near the tail, above the
+//     middle of fits of both surfaces: tailSides), and its place is its x:
+//     u runs from 0 to 1 along the upper surface from the tail cap to the
+//     nose cap, and from 2 to 3 along the lower surface back.
+//   - In the nose cap (x < noseCap) the place is the angle about the
+//     camber point at x = noseCap, from straight up (u = 1) round the nose to
+//     straight down (u = 2); in the tail cap likewise about the camber point
+//     at 1 − tailCap, from straight down (u = 3) round the tail to straight up
+//     (u = 4, which is 0). A convex end is star-shaped about such a point, so
+//     the angle grows along it; the angles need no point spacing at all.
+//
+// Noise and uneven spacing cannot tangle this order; only points closer
+// along the chord than their scatter may swap, which a fit does not see.
+// The loop starts in the tail cap, at the first point past the tail's
+// direction, and runs counter-clockwise.
+func sectionOrder(pts []geometry.Point, sel []int32, f chordFrame) ([]int32, *sectionCoords) {
+	n := len(sel)
+	xs, ys := make([]float64, n), make([]float64, n)
+	for k, i := range sel {
+		xs[k], ys[k] = f.at(pts[i])
+	}
+	cl := camber(xs, ys)
+	upper := make([]bool, n)
+	for k := range n {
+		upper[k] = ys[k] >= cl.at(xs[k])
+	}
+	tailSides(xs, ys, upper)
+	// The centres of the caps: the camber line's points at their edges.
+	xn, xt := noseCap, 1-tailCap
+	yn, yt := cl.at(xn), cl.at(xt)
+	if mid, ok := tailMiddle(xs, ys, upper, xt); ok {
+		yt = mid
+	}
+	us := make([]float64, n)
+	span := xt - xn
+	sc := newSectionCoords(len(pts))
+	sc.frame, sc.xn, sc.yn, sc.xt = f, xn, yn, xt
+	for k := range n {
+		x, y := xs[k], ys[k]
+		i := sel[k]
+		switch {
+		case x < xn:
+			us[k] = 1 + math.Atan2(xn-x, y-yn)/math.Pi
+			sc.set(i, regionNose, us[k], math.Hypot(x-xn, y-yn))
+		case x > xt:
+			us[k] = 3 + math.Atan2(x-xt, -(y-yt))/math.Pi
+			// Its residuals are y(x) along its surface: the radius about
+			// the cap's centre turns too fast near the centre's line.
+			if us[k] >= 3.5 {
+				sc.set(i, regionUpper, x, y)
+			} else {
+				sc.set(i, regionLower, x, y)
+			}
+		case upper[k]:
+			us[k] = (xt - x) / span
+			sc.set(i, regionUpper, x, y)
+		default:
+			us[k] = 2 + (x-xn)/span
+			sc.set(i, regionLower, x, y)
+		}
+	}
+	// Start at the tail: places from 3.5 (straight behind the tail cap's
+	// centre) on come first.
+	for k := range us {
+		if us[k] < 3.5 {
+			us[k] += 4
+		}
+		sc.place[sel[k]] = us[k]
+	}
+	order := make([]int, n)
+	for k := range order {
+		order[k] = k
+	}
+	slices.SortStableFunc(order, func(a, b int) int {
+		switch {
+		case us[a] < us[b]:
+			return -1
+		case us[a] > us[b]:
+			return 1
+		}
+		return 0
+	})
+	out := make([]int32, n)
+	for k, o := range order {
+		out[k] = sel[o]
+	}
+	return out, sc
+}
+
+// tailMiddle returns the middle between parabolas fitted to the upper and
+// lower points near the tail, at x: a better centre for the tail cap than
+// the binned camber line where the trailing edge is thin.
+func tailMiddle(xs, ys []float64, upper []bool, x float64) (float64, bool) {
+	var us, ls []int
+	for i, xi := range xs {
+		if xi > 1-tailSide && xi <= 1 {
+			if upper[i] {
+				us = append(us, i)
+			} else {
+				ls = append(ls, i)
+			}
+		}
+	}
+	if len(us) < 3 || len(ls) < 3 {
+		return 0, false
+	}
+	u, l := robustQuad(xs, ys, us, 1), robustQuad(xs, ys, ls, 1)
+	if !u.ok || !l.ok {
+		return 0, false
+	}
+	yu, yl := u.at(x), l.at(x)
+	if yu < yl {
+		return 0, false
+	}
+	return (yu + yl) / 2, true
+}

@@ -1,0 +1,168 @@
+package curve
+
+import "math"
+
+// A fair curve has no curvature the part does not have. Noise left in a
+// smoothing spline shows as wiggles: short arcs of alternating curvature,
+// each bounded by two sign changes of the curvature (inflections), much
+// shorter than the stretch of outline over which the part itself turns.
+// A section's own inflections are few and far apart (the concave aft
+// part of a cambered lower surface, a reflex trailing edge), so a lobe
+// of curvature much shorter than the local feature scale is counted as
+// noise-made.
+
+// Limits of the fairness measure.
+const (
+	// fairRatio is the largest change of the feature scale across a lobe
+	// counted as a wiggle: where a sharp turn meets a gentle one (a
+	// rounded end meets the surfaces) a fit cannot place an inflection
+	// exactly, and a short lobe there is no sign of noise.
+	fairRatio = 2
+	// fairLobe is the longest lobe counted as a wiggle, in feature
+	// scales of its middle (the arc over which the outline turns by half
+	// a radian), at most fairLobeMax of the length of the curve.
+	fairLobe    = 0.5
+	fairLobeMax = 1.0 / 20
+	// fairFlat is the curvature, times the length of the curve, below
+	// which the sign of the curvature is not trusted (a straight stretch):
+	// an inflection is counted when the curvature passes from beyond
+	// +fairFlat to beyond −fairFlat or back (hysteresis).
+	fairFlat = 0.5
+	// fairSamples is the number of curvature samples per piece.
+	fairSamples = 4
+)
+
+// Fairness measures the fairness of a curve.
+type Fairness struct {
+	// Inflections counts the sign changes of the curvature (beyond the
+	// flat band ±fairFlat/L).
+	Inflections int `json:"inflections"`
+	// Wiggles counts the lobes of curvature, between two inflections,
+	// shorter than fairLobe feature scales and over which the feature
+	// scale changes by at most fairRatio: inflections made by noise.
+	Wiggles int `json:"wiggles"`
+	// lobes are the arcs [a, b] of the wiggles.
+	lobes [][2]float64
+	// Roughness is the RMS of the derivative of the curvature along the
+	// arc, dκ/ds, in the curve's units (1/length²). In chord units a
+	// smooth NACA section gives tens (the nose dominates); noise left in
+	// the curve, hundreds to thousands.
+	Roughness float64 `json:"roughness"`
+}
+
+// curvatureSample is the curvature at an arc position.
+type curvatureSample struct{ s, k float64 }
+
+// curvatureSamples returns fairSamples curvature samples per piece of cv,
+// with their arc positions.
+func curvatureSamples(cv *Curve) []curvatureSample {
+	out := make([]curvatureSample, 0, fairSamples*cv.Pieces()+1)
+	for i := 0; i < cv.Pieces(); i++ {
+		h := cv.Span(i)
+		for k := 0; k < fairSamples; k++ {
+			u := h * (float64(k) + 0.5) / fairSamples
+			out = append(out, curvatureSample{s: cv.arc(i, u), k: cv.curvatureAt(i, u)})
+		}
+	}
+	return out
+}
+
+// MeasureFairness returns the fairness of cv. T, when not nil, gives the
+// feature scale at arc length s; nil measures lobes against
+// fairLobeMax of the length only.
+func MeasureFairness(cv *Curve, T func(s float64) float64) Fairness {
+	ks := curvatureSamples(cv)
+	L := cv.Length()
+	var f Fairness
+	if len(ks) < 3 || !(L > 0) {
+		return f
+	}
+	// Roughness: RMS of dκ/ds between neighbouring samples.
+	var ss, sl float64
+	for j := 1; j < len(ks); j++ {
+		ds := ks[j].s - ks[j-1].s
+		if ds <= 0 {
+			continue
+		}
+		d := (ks[j].k - ks[j-1].k) / ds
+		ss += d * d * ds
+		sl += ds
+	}
+	if sl > 0 {
+		f.Roughness = math.Sqrt(ss / sl)
+	}
+	// Inflections with hysteresis: the sign changes when the curvature
+	// passes the far side of the flat band.
+	flat := fairFlat / L
+	var crossings []float64 // arc positions of the inflections
+	sign := 0
+	var lastOut float64 // arc position where the curvature last left the band on the current side
+	for _, c := range ks {
+		switch {
+		case c.k > flat:
+			if sign < 0 {
+				crossings = append(crossings, (lastOut+c.s)/2)
+			}
+			sign, lastOut = 1, c.s
+		case c.k < -flat:
+			if sign > 0 {
+				crossings = append(crossings, (lastOut+c.s)/2)
+			}
+			sign, lastOut = -1, c.s
+		default:
+			if sign != 0 {
+				// Still on the same side; remember where it was last
+				// beyond the band.
+				_ = lastOut
+			}
+		}
+	}
+	if cv.Closed() && len(crossings) > 0 && len(ks) > 0 {
+		// The sign at the start against the sign at the end: one more
+		// crossing across the closing point when they differ.
+		first := 0
+		for _, c := range ks {
+			if c.k > flat {
+				first = 1
+				break
+			}
+			if c.k < -flat {
+				first = -1
+				break
+			}
+		}
+		if first != 0 && first != sign {
+			crossings = append(crossings, L)
+		}
+	}
+	f.Inflections = len(crossings)
+	wrap := func(s float64) float64 {
+		if cv.Closed() {
+			return s - L*math.Floor(s/L)
+		}
+		return math.Max(0, math.Min(L, s))
+	}
+	wiggle := func(a, b float64) bool {
+		m := fairLobeMax * L
+		if T == nil {
+			return b-a < m
+		}
+		ta, tb, tm := T(wrap(a)), T(wrap(b)), T(wrap((a+b)/2))
+		return b-a < math.Min(m, fairLobe*tm) && max(ta, tb, tm) <= fairRatio*min(ta, tb, tm)
+	}
+	for j := 1; j < len(crossings); j++ {
+		a, b := crossings[j-1], crossings[j]
+		if wiggle(a, b) {
+			f.Wiggles++
+			f.lobes = append(f.lobes, [2]float64{a, b})
+		}
+	}
+	if cv.Closed() && len(crossings) > 1 {
+		a, b := crossings[len(crossings)-1], crossings[0]+L
+		if wiggle(a, b) {
+			f.Wiggles++
+			f.lobes = append(f.lobes, [2]float64{a - L, b - L})
+		}
+	}
+	return f
+}

@@ -1,0 +1,180 @@
+package curve
+
+import (
+	"errors"
+	"math"
+	"math/rand/v2"
+
+	"github.com/foilwright/foilwright/geometry"
+)
+
+// A fit's replicas serve its accuracy estimate (package accuracy): the
+// fitted curve is taken for the truth, its points are displaced from it
+// by simulated noise, and the replica is fitted with the same smoothing,
+// weights and trailing-edge treatment; how far the replicas scatter about
+// the fitted curve measures how far the fit may be from the part. Half
+// fits the points of one parity alone: for exact samples, how much the
+// curve changes when every second point is left out bounds the error
+// between the points.
+
+// resampler holds what a fit's replicas reuse: the final spline problem,
+// the fitted values and normals at its knots, λ, the noise per knot and
+// how the ends are treated.
+type resampler struct {
+	prob     *splineProblem
+	gx, gy   []float64 // fitted values at the knots
+	xd, yd   []float64 // the data at the knots
+	nx, ny   []float64 // unit normals at the knots
+	lambda   float64
+	sigma    float64 // standard deviation of the simulated noise per knot
+	open     bool
+	freeEnds bool
+	ends     endRebuild
+}
+
+// ErrNoNoise means a fit has no noise to simulate: it interpolates.
+var ErrNoNoise = errors.New("the fit interpolates: no noise to simulate")
+
+func newResampler(p *splineProblem, f *splineFit, xd, yd []float64, lambda, sigma float64, open, freeEnds bool) *resampler {
+	n := p.n()
+	r := &resampler{prob: p, gx: f.gs[0], gy: f.gs[1], xd: xd, yd: yd, lambda: lambda, sigma: sigma, open: open, freeEnds: freeEnds,
+		nx: make([]float64, n), ny: make([]float64, n)}
+	px := p.pieces(f.gs[0], f.gams[0])
+	py := p.pieces(f.gs[1], f.gams[1])
+	for i := 0; i < n; i++ {
+		var dx, dy float64
+		if i < len(px) {
+			dx, dy = px[i][1], py[i][1]
+		} else {
+			j := len(px) - 1
+			_, dx, _ = poly(px[j], p.hs[j])
+			_, dy, _ = poly(py[j], p.hs[j])
+		}
+		if l := math.Hypot(dx, dy); l > 0 {
+			r.nx[i], r.ny[i] = dy/l, -dx/l
+		}
+	}
+	return r
+}
+
+// EndGap returns, for an open fit whose ends are pinned to the last
+// points either side of a gap (a blunt edge without base points), the
+// spacing of the points at the ends: the surfaces may run on that far
+// beyond them unseen. It returns 0 for other fits.
+func (r *FitReport) EndGap() float64 {
+	rs := r.resampler
+	if rs == nil || !rs.open || rs.freeEnds {
+		return 0
+	}
+	return rs.ends.h
+}
+
+// EndSteps returns, for an open fit, the distances from each end of the
+// curve to the first data point inside it (in the fit's parameter, which
+// is arc length): how far each surface runs on unsampled to an end the
+// fit was given (a corner found where the surfaces meet). It returns
+// zeros for a closed fit.
+func (r *FitReport) EndSteps() (first, last float64) {
+	rs := r.resampler
+	if rs == nil || !rs.open {
+		return 0, 0
+	}
+	ts := rs.prob.ts
+	n := len(ts)
+	if n < 2 {
+		return 0, 0
+	}
+	return ts[1] - ts[0], ts[n-1] - ts[n-2]
+}
+
+// ReplicaNoise returns the standard deviation of the noise a replica simulates
+// at each knot (input units; 0 when the fit interpolates).
+func (r *FitReport) ReplicaNoise() float64 {
+	if r.resampler == nil {
+		return 0
+	}
+	return r.resampler.sigma
+}
+
+// Replica returns a replica of the fit: its curve's knot values displaced
+// along the normal by Gaussian noise of the fit's noise (the noise the
+// points show, or the noise given, inflated for noise shared between
+// neighbours), fitted with the same λ and weights, its ends treated as the
+// fit's were. It returns ErrNoNoise for an interpolating fit.
+func (r *FitReport) Replica(rng *rand.Rand) (*Curve, error) {
+	rs := r.resampler
+	if rs == nil || rs.sigma == 0 || rs.lambda == 0 {
+		return nil, ErrNoNoise
+	}
+	n := rs.prob.n()
+	xs, ys := make([]float64, n), make([]float64, n)
+	for i := 0; i < n; i++ {
+		e := rs.sigma * rng.NormFloat64()
+		xs[i], ys[i] = rs.gx[i]+e*rs.nx[i], rs.gy[i]+e*rs.ny[i]
+	}
+	// The base line of a blunt edge is fitted to noisy base points too:
+	// shift and turn it by what their noise allows.
+	ends := rs.ends
+	if ends.base && ends.nBase > 0 {
+		sp := r.NoiseEstimate / math.Sqrt(float64(ends.nBase))
+		nrm := geometry.Point{X: -ends.dir.Y, Y: ends.dir.X}
+		ends.o = ends.o.Add(nrm.Scale(sp * rng.NormFloat64()))
+		if ends.spread > 0 {
+			ends.dir = ends.dir.Rotate(sp / ends.spread * rng.NormFloat64())
+		}
+	}
+	return rs.refitEnds(rs.prob, xs, ys, rs.lambda, ends)
+}
+
+// Half returns the curve of the fit's knots of one parity (phase 0 or 1)
+// alone, the ends of an open fit kept, fitted with the same smoothing
+// (weights doubled, for half the points).
+func (r *FitReport) Half(phase int) (*Curve, error) {
+	rs := r.resampler
+	if rs == nil {
+		return nil, errors.New("geometry: no fit to resample")
+	}
+	p := rs.prob
+	n := p.n()
+	var ts, ws, xs, ys []float64
+	for i := 0; i < n; i++ {
+		if i%2 != phase && !(rs.open && (i == 0 || i == n-1)) {
+			continue
+		}
+		ts = append(ts, p.ts[i])
+		ws = append(ws, 2*p.ws[i])
+		xs = append(xs, rs.xd[i])
+		ys = append(ys, rs.yd[i])
+	}
+	if len(ts) < splineMinKnots {
+		return nil, errors.New("geometry: too few points for half a fit")
+	}
+	period := 0.0
+	if p.periodic {
+		period = p.hs[len(p.hs)-1] + p.ts[n-1] - p.ts[0]
+	}
+	return rs.refit(splineNewProblem(ts, ws, p.periodic, period), xs, ys, rs.lambda)
+}
+
+// refit fits p to (xs, ys) at λ and treats the ends as the fit did.
+func (rs *resampler) refit(p *splineProblem, xs, ys []float64, lambda float64) (*Curve, error) {
+	return rs.refitEnds(p, xs, ys, lambda, rs.ends)
+}
+
+// refitEnds is refit with the ends rebuilt as ends says.
+func (rs *resampler) refitEnds(p *splineProblem, xs, ys []float64, lambda float64, ends endRebuild) (*Curve, error) {
+	f, err := p.fit(lambda, [][]float64{xs, ys}, false)
+	if err != nil {
+		return nil, err
+	}
+	if rs.open && rs.freeEnds && lambda > 0 {
+		if fc, ok := endCorrected(p, xs, ys, lambda, f); ok {
+			f = fc
+		}
+	}
+	cv := fromFit(p, f, !rs.open)
+	if rs.open && lambda > 0 {
+		cv = rebuildEnds(cv, ends)
+	}
+	return cv, nil
+}

@@ -1,0 +1,179 @@
+package prep
+
+import (
+	"fmt"
+	"math"
+	"strings"
+
+	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/clean"
+	"github.com/foilwright/foilwright/geometry/section"
+)
+
+// Gates: checks every section passes before prep accepts it. A check that
+// fails sends the chain back to try another ordering of the points, then
+// the fit without the trailing edge found on the points; when every way
+// fails the first failure is reported as a *GateError.
+const (
+	GateCrossing = "no self-crossing"           // the repanelled outline does not cross itself
+	GateExtent   = "chord within the extent"    // the chord is the section's length
+	GateMonotone = "surfaces monotone"          // each surface runs one way along the chord
+	GateTEAngle  = "trailing-edge angle"        // the surfaces meet at a plausible angle
+	GateFit      = "fit within the scatter"     // the curve stays within the points' scatter
+	GateEdges    = "leading and trailing edges" // the edges could be located at all
+)
+
+// Limits of the gates.
+const (
+	gateExtent  = 0.03 // the chord may differ from the points' largest extent by this share
+	gateNoseCap = 0.02 // near the nose (x below this), x may run back by ...
+	gateBack    = 2e-3 // ... this much of the chord, and elsewhere by this
+	gateTEAngle = 90   // degrees: the largest plausible trailing-edge angle
+	gateFitRMS  = 10   // the fit's RMS residual may exceed the points' scatter this many times
+)
+
+// GateError reports a section that failed a gate under every way of
+// making it that prep tried: which gate, what was seen, where (a file and
+// line near the place when there is one), what the user can do, and the
+// ways tried.
+type GateError struct {
+	Gate   string
+	Seen   string
+	Where  geometry.Origin // zero when no point is named
+	Advice string
+	Tried  []string
+}
+
+func (e *GateError) Error() string {
+	var b strings.Builder
+	fmt.Fprintf(&b, "the section fails the check %q: %s", e.Gate, e.Seen)
+	if e.Where.File != "" {
+		fmt.Fprintf(&b, " (near %s)", e.Where)
+	}
+	if len(e.Tried) > 0 {
+		fmt.Fprintf(&b, "; tried %s", strings.Join(e.Tried, ", "))
+	}
+	if e.Advice != "" {
+		b.WriteString("; ")
+		b.WriteString(e.Advice)
+	}
+	return b.String()
+}
+
+// nearestOrigin returns the origin of the contour point nearest to p
+// (input coordinates).
+func nearestOrigin(c *geometry.Contour, p geometry.Point) geometry.Origin {
+	best, bd := -1, math.Inf(1)
+	for i, q := range c.Points {
+		if d := q.Dist(p); d < bd {
+			best, bd = i, d
+		}
+	}
+	if best < 0 || best >= len(c.Origins) {
+		return geometry.Origin{}
+	}
+	return c.Origins[best]
+}
+
+// checkGates checks the preparation p (normalised, repanelled: nodes with
+// the leading edge at node le) against the gates, in order, and returns
+// the first failure, nil when all pass.
+func (p *Preparation) checkGates(nodes []geometry.Point, le int) *GateError {
+	fr := p.Shape.Frame
+	toPart := func(q geometry.Point) geometry.Point { return geometry.Point(fr.ToPart(q)) }
+	if _, err := section.CheckNodes(nodes); err != nil {
+		g := &GateError{Gate: GateCrossing, Seen: fmt.Sprintf("the repanelled section is not usable: %v", err),
+			Advice: "the points may be out of order there, or two parts of the outline overlap: look at the points near that place (points --plot), give the measurement noise with --noise to smooth more, or pick another loop with --loop"}
+		if i, _, ok := geometry.LoopCrossing(nodes); ok && i < len(nodes) {
+			g.Where = nearestOrigin(p.Contour, toPart(nodes[i]))
+		}
+		return g
+	}
+	// The chord against the largest extent of the points: a leading or
+	// trailing edge found in the wrong place makes the chord short.
+	if ext := extent(p.Contour.Points); ext > 0 && math.Abs(fr.Chord-ext) > gateExtent*ext {
+		return &GateError{Gate: GateExtent, Seen: fmt.Sprintf("the chord %.5g is %.1f %% off the points' largest extent %.5g", fr.Chord, 100*(fr.Chord-ext)/ext, ext),
+			Where:  nearestOrigin(p.Contour, toPart(geometry.Point{X: 1})),
+			Advice: "the trailing or leading edge was found in the wrong place: set the leading edge with --le-at X,Y, or check for points beyond the part"}
+	}
+	// Each surface runs one way: x falls from the trailing edge to the
+	// leading edge over the upper surface and rises back over the lower.
+	for k := 1; k < len(nodes); k++ {
+		a, b := nodes[k-1], nodes[k]
+		back := b.X - a.X // upper: must not rise
+		if k > le {
+			back = a.X - b.X // lower: must not fall
+		}
+		lim := gateBack
+		if min(a.X, b.X) < gateNoseCap {
+			lim = gateNoseCap // round the nose the surface turns
+		}
+		if back > lim {
+			side := "upper"
+			if k > le {
+				side = "lower"
+			}
+			return &GateError{Gate: GateMonotone, Seen: fmt.Sprintf("the %s surface runs back by %.3g chord at x = %.3f", side, back, b.X),
+				Where:  nearestOrigin(p.Contour, toPart(b)),
+				Advice: "the outline folds there: the points may be out of order, or points of another part lie among them"}
+		}
+	}
+	if a := p.Props.TEAngleDeg; math.IsNaN(a) || a > gateTEAngle {
+		return &GateError{Gate: GateTEAngle, Seen: fmt.Sprintf("the surfaces meet at %.1f° at the trailing edge", a),
+			Where:  nearestOrigin(p.Contour, toPart(geometry.Point{X: 1})),
+			Advice: "the trailing edge was probably found in the wrong place: set the leading edge with --le-at X,Y"}
+	}
+	if scat := max(p.Clean.Sigma, p.Fit.Scatter, p.Fit.NoiseEstimate); scat > 0 && p.Fit.RMS > gateFitRMS*scat {
+		return &GateError{Gate: GateFit, Seen: fmt.Sprintf("the fitted curve departs from the points by %.3g RMS, %.0f times their scatter %.3g", p.Fit.RMS, p.Fit.RMS/scat, scat),
+			Where:  p.Fit.MaxAt,
+			Advice: "the points may not lie on one smooth outline in the order found: look at them (points --plot)"}
+	}
+	return nil
+}
+
+// extent returns the largest distance between two points of pts, found by
+// farthest-point sweeps (exact for the ends of an elongated body).
+func extent(pts []geometry.Point) float64 {
+	if len(pts) < 2 {
+		return 0
+	}
+	var c geometry.Point
+	for _, p := range pts {
+		c = c.Add(p)
+	}
+	c = c.Scale(1 / float64(len(pts)))
+	far := func(from geometry.Point) (geometry.Point, float64) {
+		best, bd := pts[0], -1.0
+		for _, p := range pts {
+			if d := p.Dist(from); d > bd {
+				best, bd = p, d
+			}
+		}
+		return best, bd
+	}
+	a, _ := far(c)
+	b, d := far(a)
+	for range 4 {
+		a2, d2 := far(b)
+		if d2 <= d {
+			break
+		}
+		a, b, d = b, a2, d2
+	}
+	_ = a
+	return d
+}
+
+// orderings returns the orderings of the points to try after the one
+// clean chose (strategy), in turn.
+func orderings(strategy string) []string {
+	switch strategy {
+	case clean.OrderSection:
+		return []string{clean.OrderLinked, clean.OrderBand}
+	case clean.OrderLinked, clean.OrderFile:
+		return []string{clean.OrderSection}
+	case clean.OrderBand:
+		return []string{clean.OrderSection, clean.OrderLinked}
+	}
+	return nil
+}
