@@ -4,6 +4,8 @@ import (
 	"math"
 	"testing"
 
+	"github.com/foilwright/foilwright/geometry/accuracy"
+	"github.com/foilwright/foilwright/geometry/clean"
 	"github.com/foilwright/foilwright/internal/scangen"
 )
 
@@ -32,5 +34,23 @@ func TestPrepareThinCamberedReadForwards(t *testing.T) {
 	}
 	if k := p.Section.TrailingEdge.Kind; k != "sharp" {
 		t.Errorf("trailing edge %s, want sharp (a Kármán–Trefftz section ends in a corner)", k)
+	}
+}
+
+// widenForEdge takes in what the points leave open at the end: the chord
+// up to the spread along it, the twist up to the spread across it over
+// the chord (an end 1 unit higher or lower at a chord of 100 turns the
+// chord line by atan 0.01 = 0.573°); neither bound is ever narrowed.
+func TestWidenForEdge(t *testing.T) {
+	u := accuracy.Uncertainty{Chord: 0.1, TwistDeg: 0.1}
+	widenForEdge(&u, &clean.Edge{Chord: 100, Spread: 0.5, SpreadAcross: 1})
+	if math.Abs(u.Chord-0.5) > 1e-12 || math.Abs(u.TwistDeg-math.Atan(0.01)*180/math.Pi) > 1e-12 {
+		t.Errorf("widened to chord %g, twist %g°; want 0.5, 0.573°", u.Chord, u.TwistDeg)
+	}
+	u = accuracy.Uncertainty{Chord: 2, TwistDeg: 1}
+	widenForEdge(&u, &clean.Edge{Chord: 100, Spread: 0.5, SpreadAcross: 1})
+	widenForEdge(&u, nil)
+	if u.Chord != 2 || u.TwistDeg != 1 {
+		t.Errorf("narrowed to chord %g, twist %g°", u.Chord, u.TwistDeg)
 	}
 }

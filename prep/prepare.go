@@ -299,10 +299,20 @@ func (p *Preparation) fit(cl *Cleaned, s Settings, useEdge bool) error {
 // edges that the points cannot tell apart (clean.Edge.Spread): the end of
 // a section may be an unsampled sharp corner or a base through the last
 // points, and the chord is one or the other; the bound says so rather
-// than resting on the one chosen.
+// than resting on the one chosen. Those ends' trailing-edge points also
+// lie at different heights across the chord (the tip of an arc and the
+// midpoint of a base through the same last points, on a cambered end),
+// and the chord line turns with the one chosen: the twist's bound is at
+// least that height over the chord (clean.Edge.SpreadAcross).
 func widenForEdge(u *accuracy.Uncertainty, e *clean.Edge) {
-	if e != nil && e.Spread > u.Chord && !math.IsInf(e.Spread, 0) {
+	if e == nil {
+		return
+	}
+	if e.Spread > u.Chord && !math.IsInf(e.Spread, 0) {
 		u.Chord = e.Spread
+	}
+	if a := e.SpreadAcross; a > 0 && e.Chord > 0 && !math.IsInf(a, 0) {
+		u.TwistDeg = math.Max(u.TwistDeg, math.Atan(a/e.Chord)*180/math.Pi)
 	}
 }
 

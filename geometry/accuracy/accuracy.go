@@ -147,6 +147,15 @@ func Estimate(cv *curve.Curve, rep *curve.FitReport, nz *frame.Normalized, opts 
 			u.Chord += 0.95*math.Min(h, 2*rep.NoiseEstimate) + cornerAlong(cv, rep)
 		}
 	}
+	// A nose sampled too sparsely (the one Gaps warns of) leaves the
+	// leading edge where the curve guesses it between two points round
+	// the bend; it slides along the nose, across the chord line, and
+	// turns the chord with it. The replicas and half fits keep the
+	// guess's shape, so the twist is at least the leading edge's bound
+	// seen from the trailing edge, a chord away.
+	if sparseNose(rep, cv, nz) && nz.Frame.Chord > 0 {
+		u.TwistDeg = math.Max(u.TwistDeg, math.Atan(u.LE/nz.Frame.Chord)*180/math.Pi)
+	}
 	// Floors: what the arithmetic of the chain (projections, searches
 	// for the farthest point, quadrature) leaves even on exact data.
 	c := nz.Frame.Chord

@@ -206,3 +206,56 @@ func TestEstimateCornerNoPointSampled(t *testing.T) {
 		}
 	}
 }
+
+// xStations returns a drawing's stations at chord stations evenly
+// spaced in x, m a surface, from the trailing edge over the upper surface
+// and back along the lower (the nose falls between the first stations).
+func xStations(n shape.NACA4, m int) []geometry.Point {
+	var loop []geometry.Point
+	for k := 0; k < m; k++ {
+		loop = append(loop, n.Upper(1-float64(k)/float64(m)))
+	}
+	for k := 0; k < m; k++ {
+		loop = append(loop, n.Lower(float64(k)/float64(m)))
+	}
+	return loop
+}
+
+// A cambered, thin drawing of 20 stations a surface evenly spaced in x
+// (NACA 6406, NACA Report 824 equations, 25° twist): its nose falls
+// between two stations, the leading edge rests on the curve's guess
+// there and turns the chord with it. The twist's bound is at least the
+// leading edge's bound over the chord, and covers the true twist error
+// there; a nose drawn with 400 cosine-spaced stations a surface is not sparse.
+func TestEstimateSparseNoseTwist(t *testing.T) {
+	n := shape.NACA4{Camber: 0.06, CamberPos: 0.4, Thickness: 0.06, SharpTE: true}
+	part := testfoil.Part{Chord: 27, RotDeg: 25}
+	for _, tc := range []struct {
+		loop   []geometry.Point
+		sparse bool
+	}{{xStations(n, 20), true}, {n.Loop(400), false}} {
+		c := testfoil.Contour(tc.loop, part)
+		cv, rep, err := curve.Fit(c, curve.FitOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		nz, err := frame.Normalize(cv, frame.Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		m := len(tc.loop)
+		sparse := sparseNose(rep, cv, nz)
+		if sparse != tc.sparse {
+			t.Errorf("%d stations: sparse nose %v", m, sparse)
+		}
+		u := Estimate(cv, rep, nz, Options{})
+		_, twist, _, _ := trueErrors(t, nz, n, part)
+		t.Logf("%d stations: twist off %.3g°, bound %.3g°, LE bound %.3g c", m, twist, u.TwistDeg, u.LE/nz.Frame.Chord)
+		if sparse && twist > u.TwistDeg {
+			t.Errorf("%d stations: twist off %.3g°, bound %.3g°", m, twist, u.TwistDeg)
+		}
+		if lo := math.Atan(u.LE/nz.Frame.Chord) * 180 / math.Pi; sparse && u.TwistDeg < lo*(1-1e-12) {
+			t.Errorf("%d stations: twist bound %.3g° below the leading edge's over the chord, %.3g°", m, u.TwistDeg, lo)
+		}
+	}
+}

@@ -53,19 +53,7 @@ func Gaps(c *geometry.Contour, rep *curve.FitReport, cv *curve.Curve, nz *frame.
 		}
 		return s
 	}
-	// turn returns the turn of the tangent from arc length a to b (b may
-	// pass L on a closed curve), summed over short steps.
-	turn := func(a, b float64) float64 {
-		const steps = 16
-		var total float64
-		prev := cv.Tangent(at(a))
-		for k := 1; k <= steps; k++ {
-			t := cv.Tangent(at(a + (b-a)*float64(k)/steps))
-			total += math.Atan2(prev.Cross(t), prev.Dot(t))
-			prev = t
-		}
-		return math.Abs(total) * 180 / math.Pi
-	}
+	turn := func(a, b float64) float64 { return turnBetween(cv, a, b) }
 	sLE, _ := cv.Project(geometry.Point{X: nz.Frame.LE[0], Y: nz.Frame.LE[1]})
 	type gap struct {
 		i, j      int
@@ -114,4 +102,47 @@ func Gaps(c *geometry.Contour, rep *curve.FitReport, cv *curve.Curve, nz *frame.
 			g.turn, origin(g.i), origin(g.j), g.len, c.Units, g.len/chord, g.at))
 	}
 	return out
+}
+
+// turnBetween returns the turn of cv's tangent, in degrees, from arc
+// length a to b (b may pass the length of a closed curve), summed over
+// short steps.
+func turnBetween(cv *curve.Curve, a, b float64) float64 {
+	L := cv.Length()
+	at := func(s float64) float64 {
+		if cv.Closed() {
+			return math.Mod(s, L)
+		}
+		return s
+	}
+	const steps = 16
+	var total float64
+	prev := cv.Tangent(at(a))
+	for k := 1; k <= steps; k++ {
+		t := cv.Tangent(at(a + (b-a)*float64(k)/steps))
+		total += math.Atan2(prev.Cross(t), prev.Dot(t))
+		prev = t
+	}
+	return math.Abs(total) * 180 / math.Pi
+}
+
+// sparseNose reports whether the points either side of the leading edge
+// (arc lengths rep.S on cv) are more than gapMin chords apart with the
+// outline turning more than gapTurnDeg between them: the nose Gaps warns
+// of, where the leading edge rests on the curve's guess.
+func sparseNose(rep *curve.FitReport, cv *curve.Curve, nz *frame.Normalized) bool {
+	if len(rep.S) < 2 {
+		return false
+	}
+	L := cv.Length()
+	s := append([]float64(nil), rep.S...)
+	sort.Float64s(s)
+	sLE, _ := cv.Project(geometry.Point{X: nz.Frame.LE[0], Y: nz.Frame.LE[1]})
+	a, b := s[len(s)-1], s[0]+L // the pair across the start of a closed curve
+	if k := sort.SearchFloat64s(s, sLE); k > 0 && k < len(s) {
+		a, b = s[k-1], s[k]
+	} else if !cv.Closed() {
+		return false
+	}
+	return b-a > gapMin*nz.Frame.Chord && turnBetween(cv, a, b) > gapTurnDeg
 }

@@ -47,6 +47,11 @@ type Edge struct {
 	// corner beyond a base through the last points, say. 0 when the
 	// points decide.
 	Spread float64
+	// SpreadAcross is how far across the chord (input units) the trailing
+	// edge of another model the points cannot tell from this one lies:
+	// the chord line, and with it the twist, turns by that much over the
+	// chord. 0 when the points decide.
+	SpreadAcross float64
 }
 
 // edgePlausible is the score difference (−2 ln of a likelihood ratio of
@@ -90,8 +95,9 @@ type endModel struct {
 	centre         geometry.Point
 	r              float64
 	tl, tu         geometry.Point
-	// spread: see Edge.Spread (chord units), set on the winner.
-	spread float64
+	// spread, spreadY: see Edge.Spread and Edge.SpreadAcross (chord
+	// units), set on the winner.
+	spread, spreadY float64
 	// tipLo, tipHi: the range of the trailing edge's station over the
 	// positions of this kind of end (the bases or arcs tried) that score
 	// within edgePlausible of this one, when tips says they were measured.
@@ -122,6 +128,18 @@ func (m *endModel) tipX() float64 {
 		return (m.lo.X + m.hi.X) / 2
 	}
 	return m.centre.X + m.r
+}
+
+// tipY returns the height of the model's trailing-edge point across the
+// coarse chord line: the corner, the base's midpoint, the arc's tip.
+func (m *endModel) tipY() float64 {
+	switch m.kind {
+	case EdgeSharp:
+		return m.corner.Y
+	case EdgeBlunt:
+		return (m.lo.Y + m.hi.Y) / 2
+	}
+	return m.centre.Y
 }
 
 // surfaceMiss returns the distance of p from the surface q up to xEnd:
@@ -676,6 +694,7 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, pstep, scat float64
 		if m.score <= best.score+edgePlausible {
 			bx := best.tipX()
 			best.spread = max(best.spread, math.Abs(m.tipX()-bx))
+			best.spreadY = max(best.spreadY, math.Abs(m.tipY()-best.tipY()))
 			if m.tips {
 				// The positions of its kind the points leave open.
 				best.spread = max(best.spread, math.Abs(m.tipLo-bx), math.Abs(m.tipHi-bx))
@@ -969,7 +988,7 @@ func (m endModel) apply(pts []geometry.Point, seq []int32, f chordFrame, u, l qu
 	for _, p := range end {
 		out = append(out, seq[zpos[p.k]])
 	}
-	e := Edge{Kind: m.kind, Chord: f.chord, Spread: m.spread * f.chord}
+	e := Edge{Kind: m.kind, Chord: f.chord, Spread: m.spread * f.chord, SpreadAcross: m.spreadY * f.chord}
 	switch m.kind {
 	case EdgeSharp:
 		e.Why = "the surfaces, fitted near the edge, meet in a corner"

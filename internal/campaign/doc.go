@@ -24,7 +24,11 @@
 //     stated uncertainty (the document's "uncertainty" key, missing = 0);
 //   - trailing-edge kind: sharp, blunt or rounded as the truth, with a
 //     base or rounding smaller than four times the scatter of the points
-//     allowed to read as sharp; "open" is never right;
+//     allowed to read as sharp; "open" is never right; the rate is over
+//     the cases whose points decide the kind, and those they cannot at
+//     their sampling (teUndecidable: a rounded end with fewer than three
+//     points on its arc, a blunt base with none on it whose surfaces
+//     would meet within a spacing of their last points) are counted apart;
 //   - good points dropped (any drop but a duplicate merge, lines of
 //     duplicate pairs left out) and planted outliers caught;
 //   - stated uncertainty covering the true error, per figure;

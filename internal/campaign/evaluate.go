@@ -34,6 +34,11 @@ type Record struct {
 	NodeErr  float64 // largest distance of a node from the true shape, chord units
 	TEGot    string
 	TERight  bool
+	// TEUndecidable is true when the good points cannot tell the true
+	// trailing-edge kind from another at their sampling (teUndecidable);
+	// TEEndPoints counts the good points on the true base or rounded end.
+	TEUndecidable bool
+	TEEndPoints   int
 	// Good counts good lines that are not part of a duplicate pair;
 	// GoodDropped those the section lists as dropped for a reason other
 	// than being a duplicate. Planted counts planted outliers, Caught those
@@ -71,6 +76,7 @@ func evaluate(r *Record, tr *scangen.Truth, sec *section) {
 	}
 	r.TEGot = sec.TrailingEdge.Kind
 	r.TERight = teRight(tr, r.TEGot)
+	r.TEUndecidable, r.TEEndPoints = teUndecidable(tr)
 	countDropped(r, tr, sec)
 
 	u := sec.Uncertainty

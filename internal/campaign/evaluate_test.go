@@ -251,3 +251,59 @@ func TestToPart(t *testing.T) {
 		t.Errorf("bad le uncertainty: %v", err)
 	}
 }
+
+// A trailing edge is undecidable at its sampling as teUndecidable's
+// documentation says: a rounded end with fewer than three points on its
+// arc; a blunt base with no point on it whose surfaces would meet within a
+// spacing of their last points (NACA 0012 with its open edge, NACA Report
+// 824: a base 0.25 % chord thick, surfaces meeting about 0.009 c behind
+// it); never a sharp edge.
+func TestTEUndecidable(t *testing.T) {
+	build := func(s scangen.ShapeSpec) *scangen.Section {
+		sec, err := s.Build()
+		if err != nil {
+			t.Fatal(err)
+		}
+		return sec
+	}
+	open := build(scangen.ShapeSpec{Family: scangen.FamilyNACA, NACA: &scangen.NACASpec{Thickness: 0.12}})
+	closed := build(scangen.ShapeSpec{Family: scangen.FamilyNACA, NACA: &scangen.NACASpec{Thickness: 0.12, ClosedTE: true}})
+	rounded := build(scangen.ShapeSpec{Family: scangen.FamilyNACA, NACA: &scangen.NACASpec{Thickness: 0.12, ClosedTE: true}, RoundRadius: 0.01})
+	// lines puts good points at arc lengths s from each end corner along
+	// both surfaces, and at loop parameters ends on the end piece.
+	lines := func(sec *scangen.Section, s []float64, ends ...float64) []scangen.Line {
+		sh := sec.Shape
+		sLo := sh.ArcAt(2)
+		var ls []scangen.Line
+		for _, d := range s {
+			ls = append(ls, scangen.Line{Kind: scangen.LineGood, T: sh.ParamAt(d)}, scangen.Line{Kind: scangen.LineGood, T: sh.ParamAt(sLo - d)})
+		}
+		for _, e := range ends {
+			ls = append(ls, scangen.Line{Kind: scangen.LineGood, T: e})
+		}
+		// An outlier on the end does not count as a point of it.
+		return append(ls, scangen.Line{Kind: scangen.LineOutlier, T: 2.5})
+	}
+	sparse, dense := []float64{0.001, 0.04, 0.08, 0.12}, []float64{0.001, 0.003, 0.005, 0.007, 0.009, 0.011, 0.013}
+	for _, tc := range []struct {
+		name  string
+		sec   *scangen.Section
+		lines []scangen.Line
+		want  bool
+		onEnd int
+	}{
+		{"blunt, no base point, sparse", open, lines(open, sparse), true, 0},
+		{"blunt, no base point, dense", open, lines(open, dense), false, 0},
+		{"blunt, a base point, sparse", open, lines(open, sparse, 2.5), false, 1},
+		{"sharp, sparse", closed, lines(closed, sparse), false, 0},
+		{"rounded, one point on the arc", rounded, lines(rounded, dense, 2.5), true, 1},
+		{"rounded, two points on the arc", rounded, lines(rounded, dense, 2.3, 2.7), true, 2},
+		{"rounded, three points on the arc", rounded, lines(rounded, sparse, 2.2, 2.5, 2.8), false, 3},
+	} {
+		tr := &scangen.Truth{Section: tc.sec, TEKind: tc.sec.TEKind, Lines: tc.lines}
+		got, onEnd := teUndecidable(tr)
+		if got != tc.want || onEnd != tc.onEnd {
+			t.Errorf("%s: undecidable %v with %d points on the end, want %v with %d", tc.name, got, onEnd, tc.want, tc.onEnd)
+		}
+	}
+}

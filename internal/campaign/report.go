@@ -266,6 +266,9 @@ func WriteFailures(w io.Writer, recs []Record, top int) {
 		if !r.OK || r.TERight {
 			return ""
 		}
+		if r.TEUndecidable {
+			return r.Truth.TEKind + " → " + r.TEGot + " (undecidable at this sampling)"
+		}
 		return r.Truth.TEKind + " → " + r.TEGot
 	}))
 }
