@@ -245,7 +245,18 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 	if useEdge {
 		widenForEdge(&p.Uncertainty, cl.Clean.Edge)
 	}
+	var edgeWarning string
+	if c := p.Shape.Frame.Chord; p.Uncertainty.Chord > wideChord*c {
+		// The replicas' share of the chord's bound is the noise's, a few
+		// hundredths of it; a bound this wide comes from the ends the
+		// points leave open at the trailing edge, and the user should
+		// know what would close them.
+		edgeWarning = fmt.Sprintf("the chord is known to ± %s (%.2g %% of it): the points leave open where the section ends aft (surfaces that may run on unseen beyond the last points to a base or a corner, or ends the points fit alike); points measured at and on the trailing edge narrow it", LengthText(p.Uncertainty.Chord, cl.Units), 100*p.Uncertainty.Chord/c)
+	}
 	p.Section = p.document(name, cl, nodes, le, rp.Spacing)
+	if edgeWarning != "" {
+		p.Section.Warnings = append(p.Section.Warnings, edgeWarning)
+	}
 	p.Section.Warnings = append(p.Section.Warnings, accuracy.Gaps(p.Contour, p.Fit, p.Curve, p.Shape)...)
 	p.Section.Panels.Deviation = dev
 	if rp.Panels == 0 {
@@ -294,6 +305,11 @@ func (p *Preparation) fit(cl *Cleaned, s Settings, useEdge bool) error {
 	p.Curve, p.Fit = cv, rep
 	return nil
 }
+
+// wideChord is the share of the chord beyond which the chord's bound is
+// warned of: our choice, five times the chord error the robustness
+// campaign holds well-sampled scans to (0.1 %).
+const wideChord = 0.005
 
 // widenForEdge widens the chord's bound to the spread of the trailing
 // edges that the points cannot tell apart (clean.Edge.Spread): the end of
