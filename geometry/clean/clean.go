@@ -1,8 +1,10 @@
 package clean
 
 import (
+	"cmp"
 	"fmt"
 	"math"
+	"math/bits"
 	"runtime"
 	"slices"
 	"sync"
@@ -719,15 +721,84 @@ func fastDist(p, q geometry.Point) float64 {
 	return math.Sqrt(dx*dx + dy*dy)
 }
 
-// median returns the median of xs, reordering xs.
+// median returns the median of xs, reordering xs. It selects rather than
+// sorts: the value is the one a full sort would give (NaN ordered first,
+// as slices.Sort orders it), at linear expected cost.
 func median(xs []float64) float64 {
-	if len(xs) == 0 {
+	n := len(xs)
+	if n == 0 {
 		return 0
 	}
-	slices.Sort(xs)
-	n := len(xs)
+	if n <= 32 {
+		for i := 1; i < n; i++ {
+			for j := i; j > 0 && cmp.Less(xs[j], xs[j-1]); j-- {
+				xs[j], xs[j-1] = xs[j-1], xs[j]
+			}
+		}
+	} else {
+		selectNth(xs, n/2)
+		if n%2 == 0 {
+			// The lower middle is the largest of the half below.
+			lo := xs[0]
+			for _, x := range xs[1 : n/2] {
+				if cmp.Less(lo, x) {
+					lo = x
+				}
+			}
+			xs[n/2-1] = lo
+		}
+	}
 	if n%2 == 1 {
 		return xs[n/2]
 	}
 	return (xs[n/2-1] + xs[n/2]) / 2
+}
+
+// selectNth reorders xs so that xs[k] holds the value a sort would put
+// there, none before it greater and none after it smaller (Hoare's
+// selection with a median-of-three pivot; a full sort of what is left when
+// the partitions keep coming out lopsided).
+func selectNth(xs []float64, k int) {
+	lo, hi := 0, len(xs)-1
+	budget := 2 * bits.Len(uint(len(xs)))
+	for hi > lo {
+		if budget == 0 {
+			slices.SortFunc(xs[lo:hi+1], cmp.Compare[float64])
+			return
+		}
+		budget--
+		mid := lo + (hi-lo)/2
+		if cmp.Less(xs[mid], xs[lo]) {
+			xs[mid], xs[lo] = xs[lo], xs[mid]
+		}
+		if cmp.Less(xs[hi], xs[lo]) {
+			xs[hi], xs[lo] = xs[lo], xs[hi]
+		}
+		if cmp.Less(xs[hi], xs[mid]) {
+			xs[hi], xs[mid] = xs[mid], xs[hi]
+		}
+		pivot := xs[mid]
+		i, j := lo, hi
+		for i <= j {
+			for cmp.Less(xs[i], pivot) {
+				i++
+			}
+			for cmp.Less(pivot, xs[j]) {
+				j--
+			}
+			if i <= j {
+				xs[i], xs[j] = xs[j], xs[i]
+				i++
+				j--
+			}
+		}
+		switch {
+		case k <= j:
+			hi = j
+		case k >= i:
+			lo = i
+		default:
+			return
+		}
+	}
 }
