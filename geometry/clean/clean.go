@@ -730,10 +730,24 @@ func median(xs []float64) float64 {
 		return 0
 	}
 	if n <= 32 {
+		// Insertion sort; with no NaN among them, cmp.Less is <.
+		plain := true
+		for _, x := range xs {
+			plain = plain && x == x
+		}
 		for i := 1; i < n; i++ {
-			for j := i; j > 0 && cmp.Less(xs[j], xs[j-1]); j-- {
-				xs[j], xs[j-1] = xs[j-1], xs[j]
+			x := xs[i]
+			j := i
+			if plain {
+				for ; j > 0 && x < xs[j-1]; j-- {
+					xs[j] = xs[j-1]
+				}
+			} else {
+				for ; j > 0 && cmp.Less(x, xs[j-1]); j-- {
+					xs[j] = xs[j-1]
+				}
 			}
+			xs[j] = x
 		}
 	} else {
 		selectNth(xs, n/2)

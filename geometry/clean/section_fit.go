@@ -266,7 +266,7 @@ func (sc *sectionCoords) byFeet(pts []geometry.Point, seq []int32, feet []geomet
 		return u
 	}
 	out := slices.Clone(seq)
-	keys := make(map[int32]float64, len(out))
+	keys := make([]float64, len(pts)) // by point index
 	for _, i := range out {
 		keys[i] = key(i)
 	}
