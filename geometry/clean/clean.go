@@ -602,8 +602,68 @@ func parallel(n int, f func(lo, hi int)) {
 type grid struct {
 	h      float64
 	x0, y0 float64
-	idx    []int32           // point indices sorted by cell
-	cells  map[uint64]uint64 // cell key → start<<32 | count
+	idx    []int32 // point indices sorted by cell
+	cells  cellTable
+}
+
+// cellTable maps a grid's cell keys to start<<32 | count in idx: open
+// addressing with linear probing in a power-of-two table, the empty slot
+// marked by noCell (the key of cell (−1, −1), which no point has). It
+// answers as a Go map would, without the map's hashing and groups: the
+// grid's look-ups are the inner loop of the neighbour searches.
+type cellTable struct {
+	keys, vals []uint64
+	shift      uint
+	count      int
+}
+
+const noCell = ^uint64(0)
+
+func newCellTable(n int) cellTable {
+	size, shift := 8, uint(61)
+	for size < 2*n {
+		size *= 2
+		shift--
+	}
+	keys := make([]uint64, size)
+	for i := range keys {
+		keys[i] = noCell
+	}
+	return cellTable{keys: keys, vals: make([]uint64, size), shift: shift}
+}
+
+func (t *cellTable) slot(k uint64) uint64 {
+	return (k * 0x9e3779b97f4a7c15) >> t.shift
+}
+
+func (t *cellTable) put(k, v uint64) {
+	mask := uint64(len(t.keys) - 1)
+	for i := t.slot(k); ; i = (i + 1) & mask {
+		if t.keys[i] == noCell {
+			t.keys[i], t.vals[i] = k, v
+			t.count++
+			return
+		}
+		if t.keys[i] == k {
+			t.vals[i] = v
+			return
+		}
+	}
+}
+
+func (t *cellTable) get(k uint64) (uint64, bool) {
+	if k == noCell {
+		return 0, false
+	}
+	mask := uint64(len(t.keys) - 1)
+	for i := t.slot(k); ; i = (i + 1) & mask {
+		switch t.keys[i] {
+		case k:
+			return t.vals[i], true
+		case noCell:
+			return 0, false
+		}
+	}
 }
 
 // newGrid hashes the points sel of pts (all of pts when sel is nil)
@@ -637,12 +697,18 @@ func newGrid(pts []geometry.Point, sel []int32, h float64, lo, hi geometry.Point
 		return int(a.i - b.i)
 	})
 	g.idx = make([]int32, len(kvs))
-	g.cells = make(map[uint64]uint64, len(kvs)/2+1)
+	cells := 0
+	for j := range kvs {
+		if j+1 == len(kvs) || kvs[j+1].k != kvs[j].k {
+			cells++
+		}
+	}
+	g.cells = newCellTable(cells)
 	start := 0
 	for j := range kvs {
 		g.idx[j] = kvs[j].i
 		if j+1 == len(kvs) || kvs[j+1].k != kvs[j].k {
-			g.cells[kvs[j].k] = uint64(start)<<32 | uint64(j+1-start)
+			g.cells.put(kvs[j].k, uint64(start)<<32|uint64(j+1-start))
 			start = j + 1
 		}
 	}
@@ -662,7 +728,7 @@ func (g *grid) key(ix, iy int64) uint64 {
 
 // at returns the point indices in cell (ix, iy).
 func (g *grid) at(ix, iy int64) []int32 {
-	v, ok := g.cells[g.key(ix, iy)]
+	v, ok := g.cells.get(g.key(ix, iy))
 	if !ok {
 		return nil
 	}
