@@ -31,21 +31,25 @@ const (
 // loop seq, which the generic outlier test spares for the edge's models
 // (findEdge): the edge is found on the loop without the points a first
 // generic pass calls outliers, since one near the edge could pass for its
-// end. It returns nil when no edge is found.
-func (cl *cleaning) spared(seq []int32, sigma float64, lf localFits) []bool {
+// end. It returns nil when no edge is found; and, in any case, the
+// residuals of seq that pass started from (lf without spared points),
+// which the outlier test of seq reuses wherever no spared point is in reach.
+func (cl *cleaning) spared(seq []int32, sigma float64, lf localFits) ([]bool, []float64) {
 	pts := cl.pts
-	_, _, _, first := dropOutliers(pts, seq, sigma, true, lf, nil)
+	r0 := make([]float64, len(seq))
+	lf.residualsAt(pts, seq, nil, r0)
+	_, _, _, first := dropOutliersFrom(pts, seq, sigma, true, lf, nil, slices.Clone(r0))
 	out := make(map[int32]bool, len(first))
 	for _, h := range first {
 		out[h.idx] = true
 	}
 	reduced := slices.DeleteFunc(slices.Clone(seq), func(i int32) bool { return out[i] })
 	if len(reduced) < minPoints {
-		return nil
+		return nil, r0
 	}
 	ef, ok := findEdge(pts, orient(pts, reduced), 0)
 	if !ok {
-		return nil
+		return nil, r0
 	}
 	// The end zone, where the end models judge: within edgeZone of the
 	// chord of the aftmost point, and near the edge (a point beside it,
@@ -59,7 +63,7 @@ func (cl *cleaning) spared(seq []int32, sigma float64, lf localFits) []bool {
 		x, _ := ef.frame.at(pts[i])
 		exempt[i] = x >= 1-edgeZone && pts[i].Dist(te) <= r
 	}
-	return exempt
+	return exempt, r0
 }
 
 // edgeSpare is the radius, in end zones (edgeZone of the chord), about
@@ -499,13 +503,23 @@ func (cl *cleaning) evaluate(strategy string, loops, rest [][]int32, opts Option
 	// the loop without the points a first pass calls outliers (one near the
 	// edge could pass for its end), it spares every point near the edge.
 	var exempt []bool
+	var r0 []float64
 	if spare {
-		exempt = cl.spared(seq, sigma, lf)
-		if lf.sc != nil {
+		var prior []float64
+		exempt, prior = cl.spared(seq, sigma, lf)
+		if lf.sc != nil && exempt != nil {
 			lf.sc.spared = exempt
+			// A section order's fits leave the spared points out: only
+			// the residuals with one in their window change.
+			prior = respared(pts, seq, exempt, prior, lf)
 		}
+		r0 = prior
 	}
-	seq, scale, raw, outs := dropOutliers(pts, seq, sigma, opts.KeepOutliers, lf, exempt)
+	if r0 == nil {
+		r0 = make([]float64, len(seq))
+		lf.residualsAt(pts, seq, nil, r0)
+	}
+	seq, scale, raw, outs := dropOutliersFrom(pts, seq, sigma, opts.KeepOutliers, lf, exempt, r0)
 	seq, extra := placeRest(pts, seq, rest, cl.nb, sigma*scale, scale, opts.KeepOutliers)
 	a.seq, a.scale, a.raw, a.hits = seq, scale, raw, append(outs, extra...)
 	kept := len(a.seq)

@@ -1,8 +1,10 @@
 package clean
 
 import (
+	"cmp"
 	"fmt"
 	"math"
+	"math/bits"
 	"runtime"
 	"slices"
 	"sync"
@@ -600,8 +602,68 @@ func parallel(n int, f func(lo, hi int)) {
 type grid struct {
 	h      float64
 	x0, y0 float64
-	idx    []int32           // point indices sorted by cell
-	cells  map[uint64]uint64 // cell key → start<<32 | count
+	idx    []int32 // point indices sorted by cell
+	cells  cellTable
+}
+
+// cellTable maps a grid's cell keys to start<<32 | count in idx: open
+// addressing with linear probing in a power-of-two table, the empty slot
+// marked by noCell (the key of cell (−1, −1), which no point has). It
+// answers as a Go map would, without the map's hashing and groups: the
+// grid's look-ups are the inner loop of the neighbour searches.
+type cellTable struct {
+	keys, vals []uint64
+	shift      uint
+	count      int
+}
+
+const noCell = ^uint64(0)
+
+func newCellTable(n int) cellTable {
+	size, shift := 8, uint(61)
+	for size < 2*n {
+		size *= 2
+		shift--
+	}
+	keys := make([]uint64, size)
+	for i := range keys {
+		keys[i] = noCell
+	}
+	return cellTable{keys: keys, vals: make([]uint64, size), shift: shift}
+}
+
+func (t *cellTable) slot(k uint64) uint64 {
+	return (k * 0x9e3779b97f4a7c15) >> t.shift
+}
+
+func (t *cellTable) put(k, v uint64) {
+	mask := uint64(len(t.keys) - 1)
+	for i := t.slot(k); ; i = (i + 1) & mask {
+		if t.keys[i] == noCell {
+			t.keys[i], t.vals[i] = k, v
+			t.count++
+			return
+		}
+		if t.keys[i] == k {
+			t.vals[i] = v
+			return
+		}
+	}
+}
+
+func (t *cellTable) get(k uint64) (uint64, bool) {
+	if k == noCell {
+		return 0, false
+	}
+	mask := uint64(len(t.keys) - 1)
+	for i := t.slot(k); ; i = (i + 1) & mask {
+		switch t.keys[i] {
+		case k:
+			return t.vals[i], true
+		case noCell:
+			return 0, false
+		}
+	}
 }
 
 // newGrid hashes the points sel of pts (all of pts when sel is nil)
@@ -635,12 +697,18 @@ func newGrid(pts []geometry.Point, sel []int32, h float64, lo, hi geometry.Point
 		return int(a.i - b.i)
 	})
 	g.idx = make([]int32, len(kvs))
-	g.cells = make(map[uint64]uint64, len(kvs)/2+1)
+	cells := 0
+	for j := range kvs {
+		if j+1 == len(kvs) || kvs[j+1].k != kvs[j].k {
+			cells++
+		}
+	}
+	g.cells = newCellTable(cells)
 	start := 0
 	for j := range kvs {
 		g.idx[j] = kvs[j].i
 		if j+1 == len(kvs) || kvs[j+1].k != kvs[j].k {
-			g.cells[kvs[j].k] = uint64(start)<<32 | uint64(j+1-start)
+			g.cells.put(kvs[j].k, uint64(start)<<32|uint64(j+1-start))
 			start = j + 1
 		}
 	}
@@ -660,7 +728,7 @@ func (g *grid) key(ix, iy int64) uint64 {
 
 // at returns the point indices in cell (ix, iy).
 func (g *grid) at(ix, iy int64) []int32 {
-	v, ok := g.cells[g.key(ix, iy)]
+	v, ok := g.cells.get(g.key(ix, iy))
 	if !ok {
 		return nil
 	}
@@ -719,15 +787,98 @@ func fastDist(p, q geometry.Point) float64 {
 	return math.Sqrt(dx*dx + dy*dy)
 }
 
-// median returns the median of xs, reordering xs.
+// median returns the median of xs, reordering xs. It selects rather than
+// sorts: the value is the one a full sort would give (NaN ordered first,
+// as slices.Sort orders it), at linear expected cost.
 func median(xs []float64) float64 {
-	if len(xs) == 0 {
+	n := len(xs)
+	if n == 0 {
 		return 0
 	}
-	slices.Sort(xs)
-	n := len(xs)
+	if n <= 32 {
+		// Insertion sort; with no NaN among them, cmp.Less is <.
+		plain := true
+		for _, x := range xs {
+			plain = plain && x == x
+		}
+		for i := 1; i < n; i++ {
+			x := xs[i]
+			j := i
+			if plain {
+				for ; j > 0 && x < xs[j-1]; j-- {
+					xs[j] = xs[j-1]
+				}
+			} else {
+				for ; j > 0 && cmp.Less(x, xs[j-1]); j-- {
+					xs[j] = xs[j-1]
+				}
+			}
+			xs[j] = x
+		}
+	} else {
+		selectNth(xs, n/2)
+		if n%2 == 0 {
+			// The lower middle is the largest of the half below.
+			lo := xs[0]
+			for _, x := range xs[1 : n/2] {
+				if cmp.Less(lo, x) {
+					lo = x
+				}
+			}
+			xs[n/2-1] = lo
+		}
+	}
 	if n%2 == 1 {
 		return xs[n/2]
 	}
 	return (xs[n/2-1] + xs[n/2]) / 2
+}
+
+// selectNth reorders xs so that xs[k] holds the value a sort would put
+// there, none before it greater and none after it smaller (Hoare's
+// selection with a median-of-three pivot; a full sort of what is left when
+// the partitions keep coming out lopsided).
+func selectNth(xs []float64, k int) {
+	lo, hi := 0, len(xs)-1
+	budget := 2 * bits.Len(uint(len(xs)))
+	for hi > lo {
+		if budget == 0 {
+			slices.SortFunc(xs[lo:hi+1], cmp.Compare[float64])
+			return
+		}
+		budget--
+		mid := lo + (hi-lo)/2
+		if cmp.Less(xs[mid], xs[lo]) {
+			xs[mid], xs[lo] = xs[lo], xs[mid]
+		}
+		if cmp.Less(xs[hi], xs[lo]) {
+			xs[hi], xs[lo] = xs[lo], xs[hi]
+		}
+		if cmp.Less(xs[hi], xs[mid]) {
+			xs[hi], xs[mid] = xs[mid], xs[hi]
+		}
+		pivot := xs[mid]
+		i, j := lo, hi
+		for i <= j {
+			for cmp.Less(xs[i], pivot) {
+				i++
+			}
+			for cmp.Less(pivot, xs[j]) {
+				j--
+			}
+			if i <= j {
+				xs[i], xs[j] = xs[j], xs[i]
+				i++
+				j--
+			}
+		}
+		switch {
+		case k <= j:
+			hi = j
+		case k >= i:
+			lo = i
+		default:
+			return
+		}
+	}
 }

@@ -223,7 +223,7 @@ func join(pts []geometry.Point, nb *nbrs, g *graph) {
 		}
 		return 1 + (1-u.Dot(step))/2
 	}
-	var cs []cand
+	cs := make([]cand, 0, len(near)) // at most m per end: no regrowth
 	for j, e := range ends {
 		for _, f := range near[j*m : (j+1)*m] {
 			if f < 0 {

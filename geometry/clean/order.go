@@ -66,7 +66,7 @@ func knn(pts []geometry.Point, sel []int32, k int, lo, hi geometry.Point) []int3
 	var g *grid
 	for range 4 {
 		g = newGrid(pts, sel, cell, lo, hi)
-		occ := float64(n) / float64(len(g.cells))
+		occ := float64(n) / float64(g.cells.count)
 		if occ >= occupancy/2 && occ <= 2*occupancy {
 			break
 		}

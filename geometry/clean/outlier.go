@@ -349,9 +349,18 @@ func dropOutliers(pts []geometry.Point, seq []int32, sigma float64, keep bool, l
 	if len(seq) < minPoints {
 		return seq, 0, 0, nil
 	}
-	band := lf.band
 	r := make([]float64, len(seq))
 	lf.residualsAt(pts, seq, nil, r)
+	return dropOutliersFrom(pts, seq, sigma, keep, lf, exempt, r)
+}
+
+// dropOutliersFrom is dropOutliers given the residuals r of every position
+// of seq under lf (which it overwrites).
+func dropOutliersFrom(pts []geometry.Point, seq []int32, sigma float64, keep bool, lf localFits, exempt []bool, r []float64) ([]int32, float64, float64, []hit) {
+	if len(seq) < minPoints {
+		return seq, 0, 0, nil
+	}
+	band := lf.band
 	scale, raw := robustScale(pts, seq, r)
 	loc := localScales(pts, seq, r)
 	// The sagitta bound needs neighbours in their true order: point to
@@ -430,6 +439,36 @@ func dropOutliers(pts []geometry.Point, seq []int32, sigma float64, keep bool, l
 		return seq, scale, raw, hits
 	}
 	return work, scale, raw, hits
+}
+
+// respared updates the residuals r of the loop seq, found by the section
+// fits of lf with no point spared, for the spared points exempt now set in
+// lf.sc: it recomputes those of the positions within sectionWindow of a
+// spared point (the only fits that change: a fit walks at most
+// sectionWindow positions each way) and returns r.
+func respared(pts []geometry.Point, seq []int32, exempt []bool, r []float64, lf localFits) []float64 {
+	n := len(seq)
+	if 2*sectionWindow+1 >= n {
+		lf.residualsAt(pts, seq, nil, r)
+		return r
+	}
+	mark := make([]bool, n)
+	var at []int
+	for k, p := range seq {
+		if !exempt[p] {
+			continue
+		}
+		for d := -sectionWindow; d <= sectionWindow; d++ {
+			if q := ((k+d)%n + n) % n; !mark[q] {
+				mark[q] = true
+				at = append(at, q)
+			}
+		}
+	}
+	if len(at) > 0 {
+		lf.residualsAt(pts, seq, at, r)
+	}
+	return r
 }
 
 // placeRest deals with the points of rest, which joined no loop. A point

@@ -424,6 +424,13 @@ func tailSides(xs, ys []float64, upper []bool) {
 // biweight (two rounds after a plain fit), so that a few points of the
 // other surface or outliers do not pull it; x0 centres x.
 func robustQuad(xs, ys []float64, idx []int, x0 float64) quadFit {
+	// The points of idx alone, in their order (the sums run as over idx):
+	// the weights then take len(idx), not one per point of the cloud.
+	lx, ly, li := make([]float64, len(idx)), make([]float64, len(idx)), make([]int, len(idx))
+	for k, i := range idx {
+		lx[k], ly[k], li[k] = xs[i], ys[i], k
+	}
+	xs, ys, idx = lx, ly, li
 	q := fitQuad(xs, ys, nil, idx, x0)
 	if !q.ok {
 		return q

@@ -167,54 +167,64 @@ func (sc *sectionCoords) feet(pts []geometry.Point, seq []int32) ([]geometry.Poi
 // robustParabola fits v = c0 + c1 t + c2 t² to the pairs (ts, vs), t
 // relative to the point of interest at 0, by least squares and then twice
 // more with Tukey's biweight (c = 4.685 robust sigmas), and returns the
-// value and the slope at t = 0.
+// value and the slope at t = 0. It takes at most 2·sectionWindow pairs and
+// allocates nothing: it runs once per point and outlier round.
 func robustParabola(ts, vs []float64) (float64, float64) {
 	var scale float64
 	for _, t := range ts {
 		scale = max(scale, math.Abs(t))
 	}
+	var buf [2 * sectionWindow]float64
 	if scale == 0 {
-		return median(slices.Clone(vs)), 0
+		return median(append(buf[:0], vs...)), 0
 	}
-	w := make([]float64, len(ts))
-	for i := range w {
-		w[i] = 1
+	var us, ws [2 * sectionWindow]float64
+	n := len(ts)
+	for i, t := range ts {
+		us[i], ws[i] = t/scale, 1
 	}
+	// The normal equations of the weighted fit in the basis (1, u, u²),
+	// each sum formed as w·x[r]·x[c] in that order (the products with 1
+	// are exact), so the system is the one of the plain triple loop.
 	fit := func() ([3]float64, bool) {
-		var a [3][3]float64
-		var b [3]float64
-		for i, t := range ts {
-			u := t / scale
-			x := [3]float64{1, u, u * u}
-			for r := range 3 {
-				b[r] += w[i] * x[r] * vs[i]
-				for c := range 3 {
-					a[r][c] += w[i] * x[r] * x[c]
-				}
-			}
+		var a00, a01, a02, a11, a12, a21, a22, b0, b1, b2 float64
+		for i := range n {
+			w, u, v := ws[i], us[i], vs[i]
+			u2 := u * u
+			wu, wu2 := w*u, w*u2
+			a00 += w
+			a01 += wu
+			a02 += wu2
+			a11 += wu * u
+			a12 += wu * u2
+			a21 += wu2 * u
+			a22 += wu2 * u2
+			b0 += w * v
+			b1 += wu * v
+			b2 += wu2 * v
 		}
-		return solve3(a, b)
+		return solve3([3][3]float64{{a00, a01, a02}, {a01, a11, a12}, {a02, a21, a22}}, [3]float64{b0, b1, b2})
 	}
 	c, ok := fit()
 	if !ok {
-		return median(slices.Clone(vs)), 0
+		return median(append(buf[:0], vs...)), 0
 	}
-	res := make([]float64, len(ts))
+	var res [2 * sectionWindow]float64
 	for range 3 {
-		for i, t := range ts {
-			u := t / scale
+		for i := range n {
+			u := us[i]
 			res[i] = math.Abs(vs[i] - (c[0] + c[1]*u + c[2]*u*u))
 		}
-		s := 1.4826 * median(slices.Clone(res))
+		s := 1.4826 * median(append(buf[:0], res[:n]...))
 		if s == 0 {
 			break
 		}
-		for i := range w {
+		for i := range n {
 			z := res[i] / (4.685 * s)
 			if z >= 1 {
-				w[i] = 0
+				ws[i] = 0
 			} else {
-				w[i] = (1 - z*z) * (1 - z*z)
+				ws[i] = (1 - z*z) * (1 - z*z)
 			}
 		}
 		c2, ok := fit()
@@ -256,7 +266,7 @@ func (sc *sectionCoords) byFeet(pts []geometry.Point, seq []int32, feet []geomet
 		return u
 	}
 	out := slices.Clone(seq)
-	keys := make(map[int32]float64, len(out))
+	keys := make([]float64, len(pts)) // by point index
 	for _, i := range out {
 		keys[i] = key(i)
 	}
