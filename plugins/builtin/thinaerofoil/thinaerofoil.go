@@ -157,10 +157,26 @@ func CamberFromNodes(nodes []geometry.Point) (xs, ycs []float64, err error) {
 	}
 	lower := nodes[le:]
 	surfaces := [][]geometry.Point{upper, lower}
+	x0 := nodes[le].X
 	for k, s := range surfaces {
 		if len(s) < 2 {
 			return nil, nil, fmt.Errorf("thinaerofoil: %w: a surface has %d node(s)", ErrTooFewSamples, len(s))
 		}
+		// Round the nose the panels of a dense section may step back in x
+		// for a node or two (the least-x node is not where the curve turns
+		// to within rounding, or the fit's nose wobbles by less than a
+		// node spacing): the mean line needs none of them, so a node
+		// that does not advance there is left out.
+		kept := make([]geometry.Point, 1, len(s))
+		kept[0] = s[0]
+		for _, p := range s[1:] {
+			if !(p.X > kept[len(kept)-1].X) && kept[len(kept)-1].X-x0 < taNoseTo {
+				continue
+			}
+			kept = append(kept, p)
+		}
+		s = kept
+		surfaces[k] = s
 		for i := 1; i < len(s); i++ {
 			if !(s[i].X > s[i-1].X) {
 				// A rounded or hooked trailing edge doubles back in its last
@@ -175,7 +191,6 @@ func CamberFromNodes(nodes []geometry.Point) (xs, ycs []float64, err error) {
 		}
 	}
 	upper, lower = surfaces[0], surfaces[1]
-	x0 := nodes[le].X
 	x1 := math.Min(upper[len(upper)-1].X, lower[len(lower)-1].X)
 	m := max(len(upper), len(lower))
 	xs, ycs = make([]float64, m), make([]float64, m)
@@ -189,6 +204,11 @@ func CamberFromNodes(nodes []geometry.Point) (xs, ycs []float64, err error) {
 	}
 	return xs, ycs, nil
 }
+
+// taNoseTo is the distance from the leading edge in x (chord units: a
+// section's nodes are normalised), within which a node that does not advance in x is
+// left out of its surface rather than refused.
+const taNoseTo = 0.01
 
 // taHookFrom is the chord station beyond which a surface may double back
 // (a rounded trailing edge) and is cut where it does.

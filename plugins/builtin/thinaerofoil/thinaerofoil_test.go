@@ -250,3 +250,52 @@ func TestCamberFromNodesHookedTrailingEdge(t *testing.T) {
 		t.Errorf("mid-chord reversal: err = %v, want ErrNotIncreasing", err)
 	}
 }
+
+func TestCamberFromNodesNoseStepsBack(t *testing.T) {
+	// A dense section's panels may step back in x by a hair next to the
+	// least-x node (the nose of a fit wobbles by less than a node spacing):
+	// such nodes are left out, and the mean line and its α_L0 are those of
+	// the section without them (NACA 2412, NACA Report 824 equations).
+	foil := shape.NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12, SharpTE: true}
+	nodes := foil.Nodes(400)
+	le := 0
+	for i, p := range nodes {
+		if p.X < nodes[le].X {
+			le = i
+		}
+	}
+	clean, err := meanLineZeroLift(nodes)
+	if err != nil {
+		t.Fatal(err)
+	}
+	stepped := append([]geometry.Point(nil), nodes...)
+	// The second node aft of the nose on the upper surface steps back
+	// behind the first.
+	stepped[le-2].X = stepped[le-1].X - 1e-7
+	got, err := meanLineZeroLift(stepped)
+	if err != nil {
+		t.Fatalf("a node stepping back at the nose: %v", err)
+	}
+	if d := (got - clean) * 180 / math.Pi; math.Abs(d) > 1e-3 {
+		t.Errorf("α_L0 moved by %.3g° when a nose node was left out", d)
+	}
+	// A step back away from the nose is still refused.
+	far := append([]geometry.Point(nil), nodes...)
+	far[le-100].X = far[le-98].X
+	if _, _, err := CamberFromNodes(far); !errors.Is(err, ErrNotIncreasing) {
+		t.Errorf("a reversal at x = %.2f: err = %v, want ErrNotIncreasing", far[le-100].X, err)
+	}
+}
+
+// meanLineZeroLift returns α_L0 (radians) of the mean line of nodes.
+func meanLineZeroLift(nodes []geometry.Point) (float64, error) {
+	xs, ycs, err := CamberFromNodes(nodes)
+	if err != nil {
+		return 0, err
+	}
+	c, err := New(xs, ycs)
+	if err != nil {
+		return 0, err
+	}
+	return c.ZeroLiftAngle(), nil
+}
