@@ -8,15 +8,11 @@
 package main
 
 import (
-	"bufio"
 	"flag"
 	"fmt"
-	"math"
-	"math/rand/v2"
 	"os"
 
-	"github.com/foilwright/foilwright/geometry"
-	"github.com/foilwright/foilwright/geometry/shape"
+	"github.com/foilwright/foilwright/internal/testfoil"
 )
 
 func main() {
@@ -34,37 +30,5 @@ func main() {
 }
 
 func write(path string, n int) error {
-	f, err := os.Create(path)
-	if err != nil {
-		return err
-	}
-	w := bufio.NewWriter(f)
-	rng := rand.New(rand.NewPCG(2412, uint64(n)))
-	foil := shape.NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12}
-	dense := foil.Nodes(20000)
-	arc := make([]float64, len(dense))
-	for i := 1; i < len(dense); i++ {
-		arc[i] = arc[i-1] + dense[i].Dist(dense[i-1])
-	}
-	loop := make([]geometry.Point, n)
-	j := 0
-	for k := range loop {
-		s := arc[len(arc)-1] * float64(k) / float64(n)
-		for arc[j+1] < s {
-			j++
-		}
-		t := (s - arc[j]) / (arc[j+1] - arc[j])
-		loop[k] = dense[j].Add(dense[j+1].Sub(dense[j]).Scale(t))
-	}
-	rng.Shuffle(len(loop), func(i, j int) { loop[i], loop[j] = loop[j], loop[i] })
-	fmt.Fprint(w, "# units: mm\nx,y\n")
-	for _, p := range loop {
-		q := p.Scale(152.4).Rotate(-7 * math.Pi / 180)
-		fmt.Fprintf(w, "%.5f,%.5f\n", q.X+0.02*rng.NormFloat64()+40, q.Y+0.02*rng.NormFloat64()-12)
-	}
-	if err := w.Flush(); err != nil {
-		f.Close()
-		return err
-	}
-	return f.Close()
+	return os.WriteFile(path, testfoil.ScanCSV(n), 0o644)
 }

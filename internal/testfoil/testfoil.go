@@ -2,7 +2,8 @@
 // geometry packages share: NACA 4-digit outlines (NACA Report 824
 // equations) placed in a part frame with a chord, a rotation, a shift and
 // Gaussian noise of a fixed seed, and the distances the tests measure
-// them by. It is imported by tests only.
+// them by, and the shuffled scan of the prep benchmarks. It is imported
+// by tests and by the benchmark programs only.
 package testfoil
 
 import (
