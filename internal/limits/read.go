@@ -18,26 +18,7 @@ const textProbe = 8 << 10
 // It reads devices and FIFOs as a stream, so /dev/zero ends at the limit.
 // It refuses a folder with a clear error.
 func ReadFile(path string, maxBytes, maxLines int64) ([]byte, error) {
-	f, err := os.Open(path)
-	if err != nil {
-		return nil, err
-	}
-	defer f.Close()
-	fi, err := f.Stat()
-	if err != nil {
-		return nil, err
-	}
-	if fi.IsDir() {
-		return nil, &fs.PathError{Op: "read", Path: path, Err: errors.New("is a folder, not a file")}
-	}
-	size := int64(-1)
-	if fi.Mode().IsRegular() {
-		size = fi.Size()
-		if maxBytes > 0 && size > maxBytes {
-			return nil, &Error{File: path, Limit: InputBytes, Value: maxBytes, What: Size(size)}
-		}
-	}
-	return read(f, path, size, maxBytes, maxLines, InputBytes)
+	return readFile(path, maxBytes, maxLines, InputBytes)
 }
 
 // Read reads r to the end, named name in messages, with the limits of
@@ -49,6 +30,12 @@ func Read(r io.Reader, name string, maxBytes, maxLines int64) ([]byte, error) {
 // ReadJSON reads the JSON file at path whole, refusing it past maxBytes
 // (the json-bytes limit).
 func ReadJSON(path string, maxBytes int64) ([]byte, error) {
+	return readFile(path, maxBytes, 0, JSONBytes)
+}
+
+// readFile is ReadFile and ReadJSON: the file at path read whole, a size
+// past maxBytes reported as the limit named limit.
+func readFile(path string, maxBytes, maxLines int64, limit Name) ([]byte, error) {
 	f, err := os.Open(path)
 	if err != nil {
 		return nil, err
@@ -65,10 +52,10 @@ func ReadJSON(path string, maxBytes int64) ([]byte, error) {
 	if fi.Mode().IsRegular() {
 		size = fi.Size()
 		if maxBytes > 0 && size > maxBytes {
-			return nil, &Error{File: path, Limit: JSONBytes, Value: maxBytes, What: Size(size)}
+			return nil, &Error{File: path, Limit: limit, Value: maxBytes, What: Size(size)}
 		}
 	}
-	return read(f, path, size, maxBytes, 0, JSONBytes)
+	return read(f, path, size, maxBytes, maxLines, limit)
 }
 
 // read reads r, whose size is known when size ≥ 0, stopping with an
