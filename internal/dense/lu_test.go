@@ -458,6 +458,31 @@ func TestVectorKernels(t *testing.T) {
 						t.Errorf("asm %v n %d: axpy entry %d is %g, want %g", asm, n, i, y[i], want[i])
 					}
 				}
+				// The two-column forms, on the row-major n×2 matrix z (one
+				// entry past it, which must stay).
+				z := make([]float64, 2*n+1)
+				for i := range z {
+					z[i] = rng.NormFloat64()
+				}
+				want0, want1 := 0.0, 0.0
+				for i := range n {
+					want0 += x[i] * z[2*i]
+					want1 += x[i] * z[2*i+1]
+				}
+				if s0, s1 := dot2(x[:n], z[:2*n]); math.Abs(s0-want0) > 1e-13*float64(n+1) || math.Abs(s1-want1) > 1e-13*float64(n+1) {
+					t.Errorf("asm %v n %d: dot2 %g %g, want %g %g", asm, n, s0, s1, want0, want1)
+				}
+				wantZ := append([]float64(nil), z...)
+				for i := range n {
+					wantZ[2*i] -= 0.75 * x[i]
+					wantZ[2*i+1] -= -1.25 * x[i]
+				}
+				axpy2(0.75, -1.25, x[:n], z[:2*n])
+				for i := range z {
+					if math.Abs(z[i]-wantZ[i]) > 1e-15 {
+						t.Errorf("asm %v n %d: axpy2 entry %d is %g, want %g", asm, n, i, z[i], wantZ[i])
+					}
+				}
 			}
 		})
 	}
