@@ -61,15 +61,14 @@ func New(nodes []geometry.Point) (*Solver, error) {
 	}
 	a := sv.build(buildWorkers(sv.n))
 	t1 := time.Now()
-	// The factors serve only the two right-hand sides: the matrix goes
-	// back to the pool at once.
+	// The factors serve only the two right-hand sides (solved while the
+	// condition number is estimated): the matrix goes back to the pool at
+	// once.
 	var lu dense.LU
-	lu.Factorize(sv.size(), a)
+	sv.base = sv.rhs()
+	err2 := lu.FactorizeSolve(sv.size(), a, sv.base, 2)
 	sv.cond = lu.Cond()
-	var err2 error
-	if sv.cond <= MaxCondition {
-		sv.base = sv.rhs()
-		err2 = lu.Solve(sv.base, 2)
+	if sv.cond <= MaxCondition && err2 == nil {
 		sv.forms = sv.sweepForms()
 	}
 	putMatrix(&a)
@@ -218,7 +217,6 @@ type rowScratch struct {
 // midpoint of panel i (the base panel when i == n) into row, every entry.
 func (sv *Solver) fillRow(row []float64, i int, w *rowScratch) {
 	const inv2pi = 1 / (2 * math.Pi)
-	clear(row)
 	px, py := sv.mid(i)
 	// Outward normal of panel i: the right-hand normal of its direction.
 	nx, ny := sv.ty[i], -sv.tx[i]
@@ -237,12 +235,17 @@ func (sv *Solver) fillRow(row []float64, i int, w *rowScratch) {
 		if i < done {
 			ca[i], cb[i] = sv.coeffs(i, px, py, nx, ny, true)
 		}
+		// Entries 0…done are written here, the rest cleared for the
+		// panels below to add to (and the base column written last).
 		out := row[:done+1]
-		out[0] += ca[0]
+		out[0] = ca[0]
 		for j := 1; j < done; j++ {
-			out[j] += ca[j] + cb[j-1]
+			out[j] = ca[j] + cb[j-1]
 		}
-		out[done] += cb[done-1]
+		out[done] = cb[done-1]
+		clear(row[done+1:])
+	} else {
+		clear(row)
 	}
 	for j := done; j < n; j++ {
 		a, b := sv.coeffs(j, px, py, nx, ny, i == j)
