@@ -343,11 +343,14 @@ func TestFactorizeSolve(t *testing.T) {
 		},
 	}
 	for name, make := range matrices {
-		for _, n := range []int{7, parallelMin - 1, parallelMin + 17} {
+		for _, n := range []int{7, parallelMin + 5} {
 			a := make(n)
-			for _, nrhs := range []int{1, 2, 3} {
+			for _, nrhs := range []int{2, 3} {
 				b := randomMatrix(rng, n*nrhs)[: n*nrhs : n*nrhs]
 				for _, s := range settings() {
+					if n > unblockedMax && haveAVX2 && !s.asm && !s.backend {
+						continue // the Go kernels are checked on the small size; slow under -race
+					}
 					with(s, func() {
 						var want LU
 						wantX := append([]float64(nil), b...)
