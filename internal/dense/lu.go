@@ -81,10 +81,10 @@ func (lu *LU) factor(n int, a []float64) {
 }
 
 // FactorizeSolve is Factorize followed by Solve(b, nrhs), with the same
-// results and errors. From parallelMin rows, with
-// more than one goroutine allowed (GOMAXPROCS), the condition estimate runs
-// on a goroutine of its own while the caller solves: both only read the
-// factors, and the estimate takes several solves' time, the solve one.
+// results and errors. From parallelMin rows, with more than one goroutine
+// allowed (GOMAXPROCS), the condition estimate runs on a goroutine of its
+// own while the caller solves: both only read the factors, and the
+// estimate takes several solves' time, the solve one.
 func (lu *LU) FactorizeSolve(n int, a []float64, b []float64, nrhs int) error {
 	if nrhs < 1 || len(b) < n*nrhs {
 		panic(fmt.Sprintf("dense: Solve with %d right-hand sides in %d entries for order %d", nrhs, len(b), n))
