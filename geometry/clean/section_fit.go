@@ -47,20 +47,21 @@ type sectionCoords struct {
 	// zone (nil: none): no fit of another point takes them in.
 	spared []bool
 	// The last robust fit made for each point (by point index), with the
-	// neighbours it was made on in order (memoIDs, sectionWindow·2 a
-	// point; memoK of them, −1 when none was made). A point's fit depends
-	// on nothing else (its t and v and theirs are fixed), so a point whose
-	// neighbours are the same as last time gets the same fit back: the
-	// outlier rounds and the feet refit every point, and most have the
-	// same neighbours as before.
-	memoIDs []int32
+	// neighbours it was made on in order, as offsets from the point's own
+	// index (memoD, sectionWindow·2 a point; memoK of them, −1 when none
+	// is kept, as when an offset does not fit in 16 bits). A point's fit
+	// depends on nothing else (its t and v and theirs are fixed), so a
+	// point whose neighbours are the same as last time gets the same fit
+	// back: the outlier rounds and the feet refit every point, and most
+	// have the same neighbours as before.
+	memoD   []int16
 	memoK   []int8
 	memoFit [][2]float64
 }
 
 func newSectionCoords(n int) *sectionCoords {
 	sc := &sectionCoords{region: make([]int8, n), t: make([]float64, n), v: make([]float64, n), place: make([]float64, n),
-		memoIDs: make([]int32, n*2*sectionWindow), memoK: make([]int8, n), memoFit: make([][2]float64, n)}
+		memoD: make([]int16, n*2*sectionWindow), memoK: make([]int8, n), memoFit: make([][2]float64, n)}
 	for i := range sc.region {
 		sc.region[i] = regionNone
 		sc.memoK[i] = -1
@@ -140,14 +141,25 @@ func (sc *sectionCoords) fitAt(seq []int32, i int) (v0, slope float64, ok bool) 
 	if k < 4 {
 		return 0, 0, false
 	}
-	last := sc.memoIDs[int(p)*2*sectionWindow : int(p+1)*2*sectionWindow]
-	if int(sc.memoK[p]) == k && [2 * sectionWindow]int32(last) == ids {
+	last := sc.memoD[int(p)*2*sectionWindow : int(p+1)*2*sectionWindow][:k]
+	same, fits := int(sc.memoK[p]) == k, true
+	for j, q := range ids[:k] {
+		d := q - p
+		same = same && int32(last[j]) == d
+		fits = fits && d == int32(int16(d))
+	}
+	if same {
 		f := sc.memoFit[p]
 		return f[0], f[1], true
 	}
 	v0, slope = robustParabola(ts[:k], vs[:k])
-	copy(last, ids[:])
-	sc.memoK[p], sc.memoFit[p] = int8(k), [2]float64{v0, slope}
+	sc.memoK[p] = -1
+	if fits {
+		for j, q := range ids[:k] {
+			last[j] = int16(q - p)
+		}
+		sc.memoK[p], sc.memoFit[p] = int8(k), [2]float64{v0, slope}
+	}
 	return v0, slope, true
 }
 
