@@ -176,16 +176,27 @@ func join(pts []geometry.Point, nb *nbrs, g *graph) {
 	if len(ends) == 0 {
 		return
 	}
-	dir := make(map[int32]geometry.Point, len(ends))
-	spc := make(map[int32]float64, len(ends))
-	for _, e := range ends {
+	// The direction and spacing at each end, by its place in ends (endAt
+	// gives the place of a point): slices, not maps keyed by point, since
+	// a dense band has ends by the hundred thousand.
+	endAt := make([]int32, n)
+	for i := range endAt {
+		endAt[i] = -1
+	}
+	for j, e := range ends {
+		endAt[e] = int32(j)
+	}
+	dir := make([]geometry.Point, len(ends))
+	hasDir := make([]bool, len(ends))
+	spc := make([]float64, len(ends))
+	for je, e := range ends {
 		switch g.deg(e) {
 		case 1:
 			in := g.adj[e][0]
 			if in < 0 {
 				in = g.adj[e][1]
 			}
-			spc[e] = pts[e].Dist(pts[in])
+			spc[je] = pts[e].Dist(pts[in])
 			prev, cur := e, in
 			for range 2 {
 				a := g.adj[cur]
@@ -200,12 +211,12 @@ func join(pts []geometry.Point, nb *nbrs, g *graph) {
 			}
 			d := pts[e].Sub(pts[cur])
 			if l := d.Norm(); l > 0 {
-				dir[e] = d.Scale(1 / l)
+				dir[je], hasDir[je] = d.Scale(1/l), true
 			}
 		default:
 			row := nb.of(e)
 			if len(row) > 0 {
-				spc[e] = pts[e].Dist(pts[row[0]])
+				spc[je] = pts[e].Dist(pts[row[0]])
 			}
 		}
 	}
@@ -216,12 +227,11 @@ func join(pts []geometry.Point, nb *nbrs, g *graph) {
 		e, f int32
 		cost float64
 	}
-	weight := func(e int32, step geometry.Point) float64 {
-		u, ok := dir[e]
-		if !ok {
+	weight := func(je int32, step geometry.Point) float64 {
+		if !hasDir[je] {
 			return 1.5
 		}
-		return 1 + (1-u.Dot(step))/2
+		return 1 + (1-dir[je].Dot(step))/2
 	}
 	cs := make([]cand, 0, len(near)) // at most m per end: no regrowth
 	for j, e := range ends {
@@ -229,13 +239,14 @@ func join(pts []geometry.Point, nb *nbrs, g *graph) {
 			if f < 0 {
 				break
 			}
+			jf := endAt[f]
 			d := pts[f].Sub(pts[e])
 			l := d.Norm()
-			if l == 0 || l > joinReach*min(spc[e], spc[f]) {
+			if l == 0 || l > joinReach*min(spc[j], spc[jf]) {
 				continue
 			}
 			s := d.Scale(1 / l)
-			cs = append(cs, cand{e, f, l * weight(e, s) * weight(f, s.Scale(-1))})
+			cs = append(cs, cand{e, f, l * weight(int32(j), s) * weight(jf, s.Scale(-1))})
 		}
 	}
 	slices.SortFunc(cs, func(a, b cand) int {
