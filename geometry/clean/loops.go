@@ -1,6 +1,7 @@
 package clean
 
 import (
+	"math"
 	"slices"
 
 	"github.com/foilwright/foilwright/geometry"
@@ -223,41 +224,36 @@ func join(pts []geometry.Point, nb *nbrs, g *graph) {
 	lo, hi := bounds(pts)
 	const m = 8
 	near := knn(pts, ends, m, lo, hi)
-	type cand struct {
-		e, f int32
-		cost float64
-	}
 	weight := func(je int32, step geometry.Point) float64 {
 		if !hasDir[je] {
 			return 1.5
 		}
 		return 1 + (1-dir[je].Dot(step))/2
 	}
-	cs := make([]cand, 0, len(near)) // at most m per end: no regrowth
-	for j, e := range ends {
-		for _, f := range near[j*m : (j+1)*m] {
-			if f < 0 {
-				break
+	candidates := func() []cand {
+		cs := make([]cand, 0, len(near)) // at most m per end: no regrowth
+		for j, e := range ends {
+			for _, f := range near[j*m : (j+1)*m] {
+				if f < 0 {
+					break
+				}
+				jf := endAt[f]
+				d := pts[f].Sub(pts[e])
+				l := d.Norm()
+				if l == 0 || l > joinReach*min(spc[j], spc[jf]) {
+					continue
+				}
+				s := d.Scale(1 / l)
+				cs = append(cs, cand{e, f, l * weight(int32(j), s) * weight(jf, s.Scale(-1))})
 			}
-			jf := endAt[f]
-			d := pts[f].Sub(pts[e])
-			l := d.Norm()
-			if l == 0 || l > joinReach*min(spc[j], spc[jf]) {
-				continue
-			}
-			s := d.Scale(1 / l)
-			cs = append(cs, cand{e, f, l * weight(int32(j), s) * weight(jf, s.Scale(-1))})
 		}
+		return cs
 	}
-	slices.SortFunc(cs, func(a, b cand) int {
-		switch {
-		case a.cost < b.cost:
-			return -1
-		case a.cost > b.cost:
-			return 1
-		}
-		return int(a.e - b.e)
-	})
+	cs := candidates()
+	if !radixSortCands(cs) {
+		cs = candidates() // in the order slices.SortFunc is to start from
+		slices.SortFunc(cs, candCmp)
+	}
 	for _, c := range cs {
 		if g.deg(c.e) == 2 || g.deg(c.f) == 2 || g.linked(c.e, c.f) {
 			continue
@@ -287,4 +283,79 @@ func join(pts []geometry.Point, nb *nbrs, g *graph) {
 			g.addEdge(a, b)
 		}
 	}
+}
+
+// cand is a join of the ends e and f at a cost.
+type cand struct {
+	e, f int32
+	cost float64
+}
+
+// candCmp orders candidates by cost, then by their first end.
+func candCmp(a, b cand) int {
+	switch {
+	case a.cost < b.cost:
+		return -1
+	case a.cost > b.cost:
+		return 1
+	}
+	return int(a.e - b.e)
+}
+
+// radixSortCands sorts cs as slices.SortFunc(cs, candCmp) would and
+// reports true, where it can: where every cost is a number ≥ 0 (whose bits
+// order as it does) and no two candidates share both cost and first end,
+// that order is the only one candCmp allows, and a radix sort on (cost, e),
+// linear in the number of candidates (eight an end, by the hundred
+// thousand in a dense band), finds it. Otherwise it reports false and cs
+// is left in some order: the caller sorts the candidates as made.
+func radixSortCands(cs []cand) bool {
+	if len(cs) < 256 {
+		slices.SortFunc(cs, candCmp)
+		return true
+	}
+	for _, c := range cs {
+		if math.Float64bits(c.cost) > 0x7ff0000000000000 || c.e < 0 {
+			return false
+		}
+	}
+	buf := make([]cand, len(cs))
+	var count [1 << 16]int
+	// Least significant digit first: e's two 16-bit digits, then the
+	// cost's four; each pass is stable, so the result is ordered by cost
+	// and, within a cost, by e.
+	digit := func(c cand, d int) int {
+		if d < 2 {
+			return int(uint32(c.e) >> (16 * d) & 0xffff)
+		}
+		return int(math.Float64bits(c.cost) >> (16 * (d - 2)) & 0xffff)
+	}
+	src, dst := cs, buf
+	for d := range 6 {
+		clear(count[:])
+		for _, c := range src {
+			count[digit(c, d)]++
+		}
+		if count[digit(src[0], d)] == len(src) {
+			continue // one digit throughout: the pass would change nothing
+		}
+		at := 0
+		for k, c := range count {
+			count[k] = at
+			at += c
+		}
+		for _, c := range src {
+			k := digit(c, d)
+			dst[count[k]] = c
+			count[k]++
+		}
+		src, dst = dst, src
+	}
+	copy(cs, src)
+	for k := 1; k < len(cs); k++ {
+		if cs[k].cost == cs[k-1].cost && cs[k].e == cs[k-1].e {
+			return false // a tie, which candCmp leaves to the sort's own order
+		}
+	}
+	return true
 }
