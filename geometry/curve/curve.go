@@ -295,7 +295,7 @@ func (c *Curve) Locate(s float64) (int, float64) {
 		if sp <= 0 {
 			break
 		}
-		u = math.Min(h, math.Max(0, u-f/sp))
+		u = min(h, max(0, u-f/sp)) // math.Min and math.Max, inline
 	}
 	if math.Abs(c.partial(i, u)-target) <= 1e3*tol {
 		return i, u
