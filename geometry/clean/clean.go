@@ -114,6 +114,11 @@ type Report struct {
 	// meaningful.
 	Band     bool
 	MergeTol float64 // merge tolerance used, input units
+	// Subset, when positive, is the number of points of a dense cloud the
+	// ordering, the loops and the trailing edge were found on; every point
+	// of the cloud was then placed by where it projects onto the outline
+	// they gave (see cleanDense), and Loops count the subset's points.
+	Subset int
 	// Sigma is the robust scale of the residuals of the picked loop against
 	// the local fit (1.4826 × median absolute residual, at least 0.02 × the
 	// median point spacing so that exact coordinates lose nothing), input
@@ -205,6 +210,9 @@ func Clean(c *geometry.Cloud, opts Options) (*geometry.Contour, *Report, error) 
 		sigma = DefaultOutlierSigma
 	}
 
+	if n >= denseFrom && !opts.KeepOutliers && opts.Order != OrderFile {
+		return cleanDense(c, opts, sigma)
+	}
 	// 1. Merge.
 	cl := &cleaning{c: c, rep: rep, lo: lo, hi: hi, diag: diag}
 	if err := cl.merge(all, tol); err != nil {
