@@ -17,7 +17,11 @@ import (
 // that the recorded line numbers are checked independently of the tool.
 func readBack(t *testing.T, data []byte, f FileSpec) map[int]geometry.Vec3 {
 	t.Helper()
-	lines := strings.Split(string(data), "\n")
+	text := strings.TrimPrefix(string(data), "\ufeff")
+	if f.CRLF != strings.Contains(text, "\r\n") {
+		t.Errorf("CR LF line ends %v, asked for %v", !f.CRLF, f.CRLF)
+	}
+	lines := strings.Split(strings.ReplaceAll(text, "\r\n", "\n"), "\n")
 	out := map[int]geometry.Vec3{}
 	if strings.HasPrefix(f.Format, "dxf") {
 		for i := 0; i+1 < len(lines); i += 2 {
@@ -40,8 +44,16 @@ func readBack(t *testing.T, data []byte, f FileSpec) map[int]geometry.Vec3 {
 		skip = 1
 	}
 	for i, l := range lines {
-		if l == "" || l[0] == '#' || strings.ContainsAny(l, "xyz") {
+		// Point lines start with a digit or a sign; the rest are titles,
+		// headers, comments and blank lines.
+		if l == "" || !strings.ContainsRune("0123456789-+.", rune(l[0])) {
 			continue
+		}
+		if f.TrailingSep {
+			if !strings.HasSuffix(l, sep) {
+				t.Errorf("line %d %q does not end with its separator", i+1, l)
+			}
+			l = strings.TrimSuffix(l, sep)
 		}
 		fs := strings.Split(l, sep)[skip:]
 		var v [3]float64
@@ -113,7 +125,7 @@ func TestPointsOnTheOutline(t *testing.T) {
 		// A good point is off the outline by its noise (5σ bounds every one
 		// of a few thousand Gaussian draws but once in a few hundred cases)
 		// and the rounding of the written numbers.
-		limit := 5*tr.Noise + tr.Resolution + 1e-9
+		limit := 5*tr.NoiseMax + tr.Resolution + math.Abs(tr.Offset) + tr.Shift + 1e-9
 		var sum2 float64
 		var good int
 		for _, l := range tr.Lines {
@@ -124,6 +136,10 @@ func TestPointsOnTheOutline(t *testing.T) {
 			q, off := toChord(tr, p)
 			d, _ := sh.Nearest(q)
 			switch l.Kind {
+			case LineRepeat:
+				if d > limit || math.Abs(off) > limit {
+					t.Errorf("seed %d line %d: repeated point %.3g off the outline, %.3g off the plane", seed, l.No, d, off)
+				}
 			case LineGood:
 				good++
 				sum2 += d * d
@@ -153,7 +169,7 @@ func TestPointsOnTheOutline(t *testing.T) {
 		// The RMS distance matches the noise (distance is |noise| where the
 		// outline is flat; tolerance for a few hundred samples, and the
 		// rounding of the numbers).
-		if tr.Noise > 0 && good >= 300 {
+		if tr.Noise > 0 && good >= 300 && tr.Offset == 0 && tr.Shift == 0 {
 			rms := math.Sqrt(sum2 / float64(good))
 			want := math.Sqrt(tr.Noise*tr.Noise + tr.Resolution*tr.Resolution/12)
 			if math.Abs(rms/want-1) > 0.15 {
