@@ -157,6 +157,16 @@ func (cl *cleaning) arrange(opts Options, sigma float64) (*attempt, error) {
 	if a := cl.byBandLoops(opts, sigma); pass(a) {
 		return finish(a)
 	}
+	if cl.fileOrder && !cl.c.Ordered {
+		// Last, the order of a file that declares none but walks the
+		// outline (looksOrdered): a sparse exact polyline whose stations
+		// crowd at a thin trailing edge can defeat every reconstruction.
+		a := cl.fromFile(opts, sigma)
+		cl.rep.Reordered = "" // not the user's order to keep
+		if pass(a) {
+			return finish(a)
+		}
+	}
 	cl.rep.Refused = refused
 	if len(loops) == 0 {
 		return nil, fmt.Errorf("geometry: clean: %w: %d points form no closed loop (%s)", geometry.ErrNoLoop, len(cl.pts), strings.Join(refused, "; "))
@@ -268,7 +278,19 @@ func substantial(pts []geometry.Point, loops [][]int32, diag float64) int {
 // fromFile tries the file's own runs as the loops.
 func (cl *cleaning) fromFile(opts Options, sigma float64) *attempt {
 	c, pts, src := cl.c, cl.pts, cl.src
-	runs := runsOf(c, src)
+	var runs [][]int32
+	if c.Ordered {
+		runs = runsOf(c, src)
+	} else {
+		// The points were put along a Morton curve (localise): one run
+		// in the order of the file's lines.
+		run := make([]int32, len(src))
+		for i := range run {
+			run[i] = int32(i)
+		}
+		slices.SortFunc(run, func(a, b int32) int { return int(src[a] - src[b]) })
+		runs = [][]int32{run}
+	}
 	if a, b, ok := runsValid(pts, runs, cl.nb); !ok {
 		cl.rep.Reordered = fmt.Sprintf("the step from %s to %s jumps %.3g, beyond the points' neighbourhoods", c.Origins[src[a]], c.Origins[src[b]], pts[a].Dist(pts[b]))
 		return &attempt{strategy: OrderFile, fail: cl.rep.Reordered}
