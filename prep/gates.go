@@ -254,11 +254,13 @@ func extent(pts []geometry.Point) float64 {
 func orderings(strategy string) []string {
 	switch strategy {
 	case clean.OrderSection:
-		return []string{clean.OrderLinked, clean.OrderBand}
-	case clean.OrderLinked, clean.OrderFile:
+		return []string{clean.OrderLinked, clean.OrderBand, clean.OrderFile}
+	case clean.OrderLinked:
+		return []string{clean.OrderSection, clean.OrderFile}
+	case clean.OrderFile:
 		return []string{clean.OrderSection}
 	case clean.OrderBand:
-		return []string{clean.OrderSection, clean.OrderLinked}
+		return []string{clean.OrderSection, clean.OrderLinked, clean.OrderFile}
 	}
 	return nil
 }

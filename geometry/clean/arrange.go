@@ -179,7 +179,7 @@ func (cl *cleaning) only(opts Options, sigma float64) (*attempt, error) {
 	var a *attempt
 	switch opts.Order {
 	case OrderFile:
-		if !cl.c.Ordered {
+		if !cl.fileOrder {
 			return nil, fmt.Errorf("geometry: clean: %w: the file's own order was asked for, but the points come in no order", geometry.ErrNoLoop)
 		}
 		a = cl.fromFile(opts, sigma)
@@ -281,19 +281,33 @@ func (cl *cleaning) fromFile(opts Options, sigma float64) *attempt {
 	var runs [][]int32
 	if c.Ordered {
 		runs = runsOf(c, src)
-	} else {
-		// The points were put along a Morton curve (localise): one run
-		// in the order of the file's lines.
-		run := make([]int32, len(src))
-		for i := range run {
-			run[i] = int32(i)
+		if a, b, ok := runsValid(pts, runs, cl.nb); !ok {
+			cl.rep.Reordered = fmt.Sprintf("the step from %s to %s jumps %.3g, beyond the points' neighbourhoods", c.Origins[src[a]], c.Origins[src[b]], pts[a].Dist(pts[b]))
+			return &attempt{strategy: OrderFile, fail: cl.rep.Reordered}
 		}
-		slices.SortFunc(run, func(a, b int32) int { return int(src[a] - src[b]) })
-		runs = [][]int32{run}
-	}
-	if a, b, ok := runsValid(pts, runs, cl.nb); !ok {
-		cl.rep.Reordered = fmt.Sprintf("the step from %s to %s jumps %.3g, beyond the points' neighbourhoods", c.Origins[src[a]], c.Origins[src[b]], pts[a].Dist(pts[b]))
-		return &attempt{strategy: OrderFile, fail: cl.rep.Reordered}
+	} else {
+		// A file that declares no order but walks the outline: the points
+		// were put along a Morton curve (localise), so their file order is
+		// rebuilt, then cut into runs wherever a step jumps beyond the
+		// points' neighbourhoods (two probe passes, a stretch measured
+		// again), which are joined end to end as an ordered file's runs.
+		order := make([]int32, len(src))
+		for i := range order {
+			order[i] = int32(i)
+		}
+		slices.SortFunc(order, func(a, b int32) int { return int(src[a] - src[b]) })
+		start := 0
+		for k := 1; k <= len(order); k++ {
+			if k < len(order) {
+				if _, _, ok := runsValid(pts, [][]int32{order[k-1 : k+1]}, cl.nb); ok {
+					continue
+				}
+			}
+			if k-start >= 2 {
+				runs = append(runs, order[start:k])
+			}
+			start = k
+		}
 	}
 	g := newGraph(len(pts))
 	for _, r := range runs {
