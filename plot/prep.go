@@ -131,19 +131,18 @@ func PrepPlot(d PrepData) (*Figure, error) {
 			}
 		}
 		if len(measured) > 0 {
-			s := newScatter(measured, glyphStyle(colBlue, draw.CircleGlyph{}, 1.6))
+			shown, stride := thin(measured, maxDrawn)
+			s := newScatter(shown, glyphStyle(colBlue, draw.CircleGlyph{}, 1.6))
 			p.Add(s)
 			if legend {
-				p.Legend.Add(fmt.Sprintf("kept points (%d)", len(measured)), s)
+				p.Legend.Add(fmt.Sprintf("kept points (%d%s)", len(measured), strideNote(stride)), s)
 			}
 		}
 		p.Add(newScatter(edges, glyphStyle(colInk, boldPlus{}, 5)))
 		if len(dropped) > 0 {
-			s := newScatter(dropped, glyphStyle(colRed, boldCross{}, 4))
+			shown, stride := thin(dropped, maxDrawn)
+			s := newScatter(shown, glyphStyle(colRed, boldCross{}, 4))
 			p.Add(s)
-			if legend {
-				p.Legend.Add(fmt.Sprintf("dropped points (%d)", len(dropped)), s)
-			}
 			var in plotter.XYs
 			var inLabels []string
 			for i, q := range dropped {
@@ -151,6 +150,25 @@ func PrepPlot(d PrepData) (*Figure, error) {
 					in = append(in, q)
 					inLabels = append(inLabels, labels[i])
 				}
+			}
+			// Past maxLabels the labels cover the picture: label an even
+			// share of them (the section document lists every one).
+			if k := len(in); k > maxLabels {
+				var sel plotter.XYs
+				var selLabels []string
+				for j := range maxLabels {
+					i := j * k / maxLabels
+					sel = append(sel, in[i])
+					selLabels = append(selLabels, inLabels[i])
+				}
+				in, inLabels = sel, selLabels
+			}
+			if legend {
+				note := strideNote(stride)
+				if len(dropped) > maxLabels {
+					note += fmt.Sprintf("; %d labelled", min(len(in), maxLabels))
+				}
+				p.Legend.Add(fmt.Sprintf("dropped points (%d%s)", len(dropped), note), s)
 			}
 			for i, q := range in {
 				lb, err := plotter.NewLabels(plotter.XYLabels{XYs: plotter.XYs{q}, Labels: []string{inLabels[i]}})
@@ -300,10 +318,11 @@ func DeviationPlot(d PrepData) (*Figure, error) {
 		lb.Offset = vg.Point{X: vg.Points(3), Y: rise}
 		p.Add(lb)
 	}
-	l := newLine(pts, lineStyle(colBlue, 0.6, nil))
-	sc := newScatter(pts, glyphStyle(colBlue, draw.CircleGlyph{}, 1.5))
+	drawn, stride := thin(pts, maxDrawn)
+	l := newLine(drawn, lineStyle(colBlue, 0.6, nil))
+	sc := newScatter(drawn, glyphStyle(colBlue, draw.CircleGlyph{}, 1.5))
 	p.Add(l, sc)
-	p.Legend.Add(fmt.Sprintf("kept points (rms %.3g %s)", rms, u8), l, sc)
+	p.Legend.Add(fmt.Sprintf("kept points (rms %.3g %s%s)", rms, u8, strideNote(stride)), l, sc)
 	if d.Tolerance > 0 {
 		var out plotter.XYs
 		for _, q := range pts {
@@ -312,7 +331,8 @@ func DeviationPlot(d PrepData) (*Figure, error) {
 			}
 		}
 		if len(out) > 0 {
-			so := newScatter(out, glyphStyle(colRed, draw.CircleGlyph{}, 2.4))
+			shown, _ := thin(out, maxDrawn)
+			so := newScatter(shown, glyphStyle(colRed, draw.CircleGlyph{}, 2.4))
 			p.Add(so)
 			p.Legend.Add(fmt.Sprintf("outside tolerance (%d)", len(out)), so)
 		}
@@ -459,4 +479,66 @@ func (boldPlus) DrawGlyph(c *draw.Canvas, sty draw.GlyphStyle, pt vg.Point) {
 	p.Move(vg.Point{X: pt.X, Y: pt.Y - r})
 	p.Line(vg.Point{X: pt.X, Y: pt.Y + r})
 	c.Stroke(p)
+}
+
+// maxDrawn is the most points of one set a picture draws: a scan of a
+// million points draws as a band either way, and every marker costs
+// (a picture of 1e5 points took 15 s of processor time); maxLabels is the
+// most dropped points labelled in one panel.
+const (
+	maxDrawn  = 20000
+	maxLabels = 30
+)
+
+// thin returns every k-th point of pts, k the least stride that leaves at
+// most limit, keeping the point of largest |Y| (the worst deviation) and
+// the last point; and k.
+func thin(pts plotter.XYs, limit int) (plotter.XYs, int) {
+	if len(pts) <= limit {
+		return pts, 1
+	}
+	k := (len(pts) + limit - 1) / limit
+	worst := 0
+	for i, q := range pts {
+		if math.Abs(q.Y) > math.Abs(pts[worst].Y) {
+			worst = i
+		}
+	}
+	out := make(plotter.XYs, 0, limit+2)
+	for i := 0; i < len(pts); i += k {
+		if worst > i-k && worst < i && worst != i {
+			out = append(out, pts[worst])
+		}
+		out = append(out, pts[i])
+	}
+	if last := len(pts) - 1; last%k != 0 {
+		if worst > last-last%k && worst < last {
+			out = append(out, pts[worst])
+		}
+		out = append(out, pts[last])
+	}
+	return out, k
+}
+
+// strideNote says which share of a set a picture draws.
+func strideNote(k int) string {
+	if k <= 1 {
+		return ""
+	}
+	return fmt.Sprintf("; every %s drawn", ordinal(k))
+}
+
+// ordinal returns "2nd", "3rd", "4th", ... for k ≥ 2.
+func ordinal(k int) string {
+	suffix := "th"
+	switch {
+	case k%100 >= 11 && k%100 <= 13:
+	case k%10 == 1:
+		suffix = "st"
+	case k%10 == 2:
+		suffix = "nd"
+	case k%10 == 3:
+		suffix = "rd"
+	}
+	return fmt.Sprintf("%d%s", k, suffix)
 }

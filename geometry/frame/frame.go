@@ -140,11 +140,12 @@ type Normalized struct {
 // that no rotation undoes, and it shows as negative camber: its centroid
 // lies below the chord line. In MirrorAuto mode a centroid more than
 // EdgeMirrorCentroid chord below the line mirrors the section (x ↦ −x before
-// the rotation) when its mean line also bows down (a parabola fitted to it
-// from 5 % to 90 % of the chord curves down by more than EdgeMirrorBow): on
-// a thick, blunt nose the leading edge's place tilts the chord line enough
-// to move the centroid of a symmetric section below it, but a tilt does not
-// bow the mean line. A symmetric section cannot tell and is left as it is.
+// the rotation) when its mean line also sags down (below the straight line
+// through its ends at 1 % and 90 % of the chord, by more than EdgeMirrorSag
+// on average): on a thick, blunt nose the leading edge's place tilts the
+// chord line enough to move the centroid of a symmetric section below it,
+// but a tilt does not make the mean line sag. A symmetric section cannot
+// tell and is left as it is.
 //
 // Normalize returns an error wrapping ErrNoLeadingEdge for a body with no
 // distinct nose and tail (a circle, a square), and ErrTrailingEdge when the
@@ -223,16 +224,16 @@ func Normalize(cv *curve.Curve, opts Options) (*Normalized, error) {
 	case MirrorNo:
 	default:
 		_, cy := chord.Centroid()
-		bow, bowOK := meanLineBow(chord, sLE/fr.Chord)
+		sag, sagOK := meanLineSag(chord, sLE/fr.Chord)
 		switch {
-		case cy < -EdgeMirrorCentroid && (!bowOK || bow > EdgeMirrorBow):
+		case cy < -EdgeMirrorCentroid && (!sagOK || sag < -EdgeMirrorSag):
 			mirrored = true
 			warn(fmt.Sprintf("section mirrored: its centroid lies %.3g chord below the chord line (negative camber), so it was taken as upside down or nose-reversed; use mirror no to keep it", -cy))
 		case cy < -EdgeMirrorCentroid:
-			// The centroid says mirrored but the mean line is not bowed
+			// The centroid says mirrored but the mean line does not sag
 			// the other way: a (nearly) symmetric section whose chord
 			// line the place of the leading edge on its nose tilts.
-			warn(fmt.Sprintf("section is (nearly) symmetric: its centroid lies %.3g chord below the chord line but its mean line is straight within %.2g chord, so mirroring cannot be detected and it was kept as measured; use mirror yes if it was measured upside down", -cy, math.Abs(bow)/4))
+			warn(fmt.Sprintf("section is (nearly) symmetric: its centroid lies %.3g chord below the chord line but its mean line sags by %.2g chord, so mirroring cannot be detected and it was kept as measured; use mirror yes if it was measured upside down", -cy, sag))
 		case math.Abs(cy) <= EdgeMirrorCentroid:
 			warn("section is (nearly) symmetric: mirroring cannot be detected; use mirror yes if it was measured upside down")
 		}
