@@ -272,6 +272,45 @@ type cleaning struct {
 	pts    []geometry.Point
 	src    []int32 // src[i] is the input index of pts[i]
 	nb     *nbrs
+	// fileOrder is set for a cloud that is ordered (c.Ordered) or whose
+	// points, in the file's order, walk a path a few times the part's
+	// size at most (looksOrdered): its own order is tried, first when the
+	// format orders the points, last otherwise.
+	fileOrder bool
+}
+
+// orderedWalk is the longest path, in diagonals of the points' bounding
+// box, that the points of an unordered cloud may walk in the file's order
+// for that order to be tried as a loop: a section's perimeter is about two
+// diagonals, a probe program in two passes walks about three, noise as
+// large as the spacing adds a third or so; a shuffled file of n points
+// walks about n/3 diagonals.
+const orderedWalk = 8
+
+// looksOrdered reports whether the points pts[src[0]], pts[src[1]], ...
+// walk a path no longer than orderedWalk diagonals of their bounding box:
+// a coordinate file written along the outline (or in a few runs), whose
+// order the file's own strategy then tries, gates and all, when the
+// others cannot reconstruct one.
+func looksOrdered(pts []geometry.Point, src []int32) bool {
+	if len(src) < 2*minPoints {
+		return false
+	}
+	lo, hi := geometry.Point{X: math.Inf(1), Y: math.Inf(1)}, geometry.Point{X: math.Inf(-1), Y: math.Inf(-1)}
+	for _, i := range src {
+		p := pts[i]
+		lo.X, lo.Y = math.Min(lo.X, p.X), math.Min(lo.Y, p.Y)
+		hi.X, hi.Y = math.Max(hi.X, p.X), math.Max(hi.Y, p.Y)
+	}
+	limit := orderedWalk * hi.Dist(lo)
+	var walk float64
+	for k := 1; k < len(src); k++ {
+		walk += pts[src[k]].Dist(pts[src[k-1]])
+		if walk > limit {
+			return false
+		}
+	}
+	return limit > 0
 }
 
 // merge merges the points within tol of an earlier one (the lowest input
@@ -288,6 +327,7 @@ func (cl *cleaning) merge(all []geometry.Point, tol float64) error {
 	if m < minPoints {
 		return fmt.Errorf("geometry: clean: %w: %d distinct point(s) after merging within %.3g, need at least %d", geometry.ErrTooFewPoints, m, tol, minPoints)
 	}
+	cl.fileOrder = c.Ordered || looksOrdered(all, src)
 	if !c.Ordered {
 		localise(all, src)
 	}
