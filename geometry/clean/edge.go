@@ -767,9 +767,11 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, pstep, scat float64
 	for k := range models {
 		models[k].score = models[k].misfit(u, l, z, scat, edgeOutlier, out) + models[k].extra
 	}
-	// A rounded end must beat a blunt one by edgeEvidence: an end sampled
-	// by a point or two fits a base and an arc alike, and the base is the
-	// more common end of a measured or drawn section (common practice).
+	// A rounded end with fewer than edgeArcMin points on its arc must beat
+	// a blunt one by edgeEvidence: an end sampled by a point or two fits a
+	// base and an arc alike, and the base is the more common end of a
+	// measured or drawn section (common practice). With more, the scores
+	// decide.
 	//
 	// An arc with no point on it is not chosen at all, and one with fewer
 	// than edgeArcMin never wins over a sharp corner: a circle tangent to
@@ -799,10 +801,10 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, pstep, scat float64
 			continue
 		}
 		margin := 0.0
-		if m.kind == EdgeRounded && b.kind == EdgeBlunt {
+		if m.kind == EdgeRounded && b.kind == EdgeBlunt && arcPts[k] < edgeArcMin {
 			margin = edgeEvidence
 		}
-		if b.kind == EdgeRounded && m.kind == EdgeBlunt {
+		if b.kind == EdgeRounded && m.kind == EdgeBlunt && arcPts[bk] < edgeArcMin {
 			margin = -edgeEvidence
 		}
 		if m.score+margin < b.score {
