@@ -1275,20 +1275,3 @@ func localStep(pts []geometry.Point, seq []int32, k, dir, w int) float64 {
 
 // SetTrace is a temporary debugging hook.
 func SetTrace(f func(string, ...any)) { edgeTrace = f }
-
-// meanEndStep returns the mean distance between consecutive points of seq
-// over w gaps either side of position k0, leaving out the gap next to k0
-// on each side (one of which spans the end itself).
-func meanEndStep(pts []geometry.Point, seq []int32, k0, w int) float64 {
-	n := len(seq)
-	at := func(k int) int32 { return seq[((k%n)+n)%n] }
-	var sum float64
-	k := 0
-	for _, dir := range []int{-1, 1} {
-		for s := 1; s <= w; s++ {
-			sum += fastDist(pts[at(k0+dir*s)], pts[at(k0+dir*(s+1))])
-			k++
-		}
-	}
-	return sum / float64(k)
-}
