@@ -389,7 +389,42 @@ func (cl *cleaning) bySection(opts Options, sigma float64) *attempt {
 		if a.err != nil {
 			break
 		}
-		if pass == 1 {
+		if pass == 0 {
+			// The second pass orders the points the first kept; the
+			// others wait outside the loop.
+			out := make(map[int32]bool, len(a.hits))
+			for _, h := range a.hits {
+				out[h.idx] = true
+			}
+			next := slices.DeleteFunc(slices.Clone(a.seq), func(i int32) bool { return out[i] })
+			if len(next) < minPoints {
+				break
+			}
+			slices.Sort(next)
+			if !slices.Equal(next, sel) {
+				sel = next
+				in := make([]bool, len(pts))
+				for _, i := range sel {
+					in[i] = true
+				}
+				var left []int32
+				for i := range int32(len(pts)) {
+					if !in[i] {
+						left = append(left, i)
+					}
+				}
+				rest = nil
+				if len(left) > 0 {
+					rest = [][]int32{left}
+				}
+				continue
+			}
+			// The first pass kept exactly the points it ordered (none
+			// dropped, none put back): the second would order them in the
+			// same frame with the same points waiting outside, and find
+			// what the first found.
+		}
+		{
 			if len(a.seq) > len(seq) {
 				// Points put back went in where they project onto the
 				// loop's polygon, which near a thin edge may be the other
@@ -405,32 +440,6 @@ func (cl *cleaning) bySection(opts Options, sigma float64) *attempt {
 				a.seq, _ = sc.byFeet(pts, a.seq, a.feet, a.hasFeet)
 			}
 			break
-		}
-		// The second pass orders the points the first kept; the others
-		// wait outside the loop.
-		out := make(map[int32]bool, len(a.hits))
-		for _, h := range a.hits {
-			out[h.idx] = true
-		}
-		next := slices.DeleteFunc(slices.Clone(a.seq), func(i int32) bool { return out[i] })
-		if len(next) < minPoints {
-			break
-		}
-		slices.Sort(next)
-		sel = next
-		in := make([]bool, len(pts))
-		for _, i := range sel {
-			in[i] = true
-		}
-		var left []int32
-		for i := range int32(len(pts)) {
-			if !in[i] {
-				left = append(left, i)
-			}
-		}
-		rest = nil
-		if len(left) > 0 {
-			rest = [][]int32{left}
 		}
 	}
 	return a

@@ -829,13 +829,16 @@ func fastDist(p, q geometry.Point) float64 {
 
 // median returns the median of xs, reordering xs. It selects rather than
 // sorts: the value is the one a full sort would give (NaN ordered first,
-// as slices.Sort orders it), at linear expected cost.
+// as slices.Sort orders it), at linear expected cost; up to 16 values ≥ 0
+// (the residuals of a local fit's window) go through a sorting network.
 func median(xs []float64) float64 {
 	n := len(xs)
 	if n == 0 {
 		return 0
 	}
-	if n <= 32 {
+	if n <= 16 && sortNonNegative(xs) {
+		// Sorted by a network, without a branch on the values.
+	} else if n <= 32 {
 		// Insertion sort; with no NaN among them, cmp.Less is <.
 		plain := true
 		for _, x := range xs {

@@ -30,6 +30,19 @@ const (
 	fairFlat = 0.5
 	// fairSamples is the number of curvature samples per piece.
 	fairSamples = 4
+	// fairSag is the bulge of a lobe (the largest distance of the curve
+	// from the chord across it), in units of the noise, beyond which the
+	// lobe is shape the points carry rather than a wiggle: noise that a
+	// fit leaves in the curve bulges by a fraction of the noise (it is
+	// averaged over the points along the lobe), while a section's own
+	// short lobe (the lower surface of a thin section with its camber
+	// forward, as NACA 23008 between 6 % and 16 % of the chord) bulges by
+	// tens of times the noise of a good scan, and smoothing it away
+	// leaves the curve that far off the points.
+	fairSag = 2
+	// fairSagSamples is the number of points at which a lobe's bulge is
+	// measured.
+	fairSagSamples = 16
 )
 
 // Fairness measures the fairness of a curve.
@@ -69,8 +82,10 @@ func curvatureSamples(cv *Curve) []curvatureSample {
 
 // MeasureFairness returns the fairness of cv. T, when not nil, gives the
 // feature scale at arc length s; nil measures lobes against
-// fairLobeMax of the length only.
-func MeasureFairness(cv *Curve, T func(s float64) float64) Fairness {
+// fairLobeMax of the length only. noise, when positive, is the noise of
+// the points the curve was fitted to: a lobe that bulges by more than
+// fairSag times it is not counted as a wiggle.
+func MeasureFairness(cv *Curve, T func(s float64) float64, noise float64) Fairness {
 	ks := curvatureSamples(cv)
 	L := cv.Length()
 	var f Fairness
@@ -144,6 +159,9 @@ func MeasureFairness(cv *Curve, T func(s float64) float64) Fairness {
 	}
 	wiggle := func(a, b float64) bool {
 		m := fairLobeMax * L
+		if noise > 0 && lobeSag(cv, a, b, wrap) > fairSag*noise {
+			return false
+		}
 		if T == nil {
 			return b-a < m
 		}
@@ -165,4 +183,22 @@ func MeasureFairness(cv *Curve, T func(s float64) float64) Fairness {
 		}
 	}
 	return f
+}
+
+// lobeSag returns the largest distance of cv between arc positions a and
+// b (wrapped onto the curve by wrap) from the straight line through its
+// points there.
+func lobeSag(cv *Curve, a, b float64, wrap func(float64) float64) float64 {
+	p, q := cv.At(wrap(a)), cv.At(wrap(b))
+	d := q.Sub(p)
+	l := math.Hypot(d.X, d.Y)
+	if !(l > 0) {
+		return 0
+	}
+	var worst float64
+	for k := 1; k < fairSagSamples; k++ {
+		r := cv.At(wrap(a + (b-a)*float64(k)/fairSagSamples)).Sub(p)
+		worst = math.Max(worst, math.Abs(d.X*r.Y-d.Y*r.X)/l)
+	}
+	return worst
 }

@@ -1070,7 +1070,7 @@ func passes(fp fitPoints, open, freeEnds bool, opts FitOptions, st *smoothState,
 				rep.FairSteps--
 				break
 			}
-			fr := MeasureFairness(fromFit(prob, f, !open), Tat)
+			fr := MeasureFairness(fromFit(prob, f, !open), Tat, sigma)
 			lobes := fr.lobes
 			if len(lobes) == 0 {
 				break
@@ -1113,7 +1113,7 @@ func passes(fp fitPoints, open, freeEnds bool, opts FitOptions, st *smoothState,
 	rep.Lambda, rep.EffectiveParams, rep.Smoothing = lambda, f.trace, betaOfLambda(lambda, mean)
 	st.final = newResampler(prob, f, xs, ys, lambda, sigma*math.Sqrt(tau), open, freeEnds)
 	cv := fromFit(prob, f, !open)
-	rep.Fairness = MeasureFairness(cv, Tat)
+	rep.Fairness = MeasureFairness(cv, Tat, sigma)
 	return cv, nil
 }
 
