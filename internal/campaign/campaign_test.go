@@ -74,15 +74,49 @@ func TestCampaign(t *testing.T) {
 	if !strict {
 		t.Logf("targets not yet met not asserted: set %s=1", StrictEnv)
 	}
+	// Floors below the targets that the chain holds on the harder
+	// generator (measured on the suite's seeds and on seeds 50001 and
+	// 60001, 300 cases each, with a margin), so that a change that loses
+	// ground fails the suite before the targets are met.
+	if n >= 300 {
+		var ok, wrong, planted, caught int
+		for _, r := range recs {
+			if r.OK {
+				ok++
+				planted += r.Planted
+				caught += r.Caught
+				if r.Wrong != "" {
+					wrong++
+				}
+			}
+		}
+		if s := share(ok, n); s < floorOK {
+			t.Errorf("prep succeeds on %.1f %% of the cases, below the floor %.0f %%", 100*s, 100*floorOK)
+		}
+		if s := share(wrong, ok); s > floorWrong {
+			t.Errorf("%.1f %% of the successes are wrong beyond their stated uncertainty, above the ceiling %.0f %%", 100*s, 100*floorWrong)
+		}
+		if s := share(caught, planted); s < floorCaught {
+			t.Errorf("%.2f %% of the planted outliers caught, below the floor %.0f %%", 100*s, 100*floorCaught)
+		}
+	}
 }
+
+// The floors of TestCampaign: measured 95.0–96.7 % success, 3.1–5.6 %
+// wrong among the successes (after the main line's mirror rule; 3.1–3.8 %
+// before it) and 97.5–98.8 % of the planted outliers caught.
+const (
+	floorOK     = 0.93
+	floorWrong  = 0.07
+	floorCaught = 0.97
+)
 
 // metFigures names the figures of the table (Figure.Name) that the chain
 // meets on the suite's seeds and on fresh ones (scripts/campaign.sh), so
-// that the normal suite asserts them. The harder generator (thin, thick
+// that the normal suite asserts them. On the harder generator (thin, thick
 // and cusped sections, stair-stepped and overlapping scans, 60-point
-// files) took "prep succeeds, all", the well-sampled node error and the
-// good points dropped below their targets; they return here when the
-// chain meets them again.
-var metFigures = map[string]bool{
-	"planted outliers caught": true,
-}
+// files) the chain meets none of them on every seed: "prep succeeds,
+// all" reaches 95–97 %, the planted outliers caught 97.5–98.8 %, the good
+// points dropped 0.29–0.57 % at the 95th percentile. A figure returns here
+// when the chain meets it again on the suite's seeds and two fresh ones.
+var metFigures = map[string]bool{}
