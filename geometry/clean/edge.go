@@ -343,6 +343,9 @@ type edgeFound struct {
 	misfit float64
 	// scat is the scatter the models were scored in (chord units).
 	scat float64
+	// gapRatio is the longest gap round the end over the spacing either
+	// side (endGap).
+	gapRatio float64
 }
 
 // edgeOutlier is the misfit, in scatters, beyond which a point of the end
@@ -411,6 +414,92 @@ func findEdge(pts []geometry.Point, seq []int32, sigma float64) (edgeFound, bool
 // wins over a blunt one (a likelihood ratio of e, positive evidence on
 // the usual scale of Bayes factors, common practice).
 const edgeEvidence = 2
+
+// edgeArcMin is the least number of points on its arc for which a
+// rounded end is stated: fewer fit a base or a corner alike.
+const edgeArcMin = 3
+
+// onEnd returns the number of the zone points z, outliers (out) left out,
+// that the model places on the piece joining the surfaces, a point within
+// tol of a surface counting as the surface's (as apply places them).
+func (m *endModel) onEnd(u, l quadFit, z []geometry.Point, out []bool, tol float64) int {
+	k := 0
+	for j, p := range z {
+		if !out[j] && m.side(u, l, p, tol) == 0 {
+			k++
+		}
+	}
+	return k
+}
+
+// edgeGapK is how many times the mean spacing of the points either side
+// the gap round the end must exceed before the end counts as unsampled:
+// the gap that holds a given spot is longer than five mean steps in about
+// 4 % of cases for points at random (Poisson: (1 + 5) e^−5), about 5 %
+// for log-normal steps of σ 0.8 (our choice: a gap this long is more
+// likely a stretch the measurement missed).
+const edgeGapK = 5
+
+// endGap returns the gap of the loop (as apply leaves it: the nu zone
+// points of the upper surface first, the nl of the lower surface and the
+// end last) that holds the trailing-edge point tip, the distance between
+// the neighbouring points whose segment passes nearest to it, over the
+// mean distance between neighbours round the end: those of the zone and
+// gapSteps beyond it either side, the longest of them left out (a
+// stretch missed there too). 0 when it cannot tell.
+func endGap(pts []geometry.Point, loop []int32, nu, nl int, tip geometry.Point) float64 {
+	n := len(loop)
+	at := func(k int) geometry.Point { return pts[loop[((k%n)+n)%n]] }
+	if nu+nl+2*gapSteps+2 >= n {
+		return 0
+	}
+	g, gd := 0.0, math.Inf(1)
+	var sum, top float64
+	k0, k1 := -nl-1-gapSteps, nu+gapSteps
+	for k := k0; k < k1; k++ {
+		a, b := at(k), at(k+1)
+		d := a.Dist(b)
+		sum += d
+		top = max(top, d)
+		if k >= -nl-1 && k < nu {
+			if e := segmentDist(tip, a, b); e < gd {
+				g, gd = d, e
+			}
+		}
+	}
+	h := (sum - top) / float64(k1-k0-1)
+	if !(h > 0) {
+		return 0
+	}
+	return g / h
+}
+
+// gapSteps is the number of gaps either side whose mean endGap takes.
+const gapSteps = 4
+
+// openEnd widens the spread of the winning model when the points leave
+// the end unsampled (ratio, see endGap, beyond edgeGapK): the section may
+// end anywhere from a base through the aftmost point (xmax) to the corner
+// where the surfaces, carried on, meet, whatever the scores say (a missed
+// stretch of the outline is no sample of the end).
+func (m *endModel) openEnd(u, l quadFit, xmax, ratio float64) bool {
+	if !(ratio > edgeGapK) {
+		return false
+	}
+	bx, by := m.tipX(), m.tipY()
+	widen := func(x, y float64) {
+		m.spread = max(m.spread, math.Abs(x-bx))
+		m.spreadY = max(m.spreadY, math.Abs(y-by))
+	}
+	widen(xmax, (u.at(xmax)+l.at(xmax))/2)
+	if xc, ok := crossing(u, l, xmax, xmax, xmax+edgeCross); ok {
+		widen(xc, u.at(xc))
+	}
+	if edgeTrace != nil {
+		edgeTrace("open end: gap %.3g mean steps, spread %.4g across %.4g", ratio, m.spread, m.spreadY)
+	}
+	return true
+}
 
 // edgePoor is the mean squared misfit of the zone points, in scatters, of
 // the best end model beyond which findEdge looks at the other end too (a
@@ -550,7 +639,11 @@ func findEdgeIn(pts []geometry.Point, seq []int32, sigma float64, f chordFrame) 
 			}
 		}
 	}
-	return best.apply(pts, seq, f, u, l, zpos, z, out, scat, step)
+	r, ok := best.apply(pts, seq, f, u, l, zpos, z, out, scat, step)
+	if ok && best.openEnd(u, l, xmax, r.gapRatio) {
+		r.edge.Spread, r.edge.SpreadAcross = best.spread*f.chord, best.spreadY*f.chord
+	}
+	return r, ok
 }
 
 // chooseEnd fits the three end models to the zone points z and returns the
@@ -674,22 +767,51 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, pstep, scat float64
 	for k := range models {
 		models[k].score = models[k].misfit(u, l, z, scat, edgeOutlier, out) + models[k].extra
 	}
-	// A rounded end must beat a blunt one by edgeEvidence: an end sampled
-	// by a point or two fits a base and an arc alike, and the base is the
-	// more common end of a measured or drawn section (common practice).
-	best := models[0]
-	for _, m := range models[1:] {
-		margin := 0.0
-		if m.kind == EdgeRounded && best.kind == EdgeBlunt {
-			margin = edgeEvidence
-		}
-		if best.kind == EdgeRounded && m.kind == EdgeBlunt {
-			margin = -edgeEvidence
-		}
-		if m.score+margin < best.score {
-			best = m
+	// A rounded end with fewer than edgeArcMin points on its arc must beat
+	// a blunt one by edgeEvidence: an end sampled by a point or two fits a
+	// base and an arc alike, and the base is the more common end of a
+	// measured or drawn section (common practice). With more, the scores
+	// decide.
+	//
+	// An arc with no point on it is not chosen at all, and one with fewer
+	// than edgeArcMin never wins over a sharp corner: a circle tangent to
+	// both surfaces through one or two points fits a corner as well, and
+	// the points show no turning end (either still counts among the
+	// plausible ends for the spread below).
+	arcPts := make([]int, len(models))
+	for k := range models {
+		if models[k].kind == EdgeRounded {
+			arcPts[k] = models[k].onEnd(u, l, z, out, max(scat, snapTol(scat, step)))
 		}
 	}
+	eligible := func(k int) bool { return models[k].kind != EdgeRounded || arcPts[k] > 0 }
+	bk := 0
+	for k := range models {
+		if eligible(k) {
+			bk = k
+			break
+		}
+	}
+	for k, m := range models {
+		if !eligible(k) || k == bk {
+			continue
+		}
+		b := models[bk]
+		if m.kind == EdgeRounded && arcPts[k] < edgeArcMin && b.kind == EdgeSharp {
+			continue
+		}
+		margin := 0.0
+		if m.kind == EdgeRounded && b.kind == EdgeBlunt && arcPts[k] < edgeArcMin {
+			margin = edgeEvidence
+		}
+		if b.kind == EdgeRounded && m.kind == EdgeBlunt && arcPts[bk] < edgeArcMin {
+			margin = -edgeEvidence
+		}
+		if m.score+margin < b.score {
+			bk = k
+		}
+	}
+	best := models[bk]
 	for _, m := range models {
 		if m.score <= best.score+edgePlausible {
 			bx := best.tipX()
@@ -988,6 +1110,7 @@ func (m endModel) apply(pts []geometry.Point, seq []int32, f chordFrame, u, l qu
 	for _, p := range end {
 		out = append(out, seq[zpos[p.k]])
 	}
+	gr := endGap(pts, out, len(upper), len(lower)+len(end), f.point(m.tipX(), m.tipY()))
 	e := Edge{Kind: m.kind, Chord: f.chord, Spread: m.spread * f.chord, SpreadAcross: m.spreadY * f.chord}
 	switch m.kind {
 	case EdgeSharp:
@@ -1004,7 +1127,7 @@ func (m endModel) apply(pts []geometry.Point, seq []int32, f chordFrame, u, l qu
 			at := slices.Index(out, seq[zpos[near]])
 			e.Upper = pts[out[at]]
 			e.Lower = e.Upper
-			return m.found(rotateTo(out, at), e, pts, seq, u, l, zpos, z, outl, scat, f), true
+			return m.found(rotateTo(out, at), e, pts, seq, u, l, zpos, z, outl, scat, f).withGap(gr), true
 		}
 		p := f.point(m.corner.X, m.corner.Y)
 		e.Upper, e.Lower, e.Reconstructed = p, p, true
@@ -1013,7 +1136,7 @@ func (m endModel) apply(pts []geometry.Point, seq []int32, f chordFrame, u, l qu
 		if last := out[len(out)-1]; pts[last].Dist(p) < pts[out[0]].Dist(p) {
 			out = rotateTo(out, len(out)-1)
 		}
-		return m.found(out, e, pts, seq, u, l, zpos, z, outl, scat, f), true
+		return m.found(out, e, pts, seq, u, l, zpos, z, outl, scat, f).withGap(gr), true
 	case EdgeBlunt:
 		e.Upper, e.Lower, e.Reconstructed = f.point(m.hi.X, m.hi.Y), f.point(m.lo.X, m.lo.Y), true
 		e.Thickness = m.hi.Dist(m.lo) * f.chord
@@ -1034,7 +1157,7 @@ func (m endModel) apply(pts []geometry.Point, seq []int32, f chordFrame, u, l qu
 		} else {
 			e.Why = fmt.Sprintf("%d point(s) lie on a straight base %.3g chord across the end", e.Base, m.hi.Dist(m.lo))
 		}
-		return m.found(out, e, pts, seq, u, l, zpos, z, outl, scat, f), true
+		return m.found(out, e, pts, seq, u, l, zpos, z, outl, scat, f).withGap(gr), true
 	default:
 		e.Thickness = m.tu.Dist(m.tl) * f.chord
 		e.Why = fmt.Sprintf("%d point(s) lie on an arc of radius %.3g chord round the end", len(end), m.r)
@@ -1054,7 +1177,7 @@ func (m endModel) apply(pts []geometry.Point, seq []int32, f chordFrame, u, l qu
 				}
 			}
 		}
-		return m.found(rotateTo(out, slices.Index(out, seq[zpos[k]])), e, pts, seq, u, l, zpos, z, outl, scat, f), true
+		return m.found(rotateTo(out, slices.Index(out, seq[zpos[k]])), e, pts, seq, u, l, zpos, z, outl, scat, f).withGap(gr), true
 	}
 }
 
@@ -1077,6 +1200,12 @@ func (m endModel) found(loop []int32, e Edge, pts []geometry.Point, seq []int32,
 			r.outliers = append(r.outliers, hit{idx: seq[k], reason: "outlier", dist: d * f.chord, sigmas: d / scat})
 		}
 	}
+	return r
+}
+
+// withGap returns r with its gapRatio set to g.
+func (r edgeFound) withGap(g float64) edgeFound {
+	r.gapRatio = g
 	return r
 }
 

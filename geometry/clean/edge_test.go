@@ -100,3 +100,97 @@ func TestEdgeUnsampledSharpCorner(t *testing.T) {
 		t.Errorf("%d of 8 unsampled sharp corners not rebuilt within 0.002 chord", misses)
 	}
 }
+
+// nacaArcStations returns k stations evenly spaced in arc length along
+// the outline of foil (NACA Report 824 equations) from the upper
+// trailing-edge corner over the nose to the lower one, both corners
+// included, through a dense polyline of the outline.
+func nacaArcStations(foil shape.NACA4, k int) []geometry.Point {
+	const m = 4000
+	var dense []geometry.Point
+	for i := m; i >= 0; i-- {
+		dense = append(dense, foil.Upper(0.5*(1-math.Cos(math.Pi*float64(i)/m))))
+	}
+	for i := 1; i <= m; i++ {
+		dense = append(dense, foil.Lower(0.5*(1-math.Cos(math.Pi*float64(i)/m))))
+	}
+	s := make([]float64, len(dense))
+	for i := 1; i < len(dense); i++ {
+		s[i] = s[i-1] + dense[i].Dist(dense[i-1])
+	}
+	var out []geometry.Point
+	j := 0
+	for i := range k {
+		want := s[len(s)-1] * float64(i) / float64(k-1)
+		for j+1 < len(s)-1 && s[j+1] < want {
+			j++
+		}
+		t := (want - s[j]) / (s[j+1] - s[j])
+		out = append(out, dense[j].Add(dense[j+1].Sub(dense[j]).Scale(t)))
+	}
+	return out
+}
+
+// A CAD export of a NACA 0012 with its open trailing edge (NACA Report
+// 824), 41 stations evenly along the outline, both corners of the base
+// among them and no point between: a rounded end with no point on its arc
+// must not be stated (the points show a base, or at most a corner).
+func TestEdgeNoArcWithoutPoints(t *testing.T) {
+	for _, k := range []int{41, 45, 51} {
+		pts := nacaArcStations(shape.NACA4{Thickness: 0.12}, k)
+		for i := range pts {
+			pts[i] = pts[i].Scale(96).Rotate(0.05)
+		}
+		_, rep, err := Clean(edgeTestCloud(pts), Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if rep.Edge == nil || rep.Edge.Kind == EdgeRounded {
+			why := "no edge"
+			if rep.Edge != nil {
+				why = rep.Edge.Kind + ": " + rep.Edge.Why
+			}
+			t.Errorf("%d stations: %s, want a blunt or sharp edge", k, why)
+		}
+	}
+}
+
+// A sharp NACA 0012 (closed-edge coefficient, NACA Report 824) scanned
+// densely, 0.001 chord between points, but with the last 0.03 chord of
+// outline either side of the corner missed (a scanner's grazing gap):
+// the surfaces end 0.008 chord apart with nothing between them, which
+// the points fit as a base as well as a corner they never reached. The
+// edge must not claim to know which: its spread reaches the corner.
+func TestEdgeMissedEndSpread(t *testing.T) {
+	foil := shape.NACA4{Thickness: 0.12, SharpTE: true}
+	const chord = 150.0
+	all := nacaArcStations(foil, 2040)
+	var pts []geometry.Point
+	var s float64
+	total := 0.0
+	for i := 1; i < len(all); i++ {
+		total += all[i].Dist(all[i-1])
+	}
+	for i, p := range all {
+		if i > 0 {
+			s += p.Dist(all[i-1])
+		}
+		if s < 0.03 || s > total-0.03 {
+			continue
+		}
+		pts = append(pts, p.Scale(chord))
+	}
+	_, rep, err := Clean(edgeTestCloud(pts), Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	e := rep.Edge
+	if e == nil {
+		t.Fatal("no trailing edge found")
+	}
+	tip := e.Upper.Add(e.Lower).Scale(0.5)
+	miss := chord - tip.X // the corner is at (chord, 0)
+	if e.Spread < 0.8*miss {
+		t.Errorf("%s edge (%s) ends %.3g mm short of the corner, spread %.3g mm: want at least %.3g mm", e.Kind, e.Why, miss, e.Spread, 0.8*miss)
+	}
+}
