@@ -5,6 +5,7 @@
 //
 //	go run ./internal/campaign/cmd/campaign -n 2000 -seed 1 -dump /tmp/bad
 //	go run ./internal/campaign/cmd/campaign -case 1234
+//	go run ./internal/campaign/cmd/campaign -n 100 -category lift
 //
 // Every scan is invented data, never measured. The exit status is 0 even
 // when targets are missed (it measures); 2 on bad usage or a generator
@@ -17,10 +18,12 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 	"time"
 
 	"github.com/foilwright/foilwright/internal/campaign"
+	"github.com/foilwright/foilwright/internal/scangen"
 )
 
 func main() {
@@ -31,6 +34,7 @@ func main() {
 	one := flag.Uint64("case", 0, "run one case by its seed and print everything about it")
 	top := flag.Int("top", 15, "lines of each failure histogram")
 	quiet := flag.Bool("quiet", false, "no progress lines")
+	category := flag.String("category", "", "run only cases of this category (one of "+strings.Join(scangen.Categories(), ", ")+"): the first N seeds from -seed on that draw it")
 	flag.Parse()
 	if flag.NArg() > 0 || *n <= 0 {
 		flag.Usage()
@@ -39,9 +43,10 @@ func main() {
 	if *one != 0 {
 		os.Exit(runOne(*one))
 	}
-	seeds := make([]uint64, *n)
-	for i := range seeds {
-		seeds[i] = *seed + uint64(i)
+	seeds, err := pickSeeds(*seed, *n, *category)
+	if err != nil {
+		fmt.Fprintln(os.Stderr, "campaign:", err)
+		os.Exit(2)
 	}
 	opts := campaign.Options{Workers: *workers, Every: 200}
 	if !*quiet {
@@ -74,6 +79,22 @@ func main() {
 		}
 		fmt.Printf("\nfiles of the bad cases and %s/repro.txt written\n", *dump)
 	}
+}
+
+// pickSeeds returns n seeds from seed on: every one, or with a category
+// only those whose case draws it (drawing a spec is cheap; the scan is
+// generated later).
+func pickSeeds(seed uint64, n int, category string) ([]uint64, error) {
+	if category != "" && !slices.Contains(scangen.Categories(), category) {
+		return nil, fmt.Errorf("-category %q: want one of %s", category, strings.Join(scangen.Categories(), ", "))
+	}
+	seeds := make([]uint64, 0, n)
+	for s := seed; len(seeds) < n; s++ {
+		if category == "" || scangen.Draw(s).Category == category {
+			seeds = append(seeds, s)
+		}
+	}
+	return seeds, nil
 }
 
 // runOne runs one case and prints its spec, truth frame and record.
