@@ -1081,6 +1081,13 @@ func passes(fp fitPoints, open, freeEnds bool, opts FitOptions, st *smoothState,
 			}
 			fr := MeasureFairness(fromFit(prob, f, !open), Tat)
 			lobes := fr.lobes
+			if step < dipSteps {
+				// Dips of the curvature round the nose get a few
+				// steps only: where the points cannot tell a dip from
+				// the shape (a sparse, rounded end), smoothing on would
+				// take the curve off them.
+				lobes = append(lobes[:len(lobes):len(lobes)], fr.dips...)
+			}
 			if len(lobes) == 0 {
 				break
 			}
@@ -1146,6 +1153,10 @@ const (
 	fairSteps = 16
 	// fairFloor is the least share of its weight a point keeps.
 	fairFloor = 1e-8
+	// dipSteps is the most steps the guard takes for dips of the
+	// curvature (Fairness.Ripples): their weights fall to no less than an
+	// eighth.
+	dipSteps = 3
 )
 
 // reparametrise returns the arc lengths of the feet of the points on cv
