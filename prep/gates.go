@@ -21,6 +21,9 @@ const (
 	GateTEAngle  = "trailing-edge angle"        // the surfaces meet at a plausible angle
 	GateFit      = "fit within the scatter"     // the curve stays within the points' scatter
 	GateEdges    = "leading and trailing edges" // the edges could be located at all
+	GateSpan     = "surfaces span the chord"    // both surfaces run from the leading edge to the trailing edge
+	GateThinEnd  = "thin end aft"               // the section is thicker near its leading edge than near its trailing edge
+	GateKink     = "no kink"                    // the outline turns smoothly away from its trailing edge
 )
 
 // Limits of the gates.
@@ -30,6 +33,22 @@ const (
 	gateBack    = 2e-3 // ... this much of the chord, and elsewhere by this
 	gateTEAngle = 90   // degrees: the largest plausible trailing-edge angle
 	gateFitRMS  = 10   // the fit's RMS residual may exceed the points' scatter this many times
+	// The thicknesses compared by the thin-end gate, at gateThinFore and
+	// gateThinAft of the chord: every section of the campaign's families
+	// (NACA 4- and 5-digit and 4-digit-modified, Report 824 and Abbott and
+	// von Doenhoff; flat-bottomed; Kármán–Trefftz; rounded ends up to 1 %
+	// of the chord) is at least twice as thick at 5 % as at 95 %, by
+	// their equations; a section whose edges were swapped is the reverse.
+	gateThinFore = 0.05
+	gateThinAft  = 0.95
+	// A fitted curve is smooth (its spline has continuous curvature), so
+	// neighbouring panels of the repanelled section turn by a few degrees
+	// at most; a turn beyond gateKinkDeg between gateKinkFrom and
+	// gateKinkTo of the chord is a fold of points taken in the wrong
+	// order (our choice of limits: the trailing edge may hold a corner).
+	gateKinkDeg  = 45
+	gateKinkFrom = 0.01
+	gateKinkTo   = 0.9
 )
 
 // GateError reports a section that failed a gate under every way of
@@ -123,12 +142,78 @@ func (p *Preparation) checkGates(nodes []geometry.Point, le int) *GateError {
 			Where:  nearestOrigin(p.Contour, toPart(geometry.Point{X: 1})),
 			Advice: "the trailing edge was probably found in the wrong place: set the leading edge with --le-at X,Y"}
 	}
+	// No kink away from the trailing edge: a smooth curve repanelled turns
+	// little from panel to panel.
+	for k := 1; k+1 < len(nodes); k++ {
+		a, b, c := nodes[k-1], nodes[k], nodes[k+1]
+		if b.X <= gateKinkFrom || b.X >= gateKinkTo {
+			continue
+		}
+		u, v := b.Sub(a), c.Sub(b)
+		turn := math.Abs(math.Atan2(u.X*v.Y-u.Y*v.X, u.X*v.X+u.Y*v.Y)) * 180 / math.Pi
+		if turn > gateKinkDeg {
+			return &GateError{Gate: GateKink, Seen: fmt.Sprintf("the outline turns %.0f° between neighbouring panels at x = %.3f", turn, b.X),
+				Where:  nearestOrigin(p.Contour, toPart(b)),
+				Advice: "the outline folds there: the points may be out of order (surfaces close together at a thin edge, passes that overlap), or points of another part lie among them; look at them (points --plot)"}
+		}
+	}
+	// The thin end is aft: a section whose leading and trailing edges were
+	// swapped (a sharp corner taken for the nose) is thicker aft.
+	if fore, aft := thicknessAt(nodes, le, gateThinFore), thicknessAt(nodes, le, gateThinAft); fore > 0 && aft > fore {
+		return &GateError{Gate: GateThinEnd, Seen: fmt.Sprintf("the section is %.3g chord thick at %.0f %% of the chord and %.3g at %.0f %%: thicker aft than at the nose", fore, 100*gateThinFore, aft, 100*gateThinAft),
+			Where:  nearestOrigin(p.Contour, toPart(geometry.Point{X: 1})),
+			Advice: "the leading and trailing edges were probably swapped: set the leading edge with --le-at X,Y"}
+	}
 	if scat := max(p.Clean.Sigma, p.Fit.Scatter, p.Fit.NoiseEstimate); scat > 0 && p.Fit.RMS > gateFitRMS*scat {
 		return &GateError{Gate: GateFit, Seen: fmt.Sprintf("the fitted curve departs from the points by %.3g RMS, %.0f times their scatter %.3g", p.Fit.RMS, p.Fit.RMS/scat, scat),
 			Where:  p.Fit.MaxAt,
 			Advice: "the points may not lie on one smooth outline in the order found: look at them (points --plot)"}
 	}
 	return nil
+}
+
+// thicknessAt returns the distance across the section at chord station
+// x, perpendicular to the chord line: the upper surface (nodes 0..le) less
+// the lower (le..end), each interpolated linearly at x; 0 when either
+// surface does not reach x.
+func thicknessAt(nodes []geometry.Point, le int, x float64) float64 {
+	at := func(ps []geometry.Point) (float64, bool) {
+		for k := 1; k < len(ps); k++ {
+			a, b := ps[k-1], ps[k]
+			if (a.X-x)*(b.X-x) <= 0 && a.X != b.X {
+				return a.Y + (b.Y-a.Y)*(x-a.X)/(b.X-a.X), true
+			}
+		}
+		return 0, false
+	}
+	if le <= 0 || le >= len(nodes)-1 {
+		return 0
+	}
+	yu, okU := at(nodes[:le+1])
+	yl, okL := at(nodes[le:])
+	if !okU || !okL {
+		return 0
+	}
+	return yu - yl
+}
+
+// spanGate is the failure of a section whose surfaces do not both run
+// from the leading edge to the trailing edge (props.ErrNotNormalized):
+// the loop was cut open in the wrong place, so one surface ends short.
+// It names the point nearest to the end that falls short.
+func spanGate(p *Preparation, err error) *GateError {
+	g := &GateError{Gate: GateSpan, Seen: "the outline found does not run from the trailing edge round the nose and back (" + strings.TrimPrefix(err.Error(), "geometry: ") + ")",
+		Advice: "the loop was cut open in the wrong place, often where one surface is sampled far more densely than the other or two passes meet: set the leading edge with --le-at X,Y, or look at the points (points --plot)"}
+	if path := p.Shape.Path; path != nil && path.Length() > 0 {
+		fr := p.Shape.Frame
+		a, b := path.At(0), path.At(path.Length())
+		end := a
+		if b.X < a.X {
+			end = b
+		}
+		g.Where = nearestOrigin(p.Contour, geometry.Point(fr.ToPart(end)))
+	}
+	return g
 }
 
 // extent returns the largest distance between two points of pts, found by
@@ -169,11 +254,13 @@ func extent(pts []geometry.Point) float64 {
 func orderings(strategy string) []string {
 	switch strategy {
 	case clean.OrderSection:
-		return []string{clean.OrderLinked, clean.OrderBand}
-	case clean.OrderLinked, clean.OrderFile:
+		return []string{clean.OrderLinked, clean.OrderBand, clean.OrderFile}
+	case clean.OrderLinked:
+		return []string{clean.OrderSection, clean.OrderFile}
+	case clean.OrderFile:
 		return []string{clean.OrderSection}
 	case clean.OrderBand:
-		return []string{clean.OrderSection, clean.OrderLinked}
+		return []string{clean.OrderSection, clean.OrderLinked, clean.OrderFile}
 	}
 	return nil
 }

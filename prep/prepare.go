@@ -234,6 +234,12 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 	po := props.Options{Thickness: s.ThicknessMode, Camber: s.CamberMode, Noise: p.Fit.NoiseEstimate / p.Shape.Frame.Chord}
 	if _, err := section.CheckNodes(nodes); err == nil {
 		if p.Props, p.Camber, err = props.Compute(p.Shape.Path, p.Shape.SLE, po); err != nil {
+			if errors.Is(err, props.ErrNotNormalized) {
+				// The section found does not span the chord from its
+				// leading edge to both ends: a gate, so that the other
+				// ways are tried.
+				return nil, spanGate(p, err)
+			}
 			return nil, fmt.Errorf("%s: %w", where, err)
 		}
 	}
@@ -300,6 +306,14 @@ func (p *Preparation) fit(cl *Cleaned, s Settings, useEdge bool) error {
 	}
 	cv, rep, err := curve.Fit(cl.Contour, fo)
 	if err != nil {
+		if !errors.Is(err, geometry.ErrTooFewPoints) && !errors.Is(err, geometry.ErrNonFinite) && !errors.Is(err, geometry.ErrCollinear) {
+			// The points passed the fit's checks but its equations could
+			// not be solved in this order (points that double back on
+			// themselves, as a stair-stepped scan's can): a gate, so that
+			// the other ways are tried.
+			return &GateError{Gate: GateFit, Seen: "the smoothing fit could not be solved (" + strings.TrimPrefix(err.Error(), "geometry: ") + ")",
+				Advice: "the points may double back along the outline (stair-stepped or rounded coordinates, two passes apart): give the measurement noise with --noise, or look at them (points --plot)"}
+		}
 		return fmt.Errorf("%s: %w", strings.Join(cl.Files, ", "), err)
 	}
 	p.Curve, p.Fit = cv, rep

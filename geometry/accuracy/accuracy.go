@@ -255,12 +255,14 @@ func maxDistance(qs, poly []geometry.Point, ratio int) float64 {
 			dd := dx*dx + dy*dy
 			t := 0.0
 			if dd > 0 {
-				t = math.Max(0, math.Min(1, (px*dx+py*dy)/dd))
+				// The built-in min and max are math.Min and math.Max
+				// (NaN, ±0 and infinities alike), inline.
+				t = max(0, min(1, (px*dx+py*dy)/dd))
 			}
 			ex, ey := px-t*dx, py-t*dy
-			best = math.Min(best, ex*ex+ey*ey)
+			best = min(best, ex*ex+ey*ey)
 		}
-		worst2 = math.Max(worst2, best)
+		worst2 = max(worst2, best)
 	}
 	return math.Sqrt(worst2)
 }

@@ -157,6 +157,16 @@ func (cl *cleaning) arrange(opts Options, sigma float64) (*attempt, error) {
 	if a := cl.byBandLoops(opts, sigma); pass(a) {
 		return finish(a)
 	}
+	if cl.fileOrder && !cl.c.Ordered {
+		// Last, the order of a file that declares none but walks the
+		// outline (looksOrdered): a sparse exact polyline whose stations
+		// crowd at a thin trailing edge can defeat every reconstruction.
+		a := cl.fromFile(opts, sigma)
+		cl.rep.Reordered = "" // not the user's order to keep
+		if pass(a) {
+			return finish(a)
+		}
+	}
 	cl.rep.Refused = refused
 	if len(loops) == 0 {
 		return nil, fmt.Errorf("geometry: clean: %w: %d points form no closed loop (%s)", geometry.ErrNoLoop, len(cl.pts), strings.Join(refused, "; "))
@@ -169,7 +179,7 @@ func (cl *cleaning) only(opts Options, sigma float64) (*attempt, error) {
 	var a *attempt
 	switch opts.Order {
 	case OrderFile:
-		if !cl.c.Ordered {
+		if !cl.fileOrder {
 			return nil, fmt.Errorf("geometry: clean: %w: the file's own order was asked for, but the points come in no order", geometry.ErrNoLoop)
 		}
 		a = cl.fromFile(opts, sigma)
@@ -268,10 +278,36 @@ func substantial(pts []geometry.Point, loops [][]int32, diag float64) int {
 // fromFile tries the file's own runs as the loops.
 func (cl *cleaning) fromFile(opts Options, sigma float64) *attempt {
 	c, pts, src := cl.c, cl.pts, cl.src
-	runs := runsOf(c, src)
-	if a, b, ok := runsValid(pts, runs, cl.nb); !ok {
-		cl.rep.Reordered = fmt.Sprintf("the step from %s to %s jumps %.3g, beyond the points' neighbourhoods", c.Origins[src[a]], c.Origins[src[b]], pts[a].Dist(pts[b]))
-		return &attempt{strategy: OrderFile, fail: cl.rep.Reordered}
+	var runs [][]int32
+	if c.Ordered {
+		runs = runsOf(c, src)
+		if a, b, ok := runsValid(pts, runs, cl.nb); !ok {
+			cl.rep.Reordered = fmt.Sprintf("the step from %s to %s jumps %.3g, beyond the points' neighbourhoods", c.Origins[src[a]], c.Origins[src[b]], pts[a].Dist(pts[b]))
+			return &attempt{strategy: OrderFile, fail: cl.rep.Reordered}
+		}
+	} else {
+		// A file that declares no order but walks the outline: the points
+		// were put along a Morton curve (localise), so their file order is
+		// rebuilt, then cut into runs wherever a step jumps beyond the
+		// points' neighbourhoods (two probe passes, a stretch measured
+		// again), which are joined end to end as an ordered file's runs.
+		order := make([]int32, len(src))
+		for i := range order {
+			order[i] = int32(i)
+		}
+		slices.SortFunc(order, func(a, b int32) int { return int(src[a] - src[b]) })
+		start := 0
+		for k := 1; k <= len(order); k++ {
+			if k < len(order) {
+				if _, _, ok := runsValid(pts, [][]int32{order[k-1 : k+1]}, cl.nb); ok {
+					continue
+				}
+			}
+			if k-start >= 2 {
+				runs = append(runs, order[start:k])
+			}
+			start = k
+		}
 	}
 	g := newGraph(len(pts))
 	for _, r := range runs {
@@ -353,7 +389,42 @@ func (cl *cleaning) bySection(opts Options, sigma float64) *attempt {
 		if a.err != nil {
 			break
 		}
-		if pass == 1 {
+		if pass == 0 {
+			// The second pass orders the points the first kept; the
+			// others wait outside the loop.
+			out := make(map[int32]bool, len(a.hits))
+			for _, h := range a.hits {
+				out[h.idx] = true
+			}
+			next := slices.DeleteFunc(slices.Clone(a.seq), func(i int32) bool { return out[i] })
+			if len(next) < minPoints {
+				break
+			}
+			slices.Sort(next)
+			if !slices.Equal(next, sel) {
+				sel = next
+				in := make([]bool, len(pts))
+				for _, i := range sel {
+					in[i] = true
+				}
+				var left []int32
+				for i := range int32(len(pts)) {
+					if !in[i] {
+						left = append(left, i)
+					}
+				}
+				rest = nil
+				if len(left) > 0 {
+					rest = [][]int32{left}
+				}
+				continue
+			}
+			// The first pass kept exactly the points it ordered (none
+			// dropped, none put back): the second would order them in the
+			// same frame with the same points waiting outside, and find
+			// what the first found.
+		}
+		{
 			if len(a.seq) > len(seq) {
 				// Points put back went in where they project onto the
 				// loop's polygon, which near a thin edge may be the other
@@ -369,32 +440,6 @@ func (cl *cleaning) bySection(opts Options, sigma float64) *attempt {
 				a.seq, _ = sc.byFeet(pts, a.seq, a.feet, a.hasFeet)
 			}
 			break
-		}
-		// The second pass orders the points the first kept; the others
-		// wait outside the loop.
-		out := make(map[int32]bool, len(a.hits))
-		for _, h := range a.hits {
-			out[h.idx] = true
-		}
-		next := slices.DeleteFunc(slices.Clone(a.seq), func(i int32) bool { return out[i] })
-		if len(next) < minPoints {
-			break
-		}
-		slices.Sort(next)
-		sel = next
-		in := make([]bool, len(pts))
-		for _, i := range sel {
-			in[i] = true
-		}
-		var left []int32
-		for i := range int32(len(pts)) {
-			if !in[i] {
-				left = append(left, i)
-			}
-		}
-		rest = nil
-		if len(left) > 0 {
-			rest = [][]int32{left}
 		}
 	}
 	return a

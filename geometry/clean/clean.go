@@ -114,6 +114,11 @@ type Report struct {
 	// meaningful.
 	Band     bool
 	MergeTol float64 // merge tolerance used, input units
+	// Subset, when positive, is the number of points of a dense cloud the
+	// ordering, the loops and the trailing edge were found on; every point
+	// of the cloud was then placed by where it projects onto the outline
+	// they gave (see cleanDense), and Loops count the subset's points.
+	Subset int
 	// Sigma is the robust scale of the residuals of the picked loop against
 	// the local fit (1.4826 × median absolute residual, at least 0.02 × the
 	// median point spacing so that exact coordinates lose nothing), input
@@ -205,6 +210,9 @@ func Clean(c *geometry.Cloud, opts Options) (*geometry.Contour, *Report, error) 
 		sigma = DefaultOutlierSigma
 	}
 
+	if n >= denseFrom && !opts.KeepOutliers && opts.Order != OrderFile {
+		return cleanDense(c, opts, sigma)
+	}
 	// 1. Merge.
 	cl := &cleaning{c: c, rep: rep, lo: lo, hi: hi, diag: diag}
 	if err := cl.merge(all, tol); err != nil {
@@ -272,6 +280,45 @@ type cleaning struct {
 	pts    []geometry.Point
 	src    []int32 // src[i] is the input index of pts[i]
 	nb     *nbrs
+	// fileOrder is set for a cloud that is ordered (c.Ordered) or whose
+	// points, in the file's order, walk a path a few times the part's
+	// size at most (looksOrdered): its own order is tried, first when the
+	// format orders the points, last otherwise.
+	fileOrder bool
+}
+
+// orderedWalk is the longest path, in diagonals of the points' bounding
+// box, that the points of an unordered cloud may walk in the file's order
+// for that order to be tried as a loop: a section's perimeter is about two
+// diagonals, a probe program in two passes walks about three, noise as
+// large as the spacing adds a third or so; a shuffled file of n points
+// walks about n/3 diagonals.
+const orderedWalk = 8
+
+// looksOrdered reports whether the points pts[src[0]], pts[src[1]], ...
+// walk a path no longer than orderedWalk diagonals of their bounding box:
+// a coordinate file written along the outline (or in a few runs), whose
+// order the file's own strategy then tries, gates and all, when the
+// others cannot reconstruct one.
+func looksOrdered(pts []geometry.Point, src []int32) bool {
+	if len(src) < 2*minPoints {
+		return false
+	}
+	lo, hi := geometry.Point{X: math.Inf(1), Y: math.Inf(1)}, geometry.Point{X: math.Inf(-1), Y: math.Inf(-1)}
+	for _, i := range src {
+		p := pts[i]
+		lo.X, lo.Y = math.Min(lo.X, p.X), math.Min(lo.Y, p.Y)
+		hi.X, hi.Y = math.Max(hi.X, p.X), math.Max(hi.Y, p.Y)
+	}
+	limit := orderedWalk * hi.Dist(lo)
+	var walk float64
+	for k := 1; k < len(src); k++ {
+		walk += pts[src[k]].Dist(pts[src[k-1]])
+		if walk > limit {
+			return false
+		}
+	}
+	return limit > 0
 }
 
 // merge merges the points within tol of an earlier one (the lowest input
@@ -288,6 +335,7 @@ func (cl *cleaning) merge(all []geometry.Point, tol float64) error {
 	if m < minPoints {
 		return fmt.Errorf("geometry: clean: %w: %d distinct point(s) after merging within %.3g, need at least %d", geometry.ErrTooFewPoints, m, tol, minPoints)
 	}
+	cl.fileOrder = c.Ordered || looksOrdered(all, src)
 	if !c.Ordered {
 		localise(all, src)
 	}
@@ -789,13 +837,16 @@ func fastDist(p, q geometry.Point) float64 {
 
 // median returns the median of xs, reordering xs. It selects rather than
 // sorts: the value is the one a full sort would give (NaN ordered first,
-// as slices.Sort orders it), at linear expected cost.
+// as slices.Sort orders it), at linear expected cost; up to 16 values ≥ 0
+// (the residuals of a local fit's window) go through a sorting network.
 func median(xs []float64) float64 {
 	n := len(xs)
 	if n == 0 {
 		return 0
 	}
-	if n <= 32 {
+	if n <= 16 && sortNonNegative(xs) {
+		// Sorted by a network, without a branch on the values.
+	} else if n <= 32 {
 		// Insertion sort; with no NaN among them, cmp.Less is <.
 		plain := true
 		for _, x := range xs {

@@ -690,3 +690,58 @@ func TestCleanBand(t *testing.T) {
 		})
 	}
 }
+
+// A delimited file declares no order, but one written along the outline
+// walks a path of a few diagonals while a shuffled one walks hundreds
+// (looksOrdered), and its own order can be asked for. A probe program
+// round a NACA 2412 (Report 824) at a fine step over the upper surface
+// and 15 times coarser over the lower, listed from the trailing edge,
+// keeps every one of its points in its own order; the same file in two
+// passes (upper then lower, nose to tail) looks ordered too.
+func TestCleanWalkedFile(t *testing.T) {
+	n, err := shape.ParseNACA4("2412")
+	if err != nil {
+		t.Fatal(err)
+	}
+	station := func(i, m int) float64 { return (1 - math.Cos(math.Pi*float64(i)/float64(m))) / 2 }
+	var loop, passes []geometry.Point
+	for i := 300; i >= 0; i-- { // upper, tail to nose
+		loop = append(loop, n.Upper(station(i, 300)))
+	}
+	for i := 1; i <= 20; i++ { // lower, nose to tail, coarse
+		loop = append(loop, n.Lower(station(i, 20)))
+	}
+	for i := 0; i <= 300; i++ {
+		passes = append(passes, n.Upper(station(i, 300)))
+	}
+	passes = append(passes, loop[301:]...)
+	cloud := func(ps []geometry.Point) (*geometry.Cloud, []geometry.Point, []int32) {
+		c := &geometry.Cloud{Dim: 2}
+		var all []geometry.Point
+		var src []int32
+		for i, p := range ps {
+			q := p.Scale(cleanChord).Rotate(cleanRot).Add(cleanOff)
+			c.Points = append(c.Points, geometry.Vec3{X: q.X, Y: q.Y})
+			c.Origins = append(c.Origins, geometry.Origin{File: "probe.csv", Line: i + 2})
+			all, src = append(all, q), append(src, int32(i))
+		}
+		return c, all, src
+	}
+	c, all, src := cloud(loop)
+	_, allPasses, srcPasses := cloud(passes)
+	if !looksOrdered(all, src) || !looksOrdered(allPasses, srcPasses) {
+		t.Error("a file along the outline, in one loop or two passes, does not look ordered")
+	}
+	shuffled := slices.Clone(src)
+	rand.New(rand.NewPCG(1, 2)).Shuffle(len(shuffled), func(i, j int) { shuffled[i], shuffled[j] = shuffled[j], shuffled[i] })
+	if looksOrdered(all, shuffled) {
+		t.Error("a shuffled file looks ordered")
+	}
+	ct, rep, err := Clean(c, Options{Order: OrderFile})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if ct.Len() != len(loop) || len(rep.Dropped) > 0 || rep.Strategy != OrderFile {
+		t.Errorf("%s order: %d of %d points kept, dropped %+v", rep.Strategy, ct.Len(), len(loop), rep.Dropped)
+	}
+}

@@ -1,6 +1,7 @@
 package clean
 
 import (
+	"math"
 	"slices"
 
 	"github.com/foilwright/foilwright/geometry"
@@ -176,16 +177,27 @@ func join(pts []geometry.Point, nb *nbrs, g *graph) {
 	if len(ends) == 0 {
 		return
 	}
-	dir := make(map[int32]geometry.Point, len(ends))
-	spc := make(map[int32]float64, len(ends))
-	for _, e := range ends {
+	// The direction and spacing at each end, by its place in ends (endAt
+	// gives the place of a point): slices, not maps keyed by point, since
+	// a dense band has ends by the hundred thousand.
+	endAt := make([]int32, n)
+	for i := range endAt {
+		endAt[i] = -1
+	}
+	for j, e := range ends {
+		endAt[e] = int32(j)
+	}
+	dir := make([]geometry.Point, len(ends))
+	hasDir := make([]bool, len(ends))
+	spc := make([]float64, len(ends))
+	for je, e := range ends {
 		switch g.deg(e) {
 		case 1:
 			in := g.adj[e][0]
 			if in < 0 {
 				in = g.adj[e][1]
 			}
-			spc[e] = pts[e].Dist(pts[in])
+			spc[je] = pts[e].Dist(pts[in])
 			prev, cur := e, in
 			for range 2 {
 				a := g.adj[cur]
@@ -200,53 +212,48 @@ func join(pts []geometry.Point, nb *nbrs, g *graph) {
 			}
 			d := pts[e].Sub(pts[cur])
 			if l := d.Norm(); l > 0 {
-				dir[e] = d.Scale(1 / l)
+				dir[je], hasDir[je] = d.Scale(1/l), true
 			}
 		default:
 			row := nb.of(e)
 			if len(row) > 0 {
-				spc[e] = pts[e].Dist(pts[row[0]])
+				spc[je] = pts[e].Dist(pts[row[0]])
 			}
 		}
 	}
 	lo, hi := bounds(pts)
 	const m = 8
 	near := knn(pts, ends, m, lo, hi)
-	type cand struct {
-		e, f int32
-		cost float64
-	}
-	weight := func(e int32, step geometry.Point) float64 {
-		u, ok := dir[e]
-		if !ok {
+	weight := func(je int32, step geometry.Point) float64 {
+		if !hasDir[je] {
 			return 1.5
 		}
-		return 1 + (1-u.Dot(step))/2
+		return 1 + (1-dir[je].Dot(step))/2
 	}
-	cs := make([]cand, 0, len(near)) // at most m per end: no regrowth
-	for j, e := range ends {
-		for _, f := range near[j*m : (j+1)*m] {
-			if f < 0 {
-				break
+	candidates := func() []cand {
+		cs := make([]cand, 0, len(near)) // at most m per end: no regrowth
+		for j, e := range ends {
+			for _, f := range near[j*m : (j+1)*m] {
+				if f < 0 {
+					break
+				}
+				jf := endAt[f]
+				d := pts[f].Sub(pts[e])
+				l := d.Norm()
+				if l == 0 || l > joinReach*min(spc[j], spc[jf]) {
+					continue
+				}
+				s := d.Scale(1 / l)
+				cs = append(cs, cand{e, f, l * weight(int32(j), s) * weight(jf, s.Scale(-1))})
 			}
-			d := pts[f].Sub(pts[e])
-			l := d.Norm()
-			if l == 0 || l > joinReach*min(spc[e], spc[f]) {
-				continue
-			}
-			s := d.Scale(1 / l)
-			cs = append(cs, cand{e, f, l * weight(e, s) * weight(f, s.Scale(-1))})
 		}
+		return cs
 	}
-	slices.SortFunc(cs, func(a, b cand) int {
-		switch {
-		case a.cost < b.cost:
-			return -1
-		case a.cost > b.cost:
-			return 1
-		}
-		return int(a.e - b.e)
-	})
+	cs := candidates()
+	if !radixSortCands(cs) {
+		cs = candidates() // in the order slices.SortFunc is to start from
+		slices.SortFunc(cs, candCmp)
+	}
 	for _, c := range cs {
 		if g.deg(c.e) == 2 || g.deg(c.f) == 2 || g.linked(c.e, c.f) {
 			continue
@@ -276,4 +283,79 @@ func join(pts []geometry.Point, nb *nbrs, g *graph) {
 			g.addEdge(a, b)
 		}
 	}
+}
+
+// cand is a join of the ends e and f at a cost.
+type cand struct {
+	e, f int32
+	cost float64
+}
+
+// candCmp orders candidates by cost, then by their first end.
+func candCmp(a, b cand) int {
+	switch {
+	case a.cost < b.cost:
+		return -1
+	case a.cost > b.cost:
+		return 1
+	}
+	return int(a.e - b.e)
+}
+
+// radixSortCands sorts cs as slices.SortFunc(cs, candCmp) would and
+// reports true, where it can: where every cost is a number ≥ 0 (whose bits
+// order as it does) and no two candidates share both cost and first end,
+// that order is the only one candCmp allows, and a radix sort on (cost, e),
+// linear in the number of candidates (eight an end, by the hundred
+// thousand in a dense band), finds it. Otherwise it reports false and cs
+// is left in some order: the caller sorts the candidates as made.
+func radixSortCands(cs []cand) bool {
+	if len(cs) < 256 {
+		slices.SortFunc(cs, candCmp)
+		return true
+	}
+	for _, c := range cs {
+		if math.Float64bits(c.cost) > 0x7ff0000000000000 || c.e < 0 {
+			return false
+		}
+	}
+	buf := make([]cand, len(cs))
+	var count [1 << 16]int
+	// Least significant digit first: e's two 16-bit digits, then the
+	// cost's four; each pass is stable, so the result is ordered by cost
+	// and, within a cost, by e.
+	digit := func(c cand, d int) int {
+		if d < 2 {
+			return int(uint32(c.e) >> (16 * d) & 0xffff)
+		}
+		return int(math.Float64bits(c.cost) >> (16 * (d - 2)) & 0xffff)
+	}
+	src, dst := cs, buf
+	for d := range 6 {
+		clear(count[:])
+		for _, c := range src {
+			count[digit(c, d)]++
+		}
+		if count[digit(src[0], d)] == len(src) {
+			continue // one digit throughout: the pass would change nothing
+		}
+		at := 0
+		for k, c := range count {
+			count[k] = at
+			at += c
+		}
+		for _, c := range src {
+			k := digit(c, d)
+			dst[count[k]] = c
+			count[k]++
+		}
+		src, dst = dst, src
+	}
+	copy(cs, src)
+	for k := 1; k < len(cs); k++ {
+		if cs[k].cost == cs[k-1].cost && cs[k].e == cs[k-1].e {
+			return false // a tie, which candCmp leaves to the sort's own order
+		}
+	}
+	return true
 }

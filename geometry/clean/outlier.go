@@ -301,6 +301,27 @@ func localScales(pts []geometry.Point, seq []int32, r []float64) []float64 {
 	n := len(seq)
 	loc := make([]float64, len(pts))
 	w := min(localWindow, (n-1)/2)
+	if w > 0 && nonNegative(r) {
+		// The window slides: from one point to the next two values leave
+		// it and two come in, kept in order, instead of a sort a point.
+		parallel(n, func(a, b int) {
+			win := make([]float64, 0, 2*w+1)
+			for d := 1; d <= w; d++ {
+				win = insertSorted(win, r[((a-d)%n+n)%n])
+				win = insertSorted(win, r[(a+d)%n])
+			}
+			for i := a; i < b; i++ {
+				if i > a {
+					win = removeSorted(win, r[i])               // the new centre
+					win = removeSorted(win, r[((i-1-w)%n+n)%n]) // off the left
+					win = insertSorted(win, r[i-1])             // the old centre
+					win = insertSorted(win, r[(i+w)%n])         // on at the right
+				}
+				loc[seq[i]] = 1.4826 * ((win[w-1] + win[w]) / 2) // as median(window)
+			}
+		})
+		return loc
+	}
 	parallel(n, func(a, b int) {
 		buf := make([]float64, 0, 2*localWindow)
 		for i := a; i < b; i++ {
@@ -312,6 +333,31 @@ func localScales(pts []geometry.Point, seq []int32, r []float64) []float64 {
 		}
 	})
 	return loc
+}
+
+// nonNegative reports whether every value of r is ≥ 0 and none is NaN or
+// −0: such values are equal only when their bits are, so any of equal
+// values may stand for another in a sorted window.
+func nonNegative(r []float64) bool {
+	for _, x := range r {
+		if math.Float64bits(x) > 0x7ff0000000000000 {
+			return false
+		}
+	}
+	return true
+}
+
+// insertSorted inserts x into the sorted s.
+func insertSorted(s []float64, x float64) []float64 {
+	k, _ := slices.BinarySearch(s, x)
+	return slices.Insert(s, k, x)
+}
+
+// removeSorted removes one value equal to x from the sorted s, which holds
+// one.
+func removeSorted(s []float64, x float64) []float64 {
+	k, _ := slices.BinarySearch(s, x)
+	return slices.Delete(s, k, k+1)
 }
 
 // robustScale returns the robust scale of residuals r, 1.4826 × their

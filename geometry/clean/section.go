@@ -332,7 +332,11 @@ func fitLine(xs, ys, w []float64, idx []int, x0 float64) quadFit {
 }
 
 // solve3 solves the 3×3 system a·x = b by Gaussian elimination with
-// partial pivoting; ok is false when it is (nearly) singular.
+// partial pivoting; ok is false when it is (nearly) singular. It runs once
+// per round of every local fit, so it is written out step by step (the
+// operations, in their order, of the loops of an elimination with row
+// swaps and back substitution; the eliminated entries, never read again,
+// are not formed).
 func solve3(a [3][3]float64, b [3]float64) ([3]float64, bool) {
 	scale := 0.0
 	for r := range 3 {
@@ -343,34 +347,50 @@ func solve3(a [3][3]float64, b [3]float64) ([3]float64, bool) {
 	if scale == 0 {
 		return [3]float64{}, false
 	}
-	for col := range 3 {
-		p := col
-		for r := col + 1; r < 3; r++ {
-			if math.Abs(a[r][col]) > math.Abs(a[p][col]) {
-				p = r
-			}
+	tiny := 1e-13 * scale
+	r0, r1, r2 := a[0], a[1], a[2]
+	b0, b1, b2 := b[0], b[1], b[2]
+	// Column 0: the pivot row to the top.
+	if math.Abs(r1[0]) > math.Abs(r0[0]) {
+		if math.Abs(r2[0]) > math.Abs(r1[0]) {
+			r0, r2, b0, b2 = r2, r0, b2, b0
+		} else {
+			r0, r1, b0, b1 = r1, r0, b1, b0
 		}
-		if math.Abs(a[p][col]) <= 1e-13*scale {
-			return [3]float64{}, false
-		}
-		a[col], a[p] = a[p], a[col]
-		b[col], b[p] = b[p], b[col]
-		for r := col + 1; r < 3; r++ {
-			f := a[r][col] / a[col][col]
-			for c := col; c < 3; c++ {
-				a[r][c] -= f * a[col][c]
-			}
-			b[r] -= f * b[col]
-		}
+	} else if math.Abs(r2[0]) > math.Abs(r0[0]) {
+		r0, r2, b0, b2 = r2, r0, b2, b0
+	}
+	if math.Abs(r0[0]) <= tiny {
+		return [3]float64{}, false
+	}
+	f := r1[0] / r0[0]
+	r1[1] -= f * r0[1]
+	r1[2] -= f * r0[2]
+	b1 -= f * b0
+	f = r2[0] / r0[0]
+	r2[1] -= f * r0[1]
+	r2[2] -= f * r0[2]
+	b2 -= f * b0
+	// Column 1.
+	if math.Abs(r2[1]) > math.Abs(r1[1]) {
+		r1, r2, b1, b2 = r2, r1, b2, b1
+	}
+	if math.Abs(r1[1]) <= tiny {
+		return [3]float64{}, false
+	}
+	f = r2[1] / r1[1]
+	r2[2] -= f * r1[2]
+	b2 -= f * b1
+	// Column 2.
+	if math.Abs(r2[2]) <= tiny {
+		return [3]float64{}, false
 	}
 	var x [3]float64
-	for r := 2; r >= 0; r-- {
-		s := b[r]
-		for c := r + 1; c < 3; c++ {
-			s -= a[r][c] * x[c]
-		}
-		x[r] = s / a[r][r]
-	}
+	x[2] = b2 / r2[2]
+	x[1] = (b1 - r1[2]*x[2]) / r1[1]
+	s := b0 - r0[1]*x[1]
+	s -= r0[2] * x[2]
+	x[0] = s / r0[0]
 	return x, true
 }
 

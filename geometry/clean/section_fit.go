@@ -46,12 +46,25 @@ type sectionCoords struct {
 	// spared marks, by point index, the points of the trailing edge's end
 	// zone (nil: none): no fit of another point takes them in.
 	spared []bool
+	// The last robust fit made for each point (by point index), with the
+	// neighbours it was made on in order, as offsets from the point's own
+	// index (memoD, sectionWindow·2 a point; memoK of them, −1 when none
+	// is kept, as when an offset does not fit in 16 bits). A point's fit
+	// depends on nothing else (its t and v and theirs are fixed), so a
+	// point whose neighbours are the same as last time gets the same fit
+	// back: the outlier rounds and the feet refit every point, and most
+	// have the same neighbours as before.
+	memoD   []int16
+	memoK   []int8
+	memoFit [][2]float64
 }
 
 func newSectionCoords(n int) *sectionCoords {
-	sc := &sectionCoords{region: make([]int8, n), t: make([]float64, n), v: make([]float64, n), place: make([]float64, n)}
+	sc := &sectionCoords{region: make([]int8, n), t: make([]float64, n), v: make([]float64, n), place: make([]float64, n),
+		memoD: make([]int16, n*2*sectionWindow), memoK: make([]int8, n), memoFit: make([][2]float64, n)}
 	for i := range sc.region {
 		sc.region[i] = regionNone
+		sc.memoK[i] = -1
 	}
 	return sc
 }
@@ -105,6 +118,7 @@ func (sc *sectionCoords) residualsAt(pts []geometry.Point, seq []int32, at []int
 func (sc *sectionCoords) fitAt(seq []int32, i int) (v0, slope float64, ok bool) {
 	n := len(seq)
 	var ts, vs [2 * sectionWindow]float64
+	var ids [2 * sectionWindow]int32
 	p := seq[i]
 	g := sc.region[p]
 	if g == regionNone {
@@ -120,14 +134,32 @@ func (sc *sectionCoords) fitAt(seq []int32, i int) (v0, slope float64, ok bool) 
 			if sc.region[q] != g || (g == regionNose || g == regionTail) && math.Abs(sc.t[q]-sc.t[p]) > capSpan {
 				break
 			}
-			ts[k], vs[k] = sc.t[q]-sc.t[p], sc.v[q]
+			ts[k], vs[k], ids[k] = sc.t[q]-sc.t[p], sc.v[q], q
 			k++
 		}
 	}
 	if k < 4 {
 		return 0, 0, false
 	}
+	last := sc.memoD[int(p)*2*sectionWindow : int(p+1)*2*sectionWindow][:k]
+	same, fits := int(sc.memoK[p]) == k, true
+	for j, q := range ids[:k] {
+		d := q - p
+		same = same && int32(last[j]) == d
+		fits = fits && d == int32(int16(d))
+	}
+	if same {
+		f := sc.memoFit[p]
+		return f[0], f[1], true
+	}
 	v0, slope = robustParabola(ts[:k], vs[:k])
+	sc.memoK[p] = -1
+	if fits {
+		for j, q := range ids[:k] {
+			last[j] = int16(q - p)
+		}
+		sc.memoK[p], sc.memoFit[p] = int8(k), [2]float64{v0, slope}
+	}
 	return v0, slope, true
 }
 

@@ -295,7 +295,7 @@ func (c *Curve) Locate(s float64) (int, float64) {
 		if sp <= 0 {
 			break
 		}
-		u = math.Min(h, math.Max(0, u-f/sp))
+		u = min(h, max(0, u-f/sp)) // math.Min and math.Max, inline
 	}
 	if math.Abs(c.partial(i, u)-target) <= 1e3*tol {
 		return i, u
@@ -654,22 +654,37 @@ func (cv *Curve) Farthest(p geometry.Point, s0, s1 float64) (float64, float64) {
 	}
 	best, bestD := math.NaN(), -1.0
 	step := L / float64(4*cv.Pieces())
+	// The arc length of a sample is measured only where it matters: a
+	// sample no farther than the best so far is not taken whatever its
+	// place, and every sample of a piece that lies wholly in [s0, s1] is
+	// in it (the arc length within a piece runs from ss[i] to ss[i+1]).
+	// The best sample's place is measured once, at the end.
+	bestI, bestU, bestAt0 := -1, 0.0, false
 	for i := 0; i < cv.Pieces(); i++ {
+		whole := in(cv.ss[i]) && in(cv.ss[i+1]) && (s0 <= s1 || cv.ss[i] >= s0 || cv.ss[i+1] <= s1)
 		for _, f := range [...]float64{0, 0.25, 0.5, 0.75} {
 			u := f * cv.Span(i)
 			q, _, _ := cv.Eval(i, u)
-			var s float64
-			if f == 0 {
-				s = cv.ss[i]
-			} else {
-				s = cv.arc(i, u)
-			}
-			if !in(s) {
+			d := q.Dist(p)
+			if !(d > bestD) {
 				continue
 			}
-			if d := q.Dist(p); d > bestD {
-				best, bestD = s, d
+			if !whole {
+				s := cv.ss[i]
+				if f != 0 {
+					s = cv.arc(i, u)
+				}
+				if !in(s) {
+					continue
+				}
 			}
+			bestI, bestU, bestAt0, bestD = i, u, f == 0, d
+		}
+	}
+	if bestI >= 0 {
+		best = cv.ss[bestI]
+		if !bestAt0 {
+			best = cv.arc(bestI, bestU)
 		}
 	}
 	if e := cv.End(); in(L) && e.Dist(p) > bestD {

@@ -38,6 +38,19 @@ const (
 	// dip.
 	fairRippleFloor = 10
 	fairDip         = 0.3
+	// fairSag is the bulge of a lobe (the largest distance of the curve
+	// from the chord across it), in units of the noise, beyond which the
+	// lobe is shape the points carry rather than a wiggle: noise that a
+	// fit leaves in the curve bulges by a fraction of the noise (it is
+	// averaged over the points along the lobe), while a section's own
+	// short lobe (the lower surface of a thin section with its camber
+	// forward, as NACA 23008 between 6 % and 16 % of the chord) bulges by
+	// tens of times the noise of a good scan, and smoothing it away
+	// leaves the curve that far off the points.
+	fairSag = 2
+	// fairSagSamples is the number of points at which a lobe's bulge is
+	// measured.
+	fairSagSamples = 16
 )
 
 // Fairness measures the fairness of a curve.
@@ -86,8 +99,10 @@ func curvatureSamples(cv *Curve) []curvatureSample {
 
 // MeasureFairness returns the fairness of cv. T, when not nil, gives the
 // feature scale at arc length s; nil measures lobes against
-// fairLobeMax of the length only.
-func MeasureFairness(cv *Curve, T func(s float64) float64) Fairness {
+// fairLobeMax of the length only. noise, when positive, is the noise of
+// the points the curve was fitted to: a lobe that bulges by more than
+// fairSag times it is not counted as a wiggle.
+func MeasureFairness(cv *Curve, T func(s float64) float64, noise float64) Fairness {
 	ks := curvatureSamples(cv)
 	L := cv.Length()
 	var f Fairness
@@ -159,13 +174,21 @@ func MeasureFairness(cv *Curve, T func(s float64) float64) Fairness {
 		}
 		return math.Max(0, math.Min(L, s))
 	}
-	wiggle := func(a, b float64) bool {
+	// short: a lobe short beside the feature scale, where the feature
+	// scale does not change fast.
+	short := func(a, b float64) bool {
 		m := fairLobeMax * L
 		if T == nil {
 			return b-a < m
 		}
 		ta, tb, tm := T(wrap(a)), T(wrap(b)), T(wrap((a+b)/2))
 		return b-a < math.Min(m, fairLobe*tm) && max(ta, tb, tm) <= fairRatio*min(ta, tb, tm)
+	}
+	wiggle := func(a, b float64) bool {
+		if noise > 0 && lobeSag(cv, a, b, wrap) > fairSag*noise {
+			return false
+		}
+		return short(a, b)
 	}
 	for j := 1; j < len(crossings); j++ {
 		a, b := crossings[j-1], crossings[j]
@@ -183,11 +206,11 @@ func MeasureFairness(cv *Curve, T func(s float64) float64) Fairness {
 	}
 	// Dips of the curvature count round the nose only, the middle half of
 	// the outline from the trailing edge (a sparse rounded end's arc may
-	// dip where its few points put it), and on the same terms as wiggles:
-	// short beside the feature scale, and not where the feature scale
-	// changes fast.
+	// dip where its few points put it), and when short beside the feature
+	// scale where it does not change fast. (A wiggle's bulge test does not
+	// apply: the arc of a dip is curved as the nose is.)
 	for _, r := range ripples(ks, fairRippleFloor/L) {
-		if r[0] > L/4 && r[1] < 3*L/4 && wiggle(r[0], r[1]) {
+		if r[0] > L/4 && r[1] < 3*L/4 && short(r[0], r[1]) {
 			f.Ripples++
 			f.dips = append(f.dips, r)
 		}
@@ -249,4 +272,22 @@ func ripples(ks []curvatureSample, floor float64) [][2]float64 {
 	}
 	flush()
 	return out
+}
+
+// lobeSag returns the largest distance of cv between arc positions a and
+// b (wrapped onto the curve by wrap) from the straight line through its
+// points there.
+func lobeSag(cv *Curve, a, b float64, wrap func(float64) float64) float64 {
+	p, q := cv.At(wrap(a)), cv.At(wrap(b))
+	d := q.Sub(p)
+	l := math.Hypot(d.X, d.Y)
+	if !(l > 0) {
+		return 0
+	}
+	var worst float64
+	for k := 1; k < fairSagSamples; k++ {
+		r := cv.At(wrap(a + (b-a)*float64(k)/fairSagSamples)).Sub(p)
+		worst = math.Max(worst, math.Abs(d.X*r.Y-d.Y*r.X)/l)
+	}
+	return worst
 }

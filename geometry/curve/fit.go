@@ -1079,7 +1079,7 @@ func passes(fp fitPoints, open, freeEnds bool, opts FitOptions, st *smoothState,
 				rep.FairSteps--
 				break
 			}
-			fr := MeasureFairness(fromFit(prob, f, !open), Tat)
+			fr := MeasureFairness(fromFit(prob, f, !open), Tat, sigma)
 			lobes := fr.lobes
 			if step < dipSteps {
 				// Dips of the curvature round the nose get a few
@@ -1142,7 +1142,7 @@ func passes(fp fitPoints, open, freeEnds bool, opts FitOptions, st *smoothState,
 	st.final.corner = st.corner && open && !freeEnds
 	st.final.cornerRatio = cornerRatio
 	cv := fromFit(prob, f, !open)
-	rep.Fairness = MeasureFairness(cv, Tat)
+	rep.Fairness = MeasureFairness(cv, Tat, sigma)
 	return cv, nil
 }
 

@@ -44,22 +44,29 @@ func localScatter(pts []geometry.Point) float64 {
 		}
 		d = d.Scale(1 / l)
 		p0 := at(i)
-		var a [3][3]float64
-		var b [3]float64
+		// The distinct sums of the normal equations, each formed once
+		// (x·y = y·x and 1·y = y: the sums of the full 3×3 loop, added in
+		// the same order).
+		var a00, a01, a02, a11, a12, a22, b0, b1, b2 float64
 		for j := -m; j <= m; j++ {
 			if j == 0 {
 				continue
 			}
 			q := at(i + j).Sub(p0)
 			u, v := q.Dot(d), d.Cross(q)
-			x := [3]float64{1, u, u * u}
-			for r := range 3 {
-				b[r] += x[r] * v
-				for c := range 3 {
-					a[r][c] += x[r] * x[c]
-				}
-			}
+			u2 := u * u
+			b0 += v
+			b1 += u * v
+			b2 += u2 * v
+			a00++
+			a01 += u
+			a02 += u2
+			a11 += u * u
+			a12 += u * u2
+			a22 += u2 * u2
 		}
+		a := [3][3]float64{{a00, a01, a02}, {a01, a11, a12}, {a02, a12, a22}}
+		b := [3]float64{b0, b1, b2}
 		c, ok := numeric.Solve3(a, b)
 		if !ok {
 			continue

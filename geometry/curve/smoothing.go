@@ -395,8 +395,11 @@ func localNoise(xs, ys, s, T, c []float64, period float64) (sigma, tau float64, 
 		}
 		dx, dy = dx/l, dy/l
 		// Normal equations of v = c₀ + c₁u + c₂u² + c₃u³, u scaled by l.
-		var ata [4][4]float64
-		var atb [4]float64
+		// The sums of the products of (1, u, u², u³) taken in pairs, each
+		// formed once (x·y = y·x in floating point, and 1·y = y, so these
+		// are the sums of the full 4×4 loop, added in the same order).
+		var a00, a01, a02, a03, a11, a12, a13, a22, a23, a33 float64
+		var b0, b1, b2, b3 float64
 		var ui, vi float64
 		for j := lo; j <= hi; j++ {
 			_, k := pos(j)
@@ -406,14 +409,25 @@ func localNoise(xs, ys, s, T, c []float64, period float64) (sigma, tau float64, 
 			if j == i {
 				ui, vi = u, v
 			}
-			x := [4]float64{1, u, u * u, u * u * u}
-			for r := range 4 {
-				atb[r] += x[r] * v
-				for q := range 4 {
-					ata[r][q] += x[r] * x[q]
-				}
-			}
+			u2 := u * u
+			u3 := u2 * u
+			b0 += v
+			b1 += u * v
+			b2 += u2 * v
+			b3 += u3 * v
+			a00++
+			a01 += u
+			a02 += u2
+			a03 += u3
+			a11 += u * u
+			a12 += u * u2
+			a13 += u * u3
+			a22 += u2 * u2
+			a23 += u2 * u3
+			a33 += u3 * u3
 		}
+		ata := [4][4]float64{{a00, a01, a02, a03}, {a01, a11, a12, a13}, {a02, a12, a22, a23}, {a03, a13, a23, a33}}
+		atb := [4]float64{b0, b1, b2, b3}
 		coef, inv, ok := solve4(ata, atb)
 		if !ok {
 			raw[i] = math.NaN()

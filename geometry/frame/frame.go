@@ -140,7 +140,11 @@ type Normalized struct {
 // that no rotation undoes, and it shows as negative camber: its centroid
 // lies below the chord line. In MirrorAuto mode a centroid more than
 // EdgeMirrorCentroid chord below the line mirrors the section (x ↦ −x before
-// the rotation); a symmetric section cannot tell and is left as it is.
+// the rotation) when its mean line also bows down (a parabola fitted to it
+// from 5 % to 90 % of the chord curves down by more than EdgeMirrorBow): on
+// a thick, blunt nose the leading edge's place tilts the chord line enough
+// to move the centroid of a symmetric section below it, but a tilt does not
+// bow the mean line. A symmetric section cannot tell and is left as it is.
 //
 // Normalize returns an error wrapping ErrNoLeadingEdge for a body with no
 // distinct nose and tail (a circle, a square), and ErrTrailingEdge when the
@@ -219,10 +223,16 @@ func Normalize(cv *curve.Curve, opts Options) (*Normalized, error) {
 	case MirrorNo:
 	default:
 		_, cy := chord.Centroid()
+		bow, bowOK := meanLineBow(chord, sLE/fr.Chord)
 		switch {
-		case cy < -EdgeMirrorCentroid:
+		case cy < -EdgeMirrorCentroid && (!bowOK || bow > EdgeMirrorBow):
 			mirrored = true
 			warn(fmt.Sprintf("section mirrored: its centroid lies %.3g chord below the chord line (negative camber), so it was taken as upside down or nose-reversed; use mirror no to keep it", -cy))
+		case cy < -EdgeMirrorCentroid:
+			// The centroid says mirrored but the mean line is not bowed
+			// the other way: a (nearly) symmetric section whose chord
+			// line the place of the leading edge on its nose tilts.
+			warn(fmt.Sprintf("section is (nearly) symmetric: its centroid lies %.3g chord below the chord line but its mean line is straight within %.2g chord, so mirroring cannot be detected and it was kept as measured; use mirror yes if it was measured upside down", -cy, math.Abs(bow)/4))
 		case math.Abs(cy) <= EdgeMirrorCentroid:
 			warn("section is (nearly) symmetric: mirroring cannot be detected; use mirror yes if it was measured upside down")
 		}

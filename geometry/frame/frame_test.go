@@ -331,3 +331,63 @@ func frameTestSection(t *testing.T, code string, sharp bool, noise float64, opts
 	}
 	return nz, n
 }
+
+func TestNormalizeThickSymmetricNotMirrored(t *testing.T) {
+	// A noisy scan of a thick symmetric section (NACA 0030, Report 824):
+	// the farthest point from the trailing edge wanders along its blunt
+	// nose, tilting the chord line enough to put the centroid more than
+	// EdgeMirrorCentroid below it, but the mean line stays straight, so the
+	// section must not be mirrored.
+	n, _ := shape.ParseNACA4("0030")
+	mirrored := 0
+	const seeds = 24
+	for seed := range seeds {
+		part := testfoil.Part{Chord: 67, RotDeg: 20, Shift: geometry.Point{X: 340, Y: -60}, Noise: 0.04, Seed: uint64(seed + 1)}
+		c := testfoil.Contour(testfoil.Loop(n, 200), part)
+		cv, _, err := curve.Fit(c, curve.FitOptions{Noise: 0.04})
+		if err != nil {
+			t.Fatal(err)
+		}
+		nz, err := Normalize(cv, Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if nz.Frame.Mirrored {
+			mirrored++
+		}
+	}
+	if mirrored > 0 {
+		t.Errorf("%d of %d noisy NACA 0030 scans mirrored", mirrored, seeds)
+	}
+}
+
+func TestMeanLineBow(t *testing.T) {
+	// The parabola through the mean line of NACA 2412 from 5 % to 90 % of
+	// the chord: the camber line of Report 824 (m = 0.02, p = 0.4) fitted
+	// at the same stations by least squares gives −0.0796 (computed with
+	// numpy.polyfit); reflected, +0.0796; NACA 0012, 0. The mean of the
+	// surfaces at equal x is not quite the camber line (the thickness is
+	// laid off normal to it) and the tool's chord line is tilted a little
+	// from Report 824's, so within 5e-3.
+	for _, tc := range []struct {
+		code string
+		flip bool
+		want float64
+	}{{"2412", false, -0.0796}, {"2412", true, 0.0796}, {"0012", false, 0}} {
+		n, _ := shape.ParseNACA4(tc.code)
+		part := testfoil.Part{Chord: 1, FlipY: tc.flip}
+		c := testfoil.Contour(testfoil.Loop(n, 300), part)
+		cv, _, err := curve.Fit(c, curve.FitOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		nz, err := Normalize(cv, Options{Mirror: MirrorNo})
+		if err != nil {
+			t.Fatal(err)
+		}
+		bow, ok := meanLineBow(nz.Path.(*curve.Curve), nz.SLE)
+		if !ok || math.Abs(bow-tc.want) > 5e-3 {
+			t.Errorf("%s flipped %v: bow %.5f (ok %v), want %.4f", tc.code, tc.flip, bow, ok, tc.want)
+		}
+	}
+}

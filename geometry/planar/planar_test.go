@@ -210,3 +210,37 @@ func TestFlattenNoisyPlane(t *testing.T) {
 		t.Errorf("warped: error %v (max %g, scatter %g); want ErrNotPlanar with the scatter", err, fl.Max, fl.Scatter)
 	}
 }
+
+// TestFlattenSteppedPlane: a voxelised scan writes its coordinates on a
+// grid (here 0.15 mm, three times the noise), so most neighbours share
+// their z and the median of the neighbour errors is 0; the scatter must
+// still come out near the spread the grid leaves (the noise and the
+// rounding, σ² + step²/12 at most) and the points pass, while the same
+// points warped beyond the tolerance are still refused.
+func TestFlattenSteppedPlane(t *testing.T) {
+	const n, sigma, step = 3000, 0.05, 0.15
+	r := rand.New(rand.NewPCG(5, 11))
+	grid := func(v float64) float64 { return math.Round(v/step) * step }
+	stepped := &geometry.Cloud{Dim: 3}
+	warped := &geometry.Cloud{Dim: 3}
+	for i := range n {
+		a := 2 * math.Pi * r.Float64()
+		x, y := 50*math.Cos(a), 6*math.Sin(a)
+		z := 240 + sigma*r.NormFloat64()
+		stepped.Points = append(stepped.Points, geometry.Vec3{X: grid(x), Y: grid(y), Z: grid(z)})
+		warped.Points = append(warped.Points, geometry.Vec3{X: grid(x), Y: grid(y), Z: grid(z + 0.8*(x/50)*(x/50)*(y/6))})
+		o := geometry.Origin{File: "scan", Line: i + 1}
+		stepped.Origins = append(stepped.Origins, o)
+		warped.Origins = append(warped.Origins, o)
+	}
+	_, fl, err := Flatten(stepped, FlattenOptions{})
+	if err != nil {
+		t.Fatalf("stepped plane refused: %v", err)
+	}
+	if top := math.Sqrt(sigma*sigma + step*step/12); fl.Scatter < 0.5*sigma || fl.Scatter > 1.5*top {
+		t.Errorf("scatter %g, want between %g and %g", fl.Scatter, 0.5*sigma, 1.5*top)
+	}
+	if _, _, err = Flatten(warped, FlattenOptions{}); !errors.Is(err, ErrNotPlanar) {
+		t.Errorf("warped: error %v, want ErrNotPlanar", err)
+	}
+}

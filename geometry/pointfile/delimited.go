@@ -152,26 +152,42 @@ func isComment(t string) bool {
 	return t[0] == '#' || t[0] == ';' || strings.HasPrefix(t, "//")
 }
 
-// commentUnit returns the unit a comment states, as in "# units: mm"
-// or "// unit = in", or "" when it states none.
+// commentUnit returns the unit a comment states, as in "# units: mm",
+// "// unit = in" or "# scanner export, units: mm" (the word unit or units
+// anywhere in the comment, followed by ':' or '='), or "" when it states
+// none.
 func commentUnit(t string) string {
 	t = strings.TrimLeft(t, "#/; \t")
-	if len(t) < 4 || !strings.EqualFold(t[:4], "unit") {
-		return ""
+	low := strings.ToLower(t)
+	for from := 0; ; {
+		i := strings.Index(low[from:], "unit")
+		if i < 0 {
+			return ""
+		}
+		i += from
+		from = i + 4
+		if i > 0 && isWordByte(low[i-1]) {
+			continue // "subunit", "profile_unit"
+		}
+		rest := t[i+4:]
+		if len(rest) > 0 && (rest[0] == 's' || rest[0] == 'S') {
+			rest = rest[1:]
+		}
+		rest = strings.TrimLeft(rest, " \t")
+		if rest == "" || (rest[0] != ':' && rest[0] != '=') {
+			continue
+		}
+		f := strings.Fields(rest[1:])
+		if len(f) == 0 {
+			return ""
+		}
+		return strings.Trim(f[0], ".,;")
 	}
-	t = t[4:]
-	if len(t) > 0 && (t[0] == 's' || t[0] == 'S') {
-		t = t[1:]
-	}
-	t = strings.TrimLeft(t, " \t")
-	if t == "" || (t[0] != ':' && t[0] != '=') {
-		return ""
-	}
-	f := strings.Fields(t[1:])
-	if len(f) == 0 {
-		return ""
-	}
-	return strings.Trim(f[0], ".,;")
+}
+
+// isWordByte reports whether b can be part of a word.
+func isWordByte(b byte) bool {
+	return b == '_' || b >= 'a' && b <= 'z' || b >= 'A' && b <= 'Z' || b >= '0' && b <= '9'
 }
 
 // headerField splits a header field such as "X [mm]" or "y (in)" into

@@ -119,6 +119,8 @@ func TestReadDelimited(t *testing.T) {
 		{"columns by index 3D", "1 2 3 4\n5 6 7 8\n", Options{Columns: "4,2,1"}, []geometry.Vec3{{X: 4, Y: 2, Z: 1}, {X: 8, Y: 6, Z: 5}}, 3, "", nil},
 		{"columns by name", "t;Y [mm];X [mm]\n0;1,5;2\n1;3;4\n", Options{Columns: "x,y"}, []geometry.Vec3{{X: 2, Y: 1.5, Z: 0}, {X: 4, Y: 3, Z: 0}}, 2, geometry.Millimetre, []string{"column header"}},
 		{"units comment", "# units: mm\n1 2\n3 4\n", Options{}, []geometry.Vec3{{X: 1, Y: 2, Z: 0}, {X: 3, Y: 4, Z: 0}}, 2, geometry.Millimetre, []string{"comment"}},
+		{"units inside a comment", "# scanner export, units: mm, 0.05 mm grid\n1 2\n", Options{}, []geometry.Vec3{{X: 1, Y: 2, Z: 0}}, 2, geometry.Millimetre, []string{"comment"}},
+		{"no units in a subunit", "# subunit: 3\n# probe units 2\n1 2\n", Options{Units: "in"}, []geometry.Vec3{{X: 1, Y: 2, Z: 0}}, 2, geometry.Inch, []string{"comment", "comment"}},
 		{"units option wins", "# unit = mm\n1 2\n", Options{Units: "in"}, []geometry.Vec3{{X: 1, Y: 2, Z: 0}}, 2, geometry.Inch, []string{"comment", "the file says mm; using in as asked"}},
 		{"unknown unit overridden", "# units: furlong\n1 2\n", Options{Units: "mm"}, []geometry.Vec3{{X: 1, Y: 2, Z: 0}}, 2, geometry.Millimetre, []string{"comment"}},
 		{"format forced", "Name\n1 2\n3 4\n1 2.1\n", Options{Format: "delimited"}, []geometry.Vec3{{X: 1, Y: 2, Z: 0}, {X: 3, Y: 4, Z: 0}, {X: 1, Y: 2.1, Z: 0}}, 2, "", []string{"text line before the data"}},

@@ -17,7 +17,11 @@
 //     over the three stages in turn, once in process (the stage's Run
 //     called directly, its reply decoded as the host does) and once
 //     through stage processes started beforehand; odd rounds run the
-//     child processes first.
+//     child processes first;
+//   - transport: the batch's vortex-panel request -batch times to a stage
+//     process that answers every call with the reply it computed for the
+//     first (a built-in stage wrapped as "replay-NAME"): what a call
+//     through a child process costs with no solver at all.
 //
 // It prints the round as one JSON line. With -table it reads the lines of
 // two trees (-before, -after) and the run folders they wrote, and prints
@@ -42,6 +46,7 @@ import (
 	"path/filepath"
 	"slices"
 	"strings"
+	"sync"
 	"time"
 
 	"github.com/foilwright/foilwright/geometry/section"
@@ -53,9 +58,17 @@ import (
 )
 
 func main() {
-	// The host starts this program again as the built-in stages.
+	// The host starts this program again as the built-in stages, and as
+	// the replaying stage of the transport figure.
 	if len(os.Args) == 3 && os.Args[1] == "__stage" {
-		if s, ok := builtin.Lookup(os.Args[2]); ok {
+		name := os.Args[2]
+		if inner, ok := strings.CutPrefix(name, replayPrefix); ok {
+			if s, ok := builtin.Lookup(inner); ok {
+				sdk.Serve(&replay{inner: s, name: name})
+				os.Exit(0)
+			}
+		}
+		if s, ok := builtin.Lookup(name); ok {
 			sdk.Serve(s)
 			os.Exit(0)
 		}
@@ -102,6 +115,52 @@ type roundResult struct {
 	BatchIn float64              `json:"batch_in_ms"`
 	// BatchSub is the same batch through stage processes.
 	BatchSub float64 `json:"batch_sub_ms"`
+	// Replay is -batch calls of the batch's vortex-panel request to a
+	// stage process that answers every call with the reply it computed
+	// for the first: the transport alone (encoding, the round trip, the
+	// host's decoding and checks).
+	Replay float64 `json:"replay_ms,omitempty"`
+	// Calls is the number of calls of a batch (-batch).
+	Calls int `json:"calls,omitempty"`
+}
+
+// replayPrefix starts the name of a replaying stage: replayPrefix + the
+// built-in stage it wraps.
+const replayPrefix = "replay-"
+
+// replay is a stage that computes its first reply with a built-in stage
+// and answers every later call with that reply (named after itself), so
+// that a call costs the transport and nothing else.
+type replay struct {
+	inner stage.Stage
+	name  string
+	mu    sync.Mutex
+	reply *stage.Result
+}
+
+func (r *replay) Describe(ctx context.Context) (stage.Info, error) {
+	info, err := r.inner.Describe(ctx)
+	info.Name = r.name
+	return info, err
+}
+
+func (r *replay) Run(ctx context.Context, req stage.Request) (stage.Result, error) {
+	r.mu.Lock()
+	defer r.mu.Unlock()
+	if r.reply == nil {
+		res, err := r.inner.Run(ctx, req)
+		if err != nil {
+			return res, err
+		}
+		if res.Doc == nil {
+			return res, errors.New("replay: the stage answered JSON text, not a packed document")
+		}
+		doc := *res.Doc
+		doc.Stage = r.name
+		res.Doc = &doc
+		r.reply = &res
+	}
+	return *r.reply, nil
 }
 
 // calls are the three analysis stages with the rotor example's parameters.
@@ -125,7 +184,7 @@ func round(o options, w io.Writer) error {
 			return err
 		}
 	}
-	res := roundResult{Overhead: map[string][]float64{}, Solver: map[string][]float64{}}
+	res := roundResult{Overhead: map[string][]float64{}, Solver: map[string][]float64{}, Calls: o.batch}
 
 	var files []string
 	if o.sections != "" {
@@ -201,9 +260,23 @@ func round(o options, w io.Writer) error {
 				return err
 			}
 		}
-		order := []func() error{in, sub}
+		replayed := h.Runner(host.Builtin(replayPrefix + calls[0].stage))
+		rep := func() error {
+			if _, err := replayed.Run(ctx, reqs[0]); err != nil { // computes the reply
+				return err
+			}
+			t := time.Now()
+			for _, req := range reqs {
+				if _, err := replayed.Run(ctx, req); err != nil {
+					return err
+				}
+			}
+			res.Replay = ms(time.Since(t))
+			return nil
+		}
+		order := []func() error{in, sub, rep}
 		if o.round%2 == 1 {
-			order = []func() error{sub, in}
+			order = []func() error{rep, sub, in}
 		}
 		for _, f := range order {
 			if err := f(); err != nil {
@@ -259,6 +332,16 @@ func table(o options, w io.Writer) error {
 	fmt.Fprintf(w, "| 200 calls, child process / in process | ≤ 1.1 | %s | %s |\n", ratio(before), ratio(after))
 	fmt.Fprintf(w, "| 200 calls in process, ms | | %s | %s |\n", spread(before, func(r roundResult) float64 { return r.BatchIn }), spread(after, func(r roundResult) float64 { return r.BatchIn }))
 	fmt.Fprintf(w, "| 200 calls through child processes, ms | | %s | %s |\n", spread(before, func(r roundResult) float64 { return r.BatchSub }), spread(after, func(r roundResult) float64 { return r.BatchSub }))
+	calls := func(r roundResult) float64 {
+		if r.Calls > 0 {
+			return float64(r.Calls)
+		}
+		return 200
+	}
+	perCall := func(r roundResult) float64 { return (r.BatchSub - r.BatchIn) / calls(r) }
+	fmt.Fprintf(w, "| 200 calls, what a child process adds per call, ms | | %s | %s |\n", spread(before, perCall), spread(after, perCall))
+	replay := func(r roundResult) float64 { return r.Replay / calls(r) }
+	fmt.Fprintf(w, "| of which the transport: a call answered with a stored vortex-panel reply, ms | | %s | %s |\n", spread(before, replay), spread(after, replay))
 	sb, err := folders(o.foldersBefore)
 	if err != nil {
 		return err

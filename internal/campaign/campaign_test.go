@@ -18,22 +18,27 @@ import (
 const StrictEnv = "FOILWRIGHT_CAMPAIGN_STRICT"
 
 // TestCampaign runs seeded cases through the geometry chain and checks the
-// table of issue 10: 400 cases (about 20 s on two cores), 80 with -short,
-// 40 without the 1e5-point scans under the race detector. The truth is exact: NACA Report 824
-// sections and Kármán–Trefftz sections with their exact potential flow
-// (Milne-Thomson); see internal/scangen.
+// table of issue 10: 300 cases with two of the 1e5-point scans (about
+// 40 s on two idle cores), 80 with -short, 40 without the 1e5-point scans
+// under the race detector. The truth is exact: NACA Report 824 4- and
+// 5-digit sections, 4-digit-modified (Abbott and von Doenhoff),
+// flat-bottomed sections in closed form and Kármán–Trefftz sections with
+// their exact potential flow (Milne-Thomson); see internal/scangen.
 func TestCampaign(t *testing.T) {
-	n := 400
+	n, dense := 300, 2
 	switch {
 	case raceEnabled:
-		n = 40
+		n, dense = 40, 0
 	case testing.Short():
-		n = 80
+		n, dense = 80, 1
 	}
 	var seeds []uint64
 	for s := uint64(1); len(seeds) < n; s++ {
-		if raceEnabled && scangen.Draw(s).Category == "dense" {
-			continue
+		if scangen.Draw(s).Category == "dense" {
+			if dense == 0 {
+				continue
+			}
+			dense--
 		}
 		seeds = append(seeds, s)
 	}
@@ -61,7 +66,7 @@ func TestCampaign(t *testing.T) {
 		// The figures the chain meets are asserted on every full run (not
 		// on the samples of -short and -race, too few for a 95th
 		// percentile); the others only when strict.
-		met := metFigures[f.Name] && n >= 400
+		met := metFigures[f.Name] && n >= 300
 		if f.Checked && !f.Met && (strict || met) {
 			t.Errorf("%s: measured %s, target %s", f.Name, f.Measured, f.Target)
 		}
@@ -69,14 +74,49 @@ func TestCampaign(t *testing.T) {
 	if !strict {
 		t.Logf("targets not yet met not asserted: set %s=1", StrictEnv)
 	}
+	// Floors below the targets that the chain holds on the harder
+	// generator (measured on the suite's seeds and on seeds 50001 and
+	// 60001, 300 cases each, with a margin), so that a change that loses
+	// ground fails the suite before the targets are met.
+	if n >= 300 {
+		var ok, wrong, planted, caught int
+		for _, r := range recs {
+			if r.OK {
+				ok++
+				planted += r.Planted
+				caught += r.Caught
+				if r.Wrong != "" {
+					wrong++
+				}
+			}
+		}
+		if s := share(ok, n); s < floorOK {
+			t.Errorf("prep succeeds on %.1f %% of the cases, below the floor %.0f %%", 100*s, 100*floorOK)
+		}
+		if s := share(wrong, ok); s > floorWrong {
+			t.Errorf("%.1f %% of the successes are wrong beyond their stated uncertainty, above the ceiling %.0f %%", 100*s, 100*floorWrong)
+		}
+		if s := share(caught, planted); s < floorCaught {
+			t.Errorf("%.2f %% of the planted outliers caught, below the floor %.0f %%", 100*s, 100*floorCaught)
+		}
+	}
 }
+
+// The floors of TestCampaign: measured 95.0–96.7 % success, 3.1–5.6 %
+// wrong among the successes (after the main line's mirror rule; 3.1–3.8 %
+// before it) and 97.5–98.8 % of the planted outliers caught.
+const (
+	floorOK     = 0.93
+	floorWrong  = 0.07
+	floorCaught = 0.97
+)
 
 // metFigures names the figures of the table (Figure.Name) that the chain
 // meets on the suite's seeds and on fresh ones (scripts/campaign.sh), so
-// that the normal suite asserts them.
-var metFigures = map[string]bool{
-	"prep succeeds, all": true,
-	"node error against the true shape, well-sampled, 95th pct": true,
-	"good points dropped (median / 95th pct)":                   true,
-	"planted outliers caught":                                   true,
-}
+// that the normal suite asserts them. On the harder generator (thin, thick
+// and cusped sections, stair-stepped and overlapping scans, 60-point
+// files) the chain meets none of them on every seed: "prep succeeds,
+// all" reaches 95–97 %, the planted outliers caught 97.5–98.8 %, the good
+// points dropped 0.29–0.57 % at the 95th percentile. A figure returns here
+// when the chain meets it again on the suite's seeds and two fresh ones.
+var metFigures = map[string]bool{}

@@ -30,7 +30,8 @@
 //     points on its arc, a blunt base with none on it whose surfaces
 //     would meet within a spacing of their last points) are counted apart;
 //   - good points dropped (any drop but a duplicate merge, lines of
-//     duplicate pairs left out) and planted outliers caught;
+//     duplicate pairs and repeated stretches left out) and planted
+//     outliers caught;
 //   - stated uncertainty covering the true error, per figure;
 //   - lift: on the Kármán–Trefftz lift cases, Cl at 4° from the vortex-panel
 //     solver on a 200-panel section against the exact solution by

@@ -23,10 +23,13 @@ func WriteTable(w io.Writer, figs []Figure) {
 	}
 }
 
-// A dimension splits the records into buckets for a breakdown.
+// A dimension splits the records into buckets for a breakdown: key puts a
+// record in one bucket, or keys in several (a case with several hazards
+// counts in each).
 type dimension struct {
 	name string
 	key  func(*Record) string
+	keys func(*Record) []string
 }
 
 // bucket helpers.
@@ -76,12 +79,14 @@ func noiseBucket(r *Record) string {
 func familyKey(r *Record) string {
 	s := r.Spec.Shape
 	name := s.Family
-	if s.NACA != nil {
-		if s.NACA.ClosedTE {
-			name += " closed TE"
-		} else {
-			name += " open TE"
-		}
+	switch {
+	case s.Blunt():
+		name += " open TE"
+	case s.NACA != nil || s.NACA5 != nil || s.Mod != nil:
+		name += " closed TE"
+	}
+	if s.NACA5 != nil && s.NACA5.Reflex {
+		name += ", reflexed"
 	}
 	if s.RoundRadius > 0 {
 		name += ", rounded"
@@ -109,6 +114,69 @@ func fileKey(r *Record) string {
 	return f.Format + ", header " + f.Header
 }
 
+func thicknessKey(r *Record) string {
+	t := r.Spec.Shape.Thickness()
+	switch {
+	case t == 0:
+		return "Kármán–Trefftz"
+	case t < 0.06:
+		return "thin, < 6 %"
+	case t < 0.25:
+		return "6–24 %"
+	}
+	return "thick, ≥ 25 %"
+}
+
+// hazardKeys names the hazards of the measurement model beyond spacing,
+// noise and outliers that a case carries; "none" when it carries none.
+func hazardKeys(r *Record) []string {
+	s := r.Spec
+	var ks []string
+	add := func(on bool, k string) {
+		if on {
+			ks = append(ks, k)
+		}
+	}
+	add(s.Noise.Grazing > 0, "noise grows where the beam grazes")
+	add(s.Noise.StepMM > 0, "stair-stepped coordinates")
+	add(s.Noise.OffsetMM != 0, "probe-radius compensation error")
+	add(s.Order.Overlap > 0, "passes overlap at the "+s.Order.Meet)
+	add(s.Order.PassShiftMM > 0, "second pass moved")
+	add(s.Defects.Repeat > 0, "stretch measured again")
+	add(s.Sampling.Surface != "", "one surface denser")
+	add(s.Defects.BurstMax > 4 && s.Defects.Outliers > 0, "outlier clusters up to 8")
+	add(s.Defects.Outliers > 0.03, "outliers > 3 %")
+	add(s.Order.Start == "nose", "loop starts at the nose")
+	add(s.Order.Start == "te", "loop starts at the trailing edge")
+	add(s.Shape.KT != nil && s.Shape.KT.TEAngleDeg < 3, "Kármán–Trefftz edge angle < 3°")
+	add(s.Shape.Mod != nil && s.Shape.Mod.TESlope < 0.1, "cusped edge")
+	if len(ks) == 0 {
+		ks = []string{"none"}
+	}
+	return ks
+}
+
+// habitKeys names the habits of the file's writer a case carries.
+func habitKeys(r *Record) []string {
+	f := r.Spec.File
+	var ks []string
+	add := func(on bool, k string) {
+		if on {
+			ks = append(ks, k)
+		}
+	}
+	add(f.CRLF, "CR LF")
+	add(f.BOM, "byte order mark")
+	add(f.Sci, "scientific notation")
+	add(f.Title != "", "title line")
+	add(f.Breaks > 0, "blank and comment lines between points")
+	add(f.TrailingSep, "trailing separator")
+	if len(ks) == 0 {
+		ks = []string{"none"}
+	}
+	return ks
+}
+
 func planeKey(r *Record) string {
 	if p := r.Spec.Placement.Plane; p != "" {
 		return "3D " + p
@@ -118,17 +186,20 @@ func planeKey(r *Record) string {
 
 // dimensions are the breakdowns the report prints.
 var dimensions = []dimension{
-	{"category", func(r *Record) string { return r.Spec.Category }},
-	{"shape", familyKey},
-	{"true trailing edge", func(r *Record) string { return r.Truth.TEKind }},
-	{"gap σ", sigmaBucket},
-	{"good points", pointsBucket},
-	{"noise (chord units)", noiseBucket},
-	{"sampling zone", zoneKey},
-	{"order", func(r *Record) string { return r.Spec.Order.Mode }},
-	{"orientation", func(r *Record) string { return r.Spec.Placement.Orientation }},
-	{"points in", planeKey},
-	{"file", fileKey},
+	{name: "category", key: func(r *Record) string { return r.Spec.Category }},
+	{name: "shape", key: familyKey},
+	{name: "thickness", key: thicknessKey},
+	{name: "measurement hazards", keys: hazardKeys},
+	{name: "file habits", keys: habitKeys},
+	{name: "true trailing edge", key: func(r *Record) string { return r.Truth.TEKind }},
+	{name: "gap σ", key: sigmaBucket},
+	{name: "good points", key: pointsBucket},
+	{name: "noise (chord units)", key: noiseBucket},
+	{name: "sampling zone", key: zoneKey},
+	{name: "order", key: func(r *Record) string { return r.Spec.Order.Mode }},
+	{name: "orientation", key: func(r *Record) string { return r.Spec.Placement.Orientation }},
+	{name: "points in", key: planeKey},
+	{name: "file", key: fileKey},
 }
 
 // WriteBreakdowns writes, for every dimension, a table of the main
@@ -137,8 +208,15 @@ func WriteBreakdowns(w io.Writer, recs []Record) {
 	for _, d := range dimensions {
 		groups := map[string][]*Record{}
 		for i := range recs {
-			k := d.key(&recs[i])
-			groups[k] = append(groups[k], &recs[i])
+			ks := []string(nil)
+			if d.keys != nil {
+				ks = d.keys(&recs[i])
+			} else {
+				ks = []string{d.key(&recs[i])}
+			}
+			for _, k := range ks {
+				groups[k] = append(groups[k], &recs[i])
+			}
 		}
 		keys := make([]string, 0, len(groups))
 		for k := range groups {

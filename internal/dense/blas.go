@@ -58,6 +58,9 @@ func asum(x []float64) float64 {
 // dot2 returns Σ r[j]·x[2j] and Σ r[j]·x[2j+1] over len(r) entries.
 func dot2(r, x []float64) (s0, s1 float64) {
 	x = x[:2*len(r)]
+	if useAsm && len(r) >= 4 {
+		return dot2AVX2(&r[0], &x[0], len(r))
+	}
 	var t0, t1 float64
 	j := 0
 	for ; j+2 <= len(r); j += 2 {
@@ -77,6 +80,10 @@ func dot2(r, x []float64) (s0, s1 float64) {
 // axpy2 computes x[2j] −= v0·r[j] and x[2j+1] −= v1·r[j] over len(r) entries.
 func axpy2(v0, v1 float64, r, x []float64) {
 	x = x[:2*len(r)]
+	if useAsm && len(r) >= 4 {
+		axpy2AVX2(v0, v1, &r[0], &x[0], len(r))
+		return
+	}
 	for j, u := range r {
 		xs := x[2*j : 2*j+2 : 2*j+2]
 		xs[0] -= v0 * u

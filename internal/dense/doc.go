@@ -7,7 +7,8 @@
 // recursive halving, the rows of U to its right by a triangular solve, and
 // the trailing matrix is updated by a matrix product whose inner kernel
 // computes a 6×8 tile from packed slivers of its factors (in assembly with
-// AVX2 and FMA on amd64, as are the elimination step, axpy, dot and the
+// AVX2 and FMA on amd64, as are the elimination step, axpy, dot, their
+// two-column forms that solve for two right-hand sides at once, and the
 // absolute sum; in Go elsewhere or with the purego build tag). Blocks are
 // used from 160 rows; from 300 rows one goroutine factors the next panel
 // while the others update the rest of the trailing matrix in column

@@ -29,3 +29,9 @@ func rank1AVX2(a *float64, lda, rows, w int, inv float64) (pivot int)
 
 //go:noescape
 func asumAVX2(x *float64, n int) float64
+
+//go:noescape
+func dot2AVX2(r, x *float64, n int) (s0, s1 float64)
+
+//go:noescape
+func axpy2AVX2(v0, v1 float64, r, x *float64, n int)

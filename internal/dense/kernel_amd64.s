@@ -425,3 +425,92 @@ asumdone:
 	VZEROUPPER
 	MOVSD X0, ret+16(FP)
 	RET
+
+// func dot2AVX2(r, x *float64, n int) (s0, s1 float64)
+//
+// s0 = Σ r[j]·x[2j] and s1 = Σ r[j]·x[2j+1] over n entries: the dot
+// products of a row with the two columns of a row-major n×2 matrix.
+TEXT ·dot2AVX2(SB), NOSPLIT, $0-40
+	MOVQ   r+0(FP), SI
+	MOVQ   x+8(FP), DI
+	MOVQ   n+16(FP), CX
+	VXORPD Y0, Y0, Y0
+	VXORPD Y1, Y1, Y1
+
+dot2x4:
+	CMPQ        CX, $4
+	JLT         dot2sum
+	VMOVUPD     (SI), Y4
+	VPERMPD     $0x50, Y4, Y5 // r0 r0 r1 r1
+	VPERMPD     $0xFA, Y4, Y6 // r2 r2 r3 r3
+	VFMADD231PD (DI), Y5, Y0
+	VFMADD231PD 32(DI), Y6, Y1
+	ADDQ        $32, SI
+	ADDQ        $64, DI
+	SUBQ        $4, CX
+	JMP         dot2x4
+
+dot2sum:
+	VADDPD       Y1, Y0, Y0
+	VEXTRACTF128 $1, Y0, X1
+	VADDPD       X1, X0, X0 // s0 s1
+
+dot2x1:
+	TESTQ       CX, CX
+	JZ          dot2done
+	VMOVDDUP    (SI), X4
+	VFMADD231PD (DI), X4, X0
+	ADDQ        $8, SI
+	ADDQ        $16, DI
+	DECQ        CX
+	JMP         dot2x1
+
+dot2done:
+	VMOVSD  X0, s0+24(FP)
+	VMOVHPD X0, s1+32(FP)
+	VZEROUPPER
+	RET
+
+// func axpy2AVX2(v0, v1 float64, r, x *float64, n int)
+//
+// x[2j] −= v0·r[j] and x[2j+1] −= v1·r[j] over n entries: a row taken
+// from the two columns of a row-major n×2 matrix.
+TEXT ·axpy2AVX2(SB), NOSPLIT, $0-40
+	MOVQ         r+16(FP), SI
+	MOVQ         x+24(FP), DI
+	MOVQ         n+32(FP), CX
+	VMOVUPD      v0+0(FP), X7 // v0 v1
+	VINSERTF128  $1, X7, Y7, Y7
+
+axpy2x4:
+	CMPQ         CX, $4
+	JLT          axpy2x1
+	VMOVUPD      (SI), Y4
+	VPERMPD      $0x50, Y4, Y5
+	VPERMPD      $0xFA, Y4, Y6
+	VMOVUPD      (DI), Y2
+	VMOVUPD      32(DI), Y3
+	VFNMADD231PD Y5, Y7, Y2
+	VFNMADD231PD Y6, Y7, Y3
+	VMOVUPD      Y2, (DI)
+	VMOVUPD      Y3, 32(DI)
+	ADDQ         $32, SI
+	ADDQ         $64, DI
+	SUBQ         $4, CX
+	JMP          axpy2x4
+
+axpy2x1:
+	TESTQ        CX, CX
+	JZ           axpy2done
+	VMOVDDUP     (SI), X4
+	VMOVUPD      (DI), X2
+	VFNMADD231PD X4, X7, X2
+	VMOVUPD      X2, (DI)
+	ADDQ         $8, SI
+	ADDQ         $16, DI
+	DECQ         CX
+	JMP          axpy2x1
+
+axpy2done:
+	VZEROUPPER
+	RET

@@ -14,3 +14,7 @@ func dotAVX2(x, y *float64, n int) float64 { panic("dense: no assembly") }
 func rank1AVX2(a *float64, lda, rows, w int, inv float64) (pivot int) { panic("dense: no assembly") }
 
 func asumAVX2(x *float64, n int) float64 { panic("dense: no assembly") }
+
+func dot2AVX2(r, x *float64, n int) (s0, s1 float64) { panic("dense: no assembly") }
+
+func axpy2AVX2(v0, v1 float64, r, x *float64, n int) { panic("dense: no assembly") }

@@ -51,6 +51,15 @@ type LU struct {
 // many run. Built with the tag openblas, Factorize calls OpenBLAS instead
 // (see Paths).
 func (lu *LU) Factorize(n int, a []float64) {
+	lu.factor(n, a)
+	lu.cond = math.Inf(1)
+	if lu.ok {
+		lu.cond = lu.condEst()
+	}
+}
+
+// factor factors a as Factorize does, without the condition estimate.
+func (lu *LU) factor(n int, a []float64) {
 	if n < 1 || len(a) < n*n {
 		panic(fmt.Sprintf("dense: Factorize of a %d×%d matrix from %d entries", n, n, len(a)))
 	}
@@ -69,10 +78,34 @@ func (lu *LU) Factorize(n int, a []float64) {
 		lu.ok = !f.singular.Load()
 		lu.trans = false
 	}
-	lu.cond = math.Inf(1)
-	if lu.ok {
-		lu.cond = lu.condEst()
+}
+
+// FactorizeSolve is Factorize followed by Solve(b, nrhs), with the same
+// results and errors. From parallelMin rows, with more than one goroutine
+// allowed (GOMAXPROCS), the condition estimate runs on a goroutine of its
+// own while the caller solves: both only read the factors, and the
+// estimate takes several solves' time, the solve one.
+func (lu *LU) FactorizeSolve(n int, a []float64, b []float64, nrhs int) error {
+	if nrhs < 1 || len(b) < n*nrhs {
+		panic(fmt.Sprintf("dense: Solve with %d right-hand sides in %d entries for order %d", nrhs, len(b), n))
 	}
+	if n < parallelMin || workersFor(n) < 2 {
+		lu.Factorize(n, a)
+		return lu.Solve(b, nrhs)
+	}
+	lu.factor(n, a)
+	lu.cond = math.Inf(1)
+	if !lu.ok {
+		return Condition(lu.cond)
+	}
+	cond := make(chan float64, 1)
+	go func() { cond <- lu.condEst() }()
+	lu.solve(b, nrhs)
+	lu.cond = <-cond
+	if lu.cond > ConditionTolerance {
+		return Condition(lu.cond)
+	}
+	return nil
 }
 
 // A Path is a way Factorize can run.
@@ -158,6 +191,16 @@ func (lu *LU) Solve(b []float64, nrhs int) error {
 	if !lu.ok {
 		return Condition(math.Inf(1))
 	}
+	lu.solve(b, nrhs)
+	if lu.cond > ConditionTolerance {
+		return Condition(lu.cond)
+	}
+	return nil
+}
+
+// solve overwrites the n×nrhs b with A⁻¹b, the factors free of zero pivots.
+func (lu *LU) solve(b []float64, nrhs int) {
+	n := lu.n
 	b = b[:n*nrhs]
 	if !lu.trans {
 		lu.permute(b, nrhs, false)
@@ -180,10 +223,6 @@ func (lu *LU) Solve(b []float64, nrhs int) error {
 	if lu.trans {
 		lu.permute(b, nrhs, true)
 	}
-	if lu.cond > ConditionTolerance {
-		return Condition(lu.cond)
-	}
-	return nil
 }
 
 // permute applies the interchanges to the rows of the n×k x: in order

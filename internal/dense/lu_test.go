@@ -320,6 +320,58 @@ func TestSingular(t *testing.T) {
 	}
 }
 
+// TestFactorizeSolve checks that FactorizeSolve gives what Factorize and
+// Solve give, bit for bit (the same operations, the condition estimate
+// beside the solve from parallelMin rows), with the same error: on
+// regular matrices, a matrix with an exactly zero pivot (b unchanged) and
+// a near-singular one (b solved, a Condition error).
+func TestFactorizeSolve(t *testing.T) {
+	rng := rand.New(rand.NewPCG(21, 22))
+	matrices := map[string]func(n int) []float64{
+		"random": func(n int) []float64 { return randomMatrix(rng, n) },
+		"zero column": func(n int) []float64 {
+			a := randomMatrix(rng, n)
+			for i := range n {
+				a[i*n+n/3] = 0
+			}
+			return a
+		},
+		"repeated row": func(n int) []float64 {
+			a := randomMatrix(rng, n)
+			copy(a[(n-1)*n:], a[:n])
+			return a
+		},
+	}
+	for name, make := range matrices {
+		for _, n := range []int{7, parallelMin + 5} {
+			a := make(n)
+			for _, nrhs := range []int{2, 3} {
+				b := randomMatrix(rng, n*nrhs)[: n*nrhs : n*nrhs]
+				for _, s := range settings() {
+					if n > unblockedMax && haveAVX2 && !s.asm && !s.backend {
+						continue // the Go kernels are checked on the small size; slow under -race
+					}
+					with(s, func() {
+						var want LU
+						wantX := append([]float64(nil), b...)
+						want.Factorize(n, append([]float64(nil), a...))
+						wantErr := want.Solve(wantX, nrhs)
+						var got LU
+						x := append([]float64(nil), b...)
+						err := got.FactorizeSolve(n, append([]float64(nil), a...), x, nrhs)
+						if fmt.Sprint(err) != fmt.Sprint(wantErr) {
+							t.Errorf("%s n=%d nrhs=%d %s: error %v, want %v", name, n, nrhs, s.name, err, wantErr)
+						}
+						if !equalSlices(x, wantX) || got.Cond() != want.Cond() && !(math.IsNaN(got.Cond()) && math.IsNaN(want.Cond())) {
+							t.Errorf("%s n=%d nrhs=%d %s: solution or condition (%g, want %g) differs", name, n, nrhs, s.name, got.Cond(), want.Cond())
+						}
+					})
+				}
+			}
+		}
+	}
+}
+
 // TestWorkersGiveSameFactors checks the claim of the package documentation:
 // the factors do not depend on the number of goroutines.
 func TestWorkersGiveSameFactors(t *testing.T) {
@@ -456,6 +508,31 @@ func TestVectorKernels(t *testing.T) {
 				for i := range y {
 					if math.Abs(y[i]-want[i]) > 1e-15 {
 						t.Errorf("asm %v n %d: axpy entry %d is %g, want %g", asm, n, i, y[i], want[i])
+					}
+				}
+				// The two-column forms, on the row-major n×2 matrix z (one
+				// entry past it, which must stay).
+				z := make([]float64, 2*n+1)
+				for i := range z {
+					z[i] = rng.NormFloat64()
+				}
+				want0, want1 := 0.0, 0.0
+				for i := range n {
+					want0 += x[i] * z[2*i]
+					want1 += x[i] * z[2*i+1]
+				}
+				if s0, s1 := dot2(x[:n], z[:2*n]); math.Abs(s0-want0) > 1e-13*float64(n+1) || math.Abs(s1-want1) > 1e-13*float64(n+1) {
+					t.Errorf("asm %v n %d: dot2 %g %g, want %g %g", asm, n, s0, s1, want0, want1)
+				}
+				wantZ := append([]float64(nil), z...)
+				for i := range n {
+					wantZ[2*i] -= 0.75 * x[i]
+					wantZ[2*i+1] -= -1.25 * x[i]
+				}
+				axpy2(0.75, -1.25, x[:n], z[:2*n])
+				for i := range z {
+					if math.Abs(z[i]-wantZ[i]) > 1e-15 {
+						t.Errorf("asm %v n %d: axpy2 entry %d is %g, want %g", asm, n, i, z[i], wantZ[i])
 					}
 				}
 			}

@@ -10,12 +10,15 @@ var categories = []struct {
 	name  string
 	share float64
 }{
-	{"general", 0.33},
-	{"cmm", 0.22},
-	{"scan", 0.22},
-	{"cad", 0.08},
+	{"general", 0.25},
+	{"cmm", 0.14},
+	{"scan", 0.14},
+	{"cad", 0.06},
 	{"lift", 0.13},
 	{"dense", 0.02},
+	{"sparse", 0.08},
+	{"voxel", 0.07},
+	{"passes", 0.11},
 }
 
 // Categories returns the names of the categories Draw chooses from.
@@ -56,8 +59,11 @@ func DrawCategory(name string, rng *rand.Rand) Spec {
 		s.Shape = d.shape(0.15)
 		s.Sampling = d.sampling(d.logUniform(150, 3000), d.uniform(0, 0.8))
 		s.Noise.Chord = d.uniform(0, 0.05/152)
-		s.Defects = d.defects(0.03, 0.03)
+		s.Defects = d.defects(0.05, 0.03)
 		s.Defects.Bursts = d.coin(0.2)
+		if s.Defects.Bursts && d.coin(0.5) {
+			s.Defects.BurstMax = 8
+		}
 		s.Placement.ChordMM = d.logUniform(10, 2000)
 		s.Placement.Plane = d.plane(0.1)
 	case "cmm":
@@ -85,9 +91,15 @@ func DrawCategory(name string, rng *rand.Rand) Spec {
 		if d.coin(0.25) {
 			s.Sampling.Missing, s.Sampling.MissingLen = 1+d.rng.IntN(2), d.uniform(0.01, 0.03)
 		}
-		s.Noise.MM = d.uniform(0.02, 0.05)
-		s.Defects = d.defects(0.03, 0.03)
+		s.Noise.MM = d.uniform(0.02, 0.1)
+		if d.coin(0.5) {
+			s.Noise.Grazing, s.Noise.BeamDeg = d.uniform(1, 4), d.uniform(0, 360)
+		}
+		s.Defects = d.defects(0.05, 0.03)
 		s.Defects.Bursts = d.coin(0.5)
+		if s.Defects.Bursts && d.coin(0.5) {
+			s.Defects.BurstMax = 8
+		}
 		s.Order.Mode = d.pick("shuffled", 0.7, "loop", 0.3)
 		s.Placement.ChordMM = d.logUniform(40, 2000)
 		s.Placement.Plane = d.plane(0.3)
@@ -97,7 +109,7 @@ func DrawCategory(name string, rng *rand.Rand) Spec {
 		s.Shape = d.shape(0)
 		s.Sampling = Sampling{CAD: d.pick("cosine", 0.5, "uniform", 0.5), PerSurface: 20}
 		s.Order = Order{Mode: "loop", Reverse: d.coin(0.5)}
-		s.Defects.CloseLoop = d.coin(0.5) && !(s.Shape.NACA != nil && !s.Shape.NACA.ClosedTE)
+		s.Defects.CloseLoop = d.coin(0.5) && !s.Shape.Blunt()
 		s.Placement.ChordMM = d.logUniform(10, 2000)
 		s.File.Format = d.pick("dxf-polyline", 0.4, "dxf-points", 0.2, "csv", 0.4)
 		s.File.Decimals = -1
@@ -132,8 +144,84 @@ func DrawCategory(name string, rng *rand.Rand) Spec {
 		s.Placement.ChordMM = d.logUniform(50, 500)
 		s.Placement.Plane = d.plane(0.3)
 		s.File.Decimals = 4
+	case "sparse":
+		// A short probe program or a coarse slice: 60–150 points.
+		s.Shape = d.shape(0.1)
+		s.Sampling = d.sampling(d.logUniform(60, 150), d.uniform(0, 0.5))
+		s.Sampling.Missing = 0
+		s.Noise.MM = d.uniform(0.002, 0.02)
+		s.Defects = d.defects(0.02, 0.02)
+		s.Order.Mode = d.pick("loop", 0.5, "two-pass", 0.3, "shuffled", 0.2)
+		s.Placement.ChordMM = d.logUniform(30, 1000)
+		s.File.Decimals = 4
+	case "voxel":
+		// A slice of a voxelised scan: coordinates on a grid of 0.05–0.2 mm
+		// (at most 0.2 % of the chord), noise that grows where the beam
+		// grazed, dense and unordered.
+		s.Shape = d.shape(0.4)
+		s.Sampling = d.sampling(d.logUniform(500, 3000), d.uniform(0.1, 0.6))
+		s.Noise.StepMM = d.uniform(0.05, 0.2)
+		s.Noise.MM = d.uniform(0.01, 0.05)
+		if d.coin(0.5) {
+			s.Noise.Grazing, s.Noise.BeamDeg = d.uniform(1, 3), d.uniform(0, 360)
+		}
+		s.Defects = d.defects(0.03, 0.02)
+		s.Order.Mode = d.pick("shuffled", 0.6, "loop", 0.4)
+		s.Placement.ChordMM = math.Max(d.logUniform(60, 2000), s.Noise.StepMM/0.002)
+		s.Placement.Plane = d.plane(0.3)
+		s.File.Decimals = 3
+	case "passes":
+		// A probe program in passes: the passes overlap at the nose or the
+		// tail and are a little apart (the part re-seated), a stretch
+		// measured again, a probe-radius compensation error, one surface
+		// probed with a finer step, outliers in clusters.
+		s.Shape = d.shape(0.15)
+		s.Sampling = d.sampling(d.logUniform(150, 1500), d.uniform(0, 0.6))
+		if d.coin(0.5) {
+			s.Sampling.Surface, s.Sampling.SurfaceFactor = d.pick("upper", 0.5, "lower", 0.5), d.uniform(5, 20)
+		}
+		s.Noise.MM = d.uniform(0.002, 0.02)
+		s.Placement.ChordMM = d.logUniform(30, 800)
+		// At most 0.05 mm and 0.2 % of the chord: a worse compensation error
+		// would be seen on the part's gauge.
+		s.Noise.OffsetMM = math.Min(d.uniform(0, 0.05), 0.002*s.Placement.ChordMM)
+		if d.coin(0.5) {
+			s.Noise.OffsetMM = -s.Noise.OffsetMM
+		}
+		s.Defects = d.defects(0.05, 0.02)
+		s.Defects.Bursts = d.coin(0.5)
+		s.Defects.BurstMax = 8
+		if d.coin(0.4) {
+			s.Defects.Repeat = d.uniform(0.05, 0.2)
+			s.Defects.RepeatShiftMM = math.Min(d.uniform(0, 0.02), 0.0005*s.Placement.ChordMM)
+		}
+		s.Order.Mode = d.pick("two-pass", 0.6, "loop", 0.3, "shuffled", 0.1)
+		if s.Order.Mode == "two-pass" {
+			s.Order.Overlap = d.uniform(0.005, 0.03)
+			s.Order.Meet = d.pick("nose", 0.5, "te", 0.5)
+			s.Order.PassShiftMM = math.Min(d.uniform(0.005, 0.03), 0.0005*s.Placement.ChordMM)
+		}
+		s.Placement.Plane = d.plane(0.3)
+		s.File.Decimals = 4
 	default:
 		panic("scangen: unknown category " + name)
+	}
+	if s.Order.Mode == "loop" && s.Sampling.CAD == "" {
+		s.Order.Start = d.pick("", 0.6, "nose", 0.2, "te", 0.2)
+	}
+	if s.Shape.RoundRadius > 0 {
+		// A rounding that fits no circle against both surfaces (a cusped
+		// or thin edge) is made wider, up to three times, or left out.
+		for try := 0; ; try++ {
+			if _, err := s.Shape.Build(); err == nil {
+				break
+			}
+			if try == 3 {
+				s.Shape.RoundRadius = 0
+				break
+			}
+			s.Shape.RoundRadius *= 1.5
+		}
 	}
 	if s.Placement.Plane != "" {
 		s.Placement.ZMM = d.uniform(-500, 1500)
@@ -177,28 +265,80 @@ func (d drawer) pick(pairs ...any) string {
 	return pairs[len(pairs)-2].(string)
 }
 
-// shape draws a NACA 4-digit (60 %) or Kármán–Trefftz section, rounded
-// with probability pRound.
+// shape draws a section: NACA 4-digit (40 %), 5-digit (15 %),
+// 4-digit-modified (10 %), flat-bottomed (10 %) or Kármán–Trefftz (25 %),
+// rounded with probability pRound.
 func (d drawer) shape(pRound float64) ShapeSpec {
 	var s ShapeSpec
-	if d.coin(0.6) {
-		n := &NACASpec{Thickness: float64(6+d.rng.IntN(16)) / 100, ClosedTE: d.coin(0.5)}
+	blunt := false
+	switch d.pick("naca4", 0.4, "naca5", 0.15, "mod", 0.1, "flat", 0.1, "kt", 0.25) {
+	case "naca4":
+		n := &NACASpec{Thickness: d.thickness(), ClosedTE: d.coin(0.5)}
 		if d.coin(0.7) {
-			n.Camber = float64(1+d.rng.IntN(6)) / 100
+			n.Camber = float64(1+d.rng.IntN(9)) / 100 // up to 9 %
 			n.CamberPos = float64(2+d.rng.IntN(5)) / 10
 		}
-		s = ShapeSpec{Family: FamilyNACA, NACA: n}
-	} else {
+		s, blunt = ShapeSpec{Family: FamilyNACA, NACA: n}, !n.ClosedTE
+	case "naca5":
+		n := &NACA5Spec{L: 2, P: 3, Thickness: d.thickness(), ClosedTE: d.coin(0.5)}
+		if d.coin(0.5) { // other lines than the 230
+			n.L, n.P = 1+d.rng.IntN(3), 1+d.rng.IntN(5)
+		}
+		n.Reflex = d.coin(0.3) && n.P >= 2
+		s, blunt = ShapeSpec{Family: FamilyNACA5, NACA5: n}, !n.ClosedTE
+	case "mod":
+		var m *ModNACA4Spec
+		// Some combinations of a small nose and a far, steep aft piece
+		// have no positive thickness everywhere: draw again (the sixth
+		// draw keeps the normal nose, which always has).
+		for try := 0; ; try++ {
+			m = &ModNACA4Spec{Thickness: d.thickness(), NoseIndex: d.uniform(2, 9), MaxPos: float64(3+d.rng.IntN(4)) / 10, ClosedTE: d.coin(0.5)}
+			// The trailing-edge slope of Abbott and von Doenhoff's table
+			// by M (from memory), or a cusp.
+			m.TESlope = map[float64]float64{0.3: 0.234, 0.4: 0.315, 0.5: 0.465, 0.6: 0.700}[m.MaxPos]
+			if d.coin(0.3) {
+				m.TESlope, m.ClosedTE = d.uniform(0.01, 0.06), true
+			}
+			if d.coin(0.6) {
+				m.Camber = float64(1+d.rng.IntN(9)) / 100
+				m.CamberPos = float64(2+d.rng.IntN(5)) / 10
+			}
+			if try == 5 {
+				m.NoseIndex, m.MaxPos, m.TESlope = 6, 0.4, 0.315
+			}
+			if _, err := (ShapeSpec{Family: FamilyModNACA, Mod: m}).form(); err == nil || try == 5 {
+				break
+			}
+		}
+		s, blunt = ShapeSpec{Family: FamilyModNACA, Mod: m}, !m.ClosedTE
+	case "flat":
+		s = ShapeSpec{Family: FamilyFlat, Flat: &FlatSpec{Thickness: d.uniform(0.08, 0.2), FlatFrom: d.uniform(0.1, 0.35)}}
+	default:
 		s = ShapeSpec{Family: FamilyKT, KT: d.kt()}
+		if d.coin(0.15) {
+			s.KT.TEAngleDeg = d.uniform(0.5, 3) // near a cusp
+		}
 	}
 	if d.coin(pRound) {
 		s.RoundRadius = d.logUniform(0.002, 0.01)
-		if s.NACA != nil && !s.NACA.ClosedTE {
-			// The rounding must be wider than the open base (0.0105 t).
-			s.RoundRadius = math.Max(s.RoundRadius, 0.0105*s.NACA.Thickness*0.75)
+		if blunt {
+			// The rounding must be wider than the open base (about 0.0105 t).
+			s.RoundRadius = math.Max(s.RoundRadius, 0.0105*s.Thickness()*0.75)
 		}
 	}
 	return s
+}
+
+// thickness draws a maximum thickness: 6–21 % mostly, thin 3–6 % (15 %) or
+// thick 25–40 % as at a wind-turbine blade's root (15 %).
+func (d drawer) thickness() float64 {
+	switch d.pick("normal", 0.7, "thin", 0.15, "thick", 0.15) {
+	case "thin":
+		return float64(3+d.rng.IntN(4)) / 100
+	case "thick":
+		return float64(25+d.rng.IntN(16)) / 100
+	}
+	return float64(6+d.rng.IntN(16)) / 100
 }
 
 // kt draws Kármán–Trefftz parameters: thickness about 5–20 %, camber up
@@ -263,12 +403,26 @@ func (d drawer) plane(p float64) string {
 	return d.pick("z", 0.4, "tilted", 0.6)
 }
 
-// file draws the format, unit, header and decimals.
+// file draws the format, unit, header and decimals, and the habits of
+// the program that wrote it: CR LF line ends, a byte order mark,
+// scientific notation, a title line, blank and comment lines between the
+// points, a separator ending every line.
 func (d drawer) file() FileSpec {
-	return FileSpec{
+	f := FileSpec{
 		Format:   d.pick("csv", 0.45, "blank", 0.25, "tab", 0.1, "semicolon", 0.1, "dxf-points", 0.1),
 		Units:    d.pick("mm", 0.7, "m", 0.15, "in", 0.15),
 		Header:   d.pick("names", 0.35, "units", 0.2, "none", 0.25, "idx", 0.1, "point", 0.1),
 		Decimals: 4,
+		CRLF:     d.coin(0.2),
+		BOM:      d.coin(0.1),
+		Sci:      d.coin(0.1),
 	}
+	if d.coin(0.2) {
+		f.Title = d.pick("ROTOR STATION 3", 0.3, "Section B-B, blade 2", 0.3, "tunnel model, mid span", 0.4)
+	}
+	if d.coin(0.1) {
+		f.Breaks = d.uniform(0.002, 0.02)
+	}
+	f.TrailingSep = d.coin(0.1) && f.Format != "blank"
+	return f
 }

@@ -14,6 +14,10 @@ const (
 	LineGood      = "good"      // a point of the outline with its noise
 	LineOutlier   = "outlier"   // a point moved well off the surface
 	LineDuplicate = "duplicate" // a copy of another line (exact or by a hair)
+	// LineRepeat is a second measurement of a stretch another pass
+	// measured too: a point of the outline with its own noise, moved with
+	// its pass (Truth.Shift).
+	LineRepeat = "repeat"
 )
 
 // Line is the truth about one point line of a generated file.
@@ -52,7 +56,15 @@ type Truth struct {
 	// chord units.
 	Noise      float64 `json:"noise"`
 	Resolution float64 `json:"resolution"`
-	Dim        int     `json:"dim"`
+	// NoiseMax is the largest standard deviation along the outline (the
+	// scatter varies where a scanner grazes); Offset is the probe-radius
+	// compensation error every point carries along its normal, and Shift
+	// the largest rigid move of a second pass or repeated stretch against
+	// the first, chord units.
+	NoiseMax float64 `json:"noise_max"`
+	Offset   float64 `json:"offset,omitempty"`
+	Shift    float64 `json:"shift,omitempty"`
+	Dim      int     `json:"dim"`
 	// Plane is the plane of 3D points: in-plane coordinates (a, b) are at
 	// Origin + a·U + b·V; nil for 2D files.
 	Plane *PlaneTruth `json:"plane,omitempty"`
@@ -86,6 +98,7 @@ type point struct {
 	id   int  // index before shuffling
 	src  int  // id of the original, for duplicates; -1 for the others
 	pass bool // the first point of a probe program's second pass
+	ext  bool // a point of the first pass's overlap over the second
 }
 
 // Generate makes the scan of spec with the random draws of seed. The same
@@ -101,8 +114,17 @@ func Generate(spec Spec, seed uint64) (*Scan, error) {
 	}
 	rng := rand.New(rand.NewPCG(seed, 0x5ca9))
 	sh := sec.Shape
-	noise := spec.Noise.Chord + spec.Noise.MM/spec.Placement.ChordMM
+	g := &gen{sh: sh, rng: rng, noise: spec.Noise.Chord + spec.Noise.MM/spec.Placement.ChordMM, spec: spec}
+	g.offset = spec.Noise.OffsetMM / spec.Placement.ChordMM
+	sb, cb := math.Sincos(spec.Noise.BeamDeg * math.Pi / 180)
+	g.beam = geometry.Point{X: cb, Y: sb}
 	smp := &sampler{sh: sh, sm: spec.Sampling, rng: rng}
+	switch spec.Order.Start {
+	case "nose":
+		smp.fixStart, smp.start = true, sh.LE()
+	case "te":
+		smp.fixStart, smp.start = true, sh.TE()
+	}
 	var ts []float64
 	if spec.Sampling.CAD != "" {
 		ts = smp.cadParams(spec.Shape.Family)
@@ -114,13 +136,29 @@ func Generate(spec Spec, seed uint64) (*Scan, error) {
 	}
 	pts := make([]point, len(ts))
 	for i, t := range ts {
-		pts[i] = point{q: sh.At(t).Add(sh.Normal(t).Scale(noise * rng.NormFloat64())), line: Line{Kind: LineGood, T: t}, src: -1}
-		if spec.Placement.Plane != "" {
-			pts[i].z = noise * rng.NormFloat64()
+		pts[i] = g.measure(t, LineGood)
+	}
+	plantOutliers(pts, sh, spec.Defects, g.noise, rng)
+	// The first pass's overlap over the second and a repeated stretch,
+	// measured again with noise of their own.
+	L := sh.Length()
+	var ext, rep []point
+	if spec.Order.Mode == "two-pass" && spec.Order.Overlap > 0 {
+		a := sh.ArcAt(sh.LE()) // past the nose onto the lower surface
+		if spec.Order.Meet == "te" {
+			a = sh.ArcAt(sh.TE()) - spec.Order.Overlap*L // round the tail from the lower surface
+		}
+		ext = g.remeasure(pts, a, spec.Order.Overlap*L)
+		for i := range ext {
+			ext[i].ext = true
 		}
 	}
-	plantOutliers(pts, sh, spec.Defects, noise, rng)
-	pts = order(pts, sh, spec.Order)
+	if spec.Defects.Repeat > 0 {
+		rep = g.remeasure(pts, L*rng.Float64(), spec.Defects.Repeat*L)
+		g.shift(rep, spec.Defects.RepeatShiftMM/spec.Placement.ChordMM)
+	}
+	pts = g.order(append(pts, ext...), spec.Order)
+	pts = append(pts, rep...)
 	pts = duplicate(pts, spec.Defects, rng)
 	for i := range pts {
 		pts[i].id = i
@@ -131,7 +169,8 @@ func Generate(spec Spec, seed uint64) (*Scan, error) {
 	if spec.Order.Mode == "shuffled" {
 		rng.Shuffle(len(pts), func(i, j int) { pts[i], pts[j] = pts[j], pts[i] })
 	}
-	tr := &Truth{Section: sec, TEKind: sec.TEKind, TEThickness: sec.TEThickness, Symmetric: sec.Symmetric, Noise: noise}
+	tr := &Truth{Section: sec, TEKind: sec.TEKind, TEThickness: sec.TEThickness, Symmetric: sec.Symmetric, Offset: g.offset, Shift: g.shifted}
+	tr.Noise, tr.NoiseMax = g.noiseStats(pts)
 	pl, err := newPlacement(spec.Placement, spec.File.Units)
 	if err != nil {
 		return nil, err
@@ -143,6 +182,107 @@ func Generate(spec Spec, seed uint64) (*Scan, error) {
 	}
 	gapStats(tr, sh)
 	return &Scan{Name: fmt.Sprintf("case-%d.%s", seed, extension(spec.File.Format)), Data: data, Truth: tr}, nil
+}
+
+// gen holds what the measurement of one case needs.
+type gen struct {
+	sh      *Shape
+	rng     *rand.Rand
+	spec    Spec
+	noise   float64        // σ, chord units
+	offset  float64        // probe-radius compensation error, chord units
+	beam    geometry.Point // a scanner's beam, for the grazing noise
+	shifted float64        // largest shift of a pass, chord units
+}
+
+// sigma returns the standard deviation of the scatter at loop parameter
+// t: the case's σ, larger where a scanner's beam grazes the surface.
+func (g *gen) sigma(t float64) float64 {
+	if g.spec.Noise.Grazing == 0 {
+		return g.noise
+	}
+	c := math.Abs(g.sh.Normal(t).Dot(g.beam))
+	return g.noise * (1 + g.spec.Noise.Grazing*(1-c))
+}
+
+// measure returns the point measured at loop parameter t: the outline
+// point moved along its normal by the compensation error and the
+// scatter, and out of a 3D plane by the scatter.
+func (g *gen) measure(t float64, kind string) point {
+	sd := g.sigma(t)
+	p := point{q: g.sh.At(t).Add(g.sh.Normal(t).Scale(g.offset + sd*g.rng.NormFloat64())), line: Line{Kind: kind, T: t}, src: -1}
+	if g.spec.Placement.Plane != "" {
+		p.z = sd * g.rng.NormFloat64()
+	}
+	return p
+}
+
+// remeasure measures the stretch [a, a+length) of arc length (round the
+// loop) again: a point between each pair of neighbouring good points
+// there (at a random fraction of their gap), or, where fewer than two
+// fall in it, about as many as the mean spacing gives, evenly.
+func (g *gen) remeasure(pts []point, a, length float64) []point {
+	sh := g.sh
+	L := sh.Length()
+	var in []float64 // offsets from a
+	var good int
+	for _, p := range pts {
+		if p.line.Kind != LineGood {
+			continue
+		}
+		good++
+		if d := math.Mod(sh.ArcAt(p.line.T)-a+2*L, L); d < length {
+			in = append(in, d)
+		}
+	}
+	sort.Float64s(in)
+	var out []point
+	if len(in) < 2 {
+		n := max(3, int(length/L*float64(max(good, 1))))
+		for i := range n {
+			d := length * (float64(i) + 0.5) / float64(n)
+			out = append(out, g.measure(sh.ParamAt(math.Mod(a+d+2*L, L)), LineRepeat))
+		}
+		return out
+	}
+	for i := 0; i+1 < len(in); i++ {
+		d := in[i] + (0.2+0.6*g.rng.Float64())*(in[i+1]-in[i])
+		out = append(out, g.measure(sh.ParamAt(math.Mod(a+d+2*L, L)), LineRepeat))
+	}
+	return out
+}
+
+// shift moves the points by d (chord units) in a random direction.
+func (g *gen) shift(pts []point, d float64) {
+	if d == 0 || len(pts) == 0 {
+		return
+	}
+	s, c := math.Sincos(2 * math.Pi * g.rng.Float64())
+	v := geometry.Point{X: c, Y: s}.Scale(d)
+	for i := range pts {
+		pts[i].q = pts[i].q.Add(v)
+	}
+	g.shifted = math.Max(g.shifted, math.Abs(d))
+}
+
+// noiseStats returns the RMS and the largest standard deviation of the
+// scatter over the good points.
+func (g *gen) noiseStats(pts []point) (rms, top float64) {
+	var s2 float64
+	var n int
+	for _, p := range pts {
+		if p.line.Kind != LineGood {
+			continue
+		}
+		sd := g.sigma(p.line.T)
+		s2 += sd * sd
+		top = math.Max(top, sd)
+		n++
+	}
+	if n == 0 {
+		return g.noise, g.noise
+	}
+	return math.Sqrt(s2 / float64(n)), top
 }
 
 // plantOutliers moves a share of the points off the surface by 0.5–5 % of
@@ -163,7 +303,11 @@ func plantOutliers(pts []point, sh *Shape, df Defects, noise float64, rng *rand.
 		}
 		run := 1
 		if df.Bursts {
-			run = min(2+rng.IntN(3), k-moved)
+			top := df.BurstMax
+			if top < 2 {
+				top = 4
+			}
+			run = min(2+rng.IntN(top-1), k-moved)
 		}
 		d := math.Max(0.005+0.045*rng.Float64(), 10*noise)
 		if rng.IntN(2) == 0 {
@@ -192,32 +336,46 @@ func plantOutliers(pts []point, sh *Shape, df Defects, noise float64, rng *rand.
 // order puts the points in the file's order: along the loop from a
 // random start (either way), in two probe passes, or (shuffled later)
 // as they are.
-func order(pts []point, sh *Shape, o Order) []point {
+//
+// The points of the first pass's overlap (ext) belong to the first pass,
+// which then starts on the lower surface past the nose, or ends on it past
+// the trailing edge; the second pass is moved by Order.PassShiftMM.
+func (g *gen) order(pts []point, o Order) []point {
+	sh := g.sh
 	switch o.Mode {
 	case "two-pass":
 		L := sh.Length()
 		te, le := sh.ArcAt(sh.TE()), sh.ArcAt(sh.LE())
-		rel := func(t float64) float64 { return math.Mod(sh.ArcAt(t)-te+2*L, L) }
+		rel := func(p point) float64 {
+			r := math.Mod(sh.ArcAt(p.line.T)-te+2*L, L)
+			if p.ext && r > L/2 && o.Meet == "te" {
+				r -= L // past the trailing edge: after the end of the first pass
+			}
+			return r
+		}
 		leRel := math.Mod(le-te+2*L, L)
 		var upper, lower []point
 		for _, p := range pts {
-			if rel(p.line.T) <= leRel {
+			if p.ext || rel(p) <= leRel {
 				upper = append(upper, p)
 			} else {
 				lower = append(lower, p)
 			}
 		}
-		sort.SliceStable(upper, func(i, j int) bool { return rel(upper[i].line.T) > rel(upper[j].line.T) })
-		sort.SliceStable(lower, func(i, j int) bool { return rel(lower[i].line.T) < rel(lower[j].line.T) })
+		sort.SliceStable(upper, func(i, j int) bool { return rel(upper[i]) > rel(upper[j]) })
+		sort.SliceStable(lower, func(i, j int) bool { return rel(lower[i]) < rel(lower[j]) })
+		g.shift(lower, o.PassShiftMM/g.spec.Placement.ChordMM)
 		out := append(upper, lower...)
 		if len(upper) > 0 && len(lower) > 0 {
 			out[len(upper)].pass = true
 		}
 		return out
 	case "loop":
-		if o.Reverse {
-			for i, j := 0, len(pts)-1; i < j; i, j = i+1, j-1 {
-				pts[i], pts[j] = pts[j], pts[i]
+		if o.Reverse && len(pts) > 1 {
+			// The other way round from the same first point.
+			rest := pts[1:]
+			for i, j := 0, len(rest)-1; i < j; i, j = i+1, j-1 {
+				rest[i], rest[j] = rest[j], rest[i]
 			}
 		}
 	}

@@ -17,7 +17,11 @@ import (
 // that the recorded line numbers are checked independently of the tool.
 func readBack(t *testing.T, data []byte, f FileSpec) map[int]geometry.Vec3 {
 	t.Helper()
-	lines := strings.Split(string(data), "\n")
+	text := strings.TrimPrefix(string(data), "\ufeff")
+	if f.CRLF != strings.Contains(text, "\r\n") {
+		t.Errorf("CR LF line ends %v, asked for %v", !f.CRLF, f.CRLF)
+	}
+	lines := strings.Split(strings.ReplaceAll(text, "\r\n", "\n"), "\n")
 	out := map[int]geometry.Vec3{}
 	if strings.HasPrefix(f.Format, "dxf") {
 		for i := 0; i+1 < len(lines); i += 2 {
@@ -40,8 +44,16 @@ func readBack(t *testing.T, data []byte, f FileSpec) map[int]geometry.Vec3 {
 		skip = 1
 	}
 	for i, l := range lines {
-		if l == "" || l[0] == '#' || strings.ContainsAny(l, "xyz") {
+		// Point lines start with a digit or a sign; the rest are titles,
+		// headers, comments and blank lines.
+		if l == "" || !strings.ContainsRune("0123456789-+.", rune(l[0])) {
 			continue
+		}
+		if f.TrailingSep {
+			if !strings.HasSuffix(l, sep) {
+				t.Errorf("line %d %q does not end with its separator", i+1, l)
+			}
+			l = strings.TrimSuffix(l, sep)
 		}
 		fs := strings.Split(l, sep)[skip:]
 		var v [3]float64
@@ -113,7 +125,7 @@ func TestPointsOnTheOutline(t *testing.T) {
 		// A good point is off the outline by its noise (5σ bounds every one
 		// of a few thousand Gaussian draws but once in a few hundred cases)
 		// and the rounding of the written numbers.
-		limit := 5*tr.Noise + tr.Resolution + 1e-9
+		limit := 5*tr.NoiseMax + tr.Resolution + math.Abs(tr.Offset) + tr.Shift + 1e-9
 		var sum2 float64
 		var good int
 		for _, l := range tr.Lines {
@@ -124,6 +136,10 @@ func TestPointsOnTheOutline(t *testing.T) {
 			q, off := toChord(tr, p)
 			d, _ := sh.Nearest(q)
 			switch l.Kind {
+			case LineRepeat:
+				if d > limit || math.Abs(off) > limit {
+					t.Errorf("seed %d line %d: repeated point %.3g off the outline, %.3g off the plane", seed, l.No, d, off)
+				}
 			case LineGood:
 				good++
 				sum2 += d * d
@@ -153,7 +169,7 @@ func TestPointsOnTheOutline(t *testing.T) {
 		// The RMS distance matches the noise (distance is |noise| where the
 		// outline is flat; tolerance for a few hundred samples, and the
 		// rounding of the numbers).
-		if tr.Noise > 0 && good >= 300 {
+		if tr.Noise > 0 && good >= 300 && tr.Offset == 0 && tr.Shift == 0 {
 			rms := math.Sqrt(sum2 / float64(good))
 			want := math.Sqrt(tr.Noise*tr.Noise + tr.Resolution*tr.Resolution/12)
 			if math.Abs(rms/want-1) > 0.15 {
@@ -278,6 +294,159 @@ func TestDrawCategories(t *testing.T) {
 	for _, c := range Categories() {
 		if seen[c] == 0 {
 			t.Errorf("category %s never drawn in %d seeds", c, n)
+		}
+	}
+}
+
+// hazardSpec is a plain loop of a NACA 2412 at 200 mm for the tests of
+// single hazards.
+func hazardSpec() Spec {
+	return Spec{
+		Category:  "general",
+		Shape:     ShapeSpec{Family: FamilyNACA, NACA: &NACASpec{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12, ClosedTE: true}},
+		Sampling:  Sampling{Points: 1200, Sigma: 0.3},
+		Noise:     Noise{MM: 0.01},
+		Order:     Order{Mode: "loop"},
+		Placement: Placement{ChordMM: 200, TwistDeg: 7, Orientation: "standard"},
+		File:      FileSpec{Format: "csv", Units: "mm", Header: "names", Decimals: 5},
+	}
+}
+
+// The measurement hazards do what they say: a probe-radius compensation
+// error moves the points by its offset along the normal on average; a
+// grazing beam makes the scatter vary along the outline; a loop starts
+// exactly at the trailing edge; one surface is sampled denser; the stair
+// steps put every coordinate on the grid; overlapping passes write a
+// stretch twice and move the second pass.
+func TestMeasurementHazards(t *testing.T) {
+	gen := func(spec Spec) (*Scan, map[int]geometry.Vec3) {
+		t.Helper()
+		sc, err := Generate(spec, 99)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return sc, readBack(t, sc.Data, spec.File)
+	}
+	signed := func(sc *Scan, pts map[int]geometry.Vec3, l Line) float64 {
+		q, _ := toChord(sc.Truth, pts[l.No])
+		sh := sc.Truth.Section.Shape
+		return q.Sub(sh.At(l.T)).Dot(sh.Normal(l.T))
+	}
+
+	spec := hazardSpec()
+	spec.Noise.OffsetMM = 0.04
+	sc, pts := gen(spec)
+	var mean float64
+	var n int
+	for _, l := range sc.Truth.Lines {
+		if l.Kind == LineGood {
+			mean += signed(sc, pts, l)
+			n++
+		}
+	}
+	mean /= float64(n)
+	if want, tol := 0.04/200, 4*sc.Truth.Noise/math.Sqrt(float64(n)); math.Abs(mean-want) > tol || sc.Truth.Offset != want {
+		t.Errorf("compensation error: mean offset %.3g c, truth %.3g, want %.3g ± %.2g", mean, sc.Truth.Offset, want, tol)
+	}
+
+	spec = hazardSpec()
+	spec.Noise.Grazing, spec.Noise.BeamDeg = 3, 90
+	sc, _ = gen(spec)
+	if tr := sc.Truth; !(tr.NoiseMax > 3*0.01/200) || !(tr.Noise > 0.01/200 && tr.Noise < tr.NoiseMax) {
+		t.Errorf("grazing: noise %.3g RMS, %.3g at most; base %.3g", tr.Noise, tr.NoiseMax, 0.01/200)
+	}
+
+	spec = hazardSpec()
+	spec.Order.Start = "te"
+	sc, _ = gen(spec)
+	if l := sc.Truth.Lines[0]; l.T != sc.Truth.Section.Shape.TE() {
+		t.Errorf("loop starts at t = %g, want the trailing edge %g", l.T, sc.Truth.Section.Shape.TE())
+	}
+
+	spec = hazardSpec()
+	spec.Sampling.Surface, spec.Sampling.SurfaceFactor = "lower", 10
+	sc, _ = gen(spec)
+	var up, lo int
+	for _, l := range sc.Truth.Lines {
+		switch sc.Truth.Section.Shape.Kind(l.T) {
+		case Upper:
+			up++
+		case Lower:
+			lo++
+		}
+	}
+	if lo < 5*up {
+		t.Errorf("lower surface 10 times denser: %d points on it, %d on the upper", lo, up)
+	}
+
+	spec = hazardSpec()
+	spec.Noise.StepMM = 0.1
+	sc, pts = gen(spec)
+	for no, p := range pts {
+		for _, v := range []float64{p.X, p.Y} {
+			if r := math.Abs(v/0.1 - math.Round(v/0.1)); r > 1e-6 {
+				t.Fatalf("line %d: %g is off the 0.1 mm grid", no, v)
+			}
+		}
+	}
+
+	spec = hazardSpec()
+	spec.Order = Order{Mode: "two-pass", Overlap: 0.02, Meet: "te", PassShiftMM: 0.02}
+	sc, pts = gen(spec)
+	var repeats, pass2 int
+	var shift geometry.Point
+	second := false
+	for _, l := range sc.Truth.Lines {
+		if l.Kind == LineRepeat {
+			repeats++
+		}
+		if !second && sc.Truth.Section.Shape.Kind(l.T) == Lower && l.Kind == LineGood && repeats > 0 {
+			second = true
+		}
+		if second && l.Kind == LineGood {
+			q, _ := toChord(sc.Truth, pts[l.No])
+			shift = shift.Add(q.Sub(sc.Truth.Section.Shape.At(l.T)))
+			pass2++
+		}
+	}
+	if repeats == 0 || pass2 == 0 {
+		t.Fatalf("two passes overlapping at the trailing edge: %d repeated points, %d in the second pass", repeats, pass2)
+	}
+	if d := shift.Scale(1 / float64(pass2)).Norm(); math.Abs(d-0.02/200) > 2e-5 || sc.Truth.Shift != 0.02/200 {
+		t.Errorf("second pass moved by %.3g c (truth %.3g), want %.3g", d, sc.Truth.Shift, 0.02/200)
+	}
+}
+
+// The habits of the file's writer: a byte order mark, CR LF line ends,
+// a title line first, scientific notation, breaks between the points and
+// a separator ending every point line; readBack checks the line numbers
+// and the points against the truth's.
+func TestFileHabits(t *testing.T) {
+	for _, format := range []string{"csv", "semicolon", "tab", "blank"} {
+		spec := hazardSpec()
+		spec.File = FileSpec{Format: format, Units: "mm", Header: "idx", Decimals: 4, Title: "Section B-B, blade 2",
+			CRLF: true, BOM: true, Sci: true, Breaks: 0.05, TrailingSep: format != "blank"}
+		sc, err := Generate(spec, 5)
+		if err != nil {
+			t.Fatal(err)
+		}
+		text := string(sc.Data)
+		if !strings.HasPrefix(text, "\ufeffSection B-B, blade 2\r\n") {
+			t.Errorf("%s: starts %q", format, text[:min(40, len(text))])
+		}
+		if !strings.Contains(text, "e+02") && !strings.Contains(text, "e+01") {
+			t.Errorf("%s: no number in scientific notation", format)
+		}
+		if !strings.Contains(text, "\r\n\r\n") || !strings.Contains(text, "# probe re-seated") {
+			t.Errorf("%s: no blank or comment line between the points", format)
+		}
+		pts := readBack(t, sc.Data, spec.File)
+		tr := sc.Truth
+		for _, l := range tr.Lines {
+			q, _ := toChord(tr, pts[l.No])
+			if d, _ := tr.Section.Shape.Nearest(q); l.Kind == LineGood && d > 5*tr.NoiseMax+tr.Resolution {
+				t.Fatalf("%s line %d: good point %.3g off the outline", format, l.No, d)
+			}
 		}
 	}
 }

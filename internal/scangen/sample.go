@@ -14,6 +14,10 @@ type sampler struct {
 	sh  *Shape
 	sm  Sampling
 	rng *rand.Rand
+	// fixStart puts the first point at loop parameter start ("nose" or
+	// "te" starts); otherwise the loop starts anywhere.
+	fixStart bool
+	start    float64
 }
 
 // params returns the loop parameters of the points, in loop order from a
@@ -48,6 +52,14 @@ func (s *sampler) params() []float64 {
 		total += gaps[i]
 	}
 	u0 := s.rng.Float64()
+	fixed := s.fixStart
+	if fixed {
+		// The cumulative density at the start's arc length, so that the
+		// first point falls on it.
+		x := s.sh.ArcAt(s.start) / L * densityCells
+		k := min(int(x), densityCells-1)
+		u0 = cdf[k] + (x-float64(k))*(cdf[k+1]-cdf[k])
+	}
 	missing := s.missing(L)
 	ts := make([]float64, 0, n)
 	var acc float64
@@ -59,6 +71,10 @@ func (s *sampler) params() []float64 {
 		f := (u - cdf[k-1]) / (cdf[k] - cdf[k-1])
 		sv := (float64(k-1) + f) / densityCells * L
 		if s.inStretch(sv, missing, L) {
+			continue
+		}
+		if i == 0 && fixed {
+			ts = append(ts, s.start) // exactly there
 			continue
 		}
 		ts = append(ts, s.sh.ParamAt(sv))
@@ -94,6 +110,7 @@ func (s *sampler) density(L float64) []float64 {
 		width = 0.02 + 0.08*s.rng.Float64()
 	}
 	rho := make([]float64, densityCells)
+	surface := PieceKind(s.sm.Surface)
 	for i := range rho {
 		sv := (float64(i) + 0.5) / densityCells * L
 		var w float64
@@ -105,6 +122,9 @@ func (s *sampler) density(L float64) []float64 {
 			d := math.Abs(sv - centre)
 			d = math.Min(d, L-d)
 			r *= 1 + (s.sm.ZoneFactor-1)*math.Exp(-(d/width)*(d/width))
+		}
+		if surface != "" && s.sh.Kind(s.sh.ParamAt(sv)) == surface {
+			r *= s.sm.SurfaceFactor
 		}
 		rho[i] = r
 	}
@@ -144,7 +164,7 @@ func (s *sampler) cadParams(family string) []float64 {
 		for i := 0; i <= 2*n; i++ {
 			ts = append(ts, s.sh.ParamAt(end*float64(i)/float64(2*n)))
 		}
-	case family == FamilyNACA:
+	case family != FamilyKT: // every closed form in the chord station
 		ts = nacaStations(n, true)
 	default:
 		ts = ktStations(n)

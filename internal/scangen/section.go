@@ -1,11 +1,17 @@
 package scangen
 
-import "fmt"
+import (
+	"fmt"
+	"math"
+)
 
 // The section families.
 const (
-	FamilyNACA = "naca4"
-	FamilyKT   = "karman-trefftz"
+	FamilyNACA    = "naca4"
+	FamilyKT      = "karman-trefftz"
+	FamilyNACA5   = "naca5"
+	FamilyModNACA = "naca4-modified"
+	FamilyFlat    = "flat-bottomed"
 )
 
 // The trailing-edge kinds of the truth, named as the section document
@@ -19,9 +25,12 @@ const (
 // ShapeSpec says which section a case is: a family with its parameters
 // and, for a printed part, the radius of its rounded trailing edge.
 type ShapeSpec struct {
-	Family string    `json:"family"`
-	NACA   *NACASpec `json:"naca,omitempty"`
-	KT     *KTSpec   `json:"kt,omitempty"`
+	Family string        `json:"family"`
+	NACA   *NACASpec     `json:"naca,omitempty"`
+	KT     *KTSpec       `json:"kt,omitempty"`
+	NACA5  *NACA5Spec    `json:"naca5,omitempty"`
+	Mod    *ModNACA4Spec `json:"naca4_modified,omitempty"`
+	Flat   *FlatSpec     `json:"flat,omitempty"`
 	// RoundRadius is the radius of the rounded end, as a fraction of the
 	// chord of the section before rounding; 0 keeps the edge as it is.
 	RoundRadius float64 `json:"round_radius,omitempty"`
@@ -67,6 +76,43 @@ func (s ShapeSpec) Build() (*Section, error) {
 			return nil, err
 		}
 		sec.Symmetric = s.KT.CentreY == 0
+	case FamilyNACA5:
+		n := s.NACA5
+		if n == nil || n.P < 1 || n.P > 5 || n.L < 1 || n.L > 4 || !(n.Thickness > 0) || n.Thickness > 0.4 {
+			return nil, fmt.Errorf("scangen: NACA 5-digit section needs L in 1..4, P in 1..5 and a thickness in (0, 0.4]")
+		}
+		f := xForm{thick: naca4Thickness(n.Thickness, n.ClosedTE), camber: n.camber}
+		if err := f.check("NACA 5-digit"); err != nil {
+			return nil, err
+		}
+		ps = f.pieces()
+		if !n.ClosedTE {
+			sec.TEKind = TEBlunt
+		}
+	case FamilyModNACA:
+		f, err := s.form()
+		if err != nil {
+			return nil, err
+		}
+		ps = f.pieces()
+		sec.Symmetric = s.Mod.Camber == 0
+		if !s.Mod.ClosedTE {
+			sec.TEKind = TEBlunt
+		}
+	case FamilyFlat:
+		fl := s.Flat
+		if fl == nil || !(fl.Thickness > 0) || fl.Thickness > 0.4 || !(fl.FlatFrom > 0.05 && fl.FlatFrom < 0.6) {
+			return nil, fmt.Errorf("scangen: flat-bottomed section needs a thickness in (0, 0.4] and F in (0.05, 0.6)")
+		}
+		th := naca4Thickness(fl.Thickness, true)
+		f := xForm{thick: th, vertical: true, camber: func(x float64) (float64, float64) {
+			yt, _ := th(x)
+			return yt * fl.blend(x), 0
+		}}
+		if err := f.check("flat-bottomed"); err != nil {
+			return nil, err
+		}
+		ps = f.pieces()
 	default:
 		return nil, fmt.Errorf("scangen: unknown section family %q", s.Family)
 	}
@@ -90,4 +136,45 @@ func (s ShapeSpec) Build() (*Section, error) {
 	sh.angle = angle
 	sec.Shape = sh
 	return sec, nil
+}
+
+// Thickness returns the maximum thickness the spec asks for (0 for a
+// Kármán–Trefftz section, whose thickness follows from its circle).
+func (s ShapeSpec) Thickness() float64 {
+	switch {
+	case s.NACA != nil:
+		return s.NACA.Thickness
+	case s.NACA5 != nil:
+		return s.NACA5.Thickness
+	case s.Mod != nil:
+		return s.Mod.Thickness
+	case s.Flat != nil:
+		return s.Flat.Thickness
+	}
+	return 0
+}
+
+// Blunt reports whether the spec's section has an open (blunt) trailing
+// edge before any rounding.
+func (s ShapeSpec) Blunt() bool {
+	switch {
+	case s.NACA != nil:
+		return !s.NACA.ClosedTE
+	case s.NACA5 != nil:
+		return !s.NACA5.ClosedTE
+	case s.Mod != nil:
+		return !s.Mod.ClosedTE
+	}
+	return false
+}
+
+// form returns the closed form of a 4-digit-modified section, checked.
+func (s ShapeSpec) form() (xForm, error) {
+	m := s.Mod
+	if m == nil || !(m.Thickness > 0) || m.Thickness > 0.4 || !(m.MaxPos >= 0.2 && m.MaxPos <= 0.7) || !(m.NoseIndex > 0) || !(m.TESlope >= 0) {
+		return xForm{}, fmt.Errorf("scangen: 4-digit-modified section needs a thickness in (0, 0.4], M in [0.2, 0.7], I > 0 and d₁ ≥ 0")
+	}
+	n4 := NACASpec{Camber: m.Camber, CamberPos: m.CamberPos, Thickness: m.Thickness}.shape()
+	f := xForm{thick: m.thickness(), camber: func(x float64) (float64, float64) { return n4.CamberLine(math.Min(math.Max(x, 0), 1)) }}
+	return f, f.check("4-digit-modified")
 }

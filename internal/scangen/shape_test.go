@@ -21,6 +21,15 @@ var shapeCases = []struct {
 	{"kt-cambered", ShapeSpec{Family: FamilyKT, KT: &KTSpec{CentreX: -0.08, CentreY: 0.06, TEAngleDeg: 12}}},
 	{"kt-symmetric", ShapeSpec{Family: FamilyKT, KT: &KTSpec{CentreX: -0.15, TEAngleDeg: 3}}},
 	{"kt-rounded", ShapeSpec{Family: FamilyKT, KT: &KTSpec{CentreX: -0.1, CentreY: 0.1, TEAngleDeg: 20}, RoundRadius: 0.01}},
+	{"kt-near-cusp", ShapeSpec{Family: FamilyKT, KT: &KTSpec{CentreX: -0.1, CentreY: 0.05, TEAngleDeg: 0.5}}},
+	{"naca23012-closed", ShapeSpec{Family: FamilyNACA5, NACA5: &NACA5Spec{L: 2, P: 3, Thickness: 0.12, ClosedTE: true}}},
+	{"naca23036-open", ShapeSpec{Family: FamilyNACA5, NACA5: &NACA5Spec{L: 2, P: 3, Thickness: 0.36}}},
+	{"naca23112-reflexed", ShapeSpec{Family: FamilyNACA5, NACA5: &NACA5Spec{L: 2, P: 3, Reflex: true, Thickness: 0.12, ClosedTE: true}}},
+	{"naca0003-thin", ShapeSpec{Family: FamilyNACA, NACA: &NACASpec{Camber: 0.09, CamberPos: 0.5, Thickness: 0.03, ClosedTE: true}}},
+	{"mod-4412-63", ShapeSpec{Family: FamilyModNACA, Mod: &ModNACA4Spec{Camber: 0.04, CamberPos: 0.4, Thickness: 0.12, NoseIndex: 6, MaxPos: 0.3, TESlope: 0.234}}},
+	{"mod-cusped", ShapeSpec{Family: FamilyModNACA, Mod: &ModNACA4Spec{Thickness: 0.15, NoseIndex: 3, MaxPos: 0.4, TESlope: 0.02, ClosedTE: true}}},
+	{"flat-bottomed", ShapeSpec{Family: FamilyFlat, Flat: &FlatSpec{Thickness: 0.12, FlatFrom: 0.25}}},
+	{"flat-bottomed-rounded", ShapeSpec{Family: FamilyFlat, Flat: &FlatSpec{Thickness: 0.15, FlatFrom: 0.2}, RoundRadius: 0.004}},
 }
 
 // The frame of the tool's convention: the trailing-edge point at (1, 0),
@@ -189,5 +198,105 @@ func TestNearest(t *testing.T) {
 		if got := sh.At(tq).Dist(q); math.Abs(got-d) > 1e-12 {
 			t.Errorf("Nearest(%v): distance %.12f but its point is %.12f away", q, d, got)
 		}
+	}
+}
+
+// The 230 mean line of NACA Report 824 (m = 0.2025, k₁ = 15.957) has its
+// maximum camber at 15 % of the chord, 0.0184 c there (calculated by hand
+// from the report's constants); it and the reflexed 231 line run from
+// (0, 0) to (1, 0) with continuous value and slope at m, and the reflexed
+// line ends with a slope nearer zero than the plain one (the reflex).
+func TestNACA5MeanLine(t *testing.T) {
+	plain := NACA5Spec{L: 2, P: 3}
+	yc, dy := plain.camber(0.15)
+	if math.Abs(dy) > 1e-3 || math.Abs(yc-0.01839) > 2e-4 {
+		t.Errorf("230 line at x = 0.15: yc %.5f slope %.2g, want 0.0184 and 0", yc, dy)
+	}
+	for _, s := range []NACA5Spec{plain, {L: 2, P: 3, Reflex: true}, {L: 2, P: 5}, {L: 3, P: 2, Reflex: true}} {
+		y0, _ := s.camber(0)
+		y1, _ := s.camber(1)
+		if math.Abs(y0) > 1e-12 || math.Abs(y1) > 1e-12 {
+			t.Errorf("%+v: ends at %g and %g, want 0", s, y0, y1)
+		}
+		m := naca5Lines[s.P].m
+		if s.Reflex {
+			m = naca5Lines[s.P].rm
+		}
+		a, da := s.camber(m - 1e-9)
+		b, db := s.camber(m + 1e-9)
+		if math.Abs(a-b) > 1e-8 || math.Abs(da-db) > 1e-6 {
+			t.Errorf("%+v: jumps at m = %g: %g → %g, slope %g → %g", s, m, a, b, da, db)
+		}
+	}
+	_, endPlain := plain.camber(1)
+	_, endReflex := NACA5Spec{L: 2, P: 3, Reflex: true}.camber(1)
+	if !(math.Abs(endReflex) < math.Abs(endPlain)) {
+		t.Errorf("trailing-edge slope: reflexed %g, plain %g", endReflex, endPlain)
+	}
+}
+
+// The 4-digit-modified thickness meets the conditions that define it
+// (Abbott and von Doenhoff, §6.5): maximum thickness t at M with zero
+// slope and continuous curvature there, the half base d₀·t/0.2 at the
+// trailing edge with slope −d₁·t/0.2, and the leading-edge radius
+// 1.1019 (t·I/6)², the curvature radius of a₀√x at its vertex.
+func TestModNACA4Thickness(t *testing.T) {
+	for _, s := range []ModNACA4Spec{
+		{Thickness: 0.12, NoseIndex: 6, MaxPos: 0.3, TESlope: 0.234},
+		{Thickness: 0.2, NoseIndex: 3, MaxPos: 0.5, TESlope: 0.465},
+		{Thickness: 0.15, NoseIndex: 8, MaxPos: 0.4, TESlope: 0.02, ClosedTE: true},
+	} {
+		f := s.thickness()
+		M := s.MaxPos
+		y, dy := f(M)
+		ya, dya := f(M - 1e-7)
+		if math.Abs(y-s.Thickness/2) > 1e-12 || math.Abs(dy) > 1e-9 || math.Abs(dya) > 1e-6 || math.Abs(ya-y) > 1e-9 {
+			t.Errorf("%+v: at M yt %g slope %g (ahead %g, %g), want t/2 and 0", s, y, dy, ya, dya)
+		}
+		curv := func(x, h float64) float64 {
+			a, _ := f(x - h)
+			b, _ := f(x)
+			c, _ := f(x + h)
+			return (a - 2*b + c) / (h * h)
+		}
+		if fore, aft := curv(M-2e-4, 1e-4), curv(M+2e-4, 1e-4); math.Abs(fore-aft) > 0.01*math.Abs(aft)+1e-3 {
+			t.Errorf("%+v: curvature at M %g ahead, %g aft", s, fore, aft)
+		}
+		d0 := 0.002
+		if s.ClosedTE {
+			d0 = 0
+		}
+		if y1, d1 := f(1); math.Abs(y1-d0*s.Thickness/0.2) > 1e-12 || math.Abs(d1+s.TESlope*s.Thickness/0.2) > 1e-9 {
+			t.Errorf("%+v: trailing edge yt %g slope %g", s, y1, d1)
+		}
+		want := 1.1019 * math.Pow(s.Thickness*s.NoseIndex/6, 2)
+		x := 1e-10
+		yx, _ := f(x)
+		if r := yx * yx / (2 * x); math.Abs(r/want-1) > 1e-3 {
+			t.Errorf("%+v: nose radius %g, want %g", s, r, want)
+		}
+	}
+}
+
+// A flat-bottomed section's lower surface is exactly straight from F to
+// the trailing edge and its thickness is t (at 30 % of the chord, where
+// the 4-digit thickness has its maximum).
+func TestFlatBottom(t *testing.T) {
+	s := FlatSpec{Thickness: 0.12, FlatFrom: 0.25}
+	th := naca4Thickness(s.Thickness, true)
+	f := xForm{thick: th, vertical: true, camber: func(x float64) (float64, float64) {
+		yt, _ := th(x)
+		return yt * s.blend(x), 0
+	}}
+	for x := s.FlatFrom; x <= 1; x += 0.01 {
+		if p := f.lower(x); p.Y != 0 {
+			t.Fatalf("lower surface at x = %.2f is at y = %g, want 0", x, p.Y)
+		}
+	}
+	if d := f.upper(0.3).Y - f.lower(0.3).Y; math.Abs(d-s.Thickness) > 2e-4*s.Thickness/0.12 {
+		t.Errorf("thickness at x = 0.3 is %g, want %g", d, s.Thickness)
+	}
+	if p := f.lower(0.1); !(p.Y < 0) {
+		t.Errorf("lower surface at the nose (x = 0.1) at y = %g, want below the flat", p.Y)
 	}
 }

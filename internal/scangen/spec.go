@@ -42,6 +42,11 @@ type Sampling struct {
 	// "uniform" (even arc-length steps), PerSurface intervals a surface.
 	CAD        string `json:"cad,omitempty"`
 	PerSurface int    `json:"per_surface,omitempty"`
+	// Surface, "upper" or "lower", is sampled SurfaceFactor times denser
+	// than the other (a probe program with a finer step on one side, a
+	// scanner that sees one side square on).
+	Surface       string  `json:"surface,omitempty"`
+	SurfaceFactor float64 `json:"surface_factor,omitempty"`
 }
 
 // Noise is the scatter of the points normal to the surface (and out of
@@ -50,6 +55,19 @@ type Sampling struct {
 type Noise struct {
 	Chord float64 `json:"chord,omitempty"`
 	MM    float64 `json:"mm,omitempty"`
+	// Grazing makes the scatter vary along the outline: σ(t) = σ·(1 +
+	// Grazing·(1 − |n·b|)) with n the surface normal and b the direction
+	// of a scanner's beam at BeamDeg in the section's frame, so it is up to
+	// 1 + Grazing times larger where the beam grazes the surface.
+	Grazing float64 `json:"grazing,omitempty"`
+	BeamDeg float64 `json:"beam_deg,omitempty"`
+	// OffsetMM moves every point of the surface by the same distance along
+	// its outward normal (negative: inward): the error of a probe-radius
+	// compensation, systematic and invisible in the points themselves.
+	OffsetMM float64 `json:"offset_mm,omitempty"`
+	// StepMM quantises the written coordinates to multiples of the step
+	// (a voxelised scan's stair steps), in millimetres; 0 leaves them.
+	StepMM float64 `json:"step_mm,omitempty"`
 }
 
 // Defects are the lines that are not clean points of the outline.
@@ -60,6 +78,14 @@ type Defects struct {
 	// Bursts groups the outliers in runs of 2–4 neighbouring points off
 	// by about the same distance, as a scanner's reflections leave them.
 	Bursts bool `json:"bursts,omitempty"`
+	// BurstMax is the longest run of a burst (0 means 4): clusters of
+	// up to BurstMax neighbouring points.
+	BurstMax int `json:"burst_max,omitempty"`
+	// Repeat is the share of the perimeter measured a second time, at a
+	// random place, written after the rest as a pass of its own and moved
+	// by RepeatShiftMM (in a random direction) against the first.
+	Repeat        float64 `json:"repeat,omitempty"`
+	RepeatShiftMM float64 `json:"repeat_shift_mm,omitempty"`
 	// Duplicates is the share of points written twice; NearShare of those
 	// copies differ from their original by a hair (1e-7 to 3e-5 chord).
 	Duplicates float64 `json:"duplicates,omitempty"`
@@ -76,6 +102,17 @@ type Order struct {
 	// probe program runs) or "shuffled".
 	Mode    string `json:"mode"`
 	Reverse bool   `json:"reverse,omitempty"` // a loop the other way round
+	// Start is where a loop starts: "" anywhere, "nose" at the leading
+	// edge, "te" exactly at the trailing-edge point.
+	Start string `json:"start,omitempty"`
+	// Overlap, for two passes, is the share of the perimeter the first
+	// pass runs on past where the passes meet (Meet: "nose" or "te"),
+	// over what the second pass measures again; the second pass is moved
+	// by PassShiftMM in a random direction (the part re-seated or the
+	// probe re-qualified between passes).
+	Overlap     float64 `json:"overlap,omitempty"`
+	Meet        string  `json:"meet,omitempty"`
+	PassShiftMM float64 `json:"pass_shift_mm,omitempty"`
 }
 
 // Placement puts the normalised section onto the part.
@@ -108,4 +145,16 @@ type FileSpec struct {
 	Header string `json:"header,omitempty"`
 	// Decimals is the number of decimals written; -1 writes every digit.
 	Decimals int `json:"decimals"`
+	// Title is a text line (the section's name) written first, before
+	// the header; "" writes none.
+	Title string `json:"title,omitempty"`
+	// CRLF ends lines with CR LF; BOM starts the file with a UTF-8 byte
+	// order mark; Sci writes the numbers in scientific notation; Breaks
+	// is the share of point lines followed by a blank or comment line;
+	// TrailingSep ends every point line with the separator.
+	CRLF        bool    `json:"crlf,omitempty"`
+	BOM         bool    `json:"bom,omitempty"`
+	Sci         bool    `json:"sci,omitempty"`
+	Breaks      float64 `json:"breaks,omitempty"`
+	TrailingSep bool    `json:"trailing_sep,omitempty"`
 }

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"fmt"
 	"math"
+	"math/rand/v2"
 	"strconv"
 	"strings"
 
@@ -42,9 +43,27 @@ func write(pts []point, pl *placement, spec Spec, seed uint64, tr *Truth) ([]byt
 	if f.Decimals >= 0 {
 		tr.Resolution = math.Pow(10, -float64(f.Decimals)) / pl.chord
 	}
+	mm, err := unitMM(f.Units)
+	if err != nil {
+		return nil, err
+	}
+	step := spec.Noise.StepMM / mm // stair steps, file units
+	tr.Resolution = math.Max(tr.Resolution, step/pl.chord)
 	num := func(v float64) string {
 		if f.Decimals < 0 {
+			if f.Sci {
+				return strconv.FormatFloat(v, 'e', -1, 64)
+			}
 			return strconv.FormatFloat(v, 'g', -1, 64)
+		}
+		if f.Sci {
+			// The value the fixed notation would hold, in scientific
+			// notation with the digits it needs.
+			r, _ := strconv.ParseFloat(strconv.FormatFloat(v, 'f', f.Decimals, 64), 64)
+			if r == 0 {
+				return "0.0e+00"
+			}
+			return strconv.FormatFloat(r, 'e', -1, 64)
 		}
 		s := strconv.FormatFloat(v, 'f', f.Decimals, 64)
 		if s == "-0" || strings.Trim(s, "-0.") == "" {
@@ -52,13 +71,19 @@ func write(pts []point, pl *placement, spec Spec, seed uint64, tr *Truth) ([]byt
 		}
 		return s
 	}
+	quant := func(v float64) float64 {
+		if step <= 0 {
+			return v
+		}
+		return math.Round(v/step) * step
+	}
 	xyz := make([]geometry.Vec3, len(pts))
 	for i, p := range pts {
-		xyz[i] = pl.space(pl.part(p.q), p.z*pl.chord)
+		v := pl.space(pl.part(p.q), p.z*pl.chord)
+		xyz[i] = geometry.Vec3{X: quant(v.X), Y: quant(v.Y), Z: quant(v.Z)}
 	}
 	w := &writer{}
 	nos := make([]int, len(pts))
-	var err error
 	switch f.Format {
 	case "csv", "blank", "tab", "semicolon":
 		err = writeDelimited(w, pts, xyz, pl.dim, f, seed, num, nos)
@@ -83,7 +108,14 @@ func write(pts []point, pl *placement, spec Spec, seed uint64, tr *Truth) ([]byt
 		}
 		tr.Lines[i] = l
 	}
-	return w.buf.Bytes(), nil
+	data := w.buf.Bytes()
+	if f.CRLF {
+		data = bytes.ReplaceAll(data, []byte("\n"), []byte("\r\n"))
+	}
+	if f.BOM {
+		data = append([]byte("\xef\xbb\xbf"), data...)
+	}
+	return data, nil
 }
 
 // title is the first comment of every file: the data is invented.
@@ -96,7 +128,13 @@ func title(seed uint64) string {
 func writeDelimited(w *writer, pts []point, xyz []geometry.Vec3, dim int, f FileSpec, seed uint64, num func(float64) string, nos []int) error {
 	sep := map[string]string{"csv": ",", "blank": " ", "tab": "\t", "semicolon": ";"}[f.Format]
 	decComma := f.Format == "semicolon"
+	if f.Title != "" {
+		w.put(f.Title)
+	}
 	w.put("# " + title(seed))
+	// Blank and comment lines between points fall where a pseudo-random
+	// sequence of the seed puts them, so the bytes stay the same.
+	breaks := rand.New(rand.NewPCG(seed, 0xb7ea))
 	cols := []string{"x", "y"}
 	if dim == 3 || f.Header == "idx" {
 		cols = append(cols, "z")
@@ -145,7 +183,18 @@ func writeDelimited(w *writer, pts []point, xyz []geometry.Vec3, dim int, f File
 			}
 			fields = append(fields, s)
 		}
-		nos[i] = w.put(strings.Join(fields, sep))
+		line := strings.Join(fields, sep)
+		if f.TrailingSep {
+			line += sep
+		}
+		nos[i] = w.put(line)
+		if f.Breaks > 0 && breaks.Float64() < f.Breaks {
+			if breaks.IntN(2) == 0 {
+				w.put("")
+			} else {
+				w.put("# probe re-seated")
+			}
+		}
 	}
 	return nil
 }

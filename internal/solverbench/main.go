@@ -6,9 +6,11 @@
 //
 // Timings are taken in turns: in each round, for each panel count, a few
 // full solutions (build, factor, solve for the angles) by the Go solver in
-// this process, then as many by the numpy peer (a child process answering
-// on a pipe), then by each further Go peer (-go-peer, e.g. this program
-// built with -tags openblas, or at an earlier commit, run with -serve). After each peer's turn the
+// this process (for its phases) and by this program run as a child process
+// with -serve (the Go column), then as many by the numpy peer (a child
+// process answering on a pipe), then by each further Go peer (-go-peer,
+// e.g. this program built with -tags openblas, or at an earlier commit,
+// run with -serve). After each peer's turn the
 // driver pauses (-settle), because OpenBLAS's idle threads keep spinning
 // for about a tenth of a second after a call and would take a core from
 // the next program timed. Each figure is the median over the rounds of the
@@ -481,6 +483,21 @@ func bench(o options, w io.Writer) error {
 	if err != nil {
 		return err
 	}
+	// The Go column is timed in a child process of this program, as every
+	// Go peer is, so that all programs are timed alike: run in this
+	// process, beside the driver's own work, the same solver measured
+	// 18–35 % slower than in a child process of the same build, in the
+	// same rounds (2 cores shared with other jobs). The phases are timed
+	// here.
+	exe, err := os.Executable()
+	if err != nil {
+		return err
+	}
+	own, err := startPeer(exe, "-serve")
+	if err != nil {
+		return err
+	}
+	defer own.close()
 	pgs := make([]*peer, len(o.goPeers))
 	for k, g := range o.goPeers {
 		if pgs[k], err = startPeer(g.path, "-serve"); err != nil {
@@ -512,7 +529,11 @@ func bench(o options, w io.Writer) error {
 	for r := range o.rounds {
 		fmt.Fprintf(os.Stderr, " %d", r+1)
 		for i, n := range panels {
-			ts, ph, err := timeGo(nodes[i], alphas, o.reps)
+			_, ph, err := timeGo(nodes[i], alphas, o.reps)
+			if err != nil {
+				return err
+			}
+			ts, err := own.ask("time %s %d %d", paths[i], o.reps, o.angles)
 			if err != nil {
 				return err
 			}

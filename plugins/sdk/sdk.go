@@ -79,10 +79,22 @@ func Serve(impl stage.Stage) {
 	})
 }
 
+// streamWorkers is the number of goroutines the stage's gRPC server keeps
+// for its calls. go-plugin's own streams (the broker, the copy of stdout
+// and stderr) hold one each for the life of the process; the others serve
+// Run calls one after another, keeping the stack a solver grew, where a
+// goroutine started for each call grew a fresh stack every time (stack
+// copies were a tenth of a stage process's processor time outside the
+// solver, measured on the vortex-panel stage). A call that finds every
+// worker busy gets a goroutine of its own, as without workers.
+const streamWorkers = 4
+
 // GRPCServer is the gRPC server factory Serve uses: go-plugin's default
-// server with message limits raised to MaxMessageSize.
+// server with message limits raised to MaxMessageSize and calls served by
+// a few long-lived goroutines (streamWorkers).
 func GRPCServer(opts []grpc.ServerOption) *grpc.Server {
-	opts = append(opts, grpc.MaxRecvMsgSize(MaxMessageSize), grpc.MaxSendMsgSize(MaxMessageSize))
+	opts = append(opts, grpc.MaxRecvMsgSize(MaxMessageSize), grpc.MaxSendMsgSize(MaxMessageSize),
+		grpc.NumStreamWorkers(streamWorkers))
 	return plugin.DefaultGRPCServer(opts)
 }
 

@@ -36,6 +36,7 @@ type Solver struct {
 	arr               panelArrays
 	gap               float64   // base panel length (0 for a sharp TE)
 	base              []float64 // solutions for α = 0 and 90°, row-major m×2
+	forms             sweepForms
 	cond              float64
 
 	mu      sync.Mutex
@@ -60,15 +61,15 @@ func New(nodes []geometry.Point) (*Solver, error) {
 	}
 	a := sv.build(buildWorkers(sv.n))
 	t1 := time.Now()
-	// The factors serve only the two right-hand sides: the matrix goes
-	// back to the pool at once.
+	// The factors serve only the two right-hand sides (solved while the
+	// condition number is estimated): the matrix goes back to the pool at
+	// once.
 	var lu dense.LU
-	lu.Factorize(sv.size(), a)
+	sv.base = sv.rhs()
+	err2 := lu.FactorizeSolve(sv.size(), a, sv.base, 2)
 	sv.cond = lu.Cond()
-	var err2 error
-	if sv.cond <= MaxCondition {
-		sv.base = sv.rhs()
-		err2 = lu.Solve(sv.base, 2)
+	if sv.cond <= MaxCondition && err2 == nil {
+		sv.forms = sv.sweepForms()
 	}
 	putMatrix(&a)
 	t2 := time.Now()
@@ -216,7 +217,6 @@ type rowScratch struct {
 // midpoint of panel i (the base panel when i == n) into row, every entry.
 func (sv *Solver) fillRow(row []float64, i int, w *rowScratch) {
 	const inv2pi = 1 / (2 * math.Pi)
-	clear(row)
 	px, py := sv.mid(i)
 	// Outward normal of panel i: the right-hand normal of its direction.
 	nx, ny := sv.ty[i], -sv.tx[i]
@@ -235,12 +235,17 @@ func (sv *Solver) fillRow(row []float64, i int, w *rowScratch) {
 		if i < done {
 			ca[i], cb[i] = sv.coeffs(i, px, py, nx, ny, true)
 		}
+		// Entries 0…done are written here, the rest cleared for the
+		// panels below to add to (and the base column written last).
 		out := row[:done+1]
-		out[0] += ca[0]
+		out[0] = ca[0]
 		for j := 1; j < done; j++ {
-			out[j] += ca[j] + cb[j-1]
+			out[j] = ca[j] + cb[j-1]
 		}
-		out[done] += cb[done-1]
+		out[done] = cb[done-1]
+		clear(row[done+1:])
+	} else {
+		clear(row)
 	}
 	for j := done; j < n; j++ {
 		a, b := sv.coeffs(j, px, py, nx, ny, i == j)
@@ -403,25 +408,10 @@ func (sv *Solver) result(alpha float64, v, cp []float64) Case {
 	if sv.blunt {
 		c.BaseSource = v[n+1]
 	}
-	var circ, fx, fy, cm float64
-	const third, sixth, twelfth = 1.0 / 3, 1.0 / 6, 1.0 / 12
-	g := v[: n+1 : n+1]
-	tx, ty, x0, y0 := sv.tx[:n], sv.ty[:n], sv.x0[:n], sv.y0[:n]
-	for j, s := range sv.s[:n] {
-		a, b := g[j], g[j+1]
-		aa, ab, bb := a*a, a*b, b*b
-		circ += 0.5 * s * (a + b)
-		// Exact integrals of Cp = 1 − γ² with γ linear along the panel.
-		icp := s * (1 - (aa+ab+bb)*third)
-		ixcp := s * s * (0.5 - (aa*twelfth + ab*sixth + bb*0.25))
-		nx, ny := ty[j], -tx[j]
-		fx -= icp * nx
-		fy -= icp * ny
-		// Nose-up moment about c/4: Σ ∫ Cp (r − r_c/4) × n ds, and t × n = −1.
-		rx, ry := x0[j]-0.25, y0[j]
-		cm += (rx*ny-ry*nx)*icp - ixcp
-	}
 	sa, ca := math.Sincos(alpha)
+	f := &sv.forms
+	circ := f.circ[0]*ca + f.circ[1]*sa
+	fx, fy, cm := f.fx.at(ca, sa), f.fy.at(ca, sa), f.cm.at(ca, sa)
 	c.Cl = -2 * circ
 	c.ClPressure = fy*ca - fx*sa
 	c.CdPressure = fx*ca + fy*sa
@@ -429,6 +419,67 @@ func (sv *Solver) result(alpha float64, v, cp []float64) Case {
 	c.Cm = cm
 	c.Stagnation = sv.stagnation(c.Gamma)
 	return c
+}
+
+// sweepForms holds the circulation and the pressure integrals of every
+// angle as functions of the angle. γ(α) = cos α·γ₀ + sin α·γ₉₀ is linear
+// in (cos α, sin α), so the circulation is too, and the integrals of
+// Cp = 1 − γ², quadratic in γ, are quadratic forms in (cos α, sin α): their
+// coefficients, summed once over the panels, give each angle's force and
+// moment without a pass over the panels per angle.
+type sweepForms struct {
+	circ       [2]float64 // Γ = circ[0]·cos α + circ[1]·sin α
+	fx, fy, cm quadForm   // pressure force components and moment about c/4
+}
+
+// quadForm is k[0] + k[1]·cos²α + k[2]·cos α·sin α + k[3]·sin²α.
+type quadForm [4]float64
+
+func (q *quadForm) at(ca, sa float64) float64 {
+	return q[0] + q[1]*ca*ca + q[2]*ca*sa + q[3]*sa*sa
+}
+
+// sweepForms sums the coefficients of the forms from the solutions for
+// α = 0 and 90° (sv.base). On each panel γ is linear between its nodes,
+// γ = a at the start and b at the end, and the integrals are exact:
+// ∫Cp ds = s(1 − (a² + ab + b²)/3) and ∫Cp·ξ ds = s²(1/2 − (a²/12 + ab/6 +
+// b²/4)), ξ the distance from the panel's start. With a = cos α·p₀ +
+// sin α·q₀ and b = cos α·p₁ + sin α·q₁, each square or product splits into
+// its cos²α, cos α·sin α and sin²α parts.
+func (sv *Solver) sweepForms() sweepForms {
+	const third, sixth, twelfth = 1.0 / 3, 1.0 / 6, 1.0 / 12
+	var f sweepForms
+	b := sv.base
+	n := sv.n
+	tx, ty, x0, y0 := sv.tx[:n], sv.ty[:n], sv.x0[:n], sv.y0[:n]
+	for j, s := range sv.s[:n] {
+		p0, q0, p1, q1 := b[2*j], b[2*j+1], b[2*j+2], b[2*j+3]
+		f.circ[0] += 0.5 * s * (p0 + p1)
+		f.circ[1] += 0.5 * s * (q0 + q1)
+		// a² + ab + b² and a²/12 + ab/6 + b²/4, by parts.
+		sq := [3]float64{p0*p0 + p0*p1 + p1*p1, 2*p0*q0 + p0*q1 + q0*p1 + 2*p1*q1, q0*q0 + q0*q1 + q1*q1}
+		wt := [3]float64{
+			p0*p0*twelfth + p0*p1*sixth + p1*p1*0.25,
+			2*p0*q0*twelfth + (p0*q1+q0*p1)*sixth + 2*p1*q1*0.25,
+			q0*q0*twelfth + q0*q1*sixth + q1*q1*0.25,
+		}
+		nx, ny := ty[j], -tx[j]
+		// Nose-up moment about c/4: Σ ∫ Cp (r − r_c/4) × n ds, and t × n = −1.
+		rx, ry := x0[j]-0.25, y0[j]
+		mom := rx*ny - ry*nx
+		// icp = s − (s/3)·sq, ixcp = s²/2 − s²·wt; fx −= icp·nx, fy −= icp·ny,
+		// cm += mom·icp − ixcp.
+		f.fx[0] -= s * nx
+		f.fy[0] -= s * ny
+		f.cm[0] += mom*s - 0.5*s*s
+		for k := range 3 {
+			icp := s * third * sq[k]
+			f.fx[k+1] += icp * nx
+			f.fy[k+1] += icp * ny
+			f.cm[k+1] += s*s*wt[k] - mom*icp
+		}
+	}
+	return f
 }
 
 func (sv *Solver) stagnation(g []float64) Stagnation {
