@@ -495,7 +495,7 @@ func (p *Preparation) fitSummary() *section.FitSummary {
 		Method: fit.Method, RMS: fit.RMS, Max: fit.Max, MaxAt: fit.MaxAt.String(),
 		NoiseEstimate: fit.NoiseEstimate, Interpolates: fit.Interpolates, Parameter: fit.Parameter,
 		Fairness: &section.Fairness{
-			Inflections: fit.Fairness.Inflections, Wiggles: fit.Fairness.Wiggles,
+			Inflections: fit.Fairness.Inflections, Wiggles: fit.Fairness.Wiggles, Ripples: fit.Fairness.Ripples,
 			Roughness: fit.Fairness.Roughness * c * c,
 		},
 	}

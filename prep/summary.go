@@ -95,7 +95,7 @@ func WriteSectionReport(w io.Writer, s *section.Section, thicknessMode, camberMo
 		fmt.Fprintln(w)
 	}
 	if f := s.Fit; f != nil && f.Fairness != nil {
-		fmt.Fprintf(w, "  fairness    %d inflection(s), %d noise-made, curvature roughness %.3g /c²\n", f.Fairness.Inflections, f.Fairness.Wiggles, f.Fairness.Roughness)
+		fmt.Fprintf(w, "  fairness    %d inflection(s), %d noise-made, %d dip(s) round the nose, curvature roughness %.3g /c²\n", f.Fairness.Inflections, f.Fairness.Wiggles, f.Fairness.Ripples, f.Fairness.Roughness)
 	}
 	if fr := s.Frame; fr != nil {
 		mirrored := "not mirrored"

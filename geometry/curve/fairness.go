@@ -30,6 +30,14 @@ const (
 	fairFlat = 0.5
 	// fairSamples is the number of curvature samples per piece.
 	fairSamples = 4
+	// fairRippleFloor is the least curvature, times the length of the
+	// curve, at which Ripples looks for dips (on a section about 5 per
+	// chord: the nose and a rounded end, not the surfaces, where noise
+	// moves a small curvature by much of itself); fairDip the least rise,
+	// relative, from a minimum to the maxima either side that makes it a
+	// dip.
+	fairRippleFloor = 10
+	fairDip         = 0.3
 	// fairSag is the bulge of a lobe (the largest distance of the curve
 	// from the chord across it), in units of the noise, beyond which the
 	// lobe is shape the points carry rather than a wiggle: noise that a
@@ -54,8 +62,17 @@ type Fairness struct {
 	// shorter than fairLobe feature scales and over which the feature
 	// scale changes by at most fairRatio: inflections made by noise.
 	Wiggles int `json:"wiggles"`
-	// lobes are the arcs [a, b] of the wiggles.
-	lobes [][2]float64
+	// lobes are the arcs [a, b] of the wiggles, dips those of the
+	// ripples.
+	lobes, dips [][2]float64
+	// Ripples counts the dips of the curvature on the strongly curved,
+	// convex arcs (the nose, a rounded end; curvature above fairRippleFloor
+	// over the length): a minimum between two maxima, each at least
+	// fairDip beyond it. There the curvature of a section rises to one
+	// maximum and falls away; a dip is noise the fit followed, which a
+	// panel method turns into a wave of the pressure round the nose, and
+	// no sign change of the curvature shows it.
+	Ripples int `json:"ripples"`
 	// Roughness is the RMS of the derivative of the curvature along the
 	// arc, dκ/ds, in the curve's units (1/length²). In chord units a
 	// smooth NACA section gives tens (the nose dominates); noise left in
@@ -157,16 +174,21 @@ func MeasureFairness(cv *Curve, T func(s float64) float64, noise float64) Fairne
 		}
 		return math.Max(0, math.Min(L, s))
 	}
-	wiggle := func(a, b float64) bool {
+	// short: a lobe short beside the feature scale, where the feature
+	// scale does not change fast.
+	short := func(a, b float64) bool {
 		m := fairLobeMax * L
-		if noise > 0 && lobeSag(cv, a, b, wrap) > fairSag*noise {
-			return false
-		}
 		if T == nil {
 			return b-a < m
 		}
 		ta, tb, tm := T(wrap(a)), T(wrap(b)), T(wrap((a+b)/2))
 		return b-a < math.Min(m, fairLobe*tm) && max(ta, tb, tm) <= fairRatio*min(ta, tb, tm)
+	}
+	wiggle := func(a, b float64) bool {
+		if noise > 0 && lobeSag(cv, a, b, wrap) > fairSag*noise {
+			return false
+		}
+		return short(a, b)
 	}
 	for j := 1; j < len(crossings); j++ {
 		a, b := crossings[j-1], crossings[j]
@@ -182,7 +204,74 @@ func MeasureFairness(cv *Curve, T func(s float64) float64, noise float64) Fairne
 			f.lobes = append(f.lobes, [2]float64{a - L, b - L})
 		}
 	}
+	// Dips of the curvature count round the nose only, the middle half of
+	// the outline from the trailing edge (a sparse rounded end's arc may
+	// dip where its few points put it), and when short beside the feature
+	// scale where it does not change fast. (A wiggle's bulge test does not
+	// apply: the arc of a dip is curved as the nose is.)
+	for _, r := range ripples(ks, fairRippleFloor/L) {
+		if r[0] > L/4 && r[1] < 3*L/4 && short(r[0], r[1]) {
+			f.Ripples++
+			f.dips = append(f.dips, r)
+		}
+	}
 	return f
+}
+
+// ripples returns the arcs of the dips of the curvature on its strongly
+// curved convex arcs (Fairness.Ripples): each dip's minimum with, either
+// side, the arc to the nearer of the maxima that enclose it.
+func ripples(ks []curvatureSample, floor float64) [][2]float64 {
+	if !(floor > 0) {
+		return nil
+	}
+	var out [][2]float64
+	// Extrema with hysteresis, one run of samples above the floor at a
+	// time: kind +1 a maximum, −1 a minimum.
+	type extremum struct {
+		kind int
+		s    float64
+	}
+	var ext []extremum
+	flush := func() {
+		for j := 1; j+1 < len(ext); j++ {
+			if ext[j].kind < 0 && ext[j-1].kind > 0 && ext[j+1].kind > 0 {
+				w := math.Min(ext[j].s-ext[j-1].s, ext[j+1].s-ext[j].s)
+				out = append(out, [2]float64{ext[j].s - w, ext[j].s + w})
+			}
+		}
+		ext = ext[:0]
+	}
+	dir := 0
+	var ev, es float64
+	for _, c := range ks {
+		if c.k < floor {
+			flush()
+			dir, ev = 0, 0
+			continue
+		}
+		switch {
+		case dir >= 0:
+			if c.k >= ev {
+				ev, es = c.k, c.s
+			} else if c.k < ev*(1-fairDip) {
+				ext = append(ext, extremum{1, es})
+				dir, ev, es = -1, c.k, c.s
+			}
+		default:
+			if c.k <= ev {
+				ev, es = c.k, c.s
+			} else if c.k > ev*(1+fairDip) {
+				ext = append(ext, extremum{-1, es})
+				dir, ev, es = 1, c.k, c.s
+			}
+		}
+	}
+	if dir > 0 {
+		ext = append(ext, extremum{1, es})
+	}
+	flush()
+	return out
 }
 
 // lobeSag returns the largest distance of cv between arc positions a and

@@ -523,6 +523,10 @@ func Fit(c *geometry.Contour, opts FitOptions) (*Curve, *FitReport, error) {
 		rep.Ends = FitEndsOpen
 	}
 	st := &smoothState{}
+	if e := opts.Edge; e != nil && ends.open && len(ends.base) == 0 && ends.upper != nil && ends.lower != nil && *ends.upper == *ends.lower {
+		st.corner = true
+		st.cornerData = c.Points[ends.order[0]].Dist(*ends.upper) <= 1e-12*perim
+	}
 	switch {
 	case opts.Exact:
 		rep.Method = FitInterpolate
@@ -959,6 +963,11 @@ type smoothState struct {
 	T      []float64 // feature scale at each fit point, from the first round
 	lambda float64   // λ of the last round (a hint for the next)
 	pilot  float64   // λ of the last pilot pass
+	// corner says that both ends of an open fit are pinned to one sharp
+	// corner the caller found, whose place a smoothing fit takes as an
+	// unknown (freecorner.go); cornerData that a point sampled it (the
+	// first fit point, then also a data point).
+	corner, cornerData bool
 }
 
 // exactReason says why points the sampling test found exact are
@@ -1072,6 +1081,13 @@ func passes(fp fitPoints, open, freeEnds bool, opts FitOptions, st *smoothState,
 			}
 			fr := MeasureFairness(fromFit(prob, f, !open), Tat, sigma)
 			lobes := fr.lobes
+			if step < dipSteps {
+				// Dips of the curvature round the nose get a few
+				// steps only: where the points cannot tell a dip from
+				// the shape (a sparse, rounded end), smoothing on would
+				// take the curve off them.
+				lobes = append(lobes[:len(lobes):len(lobes)], fr.dips...)
+			}
 			if len(lobes) == 0 {
 				break
 			}
@@ -1100,7 +1116,18 @@ func passes(fp fitPoints, open, freeEnds bool, opts FitOptions, st *smoothState,
 			rep.FairSteps++
 		}
 	}
-	f, err := prob.fit(lambda, cols, true)
+	var f *splineFit
+	var cornerRatio float64
+	if st.corner && open && !freeEnds && lambda > 0 {
+		// A sharp corner the caller found: its place is fitted too
+		// (freecorner.go).
+		if st.cornerData {
+			cornerRatio = 1 / fp.ws[0] // knot 0's weight as a data point, per unit of its pinned weight
+		}
+		f, err = cornerFit(prob, lambda, xs, ys, cornerRatio*prob.ws[0], true)
+	} else {
+		f, err = prob.fit(lambda, cols, true)
+	}
 	if err != nil {
 		return nil, fmt.Errorf("geometry: fit: %w", err)
 	}
@@ -1112,6 +1139,8 @@ func passes(fp fitPoints, open, freeEnds bool, opts FitOptions, st *smoothState,
 	}
 	rep.Lambda, rep.EffectiveParams, rep.Smoothing = lambda, f.trace, betaOfLambda(lambda, mean)
 	st.final = newResampler(prob, f, xs, ys, lambda, sigma*math.Sqrt(tau), open, freeEnds)
+	st.final.corner = st.corner && open && !freeEnds
+	st.final.cornerRatio = cornerRatio
 	cv := fromFit(prob, f, !open)
 	rep.Fairness = MeasureFairness(cv, Tat, sigma)
 	return cv, nil
@@ -1124,6 +1153,10 @@ const (
 	fairSteps = 16
 	// fairFloor is the least share of its weight a point keeps.
 	fairFloor = 1e-8
+	// dipSteps is the most steps the guard takes for dips of the
+	// curvature (Fairness.Ripples): their weights fall to no less than an
+	// eighth.
+	dipSteps = 3
 )
 
 // reparametrise returns the arc lengths of the feet of the points on cv

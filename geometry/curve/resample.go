@@ -30,6 +30,11 @@ type resampler struct {
 	open     bool
 	freeEnds bool
 	ends     endRebuild
+	// corner: the ends are held at one sharp corner whose place is fitted
+	// (cornerFit), knot 0 weighing cornerRatio of its pinned weight as a
+	// data point.
+	corner      bool
+	cornerRatio float64
 }
 
 // ErrNoNoise means a fit has no noise to simulate: it interpolates.
@@ -163,7 +168,13 @@ func (rs *resampler) refit(p *splineProblem, xs, ys []float64, lambda float64) (
 
 // refitEnds is refit with the ends rebuilt as ends says.
 func (rs *resampler) refitEnds(p *splineProblem, xs, ys []float64, lambda float64, ends endRebuild) (*Curve, error) {
-	f, err := p.fit(lambda, [][]float64{xs, ys}, false)
+	var f *splineFit
+	var err error
+	if rs.corner && lambda > 0 {
+		f, err = cornerFit(p, lambda, xs, ys, rs.cornerRatio*p.ws[0], false)
+	} else {
+		f, err = p.fit(lambda, [][]float64{xs, ys}, false)
+	}
 	if err != nil {
 		return nil, err
 	}

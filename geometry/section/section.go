@@ -84,6 +84,9 @@ type Fairness struct {
 	// Wiggles counts the short lobes of curvature noise leaves: 0 on a
 	// fair curve.
 	Wiggles int `json:"wiggles"`
+	// Ripples counts the dips of the curvature round the nose (a minimum
+	// between two maxima) left in the fit: 0 on a fair curve.
+	Ripples int `json:"ripples"`
 	// Roughness is the RMS of dκ/ds along the outline, chord units (1/c²).
 	Roughness float64 `json:"roughness"`
 }
