@@ -351,20 +351,7 @@ func (cl *cleaning) bySection(opts Options, sigma float64) *attempt {
 	sel := dense(pts, cl.nb)
 	// Isolated points wait outside the loop, to be put back, dropped as
 	// outliers or as strays by where they lie from it.
-	var rest [][]int32
-	if len(sel) < len(pts) {
-		in := make([]bool, len(pts))
-		for _, i := range sel {
-			in[i] = true
-		}
-		var left []int32
-		for i := range int32(len(pts)) {
-			if !in[i] {
-				left = append(left, i)
-			}
-		}
-		rest = [][]int32{left}
-	}
+	rest := outside(len(pts), sel)
 	// Twice: the first frame, drawn from the dense points, may still end
 	// at a gross outlier off the trailing edge, which also pulls the fits
 	// that tell the surfaces apart near it; the second pass orders only the
@@ -403,20 +390,7 @@ func (cl *cleaning) bySection(opts Options, sigma float64) *attempt {
 			slices.Sort(next)
 			if !slices.Equal(next, sel) {
 				sel = next
-				in := make([]bool, len(pts))
-				for _, i := range sel {
-					in[i] = true
-				}
-				var left []int32
-				for i := range int32(len(pts)) {
-					if !in[i] {
-						left = append(left, i)
-					}
-				}
-				rest = nil
-				if len(left) > 0 {
-					rest = [][]int32{left}
-				}
+				rest = outside(len(pts), sel)
 				continue
 			}
 			// The first pass kept exactly the points it ordered (none
@@ -583,4 +557,26 @@ func (cl *cleaning) evaluate(strategy string, loops, rest [][]int32, opts Option
 		a.fail = fmt.Sprintf("%d point(s) left in the loop, need at least %d", len(a.seq), minPoints)
 	}
 	return a
+}
+
+// outside returns the points of 0..n−1 not in sel as one group, or nil
+// when sel holds them all.
+func outside(n int, sel []int32) [][]int32 {
+	if len(sel) >= n {
+		return nil
+	}
+	in := make([]bool, n)
+	for _, i := range sel {
+		in[i] = true
+	}
+	var left []int32
+	for i := range int32(n) {
+		if !in[i] {
+			left = append(left, i)
+		}
+	}
+	if len(left) == 0 {
+		return nil
+	}
+	return [][]int32{left}
 }
