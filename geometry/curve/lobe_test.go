@@ -6,39 +6,12 @@ import (
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/shape"
 )
 
-// naca230 returns the outline of the NACA 230xx section of thickness t
-// (chord units), from the trailing edge over the upper surface and back,
-// at n cosine-spaced stations a surface: the mean line of NACA Report 610
-// (r = 0.2025, k₁ = 15.957, as tabulated by Abbott and von Doenhoff,
-// Theory of Wing Sections, 1959) with the thickness of NACA Report 824.
-func naca230(t float64, n int) []geometry.Point {
-	const r, k1 = 0.2025, 15.957
-	surface := func(x float64, upper bool) geometry.Point {
-		yt := 5 * t * (0.2969*math.Sqrt(x) - 0.1260*x - 0.3516*x*x + 0.2843*x*x*x - 0.1015*x*x*x*x)
-		yc, dy := k1*r*r*r/6*(1-x), -k1*r*r*r/6
-		if x < r {
-			yc, dy = k1/6*(x*x*x-3*r*x*x+r*r*(3-r)*x), k1/6*(3*x*x-6*r*x+r*r*(3-r))
-		}
-		th := math.Atan(dy)
-		if upper {
-			return geometry.Point{X: x - yt*math.Sin(th), Y: yc + yt*math.Cos(th)}
-		}
-		return geometry.Point{X: x + yt*math.Sin(th), Y: yc - yt*math.Cos(th)}
-	}
-	var out []geometry.Point
-	for k := n; k >= 0; k-- {
-		out = append(out, surface((1-math.Cos(math.Pi*float64(k)/float64(n)))/2, true))
-	}
-	for k := 1; k <= n; k++ {
-		out = append(out, surface((1-math.Cos(math.Pi*float64(k)/float64(n)))/2, false))
-	}
-	return out
-}
-
 func TestFitKeepsAShortLobeOfTheSection(t *testing.T) {
-	// The lower surface of NACA 23008 turns the other way between about
+	// The lower surface of NACA 23008 (NACA Report 824's 230 mean line)
+	// turns the other way between about
 	// 6 % and 16 % of the chord: a lobe of curvature short enough to look
 	// like a noise wiggle, but bulging by tens of times the noise of a good
 	// scan. The fairness guard once smoothed it away, leaving the curve
@@ -47,7 +20,7 @@ func TestFitKeepsAShortLobeOfTheSection(t *testing.T) {
 	// curve within a few noise levels of the exact outline, and both
 	// inflections there.
 	const chord, noise = 347.0, 0.008
-	dense := naca230(0.08, 4000)
+	dense := shape.NACA5{L: 2, P: 3, Thickness: 0.08}.Loop(4000)
 	rng := rand.New(rand.NewPCG(3, 9))
 	// Evenly spread in arc length, noise normal to the outline.
 	var arc []float64

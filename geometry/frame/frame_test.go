@@ -394,41 +394,8 @@ func TestMeanLineSag(t *testing.T) {
 	}
 }
 
-// reflexed221 returns the outline of a NACA 22112 section from the
-// trailing edge over the upper surface and back, at n cosine stations a
-// surface: the reflexed 5-digit mean line (design lift coefficient 0.3,
-// maximum camber forward; constants m = 0.13, k₁ = 51.99, k₂/k₁ = 0.000764,
-// from memory of Abbott and von Doenhoff's table) with the 4-digit
-// thickness of Report 824, open edge.
-func reflexed221(n int) []geometry.Point {
-	const m, k1, r = 0.13, 51.99, 0.000764
-	q := (1 - m) * (1 - m) * (1 - m)
-	at := func(x float64, upper bool) geometry.Point {
-		yt := 0.12 / 0.2 * (0.2969*math.Sqrt(x) - 0.1260*x - 0.3516*x*x + 0.2843*x*x*x - 0.1015*x*x*x*x)
-		yc := k1 / 6 * ((x-m)*(x-m)*(x-m) - r*q*x - m*m*m*x + m*m*m)
-		dy := k1 / 6 * (3*(x-m)*(x-m) - r*q - m*m*m)
-		if x >= m {
-			yc = k1 / 6 * (r*(x-m)*(x-m)*(x-m) - r*q*x - m*m*m*x + m*m*m)
-			dy = k1 / 6 * (3*r*(x-m)*(x-m) - r*q - m*m*m)
-		}
-		th := math.Atan(dy)
-		if upper {
-			return geometry.Point{X: x - yt*math.Sin(th), Y: yc + yt*math.Cos(th)}
-		}
-		return geometry.Point{X: x + yt*math.Sin(th), Y: yc - yt*math.Cos(th)}
-	}
-	var out []geometry.Point
-	for k := n; k >= 0; k-- {
-		out = append(out, at((1-math.Cos(math.Pi*float64(k)/float64(n)))/2, true))
-	}
-	for k := 1; k <= n; k++ {
-		out = append(out, at((1-math.Cos(math.Pi*float64(k)/float64(n)))/2, false))
-	}
-	return out
-}
-
 func TestNormalizeMirroredReflexed(t *testing.T) {
-	// A reflexed 5-digit section measured upside down: its mean line is
+	// A reflexed 5-digit section (NACA 22112, open edge) measured upside down: its mean line is
 	// S-shaped (a parabola through it barely curves) but sags below the
 	// line through its ends, so it must be mirrored back, with a little
 	// noise on the points.
@@ -436,7 +403,7 @@ func TestNormalizeMirroredReflexed(t *testing.T) {
 	c := &geometry.Contour{}
 	// Upside down, and in the order the cleaning step gives (from the
 	// trailing edge, counter-clockwise).
-	loop := reflexed221(120)
+	loop := shape.NACA5{L: 2, P: 2, Reflex: true, Thickness: 0.12}.Loop(120)
 	slices.Reverse(loop)
 	for i, p := range loop {
 		q := geometry.Point{X: p.X, Y: -p.Y}.Scale(200).Add(geometry.Point{X: rng.NormFloat64() * 0.005, Y: rng.NormFloat64() * 0.005})

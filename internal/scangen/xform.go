@@ -5,6 +5,7 @@ import (
 	"math"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/shape"
 )
 
 // The section families beyond NACA 4-digit and Kármán–Trefftz. Each is a
@@ -27,39 +28,9 @@ type NACA5Spec struct {
 	ClosedTE  bool    `json:"closed_te"`
 }
 
-// naca5Lines are the mean-line constants m, k₁ (and k₂/k₁ for the reflexed
-// lines) at design lift coefficient 0.3, by P. The plain lines are those of
-// NACA Report 824 (m = 0.2025, k₁ = 15.957 for the 230 line); the reflexed
-// ones are from memory (Abbott and von Doenhoff's table). k₁ scales with
-// the design lift coefficient.
-var naca5Lines = [6]struct{ m, k1, rm, rk1, rk21 float64 }{
-	{},
-	{0.0580, 361.4, 0.1300, 51.99, 0.000764},
-	{0.1260, 51.64, 0.1300, 51.99, 0.000764},
-	{0.2025, 15.957, 0.2170, 15.793, 0.00677},
-	{0.2900, 6.643, 0.3180, 6.520, 0.0303},
-	{0.3910, 3.230, 0.4410, 3.191, 0.1355},
-}
-
 // camber returns the mean line of the 5-digit section and its slope.
 func (s NACA5Spec) camber(x float64) (yc, dyc float64) {
-	c := naca5Lines[s.P]
-	scale := float64(s.L) / 2
-	if !s.Reflex {
-		m, k1 := c.m, c.k1*scale
-		if x < m {
-			return k1 / 6 * (x*x*x - 3*m*x*x + m*m*(3-m)*x), k1 / 6 * (3*x*x - 6*m*x + m*m*(3-m))
-		}
-		return k1 * m * m * m / 6 * (1 - x), -k1 * m * m * m / 6
-	}
-	m, k1, r := c.rm, c.rk1*scale, c.rk21
-	q := (1 - m) * (1 - m) * (1 - m)
-	if x < m {
-		return k1 / 6 * ((x-m)*(x-m)*(x-m) - r*q*x - m*m*m*x + m*m*m),
-			k1 / 6 * (3*(x-m)*(x-m) - r*q - m*m*m)
-	}
-	return k1 / 6 * (r*(x-m)*(x-m)*(x-m) - r*q*x - m*m*m*x + m*m*m),
-		k1 / 6 * (3*r*(x-m)*(x-m) - r*q - m*m*m)
+	return shape.NACA5{L: s.L, P: s.P, Reflex: s.Reflex}.CamberLine(x)
 }
 
 // naca4Thickness is the half-thickness of NACA Report 824 and its slope,
