@@ -217,7 +217,9 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 	if err != nil {
 		return nil, err
 	}
-	if p.Shape, err = frame.Normalize(p.Curve, eo); err != nil {
+	no := eo
+	no.Support = p.Fit.S // the mirror decision reads only the measured nose
+	if p.Shape, err = frame.Normalize(p.Curve, no); err != nil {
 		if errors.Is(err, frame.ErrNoLeadingEdge) {
 			return nil, &GateError{Gate: GateEdges, Seen: strings.TrimPrefix(err.Error(), "geometry: ")}
 		}

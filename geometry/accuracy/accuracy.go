@@ -68,6 +68,7 @@ func Estimate(cv *curve.Curve, rep *curve.FitReport, nz *frame.Normalized, opts 
 	}
 	eo := opts.Edges
 	eo.Mirror = frame.MirrorNo
+	eo.Support = nil // the replicas' curves are not the one it was measured on
 	if nz.Frame.Mirrored {
 		eo.Mirror = frame.MirrorYes
 	}

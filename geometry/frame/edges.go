@@ -135,6 +135,12 @@ type Options struct {
 	LEAt *geometry.Point
 	// Mirror is MirrorAuto (or ""), MirrorYes or MirrorNo.
 	Mirror string
+	// Support, when set, holds the arc lengths along the curve of the
+	// points it was fitted to (curve.FitReport.S). MirrorAuto then reads
+	// the mean line's sag only aft of a nose the points leave unsampled:
+	// there the curve's shape is its own guess, and a guessed nose bends
+	// the mean line's forward end as far as a faint camber line does.
+	Support []float64
 }
 
 // edges locates the trailing edge and the leading edge of cv (input

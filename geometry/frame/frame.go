@@ -165,6 +165,7 @@ func Normalize(cv *curve.Curve, opts Options) (*Normalized, error) {
 	}
 	out := &Normalized{}
 	warn := func(s string) { out.Warnings = append(out.Warnings, s) }
+	fitted := cv // the curve Support's arc lengths run along
 	if !cv.Closed() {
 		// A sharp edge whose surfaces cross just ahead of it (a thin,
 		// noisy edge) ends where they cross.
@@ -224,8 +225,14 @@ func Normalize(cv *curve.Curve, opts Options) (*Normalized, error) {
 	case MirrorNo:
 	default:
 		_, cy := chord.Centroid()
-		sag, sagOK := meanLineSag(chord, sLE/fr.Chord)
+		from := max(sagFrom, supportedFrom(fitted, opts.Support, le, fr))
+		sag, sagOK := meanLineSag(chord, sLE/fr.Chord, from)
 		switch {
+		case cy < -EdgeMirrorCentroid && from > sagFrom && (!sagOK || sag >= -EdgeMirrorSag):
+			// The points leave the nose unsampled and the mean line aft
+			// of it does not say the section is upside down: the
+			// centroid's word rests on the curve's guess at the nose.
+			warn(fmt.Sprintf("mirroring cannot be decided: the centroid lies %.3g chord below the chord line, but the points leave the nose unsampled to x = %.2g and the mean line aft of it does not sag the other way; kept as measured: use mirror yes if it was measured upside down", -cy, from))
 		case cy < -EdgeMirrorCentroid && (!sagOK || sag < -EdgeMirrorSag):
 			mirrored = true
 			warn(fmt.Sprintf("section mirrored: its centroid lies %.3g chord below the chord line (negative camber), so it was taken as upside down or nose-reversed; use mirror no to keep it", -cy))

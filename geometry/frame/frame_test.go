@@ -387,7 +387,7 @@ func TestMeanLineSag(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		sag, ok := meanLineSag(nz.Path.(*curve.Curve), nz.SLE)
+		sag, ok := meanLineSag(nz.Path.(*curve.Curve), nz.SLE, sagFrom)
 		if !ok || math.Abs(sag-tc.want) > 0.05*0.01076 {
 			t.Errorf("%s flipped %v: sag %.5f (ok %v), want %.5f", tc.code, tc.flip, sag, ok, tc.want)
 		}
@@ -420,5 +420,55 @@ func TestNormalizeMirroredReflexed(t *testing.T) {
 	}
 	if !nz.Frame.Mirrored {
 		t.Errorf("upside-down NACA 22112 not mirrored (warnings %q)", nz.Warnings)
+	}
+}
+
+func TestNormalizeUnsampledNoseNotMirrored(t *testing.T) {
+	// A thin symmetric section (NACA 0006, Report 824) whose nose the points
+	// leave unsampled: none between 4 % of the chord on either surface
+	// but one, placed 0.4 % of the chord above the true leading edge (a
+	// probe that touched the nose off its line, or a stray point). The
+	// curve's guess at the nose tilts the chord line and bends the mean
+	// line's forward end down, so the centroid lies below the chord line
+	// and the mean line sags as an upside-down camber line would. The
+	// points say nothing of camber: it must not be mirrored when the fit
+	// tells Normalize where the points are (Support), and the same curve
+	// without Support shows the situation the rule is for.
+	n, _ := shape.ParseNACA4("0006")
+	c := &geometry.Contour{}
+	for i, p := range n.Loop(160) {
+		if p.X < 0.04 && p.X > 1e-9 {
+			continue
+		}
+		if p.X <= 1e-9 {
+			p.Y += 0.004
+		}
+		c.Points = append(c.Points, p.Scale(400))
+		c.Origins = append(c.Origins, geometry.Origin{File: "nose.csv", Line: i + 1})
+	}
+	cv, rep, err := curve.Fit(c, curve.FitOptions{Exact: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	bare, err := Normalize(cv, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !bare.Frame.Mirrored {
+		t.Fatalf("the curve's nose guess does not look mirrored without Support (twist %.2f°): the test no longer makes the case the rule is for", bare.Frame.TwistDeg)
+	}
+	nz, err := Normalize(cv, Options{Support: rep.S})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if nz.Frame.Mirrored {
+		t.Errorf("NACA 0006 with an unsampled nose mirrored (warnings %q)", nz.Warnings)
+	}
+	found := false
+	for _, w := range nz.Warnings {
+		found = found || strings.Contains(w, "mirroring cannot be decided")
+	}
+	if !found {
+		t.Errorf("no warning that mirroring cannot be decided: %q", nz.Warnings)
 	}
 }
