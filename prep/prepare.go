@@ -219,6 +219,7 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 	}
 	no := eo
 	no.Support = p.Fit.S // the mirror decision reads only the measured nose
+	no.Noise = p.Fit.NoiseEstimate
 	if p.Shape, err = frame.Normalize(p.Curve, no); err != nil {
 		if errors.Is(err, frame.ErrNoLeadingEdge) {
 			return nil, &GateError{Gate: GateEdges, Seen: strings.TrimPrefix(err.Error(), "geometry: ")}

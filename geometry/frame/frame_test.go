@@ -472,3 +472,35 @@ func TestNormalizeUnsampledNoseNotMirrored(t *testing.T) {
 		t.Errorf("no warning that mirroring cannot be decided: %q", nz.Warnings)
 	}
 }
+
+func TestNormalizeMirrorNeedsCamberAboveNoise(t *testing.T) {
+	// A faint camber line measured upside down: NACA 4-digit equations
+	// (Report 824) with 0.2 % camber at 40 %, 12 % thick, whose mean line
+	// sags about 0.0011 chord below the line through its ends at the
+	// stations (scaled from 2412's 0.01076, TestMeanLineSag). On exact
+	// points it is mirrored back; when the points' noise is larger than
+	// that sag the curve could bow that far by itself, so it is kept as
+	// measured, with a warning.
+	n := shape.NACA4{Camber: 0.002, CamberPos: 0.4, Thickness: 0.12}
+	part := testfoil.Part{Chord: 100, FlipY: true}
+	c := testfoil.Contour(testfoil.Loop(n, 300), part)
+	cv, _, err := curve.Fit(c, curve.FitOptions{Exact: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, tc := range []struct {
+		noise    float64 // input units (chord 100)
+		mirrored bool
+	}{{0, true}, {0.01, true}, {0.3, false}} {
+		nz, err := Normalize(cv, Options{Noise: tc.noise})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if nz.Frame.Mirrored != tc.mirrored {
+			t.Errorf("noise %g chord: mirrored %v, want %v (warnings %q)", tc.noise/100, nz.Frame.Mirrored, tc.mirrored, nz.Warnings)
+		}
+		if !tc.mirrored && !slices.ContainsFunc(nz.Warnings, func(w string) bool { return strings.Contains(w, "mirroring cannot be detected") }) {
+			t.Errorf("noise %g chord: kept without saying mirroring cannot be detected: %q", tc.noise/100, nz.Warnings)
+		}
+	}
+}
