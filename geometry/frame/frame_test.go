@@ -504,3 +504,45 @@ func TestNormalizeMirrorNeedsCamberAboveNoise(t *testing.T) {
 		}
 	}
 }
+
+func TestNormalizeFiveDigitMirror(t *testing.T) {
+	// NACA 5-digit sections on the 230 mean line (Report 824's constants)
+	// across the thicknesses the family is tabulated for (to 24 %, Abbott
+	// and von Doenhoff, from memory): the thickness is laid off normal to a
+	// mean line that rises steeply at the nose, which moves the surfaces'
+	// midpoints at equal x and the centroid down the thicker the section
+	// (past about 27 % they read as upside down, and no reading of the
+	// outline can tell). Measured right way up they must be kept, measured
+	// upside down mirrored back, with a little noise on the points.
+	for _, thick := range []float64{0.12, 0.18, 0.24} {
+		for _, flip := range []bool{false, true} {
+			rng := rand.New(rand.NewPCG(uint64(100*thick), 3))
+			c := &geometry.Contour{}
+			loop := shape.NACA5{L: 2, P: 3, Thickness: thick, SharpTE: true}.Loop(150)
+			if flip {
+				// Counter-clockwise from the trailing edge, as the cleaning
+				// gives it, once turned over.
+				slices.Reverse(loop)
+			}
+			for i, p := range loop {
+				if flip {
+					p.Y = -p.Y
+				}
+				q := p.Scale(300).Add(geometry.Point{X: rng.NormFloat64() * 0.01, Y: rng.NormFloat64() * 0.01})
+				c.Points = append(c.Points, q)
+				c.Origins = append(c.Origins, geometry.Origin{File: "root.csv", Line: i + 1})
+			}
+			cv, rep, err := curve.Fit(c, curve.FitOptions{Noise: 0.01})
+			if err != nil {
+				t.Fatal(err)
+			}
+			nz, err := Normalize(cv, Options{Support: rep.S, Noise: rep.NoiseEstimate})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if nz.Frame.Mirrored != flip {
+				t.Errorf("NACA 230%02.0f, upside down %v: mirrored %v (warnings %q)", 100*thick, flip, nz.Frame.Mirrored, nz.Warnings)
+			}
+		}
+	}
+}
