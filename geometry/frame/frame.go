@@ -227,7 +227,7 @@ func Normalize(cv *curve.Curve, opts Options) (*Normalized, error) {
 		_, cy := chord.Centroid()
 		from := max(sagFrom, supportedFrom(fitted, opts.Support, le, fr))
 		sag, sagOK := meanLineSag(chord, sLE/fr.Chord, from)
-		sagMin := max(EdgeMirrorSag, opts.Noise/fr.Chord)
+		sagMin := max(EdgeMirrorSag, opts.Noise/fr.Chord, sampledSag(fitted, opts.Support, fr.Chord))
 		switch {
 		case cy < -EdgeMirrorCentroid && from > sagFrom && (!sagOK || sag >= -sagMin):
 			// The points leave the nose unsampled and the mean line aft
@@ -245,7 +245,7 @@ func Normalize(cv *curve.Curve, opts Options) (*Normalized, error) {
 			if sag >= 0 {
 				way = "up (as right way up)"
 			}
-			warn(fmt.Sprintf("section is (nearly) symmetric: its centroid lies %.3g chord below the chord line but its mean line bows %s by only %.2g chord, and camber needs more than %.2g (the larger of %.1g and the noise), so mirroring cannot be detected and it was kept as measured; use mirror yes if it was measured upside down", -cy, way, math.Abs(sag), sagMin, EdgeMirrorSag))
+			warn(fmt.Sprintf("section is (nearly) symmetric: its centroid lies %.3g chord below the chord line but its mean line bows %s by only %.2g chord, and camber needs more than %.2g (the largest of %.1g, the noise and what the spacing of the points leaves), so mirroring cannot be detected and it was kept as measured; use mirror yes if it was measured upside down", -cy, way, math.Abs(sag), sagMin, EdgeMirrorSag))
 		case math.Abs(cy) <= EdgeMirrorCentroid:
 			warn("section is (nearly) symmetric: mirroring cannot be detected; use mirror yes if it was measured upside down")
 		}

@@ -546,3 +546,90 @@ func TestNormalizeFiveDigitMirror(t *testing.T) {
 		}
 	}
 }
+
+func TestNormalizeSparseMirror(t *testing.T) {
+	// Probe files of 52 points (NACA Report 824 sections, chord 160 mm,
+	// 0.01 mm noise) spaced as a hurried operator probes: gaps along the
+	// outline drawn log-normal (σ 0.8) times a slow wave, so that some
+	// gaps are ten times others. The curve between points that far apart
+	// guesses the surfaces to a few 1e-4 chord, enough to bow a symmetric
+	// section's mean line as faint camber would. sampledSag must cover
+	// that bow on every draw (and the draws must make it: some bow beyond
+	// EdgeMirrorSag), no NACA 0016 may be mirrored, and every upside-down
+	// NACA 2412, whose mean line sags 0.011 chord (TestMeanLineSag), must
+	// still be mirrored back.
+	const seeds, points = 40, 52
+	fit := func(code string, flip bool, seed int) (*curve.Curve, *curve.FitReport) {
+		n, _ := shape.ParseNACA4(code)
+		dense := testfoil.Loop(n, 2000)
+		s := make([]float64, len(dense))
+		for i := 1; i < len(dense); i++ {
+			s[i] = s[i-1] + dense[i].Dist(dense[i-1])
+		}
+		r := rand.New(rand.NewPCG(uint64(seed), 77))
+		gaps := make([]float64, points)
+		var sum float64
+		phase := 2 * math.Pi * r.Float64()
+		for k := range gaps {
+			gaps[k] = math.Exp(0.8*r.NormFloat64() + 0.5*math.Sin(phase+2*math.Pi*float64(k)/points))
+			sum += gaps[k]
+		}
+		// The ends of the surfaces (the trailing edge's corners) and the
+		// points between them at the gaps drawn.
+		loop := []geometry.Point{dense[0]}
+		at, j := gaps[0]/sum*s[len(s)-1], 0
+		for k := 1; k < points-1; k++ {
+			for j < len(s)-1 && s[j+1] < at {
+				j++
+			}
+			loop = append(loop, dense[j])
+			at += gaps[k] / sum * s[len(s)-1]
+		}
+		loop = append(loop, dense[len(dense)-1])
+		part := testfoil.Part{Chord: 160, RotDeg: 10, Noise: 0.01, Seed: uint64(seed + 1), FlipY: flip}
+		if flip {
+			slices.Reverse(loop)
+		}
+		cv, rep, err := curve.Fit(testfoil.Contour(loop, part), curve.FitOptions{Noise: 0.01})
+		if err != nil {
+			t.Fatal(err)
+		}
+		return cv, rep
+	}
+	bowed := 0
+	for seed := range seeds {
+		cv, rep := fit("0016", false, seed)
+		nz, err := Normalize(cv, Options{Mirror: MirrorNo})
+		if err != nil {
+			t.Fatal(err)
+		}
+		le := geometry.Point{X: nz.Frame.LE[0], Y: nz.Frame.LE[1]}
+		from := max(sagFrom, supportedFrom(cv, rep.S, le, nz.Frame))
+		sag, ok := meanLineSag(nz.Path.(*curve.Curve), nz.SLE, from)
+		allow := sampledSag(cv, rep.S, nz.Frame.Chord)
+		if ok && math.Abs(sag) > EdgeMirrorSag {
+			bowed++
+		}
+		if ok && math.Abs(sag) > allow {
+			t.Errorf("seed %d: NACA 0016's mean line bows %.2g chord, beyond the spacing's allowance %.2g", seed, sag, allow)
+		}
+		if nz, err = Normalize(cv, Options{Support: rep.S, Noise: rep.NoiseEstimate}); err != nil {
+			t.Fatal(err)
+		}
+		if nz.Frame.Mirrored {
+			t.Errorf("seed %d: sparse NACA 0016 mirrored (warnings %q)", seed, nz.Warnings)
+		}
+		cv, rep = fit("2412", true, seed)
+		if nz, err = Normalize(cv, Options{Support: rep.S, Noise: rep.NoiseEstimate}); errors.Is(err, ErrNoLeadingEdge) {
+			continue // the draw left the nose without a point (prep would try other ways)
+		} else if err != nil {
+			t.Fatal(err)
+		}
+		if !nz.Frame.Mirrored {
+			t.Errorf("seed %d: sparse upside-down NACA 2412 not mirrored (warnings %q)", seed, nz.Warnings)
+		}
+	}
+	if bowed == 0 {
+		t.Errorf("no draw bowed the mean line beyond %g: the test does not make the case", EdgeMirrorSag)
+	}
+}
