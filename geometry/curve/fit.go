@@ -9,6 +9,7 @@ import (
 
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/internal/numeric"
+	"github.com/foilwright/foilwright/internal/par"
 )
 
 // Fit methods, as reported in FitReport.Method and the section document.
@@ -482,9 +483,17 @@ func Fit(c *geometry.Contour, opts FitOptions) (*Curve, *FitReport, error) {
 	}
 	// The scatter sets the scale at which corners are sought; it is not
 	// needed when interpolating exactly.
+	// With the trailing edge given it is only reported, and is measured on
+	// a second core while the fit goes on.
 	var scatter float64
+	var scatterTask *par.Task
 	if !opts.Exact {
-		scatter = localScatter(c.Points)
+		if opts.Edge != nil {
+			scatterTask = par.Start(func() { scatter = localScatter(c.Points) })
+			defer scatterTask.Wait()
+		} else {
+			scatter = localScatter(c.Points)
+		}
 	}
 	var ends trailingEnds
 	if opts.Edge != nil {
@@ -492,7 +501,6 @@ func Fit(c *geometry.Contour, opts FitOptions) (*Curve, *FitReport, error) {
 	} else {
 		ends = detectEnds(c.Points, opts.Ends, scatter)
 	}
-	rep0Scatter := scatter
 
 	pts, knot, along, err := fitOrder(c, ends, perim)
 	if err != nil {
@@ -518,7 +526,7 @@ func Fit(c *geometry.Contour, opts FitOptions) (*Curve, *FitReport, error) {
 			ws[0], ws[m-1] = 0.5, 0.5
 		}
 	}
-	rep := &FitReport{Ends: FitEndsClosed, Scatter: rep0Scatter}
+	rep := &FitReport{Ends: FitEndsClosed} // Scatter is set at the end
 	if ends.open {
 		rep.Ends = FitEndsOpen
 	}
@@ -625,6 +633,10 @@ func Fit(c *geometry.Contour, opts FitOptions) (*Curve, *FitReport, error) {
 	}
 	finishReport(c, opts, len(pts), rep)
 	rep.resampler = st.final
+	if scatterTask != nil {
+		scatterTask.Wait()
+	}
+	rep.Scatter = scatter
 	return cv, rep, nil
 }
 
