@@ -884,15 +884,21 @@ func minimise(crit func(float64) float64, lo, hi, hint, hintSpan float64) float6
 
 // minimiseLog scans crit on a grid over [lo, hi] and refines the best
 // sample by golden-section search. atEdge reports that the weakest
-// smoothing tried was best.
+// smoothing tried was best. The grid's samples are independent and are
+// taken on two cores: crit must be safe to call from two goroutines at
+// once (a spline problem's fits are).
 func minimiseLog(crit func(float64) float64, lo, hi, hint, hintSpan float64) (ll float64, atEdge bool) {
 	grid := 20
 	if hint > 0 {
 		lo, hi, grid = math.Log(hint)-hintSpan, math.Log(hint)+hintSpan, 6
 	}
+	vals := make([]float64, grid+1)
+	par.For(grid+1, 2, func(_, k int) {
+		vals[k] = crit(lo + (hi-lo)*float64(k)/float64(grid))
+	})
 	best, bestV := 0, math.Inf(1)
-	for k := 0; k <= grid; k++ {
-		if v := crit(lo + (hi-lo)*float64(k)/float64(grid)); v < bestV {
+	for k, v := range vals {
+		if v < bestV {
 			best, bestV = k, v
 		}
 	}
