@@ -871,8 +871,7 @@ func originOf(c *geometry.Contour, i int) geometry.Origin {
 // medianStep returns the median parameter step of p (the point spacing).
 func medianStep(p *splineProblem) float64 {
 	hs := append([]float64(nil), p.hs...)
-	slices.Sort(hs)
-	return hs[len(hs)/2]
+	return numeric.Nth(hs, len(hs)/2)
 }
 
 // minimise returns the λ that minimises crit(log λ) over [lo, hi] (or
@@ -968,8 +967,7 @@ func robustSigma(rs []float64) float64 {
 	for i, r := range rs {
 		a[i] = math.Abs(r)
 	}
-	slices.Sort(a)
-	return 1.4826 * a[len(a)/2]
+	return 1.4826 * numeric.Nth(a, len(a)/2)
 }
 
 // smoothState is what the rounds of Fit share: the verdict of the
