@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"math"
 	"strings"
+	"sync/atomic"
 
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/accuracy"
@@ -17,6 +18,7 @@ import (
 	"github.com/foilwright/foilwright/geometry/props"
 	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/internal/digest"
+	"github.com/foilwright/foilwright/internal/par"
 	"github.com/foilwright/foilwright/repanel"
 )
 
@@ -226,31 +228,29 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 		}
 		return nil, fmt.Errorf("%s: %w", where, err)
 	}
+	// The section's uncertainty (its replicas refitted and normalised)
+	// needs only the curve, the fit and the shape: it is estimated on the
+	// second core while this one repanels and checks the gates, and not at
+	// all when the gates fail before it has begun.
 	rp := panelOptions(s)
-	nodes, le, dev, err := p.repanel(rp)
+	var nodes []geometry.Point
+	var le int
+	var dev float64
+	var failed atomic.Bool
+	par.For(2, 2, func(_, k int) {
+		if k == 1 {
+			if !failed.Load() {
+				p.Uncertainty = accuracy.Estimate(p.Curve, p.Fit, p.Shape, accuracy.Options{Edges: eo})
+			}
+			return
+		}
+		if nodes, le, dev, err = p.shaped(rp, s, where); err != nil {
+			failed.Store(true)
+		}
+	})
 	if err != nil {
 		return nil, err
 	}
-	// The noise of the points widens the arc of the leading-edge circle so
-	// that noise left in the curve does not upset the radius (0 for exact
-	// points, which are interpolated).
-	po := props.Options{Thickness: s.ThicknessMode, Camber: s.CamberMode, Noise: p.Fit.NoiseEstimate / p.Shape.Frame.Chord}
-	if _, err := section.CheckNodes(nodes); err == nil {
-		if p.Props, p.Camber, err = props.Compute(p.Shape.Path, p.Shape.SLE, po); err != nil {
-			if errors.Is(err, props.ErrNotNormalized) {
-				// The section found does not span the chord from its
-				// leading edge to both ends: a gate, so that the other
-				// ways are tried.
-				return nil, spanGate(p, err)
-			}
-			return nil, fmt.Errorf("%s: %w", where, err)
-		}
-	}
-	if g := p.checkGates(nodes, le); g != nil {
-		return nil, g
-	}
-	p.Quality = repanel.Measure(nodes)
-	p.Uncertainty = accuracy.Estimate(p.Curve, p.Fit, p.Shape, accuracy.Options{Edges: eo})
 	if useEdge {
 		widenForEdge(&p.Uncertainty, cl.Clean.Edge)
 	}
@@ -278,6 +278,37 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 		}
 	}
 	return p, nil
+}
+
+// shaped repanels the normalised section, computes its properties and
+// checks the gates, and sets the repanelled nodes' quality: it returns
+// the nodes, the index of the leading-edge node and the panels' deviation
+// from the curve.
+func (p *Preparation) shaped(rp repanel.Options, s Settings, where string) ([]geometry.Point, int, float64, error) {
+	nodes, le, dev, err := p.repanel(rp)
+	if err != nil {
+		return nil, 0, 0, err
+	}
+	// The noise of the points widens the arc of the leading-edge circle so
+	// that noise left in the curve does not upset the radius (0 for exact
+	// points, which are interpolated).
+	po := props.Options{Thickness: s.ThicknessMode, Camber: s.CamberMode, Noise: p.Fit.NoiseEstimate / p.Shape.Frame.Chord}
+	if _, err := section.CheckNodes(nodes); err == nil {
+		if p.Props, p.Camber, err = props.Compute(p.Shape.Path, p.Shape.SLE, po); err != nil {
+			if errors.Is(err, props.ErrNotNormalized) {
+				// The section found does not span the chord from its
+				// leading edge to both ends: a gate, so that the other
+				// ways are tried.
+				return nil, 0, 0, spanGate(p, err)
+			}
+			return nil, 0, 0, fmt.Errorf("%s: %w", where, err)
+		}
+	}
+	if g := p.checkGates(nodes, le); g != nil {
+		return nil, 0, 0, g
+	}
+	p.Quality = repanel.Measure(nodes)
+	return nodes, le, dev, nil
 }
 
 // fit fits the smoothing spline to the cleaned contour, with the noise and
