@@ -349,6 +349,7 @@ func (cl *cleaning) byBandLoops(opts Options, sigma float64) *attempt {
 func (cl *cleaning) bySection(opts Options, sigma float64) *attempt {
 	pts := cl.pts
 	sel := dense(pts, cl.nb)
+	ws := spacingWeights(pts, cl.nb)
 	// Isolated points wait outside the loop, to be put back, dropped as
 	// outliers or as strays by where they lie from it.
 	rest := outside(len(pts), sel)
@@ -359,11 +360,11 @@ func (cl *cleaning) bySection(opts Options, sigma float64) *attempt {
 	// points near the edge for the edge's models.
 	var a *attempt
 	for pass := range 2 {
-		f, ok := sectionFrame(pts, sel)
+		f, ok := sectionFrame(pts, sel, ws)
 		if !ok {
 			return &attempt{strategy: OrderSection, fail: "no thin end: the points do not look like a section"}
 		}
-		seq, sc := sectionOrder(pts, sel, f)
+		seq, sc := sectionOrder(pts, sel, f, ws)
 		if edgeTrace != nil {
 			edgeTrace("section pass %d le %v te %v", pass, f.le, f.te)
 			for k, i := range seq {
@@ -405,7 +406,7 @@ func (cl *cleaning) bySection(opts Options, sigma float64) *attempt {
 				// surface: their place is the section order's.
 				kept := slices.Clone(a.seq)
 				slices.Sort(kept)
-				a.seq, sc = sectionOrder(pts, kept, f)
+				a.seq, sc = sectionOrder(pts, kept, f, ws)
 			}
 			if bandLike(pts, a.seq, a.scale) {
 				// A band: the points are ordered by their feet on the
@@ -429,15 +430,7 @@ func (cl *cleaning) bySection(opts Options, sigma float64) *attempt {
 // neighbours form a run along the outline (sparseRuns), whereas a gross
 // outlier, or a burst of a few, stays within a few spacings of itself.
 func dense(pts []geometry.Point, nb *nbrs) []int32 {
-	d := make([]float64, len(pts))
-	for i := range pts {
-		row := nb.of(int32(i))
-		if len(row) < 4 {
-			d[i] = math.Inf(1)
-			continue
-		}
-		d[i] = fastDist(pts[i], pts[row[3]])
-	}
+	d := fourthNeighbour(pts, nb)
 	med := median(slices.Clone(d))
 	lim := 6 * med
 	far := make([]bool, len(pts))
@@ -455,6 +448,45 @@ func dense(pts []geometry.Point, nb *nbrs) []int32 {
 		return allNeighbours(len(pts))
 	}
 	return sel
+}
+
+// fourthNeighbour returns, by point index, the distance of each point to
+// its fourth nearest neighbour (+Inf when it has fewer).
+func fourthNeighbour(pts []geometry.Point, nb *nbrs) []float64 {
+	d := make([]float64, len(pts))
+	for i := range pts {
+		row := nb.of(int32(i))
+		if len(row) < 4 {
+			d[i] = math.Inf(1)
+			continue
+		}
+		d[i] = fastDist(pts[i], pts[row[3]])
+	}
+	return d
+}
+
+// spacingWeights returns, by point index, the length of outline each point
+// stands for: its fourth-neighbour distance, or a smaller one of its four
+// nearest neighbours' (an outlier or a burst of a few, off a finely probed
+// surface, stands for no more than the surface's points beside it). Counts
+// of points weighted so measure length along the outline, whatever the
+// step: a surface probed ten times more coarsely than the other weighs as
+// much as it.
+func spacingWeights(pts []geometry.Point, nb *nbrs) []float64 {
+	d := fourthNeighbour(pts, nb)
+	w := make([]float64, len(pts))
+	for i := range pts {
+		v := d[i]
+		row := nb.of(int32(i))
+		for _, q := range row[:min(4, len(row))] {
+			v = min(v, d[q])
+		}
+		if math.IsInf(v, 1) {
+			v = 0
+		}
+		w[i] = v
+	}
+	return w
 }
 
 // sparseReach is the least extent, in median fourth-neighbour distances,
