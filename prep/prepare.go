@@ -254,6 +254,7 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 	if useEdge {
 		widenForEdge(&p.Uncertainty, cl.Clean.Edge)
 	}
+	widenForPasses(&p.Uncertainty, cl.Clean.Passes, p.Shape.Frame.Chord)
 	var edgeWarning string
 	if c := p.Shape.Frame.Chord; p.Uncertainty.Chord > wideChord*c {
 		// The replicas' share of the chord's bound is the noise's, a few
@@ -266,6 +267,7 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 	if edgeWarning != "" {
 		p.Section.Warnings = append(p.Section.Warnings, edgeWarning)
 	}
+	p.Section.Warnings = append(p.Section.Warnings, passWarnings(cl.Clean.Passes, cl.Units)...)
 	p.Section.Warnings = append(p.Section.Warnings, accuracy.Gaps(p.Contour, p.Fit, p.Curve, p.Shape)...)
 	p.Section.Panels.Deviation = dev
 	if rp.Panels == 0 {
