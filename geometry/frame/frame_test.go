@@ -387,7 +387,7 @@ func TestMeanLineSag(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		sag, ok := meanLineSag(nz.Path.(*curve.Curve), nz.SLE)
+		sag, ok := meanLineSag(nz.Path.(*curve.Curve), nz.SLE, sagFrom)
 		if !ok || math.Abs(sag-tc.want) > 0.05*0.01076 {
 			t.Errorf("%s flipped %v: sag %.5f (ok %v), want %.5f", tc.code, tc.flip, sag, ok, tc.want)
 		}
@@ -420,5 +420,87 @@ func TestNormalizeMirroredReflexed(t *testing.T) {
 	}
 	if !nz.Frame.Mirrored {
 		t.Errorf("upside-down NACA 22112 not mirrored (warnings %q)", nz.Warnings)
+	}
+}
+
+func TestNormalizeUnsampledNoseNotMirrored(t *testing.T) {
+	// A thin symmetric section (NACA 0006, Report 824) whose nose the points
+	// leave unsampled: none between 4 % of the chord on either surface
+	// but one, placed 0.4 % of the chord above the true leading edge (a
+	// probe that touched the nose off its line, or a stray point). The
+	// curve's guess at the nose tilts the chord line and bends the mean
+	// line's forward end down, so the centroid lies below the chord line
+	// and the mean line sags as an upside-down camber line would. The
+	// points say nothing of camber: it must not be mirrored when the fit
+	// tells Normalize where the points are (Support), and the same curve
+	// without Support shows the situation the rule is for.
+	n, _ := shape.ParseNACA4("0006")
+	c := &geometry.Contour{}
+	for i, p := range n.Loop(160) {
+		if p.X < 0.04 && p.X > 1e-9 {
+			continue
+		}
+		if p.X <= 1e-9 {
+			p.Y += 0.004
+		}
+		c.Points = append(c.Points, p.Scale(400))
+		c.Origins = append(c.Origins, geometry.Origin{File: "nose.csv", Line: i + 1})
+	}
+	cv, rep, err := curve.Fit(c, curve.FitOptions{Exact: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	bare, err := Normalize(cv, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !bare.Frame.Mirrored {
+		t.Fatalf("the curve's nose guess does not look mirrored without Support (twist %.2f°): the test no longer makes the case the rule is for", bare.Frame.TwistDeg)
+	}
+	nz, err := Normalize(cv, Options{Support: rep.S})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if nz.Frame.Mirrored {
+		t.Errorf("NACA 0006 with an unsampled nose mirrored (warnings %q)", nz.Warnings)
+	}
+	found := false
+	for _, w := range nz.Warnings {
+		found = found || strings.Contains(w, "mirroring cannot be decided")
+	}
+	if !found {
+		t.Errorf("no warning that mirroring cannot be decided: %q", nz.Warnings)
+	}
+}
+
+func TestNormalizeMirrorNeedsCamberAboveNoise(t *testing.T) {
+	// A faint camber line measured upside down: NACA 4-digit equations
+	// (Report 824) with 0.2 % camber at 40 %, 12 % thick, whose mean line
+	// sags about 0.0011 chord below the line through its ends at the
+	// stations (scaled from 2412's 0.01076, TestMeanLineSag). On exact
+	// points it is mirrored back; when the points' noise is larger than
+	// that sag the curve could bow that far by itself, so it is kept as
+	// measured, with a warning.
+	n := shape.NACA4{Camber: 0.002, CamberPos: 0.4, Thickness: 0.12}
+	part := testfoil.Part{Chord: 100, FlipY: true}
+	c := testfoil.Contour(testfoil.Loop(n, 300), part)
+	cv, _, err := curve.Fit(c, curve.FitOptions{Exact: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, tc := range []struct {
+		noise    float64 // input units (chord 100)
+		mirrored bool
+	}{{0, true}, {0.01, true}, {0.3, false}} {
+		nz, err := Normalize(cv, Options{Noise: tc.noise})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if nz.Frame.Mirrored != tc.mirrored {
+			t.Errorf("noise %g chord: mirrored %v, want %v (warnings %q)", tc.noise/100, nz.Frame.Mirrored, tc.mirrored, nz.Warnings)
+		}
+		if !tc.mirrored && !slices.ContainsFunc(nz.Warnings, func(w string) bool { return strings.Contains(w, "mirroring cannot be detected") }) {
+			t.Errorf("noise %g chord: kept without saying mirroring cannot be detected: %q", tc.noise/100, nz.Warnings)
+		}
 	}
 }
