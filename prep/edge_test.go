@@ -5,8 +5,10 @@ import (
 	"math"
 	"testing"
 
+	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/accuracy"
 	"github.com/foilwright/foilwright/geometry/clean"
+	"github.com/foilwright/foilwright/geometry/frame"
 	"github.com/foilwright/foilwright/internal/scangen"
 )
 
@@ -54,6 +56,38 @@ func TestWidenForEdge(t *testing.T) {
 	widenForEdge(&u, &clean.Edge{Chord: 100, Spread: 0.5, SpreadAcross: 1})
 	widenForEdge(&u, nil)
 	if u.Chord != 2 || u.TwistDeg != 1 {
+		t.Errorf("narrowed to chord %g, twist %g°", u.Chord, u.TwistDeg)
+	}
+}
+
+// The surface's bound takes in SpreadSurface (chord units) likewise, and
+// a fit's own trailing edge that replaced the points' edge keeps the
+// points' edge in the bounds: its tip 3 units beyond the end the fit
+// found, 0.5 units above the chord line, with a spread of 1 along and 0.2
+// across, at a chord of 100 twisted by 90° (the chord runs along y),
+// widens the chord's bound to 3 + 1 and the twist's to atan(0.7/100).
+func TestWidenForRejectedEdge(t *testing.T) {
+	u := accuracy.Uncertainty{Chord: 0.1, TwistDeg: 0.1, Surface: 1e-3}
+	widenForEdge(&u, &clean.Edge{Chord: 100, SpreadSurface: 4e-3})
+	if u.Surface != 4e-3 {
+		t.Errorf("surface widened to %g, want 0.004", u.Surface)
+	}
+	fr := frame.Frame{Chord: 100, TwistDeg: -90, LE: [2]float64{10, 20}}
+	te := fr.ToPart(geometry.Point{X: 1}) // the end the fit found
+	if d := te.Dist(geometry.Point{X: 10, Y: 120}); d > 1e-9 {
+		t.Fatalf("frame: trailing edge at %v", te)
+	}
+	tip := fr.ToPart(geometry.Point{X: 1.03, Y: 0.005})
+	e := &clean.Edge{Kind: clean.EdgeSharp, Chord: 100, Upper: tip, Lower: tip, Spread: 1, SpreadAcross: 0.2}
+	u = accuracy.Uncertainty{Chord: 0.1, TwistDeg: 0.1}
+	widenForRejectedEdge(&u, e, fr)
+	if math.Abs(u.Chord-4) > 1e-9 || math.Abs(u.TwistDeg-math.Atan(0.007)*180/math.Pi) > 1e-9 {
+		t.Errorf("widened to chord %g, twist %g°; want 4, %g°", u.Chord, u.TwistDeg, math.Atan(0.007)*180/math.Pi)
+	}
+	u = accuracy.Uncertainty{Chord: 9, TwistDeg: 5}
+	widenForRejectedEdge(&u, e, fr)
+	widenForRejectedEdge(&u, nil, fr)
+	if u.Chord != 9 || u.TwistDeg != 5 {
 		t.Errorf("narrowed to chord %g, twist %g°", u.Chord, u.TwistDeg)
 	}
 }

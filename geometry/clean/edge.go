@@ -221,26 +221,46 @@ func (m *endModel) side(u, l quadFit, p geometry.Point, scat float64) int {
 	return 0
 }
 
-// scoreOf sets m.score: the misfits of the zone points in scatters,
-// squared and capped at edgeCap (common practice for a robust loss).
-func (m *endModel) scoreOf(u, l quadFit, z []geometry.Point, scat float64) {
-	m.score = m.misfit(u, l, z, scat, edgeCap, nil) + m.extra
+// scoreOf sets m.score: the misfits of the zone points in scatters (zs,
+// see misfit), squared and capped at edgeCap (common practice for a
+// robust loss).
+func (m *endModel) scoreOf(u, l quadFit, z []geometry.Point, scat float64, zs []float64) {
+	m.score = m.misfit(u, l, z, scat, edgeCap, nil, zs) + m.extra
 }
 
 // misfit returns the sum of the squared misfits of the points z in
 // scatters, each capped at limit scatters, leaving out the points marked
-// in skip (nil: none).
-func (m *endModel) misfit(u, l quadFit, z []geometry.Point, scat, limit float64, skip []bool) float64 {
+// in skip (nil: none). The scatter of point j is zs[j] (nil: scat for
+// all).
+func (m *endModel) misfit(u, l quadFit, z []geometry.Point, scat, limit float64, skip []bool, zs []float64) float64 {
 	var s float64
 	for j, p := range z {
 		if skip != nil && skip[j] {
 			continue
 		}
+		sc := scat
+		if zs != nil {
+			sc = zs[j]
+		}
 		d, _ := m.miss(u, l, p)
-		r := min(d/scat, limit)
+		r := min(d/sc, limit)
 		s += r * r
 	}
 	return s
+}
+
+// zoneScatter returns the scatter of each zone point about a model of the
+// end: the points' own and the error of the surfaces' fits carried to
+// its station (a new point misses a least-squares fit by both, common
+// practice), so that fits carried far beyond their points do not turn
+// the surfaces' own uncertainty into misfits that decide the end.
+func (f endFits) zoneScatter(z []geometry.Point, scat float64) []float64 {
+	zs := make([]float64, len(z))
+	for j, p := range z {
+		e := max(f.eu.se(p.X), f.el.se(p.X))
+		zs[j] = math.Sqrt(scat*scat + e*e)
+	}
+	return zs
 }
 
 // roundEnd returns the rounded end of radius r tangent to the surfaces u
@@ -678,6 +698,7 @@ func findEdgeIn(pts []geometry.Point, seq []int32, sigma float64, f chordFrame) 
 // winner (see findEdge).
 func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64) (endModel, []bool, bool) {
 	u, l := fits.u, fits.l
+	zs := fits.zoneScatter(z, scat)
 	pen := 2 * math.Log(float64(len(z))+2)
 	// Every model's outline is measured from the foremost zone station on
 	// (the part all share is the same length in each).
@@ -713,7 +734,7 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 			m.extra = coincidence(math.Abs(lastU.X-lastL.X)+scat, pstep)
 		}
 		m.extra += gapDeviance(m.path(u, l, xa), pstep)
-		m.scoreOf(u, l, z, scat)
+		m.scoreOf(u, l, z, scat, zs)
 		if c.Dist(lastU)+c.Dist(lastL) <= edgeReach*step+lastU.Dist(lastL)+2*scat || sepEnd <= 2*scat {
 			models = append(models, m)
 		} else {
@@ -738,7 +759,7 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 		// The surfaces' fits end sepEnd apart, each half of it off the
 		// corner they share: a misfit of the fits' ends, in scatters.
 		m.extra = gapDeviance(m.path(u, l, xa), pstep) + 2*sq(sepEnd/2/scat)
-		m.scoreOf(u, l, z, scat)
+		m.scoreOf(u, l, z, scat, zs)
 		models = append(models, m)
 	}
 	// Blunt: bases about the aftmost point, and beyond it by up to two
@@ -762,7 +783,7 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 			m.extra += coincidence(math.Abs(lastU.X-lastL.X)+scat, pstep)
 		}
 		m.extra += gapDeviance(m.path(u, l, xa), pstep)
-		m.scoreOf(u, l, z, scat)
+		m.scoreOf(u, l, z, scat, zs)
 		cands = append(cands, m)
 		if bestB == nil || m.score < bestB.score {
 			bestB = &m
@@ -778,7 +799,7 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 	// one at its tip (a point a angle θ round an arc of radius r lies
 	// r(1 − cos θ) short of it). The best of a grid of tips is refined by
 	// golden-section search between its neighbours.
-	if bestR := roundBest(u, l, z, xmax, xa, step, pstep, scat, max(sepEnd, 0), pen); bestR != nil {
+	if bestR := roundBest(u, l, z, zs, xmax, xa, step, pstep, scat, max(sepEnd, 0), pen); bestR != nil {
 		models = append(models, *bestR)
 	}
 	if len(models) == 0 {
@@ -799,7 +820,7 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 		}
 	}
 	for k := range models {
-		models[k].score = models[k].misfit(u, l, z, scat, edgeOutlier, out) + models[k].extra
+		models[k].score = models[k].misfit(u, l, z, scat, edgeOutlier, out, zs) + models[k].extra
 	}
 	// A rounded end with fewer than edgeArcMin points on its arc must beat
 	// a blunt one by edgeEvidence: an end sampled by a point or two fits a
@@ -847,7 +868,7 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 	}
 	best := models[bk]
 	for k := range alts {
-		alts[k].score = alts[k].misfit(u, l, z, scat, edgeOutlier, out) + alts[k].extra
+		alts[k].score = alts[k].misfit(u, l, z, scat, edgeOutlier, out, zs) + alts[k].extra
 	}
 	for _, m := range append(models, alts...) {
 		if m.score <= best.score+edgePlausible {
@@ -1026,7 +1047,7 @@ const edgeOpen = edgePlausible / 4
 // roundBest returns the best scored rounded end whose tip lies between
 // 3 scatters short of xmax and a step beyond it (at least a scatter), nil
 // when no arc fits; rmax is the largest radius tried.
-func roundBest(u, l quadFit, z []geometry.Point, xmax, xa, step, pstep, scat, rmax, pen float64) *endModel {
+func roundBest(u, l quadFit, z []geometry.Point, zs []float64, xmax, xa, step, pstep, scat, rmax, pen float64) *endModel {
 	if !(rmax > 0) {
 		return nil
 	}
@@ -1037,7 +1058,7 @@ func roundBest(u, l quadFit, z []geometry.Point, xmax, xa, step, pstep, scat, rm
 			return m, false
 		}
 		m.extra = pen + gapDeviance(m.path(u, l, xa), pstep)
-		m.scoreOf(u, l, z, scat)
+		m.scoreOf(u, l, z, scat, zs)
 		return m, true
 	}
 	var best *endModel
@@ -1382,7 +1403,7 @@ func (m endModel) found(loop []int32, e Edge, pts []geometry.Point, seq []int32,
 			kept++
 		}
 	}
-	r.misfit = m.misfit(u, l, z, scat, edgeOutlier, out) / float64(max(kept, 1))
+	r.misfit = m.misfit(u, l, z, scat, edgeOutlier, out, nil) / float64(max(kept, 1))
 	r.scat = scat
 	for j, k := range zpos {
 		r.zone = append(r.zone, seq[k])
