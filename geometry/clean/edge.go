@@ -397,12 +397,15 @@ const edgeOutlier = 6
 // scatter of good data. The scatter is the larger of sigma and
 // those fits' own. Three models of the end then compete for the points of
 // the zone, each scored by the sum of their squared misfits in scatters,
-// capped at edgeCap (so that no single point decides):
+// capped at edgeCap (so that no single point decides); a point's scatter
+// takes in the error of the fits carried to its station (zoneScatter):
 //
 //   - sharp: the surfaces run on to where their fits cross. A corner that
-//     no point sampled is allowed only within reach of the last points
+//     no point sampled is stated only within reach of the last points
 //     (edgeReach local steps), or where the surfaces end within the
-//     scatter of each other; otherwise the surfaces must have ended apart.
+//     scatter of each other; otherwise the surfaces must have ended apart
+//     (a corner beyond reach still counts among the plausible ends for
+//     the spreads).
 //   - blunt: the surfaces run to a base across the chord at some x (the
 //     best of edgeBases positions about the aftmost point), which joins
 //     them; a lone point on it is a base point.
