@@ -2,6 +2,7 @@ package prep
 
 import (
 	"encoding/json"
+	"errors"
 	"math"
 	"testing"
 
@@ -39,6 +40,36 @@ func TestPrepareThinCamberedReadForwards(t *testing.T) {
 	}
 	if k := p.Section.TrailingEdge.Kind; k != "sharp" {
 		t.Errorf("trailing edge %s, want sharp (a Kármán–Trefftz section ends in a corner)", k)
+	}
+}
+
+// A 4 % thick NACA 4-digit section (Report 824 equations) whose open
+// edge was rounded with a radius of 0.0096 chord, five times its nose
+// radius (1.1019 t², Report 824): an invented voxel scan (internal/scangen
+// case 105172: 1758 points, irregular spacing, a sparse stretch). The
+// nose fitted the rounded-end model as well as the tail, and the section
+// was read backwards, its twist 180° off with a stated bound of 0.05°,
+// exit 0. Now the other end is analysed too when the end found is
+// rounded: the chain either refuses the section (a gate, exit 2) or reads
+// it forwards, never backwards within a bound that misses it.
+func TestPrepareRoundedTailBlunterThanNose(t *testing.T) {
+	const seed = 105172
+	scan, err := scangen.Generate(specOf(t, `{"category": "voxel", "shape": {"family": "naca4", "naca": {"camber": 0.05, "camber_pos": 0.6, "thickness": 0.04, "closed_te": false}, "round_radius": 0.009603747883600895}, "sampling": {"points": 1758, "sigma": 0.5553225268225682, "wave": 0.30076924139688554, "zone": "sparse", "zone_factor": 0.31223925999053803}, "noise": {"mm": 0.012931211964223258, "step_mm": 0.06147582819635124}, "defects": {"outliers": 0.011543013606797183}, "order": {"mode": "shuffled"}, "placement": {"chord_mm": 508.55635200209656, "twist_deg": 32.15336790595233, "orientation": "standard", "le_mm": [17.14660923343658, 3.501603644302122]}, "file": {"format": "tab", "units": "mm", "header": "units", "decimals": 3, "trailing_sep": true}}`), seed)
+	if err != nil {
+		t.Fatal(err)
+	}
+	p, err := Prepare("rounded-tail", []File{NewFile(scan.Name, scan.Data)}, Settings{})
+	if err != nil {
+		var ge *GateError
+		if !errors.As(err, &ge) {
+			t.Fatalf("refused, but not by a gate: %v", err)
+		}
+		return
+	}
+	fr, tr := p.Shape.Frame, scan.Truth
+	dt := math.Mod(math.Abs(fr.TwistDeg-tr.TwistDeg), 360)
+	if dt = min(dt, 360-dt); dt > max(0.2, p.Uncertainty.TwistDeg) {
+		t.Errorf("twist %.3f°, truth %.3f°: %.3g° off with a bound of %.3g°", fr.TwistDeg, tr.TwistDeg, dt, p.Uncertainty.TwistDeg)
 	}
 }
 

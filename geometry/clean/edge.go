@@ -429,6 +429,16 @@ func findEdge(pts []geometry.Point, seq []int32, sigma float64) (edgeFound, bool
 	}
 	r, ok := findEdgeIn(pts, seq, sigma, f)
 	if ok && r.misfit <= edgePoor {
+		// A rounded end may be a nose (a thin section whose rounded
+		// trailing edge is blunter than its nose is as wide near its nose
+		// as near its tail): the other end is analysed too, and when a
+		// model explains its points better, with surfaces that parabolas
+		// fit more closely (a nose's do not), it is the trailing edge.
+		if r.edge.Kind == EdgeRounded {
+			if r2, ok2 := findEdgeIn(pts, seq, sigma, newChordFrame(f.te, f.le)); ok2 && r2.misfit < r.misfit && r2.scat < r.scat {
+				return r2, true
+			}
+		}
 		return r, true
 	}
 	// No model of the end explains the points of the end the widths
