@@ -5,6 +5,7 @@ import (
 	"math"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/internal/par"
 )
 
 // The automatic panel count. A panel replaces the arc of the curve between
@@ -32,15 +33,50 @@ const (
 
 // PolygonDeviation returns the largest distance between the panels joining
 // consecutive nodes and the curve they replace, and the panel where it
-// occurs: at(i, f) is the point of the curve between nodes[i] (f = 0) and
-// nodes[i+1] (f = 1), sampled at f = k/DeviationSamples. It returns 0, -1
-// for fewer than two nodes.
+// occurs (the first, on a tie): at(i, f) is the point of the curve between
+// nodes[i] (f = 0) and nodes[i+1] (f = 1), sampled at f = k/DeviationSamples.
+// It returns 0, -1 for fewer than two nodes. Many panels are measured on
+// two cores in runs of consecutive panels, so at must be safe to call from
+// two goroutines at once.
 func PolygonDeviation(nodes []geometry.Point, at func(panel int, f float64) geometry.Point) (dev float64, panel int) {
+	np := len(nodes) - 1
+	runs := min(8, np/deviationRun)
+	if runs < 2 {
+		return runDeviation(nodes, at, 0, np)
+	}
+	devs := make([]float64, runs)
+	panels := make([]int, runs)
+	par.For(runs, 2, func(_, r int) {
+		devs[r], panels[r] = runDeviation(nodes, at, r*np/runs, (r+1)*np/runs)
+	})
+	// The panels in order, as one pass over them all takes them: a run's
+	// largest replaces the one before only when larger.
+	dev, panel = devs[0], panels[0]
+	for r := 1; r < runs; r++ {
+		if panels[r] >= 0 && devs[r] > dev {
+			dev, panel = devs[r], panels[r]
+		}
+	}
+	return dev, panel
+}
+
+// deviationRun is the least number of panels a run of PolygonDeviation
+// takes on its own.
+const deviationRun = 64
+
+// runDeviation is PolygonDeviation over the panels lo ≤ i < hi. The first
+// run (lo = 0) takes its first sample whatever it is, as one pass does;
+// a later run takes only samples larger than the ones before it, since
+// the pass reaches it with a sample taken.
+func runDeviation(nodes []geometry.Point, at func(panel int, f float64) geometry.Point, lo, hi int) (dev float64, panel int) {
 	panel = -1
-	for i := 0; i+1 < len(nodes); i++ {
+	if lo > 0 {
+		dev = math.Inf(-1)
+	}
+	for i := lo; i < hi; i++ {
 		for k := 1; k < DeviationSamples; k++ {
 			d := segmentDistance(at(i, float64(k)/DeviationSamples), nodes[i], nodes[i+1])
-			if d > dev || panel < 0 {
+			if d > dev || panel < 0 && lo == 0 {
 				dev, panel = d, i
 			}
 		}
@@ -50,7 +86,8 @@ func PolygonDeviation(nodes []geometry.Point, at func(panel int, f float64) geom
 
 // Deviation returns the largest distance between the panels joining the
 // points p.At(ss[i]) and the path between them (see PolygonDeviation), and
-// the panel where it occurs. ss must increase.
+// the panel where it occurs. ss must increase; p.At must be safe to call
+// from two goroutines at once (a curve's is).
 func Deviation(p geometry.Path, ss []float64) (dev float64, panel int) {
 	nodes := make([]geometry.Point, len(ss))
 	for i, s := range ss {

@@ -3,6 +3,7 @@ package repanel
 import (
 	"errors"
 	"math"
+	"math/rand/v2"
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
@@ -131,4 +132,54 @@ func deviationOf(t *testing.T, p geometry.Path, sle float64, n int) float64 {
 	}
 	d, _ := Deviation(p, ss)
 	return d
+}
+
+// TestPolygonDeviationRuns checks that measuring many panels in runs on
+// two cores gives what one pass over the panels in order gives (the
+// reference below, the rule as PolygonDeviation states it): the same
+// largest distance and the first panel reaching it, with ties (a sample
+// distance repeated across runs) and NaN samples (a pass keeps its first
+// sample, NaN or not, and takes later ones only when larger).
+func TestPolygonDeviationRuns(t *testing.T) {
+	onePass := func(nodes []geometry.Point, at func(int, float64) geometry.Point) (float64, int) {
+		dev, panel := 0.0, -1
+		for i := 0; i+1 < len(nodes); i++ {
+			for k := 1; k < DeviationSamples; k++ {
+				d := segmentDistance(at(i, float64(k)/DeviationSamples), nodes[i], nodes[i+1])
+				if d > dev || panel < 0 {
+					dev, panel = d, i
+				}
+			}
+		}
+		return dev, panel
+	}
+	rng := rand.New(rand.NewPCG(5, 6))
+	for trial := range 200 {
+		np := []int{1, 63, 128, 200, 513, 1000}[trial%6]
+		nodes := make([]geometry.Point, np+1)
+		for i := range nodes {
+			nodes[i] = geometry.Point{X: float64(i), Y: 0}
+		}
+		// Sample heights from a few values, so that the largest repeats.
+		h := make([]float64, np*DeviationSamples)
+		for j := range h {
+			h[j] = float64(rng.IntN(5))
+			if trial%5 == 4 && rng.IntN(50) == 0 {
+				h[j] = math.NaN()
+			}
+		}
+		if trial%7 == 3 {
+			h[rng.IntN(len(h))] = math.NaN()
+			h[0] = math.NaN()
+		}
+		at := func(i int, f float64) geometry.Point {
+			k := int(math.Round(f * DeviationSamples))
+			return geometry.Point{X: float64(i) + f, Y: h[i*DeviationSamples+k]}
+		}
+		wd, wp := onePass(nodes, at)
+		gd, gp := PolygonDeviation(nodes, at)
+		if gp != wp || !(gd == wd || math.IsNaN(gd) && math.IsNaN(wd)) {
+			t.Fatalf("trial %d (%d panels): got %v at panel %d, one pass gives %v at panel %d", trial, np, gd, gp, wd, wp)
+		}
+	}
 }

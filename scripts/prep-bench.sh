@@ -14,6 +14,11 @@
 # REPEAT (3) runs each size that many times (the 1e6 scan once unless
 # REPEAT_LARGE is set). Every build must write the same section document
 # for the same scan; a difference is reported.
+#
+# RT=1 runs each timed process under the real-time policy (chrt -f 1, which
+# needs root or CAP_SYS_NICE), ahead of every ordinary process: on a
+# machine that others load, it measures what a quiet machine would show
+# (each run holds both cores for its few seconds at most).
 set -euo pipefail
 cd "$(dirname "$0")/.."
 
@@ -33,6 +38,8 @@ if [ -n "${BASELINE:-}" ]; then
   builds+=(base)
 fi
 
+rt=
+[ -n "${RT:-}" ] && rt="chrt -f 1"
 declare -A wall peak
 for n in $sizes; do
   go run ./internal/prepbench -n "$n" -o "$work/scan-$n.csv"
@@ -41,7 +48,7 @@ for n in $sizes; do
   for b in "${builds[@]}"; do : > "$work/$b-$n.times"; done
   for ((k = 0; k < r; k++)); do
     for b in "${builds[@]}"; do
-      /usr/bin/time -f '%e %M' -o "$work/time" "$work/$b/foilwright" prep "$work/scan-$n.csv" \
+      $rt /usr/bin/time -f '%e %M' -o "$work/time" "$work/$b/foilwright" prep "$work/scan-$n.csv" \
         --limit input-lines=$((n + 100)) -q -o "$work/$b-$n.json"
       cat "$work/time" >> "$work/$b-$n.times"
     done
@@ -55,7 +62,7 @@ for n in $sizes; do
   fi
 done
 
-echo "load average: $(cut -d' ' -f1-3 /proc/loadavg)"
+echo "load average: $(cut -d' ' -f1-3 /proc/loadavg)${rt:+ (runs under $rt)}"
 printf '%-6s %9s %9s %10s %9s %9s\n' build points wall_s peak_MiB growth nlogn
 for b in "${builds[@]}"; do
   prev=

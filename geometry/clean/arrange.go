@@ -134,26 +134,33 @@ func (cl *cleaning) arrange(opts Options, sigma float64) (*attempt, error) {
 			return finish(a)
 		}
 	}
-	// Linking and the section order read the points and their neighbours
-	// only, and neither needs the other: they run at once on two cores,
-	// the section order's attempt kept for its turn below (unused when
-	// linking finds several walls and its loop passes).
+	// Linking (with its loops' evaluation when it finds several walls or
+	// is asked for a loop) and the section order read the points and
+	// their neighbours only, and neither needs the other: they run at
+	// once on two cores, and their attempts are judged below in the order
+	// they always were (the section order's unused when linking passes).
 	var loops, rest [][]int32
-	var sect *attempt
+	var walls int
+	var linked, sect *attempt
+	link := func() {
+		loops, rest = cl.linkLoops()
+		walls = substantial(cl.pts, loops, cl.diag)
+		if walls > 1 || opts.Loop > 0 {
+			linked = cl.evaluate(OrderLinked, loops, rest, opts, sigma, localFits{}, true)
+		}
+	}
 	if opts.Loop == 0 {
 		par.For(2, 2, func(_, k int) {
 			if k == 0 {
 				sect = cl.bySection(opts, sigma)
 			} else {
-				loops, rest = cl.linkLoops()
+				link()
 			}
 		})
 	} else {
-		loops, rest = cl.linkLoops()
+		link()
 	}
-	walls := substantial(cl.pts, loops, cl.diag)
-	if walls > 1 || opts.Loop > 0 {
-		a := cl.evaluate(OrderLinked, loops, rest, opts, sigma, localFits{}, true)
+	if a := linked; a != nil {
 		if pass(a) || a.err != nil {
 			if a.err != nil {
 				return nil, a.err

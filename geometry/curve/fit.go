@@ -1224,18 +1224,25 @@ func residuals(c *geometry.Contour, cv *Curve, knot []int, base map[int]bool, re
 	rep.S = make([]float64, n)
 	rep.Residual = make([]float64, n)
 	rep.Max, rep.MaxAt = 0, geometry.Origin{}
-	var sum2 float64
-	for i, p := range c.Points {
-		if base[i] {
-			a, b := cv.End(), cv.Start()
-			rep.Residual[i] = segmentSide(p, a, b)
-			if p.Dist(a) <= p.Dist(b) {
-				rep.S[i] = cv.Length()
+	// Each point's foot on its own, on two cores in chunks; the sums in
+	// order after.
+	chunks(n, func(lo, hi int) {
+		for i := lo; i < hi; i++ {
+			p := c.Points[i]
+			if base[i] {
+				a, b := cv.End(), cv.Start()
+				rep.Residual[i] = segmentSide(p, a, b)
+				if p.Dist(a) <= p.Dist(b) {
+					rep.S[i] = cv.Length()
+				}
+			} else {
+				j := knot[i]
+				rep.S[i], rep.Residual[i] = cv.residual(p, min(j, cv.Pieces()-1), knotU(cv, j))
 			}
-		} else {
-			j := knot[i]
-			rep.S[i], rep.Residual[i] = cv.residual(p, min(j, cv.Pieces()-1), knotU(cv, j))
 		}
+	})
+	var sum2 float64
+	for i := range c.Points {
 		r := rep.Residual[i]
 		sum2 += r * r
 		if math.Abs(r) > rep.Max {

@@ -5,6 +5,7 @@ import (
 	"sort"
 
 	"github.com/foilwright/foilwright/internal/numeric"
+	"github.com/foilwright/foilwright/internal/par"
 )
 
 // This file holds the two-scale sampling test: what the points themselves
@@ -152,7 +153,13 @@ func thinned(ts []float64, periodic bool) []int {
 func predictInto(e, ts, xs, ys []float64, periodic bool, period float64, step int) {
 	m := len(ts)
 	half := step / 2
-	for phase := 0; phase < step; phase++ {
+	// Each phase writes its own points (i ≡ phase + half modulo step), so
+	// the phases of many points run on two cores.
+	workers := 1
+	if m >= predictParallel {
+		workers = 2
+	}
+	par.For(step, workers, func(_, phase int) {
 		var keep []int
 		for i := phase; i < m; i += step {
 			keep = append(keep, i)
@@ -166,7 +173,7 @@ func predictInto(e, ts, xs, ys []float64, periodic bool, period float64, step in
 			}
 		}
 		if len(keep) < splineMinKnots {
-			continue
+			return
 		}
 		st := make([]float64, len(keep))
 		sx := make([]float64, len(keep))
@@ -175,12 +182,12 @@ func predictInto(e, ts, xs, ys []float64, periodic bool, period float64, step in
 			st[k], sx[k], sy[k] = ts[i], xs[i], ys[i]
 		}
 		if periodic && period-(st[len(st)-1]-st[0]) <= 0 {
-			continue
+			return
 		}
 		prob := splineNewProblem(st, nil, periodic, period)
 		f, err := prob.fit(0, [][]float64{sx, sy}, false)
 		if err != nil {
-			continue
+			return
 		}
 		px := prob.pieces(f.gs[0], f.gams[0])
 		py := prob.pieces(f.gs[1], f.gams[1])
@@ -190,8 +197,12 @@ func predictInto(e, ts, xs, ys []float64, periodic bool, period float64, step in
 			}
 			e[i] = normalError(prob, px, py, ts[i], xs[i], ys[i], period)
 		}
-	}
+	})
 }
+
+// predictParallel is the number of knots from which predictInto fits its
+// phases on two cores.
+const predictParallel = 1024
 
 // normalError returns the signed distance, along the normal of the spline
 // (pieces px, py on prob's knots) at parameter t, of (x, y) from the
