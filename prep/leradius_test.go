@@ -116,8 +116,8 @@ func exactLERadius(t *testing.T, n shape.NACA4) float64 {
 // noise's at a point of the nose: thin noses (6–8 %) hold only 3–8
 // points within a radius of the leading edge at this count.
 func TestLERadiusOfScanSpread(t *testing.T) {
-	if testing.Short() {
-		t.Skip("prepares 40 scans")
+	if testing.Short() || raceEnabled {
+		t.Skip("prepares 40 scans (the normal suite runs it; under the race detector it takes minutes)")
 	}
 	var ratio, absErr []float64
 	for cs := range 40 {
