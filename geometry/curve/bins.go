@@ -122,7 +122,6 @@ func newFitPoints(pts []geometry.Point, ws []float64, along []float64, open, bin
 			fp.of[i] = min(fp.of[i], len(fp.pts)-1)
 		}
 		fp.count = float64(m) / float64(len(fp.pts))
-		onCurve(&fp, pts, ws, open)
 	}
 	mf := len(fp.pts)
 	fp.xs, fp.ys, fp.ts = make([]float64, mf), make([]float64, mf), make([]float64, mf)
@@ -220,80 +219,4 @@ func parameterStep(d, alpha float64) float64 {
 		return math.Max(d, 1e-12)
 	}
 	return math.Max(math.Pow(d, alpha), 1e-12)
-}
-
-// onCurve moves the centroid of each bin onto the outline: the centroid
-// of points spread along a curved outline lies inside the bend by κ·⟨u²⟩/2
-// (u the points' offsets along the outline from it, κ the curvature), the
-// sagitta a fit of the bins would otherwise read as shape, and the noise
-// estimate as noise shared by neighbours (on a 3100-point scan of a 152 mm
-// NACA 0012 with 1e-4 mm rounding, the bins' residuals correlated over
-// twelve neighbours and the nose was cut by 0.036 mm). κ is that of the
-// circle through the centroids of the bin and its neighbours, the
-// direction along the outline that from one neighbour to the other; noise
-// in them moves a bin by about a sixth of its own noise. Pinned ends and
-// bins without a neighbour either side stay where they are.
-func onCurve(fp *fitPoints, pts []geometry.Point, ws []float64, open bool) {
-	const (
-		onCurveTurn  = 0.5 // largest κ times the span of the neighbours
-		onCurveMove  = 0.1 // largest move, in distances to the nearer neighbour
-		onCurveSteps = 3   // the neighbours' own moves change κ: repeat
-	)
-	nb := len(fp.pts)
-	if nb < 3 {
-		return
-	}
-	c := append([]geometry.Point(nil), fp.pts...) // the centroids
-	spread := make([]float64, nb)                 // Σ u² of each bin's points
-	dir := make([]geometry.Point, nb)
-	kappa := make([]float64, nb)
-	ok := make([]bool, nb)
-	short := make([]float64, nb)
-	for range onCurveSteps {
-		q := append([]geometry.Point(nil), fp.pts...)
-		for j := range nb {
-			ok[j] = false
-			pj, nj := j-1, j+1
-			if !open {
-				pj, nj = (j+nb-1)%nb, (j+1)%nb
-			}
-			if pj < 0 || nj >= nb || fp.ws[j] < 2 {
-				continue // an end, or a bin of one point (no spread)
-			}
-			a, b := q[j].Sub(q[pj]), q[nj].Sub(q[j])
-			ab := q[nj].Sub(q[pj])
-			la, lb, lab := a.Norm(), b.Norm(), ab.Norm()
-			if la == 0 || lb == 0 || lab == 0 {
-				continue
-			}
-			dir[j] = ab.Scale(1 / lab)
-			kappa[j] = 2 * a.Cross(b) / (la * lb * lab)
-			// Neighbours that turn by more than about 30° do not
-			// resolve the bend (noisy bins close together, a corner):
-			// left alone.
-			ok[j] = math.Abs(kappa[j])*lab <= onCurveTurn
-			short[j] = math.Min(la, lb)
-			spread[j] = 0
-		}
-		for i, p := range pts {
-			j := fp.of[i]
-			if !ok[j] || ws[i] < 1 {
-				continue
-			}
-			u := p.Sub(c[j]).Dot(dir[j])
-			spread[j] += u * u
-		}
-		for j := range nb {
-			if !ok[j] {
-				fp.pts[j] = c[j]
-				continue
-			}
-			sag := kappa[j] * spread[j] / fp.ws[j] / 2
-			// At most a tenth of the distance to the nearer neighbour:
-			// a bin's own spread is far below it where this holds.
-			sag = math.Max(-onCurveMove*short[j], math.Min(onCurveMove*short[j], sag))
-			left := geometry.Point{X: -dir[j].Y, Y: dir[j].X}
-			fp.pts[j] = c[j].Sub(left.Scale(sag))
-		}
-	}
 }
