@@ -244,3 +244,94 @@ func TestFlattenSteppedPlane(t *testing.T) {
 		t.Errorf("warped: error %v, want ErrNotPlanar", err)
 	}
 }
+
+// TestFlattenStrays: a noisy scan in a plane with a few points thrown off
+// it alone (a speck the beam caught) is flattened with those points
+// dropped as strays, each listed; a smooth warp beyond the tolerance, and a
+// scan with too many points off the plane (2 %), are still refused.
+func TestFlattenStrays(t *testing.T) {
+	const n, sigma = 3000, 0.05 // a 100 mm thin ellipse, 0.05 mm noise
+	r := rand.New(rand.NewPCG(7, 13))
+	make3 := func(off map[int]float64, warp float64) *geometry.Cloud {
+		c := &geometry.Cloud{Dim: 3}
+		r := rand.New(rand.NewPCG(7, 13))
+		for i := range n {
+			a := 2 * math.Pi * r.Float64()
+			x, y := 50*math.Cos(a), 6*math.Sin(a)
+			z := 240 + sigma*r.NormFloat64() + off[i] + warp*(x/50)*(x/50)*(y/6)
+			c.Points = append(c.Points, geometry.Vec3{X: x, Y: y, Z: z})
+			c.Origins = append(c.Origins, geometry.Origin{File: "scan", Line: i + 1})
+		}
+		return c
+	}
+	few := map[int]float64{100: 1.5, 1700: -2, 2900: 1.2}
+	_, fl, err := Flatten(make3(few, 0), FlattenOptions{})
+	if err != nil {
+		t.Fatalf("a plane with %d strays refused: %v", len(few), err)
+	}
+	if len(fl.Strays) != len(few) {
+		t.Fatalf("strays %v, want lines 101, 1701, 2901", fl.Strays)
+	}
+	for _, st := range fl.Strays {
+		if want := few[st.Origin.Line-1]; math.Abs(st.Distance-want) > 5*sigma {
+			t.Errorf("stray at line %d: distance %g, want %g within the noise", st.Origin.Line, st.Distance, want)
+		}
+	}
+	if fl.Kept != n-len(few) || fl.Max > fl.Tolerance {
+		t.Errorf("kept %d (want %d), max %g beyond the tolerance %g", fl.Kept, n-len(few), fl.Max, fl.Tolerance)
+	}
+	if _, _, err := Flatten(make3(nil, 2), FlattenOptions{}); !errors.Is(err, ErrNotPlanar) {
+		t.Errorf("warped: error %v, want ErrNotPlanar", err)
+	}
+	many := map[int]float64{}
+	for len(many) < n/50 {
+		many[r.IntN(n)] = 1.5
+	}
+	if _, _, err := Flatten(make3(many, 0), FlattenOptions{}); !errors.Is(err, ErrNotPlanar) {
+		t.Errorf("%d points off the plane: error %v, want ErrNotPlanar", len(many), err)
+	}
+	// A tolerance the user gives is theirs: nothing is dropped.
+	if _, _, err := Flatten(make3(few, 0), FlattenOptions{Tolerance: 0.5}); !errors.Is(err, ErrNotPlanar) {
+		t.Errorf("given tolerance: error %v, want ErrNotPlanar", err)
+	}
+}
+
+// TestFlattenCoarseGrid: a scan at constant z with 0.04 mm of noise,
+// written on a 0.19 mm grid (a voxelised scan), puts most points on one
+// level and a few on the next, a whole step off the plane fitted between
+// them; the grid's step is allowed for, and the same points warped by
+// 2 mm are still refused.
+func TestFlattenCoarseGrid(t *testing.T) {
+	const n, sigma, step = 650, 0.04, 0.19
+	r := rand.New(rand.NewPCG(11, 5))
+	grid := func(v float64) float64 { return math.Round(v/step) * step }
+	flat := &geometry.Cloud{Dim: 3}
+	warped := &geometry.Cloud{Dim: 3}
+	for i := range n {
+		a := 2 * math.Pi * r.Float64()
+		x, y := 47*math.Cos(a), 6*math.Sin(a)
+		z := 82.1 + sigma*r.NormFloat64()
+		flat.Points = append(flat.Points, geometry.Vec3{X: x, Y: y, Z: grid(z)})
+		warped.Points = append(warped.Points, geometry.Vec3{X: x, Y: y, Z: grid(z + 2*(x/47)*(x/47)*(y/6))})
+		o := geometry.Origin{File: "vox", Line: i + 1}
+		flat.Origins = append(flat.Origins, o)
+		warped.Origins = append(warped.Origins, o)
+	}
+	levels := map[float64]int{}
+	for _, p := range flat.Points {
+		levels[p.Z]++
+	}
+	if len(levels) < 2 {
+		t.Fatalf("all points on one level: the test does not make the case")
+	}
+	_, fl, err := Flatten(flat, FlattenOptions{})
+	if err != nil {
+		t.Fatalf("a flat scan on a coarse grid refused: %v", err)
+	}
+	if fl.Tolerance < step {
+		t.Errorf("tolerance %g does not allow for the grid's step %g", fl.Tolerance, step)
+	}
+	if _, _, err = Flatten(warped, FlattenOptions{}); !errors.Is(err, ErrNotPlanar) {
+		t.Errorf("warped: error %v, want ErrNotPlanar", err)
+	}
+}
