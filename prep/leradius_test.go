@@ -1,38 +1,51 @@
 package prep
 
 import (
+	"math"
+	"math/rand/v2"
 	"slices"
 	"testing"
 
+	"github.com/foilwright/foilwright/geometry/curve"
+	"github.com/foilwright/foilwright/geometry/frame"
+	"github.com/foilwright/foilwright/geometry/shape"
 	"github.com/foilwright/foilwright/internal/scangen"
 )
 
-// leRadiusRatios prepares scans of a NACA 4-digit section (points per
-// scan, 0.02 mm noise across the surface at a 152 mm chord, irregular
-// spacing) and returns the stated leading-edge radius over the one of NACA
-// Report 824, 1.1019 t², for each seed.
+// leScan prepares one scan of a NACA 4-digit section (0.02 mm noise across
+// the surface at a 152 mm chord, irregular spacing σ, twist) and returns
+// the stated leading-edge radius in chord units.
+func leScan(t *testing.T, ns scangen.NACASpec, points int, sigma, twist float64, seed uint64) float64 {
+	t.Helper()
+	spec := scangen.Spec{
+		Category:  "general",
+		Shape:     scangen.ShapeSpec{Family: "naca4", NACA: &ns},
+		Sampling:  scangen.Sampling{Points: points, Sigma: sigma, Wave: 0.2},
+		Noise:     scangen.Noise{MM: 0.02},
+		Order:     scangen.Order{Mode: "loop"},
+		Placement: scangen.Placement{ChordMM: 152, TwistDeg: twist, Orientation: "standard"},
+		File:      scangen.FileSpec{Format: "csv", Units: "mm", Header: "names", Decimals: 4},
+	}
+	scan, err := scangen.Generate(spec, seed)
+	if err != nil {
+		t.Fatal(err)
+	}
+	p, err := Prepare("n", []File{NewFile(scan.Name, scan.Data)}, Settings{})
+	if err != nil {
+		t.Fatalf("seed %d: %v", seed, err)
+	}
+	return p.Props.LERadius
+}
+
+// leRadiusRatios returns the stated leading-edge radius over the one of
+// NACA Report 824, 1.1019 t², for scans of one section at σ 0.3 and 5° of
+// twist, one per seed.
 func leRadiusRatios(t *testing.T, camber, pos, thick float64, points int, seeds int) []float64 {
 	t.Helper()
 	var out []float64
 	for seed := 1; seed <= seeds; seed++ {
-		spec := scangen.Spec{
-			Category:  "general",
-			Shape:     scangen.ShapeSpec{Family: "naca4", NACA: &scangen.NACASpec{Camber: camber, CamberPos: pos, Thickness: thick, ClosedTE: true}},
-			Sampling:  scangen.Sampling{Points: points, Sigma: 0.3, Wave: 0.2},
-			Noise:     scangen.Noise{MM: 0.02},
-			Order:     scangen.Order{Mode: "loop"},
-			Placement: scangen.Placement{ChordMM: 152, TwistDeg: 5, Orientation: "standard"},
-			File:      scangen.FileSpec{Format: "csv", Units: "mm", Header: "names", Decimals: 4},
-		}
-		scan, err := scangen.Generate(spec, uint64(seed))
-		if err != nil {
-			t.Fatal(err)
-		}
-		p, err := Prepare("n", []File{NewFile(scan.Name, scan.Data)}, Settings{})
-		if err != nil {
-			t.Fatalf("seed %d: %v", seed, err)
-		}
-		out = append(out, p.Props.LERadius/(1.1019*thick*thick))
+		ns := scangen.NACASpec{Camber: camber, CamberPos: pos, Thickness: thick, ClosedTE: true}
+		out = append(out, leScan(t, ns, points, 0.3, 5, uint64(seed))/(1.1019*thick*thick))
 	}
 	return out
 }
@@ -40,13 +53,17 @@ func leRadiusRatios(t *testing.T, camber, pos, thick float64, points int, seeds 
 // The leading-edge radius of scans of NACA 4-digit sections against NACA
 // Report 824's 1.1019 t² (invented scans, internal/scangen: irregular
 // spacing σ 0.3, 0.02 mm noise, 152 mm chord, nine seeds each). Measured
-// medians of the ratio at 150 points: 0012 1.087, 2412 1.068, 4415 1.048;
-// at 800 points 0012 0.999, 2412 1.071, 4415 1.013, 0009 1.054. The issue's
-// 3 % at 800 points is not met on 2412 (+7 %); this holds what is: the
-// median within 10 % at both counts. A 0009 at 150 points (a 1.35 mm nose
-// radius between points 2 mm apart) is left out: its nose is not resolved
-// (median 3.05); the two such scans looked at warn that the nose is
-// sampled too sparsely.
+// medians of the ratio at 800 points: 0012 0.948, 2412 0.996, 4415 0.991,
+// 0009 0.955 (the circle fitted over a noise-widened arc, before the
+// nose's form was read, gave 0.999, 1.071, 1.013, 1.054); at 150 points,
+// where most noses hold too few points for the form and keep the circle,
+// 0012 1.086, 2412 1.068, 4415 1.007 (before 1.047). The issue asks 3 % at
+// 800 points: met on the cambered sections, not on the symmetric ones,
+// which read about 4 % low (the corner's search takes noise for a corner,
+// nose.go); this holds what is, 6 % at 800 points and 10 % at 150. A 0009
+// at 150 points (a 1.35 mm nose radius between points 2 mm apart) is left
+// out: its nose is not resolved (median 3.05); the two such scans looked
+// at warn that the nose is sampled too sparsely.
 func TestLERadiusOfScans(t *testing.T) {
 	if testing.Short() {
 		t.Skip("prepares 63 scans")
@@ -63,8 +80,67 @@ func TestLERadiusOfScans(t *testing.T) {
 		slices.Sort(r)
 		med := r[len(r)/2]
 		t.Logf("NACA %s, %d points: LE radius / 1.1019 t² median %.3f (%.3f to %.3f)", tc.code, tc.points, med, r[0], r[len(r)-1])
-		if med < 0.9 || med > 1.1 {
-			t.Errorf("NACA %s, %d points: LE radius median %.3f of Report 824's 1.1019 t², want within 10 %%", tc.code, tc.points, med)
+		tol := 0.10
+		if tc.points >= 800 {
+			tol = 0.06
 		}
+		if math.Abs(med-1) > tol {
+			t.Errorf("NACA %s, %d points: LE radius median %.3f of Report 824's 1.1019 t², want within %.0f %%", tc.code, tc.points, med, 100*tol)
+		}
+	}
+}
+
+// exactLERadius returns the radius of curvature at the leading edge (the
+// chord convention's point) of the exact outline of n: the NACA Report
+// 824 equations at 8001 cosine-spaced nodes, interpolated. For a
+// symmetric section it is 1.1019 t²; camber moves it (2412 −1.4 %, 4424
+// −6 %, 6209 +22 %), since the chord convention's leading edge is not
+// the point of the mean line's nose and camber bends the nose.
+func exactLERadius(t *testing.T, n shape.NACA4) float64 {
+	t.Helper()
+	nz, err := frame.Normalize(curve.Interpolate(n.Nodes(8000), false), frame.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return 1 / nz.Path.(*curve.Curve).Curvature(nz.SLE)
+}
+
+// The leading-edge radius over a spread of scans (invented, internal/
+// scangen): NACA 4-digit sections 6–24 % thick, camber 0–6 % (none in
+// three of ten) at 20–60 % of the chord, open and closed trailing edges,
+// twist −25° to 35°, spacing σ 0 to 0.8, 800 points, 0.02 mm noise at a
+// 152 mm chord; the stated radius against the exact outline's. Measured
+// over these 40 scans: median 1.001, 10th and 90th percentiles 0.951 and
+// 1.069, |error| 90th percentile 9.1 % (the circle before: median 1.022,
+// 0.962 to 1.119, |error| 90th percentile 11.8 %). The spread is the
+// noise's at a point of the nose: thin noses (6–8 %) hold only 3–8
+// points within a radius of the leading edge at this count.
+func TestLERadiusOfScanSpread(t *testing.T) {
+	if testing.Short() || raceEnabled {
+		t.Skip("prepares 40 scans (the normal suite runs it; under the race detector it takes minutes)")
+	}
+	var ratio, absErr []float64
+	for cs := range 40 {
+		rng := rand.New(rand.NewPCG(uint64(cs+1), 7))
+		ns := scangen.NACASpec{Thickness: 0.06 + 0.18*rng.Float64(), ClosedTE: rng.Float64() < 0.5}
+		if rng.Float64() < 0.7 {
+			ns.Camber, ns.CamberPos = 0.06*rng.Float64(), 0.2+0.4*rng.Float64()
+		}
+		sigma, twist := 0.8*rng.Float64(), -25+60*rng.Float64()
+		truth := exactLERadius(t, shape.NACA4{Camber: ns.Camber, CamberPos: ns.CamberPos, Thickness: ns.Thickness, SharpTE: ns.ClosedTE})
+		q := leScan(t, ns, 800, sigma, twist, uint64(cs+1)) / truth
+		ratio = append(ratio, q)
+		absErr = append(absErr, math.Abs(q-1))
+	}
+	slices.Sort(ratio)
+	slices.Sort(absErr)
+	pct := func(a []float64, f float64) float64 { return a[int(f*float64(len(a)-1))] }
+	med, p90 := pct(ratio, 0.5), pct(absErr, 0.9)
+	t.Logf("LE radius / exact, 40 scans: median %.3f, 10th %.3f, 90th %.3f; |error| 90th pct %.3f", med, pct(ratio, 0.1), pct(ratio, 0.9), p90)
+	if math.Abs(med-1) > 0.03 {
+		t.Errorf("LE radius over the exact outline's: median %.3f, want within 3 %%", med)
+	}
+	if p90 > 0.11 {
+		t.Errorf("LE radius over the exact outline's: |error| 90th percentile %.3f, want at most 0.11 (measured 0.091)", p90)
 	}
 }

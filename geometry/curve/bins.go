@@ -42,10 +42,15 @@ type fitPoints struct {
 }
 
 // newFitPoints returns the fit points of pts (fit order) with weights ws:
-// the points themselves, or for more than binFrom points their bins. A
-// point whose weight is below 1 (an outlier) is left out of the bins; the
-// ends of an open fit, which are pinned, stay alone.
-func newFitPoints(pts []geometry.Point, ws []float64, along []float64, open bool) fitPoints {
+// the points themselves, or, when bin is set, for more than binFrom points
+// their bins. A point whose weight is below 1 (an outlier) is left out of
+// the bins; the ends of an open fit, which are pinned, stay alone.
+//
+// Exact samples are not binned (Fit): the centroid of two neighbours lies
+// inside a curved outline by the sagitta of their chord, which the
+// sampling test reads as noise, and an interpolating spline, which has no
+// smoothing length to keep its system conditioned, does not need bins.
+func newFitPoints(pts []geometry.Point, ws []float64, along []float64, open, bin bool) fitPoints {
 	m := len(pts)
 	// step is the distance along the curve from point i-1 to point i: the
 	// contour's own positions along the loop when it carries them (a band,
@@ -58,7 +63,7 @@ func newFitPoints(pts []geometry.Point, ws []float64, along []float64, open bool
 	}
 	var fAlong []float64 // positions of the fit points along the loop
 	fp := fitPoints{count: 1}
-	if m < binFrom {
+	if m < binFrom || !bin {
 		fp.pts, fp.ws = pts, append([]float64(nil), ws...)
 		fAlong = along
 	} else {

@@ -552,9 +552,16 @@ func Fit(c *geometry.Contour, opts FitOptions) (*Curve, *FitReport, error) {
 	}
 	var cv *Curve
 	for round := 0; ; round++ {
-		fp := newFitPoints(pts, ws, along, ends.open)
+		fp := newFitPoints(pts, ws, along, ends.open, !st.exact)
 		if round == 0 && !opts.Exact {
-			st.sample = sampleTest(fp.ts, fp.xs, fp.ys, !ends.open, fp.period, perim)
+			// The sampling test reads the points themselves, not their
+			// bins: a bin's centroid sits off a curved outline by the
+			// sagitta of its points, which would pass for noise.
+			tp := fp
+			if fp.of != nil {
+				tp = newFitPoints(pts, ws, along, ends.open, false)
+			}
+			st.sample = sampleTest(tp.ts, tp.xs, tp.ys, !ends.open, tp.period, perim)
 			rep.SampleRatio = st.sample.Ratio
 			if opts.Noise == 0 {
 				switch {
@@ -570,7 +577,10 @@ func Fit(c *geometry.Contour, opts FitOptions) (*Curve, *FitReport, error) {
 				if st.exact && ends.open && ws[0] < endWeight {
 					// Exact points are interpolated, ends and all.
 					ws[0], ws[m-1] = endWeight, endWeight
-					fp = newFitPoints(pts, ws, along, ends.open)
+					tp = newFitPoints(pts, ws, along, ends.open, false)
+				}
+				if st.exact {
+					fp = tp // exact samples are interpolated, every one
 				}
 			}
 		}

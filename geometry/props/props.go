@@ -188,10 +188,13 @@ func (ps side) atX(x float64) (int, float64, geometry.Point, bool) {
 // the mean camber line; camber is the mean of the surfaces at equal x, or in
 // CamberInscribed mode the centre line of the circles inscribed between the
 // surfaces (blade sections). Both maxima are refined by golden-section
-// search between stations. The leading-edge radius is that of the circle
-// fitted by least squares (geometric distance) to the nose within
-// ±leArc (0.15) osculating radii of arc of the leading edge, over a
-// wider arc when opts.Noise says the points were noisy (leCircle). The
+// search between stations. The leading-edge radius is the radius of
+// curvature at the leading edge, read from a fit of the nose's own form
+// over a window that grows with opts.Noise (leRadius, nose.go); where the
+// nose holds too few points for that, the circle fitted by least squares
+// (geometric distance) to the nose within ±leArc (0.15) osculating radii
+// of arc of the leading edge, over a wider arc when opts.Noise says the
+// points were noisy (leCircle). The
 // trailing-edge angle is the angle between the surface tangents at the
 // trailing edge; for a
 // rounded edge (a closed path, smooth through the tip) it is the angle
@@ -245,6 +248,13 @@ func Compute(p geometry.Path, sLE float64, opts Options) (*SectionProperties, *C
 	sp.Thickness, sp.ThicknessAt = maxOn(thick, st[1:len(st)-1])
 	cl := o.camberLine(opts.Camber, st, thick, sp)
 	sp.LECenter, sp.LERadius = leCircle(c, sLE, opts.Noise)
+	if r, ok := leRadius(c, sLE, sp.LERadius, opts.Noise); ok && r > sp.LERadius/2 && r < 2*sp.LERadius {
+		// The radius of curvature read from the nose's own form
+		// (nose.go); the circle stays where that cannot be read, and
+		// bounds it (a reading off by 2× is a failed fit, not a nose).
+		sp.LERadius = r
+		sp.LECenter = c.At(sLE).Sub(c.Normal(sLE).Scale(r))
+	}
 	trailingEdge(c, sp)
 	if err := areaAndMoments(c, sp); err != nil {
 		return nil, nil, err
