@@ -67,9 +67,7 @@ func Logger() hclog.Logger {
 // Nothing may be written to stdout before Serve is called.
 func Serve(impl stage.Stage) {
 	log := Logger()
-	if _, set := os.LookupEnv("GOGC"); !set {
-		debug.SetGCPercent(stageGCPercent)
-	}
+	setGCPercent(os.LookupEnv)
 	go watchParent(os.Getppid(), ParentPollInterval, func() {
 		log.Error("host process went away; exiting")
 		os.Exit(3)
@@ -92,6 +90,14 @@ func Serve(impl stage.Stage) {
 // collected every few calls, each collection waking the process's idle
 // threads in the middle of a call.
 const stageGCPercent = 400
+
+// setGCPercent sets the collector's target to stageGCPercent unless the
+// environment (looked up by env) sets GOGC, which the runtime has read.
+func setGCPercent(env func(string) (string, bool)) {
+	if _, set := env("GOGC"); !set {
+		debug.SetGCPercent(stageGCPercent)
+	}
+}
 
 // streamWorkers is the number of goroutines the stage's gRPC server keeps
 // for its calls. go-plugin's own streams (the broker, the copy of stdout
