@@ -253,7 +253,10 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 	}
 	if useEdge {
 		widenForEdge(&p.Uncertainty, cl.Clean.Edge)
+	} else {
+		widenForRejectedEdge(&p.Uncertainty, cl.Clean.Edge, p.Shape.Frame)
 	}
+	widenForPasses(&p.Uncertainty, cl.Clean.Passes, p.Shape.Frame.Chord)
 	var edgeWarning string
 	if c := p.Shape.Frame.Chord; p.Uncertainty.Chord > wideChord*c {
 		// The replicas' share of the chord's bound is the noise's, a few
@@ -266,6 +269,7 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 	if edgeWarning != "" {
 		p.Section.Warnings = append(p.Section.Warnings, edgeWarning)
 	}
+	p.Section.Warnings = append(p.Section.Warnings, passWarnings(cl.Clean.Passes, cl.Units)...)
 	p.Section.Warnings = append(p.Section.Warnings, accuracy.Gaps(p.Contour, p.Fit, p.Curve, p.Shape)...)
 	p.Section.Panels.Deviation = dev
 	if rp.Panels == 0 {
@@ -367,7 +371,9 @@ const wideChord = 0.005
 // lie at different heights across the chord (the tip of an arc and the
 // midpoint of a base through the same last points, on a cambered end),
 // and the chord line turns with the one chosen: the twist's bound is at
-// least that height over the chord (clean.Edge.SpreadAcross).
+// least that height over the chord (clean.Edge.SpreadAcross), and the
+// surface's at least how far their outlines lie apart
+// (clean.Edge.SpreadSurface).
 func widenForEdge(u *accuracy.Uncertainty, e *clean.Edge) {
 	if e == nil {
 		return
@@ -377,6 +383,28 @@ func widenForEdge(u *accuracy.Uncertainty, e *clean.Edge) {
 	}
 	if a := e.SpreadAcross; a > 0 && e.Chord > 0 && !math.IsInf(a, 0) {
 		u.TwistDeg = math.Max(u.TwistDeg, math.Atan(a/e.Chord)*180/math.Pi)
+	}
+	if s := e.SpreadSurface; s > u.Surface && !math.IsInf(s, 0) {
+		u.Surface = s
+	}
+}
+
+// widenForRejectedEdge widens the bounds of a section whose fit found
+// its own trailing edge after the one found on the points failed a gate:
+// the points still say the section may end there (the surfaces' corner
+// beyond the last points, say), so the chord's bound reaches that edge's
+// tip and its spread, and the twist's the tip's height over the chord.
+func widenForRejectedEdge(u *accuracy.Uncertainty, e *clean.Edge, fr frame.Frame) {
+	if e == nil || e.Kind == clean.EdgeRounded || !(fr.Chord > 0) {
+		return
+	}
+	tip := fr.ToChord(e.Upper.Add(e.Lower).Scale(0.5))
+	along, across := math.Abs(tip.X-1)*fr.Chord, math.Abs(tip.Y)*fr.Chord
+	if d := along + e.Spread; d > u.Chord && !math.IsInf(d, 0) && !math.IsNaN(d) {
+		u.Chord = d
+	}
+	if a := across + e.SpreadAcross; a > 0 && !math.IsInf(a, 0) && !math.IsNaN(a) {
+		u.TwistDeg = math.Max(u.TwistDeg, math.Atan(a/fr.Chord)*180/math.Pi)
 	}
 }
 
