@@ -2,6 +2,7 @@ package sdk
 
 import (
 	"os"
+	"runtime/debug"
 	"testing"
 	"time"
 
@@ -42,5 +43,20 @@ func TestLoggerLevelFromEnv(t *testing.T) {
 	l := Logger()
 	if l.GetLevel() != hclog.Debug {
 		t.Errorf("level %v, want debug", l.GetLevel())
+	}
+}
+
+// TestGCPercent checks that a stage process gets stageGCPercent when its
+// environment leaves GOGC unset, and keeps the runtime's when it sets it.
+func TestGCPercent(t *testing.T) {
+	old := debug.SetGCPercent(100)
+	defer debug.SetGCPercent(old)
+	setGCPercent(func(string) (string, bool) { return "", false })
+	if got := debug.SetGCPercent(100); got != stageGCPercent {
+		t.Errorf("GOGC unset: the collector's target is %d, want %d", got, stageGCPercent)
+	}
+	setGCPercent(func(k string) (string, bool) { return "150", k == "GOGC" })
+	if got := debug.SetGCPercent(100); got != 100 {
+		t.Errorf("GOGC set: the collector's target was changed to %d", got)
 	}
 }
