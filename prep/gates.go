@@ -203,7 +203,7 @@ func thicknessAt(nodes []geometry.Point, le int, x float64) float64 {
 // It names the point nearest to the end that falls short.
 func spanGate(p *Preparation, err error) *GateError {
 	g := &GateError{Gate: GateSpan, Seen: "the outline found does not run from the trailing edge round the nose and back (" + strings.TrimPrefix(err.Error(), "geometry: ") + ")",
-		Advice: "the loop was cut open in the wrong place, often where one surface is sampled far more densely than the other or two passes meet: set the leading edge with --le-at X,Y, or look at the points (points --plot)"}
+		Advice: spanAdvice}
 	if path := p.Shape.Path; path != nil && path.Length() > 0 {
 		fr := p.Shape.Frame
 		a, b := path.At(0), path.At(path.Length())
@@ -213,6 +213,36 @@ func spanGate(p *Preparation, err error) *GateError {
 		}
 		g.Where = nearestOrigin(p.Contour, geometry.Point(fr.ToPart(end)))
 	}
+	return g
+}
+
+// spanAdvice is what the user can do about a section that fails the gate
+// "surfaces span the chord".
+const spanAdvice = "the loop was cut open in the wrong place, often where one surface is sampled far more densely than the other or two passes meet: set the leading edge with --le-at X,Y, or look at the points (points --plot)"
+
+// endGate is the failure of a section whose leading edge, as found, lies
+// at or next to an end of the outline, so that one surface is missing or
+// too short to hold its panels (the repanelling's repanel.ErrPath): the
+// loop was cut open in the wrong place, and what is left is no section.
+// It is the gate "surfaces span the chord", saying how long each surface
+// is and naming the point nearest to the short surface's end, so that the
+// other ways of making the section are tried and, when all fail, the user
+// reads what was seen rather than the repanelling's arc lengths.
+func endGate(p *Preparation) *GateError {
+	g := &GateError{Gate: GateSpan, Advice: spanAdvice}
+	path := p.Shape.Path
+	L, sLE := path.Length(), p.Shape.SLE
+	if !(L > 0) || math.IsInf(L, 0) {
+		g.Seen = "the outline found has no length to panel"
+		return g
+	}
+	up := 100 * min(max(sLE/L, 0), 1)
+	g.Seen = fmt.Sprintf("the outline found does not run from the trailing edge round the nose and back (its leading edge lies at %.3g %% of its length: the upper surface is %.3g %% of it, the lower %.3g %%, too short a surface to panel)", up, up, 100-up)
+	end := path.At(0)
+	if up > 50 {
+		end = path.At(L)
+	}
+	g.Where = nearestOrigin(p.Contour, geometry.Point(p.Shape.Frame.ToPart(end)))
 	return g
 }
 

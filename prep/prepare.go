@@ -228,6 +228,12 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 	rp := panelOptions(s)
 	nodes, le, dev, err := p.repanel(rp)
 	if err != nil {
+		if errors.Is(err, repanel.ErrPath) {
+			// A surface the repanelling cannot place its nodes on: the
+			// loop was cut open in the wrong place. A gate, so that the
+			// other ways are tried.
+			return nil, endGate(p)
+		}
 		return nil, err
 	}
 	// The noise of the points widens the arc of the leading-edge circle so
