@@ -118,3 +118,58 @@ func TestPrepareEndGateFallsBack(t *testing.T) {
 			fr.Chord, fr.TwistDeg, fr.Mirrored, tr.Chord, tr.TwistDeg, tr.Mirrored)
 	}
 }
+
+// The kink gate: on the upper surface y = 0.05 (a flat stretch, nodes
+// every 0.005 of the chord) a spike 0.02 c high at x = 0.905, aft of where
+// the gate looked before (0.9) and ahead of a sharp edge's stretch, is a
+// fold (its sides turn 150° and more); the same spike one tenth of the
+// noise high is not one the points show; a spike at x = 0.99, within the
+// edge's stretch, is left to the edge; a blunt edge 0.03 c thick widens
+// the stretch to 0.12 of the chord. The fold's size is half the extra
+// length of the path over three panels either side (calculated by hand:
+// a spike of height h over a base of 2 × 0.005 adds 2(√(h² + 0.005²) −
+// 0.005)).
+func TestKink(t *testing.T) {
+	const step = 0.005
+	spiked := func(at, h float64) []geometry.Point {
+		var nodes []geometry.Point
+		for x := 1.0; x > 0.3; x -= step {
+			y := 0.05
+			if math.Abs(x-at) < step/2 {
+				y += h
+			}
+			nodes = append(nodes, geometry.Point{X: x, Y: y})
+		}
+		return nodes
+	}
+	for _, tc := range []struct {
+		name           string
+		at, h, te, sig float64
+		want           bool
+	}{
+		{"spike aft of 0.9", 0.905, 0.02, 0, 1e-4, true},
+		{"spike within the noise", 0.905, 0.02, 0, 0.2, false},
+		{"spike at the edge", 0.99, 0.02, 0, 1e-4, false},
+		{"spike within a blunt edge's stretch", 0.905, 0.02, 0.03, 1e-4, false},
+		{"spike mid-chord", 0.5, 0.02, 0, 1e-4, true},
+		{"no spike", 0.5, 0, 0, 1e-4, false},
+	} {
+		nodes := spiked(tc.at, tc.h)
+		k, turn, ok := kink(nodes, tc.te, tc.sig)
+		if ok != tc.want {
+			t.Errorf("%s: kink %v (node %d, %.0f°), want %v", tc.name, ok, k, turn, tc.want)
+		}
+		if ok && math.Abs(nodes[k].X-tc.at) > step {
+			t.Errorf("%s: kink at x = %.4f, want about %.4f", tc.name, nodes[k].X, tc.at)
+		}
+	}
+	nodes := spiked(0.5, 0.02)
+	for k := range nodes {
+		if math.Abs(nodes[k].X-0.5) < step/2 {
+			want := math.Sqrt(0.02*0.02+step*step) - step
+			if got := foldSize(nodes, k); math.Abs(got-want) > 1e-12 {
+				t.Errorf("fold size %g, want %g", got, want)
+			}
+		}
+	}
+}
