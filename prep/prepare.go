@@ -199,6 +199,13 @@ func Prepare(name string, files []File, s Settings) (*Preparation, error) {
 			return p, nil
 		}
 	}
+	if alt := cl.retaken(s); alt != nil {
+		tried = append(tried, "the points retaken along the fitted outline")
+		if p, err := finishChain(name, alt, s, true); err == nil {
+			p.Section.Warnings = append(p.Section.Warnings, fmt.Sprintf("the %s order of the points failed the check %q (%s); the points retaken in the order of the outline fitted to them, its folds cut out, passed", cl.Clean.Strategy, ge.Gate, ge.Seen))
+			return p, nil
+		}
+	}
 	ge.Tried = tried
 	return nil, fmt.Errorf("%s: %w", strings.Join(cl.Files, ", "), ge)
 }
@@ -283,6 +290,50 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 		}
 	}
 	return p, nil
+}
+
+// retaken returns a copy of cl whose contour holds the same points in
+// the order of their feet on the outline fitted to them, with every loop
+// of that outline cut out (reorder.go), nil when no outline could be
+// fitted and repanelled to order them by.
+func (cl *Cleaned) retaken(s Settings) *Cleaned {
+	if cl.Contour.Along == nil {
+		// Points taken one by one in the wrong order are no band whose
+		// positions along the loop were measured on a curve that folded:
+		// what makes their fit fold is more often points off the
+		// section, which a retaken order keeps as a bulge.
+		return nil
+	}
+	p := &Preparation{Clouds: cl.Clouds, Flatness: cl.Flatness, Clean: cl.Clean, Contour: cl.Contour}
+	if p.fit(cl, s, true) != nil {
+		return nil
+	}
+	eo, err := edgeOptions(s, cl.Units)
+	if err != nil {
+		return nil
+	}
+	if p.Shape, err = frame.Normalize(p.Curve, eo); err != nil {
+		return nil
+	}
+	nodes, _, _, err := p.repanel(panelOptions(s))
+	if err != nil {
+		return nil
+	}
+	fr := p.Shape.Frame
+	for i, q := range nodes {
+		nodes[i] = geometry.Point(fr.ToPart(q))
+	}
+	ring := untangled(nodes)
+	if ring == nil {
+		return nil
+	}
+	c := alongOutline(cl.Contour, ring, p.Curve.Start())
+	if c == nil {
+		return nil
+	}
+	alt := *cl
+	alt.Contour = c
+	return &alt
 }
 
 // fit fits the smoothing spline to the cleaned contour, with the noise and

@@ -1,0 +1,5 @@
+//go:build !race
+
+package prep
+
+const raceEnabled = false
