@@ -156,10 +156,12 @@ func (p *Preparation) checkGates(nodes []geometry.Point, le int) *GateError {
 	}
 	// No kink away from the trailing edge: a smooth curve repanelled turns
 	// little from panel to panel. A fold smaller than the points' noise
-	// is not one the points show (the scatter of two surfaces closer than
-	// it near a thin edge leaves such folds in the fit): the panels'
-	// quality warns of its turn.
-	noise := max(p.Clean.Sigma, p.Fit.NoiseEstimate) / fr.Chord
+	// (the fit's estimate, normal to the outline; not the cleaning's
+	// scale, which on a sparse exact polyline measures its shape) is not
+	// one the points show (the scatter of two surfaces closer than it
+	// near a thin edge leaves such folds in the fit): the panels' quality
+	// warns of its turn.
+	noise := p.Fit.NoiseEstimate / fr.Chord // 0 for points the fit interpolates
 	if k, turn, ok := kink(nodes, p.Shape.TE.Thickness, noise); ok {
 		return &GateError{Gate: GateKink, Seen: fmt.Sprintf("the outline turns %.0f° between neighbouring panels at x = %.3f", turn, nodes[k].X),
 			Where:  nearestOrigin(p.Contour, toPart(nodes[k])),
