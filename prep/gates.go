@@ -283,7 +283,7 @@ func endGate(p *Preparation) *GateError {
 		return g
 	}
 	up := 100 * min(max(sLE/L, 0), 1)
-	g.Seen = fmt.Sprintf("the outline found does not run from the trailing edge round the nose and back (its leading edge lies at %.3g %% of its length: the upper surface is %.3g %% of it, the lower %.3g %%, too short a surface to panel)", up, up, 100-up)
+	g.Seen = fmt.Sprintf("the outline found does not run from the trailing edge round the nose and back (its leading edge lies at or next to an end: the upper surface is %.3g %% of its length, the lower %.3g %%, too short a surface to panel)", up, 100-up)
 	end := path.At(0)
 	if up > 50 {
 		end = path.At(L)

@@ -66,7 +66,7 @@ func TestEndGate(t *testing.T) {
 	if g.Gate != GateSpan {
 		t.Errorf("gate %q, want %q", g.Gate, GateSpan)
 	}
-	if !strings.Contains(g.Seen, "the upper surface is 100 % of it, the lower 0 %") {
+	if !strings.Contains(g.Seen, "the upper surface is 100 % of its length, the lower 0 %") {
 		t.Errorf("seen %q: want the surfaces' shares", g.Seen)
 	}
 	// The short (lower) surface ends at the nose, the last point listed.
@@ -123,8 +123,8 @@ func TestPrepareEndGateFallsBack(t *testing.T) {
 // every 0.005 of the chord) a spike 0.02 c high at x = 0.905, aft of where
 // the gate looked before (0.9) and ahead of a sharp edge's stretch, is a
 // fold (its sides turn 150° and more); the same spike one tenth of the
-// noise high is not one the points show; a spike at x = 0.99, within the
-// edge's stretch, is left to the edge; a blunt edge 0.03 c thick widens
+// noise high is not one the points show, while one 0.004 c high is, among
+// exact points (noise 0); a spike at x = 0.99, within the edge's stretch, is left to the edge; a blunt edge 0.03 c thick widens
 // the stretch to 0.12 of the chord. The fold's size is half the extra
 // length of the path over three panels either side (calculated by hand:
 // a spike of height h over a base of 2 × 0.005 adds 2(√(h² + 0.005²) −
@@ -153,6 +153,7 @@ func TestKink(t *testing.T) {
 		{"spike within a blunt edge's stretch", 0.905, 0.02, 0.03, 1e-4, false},
 		{"spike mid-chord", 0.5, 0.02, 0, 1e-4, true},
 		{"no spike", 0.5, 0, 0, 1e-4, false},
+		{"a small spike, exact points", 0.5, 0.004, 0, 0, true},
 	} {
 		nodes := spiked(tc.at, tc.h)
 		k, turn, ok := kink(nodes, tc.te, tc.sig)
