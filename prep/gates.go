@@ -55,12 +55,6 @@ const (
 	gateKinkFrom  = 0.01
 	gateKinkTail  = 0.02
 	gateKinkEdges = 4
-	// A kink is a fold when it reaches out or back by more than
-	// gateKinkNoise times the noise of the points (foldSize; three
-	// standard deviations, our choice), over gateKinkReach panels either
-	// side of it.
-	gateKinkNoise = 3
-	gateKinkReach = 3
 )
 
 // GateError reports a section that failed a gate under every way of
@@ -155,14 +149,8 @@ func (p *Preparation) checkGates(nodes []geometry.Point, le int) *GateError {
 			Advice: "the trailing edge was probably found in the wrong place: set the leading edge with --le-at X,Y"}
 	}
 	// No kink away from the trailing edge: a smooth curve repanelled turns
-	// little from panel to panel. A fold smaller than the points' noise
-	// (the fit's estimate, normal to the outline; not the cleaning's
-	// scale, which on a sparse exact polyline measures its shape) is not
-	// one the points show (the scatter of two surfaces closer than it
-	// near a thin edge leaves such folds in the fit): the panels' quality
-	// warns of its turn.
-	noise := p.Fit.NoiseEstimate / fr.Chord // 0 for points the fit interpolates
-	if k, turn, ok := kink(nodes, p.Shape.TE.Thickness, noise); ok {
+	// little from panel to panel.
+	if k, turn, ok := kink(nodes, p.Shape.TE.Thickness); ok {
 		return &GateError{Gate: GateKink, Seen: fmt.Sprintf("the outline turns %.0f° between neighbouring panels at x = %.3f", turn, nodes[k].X),
 			Where:  nearestOrigin(p.Contour, toPart(nodes[k])),
 			Advice: "the outline folds there: the points may be out of order (surfaces close together at a thin edge, passes that overlap), or points of another part lie among them; look at them (points --plot)"}
@@ -183,12 +171,11 @@ func (p *Preparation) checkGates(nodes []geometry.Point, le int) *GateError {
 }
 
 // kink returns the first node k of the normalised section nodes where
-// the outline folds (see gateKinkDeg): it turns by more than gateKinkDeg
-// degrees between neighbouring panels (the turn is returned) and doubles
-// back there by more than gateKinkNoise times noise (chord units), aft of
-// gateKinkFrom and ahead of the trailing edge's stretch, which an edge
-// teThick thick (chord units) widens; ok is false when there is none.
-func kink(nodes []geometry.Point, teThick, noise float64) (k int, turn float64, ok bool) {
+// the outline turns by more than gateKinkDeg degrees between neighbouring
+// panels (the turn is returned), aft of gateKinkFrom and ahead of the
+// trailing edge's stretch, which an edge teThick thick (chord units)
+// widens; ok is false when there is none.
+func kink(nodes []geometry.Point, teThick float64) (k int, turn float64, ok bool) {
 	kinkTo := 1 - max(gateKinkTail, gateKinkEdges*teThick)
 	for k := 1; k+1 < len(nodes); k++ {
 		a, b, c := nodes[k-1], nodes[k], nodes[k+1]
@@ -197,25 +184,11 @@ func kink(nodes []geometry.Point, teThick, noise float64) (k int, turn float64, 
 		}
 		u, v := b.Sub(a), c.Sub(b)
 		turn := math.Abs(math.Atan2(u.X*v.Y-u.Y*v.X, u.X*v.X+u.Y*v.Y)) * 180 / math.Pi
-		if turn > gateKinkDeg && foldSize(nodes, k) > gateKinkNoise*noise {
+		if turn > gateKinkDeg {
 			return k, turn, true
 		}
 	}
 	return 0, 0, false
-}
-
-// foldSize returns how far the outline doubles back about node k: half
-// the amount by which the path over gateKinkReach panels either side of
-// k is longer than the straight line between its ends (a spike of height
-// h, or a fold running back by h, makes the path about 2h longer; a
-// smooth curve over a few panels, hardly longer at all).
-func foldSize(nodes []geometry.Point, k int) float64 {
-	i, j := max(k-gateKinkReach, 0), min(k+gateKinkReach, len(nodes)-1)
-	var path float64
-	for m := i; m < j; m++ {
-		path += nodes[m].Dist(nodes[m+1])
-	}
-	return (path - nodes[i].Dist(nodes[j])) / 2
 }
 
 // thicknessAt returns the distance across the section at chord station
