@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"math"
 	"strings"
+	"sync/atomic"
 
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/accuracy"
@@ -17,6 +18,7 @@ import (
 	"github.com/foilwright/foilwright/geometry/props"
 	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/internal/digest"
+	"github.com/foilwright/foilwright/internal/par"
 	"github.com/foilwright/foilwright/repanel"
 )
 
@@ -226,14 +228,33 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 	}
 	no := eo
 	no.Support = p.Fit.S // the mirror decision reads only the measured nose
+	no.Noise = p.Fit.NoiseEstimate
 	if p.Shape, err = frame.Normalize(p.Curve, no); err != nil {
 		if errors.Is(err, frame.ErrNoLeadingEdge) {
 			return nil, &GateError{Gate: GateEdges, Seen: strings.TrimPrefix(err.Error(), "geometry: ")}
 		}
 		return nil, fmt.Errorf("%s: %w", where, err)
 	}
+	// The section's uncertainty (its replicas refitted and normalised)
+	// needs only the curve, the fit and the shape: it is estimated on the
+	// second core while this one repanels and checks the gates, and not at
+	// all when the gates fail before it has begun.
 	rp := panelOptions(s)
-	nodes, le, dev, err := p.repanel(rp)
+	var nodes []geometry.Point
+	var le int
+	var dev float64
+	var failed atomic.Bool
+	par.For(2, 2, func(_, k int) {
+		if k == 1 {
+			if !failed.Load() {
+				p.Uncertainty = accuracy.Estimate(p.Curve, p.Fit, p.Shape, accuracy.Options{Edges: eo})
+			}
+			return
+		}
+		if nodes, le, dev, err = p.shaped(rp, s, where); err != nil {
+			failed.Store(true)
+		}
+	})
 	if err != nil {
 		if errors.Is(err, repanel.ErrPath) {
 			// A surface the repanelling cannot place its nodes on: the
@@ -243,26 +264,6 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 		}
 		return nil, err
 	}
-	// The noise of the points widens the arc of the leading-edge circle so
-	// that noise left in the curve does not upset the radius (0 for exact
-	// points, which are interpolated).
-	po := props.Options{Thickness: s.ThicknessMode, Camber: s.CamberMode, Noise: p.Fit.NoiseEstimate / p.Shape.Frame.Chord}
-	if _, err := section.CheckNodes(nodes); err == nil {
-		if p.Props, p.Camber, err = props.Compute(p.Shape.Path, p.Shape.SLE, po); err != nil {
-			if errors.Is(err, props.ErrNotNormalized) {
-				// The section found does not span the chord from its
-				// leading edge to both ends: a gate, so that the other
-				// ways are tried.
-				return nil, spanGate(p, err)
-			}
-			return nil, fmt.Errorf("%s: %w", where, err)
-		}
-	}
-	if g := p.checkGates(nodes, le); g != nil {
-		return nil, g
-	}
-	p.Quality = repanel.Measure(nodes)
-	p.Uncertainty = accuracy.Estimate(p.Curve, p.Fit, p.Shape, accuracy.Options{Edges: eo})
 	if useEdge {
 		widenForEdge(&p.Uncertainty, cl.Clean.Edge)
 	}
@@ -334,6 +335,37 @@ func (cl *Cleaned) retaken(s Settings) *Cleaned {
 	alt := *cl
 	alt.Contour = c
 	return &alt
+}
+
+// shaped repanels the normalised section, computes its properties and
+// checks the gates, and sets the repanelled nodes' quality: it returns
+// the nodes, the index of the leading-edge node and the panels' deviation
+// from the curve.
+func (p *Preparation) shaped(rp repanel.Options, s Settings, where string) ([]geometry.Point, int, float64, error) {
+	nodes, le, dev, err := p.repanel(rp)
+	if err != nil {
+		return nil, 0, 0, err
+	}
+	// The noise of the points widens the arc of the leading-edge circle so
+	// that noise left in the curve does not upset the radius (0 for exact
+	// points, which are interpolated).
+	po := props.Options{Thickness: s.ThicknessMode, Camber: s.CamberMode, Noise: p.Fit.NoiseEstimate / p.Shape.Frame.Chord}
+	if _, err := section.CheckNodes(nodes); err == nil {
+		if p.Props, p.Camber, err = props.Compute(p.Shape.Path, p.Shape.SLE, po); err != nil {
+			if errors.Is(err, props.ErrNotNormalized) {
+				// The section found does not span the chord from its
+				// leading edge to both ends: a gate, so that the other
+				// ways are tried.
+				return nil, 0, 0, spanGate(p, err)
+			}
+			return nil, 0, 0, fmt.Errorf("%s: %w", where, err)
+		}
+	}
+	if g := p.checkGates(nodes, le); g != nil {
+		return nil, 0, 0, g
+	}
+	p.Quality = repanel.Measure(nodes)
+	return nodes, le, dev, nil
 }
 
 // fit fits the smoothing spline to the cleaned contour, with the noise and
@@ -510,7 +542,7 @@ func (p *Preparation) document(name string, cl *Cleaned, nodes []geometry.Point,
 		Source: &section.SourceInfo{
 			Files: cl.Files, SHA256: cl.SHA256,
 			PointsRead: cl.Read, PointsUsed: cl.Contour.Len(),
-			Dropped: DroppedOf(cl.Clean, cl.Units),
+			Dropped: append(strayDropped(cl.Flatness, cl.Units), DroppedOf(cl.Clean, cl.Units)...),
 		},
 		Frame:        &fr,
 		Fit:          p.fitSummary(),
@@ -622,6 +654,20 @@ func contourDiagonal(c *geometry.Contour) float64 {
 		hi.X, hi.Y = math.Max(hi.X, p.X), math.Max(hi.Y, p.Y)
 	}
 	return hi.Dist(lo)
+}
+
+// strayDropped lists the points of a 3D file dropped as strays off its
+// plane (planar.Flatness.Strays); none for a 2D file.
+func strayDropped(f *planar.Flatness, units geometry.Unit) []section.Dropped {
+	if f == nil {
+		return nil
+	}
+	out := make([]section.Dropped, 0, len(f.Strays))
+	for _, st := range f.Strays {
+		out = append(out, section.Dropped{File: st.Origin.File, Line: st.Origin.Line, Entity: st.Origin.Entity,
+			Reason: fmt.Sprintf("off the plane: %s from it, alone (its neighbours lie within half the flatness tolerance)", LengthText(math.Abs(st.Distance), units))})
+	}
+	return out
 }
 
 // DroppedOf lists every input point that is not in the contour: merged

@@ -7,6 +7,7 @@ import (
 	"strings"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/internal/par"
 )
 
 // Ordering strategies, as Report.Strategy names them.
@@ -133,7 +134,23 @@ func (cl *cleaning) arrange(opts Options, sigma float64) (*attempt, error) {
 			return finish(a)
 		}
 	}
-	loops, rest := cl.linkLoops()
+	// Linking and the section order read the points and their neighbours
+	// only, and neither needs the other: they run at once on two cores,
+	// the section order's attempt kept for its turn below (unused when
+	// linking finds several walls and its loop passes).
+	var loops, rest [][]int32
+	var sect *attempt
+	if opts.Loop == 0 {
+		par.For(2, 2, func(_, k int) {
+			if k == 0 {
+				sect = cl.bySection(opts, sigma)
+			} else {
+				loops, rest = cl.linkLoops()
+			}
+		})
+	} else {
+		loops, rest = cl.linkLoops()
+	}
 	walls := substantial(cl.pts, loops, cl.diag)
 	if walls > 1 || opts.Loop > 0 {
 		a := cl.evaluate(OrderLinked, loops, rest, opts, sigma, localFits{}, true)
@@ -145,8 +162,8 @@ func (cl *cleaning) arrange(opts Options, sigma float64) (*attempt, error) {
 		}
 	}
 	if opts.Loop == 0 {
-		if a := cl.bySection(opts, sigma); pass(a) {
-			return finish(a)
+		if pass(sect) {
+			return finish(sect)
 		}
 		if walls == 1 {
 			if a := cl.evaluate(OrderLinked, loops, rest, opts, sigma, localFits{}, true); pass(a) {
