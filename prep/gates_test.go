@@ -120,12 +120,11 @@ func TestPrepareEndGateFallsBack(t *testing.T) {
 }
 
 // The kink gate: on the upper surface y = 0.05 (a flat stretch, nodes
-// every 0.005 of the chord) a spike 0.02 c high at x = 0.905, aft of where
-// the gate looked before (0.9) and ahead of a sharp edge's stretch, is a
-// fold (its sides turn 76°, its tip 152°); a spike at x = 0.99, within
-// the edge's stretch, is left to the edge; a blunt edge 0.03 c thick
-// widens the stretch to 0.12 of the chord; a bump whose panels turn by
-// less than 45° is no kink.
+// every 0.005 of the chord) a spike 0.02 c high (its sides turn 76°, its
+// tip 152°) is a kink between 1 % of the chord and the gate's reach, 0.9
+// of the chord, or the trailing edge's stretch for retaken points (1 −
+// 0.02, or 1 − 4 × 0.03 for a blunt edge 0.03 c thick); a bump whose
+// panels turn by less than 45° is none.
 func TestKink(t *testing.T) {
 	const step = 0.005
 	spiked := func(at, h float64) []geometry.Point {
@@ -140,19 +139,19 @@ func TestKink(t *testing.T) {
 		return nodes
 	}
 	for _, tc := range []struct {
-		name      string
-		at, h, te float64
-		want      bool
+		name        string
+		at, h, upTo float64
+		want        bool
 	}{
-		{"spike aft of 0.9", 0.905, 0.02, 0, true},
-		{"spike at the edge", 0.99, 0.02, 0, false},
-		{"spike within a blunt edge's stretch", 0.905, 0.02, 0.03, false},
-		{"spike mid-chord", 0.5, 0.02, 0, true},
-		{"a bump turning 44° at its top", 0.5, step * math.Tan(22*math.Pi/180), 0, false},
-		{"no spike", 0.5, 0, 0, false},
+		{"spike mid-chord", 0.5, 0.02, gateKinkTo, true},
+		{"spike aft of the gate's reach", 0.915, 0.02, gateKinkTo, false},
+		{"spike ahead of a sharp edge's stretch, retaken", 0.915, 0.02, 1 - gateKinkTail, true},
+		{"spike within a blunt edge's stretch, retaken", 0.915, 0.02, 1 - gateKinkEdges*0.03, false},
+		{"a bump turning 44° at its top", 0.5, step * math.Tan(22*math.Pi/180), gateKinkTo, false},
+		{"no spike", 0.5, 0, gateKinkTo, false},
 	} {
 		nodes := spiked(tc.at, tc.h)
-		k, turn, ok := kink(nodes, tc.te)
+		k, turn, ok := kink(nodes, tc.upTo)
 		if ok != tc.want {
 			t.Errorf("%s: kink %v (node %d, %.0f°), want %v", tc.name, ok, k, turn, tc.want)
 		}

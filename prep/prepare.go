@@ -52,6 +52,10 @@ type Preparation struct {
 	Quality  repanel.Quality
 	// Uncertainty is the section's statement of its own accuracy.
 	Uncertainty accuracy.Uncertainty
+	// retaken is set when the contour's points were retaken in the order
+	// of a fitted outline (Cleaned.retaken): its kink gate reaches up to
+	// the trailing edge's own stretch.
+	retaken bool
 }
 
 // Cleaned is what the first half of the geometry chain made of a
@@ -68,6 +72,7 @@ type Cleaned struct {
 	SHA256   []string        // hex digests of the files' bytes
 	Read     int             // points read from all files
 	cloud    *geometry.Cloud // the planar cloud cleaned
+	alongFit bool            // the contour was retaken in the order of a fitted outline
 }
 
 // ReadAndClean runs the first half of the geometry chain on the files of
@@ -203,7 +208,7 @@ func Prepare(name string, files []File, s Settings) (*Preparation, error) {
 	}
 	if alt := cl.retaken(s); alt != nil {
 		tried = append(tried, "the points retaken along the fitted outline")
-		if p, err := finishChain(name, alt, s, true); err == nil {
+		if p, err := finishChain(name, alt, s, true); err == nil && !beyondInRuns(p.Fit) {
 			p.Section.Warnings = append(p.Section.Warnings, fmt.Sprintf("the %s order of the points failed the check %q (%s); the points retaken in the order of the outline fitted to them, its folds cut out, passed", cl.Clean.Strategy, ge.Gate, ge.Seen))
 			return p, nil
 		}
@@ -217,7 +222,7 @@ func Prepare(name string, files []File, s Settings) (*Preparation, error) {
 // the gates, the properties and the document. A failure to locate the
 // edges or to pass a gate is a *GateError.
 func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparation, error) {
-	p := &Preparation{Clouds: cl.Clouds, Flatness: cl.Flatness, Clean: cl.Clean, Contour: cl.Contour}
+	p := &Preparation{Clouds: cl.Clouds, Flatness: cl.Flatness, Clean: cl.Clean, Contour: cl.Contour, retaken: cl.alongFit}
 	where := strings.Join(cl.Files, ", ")
 	if err := p.fit(cl, s, useEdge); err != nil {
 		return nil, err
@@ -333,7 +338,7 @@ func (cl *Cleaned) retaken(s Settings) *Cleaned {
 		return nil
 	}
 	alt := *cl
-	alt.Contour = c
+	alt.Contour, alt.alongFit = c, true
 	return &alt
 }
 
@@ -366,6 +371,29 @@ func (p *Preparation) shaped(rp repanel.Options, s Settings, where string) ([]ge
 	}
 	p.Quality = repanel.Measure(nodes)
 	return nodes, le, dev, nil
+}
+
+// beyondInRuns reports whether two or more neighbouring points (in
+// contour order) lie farther from the fitted curve than its tolerance: a
+// cluster the curve neither follows nor leaves out, as a spike of points
+// off the section is after a retaken order made the fit bulge towards it
+// (campaign seed 60175: 0.034 c at mid-chord) instead of looping round
+// it. Lone points beyond the tolerance are outliers the fit lists.
+func beyondInRuns(rep *curve.FitReport) bool {
+	if rep == nil || !(rep.Tolerance > 0) {
+		return false
+	}
+	run := 0
+	for _, r := range rep.Residual {
+		if math.Abs(r) > rep.Tolerance {
+			if run++; run >= 2 {
+				return true
+			}
+		} else {
+			run = 0
+		}
+	}
+	return false
 }
 
 // fit fits the smoothing spline to the cleaned contour, with the noise and
