@@ -45,10 +45,20 @@ const (
 	// neighbouring panels of the repanelled section turn by a few degrees
 	// at most; a turn beyond gateKinkDeg between gateKinkFrom and
 	// gateKinkTo of the chord is a fold of points taken in the wrong
-	// order (our choice of limits: the trailing edge may hold a corner).
-	gateKinkDeg  = 45
-	gateKinkFrom = 0.01
-	gateKinkTo   = 0.9
+	// order (our choice of limits: the trailing edge may hold a corner,
+	// and a sparse rounded end turns by some 50° between panels at 95 %
+	// of the chord: campaign seed 60199). Points retaken in the order of
+	// a fitted outline (Cleaned.retaken) may keep a spike of points off
+	// the section that the first fit looped round and the retaken one
+	// follows (seed 2469: 0.045 c high at x = 0.906): their gate reaches
+	// up to the trailing edge's own stretch, the last gateKinkTail of the
+	// chord or gateKinkEdges times the edge's thickness (a rounded end's
+	// diameter, a base's height) when that is longer.
+	gateKinkDeg   = 45
+	gateKinkFrom  = 0.01
+	gateKinkTo    = 0.9
+	gateKinkTail  = 0.02
+	gateKinkEdges = 4
 )
 
 // GateError reports a section that failed a gate under every way of
@@ -144,18 +154,14 @@ func (p *Preparation) checkGates(nodes []geometry.Point, le int) *GateError {
 	}
 	// No kink away from the trailing edge: a smooth curve repanelled turns
 	// little from panel to panel.
-	for k := 1; k+1 < len(nodes); k++ {
-		a, b, c := nodes[k-1], nodes[k], nodes[k+1]
-		if b.X <= gateKinkFrom || b.X >= gateKinkTo {
-			continue
-		}
-		u, v := b.Sub(a), c.Sub(b)
-		turn := math.Abs(math.Atan2(u.X*v.Y-u.Y*v.X, u.X*v.X+u.Y*v.Y)) * 180 / math.Pi
-		if turn > gateKinkDeg {
-			return &GateError{Gate: GateKink, Seen: fmt.Sprintf("the outline turns %.0f° between neighbouring panels at x = %.3f", turn, b.X),
-				Where:  nearestOrigin(p.Contour, toPart(b)),
-				Advice: "the outline folds there: the points may be out of order (surfaces close together at a thin edge, passes that overlap), or points of another part lie among them; look at them (points --plot)"}
-		}
+	kinkTo := gateKinkTo
+	if p.retaken {
+		kinkTo = 1 - max(gateKinkTail, gateKinkEdges*p.Shape.TE.Thickness)
+	}
+	if k, turn, ok := kink(nodes, kinkTo); ok {
+		return &GateError{Gate: GateKink, Seen: fmt.Sprintf("the outline turns %.0f° between neighbouring panels at x = %.3f", turn, nodes[k].X),
+			Where:  nearestOrigin(p.Contour, toPart(nodes[k])),
+			Advice: "the outline folds there: the points may be out of order (surfaces close together at a thin edge, passes that overlap), or points of another part lie among them; look at them (points --plot)"}
 	}
 	// The thin end is aft: a section whose leading and trailing edges were
 	// swapped (a sharp corner taken for the nose) is thicker aft.
@@ -170,6 +176,25 @@ func (p *Preparation) checkGates(nodes []geometry.Point, le int) *GateError {
 			Advice: "the points may not lie on one smooth outline in the order found: look at them (points --plot)"}
 	}
 	return nil
+}
+
+// kink returns the first node k of the normalised section nodes where
+// the outline turns by more than gateKinkDeg degrees between neighbouring
+// panels (the turn is returned), between gateKinkFrom and kinkTo of the
+// chord; ok is false when there is none.
+func kink(nodes []geometry.Point, kinkTo float64) (k int, turn float64, ok bool) {
+	for k := 1; k+1 < len(nodes); k++ {
+		a, b, c := nodes[k-1], nodes[k], nodes[k+1]
+		if b.X <= gateKinkFrom || b.X >= kinkTo {
+			continue
+		}
+		u, v := b.Sub(a), c.Sub(b)
+		turn := math.Abs(math.Atan2(u.X*v.Y-u.Y*v.X, u.X*v.X+u.Y*v.Y)) * 180 / math.Pi
+		if turn > gateKinkDeg {
+			return k, turn, true
+		}
+	}
+	return 0, 0, false
 }
 
 // thicknessAt returns the distance across the section at chord station
@@ -203,7 +228,7 @@ func thicknessAt(nodes []geometry.Point, le int, x float64) float64 {
 // It names the point nearest to the end that falls short.
 func spanGate(p *Preparation, err error) *GateError {
 	g := &GateError{Gate: GateSpan, Seen: "the outline found does not run from the trailing edge round the nose and back (" + strings.TrimPrefix(err.Error(), "geometry: ") + ")",
-		Advice: "the loop was cut open in the wrong place, often where one surface is sampled far more densely than the other or two passes meet: set the leading edge with --le-at X,Y, or look at the points (points --plot)"}
+		Advice: spanAdvice}
 	if path := p.Shape.Path; path != nil && path.Length() > 0 {
 		fr := p.Shape.Frame
 		a, b := path.At(0), path.At(path.Length())
@@ -213,6 +238,36 @@ func spanGate(p *Preparation, err error) *GateError {
 		}
 		g.Where = nearestOrigin(p.Contour, geometry.Point(fr.ToPart(end)))
 	}
+	return g
+}
+
+// spanAdvice is what the user can do about a section that fails the gate
+// "surfaces span the chord".
+const spanAdvice = "the loop was cut open in the wrong place, often where one surface is sampled far more densely than the other or two passes meet: set the leading edge with --le-at X,Y, or look at the points (points --plot)"
+
+// endGate is the failure of a section whose leading edge, as found, lies
+// at or next to an end of the outline, so that one surface is missing or
+// too short to hold its panels (the repanelling's repanel.ErrPath): the
+// loop was cut open in the wrong place, and what is left is no section.
+// It is the gate "surfaces span the chord", saying how long each surface
+// is and naming the point nearest to the short surface's end, so that the
+// other ways of making the section are tried and, when all fail, the user
+// reads what was seen rather than the repanelling's arc lengths.
+func endGate(p *Preparation) *GateError {
+	g := &GateError{Gate: GateSpan, Advice: spanAdvice}
+	path := p.Shape.Path
+	L, sLE := path.Length(), p.Shape.SLE
+	if !(L > 0) || math.IsInf(L, 0) {
+		g.Seen = "the outline found has no length to panel"
+		return g
+	}
+	up := 100 * min(max(sLE/L, 0), 1)
+	g.Seen = fmt.Sprintf("the outline found does not run from the trailing edge round the nose and back (its leading edge lies at or next to an end: the upper surface is %.3g %% of its length, the lower %.3g %%, too short a surface to panel)", up, 100-up)
+	end := path.At(0)
+	if up > 50 {
+		end = path.At(L)
+	}
+	g.Where = nearestOrigin(p.Contour, geometry.Point(p.Shape.Frame.ToPart(end)))
 	return g
 }
 

@@ -52,6 +52,10 @@ type Preparation struct {
 	Quality  repanel.Quality
 	// Uncertainty is the section's statement of its own accuracy.
 	Uncertainty accuracy.Uncertainty
+	// retaken is set when the contour's points were retaken in the order
+	// of a fitted outline (Cleaned.retaken): its kink gate reaches up to
+	// the trailing edge's own stretch.
+	retaken bool
 }
 
 // Cleaned is what the first half of the geometry chain made of a
@@ -68,6 +72,7 @@ type Cleaned struct {
 	SHA256   []string        // hex digests of the files' bytes
 	Read     int             // points read from all files
 	cloud    *geometry.Cloud // the planar cloud cleaned
+	alongFit bool            // the contour was retaken in the order of a fitted outline
 }
 
 // ReadAndClean runs the first half of the geometry chain on the files of
@@ -201,6 +206,13 @@ func Prepare(name string, files []File, s Settings) (*Preparation, error) {
 			return p, nil
 		}
 	}
+	if alt := cl.retaken(s); alt != nil {
+		tried = append(tried, "the points retaken along the fitted outline")
+		if p, err := finishChain(name, alt, s, true); err == nil && !beyondInRuns(p.Fit) {
+			p.Section.Warnings = append(p.Section.Warnings, fmt.Sprintf("the %s order of the points failed the check %q (%s); the points retaken in the order of the outline fitted to them, its folds cut out, passed", cl.Clean.Strategy, ge.Gate, ge.Seen))
+			return p, nil
+		}
+	}
 	ge.Tried = tried
 	return nil, fmt.Errorf("%s: %w", strings.Join(cl.Files, ", "), ge)
 }
@@ -210,7 +222,7 @@ func Prepare(name string, files []File, s Settings) (*Preparation, error) {
 // the gates, the properties and the document. A failure to locate the
 // edges or to pass a gate is a *GateError.
 func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparation, error) {
-	p := &Preparation{Clouds: cl.Clouds, Flatness: cl.Flatness, Clean: cl.Clean, Contour: cl.Contour}
+	p := &Preparation{Clouds: cl.Clouds, Flatness: cl.Flatness, Clean: cl.Clean, Contour: cl.Contour, retaken: cl.alongFit}
 	where := strings.Join(cl.Files, ", ")
 	if err := p.fit(cl, s, useEdge); err != nil {
 		return nil, err
@@ -249,6 +261,12 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 		}
 	})
 	if err != nil {
+		if errors.Is(err, repanel.ErrPath) {
+			// A surface the repanelling cannot place its nodes on: the
+			// loop was cut open in the wrong place. A gate, so that the
+			// other ways are tried.
+			return nil, endGate(p)
+		}
 		return nil, err
 	}
 	if useEdge {
@@ -284,6 +302,50 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 	return p, nil
 }
 
+// retaken returns a copy of cl whose contour holds the same points in
+// the order of their feet on the outline fitted to them, with every loop
+// of that outline cut out (reorder.go), nil when no outline could be
+// fitted and repanelled to order them by.
+func (cl *Cleaned) retaken(s Settings) *Cleaned {
+	if cl.Contour.Along == nil {
+		// Points taken one by one in the wrong order are no band whose
+		// positions along the loop were measured on a curve that folded:
+		// what makes their fit fold is more often points off the
+		// section, which a retaken order keeps as a bulge.
+		return nil
+	}
+	p := &Preparation{Clouds: cl.Clouds, Flatness: cl.Flatness, Clean: cl.Clean, Contour: cl.Contour}
+	if p.fit(cl, s, true) != nil {
+		return nil
+	}
+	eo, err := edgeOptions(s, cl.Units)
+	if err != nil {
+		return nil
+	}
+	if p.Shape, err = frame.Normalize(p.Curve, eo); err != nil {
+		return nil
+	}
+	nodes, _, _, err := p.repanel(panelOptions(s))
+	if err != nil {
+		return nil
+	}
+	fr := p.Shape.Frame
+	for i, q := range nodes {
+		nodes[i] = geometry.Point(fr.ToPart(q))
+	}
+	ring := untangled(nodes)
+	if ring == nil {
+		return nil
+	}
+	c := alongOutline(cl.Contour, ring, p.Curve.Start())
+	if c == nil {
+		return nil
+	}
+	alt := *cl
+	alt.Contour, alt.alongFit = c, true
+	return &alt
+}
+
 // shaped repanels the normalised section, computes its properties and
 // checks the gates, and sets the repanelled nodes' quality: it returns
 // the nodes, the index of the leading-edge node and the panels' deviation
@@ -313,6 +375,29 @@ func (p *Preparation) shaped(rp repanel.Options, s Settings, where string) ([]ge
 	}
 	p.Quality = repanel.Measure(nodes)
 	return nodes, le, dev, nil
+}
+
+// beyondInRuns reports whether two or more neighbouring points (in
+// contour order) lie farther from the fitted curve than its tolerance: a
+// cluster the curve neither follows nor leaves out, as a spike of points
+// off the section is after a retaken order made the fit bulge towards it
+// (campaign seed 60175: 0.034 c at mid-chord) instead of looping round
+// it. Lone points beyond the tolerance are outliers the fit lists.
+func beyondInRuns(rep *curve.FitReport) bool {
+	if rep == nil || !(rep.Tolerance > 0) {
+		return false
+	}
+	run := 0
+	for _, r := range rep.Residual {
+		if math.Abs(r) > rep.Tolerance {
+			if run++; run >= 2 {
+				return true
+			}
+		} else {
+			run = 0
+		}
+	}
+	return false
 }
 
 // fit fits the smoothing spline to the cleaned contour, with the noise and

@@ -461,7 +461,15 @@ func dense(pts []geometry.Point, nb *nbrs) []int32 {
 	for i, v := range d {
 		far[i] = !(v <= lim)
 	}
-	keep := sparseRuns(pts, nb, far, sparseReach*med)
+	// Probe files (a CMM program's passes) hold at most a few thousand
+	// points; in a scan's cloud of tens of thousands, far points that
+	// follow one another are a streak of stray returns, not a surface.
+	var keep []bool
+	if len(pts) < sparseRunsMax {
+		keep = sparseRuns(pts, nb, far, sparseReach*med)
+	} else {
+		keep = make([]bool, len(pts))
+	}
 	var sel []int32
 	for i, v := range d {
 		if v <= lim || keep[i] {
@@ -519,6 +527,10 @@ func spacingWeights(pts []geometry.Point, nb *nbrs) []float64 {
 // than four is no longer far-spaced: its own points are its neighbours),
 // a coarsely probed surface spans a good part of the chord.
 const sparseReach = 8
+
+// sparseRunsMax is the most points a cloud may hold for its far-spaced
+// runs to be kept as a coarsely probed surface (see dense).
+const sparseRunsMax = 10000
 
 // sparseRuns marks the points of far (by point index) that belong to a
 // run of far points linked through their four nearest neighbours whose

@@ -1,0 +1,162 @@
+package prep
+
+import (
+	"errors"
+	"math"
+	"strings"
+	"testing"
+
+	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/frame"
+	"github.com/foilwright/foilwright/internal/scangen"
+	"github.com/foilwright/foilwright/repanel"
+)
+
+// halfOutline is the upper surface of a section alone, from the trailing
+// edge (1, 0) to the nose (0, 0) over the arc y = 0.1 sin(π x): an outline
+// cut open at its nose, whose leading edge, the point farthest from the
+// trailing edge, is its own end.
+type halfOutline struct{ n int }
+
+func (h halfOutline) point(k int) geometry.Point {
+	x := 1 - float64(k)/float64(h.n)
+	return geometry.Point{X: x, Y: 0.1 * math.Sin(math.Pi*x)}
+}
+
+func (h halfOutline) Length() float64 {
+	var l float64
+	for k := 1; k <= h.n; k++ {
+		l += h.point(k).Dist(h.point(k - 1))
+	}
+	return l
+}
+
+func (h halfOutline) At(s float64) geometry.Point {
+	for k := 1; k <= h.n; k++ {
+		a, b := h.point(k-1), h.point(k)
+		if d := a.Dist(b); s <= d || k == h.n {
+			t := min(max(s/d, 0), 1)
+			return a.Add(b.Sub(a).Scale(t))
+		}
+		s -= a.Dist(b)
+	}
+	return h.point(h.n)
+}
+
+func (halfOutline) Curvature(float64) float64 { return 0 }
+
+// A section whose leading edge lies at an end of its outline leaves the
+// repanelling no lower surface (repanel.ErrPath, "leading edge at arc
+// length 1.02, want strictly inside (0, 1.02)", which the user could not
+// act on): it fails the gate "surfaces span the chord", which names how
+// long each surface is and the point at the short one's end, so that
+// Prepare tries the other ways first.
+func TestEndGate(t *testing.T) {
+	h := halfOutline{n: 200}
+	c := &geometry.Contour{}
+	for k := 0; k <= h.n; k += 10 {
+		c.Points = append(c.Points, h.point(k))
+		c.Origins = append(c.Origins, geometry.Origin{File: "half.csv", Line: 2 + k/10})
+	}
+	p := &Preparation{Contour: c, Shape: &frame.Normalized{Path: h, SLE: h.Length(), Frame: frame.Frame{Chord: 1}}}
+	if _, _, _, err := p.repanel(repanel.Options{}); !errors.Is(err, repanel.ErrPath) {
+		t.Fatalf("repanel: %v, want repanel.ErrPath", err)
+	}
+	g := endGate(p)
+	if g.Gate != GateSpan {
+		t.Errorf("gate %q, want %q", g.Gate, GateSpan)
+	}
+	if !strings.Contains(g.Seen, "the upper surface is 100 % of its length, the lower 0 %") {
+		t.Errorf("seen %q: want the surfaces' shares", g.Seen)
+	}
+	// The short (lower) surface ends at the nose, the last point listed.
+	if want := (geometry.Origin{File: "half.csv", Line: 22}); g.Where != want {
+		t.Errorf("where %v, want %v", g.Where, want)
+	}
+	if strings.Contains(g.Error(), "arc length") {
+		t.Errorf("message %q speaks of the repanelling's arc lengths", g.Error())
+	}
+}
+
+// An invented two-pass probe file (internal/scangen case 212 of the
+// robustness campaign: NACA 2618 by Report 824's equations, 34 mm chord,
+// 230 points, the lower surface probed 14 times more densely than the
+// upper, outlier clusters) whose section order of the points was cut open
+// at the wrong place: its leading edge lay at the end of the outline and
+// prep stopped with the repanelling's "unusable path". The failure is now
+// a gate, the band order is tried, and it passes with the true frame.
+func TestPrepareEndGateFallsBack(t *testing.T) {
+	const seed = 212
+	scan, err := scangen.Generate(specOf(t, `{"category":"passes","shape":{"family":"naca4","naca":{"camber":0.02,"camber_pos":0.6,"thickness":0.18,"closed_te":true}},"sampling":{"points":230,"sigma":0.12483049393425413,"wave":0.443635457893269,"zone":"sparse","zone_factor":0.275645068255407,"surface":"lower","surface_factor":13.851875564317485},"noise":{"mm":0.009394414998959674,"offset_mm":0.02515958398930476},"defects":{"outliers":0.04102262219069913,"bursts":true,"burst_max":8},"order":{"mode":"loop","reverse":true},"placement":{"chord_mm":34.269444282506,"twist_deg":8.372136002246506,"orientation":"standard","le_mm":[503.97289077954315,171.79754377980794]},"file":{"format":"csv","units":"mm","header":"names","decimals":4}}`), seed)
+	if err != nil {
+		t.Fatal(err)
+	}
+	files := []File{NewFile(scan.Name, scan.Data)}
+	cl, err := ReadAndClean(files, Settings{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Whichever way the cleaning orders the points first, a failure of
+	// the rest of the chain on it is a gate's.
+	if _, err := finishChain("212", cl, Settings{}, true); err != nil {
+		var ge *GateError
+		if !errors.As(err, &ge) {
+			t.Errorf("the %s order: %v, want a *GateError", cl.Clean.Strategy, err)
+		}
+	}
+	p, err := Prepare("212", files, Settings{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	fr, tr := p.Shape.Frame, scan.Truth
+	// Bounds: the chord to 1.5 % and the twist to 0.5°, as the chord and
+	// twist of this coarse, noisy file (0.009 mm noise and a 0.025 mm
+	// probe-radius error on a 34 mm chord) come out, well inside what a
+	// wrong cut of the loop gives (a chord half or twice as long).
+	if math.Abs(fr.Chord-tr.Chord) > 0.015*tr.Chord || math.Abs(fr.TwistDeg-tr.TwistDeg) > 0.5 || fr.Mirrored != tr.Mirrored {
+		t.Errorf("frame: chord %.4g twist %.3f° mirrored %v; truth chord %.4g twist %.3f° mirrored %v",
+			fr.Chord, fr.TwistDeg, fr.Mirrored, tr.Chord, tr.TwistDeg, tr.Mirrored)
+	}
+}
+
+// The kink gate: on the upper surface y = 0.05 (a flat stretch, nodes
+// every 0.005 of the chord) a spike 0.02 c high (its sides turn 76°, its
+// tip 152°) is a kink between 1 % of the chord and the gate's reach, 0.9
+// of the chord, or the trailing edge's stretch for retaken points (1 −
+// 0.02, or 1 − 4 × 0.03 for a blunt edge 0.03 c thick); a bump whose
+// panels turn by less than 45° is none.
+func TestKink(t *testing.T) {
+	const step = 0.005
+	spiked := func(at, h float64) []geometry.Point {
+		var nodes []geometry.Point
+		for x := 1.0; x > 0.3; x -= step {
+			y := 0.05
+			if math.Abs(x-at) < step/2 {
+				y += h
+			}
+			nodes = append(nodes, geometry.Point{X: x, Y: y})
+		}
+		return nodes
+	}
+	for _, tc := range []struct {
+		name        string
+		at, h, upTo float64
+		want        bool
+	}{
+		{"spike mid-chord", 0.5, 0.02, gateKinkTo, true},
+		{"spike aft of the gate's reach", 0.915, 0.02, gateKinkTo, false},
+		{"spike ahead of a sharp edge's stretch, retaken", 0.915, 0.02, 1 - gateKinkTail, true},
+		{"spike within a blunt edge's stretch, retaken", 0.915, 0.02, 1 - gateKinkEdges*0.03, false},
+		{"a bump turning 44° at its top", 0.5, step * math.Tan(22*math.Pi/180), gateKinkTo, false},
+		{"no spike", 0.5, 0, gateKinkTo, false},
+	} {
+		nodes := spiked(tc.at, tc.h)
+		k, turn, ok := kink(nodes, tc.upTo)
+		if ok != tc.want {
+			t.Errorf("%s: kink %v (node %d, %.0f°), want %v", tc.name, ok, k, turn, tc.want)
+		}
+		if ok && math.Abs(nodes[k].X-tc.at) > step*1.01 {
+			t.Errorf("%s: kink at x = %.4f, want about %.4f", tc.name, nodes[k].X, tc.at)
+		}
+	}
+}
