@@ -481,6 +481,10 @@ func dropOutliersFrom(pts []geometry.Point, seq []int32, sigma float64, keep boo
 		}
 		lf.residualsAt(pts, work, at, r)
 	}
+	// Runs of points off the surface together, which the residuals
+	// above cannot see (each point's fit follows its companions).
+	work, more := clusterOutliers(pts, work, sigma, scale, keep, exempt)
+	hits = append(hits, more...)
 	if keep {
 		return seq, scale, raw, hits
 	}
