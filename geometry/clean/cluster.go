@@ -12,32 +12,41 @@ import (
 // scanner's cut, a reflection streak) defeats the point-by-point test of
 // residuals: each point's local fit takes in its companions and follows
 // them. The cluster test judges a point by a fit that leaves out a whole
-// window of positions about it (the point and up to w neighbours on each
-// side) and is made on the points beyond the window on either side, the
+// window of positions about it (the point and w neighbours on each side)
+// and is made on the points beyond the window on either side, the
 // supports. When the window covers a run, the supports lie on the surface
-// on both sides of it and the fit through them says where the surface
-// runs under the run.
+// on both sides of it, and the parabola through them says where the
+// surface runs under the run. Nothing in it counts the run's points: the
+// windows grow until the supports are clean, however long the run.
 //
-// A verdict needs supports that themselves lie on one smooth curve: every
-// support point within the outlier threshold of the fit through them. A
-// window next to a run has run points in a support and gives no verdict,
-// so a good point beside a run is never judged by a fit the run pulled; a
-// window whose supports span more of the outline than one parabola follows
-// (round a nose far smaller than the window, across a corner) gives none
-// either, so the nose and the corners stay the generic test's. The windows
-// grow from one neighbour a side in steps of about a half, their supports
-// as long as the window; they stop at clusterSpan of the loop's length:
-// a departure wider than that is a stretch of the outline, not a cluster.
-// A point is a cluster point when some window with clean supports
-// predicts it farther off than the outlier threshold and than
-// clusterMargin times the supports' largest residual (what the fit itself
-// may be off by between its supports). Rounds peel a run from its middle
-// outwards: the middle points are judged first (their window covers the
-// run soonest), and once they are out the rest is a shorter run.
+// The windows grow from one neighbour a side in steps of about a half,
+// each support as long as the window's half, until one has clean
+// supports: every support point within the outlier threshold (sigma
+// robust scales of the loop's noise) of the fit. That smallest clean
+// window judges the point, and no wider one: away from any run it is the
+// narrowest (a point's own neighbours), beside a run it is the one that
+// just spans the run. A support point beyond clusterGross thresholds marks
+// a run reaching into the support, and the next window is tried; a support
+// whose points all lie near the fit but some beyond the threshold shows an
+// outline one parabola does not follow there (sparse points, curvature
+// that changes fast), and the test gives no verdict. So does a window
+// whose fit turns by more than clusterTurn (the nose, a trailing edge, a
+// corner: those stay the generic test's and the edge models'), or that
+// wraps round a thin edge, or that spans more than clusterSpan of the
+// loop: a departure that wide is a stretch of the outline, not a cluster.
+//
+// The point is a cluster point when it lies off the fit by more than the
+// threshold and than sigma times the supports' own scatter, both widened
+// by the fit's uncertainty where the point projects (its leverage), and by
+// more than the curve could bulge between the supports (a sagitta, as for
+// the point-by-point test); and when it does not lie on the outline
+// elsewhere (a point of the other surface that the ordering put among the
+// wrong neighbours near a thin trailing edge). Rounds peel a run: once
+// some of its points are out, the rest is a shorter run, judged again.
 
 // clusterSpan is the largest share of the loop's length a window of the
 // cluster test (the left-out positions and their supports) may span.
-const clusterSpan = 0.05
+const clusterSpan = 0.2
 
 // clusterTurn is the largest turn, in radians, of the curve fitted through
 // a window's supports between their centroids (30°): over that a parabola
@@ -46,8 +55,18 @@ const clusterSpan = 0.05
 // growing beyond).
 const clusterTurn = math.Pi / 6
 
+// clusterGross is how many outlier thresholds a support point must lie
+// off the fit through the supports for the window to count as holding
+// points off the surface, so that a wider one is tried; a support whose
+// points all lie within that, some beyond the threshold, shows an outline
+// the parabola does not follow, and the test gives no verdict there.
+const clusterGross = 2
+
 // minSupport is the fewest points a support of the cluster test holds.
 const minSupport = 4
+
+// supportPoints is the most points of a support the fit takes in.
+const supportPoints = 8
 
 // clusterRounds bounds the rounds of clusterOutliers.
 const clusterRounds = 12
@@ -67,8 +86,9 @@ func clusterWindows(max int) []int {
 // file's comment), round by round until none is left, and returns the
 // loop without them and their hits (kept, as reported, if keep; they are
 // out of the returned loop either way). sigma is the outlier threshold in
-// robust scales and sc(i) the scale at point i (input units); points marked in exempt (by point index; nil for
-// none) are never cluster points, though they may support a fit.
+// robust scales and scale the loop's robust scale (input units); points
+// marked in exempt (by point index; nil for none) are never cluster
+// points, though they may support a fit.
 func clusterOutliers(pts []geometry.Point, seq []int32, sigma, scale float64, keep bool, exempt []bool) ([]int32, []hit) {
 	var hits []hit
 	work := seq
@@ -91,7 +111,8 @@ func clusterOutliers(pts []geometry.Point, seq []int32, sigma, scale float64, ke
 				if exempt != nil && exempt[p] {
 					continue
 				}
-				if d, ok := clusterResidual(pts, work, i, maxW, clusterSpan*length, sigma, scale); ok {
+				d, reach, ok := clusterResidual(pts, work, i, maxW, clusterSpan*length, sigma, scale)
+				if ok && !nearOutline(pts, work, i, reach, sigma*scale) {
 					out[i], dist[i] = true, d
 				}
 			}
@@ -109,9 +130,6 @@ func clusterOutliers(pts []geometry.Point, seq []int32, sigma, scale float64, ke
 				sg = dist[i] / scale
 			}
 			hits = append(hits, hit{idx: p, reason: "outlier", dist: dist[i], sigmas: sg, kept: keep})
-			if edgeTrace != nil {
-				edgeTrace("CLUSTER pos %d/%d pt %v d %.4g thr %.4g", i, n, pts[p], dist[i], sigma*scale)
-			}
 		}
 		if !found || len(next) < minPoints {
 			break
@@ -122,13 +140,13 @@ func clusterOutliers(pts []geometry.Point, seq []int32, sigma, scale float64, ke
 }
 
 // clusterResidual tries the left-out windows about position i of seq,
-// half-widths up to maxW, spanning at most span of arc length with their
-// supports, and returns the distance of the point from the first fit with
-// clean supports (every support point within thr of it) that predicts it
-// off by more than sigma times the larger of the local scale sc and the
-// supports' own scatter, both widened by the fit's uncertainty where the
-// point is (its leverage); ok is false when none does.
-func clusterResidual(pts []geometry.Point, seq []int32, i, maxW int, span, sigma, sc float64) (float64, bool) {
+// half-widths up to maxW, spanning at most span (input units, straight
+// across) with their supports, and returns the distance of the point from
+// the fit of the smallest window with clean supports (see the file's
+// comment; sc is the loop's robust scale), how many positions each way
+// that window and its supports took in, and whether that fit makes the
+// point a cluster point.
+func clusterResidual(pts []geometry.Point, seq []int32, i, maxW int, span, sigma, sc float64) (d float64, reach int, ok bool) {
 	n := len(seq)
 	at := func(j int) geometry.Point { return pts[seq[((i+j)%n+n)%n]] }
 	p0 := at(0)
@@ -146,25 +164,37 @@ func clusterResidual(pts []geometry.Point, seq []int32, i, maxW int, span, sigma
 		if fastDist(at(-w-k), at(w+k)) > span {
 			break
 		}
+		// Up to supportPoints of each support, evenly spread over it from
+		// its nearest point to its farthest: a fit costs the same however
+		// wide the window.
+		m := min(k, supportPoints)
 		sup = sup[:0]
-		for j := w + k; j > w; j-- {
-			sup = append(sup, at(-j))
+		for j := m - 1; j >= 0; j-- {
+			sup = append(sup, at(-w-1-j*(k-1)/(m-1)))
 		}
-		for j := w + 1; j <= w+k; j++ {
-			sup = append(sup, at(j))
+		for j := range m {
+			sup = append(sup, at(w+1+j*(k-1)/(m-1)))
 		}
-		g, ok := gapFit(sup, k, p0)
-		if edgeTrace != nil && ProbeR > 0 && p0.Dist(Probe) < ProbeR {
-			edgeTrace("CLUSTER probe pos %d p %v w %d k %d ok %v worst %.3g thr %.3g d %.3g lev %.3g scat %.3g", i, p0, w, k, ok, g.worst, thr, g.d, g.leverage, g.scatter)
+		g, ok := gapFit(sup, m, p0)
+		if !ok {
+			continue
 		}
-		if !ok || g.worst > thr {
-			continue // the supports do not lie on one smooth curve
+		if g.worst > clusterGross*thr {
+			continue // points off the surface among the supports
 		}
-		if wide := math.Sqrt(1 + g.leverage); g.d > thr*wide && g.d > sigma*g.scatter*wide {
-			return g.d, true
+		if g.worst > thr {
+			// Every support point near the fit, some beyond the
+			// threshold: the outline is not a parabola over this window
+			// (sparse points, curvature that changes fast), and wider
+			// windows bridge still more of it.
+			return 0, 0, false
 		}
+		// The smallest window with clean supports judges: a wider one
+		// would only bridge more of the outline with one parabola.
+		wide := math.Sqrt(1 + g.leverage)
+		return g.d, w + k, g.d > thr*wide && g.d > sigma*g.scatter*wide && g.d > g.sag
 	}
-	return 0, false
+	return 0, 0, false
 }
 
 // gap is a fit of gapFit: the distance of the point judged from it, the
@@ -172,8 +202,17 @@ func clusterResidual(pts []geometry.Point, seq []int32, i, maxW int, span, sigma
 // (root mean square, over the degrees of freedom left) and the leverage of
 // the point (the variance of the fit where it projects, in units of the
 // supports' variance).
+//
+// sag bounds how far the outline may stand off the parabola within the
+// gap (between the innermost support points), as sagitta does for the
+// point-by-point test: a circular arc over the gap's chord g that turns as
+// the fit turns there, τ, bulges g/2 · tan(τ/4) from that chord. Where
+// the points are sparse for the curvature (a coarsely probed nose, exact
+// stations), a parabola through the supports can miss a good point in the
+// gap by that much; a run off a gently curved surface stands off by far
+// more.
 type gap struct {
-	d, worst, scatter, leverage float64
+	d, worst, scatter, leverage, sag float64
 }
 
 // gapFit fits a parabola y(x) by least squares to the supports sup (the
@@ -210,6 +249,12 @@ func gapFit(sup []geometry.Point, k int, p geometry.Point) (gap, bool) {
 	if x0 < -1 || x0 > 1 {
 		return g, false
 	}
+	// Both supports must run forward along the axis, as the loop runs: a
+	// window that wraps round a thin trailing edge has one support on
+	// each surface, running opposite ways.
+	if sup[k-1].Sub(sup[0]).Dot(u) <= 0 || sup[len(sup)-1].Sub(sup[k]).Dot(u) <= 0 {
+		return g, false
+	}
 	var a [3][3]float64
 	var by [3]float64
 	for j, q := range sup {
@@ -243,6 +288,10 @@ func gapFit(sup []geometry.Point, k int, p geometry.Point) (gap, bool) {
 		return g, false
 	}
 	g.leverage = b0[0]*z[0] + b0[1]*z[1] + b0[2]*z[2]
+	xa, _ := frame(sup[k-1])
+	xb, _ := frame(sup[k])
+	tau := math.Abs(math.Atan((cf[1]+2*cf[2]*xb)/half) - math.Atan((cf[1]+2*cf[2]*xa)/half))
+	g.sag = fastDist(sup[k-1], sup[k]) / 2 * math.Tan(tau/4)
 	dist := func(q geometry.Point) float64 {
 		x, y := frame(q)
 		slope := (cf[1] + 2*cf[2]*x) / half
@@ -259,5 +308,24 @@ func gapFit(sup []geometry.Point, k int, p geometry.Point) (gap, bool) {
 	return g, true
 }
 
-var Probe geometry.Point
-var ProbeR float64
+// nearOutline reports whether the point at position i of the loop seq lies
+// within tol of a step of the loop more than reach positions away from it:
+// a point of the outline that the ordering put among the wrong neighbours
+// (a point of the other surface near a thin trailing edge), not a point
+// off it. A cluster of points off the surface lies away from the outline.
+func nearOutline(pts []geometry.Point, seq []int32, i, reach int, tol float64) bool {
+	n := len(seq)
+	p := pts[seq[i]]
+	for d := reach + 1; d < n-reach-1; d++ {
+		a, b := pts[seq[(i+d)%n]], pts[seq[(i+d+1)%n]]
+		ab := b.Sub(a)
+		t := 0.0
+		if l2 := ab.Dot(ab); l2 > 0 {
+			t = min(1, max(0, p.Sub(a).Dot(ab)/l2))
+		}
+		if fastDist(p, a.Add(ab.Scale(t))) <= tol {
+			return true
+		}
+	}
+	return false
+}
