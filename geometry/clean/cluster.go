@@ -90,49 +90,87 @@ func clusterWindows(max int) []int {
 // marked in exempt (by point index; nil for none) are never cluster
 // points, though they may support a fit.
 func clusterOutliers(pts []geometry.Point, seq []int32, sigma, scale float64, keep bool, exempt []bool) ([]int32, []hit) {
+	n := len(seq)
+	if n < 4*minSupport+3 {
+		return seq, nil
+	}
+	// The loop's length, to bound the windows.
+	var length float64
+	for k := range n {
+		length += fastDist(pts[seq[k]], pts[seq[(k+1)%n]])
+	}
+	ws := clusterWindows((n - 2*minSupport - 1) / 4)
 	var hits []hit
 	work := seq
+	// reach, by point index, is how far each way the last look at a point
+	// reached: after a round only the points with a removed point within
+	// that reach are looked at again (the others' windows are unchanged).
+	reach := make([]int32, len(pts))
+	todo := make([]bool, n)
+	for i := range todo {
+		todo[i] = true
+	}
 	for range clusterRounds {
 		n := len(work)
 		if n < 4*minSupport+3 {
 			break
 		}
-		// The loop's length, to bound the windows.
-		var length float64
-		for k := range n {
-			length += fastDist(pts[work[k]], pts[work[(k+1)%n]])
-		}
-		maxW := (n - 2*minSupport - 1) / 4
 		out := make([]bool, n)
 		dist := make([]float64, n)
 		parallel(n, func(a, b int) {
 			for i := a; i < b; i++ {
 				p := work[i]
-				if exempt != nil && exempt[p] {
+				if !todo[i] || exempt != nil && exempt[p] {
 					continue
 				}
-				d, reach, ok := clusterResidual(pts, work, i, maxW, clusterSpan*length, sigma, scale)
-				if ok && !nearOutline(pts, work, i, reach, sigma*scale) {
+				d, r, ok := clusterResidual(pts, work, i, ws, clusterSpan*length, sigma, scale)
+				reach[p] = int32(r)
+				if ok && !nearOutline(pts, work, i, r, sigma*scale) {
 					out[i], dist[i] = true, d
 				}
 			}
 		})
 		next := make([]int32, 0, n)
-		found := false
+		var cuts []int // positions of the removed points, in work
 		for i, p := range work {
 			if !out[i] {
 				next = append(next, p)
 				continue
 			}
-			found = true
+			cuts = append(cuts, i)
 			sg := 0.0
 			if scale > 0 {
 				sg = dist[i] / scale
 			}
 			hits = append(hits, hit{idx: p, reason: "outlier", dist: dist[i], sigmas: sg, kept: keep})
 		}
-		if !found || len(next) < minPoints {
+		if len(cuts) == 0 || len(next) < minPoints {
 			break
+		}
+		// The points to look at again: a removed point within their reach
+		// (positions counted in work, round the loop).
+		todo = make([]bool, len(next))
+		j, c := 0, 0
+		for i, p := range work {
+			if out[i] {
+				continue
+			}
+			for c < len(cuts) && cuts[c] < i {
+				c++
+			}
+			near := n
+			if c < len(cuts) {
+				near = cuts[c] - i
+			} else {
+				near = cuts[0] + n - i
+			}
+			if c > 0 {
+				near = min(near, i-cuts[c-1])
+			} else {
+				near = min(near, i+n-cuts[len(cuts)-1])
+			}
+			todo[j] = near <= int(reach[p])+1
+			j++
 		}
 		work = next
 	}
@@ -140,23 +178,24 @@ func clusterOutliers(pts []geometry.Point, seq []int32, sigma, scale float64, ke
 }
 
 // clusterResidual tries the left-out windows about position i of seq,
-// half-widths up to maxW, spanning at most span (input units, straight
-// across) with their supports, and returns the distance of the point from
-// the fit of the smallest window with clean supports (see the file's
-// comment; sc is the loop's robust scale), how many positions each way
-// that window and its supports took in, and whether that fit makes the
+// half-widths ws, spanning at most span (input units, straight across)
+// with their supports, and returns the distance of the point from the fit
+// of the smallest window with clean supports (see the file's comment; sc
+// is the loop's robust scale), how many positions each way the last window
+// looked at and its supports took in, and whether that fit makes the
 // point a cluster point.
-func clusterResidual(pts []geometry.Point, seq []int32, i, maxW int, span, sigma, sc float64) (d float64, reach int, ok bool) {
+func clusterResidual(pts []geometry.Point, seq []int32, i int, ws []int, span, sigma, sc float64) (d float64, reach int, ok bool) {
 	n := len(seq)
 	at := func(j int) geometry.Point { return pts[seq[((i+j)%n+n)%n]] }
 	p0 := at(0)
 	thr := sigma * sc
-	var sup []geometry.Point
-	for _, w := range clusterWindows(maxW) {
+	var buf [2 * supportPoints]geometry.Point
+	for _, w := range ws {
 		k := max(minSupport, w)
 		if 2*(w+k)+1 > n {
 			break
 		}
+		reach = w + k
 		// The window and its supports must stay within span, measured
 		// straight across (a section order of a band, or one that puts a
 		// run among the points it stands off from, zigzags along the
@@ -168,7 +207,7 @@ func clusterResidual(pts []geometry.Point, seq []int32, i, maxW int, span, sigma
 		// its nearest point to its farthest: a fit costs the same however
 		// wide the window.
 		m := min(k, supportPoints)
-		sup = sup[:0]
+		sup := buf[:0]
 		for j := m - 1; j >= 0; j-- {
 			sup = append(sup, at(-w-1-j*(k-1)/(m-1)))
 		}
@@ -187,14 +226,20 @@ func clusterResidual(pts []geometry.Point, seq []int32, i, maxW int, span, sigma
 			// threshold: the outline is not a parabola over this window
 			// (sparse points, curvature that changes fast), and wider
 			// windows bridge still more of it.
-			return 0, 0, false
+			return 0, reach, false
 		}
 		// The smallest window with clean supports judges: a wider one
 		// would only bridge more of the outline with one parabola.
+		if g.d <= thr {
+			return g.d, reach, false
+		}
+		if !g.finish() {
+			continue // the outline turns too much over the window
+		}
 		wide := math.Sqrt(1 + g.leverage)
-		return g.d, w + k, g.d > thr*wide && g.d > sigma*g.scatter*wide && g.d > g.sag
+		return g.d, reach, g.d > thr*wide && g.d > sigma*g.scatter*wide && g.d > g.sag
 	}
-	return 0, 0, false
+	return 0, reach, false
 }
 
 // gap is a fit of gapFit: the distance of the point judged from it, the
@@ -213,16 +258,28 @@ func clusterResidual(pts []geometry.Point, seq []int32, i, maxW int, span, sigma
 // more.
 type gap struct {
 	d, worst, scatter, leverage, sag float64
+
+	// The fit: the supports (the first k before the window), the frame's
+	// origin c, unit axis u and half-length half, the normal equations a,
+	// the coefficients cf and the point's x0 in the frame.
+	sup  []geometry.Point
+	k    int
+	c, u geometry.Point
+	half float64
+	a    [3][3]float64
+	cf   [3]float64
+	x0   float64
 }
 
 // gapFit fits a parabola y(x) by least squares to the supports sup (the
 // first k before the window, the rest after it), in the frame whose x axis
 // runs from the centroid of the first support to that of the second, and
-// returns the fit's figures for p (distances across the frame over the
-// slope's secant). ok is false when a support lies on the wrong side of
-// the frame's middle (the outline turns too much over the window for a
-// graph over it), when p does not project between the supports' centroids,
-// or when the fit is singular.
+// returns the distances of p and the supports from it (across the frame,
+// over the slope's secant) and their scatter; finish adds the rest. ok is
+// false when a support lies on the wrong side of the frame's middle or
+// runs backwards along it (the outline turns too much over the window for
+// a graph over it, or the window wraps round a thin edge), when p does not
+// project between the supports' centroids, or when the fit is singular.
 func gapFit(sup []geometry.Point, k int, p geometry.Point) (gap, bool) {
 	var g gap
 	var cl, cr geometry.Point
@@ -240,12 +297,8 @@ func gapFit(sup []geometry.Point, k int, p geometry.Point) (gap, bool) {
 	}
 	u := ax.Scale(1 / (2 * half))
 	c := cl.Add(cr).Scale(0.5)
-	// In the frame: x along u scaled by half, y across.
-	frame := func(q geometry.Point) (float64, float64) {
-		v := q.Sub(c)
-		return v.Dot(u) / half, u.Cross(v)
-	}
-	x0, _ := frame(p)
+	g.sup, g.k, g.c, g.u, g.half = sup, k, c, u, half
+	x0, _ := g.frame(p)
 	if x0 < -1 || x0 > 1 {
 		return g, false
 	}
@@ -258,7 +311,7 @@ func gapFit(sup []geometry.Point, k int, p geometry.Point) (gap, bool) {
 	var a [3][3]float64
 	var by [3]float64
 	for j, q := range sup {
-		x, y := frame(q)
+		x, y := g.frame(q)
 		// Each support may scatter (a band), but the first must lie
 		// behind the window's middle and the second ahead of it.
 		if j < k && x > 0 || j >= k && x < 0 {
@@ -276,36 +329,55 @@ func gapFit(sup []geometry.Point, k int, p geometry.Point) (gap, bool) {
 	if !ok {
 		return g, false
 	}
-	// The fitted outline may turn by at most clusterTurn between the
-	// supports: a window long beside the local radius of curvature (round
-	// a nose, over a trailing edge) is not one a parabola spans.
-	if turn := math.Abs(math.Atan((cf[1]+2*cf[2])/half) - math.Atan((cf[1]-2*cf[2])/half)); turn > clusterTurn {
-		return g, false
-	}
-	b0 := [3]float64{1, x0, x0 * x0}
-	z, ok := numeric.Cramer3(a, b0, 1e-12)
-	if !ok {
-		return g, false
-	}
-	g.leverage = b0[0]*z[0] + b0[1]*z[1] + b0[2]*z[2]
-	xa, _ := frame(sup[k-1])
-	xb, _ := frame(sup[k])
-	tau := math.Abs(math.Atan((cf[1]+2*cf[2]*xb)/half) - math.Atan((cf[1]+2*cf[2]*xa)/half))
-	g.sag = fastDist(sup[k-1], sup[k]) / 2 * math.Tan(tau/4)
-	dist := func(q geometry.Point) float64 {
-		x, y := frame(q)
-		slope := (cf[1] + 2*cf[2]*x) / half
-		return math.Abs(y-(cf[0]+cf[1]*x+cf[2]*x*x)) / math.Sqrt(1+slope*slope)
-	}
+	g.a, g.cf, g.x0 = a, cf, x0
 	var ss float64
 	for _, q := range sup {
-		e := dist(q)
+		e := g.dist(q)
 		g.worst = max(g.worst, e)
 		ss += e * e
 	}
 	g.scatter = math.Sqrt(ss / float64(len(sup)-3))
-	g.d = dist(p)
+	g.d = g.dist(p)
 	return g, true
+}
+
+// frame returns q in the fit's frame: x along the axis scaled by half, y
+// across.
+func (g *gap) frame(q geometry.Point) (float64, float64) {
+	v := q.Sub(g.c)
+	return v.Dot(g.u) / g.half, g.u.Cross(v)
+}
+
+// dist returns the distance of q from the fitted parabola, across the
+// frame over the slope's secant.
+func (g *gap) dist(q geometry.Point) float64 {
+	x, y := g.frame(q)
+	cf := g.cf
+	slope := (cf[1] + 2*cf[2]*x) / g.half
+	return math.Abs(y-(cf[0]+cf[1]*x+cf[2]*x*x)) / math.Sqrt(1+slope*slope)
+}
+
+// finish sets the leverage and the sagitta of the fit, which only a point
+// beyond the threshold needs; it returns false when the fitted outline
+// turns by more than clusterTurn between the supports' centroids (a window
+// long beside the local radius of curvature: round a nose, over a trailing
+// edge) or the leverage cannot be found.
+func (g *gap) finish() bool {
+	cf, half := g.cf, g.half
+	if turn := math.Abs(math.Atan((cf[1]+2*cf[2])/half) - math.Atan((cf[1]-2*cf[2])/half)); turn > clusterTurn {
+		return false
+	}
+	b0 := [3]float64{1, g.x0, g.x0 * g.x0}
+	z, ok := numeric.Cramer3(g.a, b0, 1e-12)
+	if !ok {
+		return false
+	}
+	g.leverage = b0[0]*z[0] + b0[1]*z[1] + b0[2]*z[2]
+	xa, _ := g.frame(g.sup[g.k-1])
+	xb, _ := g.frame(g.sup[g.k])
+	tau := math.Abs(math.Atan((cf[1]+2*cf[2]*xb)/half) - math.Atan((cf[1]+2*cf[2]*xa)/half))
+	g.sag = fastDist(g.sup[g.k-1], g.sup[g.k]) / 2 * math.Tan(tau/4)
+	return true
 }
 
 // nearOutline reports whether the point at position i of the loop seq lies
