@@ -31,6 +31,7 @@ type flatnessDoc struct {
 	Max     float64         `json:"max"`
 	Kept    int             `json:"kept"`
 	Outside int             `json:"outside"`
+	Strays  int             `json:"strays,omitempty"`
 	Plane   *geometry.Plane `json:"plane"`
 }
 
@@ -61,7 +62,7 @@ func (c *Cleaned) ContourDocument() ([]byte, error) {
 		Points: c.Contour.Points,
 	}
 	if f := c.Flatness; f != nil {
-		doc.Flatness = &flatnessDoc{RMS: f.RMS, Max: f.Max, Kept: f.Kept, Outside: f.Outside, Plane: c.Plane}
+		doc.Flatness = &flatnessDoc{RMS: f.RMS, Max: f.Max, Kept: f.Kept, Outside: f.Outside, Strays: len(f.Strays), Plane: c.Plane}
 	}
 	for _, l := range c.Clean.Loops {
 		doc.Loops = append(doc.Loops, loopDoc{Points: l.Points, Area: l.Area, Picked: l.Picked, First: l.First.String()})

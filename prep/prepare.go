@@ -217,7 +217,10 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 	if err != nil {
 		return nil, err
 	}
-	if p.Shape, err = frame.Normalize(p.Curve, eo); err != nil {
+	no := eo
+	no.Support = p.Fit.S // the mirror decision reads only the measured nose
+	no.Noise = p.Fit.NoiseEstimate
+	if p.Shape, err = frame.Normalize(p.Curve, no); err != nil {
 		if errors.Is(err, frame.ErrNoLeadingEdge) {
 			return nil, &GateError{Gate: GateEdges, Seen: strings.TrimPrefix(err.Error(), "geometry: ")}
 		}
@@ -451,7 +454,7 @@ func (p *Preparation) document(name string, cl *Cleaned, nodes []geometry.Point,
 		Source: &section.SourceInfo{
 			Files: cl.Files, SHA256: cl.SHA256,
 			PointsRead: cl.Read, PointsUsed: cl.Contour.Len(),
-			Dropped: DroppedOf(cl.Clean, cl.Units),
+			Dropped: append(strayDropped(cl.Flatness, cl.Units), DroppedOf(cl.Clean, cl.Units)...),
 		},
 		Frame:        &fr,
 		Fit:          p.fitSummary(),
@@ -563,6 +566,20 @@ func contourDiagonal(c *geometry.Contour) float64 {
 		hi.X, hi.Y = math.Max(hi.X, p.X), math.Max(hi.Y, p.Y)
 	}
 	return hi.Dist(lo)
+}
+
+// strayDropped lists the points of a 3D file dropped as strays off its
+// plane (planar.Flatness.Strays); none for a 2D file.
+func strayDropped(f *planar.Flatness, units geometry.Unit) []section.Dropped {
+	if f == nil {
+		return nil
+	}
+	out := make([]section.Dropped, 0, len(f.Strays))
+	for _, st := range f.Strays {
+		out = append(out, section.Dropped{File: st.Origin.File, Line: st.Origin.Line, Entity: st.Origin.Entity,
+			Reason: fmt.Sprintf("off the plane: %s from it, alone (its neighbours lie within half the flatness tolerance)", LengthText(math.Abs(st.Distance), units))})
+	}
+	return out
 }
 
 // DroppedOf lists every input point that is not in the contour: merged

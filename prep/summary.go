@@ -65,7 +65,7 @@ func (p *Preparation) WriteSummary(w io.Writer) {
 		}
 	}
 	if f := p.Flatness; f != nil {
-		fmt.Fprintf(w, "  plane       %d points kept, %d outside the band; flatness RMS %s, max %s\n", f.Kept, f.Outside, LengthText(f.RMS, s.Units), LengthText(f.Max, s.Units))
+		fmt.Fprintf(w, "  plane       %d points kept, %d outside the band%s; flatness RMS %s, max %s\n", f.Kept, f.Outside, StrayText(len(f.Strays)), LengthText(f.RMS, s.Units), LengthText(f.Max, s.Units))
 	}
 	if len(p.Clean.Loops) > 1 {
 		fmt.Fprintf(w, "  loops       %d found; the section is the one of largest area unless told\n", len(p.Clean.Loops))
@@ -205,4 +205,13 @@ func TwistText(deg float64) string {
 	default:
 		return t + " nose-down"
 	}
+}
+
+// StrayText is the summary's note of the points dropped as strays off the
+// plane of a 3D file (planar.Flatness.Strays): empty when there are none.
+func StrayText(n int) string {
+	if n == 0 {
+		return ""
+	}
+	return fmt.Sprintf(", %d stray(s) off the plane dropped", n)
 }

@@ -159,7 +159,7 @@ func writePointsReport(w io.Writer, cl *prep.Cleaned, allNotes bool) {
 		}
 	}
 	if f := cl.Flatness; f != nil {
-		fmt.Fprintf(w, "plane: %d points kept, %d outside the band; flatness RMS %s, max %s\n", f.Kept, f.Outside, prep.LengthText(f.RMS, u), prep.LengthText(f.Max, u))
+		fmt.Fprintf(w, "plane: %d points kept, %d outside the band%s; flatness RMS %s, max %s\n", f.Kept, f.Outside, prep.StrayText(len(f.Strays)), prep.LengthText(f.RMS, u), prep.LengthText(f.Max, u))
 	}
 	r := cl.Clean
 	fmt.Fprintf(w, "merged: %d duplicate(s) within %s\n", len(r.Merged), prep.LengthText(r.MergeTol, u))

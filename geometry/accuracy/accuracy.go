@@ -68,6 +68,7 @@ func Estimate(cv *curve.Curve, rep *curve.FitReport, nz *frame.Normalized, opts 
 	}
 	eo := opts.Edges
 	eo.Mirror = frame.MirrorNo
+	eo.Support, eo.Noise = nil, 0 // the mirror is the section's: the replicas keep it
 	if nz.Frame.Mirrored {
 		eo.Mirror = frame.MirrorYes
 	}

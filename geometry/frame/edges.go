@@ -135,6 +135,18 @@ type Options struct {
 	LEAt *geometry.Point
 	// Mirror is MirrorAuto (or ""), MirrorYes or MirrorNo.
 	Mirror string
+	// Support, when set, holds the arc lengths along the curve of the
+	// points it was fitted to (curve.FitReport.S). MirrorAuto then reads
+	// the mean line's sag only aft of a nose the points leave unsampled:
+	// there the curve's shape is its own guess, and a guessed nose bends
+	// the mean line's forward end as far as a faint camber line does.
+	Support []float64
+	// Noise, when positive, is the noise of the points normal to the
+	// outline (input units, the fit's estimate). MirrorAuto then asks the
+	// mean line to sag by more than it, as well as by EdgeMirrorSag: the
+	// sag is read from the fitted curve, whose error at the stations the
+	// line is anchored on is a fair fraction of the noise.
+	Noise float64
 }
 
 // edges locates the trailing edge and the leading edge of cv (input

@@ -165,6 +165,7 @@ func Normalize(cv *curve.Curve, opts Options) (*Normalized, error) {
 	}
 	out := &Normalized{}
 	warn := func(s string) { out.Warnings = append(out.Warnings, s) }
+	fitted := cv // the curve Support's arc lengths run along
 	if !cv.Closed() {
 		// A sharp edge whose surfaces cross just ahead of it (a thin,
 		// noisy edge) ends where they cross.
@@ -224,16 +225,27 @@ func Normalize(cv *curve.Curve, opts Options) (*Normalized, error) {
 	case MirrorNo:
 	default:
 		_, cy := chord.Centroid()
-		sag, sagOK := meanLineSag(chord, sLE/fr.Chord)
+		from := max(sagFrom, supportedFrom(fitted, opts.Support, le, fr))
+		sag, sagOK := meanLineSag(chord, sLE/fr.Chord, from)
+		sagMin := max(EdgeMirrorSag, opts.Noise/fr.Chord, sampledSag(fitted, opts.Support, fr.Chord))
 		switch {
-		case cy < -EdgeMirrorCentroid && (!sagOK || sag < -EdgeMirrorSag):
+		case cy < -EdgeMirrorCentroid && from > sagFrom && (!sagOK || sag >= -sagMin):
+			// The points leave the nose unsampled and the mean line aft
+			// of it does not say the section is upside down: the
+			// centroid's word rests on the curve's guess at the nose.
+			warn(fmt.Sprintf("mirroring cannot be decided: the centroid lies %.3g chord below the chord line, but the points leave the nose unsampled to x = %.2g and the mean line aft of it does not sag the other way; kept as measured: use mirror yes if it was measured upside down", -cy, from))
+		case cy < -EdgeMirrorCentroid && (!sagOK || sag < -sagMin):
 			mirrored = true
 			warn(fmt.Sprintf("section mirrored: its centroid lies %.3g chord below the chord line (negative camber), so it was taken as upside down or nose-reversed; use mirror no to keep it", -cy))
 		case cy < -EdgeMirrorCentroid:
 			// The centroid says mirrored but the mean line does not sag
 			// the other way: a (nearly) symmetric section whose chord
 			// line the place of the leading edge on its nose tilts.
-			warn(fmt.Sprintf("section is (nearly) symmetric: its centroid lies %.3g chord below the chord line but its mean line sags by %.2g chord, so mirroring cannot be detected and it was kept as measured; use mirror yes if it was measured upside down", -cy, sag))
+			way := "down (as upside down)"
+			if sag >= 0 {
+				way = "up (as right way up)"
+			}
+			warn(fmt.Sprintf("section is (nearly) symmetric: its centroid lies %.3g chord below the chord line but its mean line bows %s by only %.2g chord, and camber needs more than %.2g (the largest of %.1g, the noise and what the spacing of the points leaves), so mirroring cannot be detected and it was kept as measured; use mirror yes if it was measured upside down", -cy, way, math.Abs(sag), sagMin, EdgeMirrorSag))
 		case math.Abs(cy) <= EdgeMirrorCentroid:
 			warn("section is (nearly) symmetric: mirroring cannot be detected; use mirror yes if it was measured upside down")
 		}

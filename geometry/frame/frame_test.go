@@ -387,7 +387,7 @@ func TestMeanLineSag(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		sag, ok := meanLineSag(nz.Path.(*curve.Curve), nz.SLE)
+		sag, ok := meanLineSag(nz.Path.(*curve.Curve), nz.SLE, sagFrom)
 		if !ok || math.Abs(sag-tc.want) > 0.05*0.01076 {
 			t.Errorf("%s flipped %v: sag %.5f (ok %v), want %.5f", tc.code, tc.flip, sag, ok, tc.want)
 		}
@@ -420,5 +420,216 @@ func TestNormalizeMirroredReflexed(t *testing.T) {
 	}
 	if !nz.Frame.Mirrored {
 		t.Errorf("upside-down NACA 22112 not mirrored (warnings %q)", nz.Warnings)
+	}
+}
+
+func TestNormalizeUnsampledNoseNotMirrored(t *testing.T) {
+	// A thin symmetric section (NACA 0006, Report 824) whose nose the points
+	// leave unsampled: none between 4 % of the chord on either surface
+	// but one, placed 0.4 % of the chord above the true leading edge (a
+	// probe that touched the nose off its line, or a stray point). The
+	// curve's guess at the nose tilts the chord line and bends the mean
+	// line's forward end down, so the centroid lies below the chord line
+	// and the mean line sags as an upside-down camber line would. The
+	// points say nothing of camber: it must not be mirrored when the fit
+	// tells Normalize where the points are (Support), and the same curve
+	// without Support shows the situation the rule is for.
+	n, _ := shape.ParseNACA4("0006")
+	c := &geometry.Contour{}
+	for i, p := range n.Loop(160) {
+		if p.X < 0.04 && p.X > 1e-9 {
+			continue
+		}
+		if p.X <= 1e-9 {
+			p.Y += 0.004
+		}
+		c.Points = append(c.Points, p.Scale(400))
+		c.Origins = append(c.Origins, geometry.Origin{File: "nose.csv", Line: i + 1})
+	}
+	cv, rep, err := curve.Fit(c, curve.FitOptions{Exact: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	bare, err := Normalize(cv, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !bare.Frame.Mirrored {
+		t.Fatalf("the curve's nose guess does not look mirrored without Support (twist %.2f°): the test no longer makes the case the rule is for", bare.Frame.TwistDeg)
+	}
+	nz, err := Normalize(cv, Options{Support: rep.S})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if nz.Frame.Mirrored {
+		t.Errorf("NACA 0006 with an unsampled nose mirrored (warnings %q)", nz.Warnings)
+	}
+	found := false
+	for _, w := range nz.Warnings {
+		found = found || strings.Contains(w, "mirroring cannot be decided")
+	}
+	if !found {
+		t.Errorf("no warning that mirroring cannot be decided: %q", nz.Warnings)
+	}
+}
+
+func TestNormalizeMirrorNeedsCamberAboveNoise(t *testing.T) {
+	// A faint camber line measured upside down: NACA 4-digit equations
+	// (Report 824) with 0.2 % camber at 40 %, 12 % thick, whose mean line
+	// sags about 0.0011 chord below the line through its ends at the
+	// stations (scaled from 2412's 0.01076, TestMeanLineSag). On exact
+	// points it is mirrored back; when the points' noise is larger than
+	// that sag the curve could bow that far by itself, so it is kept as
+	// measured, with a warning.
+	n := shape.NACA4{Camber: 0.002, CamberPos: 0.4, Thickness: 0.12}
+	part := testfoil.Part{Chord: 100, FlipY: true}
+	c := testfoil.Contour(testfoil.Loop(n, 300), part)
+	cv, _, err := curve.Fit(c, curve.FitOptions{Exact: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, tc := range []struct {
+		noise    float64 // input units (chord 100)
+		mirrored bool
+	}{{0, true}, {0.01, true}, {0.3, false}} {
+		nz, err := Normalize(cv, Options{Noise: tc.noise})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if nz.Frame.Mirrored != tc.mirrored {
+			t.Errorf("noise %g chord: mirrored %v, want %v (warnings %q)", tc.noise/100, nz.Frame.Mirrored, tc.mirrored, nz.Warnings)
+		}
+		if !tc.mirrored && !slices.ContainsFunc(nz.Warnings, func(w string) bool { return strings.Contains(w, "mirroring cannot be detected") }) {
+			t.Errorf("noise %g chord: kept without saying mirroring cannot be detected: %q", tc.noise/100, nz.Warnings)
+		}
+	}
+}
+
+func TestNormalizeFiveDigitMirror(t *testing.T) {
+	// NACA 5-digit sections on the 230 mean line (Report 824's constants)
+	// across the thicknesses the family is tabulated for (to 24 %, Abbott
+	// and von Doenhoff, from memory): the thickness is laid off normal to a
+	// mean line that rises steeply at the nose, which moves the surfaces'
+	// midpoints at equal x and the centroid down the thicker the section
+	// (past about 27 % they read as upside down, and no reading of the
+	// outline can tell). Measured right way up they must be kept, measured
+	// upside down mirrored back, with a little noise on the points.
+	for _, thick := range []float64{0.12, 0.18, 0.24} {
+		for _, flip := range []bool{false, true} {
+			rng := rand.New(rand.NewPCG(uint64(100*thick), 3))
+			c := &geometry.Contour{}
+			loop := shape.NACA5{L: 2, P: 3, Thickness: thick, SharpTE: true}.Loop(150)
+			if flip {
+				// Counter-clockwise from the trailing edge, as the cleaning
+				// gives it, once turned over.
+				slices.Reverse(loop)
+			}
+			for i, p := range loop {
+				if flip {
+					p.Y = -p.Y
+				}
+				q := p.Scale(300).Add(geometry.Point{X: rng.NormFloat64() * 0.01, Y: rng.NormFloat64() * 0.01})
+				c.Points = append(c.Points, q)
+				c.Origins = append(c.Origins, geometry.Origin{File: "root.csv", Line: i + 1})
+			}
+			cv, rep, err := curve.Fit(c, curve.FitOptions{Noise: 0.01})
+			if err != nil {
+				t.Fatal(err)
+			}
+			nz, err := Normalize(cv, Options{Support: rep.S, Noise: rep.NoiseEstimate})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if nz.Frame.Mirrored != flip {
+				t.Errorf("NACA 230%02.0f, upside down %v: mirrored %v (warnings %q)", 100*thick, flip, nz.Frame.Mirrored, nz.Warnings)
+			}
+		}
+	}
+}
+
+func TestNormalizeSparseMirror(t *testing.T) {
+	// Probe files of 52 points (NACA Report 824 sections, chord 160 mm,
+	// 0.01 mm noise) spaced as a hurried operator probes: gaps along the
+	// outline drawn log-normal (σ 0.8) times a slow wave, so that some
+	// gaps are ten times others. The curve between points that far apart
+	// guesses the surfaces to a few 1e-4 chord, enough to bow a symmetric
+	// section's mean line as faint camber would. sampledSag must cover
+	// that bow on every draw (and the draws must make it: some bow beyond
+	// EdgeMirrorSag), no NACA 0016 may be mirrored, and every upside-down
+	// NACA 2412, whose mean line sags 0.011 chord (TestMeanLineSag), must
+	// still be mirrored back.
+	const seeds, points = 40, 52
+	fit := func(code string, flip bool, seed int) (*curve.Curve, *curve.FitReport) {
+		n, _ := shape.ParseNACA4(code)
+		dense := testfoil.Loop(n, 2000)
+		s := make([]float64, len(dense))
+		for i := 1; i < len(dense); i++ {
+			s[i] = s[i-1] + dense[i].Dist(dense[i-1])
+		}
+		r := rand.New(rand.NewPCG(uint64(seed), 77))
+		gaps := make([]float64, points)
+		var sum float64
+		phase := 2 * math.Pi * r.Float64()
+		for k := range gaps {
+			gaps[k] = math.Exp(0.8*r.NormFloat64() + 0.5*math.Sin(phase+2*math.Pi*float64(k)/points))
+			sum += gaps[k]
+		}
+		// The ends of the surfaces (the trailing edge's corners) and the
+		// points between them at the gaps drawn.
+		loop := []geometry.Point{dense[0]}
+		at, j := gaps[0]/sum*s[len(s)-1], 0
+		for k := 1; k < points-1; k++ {
+			for j < len(s)-1 && s[j+1] < at {
+				j++
+			}
+			loop = append(loop, dense[j])
+			at += gaps[k] / sum * s[len(s)-1]
+		}
+		loop = append(loop, dense[len(dense)-1])
+		part := testfoil.Part{Chord: 160, RotDeg: 10, Noise: 0.01, Seed: uint64(seed + 1), FlipY: flip}
+		if flip {
+			slices.Reverse(loop)
+		}
+		cv, rep, err := curve.Fit(testfoil.Contour(loop, part), curve.FitOptions{Noise: 0.01})
+		if err != nil {
+			t.Fatal(err)
+		}
+		return cv, rep
+	}
+	bowed := 0
+	for seed := range seeds {
+		cv, rep := fit("0016", false, seed)
+		nz, err := Normalize(cv, Options{Mirror: MirrorNo})
+		if err != nil {
+			t.Fatal(err)
+		}
+		le := geometry.Point{X: nz.Frame.LE[0], Y: nz.Frame.LE[1]}
+		from := max(sagFrom, supportedFrom(cv, rep.S, le, nz.Frame))
+		sag, ok := meanLineSag(nz.Path.(*curve.Curve), nz.SLE, from)
+		allow := sampledSag(cv, rep.S, nz.Frame.Chord)
+		if ok && math.Abs(sag) > EdgeMirrorSag {
+			bowed++
+		}
+		if ok && math.Abs(sag) > allow {
+			t.Errorf("seed %d: NACA 0016's mean line bows %.2g chord, beyond the spacing's allowance %.2g", seed, sag, allow)
+		}
+		if nz, err = Normalize(cv, Options{Support: rep.S, Noise: rep.NoiseEstimate}); err != nil {
+			t.Fatal(err)
+		}
+		if nz.Frame.Mirrored {
+			t.Errorf("seed %d: sparse NACA 0016 mirrored (warnings %q)", seed, nz.Warnings)
+		}
+		cv, rep = fit("2412", true, seed)
+		if nz, err = Normalize(cv, Options{Support: rep.S, Noise: rep.NoiseEstimate}); errors.Is(err, ErrNoLeadingEdge) {
+			continue // the draw left the nose without a point (prep would try other ways)
+		} else if err != nil {
+			t.Fatal(err)
+		}
+		if !nz.Frame.Mirrored {
+			t.Errorf("seed %d: sparse upside-down NACA 2412 not mirrored (warnings %q)", seed, nz.Warnings)
+		}
+	}
+	if bowed == 0 {
+		t.Errorf("no draw bowed the mean line beyond %g: the test does not make the case", EdgeMirrorSag)
 	}
 }

@@ -1,6 +1,7 @@
 package planar
 
 import (
+	"cmp"
 	"errors"
 	"fmt"
 	"math"
@@ -186,7 +187,11 @@ const scatterMargin = 2
 type Flatness struct {
 	RMS, Max      float64
 	Kept, Outside int
-	Plane         geometry.Plane
+	// Strays are the points dropped, under the default tolerance, as
+	// lying off the plane alone (see Flatten), with their signed
+	// distances from it; they are noted too.
+	Strays []Stray
+	Plane  geometry.Plane
 	// Scatter is the out-of-plane noise of the points: the robust spread
 	// of the difference between the distances of neighbouring points from
 	// the plane, divided by √2 (input units). A systematic departure (a
@@ -297,6 +302,16 @@ func Flatten(c *geometry.Cloud, opts FlattenOptions) (*geometry.Cloud, Flatness,
 		allowance = fmt.Sprintf(" (%.4g for the part's size plus %.3g for the scatter %.3g of neighbouring points; a warp moves neighbours alike, noise does not)", base, k*fl.Scatter, fl.Scatter)
 	}
 	fl.Tolerance = tol
+	if fl.Max > tol && allowance != "" {
+		// Under the default tolerance, a few points beyond it whose
+		// neighbours in the plane lie well inside are strays (a speck
+		// the beam caught, noise that grows where the beam grazes), not
+		// a part that departs from its plane: they are dropped and noted
+		// and the rest flattened. A warp carries the neighbours out too.
+		if drop := strays(out.Points, out.Origins, c.Points, c.Origins, pl, tol); drop != nil {
+			out, fl = dropStrays(out, fl, drop, pl, c, tol)
+		}
+	}
 	if fl.Max > tol {
 		where := ""
 		if worst < len(c.Origins) {
@@ -428,4 +443,138 @@ func fitPlane(pts []geometry.Vec3) (geometry.Plane, error) {
 	svd.VTo(&v)
 	n := geometry.Vec3{X: v.At(0, 2), Y: v.At(1, 2), Z: v.At(2, 2)}.Unit()
 	return Through(n.Scale(c.Dot(n)), n), nil
+}
+
+// Stray is a point dropped as lying off the plane alone.
+type Stray struct {
+	Origin   geometry.Origin
+	Distance float64 // signed distance from the plane, input units
+}
+
+// Limits of strays.
+const (
+	// strayShare is the largest share of the points, beyond the default
+	// tolerance, that may be dropped as strays (with strayMin at least).
+	strayShare = 0.01
+	strayMin   = 3
+	// strayNeighbours is how many nearest neighbours in the plane judge a
+	// point beyond the tolerance; their median distance from the plane
+	// must lie within half the tolerance.
+	strayNeighbours = 6
+)
+
+// strays returns the indices (into kept, the flattened points, whose 3D
+// originals are all, matched by origin order) of the points farther than
+// tol from the plane pl when they are few (at most strayShare of them,
+// or strayMin) and each one's strayNeighbours nearest neighbours in the
+// plane lie, by their median, within tol/2 of it; nil otherwise.
+func strays(kept []geometry.Vec3, keptO []geometry.Origin, all []geometry.Vec3, allO []geometry.Origin, pl geometry.Plane, tol float64) []int {
+	n := len(kept)
+	d := make([]float64, n)
+	j := 0
+	for i := range kept {
+		// The kept points are the originals in order, less those outside
+		// a band (none under the default tolerance): match by origin.
+		for j < len(all) && j < len(allO) && i < len(keptO) && allO[j] != keptO[i] {
+			j++
+		}
+		if j >= len(all) {
+			return nil
+		}
+		_, d[i] = mapTo(pl, all[j])
+		j++
+	}
+	var over []int
+	for i := range d {
+		if math.Abs(d[i]) > tol {
+			over = append(over, i)
+		}
+	}
+	if len(over) == 0 || len(over) > max(strayMin, int(strayShare*float64(n))) {
+		return nil
+	}
+	for _, i := range over {
+		p := kept[i]
+		type nb struct{ dist, off float64 }
+		var near []nb
+		for k := range kept {
+			if k == i {
+				continue
+			}
+			e := math.Hypot(kept[k].X-p.X, kept[k].Y-p.Y)
+			if len(near) < strayNeighbours || e < near[len(near)-1].dist {
+				near = append(near, nb{e, math.Abs(d[k])})
+				slices.SortFunc(near, func(a, b nb) int { return cmp.Compare(a.dist, b.dist) })
+				if len(near) > strayNeighbours {
+					near = near[:strayNeighbours]
+				}
+			}
+		}
+		offs := make([]float64, len(near))
+		for k, q := range near {
+			offs[k] = q.off
+		}
+		slices.Sort(offs)
+		if len(offs) == 0 || offs[len(offs)/2] > tol/2 {
+			return nil
+		}
+	}
+	return over
+}
+
+// dropStrays returns out without the points at indices drop (ascending),
+// each noted with its distance from the plane, and fl with the RMS, the
+// largest distance and the count of kept points measured again.
+func dropStrays(out *geometry.Cloud, fl Flatness, drop []int, pl geometry.Plane, c *geometry.Cloud, tol float64) (*geometry.Cloud, Flatness) {
+	// The 3D originals by origin, for the distances.
+	dist := make(map[geometry.Origin]float64, len(c.Points))
+	for i, p := range c.Points {
+		if i < len(c.Origins) {
+			_, dist[c.Origins[i]] = mapTo(pl, p)
+		}
+	}
+	gone := make(map[int]bool, len(drop))
+	for _, i := range drop {
+		gone[i] = true
+	}
+	res := *out
+	res.Points = make([]geometry.Vec3, 0, len(out.Points)-len(drop))
+	res.Origins = make([]geometry.Origin, 0, len(out.Points)-len(drop))
+	var notes geometry.Notes
+	res.Segments = nil
+	seg := map[int]bool{}
+	for _, s := range out.Segments {
+		seg[s] = true
+	}
+	var sum2 float64
+	fl.Max = 0
+	for i, p := range out.Points {
+		o := out.Origins[i]
+		if gone[i] {
+			notes.AddAt(o, fmt.Sprintf("out of the plane: %.4g from it, beyond the tolerance %.4g, with its neighbours within half of it (a stray point)", dist[o], tol), "")
+			fl.Strays = append(fl.Strays, Stray{Origin: o, Distance: dist[o]})
+			if seg[i] && i+1 < len(out.Points) {
+				seg[i+1] = true
+			}
+			continue
+		}
+		if seg[i] {
+			res.Segments = append(res.Segments, len(res.Points))
+		}
+		res.Points = append(res.Points, p)
+		res.Origins = append(res.Origins, o)
+		d := dist[o]
+		sum2 += d * d
+		fl.Max = max(fl.Max, math.Abs(d))
+	}
+	if len(res.Segments) <= 1 {
+		res.Segments = nil
+	}
+	res.Notes = append(append([]geometry.Note(nil), out.Notes...), notes.Kept()...)
+	fl.Kept = len(res.Points)
+
+	if fl.Kept > 0 {
+		fl.RMS = math.Sqrt(sum2 / float64(fl.Kept))
+	}
+	return &res, fl
 }

@@ -244,3 +244,54 @@ func TestFlattenSteppedPlane(t *testing.T) {
 		t.Errorf("warped: error %v, want ErrNotPlanar", err)
 	}
 }
+
+// TestFlattenStrays: a noisy scan in a plane with a few points thrown off
+// it alone (a speck the beam caught) is flattened with those points
+// dropped as strays, each listed; a smooth warp beyond the tolerance, and a
+// scan with too many points off the plane (2 %), are still refused.
+func TestFlattenStrays(t *testing.T) {
+	const n, sigma = 3000, 0.05 // a 100 mm thin ellipse, 0.05 mm noise
+	r := rand.New(rand.NewPCG(7, 13))
+	make3 := func(off map[int]float64, warp float64) *geometry.Cloud {
+		c := &geometry.Cloud{Dim: 3}
+		r := rand.New(rand.NewPCG(7, 13))
+		for i := range n {
+			a := 2 * math.Pi * r.Float64()
+			x, y := 50*math.Cos(a), 6*math.Sin(a)
+			z := 240 + sigma*r.NormFloat64() + off[i] + warp*(x/50)*(x/50)*(y/6)
+			c.Points = append(c.Points, geometry.Vec3{X: x, Y: y, Z: z})
+			c.Origins = append(c.Origins, geometry.Origin{File: "scan", Line: i + 1})
+		}
+		return c
+	}
+	few := map[int]float64{100: 1.5, 1700: -2, 2900: 1.2}
+	_, fl, err := Flatten(make3(few, 0), FlattenOptions{})
+	if err != nil {
+		t.Fatalf("a plane with %d strays refused: %v", len(few), err)
+	}
+	if len(fl.Strays) != len(few) {
+		t.Fatalf("strays %v, want lines 101, 1701, 2901", fl.Strays)
+	}
+	for _, st := range fl.Strays {
+		if want := few[st.Origin.Line-1]; math.Abs(st.Distance-want) > 5*sigma {
+			t.Errorf("stray at line %d: distance %g, want %g within the noise", st.Origin.Line, st.Distance, want)
+		}
+	}
+	if fl.Kept != n-len(few) || fl.Max > fl.Tolerance {
+		t.Errorf("kept %d (want %d), max %g beyond the tolerance %g", fl.Kept, n-len(few), fl.Max, fl.Tolerance)
+	}
+	if _, _, err := Flatten(make3(nil, 2), FlattenOptions{}); !errors.Is(err, ErrNotPlanar) {
+		t.Errorf("warped: error %v, want ErrNotPlanar", err)
+	}
+	many := map[int]float64{}
+	for len(many) < n/50 {
+		many[r.IntN(n)] = 1.5
+	}
+	if _, _, err := Flatten(make3(many, 0), FlattenOptions{}); !errors.Is(err, ErrNotPlanar) {
+		t.Errorf("%d points off the plane: error %v, want ErrNotPlanar", len(many), err)
+	}
+	// A tolerance the user gives is theirs: nothing is dropped.
+	if _, _, err := Flatten(make3(few, 0), FlattenOptions{Tolerance: 0.5}); !errors.Is(err, ErrNotPlanar) {
+		t.Errorf("given tolerance: error %v, want ErrNotPlanar", err)
+	}
+}

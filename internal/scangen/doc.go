@@ -42,7 +42,10 @@
 // 1959): the 4-digit thickness on the 230 mean line (m = 0.2025,
 // k₁ = 15.957) or another of the report's lines, plain or reflexed (the
 // reflexed constants from memory; the outline is the closed form of the
-// constants used, so the truth is exact either way). NACA 4-digit-modified
+// constants used, so the truth is exact either way), at most 24 % thick
+// as the family is tabulated (thick draws fold back to 18–24 %: thicker,
+// the outline of a 230 line bows the other way and cannot be told from
+// one measured upside down). NACA 4-digit-modified
 // sections (Abbott and von Doenhoff, §6.5): the leading-edge radius index
 // I from 2 to 9 (a nose radius from 0.1 to 2.3 times the 4-digit one), the
 // maximum thickness at 30–60 %, the trailing-edge slope of their table or,

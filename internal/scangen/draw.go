@@ -280,7 +280,20 @@ func (d drawer) shape(pRound float64) ShapeSpec {
 		}
 		s, blunt = ShapeSpec{Family: FamilyNACA, NACA: n}, !n.ClosedTE
 	case "naca5":
-		n := &NACA5Spec{L: 2, P: 3, Thickness: d.thickness(), ClosedTE: d.coin(0.5)}
+		// The 5-digit family is tabulated to 24 % thickness (Abbott and
+		// von Doenhoff, from memory). Thicker, its thickness laid off
+		// normal to the steep nose of its mean line makes the outline
+		// itself bow the other way: a NACA 23030 built right way up has
+		// its centroid below its chord line and its mean line (the
+		// surfaces' midpoints, or those corrected to first order for the
+		// construction) sagging down, so no reading of the points can
+		// tell it from one measured upside down. Thick draws are folded
+		// back to 18–24 %, keeping the random stream of every case.
+		t5 := d.thickness()
+		if t5 > 0.24 {
+			t5 = 0.24 - (t5-0.25)*0.4
+		}
+		n := &NACA5Spec{L: 2, P: 3, Thickness: t5, ClosedTE: d.coin(0.5)}
 		if d.coin(0.5) { // other lines than the 230
 			n.L, n.P = 1+d.rng.IntN(3), 1+d.rng.IntN(5)
 		}
