@@ -234,7 +234,7 @@ func clusterResidual(pts []geometry.Point, seq []int32, i int, ws []int, span, s
 			return g.d, reach, false
 		}
 		if !g.finish() {
-			continue // the outline turns too much over the window
+			continue
 		}
 		wide := math.Sqrt(1 + g.leverage)
 		return g.d, reach, g.d > thr*wide && g.d > sigma*g.scatter*wide && g.d > g.sag
@@ -277,9 +277,10 @@ type gap struct {
 // returns the distances of p and the supports from it (across the frame,
 // over the slope's secant) and their scatter; finish adds the rest. ok is
 // false when a support lies on the wrong side of the frame's middle or
-// runs backwards along it (the outline turns too much over the window for
-// a graph over it, or the window wraps round a thin edge), when p does not
-// project between the supports' centroids, or when the fit is singular.
+// runs backwards along it, or the fit turns by more than clusterTurn (the
+// outline turns too much over the window for a graph over it, or the
+// window wraps round a thin edge), when p does not project between the
+// supports' centroids, or when the fit is singular.
 func gapFit(sup []geometry.Point, k int, p geometry.Point) (gap, bool) {
 	var g gap
 	var cl, cr geometry.Point
@@ -329,6 +330,13 @@ func gapFit(sup []geometry.Point, k int, p geometry.Point) (gap, bool) {
 	if !ok {
 		return g, false
 	}
+	// The fitted outline may turn by at most clusterTurn between the
+	// supports' centroids: a window long beside the local radius of
+	// curvature (round a nose, over a trailing edge, a step a run makes
+	// with the surface) is not one a parabola spans.
+	if turn := math.Abs(math.Atan((cf[1]+2*cf[2])/half) - math.Atan((cf[1]-2*cf[2])/half)); turn > clusterTurn {
+		return g, false
+	}
 	g.a, g.cf, g.x0 = a, cf, x0
 	var ss float64
 	for _, q := range sup {
@@ -358,15 +366,10 @@ func (g *gap) dist(q geometry.Point) float64 {
 }
 
 // finish sets the leverage and the sagitta of the fit, which only a point
-// beyond the threshold needs; it returns false when the fitted outline
-// turns by more than clusterTurn between the supports' centroids (a window
-// long beside the local radius of curvature: round a nose, over a trailing
-// edge) or the leverage cannot be found.
+// beyond the threshold needs; it returns false when the leverage cannot be
+// found.
 func (g *gap) finish() bool {
 	cf, half := g.cf, g.half
-	if turn := math.Abs(math.Atan((cf[1]+2*cf[2])/half) - math.Atan((cf[1]-2*cf[2])/half)); turn > clusterTurn {
-		return false
-	}
 	b0 := [3]float64{1, g.x0, g.x0 * g.x0}
 	z, ok := numeric.Cramer3(g.a, b0, 1e-12)
 	if !ok {
