@@ -214,7 +214,7 @@ func clusterResidual(pts []geometry.Point, seq []int32, i int, ws []int, span, s
 		for j := range m {
 			sup = append(sup, at(w+1+j*(k-1)/(m-1)))
 		}
-		g, ok := gapFit(sup, m, p0)
+		g, ok := gapFit(sup, m, p0, thr)
 		if !ok {
 			continue
 		}
@@ -277,11 +277,11 @@ type gap struct {
 // returns the distances of p and the supports from it (across the frame,
 // over the slope's secant) and their scatter; finish adds the rest. ok is
 // false when a support lies on the wrong side of the frame's middle or
-// runs backwards along it, or the fit turns by more than clusterTurn (the
-// outline turns too much over the window for a graph over it, or the
-// window wraps round a thin edge), when p does not project between the
-// supports' centroids, or when the fit is singular.
-func gapFit(sup []geometry.Point, k int, p geometry.Point) (gap, bool) {
+// runs back along it by more than tol (input units), or the fit turns by
+// more than clusterTurn (the outline turns too much over the window for a
+// graph over it, or the window wraps round a thin edge), when p does not
+// project between the supports' centroids, or when the fit is singular.
+func gapFit(sup []geometry.Point, k int, p geometry.Point, tol float64) (gap, bool) {
 	var g gap
 	var cl, cr geometry.Point
 	for _, q := range sup[:k] {
@@ -305,8 +305,9 @@ func gapFit(sup []geometry.Point, k int, p geometry.Point) (gap, bool) {
 	}
 	// Both supports must run forward along the axis, as the loop runs: a
 	// window that wraps round a thin trailing edge has one support on
-	// each surface, running opposite ways.
-	if sup[k-1].Sub(sup[0]).Dot(u) <= 0 || sup[len(sup)-1].Sub(sup[k]).Dot(u) <= 0 {
+	// each surface, running opposite ways. Within a band the order across
+	// the scatter is arbitrary: a support may run back by up to tol.
+	if sup[k-1].Sub(sup[0]).Dot(u) < -tol || sup[len(sup)-1].Sub(sup[k]).Dot(u) < -tol {
 		return g, false
 	}
 	var a [3][3]float64
