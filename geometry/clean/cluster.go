@@ -277,7 +277,8 @@ type gap struct {
 // returns the distances of p and the supports from it (across the frame,
 // over the slope's secant) and their scatter; finish adds the rest. ok is
 // false when a support lies on the wrong side of the frame's middle or
-// runs back along it by more than tol (input units), or the fit turns by
+// runs back along it by more than tol (input units) or mostly back, or
+// the fit turns by
 // more than clusterTurn (the outline turns too much over the window for a
 // graph over it, or the window wraps round a thin edge), when p does not
 // project between the supports' centroids, or when the fit is singular.
@@ -306,9 +307,12 @@ func gapFit(sup []geometry.Point, k int, p geometry.Point, tol float64) (gap, bo
 	// Both supports must run forward along the axis, as the loop runs: a
 	// window that wraps round a thin trailing edge has one support on
 	// each surface, running opposite ways. Within a band the order across
-	// the scatter is arbitrary: a support may run back by up to tol.
-	if sup[k-1].Sub(sup[0]).Dot(u) < -tol || sup[len(sup)-1].Sub(sup[k]).Dot(u) < -tol {
-		return g, false
+	// the scatter is arbitrary: a support may run back by up to tol, as
+	// long as it runs across more than back.
+	for _, run := range [2]geometry.Point{sup[k-1].Sub(sup[0]), sup[len(sup)-1].Sub(sup[k])} {
+		if along := run.Dot(u); along < -tol || along < 0 && -along > 0.5*run.Norm() {
+			return g, false
+		}
 	}
 	var a [3][3]float64
 	var by [3]float64
