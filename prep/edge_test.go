@@ -2,11 +2,14 @@ package prep
 
 import (
 	"encoding/json"
+	"errors"
 	"math"
 	"testing"
 
+	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/accuracy"
 	"github.com/foilwright/foilwright/geometry/clean"
+	"github.com/foilwright/foilwright/geometry/frame"
 	"github.com/foilwright/foilwright/internal/scangen"
 )
 
@@ -40,6 +43,36 @@ func TestPrepareThinCamberedReadForwards(t *testing.T) {
 	}
 }
 
+// A 4 % thick NACA 4-digit section (Report 824 equations) whose open
+// edge was rounded with a radius of 0.0096 chord, five times its nose
+// radius (1.1019 t², Report 824): an invented voxel scan (internal/scangen
+// case 105172: 1758 points, irregular spacing, a sparse stretch). The
+// nose fitted the rounded-end model as well as the tail, and the section
+// was read backwards, its twist 180° off with a stated bound of 0.05°,
+// exit 0. Now the other end is analysed too when the end found is
+// rounded: the chain either refuses the section (a gate, exit 2) or reads
+// it forwards, never backwards within a bound that misses it.
+func TestPrepareRoundedTailBlunterThanNose(t *testing.T) {
+	const seed = 105172
+	scan, err := scangen.Generate(specOf(t, `{"category": "voxel", "shape": {"family": "naca4", "naca": {"camber": 0.05, "camber_pos": 0.6, "thickness": 0.04, "closed_te": false}, "round_radius": 0.009603747883600895}, "sampling": {"points": 1758, "sigma": 0.5553225268225682, "wave": 0.30076924139688554, "zone": "sparse", "zone_factor": 0.31223925999053803}, "noise": {"mm": 0.012931211964223258, "step_mm": 0.06147582819635124}, "defects": {"outliers": 0.011543013606797183}, "order": {"mode": "shuffled"}, "placement": {"chord_mm": 508.55635200209656, "twist_deg": 32.15336790595233, "orientation": "standard", "le_mm": [17.14660923343658, 3.501603644302122]}, "file": {"format": "tab", "units": "mm", "header": "units", "decimals": 3, "trailing_sep": true}}`), seed)
+	if err != nil {
+		t.Fatal(err)
+	}
+	p, err := Prepare("rounded-tail", []File{NewFile(scan.Name, scan.Data)}, Settings{})
+	if err != nil {
+		var ge *GateError
+		if !errors.As(err, &ge) {
+			t.Fatalf("refused, but not by a gate: %v", err)
+		}
+		return
+	}
+	fr, tr := p.Shape.Frame, scan.Truth
+	dt := math.Mod(math.Abs(fr.TwistDeg-tr.TwistDeg), 360)
+	if dt = min(dt, 360-dt); dt > max(0.2, p.Uncertainty.TwistDeg) {
+		t.Errorf("twist %.3f°, truth %.3f°: %.3g° off with a bound of %.3g°", fr.TwistDeg, tr.TwistDeg, dt, p.Uncertainty.TwistDeg)
+	}
+}
+
 // widenForEdge takes in what the points leave open at the end: the chord
 // up to the spread along it, the twist up to the spread across it over
 // the chord (an end 1 unit higher or lower at a chord of 100 turns the
@@ -54,6 +87,38 @@ func TestWidenForEdge(t *testing.T) {
 	widenForEdge(&u, &clean.Edge{Chord: 100, Spread: 0.5, SpreadAcross: 1})
 	widenForEdge(&u, nil)
 	if u.Chord != 2 || u.TwistDeg != 1 {
+		t.Errorf("narrowed to chord %g, twist %g°", u.Chord, u.TwistDeg)
+	}
+}
+
+// The surface's bound takes in SpreadSurface (chord units) likewise, and
+// a fit's own trailing edge that replaced the points' edge keeps the
+// points' edge in the bounds: its tip 3 units beyond the end the fit
+// found, 0.5 units above the chord line, with a spread of 1 along and 0.2
+// across, at a chord of 100 twisted by 90° (the chord runs along y),
+// widens the chord's bound to 3 + 1 and the twist's to atan(0.7/100).
+func TestWidenForRejectedEdge(t *testing.T) {
+	u := accuracy.Uncertainty{Chord: 0.1, TwistDeg: 0.1, Surface: 1e-3}
+	widenForEdge(&u, &clean.Edge{Chord: 100, SpreadSurface: 4e-3})
+	if u.Surface != 4e-3 {
+		t.Errorf("surface widened to %g, want 0.004", u.Surface)
+	}
+	fr := frame.Frame{Chord: 100, TwistDeg: -90, LE: [2]float64{10, 20}}
+	te := fr.ToPart(geometry.Point{X: 1}) // the end the fit found
+	if d := te.Dist(geometry.Point{X: 10, Y: 120}); d > 1e-9 {
+		t.Fatalf("frame: trailing edge at %v", te)
+	}
+	tip := fr.ToPart(geometry.Point{X: 1.03, Y: 0.005})
+	e := &clean.Edge{Kind: clean.EdgeSharp, Chord: 100, Upper: tip, Lower: tip, Spread: 1, SpreadAcross: 0.2}
+	u = accuracy.Uncertainty{Chord: 0.1, TwistDeg: 0.1}
+	widenForRejectedEdge(&u, e, fr)
+	if math.Abs(u.Chord-4) > 1e-9 || math.Abs(u.TwistDeg-math.Atan(0.007)*180/math.Pi) > 1e-9 {
+		t.Errorf("widened to chord %g, twist %g°; want 4, %g°", u.Chord, u.TwistDeg, math.Atan(0.007)*180/math.Pi)
+	}
+	u = accuracy.Uncertainty{Chord: 9, TwistDeg: 5}
+	widenForRejectedEdge(&u, e, fr)
+	widenForRejectedEdge(&u, nil, fr)
+	if u.Chord != 9 || u.TwistDeg != 5 {
 		t.Errorf("narrowed to chord %g, twist %g°", u.Chord, u.TwistDeg)
 	}
 }

@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"math"
 	"strings"
+	"sync/atomic"
 
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/accuracy"
@@ -17,6 +18,7 @@ import (
 	"github.com/foilwright/foilwright/geometry/props"
 	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/internal/digest"
+	"github.com/foilwright/foilwright/internal/par"
 	"github.com/foilwright/foilwright/repanel"
 )
 
@@ -226,34 +228,35 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 		}
 		return nil, fmt.Errorf("%s: %w", where, err)
 	}
+	// The section's uncertainty (its replicas refitted and normalised)
+	// needs only the curve, the fit and the shape: it is estimated on the
+	// second core while this one repanels and checks the gates, and not at
+	// all when the gates fail before it has begun.
 	rp := panelOptions(s)
-	nodes, le, dev, err := p.repanel(rp)
+	var nodes []geometry.Point
+	var le int
+	var dev float64
+	var failed atomic.Bool
+	par.For(2, 2, func(_, k int) {
+		if k == 1 {
+			if !failed.Load() {
+				p.Uncertainty = accuracy.Estimate(p.Curve, p.Fit, p.Shape, accuracy.Options{Edges: eo})
+			}
+			return
+		}
+		if nodes, le, dev, err = p.shaped(rp, s, where); err != nil {
+			failed.Store(true)
+		}
+	})
 	if err != nil {
 		return nil, err
 	}
-	// The noise of the points widens the arc of the leading-edge circle so
-	// that noise left in the curve does not upset the radius (0 for exact
-	// points, which are interpolated).
-	po := props.Options{Thickness: s.ThicknessMode, Camber: s.CamberMode, Noise: p.Fit.NoiseEstimate / p.Shape.Frame.Chord}
-	if _, err := section.CheckNodes(nodes); err == nil {
-		if p.Props, p.Camber, err = props.Compute(p.Shape.Path, p.Shape.SLE, po); err != nil {
-			if errors.Is(err, props.ErrNotNormalized) {
-				// The section found does not span the chord from its
-				// leading edge to both ends: a gate, so that the other
-				// ways are tried.
-				return nil, spanGate(p, err)
-			}
-			return nil, fmt.Errorf("%s: %w", where, err)
-		}
-	}
-	if g := p.checkGates(nodes, le); g != nil {
-		return nil, g
-	}
-	p.Quality = repanel.Measure(nodes)
-	p.Uncertainty = accuracy.Estimate(p.Curve, p.Fit, p.Shape, accuracy.Options{Edges: eo})
 	if useEdge {
 		widenForEdge(&p.Uncertainty, cl.Clean.Edge)
+	} else {
+		widenForRejectedEdge(&p.Uncertainty, cl.Clean.Edge, p.Shape.Frame)
 	}
+	widenForPasses(&p.Uncertainty, cl.Clean.Passes, p.Shape.Frame.Chord)
 	var edgeWarning string
 	if c := p.Shape.Frame.Chord; p.Uncertainty.Chord > wideChord*c {
 		// The replicas' share of the chord's bound is the noise's, a few
@@ -266,6 +269,7 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 	if edgeWarning != "" {
 		p.Section.Warnings = append(p.Section.Warnings, edgeWarning)
 	}
+	p.Section.Warnings = append(p.Section.Warnings, passWarnings(cl.Clean.Passes, cl.Units)...)
 	p.Section.Warnings = append(p.Section.Warnings, accuracy.Gaps(p.Contour, p.Fit, p.Curve, p.Shape)...)
 	p.Section.Panels.Deviation = dev
 	if rp.Panels == 0 {
@@ -278,6 +282,37 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 		}
 	}
 	return p, nil
+}
+
+// shaped repanels the normalised section, computes its properties and
+// checks the gates, and sets the repanelled nodes' quality: it returns
+// the nodes, the index of the leading-edge node and the panels' deviation
+// from the curve.
+func (p *Preparation) shaped(rp repanel.Options, s Settings, where string) ([]geometry.Point, int, float64, error) {
+	nodes, le, dev, err := p.repanel(rp)
+	if err != nil {
+		return nil, 0, 0, err
+	}
+	// The noise of the points widens the arc of the leading-edge circle so
+	// that noise left in the curve does not upset the radius (0 for exact
+	// points, which are interpolated).
+	po := props.Options{Thickness: s.ThicknessMode, Camber: s.CamberMode, Noise: p.Fit.NoiseEstimate / p.Shape.Frame.Chord}
+	if _, err := section.CheckNodes(nodes); err == nil {
+		if p.Props, p.Camber, err = props.Compute(p.Shape.Path, p.Shape.SLE, po); err != nil {
+			if errors.Is(err, props.ErrNotNormalized) {
+				// The section found does not span the chord from its
+				// leading edge to both ends: a gate, so that the other
+				// ways are tried.
+				return nil, 0, 0, spanGate(p, err)
+			}
+			return nil, 0, 0, fmt.Errorf("%s: %w", where, err)
+		}
+	}
+	if g := p.checkGates(nodes, le); g != nil {
+		return nil, 0, 0, g
+	}
+	p.Quality = repanel.Measure(nodes)
+	return nodes, le, dev, nil
 }
 
 // fit fits the smoothing spline to the cleaned contour, with the noise and
@@ -336,7 +371,9 @@ const wideChord = 0.005
 // lie at different heights across the chord (the tip of an arc and the
 // midpoint of a base through the same last points, on a cambered end),
 // and the chord line turns with the one chosen: the twist's bound is at
-// least that height over the chord (clean.Edge.SpreadAcross).
+// least that height over the chord (clean.Edge.SpreadAcross), and the
+// surface's at least how far their outlines lie apart
+// (clean.Edge.SpreadSurface).
 func widenForEdge(u *accuracy.Uncertainty, e *clean.Edge) {
 	if e == nil {
 		return
@@ -346,6 +383,28 @@ func widenForEdge(u *accuracy.Uncertainty, e *clean.Edge) {
 	}
 	if a := e.SpreadAcross; a > 0 && e.Chord > 0 && !math.IsInf(a, 0) {
 		u.TwistDeg = math.Max(u.TwistDeg, math.Atan(a/e.Chord)*180/math.Pi)
+	}
+	if s := e.SpreadSurface; s > u.Surface && !math.IsInf(s, 0) {
+		u.Surface = s
+	}
+}
+
+// widenForRejectedEdge widens the bounds of a section whose fit found
+// its own trailing edge after the one found on the points failed a gate:
+// the points still say the section may end there (the surfaces' corner
+// beyond the last points, say), so the chord's bound reaches that edge's
+// tip and its spread, and the twist's the tip's height over the chord.
+func widenForRejectedEdge(u *accuracy.Uncertainty, e *clean.Edge, fr frame.Frame) {
+	if e == nil || e.Kind == clean.EdgeRounded || !(fr.Chord > 0) {
+		return
+	}
+	tip := fr.ToChord(e.Upper.Add(e.Lower).Scale(0.5))
+	along, across := math.Abs(tip.X-1)*fr.Chord, math.Abs(tip.Y)*fr.Chord
+	if d := along + e.Spread; d > u.Chord && !math.IsInf(d, 0) && !math.IsNaN(d) {
+		u.Chord = d
+	}
+	if a := across + e.SpreadAcross; a > 0 && !math.IsInf(a, 0) && !math.IsNaN(a) {
+		u.TwistDeg = math.Max(u.TwistDeg, math.Atan(a/fr.Chord)*180/math.Pi)
 	}
 }
 

@@ -3,11 +3,11 @@ package accuracy
 import (
 	"math"
 	"math/rand/v2"
-	"sync"
 
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/curve"
 	"github.com/foilwright/foilwright/geometry/frame"
+	"github.com/foilwright/foilwright/internal/par"
 )
 
 // Uncertainty holds 95 % bounds on the error of a section against the
@@ -80,34 +80,40 @@ func Estimate(cv *curve.Curve, rep *curve.FitReport, nz *frame.Normalized, opts 
 		}
 		return ref.compare(z)
 	}
-	// Replicas, on two goroutines; replica k has its own seed, so the
-	// result does not depend on the split.
-	var noise []deltas
-	if rep.ReplicaNoise() > 0 {
-		noise = make([]deltas, opts.Replicas)
-		var wg sync.WaitGroup
-		run := func(k0 int) {
-			for k := k0; k < opts.Replicas; k += 2 {
-				rng := rand.New(rand.NewPCG(opts.Seed, uint64(k)+1))
-				c, err := rep.Replica(rng)
-				if err != nil {
-					continue
-				}
-				noise[k] = measure(c)
-			}
-		}
-		wg.Go(func() { run(1) })
-		run(0)
-		wg.Wait()
-	}
+	// The replicas and the fits of every second point (below), on two
+	// goroutines, each taking the next fit as it finishes one; replica k
+	// has its own seed, so the result does not depend on the split.
+	//
 	// The fits of every second point show what the spacing leaves
 	// unknown between the points (all an interpolating fit does not
 	// know), and take a second look at the noise, from the real
 	// residuals, where the sampling is irregular or sparse.
+	replicas := 0
+	if rep.ReplicaNoise() > 0 {
+		replicas = opts.Replicas
+	}
+	fits := make([]deltas, replicas+2)
+	fitted := make([]bool, replicas+2)
+	par.For(replicas+2, 2, func(_, k int) {
+		if k < replicas {
+			rng := rand.New(rand.NewPCG(opts.Seed, uint64(k)+1))
+			if c, err := rep.Replica(rng); err == nil {
+				fits[k] = measure(c)
+			}
+			return
+		}
+		if c, err := rep.Half(k - replicas); err == nil {
+			fits[k], fitted[k] = measure(c), true
+		}
+	})
+	var noise []deltas
+	if replicas > 0 {
+		noise = fits[:replicas]
+	}
 	var half []deltas
-	for phase := 0; phase < 2; phase++ {
-		if c, err := rep.Half(phase); err == nil {
-			half = append(half, measure(c))
+	for k := replicas; k < replicas+2; k++ {
+		if fitted[k] {
+			half = append(half, fits[k])
 		}
 	}
 	rn, rh := rms(noise), rms(half)

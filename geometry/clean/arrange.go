@@ -7,6 +7,7 @@ import (
 	"strings"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/internal/par"
 )
 
 // Ordering strategies, as Report.Strategy names them.
@@ -133,7 +134,23 @@ func (cl *cleaning) arrange(opts Options, sigma float64) (*attempt, error) {
 			return finish(a)
 		}
 	}
-	loops, rest := cl.linkLoops()
+	// Linking and the section order read the points and their neighbours
+	// only, and neither needs the other: they run at once on two cores,
+	// the section order's attempt kept for its turn below (unused when
+	// linking finds several walls and its loop passes).
+	var loops, rest [][]int32
+	var sect *attempt
+	if opts.Loop == 0 {
+		par.For(2, 2, func(_, k int) {
+			if k == 0 {
+				sect = cl.bySection(opts, sigma)
+			} else {
+				loops, rest = cl.linkLoops()
+			}
+		})
+	} else {
+		loops, rest = cl.linkLoops()
+	}
 	walls := substantial(cl.pts, loops, cl.diag)
 	if walls > 1 || opts.Loop > 0 {
 		a := cl.evaluate(OrderLinked, loops, rest, opts, sigma, localFits{}, true)
@@ -145,8 +162,8 @@ func (cl *cleaning) arrange(opts Options, sigma float64) (*attempt, error) {
 		}
 	}
 	if opts.Loop == 0 {
-		if a := cl.bySection(opts, sigma); pass(a) {
-			return finish(a)
+		if pass(sect) {
+			return finish(sect)
 		}
 		if walls == 1 {
 			if a := cl.evaluate(OrderLinked, loops, rest, opts, sigma, localFits{}, true); pass(a) {
@@ -349,6 +366,7 @@ func (cl *cleaning) byBandLoops(opts Options, sigma float64) *attempt {
 func (cl *cleaning) bySection(opts Options, sigma float64) *attempt {
 	pts := cl.pts
 	sel := dense(pts, cl.nb)
+	ws := spacingWeights(pts, cl.nb)
 	// Isolated points wait outside the loop, to be put back, dropped as
 	// outliers or as strays by where they lie from it.
 	rest := outside(len(pts), sel)
@@ -359,11 +377,11 @@ func (cl *cleaning) bySection(opts Options, sigma float64) *attempt {
 	// points near the edge for the edge's models.
 	var a *attempt
 	for pass := range 2 {
-		f, ok := sectionFrame(pts, sel)
+		f, ok := sectionFrame(pts, sel, ws)
 		if !ok {
 			return &attempt{strategy: OrderSection, fail: "no thin end: the points do not look like a section"}
 		}
-		seq, sc := sectionOrder(pts, sel, f)
+		seq, sc := sectionOrder(pts, sel, f, ws)
 		if edgeTrace != nil {
 			edgeTrace("section pass %d le %v te %v", pass, f.le, f.te)
 			for k, i := range seq {
@@ -405,7 +423,7 @@ func (cl *cleaning) bySection(opts Options, sigma float64) *attempt {
 				// surface: their place is the section order's.
 				kept := slices.Clone(a.seq)
 				slices.Sort(kept)
-				a.seq, sc = sectionOrder(pts, kept, f)
+				a.seq, sc = sectionOrder(pts, kept, f, ws)
 			}
 			if bandLike(pts, a.seq, a.scale) {
 				// A band: the points are ordered by their feet on the
@@ -420,9 +438,38 @@ func (cl *cleaning) bySection(opts Options, sigma float64) *attempt {
 }
 
 // dense returns the points whose fourth nearest neighbour is no farther
-// than six times the median such distance: isolated points (gross
-// outliers) are left out of the chord frame.
+// than six times the median such distance, and the points of sparse runs:
+// isolated points (gross outliers) are left out of the chord frame.
+//
+// A surface probed with a step 5–20 times coarser than the other's (a CMM
+// program in two passes) has every point that far from its fourth
+// neighbour, and it is no outlier: such points that are each other's near
+// neighbours form a run along the outline (sparseRuns), whereas a gross
+// outlier, or a burst of a few, stays within a few spacings of itself.
 func dense(pts []geometry.Point, nb *nbrs) []int32 {
+	d := fourthNeighbour(pts, nb)
+	med := median(slices.Clone(d))
+	lim := 6 * med
+	far := make([]bool, len(pts))
+	for i, v := range d {
+		far[i] = !(v <= lim)
+	}
+	keep := sparseRuns(pts, nb, far, sparseReach*med)
+	var sel []int32
+	for i, v := range d {
+		if v <= lim || keep[i] {
+			sel = append(sel, int32(i))
+		}
+	}
+	if len(sel) < minPoints {
+		return allNeighbours(len(pts))
+	}
+	return sel
+}
+
+// fourthNeighbour returns, by point index, the distance of each point to
+// its fourth nearest neighbour (+Inf when it has fewer).
+func fourthNeighbour(pts []geometry.Point, nb *nbrs) []float64 {
 	d := make([]float64, len(pts))
 	for i := range pts {
 		row := nb.of(int32(i))
@@ -432,17 +479,98 @@ func dense(pts []geometry.Point, nb *nbrs) []int32 {
 		}
 		d[i] = fastDist(pts[i], pts[row[3]])
 	}
-	lim := 6 * median(slices.Clone(d))
-	var sel []int32
-	for i, v := range d {
-		if v <= lim {
-			sel = append(sel, int32(i))
+	return d
+}
+
+// spacingWeights returns, by point index, the length of outline each point
+// stands for: its fourth-neighbour distance, or a smaller one of its four
+// nearest neighbours' (an outlier or a burst of a few, off a finely probed
+// surface, stands for no more than the surface's points beside it). Counts
+// of points weighted so measure length along the outline, whatever the
+// step: a surface probed ten times more coarsely than the other weighs as
+// much as it.
+func spacingWeights(pts []geometry.Point, nb *nbrs) []float64 {
+	d := fourthNeighbour(pts, nb)
+	w := make([]float64, len(pts))
+	for i := range pts {
+		v := d[i]
+		row := nb.of(int32(i))
+		for _, q := range row[:min(4, len(row))] {
+			v = min(v, d[q])
+		}
+		if math.IsInf(v, 1) {
+			v = 0
+		}
+		w[i] = v
+	}
+	return w
+}
+
+// sparseReach is the least extent, in median fourth-neighbour distances,
+// of a run of far-spaced points that counts as a stretch of outline: a
+// burst of outliers is a few points at the local spacing (a run of more
+// than four is no longer far-spaced: its own points are its neighbours),
+// a coarsely probed surface spans a good part of the chord.
+const sparseReach = 8
+
+// sparseRuns marks the points of far (by point index) that belong to a
+// run of far points linked through their four nearest neighbours whose
+// extent (the diagonal of its bounding box) is at least reach.
+func sparseRuns(pts []geometry.Point, nb *nbrs, far []bool, reach float64) []bool {
+	n := len(pts)
+	parent := make([]int32, n)
+	for i := range parent {
+		parent[i] = int32(i)
+	}
+	var find func(i int32) int32
+	find = func(i int32) int32 {
+		for parent[i] != i {
+			parent[i] = parent[parent[i]]
+			i = parent[i]
+		}
+		return i
+	}
+	any := false
+	for i := range n {
+		if !far[i] {
+			continue
+		}
+		any = true
+		row := nb.of(int32(i))
+		for _, q := range row[:min(4, len(row))] {
+			if far[q] {
+				if a, b := find(int32(i)), find(q); a != b {
+					parent[a] = b
+				}
+			}
 		}
 	}
-	if len(sel) < minPoints {
-		return allNeighbours(len(pts))
+	keep := make([]bool, n)
+	if !any {
+		return keep
 	}
-	return sel
+	type box struct{ lo, hi geometry.Point }
+	boxes := make(map[int32]*box)
+	for i := range n {
+		if !far[i] {
+			continue
+		}
+		r := find(int32(i))
+		b := boxes[r]
+		if b == nil {
+			boxes[r] = &box{pts[i], pts[i]}
+			continue
+		}
+		b.lo = geometry.Point{X: min(b.lo.X, pts[i].X), Y: min(b.lo.Y, pts[i].Y)}
+		b.hi = geometry.Point{X: max(b.hi.X, pts[i].X), Y: max(b.hi.Y, pts[i].Y)}
+	}
+	for i := range n {
+		if far[i] {
+			b := boxes[find(int32(i))]
+			keep[i] = b.hi.Dist(b.lo) >= reach
+		}
+	}
+	return keep
 }
 
 // insideShare returns the share of up to eight points of loop l, evenly

@@ -124,6 +124,9 @@ type Report struct {
 	// median point spacing so that exact coordinates lose nothing), input
 	// units.
 	Sigma float64
+	// Passes lists the passes of a probe program that measured a stretch
+	// twice and disagree there by more than the noise (see PassOffset).
+	Passes []PassOffset
 }
 
 // Clean merges duplicates, orders the cloud into loops, picks the section
@@ -262,6 +265,7 @@ func Clean(c *geometry.Cloud, opts Options) (*geometry.Contour, *Report, error) 
 			}
 		}
 	}
+	rep.Passes = passOffsets(cl.pts, cl.src, seq, c.Origins, rep.Sigma)
 	ct := cl.contour(seq)
 	if a.feet != nil {
 		ct.Along = alongFeet(cl.pts, seq, a.feet, a.hasFeet)

@@ -52,6 +52,14 @@ type Edge struct {
 	// the chord line, and with it the twist, turns by that much over the
 	// chord. 0 when the points decide.
 	SpreadAcross float64
+	// SpreadSurface is how far (chord units) the outline of the end stated
+	// may lie from that of another model the points cannot tell from it
+	// (a base's corners from an arc they square off, a base from the
+	// surfaces run on to a corner beyond it, with the stretch of the
+	// chord between them): a bound on the surface's error there that the
+	// replicas of the fit, which keep the end stated, do not see. 0 when
+	// the points decide.
+	SpreadSurface float64
 }
 
 // edgePlausible is the score difference (−2 ln of a likelihood ratio of
@@ -98,6 +106,8 @@ type endModel struct {
 	// spread, spreadY: see Edge.Spread and Edge.SpreadAcross (chord
 	// units), set on the winner.
 	spread, spreadY float64
+	// spreadS: see Edge.SpreadSurface (chord units), set on the winner.
+	spreadS float64
 	// tipLo, tipHi: the range of the trailing edge's station over the
 	// positions of this kind of end (the bases or arcs tried) that score
 	// within edgePlausible of this one, when tips says they were measured.
@@ -211,26 +221,46 @@ func (m *endModel) side(u, l quadFit, p geometry.Point, scat float64) int {
 	return 0
 }
 
-// scoreOf sets m.score: the misfits of the zone points in scatters,
-// squared and capped at edgeCap (common practice for a robust loss).
-func (m *endModel) scoreOf(u, l quadFit, z []geometry.Point, scat float64) {
-	m.score = m.misfit(u, l, z, scat, edgeCap, nil) + m.extra
+// scoreOf sets m.score: the misfits of the zone points in scatters (zs,
+// see misfit), squared and capped at edgeCap (common practice for a
+// robust loss).
+func (m *endModel) scoreOf(u, l quadFit, z []geometry.Point, scat float64, zs []float64) {
+	m.score = m.misfit(u, l, z, scat, edgeCap, nil, zs) + m.extra
 }
 
 // misfit returns the sum of the squared misfits of the points z in
 // scatters, each capped at limit scatters, leaving out the points marked
-// in skip (nil: none).
-func (m *endModel) misfit(u, l quadFit, z []geometry.Point, scat, limit float64, skip []bool) float64 {
+// in skip (nil: none). The scatter of point j is zs[j] (nil: scat for
+// all).
+func (m *endModel) misfit(u, l quadFit, z []geometry.Point, scat, limit float64, skip []bool, zs []float64) float64 {
 	var s float64
 	for j, p := range z {
 		if skip != nil && skip[j] {
 			continue
 		}
+		sc := scat
+		if zs != nil {
+			sc = zs[j]
+		}
 		d, _ := m.miss(u, l, p)
-		r := min(d/scat, limit)
+		r := min(d/sc, limit)
 		s += r * r
 	}
 	return s
+}
+
+// zoneScatter returns the scatter of each zone point about a model of the
+// end: the points' own and the error of the surfaces' fits carried to
+// its station (a new point misses a least-squares fit by both, common
+// practice), so that fits carried far beyond their points do not turn
+// the surfaces' own uncertainty into misfits that decide the end.
+func (f endFits) zoneScatter(z []geometry.Point, scat float64) []float64 {
+	zs := make([]float64, len(z))
+	for j, p := range z {
+		e := max(f.eu.se(p.X), f.el.se(p.X))
+		zs[j] = math.Sqrt(scat*scat + e*e)
+	}
+	return zs
 }
 
 // roundEnd returns the rounded end of radius r tangent to the surfaces u
@@ -367,12 +397,15 @@ const edgeOutlier = 6
 // scatter of good data. The scatter is the larger of sigma and
 // those fits' own. Three models of the end then compete for the points of
 // the zone, each scored by the sum of their squared misfits in scatters,
-// capped at edgeCap (so that no single point decides):
+// capped at edgeCap (so that no single point decides); a point's scatter
+// takes in the error of the fits carried to its station (zoneScatter):
 //
 //   - sharp: the surfaces run on to where their fits cross. A corner that
-//     no point sampled is allowed only within reach of the last points
+//     no point sampled is stated only within reach of the last points
 //     (edgeReach local steps), or where the surfaces end within the
-//     scatter of each other; otherwise the surfaces must have ended apart.
+//     scatter of each other; otherwise the surfaces must have ended apart
+//     (a corner beyond reach still counts among the plausible ends for
+//     the spreads).
 //   - blunt: the surfaces run to a base across the chord at some x (the
 //     best of edgeBases positions about the aftmost point), which joins
 //     them; a lone point on it is a base point.
@@ -396,6 +429,16 @@ func findEdge(pts []geometry.Point, seq []int32, sigma float64) (edgeFound, bool
 	}
 	r, ok := findEdgeIn(pts, seq, sigma, f)
 	if ok && r.misfit <= edgePoor {
+		// A rounded end may be a nose (a thin section whose rounded
+		// trailing edge is blunter than its nose is as wide near its nose
+		// as near its tail): the other end is analysed too, and when a
+		// model explains its points better, with surfaces that parabolas
+		// fit more closely (a nose's do not), it is the trailing edge.
+		if r.edge.Kind == EdgeRounded {
+			if r2, ok2 := findEdgeIn(pts, seq, sigma, newChordFrame(f.te, f.le)); ok2 && r2.misfit < r.misfit && r2.scat < r.scat {
+				return r2, true
+			}
+		}
 		return r, true
 	}
 	// No model of the end explains the points of the end the widths
@@ -482,7 +525,7 @@ const gapSteps = 4
 // end anywhere from a base through the aftmost point (xmax) to the corner
 // where the surfaces, carried on, meet, whatever the scores say (a missed
 // stretch of the outline is no sample of the end).
-func (m *endModel) openEnd(u, l quadFit, xmax, ratio float64) bool {
+func (m *endModel) openEnd(u, l quadFit, xa, xmax, ratio float64) bool {
 	if !(ratio > edgeGapK) {
 		return false
 	}
@@ -490,10 +533,24 @@ func (m *endModel) openEnd(u, l quadFit, xmax, ratio float64) bool {
 	widen := func(x, y float64) {
 		m.spread = max(m.spread, math.Abs(x-bx))
 		m.spreadY = max(m.spreadY, math.Abs(y-by))
+		o := endModel{kind: EdgeSharp, xu: x, xl: x, corner: geometry.Point{X: x, Y: y}}
+		if x <= xmax {
+			o = endModel{kind: EdgeBlunt, xu: x, xl: x, lo: geometry.Point{X: x, Y: l.at(x)}, hi: geometry.Point{X: x, Y: u.at(x)}}
+		}
+		m.spreadS = max(m.spreadS, m.apart(o, u, l, xa))
 	}
 	widen(xmax, (u.at(xmax)+l.at(xmax))/2)
 	if xc, ok := crossing(u, l, xmax, xmax, xmax+edgeCross); ok {
 		widen(xc, u.at(xc))
+	}
+	// Surfaces that straighten towards the edge, as most do, meet no
+	// nearer than the fits' curvature says and no farther than their
+	// tangents at the last points do.
+	sep, slope := u.at(xmax)-l.at(xmax), (u.c[1]-l.c[1])+2*(u.c[2]-l.c[2])*xmax
+	if sep > 0 && slope < 0 {
+		if xt := xmax + sep/-slope; xt <= xmax+edgeCross {
+			widen(xt, u.at(xmax)+(u.c[1]+2*u.c[2]*xmax)*(xt-xmax))
+		}
 	}
 	if edgeTrace != nil {
 		edgeTrace("open end: gap %.3g mean steps, spread %.4g across %.4g", ratio, m.spread, m.spreadY)
@@ -590,7 +647,7 @@ func findEdgeIn(pts []geometry.Point, seq []int32, sigma float64, f chordFrame) 
 			return edgeFound{seq: seq}, false
 		}
 		scat = max(sigma/f.chord, us, ls, 1e-9)
-		m, o, ok := chooseEnd(u, l, z, xmax, step, pstep, scat)
+		m, o, ok := chooseEnd(endFits{u: u, l: l, eu: newFitSpread(xs, uidx, scat), el: newFitSpread(xs, lidx, scat)}, z, xmax, step, pstep, scat)
 		if !ok {
 			return edgeFound{seq: seq}, false
 		}
@@ -634,21 +691,27 @@ func findEdgeIn(pts []geometry.Point, seq []int32, sigma float64, f chordFrame) 
 	}
 	if u2, _ := fitScatter(xs, ys, coreU); u2.ok {
 		if l2, _ := fitScatter(xs, ys, coreL); l2.ok {
-			if m, o, ok := chooseEnd(u2, l2, z, xmax, step, pstep, scat); ok && m.score < best.score {
+			if m, o, ok := chooseEnd(endFits{u: u2, l: l2, eu: newFitSpread(xs, coreU, scat), el: newFitSpread(xs, coreL, scat)}, z, xmax, step, pstep, scat); ok && m.score < best.score {
 				best, out, u, l = m, o, u2, l2
 			}
 		}
 	}
 	r, ok := best.apply(pts, seq, f, u, l, zpos, z, out, scat, step)
-	if ok && best.openEnd(u, l, xmax, r.gapRatio) {
-		r.edge.Spread, r.edge.SpreadAcross = best.spread*f.chord, best.spreadY*f.chord
+	xa := xmax
+	for _, p := range z {
+		xa = min(xa, p.X)
+	}
+	if ok && best.openEnd(u, l, xa, xmax, r.gapRatio) {
+		r.edge.Spread, r.edge.SpreadAcross, r.edge.SpreadSurface = best.spread*f.chord, best.spreadY*f.chord, best.spreadS
 	}
 	return r, ok
 }
 
 // chooseEnd fits the three end models to the zone points z and returns the
 // winner (see findEdge).
-func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, pstep, scat float64) (endModel, []bool, bool) {
+func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64) (endModel, []bool, bool) {
+	u, l := fits.u, fits.l
+	zs := fits.zoneScatter(z, scat)
 	pen := 2 * math.Log(float64(len(z))+2)
 	// Every model's outline is measured from the foremost zone station on
 	// (the part all share is the same length in each).
@@ -656,7 +719,7 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, pstep, scat float64
 	for _, p := range z {
 		xa = min(xa, p.X)
 	}
-	var models []endModel
+	var models, alts []endModel
 	// Sharp.
 	sepEnd := u.at(xmax) - l.at(xmax)
 	if xc, ok := crossing(u, l, xmax, xmax-edgeZone, xmax+edgeCross); ok {
@@ -675,18 +738,23 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, pstep, scat float64
 			}
 		}
 		lastU, lastL := lastOn(z, u, l, xc)
+		m := endModel{kind: EdgeSharp, xu: xc, xl: xc, corner: c}
+		if !sampled(z, c, 2*scat) {
+			// A corner no point sampled: the surfaces' last points
+			// end at the same chord station only by chance (as the
+			// stations of a drawing end at a blunt base whose corners
+			// they sample, never short of a corner).
+			m.extra = coincidence(math.Abs(lastU.X-lastL.X)+scat, pstep)
+		}
+		m.extra += gapDeviance(m.path(u, l, xa), pstep)
+		m.scoreOf(u, l, z, scat, zs)
 		if c.Dist(lastU)+c.Dist(lastL) <= edgeReach*step+lastU.Dist(lastL)+2*scat || sepEnd <= 2*scat {
-			m := endModel{kind: EdgeSharp, xu: xc, xl: xc, corner: c}
-			if !sampled(z, c, 2*scat) {
-				// A corner no point sampled: the surfaces' last points
-				// end at the same chord station only by chance (as the
-				// stations of a drawing end at a blunt base whose corners
-				// they sample, never short of a corner).
-				m.extra = coincidence(math.Abs(lastU.X-lastL.X)+scat, pstep)
-			}
-			m.extra += gapDeviance(m.path(u, l, xa), pstep)
-			m.scoreOf(u, l, z, scat)
 			models = append(models, m)
+		} else {
+			// Beyond reach of the last points the corner is not stated,
+			// but where the points leave it as likely as the end stated
+			// (a stretch at the end left unsampled), the bounds cover it.
+			alts = append(alts, m)
 		}
 	}
 	if sepEnd <= edgeCap*scat {
@@ -704,7 +772,7 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, pstep, scat float64
 		// The surfaces' fits end sepEnd apart, each half of it off the
 		// corner they share: a misfit of the fits' ends, in scatters.
 		m.extra = gapDeviance(m.path(u, l, xa), pstep) + 2*sq(sepEnd/2/scat)
-		m.scoreOf(u, l, z, scat)
+		m.scoreOf(u, l, z, scat, zs)
 		models = append(models, m)
 	}
 	// Blunt: bases about the aftmost point, and beyond it by up to two
@@ -728,7 +796,7 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, pstep, scat float64
 			m.extra += coincidence(math.Abs(lastU.X-lastL.X)+scat, pstep)
 		}
 		m.extra += gapDeviance(m.path(u, l, xa), pstep)
-		m.scoreOf(u, l, z, scat)
+		m.scoreOf(u, l, z, scat, zs)
 		cands = append(cands, m)
 		if bestB == nil || m.score < bestB.score {
 			bestB = &m
@@ -744,7 +812,7 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, pstep, scat float64
 	// one at its tip (a point a angle θ round an arc of radius r lies
 	// r(1 − cos θ) short of it). The best of a grid of tips is refined by
 	// golden-section search between its neighbours.
-	if bestR := roundBest(u, l, z, xmax, xa, step, pstep, scat, max(sepEnd, 0), pen); bestR != nil {
+	if bestR := roundBest(u, l, z, zs, xmax, xa, step, pstep, scat, max(sepEnd, 0), pen); bestR != nil {
 		models = append(models, *bestR)
 	}
 	if len(models) == 0 {
@@ -765,7 +833,7 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, pstep, scat float64
 		}
 	}
 	for k := range models {
-		models[k].score = models[k].misfit(u, l, z, scat, edgeOutlier, out) + models[k].extra
+		models[k].score = models[k].misfit(u, l, z, scat, edgeOutlier, out, zs) + models[k].extra
 	}
 	// A rounded end with fewer than edgeArcMin points on its arc must beat
 	// a blunt one by edgeEvidence: an end sampled by a point or two fits a
@@ -812,14 +880,27 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, pstep, scat float64
 		}
 	}
 	best := models[bk]
-	for _, m := range models {
+	for k := range alts {
+		alts[k].score = alts[k].misfit(u, l, z, scat, edgeOutlier, out, zs) + alts[k].extra
+	}
+	for _, m := range append(models, alts...) {
 		if m.score <= best.score+edgePlausible {
-			bx := best.tipX()
+			bx, by := best.tipX(), best.tipY()
 			best.spread = max(best.spread, math.Abs(m.tipX()-bx))
-			best.spreadY = max(best.spreadY, math.Abs(m.tipY()-best.tipY()))
+			best.spreadY = max(best.spreadY, math.Abs(m.tipY()-by))
 			if m.tips {
 				// The positions of its kind the points leave open.
 				best.spread = max(best.spread, math.Abs(m.tipLo-bx), math.Abs(m.tipHi-bx))
+			}
+			best.spreadS = max(best.spreadS, best.apart(m, u, l, xa))
+			if m.kind == EdgeSharp {
+				// How far on the surfaces' fits, within their own
+				// uncertainty, may meet.
+				x, y := fits.cornerReach(m.corner.X, max(step, pstep))
+				best.spread = max(best.spread, math.Abs(x-bx))
+				best.spreadY = max(best.spreadY, math.Abs(y-by))
+				far := endModel{kind: EdgeSharp, xu: x, xl: x, corner: geometry.Point{X: x, Y: y}}
+				best.spreadS = max(best.spreadS, best.apart(far, u, l, xa))
 			}
 		}
 	}
@@ -832,10 +913,154 @@ func chooseEnd(u, l quadFit, z []geometry.Point, xmax, step, pstep, scat float64
 	return best, out, true
 }
 
+// apart returns how far the outline of the end m lies from that of the
+// end o at most, once each is normalised by its own chord (scaled by
+// 1/tip station: the leading edge stays at x = 0): the larger distance
+// of a point of either from the other, both on the surfaces u and l from
+// the station xa on (of the shorter; the same normalised station of the
+// longer). The stretch of the chord between them moves the
+// surfaces near the edge along themselves, across the other's by their
+// slope.
+func (m *endModel) apart(o endModel, u, l quadFit, xa float64) float64 {
+	// Both from the same normalised station on.
+	s0 := xa / min(m.tipX(), o.tipX())
+	a, b := m.outline(u, l, s0*m.tipX()), o.outline(u, l, s0*o.tipX())
+	return max(polyApart(a, b), polyApart(b, a))
+}
+
+// polyApart returns the largest distance of a point of the pieces a from
+// the pieces b (each a polyline).
+func polyApart(a, b [][]geometry.Point) float64 {
+	var d float64
+	for _, pa := range a {
+		for _, p := range pa {
+			e := math.Inf(1)
+			for _, pb := range b {
+				for k := 1; k < len(pb); k++ {
+					e = min(e, segmentDist(p, pb[k-1], pb[k]))
+				}
+			}
+			d = max(d, e)
+		}
+	}
+	return d
+}
+
+// outline returns the model's outline from the station xa on, as three
+// polylines (the upper surface to its end, the piece that joins the
+// surfaces, the lower surface to its end), normalised by the model's own
+// chord: scaled by 1/tipX.
+func (m *endModel) outline(u, l quadFit, xa float64) [][]geometry.Point {
+	const k = 16
+	g := 1 / m.tipX()
+	var up, end, lo []geometry.Point
+	for j := 0; j <= k; j++ {
+		f := float64(j) / k
+		xu, xl := xa+(m.xu-xa)*f, xa+(m.xl-xa)*f
+		up = append(up, geometry.Point{X: xu, Y: u.at(xu)}.Scale(g))
+		lo = append(lo, geometry.Point{X: xl, Y: l.at(xl)}.Scale(g))
+		switch m.kind {
+		case EdgeSharp:
+			if j == 0 {
+				end = append(end, m.corner.Scale(g))
+			}
+		case EdgeBlunt:
+			end = append(end, m.lo.Add(m.hi.Sub(m.lo).Scale(f)).Scale(g))
+		default:
+			al := math.Atan2(m.tl.Y-m.centre.Y, m.tl.X-m.centre.X)
+			au := math.Atan2(m.tu.Y-m.centre.Y, m.tu.X-m.centre.X)
+			a := al + (au-al)*f
+			end = append(end, m.centre.Add(geometry.Point{X: math.Cos(a), Y: math.Sin(a)}.Scale(m.r)).Scale(g))
+		}
+	}
+	// The joining piece meets the surfaces' ends.
+	end = append(append([]geometry.Point{lo[k]}, end...), up[k])
+	return [][]geometry.Point{up, end, lo}
+}
+
+// endFits are the fits of the surfaces near the end and what they leave
+// unknown.
+type endFits struct {
+	u, l   quadFit
+	eu, el fitSpread
+}
+
+// fitSpread holds what a least-squares parabola leaves unknown where it
+// is carried on: the normal matrix of its points' stations (about x = 1)
+// and the scatter s about it. The standard error of its value at x is
+// s·√(vᵀ A⁻¹ v), v = (1, x − 1, (x − 1)²) (the error of a least-squares
+// prediction, common practice).
+type fitSpread struct {
+	a  [3][3]float64
+	s  float64
+	ok bool
+}
+
+// newFitSpread returns the fitSpread of a parabola fitted to the points
+// idx (chord coordinates xs) that scatter by s.
+func newFitSpread(xs []float64, idx []int, s float64) fitSpread {
+	var f fitSpread
+	for _, i := range idx {
+		d := xs[i] - 1
+		v := [3]float64{1, d, d * d}
+		for r := range 3 {
+			for c := range 3 {
+				f.a[r][c] += v[r] * v[c]
+			}
+		}
+	}
+	f.s, f.ok = s, len(idx) >= 3
+	return f
+}
+
+// se returns the standard error of the fit's value at x (0 when unknown).
+func (f fitSpread) se(x float64) float64 {
+	if !f.ok {
+		return 0
+	}
+	d := x - 1
+	v := [3]float64{1, d, d * d}
+	z, ok := solve3(f.a, v)
+	if !ok {
+		return 0
+	}
+	q := v[0]*z[0] + v[1]*z[1] + v[2]*z[2]
+	return f.s * math.Sqrt(max(q, 0))
+}
+
+// cornerReach returns the farthest station, and the height there midway
+// between the fits, at which the surfaces may meet when their crossing
+// (or the corner put at the aftmost point) is xc: where their separation,
+// carried on along its slope there, closes to within √edgePlausible
+// standard errors of the fits (a 95 % statement, as edgePlausible), and
+// at most (or, where the fits have crossed already, so that they say
+// nothing of it, just) edgeOpen steps h beyond xc (h the spacing along the surfaces
+// there: across a thin edge the last points of the two surfaces lie
+// closer than that).
+func (f endFits) cornerReach(xc, h float64) (x, y float64) {
+	sep := f.u.at(xc) - f.l.at(xc)
+	slope := (f.u.c[1] - f.l.c[1]) + 2*(f.u.c[2]-f.l.c[2])*xc
+	sd := math.Hypot(f.eu.se(xc), f.el.se(xc))
+	d := edgeOpen * h
+	// Fits already crossed at xc (the corner put at the aftmost point of a
+	// thin edge) say nothing of how far on the surfaces meet.
+	if slope < 0 && sep >= 0 {
+		d = min(d, max(0, (sep+math.Sqrt(edgePlausible)*sd)/-slope))
+	}
+	x = xc + d
+	return x, (f.u.at(x) + f.l.at(x)) / 2
+}
+
+// edgeOpen is how many end spacings beyond the stated end a corner the
+// fits cannot place may lie: leaving twice that much more outline
+// unsampled costs edgePlausible in gapDeviance (4·d/step), so a corner
+// farther on is less likely than the plausible ends by more than that.
+const edgeOpen = edgePlausible / 4
+
 // roundBest returns the best scored rounded end whose tip lies between
 // 3 scatters short of xmax and a step beyond it (at least a scatter), nil
 // when no arc fits; rmax is the largest radius tried.
-func roundBest(u, l quadFit, z []geometry.Point, xmax, xa, step, pstep, scat, rmax, pen float64) *endModel {
+func roundBest(u, l quadFit, z []geometry.Point, zs []float64, xmax, xa, step, pstep, scat, rmax, pen float64) *endModel {
 	if !(rmax > 0) {
 		return nil
 	}
@@ -846,7 +1071,7 @@ func roundBest(u, l quadFit, z []geometry.Point, xmax, xa, step, pstep, scat, rm
 			return m, false
 		}
 		m.extra = pen + gapDeviance(m.path(u, l, xa), pstep)
-		m.scoreOf(u, l, z, scat)
+		m.scoreOf(u, l, z, scat, zs)
 		return m, true
 	}
 	var best *endModel
@@ -1111,7 +1336,7 @@ func (m endModel) apply(pts []geometry.Point, seq []int32, f chordFrame, u, l qu
 		out = append(out, seq[zpos[p.k]])
 	}
 	gr := endGap(pts, out, len(upper), len(lower)+len(end), f.point(m.tipX(), m.tipY()))
-	e := Edge{Kind: m.kind, Chord: f.chord, Spread: m.spread * f.chord, SpreadAcross: m.spreadY * f.chord}
+	e := Edge{Kind: m.kind, Chord: f.chord, Spread: m.spread * f.chord, SpreadAcross: m.spreadY * f.chord, SpreadSurface: m.spreadS}
 	switch m.kind {
 	case EdgeSharp:
 		e.Why = "the surfaces, fitted near the edge, meet in a corner"
@@ -1191,7 +1416,7 @@ func (m endModel) found(loop []int32, e Edge, pts []geometry.Point, seq []int32,
 			kept++
 		}
 	}
-	r.misfit = m.misfit(u, l, z, scat, edgeOutlier, out) / float64(max(kept, 1))
+	r.misfit = m.misfit(u, l, z, scat, edgeOutlier, out, nil) / float64(max(kept, 1))
 	r.scat = scat
 	for j, k := range zpos {
 		r.zone = append(r.zone, seq[k])

@@ -1,6 +1,7 @@
 package clean
 
 import (
+	"cmp"
 	"math"
 	"slices"
 
@@ -69,30 +70,77 @@ func farthestPair(pts []geometry.Point, sel []int32) (a, b int32) {
 }
 
 // endWidth returns the width across the chord of the points of sel (in
-// chord coordinates xs, ys) whose x lies in [lo, hi]: the spread between
-// the 10 % and 90 % quantiles of their y, or −1 when fewer than 4 points
-// lie there.
-func endWidth(xs, ys []float64, lo, hi float64) float64 {
-	var in []float64
+// chord coordinates xs, ys, each standing for the length ws of outline;
+// nil: alike) whose x lies in [lo, hi]: the spread between the 10 % and
+// 90 % quantiles of their y by that length, or −1 when fewer than 4 points
+// lie there. Quantiles by length, not by count, keep a surface probed far
+// more coarsely than the other in the width.
+func endWidth(xs, ys, ws []float64, lo, hi float64) float64 {
+	var in []weighted
 	for i, x := range xs {
 		if x >= lo && x <= hi {
-			in = append(in, ys[i])
+			in = append(in, weighted{ys[i], weightOf(ws, i)})
 		}
 	}
 	if len(in) < 4 {
 		return -1
 	}
-	slices.Sort(in)
-	k := len(in) / 10
-	return in[len(in)-1-k] - in[k]
+	a, b := trimmed(in, 0.1)
+	return in[b].v - in[a].v
+}
+
+// weighted is a value with the length of outline it stands for.
+type weighted struct{ v, w float64 }
+
+// weightOf returns ws[i], or 1 when ws is nil.
+func weightOf(ws []float64, i int) float64 {
+	if ws == nil {
+		return 1
+	}
+	return ws[i]
+}
+
+// trimmed sorts vs by value and returns the first and last positions left
+// when a share q of the total weight is trimmed off each end: with equal
+// weights, the positions len/10 and len−1−len/10 for q = 0.1 (n·q rounded
+// down points trimmed each end). Weights that sum to nothing count alike.
+func trimmed(vs []weighted, q float64) (a, b int) {
+	slices.SortStableFunc(vs, func(x, y weighted) int { return cmp.Compare(x.v, y.v) })
+	n := len(vs)
+	var tot float64
+	for _, v := range vs {
+		tot += v.w
+	}
+	if !(tot > 0) || math.IsInf(tot, 0) {
+		k := int(q * float64(n))
+		return k, n - 1 - k
+	}
+	// A point is trimmed when the weight before it and its own lie wholly
+	// within the share: with equal weights, ⌊n·q⌋ points, as a count.
+	cut := q * tot * (1 + 1e-12)
+	var acc float64
+	for a = 0; a < n-1; a++ {
+		if acc+vs[a].w > cut {
+			break
+		}
+		acc += vs[a].w
+	}
+	acc = 0
+	for b = n - 1; b > a; b-- {
+		if acc+vs[b].w > cut {
+			break
+		}
+		acc += vs[b].w
+	}
+	return a, b
 }
 
 // sectionFrame returns the coarse chord frame of the points sel: the ends
 // of the farthest pair, the nose being the end where the body is wider
 // between 2 % and 10 % of the chord inwards (a trailing edge is the thin
 // end). ok is false when neither end can be judged.
-func sectionFrame(pts []geometry.Point, sel []int32) (chordFrame, bool) {
-	return sectionFrameUpTo(pts, sel, 0.1)
+func sectionFrame(pts []geometry.Point, sel []int32, ws []float64) (chordFrame, bool) {
+	return sectionFrameWeighted(pts, sel, ws, 0.1)
 }
 
 // sectionFrameUpTo is sectionFrame with windows that widen up to
@@ -100,14 +148,27 @@ func sectionFrame(pts []geometry.Point, sel []int32) (chordFrame, bool) {
 // points. Only a loop already found to be the section may widen them
 // (the trailing-edge analysis): an open arc of few points would pass.
 func sectionFrameUpTo(pts []geometry.Point, sel []int32, reach float64) (chordFrame, bool) {
+	return sectionFrameWeighted(pts, sel, nil, reach)
+}
+
+// sectionFrameWeighted is sectionFrameUpTo with each point standing for
+// the length ws[i] (by point index; nil: alike) of outline in the widths.
+func sectionFrameWeighted(pts []geometry.Point, sel []int32, ws []float64, reach float64) (chordFrame, bool) {
 	a, b := farthestPair(pts, sel)
 	f := newChordFrame(pts[a], pts[b])
 	if !(f.chord > 0) {
 		return f, false
 	}
 	xs, ys := make([]float64, len(sel)), make([]float64, len(sel))
+	var sw []float64
+	if ws != nil {
+		sw = make([]float64, len(sel))
+	}
 	for k, i := range sel {
 		xs[k], ys[k] = f.at(pts[i])
+		if ws != nil {
+			sw[k] = ws[i]
+		}
 	}
 	// Wider windows, the same at both ends, for sparse points (the
 	// stations of a drawing, 20 a surface).
@@ -116,7 +177,7 @@ func sectionFrameUpTo(pts []geometry.Point, sel []int32, reach float64) (chordFr
 		if h > reach+1e-9 {
 			break
 		}
-		wa, wb = endWidth(xs, ys, 0.02, h), endWidth(xs, ys, 1-h, 0.98)
+		wa, wb = endWidth(xs, ys, sw, 0.02, h), endWidth(xs, ys, sw, 1-h, 0.98)
 		if wa >= 0 && wb >= 0 {
 			break
 		}
@@ -168,35 +229,36 @@ func (c camberLine) at(x float64) float64 {
 // spread of the values on either side of it. The middles are then smoothed by a robust running
 // line (Tukey's biweight, three rounds, common practice), which sets aside
 // bins that a missing stretch left one-sided.
-func camber(xs, ys []float64) camberLine {
+func camber(xs, ys, ws []float64) camberLine {
 	n := len(xs)
 	nb := min(max(n/12, 8), 64)
-	bins := make([][]float64, nb)
+	bins := make([][]weighted, nb)
 	for i, x := range xs {
 		if x < 0 || x > 1 {
 			continue
 		}
 		k := min(int(x*float64(nb)), nb-1)
-		bins[k] = append(bins[k], ys[i])
+		bins[k] = append(bins[k], weighted{ys[i], weightOf(ws, i)})
 	}
 	var bx, by []float64
 	for k, b := range bins {
 		if len(b) < 4 {
 			continue
 		}
-		slices.Sort(b)
-		t := len(b) / 10
-		lo, hi := t, len(b)-1-t
+		// Trimmed by the length of outline the points stand for, so that
+		// the points of a surface probed far more coarsely than the other
+		// are not all trimmed off as the extremes.
+		lo, hi := trimmed(b, 0.1)
 		gap, mid, at := -1.0, 0.0, 0
 		for j := lo; j < hi; j++ {
-			if g := b[j+1] - b[j]; g > gap {
-				gap, mid, at = g, (b[j+1]+b[j])/2, j
+			if g := b[j+1].v - b[j].v; g > gap {
+				gap, mid, at = g, (b[j+1].v+b[j].v)/2, j
 			}
 		}
 		// Both surfaces must be there: the gap between them wider than the
 		// spread of either (a missing stretch leaves one surface alone, and
 		// the largest gap in it is a gap along it).
-		if gap < 0 || gap <= b[at]-b[lo] || gap <= b[hi]-b[at+1] {
+		if gap < 0 || gap <= b[at].v-b[lo].v || gap <= b[hi].v-b[at+1].v {
 			continue
 		}
 		bx = append(bx, (float64(k)+0.5)/float64(nb))
@@ -500,13 +562,20 @@ func robustQuad(xs, ys []float64, idx []int, x0 float64) quadFit {
 // along the chord than their scatter may swap, which a fit does not see.
 // The loop starts in the tail cap, at the first point past the tail's
 // direction, and runs counter-clockwise.
-func sectionOrder(pts []geometry.Point, sel []int32, f chordFrame) ([]int32, *sectionCoords) {
+func sectionOrder(pts []geometry.Point, sel []int32, f chordFrame, ws []float64) ([]int32, *sectionCoords) {
 	n := len(sel)
 	xs, ys := make([]float64, n), make([]float64, n)
+	var sw []float64
+	if ws != nil {
+		sw = make([]float64, n)
+	}
 	for k, i := range sel {
 		xs[k], ys[k] = f.at(pts[i])
+		if ws != nil {
+			sw[k] = ws[i]
+		}
 	}
-	cl := camber(xs, ys)
+	cl := camber(xs, ys, sw)
 	upper := make([]bool, n)
 	for k := range n {
 		upper[k] = ys[k] >= cl.at(xs[k])

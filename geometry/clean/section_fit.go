@@ -21,6 +21,19 @@ const (
 // scanner's reflection) is a minority of the window.
 const sectionWindow = 8
 
+// surfaceSpan is the largest distance along the chord, as a share of a
+// point's distance from the nose, of the neighbours of the shorter of the
+// two fits between the caps (see fitAt): a surface's curvature grows
+// towards the nose as the distance from it shrinks, and on a surface probed
+// far more coarsely than the other sectionWindow points span half the
+// chord, over which a parabola misses the good points near the nose by
+// more than any noise.
+const surfaceSpan = 0.5
+
+// shortMin is the number of nearest neighbours on each side that the
+// shorter window keeps whatever their distance.
+const shortMin = 2
+
 // capSpan is the largest place difference (in the units of the section
 // order's u, where a cap spans 1, i.e. 180°) of the neighbours of a
 // point's fit in a cap: the radius about the cap's centre turns quickly
@@ -124,8 +137,17 @@ func (sc *sectionCoords) fitAt(seq []int32, i int) (v0, slope float64, ok bool) 
 	if g == regionNone {
 		return 0, 0, false
 	}
-	k := 0
+	// Between the caps a second, shorter window is sized by the local
+	// feature size (see shortWindow): near holds, by position in ts, the
+	// neighbours within it.
+	reach := math.Inf(1)
+	if g == regionUpper || g == regionLower {
+		reach = surfaceSpan * max(sc.t[p], noseCap)
+	}
+	var near [2 * sectionWindow]bool
+	k, short := 0, 0
 	for _, dir := range [2]int{-1, 1} {
+		side := 0
 		for s := 1; s <= sectionWindow && s < n/2; s++ {
 			q := seq[((i+dir*s)%n+n)%n]
 			if sc.spared != nil && sc.spared[q] {
@@ -135,7 +157,12 @@ func (sc *sectionCoords) fitAt(seq []int32, i int) (v0, slope float64, ok bool) 
 				break
 			}
 			ts[k], vs[k], ids[k] = sc.t[q]-sc.t[p], sc.v[q], q
+			if side < shortMin || math.Abs(ts[k]) <= reach {
+				near[k] = true
+				short++
+			}
 			k++
+			side++
 		}
 	}
 	if k < 4 {
@@ -153,6 +180,23 @@ func (sc *sectionCoords) fitAt(seq []int32, i int) (v0, slope float64, ok bool) 
 		return f[0], f[1], true
 	}
 	v0, slope = robustParabola(ts[:k], vs[:k])
+	if short >= 4 && short < k {
+		// The shorter window's fit where it lies nearer the point: a good
+		// point where a coarse step spreads the window over a stretch
+		// that curves more than a parabola follows is matched by it; a
+		// gross outlier, never in its own fit, is off both.
+		var st, sv [2 * sectionWindow]float64
+		m := 0
+		for j := range k {
+			if near[j] {
+				st[m], sv[m] = ts[j], vs[j]
+				m++
+			}
+		}
+		if w0, w1 := robustParabola(st[:m], sv[:m]); math.Abs(sc.v[p]-w0) < math.Abs(sc.v[p]-v0) {
+			v0, slope = w0, w1
+		}
+	}
 	sc.memoK[p] = -1
 	if fits {
 		for j, q := range ids[:k] {

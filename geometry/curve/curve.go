@@ -521,11 +521,15 @@ func (c *Curve) Transform(m [2][2]float64, b geometry.Point) *Curve {
 		for i := range ts {
 			ts[i] *= f
 		}
+		// f⁻ᵏ for k = 1, 2, 3, the same for every piece.
+		var p [4]float64
+		for k := 1; k < 4; k++ {
+			p[k] = math.Pow(f, -float64(k))
+		}
 		for i := range xs {
 			for k := 1; k < 4; k++ {
-				p := math.Pow(f, -float64(k))
-				xs[i][k] *= p
-				ys[i][k] *= p
+				xs[i][k] *= p[k]
+				ys[i][k] *= p[k]
 			}
 		}
 	}

@@ -9,6 +9,7 @@ import (
 
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/internal/numeric"
+	"github.com/foilwright/foilwright/internal/par"
 )
 
 // Fit methods, as reported in FitReport.Method and the section document.
@@ -482,9 +483,17 @@ func Fit(c *geometry.Contour, opts FitOptions) (*Curve, *FitReport, error) {
 	}
 	// The scatter sets the scale at which corners are sought; it is not
 	// needed when interpolating exactly.
+	// With the trailing edge given it is only reported, and is measured on
+	// a second core while the fit goes on.
 	var scatter float64
+	var scatterTask *par.Task
 	if !opts.Exact {
-		scatter = localScatter(c.Points)
+		if opts.Edge != nil {
+			scatterTask = par.Start(func() { scatter = localScatter(c.Points) })
+			defer scatterTask.Wait()
+		} else {
+			scatter = localScatter(c.Points)
+		}
 	}
 	var ends trailingEnds
 	if opts.Edge != nil {
@@ -492,7 +501,6 @@ func Fit(c *geometry.Contour, opts FitOptions) (*Curve, *FitReport, error) {
 	} else {
 		ends = detectEnds(c.Points, opts.Ends, scatter)
 	}
-	rep0Scatter := scatter
 
 	pts, knot, along, err := fitOrder(c, ends, perim)
 	if err != nil {
@@ -518,7 +526,7 @@ func Fit(c *geometry.Contour, opts FitOptions) (*Curve, *FitReport, error) {
 			ws[0], ws[m-1] = 0.5, 0.5
 		}
 	}
-	rep := &FitReport{Ends: FitEndsClosed, Scatter: rep0Scatter}
+	rep := &FitReport{Ends: FitEndsClosed} // Scatter is set at the end
 	if ends.open {
 		rep.Ends = FitEndsOpen
 	}
@@ -625,6 +633,10 @@ func Fit(c *geometry.Contour, opts FitOptions) (*Curve, *FitReport, error) {
 	}
 	finishReport(c, opts, len(pts), rep)
 	rep.resampler = st.final
+	if scatterTask != nil {
+		scatterTask.Wait()
+	}
+	rep.Scatter = scatter
 	return cv, rep, nil
 }
 
@@ -859,8 +871,7 @@ func originOf(c *geometry.Contour, i int) geometry.Origin {
 // medianStep returns the median parameter step of p (the point spacing).
 func medianStep(p *splineProblem) float64 {
 	hs := append([]float64(nil), p.hs...)
-	slices.Sort(hs)
-	return hs[len(hs)/2]
+	return numeric.Nth(hs, len(hs)/2)
 }
 
 // minimise returns the λ that minimises crit(log λ) over [lo, hi] (or
@@ -872,15 +883,21 @@ func minimise(crit func(float64) float64, lo, hi, hint, hintSpan float64) float6
 
 // minimiseLog scans crit on a grid over [lo, hi] and refines the best
 // sample by golden-section search. atEdge reports that the weakest
-// smoothing tried was best.
+// smoothing tried was best. The grid's samples are independent and are
+// taken on two cores: crit must be safe to call from two goroutines at
+// once (a spline problem's fits are).
 func minimiseLog(crit func(float64) float64, lo, hi, hint, hintSpan float64) (ll float64, atEdge bool) {
 	grid := 20
 	if hint > 0 {
 		lo, hi, grid = math.Log(hint)-hintSpan, math.Log(hint)+hintSpan, 6
 	}
+	vals := make([]float64, grid+1)
+	par.For(grid+1, 2, func(_, k int) {
+		vals[k] = crit(lo + (hi-lo)*float64(k)/float64(grid))
+	})
 	best, bestV := 0, math.Inf(1)
-	for k := 0; k <= grid; k++ {
-		if v := crit(lo + (hi-lo)*float64(k)/float64(grid)); v < bestV {
+	for k, v := range vals {
+		if v < bestV {
 			best, bestV = k, v
 		}
 	}
@@ -950,8 +967,7 @@ func robustSigma(rs []float64) float64 {
 	for i, r := range rs {
 		a[i] = math.Abs(r)
 	}
-	slices.Sort(a)
-	return 1.4826 * a[len(a)/2]
+	return 1.4826 * numeric.Nth(a, len(a)/2)
 }
 
 // smoothState is what the rounds of Fit share: the verdict of the

@@ -2,8 +2,9 @@ package curve
 
 import (
 	"math"
-	"slices"
 	"sort"
+
+	"github.com/foilwright/foilwright/internal/numeric"
 )
 
 // This file holds the two-scale sampling test: what the points themselves
@@ -231,11 +232,11 @@ func absFinite(vs []float64) []float64 {
 	return out
 }
 
-// median returns the median of vs (which it sorts); 0 for none.
+// median returns the median of vs (the upper middle of an even count;
+// vs is reordered); 0 for none.
 func median(vs []float64) float64 {
 	if len(vs) == 0 {
 		return 0
 	}
-	slices.Sort(vs)
-	return vs[len(vs)/2]
+	return numeric.Nth(vs, len(vs)/2)
 }

@@ -2,7 +2,6 @@ package curve
 
 import (
 	"math"
-	"slices"
 
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/internal/numeric"
@@ -81,6 +80,5 @@ func localScatter(pts []geometry.Point) float64 {
 	if len(rs) == 0 {
 		return 0
 	}
-	slices.Sort(rs)
-	return 1.4826 * rs[len(rs)/2]
+	return 1.4826 * numeric.Nth(rs, len(rs)/2)
 }

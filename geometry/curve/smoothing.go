@@ -4,6 +4,8 @@ import (
 	"math"
 	"slices"
 	"sort"
+
+	"github.com/foilwright/foilwright/internal/par"
 )
 
 // This file holds how much the fit smooths, and where.
@@ -81,14 +83,16 @@ func featureScales(cv *Curve, s []float64, open bool) []float64 {
 	// The tangent angle, unwrapped, on a grid of arc length.
 	ng := max(8*len(s), 1024)
 	ds := L / float64(ng)
+	// The directions, on two cores in chunks, then unwrapped in order.
 	th := make([]float64, ng+1)
-	for k := 0; k <= ng; k++ {
-		t := cv.Tangent(ds * float64(k))
-		a := math.Atan2(t.Y, t.X)
-		if k > 0 {
-			a = th[k-1] + math.Remainder(a-th[k-1], 2*math.Pi)
+	chunks(ng+1, func(lo, hi int) {
+		for k := lo; k < hi; k++ {
+			t := cv.Tangent(ds * float64(k))
+			th[k] = math.Atan2(t.Y, t.X)
 		}
-		th[k] = a
+	})
+	for k := 1; k <= ng; k++ {
+		th[k] = th[k-1] + math.Remainder(th[k]-th[k-1], 2*math.Pi)
 	}
 	total := th[ng] - th[0] // 2π for a closed loop turning once
 	angle := func(x float64) float64 {
@@ -112,21 +116,39 @@ func featureScales(cv *Curve, s []float64, open bool) []float64 {
 		sizes = append(sizes, a)
 	}
 	out := make([]float64, len(s))
-	for i, si := range s {
-		// T is the smallest window such that every window from it up to
-		// tmax turns by turnAngle or more. The turn of a bump (noise, an
-		// outlier the pilot followed) comes back over a window that holds
-		// it all, so it never sets T; a nose's turn only grows with the
-		// window.
-		out[i] = tmax
-		for _, a := range sizes {
-			if math.Abs(angle(si+a/2)-angle(si-a/2)) < turnAngle {
-				break
+	chunks(len(s), func(lo, hi int) {
+		for i := lo; i < hi; i++ {
+			si := s[i]
+			// T is the smallest window such that every window from it up
+			// to tmax turns by turnAngle or more. The turn of a bump
+			// (noise, an outlier the pilot followed) comes back over a
+			// window that holds it all, so it never sets T; a nose's turn
+			// only grows with the window.
+			out[i] = tmax
+			for _, a := range sizes {
+				if math.Abs(angle(si+a/2)-angle(si-a/2)) < turnAngle {
+					break
+				}
+				out[i] = a
 			}
-			out[i] = a
 		}
-	}
+	})
 	return out
+}
+
+// chunks calls f on consecutive ranges [lo, hi) that cover [0, n), on two
+// cores (par.For) when n is large enough to pay for it: for loops whose
+// iterations are independent and write only their own index.
+func chunks(n int, f func(lo, hi int)) {
+	const minChunk = 512
+	k := min(8, n/minChunk)
+	if k < 2 {
+		f(0, n)
+		return
+	}
+	par.For(k, 2, func(_, c int) {
+		f(c*n/k, (c+1)*n/k)
+	})
 }
 
 // featureStep is the ratio of successive windows featureScales tries.
@@ -358,92 +380,103 @@ func localNoise(xs, ys, s, T, c []float64, period float64) (sigma, tau float64, 
 		k := ((j % m) + m) % m
 		return s[k] + period*math.Floor(float64(j)/float64(m)), k
 	}
+	// Each point's window and fit on its own, on two cores in chunks; the
+	// standardised offsets are gathered in order after.
 	raw := make([]float64, m)
+	stdAt := make([]float64, m)
+	hasStd := make([]bool, m)
+	chunks(m, func(i0, i1 int) {
+		for i := i0; i < i1; i++ {
+			a := noiseWindow * T[i]
+			lo, hi := i, i
+			for {
+				grew := false
+				if (closed || lo > 0) && i-lo < m/2 {
+					if p, _ := pos(lo - 1); s[i]-p <= a || i-lo < noiseMinSide {
+						lo--
+						grew = true
+					}
+				}
+				if (closed || hi < m-1) && hi-i < m/2 {
+					if p, _ := pos(hi + 1); p-s[i] <= a || hi-i < noiseMinSide {
+						hi++
+						grew = true
+					}
+				}
+				if !grew || hi-lo >= noiseMaxPoints {
+					break
+				}
+			}
+			if hi-lo < 2*noiseMinSide {
+				raw[i] = math.NaN()
+				continue
+			}
+			_, klo := pos(lo)
+			_, khi := pos(hi)
+			dx, dy := xs[khi]-xs[klo], ys[khi]-ys[klo]
+			l := math.Hypot(dx, dy)
+			if l == 0 {
+				raw[i] = math.NaN()
+				continue
+			}
+			dx, dy = dx/l, dy/l
+			// Normal equations of v = c₀ + c₁u + c₂u² + c₃u³, u scaled by l.
+			// The sums of the products of (1, u, u², u³) taken in pairs, each
+			// formed once (x·y = y·x in floating point, and 1·y = y, so these
+			// are the sums of the full 4×4 loop, added in the same order).
+			var a00, a01, a02, a03, a11, a12, a13, a22, a23, a33 float64
+			var b0, b1, b2, b3 float64
+			var ui, vi float64
+			for j := lo; j <= hi; j++ {
+				_, k := pos(j)
+				px, py := xs[k]-xs[klo], ys[k]-ys[klo]
+				u := (px*dx + py*dy) / l
+				v := dx*py - dy*px
+				if j == i {
+					ui, vi = u, v
+				}
+				u2 := u * u
+				u3 := u2 * u
+				b0 += v
+				b1 += u * v
+				b2 += u2 * v
+				b3 += u3 * v
+				a00++
+				a01 += u
+				a02 += u2
+				a03 += u3
+				a11 += u * u
+				a12 += u * u2
+				a13 += u * u3
+				a22 += u2 * u2
+				a23 += u2 * u3
+				a33 += u3 * u3
+			}
+			ata := [4][4]float64{{a00, a01, a02, a03}, {a01, a11, a12, a13}, {a02, a12, a22, a23}, {a03, a13, a23, a33}}
+			atb := [4]float64{b0, b1, b2, b3}
+			coef, inv, ok := solve4(ata, atb)
+			if !ok {
+				raw[i] = math.NaN()
+				continue
+			}
+			x := [4]float64{1, ui, ui * ui, ui * ui * ui}
+			var fit, lev float64
+			for r := range 4 {
+				fit += coef[r] * x[r]
+				for q := range 4 {
+					lev += x[r] * inv[r][q] * x[q]
+				}
+			}
+			raw[i] = vi - fit
+			if c[i] >= 1 && lev < 1 {
+				stdAt[i], hasStd[i] = math.Abs(raw[i])/math.Sqrt(1-lev), true
+			}
+		}
+	})
 	var std []float64
-	for i := 0; i < m; i++ {
-		a := noiseWindow * T[i]
-		lo, hi := i, i
-		for {
-			grew := false
-			if (closed || lo > 0) && i-lo < m/2 {
-				if p, _ := pos(lo - 1); s[i]-p <= a || i-lo < noiseMinSide {
-					lo--
-					grew = true
-				}
-			}
-			if (closed || hi < m-1) && hi-i < m/2 {
-				if p, _ := pos(hi + 1); p-s[i] <= a || hi-i < noiseMinSide {
-					hi++
-					grew = true
-				}
-			}
-			if !grew || hi-lo >= noiseMaxPoints {
-				break
-			}
-		}
-		if hi-lo < 2*noiseMinSide {
-			raw[i] = math.NaN()
-			continue
-		}
-		_, klo := pos(lo)
-		_, khi := pos(hi)
-		dx, dy := xs[khi]-xs[klo], ys[khi]-ys[klo]
-		l := math.Hypot(dx, dy)
-		if l == 0 {
-			raw[i] = math.NaN()
-			continue
-		}
-		dx, dy = dx/l, dy/l
-		// Normal equations of v = c₀ + c₁u + c₂u² + c₃u³, u scaled by l.
-		// The sums of the products of (1, u, u², u³) taken in pairs, each
-		// formed once (x·y = y·x in floating point, and 1·y = y, so these
-		// are the sums of the full 4×4 loop, added in the same order).
-		var a00, a01, a02, a03, a11, a12, a13, a22, a23, a33 float64
-		var b0, b1, b2, b3 float64
-		var ui, vi float64
-		for j := lo; j <= hi; j++ {
-			_, k := pos(j)
-			px, py := xs[k]-xs[klo], ys[k]-ys[klo]
-			u := (px*dx + py*dy) / l
-			v := dx*py - dy*px
-			if j == i {
-				ui, vi = u, v
-			}
-			u2 := u * u
-			u3 := u2 * u
-			b0 += v
-			b1 += u * v
-			b2 += u2 * v
-			b3 += u3 * v
-			a00++
-			a01 += u
-			a02 += u2
-			a03 += u3
-			a11 += u * u
-			a12 += u * u2
-			a13 += u * u3
-			a22 += u2 * u2
-			a23 += u2 * u3
-			a33 += u3 * u3
-		}
-		ata := [4][4]float64{{a00, a01, a02, a03}, {a01, a11, a12, a13}, {a02, a12, a22, a23}, {a03, a13, a23, a33}}
-		atb := [4]float64{b0, b1, b2, b3}
-		coef, inv, ok := solve4(ata, atb)
-		if !ok {
-			raw[i] = math.NaN()
-			continue
-		}
-		x := [4]float64{1, ui, ui * ui, ui * ui * ui}
-		var fit, lev float64
-		for r := range 4 {
-			fit += coef[r] * x[r]
-			for q := range 4 {
-				lev += x[r] * inv[r][q] * x[q]
-			}
-		}
-		raw[i] = vi - fit
-		if c[i] >= 1 && lev < 1 {
-			std = append(std, math.Abs(raw[i])/math.Sqrt(1-lev))
+	for i, ok := range hasStd {
+		if ok {
+			std = append(std, stdAt[i])
 		}
 	}
 	if len(std) == 0 {

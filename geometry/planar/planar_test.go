@@ -295,3 +295,43 @@ func TestFlattenStrays(t *testing.T) {
 		t.Errorf("given tolerance: error %v, want ErrNotPlanar", err)
 	}
 }
+
+// TestFlattenCoarseGrid: a scan at constant z with 0.04 mm of noise,
+// written on a 0.19 mm grid (a voxelised scan), puts most points on one
+// level and a few on the next, a whole step off the plane fitted between
+// them; the grid's step is allowed for, and the same points warped by
+// 2 mm are still refused.
+func TestFlattenCoarseGrid(t *testing.T) {
+	const n, sigma, step = 650, 0.04, 0.19
+	r := rand.New(rand.NewPCG(11, 5))
+	grid := func(v float64) float64 { return math.Round(v/step) * step }
+	flat := &geometry.Cloud{Dim: 3}
+	warped := &geometry.Cloud{Dim: 3}
+	for i := range n {
+		a := 2 * math.Pi * r.Float64()
+		x, y := 47*math.Cos(a), 6*math.Sin(a)
+		z := 82.1 + sigma*r.NormFloat64()
+		flat.Points = append(flat.Points, geometry.Vec3{X: x, Y: y, Z: grid(z)})
+		warped.Points = append(warped.Points, geometry.Vec3{X: x, Y: y, Z: grid(z + 2*(x/47)*(x/47)*(y/6))})
+		o := geometry.Origin{File: "vox", Line: i + 1}
+		flat.Origins = append(flat.Origins, o)
+		warped.Origins = append(warped.Origins, o)
+	}
+	levels := map[float64]int{}
+	for _, p := range flat.Points {
+		levels[p.Z]++
+	}
+	if len(levels) < 2 {
+		t.Fatalf("all points on one level: the test does not make the case")
+	}
+	_, fl, err := Flatten(flat, FlattenOptions{})
+	if err != nil {
+		t.Fatalf("a flat scan on a coarse grid refused: %v", err)
+	}
+	if fl.Tolerance < step {
+		t.Errorf("tolerance %g does not allow for the grid's step %g", fl.Tolerance, step)
+	}
+	if _, _, err = Flatten(warped, FlattenOptions{}); !errors.Is(err, ErrNotPlanar) {
+		t.Errorf("warped: error %v, want ErrNotPlanar", err)
+	}
+}

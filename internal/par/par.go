@@ -163,3 +163,39 @@ func (t *Team) Close() {
 		}
 	}
 }
+
+// A Task is a call started on another goroutine that the caller may take
+// back: Wait runs it on the caller when no goroutine has begun it by then
+// (on a machine shared with other jobs, the helper may not get a core),
+// and otherwise waits for it to end. Each call runs exactly once.
+type Task struct {
+	f       func()
+	claimed atomic.Bool
+	done    chan struct{}
+}
+
+// Start starts f on a new goroutine and returns its Task.
+func Start(f func()) *Task {
+	t := &Task{f: f, done: make(chan struct{})}
+	go t.take()
+	return t
+}
+
+// take runs the call unless another goroutine has taken it, and reports
+// whether it did.
+func (t *Task) take() bool {
+	if !t.claimed.CompareAndSwap(false, true) {
+		return false
+	}
+	t.f()
+	close(t.done)
+	return true
+}
+
+// Wait returns once the call has run: on the caller, when no goroutine
+// had begun it; else when the goroutine that did is done.
+func (t *Task) Wait() {
+	if !t.take() {
+		<-t.done
+	}
+}

@@ -78,3 +78,33 @@ func TestTeam(t *testing.T) {
 		team.Close()
 	}
 }
+
+// TestTaskRunsOnce checks that a Task's call runs exactly once whether
+// its goroutine or the waiter takes it, and that Wait returns after it.
+func TestTaskRunsOnce(t *testing.T) {
+	for _, procs := range []int{1, 2} {
+		func() {
+			defer runtime.GOMAXPROCS(runtime.GOMAXPROCS(procs))
+			for round := range 500 {
+				var runs atomic.Int32
+				var out int
+				task := Start(func() {
+					runs.Add(1)
+					out = round + 1
+				})
+				if round%2 == 0 {
+					runtime.Gosched() // give the goroutine a chance to take it
+				}
+				task.Wait()
+				if out != round+1 {
+					t.Fatalf("procs %d round %d: Wait returned before the call ended (out %d)", procs, round, out)
+				}
+				task.Wait() // a second Wait returns at once
+				time.Sleep(time.Microsecond)
+				if n := runs.Load(); n != 1 {
+					t.Fatalf("procs %d round %d: the call ran %d times", procs, round, n)
+				}
+			}
+		}()
+	}
+}
