@@ -381,8 +381,11 @@ func robustScale(pts []geometry.Point, seq []int32, r []float64) (floored, raw f
 // outlier has a large residual too, through the outlier in its fit), and the
 // residuals are computed again with the outliers' neighbours joined. The
 // rounds stop when no point is beyond the threshold. A point within the
-// sagitta bound of sagitta is never an outlier. It returns the loop
-// without the outliers (with them, if keep), the scale and the outliers.
+// sagitta bound of sagitta is never an outlier. Then the cluster test
+// (clusterOutliers, cluster.go) takes out the runs of points that lie off
+// the surface together, which these residuals cannot see. It returns the
+// loop without the outliers (with them, if keep), the scale and the
+// outliers.
 // Points marked in exempt (by point index; nil for none) are never
 // outliers here: the trailing edge's end zone, whose tight turns the end
 // model of findEdge judges instead.
@@ -481,6 +484,10 @@ func dropOutliersFrom(pts []geometry.Point, seq []int32, sigma float64, keep boo
 		}
 		lf.residualsAt(pts, work, at, r)
 	}
+	// Runs of points off the surface together, which the residuals
+	// above cannot see (each point's fit follows its companions).
+	work, more := clusterOutliers(pts, work, sigma, scale, keep, exempt)
+	hits = append(hits, more...)
 	if keep {
 		return seq, scale, raw, hits
 	}

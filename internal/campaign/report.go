@@ -7,6 +7,8 @@ import (
 	"regexp"
 	"sort"
 	"strings"
+
+	"github.com/foilwright/foilwright/internal/scangen"
 )
 
 // WriteTable writes the figures as a Markdown table: figure | target |
@@ -125,6 +127,13 @@ func thicknessKey(r *Record) string {
 		return "6–24 %"
 	}
 	return "thick, ≥ 25 %"
+}
+
+// Hazards names the hazards of the measurement model beyond spacing,
+// noise and outliers that a case of spec s carries, as the breakdown
+// "measurement hazards" names them; "none" when it carries none.
+func Hazards(s scangen.Spec) []string {
+	return hazardKeys(&Record{Spec: s})
 }
 
 // hazardKeys names the hazards of the measurement model beyond spacing,

@@ -35,6 +35,7 @@ func main() {
 	top := flag.Int("top", 15, "lines of each failure histogram")
 	quiet := flag.Bool("quiet", false, "no progress lines")
 	category := flag.String("category", "", "run only cases of this category (one of "+strings.Join(scangen.Categories(), ", ")+"): the first N seeds from -seed on that draw it")
+	hazard := flag.String("hazard", "", "run only cases that carry this measurement hazard (as the breakdown names it, e.g. \"outlier clusters up to 8\"): the first N seeds from -seed on that draw it")
 	flag.Parse()
 	if flag.NArg() > 0 || *n <= 0 {
 		flag.Usage()
@@ -43,7 +44,7 @@ func main() {
 	if *one != 0 {
 		os.Exit(runOne(*one))
 	}
-	seeds, err := pickSeeds(*seed, *n, *category)
+	seeds, err := pickSeeds(*seed, *n, *category, *hazard)
 	if err != nil {
 		fmt.Fprintln(os.Stderr, "campaign:", err)
 		os.Exit(2)
@@ -82,15 +83,19 @@ func main() {
 }
 
 // pickSeeds returns n seeds from seed on: every one, or with a category
-// only those whose case draws it (drawing a spec is cheap; the scan is
-// generated later).
-func pickSeeds(seed uint64, n int, category string) ([]uint64, error) {
+// or a hazard only those whose case draws it (drawing a spec is cheap; the
+// scan is generated later).
+func pickSeeds(seed uint64, n int, category, hazard string) ([]uint64, error) {
 	if category != "" && !slices.Contains(scangen.Categories(), category) {
 		return nil, fmt.Errorf("-category %q: want one of %s", category, strings.Join(scangen.Categories(), ", "))
 	}
 	seeds := make([]uint64, 0, n)
 	for s := seed; len(seeds) < n; s++ {
-		if category == "" || scangen.Draw(s).Category == category {
+		if s-seed > 1000*uint64(n) {
+			return nil, fmt.Errorf("-hazard %q: no case of the first %d seeds carries it (the breakdown \"measurement hazards\" names them)", hazard, s-seed)
+		}
+		sp := scangen.Draw(s)
+		if (category == "" || sp.Category == category) && (hazard == "" || slices.Contains(campaign.Hazards(sp), hazard)) {
 			seeds = append(seeds, s)
 		}
 	}
