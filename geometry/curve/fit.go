@@ -440,6 +440,10 @@ func roundedEnd(pts []geometry.Point, turn []float64, kb, kf []int, top, w, k in
 // other points weigh 1): it pins the curve ends to the trailing-edge points.
 const endWeight = 1e4
 
+// sampleRawMax is the most points whose sampling test reads the points
+// themselves rather than their bins (see Fit).
+const sampleRawMax = 100000
+
 // Fit fits a cubic smoothing spline (Reinsch 1967, see spline.go) to the
 // contour c, coordinates x(t) and y(t) separately with one smoothing
 // parameter: periodic over the loop when the trailing edge is smooth, open
@@ -557,8 +561,12 @@ func Fit(c *geometry.Contour, opts FitOptions) (*Curve, *FitReport, error) {
 			// The sampling test reads the points themselves, not their
 			// bins: a bin's centroid sits off a curved outline by the
 			// sagitta of its points, which would pass for noise.
+			// Above sampleRawMax points the bins' sagitta (κh²/8 for
+			// points h apart) is far below any noise a scan leaves, and a
+			// test on every point would double the fit's memory (a
+			// million-point scan: 330 → 700 MiB).
 			tp := fp
-			if fp.of != nil {
+			if fp.of != nil && m <= sampleRawMax {
 				tp = newFitPoints(pts, ws, along, ends.open, false)
 			}
 			st.sample = sampleTest(tp.ts, tp.xs, tp.ys, !ends.open, tp.period, perim)
