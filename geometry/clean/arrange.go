@@ -534,7 +534,8 @@ const sparseRunsMax = 10000
 
 // sparseRuns marks the points of far (by point index) that belong to a
 // run of far points linked through their four nearest neighbours whose
-// extent (the diagonal of its bounding box) is at least reach.
+// extent (the diagonal of its bounding box) is at least reach and which
+// joins the dense points at two places or more.
 func sparseRuns(pts []geometry.Point, nb *nbrs, far []bool, reach float64) []bool {
 	n := len(pts)
 	parent := make([]int32, n)
@@ -583,10 +584,28 @@ func sparseRuns(pts []geometry.Point, nb *nbrs, far []bool, reach float64) []boo
 		b.lo = geometry.Point{X: min(b.lo.X, pts[i].X), Y: min(b.lo.Y, pts[i].Y)}
 		b.hi = geometry.Point{X: max(b.hi.X, pts[i].X), Y: max(b.hi.Y, pts[i].Y)}
 	}
+	// A coarse surface joins the rest of the outline at both its ends
+	// (the nose and the tail): points of the run with a point of the
+	// dense part among their four nearest neighbours. A fixture's points,
+	// or a streak of stray returns, stand apart from the part.
+	joins := make(map[int32]int)
+	for i := range n {
+		if !far[i] {
+			continue
+		}
+		row := nb.of(int32(i))
+		for _, q := range row[:min(4, len(row))] {
+			if !far[q] {
+				joins[find(int32(i))]++
+				break
+			}
+		}
+	}
 	for i := range n {
 		if far[i] {
-			b := boxes[find(int32(i))]
-			keep[i] = b.hi.Dist(b.lo) >= reach
+			r := find(int32(i))
+			b := boxes[r]
+			keep[i] = b.hi.Dist(b.lo) >= reach && joins[r] >= 2
 		}
 	}
 	return keep
