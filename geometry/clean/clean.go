@@ -4,12 +4,12 @@ import (
 	"cmp"
 	"fmt"
 	"math"
-	"math/bits"
 	"runtime"
 	"slices"
 	"sync"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/internal/numeric"
 )
 
 // Options control Clean. The zero value gives the documented defaults.
@@ -871,7 +871,7 @@ func median(xs []float64) float64 {
 			xs[j] = x
 		}
 	} else {
-		selectNth(xs, n/2)
+		numeric.Nth(xs, n/2)
 		if n%2 == 0 {
 			// The lower middle is the largest of the half below.
 			lo := xs[0]
@@ -887,53 +887,4 @@ func median(xs []float64) float64 {
 		return xs[n/2]
 	}
 	return (xs[n/2-1] + xs[n/2]) / 2
-}
-
-// selectNth reorders xs so that xs[k] holds the value a sort would put
-// there, none before it greater and none after it smaller (Hoare's
-// selection with a median-of-three pivot; a full sort of what is left when
-// the partitions keep coming out lopsided).
-func selectNth(xs []float64, k int) {
-	lo, hi := 0, len(xs)-1
-	budget := 2 * bits.Len(uint(len(xs)))
-	for hi > lo {
-		if budget == 0 {
-			slices.SortFunc(xs[lo:hi+1], cmp.Compare[float64])
-			return
-		}
-		budget--
-		mid := lo + (hi-lo)/2
-		if cmp.Less(xs[mid], xs[lo]) {
-			xs[mid], xs[lo] = xs[lo], xs[mid]
-		}
-		if cmp.Less(xs[hi], xs[lo]) {
-			xs[hi], xs[lo] = xs[lo], xs[hi]
-		}
-		if cmp.Less(xs[hi], xs[mid]) {
-			xs[hi], xs[mid] = xs[mid], xs[hi]
-		}
-		pivot := xs[mid]
-		i, j := lo, hi
-		for i <= j {
-			for cmp.Less(xs[i], pivot) {
-				i++
-			}
-			for cmp.Less(pivot, xs[j]) {
-				j--
-			}
-			if i <= j {
-				xs[i], xs[j] = xs[j], xs[i]
-				i++
-				j--
-			}
-		}
-		switch {
-		case k <= j:
-			hi = j
-		case k >= i:
-			lo = i
-		default:
-			return
-		}
-	}
 }
