@@ -239,7 +239,8 @@ func Flatten(c *geometry.Cloud, opts FlattenOptions) (*geometry.Cloud, Flatness,
 	for _, s := range c.Segments {
 		segStart[s] = true
 	}
-	pending := false // a run has started and none of its points is kept yet
+	pending := false   // a run has started and none of its points is kept yet
+	var offs []float64 // the kept points' signed distances from the plane
 	var sum2 float64
 	worst := -1
 	lo, hi := geometry.Point{X: math.Inf(1), Y: math.Inf(1)}, geometry.Point{X: math.Inf(-1), Y: math.Inf(-1)}
@@ -263,6 +264,7 @@ func Flatten(c *geometry.Cloud, opts FlattenOptions) (*geometry.Cloud, Flatness,
 		}
 		out.Points = append(out.Points, geometry.Vec3{X: uv.X, Y: uv.Y, Z: 0})
 		out.Origins = append(out.Origins, o)
+		offs = append(offs, d)
 		sum2 += d * d
 		if math.Abs(d) > fl.Max || worst < 0 {
 			fl.Max, worst = math.Abs(d), i
@@ -315,8 +317,8 @@ func Flatten(c *geometry.Cloud, opts FlattenOptions) (*geometry.Cloud, Flatness,
 		// the beam caught, noise that grows where the beam grazes), not
 		// a part that departs from its plane: they are dropped and noted
 		// and the rest flattened. A warp carries the neighbours out too.
-		if drop := strays(out.Points, out.Origins, c.Points, c.Origins, pl, tol); drop != nil {
-			out, fl = dropStrays(out, fl, drop, pl, c, tol)
+		if drop := strays(out.Points, offs, tol); drop != nil {
+			out, fl = dropStrays(out, fl, drop, offs, tol)
 		}
 	}
 	if fl.Max > tol {
@@ -470,27 +472,13 @@ const (
 	strayNeighbours = 6
 )
 
-// strays returns the indices (into kept, the flattened points, whose 3D
-// originals are all, matched by origin order) of the points farther than
-// tol from the plane pl when they are few (at most strayShare of them,
-// or strayMin) and each one's strayNeighbours nearest neighbours in the
-// plane lie, by their median, within tol/2 of it; nil otherwise.
-func strays(kept []geometry.Vec3, keptO []geometry.Origin, all []geometry.Vec3, allO []geometry.Origin, pl geometry.Plane, tol float64) []int {
+// strays returns the indices of the kept points (in plane coordinates,
+// with their signed distances d from the plane) farther than tol from it
+// when they are few (at most strayShare of them, or strayMin) and each
+// one's strayNeighbours nearest neighbours in the plane lie, by their
+// median, within tol/2 of it; nil otherwise.
+func strays(kept []geometry.Vec3, d []float64, tol float64) []int {
 	n := len(kept)
-	d := make([]float64, n)
-	j := 0
-	for i := range kept {
-		// The kept points are the originals in order, less those outside
-		// a band (none under the default tolerance): match by origin.
-		for j < len(all) && j < len(allO) && i < len(keptO) && allO[j] != keptO[i] {
-			j++
-		}
-		if j >= len(all) {
-			return nil
-		}
-		_, d[i] = mapTo(pl, all[j])
-		j++
-	}
 	var over []int
 	for i := range d {
 		if math.Abs(d[i]) > tol {
@@ -530,16 +518,10 @@ func strays(kept []geometry.Vec3, keptO []geometry.Origin, all []geometry.Vec3, 
 }
 
 // dropStrays returns out without the points at indices drop (ascending),
-// each noted with its distance from the plane, and fl with the RMS, the
-// largest distance and the count of kept points measured again.
-func dropStrays(out *geometry.Cloud, fl Flatness, drop []int, pl geometry.Plane, c *geometry.Cloud, tol float64) (*geometry.Cloud, Flatness) {
-	// The 3D originals by origin, for the distances.
-	dist := make(map[geometry.Origin]float64, len(c.Points))
-	for i, p := range c.Points {
-		if i < len(c.Origins) {
-			_, dist[c.Origins[i]] = mapTo(pl, p)
-		}
-	}
+// each noted with its distance from the plane (d, by kept point), and fl
+// with the RMS, the largest distance and the count of kept points measured
+// again.
+func dropStrays(out *geometry.Cloud, fl Flatness, drop []int, d []float64, tol float64) (*geometry.Cloud, Flatness) {
 	gone := make(map[int]bool, len(drop))
 	for _, i := range drop {
 		gone[i] = true
@@ -558,8 +540,8 @@ func dropStrays(out *geometry.Cloud, fl Flatness, drop []int, pl geometry.Plane,
 	for i, p := range out.Points {
 		o := out.Origins[i]
 		if gone[i] {
-			notes.AddAt(o, fmt.Sprintf("out of the plane: %.4g from it, beyond the tolerance %.4g, with its neighbours within half of it (a stray point)", dist[o], tol), "")
-			fl.Strays = append(fl.Strays, Stray{Origin: o, Distance: dist[o]})
+			notes.AddAt(o, fmt.Sprintf("out of the plane: %.4g from it, beyond the tolerance %.4g, with its neighbours within half of it (a stray point)", d[i], tol), "")
+			fl.Strays = append(fl.Strays, Stray{Origin: o, Distance: d[i]})
 			if seg[i] && i+1 < len(out.Points) {
 				seg[i+1] = true
 			}
@@ -570,9 +552,8 @@ func dropStrays(out *geometry.Cloud, fl Flatness, drop []int, pl geometry.Plane,
 		}
 		res.Points = append(res.Points, p)
 		res.Origins = append(res.Origins, o)
-		d := dist[o]
-		sum2 += d * d
-		fl.Max = max(fl.Max, math.Abs(d))
+		sum2 += d[i] * d[i]
+		fl.Max = max(fl.Max, math.Abs(d[i]))
 	}
 	if len(res.Segments) <= 1 {
 		res.Segments = nil
