@@ -946,18 +946,16 @@ func normalRMS(p *splineProblem, f *splineFit, xs, ys []float64) float64 {
 // at its knot (NaN where the tangent vanishes; weights are not applied).
 func normalResiduals(p *splineProblem, f *splineFit, xs, ys []float64) []float64 {
 	n := p.n()
-	px := p.pieces(f.gs[0], f.gams[0])
-	py := p.pieces(f.gs[1], f.gams[1])
 	out := make([]float64, n)
 	for i := 0; i < n; i++ {
 		var dx, dy float64
-		if i < len(px) {
-			dx, dy = px[i][1], py[i][1]
+		if i < len(p.hs) {
+			dx, dy = p.piece(f.gs[0], f.gams[0], i)[1], p.piece(f.gs[1], f.gams[1], i)[1]
 		} else {
-			j := len(px) - 1
+			j := len(p.hs) - 1
 			h := p.hs[j]
-			_, dx, _ = poly(px[j], h)
-			_, dy, _ = poly(py[j], h)
+			_, dx, _ = poly(p.piece(f.gs[0], f.gams[0], j), h)
+			_, dy, _ = poly(p.piece(f.gs[1], f.gams[1], j), h)
 		}
 		l := math.Hypot(dx, dy)
 		if l == 0 {

@@ -44,16 +44,14 @@ func newResampler(p *splineProblem, f *splineFit, xd, yd []float64, lambda, sigm
 	n := p.n()
 	r := &resampler{prob: p, gx: f.gs[0], gy: f.gs[1], xd: xd, yd: yd, lambda: lambda, sigma: sigma, open: open, freeEnds: freeEnds,
 		nx: make([]float64, n), ny: make([]float64, n)}
-	px := p.pieces(f.gs[0], f.gams[0])
-	py := p.pieces(f.gs[1], f.gams[1])
 	for i := 0; i < n; i++ {
 		var dx, dy float64
-		if i < len(px) {
-			dx, dy = px[i][1], py[i][1]
+		if i < len(p.hs) {
+			dx, dy = p.piece(f.gs[0], f.gams[0], i)[1], p.piece(f.gs[1], f.gams[1], i)[1]
 		} else {
-			j := len(px) - 1
-			_, dx, _ = poly(px[j], p.hs[j])
-			_, dy, _ = poly(py[j], p.hs[j])
+			j := len(p.hs) - 1
+			_, dx, _ = poly(p.piece(f.gs[0], f.gams[0], j), p.hs[j])
+			_, dy, _ = poly(p.piece(f.gs[1], f.gams[1], j), p.hs[j])
 		}
 		if l := math.Hypot(dx, dy); l > 0 {
 			r.nx[i], r.ny[i] = dy/l, -dx/l
@@ -184,6 +182,7 @@ func (rs *resampler) refitEnds(p *splineProblem, xs, ys []float64, lambda float6
 		}
 	}
 	cv := fromFit(p, f, !rs.open)
+	p.release(f) // the curve holds its own pieces
 	if rs.open && lambda > 0 {
 		cv = rebuildEnds(cv, ends)
 	}

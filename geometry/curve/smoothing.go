@@ -325,6 +325,7 @@ func evalRisk(p *splineProblem, xs, ys, c []float64, lambda, clip float64) (risk
 		ss += c[i] * r2
 		sc += c[i]
 	}
+	p.release(f)
 	return riskFit{rss: ss / sc, trace: f.trace, n: sc}, nil
 }
 
