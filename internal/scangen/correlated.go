@@ -45,7 +45,7 @@ const wanderModes = 64
 // cutJitter is the standard deviation of where the cut crosses each edge
 // of a mesh about Correlated.Cut: the vertices' own scatter across the
 // cutting plane moves the crossings.
-const cutJitter = 0.02
+const cutJitter = 0.005
 
 // field is a realisation of correlated noise along the outline.
 type field struct {
@@ -191,9 +191,19 @@ func drawCorrelated(s *Spec, seed uint64) {
 		// The cut's points come two an interval of the vertices the
 		// sampling places (Field.meshCut): half as many vertices.
 		c.Form, c.MM, c.Cut = CorrelatedMesh, base*d.uniform(0.7, 1.5), d.uniform(0, 1)
+		if d.coin(0.5) {
+			// A station placed at a row of the scan's sweeps: the cut
+			// passes near the vertices and leaves near pairs.
+			c.Cut = d.uniform(0, 0.03)
+			if d.coin(0.5) {
+				c.Cut = 1 - c.Cut
+			}
+		}
 		s.Noise.MM *= d.uniform(0, 0.3)
 		s.Noise.Chord *= d.uniform(0, 0.3)
 		s.Sampling.Points = max(3, s.Sampling.Points/2)
+		// The cut chains its segments round the loop.
+		s.Order.Mode = "loop"
 	} else {
 		c.MM, c.Gaps = base*d.uniform(0.5, 2), d.logUniform(3, 30)
 	}

@@ -102,9 +102,11 @@
 // top of it (a hand-held scanner drifting as it sweeps); or a mesh slice,
 // the cut of a strip of triangles whose vertices carry the scanner's noise
 // (0.7–1.5 times the category's), where each point of the cut mixes the
-// noise of the two vertices of the edge it crosses and the cut, near a row
-// of vertices, leaves its points in near pairs; what stays independent is
-// at most 0.3 of the category's scatter. Scan slices carry it in half the
+// noise of the two vertices of the edge it crosses, written in the order
+// the cut chains them round the loop; in half of them the station lies
+// near a row of vertices (within 3 % of the rows' spacing), and the cut
+// leaves its points in near pairs. What stays independent in a mesh slice
+// is at most 0.3 of the category's scatter. Scan slices carry it in half the
 // cases (mostly the mesh form), voxelised and dense scans in 0.3, the
 // general sweep in 0.15. Whether a case carries it and its form and size
 // are drawn from a random stream of their own, as is the noise itself, so
