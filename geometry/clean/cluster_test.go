@@ -313,3 +313,43 @@ func TestCleanMeshSlice(t *testing.T) {
 		})
 	}
 }
+
+// The spread of the left-out residuals sees the noise neighbours share
+// that the point-to-point scale misses: on a mesh slice cut near a row of
+// vertices (meshSliceCloud, 0.04 mm a vertex) the narrowest window's
+// spread stands far above the point-to-point scale and near the vertices'
+// noise; on independent noise (clusterTestCloud, 0.01 mm) it stays about
+// indepRatio times it (1.97 here). Bounds measured, then widened.
+func TestClusterScalesSeeSharedNoise(t *testing.T) {
+	n := shape.NACA4{Camber: 0.04, CamberPos: 0.4, Thickness: 0.14, SharpTE: true}
+	for _, tc := range []struct {
+		name     string
+		mesh     bool
+		ratio    [2]float64 // bounds of the spread over the point-to-point scale (raw)
+		noise    float64    // the noise, mm
+		spreadHi float64    // the largest spread, in units of the noise
+	}{
+		{"mesh", true, [2]float64{10, math.Inf(1)}, 0.04, 2},
+		{"independent", false, [2]float64{0.8, 2.5}, 0.01, 2},
+	} {
+		rng := rand.New(rand.NewPCG(5, 29))
+		var c *geometry.Cloud
+		if tc.mesh {
+			c, _, _ = meshSliceCloud(rng, n, 200, tc.noise, 0.01, nil, nil, nil)
+		} else {
+			c, _, _ = clusterTestCloud(rng, n, 400, tc.noise, nil, nil, nil, false, 0)
+		}
+		pts := make([]geometry.Point, len(c.Points))
+		seq := make([]int32, len(pts))
+		for i, p := range c.Points {
+			pts[i], seq[i] = geometry.Point{X: p.X, Y: p.Y}, int32(i)
+		}
+		scale, raw := robustScale(pts, seq, residuals(pts, seq, 0))
+		_, wsc := clusterCalibration(pts, seq, DefaultOutlierSigma*scale, nil)
+		r := wsc[0] / raw
+		t.Logf("%s: point-to-point scale %.3g mm, narrowest window's spread %.3g mm (%.2f times)", tc.name, raw, wsc[0], r)
+		if r < tc.ratio[0] || r > tc.ratio[1] || wsc[0] > tc.spreadHi*tc.noise {
+			t.Errorf("%s: spread %.3g mm, %.2f times the point-to-point scale %.3g mm; want %v times, at most %g mm", tc.name, wsc[0], r, raw, tc.ratio, tc.spreadHi*tc.noise)
+		}
+	}
+}

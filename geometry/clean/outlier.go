@@ -21,11 +21,13 @@ const scaleFloor = 0.02
 // dropRounds bounds the detect-and-drop rounds of dropOutliers.
 const dropRounds = 10
 
-// indepRatio bounds, for independent noise, the spread of the left-out
-// residuals of the narrowest window of the cluster test over the robust
-// scale of the point-to-point residuals: measured 1.0 to 2.1 on NACA 2412
-// contours of 80 to 1500 points with Gaussian noise (the point-to-point
-// residual is the least of three fits', so it runs low).
+// indepRatio is, for independent noise, about the largest ratio of the
+// spread of the left-out residuals of the narrowest window of the cluster
+// test to the robust scale of the point-to-point residuals: measured 1.0
+// to 2.1 on NACA 2412 contours of 80 to 1500 points with Gaussian noise
+// (the point-to-point residual is the least of three fits', so it runs
+// low). Where it is exceeded a little, the threshold rises a little; a
+// mesh slice's near pairs make it 50 or more.
 const indepRatio = 2
 
 // hit is one point found to be an outlier or a stray.
