@@ -39,7 +39,7 @@ import (
 // threshold and than sigma times the supports' own scatter, both widened
 // by the fit's uncertainty where the point projects (its leverage), by
 // more than sigma spreads of the loop's own left-out residuals at that
-// window (clusterScales), and by more than the curve could bulge between
+// window (clusterScales) over indepRatio, and by more than the curve could bulge between
 // the supports (a sagitta, as for the point-by-point test); and when it
 // does not lie on the outline
 // elsewhere (a point of the other surface that the ordering put among the
@@ -58,7 +58,8 @@ import (
 // fewer. For independent noise it is the scatter widened by the fits'
 // uncertainty: 1 to 2 times the point-to-point scale (measured on NACA
 // 2412 contours of 80 to 1500 points), which runs low, being the least
-// of three fits' residuals.
+// of three fits' residuals; over indepRatio it then adds nothing to the
+// threshold, which only noise that neighbours share raises.
 
 // clusterSpan is the largest share of the loop's length a window of the
 // cluster test (the left-out positions and their supports) may span.
@@ -237,12 +238,13 @@ func clusterResidual(pts []geometry.Point, seq []int32, i int, ws []int, span, s
 		}
 		// Beyond the threshold widened by the fit's uncertainty where the
 		// point projects, and beyond sigma spreads of the loop's own
-		// residuals at this window: noise that neighbours share (a mesh's
-		// vertices, a scanner's drift) moves a run of good points together
-		// by far more than the point-to-point scale, and these residuals
-		// see it as they see a run.
+		// residuals at this window over indepRatio, what independent noise
+		// gives at most beside the point-to-point scale: noise that
+		// neighbours share (a mesh's vertices, a scanner's drift) moves a
+		// run of good points together by far more than the point-to-point
+		// scale, and these residuals see it as they see a run.
 		wide := math.Sqrt(1 + g.leverage)
-		lim := max(thr*wide, sigma*wsc[wi])
+		lim := max(thr*wide, sigma*wsc[wi]/indepRatio)
 		return g.d, reach, g.d > lim && g.d > sigma*g.scatter*wide && g.d > g.sag
 	}
 	return 0, reach, false
