@@ -167,7 +167,12 @@ type FitReport struct {
 	// wiggles out of the curvature.
 	Fairness  Fairness
 	FairSteps int
-	Warnings  []string
+	// BinNoise is the noise of the bins of a dense fit when it replaced
+	// the noise given (FitOptions.Noise over the square root of the points
+	// a bin holds), because the bins scatter by more than binNoisier times
+	// that (see passes); 0 otherwise. It is per bin, input units.
+	BinNoise float64
+	Warnings []string
 
 	resampler *resampler // the final fit, for Replica and Half
 }
@@ -1117,6 +1122,10 @@ func passes(fp fitPoints, open, freeEnds bool, opts FitOptions, st *smoothState,
 	sigma := userNoise
 	if sigma == 0 || binsNoisier {
 		sigma = noise
+	}
+	rep.BinNoise = 0
+	if binsNoisier {
+		rep.BinNoise = noise
 	}
 	var lambda float64
 	llo, lhi := math.Log(lambdaOfBeta(betaMin, mean)), math.Log(lambdaOfBeta(betaMax, mean))
