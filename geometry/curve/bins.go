@@ -130,16 +130,7 @@ func newFitPoints(pts []geometry.Point, ws []float64, along []float64, open, bin
 		if i > 0 {
 			d := p.Dist(fp.pts[i-1])
 			if fAlong != nil && fp.of == nil {
-				// Points of a band whose feet fall together (a
-				// stair-stepped scan's, projected onto one vertex of
-				// the curve through the band) would share a parameter,
-				// and the spline system, whose rows scale as one over
-				// the step, is then no longer positive definite in
-				// floating point (campaign seed 419: a step of 1e-12
-				// beside a median of 1.3e-4): each step is kept at
-				// least minStep of the chord to the point before, as
-				// reparametrise keeps the steps of the feet.
-				d = math.Max(fAlong[i]-fAlong[i-1], minStep*d)
+				d = fAlong[i] - fAlong[i-1]
 			}
 			fp.ts[i] = fp.ts[i-1] + math.Max(d, 1e-12)
 		}
