@@ -439,6 +439,14 @@ func (p *Preparation) fit(cl *Cleaned, s Settings, useEdge bool) error {
 		}
 		return fmt.Errorf("%s: %w", strings.Join(cl.Files, ", "), err)
 	}
+	if s.Noise != nil && *s.Noise > 0 && rep.BinNoise > 0 {
+		// The user's figure was per point; the bins it was divided down
+		// for scatter more than that (curve.FitReport.BinNoise), and the
+		// fit smoothed for what they show. Say so rather than let the
+		// setting pass as used.
+		rep.Warnings = append(rep.Warnings, fmt.Sprintf("the noise given (%s a point) was not used as is: the %d points were fitted in bins of neighbours, which scatter by %s, more than that noise averaged over a bin; the fit smoothed for the bins' own scatter",
+			LengthText(*s.Noise, cl.Units), cl.Contour.Len(), LengthText(rep.BinNoise, cl.Units)))
+	}
 	p.Curve, p.Fit = cv, rep
 	return nil
 }
