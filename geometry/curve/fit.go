@@ -1078,7 +1078,7 @@ func passes(fp fitPoints, open, freeEnds bool, opts FitOptions, st *smoothState,
 	if !open {
 		lp = nperiod
 	}
-	noise, tau, _ := localNoise(xs, ys, s, st.T, c, lp)
+	noise, tau, _, profile := localNoise(xs, ys, s, st.T, c, lp)
 	rep.NoiseEstimate = noise
 	sigma := userNoise
 	if sigma == 0 {
@@ -1173,6 +1173,7 @@ func passes(fp fitPoints, open, freeEnds bool, opts FitOptions, st *smoothState,
 	}
 	rep.Lambda, rep.EffectiveParams, rep.Smoothing = lambda, f.trace, betaOfLambda(lambda, mean)
 	st.final = newResampler(prob, f, xs, ys, lambda, sigma*math.Sqrt(tau), open, freeEnds)
+	st.final.setGrowth(profile, noise)
 	st.final.corner = st.corner && open && !freeEnds
 	st.final.cornerRatio = cornerRatio
 	cv := fromFit(prob, f, !open)

@@ -35,6 +35,39 @@ type resampler struct {
 	// data point.
 	corner      bool
 	cornerRatio float64
+	// growth, when set, holds per knot how many times the local noise
+	// exceeds the fit's (at least 1): the replicas' noise there.
+	growth []float64
+}
+
+// growthMin is the least ratio of local noise to the fit's figure that
+// the replicas follow: the robust scale of 21 offsets strays from the
+// noise by ±17 % (one standard deviation, common practice), so 1.5 is
+// seldom reached by chance where the noise is even.
+const growthMin = 1.5
+
+// setGrowth sets the replicas' noise per knot from the local noise of the
+// points (profile, per knot; see noiseProfile) against the fit's noise
+// figure noise: where the points scatter more than growthMin times the
+// figure (a scanner's beam grazing the surface), the replicas scatter as
+// much as they do; elsewhere, and never less than, the figure. Nothing is
+// set without a profile of one value per knot or a noise figure.
+func (r *resampler) setGrowth(profile []float64, noise float64) {
+	if len(profile) != r.prob.n() || !(noise > 0) {
+		return
+	}
+	g := make([]float64, len(profile))
+	grows := false
+	for i, p := range profile {
+		g[i] = 1
+		if p > growthMin*noise {
+			g[i] = p / noise
+		}
+		grows = grows || g[i] > 1
+	}
+	if grows {
+		r.growth = g
+	}
 }
 
 // ErrNoNoise means a fit has no noise to simulate: it interpolates.
@@ -115,6 +148,9 @@ func (r *FitReport) Replica(rng *rand.Rand) (*Curve, error) {
 	xs, ys := make([]float64, n), make([]float64, n)
 	for i := 0; i < n; i++ {
 		e := rs.sigma * rng.NormFloat64()
+		if rs.growth != nil {
+			e *= rs.growth[i]
+		}
 		xs[i], ys[i] = rs.gx[i]+e*rs.nx[i], rs.gy[i]+e*rs.ny[i]
 	}
 	// The base line of a blunt edge is fitted to noisy base points too:
