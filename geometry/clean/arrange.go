@@ -388,14 +388,16 @@ func (cl *cleaning) bySection(opts Options, sigma float64) *attempt {
 		if !ok {
 			return &attempt{strategy: OrderSection, fail: "no thin end: the points do not look like a section"}
 		}
-		if pass == 0 && rest != nil {
+		if pass == 0 && rest != nil && len(pts) < sparseRunsMax {
 			// The isolated points within the chord's extent join the
 			// order, to be judged by the fits along their surface: a
 			// surface probed far more coarsely than the other across a
 			// section thinner than its step has every point isolated
 			// (its nearest neighbours lie on the other surface), and
 			// put back by the loop's polygon they would meet the other
-			// surface. Only the frame is drawn without them.
+			// surface. Only the frame is drawn without them. As for
+			// sparse runs (see dense), not in a scan's cloud of tens of
+			// thousands, where isolated points are stray returns.
 			if in := withinChord(pts, rest[0], f); len(in) > 0 {
 				sel = slices.Concat(sel, in)
 				slices.Sort(sel)
