@@ -423,7 +423,11 @@ func findEdge(pts []geometry.Point, seq []int32, sigma float64) (edgeFound, bool
 	if n < 2*edgeMinFit+2 {
 		return edgeFound{seq: seq}, false
 	}
-	f, ok := sectionFrameUpTo(pts, seq, 0.3)
+	// The ends' widths weigh each point by the length of the loop it
+	// stands for: counted alike, the points of a surface probed 5–20
+	// times more coarsely than the other are trimmed off both ends as
+	// extremes, and the widths compared are the dense surface's scatter.
+	f, ok := sectionFrameWeighted(pts, seq, loopWeights(pts, seq), 0.3)
 	if !ok {
 		return edgeFound{seq: seq}, false
 	}
