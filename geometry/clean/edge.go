@@ -1377,9 +1377,10 @@ func (m endModel) apply(pts []geometry.Point, seq []int32, f chordFrame, u, l qu
 		if m.beyond > 0 {
 			// A corner put at the aftmost point of a thin edge lies, in
 			// expectation, beyond it (unsampledStretch): carried there
-			// along the fits' mean line, it is no longer a point's.
-			x := m.corner.X + m.beyond
-			m.corner = geometry.Point{X: x, Y: m.corner.Y + (u.at(x)+l.at(x)-u.at(m.corner.X)-l.at(m.corner.X))/2}
+			// along the coarse chord line (the fits, crossed or within
+			// the scatter of each other, say too little of where their
+			// mean line heads), it is no longer a point's.
+			m.corner.X += m.beyond
 		}
 		// A zone point within the scatter of the corner is the corner:
 		// the loop starts there.
