@@ -287,6 +287,11 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 	if edgeWarning != "" {
 		p.Section.Warnings = append(p.Section.Warnings, edgeWarning)
 	}
+	if useEdge {
+		if w := edgeKindWarning(cl.Clean.Edge, p.Section.TrailingEdge.Kind); w != "" {
+			p.Section.Warnings = append(p.Section.Warnings, w)
+		}
+	}
 	p.Section.Warnings = append(p.Section.Warnings, passWarnings(cl.Clean.Passes, cl.Units)...)
 	p.Section.Warnings = append(p.Section.Warnings, accuracy.Gaps(p.Contour, p.Fit, p.Curve, p.Shape)...)
 	p.Section.Panels.Deviation = dev
@@ -480,6 +485,27 @@ func widenForEdge(u *accuracy.Uncertainty, e *clean.Edge) {
 	if s := e.SpreadSurface; s > u.Surface && !math.IsInf(s, 0) {
 		u.Surface = s
 	}
+}
+
+// edgeKindWarning returns the warning that the points leave the kind of
+// the trailing edge open, "" when they decide it: the kinds other than
+// the one stated that the end analysis found as likely (clean.Edge.Rivals,
+// within a likelihood ratio of 20), whose ends the bounds take in
+// (widenForEdge).
+func edgeKindWarning(e *clean.Edge, stated string) string {
+	if e == nil {
+		return ""
+	}
+	var others []string
+	for _, k := range e.Rivals {
+		if k != stated {
+			others = append(others, k)
+		}
+	}
+	if len(others) == 0 {
+		return ""
+	}
+	return fmt.Sprintf("the points do not decide the trailing edge's kind: it is stated %s, but a %s end fits them nearly as well (within a likelihood ratio of 20); the bounds take in both; points measured on the end itself decide it", stated, strings.Join(others, " or "))
 }
 
 // widenForRejectedEdge widens the bounds of a section whose fit found

@@ -60,6 +60,12 @@ type Edge struct {
 	// replicas of the fit, which keep the end stated, do not see. 0 when
 	// the points decide.
 	SpreadSurface float64
+	// Rivals are the other kinds of end (sharp, blunt, rounded, in the
+	// order tried) that the points cannot tell from Kind: a model of that
+	// kind scores within edgePlausible of the winner (a rounded end only
+	// with a point on its arc). The spreads above take them in. Empty
+	// when the points decide the kind.
+	Rivals []string
 }
 
 // edgePlausible is the score difference (−2 ln of a likelihood ratio of
@@ -112,6 +118,8 @@ type endModel struct {
 	spread, spreadY float64
 	// spreadS: see Edge.SpreadSurface (chord units), set on the winner.
 	spreadS float64
+	// rivals: see Edge.Rivals, set on the winner.
+	rivals []string
 	// tipLo, tipHi: the range of the trailing edge's station over the
 	// positions of this kind of end (the bases or arcs tried) that score
 	// within edgePlausible of this one, when tips says they were measured.
@@ -419,7 +427,10 @@ const edgeOutlier = 6
 // The blunt and rounded models each fit one number more than the sharp
 // one and pay for it (twice the log of the zone's point count, a Bayesian
 // information criterion, common practice); on a tie the simpler model
-// wins, sharp before blunt before rounded. The points of the zone are
+// wins, sharp before blunt before rounded. A joining piece that few or no
+// points show must win by edgeEvidence besides: a base no point lies on
+// over a corner, an arc with fewer than edgeArcMin points over a base
+// (see chooseEnd). The points of the zone are
 // then split into the lower surface, the joining piece and the upper
 // surface in loop order, as the winning model assigns them.
 func findEdge(pts []geometry.Point, seq []int32, sigma float64) (edgeFound, bool) {
@@ -711,6 +722,12 @@ func findEdgeIn(pts []geometry.Point, seq []int32, sigma float64, f chordFrame) 
 	}
 	if ok && best.openEnd(u, l, xa, xmax, r.gapRatio) {
 		r.edge.Spread, r.edge.SpreadAcross, r.edge.SpreadSurface = best.spread*f.chord, best.spreadY*f.chord, best.spreadS
+		// A base through the last points or a corner beyond them.
+		for _, k := range []string{EdgeSharp, EdgeBlunt} {
+			if k != r.edge.Kind && !slices.Contains(r.edge.Rivals, k) {
+				r.edge.Rivals = append(r.edge.Rivals, k)
+			}
+		}
 	}
 	return r, ok
 }
@@ -869,13 +886,21 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 	// both surfaces through one or two points fits a corner as well, and
 	// the points show no turning end (either still counts among the
 	// plausible ends for the spread below).
-	arcPts := make([]int, len(models))
+	//
+	// A base with no point on it must likewise beat a sharp corner by
+	// edgeEvidence: such a base is seen only in where the surfaces' last
+	// points stop, which a corner a little beyond them, unsampled in the
+	// gap round the end, explains as well; the points show no base (of
+	// sections whose base no point samples, one whose surfaces would meet
+	// within the spacing of their last points cannot be told from a sharp
+	// one at all). A base that points lie on is judged by the scores.
+	endPts := make([]int, len(models))
 	for k := range models {
-		if models[k].kind == EdgeRounded {
-			arcPts[k] = models[k].onEnd(u, l, z, out, max(scat, snapTol(scat, step)))
+		if models[k].kind != EdgeSharp {
+			endPts[k] = models[k].onEnd(u, l, z, out, max(scat, snapTol(scat, step)))
 		}
 	}
-	eligible := func(k int) bool { return models[k].kind != EdgeRounded || arcPts[k] > 0 }
+	eligible := func(k int) bool { return models[k].kind != EdgeRounded || endPts[k] > 0 }
 	bk := 0
 	for k := range models {
 		if eligible(k) {
@@ -888,14 +913,16 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 			continue
 		}
 		b := models[bk]
-		if m.kind == EdgeRounded && arcPts[k] < edgeArcMin && b.kind == EdgeSharp {
+		if m.kind == EdgeRounded && endPts[k] < edgeArcMin && b.kind == EdgeSharp {
 			continue
 		}
 		margin := 0.0
-		if m.kind == EdgeRounded && b.kind == EdgeBlunt && arcPts[k] < edgeArcMin {
+		switch {
+		case m.kind == EdgeRounded && b.kind == EdgeBlunt && endPts[k] < edgeArcMin,
+			m.kind == EdgeBlunt && b.kind == EdgeSharp && endPts[k] == 0:
 			margin = edgeEvidence
-		}
-		if b.kind == EdgeRounded && m.kind == EdgeBlunt && arcPts[bk] < edgeArcMin {
+		case b.kind == EdgeRounded && m.kind == EdgeBlunt && endPts[bk] < edgeArcMin,
+			b.kind == EdgeBlunt && m.kind == EdgeSharp && endPts[bk] == 0:
 			margin = -edgeEvidence
 		}
 		if m.score+margin < b.score {
@@ -906,8 +933,11 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 	for k := range alts {
 		alts[k].score = alts[k].misfit(u, l, z, scat, edgeOutlier, out, zs) + alts[k].extra
 	}
-	for _, m := range append(models, alts...) {
+	for k, m := range append(models, alts...) {
 		if m.score <= best.score+edgePlausible {
+			if m.kind != best.kind && (k >= len(models) || eligible(k)) && !slices.Contains(best.rivals, m.kind) {
+				best.rivals = append(best.rivals, m.kind)
+			}
 			bx, by := best.tipX(), best.tipY()
 			best.spread = max(best.spread, math.Abs(m.tipX()-bx))
 			best.spreadY = max(best.spreadY, math.Abs(m.tipY()-by))
@@ -1374,7 +1404,7 @@ func (m endModel) apply(pts []geometry.Point, seq []int32, f chordFrame, u, l qu
 		out = append(out, seq[zpos[p.k]])
 	}
 	gr := endGap(pts, out, len(upper), len(lower)+len(end), f.point(m.tipX(), m.tipY()))
-	e := Edge{Kind: m.kind, Chord: f.chord, Spread: m.spread * f.chord, SpreadAcross: m.spreadY * f.chord, SpreadSurface: m.spreadS}
+	e := Edge{Kind: m.kind, Chord: f.chord, Spread: m.spread * f.chord, SpreadAcross: m.spreadY * f.chord, SpreadSurface: m.spreadS, Rivals: slices.Clone(m.rivals)}
 	switch m.kind {
 	case EdgeSharp:
 		e.Why = "the surfaces, fitted near the edge, meet in a corner"
