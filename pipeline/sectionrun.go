@@ -8,7 +8,6 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
-	"regexp"
 	"slices"
 	"strings"
 	"time"
@@ -524,7 +523,7 @@ func runStage(ctx context.Context, r StageRunner, call StageCall, req stage.Requ
 }
 
 // artifactName is the form of an artifact's file name.
-var artifactName = regexp.MustCompile(`^[A-Za-z0-9][A-Za-z0-9._-]{0,127}$`)
+var artifactName = nameForm{most: 128}
 
 // exportResult is the part of a result document the export tables need.
 func exportResult(d *stage.ResultDoc, section string) *export.Result {

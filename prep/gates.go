@@ -24,6 +24,7 @@ const (
 	GateSpan     = "surfaces span the chord"    // both surfaces run from the leading edge to the trailing edge
 	GateThinEnd  = "thin end aft"               // the section is thicker near its leading edge than near its trailing edge
 	GateKink     = "no kink"                    // the outline turns smoothly away from its trailing edge
+	GatePinch    = "no pinch"                   // the thickness nowhere falls to a fraction of the thicknesses fore and aft
 )
 
 // Limits of the gates.
@@ -41,6 +42,38 @@ const (
 	// their equations; a section whose edges were swapped is the reverse.
 	gateThinFore = 0.05
 	gateThinAft  = 0.95
+	// A nose, whatever its radius, widens from its tip as a parabola
+	// does, h² ≈ 2·r·d at a distance d behind it (common practice; the
+	// NACA sections' 0.2969·√x term, Report 824): the square of the
+	// section's thickness at gateNoseFar from its leading edge is about
+	// four times that at gateNoseNear. A rounded or blunt trailing edge
+	// widens far less ahead of its own radius (1.1 to 2 times). Where the
+	// thicknesses at gateThinFore and gateThinAft differ by less than
+	// gateThinRatio, they cannot tell the ends apart (a thin section
+	// whose rounded trailing edge is blunter than its nose: campaign
+	// seeds 661, 1271, 505, 458, thin 4-digit and 4-digit-modified
+	// sections with the edge rounded to 0.4–1 % of the chord, exited 0
+	// turned end for end); then a leading edge that widens by less than
+	// gateNoseGrowth, and less than the trailing edge does, is a rounded
+	// trailing edge taken for the nose. No section of the campaign's
+	// families whose ends were found right widens by less than 2.48
+	// there (seeds 1 to 1500; 1.35 to 1.78 when swapped).
+	//
+	// The other way round, a leading end that widens by more than
+	// gateWedgeGrowth while the trailing end widens as a nose does
+	// (between gateNoseGrowth and gateWedgeGrowth, and less than the
+	// leading end) is a blunt base or a wedge taken for the nose: the
+	// square of the thickness behind a base or a corner grows as much as
+	// 16 times (h ∝ d). Seed 5839 (scan seeds from 5001: a 4-digit-modified
+	// section of 18 % with its thickness greatest at 60 % and a nose of
+	// radius 0.005 c read as a rounded trailing edge) grows 7.5 times
+	// behind its leading edge; no section whose ends were found right in
+	// that zone grows by more than 4.9 (seeds 1 to 1304).
+	gateNoseNear    = 0.005
+	gateNoseFar     = 0.02
+	gateNoseGrowth  = 2.2
+	gateWedgeGrowth = 6.5
+	gateThinRatio   = 2
 	// A fitted curve is smooth (its spline has continuous curvature), so
 	// neighbouring panels of the repanelled section turn by a few degrees
 	// at most; a turn beyond gateKinkDeg between gateKinkFrom and
@@ -59,6 +92,22 @@ const (
 	gateKinkTo    = 0.9
 	gateKinkTail  = 0.02
 	gateKinkEdges = 4
+	// The thickness of a section rises from its nose to its greatest
+	// and falls to its trailing edge (every family of the campaign, by
+	// its equations), so at every station it is at least the lesser of
+	// the greatest thicknesses fore and aft of it. A station where it is
+	// less than gatePinch of that, between gatePinchFrom and gatePinchTo
+	// of the chord (gatePinchStations even stations), is a surface
+	// drawn across to the other and back, a finger of the other
+	// surface's points taken into its order, which neither crosses the
+	// other nor runs back along the chord (campaign seeds 1116, 1396,
+	// 5209: exited 0 with a node 0.03–0.06 c off, the thickness there
+	// under 2 % of its neighbours'; no section made right falls below
+	// 0.99).
+	gatePinch         = 0.5
+	gatePinchFrom     = 0.02
+	gatePinchTo       = 0.98
+	gatePinchStations = 200
 )
 
 // GateError reports a section that failed a gate under every way of
@@ -127,11 +176,26 @@ func (p *Preparation) checkGates(nodes []geometry.Point, le int) *GateError {
 	}
 	// Each surface runs one way: x falls from the trailing edge to the
 	// leading edge over the upper surface and rises back over the lower.
+	// A surface runs back by how far it returns behind the farthest it
+	// had come, over as many panels as it takes: a fold drawn by many
+	// short panels turns and runs back a little at each (campaign seed
+	// 667: the lower surface runs 0.005 c back over 16 panels at x = 0.54,
+	// up to the upper surface and down again, a finger of points of the
+	// upper surface taken into the lower one's order).
+	reach := nodes[0].X
 	for k := 1; k < len(nodes); k++ {
 		a, b := nodes[k-1], nodes[k]
-		back := b.X - a.X // upper: must not rise
+		if k == le+1 {
+			reach = a.X
+		}
+		back := b.X - reach // upper: must not rise
 		if k > le {
-			back = a.X - b.X // lower: must not fall
+			back = reach - b.X // lower: must not fall
+		}
+		if k <= le {
+			reach = min(reach, b.X)
+		} else {
+			reach = max(reach, b.X)
 		}
 		lim := gateBack
 		if min(a.X, b.X) < gateNoseCap {
@@ -163,6 +227,11 @@ func (p *Preparation) checkGates(nodes []geometry.Point, le int) *GateError {
 			Where:  nearestOrigin(p.Contour, toPart(nodes[k])),
 			Advice: "the outline folds there: the points may be out of order (surfaces close together at a thin edge, passes that overlap), or points of another part lie among them; look at them (points --plot)"}
 	}
+	if x, ratio, ok := pinch(nodes, le); ok {
+		return &GateError{Gate: GatePinch, Seen: fmt.Sprintf("the section is %.2g %% as thick at x = %.3f as the lesser of its greatest thicknesses fore and aft of there", 100*ratio, x),
+			Where:  nearestOrigin(p.Contour, toPart(geometry.Point{X: x})),
+			Advice: "one surface is drawn across to the other and back: points of one surface were taken in the order of the other; look at them (points --plot), or give the measurement noise with --noise"}
+	}
 	// The thin end is aft: a section whose leading and trailing edges were
 	// swapped (a sharp corner taken for the nose) is thicker aft.
 	if fore, aft := thicknessAt(nodes, le, gateThinFore), thicknessAt(nodes, le, gateThinAft); fore > 0 && aft > fore {
@@ -170,12 +239,73 @@ func (p *Preparation) checkGates(nodes []geometry.Point, le int) *GateError {
 			Where:  nearestOrigin(p.Contour, toPart(geometry.Point{X: 1})),
 			Advice: "the leading and trailing edges were probably swapped: set the leading edge with --le-at X,Y"}
 	}
+	if g := noseAft(nodes, le); g != nil {
+		g.Where = nearestOrigin(p.Contour, toPart(geometry.Point{X: 1}))
+		return g
+	}
 	if scat := max(p.Clean.Sigma, p.Fit.Scatter, p.Fit.NoiseEstimate); scat > 0 && p.Fit.RMS > gateFitRMS*scat {
 		return &GateError{Gate: GateFit, Seen: fmt.Sprintf("the fitted curve departs from the points by %.3g RMS, %.0f times their scatter %.3g", p.Fit.RMS, p.Fit.RMS/scat, scat),
 			Where:  p.Fit.MaxAt,
 			Advice: "the points may not lie on one smooth outline in the order found: look at them (points --plot)"}
 	}
 	return nil
+}
+
+// pinch returns the chord station x of the normalised section nodes
+// (leading edge at node le) where the thickness is the least share of
+// the lesser of the greatest thicknesses fore and aft of x, and that
+// share, when it is less than gatePinch; ok is false when there is none.
+func pinch(nodes []geometry.Point, le int) (x, ratio float64, ok bool) {
+	xs := make([]float64, gatePinchStations+1)
+	ts := make([]float64, gatePinchStations+1)
+	for k := range xs {
+		xs[k] = gatePinchFrom + (gatePinchTo-gatePinchFrom)*float64(k)/gatePinchStations
+		ts[k] = thicknessAt(nodes, le, xs[k])
+	}
+	aft := make([]float64, len(ts)) // the greatest thickness aft of each station
+	for k := len(ts) - 2; k >= 0; k-- {
+		aft[k] = max(aft[k+1], ts[k+1])
+	}
+	fore := 0.0
+	ratio = gatePinch
+	for k, t := range ts {
+		if m := min(fore, aft[k]); t > 0 && m > 0 && t < ratio*m {
+			x, ratio, ok = xs[k], t/m, true
+		}
+		fore = max(fore, t)
+	}
+	return x, ratio, ok
+}
+
+// noseAft returns the failure of the thin-end gate for a section whose
+// leading end widens as a rounded or blunt trailing edge, a base or a
+// corner does while its trailing end widens as a nose does, where the
+// thicknesses near both ends cannot tell them apart (see gateNoseGrowth
+// and gateWedgeGrowth); nil otherwise.
+func noseAft(nodes []geometry.Point, le int) *GateError {
+	fore, aft := thicknessAt(nodes, le, gateThinFore), thicknessAt(nodes, le, gateThinAft)
+	if !(aft > 0) || fore >= gateThinRatio*aft {
+		return nil
+	}
+	growth := func(near, far float64) float64 {
+		a, b := thicknessAt(nodes, le, near), thicknessAt(nodes, le, far)
+		if !(a > 0) || !(b > 0) {
+			return math.NaN()
+		}
+		return (b / a) * (b / a)
+	}
+	gLE, gTE := growth(gateNoseNear, gateNoseFar), growth(1-gateNoseNear, 1-gateNoseFar)
+	if gLE > gateWedgeGrowth && gTE >= gateNoseGrowth && gTE <= gateWedgeGrowth {
+		return &GateError{Gate: GateThinEnd,
+			Seen:   fmt.Sprintf("the section is %.3g chord thick at %.0f %% of the chord and %.3g at %.0f %%, and from %.1f %% to %.0f %% of the chord behind its leading edge the square of its thickness grows %.2g times, as behind a blunt base or a corner (behind a nose about 4 times), but %.2g times over as much ahead of its trailing edge, as behind a nose", fore, 100*gateThinFore, aft, 100*gateThinAft, 100*gateNoseNear, 100*gateNoseFar, gLE, gTE),
+			Advice: "the leading and trailing edges were probably swapped (a small-radius nose taken for a rounded trailing edge): set the leading edge with --le-at X,Y"}
+	}
+	if !(gLE < gateNoseGrowth) || !(gTE > gLE) {
+		return nil
+	}
+	return &GateError{Gate: GateThinEnd,
+		Seen:   fmt.Sprintf("the section is %.3g chord thick at %.0f %% of the chord and %.3g at %.0f %%, and from %.1f %% to %.0f %% of the chord behind its leading edge the square of its thickness grows %.2g times, as ahead of a rounded or blunt trailing edge (behind a nose about 4 times), but %.2g times over as much ahead of its trailing edge", fore, 100*gateThinFore, aft, 100*gateThinAft, 100*gateNoseNear, 100*gateNoseFar, gLE, gTE),
+		Advice: "the leading and trailing edges were probably swapped (a rounded trailing edge blunter than the nose): set the leading edge with --le-at X,Y"}
 }
 
 // kink returns the first node k of the normalised section nodes where

@@ -8,6 +8,7 @@ import (
 
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/frame"
+	"github.com/foilwright/foilwright/geometry/shape"
 	"github.com/foilwright/foilwright/internal/scangen"
 	"github.com/foilwright/foilwright/repanel"
 )
@@ -157,6 +158,54 @@ func TestKink(t *testing.T) {
 		}
 		if ok && math.Abs(nodes[k].X-tc.at) > step*1.01 {
 			t.Errorf("%s: kink at x = %.4f, want about %.4f", tc.name, nodes[k].X, tc.at)
+		}
+	}
+}
+
+func TestPinch(t *testing.T) {
+	// NACA 0012 and 4412 (Report 824) repanelled: their thickness rises
+	// to its greatest and falls, so no station pinches. The same with the
+	// upper surface drawn down to the lower one over 4 % of the chord at
+	// x = 0.46 (a finger of lower-surface points taken into the upper
+	// surface's order, campaign seed 1116), or only half-way down, must
+	// pinch there; a dent of a tenth of the thickness must not.
+	section := func(code string) ([]geometry.Point, int) {
+		n, _ := shape.ParseNACA4(code)
+		loop := n.Loop(300)
+		le := 0
+		for i, p := range loop {
+			if p.X < loop[le].X {
+				le = i
+			}
+		}
+		return loop, le
+	}
+	for _, tc := range []struct {
+		name  string
+		code  string
+		depth float64 // share of the local thickness the upper surface is drawn down by
+		want  bool
+	}{
+		{"0012", "0012", 0, false},
+		{"4412", "4412", 0, false},
+		{"0012, finger to the lower surface", "0012", 1, true},
+		{"4412, finger half-way down", "4412", 0.6, true},
+		{"0012, dent of a tenth", "0012", 0.1, false},
+	} {
+		nodes, le := section(tc.code)
+		n, _ := shape.ParseNACA4(tc.code)
+		for i := range nodes[:le] {
+			if x := nodes[i].X; math.Abs(x-0.46) < 0.02 {
+				u, l := n.Upper(x), n.Lower(x)
+				nodes[i].Y = u.Y - tc.depth*(u.Y-l.Y)*math.Cos(math.Pi*(x-0.46)/0.04)
+			}
+		}
+		x, ratio, ok := pinch(nodes, le)
+		if ok != tc.want {
+			t.Errorf("%s: pinch %v (%.2f at x = %.3f), want %v", tc.name, ok, ratio, x, tc.want)
+		}
+		if ok && math.Abs(x-0.46) > 0.02 {
+			t.Errorf("%s: pinched at x = %.3f, want about 0.46", tc.name, x)
 		}
 	}
 }

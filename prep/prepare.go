@@ -287,6 +287,11 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 	if edgeWarning != "" {
 		p.Section.Warnings = append(p.Section.Warnings, edgeWarning)
 	}
+	if useEdge {
+		if w := edgeKindWarning(cl.Clean.Edge, p.Section.TrailingEdge.Kind); w != "" {
+			p.Section.Warnings = append(p.Section.Warnings, w)
+		}
+	}
 	p.Section.Warnings = append(p.Section.Warnings, passWarnings(cl.Clean.Passes, cl.Units)...)
 	p.Section.Warnings = append(p.Section.Warnings, accuracy.Gaps(p.Contour, p.Fit, p.Curve, p.Shape)...)
 	p.Section.Panels.Deviation = dev
@@ -439,6 +444,14 @@ func (p *Preparation) fit(cl *Cleaned, s Settings, useEdge bool) error {
 		}
 		return fmt.Errorf("%s: %w", strings.Join(cl.Files, ", "), err)
 	}
+	if s.Noise != nil && *s.Noise > 0 && rep.BinNoise > 0 {
+		// The user's figure was per point; the bins it was divided down
+		// for scatter more than that (curve.FitReport.BinNoise), and the
+		// fit smoothed for what they show. Say so rather than let the
+		// setting pass as used.
+		rep.Warnings = append(rep.Warnings, fmt.Sprintf("the noise given (%s a point) was not used as is: the %d points were fitted in bins of neighbours, which scatter by %s, more than that noise averaged over a bin; the fit smoothed for the bins' own scatter",
+			LengthText(*s.Noise, cl.Units), cl.Contour.Len(), LengthText(rep.BinNoise, cl.Units)))
+	}
 	p.Curve, p.Fit = cv, rep
 	return nil
 }
@@ -472,6 +485,27 @@ func widenForEdge(u *accuracy.Uncertainty, e *clean.Edge) {
 	if s := e.SpreadSurface; s > u.Surface && !math.IsInf(s, 0) {
 		u.Surface = s
 	}
+}
+
+// edgeKindWarning returns the warning that the points leave the kind of
+// the trailing edge open, "" when they decide it: the kinds other than
+// the one stated that the end analysis found as likely (clean.Edge.Rivals,
+// within a likelihood ratio of 20), whose ends the bounds take in
+// (widenForEdge).
+func edgeKindWarning(e *clean.Edge, stated string) string {
+	if e == nil {
+		return ""
+	}
+	var others []string
+	for _, k := range e.Rivals {
+		if k != stated {
+			others = append(others, k)
+		}
+	}
+	if len(others) == 0 {
+		return ""
+	}
+	return fmt.Sprintf("the points do not decide the trailing edge's kind: it is stated %s, but a %s end fits them nearly as well (within a likelihood ratio of 20); the bounds take in both; points measured on the end itself decide it", stated, strings.Join(others, " or "))
 }
 
 // widenForRejectedEdge widens the bounds of a section whose fit found

@@ -3,6 +3,7 @@ package prep
 import (
 	"fmt"
 	"math"
+	"strings"
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
@@ -42,5 +43,35 @@ func TestPrepareScan(t *testing.T) {
 	// The panel count was chosen for the default accuracy, and meets it.
 	if s.Panels.Target != 1e-4 || !(s.Panels.Deviation > 0 && s.Panels.Deviation <= 1e-4) {
 		t.Errorf("panels %+v, want the deviation within the 1e-4 chord target", s.Panels)
+	}
+}
+
+func TestPrepareNoiseGivenBelowBins(t *testing.T) {
+	// A dense scan (20000 points of NACA 2412, 0.02 mm noise) with a
+	// noise given ten times too small: the bins the fit works on scatter
+	// by more than that noise averaged over a bin, the fit smooths for
+	// their own scatter and the section says so; the section is still
+	// the part (NACA Report 824: chord 152.4 mm within 0.1 %, thickness
+	// 0.120 ± 0.001).
+	small := 0.002
+	p, err := Prepare("scan", []File{{Path: "scan.csv", Data: testfoil.ScanCSV(20000)}}, Settings{Noise: &small})
+	if err != nil {
+		t.Fatal(err)
+	}
+	s := p.Section
+	if math.Abs(s.Frame.Chord-152.4)/152.4 > 1e-3 || math.Abs(s.Properties.Thickness-0.12) > 1e-3 {
+		t.Errorf("chord %.3f mm, thickness %.4f", s.Frame.Chord, s.Properties.Thickness)
+	}
+	if !(p.Fit.BinNoise > 0) {
+		t.Fatalf("bin noise %g: the noise given was taken as it is", p.Fit.BinNoise)
+	}
+	found := false
+	for _, w := range s.Warnings {
+		if strings.Contains(w, "the noise given (0.002 mm a point) was not used as is") {
+			found = true
+		}
+	}
+	if !found {
+		t.Errorf("no warning that the noise given was not used; warnings: %q", s.Warnings)
 	}
 }

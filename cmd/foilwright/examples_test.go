@@ -118,6 +118,7 @@ func TestExamplePipelines(t *testing.T) {
 			}
 			if ex.name == "rotor" {
 				checkRunExports(t, first)
+				checkRotorCp(t, first)
 			}
 			// Two runs (1 and 2 workers) give identical bytes everywhere but
 			// in the manifest, whose timings differ.

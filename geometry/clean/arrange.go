@@ -388,7 +388,31 @@ func (cl *cleaning) bySection(opts Options, sigma float64) *attempt {
 		if !ok {
 			return &attempt{strategy: OrderSection, fail: "no thin end: the points do not look like a section"}
 		}
+		if pass == 0 && rest != nil && len(pts) < sparseRunsMax {
+			// The isolated points within the chord's extent join the
+			// order, to be judged by the fits along their surface: a
+			// surface probed far more coarsely than the other across a
+			// section thinner than its step has every point isolated
+			// (its nearest neighbours lie on the other surface), and
+			// put back by the loop's polygon they would meet the other
+			// surface. Only the frame is drawn without them. As for
+			// sparse runs (see dense), not in a scan's cloud of tens of
+			// thousands, where isolated points are stray returns.
+			if in := withinChord(pts, rest[0], f); len(in) > 0 {
+				sel = slices.Concat(sel, in)
+				slices.Sort(sel)
+				rest = outside(len(pts), sel)
+			}
+		}
 		seq, sc := sectionOrder(pts, sel, f, ws)
+		// Which end is the nose, judged again with each point standing
+		// for the stretch of the loop it covers: spacingWeights mix the
+		// surfaces where the section is thinner than a coarsely probed
+		// surface's step, and both ends then measure the dense surface.
+		if g, ok := sectionFrame(pts, seq, loopWeights(pts, seq)); ok && g.le != f.le {
+			f = g
+			seq, sc = sectionOrder(pts, sel, f, ws)
+		}
 		if edgeTrace != nil {
 			edgeTrace("section pass %d le %v te %v", pass, f.le, f.te)
 			for k, i := range seq {
@@ -443,6 +467,24 @@ func (cl *cleaning) bySection(opts Options, sigma float64) *attempt {
 	}
 	return a
 }
+
+// withinChord returns the points of idx whose place in the chord frame f
+// lies between the nose and the tail and less than maxHalfWidth of the
+// chord from the chord line: where a section's surfaces may run.
+func withinChord(pts []geometry.Point, idx []int32, f chordFrame) []int32 {
+	var out []int32
+	for _, i := range idx {
+		if x, y := f.at(pts[i]); x >= 0 && x <= 1 && math.Abs(y) <= maxHalfWidth {
+			out = append(out, i)
+		}
+	}
+	return out
+}
+
+// maxHalfWidth bounds, in chords, how far from the chord line a point
+// may lie to join a section order from outside the dense points: the
+// thickest sections are 40 % thick, with camber a few per cent more.
+const maxHalfWidth = 0.3
 
 // dense returns the points whose fourth nearest neighbour is no farther
 // than six times the median such distance, and the points of sparse runs:

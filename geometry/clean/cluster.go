@@ -37,12 +37,29 @@ import (
 //
 // The point is a cluster point when it lies off the fit by more than the
 // threshold and than sigma times the supports' own scatter, both widened
-// by the fit's uncertainty where the point projects (its leverage), and by
-// more than the curve could bulge between the supports (a sagitta, as for
-// the point-by-point test); and when it does not lie on the outline
+// by the fit's uncertainty where the point projects (its leverage), by
+// more than sigma spreads of the loop's own left-out residuals at that
+// window (clusterScales) over indepRatio, and by more than the curve could bulge between
+// the supports (a sagitta, as for the point-by-point test); and when it
+// does not lie on the outline
 // elsewhere (a point of the other surface that the ordering put among the
 // wrong neighbours near a thin trailing edge). Rounds peel a run: once
 // some of its points are out, the rest is a shorter run, judged again.
+//
+// The spread of the left-out residuals is what lets the test see noise
+// that neighbouring points share. A slice of a scanned mesh carries the
+// noise of the vertices it is cut between, a hand-held scanner drifts as
+// it sweeps: the points wander off the surface together, by the whole of
+// the noise, over a few to tens of points, while each differs little from
+// its neighbours, so the point-to-point scale misses the wander and a
+// window's parabola, bridging it, finds good points many of those scales
+// off. Taken over the loop, the median left-out residual of each window
+// stays with the good points as long as runs off the surface are the
+// fewer. For independent noise it is the scatter widened by the fits'
+// uncertainty: 1 to 2 times the point-to-point scale (measured on NACA
+// 2412 contours of 80 to 1500 points), which runs low, being the least
+// of three fits' residuals; over indepRatio it then adds nothing to the
+// threshold, which only noise that neighbours share raises.
 
 // clusterSpan is the largest share of the loop's length a window of the
 // cluster test (the left-out positions and their supports) may span.
@@ -88,8 +105,11 @@ func clusterWindows(max int) []int {
 // out of the returned loop either way). sigma is the outlier threshold in
 // robust scales and scale the loop's robust scale (input units); points
 // marked in exempt (by point index; nil for none) are never cluster
-// points, though they may support a fit.
-func clusterOutliers(pts []geometry.Point, seq []int32, sigma, scale float64, keep bool, exempt []bool) ([]int32, []hit) {
+// points, though they may support a fit. ws are the half-widths of the
+// windows tried (clusterWindows) and wsc the spread of the loop's
+// left-out residuals at each (clusterScales), found on the loop before
+// the point-by-point test took its outliers out.
+func clusterOutliers(pts []geometry.Point, seq []int32, sigma, scale float64, keep bool, exempt []bool, ws []int, wsc []float64) ([]int32, []hit) {
 	n := len(seq)
 	if n < 4*minSupport+3 {
 		return seq, nil
@@ -99,7 +119,6 @@ func clusterOutliers(pts []geometry.Point, seq []int32, sigma, scale float64, ke
 	for k := range n {
 		length += fastDist(pts[seq[k]], pts[seq[(k+1)%n]])
 	}
-	ws := clusterWindows((n - 2*minSupport - 1) / 4)
 	var hits []hit
 	work := seq
 	// reach, by point index, is how far each way the last look at a point
@@ -123,7 +142,7 @@ func clusterOutliers(pts []geometry.Point, seq []int32, sigma, scale float64, ke
 				if !todo[i] || exempt != nil && exempt[p] {
 					continue
 				}
-				d, r, ok := clusterResidual(pts, work, i, ws, clusterSpan*length, sigma, scale)
+				d, r, ok := clusterResidual(pts, work, i, ws, clusterSpan*length, sigma, scale, wsc)
 				reach[p] = int32(r)
 				if ok && !nearOutline(pts, work, i, r, sigma*scale) {
 					out[i], dist[i] = true, d
@@ -181,41 +200,22 @@ func clusterOutliers(pts []geometry.Point, seq []int32, sigma, scale float64, ke
 // half-widths ws, spanning at most span (input units, straight across)
 // with their supports, and returns the distance of the point from the fit
 // of the smallest window with clean supports (see the file's comment; sc
-// is the loop's robust scale), how many positions each way the last window
-// looked at and its supports took in, and whether that fit makes the
-// point a cluster point.
-func clusterResidual(pts []geometry.Point, seq []int32, i int, ws []int, span, sigma, sc float64) (d float64, reach int, ok bool) {
-	n := len(seq)
-	at := func(j int) geometry.Point { return pts[seq[((i+j)%n+n)%n]] }
-	p0 := at(0)
+// is the loop's robust scale and wsc, by window, the spread of the
+// loop's own residuals at that window, clusterScales), how many positions
+// each way the last window looked at and its supports took in, and
+// whether that fit makes the point a cluster point.
+func clusterResidual(pts []geometry.Point, seq []int32, i int, ws []int, span, sigma, sc float64, wsc []float64) (d float64, reach int, ok bool) {
 	thr := sigma * sc
 	var buf [2 * supportPoints]geometry.Point
-	for _, w := range ws {
-		k := max(minSupport, w)
-		if 2*(w+k)+1 > n {
+	for wi, w := range ws {
+		g, r, fit, more := windowFit(pts, seq, i, w, span, thr, buf[:0])
+		if r > 0 {
+			reach = r
+		}
+		if !more {
 			break
 		}
-		reach = w + k
-		// The window and its supports must stay within span, measured
-		// straight across (a section order of a band, or one that puts a
-		// run among the points it stands off from, zigzags along the
-		// loop).
-		if fastDist(at(-w-k), at(w+k)) > span {
-			break
-		}
-		// Up to supportPoints of each support, evenly spread over it from
-		// its nearest point to its farthest: a fit costs the same however
-		// wide the window.
-		m := min(k, supportPoints)
-		sup := buf[:0]
-		for j := m - 1; j >= 0; j-- {
-			sup = append(sup, at(-w-1-j*(k-1)/(m-1)))
-		}
-		for j := range m {
-			sup = append(sup, at(w+1+j*(k-1)/(m-1)))
-		}
-		g, ok := gapFit(sup, m, p0, thr)
-		if !ok {
+		if !fit {
 			continue
 		}
 		if g.worst > clusterGross*thr {
@@ -236,10 +236,109 @@ func clusterResidual(pts []geometry.Point, seq []int32, i int, ws []int, span, s
 		if !g.finish() {
 			continue
 		}
+		// Beyond the threshold widened by the fit's uncertainty where the
+		// point projects, and beyond sigma spreads of the loop's own
+		// residuals at this window over indepRatio, what independent noise
+		// gives at most beside the point-to-point scale: noise that
+		// neighbours share (a mesh's vertices, a scanner's drift) moves a
+		// run of good points together by far more than the point-to-point
+		// scale, and these residuals see it as they see a run.
 		wide := math.Sqrt(1 + g.leverage)
-		return g.d, reach, g.d > thr*wide && g.d > sigma*g.scatter*wide && g.d > g.sag
+		lim := max(thr*wide, sigma*wsc[wi]/indepRatio)
+		return g.d, reach, g.d > lim && g.d > sigma*g.scatter*wide && g.d > g.sag
 	}
 	return 0, reach, false
+}
+
+// windowFit fits the parabola of the left-out window of half-width w about
+// position i of seq (gapFit; tol its tolerance), its supports gathered in
+// buf. It returns the fit, how many positions each way the window and its
+// supports take in (0 when none fits the loop), whether the fit is usable,
+// and whether wider windows may still be tried (false when this one does
+// not fit the loop or spans more than span).
+func windowFit(pts []geometry.Point, seq []int32, i, w int, span, tol float64, buf []geometry.Point) (g gap, reach int, fit, more bool) {
+	n := len(seq)
+	at := func(j int) geometry.Point { return pts[seq[((i+j)%n+n)%n]] }
+	k := max(minSupport, w)
+	if 2*(w+k)+1 > n {
+		return g, 0, false, false
+	}
+	reach = w + k
+	// The window and its supports must stay within span, measured
+	// straight across (a section order of a band, or one that puts a
+	// run among the points it stands off from, zigzags along the
+	// loop).
+	if fastDist(at(-w-k), at(w+k)) > span {
+		return g, reach, false, false
+	}
+	// Up to supportPoints of each support, evenly spread over it from
+	// its nearest point to its farthest: a fit costs the same however
+	// wide the window.
+	m := min(k, supportPoints)
+	sup := buf
+	for j := m - 1; j >= 0; j-- {
+		sup = append(sup, at(-w-1-j*(k-1)/(m-1)))
+	}
+	for j := range m {
+		sup = append(sup, at(w+1+j*(k-1)/(m-1)))
+	}
+	g, fit = gapFit(sup, m, at(0), tol)
+	return g, reach, fit, true
+}
+
+// clusterCalibration returns the half-widths of the windows of the
+// cluster test on the loop seq (clusterWindows) and the spread of the
+// loop's left-out residuals at each (clusterScales; tol the outlier
+// threshold, input units; exempt as there).
+func clusterCalibration(pts []geometry.Point, seq []int32, tol float64, exempt []bool) ([]int, []float64) {
+	n := len(seq)
+	var length float64
+	for k := range n {
+		length += fastDist(pts[seq[k]], pts[seq[(k+1)%n]])
+	}
+	ws := clusterWindows((n - 2*minSupport - 1) / 4)
+	return ws, clusterScales(pts, seq, ws, clusterSpan*length, tol, exempt)
+}
+
+// scaleSample is the most positions of a loop whose left-out residuals
+// make the spread of each window (clusterScales).
+const scaleSample = 1000
+
+// clusterScales returns, for each half-width of ws, the robust spread of
+// the left-out residuals of the loop seq at that window: 1.4826 × the
+// median distance of a point from the fit of its window's supports, over
+// up to scaleSample positions evenly spread round the loop (the points of
+// exempt left out), whatever the supports hold. For independent noise it
+// is the scatter, a little widened by the fits' uncertainty; for noise
+// that neighbours share it grows with the window as the supports stop
+// sharing the noise of the point they judge, and the median stays with
+// the good points as long as runs off the surface are fewer. 0 for a
+// window fitted at fewer than 2·minSupport positions. tol is the outlier
+// threshold (input units).
+func clusterScales(pts []geometry.Point, seq []int32, ws []int, span, tol float64, exempt []bool) []float64 {
+	n := len(seq)
+	m := min(n, scaleSample)
+	out := make([]float64, len(ws))
+	parallel(len(ws), func(a, b int) {
+		var buf [2 * supportPoints]geometry.Point
+		ds := make([]float64, 0, m)
+		for wi := a; wi < b; wi++ {
+			ds = ds[:0]
+			for j := range m {
+				i := j * n / m
+				if exempt != nil && exempt[seq[i]] {
+					continue
+				}
+				if g, _, fit, _ := windowFit(pts, seq, i, ws[wi], span, tol, buf[:0]); fit {
+					ds = append(ds, g.d)
+				}
+			}
+			if len(ds) >= 2*minSupport {
+				out[wi] = 1.4826 * median(ds)
+			}
+		}
+	})
+	return out
 }
 
 // gap is a fit of gapFit: the distance of the point judged from it, the

@@ -217,3 +217,43 @@ func TestPassesOverlapAtNose(t *testing.T) {
 		}
 	}
 }
+
+// A CMM program probes a thin section, NACA 0005 (NACA Report 824),
+// with a step sixteen times finer on the upper surface than on the lower:
+// over most of the chord the section is thinner than the coarse step, so
+// every coarse point's nearest neighbours lie on the other surface. The
+// coarse points are still good points of their own surface: none may be
+// dropped, the loop must visit them in order, and the trailing edge must
+// be found at the tail, not at the nose (whose widths, counted by points,
+// are the fine surface's alone).
+func TestPassesThinSurfaceCoarser(t *testing.T) {
+	n, err := shape.ParseNACA4("0005")
+	if err != nil {
+		t.Fatal(err)
+	}
+	l := newPassLoop(n)
+	const chord, sd = 40.0, 0.004 // mm: a 40 mm blade section on a CMM
+	rot, off := -0.25, geometry.Point{X: -30, Y: 21}
+	tail, _ := l.at(0)
+	tail = tail.Scale(chord).Rotate(rot).Add(off)
+	for seed := range uint64(3) {
+		rng := rand.New(rand.NewPCG(seed, 20))
+		end := 0.002
+		upper := l.probe(rng, l.le, end, 640, sd, geometry.Point{}, chord, rot, off)
+		lower := l.probe(rng, l.le, l.length()-end, 40, sd, geometry.Point{}, chord, rot, off)
+		var smp []passSample
+		for i := len(upper) - 1; i >= 0; i-- {
+			smp = append(smp, upper[i])
+		}
+		smp = append(smp, lower[1:]...)
+		rep := checkPassOrder(t, smp, chord, 0)
+		if rep.Edge == nil {
+			t.Fatalf("seed %d: no trailing edge found", seed)
+		}
+		// Within 2 % of the chord of the true tail: the nose lies a
+		// chord away.
+		if d := rep.Edge.Upper.Dist(tail); d > 0.02*chord {
+			t.Errorf("seed %d: trailing edge found at %v, %.3g mm from the tail %v", seed, rep.Edge.Upper, d, tail)
+		}
+	}
+}

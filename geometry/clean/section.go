@@ -69,6 +69,35 @@ func farthestPair(pts []geometry.Point, sel []int32) (a, b int32) {
 	return a, b
 }
 
+// loopWeights returns, by point index (len(pts); 0 off the loop), the
+// length of the loop seq each of its points stands for: half the distance
+// to its neighbours along the loop either side, or less where a point
+// within loopReach of it along the loop stands for less. A probe slip
+// lies far from both its neighbours, which lie close to theirs: it weighs
+// no more than the surface beside it, while every point of a surface
+// probed with a coarser step stands for that step.
+func loopWeights(pts []geometry.Point, seq []int32) []float64 {
+	n := len(seq)
+	raw := make([]float64, n)
+	for k, i := range seq {
+		raw[k] = (pts[i].Dist(pts[seq[(k+n-1)%n]]) + pts[i].Dist(pts[seq[(k+1)%n]])) / 2
+	}
+	w := make([]float64, len(pts))
+	for k, i := range seq {
+		v := raw[k]
+		for d := 1; d <= loopReach && 2*d < n; d++ {
+			v = min(v, raw[(k+d)%n], raw[(k+n-d)%n])
+		}
+		w[i] = v
+	}
+	return w
+}
+
+// loopReach is how many neighbours along the loop, each way, loopWeights
+// looks at: a slip's neighbours each lie next to it and to a surface
+// point, the next ones beyond them only on the surface.
+const loopReach = 2
+
 // endWidth returns the width across the chord of the points of sel (in
 // chord coordinates xs, ys, each standing for the length ws of outline;
 // nil: alike) whose x lies in [lo, hi]: the spread between the 10 % and
@@ -143,16 +172,12 @@ func sectionFrame(pts []geometry.Point, sel []int32, ws []float64) (chordFrame, 
 	return sectionFrameWeighted(pts, sel, ws, 0.1)
 }
 
-// sectionFrameUpTo is sectionFrame with windows that widen up to
-// 2 %–reach of the chord (0.1, 0.2, 0.3) until each end holds four
-// points. Only a loop already found to be the section may widen them
-// (the trailing-edge analysis): an open arc of few points would pass.
-func sectionFrameUpTo(pts []geometry.Point, sel []int32, reach float64) (chordFrame, bool) {
-	return sectionFrameWeighted(pts, sel, nil, reach)
-}
-
-// sectionFrameWeighted is sectionFrameUpTo with each point standing for
-// the length ws[i] (by point index; nil: alike) of outline in the widths.
+// sectionFrameWeighted is sectionFrame with each point standing for the
+// length ws[i] (by point index; nil: alike) of outline in the widths, and
+// windows that widen up to 2 %–reach of the chord (0.1, 0.2, 0.3) until
+// each end holds four points. Only a loop already found to be the section
+// may widen them (the trailing-edge analysis): an open arc of few points
+// would pass.
 func sectionFrameWeighted(pts []geometry.Point, sel []int32, ws []float64, reach float64) (chordFrame, bool) {
 	a, b := farthestPair(pts, sel)
 	f := newChordFrame(pts[a], pts[b])
@@ -482,6 +507,9 @@ func tailSides(xs, ys []float64, upper []bool) {
 				ls = append(ls, i)
 			}
 		}
+		if oneSurfaceAft(xs, ys, near, upper) {
+			return
+		}
 		if len(us) < 3 || len(ls) < 3 {
 			return
 		}
@@ -501,6 +529,70 @@ func tailSides(xs, ys []float64, upper []bool) {
 		}
 	}
 }
+
+// oneSurfaceAft sides the points near (by position in xs, ys) when the
+// camber line left few of them on one side, as near the tail of a surface
+// probed far more coarsely than the other, where a cambered section's
+// camber line, drawn from the fine surface alone, may pass on either side
+// of it: one parabola fitted robustly to them all follows the fine
+// surface, the points beyond oneSurfaceCut of its scatter are the other
+// surface, and the side they lie on says which surface each is. It
+// reports whether it sided them: not when fewer than two points lie
+// apart, when points lie apart on both sides or when they are more than a third, nor
+// when the parabola runs between two surfaces.
+func oneSurfaceAft(xs, ys []float64, near []int, upper []bool) bool {
+	q := robustQuad(xs, ys, near, 1)
+	if !q.ok {
+		return false
+	}
+	res := make([]float64, len(near))
+	abs := make([]float64, len(near))
+	for k, i := range near {
+		res[k] = ys[i] - q.at(xs[i])
+		abs[k] = math.Abs(res[k])
+	}
+	s := 1.4826 * median(abs)
+	if !(s > 0) {
+		return false
+	}
+	below, above := 0, 0
+	for _, r := range res {
+		switch {
+		case r < -oneSurfaceCut*s:
+			below++
+		case r > oneSurfaceCut*s:
+			above++
+		}
+	}
+	if below+above < 2 || below > 0 && above > 0 || 3*(below+above) > len(near) {
+		return false // no other surface apart, or not one surface's few points
+	}
+	// The fit must follow one surface, not run between two: then the
+	// residuals of the points on it crowd about zero (a normal scatter
+	// has 38 % of them within half its scale); between two surfaces
+	// they crowd at plus and minus half the gap.
+	close := 0
+	for _, r := range abs {
+		if r <= s/2 {
+			close++
+		}
+	}
+	if 5*close < len(near)-below-above {
+		return false
+	}
+	fineUpper := below > 0
+	for k, i := range near {
+		upper[i] = fineUpper == (math.Abs(res[k]) <= oneSurfaceCut*s)
+	}
+	return true
+}
+
+// oneSurfaceCut is how far, in robust scatters of the fit, a point must
+// lie off the fine surface near the tail to be taken for the other
+// surface's: twice as far as Tukey's biweight gives a point no weight, so
+// that in a noisy band whose surfaces close to within the noise at the
+// tail the odd far point of the noise is not taken for another surface.
+const oneSurfaceCut = 10
 
 // robustQuad fits y(x) to the points idx by a parabola with Tukey's
 // biweight (two rounds after a plain fit), so that a few points of the
@@ -580,6 +672,16 @@ func sectionOrder(pts []geometry.Point, sel []int32, f chordFrame, ws []float64)
 	for k := range n {
 		upper[k] = ys[k] >= cl.at(xs[k])
 	}
+	// Once more with each point standing for the stretch of its own
+	// surface it covers (surfaceWeights): the neighbour distances of
+	// spacingWeights mix the surfaces wherever the section is thinner than
+	// a coarsely probed surface's step, and a surface probed 5–20 times
+	// more coarsely than the other then weighs as a handful of points,
+	// trimmed off the camber line's bins as extremes.
+	cl = camber(xs, ys, surfaceWeights(xs, upper))
+	for k := range n {
+		upper[k] = ys[k] >= cl.at(xs[k])
+	}
 	tailSides(xs, ys, upper)
 	// The centres of the caps: the camber line's points at their edges.
 	xn, xt := noseCap, 1-tailCap
@@ -641,6 +743,42 @@ func sectionOrder(pts []geometry.Point, sel []int32, f chordFrame, ws []float64)
 		out[k] = sel[o]
 	}
 	return out, sc
+}
+
+// surfaceWeights returns, for each point (chord coordinates xs; upper
+// tells its surface), the length along the chord its surface's points
+// either side of it leave to it: half the distance between its
+// neighbours by x on the same surface (the whole distance to the one
+// neighbour at an end). The weights of a surface sum to its extent along
+// the chord, and half its end steps, whatever its step; a point off the
+// surface (a probe slip) weighs as little as the surface's points beside
+// it.
+func surfaceWeights(xs []float64, upper []bool) []float64 {
+	w := make([]float64, len(xs))
+	for _, side := range [2]bool{true, false} {
+		var idx []int
+		for k, u := range upper {
+			if u == side {
+				idx = append(idx, k)
+			}
+		}
+		slices.SortStableFunc(idx, func(a, b int) int { return cmp.Compare(xs[a], xs[b]) })
+		for j, k := range idx {
+			lo, hi := xs[k], xs[k]
+			if j > 0 {
+				lo = xs[idx[j-1]]
+			}
+			if j+1 < len(idx) {
+				hi = xs[idx[j+1]]
+			}
+			d := hi - lo
+			if j > 0 && j+1 < len(idx) {
+				d /= 2
+			}
+			w[k] = d
+		}
+	}
+	return w
 }
 
 // tailMiddle returns the middle between parabolas fitted to the upper and

@@ -549,7 +549,8 @@ func (c *Curve) Transform(m [2][2]float64, b geometry.Point) *Curve {
 			lu[k] = fu * c.leafU[k]
 			ls[k] = fs * c.leafS[k]
 		}
-		out := withTables(ts, xs, ys, c.closed, pl, append([]int32(nil), c.leafAt...), lu, ls)
+		// The leaves' indices are shared: no curve changes them once made.
+		out := withTables(ts, xs, ys, c.closed, pl, c.leafAt, lu, ls)
 		out.fixEnds(func(i int) float64 { return fu * c.Span(i) })
 		return out
 	}

@@ -189,13 +189,11 @@ func predictInto(e, ts, xs, ys []float64, periodic bool, period float64, step in
 		if err != nil {
 			return
 		}
-		px := prob.pieces(f.gs[0], f.gams[0])
-		py := prob.pieces(f.gs[1], f.gams[1])
 		for i := phase + half; i < m; i += step {
 			if !periodic && (i == 0 || i == m-1) {
 				continue
 			}
-			e[i] = normalError(prob, px, py, ts[i], xs[i], ys[i], period)
+			e[i] = normalError(prob, f, ts[i], xs[i], ys[i], period)
 		}
 	})
 }
@@ -205,18 +203,18 @@ func predictInto(e, ts, xs, ys []float64, periodic bool, period float64, step in
 const predictParallel = 1024
 
 // normalError returns the signed distance, along the normal of the spline
-// (pieces px, py on prob's knots) at parameter t, of (x, y) from the
+// f (columns x and y, on prob's knots) at parameter t, of (x, y) from the
 // spline point at t.
-func normalError(prob *splineProblem, px, py [][4]float64, t, x, y, period float64) float64 {
+func normalError(prob *splineProblem, f *splineFit, t, x, y, period float64) float64 {
 	st := prob.ts
 	if prob.periodic && t < st[0] {
 		t += period
 	}
 	j := sort.SearchFloat64s(st, t) - 1
-	j = max(0, min(j, len(px)-1))
+	j = max(0, min(j, len(prob.hs)-1))
 	u := t - st[j]
-	gx, dx, _ := poly(px[j], u)
-	gy, dy, _ := poly(py[j], u)
+	gx, dx, _ := poly(prob.piece(f.gs[0], f.gams[0], j), u)
+	gy, dy, _ := poly(prob.piece(f.gs[1], f.gams[1], j), u)
 	l := math.Hypot(dx, dy)
 	if l == 0 {
 		return math.NaN()

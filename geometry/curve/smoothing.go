@@ -325,6 +325,7 @@ func evalRisk(p *splineProblem, xs, ys, c []float64, lambda, clip float64) (risk
 		ss += c[i] * r2
 		sc += c[i]
 	}
+	p.release(f)
 	return riskFit{rss: ss / sc, trace: f.trace, n: sc}, nil
 }
 
@@ -369,8 +370,10 @@ func critWeights(ws []float64) []float64 {
 // nose), which a smoothing spline with weights that change as fast is
 // not. The robust scale of the standardised offsets (1.4826 × median) of
 // the points with c ≥ 1 is the noise; τ is noiseCorrelation of the raw
-// offsets.
-func localNoise(xs, ys, s, T, c []float64, period float64) (sigma, tau float64, lags int) {
+// offsets. profile holds, per point, the robust scale of the standardised
+// offsets of the noiseProfileSide points either side of it (see
+// noiseProfile), nil when there are too few.
+func localNoise(xs, ys, s, T, c []float64, period float64) (sigma, tau float64, lags int, profile []float64) {
 	m := len(xs)
 	closed := period > 0
 	pos := func(j int) (float64, int) { // arc position and index of neighbour j (may wrap)
@@ -480,11 +483,50 @@ func localNoise(xs, ys, s, T, c []float64, period float64) (sigma, tau float64, 
 		}
 	}
 	if len(std) == 0 {
-		return 0, 1, 0
+		return 0, 1, 0, nil
 	}
 	sigma = 1.4826 * median(std)
 	tau, lags = noiseCorrelation(raw, c, outlierSigmas*sigma)
-	return sigma, tau, lags
+	return sigma, tau, lags, noiseProfile(stdAt, hasStd, closed)
+}
+
+// noiseProfileSide is the number of points either side of a point whose
+// standardised offsets give its local noise (noiseProfile): 21 offsets
+// give a robust scale to about ±25 % (a median of 21, common practice).
+const noiseProfileSide = 10
+
+// noiseProfile returns, per point, the robust scale (1.4826 × median) of
+// the standardised offsets std (those with has set) of the
+// noiseProfileSide points either side of it (the loop wrapping when
+// closed): the noise where the point lies. A scanner's noise grows where
+// its beam grazes the surface (round the nose, behind a steep shoulder),
+// and one figure for the whole outline leaves it out there. nil when
+// there are fewer than 2·noiseProfileSide + 1 points.
+func noiseProfile(std []float64, has []bool, closed bool) []float64 {
+	m := len(std)
+	if m < 2*noiseProfileSide+1 {
+		return nil
+	}
+	out := make([]float64, m)
+	win := make([]float64, 0, 2*noiseProfileSide+1)
+	for i := range m {
+		win = win[:0]
+		for j := i - noiseProfileSide; j <= i+noiseProfileSide; j++ {
+			k := j
+			if closed {
+				k = ((j % m) + m) % m
+			} else if k < 0 || k >= m {
+				continue
+			}
+			if has[k] {
+				win = append(win, std[k])
+			}
+		}
+		if len(win) > noiseProfileSide {
+			out[i] = 1.4826 * median(win)
+		}
+	}
+	return out
 }
 
 // Windows of localNoise.

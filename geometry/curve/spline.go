@@ -54,6 +54,9 @@ type splineProblem struct {
 	fixed     *splineFixed
 	scratchMu sync.Mutex
 	scratch   []*splineScratch
+	// spare holds columns of n values that fits handed back (release),
+	// for the values and second derivatives of later fits.
+	spare [][]float64
 }
 
 // splineFixed holds what every fit of a problem shares: the band of R and,
@@ -74,7 +77,7 @@ type splineScratch struct {
 	sol        splineSolver
 	c1, c2     []float64
 	rhs        [][]float64
-	s0, s1, s2 []float64
+	s0, s1, s2 []float64 // the band of the inverse, for the trace (made on first use)
 	fs         []float64 // λ/wᵢ
 }
 
@@ -207,23 +210,11 @@ func (b *splineBand) slot(j, k int) int {
 	}
 }
 
-// assemble returns the band of R and of λ QᵀW⁻¹Q.
+// assemble returns the band of R and of R + λ QᵀW⁻¹Q, the reference
+// assembleInto is tested against.
 func (p *splineProblem) assemble(lambda float64) (r, a *splineBand) {
-	m := p.m
-	r = splineNewBand(m, p.periodic)
-	a = splineNewBand(m, p.periodic)
-	for i, h := range p.hs {
-		u0, u1 := p.unknown(i), p.unknown(i+1)
-		if u0 >= 0 {
-			r.add(u0, u0, h/3)
-		}
-		if u1 >= 0 {
-			r.add(u1, u1, h/3)
-		}
-		if u0 >= 0 && u1 >= 0 {
-			r.add(u0, u1, h/6)
-		}
-	}
+	r = p.assembleR()
+	a = splineNewBand(p.m, p.periodic)
 	for i := 0; i < p.n(); i++ {
 		cs, qs := p.qRow(i)
 		f := lambda / p.ws[i]
@@ -250,6 +241,24 @@ func (p *splineProblem) assemble(lambda float64) (r, a *splineBand) {
 	return r, a
 }
 
+// assembleR returns the band of R, the λ-independent part of the system.
+func (p *splineProblem) assembleR() *splineBand {
+	r := splineNewBand(p.m, p.periodic)
+	for i, h := range p.hs {
+		u0, u1 := p.unknown(i), p.unknown(i+1)
+		if u0 >= 0 {
+			r.add(u0, u0, h/3)
+		}
+		if u1 >= 0 {
+			r.add(u1, u1, h/3)
+		}
+		if u0 >= 0 && u1 >= 0 {
+			r.add(u0, u1, h/6)
+		}
+	}
+	return r
+}
+
 // fixedPart returns the λ-independent parts of p's system, made once.
 func (p *splineProblem) fixedPart() *splineFixed {
 	p.fixedOnce.Do(func() {
@@ -258,7 +267,7 @@ func (p *splineProblem) fixedPart() *splineFixed {
 		}
 		n := p.n()
 		fx := &splineFixed{qu: make([][3]int32, n), qv: make([][3]float64, n)}
-		fx.r, _ = p.assemble(0)
+		fx.r = p.assembleR()
 		for i := 0; i < n; i++ {
 			cs, qs := p.qRow(i)
 			for x := 0; x < 3; x++ {
@@ -285,8 +294,7 @@ func (p *splineProblem) getScratch() *splineScratch {
 	sc := &splineScratch{
 		a:   splineNewBand(m, p.periodic),
 		ldl: splineLDL{d: make([]float64, m), l1: make([]float64, m), l2: make([]float64, m)},
-		s0:  make([]float64, m), s1: make([]float64, m), s2: make([]float64, m),
-		fs: make([]float64, p.n()),
+		fs:  make([]float64, p.n()),
 	}
 	if p.periodic {
 		sc.c1, sc.c2 = make([]float64, m-2), make([]float64, m-2)
@@ -299,6 +307,36 @@ func (p *splineProblem) putScratch(sc *splineScratch) {
 	p.scratchMu.Lock()
 	p.scratch = append(p.scratch, sc)
 	p.scratchMu.Unlock()
+}
+
+// column returns a column of n values for a fit's output: one a fit
+// handed back, or a new one. Its contents are arbitrary.
+func (p *splineProblem) column() []float64 {
+	p.scratchMu.Lock()
+	defer p.scratchMu.Unlock()
+	if k := len(p.spare); k > 0 {
+		c := p.spare[k-1]
+		p.spare = p.spare[:k-1]
+		return c
+	}
+	return make([]float64, p.n())
+}
+
+// release hands f's columns back to p for later fits of p: a caller that
+// has taken what it needs from a fit of p (a risk, the pieces of a curve)
+// and keeps no reference to f. Columns of another length are left to the
+// collector.
+func (p *splineProblem) release(f *splineFit) {
+	p.scratchMu.Lock()
+	defer p.scratchMu.Unlock()
+	for _, cols := range [][][]float64{f.gs, f.gams} {
+		for _, c := range cols {
+			if len(c) == p.n() {
+				p.spare = append(p.spare, c)
+			}
+		}
+	}
+	f.gs, f.gams = nil, nil
 }
 
 // assembleInto writes R + λ QᵀW⁻¹Q into a, adding the same terms in the
@@ -749,11 +787,11 @@ func (p *splineProblem) fit(lambda float64, ys [][]float64, wantTrace bool) (*sp
 	// values fills in column k once the solve is done.
 	values := func(k int) {
 		rhs := sc.rhs[k]
-		g := make([]float64, n)
-		gam := make([]float64, n)
+		g, gam := p.column(), p.column()
 		if p.periodic {
 			copy(gam, rhs)
 		} else {
+			gam[0], gam[n-1] = 0, 0 // natural ends
 			copy(gam[1:n-1], rhs)
 		}
 		p.valuesInto(fx, ys[k], rhs, sc.fs, g)
@@ -935,6 +973,11 @@ func (p *splineProblem) openTrace(lambda float64) (float64, error) {
 // pentadiagonal.
 func (p *splineProblem) traceTerm(fx *splineFixed, sc *splineScratch, f *splineLDL) float64 {
 	a, r := sc.a, fx.r
+	if sc.s0 == nil {
+		// Made for the first trace only: most problems are fitted
+		// without one (replicas, the sampling test's subsets).
+		sc.s0, sc.s1, sc.s2 = make([]float64, p.m), make([]float64, p.m), make([]float64, p.m)
+	}
 	f.inverseBandInto(sc.s0, sc.s1, sc.s2)
 	s0, s1, s2 := sc.s0, sc.s1, sc.s2
 	var t float64
@@ -956,16 +999,22 @@ func (p *splineProblem) traceTerm(fx *splineFixed, sc *splineScratch, f *splineL
 //	g(u) = a + b u + c u² + d u³
 //	a = gᵢ, b = (gᵢ₊₁ − gᵢ)/h − h(2γᵢ + γᵢ₊₁)/6, c = γᵢ/2, d = (γᵢ₊₁ − γᵢ)/(6h)
 func (p *splineProblem) pieces(g, gam []float64) [][4]float64 {
-	n := p.n()
 	out := make([][4]float64, len(p.hs))
-	for i, h := range p.hs {
-		j := (i + 1) % n
-		out[i] = [4]float64{
-			g[i],
-			(g[j]-g[i])/h - h*(2*gam[i]+gam[j])/6,
-			gam[i] / 2,
-			(gam[j] - gam[i]) / (6 * h),
-		}
+	for i := range p.hs {
+		out[i] = p.piece(g, gam, i)
 	}
 	return out
+}
+
+// piece returns the coefficients of piece i (see pieces), for a caller
+// that needs a few pieces, or each once, and not the table.
+func (p *splineProblem) piece(g, gam []float64, i int) [4]float64 {
+	h := p.hs[i]
+	j := (i + 1) % p.n()
+	return [4]float64{
+		g[i],
+		(g[j]-g[i])/h - h*(2*gam[i]+gam[j])/6,
+		gam[i] / 2,
+		(gam[j] - gam[i]) / (6 * h),
+	}
 }

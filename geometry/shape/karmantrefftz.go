@@ -111,6 +111,15 @@ func (k KarmanTrefftz) Edges() (le, te geometry.Point, err error) {
 		return geometry.Point{}, geometry.Point{}, err
 	}
 	n := k.exponent()
+	z := k.mapZeta(k.circle(k.lePhi()))
+	return geometry.Point{X: real(z), Y: imag(z)}, geometry.Point{X: n, Y: 0}, nil
+}
+
+// lePhi returns the circle angle of the leading edge: the point of the
+// section farthest from the trailing edge z = n b, by a coarse scan and
+// golden-section search in the angle.
+func (k KarmanTrefftz) lePhi() float64 {
+	n := k.exponent()
 	tez := complex(n, 0)
 	_, phi0 := k.radius()
 	dist := func(phi float64) float64 { return cmplx.Abs(k.mapZeta(k.circle(phi)) - tez) }
@@ -138,8 +147,7 @@ func (k KarmanTrefftz) Edges() (le, te geometry.Point, err error) {
 			fd = dist(d)
 		}
 	}
-	z := k.mapZeta(k.circle((a + b) / 2))
-	return geometry.Point{X: real(z), Y: imag(z)}, geometry.Point{X: n, Y: 0}, nil
+	return (a + b) / 2
 }
 
 // Normalized returns the points of Points(panels) translated, rotated and

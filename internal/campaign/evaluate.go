@@ -32,8 +32,10 @@ type Record struct {
 	TwistErr float64 // degrees
 	LEErr    float64 // chord units
 	NodeErr  float64 // largest distance of a node from the true shape, chord units
-	TEGot    string
-	TERight  bool
+	// NodeErrAt is where that node is, in the section's normalised frame.
+	NodeErrAt geometry.Point
+	TEGot     string
+	TERight   bool
 	// TEUndecidable is true when the good points cannot tell the true
 	// trailing-edge kind from another at their sampling (teUndecidable);
 	// TEEndPoints counts the good points on the true base or rounded end.
@@ -71,8 +73,9 @@ func evaluate(r *Record, tr *scangen.Truth, sec *section) {
 	leAbs := le.Sub(tle).Norm()
 	r.LEErr = leAbs / tr.Chord
 	for _, n := range sec.Nodes {
-		d, _ := sh.Nearest(n)
-		r.NodeErr = math.Max(r.NodeErr, d)
+		if d, _ := sh.Nearest(n); d > r.NodeErr {
+			r.NodeErr, r.NodeErrAt = d, n
+		}
 	}
 	r.TEGot = sec.TrailingEdge.Kind
 	r.TERight = teRight(tr, r.TEGot)

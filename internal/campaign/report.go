@@ -149,6 +149,10 @@ func hazardKeys(r *Record) []string {
 	add(s.Noise.Grazing > 0, "noise grows where the beam grazes")
 	add(s.Noise.StepMM > 0, "stair-stepped coordinates")
 	add(s.Noise.OffsetMM != 0, "probe-radius compensation error")
+	if c := s.Noise.Correlated; c != nil {
+		add(c.Form == scangen.CorrelatedWander, "correlated noise: wander along the outline")
+		add(c.Form == scangen.CorrelatedMesh, "correlated noise: mesh slice")
+	}
 	add(s.Order.Overlap > 0, "passes overlap at the "+s.Order.Meet)
 	add(s.Order.PassShiftMM > 0, "second pass moved")
 	add(s.Defects.Repeat > 0, "stretch measured again")

@@ -29,12 +29,16 @@ func NewCase(seed uint64) (*Case, error) {
 	return &Case{Seed: seed, Spec: spec, Scan: scan}, nil
 }
 
+// WellSampled reports whether the case counts among the well-sampled
+// ones of the figures (Record.Well).
+func (c *Case) WellSampled() bool { return wellSampled(c.Spec, c.Scan.Truth) }
+
 // Run runs the case through the geometry chain and compares the section
 // with the truth. A panic in the chain is recorded as a failure.
 func (c *Case) Run() Record {
 	tr := *c.Scan.Truth
 	tr.Lines, tr.Section = nil, nil // records stay small
-	r := Record{Seed: c.Seed, Spec: c.Spec, Truth: &tr, File: c.Scan.Name, Well: wellSampled(c.Spec, c.Scan.Truth)}
+	r := Record{Seed: c.Seed, Spec: c.Spec, Truth: &tr, File: c.Scan.Name, Well: c.WellSampled()}
 	panels := 0
 	if c.Spec.Category == "lift" {
 		panels = LiftPanels

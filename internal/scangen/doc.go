@@ -95,6 +95,25 @@
 // voxelised scan writes them on a grid of 0.05–0.2 mm (at most 0.2 % of the
 // chord), stair steps along the outline.
 //
+// Correlated noise. Some scans carry scatter that neighbouring points
+// share, which their local fits cannot see: a wander, a smooth random
+// offset along the outline with a Gaussian covariance whose correlation
+// length is 3–30 mean point gaps, 0.5–2 times the independent scatter, on
+// top of it (a hand-held scanner drifting as it sweeps); or a mesh slice,
+// the cut of a strip of triangles whose vertices carry the scanner's noise
+// (0.7–1.5 times the category's), where each point of the cut mixes the
+// noise of the two vertices of the edge it crosses, written in the order
+// the cut chains them round the loop; in half of them the station lies
+// near a row of vertices (within 3 % of the rows' spacing), and the cut
+// leaves its points in near pairs. What stays independent in a mesh slice
+// is at most 0.3 of the category's scatter. Scan slices carry it in half the
+// cases (mostly the mesh form), voxelised and dense scans in 0.3, the
+// general sweep in 0.15. Whether a case carries it and its form and size
+// are drawn from a random stream of their own, as is the noise itself, so
+// the draws and the file of every case without it are those of a
+// generator without it. The true surface stays the noise-free outline:
+// the facets' own departure from it is the mesh's, and is left out.
+//
 // Defects. Up to 5 % of the points moved off the surface by 0.5–5 % of
 // the chord (at least ten times the noise), outward or inward: probe slips,
 // or runs of 2–4 (up to 8 in clusters) neighbouring points off by about

@@ -31,7 +31,9 @@ func Categories() []string {
 }
 
 // Draw returns a random realistic case for seed; see the package
-// documentation for the model of each category.
+// documentation for the model of each category. Whether a case carries
+// correlated noise is drawn from a stream of its own (drawCorrelated), so
+// the other draws of every case are those of a generator without it.
 func Draw(seed uint64) Spec {
 	rng := rand.New(rand.NewPCG(seed, 0xd7a3))
 	u := rng.Float64()
@@ -43,7 +45,9 @@ func Draw(seed uint64) Spec {
 		}
 		u -= c.share
 	}
-	return DrawCategory(name, rng)
+	s := DrawCategory(name, rng)
+	drawCorrelated(&s, seed)
+	return s
 }
 
 // DrawCategory returns a random case of the named category with the

@@ -95,10 +95,11 @@ type point struct {
 	q    geometry.Point
 	z    float64
 	line Line
-	id   int  // index before shuffling
-	src  int  // id of the original, for duplicates; -1 for the others
-	pass bool // the first point of a probe program's second pass
-	ext  bool // a point of the first pass's overlap over the second
+	id   int     // index before shuffling
+	src  int     // id of the original, for duplicates; -1 for the others
+	pass bool    // the first point of a probe program's second pass
+	ext  bool    // a point of the first pass's overlap over the second
+	csd  float64 // σ of its correlated noise, chord units
 }
 
 // Generate makes the scan of spec with the random draws of seed. The same
@@ -118,6 +119,7 @@ func Generate(spec Spec, seed uint64) (*Scan, error) {
 	g.offset = spec.Noise.OffsetMM / spec.Placement.ChordMM
 	sb, cb := math.Sincos(spec.Noise.BeamDeg * math.Pi / 180)
 	g.beam = geometry.Point{X: cb, Y: sb}
+	g.corr = newField(spec.Noise.Correlated, sh.Length(), max(spec.Sampling.Points, 2*spec.Sampling.PerSurface), spec.Placement.ChordMM, seed)
 	smp := &sampler{sh: sh, sm: spec.Sampling, rng: rng}
 	switch spec.Order.Start {
 	case "nose":
@@ -134,9 +136,17 @@ func Generate(spec Spec, seed uint64) (*Scan, error) {
 		}
 		ts = smp.params()
 	}
+	var offs, sds []float64 // a mesh's noise, by point
+	if g.corr != nil && g.corr.c.Form == CorrelatedMesh {
+		ts, offs, sds = g.corr.meshCut(sh, ts)
+	}
 	pts := make([]point, len(ts))
 	for i, t := range ts {
 		pts[i] = g.measure(t, LineGood)
+		if offs != nil {
+			pts[i].q = pts[i].q.Add(sh.Normal(t).Scale(offs[i]))
+			pts[i].csd = sds[i]
+		}
 	}
 	plantOutliers(pts, sh, spec.Defects, g.noise, rng)
 	// The first pass's overlap over the second and a repeated stretch,
@@ -193,6 +203,7 @@ type gen struct {
 	offset  float64        // probe-radius compensation error, chord units
 	beam    geometry.Point // a scanner's beam, for the grazing noise
 	shifted float64        // largest shift of a pass, chord units
+	corr    *field         // correlated noise, nil for none
 }
 
 // sigma returns the standard deviation of the scatter at loop parameter
@@ -210,7 +221,13 @@ func (g *gen) sigma(t float64) float64 {
 // scatter, and out of a 3D plane by the scatter.
 func (g *gen) measure(t float64, kind string) point {
 	sd := g.sigma(t)
-	p := point{q: g.sh.At(t).Add(g.sh.Normal(t).Scale(g.offset + sd*g.rng.NormFloat64())), line: Line{Kind: kind, T: t}, src: -1}
+	off := g.offset + sd*g.rng.NormFloat64()
+	var csd float64
+	if g.corr != nil && g.corr.c.Form == CorrelatedWander {
+		off += g.corr.wander(g.sh.ArcAt(t))
+		csd = g.corr.sd
+	}
+	p := point{q: g.sh.At(t).Add(g.sh.Normal(t).Scale(off)), line: Line{Kind: kind, T: t}, src: -1, csd: csd}
 	if g.spec.Placement.Plane != "" {
 		p.z = sd * g.rng.NormFloat64()
 	}
@@ -266,7 +283,7 @@ func (g *gen) shift(pts []point, d float64) {
 }
 
 // noiseStats returns the RMS and the largest standard deviation of the
-// scatter over the good points.
+// scatter over the good points, the correlated scatter included.
 func (g *gen) noiseStats(pts []point) (rms, top float64) {
 	var s2 float64
 	var n int
@@ -275,12 +292,17 @@ func (g *gen) noiseStats(pts []point) (rms, top float64) {
 			continue
 		}
 		sd := g.sigma(p.line.T)
+		sd = math.Hypot(sd, p.csd)
 		s2 += sd * sd
 		top = math.Max(top, sd)
 		n++
 	}
 	if n == 0 {
-		return g.noise, g.noise
+		sd := g.noise
+		if g.corr != nil {
+			sd = math.Hypot(sd, g.corr.sd)
+		}
+		return sd, sd
 	}
 	return math.Sqrt(s2 / float64(n)), top
 }

@@ -68,6 +68,10 @@ type Noise struct {
 	// StepMM quantises the written coordinates to multiples of the step
 	// (a voxelised scan's stair steps), in millimetres; 0 leaves them.
 	StepMM float64 `json:"step_mm,omitempty"`
+	// Correlated, when set, adds scatter normal to the surface that
+	// neighbouring points share (a mesh's noisy vertices, a scanner that
+	// drifts); nil for none.
+	Correlated *Correlated `json:"correlated,omitempty"`
 }
 
 // Defects are the lines that are not clean points of the outline.

@@ -6,6 +6,7 @@
 //	go run ./internal/campaign/cmd/campaign -n 2000 -seed 1 -dump /tmp/bad
 //	go run ./internal/campaign/cmd/campaign -case 1234
 //	go run ./internal/campaign/cmd/campaign -n 100 -category lift
+//	go run ./internal/campaign/cmd/campaign -n 3000 -well -records /tmp/recs.jsonl
 //
 // Every scan is invented data, never measured. The exit status is 0 even
 // when targets are missed (it measures); 2 on bad usage or a generator
@@ -34,6 +35,8 @@ func main() {
 	one := flag.Uint64("case", 0, "run one case by its seed and print everything about it")
 	top := flag.Int("top", 15, "lines of each failure histogram")
 	quiet := flag.Bool("quiet", false, "no progress lines")
+	well := flag.Bool("well", false, "run only the well-sampled cases among those picked (≥ 300 good points, σ ≤ 0.5): the cases behind the well-sampled figures of the same run without it")
+	records := flag.String("records", "", "file to write every case's record into, one JSON object a line (for analyses of the tails)")
 	category := flag.String("category", "", "run only cases of this category (one of "+strings.Join(scangen.Categories(), ", ")+"): the first N seeds from -seed on that draw it")
 	hazard := flag.String("hazard", "", "run only cases that carry this measurement hazard (as the breakdown names it, e.g. \"outlier clusters up to 8\"): the first N seeds from -seed on that draw it")
 	flag.Parse()
@@ -48,6 +51,12 @@ func main() {
 	if err != nil {
 		fmt.Fprintln(os.Stderr, "campaign:", err)
 		os.Exit(2)
+	}
+	if *well {
+		if seeds, err = wellSeeds(seeds); err != nil {
+			fmt.Fprintln(os.Stderr, "campaign:", err)
+			os.Exit(2)
+		}
 	}
 	opts := campaign.Options{Workers: *workers, Every: 200}
 	if !*quiet {
@@ -73,6 +82,12 @@ func main() {
 	campaign.WriteTable(os.Stdout, campaign.Figures(recs))
 	campaign.WriteFailures(os.Stdout, recs, *top)
 	campaign.WriteBreakdowns(os.Stdout, recs)
+	if *records != "" {
+		if err := campaign.WriteRecords(*records, recs); err != nil {
+			fmt.Fprintln(os.Stderr, "campaign:", err)
+			os.Exit(2)
+		}
+	}
 	if *dump != "" {
 		if err := dumper.WriteRepro(recs); err != nil {
 			fmt.Fprintln(os.Stderr, "campaign:", err)
@@ -100,6 +115,26 @@ func pickSeeds(seed uint64, n int, category, hazard string) ([]uint64, error) {
 		}
 	}
 	return seeds, nil
+}
+
+// wellSeeds returns the seeds whose cases are well sampled, in order. The
+// scans are generated to tell (the good points are counted on them), and
+// generated again when run: a small cost beside the chain's.
+func wellSeeds(seeds []uint64) ([]uint64, error) {
+	var out []uint64
+	for _, s := range seeds {
+		c, err := campaign.NewCase(s)
+		if err != nil {
+			return nil, err
+		}
+		if c.WellSampled() {
+			out = append(out, s)
+		}
+	}
+	if len(out) == 0 {
+		return nil, fmt.Errorf("-well: none of the %d cases picked is well sampled", len(seeds))
+	}
+	return out, nil
 }
 
 // runOne runs one case and prints its spec, truth frame and record.
