@@ -5,6 +5,7 @@ import (
 
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/curve"
+	"github.com/foilwright/foilwright/internal/numeric"
 	"gonum.org/v1/gonum/mat"
 )
 
@@ -214,23 +215,10 @@ func axisCurvature(us, vs []float64) (kappa, sens float64, ok bool) {
 	if math.IsInf(bestRSS, 1) {
 		return 0, 0, false
 	}
-	lo, hi := best-h, best+h
-	g := (math.Sqrt(5) - 1) / 2
-	x1, x2 := hi-g*(hi-lo), lo+g*(hi-lo)
-	f1, f2 := rss(x1), rss(x2)
-	for hi-lo > 1e-5 {
-		if f1 < f2 {
-			hi, x2, f2 = x2, x1, f1
-			x1 = hi - g*(hi-lo)
-			f1 = rss(x1)
-		} else {
-			lo, x1, f1 = x1, x2, f2
-			x2 = lo + g*(hi-lo)
-			f2 = rss(x2)
-		}
-	}
-	if r := rss((lo + hi) / 2); r <= bestRSS {
-		best = (lo + hi) / 2
+	// Golden-section search of the bracket down to 1e-5 rad.
+	iters := int(math.Ceil(math.Log(1e-5/(2*h)) / math.Log((math.Sqrt(5)-1)/2)))
+	if phi := numeric.Golden(rss, best-h, best+h, iters); rss(phi) <= bestRSS {
+		best = phi
 	}
 	f := fitAxis(us, vs, best)
 	if !f.ok {
