@@ -132,19 +132,24 @@ func (k KarmanTrefftz) lePhi() float64 {
 		}
 	}
 	h := 2 * math.Pi / samples
-	a, b := phi0+float64(best-1)*h, phi0+float64(best+1)*h
+	return goldenMax(dist, phi0+float64(best-1)*h, phi0+float64(best+1)*h, 1e-12)
+}
+
+// goldenMax returns the maximiser of f on [a, b] by golden-section search
+// (Kiefer 1953), shrinking the bracket to tol; f is assumed unimodal there.
+func goldenMax(f func(float64) float64, a, b, tol float64) float64 {
 	g := (math.Sqrt(5) - 1) / 2
 	c, d := b-g*(b-a), a+g*(b-a)
-	fc, fd := dist(c), dist(d)
-	for b-a > 1e-12 {
+	fc, fd := f(c), f(d)
+	for b-a > tol {
 		if fc > fd {
 			b, d, fd = d, c, fc
 			c = b - g*(b-a)
-			fc = dist(c)
+			fc = f(c)
 		} else {
 			a, c, fc = c, d, fd
 			d = a + g*(b-a)
-			fd = dist(d)
+			fd = f(d)
 		}
 	}
 	return (a + b) / 2

@@ -117,20 +117,5 @@ func maximise(f func(float64) float64, a, b float64) float64 {
 			best, bestF = a+h*float64(i), v
 		}
 	}
-	lo, hi := math.Max(a, best-h), math.Min(b, best+h)
-	g := (math.Sqrt(5) - 1) / 2
-	x1, x2 := hi-g*(hi-lo), lo+g*(hi-lo)
-	f1, f2 := f(x1), f(x2)
-	for hi-lo > 1e-13 {
-		if f1 > f2 {
-			hi, x2, f2 = x2, x1, f1
-			x1 = hi - g*(hi-lo)
-			f1 = f(x1)
-		} else {
-			lo, x1, f1 = x1, x2, f2
-			x2 = lo + g*(hi-lo)
-			f2 = f(x2)
-		}
-	}
-	return (lo + hi) / 2
+	return goldenMax(f, math.Max(a, best-h), math.Min(b, best+h), 1e-13)
 }
