@@ -286,11 +286,22 @@ func windowFit(pts []geometry.Point, seq []int32, i, w int, span, tol float64, b
 	// wide the window.
 	m := min(k, supportPoints)
 	sup := buf
-	for j := m - 1; j >= 0; j-- {
-		sup = append(sup, at(-w-1-j*(k-1)/(m-1)))
-	}
-	for j := range m {
-		sup = append(sup, at(w+1+j*(k-1)/(m-1)))
+	if m == k {
+		// Every point of the supports (j(k−1)/(m−1) = j), without the
+		// divisions.
+		for j := m - 1; j >= 0; j-- {
+			sup = append(sup, at(-w-1-j))
+		}
+		for j := range m {
+			sup = append(sup, at(w+1+j))
+		}
+	} else {
+		for j := m - 1; j >= 0; j-- {
+			sup = append(sup, at(-w-1-j*(k-1)/(m-1)))
+		}
+		for j := range m {
+			sup = append(sup, at(w+1+j*(k-1)/(m-1)))
+		}
 	}
 	g, fit = gapFit(sup, m, at(0), tol)
 	return g, reach, fit, true
