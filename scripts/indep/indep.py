@@ -100,16 +100,36 @@ def describe(spec):
 
 def repro(args, r):
     return "/usr/bin/python3 %s --prep %s --mode %s --case %d --keep /tmp/indep-%s-%d" % (
-        HERE, args.prep, r["mode"], r["seed"], r["mode"], r["seed"])
+        HERE, r["prep"], r["mode"], r["seed"], r["mode"], r["seed"])
 
 
-def table(args, recs, specs):
+def outcome(r):
+    if r["rc"] != 0:
+        return "exit %d" % r["rc"]
+    parts = ["wrong " + r["wrong"]] if r["wrong"] else ["ok"]
+    if r["te_decidable"] and not r["te_right"]:
+        parts.append("TE " + r["te_got"])
+    missed = [n for n, c in zip(("chord", "twist", "le", "surface"), r["covered"]) if not c]
+    if missed:
+        parts.append("uncovered " + "+".join(missed))
+    return ", ".join(parts)
+
+
+def changes(recs, base, specs):
+    """Lists the cases whose outcome differs between the two binaries."""
+    diff = [(a, b) for a, b in zip(recs, base) if outcome(a) != outcome(b)]
+    print("cases that changed, --against -> --prep (%d):" % len(diff))
+    for a, b in diff:
+        print("  seed %d: %s -> %s   %s" % (a["seed"], outcome(b), outcome(a), describe(specs[(a["mode"], a["seed"])])))
+
+
+def table(args, recs, specs, prep):
     n = len(recs)
     ok = [r for r in recs if r["rc"] == 0]
     well = [r for r in recs if r["well"]]
     well_ok = [r for r in well if r["rc"] == 0]
     wrong = [r for r in ok if r["wrong"]]
-    print("indep: %d cases, mode %s, seeds %s, prep %s" % (n, args.mode, args.seeds, args.prep))
+    print("indep: %d cases, mode %s, seeds %s, prep %s" % (n, args.mode, args.seeds, prep))
     print()
     print("| figure | value |")
     print("| --- | --- |")
@@ -219,6 +239,7 @@ def table(args, recs, specs):
 def main():
     ap = argparse.ArgumentParser(description=__doc__.split("\n\n")[0])
     ap.add_argument("--prep", help="a built foilwright binary (go build -o /tmp/fw ./cmd/foilwright)")
+    ap.add_argument("--against", help="a second binary (a baseline build) run on the same files; prints both tables and the cases that changed")
     ap.add_argument("--mode", default="normal", choices=["normal", "sparse"])
     ap.add_argument("--seeds", default="1-300", help="seeds, e.g. 1-300 or 3,7,9")
     ap.add_argument("--case", type=int, help="run one seed and print everything about it")
@@ -235,21 +256,29 @@ def main():
         sys.exit(1 if bad else 0)
     if not args.prep:
         ap.error("--prep is required")
-    if not os.access(args.prep, os.X_OK):
-        ap.error("--prep %r is not an executable file" % args.prep)
+    preps = [args.prep] + ([args.against] if args.against else [])
+    for b in preps:
+        if not os.access(b, os.X_OK):
+            ap.error("%r is not an executable file" % b)
     seeds = [args.case] if args.case is not None else parse_seeds(args.seeds)
     work = args.keep or tempfile.mkdtemp(prefix="indep-")
-    recs, specs = [], {}
+    recs, base, specs = [], [], {}
     out = open(args.records, "w") if args.records else None
     for i, seed in enumerate(seeds):
-        spec, truth, rec = score.run_case(args.prep, seed, args.mode, work, keep=bool(args.keep))
+        spec, truth, both = score.run_case(preps, seed, args.mode, work, keep=bool(args.keep))
+        rec = both[0]
+        if args.against:
+            base.append(both[1])
         spec["truth_te"] = truth["te_kind"]
         spec["truth_te_size"] = truth["te_size"]
         spec["truth_scatter"] = truth["scatter"]
         specs[(args.mode, seed)] = spec
         recs.append(rec)
         if out:
-            out.write(json.dumps({"spec": spec, "record": rec}, default=float) + "\n")
+            line = {"spec": spec, "record": rec}
+            if args.against:
+                line["against"] = both[1]
+            out.write(json.dumps(line, default=float) + "\n")
         if args.case is None and (i + 1) % 25 == 0:
             print("  ... %d/%d" % (i + 1, len(seeds)), file=sys.stderr)
         if args.case is not None:
@@ -257,13 +286,19 @@ def main():
             print(json.dumps(spec, indent=1, default=float))
             print("truth: chord %.6f mm, LE (%.6f, %.6f) mm, TE point (%.6f, %.6f) mm, TE %s (end %.6f c), mirrored %s, scatter %.2e c" % (
                 truth["chord_mm"], *truth["le_mm"], *truth["te_mm"], truth["te_kind"], truth["te_size"], truth["mirrored"], truth["scatter"]))
-            print("record: " + json.dumps(rec, indent=1, default=float))
-            if args.keep:
-                print("rerun:  %s prep %s --units mm -o %s" % (args.prep, rec["file"], rec["file"].rsplit(".", 1)[0] + ".json"))
+            for r in both:
+                print("record (%s): %s" % (r["prep"], json.dumps(r, indent=1, default=float)))
+                if args.keep:
+                    print("rerun:  %s prep %s --units mm -o %s" % (r["prep"], r["file"], r["output"]))
             return
     if out:
         out.close()
-    table(args, recs, specs)
+    table(args, recs, specs, args.prep)
+    if args.against:
+        print()
+        table(args, base, specs, args.against)
+        print()
+        changes(recs, base, specs)
     if not args.keep:
         try:
             os.rmdir(work)

@@ -157,8 +157,9 @@ def evaluate(spec, truth, doc):
     return rec
 
 
-def run_case(prep, seed, mode, workdir, keep=False):
-    """Draws, writes and runs one case; returns (spec, truth, record)."""
+def run_case(preps, seed, mode, workdir, keep=False):
+    """Draws and writes one case and runs each binary of preps on the same
+    file; returns (spec, truth, records), one record per binary."""
     import scan
 
     spec, truth, lines = scan.draw(seed, mode)
@@ -166,28 +167,32 @@ def run_case(prep, seed, mode, workdir, keep=False):
     os.makedirs(workdir, exist_ok=True)
     ext = ".csv" if spec["placement"]["format"] == "csv" else ".txt"
     path = os.path.join(workdir, "%s-%d%s" % (mode, seed, ext))
-    out = os.path.join(workdir, "%s-%d.json" % (mode, seed))
     with open(path, "w") as f:
         f.write("\n".join(lines) + "\n")
-    if os.path.exists(out):
-        os.remove(out)
-    rc, err, secs = run_prep(prep, path, out)
-    rec = {"seed": seed, "mode": mode, "rc": rc, "seconds": secs, "file": path}
     good_pts = sum(1 for k in truth["kinds"] if k == "good")
     sm = spec["sampling"]
-    rec["well"] = good_pts >= 300 and sm["sigma"] <= 0.5 and sm["graze"] == 0
-    rec["good_points"] = good_pts
-    if rc == 0:
-        with open(out) as f:
-            doc = json.load(f)
-        rec.update(evaluate(spec, truth, doc))
-        rec["warnings"] = len(doc.get("warnings") or [])
-    else:
-        lines_err = [x for x in err.strip().splitlines() if x.strip()]
-        rec["error"] = lines_err[0] if lines_err else "(no message)"
-        rec["error_all"] = err.strip()
+    recs, outs = [], []
+    for b, prep in enumerate(preps):
+        out = os.path.join(workdir, "%s-%d%s.json" % (mode, seed, "" if b == 0 else "-against"))
+        outs.append(out)
+        if os.path.exists(out):
+            os.remove(out)
+        rc, err, secs = run_prep(prep, path, out)
+        rec = {"seed": seed, "mode": mode, "prep": prep, "rc": rc, "seconds": secs, "file": path, "output": out}
+        rec["well"] = good_pts >= 300 and sm["sigma"] <= 0.5 and sm["graze"] == 0
+        rec["good_points"] = good_pts
+        if rc == 0:
+            with open(out) as f:
+                doc = json.load(f)
+            rec.update(evaluate(spec, truth, doc))
+            rec["warnings"] = len(doc.get("warnings") or [])
+        else:
+            lines_err = [x for x in err.strip().splitlines() if x.strip()]
+            rec["error"] = lines_err[0] if lines_err else "(no message)"
+            rec["error_all"] = err.strip()
+        recs.append(rec)
     if not keep:
-        for p in (path, out):
+        for p in [path] + outs:
             if os.path.exists(p):
                 os.remove(p)
-    return spec, truth, rec
+    return spec, truth, recs
