@@ -99,8 +99,9 @@ def describe(spec):
 
 
 def repro(args, r):
-    return "/usr/bin/python3 %s --prep %s --mode %s --case %d --keep /tmp/indep-%s-%d" % (
-        HERE, r["prep"], r["mode"], r["seed"], r["mode"], r["seed"])
+    extra = " --prep-args '%s'" % args.prep_args if args.prep_args else ""
+    return "/usr/bin/python3 %s --prep %s --mode %s --case %d --keep /tmp/indep-%s-%d%s" % (
+        HERE, r["prep"], r["mode"], r["seed"], r["mode"], r["seed"], extra)
 
 
 def outcome(r):
@@ -129,7 +130,7 @@ def table(args, recs, specs, prep):
     well = [r for r in recs if r["well"]]
     well_ok = [r for r in well if r["rc"] == 0]
     wrong = [r for r in ok if r["wrong"]]
-    print("indep: %d cases, mode %s, seeds %s, prep %s" % (n, args.mode, args.seeds, prep))
+    print("indep: %d cases, mode %s, seeds %s, prep %s%s" % (n, args.mode, args.seeds, prep, " " + args.prep_args if args.prep_args else ""))
     print()
     print("| figure | value |")
     print("| --- | --- |")
@@ -240,6 +241,7 @@ def main():
     ap = argparse.ArgumentParser(description=__doc__.split("\n\n")[0])
     ap.add_argument("--prep", help="a built foilwright binary (go build -o /tmp/fw ./cmd/foilwright)")
     ap.add_argument("--against", help="a second binary (a baseline build) run on the same files; prints both tables and the cases that changed")
+    ap.add_argument("--prep-args", default="", help="more arguments for every prep run, e.g. \"--noise 0\" (split on blanks)")
     ap.add_argument("--mode", default="normal", choices=["normal", "sparse"])
     ap.add_argument("--seeds", default="1-300", help="seeds, e.g. 1-300 or 3,7,9")
     ap.add_argument("--case", type=int, help="run one seed and print everything about it")
@@ -265,7 +267,7 @@ def main():
     recs, base, specs = [], [], {}
     out = open(args.records, "w") if args.records else None
     for i, seed in enumerate(seeds):
-        spec, truth, both = score.run_case(preps, seed, args.mode, work, keep=bool(args.keep))
+        spec, truth, both = score.run_case(preps, seed, args.mode, work, keep=bool(args.keep), extra=args.prep_args.split())
         rec = both[0]
         if args.against:
             base.append(both[1])
@@ -289,7 +291,7 @@ def main():
             for r in both:
                 print("record (%s): %s" % (r["prep"], json.dumps(r, indent=1, default=float)))
                 if args.keep:
-                    print("rerun:  %s prep %s --units mm -o %s" % (r["prep"], r["file"], r["output"]))
+                    print("rerun:  %s prep %s --units mm -o %s%s" % (r["prep"], r["file"], r["output"], " " + args.prep_args if args.prep_args else ""))
             return
     if out:
         out.close()

@@ -29,9 +29,10 @@ import outline as ol
 WRONG_CHORD, WRONG_TWIST, WRONG_NODE = 0.005, 0.2, 0.005
 
 
-def run_prep(prep, path, out, timeout=600):
-    """Runs prep on path; returns (exit status, stderr, seconds)."""
-    cmd = [prep, "prep", path, "--units", "mm", "-q", "-o", out]
+def run_prep(prep, path, out, extra=(), timeout=600):
+    """Runs prep on path (with the extra arguments); returns (exit status,
+    stderr, seconds)."""
+    cmd = [prep, "prep", path, "--units", "mm", "-q", "-o", out] + list(extra)
     t0 = time.time()
     try:
         r = subprocess.run(cmd, capture_output=True, text=True, timeout=timeout)
@@ -157,7 +158,7 @@ def evaluate(spec, truth, doc):
     return rec
 
 
-def run_case(preps, seed, mode, workdir, keep=False):
+def run_case(preps, seed, mode, workdir, keep=False, extra=()):
     """Draws and writes one case and runs each binary of preps on the same
     file; returns (spec, truth, records), one record per binary."""
     import scan
@@ -177,7 +178,7 @@ def run_case(preps, seed, mode, workdir, keep=False):
         outs.append(out)
         if os.path.exists(out):
             os.remove(out)
-        rc, err, secs = run_prep(prep, path, out)
+        rc, err, secs = run_prep(prep, path, out, extra)
         rec = {"seed": seed, "mode": mode, "prep": prep, "rc": rc, "seconds": secs, "file": path, "output": out}
         rec["well"] = good_pts >= 300 and sm["sigma"] <= 0.5 and sm["graze"] == 0
         rec["good_points"] = good_pts
