@@ -327,6 +327,7 @@ def conventions_selftest():
             got = np.degrees(-np.arctan2(d[1], d[0]))
             if abs(score._wrap(got - want(tw))) > 1e-9:
                 bad.append("flip %s twist %g: frame twist %.6f, want %.6f" % (flip, tw, got, want(tw)))
+    bad += scoring_selftest()
     o = ol.Outline(naca.five_digit(2, 3, 0.12, True), "rounded", radius=0.004)
     qn = o.normalized()
     far = np.max(np.hypot(qn[:, 0] - 1, qn[:, 1]))
@@ -334,6 +335,42 @@ def conventions_selftest():
         bad.append("rounded 23012: farthest outline point from the TE point at %.10f chord, want 1" % far)
     if ol.nearest(qn, np.zeros((1, 2)))[0] > 1e-7:
         bad.append("the leading edge is not on the outline")
+    return bad
+
+
+def scoring_selftest():
+    """The scorer on documents made from the truth: the true frame and
+    outline score zero error; a twist off by 0.5 deg, a chord 1 % long and
+    the section turned upside down are each caught as wrong."""
+    bad = []
+    for seed in (3, 7, 12):
+        spec, truth, lines = scan.draw(seed, "normal")
+        truth["rows"] = lines[truth["first_line"] - 1 :]
+        d = truth["te_mm"] - truth["le_mm"]
+        mir = truth["mirrored"]
+        if mir:
+            d[0] = -d[0]
+        tau = float(np.degrees(-np.arctan2(d[1], d[0])))
+        nodes = truth["normalized"][::25].tolist()
+        doc = {"frame": {"chord": truth["chord_mm"], "twist_deg": tau, "le": truth["le_mm"].tolist(), "mirrored": mir},
+               "nodes": nodes, "trailing_edge": {"kind": truth["te_kind"]},
+               "uncertainty": {"chord": 0.0, "twist_deg": 0.0, "le": 0.0, "surface": 0.0}, "source": {"dropped": []}}
+        r = score.evaluate(spec, truth, doc)
+        if max(r["chord_err"], r["twist_err"] / 1e3, r["le_err"], r["node_err"]) > 1e-9 or r["wrong"]:
+            bad.append("seed %d: the truth's own document scores chord %.2e twist %.2e le %.2e node %.2e wrong %r" % (
+                seed, r["chord_err"], r["twist_err"], r["le_err"], r["node_err"], r["wrong"]))
+        for what, edit, want in (
+            ("twist +0.5", lambda g: g["frame"].update(twist_deg=tau + 0.5), "twist"),
+            ("chord +1 %", lambda g: g["frame"].update(chord=truth["chord_mm"] * 1.01), "chord"),
+            ("upside down", lambda g: g.update(nodes=[[x, -y] for x, y in nodes]), "nodes"),
+        ):
+            g = json.loads(json.dumps(doc))
+            edit(g)
+            r = score.evaluate(spec, truth, g)
+            if spec["shape"]["family"] == "sym" and what == "upside down":
+                continue
+            if want not in r["wrong"].split("+"):
+                bad.append("seed %d: %s scored wrong=%r, want %s" % (seed, what, r["wrong"], want))
     return bad
 
 
