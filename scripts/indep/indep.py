@@ -84,6 +84,8 @@ def describe(spec):
         extra.append("shuffled")
     if pl["flip"] != "none":
         extra.append("flip " + pl["flip"])
+    if spec.get("plane"):
+        extra.append("3D tilt %.0f deg" % np.degrees(np.arccos(abs(spec["plane"]["normal"][2]))))
     return "%s%s %s, %d pts %s sigma %.2f noise %.1e c, chord %.4g mm twist %.1f %s" % (
         sh["section"],
         "" if sh["closed_thickness"] else "(open)",
@@ -100,6 +102,8 @@ def describe(spec):
 
 def repro(args, r):
     extra = " --prep-args '%s'" % args.prep_args if args.prep_args else ""
+    if args.planes:
+        extra += " --planes %g" % args.planes
     return "/usr/bin/python3 %s --prep %s --mode %s --case %d --keep /tmp/indep-%s-%d%s" % (
         HERE, r["prep"], r["mode"], r["seed"], r["mode"], r["seed"], extra)
 
@@ -178,6 +182,7 @@ def table(args, recs, specs, prep):
     print("| good points dropped, median / 95th pct | %.2f / %.2f %% |" % (q(dr, 50), q(dr, 95)))
     print("| planted outliers caught | %s |" % pct(ca, pl))
     cam = [r for r in ok if specs[(r["mode"], r["seed"])]["shape"]["family"] != "sym"]
+    cam = [r for r in cam if r["mirror_expected"] is not None]
     mw = [r for r in cam if r["mirrored"] != r["mirror_expected"]]
     print("| mirror flag wrong, cambered sections | %d of %d |" % (len(mw), len(cam)))
     conv = [r for r in ok if abs(r["twist_conv_err"] - r["twist_err"]) > 1e-6]
@@ -201,7 +206,7 @@ def table(args, recs, specs, prep):
     breakdown("by family", lambda s, r: s["shape"]["family"])
     breakdown("by points", lambda s, r: "<150" if s["points"] < 150 else ("<300" if s["points"] < 300 else ("<1000" if s["points"] < 1000 else ">=1000")))
     breakdown("by gap sigma", lambda s, r: "%.1f-%.1f" % (np.floor(s["sampling"]["sigma"] * 5) / 5, np.floor(s["sampling"]["sigma"] * 5) / 5 + 0.2))
-    breakdown("by hazard", lambda s, r: ",".join(k for k, on in (("graze", s["sampling"]["graze"] > 0), ("corr", s["sampling"]["correlated"] > 0 and s["sampling"]["noise"] > 0), ("outliers", s["sampling"]["outliers"] > 0), ("flip", s["placement"]["flip"] != "none")) if on) or "none")
+    breakdown("by hazard", lambda s, r: ",".join(k for k, on in (("3D", s.get("plane") is not None), ("graze", s["sampling"]["graze"] > 0), ("corr", s["sampling"]["correlated"] > 0 and s["sampling"]["noise"] > 0), ("outliers", s["sampling"]["outliers"] > 0), ("flip", s["placement"]["flip"] != "none")) if on) or "none")
     print()
     fails = [r for r in recs if r["rc"] != 0]
     if fails:
@@ -242,6 +247,7 @@ def main():
     ap.add_argument("--prep", help="a built foilwright binary (go build -o /tmp/fw ./cmd/foilwright)")
     ap.add_argument("--against", help="a second binary (a baseline build) run on the same files; prints both tables and the cases that changed")
     ap.add_argument("--prep-args", default="", help="more arguments for every prep run, e.g. \"--noise 0\" (split on blanks)")
+    ap.add_argument("--planes", type=float, default=0.0, help="share of cases written in 3D, in a tilted plane (0 to 1; default 0)")
     ap.add_argument("--mode", default="normal", choices=["normal", "sparse"])
     ap.add_argument("--seeds", default="1-300", help="seeds, e.g. 1-300 or 3,7,9")
     ap.add_argument("--case", type=int, help="run one seed and print everything about it")
@@ -267,7 +273,7 @@ def main():
     recs, base, specs = [], [], {}
     out = open(args.records, "w") if args.records else None
     for i, seed in enumerate(seeds):
-        spec, truth, both = score.run_case(preps, seed, args.mode, work, keep=bool(args.keep), extra=args.prep_args.split())
+        spec, truth, both = score.run_case(preps, seed, args.mode, work, keep=bool(args.keep), extra=args.prep_args.split(), planes=args.planes)
         rec = both[0]
         if args.against:
             base.append(both[1])
@@ -371,6 +377,24 @@ def scoring_selftest():
                 continue
             if want not in r["wrong"].split("+"):
                 bad.append("seed %d: %s scored wrong=%r, want %s" % (seed, what, r["wrong"], want))
+    # In 3D: the truth's document, its frame in the plane's coordinates,
+    # scores zero; the same frame read in another basis of the plane is off.
+    spec, truth, lines = scan.draw(5, "normal", planes=1.0)
+    truth["rows"] = lines[truth["first_line"] - 1 :]
+    pl = {k: np.asarray(v) for k, v in spec["plane"].items()}
+    d = truth["te_mm"] - truth["le_mm"]
+    doc = {"frame": {"chord": truth["chord_mm"], "twist_deg": float(np.degrees(-np.arctan2(d[1], d[0]))),
+                     "le": truth["le_mm"].tolist(), "mirrored": False,
+                     "plane": {k: v.tolist() for k, v in pl.items()}},
+           "nodes": truth["normalized"][::25].tolist(), "trailing_edge": {"kind": truth["te_kind"]},
+           "uncertainty": {"chord": 0.0, "twist_deg": 0.0, "le": 0.0, "surface": 0.0}, "source": {"dropped": []}}
+    r = score.evaluate(spec, truth, doc)
+    if max(r["twist_err"] / 1e3, r["le_err"], r["node_err"]) > 1e-9:
+        bad.append("3D: the truth's own document scores twist %.2e le %.2e node %.2e" % (r["twist_err"], r["le_err"], r["node_err"]))
+    doc["frame"]["plane"]["u"], doc["frame"]["plane"]["v"] = pl["v"].tolist(), pl["u"].tolist()
+    r = score.evaluate(spec, truth, doc)
+    if r["twist_err"] < 1:
+        bad.append("3D: a frame read in a swapped basis scores twist %.2e deg" % r["twist_err"])
     return bad
 
 

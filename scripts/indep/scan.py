@@ -150,10 +150,13 @@ def _at(poly, arc, s):
     return p, nrm, seg
 
 
-def draw(seed, mode):
+def draw(seed, mode, planes=0.0):
     """Draws case seed of mode; returns (spec, truth, lines) where lines are
     the point file's lines after its header and truth holds the frame and
-    each line's kind."""
+    each line's kind. With planes > 0 that share of the cases is written in
+    3D, in a plane tilted up to 40 degrees from z with scatter across it
+    (a CMM's x, y, z), drawn from a stream of its own so that every case
+    is otherwise the same file as without."""
     rng = np.random.default_rng([seed, 0 if mode == "normal" else 1, 21])
     sec, sspec = draw_section(rng, mode)
     sm = draw_sampling(rng, mode)
@@ -220,7 +223,24 @@ def draw(seed, mode):
     decimals = int(np.clip(np.ceil(-np.log10(2e-5 * ch)), 2, 6))
     fmt = "%%.%df" % decimals
     sep = {"csv": ",", "space": " ", "tab": "\t"}[pl["format"]]
-    rows = [(fmt % x) + sep + (fmt % y) for x, y in part]
+    plane = None
+    if planes > 0:
+        r3 = np.random.default_rng([seed, 0 if mode == "normal" else 1, 21, 3])
+        if r3.random() < planes:
+            tilt, az = np.radians(r3.uniform(0, 40)), r3.uniform(0, 2 * np.pi)
+            nz = np.array([np.sin(tilt) * np.cos(az), np.sin(tilt) * np.sin(az), np.cos(tilt)])
+            a = np.array([1.0, 0, 0]) if abs(nz[0]) < 0.9 else np.array([0, 1.0, 0])
+            U = a - (a @ nz) * nz
+            U /= np.linalg.norm(U)
+            V = np.cross(nz, U)
+            O = r3.uniform(-500, 500, 3)
+            across = sm["noise"] * ch * r3.uniform(0, 1) * r3.standard_normal(len(part))
+            part3 = O + part[:, :1] * U + part[:, 1:2] * V + across[:, None] * nz
+            plane = {"origin": O, "u": U, "v": V, "normal": nz}
+    if plane is None:
+        rows = [(fmt % x) + sep + (fmt % y) for x, y in part]
+    else:
+        rows = [(fmt % x) + sep + (fmt % y) + sep + (fmt % z) for x, y, z in part3]
     order = np.argsort(s)
     if sm["reverse"]:
         order = order[::-1]
@@ -254,7 +274,7 @@ def draw(seed, mode):
         s_rows = [s_rows[i] for i in perm]
         piece_rows = [piece_rows[i] for i in perm]
         of = [int(inv[of[i]]) if of[i] >= 0 else -1 for i in perm]
-    header = ["x,y"] if pl["format"] == "csv" else []
+    header = [("x,y" if plane is None else "x,y,z")] if pl["format"] == "csv" else []
     lines = header + rows
     first_line = len(header) + 1  # file line of rows[0]
     le_part, te_part = place(np.array([0.0, 0.0]))[0], place(np.array([1.0, 0.0]))[0]
@@ -275,6 +295,11 @@ def draw(seed, mode):
         "piece": piece_rows,
         "of": of,
         "first_line": first_line,
+        "plane": plane,
     }
-    spec = {"seed": seed, "mode": mode, "shape": sspec, "sampling": sm, "placement": pl, "points": n}
+    if plane is not None:
+        truth["le_3d"] = plane["origin"] + le_part[0] * plane["u"] + le_part[1] * plane["v"]
+        truth["te_3d"] = plane["origin"] + te_part[0] * plane["u"] + te_part[1] * plane["v"]
+    spec = {"seed": seed, "mode": mode, "shape": sspec, "sampling": sm, "placement": pl, "points": n,
+            "plane": None if plane is None else {k: v.tolist() for k, v in plane.items()}}
     return spec, truth, lines

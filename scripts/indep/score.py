@@ -111,6 +111,20 @@ def evaluate(spec, truth, doc):
     rec["twist_stated"] = tau
     rec["twist_conv_err"] = abs(_wrap(tau - expect))
     rec["le_abs"] = float(np.hypot(*(le - tle)))
+    if truth.get("plane") is not None:
+        # 3D points: compare in space, so neither the plane's basis the
+        # tool picks nor its mirror flag matters (the stated twist is then
+        # about the tool's basis: no convention check).
+        pt = fr.get("plane")
+        if pt:
+            o3, u3, v3 = (np.array(pt[k], dtype=float) for k in ("origin", "u", "v"))
+        else:
+            o3, u3, v3 = np.zeros(3), np.array([1.0, 0, 0]), np.array([0, 1.0, 0])
+        le3, te3 = o3 + le[0] * u3 + le[1] * v3, o3 + te[0] * u3 + te[1] * v3
+        a3, b3 = te3 - le3, truth["te_3d"] - truth["le_3d"]
+        rec["twist_err"] = float(np.degrees(np.arctan2(np.linalg.norm(np.cross(a3, b3)), a3 @ b3)))
+        rec["twist_conv_err"] = rec["twist_err"]
+        rec["le_abs"] = float(np.linalg.norm(le3 - truth["le_3d"]))
     rec["le_err"] = rec["le_abs"] / ch
     nodes = np.array(doc["nodes"], dtype=float)
     dist = ol.nearest(truth["normalized"], nodes)
@@ -118,7 +132,7 @@ def evaluate(spec, truth, doc):
     rec["node_err"] = float(dist[k])
     rec["node_at"] = [float(nodes[k, 0]), float(nodes[k, 1])]
     rec["mirrored"] = mir
-    rec["mirror_expected"] = truth["mirrored"]
+    rec["mirror_expected"] = truth["mirrored"] if truth.get("plane") is None else None
     rec["te_got"] = doc.get("trailing_edge", {}).get("kind", "")
     truth["end_spacing"] = end_spacing(truth)
     rec["te_decidable"], rec["te_right"] = te_verdict(truth, rec["te_got"])
@@ -158,12 +172,12 @@ def evaluate(spec, truth, doc):
     return rec
 
 
-def run_case(preps, seed, mode, workdir, keep=False, extra=()):
+def run_case(preps, seed, mode, workdir, keep=False, extra=(), planes=0.0):
     """Draws and writes one case and runs each binary of preps on the same
     file; returns (spec, truth, records), one record per binary."""
     import scan
 
-    spec, truth, lines = scan.draw(seed, mode)
+    spec, truth, lines = scan.draw(seed, mode, planes)
     truth["rows"] = lines[truth["first_line"] - 1 :]
     os.makedirs(workdir, exist_ok=True)
     ext = ".csv" if spec["placement"]["format"] == "csv" else ".txt"
