@@ -472,10 +472,23 @@ const wideChord = 0.005
 // least that height over the chord (clean.Edge.SpreadAcross), and the
 // surface's at least how far their outlines lie apart
 // (clean.Edge.SpreadSurface).
+//
+// Where another kind of end fits the points nearly as well
+// (clean.Edge.Rivals), the section may be that one, whose chord is known
+// no better than the stated one's: the chord's bound then reaches the
+// rival's end and the bound besides (the union of the two ends'
+// intervals, each as wide as the bound the points give the stated end;
+// the chord runs from the leading edge, whose own error the replicas
+// measure, to either end). The surface's bound reaches the rival's
+// outline (SpreadSurface) but takes in no more: it is the largest error
+// anywhere round the section, mostly at the nose, not the error at the
+// end. A spread within one kind (bases the points leave at several
+// stations) stays a spread of that end's position.
 func widenForEdge(u *accuracy.Uncertainty, e *clean.Edge) {
 	if e == nil {
 		return
 	}
+	stat := *u
 	if e.Spread > u.Chord && !math.IsInf(e.Spread, 0) {
 		u.Chord = e.Spread
 	}
@@ -484,6 +497,12 @@ func widenForEdge(u *accuracy.Uncertainty, e *clean.Edge) {
 	}
 	if s := e.SpreadSurface; s > u.Surface && !math.IsInf(s, 0) {
 		u.Surface = s
+	}
+	if len(e.Rivals) == 0 {
+		return
+	}
+	if d := e.Spread + stat.Chord; d > u.Chord && !math.IsInf(d, 0) && !math.IsNaN(d) {
+		u.Chord = d
 	}
 }
 
