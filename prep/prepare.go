@@ -474,21 +474,19 @@ const wideChord = 0.005
 // (clean.Edge.SpreadSurface).
 //
 // Where another kind of end fits the points nearly as well
-// (clean.Edge.Rivals), the section may be that one, whose chord is known
-// no better than the stated one's: the chord's bound then reaches the
-// rival's end and the bound besides (the union of the two ends'
-// intervals, each as wide as the bound the points give the stated end;
-// the chord runs from the leading edge, whose own error the replicas
-// measure, to either end). The surface's bound reaches the rival's
-// outline (SpreadSurface) but takes in no more: it is the largest error
-// anywhere round the section, mostly at the nose, not the error at the
-// end. A spread within one kind (bases the points leave at several
-// stations) stays a spread of that end's position.
+// (clean.Edge.Rivals), the section may be that one: its chord runs from
+// the leading edge to the rival's end, so the chord's bound reaches that
+// end (the spread, which takes in how far the rival's own end may lie)
+// and the leading edge's bound besides. The chord's bound of the stated
+// end is not added: it already holds the end's unsampled stretch
+// (geometry/accuracy), which the spread covers again. The surface's
+// bound reaches the rival's outline (SpreadSurface) and no more: it is
+// the largest error anywhere round the section, mostly the nose's.
 func widenForEdge(u *accuracy.Uncertainty, e *clean.Edge) {
 	if e == nil {
 		return
 	}
-	stat := *u
+	le := u.LE
 	if e.Spread > u.Chord && !math.IsInf(e.Spread, 0) {
 		u.Chord = e.Spread
 	}
@@ -501,7 +499,7 @@ func widenForEdge(u *accuracy.Uncertainty, e *clean.Edge) {
 	if len(e.Rivals) == 0 {
 		return
 	}
-	if d := e.Spread + stat.Chord; d > u.Chord && !math.IsInf(d, 0) && !math.IsNaN(d) {
+	if d := e.Spread + le; d > u.Chord && !math.IsInf(d, 0) && !math.IsNaN(d) {
 		u.Chord = d
 	}
 }
