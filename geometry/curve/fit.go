@@ -515,6 +515,13 @@ func Fit(c *geometry.Contour, opts FitOptions) (*Curve, *FitReport, error) {
 	if err != nil {
 		return nil, nil, err
 	}
+	// The sampling test, when it has been run on the order taken already.
+	var sampled *sampling
+	if opts.Edge == nil && !opts.Exact && opts.Noise == 0 && scatter > 0 {
+		if f, ok := fineEnds(c, opts.Ends, ends, perim); ok {
+			ends, pts, knot, along, sampled = f.ends, f.pts, f.knot, f.along, &f.sample
+		}
+	}
 	m := len(pts)
 	ws := make([]float64, m)
 	for i := range ws {
@@ -574,7 +581,11 @@ func Fit(c *geometry.Contour, opts FitOptions) (*Curve, *FitReport, error) {
 			if fp.of != nil && m <= sampleRawMax {
 				tp = newFitPoints(pts, ws, along, ends.open, false)
 			}
-			st.sample = sampleTest(tp.ts, tp.xs, tp.ys, !ends.open, tp.period, perim)
+			if sampled != nil {
+				st.sample = *sampled
+			} else {
+				st.sample = sampleTest(tp.ts, tp.xs, tp.ys, !ends.open, tp.period, perim)
+			}
 			rep.SampleRatio = st.sample.Ratio
 			if opts.Noise == 0 {
 				switch {
