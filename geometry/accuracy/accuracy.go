@@ -155,13 +155,32 @@ func Estimate(cv *curve.Curve, rep *curve.FitReport, nz *frame.Normalized, opts 
 		}
 	}
 	// A nose sampled too sparsely (the one Gaps warns of) leaves the
-	// leading edge where the curve guesses it between two points round
-	// the bend; it slides along the nose, across the chord line, and
-	// turns the chord with it. The replicas and half fits keep the
-	// guess's shape, so the twist is at least the leading edge's bound
-	// seen from the trailing edge, a chord away.
-	if sparseNose(rep, cv, nz) && nz.Frame.Chord > 0 {
+	// leading edge where the curve guesses it between the points round
+	// the bend; the true one lies somewhere on the part's nose between
+	// the same points, and the replicas and half fits keep the guess's
+	// shape, so they do not see how far. The points ending the stretch
+	// the guess bridges bound it: the leading edge may be off by up to
+	// its distance from the farther of them. The chord, from the leading
+	// edge to the trailing edge, changes by no more than the two ends
+	// move (the triangle inequality), so the chord's bound gains that
+	// distance; the twist is at least the leading edge's bound seen from
+	// the trailing edge, a chord away; and since the normalised outline
+	// is placed by its leading edge, the nose of the outline may lie
+	// that far (in chords) from the part's.
+	if a, b, ok := noseStretch(rep, cv, nz); ok && nz.Frame.Chord > 0 {
+		L := cv.Length()
+		at := func(t float64) geometry.Point {
+			if cv.Closed() {
+				t = math.Mod(t, L)
+			}
+			return cv.At(t)
+		}
+		le := geometry.Point{X: nz.Frame.LE[0], Y: nz.Frame.LE[1]}
+		far := math.Max(le.Dist(at(a)), le.Dist(at(b)))
+		u.LE = math.Max(u.LE, far)
+		u.Chord += far
 		u.TwistDeg = math.Max(u.TwistDeg, math.Atan(u.LE/nz.Frame.Chord)*180/math.Pi)
+		u.Surface = math.Max(u.Surface, far/nz.Frame.Chord)
 	}
 	// Floors: what the arithmetic of the chain (projections, searches
 	// for the farthest point, quadrature) leaves even on exact data.
