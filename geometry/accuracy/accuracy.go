@@ -182,6 +182,18 @@ func Estimate(cv *curve.Curve, rep *curve.FitReport, nz *frame.Normalized, opts 
 		u.TwistDeg = math.Max(u.TwistDeg, math.Atan(u.LE/nz.Frame.Chord)*180/math.Pi)
 		u.Surface = math.Max(u.Surface, far/nz.Frame.Chord)
 	}
+	// Where the points cannot tell the upper side from the lower (the
+	// normalisation says so), the section may be the part turned over:
+	// its outline then lies from the part's as far as from its own
+	// mirror image about the chord line, give or take its other errors.
+	// A mirror image within the bound already stated (a symmetric
+	// section, whose image differs from it by its own scatter) is no
+	// other reading at that accuracy, and the bound stands.
+	if nz.MirrorOpen {
+		if d := mirrorDistance(ref.poly); d > u.Surface {
+			u.Surface += d
+		}
+	}
 	// Floors: what the arithmetic of the chain (projections, searches
 	// for the farthest point, quadrature) leaves even on exact data.
 	c := nz.Frame.Chord
@@ -283,6 +295,37 @@ func maxDistance(qs, poly []geometry.Point, ratio int) float64 {
 			if dd > 0 {
 				// The built-in min and max are math.Min and math.Max
 				// (NaN, ±0 and infinities alike), inline.
+				t = max(0, min(1, (px*dx+py*dy)/dd))
+			}
+			ex, ey := px-t*dx, py-t*dy
+			best = min(best, ex*ex+ey*ey)
+		}
+		worst2 = max(worst2, best)
+	}
+	return math.Sqrt(worst2)
+}
+
+// mirrorStep is the step, in points of the reference polyline, between
+// the points of its mirror image whose distance from it mirrorDistance
+// measures.
+const mirrorStep = 16
+
+// mirrorDistance returns the largest distance of the outline poly (a
+// normalised section, chord line along x) from its mirror image about the
+// chord line: from every mirrorStep-th point of the image to the nearest
+// segment of poly.
+func mirrorDistance(poly []geometry.Point) float64 {
+	var worst2 float64
+	for k := 0; k < len(poly); k += mirrorStep {
+		q := geometry.Point{X: poly[k].X, Y: -poly[k].Y}
+		best := math.Inf(1)
+		for j := 0; j+1 < len(poly); j++ {
+			a, b := poly[j], poly[j+1]
+			dx, dy := b.X-a.X, b.Y-a.Y
+			px, py := q.X-a.X, q.Y-a.Y
+			dd := dx*dx + dy*dy
+			t := 0.0
+			if dd > 0 {
 				t = max(0, min(1, (px*dx+py*dy)/dd))
 			}
 			ex, ey := px-t*dx, py-t*dy
