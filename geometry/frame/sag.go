@@ -43,11 +43,12 @@ const (
 	// reads. Camber laid well aft (a 4-digit line, a Kármán–Trefftz arc,
 	// the 5-digit lines with their greatest camber at 15 % or more) bows
 	// the mean line aft of 10 % by 1e-3 chord or more, which the nose's
-	// thickness does not fake; the 5-digit lines cambered at 5–10 %,
-	// straight aft of their greatest camber, bow it by 6e-4 at most at
-	// 12–24 % thickness (Report 824's constants, computed numerically).
+	// thickness does not fake; the 5-digit lines cambered at 5–10 % of
+	// design lift up to 0.45, straight aft of their greatest camber, bow
+	// it by 4e-4 at most at 12–24 % thickness, and the 230 line by 5e-4
+	// at 21 % (Report 824's constants, computed numerically).
 	sagAftFrom   = 0.1
-	sagAftFactor = 2
+	sagAftFactor = 1.5
 	// noseBiasAt are the stations (chord units) whose half-thicknesses
 	// give the nose's growth h·h' = (h₂² − h₁²) / (2 (x₂ − x₁)).
 	noseBiasNear, noseBiasFar = sagFrom, 0.05
