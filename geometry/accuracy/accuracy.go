@@ -155,13 +155,44 @@ func Estimate(cv *curve.Curve, rep *curve.FitReport, nz *frame.Normalized, opts 
 		}
 	}
 	// A nose sampled too sparsely (the one Gaps warns of) leaves the
-	// leading edge where the curve guesses it between two points round
-	// the bend; it slides along the nose, across the chord line, and
-	// turns the chord with it. The replicas and half fits keep the
-	// guess's shape, so the twist is at least the leading edge's bound
-	// seen from the trailing edge, a chord away.
-	if sparseNose(rep, cv, nz) && nz.Frame.Chord > 0 {
+	// leading edge where the curve guesses it between the points round
+	// the bend; the true one lies somewhere on the part's nose between
+	// the same points, and the replicas and half fits keep the guess's
+	// shape, so they do not see how far. The points ending the stretch
+	// the guess bridges bound it: the leading edge may be off by up to
+	// its distance from the farther of them. The chord, from the leading
+	// edge to the trailing edge, changes by no more than the two ends
+	// move (the triangle inequality), so the chord's bound gains that
+	// distance; the twist is at least the leading edge's bound seen from
+	// the trailing edge, a chord away; and since the normalised outline
+	// is placed by its leading edge, the nose of the outline may lie
+	// that far (in chords) from the part's.
+	if a, b, ok := noseStretch(rep, cv, nz); ok && nz.Frame.Chord > 0 {
+		L := cv.Length()
+		at := func(t float64) geometry.Point {
+			if cv.Closed() {
+				t = math.Mod(t, L)
+			}
+			return cv.At(t)
+		}
+		le := geometry.Point{X: nz.Frame.LE[0], Y: nz.Frame.LE[1]}
+		far := math.Max(le.Dist(at(a)), le.Dist(at(b)))
+		u.LE = math.Max(u.LE, far)
+		u.Chord += far
 		u.TwistDeg = math.Max(u.TwistDeg, math.Atan(u.LE/nz.Frame.Chord)*180/math.Pi)
+		u.Surface = math.Max(u.Surface, far/nz.Frame.Chord)
+	}
+	// Where the points cannot tell the upper side from the lower (the
+	// normalisation says so), the section may be the part turned over:
+	// its outline then lies from the part's as far as from its own
+	// mirror image about the chord line, give or take its other errors.
+	// A mirror image within the bound already stated (a symmetric
+	// section, whose image differs from it by its own scatter) is no
+	// other reading at that accuracy, and the bound stands.
+	if nz.MirrorOpen {
+		if d := mirrorDistance(ref.poly); d > u.Surface {
+			u.Surface += d
+		}
 	}
 	// Floors: what the arithmetic of the chain (projections, searches
 	// for the farthest point, quadrature) leaves even on exact data.
@@ -264,6 +295,37 @@ func maxDistance(qs, poly []geometry.Point, ratio int) float64 {
 			if dd > 0 {
 				// The built-in min and max are math.Min and math.Max
 				// (NaN, ±0 and infinities alike), inline.
+				t = max(0, min(1, (px*dx+py*dy)/dd))
+			}
+			ex, ey := px-t*dx, py-t*dy
+			best = min(best, ex*ex+ey*ey)
+		}
+		worst2 = max(worst2, best)
+	}
+	return math.Sqrt(worst2)
+}
+
+// mirrorStep is the step, in points of the reference polyline, between
+// the points of its mirror image whose distance from it mirrorDistance
+// measures.
+const mirrorStep = 16
+
+// mirrorDistance returns the largest distance of the outline poly (a
+// normalised section, chord line along x) from its mirror image about the
+// chord line: from every mirrorStep-th point of the image to the nearest
+// segment of poly.
+func mirrorDistance(poly []geometry.Point) float64 {
+	var worst2 float64
+	for k := 0; k < len(poly); k += mirrorStep {
+		q := geometry.Point{X: poly[k].X, Y: -poly[k].Y}
+		best := math.Inf(1)
+		for j := 0; j+1 < len(poly); j++ {
+			a, b := poly[j], poly[j+1]
+			dx, dy := b.X-a.X, b.Y-a.Y
+			px, py := q.X-a.X, q.Y-a.Y
+			dd := dx*dx + dy*dy
+			t := 0.0
+			if dd > 0 {
 				t = max(0, min(1, (px*dx+py*dy)/dd))
 			}
 			ex, ey := px-t*dx, py-t*dy
