@@ -203,8 +203,8 @@ func rms(ds []deltas) deltas {
 // reference is the section the replicas are compared with: its frame and
 // its normalised outline as a dense polyline.
 type reference struct {
-	fr   frame.Frame
-	poly []geometry.Point
+	fr, far frame.Frame
+	poly    []geometry.Point
 }
 
 // refSamples is the number of points on each side of the reference
@@ -215,7 +215,7 @@ const (
 )
 
 func newReference(nz *frame.Normalized) reference {
-	return reference{fr: nz.Frame, poly: samples(nz.Path, nz.SLE, refSamples)}
+	return reference{fr: nz.Frame, far: nz.Farthest, poly: samples(nz.Path, nz.SLE, refSamples)}
 }
 
 // samples returns points of the normalised outline p (leading edge at
@@ -240,6 +240,13 @@ func (r reference) compare(z *frame.Normalized) deltas {
 	d.chord = math.Abs(z.Frame.Chord - r.fr.Chord)
 	d.le = math.Hypot(z.Frame.LE[0]-r.fr.LE[0], z.Frame.LE[1]-r.fr.LE[1])
 	d.twistDeg = math.Abs(math.Remainder(z.Frame.TwistDeg-r.fr.TwistDeg, 360))
+	// The leading edge of the curve's own farthest point slides along the
+	// nose with the curve's wiggles, which the form of the nose the
+	// section's leading edge is read from (frame.Normalize) smooths; the
+	// form's own departure from the nose the replicas share and cannot
+	// show. The bounds keep the larger spread of the two readings.
+	d.le = math.Max(d.le, math.Hypot(z.Farthest.LE[0]-r.far.LE[0], z.Farthest.LE[1]-r.far.LE[1]))
+	d.twistDeg = math.Max(d.twistDeg, math.Abs(math.Remainder(z.Farthest.TwistDeg-r.far.TwistDeg, 360)))
 	d.surface = maxDistance(samples(z.Path, z.SLE, refSamples/refRatio), r.poly, refRatio)
 	return d
 }
