@@ -57,7 +57,10 @@ const floorLength = 1e-6
 // section.
 type deltas struct {
 	chord, twistDeg, le, surface float64
-	ok                           bool
+	// leFar and twistFar are those of the frame of the curve's own
+	// farthest point (frame.Normalized.Farthest).
+	leFar, twistFar float64
+	ok              bool
 }
 
 // Estimate returns the uncertainty of the section nz, normalised from the
@@ -123,8 +126,8 @@ func Estimate(cv *curve.Curve, rep *curve.FitReport, nz *frame.Normalized, opts 
 	}
 	u := Uncertainty{
 		Chord:    f.chord * math.Max(rn.chord, rh.chord),
-		TwistDeg: f.twistDeg * math.Max(rn.twistDeg, rh.twistDeg),
-		LE:       f.le * math.Max(rn.le, rh.le),
+		TwistDeg: f.twistDeg * max(rn.twistDeg, rh.twistDeg, rn.twistFar, rh.twistFar),
+		LE:       f.le * max(rn.le, rh.le, rn.leFar, rh.leFar),
 		Surface:  f.surface * math.Max(rn.surface, rh.surface),
 	}
 	// The ends of an open fit pinned where the points end (no base points)
@@ -216,6 +219,8 @@ func rms(ds []deltas) deltas {
 		out.chord += d.chord * d.chord
 		out.twistDeg += d.twistDeg * d.twistDeg
 		out.le += d.le * d.le
+		out.leFar += d.leFar * d.leFar
+		out.twistFar += d.twistFar * d.twistFar
 		out.surface += d.surface * d.surface
 		n++
 	}
@@ -226,6 +231,8 @@ func rms(ds []deltas) deltas {
 	out.chord = math.Sqrt(out.chord * f)
 	out.twistDeg = math.Sqrt(out.twistDeg * f)
 	out.le = math.Sqrt(out.le * f)
+	out.leFar = math.Sqrt(out.leFar * f)
+	out.twistFar = math.Sqrt(out.twistFar * f)
 	out.surface = math.Sqrt(out.surface * f)
 	out.ok = true
 	return out
@@ -234,8 +241,8 @@ func rms(ds []deltas) deltas {
 // reference is the section the replicas are compared with: its frame and
 // its normalised outline as a dense polyline.
 type reference struct {
-	fr   frame.Frame
-	poly []geometry.Point
+	fr, far frame.Frame
+	poly    []geometry.Point
 }
 
 // refSamples is the number of points on each side of the reference
@@ -246,7 +253,7 @@ const (
 )
 
 func newReference(nz *frame.Normalized) reference {
-	return reference{fr: nz.Frame, poly: samples(nz.Path, nz.SLE, refSamples)}
+	return reference{fr: nz.Frame, far: nz.Farthest, poly: samples(nz.Path, nz.SLE, refSamples)}
 }
 
 // samples returns points of the normalised outline p (leading edge at
@@ -271,6 +278,13 @@ func (r reference) compare(z *frame.Normalized) deltas {
 	d.chord = math.Abs(z.Frame.Chord - r.fr.Chord)
 	d.le = math.Hypot(z.Frame.LE[0]-r.fr.LE[0], z.Frame.LE[1]-r.fr.LE[1])
 	d.twistDeg = math.Abs(math.Remainder(z.Frame.TwistDeg-r.fr.TwistDeg, 360))
+	// The leading edge of the curve's own farthest point slides along the
+	// nose with the curve's wiggles, which the form of the nose the
+	// section's leading edge is read from (frame.Normalize) smooths; the
+	// form's own departure from the nose the replicas share and cannot
+	// show. The bounds keep the larger spread of the two readings.
+	d.leFar = math.Hypot(z.Farthest.LE[0]-r.far.LE[0], z.Farthest.LE[1]-r.far.LE[1])
+	d.twistFar = math.Abs(math.Remainder(z.Farthest.TwistDeg-r.far.TwistDeg, 360))
 	d.surface = maxDistance(samples(z.Path, z.SLE, refSamples/refRatio), r.poly, refRatio)
 	return d
 }

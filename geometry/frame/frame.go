@@ -107,6 +107,11 @@ type Normalized struct {
 	SLE float64
 	// Frame maps Path back to the part.
 	Frame Frame
+	// Farthest is the frame whose leading edge is the curve point
+	// farthest from the trailing edge itself, before the form of the nose
+	// placed it (refineLE); equal to Frame when the form was not used.
+	// Package accuracy measures the spread of both.
+	Farthest Frame
 	// TE reports the trailing edge found and what was done to it.
 	TE TrailingEdge
 	// Warnings are remarks for the user (ambiguous mirroring, an open
@@ -137,9 +142,11 @@ type Normalized struct {
 // starts.
 //
 // Leading edge. The curve point farthest from the trailing-edge midpoint
-// (or tip), found on the curve by golden-section search (common practice);
-// the chord is that distance. opts.LEAt replaces it by the curve point
-// nearest to the given coordinates.
+// (or tip) (common practice), read from a least-squares form of the nose
+// round the curve's own farthest point (refineLE, nose.go), so that the
+// curve's wiggles do not slide it along the nose; the chord is its
+// distance from the trailing edge. opts.LEAt replaces it by the curve
+// point nearest to the given coordinates.
 //
 // Mirroring. The contour is counter-clockwise, so a section whose nose
 // points the other way, or which was measured upside down, is a reflection
@@ -224,6 +231,12 @@ func Normalize(cv *curve.Curve, opts Options) (*Normalized, error) {
 	} else {
 		sLE, _ = treated.Farthest(te, 0, treated.Length())
 	}
+	far := treated.At(sLE)
+	if opts.LEAt == nil {
+		if s, ok := refineLE(treated, te, sLE); ok {
+			sLE = s
+		}
+	}
 	le := treated.At(sLE)
 	fr := fromEdges(le, te, false)
 	chord := fr.apply(treated)
@@ -285,6 +298,7 @@ func Normalize(cv *curve.Curve, opts Options) (*Normalized, error) {
 		out.SLE = chord.Length() - sLE/fr.Chord
 	}
 	out.Frame = fr
+	out.Farthest = fromEdges(far, te, mirrored)
 	out.Path = chord
 	return out, nil
 }
