@@ -117,3 +117,48 @@ func TestOneSurfaceAft(t *testing.T) {
 		t.Error("two fine surfaces: sided as one surface and a few points")
 	}
 }
+
+// spacingWeights on a thin strip: a fine surface y = 0 stepped 0.01 and a
+// coarse one y = 0.06 stepped 0.05, closer to the fine surface than its own
+// second neighbour (calculated by hand: a coarse point's neighbours on its
+// surface lie 0.05 and 0.1 away, the fine surface 0.06 below). A coarse
+// point stands for its surface's step, not for the fine surface's: its
+// two nearest neighbours are its own surface's. A lone slip 0.02 off the
+// fine surface, and a burst of six points 0.001 apart 0.03 off it (a
+// scanner's reflection), stand for no more than the fine surface's points
+// beside them.
+func TestSpacingWeightsCoarseSurface(t *testing.T) {
+	var pts []geometry.Point
+	for k := 0; k <= 100; k++ {
+		pts = append(pts, geometry.Point{X: 0.01 * float64(k), Y: 0})
+	}
+	coarse := len(pts)
+	for k := 0; k <= 20; k++ {
+		pts = append(pts, geometry.Point{X: 0.05 * float64(k), Y: 0.06})
+	}
+	slip := len(pts)
+	pts = append(pts, geometry.Point{X: 0.305, Y: -0.02})
+	burst := len(pts)
+	for k := range 6 {
+		pts = append(pts, geometry.Point{X: 0.703 + 0.001*float64(k), Y: -0.03})
+	}
+	lo, hi := bounds(pts)
+	w := spacingWeights(pts, neighbours(pts, lo, hi))
+	fine := w[50] // the fine surface's fourth neighbour lies two steps away
+	if math.Abs(fine-0.02) > 1e-9 {
+		t.Fatalf("a fine point weighs %.4g, want its fourth-neighbour distance 0.02", fine)
+	}
+	for k := coarse + 2; k <= coarse+18; k++ {
+		if w[k] < 0.05 {
+			t.Errorf("coarse point %d (x = %.2f) weighs %.4g, less than its surface's step 0.05", k-coarse, pts[k].X, w[k])
+		}
+	}
+	if w[slip] > fine*(1+1e-9) {
+		t.Errorf("the slip weighs %.4g, more than the fine surface's %.4g", w[slip], fine)
+	}
+	for k := burst; k < burst+6; k++ {
+		if w[k] > fine*(1+1e-9) {
+			t.Errorf("burst point %d weighs %.4g, more than the fine surface's %.4g", k-burst, w[k], fine)
+		}
+	}
+}
