@@ -540,27 +540,20 @@ func fourthNeighbour(pts []geometry.Point, nb *nbrs) []float64 {
 }
 
 // spacingWeights returns, by point index, the length of outline each point
-// stands for: its fourth-neighbour distance, or the larger of its two
-// nearest neighbours' when that is smaller (an outlier or a burst of a
-// few, off a finely probed surface, has its nearest neighbours on that
-// surface, or in the burst, and stands for no more than they do). Counts
+// stands for: its fourth-neighbour distance, or a smaller one of its four
+// nearest neighbours' (an outlier or a burst of a few, off a finely probed
+// surface, stands for no more than the surface's points beside it). Counts
 // of points weighted so measure length along the outline, whatever the
 // step: a surface probed ten times more coarsely than the other weighs as
-// much as it. A point of such a surface has its two nearest neighbours on
-// its own surface, a step away, even where the other surface lies nearer
-// than its fourth neighbour; the least of all four neighbours' distances
-// would weigh it as a point of the fine surface, and the camber line's
-// bins trim it off as an extreme (campaign seed 463: a burst of outliers
-// beyond the fine surface then drew the camber line outside the section,
-// and the coarse surface's points were dropped as outliers).
+// much as it.
 func spacingWeights(pts []geometry.Point, nb *nbrs) []float64 {
 	d := fourthNeighbour(pts, nb)
 	w := make([]float64, len(pts))
 	for i := range pts {
 		v := d[i]
 		row := nb.of(int32(i))
-		if len(row) >= 2 {
-			v = min(v, max(d[row[0]], d[row[1]]))
+		for _, q := range row[:min(4, len(row))] {
+			v = min(v, d[q])
 		}
 		if math.IsInf(v, 1) {
 			v = 0
