@@ -213,15 +213,6 @@ func Prepare(name string, files []File, s Settings) (*Preparation, error) {
 			return p, nil
 		}
 	}
-	if ge.Gate == GateThinEnd {
-		if alt := cl.endForEnd(); alt != nil {
-			tried = append(tried, "the section turned end for end")
-			if p, err := finishChain(name, alt, s, false); err == nil {
-				p.Section.Warnings = append(p.Section.Warnings, fmt.Sprintf("the section as first found failed the check %q (%s); turned end for end, the trailing edge at the other end of the points, it passed: check that the leading edge is where you expect it, or set it with --le-at X,Y", ge.Gate, ge.Seen))
-				return p, nil
-			}
-		}
-	}
 	ge.Tried = tried
 	return nil, fmt.Errorf("%s: %w", strings.Join(cl.Files, ", "), ge)
 }
