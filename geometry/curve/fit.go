@@ -1080,6 +1080,7 @@ func passes(fp fitPoints, open, freeEnds bool, opts FitOptions, st *smoothState,
 		nperiod, mean float64
 		prob          *splineProblem
 		noise, tau    float64
+		tauLong       float64
 		profile       []float64
 		binsNoisier   bool
 	)
@@ -1109,7 +1110,7 @@ func passes(fp fitPoints, open, freeEnds bool, opts FitOptions, st *smoothState,
 		if !open {
 			lp = nperiod
 		}
-		noise, tau, _, profile = localNoise(xs, ys, s, st.T, c, lp)
+		noise, tau, tauLong, _, profile = localNoise(xs, ys, s, st.T, c, lp)
 		// The noise given is per point, and a bin of count points is
 		// taken to average it down by √count. The bins of a band are
 		// runs of points in the order of their feet on a curve drawn
@@ -1226,8 +1227,9 @@ func passes(fp fitPoints, open, freeEnds bool, opts FitOptions, st *smoothState,
 		}
 	}
 	rep.Lambda, rep.EffectiveParams, rep.Smoothing = lambda, f.trace, betaOfLambda(lambda, mean)
-	st.final = newResampler(prob, f, xs, ys, lambda, sigma*math.Sqrt(tau), open, freeEnds)
+	st.final = newResampler(prob, f, xs, ys, lambda, sigma, open, freeEnds)
 	st.final.setGrowth(profile, noise)
+	st.final.setCorrelation(c, tau, tauLong, f.trace, outlierSigmas*noise)
 	st.final.corner = st.corner && open && !freeEnds
 	st.final.cornerRatio = cornerRatio
 	cv := fromFit(prob, f, !open)
