@@ -130,6 +130,19 @@ func Estimate(cv *curve.Curve, rep *curve.FitReport, nz *frame.Normalized, opts 
 		LE:       f.le * max(rn.le, rh.le, rn.leFar, rh.leFar),
 		Surface:  f.surface * math.Max(rn.surface, rh.surface),
 	}
+	// The two readings of this fit's own leading edge, the form of the
+	// nose's and the curve's farthest point, differ by what the form
+	// departs from the nose or the farthest point slides: neither the
+	// replicas nor the half fits see it, as each makes the same reading
+	// again. The leading edge may be off by that much more; the twist by
+	// it seen from the trailing edge, a chord away; and the normalised
+	// outline, placed by its leading edge, by it in chords.
+	if c := nz.Frame.Chord; c > 0 {
+		dLE := math.Hypot(nz.Frame.LE[0]-nz.Farthest.LE[0], nz.Frame.LE[1]-nz.Farthest.LE[1])
+		u.LE += dLE
+		u.TwistDeg += math.Atan(dLE/c) * 180 / math.Pi
+		u.Surface += dLE / c
+	}
 	// The ends of an open fit pinned where the points end (no base points)
 	// are where the trailing edge was found. At a blunt edge they are the
 	// last points either side, and the surfaces may run on unseen for up
