@@ -1423,6 +1423,14 @@ func (gm gapModel) deviance(m *endModel, u, l quadFit, z []geometry.Point, out [
 		if q > 0 {
 			e = min(gapDevMax, -2*math.Log(q))
 		}
+		if e >= gapDevMax {
+			// Capped, the gamma law's cost may not fall below the
+			// exponential law's 2r it replaces: a model leaving a
+			// stretch of many mean gaps unsampled (a degenerate fit
+			// whose end lies far off) would otherwise win by the
+			// difference, without bound.
+			e = max(e, 2*r)
+		}
 		dev += e - 2*r
 	}
 	return dev
