@@ -91,6 +91,29 @@ func TestWidenForEdge(t *testing.T) {
 	}
 }
 
+// Where another kind of end fits nearly as well, the chord's bound
+// reaches that end and the leading edge's bound besides: an exact open
+// edge 0.002 c thick stated sharp with its corner 0.9 % of the chord
+// beyond the base (where the surfaces of NACA Report 824's open edge
+// meet), its leading edge known to 0.1 % of the chord, must cover a base
+// 0.9 % short with the leading edge 0.1 % off (0.9 + 0.1); the surface's
+// bound reaches the rival's outline. Without a rival kind the spread
+// alone stays the chord's bound.
+func TestWidenForEdgeRivals(t *testing.T) {
+	e := &clean.Edge{Kind: clean.EdgeSharp, Chord: 100, Spread: 0.9, SpreadSurface: 2e-3, Rivals: []string{clean.EdgeBlunt}}
+	u := accuracy.Uncertainty{Chord: 0.8, LE: 0.1, Surface: 1e-3}
+	widenForEdge(&u, e)
+	if math.Abs(u.Chord-1.0) > 1e-12 || u.Surface != 2e-3 {
+		t.Errorf("with a blunt rival: chord %g, surface %g; want 1.0, 0.002", u.Chord, u.Surface)
+	}
+	e.Rivals = nil
+	u = accuracy.Uncertainty{Chord: 0.8, LE: 0.1, Surface: 1e-3}
+	widenForEdge(&u, e)
+	if u.Chord != 0.9 || u.Surface != 2e-3 {
+		t.Errorf("without a rival: chord %g, surface %g; want 0.9, 0.002", u.Chord, u.Surface)
+	}
+}
+
 // The surface's bound takes in SpreadSurface (chord units) likewise, and
 // a fit's own trailing edge that replaced the points' edge keeps the
 // points' edge in the bounds: its tip 3 units beyond the end the fit

@@ -472,10 +472,21 @@ const wideChord = 0.005
 // least that height over the chord (clean.Edge.SpreadAcross), and the
 // surface's at least how far their outlines lie apart
 // (clean.Edge.SpreadSurface).
+//
+// Where another kind of end fits the points nearly as well
+// (clean.Edge.Rivals), the section may be that one: its chord runs from
+// the leading edge to the rival's end, so the chord's bound reaches that
+// end (the spread, which takes in how far the rival's own end may lie)
+// and the leading edge's bound besides. The chord's bound of the stated
+// end is not added: it already holds the end's unsampled stretch
+// (geometry/accuracy), which the spread covers again. The surface's
+// bound reaches the rival's outline (SpreadSurface) and no more: it is
+// the largest error anywhere round the section, mostly the nose's.
 func widenForEdge(u *accuracy.Uncertainty, e *clean.Edge) {
 	if e == nil {
 		return
 	}
+	le := u.LE
 	if e.Spread > u.Chord && !math.IsInf(e.Spread, 0) {
 		u.Chord = e.Spread
 	}
@@ -484,6 +495,12 @@ func widenForEdge(u *accuracy.Uncertainty, e *clean.Edge) {
 	}
 	if s := e.SpreadSurface; s > u.Surface && !math.IsInf(s, 0) {
 		u.Surface = s
+	}
+	if len(e.Rivals) == 0 {
+		return
+	}
+	if d := e.Spread + le; d > u.Chord && !math.IsInf(d, 0) && !math.IsNaN(d) {
+		u.Chord = d
 	}
 }
 

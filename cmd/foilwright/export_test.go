@@ -59,11 +59,17 @@ func TestExportRoundTrip(t *testing.T) {
 		}
 		b := loadSection(t, back)
 		// Tolerances measured, then rounded up: the section is made again
-		// from its own nodes through an interpolating spline.
-		if d := math.Abs(b.Frame.Chord-orig.Frame.Chord) / orig.Frame.Chord; d > 1e-9 {
+		// from its own nodes through an interpolating spline, whose nose
+		// departs from the fitted curve's between the nodes by up to the
+		// panels' deviation (1e-4 c); the form of the nose the leading
+		// edge is read from (geometry/frame/nose.go) averages that, and
+		// the leading edge moves by 2.5e-6 c (5e-4 mm), the twist by
+		// 1.4e-4° and the chord by 1.1e-8 of itself (measured; 2e-6 mm,
+		// 5.9e-7° and 3e-15 with the curve's own farthest point).
+		if d := math.Abs(b.Frame.Chord-orig.Frame.Chord) / orig.Frame.Chord; d > 5e-8 {
 			t.Errorf("%s: chord %.6f, was %.6f", tc.kind, b.Frame.Chord, orig.Frame.Chord)
 		}
-		if d := math.Abs(b.Frame.TwistDeg - orig.Frame.TwistDeg); d > 1e-4 {
+		if d := math.Abs(b.Frame.TwistDeg - orig.Frame.TwistDeg); d > 3e-4 {
 			t.Errorf("%s: twist %.5f°, was %.5f°", tc.kind, b.Frame.TwistDeg, orig.Frame.TwistDeg)
 		}
 		if d := math.Abs(b.Properties.Thickness - orig.Properties.Thickness); d > 1e-5 {

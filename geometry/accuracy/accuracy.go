@@ -57,7 +57,10 @@ const floorLength = 1e-6
 // section.
 type deltas struct {
 	chord, twistDeg, le, surface float64
-	ok                           bool
+	// leFar and twistFar are those of the frame of the curve's own
+	// farthest point (frame.Normalized.Farthest).
+	leFar, twistFar float64
+	ok              bool
 }
 
 // Estimate returns the uncertainty of the section nz, normalised from the
@@ -123,9 +126,22 @@ func Estimate(cv *curve.Curve, rep *curve.FitReport, nz *frame.Normalized, opts 
 	}
 	u := Uncertainty{
 		Chord:    f.chord * math.Max(rn.chord, rh.chord),
-		TwistDeg: f.twistDeg * math.Max(rn.twistDeg, rh.twistDeg),
-		LE:       f.le * math.Max(rn.le, rh.le),
+		TwistDeg: f.twistDeg * max(rn.twistDeg, rh.twistDeg, rn.twistFar, rh.twistFar),
+		LE:       f.le * max(rn.le, rh.le, rn.leFar, rh.leFar),
 		Surface:  f.surface * math.Max(rn.surface, rh.surface),
+	}
+	// The two readings of this fit's own leading edge, the form of the
+	// nose's and the curve's farthest point, differ by what the form
+	// departs from the nose or the farthest point slides: neither the
+	// replicas nor the half fits see it, as each makes the same reading
+	// again. The leading edge may be off by that much more; the twist by
+	// it seen from the trailing edge, a chord away; and the normalised
+	// outline, placed by its leading edge, by it in chords.
+	if c := nz.Frame.Chord; c > 0 {
+		dLE := math.Hypot(nz.Frame.LE[0]-nz.Farthest.LE[0], nz.Frame.LE[1]-nz.Farthest.LE[1])
+		u.LE += dLE
+		u.TwistDeg += math.Atan(dLE/c) * 180 / math.Pi
+		u.Surface += dLE / c
 	}
 	// The ends of an open fit pinned where the points end (no base points)
 	// are where the trailing edge was found. At a blunt edge they are the
@@ -155,13 +171,44 @@ func Estimate(cv *curve.Curve, rep *curve.FitReport, nz *frame.Normalized, opts 
 		}
 	}
 	// A nose sampled too sparsely (the one Gaps warns of) leaves the
-	// leading edge where the curve guesses it between two points round
-	// the bend; it slides along the nose, across the chord line, and
-	// turns the chord with it. The replicas and half fits keep the
-	// guess's shape, so the twist is at least the leading edge's bound
-	// seen from the trailing edge, a chord away.
-	if sparseNose(rep, cv, nz) && nz.Frame.Chord > 0 {
+	// leading edge where the curve guesses it between the points round
+	// the bend; the true one lies somewhere on the part's nose between
+	// the same points, and the replicas and half fits keep the guess's
+	// shape, so they do not see how far. The points ending the stretch
+	// the guess bridges bound it: the leading edge may be off by up to
+	// its distance from the farther of them. The chord, from the leading
+	// edge to the trailing edge, changes by no more than the two ends
+	// move (the triangle inequality), so the chord's bound gains that
+	// distance; the twist is at least the leading edge's bound seen from
+	// the trailing edge, a chord away; and since the normalised outline
+	// is placed by its leading edge, the nose of the outline may lie
+	// that far (in chords) from the part's.
+	if a, b, ok := noseStretch(rep, cv, nz); ok && nz.Frame.Chord > 0 {
+		L := cv.Length()
+		at := func(t float64) geometry.Point {
+			if cv.Closed() {
+				t = math.Mod(t, L)
+			}
+			return cv.At(t)
+		}
+		le := geometry.Point{X: nz.Frame.LE[0], Y: nz.Frame.LE[1]}
+		far := math.Max(le.Dist(at(a)), le.Dist(at(b)))
+		u.LE = math.Max(u.LE, far)
+		u.Chord += far
 		u.TwistDeg = math.Max(u.TwistDeg, math.Atan(u.LE/nz.Frame.Chord)*180/math.Pi)
+		u.Surface = math.Max(u.Surface, far/nz.Frame.Chord)
+	}
+	// Where the points cannot tell the upper side from the lower (the
+	// normalisation says so), the section may be the part turned over:
+	// its outline then lies from the part's as far as from its own
+	// mirror image about the chord line, give or take its other errors.
+	// A mirror image within the bound already stated (a symmetric
+	// section, whose image differs from it by its own scatter) is no
+	// other reading at that accuracy, and the bound stands.
+	if nz.MirrorOpen {
+		if d := mirrorDistance(ref.poly); d > u.Surface {
+			u.Surface += d
+		}
 	}
 	// Floors: what the arithmetic of the chain (projections, searches
 	// for the farthest point, quadrature) leaves even on exact data.
@@ -185,6 +232,8 @@ func rms(ds []deltas) deltas {
 		out.chord += d.chord * d.chord
 		out.twistDeg += d.twistDeg * d.twistDeg
 		out.le += d.le * d.le
+		out.leFar += d.leFar * d.leFar
+		out.twistFar += d.twistFar * d.twistFar
 		out.surface += d.surface * d.surface
 		n++
 	}
@@ -195,6 +244,8 @@ func rms(ds []deltas) deltas {
 	out.chord = math.Sqrt(out.chord * f)
 	out.twistDeg = math.Sqrt(out.twistDeg * f)
 	out.le = math.Sqrt(out.le * f)
+	out.leFar = math.Sqrt(out.leFar * f)
+	out.twistFar = math.Sqrt(out.twistFar * f)
 	out.surface = math.Sqrt(out.surface * f)
 	out.ok = true
 	return out
@@ -203,8 +254,8 @@ func rms(ds []deltas) deltas {
 // reference is the section the replicas are compared with: its frame and
 // its normalised outline as a dense polyline.
 type reference struct {
-	fr   frame.Frame
-	poly []geometry.Point
+	fr, far frame.Frame
+	poly    []geometry.Point
 }
 
 // refSamples is the number of points on each side of the reference
@@ -215,7 +266,7 @@ const (
 )
 
 func newReference(nz *frame.Normalized) reference {
-	return reference{fr: nz.Frame, poly: samples(nz.Path, nz.SLE, refSamples)}
+	return reference{fr: nz.Frame, far: nz.Farthest, poly: samples(nz.Path, nz.SLE, refSamples)}
 }
 
 // samples returns points of the normalised outline p (leading edge at
@@ -240,6 +291,13 @@ func (r reference) compare(z *frame.Normalized) deltas {
 	d.chord = math.Abs(z.Frame.Chord - r.fr.Chord)
 	d.le = math.Hypot(z.Frame.LE[0]-r.fr.LE[0], z.Frame.LE[1]-r.fr.LE[1])
 	d.twistDeg = math.Abs(math.Remainder(z.Frame.TwistDeg-r.fr.TwistDeg, 360))
+	// The leading edge of the curve's own farthest point slides along the
+	// nose with the curve's wiggles, which the form of the nose the
+	// section's leading edge is read from (frame.Normalize) smooths; the
+	// form's own departure from the nose the replicas share and cannot
+	// show. The bounds keep the larger spread of the two readings.
+	d.leFar = math.Hypot(z.Farthest.LE[0]-r.far.LE[0], z.Farthest.LE[1]-r.far.LE[1])
+	d.twistFar = math.Abs(math.Remainder(z.Farthest.TwistDeg-r.far.TwistDeg, 360))
 	d.surface = maxDistance(samples(z.Path, z.SLE, refSamples/refRatio), r.poly, refRatio)
 	return d
 }
@@ -264,6 +322,37 @@ func maxDistance(qs, poly []geometry.Point, ratio int) float64 {
 			if dd > 0 {
 				// The built-in min and max are math.Min and math.Max
 				// (NaN, ±0 and infinities alike), inline.
+				t = max(0, min(1, (px*dx+py*dy)/dd))
+			}
+			ex, ey := px-t*dx, py-t*dy
+			best = min(best, ex*ex+ey*ey)
+		}
+		worst2 = max(worst2, best)
+	}
+	return math.Sqrt(worst2)
+}
+
+// mirrorStep is the step, in points of the reference polyline, between
+// the points of its mirror image whose distance from it mirrorDistance
+// measures.
+const mirrorStep = 16
+
+// mirrorDistance returns the largest distance of the outline poly (a
+// normalised section, chord line along x) from its mirror image about the
+// chord line: from every mirrorStep-th point of the image to the nearest
+// segment of poly.
+func mirrorDistance(poly []geometry.Point) float64 {
+	var worst2 float64
+	for k := 0; k < len(poly); k += mirrorStep {
+		q := geometry.Point{X: poly[k].X, Y: -poly[k].Y}
+		best := math.Inf(1)
+		for j := 0; j+1 < len(poly); j++ {
+			a, b := poly[j], poly[j+1]
+			dx, dy := b.X-a.X, b.Y-a.Y
+			px, py := q.X-a.X, q.Y-a.Y
+			dd := dx*dx + dy*dy
+			t := 0.0
+			if dd > 0 {
 				t = max(0, min(1, (px*dx+py*dy)/dd))
 			}
 			ex, ey := px-t*dx, py-t*dy

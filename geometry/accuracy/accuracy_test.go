@@ -2,6 +2,7 @@ package accuracy
 
 import (
 	"math"
+	"math/rand/v2"
 	"strings"
 	"testing"
 
@@ -244,7 +245,7 @@ func TestEstimateSparseNoseTwist(t *testing.T) {
 			t.Fatal(err)
 		}
 		m := len(tc.loop)
-		sparse := sparseNose(rep, cv, nz)
+		_, _, sparse := noseStretch(rep, cv, nz)
 		if sparse != tc.sparse {
 			t.Errorf("%d stations: sparse nose %v", m, sparse)
 		}
@@ -257,5 +258,165 @@ func TestEstimateSparseNoseTwist(t *testing.T) {
 		if lo := math.Atan(u.LE/nz.Frame.Chord) * 180 / math.Pi; sparse && u.TwistDeg < lo*(1-1e-12) {
 			t.Errorf("%d stations: twist bound %.3g° below the leading edge's over the chord, %.3g°", m, u.TwistDeg, lo)
 		}
+	}
+}
+
+// A thin section cambered near its nose (NACA 4404, NACA Report 824
+// equations: the shape of campaign seed 4213, whose scan left a gap of
+// 0.015 c round the nose) probed densely except over the nose: the upper
+// surface's points stop at x = 0.0005, the lower's at x = 0.012. The
+// curve guesses the nose between them and puts the leading edge on its
+// guess; the part's may lie anywhere in the gap. The gap is found, the
+// bounds of the leading edge, the chord, the twist and the surface cover
+// the true errors and take in the gap (the leading edge's bound reaches
+// the farther of the points either side), and stay within its size. The
+// campaign's case 4213 (internal/campaign) is the scan whose guess went
+// wrong by most of the gap.
+func TestEstimateNoseGapCovers(t *testing.T) {
+	n := shape.NACA4{Camber: 0.04, CamberPos: 0.2, Thickness: 0.04, SharpTE: true}
+	var loop []geometry.Point
+	const m = 300
+	for k := 0; k < m; k++ {
+		x := 1 - float64(k)/float64(m)
+		if x := x * x; x > 0.0005 {
+			loop = append(loop, n.Upper(x))
+		}
+	}
+	for k := 1; k <= m; k++ {
+		if x := float64(k) / float64(m); x*x > 0.012 {
+			loop = append(loop, n.Lower(x*x))
+		}
+	}
+	for seed := uint64(1); seed <= 3; seed++ {
+		part := testfoil.Part{Chord: 200, RotDeg: -3, Shift: geometry.Point{X: 40, Y: 15}, Noise: 0.005, Seed: seed}
+		c := testfoil.Contour(loop, part)
+		cv, rep, err := curve.Fit(c, curve.FitOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		nz, err := frame.Normalize(cv, frame.Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		a, b, sparse := noseStretch(rep, cv, nz)
+		if !sparse {
+			t.Fatalf("seed %d: the nose's gap was not found", seed)
+		}
+		gap := (b - a) / nz.Frame.Chord
+		u := Estimate(cv, rep, nz, Options{})
+		ec, et, el, es := trueErrors(t, nz, n, part)
+		t.Logf("seed %d: gap %.4f c; chord %.4f ≤ %.4f mm, twist %.4f ≤ %.4f°, LE %.4f ≤ %.4f mm, surface %.5f ≤ %.5f c", seed, gap, ec, u.Chord, et, u.TwistDeg, el, u.LE, es, u.Surface)
+		if ec > u.Chord || et > u.TwistDeg || el > u.LE || es > u.Surface {
+			t.Errorf("seed %d: an error beyond its bound", seed)
+		}
+		le := geometry.Point{X: nz.Frame.LE[0], Y: nz.Frame.LE[1]}
+		if far := math.Max(le.Dist(cv.At(a)), le.Dist(cv.At(b))); u.LE < far {
+			t.Errorf("seed %d: LE bound %.4f mm short of the farther end of the gap, %.4f mm away", seed, u.LE, far)
+		}
+		if u.LE > gap*nz.Frame.Chord || u.Surface > gap {
+			t.Errorf("seed %d: LE bound %.4f mm, surface %.5f c: wider than the gap %.4f c", seed, u.LE, u.Surface, gap)
+		}
+	}
+}
+
+// A NACA 21024 (Report 824's 5-digit line of design lift 0.15 with its
+// greatest camber at 5 %, 24 % thick), probed right way up: in our chord
+// convention its mean line sags down, so the section is taken as upside
+// down and turned over, its nose 0.01 c from the part's (campaign seeds
+// 573 and 2488 exited 0 so, with a surface bound of 0.002 c). The
+// normalisation says the points cannot tell its upper side
+// (frame.Normalized.MirrorOpen), and the surface's bound then takes in
+// the outline turned over and covers the true error.
+func TestEstimateMirrorOpenCovers(t *testing.T) {
+	n := shape.NACA5{L: 1, P: 1, Thickness: 0.24, SharpTE: true}
+	loop := n.Loop(150)
+	loop = loop[:len(loop)-1] // one corner point
+	part := testfoil.Part{Chord: 300, RotDeg: 4, Noise: 0.01, Seed: 5}
+	c := testfoil.Contour(loop, part)
+	cv, rep, err := curve.Fit(c, curve.FitOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	nz, err := frame.Normalize(cv, frame.Options{Support: rep.S, Noise: rep.NoiseEstimate})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !nz.MirrorOpen {
+		t.Fatalf("the upper side was taken as decided (mirrored %v, warnings %q)", nz.Frame.Mirrored, nz.Warnings)
+	}
+	// The true outline in our chord convention: the leading edge the
+	// point farthest from the trailing edge (common practice).
+	dense := n.Loop(6000)
+	te := dense[0]
+	lep := testfoil.Farthest(dense, te)
+	dir := te.Sub(lep).Scale(1 / te.Dist(lep))
+	norm := make([]geometry.Point, len(dense))
+	for i, p := range dense {
+		q := p.Sub(lep)
+		norm[i] = geometry.Point{X: q.Dot(dir), Y: dir.Cross(q)}.Scale(1 / te.Dist(lep))
+	}
+	got := nz.Path.(*curve.Curve).Samples(4000)
+	surface := testfoil.MaxDist(got, norm)
+	u := Estimate(cv, rep, nz, Options{})
+	t.Logf("mirrored %v: surface off %.4f c, bound %.4f c", nz.Frame.Mirrored, surface, u.Surface)
+	if surface > u.Surface {
+		t.Errorf("surface off %.4f c beyond its bound %.4f c", surface, u.Surface)
+	}
+}
+
+func TestEstimateCoversDrift(t *testing.T) {
+	// A NACA 2412 (NACA Report 824 equations, sharp trailing edge) probed
+	// at 400 points a surface over a 152.4 mm chord by a scanner that
+	// drifts as it sweeps: each point is off the surface, along its
+	// normal, by a first-order autoregression along the outline (φ = 0.95,
+	// so neighbours twenty points apart still share a third of it;
+	// 0.05 mm), plus 0.005 mm of independent noise on each coordinate. The
+	// local fits that measure the noise and the smoothing fit take much of
+	// the drift for shape; the stated bounds must cover the true errors
+	// all the same: over 8 seeds at most 1 of the 32 figures outside its
+	// 95 % bound (1.6 expected; one seen, the leading edge of seed 2 by
+	// 0.05 % of its bound), and the surface bound still a bound, under
+	// 0.01 chords.
+	n, _ := shape.ParseNACA4("2412")
+	n.SharpTE = true
+	const seeds, drift, phi = 8, 0.05, 0.95
+	misses := 0
+	for seed := uint64(1); seed <= seeds; seed++ {
+		part := testfoil.Part{Chord: 152.4, RotDeg: 7, Shift: geometry.Point{X: 37, Y: -12}, Noise: 0.005, Seed: seed}
+		c := testfoil.Contour(testfoil.Loop(n, 400), part)
+		rng := rand.New(rand.NewPCG(seed, 23))
+		m := c.Len()
+		z := rng.NormFloat64()
+		for i := range m {
+			if i > 0 {
+				z = phi*z + math.Sqrt(1-phi*phi)*rng.NormFloat64()
+			}
+			a, b := c.Points[max(i-1, 0)], c.Points[min(i+1, m-1)]
+			d := b.Sub(a)
+			nrm := geometry.Point{X: d.Y, Y: -d.X}.Scale(1 / math.Hypot(d.X, d.Y))
+			c.Points[i] = c.Points[i].Add(nrm.Scale(drift * z))
+		}
+		cv, rep, err := curve.Fit(c, curve.FitOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		nz, err := frame.Normalize(cv, frame.Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		u := Estimate(cv, rep, nz, Options{})
+		ec, et, el, es := trueErrors(t, nz, n, part)
+		t.Logf("seed %d: chord %.4f ≤ %.4f mm, twist %.4f ≤ %.4f°, LE %.4f ≤ %.4f mm, surface %.5f ≤ %.5f c", seed, ec, u.Chord, et, u.TwistDeg, el, u.LE, es, u.Surface)
+		for _, miss := range []bool{ec > u.Chord, et > u.TwistDeg, el > u.LE, es > u.Surface} {
+			if miss {
+				misses++
+			}
+		}
+		if u.Surface > 0.01 {
+			t.Errorf("seed %d: surface bound %.5f c: not a bound", seed, u.Surface)
+		}
+	}
+	if misses > 1 {
+		t.Errorf("%d of %d figures outside their 95 %% bounds", misses, 4*seeds)
 	}
 }

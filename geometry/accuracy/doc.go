@@ -5,7 +5,8 @@
 //
 // The estimate is a resampling one. Replicas of the fit (curve.FitReport.
 // Replica) take the fitted curve for the truth, displace its points by
-// simulated noise of the fit's own noise figure and go through the rest
+// simulated noise of the fit's own noise figure, correlated along the
+// outline as the fit's residuals are, and go through the rest
 // of the chain (trailing-edge corner, edges, normalisation) as the section
 // did; how far they scatter about the section measures the effect of the
 // noise. The fits of every second point alone (curve.FitReport.Half)

@@ -126,23 +126,69 @@ func turnBetween(cv *curve.Curve, a, b float64) float64 {
 	return math.Abs(total) * 180 / math.Pi
 }
 
-// sparseNose reports whether the points either side of the leading edge
-// (arc lengths rep.S on cv) are more than gapMin chords apart with the
-// outline turning more than gapTurnDeg between them: the nose Gaps warns
-// of, where the leading edge rests on the curve's guess.
-func sparseNose(rep *curve.FitReport, cv *curve.Curve, nz *frame.Normalized) bool {
-	if len(rep.S) < 2 {
-		return false
+// noseStretchGaps is the most sparse gaps taken into the nose's stretch
+// on each side of the one holding the leading edge (noseStretch): a nose
+// guessed over more than that is far beyond what a bound can mend, and
+// the widening stops growing with a sampling that coarse everywhere.
+const noseStretchGaps = 3
+
+// noseStretch returns the arc lengths a < b on cv of the points that end
+// the stretch of the nose the points leave to the curve's guess, and
+// whether there is one: the gap between the points either side of the
+// leading edge (arc lengths rep.S) when it is longer than gapMin chords
+// and the outline turns more than gapTurnDeg over it (the nose Gaps
+// warns of), together with the gaps next to it, up to noseStretchGaps on
+// each side, that are sparse the same way: the part's leading edge may
+// lie anywhere over them. On a closed curve b may exceed its length.
+func noseStretch(rep *curve.FitReport, cv *curve.Curve, nz *frame.Normalized) (a, b float64, ok bool) {
+	n := len(rep.S)
+	if n < 2 || !(nz.Frame.Chord > 0) {
+		return 0, 0, false
 	}
 	L := cv.Length()
+	closed := cv.Closed()
 	s := append([]float64(nil), rep.S...)
 	sort.Float64s(s)
-	sLE, _ := cv.Project(geometry.Point{X: nz.Frame.LE[0], Y: nz.Frame.LE[1]})
-	a, b := s[len(s)-1], s[0]+L // the pair across the start of a closed curve
-	if k := sort.SearchFloat64s(s, sLE); k > 0 && k < len(s) {
-		a, b = s[k-1], s[k]
-	} else if !cv.Closed() {
-		return false
+	// at returns the arc length of the k-th point, k counted on round a
+	// closed curve (k < 0 or k ≥ n) with L added per turn.
+	at := func(k int) float64 {
+		turns := math.Floor(float64(k) / float64(n))
+		return s[k-int(turns)*n] + turns*L
 	}
-	return b-a > gapMin*nz.Frame.Chord && turnBetween(cv, a, b) > gapTurnDeg
+	sparse := func(k int) bool { // the gap from point k to point k+1
+		if !closed && (k < 0 || k+1 >= n) {
+			return false
+		}
+		lo, hi := at(k), at(k+1)
+		if lo < 0 {
+			lo, hi = lo+L, hi+L
+		}
+		return hi-lo > gapMin*nz.Frame.Chord && turnBetween(cv, lo, hi) > gapTurnDeg
+	}
+	sLE, _ := cv.Project(geometry.Point{X: nz.Frame.LE[0], Y: nz.Frame.LE[1]})
+	k := sort.SearchFloat64s(s, sLE) - 1 // the gap from point k to k+1 holds sLE
+	if k < 0 || k >= n-1 {
+		if !closed {
+			return 0, 0, false
+		}
+		k = n - 1 // the gap across the start of the curve
+		if sLE < s[0] {
+			k = -1
+		}
+	}
+	if !sparse(k) {
+		return 0, 0, false
+	}
+	lo, hi := k, k+1
+	for m := 0; m < noseStretchGaps && sparse(lo-1) && hi-(lo-1) < n; m++ {
+		lo--
+	}
+	for m := 0; m < noseStretchGaps && sparse(hi) && hi+1-lo < n; m++ {
+		hi++
+	}
+	a, b = at(lo), at(hi)
+	if a < 0 {
+		a, b = a+L, b+L
+	}
+	return a, b, true
 }

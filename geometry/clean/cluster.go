@@ -2,6 +2,7 @@ package clean
 
 import (
 	"math"
+	"sync"
 
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/internal/numeric"
@@ -39,7 +40,7 @@ import (
 // threshold and than sigma times the supports' own scatter, both widened
 // by the fit's uncertainty where the point projects (its leverage), by
 // more than sigma spreads of the loop's own left-out residuals at that
-// window (clusterScales) over indepRatio, and by more than the curve could bulge between
+// window (clusterScale) over indepRatio, and by more than the curve could bulge between
 // the supports (a sagitta, as for the point-by-point test); and when it
 // does not lie on the outline
 // elsewhere (a point of the other surface that the ordering put among the
@@ -107,9 +108,9 @@ func clusterWindows(max int) []int {
 // marked in exempt (by point index; nil for none) are never cluster
 // points, though they may support a fit. ws are the half-widths of the
 // windows tried (clusterWindows) and wsc the spread of the loop's
-// left-out residuals at each (clusterScales), found on the loop before
+// left-out residuals at each (clusterScale), found on the loop before
 // the point-by-point test took its outliers out.
-func clusterOutliers(pts []geometry.Point, seq []int32, sigma, scale float64, keep bool, exempt []bool, ws []int, wsc []float64) ([]int32, []hit) {
+func clusterOutliers(pts []geometry.Point, seq []int32, sigma, scale float64, keep bool, exempt []bool, ws []int, wsc *windowScales) ([]int32, []hit) {
 	n := len(seq)
 	if n < 4*minSupport+3 {
 		return seq, nil
@@ -201,10 +202,10 @@ func clusterOutliers(pts []geometry.Point, seq []int32, sigma, scale float64, ke
 // with their supports, and returns the distance of the point from the fit
 // of the smallest window with clean supports (see the file's comment; sc
 // is the loop's robust scale and wsc, by window, the spread of the
-// loop's own residuals at that window, clusterScales), how many positions
+// loop's own residuals at that window, clusterScale), how many positions
 // each way the last window looked at and its supports took in, and
 // whether that fit makes the point a cluster point.
-func clusterResidual(pts []geometry.Point, seq []int32, i int, ws []int, span, sigma, sc float64, wsc []float64) (d float64, reach int, ok bool) {
+func clusterResidual(pts []geometry.Point, seq []int32, i int, ws []int, span, sigma, sc float64, wsc *windowScales) (d float64, reach int, ok bool) {
 	thr := sigma * sc
 	var buf [2 * supportPoints]geometry.Point
 	for wi, w := range ws {
@@ -244,7 +245,7 @@ func clusterResidual(pts []geometry.Point, seq []int32, i int, ws []int, span, s
 		// run of good points together by far more than the point-to-point
 		// scale, and these residuals see it as they see a run.
 		wide := math.Sqrt(1 + g.leverage)
-		lim := max(thr*wide, sigma*wsc[wi]/indepRatio)
+		lim := max(thr*wide, sigma*wsc.at(wi)/indepRatio)
 		return g.d, reach, g.d > lim && g.d > sigma*g.scatter*wide && g.d > g.sag
 	}
 	return 0, reach, false
@@ -258,10 +259,19 @@ func clusterResidual(pts []geometry.Point, seq []int32, i int, ws []int, span, s
 // not fit the loop or spans more than span).
 func windowFit(pts []geometry.Point, seq []int32, i, w int, span, tol float64, buf []geometry.Point) (g gap, reach int, fit, more bool) {
 	n := len(seq)
-	at := func(j int) geometry.Point { return pts[seq[((i+j)%n+n)%n]] }
 	k := max(minSupport, w)
 	if 2*(w+k)+1 > n {
 		return g, 0, false, false
+	}
+	// |j| ≤ w+k < n: one wrap round the loop at most.
+	at := func(j int) geometry.Point {
+		j += i
+		if j < 0 {
+			j += n
+		} else if j >= n {
+			j -= n
+		}
+		return pts[seq[j]]
 	}
 	reach = w + k
 	// The window and its supports must stay within span, measured
@@ -276,11 +286,22 @@ func windowFit(pts []geometry.Point, seq []int32, i, w int, span, tol float64, b
 	// wide the window.
 	m := min(k, supportPoints)
 	sup := buf
-	for j := m - 1; j >= 0; j-- {
-		sup = append(sup, at(-w-1-j*(k-1)/(m-1)))
-	}
-	for j := range m {
-		sup = append(sup, at(w+1+j*(k-1)/(m-1)))
+	if m == k {
+		// Every point of the supports (j(k−1)/(m−1) = j), without the
+		// divisions.
+		for j := m - 1; j >= 0; j-- {
+			sup = append(sup, at(-w-1-j))
+		}
+		for j := range m {
+			sup = append(sup, at(w+1+j))
+		}
+	} else {
+		for j := m - 1; j >= 0; j-- {
+			sup = append(sup, at(-w-1-j*(k-1)/(m-1)))
+		}
+		for j := range m {
+			sup = append(sup, at(w+1+j*(k-1)/(m-1)))
+		}
 	}
 	g, fit = gapFit(sup, m, at(0), tol)
 	return g, reach, fit, true
@@ -288,57 +309,80 @@ func windowFit(pts []geometry.Point, seq []int32, i, w int, span, tol float64, b
 
 // clusterCalibration returns the half-widths of the windows of the
 // cluster test on the loop seq (clusterWindows) and the spread of the
-// loop's left-out residuals at each (clusterScales; tol the outlier
-// threshold, input units; exempt as there).
-func clusterCalibration(pts []geometry.Point, seq []int32, tol float64, exempt []bool) ([]int, []float64) {
+// loop's left-out residuals at each (clusterScale; tol the outlier
+// threshold, input units; exempt as there), found when first asked for.
+func clusterCalibration(pts []geometry.Point, seq []int32, tol float64, exempt []bool) ([]int, *windowScales) {
 	n := len(seq)
 	var length float64
 	for k := range n {
 		length += fastDist(pts[seq[k]], pts[seq[(k+1)%n]])
 	}
 	ws := clusterWindows((n - 2*minSupport - 1) / 4)
-	return ws, clusterScales(pts, seq, ws, clusterSpan*length, tol, exempt)
+	return ws, newWindowScales(pts, seq, ws, clusterSpan*length, tol, exempt)
+}
+
+// windowScales is the spread of a loop's left-out residuals at each
+// window of the cluster test (clusterScale), each found the first time
+// it is asked for: the test needs a window's spread only for a point that
+// lies beyond the threshold at its smallest clean window, and most
+// windows of most loops never judge one. Safe for concurrent use; the
+// loop and exempt must not change while it is in use.
+type windowScales struct {
+	pts       []geometry.Point
+	seq       []int32
+	ws        []int
+	span, tol float64
+	exempt    []bool
+	once      []sync.Once
+	v         []float64
+}
+
+func newWindowScales(pts []geometry.Point, seq []int32, ws []int, span, tol float64, exempt []bool) *windowScales {
+	return &windowScales{pts: pts, seq: seq, ws: ws, span: span, tol: tol, exempt: exempt,
+		once: make([]sync.Once, len(ws)), v: make([]float64, len(ws))}
+}
+
+// at returns the spread at window wi (clusterScale).
+func (s *windowScales) at(wi int) float64 {
+	s.once[wi].Do(func() { s.v[wi] = clusterScale(s.pts, s.seq, s.ws[wi], s.span, s.tol, s.exempt) })
+	return s.v[wi]
 }
 
 // scaleSample is the most positions of a loop whose left-out residuals
-// make the spread of each window (clusterScales).
+// make the spread of each window (clusterScale).
 const scaleSample = 1000
 
-// clusterScales returns, for each half-width of ws, the robust spread of
-// the left-out residuals of the loop seq at that window: 1.4826 × the
-// median distance of a point from the fit of its window's supports, over
-// up to scaleSample positions evenly spread round the loop (the points of
-// exempt left out), whatever the supports hold. For independent noise it
-// is the scatter, a little widened by the fits' uncertainty; for noise
-// that neighbours share it grows with the window as the supports stop
-// sharing the noise of the point they judge, and the median stays with
-// the good points as long as runs off the surface are fewer. 0 for a
-// window fitted at fewer than 2·minSupport positions. tol is the outlier
-// threshold (input units).
-func clusterScales(pts []geometry.Point, seq []int32, ws []int, span, tol float64, exempt []bool) []float64 {
+// clusterScale returns the robust spread of the left-out residuals of the
+// loop seq at the window of half-width w: 1.4826 × the median distance of
+// a point from the fit of its window's supports, over up to scaleSample
+// positions evenly spread round the loop (the points of exempt left out),
+// whatever the supports hold. For independent noise it is the scatter, a
+// little widened by the fits' uncertainty; for noise that neighbours share
+// it grows with the window as the supports stop sharing the noise of the
+// point they judge, and the median stays with the good points as long as
+// runs off the surface are fewer. 0 for a window fitted at fewer than
+// 2·minSupport positions. tol is the outlier threshold (input units).
+func clusterScale(pts []geometry.Point, seq []int32, w int, span, tol float64, exempt []bool) float64 {
 	n := len(seq)
+	if 2*(w+max(minSupport, w))+1 > n {
+		return 0 // the window does not fit the loop anywhere (windowFit)
+	}
 	m := min(n, scaleSample)
-	out := make([]float64, len(ws))
-	parallel(len(ws), func(a, b int) {
-		var buf [2 * supportPoints]geometry.Point
-		ds := make([]float64, 0, m)
-		for wi := a; wi < b; wi++ {
-			ds = ds[:0]
-			for j := range m {
-				i := j * n / m
-				if exempt != nil && exempt[seq[i]] {
-					continue
-				}
-				if g, _, fit, _ := windowFit(pts, seq, i, ws[wi], span, tol, buf[:0]); fit {
-					ds = append(ds, g.d)
-				}
-			}
-			if len(ds) >= 2*minSupport {
-				out[wi] = 1.4826 * median(ds)
-			}
+	var buf [2 * supportPoints]geometry.Point
+	ds := make([]float64, 0, m)
+	for j := range m {
+		i := j * n / m
+		if exempt != nil && exempt[seq[i]] {
+			continue
 		}
-	})
-	return out
+		if g, _, fit, _ := windowFit(pts, seq, i, w, span, tol, buf[:0]); fit {
+			ds = append(ds, g.d)
+		}
+	}
+	if len(ds) < 2*minSupport {
+		return 0
+	}
+	return 1.4826 * median(ds)
 }
 
 // gap is a fit of gapFit: the distance of the point judged from it, the
@@ -413,8 +457,9 @@ func gapFit(sup []geometry.Point, k int, p geometry.Point, tol float64) (gap, bo
 			return g, false
 		}
 	}
-	var a [3][3]float64
-	var by [3]float64
+	// The normal equations of y = c₀ + c₁x + c₂x², written out: the
+	// sums of 1, x, x², x³, x⁴ and of y, xy, x²y.
+	var s0, s1, s2, s3, s4, t0, t1, t2 float64
 	for j, q := range sup {
 		x, y := g.frame(q)
 		// Each support may scatter (a band), but the first must lie
@@ -422,15 +467,18 @@ func gapFit(sup []geometry.Point, k int, p geometry.Point, tol float64) (gap, bo
 		if j < k && x > 0 || j >= k && x < 0 {
 			return g, false
 		}
-		b := [3]float64{1, x, x * x}
-		for r := range 3 {
-			for s := range 3 {
-				a[r][s] += b[r] * b[s]
-			}
-			by[r] += b[r] * y
-		}
+		xx := x * x
+		s0++
+		s1 += x
+		s2 += xx
+		s3 += x * xx
+		s4 += xx * xx
+		t0 += y
+		t1 += x * y
+		t2 += xx * y
 	}
-	cf, ok := numeric.Cramer3(a, by, 1e-12)
+	a := [3][3]float64{{s0, s1, s2}, {s1, s2, s3}, {s2, s3, s4}}
+	cf, ok := numeric.Cramer3(a, [3]float64{t0, t1, t2}, 1e-12)
 	if !ok {
 		return g, false
 	}
@@ -438,7 +486,7 @@ func gapFit(sup []geometry.Point, k int, p geometry.Point, tol float64) (gap, bo
 	// supports' centroids: a window long beside the local radius of
 	// curvature (round a nose, over a trailing edge, a step a run makes
 	// with the surface) is not one a parabola spans.
-	if turn := math.Abs(math.Atan((cf[1]+2*cf[2])/half) - math.Atan((cf[1]-2*cf[2])/half)); turn > clusterTurn {
+	if tooTurned((cf[1]+2*cf[2])/half, (cf[1]-2*cf[2])/half) {
 		return g, false
 	}
 	g.a, g.cf, g.x0 = a, cf, x0
@@ -451,6 +499,26 @@ func gapFit(sup []geometry.Point, k int, p geometry.Point, tol float64) (gap, bo
 	g.scatter = math.Sqrt(ss / float64(len(sup)-3))
 	g.d = g.dist(p)
 	return g, true
+}
+
+// tooTurned reports whether the directions of slopes p and m differ by
+// more than clusterTurn, |atan p − atan m| > clusterTurn. The tangent of
+// the difference, (p − m)/(1 + pm), settles it without the arc tangents
+// unless it lies within 1e-9 (relative) of tan clusterTurn, where the arc
+// tangents decide as they always did; the rounding of either form is
+// some 1e-16.
+func tooTurned(p, m float64) bool {
+	const tanTurn = 0.57735026918962576 // tan 30° = 1/√3
+	den := 1 + p*m
+	if den > 0 {
+		switch t := math.Abs(p-m) / den; {
+		case t < tanTurn*(1-1e-9):
+			return false
+		case t > tanTurn*(1+1e-9) && !math.IsInf(t, 1):
+			return true
+		}
+	}
+	return math.Abs(math.Atan(p)-math.Atan(m)) > clusterTurn
 }
 
 // frame returns q in the fit's frame: x along the axis scaled by half, y

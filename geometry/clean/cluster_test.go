@@ -346,10 +346,41 @@ func TestClusterScalesSeeSharedNoise(t *testing.T) {
 		}
 		scale, raw := robustScale(pts, seq, residuals(pts, seq, 0))
 		_, wsc := clusterCalibration(pts, seq, DefaultOutlierSigma*scale, nil)
-		r := wsc[0] / raw
-		t.Logf("%s: point-to-point scale %.3g mm, narrowest window's spread %.3g mm (%.2f times)", tc.name, raw, wsc[0], r)
-		if r < tc.ratio[0] || r > tc.ratio[1] || wsc[0] > tc.spreadHi*tc.noise {
-			t.Errorf("%s: spread %.3g mm, %.2f times the point-to-point scale %.3g mm; want %v times, at most %g mm", tc.name, wsc[0], r, raw, tc.ratio, tc.spreadHi*tc.noise)
+		r := wsc.at(0) / raw
+		t.Logf("%s: point-to-point scale %.3g mm, narrowest window's spread %.3g mm (%.2f times)", tc.name, raw, wsc.at(0), r)
+		if r < tc.ratio[0] || r > tc.ratio[1] || wsc.at(0) > tc.spreadHi*tc.noise {
+			t.Errorf("%s: spread %.3g mm, %.2f times the point-to-point scale %.3g mm; want %v times, at most %g mm", tc.name, wsc.at(0), r, raw, tc.ratio, tc.spreadHi*tc.noise)
 		}
+	}
+}
+
+// TestTooTurned checks the cluster test's turn limit, read from the
+// tangent of the difference, against the arc tangents it stands for
+// (exact in real numbers: tan(a − b) = (tan a − tan b)/(1 + tan a tan b))
+// on random slopes and on pairs placed at the limit itself.
+func TestTooTurned(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5, 6))
+	byAtan := func(p, m float64) bool { return math.Abs(math.Atan(p)-math.Atan(m)) > clusterTurn }
+	check := func(p, m float64) {
+		if got, want := tooTurned(p, m), byAtan(p, m); got != want {
+			t.Errorf("tooTurned(%g, %g) = %v, arc tangents say %v", p, m, got, want)
+		}
+	}
+	for range 100000 {
+		p, m := rng.NormFloat64()*3, rng.NormFloat64()*3
+		check(p, m)
+		// At the limit: m turned from p by clusterTurn, give or take a
+		// few ulps to 1e-8.
+		a := math.Atan(p)
+		for _, d := range []float64{0, 1e-16, -1e-16, 1e-12, -1e-12, 1e-8, -1e-8} {
+			for _, sgn := range []float64{1, -1} {
+				if b := a + sgn*(clusterTurn+d); math.Abs(b) < math.Pi/2 {
+					check(p, math.Tan(b))
+				}
+			}
+		}
+	}
+	for _, pm := range [][2]float64{{math.Inf(1), 0}, {0, math.Inf(-1)}, {math.Inf(1), math.Inf(1)}, {math.NaN(), 0}, {1e300, -1e300}, {1e-300, 0}} {
+		check(pm[0], pm[1])
 	}
 }

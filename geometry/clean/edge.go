@@ -5,6 +5,8 @@ import (
 	"math"
 	"slices"
 
+	"gonum.org/v1/gonum/mathext"
+
 	"github.com/foilwright/foilwright/geometry"
 )
 
@@ -650,6 +652,11 @@ func findEdgeIn(pts []geometry.Point, seq []int32, sigma float64, f chordFrame) 
 	if es, ok := endStep(z[:len(z)-len(holes)], lf-1); ok {
 		pstep = es
 	}
+	// How regular the spacing is either side of the zone (gapModel).
+	gm := newGapModel(pts, seq, at(k0+uf), at(k0-lf), f.chord)
+	if edgeTrace != nil {
+		edgeTrace("gaps h %.4g %.4g k %.3g", gm.h[0], gm.h[1], gm.k)
+	}
 	// Twice: the second time each surface is fitted again with the zone
 	// points the first verdict gave it, which shortens the reach of the
 	// fits into the zone to the last of them.
@@ -666,7 +673,7 @@ func findEdgeIn(pts []geometry.Point, seq []int32, sigma float64, f chordFrame) 
 			return edgeFound{seq: seq}, false
 		}
 		scat = max(sigma/f.chord, us, ls, 1e-9)
-		m, o, ok := chooseEnd(endFits{u: u, l: l, eu: newFitSpread(xs, uidx, scat), el: newFitSpread(xs, lidx, scat)}, z, xmax, step, pstep, scat)
+		m, o, ok := chooseEnd(endFits{u: u, l: l, eu: newFitSpread(xs, uidx, scat), el: newFitSpread(xs, lidx, scat), gaps: gm}, z, xmax, step, pstep, scat)
 		if !ok {
 			return edgeFound{seq: seq}, false
 		}
@@ -710,7 +717,7 @@ func findEdgeIn(pts []geometry.Point, seq []int32, sigma float64, f chordFrame) 
 	}
 	if u2, _ := fitScatter(xs, ys, coreU); u2.ok {
 		if l2, _ := fitScatter(xs, ys, coreL); l2.ok {
-			if m, o, ok := chooseEnd(endFits{u: u2, l: l2, eu: newFitSpread(xs, coreU, scat), el: newFitSpread(xs, coreL, scat)}, z, xmax, step, pstep, scat); ok && m.score < best.score {
+			if m, o, ok := chooseEnd(endFits{u: u2, l: l2, eu: newFitSpread(xs, coreU, scat), el: newFitSpread(xs, coreL, scat), gaps: gm}, z, xmax, step, pstep, scat); ok && m.score < best.score {
 				best, out, u, l = m, o, u2, l2
 			}
 		}
@@ -873,7 +880,7 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 		}
 	}
 	for k := range models {
-		models[k].score = models[k].misfit(u, l, z, scat, edgeOutlier, out, zs) + models[k].extra
+		models[k].score = models[k].misfit(u, l, z, scat, edgeOutlier, out, zs) + models[k].extra + fits.gaps.deviance(&models[k], u, l, z, out, xa)
 	}
 	// A rounded end with fewer than edgeArcMin points on its arc must beat
 	// a blunt one by edgeEvidence: an end sampled by a point or two fits a
@@ -931,7 +938,7 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 	}
 	best := models[bk]
 	for k := range alts {
-		alts[k].score = alts[k].misfit(u, l, z, scat, edgeOutlier, out, zs) + alts[k].extra
+		alts[k].score = alts[k].misfit(u, l, z, scat, edgeOutlier, out, zs) + alts[k].extra + fits.gaps.deviance(&alts[k], u, l, z, out, xa)
 	}
 	for k, m := range append(models, alts...) {
 		if m.score <= best.score+edgePlausible {
@@ -959,7 +966,7 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 	}
 	if edgeTrace != nil {
 		for _, m := range models {
-			edgeTrace("model %s score %.1f extra %.2f xu %.5f xl %.5f r %.5g lo %v hi %v corner %v", m.kind, m.score, m.extra, m.xu, m.xl, m.r, m.lo, m.hi, m.corner)
+			edgeTrace("model %s gapdev %.2f score %.1f extra %.2f xu %.5f xl %.5f r %.5g lo %v hi %v corner %v", m.kind, fits.gaps.deviance(&m, u, l, z, out, xa), m.score, m.extra, m.xu, m.xl, m.r, m.lo, m.hi, m.corner)
 		}
 		edgeTrace("zone %d points, xmax %.5f step %.4g scat %.3g pen %.1f", len(z), xmax, step, scat, pen)
 	}
@@ -1036,6 +1043,7 @@ func (m *endModel) outline(u, l quadFit, xa float64) [][]geometry.Point {
 type endFits struct {
 	u, l   quadFit
 	eu, el fitSpread
+	gaps   gapModel
 }
 
 // fitSpread holds what a least-squares parabola leaves unknown where it
@@ -1265,6 +1273,173 @@ func gapDeviance(gap, step float64) float64 {
 	}
 	return 2 * gap / step
 }
+
+// gapModel is the spacing of the points either side of the end zone:
+// their mean gap h (chord units) and the shape k of a gamma law of the
+// gaps with that mean whose spread is theirs (k = 1/CV², the coefficient
+// of variation from the interquartile range of the gaps' logs, a robust
+// estimate). gapDeviance scores the outlines of the end models as if the
+// points fell along them at random (a Poisson process, k = 1), under
+// which the stretch from the end to the next point either side is
+// exponential: a corner a few steps beyond the last points costs little.
+// Points stepped along the outline at a steadier pace (a probe program,
+// a scanner's even sweep) leave such a stretch longer than a step far
+// less often: from a given spot (the end), the distance to the next point
+// of a renewal process of gaps with law F and mean h has the density
+// (1 − F(d))/h (the forward recurrence time, common practice), which
+// deviance weighs in place of the exponential's. k is held within
+// [1, gapShapeMax]: never more lenient than the Poisson process, nor so
+// strict that a spacing made uneven by noise or curvature near the end
+// decides it.
+type gapModel struct {
+	h [2]float64 // the upper surface's, the lower's
+	k float64
+}
+
+// gapSpan is the number of gaps either side of the zone that give the
+// spacing's mean and regularity (fewer make a poor estimate of it: for
+// log-normal gaps of σ 0.8, eight a side put σ below 0.5 in 16 % of
+// draws, twenty-four in 1.3 %, measured on 20000 draws).
+const gapSpan = 24
+
+// gapSigmaMin is the least σ of the gaps' logs a gapModel takes (a
+// spread of some 25 % even in a drawing's steps, our choice: noise and
+// the outline's curvature move the points along it too): gapShapeMax =
+// 1/(e^{σ²} − 1) with that σ.
+const gapSigmaMin = 0.25
+
+var gapShapeMax = 1 / (math.Exp(gapSigmaMin*gapSigmaMin) - 1)
+
+// newGapModel returns the gapModel of up to gapSpan gaps of seq (a
+// quarter of its points at most) from position ku on (up the upper
+// surface, away from the end) and from kl back (down the lower one), in
+// chord units (chord: the frame's).
+func newGapModel(pts []geometry.Point, seq []int32, ku, kl int, chord float64) gapModel {
+	n := len(seq)
+	span := min(gapSpan, n/4)
+	if span < gapMin || !(chord > 0) {
+		return gapModel{}
+	}
+	var gm gapModel
+	var logs []float64
+	for side, sd := range [2]struct{ k, dir int }{{ku, 1}, {kl, -1}} {
+		ls := make([]float64, 0, span)
+		var sum float64
+		for s := range span {
+			a := seq[((sd.k+sd.dir*s)%n+n)%n]
+			b := seq[((sd.k+sd.dir*(s+1))%n+n)%n]
+			d := pts[a].Dist(pts[b]) / chord
+			if !(d > 0) {
+				continue
+			}
+			sum += d
+			ls = append(ls, math.Log(d))
+		}
+		if len(ls) < gapMin {
+			return gapModel{}
+		}
+		gm.h[side] = sum / float64(len(ls))
+		// Each side about its own median: one surface may be probed
+		// more coarsely than the other.
+		slices.Sort(ls)
+		med := ls[len(ls)/2]
+		for _, l := range ls {
+			logs = append(logs, l-med)
+		}
+	}
+	slices.Sort(logs)
+	iqr := logs[3*len(logs)/4] - logs[len(logs)/4]
+	sigma := max(gapSigmaMin, iqr/1.349)
+	gm.k = min(gapShapeMax, max(1, 1/(math.Exp(sigma*sigma)-1)))
+	return gm
+}
+
+// gapMin is the least number of gaps either side a gapModel is made of.
+const gapMin = 6
+
+// deviance returns what the model's outline adds to gapDeviance under
+// the gamma law of the gaps: the zone points (outliers out left out),
+// placed along the outline from the station xa on the lower surface round
+// the end to xa on the upper one, stop short of the model's end (the
+// corner, the middle of the base, the tip of the arc) by d either side,
+// and each adds −2 ln Q(k, k·d/h) − 2d/h (Q the regularised upper
+// incomplete gamma function: −2 ln of the forward recurrence density over
+// the exponential's that gapDeviance counts, at most gapDevMax); 0 when
+// the law is Poisson's.
+func (gm gapModel) deviance(m *endModel, u, l quadFit, z []geometry.Point, out []bool, xa float64) float64 {
+	if !(gm.k > 1) || !(gm.h[0] > 0) || !(gm.h[1] > 0) {
+		return 0
+	}
+	pcs := m.outline(u, l, xa)
+	sc := m.tipX() // outline normalises by the model's own chord
+	// One polyline: the lower surface out to its end, the joining piece,
+	// the upper surface back; the end is the joining piece's middle.
+	var line []geometry.Point
+	for _, p := range pcs[2] {
+		line = append(line, p.Scale(sc))
+	}
+	startEnd := len(line) - 1
+	for _, p := range pcs[1][1 : len(pcs[1])-1] {
+		line = append(line, p.Scale(sc))
+	}
+	for j := len(pcs[0]) - 1; j >= 0; j-- {
+		line = append(line, pcs[0][j].Scale(sc))
+	}
+	stopEnd := len(line) - len(pcs[0])
+	arc := make([]float64, len(line))
+	for j := 1; j < len(line); j++ {
+		arc[j] = arc[j-1] + line[j].Dist(line[j-1])
+	}
+	tip := (arc[startEnd] + arc[stopEnd]) / 2
+	below, above := 0.0, arc[len(arc)-1]
+	for j, p := range z {
+		if out != nil && out[j] {
+			continue
+		}
+		best, at := math.Inf(1), 0.0
+		for i := 1; i < len(line); i++ {
+			a, b := line[i-1], line[i]
+			d := b.Sub(a)
+			l2 := d.Dot(d)
+			t := 0.0
+			if l2 > 0 {
+				t = min(1, max(0, p.Sub(a).Dot(d)/l2))
+			}
+			if e := p.Dist(a.Add(d.Scale(t))); e < best {
+				best, at = e, arc[i-1]+t*math.Sqrt(l2)
+			}
+		}
+		if at <= tip {
+			below = max(below, at)
+		} else {
+			above = min(above, at)
+		}
+	}
+	var dev float64
+	for side, d := range [2]float64{above - tip, tip - below} {
+		r := d / gm.h[side]
+		q := mathext.GammaIncRegComp(gm.k, gm.k*r)
+		e := float64(gapDevMax)
+		if q > 0 {
+			e = min(gapDevMax, -2*math.Log(q))
+		}
+		if e >= gapDevMax {
+			// Capped, the gamma law's cost may not fall below the
+			// exponential law's 2r it replaces: a model leaving a
+			// stretch of many mean gaps unsampled (a degenerate fit
+			// whose end lies far off) would otherwise win by the
+			// difference, without bound.
+			e = max(e, 2*r)
+		}
+		dev += e - 2*r
+	}
+	return dev
+}
+
+// gapDevMax caps what one stretch may cost under the gamma law (a
+// likelihood ratio of e^−25 against a stretch of no length): beyond it
+// the end is settled either way.
+const gapDevMax = 50.0
 
 // coincidence is −2 ln of the chance that the last points of two surfaces
 // sampled independently with a mean step lie within dx of each other

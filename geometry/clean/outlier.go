@@ -426,7 +426,7 @@ func dropOutliersFrom(pts []geometry.Point, seq []int32, sigma float64, keep boo
 	// form a band.
 	useSagitta := band == 0 && (lf.sc == nil || !bandLike(pts, seq, scale))
 	// The cluster test's windows and the spread of its own residuals at
-	// each (clusterScales), on the loop as it comes. Point-to-point fits
+	// each (clusterScale), on the loop as it comes. Point-to-point fits
 	// judge a point by its nearest neighbours, which may share its noise
 	// (a mesh cut near a row of its vertices leaves its points in near
 	// pairs, each the other's copy): their residuals then shrink to
@@ -437,8 +437,8 @@ func dropOutliersFrom(pts []geometry.Point, seq []int32, sigma float64, keep boo
 	// spread over indepRatio.
 	ws, wsc := clusterCalibration(pts, seq, sigma*scale, exempt)
 	pscale := scale
-	if band == 0 && lf.sc == nil && len(wsc) > 0 {
-		pscale = max(scale, wsc[0]/indepRatio)
+	if band == 0 && lf.sc == nil && len(ws) > 0 {
+		pscale = max(scale, wsc.at(0)/indepRatio)
 	}
 	work := seq
 	var hits []hit

@@ -130,7 +130,14 @@ func newFitPoints(pts []geometry.Point, ws []float64, along []float64, open, bin
 		if i > 0 {
 			d := p.Dist(fp.pts[i-1])
 			if fAlong != nil && fp.of == nil {
-				d = fAlong[i] - fAlong[i-1]
+				// Positions along the loop measured at the points'
+				// feet on a curve: points whose feet coincide (two
+				// points on one normal of it, as a stair-stepped
+				// scan's are) tie, and a knot step of nothing leaves
+				// the spline system singular in floating point. Keep
+				// the step at least the share of the chord between
+				// them that reparametrise keeps of a chord-length step.
+				d = math.Max(fAlong[i]-fAlong[i-1], minStep*d)
 			}
 			fp.ts[i] = fp.ts[i-1] + math.Max(d, 1e-12)
 		}

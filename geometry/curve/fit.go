@@ -515,6 +515,13 @@ func Fit(c *geometry.Contour, opts FitOptions) (*Curve, *FitReport, error) {
 	if err != nil {
 		return nil, nil, err
 	}
+	// The sampling test, when it has been run on the order taken already.
+	var sampled *sampling
+	if opts.Edge == nil && !opts.Exact && opts.Noise == 0 && scatter > 0 {
+		if f, ok := fineEnds(c, opts.Ends, ends, perim); ok {
+			ends, pts, knot, along, sampled = f.ends, f.pts, f.knot, f.along, &f.sample
+		}
+	}
 	m := len(pts)
 	ws := make([]float64, m)
 	for i := range ws {
@@ -574,7 +581,11 @@ func Fit(c *geometry.Contour, opts FitOptions) (*Curve, *FitReport, error) {
 			if fp.of != nil && m <= sampleRawMax {
 				tp = newFitPoints(pts, ws, along, ends.open, false)
 			}
-			st.sample = sampleTest(tp.ts, tp.xs, tp.ys, !ends.open, tp.period, perim)
+			if sampled != nil {
+				st.sample = *sampled
+			} else {
+				st.sample = sampleTest(tp.ts, tp.xs, tp.ys, !ends.open, tp.period, perim)
+			}
 			rep.SampleRatio = st.sample.Ratio
 			if opts.Noise == 0 {
 				switch {
@@ -1069,6 +1080,7 @@ func passes(fp fitPoints, open, freeEnds bool, opts FitOptions, st *smoothState,
 		nperiod, mean float64
 		prob          *splineProblem
 		noise, tau    float64
+		tauLong       float64
 		profile       []float64
 		binsNoisier   bool
 	)
@@ -1098,7 +1110,7 @@ func passes(fp fitPoints, open, freeEnds bool, opts FitOptions, st *smoothState,
 		if !open {
 			lp = nperiod
 		}
-		noise, tau, _, profile = localNoise(xs, ys, s, st.T, c, lp)
+		noise, tau, tauLong, _, profile = localNoise(xs, ys, s, st.T, c, lp)
 		// The noise given is per point, and a bin of count points is
 		// taken to average it down by √count. The bins of a band are
 		// runs of points in the order of their feet on a curve drawn
@@ -1215,8 +1227,9 @@ func passes(fp fitPoints, open, freeEnds bool, opts FitOptions, st *smoothState,
 		}
 	}
 	rep.Lambda, rep.EffectiveParams, rep.Smoothing = lambda, f.trace, betaOfLambda(lambda, mean)
-	st.final = newResampler(prob, f, xs, ys, lambda, sigma*math.Sqrt(tau), open, freeEnds)
+	st.final = newResampler(prob, f, xs, ys, lambda, sigma, open, freeEnds)
 	st.final.setGrowth(profile, noise)
+	st.final.setCorrelation(c, tau, tauLong, f.trace, outlierSigmas*noise)
 	st.final.corner = st.corner && open && !freeEnds
 	st.final.cornerRatio = cornerRatio
 	cv := fromFit(prob, f, !open)

@@ -35,6 +35,9 @@ type resampler struct {
 	// data point.
 	corner      bool
 	cornerRatio float64
+	// phi, when positive, makes the replicas' noise correlated from knot
+	// to knot, a first-order autoregression (setCorrelation).
+	phi float64
 	// growth, when set, holds per knot how many times the local noise
 	// exceeds the fit's (at least 1): the replicas' noise there.
 	growth []float64
@@ -82,6 +85,55 @@ func (r *resampler) setGrowth(profile []float64, noise float64) {
 		r.growth = g
 	}
 }
+
+// setCorrelation sets the replicas' noise from how the points' noise is
+// correlated along the outline: white noise that neighbouring points
+// share by chance (the few lags of tauShort, noiseCorrelation, which
+// also sets the smoothing) is simulated as white noise of variance
+// σ²·tauShort per knot, and a correlation that runs on further (a
+// scanner that drifts as it sweeps) as a first-order autoregression of
+// that noise along the knots, eᵢ = φ eᵢ₋₁ + √(1 − φ²) σ √tauShort zᵢ,
+// whose integrated correlation (1 + φ)/(1 − φ) is τ/tauShort. The average
+// of the replicas' noise over many knots then scatters as the points' do
+// (variance σ²τ over the knots averaged), while one knot scatters no more
+// than the points show: white noise of variance σ²τ would make replicas
+// more wiggly than the section and send their edges astray.
+//
+// τ is the larger of tauLocal, the integratedCorrelation of the local
+// fits' offsets, and that of the final fit's residuals at the knots
+// (criterion weights c ≥ 1, residuals beyond clip left out): the local
+// fits take up a correlation that runs over more points than their
+// windows hold, the final fit one that runs over more points than it
+// smooths over, and each sees what the other misses. A correlation over
+// more knots than the fit smooths over (k = n/tr H, trace being tr H) is
+// shape to it, and the fit follows the replicas' as it followed the
+// points': τ is taken no larger than k.
+func (r *resampler) setCorrelation(c []float64, tauShort, tauLocal, trace, clip float64) {
+	n := r.prob.n()
+	r.sigma *= math.Sqrt(tauShort)
+	tau := math.Max(tauShort, tauLocal)
+	if len(c) == n && r.lambda > 0 {
+		res := make([]float64, 0, n)
+		for i := 0; i < n; i++ {
+			if c[i] >= 1 {
+				res = append(res, (r.xd[i]-r.gx[i])*r.nx[i]+(r.yd[i]-r.gy[i])*r.ny[i])
+			}
+		}
+		tau = math.Max(tau, integratedCorrelation(res, clip))
+	}
+	if trace > 0 {
+		tau = math.Min(tau, float64(n)/trace)
+	}
+	if rest := tau / tauShort; rest > corrVisible {
+		r.phi = (rest - 1) / (rest + 1)
+	}
+}
+
+// corrVisible is the least ratio of τ to tauShort that setCorrelation
+// takes for a correlation beyond the few neighbours: the estimate of
+// white noise's τ over a few hundred values strays to about 1.1
+// (TestIntegratedCorrelation); 1.5 clears it (common practice).
+const corrVisible = 1.5
 
 // ErrNoNoise means a fit has no noise to simulate: it interpolates.
 var ErrNoNoise = errors.New("the fit interpolates: no noise to simulate")
@@ -147,22 +199,21 @@ func (r *FitReport) ReplicaNoise() float64 {
 
 // Replica returns a replica of the fit: its curve's knot values displaced
 // along the normal by Gaussian noise of the fit's noise (the noise the
-// points show, or the noise given, inflated for noise shared between
-// neighbours), fitted with the same λ and weights, its ends treated as the
-// fit's were. It returns ErrNoNoise for an interpolating fit.
+// points show, or the noise given, inflated for noise shared between a
+// few neighbours and correlated along the outline as the residuals are;
+// see setCorrelation), fitted with the same λ and weights, its ends
+// treated as the fit's were. It returns ErrNoNoise for an interpolating
+// fit.
 func (r *FitReport) Replica(rng *rand.Rand) (*Curve, error) {
 	rs := r.resampler
 	if rs == nil || rs.sigma == 0 || rs.lambda == 0 {
 		return nil, ErrNoNoise
 	}
 	n := rs.prob.n()
+	e := rs.noise(rng)
 	xs, ys := make([]float64, n), make([]float64, n)
 	for i := 0; i < n; i++ {
-		e := rs.sigma * rng.NormFloat64()
-		if rs.growth != nil {
-			e *= rs.growth[i]
-		}
-		xs[i], ys[i] = rs.gx[i]+e*rs.nx[i], rs.gy[i]+e*rs.ny[i]
+		xs[i], ys[i] = rs.gx[i]+e[i]*rs.nx[i], rs.gy[i]+e[i]*rs.ny[i]
 	}
 	// The base line of a blunt edge is fitted to noisy base points too:
 	// shift and turn it by what their noise allows.
@@ -176,6 +227,29 @@ func (r *FitReport) Replica(rng *rand.Rand) (*Curve, error) {
 		}
 	}
 	return rs.refitEnds(rs.prob, xs, ys, rs.lambda, ends)
+}
+
+// noise returns a draw of the replicas' noise at the knots, normal to
+// the curve: Gaussian of standard deviation sigma, correlated from knot
+// to knot as a first-order autoregression of coefficient phi (white when
+// phi is 0), times the growth of each knot.
+func (rs *resampler) noise(rng *rand.Rand) []float64 {
+	n := rs.prob.n()
+	e := make([]float64, n)
+	innov := math.Sqrt(1 - rs.phi*rs.phi)
+	var z float64
+	for i := range e {
+		if i == 0 {
+			z = rng.NormFloat64()
+		} else {
+			z = rs.phi*z + innov*rng.NormFloat64()
+		}
+		e[i] = rs.sigma * z
+		if rs.growth != nil {
+			e[i] *= rs.growth[i]
+		}
+	}
+	return e
 }
 
 // Half returns the curve of the fit's knots of one parity (phase 0 or 1)

@@ -2,8 +2,10 @@ package curve
 
 import (
 	"math"
+	"slices"
 	"sort"
 
+	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/internal/numeric"
 	"github.com/foilwright/foilwright/internal/par"
 )
@@ -248,4 +250,57 @@ func median(vs []float64) float64 {
 		return 0
 	}
 	return numeric.Nth(vs, len(vs)/2)
+}
+
+// fineOrder is a fit order with the ends the points draw at their own
+// spacing, and the sampling test run on it.
+type fineOrder struct {
+	ends   trailingEnds
+	pts    []geometry.Point
+	knot   []int
+	along  []float64
+	sample sampling
+}
+
+// fineEnds returns the trailing-edge ends of c sought at the points' own
+// spacing (detectEnds with no scatter, as for exact points) with their fit
+// order, and true, when they differ from ends, found at the reach of the
+// points' scatter, and the sampling test on that order finds the points
+// exact.
+//
+// The scatter about parabolas through ten neighbours (localScatter) is
+// noise on a dense scan, but on sparse exact points (a CAD polyline or a
+// table at cosine stations) it is the outline's own curvature between
+// them: corners sought at ten times that reach take the two 90° turns of
+// a short blunt base, with a point or two on it, for one corner, and the
+// base's points for surface points, which the fit then bends the
+// surfaces' ends into. The sampling test decides which it is, and it is
+// run on the order of the finer ends, so that it never predicts a point
+// across the corners of the base (both ends of an open fit are kept, not
+// predicted): a turn the spline cannot follow would pass for noise there.
+// Noisy points fail the test on either order, and keep the ends found at
+// the reach of their scatter.
+func fineEnds(c *geometry.Contour, mode string, ends trailingEnds, perim float64) (fineOrder, bool) {
+	f := fineOrder{ends: detectEnds(c.Points, mode, 0)}
+	if sameEnds(f.ends, ends) {
+		return f, false
+	}
+	var err error
+	if f.pts, f.knot, f.along, err = fitOrder(c, f.ends, perim); err != nil {
+		return f, false
+	}
+	m := len(f.pts)
+	ws := make([]float64, m)
+	for i := range ws {
+		ws[i] = 1
+	}
+	// The points the test reads, as Fit's first round reads them.
+	tp := newFitPoints(f.pts, ws, f.along, f.ends.open, m > sampleRawMax)
+	f.sample = sampleTest(tp.ts, tp.xs, tp.ys, !f.ends.open, tp.period, perim)
+	return f, f.sample.Exact
+}
+
+// sameEnds reports whether a and b cut the loop and order it alike.
+func sameEnds(a, b trailingEnds) bool {
+	return a.open == b.open && slices.Equal(a.order, b.order) && slices.Equal(a.base, b.base) && a.upper == nil && b.upper == nil && a.lower == nil && b.lower == nil
 }

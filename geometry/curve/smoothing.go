@@ -209,6 +209,75 @@ const (
 	corrMin  = 0.1
 )
 
+// integratedCorrelation returns τ = 1 + 2 Σₖ ρₖ of the series r (its lag
+// correlations ρₖ about its mean), at least 1, summed by the initial
+// positive sequence estimator: the sums Γₘ = ρ₂ₘ + ρ₂ₘ₊₁ (ρ₀ = 1) of
+// a stationary series are positive and decrease, so they are added while
+// they stay positive, each capped at the one before (the initial
+// monotone sequence), and τ = 2 Σₘ Γₘ − 1. Unlike a fixed number of lags
+// with a threshold (noiseCorrelation, which sets the smoothing), it
+// follows a correlation that fades slowly over tens of points, a scanner
+// that drifts as it sweeps. Lags are summed up to len(r)/4 and
+// integratedLags. Values that are NaN or beyond clip are left out.
+//
+// References:
+//
+//	Geyer, C. J. (1992). Practical Markov chain Monte Carlo.
+//	Statistical Science 7(4), 473–483, section 3.3.
+func integratedCorrelation(r []float64, clip float64) float64 {
+	var v []float64
+	for _, x := range r {
+		if !math.IsNaN(x) && math.Abs(x) <= clip {
+			v = append(v, x)
+		}
+	}
+	n := len(v)
+	if n < 4*corrLags {
+		return 1
+	}
+	var mean float64
+	for _, x := range v {
+		mean += x
+	}
+	mean /= float64(n)
+	var v0 float64
+	for i := range v {
+		v[i] -= mean
+		v0 += v[i] * v[i]
+	}
+	if v0 == 0 {
+		return 1
+	}
+	rho := func(k int) float64 {
+		var ck float64
+		for i := 0; i+k < n; i++ {
+			ck += v[i] * v[i+k]
+		}
+		return ck / v0
+	}
+	maxLag := min(n/4, integratedLags)
+	sum, prev := 0.0, math.Inf(1)
+	for m := 0; 2*m+1 <= maxLag; m++ {
+		g := rho(2*m + 1)
+		if m == 0 {
+			g++
+		} else {
+			g += rho(2 * m)
+		}
+		if !(g > 0) {
+			break
+		}
+		g = math.Min(g, prev)
+		sum += g
+		prev = g
+	}
+	return math.Max(1, 2*sum-1)
+}
+
+// integratedLags is the most lags integratedCorrelation sums: a
+// correlation over more points than this is shape to any fit.
+const integratedLags = 200
+
 // arcWeights returns the weights of the points at parameters ts for
 // smoothing lengths ℓᵢ = β·L·(Tᵢ/L)^featurePower·(hᵢ/h̄)^spacingPower (L
 // the parameter length, h̄ its mean spacing): wᵢ = hᵢ/ℓᵢ⁴ at β = 1,
@@ -370,10 +439,11 @@ func critWeights(ws []float64) []float64 {
 // nose), which a smoothing spline with weights that change as fast is
 // not. The robust scale of the standardised offsets (1.4826 × median) of
 // the points with c ≥ 1 is the noise; τ is noiseCorrelation of the raw
-// offsets. profile holds, per point, the robust scale of the standardised
-// offsets of the noiseProfileSide points either side of it (see
-// noiseProfile), nil when there are too few.
-func localNoise(xs, ys, s, T, c []float64, period float64) (sigma, tau float64, lags int, profile []float64) {
+// offsets, tauLong their integratedCorrelation (for the replicas). profile
+// holds, per point, the robust scale of the standardised offsets of the
+// noiseProfileSide points either side of it (see noiseProfile), nil when
+// there are too few.
+func localNoise(xs, ys, s, T, c []float64, period float64) (sigma, tau, tauLong float64, lags int, profile []float64) {
 	m := len(xs)
 	closed := period > 0
 	pos := func(j int) (float64, int) { // arc position and index of neighbour j (may wrap)
@@ -483,11 +553,18 @@ func localNoise(xs, ys, s, T, c []float64, period float64) (sigma, tau float64, 
 		}
 	}
 	if len(std) == 0 {
-		return 0, 1, 0, nil
+		return 0, 1, 1, 0, nil
 	}
 	sigma = 1.4826 * median(std)
 	tau, lags = noiseCorrelation(raw, c, outlierSigmas*sigma)
-	return sigma, tau, lags, noiseProfile(stdAt, hasStd, closed)
+	kept := make([]float64, 0, m)
+	for i, v := range raw {
+		if c[i] >= 1 {
+			kept = append(kept, v)
+		}
+	}
+	tauLong = integratedCorrelation(kept, outlierSigmas*sigma)
+	return sigma, tau, tauLong, lags, noiseProfile(stdAt, hasStd, closed)
 }
 
 // noiseProfileSide is the number of points either side of a point whose

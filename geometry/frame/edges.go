@@ -175,6 +175,9 @@ func locate(cv *curve.Curve, leAt *geometry.Point) (*edges, error) {
 			e.sLE, _ = cv.Project(*leAt)
 		} else {
 			e.sLE, _ = cv.Farthest(te, 0, L)
+			if s, ok := refineLE(cv, te, e.sLE); ok {
+				e.sLE = s
+			}
 		}
 		e.le = cv.At(e.sLE)
 	}

@@ -107,11 +107,22 @@ type Normalized struct {
 	SLE float64
 	// Frame maps Path back to the part.
 	Frame Frame
+	// Farthest is the frame whose leading edge is the curve point
+	// farthest from the trailing edge itself, before the form of the nose
+	// placed it (refineLE); equal to Frame when the form was not used.
+	// Package accuracy measures the spread of both.
+	Farthest Frame
 	// TE reports the trailing edge found and what was done to it.
 	TE TrailingEdge
 	// Warnings are remarks for the user (ambiguous mirroring, an open
 	// outline, a treatment that changed nothing).
 	Warnings []string
+	// MirrorOpen is set when MirrorAuto could not tell the upper side
+	// from the lower: the section is (nearly) symmetric, its nose is
+	// unsampled, or its camber is fainter than its thickness can fake
+	// (noseBias). The outline turned over is then as likely a reading of
+	// the points, and the section's uncertainty takes it in.
+	MirrorOpen bool
 }
 
 // Normalize locates the trailing and leading edge of the fitted curve cv
@@ -131,9 +142,11 @@ type Normalized struct {
 // starts.
 //
 // Leading edge. The curve point farthest from the trailing-edge midpoint
-// (or tip), found on the curve by golden-section search (common practice);
-// the chord is that distance. opts.LEAt replaces it by the curve point
-// nearest to the given coordinates.
+// (or tip) (common practice), read from a least-squares form of the nose
+// round the curve's own farthest point (refineLE, nose.go), so that the
+// curve's wiggles do not slide it along the nose; the chord is its
+// distance from the trailing edge. opts.LEAt replaces it by the curve
+// point nearest to the given coordinates.
 //
 // Mirroring. The contour is counter-clockwise, so a section whose nose
 // points the other way, or which was measured upside down, is a reflection
@@ -145,7 +158,10 @@ type Normalized struct {
 // on average): on a thick, blunt nose the leading edge's place tilts the
 // chord line enough to move the centroid of a symmetric section below it,
 // but a tilt does not make the mean line sag. A symmetric section cannot
-// tell and is left as it is.
+// tell and is left as it is. Nor can a thick section whose camber is
+// fainter than its nose's thickness can fake (noseBias): the decision
+// stands, and Normalized.MirrorOpen says the upper side is open, as it
+// does wherever mirroring cannot be detected or decided.
 //
 // Normalize returns an error wrapping ErrNoLeadingEdge for a body with no
 // distinct nose and tail (a circle, a square), and ErrTrailingEdge when the
@@ -215,6 +231,12 @@ func Normalize(cv *curve.Curve, opts Options) (*Normalized, error) {
 	} else {
 		sLE, _ = treated.Farthest(te, 0, treated.Length())
 	}
+	far := treated.At(sLE)
+	if opts.LEAt == nil {
+		if s, ok := refineLE(treated, te, sLE); ok {
+			sLE = s
+		}
+	}
 	le := treated.At(sLE)
 	fr := fromEdges(le, te, false)
 	chord := fr.apply(treated)
@@ -228,6 +250,14 @@ func Normalize(cv *curve.Curve, opts Options) (*Normalized, error) {
 		from := max(sagFrom, supportedFrom(fitted, opts.Support, le, fr))
 		sag, sagOK := meanLineSag(chord, sLE/fr.Chord, from)
 		sagMin := max(EdgeMirrorSag, opts.Noise/fr.Chord, sampledSag(fitted, opts.Support, fr.Chord))
+		// The thickness alone could have bowed the mean line this far,
+		// and aft of the nose, where it cannot, the mean line does not
+		// bow enough to say either.
+		bias, biasOK := noseBias(chord, sLE/fr.Chord)
+		aft, aftOK := meanLineSag(chord, sLE/fr.Chord, max(from, sagAftFrom))
+		faint := !sagOK || !biasOK || math.Abs(sag) <= sagMin+bias
+		faint = faint && (!aftOK || math.Abs(aft) <= sagAftFactor*sagMin)
+		out.MirrorOpen = true // unless a case below decides
 		switch {
 		case cy < -EdgeMirrorCentroid && from > sagFrom && (!sagOK || sag >= -sagMin):
 			// The points leave the nose unsampled and the mean line aft
@@ -236,7 +266,12 @@ func Normalize(cv *curve.Curve, opts Options) (*Normalized, error) {
 			warn(fmt.Sprintf("mirroring cannot be decided: the centroid lies %.3g chord below the chord line, but the points leave the nose unsampled to x = %.2g and the mean line aft of it does not sag the other way; kept as measured: use mirror yes if it was measured upside down", -cy, from))
 		case cy < -EdgeMirrorCentroid && (!sagOK || sag < -sagMin):
 			mirrored = true
-			warn(fmt.Sprintf("section mirrored: its centroid lies %.3g chord below the chord line (negative camber), so it was taken as upside down or nose-reversed; use mirror no to keep it", -cy))
+			if faint {
+				warn(fmt.Sprintf("section mirrored, but the points cannot tell its upper side for sure: its centroid lies %.3g chord below the chord line and its mean line sags down by %.2g chord, and a section this thick can sag that far right way up when its mean line rises steeply at the nose (by up to %.2g chord, a NACA 5-digit section cambered near its nose); the surface's bound takes in the outline turned over; use mirror no to keep it as measured", -cy, math.Abs(sag), bias+sagMin))
+			} else {
+				out.MirrorOpen = false
+				warn(fmt.Sprintf("section mirrored: its centroid lies %.3g chord below the chord line (negative camber), so it was taken as upside down or nose-reversed; use mirror no to keep it", -cy))
+			}
 		case cy < -EdgeMirrorCentroid:
 			// The centroid says mirrored but the mean line does not sag
 			// the other way: a (nearly) symmetric section whose chord
@@ -248,6 +283,10 @@ func Normalize(cv *curve.Curve, opts Options) (*Normalized, error) {
 			warn(fmt.Sprintf("section is (nearly) symmetric: its centroid lies %.3g chord below the chord line but its mean line bows %s by only %.2g chord, and camber needs more than %.2g (the largest of %.1g, the noise and what the spacing of the points leaves), so mirroring cannot be detected and it was kept as measured; use mirror yes if it was measured upside down", -cy, way, math.Abs(sag), sagMin, EdgeMirrorSag))
 		case math.Abs(cy) <= EdgeMirrorCentroid:
 			warn("section is (nearly) symmetric: mirroring cannot be detected; use mirror yes if it was measured upside down")
+		case faint:
+			warn(fmt.Sprintf("the points cannot tell the section's upper side for sure: its centroid lies %.3g chord above the chord line and its mean line bows %.2g chord, but a section this thick can bow that far when its mean line rises steeply at the nose (by up to %.2g chord, a NACA 5-digit section cambered near its nose, measured upside down); kept as measured; the surface's bound takes in the outline turned over; use mirror yes if it was measured upside down", cy, math.Abs(sag), bias+sagMin))
+		default:
+			out.MirrorOpen = false
 		}
 	}
 	// Affine maps scale arc length by 1/chord; a reversal counts it from the
@@ -259,6 +298,7 @@ func Normalize(cv *curve.Curve, opts Options) (*Normalized, error) {
 		out.SLE = chord.Length() - sLE/fr.Chord
 	}
 	out.Frame = fr
+	out.Farthest = fromEdges(far, te, mirrored)
 	out.Path = chord
 	return out, nil
 }

@@ -22,6 +22,36 @@ const (
 	// 5 %, sags by 1.6e-3 (Report 824's constants); 3e-4 leaves five times
 	// that margin and stays ten times above what the noise of a scan leaves.
 	EdgeMirrorSag = 3e-4
+	// noseBiasFactor turns the nose's half-thickness growth into the
+	// most the thickness can bow the mean line's sag (noseBias). The
+	// thickness of a NACA section is laid off normal to its mean line
+	// (Report 824), so where the mean line rises at a slope θ near the
+	// nose the surfaces' midpoint at equal x lies about h·h'·sin θ above
+	// the mean line, h the half-thickness (first order of the
+	// construction); near the nose h² grows as 2·r·x, so h·h' is of the
+	// nose radius r's order. The anchor of the sag's straight line at 1 %
+	// rises with it, and the sag reads low. Measured numerically on
+	// Report 824's 5-digit lines with their greatest camber at 5 % at
+	// 12–24 % thickness, in our chord convention, the sag reads low by
+	// 0.11, 0.17 and 0.21 times the nose's h·h' (noseBias) for design
+	// lift 0.15, 0.3 and 0.45 (nose slopes 0.3, 0.6 and 0.9, the
+	// steepest lines the campaign draws); 0.22 covers them.
+	noseBiasFactor = 0.22
+	// sagAftFrom is the first station of the mean line's sag read aft of
+	// the nose, and sagAftFactor times the sag's least (sagMin) what it
+	// must bow there for the upper side to be plain whatever the nose
+	// reads. Camber laid well aft (a 4-digit line, a Kármán–Trefftz arc,
+	// the 5-digit lines with their greatest camber at 15 % or more) bows
+	// the mean line aft of 10 % by 1e-3 chord or more, which the nose's
+	// thickness does not fake; the 5-digit lines cambered at 5–10 % of
+	// design lift up to 0.45, straight aft of their greatest camber, bow
+	// it by 4e-4 at most at 12–24 % thickness, and the 230 line by 5e-4
+	// at 21 % (Report 824's constants, computed numerically).
+	sagAftFrom   = 0.1
+	sagAftFactor = 1.5
+	// noseBiasAt are the stations (chord units) whose half-thicknesses
+	// give the nose's growth h·h' = (h₂² − h₁²) / (2 (x₂ − x₁)).
+	noseBiasNear, noseBiasFar = sagFrom, 0.05
 	// sagGap is the widest gap between the points either side of the
 	// leading edge (chord units) over which the curve's nose still counts
 	// as measured for the mirror decision: well inside the first station.
@@ -68,6 +98,33 @@ func meanLineSag(path *curve.Curve, sLE, from float64) (sag float64, ok bool) {
 	}
 	sag /= sagStations
 	return sag, !math.IsNaN(sag) && !math.IsInf(sag, 0)
+}
+
+// noseBias returns the most the thickness of path, a section in the
+// normalised frame starting at the trailing edge with its leading edge at
+// arc length sLE, can bow its mean line's sag (meanLineSag) by being laid
+// off normal to a mean line that rises steeply at the nose:
+// noseBiasFactor times the growth h·h' of the half-thickness h over the
+// nose (see noseBiasFactor). A thick section cambered near its nose (a
+// NACA 21024 or 22024, say) reads as sagging down right way up, so
+// camber fainter than this cannot tell its upper side. ok is false when
+// the surfaces do not both cross the stations once.
+func noseBias(path *curve.Curve, sLE float64) (bias float64, ok bool) {
+	const n = 600
+	upper := sampleArc(path, 0, sLE, n)
+	lower := sampleArc(path, sLE, path.Length(), n)
+	half := func(x float64) (float64, bool) {
+		yu, oku := crossing(upper, x, true)
+		yl, okl := crossing(lower, x, false)
+		return (yu - yl) / 2, oku && okl
+	}
+	h1, ok1 := half(noseBiasNear)
+	h2, ok2 := half(noseBiasFar)
+	if !ok1 || !ok2 {
+		return 0, false
+	}
+	growth := (h2*h2 - h1*h1) / (2 * (noseBiasFar - noseBiasNear))
+	return noseBiasFactor * math.Max(growth, 0), !math.IsNaN(growth) && !math.IsInf(growth, 0)
 }
 
 // sampleArc returns n+1 points of path from arc length s0 to s1.

@@ -27,8 +27,9 @@
 //     allowed to read as sharp; "open" is never right; the rate is over
 //     the cases whose points decide the kind, and those they cannot at
 //     their sampling (teUndecidable: a rounded end with fewer than three
-//     points on its arc, a blunt base with none on it whose surfaces
-//     would meet within a spacing of their last points) are counted apart;
+//     points on its arc, a blunt base with none on it whose surfaces,
+//     carried on to where they meet, leave a gap round the end that the
+//     spacing of the last points allows) are counted apart;
 //   - good points dropped (any drop but a duplicate merge, lines of
 //     duplicate pairs and repeated stretches left out) and planted
 //     outliers caught;

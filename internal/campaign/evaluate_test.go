@@ -254,10 +254,14 @@ func TestToPart(t *testing.T) {
 
 // A trailing edge is undecidable at its sampling as teUndecidable's
 // documentation says: a rounded end with fewer than three points on its
-// arc; a blunt base with no point on it whose surfaces would meet within a
-// spacing of their last points (NACA 0012 with its open edge, NACA Report
-// 824: a base 0.25 % chord thick, surfaces meeting about 0.009 c behind
-// it); never a sharp edge.
+// arc; a blunt base with no point on it whose sharp rival leaves a gap
+// round the end that the spacing of the last points allows (NACA 0012
+// with its open edge, NACA Report 824: a base 0.25 % chord thick,
+// surfaces meeting about 0.009 c behind it), or whose last points stop
+// short of the end by more than the spacing allows; never a sharp edge.
+// On irregular spacing one short last gap does not make the edge
+// decidable: the spacing is that of the last gaps, and so is its
+// irregularity.
 func TestTEUndecidable(t *testing.T) {
 	build := func(s scangen.ShapeSpec) *scangen.Section {
 		sec, err := s.Build()
@@ -285,6 +289,15 @@ func TestTEUndecidable(t *testing.T) {
 		return append(ls, scangen.Line{Kind: scangen.LineOutlier, T: 2.5})
 	}
 	sparse, dense := []float64{0.001, 0.04, 0.08, 0.12}, []float64{0.001, 0.003, 0.005, 0.007, 0.009, 0.011, 0.013}
+	// Log-normal looking gaps of mean about 0.012 c whose last is 0.0005 c:
+	// the rival corner 0.009 c on is within the gap that may hold the end.
+	irregular := []float64{0.001, 0.0015, 0.02, 0.026, 0.05, 0.057, 0.08, 0.1, 0.106}
+	// Spacing 0.002 c, but the last point 0.05 c short of the end: the
+	// end lies in a stretch the points missed.
+	missed := []float64{0.05, 0.052, 0.054, 0.056, 0.058, 0.06, 0.062}
+	// Even spacing 0.004 c (a drawing's stations): the rival corner's gap,
+	// 0.004 + 2·0.009 c, is no gap of that spacing.
+	even := []float64{0.002, 0.006, 0.01, 0.014, 0.018, 0.022, 0.026, 0.03}
 	for _, tc := range []struct {
 		name  string
 		sec   *scangen.Section
@@ -294,6 +307,9 @@ func TestTEUndecidable(t *testing.T) {
 	}{
 		{"blunt, no base point, sparse", open, lines(open, sparse), true, 0},
 		{"blunt, no base point, dense", open, lines(open, dense), false, 0},
+		{"blunt, no base point, irregular, a short last gap", open, lines(open, irregular), true, 0},
+		{"blunt, no base point, the end missed", open, lines(open, missed), true, 0},
+		{"blunt, no base point, even", open, lines(open, even), false, 0},
 		{"blunt, a base point, sparse", open, lines(open, sparse, 2.5), false, 1},
 		{"sharp, sparse", closed, lines(closed, sparse), false, 0},
 		{"rounded, one point on the arc", rounded, lines(rounded, dense, 2.5), true, 1},

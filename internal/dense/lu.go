@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 	"slices"
+
+	"github.com/foilwright/foilwright/internal/par"
 )
 
 // ConditionTolerance is the condition number above which Solve reports the
@@ -83,8 +85,9 @@ func (lu *LU) factor(n int, a []float64) {
 // FactorizeSolve is Factorize followed by Solve(b, nrhs), with the same
 // results and errors. From parallelMin rows, with more than one goroutine
 // allowed (GOMAXPROCS), the condition estimate runs on a goroutine of its
-// own while the caller solves: both only read the factors, and the
-// estimate takes several solves' time, the solve one.
+// own while the caller solves (both only read the factors, and the
+// estimate takes several solves' time, the solve one), or on the caller
+// after the solve if that goroutine has not begun by then (par.Task).
 func (lu *LU) FactorizeSolve(n int, a []float64, b []float64, nrhs int) error {
 	if nrhs < 1 || len(b) < n*nrhs {
 		panic(fmt.Sprintf("dense: Solve with %d right-hand sides in %d entries for order %d", nrhs, len(b), n))
@@ -98,10 +101,14 @@ func (lu *LU) FactorizeSolve(n int, a []float64, b []float64, nrhs int) error {
 	if !lu.ok {
 		return Condition(lu.cond)
 	}
-	cond := make(chan float64, 1)
-	go func() { cond <- lu.condEst() }()
+	// par.Task, not a bare goroutine: when the machine is shared and no
+	// core takes the estimate up while the caller solves, the caller runs
+	// it itself rather than wait for a core (a scheduler time slice).
+	var cond float64
+	est := par.Start(func() { cond = lu.condEst() })
 	lu.solve(b, nrhs)
-	lu.cond = <-cond
+	est.Wait()
+	lu.cond = cond
 	if lu.cond > ConditionTolerance {
 		return Condition(lu.cond)
 	}

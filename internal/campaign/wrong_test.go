@@ -1,0 +1,65 @@
+package campaign
+
+import "testing"
+
+// TestFormerlyWrongCases runs cases that exited 0 wrong beyond their own
+// stated uncertainty at the start of stop 21, one per cause fixed since,
+// and checks each now succeeds within its bounds. The truth is the
+// generator's (internal/scangen: NACA Report 824 equations, invented
+// noise and spacing).
+//
+//   - 4213: a scan of a NACA 4404 whose points leave a gap of 0.015 c
+//     round the nose; the leading edge found on the curve's guess there
+//     was 0.011 c off against a bound of 0.002 c.
+//   - 573, 2488: NACA 5-digit sections cambered at 5 % (21 % and 23 %
+//     thick), probed right way up, read as upside down (in our chord
+//     convention their mean lines sag down) and turned over: nodes
+//     0.010–0.014 c off against surface bounds of 0.001–0.002 c.
+func TestFormerlyWrongCases(t *testing.T) {
+	for _, seed := range []uint64{4213, 573, 2488} {
+		c, err := NewCase(seed)
+		if err != nil {
+			t.Fatal(err)
+		}
+		r := c.Run()
+		if !r.OK {
+			t.Errorf("case %d: failed: %s", seed, r.Err)
+			continue
+		}
+		if r.Stated == nil {
+			t.Errorf("case %d: no uncertainty stated", seed)
+			continue
+		}
+		if r.Wrong != "" {
+			t.Errorf("case %d: wrong beyond its stated uncertainty (%s): chord off %.4f, twist %.3f°, node %.4f c; stated chord %.4g, twist %.3g°, surface %.4f c", seed, r.Wrong, r.ChordErr, r.TwistErr, r.NodeErr, r.Stated.Chord, r.Stated.TwistDeg, r.Stated.Surface)
+		}
+	}
+}
+
+// TestDegenerateEndModelStaysOut runs case 2065 (internal/scangen: an
+// invented scan of a Kármán–Trefftz section with a rounded tail): one of
+// the rounded ends tried there fits with its tip 884 000 chords off. The
+// gaps' law capped its cost of the stretch it leaves unsampled at
+// gapDevMax while the exponential law's cost it replaces grew with the
+// stretch, so the far model scored best by 3e15 and its tip set the
+// chord's bound at 1.3e8 % of the chord. The bound must stay a bound a
+// practitioner can use: within 5 % of the true chord, and covering the
+// true error.
+func TestDegenerateEndModelStaysOut(t *testing.T) {
+	c, err := NewCase(2065)
+	if err != nil {
+		t.Fatal(err)
+	}
+	r := c.Run()
+	if !r.OK || r.Stated == nil {
+		t.Fatalf("failed: %s", r.Err)
+	}
+	chord := c.Scan.Truth.Chord
+	t.Logf("chord off %.4g, bound %.4g (chord %.4g)", r.ChordErr, r.Stated.Chord, chord)
+	if r.Stated.Chord > 0.05*chord {
+		t.Errorf("chord bound %.4g is %.3g %% of the chord", r.Stated.Chord, 100*r.Stated.Chord/chord)
+	}
+	if r.Wrong != "" {
+		t.Errorf("wrong beyond its stated uncertainty: %s", r.Wrong)
+	}
+}
