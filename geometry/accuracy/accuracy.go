@@ -314,22 +314,26 @@ func maxDistance(qs, poly []geometry.Point, ratio int) float64 {
 		lo, hi := max(0, c-distWindow), min(len(poly)-1, c+distWindow)
 		best := math.Inf(1)
 		for j := lo; j < hi; j++ {
-			a, b := poly[j], poly[j+1]
-			dx, dy := b.X-a.X, b.Y-a.Y
-			px, py := q.X-a.X, q.Y-a.Y
-			dd := dx*dx + dy*dy
-			t := 0.0
-			if dd > 0 {
-				// The built-in min and max are math.Min and math.Max
-				// (NaN, ±0 and infinities alike), inline.
-				t = max(0, min(1, (px*dx+py*dy)/dd))
-			}
-			ex, ey := px-t*dx, py-t*dy
-			best = min(best, ex*ex+ey*ey)
+			best = min(best, segDist2(q, poly[j], poly[j+1]))
 		}
 		worst2 = max(worst2, best)
 	}
 	return math.Sqrt(worst2)
+}
+
+// segDist2 returns the squared distance of q from the segment ab.
+func segDist2(q, a, b geometry.Point) float64 {
+	dx, dy := b.X-a.X, b.Y-a.Y
+	px, py := q.X-a.X, q.Y-a.Y
+	dd := dx*dx + dy*dy
+	t := 0.0
+	if dd > 0 {
+		// The built-in min and max are math.Min and math.Max (NaN, ±0
+		// and infinities alike), inline.
+		t = max(0, min(1, (px*dx+py*dy)/dd))
+	}
+	ex, ey := px-t*dx, py-t*dy
+	return ex*ex + ey*ey
 }
 
 // mirrorStep is the step, in points of the reference polyline, between
@@ -347,16 +351,7 @@ func mirrorDistance(poly []geometry.Point) float64 {
 		q := geometry.Point{X: poly[k].X, Y: -poly[k].Y}
 		best := math.Inf(1)
 		for j := 0; j+1 < len(poly); j++ {
-			a, b := poly[j], poly[j+1]
-			dx, dy := b.X-a.X, b.Y-a.Y
-			px, py := q.X-a.X, q.Y-a.Y
-			dd := dx*dx + dy*dy
-			t := 0.0
-			if dd > 0 {
-				t = max(0, min(1, (px*dx+py*dy)/dd))
-			}
-			ex, ey := px-t*dx, py-t*dy
-			best = min(best, ex*ex+ey*ey)
+			best = min(best, segDist2(q, poly[j], poly[j+1]))
 		}
 		worst2 = max(worst2, best)
 	}
