@@ -5,6 +5,7 @@ import (
 	"slices"
 	"sort"
 
+	"github.com/foilwright/foilwright/internal/numeric"
 	"github.com/foilwright/foilwright/internal/par"
 )
 
@@ -617,47 +618,15 @@ const (
 // Cholesky factorisation and returns x and a⁻¹; ok is false when a is not
 // positive definite.
 func solve4(a [4][4]float64, b [4]float64) (x [4]float64, inv [4][4]float64, ok bool) {
-	var l [4][4]float64
-	for j := range 4 {
-		d := a[j][j]
-		for k := range j {
-			d -= l[j][k] * l[j][k]
-		}
-		if !(d > 1e-14*a[j][j]) {
-			return x, inv, false
-		}
-		l[j][j] = math.Sqrt(d)
-		for i := j + 1; i < 4; i++ {
-			v := a[i][j]
-			for k := range j {
-				v -= l[i][k] * l[j][k]
-			}
-			l[i][j] = v / l[j][j]
-		}
+	c, ok := numeric.FactorSPD4(a)
+	if !ok {
+		return x, inv, false
 	}
-	sol := func(rhs [4]float64) [4]float64 {
-		var y, z [4]float64
-		for i := range 4 {
-			v := rhs[i]
-			for k := range i {
-				v -= l[i][k] * y[k]
-			}
-			y[i] = v / l[i][i]
-		}
-		for i := 3; i >= 0; i-- {
-			v := y[i]
-			for k := i + 1; k < 4; k++ {
-				v -= l[k][i] * z[k]
-			}
-			z[i] = v / l[i][i]
-		}
-		return z
-	}
-	x = sol(b)
+	x = c.Solve(b)
 	for j := range 4 {
 		var e [4]float64
 		e[j] = 1
-		col := sol(e)
+		col := c.Solve(e)
 		for i := range 4 {
 			inv[i][j] = col[i]
 		}

@@ -14,14 +14,31 @@ import "math"
 // it solves with no allocation, a hundred times faster than a general
 // factorisation of the design.
 func SolveSPD4(a [4][4]float64, b [4]float64) ([4]float64, bool) {
-	var l [4][4]float64
+	c, ok := FactorSPD4(a)
+	if !ok {
+		return [4]float64{}, false
+	}
+	return c.Solve(b), true
+}
+
+// Cholesky4 is the Cholesky factor L of a 4×4 symmetric positive definite
+// matrix a = L·Lᵀ, kept to solve several right-hand sides (the columns of
+// an inverse among them).
+type Cholesky4 struct {
+	l [4][4]float64
+}
+
+// FactorSPD4 factors a as SolveSPD4 does (only its lower triangle is
+// read); ok is false when a is not positive definite to working precision.
+func FactorSPD4(a [4][4]float64) (c Cholesky4, ok bool) {
+	l := &c.l
 	for j := range 4 {
 		d := a[j][j]
 		for k := range j {
 			d -= l[j][k] * l[j][k]
 		}
 		if !(d > spdPivot*a[j][j]) {
-			return [4]float64{}, false
+			return Cholesky4{}, false
 		}
 		l[j][j] = math.Sqrt(d)
 		for i := j + 1; i < 4; i++ {
@@ -32,7 +49,12 @@ func SolveSPD4(a [4][4]float64, b [4]float64) ([4]float64, bool) {
 			l[i][j] = s / l[j][j]
 		}
 	}
-	// L·y = b, then Lᵀ·x = y.
+	return c, true
+}
+
+// Solve returns x with L·Lᵀ·x = b: L·y = b, then Lᵀ·x = y.
+func (c *Cholesky4) Solve(b [4]float64) [4]float64 {
+	l := &c.l
 	var x [4]float64
 	for i := range 4 {
 		s := b[i]
@@ -48,7 +70,7 @@ func SolveSPD4(a [4][4]float64, b [4]float64) ([4]float64, bool) {
 		}
 		x[i] = s / l[i][i]
 	}
-	return x, true
+	return x
 }
 
 // spdPivot is the least share of a diagonal entry its Cholesky pivot keeps
