@@ -13,6 +13,33 @@ import (
 	"github.com/foilwright/foilwright/internal/testfoil"
 )
 
+// fitNormalize fits the contour c and normalises the curve, both with
+// their default options.
+func fitNormalize(t *testing.T, c *geometry.Contour) (*curve.Curve, *curve.FitReport, *frame.Normalized) {
+	t.Helper()
+	cv, rep, err := curve.Fit(c, curve.FitOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	nz, err := frame.Normalize(cv, frame.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return cv, rep, nz
+}
+
+// outside counts the true errors (chord, twist, leading edge, surface)
+// that lie beyond their bounds in u.
+func outside(u Uncertainty, chord, twist, le, surface float64) int {
+	n := 0
+	for _, miss := range []bool{chord > u.Chord, twist > u.TwistDeg, le > u.LE, surface > u.Surface} {
+		if miss {
+			n++
+		}
+	}
+	return n
+}
+
 // trueErrors returns the error of the normalised section nz against the
 // NACA section n placed by part: chord, twist (degrees), leading edge
 // (input units) and the largest distance of the normalised outline from
@@ -57,22 +84,11 @@ func TestEstimateCoversNoisyScan(t *testing.T) {
 	for seed := uint64(1); seed <= 6; seed++ {
 		part := testfoil.Part{Chord: 152.4, RotDeg: 7, Shift: geometry.Point{X: 37, Y: -12}, Noise: 0.02, Seed: seed}
 		c := testfoil.Contour(testfoil.Loop(n, 150), part)
-		cv, rep, err := curve.Fit(c, curve.FitOptions{})
-		if err != nil {
-			t.Fatal(err)
-		}
-		nz, err := frame.Normalize(cv, frame.Options{})
-		if err != nil {
-			t.Fatal(err)
-		}
+		cv, rep, nz := fitNormalize(t, c)
 		u := Estimate(cv, rep, nz, Options{})
 		ec, et, el, es := trueErrors(t, nz, n, part)
 		t.Logf("seed %d: chord %.4f ≤ %.4f mm, twist %.4f ≤ %.4f°, LE %.4f ≤ %.4f mm, surface %.5f ≤ %.5f c", seed, ec, u.Chord, et, u.TwistDeg, el, u.LE, es, u.Surface)
-		for _, miss := range []bool{ec > u.Chord, et > u.TwistDeg, el > u.LE, es > u.Surface} {
-			if miss {
-				misses++
-			}
-		}
+		misses += outside(u, ec, et, el, es)
 		if u.Chord > 0.005*152.4 || u.Surface > 0.003 {
 			t.Errorf("seed %d: bounds chord %.4f mm, surface %.5f c: not tight", seed, u.Chord, u.Surface)
 		}
@@ -147,14 +163,7 @@ func TestGapsNose(t *testing.T) {
 		loop = append(loop, dense[j].Add(dense[j+1].Sub(dense[j]).Scale(f)))
 	}
 	c := testfoil.Contour(loop, testfoil.Part{Chord: 100})
-	cv, rep, err := curve.Fit(c, curve.FitOptions{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	nz, err := frame.Normalize(cv, frame.Options{})
-	if err != nil {
-		t.Fatal(err)
-	}
+	cv, rep, nz := fitNormalize(t, c)
 	ws := Gaps(c, rep, cv, nz)
 	if len(ws) == 0 || !strings.Contains(ws[0], "nose is sampled too sparsely") || !strings.Contains(ws[0], "test.csv:21") || !strings.Contains(ws[0], "test.csv:22") {
 		t.Errorf("warnings %q, want the nose between test.csv:21 and test.csv:22 first", ws)
@@ -236,14 +245,7 @@ func TestEstimateSparseNoseTwist(t *testing.T) {
 		sparse bool
 	}{{xStations(n, 20), true}, {n.Loop(400), false}} {
 		c := testfoil.Contour(tc.loop, part)
-		cv, rep, err := curve.Fit(c, curve.FitOptions{})
-		if err != nil {
-			t.Fatal(err)
-		}
-		nz, err := frame.Normalize(cv, frame.Options{})
-		if err != nil {
-			t.Fatal(err)
-		}
+		cv, rep, nz := fitNormalize(t, c)
 		m := len(tc.loop)
 		_, _, sparse := noseStretch(rep, cv, nz)
 		if sparse != tc.sparse {
@@ -290,14 +292,7 @@ func TestEstimateNoseGapCovers(t *testing.T) {
 	for seed := uint64(1); seed <= 3; seed++ {
 		part := testfoil.Part{Chord: 200, RotDeg: -3, Shift: geometry.Point{X: 40, Y: 15}, Noise: 0.005, Seed: seed}
 		c := testfoil.Contour(loop, part)
-		cv, rep, err := curve.Fit(c, curve.FitOptions{})
-		if err != nil {
-			t.Fatal(err)
-		}
-		nz, err := frame.Normalize(cv, frame.Options{})
-		if err != nil {
-			t.Fatal(err)
-		}
+		cv, rep, nz := fitNormalize(t, c)
 		a, b, sparse := noseStretch(rep, cv, nz)
 		if !sparse {
 			t.Fatalf("seed %d: the nose's gap was not found", seed)
@@ -396,22 +391,11 @@ func TestEstimateCoversDrift(t *testing.T) {
 			nrm := geometry.Point{X: d.Y, Y: -d.X}.Scale(1 / math.Hypot(d.X, d.Y))
 			c.Points[i] = c.Points[i].Add(nrm.Scale(drift * z))
 		}
-		cv, rep, err := curve.Fit(c, curve.FitOptions{})
-		if err != nil {
-			t.Fatal(err)
-		}
-		nz, err := frame.Normalize(cv, frame.Options{})
-		if err != nil {
-			t.Fatal(err)
-		}
+		cv, rep, nz := fitNormalize(t, c)
 		u := Estimate(cv, rep, nz, Options{})
 		ec, et, el, es := trueErrors(t, nz, n, part)
 		t.Logf("seed %d: chord %.4f ≤ %.4f mm, twist %.4f ≤ %.4f°, LE %.4f ≤ %.4f mm, surface %.5f ≤ %.5f c", seed, ec, u.Chord, et, u.TwistDeg, el, u.LE, es, u.Surface)
-		for _, miss := range []bool{ec > u.Chord, et > u.TwistDeg, el > u.LE, es > u.Surface} {
-			if miss {
-				misses++
-			}
-		}
+		misses += outside(u, ec, et, el, es)
 		if u.Surface > 0.01 {
 			t.Errorf("seed %d: surface bound %.5f c: not a bound", seed, u.Surface)
 		}
