@@ -517,26 +517,8 @@ func TestNormalizeFiveDigitMirror(t *testing.T) {
 	for _, thick := range []float64{0.12, 0.18, 0.24} {
 		for _, flip := range []bool{false, true} {
 			rng := rand.New(rand.NewPCG(uint64(100*thick), 3))
-			c := &geometry.Contour{}
 			loop := shape.NACA5{L: 2, P: 3, Thickness: thick, SharpTE: true}.Loop(150)
-			if flip {
-				// Counter-clockwise from the trailing edge, as the cleaning
-				// gives it, once turned over.
-				slices.Reverse(loop)
-			}
-			for i, p := range loop {
-				if flip {
-					p.Y = -p.Y
-				}
-				q := p.Scale(300).Add(geometry.Point{X: rng.NormFloat64() * 0.01, Y: rng.NormFloat64() * 0.01})
-				c.Points = append(c.Points, q)
-				c.Origins = append(c.Origins, geometry.Origin{File: "root.csv", Line: i + 1})
-			}
-			cv, rep, err := curve.Fit(c, curve.FitOptions{Noise: 0.01})
-			if err != nil {
-				t.Fatal(err)
-			}
-			nz, err := Normalize(cv, Options{Support: rep.S, Noise: rep.NoiseEstimate})
+			nz, err := normalizeRootScan(t, loop, flip, rng)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -662,23 +644,7 @@ func TestNormalizeMirrorOpenThickNoseCamber(t *testing.T) {
 			if loop[0].Dist(loop[len(loop)-1]) < 1e-12 {
 				loop = loop[:len(loop)-1] // one corner point
 			}
-			if flip {
-				slices.Reverse(loop)
-			}
-			c := &geometry.Contour{}
-			for i, p := range loop {
-				if flip {
-					p.Y = -p.Y
-				}
-				q := p.Scale(300).Add(geometry.Point{X: rng.NormFloat64() * 0.01, Y: rng.NormFloat64() * 0.01})
-				c.Points = append(c.Points, q)
-				c.Origins = append(c.Origins, geometry.Origin{File: "root.csv", Line: i + 1})
-			}
-			cv, rep, err := curve.Fit(c, curve.FitOptions{Noise: 0.01})
-			if err != nil {
-				t.Fatal(err)
-			}
-			nz, err := Normalize(cv, Options{Support: rep.S, Noise: rep.NoiseEstimate})
+			nz, err := normalizeRootScan(t, loop, flip, rng)
 			if err != nil {
 				t.Fatalf("NACA %s, upside down %v: %v", tc.name, flip, err)
 			}
@@ -696,4 +662,30 @@ func TestNormalizeMirrorOpenThickNoseCamber(t *testing.T) {
 			}
 		}
 	}
+}
+
+// normalizeRootScan scans loop (a section in chord units) at a chord of
+// 300 with 0.01 of noise on each coordinate drawn from rng, turned upside
+// down when flip (and then counter-clockwise from the trailing edge, as the
+// cleaning gives it), fits it with that noise and normalises it.
+func normalizeRootScan(t *testing.T, loop []geometry.Point, flip bool, rng *rand.Rand) (*Normalized, error) {
+	t.Helper()
+	loop = slices.Clone(loop)
+	if flip {
+		slices.Reverse(loop)
+	}
+	c := &geometry.Contour{}
+	for i, p := range loop {
+		if flip {
+			p.Y = -p.Y
+		}
+		q := p.Scale(300).Add(geometry.Point{X: rng.NormFloat64() * 0.01, Y: rng.NormFloat64() * 0.01})
+		c.Points = append(c.Points, q)
+		c.Origins = append(c.Origins, geometry.Origin{File: "root.csv", Line: i + 1})
+	}
+	cv, rep, err := curve.Fit(c, curve.FitOptions{Noise: 0.01})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return Normalize(cv, Options{Support: rep.S, Noise: rep.NoiseEstimate})
 }
