@@ -172,6 +172,12 @@ func Estimate(cv *curve.Curve, rep *curve.FitReport, nz *frame.Normalized, opts 
 			u.Chord += 0.95*math.Min(h, 2*rep.NoiseEstimate) + cornerAlong(cv, rep)
 		}
 	}
+	// Surfaces of a thin sharp edge that cross ahead of its corner put
+	// the edge where they cross (frame.Normalized.Untangled), and so do
+	// the replicas that cross: they share the reading and do not see the
+	// other, the corner the fit made, where the part's edge may lie as
+	// well. The chord may be longer by the distance between the two.
+	u.Chord += nz.Untangled
 	// A nose sampled too sparsely (the one Gaps warns of) leaves the
 	// leading edge where the curve guesses it between the points round
 	// the bend; the true one lies somewhere on the part's nose between

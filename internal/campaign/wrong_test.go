@@ -104,3 +104,28 @@ func TestBluntEndStationsFromPoints(t *testing.T) {
 		}
 	}
 }
+
+// TestUntangledEdgeChordBound runs case 2235 (internal/scangen: an
+// invented two-pass probe file of a Kármán–Trefftz section whose surfaces
+// meet at 0.5°, nearly a cusp): the smoothed surfaces cross 0.026 c ahead of the
+// corner and the edge was put where they cross, as in every replica of
+// the fit, so the chord's bound (0.75 %) did not reach the corner and the
+// chord came out 2.7 % short. The bound must take in the corner.
+func TestUntangledEdgeChordBound(t *testing.T) {
+	c, err := NewCase(2235)
+	if err != nil {
+		t.Fatal(err)
+	}
+	r := c.Run()
+	if !r.OK || r.Stated == nil {
+		t.Fatalf("failed: %s", r.Err)
+	}
+	chord := c.Scan.Truth.Chord
+	t.Logf("chord off %.4g, bound %.4g of the chord", r.ChordErr, r.Stated.Chord/chord)
+	if r.Wrong != "" {
+		t.Errorf("wrong beyond its stated uncertainty (%s): chord off %.4f, stated ± %.4g of %.4g", r.Wrong, r.ChordErr, r.Stated.Chord, chord)
+	}
+	if b := r.Stated.Chord / chord; b > 0.05 {
+		t.Errorf("chord bound %.3g %% of the chord", 100*b)
+	}
+}
