@@ -694,7 +694,10 @@ func rebuildEnds(cv *Curve, e endRebuild) *Curve {
 type endRebuild struct {
 	sharp, base bool
 	h           float64
-	o, dir      geometry.Point
+	// reach is the spacing that may hide the part's end beyond the last
+	// points, for the accuracy estimate (endStretch, FitReport.EndGap).
+	reach  float64
+	o, dir geometry.Point
 	// nBase is the number of base points, spread their RMS distance along
 	// the base from o: how well they fix the line (Replica).
 	nBase  int
@@ -704,7 +707,7 @@ type endRebuild struct {
 // newEndRebuild returns how the ends of the open fit of c with ends are
 // rebuilt; pts are the points in fit order.
 func newEndRebuild(c *geometry.Contour, ends trailingEnds, sharp bool, pts []geometry.Point) endRebuild {
-	e := endRebuild{sharp: sharp, h: endSpacing(pts)}
+	e := endRebuild{sharp: sharp, h: endSpacing(pts), reach: endStretch(pts)}
 	if sharp || len(ends.base) < 2 {
 		return e
 	}
@@ -738,6 +741,35 @@ func endSpacing(pts []geometry.Point) float64 {
 		gaps = append(gaps, pts[i].Dist(pts[i-1]), pts[m-i].Dist(pts[m-i-1]))
 	}
 	return median(gaps)
+}
+
+// endStretch returns the length-biased mean of the endSpan spacings at
+// either end of pts (fit order),
+//
+//	Σ g² / Σ g,
+//
+// the expected length of the spacing a point of the outline, the part's
+// unseen end, falls into when the spacings come in random order (the
+// inspection paradox of renewal theory; see W. Feller, An Introduction to
+// Probability Theory and Its Applications, vol. 2, 2nd ed., Wiley, 1971,
+// section XI.4): the stretch the surfaces may run on beyond the last
+// points. Unlike the median (endSpacing) it is not set by points
+// measured twice a hair apart, which halve the spacings between the
+// stations that were measured but leave the distance to the next one
+// unchanged. It equals the spacing of evenly spaced points.
+func endStretch(pts []geometry.Point) float64 {
+	m := len(pts)
+	var s1, s2 float64
+	for i := 1; i <= min(endSpan, m-1); i++ {
+		for _, g := range []float64{pts[i].Dist(pts[i-1]), pts[m-i].Dist(pts[m-i-1])} {
+			s1 += g
+			s2 += g * g
+		}
+	}
+	if !(s1 > 0) {
+		return 0
+	}
+	return s2 / s1
 }
 
 // binNoisier is how many times the noise a bin should carry (the noise
