@@ -1,0 +1,71 @@
+package clean
+
+import "slices"
+
+// keyed is a point index with the key it is ordered by: a grid cell
+// (newGrid) or a place along a Morton curve (localise).
+type keyed struct {
+	k uint64
+	i int32
+}
+
+// keyedCmp orders by key, then by index.
+func keyedCmp(a, b keyed) int {
+	switch {
+	case a.k < b.k:
+		return -1
+	case a.k > b.k:
+		return 1
+	}
+	return int(a.i - b.i)
+}
+
+// radixFrom is the least number of entries sortKeyed sorts by digits:
+// below it the comparison sort is as quick.
+const radixFrom = 256
+
+// sortKeyed sorts kvs by key, ties by index, into the order
+// slices.SortFunc(kvs, keyedCmp) gives. The indices of kvs are distinct.
+// When they come in increasing order, as the grid and the Morton order
+// build them, a stable sort by the key alone keeps them increasing within
+// a key: it sorts least significant byte first, skipping the bytes that are
+// the same throughout (the high bytes of a cell's coordinates, on a
+// section smaller than 2²⁴ cells a side), in a few passes over the entries
+// where the comparison sort of a 10 000-point cloud made some 14.
+func sortKeyed(kvs []keyed) {
+	n := len(kvs)
+	if n < radixFrom || !slices.IsSortedFunc(kvs, func(a, b keyed) int { return int(a.i - b.i) }) {
+		slices.SortFunc(kvs, keyedCmp)
+		return
+	}
+	// The counts of every byte at once: a byte's counts do not depend on
+	// the order the passes leave the entries in.
+	var count [8][256]int
+	for _, e := range kvs {
+		k := e.k
+		for d := range 8 {
+			count[d][byte(k>>(8*d))]++
+		}
+	}
+	src, dst := kvs, make([]keyed, n)
+	for d := range 8 {
+		c := &count[d]
+		if c[byte(src[0].k>>(8*d))] == n {
+			continue // one value throughout: the pass would change nothing
+		}
+		at := 0
+		for b, m := range c {
+			c[b] = at
+			at += m
+		}
+		for _, e := range src {
+			b := byte(e.k >> (8 * d))
+			dst[c[b]] = e
+			c[b]++
+		}
+		src, dst = dst, src
+	}
+	if &src[0] != &kvs[0] {
+		copy(kvs, src)
+	}
+}
