@@ -1100,17 +1100,28 @@ func passes(fp fitPoints, open, freeEnds bool, opts FitOptions, st *smoothState,
 			s[i] = nts[i] - nts[0]
 		}
 		st.T = featureScales(cv0, s, open)
-		var a []float64
-		a, mean = arcWeights(nts, st.T, !open, nperiod, featurePower, spacingPower)
-		w = make([]float64, m)
-		for i := range w {
-			w[i] = ws[i] * a[i]
-		}
-		prob = splineNewProblem(nts, w, !open, nperiod)
+		// The weights and the problem they make, and the local noise,
+		// read the same positions and feature scales and nothing of each
+		// other: the weights are made on a second core while the noise is
+		// measured (a panic there is raised again here).
+		var failed any
+		weigh := par.Start(func() {
+			defer func() { failed = recover() }()
+			a, mn := arcWeights(nts, st.T, !open, nperiod, featurePower, spacingPower)
+			wt := make([]float64, m)
+			for i := range wt {
+				wt[i] = ws[i] * a[i]
+			}
+			w, mean, prob = wt, mn, splineNewProblem(nts, wt, !open, nperiod)
+		})
 		if !open {
 			lp = nperiod
 		}
 		noise, tau, tauLong, _, profile = localNoise(xs, ys, s, st.T, c, lp)
+		weigh.Wait()
+		if failed != nil {
+			panic(failed)
+		}
 		// The noise given is per point, and a bin of count points is
 		// taken to average it down by √count. The bins of a band are
 		// runs of points in the order of their feet on a curve drawn
