@@ -924,8 +924,9 @@ func minimise(crit func(float64) float64, lo, hi, hint, hintSpan float64) float6
 // minimiseLog scans crit on a grid over [lo, hi] and refines the best
 // sample by golden-section search. atEdge reports that the weakest
 // smoothing tried was best. The grid's samples are independent and are
-// taken on two cores: crit must be safe to call from two goroutines at
-// once (a spline problem's fits are).
+// taken on two cores, and the search looks a step ahead on the second
+// (goldenAhead): crit must be safe to call from two goroutines at once (a
+// spline problem's fits are).
 func minimiseLog(crit func(float64) float64, lo, hi, hint, hintSpan float64) (ll float64, atEdge bool) {
 	grid := 20
 	if hint > 0 {
@@ -943,7 +944,7 @@ func minimiseLog(crit func(float64) float64, lo, hi, hint, hintSpan float64) (ll
 	}
 	a := lo + (hi-lo)*float64(max(best-1, 0))/float64(grid)
 	b := lo + (hi-lo)*float64(min(best+1, grid))/float64(grid)
-	return numeric.Golden(crit, a, b, 14), best == 0
+	return goldenAhead(crit, a, b, 14), best == 0
 }
 
 // normalRMS returns the RMS of the residuals projected on the curve
