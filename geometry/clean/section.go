@@ -134,7 +134,7 @@ func weightOf(ws []float64, i int) float64 {
 // weights, the positions len/10 and len−1−len/10 for q = 0.1 (n·q rounded
 // down points trimmed each end). Weights that sum to nothing count alike.
 func trimmed(vs []weighted, q float64) (a, b int) {
-	slices.SortStableFunc(vs, func(x, y weighted) int { return cmp.Compare(x.v, y.v) })
+	stableSort(vs, func(x, y weighted) int { return cmp.Compare(x.v, y.v) })
 	n := len(vs)
 	var tot float64
 	for _, v := range vs {
@@ -729,7 +729,7 @@ func sectionOrder(pts []geometry.Point, sel []int32, f chordFrame, ws []float64)
 	for k := range order {
 		order[k] = k
 	}
-	slices.SortStableFunc(order, func(a, b int) int {
+	byPlace := func(a, b int) int {
 		switch {
 		case us[a] < us[b]:
 			return -1
@@ -737,7 +737,13 @@ func sectionOrder(pts []geometry.Point, sel []int32, f chordFrame, ws []float64)
 			return 1
 		}
 		return 0
-	})
+	}
+	if slices.ContainsFunc(us, math.IsNaN) {
+		// No strict weak order: keep the sort whose order it always was.
+		slices.SortStableFunc(order, byPlace)
+	} else {
+		stableSort(order, byPlace)
+	}
 	out := make([]int32, n)
 	for k, o := range order {
 		out[k] = sel[o]
@@ -762,7 +768,7 @@ func surfaceWeights(xs []float64, upper []bool) []float64 {
 				idx = append(idx, k)
 			}
 		}
-		slices.SortStableFunc(idx, func(a, b int) int { return cmp.Compare(xs[a], xs[b]) })
+		stableSort(idx, func(a, b int) int { return cmp.Compare(xs[a], xs[b]) })
 		for j, k := range idx {
 			lo, hi := xs[k], xs[k]
 			if j > 0 {

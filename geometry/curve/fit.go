@@ -956,8 +956,9 @@ func minimise(crit func(float64) float64, lo, hi, hint, hintSpan float64) float6
 // minimiseLog scans crit on a grid over [lo, hi] and refines the best
 // sample by golden-section search. atEdge reports that the weakest
 // smoothing tried was best. The grid's samples are independent and are
-// taken on two cores: crit must be safe to call from two goroutines at
-// once (a spline problem's fits are).
+// taken on two cores, and the search looks a step ahead on the second
+// (goldenAhead): crit must be safe to call from two goroutines at once (a
+// spline problem's fits are).
 func minimiseLog(crit func(float64) float64, lo, hi, hint, hintSpan float64) (ll float64, atEdge bool) {
 	grid := 20
 	if hint > 0 {
@@ -975,7 +976,7 @@ func minimiseLog(crit func(float64) float64, lo, hi, hint, hintSpan float64) (ll
 	}
 	a := lo + (hi-lo)*float64(max(best-1, 0))/float64(grid)
 	b := lo + (hi-lo)*float64(min(best+1, grid))/float64(grid)
-	return numeric.Golden(crit, a, b, 14), best == 0
+	return goldenAhead(crit, a, b, 14), best == 0
 }
 
 // normalRMS returns the RMS of the residuals projected on the curve
@@ -1132,17 +1133,28 @@ func passes(fp fitPoints, open, freeEnds bool, opts FitOptions, st *smoothState,
 			s[i] = nts[i] - nts[0]
 		}
 		st.T = featureScales(cv0, s, open)
-		var a []float64
-		a, mean = arcWeights(nts, st.T, !open, nperiod, featurePower, spacingPower)
-		w = make([]float64, m)
-		for i := range w {
-			w[i] = ws[i] * a[i]
-		}
-		prob = splineNewProblem(nts, w, !open, nperiod)
+		// The weights and the problem they make, and the local noise,
+		// read the same positions and feature scales and nothing of each
+		// other: the weights are made on a second core while the noise is
+		// measured (a panic there is raised again here).
+		var failed any
+		weigh := par.Start(func() {
+			defer func() { failed = recover() }()
+			a, mn := arcWeights(nts, st.T, !open, nperiod, featurePower, spacingPower)
+			wt := make([]float64, m)
+			for i := range wt {
+				wt[i] = ws[i] * a[i]
+			}
+			w, mean, prob = wt, mn, splineNewProblem(nts, wt, !open, nperiod)
+		})
 		if !open {
 			lp = nperiod
 		}
 		noise, tau, tauLong, _, profile = localNoise(xs, ys, s, st.T, c, lp)
+		weigh.Wait()
+		if failed != nil {
+			panic(failed)
+		}
 		// The noise given is per point, and a bin of count points is
 		// taken to average it down by √count. The bins of a band are
 		// runs of points in the order of their feet on a curve drawn
