@@ -290,7 +290,23 @@ def main():
     ap.add_argument("--records", help="write every record as a JSON line to this file")
     ap.add_argument("--worst", type=int, default=12, help="how many worst cases to list")
     ap.add_argument("--selftest", action="store_true", help="check the generator's formulas and conventions, run nothing")
+    ap.add_argument("--table", metavar="RECORDS", help="print the table of a --records file (of a run in progress too), run nothing")
     args = ap.parse_args()
+    if args.table:
+        recs, specs = [], {}
+        with open(args.table) as f:
+            for line in f:
+                try:
+                    d = json.loads(line)
+                except ValueError:
+                    break  # a line being written
+                recs.append(d["record"])
+                specs[(d["record"]["mode"], d["record"]["seed"])] = d["spec"]
+        args.mode = recs[0]["mode"] if recs else args.mode
+        args.cls = args.cls or ("all" if recs and recs[0].get("cls") else "")
+        args.seeds = "%s (%d records)" % (args.table, len(recs))
+        table(args, recs, specs, recs[0]["prep"] if recs else "")
+        return
     if args.selftest:
         bad = naca.selftest() + shapes.selftest() + hidden.selftest() + conventions_selftest()
         for b in bad:
