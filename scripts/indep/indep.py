@@ -259,8 +259,8 @@ def classes(recs, specs):
     groups = {}
     for r in recs:
         groups.setdefault(specs[(r["mode"], r["seed"])]["class"]["class"], []).append(r)
-    print("| class | cases | succeeds | wrong beyond bound | covered chord / twist / LE / surface | TE kind right | exit 2 |")
-    print("| --- | --- | --- | --- | --- | --- | --- |")
+    print("| class | cases | succeeds | wrong beyond bound | covered chord / twist / LE / surface | TE kind right | exit 2 | outliers caught | good dropped p95 |")
+    print("| --- | --- | --- | --- | --- | --- | --- | --- | --- |")
     for name in hidden.CLASSES:
         g = groups.get(name)
         if not g:
@@ -270,9 +270,11 @@ def classes(recs, specs):
         st = [r for r in ok if r["stated"] is not None]
         cov = " / ".join("%.1f" % (100.0 * sum(r["covered"][i] for r in st) / len(st)) if st else "-" for i in range(4))
         dec = [r for r in ok if r["te_decidable"]]
-        print("| %s | %d | %.1f %% | %d | %s %% | %s | %d |" % (
+        dr = [100.0 * r["good_dropped"] / r["good"] for r in ok if r["good"]]
+        print("| %s | %d | %.1f %% | %d | %s %% | %s | %d | %s | %.2f %% |" % (
             name, len(g), 100.0 * len(ok) / len(g), len(wr), cov,
-            pct(sum(r["te_right"] for r in dec), len(dec)), sum(1 for r in g if r["rc"] == 2)))
+            pct(sum(r["te_right"] for r in dec), len(dec)), sum(1 for r in g if r["rc"] == 2),
+            pct(sum(r["caught"] for r in ok), sum(r["planted"] for r in ok)), q(dr, 95)))
     print()
 
 
