@@ -35,6 +35,9 @@ the shape, the sampling, the placement or the file's text:
               line between passes, trailing blank lines
     z3d       x, y, z with the section at one station (z 100-2000 mm) and
               small z scatter (0.002-0.05 mm), the plane tilted < 0.5 deg
+    numbered  a probe program's export: every line numbered (1, 2, 3, ... or
+              from 0, no header) or labelled ("PNT17"), separated by commas,
+              semicolons with decimal commas, tabs or blanks
 
 Sources: the shapes' equations are named in naca.py and shapes.py; the
 hazards' magnitudes are common practice (a CMM ball of 1-6 mm diameter,
@@ -48,7 +51,7 @@ import naca
 import outline as ol
 import shapes
 
-CLASSES = ["thick", "thin", "camber", "reflex", "kt", "ball", "graze", "nose", "clamp", "far", "inch", "text", "z3d"]
+CLASSES = ["thick", "thin", "camber", "reflex", "kt", "ball", "graze", "nose", "clamp", "far", "inch", "text", "z3d", "numbered"]
 
 
 def pick(seed, name):
@@ -216,6 +219,8 @@ class Hazard:
     def text(self, header, rows, sep):
         """Returns (lines, line numbers of the rows, file options)."""
         opts = {"encoding": "utf-8", "newline": "\n", "bom": False, "trailing": 0}
+        if self.name == "numbered":
+            return self._numbered(rows, sep, opts)
         if self.name != "text":
             return header + rows, list(range(len(header) + 1, len(header) + len(rows) + 1)), opts
         r = self.rng
@@ -238,6 +243,22 @@ class Hazard:
         lines += [""] * opts["trailing"]
         opts["title_lines"] = len(title)
         return lines, nums, opts
+
+    def _numbered(self, rows, sep, opts):
+        r = self.rng
+        label = bool(r.random() < 0.5)
+        start = int(r.integers(0, 2))
+        out_sep = ["," , ";", "\t", " "][int(r.choice(4, p=[0.5, 0.2, 0.15, 0.15]))]
+        prefix = ["PNT", "P", "Pt_", "point"][int(r.integers(0, 4))]
+        lines = []
+        for j, row in enumerate(rows):
+            fields = row.split(sep)
+            if out_sep == ";":
+                fields = [f.replace(".", ",") for f in fields]
+            tag = ("%s%d" % (prefix, j + 1)) if label else str(j + start)
+            lines.append(out_sep.join([tag] + fields))
+        self.spec.update(label=label, sep={",": "comma", ";": "semicolon", "\t": "tab", " ": "blank"}[out_sep])
+        return lines, list(range(1, len(lines) + 1)), opts
 
     def write(self, path, lines, opts):
         text = opts["newline"].join(lines) + opts["newline"]
