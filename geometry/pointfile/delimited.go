@@ -285,7 +285,7 @@ type delimitedReader struct {
 	guessed  bool     // no header named the columns and the lines hold more numbers than were read
 	started  bool     // a data line has been read
 	counted  bool     // a point-count line has been seen
-	run      int      // numbers in a row from the first coordinate on the first data line
+	run      int      // numbers in a row (up to 4) from the first coordinate on the first data line
 
 	header     []string // the last text line before the data, split
 	headerLine int
@@ -537,7 +537,7 @@ func (d *delimitedReader) resolve(fields []string, no int, t string) (bool, erro
 		}
 	}
 	k := 0
-	for first+k < len(fields) {
+	for first+k < len(fields) && k < 4 { // a fourth tells x, y, z after point numbers
 		if _, num := parseNumber(fields[first+k], d.decComma); !num {
 			break
 		}
