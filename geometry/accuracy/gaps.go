@@ -255,7 +255,8 @@ func stretchPoints(rep *curve.FitReport, cv *curve.Curve, a, b float64) ([]float
 // moves the lines). ok is false where the points turn the other way
 // somewhere over the stretch and its neighbours, or two lines do not cross
 // ahead of the points (a gap turning half a turn): the region is then
-// not bounded by the points.
+// not bounded by the points; and where a point outside the stretch lies
+// ahead of all of it.
 func noseRegionFar(rep *curve.FitReport, cv *curve.Curve, fr frame.Frame, le geometry.Point, a, b float64) (far float64, ok bool) {
 	ts, ok := stretchPoints(rep, cv, a, b)
 	if !ok || !(fr.Chord > 0) {
@@ -288,6 +289,7 @@ func noseRegionFar(rep *curve.FitReport, cv *curve.Curve, fr frame.Frame, le geo
 		x0 = math.Min(x0, at(t).X)
 	}
 	o := fr.ToChord(le)
+	found := false
 	for k := 1; k+2 < len(ps); k++ {
 		p1, p2 := ps[k], ps[k+1]
 		d1, d2 := p1.Sub(ps[k-1]), p2.Sub(ps[k+2])
@@ -298,14 +300,19 @@ func noseRegionFar(rep *curve.FitReport, cv *curve.Curve, fr frame.Frame, le geo
 		// p1 + s·d1 = p2 + t·d2 with s, t > 0: the lines cross ahead of
 		// both points.
 		w := p2.Sub(p1)
-		if s, t := w.Cross(d2)/det, w.Cross(d1)/det; !(s > 0) || !(t > 0) {
+		s, t := w.Cross(d2)/det, w.Cross(d1)/det
+		if !(s > 0) || !(t > 0) {
 			return 0, false
-		} else {
-			q := p1.Add(d1.Scale(s))
-			for _, r := range clipAft([]geometry.Point{p1, q, p2}, x0) {
-				far = math.Max(far, r.Dist(o))
-			}
 		}
+		q := p1.Add(d1.Scale(s))
+		for _, r := range clipAft([]geometry.Point{p1, q, p2}, x0) {
+			far, found = math.Max(far, r.Dist(o)), true
+		}
+	}
+	if !found {
+		// A point outside the stretch lies foremost: the leading edge is
+		// not in the stretch's gaps, and they do not bound it.
+		return 0, false
 	}
 	return far*fr.Chord + noiseMargin*rep.NoiseEstimate, true
 }
