@@ -128,12 +128,7 @@ func Estimate(cv *curve.Curve, rep *curve.FitReport, nz *frame.Normalized, opts 
 		Chord:    f.chord * math.Max(rn.chord, rh.chord),
 		TwistDeg: f.twistDeg * max(rn.twistDeg, rh.twistDeg, rn.twistFar, rh.twistFar),
 		LE:       f.le * max(rn.le, rh.le, rn.leFar, rh.leFar),
-		// The surface's figure is the largest distance round the
-		// outline, and the half fits' is where their own spacing, twice
-		// the points', leaves the most: their error there, not the
-		// section's. It takes the factor calibrated where the half fits
-		// alone speak (exact data); the noise's share is the replicas'.
-		Surface: math.Max(f.surface*rn.surface, factorsExact.surface*rh.surface),
+		Surface:  f.surface * math.Max(rn.surface, rh.surface),
 	}
 	// The two readings of this fit's own leading edge, the form of the
 	// nose's and the curve's farthest point, differ by what the form

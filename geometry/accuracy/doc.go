@@ -14,10 +14,7 @@
 // is all there is for exact data, and a second look at the noise that
 // uses the real residuals. Each figure is the larger of the two, times a
 // coverage factor set so that the bounds cover the true error in 95 % of
-// the robustness campaign's cases (internal/campaign); the surface's
-// takes the half fits at the factor of exact data, where they alone
-// speak, as the largest distance round the outline they show is their
-// own at twice the spacing.
+// the robustness campaign's cases (internal/campaign).
 //
 // Gaps in the sampling that the section cannot bridge (the nose sampled
 // by one point) are reported with their size and the points either side
