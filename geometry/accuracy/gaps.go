@@ -251,8 +251,9 @@ func stretchPoints(rep *curve.FitReport, cv *curve.Curve, a, b float64) ([]float
 // triangle a gap; the part's leading edge, the point farthest forward
 // along the chord line, lies in their union, and no further aft than the
 // foremost point measured. The answer is the largest distance from le to
-// that region, plus noiseMargin times the noise (the points' own scatter
-// moves the lines). ok is false where the points turn the other way
+// that region, plus noiseMargin times the noise or the largest residual
+// of the points that place the lines, if larger (their scatter moves the
+// lines). ok is false where the points turn the other way
 // somewhere over the stretch and its neighbours, or two lines do not cross
 // ahead of the points (a gap turning half a turn): the region is then
 // not bounded by the points; and where a point outside the stretch lies
@@ -314,7 +315,21 @@ func noseRegionFar(rep *curve.FitReport, cv *curve.Curve, fr frame.Frame, le geo
 		// not in the stretch's gaps, and they do not bound it.
 		return 0, false
 	}
-	return far*fr.Chord + noiseMargin*rep.NoiseEstimate, true
+	// The lines run through the points' feet on the curve; a point that
+	// lies off it by more than the noise (an outlier kept, listed, at the
+	// gap's end) may pull the curve and the lines by its residual.
+	margin := noiseMargin * rep.NoiseEstimate
+	if len(rep.Residual) == len(rep.S) {
+		lo, hi := ts[0], ts[len(ts)-1]
+		for i, t := range rep.S {
+			for _, u := range []float64{t - L, t, t + L} {
+				if u >= lo-1e-9*L && u <= hi+1e-9*L {
+					margin = math.Max(margin, math.Abs(rep.Residual[i]))
+				}
+			}
+		}
+	}
+	return far*fr.Chord + margin, true
 }
 
 // clipAft returns the polygon poly cut to its part with x ≤ x0 (one
