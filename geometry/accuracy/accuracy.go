@@ -182,9 +182,12 @@ func Estimate(cv *curve.Curve, rep *curve.FitReport, nz *frame.Normalized, opts 
 	// leading edge where the curve guesses it between the points round
 	// the bend; the true one lies somewhere on the part's nose between
 	// the same points, and the replicas and half fits keep the guess's
-	// shape, so they do not see how far. The points ending the stretch
-	// the guess bridges bound it: the leading edge may be off by up to
-	// its distance from the farther of them. The chord, from the leading
+	// shape, so they do not see how far. A convex nose through the points
+	// bounds it (noseRegionFar): the leading edge may be off by up to its
+	// distance from the farthest place the part's leading edge may take
+	// there; where the points do not bound that place (they turn the
+	// other way, or a gap turns half a turn), by up to its distance from
+	// the farther of the points ending the stretch. The chord, from the leading
 	// edge to the trailing edge, changes by no more than the two ends
 	// move (the triangle inequality), so the chord's bound gains that
 	// distance; the twist is at least the leading edge's bound seen from
@@ -201,6 +204,9 @@ func Estimate(cv *curve.Curve, rep *curve.FitReport, nz *frame.Normalized, opts 
 		}
 		le := geometry.Point{X: nz.Frame.LE[0], Y: nz.Frame.LE[1]}
 		far := math.Max(le.Dist(at(a)), le.Dist(at(b)))
+		if r, ok := noseRegionFar(rep, cv, nz.Frame, le, a, b); ok {
+			far = r
+		}
 		u.LE = math.Max(u.LE, far)
 		u.Chord += far
 		u.TwistDeg = math.Max(u.TwistDeg, math.Atan(u.LE/nz.Frame.Chord)*180/math.Pi)
