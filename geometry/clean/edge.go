@@ -947,17 +947,16 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 	}
 	if b := models[bk]; b.kind == EdgeBlunt && endPts[bk] == 0 && !b.cornersSampled(z, max(2*scat, snapTol(scat, step))) {
 		// A base no point lies on, nor both of whose corners a point
-		// sampled within the scatter (a drawing's stations), is no sample
-		// of a base: it is seen only in where the surfaces' last points
-		// stop. Where a sharp corner beyond them explains the points as
-		// well (its misfits within edgePlausible of the base's) and
-		// leaves a gap round the end that the spacing of the points
-		// allows (gapModel.plausibleEnd), the points show nothing the
-		// corner does not, and the simpler end is stated, however far
-		// beyond the last points the corner lies; the base stays among
-		// the rivals for the bounds.
+		// sampled (a drawing's stations), is no sample of a base: it is
+		// seen only in where the surfaces' last points stop. Where a
+		// sharp corner within reach of them explains the points as well
+		// (its misfits within edgePlausible of the base's) and leaves
+		// unsampled stretches either side of the end that the spacing of
+		// each surface allows (gapModel.plausibleEnd), the points show
+		// nothing the corner does not, and the simpler end is stated; the
+		// base stays among the rivals for the bounds.
 		mb := b.misfit(u, l, z, scat, edgeOutlier, out, zs)
-		for _, m := range append(slices.Clone(models), alts...) {
+		for _, m := range models {
 			if m.kind == EdgeSharp && m.misfit(u, l, z, scat, edgeOutlier, out, zs) <= mb+edgePlausible && fits.gaps.plausibleEnd(&m, u, l, z, out, xa, pstep) {
 				return chooseSpread(fits, models, alts, eligible, m, z, out, xa, step, pstep, scat)
 			}
@@ -1430,42 +1429,47 @@ func (m *endModel) cornersSampled(z []geometry.Point, d float64) bool {
 // to hold it (a one-sided 95 % test, common practice).
 const endGapLevel = 0.05
 
-// plausibleEnd reports whether the gap the zone points z (outliers out
-// left out) leave round the end of the model m, from the last point of
-// the upper surface along the outline to the last of the lower one, is
-// one the spacing allows. The gaps are taken log-normal with the σ of
-// their logs (the irregular spacing of hand-probed and scanned points:
-// fast over flat parts, slow at the nose, gaps where a beam grazed) and
-// mean h, the larger of the two surfaces' (a surface probed more
-// coarsely than the other sets how long a gap round the end may be);
-// the gap that holds a given spot is drawn in proportion to its length,
-// which for log-normal gaps is log-normal with the same σ and its log's
-// mean raised by σ² (common practice for length-biased sampling). The
-// gap seen is plausible when a longer one has a chance of at least
-// endGapLevel. Without a model of the spacing (too few gaps), the mean
+// plausibleEnd reports whether the stretches the zone points z
+// (outliers out left out) leave unsampled either side of the end of the
+// model m, from the end along the outline to the last point of each
+// surface, are ones the spacing allows. The gaps of each surface are
+// taken log-normal with the σ of their logs (the irregular spacing of
+// hand-probed and scanned points: fast over flat parts, slow at the
+// nose, gaps where a beam grazed) and that surface's own mean h (a
+// surface probed more finely than the other, as a second pass may,
+// leaves a shorter stretch). From a given spot (the end), the distance d
+// to the next point of such gaps exceeds d with the chance
+//
+//	(1/h) ∫_d^∞ P(G > x) dx = Φ(d₁) − (d/h) Φ(d₁ − σ),  d₁ = (ln(h/d) + σ²/2)/σ
+//
+// (the forward recurrence of a renewal process, common practice, with
+// the partial mean of the log-normal law). The end is plausible when
+// that chance is at least endGapLevel on each surface. Without a model of the spacing (too few gaps), the mean
 // step and the least σ the model takes stand in.
 func (gm gapModel) plausibleEnd(m *endModel, u, l quadFit, z []geometry.Point, out []bool, xa, step float64) bool {
 	// σ at most that of gaps as irregular as a Poisson process's (a
 	// coefficient of variation of 1: e^{σ²} − 1 = 1), as gapModel's k is
 	// held to at least 1: points measured twice or two passes interleaved
 	// leave gaps near zero whose logs would call any gap plausible.
-	sigma, h := min(gm.sigma, math.Sqrt(math.Ln2)), max(gm.h[0], gm.h[1])
-	if !(sigma > 0) || !(h > 0) {
-		sigma, h = gapSigmaMin, step
+	sigma, hs := min(gm.sigma, math.Sqrt(math.Ln2)), gm.h
+	if !(sigma > 0) || !(hs[0] > 0) || !(hs[1] > 0) {
+		sigma, hs = gapSigmaMin, [2]float64{step, step}
 	}
-	if !(h > 0) {
+	if !(hs[0] > 0) || !(hs[1] > 0) {
 		return false
 	}
-	d := endStretches(m, u, l, z, out, xa)
-	g := d[0] + d[1]
-	if !(g > 0) {
-		return true
+	phi := func(x float64) float64 { return 0.5 * math.Erfc(-x/math.Sqrt2) }
+	p := 1.0
+	for side, d := range endStretches(m, u, l, z, out, xa) {
+		if !(d > 0) {
+			continue
+		}
+		h := hs[side]
+		d1 := (math.Log(h/d) + sigma*sigma/2) / sigma
+		p = min(p, max(0, phi(d1)-d/h*phi(d1-sigma)))
 	}
-	// ln g against the length-biased law: mean ln h − σ²/2 + σ².
-	zs := (math.Log(g/h) - sigma*sigma/2) / sigma
-	p := 0.5 * math.Erfc(zs/math.Sqrt2)
 	if edgeTrace != nil {
-		edgeTrace("plausible end %s: gap %.4g h %.4g sigma %.3g p %.3g", m.kind, g, h, sigma, p)
+		edgeTrace("plausible end %s: h %.4g %.4g sigma %.3g p %.3g", m.kind, hs[0], hs[1], sigma, p)
 	}
 	return p >= endGapLevel
 }
