@@ -301,12 +301,25 @@ func camber(xs, ys, ws []float64) camberLine {
 	for round := range 4 {
 		for i := range bx {
 			var sw, sx, sy, sxx, sxy float64
-			for j := max(0, i-half); j <= min(len(bx)-1, i+half); j++ {
-				sw += w[j]
-				sx += w[j] * bx[j]
-				sy += w[j] * by[j]
-				sxx += w[j] * bx[j] * bx[j]
-				sxy += w[j] * bx[j] * by[j]
+			// A window whose bins all lost their weight (a one-sided
+			// stretch of two or three bins pulls the first round's line
+			// off its good neighbours too, and the biweight then sets
+			// them all aside) widens until it holds bins that kept
+			// theirs: the line there is theirs, never the set-aside
+			// middle of the one-sided bin itself (campaign seed 1620: a
+			// missing stretch on the upper surface at 30 % and 82 % of
+			// the chord left bins of the lower surface alone, whose
+			// middles, 0.05 c and 0.02 c below the camber line, were
+			// kept as the line and sided half the lower points upper).
+			for h := half; sw == 0 && (h == half || i-h >= 0 || i+h < len(bx)); h++ {
+				sw, sx, sy, sxx, sxy = 0, 0, 0, 0, 0
+				for j := max(0, i-h); j <= min(len(bx)-1, i+h); j++ {
+					sw += w[j]
+					sx += w[j] * bx[j]
+					sy += w[j] * by[j]
+					sxx += w[j] * bx[j] * bx[j]
+					sxy += w[j] * bx[j] * by[j]
+				}
 			}
 			if sw == 0 {
 				fit[i] = by[i]
@@ -566,6 +579,24 @@ func oneSurfaceAft(xs, ys []float64, near []int, upper []bool) bool {
 	}
 	if below+above < 2 || below > 0 && above > 0 || 3*(below+above) > len(near) {
 		return false // no other surface apart, or not one surface's few points
+	}
+	// The other surface must lie clear of the fine one's scatter: a
+	// normal scatter leaves no point between 4 and 10 of its scales
+	// (odds 6e-5 a point), so more than a few there are a surface the
+	// cut splits, not noise. A coarse surface of tens of points near
+	// the tail pulls the one parabola and widens its scale until its
+	// nearer points fall inside the cut (campaign seed 1941: 41 upper
+	// points against 110 lower, 0.034 c apart at 87 % of the chord,
+	// the scale 0.0035 c; 37 of them were sided lower). The fits of
+	// both surfaces (tailSides) tell those apart.
+	between := 0
+	for _, r := range abs {
+		if r > 4*s && r <= oneSurfaceCut*s {
+			between++
+		}
+	}
+	if between > max(2, len(near)/20) {
+		return false
 	}
 	// The fit must follow one surface, not run between two: then the
 	// residuals of the points on it crowd about zero (a normal scatter
