@@ -229,8 +229,7 @@ type camberLine struct {
 	x, y []float64
 }
 
-// at returns the camber at x (constant beyond the first and last entries:
-// 0 for a line from camber, which runs from (0, 0) to (1, 0)).
+// at returns the camber at x (constant beyond the first and last bins).
 func (c camberLine) at(x float64) float64 {
 	n := len(c.x)
 	switch {
@@ -354,19 +353,7 @@ func camber(xs, ys, ws []float64) camberLine {
 			}
 		}
 	}
-	// The chord frame puts the leading edge at (0, 0) and the trailing
-	// edge at (1, 0), where the camber line ends: beyond the first and
-	// last bins that count, the line runs there, not on at the bins'
-	// height. Where few points make wide bins (a polyline of 30 stations
-	// a surface: bins of 0.125 c), the surfaces of a thin, sloping tail
-	// overlap in y within a bin and the last bins do not count; held at
-	// the height of the last that does (0.037 c at 69 % of the chord of
-	// a NACA 6206) the line passed above the upper surface from 80 % of
-	// the chord on, and likewise above the upper surface of the nose
-	// (0.058 c from the bin at 19 %), siding all those points lower.
-	xs0 := append(append([]float64{0}, bx...), 1)
-	ys0 := append(append([]float64{0}, fit...), 0)
-	return camberLine{x: xs0, y: ys0}
+	return camberLine{x: bx, y: fit}
 }
 
 // quadFit is y = c0 + c1·x + c2·x² fitted by least squares.
