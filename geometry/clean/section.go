@@ -301,25 +301,12 @@ func camber(xs, ys, ws []float64) camberLine {
 	for round := range 4 {
 		for i := range bx {
 			var sw, sx, sy, sxx, sxy float64
-			// A window whose bins all lost their weight (a one-sided
-			// stretch of two or three bins pulls the first round's line
-			// off its good neighbours too, and the biweight then sets
-			// them all aside) widens until it holds bins that kept
-			// theirs: the line there is theirs, never the set-aside
-			// middle of the one-sided bin itself (campaign seed 1620: a
-			// missing stretch on the upper surface at 30 % and 82 % of
-			// the chord left bins of the lower surface alone, whose
-			// middles, 0.05 c and 0.02 c below the camber line, were
-			// kept as the line and sided half the lower points upper).
-			for h := half; sw == 0 && (h == half || i-h >= 0 || i+h < len(bx)); h++ {
-				sw, sx, sy, sxx, sxy = 0, 0, 0, 0, 0
-				for j := max(0, i-h); j <= min(len(bx)-1, i+h); j++ {
-					sw += w[j]
-					sx += w[j] * bx[j]
-					sy += w[j] * by[j]
-					sxx += w[j] * bx[j] * bx[j]
-					sxy += w[j] * bx[j] * by[j]
-				}
+			for j := max(0, i-half); j <= min(len(bx)-1, i+half); j++ {
+				sw += w[j]
+				sx += w[j] * bx[j]
+				sy += w[j] * by[j]
+				sxx += w[j] * bx[j] * bx[j]
+				sxy += w[j] * bx[j] * by[j]
 			}
 			if sw == 0 {
 				fit[i] = by[i]

@@ -2,48 +2,11 @@ package clean
 
 import (
 	"fmt"
-	"math"
-	"math/rand/v2"
 	"os"
 	"slices"
 	"strings"
 	"testing"
 )
-
-// A missing stretch of the upper surface leaves two bins of x with the
-// lower surface alone, and their points split in two by chance: each
-// such bin's middle lies on the lower surface, 0.04 below the camber
-// line. The robust running line sets them aside, and the camber line
-// there is its good neighbours' (calculated by hand: upper y = 0.05,
-// lower y = −0.03, camber 0.01), never the set-aside middle itself.
-func TestCamberOneSidedBins(t *testing.T) {
-	const nb = 64
-	rng := rand.New(rand.NewPCG(16, 20))
-	var xs, ys []float64
-	for k := range nb {
-		x0 := float64(k) / nb
-		one := k == 19 || k == 20
-		for j := range 8 {
-			x := x0 + (float64(j)+0.5)/8/nb
-			if one {
-				// Lower points only, in two clusters 0.004 apart.
-				xs, ys = append(xs, x), append(ys, -0.03+0.002*float64(2*(j%2)-1)+1e-5*rng.NormFloat64())
-				continue
-			}
-			xs, ys = append(xs, x, x), append(ys, 0.05+1e-4*rng.NormFloat64(), -0.03+1e-4*rng.NormFloat64())
-		}
-	}
-	if len(xs)/12 < nb {
-		t.Fatalf("%d points make fewer than %d bins", len(xs), nb)
-	}
-	cl := camber(xs, ys, nil)
-	const tol = 0.002 // well inside the 0.04 the one-sided bins are off
-	for x := 0.05; x < 0.95; x += 0.005 {
-		if got := cl.at(x); math.Abs(got-0.01) > tol {
-			t.Errorf("camber at x %.3f: %.4f, want 0.01 ± %g", x, got, tol)
-		}
-	}
-}
 
 // Near the tail of campaign seed 1941 (testdata/tail-seed1941.txt), a
 // coarse upper surface of 42 points over a lower one of 109, 0.034 apart
