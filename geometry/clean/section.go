@@ -572,7 +572,7 @@ func oneSurfaceAft(xs, ys []float64, near []int, upper []bool) bool {
 	// (odds 6e-5 a point), so more than a few there are a surface the
 	// cut splits, not noise. A coarse surface of tens of points near
 	// the tail pulls the one parabola and widens its scale until its
-	// nearer points fall inside the cut (campaign seed 1941: 41 upper
+	// nearer points fall inside the cut (campaign seed 1941: some 40 upper
 	// points against 110 lower, 0.034 c apart at 87 % of the chord,
 	// the scale 0.0035 c; 37 of them were sided lower). The fits of
 	// both surfaces (tailSides) tell those apart.
