@@ -567,6 +567,24 @@ func oneSurfaceAft(xs, ys []float64, near []int, upper []bool) bool {
 	if below+above < 2 || below > 0 && above > 0 || 3*(below+above) > len(near) {
 		return false // no other surface apart, or not one surface's few points
 	}
+	// The other surface must lie clear of the fine one's scatter: a
+	// normal scatter leaves no point between 4 and 10 of its scales
+	// (odds 6e-5 a point), so more than a few there are a surface the
+	// cut splits, not noise. A coarse surface of tens of points near
+	// the tail pulls the one parabola and widens its scale until its
+	// nearer points fall inside the cut (campaign seed 1941: some 40 upper
+	// points against 110 lower, 0.034 c apart at 87 % of the chord,
+	// the scale 0.0035 c; 37 of them were sided lower). The fits of
+	// both surfaces (tailSides) tell those apart.
+	between := 0
+	for _, r := range abs {
+		if r > 4*s && r <= oneSurfaceCut*s {
+			between++
+		}
+	}
+	if between > max(2, len(near)/20) {
+		return false
+	}
 	// The fit must follow one surface, not run between two: then the
 	// residuals of the points on it crowd about zero (a normal scatter
 	// has 38 % of them within half its scale); between two surfaces
