@@ -454,10 +454,12 @@ func findEdge(pts []geometry.Point, seq []int32, sigma float64) (edgeFound, bool
 	// blunt model, whose base runs square across the chord, then misses
 	// the base's far end by the tilt and the refits take its points as
 	// the surface's. The analysis is run again in the frame square to the
-	// base the points show, and wins when it leaves fewer of them out.
+	// base the points show, and wins when it leaves fewer points out and
+	// explains the rest (or explains them no worse).
 	if bf, wide := baseFrame(pts, seq, f); wide {
 		if rb, okb := findEdgeIn(pts, seq, sigma, bf); okb && rb.edge.Kind == EdgeBlunt && rb.misfit <= edgePoor &&
-			(!ok || len(rb.outliers) < len(r.outliers) || len(rb.outliers) == len(r.outliers) && rb.misfit < r.misfit) {
+			(!ok || (len(rb.outliers) < len(r.outliers) || len(rb.outliers) == len(r.outliers) && rb.misfit < r.misfit) &&
+				(rb.misfit <= baseExplains || rb.misfit <= r.misfit)) {
 			if edgeTrace != nil {
 				edgeTrace("base frame: %d outliers, misfit %.3g (was %d, %.3g)", len(rb.outliers), rb.misfit, len(r.outliers), r.misfit)
 			}
@@ -493,6 +495,11 @@ func findEdge(pts []geometry.Point, seq []int32, sigma float64) (edgeFound, bool
 const (
 	baseWide   = 0.01 // a base spans at least this much of the chord across it ...
 	baseMinPts = 6    // ... on at least this many points
+	// A verdict in the base's frame that leaves fewer points out wins
+	// when the mean squared misfit of the rest, in scatters, is within
+	// this (a model that explains the points gives about 1, see
+	// edgePoor), or no worse than the first verdict's.
+	baseExplains = 2
 )
 
 // baseFrame returns the chord frame of the loop seq turned square to a
