@@ -2,6 +2,23 @@ package campaign
 
 import "testing"
 
+// runStated runs the generator's case seed and returns its record and
+// the true chord; ok is false, with the test marked failed, when prep
+// failed or stated no uncertainty.
+func runStated(t *testing.T, seed uint64) (r Record, chord float64, ok bool) {
+	t.Helper()
+	c, err := NewCase(seed)
+	if err != nil {
+		t.Fatal(err)
+	}
+	r = c.Run()
+	if !r.OK || r.Stated == nil {
+		t.Errorf("case %d: failed or stated no uncertainty: %s", seed, r.Err)
+		return r, 0, false
+	}
+	return r, c.Scan.Truth.Chord, true
+}
+
 // TestFormerlyWrongCases runs cases that exited 0 wrong beyond their own
 // stated uncertainty at the start of stop 21, one per cause fixed since,
 // and checks each now succeeds within its bounds. The truth is the
@@ -17,17 +34,8 @@ import "testing"
 //     0.010–0.014 c off against surface bounds of 0.001–0.002 c.
 func TestFormerlyWrongCases(t *testing.T) {
 	for _, seed := range []uint64{4213, 573, 2488} {
-		c, err := NewCase(seed)
-		if err != nil {
-			t.Fatal(err)
-		}
-		r := c.Run()
-		if !r.OK {
-			t.Errorf("case %d: failed: %s", seed, r.Err)
-			continue
-		}
-		if r.Stated == nil {
-			t.Errorf("case %d: no uncertainty stated", seed)
+		r, _, ok := runStated(t, seed)
+		if !ok {
 			continue
 		}
 		if r.Wrong != "" {
@@ -46,15 +54,10 @@ func TestFormerlyWrongCases(t *testing.T) {
 // practitioner can use: within 5 % of the true chord, and covering the
 // true error.
 func TestDegenerateEndModelStaysOut(t *testing.T) {
-	c, err := NewCase(2065)
-	if err != nil {
-		t.Fatal(err)
+	r, chord, ok := runStated(t, 2065)
+	if !ok {
+		return
 	}
-	r := c.Run()
-	if !r.OK || r.Stated == nil {
-		t.Fatalf("failed: %s", r.Err)
-	}
-	chord := c.Scan.Truth.Chord
 	t.Logf("chord off %.4g, bound %.4g (chord %.4g)", r.ChordErr, r.Stated.Chord, chord)
 	if r.Stated.Chord > 0.05*chord {
 		t.Errorf("chord bound %.4g is %.3g %% of the chord", r.Stated.Chord, 100*r.Stated.Chord/chord)
@@ -85,21 +88,16 @@ func TestDegenerateEndModelStaysOut(t *testing.T) {
 //     chord 1.9 % and 2.8 % short against 1.4 % and 1.2 %.
 func TestBluntEndStationsFromPoints(t *testing.T) {
 	for _, seed := range []uint64{22, 475, 1924, 2020, 2824} {
-		c, err := NewCase(seed)
-		if err != nil {
-			t.Fatal(err)
-		}
-		r := c.Run()
-		if !r.OK || r.Stated == nil {
-			t.Errorf("case %d: failed: %s", seed, r.Err)
+		r, chord, ok := runStated(t, seed)
+		if !ok {
 			continue
 		}
 		if r.Wrong != "" {
-			t.Errorf("case %d: wrong beyond its stated uncertainty (%s): chord off %.4f, stated ± %.4g of %.4g", seed, r.Wrong, r.ChordErr, r.Stated.Chord, c.Scan.Truth.Chord)
+			t.Errorf("case %d: wrong beyond its stated uncertainty (%s): chord off %.4f, stated ± %.4g of %.4g", seed, r.Wrong, r.ChordErr, r.Stated.Chord, chord)
 		}
 		// The bound stays one a practitioner can use: the points leave
 		// the end open over a spacing or two, not a tenth of the chord.
-		if b := r.Stated.Chord / c.Scan.Truth.Chord; b > 0.05 {
+		if b := r.Stated.Chord / chord; b > 0.05 {
 			t.Errorf("case %d: chord bound %.3g %% of the chord", seed, 100*b)
 		}
 	}
@@ -112,15 +110,10 @@ func TestBluntEndStationsFromPoints(t *testing.T) {
 // the fit, so the chord's bound (0.75 %) did not reach the corner and the
 // chord came out 2.7 % short. The bound must take in the corner.
 func TestUntangledEdgeChordBound(t *testing.T) {
-	c, err := NewCase(2235)
-	if err != nil {
-		t.Fatal(err)
+	r, chord, ok := runStated(t, 2235)
+	if !ok {
+		return
 	}
-	r := c.Run()
-	if !r.OK || r.Stated == nil {
-		t.Fatalf("failed: %s", r.Err)
-	}
-	chord := c.Scan.Truth.Chord
 	t.Logf("chord off %.4g, bound %.4g of the chord", r.ChordErr, r.Stated.Chord/chord)
 	if r.Wrong != "" {
 		t.Errorf("wrong beyond its stated uncertainty (%s): chord off %.4f, stated ± %.4g of %.4g", r.Wrong, r.ChordErr, r.Stated.Chord, chord)
