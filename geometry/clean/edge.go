@@ -454,11 +454,14 @@ func findEdge(pts []geometry.Point, seq []int32, sigma float64) (edgeFound, bool
 	// blunt model, whose base runs square across the chord, then misses
 	// the base's far end by the tilt and the refits take its points as
 	// the surface's. The analysis is run again in the frame square to the
-	// base the points show, and wins when it leaves fewer points out and
-	// explains the rest (or explains them no worse).
+	// base the points show, and wins when it leaves at most half as many
+	// points out and explains the rest (or explains them no worse): when
+	// the lean was the trouble, the base's points fit once square to it;
+	// when many still do not, the trouble is elsewhere (a base a grazing
+	// probe saw in part) and the first verdict stands.
 	if bf, wide := baseFrame(pts, seq, f); wide {
 		if rb, okb := findEdgeIn(pts, seq, sigma, bf); okb && rb.edge.Kind == EdgeBlunt && rb.misfit <= edgePoor &&
-			(!ok || (len(rb.outliers) < len(r.outliers) || len(rb.outliers) == len(r.outliers) && rb.misfit < r.misfit) &&
+			(!ok || 2*len(rb.outliers) <= len(r.outliers) && (len(rb.outliers) < len(r.outliers) || rb.misfit < r.misfit) &&
 				(rb.misfit <= baseExplains || rb.misfit <= r.misfit)) {
 			if edgeTrace != nil {
 				edgeTrace("base frame: %d outliers, misfit %.3g (was %d, %.3g)", len(rb.outliers), rb.misfit, len(r.outliers), r.misfit)
