@@ -146,11 +146,13 @@ func Estimate(cv *curve.Curve, rep *curve.FitReport, nz *frame.Normalized, opts 
 	// The ends of an open fit pinned where the points end (no base points)
 	// are where the trailing edge was found. At a blunt edge they are the
 	// last points either side, and the surfaces may run on unseen for up
-	// to a spacing h. Ends that stop at the same station along the chord
-	// (within twice their offset and the noise) mark the base, as a probe
-	// program that ends each pass on the edge leaves them; otherwise the
-	// midpoint of the edge may lie anywhere over a spacing. The surfaces
-	// may also meet in a corner beyond them (unseenCorner). Ends the
+	// to a spacing h. Last points that stop at the same station along the
+	// chord (within twice their offset and the noise) mark the base, as a
+	// probe program that ends each pass on the edge leaves them; otherwise
+	// the midpoint of the edge may lie anywhere over a spacing. Their
+	// stations are the points' own (lastAlong): the fit carries the
+	// shorter surface on to the other's station. The surfaces may also
+	// meet in a corner beyond them (unseenCorner). Ends the
 	// points cannot tell apart at all widen the bound further where the
 	// edge is decided (prep). At a sharp edge the corner's place along the
 	// chord is what the replicas do not see (cornerAlong); the midpoint
@@ -162,7 +164,7 @@ func Estimate(cv *curve.Curve, rep *curve.FitReport, nz *frame.Normalized, opts 
 			if fr.Mirrored {
 				d.X = -d.X
 			}
-			along := math.Abs(cv.Start().Sub(cv.End()).Dot(d))
+			along := lastAlong(rep, cv, d)
 			dc, dt := unseenCorner(cv, nz.Frame, h)
 			u.Chord += math.Max(0.95*math.Min(h, 2*along+2*rep.NoiseEstimate), dc)
 			u.TwistDeg += dt
@@ -170,13 +172,22 @@ func Estimate(cv *curve.Curve, rep *curve.FitReport, nz *frame.Normalized, opts 
 			u.Chord += 0.95*math.Min(h, 2*rep.NoiseEstimate) + cornerAlong(cv, rep)
 		}
 	}
+	// Surfaces of a thin sharp edge that cross ahead of its corner put
+	// the edge where they cross (frame.Normalized.Untangled), and so do
+	// the replicas that cross: they share the reading and do not see the
+	// other, the corner the fit made, where the part's edge may lie as
+	// well. The chord may be longer by the distance between the two.
+	u.Chord += nz.Untangled
 	// A nose sampled too sparsely (the one Gaps warns of) leaves the
 	// leading edge where the curve guesses it between the points round
 	// the bend; the true one lies somewhere on the part's nose between
 	// the same points, and the replicas and half fits keep the guess's
-	// shape, so they do not see how far. The points ending the stretch
-	// the guess bridges bound it: the leading edge may be off by up to
-	// its distance from the farther of them. The chord, from the leading
+	// shape, so they do not see how far. A convex nose through the points
+	// bounds it (noseRegionFar): the leading edge may be off by up to its
+	// distance from the farthest place the part's leading edge may take
+	// there; where the points do not bound that place (they turn the
+	// other way, or a gap turns half a turn), by up to its distance from
+	// the farther of the points ending the stretch. The chord, from the leading
 	// edge to the trailing edge, changes by no more than the two ends
 	// move (the triangle inequality), so the chord's bound gains that
 	// distance; the twist is at least the leading edge's bound seen from
@@ -193,6 +204,9 @@ func Estimate(cv *curve.Curve, rep *curve.FitReport, nz *frame.Normalized, opts 
 		}
 		le := geometry.Point{X: nz.Frame.LE[0], Y: nz.Frame.LE[1]}
 		far := math.Max(le.Dist(at(a)), le.Dist(at(b)))
+		if r, ok := noseRegionFar(rep, cv, nz.Frame, le, a, b); ok {
+			far = r
+		}
 		u.LE = math.Max(u.LE, far)
 		u.Chord += far
 		u.TwistDeg = math.Max(u.TwistDeg, math.Atan(u.LE/nz.Frame.Chord)*180/math.Pi)
@@ -360,6 +374,21 @@ func mirrorDistance(poly []geometry.Point) float64 {
 
 // distWindow is the half-width, in segments, of maxDistance's search.
 const distWindow = 40
+
+// lastAlong returns how far apart along the chord direction d (a unit
+// vector in input coordinates) the outermost points of an open fit lie:
+// the feet on cv of the points first and last along it (arc lengths
+// rep.S), not the curve's ends, which the fit may carry on beyond them.
+func lastAlong(rep *curve.FitReport, cv *curve.Curve, d geometry.Point) float64 {
+	if len(rep.S) == 0 {
+		return 0
+	}
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for _, s := range rep.S {
+		lo, hi = math.Min(lo, s), math.Max(hi, s)
+	}
+	return math.Abs(cv.At(hi).Sub(cv.At(lo)).Dot(d))
+}
 
 // cornerReach is how many end spacings the surfaces of an edge read as
 // blunt may run on unseen: gaps of irregular sampling differ by that much

@@ -268,12 +268,15 @@ func TestEstimateSparseNoseTwist(t *testing.T) {
 // 0.015 c round the nose) probed densely except over the nose: the upper
 // surface's points stop at x = 0.0005, the lower's at x = 0.012. The
 // curve guesses the nose between them and puts the leading edge on its
-// guess; the part's may lie anywhere in the gap. The gap is found, the
+// guess; the part's may lie anywhere a convex nose through the points
+// allows. The same points fit two parts alike: the NACA 4404 itself, and
+// the part whose nose is the corner where the lines through the last two
+// points of each surface cross (convex, and through every point). The
 // bounds of the leading edge, the chord, the twist and the surface cover
-// the true errors and take in the gap (the leading edge's bound reaches
-// the farther of the points either side), and stay within its size. The
-// campaign's case 4213 (internal/campaign) is the scan whose guess went
-// wrong by most of the gap.
+// the true errors against the first, and the leading edge's reaches the
+// second's (the corner, the foremost point of that part). The campaign's
+// case 4213 (internal/campaign) is the scan whose guess went wrong by
+// most of the gap.
 func TestEstimateNoseGapCovers(t *testing.T) {
 	n := shape.NACA4{Camber: 0.04, CamberPos: 0.2, Thickness: 0.04, SharpTE: true}
 	var loop []geometry.Point
@@ -284,10 +287,19 @@ func TestEstimateNoseGapCovers(t *testing.T) {
 			loop = append(loop, n.Upper(x))
 		}
 	}
+	gapAt := len(loop) // the first lower point after the gap
 	for k := 1; k <= m; k++ {
 		if x := float64(k) / float64(m); x*x > 0.012 {
 			loop = append(loop, n.Lower(x*x))
 		}
+	}
+	// The corner of the second part, in the chord frame of the points.
+	pa, pb := loop[gapAt-1], loop[gapAt]
+	da, db := pa.Sub(loop[gapAt-2]), pb.Sub(loop[gapAt+1])
+	w := pb.Sub(pa)
+	corner := pa.Add(da.Scale(w.Cross(db) / da.Cross(db)))
+	if !(corner.X < math.Min(pa.X, pb.X)) {
+		t.Fatalf("the lines cross at %v, not ahead of the points %v, %v", corner, pa, pb)
 	}
 	for seed := uint64(1); seed <= 3; seed++ {
 		part := testfoil.Part{Chord: 200, RotDeg: -3, Shift: geometry.Point{X: 40, Y: 15}, Noise: 0.005, Seed: seed}
@@ -300,17 +312,70 @@ func TestEstimateNoseGapCovers(t *testing.T) {
 		gap := (b - a) / nz.Frame.Chord
 		u := Estimate(cv, rep, nz, Options{})
 		ec, et, el, es := trueErrors(t, nz, n, part)
-		t.Logf("seed %d: gap %.4f c; chord %.4f ≤ %.4f mm, twist %.4f ≤ %.4f°, LE %.4f ≤ %.4f mm, surface %.5f ≤ %.5f c", seed, gap, ec, u.Chord, et, u.TwistDeg, el, u.LE, es, u.Surface)
+		le := geometry.Point{X: nz.Frame.LE[0], Y: nz.Frame.LE[1]}
+		toCorner := le.Dist(part.ToPart(corner))
+		t.Logf("seed %d: gap %.4f c; chord %.4f ≤ %.4f mm, twist %.4f ≤ %.4f°, LE %.4f ≤ %.4f mm (corner part %.4f mm), surface %.5f ≤ %.5f c", seed, gap, ec, u.Chord, et, u.TwistDeg, el, u.LE, toCorner, es, u.Surface)
 		if ec > u.Chord || et > u.TwistDeg || el > u.LE || es > u.Surface {
 			t.Errorf("seed %d: an error beyond its bound", seed)
 		}
-		le := geometry.Point{X: nz.Frame.LE[0], Y: nz.Frame.LE[1]}
-		if far := math.Max(le.Dist(cv.At(a)), le.Dist(cv.At(b))); u.LE < far {
-			t.Errorf("seed %d: LE bound %.4f mm short of the farther end of the gap, %.4f mm away", seed, u.LE, far)
+		if u.LE < toCorner {
+			t.Errorf("seed %d: LE bound %.4f mm short of the corner part's leading edge, %.4f mm away", seed, u.LE, toCorner)
 		}
-		if u.LE > gap*nz.Frame.Chord || u.Surface > gap {
-			t.Errorf("seed %d: LE bound %.4f mm, surface %.5f c: wider than the gap %.4f c", seed, u.LE, u.Surface, gap)
+		if u.Surface < toCorner/nz.Frame.Chord {
+			t.Errorf("seed %d: surface bound %.5f c short of the corner part's leading edge, %.5f c away", seed, u.Surface, toCorner/nz.Frame.Chord)
 		}
+	}
+}
+
+// A symmetric section (NACA 0012, Report 824 equations) probed densely
+// up to its leading edge on the upper surface (the last point at x =
+// 0.0003) but from x = 0.03 on only on the lower one, as a probe pass
+// that stops short of the nose leaves it: the outline turns far more
+// than the gap check's limit over the gap, so the nose is sparse. The
+// lower surface's last two points aim at the nose, and the convex region
+// the points leave for the part's leading edge is a sliver ahead of the
+// upper surface's last point: the leading edge's bound reaches the corner
+// part's leading edge (as above) but stays well short of the farther
+// point of the gap, the bound of a leading edge anywhere in the gap.
+func TestEstimateNoseGapConvexRegion(t *testing.T) {
+	n := shape.NACA4{Thickness: 0.12, SharpTE: true}
+	var loop []geometry.Point
+	const m = 200
+	for k := 0; k < m; k++ {
+		if x := 1 - float64(k)/float64(m); x*x > 0.0003 {
+			loop = append(loop, n.Upper(x*x))
+		}
+	}
+	gapAt := len(loop)
+	for k := 1; k <= m; k++ {
+		if x := float64(k) / float64(m); x > 0.03 {
+			loop = append(loop, n.Lower(x))
+		}
+	}
+	pa, pb := loop[gapAt-1], loop[gapAt]
+	da, db := pa.Sub(loop[gapAt-2]), pb.Sub(loop[gapAt+1])
+	corner := pa.Add(da.Scale(pb.Sub(pa).Cross(db) / da.Cross(db)))
+	part := testfoil.Part{Chord: 150, RotDeg: 8, Shift: geometry.Point{X: -20, Y: 5}, Noise: 0.002, Seed: 4}
+	c := testfoil.Contour(loop, part)
+	cv, rep, nz := fitNormalize(t, c)
+	a, b, sparse := noseStretch(rep, cv, nz)
+	if !sparse {
+		t.Fatal("the nose's gap was not found")
+	}
+	u := Estimate(cv, rep, nz, Options{})
+	ec, et, el, es := trueErrors(t, nz, n, part)
+	le := geometry.Point{X: nz.Frame.LE[0], Y: nz.Frame.LE[1]}
+	toCorner := le.Dist(part.ToPart(corner))
+	farther := math.Max(le.Dist(cv.At(a)), le.Dist(cv.At(b)))
+	t.Logf("chord %.4f ≤ %.4f mm, twist %.4f ≤ %.4f°, LE %.4f ≤ %.4f mm (corner part %.4f, farther point %.4f mm), surface %.5f ≤ %.5f c", ec, u.Chord, et, u.TwistDeg, el, u.LE, toCorner, farther, es, u.Surface)
+	if ec > u.Chord || et > u.TwistDeg || el > u.LE || es > u.Surface {
+		t.Error("an error beyond its bound")
+	}
+	if u.LE < toCorner {
+		t.Errorf("LE bound %.4f mm short of the corner part's leading edge, %.4f mm away", u.LE, toCorner)
+	}
+	if u.LE > 0.5*farther {
+		t.Errorf("LE bound %.4f mm: not narrower than half the farther point of the gap, %.4f mm", u.LE, farther)
 	}
 }
 

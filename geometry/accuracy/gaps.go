@@ -192,3 +192,163 @@ func noseStretch(rep *curve.FitReport, cv *curve.Curve, nz *frame.Normalized) (a
 	}
 	return a, b, true
 }
+
+// stretchPoints returns the arc lengths on cv, increasing, of the points
+// of the nose's stretch [a, b] (noseStretch) and of one point either side
+// of it, and whether both exist. On a closed curve they are counted on
+// round (the first may be negative, the last may exceed the length).
+func stretchPoints(rep *curve.FitReport, cv *curve.Curve, a, b float64) ([]float64, bool) {
+	n := len(rep.S)
+	L := cv.Length()
+	if n < 4 || !(L > 0) {
+		return nil, false
+	}
+	s := append([]float64(nil), rep.S...)
+	sort.Float64s(s)
+	closed := cv.Closed()
+	// at returns the arc length of the k-th point, k counted on round a
+	// closed curve with L added per turn.
+	at := func(k int) float64 {
+		turns := math.Floor(float64(k) / float64(n))
+		return s[k-int(turns)*n] + turns*L
+	}
+	eps := 1e-9 * L
+	turns := math.Floor(a / L)
+	if !closed {
+		turns = 0
+	}
+	k0 := sort.SearchFloat64s(s, a-turns*L-eps) + int(turns)*n // the point at a
+	if at(k0) > a+eps || at(k0) < a-eps {
+		return nil, false
+	}
+	out := []float64{}
+	for k := k0 - 1; ; k++ {
+		if !closed && (k < 0 || k >= n) {
+			return nil, false
+		}
+		if k-(k0-1) > n {
+			return nil, false
+		}
+		out = append(out, at(k))
+		if at(k) > b+eps {
+			break
+		}
+	}
+	if len(out) < 4 {
+		return nil, false
+	}
+	return out, true
+}
+
+// noseRegionFar returns how far from the section's leading edge le (input
+// coordinates) the part's leading edge may lie when its nose is sampled
+// sparsely over the stretch [a, b] of cv (noseStretch), and whether the
+// points bound it. The nose of an aerofoil is convex (common practice),
+// and a convex outline between two neighbouring points p₁, p₂ lies
+// outside the line p₁–p₂ and inside the lines through each of them and
+// its other neighbour, carried on past it: in the triangle p₁, q, p₂, q
+// where those lines cross (common practice). Over the stretch that is one
+// triangle a gap; the part's leading edge, the point farthest forward
+// along the chord line, lies in their union, and no further aft than the
+// foremost point measured. The answer is the largest distance from le to
+// that region, plus noiseMargin times the noise or the largest residual
+// of the points that place the lines, if larger (their scatter moves the
+// lines). ok is false where the points turn the other way
+// somewhere over the stretch and its neighbours, or two lines do not cross
+// ahead of the points (a gap turning half a turn): the region is then
+// not bounded by the points; and where a point outside the stretch lies
+// ahead of all of it.
+func noseRegionFar(rep *curve.FitReport, cv *curve.Curve, fr frame.Frame, le geometry.Point, a, b float64) (far float64, ok bool) {
+	ts, ok := stretchPoints(rep, cv, a, b)
+	if !ok || !(fr.Chord > 0) {
+		return 0, false
+	}
+	L := cv.Length()
+	at := func(t float64) geometry.Point {
+		if cv.Closed() {
+			t = math.Mod(math.Mod(t, L)+L, L)
+		}
+		return fr.ToChord(cv.At(t))
+	}
+	ps := make([]geometry.Point, len(ts))
+	for k, t := range ts {
+		ps[k] = at(t)
+	}
+	// Convex: the points turn one way at every point of the stretch.
+	sign := 0.0
+	for k := 1; k+1 < len(ps); k++ {
+		c := ps[k].Sub(ps[k-1]).Cross(ps[k+1].Sub(ps[k]))
+		if !(c != 0) || (sign != 0 && math.Copysign(1, c) != sign) {
+			return 0, false
+		}
+		sign = math.Copysign(1, c)
+	}
+	// The foremost point measured (the leading edge lies at or ahead of
+	// it; x runs aft in the normalised frame).
+	x0 := math.Inf(1)
+	for _, t := range rep.S {
+		x0 = math.Min(x0, at(t).X)
+	}
+	o := fr.ToChord(le)
+	found := false
+	for k := 1; k+2 < len(ps); k++ {
+		p1, p2 := ps[k], ps[k+1]
+		d1, d2 := p1.Sub(ps[k-1]), p2.Sub(ps[k+2])
+		det := d1.Cross(d2)
+		if det == 0 {
+			return 0, false
+		}
+		// p1 + s·d1 = p2 + t·d2 with s, t > 0: the lines cross ahead of
+		// both points.
+		w := p2.Sub(p1)
+		s, t := w.Cross(d2)/det, w.Cross(d1)/det
+		if !(s > 0) || !(t > 0) {
+			return 0, false
+		}
+		q := p1.Add(d1.Scale(s))
+		for _, r := range clipAft([]geometry.Point{p1, q, p2}, x0) {
+			far, found = math.Max(far, r.Dist(o)), true
+		}
+	}
+	if !found {
+		// A point outside the stretch lies foremost: the leading edge is
+		// not in the stretch's gaps, and they do not bound it.
+		return 0, false
+	}
+	// The lines run through the points' feet on the curve; a point that
+	// lies off it by more than the noise (an outlier kept, listed, at the
+	// gap's end) may pull the curve and the lines by its residual.
+	margin := noiseMargin * rep.NoiseEstimate
+	if len(rep.Residual) == len(rep.S) {
+		lo, hi := ts[0], ts[len(ts)-1]
+		for i, t := range rep.S {
+			for _, u := range []float64{t - L, t, t + L} {
+				if u >= lo-1e-9*L && u <= hi+1e-9*L {
+					margin = math.Max(margin, math.Abs(rep.Residual[i]))
+				}
+			}
+		}
+	}
+	return far*fr.Chord + margin, true
+}
+
+// clipAft returns the polygon poly cut to its part with x ≤ x0 (one
+// half-plane of Sutherland–Hodgman clipping, common practice).
+func clipAft(poly []geometry.Point, x0 float64) []geometry.Point {
+	var out []geometry.Point
+	for k := range poly {
+		c, d := poly[k], poly[(k+1)%len(poly)]
+		cin, din := c.X <= x0, d.X <= x0
+		if cin {
+			out = append(out, c)
+		}
+		if cin != din {
+			out = append(out, c.Add(d.Sub(c).Scale((x0-c.X)/(d.X-c.X))))
+		}
+	}
+	return out
+}
+
+// noiseMargin is how many noise figures noseRegionFar adds for the
+// scatter of the points that place its lines.
+const noiseMargin = 3

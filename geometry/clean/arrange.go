@@ -246,7 +246,7 @@ func (cl *cleaning) mergeNear() bool {
 	for i := range byInput {
 		byInput[i] = int32(i)
 	}
-	slices.SortFunc(byInput, func(a, b int32) int { return int(src[a] - src[b]) })
+	sortByInput(byInput, src)
 	gone := make([]bool, n)
 	any := false
 	for _, i := range byInput {
@@ -319,7 +319,7 @@ func (cl *cleaning) fromFile(opts Options, sigma float64) *attempt {
 		for i := range order {
 			order[i] = int32(i)
 		}
-		slices.SortFunc(order, func(a, b int32) int { return int(src[a] - src[b]) })
+		sortByInput(order, src)
 		start := 0
 		for k := 1; k <= len(order); k++ {
 			if k < len(order) {

@@ -731,23 +731,11 @@ func newGrid(pts []geometry.Point, sel []int32, h float64, lo, hi geometry.Point
 			sel[i] = int32(i)
 		}
 	}
-	type kv struct {
-		k uint64
-		i int32
-	}
-	kvs := make([]kv, len(sel))
+	kvs := make([]keyed, len(sel))
 	for j, i := range sel {
-		kvs[j] = kv{g.key(g.cell(pts[i])), i}
+		kvs[j] = keyed{g.key(g.cell(pts[i])), i}
 	}
-	slices.SortFunc(kvs, func(a, b kv) int {
-		switch {
-		case a.k < b.k:
-			return -1
-		case a.k > b.k:
-			return 1
-		}
-		return int(a.i - b.i)
-	})
+	sortKeyed(kvs)
 	g.idx = make([]int32, len(kvs))
 	cells := 0
 	for j := range kvs {
@@ -809,24 +797,12 @@ func localise(pts []geometry.Point, idx []int32) {
 		v = (v | v<<1) & 0x5555555555555555
 		return v
 	}
-	type kv struct {
-		k uint64
-		i int32
-	}
-	kvs := make([]kv, len(idx))
+	kvs := make([]keyed, len(idx))
 	for j, i := range idx {
 		p := pts[i]
-		kvs[j] = kv{spread(uint64((p.X-lo.X)*f)) | spread(uint64((p.Y-lo.Y)*f))<<1, i}
+		kvs[j] = keyed{spread(uint64((p.X-lo.X)*f)) | spread(uint64((p.Y-lo.Y)*f))<<1, i}
 	}
-	slices.SortFunc(kvs, func(a, b kv) int {
-		switch {
-		case a.k < b.k:
-			return -1
-		case a.k > b.k:
-			return 1
-		}
-		return int(a.i - b.i)
-	})
+	sortKeyed(kvs)
 	for j := range kvs {
 		idx[j] = kvs[j].i
 	}

@@ -449,6 +449,26 @@ func findEdge(pts []geometry.Point, seq []int32, sigma float64) (edgeFound, bool
 		return edgeFound{seq: seq}, false
 	}
 	r, ok := findEdgeIn(pts, seq, sigma, f)
+	// A wide flat base (a flatback or a cut thick section) tilts in the
+	// frame of the farthest pair, which ends at one of its corners: the
+	// blunt model, whose base runs square across the chord, then misses
+	// the base's far end by the tilt and the refits take its points as
+	// the surface's. The analysis is run again in the frame square to the
+	// base the points show, and wins when it leaves at most half as many
+	// points out and explains the rest (or explains them no worse): when
+	// the lean was the trouble, the base's points fit once square to it;
+	// when many still do not, the trouble is elsewhere (a base a grazing
+	// probe saw in part) and the first verdict stands.
+	if bf, wide := baseFrame(pts, seq, f); wide {
+		if rb, okb := findEdgeIn(pts, seq, sigma, bf); okb && rb.edge.Kind == EdgeBlunt && rb.misfit <= edgePoor &&
+			(!ok || 2*len(rb.outliers) <= len(r.outliers) && (len(rb.outliers) < len(r.outliers) || rb.misfit < r.misfit) &&
+				(rb.misfit <= baseExplains || rb.misfit <= r.misfit)) {
+			if edgeTrace != nil {
+				edgeTrace("base frame: %d outliers, misfit %.3g (was %d, %.3g)", len(rb.outliers), rb.misfit, len(r.outliers), r.misfit)
+			}
+			r, ok = rb, true
+		}
+	}
 	if ok && r.misfit <= edgePoor {
 		// A rounded end may be a nose (a thin section whose rounded
 		// trailing edge is blunter than its nose is as wide near its nose
@@ -472,6 +492,86 @@ func findEdge(pts []geometry.Point, seq []int32, sigma float64) (edgeFound, bool
 		return r2, true
 	}
 	return r, ok
+}
+
+// Limits of a wide flat base (baseFrame).
+const (
+	baseWide   = 0.01 // a base spans at least this much of the chord across it ...
+	baseMinPts = 6    // ... on at least this many points
+	// A verdict in the base's frame that leaves fewer points out wins
+	// when the mean squared misfit of the rest, in scatters, is within
+	// this (a model that explains the points gives about 1, see
+	// edgePoor), or no worse than the first verdict's.
+	baseExplains = 2
+)
+
+// baseFrame returns the chord frame of the loop seq turned square to a
+// wide flat base at the aft end of f, and whether the points show one.
+// The base is the run of points about the aftmost one whose every step
+// runs more across the chord than along it (a surface near its end runs
+// along it: even a 40 % thick section's surfaces leave the base at well
+// under 45°); it must span baseWide of the chord on baseMinPts points.
+// Its direction is the principal axis of its points (a total least
+// squares line, common practice); the frame keeps f's nose and puts the
+// tail square to the base through the base's centroid.
+func baseFrame(pts []geometry.Point, seq []int32, f chordFrame) (chordFrame, bool) {
+	n := len(seq)
+	if n < 2*baseMinPts {
+		return f, false
+	}
+	k0, x0 := 0, math.Inf(-1)
+	for k, i := range seq {
+		if x, _ := f.at(pts[i]); x > x0 {
+			k0, x0 = k, x
+		}
+	}
+	at := func(k int) geometry.Point { return pts[seq[((k%n)+n)%n]] }
+	across := func(a, b geometry.Point) bool {
+		d := b.Sub(a)
+		along := d.Dot(f.d)
+		return math.Abs(f.d.Cross(d)) > math.Abs(along)
+	}
+	base := []geometry.Point{at(k0)}
+	for _, dir := range []int{1, -1} {
+		for s := 1; s < n/2; s++ {
+			if !across(at(k0+dir*(s-1)), at(k0+dir*s)) {
+				break
+			}
+			base = append(base, at(k0+dir*s))
+		}
+	}
+	if len(base) < baseMinPts {
+		return f, false
+	}
+	lo, hi := math.Inf(1), math.Inf(-1)
+	var c geometry.Point
+	for _, p := range base {
+		_, y := f.at(p)
+		lo, hi = min(lo, y), max(hi, y)
+		c = c.Add(p)
+	}
+	if hi-lo < baseWide {
+		return f, false
+	}
+	c = c.Scale(1 / float64(len(base)))
+	var sxx, sxy, syy float64
+	for _, p := range base {
+		d := p.Sub(c)
+		sxx += d.X * d.X
+		sxy += d.X * d.Y
+		syy += d.Y * d.Y
+	}
+	// The normal of the base is the minor axis of its points.
+	th := 0.5*math.Atan2(2*sxy, sxx-syy) + math.Pi/2
+	nrm := geometry.Point{X: math.Cos(th), Y: math.Sin(th)}
+	if nrm.Dot(f.d) < 0 {
+		nrm = nrm.Scale(-1)
+	}
+	l := c.Sub(f.le).Dot(nrm)
+	if !(l > 0) {
+		return f, false
+	}
+	return newChordFrame(f.le, f.le.Add(nrm.Scale(l))), true
 }
 
 // edgeEvidence is the least difference of scores by which a rounded end

@@ -64,7 +64,7 @@ func passOffsets(pts []geometry.Point, src []int32, seq []int32, origins []geome
 		pos[i] = int32(k)
 	}
 	byFile := slices.Clone(seq)
-	slices.SortFunc(byFile, func(a, b int32) int { return int(src[a] - src[b]) })
+	sortByInput(byFile, src)
 	run := make([]int32, len(pts))
 	for i := range run {
 		run[i] = -1

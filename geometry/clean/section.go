@@ -134,7 +134,7 @@ func weightOf(ws []float64, i int) float64 {
 // weights, the positions len/10 and len−1−len/10 for q = 0.1 (n·q rounded
 // down points trimmed each end). Weights that sum to nothing count alike.
 func trimmed(vs []weighted, q float64) (a, b int) {
-	slices.SortStableFunc(vs, func(x, y weighted) int { return cmp.Compare(x.v, y.v) })
+	stableSort(vs, func(x, y weighted) int { return cmp.Compare(x.v, y.v) })
 	n := len(vs)
 	var tot float64
 	for _, v := range vs {
@@ -567,6 +567,24 @@ func oneSurfaceAft(xs, ys []float64, near []int, upper []bool) bool {
 	if below+above < 2 || below > 0 && above > 0 || 3*(below+above) > len(near) {
 		return false // no other surface apart, or not one surface's few points
 	}
+	// The other surface must lie clear of the fine one's scatter: a
+	// normal scatter leaves no point between 4 and 10 of its scales
+	// (odds 6e-5 a point), so more than a few there are a surface the
+	// cut splits, not noise. A coarse surface of tens of points near
+	// the tail pulls the one parabola and widens its scale until its
+	// nearer points fall inside the cut (campaign seed 1941: some 40 upper
+	// points against 110 lower, 0.034 c apart at 87 % of the chord,
+	// the scale 0.0035 c; 37 of them were sided lower). The fits of
+	// both surfaces (tailSides) tell those apart.
+	between := 0
+	for _, r := range abs {
+		if r > 4*s && r <= oneSurfaceCut*s {
+			between++
+		}
+	}
+	if between > max(2, len(near)/20) {
+		return false
+	}
 	// The fit must follow one surface, not run between two: then the
 	// residuals of the points on it crowd about zero (a normal scatter
 	// has 38 % of them within half its scale); between two surfaces
@@ -729,7 +747,7 @@ func sectionOrder(pts []geometry.Point, sel []int32, f chordFrame, ws []float64)
 	for k := range order {
 		order[k] = k
 	}
-	slices.SortStableFunc(order, func(a, b int) int {
+	byPlace := func(a, b int) int {
 		switch {
 		case us[a] < us[b]:
 			return -1
@@ -737,7 +755,13 @@ func sectionOrder(pts []geometry.Point, sel []int32, f chordFrame, ws []float64)
 			return 1
 		}
 		return 0
-	})
+	}
+	if slices.ContainsFunc(us, math.IsNaN) {
+		// No strict weak order: keep the sort whose order it always was.
+		slices.SortStableFunc(order, byPlace)
+	} else {
+		stableSort(order, byPlace)
+	}
 	out := make([]int32, n)
 	for k, o := range order {
 		out[k] = sel[o]
@@ -762,7 +786,7 @@ func surfaceWeights(xs []float64, upper []bool) []float64 {
 				idx = append(idx, k)
 			}
 		}
-		slices.SortStableFunc(idx, func(a, b int) int { return cmp.Compare(xs[a], xs[b]) })
+		stableSort(idx, func(a, b int) int { return cmp.Compare(xs[a], xs[b]) })
 		for j, k := range idx {
 			lo, hi := xs[k], xs[k]
 			if j > 0 {

@@ -694,7 +694,10 @@ func rebuildEnds(cv *Curve, e endRebuild) *Curve {
 type endRebuild struct {
 	sharp, base bool
 	h           float64
-	o, dir      geometry.Point
+	// reach is the spacing that may hide the part's end beyond the last
+	// points, for the accuracy estimate (endStretch, FitReport.EndGap).
+	reach  float64
+	o, dir geometry.Point
 	// nBase is the number of base points, spread their RMS distance along
 	// the base from o: how well they fix the line (Replica).
 	nBase  int
@@ -704,7 +707,7 @@ type endRebuild struct {
 // newEndRebuild returns how the ends of the open fit of c with ends are
 // rebuilt; pts are the points in fit order.
 func newEndRebuild(c *geometry.Contour, ends trailingEnds, sharp bool, pts []geometry.Point) endRebuild {
-	e := endRebuild{sharp: sharp, h: endSpacing(pts)}
+	e := endRebuild{sharp: sharp, h: endSpacing(pts), reach: endStretch(pts)}
 	if sharp || len(ends.base) < 2 {
 		return e
 	}
@@ -738,6 +741,35 @@ func endSpacing(pts []geometry.Point) float64 {
 		gaps = append(gaps, pts[i].Dist(pts[i-1]), pts[m-i].Dist(pts[m-i-1]))
 	}
 	return median(gaps)
+}
+
+// endStretch returns the length-biased mean of the endSpan spacings at
+// either end of pts (fit order),
+//
+//	Σ g² / Σ g,
+//
+// the expected length of the spacing a point of the outline, the part's
+// unseen end, falls into when the spacings come in random order (the
+// inspection paradox of renewal theory; see W. Feller, An Introduction to
+// Probability Theory and Its Applications, vol. 2, 2nd ed., Wiley, 1971,
+// section XI.4): the stretch the surfaces may run on beyond the last
+// points. Unlike the median (endSpacing) it is not set by points
+// measured twice a hair apart, which halve the spacings between the
+// stations that were measured but leave the distance to the next one
+// unchanged. It equals the spacing of evenly spaced points.
+func endStretch(pts []geometry.Point) float64 {
+	m := len(pts)
+	var s1, s2 float64
+	for i := 1; i <= min(endSpan, m-1); i++ {
+		for _, g := range []float64{pts[i].Dist(pts[i-1]), pts[m-i].Dist(pts[m-i-1])} {
+			s1 += g
+			s2 += g * g
+		}
+	}
+	if !(s1 > 0) {
+		return 0
+	}
+	return s2 / s1
 }
 
 // binNoisier is how many times the noise a bin should carry (the noise
@@ -924,8 +956,9 @@ func minimise(crit func(float64) float64, lo, hi, hint, hintSpan float64) float6
 // minimiseLog scans crit on a grid over [lo, hi] and refines the best
 // sample by golden-section search. atEdge reports that the weakest
 // smoothing tried was best. The grid's samples are independent and are
-// taken on two cores: crit must be safe to call from two goroutines at
-// once (a spline problem's fits are).
+// taken on two cores, and the search looks a step ahead on the second
+// (goldenAhead): crit must be safe to call from two goroutines at once (a
+// spline problem's fits are).
 func minimiseLog(crit func(float64) float64, lo, hi, hint, hintSpan float64) (ll float64, atEdge bool) {
 	grid := 20
 	if hint > 0 {
@@ -943,7 +976,7 @@ func minimiseLog(crit func(float64) float64, lo, hi, hint, hintSpan float64) (ll
 	}
 	a := lo + (hi-lo)*float64(max(best-1, 0))/float64(grid)
 	b := lo + (hi-lo)*float64(min(best+1, grid))/float64(grid)
-	return numeric.Golden(crit, a, b, 14), best == 0
+	return goldenAhead(crit, a, b, 14), best == 0
 }
 
 // normalRMS returns the RMS of the residuals projected on the curve
@@ -1100,17 +1133,28 @@ func passes(fp fitPoints, open, freeEnds bool, opts FitOptions, st *smoothState,
 			s[i] = nts[i] - nts[0]
 		}
 		st.T = featureScales(cv0, s, open)
-		var a []float64
-		a, mean = arcWeights(nts, st.T, !open, nperiod, featurePower, spacingPower)
-		w = make([]float64, m)
-		for i := range w {
-			w[i] = ws[i] * a[i]
-		}
-		prob = splineNewProblem(nts, w, !open, nperiod)
+		// The weights and the problem they make, and the local noise,
+		// read the same positions and feature scales and nothing of each
+		// other: the weights are made on a second core while the noise is
+		// measured (a panic there is raised again here).
+		var failed any
+		weigh := par.Start(func() {
+			defer func() { failed = recover() }()
+			a, mn := arcWeights(nts, st.T, !open, nperiod, featurePower, spacingPower)
+			wt := make([]float64, m)
+			for i := range wt {
+				wt[i] = ws[i] * a[i]
+			}
+			w, mean, prob = wt, mn, splineNewProblem(nts, wt, !open, nperiod)
+		})
 		if !open {
 			lp = nperiod
 		}
 		noise, tau, tauLong, _, profile = localNoise(xs, ys, s, st.T, c, lp)
+		weigh.Wait()
+		if failed != nil {
+			panic(failed)
+		}
 		// The noise given is per point, and a bin of count points is
 		// taken to average it down by √count. The bins of a band are
 		// runs of points in the order of their feet on a curve drawn

@@ -160,14 +160,15 @@ func newResampler(p *splineProblem, f *splineFit, xd, yd []float64, lambda, sigm
 
 // EndGap returns, for an open fit whose ends are pinned to the last
 // points either side of a gap (a blunt edge without base points), the
-// spacing of the points at the ends: the surfaces may run on that far
-// beyond them unseen. It returns 0 for other fits.
+// spacing of the points at the ends that may hide the part's end (the
+// length-biased mean of the spacings, endStretch): the surfaces may run on
+// that far beyond them unseen. It returns 0 for other fits.
 func (r *FitReport) EndGap() float64 {
 	rs := r.resampler
 	if rs == nil || !rs.open || rs.freeEnds {
 		return 0
 	}
-	return rs.ends.h
+	return rs.ends.reach
 }
 
 // EndSteps returns, for an open fit, the distances from each end of the

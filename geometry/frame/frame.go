@@ -123,6 +123,11 @@ type Normalized struct {
 	// (noseBias). The outline turned over is then as likely a reading of
 	// the points, and the section's uncertainty takes it in.
 	MirrorOpen bool
+	// Untangled is the distance (input units) from the corner of a sharp
+	// trailing edge to where its surfaces cross ahead of it, where the
+	// edge was put (untangle); 0 when they do not cross. The part's edge
+	// may lie anywhere from the crossing to the corner.
+	Untangled float64
 }
 
 // Normalize locates the trailing and leading edge of the fitted curve cv
@@ -189,6 +194,7 @@ func Normalize(cv *curve.Curve, opts Options) (*Normalized, error) {
 			chord := cv.Start().Dist(cv.At(cv.Length() / 2))
 			if cv.Start().Dist(cv.End()) <= EdgeSharpGap*max(chord, moved) {
 				cv = cut
+				out.Untangled = moved
 				warn(fmt.Sprintf("the surfaces near the trailing edge are within the noise of each other and crossed %.3g chord ahead of the corner; the edge was put where they cross", moved/chord))
 			}
 		}

@@ -624,8 +624,13 @@ func TestNormalizeMirrorOpenThickNoseCamber(t *testing.T) {
 	// mirrored, 846 and 1943, upside down, kept: each exited 0 with nodes
 	// 0.007–0.014 c off); measured either way up, the points cannot tell
 	// their upper side, and the section must say so (MirrorOpen, and a
-	// warning naming the doubt). Sections whose camber is plain beside
-	// their thickness (NACA 2412, 4415, 23012) decide it, either way up.
+	// warning naming the doubt); so must the 31024, whose camber lifts
+	// its sag back the least (0.107 of the nose's h·h', noseBiasFactor).
+	// Sections whose camber is plain beside their thickness (NACA 2412,
+	// 4415, 23012) decide it, either way up, and so do the thick 23018
+	// and 32018, whose camber bows the sag past what their noses could
+	// fake (0.17 and 0.15 of h·h'), though not past the thickness's pull
+	// alone (0.21 of it).
 	for _, tc := range []struct {
 		name string
 		loop []geometry.Point
@@ -634,7 +639,10 @@ func TestNormalizeMirrorOpenThickNoseCamber(t *testing.T) {
 		{"21018", shape.NACA5{L: 1, P: 1, Thickness: 0.18, SharpTE: true}.Loop(150), true},
 		{"21024", shape.NACA5{L: 1, P: 1, Thickness: 0.24, SharpTE: true}.Loop(150), true},
 		{"22121", shape.NACA5{L: 2, P: 2, Thickness: 0.21, SharpTE: true}.Loop(150), true},
+		{"31024", shape.NACA5{L: 3, P: 1, Thickness: 0.24, SharpTE: true}.Loop(150), true},
 		{"23012", shape.NACA5{L: 2, P: 3, Thickness: 0.12, SharpTE: true}.Loop(150), false},
+		{"23018", shape.NACA5{L: 2, P: 3, Thickness: 0.18, SharpTE: true}.Loop(150), false},
+		{"32018", shape.NACA5{L: 3, P: 2, Thickness: 0.18, SharpTE: true}.Loop(150), false},
 		{"2412", shape.NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12, SharpTE: true}.Loop(150), false},
 		{"4415", shape.NACA4{Camber: 0.04, CamberPos: 0.4, Thickness: 0.15, SharpTE: true}.Loop(150), false},
 	} {

@@ -35,8 +35,16 @@ const (
 	// 12–24 % thickness, in our chord convention, the sag reads low by
 	// 0.11, 0.17 and 0.21 times the nose's h·h' (noseBias) for design
 	// lift 0.15, 0.3 and 0.45 (nose slopes 0.3, 0.6 and 0.9, the
-	// steepest lines the campaign draws); 0.22 covers them.
-	noseBiasFactor = 0.22
+	// steepest lines the campaign draws). The camber the steep line
+	// carries bows the sag up by nearly as much, so the sag of such a
+	// section reads down right way up (and up upside down) by the
+	// difference only: at most 0.107 times h·h' over all of Report 824's
+	// 5-digit lines (design lift 0.15–0.45, greatest camber at 5–25 %,
+	// plain and reflexed) at 10–24 % thickness, at 0.107 for the 31024
+	// (fitted from 200 exact points a surface with 0.01/300 chord of
+	// noise, either way up); 0.13 covers it with a fifth to spare. A
+	// sag beyond that says which side is up, whatever the nose did.
+	noseBiasFactor = 0.13
 	// sagAftFrom is the first station of the mean line's sag read aft of
 	// the nose, and sagAftFactor times the sag's least (sagMin) what it
 	// must bow there for the upper side to be plain whatever the nose

@@ -17,18 +17,35 @@ import (
 
 // detectSeparator returns the field separator of s (' ' for runs of blanks,
 // ',', ';' or '\t') and whether a decimal comma is allowed, judged from the
-// first lines that start like a number. Characters inside double quotes
-// (a quoted file name) do not count.
+// first lines that start like a number; when no line does (every line
+// starts with a label, "PNT1,12.5,3.25,0" as probe programs write), from
+// the first lines that hold a digit and are not comments. Characters
+// inside double quotes (a quoted file name) do not count.
 func detectSeparator(s string) (sep byte, decComma bool) {
+	if sep, decComma, seen := separatorOf(s, false); seen > 0 {
+		return sep, decComma
+	}
+	sep, decComma, _ = separatorOf(s, true)
+	return sep, decComma
+}
+
+// separatorOf is detectSeparator over the first 100 lines that start like a
+// number, or (labelled) that hold a digit and are not comments; seen is
+// the number of such lines.
+func separatorOf(s string, labelled bool) (sep byte, decComma bool, seen int) {
 	var semi, tab, comma, commaSpaced, commaInNumber bool
 	lines := lineScanner{s: s}
-	for seen := 0; seen < 100; {
+	for seen < 100 {
 		line, _, ok := lines.next()
 		if !ok {
 			break
 		}
 		t := strings.TrimSpace(line)
-		if u := strings.TrimLeft(t, "\""); u == "" || !numberStart(u[0]) {
+		if labelled {
+			if t == "" || isComment(t) || strings.IndexAny(t, "0123456789") < 0 {
+				continue
+			}
+		} else if u := strings.TrimLeft(t, "\""); u == "" || !numberStart(u[0]) {
 			continue
 		}
 		seen++
@@ -58,15 +75,15 @@ func detectSeparator(s string) (sep byte, decComma bool) {
 	}
 	switch {
 	case semi:
-		return ';', true
+		return ';', true, seen
 	case tab && comma && commaInNumber && !commaSpaced:
-		return '\t', true
+		return '\t', true, seen
 	case comma:
-		return ',', false
+		return ',', false, seen
 	case tab:
-		return '\t', true
+		return '\t', true, seen
 	}
-	return ' ', false
+	return ' ', false, seen
 }
 
 func isDigit(c byte) bool { return c >= '0' && c <= '9' }
@@ -268,6 +285,7 @@ type delimitedReader struct {
 	guessed  bool     // no header named the columns and the lines hold more numbers than were read
 	started  bool     // a data line has been read
 	counted  bool     // a point-count line has been seen
+	run      int      // numbers in a row (up to 4) from the first coordinate on the first data line
 
 	header     []string // the last text line before the data, split
 	headerLine int
@@ -341,7 +359,42 @@ func readDelimited(s, name, columns string) (*geometry.Cloud, statedUnit, error)
 	c.Name = d.title
 	c.Notes = d.notes.List(name)
 	c.Columns, c.ColumnsGuessed = d.describeColumns(), d.guessed
+	if !d.explicit && !d.named && len(d.cols) == 3 && d.run >= 3 && counts(c.Points) {
+		// The first column numbers the points (1, 2, 3, … as a probe
+		// program or a spreadsheet writes them, common practice): the
+		// coordinates are the numbers after it.
+		from := d.cols[0] + 1
+		cols := make([]string, min(d.run-1, 3))
+		for j := range cols {
+			cols[j] = strconv.Itoa(from + j + 1)
+		}
+		c2, unit, err := readDelimited(s, name, strings.Join(cols, ","))
+		if err != nil {
+			return nil, unit, err
+		}
+		c2.Columns = fmt.Sprintf("%s (column %d numbers the points 1, 2, 3, …; the numbers after it)", strings.Join(cols, ", "), from)
+		return c2, unit, nil
+	}
 	return c, d.unit, nil
+}
+
+// minCounted is the least number of points whose first column, running
+// 1, 2, 3, …, is taken for point numbers rather than a coordinate.
+const minCounted = 10
+
+// counts reports whether the first coordinate of ps runs on by exactly 1
+// from point to point, from any start (point numbers, not a coordinate:
+// a section's outline turns back along every axis).
+func counts(ps []geometry.Vec3) bool {
+	if len(ps) < minCounted {
+		return false
+	}
+	for i, p := range ps {
+		if p.X != ps[0].X+float64(i) {
+			return false
+		}
+	}
+	return true
 }
 
 // describeColumns says which columns were read as the coordinates and
@@ -484,12 +537,14 @@ func (d *delimitedReader) resolve(fields []string, no int, t string) (bool, erro
 		}
 	}
 	k := 0
-	for first+k < len(fields) && k < 3 {
+	for first+k < len(fields) && k < 4 { // a fourth tells x, y, z after point numbers
 		if _, num := parseNumber(fields[first+k], d.decComma); !num {
 			break
 		}
 		k++
 	}
+	d.run = k
+	k = min(k, 3)
 	switch {
 	case k >= 2:
 		if ok, err := d.headerAxes(fields); ok || err != nil {

@@ -2,6 +2,9 @@ package pointfile
 
 import (
 	"errors"
+	"fmt"
+	"math"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -331,5 +334,91 @@ func TestReadNoteCap(t *testing.T) {
 	}
 	if len(c.Notes) != geometry.MaxNotes+1 || !strings.Contains(c.Notes[geometry.MaxNotes].Reason, "2000 more") {
 		t.Errorf("%d notes, last %q; want %d and a count of 2000 more", len(c.Notes), c.Notes[len(c.Notes)-1].Reason, geometry.MaxNotes+1)
+	}
+}
+
+// TestReadPointNumbersAndLabels checks two ways probe programs and
+// spreadsheets write points: a first column that numbers them (1, 2, 3, …,
+// no header) is not read as x, and a label before the numbers of every
+// line ("PNT1,x,y,z") is skipped with any separator. The coordinates must
+// come back exactly as written, and a first column that does not count by
+// one, or counts over too few lines, stays a coordinate.
+func TestReadPointNumbersAndLabels(t *testing.T) {
+	const n = 24
+	xs, ys, zs := make([]string, n), make([]string, n), make([]string, n)
+	want2, want3 := make([]geometry.Vec3, n), make([]geometry.Vec3, n)
+	for i := range n {
+		a := 2 * math.Pi * float64(i) / n
+		x, y, z := math.Round(1e4*(1500+50*math.Cos(a)))/1e4, math.Round(1e4*(200+6*math.Sin(a)))/1e4, 35.0
+		xs[i], ys[i], zs[i] = strconv.FormatFloat(x, 'g', -1, 64), strconv.FormatFloat(y, 'g', -1, 64), strconv.FormatFloat(z, 'g', -1, 64)
+		want2[i], want3[i] = geometry.Vec3{X: x, Y: y}, geometry.Vec3{X: x, Y: y, Z: z}
+	}
+	rows := func(f func(i int) string) string {
+		var b strings.Builder
+		for i := range n {
+			b.WriteString(f(i) + "\n")
+		}
+		return b.String()
+	}
+	numbered := " (column 1 numbers the points 1, 2, 3, …; the numbers after it)"
+	for _, tc := range []struct {
+		name    string
+		in      string
+		want    []geometry.Vec3
+		columns string
+	}{
+		{"numbered, comma", rows(func(i int) string { return fmt.Sprintf("%d,%s,%s", i+1, xs[i], ys[i]) }), want2, "2, 3" + numbered},
+		{"numbered from 0, blanks, z", rows(func(i int) string { return fmt.Sprintf("%d  %s  %s  %s", i, xs[i], ys[i], zs[i]) }), want3, "2, 3, 4" + numbered},
+		{"labels, comma", rows(func(i int) string { return fmt.Sprintf("PNT%d,%s,%s,%s", i+1, xs[i], ys[i], zs[i]) }), want3, "2, 3, 4 (the numbers of each line)"},
+		{"labels, tab", rows(func(i int) string { return fmt.Sprintf("P_%03d\t%s\t%s", i+1, xs[i], ys[i]) }), want2, "2, 3 (the numbers of each line)"},
+		{"labels, semicolon, decimal comma", rows(func(i int) string {
+			return fmt.Sprintf("pt%d;%s;%s", i+1, strings.Replace(xs[i], ".", ",", 1), strings.Replace(ys[i], ".", ",", 1))
+		}), want2, "2, 3 (the numbers of each line)"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			c, err := Read(strings.NewReader(tc.in), "in.txt", Options{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			dim := 2
+			if tc.want[0].Z != 0 {
+				dim = 3
+			}
+			if len(c.Points) != len(tc.want) || c.Dim != dim {
+				t.Fatalf("%d points of dim %d (%s), want %d of dim %d", len(c.Points), c.Dim, c.Columns, len(tc.want), dim)
+			}
+			for i := range tc.want {
+				if c.Points[i] != tc.want[i] {
+					t.Fatalf("point %d = %v, want %v", i, c.Points[i], tc.want[i])
+				}
+			}
+			if c.Columns != tc.columns || c.ColumnsGuessed {
+				t.Errorf("columns %q (guessed %v), want %q", c.Columns, c.ColumnsGuessed, tc.columns)
+			}
+		})
+	}
+	// Not point numbers: a step of 2, a gap, or fewer lines than minCounted.
+	for _, tc := range []struct {
+		name string
+		rows int
+		num  func(i int) int
+	}{
+		{"step 2", n, func(i int) int { return 2 * i }},
+		{"a gap", n, func(i int) int { return i + i/12 }},
+		{"too few lines", minCounted - 1, func(i int) int { return i + 1 }},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			var b strings.Builder
+			for i := range tc.rows {
+				fmt.Fprintf(&b, "%d,%s,%s\n", tc.num(i), xs[i], ys[i])
+			}
+			c, err := Read(strings.NewReader(b.String()), "in.txt", Options{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if c.Dim != 3 || c.Points[1].X != float64(tc.num(1)) || c.Columns != "1, 2, 3 (the numbers of each line)" {
+				t.Errorf("dim %d, point 1 %v, columns %q: want the first column read as x", c.Dim, c.Points[1], c.Columns)
+			}
+		})
 	}
 }

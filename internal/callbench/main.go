@@ -21,7 +21,10 @@
 //   - transport: the batch's vortex-panel request -batch times to a stage
 //     process that answers every call with the reply it computed for the
 //     first (a built-in stage wrapped as "replay-NAME"): what a call
-//     through a child process costs with no solver at all.
+//     through a child process costs with no solver at all;
+//   - null: -batch health checks of that stage process (go-plugin's gRPC
+//     health service, a few bytes each way): the round trip between the
+//     two processes with nothing to encode, the floor under every call.
 //
 // It prints the round as one JSON line. With -table it reads the lines of
 // two trees (-before, -after) and the run folders they wrote, and prints
@@ -120,6 +123,19 @@ type roundResult struct {
 	// for the first: the transport alone (encoding, the round trip, the
 	// host's decoding and checks).
 	Replay float64 `json:"replay_ms,omitempty"`
+	// Null is -batch health checks of the replaying stage's process:
+	// the round trip alone.
+	Null float64 `json:"null_ms,omitempty"`
+	// BatchInCPU and BatchSubCPU are the processor time of the two
+	// batches: this process's threads in process; this process's and the
+	// three stage processes' through child processes (Linux; zero
+	// elsewhere). On a shared machine they say what the calls cost where
+	// wall times say how the machine was shared.
+	BatchInCPU  float64 `json:"batch_in_cpu_ms,omitempty"`
+	BatchSubCPU float64 `json:"batch_sub_cpu_ms,omitempty"`
+	// ReplayCPU is the processor time of the transport's calls, this
+	// process's and the replaying stage's.
+	ReplayCPU float64 `json:"replay_cpu_ms,omitempty"`
 	// Calls is the number of calls of a batch (-batch).
 	Calls int `json:"calls,omitempty"`
 }
@@ -225,7 +241,9 @@ func round(o options, w io.Writer) error {
 			stages[i], _ = builtin.Lookup(c.stage)
 			subs[i] = runners[c.stage]
 		}
+		self := os.Getpid()
 		in := func() error {
+			c := cpuTime(self)
 			t := time.Now()
 			for i, req := range reqs {
 				out, err := stages[i%len(stages)].Run(ctx, req)
@@ -239,9 +257,18 @@ func round(o options, w io.Writer) error {
 				}
 			}
 			res.BatchIn = ms(time.Since(t))
+			res.BatchInCPU = ms(cpuTime(self) - c)
 			return nil
 		}
+		subCPU := func() time.Duration {
+			d := cpuTime(self)
+			for _, r := range subs {
+				d += cpuTime(r.Pid())
+			}
+			return d
+		}
 		sub := func() error {
+			c := subCPU()
 			t := time.Now()
 			for i, req := range reqs {
 				if _, err := subs[i%len(subs)].Run(ctx, req); err != nil {
@@ -249,6 +276,7 @@ func round(o options, w io.Writer) error {
 				}
 			}
 			res.BatchSub = ms(time.Since(t))
+			res.BatchSubCPU = ms(subCPU() - c)
 			return nil
 		}
 		// One untimed call of each, then the batches in this round's order.
@@ -265,6 +293,7 @@ func round(o options, w io.Writer) error {
 			if _, err := replayed.Run(ctx, reqs[0]); err != nil { // computes the reply
 				return err
 			}
+			c := cpuTime(self) + cpuTime(replayed.Pid())
 			t := time.Now()
 			for _, req := range reqs {
 				if _, err := replayed.Run(ctx, req); err != nil {
@@ -272,11 +301,25 @@ func round(o options, w io.Writer) error {
 				}
 			}
 			res.Replay = ms(time.Since(t))
+			res.ReplayCPU = ms(cpuTime(self) + cpuTime(replayed.Pid()) - c)
 			return nil
 		}
-		order := []func() error{in, sub, rep}
+		null := func() error {
+			if err := replayed.Ping(ctx); err != nil {
+				return err
+			}
+			t := time.Now()
+			for range reqs {
+				if err := replayed.Ping(ctx); err != nil {
+					return err
+				}
+			}
+			res.Null = ms(time.Since(t))
+			return nil
+		}
+		order := []func() error{in, sub, rep, null}
 		if o.round%2 == 1 {
-			order = []func() error{rep, sub, in}
+			order = []func() error{null, rep, sub, in}
 		}
 		for _, f := range order {
 			if err := f(); err != nil {
@@ -309,6 +352,32 @@ func batchRequests(n int) []stage.Request {
 	return reqs
 }
 
+// cpuTime returns the processor time the threads of process pid have run
+// so far, from /proc/PID/task/*/schedstat (Linux; 0 where there is no
+// such file). A thread that ended took its time with it: the drivers'
+// and stages' threads live as long as their process.
+func cpuTime(pid int) time.Duration {
+	if pid <= 0 {
+		return 0
+	}
+	tasks, err := os.ReadDir(fmt.Sprintf("/proc/%d/task", pid))
+	if err != nil {
+		return 0
+	}
+	var sum time.Duration
+	for _, t := range tasks {
+		b, err := os.ReadFile(fmt.Sprintf("/proc/%d/task/%s/schedstat", pid, t.Name()))
+		if err != nil {
+			continue
+		}
+		var ns int64
+		if _, err := fmt.Sscan(string(b), &ns); err == nil {
+			sum += time.Duration(ns)
+		}
+	}
+	return sum
+}
+
 func ms(d time.Duration) float64 { return float64(d) / float64(time.Millisecond) }
 
 // table prints the figures of the two trees.
@@ -330,6 +399,13 @@ func table(o options, w io.Writer) error {
 	}
 	fmt.Fprintf(w, "| any stage call beyond the solver's own time, ms | ≤ 1 | %s | %s |\n", overhead(before, ""), overhead(after, ""))
 	fmt.Fprintf(w, "| 200 calls, child process / in process | ≤ 1.1 | %s | %s |\n", ratio(before), ratio(after))
+	cpuRatio := func(r roundResult) float64 {
+		if r.BatchInCPU > 0 && r.BatchSubCPU > 0 {
+			return r.BatchSubCPU / r.BatchInCPU
+		}
+		return 0
+	}
+	fmt.Fprintf(w, "| 200 calls, child process / in process, processor time of all processes | | %s | %s |\n", spread(before, cpuRatio), spread(after, cpuRatio))
 	fmt.Fprintf(w, "| 200 calls in process, ms | | %s | %s |\n", spread(before, func(r roundResult) float64 { return r.BatchIn }), spread(after, func(r roundResult) float64 { return r.BatchIn }))
 	fmt.Fprintf(w, "| 200 calls through child processes, ms | | %s | %s |\n", spread(before, func(r roundResult) float64 { return r.BatchSub }), spread(after, func(r roundResult) float64 { return r.BatchSub }))
 	calls := func(r roundResult) float64 {
@@ -342,6 +418,10 @@ func table(o options, w io.Writer) error {
 	fmt.Fprintf(w, "| 200 calls, what a child process adds per call, ms | | %s | %s |\n", spread(before, perCall), spread(after, perCall))
 	replay := func(r roundResult) float64 { return r.Replay / calls(r) }
 	fmt.Fprintf(w, "| of which the transport: a call answered with a stored vortex-panel reply, ms | | %s | %s |\n", spread(before, replay), spread(after, replay))
+	replayCPU := func(r roundResult) float64 { return r.ReplayCPU / calls(r) }
+	fmt.Fprintf(w, "| the same, processor time of both processes per call, ms | | %s | %s |\n", spread(before, replayCPU), spread(after, replayCPU))
+	null := func(r roundResult) float64 { return r.Null / calls(r) }
+	fmt.Fprintf(w, "| of which the round trip: a null call (health check) to the same process, ms | | %s | %s |\n", spread(before, null), spread(after, null))
 	sb, err := folders(o.foldersBefore)
 	if err != nil {
 		return err

@@ -306,8 +306,9 @@ func (d drawer) shape(pRound float64) ShapeSpec {
 	case "mod":
 		var m *ModNACA4Spec
 		// Some combinations of a small nose and a far, steep aft piece
-		// have no positive thickness everywhere: draw again (the sixth
-		// draw keeps the normal nose, which always has).
+		// have no positive thickness everywhere, and some of a large
+		// nose with them a waist (ModNACA4Spec.waist): draw again (the
+		// sixth draw keeps the normal nose, which always has neither).
 		for try := 0; ; try++ {
 			m = &ModNACA4Spec{Thickness: d.thickness(), NoseIndex: d.uniform(2, 9), MaxPos: float64(3+d.rng.IntN(4)) / 10, ClosedTE: d.coin(0.5)}
 			// The trailing-edge slope of Abbott and von Doenhoff's table

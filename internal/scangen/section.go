@@ -174,6 +174,9 @@ func (s ShapeSpec) form() (xForm, error) {
 	if m == nil || !(m.Thickness > 0) || m.Thickness > 0.4 || !(m.MaxPos >= 0.2 && m.MaxPos <= 0.7) || !(m.NoseIndex > 0) || !(m.TESlope >= 0) {
 		return xForm{}, fmt.Errorf("scangen: 4-digit-modified section needs a thickness in (0, 0.4], M in [0.2, 0.7], I > 0 and d₁ ≥ 0")
 	}
+	if x, ok := m.waist(); ok {
+		return xForm{}, fmt.Errorf("scangen: 4-digit-modified section I %.3g, M %.2g, d₁ %.3g: its thickness falls forward of its thickest point (at x = %.3f), a waist, not a section", m.NoseIndex, m.MaxPos, m.TESlope, x)
+	}
 	n4 := NACASpec{Camber: m.Camber, CamberPos: m.CamberPos, Thickness: m.Thickness}.shape()
 	f := xForm{thick: m.thickness(), camber: func(x float64) (float64, float64) { return n4.CamberLine(math.Min(math.Max(x, 0), 1)) }}
 	return f, f.check("4-digit-modified")

@@ -266,3 +266,41 @@ func TestFlatBottom(t *testing.T) {
 		t.Errorf("lower surface at the nose (x = 0.1) at y = %g, want below the flat", p.Y)
 	}
 }
+
+// A 4-digit-modified thickness form rises from the nose to its thickest
+// point M and falls from there to the tail for the table's M and d₁
+// (Abbott and von Doenhoff, §6.5; slopes from memory) at every nose
+// index; the generator refuses a waist (I 8.03, M 0.6 and a cusp's d₁
+// 0.050, drawn once for campaign seed 2367: 0.0012 c thick at 15–20 %
+// of the chord against 0.11 c at M), and Draw never returns one.
+func TestModNACA4Waist(t *testing.T) {
+	slopes := map[float64]float64{0.3: 0.234, 0.4: 0.315, 0.5: 0.465, 0.6: 0.700}
+	for M, d1 := range slopes {
+		for I := 2.0; I <= 9; I += 0.5 {
+			for _, closed := range []bool{false, true} {
+				s := ModNACA4Spec{Thickness: 0.12, NoseIndex: I, MaxPos: M, TESlope: d1, ClosedTE: closed}
+				if x, ok := s.waist(); ok {
+					t.Errorf("%+v: waist at x = %g", s, x)
+				}
+			}
+		}
+	}
+	bad := ModNACA4Spec{Camber: 0.06, CamberPos: 0.3, Thickness: 0.11, NoseIndex: 8.03470006129442, MaxPos: 0.6, TESlope: 0.050150000807613906, ClosedTE: true}
+	f := bad.thickness()
+	if y, _ := f(0.175); y > 0.02*bad.Thickness/2 {
+		t.Fatalf("%+v: half thickness %g at x = 0.175; the check below needs the waist", bad, y)
+	}
+	if x, ok := bad.waist(); !ok || x > 0.2 {
+		t.Errorf("%+v: waist %v at x = %g, want one before 0.2", bad, ok, x)
+	}
+	if _, err := (ShapeSpec{Family: FamilyModNACA, Mod: &bad}).form(); err == nil {
+		t.Errorf("%+v: form accepted a waist", bad)
+	}
+	for seed := uint64(2001); seed <= 2600; seed++ { // 2367 among them
+		if m := Draw(seed).Shape.Mod; m != nil {
+			if x, ok := m.waist(); ok {
+				t.Errorf("seed %d: drew %+v with a waist at x = %g", seed, *m, x)
+			}
+		}
+	}
+}

@@ -105,6 +105,31 @@ func (s ModNACA4Spec) thickness() func(x float64) (float64, float64) {
 	}
 }
 
+// waist reports whether the thickness form falls anywhere between the
+// nose and M, or rises between M and the tail, and where first: a
+// section has one thickest point. The table's combinations (Abbott and
+// von Doenhoff, §6.5) all rise to M and fall after it; a large nose
+// index with M = 0.6 and a cusp's small d₁ does not: the aft piece's
+// strong curvature at M, carried into the forward piece, bends it down
+// to almost nothing at 15–20 % of the chord (I 8.03, M 0.6, d₁ 0.050:
+// 0.0012 c thick there, under 2 % of its 0.11 c), and no measured part
+// has that shape.
+func (s ModNACA4Spec) waist() (float64, bool) {
+	const n = 2000
+	f := s.thickness()
+	prev, _ := f(0)
+	for i := 1; i <= n; i++ {
+		x := float64(i) / n
+		y, _ := f(x)
+		// 1e-12 of the half thickness 0.1 (t/0.2 = 1): rounding, not shape.
+		if (x <= s.MaxPos && y < prev-1e-12*s.Thickness) || (x > s.MaxPos && y > prev+1e-12*s.Thickness) {
+			return x, true
+		}
+		prev = y
+	}
+	return 0, false
+}
+
 // FlatSpec is a flat-bottomed section, constructed here: the closed NACA
 // 4-digit thickness yt (Report 824) laid vertically about the mean line
 // yc = yt·w(x/F), w(s) = 6s⁵ − 15s⁴ + 10s³ (1 beyond F), so that

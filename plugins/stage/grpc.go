@@ -89,6 +89,10 @@ func (c *Client) Run(ctx context.Context, req Request) (Result, error) {
 	if err != nil {
 		return Result{}, err
 	}
+	// The reply's packed result is read straight from the wire into a
+	// result document (replywire.go).
+	codec := &replyCodec{}
+	opts = append(opts, grpc.ForceCodecV2(codec))
 	resp, err := c.rpc.Run(ctx, in, opts...)
 	if err != nil {
 		return Result{}, err
@@ -101,11 +105,17 @@ func (c *Client) Run(ctx context.Context, req Request) (Result, error) {
 		return Result{}, &RemoteError{Code: code, Message: msg}
 	}
 	res := Result{Warnings: resp.GetWarnings()}
-	if m := resp.GetResult(); m != nil {
+	switch m := resp.GetResult(); {
+	case codec.direct && codec.packed:
+		if codec.err != nil {
+			return Result{}, codec.err
+		}
+		res.Doc = codec.doc
+	case m != nil:
 		if res.Doc, err = ResultFromProto(m); err != nil {
 			return Result{}, err
 		}
-	} else {
+	default:
 		res.JSON = resp.GetResultJson()
 	}
 	for _, a := range resp.GetArtifacts() {

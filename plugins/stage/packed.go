@@ -117,117 +117,161 @@ func unnull(vs []*float64) []float64 {
 // there is null), a column's length differs from that of its points, or a
 // case's points are given nowhere.
 func ResultFromProto(m *stagev1.Result) (*ResultDoc, error) {
-	bad := func(format string, args ...any) error {
-		return fmt.Errorf("%w: packed result: "+format, append([]any{ErrMalformed}, args...)...)
+	d, err := packedHead(m.GetStage(), m.GetVersion(), m.GetScalars(), m.GetWarnings(), m.GetCheckNames(),
+		m.GetCpX(), m.GetCpY(), len(m.GetCases()))
+	if err != nil {
+		return nil, err
 	}
-	if m.GetStage() == "" || m.GetVersion() == "" {
-		return nil, bad("stage %q, version %q: want both", m.GetStage(), m.GetVersion())
-	}
-	d := &ResultDoc{
-		Format:   ResultFormat,
-		Stage:    m.GetStage(),
-		Version:  m.GetVersion(),
-		Scalars:  map[string]float64{},
-		Cases:    make([]*Case, len(m.GetCases())),
-		Warnings: append([]string{}, m.GetWarnings()...),
-	}
-	if err := finiteMap(m.GetScalars(), "scalar"); err != nil {
-		return nil, bad("%v", err)
-	}
-	for k, v := range m.GetScalars() {
-		d.Scalars[k] = v
-	}
-	if names := m.GetCheckNames(); len(names) > 0 {
-		seen := make(map[string]bool, len(names))
-		for _, n := range names {
-			if n == "" || seen[n] {
-				return nil, bad("check name %q is empty or given twice", n)
-			}
-			seen[n] = true
-		}
-	}
-	if len(m.GetCpX()) != len(m.GetCpY()) {
-		return nil, bad("%d cp_x and %d cp_y", len(m.GetCpX()), len(m.GetCpY()))
-	}
+	shared := sharedColumns{cpX: m.GetCpX(), cpY: m.GetCpY(), loadX: m.GetLoadX(), checkNames: m.GetCheckNames()}
 	for i, c := range m.GetCases() {
 		if c.GetFailed() {
 			continue
 		}
-		if !finite(c.GetAlphaDeg()) || !finite(c.GetCl()) || !finite(c.GetCmC4()) {
-			return nil, bad("case %d: alpha_deg %g, cl %g, cm_c4 %g: want finite numbers (mark a failed case failed, with a warning)",
-				i, c.GetAlphaDeg(), c.GetCl(), c.GetCmC4())
+		cols := caseColumns{
+			alpha: c.GetAlphaDeg(), cl: c.GetCl(), cm: c.GetCmC4(),
+			checks: c.GetChecks(), cp: c.GetCp(), cpX: c.GetCpX(), cpY: c.GetCpY(),
+			loadDcp: c.GetLoadDcp(), loadX: c.GetLoadX(), field: c.GetField(),
 		}
-		out := &Case{AlphaDeg: c.GetAlphaDeg(), CL: c.GetCl(), CMc4: c.GetCmC4()}
-		if vals := c.GetChecks(); len(vals) > 0 {
-			names := m.GetCheckNames()
-			if len(vals) != len(names) {
-				return nil, bad("case %d: %d check value(s) for %d check_names", i, len(vals), len(names))
-			}
-			out.Checks = make(map[string]float64, len(vals))
-			for k, v := range vals {
-				switch {
-				case math.IsNaN(v): // no such check in this case
-				case math.IsInf(v, 0):
-					return nil, bad("case %d: check %s is %g", i, names[k], v)
-				default:
-					out.Checks[names[k]] = v
-				}
-			}
+		if d.Cases[i], err = cols.result(i, &shared); err != nil {
+			return nil, err
 		}
-		if cp := c.GetCp(); len(cp) > 0 {
-			xs, ys := c.GetCpX(), c.GetCpY()
-			if len(xs) == 0 && len(ys) == 0 {
-				xs, ys = m.GetCpX(), m.GetCpY()
-			}
-			if len(xs) != len(cp) || len(ys) != len(cp) {
-				return nil, bad("case %d: %d cp value(s) at %d x and %d y (points given nowhere?)", i, len(cp), len(xs), len(ys))
-			}
-			out.Cp = make([]CpPoint, len(cp))
-			for k := range cp {
-				// v-v is 0 for a finite v, NaN for NaN and infinities.
-				if cp[k]-cp[k] != 0 || xs[k]-xs[k] != 0 || ys[k]-ys[k] != 0 {
-					return nil, bad("case %d: cp point %d is (%g, %g, %g)", i, k, xs[k], ys[k], cp[k])
-				}
-				out.Cp[k] = CpPoint{X: xs[k], Y: ys[k], Cp: cp[k]}
-			}
-		}
-		if dcp := c.GetLoadDcp(); len(dcp) > 0 {
-			xs := c.GetLoadX()
-			if len(xs) == 0 {
-				xs = m.GetLoadX()
-			}
-			if len(xs) != len(dcp) {
-				return nil, bad("case %d: %d load value(s) at %d x (stations given nowhere?)", i, len(dcp), len(xs))
-			}
-			out.Load = make([]LoadPoint, len(dcp))
-			for k := range dcp {
-				if dcp[k]-dcp[k] != 0 || xs[k]-xs[k] != 0 {
-					return nil, bad("case %d: load point %d is (%g, %g)", i, k, xs[k], dcp[k])
-				}
-				out.Load[k] = LoadPoint{X: xs[k], DCp: dcp[k]}
-			}
-		}
-		if f := c.GetField(); f != nil {
-			nx, ny := int(f.GetNx()), int(f.GetNy())
-			if nx < 0 || ny < 0 || nx*ny != len(f.GetPsi()) || len(f.GetPsi()) != len(f.GetCp()) {
-				return nil, bad("case %d: field of %d × %d points has %d psi and %d cp", i, nx, ny, len(f.GetPsi()), len(f.GetCp()))
-			}
-			if !finite(f.GetX0()) || !finite(f.GetY0()) || !finite(f.GetDx()) || !finite(f.GetDy()) {
-				return nil, bad("case %d: field grid (%g, %g) step (%g, %g): want finite numbers", i, f.GetX0(), f.GetY0(), f.GetDx(), f.GetDy())
-			}
-			psi, err := nullable(f.GetPsi())
-			if err != nil {
-				return nil, bad("case %d: field psi: %v", i, err)
-			}
-			cp, err := nullable(f.GetCp())
-			if err != nil {
-				return nil, bad("case %d: field cp: %v", i, err)
-			}
-			out.Field = &Field{X0: f.GetX0(), Y0: f.GetY0(), DX: f.GetDx(), DY: f.GetDy(), NX: nx, NY: ny, Psi: psi, Cp: cp}
-		}
-		d.Cases[i] = out
 	}
 	return d, nil
+}
+
+// malformedPacked returns an error wrapping ErrMalformed about a packed
+// result.
+func malformedPacked(format string, args ...any) error {
+	return fmt.Errorf("%w: packed result: "+format, append([]any{ErrMalformed}, args...)...)
+}
+
+// packedHead checks what a packed Result gives besides its cases and
+// returns the result document with n cases, all nil yet. The values are
+// those of the message's fields stage, version, scalars, warnings,
+// check_names, cp_x and cp_y; the maps and slices are copied.
+func packedHead(stageName, version string, scalars map[string]float64, warnings, checkNames []string, cpX, cpY []float64, n int) (*ResultDoc, error) {
+	if stageName == "" || version == "" {
+		return nil, malformedPacked("stage %q, version %q: want both", stageName, version)
+	}
+	d := &ResultDoc{
+		Format:   ResultFormat,
+		Stage:    stageName,
+		Version:  version,
+		Scalars:  make(map[string]float64, len(scalars)),
+		Cases:    make([]*Case, n),
+		Warnings: append([]string{}, warnings...),
+	}
+	if err := finiteMap(scalars, "scalar"); err != nil {
+		return nil, malformedPacked("%v", err)
+	}
+	for k, v := range scalars {
+		d.Scalars[k] = v
+	}
+	if len(checkNames) > 0 {
+		seen := make(map[string]bool, len(checkNames))
+		for _, n := range checkNames {
+			if n == "" || seen[n] {
+				return nil, malformedPacked("check name %q is empty or given twice", n)
+			}
+			seen[n] = true
+		}
+	}
+	if len(cpX) != len(cpY) {
+		return nil, malformedPacked("%d cp_x and %d cp_y", len(cpX), len(cpY))
+	}
+	return d, nil
+}
+
+// sharedColumns are the columns of a packed Result its cases refer to.
+type sharedColumns struct {
+	cpX, cpY, loadX []float64
+	checkNames      []string
+}
+
+// caseColumns are the fields of a packed Case.
+type caseColumns struct {
+	failed                               bool
+	alpha, cl, cm                        float64
+	checks, cp, cpX, cpY, loadDcp, loadX []float64
+	field                                *stagev1.Field
+}
+
+// result checks the columns of case i and returns the case of the result
+// document, its slices and maps its own.
+func (c *caseColumns) result(i int, shared *sharedColumns) (*Case, error) {
+	if !finite(c.alpha) || !finite(c.cl) || !finite(c.cm) {
+		return nil, malformedPacked("case %d: alpha_deg %g, cl %g, cm_c4 %g: want finite numbers (mark a failed case failed, with a warning)",
+			i, c.alpha, c.cl, c.cm)
+	}
+	out := &Case{AlphaDeg: c.alpha, CL: c.cl, CMc4: c.cm}
+	if vals := c.checks; len(vals) > 0 {
+		names := shared.checkNames
+		if len(vals) != len(names) {
+			return nil, malformedPacked("case %d: %d check value(s) for %d check_names", i, len(vals), len(names))
+		}
+		out.Checks = make(map[string]float64, len(vals))
+		for k, v := range vals {
+			switch {
+			case math.IsNaN(v): // no such check in this case
+			case math.IsInf(v, 0):
+				return nil, malformedPacked("case %d: check %s is %g", i, names[k], v)
+			default:
+				out.Checks[names[k]] = v
+			}
+		}
+	}
+	if cp := c.cp; len(cp) > 0 {
+		xs, ys := c.cpX, c.cpY
+		if len(xs) == 0 && len(ys) == 0 {
+			xs, ys = shared.cpX, shared.cpY
+		}
+		if len(xs) != len(cp) || len(ys) != len(cp) {
+			return nil, malformedPacked("case %d: %d cp value(s) at %d x and %d y (points given nowhere?)", i, len(cp), len(xs), len(ys))
+		}
+		out.Cp = make([]CpPoint, len(cp))
+		for k := range cp {
+			// v-v is 0 for a finite v, NaN for NaN and infinities.
+			if cp[k]-cp[k] != 0 || xs[k]-xs[k] != 0 || ys[k]-ys[k] != 0 {
+				return nil, malformedPacked("case %d: cp point %d is (%g, %g, %g)", i, k, xs[k], ys[k], cp[k])
+			}
+			out.Cp[k] = CpPoint{X: xs[k], Y: ys[k], Cp: cp[k]}
+		}
+	}
+	if dcp := c.loadDcp; len(dcp) > 0 {
+		xs := c.loadX
+		if len(xs) == 0 {
+			xs = shared.loadX
+		}
+		if len(xs) != len(dcp) {
+			return nil, malformedPacked("case %d: %d load value(s) at %d x (stations given nowhere?)", i, len(dcp), len(xs))
+		}
+		out.Load = make([]LoadPoint, len(dcp))
+		for k := range dcp {
+			if dcp[k]-dcp[k] != 0 || xs[k]-xs[k] != 0 {
+				return nil, malformedPacked("case %d: load point %d is (%g, %g)", i, k, xs[k], dcp[k])
+			}
+			out.Load[k] = LoadPoint{X: xs[k], DCp: dcp[k]}
+		}
+	}
+	if f := c.field; f != nil {
+		nx, ny := int(f.GetNx()), int(f.GetNy())
+		if nx < 0 || ny < 0 || nx*ny != len(f.GetPsi()) || len(f.GetPsi()) != len(f.GetCp()) {
+			return nil, malformedPacked("case %d: field of %d × %d points has %d psi and %d cp", i, nx, ny, len(f.GetPsi()), len(f.GetCp()))
+		}
+		if !finite(f.GetX0()) || !finite(f.GetY0()) || !finite(f.GetDx()) || !finite(f.GetDy()) {
+			return nil, malformedPacked("case %d: field grid (%g, %g) step (%g, %g): want finite numbers", i, f.GetX0(), f.GetY0(), f.GetDx(), f.GetDy())
+		}
+		psi, err := nullable(f.GetPsi())
+		if err != nil {
+			return nil, malformedPacked("case %d: field psi: %v", i, err)
+		}
+		cp, err := nullable(f.GetCp())
+		if err != nil {
+			return nil, malformedPacked("case %d: field cp: %v", i, err)
+		}
+		out.Field = &Field{X0: f.GetX0(), Y0: f.GetY0(), DX: f.GetDx(), DY: f.GetDy(), NX: nx, NY: ny, Psi: psi, Cp: cp}
+	}
+	return out, nil
 }
 
 // nullable returns vs with NaN as nil; an infinity is an error.

@@ -27,10 +27,12 @@ import numpy as np
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
 
+import hidden  # noqa: E402
 import naca  # noqa: E402
 import outline as ol  # noqa: E402
 import scan  # noqa: E402
 import score  # noqa: E402
+import shapes  # noqa: E402
 
 HERE = os.path.relpath(os.path.abspath(__file__))
 
@@ -84,9 +86,13 @@ def describe(spec):
         extra.append("shuffled")
     if pl["flip"] != "none":
         extra.append("flip " + pl["flip"])
+    if spec.get("class"):
+        c = spec["class"]
+        kv = "".join(" %s=%s" % (k, ("%.4g" % v) if isinstance(v, float) else v) for k, v in c.items() if k not in ("class", "plane"))
+        extra.append("[%s%s]" % (c["class"], kv))
     if spec.get("plane"):
         extra.append("3D tilt %.0f deg" % np.degrees(np.arccos(abs(spec["plane"]["normal"][2]))))
-    return "%s%s %s, %d pts %s sigma %.2f noise %.1e c, chord %.4g mm twist %.1f %s" % (
+    return "%s%s %s, %d pts %s sigma %.2f noise %.1e c, chord %.4g %s twist %.1f %s" % (
         sh["section"],
         "" if sh["closed_thickness"] else "(open)",
         te,
@@ -95,6 +101,7 @@ def describe(spec):
         sm["sigma"],
         sm["noise"],
         pl["chord_mm"],
+        spec.get("units", "mm"),
         pl["twist_deg"],
         " ".join(extra),
     )
@@ -104,6 +111,8 @@ def repro(args, r):
     extra = " --prep-args '%s'" % args.prep_args if args.prep_args else ""
     if args.planes:
         extra += " --planes %g" % args.planes
+    if r.get("cls"):
+        extra += " --class %s" % r["cls"]
     return "/usr/bin/python3 %s --prep %s --mode %s --case %d --keep /tmp/indep-%s-%d%s" % (
         HERE, r["prep"], r["mode"], r["seed"], r["mode"], r["seed"], extra)
 
@@ -134,7 +143,7 @@ def table(args, recs, specs, prep):
     well = [r for r in recs if r["well"]]
     well_ok = [r for r in well if r["rc"] == 0]
     wrong = [r for r in ok if r["wrong"]]
-    print("indep: %d cases, mode %s, seeds %s, prep %s%s" % (n, args.mode, args.seeds, prep, " " + args.prep_args if args.prep_args else ""))
+    print("indep: %d cases, mode %s, seeds %s%s, prep %s%s" % (n, args.mode, args.seeds, ", class " + args.cls if args.cls else "", prep, " " + args.prep_args if args.prep_args else ""))
     print()
     print("| figure | value |")
     print("| --- | --- |")
@@ -202,6 +211,8 @@ def table(args, recs, specs, prep):
             print("  %-22s %4d cases, succeed %5.1f %%, wrong %2d, TE right %5.1f %% of %d" % (
                 k, len(g), 100.0 * len(gok) / len(g), len(gw),
                 100.0 * sum(r["te_right"] for r in gd) / max(len(gd), 1), len(gd)))
+    if args.cls:
+        classes(recs, specs)
     breakdown("by trailing edge", lambda s, r: s["shape"]["te"])
     breakdown("by family", lambda s, r: s["shape"]["family"])
     breakdown("by points", lambda s, r: "<150" if s["points"] < 150 else ("<300" if s["points"] < 300 else ("<1000" if s["points"] < 1000 else ">=1000")))
@@ -242,6 +253,31 @@ def table(args, recs, specs, prep):
             print("    " + repro(args, r))
 
 
+def classes(recs, specs):
+    """The per-class table: succeeds, wrong beyond the bound, coverage of
+    chord/twist/LE/surface, TE kind right where decidable."""
+    groups = {}
+    for r in recs:
+        groups.setdefault(specs[(r["mode"], r["seed"])]["class"]["class"], []).append(r)
+    print("| class | cases | succeeds | wrong beyond bound | covered chord / twist / LE / surface | TE kind right | exit 2 | outliers caught | good dropped p95 |")
+    print("| --- | --- | --- | --- | --- | --- | --- | --- | --- |")
+    for name in hidden.CLASSES:
+        g = groups.get(name)
+        if not g:
+            continue
+        ok = [r for r in g if r["rc"] == 0]
+        wr = [r for r in ok if r["wrong"]]
+        st = [r for r in ok if r["stated"] is not None]
+        cov = " / ".join("%.1f" % (100.0 * sum(r["covered"][i] for r in st) / len(st)) if st else "-" for i in range(4))
+        dec = [r for r in ok if r["te_decidable"]]
+        dr = [100.0 * r["good_dropped"] / r["good"] for r in ok if r["good"]]
+        print("| %s | %d | %.1f %% | %d | %s %% | %s | %d | %s | %.2f %% |" % (
+            name, len(g), 100.0 * len(ok) / len(g), len(wr), cov,
+            pct(sum(r["te_right"] for r in dec), len(dec)), sum(1 for r in g if r["rc"] == 2),
+            pct(sum(r["caught"] for r in ok), sum(r["planted"] for r in ok)), q(dr, 95)))
+    print()
+
+
 def main():
     ap = argparse.ArgumentParser(description=__doc__.split("\n\n")[0])
     ap.add_argument("--prep", help="a built foilwright binary (go build -o /tmp/fw ./cmd/foilwright)")
@@ -249,15 +285,32 @@ def main():
     ap.add_argument("--prep-args", default="", help="more arguments for every prep run, e.g. \"--noise 0\" (split on blanks)")
     ap.add_argument("--planes", type=float, default=0.0, help="share of cases written in 3D, in a tilted plane (0 to 1; default 0)")
     ap.add_argument("--mode", default="normal", choices=["normal", "sparse"])
+    ap.add_argument("--class", dest="cls", default="", help="a practitioner's class layered on each case (hidden.py: %s), or all (class seed mod %d)" % (", ".join(hidden.CLASSES), len(hidden.CLASSES)))
     ap.add_argument("--seeds", default="1-300", help="seeds, e.g. 1-300 or 3,7,9")
     ap.add_argument("--case", type=int, help="run one seed and print everything about it")
     ap.add_argument("--keep", help="keep the point files and section documents in this folder")
     ap.add_argument("--records", help="write every record as a JSON line to this file")
     ap.add_argument("--worst", type=int, default=12, help="how many worst cases to list")
     ap.add_argument("--selftest", action="store_true", help="check the generator's formulas and conventions, run nothing")
+    ap.add_argument("--table", metavar="RECORDS", help="print the table of a --records file (of a run in progress too), run nothing")
     args = ap.parse_args()
+    if args.table:
+        recs, specs = [], {}
+        with open(args.table) as f:
+            for line in f:
+                try:
+                    d = json.loads(line)
+                except ValueError:
+                    break  # a line being written
+                recs.append(d["record"])
+                specs[(d["record"]["mode"], d["record"]["seed"])] = d["spec"]
+        args.mode = recs[0]["mode"] if recs else args.mode
+        args.cls = args.cls or ("all" if recs and recs[0].get("cls") else "")
+        args.seeds = "%s (%d records)" % (args.table, len(recs))
+        table(args, recs, specs, recs[0]["prep"] if recs else "")
+        return
     if args.selftest:
-        bad = naca.selftest() + conventions_selftest()
+        bad = naca.selftest() + shapes.selftest() + hidden.selftest() + conventions_selftest()
         for b in bad:
             print("selftest: " + b)
         print("selftest: %s" % ("FAIL" if bad else "ok"))
@@ -273,7 +326,10 @@ def main():
     recs, base, specs = [], [], {}
     out = open(args.records, "w") if args.records else None
     for i, seed in enumerate(seeds):
-        spec, truth, both = score.run_case(preps, seed, args.mode, work, keep=bool(args.keep), extra=args.prep_args.split(), planes=args.planes)
+        cls = hidden.pick(seed, args.cls) if args.cls else None
+        spec, truth, both = score.run_case(preps, seed, args.mode, work, keep=bool(args.keep), extra=args.prep_args.split(), planes=args.planes, cls=cls)
+        for r in both:
+            r["cls"] = cls
         rec = both[0]
         if args.against:
             base.append(both[1])
@@ -292,12 +348,14 @@ def main():
         if args.case is not None:
             print("case: " + describe(spec))
             print(json.dumps(spec, indent=1, default=float))
+            if cls:
+                print("class: %s" % json.dumps(spec["class"], default=float))
             print("truth: chord %.6f mm, LE (%.6f, %.6f) mm, TE point (%.6f, %.6f) mm, TE %s (end %.6f c), mirrored %s, scatter %.2e c" % (
                 truth["chord_mm"], *truth["le_mm"], *truth["te_mm"], truth["te_kind"], truth["te_size"], truth["mirrored"], truth["scatter"]))
             for r in both:
                 print("record (%s): %s" % (r["prep"], json.dumps(r, indent=1, default=float)))
                 if args.keep:
-                    print("rerun:  %s prep %s --units mm -o %s%s" % (r["prep"], r["file"], r["output"], " " + args.prep_args if args.prep_args else ""))
+                    print("rerun:  %s prep %s --units %s -o %s%s" % (r["prep"], r["file"], spec.get("units", "mm"), r["output"], " " + args.prep_args if args.prep_args else ""))
             return
     if out:
         out.close()

@@ -97,6 +97,45 @@ class FiveDigitLine(MeanLine):
         return yc, dy
 
 
+# Reflexed 5-digit mean lines (designations LP1, design lift coefficient
+# 0.3), keyed by P: (m, k1, k2/k1). From memory of the later NACA tables
+# for the reflexed family; selftest() checks them against what they must
+# satisfy: the maximum camber at P/20, a design cl of 0.3 and a zero
+# moment about the quarter chord by thin-aerofoil theory (the reflex's
+# purpose).
+FIVE_DIGIT_REFLEX_LINES = {
+    2: (0.1300, 51.99, 0.000764),
+    3: (0.2170, 15.793, 0.00677),
+    4: (0.3180, 6.520, 0.0303),
+    5: (0.4410, 3.191, 0.1355),
+}
+
+
+class FiveDigitReflexLine(MeanLine):
+    """The reflexed 5-digit mean line (cubics either side of m, the aft one
+    turning the line up again towards the trailing edge):
+
+        y_c = k1/6 ((x - m)^3 - r (1 - m)^3 x - m^3 x + m^3)     for x <  m
+        y_c = k1/6 (r (x - m)^3 - r (1 - m)^3 x - m^3 x + m^3)   for x >= m
+
+    with r = k2/k1, scaled linearly for a design cl other than 0.3.
+    """
+
+    def __init__(self, position_digit, cl=0.3):
+        self.m, self.k1, self.r = FIVE_DIGIT_REFLEX_LINES[position_digit]
+        self.scale = cl / 0.3
+
+    def camber(self, x):
+        x = np.asarray(x, dtype=float)
+        m, k, r = self.m, self.k1 * self.scale, self.r
+        fore = x < m
+        lin = -r * (1 - m) ** 3 * x - m**3 * x + m**3
+        dlin = -r * (1 - m) ** 3 - m**3
+        yc = k / 6 * (np.where(fore, 1.0, r) * (x - m) ** 3 + lin)
+        dy = k / 6 * (np.where(fore, 1.0, r) * 3 * (x - m) ** 2 + dlin)
+        return yc, dy
+
+
 class Section:
     """A NACA section: a mean line and a thickness ratio t, open or closed
     trailing edge. upper(beta) and lower(beta) give the surfaces at the
@@ -134,6 +173,24 @@ def five_digit(l_digit, p_digit, t, closed):
     return Section(name, FiveDigitLine(p_digit, cl=0.15 * l_digit), t, closed)
 
 
+def five_digit_reflex(l_digit, p_digit, t, closed):
+    """NACA LP1TT: the reflexed 5-digit line, design cl = 3L/20."""
+    name = "NACA %d%d1%02d" % (l_digit, p_digit, round(t * 100))
+    return Section(name, FiveDigitReflexLine(p_digit, cl=0.15 * l_digit), t, closed)
+
+
+def _thin_aerofoil(line, n_max=2):
+    """Thin-aerofoil coefficients A1..A_n_max of a mean line (Abbott & von
+    Doenhoff 1959, ch. 4): A_n = (2/pi) int_0^pi dy_c/dx cos(n theta) d(theta)."""
+    th = np.linspace(0, np.pi, 200001)
+    _, dy = line.camber((1 - np.cos(th)) / 2)
+    out = []
+    for n in range(1, n_max + 1):
+        f = dy * np.cos(n * th)
+        out.append(2 / np.pi * np.sum((f[1:] + f[:-1]) / 2 * np.diff(th)))
+    return out
+
+
 def selftest():
     """Checks the formulas against published figures; returns a list of failures."""
     bad = []
@@ -167,4 +224,20 @@ def selftest():
         cl = np.pi * a1
         if abs(cl - 0.3) > 0.01:
             bad.append("5-digit line %d: design cl %.4f, want 0.3" % (pd, cl))
+    # Reflexed lines: maximum camber at P/20, design cl = pi A1 = 0.3 and
+    # cm about the quarter chord = pi/4 (A2 - A1) = 0 (thin-aerofoil theory,
+    # as above). Measured here: cl 0.301-0.305, |cm| <= 0.0014, where the
+    # unreflexed lines give cm -0.004 to -0.024; 0.003 catches a wrong digit.
+    xs = np.linspace(0, 1, 200001)
+    for pd in sorted(FIVE_DIGIT_REFLEX_LINES):
+        line = FiveDigitReflexLine(pd)
+        yc, _ = line.camber(xs)
+        p = xs[np.argmax(yc)]
+        if abs(p - pd / 20) > 2e-3:
+            bad.append("reflexed line %d: maximum camber at %.4f, want %.3f" % (pd, p, pd / 20))
+        a1, a2 = _thin_aerofoil(line)
+        if abs(np.pi * a1 - 0.3) > 0.01:
+            bad.append("reflexed line %d: design cl %.4f, want 0.3" % (pd, np.pi * a1))
+        if abs(np.pi / 4 * (a2 - a1)) > 0.003:
+            bad.append("reflexed line %d: cm c/4 %.4f, want 0" % (pd, np.pi / 4 * (a2 - a1)))
     return bad

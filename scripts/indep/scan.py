@@ -150,18 +150,29 @@ def _at(poly, arc, s):
     return p, nrm, seg
 
 
-def draw(seed, mode, planes=0.0):
+def draw(seed, mode, planes=0.0, cls=None):
     """Draws case seed of mode; returns (spec, truth, lines) where lines are
     the point file's lines after its header and truth holds the frame and
     each line's kind. With planes > 0 that share of the cases is written in
     3D, in a plane tilted up to 40 degrees from z with scatter across it
     (a CMM's x, y, z), drawn from a stream of its own so that every case
-    is otherwise the same file as without."""
+    is otherwise the same file as without. cls names a class of hidden.py
+    that changes the case (its own stream; None: the plain case)."""
     rng = np.random.default_rng([seed, 0 if mode == "normal" else 1, 21])
     sec, sspec = draw_section(rng, mode)
     sm = draw_sampling(rng, mode)
     pl = draw_placement(rng)
-    o = ol.Outline(sec, sspec["te"], sspec["x_cut"], sspec["radius"])
+    hz = None
+    if cls:
+        import hidden
+
+        hz = hidden.Hazard(cls, seed, mode)
+        sec, sspec = hz.section(sec, sspec)
+        hz.sampling(sm)
+        hz.placement(pl)
+        o = hz.outline(sec, sspec)
+    else:
+        o = ol.Outline(sec, sspec["te"], sspec["x_cut"], sspec["radius"])
     q = o.normalized()
     closed = np.vstack([q, q[:1]])
     arc = np.concatenate([[0], np.cumsum(np.hypot(*np.diff(closed, axis=0).T))])
@@ -205,6 +216,12 @@ def draw(seed, mode, planes=0.0):
             sign = -1.0 if (rng.random() < 0.4 and 0.05 < x < 0.7 and mag < 0.5 * half_t) else 1.0
             p[i] = p[i] + sign * mag * nrm[i]
             kinds[i] = "outlier"
+    okey = s
+    if hz is not None:
+        ctx = {"sm": sm, "perimeter": perim, "s_le": s_le, "q": q, "piece": o.piece,
+               "at": lambda ss: _at(q, arc, ss)}
+        p, nrm, s, piece, kinds, okey = hz.points(p, nrm, s, piece, kinds, okey, ctx)
+        n = len(p)
     # Placement in the part: scale, rotate nose-up by the twist, offset,
     # then the flip (a part measured nose-other-way, or upside down).
     ch, tw = pl["chord_mm"], np.radians(pl["twist_deg"])
@@ -220,11 +237,24 @@ def draw(seed, mode, planes=0.0):
         return v + off
 
     part = place(p)
-    decimals = int(np.clip(np.ceil(-np.log10(2e-5 * ch)), 2, 6))
+    decimals = pl.get("decimals") or int(np.clip(np.ceil(-np.log10(2e-5 * ch)), 2, 6))
     fmt = "%%.%df" % decimals
     sep = {"csv": ",", "space": " ", "tab": "\t"}[pl["format"]]
     plane = None
-    if planes > 0:
+    if hz is not None and hz.plane is not None:
+        # one station of a blade in a CMM's x, y, z: the section's plane
+        # nearly square to z, small scatter across it
+        r3 = hz.rng
+        tilt, az = np.radians(hz.plane["tilt_deg"]), r3.uniform(0, 2 * np.pi)
+        nz = np.array([np.sin(tilt) * np.cos(az), np.sin(tilt) * np.sin(az), np.cos(tilt)])
+        U = np.array([1.0, 0, 0]) - nz[0] * nz
+        U /= np.linalg.norm(U)
+        V = np.cross(nz, U)
+        O = np.array([0.0, 0.0, hz.plane["z"]])
+        across = hz.plane["scatter_mm"] * r3.standard_normal(len(part))
+        part3 = O + part[:, :1] * U + part[:, 1:2] * V + across[:, None] * nz
+        plane = {"origin": O, "u": U, "v": V, "normal": nz}
+    elif planes > 0:
         r3 = np.random.default_rng([seed, 0 if mode == "normal" else 1, 21, 3])
         if r3.random() < planes:
             tilt, az = np.radians(r3.uniform(0, 40)), r3.uniform(0, 2 * np.pi)
@@ -241,7 +271,7 @@ def draw(seed, mode, planes=0.0):
         rows = [(fmt % x) + sep + (fmt % y) for x, y in part]
     else:
         rows = [(fmt % x) + sep + (fmt % y) + sep + (fmt % z) for x, y, z in part3]
-    order = np.argsort(s)
+    order = np.argsort(okey, kind="stable")
     if sm["reverse"]:
         order = order[::-1]
     start = int(rng.integers(0, n))
@@ -275,8 +305,13 @@ def draw(seed, mode, planes=0.0):
         piece_rows = [piece_rows[i] for i in perm]
         of = [int(inv[of[i]]) if of[i] >= 0 else -1 for i in perm]
     header = [("x,y" if plane is None else "x,y,z")] if pl["format"] == "csv" else []
-    lines = header + rows
-    first_line = len(header) + 1  # file line of rows[0]
+    if hz is not None:
+        lines, line_of, fopts = hz.text(header, rows, sep)
+        first_line = line_of[0]
+    else:
+        lines = header + rows
+        first_line = len(header) + 1  # file line of rows[0]
+        line_of, fopts = None, None
     le_part, te_part = place(np.array([0.0, 0.0]))[0], place(np.array([1.0, 0.0]))[0]
     truth = {
         "outline": o,
@@ -296,10 +331,18 @@ def draw(seed, mode, planes=0.0):
         "of": of,
         "first_line": first_line,
         "plane": plane,
+        "line_of": line_of,
+        "file": fopts,
+        "hazard": hz,
     }
     if plane is not None:
         truth["le_3d"] = plane["origin"] + le_part[0] * plane["u"] + le_part[1] * plane["v"]
         truth["te_3d"] = plane["origin"] + te_part[0] * plane["u"] + te_part[1] * plane["v"]
     spec = {"seed": seed, "mode": mode, "shape": sspec, "sampling": sm, "placement": pl, "points": n,
             "plane": None if plane is None else {k: v.tolist() for k, v in plane.items()}}
+    if hz is not None:
+        if cls == "ball":
+            hz.spec["ball_mm_actual"] = float(hz.spec["ball_c"] * ch / o.chord_raw)
+        spec["class"] = hz.spec
+        spec["units"] = pl.get("units", "mm")
     return spec, truth, lines

@@ -29,10 +29,10 @@ import outline as ol
 WRONG_CHORD, WRONG_TWIST, WRONG_NODE = 0.005, 0.2, 0.005
 
 
-def run_prep(prep, path, out, extra=(), timeout=600):
+def run_prep(prep, path, out, extra=(), timeout=600, units="mm"):
     """Runs prep on path (with the extra arguments); returns (exit status,
     stderr, seconds)."""
-    cmd = [prep, "prep", path, "--units", "mm", "-q", "-o", out] + list(extra)
+    cmd = [prep, "prep", path, "--units", units, "-q", "-o", out] + list(extra)
     t0 = time.time()
     try:
         r = subprocess.run(cmd, capture_output=True, text=True, timeout=timeout)
@@ -158,8 +158,9 @@ def evaluate(spec, truth, doc):
     for dr in doc.get("source", {}).get("dropped", []) or []:
         dropped[int(dr.get("line", 0))] = dr.get("reason", "")
     good = good_dropped = planted = caught = 0
+    line_of = truth.get("line_of")
     for j, (kind, r) in enumerate(zip(truth["kinds"], rows)):
-        line = truth["first_line"] + j
+        line = line_of[j] if line_of else truth["first_line"] + j
         gone = line in dropped
         if kind == "outlier":
             planted += 1
@@ -172,27 +173,34 @@ def evaluate(spec, truth, doc):
     return rec
 
 
-def run_case(preps, seed, mode, workdir, keep=False, extra=(), planes=0.0):
+def run_case(preps, seed, mode, workdir, keep=False, extra=(), planes=0.0, cls=None):
     """Draws and writes one case and runs each binary of preps on the same
     file; returns (spec, truth, records), one record per binary."""
     import scan
 
-    spec, truth, lines = scan.draw(seed, mode, planes)
-    truth["rows"] = lines[truth["first_line"] - 1 :]
+    spec, truth, lines = scan.draw(seed, mode, planes, cls)
+    if truth.get("line_of"):
+        truth["rows"] = [lines[k - 1] for k in truth["line_of"]]
+    else:
+        truth["rows"] = lines[truth["first_line"] - 1 :]
     os.makedirs(workdir, exist_ok=True)
     ext = ".csv" if spec["placement"]["format"] == "csv" else ".txt"
-    path = os.path.join(workdir, "%s-%d%s" % (mode, seed, ext))
-    with open(path, "w") as f:
-        f.write("\n".join(lines) + "\n")
+    tag = "%s-%s" % (mode, cls) if cls else mode
+    path = os.path.join(workdir, "%s-%d%s" % (tag, seed, ext))
+    if truth.get("file"):
+        truth["hazard"].write(path, lines, truth["file"])
+    else:
+        with open(path, "w") as f:
+            f.write("\n".join(lines) + "\n")
     good_pts = sum(1 for k in truth["kinds"] if k == "good")
     sm = spec["sampling"]
     recs, outs = [], []
     for b, prep in enumerate(preps):
-        out = os.path.join(workdir, "%s-%d%s.json" % (mode, seed, "" if b == 0 else "-against"))
+        out = os.path.join(workdir, "%s-%d%s.json" % (tag, seed, "" if b == 0 else "-against"))
         outs.append(out)
         if os.path.exists(out):
             os.remove(out)
-        rc, err, secs = run_prep(prep, path, out, extra)
+        rc, err, secs = run_prep(prep, path, out, extra, units=spec.get("units", "mm"))
         rec = {"seed": seed, "mode": mode, "prep": prep, "rc": rc, "seconds": secs, "file": path, "output": out}
         rec["well"] = good_pts >= 300 and sm["sigma"] <= 0.5 and sm["graze"] == 0
         rec["good_points"] = good_pts

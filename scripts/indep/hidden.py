@@ -1,0 +1,363 @@
+"""Classes of measurement a practitioner has and the plain normal/sparse
+draws lack, each layered on a normal or sparse case (--class NAME, or
+--class all to take class k of the list for seed k mod its length).
+
+Each class draws from a stream of its own, [seed, mode, 22, k], so the
+plain cases of a seed stay the files they were; the class then changes
+the shape, the sampling, the placement or the file's text:
+
+    thick     t/c 25-40 %: NACA 4-digit thickness (Report 824) thickened aft
+              into a flatback base of 1-10 % c (shapes.Flatback), or cut
+    thin      t/c 4-6 % (propeller tips), any trailing edge
+    camber    NACA 4-digit with 6-9 % camber (Report 824's mean line)
+    reflex    the reflexed NACA 5-digit mean lines (naca.FiveDigitReflexLine)
+    kt        Kármán–Trefftz by its exact conformal map, cusped (60 %) or with
+              a 2-10 deg trailing edge (shapes.KarmanTrefftz)
+    ball      a CMM whose probe ball was not compensated (radius 0.5-3 mm) or
+              compensated by half: the points lie on the ball centre's path,
+              the outline offset outward by r (a sharp edge becomes an arc of
+              radius r); scored against that path, since nothing in a file
+              of centres says r (see the README of this folder)
+    graze     a scanner's grazing incidence: outward bias growing as
+              1/cos(incidence) (one-sided: the spot spreads on the surface),
+              thinned points and 1-4 dropouts of 0.5-3 % of the perimeter
+    nose      hand-probed nose: 1-3 more passes over the nose appended as
+              blocks at the file's end, each shifted along the normal by up
+              to the noise (the probe re-approached)
+    clamp     3-12 points of the fixture: a straight jaw face 0.02-0.10 c
+              long, 0.01-0.15 c off the section near either end (planted
+              outliers the tool must drop)
+    far       a machine frame far from the origin (x ~ 1500 mm, y ~ 800 mm),
+              written with 8 decimals or with 2
+    inch      the part in inches (run with --units in)
+    text      a UTF-8 BOM or none, CRLF or LF, a title and comments with
+              Windows-1252 degree and plus-minus signs (or UTF-8), a comment
+              line between passes, trailing blank lines
+    z3d       x, y, z with the section at one station (z 100-2000 mm) and
+              small z scatter (0.002-0.05 mm), the plane tilted < 0.5 deg
+    numbered  a probe program's export: every line numbered (1, 2, 3, ... or
+              from 0, no header) or labelled ("PNT17"), separated by commas,
+              semicolons with decimal commas, tabs or blanks
+
+Sources: the shapes' equations are named in naca.py and shapes.py; the
+hazards' magnitudes are common practice (a CMM ball of 1-6 mm diameter,
+fixtures beside the part, scanner bias at grazing incidence), not from a
+published table.
+"""
+
+import numpy as np
+
+import naca
+import outline as ol
+import shapes
+
+CLASSES = ["thick", "thin", "camber", "reflex", "kt", "ball", "graze", "nose", "clamp", "far", "inch", "text", "z3d", "numbered"]
+
+
+def pick(seed, name):
+    """The class of a seed for --class name (a class or "all")."""
+    if name == "all":
+        return CLASSES[seed % len(CLASSES)]
+    if name not in CLASSES:
+        raise ValueError("unknown class %r (have %s)" % (name, ", ".join(CLASSES)))
+    return name
+
+
+class Hazard:
+    """One class applied to one case; every draw from its own stream."""
+
+    def __init__(self, name, seed, mode):
+        self.name = name
+        self.rng = np.random.default_rng([seed, 0 if mode == "normal" else 1, 22, CLASSES.index(name)])
+        self.spec = {"class": name}
+        self.plane = None
+
+    # --- the shape -------------------------------------------------------
+    def section(self, sec, sspec):
+        r, n = self.rng, self.name
+        te = sspec["te"]
+        if n == "thick":
+            t = r.uniform(0.25, 0.40)
+            m = 0.0 if r.random() < 0.4 else r.uniform(0.01, 0.04)
+            p = int(r.integers(3, 5)) / 10
+            if r.random() < 0.7:
+                h = r.uniform(0.01, 0.10)
+                sec = shapes.Flatback(m, p, t, h)
+                sspec.update(te="open", closed_thickness=False, x_cut=1.0, radius=0.0, flatback=h)
+            else:
+                sec = naca.four_digit(m, p, t, True)
+                sspec.update(te="cut", closed_thickness=True, x_cut=r.uniform(0.93, 0.99), radius=0.0)
+            sspec.update(section=sec.name, family="sym" if m == 0 else "four", t=float(t))
+        elif n == "thin":
+            t = r.uniform(0.04, 0.06)
+            m = 0.0 if r.random() < 0.3 else r.uniform(0.005, 0.04)
+            p = int(r.integers(2, 7)) / 10
+            sec = naca.four_digit(m, p, t, sspec["closed_thickness"])
+            sspec.update(section=sec.name, family="sym" if m == 0 else "four", t=float(t))
+        elif n == "camber":
+            t = r.uniform(0.08, 0.18)
+            m, p = r.uniform(0.06, 0.09), int(r.integers(3, 7)) / 10
+            sec = naca.four_digit(m, p, t, sspec["closed_thickness"])
+            sspec.update(section=sec.name, family="four", t=float(t))
+        elif n == "reflex":
+            t = r.uniform(0.08, 0.18)
+            sec = naca.five_digit_reflex(int(r.integers(1, 5)), int(r.integers(2, 6)), t, sspec["closed_thickness"])
+            sspec.update(section=sec.name, family="five", t=float(t))
+        elif n == "kt":
+            tau = 0.0 if r.random() < 0.6 else r.uniform(2, 10)
+            sec = shapes.KarmanTrefftz(r.uniform(0.04, 0.14), r.uniform(0.0, 0.10), tau)
+            sspec.update(section=sec.name, family="kt", t=float(sec.t), te="sharp", closed_thickness=True, x_cut=1.0, radius=0.0)
+        else:
+            return sec, sspec
+        if sspec["te"] == "rounded":
+            sspec["radius"] = float(min(r.uniform(0.002, 0.008), naca.thickness(0.9, sspec["t"], True) / 1.5))
+        return sec, sspec
+
+    def outline(self, sec, sspec):
+        """The true outline (the ball's path for "ball")."""
+        try:
+            o = ol.Outline(sec, sspec["te"], sspec["x_cut"], sspec["radius"])
+        except ValueError:  # no rounding circle fits a thin section's end
+            sspec.update(te="sharp", radius=0.0)
+            o = ol.Outline(sec, "sharp")
+        if self.name == "ball":
+            o = OffsetOutline(o, self.spec["ball_c"])
+        return o
+
+    # --- sampling and placement --------------------------------------------
+    def sampling(self, sm):
+        if self.name == "graze":
+            sm["graze"] = float(self.rng.uniform(0.05, 0.3))
+            sm["noise"] = max(sm["noise"], 1e-5)
+
+    def placement(self, pl):
+        r, n = self.rng, self.name
+        if n == "ball":
+            pl["chord_mm"] = float(np.exp(r.uniform(np.log(60), np.log(600))))
+            rad = r.uniform(0.5, 3.0)
+            half = bool(r.random() < 0.3)
+            self.spec.update(ball_mm=float(rad), half=half)
+            self.spec["ball_c"] = float(rad * (0.5 if half else 1.0) / pl["chord_mm"])
+        elif n == "far":
+            pl["offset_mm"] = [float(r.uniform(1200, 1800)), float(r.uniform(-900, 900))]
+            pl["chord_mm"] = float(np.exp(r.uniform(np.log(50), np.log(1000))))
+            pl["decimals"] = 8 if r.random() < 0.5 else 2
+        elif n == "inch":
+            pl["chord_mm"] /= 25.4
+            pl["offset_mm"] = [v / 25.4 for v in pl["offset_mm"]]
+            pl["units"] = "in"
+        elif n == "z3d":
+            self.plane = {"tilt_deg": float(r.uniform(0, 0.5)), "z": float(r.uniform(100, 2000)),
+                          "scatter_mm": float(np.exp(r.uniform(np.log(0.002), np.log(0.05))))}
+            self.spec["plane"] = self.plane
+
+    def points(self, p, nrm, s, piece, kinds, okey, ctx):
+        """Changes the drawn points (chord units, before placement); returns
+        (p, nrm, s, piece, kinds, okey), okey being the key of the file order."""
+        r, n = self.rng, self.name
+        if n == "graze":
+            a = np.radians(ctx["sm"]["graze_dir_deg"])
+            c = np.maximum(np.abs(nrm @ np.array([np.cos(a), np.sin(a)])), 0.15)
+            b = r.uniform(0.5, 2.0) * ctx["sm"]["noise"]
+            p = p + nrm * (b * (1 / c - 1))[:, None]
+            self.spec["bias_c"] = float(b)
+            keep = np.ones(len(p), bool)
+            per = ctx["perimeter"]
+            for _ in range(int(r.integers(1, 5))):
+                c0, w = r.uniform(0, per), r.uniform(0.005, 0.03) * per
+                keep &= ((s - c0) % per) > w
+            p, nrm, s, piece, okey = p[keep], nrm[keep], s[keep], piece[keep], okey[keep]
+            kinds = [k for k, on in zip(kinds, keep) if on]
+        elif n == "nose":
+            per, s_le = ctx["perimeter"], ctx["s_le"]
+            near = np.abs((s - s_le + per / 2) % per - per / 2)
+            passes = int(r.integers(1, 4))
+            w = r.uniform(0.02, 0.08) * per
+            dens = max(np.sum(near < w), 4)
+            extra_p, extra_n, extra_s, extra_pc, extra_k = [], [], [], [], []
+            for j in range(passes):
+                k = max(int(dens * r.uniform(0.5, 1.5)), 4)
+                sj = np.sort((s_le + r.uniform(-w, w, k)) % per)
+                pj, nj, seg = ctx["at"](sj)
+                shift = r.uniform(-1, 1) * ctx["sm"]["noise"]
+                pj = pj + nj * (shift + ctx["sm"]["noise"] * r.standard_normal(k))[:, None]
+                extra_p.append(pj), extra_n.append(nj), extra_s.append(sj), extra_pc.append(ctx["piece"][seg])
+                extra_k.append(2 * per + j * per + np.arange(k) / k)
+            p = np.vstack([p] + extra_p)
+            nrm = np.vstack([nrm] + extra_n)
+            s = np.concatenate([s] + extra_s)
+            piece = np.concatenate([piece] + extra_pc)
+            okey = np.concatenate([okey] + extra_k)
+            kinds = kinds + ["good"] * sum(len(e) for e in extra_s)
+            self.spec.update(passes=passes, pass_width_c=float(w))
+        elif n == "clamp":
+            k = int(r.integers(3, 13))
+            length, off = r.uniform(0.02, 0.10), r.uniform(0.01, 0.15)
+            q = ctx["q"]
+            # a jaw face beside the aft or the fore end, below the section
+            # or beyond the end, along the chord
+            end = r.random() < 0.6
+            x0 = (0.9 if end else 0.05) + r.uniform(-0.05, 0.05)
+            near = q[np.argmin(np.abs(q[:, 0] - x0) + 10 * (q[:, 1] > 0))]
+            if r.random() < 0.5:
+                a = near + np.array([0.0, -off])
+                pts = a + np.outer(np.linspace(-length / 2, length / 2, k), [1.0, 0.0])
+            else:
+                tip = np.array([1.0 + off, 0.0]) if end else np.array([-off, 0.0])
+                pts = tip + np.outer(np.linspace(-length / 2, length / 2, k), [0.0, 1.0])
+            pts = pts + ctx["sm"]["noise"] * r.standard_normal(pts.shape)
+            p = np.vstack([p, pts])
+            nrm = np.vstack([nrm, np.tile([0.0, 1.0], (k, 1))])
+            s = np.concatenate([s, np.full(k, -1.0)])
+            piece = np.concatenate([piece, np.full(k, -1)])
+            okey = np.concatenate([okey, 3 * ctx["perimeter"] + np.arange(k) / k])
+            kinds = kinds + ["outlier"] * k
+            self.spec.update(clamp_points=k, clamp_len_c=float(length), clamp_off_c=float(off))
+        return p, nrm, s, piece, kinds, okey
+
+    # --- the file's text ---------------------------------------------------
+    def text(self, header, rows, sep):
+        """Returns (lines, line numbers of the rows, file options)."""
+        opts = {"encoding": "utf-8", "newline": "\n", "bom": False, "trailing": 0}
+        if self.name == "numbered":
+            return self._numbered(rows, sep, opts)
+        if self.name != "text":
+            return header + rows, list(range(len(header) + 1, len(header) + len(rows) + 1)), opts
+        r = self.rng
+        opts.update(encoding="cp1252" if r.random() < 0.6 else "utf-8", newline="\r\n" if r.random() < 0.6 else "\n",
+                    bom=bool(r.random() < 0.4), trailing=int(r.integers(0, 4)))
+        if opts["encoding"] == "cp1252":
+            opts["bom"] = False  # no BOM in a code-page file
+        title = ["Section probe run %d, 20.%d\u00b0C \u00b1 0.5\u00b0C" % (r.integers(1, 9), r.integers(0, 9)),
+                 "# part: rotor blade, station %d mm, angle 4.5\u00b0" % r.integers(100, 900),
+                 "# operator: initials only; probe \u00f8 2 mm"]
+        title = title[: int(r.integers(1, 4))]
+        lines = title + header
+        cut = int(r.integers(len(rows) // 4, 3 * len(rows) // 4 + 1)) if r.random() < 0.5 else -1
+        nums = []
+        for j, row in enumerate(rows):
+            if j == cut:
+                lines.append("# pass 2")
+            lines.append(row)
+            nums.append(len(lines))
+        lines += [""] * opts["trailing"]
+        opts["title_lines"] = len(title)
+        return lines, nums, opts
+
+    def _numbered(self, rows, sep, opts):
+        r = self.rng
+        label = bool(r.random() < 0.5)
+        start = int(r.integers(0, 2))
+        out_sep = ["," , ";", "\t", " "][int(r.choice(4, p=[0.5, 0.2, 0.15, 0.15]))]
+        prefix = ["PNT", "P", "Pt_", "point"][int(r.integers(0, 4))]
+        lines = []
+        for j, row in enumerate(rows):
+            fields = row.split(sep)
+            if out_sep == ";":
+                fields = [f.replace(".", ",") for f in fields]
+            tag = ("%s%d" % (prefix, j + 1)) if label else str(j + start)
+            lines.append(out_sep.join([tag] + fields))
+        self.spec.update(label=label, sep={",": "comma", ";": "semicolon", "\t": "tab", " ": "blank"}[out_sep])
+        return lines, list(range(1, len(lines) + 1)), opts
+
+    def write(self, path, lines, opts):
+        text = opts["newline"].join(lines) + opts["newline"]
+        data = text.encode(opts["encoding"])
+        if opts["bom"]:
+            data = b"\xef\xbb\xbf" + data
+        with open(path, "wb") as f:
+            f.write(data)
+
+
+class OffsetOutline:
+    """The path of a probe ball's centre round an outline: every point
+    moved outward by d (chord units of the outline) along its normal, with
+    an arc of radius d round every corner (a sharp edge, a base's corners).
+    Same attributes as outline.Outline, in the offset path's own frame:
+    a sharp edge becomes a rounded one of radius d, a rounded one of radius
+    R grows to R + d, a base stays straight (blunt) with rounded corners."""
+
+    def __init__(self, o, d):
+        q = o.pts
+        n = len(q)
+        nxt = np.roll(q, -1, axis=0)
+        t = nxt - q
+        t /= np.hypot(t[:, 0], t[:, 1])[:, None]
+        seg_n = np.stack([t[:, 1], -t[:, 0]], axis=1)  # outward of each segment (CCW)
+        prev_n = np.roll(seg_n, 1, axis=0)
+        pts, piece, centre = [], [], None
+        for i in range(n):
+            a, b = prev_n[i], seg_n[i]
+            turn = np.degrees(np.arctan2(a[0] * b[1] - a[1] * b[0], a @ b))
+            if turn > 3:  # a convex corner: an arc round it
+                th0, th1 = np.arctan2(a[1], a[0]), np.arctan2(b[1], b[0])
+                th1 = th0 + (th1 - th0) % (2 * np.pi)
+                k = max(int(np.ceil((th1 - th0) / np.radians(0.3))), 2)
+                th = np.linspace(th0, th1, k)
+                pts.append(q[i] + d * np.stack([np.cos(th), np.sin(th)], axis=1))
+                piece += [ol.PIECE_END] * k
+                if o.te_kind == "sharp" and np.hypot(*(q[i] - o.te)) < 1e-12:
+                    centre = q[i]
+            else:
+                m = a + b
+                m /= np.hypot(*m)
+                pts.append((q[i] + d * m / max(m @ b, 0.5))[None])
+                piece.append(o.piece[i])
+        self.pts = np.vstack(pts)
+        self.piece = np.array(piece)
+        self.radius = o.radius
+        if o.te_kind == "sharp":
+            if centre is None:
+                raise ValueError("ball offset: no corner at the sharp edge")
+            self.te_kind, self.te_size, self.arc = "rounded", 2 * d, (centre, d)
+        elif o.te_kind == "rounded":
+            c, rr = o.arc
+            self.te_kind, self.te_size, self.arc = "rounded", 2 * (rr + d), (c, rr + d)
+        else:
+            self.te_kind, self.te_size, self.arc = "blunt", o.te_size, None
+            end = o.pts[o.piece == ol.PIECE_END]
+            mid = (end[0] + end[-1]) / 2
+            bn = np.array([end[-1, 1] - end[0, 1], -(end[-1, 0] - end[0, 0])])
+            self.te = mid + d * bn / np.hypot(*bn)
+        self._frame()
+
+    def _farthest(self, q):
+        return self.pts[int(np.argmax(np.hypot(self.pts[:, 0] - q[0], self.pts[:, 1] - q[1])))]
+
+    def _frame(self):
+        if self.arc is not None:
+            centre, r = self.arc
+            le = self._farthest(centre)
+            for _ in range(50):
+                v = centre - le
+                tip = centre + r * v / np.hypot(*v)
+                le2 = self._farthest(tip)
+                done = np.hypot(*(le2 - le)) < 1e-14
+                le = le2
+                if done:
+                    break
+            self.te, self.le = tip, le
+        else:
+            self.le = self._farthest(self.te)
+        dv = self.te - self.le
+        self.chord_raw = float(np.hypot(*dv))
+        self.phi = float(np.arctan2(dv[1], dv[0]))
+
+    normalize = ol.Outline.normalize
+    normalized = ol.Outline.normalized
+
+
+def selftest():
+    """The ball's path: every outline vertex lies d from the path (a
+    Minkowski sum's boundary with a disc), and a sharp edge's path is an
+    arc of radius d round the corner."""
+    bad = []
+    o = ol.Outline(naca.four_digit(0.04, 0.4, 0.12, True), "sharp")
+    d = 0.01
+    off = OffsetOutline(o, d)
+    dist = ol.nearest(off.pts, o.pts[::7])
+    if abs(dist.min() - d) > 2e-5 or abs(dist.max() - d) > 2e-5:
+        bad.append("ball path: outline %.6f-%.6f from the path, want %.4f" % (dist.min(), dist.max(), d))
+    if off.te_kind != "rounded" or abs(np.hypot(*(off.te - o.te)) - d) > 1e-12:
+        bad.append("ball path: the sharp edge's tip is not d from the corner")
+    return bad
