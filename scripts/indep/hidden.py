@@ -285,7 +285,7 @@ class OffsetOutline:
         t /= np.hypot(t[:, 0], t[:, 1])[:, None]
         seg_n = np.stack([t[:, 1], -t[:, 0]], axis=1)  # outward of each segment (CCW)
         prev_n = np.roll(seg_n, 1, axis=0)
-        pts, piece, centre = [], [], None
+        pts, piece, centre, te = [], [], None, None
         for i in range(n):
             a, b = prev_n[i], seg_n[i]
             turn = np.degrees(np.arctan2(a[0] * b[1] - a[1] * b[0], a @ b))
@@ -318,30 +318,11 @@ class OffsetOutline:
             end = o.pts[o.piece == ol.PIECE_END]
             mid = (end[0] + end[-1]) / 2
             bn = np.array([end[-1, 1] - end[0, 1], -(end[-1, 0] - end[0, 0])])
-            self.te = mid + d * bn / np.hypot(*bn)
-        self._frame()
+            te = mid + d * bn / np.hypot(*bn)
+        self.te, self.le, self.chord_raw, self.phi = ol.frame_of(self._farthest, self.arc, te)
 
     def _farthest(self, q):
         return self.pts[int(np.argmax(np.hypot(self.pts[:, 0] - q[0], self.pts[:, 1] - q[1])))]
-
-    def _frame(self):
-        if self.arc is not None:
-            centre, r = self.arc
-            le = self._farthest(centre)
-            for _ in range(50):
-                v = centre - le
-                tip = centre + r * v / np.hypot(*v)
-                le2 = self._farthest(tip)
-                done = np.hypot(*(le2 - le)) < 1e-14
-                le = le2
-                if done:
-                    break
-            self.te, self.le = tip, le
-        else:
-            self.le = self._farthest(self.te)
-        dv = self.te - self.le
-        self.chord_raw = float(np.hypot(*dv))
-        self.phi = float(np.arctan2(dv[1], dv[0]))
 
     normalize = ol.Outline.normalize
     normalized = ol.Outline.normalized

@@ -51,6 +51,31 @@ def _seg_dist(p, a, b):
     return np.hypot(p[:, 0] - q[:, 0], p[:, 1] - q[:, 1])
 
 
+def frame_of(farthest, arc, te=None):
+    """The tool's chord convention on an outline: the leading edge is the
+    point farthest from the trailing edge (farthest(q) returns the outline
+    point farthest from q). A rounded end (arc = (centre, r)) has its
+    trailing edge at the arc point farthest from the leading edge, found by
+    iterating the two; otherwise te is the trailing edge. Returns te, le,
+    the chord and the chord line's angle (radians), raw units."""
+    if arc is not None:
+        centre, r = arc
+        le = farthest(centre)
+        for _ in range(50):
+            v = centre - le
+            tip = centre + r * v / np.hypot(*v)
+            le2 = farthest(tip)
+            done = np.hypot(*(le2 - le)) < 1e-14
+            le = le2
+            if done:
+                break
+        te = tip
+    else:
+        le = farthest(te)
+    d = te - le
+    return te, le, float(np.hypot(*d)), float(np.arctan2(d[1], d[0]))
+
+
 class Outline:
     """The true outline in the section's own raw frame (chord fractions of
     the mean line). Attributes: pts (n, 2) closed CCW polyline without the
@@ -169,26 +194,7 @@ class Outline:
         return best
 
     def _frame(self, te_pt):
-        if self.te_kind != "rounded":
-            self.te = te_pt
-            self.le = self._farthest_surface(te_pt)
-        else:
-            # Iterate: tip = arc point farthest from the LE, LE = outline
-            # point farthest from the tip.
-            centre, r = self.arc
-            le = self._farthest_surface(centre)
-            for _ in range(50):
-                v = centre - le
-                tip = centre + r * v / np.hypot(*v)
-                le2 = self._farthest_surface(tip)
-                done = np.hypot(*(le2 - le)) < 1e-14
-                le = le2
-                if done:
-                    break
-            self.te, self.le = tip, le
-        d = self.te - self.le
-        self.chord_raw = float(np.hypot(*d))
-        self.phi = float(np.arctan2(d[1], d[0]))
+        self.te, self.le, self.chord_raw, self.phi = frame_of(self._farthest_surface, self.arc, te_pt)
 
     def normalize(self, p):
         """Maps raw points (n, 2) into the normalised frame."""
