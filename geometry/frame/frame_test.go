@@ -36,6 +36,21 @@ func frameExpected(n shape.NACA4, part testfoil.Part, mirrored bool) (Frame, []g
 	return f, dense
 }
 
+// normalizeExact fits the contour c as exact points (an interpolating
+// spline) and normalises it with the default options.
+func normalizeExact(t *testing.T, c *geometry.Contour) *Normalized {
+	t.Helper()
+	cv, _, err := curve.Fit(c, curve.FitOptions{Exact: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	nz, err := Normalize(cv, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return nz
+}
+
 func frameAngleDiff(a, b float64) float64 {
 	d := math.Mod(a-b, 360)
 	if d > 180 {
@@ -290,14 +305,7 @@ func TestNormalizeNACA4Loop(t *testing.T) {
 	n, _ := shape.ParseNACA4("0012")
 	part := testfoil.Part{Chord: 152.4, RotDeg: 7, Shift: geometry.Point{X: 37, Y: -12}}
 	c := testfoil.Contour(n.Loop(100), part)
-	cv, _, err := curve.Fit(c, curve.FitOptions{Exact: true})
-	if err != nil {
-		t.Fatal(err)
-	}
-	nz, err := Normalize(cv, Options{})
-	if err != nil {
-		t.Fatal(err)
-	}
+	nz := normalizeExact(t, c)
 	want, dense := frameExpected(n, part, false)
 	if nz.TE.Kind != TEBlunt || math.Abs(nz.TE.Thickness*nz.Frame.Chord/152.4-0.00252) > 1e-6 {
 		t.Errorf("trailing edge %+v, want blunt, 0.00252 of the Report 824 chord", nz.TE)

@@ -5,7 +5,6 @@ import (
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
-	"github.com/foilwright/foilwright/geometry/curve"
 	"github.com/foilwright/foilwright/internal/testfoil"
 )
 
@@ -33,14 +32,7 @@ func TestNormalizeUntangledDistance(t *testing.T) {
 			loop = append(loop, geometry.Point{X: x, Y: -h(x)})
 		}
 		c := testfoil.Contour(loop, testfoil.Part{Chord: chord, RotDeg: 5})
-		cv, _, err := curve.Fit(c, curve.FitOptions{Exact: true})
-		if err != nil {
-			t.Fatal(err)
-		}
-		nz, err := Normalize(cv, Options{})
-		if err != nil {
-			t.Fatal(err)
-		}
+		nz := normalizeExact(t, c)
 		want := (1 - xc) * chord
 		t.Logf("crossing at x = %g: Untangled %.4g, want %.4g", xc, nz.Untangled, want)
 		if math.Abs(nz.Untangled-want) > tol*math.Max(want, 1) {
