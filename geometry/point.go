@@ -41,6 +41,23 @@ func (p Point) IsFinite() bool {
 	return !math.IsNaN(p.X) && !math.IsInf(p.X, 0) && !math.IsNaN(p.Y) && !math.IsInf(p.Y, 0)
 }
 
+// MajorAxis returns the centroid of pts and the unit direction of their
+// major principal axis: the line through them that least squares of the
+// distances normal to it (total least squares) fits.
+func MajorAxis(pts []Point) (c, dir Point) {
+	for _, p := range pts {
+		c = c.Add(p)
+	}
+	c = c.Scale(1 / float64(len(pts)))
+	var sxx, sxy, syy float64
+	for _, p := range pts {
+		d := p.Sub(c)
+		sxx, sxy, syy = sxx+d.X*d.X, sxy+d.X*d.Y, syy+d.Y*d.Y
+	}
+	th := 0.5 * math.Atan2(2*sxy, sxx-syy)
+	return c, Point{X: math.Cos(th), Y: math.Sin(th)}
+}
+
 // Turn returns the signed angle (radians) from direction a to b.
 func Turn(a, b Point) float64 { return math.Atan2(a.Cross(b), a.Dot(b)) }
 

@@ -544,26 +544,16 @@ func baseFrame(pts []geometry.Point, seq []int32, f chordFrame) (chordFrame, boo
 		return f, false
 	}
 	lo, hi := math.Inf(1), math.Inf(-1)
-	var c geometry.Point
 	for _, p := range base {
 		_, y := f.at(p)
 		lo, hi = min(lo, y), max(hi, y)
-		c = c.Add(p)
 	}
 	if hi-lo < baseWide {
 		return f, false
 	}
-	c = c.Scale(1 / float64(len(base)))
-	var sxx, sxy, syy float64
-	for _, p := range base {
-		d := p.Sub(c)
-		sxx += d.X * d.X
-		sxy += d.X * d.Y
-		syy += d.Y * d.Y
-	}
 	// The normal of the base is the minor axis of its points.
-	th := 0.5*math.Atan2(2*sxy, sxx-syy) + math.Pi/2
-	nrm := geometry.Point{X: math.Cos(th), Y: math.Sin(th)}
+	c, ax := geometry.MajorAxis(base)
+	nrm := geometry.Point{X: -ax.Y, Y: ax.X}
 	if nrm.Dot(f.d) < 0 {
 		nrm = nrm.Scale(-1)
 	}

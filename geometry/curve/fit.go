@@ -316,21 +316,14 @@ func detectEnds(pts []geometry.Point, mode string, sigma float64) trailingEnds {
 			// noise: take it as straight when every point between the
 			// corners lies within baseSigmas scatters of the line
 			// fitted to them (principal axis).
-			var o geometry.Point
+			between := make([]geometry.Point, 0, b-a-1)
 			for j := a + 1; j < b; j++ {
-				o = o.Add(at(j - w))
+				between = append(between, at(j-w))
 			}
-			o = o.Scale(1 / float64(b-a-1))
-			var sxx, sxy, syy float64
-			for j := a + 1; j < b; j++ {
-				d := at(j - w).Sub(o)
-				sxx, sxy, syy = sxx+d.X*d.X, sxy+d.X*d.Y, syy+d.Y*d.Y
-			}
-			th := 0.5 * math.Atan2(2*sxy, sxx-syy)
-			dir := geometry.Point{X: math.Cos(th), Y: math.Sin(th)}
+			o, dir := geometry.MajorAxis(between)
 			straight = true
-			for j := a + 1; j < b; j++ {
-				if math.Abs(dir.Cross(at(j-w).Sub(o))) > baseSigmas*sigma {
+			for _, p := range between {
+				if math.Abs(dir.Cross(p.Sub(o))) > baseSigmas*sigma {
 					straight = false
 				}
 			}
@@ -711,18 +704,12 @@ func newEndRebuild(c *geometry.Contour, ends trailingEnds, sharp bool, pts []geo
 	if sharp || len(ends.base) < 2 {
 		return e
 	}
-	var o geometry.Point
-	for _, i := range ends.base {
-		o = o.Add(c.Points[i])
+	base := make([]geometry.Point, len(ends.base))
+	for k, i := range ends.base {
+		base[k] = c.Points[i]
 	}
-	o = o.Scale(1 / float64(len(ends.base)))
-	var sxx, sxy, syy float64
-	for _, i := range ends.base {
-		d := c.Points[i].Sub(o)
-		sxx, sxy, syy = sxx+d.X*d.X, sxy+d.X*d.Y, syy+d.Y*d.Y
-	}
-	th := 0.5 * math.Atan2(2*sxy, sxx-syy)
-	e.base, e.o, e.dir = true, o, geometry.Point{X: math.Cos(th), Y: math.Sin(th)}
+	o, dir := geometry.MajorAxis(base)
+	e.base, e.o, e.dir = true, o, dir
 	e.nBase = len(ends.base)
 	for _, i := range ends.base {
 		u := c.Points[i].Sub(o).Dot(e.dir)

@@ -47,21 +47,10 @@ func surfaceLine(cv *curve.Curve, a, b float64) geometry.Point {
 	wrap := func(s float64) float64 { return math.Mod(math.Mod(s, L)+L, L) }
 	const m = 41
 	pts := make([]geometry.Point, m)
-	var o geometry.Point
 	for k := range pts {
 		pts[k] = cv.At(wrap(a + (b-a)*float64(k)/(m-1)))
-		o = o.Add(pts[k])
 	}
-	o = o.Scale(1.0 / m)
-	var sxx, sxy, syy float64
-	for _, p := range pts {
-		d := p.Sub(o)
-		sxx += d.X * d.X
-		sxy += d.X * d.Y
-		syy += d.Y * d.Y
-	}
-	th := 0.5 * math.Atan2(2*sxy, sxx-syy)
-	d := geometry.Point{X: math.Cos(th), Y: math.Sin(th)}
+	o, d := geometry.MajorAxis(pts)
 	if d.Dot(pts[0].Sub(pts[m-1])) < 0 {
 		d = d.Scale(-1)
 	}
