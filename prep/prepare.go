@@ -6,7 +6,6 @@ import (
 	"fmt"
 	"math"
 	"strings"
-	"sync/atomic"
 
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/accuracy"
@@ -18,7 +17,6 @@ import (
 	"github.com/foilwright/foilwright/geometry/props"
 	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/internal/digest"
-	"github.com/foilwright/foilwright/internal/par"
 	"github.com/foilwright/foilwright/repanel"
 )
 
@@ -231,6 +229,13 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 	if err != nil {
 		return nil, err
 	}
+	// The section's uncertainty (its replicas refitted and normalised)
+	// needs only the curve and the fit for its fits, which a second core
+	// begins while this one normalises the section; the shape for the
+	// rest. Whatever way the chain leaves, the estimate's goroutine stops
+	// (after Wait it has ended already).
+	acc := accuracy.Begin(p.Curve, p.Fit, accuracy.Options{Edges: eo})
+	defer acc.Stop()
 	no := eo
 	no.Support = p.Fit.S // the mirror decision reads only the measured nose
 	no.Noise = p.Fit.NoiseEstimate
@@ -240,26 +245,11 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 		}
 		return nil, fmt.Errorf("%s: %w", where, err)
 	}
-	// The section's uncertainty (its replicas refitted and normalised)
-	// needs only the curve, the fit and the shape: it is estimated on the
-	// second core while this one repanels and checks the gates, and not at
-	// all when the gates fail before it has begun.
+	// The estimate is finished on the second core while this one
+	// repanels and checks the gates, and given up when they fail.
+	acc.Finish(p.Shape)
 	rp := panelOptions(s)
-	var nodes []geometry.Point
-	var le int
-	var dev float64
-	var failed atomic.Bool
-	par.For(2, 2, func(_, k int) {
-		if k == 1 {
-			if !failed.Load() {
-				p.Uncertainty = accuracy.Estimate(p.Curve, p.Fit, p.Shape, accuracy.Options{Edges: eo})
-			}
-			return
-		}
-		if nodes, le, dev, err = p.shaped(rp, s, where); err != nil {
-			failed.Store(true)
-		}
-	})
+	nodes, le, dev, err := p.shaped(rp, s, where)
 	if err != nil {
 		if errors.Is(err, repanel.ErrPath) {
 			// A surface the repanelling cannot place its nodes on: the
@@ -269,6 +259,7 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 		}
 		return nil, err
 	}
+	p.Uncertainty = acc.Wait()
 	if useEdge {
 		widenForEdge(&p.Uncertainty, cl.Clean.Edge)
 	} else {

@@ -8,6 +8,7 @@ import (
 	"gonum.org/v1/gonum/mathext"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/internal/par"
 )
 
 // Trailing-edge kinds (Edge.Kind).
@@ -844,6 +845,10 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 	var models, alts []endModel
 	// Sharp.
 	sepEnd := u.at(xmax) - l.at(xmax)
+	// The rounded end's grid of tips and its search read only what the
+	// sharp and blunt models read: they run on a second core meanwhile.
+	var bestR *endModel
+	rounded := par.Start(func() { bestR = roundBest(u, l, z, zs, xmax, xa, step, pstep, scat, max(sepEnd, 0), pen) })
 	// The end spacing a corner put at the aftmost point is carried on by
 	// (unsampledStretch): the smallest of the steps and of the zone's own
 	// (its points share its length between the two surfaces), so that a
@@ -948,8 +953,8 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 	// by up to a step: an end sampled by one or two points need not have
 	// one at its tip (a point a angle θ round an arc of radius r lies
 	// r(1 − cos θ) short of it). The best of a grid of tips is refined by
-	// golden-section search between its neighbours.
-	if bestR := roundBest(u, l, z, zs, xmax, xa, step, pstep, scat, max(sepEnd, 0), pen); bestR != nil {
+	// golden-section search between its neighbours (begun above).
+	if rounded.Wait(); bestR != nil {
 		models = append(models, *bestR)
 	}
 	if len(models) == 0 {
