@@ -420,10 +420,9 @@ const edgeOutlier = 6
 //     scatter of each other; otherwise the surfaces must have ended apart
 //     (a corner beyond reach still counts among the plausible ends for
 //     the spreads).
-//   - blunt: the surfaces run to a base at some x (the best of
-//     edgeBases positions about the aftmost point), square to the chord
-//     or square to the surfaces' mean direction there (baseTilt), which
-//     joins them; a lone point on it is a base point.
+//   - blunt: the surfaces run to a base across the chord at some x (the
+//     best of edgeBases positions about the aftmost point), which joins
+//     them; a lone point on it is a base point.
 //   - rounded: a circular arc tangent to the surfaces joins them, its tip
 //     at the best of edgeBases positions about the aftmost point.
 //
@@ -431,9 +430,9 @@ const edgeOutlier = 6
 // one and pay for it (twice the log of the zone's point count, a Bayesian
 // information criterion, common practice); on a tie the simpler model
 // wins, sharp before blunt before rounded. A joining piece that few or no
-// points show must win by edgeEvidence besides (a base no point lies on
-// over a corner), or is not stated (an arc with fewer than edgeArcMin
-// points; see chooseEnd). The points of the zone are
+// points show must win by edgeEvidence besides: a base no point lies on
+// over a corner, an arc with fewer than edgeArcMin points over a base
+// (see chooseEnd). The points of the zone are
 // then split into the lower surface, the joining piece and the upper
 // surface in loop order, as the winning model assigns them.
 func findEdge(pts []geometry.Point, seq []int32, sigma float64) (edgeFound, bool) {
@@ -565,61 +564,9 @@ func baseFrame(pts []geometry.Point, seq []int32, f chordFrame) (chordFrame, boo
 	return newChordFrame(f.le, f.le.Add(nrm.Scale(l))), true
 }
 
-// baseTilt returns the direction, from the lower surface to the upper,
-// of a base square to the mean direction of the surfaces u and l at
-// station x (the bisector of their tangents: the camber line's direction
-// where a section's thickness is laid off square to it, as NACA Report
-// 824 does, so that its open edge's base leans by the camber line's
-// slope there, some 20° on a 6–9 % cambered section), and whether it
-// leans from square to the chord by more than baseTiltMin.
-func baseTilt(u, l quadFit, x float64) (geometry.Point, bool) {
-	su, sl := u.c[1]+2*u.c[2]*x, l.c[1]+2*l.c[2]*x
-	th := (math.Atan(su) + math.Atan(sl)) / 2
-	if !(math.Abs(th) > baseTiltMin) {
-		return geometry.Point{}, false
-	}
-	return geometry.Point{X: -math.Sin(th), Y: math.Cos(th)}, true
-}
-
-// baseTiltMin is the least lean (radians) of a base square to the
-// surfaces' mean direction for which it is tried besides one square to
-// the chord: 1°, below which the two bases' ends differ by under 1 % of
-// the base's half-thickness (sin 1° ≈ 0.017 of it along the chord, common
-// practice to skip).
-const baseTiltMin = math.Pi / 180
-
-// baseAcross returns the ends of a base along the direction d (unit,
-// d.Y > 0) through the point midway between the surfaces u and l at
-// station xb: where that line meets each surface (Newton's method from
-// the station itself); ok is false when it meets them in the wrong order
-// or not at all.
-func baseAcross(u, l quadFit, xb float64, d geometry.Point) (lo, hi geometry.Point, ok bool) {
-	m := geometry.Point{X: xb, Y: (u.at(xb) + l.at(xb)) / 2}
-	meet := func(q quadFit) (geometry.Point, bool) {
-		t := (q.at(xb) - m.Y) / d.Y
-		for range 8 {
-			x := m.X + t*d.X
-			g := m.Y + t*d.Y - q.at(x)
-			dg := d.Y - (q.c[1]+2*q.c[2]*x)*d.X
-			if !(math.Abs(dg) > 1e-12) {
-				return geometry.Point{}, false
-			}
-			t -= g / dg
-		}
-		p := m.Add(d.Scale(t))
-		return p, math.Abs(p.Y-q.at(p.X)) <= 1e-9 && !math.IsNaN(p.X)
-	}
-	hi, oku := meet(u)
-	lo, okl := meet(l)
-	if !oku || !okl || hi.Sub(lo).Dot(d) <= 0 {
-		return lo, hi, false
-	}
-	return lo, hi, true
-}
-
-// edgeEvidence is the least difference of scores by which a base no point
-// lies on wins over a sharp corner (a likelihood ratio of e, positive
-// evidence on the usual scale of Bayes factors, common practice).
+// edgeEvidence is the least difference of scores by which a rounded end
+// wins over a blunt one (a likelihood ratio of e, positive evidence on
+// the usual scale of Bayes factors, common practice).
 const edgeEvidence = 2
 
 // edgeArcMin is the least number of points on its arc for which a
@@ -966,31 +913,23 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 		models = append(models, m)
 	}
 	// Blunt: bases about the aftmost point, and beyond it by up to two
-	// steps (a base no point sampled, its position left open), each
-	// square to the chord (a part cut square) or square to the surfaces'
-	// mean direction at the end (baseTilt).
+	// steps (a base no point sampled, its position left open).
 	var bestB *endModel
 	var cands []endModel
-	dirs := []geometry.Point{{X: 0, Y: 1}}
-	if d, ok := baseTilt(u, l, xmax); ok {
-		dirs = append(dirs, d)
-	}
-	for j := range (edgeBases + edgeBases/2) * len(dirs) {
-		d := dirs[j/(edgeBases+edgeBases/2)]
-		j %= edgeBases + edgeBases/2
+	for j := range edgeBases + edgeBases/2 {
 		xb := xmax + (float64(j)/float64(edgeBases-1)-0.75)*4*scat
 		if j >= edgeBases {
 			xb = xmax + 2*pstep*float64(j-edgeBases+1)/float64(edgeBases/2)
 		}
-		lo, hi, ok := baseAcross(u, l, xb, d)
-		if !ok {
+		lo, hi := geometry.Point{X: xb, Y: l.at(xb)}, geometry.Point{X: xb, Y: u.at(xb)}
+		if hi.Y <= lo.Y {
 			continue
 		}
-		m := endModel{kind: EdgeBlunt, xu: hi.X, xl: lo.X, lo: lo, hi: hi, extra: pen}
+		m := endModel{kind: EdgeBlunt, xu: xb, xl: xb, lo: lo, hi: hi, extra: pen}
 		if cs := max(2*scat, snapTol(scat, step)); !sampled(z, hi, cs) || !sampled(z, lo, cs) {
 			// A corner no point sampled: the surfaces' last points end
 			// at the same station by chance, as short of a sharp corner.
-			lastU, lastL := lastOn(z, u, l, max(hi.X, lo.X)+cs)
+			lastU, lastL := lastOn(z, u, l, xb+cs)
 			m.extra += coincidence(math.Abs(lastU.X-lastL.X)+scat, pstep)
 		}
 		m.extra += gapDeviance(m.path(u, l, xa), pstep)
@@ -1033,16 +972,17 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 	for k := range models {
 		models[k].score = models[k].misfit(u, l, z, scat, edgeOutlier, out, zs) + models[k].extra + fits.gaps.deviance(&models[k], u, l, z, out, xa)
 	}
-	// An arc with fewer than edgeArcMin points on it is not chosen: a
-	// circle tangent to both surfaces through one or two points fits a
-	// corner or a base as well, and the points show no turning end (it
-	// still counts among the plausible ends for the spread below, when a
-	// point lies on it). Letting it win over a base by a likelihood ratio
-	// of e stated a rounded end on one point of a blunt base (a sparse
-	// drawing's, a probe's second pass's) where a base was as likely; the
-	// generator's judge, and any fair one, holds an end on fewer than
-	// three points undecidable between the two. With more, the scores
+	// A rounded end with fewer than edgeArcMin points on its arc must beat
+	// a blunt one by edgeEvidence: an end sampled by a point or two fits a
+	// base and an arc alike, and the base is the more common end of a
+	// measured or drawn section (common practice). With more, the scores
 	// decide.
+	//
+	// An arc with no point on it is not chosen at all, and one with fewer
+	// than edgeArcMin never wins over a sharp corner: a circle tangent to
+	// both surfaces through one or two points fits a corner as well, and
+	// the points show no turning end (either still counts among the
+	// plausible ends for the spread below).
 	//
 	// A base with no point on it must likewise beat a sharp corner by
 	// edgeEvidence: such a base is seen only in where the surfaces' last
@@ -1070,16 +1010,16 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 			continue
 		}
 		b := models[bk]
-		if m.kind == EdgeRounded && endPts[k] < edgeArcMin {
+		if m.kind == EdgeRounded && endPts[k] < edgeArcMin && b.kind == EdgeSharp {
 			continue
 		}
 		margin := 0.0
 		switch {
-		case m.kind == EdgeBlunt && b.kind == EdgeSharp && endPts[k] == 0:
+		case m.kind == EdgeRounded && b.kind == EdgeBlunt && endPts[k] < edgeArcMin,
+			m.kind == EdgeBlunt && b.kind == EdgeSharp && endPts[k] == 0:
 			margin = edgeEvidence
-		case b.kind == EdgeRounded && endPts[bk] < edgeArcMin:
-			margin = math.Inf(-1)
-		case b.kind == EdgeBlunt && m.kind == EdgeSharp && endPts[bk] == 0:
+		case b.kind == EdgeRounded && m.kind == EdgeBlunt && endPts[bk] < edgeArcMin,
+			b.kind == EdgeBlunt && m.kind == EdgeSharp && endPts[bk] == 0:
 			margin = -edgeEvidence
 		}
 		if m.score+margin < b.score {
