@@ -37,10 +37,15 @@ type Record struct {
 	TEGot     string
 	TERight   bool
 	// TEUndecidable is true when the good points cannot tell the true
-	// trailing-edge kind from another at their sampling (teUndecidable);
-	// TEEndPoints counts the good points on the true base or rounded end.
+	// trailing-edge kind from another at their sampling (teUndecidable)
+	// or at their noise (teIndistinct); TEEndPoints counts the good points
+	// on the true base or rounded end.
 	TEUndecidable bool
 	TEEndPoints   int
+	// TESeparation is teIndistinct's λ, the noise-free points' squared
+	// distance in scatters from the nearest outline of a rival kind of
+	// end; −1 when it weighs none.
+	TESeparation float64
 	// Good counts good lines that are not part of a duplicate pair;
 	// GoodDropped those the section lists as dropped for a reason other
 	// than being a duplicate. Planted counts planted outliers, Caught those
@@ -80,6 +85,12 @@ func evaluate(r *Record, tr *scangen.Truth, sec *section) {
 	r.TEGot = sec.TrailingEdge.Kind
 	r.TERight = teRight(tr, r.TEGot)
 	r.TEUndecidable, r.TEEndPoints = teUndecidable(tr)
+	indistinct, lambda := teIndistinct(tr)
+	r.TEUndecidable = r.TEUndecidable || indistinct
+	r.TESeparation = -1
+	if !math.IsInf(lambda, 1) {
+		r.TESeparation = lambda
+	}
 	countDropped(r, tr, sec)
 
 	u := sec.Uncertainty

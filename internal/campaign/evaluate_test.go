@@ -323,3 +323,68 @@ func TestTEUndecidable(t *testing.T) {
 		}
 	}
 }
+
+// A base and a rounded end are indistinct as teIndistinct's documentation
+// says: the noise-free points' separation λ from the nearest rival outline
+// scales as 1/σ² (a sum of squares in scatters) and the kind is
+// indistinct below (2·1.645)², so the same sampling decides under small
+// noise and not under noise of a few tenths of the end's thickness; a
+// sharp edge and noise-free points weigh no rival. The sections are NACA
+// 0012 with its open edge (NACA Report 824: base 0.25 % of the chord) and
+// closed and rounded to a radius of 0.5 % of the chord.
+func TestTEIndistinct(t *testing.T) {
+	build := func(s scangen.ShapeSpec) *scangen.Section {
+		sec, err := s.Build()
+		if err != nil {
+			t.Fatal(err)
+		}
+		return sec
+	}
+	open := build(scangen.ShapeSpec{Family: scangen.FamilyNACA, NACA: &scangen.NACASpec{Thickness: 0.12}})
+	closed := build(scangen.ShapeSpec{Family: scangen.FamilyNACA, NACA: &scangen.NACASpec{Thickness: 0.12, ClosedTE: true}})
+	rounded := build(scangen.ShapeSpec{Family: scangen.FamilyNACA, NACA: &scangen.NACASpec{Thickness: 0.12, ClosedTE: true}, RoundRadius: 0.005})
+	// Points every h of arc along the last 0.1 c of both surfaces and n
+	// on the end piece, evenly.
+	lines := func(sec *scangen.Section, h float64, n int) []scangen.Line {
+		sh := sec.Shape
+		sLo := sh.ArcAt(2)
+		var ls []scangen.Line
+		for d := h / 2; d < 0.1; d += h {
+			ls = append(ls, scangen.Line{Kind: scangen.LineGood, T: sh.ParamAt(d)}, scangen.Line{Kind: scangen.LineGood, T: sh.ParamAt(sLo - d)})
+		}
+		for k := range n {
+			ls = append(ls, scangen.Line{Kind: scangen.LineGood, T: 2 + (float64(k)+0.5)/float64(n)})
+		}
+		return ls
+	}
+	for _, tc := range []struct {
+		name  string
+		sec   *scangen.Section
+		lines []scangen.Line
+		noise float64
+		want  bool
+	}{
+		{"blunt, 4 base points, noise 0.02 of the base", open, lines(open, 0.0006, 4), 5e-5, false},
+		{"blunt, 4 base points, noise 0.3 of the base", open, lines(open, 0.0006, 4), 7.5e-4, true},
+		{"rounded, 8 arc points, noise 0.005 of the width", rounded, lines(rounded, 0.001, 8), 5e-5, false},
+		{"rounded, 8 arc points, noise 0.3 of the width", rounded, lines(rounded, 0.001, 8), 3e-3, true},
+	} {
+		tr := &scangen.Truth{Section: tc.sec, TEKind: tc.sec.TEKind, Lines: tc.lines, Noise: tc.noise}
+		got, l1 := teIndistinct(tr)
+		tr.Noise *= 2
+		_, l2 := teIndistinct(tr)
+		if got != tc.want || math.Abs(l1/l2-4) > 1e-6 {
+			t.Errorf("%s: indistinct %v (λ %.4g, at twice the noise %.4g), want %v and a ratio of 4", tc.name, got, l1, l2, tc.want)
+		}
+	}
+	for _, tc := range []struct {
+		name  string
+		sec   *scangen.Section
+		noise float64
+	}{{"sharp", closed, 1e-3}, {"blunt, noise-free", open, 0}} {
+		tr := &scangen.Truth{Section: tc.sec, TEKind: tc.sec.TEKind, Lines: lines(tc.sec, 0.0006, 4), Noise: tc.noise}
+		if got, l := teIndistinct(tr); got || !math.IsInf(l, 1) {
+			t.Errorf("%s: indistinct %v, λ %g; want false, +Inf", tc.name, got, l)
+		}
+	}
+}
