@@ -32,8 +32,29 @@ const (
 	gateExtent  = 0.03 // the chord may differ from the points' largest extent by this share
 	gateNoseCap = 0.02 // near the nose (x below this), x may run back by ...
 	gateBack    = 2e-3 // ... this much of the chord, and elsewhere by this
-	gateTEAngle = 90   // degrees: the largest plausible trailing-edge angle
-	gateFitRMS  = 10   // the fit's RMS residual may exceed the points' scatter this many times
+	gateTEAngle = 90   // degrees: the largest plausible trailing-edge angle of most sections, ...
+	// ... and of a thick one whose surfaces open up from the trailing edge
+	// as that angle says (wedgeAft): the thickest sections of the NACA
+	// 4-digit-modified equations (Report 824; t up to 0.4, d₁ = 0.7 with
+	// the thickness greatest at 60 %) meet at up to 109° (campaign seeds
+	// 914, 972, 1983, 5080, 5330 exited 2 at 96–109°), while a trailing
+	// edge found on the smooth outline, a nose taken for it or a point off
+	// the section beyond it, meets at 128° (seed 6224) to 180°; our choice
+	// of limit between them.
+	gateTEAngleThick = 120
+	// wedgeAft: over the last gateWedgeFrom to gateWedgeTo of the chord
+	// the thickness grows by at least gateWedgeShare of what straight
+	// surfaces meeting at the trailing-edge angle would give: the
+	// 4-digit-modified sections above open by 0.77 to 0.81 of it (their
+	// equations give 0.76); a section whose end was read at a wider angle
+	// than its own (an outlier kept at the tail, a rounded end read as a
+	// corner: seeds 1310, 1835, 2588, of 5 %, 7 % and 30 % thickness with
+	// true angles of 7° to 70°, read at 91–117° with a node 0.02 c off)
+	// by −0.02 to 0.36 (our choice between them).
+	gateWedgeFrom  = 0.9
+	gateWedgeTo    = 0.99
+	gateWedgeShare = 0.6
+	gateFitRMS     = 10 // the fit's RMS residual may exceed the points' scatter this many times
 	// The thicknesses compared by the thin-end gate, at gateThinFore and
 	// gateThinAft of the chord: every section of the campaign's families
 	// (NACA 4- and 5-digit and 4-digit-modified, Report 824 and Abbott and
@@ -211,7 +232,7 @@ func (p *Preparation) checkGates(nodes []geometry.Point, le int) *GateError {
 				Advice: "the outline folds there: the points may be out of order, or points of another part lie among them"}
 		}
 	}
-	if a := p.Props.TEAngleDeg; math.IsNaN(a) || a > gateTEAngle {
+	if a := p.Props.TEAngleDeg; math.IsNaN(a) || a > gateTEAngle && !(a <= gateTEAngleThick && wedgeAft(nodes, le, a)) {
 		return &GateError{Gate: GateTEAngle, Seen: fmt.Sprintf("the surfaces meet at %.1f° at the trailing edge", a),
 			Where:  nearestOrigin(p.Contour, toPart(geometry.Point{X: 1})),
 			Advice: "the trailing edge was probably found in the wrong place: set the leading edge with --le-at X,Y"}
@@ -249,6 +270,17 @@ func (p *Preparation) checkGates(nodes []geometry.Point, le int) *GateError {
 			Advice: "the points may not lie on one smooth outline in the order found: look at them (points --plot)"}
 	}
 	return nil
+}
+
+// wedgeAft reports whether the normalised section nodes (leading edge at
+// node le) grow in thickness from gateWedgeTo to gateWedgeFrom of the
+// chord by at least gateWedgeShare of what straight surfaces meeting at
+// the trailing-edge angle (degrees) would: a thick section whose wide
+// trailing-edge angle is its own.
+func wedgeAft(nodes []geometry.Point, le int, angle float64) bool {
+	grow := thicknessAt(nodes, le, gateWedgeFrom) - thicknessAt(nodes, le, gateWedgeTo)
+	straight := 2 * math.Tan(angle*math.Pi/360) * (gateWedgeTo - gateWedgeFrom)
+	return grow >= gateWedgeShare*straight
 }
 
 // pinch returns the chord station x of the normalised section nodes

@@ -3,6 +3,7 @@ package prep
 import (
 	"errors"
 	"math"
+	"slices"
 	"strings"
 	"testing"
 
@@ -206,6 +207,67 @@ func TestPinch(t *testing.T) {
 		}
 		if ok && math.Abs(x-0.46) > 0.02 {
 			t.Errorf("%s: pinched at x = %.3f, want about 0.46", tc.name, x)
+		}
+	}
+}
+
+// exactNodes returns the outline of the exact section spec (internal/scangen,
+// in the normalised frame) as n+1 nodes from the trailing edge over the
+// upper surface to the leading edge and back, and the index of the
+// leading-edge node.
+func exactNodes(t *testing.T, spec scangen.ShapeSpec, n int) ([]geometry.Point, int) {
+	t.Helper()
+	sec, err := spec.Build()
+	if err != nil {
+		t.Fatal(err)
+	}
+	sh := sec.Shape
+	P := float64(sh.Pieces())
+	nodes := make([]geometry.Point, n+1)
+	for k := range nodes {
+		nodes[k] = sh.At(sh.TE() + P*float64(k)/float64(n))
+	}
+	if nodes[1].Y < 0 {
+		slices.Reverse(nodes)
+	}
+	le := 0
+	for k, p := range nodes {
+		if p.Norm() < nodes[le].Norm() {
+			le = k
+		}
+	}
+	return nodes, le
+}
+
+// A trailing-edge angle above 90° is a thick section's own when its
+// surfaces open up from the edge as that angle says (wedgeAft), and not
+// when only the end was read wide. Exact sections by the equations of
+// NACA Report 824 (4-digit and 4-digit-modified, as internal/scangen
+// draws them); the true angle of a 4-digit-modified section is
+// 2·atan(d₁·t/0.2) (the slope of its aft thickness form at x = 1).
+func TestWedgeAft(t *testing.T) {
+	mod := func(thick, maxPos, d1 float64, closed bool, round float64) scangen.ShapeSpec {
+		return scangen.ShapeSpec{Family: scangen.FamilyModNACA, RoundRadius: round,
+			Mod: &scangen.ModNACA4Spec{Thickness: thick, NoseIndex: 6, MaxPos: maxPos, TESlope: d1, ClosedTE: closed}}
+	}
+	own := func(thick, d1 float64) float64 { return 2 * math.Atan(d1*thick/0.2) * 180 / math.Pi }
+	for _, tc := range []struct {
+		name  string
+		spec  scangen.ShapeSpec
+		angle float64 // degrees, as read
+		want  bool
+	}{
+		{"0032-66 at its own angle", mod(0.32, 0.6, 0.7, true, 0), own(0.32, 0.7), true},
+		{"0040-66 open at its own angle", mod(0.40, 0.6, 0.7, false, 0), own(0.40, 0.7), true},
+		{"0036-66 rounded at its own angle", mod(0.36, 0.6, 0.7, true, 0.0086), own(0.36, 0.7), true},
+		{"0030-55 rounded read at 109°", mod(0.30, 0.5, 0.465, true, 0.0086), 109, false},
+		{"0006 read at 100°", scangen.ShapeSpec{Family: scangen.FamilyNACA, NACA: &scangen.NACASpec{Thickness: 0.06, ClosedTE: true}}, 100, false},
+		{"0012 read at 95°", scangen.ShapeSpec{Family: scangen.FamilyNACA, NACA: &scangen.NACASpec{Thickness: 0.12}}, 95, false},
+	} {
+		nodes, le := exactNodes(t, tc.spec, 2000)
+		if got := wedgeAft(nodes, le, tc.angle); got != tc.want {
+			grow := thicknessAt(nodes, le, gateWedgeFrom) - thicknessAt(nodes, le, gateWedgeTo)
+			t.Errorf("%s: wedgeAft at %.1f° = %v, want %v (thickness grows %.4f c from x = %g to %g)", tc.name, tc.angle, got, tc.want, grow, gateWedgeTo, gateWedgeFrom)
 		}
 	}
 }
