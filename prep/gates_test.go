@@ -8,6 +8,7 @@ import (
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/geometry/curve"
 	"github.com/foilwright/foilwright/geometry/frame"
 	"github.com/foilwright/foilwright/geometry/shape"
 	"github.com/foilwright/foilwright/internal/scangen"
@@ -268,6 +269,52 @@ func TestWedgeAft(t *testing.T) {
 		if got := wedgeAft(nodes, le, tc.angle); got != tc.want {
 			grow := thicknessAt(nodes, le, gateWedgeFrom) - thicknessAt(nodes, le, gateWedgeTo)
 			t.Errorf("%s: wedgeAft at %.1f° = %v, want %v (thickness grows %.4f c from x = %g to %g)", tc.name, tc.angle, got, tc.want, grow, gateWedgeTo, gateWedgeFrom)
+		}
+	}
+}
+
+// The fit gate leaves out the points beyond the fit's tolerance only on
+// the last way Prepare tries, only when they are few, and then holds the
+// rest to twice their scatter: a burst of outliers the curve does not
+// follow (calculated by hand: 994 residuals of ±r and 6 of 50 have an
+// RMS of 3.99 at r = 1; without the 6, r).
+func TestFitDeparts(t *testing.T) {
+	report := func(beyond int, rest float64) *curve.FitReport {
+		rep := &curve.FitReport{Tolerance: 4}
+		var ss float64
+		for k := range 1000 {
+			r := rest
+			if k%2 == 1 {
+				r = -rest
+			}
+			if k < beyond {
+				r = 50
+				rep.Beyond = append(rep.Beyond, geometry.Origin{File: "burst.csv", Line: k + 1})
+			}
+			rep.Residual = append(rep.Residual, r)
+			ss += r * r
+		}
+		rep.RMS = math.Sqrt(ss / 1000)
+		return rep
+	}
+	const scat = 0.3 // the RMS of 3.99 is 13 times it
+	for _, tc := range []struct {
+		name   string
+		strict bool
+		beyond int
+		rest   float64
+		want   bool
+	}{
+		{"first way, 6 beyond", false, 6, 0.3, true},
+		{"last way, 6 beyond, rest within their scatter", true, 6, 0.3, false},
+		{"last way, 6 beyond, rest at 2.3 times it", true, 6, 0.7, true},
+		{"last way, 11 beyond (over 1 %)", true, 11, 0.3, true},
+		{"last way, none beyond", true, 0, 3.5, true},
+		{"within 10 times the scatter", false, 0, 2.9, false},
+	} {
+		p := &Preparation{Fit: report(tc.beyond, tc.rest), strict: tc.strict}
+		if got := p.fitDeparts(scat); got != tc.want {
+			t.Errorf("%s: fitDeparts %v, want %v (RMS %.3g)", tc.name, got, tc.want, p.Fit.RMS)
 		}
 	}
 }

@@ -56,6 +56,10 @@ type Preparation struct {
 	// of a fitted outline (Cleaned.retaken): its kink gate reaches up to
 	// the trailing edge's own stretch.
 	retaken bool
+	// strict is set on the last way Prepare tries (strictOutliers): its
+	// fit gate leaves out a few points far beyond the fit's tolerance
+	// (fitRMS).
+	strict bool
 }
 
 // Cleaned is what the first half of the geometry chain made of a
@@ -73,6 +77,7 @@ type Cleaned struct {
 	Read     int             // points read from all files
 	cloud    *geometry.Cloud // the planar cloud cleaned
 	alongFit bool            // the contour was retaken in the order of a fitted outline
+	strict   bool            // cleaned at strictSigma, the last way Prepare tries
 }
 
 // ReadAndClean runs the first half of the geometry chain on the files of
@@ -244,15 +249,30 @@ const strictSigma = 4
 // bends out to it and fails a gate (self-crossing, a fold, a thick end
 // where the section is thin). The stricter threshold drops them; it may
 // drop a few good points as well, which the gates, the fit's report and
-// the stated bounds then judge as for any other section.
+// the stated bounds then judge as for any other section. A burst that
+// stays in even so, as a tight cluster its own local fits follow, but
+// lies far off the curve fitted to the rest, is listed by the fit as
+// beyond its tolerance and left out of its gate (fitRMS).
 func (cl *Cleaned) strictOutliers(name string, s Settings, ge *GateError, tried *[]string) *Preparation {
 	if s.OutlierSigma != nil || (s.KeepOutliers != nil && *s.KeepOutliers) {
 		return nil
+	}
+	if ge.Gate == GateFit {
+		// The first way failed only the fit gate: its points again, with
+		// the burst the fit lists left out of that gate.
+		first := *cl
+		first.strict = true
+		*tried = append(*tried, "the points beyond the fit's tolerance left out of its check")
+		if p, err := finishChain(name, &first, s, true); err == nil {
+			p.Section.Warnings = append(p.Section.Warnings, fmt.Sprintf("the %s order of the points failed the check %q (%s) by %d point(s) far off the fitted curve (listed above); without them it passes", cl.Clean.Strategy, ge.Gate, ge.Seen, len(p.Fit.Beyond)))
+			return p
+		}
 	}
 	st := s
 	sigma := float64(strictSigma)
 	st.OutlierSigma = &sigma
 	alt := *cl
+	alt.strict = true
 	if alt.clean(st, "") != nil {
 		return nil
 	}
@@ -271,7 +291,7 @@ func (cl *Cleaned) strictOutliers(name string, s Settings, ge *GateError, tried 
 		}
 	}
 	for _, order := range orderings(alt.Clean.Strategy) {
-		o := *cl
+		o := alt
 		if o.clean(st, order) != nil {
 			continue
 		}
@@ -287,7 +307,7 @@ func (cl *Cleaned) strictOutliers(name string, s Settings, ge *GateError, tried 
 // the gates, the properties and the document. A failure to locate the
 // edges or to pass a gate is a *GateError.
 func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparation, error) {
-	p := &Preparation{Clouds: cl.Clouds, Flatness: cl.Flatness, Clean: cl.Clean, Contour: cl.Contour, retaken: cl.alongFit}
+	p := &Preparation{Clouds: cl.Clouds, Flatness: cl.Flatness, Clean: cl.Clean, Contour: cl.Contour, retaken: cl.alongFit, strict: cl.strict}
 	where := strings.Join(cl.Files, ", ")
 	if err := p.fit(cl, s, useEdge); err != nil {
 		return nil, err

@@ -22,8 +22,13 @@ import "testing"
 //     by its equations: refused by the gate "trailing-edge angle" (90°),
 //     which now passes a wide angle that the thickness ahead of the edge
 //     bears out.
+//   - 2258 (general): a burst of 6 outliers 0.018 c off the section
+//     kept by the cleaning; the curve leaves them out but their
+//     residuals failed the gate "fit within the scatter". Prepare's last
+//     way leaves the few points the fit lists beyond its tolerance out of
+//     that gate.
 func TestWellSampledFailuresMended(t *testing.T) {
-	seeds := []uint64{419, 609, 1572, 5080}
+	seeds := []uint64{419, 609, 1572, 5080, 2258}
 	if raceEnabled {
 		seeds = seeds[1:] // the smaller file
 	}
