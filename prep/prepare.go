@@ -54,6 +54,10 @@ type Preparation struct {
 	// of a fitted outline (Cleaned.retaken): its kink gate reaches up to
 	// the trailing edge's own stretch.
 	retaken bool
+	// strict is set on the last way Prepare tries (strictOutliers): its
+	// fit gate leaves out a few points far beyond the fit's tolerance
+	// (fitRMS).
+	strict bool
 }
 
 // Cleaned is what the first half of the geometry chain made of a
@@ -71,6 +75,7 @@ type Cleaned struct {
 	Read     int             // points read from all files
 	cloud    *geometry.Cloud // the planar cloud cleaned
 	alongFit bool            // the contour was retaken in the order of a fitted outline
+	strict   bool            // cleaned at strictSigma, the last way Prepare tries
 }
 
 // ReadAndClean runs the first half of the geometry chain on the files of
@@ -168,9 +173,12 @@ func (c *Cleaned) clean(s Settings, order string) error {
 // self-crossing, chord within the points' extent, surfaces monotone along
 // the chord, a plausible trailing-edge angle, a fit within the points'
 // scatter). When it fails one, or the edges cannot be located, the chain
-// tries again with the other orderings of the points (orderings) and then
-// with the fit finding the trailing edge on its own; the first way that
-// passes wins, and its record says which (the clean report's Strategy).
+// tries again with the other orderings of the points (orderings), then
+// with the fit finding the trailing edge on its own, then with the points
+// retaken along a fitted outline (retaken), and last with the points
+// cleaned at a stricter outlier threshold (strictOutliers); the first way
+// that passes wins, and its record says which (the clean report's
+// Strategy, and a warning).
 // When none does, Prepare returns the first failure as a *GateError.
 func Prepare(name string, files []File, s Settings) (*Preparation, error) {
 	cl, err := ReadAndClean(files, s)
@@ -211,8 +219,85 @@ func Prepare(name string, files []File, s Settings) (*Preparation, error) {
 			return p, nil
 		}
 	}
+	if p := cl.strictOutliers(name, s, ge, &tried); p != nil {
+		return p, nil
+	}
 	ge.Tried = tried
 	return nil, fmt.Errorf("%s: %w", strings.Join(cl.Files, ", "), ge)
+}
+
+// strictSigma is the outlier threshold, in robust sigmas of the local
+// fit, of the last way Prepare tries: our choice, between the default
+// (clean.DefaultOutlierSigma, 6) and 3, which on the robustness
+// campaign's failures mended more sections but made some wrong (seeds
+// 121 and 1206 of 1–3000).
+const strictSigma = 4
+
+// strictOutliers runs the chain again on the points cleaned with the
+// stricter outlier threshold strictSigma, when the user set neither the
+// threshold nor --keep-outliers: in the order the cleaning picks, with
+// the fit placing the trailing edge on its own, then in the other
+// orderings, as Prepare does at the default threshold. It returns the
+// first preparation that passes every gate, warned of as the way that
+// passed, or nil; it adds the ways to tried.
+//
+// A burst of outliers beside a surface probed several times more coarsely
+// than the rest can outnumber that surface's own points in a local fit:
+// at the default threshold some of the burst stays in, the fitted outline
+// bends out to it and fails a gate (self-crossing, a fold, a thick end
+// where the section is thin). The stricter threshold drops them; it may
+// drop a few good points as well, which the gates, the fit's report and
+// the stated bounds then judge as for any other section. A burst that
+// stays in even so, as a tight cluster its own local fits follow, but
+// lies far off the curve fitted to the rest, is listed by the fit as
+// beyond its tolerance and left out of its gate (fitRMS).
+func (cl *Cleaned) strictOutliers(name string, s Settings, ge *GateError, tried *[]string) *Preparation {
+	if s.OutlierSigma != nil || (s.KeepOutliers != nil && *s.KeepOutliers) {
+		return nil
+	}
+	if ge.Gate == GateFit {
+		// The first way failed only the fit gate: its points again, with
+		// the burst the fit lists left out of that gate.
+		first := *cl
+		first.strict = true
+		*tried = append(*tried, "the points beyond the fit's tolerance left out of its check")
+		if p, err := finishChain(name, &first, s, true); err == nil {
+			p.Section.Warnings = append(p.Section.Warnings, fmt.Sprintf("the %s order of the points failed the check %q (%s) by %d point(s) far off the fitted curve (listed above); without them it passes", cl.Clean.Strategy, ge.Gate, ge.Seen, len(p.Fit.Beyond)))
+			return p
+		}
+	}
+	st := s
+	sigma := float64(strictSigma)
+	st.OutlierSigma = &sigma
+	alt := *cl
+	alt.strict = true
+	if alt.clean(st, "") != nil {
+		return nil
+	}
+	way := fmt.Sprintf("outliers dropped beyond %g robust sigmas", sigma)
+	*tried = append(*tried, way)
+	passed := func(p *Preparation, how string) *Preparation {
+		p.Section.Warnings = append(p.Section.Warnings, fmt.Sprintf("the %s order of the points failed the check %q (%s); with outliers dropped beyond %g robust sigmas of the local fit rather than %g, %s passed: look at the points dropped (points --plot), or set --outlier-sigma", cl.Clean.Strategy, ge.Gate, ge.Seen, sigma, float64(clean.DefaultOutlierSigma), how))
+		return p
+	}
+	if p, err := finishChain(name, &alt, st, true); err == nil {
+		return passed(p, "the "+alt.Clean.Strategy+" order")
+	}
+	if alt.Clean.Edge != nil {
+		if p, err := finishChain(name, &alt, st, false); err == nil {
+			return passed(p, "the "+alt.Clean.Strategy+" order with the fit's own trailing edge")
+		}
+	}
+	for _, order := range orderings(alt.Clean.Strategy) {
+		o := alt
+		if o.clean(st, order) != nil {
+			continue
+		}
+		if p, err := finishChain(name, &o, st, true); err == nil {
+			return passed(p, "the "+order+" order")
+		}
+	}
+	return nil
 }
 
 // finishChain runs the rest of the chain on a cleaned contour: fit (with
@@ -220,7 +305,7 @@ func Prepare(name string, files []File, s Settings) (*Preparation, error) {
 // the gates, the properties and the document. A failure to locate the
 // edges or to pass a gate is a *GateError.
 func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparation, error) {
-	p := &Preparation{Clouds: cl.Clouds, Flatness: cl.Flatness, Clean: cl.Clean, Contour: cl.Contour, retaken: cl.alongFit}
+	p := &Preparation{Clouds: cl.Clouds, Flatness: cl.Flatness, Clean: cl.Clean, Contour: cl.Contour, retaken: cl.alongFit, strict: cl.strict}
 	where := strings.Join(cl.Files, ", ")
 	if err := p.fit(cl, s, useEdge); err != nil {
 		return nil, err
