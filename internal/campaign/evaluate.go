@@ -31,7 +31,16 @@ type Record struct {
 	ChordErr float64
 	TwistErr float64 // degrees
 	LEErr    float64 // chord units
-	NodeErr  float64 // largest distance of a node from the true shape, chord units
+	// LEAlong and LEAcross are the leading edge's error along the true
+	// chord line (towards the trailing edge) and across it (to the left
+	// of that direction seen from the side the plane's normal points to,
+	// or from +z for 2D points), signed, chord units; TEAlong and
+	// TEAcross are those of the trailing-edge point. The twist error is
+	// about |TEAcross − LEAcross| radians: they tell which end turned
+	// the chord line.
+	LEAlong, LEAcross float64
+	TEAlong, TEAcross float64
+	NodeErr           float64 // largest distance of a node from the true shape, chord units
 	// NodeErrAt is where that node is, in the section's normalised frame.
 	NodeErrAt geometry.Point
 	TEGot     string
@@ -77,6 +86,15 @@ func evaluate(r *Record, tr *scangen.Truth, sec *section) {
 	r.TwistErr = math.Atan2(a.Cross(b).Norm(), a.Dot(b)) * 180 / math.Pi
 	leAbs := le.Sub(tle).Norm()
 	r.LEErr = leAbs / tr.Chord
+	along := b.Scale(1 / b.Norm())
+	normal := geometry.Vec3{Z: 1}
+	if pl := tr.Plane; pl != nil {
+		normal = geometry.Vec3{X: pl.Normal[0], Y: pl.Normal[1], Z: pl.Normal[2]}
+	}
+	across := normal.Cross(along)
+	dl, dt := le.Sub(tle).Scale(1/tr.Chord), te.Sub(tte).Scale(1/tr.Chord)
+	r.LEAlong, r.LEAcross = dl.Dot(along), dl.Dot(across)
+	r.TEAlong, r.TEAcross = dt.Dot(along), dt.Dot(across)
 	for _, n := range sec.Nodes {
 		if d, _ := sh.Nearest(n); d > r.NodeErr {
 			r.NodeErr, r.NodeErrAt = d, n

@@ -145,9 +145,34 @@ func TestEvaluateWrong(t *testing.T) {
 	if r.Wrong != "" || r.Stated == nil || r.Covered != [4]bool{true, true, true, true} {
 		t.Errorf("covered: wrong %q, stated %v, covered %v", r.Wrong, r.Stated, r.Covered)
 	}
-	// Chord and twist turn about the leading edge, which stays put.
-	if r.LEErr > 1e-12 {
-		t.Errorf("leading edge error %g", r.LEErr)
+	// Chord and twist turn about the leading edge, which stays put; the
+	// trailing edge moves by 1.01 chords turned 0.5° less one chord
+	// (calculated by hand).
+	if r.LEErr > 1e-12 || math.Abs(r.LEAlong) > 1e-12 || math.Abs(r.LEAcross) > 1e-12 {
+		t.Errorf("leading edge error %g (along %g, across %g)", r.LEErr, r.LEAlong, r.LEAcross)
+	}
+	wantAlong, wantAcross := 1.01*math.Cos(0.5*math.Pi/180)-1, 1.01*math.Sin(0.5*math.Pi/180)
+	if math.Abs(r.TEAlong-wantAlong) > 1e-9 || math.Abs(math.Abs(r.TEAcross)-wantAcross) > 1e-9 {
+		t.Errorf("trailing edge off %g along, %g across the chord line; want %g, ±%g", r.TEAlong, r.TEAcross, wantAlong, wantAcross)
+	}
+	// The whole section moved across its chord line by 0.001 chord: both
+	// ends move alike, the chord line does not turn.
+	u := geometry.Point{X: tr.TE[0] - tr.LE[0], Y: tr.TE[1] - tr.LE[1]}.Scale(1 / tr.Chord)
+	shift := geometry.Point{X: -u.Y, Y: u.X}.Scale(1e-3 * tr.Chord)
+	moved := perfectDoc(t, c, 160, func(d map[string]any) {
+		f := d["frame"].(map[string]any)
+		le := f["le"].([2]float64)
+		f["le"] = [2]float64{le[0] + shift.X, le[1] + shift.Y}
+	})
+	r = evaluateDoc(t, c, moved)
+	for _, v := range []float64{r.LEAlong, r.TEAlong, r.TwistErr} {
+		if math.Abs(v) > 1e-9 {
+			t.Errorf("moved across: along %g and %g, twist %g°; want 0", r.LEAlong, r.TEAlong, r.TwistErr)
+			break
+		}
+	}
+	if math.Abs(r.LEAcross-1e-3) > 1e-9 || math.Abs(r.TEAcross-1e-3) > 1e-9 {
+		t.Errorf("moved 0.001 chord to the left of the chord line: across %g at the leading edge, %g at the trailing edge", r.LEAcross, r.TEAcross)
 	}
 	tooTight := perfectDoc(t, c, 160, func(d map[string]any) {
 		off(d)
