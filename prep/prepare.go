@@ -174,11 +174,33 @@ func (c *Cleaned) clean(s Settings, order string) error {
 // with the fit finding the trailing edge on its own; the first way that
 // passes wins, and its record says which (the clean report's Strategy).
 // When none does, Prepare returns the first failure as a *GateError.
+//
+// With a probe radius set, the points are ball centres: the chain runs
+// once on them to fit the path the ball took, then again on the points
+// moved the radius toward the part (probe.go).
 func Prepare(name string, files []File, s Settings) (*Preparation, error) {
+	if _, err := probeRadius(s, geometry.Millimetre); err != nil {
+		return nil, err // before the reading: a setting wrong for any input
+	}
 	cl, err := ReadAndClean(files, s)
 	if err != nil {
 		return nil, err
 	}
+	r, err := probeRadius(s, cl.Units)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", strings.Join(cl.Files, ", "), err)
+	}
+	p, err := prepareCleaned(name, cl, s)
+	if err != nil || r == 0 {
+		return p, err
+	}
+	return compensate(name, cl, p, s, r)
+}
+
+// prepareCleaned runs the chain on from a cleaned contour, through every
+// way of ordering and of finding the trailing edge until one passes the
+// gates (Prepare).
+func prepareCleaned(name string, cl *Cleaned, s Settings) (*Preparation, error) {
 	p, first := finishChain(name, cl, s, true)
 	if first == nil {
 		return p, nil
