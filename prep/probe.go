@@ -3,10 +3,10 @@ package prep
 import (
 	"errors"
 	"fmt"
+	"math"
 
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/curve"
-	"github.com/foilwright/foilwright/geometry/frame"
 )
 
 // A coordinate measuring machine that reports the centre of its probe ball
@@ -111,12 +111,97 @@ func (cl *Cleaned) compensated(cv *curve.Curve, fit *curve.FitReport, r float64)
 	return &alt, tight
 }
 
-// compensate runs the chain again on the points of cl moved r toward the
-// part (compensated) by the outline p fitted to the ball centres, and
-// records the radius in the section document.
-func compensate(name string, cl *Cleaned, p *Preparation, s Settings, r float64) (*Preparation, error) {
-	alt, tight := cl.compensated(p.Curve, p.Fit, r)
-	where := fmt.Sprintf("after moving the points %s toward the part (probe radius)", LengthText(r, cl.Units))
+// retargeted returns a copy of cl, not yet cleaned, whose planar cloud has
+// every point the section q kept moved r toward its nearest point on q's
+// outline: the contact point of a ball centred there, when q is the part
+// (the nearest point of a part to a ball's centre is where it touches).
+// A point's nearest point is taken at its compensated position's foot on
+// q (fit.S; on the straight base for a base point), which a centre near a
+// corner of q shares with the corner itself; a point q left out is
+// projected on q's outline.
+func (cl *Cleaned) retargeted(q *Preparation, prev *geometry.Cloud, r float64) *Cleaned {
+	cv, fit := q.Curve, q.Fit
+	a, b := cv.End(), cv.Start() // the straight base, when open
+	onBase := make(map[geometry.Origin]bool, len(fit.Base))
+	for _, o := range fit.Base {
+		onBase[o] = true
+	}
+	feet := make(map[geometry.Origin]float64, q.Contour.Len())
+	for i, o := range q.Contour.Origins {
+		if i < len(fit.S) {
+			feet[o] = fit.S[i]
+		}
+	}
+	src := cl.cloud
+	moved := *prev
+	moved.Points = make([]geometry.Vec3, len(prev.Points))
+	copy(moved.Points, prev.Points)
+	for i, c := range src.Points {
+		o := src.Origins[i]
+		centre := geometry.Point{X: c.X, Y: c.Y}
+		var foot geometry.Point
+		if s, ok := feet[o]; ok {
+			foot = cv.At(s)
+			if onBase[o] {
+				foot = segmentFoot(centre, a, b)
+			}
+		} else {
+			// A point q left out (an outlier there, or a merged
+			// duplicate): its nearest point on q's outline, the curve or
+			// the straight base. The centres round a corner q cut short
+			// are still nearest to its end, and come back beyond it.
+			s, d := cv.Project(centre)
+			foot = cv.At(s)
+			if f := segmentFoot(centre, a, b); a != b && f.Dist(centre) < d {
+				foot = f
+			}
+		}
+		d := centre.Sub(foot)
+		if n := d.Norm(); n > 0 {
+			p := centre.Sub(d.Scale(r / n))
+			moved.Points[i] = geometry.Vec3{X: p.X, Y: p.Y, Z: c.Z}
+		}
+	}
+	alt := *cl
+	alt.cloud = &moved
+	alt.Contour, alt.Clean, alt.alongFit = nil, nil, false
+	return &alt
+}
+
+// segmentFoot returns the point of the segment ab nearest to p.
+func segmentFoot(p, a, b geometry.Point) geometry.Point {
+	ab := b.Sub(a)
+	l2 := ab.Dot(ab)
+	if l2 == 0 {
+		return a
+	}
+	u := math.Max(0, math.Min(1, p.Sub(a).Dot(ab)/l2))
+	return a.Add(ab.Scale(u))
+}
+
+// compensate fits the path of the ball's centre, the cleaned points cl, by
+// a closed curve (a ball rolled round a part leaves a smooth path, with no
+// corner: an arc of its own radius round each of the part's), runs the
+// chain on the points moved r toward the part along that curve's normal
+// (compensated), then once more on the points moved r toward their
+// nearest point on that first estimate of the part (retargeted), which
+// puts the centres on a corner's arc back on the corner where the path's
+// normal, smoothed round the arc, had not; and records the radius in the
+// section document.
+func compensate(name string, cl *Cleaned, s Settings, r float64) (*Preparation, error) {
+	where := fmt.Sprintf("the path of the probe ball's centre (radius %s)", LengthText(r, cl.Units))
+	fo, err := fitOptions(cl, s)
+	if err != nil {
+		return nil, err
+	}
+	fo.Ends = curve.FitEndsClosed
+	var path Preparation
+	cv, rep, err := curve.Fit(cl.Contour, fo)
+	if err := path.finishFit(cl, s, cv, rep, err); err != nil {
+		return nil, fmt.Errorf("%s: %w", where, err)
+	}
+	alt, tight := cl.compensated(path.Curve, path.Fit, r)
+	where = fmt.Sprintf("after moving the points %s toward the part (probe radius)", LengthText(r, cl.Units))
 	if err := alt.clean(s, ""); err != nil {
 		return nil, fmt.Errorf("%s: %w", where, err)
 	}
@@ -124,16 +209,14 @@ func compensate(name string, cl *Cleaned, p *Preparation, s Settings, r float64)
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", where, err)
 	}
-	q.Section.Source.ProbeRadius = r
-	// Round the thin end the ball touches both surfaces in turn, and its
-	// centres pass a diameter apart or more: an end the centres close
-	// thinner than that (allowing the fit's error) was not traced by it.
-	te := p.Section.TrailingEdge
-	if thick := te.Thickness * p.Shape.Frame.Chord; te.Kind == frame.TESharp || thick < 0.8*2*r {
-		q.Section.Warnings = append(q.Section.Warnings, fmt.Sprintf("the points end %s thick at the trailing edge (%s), under the probe ball's diameter %s, where a ball's centres pass a diameter apart or more: check that they are ball centres, not points already compensated, and the radius", LengthText(thick, cl.Units), te.Kind, LengthText(2*r, cl.Units)))
+	if again := cl.retargeted(q, alt.cloud, r); again.clean(s, "") == nil {
+		if q2, err := prepareCleaned(name, again, s); err == nil {
+			q = q2
+		}
 	}
+	q.Section.Source.ProbeRadius = r
 	if tight > 0 {
-		q.Section.Warnings = append(q.Section.Warnings, fmt.Sprintf("the points bend with a radius of %s, under half the probe ball's %s, where a ball's centre rounds every corner at its own radius or more: check the probe radius, and the points there", LengthText(tight, cl.Units), LengthText(r, cl.Units)))
+		q.Section.Warnings = append(q.Section.Warnings, fmt.Sprintf("the points bend with a radius of %s, under half the probe ball's %s, where a ball's centre rounds every corner, and the end, at its own radius or more: check that they are ball centres, not points already compensated, and the radius", LengthText(tight, cl.Units), LengthText(r, cl.Units)))
 	}
 	return q, nil
 }

@@ -204,10 +204,11 @@ func TestPrepareProbeRadius(t *testing.T) {
 }
 
 // Points already on the part (compensated by the machine), given a probe
-// radius all the same, end thinner than the ball's diameter at the
-// trailing edge, where a ball's centres pass a diameter apart or more: prep
-// says so. The NACA 2412's Report 824 edge is 0.0105 t = 0.19 mm thick on
-// a 150 mm chord, under a 1 mm ball's 2 mm.
+// radius all the same, turn round their trailing edge tighter than a
+// ball's centre can (it rounds every corner, and the end, at its own
+// radius or more): prep says so. The NACA 2412's Report 824 edge is
+// 0.0105 t = 0.19 mm thick on a 150 mm chord, its corners far tighter
+// than half a 1 mm ball's radius.
 func TestProbeRadiusOnCompensatedPoints(t *testing.T) {
 	n := shape.NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12}
 	var part []geometry.Point
@@ -224,7 +225,7 @@ func TestProbeRadiusOnCompensatedPoints(t *testing.T) {
 		t.Fatal(err)
 	}
 	for _, w := range p.Section.Warnings {
-		if strings.Contains(w, "under the probe ball's diameter 2 mm") {
+		if strings.Contains(w, "under half the probe ball's 1 mm") {
 			return
 		}
 	}
