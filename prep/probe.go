@@ -51,7 +51,7 @@ func probeRadius(s Settings, units geometry.Unit) (float64, error) {
 // (fit.S), the straight base's normal for a point on a blunt base, and the
 // normal at the nearest point of the curve for a point the cleaning left
 // out (an outlier stays one r nearer the part). It also returns the
-// smallest radius of a convex bend of the path under half the ball's: a
+// smallest radius of a convex bend of the path under a quarter of the ball's: a
 // ball's centre rounds every convex feature of the part at r or more (a
 // sharp corner at exactly r), so a path bending tighter was not traced by
 // a ball of that radius, and the inner parallel folds there; 0 when there
@@ -96,9 +96,10 @@ func (cl *Cleaned) compensated(cv *curve.Curve, fit *curve.FitReport, r float64)
 			}
 			n = outward(s)
 			// Convex (the loop turning in its own sense) tighter than
-			// the ball allows, with room for a fit's error at a corner's
-			// arc.
-			if k := cv.Curvature(s) * sign; k > 0 && 1/k < r/2 && (tight == 0 || 1/k < tight) {
+			// the ball allows, with room for a closed fit's overshoot
+			// round a corner's arc sampled by a few points (down to 0.3 r
+			// on the independent check's ball centres; our margin).
+			if k := cv.Curvature(s) * sign; k > 0 && 1/k < r/4 && (tight == 0 || 1/k < tight) {
 				tight = 1 / k
 			}
 		}
@@ -216,7 +217,7 @@ func compensate(name string, cl *Cleaned, s Settings, r float64) (*Preparation, 
 	}
 	q.Section.Source.ProbeRadius = r
 	if tight > 0 {
-		q.Section.Warnings = append(q.Section.Warnings, fmt.Sprintf("the points bend with a radius of %s, under half the probe ball's %s, where a ball's centre rounds every corner, and the end, at its own radius or more: check that they are ball centres, not points already compensated, and the radius", LengthText(tight, cl.Units), LengthText(r, cl.Units)))
+		q.Section.Warnings = append(q.Section.Warnings, fmt.Sprintf("the points bend with a radius of %s, under a quarter of the probe ball's %s, where a ball's centre rounds every corner, and the end, at its own radius or more: check that they are ball centres, not points already compensated, and the radius", LengthText(tight, cl.Units), LengthText(r, cl.Units)))
 	}
 	return q, nil
 }

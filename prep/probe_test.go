@@ -225,7 +225,7 @@ func TestProbeRadiusOnCompensatedPoints(t *testing.T) {
 		t.Fatal(err)
 	}
 	for _, w := range p.Section.Warnings {
-		if strings.Contains(w, "under half the probe ball's 1 mm") {
+		if strings.Contains(w, "under a quarter of the probe ball's 1 mm") {
 			return
 		}
 	}
