@@ -180,11 +180,32 @@ func (c *Cleaned) clean(s Settings, order string) error {
 // that passes wins, and its record says which (the clean report's
 // Strategy, and a warning).
 // When none does, Prepare returns the first failure as a *GateError.
+//
+// With a probe radius set, the points are ball centres: a closed curve is
+// fitted to the path the ball took, and the chain runs on the points moved
+// the radius toward the part (probe.go).
 func Prepare(name string, files []File, s Settings) (*Preparation, error) {
+	if _, err := probeRadius(s, geometry.Millimetre); err != nil {
+		return nil, err // before the reading: a setting wrong for any input
+	}
 	cl, err := ReadAndClean(files, s)
 	if err != nil {
 		return nil, err
 	}
+	r, err := probeRadius(s, cl.Units)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", strings.Join(cl.Files, ", "), err)
+	}
+	if r > 0 {
+		return compensate(name, cl, s, r)
+	}
+	return prepareCleaned(name, cl, s)
+}
+
+// prepareCleaned runs the chain on from a cleaned contour, through every
+// way of ordering and of finding the trailing edge until one passes the
+// gates (Prepare).
+func prepareCleaned(name string, cl *Cleaned, s Settings) (*Preparation, error) {
 	p, first := finishChain(name, cl, s, true)
 	if first == nil {
 		return p, nil
@@ -484,6 +505,20 @@ func beyondInRuns(rep *curve.FitReport) bool {
 // fit fits the smoothing spline to the cleaned contour, with the noise and
 // tolerance the settings give.
 func (p *Preparation) fit(cl *Cleaned, s Settings, useEdge bool) error {
+	fo, err := fitOptions(cl, s)
+	if err != nil {
+		return err
+	}
+	if useEdge {
+		fo.Edge = fitEdge(cl.Clean.Edge)
+	}
+	cv, rep, err := curve.Fit(cl.Contour, fo)
+	return p.finishFit(cl, s, cv, rep, err)
+}
+
+// fitOptions returns the fit's options of the settings: the noise given
+// (or a band's, or exact points), and the tolerance for listing points.
+func fitOptions(cl *Cleaned, s Settings) (curve.FitOptions, error) {
 	var fo curve.FitOptions
 	switch {
 	case s.Noise == nil:
@@ -498,17 +533,18 @@ func (p *Preparation) fit(cl *Cleaned, s Settings, useEdge bool) error {
 		fo.Exact = true
 	default:
 		if diag := contourDiagonal(cl.Contour); *s.Noise > maxNoiseFraction*diag {
-			return fmt.Errorf("noise %g %s: %w (the points span %.4g %s)", *s.Noise, cl.Units, ErrNoiseTooLarge, diag, cl.Units)
+			return fo, fmt.Errorf("noise %g %s: %w (the points span %.4g %s)", *s.Noise, cl.Units, ErrNoiseTooLarge, diag, cl.Units)
 		}
 		fo.Noise = *s.Noise
 	}
 	if s.FitTol != nil {
 		fo.Tolerance = *s.FitTol
 	}
-	if useEdge {
-		fo.Edge = fitEdge(cl.Clean.Edge)
-	}
-	cv, rep, err := curve.Fit(cl.Contour, fo)
+	return fo, nil
+}
+
+// finishFit checks the fit's outcome and keeps the curve.
+func (p *Preparation) finishFit(cl *Cleaned, s Settings, cv *curve.Curve, rep *curve.FitReport, err error) error {
 	if err != nil {
 		if !errors.Is(err, geometry.ErrTooFewPoints) && !errors.Is(err, geometry.ErrNonFinite) && !errors.Is(err, geometry.ErrCollinear) {
 			// The points passed the fit's checks but its equations could
