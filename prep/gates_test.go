@@ -209,3 +209,69 @@ func TestPinch(t *testing.T) {
 		}
 	}
 }
+
+func TestEndsUnsupported(t *testing.T) {
+	// The ends of a section told apart at the section's own accuracy
+	// (the bound on its shape, accuracy.Uncertainty.Shape). NACA 0006 (Report 824) is 0.0316 c thick at 5 % and 0.0079 at
+	// 95 % (by its equation), a difference no bound under 0.012 c blurs;
+	// a symmetric biconvex (lens) section of 6 %, y = ±0.12 x (1 − x), is
+	// as thick at both ends, so only the ends' forms can speak, and they
+	// are read only where the thickness 2 % behind the leading edge
+	// (0.0047 c) stands clear of twice the bound. Its wedge nose widens
+	// 16 times in the square of its thickness from 0.5 % to 2 % (h ∝ d),
+	// so it passes; the same lens with its leading end rounded to a blunt
+	// cap (thickness held at 0.0047 c ahead of 2 %) widens by nothing
+	// there, less than its trailing end: the end for end reading.
+	naca := func() ([]geometry.Point, int) {
+		n, _ := shape.ParseNACA4("0006")
+		loop := n.Loop(300)
+		le := 0
+		for i, p := range loop {
+			if p.X < loop[le].X {
+				le = i
+			}
+		}
+		return loop, le
+	}
+	lens := func(capped bool) ([]geometry.Point, int) {
+		const m = 200
+		var nodes []geometry.Point
+		half := func(x float64) float64 {
+			if capped && x < 0.02 {
+				x = 0.02
+			}
+			return 0.12 * x * (1 - x)
+		}
+		for k := 0; k <= m; k++ { // trailing edge to leading edge over the upper surface
+			x := (1 + math.Cos(math.Pi*float64(k)/m)) / 2
+			nodes = append(nodes, geometry.Point{X: x, Y: half(x)})
+		}
+		for k := 1; k <= m; k++ {
+			x := (1 - math.Cos(math.Pi*float64(k)/m)) / 2
+			nodes = append(nodes, geometry.Point{X: x, Y: -half(x)})
+		}
+		return nodes, m
+	}
+	for _, tc := range []struct {
+		name  string
+		nodes func() ([]geometry.Point, int)
+		shape float64
+		want  bool
+	}{
+		{"NACA 0006, bound 0.002 c", naca, 0.002, false},
+		{"NACA 0006, bound 0.011 c", naca, 0.011, false},
+		{"lens, bound 0.001 c", func() ([]geometry.Point, int) { return lens(false) }, 0.001, false},
+		{"lens, bound 0.003 c", func() ([]geometry.Point, int) { return lens(false) }, 0.003, true},
+		{"capped lens, bound 0.001 c", func() ([]geometry.Point, int) { return lens(true) }, 0.001, true},
+		{"no bound", func() ([]geometry.Point, int) { return lens(true) }, 0, false},
+	} {
+		nodes, le := tc.nodes()
+		g := endsUnsupported(nodes, le, tc.shape)
+		if (g != nil) != tc.want {
+			t.Errorf("%s: refused %v, want %v (%v)", tc.name, g != nil, tc.want, g)
+		}
+		if g != nil && g.Gate != GateThinEnd {
+			t.Errorf("%s: gate %q, want %q", tc.name, g.Gate, GateThinEnd)
+		}
+	}
+}

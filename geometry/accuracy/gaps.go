@@ -352,3 +352,81 @@ func clipAft(poly []geometry.Point, x0 float64) []geometry.Point {
 // noiseMargin is how many noise figures noseRegionFar adds for the
 // scatter of the points that place its lines.
 const noiseMargin = 3
+
+// Limits of tipStretch.
+const (
+	// tipTurnDeg is the least turn of the outline (degrees) over a gap
+	// between points at the end of a kept rounded trailing edge for the
+	// end to count as unsampled: a quarter turn, more than half of what
+	// an end of included angle up to 90° turns in all (our choice).
+	tipTurnDeg = 90
+	// tipReach is how far along the outline either side of the tip
+	// (chords) a gap may start or end to count as one at the end: as far
+	// as the largest rounded end reaches (frame.EdgeMaxTERadius, times
+	// the quarter turn π/2 that takes round it).
+	tipReach = frame.EdgeMaxTERadius * math.Pi / 2
+)
+
+// tipStretch returns, for a section nz whose kept rounded trailing edge
+// the points leave unsampled, how far (chord units) the point where the
+// surfaces' straight continuations meet (frame.RoundedEnd.Sharp) lies
+// from the tip along the chord line and across it; ok is false otherwise.
+// The end is unsampled when a gap between neighbouring points (arc
+// lengths rep.S on cv) within tipReach of the tip turns the outline by
+// more than tipTurnDeg: a point at the tip with the rest of the end's turn
+// unsampled on one side leaves the end's shape as much a guess as a gap
+// over the tip.
+func tipStretch(rep *curve.FitReport, cv *curve.Curve, nz *frame.Normalized) (along, across float64, ok bool) {
+	if nz.TE.Kind != frame.TERounded || nz.TE.Action != frame.TEKept || !cv.Closed() || !(nz.Frame.Chord > 0) {
+		return 0, 0, false
+	}
+	path, isCurve := nz.Path.(*curve.Curve)
+	n := len(rep.S)
+	if !isCurve || n < 4 {
+		return 0, 0, false
+	}
+	L := cv.Length()
+	reach := tipReach * nz.Frame.Chord
+	if !(2*reach < L) {
+		return 0, 0, false
+	}
+	sTip, _ := cv.Project(geometry.Point(nz.Frame.ToPart(geometry.Point{X: 1})))
+	s := append([]float64(nil), rep.S...)
+	sort.Float64s(s)
+	// at returns the arc length of the k-th point counted on round the
+	// closed curve, L added per turn, relative to the tip.
+	at := func(k int) float64 {
+		turns := math.Floor(float64(k) / float64(n))
+		d := s[k-int(turns)*n] + turns*L - sTip
+		return d
+	}
+	// The points from the last before −reach to the first after +reach.
+	k0 := sort.SearchFloat64s(s, sTip) // the gap from point k0−1 to k0 holds the tip
+	lo, hi := k0-1, k0
+	for lo > k0-n && at(lo) > -reach {
+		lo--
+	}
+	for hi < k0+n && at(hi) < reach {
+		hi++
+	}
+	unsampled := false
+	for j := lo; j < hi && !unsampled; j++ {
+		a, b := sTip+at(j), sTip+at(j+1)
+		for a < 0 {
+			a, b = a+L, b+L
+		}
+		unsampled = turnBetween(cv, a, b) > tipTurnDeg
+	}
+	if !unsampled {
+		return 0, 0, false
+	}
+	r, ok := frame.AnalyseRounded(path, 0, 1)
+	if !ok {
+		return 0, 0, false
+	}
+	sharp, ok := r.Sharp()
+	if !ok {
+		return 0, 0, false
+	}
+	return math.Abs(sharp.X - 1), math.Abs(sharp.Y), true
+}
