@@ -321,45 +321,45 @@ func noseFore(nodes []geometry.Point, le int, fore, aft float64) bool {
 }
 
 // endsUnsupported returns the failure of the thin-end gate for a section
-// whose ends its own accuracy cannot tell apart: the thin-end gate and its
-// growth rules (noseFore, noseAft) read thicknesses of the fitted curve,
-// and the curve's shape may lie shape (chord units: the section's surface
-// bound without the terms that move the outline as a whole,
-// accuracy.Uncertainty.Shape) off the true outline on each side, so a
-// thickness is known to within twice that. Where the thicknesses at
-// gateThinFore and gateThinAft differ by no more than that, they do not
-// say which end is the nose; nor do the ends' growths (endGrowths) where
-// the thickness gateNoseFar behind the leading edge is itself within that
-// error of nothing; where it is not, the growths decide as in noseAft,
-// whatever the ratio of the two thicknesses. The section found could
-// otherwise as well be the true one turned end for end, its twist off by
-// 180° (campaign seeds 2282 and 458: 5 % and 3 % sections with a rounded
-// trailing edge, noise of 0.2 % of the chord or a nose of radius 0.0005 c,
-// exited 0 turned round with twist bounds of about 1°). nil when the
-// thicknesses decide, or when shape is not positive.
+// whose ends its own accuracy cannot tell apart, where the thin-end gate
+// passed it on its ends' forms alone (noseFore, noseAft):
+//
+//   - thicker aft than at the nose, it passed because its leading end
+//     widens as a nose does (noseFore); but where the thickness
+//     gateNoseNear behind the leading edge, on which that growth rests,
+//     is itself within twice shape (chord units: the bound on the curve's
+//     own shape, accuracy.Uncertainty.Shape, which each surface may be off
+//     by) of nothing, the growth says nothing, and the thicknesses, which
+//     say the ends are swapped, differ by no more than that error either;
+//   - less than 2·gateThinRatio times as thick at the nose as aft, its
+//     leading end widens less than a nose does and less than its trailing
+//     end (noseAft's rule, which reads the forms only under gateThinRatio):
+//     a rounded trailing edge blunter than the nose taken for it, with a
+//     nose so fine it reads as a corner.
+//
+// Either section could as well be the true one turned end for end, its
+// twist off by 180° (campaign seeds 2282 and 458: 5 % and 3 % sections
+// with a rounded trailing edge, noise of 0.2 % of the chord or a nose of
+// radius 0.0005 c, exited 0 turned round with twist bounds of about 1°).
+// nil otherwise.
 func endsUnsupported(nodes []geometry.Point, le int, shape float64) *GateError {
-	if !(shape > 0) {
-		return nil
-	}
 	fore, aft := thicknessAt(nodes, le, gateThinFore), thicknessAt(nodes, le, gateThinAft)
-	err := 2 * shape
-	if !(fore > 0) || !(aft > 0) || math.Abs(fore-aft) > err {
+	if !(fore > 0) || !(aft > 0) {
 		return nil
 	}
 	advice := "set the leading edge with --le-at X,Y; points measured closer together, or with less noise, round both ends decide it"
-	if near := thicknessAt(nodes, le, gateNoseFar); !(near > err) {
+	err := 2 * shape
+	if near := thicknessAt(nodes, le, gateNoseNear); aft > fore && shape > 0 && aft-fore <= err && !(near > err) {
 		return &GateError{Gate: GateThinEnd,
-			Seen:   fmt.Sprintf("the section is %.3g chord thick at %.0f %% of the chord, %.3g at %.0f %% and %.3g at %.0f %%: differences within the %.3g chord its own accuracy leaves each thickness, so the points do not say which end is the nose", near, 100*gateNoseFar, fore, 100*gateThinFore, aft, 100*gateThinAft, err),
+			Seen:   fmt.Sprintf("the section is %.3g chord thick at %.0f %% of the chord and %.3g at %.0f %%, thicker aft, and %.3g at %.1f %%, on which the nose's form rests: each within the %.3g chord its own accuracy leaves a thickness, so the points do not say which end is the nose", fore, 100*gateThinFore, aft, 100*gateThinAft, near, 100*gateNoseNear, err),
 			Advice: advice}
 	}
-	// The thicknesses leave it to the ends' forms, whatever their ratio
-	// (noseAft reads the forms only where it is under gateThinRatio): a
-	// leading end that widens less than a nose does, and less than the
-	// trailing end, is a rounded or blunt trailing edge.
-	if gLE, gTE := endGrowths(nodes, le); gLE < gateNoseGrowth && gTE > gLE {
-		return &GateError{Gate: GateThinEnd,
-			Seen:   fmt.Sprintf("the section is %.3g chord thick at %.0f %% of the chord and %.3g at %.0f %%, a difference within the %.3g chord its own accuracy leaves each thickness, and from %.1f %% to %.0f %% of the chord behind its leading edge the square of its thickness grows %.2g times, as ahead of a rounded or blunt trailing edge (behind a nose about 4 times), but %.2g times over as much ahead of its trailing edge", fore, 100*gateThinFore, aft, 100*gateThinAft, err, 100*gateNoseNear, 100*gateNoseFar, gLE, gTE),
-			Advice: advice}
+	if fore >= aft && fore < 2*gateThinRatio*aft {
+		if gLE, gTE := endGrowths(nodes, le); gLE < gateNoseGrowth && gTE > gLE {
+			return &GateError{Gate: GateThinEnd,
+				Seen:   fmt.Sprintf("the section is %.3g chord thick at %.0f %% of the chord and %.3g at %.0f %%, and from %.1f %% to %.0f %% of the chord behind its leading edge the square of its thickness grows %.2g times, as ahead of a rounded or blunt trailing edge (behind a nose about 4 times), but %.2g times over as much ahead of its trailing edge", fore, 100*gateThinFore, aft, 100*gateThinAft, 100*gateNoseNear, 100*gateNoseFar, gLE, gTE),
+				Advice: "the leading and trailing edges were probably swapped (a rounded trailing edge blunter than a fine nose): " + advice}
+		}
 	}
 	return nil
 }
