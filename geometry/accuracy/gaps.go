@@ -365,6 +365,13 @@ const (
 	// as the largest rounded end reaches (frame.EdgeMaxTERadius, times
 	// the quarter turn π/2 that takes round it).
 	tipReach = frame.EdgeMaxTERadius * math.Pi / 2
+	// tipSpacings is how many mean spacings of the points round the end
+	// an unsampled stretch there may span (see tipStretch), and how many
+	// gaps on either side that mean is taken over.
+	tipSpacings = 5
+	// tipGaps is how many times the gap at the end an unsampled stretch
+	// there may span (see tipStretch).
+	tipGaps = 4
 )
 
 // tipStretch returns, for a section nz whose kept rounded trailing edge
@@ -409,17 +416,39 @@ func tipStretch(rep *curve.FitReport, cv *curve.Curve, nz *frame.Normalized) (al
 	for hi < k0+n && at(hi) < reach {
 		hi++
 	}
-	unsampled := false
-	for j := lo; j < hi && !unsampled; j++ {
+	gap := 0.0 // the longest gap at the end that turns more than tipTurnDeg
+	for j := lo; j < hi; j++ {
 		a, b := sTip+at(j), sTip+at(j+1)
 		for a < 0 {
 			a, b = a+L, b+L
 		}
-		unsampled = turnBetween(cv, a, b) > tipTurnDeg
+		if turnBetween(cv, a, b) > tipTurnDeg {
+			gap = max(gap, b-a)
+		}
 	}
-	if !unsampled {
+	if !(gap > 0) {
 		return 0, 0, false
 	}
+	// How far on the surfaces may run unseen: the outline the points
+	// leave unsampled runs from the gap's ends out to the corner and
+	// back, about twice as far as the corner lies beyond the tip. Points
+	// at random leave a stretch tipSpacings times their mean spacing
+	// round the end (over the tipSpacings gaps beyond the end's stretch
+	// either side) unsampled only rarely (in about 4 % of cases for
+	// Poisson-placed points, e^−5, common practice), and a stretch
+	// tipGaps times the gap the points did leave no more often in the
+	// campaign (seed 2851: a corner 0.040 c beyond the tip, an unsampled
+	// stretch 3.4 times the 0.024 c gap, points spaced log-normally with
+	// σ 0.78). The corner lies no farther on than half of the longer of
+	// the two: surfaces that meet at a small angle (their corner a fifth
+	// of the chord behind a rounded end, seed 5569, its gap 0.017 c) would
+	// otherwise leave a stretch unsampled that no sampling of the rest of
+	// the outline makes likely (our choice of limits).
+	var sum float64
+	for j := 1; j <= tipSpacings; j++ {
+		sum += at(lo-j+1) - at(lo-j) + at(hi+j) - at(hi+j-1)
+	}
+	reachMax := max(tipGaps*gap, sum/2) / 2 / nz.Frame.Chord
 	r, ok := frame.AnalyseRounded(path, 0, 1)
 	if !ok {
 		return 0, 0, false
@@ -428,5 +457,9 @@ func tipStretch(rep *curve.FitReport, cv *curve.Curve, nz *frame.Normalized) (al
 	if !ok {
 		return 0, 0, false
 	}
-	return math.Abs(sharp.X - 1), math.Abs(sharp.Y), true
+	along, across = math.Abs(sharp.X-1), math.Abs(sharp.Y)
+	if d := math.Hypot(along, across); d > reachMax {
+		along, across = along*reachMax/d, across*reachMax/d
+	}
+	return along, across, true
 }
