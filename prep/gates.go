@@ -383,6 +383,50 @@ func noseFore(nodes []geometry.Point, le int, fore, aft float64) bool {
 	return gLE >= gateNoseGrowth && gLE <= gateWedgeGrowth && gTE < gateNoseGrowth && gLE > gTE
 }
 
+// endsUnsupported returns the failure of the thin-end gate for a section
+// whose ends its own accuracy cannot tell apart, where the thin-end gate
+// passed it on its ends' forms alone (noseFore, noseAft):
+//
+//   - thicker aft than at the nose, it passed because its leading end
+//     widens as a nose does (noseFore); but where the thickness
+//     gateNoseNear behind the leading edge, on which that growth rests,
+//     is itself within twice shape (chord units: the bound on the curve's
+//     own shape, accuracy.Uncertainty.Shape, which each surface may be off
+//     by) of nothing, the growth says nothing, and the thicknesses, which
+//     say the ends are swapped, differ by no more than that error either;
+//   - less than 2·gateThinRatio times as thick at the nose as aft, its
+//     leading end widens less than a nose does and less than its trailing
+//     end (noseAft's rule, which reads the forms only under gateThinRatio):
+//     a rounded trailing edge blunter than the nose taken for it, with a
+//     nose so fine it reads as a corner.
+//
+// Either section could as well be the true one turned end for end, its
+// twist off by 180° (campaign seeds 2282 and 458: 5 % and 3 % sections
+// with a rounded trailing edge, noise of 0.2 % of the chord or a nose of
+// radius 0.0005 c, exited 0 turned round with twist bounds of about 1°).
+// nil otherwise.
+func endsUnsupported(nodes []geometry.Point, le int, shape float64) *GateError {
+	fore, aft := thicknessAt(nodes, le, gateThinFore), thicknessAt(nodes, le, gateThinAft)
+	if !(fore > 0) || !(aft > 0) {
+		return nil
+	}
+	advice := "set the leading edge with --le-at X,Y; points measured closer together, or with less noise, round both ends decide it"
+	err := 2 * shape
+	if near := thicknessAt(nodes, le, gateNoseNear); aft > fore && shape > 0 && aft-fore <= err && !(near > err) {
+		return &GateError{Gate: GateThinEnd,
+			Seen:   fmt.Sprintf("the section is %.3g chord thick at %.0f %% of the chord and %.3g at %.0f %%, thicker aft, and %.3g at %.1f %%, on which the nose's form rests: each within the %.3g chord its own accuracy leaves a thickness, so the points do not say which end is the nose", fore, 100*gateThinFore, aft, 100*gateThinAft, near, 100*gateNoseNear, err),
+			Advice: advice}
+	}
+	if fore >= aft && fore < 2*gateThinRatio*aft {
+		if gLE, gTE := endGrowths(nodes, le); gLE < gateNoseGrowth && gTE > gLE {
+			return &GateError{Gate: GateThinEnd,
+				Seen:   fmt.Sprintf("the section is %.3g chord thick at %.0f %% of the chord and %.3g at %.0f %%, and from %.1f %% to %.0f %% of the chord behind its leading edge the square of its thickness grows %.2g times, as ahead of a rounded or blunt trailing edge (behind a nose about 4 times), but %.2g times over as much ahead of its trailing edge", fore, 100*gateThinFore, aft, 100*gateThinAft, 100*gateNoseNear, 100*gateNoseFar, gLE, gTE),
+				Advice: "the leading and trailing edges were probably swapped (a rounded trailing edge blunter than a fine nose): " + advice}
+		}
+	}
+	return nil
+}
+
 // endGrowths returns how many times the square of the section's
 // thickness grows from gateNoseNear to gateNoseFar of the chord behind
 // its leading edge (gLE) and ahead of its trailing edge (gTE); NaN where

@@ -318,3 +318,75 @@ func TestFitDeparts(t *testing.T) {
 		}
 	}
 }
+
+func TestEndsUnsupported(t *testing.T) {
+	// The ends of a section told apart where the thin-end gate passed it
+	// on its ends' forms alone. NACA 0006 (Report 824) is four times as
+	// thick at 5 % as at 95 % and widens as a nose does behind its leading
+	// edge: it passes at any accuracy. A symmetric biconvex (lens) section
+	// of 6 %, y = ±0.12 x (1 − x) (by hand), widens 16 times in the square
+	// of its thickness from 0.5 % to 2 % behind its wedge nose (h ∝ d): it
+	// passes, unless its shape is known no better than 0.01 c: then
+	// its ends, alike to within that, cannot be told apart. Made 1.4
+	// times as thick fore as aft (by a linear factor) it passes at that
+	// bound; its leading end then capped bluntly (thickness held ahead of 2 %)
+	// widens by nothing there, less than its trailing end: the end for end
+	// reading. Its trailing end capped from 90 % makes it thicker aft
+	// (0.0216 c against 0.0114 at 5 %), with 0.0012 c at 0.5 %: turned round
+	// unless its shape is known to better than half the difference.
+	naca := func() ([]geometry.Point, int) {
+		n, _ := shape.ParseNACA4("0006")
+		loop := n.Loop(300)
+		le := 0
+		for i, p := range loop {
+			if p.X < loop[le].X {
+				le = i
+			}
+		}
+		return loop, le
+	}
+	lens := func(capFore, capAft, skew float64) func() ([]geometry.Point, int) {
+		return func() ([]geometry.Point, int) {
+			const m = 200
+			var nodes []geometry.Point
+			half := func(x float64) float64 {
+				x = min(max(x, capFore), capAft)
+				return 0.12 * x * (1 - x) * (1 + skew*(0.5-x))
+			}
+			for k := 0; k <= m; k++ { // trailing edge to leading edge over the upper surface
+				x := (1 + math.Cos(math.Pi*float64(k)/m)) / 2
+				nodes = append(nodes, geometry.Point{X: x, Y: half(x)})
+			}
+			for k := 1; k <= m; k++ {
+				x := (1 - math.Cos(math.Pi*float64(k)/m)) / 2
+				nodes = append(nodes, geometry.Point{X: x, Y: -half(x)})
+			}
+			return nodes, m
+		}
+	}
+	for _, tc := range []struct {
+		name  string
+		nodes func() ([]geometry.Point, int)
+		shape float64
+		want  bool
+	}{
+		{"NACA 0006, bound 0.002 c", naca, 0.002, false},
+		{"NACA 0006, bound 0.02 c", naca, 0.02, false},
+		{"lens, bound 0.0005 c", lens(0, 1, 0), 0.0005, false},
+		{"lens, bound 0.01 c", lens(0, 1, 0), 0.01, true},
+		{"lens thicker fore", lens(0, 1, 0.4), 0.01, false},
+		{"lens thicker fore, capped fore", lens(0.02, 1, 0.4), 0.001, true},
+		{"lens capped aft, bound 0.001 c", lens(0, 0.9, 0), 0.001, false},
+		{"lens capped aft, bound 0.006 c", lens(0, 0.9, 0), 0.006, true},
+		{"lens capped aft, no bound", lens(0, 0.9, 0), 0, false},
+	} {
+		nodes, le := tc.nodes()
+		g := endsUnsupported(nodes, le, tc.shape)
+		if (g != nil) != tc.want {
+			t.Errorf("%s: refused %v, want %v (%v)", tc.name, g != nil, tc.want, g)
+		}
+		if g != nil && g.Gate != GateThinEnd {
+			t.Errorf("%s: gate %q, want %q", tc.name, g.Gate, GateThinEnd)
+		}
+	}
+}

@@ -372,6 +372,13 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 		widenForRejectedEdge(&p.Uncertainty, cl.Clean.Edge, p.Shape.Frame)
 	}
 	widenForPasses(&p.Uncertainty, cl.Clean.Passes, p.Shape.Frame.Chord)
+	if s.LEAt == nil {
+		// Which end is the nose, read against the section's own bound.
+		if g := endsUnsupported(nodes, le, p.Uncertainty.Shape); g != nil {
+			g.Where = nearestOrigin(p.Contour, geometry.Point(p.Shape.Frame.ToPart(geometry.Point{X: 1})))
+			return nil, g
+		}
+	}
 	var edgeWarning string
 	if c := p.Shape.Frame.Chord; p.Uncertainty.Chord > wideChord*c {
 		// The replicas' share of the chord's bound is the noise's, a few
@@ -772,7 +779,7 @@ func (p *Preparation) document(name string, cl *Cleaned, nodes []geometry.Point,
 			MaxRatio: p.Quality.MaxRatio, MaxTurnDeg: p.Quality.MaxTurnDeg,
 		},
 		Properties:  &docProps,
-		Uncertainty: (*section.Uncertainty)(&p.Uncertainty),
+		Uncertainty: &section.Uncertainty{Chord: p.Uncertainty.Chord, TwistDeg: p.Uncertainty.TwistDeg, LE: p.Uncertainty.LE, Surface: p.Uncertainty.Surface},
 		Nodes:       nodes,
 	}
 	for _, c := range p.Clouds {

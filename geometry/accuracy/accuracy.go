@@ -20,6 +20,13 @@ type Uncertainty struct {
 	TwistDeg float64 `json:"twist_deg"`
 	LE       float64 `json:"le"`
 	Surface  float64 `json:"surface"`
+	// Shape is the part of Surface the curve's own shape may be off by
+	// between its points: Surface before the terms of a nose the points
+	// leave unsampled (the leading edge's place, which moves the outline
+	// as a whole) and of the outline turned over (chord units). Package
+	// prep reads the section's thicknesses against it. Not written to the
+	// section document.
+	Shape float64 `json:"-"`
 }
 
 // Options controls Estimate. The zero value uses DefaultReplicas replicas
@@ -337,6 +344,7 @@ func (p *Pending) estimate(nz *frame.Normalized) Uncertainty {
 	// the trailing edge, a chord away; and since the normalised outline
 	// is placed by its leading edge, the nose of the outline may lie
 	// that far (in chords) from the part's.
+	u.Shape = u.Surface
 	if a, b, ok := noseStretch(rep, cv, nz); ok && nz.Frame.Chord > 0 {
 		L := cv.Length()
 		at := func(t float64) geometry.Point {
@@ -354,6 +362,18 @@ func (p *Pending) estimate(nz *frame.Normalized) Uncertainty {
 		u.Chord += far
 		u.TwistDeg = math.Max(u.TwistDeg, math.Atan(u.LE/nz.Frame.Chord)*180/math.Pi)
 		u.Surface = math.Max(u.Surface, far/nz.Frame.Chord)
+	}
+	// A rounded trailing edge whose tip no point samples (a gap over the
+	// tip turns the outline by more than tipTurnDeg) is the fit's guess:
+	// the surfaces may as well run on straight to a corner, and the
+	// replicas and half fits, which round the end alike, do not see it.
+	// The part's trailing edge may lie anywhere from the tip to where the
+	// surfaces' straight continuations meet (tipStretch), so the chord's
+	// bound gains that distance and the twist's its height over the chord.
+	if along, across, ok := tipStretch(rep, cv, nz); ok {
+		c := nz.Frame.Chord
+		u.Chord += along * c
+		u.TwistDeg = math.Max(u.TwistDeg, math.Atan(across)*180/math.Pi)
 	}
 	// Where the points cannot tell the upper side from the lower (the
 	// normalisation says so), the section may be the part turned over:
@@ -374,6 +394,7 @@ func (p *Pending) estimate(nz *frame.Normalized) Uncertainty {
 	u.LE = math.Max(u.LE, floorLength*c)
 	u.TwistDeg = math.Max(u.TwistDeg, floorLength*180/math.Pi)
 	u.Surface = math.Max(u.Surface, floorLength)
+	u.Shape = math.Max(u.Shape, floorLength)
 	return u
 }
 
