@@ -30,8 +30,8 @@ import (
 //   - and either the steps are both at least apexStep times the loop's
 //     median step and at least apexCompany dropped points (outliers or
 //     strays) lie nearer to one of its points than the shorter of them,
-//     or each of its points lies on a straight face with the dropped
-//     points (see onFace).
+//     or it is one point on a straight face with the dropped points
+//     (see onFace).
 //
 // The run is dropped with the outliers, its neighbours close up, and the
 // test runs again on the loop without it (a run of three may hide behind
@@ -39,6 +39,12 @@ import (
 // than apexMost points in all, the loop itself runs astray among its
 // outliers (an ordering that zigzags between the surfaces at a thin nose,
 // say), and the test drops none: that is for the gates to judge.
+//
+// Clean runs the test twice: on the loop of the ordering, among its
+// outliers, and on the loop after the end model's outliers, among those
+// too, with faceOnly (see apexes). A face below the section that the
+// loop follows instead of the surface (the surface's own points dropped
+// as the outliers) is not caught: such a loop often fails a gate.
 
 // Constants of the apex test (common practice: a fixture's run is a few
 // points, its company the rest of the run).
@@ -47,13 +53,24 @@ const (
 	apexStep    = 3.0
 	apexCompany = 2
 	apexMost    = 2 * apexRun
+	// apexApart is the least step, in diagonals of the loop's bounding
+	// box (about a chord), from a point on a face to its loop neighbours
+	// after the end model's outliers: a face nearer the edge than that
+	// cannot be told from the edge's own base.
+	apexApart = 0.01
 )
 
 // apexes returns the loop seq without the runs of points that stand among
 // the dropped points hits as apexes (see the apex test), and those points
 // as hits, in the order found. It leaves seq unchanged and returns no hits
 // when the loop has fewer than 4·minPoints points.
-func apexes(pts []geometry.Point, seq []int32, hits []hit, scale float64) ([]int32, []hit) {
+//
+// With faceOnly, only single points on a face (onFace) at least apexApart
+// of the loop's size from their neighbours count: the end model's
+// outliers, which the test then runs among, can be good points of the
+// edge itself (a tip or a base it took for glitches), round which the
+// edge's other points stand as closely as a fixture's do.
+func apexes(pts []geometry.Point, seq []int32, hits []hit, scale float64, faceOnly bool) ([]int32, []hit) {
 	if len(seq) < 4*minPoints || len(hits) < apexCompany {
 		return seq, nil
 	}
@@ -74,6 +91,8 @@ func apexes(pts []geometry.Point, seq []int32, hits []hit, scale float64) ([]int
 	if !(step > 0) {
 		return seq, nil
 	}
+	lo, hi := bounds(loopPoints(pts, seq))
+	size := hi.Dist(lo)
 	var out []hit
 	orig := seq
 	seq = slices.Clone(seq)
@@ -93,8 +112,11 @@ func apexes(pts []geometry.Point, seq []int32, hits []hit, scale float64) ([]int
 				if !standsOut(pts, run, a, b, short/2) {
 					continue
 				}
-				crowded := short >= apexStep*step && company(pts, run, dropped, short) >= apexCompany
-				if !crowded && !onFace(pts, run, a, b, dropped, scale) {
+				if faceOnly && short < apexApart*size {
+					continue
+				}
+				crowded := !faceOnly && short >= apexStep*step && company(pts, run, dropped, short) >= apexCompany
+				if !crowded && !onFace(pts, seq, run, a, b, dropped, scale) {
 					continue
 				}
 				if inside(pts, seq, k, r) {
@@ -162,52 +184,84 @@ func inside(pts []geometry.Point, seq []int32, k, r int) bool {
 	return false
 }
 
-// onFace reports whether every point p of run lies between two others of
-// the dropped points and the run, on the line through them: within a tenth
-// of p's distance h from the segment ab (and at least 3 robust scales,
-// when that is below a third of h), the two within 2h of p and on either
-// side of it. Such points are a straight face of the fixture, across
-// which the loop reaches for p.
-func onFace(pts []geometry.Point, run []int32, a, b geometry.Point, dropped []geometry.Point, scale float64) bool {
-	for _, i := range run {
-		p := pts[i]
-		h := segmentDist(p, a, b)
-		tol := max(h/10, 3*scale)
-		if tol >= h/3 {
-			return false
+// onFace reports whether the run is one point p that lies between two of
+// the dropped points, or ends the face they make, on the line through
+// them: within a tenth of p's distance h from the segment ab (and at least
+// 3 robust scales, when that is below a third of h), the two within 2h of
+// p, their line across the spike from the middle of ab to p (see
+// straddled), and each at least half p's shorter step from every other
+// loop point (see detached). Such points are a straight face of the
+// fixture, standing apart, across which the loop reaches for p. A longer run is no face by this test: a few
+// stations of a sparsely probed nose, between two outliers, lie as nearly
+// on a line.
+func onFace(pts []geometry.Point, seq, run []int32, a, b geometry.Point, dropped []geometry.Point, scale float64) bool {
+	if len(run) != 1 {
+		return false
+	}
+	p := pts[run[0]]
+	h := segmentDist(p, a, b)
+	tol := max(h/10, 3*scale)
+	if tol >= h/3 {
+		return false
+	}
+	// The face stands apart from the loop, as p does: each of its points
+	// at least half p's shorter step from every other loop point. The
+	// dropped points of a blunt base, which the end model took for
+	// outliers, reach the surfaces' ends.
+	apart := math.Min(p.Dist(a), p.Dist(b)) / 2
+	var near []geometry.Point
+	for _, q := range dropped {
+		if d := q.Dist(p); d > 0 && d <= 2*h && detached(pts, seq, run[0], q, apart) {
+			near = append(near, q)
 		}
-		var near []geometry.Point
-		for _, q := range dropped {
-			if d := q.Dist(p); d > 0 && d <= 2*h {
-				near = append(near, q)
-			}
-		}
-		for _, j := range run {
-			if j != i && pts[j].Dist(p) <= 2*h {
-				near = append(near, pts[j])
-			}
-		}
-		if !straddled(p, near, tol) {
+	}
+	spike := p.Sub(a.Add(b).Scale(0.5))
+	return straddled(p, spike, near, tol)
+}
+
+// loopPoints returns the points of the loop seq.
+func loopPoints(pts []geometry.Point, seq []int32) []geometry.Point {
+	out := make([]geometry.Point, len(seq))
+	for k, i := range seq {
+		out[k] = pts[i]
+	}
+	return out
+}
+
+// detached reports whether q lies at least d from every point of the loop
+// seq but skip.
+func detached(pts []geometry.Point, seq []int32, skip int32, q geometry.Point, d float64) bool {
+	for _, j := range seq {
+		if j != skip && pts[j].Dist(q) < d {
 			return false
 		}
 	}
 	return true
 }
 
-// straddled reports whether two points of near lie on either side of p
-// with p within tol of the line through them.
-func straddled(p geometry.Point, near []geometry.Point, tol float64) bool {
+// straddled reports whether two points of near lie on either side of p,
+// or on one side within their own distance of it (p ends the face), with
+// p within tol of the line through them, that line across the
+// direction spike (at more than 60° to it): a face the loop reaches
+// across for p, not points of a section that runs on along the spike (a
+// thin edge's own points, say, about its tip).
+func straddled(p, spike geometry.Point, near []geometry.Point, tol float64) bool {
+	ls := math.Hypot(spike.X, spike.Y)
 	for x, q1 := range near {
 		for _, q2 := range near[x+1:] {
 			u, v := q1.Sub(p), q2.Sub(p)
-			if u.Dot(v) >= 0 {
-				continue
-			}
 			d := q2.Sub(q1)
 			l := math.Hypot(d.X, d.Y)
-			if l > 0 && math.Abs(d.X*u.Y-d.Y*u.X)/l <= tol {
-				return true
+			if u.Dot(v) >= 0 && min(u.Dot(u), v.Dot(v)) > l*l {
+				continue // not between them, nor one of their steps beyond
 			}
+			if l == 0 || math.Abs(d.X*u.Y-d.Y*u.X)/l > tol {
+				continue
+			}
+			if ls > 0 && math.Abs(d.Dot(spike)) > 0.5*l*ls {
+				continue
+			}
+			return true
 		}
 	}
 	return false

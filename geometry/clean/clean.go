@@ -230,7 +230,7 @@ func Clean(c *geometry.Cloud, opts Options) (*geometry.Contour, *Report, error) 
 	if !opts.KeepOutliers {
 		// 4b. A point or two of a fixture's run that stayed in the loop
 		// among the run's dropped points (see apexes).
-		if seq, more := apexes(cl.pts, a.seq, a.hits, a.scale); len(more) > 0 {
+		if seq, more := apexes(cl.pts, a.seq, a.hits, a.scale, false); len(more) > 0 {
 			a.seq, a.hits = seq, append(a.hits, more...)
 		}
 	}
@@ -262,9 +262,10 @@ func Clean(c *geometry.Cloud, opts Options) (*geometry.Contour, *Report, error) 
 				work = slices.DeleteFunc(work, func(i int32) bool { return out[i] })
 				if !opts.KeepOutliers {
 					// The end model's outliers may leave a fixture's
-					// point beyond the edge (see apexes).
+					// point beyond the edge on the fixture's face (see
+					// apexes).
 					all := append(slices.Clone(a.hits), ef.outliers...)
-					if w, more := apexes(cl.pts, work, all, a.scale); len(more) > 0 {
+					if w, more := apexes(cl.pts, work, all, a.scale, true); len(more) > 0 {
 						cl.record(more, false)
 						work = w
 					}
