@@ -61,6 +61,10 @@ type Record struct {
 	// the section lists as dropped.
 	Good, GoodDropped int
 	Planted, Caught   int
+	// Fixture counts the points of a fixture's face (scangen.LineFixture),
+	// FixtureCaught those the section lists as dropped.
+	Fixture       int `json:",omitempty"`
+	FixtureCaught int `json:",omitempty"`
 	// Stated is the section's uncertainty, nil when it states none.
 	Stated *uncertainty
 	// Covered says, per figure (chord, twist, le, surface), whether the
@@ -170,6 +174,11 @@ func countDropped(r *Record, tr *scangen.Truth, sec *section) {
 			r.Planted++
 			if gone {
 				r.Caught++
+			}
+		case l.Kind == scangen.LineFixture:
+			r.Fixture++
+			if gone {
+				r.FixtureCaught++
 			}
 		case l.Kind == scangen.LineGood && !paired[l.No]:
 			r.Good++
