@@ -171,17 +171,7 @@ func TestPinch(t *testing.T) {
 	// x = 0.46 (a finger of lower-surface points taken into the upper
 	// surface's order, campaign seed 1116), or only half-way down, must
 	// pinch there; a dent of a tenth of the thickness must not.
-	section := func(code string) ([]geometry.Point, int) {
-		n, _ := shape.ParseNACA4(code)
-		loop := n.Loop(300)
-		le := 0
-		for i, p := range loop {
-			if p.X < loop[le].X {
-				le = i
-			}
-		}
-		return loop, le
-	}
+	section := naca4Loop
 	for _, tc := range []struct {
 		name  string
 		code  string
@@ -334,17 +324,7 @@ func TestEndsUnsupported(t *testing.T) {
 	// reading. Its trailing end capped from 90 % makes it thicker aft
 	// (0.0216 c against 0.0114 at 5 %), with 0.0012 c at 0.5 %: turned round
 	// unless its shape is known to better than half the difference.
-	naca := func() ([]geometry.Point, int) {
-		n, _ := shape.ParseNACA4("0006")
-		loop := n.Loop(300)
-		le := 0
-		for i, p := range loop {
-			if p.X < loop[le].X {
-				le = i
-			}
-		}
-		return loop, le
-	}
+	naca := func() ([]geometry.Point, int) { return naca4Loop("0006") }
 	lens := func(capFore, capAft, skew float64) func() ([]geometry.Point, int) {
 		return func() ([]geometry.Point, int) {
 			const m = 200
@@ -389,4 +369,19 @@ func TestEndsUnsupported(t *testing.T) {
 			t.Errorf("%s: gate %q, want %q", tc.name, g.Gate, GateThinEnd)
 		}
 	}
+}
+
+// naca4Loop returns the exact outline of the NACA 4-digit section code
+// (Report 824 equations, geometry/shape), 300 stations a surface, and the
+// index of its leading edge (its least x).
+func naca4Loop(code string) ([]geometry.Point, int) {
+	n, _ := shape.ParseNACA4(code)
+	loop := n.Loop(300)
+	le := 0
+	for i, p := range loop {
+		if p.X < loop[le].X {
+			le = i
+		}
+	}
+	return loop, le
 }

@@ -47,38 +47,21 @@ func probeRadius(s Settings, units geometry.Unit) (float64, error) {
 
 // compensated returns a copy of cl, not yet cleaned, whose planar cloud has
 // every point moved r toward the part along the outward normal of the
-// outline fitted to it: the normal at the point's foot for a kept point
-// (fit.S), the straight base's normal for a point on a blunt base, and the
-// normal at the nearest point of the curve for a point the cleaning left
-// out (an outlier stays one r nearer the part). It also returns the
-// smallest radius of a convex bend of the path under a quarter of the ball's: a
-// ball's centre rounds every convex feature of the part at r or more (a
-// sharp corner at exactly r), so a path bending tighter was not traced by
-// a ball of that radius, and the inner parallel folds there; 0 when there
-// is none.
+// closed curve cv fitted to it: the normal at the point's foot for a kept
+// point (fit.S), at the nearest point of the curve for a point the
+// cleaning left out (an outlier stays one r nearer the part). It also
+// returns the smallest radius of a convex bend of the path under a quarter
+// of the ball's: a ball's centre rounds every convex feature of the part
+// at r or more (a sharp corner at exactly r), so a path bending tighter
+// was not traced by a ball of that radius, and the inner parallel folds
+// there; 0 when there is none.
 func (cl *Cleaned) compensated(cv *curve.Curve, fit *curve.FitReport, r float64) (*Cleaned, float64) {
 	sign := 1.0 // Curve.Normal points out of a counter-clockwise loop
 	if cv.AreaIntegrals().A < 0 {
 		sign = -1
 	}
 	outward := func(s float64) geometry.Point { return cv.Normal(s).Scale(sign) }
-	// The straight base between the curve's ends closes the loop from
-	// End to Start; its outward normal follows the same rule.
-	var baseOut geometry.Point
-	if d := cv.Start().Sub(cv.End()); d.Norm() > 0 {
-		d = d.Scale(1 / d.Norm())
-		baseOut = geometry.Point{X: d.Y, Y: -d.X}.Scale(sign)
-	}
-	onBase := make(map[geometry.Origin]bool, len(fit.Base))
-	for _, o := range fit.Base {
-		onBase[o] = true
-	}
-	feet := make(map[geometry.Origin]float64, cl.Contour.Len())
-	for i, o := range cl.Contour.Origins {
-		if i < len(fit.S) {
-			feet[o] = fit.S[i]
-		}
-	}
+	feet := feetOf(cl.Contour, fit)
 	tight := 0.0
 	src := cl.cloud
 	moved := *src
@@ -86,24 +69,18 @@ func (cl *Cleaned) compensated(cv *curve.Curve, fit *curve.FitReport, r float64)
 	for i, q := range src.Points {
 		p := geometry.Point{X: q.X, Y: q.Y}
 		o := src.Origins[i]
-		var n geometry.Point
-		if onBase[o] && baseOut != (geometry.Point{}) {
-			n = baseOut
-		} else {
-			s, ok := feet[o]
-			if !ok {
-				s, _ = cv.Project(p)
-			}
-			n = outward(s)
-			// Convex (the loop turning in its own sense) tighter than
-			// the ball allows, with room for a closed fit's overshoot
-			// round a corner's arc sampled by a few points (down to 0.3 r
-			// on the independent check's ball centres; our margin).
-			if k := cv.Curvature(s) * sign; k > 0 && 1/k < r/4 && (tight == 0 || 1/k < tight) {
-				tight = 1 / k
-			}
+		s, ok := feet[o]
+		if !ok {
+			s, _ = cv.Project(p)
 		}
-		p = p.Sub(n.Scale(r))
+		// Convex (the loop turning in its own sense) tighter than the
+		// ball allows, with room for a closed fit's overshoot round a
+		// corner's arc sampled by a few points (down to 0.3 r on the
+		// independent check's ball centres; our margin).
+		if k := cv.Curvature(s) * sign; k > 0 && 1/k < r/4 && (tight == 0 || 1/k < tight) {
+			tight = 1 / k
+		}
+		p = p.Sub(outward(s).Scale(r))
 		moved.Points[i] = geometry.Vec3{X: p.X, Y: p.Y, Z: q.Z}
 	}
 	alt := *cl
@@ -127,12 +104,7 @@ func (cl *Cleaned) retargeted(q *Preparation, prev *geometry.Cloud, r float64) *
 	for _, o := range fit.Base {
 		onBase[o] = true
 	}
-	feet := make(map[geometry.Origin]float64, q.Contour.Len())
-	for i, o := range q.Contour.Origins {
-		if i < len(fit.S) {
-			feet[o] = fit.S[i]
-		}
-	}
+	feet := feetOf(q.Contour, fit)
 	src := cl.cloud
 	moved := *prev
 	moved.Points = make([]geometry.Vec3, len(prev.Points))
@@ -220,4 +192,16 @@ func compensate(name string, cl *Cleaned, s Settings, r float64) (*Preparation, 
 		q.Section.Warnings = append(q.Section.Warnings, fmt.Sprintf("the points bend with a radius of %s, under a quarter of the probe ball's %s, where a ball's centre rounds every corner, and the end, at its own radius or more: check that they are ball centres, not points already compensated, and the radius", LengthText(tight, cl.Units), LengthText(r, cl.Units)))
 	}
 	return q, nil
+}
+
+// feetOf maps each point of the contour fitted by fit to the arc length of
+// its foot on the curve (FitReport.S).
+func feetOf(c *geometry.Contour, fit *curve.FitReport) map[geometry.Origin]float64 {
+	feet := make(map[geometry.Origin]float64, c.Len())
+	for i, o := range c.Origins {
+		if i < len(fit.S) {
+			feet[o] = fit.S[i]
+		}
+	}
+	return feet
 }

@@ -20,6 +20,7 @@
 #        BASELINE=main scripts/calls-instr.sh
 set -euo pipefail
 cd "$(dirname "$0")/.."
+. scripts/callbench-tree.sh
 n1=${N1:-15}
 n2=${N2:-45}
 command -v valgrind >/dev/null || { echo "calls-instr: needs valgrind (apt-get install valgrind)" >&2; exit 2; }
@@ -30,15 +31,8 @@ trap 'rm -rf "$tmp"' EXIT
 go build -o "$tmp/callbench-after" ./internal/callbench
 trees=(after)
 if [ -n "${BASELINE:-}" ]; then
-  # As in calls-bench.sh: the earlier tree with this driver.
-  mkdir "$tmp/baseline"
-  git archive "$BASELINE" | tar -x -C "$tmp/baseline"
-  mkdir -p "$tmp/baseline/internal/callbench"
-  cp internal/callbench/main.go "$tmp/baseline/internal/callbench/"
-  if [ ! -f "$tmp/baseline/internal/callbench/request.go" ]; then
-    printf 'package main\n\nimport "github.com/foilwright/foilwright/plugins/stage"\n\nfunc request(section []byte) stage.Request { return stage.Request{Section: section} }\n' \
-      >"$tmp/baseline/internal/callbench/request.go"
-  fi
+  # The earlier tree, driven by this driver (callbench-tree.sh).
+  callbench_tree "$BASELINE" "$tmp/baseline"
   (cd "$tmp/baseline" && go build -o "$tmp/callbench-before" ./internal/callbench)
   trees=(before after)
 fi

@@ -288,16 +288,7 @@ func TestToPart(t *testing.T) {
 // decidable: the spacing is that of the last gaps, and so is its
 // irregularity.
 func TestTEUndecidable(t *testing.T) {
-	build := func(s scangen.ShapeSpec) *scangen.Section {
-		sec, err := s.Build()
-		if err != nil {
-			t.Fatal(err)
-		}
-		return sec
-	}
-	open := build(scangen.ShapeSpec{Family: scangen.FamilyNACA, NACA: &scangen.NACASpec{Thickness: 0.12}})
-	closed := build(scangen.ShapeSpec{Family: scangen.FamilyNACA, NACA: &scangen.NACASpec{Thickness: 0.12, ClosedTE: true}})
-	rounded := build(scangen.ShapeSpec{Family: scangen.FamilyNACA, NACA: &scangen.NACASpec{Thickness: 0.12, ClosedTE: true}, RoundRadius: 0.01})
+	open, closed, rounded := naca0012Ends(t, 0.01)
 	// lines puts good points at arc lengths s from each end corner along
 	// both surfaces, and at loop parameters ends on the end piece.
 	lines := func(sec *scangen.Section, s []float64, ends ...float64) []scangen.Line {
@@ -358,16 +349,7 @@ func TestTEUndecidable(t *testing.T) {
 // 0012 with its open edge (NACA Report 824: base 0.25 % of the chord) and
 // closed and rounded to a radius of 0.5 % of the chord.
 func TestTEIndistinct(t *testing.T) {
-	build := func(s scangen.ShapeSpec) *scangen.Section {
-		sec, err := s.Build()
-		if err != nil {
-			t.Fatal(err)
-		}
-		return sec
-	}
-	open := build(scangen.ShapeSpec{Family: scangen.FamilyNACA, NACA: &scangen.NACASpec{Thickness: 0.12}})
-	closed := build(scangen.ShapeSpec{Family: scangen.FamilyNACA, NACA: &scangen.NACASpec{Thickness: 0.12, ClosedTE: true}})
-	rounded := build(scangen.ShapeSpec{Family: scangen.FamilyNACA, NACA: &scangen.NACASpec{Thickness: 0.12, ClosedTE: true}, RoundRadius: 0.005})
+	open, closed, rounded := naca0012Ends(t, 0.005)
 	// Points every h of arc along the last 0.1 c of both surfaces and n
 	// on the end piece, evenly.
 	lines := func(sec *scangen.Section, h float64, n int) []scangen.Line {
@@ -412,4 +394,22 @@ func TestTEIndistinct(t *testing.T) {
 			t.Errorf("%s: indistinct %v, λ %g; want false, +Inf", tc.name, got, l)
 		}
 	}
+}
+
+// naca0012Ends returns NACA 0012 with its open edge (Report 824: a base of
+// 0.25 % of the chord), closed, and closed and rounded to radius (chord
+// units), as the generator builds them.
+func naca0012Ends(t *testing.T, radius float64) (open, closed, rounded *scangen.Section) {
+	t.Helper()
+	build := func(s scangen.ShapeSpec) *scangen.Section {
+		sec, err := s.Build()
+		if err != nil {
+			t.Fatal(err)
+		}
+		return sec
+	}
+	open = build(scangen.ShapeSpec{Family: scangen.FamilyNACA, NACA: &scangen.NACASpec{Thickness: 0.12}})
+	closed = build(scangen.ShapeSpec{Family: scangen.FamilyNACA, NACA: &scangen.NACASpec{Thickness: 0.12, ClosedTE: true}})
+	rounded = build(scangen.ShapeSpec{Family: scangen.FamilyNACA, NACA: &scangen.NACASpec{Thickness: 0.12, ClosedTE: true}, RoundRadius: radius})
+	return open, closed, rounded
 }
