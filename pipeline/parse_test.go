@@ -125,7 +125,8 @@ func TestParseInvalid(t *testing.T) {
 			"invalid-values.json:10:5: inputs[5]: section name \"PLANE\" is also made by inputs[2]; give each input its own \"name\"",
 			"invalid-values.json:10:53: inputs[5].panels: \"panels\" cannot be set per input; set it in \"prepare\" (an input may set format, columns, units, cut, layer, band, flat_tol)",
 			"invalid-values.json:11:5: inputs[6]: section name \"manifest.json\" is the manifest's file name; give the input another \"name\"",
-			"invalid-values.json:13:64: stages[1].id: stage id \"Vortex\" differs only in case from \"vortex\" (at 13:21)",
+			"invalid-values.json:13:31: prepare.probe_radius: want a ball radius such as 1.5 or \"1.5mm\" (0 or more, in a length unit, not a share of the chord), got \"0.02c\"",
+			"invalid-values.json:14:64: stages[1].id: stage id \"Vortex\" differs only in case from \"vortex\" (at 14:21)",
 		}},
 	} {
 		t.Run(tc.file, func(t *testing.T) {

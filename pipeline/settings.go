@@ -113,6 +113,26 @@ var prepKeys = []prepKey{
 		}
 	}},
 	numKey("fit_tol", false, positive, func(s *prep.Settings) **float64 { return &s.FitTol }),
+	{"probe_radius", false, func(c *collector, path string, v gjson.Result, s *prep.Settings) {
+		// A length on the part, never a share of the chord: the chord is
+		// what the radius changes.
+		const want = `want a ball radius such as 1.5 or "1.5mm" (0 or more, in a length unit, not a share of the chord)`
+		switch v.Type {
+		case gjson.Number:
+			if x, ok := c.wantNumber(path, v, nonNeg); ok {
+				s.ProbeRadius = strconv.FormatFloat(x, 'g', -1, 64)
+			}
+		case gjson.String:
+			l, err := geometry.ParseLength(v.Str)
+			if err != nil || l.Unit == geometry.ChordUnit || !(l.Value >= 0) {
+				c.add(v.Index, path, want+", got %q", v.Str)
+				return
+			}
+			s.ProbeRadius = strings.TrimSpace(v.Str)
+		default:
+			c.add(v.Index, path, want+", got %s", describe(v))
+		}
+	}},
 	{"te", false, func(c *collector, path string, v gjson.Result, s *prep.Settings) {
 		if v.Type == gjson.String && v.Str == frame.TEClose {
 			s.TE = v.Str // the earlier form of te_thickness 0

@@ -6,7 +6,6 @@ import (
 	"fmt"
 	"math"
 	"strings"
-	"sync/atomic"
 
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/accuracy"
@@ -18,7 +17,6 @@ import (
 	"github.com/foilwright/foilwright/geometry/props"
 	"github.com/foilwright/foilwright/geometry/section"
 	"github.com/foilwright/foilwright/internal/digest"
-	"github.com/foilwright/foilwright/internal/par"
 	"github.com/foilwright/foilwright/repanel"
 )
 
@@ -56,6 +54,10 @@ type Preparation struct {
 	// of a fitted outline (Cleaned.retaken): its kink gate reaches up to
 	// the trailing edge's own stretch.
 	retaken bool
+	// strict is set on the last way Prepare tries (strictOutliers): its
+	// fit gate leaves out a few points far beyond the fit's tolerance
+	// (fitRMS).
+	strict bool
 }
 
 // Cleaned is what the first half of the geometry chain made of a
@@ -73,6 +75,7 @@ type Cleaned struct {
 	Read     int             // points read from all files
 	cloud    *geometry.Cloud // the planar cloud cleaned
 	alongFit bool            // the contour was retaken in the order of a fitted outline
+	strict   bool            // cleaned at strictSigma, the last way Prepare tries
 }
 
 // ReadAndClean runs the first half of the geometry chain on the files of
@@ -170,15 +173,39 @@ func (c *Cleaned) clean(s Settings, order string) error {
 // self-crossing, chord within the points' extent, surfaces monotone along
 // the chord, a plausible trailing-edge angle, a fit within the points'
 // scatter). When it fails one, or the edges cannot be located, the chain
-// tries again with the other orderings of the points (orderings) and then
-// with the fit finding the trailing edge on its own; the first way that
-// passes wins, and its record says which (the clean report's Strategy).
+// tries again with the other orderings of the points (orderings), then
+// with the fit finding the trailing edge on its own, then with the points
+// retaken along a fitted outline (retaken), and last with the points
+// cleaned at a stricter outlier threshold (strictOutliers); the first way
+// that passes wins, and its record says which (the clean report's
+// Strategy, and a warning).
 // When none does, Prepare returns the first failure as a *GateError.
+//
+// With a probe radius set, the points are ball centres: a closed curve is
+// fitted to the path the ball took, and the chain runs on the points moved
+// the radius toward the part (probe.go).
 func Prepare(name string, files []File, s Settings) (*Preparation, error) {
+	if _, err := probeRadius(s, geometry.Millimetre); err != nil {
+		return nil, err // before the reading: a setting wrong for any input
+	}
 	cl, err := ReadAndClean(files, s)
 	if err != nil {
 		return nil, err
 	}
+	r, err := probeRadius(s, cl.Units)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", strings.Join(cl.Files, ", "), err)
+	}
+	if r > 0 {
+		return compensate(name, cl, s, r)
+	}
+	return prepareCleaned(name, cl, s)
+}
+
+// prepareCleaned runs the chain on from a cleaned contour, through every
+// way of ordering and of finding the trailing edge until one passes the
+// gates (Prepare).
+func prepareCleaned(name string, cl *Cleaned, s Settings) (*Preparation, error) {
 	p, first := finishChain(name, cl, s, true)
 	if first == nil {
 		return p, nil
@@ -213,8 +240,85 @@ func Prepare(name string, files []File, s Settings) (*Preparation, error) {
 			return p, nil
 		}
 	}
+	if p := cl.strictOutliers(name, s, ge, &tried); p != nil {
+		return p, nil
+	}
 	ge.Tried = tried
 	return nil, fmt.Errorf("%s: %w", strings.Join(cl.Files, ", "), ge)
+}
+
+// strictSigma is the outlier threshold, in robust sigmas of the local
+// fit, of the last way Prepare tries: our choice, between the default
+// (clean.DefaultOutlierSigma, 6) and 3, which on the robustness
+// campaign's failures mended more sections but made some wrong (seeds
+// 121 and 1206 of 1–3000).
+const strictSigma = 4
+
+// strictOutliers runs the chain again on the points cleaned with the
+// stricter outlier threshold strictSigma, when the user set neither the
+// threshold nor --keep-outliers: in the order the cleaning picks, with
+// the fit placing the trailing edge on its own, then in the other
+// orderings, as Prepare does at the default threshold. It returns the
+// first preparation that passes every gate, warned of as the way that
+// passed, or nil; it adds the ways to tried.
+//
+// A burst of outliers beside a surface probed several times more coarsely
+// than the rest can outnumber that surface's own points in a local fit:
+// at the default threshold some of the burst stays in, the fitted outline
+// bends out to it and fails a gate (self-crossing, a fold, a thick end
+// where the section is thin). The stricter threshold drops them; it may
+// drop a few good points as well, which the gates, the fit's report and
+// the stated bounds then judge as for any other section. A burst that
+// stays in even so, as a tight cluster its own local fits follow, but
+// lies far off the curve fitted to the rest, is listed by the fit as
+// beyond its tolerance and left out of its gate (fitRMS).
+func (cl *Cleaned) strictOutliers(name string, s Settings, ge *GateError, tried *[]string) *Preparation {
+	if s.OutlierSigma != nil || (s.KeepOutliers != nil && *s.KeepOutliers) {
+		return nil
+	}
+	if ge.Gate == GateFit {
+		// The first way failed only the fit gate: its points again, with
+		// the burst the fit lists left out of that gate.
+		first := *cl
+		first.strict = true
+		*tried = append(*tried, "the points beyond the fit's tolerance left out of its check")
+		if p, err := finishChain(name, &first, s, true); err == nil {
+			p.Section.Warnings = append(p.Section.Warnings, fmt.Sprintf("the %s order of the points failed the check %q (%s) by %d point(s) far off the fitted curve (listed above); without them it passes", cl.Clean.Strategy, ge.Gate, ge.Seen, len(p.Fit.Beyond)))
+			return p
+		}
+	}
+	st := s
+	sigma := float64(strictSigma)
+	st.OutlierSigma = &sigma
+	alt := *cl
+	alt.strict = true
+	if alt.clean(st, "") != nil {
+		return nil
+	}
+	way := fmt.Sprintf("outliers dropped beyond %g robust sigmas", sigma)
+	*tried = append(*tried, way)
+	passed := func(p *Preparation, how string) *Preparation {
+		p.Section.Warnings = append(p.Section.Warnings, fmt.Sprintf("the %s order of the points failed the check %q (%s); with outliers dropped beyond %g robust sigmas of the local fit rather than %g, %s passed: look at the points dropped (points --plot), or set --outlier-sigma", cl.Clean.Strategy, ge.Gate, ge.Seen, sigma, float64(clean.DefaultOutlierSigma), how))
+		return p
+	}
+	if p, err := finishChain(name, &alt, st, true); err == nil {
+		return passed(p, "the "+alt.Clean.Strategy+" order")
+	}
+	if alt.Clean.Edge != nil {
+		if p, err := finishChain(name, &alt, st, false); err == nil {
+			return passed(p, "the "+alt.Clean.Strategy+" order with the fit's own trailing edge")
+		}
+	}
+	for _, order := range orderings(alt.Clean.Strategy) {
+		o := alt
+		if o.clean(st, order) != nil {
+			continue
+		}
+		if p, err := finishChain(name, &o, st, true); err == nil {
+			return passed(p, "the "+order+" order")
+		}
+	}
+	return nil
 }
 
 // finishChain runs the rest of the chain on a cleaned contour: fit (with
@@ -222,7 +326,7 @@ func Prepare(name string, files []File, s Settings) (*Preparation, error) {
 // the gates, the properties and the document. A failure to locate the
 // edges or to pass a gate is a *GateError.
 func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparation, error) {
-	p := &Preparation{Clouds: cl.Clouds, Flatness: cl.Flatness, Clean: cl.Clean, Contour: cl.Contour, retaken: cl.alongFit}
+	p := &Preparation{Clouds: cl.Clouds, Flatness: cl.Flatness, Clean: cl.Clean, Contour: cl.Contour, retaken: cl.alongFit, strict: cl.strict}
 	where := strings.Join(cl.Files, ", ")
 	if err := p.fit(cl, s, useEdge); err != nil {
 		return nil, err
@@ -231,6 +335,13 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 	if err != nil {
 		return nil, err
 	}
+	// The section's uncertainty (its replicas refitted and normalised)
+	// needs only the curve and the fit for its fits, which a second core
+	// begins while this one normalises the section; the shape for the
+	// rest. Whatever way the chain leaves, the estimate's goroutine stops
+	// (after Wait it has ended already).
+	acc := accuracy.Begin(p.Curve, p.Fit, accuracy.Options{Edges: eo})
+	defer acc.Stop()
 	no := eo
 	no.Support = p.Fit.S // the mirror decision reads only the measured nose
 	no.Noise = p.Fit.NoiseEstimate
@@ -240,26 +351,11 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 		}
 		return nil, fmt.Errorf("%s: %w", where, err)
 	}
-	// The section's uncertainty (its replicas refitted and normalised)
-	// needs only the curve, the fit and the shape: it is estimated on the
-	// second core while this one repanels and checks the gates, and not at
-	// all when the gates fail before it has begun.
+	// The estimate is finished on the second core while this one
+	// repanels and checks the gates, and given up when they fail.
+	acc.Finish(p.Shape)
 	rp := panelOptions(s)
-	var nodes []geometry.Point
-	var le int
-	var dev float64
-	var failed atomic.Bool
-	par.For(2, 2, func(_, k int) {
-		if k == 1 {
-			if !failed.Load() {
-				p.Uncertainty = accuracy.Estimate(p.Curve, p.Fit, p.Shape, accuracy.Options{Edges: eo})
-			}
-			return
-		}
-		if nodes, le, dev, err = p.shaped(rp, s, where); err != nil {
-			failed.Store(true)
-		}
-	})
+	nodes, le, dev, err := p.shaped(rp, s, where)
 	if err != nil {
 		if errors.Is(err, repanel.ErrPath) {
 			// A surface the repanelling cannot place its nodes on: the
@@ -269,12 +365,20 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 		}
 		return nil, err
 	}
+	p.Uncertainty = acc.Wait()
 	if useEdge {
 		widenForEdge(&p.Uncertainty, cl.Clean.Edge)
 	} else {
 		widenForRejectedEdge(&p.Uncertainty, cl.Clean.Edge, p.Shape.Frame)
 	}
 	widenForPasses(&p.Uncertainty, cl.Clean.Passes, p.Shape.Frame.Chord)
+	if s.LEAt == nil {
+		// Which end is the nose, read against the section's own bound.
+		if g := endsUnsupported(nodes, le, p.Uncertainty.Shape); g != nil {
+			g.Where = nearestOrigin(p.Contour, geometry.Point(p.Shape.Frame.ToPart(geometry.Point{X: 1})))
+			return nil, g
+		}
+	}
 	var edgeWarning string
 	if c := p.Shape.Frame.Chord; p.Uncertainty.Chord > wideChord*c {
 		// The replicas' share of the chord's bound is the noise's, a few
@@ -408,6 +512,20 @@ func beyondInRuns(rep *curve.FitReport) bool {
 // fit fits the smoothing spline to the cleaned contour, with the noise and
 // tolerance the settings give.
 func (p *Preparation) fit(cl *Cleaned, s Settings, useEdge bool) error {
+	fo, err := fitOptions(cl, s)
+	if err != nil {
+		return err
+	}
+	if useEdge {
+		fo.Edge = fitEdge(cl.Clean.Edge)
+	}
+	cv, rep, err := curve.Fit(cl.Contour, fo)
+	return p.finishFit(cl, s, cv, rep, err)
+}
+
+// fitOptions returns the fit's options of the settings: the noise given
+// (or a band's, or exact points), and the tolerance for listing points.
+func fitOptions(cl *Cleaned, s Settings) (curve.FitOptions, error) {
 	var fo curve.FitOptions
 	switch {
 	case s.Noise == nil:
@@ -422,17 +540,18 @@ func (p *Preparation) fit(cl *Cleaned, s Settings, useEdge bool) error {
 		fo.Exact = true
 	default:
 		if diag := contourDiagonal(cl.Contour); *s.Noise > maxNoiseFraction*diag {
-			return fmt.Errorf("noise %g %s: %w (the points span %.4g %s)", *s.Noise, cl.Units, ErrNoiseTooLarge, diag, cl.Units)
+			return fo, fmt.Errorf("noise %g %s: %w (the points span %.4g %s)", *s.Noise, cl.Units, ErrNoiseTooLarge, diag, cl.Units)
 		}
 		fo.Noise = *s.Noise
 	}
 	if s.FitTol != nil {
 		fo.Tolerance = *s.FitTol
 	}
-	if useEdge {
-		fo.Edge = fitEdge(cl.Clean.Edge)
-	}
-	cv, rep, err := curve.Fit(cl.Contour, fo)
+	return fo, nil
+}
+
+// finishFit checks the fit's outcome and keeps the curve.
+func (p *Preparation) finishFit(cl *Cleaned, s Settings, cv *curve.Curve, rep *curve.FitReport, err error) error {
 	if err != nil {
 		if !errors.Is(err, geometry.ErrTooFewPoints) && !errors.Is(err, geometry.ErrNonFinite) && !errors.Is(err, geometry.ErrCollinear) {
 			// The points passed the fit's checks but its equations could
@@ -660,7 +779,7 @@ func (p *Preparation) document(name string, cl *Cleaned, nodes []geometry.Point,
 			MaxRatio: p.Quality.MaxRatio, MaxTurnDeg: p.Quality.MaxTurnDeg,
 		},
 		Properties:  &docProps,
-		Uncertainty: (*section.Uncertainty)(&p.Uncertainty),
+		Uncertainty: &section.Uncertainty{Chord: p.Uncertainty.Chord, TwistDeg: p.Uncertainty.TwistDeg, LE: p.Uncertainty.LE, Surface: p.Uncertainty.Surface},
 		Nodes:       nodes,
 	}
 	for _, c := range p.Clouds {

@@ -19,6 +19,7 @@ type Settings struct {
 	OutlierSigma *float64 `json:"outlier_sigma,omitempty"` // drop points beyond this many robust sigmas
 	KeepOutliers *bool    `json:"keep_outliers,omitempty"` // report outliers but keep them
 	Loop         *int     `json:"loop,omitempty"`          // 0 largest-area loop, K the K-th largest
+	ProbeRadius  string   `json:"probe_radius,omitempty"`  // the points are centres of a probe ball this big: "1.5mm", or input units
 
 	// Fitting and edges.
 	Noise         *float64    `json:"noise,omitempty"`           // nil auto, 0 interpolate, else expected noise in input units

@@ -56,6 +56,9 @@ func (p *Preparation) WriteSummary(w io.Writer) {
 		at := geometry.Origin{File: d.File, Line: d.Line, Entity: d.Entity}
 		fmt.Fprintf(w, "  dropped %s: %s\n", at, d.Reason)
 	}
+	if r := s.Source.ProbeRadius; r > 0 {
+		fmt.Fprintf(w, "  probe ball  radius %s: the points, its centres, moved that far toward the part\n", LengthText(r, s.Units))
+	}
 	for i, c := range p.Clouds {
 		// The plain case (the first columns, x, y and z) goes without
 		// saying.

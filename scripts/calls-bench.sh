@@ -15,6 +15,7 @@
 #        BASELINE=main ROUNDS=9 scripts/calls-bench.sh
 set -euo pipefail
 cd "$(dirname "$0")/.."
+. scripts/callbench-tree.sh
 root=$PWD
 rounds=${ROUNDS:-7}
 reps=${REPS:-3}
@@ -26,17 +27,8 @@ go build -o "$tmp/fw-after" ./cmd/foilwright
 go build -o "$tmp/callbench-after" ./internal/callbench
 trees=(after)
 if [ -n "${BASELINE:-}" ]; then
-  # The earlier tree, driven by this driver: a plain copy of it (git
-  # archive), this driver's main.go, and its own request.go when it has
-  # one (else the request of a tree that predates packed nodes).
-  mkdir "$tmp/baseline"
-  git archive "$BASELINE" | tar -x -C "$tmp/baseline"
-  mkdir -p "$tmp/baseline/internal/callbench"
-  cp internal/callbench/main.go "$tmp/baseline/internal/callbench/"
-  if [ ! -f "$tmp/baseline/internal/callbench/request.go" ]; then
-    printf 'package main\n\nimport "github.com/foilwright/foilwright/plugins/stage"\n\nfunc request(section []byte) stage.Request { return stage.Request{Section: section} }\n' \
-      >"$tmp/baseline/internal/callbench/request.go"
-  fi
+  # The earlier tree, driven by this driver (callbench-tree.sh).
+  callbench_tree "$BASELINE" "$tmp/baseline"
   (cd "$tmp/baseline" && go build -o "$tmp/fw-before" ./cmd/foilwright && go build -o "$tmp/callbench-before" ./internal/callbench)
   trees=(before after)
 fi

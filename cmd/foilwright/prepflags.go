@@ -30,6 +30,7 @@ type prepFlags struct {
 	keepOutliers                bool
 	loop                        int
 	noise                       string
+	probeRadius                 lengthValue
 	fitTol                      wordFloat
 	te                          string
 	teThickness, teBlendLength  lengthValue
@@ -87,6 +88,7 @@ func (p *prepFlags) registerShape(cmd *cobra.Command) {
 	p.fitTol = wordFloat{word: "auto", min: 0, open: true, kind: "length"}
 	f.StringVar(&p.noise, "noise", "auto", `expected measurement noise (input units): auto chooses the smoothing by cross-validation, 0 interpolates every point`)
 	f.Var(&p.fitTol, "fit-tol", "list points farther than this from the fitted curve (input units; auto: 4 times the noise)")
+	f.Var(&p.probeRadius, "probe-radius", "the points are the centres of a probe ball of this radius (a measuring machine's output without radius compensation): move them this far toward the part, e.g. 1.5mm (a bare number is in input units)")
 	f.StringVar(&p.te, "te", frame.TEAuto, "trailing edge: "+enum.Help(frame.Treatments())+"; see --te-thickness")
 	f.Var(&p.teThickness, "te-thickness", "reshape a sharp, blunt or open trailing edge to this thickness, e.g. 0.5mm or 0.004c (a bare number is in input units; 0 closes it)")
 	p.teBlendLength.s = geometry.Length{Value: frame.EdgeDefaultBlend, Unit: geometry.ChordUnit}.String()
@@ -103,12 +105,13 @@ func (p *prepFlags) registerShape(cmd *cobra.Command) {
 	f.Float64Var(&p.curvatureWeight, "curvature-weight", repanel.DefaultCurvatureWeight, "for --spacing curvature: blend of curvature weighting with cosine spacing, 0 to 1")
 	f.StringVar(&p.thicknessMode, "thickness-mode", props.ThicknessChord, "measure thickness perpendicular to the chord line (chord) or normal to the camber line (camber)")
 	f.StringVar(&p.camberMode, "camber-mode", props.CamberMean, "camber line: "+enum.Help(props.CamberModes()))
-	for _, name := range []string{"noise", "fit-tol", "te", "te-thickness", "te-blend-length", "le-at", "mirror", "panels", "panel-tol", "spacing",
+	for _, name := range []string{"noise", "fit-tol", "probe-radius", "te", "te-thickness", "te-blend-length", "le-at", "mirror", "panels", "panel-tol", "spacing",
 		"le-cluster", "te-cluster", "curvature-weight", "thickness-mode", "camber-mode"} {
 		f.SetAnnotation(name, groupAnnotation, []string{chainGroup})
 	}
 	cmd.RegisterFlagCompletionFunc("noise", fixedCompletions("auto", "0"))
 	cmd.RegisterFlagCompletionFunc("fit-tol", fixedCompletions("auto"))
+	cmd.RegisterFlagCompletionFunc("probe-radius", fixedCompletions("0.5mm", "1mm", "1.5mm", "2.5mm"))
 	cmd.RegisterFlagCompletionFunc("te", fixedCompletions(enum.Names(frame.Treatments())...))
 	cmd.RegisterFlagCompletionFunc("te-thickness", fixedCompletions("0", "0.5mm", "0.002c"))
 	cmd.RegisterFlagCompletionFunc("te-blend-length", fixedCompletions("0.1c", "0.2c", "20mm"))
@@ -193,6 +196,9 @@ func (p *prepFlags) settings(cmd *cobra.Command) (prep.Settings, error) {
 		s.Noise = &v
 	}
 	s.FitTol = p.fitTol.ptr()
+	if set("probe-radius") {
+		s.ProbeRadius = p.probeRadius.s
+	}
 	if err := p.edgeSettings(cmd, &s); err != nil {
 		return s, err
 	}

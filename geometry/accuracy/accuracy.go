@@ -3,6 +3,7 @@ package accuracy
 import (
 	"math"
 	"math/rand/v2"
+	"sync/atomic"
 
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/curve"
@@ -19,6 +20,13 @@ type Uncertainty struct {
 	TwistDeg float64 `json:"twist_deg"`
 	LE       float64 `json:"le"`
 	Surface  float64 `json:"surface"`
+	// Shape is the part of Surface the curve's own shape may be off by
+	// between its points: Surface before the terms of a nose the points
+	// leave unsampled (the leading edge's place, which moves the outline
+	// as a whole) and of the outline turned over (chord units). Package
+	// prep reads the section's thicknesses against it. Not written to the
+	// section document.
+	Shape float64 `json:"-"`
 }
 
 // Options controls Estimate. The zero value uses DefaultReplicas replicas
@@ -66,9 +74,161 @@ type deltas struct {
 // Estimate returns the uncertainty of the section nz, normalised from the
 // fitted curve cv with fit report rep.
 func Estimate(cv *curve.Curve, rep *curve.FitReport, nz *frame.Normalized, opts Options) Uncertainty {
+	return newPending(cv, rep, opts).estimate(nz)
+}
+
+// A Pending is the uncertainty of a fitted curve under way. Its replicas
+// and half fits need only the curve's fit report, not the section
+// normalised from the curve: Begin starts them on a goroutine of their
+// own, which fits them while the caller normalises the section, then
+// (Finish) measures them against the section while the caller repanels
+// it, and Wait returns the estimate.
+type Pending struct {
+	cv       *curve.Curve
+	rep      *curve.FitReport
+	opts     Options
+	replicas int
+	jobs     []fitJob // the replicas, then the two half fits
+	// nz is the section Finish gave, shape hands it to the goroutine;
+	// claimed is set by whichever of the goroutine and Wait makes the
+	// estimate, result, and done closed when the goroutine returns.
+	nz      *frame.Normalized
+	shape   chan *frame.Normalized
+	claimed atomic.Bool
+	stop    atomic.Bool
+	result  Uncertainty
+	done    chan struct{}
+}
+
+// fitJob is one replica or half fit of a Pending, fitted exactly once by
+// whichever goroutine claims it first.
+type fitJob struct {
+	claimed atomic.Bool
+	done    chan struct{}
+	c       *curve.Curve
+	ok      bool
+}
+
+// newPending returns the Pending of cv and rep with no fit begun.
+func newPending(cv *curve.Curve, rep *curve.FitReport, opts Options) *Pending {
 	if opts.Replicas <= 0 {
 		opts.Replicas = DefaultReplicas
 	}
+	p := &Pending{cv: cv, rep: rep, opts: opts}
+	// The fits of every second point show what the spacing leaves
+	// unknown between the points (all an interpolating fit does not
+	// know), and take a second look at the noise, from the real
+	// residuals, where the sampling is irregular or sparse.
+	if rep.ReplicaNoise() > 0 {
+		p.replicas = opts.Replicas
+	}
+	p.jobs = make([]fitJob, p.replicas+2)
+	for k := range p.jobs {
+		p.jobs[k].done = make(chan struct{})
+	}
+	return p
+}
+
+// Begin returns the uncertainty of the fitted curve cv with fit report
+// rep under way: a goroutine of its own makes the fits, in turn, until
+// Finish gives it the section (or Stop stops it).
+func Begin(cv *curve.Curve, rep *curve.FitReport, opts Options) *Pending {
+	p := newPending(cv, rep, opts)
+	p.shape = make(chan *frame.Normalized, 1)
+	p.done = make(chan struct{})
+	go p.work()
+	return p
+}
+
+// work is the goroutine of Begin.
+func (p *Pending) work() {
+	defer close(p.done)
+	var nz *frame.Normalized
+	given := false
+fits:
+	for k := range p.jobs {
+		select {
+		case nz = <-p.shape:
+			given = true
+			break fits
+		default:
+		}
+		if p.stop.Load() {
+			return
+		}
+		p.run(k)
+	}
+	if !given {
+		nz = <-p.shape
+	}
+	if nz != nil && !p.stop.Load() && p.claimed.CompareAndSwap(false, true) {
+		p.result = p.estimate(nz)
+	}
+}
+
+// Finish gives Begin's goroutine the section nz, normalised from the
+// Pending's curve, to estimate the uncertainty of; Wait returns it.
+func (p *Pending) Finish(nz *frame.Normalized) {
+	p.nz = nz
+	p.shape <- nz
+}
+
+// Wait returns the uncertainty of the section given to Finish: made by
+// Begin's goroutine, or, when that had not begun it (on a machine shared
+// with other jobs it may not have had a core), on the caller.
+func (p *Pending) Wait() Uncertainty {
+	if p.claimed.CompareAndSwap(false, true) {
+		return p.estimate(p.nz)
+	}
+	<-p.done
+	return p.result
+}
+
+// Stop ends Begin's goroutine early, for a section that will not be
+// estimated (Finish not called, or Wait never to be): it begins no more
+// fits or measurements and returns. After Wait it changes nothing, so a
+// caller may defer it.
+func (p *Pending) Stop() {
+	p.stop.Store(true)
+	select {
+	case p.shape <- nil:
+	default:
+	}
+}
+
+// run fits job k unless another goroutine has claimed it, and reports
+// whether it did. Replica k has its own seed, so a fit does not depend on
+// the goroutine that makes it.
+func (p *Pending) run(k int) bool {
+	j := &p.jobs[k]
+	if !j.claimed.CompareAndSwap(false, true) {
+		return false
+	}
+	var err error
+	if k < p.replicas {
+		rng := rand.New(rand.NewPCG(p.opts.Seed, uint64(k)+1))
+		j.c, err = p.rep.Replica(rng)
+	} else {
+		j.c, err = p.rep.Half(k - p.replicas)
+	}
+	j.ok = err == nil
+	close(j.done)
+	return true
+}
+
+// fit returns fit k, made on the caller unless another goroutine has
+// claimed it (then once that one has made it), and whether it succeeded.
+func (p *Pending) fit(k int) (*curve.Curve, bool) {
+	if !p.run(k) {
+		<-p.jobs[k].done
+	}
+	return p.jobs[k].c, p.jobs[k].ok
+}
+
+// estimate returns the uncertainty of the section nz, normalised from the
+// Pending's curve, making the fits not made yet.
+func (p *Pending) estimate(nz *frame.Normalized) Uncertainty {
+	cv, rep, opts, replicas := p.cv, p.rep, p.opts, p.replicas
 	eo := opts.Edges
 	eo.Mirror = frame.MirrorNo
 	eo.Support, eo.Noise = nil, 0 // the mirror is the section's: the replicas keep it
@@ -83,31 +243,21 @@ func Estimate(cv *curve.Curve, rep *curve.FitReport, nz *frame.Normalized, opts 
 		}
 		return ref.compare(z)
 	}
-	// The replicas and the fits of every second point (below), on two
-	// goroutines, each taking the next fit as it finishes one; replica k
-	// has its own seed, so the result does not depend on the split.
-	//
-	// The fits of every second point show what the spacing leaves
-	// unknown between the points (all an interpolating fit does not
-	// know), and take a second look at the noise, from the real
-	// residuals, where the sampling is irregular or sparse.
-	replicas := 0
-	if rep.ReplicaNoise() > 0 {
-		replicas = opts.Replicas
-	}
+	// The replicas and the fits of every second point, on two goroutines,
+	// each taking the next fit (when Begin's goroutine has not made it)
+	// and measuring it as it finishes one.
 	fits := make([]deltas, replicas+2)
 	fitted := make([]bool, replicas+2)
 	par.For(replicas+2, 2, func(_, k int) {
-		if k < replicas {
-			rng := rand.New(rand.NewPCG(opts.Seed, uint64(k)+1))
-			if c, err := rep.Replica(rng); err == nil {
-				fits[k] = measure(c)
-			}
+		if p.stop.Load() {
+			return // no estimate wanted
+		}
+		c, ok := p.fit(k)
+		if !ok {
 			return
 		}
-		if c, err := rep.Half(k - replicas); err == nil {
-			fits[k], fitted[k] = measure(c), true
-		}
+		fits[k] = measure(c)
+		fitted[k] = k >= replicas
 	})
 	var noise []deltas
 	if replicas > 0 {
@@ -194,6 +344,7 @@ func Estimate(cv *curve.Curve, rep *curve.FitReport, nz *frame.Normalized, opts 
 	// the trailing edge, a chord away; and since the normalised outline
 	// is placed by its leading edge, the nose of the outline may lie
 	// that far (in chords) from the part's.
+	u.Shape = u.Surface
 	if a, b, ok := noseStretch(rep, cv, nz); ok && nz.Frame.Chord > 0 {
 		L := cv.Length()
 		at := func(t float64) geometry.Point {
@@ -211,6 +362,18 @@ func Estimate(cv *curve.Curve, rep *curve.FitReport, nz *frame.Normalized, opts 
 		u.Chord += far
 		u.TwistDeg = math.Max(u.TwistDeg, math.Atan(u.LE/nz.Frame.Chord)*180/math.Pi)
 		u.Surface = math.Max(u.Surface, far/nz.Frame.Chord)
+	}
+	// A rounded trailing edge whose tip no point samples (a gap over the
+	// tip turns the outline by more than tipTurnDeg) is the fit's guess:
+	// the surfaces may as well run on straight to a corner, and the
+	// replicas and half fits, which round the end alike, do not see it.
+	// The part's trailing edge may lie anywhere from the tip to where the
+	// surfaces' straight continuations meet (tipStretch), so the chord's
+	// bound gains that distance and the twist's its height over the chord.
+	if along, across, ok := tipStretch(rep, cv, nz); ok {
+		c := nz.Frame.Chord
+		u.Chord += along * c
+		u.TwistDeg = math.Max(u.TwistDeg, math.Atan(across)*180/math.Pi)
 	}
 	// Where the points cannot tell the upper side from the lower (the
 	// normalisation says so), the section may be the part turned over:
@@ -231,6 +394,7 @@ func Estimate(cv *curve.Curve, rep *curve.FitReport, nz *frame.Normalized, opts 
 	u.LE = math.Max(u.LE, floorLength*c)
 	u.TwistDeg = math.Max(u.TwistDeg, floorLength*180/math.Pi)
 	u.Surface = math.Max(u.Surface, floorLength)
+	u.Shape = math.Max(u.Shape, floorLength)
 	return u
 }
 

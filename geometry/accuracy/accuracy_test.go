@@ -469,3 +469,47 @@ func TestEstimateCoversDrift(t *testing.T) {
 		t.Errorf("%d of %d figures outside their 95 %% bounds", misses, 4*seeds)
 	}
 }
+
+func TestBeginEstimatesAlike(t *testing.T) {
+	// The estimate begun before the section is normalised (Begin, Finish,
+	// Wait) is Estimate's, bit for bit: each replica has its own seed, so
+	// the goroutine that fits it does not matter. Whichever of Begin's
+	// goroutine and Wait makes the estimate, the answer is the same; the
+	// loop gives both a chance (the goroutine may or may not have run by
+	// the time Wait is called).
+	n, _ := shape.ParseNACA4("2412")
+	part := testfoil.Part{Chord: 152.4, RotDeg: 7, Shift: geometry.Point{X: 37, Y: -12}, Noise: 0.02, Seed: 3}
+	c := testfoil.Contour(testfoil.Loop(n, 150), part)
+	cv, rep, nz := fitNormalize(t, c)
+	want := Estimate(cv, rep, nz, Options{})
+	if !(want.Chord > 0) || !(want.Surface > 0) {
+		t.Fatalf("Estimate %+v: want positive bounds", want)
+	}
+	for k := range 4 {
+		p := Begin(cv, rep, Options{})
+		if k%2 == 1 {
+			<-p.jobs[0].done // the goroutine has made a fit before the section is given
+		}
+		p.Finish(nz)
+		if got := p.Wait(); got != want {
+			t.Errorf("run %d: Begin/Finish/Wait %+v, Estimate %+v", k, got, want)
+		}
+		<-p.done
+	}
+}
+
+func TestBeginStop(t *testing.T) {
+	// Stop ends Begin's goroutine whether or not the section was given
+	// (a goroutine left waiting hangs the test until the package's time
+	// limit fails it).
+	n, _ := shape.ParseNACA4("0012")
+	part := testfoil.Part{Chord: 100, Noise: 0.02, Seed: 1}
+	cv, rep, nz := fitNormalize(t, testfoil.Contour(testfoil.Loop(n, 120), part))
+	p := Begin(cv, rep, Options{})
+	p.Stop()
+	<-p.done
+	q := Begin(cv, rep, Options{})
+	q.Finish(nz)
+	q.Stop()
+	<-q.done
+}

@@ -14,7 +14,10 @@
 // is all there is for exact data, and a second look at the noise that
 // uses the real residuals. Each figure is the larger of the two, times a
 // coverage factor set so that the bounds cover the true error in 95 % of
-// the robustness campaign's cases (internal/campaign).
+// the robustness campaign's cases (internal/campaign). The fits need
+// only the fit report: Begin starts them on a goroutine of its own while
+// the caller normalises the section, Finish hands it the section to
+// measure them against, and Wait returns what Estimate would.
 //
 // Gaps in the sampling that the section cannot bridge (the nose sampled
 // by one point) are reported with their size and the points either side

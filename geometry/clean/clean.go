@@ -227,6 +227,13 @@ func Clean(c *geometry.Cloud, opts Options) (*geometry.Contour, *Report, error) 
 	if err != nil {
 		return nil, rep, err
 	}
+	if !opts.KeepOutliers {
+		// 4b. A point or two of a fixture's run that stayed in the loop
+		// among the run's dropped points (see apexes).
+		if seq, more := apexes(cl.pts, a.seq, a.hits, a.scale, false); len(more) > 0 {
+			a.seq, a.hits = seq, append(a.hits, more...)
+		}
+	}
 	cl.commit(a)
 	// 5. Orient: start at the trailing edge found on the points; failing
 	// that, at the provisional one.
@@ -253,6 +260,16 @@ func Clean(c *geometry.Cloud, opts Options) (*geometry.Contour, *Report, error) 
 					}
 				}
 				work = slices.DeleteFunc(work, func(i int32) bool { return out[i] })
+				if !opts.KeepOutliers {
+					// The end model's outliers may leave a fixture's
+					// point beyond the edge on the fixture's face (see
+					// apexes).
+					all := append(slices.Clone(a.hits), ef.outliers...)
+					if w, more := apexes(cl.pts, work, all, a.scale, true); len(more) > 0 {
+						cl.record(more, false)
+						work = w
+					}
+				}
 				if len(work) < minPoints {
 					return nil, rep, fmt.Errorf("geometry: clean: %w: %d point(s) left in the loop, need at least %d", geometry.ErrTooFewPoints, len(work), minPoints)
 				}

@@ -8,6 +8,7 @@ import (
 	"gonum.org/v1/gonum/mathext"
 
 	"github.com/foilwright/foilwright/geometry"
+	"github.com/foilwright/foilwright/internal/par"
 )
 
 // Trailing-edge kinds (Edge.Kind).
@@ -844,6 +845,10 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 	var models, alts []endModel
 	// Sharp.
 	sepEnd := u.at(xmax) - l.at(xmax)
+	// The rounded end's grid of tips and its search read only what the
+	// sharp and blunt models read: they run on a second core meanwhile.
+	var bestR *endModel
+	rounded := par.Start(func() { bestR = roundBest(u, l, z, zs, xmax, xa, step, pstep, scat, max(sepEnd, 0), pen) })
 	// The end spacing a corner put at the aftmost point is carried on by
 	// (unsampledStretch): the smallest of the steps and of the zone's own
 	// (its points share its length between the two surfaces), so that a
@@ -948,8 +953,8 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 	// by up to a step: an end sampled by one or two points need not have
 	// one at its tip (a point a angle θ round an arc of radius r lies
 	// r(1 − cos θ) short of it). The best of a grid of tips is refined by
-	// golden-section search between its neighbours.
-	if bestR := roundBest(u, l, z, zs, xmax, xa, step, pstep, scat, max(sepEnd, 0), pen); bestR != nil {
+	// golden-section search between its neighbours (begun above).
+	if rounded.Wait(); bestR != nil {
 		models = append(models, *bestR)
 	}
 	if len(models) == 0 {
@@ -1026,10 +1031,51 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 			bk = k
 		}
 	}
-	best := models[bk]
 	for k := range alts {
 		alts[k].score = alts[k].misfit(u, l, z, scat, edgeOutlier, out, zs) + alts[k].extra + fits.gaps.deviance(&alts[k], u, l, z, out, xa)
 	}
+	if edgeTrace != nil {
+		for _, m := range models {
+			edgeTrace("model %s gapdev %.2f score %.1f extra %.2f xu %.5f xl %.5f r %.5g lo %v hi %v corner %v", m.kind, fits.gaps.deviance(&m, u, l, z, out, xa), m.score, m.extra, m.xu, m.xl, m.r, m.lo, m.hi, m.corner)
+		}
+		edgeTrace("zone %d points, xmax %.5f step %.4g scat %.3g pen %.1f", len(z), xmax, step, scat, pen)
+	}
+	if b := models[bk]; b.kind == EdgeBlunt && endPts[bk] == 0 && !b.cornersSampled(z, max(2*scat, snapTol(scat, step))) {
+		// A base no point lies on, nor both of whose corners a point
+		// sampled (a drawing's stations), is no sample of a base: it is
+		// seen only in where the surfaces' last points stop. Where a
+		// sharp corner within reach of them explains the points as well
+		// (its misfits within edgePlausible of the base's) and leaves
+		// unsampled stretches either side of the end that the spacing of
+		// each surface allows (gapModel.plausibleEnd), the points show
+		// nothing the corner does not, and the simpler end is stated; the
+		// base stays among the rivals for the bounds. The corner must lie
+		// within edgeReach end spacings of the base and within edgeGuess
+		// of the chord: farther on, the corner stated is a guess the
+		// points do not bound (pairs of points a hair apart at stations
+		// 0.02-0.08 c apart left a 0.019 c stretch round a guessed corner
+		// and the fit crossed its surfaces short of it, a chord bound of
+		// 44 % of the chord), and the base through the points is the
+		// statement that invents the less.
+		mb := b.misfit(u, l, z, scat, edgeOutlier, out, zs)
+		for _, m := range models {
+			if m.kind != EdgeSharp {
+				continue
+			}
+			if d := m.corner.X + m.beyond - b.tipX(); d <= edgeReach*min(step, pstep) && d <= edgeGuess &&
+				m.misfit(u, l, z, scat, edgeOutlier, out, zs) <= mb+edgePlausible && fits.gaps.plausibleEnd(&m, u, l, z, out, xa, pstep) {
+				return chooseSpread(fits, models, alts, eligible, m, z, out, xa, step, pstep, scat)
+			}
+		}
+	}
+	return chooseSpread(fits, models, alts, eligible, models[bk], z, out, xa, step, pstep, scat)
+}
+
+// chooseSpread completes chooseEnd for the winner best: the rivals among
+// models and alts that score within edgePlausible of it and the spreads
+// of their ends.
+func chooseSpread(fits endFits, models, alts []endModel, eligible func(int) bool, best endModel, z []geometry.Point, out []bool, xa, step, pstep, scat float64) (endModel, []bool, bool) {
+	u, l := fits.u, fits.l
 	for k, m := range append(models, alts...) {
 		if m.score <= best.score+edgePlausible {
 			if m.kind != best.kind && (k >= len(models) || eligible(k)) && !slices.Contains(best.rivals, m.kind) {
@@ -1053,12 +1099,6 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 				best.spreadS = max(best.spreadS, best.apart(far, u, l, xa))
 			}
 		}
-	}
-	if edgeTrace != nil {
-		for _, m := range models {
-			edgeTrace("model %s gapdev %.2f score %.1f extra %.2f xu %.5f xl %.5f r %.5g lo %v hi %v corner %v", m.kind, fits.gaps.deviance(&m, u, l, z, out, xa), m.score, m.extra, m.xu, m.xl, m.r, m.lo, m.hi, m.corner)
-		}
-		edgeTrace("zone %d points, xmax %.5f step %.4g scat %.3g pen %.1f", len(z), xmax, step, scat, pen)
 	}
 	return best, out, true
 }
@@ -1384,6 +1424,9 @@ func gapDeviance(gap, step float64) float64 {
 type gapModel struct {
 	h [2]float64 // the upper surface's, the lower's
 	k float64
+	// sigma is the σ of the gaps' logs k was made from (at least
+	// gapSigmaMin).
+	sigma float64
 }
 
 // gapSpan is the number of gaps either side of the zone that give the
@@ -1441,6 +1484,7 @@ func newGapModel(pts []geometry.Point, seq []int32, ku, kl int, chord float64) g
 	iqr := logs[3*len(logs)/4] - logs[len(logs)/4]
 	sigma := max(gapSigmaMin, iqr/1.349)
 	gm.k = min(gapShapeMax, max(1, 1/(math.Exp(sigma*sigma)-1)))
+	gm.sigma = sigma
 	return gm
 }
 
@@ -1460,6 +1504,96 @@ func (gm gapModel) deviance(m *endModel, u, l quadFit, z []geometry.Point, out [
 	if !(gm.k > 1) || !(gm.h[0] > 0) || !(gm.h[1] > 0) {
 		return 0
 	}
+	var dev float64
+	for side, d := range endStretches(m, u, l, z, out, xa) {
+		r := d / gm.h[side]
+		q := mathext.GammaIncRegComp(gm.k, gm.k*r)
+		e := float64(gapDevMax)
+		if q > 0 {
+			e = min(gapDevMax, -2*math.Log(q))
+		}
+		if e >= gapDevMax {
+			// Capped, the gamma law's cost may not fall below the
+			// exponential law's 2r it replaces: a model leaving a
+			// stretch of many mean gaps unsampled (a degenerate fit
+			// whose end lies far off) would otherwise win by the
+			// difference, without bound.
+			e = max(e, 2*r)
+		}
+		dev += e - 2*r
+	}
+	return dev
+}
+
+// cornersSampled reports whether points of z lie within d of both
+// corners of the blunt end m.
+func (m *endModel) cornersSampled(z []geometry.Point, d float64) bool {
+	return sampled(z, m.hi, d) && sampled(z, m.lo, d)
+}
+
+// edgeGuess is the farthest (chord units) beyond a base through the
+// last points that a corner no point shows is stated over that base: the
+// share of the chord beyond which prep warns that the chord's bound is
+// wide (prep's wideChord), so that stating such a corner never by itself
+// makes the chord a wide guess.
+const edgeGuess = 0.005
+
+// endGapLevel is the chance below which a gap round the end is too long
+// to hold it (a one-sided 95 % test, common practice).
+const endGapLevel = 0.05
+
+// plausibleEnd reports whether the stretches the zone points z
+// (outliers out left out) leave unsampled either side of the end of the
+// model m, from the end along the outline to the last point of each
+// surface, are ones the spacing allows. The gaps of each surface are
+// taken log-normal with the σ of their logs (the irregular spacing of
+// hand-probed and scanned points: fast over flat parts, slow at the
+// nose, gaps where a beam grazed) and that surface's own mean h (a
+// surface probed more finely than the other, as a second pass may,
+// leaves a shorter stretch). From a given spot (the end), the distance d
+// to the next point of such gaps exceeds d with the chance
+//
+//	(1/h) ∫_d^∞ P(G > x) dx = Φ(d₁) − (d/h) Φ(d₁ − σ),  d₁ = (ln(h/d) + σ²/2)/σ
+//
+// (the forward recurrence of a renewal process, common practice, with
+// the partial mean of the log-normal law). The end is plausible when
+// that chance is at least endGapLevel on each surface. Without a model of the spacing (too few gaps), the mean
+// step and the least σ the model takes stand in.
+func (gm gapModel) plausibleEnd(m *endModel, u, l quadFit, z []geometry.Point, out []bool, xa, step float64) bool {
+	// σ at most that of gaps as irregular as a Poisson process's (a
+	// coefficient of variation of 1: e^{σ²} − 1 = 1), as gapModel's k is
+	// held to at least 1: points measured twice or two passes interleaved
+	// leave gaps near zero whose logs would call any gap plausible.
+	sigma, hs := min(gm.sigma, math.Sqrt(math.Ln2)), gm.h
+	if !(sigma > 0) || !(hs[0] > 0) || !(hs[1] > 0) {
+		sigma, hs = gapSigmaMin, [2]float64{step, step}
+	}
+	if !(hs[0] > 0) || !(hs[1] > 0) {
+		return false
+	}
+	phi := func(x float64) float64 { return 0.5 * math.Erfc(-x/math.Sqrt2) }
+	p := 1.0
+	for side, d := range endStretches(m, u, l, z, out, xa) {
+		if !(d > 0) {
+			continue
+		}
+		h := hs[side]
+		d1 := (math.Log(h/d) + sigma*sigma/2) / sigma
+		p = min(p, max(0, phi(d1)-d/h*phi(d1-sigma)))
+	}
+	if edgeTrace != nil {
+		edgeTrace("plausible end %s: h %.4g %.4g sigma %.3g p %.3g", m.kind, hs[0], hs[1], sigma, p)
+	}
+	return p >= endGapLevel
+}
+
+// endStretches returns the stretches of the model's outline from its end
+// (the corner, the middle of the base, the tip of the arc) to the
+// nearest of the zone points z (outliers out left out) either side, the
+// points placed along the outline from the station xa on the lower
+// surface round the end to xa on the upper one: [0] towards the upper
+// surface, [1] towards the lower.
+func endStretches(m *endModel, u, l quadFit, z []geometry.Point, out []bool, xa float64) [2]float64 {
 	pcs := m.outline(u, l, xa)
 	sc := m.tipX() // outline normalises by the model's own chord
 	// One polyline: the lower surface out to its end, the joining piece,
@@ -1505,25 +1639,7 @@ func (gm gapModel) deviance(m *endModel, u, l quadFit, z []geometry.Point, out [
 			above = min(above, at)
 		}
 	}
-	var dev float64
-	for side, d := range [2]float64{above - tip, tip - below} {
-		r := d / gm.h[side]
-		q := mathext.GammaIncRegComp(gm.k, gm.k*r)
-		e := float64(gapDevMax)
-		if q > 0 {
-			e = min(gapDevMax, -2*math.Log(q))
-		}
-		if e >= gapDevMax {
-			// Capped, the gamma law's cost may not fall below the
-			// exponential law's 2r it replaces: a model leaving a
-			// stretch of many mean gaps unsampled (a degenerate fit
-			// whose end lies far off) would otherwise win by the
-			// difference, without bound.
-			e = max(e, 2*r)
-		}
-		dev += e - 2*r
-	}
-	return dev
+	return [2]float64{above - tip, tip - below}
 }
 
 // gapDevMax caps what one stretch may cost under the gamma law (a

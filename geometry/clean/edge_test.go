@@ -306,34 +306,45 @@ func TestEdgeSpreadSurface(t *testing.T) {
 }
 
 // A sharp trailing edge (NACA 2412, closed-edge coefficient, NACA Report
-// 824) probed sparsely, about a hundred points evenly along the outline
-// with a random phase on each surface and a little noise: no point lies on the corner, and
-// the surfaces' last points stop short of it by up to a step. The points
-// show no base, so a base through the last points must not be stated over
-// the corner that the surfaces meet in a little beyond them; when a base
-// still scores nearly as well, the edge names it among its rivals (and
-// its spreads take it in).
-func TestEdgeSparseSharpNoBase(t *testing.T) {
+// 824) probed along its outline with irregular steps, log-normal with σ
+// 0.5 of their logs (a hand-probed part: 200 points round the outline),
+// and a little noise; the corner is not sampled and the last points of
+// the surfaces stop short of it by up to a couple of steps. A base through
+// the last points that no point lies on must not be stated where the
+// surfaces, carried on, meet within reach and edgeGuess of it in a gap
+// round the end that the spacing allows: the points show no base.
+// Measured on 96 draws: 9 stated blunt with a base no point lies on
+// before the gap test (gapModel.plausibleEnd), 8 with it (most corners
+// lie more than edgeGuess beyond the last points at this spacing, where
+// the base through them stays stated).
+func TestEdgeIrregularSharpNoBase(t *testing.T) {
 	foil := shape.NACA4{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12, SharpTE: true}
-	const chord, runs = 80.0, 24
+	const chord, runs, m = 120.0, 96, 12000
+	stations := nacaArcStations(foil, m+1)
+	s := make([]float64, len(stations))
+	for i := 1; i < len(s); i++ {
+		s[i] = s[i-1] + stations[i].Dist(stations[i-1])
+	}
+	at := func(want float64) geometry.Point {
+		j := min(max(0, int(want/s[len(s)-1]*m)), m-1)
+		for j > 0 && s[j] > want {
+			j--
+		}
+		for j+1 < m && s[j+1] < want {
+			j++
+		}
+		f := (want - s[j]) / (s[j+1] - s[j])
+		return stations[j].Add(stations[j+1].Sub(stations[j]).Scale(f))
+	}
 	bases := 0
 	for seed := range uint64(runs) {
-		rng := rand.New(rand.NewPCG(seed, 29))
-		k := 90 + rng.IntN(30)
-		stations := nacaArcStations(foil, 40*k+1)
-		// Every fortieth station, from a random phase on each surface: the
-		// corner (the first and last station) is left out, and the last
-		// points of the two surfaces stop short of it by different
-		// lengths.
+		rng := rand.New(rand.NewPCG(seed, 41))
+		const sigma, n = 0.5, 200
+		h := s[len(s)-1] / n
 		var pts []geometry.Point
-		mid := len(stations) / 2
-		pu, pl := 1+rng.IntN(39), 1+rng.IntN(39)
-		for i := 1; i < len(stations)-1; i++ {
-			if i <= mid && (i-pu)%40 != 0 || i > mid && (len(stations)-1-i-pl)%40 != 0 {
-				continue
-			}
-			nz := geometry.Point{X: rng.NormFloat64(), Y: rng.NormFloat64()}.Scale(0.004 / chord)
-			pts = append(pts, stations[i].Add(nz).Scale(chord).Rotate(-0.2))
+		for x := h * rng.Float64(); x < s[len(s)-1]; x += h * math.Exp(sigma*rng.NormFloat64()-sigma*sigma/2) {
+			nz := geometry.Point{X: rng.NormFloat64(), Y: rng.NormFloat64()}.Scale(0.003 / chord)
+			pts = append(pts, at(x).Add(nz).Scale(chord).Rotate(0.4))
 		}
 		_, rep, err := Clean(edgeTestCloud(pts), Options{})
 		if err != nil {
@@ -346,13 +357,8 @@ func TestEdgeSparseSharpNoBase(t *testing.T) {
 			bases++
 			t.Logf("seed %d: %s", seed, rep.Edge.Why)
 		}
-		if rep.Edge.Kind == EdgeSharp && rep.Edge.Spread > 0 && len(rep.Edge.Rivals) == 0 && rep.Edge.SpreadSurface == 0 {
-			t.Errorf("seed %d: spreads without rivals", seed)
-		}
 	}
-	// Measured: 5 of 24 with the margin a base with no point on it needs,
-	// 9 of 24 without it (the rest are close calls a base wins clearly).
-	if bases > 6 {
-		t.Errorf("%d of %d sparse sharp edges stated blunt with no point on the base", bases, runs)
+	if bases > 8 {
+		t.Errorf("%d of %d irregularly probed sharp edges stated blunt with no point on the base", bases, runs)
 	}
 }

@@ -42,6 +42,11 @@ type RoundedEnd struct {
 // curvature of a convex surface from tilting the direction (a straight
 // line would give the mean slope over the window, not the slope at its
 // near end) while still averaging out what wiggles are left.
+// Sharp returns where the straight continuations of both surfaces, just
+// ahead of the rounding, meet (the point a sharpen extends them to), and
+// whether they meet behind the edge.
+func (e RoundedEnd) Sharp() (geometry.Point, bool) { return e.sharp, e.sharpValid }
+
 func surfaceLine(cv *curve.Curve, a, b float64) geometry.Point {
 	L := cv.Length()
 	wrap := func(s float64) float64 { return math.Mod(math.Mod(s, L)+L, L) }

@@ -44,6 +44,10 @@ type SourceInfo struct {
 	PointsRead int       `json:"points_read"`
 	PointsUsed int       `json:"points_used"`
 	Dropped    []Dropped `json:"dropped"`
+	// ProbeRadius is the radius of the probe ball whose centres the points
+	// were, by which they were moved toward the part (input units); 0 when
+	// the points were taken as on the part.
+	ProbeRadius float64 `json:"probe_radius,omitempty"`
 }
 
 // Dropped is one input point that did not make it into the section.

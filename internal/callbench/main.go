@@ -82,6 +82,7 @@ func main() {
 	flag.IntVar(&o.reps, "reps", 3, "timed calls per section and stage")
 	flag.IntVar(&o.batch, "batch", 200, "calls per batch")
 	flag.IntVar(&o.round, "round", 0, "round number; odd rounds run the batch through child processes first")
+	flag.StringVar(&o.only, "only", "", `run only one batch, "in" (in process) or "sub" (through child processes), and print nothing: for counting instructions (scripts/calls-instr.sh)`)
 	flag.BoolVar(&o.table, "table", false, "print the table from -before and -after")
 	flag.StringVar(&o.before, "before", "", "rounds of the earlier tree (JSON lines)")
 	flag.StringVar(&o.after, "after", "", "rounds of this tree (JSON lines)")
@@ -103,6 +104,7 @@ func main() {
 type options struct {
 	sections                    string
 	reps, batch, round          int
+	only                        string
 	table                       bool
 	before, after               string
 	foldersBefore, foldersAfter string
@@ -188,7 +190,15 @@ var calls = []struct{ stage, params string }{
 
 func round(o options, w io.Writer) error {
 	ctx := context.Background()
-	h, err := host.New(host.Options{})
+	// The stages are this executable by its path, not /proc/self/exe,
+	// which under valgrind is valgrind's own tool.
+	exe, err := filepath.Abs(os.Args[0])
+	if err != nil {
+		return err
+	}
+	// A minute to start: under valgrind a stage starts in seconds, more
+	// on a busy machine.
+	h, err := host.New(host.Options{Self: exe, StartTimeout: time.Minute})
 	if err != nil {
 		return err
 	}
@@ -321,6 +331,15 @@ func round(o options, w io.Writer) error {
 		if o.round%2 == 1 {
 			order = []func() error{null, rep, sub, in}
 		}
+		switch o.only {
+		case "in":
+			return in()
+		case "sub":
+			return sub()
+		case "":
+		default:
+			return fmt.Errorf("-only %q: want in or sub", o.only)
+		}
 		for _, f := range order {
 			if err := f(); err != nil {
 				return err
@@ -343,11 +362,14 @@ func batchRequests(n int) []stage.Request {
 	if err := section.Write(&b, &section.Section{Format: section.Format, Name: "naca2412", Units: "chord", Nodes: foil.Loop(80)}); err != nil {
 		panic(err)
 	}
+	// One request, made once (its section parsed once: the driver's
+	// instructions per call are the calls'), sent n times.
+	req := request(b.Bytes())
+	req.Params = []byte(`{"alpha_deg": [-4,-3,-2,-1,0,1,2,3,4,5,6,7,8,9,10,11,12]}`)
+	req.SectionName = "naca2412"
 	reqs := make([]stage.Request, n)
 	for i := range reqs {
-		reqs[i] = request(b.Bytes())
-		reqs[i].Params = []byte(`{"alpha_deg": [-4,-3,-2,-1,0,1,2,3,4,5,6,7,8,9,10,11,12]}`)
-		reqs[i].SectionName = "naca2412"
+		reqs[i] = req
 	}
 	return reqs
 }

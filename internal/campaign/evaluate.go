@@ -31,22 +31,40 @@ type Record struct {
 	ChordErr float64
 	TwistErr float64 // degrees
 	LEErr    float64 // chord units
-	NodeErr  float64 // largest distance of a node from the true shape, chord units
+	// LEAlong and LEAcross are the leading edge's error along the true
+	// chord line (towards the trailing edge) and across it (to the left
+	// of that direction seen from the side the plane's normal points to,
+	// or from +z for 2D points), signed, chord units; TEAlong and
+	// TEAcross are those of the trailing-edge point. The twist error is
+	// about |TEAcross − LEAcross| radians: they tell which end turned
+	// the chord line.
+	LEAlong, LEAcross float64
+	TEAlong, TEAcross float64
+	NodeErr           float64 // largest distance of a node from the true shape, chord units
 	// NodeErrAt is where that node is, in the section's normalised frame.
 	NodeErrAt geometry.Point
 	TEGot     string
 	TERight   bool
 	// TEUndecidable is true when the good points cannot tell the true
-	// trailing-edge kind from another at their sampling (teUndecidable);
-	// TEEndPoints counts the good points on the true base or rounded end.
+	// trailing-edge kind from another at their sampling (teUndecidable)
+	// or at their noise (teIndistinct); TEEndPoints counts the good points
+	// on the true base or rounded end.
 	TEUndecidable bool
 	TEEndPoints   int
+	// TESeparation is teIndistinct's λ, the noise-free points' squared
+	// distance in scatters from the nearest outline of a rival kind of
+	// end; −1 when it weighs none.
+	TESeparation float64
 	// Good counts good lines that are not part of a duplicate pair;
 	// GoodDropped those the section lists as dropped for a reason other
 	// than being a duplicate. Planted counts planted outliers, Caught those
 	// the section lists as dropped.
 	Good, GoodDropped int
 	Planted, Caught   int
+	// Fixture counts the points of a fixture's face (scangen.LineFixture),
+	// FixtureCaught those the section lists as dropped.
+	Fixture       int `json:",omitempty"`
+	FixtureCaught int `json:",omitempty"`
 	// Stated is the section's uncertainty, nil when it states none.
 	Stated *uncertainty
 	// Covered says, per figure (chord, twist, le, surface), whether the
@@ -72,6 +90,15 @@ func evaluate(r *Record, tr *scangen.Truth, sec *section) {
 	r.TwistErr = math.Atan2(a.Cross(b).Norm(), a.Dot(b)) * 180 / math.Pi
 	leAbs := le.Sub(tle).Norm()
 	r.LEErr = leAbs / tr.Chord
+	along := b.Scale(1 / b.Norm())
+	normal := geometry.Vec3{Z: 1}
+	if pl := tr.Plane; pl != nil {
+		normal = geometry.Vec3{X: pl.Normal[0], Y: pl.Normal[1], Z: pl.Normal[2]}
+	}
+	across := normal.Cross(along)
+	dl, dt := le.Sub(tle).Scale(1/tr.Chord), te.Sub(tte).Scale(1/tr.Chord)
+	r.LEAlong, r.LEAcross = dl.Dot(along), dl.Dot(across)
+	r.TEAlong, r.TEAcross = dt.Dot(along), dt.Dot(across)
 	for _, n := range sec.Nodes {
 		if d, _ := sh.Nearest(n); d > r.NodeErr {
 			r.NodeErr, r.NodeErrAt = d, n
@@ -80,6 +107,12 @@ func evaluate(r *Record, tr *scangen.Truth, sec *section) {
 	r.TEGot = sec.TrailingEdge.Kind
 	r.TERight = teRight(tr, r.TEGot)
 	r.TEUndecidable, r.TEEndPoints = teUndecidable(tr)
+	indistinct, lambda := teIndistinct(tr)
+	r.TEUndecidable = r.TEUndecidable || indistinct
+	r.TESeparation = -1
+	if !math.IsInf(lambda, 1) {
+		r.TESeparation = lambda
+	}
 	countDropped(r, tr, sec)
 
 	u := sec.Uncertainty
@@ -141,6 +174,11 @@ func countDropped(r *Record, tr *scangen.Truth, sec *section) {
 			r.Planted++
 			if gone {
 				r.Caught++
+			}
+		case l.Kind == scangen.LineFixture:
+			r.Fixture++
+			if gone {
+				r.FixtureCaught++
 			}
 		case l.Kind == scangen.LineGood && !paired[l.No]:
 			r.Good++

@@ -145,9 +145,34 @@ func TestEvaluateWrong(t *testing.T) {
 	if r.Wrong != "" || r.Stated == nil || r.Covered != [4]bool{true, true, true, true} {
 		t.Errorf("covered: wrong %q, stated %v, covered %v", r.Wrong, r.Stated, r.Covered)
 	}
-	// Chord and twist turn about the leading edge, which stays put.
-	if r.LEErr > 1e-12 {
-		t.Errorf("leading edge error %g", r.LEErr)
+	// Chord and twist turn about the leading edge, which stays put; the
+	// trailing edge moves by 1.01 chords turned 0.5° less one chord
+	// (calculated by hand).
+	if r.LEErr > 1e-12 || math.Abs(r.LEAlong) > 1e-12 || math.Abs(r.LEAcross) > 1e-12 {
+		t.Errorf("leading edge error %g (along %g, across %g)", r.LEErr, r.LEAlong, r.LEAcross)
+	}
+	wantAlong, wantAcross := 1.01*math.Cos(0.5*math.Pi/180)-1, 1.01*math.Sin(0.5*math.Pi/180)
+	if math.Abs(r.TEAlong-wantAlong) > 1e-9 || math.Abs(math.Abs(r.TEAcross)-wantAcross) > 1e-9 {
+		t.Errorf("trailing edge off %g along, %g across the chord line; want %g, ±%g", r.TEAlong, r.TEAcross, wantAlong, wantAcross)
+	}
+	// The whole section moved across its chord line by 0.001 chord: both
+	// ends move alike, the chord line does not turn.
+	u := geometry.Point{X: tr.TE[0] - tr.LE[0], Y: tr.TE[1] - tr.LE[1]}.Scale(1 / tr.Chord)
+	shift := geometry.Point{X: -u.Y, Y: u.X}.Scale(1e-3 * tr.Chord)
+	moved := perfectDoc(t, c, 160, func(d map[string]any) {
+		f := d["frame"].(map[string]any)
+		le := f["le"].([2]float64)
+		f["le"] = [2]float64{le[0] + shift.X, le[1] + shift.Y}
+	})
+	r = evaluateDoc(t, c, moved)
+	for _, v := range []float64{r.LEAlong, r.TEAlong, r.TwistErr} {
+		if math.Abs(v) > 1e-9 {
+			t.Errorf("moved across: along %g and %g, twist %g°; want 0", r.LEAlong, r.TEAlong, r.TwistErr)
+			break
+		}
+	}
+	if math.Abs(r.LEAcross-1e-3) > 1e-9 || math.Abs(r.TEAcross-1e-3) > 1e-9 {
+		t.Errorf("moved 0.001 chord to the left of the chord line: across %g at the leading edge, %g at the trailing edge", r.LEAcross, r.TEAcross)
 	}
 	tooTight := perfectDoc(t, c, 160, func(d map[string]any) {
 		off(d)
@@ -263,16 +288,7 @@ func TestToPart(t *testing.T) {
 // decidable: the spacing is that of the last gaps, and so is its
 // irregularity.
 func TestTEUndecidable(t *testing.T) {
-	build := func(s scangen.ShapeSpec) *scangen.Section {
-		sec, err := s.Build()
-		if err != nil {
-			t.Fatal(err)
-		}
-		return sec
-	}
-	open := build(scangen.ShapeSpec{Family: scangen.FamilyNACA, NACA: &scangen.NACASpec{Thickness: 0.12}})
-	closed := build(scangen.ShapeSpec{Family: scangen.FamilyNACA, NACA: &scangen.NACASpec{Thickness: 0.12, ClosedTE: true}})
-	rounded := build(scangen.ShapeSpec{Family: scangen.FamilyNACA, NACA: &scangen.NACASpec{Thickness: 0.12, ClosedTE: true}, RoundRadius: 0.01})
+	open, closed, rounded := naca0012Ends(t, 0.01)
 	// lines puts good points at arc lengths s from each end corner along
 	// both surfaces, and at loop parameters ends on the end piece.
 	lines := func(sec *scangen.Section, s []float64, ends ...float64) []scangen.Line {
@@ -322,4 +338,78 @@ func TestTEUndecidable(t *testing.T) {
 			t.Errorf("%s: undecidable %v with %d points on the end, want %v with %d", tc.name, got, onEnd, tc.want, tc.onEnd)
 		}
 	}
+}
+
+// A base and a rounded end are indistinct as teIndistinct's documentation
+// says: the noise-free points' separation λ from the nearest rival outline
+// scales as 1/σ² (a sum of squares in scatters) and the kind is
+// indistinct below (2·1.645)², so the same sampling decides under small
+// noise and not under noise of a few tenths of the end's thickness; a
+// sharp edge and noise-free points weigh no rival. The sections are NACA
+// 0012 with its open edge (NACA Report 824: base 0.25 % of the chord) and
+// closed and rounded to a radius of 0.5 % of the chord.
+func TestTEIndistinct(t *testing.T) {
+	open, closed, rounded := naca0012Ends(t, 0.005)
+	// Points every h of arc along the last 0.1 c of both surfaces and n
+	// on the end piece, evenly.
+	lines := func(sec *scangen.Section, h float64, n int) []scangen.Line {
+		sh := sec.Shape
+		sLo := sh.ArcAt(2)
+		var ls []scangen.Line
+		for d := h / 2; d < 0.1; d += h {
+			ls = append(ls, scangen.Line{Kind: scangen.LineGood, T: sh.ParamAt(d)}, scangen.Line{Kind: scangen.LineGood, T: sh.ParamAt(sLo - d)})
+		}
+		for k := range n {
+			ls = append(ls, scangen.Line{Kind: scangen.LineGood, T: 2 + (float64(k)+0.5)/float64(n)})
+		}
+		return ls
+	}
+	for _, tc := range []struct {
+		name  string
+		sec   *scangen.Section
+		lines []scangen.Line
+		noise float64
+		want  bool
+	}{
+		{"blunt, 4 base points, noise 0.02 of the base", open, lines(open, 0.0006, 4), 5e-5, false},
+		{"blunt, 4 base points, noise 0.3 of the base", open, lines(open, 0.0006, 4), 7.5e-4, true},
+		{"rounded, 8 arc points, noise 0.005 of the width", rounded, lines(rounded, 0.001, 8), 5e-5, false},
+		{"rounded, 8 arc points, noise 0.3 of the width", rounded, lines(rounded, 0.001, 8), 3e-3, true},
+	} {
+		tr := &scangen.Truth{Section: tc.sec, TEKind: tc.sec.TEKind, Lines: tc.lines, Noise: tc.noise}
+		got, l1 := teIndistinct(tr)
+		tr.Noise *= 2
+		_, l2 := teIndistinct(tr)
+		if got != tc.want || math.Abs(l1/l2-4) > 1e-6 {
+			t.Errorf("%s: indistinct %v (λ %.4g, at twice the noise %.4g), want %v and a ratio of 4", tc.name, got, l1, l2, tc.want)
+		}
+	}
+	for _, tc := range []struct {
+		name  string
+		sec   *scangen.Section
+		noise float64
+	}{{"sharp", closed, 1e-3}, {"blunt, noise-free", open, 0}} {
+		tr := &scangen.Truth{Section: tc.sec, TEKind: tc.sec.TEKind, Lines: lines(tc.sec, 0.0006, 4), Noise: tc.noise}
+		if got, l := teIndistinct(tr); got || !math.IsInf(l, 1) {
+			t.Errorf("%s: indistinct %v, λ %g; want false, +Inf", tc.name, got, l)
+		}
+	}
+}
+
+// naca0012Ends returns NACA 0012 with its open edge (Report 824: a base of
+// 0.25 % of the chord), closed, and closed and rounded to radius (chord
+// units), as the generator builds them.
+func naca0012Ends(t *testing.T, radius float64) (open, closed, rounded *scangen.Section) {
+	t.Helper()
+	build := func(s scangen.ShapeSpec) *scangen.Section {
+		sec, err := s.Build()
+		if err != nil {
+			t.Fatal(err)
+		}
+		return sec
+	}
+	open = build(scangen.ShapeSpec{Family: scangen.FamilyNACA, NACA: &scangen.NACASpec{Thickness: 0.12}})
+	closed = build(scangen.ShapeSpec{Family: scangen.FamilyNACA, NACA: &scangen.NACASpec{Thickness: 0.12, ClosedTE: true}})
+	rounded = build(scangen.ShapeSpec{Family: scangen.FamilyNACA, NACA: &scangen.NACASpec{Thickness: 0.12, ClosedTE: true}, RoundRadius: radius})
+	return open, closed, rounded
 }

@@ -162,6 +162,23 @@ func Figures(recs []Record) []Figure {
 	}
 	sc := share(caught, planted)
 	add("planted outliers caught", "≥ 98 %", fmt.Sprintf("%s (%d of %d)", pct(sc), caught, planted), true, sc >= targetCaught)
+	var fixture, fixtureCaught, fixtureCases, fixtureKept int
+	for _, r := range succ {
+		fixture += r.Fixture
+		fixtureCaught += r.FixtureCaught
+		if r.Fixture > 0 {
+			fixtureCases++
+			if r.FixtureCaught < r.Fixture {
+				fixtureKept++
+			}
+		}
+	}
+	if fixture > 0 {
+		// Only with the opt-in fixture hazard (-fixture): the plain
+		// table is unchanged.
+		add("fixture points dropped (cases keeping any)", "all (0)", fmt.Sprintf("%s (%d of %d; %d of %d cases)",
+			pct(share(fixtureCaught, fixture)), fixtureCaught, fixture, fixtureKept, fixtureCases), false, fixtureKept == 0)
+	}
 
 	figs = append(figs, uncertaintyFigures(succ, well)...)
 	figs = append(figs, liftFigures(recs)...)

@@ -163,6 +163,9 @@ func hazardKeys(r *Record) []string {
 	add(s.Order.Start == "te", "loop starts at the trailing edge")
 	add(s.Shape.KT != nil && s.Shape.KT.TEAngleDeg < 3, "Kármán–Trefftz edge angle < 3°")
 	add(s.Shape.Mod != nil && s.Shape.Mod.TESlope < 0.1, "cusped edge")
+	if f := s.Defects.Fixture; f != nil {
+		ks = append(ks, "fixture face "+f.Place)
+	}
 	if len(ks) == 0 {
 		ks = []string{"none"}
 	}

@@ -20,8 +20,17 @@ type Case struct {
 
 // NewCase draws and generates the case of seed. It returns the
 // generator's error, which means a bug in the generator.
-func NewCase(seed uint64) (*Case, error) {
+func NewCase(seed uint64) (*Case, error) { return newCase(seed, false) }
+
+// NewFixtureCase is NewCase with a fixture's face measured with the part
+// (scangen.WithFixture): the case of seed, its other draws unchanged.
+func NewFixtureCase(seed uint64) (*Case, error) { return newCase(seed, true) }
+
+func newCase(seed uint64, fixture bool) (*Case, error) {
 	spec := scangen.Draw(seed)
+	if fixture {
+		spec = scangen.WithFixture(spec, seed)
+	}
 	scan, err := scangen.Generate(spec, seed)
 	if err != nil {
 		return nil, fmt.Errorf("case %d: %w", seed, err)
@@ -92,6 +101,9 @@ type Options struct {
 	// Keep, when set, is called with every case whose record it may want
 	// (to dump the files of failures); it runs on the worker's goroutine.
 	Keep func(*Case, *Record)
+	// Fixture adds a fixture's face to every case (NewFixtureCase): an
+	// opt-in hazard, so that the plain cases of a seed stay as they were.
+	Fixture bool
 }
 
 // Run runs the cases of the seeds and returns their records in the order
@@ -111,7 +123,7 @@ func Run(seeds []uint64, opts Options) ([]Record, error) {
 	for range workers {
 		wg.Go(func() {
 			for i := range next {
-				c, err := NewCase(seeds[i])
+				c, err := newCase(seeds[i], opts.Fixture)
 				if err != nil {
 					errs[i] = err
 					continue

@@ -145,8 +145,11 @@
 // ending every point line.
 //
 // Every line's truth says what it is: a good point, an outlier, a
-// duplicate, or a repeat (a second measurement of a stretch another pass
-// measured too, with its pass's move, Truth.Shift).
+// duplicate, a repeat (a second measurement of a stretch another pass
+// measured too, with its pass's move, Truth.Shift), or a point of a
+// fixture's face (Defects.Fixture: a clamp's jaw 0.01–0.15 chord below the
+// section or beyond an edge, which Draw never sets and WithFixture adds
+// from a random stream of its own).
 //
 // # Categories
 //

@@ -169,6 +169,9 @@ func Generate(spec Spec, seed uint64) (*Scan, error) {
 	}
 	pts = g.order(append(pts, ext...), spec.Order)
 	pts = append(pts, rep...)
+	if f := spec.Defects.Fixture; f != nil {
+		pts = append(pts, fixturePoints(f, sh, g.noise, rand.New(rand.NewPCG(seed, 0xf1c6)))...)
+	}
 	pts = duplicate(pts, spec.Defects, rng)
 	for i := range pts {
 		pts[i].id = i

@@ -97,6 +97,9 @@ type Defects struct {
 	// CloseLoop repeats the first point at the end (a CAD export that
 	// closes its polyline by repeating the start).
 	CloseLoop bool `json:"close_loop,omitempty"`
+	// Fixture, when set, is a fixture's face measured with the part (see
+	// Fixture and WithFixture); Draw never sets it.
+	Fixture *Fixture `json:"fixture,omitempty"`
 }
 
 // Order is the order of the lines in the file.

@@ -19,6 +19,7 @@ import (
 
 	"github.com/hashicorp/go-hclog"
 	"github.com/hashicorp/go-plugin"
+	"google.golang.org/grpc"
 	"google.golang.org/grpc/codes"
 	"google.golang.org/grpc/status"
 
@@ -310,6 +311,8 @@ func (h *Host) start(ctx context.Context, spec Spec) (*process, error) {
 		AutoMTLS:         h.opts.AutoMTLS,
 		SkipHostEnv:      true,
 		UnixSocketConfig: &plugin.UnixSocketConfig{TempDir: h.dir},
+		// Fixed windows: no bandwidth-probing ping with every reply.
+		GRPCDialOptions: []grpc.DialOption{grpc.WithStaticStreamWindowSize(stage.WindowSize), grpc.WithStaticConnWindowSize(stage.WindowSize)},
 	}
 	p := &process{h: h, spec: spec, tail: tail}
 	memory := h.opts.Memory

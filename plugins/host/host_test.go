@@ -134,6 +134,37 @@ func TestRunReusesProcess(t *testing.T) {
 	}
 }
 
+// TestParamsCheckedEveryCall: parameters that passed the check once are
+// not checked again, and any others still are, whatever came before.
+func TestParamsCheckedEveryCall(t *testing.T) {
+	t.Parallel()
+	h := newHost(t, host.Options{})
+	r := h.Runner(host.Builtin("echo"))
+	good, bad := `{"sleep_ms": 1}`, `{"sleep_ms": 9000}`
+	params := []byte(good)
+	for i, tc := range []struct {
+		params string
+		ok     bool
+	}{{good, true}, {good, true}, {bad, false}, {good, true}, {bad, false}, {bad, false}, {"", true}, {good, true}} {
+		req := request(tc.params)
+		if tc.params == good {
+			req.Params = params // the caller's own bytes
+		}
+		_, err := r.Run(t.Context(), req)
+		if (err == nil) != tc.ok {
+			t.Errorf("call %d (%s): error %v", i, tc.params, err)
+		}
+		if !tc.ok && !errors.Is(err, stage.ErrBadInput) {
+			t.Errorf("call %d (%s): error %v, want bad input", i, tc.params, err)
+		}
+	}
+	// The caller may reuse its bytes: the runner kept a copy.
+	copy(params, `{"sleep_mz": 1}`)
+	if _, err := r.Run(t.Context(), stage.Request{Section: section, Params: params, SectionName: "toy.json"}); !errors.Is(err, stage.ErrBadInput) {
+		t.Errorf("changed bytes: error %v, want bad input", err)
+	}
+}
+
 func TestStageErrorsKeepTheirSentinel(t *testing.T) {
 	t.Parallel()
 	h := newHost(t, host.Options{})

@@ -110,11 +110,12 @@ func setGCPercent(env func(string) (string, bool)) {
 const streamWorkers = 4
 
 // GRPCServer is the gRPC server factory Serve uses: go-plugin's default
-// server with message limits raised to MaxMessageSize and calls served by
-// a few long-lived goroutines (streamWorkers).
+// server with message limits raised to MaxMessageSize, calls served by
+// a few long-lived goroutines (streamWorkers) and fixed flow-control
+// windows of stage.WindowSize.
 func GRPCServer(opts []grpc.ServerOption) *grpc.Server {
 	opts = append(opts, grpc.MaxRecvMsgSize(MaxMessageSize), grpc.MaxSendMsgSize(MaxMessageSize),
-		grpc.NumStreamWorkers(streamWorkers))
+		grpc.NumStreamWorkers(streamWorkers), grpc.StaticStreamWindowSize(stage.WindowSize), grpc.StaticConnWindowSize(stage.WindowSize))
 	return plugin.DefaultGRPCServer(opts)
 }
 

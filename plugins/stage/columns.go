@@ -175,25 +175,8 @@ func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
 // sharedCpPoints reports whether every case with a pressure distribution
 // gives it at the same points (bit for bit), and returns them.
 func sharedCpPoints(cases []*Case) (xs, ys []float64, ok bool) {
-	var first []CpPoint
-	for _, c := range cases {
-		if c == nil || len(c.Cp) == 0 {
-			continue
-		}
-		if first == nil {
-			first = c.Cp
-			continue
-		}
-		if len(c.Cp) != len(first) {
-			return nil, nil, false
-		}
-		for k, p := range c.Cp {
-			if math.Float64bits(p.X) != math.Float64bits(first[k].X) || math.Float64bits(p.Y) != math.Float64bits(first[k].Y) {
-				return nil, nil, false
-			}
-		}
-	}
-	if first == nil {
+	first, ok := sharedCp(cases)
+	if !ok {
 		return nil, nil, false
 	}
 	xs, ys = make([]float64, len(first)), make([]float64, len(first))
@@ -203,9 +186,44 @@ func sharedCpPoints(cases []*Case) (xs, ys []float64, ok bool) {
 	return xs, ys, true
 }
 
+// sharedCp is sharedCpPoints giving the points as the first case with a
+// pressure distribution has them, not copied.
+func sharedCp(cases []*Case) (first []CpPoint, ok bool) {
+	for _, c := range cases {
+		if c == nil || len(c.Cp) == 0 {
+			continue
+		}
+		if first == nil {
+			first = c.Cp
+			continue
+		}
+		if len(c.Cp) != len(first) {
+			return nil, false
+		}
+		for k, p := range c.Cp {
+			if math.Float64bits(p.X) != math.Float64bits(first[k].X) || math.Float64bits(p.Y) != math.Float64bits(first[k].Y) {
+				return nil, false
+			}
+		}
+	}
+	return first, first != nil
+}
+
 // sharedLoadStations is sharedCpPoints for the load distributions.
 func sharedLoadStations(cases []*Case) (xs []float64, ok bool) {
-	var first []LoadPoint
+	first, ok := sharedLoad(cases)
+	if !ok {
+		return nil, false
+	}
+	xs = make([]float64, len(first))
+	for k, p := range first {
+		xs[k] = p.X
+	}
+	return xs, true
+}
+
+// sharedLoad is sharedCp for the load distributions.
+func sharedLoad(cases []*Case) (first []LoadPoint, ok bool) {
 	for _, c := range cases {
 		if c == nil || len(c.Load) == 0 {
 			continue
@@ -223,14 +241,7 @@ func sharedLoadStations(cases []*Case) (xs []float64, ok bool) {
 			}
 		}
 	}
-	if first == nil {
-		return nil, false
-	}
-	xs = make([]float64, len(first))
-	for k, p := range first {
-		xs[k] = p.X
-	}
-	return xs, true
+	return first, first != nil
 }
 
 // appendFloat appends v as encoding/json writes a float64: the shortest

@@ -306,11 +306,16 @@ func requestFromProto(in *stagev1.RunRequest, packed bool) (Request, error) {
 }
 
 // resultToResponse makes the message of a stage's result: the result
-// document packed when the stage gave it as a ResultDoc, else its JSON.
+// document packed when the stage gave it as a ResultDoc (its wire bytes
+// written straight from the document, resultwire.go), else its JSON.
 func resultToResponse(res Result) *stagev1.RunResponse {
 	out := &stagev1.RunResponse{Warnings: res.Warnings}
 	if res.Doc != nil {
-		out.Result = ResultToProto(res.Doc)
+		if raw, ok := resultField(res.Doc); ok {
+			out.ProtoReflect().SetUnknown(raw)
+		} else {
+			out.Result = ResultToProto(res.Doc)
+		}
 	} else {
 		out.ResultJson = res.JSON
 	}

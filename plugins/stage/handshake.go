@@ -38,3 +38,14 @@ func PluginMap(impl Stage) plugin.PluginSet {
 func VersionedPlugins(impl Stage) map[int]plugin.PluginSet {
 	return map[int]plugin.PluginSet{ProtocolVersion: PluginMap(impl)}
 }
+
+// WindowSize is the HTTP/2 flow-control window, in bytes, that the host
+// and a stage served by package sdk each give the other for a stream and
+// for the connection. It is fixed: with windows it may grow, gRPC sends a
+// bandwidth-probing ping with every message received, which the other
+// process wakes to answer (about one write and two reads more a call), and
+// a window update after every few tens of kilobytes. It is the largest
+// message a stage served by package sdk takes or sends, so a sender
+// rarely waits for a window update (a larger message still flows, window
+// by window).
+const WindowSize = 64 << 20

@@ -229,12 +229,22 @@ func (c *caseColumns) result(i int, shared *sharedColumns) (*Case, error) {
 			return nil, malformedPacked("case %d: %d cp value(s) at %d x and %d y (points given nowhere?)", i, len(cp), len(xs), len(ys))
 		}
 		out.Cp = make([]CpPoint, len(cp))
-		for k := range cp {
-			// v-v is 0 for a finite v, NaN for NaN and infinities.
-			if cp[k]-cp[k] != 0 || xs[k]-xs[k] != 0 || ys[k]-ys[k] != 0 {
-				return nil, malformedPacked("case %d: cp point %d is (%g, %g, %g)", i, k, xs[k], ys[k], cp[k])
+		// v-v is 0 for a finite v, NaN for NaN and infinities: the sum
+		// of the differences is NaN if any number is not finite, and
+		// only then is the first such point looked for.
+		pts, xs, ys := out.Cp[:len(cp)], xs[:len(cp)], ys[:len(cp)]
+		var bad float64
+		for k, v := range cp {
+			x, y := xs[k], ys[k]
+			bad += (v - v) + (x - x) + (y - y)
+			pts[k] = CpPoint{X: x, Y: y, Cp: v}
+		}
+		if bad != 0 {
+			for k := range cp {
+				if cp[k]-cp[k] != 0 || xs[k]-xs[k] != 0 || ys[k]-ys[k] != 0 {
+					return nil, malformedPacked("case %d: cp point %d is (%g, %g, %g)", i, k, xs[k], ys[k], cp[k])
+				}
 			}
-			out.Cp[k] = CpPoint{X: xs[k], Y: ys[k], Cp: cp[k]}
 		}
 	}
 	if dcp := c.loadDcp; len(dcp) > 0 {
@@ -246,11 +256,19 @@ func (c *caseColumns) result(i int, shared *sharedColumns) (*Case, error) {
 			return nil, malformedPacked("case %d: %d load value(s) at %d x (stations given nowhere?)", i, len(dcp), len(xs))
 		}
 		out.Load = make([]LoadPoint, len(dcp))
-		for k := range dcp {
-			if dcp[k]-dcp[k] != 0 || xs[k]-xs[k] != 0 {
-				return nil, malformedPacked("case %d: load point %d is (%g, %g)", i, k, xs[k], dcp[k])
+		pts, xs := out.Load[:len(dcp)], xs[:len(dcp)]
+		var bad float64 // as for the Cp points
+		for k, v := range dcp {
+			x := xs[k]
+			bad += (v - v) + (x - x)
+			pts[k] = LoadPoint{X: x, DCp: v}
+		}
+		if bad != 0 {
+			for k := range dcp {
+				if dcp[k]-dcp[k] != 0 || xs[k]-xs[k] != 0 {
+					return nil, malformedPacked("case %d: load point %d is (%g, %g)", i, k, xs[k], dcp[k])
+				}
 			}
-			out.Load[k] = LoadPoint{X: xs[k], DCp: dcp[k]}
 		}
 	}
 	if f := c.field; f != nil {

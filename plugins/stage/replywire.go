@@ -3,6 +3,7 @@ package stage
 import (
 	"encoding/binary"
 	"math"
+	"slices"
 	"sync"
 	"unicode/utf8"
 
@@ -234,8 +235,10 @@ func appendDoubles(dst []float64, typ protowire.Type, b []byte) ([]float64, int)
 		if n < 0 || len(v)%8 != 0 {
 			return dst, -1
 		}
-		for ; len(v) >= 8; v = v[8:] {
-			dst = append(dst, math.Float64frombits(binary.LittleEndian.Uint64(v)))
+		o, k := len(dst), len(v)/8
+		dst = slices.Grow(dst, k)[:o+k]
+		for i, d := 0, dst[o:]; i < len(d); i++ {
+			d[i] = math.Float64frombits(binary.LittleEndian.Uint64(v[8*i : 8*i+8]))
 		}
 		return dst, n
 	case protowire.Fixed64Type:

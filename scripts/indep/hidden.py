@@ -13,6 +13,11 @@ the shape, the sampling, the placement or the file's text:
     reflex    the reflexed NACA 5-digit mean lines (naca.FiveDigitReflexLine)
     kt        Kármán–Trefftz by its exact conformal map, cusped (60 %) or with
               a 2-10 deg trailing edge (shapes.KarmanTrefftz)
+    ballr     (by name only, not in "all") the ball's centres as in "ball",
+              uncompensated, with the radius given (--probe-radius): scored
+              against the part's own outline. The path is each point moved
+              r along its normal, with points on the arcs of radius r round
+              every corner (a sharp edge, a base's two) at the local spacing
     ball      a CMM whose probe ball was not compensated (radius 0.5-3 mm) or
               compensated by half: the points lie on the ball centre's path,
               the outline offset outward by r (a sharp edge becomes an arc of
@@ -52,14 +57,17 @@ import outline as ol
 import shapes
 
 CLASSES = ["thick", "thin", "camber", "reflex", "kt", "ball", "graze", "nose", "clamp", "far", "inch", "text", "z3d", "numbered"]
+# Classes run by name only: "all" keeps taking CLASSES by seed, so that its
+# cases stay the files they were.
+EXTRA = ["ballr"]
 
 
 def pick(seed, name):
     """The class of a seed for --class name (a class or "all")."""
     if name == "all":
         return CLASSES[seed % len(CLASSES)]
-    if name not in CLASSES:
-        raise ValueError("unknown class %r (have %s)" % (name, ", ".join(CLASSES)))
+    if name not in CLASSES + EXTRA:
+        raise ValueError("unknown class %r (have %s)" % (name, ", ".join(CLASSES + EXTRA)))
     return name
 
 
@@ -68,7 +76,7 @@ class Hazard:
 
     def __init__(self, name, seed, mode):
         self.name = name
-        self.rng = np.random.default_rng([seed, 0 if mode == "normal" else 1, 22, CLASSES.index(name)])
+        self.rng = np.random.default_rng([seed, 0 if mode == "normal" else 1, 22, (CLASSES + EXTRA).index(name)])
         self.spec = {"class": name}
         self.plane = None
 
@@ -132,7 +140,11 @@ class Hazard:
 
     def placement(self, pl):
         r, n = self.rng, self.name
-        if n == "ball":
+        if n == "ballr":
+            pl["chord_mm"] = float(np.exp(r.uniform(np.log(60), np.log(600))))
+            rad = r.uniform(0.5, 3.0)
+            self.spec.update(ball_mm=float(rad), ball_c=float(rad / pl["chord_mm"]))
+        elif n == "ball":
             pl["chord_mm"] = float(np.exp(r.uniform(np.log(60), np.log(600))))
             rad = r.uniform(0.5, 3.0)
             half = bool(r.random() < 0.3)
@@ -190,6 +202,42 @@ class Hazard:
             okey = np.concatenate([okey] + extra_k)
             kinds = kinds + ["good"] * sum(len(e) for e in extra_s)
             self.spec.update(passes=passes, pass_width_c=float(w))
+        elif n == "ballr":
+            d = self.spec["ball_c"]
+            p = p + nrm * d
+            q, per = ctx["q"], ctx["perimeter"]
+            # The arcs of radius d round every corner of the outline (a
+            # sharp edge, a base's two), at the spacing of the points near
+            # each: the ball rolls round a corner on its own radius.
+            t = np.roll(q, -1, axis=0) - q
+            t /= np.hypot(t[:, 0], t[:, 1])[:, None]
+            seg_n = np.stack([t[:, 1], -t[:, 0]], axis=1)
+            prev_n = np.roll(seg_n, 1, axis=0)
+            turn = np.arctan2(prev_n[:, 0] * seg_n[:, 1] - prev_n[:, 1] * seg_n[:, 0], np.sum(prev_n * seg_n, axis=1))
+            closed = np.vstack([q, q[:1]])
+            arc_s = np.concatenate([[0], np.cumsum(np.hypot(*np.diff(closed, axis=0).T))])
+            added = 0
+            for i in np.nonzero(turn > np.radians(3))[0]:
+                a0 = np.arctan2(prev_n[i, 1], prev_n[i, 0])
+                si = arc_s[i]
+                near = np.sort((s[np.abs((s - si + per / 2) % per - per / 2) < 0.03 * per] - si + per / 2) % per)
+                h = float(np.median(np.diff(near))) if len(near) > 2 else 0.01 * per
+                k = int(d * turn[i] / h)
+                if k < 1:
+                    continue
+                th = a0 + turn[i] * (np.arange(k) + r.uniform(0, 1, k)) / k
+                rad = np.stack([np.cos(th), np.sin(th)], axis=1)
+                pa = q[i] + rad * (d + ctx["sm"]["noise"] * r.standard_normal(k))[:, None]
+                p = np.vstack([p, pa])
+                nrm = np.vstack([nrm, rad])
+                s = np.concatenate([s, np.full(k, si)])
+                piece = np.concatenate([piece, np.full(k, ol.PIECE_END)])
+                # in the file between the points either side of the corner
+                key = si if i > 0 else per
+                okey = np.concatenate([okey, key - 1e-12 * per + (th - a0) / turn[i] * 1e-12 * per])
+                kinds = kinds + ["good"] * k
+                added += k
+            self.spec.update(arc_points=added)
         elif n == "clamp":
             k = int(r.integers(3, 13))
             length, off = r.uniform(0.02, 0.10), r.uniform(0.01, 0.15)

@@ -343,6 +343,8 @@ def draw(seed, mode, planes=0.0, cls=None):
     if hz is not None:
         if cls == "ball":
             hz.spec["ball_mm_actual"] = float(hz.spec["ball_c"] * ch / o.chord_raw)
+        if cls == "ballr":  # the radius in the file's units, as the user knows it
+            spec["prep_args"] = ["--probe-radius", "%.6g" % (hz.spec["ball_c"] * ch)]
         spec["class"] = hz.spec
         spec["units"] = pl.get("units", "mm")
     return spec, truth, lines

@@ -200,7 +200,7 @@ def run_case(preps, seed, mode, workdir, keep=False, extra=(), planes=0.0, cls=N
         outs.append(out)
         if os.path.exists(out):
             os.remove(out)
-        rc, err, secs = run_prep(prep, path, out, extra, units=spec.get("units", "mm"))
+        rc, err, secs = run_prep(prep, path, out, list(extra) + spec.get("prep_args", []), units=spec.get("units", "mm"))
         rec = {"seed": seed, "mode": mode, "prep": prep, "rc": rc, "seconds": secs, "file": path, "output": out}
         rec["well"] = good_pts >= 300 and sm["sigma"] <= 0.5 and sm["graze"] == 0
         rec["good_points"] = good_pts

@@ -39,13 +39,14 @@ func main() {
 	records := flag.String("records", "", "file to write every case's record into, one JSON object a line (for analyses of the tails)")
 	category := flag.String("category", "", "run only cases of this category (one of "+strings.Join(scangen.Categories(), ", ")+"): the first N seeds from -seed on that draw it")
 	hazard := flag.String("hazard", "", "run only cases that carry this measurement hazard (as the breakdown names it, e.g. \"outlier clusters up to 8\"): the first N seeds from -seed on that draw it")
+	fixture := flag.Bool("fixture", false, "add to every case a fixture's face measured with the part (3–12 points 0.01–0.15 chord off it, below or beyond an edge), drawn apart so the case is otherwise the plain one of its seed")
 	flag.Parse()
 	if flag.NArg() > 0 || *n <= 0 {
 		flag.Usage()
 		os.Exit(2)
 	}
 	if *one != 0 {
-		os.Exit(runOne(*one))
+		os.Exit(runOne(*one, *fixture))
 	}
 	seeds, err := pickSeeds(*seed, *n, *category, *hazard)
 	if err != nil {
@@ -58,7 +59,7 @@ func main() {
 			os.Exit(2)
 		}
 	}
-	opts := campaign.Options{Workers: *workers, Every: 200}
+	opts := campaign.Options{Workers: *workers, Every: 200, Fixture: *fixture}
 	if !*quiet {
 		opts.Progress = os.Stderr
 	}
@@ -138,8 +139,12 @@ func wellSeeds(seeds []uint64) ([]uint64, error) {
 }
 
 // runOne runs one case and prints its spec, truth frame and record.
-func runOne(seed uint64) int {
-	c, err := campaign.NewCase(seed)
+func runOne(seed uint64, fixture bool) int {
+	newCase := campaign.NewCase
+	if fixture {
+		newCase = campaign.NewFixtureCase
+	}
+	c, err := newCase(seed)
 	if err != nil {
 		fmt.Fprintln(os.Stderr, "campaign:", err)
 		return 2

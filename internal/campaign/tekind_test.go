@@ -1,0 +1,38 @@
+package campaign
+
+import "testing"
+
+// TestSharpCornerOverUnsampledBase runs cases whose sharp trailing edge
+// (the truth is the generator's, internal/scangen: NACA Report 824
+// equations, invented noise and spacing) was stated blunt at the start of
+// stop 23 through a base no point lies on, although the surfaces, carried
+// on, meet within a spacing of the last points and 0.005 c of them:
+//
+//   - 138: 192 points, the fits cross short of the points (a thin edge);
+//   - 284: 340 evenly spaced points, the same;
+//   - 499: 507 points, σ 0.7, the corner 0.004 c beyond the last points.
+//
+// And a blunt edge that must stay blunt: 2306 (88 points, a base 0.0017 c
+// thick no point lies on), whose surfaces meet 0.020 c beyond it, a
+// corner beyond what the points bound (edgeGuess), which took the chord's
+// bound from 6 % to 13 % when it was stated.
+func TestSharpCornerOverUnsampledBase(t *testing.T) {
+	for _, tc := range []struct {
+		seed uint64
+		want string
+	}{{138, "sharp"}, {284, "sharp"}, {499, "sharp"}, {2306, "blunt"}} {
+		r, _, ok := runStated(t, tc.seed)
+		if !ok {
+			continue
+		}
+		if r.Truth.TEKind != tc.want {
+			t.Fatalf("case %d: the generator's edge is %s now, not %s: pick another case", tc.seed, r.Truth.TEKind, tc.want)
+		}
+		if r.TEGot != tc.want {
+			t.Errorf("case %d: trailing edge stated %s, want %s", tc.seed, r.TEGot, tc.want)
+		}
+		if r.Wrong != "" {
+			t.Errorf("case %d: wrong beyond its stated uncertainty (%s)", tc.seed, r.Wrong)
+		}
+	}
+}
