@@ -30,6 +30,18 @@ func (p Point) Norm() float64 { return math.Hypot(p.X, p.Y) }
 // Dist returns the distance between p and q.
 func (p Point) Dist(q Point) float64 { return math.Hypot(p.X-q.X, p.Y-q.Y) }
 
+// SegmentFoot returns the point of the segment from a to b nearest to p (a
+// when the segment has no length).
+func SegmentFoot(p, a, b Point) Point {
+	d := b.Sub(a)
+	l2 := d.Dot(d)
+	if l2 == 0 {
+		return a
+	}
+	t := min(1, max(0, p.Sub(a).Dot(d)/l2))
+	return a.Add(d.Scale(t))
+}
+
 // Rotate returns p rotated counter-clockwise by angle (radians) about the origin.
 func (p Point) Rotate(angle float64) Point {
 	s, c := math.Sincos(angle)

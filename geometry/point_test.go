@@ -27,3 +27,21 @@ func TestMajorAxis(t *testing.T) {
 		t.Errorf("cross: centroid %v axis %v, want (5, 7) and ±(0, 1)", c, d)
 	}
 }
+
+// SegmentFoot: the foot inside the segment is the perpendicular's, beyond
+// either end the end itself, and a segment of no length is its point.
+func TestSegmentFoot(t *testing.T) {
+	a, b := Point{1, 1}, Point{5, 1}
+	for _, tc := range []struct{ p, want Point }{
+		{Point{3, 4}, Point{3, 1}},
+		{Point{-2, 0}, a},
+		{Point{9, -3}, b},
+	} {
+		if got := SegmentFoot(tc.p, a, b); got.Dist(tc.want) > 1e-15 {
+			t.Errorf("SegmentFoot(%v) = %v, want %v", tc.p, got, tc.want)
+		}
+	}
+	if got := SegmentFoot(Point{7, 7}, a, a); got != a {
+		t.Errorf("foot on a point segment %v, want %v", got, a)
+	}
+}

@@ -180,19 +180,8 @@ func distToPolyline(p geometry.Point, pts []geometry.Point, f func(geometry.Poin
 	prev := f(pts[len(pts)-1])
 	for _, q := range pts {
 		cur := f(q)
-		best = math.Min(best, segmentDist(p, prev, cur))
+		best = math.Min(best, p.Dist(geometry.SegmentFoot(p, prev, cur)))
 		prev = cur
 	}
 	return best
-}
-
-// segmentDist returns the distance from p to the segment ab.
-func segmentDist(p, a, b geometry.Point) float64 {
-	ab := b.Sub(a)
-	l2 := ab.Dot(ab)
-	if l2 == 0 {
-		return p.Dist(a)
-	}
-	u := math.Max(0, math.Min(1, p.Sub(a).Dot(ab)/l2))
-	return p.Dist(a.Add(ab.Scale(u)))
 }

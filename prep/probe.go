@@ -3,7 +3,6 @@ package prep
 import (
 	"errors"
 	"fmt"
-	"math"
 
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/curve"
@@ -116,7 +115,7 @@ func (cl *Cleaned) retargeted(q *Preparation, prev *geometry.Cloud, r float64) *
 		if s, ok := feet[o]; ok {
 			foot = cv.At(s)
 			if onBase[o] {
-				foot = segmentFoot(centre, a, b)
+				foot = geometry.SegmentFoot(centre, a, b)
 			}
 		} else {
 			// A point q left out (an outlier there, or a merged
@@ -125,7 +124,7 @@ func (cl *Cleaned) retargeted(q *Preparation, prev *geometry.Cloud, r float64) *
 			// are still nearest to its end, and come back beyond it.
 			s, d := cv.Project(centre)
 			foot = cv.At(s)
-			if f := segmentFoot(centre, a, b); a != b && f.Dist(centre) < d {
+			if f := geometry.SegmentFoot(centre, a, b); a != b && f.Dist(centre) < d {
 				foot = f
 			}
 		}
@@ -139,17 +138,6 @@ func (cl *Cleaned) retargeted(q *Preparation, prev *geometry.Cloud, r float64) *
 	alt.cloud = &moved
 	alt.Contour, alt.Clean, alt.alongFit = nil, nil, false
 	return &alt
-}
-
-// segmentFoot returns the point of the segment ab nearest to p.
-func segmentFoot(p, a, b geometry.Point) geometry.Point {
-	ab := b.Sub(a)
-	l2 := ab.Dot(ab)
-	if l2 == 0 {
-		return a
-	}
-	u := math.Max(0, math.Min(1, p.Sub(a).Dot(ab)/l2))
-	return a.Add(ab.Scale(u))
 }
 
 // compensate fits the path of the ball's centre, the cleaned points cl, by

@@ -99,15 +99,7 @@ func Deviation(p geometry.Path, ss []float64) (dev float64, panel int) {
 }
 
 // segmentDistance returns the distance from q to the segment from a to b.
-func segmentDistance(q, a, b geometry.Point) float64 {
-	d := b.Sub(a)
-	l2 := d.Dot(d)
-	if l2 == 0 {
-		return q.Dist(a)
-	}
-	t := math.Max(0, math.Min(1, q.Sub(a).Dot(d)/l2))
-	return q.Dist(a.Add(d.Scale(t)))
-}
+func segmentDistance(q, a, b geometry.Point) float64 { return q.Dist(geometry.SegmentFoot(q, a, b)) }
 
 // Count returns the smallest panel count n in [lo, hi] whose deviation
 // dev(n) is at most tol, and that deviation. The deviation of a smooth

@@ -178,15 +178,7 @@ func surfaceMiss(q quadFit, xEnd float64, p geometry.Point) float64 {
 }
 
 // segmentDist returns the distance of p from the segment a–b.
-func segmentDist(p, a, b geometry.Point) float64 {
-	d := b.Sub(a)
-	l2 := d.Dot(d)
-	if l2 == 0 {
-		return p.Dist(a)
-	}
-	t := min(1, max(0, p.Sub(a).Dot(d)/l2))
-	return p.Dist(a.Add(d.Scale(t)))
-}
+func segmentDist(p, a, b geometry.Point) float64 { return p.Dist(geometry.SegmentFoot(p, a, b)) }
 
 // miss returns the distance of p from the model: from the nearer surface
 // and from the piece that joins them, and which it is nearest to: −1 the
