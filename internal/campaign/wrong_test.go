@@ -168,3 +168,26 @@ func TestEndForEndRefused(t *testing.T) {
 // and every replica with it; the chord came out 4.0 % short against a
 // bound of 1.1 %. The bound must reach where the surfaces run on to.
 func TestUnsampledRoundedEndChordBound(t *testing.T) { chordBoundHolds(t, 2851, 0.08) }
+
+// TestRoundedTipApexKept runs cases whose rounded trailing edge (radius
+// 0.9 % and 0.7 % of the chord; internal/scangen: modified NACA 4-digit
+// sections by Abbott and von Doenhoff's equations, invented noise and
+// spacing) lost its apex to the apex test: the end model had taken the
+// tip's other points for outliers, and the apex, reached in a spike among
+// them, passed for a fixture's point on a face they made (in 1455 with a
+// probe slip lined up with the apex and one tip point). The chord came out
+// 1.3 % (1455) and 0.9 % (5569) short against bounds of 0.8 % and 0.5 %.
+// The tip's points lie between the loop and the line through the apex: no
+// fixture's face, so the apex stays and the chord is right within its
+// bound.
+func TestRoundedTipApexKept(t *testing.T) {
+	for _, seed := range []uint64{1455, 5569} {
+		r, _, ok := runStated(t, seed)
+		if !ok {
+			continue
+		}
+		if r.Wrong != "" || r.ChordErr > 0.005 {
+			t.Errorf("case %d: chord off %.4f (wrong: %q), stated chord %.4g", seed, r.ChordErr, r.Wrong, r.Stated.Chord)
+		}
+	}
+}
