@@ -90,6 +90,7 @@ func ReadAndClean(files []File, s Settings) (*Cleaned, error) {
 		return nil, err
 	}
 	out := &Cleaned{}
+	var all geometry.Cloud
 	for _, f := range files {
 		c, err := pointfile.Read(bytes.NewReader(f.Data), f.Path, ro)
 		if err != nil {
@@ -98,8 +99,8 @@ func ReadAndClean(files []File, s Settings) (*Cleaned, error) {
 		if c.Units == "" {
 			return nil, fmt.Errorf("%s: %w", f.Path, ErrNoUnits)
 		}
-		if len(out.Clouds) > 0 && c.Units != out.Clouds[0].Units {
-			return nil, fmt.Errorf("%s: units %s differ from %s of %s", f.Path, c.Units, out.Clouds[0].Units, out.Files[0])
+		if all.Units != "" && c.Units != all.Units {
+			return nil, fmt.Errorf("%s: units %s differ from %s of %s", f.Path, c.Units, all.Units, out.Files[0])
 		}
 		out.Clouds = append(out.Clouds, c)
 		sum := f.SHA256
@@ -108,15 +109,11 @@ func ReadAndClean(files []File, s Settings) (*Cleaned, error) {
 		}
 		out.Files = append(out.Files, f.Path)
 		out.SHA256 = append(out.SHA256, sum)
+		mergeCloud(&all, c)
 	}
-	// One file's cloud is used as it is; several are merged (a copy).
-	cloud := out.Clouds[0]
-	if len(out.Clouds) > 1 {
-		var all geometry.Cloud
-		for _, c := range out.Clouds {
-			mergeCloud(&all, c)
-		}
-		cloud = &all
+	cloud := &all
+	if len(out.Clouds) == 1 {
+		cloud = out.Clouds[0]
 	}
 	out.Read, out.Units = cloud.Len(), cloud.Units
 	where := strings.Join(out.Files, ", ")
