@@ -329,13 +329,16 @@ func (p *Pending) estimate(nz *frame.Normalized) Uncertainty {
 	// other, the corner the fit made, where the part's edge may lie as
 	// well. The chord may be longer by the distance between the two; the
 	// leading edge, the twist and the outline normalised to that corner
-	// off by what untangledShift measures.
+	// off by what untangledShift measures. The outline's term moves it as
+	// a whole (a turn and a scale about the leading edge), not its shape:
+	// it joins the surface's bound after the shape's is taken.
+	var untangledSurface float64
 	if nz.Untangled > 0 && nz.Frame.Chord > 0 {
 		u.Chord += nz.Untangled
 		dl, dt, ds := untangledShift(cv, nz.Frame, ref.poly)
 		u.LE += dl
 		u.TwistDeg += dt
-		u.Surface += ds
+		untangledSurface = ds
 	}
 	// A nose sampled too sparsely (the one Gaps warns of) leaves the
 	// leading edge where the curve guesses it between the points round
@@ -354,6 +357,7 @@ func (p *Pending) estimate(nz *frame.Normalized) Uncertainty {
 	// is placed by its leading edge, the nose of the outline may lie
 	// that far (in chords) from the part's.
 	u.Shape = u.Surface
+	u.Surface += untangledSurface
 	if a, b, ok := noseStretch(rep, cv, nz); ok && nz.Frame.Chord > 0 {
 		L := cv.Length()
 		at := func(t float64) geometry.Point {
