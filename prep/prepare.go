@@ -243,6 +243,13 @@ func prepareCleaned(name string, cl *Cleaned, s Settings) (*Preparation, error) 
 	if p := cl.strictOutliers(name, s, ge, &tried); p != nil {
 		return p, nil
 	}
+	if alt := cl.retakenPointwise(s); alt != nil {
+		tried = append(tried, "the points retaken one by one along the fitted outline")
+		if p, err := finishChain(name, alt, s, true); err == nil && !beyondInRuns(p.Fit) {
+			p.Section.Warnings = append(p.Section.Warnings, fmt.Sprintf("the %s order of the points failed the check %q (%s); the points retaken in the order of the outline fitted to them, its folds cut out, passed", cl.Clean.Strategy, ge.Gate, ge.Seen))
+			return p, nil
+		}
+	}
 	ge.Tried = tried
 	return nil, fmt.Errorf("%s: %w", strings.Join(cl.Files, ", "), ge)
 }
@@ -414,7 +421,9 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 // retaken returns a copy of cl whose contour holds the same points in
 // the order of their feet on the outline fitted to them, with every loop
 // of that outline cut out (reorder.go), nil when no outline could be
-// fitted and repanelled to order them by.
+// fitted and repanelled to order them by, or when the points were not
+// ordered as a band (their positions along the loop measured on a
+// curve, Contour.Along): those pointwise retakenPointwise takes.
 func (cl *Cleaned) retaken(s Settings) *Cleaned {
 	if cl.Contour.Along == nil {
 		// Points taken one by one in the wrong order are no band whose
@@ -423,6 +432,29 @@ func (cl *Cleaned) retaken(s Settings) *Cleaned {
 		// section, which a retaken order keeps as a bulge.
 		return nil
 	}
+	return cl.retake(s)
+}
+
+// retakenPointwise is retaken for points ordered one by one (no
+// Contour.Along), nil for a band. Where the noise is as large as the
+// spacing (a scan crowded at a thin nose), the order linked point to
+// point zigzags along the surface and the fit follows the zigzag into
+// folds; the outline fitted to the points, its folds cut out, orders
+// them by their feet. Prepare tries it last, after the stricter outlier
+// threshold, so that points off the section are dropped first where
+// they can be, and, as for a band, a fit that then leaves a run of points
+// beyond its tolerance (beyondInRuns, a bulge the retaken order kept)
+// does not pass.
+func (cl *Cleaned) retakenPointwise(s Settings) *Cleaned {
+	if cl.Contour.Along != nil {
+		return nil
+	}
+	return cl.retake(s)
+}
+
+// retake returns a copy of cl retaken in the order of the outline fitted
+// to its points (retaken), nil when none could be fitted and repanelled.
+func (cl *Cleaned) retake(s Settings) *Cleaned {
 	p := &Preparation{Clouds: cl.Clouds, Flatness: cl.Flatness, Clean: cl.Clean, Contour: cl.Contour}
 	if p.fit(cl, s, true) != nil {
 		return nil
