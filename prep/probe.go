@@ -20,6 +20,18 @@ import (
 // comes back to its corner, and a nose of radius ρ, traced at ρ + r,
 // comes back to ρ.
 
+// probeEndSpare is how far, in ball radii, the zone about the trailing
+// edge whose points the cleaning of the ball's centres leaves to the
+// end's models reaches beyond its own (clean.Options.EndSpare): the
+// path's arc round the end, or round a base's corners, lies within a
+// radius of the part's end and turns up to half a turn at the ball's
+// radius or more, and a local fit across the few centres a coarse step
+// leaves there calls them outliers (the independent check's ball class,
+// seeds 5 and 124: the centres round a rounded end dropped, the end read
+// blunt, the chord 0.2-0.7 mm short). Only the centres: the points moved
+// from them are cleaned as any others.
+const probeEndSpare = 2.0
+
 // ErrProbeRadius reports a probe radius the settings cannot take.
 var ErrProbeRadius = errors.New("probe radius")
 
@@ -85,7 +97,7 @@ func (cl *Cleaned) compensated(cv *curve.Curve, fit *curve.FitReport, r float64)
 	}
 	alt := *cl
 	alt.cloud = &moved
-	alt.Contour, alt.Clean, alt.alongFit = nil, nil, false
+	alt.Contour, alt.Clean, alt.alongFit, alt.moved = nil, nil, false, true
 	return &alt, tight
 }
 
@@ -137,7 +149,7 @@ func (cl *Cleaned) retargeted(q *Preparation, prev *geometry.Cloud, r float64) *
 	}
 	alt := *cl
 	alt.cloud = &moved
-	alt.Contour, alt.Clean, alt.alongFit = nil, nil, false
+	alt.Contour, alt.Clean, alt.alongFit, alt.moved = nil, nil, false, true
 	return &alt
 }
 
