@@ -76,6 +76,7 @@ type Cleaned struct {
 	cloud    *geometry.Cloud // the planar cloud cleaned
 	alongFit bool            // the contour was retaken in the order of a fitted outline
 	strict   bool            // cleaned at strictSigma, the last way Prepare tries
+	moved    bool            // the points are ball centres moved toward the part (probe.go)
 }
 
 // ReadAndClean runs the first half of the geometry chain on the files of
@@ -155,6 +156,13 @@ func (c *Cleaned) clean(s Settings, order string) error {
 	}
 	if s.Loop != nil {
 		co.Loop = *s.Loop
+	}
+	if r, err := probeRadius(s, c.Units); err == nil && r > 0 && !c.moved {
+		// ball centres: the path rounds the end and a base's corners
+		// at the radius or more (probe.go)
+		// ball centres, and the points moved from them: the path rounds
+		// the end and a base's corners at the radius or more (probe.go)
+		co.EndSpare = probeEndSpare * r
 	}
 	contour, rep, err := clean.Clean(c.cloud, co)
 	if err != nil {

@@ -595,8 +595,10 @@ func respared(pts []geometry.Point, seq []int32, exempt []bool, r []float64, lf 
 // none of whose nearest neighbours is on the loop seq is a stray. Otherwise
 // its residual is its distance from the loop's polyline next to its nearest
 // loop neighbour: beyond thr it is an outlier (put in only if keep), and
-// within thr it is put back into the loop where it projects.
-func placeRest(pts []geometry.Point, seq []int32, rest [][]int32, nb *nbrs, thr, scale float64, keep bool) ([]int32, []hit) {
+// within thr it is put back into the loop where it projects. A point
+// marked in spared (by point index; nil for none) is put back at any
+// distance: the end zone of a probe ball's path (Options.EndSpare).
+func placeRest(pts []geometry.Point, seq []int32, rest [][]int32, nb *nbrs, thr, scale float64, keep bool, spared []bool) ([]int32, []hit) {
 	if len(rest) == 0 {
 		return seq, nil
 	}
@@ -641,7 +643,7 @@ func placeRest(pts []geometry.Point, seq []int32, rest [][]int32, nb *nbrs, thr,
 					best, at, bt = d, e, t
 				}
 			}
-			if best > thr {
+			if best > thr && (spared == nil || !spared[i]) {
 				sg := 0.0
 				if scale > 0 {
 					sg = best / scale
