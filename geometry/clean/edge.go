@@ -918,24 +918,22 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 		if j >= edgeBases {
 			xb = xmax + 2*pstep*float64(j-edgeBases+1)/float64(edgeBases/2)
 		}
-		for _, tilt := range []bool{false, true} {
-			lo, hi, ok := baseAt(u, l, xb, tilt)
-			if !ok || tilt && math.Abs(hi.X-xb)+math.Abs(lo.X-xb) < scat {
-				continue // no base there, or none tilted apart from the square one
-			}
-			m := endModel{kind: EdgeBlunt, xu: hi.X, xl: lo.X, lo: lo, hi: hi, extra: pen}
-			if cs := max(2*scat, snapTol(scat, step)); !sampled(z, hi, cs) || !sampled(z, lo, cs) {
-				// A corner no point sampled: the surfaces' last points end
-				// at the same station by chance, as short of a sharp corner.
-				lastU, lastL := m.lastOnSurfaces(u, l, z, cs, xmax-edgeZone)
-				m.extra += coincidence(math.Abs(lastU-lastL)+scat, pstep)
-			}
-			m.extra += gapDeviance(m.path(u, l, xa), pstep)
-			m.scoreOf(u, l, z, scat, zs)
-			cands = append(cands, m)
-			if bestB == nil || m.score < bestB.score {
-				bestB = &m
-			}
+		lo, hi := geometry.Point{X: xb, Y: l.at(xb)}, geometry.Point{X: xb, Y: u.at(xb)}
+		if hi.Y <= lo.Y {
+			continue
+		}
+		m := endModel{kind: EdgeBlunt, xu: xb, xl: xb, lo: lo, hi: hi, extra: pen}
+		if cs := max(2*scat, snapTol(scat, step)); !sampled(z, hi, cs) || !sampled(z, lo, cs) {
+			// A corner no point sampled: the surfaces' last points end
+			// at the same station by chance, as short of a sharp corner.
+			lastU, lastL := m.lastOnSurfaces(u, l, z, cs, xmax-edgeZone)
+			m.extra += coincidence(math.Abs(lastU-lastL)+scat, pstep)
+		}
+		m.extra += gapDeviance(m.path(u, l, xa), pstep)
+		m.scoreOf(u, l, z, scat, zs)
+		cands = append(cands, m)
+		if bestB == nil || m.score < bestB.score {
+			bestB = &m
 		}
 	}
 	if bestB != nil {
@@ -1671,33 +1669,6 @@ func fitScatter(xs, ys []float64, idx []int) (quadFit, float64) {
 		res = append(res, math.Abs(ys[k]-q.at(xs[k])))
 	}
 	return q, 1.4826 * median(res)
-}
-
-// baseAt returns the corners (lower, upper) of a blunt end whose base
-// crosses the middle between the surfaces u and l at the station xb:
-// square across the chord, or (tilt) square to the surfaces' mean
-// direction there, as a base cut square to the mean line is (the open
-// edge of a NACA 4-digit section is: its surfaces end on the normals to
-// the camber line, NACA Report 824's construction). ok is false when the
-// surfaces do not lie apart there.
-func baseAt(u, l quadFit, xb float64, tilt bool) (lo, hi geometry.Point, ok bool) {
-	yc := (u.at(xb) + l.at(xb)) / 2
-	// The base: (x − xb) + sm (y − yc) = 0, sm the mean slope (0: square
-	// across the chord); each corner where a surface meets it, found by
-	// fixed-point iteration (|sm| is small near an edge).
-	sm := 0.0
-	if tilt {
-		sm = (u.c[1] + l.c[1] + 2*(u.c[2]+l.c[2])*xb) / 2
-	}
-	meet := func(q quadFit) geometry.Point {
-		x := xb
-		for range 8 {
-			x = xb - sm*(q.at(x)-yc)
-		}
-		return geometry.Point{X: x, Y: q.at(x)}
-	}
-	lo, hi = meet(l), meet(u)
-	return lo, hi, hi.Y > lo.Y && math.Abs(sm) < 1
 }
 
 // lastOnSurfaces returns the stations of the last points of the upper
