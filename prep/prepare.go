@@ -350,6 +350,9 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 	if err != nil {
 		return nil, err
 	}
+	// The ends of a base the points show are a blunt edge's, whichever
+	// way the base leans.
+	eo.Base = useEdge && cl.Clean.Edge != nil && cl.Clean.Edge.Kind == clean.EdgeBlunt
 	// The section's uncertainty (its replicas refitted and normalised)
 	// needs only the curve and the fit for its fits, which a second core
 	// begins while this one normalises the section; the shape for the

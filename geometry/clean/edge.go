@@ -926,8 +926,8 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 		if cs := max(2*scat, snapTol(scat, step)); !sampled(z, hi, cs) || !sampled(z, lo, cs) {
 			// A corner no point sampled: the surfaces' last points end
 			// at the same station by chance, as short of a sharp corner.
-			lastU, lastL := lastOn(z, u, l, xb+cs)
-			m.extra += coincidence(math.Abs(lastU.X-lastL.X)+scat, pstep)
+			lastU, lastL := m.lastOnSurfaces(u, l, z, cs, xmax-edgeZone)
+			m.extra += coincidence(math.Abs(lastU-lastL)+scat, pstep)
 		}
 		m.extra += gapDeviance(m.path(u, l, xa), pstep)
 		m.scoreOf(u, l, z, scat, zs)
@@ -1269,6 +1269,13 @@ func roundBest(u, l quadFit, z []geometry.Point, zs []float64, xmax, xa, step, p
 			return m, false
 		}
 		m.extra = pen + gapDeviance(m.path(u, l, xa), pstep)
+		if cs := max(2*scat, snapTol(scat, step)); !sampled(z, m.tu, cs) || !sampled(z, m.tl, cs) {
+			// Where the arc meets a surface no point sampled: the
+			// surfaces' last points end at the same station by chance,
+			// as short of a base's corners (chooseEnd).
+			lastU, lastL := m.lastOnSurfaces(u, l, z, cs, xmax-edgeZone)
+			m.extra += coincidence(math.Abs(lastU-lastL)+scat, pstep)
+		}
 		m.scoreOf(u, l, z, scat, zs)
 		return m, true
 	}
@@ -1662,6 +1669,26 @@ func fitScatter(xs, ys []float64, idx []int) (quadFit, float64) {
 		res = append(res, math.Abs(ys[k]-q.at(xs[k])))
 	}
 	return q, 1.4826 * median(res)
+}
+
+// lastOnSurfaces returns the stations of the last points of the upper
+// and the lower surface, as the model m places the zone points z (a point
+// within tol of a surface counting as the surface's, see side): a point
+// on the piece that joins the surfaces (a base point) is no surface's
+// last point, and a surface that no zone point lies on ends short of the
+// zone, at fore at most (the end zone's foremost station), not at the
+// end the model puts it at.
+func (m *endModel) lastOnSurfaces(u, l quadFit, z []geometry.Point, tol, fore float64) (xu, xl float64) {
+	xu, xl = fore, fore
+	for _, p := range z {
+		switch m.side(u, l, p, tol) {
+		case 1:
+			xu = max(xu, p.X)
+		case -1:
+			xl = max(xl, p.X)
+		}
+	}
+	return xu, xl
 }
 
 // lastOn returns the zone points nearest the edge (before x) that lie
