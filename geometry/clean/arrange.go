@@ -425,14 +425,6 @@ func (cl *cleaning) bySection(opts Options, sigma float64) *attempt {
 			f = g
 			seq, sc = sectionOrder(pts, sel, f, ws)
 		}
-		if edgeTrace != nil {
-			edgeTrace("section pass %d le %v te %v", pass, f.le, f.te)
-			for k, i := range seq {
-				if x, y := f.at(pts[i]); x > 0.94 && x < 0.99 {
-					edgeTrace("   pos %d x %.5f y %.5f region %d", k, x, y, sc.region[i])
-				}
-			}
-		}
 		a = cl.evaluate(OrderSection, [][]int32{seq}, rest, opts, sigma, localFits{sc: sc, chord: f.chord}, true)
 		if a.err != nil {
 			break
