@@ -669,7 +669,7 @@ func Fit(c *geometry.Contour, opts FitOptions) (*Curve, *FitReport, error) {
 
 // rebuildEnds rebuilds the trailing-edge corners of a smoothed open fit
 // (corner.go): the sharp corner where the branches meet, or each corner of
-// a blunt edge where its branch meets the base line (newEndRebuild).
+// a blunt edge where its branch meets the line through the base points.
 // An open end without base points (a gap) is left where the fit put it.
 func rebuildEnds(cv *Curve, e endRebuild) *Curve {
 	switch {
@@ -709,29 +709,13 @@ func newEndRebuild(c *geometry.Contour, ends trailingEnds, sharp bool, pts []geo
 		base[k] = c.Points[i]
 	}
 	o, dir := geometry.MajorAxis(base)
-	lever := base
-	if ends.upper != nil && ends.lower != nil {
-		// The base the caller found (FitOptions.Edge): the line through
-		// its corners, where the surfaces, each fitted near the edge, meet
-		// the base that explains the points of the end best. The base
-		// points alone fix no direction when they are few and lie within
-		// a few scatters of one another along the base (two points on a
-		// base a few scatters wide turn the line by any angle, and the
-		// surfaces cut by it end staggered along the chord, an open end
-		// rather than a base); through the corners, the whole width of
-		// the base is the lever.
-		if d := ends.lower.Sub(*ends.upper); d.Norm() > 0 {
-			o, dir = ends.upper.Add(*ends.lower).Scale(0.5), d.Scale(1/d.Norm())
-			lever = append(slices.Clone(base), *ends.upper, *ends.lower)
-		}
-	}
 	e.base, e.o, e.dir = true, o, dir
 	e.nBase = len(ends.base)
-	for _, p := range lever {
-		u := p.Sub(o).Dot(e.dir)
+	for _, i := range ends.base {
+		u := c.Points[i].Sub(o).Dot(e.dir)
 		e.spread += u * u
 	}
-	e.spread = math.Sqrt(e.spread / float64(len(lever)))
+	e.spread = math.Sqrt(e.spread / float64(e.nBase))
 	return e
 }
 
