@@ -11,6 +11,7 @@ import (
 
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/shape"
+	"github.com/foilwright/foilwright/internal/testfoil"
 )
 
 // ballPart is a part's outline in chord units, counter-clockwise, the
@@ -120,23 +121,11 @@ func nacaRounded(n shape.NACA4, r float64, perSurface int) ballPart {
 	// the outline's point farthest from the tip (iterated).
 	tip := c.Add(geometry.Point{X: r})
 	for range 20 {
-		le := farthestFrom(pts, tip)
+		le := testfoil.Farthest(pts, tip)
 		d := c.Sub(le)
 		tip = c.Add(d.Scale(r / d.Norm()))
 	}
 	return ballPart{name: fmt.Sprintf("NACA %s rounded r=%gc", n, r), pts: pts, te: tip, arc: &[2]geometry.Point{c, {X: r}}}
-}
-
-// farthestFrom returns the point of pts farthest from q.
-func farthestFrom(pts []geometry.Point, q geometry.Point) geometry.Point {
-	var best geometry.Point
-	far := -1.0
-	for _, p := range pts {
-		if d := p.Dist(q); d > far {
-			far, best = d, p
-		}
-	}
-	return best
 }
 
 // karmanTrefftzPart returns a Kármán–Trefftz section by its exact
@@ -192,7 +181,7 @@ func TestProbeRadiusCoverage(t *testing.T) {
 			for i, q := range part.pts {
 				outline[i] = toPart(q)
 			}
-			le := farthestFrom(part.pts, part.te)
+			le := testfoil.Farthest(part.pts, part.te)
 			wantChord := chordMM * le.Dist(part.te)
 			dir := toPart(part.te).Sub(toPart(le))
 			wantTwist := -math.Atan2(dir.Y, dir.X) * 180 / math.Pi
