@@ -76,6 +76,7 @@ type Cleaned struct {
 	cloud    *geometry.Cloud // the planar cloud cleaned
 	alongFit bool            // the contour was retaken in the order of a fitted outline
 	strict   bool            // cleaned at strictSigma, the last way Prepare tries
+	moved    bool            // the points are ball centres moved toward the part (probe.go)
 }
 
 // ReadAndClean runs the first half of the geometry chain on the files of
@@ -155,6 +156,13 @@ func (c *Cleaned) clean(s Settings, order string) error {
 	}
 	if s.Loop != nil {
 		co.Loop = *s.Loop
+	}
+	if r, err := probeRadius(s, c.Units); err == nil && r > 0 && !c.moved {
+		// ball centres: the path rounds the end and a base's corners
+		// at the radius or more (probe.go)
+		// ball centres, and the points moved from them: the path rounds
+		// the end and a base's corners at the radius or more (probe.go)
+		co.EndSpare = probeEndSpare * r
 	}
 	contour, rep, err := clean.Clean(c.cloud, co)
 	if err != nil {
@@ -242,6 +250,13 @@ func prepareCleaned(name string, cl *Cleaned, s Settings) (*Preparation, error) 
 	}
 	if p := cl.strictOutliers(name, s, ge, &tried); p != nil {
 		return p, nil
+	}
+	if alt := cl.retakenPointwise(s); alt != nil {
+		tried = append(tried, "the points retaken one by one along the fitted outline")
+		if p, err := finishChain(name, alt, s, true); err == nil && !beyondInRuns(p.Fit) {
+			p.Section.Warnings = append(p.Section.Warnings, fmt.Sprintf("the %s order of the points failed the check %q (%s); the points retaken in the order of the outline fitted to them, its folds cut out, passed", cl.Clean.Strategy, ge.Gate, ge.Seen))
+			return p, nil
+		}
 	}
 	ge.Tried = tried
 	return nil, fmt.Errorf("%s: %w", strings.Join(cl.Files, ", "), ge)
@@ -335,6 +350,9 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 	if err != nil {
 		return nil, err
 	}
+	// The ends of a base the points show are a blunt edge's, whichever
+	// way the base leans.
+	eo.Base = useEdge && cl.Clean.Edge != nil && cl.Clean.Edge.Kind == clean.EdgeBlunt
 	// The section's uncertainty (its replicas refitted and normalised)
 	// needs only the curve and the fit for its fits, which a second core
 	// begins while this one normalises the section; the shape for the
@@ -414,7 +432,9 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 // retaken returns a copy of cl whose contour holds the same points in
 // the order of their feet on the outline fitted to them, with every loop
 // of that outline cut out (reorder.go), nil when no outline could be
-// fitted and repanelled to order them by.
+// fitted and repanelled to order them by, or when the points were not
+// ordered as a band (their positions along the loop measured on a
+// curve, Contour.Along): those pointwise retakenPointwise takes.
 func (cl *Cleaned) retaken(s Settings) *Cleaned {
 	if cl.Contour.Along == nil {
 		// Points taken one by one in the wrong order are no band whose
@@ -423,6 +443,29 @@ func (cl *Cleaned) retaken(s Settings) *Cleaned {
 		// section, which a retaken order keeps as a bulge.
 		return nil
 	}
+	return cl.retake(s)
+}
+
+// retakenPointwise is retaken for points ordered one by one (no
+// Contour.Along), nil for a band. Where the noise is as large as the
+// spacing (a scan crowded at a thin nose), the order linked point to
+// point zigzags along the surface and the fit follows the zigzag into
+// folds; the outline fitted to the points, its folds cut out, orders
+// them by their feet. Prepare tries it last, after the stricter outlier
+// threshold, so that points off the section are dropped first where
+// they can be, and, as for a band, a fit that then leaves a run of points
+// beyond its tolerance (beyondInRuns, a bulge the retaken order kept)
+// does not pass.
+func (cl *Cleaned) retakenPointwise(s Settings) *Cleaned {
+	if cl.Contour.Along != nil {
+		return nil
+	}
+	return cl.retake(s)
+}
+
+// retake returns a copy of cl retaken in the order of the outline fitted
+// to its points (retaken), nil when none could be fitted and repanelled.
+func (cl *Cleaned) retake(s Settings) *Cleaned {
 	p := &Preparation{Clouds: cl.Clouds, Flatness: cl.Flatness, Clean: cl.Clean, Contour: cl.Contour}
 	if p.fit(cl, s, true) != nil {
 		return nil

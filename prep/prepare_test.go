@@ -75,3 +75,42 @@ func TestPrepareNoiseGivenBelowBins(t *testing.T) {
 		t.Errorf("no warning that the noise given was not used; warnings: %q", s.Warnings)
 	}
 }
+
+func TestReadAndCleanTwoFiles(t *testing.T) {
+	// A scan written to two files (its lines split between them) is read
+	// as one cloud: every point, in the order of the files, each with its
+	// own file and line; units that differ between the files are refused.
+	data := testfoil.ScanCSV(2000)
+	lines := strings.SplitAfter(string(data), "\n")
+	head, body := strings.Join(lines[:2], ""), lines[2:]
+	first := head + strings.Join(body[:700], "")
+	second := head + strings.Join(body[700:], "")
+	one, err := ReadAndClean([]File{{Path: "scan.csv", Data: data}}, Settings{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	two, err := ReadAndClean([]File{{Path: "a.csv", Data: []byte(first)}, {Path: "b.csv", Data: []byte(second)}}, Settings{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if two.Read != one.Read || two.Read != 2000 || len(two.Clouds) != 2 || two.Units != geometry.Millimetre {
+		t.Fatalf("read %d points (one file: %d), %d clouds, units %q", two.Read, one.Read, len(two.Clouds), two.Units)
+	}
+	pts := two.cloud.Points
+	for i, p := range one.cloud.Points {
+		if pts[i] != p {
+			t.Fatalf("point %d: %v, want %v as in the one file", i, pts[i], p)
+		}
+	}
+	if o := two.cloud.Origins; o[0] != (geometry.Origin{File: "a.csv", Line: 3}) || o[700] != (geometry.Origin{File: "b.csv", Line: 3}) {
+		t.Errorf("origins %v and %v", o[0], o[700])
+	}
+	if len(two.cloud.Notes) != 4 || two.cloud.Ordered {
+		t.Errorf("notes %v, ordered %v: want both files' comment and header, unordered", two.cloud.Notes, two.cloud.Ordered)
+	}
+	inches := strings.Replace(second, "# units: mm", "# units: in", 1)
+	_, err = ReadAndClean([]File{{Path: "a.csv", Data: []byte(first)}, {Path: "b.csv", Data: []byte(inches)}}, Settings{})
+	if err == nil || err.Error() != "b.csv: units in differ from mm of a.csv" {
+		t.Errorf("error %v, want the units refused", err)
+	}
+}

@@ -3,6 +3,7 @@ package prep
 import (
 	"errors"
 	"fmt"
+	"math"
 
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/geometry/curve"
@@ -18,6 +19,18 @@ import (
 // trailing edge, round which the ball swings on an arc of that radius,
 // comes back to its corner, and a nose of radius ρ, traced at ρ + r,
 // comes back to ρ.
+
+// probeEndSpare is how far, in ball radii, the zone about the trailing
+// edge whose points the cleaning of the ball's centres leaves to the
+// end's models reaches beyond its own (clean.Options.EndSpare): the
+// path's arc round the end, or round a base's corners, lies within a
+// radius of the part's end and turns up to half a turn at the ball's
+// radius or more, and a local fit across the few centres a coarse step
+// leaves there calls them outliers (the independent check's ball class,
+// seeds 5 and 124: the centres round a rounded end dropped, the end read
+// blunt, the chord 0.2-0.7 mm short). Only the centres: the points moved
+// from them are cleaned as any others.
+const probeEndSpare = 2.0
 
 // ErrProbeRadius reports a probe radius the settings cannot take.
 var ErrProbeRadius = errors.New("probe radius")
@@ -84,7 +97,7 @@ func (cl *Cleaned) compensated(cv *curve.Curve, fit *curve.FitReport, r float64)
 	}
 	alt := *cl
 	alt.cloud = &moved
-	alt.Contour, alt.Clean, alt.alongFit = nil, nil, false
+	alt.Contour, alt.Clean, alt.alongFit, alt.moved = nil, nil, false, true
 	return &alt, tight
 }
 
@@ -136,7 +149,7 @@ func (cl *Cleaned) retargeted(q *Preparation, prev *geometry.Cloud, r float64) *
 	}
 	alt := *cl
 	alt.cloud = &moved
-	alt.Contour, alt.Clean, alt.alongFit = nil, nil, false
+	alt.Contour, alt.Clean, alt.alongFit, alt.moved = nil, nil, false, true
 	return &alt
 }
 
@@ -147,8 +160,9 @@ func (cl *Cleaned) retargeted(q *Preparation, prev *geometry.Cloud, r float64) *
 // (compensated), then once more on the points moved r toward their
 // nearest point on that first estimate of the part (retargeted), which
 // puts the centres on a corner's arc back on the corner where the path's
-// normal, smoothed round the arc, had not; and records the radius in the
-// section document.
+// normal, smoothed round the arc, had not; widens the bounds by how far
+// that section, rolled round by the ball, misses the centres
+// (widenForMisfit); and records the radius in the section document.
 func compensate(name string, cl *Cleaned, s Settings, r float64) (*Preparation, error) {
 	where := fmt.Sprintf("the path of the probe ball's centre (radius %s)", LengthText(r, cl.Units))
 	fo, err := fitOptions(cl, s)
@@ -176,6 +190,7 @@ func compensate(name string, cl *Cleaned, s Settings, r float64) (*Preparation, 
 		}
 	}
 	q.Section.Source.ProbeRadius = r
+	widenForMisfit(q, misfitOf(q, cl.Contour, r))
 	if tight > 0 {
 		q.Section.Warnings = append(q.Section.Warnings, fmt.Sprintf("the points bend with a radius of %s, under a quarter of the probe ball's %s, where a ball's centre rounds every corner, and the end, at its own radius or more: check that they are ball centres, not points already compensated, and the radius", LengthText(tight, cl.Units), LengthText(r, cl.Units)))
 	}
@@ -192,4 +207,133 @@ func feetOf(c *geometry.Contour, fit *curve.FitReport) map[geometry.Origin]float
 		}
 	}
 	return feet
+}
+
+// ballMisfit is how far the ball's centres sit from the distance r of a
+// section's outline, beyond what their noise leaves: the error the
+// compensation made where its estimate of the part does not roll the
+// ball back through the centres measured (a centre left out of the
+// section's points, or an end the section ends otherwise than the
+// centres round it). Each centre the cleaning kept has a misfit, its
+// distance from the outline (the fitted curve, and the straight base
+// when open) less r. The excess of a centre is its misfit beyond
+// misfitSigmas of the noise; of a run of misfitRun centres in order, the
+// run's mean misfit beyond misfitSigmas of the mean's noise (a bias that
+// a single centre's noise hides). aft, nose and all are the largest
+// excess, input units, over the centres whose feet lie within endReach
+// of the trailing edge, of the leading edge, and anywhere.
+type ballMisfit struct {
+	aft, nose, all float64
+}
+
+const (
+	misfitRun    = 5
+	misfitSigmas = 4.0
+	endReach     = 0.1
+	// misfitSurface is the coverage factor of the misfit in the surface's
+	// bound: the misfit is the outline's error where a ball touched it,
+	// and the outline between two contacts, which no centre sees, may be
+	// off by more (a corner cut short, the join of a rounded end); set
+	// on the exact ball paths of TestProbeRadiusCoverage and the
+	// independent check's ball class (scripts/indep, --class ballr).
+	misfitSurface = 2.0
+)
+
+// misfitOf returns the misfit of the centres of the contour cl, the
+// cleaned ball centres, against the section q compensated from them
+// with the ball's radius r.
+func misfitOf(q *Preparation, cl *geometry.Contour, r float64) ballMisfit {
+	cv, fr := q.Curve, q.Shape.Frame
+	a, b := cv.End(), cv.Start()
+	n := cl.Len()
+	var m ballMisfit
+	if n < misfitRun {
+		return m
+	}
+	res := make([]float64, 0, n)
+	xs := make([]float64, 0, n)
+	gone := make(map[geometry.Origin]bool)
+	for _, d := range q.Clean.Dropped {
+		gone[d.Origin] = true
+	}
+	sigma := q.Fit.NoiseEstimate
+	last := cv.Pieces() - 1
+	k, u := 0, 0.0
+	for i, c := range cl.Points {
+		if gone[cl.Origins[i]] {
+			continue // an outlier of the section's own cleaning
+		}
+		d := math.Inf(1)
+		if i > 0 {
+			// from the last centre's foot: the centres run in order
+			k, u, d = cv.ProjectFrom(c, k, u)
+		}
+		if k == 0 || k == last || math.Abs(d-r) > misfitSigmas*sigma {
+			// the first, one at an end of an open curve, where the
+			// walk stops, or one the walk may have left on the wrong
+			// surface: the nearest point anywhere
+			s, ds := cv.Project(c)
+			if ds < d {
+				k, u = cv.Locate(s)
+				d = ds
+			}
+		}
+		foot, _, _ := cv.Eval(k, u)
+		if a != b {
+			if f := geometry.SegmentFoot(c, a, b); f.Dist(c) < d {
+				d, foot = f.Dist(c), f
+			}
+		}
+		res = append(res, d-r)
+		xs = append(xs, fr.ToChord(foot).X)
+	}
+	note := func(e, x float64) {
+		if e <= 0 {
+			return
+		}
+		m.all = math.Max(m.all, e)
+		if x > 1-endReach {
+			m.aft = math.Max(m.aft, e)
+		}
+		if x < endReach {
+			m.nose = math.Max(m.nose, e)
+		}
+	}
+	n = len(res)
+	if n < misfitRun {
+		return m
+	}
+	for i := range res {
+		note(math.Abs(res[i])-misfitSigmas*sigma, xs[i])
+		var sum, x float64
+		for j := range misfitRun {
+			k := (i + j) % n
+			sum += res[k]
+			x += xs[k]
+		}
+		note(math.Abs(sum)/misfitRun-misfitSigmas*sigma/math.Sqrt(misfitRun), x/misfitRun)
+	}
+	return m
+}
+
+// widenForMisfit adds the compensation's misfit m to the bounds of q: a
+// centre the section leaves farther or nearer than the ball's radius says
+// the outline there is off by that much along the centre's line to it,
+// so the chord's bound takes in the aft excess (an end placed short or
+// long), the leading edge's the nose's, the twist's the aft excess over
+// the chord, and the surface's the largest anywhere.
+func widenForMisfit(q *Preparation, m ballMisfit) {
+	c := q.Shape.Frame.Chord
+	if !(c > 0) || m == (ballMisfit{}) {
+		return
+	}
+	u := &q.Uncertainty
+	u.Chord += m.aft
+	u.LE += m.nose
+	u.TwistDeg += math.Atan(m.aft/c) * 180 / math.Pi
+	u.Surface += misfitSurface * m.all / c
+	u.Shape += misfitSurface * m.all / c
+	if d := q.Section.Uncertainty; d != nil {
+		d.Chord, d.TwistDeg, d.LE, d.Surface = u.Chord, u.TwistDeg, u.LE, u.Surface
+	}
 }

@@ -3,6 +3,7 @@ package accuracy
 import (
 	"math"
 	"math/rand/v2"
+	"slices"
 	"sync/atomic"
 
 	"github.com/foilwright/foilwright/geometry"
@@ -326,8 +327,19 @@ func (p *Pending) estimate(nz *frame.Normalized) Uncertainty {
 	// the edge where they cross (frame.Normalized.Untangled), and so do
 	// the replicas that cross: they share the reading and do not see the
 	// other, the corner the fit made, where the part's edge may lie as
-	// well. The chord may be longer by the distance between the two.
-	u.Chord += nz.Untangled
+	// well. The chord may be longer by the distance between the two; the
+	// leading edge, the twist and the outline normalised to that corner
+	// off by what untangledShift measures. The outline's term moves it as
+	// a whole (a turn and a scale about the leading edge), not its shape:
+	// it joins the surface's bound after the shape's is taken.
+	var untangledSurface float64
+	if nz.Untangled > 0 && nz.Frame.Chord > 0 {
+		u.Chord += nz.Untangled
+		dl, dt, ds := untangledShift(cv, nz.Frame, ref.poly)
+		u.LE += dl
+		u.TwistDeg += dt
+		untangledSurface = ds
+	}
 	// A nose sampled too sparsely (the one Gaps warns of) leaves the
 	// leading edge where the curve guesses it between the points round
 	// the bend; the true one lies somewhere on the part's nose between
@@ -345,6 +357,7 @@ func (p *Pending) estimate(nz *frame.Normalized) Uncertainty {
 	// is placed by its leading edge, the nose of the outline may lie
 	// that far (in chords) from the part's.
 	u.Shape = u.Surface
+	u.Surface += untangledSurface
 	if a, b, ok := noseStretch(rep, cv, nz); ok && nz.Frame.Chord > 0 {
 		L := cv.Length()
 		at := func(t float64) geometry.Point {
@@ -601,6 +614,101 @@ func unseenCorner(cv *curve.Curve, fr frame.Frame, h float64) (chord, twistDeg f
 		twistDeg = math.Abs(math.Atan2(corner.Y, corner.X)-math.Atan2(mid.Y, mid.X)) * 180 / math.Pi
 	}
 	return chord, twistDeg
+}
+
+// untangledSamples is the number of samples of the fitted curve that
+// untangledShift searches and compares the outline with.
+const untangledSamples = 4000
+
+// untangledWindow is the half-width, in segments of the image, of
+// untangledShift's search round the last nearest segment.
+const untangledWindow = 300
+
+// untangledShift returns what a sharp trailing edge put where its surfaces
+// cross ahead of the fit's corner (frame.Normalized.Untangled) leaves
+// open when the part's edge is the corner, cv.Start(), instead: how far
+// the leading edge (input units) and the twist (degrees) of the corner's
+// frame lie from those of fr, the crossing's, and the largest distance
+// (chord units) of the outline poly, normalised by fr, from the whole
+// fitted curve cv normalised by the corner's frame. The corner's leading
+// edge is fr's moved as the curve point farthest from the trailing edge
+// moves from the crossing to the corner (the convention's leading edge).
+func untangledShift(cv *curve.Curve, fr frame.Frame, poly []geometry.Point) (le, twistDeg, surface float64) {
+	corner, te := cv.Start(), fr.ToPart(geometry.Point{X: 1})
+	L := cv.Length()
+	if !(L > 0) || len(poly) == 0 {
+		return 0, 0, 0
+	}
+	lep := geometry.Point{X: fr.LE[0], Y: fr.LE[1]}.Add(farthestOn(cv, corner).Sub(farthestOn(cv, te)))
+	v := corner.Sub(lep)
+	if fr.Mirrored {
+		v.X = -v.X
+	}
+	c := math.Hypot(v.X, v.Y)
+	if !(c > 0) {
+		return 0, 0, 0
+	}
+	cf := frame.Frame{Chord: c, TwistDeg: -math.Atan2(v.Y, v.X) * 180 / math.Pi, LE: [2]float64{lep.X, lep.Y}, Mirrored: fr.Mirrored}
+	le = lep.Dist(geometry.Point{X: fr.LE[0], Y: fr.LE[1]})
+	twistDeg = math.Abs(math.Remainder(cf.TwistDeg-fr.TwistDeg, 360))
+	img := make([]geometry.Point, untangledSamples+1)
+	for k := range img {
+		// Cosine spacing crowds the samples at the corner (both ends).
+		img[k] = cf.ToChord(cv.At(L * (1 - math.Cos(math.Pi*float64(k)/untangledSamples)) / 2))
+	}
+	// Both run from the trailing edge round the nose and back, the image
+	// the other way round when the point a quarter along poly (mid upper
+	// surface) lies nearest to its second half; each point's nearest
+	// segment is sought within untangledWindow of the last one's (the
+	// image runs on beyond the crossing by fewer samples).
+	mid, far := poly[len(poly)/4], 0
+	best := math.Inf(1)
+	for j := 0; j+1 < len(img); j++ {
+		if d := segDist2(mid, img[j], img[j+1]); d < best {
+			best, far = d, j
+		}
+	}
+	if far > len(img)/2 {
+		slices.Reverse(img)
+	}
+	var worst2 float64
+	at := 0
+	for _, q := range poly {
+		lo, hi := max(0, at-untangledWindow), min(len(img)-1, at+untangledWindow)
+		best := math.Inf(1)
+		for j := lo; j < hi; j++ {
+			if d := segDist2(q, img[j], img[j+1]); d < best {
+				best, at = d, j
+			}
+		}
+		worst2 = max(worst2, best)
+	}
+	return le, twistDeg, math.Sqrt(worst2)
+}
+
+// farthestOn returns the point of cv farthest from p: the best of
+// untangledSamples even samples, refined over the steps either side.
+func farthestOn(cv *curve.Curve, p geometry.Point) geometry.Point {
+	L := cv.Length()
+	step := L / untangledSamples
+	best, bd := cv.Start(), -1.0
+	var bs float64
+	for k := 0; k <= untangledSamples; k++ {
+		if q := cv.At(float64(k) * step); q.Dist(p) > bd {
+			best, bd, bs = q, q.Dist(p), float64(k)*step
+		}
+	}
+	const fine = 200
+	for k := -fine; k <= fine; k++ {
+		s := bs + step*float64(k)/fine
+		if s < 0 || s > L {
+			continue
+		}
+		if q := cv.At(s); q.Dist(p) > bd {
+			best, bd = q, q.Dist(p)
+		}
+	}
+	return best
 }
 
 // cornerFactor is the coverage factor of cornerAlong, set from the

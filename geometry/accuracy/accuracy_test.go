@@ -513,3 +513,79 @@ func TestBeginStop(t *testing.T) {
 	q.Stop()
 	<-q.done
 }
+
+func TestEstimateUntangledEdge(t *testing.T) {
+	// A thin cambered sharp edge whose surfaces cross ahead of the corner
+	// (a noisy scan of such an edge does this): the section ends where
+	// they cross (frame.Normalize), and its bounds must cover the part
+	// whose edge is the corner. The outline is made so (calculated by
+	// hand): mean line m(x) = mc x (1 − x), half thickness h(x) =
+	// 0.3 √x (1 − x)(xc − x), surfaces m ± h, crossing at x = xc and
+	// meeting at the corner (1, 0). The true frame has its trailing edge
+	// at the corner and its leading edge at the outline's point farthest
+	// from it (the tool's convention). Exact points: the replicas add
+	// nothing, so only the edge's own term can cover the crossing's
+	// twist (m(xc) seen from the nose, up to 0.18°) and the outline's tilt.
+	for _, tc := range []struct{ mc, xc float64 }{{0, 0.97}, {0.1, 0.985}, {0.1, 0.97}} {
+		mc, xc := tc.mc, tc.xc
+		m := func(x float64) float64 { return mc * x * (1 - x) }
+		h := func(x float64) float64 { return 0.3 * math.Sqrt(x) * (1 - x) * (xc - x) }
+		const n = 300
+		var loop []geometry.Point
+		for k := 0; k <= n; k++ { // trailing edge over the upper surface to the nose
+			x := (1 + math.Cos(math.Pi*float64(k)/n)) / 2
+			loop = append(loop, geometry.Point{X: x, Y: m(x) + h(x)})
+		}
+		for k := n - 1; k >= 0; k-- { // and back along the lower one
+			x := (1 + math.Cos(math.Pi*float64(k)/n)) / 2
+			loop = append(loop, geometry.Point{X: x, Y: m(x) - h(x)})
+		}
+		part := testfoil.Part{Chord: 100, RotDeg: 6, Shift: geometry.Point{X: 20, Y: -5}}
+		cv, rep, err := curve.Fit(testfoil.Contour(loop, part), curve.FitOptions{Exact: true})
+		if err != nil {
+			t.Fatal(err)
+		}
+		nz, err := frame.Normalize(cv, frame.Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !(nz.Untangled > 0) {
+			t.Fatalf("mc %g xc %g: surfaces not found crossed (warnings %q)", mc, xc, nz.Warnings)
+		}
+		u := Estimate(cv, rep, nz, Options{})
+		// The truth: a dense outline of the same formulas, its frame.
+		var dense []geometry.Point
+		const nd = 6000
+		for k := 0; k <= nd; k++ {
+			x := (1 + math.Cos(math.Pi*float64(k)/nd)) / 2
+			dense = append(dense, geometry.Point{X: x, Y: m(x) + h(x)})
+		}
+		for k := nd - 1; k >= 0; k-- {
+			x := (1 + math.Cos(math.Pi*float64(k)/nd)) / 2
+			dense = append(dense, geometry.Point{X: x, Y: m(x) - h(x)})
+		}
+		te := geometry.Point{X: 1}
+		lep := testfoil.Farthest(dense, te)
+		tTE, tLE := part.ToPart(te), part.ToPart(lep)
+		d := tTE.Sub(tLE)
+		tTwist := -math.Atan2(d.Y, d.X) * 180 / math.Pi
+		et := math.Abs(math.Remainder(nz.Frame.TwistDeg-tTwist, 360))
+		norm := make([]geometry.Point, len(dense))
+		dir := te.Sub(lep).Scale(1 / te.Dist(lep))
+		for i, p := range dense {
+			q := p.Sub(lep)
+			norm[i] = geometry.Point{X: q.Dot(dir), Y: dir.Cross(q)}.Scale(1 / te.Dist(lep))
+		}
+		es := testfoil.MaxDist(nz.Path.(*curve.Curve).Samples(4000), norm)
+		ec := math.Abs(nz.Frame.Chord - tTE.Dist(tLE))
+		t.Logf("mc %g xc %g: chord %.4f ≤ %.4f mm, twist %.4f ≤ %.4f°, surface %.5f ≤ %.5f c", mc, xc, ec, u.Chord, et, u.TwistDeg, es, u.Surface)
+		if ec > u.Chord || et > u.TwistDeg || es > u.Surface {
+			t.Errorf("mc %g xc %g: a true error exceeds its bound", mc, xc)
+		}
+		// Tight: the edge's terms are the errors themselves, give or take
+		// the fit's share (post-hoc, from the logged figures).
+		if u.TwistDeg > 1.5*et+0.02 || u.Surface > 1.5*es+0.001 {
+			t.Errorf("mc %g xc %g: bounds twist %.4f°, surface %.5f c: not tight", mc, xc, u.TwistDeg, u.Surface)
+		}
+	}
+}

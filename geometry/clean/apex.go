@@ -188,10 +188,11 @@ func inside(pts []geometry.Point, seq []int32, k, r int) bool {
 // the dropped points, or ends the face they make, on the line through
 // them: within a tenth of p's distance h from the segment ab (and at least
 // 3 robust scales, when that is below a third of h), the two within 2h of
-// p, their line across the spike from the middle of ab to p (see
-// straddled), and each at least half p's shorter step from every other
-// loop point (see detached). Such points are a straight face of the
-// fixture, standing apart, across which the loop reaches for p. A longer run is no face by this test: a few
+// p, their line across the spike from the middle of ab to p with none of
+// the other such points behind it (see straddled), and each at least half
+// p's shorter step from every other loop point (see detached). Such points
+// are a straight face of the fixture, standing apart, across which the
+// loop reaches for p. A longer run is no face by this test: a few
 // stations of a sparsely probed nose, between two outliers, lie as nearly
 // on a line.
 func onFace(pts []geometry.Point, seq, run []int32, a, b geometry.Point, dropped []geometry.Point, scale float64) bool {
@@ -215,8 +216,7 @@ func onFace(pts []geometry.Point, seq, run []int32, a, b geometry.Point, dropped
 			near = append(near, q)
 		}
 	}
-	spike := p.Sub(a.Add(b).Scale(0.5))
-	return straddled(p, spike, near, tol)
+	return straddled(p, a, b, near, tol)
 }
 
 // loopPoints returns the points of the loop seq.
@@ -241,14 +241,16 @@ func detached(pts []geometry.Point, seq []int32, skip int32, q geometry.Point, d
 
 // straddled reports whether two points of near lie on either side of p,
 // or on one side within their own distance of it (p ends the face), with
-// p within tol of the line through them, that line across the
-// direction spike (at more than 60° to it): a face the loop reaches
+// p within tol of the line through them, that line across the spike from
+// the middle of the segment ab to p (at more than 60° to it), and no other
+// point of near behind that line (see behind): a face the loop reaches
 // across for p, not points of a section that runs on along the spike (a
 // thin edge's own points, say, about its tip).
-func straddled(p, spike geometry.Point, near []geometry.Point, tol float64) bool {
+func straddled(p, a, b geometry.Point, near []geometry.Point, tol float64) bool {
+	spike := p.Sub(a.Add(b).Scale(0.5))
 	ls := math.Hypot(spike.X, spike.Y)
 	for x, q1 := range near {
-		for _, q2 := range near[x+1:] {
+		for y, q2 := range near[x+1:] {
 			u, v := q1.Sub(p), q2.Sub(p)
 			d := q2.Sub(q1)
 			l := math.Hypot(d.X, d.Y)
@@ -261,6 +263,56 @@ func straddled(p, spike geometry.Point, near []geometry.Point, tol float64) bool
 			if ls > 0 && math.Abs(d.Dot(spike)) > 0.5*l*ls {
 				continue
 			}
+			if behind(p, a, b, q1, q2, near, x, x+1+y, tol) {
+				continue
+			}
+			return true
+		}
+	}
+	return false
+}
+
+// behind reports whether a point of near but the face's own two (at
+// positions i and j) lies behind the face line through q1 and q2, between
+// it and the loop's segment ab, more than tol from both: in the gap that
+// parts a fixture from the part. A fixture's face stands off the part
+// across that gap, which holds none of its points; a rounded tip's apex,
+// which the loop reaches in a spike where the end model took the tip's
+// other points for outliers, has those points there, on the curve from the
+// loop's ends to the apex, curving away from its tangent (campaign 1455,
+// 5569: tips of radius 0.7–0.9 % of the chord).
+func behind(p, a, b, q1, q2 geometry.Point, near []geometry.Point, i, j int, tol float64) bool {
+	face := q2.Sub(q1)
+	lf := math.Hypot(face.X, face.Y)
+	base := b.Sub(a)
+	lb := math.Hypot(base.X, base.Y)
+	if lf == 0 || lb == 0 {
+		return false
+	}
+	// Signed distances: from the face line, positive towards the middle of
+	// ab (the part's side); from ab, positive towards p.
+	mid := a.Add(b).Scale(0.5)
+	side := face.Cross(mid.Sub(q1))
+	if side == 0 {
+		return false
+	}
+	up := base.Cross(p.Sub(a))
+	if up == 0 {
+		return false
+	}
+	for k, q := range near {
+		if k == i || k == j {
+			continue
+		}
+		df := face.Cross(q.Sub(q1)) / lf
+		db := base.Cross(q.Sub(a)) / lb
+		if side < 0 {
+			df = -df
+		}
+		if up < 0 {
+			db = -db
+		}
+		if df > tol && db > tol {
 			return true
 		}
 	}

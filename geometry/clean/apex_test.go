@@ -1,7 +1,9 @@
 package clean
 
 import (
+	"math"
 	"math/rand/v2"
+	"slices"
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
@@ -77,6 +79,69 @@ func TestFixtureFaceBeyondEdge(t *testing.T) {
 			}
 			if kept := len(ct.Points); kept < good-2 {
 				t.Errorf("contour keeps %d of the %d section points", kept, good)
+			}
+		})
+	}
+}
+
+// A rounded trailing edge sampled coarsely, whose tip points the end model
+// took for outliers but the apex, with a probe slip lined up with the apex
+// and one of the tip's points (campaign 1455: the chord came out 1.3 %
+// short when the apex went too). The outline is a stadium of unit length
+// and thickness 0.1 (a straight-sided section with semicircular ends,
+// exact by construction); the tip's points lie on its arc at 30° steps.
+// The apex must stay: the tip's other points lie behind the line the slip
+// and the apex make, between it and the loop. The same loop with a
+// straight face across the spike through the apex instead of the tip's
+// points (a fixture's jaw square to the chord) must lose it.
+func TestApexOfRoundedTipKept(t *testing.T) {
+	const r, step = 0.05, 0.01
+	// The loop: the upper side from the tip's base forward, round the
+	// nose, the lower side aft, then the apex.
+	var pts []geometry.Point
+	for x := 1 - r; x > r+step/2; x -= step {
+		pts = append(pts, geometry.Point{X: x, Y: r})
+	}
+	for k := 0; k <= 12; k++ {
+		th := math.Pi/2 + math.Pi*float64(k)/12
+		pts = append(pts, geometry.Point{X: r + r*math.Cos(th), Y: r * math.Sin(th)})
+	}
+	for x := r + step; x < 1-r+step/2; x += step {
+		pts = append(pts, geometry.Point{X: x, Y: -r})
+	}
+	apex := int32(len(pts))
+	pts = append(pts, geometry.Point{X: 1, Y: 0})
+	seq := make([]int32, len(pts))
+	for k := range seq {
+		seq[k] = int32(k)
+	}
+	tip := func(deg float64) geometry.Point {
+		th := deg * math.Pi / 180
+		return geometry.Point{X: 1 - r + r*math.Cos(th), Y: r * math.Sin(th)}
+	}
+	// The slip: on the line from the tip's point at 30° through the apex,
+	// as far beyond the apex again as twice that point.
+	q30 := tip(30)
+	slip := pts[apex].Add(pts[apex].Sub(q30).Scale(2))
+	for _, tc := range []struct {
+		name    string
+		dropped []geometry.Point
+		want    bool // the apex dropped
+	}{
+		{"rounded tip", []geometry.Point{tip(60), q30, tip(-30), tip(-60), slip}, false},
+		{"fixture face", []geometry.Point{{X: 1, Y: 0.02}, {X: 1, Y: 0.04}, {X: 1, Y: -0.02}, {X: 1, Y: -0.04}}, true},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			all := slices.Clone(pts)
+			var hits []hit
+			for _, q := range tc.dropped {
+				hits = append(hits, hit{idx: int32(len(all)), reason: "outlier"})
+				all = append(all, q)
+			}
+			_, got := apexes(all, seq, hits, 1e-5, true)
+			dropped := len(got) == 1 && got[0].idx == apex
+			if dropped != tc.want || len(got) > 1 {
+				t.Errorf("apex dropped %v (hits %v), want %v", dropped, got, tc.want)
 			}
 		})
 	}

@@ -35,7 +35,7 @@ const (
 // end. It returns nil when no edge is found; and, in any case, the
 // residuals of seq that pass started from (lf without spared points),
 // which the outlier test of seq reuses wherever no spared point is in reach.
-func (cl *cleaning) spared(seq []int32, sigma float64, lf localFits) ([]bool, []float64) {
+func (cl *cleaning) spared(seq []int32, sigma float64, lf localFits, extra float64) ([]bool, []float64) {
 	pts := cl.pts
 	r0 := make([]float64, len(seq))
 	lf.residualsAt(pts, seq, nil, r0)
@@ -60,9 +60,21 @@ func (cl *cleaning) spared(seq []int32, sigma float64, lf localFits) ([]bool, []
 	if ef.edge.Kind == EdgeRounded {
 		te = pts[ef.seq[0]]
 	}
+	zone := edgeZone
+	if extra > 0 && ef.edge.Chord > 0 {
+		r += extra
+		zone += extra / ef.edge.Chord
+	}
 	for _, i := range seq {
 		x, _ := ef.frame.at(pts[i])
-		exempt[i] = x >= 1-edgeZone && pts[i].Dist(te) <= r
+		exempt[i] = x >= 1-zone && pts[i].Dist(te) <= r
+	}
+	if extra > 0 {
+		// and the points no loop took, which placeRest then puts back
+		for i := range pts {
+			x, _ := ef.frame.at(pts[i])
+			exempt[i] = exempt[i] || x >= 1-zone && pts[i].Dist(te) <= r
+		}
 	}
 	return exempt, r0
 }
@@ -413,14 +425,6 @@ func (cl *cleaning) bySection(opts Options, sigma float64) *attempt {
 			f = g
 			seq, sc = sectionOrder(pts, sel, f, ws)
 		}
-		if edgeTrace != nil {
-			edgeTrace("section pass %d le %v te %v", pass, f.le, f.te)
-			for k, i := range seq {
-				if x, y := f.at(pts[i]); x > 0.94 && x < 0.99 {
-					edgeTrace("   pos %d x %.5f y %.5f region %d", k, x, y, sc.region[i])
-				}
-			}
-		}
 		a = cl.evaluate(OrderSection, [][]int32{seq}, rest, opts, sigma, localFits{sc: sc, chord: f.chord}, true)
 		if a.err != nil {
 			break
@@ -733,7 +737,7 @@ func (cl *cleaning) evaluate(strategy string, loops, rest [][]int32, opts Option
 	var r0 []float64
 	if spare {
 		var prior []float64
-		exempt, prior = cl.spared(seq, sigma, lf)
+		exempt, prior = cl.spared(seq, sigma, lf, opts.EndSpare)
 		if lf.sc != nil && exempt != nil {
 			lf.sc.spared = exempt
 			// A section order's fits leave the spared points out: only
@@ -747,7 +751,11 @@ func (cl *cleaning) evaluate(strategy string, loops, rest [][]int32, opts Option
 		lf.residualsAt(pts, seq, nil, r0)
 	}
 	seq, scale, raw, outs := dropOutliersFrom(pts, seq, sigma, opts.KeepOutliers, lf, exempt, r0)
-	seq, extra := placeRest(pts, seq, rest, cl.nb, sigma*scale, scale, opts.KeepOutliers)
+	var restSpared []bool
+	if opts.EndSpare > 0 {
+		restSpared = exempt
+	}
+	seq, extra := placeRest(pts, seq, rest, cl.nb, sigma*scale, scale, opts.KeepOutliers, restSpared)
 	a.seq, a.scale, a.raw, a.hits = seq, scale, raw, append(outs, extra...)
 	kept := len(a.seq)
 	if opts.KeepOutliers {

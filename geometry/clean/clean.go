@@ -28,6 +28,15 @@ type Options struct {
 	// Loop picks the section loop: 0 is the loop of largest enclosed area,
 	// k the k-th largest after it (1 = second largest).
 	Loop int
+	// EndSpare widens the zone about the trailing edge whose points the
+	// generic outlier test leaves to the end's models, by this much
+	// (input units) round the edge and along the chord, and puts back
+	// the points no loop took that lie in it: the path of a probe ball's
+	// centre rounds the end, and each corner of a base, on arcs of the
+	// ball's radius or more, whose few points a local fit that cannot
+	// follow so tight a turn would call outliers. 0 leaves the zone as
+	// it is.
+	EndSpare float64
 	// Order, when set (OrderFile, OrderSection, OrderLinked or
 	// OrderBand), is the only ordering tried; "" tries them in turn (see
 	// Clean). A caller whose later checks refuse the loop tries another.

@@ -456,9 +456,6 @@ func findEdge(pts []geometry.Point, seq []int32, sigma float64) (edgeFound, bool
 		if rb, okb := findEdgeIn(pts, seq, sigma, bf); okb && rb.edge.Kind == EdgeBlunt && rb.misfit <= edgePoor &&
 			(!ok || 2*len(rb.outliers) <= len(r.outliers) && (len(rb.outliers) < len(r.outliers) || rb.misfit < r.misfit) &&
 				(rb.misfit <= baseExplains || rb.misfit <= r.misfit)) {
-			if edgeTrace != nil {
-				edgeTrace("base frame: %d outliers, misfit %.3g (was %d, %.3g)", len(rb.outliers), rb.misfit, len(r.outliers), r.misfit)
-			}
 			r, ok = rb, true
 		}
 	}
@@ -656,9 +653,6 @@ func (m *endModel) openEnd(u, l quadFit, xa, xmax, ratio float64) bool {
 			widen(xt, u.at(xmax)+(u.c[1]+2*u.c[2]*xmax)*(xt-xmax))
 		}
 	}
-	if edgeTrace != nil {
-		edgeTrace("open end: gap %.3g mean steps, spread %.4g across %.4g", ratio, m.spread, m.spreadY)
-	}
 	return true
 }
 
@@ -737,9 +731,6 @@ func findEdgeIn(pts []geometry.Point, seq []int32, sigma float64, f chordFrame) 
 	}
 	// How regular the spacing is either side of the zone (gapModel).
 	gm := newGapModel(pts, seq, at(k0+uf), at(k0-lf), f.chord)
-	if edgeTrace != nil {
-		edgeTrace("gaps h %.4g %.4g k %.3g", gm.h[0], gm.h[1], gm.k)
-	}
 	// Twice: the second time each surface is fitted again with the zone
 	// points the first verdict gave it, which shortens the reach of the
 	// fits into the zone to the last of them.
@@ -926,8 +917,8 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 		if cs := max(2*scat, snapTol(scat, step)); !sampled(z, hi, cs) || !sampled(z, lo, cs) {
 			// A corner no point sampled: the surfaces' last points end
 			// at the same station by chance, as short of a sharp corner.
-			lastU, lastL := lastOn(z, u, l, xb+cs)
-			m.extra += coincidence(math.Abs(lastU.X-lastL.X)+scat, pstep)
+			lastU, lastL := m.lastOnSurfaces(u, l, z, cs, xmax-edgeZone)
+			m.extra += coincidence(math.Abs(lastU-lastL)+scat, pstep)
 		}
 		m.extra += gapDeviance(m.path(u, l, xa), pstep)
 		m.scoreOf(u, l, z, scat, zs)
@@ -1025,12 +1016,6 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 	}
 	for k := range alts {
 		alts[k].score = alts[k].misfit(u, l, z, scat, edgeOutlier, out, zs) + alts[k].extra + fits.gaps.deviance(&alts[k], u, l, z, out, xa)
-	}
-	if edgeTrace != nil {
-		for _, m := range models {
-			edgeTrace("model %s gapdev %.2f score %.1f extra %.2f xu %.5f xl %.5f r %.5g lo %v hi %v corner %v", m.kind, fits.gaps.deviance(&m, u, l, z, out, xa), m.score, m.extra, m.xu, m.xl, m.r, m.lo, m.hi, m.corner)
-		}
-		edgeTrace("zone %d points, xmax %.5f step %.4g scat %.3g pen %.1f", len(z), xmax, step, scat, pen)
 	}
 	if b := models[bk]; b.kind == EdgeBlunt && endPts[bk] == 0 && !b.cornersSampled(z, max(2*scat, snapTol(scat, step))) {
 		// A base no point lies on, nor both of whose corners a point
@@ -1269,6 +1254,13 @@ func roundBest(u, l quadFit, z []geometry.Point, zs []float64, xmax, xa, step, p
 			return m, false
 		}
 		m.extra = pen + gapDeviance(m.path(u, l, xa), pstep)
+		if cs := max(2*scat, snapTol(scat, step)); !sampled(z, m.tu, cs) || !sampled(z, m.tl, cs) {
+			// Where the arc meets a surface no point sampled: the
+			// surfaces' last points end at the same station by chance,
+			// as short of a base's corners (chooseEnd).
+			lastU, lastL := m.lastOnSurfaces(u, l, z, cs, xmax-edgeZone)
+			m.extra += coincidence(math.Abs(lastU-lastL)+scat, pstep)
+		}
 		m.scoreOf(u, l, z, scat, zs)
 		return m, true
 	}
@@ -1323,9 +1315,6 @@ func roundBest(u, l quadFit, z []geometry.Point, zs []float64, xmax, xa, step, p
 	}
 	return best
 }
-
-// edgeTrace, when set (by a debugging test), receives the scores.
-var edgeTrace func(string, ...any)
 
 func sq(x float64) float64 { return x * x }
 
@@ -1573,9 +1562,6 @@ func (gm gapModel) plausibleEnd(m *endModel, u, l quadFit, z []geometry.Point, o
 		d1 := (math.Log(h/d) + sigma*sigma/2) / sigma
 		p = min(p, max(0, phi(d1)-d/h*phi(d1-sigma)))
 	}
-	if edgeTrace != nil {
-		edgeTrace("plausible end %s: h %.4g %.4g sigma %.3g p %.3g", m.kind, hs[0], hs[1], sigma, p)
-	}
 	return p >= endGapLevel
 }
 
@@ -1664,6 +1650,26 @@ func fitScatter(xs, ys []float64, idx []int) (quadFit, float64) {
 	return q, 1.4826 * median(res)
 }
 
+// lastOnSurfaces returns the stations of the last points of the upper
+// and the lower surface, as the model m places the zone points z (a point
+// within tol of a surface counting as the surface's, see side): a point
+// on the piece that joins the surfaces (a base point) is no surface's
+// last point, and a surface that no zone point lies on ends short of the
+// zone, at fore at most (the end zone's foremost station), not at the
+// end the model puts it at.
+func (m *endModel) lastOnSurfaces(u, l quadFit, z []geometry.Point, tol, fore float64) (xu, xl float64) {
+	xu, xl = fore, fore
+	for _, p := range z {
+		switch m.side(u, l, p, tol) {
+		case 1:
+			xu = max(xu, p.X)
+		case -1:
+			xl = max(xl, p.X)
+		}
+	}
+	return xu, xl
+}
+
 // lastOn returns the zone points nearest the edge (before x) that lie
 // nearer the upper and the lower fit.
 func lastOn(z []geometry.Point, u, l quadFit, x float64) (lu, ll geometry.Point) {
@@ -1704,12 +1710,6 @@ func (m endModel) apply(pts []geometry.Point, seq []int32, f chordFrame, u, l qu
 		k   int // zone index
 	}
 	var lower, end, upper []placed
-	if edgeTrace != nil {
-		edgeTrace("apply %s: zone %d points", m.kind, len(z))
-		for j, p := range z {
-			edgeTrace("   zone %d pos %d x %.5f y %.5f side %d", j, zpos[j], p.X, p.Y, m.side(u, l, p, scat))
-		}
-	}
 	for j, p := range z {
 		// A point within the snapping distance of a surface's end is
 		// that surface's (a drawing's station at a corner), however
@@ -1946,6 +1946,3 @@ func localStep(pts []geometry.Point, seq []int32, k, dir, w int) float64 {
 	}
 	return median(ds)
 }
-
-// SetTrace is a temporary debugging hook.
-func SetTrace(f func(string, ...any)) { edgeTrace = f }

@@ -96,3 +96,102 @@ func TestEdgeEvenStepsOpenBase(t *testing.T) {
 		}
 	}
 }
+
+// onePassLoop returns points stepped once round the closed outline of
+// foil (its base included when the edge is open) from a random phase,
+// with log-normal steps of mean h and σ sigma of their logs, noise nz
+// (chord units) and the count of points that fell on the base.
+func onePassLoop(foil shape.NACA4, h, sigma, nz float64, rng *rand.Rand) ([]geometry.Point, int) {
+	const m = 6000
+	var line []geometry.Point
+	for i := m; i >= 0; i-- {
+		line = append(line, foil.Upper(0.5*(1-math.Cos(math.Pi*float64(i)/m))))
+	}
+	for i := 1; i <= m; i++ {
+		line = append(line, foil.Lower(0.5*(1-math.Cos(math.Pi*float64(i)/m))))
+	}
+	// The base, from the lower corner back to the upper one (the first
+	// point): the loop is closed.
+	line = append(line, line[0])
+	s := make([]float64, len(line))
+	for i := 1; i < len(line); i++ {
+		s[i] = s[i-1] + line[i].Dist(line[i-1])
+	}
+	total, baseFrom := s[len(s)-1], s[len(s)-2]
+	var pts []geometry.Point
+	onBase := 0
+	// From a random spot near the nose once round (the trailing edge falls
+	// in a gap of the steps, not where the loop closes).
+	x0 := total * (0.45 + 0.1*rng.Float64())
+	for r := 0.0; r < total; r += h * math.Exp(sigma*rng.NormFloat64()-sigma*sigma/2) {
+		x := math.Mod(x0+r, total)
+		j, _ := slices.BinarySearch(s, x)
+		j = min(max(j-1, 0), len(s)-2)
+		f := (x - s[j]) / (s[j+1] - s[j])
+		if x > baseFrom && line[len(line)-2].Dist(line[0]) > 0 {
+			onBase++
+		}
+		p := line[j].Add(line[j+1].Sub(line[j]).Scale(f))
+		pts = append(pts, p.Add(geometry.Point{X: rng.NormFloat64(), Y: rng.NormFloat64()}.Scale(nz)))
+	}
+	return pts, onBase
+}
+
+// An open trailing edge (NACA 0012, NACA Report 824: a base 0.25 % of the
+// chord thick, its surfaces meeting some 0.009 c behind it) and its
+// closed-edge twin, each probed in one pass round the outline at steps of
+// 0.012 c whose logs scatter by σ 0.2 (a probe program's steady pace), from
+// a random spot near the nose; draws with a point on the base are left
+// out. The base must be stated in most runs, the sharp twin must stay
+// sharp in nearly all. Measured on these draws: blunt right in 24 of 31,
+// sharp in 36 of 40, with the stretches either side of the end scored as
+// independent forward recurrences (gapModel.deviance). Scored instead as
+// the two parts of the one gap of a single pass that holds the end (joint
+// density f(a + b)/h), blunt 28 of 31 and sharp 36 of 40 here, but with h
+// the mean of the 24 gaps either side that law calls the short gaps of
+// cosine stations crowding at the end unlikely and cuts unsampled sharp
+// corners off (TestEdgeUnsampledSharpCorner 6 of 8,
+// TestEdgeIrregularSharpNoBase 8 → 12 of 96): it needs the spacing at the
+// end itself.
+func TestEdgeOnePassSteadySteps(t *testing.T) {
+	const chord, runs = 90.0, 40
+	for _, sharp := range []bool{false, true} {
+		foil := shape.NACA4{Thickness: 0.12, SharpTE: sharp}
+		want := EdgeBlunt
+		if sharp {
+			want = EdgeSharp
+		}
+		right, counted := 0, 0
+		for seed := range uint64(runs) {
+			rng := rand.New(rand.NewPCG(seed, 53))
+			pts, onBase := onePassLoop(foil, 0.012, 0.2, 0.002/chord, rng)
+			if onBase > 0 {
+				continue
+			}
+			for i := range pts {
+				pts[i] = pts[i].Scale(chord).Rotate(0.2)
+			}
+			_, rep, err := Clean(edgeTestCloud(pts), Options{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if rep.Edge == nil {
+				t.Fatalf("seed %d: no edge", seed)
+			}
+			counted++
+			if rep.Edge.Kind == want {
+				right++
+			} else {
+				t.Logf("sharp %v seed %d: %s (%s)", sharp, seed, rep.Edge.Kind, rep.Edge.Why)
+			}
+		}
+		t.Logf("sharp %v: %s stated in %d of %d runs", sharp, want, right, counted)
+		least := counted * 3 / 4
+		if sharp {
+			least = counted * 7 / 8
+		}
+		if right < least {
+			t.Errorf("sharp %v: %s stated in %d of %d runs, want at least %d", sharp, want, right, counted, least)
+		}
+	}
+}

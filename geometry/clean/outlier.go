@@ -267,6 +267,49 @@ func sagitta(pts []geometry.Point, seq []int32, i int) float64 {
 	return g / 2 * math.Tan(tau/4)
 }
 
+// inBulge reports whether the point at position i of seq lies within
+// the bulge of every chord across it out to the local fits' reach: for
+// j = 1, …, fitK, on the side of the chord between positions i−j and i+j
+// that a curve turning as the steps i−j−1 → i−j and i+j → i+j+1 do bulges
+// to, no farther from that chord than the bulge may reach (sagitta). The
+// local fits across a sparsely sampled bend whose curvature changes (a
+// flat bottom's knee, where the nose's lower side swings below the flat
+// and up into it) miss the bend's own points by more than the bulge,
+// though they lie within it: the chord, not the fit, is what the bulge is
+// measured from. The wider chords leave a run of points off the surface
+// together (a burst) to the residuals: each of its points lies near the
+// chord that ends at its fellow, but outside the bulge of the chords that
+// reach past the run (campaign 5065: two points 0.55 mm off, which the
+// first chord alone kept, and the section crossed itself).
+func inBulge(pts []geometry.Point, seq []int32, i int) bool {
+	n := len(seq)
+	if n < 2*fitK+3 {
+		return false
+	}
+	at := func(j int) geometry.Point { return pts[seq[((i+j)%n+n)%n]] }
+	for j := 1; j <= fitK; j++ {
+		a, b := at(-j).Sub(at(-j-1)), at(j+1).Sub(at(j))
+		turn := a.Cross(b)
+		chord := at(j).Sub(at(-j))
+		g := chord.Norm()
+		la, lb := a.Norm(), b.Norm()
+		if turn == 0 || g == 0 || la == 0 || lb == 0 {
+			return false
+		}
+		off := chord.Cross(at(0).Sub(at(-j))) / g
+		// A left turn bulges to the right of the chord, a right turn to
+		// the left.
+		if turn > 0 {
+			off = -off
+		}
+		tau := math.Atan2(math.Abs(turn), a.Dot(b))
+		if off < 0 || off > g/2*math.Tan(tau/4) {
+			return false
+		}
+	}
+	return true
+}
+
 // quadratic fits x(u) and y(u), u = s/span, by least-squares
 // quadratics to the points ps at parameters ss and returns the point and the
 // derivative at u. ok is false when the normal equations are singular.
@@ -446,7 +489,7 @@ func dropOutliersFrom(pts []geometry.Point, seq []int32, sigma float64, keep boo
 		n := len(work)
 		var out []bool
 		for i := range n {
-			if r[i] <= sigma*max(pscale, loc[work[i]]) || useSagitta && r[i] <= sagitta(pts, work, i) || exempt != nil && exempt[work[i]] {
+			if r[i] <= sigma*max(pscale, loc[work[i]]) || useSagitta && (r[i] <= sagitta(pts, work, i) || inBulge(pts, work, i)) || exempt != nil && exempt[work[i]] {
 				continue
 			}
 			top := true
@@ -552,8 +595,10 @@ func respared(pts []geometry.Point, seq []int32, exempt []bool, r []float64, lf 
 // none of whose nearest neighbours is on the loop seq is a stray. Otherwise
 // its residual is its distance from the loop's polyline next to its nearest
 // loop neighbour: beyond thr it is an outlier (put in only if keep), and
-// within thr it is put back into the loop where it projects.
-func placeRest(pts []geometry.Point, seq []int32, rest [][]int32, nb *nbrs, thr, scale float64, keep bool) ([]int32, []hit) {
+// within thr it is put back into the loop where it projects. A point
+// marked in spared (by point index; nil for none) is put back at any
+// distance: the end zone of a probe ball's path (Options.EndSpare).
+func placeRest(pts []geometry.Point, seq []int32, rest [][]int32, nb *nbrs, thr, scale float64, keep bool, spared []bool) ([]int32, []hit) {
 	if len(rest) == 0 {
 		return seq, nil
 	}
@@ -598,7 +643,7 @@ func placeRest(pts []geometry.Point, seq []int32, rest [][]int32, nb *nbrs, thr,
 					best, at, bt = d, e, t
 				}
 			}
-			if best > thr {
+			if best > thr && (spared == nil || !spared[i]) {
 				sg := 0.0
 				if scale > 0 {
 					sg = best / scale

@@ -141,6 +141,15 @@ type Options struct {
 	// there the curve's shape is its own guess, and a guessed nose bends
 	// the mean line's forward end as far as a faint camber line does.
 	Support []float64
+	// Base, when set, says that the ends of an open curve are the corners
+	// of a blunt base the points show (the cleaning step's analysis of
+	// the end, curve.Edge): an edge whose ends do not meet is then blunt
+	// however far its base leans from square to the chord line, never
+	// open (a corner placed on a point of a surface's end may lie a
+	// little along it from where the base meets the surface). Without
+	// it, ends whose gap runs more along the chord line than across it
+	// are open.
+	Base bool
 	// Noise, when positive, is the noise of the points normal to the
 	// outline (input units, the fit's estimate). MirrorAuto then asks the
 	// mean line to sag by more than it, as well as by EdgeMirrorSag: the

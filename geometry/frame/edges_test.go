@@ -194,6 +194,38 @@ func TestTrailingEdgeOpen(t *testing.T) {
 	}
 }
 
+// An open outline whose ends are the corners of a base the points show
+// (Options.Base: the cleaning step found a blunt edge) is blunt, even when
+// its lower corner lies a station short of the upper one (a corner put on
+// a surface's last point), so that the ends' gap runs more along the chord
+// than across it; without Base, the same ends are open (NACA Report 824
+// equations, NACA 2412 with the open edge, its lower surface's last
+// station, x = 1, left out).
+func TestTrailingEdgeBaseLeaning(t *testing.T) {
+	n, _ := shape.ParseNACA4("2412")
+	loop := testfoil.Loop(n, 200)
+	loop = loop[:len(loop)-1]
+	c := testfoil.Contour(loop, testfoil.Part{Chord: 152.4, RotDeg: 7})
+	last := len(c.Points) - 1
+	cv, _, err := curve.Fit(c, curve.FitOptions{Edge: &curve.Edge{Upper: c.Points[0], Lower: c.Points[last]}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, base := range []bool{false, true} {
+		nz, err := Normalize(cv, Options{Base: base})
+		if err != nil {
+			t.Fatal(err)
+		}
+		want := TEOpen
+		if base {
+			want = TEBlunt
+		}
+		if nz.TE.Kind != want || nz.TE.Action != TEKept {
+			t.Errorf("Base %v: trailing edge %+v, want %s, kept", base, nz.TE, want)
+		}
+	}
+}
+
 // edgeTestUpperY returns y of the upper surface of the normalised curve c
 // (leading edge at arc length sLE) at chord station x, by bisection on the
 // arc length: x falls from the trailing edge to the leading edge.

@@ -203,6 +203,9 @@ func Normalize(cv *curve.Curve, opts Options) (*Normalized, error) {
 	if err != nil {
 		return nil, err
 	}
+	if opts.Base && e.kind == TEOpen {
+		e.kind = TEBlunt
+	}
 	treated, action, shift, err := treat(cv, e, opts, warn)
 	if err != nil {
 		return nil, err

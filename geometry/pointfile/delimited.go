@@ -3,6 +3,7 @@ package pointfile
 import (
 	"fmt"
 	"math"
+	"runtime"
 	"strconv"
 	"strings"
 
@@ -307,50 +308,85 @@ func readDelimited(s, name, columns string) (*geometry.Cloud, statedUnit, error)
 	n := strings.Count(s, "\n") + 1
 	c := &geometry.Cloud{Format: FormatDelimited, Points: make([]geometry.Vec3, 0, n), Origins: make([]geometry.Origin, 0, n)}
 	var fields []string
-	lines := lineScanner{s: s}
-	for {
-		line, no, ok := lines.next()
-		if !ok {
-			break
-		}
+	// line reads one line: a point, a comment, a text line or nothing.
+	line := func(line string, no int) error {
 		t := strings.TrimSpace(line)
 		if t == "" {
-			continue
+			return nil
 		}
 		if isComment(t) {
 			if u := commentUnit(t); u != "" {
 				if err := d.unit.set(name, no, u); err != nil {
-					return nil, d.unit, err
+					return err
 				}
 			}
 			d.notes.Add(name, no, "comment", t)
-			continue
+			return nil
 		}
 		fields = splitFields(t, d.sep, fields)
 		if d.cols == nil {
 			isData, err := d.resolve(fields, no, t)
-			if err != nil {
-				return nil, d.unit, err
-			}
-			if !isData {
-				continue
+			if err != nil || !isData {
+				return err
 			}
 		}
 		p, isData, err := d.point(fields, no)
 		if err != nil {
-			return nil, d.unit, err
+			return err
 		}
 		if !isData {
 			d.text(fields, no, t)
-			continue
+			return nil
 		}
 		if !d.started {
 			if err := d.start(); err != nil {
-				return nil, d.unit, err
+				return err
 			}
 		}
 		c.Points = append(c.Points, p)
 		c.Origins = append(c.Origins, geometry.Origin{File: name, Line: no})
+		return nil
+	}
+	lines := lineScanner{s: s}
+	var parts []*dataPart
+	for {
+		l, no, ok := lines.next()
+		if !ok {
+			break
+		}
+		if err := line(l, no); err != nil {
+			return nil, d.unit, err
+		}
+		if d.started && parts == nil {
+			// The columns are known: the rest of a long file is read in
+			// parts at once, on every CPU (dataParts).
+			parts = d.dataParts(c, s, &lines)
+			defer waitParts(parts)
+		}
+	}
+	waitParts(parts)
+	serial := false
+	for _, pt := range parts[min(1, len(parts)):] {
+		if pt.ok && !serial {
+			// Within the capacity: the points move down in place.
+			c.Points = append(c.Points, c.Points[pt.at:pt.at+pt.n]...)
+			c.Origins = append(c.Origins, c.Origins[pt.at:pt.at+pt.n]...)
+			continue
+		}
+		// A line other than a point (a comment, a text line, an error):
+		// this part and every later one are read line by line, as the
+		// whole file would be.
+		serial = true
+		sc := lineScanner{s: s[:pt.end], pos: pt.start, no: pt.no}
+		for {
+			l, no, ok := sc.next()
+			if !ok {
+				break
+			}
+			if err := line(l, no); err != nil {
+				return nil, d.unit, err
+			}
+		}
 	}
 	if !d.started {
 		return nil, d.unit, &geometry.ParseError{File: name, Err: ErrNoNumbers}
@@ -696,4 +732,110 @@ func maxColumn(xs []int) int {
 		m = max(m, x)
 	}
 	return m
+}
+
+// A dataPart is a stretch of a delimited file's data, whole lines from
+// byte start to end, whose first line is line no+1, read on a goroutine of
+// its own into the room the file's point slices keep for it: its lines
+// start at index at (no point before it takes more than a line) and n
+// points were read. ok is false when a line of it is anything other than a
+// point or blank (a comment, a text line, an error), which the serial
+// reading then meets and handles in the file's order.
+type dataPart struct {
+	start, end, no int
+	at, n          int
+	ok             bool
+	done           chan struct{}
+}
+
+// partBytes is the least length of the data left, in bytes, for which
+// dataParts reads it in parts: some 3000 lines of coordinates, a
+// millisecond's reading, well above the cost of starting a goroutine.
+const partBytes = 64 << 10
+
+// dataParts splits the text of s left after the first data line (lines is
+// there) into GOMAXPROCS parts at line ends when it is long enough
+// (partBytes), leaves the first part to lines (which it now stops at the
+// first part's end) and starts reading every other part on a goroutine
+// into c's slices, whose capacity holds a point per line of s. It returns
+// the parts, the first one included, or an empty slice (never nil) when
+// the text is read in one piece. The caller must wait for the parts
+// (waitParts) before it returns.
+func (d *delimitedReader) dataParts(c *geometry.Cloud, s string, lines *lineScanner) []*dataPart {
+	w := runtime.GOMAXPROCS(0)
+	left := len(s) - lines.pos
+	if w < 2 || left < partBytes {
+		return []*dataPart{}
+	}
+	var parts []*dataPart
+	start, no := lines.pos, lines.no
+	for k := range w {
+		end := len(s)
+		if k < w-1 {
+			end = lines.pos + left*(k+1)/w
+			if i := strings.IndexByte(s[end:], '\n'); i >= 0 {
+				end += i + 1
+			} else {
+				end = len(s)
+			}
+		}
+		if end <= start {
+			continue
+		}
+		parts = append(parts, &dataPart{start: start, end: end, no: no, at: no})
+		no += strings.Count(s[start:end], "\n")
+		start = end
+		if end == len(s) {
+			break
+		}
+	}
+	lines.s = s[:parts[0].end]
+	ps, os := c.Points[:cap(c.Points)], c.Origins[:cap(c.Origins)]
+	r := *d // read only: the columns are known and stay so
+	for _, pt := range parts[1:] {
+		pt.done = make(chan struct{})
+		go func() {
+			defer close(pt.done)
+			pt.n, pt.ok = r.points(s[pt.start:pt.end], pt.no, ps[pt.at:], os[pt.at:])
+		}()
+	}
+	return parts
+}
+
+// points reads the lines of s, the first of them line no+1, into ps and
+// os as the serial reading would when every line is a point or blank; it
+// returns the number of points and false at the first other line.
+func (d *delimitedReader) points(s string, no int, ps []geometry.Vec3, os []geometry.Origin) (int, bool) {
+	var fields []string
+	lines := lineScanner{s: s, no: no}
+	n := 0
+	for {
+		line, no, ok := lines.next()
+		if !ok {
+			return n, true
+		}
+		t := strings.TrimSpace(line)
+		if t == "" {
+			continue
+		}
+		if isComment(t) {
+			return n, false
+		}
+		fields = splitFields(t, d.sep, fields)
+		p, isData, err := d.point(fields, no)
+		if err != nil || !isData {
+			return n, false
+		}
+		ps[n], os[n] = p, geometry.Origin{File: d.name, Line: no}
+		n++
+	}
+}
+
+// waitParts waits for the parts that dataParts started.
+func waitParts(parts []*dataPart) {
+	for _, pt := range parts {
+		if pt.done != nil {
+			<-pt.done
+		}
+	}
 }
