@@ -1070,6 +1070,7 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 // of their ends.
 func chooseSpread(fits endFits, models, alts []endModel, eligible func(int) bool, best endModel, z []geometry.Point, out []bool, xa, step, pstep, scat float64) (endModel, []bool, bool) {
 	u, l := fits.u, fits.l
+	best = fits.carryBase(best, z, out, step, pstep, scat)
 	for k, m := range append(models, alts...) {
 		if m.score <= best.score+edgePlausible {
 			if m.kind != best.kind && (k >= len(models) || eligible(k)) && !slices.Contains(best.rivals, m.kind) {
@@ -1292,7 +1293,17 @@ func endCarry(z []geometry.Point, xmax, h, k, near float64) (beyond, even float6
 	if b < 0 {
 		return 0, 0
 	}
-	d := z[a].Dist(z[b])
+	return gapCarry(z[a].Dist(z[b]), h, k)
+}
+
+// gapCarry returns (E[g | g ≥ d] − d)/2 for the gap g round the end under
+// the gamma law of mean h and shape k (see endCarry), and the same for
+// evenly spaced points, (h − d)/2 or 0; k ≤ 0 takes the even answer for
+// both.
+func gapCarry(d, h, k float64) (beyond, even float64) {
+	if !(h > 0) {
+		return 0, 0
+	}
 	if d < h {
 		even = (h - d) / 2
 	}
@@ -1306,6 +1317,51 @@ func endCarry(z []geometry.Point, xmax, h, k, near float64) (beyond, even float6
 		g = d + h/k // the tail of a gamma law far out: exponential of mean h/k
 	}
 	return max(0, (g-d)/2), even
+}
+
+// carryBase returns the blunt end m moved on along the chord through the
+// gap round the end, when no point lies on its base and no point sampled
+// both its corners: the base, of length t, and the stretches a and b from
+// each surface's last point to its corner are one unsampled gap g = a + t
+// + b, at least d = t + |xU − xL| for last points at stations xU and xL,
+// so the base lies (E[g | g ≥ d] − d)/2 beyond the aftmost of them (as a
+// sharp corner does, endCarry). The base the scores place, with nothing on
+// it, sits where the outline is shortest: at the aftmost point, short of
+// the part's base by that stretch (the chord 0.1-0.2 % short on the blunt
+// edges of a campaign's tail). It is only moved aft.
+func (f endFits) carryBase(m endModel, z []geometry.Point, out []bool, step, pstep, scat float64) endModel {
+	u, l := f.u, f.l
+	if m.kind != EdgeBlunt || m.onEnd(u, l, z, out, max(scat, snapTol(scat, step))) > 0 || m.cornersSampled(z, max(2*scat, snapTol(scat, step))) {
+		return m
+	}
+	xU, xL := math.Inf(-1), math.Inf(-1)
+	xa, xmax := math.Inf(1), math.Inf(-1)
+	for j, p := range z {
+		xa, xmax = min(xa, p.X), max(xmax, p.X)
+		if out[j] {
+			continue
+		}
+		if math.Abs(p.Y-u.at(p.X)) < math.Abs(p.Y-l.at(p.X)) {
+			xU = max(xU, p.X)
+		} else {
+			xL = max(xL, p.X)
+		}
+	}
+	if math.IsInf(xU, -1) || math.IsInf(xL, -1) {
+		return m
+	}
+	h := min(step, pstep)
+	if len(z) > 2 {
+		h = min(h, 2*(xmax-xa)/float64(len(z)-1))
+	}
+	beyond, _ := gapCarry(m.hi.Y-m.lo.Y+math.Abs(xU-xL), h, f.gaps.k)
+	x := max(xU, xL) + beyond
+	if x <= m.tipX() || u.at(x) <= l.at(x) {
+		return m
+	}
+	m.xu, m.xl = x, x
+	m.hi, m.lo = geometry.Point{X: x, Y: u.at(x)}, geometry.Point{X: x, Y: l.at(x)}
+	return m
 }
 
 // edgeOpen is how many end spacings beyond the stated end a corner the
