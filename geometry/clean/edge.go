@@ -854,17 +854,26 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 	if xc, ok := crossing(u, l, xmax, xmax-edgeZone, xmax+edgeCross); ok {
 		c := geometry.Point{X: xc, Y: u.at(xc)}
 		carry := false // the corner put at the aftmost point, no point's
+		var beyond float64
 		if xc < xmax+step/20 {
-			// The fits cross short of the points (a thin edge, noisy):
-			// the surfaces run on to the aftmost point, where they are
-			// within the scatter of each other; that point is the corner
-			// when it lies between them and the gap round the end leaves
-			// no room beyond it (endCarry).
+			// The fits cross short of the points (a thin edge, noisy),
+			// or just beyond the aftmost point: the surfaces run on to
+			// it, where they are within the scatter of each other; that
+			// point is the corner when it lies between them and, where
+			// the fits crossed short of it and so say nothing of how far
+			// on the surfaces meet, the gap round the end leaves no room
+			// beyond it (endCarry); else the corner lies where the fits
+			// cross, or that far on.
+			short := xc < xmax
+			beyond = max(0, xc-xmax)
+			if short {
+				beyond = carried
+			}
 			xc = xmax
 			c = geometry.Point{X: xmax, Y: (u.at(xmax) + l.at(xmax)) / 2}
 			carry = true
 			for _, p := range z {
-				if p.X == xmax && math.Abs(p.Y-c.Y) <= math.Abs(sepEnd)/2+edgeCap*scat && evenCarried <= snapTol(scat, step) && snapTol(scat, step) > 0 {
+				if p.X == xmax && math.Abs(p.Y-c.Y) <= math.Abs(sepEnd)/2+edgeCap*scat && (!short || evenCarried <= snapTol(scat, step)) && snapTol(scat, step) > 0 {
 					c, carry = p, false
 				}
 			}
@@ -872,7 +881,7 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 		lastU, lastL := lastOn(z, u, l, xc)
 		m := endModel{kind: EdgeSharp, xu: xc, xl: xc, corner: c}
 		if carry {
-			m.beyond = carried
+			m.beyond = beyond
 		}
 		if !sampled(z, c, 2*scat) {
 			// A corner no point sampled: the surfaces' last points
@@ -1070,7 +1079,6 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 // of their ends.
 func chooseSpread(fits endFits, models, alts []endModel, eligible func(int) bool, best endModel, z []geometry.Point, out []bool, xa, step, pstep, scat float64) (endModel, []bool, bool) {
 	u, l := fits.u, fits.l
-	best = fits.carryBase(best, z, out, step, pstep, scat)
 	for k, m := range append(models, alts...) {
 		if m.score <= best.score+edgePlausible {
 			if m.kind != best.kind && (k >= len(models) || eligible(k)) && !slices.Contains(best.rivals, m.kind) {
@@ -1317,51 +1325,6 @@ func gapCarry(d, h, k float64) (beyond, even float64) {
 		g = d + h/k // the tail of a gamma law far out: exponential of mean h/k
 	}
 	return max(0, (g-d)/2), even
-}
-
-// carryBase returns the blunt end m moved on along the chord through the
-// gap round the end, when no point lies on its base and no point sampled
-// both its corners: the base, of length t, and the stretches a and b from
-// each surface's last point to its corner are one unsampled gap g = a + t
-// + b, at least d = t + |xU − xL| for last points at stations xU and xL,
-// so the base lies (E[g | g ≥ d] − d)/2 beyond the aftmost of them (as a
-// sharp corner does, endCarry). The base the scores place, with nothing on
-// it, sits where the outline is shortest: at the aftmost point, short of
-// the part's base by that stretch (the chord 0.1-0.2 % short on the blunt
-// edges of a campaign's tail). It is only moved aft.
-func (f endFits) carryBase(m endModel, z []geometry.Point, out []bool, step, pstep, scat float64) endModel {
-	u, l := f.u, f.l
-	if m.kind != EdgeBlunt || m.onEnd(u, l, z, out, max(scat, snapTol(scat, step))) > 0 || m.cornersSampled(z, max(2*scat, snapTol(scat, step))) {
-		return m
-	}
-	xU, xL := math.Inf(-1), math.Inf(-1)
-	xa, xmax := math.Inf(1), math.Inf(-1)
-	for j, p := range z {
-		xa, xmax = min(xa, p.X), max(xmax, p.X)
-		if out[j] {
-			continue
-		}
-		if math.Abs(p.Y-u.at(p.X)) < math.Abs(p.Y-l.at(p.X)) {
-			xU = max(xU, p.X)
-		} else {
-			xL = max(xL, p.X)
-		}
-	}
-	if math.IsInf(xU, -1) || math.IsInf(xL, -1) {
-		return m
-	}
-	h := min(step, pstep)
-	if len(z) > 2 {
-		h = min(h, 2*(xmax-xa)/float64(len(z)-1))
-	}
-	beyond, _ := gapCarry(m.hi.Y-m.lo.Y+math.Abs(xU-xL), h, f.gaps.k)
-	x := max(xU, xL) + beyond
-	if x <= m.tipX() || u.at(x) <= l.at(x) {
-		return m
-	}
-	m.xu, m.xl = x, x
-	m.hi, m.lo = geometry.Point{X: x, Y: u.at(x)}, geometry.Point{X: x, Y: l.at(x)}
-	return m
 }
 
 // edgeOpen is how many end spacings beyond the stated end a corner the

@@ -3,7 +3,6 @@ package clean
 import (
 	"math"
 	"math/rand/v2"
-	"slices"
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
@@ -100,39 +99,6 @@ func TestEndCarry(t *testing.T) {
 		}
 		if exp, _ := endCarry(z, xmax, h, 1, 1e-9); math.Abs(exp-h/2) > 1e-9 {
 			t.Errorf("a = %.2g h: exponential gaps carried %.6g, want h/2 = %.6g", a/h, exp, h/2)
-		}
-	}
-}
-
-// carryBase on a blunt end of base t = 0.004 (the surfaces y = ±(t/2 +
-// 0.05(1 − x)), straight), sampled every h along each surface, its base at
-// x = 1 with no point on it: the upper surface's last point a short of its
-// corner, the lower's h − t − a short of its own (one gap of h round the
-// end). A base the scores put at the aftmost point moves on to x = 1 with
-// the even spacing's answer (no gap model), to within what the surfaces'
-// slope adds to the stations' distance (hand-calculated); a base with a
-// point on it stays.
-func TestCarryBase(t *testing.T) {
-	const h, base, slope = 0.01, 0.004, 0.05
-	u := quadFit{c: [3]float64{base/2 + slope, -slope, 0}, ok: true}
-	l := quadFit{c: [3]float64{-base/2 - slope, slope, 0}, ok: true}
-	f := endFits{u: u, l: l}
-	for _, a := range []float64{0.0005, 0.002, 0.004} {
-		var z []geometry.Point
-		for k := range 5 {
-			xu, xl := 1-a-float64(k)*h, 1-(h-base-a)-float64(k)*h
-			z = append(z, geometry.Point{X: xu, Y: u.at(xu)}, geometry.Point{X: xl, Y: l.at(xl)})
-		}
-		out := make([]bool, len(z))
-		xmax := 1 - min(a, h-base-a)
-		m := endModel{kind: EdgeBlunt, xu: xmax, xl: xmax, lo: geometry.Point{X: xmax, Y: l.at(xmax)}, hi: geometry.Point{X: xmax, Y: u.at(xmax)}}
-		got := f.carryBase(m, z, out, h, h, 1e-6)
-		if d := got.tipX() - 1; math.Abs(d) > 0.05*h {
-			t.Errorf("a = %.3g: base at x = %.5f, want 1 (within %.2g)", a, got.tipX(), 0.05*h)
-		}
-		on := append(slices.Clone(z), geometry.Point{X: xmax, Y: 0})
-		if kept := f.carryBase(m, on, append(out, false), h, h, 1e-6); kept.tipX() != xmax {
-			t.Errorf("a = %.3g: a base with a point on it moved from %.5f to %.5f", a, xmax, kept.tipX())
 		}
 	}
 }
