@@ -239,23 +239,12 @@ func (e teEnds) rounded(r float64) ([][]geometry.Point, bool) {
 func nearestOn(p []geometry.Point, q geometry.Point) (int, geometry.Point) {
 	bk, bd, bf := 0, math.Inf(1), p[0]
 	for k := 0; k+1 < len(p); k++ {
-		f := foot(q, p[k], p[k+1])
+		f := geometry.SegmentFoot(q, p[k], p[k+1])
 		if d := q.Dist(f); d < bd {
 			bk, bd, bf = k, d, f
 		}
 	}
 	return bk, bf
-}
-
-// foot returns the point of the segment a–b nearest to p.
-func foot(p, a, b geometry.Point) geometry.Point {
-	d := b.Sub(a)
-	l2 := d.Dot(d)
-	if l2 == 0 {
-		return a
-	}
-	t := min(1, max(0, p.Sub(a).Dot(d)/l2))
-	return a.Add(d.Scale(t))
 }
 
 // polyDist returns the distance of p from the nearest of the polylines,
@@ -275,7 +264,7 @@ func polyDist(p geometry.Point, polys [][]geometry.Point) (float64, int) {
 			k0, k1 = max(i-polyWindow, 0), min(i+polyWindow, len(q)-1)
 		}
 		for k := k0; k < k1; k++ {
-			if e := p.Dist(foot(p, q[k], q[k+1])); e < d {
+			if e := p.Dist(geometry.SegmentFoot(p, q[k], q[k+1])); e < d {
 				d, which = e, j
 			}
 		}
