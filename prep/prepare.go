@@ -241,22 +241,29 @@ func prepareCleaned(name string, cl *Cleaned, s Settings) (*Preparation, error) 
 			return p, nil
 		}
 	}
-	if alt := cl.retaken(s); alt != nil {
-		tried = append(tried, "the points retaken along the fitted outline")
-		if p, err := finishChain(name, alt, s, true); err == nil && !beyondInRuns(p.Fit) {
-			p.Section.Warnings = append(p.Section.Warnings, fmt.Sprintf("the %s order of the points failed the check %q (%s); the points retaken in the order of the outline fitted to them, its folds cut out, passed", cl.Clean.Strategy, ge.Gate, ge.Seen))
-			return p, nil
+	// retakenWay finishes the chain on points retaken in the order of the
+	// outline fitted to them (alt, nil when there is none), the way named
+	// by what; nil when it fails a check or leaves runs beyond the fit.
+	retakenWay := func(alt *Cleaned, what string) *Preparation {
+		if alt == nil {
+			return nil
 		}
+		tried = append(tried, what)
+		p, err := finishChain(name, alt, s, true)
+		if err != nil || beyondInRuns(p.Fit) {
+			return nil
+		}
+		p.Section.Warnings = append(p.Section.Warnings, fmt.Sprintf("the %s order of the points failed the check %q (%s); the points retaken in the order of the outline fitted to them, its folds cut out, passed", cl.Clean.Strategy, ge.Gate, ge.Seen))
+		return p
+	}
+	if p := retakenWay(cl.retaken(s), "the points retaken along the fitted outline"); p != nil {
+		return p, nil
 	}
 	if p := cl.strictOutliers(name, s, ge, &tried); p != nil {
 		return p, nil
 	}
-	if alt := cl.retakenPointwise(s); alt != nil {
-		tried = append(tried, "the points retaken one by one along the fitted outline")
-		if p, err := finishChain(name, alt, s, true); err == nil && !beyondInRuns(p.Fit) {
-			p.Section.Warnings = append(p.Section.Warnings, fmt.Sprintf("the %s order of the points failed the check %q (%s); the points retaken in the order of the outline fitted to them, its folds cut out, passed", cl.Clean.Strategy, ge.Gate, ge.Seen))
-			return p, nil
-		}
+	if p := retakenWay(cl.retakenPointwise(s), "the points retaken one by one along the fitted outline"); p != nil {
+		return p, nil
 	}
 	ge.Tried = tried
 	return nil, fmt.Errorf("%s: %w", strings.Join(cl.Files, ", "), ge)
