@@ -101,19 +101,26 @@ func TestEdgeUnsampledSharpCorner(t *testing.T) {
 	}
 }
 
+// nacaDense returns the outline of foil (NACA Report 824 equations) at m+1
+// cosine-spaced stations a surface, from the upper trailing-edge corner
+// over the nose (once) to the lower one.
+func nacaDense(foil shape.NACA4, m int) []geometry.Point {
+	var dense []geometry.Point
+	for i := m; i >= 0; i-- {
+		dense = append(dense, foil.Upper(0.5*(1-math.Cos(math.Pi*float64(i)/float64(m)))))
+	}
+	for i := 1; i <= m; i++ {
+		dense = append(dense, foil.Lower(0.5*(1-math.Cos(math.Pi*float64(i)/float64(m)))))
+	}
+	return dense
+}
+
 // nacaArcStations returns k stations evenly spaced in arc length along
 // the outline of foil (NACA Report 824 equations) from the upper
 // trailing-edge corner over the nose to the lower one, both corners
 // included, through a dense polyline of the outline.
 func nacaArcStations(foil shape.NACA4, k int) []geometry.Point {
-	const m = 4000
-	var dense []geometry.Point
-	for i := m; i >= 0; i-- {
-		dense = append(dense, foil.Upper(0.5*(1-math.Cos(math.Pi*float64(i)/m))))
-	}
-	for i := 1; i <= m; i++ {
-		dense = append(dense, foil.Lower(0.5*(1-math.Cos(math.Pi*float64(i)/m))))
-	}
+	dense := nacaDense(foil, 4000)
 	s := make([]float64, len(dense))
 	for i := 1; i < len(dense); i++ {
 		s[i] = s[i-1] + dense[i].Dist(dense[i-1])

@@ -102,14 +102,7 @@ func TestEdgeEvenStepsOpenBase(t *testing.T) {
 // with log-normal steps of mean h and σ sigma of their logs, noise nz
 // (chord units) and the count of points that fell on the base.
 func onePassLoop(foil shape.NACA4, h, sigma, nz float64, rng *rand.Rand) ([]geometry.Point, int) {
-	const m = 6000
-	var line []geometry.Point
-	for i := m; i >= 0; i-- {
-		line = append(line, foil.Upper(0.5*(1-math.Cos(math.Pi*float64(i)/m))))
-	}
-	for i := 1; i <= m; i++ {
-		line = append(line, foil.Lower(0.5*(1-math.Cos(math.Pi*float64(i)/m))))
-	}
+	line := nacaDense(foil, 6000)
 	// The base, from the lower corner back to the upper one (the first
 	// point): the loop is closed.
 	line = append(line, line[0])
