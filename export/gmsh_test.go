@@ -67,7 +67,7 @@ func TestGmshMeshes(t *testing.T) {
 				q := m.nodes[id]
 				best := math.Inf(1)
 				for i := range out2 {
-					best = math.Min(best, segDist(q, out2[i], out2[(i+1)%len(out2)]))
+					best = math.Min(best, geometry.SegmentDist(q, out2[i], out2[(i+1)%len(out2)]))
 				}
 				worst = math.Max(worst, best)
 			}
@@ -77,12 +77,6 @@ func TestGmshMeshes(t *testing.T) {
 		}
 		t.Logf("sharp %v: %d nodes, %d triangles, %d section edges, section nodes within %.2g chord of the outline", sharp, len(m.nodes), len(m.triangles), len(m.lines[1]), worst/p.Chord)
 	}
-}
-
-func segDist(q, a, b geometry.Point) float64 {
-	d := b.Sub(a)
-	u := math.Max(0, math.Min(1, q.Sub(a).Dot(d)/d.Dot(d)))
-	return q.Dist(a.Add(d.Scale(u)))
 }
 
 // loopArea returns the area enclosed by the line elements segs, chained.

@@ -42,6 +42,9 @@ func SegmentFoot(p, a, b Point) Point {
 	return a.Add(d.Scale(t))
 }
 
+// SegmentDist returns the distance of p from the segment from a to b.
+func SegmentDist(p, a, b Point) float64 { return p.Dist(SegmentFoot(p, a, b)) }
+
 // Rotate returns p rotated counter-clockwise by angle (radians) about the origin.
 func (p Point) Rotate(angle float64) Point {
 	s, c := math.Sincos(angle)

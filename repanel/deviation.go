@@ -75,7 +75,7 @@ func runDeviation(nodes []geometry.Point, at func(panel int, f float64) geometry
 	}
 	for i := lo; i < hi; i++ {
 		for k := 1; k < DeviationSamples; k++ {
-			d := segmentDistance(at(i, float64(k)/DeviationSamples), nodes[i], nodes[i+1])
+			d := geometry.SegmentDist(at(i, float64(k)/DeviationSamples), nodes[i], nodes[i+1])
 			if d > dev || panel < 0 && lo == 0 {
 				dev, panel = d, i
 			}
@@ -97,9 +97,6 @@ func Deviation(p geometry.Path, ss []float64) (dev float64, panel int) {
 		return p.At(ss[i] + f*(ss[i+1]-ss[i]))
 	})
 }
-
-// segmentDistance returns the distance from q to the segment from a to b.
-func segmentDistance(q, a, b geometry.Point) float64 { return q.Dist(geometry.SegmentFoot(q, a, b)) }
 
 // Count returns the smallest panel count n in [lo, hi] whose deviation
 // dev(n) is at most tol, and that deviation. The deviation of a smooth

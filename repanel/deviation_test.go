@@ -145,7 +145,7 @@ func TestPolygonDeviationRuns(t *testing.T) {
 		dev, panel := 0.0, -1
 		for i := 0; i+1 < len(nodes); i++ {
 			for k := 1; k < DeviationSamples; k++ {
-				d := segmentDistance(at(i, float64(k)/DeviationSamples), nodes[i], nodes[i+1])
+				d := geometry.SegmentDist(at(i, float64(k)/DeviationSamples), nodes[i], nodes[i+1])
 				if d > dev || panel < 0 {
 					dev, panel = d, i
 				}

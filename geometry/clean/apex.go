@@ -123,7 +123,7 @@ func apexes(pts []geometry.Point, seq []int32, hits []hit, scale float64, faceOn
 					continue
 				}
 				for _, i := range run {
-					d := segmentDist(pts[i], a, b)
+					d := geometry.SegmentDist(pts[i], a, b)
 					sg := 0.0
 					if scale > 0 {
 						sg = d / scale
@@ -152,7 +152,7 @@ func apexes(pts []geometry.Point, seq []int32, hits []hit, scale float64, faceOn
 // the segment ab.
 func standsOut(pts []geometry.Point, run []int32, a, b geometry.Point, d float64) bool {
 	for _, i := range run {
-		if segmentDist(pts[i], a, b) <= d {
+		if geometry.SegmentDist(pts[i], a, b) <= d {
 			return false
 		}
 	}
@@ -200,7 +200,7 @@ func onFace(pts []geometry.Point, seq, run []int32, a, b geometry.Point, dropped
 		return false
 	}
 	p := pts[run[0]]
-	h := segmentDist(p, a, b)
+	h := geometry.SegmentDist(p, a, b)
 	tol := max(h/10, 3*scale)
 	if tol >= h/3 {
 		return false

@@ -177,9 +177,6 @@ func surfaceMiss(q quadFit, xEnd float64, p geometry.Point) float64 {
 	return p.Dist(geometry.Point{X: xEnd, Y: q.at(xEnd)})
 }
 
-// segmentDist returns the distance of p from the segment a–b.
-func segmentDist(p, a, b geometry.Point) float64 { return p.Dist(geometry.SegmentFoot(p, a, b)) }
-
 // miss returns the distance of p from the model: from the nearer surface
 // and from the piece that joins them, and which it is nearest to: −1 the
 // lower surface, 0 the joining piece, +1 the upper surface.
@@ -194,7 +191,7 @@ func (m *endModel) miss(u, l quadFit, p geometry.Point) (float64, int) {
 	case EdgeSharp:
 		de = p.Dist(m.corner)
 	case EdgeBlunt:
-		de = segmentDist(p, m.lo, m.hi)
+		de = geometry.SegmentDist(p, m.lo, m.hi)
 	default:
 		v := p.Sub(m.centre)
 		a, al, au := math.Atan2(v.Y, v.X), math.Atan2(m.tl.Y-m.centre.Y, m.tl.X-m.centre.X), math.Atan2(m.tu.Y-m.centre.Y, m.tu.X-m.centre.X)
@@ -606,7 +603,7 @@ func endGap(pts []geometry.Point, loop []int32, nu, nl int, tip geometry.Point) 
 		sum += d
 		top = max(top, d)
 		if k >= -nl-1 && k < nu {
-			if e := segmentDist(tip, a, b); e < gd {
+			if e := geometry.SegmentDist(tip, a, b); e < gd {
 				g, gd = d, e
 			}
 		}
@@ -1115,7 +1112,7 @@ func polyApart(a, b [][]geometry.Point) float64 {
 			e := math.Inf(1)
 			for _, pb := range b {
 				for k := 1; k < len(pb); k++ {
-					e = min(e, segmentDist(p, pb[k-1], pb[k]))
+					e = min(e, geometry.SegmentDist(p, pb[k-1], pb[k]))
 				}
 			}
 			d = max(d, e)
