@@ -257,12 +257,29 @@ func (c camberLine) at(x float64) float64 {
 func camber(xs, ys, ws []float64) camberLine {
 	n := len(xs)
 	nb := min(max(n/12, 8), 64)
+	// The bins share one array, each point in the order of xs: counted
+	// first, then placed (a slice grown per bin copied each point about
+	// twice).
+	binOf := func(x float64) int { return min(int(x*float64(nb)), nb-1) }
+	at := make([]int, nb+1)
+	for _, x := range xs {
+		if x >= 0 && x <= 1 {
+			at[binOf(x)+1]++
+		}
+	}
+	for k := range nb {
+		at[k+1] += at[k]
+	}
+	all := make([]weighted, at[nb])
 	bins := make([][]weighted, nb)
+	for k := range bins {
+		bins[k] = all[at[k]:at[k]:at[k+1]]
+	}
 	for i, x := range xs {
 		if x < 0 || x > 1 {
 			continue
 		}
-		k := min(int(x*float64(nb)), nb-1)
+		k := binOf(x)
 		bins[k] = append(bins[k], weighted{ys[i], weightOf(ws, i)})
 	}
 	var bx, by []float64

@@ -248,7 +248,10 @@ func Normalize(cv *curve.Curve, opts Options) (*Normalized, error) {
 	}
 	le := treated.At(sLE)
 	fr := fromEdges(le, te, false)
-	chord := fr.apply(treated)
+	var chord *curve.Curve
+	if opts.Mirror != MirrorYes {
+		chord = fr.apply(treated) // a mirrored section is mapped below
+	}
 	var mirrored bool
 	switch opts.Mirror {
 	case MirrorYes:
