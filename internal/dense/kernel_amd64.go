@@ -7,6 +7,10 @@ import "golang.org/x/sys/cpu"
 // haveAVX2 reports whether the CPU runs the AVX2/FMA micro-kernel.
 var haveAVX2 = cpu.X86.HasAVX2 && cpu.X86.HasFMA
 
+// haveAVX512 reports whether the CPU (and the system, which must save the
+// registers) runs the AVX-512 micro-kernels of kernel512_amd64.s.
+var haveAVX512 = haveAVX2 && cpu.X86.HasAVX512F
+
 // kernAVX2 is the micro-kernel in assembly (kernel_amd64.s).
 //
 //go:noescape
@@ -17,6 +21,16 @@ func kernAVX2(k int, a, b, c *float64, ldc int)
 func kernFast(k int, a, b, c []float64, ldc int) {
 	kernAVX2(k, &a[0], &b[0], &c[0], ldc)
 }
+
+// kern12x16AVX512 and kern6x16AVX512 are the micro-kernels on tiles of 16
+// columns (kernel512_amd64.s): b points at two packed slivers of B, k·nr
+// apart, and a at two packed slivers of A, k·mr apart (one for kern6x16).
+//
+//go:noescape
+func kern12x16AVX512(k int, a, b, c *float64, ldc int)
+
+//go:noescape
+func kern6x16AVX512(k int, a, b, c *float64, ldc int)
 
 //go:noescape
 func axpyAVX2(alpha float64, x, y *float64, n int)

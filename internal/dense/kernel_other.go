@@ -5,6 +5,13 @@ package dense
 // haveAVX2 is false where the assembly micro-kernel is not built.
 const haveAVX2 = false
 
+// haveAVX512 is false where the assembly micro-kernels are not built.
+const haveAVX512 = false
+
+func kern12x16AVX512(k int, a, b, c *float64, ldc int) { panic("dense: no assembly") }
+
+func kern6x16AVX512(k int, a, b, c *float64, ldc int) { panic("dense: no assembly") }
+
 func kernFast(k int, a, b, c []float64, ldc int) { kernGo(k, a, b, c, ldc) }
 
 func axpyAVX2(alpha float64, x, y *float64, n int) { panic("dense: no assembly") }

@@ -17,30 +17,43 @@ type setting struct {
 	asm     bool
 	workers int
 	backend bool
+	asm512  bool // with asm, the AVX-512 products
+}
+
+// kernelSet is a choice of micro-kernels: Go, AVX2, AVX2 with AVX-512.
+type kernelSet struct{ asm, asm512 bool }
+
+// kernelSets returns the choices this CPU runs.
+func kernelSets() []kernelSet {
+	s := []kernelSet{{false, false}}
+	if haveAVX2 {
+		s = append(s, kernelSet{true, false})
+	}
+	if haveAVX512 {
+		s = append(s, kernelSet{true, true})
+	}
+	return s
 }
 
 // settings returns every way this build can factor.
 func settings() []setting {
 	var s []setting
-	for _, asm := range []bool{false, true} {
-		if asm && !haveAVX2 {
-			continue
-		}
+	for _, k := range kernelSets() {
 		for _, w := range []int{1, 2} {
-			s = append(s, setting{fmt.Sprintf("asm=%v,workers=%d", asm, w), asm, w, false})
+			s = append(s, setting{fmt.Sprintf("asm=%v,avx512=%v,workers=%d", k.asm, k.asm512, w), k.asm, w, false, k.asm512})
 		}
 	}
 	if haveBackend {
-		s = append(s, setting{"openblas", false, 0, true})
+		s = append(s, setting{"openblas", false, 0, true, false})
 	}
 	return s
 }
 
 // with runs f under the setting s and restores the defaults.
 func with(s setting, f func()) {
-	asm, workers, backend := useAsm, maxWorkers, useBackend
-	defer func() { useAsm, maxWorkers, useBackend = asm, workers, backend }()
-	useAsm, maxWorkers, useBackend = s.asm, s.workers, s.backend
+	asm, asm512, workers, backend := useAsm, useAVX512, maxWorkers, useBackend
+	defer func() { useAsm, useAVX512, maxWorkers, useBackend = asm, asm512, workers, backend }()
+	useAsm, useAVX512, maxWorkers, useBackend = s.asm, s.asm512, s.workers, s.backend
 	f()
 }
 
@@ -380,7 +393,7 @@ func TestWorkersGiveSameFactors(t *testing.T) {
 		a := randomMatrix(rng, n)
 		var first []float64
 		for _, w := range []int{1, 2, 3} {
-			with(setting{asm: useAsm, workers: w}, func() {
+			with(setting{asm: useAsm, asm512: useAVX512, workers: w}, func() {
 				var lu LU
 				lu.Factorize(n, append([]float64(nil), a...))
 				if first == nil {
@@ -393,16 +406,38 @@ func TestWorkersGiveSameFactors(t *testing.T) {
 	}
 }
 
+// TestAVX512SameFactors checks the claim of kernel512_amd64.s: the AVX-512
+// micro-kernels give the AVX2 path's factors bit for bit (each entry is
+// summed in the same order by fused multiply-adds), on every kind of step.
+func TestAVX512SameFactors(t *testing.T) {
+	if !haveAVX512 {
+		t.Skip("no AVX-512 on this machine")
+	}
+	rng := rand.New(rand.NewPCG(21, 22))
+	for _, n := range []int{unblockedMax + 1, blockMin - 1, 257, 401, 520} {
+		a := randomMatrix(rng, n)
+		var got [2][]float64
+		for i, on := range []bool{false, true} {
+			with(setting{asm: true, asm512: on, workers: 2}, func() {
+				var lu LU
+				lu.Factorize(n, append([]float64(nil), a...))
+				got[i] = lu.a
+			})
+		}
+		if !equalSlices(got[0], got[1]) {
+			t.Errorf("n=%d: the factors with AVX-512 differ from those with AVX2 alone", n)
+		}
+	}
+}
+
 // TestKernels checks the micro-kernel in Go, and in assembly where the CPU
 // has it, against a plain triple loop, and gemmSub on every edge shape.
 func TestKernels(t *testing.T) {
 	rng := rand.New(rand.NewPCG(13, 14))
-	for _, asm := range []bool{false, true} {
-		if asm && !haveAVX2 {
-			continue
-		}
-		with(setting{asm: asm, workers: 1}, func() {
-			for _, d := range [][3]int{{1, 1, 1}, {5, 7, 3}, {6, 8, 4}, {13, 17, 5}, {97, 33, 64}, {200, 530, 300}} {
+	for _, ks := range kernelSets() {
+		asm := ks
+		with(setting{asm: ks.asm, asm512: ks.asm512, workers: 1}, func() {
+			for _, d := range [][3]int{{1, 1, 1}, {5, 7, 3}, {6, 8, 4}, {13, 17, 5}, {19, 48, 7}, {18, 16, 9}, {97, 33, 64}, {200, 530, 300}} {
 				m, n, k := d[0], d[1], d[2]
 				lda, ldb, ldc := k+3, n+1, n+5
 				a, b, c := randomMatrix(rng, max(m, k)+3), randomMatrix(rng, max(k, n)+5), randomMatrix(rng, max(m, n)+5)
