@@ -197,11 +197,20 @@ func (f *factorizer) swapRows(p0, p1, c0, c1 int) {
 	n, a := f.n, f.a
 	for i := p0; i < p1; i++ {
 		if p := f.ipiv[i]; p != i {
-			ri, rp := a[i*n+c0:i*n+c1], a[p*n+c0:p*n+c1]
-			for j := range ri {
-				ri[j], rp[j] = rp[j], ri[j]
-			}
+			swap(a[i*n+c0:i*n+c1], a[p*n+c0:p*n+c1])
 		}
+	}
+}
+
+// swap exchanges the entries of x and y, of the same length.
+func swap(x, y []float64) {
+	y = y[:len(x)]
+	if useAsm && useAVX512 && len(x) > 0 {
+		swapAVX512(&x[0], &y[0], len(x))
+		return
+	}
+	for j := range x {
+		x[j], y[j] = y[j], x[j]
 	}
 }
 
@@ -268,7 +277,7 @@ func (f *factorizer) factorColumns(d, w int) {
 		inv := 1 / piv
 		if useAsm && !small {
 			_ = a[(n-1)*n+e-1] // the last row the kernel touches
-			p = j + rank1AVX2(&a[j*n+j], n, n-1-j, e-j, inv)
+			p = j + rank1(&a[j*n+j], n, n-1-j, e-j, inv)
 			continue
 		}
 		p, best = next, -1
@@ -294,6 +303,15 @@ func (f *factorizer) factorColumns(d, w int) {
 			}
 		}
 	}
+}
+
+// rank1 runs the assembly elimination step (rank1AVX2), with AVX-512 for
+// the narrow rows of a panel's columns where the CPU has it.
+func rank1(a *float64, lda, rows, w int, inv float64) int {
+	if useAVX512 && w >= 2 && w <= 9 {
+		return rank1AVX512(a, lda, rows, w, inv)
+	}
+	return rank1AVX2(a, lda, rows, w, inv)
 }
 
 // unblocked factors the whole matrix column by column: whole-row swaps,
@@ -338,7 +356,7 @@ func (f *factorizer) unblocked() {
 		inv := 1 / piv
 		if useAsm && !small {
 			_ = a[(n-1)*n+n-1] // the last row the kernel touches
-			p = k + rank1AVX2(&a[k*n+k], n, n-1-k, n-k, inv)
+			p = k + rank1(&a[k*n+k], n, n-1-k, n-k, inv)
 			continue
 		}
 		p, best = next, -1

@@ -110,7 +110,9 @@ func packB(dst, b []float64, ldb, k, n int) {
 		w := min(nr, n-j0)
 		if w == nr {
 			for p := range k {
-				copy(d[p*nr:p*nr+nr], b[p*ldb+j0:p*ldb+j0+nr])
+				// An array assignment, which the compiler inlines,
+				// rather than copy's call for 64 bytes.
+				*(*[nr]float64)(d[p*nr:]) = *(*[nr]float64)(b[p*ldb+j0:])
 			}
 			continue
 		}
@@ -152,39 +154,46 @@ func gemmPacked(m, n, k int, ap, bp []float64, c []float64, ldc int) {
 }
 
 // gemmPacked16 is gemmPacked on the AVX-512 micro-kernels, for the columns
-// [0, n − n%16) that fill tiles of 16 (two slivers of B), of which it
-// returns the end: tiles of 12 rows, then one of 6, then the last rows
-// through a scratch tile. The entries are the same, bit for bit, as the
-// 6×8 kernel's.
+// [0, n − n%8) that fill whole slivers of B, of which it returns the end:
+// tiles of 16 columns (two slivers), then one of 8; in each, tiles of 12
+// rows, then one of 6, then the last rows through a scratch tile. The
+// entries are the same, bit for bit, as the 6×8 kernel's.
 func gemmPacked16(m, n, k int, ap, bp []float64, c []float64, ldc int) int {
-	const nw = 2 * nr
-	var tmp [mr * nw]float64
-	end := n - n%nw
-	for jr := 0; jr < end; jr += nw {
+	var tmp [mr * 2 * nr]float64
+	end := n - n%nr
+	for jr := 0; jr < end; {
+		nw := 2 * nr
+		k12, k6 := kern12x16AVX512, kern6x16AVX512
+		if jr+nw > end {
+			nw = nr
+			k12, k6 = kern12x8AVX512, kern6x8AVX512
+		}
 		bs := bp[jr*k : jr*k+nw*k]
 		ir := 0
 		for ; ir+2*mr <= m; ir += 2 * mr {
 			as := ap[ir*k : ir*k+2*mr*k]
 			_ = c[(ir+2*mr-1)*ldc+jr+nw-1]
-			kern12x16AVX512(k, &as[0], &bs[0], &c[ir*ldc+jr], ldc)
+			k12(k, &as[0], &bs[0], &c[ir*ldc+jr], ldc)
 		}
 		if ir+mr <= m {
 			as := ap[ir*k : ir*k+mr*k]
 			_ = c[(ir+mr-1)*ldc+jr+nw-1]
-			kern6x16AVX512(k, &as[0], &bs[0], &c[ir*ldc+jr], ldc)
+			k6(k, &as[0], &bs[0], &c[ir*ldc+jr], ldc)
 			ir += mr
 		}
 		if ir < m {
 			as := ap[ir*k : ir*k+mr*k]
-			tmp = [mr * nw]float64{}
-			kern6x16AVX512(k, &as[0], &bs[0], &tmp[0], nw)
+			t := tmp[:mr*nw]
+			clear(t)
+			k6(k, &as[0], &bs[0], &t[0], nw)
 			for r := range m - ir {
 				cr := c[(ir+r)*ldc+jr : (ir+r)*ldc+jr+nw]
 				for j := range cr {
-					cr[j] += tmp[r*nw+j]
+					cr[j] += t[r*nw+j]
 				}
 			}
 		}
+		jr += nw
 	}
 	return end
 }

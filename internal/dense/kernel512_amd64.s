@@ -287,3 +287,266 @@ loop:
 	VMOVUPD Z25, 64(DX)
 	VZEROUPPER
 	RET
+
+// func kern12x8AVX512(k int, a, b, c *float64, ldc int)
+//
+// C[0:12][0:8] -= Σ_p A[r][p]·b[8p+j] for two packed 6-row slivers of A (at a
+// and a + 6k), a packed 8-column sliver b and a row-major tile c with row
+// stride ldc. Z0–Z11 hold the tile (row r in Zr), Z24 the row of b, Z26
+// the broadcast entry of A.
+// The same results, bit for bit, as kernAVX2. k ≥ 1.
+TEXT ·kern12x8AVX512(SB), NOSPLIT, $0-40
+	MOVQ k+0(FP), CX
+	MOVQ a+8(FP), SI
+	MOVQ b+16(FP), DI
+	MOVQ c+24(FP), DX
+	MOVQ ldc+32(FP), R8
+	SHLQ $3, R8
+	LEAQ (CX)(CX*2), R10
+	SHLQ $4, R10          // 6k entries, in bytes: the second sliver of A
+	LEAQ (SI)(R10*1), R9
+	VPXORQ Z0, Z0, Z0
+	VPXORQ Z1, Z1, Z1
+	VPXORQ Z2, Z2, Z2
+	VPXORQ Z3, Z3, Z3
+	VPXORQ Z4, Z4, Z4
+	VPXORQ Z5, Z5, Z5
+	VPXORQ Z6, Z6, Z6
+	VPXORQ Z7, Z7, Z7
+	VPXORQ Z8, Z8, Z8
+	VPXORQ Z9, Z9, Z9
+	VPXORQ Z10, Z10, Z10
+	VPXORQ Z11, Z11, Z11
+
+loop:
+	VMOVUPD (DI), Z24
+	VFMADD231PD.BCST 0(SI), Z24, Z0
+	VFMADD231PD.BCST 8(SI), Z24, Z1
+	VFMADD231PD.BCST 16(SI), Z24, Z2
+	VFMADD231PD.BCST 24(SI), Z24, Z3
+	VFMADD231PD.BCST 32(SI), Z24, Z4
+	VFMADD231PD.BCST 40(SI), Z24, Z5
+	VFMADD231PD.BCST 0(R9), Z24, Z6
+	VFMADD231PD.BCST 8(R9), Z24, Z7
+	VFMADD231PD.BCST 16(R9), Z24, Z8
+	VFMADD231PD.BCST 24(R9), Z24, Z9
+	VFMADD231PD.BCST 32(R9), Z24, Z10
+	VFMADD231PD.BCST 40(R9), Z24, Z11
+	ADDQ $48, SI
+	ADDQ $48, R9
+	ADDQ $64, DI
+	DECQ CX
+	JNZ  loop
+
+	VMOVUPD (DX), Z24
+	VSUBPD  Z0, Z24, Z24
+	VMOVUPD Z24, (DX)
+	ADDQ    R8, DX
+	VMOVUPD (DX), Z24
+	VSUBPD  Z1, Z24, Z24
+	VMOVUPD Z24, (DX)
+	ADDQ    R8, DX
+	VMOVUPD (DX), Z24
+	VSUBPD  Z2, Z24, Z24
+	VMOVUPD Z24, (DX)
+	ADDQ    R8, DX
+	VMOVUPD (DX), Z24
+	VSUBPD  Z3, Z24, Z24
+	VMOVUPD Z24, (DX)
+	ADDQ    R8, DX
+	VMOVUPD (DX), Z24
+	VSUBPD  Z4, Z24, Z24
+	VMOVUPD Z24, (DX)
+	ADDQ    R8, DX
+	VMOVUPD (DX), Z24
+	VSUBPD  Z5, Z24, Z24
+	VMOVUPD Z24, (DX)
+	ADDQ    R8, DX
+	VMOVUPD (DX), Z24
+	VSUBPD  Z6, Z24, Z24
+	VMOVUPD Z24, (DX)
+	ADDQ    R8, DX
+	VMOVUPD (DX), Z24
+	VSUBPD  Z7, Z24, Z24
+	VMOVUPD Z24, (DX)
+	ADDQ    R8, DX
+	VMOVUPD (DX), Z24
+	VSUBPD  Z8, Z24, Z24
+	VMOVUPD Z24, (DX)
+	ADDQ    R8, DX
+	VMOVUPD (DX), Z24
+	VSUBPD  Z9, Z24, Z24
+	VMOVUPD Z24, (DX)
+	ADDQ    R8, DX
+	VMOVUPD (DX), Z24
+	VSUBPD  Z10, Z24, Z24
+	VMOVUPD Z24, (DX)
+	ADDQ    R8, DX
+	VMOVUPD (DX), Z24
+	VSUBPD  Z11, Z24, Z24
+	VMOVUPD Z24, (DX)
+	VZEROUPPER
+	RET
+
+// func kern6x8AVX512(k int, a, b, c *float64, ldc int)
+//
+// C[0:6][0:8] -= Σ_p a[6p+r]·b[8p+j], kernAVX2's tile in six registers
+// Z0–Z5, Z24 the row of b, Z26 the broadcast entry of a.
+// The same results, bit for bit, as kernAVX2. k ≥ 1.
+TEXT ·kern6x8AVX512(SB), NOSPLIT, $0-40
+	MOVQ k+0(FP), CX
+	MOVQ a+8(FP), SI
+	MOVQ b+16(FP), DI
+	MOVQ c+24(FP), DX
+	MOVQ ldc+32(FP), R8
+	SHLQ $3, R8
+	VPXORQ Z0, Z0, Z0
+	VPXORQ Z1, Z1, Z1
+	VPXORQ Z2, Z2, Z2
+	VPXORQ Z3, Z3, Z3
+	VPXORQ Z4, Z4, Z4
+	VPXORQ Z5, Z5, Z5
+
+loop:
+	VMOVUPD (DI), Z24
+	VFMADD231PD.BCST 0(SI), Z24, Z0
+	VFMADD231PD.BCST 8(SI), Z24, Z1
+	VFMADD231PD.BCST 16(SI), Z24, Z2
+	VFMADD231PD.BCST 24(SI), Z24, Z3
+	VFMADD231PD.BCST 32(SI), Z24, Z4
+	VFMADD231PD.BCST 40(SI), Z24, Z5
+	ADDQ $48, SI
+	ADDQ $64, DI
+	DECQ CX
+	JNZ  loop
+
+	VMOVUPD (DX), Z24
+	VSUBPD  Z0, Z24, Z24
+	VMOVUPD Z24, (DX)
+	ADDQ    R8, DX
+	VMOVUPD (DX), Z24
+	VSUBPD  Z1, Z24, Z24
+	VMOVUPD Z24, (DX)
+	ADDQ    R8, DX
+	VMOVUPD (DX), Z24
+	VSUBPD  Z2, Z24, Z24
+	VMOVUPD Z24, (DX)
+	ADDQ    R8, DX
+	VMOVUPD (DX), Z24
+	VSUBPD  Z3, Z24, Z24
+	VMOVUPD Z24, (DX)
+	ADDQ    R8, DX
+	VMOVUPD (DX), Z24
+	VSUBPD  Z4, Z24, Z24
+	VMOVUPD Z24, (DX)
+	ADDQ    R8, DX
+	VMOVUPD (DX), Z24
+	VSUBPD  Z5, Z24, Z24
+	VMOVUPD Z24, (DX)
+	VZEROUPPER
+	RET
+
+// func rank1AVX512(a *float64, lda, rows, w int, inv float64) (pivot int)
+//
+// rank1AVX2 (kernel_amd64.s) for 2 ≤ w ≤ 9: the entries 1 … w−1 of a row
+// in one masked register, u (the pivot row's) loaded once, and the next
+// column's pivot read from the register rather than from the row just
+// stored. The same results, bit for bit.
+TEXT ·rank1AVX512(SB), NOSPLIT, $0-48
+	MOVQ         a+0(FP), SI
+	MOVQ         lda+8(FP), R8
+	SHLQ         $3, R8
+	MOVQ         rows+16(FP), R9
+	MOVQ         w+24(FP), CX
+	DECQ         CX                // entries after the first, 1 … 8
+	MOVQ         $1, R10
+	SHLQ         CX, R10
+	DECQ         R10
+	KMOVQ        R10, K1           // their lanes
+	VMOVUPD.Z    8(SI), K1, Z3     // u
+	VMOVSD       inv+32(FP), X15
+	MOVQ         $1, AX            // pivot
+	MOVQ         $1, R11           // row
+	VPCMPEQQ     Y13, Y13, Y13
+	VPSRLQ       $1, Y13, Y13      // |x| mask
+	MOVQ         $0xBFF0000000000000, R12
+	MOVQ         R12, X14          // largest magnitude so far: −1 to start
+	TESTQ        R9, R9
+	JLE          done
+
+rowloop:
+	ADDQ         R8, SI            // row r
+	VMOVSD       (SI), X0
+	VMULSD       X15, X0, X0
+	VMOVSD       X0, (SI)
+	VBROADCASTSD X0, Z1            // l in every lane
+	VMOVUPD.Z    8(SI), K1, Z2
+	VFNMADD231PD Z3, Z1, Z2
+	VMOVUPD      Z2, K1, 8(SI)
+	VANDPD       X13, X2, X4
+	VUCOMISD     X14, X4           // |a[r][1]| > largest? (false for NaN)
+	JBE          next
+	VMOVSD       X4, X14, X14
+	MOVQ         R11, AX
+
+next:
+	INCQ R11
+	CMPQ R11, R9
+	JLE  rowloop
+
+done:
+	VZEROUPPER
+	MOVQ AX, pivot+40(FP)
+	RET
+
+// func swapAVX512(x, y *float64, n int)
+//
+// Exchanges x[i] and y[i] for i < n (n ≥ 1): sixteen entries per
+// iteration, then eight, then the last ones under a mask.
+TEXT ·swapAVX512(SB), NOSPLIT, $0-24
+	MOVQ x+0(FP), SI
+	MOVQ y+8(FP), DI
+	MOVQ n+16(FP), CX
+
+s16:
+	CMPQ    CX, $16
+	JLT     s8
+	VMOVUPD (SI), Z0
+	VMOVUPD 64(SI), Z1
+	VMOVUPD (DI), Z2
+	VMOVUPD 64(DI), Z3
+	VMOVUPD Z2, (SI)
+	VMOVUPD Z3, 64(SI)
+	VMOVUPD Z0, (DI)
+	VMOVUPD Z1, 64(DI)
+	ADDQ    $128, SI
+	ADDQ    $128, DI
+	SUBQ    $16, CX
+	JMP     s16
+
+s8:
+	CMPQ    CX, $8
+	JLT     tail
+	VMOVUPD (SI), Z0
+	VMOVUPD (DI), Z2
+	VMOVUPD Z2, (SI)
+	VMOVUPD Z0, (DI)
+	ADDQ    $64, SI
+	ADDQ    $64, DI
+	SUBQ    $8, CX
+
+tail:
+	TESTQ     CX, CX
+	JZ        done
+	MOVQ      $1, R10
+	SHLQ      CX, R10
+	DECQ      R10
+	KMOVQ     R10, K1
+	VMOVUPD.Z (SI), K1, Z0
+	VMOVUPD.Z (DI), K1, Z2
+	VMOVUPD   Z2, K1, (SI)
+	VMOVUPD   Z0, K1, (DI)
+
+done:
+	VZEROUPPER
+	RET

@@ -32,11 +32,30 @@ func kern12x16AVX512(k int, a, b, c *float64, ldc int)
 //go:noescape
 func kern6x16AVX512(k int, a, b, c *float64, ldc int)
 
+// kern12x8AVX512 and kern6x8AVX512 are the micro-kernels on tiles of one
+// sliver of B in AVX-512 registers.
+//
+//go:noescape
+func kern12x8AVX512(k int, a, b, c *float64, ldc int)
+
+//go:noescape
+func kern6x8AVX512(k int, a, b, c *float64, ldc int)
+
+// swapAVX512 exchanges x[i] and y[i] for i < n, n ≥ 1 (kernel512_amd64.s).
+//
+//go:noescape
+func swapAVX512(x, y *float64, n int)
+
 //go:noescape
 func axpyAVX2(alpha float64, x, y *float64, n int)
 
 //go:noescape
 func dotAVX2(x, y *float64, n int) float64
+
+// rank1AVX512 is rank1AVX2 for 2 ≤ w ≤ 9 (kernel512_amd64.s).
+//
+//go:noescape
+func rank1AVX512(a *float64, lda, rows, w int, inv float64) (pivot int)
 
 //go:noescape
 func rank1AVX2(a *float64, lda, rows, w int, inv float64) (pivot int)

@@ -12,11 +12,21 @@ func kern12x16AVX512(k int, a, b, c *float64, ldc int) { panic("dense: no assemb
 
 func kern6x16AVX512(k int, a, b, c *float64, ldc int) { panic("dense: no assembly") }
 
+func swapAVX512(x, y *float64, n int) { panic("dense: no assembly") }
+
+func kern12x8AVX512(k int, a, b, c *float64, ldc int) { panic("dense: no assembly") }
+
+func kern6x8AVX512(k int, a, b, c *float64, ldc int) { panic("dense: no assembly") }
+
 func kernFast(k int, a, b, c []float64, ldc int) { kernGo(k, a, b, c, ldc) }
 
 func axpyAVX2(alpha float64, x, y *float64, n int) { panic("dense: no assembly") }
 
 func dotAVX2(x, y *float64, n int) float64 { panic("dense: no assembly") }
+
+func rank1AVX512(a *float64, lda, rows, w int, inv float64) (pivot int) {
+	panic("dense: no assembly")
+}
 
 func rank1AVX2(a *float64, lda, rows, w int, inv float64) (pivot int) { panic("dense: no assembly") }
 

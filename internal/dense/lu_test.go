@@ -470,35 +470,46 @@ func TestRank1(t *testing.T) {
 		t.Skip("no AVX2/FMA on this machine: the Go loop runs")
 	}
 	rng := rand.New(rand.NewPCG(15, 16))
-	for rows := 0; rows < 7; rows++ {
-		for w := 1; w < 40; w++ {
-			lda := w + 3
-			buf := make([]float64, (rows+3)*lda)
-			for i := range buf {
-				buf[i] = rng.NormFloat64()
-			}
-			a := buf[lda : lda+(rows+1)*lda] // the pivot row and rows below, with sentinel rows around
-			want := append([]float64(nil), buf...)
-			inv := 1 / a[0]
-			wantPiv, best := 1, -1.0
-			for r := 1; r <= rows; r++ {
-				row := want[lda+r*lda : lda+r*lda+w]
-				l := row[0] * inv
-				row[0] = l
-				for c := 1; c < w; c++ {
-					row[c] = math.FMA(-l, want[lda+c], row[c])
+	type impl struct {
+		name       string
+		f          func(a *float64, lda, rows, w int, inv float64) int
+		wMin, wMax int
+	}
+	impls := []impl{{"AVX2", rank1AVX2, 1, 39}}
+	if haveAVX512 {
+		impls = append(impls, impl{"AVX-512", rank1AVX512, 2, 9})
+	}
+	for _, im := range impls {
+		for rows := 0; rows < 7; rows++ {
+			for w := im.wMin; w <= im.wMax; w++ {
+				lda := w + 3
+				buf := make([]float64, (rows+3)*lda)
+				for i := range buf {
+					buf[i] = rng.NormFloat64()
 				}
-				if w > 1 && math.Abs(row[1]) > best {
-					best, wantPiv = math.Abs(row[1]), r
+				a := buf[lda : lda+(rows+1)*lda] // the pivot row and rows below, with sentinel rows around
+				want := append([]float64(nil), buf...)
+				inv := 1 / a[0]
+				wantPiv, best := 1, -1.0
+				for r := 1; r <= rows; r++ {
+					row := want[lda+r*lda : lda+r*lda+w]
+					l := row[0] * inv
+					row[0] = l
+					for c := 1; c < w; c++ {
+						row[c] = math.FMA(-l, want[lda+c], row[c])
+					}
+					if w > 1 && math.Abs(row[1]) > best {
+						best, wantPiv = math.Abs(row[1]), r
+					}
 				}
-			}
-			piv := rank1AVX2(&a[0], lda, rows, w, inv)
-			if piv != wantPiv {
-				t.Errorf("rows %d w %d: pivot %d, want %d", rows, w, piv, wantPiv)
-			}
-			for i := range buf {
-				if buf[i] != want[i] {
-					t.Fatalf("rows %d w %d: entry %d (row %d) is %g, want %g", rows, w, i, i/lda-1, buf[i], want[i])
+				piv := im.f(&a[0], lda, rows, w, inv)
+				if piv != wantPiv {
+					t.Errorf("%s rows %d w %d: pivot %d, want %d", im.name, rows, w, piv, wantPiv)
+				}
+				for i := range buf {
+					if buf[i] != want[i] {
+						t.Fatalf("%s rows %d w %d: entry %d (row %d) is %g, want %g", im.name, rows, w, i, i/lda-1, buf[i], want[i])
+					}
 				}
 			}
 		}
@@ -649,5 +660,29 @@ func TestPaths(t *testing.T) {
 	}
 	if Current() != paths[len(paths)-1] {
 		t.Errorf("restored to %v", Current())
+	}
+}
+
+// TestSwap checks the exchange of two row pieces (assembly where the CPU
+// has AVX-512) for lengths around its unrolling, with sentinels after them.
+func TestSwap(t *testing.T) {
+	for _, ks := range kernelSets() {
+		with(setting{asm: ks.asm, asm512: ks.asm512, workers: 1}, func() {
+			for n := range 40 {
+				x, y := make([]float64, n+1), make([]float64, n+1)
+				for i := range x {
+					x[i], y[i] = float64(i), -float64(i)-0.5
+				}
+				swap(x[:n], y[:n])
+				for i := range n {
+					if x[i] != -float64(i)-0.5 || y[i] != float64(i) {
+						t.Fatalf("%+v n %d: entry %d is %g, %g", ks, n, i, x[i], y[i])
+					}
+				}
+				if x[n] != float64(n) || y[n] != -float64(n)-0.5 {
+					t.Fatalf("%+v n %d: the sentinels changed", ks, n)
+				}
+			}
+		})
 	}
 }
