@@ -28,9 +28,30 @@ const (
 	// goroutines: at 200 rows one goroutine took 0.51–0.61 ms and two
 	// 0.59–0.67 ms, at 400 rows 2.06 ms and 1.62–1.72 ms.
 	parallelMin = 300
-	// blockSize is the width of the blocks.
+	// blockSize is the width of the blocks with the AVX2 or Go kernels.
 	blockSize = 64
+	// blockWideMin is the order from which the AVX-512 path takes blocks of
+	// 128 columns (96 below it): with the products at twice the AVX2 rate,
+	// wider blocks pay for their longer panels. Two goroutines, chrt,
+	// medians of 15: 401 rows 1.44 ms at 64 columns, 1.33 at 96, 1.41 at
+	// 128; 801 rows 6.25 / 5.97 / 5.74; 1601 rows 39.9 / 36.5 / 34.9.
+	blockWideMin = 700
 )
+
+// wideBlocks lets the AVX-512 path take its wider blocks; a test turns it
+// off to compare the kernels on the same blocking.
+var wideBlocks = true
+
+// blockFor returns the width of the blocks of a factorisation of order n.
+func blockFor(n int) int {
+	switch {
+	case !useAsm || !useAVX512 || !wideBlocks:
+		return blockSize
+	case n < blockWideMin:
+		return 96
+	}
+	return 128
+}
 
 // chunkCols returns the width of the pieces of a trailing update of rest
 // columns that the goroutines take in turn: about eight, so that a
@@ -98,7 +119,7 @@ func (f *factorizer) run() {
 		f.panel(0, n, ws[0])
 		return
 	}
-	nb := blockSize
+	nb := blockFor(n)
 	team := par.NewTeam(f.workers)
 	defer team.Close()
 	f.panel(0, min(nb, n), ws[0])
