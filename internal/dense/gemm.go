@@ -110,9 +110,12 @@ func packB(dst, b []float64, ldb, k, n int) {
 		w := min(nr, n-j0)
 		if w == nr {
 			for p := range k {
-				// An array assignment, which the compiler inlines,
-				// rather than copy's call for 64 bytes.
-				*(*[nr]float64)(d[p*nr:]) = *(*[nr]float64)(b[p*ldb+j0:])
+				// Through a local array, which the compiler moves in
+				// registers; copy, or an assignment between the two
+				// arrays (which might overlap), calls memmove for the
+				// 64 bytes.
+				v := *(*[nr]float64)(b[p*ldb+j0:])
+				*(*[nr]float64)(d[p*nr:]) = v
 			}
 			continue
 		}
