@@ -44,6 +44,10 @@ func gemmSub(m, n, k int, a []float64, lda int, b []float64, ldb int, c []float6
 			ncur := min(ncMax, n-jc)
 			bp := ws.bufB(kc * roundUp(ncur, nr))
 			packB(bp, b[pc*ldb+jc:], ldb, kc, ncur)
+			if useAsm && useAVX512 {
+				gemmInPlace(m, ncur, kc, a[pc:], lda, bp, c[jc:], ldc, ws)
+				continue
+			}
 			for ic := 0; ic < m; ic += mc {
 				mcur := min(mc, m-ic)
 				ap := ws.bufA(kc * roundUp(mcur, mr))
@@ -199,4 +203,50 @@ func gemmPacked16(m, n, k int, ap, bp []float64, c []float64, ldc int) int {
 		jr += nw
 	}
 	return end
+}
+
+// gemmInPlace computes C −= A·B for the row-major A (m×k, lda) and the
+// packed B (n columns), with the AVX-512 kernels that read A in place:
+// the products of gemmSub (a panel's, a triangular solve's) use each row
+// of A once, so packing it cost about as much as the product. The rows
+// past the last whole tile of 6, and the columns past the last whole
+// sliver, go packed through gemmPacked. The entries are the same, bit for
+// bit, as with A packed.
+func gemmInPlace(m, n, k int, a []float64, lda int, bp []float64, c []float64, ldc int, ws *workspace) {
+	end := n - n%nr
+	rows := m - m%mr
+	for jr := 0; jr < end; {
+		nw := 2 * nr
+		k12, k6 := kernU12x16AVX512, kernU6x16AVX512
+		if jr+nw > end {
+			nw = nr
+			k12, k6 = kernU12x8AVX512, kernU6x8AVX512
+		}
+		bs := bp[jr*k : jr*k+nw*k]
+		ir := 0
+		for ; ir+2*mr <= m; ir += 2 * mr {
+			_ = a[(ir+2*mr-1)*lda+k-1]
+			_ = c[(ir+2*mr-1)*ldc+jr+nw-1]
+			k12(k, &a[ir*lda], lda, &bs[0], &c[ir*ldc+jr], ldc)
+		}
+		if ir+mr <= m {
+			_ = a[(ir+mr-1)*lda+k-1]
+			_ = c[(ir+mr-1)*ldc+jr+nw-1]
+			k6(k, &a[ir*lda], lda, &bs[0], &c[ir*ldc+jr], ldc)
+		}
+		jr += nw
+	}
+	if rows < m {
+		ap := ws.bufA(k * mr)
+		packA(ap, a[rows*lda:], lda, m-rows, k)
+		gemmPacked(m-rows, n, k, ap, bp, c[rows*ldc:], ldc)
+	}
+	if end < n {
+		for ic := 0; ic < rows; ic += mc {
+			mcur := min(mc, rows-ic)
+			ap := ws.bufA(k * roundUp(mcur, mr))
+			packA(ap, a[ic*lda:], lda, mcur, k)
+			gemmPacked(mcur, n-end, k, ap, bp[end*k:], c[ic*ldc+end:], ldc)
+		}
+	}
 }

@@ -41,6 +41,22 @@ func kern12x8AVX512(k int, a, b, c *float64, ldc int)
 //go:noescape
 func kern6x8AVX512(k int, a, b, c *float64, ldc int)
 
+// kernU12x16AVX512, kernU6x16AVX512, kernU12x8AVX512 and kernU6x8AVX512
+// are the AVX-512 micro-kernels with A read in place, rows lda apart
+// (kernelu_amd64.s).
+//
+//go:noescape
+func kernU12x16AVX512(k int, a *float64, lda int, b, c *float64, ldc int)
+
+//go:noescape
+func kernU6x16AVX512(k int, a *float64, lda int, b, c *float64, ldc int)
+
+//go:noescape
+func kernU12x8AVX512(k int, a *float64, lda int, b, c *float64, ldc int)
+
+//go:noescape
+func kernU6x8AVX512(k int, a *float64, lda int, b, c *float64, ldc int)
+
 // swapAVX512 exchanges x[i] and y[i] for i < n, n ≥ 1 (kernel512_amd64.s).
 //
 //go:noescape

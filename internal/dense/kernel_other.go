@@ -12,6 +12,22 @@ func kern12x16AVX512(k int, a, b, c *float64, ldc int) { panic("dense: no assemb
 
 func kern6x16AVX512(k int, a, b, c *float64, ldc int) { panic("dense: no assembly") }
 
+func kernU12x16AVX512(k int, a *float64, lda int, b, c *float64, ldc int) {
+	panic("dense: no assembly")
+}
+
+func kernU6x16AVX512(k int, a *float64, lda int, b, c *float64, ldc int) {
+	panic("dense: no assembly")
+}
+
+func kernU12x8AVX512(k int, a *float64, lda int, b, c *float64, ldc int) {
+	panic("dense: no assembly")
+}
+
+func kernU6x8AVX512(k int, a *float64, lda int, b, c *float64, ldc int) {
+	panic("dense: no assembly")
+}
+
 func swapAVX512(x, y *float64, n int) { panic("dense: no assembly") }
 
 func kern12x8AVX512(k int, a, b, c *float64, ldc int) { panic("dense: no assembly") }
