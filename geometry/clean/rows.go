@@ -14,7 +14,7 @@ import (
 // out, and the orderings weave it into the nearer surface. strayRows finds
 // it before any ordering: a chain of linked points that is straight within
 // its own scatter, long, and apart from every other point (none lies
-// within a per cent of the points' extent, or twice the row's widest gap,
+// within a per cent of the points' extent, or three of the row's steps,
 // of any point of it, its ends included), with nothing beyond its ends
 // along its line. A stretch of the outline never stands apart: a straight
 // surface (a flat bottom, a flatback base, the flat aft part of a cambered
@@ -29,19 +29,22 @@ const rowMin = 12
 // fixture's few points, which the outlier tests drop.
 const rowLength = 0.15
 
-// rowFree is the largest gap within one row, in its median steps.
+// rowFree is the least clearance between a stray row and every other
+// point, in the row's median steps.
 const rowFree = 3
 
+// rowReach is the widest gap within one row, as a share of the diagonal
+// of the points' bounding box.
+const rowReach = rowLength
+
 // rowClear is the least clearance, as a share of the diagonal of the
-// points' bounding box, between a stray row and every other point; the
-// clearance is also at least twice the largest gap within the row. A
-// straight stretch of the outline that a gap or two in the sampling cut
-// off at its ends is nearer the rest than that: a table's edge or a
-// fixture's face a per cent or more of the part's size off it is not.
+// points' bounding box, between a stray row and every other point: a
+// table's edge or a fixture's face a per cent or more of the part's size
+// off it.
 const rowClear = 0.01
 
-// rowBand is the half-width of a row, in its robust scatter about its
-// line, within which points are taken into it.
+// rowBand is the half-width of a row's band, in its scatter about its
+// line; points within twice that are taken into it.
 const rowBand = 4
 
 // rowThin bounds a row's scatter about its line, as a share of its
@@ -143,11 +146,11 @@ func strayRows(pts []geometry.Point, g *graph, diag float64) []int32 {
 		if !ok || l.hi-l.lo < rowLength*diag/3 {
 			continue
 		}
-		row, gap := growRow(pts, c, l)
+		row := growRow(pts, c, l, rowReach*diag)
 		if len(row) < rowMin {
 			continue
 		}
-		if l, ok = fitRow(pts, row); !ok || l.hi-l.lo < rowLength*diag || !isolated(pts, row, l, max(2*gap, rowClear*diag)) ||
+		if l, ok = fitRow(pts, row); !ok || l.hi-l.lo < rowLength*diag || !isolated(pts, row, l, rowClear*diag) ||
 			continued(pts, row, l, diag) {
 			continue
 		}
@@ -165,12 +168,15 @@ func strayRows(pts []geometry.Point, g *graph, diag float64) []int32 {
 	return rows
 }
 
-// growRow returns the points within rowBand scatters of the line l that
-// form one run along it (no gap wider than rowFree median steps of the
-// chain c, or half as wide again as its widest step) with c, in order
-// along the line.
-func growRow(pts []geometry.Point, c []int32, l rowLine) ([]int32, float64) {
-	w := rowBand * l.scatter
+// growRow returns the points within twice rowBand scatters of the line l
+// (the chain's scatter: a row's own stray hits lie farther out) that
+// form one run along it with the chain c (no gap in it wider than reach),
+// in order along the line. The reach is generous: an uneven row's widest
+// gaps are many times its median step, and a straight stretch of the
+// outline grown across a hole in the sampling only meets the rest of the
+// outline sooner.
+func growRow(pts []geometry.Point, c []int32, l rowLine, reach float64) []int32 {
+	w := 2 * rowBand * l.scatter
 	type at struct {
 		i int32
 		u float64
@@ -191,41 +197,40 @@ func growRow(pts []geometry.Point, c []int32, l rowLine) ([]int32, float64) {
 		}
 		return int(a.i - b.i)
 	})
-	steps := make([]float64, 0, len(c))
-	for k := 1; k < len(c); k++ {
-		steps = append(steps, pts[c[k]].Dist(pts[c[k-1]]))
-	}
-	// An uneven row's steps are as uneven along its line as along the
-	// chain: a gap no wider than the chain's widest step is no end.
-	gap := max(rowFree*median(steps), 1.5*slices.Max(steps))
 	// The run through the chain's middle point.
 	mid := c[len(c)/2]
 	k := slices.IndexFunc(band, func(b at) bool { return b.i == mid })
-	if k < 0 || gap <= 0 {
-		return nil, 0
+	if k < 0 {
+		return nil
 	}
 	a, b := k, k
-	for a > 0 && band[a].u-band[a-1].u <= gap {
+	for a > 0 && band[a].u-band[a-1].u <= reach {
 		a--
 	}
-	for b < len(band)-1 && band[b+1].u-band[b].u <= gap {
+	for b < len(band)-1 && band[b+1].u-band[b].u <= reach {
 		b++
 	}
 	row := make([]int32, 0, b-a+1)
 	for _, x := range band[a : b+1] {
 		row = append(row, x.i)
 	}
-	return row, gap
+	return row
 }
 
-// isolated reports whether no point off the row lies within clear, and
-// twice the row's band's width, of any point of it (its ends included),
-// row being in order along its line l.
+// isolated reports whether no point off the row lies within clear (at
+// least rowFree of the row's median steps), and twice the row's band's
+// width, of any point of it (its ends included), row being in order along
+// its line l.
 func isolated(pts []geometry.Point, row []int32, l rowLine, clear float64) bool {
 	us := make([]float64, len(row))
 	for k, i := range row {
 		us[k] = pts[i].Sub(l.o).Dot(l.d)
 	}
+	steps := make([]float64, 0, len(row))
+	for k := 1; k < len(row); k++ {
+		steps = append(steps, pts[row[k]].Dist(pts[row[k-1]]))
+	}
+	clear = max(clear, rowFree*median(steps))
 	// A noisy band's points lie closer along it than across: a point of
 	// the same surface just outside the band is within twice its width.
 	reach := clear + 2*rowBand*l.scatter
