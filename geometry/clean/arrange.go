@@ -138,6 +138,9 @@ func (cl *cleaning) arrange(opts Options, sigma float64) (*attempt, error) {
 	if len(cl.pts) < minPoints {
 		return nil, fmt.Errorf("geometry: clean: %w: %d distinct point(s) after merging within %.3g, need at least %d", geometry.ErrTooFewPoints, len(cl.pts), cl.rep.MergeTol, minPoints)
 	}
+	if !opts.KeepOutliers {
+		cl.dropRows()
+	}
 	if opts.Order != "" {
 		return cl.only(opts, sigma)
 	}
@@ -362,8 +365,12 @@ func (cl *cleaning) fromFile(opts Options, sigma float64) *attempt {
 
 // linkLoops links the points into chains and joins them into loops.
 func (cl *cleaning) linkLoops() (loops, rest [][]int32) {
-	g := newGraph(len(cl.pts))
-	link(cl.pts, cl.nb, g)
+	g := cl.linked
+	cl.linked = nil
+	if g == nil {
+		g = newGraph(len(cl.pts))
+		link(cl.pts, cl.nb, g)
+	}
 	join(cl.pts, cl.nb, g)
 	return g.components(minPoints)
 }
