@@ -32,3 +32,28 @@ func TestTailSidesCases(t *testing.T) {
 		}
 	}
 }
+
+// TestLinkedLoopKeepsMore runs cases where the section order passed its
+// gates with good points dropped and outliers kept, while linking closed
+// one loop that kept more of the points (internal/scangen: invented
+// scans, noise, spacing and outliers), each wrong beyond its stated
+// uncertainty at the start of stop 25. 876: a burst of three slips
+// beside a nose sampled 0.011 c apart was taken for the surface and the
+// five good points after it dropped (twist 0.55° against 0.49°); 6542:
+// six good points of a two-pass probe near the nose dropped (nodes
+// 0.0083 c against 0.0056 c). Each must be within its bounds with no
+// more than two good points dropped.
+func TestLinkedLoopKeepsMore(t *testing.T) {
+	for _, seed := range []uint64{876, 6542} {
+		r, _, ok := runStated(t, seed)
+		if !ok {
+			continue
+		}
+		if r.Wrong != "" {
+			t.Errorf("case %d: wrong beyond its stated uncertainty (%s): chord off %.4f, twist %.3f°, node %.4f c; stated chord %.4g, twist %.3g°, surface %.4f c", seed, r.Wrong, r.ChordErr, r.TwistErr, r.NodeErr, r.Stated.Chord, r.Stated.TwistDeg, r.Stated.Surface)
+		}
+		if r.GoodDropped > 2 {
+			t.Errorf("case %d: %d good points dropped", seed, r.GoodDropped)
+		}
+	}
+}
