@@ -229,8 +229,7 @@ type camberLine struct {
 	x, y []float64
 }
 
-// at returns the camber at x (constant before the first bin; the line
-// ends at the tail, see camber).
+// at returns the camber at x (constant beyond the first and last bins).
 func (c camberLine) at(x float64) float64 {
 	n := len(c.x)
 	switch {
@@ -258,12 +257,10 @@ func (c camberLine) at(x float64) float64 {
 // closer together than it lies from them, stands for a few points). The
 // middles are then smoothed by a robust running line (Tukey's biweight,
 // three rounds, common practice), which sets aside bins that a missing
-// stretch left one-sided. Aft of the last bin the line runs straight to
-// the tail end of the frame, (1, 0), a point of the section's tail: a thin
-// tail's last bins often give no middle, and the camber line of a
-// cambered section still turns there. (Not so at the nose: the frame's
-// nose end is the point farthest from the tail, which a slip off the
-// nose can be until the outlier test has judged it.)
+// stretch left one-sided. Beyond the first and the last bin the line
+// stays level: the frame's ends are the points farthest apart, which a
+// slip off the nose or a fixture's face beyond the tail can be until the
+// outlier tests have judged them, so the line is not drawn to them.
 func camber(xs, ys, ws []float64) camberLine {
 	n := len(xs)
 	nb := min(max(n/12, 8), 64)
@@ -361,7 +358,7 @@ func camber(xs, ys, ws []float64) camberLine {
 			}
 		}
 	}
-	return camberLine{x: append(bx, 1), y: append(fit, 0)}
+	return camberLine{x: bx, y: fit}
 }
 
 // sideShare is the least share of a camber bin's outline (its points'
