@@ -229,7 +229,8 @@ type camberLine struct {
 	x, y []float64
 }
 
-// at returns the camber at x (constant beyond the first and last bins).
+// at returns the camber at x (constant beyond the first and last
+// points of the line).
 func (c camberLine) at(x float64) float64 {
 	n := len(c.x)
 	switch {
@@ -257,10 +258,14 @@ func (c camberLine) at(x float64) float64 {
 // closer together than it lies from them, stands for a few points). The
 // middles are then smoothed by a robust running line (Tukey's biweight,
 // three rounds, common practice), which sets aside bins that a missing
-// stretch left one-sided. Beyond the first and the last bin the line
-// stays level: the frame's ends are the points farthest apart, which a
-// slip off the nose or a fixture's face beyond the tail can be until the
-// outlier tests have judged them, so the line is not drawn to them.
+// stretch left one-sided. Beyond the first bin the line stays level, and
+// beyond the last too unless that leaves more than tailSide of the chord
+// without a middle (a thin tail whose bins a few points sided), where it
+// runs on to the frame's tail end (1, 0). The frame's ends are the points
+// farthest apart, which a slip off the nose, or a fixture's face standing
+// a few per cent of the chord beyond the tail, can be until the outlier
+// tests have judged them: the line is drawn to the tail end only over a
+// stretch longer than such a face stands off.
 func camber(xs, ys, ws []float64) camberLine {
 	n := len(xs)
 	nb := min(max(n/12, 8), 64)
@@ -357,6 +362,12 @@ func camber(xs, ys, ws []float64) camberLine {
 				w[i] = (1 - u*u) * (1 - u*u)
 			}
 		}
+	}
+	if 1-bx[len(bx)-1] > tailSide {
+		// No middle over the last stretch of the chord (a thin tail's
+		// bins, sided by a few points): the line runs on to the frame's
+		// tail end rather than stay level over it.
+		return camberLine{x: append(bx, 1), y: append(fit, 0)}
 	}
 	return camberLine{x: bx, y: fit}
 }
