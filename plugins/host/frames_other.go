@@ -4,7 +4,6 @@ package host
 
 import (
 	"errors"
-	"net"
 	"os"
 )
 
@@ -12,10 +11,12 @@ const framesFD = 3
 
 // framesPair fails: without Unix process groups the host lets go-plugin
 // start the stage, and Run calls go over gRPC.
-func framesPair() (net.Conn, *os.File, error) {
+func framesPair() (*os.File, *os.File, error) {
 	return nil, nil, errors.New("host: no frames channel on this system")
 }
 
 func offerFrames(*groupRunner, *os.File) {}
 
-func framesHello(net.Conn) bool { return false }
+func framesHello(*os.File) bool { return false }
+
+func shutdownFrames(*os.File) {}

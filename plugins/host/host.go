@@ -7,7 +7,6 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"net"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -199,7 +198,7 @@ type process struct {
 	rpc    plugin.ClientProtocol
 	stage  stage.Stage
 	info   stage.Info
-	frames net.Conn // the host's end of the frames channel, or nil
+	frames *os.File // the host's end of the frames channel, or nil
 	once   sync.Once
 }
 
@@ -207,6 +206,7 @@ type process struct {
 func (p *process) kill() {
 	p.once.Do(func() {
 		if p.frames != nil {
+			shutdownFrames(p.frames) // ends a call under way
 			p.frames.Close()
 		}
 		p.client.Kill()
@@ -421,7 +421,8 @@ func (h *Host) start(ctx context.Context, spec Spec) (*process, error) {
 	if p.frames != nil {
 		c, ok := raw.(*stage.Client)
 		if ok && framesHello(p.frames) {
-			c.SetFrames(stage.NewFrames(p.frames))
+			f := p.frames
+			c.SetFrames(stage.NewFrames(f, func() { shutdownFrames(f) }))
 		} else {
 			p.frames.Close() // a stage that does not speak frames
 		}

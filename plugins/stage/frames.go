@@ -6,8 +6,8 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"net"
 	"os"
+	"strconv"
 	"sync"
 	"time"
 
@@ -64,18 +64,27 @@ const (
 // Frames is the host's side of a frames channel: Run calls sent on it one
 // at a time.
 type Frames struct {
-	mu     sync.Mutex
-	conn   net.Conn
-	broken bool   // a call ended half-way; the channel is out of step
-	buf    []byte // the request, then the reply, reused call after call
+	mu        sync.Mutex
+	conn      io.ReadWriter
+	interrupt func()
+	broken    bool   // a call ended half-way; the channel is out of step
+	buf       []byte // the request, then the reply, reused call after call
 }
 
 // NewFrames returns the host's side of the channel on conn, on which the
-// stage has written FramesHello (read by the caller).
-func NewFrames(conn net.Conn) *Frames { return &Frames{conn: conn} }
-
-// Close closes the channel; a call under way fails.
-func (f *Frames) Close() error { return f.conn.Close() }
+// stage has written FramesHello (read by the caller). interrupt must make
+// a write or read under way on conn, and every later one, fail at once
+// (shutdown(2) of a socket); it is called when a call's context ends. The
+// caller closes conn.
+//
+// A host reads and writes a socket in blocking mode (an *os.File of a
+// socket that is not non-blocking): the calling goroutine waits for the
+// reply in the read system call and goes on from there, where waiting in
+// Go's network poller passes the reply from the poller's thread to a
+// thread woken for the goroutine.
+func NewFrames(conn io.ReadWriter, interrupt func()) *Frames {
+	return &Frames{conn: conn, interrupt: interrupt}
+}
 
 // errFramesBusy: the channel serves another call (or broke); the call goes
 // over gRPC.
@@ -115,7 +124,7 @@ func (f *Frames) run(ctx context.Context, in *stagev1.RunRequest, maxReply int, 
 
 	// A context that ends interrupts the write or the read; the channel
 	// is then out of step, and the host ends such a process anyway.
-	stop := context.AfterFunc(ctx, func() { f.conn.SetDeadline(time.Unix(1, 0)) })
+	stop := context.AfterFunc(ctx, f.interrupt)
 	defer func() {
 		if !stop() {
 			f.broken = true
@@ -164,36 +173,39 @@ func (f *Frames) run(ctx context.Context, in *stagev1.RunRequest, maxReply int, 
 
 // OpenFrames makes the channel the host offers through FramesEnv, if it
 // does, ready for ServeFrames: it writes FramesHello on it and takes the
-// variable out of the environment (so that no program the stage starts
-// inherits it). It returns nil when the host offers none.
-func OpenFrames() (net.Conn, error) {
+// variable out of the environment, and the descriptor from programs the
+// stage starts. It returns nil when the host offers none.
+//
+// The channel is read and written in blocking mode: a stage waits for the
+// next call in the read system call, and its goroutine goes on from there
+// on the same thread, with no hand-over from Go's network poller.
+func OpenFrames() (*os.File, error) {
 	v, ok := os.LookupEnv(FramesEnv)
 	if !ok {
 		return nil, nil
 	}
 	os.Unsetenv(FramesEnv)
-	var fd uintptr
-	if _, err := fmt.Sscan(v, &fd); err != nil || fd < 3 {
+	fd, err := strconv.Atoi(v)
+	if err != nil || fd < 3 {
 		return nil, fmt.Errorf("stage: %s=%q is not a file descriptor", FramesEnv, v)
 	}
-	f := os.NewFile(fd, "frames")
-	conn, err := net.FileConn(f) // a duplicate, closed on exec
-	f.Close()
+	f, err := framesFile(fd)
 	if err != nil {
 		return nil, fmt.Errorf("stage: frames channel: %w", err)
 	}
-	if _, err := io.WriteString(conn, FramesHello); err != nil {
-		conn.Close()
+	if _, err := io.WriteString(f, FramesHello); err != nil {
+		f.Close()
 		return nil, fmt.Errorf("stage: frames channel: %w", err)
 	}
-	return conn, nil
+	return f, nil
 }
 
 // ServeFrames serves impl's Run calls arriving as frames on conn, one after
 // another, as its gRPC server does (the same handler: panics recovered,
 // errors as error codes), taking and sending messages of max bytes at most.
-// It returns when conn is closed (nil) or broken.
-func ServeFrames(conn net.Conn, impl Stage, log hclog.Logger, max int) error {
+// A call's deadline is its context's. It returns when the host closes its
+// end (nil) or the channel breaks.
+func ServeFrames(conn io.ReadWriter, impl Stage, log hclog.Logger, max int) error {
 	s := &grpcServer{impl: impl, log: log}
 	var buf []byte
 	head := make([]byte, framesRequestHead)
@@ -228,12 +240,16 @@ func ServeFrames(conn net.Conn, impl Stage, log hclog.Logger, max int) error {
 			}
 			continue
 		}
-		ctx, cancel := context.Background(), context.CancelFunc(func() {})
+		ctx := context.Background()
+		var dl *deadlineCtx
 		if timeout > 0 {
-			ctx, cancel = context.WithTimeout(ctx, timeout)
+			dl = &deadlineCtx{Context: ctx, deadline: time.Now().Add(timeout)}
+			ctx = dl
 		}
 		resp, _ := s.Run(ctx, in) // its errors are in resp
-		cancel()
+		if dl != nil {
+			dl.stop()
+		}
 		out := append(buf[:0], make([]byte, framesReplyHead)...)
 		out, err := proto.MarshalOptions{}.MarshalAppend(out, resp)
 		switch {
@@ -254,9 +270,59 @@ func ServeFrames(conn net.Conn, impl Stage, log hclog.Logger, max int) error {
 }
 
 // writeFrame writes a reply of status code with msg as its text, in buf.
-func writeFrame(conn net.Conn, buf []byte, code codes.Code, msg string) error {
+func writeFrame(conn io.Writer, buf []byte, code codes.Code, msg string) error {
 	buf = binary.LittleEndian.AppendUint32(buf, uint32(len(msg)))
 	buf = binary.LittleEndian.AppendUint32(buf, uint32(code))
 	_, err := conn.Write(append(buf, msg...))
 	return err
+}
+
+// deadlineCtx is a context with a deadline whose timer starts only when
+// Done is first called. A stage that only asks Err (the built-in ones do,
+// between phases) costs no timer a call: starting one wakes an idle thread
+// of the process to watch it, which is a good part of what a call costs
+// beside a short solve.
+type deadlineCtx struct {
+	context.Context // the parent: Background, never done
+	deadline        time.Time
+
+	mu    sync.Mutex
+	timed context.Context // made by Done: the same deadline with a timer
+	stopf context.CancelFunc
+}
+
+func (c *deadlineCtx) Deadline() (time.Time, bool) { return c.deadline, true }
+
+func (c *deadlineCtx) Done() <-chan struct{} {
+	c.mu.Lock()
+	defer c.mu.Unlock()
+	if c.timed == nil {
+		c.timed, c.stopf = context.WithDeadline(context.Background(), c.deadline)
+	}
+	return c.timed.Done()
+}
+
+// Err is context.DeadlineExceeded once the deadline has passed: by the
+// clock, or, once Done was asked for, when Done is closed (so that Err is
+// nil while Done is open).
+func (c *deadlineCtx) Err() error {
+	c.mu.Lock()
+	timed := c.timed
+	c.mu.Unlock()
+	if timed != nil {
+		return timed.Err()
+	}
+	if !time.Now().Before(c.deadline) {
+		return context.DeadlineExceeded
+	}
+	return nil
+}
+
+// stop releases the timer, if Done made one.
+func (c *deadlineCtx) stop() {
+	c.mu.Lock()
+	defer c.mu.Unlock()
+	if c.stopf != nil {
+		c.stopf()
+	}
 }

@@ -50,7 +50,7 @@ func framesClient(t *testing.T, impl stage.Stage, max int) (*stage.Client, *coun
 		stageEnd.Close()
 		<-done
 	})
-	c.SetFrames(stage.NewFrames(conn))
+	c.SetFrames(stage.NewFrames(conn, func() { hostEnd.SetDeadline(time.Unix(1, 0)) }))
 	return c, conn, stageEnd
 }
 
@@ -139,6 +139,11 @@ func TestFramesLimits(t *testing.T) {
 type blocking struct {
 	recorder
 	deadline atomic.Bool
+	release  chan struct{} // closed at the test's end: frames do not carry a cancel
+}
+
+func newBlocking() *blocking {
+	return &blocking{recorder: recorder{packed: true}, release: make(chan struct{})}
 }
 
 func (b *blocking) Run(ctx context.Context, req stage.Request) (stage.Result, error) {
@@ -146,26 +151,48 @@ func (b *blocking) Run(ctx context.Context, req stage.Request) (stage.Result, er
 		b.deadline.Store(true)
 	}
 	if string(req.Params) == `{"wait": true}` {
-		<-ctx.Done()
+		select {
+		case <-ctx.Done():
+		case <-b.release:
+		}
 		return stage.Result{}, fmt.Errorf("%w: %v", stage.ErrCancelled, ctx.Err())
 	}
 	return b.recorder.Run(ctx, req)
 }
 
 // TestFramesCancelAndDeadline: the stage gets the call's deadline; a call
-// whose context ends fails as over gRPC, and later calls go over gRPC
-// (the channel is out of step).
+// whose context ends fails as over gRPC (or with the stage's own
+// cancellation, when it gives up first, as over gRPC); after a call that
+// ended half-way the next goes over gRPC (the channel is out of step).
 func TestFramesCancelAndDeadline(t *testing.T) {
-	impl := &blocking{recorder: recorder{packed: true}}
+	impl := newBlocking()
 	c, conn, _ := framesClient(t, impl, 64<<20)
+	t.Cleanup(func() { close(impl.release) })
 	ctx, cancel := context.WithTimeout(t.Context(), 100*time.Millisecond)
 	defer cancel()
 	_, err := c.Run(ctx, stage.Request{Section: stagetest.Section(8), Params: []byte(`{"wait": true}`)})
-	if status.Code(err) != codes.DeadlineExceeded {
+	ended := status.Code(err) == codes.DeadlineExceeded
+	if !ended && !errors.Is(err, stage.ErrCancelled) {
 		t.Errorf("deadline passed: %v", err)
 	}
 	if !impl.deadline.Load() {
 		t.Error("the stage did not get the deadline")
+	}
+	// When the stage answered first, the host's context may still end
+	// before the call is over: the next call may go either way then.
+	if _, err := c.Run(t.Context(), stage.Request{Section: stagetest.Section(8)}); err != nil || ended && conn.writes.Load() != 1 {
+		t.Errorf("next call: %v after %d frames", err, conn.writes.Load())
+	}
+
+	// Cancelled while the stage waits: no deadline for the stage.
+	impl2 := newBlocking()
+	c, conn, _ = framesClient(t, impl2, 64<<20)
+	t.Cleanup(func() { close(impl2.release) })
+	ctx, cancel = context.WithCancel(t.Context())
+	time.AfterFunc(50*time.Millisecond, cancel)
+	_, err = c.Run(ctx, stage.Request{Section: stagetest.Section(8), Params: []byte(`{"wait": true}`)})
+	if status.Code(err) != codes.Canceled || impl2.deadline.Load() {
+		t.Errorf("cancelled: %v (deadline given: %v)", err, impl2.deadline.Load())
 	}
 	if _, err := c.Run(t.Context(), stage.Request{Section: stagetest.Section(8)}); err != nil || conn.writes.Load() != 1 {
 		t.Errorf("next call: %v after %d frames, want over gRPC", err, conn.writes.Load())

@@ -142,7 +142,7 @@ func ConnectFrames(t testing.TB, impl stage.Stage) stage.Stage {
 		stageEnd.Close()
 		<-done
 	})
-	c.SetFrames(stage.NewFrames(hostEnd))
+	c.SetFrames(stage.NewFrames(hostEnd, func() { hostEnd.SetDeadline(time.Unix(1, 0)) }))
 	return s
 }
 
