@@ -76,9 +76,15 @@ type Options struct {
 	// NoFrames sends every Run call over gRPC. By default a stage that
 	// speaks frames (stage.Frames; every stage served by plugins/sdk does)
 	// gets its Run calls on a socket of their own, read and answered by
-	// one goroutine on each side (Unix only).
+	// one goroutine on each side (Unix only). NoFramesEnv set to anything
+	// but "" or "0" in the host's environment sets it too.
 	NoFrames bool
 }
+
+// NoFramesEnv is the environment variable that turns frames off for every
+// host of the process (Options.NoFrames), to tell a problem of frames from
+// one of the stage when debugging.
+const NoFramesEnv = "FOILWRIGHT_NO_FRAMES"
 
 // DefaultJSONDepth is the nesting limit of result documents when
 // Options.JSONDepth is zero.
@@ -139,6 +145,9 @@ func New(opts Options) (*Host, error) {
 	}
 	if opts.JSONDepth <= 0 {
 		opts.JSONDepth = DefaultJSONDepth
+	}
+	if v := os.Getenv(NoFramesEnv); v != "" && v != "0" {
+		opts.NoFrames = true
 	}
 	log := opts.Logger
 	if log == nil {

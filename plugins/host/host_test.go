@@ -172,9 +172,25 @@ func TestRunAsFrames(t *testing.T) {
 			if ways["gRPC"] != len(replies) {
 				t.Errorf("with NoFrames: calls came %v", ways)
 			}
+			if !h.Options().NoFrames {
+				t.Error("Options lost NoFrames")
+			}
 		} else if replies[0].Warnings[0] != want || ways["frame"] == 0 {
 			t.Errorf("calls came %v, the first %s; want the first and some more as frames", ways, replies[0].Warnings[0])
 		}
+	}
+}
+
+// TestNoFramesEnv: the environment variable turns frames off.
+func TestNoFramesEnv(t *testing.T) {
+	t.Setenv(host.NoFramesEnv, "1")
+	h := newHost(t, host.Options{})
+	reply, err := h.Runner(host.Builtin("transport")).Run(t.Context(), request(""))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got := reply.Warnings[0]; got != "gRPC" || !h.Options().NoFrames {
+		t.Errorf("with %s=1 the call came as %s", host.NoFramesEnv, got)
 	}
 }
 
