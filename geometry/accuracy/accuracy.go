@@ -233,6 +233,11 @@ func (p *Pending) estimate(nz *frame.Normalized) Uncertainty {
 	eo := opts.Edges
 	eo.Mirror = frame.MirrorNo
 	eo.Support, eo.Noise = nil, 0 // the mirror is the section's: the replicas keep it
+	// So is the place of an edge whose surfaces cross ahead of its corner.
+	eo.Untangle = frame.UntangleCut
+	if nz.Cornered {
+		eo.Untangle = frame.UntangleCorner
+	}
 	if nz.Frame.Mirrored {
 		eo.Mirror = frame.MirrorYes
 	}
@@ -323,11 +328,11 @@ func (p *Pending) estimate(nz *frame.Normalized) Uncertainty {
 			u.Chord += 0.95*math.Min(h, 2*rep.NoiseEstimate) + cornerAlong(cv, rep)
 		}
 	}
-	// Surfaces of a thin sharp edge that cross ahead of its corner put
-	// the edge where they cross (frame.Normalized.Untangled), and so do
-	// the replicas that cross: they share the reading and do not see the
-	// other, the corner the fit made, where the part's edge may lie as
-	// well. The chord may be longer by the distance between the two; the
+	// Surfaces of a thin sharp edge that cross ahead of its corner keep
+	// the edge at the corner the fit made, or put it where they cross
+	// (frame.Normalized.Untangled, Cornered), and so do the replicas that
+	// cross: they share the reading and do not see the other, where the
+	// part's edge may lie as well. The chord may be longer by the distance between the two; the
 	// leading edge, the twist and the outline normalised to that corner
 	// off by what untangledShift measures. The outline's term moves it as
 	// a whole (a turn and a scale about the leading edge), not its shape:
@@ -335,7 +340,11 @@ func (p *Pending) estimate(nz *frame.Normalized) Uncertainty {
 	var untangledSurface float64
 	if nz.Untangled > 0 && nz.Frame.Chord > 0 {
 		u.Chord += nz.Untangled
-		dl, dt, ds := untangledShift(cv, nz.Frame, ref.poly)
+		other := cv.Start()
+		if nz.Cornered {
+			other = nz.Crossing
+		}
+		dl, dt, ds := untangledShift(cv, nz.Frame, ref.poly, other)
 		u.LE += dl
 		u.TwistDeg += dt
 		untangledSurface = ds
@@ -624,17 +633,18 @@ const untangledSamples = 4000
 // untangledShift's search round the last nearest segment.
 const untangledWindow = 300
 
-// untangledShift returns what a sharp trailing edge put where its surfaces
-// cross ahead of the fit's corner (frame.Normalized.Untangled) leaves
-// open when the part's edge is the corner, cv.Start(), instead: how far
-// the leading edge (input units) and the twist (degrees) of the corner's
-// frame lie from those of fr, the crossing's, and the largest distance
+// untangledShift returns what a sharp trailing edge put at one end of the
+// stretch its surfaces cross over (frame.Normalized.Untangled: the
+// crossing ahead of the fit's corner, or the corner) leaves open when the
+// part's edge is the other end, corner (cv.Start() or the crossing),
+// instead: how far the leading edge (input units) and the twist (degrees)
+// of that edge's frame lie from those of fr, and the largest distance
 // (chord units) of the outline poly, normalised by fr, from the whole
-// fitted curve cv normalised by the corner's frame. The corner's leading
-// edge is fr's moved as the curve point farthest from the trailing edge
-// moves from the crossing to the corner (the convention's leading edge).
-func untangledShift(cv *curve.Curve, fr frame.Frame, poly []geometry.Point) (le, twistDeg, surface float64) {
-	corner, te := cv.Start(), fr.ToPart(geometry.Point{X: 1})
+// fitted curve cv normalised by the other edge's frame. Its leading edge
+// is fr's moved as the curve point farthest from the trailing edge moves
+// from fr's edge to the other (the convention's leading edge).
+func untangledShift(cv *curve.Curve, fr frame.Frame, poly []geometry.Point, corner geometry.Point) (le, twistDeg, surface float64) {
+	te := fr.ToPart(geometry.Point{X: 1})
 	L := cv.Length()
 	if !(L > 0) || len(poly) == 0 {
 		return 0, 0, 0

@@ -83,6 +83,13 @@ func (cl *cleaning) spared(seq []int32, sigma float64, lf localFits, extra float
 // the trailing edge within which the generic outlier test spares points.
 const edgeSpare = 1.5
 
+// compareMax is the most distinct points a cloud may hold for the
+// linked order to be tried beside a section order that passed (see
+// arrange): probe files and drawings hold a few hundred to a few thousand
+// points, and a scan's slice of tens of thousands, whose outlier tests
+// dominate the cleaning's time, is left to the section order alone.
+const compareMax = 5000
+
 // minCoverage is the least share of the distinct points the section loop
 // must keep (gate "coverage"): outliers are a few per cent of a scan, so a
 // loop that leaves more out has missed part of the outline.
@@ -138,6 +145,9 @@ func (cl *cleaning) arrange(opts Options, sigma float64) (*attempt, error) {
 	if len(cl.pts) < minPoints {
 		return nil, fmt.Errorf("geometry: clean: %w: %d distinct point(s) after merging within %.3g, need at least %d", geometry.ErrTooFewPoints, len(cl.pts), cl.rep.MergeTol, minPoints)
 	}
+	if !opts.KeepOutliers {
+		cl.dropRows()
+	}
 	if opts.Order != "" {
 		return cl.only(opts, sigma)
 	}
@@ -182,6 +192,18 @@ func (cl *cleaning) arrange(opts Options, sigma float64) (*attempt, error) {
 	}
 	if opts.Loop == 0 {
 		if pass(sect) {
+			// The section order's sides and windows, and so which points
+			// its outlier test keeps, can turn on a few points (a burst
+			// at a sparse nose taken for the surface, the good points
+			// beside it dropped). Where linking also closes one loop
+			// whose outliers leave more of the points in it, that loop
+			// is the one more of the points support, and it is taken.
+			if walls == 1 && len(cl.pts) < compareMax && !opts.KeepOutliers {
+				if a := cl.evaluate(OrderLinked, loops, rest, opts, sigma, localFits{}, true); a.fail == "" && a.err == nil && len(a.seq) > len(sect.seq) && a.raw <= sect.raw {
+					refused = append(refused, fmt.Sprintf("%s order: its loop keeps %d of the %d points, the %s order's %d", OrderSection, len(sect.seq), len(cl.pts), OrderLinked, len(a.seq)))
+					return finish(a)
+				}
+			}
 			return finish(sect)
 		}
 		if walls == 1 {
@@ -362,8 +384,12 @@ func (cl *cleaning) fromFile(opts Options, sigma float64) *attempt {
 
 // linkLoops links the points into chains and joins them into loops.
 func (cl *cleaning) linkLoops() (loops, rest [][]int32) {
-	g := newGraph(len(cl.pts))
-	link(cl.pts, cl.nb, g)
+	g := cl.linked
+	cl.linked = nil
+	if g == nil {
+		g = newGraph(len(cl.pts))
+		link(cl.pts, cl.nb, g)
+	}
 	join(cl.pts, cl.nb, g)
 	return g.components(minPoints)
 }

@@ -315,6 +315,10 @@ type cleaning struct {
 	// size at most (looksOrdered): its own order is tried, first when the
 	// format orders the points, last otherwise.
 	fileOrder bool
+	// linked, when not nil, is the graph of the distinct points linked
+	// (see link) and not yet joined, which the search for stray rows drew
+	// and linkLoops takes.
+	linked *graph
 }
 
 // orderedWalk is the longest path, in diagonals of the points' bounding

@@ -229,7 +229,8 @@ type camberLine struct {
 	x, y []float64
 }
 
-// at returns the camber at x (constant beyond the first and last bins).
+// at returns the camber at x (constant beyond the first and last
+// points of the line).
 func (c camberLine) at(x float64) float64 {
 	n := len(c.x)
 	switch {
@@ -251,18 +252,46 @@ func (c camberLine) at(x float64) float64 {
 // consecutive values of y inside the 10–90 % quantiles (the space between
 // the surfaces; trimming keeps a far outlier from making the largest gap
 // outside the body), and a bin counts only when that gap is wider than the
-// spread of the values on either side of it. The middles are then smoothed by a robust running
-// line (Tukey's biweight, three rounds, common practice), which sets aside
-// bins that a missing stretch left one-sided.
+// spread of the values on either side of it and each side holds at least
+// sideShare of the bin's outline (both surfaces run across the bin; an
+// outlier or a burst of a few beyond a thin tail, whose surfaces lie
+// closer together than it lies from them, stands for a few points). The
+// middles are then smoothed by a robust running line (Tukey's biweight,
+// three rounds, common practice), which sets aside bins that a missing
+// stretch left one-sided. Beyond the first bin the line stays level, and
+// beyond the last too unless that leaves more than tailSide of the chord
+// without a middle (a thin tail whose bins a few points sided), where it
+// runs on to the frame's tail end (1, 0). The frame's ends are the points
+// farthest apart, which a slip off the nose, or a fixture's face standing
+// a few per cent of the chord beyond the tail, can be until the outlier
+// tests have judged them: the line is drawn to the tail end only over a
+// stretch longer than such a face stands off.
 func camber(xs, ys, ws []float64) camberLine {
 	n := len(xs)
 	nb := min(max(n/12, 8), 64)
+	// The bins share one array, each point in the order of xs: counted
+	// first, then placed (a slice grown per bin copied each point about
+	// twice).
+	binOf := func(x float64) int { return min(int(x*float64(nb)), nb-1) }
+	at := make([]int, nb+1)
+	for _, x := range xs {
+		if x >= 0 && x <= 1 {
+			at[binOf(x)+1]++
+		}
+	}
+	for k := range nb {
+		at[k+1] += at[k]
+	}
+	all := make([]weighted, at[nb])
 	bins := make([][]weighted, nb)
+	for k := range bins {
+		bins[k] = all[at[k]:at[k]:at[k+1]]
+	}
 	for i, x := range xs {
 		if x < 0 || x > 1 {
 			continue
 		}
-		k := min(int(x*float64(nb)), nb-1)
+		k := binOf(x)
 		bins[k] = append(bins[k], weighted{ys[i], weightOf(ws, i)})
 	}
 	var bx, by []float64
@@ -284,6 +313,17 @@ func camber(xs, ys, ws []float64) camberLine {
 		// spread of either (a missing stretch leaves one surface alone, and
 		// the largest gap in it is a gap along it).
 		if gap < 0 || gap <= b[at].v-b[lo].v || gap <= b[hi].v-b[at+1].v {
+			continue
+		}
+		var below, above float64
+		for j := lo; j <= hi; j++ {
+			if j <= at {
+				below += b[j].w
+			} else {
+				above += b[j].w
+			}
+		}
+		if below < sideShare*(below+above) || above < sideShare*(below+above) {
 			continue
 		}
 		bx = append(bx, (float64(k)+0.5)/float64(nb))
@@ -340,8 +380,19 @@ func camber(xs, ys, ws []float64) camberLine {
 			}
 		}
 	}
+	if 1-bx[len(bx)-1] > tailSide {
+		// No middle over the last stretch of the chord (a thin tail's
+		// bins, sided by a few points): the line runs on to the frame's
+		// tail end rather than stay level over it.
+		return camberLine{x: append(bx, 1), y: append(fit, 0)}
+	}
 	return camberLine{x: bx, y: fit}
 }
+
+// sideShare is the least share of a camber bin's outline (its points'
+// weights, trimmed) that each side of the gap between the surfaces must
+// hold: both surfaces run across the bin, about half each.
+const sideShare = 0.25
 
 // quadFit is y = c0 + c1·x + c2·x² fitted by least squares.
 type quadFit struct {

@@ -811,8 +811,13 @@ func fitOrder(c *geometry.Contour, ends trailingEnds, perim float64) ([]geometry
 		knot[i] = -1
 	}
 	useAlong := len(c.Along) == n
-	var pts []geometry.Point
+	// Room for every point and both added ends: grown by appends, the
+	// slices copied each point about twice more.
+	pts := make([]geometry.Point, 0, len(ends.order)+2)
 	var along []float64
+	if useAlong {
+		along = make([]float64, 0, len(ends.order)+2)
+	}
 	upperAdded := false
 	if ends.upper != nil {
 		pts = append(pts, *ends.upper)

@@ -4,6 +4,7 @@ import (
 	"math"
 	"slices"
 	"sort"
+	"sync"
 
 	"github.com/foilwright/foilwright/geometry"
 	"github.com/foilwright/foilwright/internal/numeric"
@@ -162,31 +163,41 @@ func predictInto(e, ts, xs, ys []float64, periodic bool, period float64, step in
 		workers = 2
 	}
 	par.For(step, workers, func(_, phase int) {
-		var keep []int
+		w, _ := predictScratch.Get().(*predictWork)
+		if w == nil {
+			w = new(predictWork)
+		}
+		defer predictScratch.Put(w)
+		keep := w.keep[:0]
 		for i := phase; i < m; i += step {
 			keep = append(keep, i)
 		}
 		if !periodic {
 			if keep[0] != 0 {
-				keep = append([]int{0}, keep...)
+				keep = slices.Insert(keep, 0, 0)
 			}
 			if keep[len(keep)-1] != m-1 {
 				keep = append(keep, m-1)
 			}
 		}
+		w.keep = keep
 		if len(keep) < splineMinKnots {
 			return
 		}
-		st := make([]float64, len(keep))
-		sx := make([]float64, len(keep))
-		sy := make([]float64, len(keep))
+		st := reuseFloats(w.st, len(keep))
+		sx := reuseFloats(w.sx, len(keep))
+		sy := reuseFloats(w.sy, len(keep))
+		w.st, w.sx, w.sy = st, sx, sy
 		for k, i := range keep {
 			st[k], sx[k], sy[k] = ts[i], xs[i], ys[i]
 		}
 		if periodic && period-(st[len(st)-1]-st[0]) <= 0 {
 			return
 		}
-		prob := splineNewProblem(st, nil, periodic, period)
+		// The phase's problem, its fit and its columns are not used once
+		// its points are predicted: the next phase builds in their storage.
+		prob := splineRenewProblem(w.prob, st, nil, periodic, period)
+		w.prob = prob
 		f, err := prob.fit(0, [][]float64{sx, sy}, false)
 		if err != nil {
 			return
@@ -197,8 +208,21 @@ func predictInto(e, ts, xs, ys []float64, periodic bool, period float64, step in
 			}
 			e[i] = normalError(prob, f, ts[i], xs[i], ys[i], period)
 		}
+		prob.release(f)
 	})
 }
+
+// predictWork is the storage of one phase of predictInto, which the next
+// phase (of this or a later call) builds in: the subset's indices, knots
+// and coordinates, and its spline problem.
+type predictWork struct {
+	keep       []int
+	st, sx, sy []float64
+	prob       *splineProblem
+}
+
+// predictScratch holds predictWork that no phase is using.
+var predictScratch sync.Pool
 
 // predictParallel is the number of knots from which predictInto fits its
 // phases on two cores.

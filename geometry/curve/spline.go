@@ -57,6 +57,13 @@ type splineProblem struct {
 	// spare holds columns of n values that fits handed back (release),
 	// for the values and second derivatives of later fits.
 	spare [][]float64
+	// ownWs is ws when the problem made it (weights all 1), for a renewed
+	// problem to reuse; reused and reusedOpen are storage taken from a
+	// problem renewed into this one, for the fixed part and the open
+	// problem when they are made.
+	ownWs      []float64
+	reused     *splineFixed
+	reusedOpen *splineProblem
 }
 
 // splineFixed holds what every fit of a problem shares: the band of R and,
@@ -87,6 +94,17 @@ type splineScratch struct {
 // otherwise. It panics if fewer than splineMinKnots knots are given or the
 // knots do not increase.
 func splineNewProblem(ts, ws []float64, periodic bool, period float64) *splineProblem {
+	return splineRenewProblem(nil, ts, ws, periodic, period)
+}
+
+// splineRenewProblem is splineNewProblem built in the storage of old (nil
+// for none), a problem that nobody uses any more: its fits, columns and
+// knots are not read again. Every buffer taken from old is cleared or
+// overwritten before use, so the new problem's fits are those of a new
+// one, bit for bit; only the allocations (and the fresh pages the heap
+// grows by for them) are saved. The knots ts may be old's knots' storage,
+// written anew.
+func splineRenewProblem(old *splineProblem, ts, ws []float64, periodic bool, period float64) *splineProblem {
 	n := len(ts)
 	if n < splineMinKnots {
 		panic("geometry: spline needs at least 8 knots")
@@ -96,7 +114,11 @@ func splineNewProblem(ts, ws []float64, periodic bool, period float64) *splinePr
 	if periodic {
 		nh = n
 	}
-	p.hs = make([]float64, nh)
+	var oldHs, oldWs []float64
+	if old != nil {
+		oldHs, oldWs = old.hs, old.ownWs
+	}
+	p.hs = reuseFloats(oldHs, nh)
 	for i := 0; i < n-1; i++ {
 		p.hs[i] = ts[i+1] - ts[i]
 		if !(p.hs[i] > 0) {
@@ -113,13 +135,59 @@ func splineNewProblem(ts, ws []float64, periodic bool, period float64) *splinePr
 		p.m = n - 2
 	}
 	if ws == nil {
-		ws = make([]float64, n)
+		ws = reuseFloats(oldWs, n)
 		for i := range ws {
 			ws[i] = 1
 		}
+		p.ownWs = ws
 	}
 	p.ws = ws
+	if old != nil {
+		p.reuse(old)
+	}
 	return p
+}
+
+// reuse hands the storage of old's fixed part, scratch, spare columns and
+// open problem to p, which has its knots, weights and m set and has not
+// been fitted, resized to p's size.
+func (p *splineProblem) reuse(old *splineProblem) {
+	n, m := p.n(), p.m
+	if fx := old.fixed; fx != nil {
+		p.reused = &splineFixed{
+			r:  reuseBand(fx.r, m, p.periodic),
+			qu: reuseSlice(fx.qu, n),
+			qv: reuseSlice(fx.qv, n),
+		}
+	}
+	if old.open != nil {
+		p.reusedOpen = old.open
+	} else {
+		p.reusedOpen = old.reusedOpen
+	}
+	for _, sc := range old.scratch {
+		sc.a = reuseBand(sc.a, m, p.periodic)
+		sc.ldl = splineLDL{d: reuseFloats(sc.ldl.d, m), l1: reuseFloats(sc.ldl.l1, m), l2: reuseFloats(sc.ldl.l2, m)}
+		sc.fs = reuseFloats(sc.fs, n)
+		c1, c2, y1, y2 := sc.c1, sc.c2, sc.sol.y1, sc.sol.y2
+		sc.c1, sc.c2, sc.sol = nil, nil, splineSolver{}
+		if p.periodic {
+			sc.c1, sc.c2 = reuseFloats(c1, m-2), reuseFloats(c2, m-2)
+			sc.sol.y1, sc.sol.y2 = reuseFloats(y1, m-2), reuseFloats(y2, m-2)
+		}
+		for k := range sc.rhs {
+			sc.rhs[k] = reuseFloats(sc.rhs[k], m)
+		}
+		if sc.s0 != nil {
+			sc.s0, sc.s1, sc.s2 = reuseFloats(sc.s0, m), reuseFloats(sc.s1, m), reuseFloats(sc.s2, m)
+		}
+		p.scratch = append(p.scratch, sc)
+	}
+	for _, c := range old.spare {
+		if cap(c) >= n {
+			p.spare = append(p.spare, c[:n])
+		}
+	}
 }
 
 // n returns the number of data points.
@@ -175,6 +243,32 @@ type splineBand struct {
 func splineNewBand(m int, cyclic bool) *splineBand {
 	all := make([]float64, 3*m)
 	return &splineBand{d0: all[:m:m], d1: all[m : 2*m : 2*m], d2: all[2*m:], all: all, cyclic: cyclic}
+}
+
+// reuseBand returns a zero band of order m, in b's storage when it holds
+// enough (b may be nil).
+func reuseBand(b *splineBand, m int, cyclic bool) *splineBand {
+	var all []float64
+	if b != nil {
+		all = b.all
+	}
+	all = reuseFloats(all, 3*m)
+	return &splineBand{d0: all[:m:m], d1: all[m : 2*m : 2*m], d2: all[2*m:], all: all, cyclic: cyclic}
+}
+
+// reuseFloats returns n zeros, in the storage of s when its capacity
+// allows.
+func reuseFloats(s []float64, n int) []float64 { return reuseSlice(s, n) }
+
+// reuseSlice returns n zero values, in the storage of s when its capacity
+// allows.
+func reuseSlice[T any](s []T, n int) []T {
+	if cap(s) < n {
+		return make([]T, n)
+	}
+	s = s[:n]
+	clear(s)
+	return s
 }
 
 // add adds v to A[j][k] (and, by symmetry, A[k][j]); callers pass each
@@ -244,6 +338,12 @@ func (p *splineProblem) assemble(lambda float64) (r, a *splineBand) {
 // assembleR returns the band of R, the λ-independent part of the system.
 func (p *splineProblem) assembleR() *splineBand {
 	r := splineNewBand(p.m, p.periodic)
+	p.assembleRInto(r)
+	return r
+}
+
+// assembleRInto adds the band of R into r, a zero band of p's order.
+func (p *splineProblem) assembleRInto(r *splineBand) {
 	for i, h := range p.hs {
 		u0, u1 := p.unknown(i), p.unknown(i+1)
 		if u0 >= 0 {
@@ -256,18 +356,22 @@ func (p *splineProblem) assembleR() *splineBand {
 			r.add(u0, u1, h/6)
 		}
 	}
-	return r
 }
 
 // fixedPart returns the λ-independent parts of p's system, made once.
 func (p *splineProblem) fixedPart() *splineFixed {
 	p.fixedOnce.Do(func() {
 		if p.periodic {
-			p.open = splineNewProblem(p.ts, p.ws, false, 0)
+			p.open = splineRenewProblem(p.reusedOpen, p.ts, p.ws, false, 0)
+			p.reusedOpen = nil
 		}
 		n := p.n()
-		fx := &splineFixed{qu: make([][3]int32, n), qv: make([][3]float64, n)}
-		fx.r = p.assembleR()
+		fx := p.reused
+		p.reused = nil
+		if fx == nil {
+			fx = &splineFixed{qu: make([][3]int32, n), qv: make([][3]float64, n), r: splineNewBand(p.m, p.periodic)}
+		}
+		p.assembleRInto(fx.r)
 		for i := 0; i < n; i++ {
 			cs, qs := p.qRow(i)
 			for x := 0; x < 3; x++ {

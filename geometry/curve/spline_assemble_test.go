@@ -55,3 +55,67 @@ func TestSplineAssembleIntoMatches(t *testing.T) {
 		}
 	}
 }
+
+// A problem renewed in the storage of another (splineRenewProblem), of
+// any size and either kind, fits exactly as a new problem on the same
+// knots: every buffer it takes over, dirty from the old problem's fits, is
+// cleared or overwritten. A buffer left dirty (a band entry, a column,
+// the open problem of a periodic one) changes a bit of some fit below.
+func TestSplineRenewMatchesNew(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5, 6))
+	var old *splineProblem
+	for step, c := range []struct {
+		n        int
+		periodic bool
+		weights  bool
+	}{
+		{100, true, false}, {40, true, false}, {130, false, true}, {9, false, false},
+		{60, true, true}, {61, true, false}, {2100, false, false}, {300, true, false},
+		{2050, true, false}, {12, false, false}, {80, false, false},
+	} {
+		n := c.n
+		ts := make([]float64, n)
+		ys := [][]float64{make([]float64, n), make([]float64, n), make([]float64, n)}
+		var ws []float64
+		if c.weights {
+			ws = make([]float64, n)
+		}
+		for i := range ts {
+			if i > 0 {
+				ts[i] = ts[i-1] + 0.1 + rng.Float64()
+			}
+			if ws != nil {
+				ws[i] = 0.5 + rng.Float64()
+			}
+			for _, y := range ys {
+				y[i] = rng.NormFloat64()
+			}
+		}
+		period := ts[n-1] + 0.8
+		fresh := splineNewProblem(ts, ws, c.periodic, period)
+		renewed := splineRenewProblem(old, ts, ws, c.periodic, period)
+		for _, lambda := range []float64{0, 0.3, 40} {
+			want, err := fresh.fit(lambda, ys, lambda > 0)
+			if err != nil {
+				t.Fatal(err)
+			}
+			got, err := renewed.fit(lambda, ys, lambda > 0)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if math.Float64bits(got.trace) != math.Float64bits(want.trace) {
+				t.Errorf("step %d (%+v) λ=%g: trace %v, want %v", step, c, lambda, got.trace, want.trace)
+			}
+			for k := range ys {
+				for i := range n {
+					if math.Float64bits(got.gs[k][i]) != math.Float64bits(want.gs[k][i]) || math.Float64bits(got.gams[k][i]) != math.Float64bits(want.gams[k][i]) {
+						t.Fatalf("step %d (%+v) λ=%g column %d: knot %d gives (%v, %v), want (%v, %v)",
+							step, c, lambda, k, i, got.gs[k][i], got.gams[k][i], want.gs[k][i], want.gams[k][i])
+					}
+				}
+			}
+			renewed.release(got)
+		}
+		old = renewed
+	}
+}

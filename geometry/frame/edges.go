@@ -42,6 +42,13 @@ const (
 	MirrorNo   = "no"
 )
 
+// Places of a sharp edge whose surfaces cross ahead of its corner
+// (Options.Untangle).
+const (
+	UntangleCorner = "corner" // keep the corner, the surfaces carried on straight to it
+	UntangleCut    = "cut"    // put the edge where the surfaces cross
+)
+
 // Treatments lists the trailing-edge treatments a user may ask for
 // (Options.TE), with what each does, in the order help texts, completions,
 // the pipeline file's checks and messages give them.
@@ -141,6 +148,12 @@ type Options struct {
 	// there the curve's shape is its own guess, and a guessed nose bends
 	// the mean line's forward end as far as a faint camber line does.
 	Support []float64
+	// Untangle says where a sharp edge whose surfaces cross ahead of its
+	// corner is put: "" at the corner when a point of Support lies aft of
+	// the crossing, else (and without Support) where they cross;
+	// UntangleCorner or UntangleCut at the corner or the crossing
+	// whatever the points (a replica keeps its section's reading).
+	Untangle string
 	// Base, when set, says that the ends of an open curve are the corners
 	// of a blunt base the points show (the cleaning step's analysis of
 	// the end, curve.Edge): an edge whose ends do not meet is then blunt

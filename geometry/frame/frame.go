@@ -124,10 +124,13 @@ type Normalized struct {
 	// the points, and the section's uncertainty takes it in.
 	MirrorOpen bool
 	// Untangled is the distance (input units) from the corner of a sharp
-	// trailing edge to where its surfaces cross ahead of it, where the
-	// edge was put (untangle); 0 when they do not cross. The part's edge
-	// may lie anywhere from the crossing to the corner.
+	// trailing edge to Crossing, where its surfaces cross ahead of it
+	// (untangle); 0 when they do not cross. The edge was kept at the
+	// corner when Cornered is set, else put at the crossing. The part's
+	// edge may lie anywhere from the crossing to the corner.
 	Untangled float64
+	Crossing  geometry.Point
+	Cornered  bool
 }
 
 // Normalize locates the trailing and leading edge of the fitted curve cv
@@ -189,13 +192,27 @@ func Normalize(cv *curve.Curve, opts Options) (*Normalized, error) {
 	fitted := cv // the curve Support's arc lengths run along
 	if !cv.Closed() {
 		// A sharp edge whose surfaces cross just ahead of it (a thin,
-		// noisy edge) ends where they cross.
-		if cut, moved, ok := untangle(cv); ok {
+		// noisy edge, or points offset inwards) keeps its corner, the
+		// surfaces carried on straight to it from ahead of the crossing,
+		// where points lie beyond the crossing (opts.Untangle), or else
+		// ends where they cross.
+		reached := beyond(opts.Support)
+		switch opts.Untangle {
+		case UntangleCorner:
+			reached = func(float64, float64) bool { return true }
+		case UntangleCut:
+			reached = func(float64, float64) bool { return false }
+		}
+		if fixed, moved, at, cornered, ok := untangle(cv, reached); ok {
 			chord := cv.Start().Dist(cv.At(cv.Length() / 2))
 			if cv.Start().Dist(cv.End()) <= EdgeSharpGap*max(chord, moved) {
-				cv = cut
-				out.Untangled = moved
-				warn(fmt.Sprintf("the surfaces near the trailing edge are within the noise of each other and crossed %.3g chord ahead of the corner; the edge was put where they cross", moved/chord))
+				out.Untangled, out.Crossing = moved, at
+				if out.Cornered = cornered; cornered {
+					warn(fmt.Sprintf("the surfaces near the trailing edge are within the noise of each other and crossed %.3g chord ahead of the corner the points reach; the edge was kept at the corner, the surfaces carried on straight to it", moved/chord))
+				} else {
+					warn(fmt.Sprintf("the surfaces near the trailing edge are within the noise of each other and crossed %.3g chord ahead of the corner; the edge was put where they cross", moved/chord))
+				}
+				cv = fixed
 			}
 		}
 	}
@@ -248,7 +265,10 @@ func Normalize(cv *curve.Curve, opts Options) (*Normalized, error) {
 	}
 	le := treated.At(sLE)
 	fr := fromEdges(le, te, false)
-	chord := fr.apply(treated)
+	var chord *curve.Curve
+	if opts.Mirror != MirrorYes {
+		chord = fr.apply(treated) // a mirrored section is mapped below
+	}
 	var mirrored bool
 	switch opts.Mirror {
 	case MirrorYes:

@@ -15,22 +15,52 @@ const (
 )
 
 // untangle returns the open curve cv of a sharp trailing edge (its ends
-// meet) cut where its two surfaces cross near the edge, with the arc from
-// the edge to that crossing dropped on both sides, and the distance from
-// the old corner to the crossing; ok is false when the surfaces do not
-// cross. Near a thin edge whose surfaces are within the noise of each
-// other, each smoothed surface wanders by its own share of the noise and
-// the two can cross a little ahead of the corner: the section then loops
-// over itself there. The surfaces meet, for every purpose, where they
-// cross; of several crossings the one farthest from the corner counts.
-func untangle(cv *curve.Curve) (*curve.Curve, float64, bool) {
+// meet) whose two surfaces cross near the edge, made untangled, the
+// distance from the corner to the crossing, the crossing itself and whether
+// the corner was kept; ok is false when the surfaces do not cross. Near a thin edge whose surfaces are
+// within the noise of each other, each smoothed surface wanders by its own
+// share of the noise, and a systematic offset of the points (a probe-radius
+// compensation off by d moves a corner of half-angle θ by d/sin θ) makes the
+// two cross ahead of the corner: the section then loops over itself there.
+// Of several crossings the one farthest from the corner counts. The points
+// that run on beyond the crossing say the part does too (reached, given
+// the crossing's place along each surface, tells): the surfaces are then
+// carried on straight to the corner from as far ahead of the crossing as
+// it lies ahead of the corner (carryToCorner), a wedge whose thickness
+// there is what the surfaces show. Where no point lies beyond the crossing
+// (the corner is the fit's guess beyond the points: a blunt end read as
+// sharp) or the wedge would still cross the outline, the curve is cut at
+// the crossing instead, the arc aft of it dropped on both sides (the edge
+// put where they cross).
+func untangle(cv *curve.Curve, reached func(su, sl float64) bool) (out *curve.Curve, moved float64, at geometry.Point, cornered, ok bool) {
 	if cv.Closed() {
-		return cv, 0, false
+		return cv, 0, geometry.Point{}, false, false
 	}
+	su, sl, found := crossingOf(cv)
+	if !found {
+		return cv, 0, geometry.Point{}, false, false
+	}
+	corner, at := cv.Start(), cv.At(su)
+	if !reached(su, sl) {
+		out = cv.Sub(su, sl)
+		return out, out.Start().Dist(corner), at, false, true
+	}
+	if w, ok := carryToCorner(cv, su, sl); ok {
+		return w, at.Dist(corner), at, true, true
+	}
+	out = cv.Sub(su, sl)
+	return out, out.Start().Dist(corner), at, false, true
+}
+
+// crossingOf returns where, along the open curve cv, its two surfaces cross
+// within untangleReach of the edge: the crossing farthest from the edge,
+// su along the upper surface and sl along the lower (su < sl), and whether
+// they cross.
+func crossingOf(cv *curve.Curve) (su, sl float64, ok bool) {
 	L := cv.Length()
 	reach := untangleReach * L
 	if !(reach > 0) {
-		return cv, 0, false
+		return 0, 0, false
 	}
 	sample := func(from, to float64) ([]geometry.Point, []float64) {
 		ps := make([]geometry.Point, untangleSamples+1)
@@ -41,15 +71,34 @@ func untangle(cv *curve.Curve) (*curve.Curve, float64, bool) {
 		}
 		return ps, ss
 	}
-	up, su := sample(0, reach)   // from the corner forward along the upper surface
-	lo, sl := sample(L, L-reach) // from the corner back along the lower surface
-	bestU, bestL := lastCrossing(up, su, lo, sl, 1e-9*reach)
+	up, su0 := sample(0, reach)   // from the corner forward along the upper surface
+	lo, sl0 := sample(L, L-reach) // from the corner back along the lower surface
+	bestU, bestL := lastCrossing(up, su0, lo, sl0, 1e-9*reach)
 	if bestU < 0 || !(bestL > bestU) {
-		return cv, 0, false
+		return 0, 0, false
 	}
-	corner := cv.Start()
-	out := cv.Sub(bestU, bestL)
-	return out, out.Start().Dist(corner), true
+	return bestU, bestL, true
+}
+
+// carryToCorner returns cv with the arcs from its corner (the shared ends)
+// to twice as far along each surface as the crossing at su and sl replaced
+// by straight segments to the corner, and whether that untangled it: the
+// wedge crosses neither itself nor the rest of the outline.
+func carryToCorner(cv *curve.Curve, su, sl float64) (*curve.Curve, bool) {
+	L := cv.Length()
+	a, b := 2*su, L-2*(L-sl)
+	if !(a > 0 && b > a && a < L/2 && b > L/2) {
+		return nil, false
+	}
+	var bld curve.Builder
+	bld.AddLine(cv.Start(), cv.At(a))
+	bld.AddArc(cv, a, b)
+	bld.AddLine(cv.At(b), cv.End())
+	w := bld.Curve(false)
+	if _, _, again := crossingOf(w); again {
+		return nil, false
+	}
+	return w, true
 }
 
 // lastCrossing returns where the polylines up and lo (their points at the
@@ -120,4 +169,18 @@ func segmentsCross(a, b, c, d geometry.Point) (t, u float64, ok bool) {
 	q := c.Sub(a)
 	t, u = q.Cross(s)/den, q.Cross(r)/den
 	return t, u, t >= 0 && t <= 1 && u >= 0 && u <= 1
+}
+
+// beyond returns whether a point of the fit, at the places support along
+// the open curve cv, lies aft of the crossing at su and sl along it: ahead
+// of su from the start or beyond sl towards the end.
+func beyond(support []float64) func(su, sl float64) bool {
+	return func(su, sl float64) bool {
+		for _, s := range support {
+			if s < su || s > sl {
+				return true
+			}
+		}
+		return false
+	}
 }

@@ -28,19 +28,39 @@ func BenchmarkKernel(b *testing.B) {
 	b.ReportMetric(float64(2*mr*nr*k)*float64(b.N)/b.Elapsed().Seconds()/1e9, "GFLOP/s")
 }
 
-// BenchmarkGemm times the trailing update C −= A·B of a blocked LU step.
+// BenchmarkGemm times the trailing update C −= A·B of a blocked LU step,
+// on each path of the build.
 func BenchmarkGemm(b *testing.B) {
-	for _, n := range []int{400, 1600} {
-		const k = 64
-		b.Run(fmt.Sprintf("n=%d", n), func(b *testing.B) {
-			a, bb, c := randMatrix(n, 1), randMatrix(n, 2), randMatrix(n, 3)
-			ws := new(workspace)
-			for b.Loop() {
-				gemmSub(n, n, k, a, n, bb, n, c, n, ws)
-			}
-			b.ReportMetric(float64(2*n*n*k)*float64(b.N)/b.Elapsed().Seconds()/1e9, "GFLOP/s")
-		})
+	for _, p := range Paths() {
+		if p == OpenBLASPath {
+			continue
+		}
+		for _, n := range []int{400, 1600} {
+			const k = 64
+			b.Run(fmt.Sprintf("%s/n=%d", pathTag(p), n), func(b *testing.B) {
+				defer Use(p)()
+				a, bb, c := randMatrix(n, 1), randMatrix(n, 2), randMatrix(n, 3)
+				ws := new(workspace)
+				for b.Loop() {
+					gemmSub(n, n, k, a, n, bb, n, c, n, ws)
+				}
+				b.ReportMetric(float64(2*n*n*k)*float64(b.N)/b.Elapsed().Seconds()/1e9, "GFLOP/s")
+			})
+		}
 	}
+}
+
+// pathTag is a short name of a path for benchmark names.
+func pathTag(p Path) string {
+	switch p {
+	case GoPath:
+		return "go"
+	case AVX2Path:
+		return "avx2"
+	case AVX512Path:
+		return "avx512"
+	}
+	return "openblas"
 }
 
 // BenchmarkFactorize times Factorize (with the condition estimate) on a
@@ -60,20 +80,27 @@ func BenchmarkFactorize(b *testing.B) {
 	}
 }
 
-// BenchmarkFactor times the factorisation alone.
+// BenchmarkFactor times the factorisation alone, on the assembly paths
+// of the build.
 func BenchmarkFactor(b *testing.B) {
-	for _, n := range benchSizes {
-		b.Run(fmt.Sprintf("n=%d", n), func(b *testing.B) {
-			orig := randMatrix(n, 1)
-			a := make([]float64, len(orig))
-			ipiv := make([]int, n)
-			for b.Loop() {
-				copy(a, orig)
-				f := factorizer{n: n, a: a, ipiv: ipiv, workers: workersFor(n)}
-				f.run()
-			}
-			b.ReportMetric(2.0/3*float64(n*n*n)*float64(b.N)/b.Elapsed().Seconds()/1e9, "GFLOP/s")
-		})
+	for _, p := range Paths() {
+		if p == GoPath || p == OpenBLASPath {
+			continue
+		}
+		for _, n := range benchSizes {
+			b.Run(fmt.Sprintf("%s/n=%d", pathTag(p), n), func(b *testing.B) {
+				defer Use(p)()
+				orig := randMatrix(n, 1)
+				a := make([]float64, len(orig))
+				ipiv := make([]int, n)
+				for b.Loop() {
+					copy(a, orig)
+					f := factorizer{n: n, a: a, ipiv: ipiv, workers: workersFor(n)}
+					f.run()
+				}
+				b.ReportMetric(2.0/3*float64(n*n*n)*float64(b.N)/b.Elapsed().Seconds()/1e9, "GFLOP/s")
+			})
+		}
 	}
 }
 

@@ -28,9 +28,30 @@ const (
 	// goroutines: at 200 rows one goroutine took 0.51–0.61 ms and two
 	// 0.59–0.67 ms, at 400 rows 2.06 ms and 1.62–1.72 ms.
 	parallelMin = 300
-	// blockSize is the width of the blocks.
+	// blockSize is the width of the blocks with the AVX2 or Go kernels.
 	blockSize = 64
+	// blockWideMin is the order from which the AVX-512 path takes blocks of
+	// 128 columns (96 below it): with the products at twice the AVX2 rate,
+	// wider blocks pay for their longer panels. Two goroutines, chrt,
+	// medians of 15: 401 rows 1.44 ms at 64 columns, 1.33 at 96, 1.41 at
+	// 128; 801 rows 6.25 / 5.97 / 5.74; 1601 rows 39.9 / 36.5 / 34.9.
+	blockWideMin = 700
 )
+
+// wideBlocks lets the AVX-512 path take its wider blocks; a test turns it
+// off to compare the kernels on the same blocking.
+var wideBlocks = true
+
+// blockFor returns the width of the blocks of a factorisation of order n.
+func blockFor(n int) int {
+	switch {
+	case !useAsm || !useAVX512 || !wideBlocks:
+		return blockSize
+	case n < blockWideMin:
+		return 96
+	}
+	return 128
+}
 
 // chunkCols returns the width of the pieces of a trailing update of rest
 // columns that the goroutines take in turn: about eight, so that a
@@ -98,7 +119,7 @@ func (f *factorizer) run() {
 		f.panel(0, n, ws[0])
 		return
 	}
-	nb := blockSize
+	nb := blockFor(n)
 	team := par.NewTeam(f.workers)
 	defer team.Close()
 	f.panel(0, min(nb, n), ws[0])
@@ -197,11 +218,20 @@ func (f *factorizer) swapRows(p0, p1, c0, c1 int) {
 	n, a := f.n, f.a
 	for i := p0; i < p1; i++ {
 		if p := f.ipiv[i]; p != i {
-			ri, rp := a[i*n+c0:i*n+c1], a[p*n+c0:p*n+c1]
-			for j := range ri {
-				ri[j], rp[j] = rp[j], ri[j]
-			}
+			swap(a[i*n+c0:i*n+c1], a[p*n+c0:p*n+c1])
 		}
+	}
+}
+
+// swap exchanges the entries of x and y, of the same length.
+func swap(x, y []float64) {
+	y = y[:len(x)]
+	if useAsm && useAVX512 && len(x) > 0 {
+		swapAVX512(&x[0], &y[0], len(x))
+		return
+	}
+	for j := range x {
+		x[j], y[j] = y[j], x[j]
 	}
 }
 
@@ -268,7 +298,7 @@ func (f *factorizer) factorColumns(d, w int) {
 		inv := 1 / piv
 		if useAsm && !small {
 			_ = a[(n-1)*n+e-1] // the last row the kernel touches
-			p = j + rank1AVX2(&a[j*n+j], n, n-1-j, e-j, inv)
+			p = j + rank1(&a[j*n+j], n, n-1-j, e-j, inv)
 			continue
 		}
 		p, best = next, -1
@@ -294,6 +324,15 @@ func (f *factorizer) factorColumns(d, w int) {
 			}
 		}
 	}
+}
+
+// rank1 runs the assembly elimination step (rank1AVX2), with AVX-512 for
+// the narrow rows of a panel's columns where the CPU has it.
+func rank1(a *float64, lda, rows, w int, inv float64) int {
+	if useAVX512 && w >= 2 && w <= 9 {
+		return rank1AVX512(a, lda, rows, w, inv)
+	}
+	return rank1AVX2(a, lda, rows, w, inv)
 }
 
 // unblocked factors the whole matrix column by column: whole-row swaps,
@@ -338,7 +377,7 @@ func (f *factorizer) unblocked() {
 		inv := 1 / piv
 		if useAsm && !small {
 			_ = a[(n-1)*n+n-1] // the last row the kernel touches
-			p = k + rank1AVX2(&a[k*n+k], n, n-1-k, n-k, inv)
+			p = k + rank1(&a[k*n+k], n, n-1-k, n-k, inv)
 			continue
 		}
 		p, best = next, -1

@@ -44,6 +44,10 @@ func gemmSub(m, n, k int, a []float64, lda int, b []float64, ldb int, c []float6
 			ncur := min(ncMax, n-jc)
 			bp := ws.bufB(kc * roundUp(ncur, nr))
 			packB(bp, b[pc*ldb+jc:], ldb, kc, ncur)
+			if useAsm && useAVX512 {
+				gemmInPlace(m, ncur, kc, a[pc:], lda, bp, c[jc:], ldc, ws)
+				continue
+			}
 			for ic := 0; ic < m; ic += mc {
 				mcur := min(mc, m-ic)
 				ap := ws.bufA(kc * roundUp(mcur, mr))
@@ -110,7 +114,12 @@ func packB(dst, b []float64, ldb, k, n int) {
 		w := min(nr, n-j0)
 		if w == nr {
 			for p := range k {
-				copy(d[p*nr:p*nr+nr], b[p*ldb+j0:p*ldb+j0+nr])
+				// Through a local array, which the compiler moves in
+				// registers; copy, or an assignment between the two
+				// arrays (which might overlap), calls memmove for the
+				// 64 bytes.
+				v := *(*[nr]float64)(b[p*ldb+j0:])
+				*(*[nr]float64)(d[p*nr:]) = v
 			}
 			continue
 		}
@@ -126,8 +135,12 @@ func packB(dst, b []float64, ldb, k, n int) {
 // both of depth k, tile by tile; tiles that stick out of C go through a
 // scratch tile.
 func gemmPacked(m, n, k int, ap, bp []float64, c []float64, ldc int) {
+	j0 := 0
+	if useAsm && useAVX512 {
+		j0 = gemmPacked16(m, n, k, ap, bp, c, ldc)
+	}
 	var tmp [mr * nr]float64
-	for jr := 0; jr < n; jr += nr {
+	for jr := j0; jr < n; jr += nr {
 		bs := bp[jr*k : jr*k+nr*k]
 		for ir := 0; ir < m; ir += mr {
 			as := ap[ir*k : ir*k+mr*k]
@@ -143,6 +156,97 @@ func gemmPacked(m, n, k int, ap, bp []float64, c []float64, ldc int) {
 					cr[j] += tmp[r*nr+j]
 				}
 			}
+		}
+	}
+}
+
+// gemmPacked16 is gemmPacked on the AVX-512 micro-kernels, for the columns
+// [0, n − n%8) that fill whole slivers of B, of which it returns the end:
+// tiles of 16 columns (two slivers), then one of 8; in each, tiles of 12
+// rows, then one of 6, then the last rows through a scratch tile. The
+// entries are the same, bit for bit, as the 6×8 kernel's.
+func gemmPacked16(m, n, k int, ap, bp []float64, c []float64, ldc int) int {
+	var tmp [mr * 2 * nr]float64
+	end := n - n%nr
+	for jr := 0; jr < end; {
+		nw := 2 * nr
+		k12, k6 := kern12x16AVX512, kern6x16AVX512
+		if jr+nw > end {
+			nw = nr
+			k12, k6 = kern12x8AVX512, kern6x8AVX512
+		}
+		bs := bp[jr*k : jr*k+nw*k]
+		ir := 0
+		for ; ir+2*mr <= m; ir += 2 * mr {
+			as := ap[ir*k : ir*k+2*mr*k]
+			_ = c[(ir+2*mr-1)*ldc+jr+nw-1]
+			k12(k, &as[0], &bs[0], &c[ir*ldc+jr], ldc)
+		}
+		if ir+mr <= m {
+			as := ap[ir*k : ir*k+mr*k]
+			_ = c[(ir+mr-1)*ldc+jr+nw-1]
+			k6(k, &as[0], &bs[0], &c[ir*ldc+jr], ldc)
+			ir += mr
+		}
+		if ir < m {
+			as := ap[ir*k : ir*k+mr*k]
+			t := tmp[:mr*nw]
+			clear(t)
+			k6(k, &as[0], &bs[0], &t[0], nw)
+			for r := range m - ir {
+				cr := c[(ir+r)*ldc+jr : (ir+r)*ldc+jr+nw]
+				for j := range cr {
+					cr[j] += t[r*nw+j]
+				}
+			}
+		}
+		jr += nw
+	}
+	return end
+}
+
+// gemmInPlace computes C −= A·B for the row-major A (m×k, lda) and the
+// packed B (n columns), with the AVX-512 kernels that read A in place:
+// the products of gemmSub (a panel's, a triangular solve's) use each row
+// of A once, so packing it cost about as much as the product. The rows
+// past the last whole tile of 6, and the columns past the last whole
+// sliver, go packed through gemmPacked. The entries are the same, bit for
+// bit, as with A packed.
+func gemmInPlace(m, n, k int, a []float64, lda int, bp []float64, c []float64, ldc int, ws *workspace) {
+	end := n - n%nr
+	rows := m - m%mr
+	for jr := 0; jr < end; {
+		nw := 2 * nr
+		k12, k6 := kernU12x16AVX512, kernU6x16AVX512
+		if jr+nw > end {
+			nw = nr
+			k12, k6 = kernU12x8AVX512, kernU6x8AVX512
+		}
+		bs := bp[jr*k : jr*k+nw*k]
+		ir := 0
+		for ; ir+2*mr <= m; ir += 2 * mr {
+			_ = a[(ir+2*mr-1)*lda+k-1]
+			_ = c[(ir+2*mr-1)*ldc+jr+nw-1]
+			k12(k, &a[ir*lda], lda, &bs[0], &c[ir*ldc+jr], ldc)
+		}
+		if ir+mr <= m {
+			_ = a[(ir+mr-1)*lda+k-1]
+			_ = c[(ir+mr-1)*ldc+jr+nw-1]
+			k6(k, &a[ir*lda], lda, &bs[0], &c[ir*ldc+jr], ldc)
+		}
+		jr += nw
+	}
+	if rows < m {
+		ap := ws.bufA(k * mr)
+		packA(ap, a[rows*lda:], lda, m-rows, k)
+		gemmPacked(m-rows, n, k, ap, bp, c[rows*ldc:], ldc)
+	}
+	if end < n {
+		for ic := 0; ic < rows; ic += mc {
+			mcur := min(mc, rows-ic)
+			ap := ws.bufA(k * roundUp(mcur, mr))
+			packA(ap, a[ic*lda:], lda, mcur, k)
+			gemmPacked(mcur, n-end, k, ap, bp[end*k:], c[ic*ldc+end:], ldc)
 		}
 	}
 }

@@ -19,6 +19,11 @@ const (
 // it off to check the Go kernel.
 var useAsm = haveAVX2
 
+// useAVX512 selects, with useAsm, the AVX-512 micro-kernels on tiles of
+// 16 columns where the CPU has them; tests turn it off to check the AVX2
+// path.
+var useAVX512 = haveAVX512
+
 // kern checks the slice lengths and runs the micro-kernel.
 func kern(k int, a, b, c []float64, ldc int) {
 	_ = a[mr*k-1]

@@ -122,6 +122,7 @@ const (
 	GoPath       Path = iota // pure Go, Go micro-kernel
 	AVX2Path                 // pure Go, assembly micro-kernels (amd64 with AVX2 and FMA)
 	OpenBLASPath             // OpenBLAS dgetrf (build tag openblas)
+	AVX512Path               // pure Go, assembly micro-kernels with AVX-512 products (amd64 with AVX-512F)
 )
 
 func (p Path) String() string {
@@ -132,6 +133,8 @@ func (p Path) String() string {
 		return "Go with AVX2 kernels"
 	case OpenBLASPath:
 		return "OpenBLAS"
+	case AVX512Path:
+		return "Go with AVX2 and AVX-512 kernels"
 	}
 	return fmt.Sprintf("Path(%d)", int(p))
 }
@@ -142,6 +145,9 @@ func Paths() []Path {
 	p := []Path{GoPath}
 	if haveAVX2 {
 		p = append(p, AVX2Path)
+	}
+	if haveAVX512 {
+		p = append(p, AVX512Path)
 	}
 	if haveBackend {
 		p = append(p, OpenBLASPath)
@@ -154,6 +160,8 @@ func Current() Path {
 	switch {
 	case useBackend:
 		return OpenBLASPath
+	case useAsm && useAVX512:
+		return AVX512Path
 	case useAsm:
 		return AVX2Path
 	}
@@ -167,9 +175,9 @@ func Use(p Path) (restore func()) {
 	if !slices.Contains(Paths(), p) {
 		panic(fmt.Sprintf("dense: path %v is not available", p))
 	}
-	asm, backend := useAsm, useBackend
-	useAsm, useBackend = p == AVX2Path, p == OpenBLASPath
-	return func() { useAsm, useBackend = asm, backend }
+	asm, asm512, backend := useAsm, useAVX512, useBackend
+	useAsm, useAVX512, useBackend = p == AVX2Path || p == AVX512Path, p == AVX512Path, p == OpenBLASPath
+	return func() { useAsm, useAVX512, useBackend = asm, asm512, backend }
 }
 
 // Size returns the order of the factored matrix.

@@ -17,37 +17,50 @@ type setting struct {
 	asm     bool
 	workers int
 	backend bool
+	asm512  bool // with asm, the AVX-512 products
+}
+
+// kernelSet is a choice of micro-kernels: Go, AVX2, AVX2 with AVX-512.
+type kernelSet struct{ asm, asm512 bool }
+
+// kernelSets returns the choices this CPU runs.
+func kernelSets() []kernelSet {
+	s := []kernelSet{{false, false}}
+	if haveAVX2 {
+		s = append(s, kernelSet{true, false})
+	}
+	if haveAVX512 {
+		s = append(s, kernelSet{true, true})
+	}
+	return s
 }
 
 // settings returns every way this build can factor.
 func settings() []setting {
 	var s []setting
-	for _, asm := range []bool{false, true} {
-		if asm && !haveAVX2 {
-			continue
-		}
+	for _, k := range kernelSets() {
 		for _, w := range []int{1, 2} {
-			s = append(s, setting{fmt.Sprintf("asm=%v,workers=%d", asm, w), asm, w, false})
+			s = append(s, setting{fmt.Sprintf("asm=%v,avx512=%v,workers=%d", k.asm, k.asm512, w), k.asm, w, false, k.asm512})
 		}
 	}
 	if haveBackend {
-		s = append(s, setting{"openblas", false, 0, true})
+		s = append(s, setting{"openblas", false, 0, true, false})
 	}
 	return s
 }
 
 // with runs f under the setting s and restores the defaults.
 func with(s setting, f func()) {
-	asm, workers, backend := useAsm, maxWorkers, useBackend
-	defer func() { useAsm, maxWorkers, useBackend = asm, workers, backend }()
-	useAsm, maxWorkers, useBackend = s.asm, s.workers, s.backend
+	asm, asm512, workers, backend := useAsm, useAVX512, maxWorkers, useBackend
+	defer func() { useAsm, useAVX512, maxWorkers, useBackend = asm, asm512, workers, backend }()
+	useAsm, useAVX512, maxWorkers, useBackend = s.asm, s.asm512, s.workers, s.backend
 	f()
 }
 
 // sizes cover every path: tiny, the unblocked limit, the recursive range,
 // the blocked look-ahead range, with remainders of every tile and block.
 var sizes = []int{1, 2, 3, 5, 7, 8, 9, 13, 16, 17, 31, 64, 65, unblockedMax, unblockedMax + 1,
-	blockMin - 1, blockMin, blockMin + 1, 200, 257, 333, 520}
+	blockMin - 1, blockMin, blockMin + 1, 200, 257, 333, 520, blockWideMin + 3}
 
 func randomMatrix(rng *rand.Rand, n int) []float64 {
 	a := make([]float64, n*n)
@@ -380,7 +393,7 @@ func TestWorkersGiveSameFactors(t *testing.T) {
 		a := randomMatrix(rng, n)
 		var first []float64
 		for _, w := range []int{1, 2, 3} {
-			with(setting{asm: useAsm, workers: w}, func() {
+			with(setting{asm: useAsm, asm512: useAVX512, workers: w}, func() {
 				var lu LU
 				lu.Factorize(n, append([]float64(nil), a...))
 				if first == nil {
@@ -393,16 +406,42 @@ func TestWorkersGiveSameFactors(t *testing.T) {
 	}
 }
 
+// TestAVX512SameFactors checks the claim of kernel512_amd64.s: the AVX-512
+// micro-kernels give the AVX2 path's factors bit for bit (each entry is
+// summed in the same order by fused multiply-adds), on every kind of step,
+// with the blocks of the same width (the AVX-512 path takes wider ones,
+// which round differently; TestRandomAgainstGonum checks those).
+func TestAVX512SameFactors(t *testing.T) {
+	if !haveAVX512 {
+		t.Skip("no AVX-512 on this machine")
+	}
+	defer func(w bool) { wideBlocks = w }(wideBlocks)
+	wideBlocks = false
+	rng := rand.New(rand.NewPCG(21, 22))
+	for _, n := range []int{unblockedMax + 1, blockMin - 1, 257, 401, 520} {
+		a := randomMatrix(rng, n)
+		var got [2][]float64
+		for i, on := range []bool{false, true} {
+			with(setting{asm: true, asm512: on, workers: 2}, func() {
+				var lu LU
+				lu.Factorize(n, append([]float64(nil), a...))
+				got[i] = lu.a
+			})
+		}
+		if !equalSlices(got[0], got[1]) {
+			t.Errorf("n=%d: the factors with AVX-512 differ from those with AVX2 alone", n)
+		}
+	}
+}
+
 // TestKernels checks the micro-kernel in Go, and in assembly where the CPU
 // has it, against a plain triple loop, and gemmSub on every edge shape.
 func TestKernels(t *testing.T) {
 	rng := rand.New(rand.NewPCG(13, 14))
-	for _, asm := range []bool{false, true} {
-		if asm && !haveAVX2 {
-			continue
-		}
-		with(setting{asm: asm, workers: 1}, func() {
-			for _, d := range [][3]int{{1, 1, 1}, {5, 7, 3}, {6, 8, 4}, {13, 17, 5}, {97, 33, 64}, {200, 530, 300}} {
+	for _, ks := range kernelSets() {
+		asm := ks
+		with(setting{asm: ks.asm, asm512: ks.asm512, workers: 1}, func() {
+			for _, d := range [][3]int{{1, 1, 1}, {5, 7, 3}, {6, 8, 4}, {13, 17, 5}, {19, 48, 7}, {18, 16, 9}, {97, 33, 64}, {200, 530, 300}} {
 				m, n, k := d[0], d[1], d[2]
 				lda, ldb, ldc := k+3, n+1, n+5
 				a, b, c := randomMatrix(rng, max(m, k)+3), randomMatrix(rng, max(k, n)+5), randomMatrix(rng, max(m, n)+5)
@@ -435,35 +474,46 @@ func TestRank1(t *testing.T) {
 		t.Skip("no AVX2/FMA on this machine: the Go loop runs")
 	}
 	rng := rand.New(rand.NewPCG(15, 16))
-	for rows := 0; rows < 7; rows++ {
-		for w := 1; w < 40; w++ {
-			lda := w + 3
-			buf := make([]float64, (rows+3)*lda)
-			for i := range buf {
-				buf[i] = rng.NormFloat64()
-			}
-			a := buf[lda : lda+(rows+1)*lda] // the pivot row and rows below, with sentinel rows around
-			want := append([]float64(nil), buf...)
-			inv := 1 / a[0]
-			wantPiv, best := 1, -1.0
-			for r := 1; r <= rows; r++ {
-				row := want[lda+r*lda : lda+r*lda+w]
-				l := row[0] * inv
-				row[0] = l
-				for c := 1; c < w; c++ {
-					row[c] = math.FMA(-l, want[lda+c], row[c])
+	type impl struct {
+		name       string
+		f          func(a *float64, lda, rows, w int, inv float64) int
+		wMin, wMax int
+	}
+	impls := []impl{{"AVX2", rank1AVX2, 1, 39}}
+	if haveAVX512 {
+		impls = append(impls, impl{"AVX-512", rank1AVX512, 2, 9})
+	}
+	for _, im := range impls {
+		for rows := 0; rows < 7; rows++ {
+			for w := im.wMin; w <= im.wMax; w++ {
+				lda := w + 3
+				buf := make([]float64, (rows+3)*lda)
+				for i := range buf {
+					buf[i] = rng.NormFloat64()
 				}
-				if w > 1 && math.Abs(row[1]) > best {
-					best, wantPiv = math.Abs(row[1]), r
+				a := buf[lda : lda+(rows+1)*lda] // the pivot row and rows below, with sentinel rows around
+				want := append([]float64(nil), buf...)
+				inv := 1 / a[0]
+				wantPiv, best := 1, -1.0
+				for r := 1; r <= rows; r++ {
+					row := want[lda+r*lda : lda+r*lda+w]
+					l := row[0] * inv
+					row[0] = l
+					for c := 1; c < w; c++ {
+						row[c] = math.FMA(-l, want[lda+c], row[c])
+					}
+					if w > 1 && math.Abs(row[1]) > best {
+						best, wantPiv = math.Abs(row[1]), r
+					}
 				}
-			}
-			piv := rank1AVX2(&a[0], lda, rows, w, inv)
-			if piv != wantPiv {
-				t.Errorf("rows %d w %d: pivot %d, want %d", rows, w, piv, wantPiv)
-			}
-			for i := range buf {
-				if buf[i] != want[i] {
-					t.Fatalf("rows %d w %d: entry %d (row %d) is %g, want %g", rows, w, i, i/lda-1, buf[i], want[i])
+				piv := im.f(&a[0], lda, rows, w, inv)
+				if piv != wantPiv {
+					t.Errorf("%s rows %d w %d: pivot %d, want %d", im.name, rows, w, piv, wantPiv)
+				}
+				for i := range buf {
+					if buf[i] != want[i] {
+						t.Fatalf("%s rows %d w %d: entry %d (row %d) is %g, want %g", im.name, rows, w, i, i/lda-1, buf[i], want[i])
+					}
 				}
 			}
 		}
@@ -614,5 +664,29 @@ func TestPaths(t *testing.T) {
 	}
 	if Current() != paths[len(paths)-1] {
 		t.Errorf("restored to %v", Current())
+	}
+}
+
+// TestSwap checks the exchange of two row pieces (assembly where the CPU
+// has AVX-512) for lengths around its unrolling, with sentinels after them.
+func TestSwap(t *testing.T) {
+	for _, ks := range kernelSets() {
+		with(setting{asm: ks.asm, asm512: ks.asm512, workers: 1}, func() {
+			for n := range 40 {
+				x, y := make([]float64, n+1), make([]float64, n+1)
+				for i := range x {
+					x[i], y[i] = float64(i), -float64(i)-0.5
+				}
+				swap(x[:n], y[:n])
+				for i := range n {
+					if x[i] != -float64(i)-0.5 || y[i] != float64(i) {
+						t.Fatalf("%+v n %d: entry %d is %g, %g", ks, n, i, x[i], y[i])
+					}
+				}
+				if x[n] != float64(n) || y[n] != -float64(n)-0.5 {
+					t.Fatalf("%+v n %d: the sentinels changed", ks, n)
+				}
+			}
+		})
 	}
 }

@@ -73,7 +73,18 @@ type Options struct {
 	// JSONDepth is the deepest nesting a result document may have. Zero
 	// means DefaultJSONDepth.
 	JSONDepth int
+	// NoFrames sends every Run call over gRPC. By default a stage that
+	// speaks frames (stage.Frames; every stage served by plugins/sdk does)
+	// gets its Run calls on a socket of their own, read and answered by
+	// one goroutine on each side (Unix only). NoFramesEnv set to anything
+	// but "" or "0" in the host's environment sets it too.
+	NoFrames bool
 }
+
+// NoFramesEnv is the environment variable that turns frames off for every
+// host of the process (Options.NoFrames), to tell a problem of frames from
+// one of the stage when debugging.
+const NoFramesEnv = "FOILWRIGHT_NO_FRAMES"
 
 // DefaultJSONDepth is the nesting limit of result documents when
 // Options.JSONDepth is zero.
@@ -135,6 +146,9 @@ func New(opts Options) (*Host, error) {
 	if opts.JSONDepth <= 0 {
 		opts.JSONDepth = DefaultJSONDepth
 	}
+	if v := os.Getenv(NoFramesEnv); v != "" && v != "0" {
+		opts.NoFrames = true
+	}
 	log := opts.Logger
 	if log == nil {
 		log = hclog.NewNullLogger()
@@ -193,12 +207,17 @@ type process struct {
 	rpc    plugin.ClientProtocol
 	stage  stage.Stage
 	info   stage.Info
+	frames *os.File // the host's end of the frames channel, or nil
 	once   sync.Once
 }
 
 // kill ends the process (idempotent, blocking) and forgets it.
 func (p *process) kill() {
 	p.once.Do(func() {
+		if p.frames != nil {
+			shutdownFrames(p.frames) // ends a call under way
+			p.frames.Close()
+		}
 		p.client.Kill()
 		p.h.mu.Lock()
 		delete(p.h.procs, p)
@@ -319,7 +338,24 @@ func (h *Host) start(ctx context.Context, spec Spec) (*process, error) {
 	if raceBuild {
 		memory = 0
 	}
-	if run := groupRunnerFunc(path, args, env, memory, func(g *groupRunner) { p.group.Store(g) }); run != nil {
+	// The frames channel (stage.Frames) is offered to every stage started
+	// in a group of our own; the stage's end is closed here once the
+	// process has started.
+	var framesChild *os.File
+	if !h.opts.NoFrames && groupRunnerFunc(path, args, env, memory, nil) != nil {
+		if conn, child, err := framesPair(); err == nil {
+			p.frames, framesChild = conn, child
+			env = append(env, fmt.Sprintf("%s=%d", stage.FramesEnv, framesFD))
+		} else {
+			h.log.Debug("no frames channel; Run calls go over gRPC", "error", err)
+		}
+	}
+	if run := groupRunnerFunc(path, args, env, memory, func(g *groupRunner) {
+		p.group.Store(g)
+		if framesChild != nil {
+			offerFrames(g, framesChild)
+		}
+	}); run != nil {
 		cfg.RunnerFunc = run
 	} else {
 		cmd := exec.Command(path, args...)
@@ -331,12 +367,19 @@ func (h *Host) start(ctx context.Context, spec Spec) (*process, error) {
 	h.mu.Lock()
 	if h.closed {
 		h.mu.Unlock()
+		if p.frames != nil {
+			p.frames.Close()
+			framesChild.Close()
+		}
 		return nil, fail(ErrClosed, nil)
 	}
 	h.procs[p] = struct{}{}
 	h.mu.Unlock()
 
 	rpc, err := p.connect(ctx)
+	if framesChild != nil {
+		framesChild.Close() // the stage has its own copy, or never started
+	}
 	if err != nil {
 		p.kill()
 		if ctx.Err() != nil {
@@ -384,6 +427,15 @@ func (h *Host) start(ctx context.Context, spec Spec) (*process, error) {
 		info.MaxNodes = h.opts.MaxNodes
 	}
 	p.info = info
+	if p.frames != nil {
+		c, ok := raw.(*stage.Client)
+		if ok && framesHello(p.frames) {
+			f := p.frames
+			c.SetFrames(stage.NewFrames(f, func() { shutdownFrames(f) }))
+		} else {
+			p.frames.Close() // a stage that does not speak frames
+		}
+	}
 	h.log.Debug("stage started", "stage", spec.String(), "pid", p.pid(), "version", info.Version)
 	return p, nil
 }

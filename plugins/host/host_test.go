@@ -134,6 +134,66 @@ func TestRunReusesProcess(t *testing.T) {
 	}
 }
 
+// TestRunAsFrames: a stage served by plugins/sdk gets its Run calls as
+// frames (stage.Frames), calls that run at once find the channel busy and
+// go over gRPC, and Options.NoFrames sends every call over gRPC; the
+// replies are the same.
+func TestRunAsFrames(t *testing.T) {
+	t.Parallel()
+	for _, noFrames := range []bool{false, true} {
+		h := newHost(t, host.Options{NoFrames: noFrames})
+		r := h.Runner(host.Builtin("transport"))
+		var replies [4]*host.Reply
+		var wg sync.WaitGroup
+		for i := range replies {
+			wg.Go(func() {
+				reply, err := r.Run(t.Context(), request(""))
+				if err != nil {
+					t.Error(err)
+				}
+				replies[i] = reply
+			})
+			if i == 0 {
+				wg.Wait() // the first call alone: it starts the process
+			}
+		}
+		wg.Wait()
+		if t.Failed() {
+			return
+		}
+		ways := map[string]int{}
+		for _, reply := range replies {
+			ways[reply.Warnings[0]]++
+			if reply.Doc.Cases[0].CL != float64(len(section)) {
+				t.Errorf("NoFrames %v: reply %+v", noFrames, reply.Doc.Cases[0])
+			}
+		}
+		if want := "frame"; noFrames {
+			if ways["gRPC"] != len(replies) {
+				t.Errorf("with NoFrames: calls came %v", ways)
+			}
+			if !h.Options().NoFrames {
+				t.Error("Options lost NoFrames")
+			}
+		} else if replies[0].Warnings[0] != want || ways["frame"] == 0 {
+			t.Errorf("calls came %v, the first %s; want the first and some more as frames", ways, replies[0].Warnings[0])
+		}
+	}
+}
+
+// TestNoFramesEnv: the environment variable turns frames off.
+func TestNoFramesEnv(t *testing.T) {
+	t.Setenv(host.NoFramesEnv, "1")
+	h := newHost(t, host.Options{})
+	reply, err := h.Runner(host.Builtin("transport")).Run(t.Context(), request(""))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got := reply.Warnings[0]; got != "gRPC" || !h.Options().NoFrames {
+		t.Errorf("with %s=1 the call came as %s", host.NoFramesEnv, got)
+	}
+}
+
 // TestParamsCheckedEveryCall: parameters that passed the check once are
 // not checked again, and any others still are, whatever came before.
 func TestParamsCheckedEveryCall(t *testing.T) {

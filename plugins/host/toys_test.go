@@ -12,6 +12,7 @@ import (
 	"time"
 
 	"github.com/hashicorp/go-plugin"
+	"google.golang.org/grpc/peer"
 
 	"github.com/foilwright/foilwright/plugins/sdk"
 	"github.com/foilwright/foilwright/plugins/stage"
@@ -131,6 +132,16 @@ func init() {
 	addToy(toy{name: "env", run: func(_ context.Context, req stage.Request, _ stage.Values) (stage.Result, error) {
 		res, err := okResult(toys["env"].info(), req)
 		res.Warnings = os.Environ()
+		return res, err
+	}})
+	// transport says how the call came: over gRPC (the server's context
+	// names the peer) or as a frame.
+	addToy(toy{name: "transport", run: func(ctx context.Context, req stage.Request, _ stage.Values) (stage.Result, error) {
+		res, err := okResult(toys["transport"].info(), req)
+		res.Warnings = []string{"frame"}
+		if _, ok := peer.FromContext(ctx); ok {
+			res.Warnings = []string{"gRPC"}
+		}
 		return res, err
 	}})
 	addToy(toy{name: "memory", run: func(context.Context, stage.Request, stage.Values) (stage.Result, error) {

@@ -61,8 +61,9 @@ func Logger() hclog.Logger {
 // stage.ErrInternal and a message (the stack goes to the log) and the
 // process keeps serving. Unless the environment sets GOGC, Serve sets the
 // garbage collector's target to stageGCPercent. Serve exits the process when the host that started
-// it dies. Run by hand, without the host's handshake, it prints a notice to
-// stderr and exits with status 1.
+// it dies. It also serves Run calls as frames on the channel the host
+// offers through stage.FramesEnv (stage.ServeFrames). Run by hand, without
+// the host's handshake, it prints a notice to stderr and exits with status 1.
 //
 // Nothing may be written to stdout before Serve is called.
 func Serve(impl stage.Stage) {
@@ -72,6 +73,19 @@ func Serve(impl stage.Stage) {
 		log.Error("host process went away; exiting")
 		os.Exit(3)
 	})
+	// Run calls as frames beside gRPC, when the host offers the channel
+	// (stage.FramesEnv); the hello is written before gRPC serves, so the
+	// host finds it once Describe is answered.
+	if conn, err := stage.OpenFrames(); err != nil {
+		log.Warn("frames channel not served; Run calls come over gRPC", "error", err)
+	} else if conn != nil {
+		go func() {
+			if err := stage.ServeFrames(conn, impl, log, MaxMessageSize); err != nil {
+				log.Warn("frames channel broke; Run calls come over gRPC", "error", err)
+			}
+			conn.Close()
+		}()
+	}
 	plugin.Serve(&plugin.ServeConfig{
 		HandshakeConfig: stage.Handshake,
 		VersionedPlugins: map[int]plugin.PluginSet{

@@ -59,7 +59,12 @@ func (c *replyCodec) Unmarshal(data mem.BufferSlice, v any) error {
 	}
 	buf := data.MaterializeToBuffer(mem.DefaultBufferPool())
 	defer buf.Free()
-	b := buf.ReadOnlyData()
+	return c.read(buf.ReadOnlyData(), out)
+}
+
+// read reads the Run reply b into out, as Unmarshal does; nothing of out
+// refers to b afterwards.
+func (c *replyCodec) read(b []byte, out *stagev1.RunResponse) error {
 	if packed, doc, err, ok := readRunResponse(b, out); ok {
 		c.direct, c.packed, c.doc, c.err = true, packed, doc, err
 		return nil

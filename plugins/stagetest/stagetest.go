@@ -6,9 +6,10 @@
 //		stagetest.Run(t, myStage{})
 //	}
 //
-// Run checks the stage both as a plain Go value and through real gRPC with
-// the in-process harness Connect, which uses the same adapters as a stage
-// process but no handshake, environment or process.
+// Run checks the stage as a plain Go value, through real gRPC with the
+// in-process harness Connect, which uses the same adapters as a stage
+// process but no handshake, environment or process, and with its Run calls
+// as frames (ConnectFrames).
 //
 // A stage in any language is checked as an executable, started as
 // foilwright starts it (CheckExecutable; "foilwright stages check PATH"
@@ -25,6 +26,7 @@ import (
 	"encoding/json"
 	"errors"
 	"fmt"
+	"net"
 	"reflect"
 	"strings"
 	"sync"
@@ -90,6 +92,11 @@ func RunOptions(t *testing.T, impl stage.Stage, opts Options) {
 			t.Error(err)
 		}
 	})
+	t.Run("frames", func(t *testing.T) {
+		if err := Check(t.Context(), ConnectFrames(t, impl), opts); err != nil {
+			t.Error(err)
+		}
+	})
 }
 
 // Connect serves impl over real gRPC inside the test process, through the
@@ -111,6 +118,37 @@ func Connect(t testing.TB, impl stage.Stage) stage.Stage {
 	}
 	return s
 }
+
+// ConnectFrames is Connect with the Run calls sent as frames
+// (stage.Frames) on an in-memory connection served by stage.ServeFrames,
+// as the host sends them to a stage process served by plugins/sdk; calls
+// that find the channel busy, and every call after one that ended
+// half-way, go over gRPC.
+func ConnectFrames(t testing.TB, impl stage.Stage) stage.Stage {
+	t.Helper()
+	s := Connect(t, impl)
+	c, ok := s.(*stage.Client)
+	if !ok {
+		t.Fatalf("stagetest: dispensed %T, not a *stage.Client", s)
+	}
+	hostEnd, stageEnd := net.Pipe()
+	done := make(chan struct{})
+	go func() {
+		defer close(done)
+		stage.ServeFrames(stageEnd, impl, nil, maxFrame)
+	}()
+	t.Cleanup(func() {
+		hostEnd.Close()
+		stageEnd.Close()
+		<-done
+	})
+	c.SetFrames(stage.NewFrames(hostEnd, func() { hostEnd.SetDeadline(time.Unix(1, 0)) }))
+	return s
+}
+
+// maxFrame is the largest message of ConnectFrames's channel: that of a
+// stage served by plugins/sdk.
+const maxFrame = 64 << 20
 
 // Check runs the conformance checks on s and returns every failure found,
 // joined, or nil:

@@ -44,6 +44,29 @@ the shape, the sampling, the placement or the file's text:
               from 0, no header) or labelled ("PNT17"), separated by commas,
               semicolons with decimal commas, tabs or blanks
 
+Run by name only (not in "all"), or together as --class new25 (class k of
+EXTRA25 for seed k mod its length):
+
+    strokes   a CMM path in 3-7 strokes: the loop cut at random places,
+              neighbouring strokes overlapping by 0.5-3 % of the perimeter
+              (the overlap measured again by the next stroke, moved by up to
+              the noise), each stroke run either way, the strokes written in
+              any order (points along a stroke in order)
+    shadow    a laser slice: 1000-4000 points, one surface 3-6 times denser
+              than the other, and one surface shadowed: its points end
+              0.5-4 % of the chord short of the trailing edge
+    table     a laser slice with a stray line: the edge of the table or a
+              fixture's face, a straight row of points 0.02-0.2 c below the
+              section (tilted up to 2 deg), along 40-130 % of the chord, at
+              the section's spacing (planted outliers the tool must drop)
+    scale     chord 5 mm to 5 m, the file in mm, m or inches, the noise a
+              fixed 0.002-0.05 mm (at most 0.2 % of the chord) in half the
+              cases, the plain case's share of the chord in the others
+    columns   a scanner's or CMM's export: a constant z column (half the
+              cases), trailing columns (intensity, normals, a quality flag),
+              commas, semicolons or tabs with decimal commas, blanks, a
+              header naming the columns (some with units), CRLF line ends
+
 Sources: the shapes' equations are named in naca.py and shapes.py; the
 hazards' magnitudes are common practice (a CMM ball of 1-6 mm diameter,
 fixtures beside the part, scanner bias at grazing incidence), not from a
@@ -59,13 +82,16 @@ import shapes
 CLASSES = ["thick", "thin", "camber", "reflex", "kt", "ball", "graze", "nose", "clamp", "far", "inch", "text", "z3d", "numbered"]
 # Classes run by name only: "all" keeps taking CLASSES by seed, so that its
 # cases stay the files they were.
-EXTRA = ["ballr"]
+EXTRA25 = ["strokes", "shadow", "table", "scale", "columns"]
+EXTRA = ["ballr"] + EXTRA25
 
 
 def pick(seed, name):
     """The class of a seed for --class name (a class or "all")."""
     if name == "all":
         return CLASSES[seed % len(CLASSES)]
+    if name == "new25":
+        return EXTRA25[seed % len(EXTRA25)]
     if name not in CLASSES + EXTRA:
         raise ValueError("unknown class %r (have %s)" % (name, ", ".join(CLASSES + EXTRA)))
     return name
@@ -79,6 +105,7 @@ class Hazard:
         self.rng = np.random.default_rng([seed, 0 if mode == "normal" else 1, 22, (CLASSES + EXTRA).index(name)])
         self.spec = {"class": name}
         self.plane = None
+        self.keep_start = False  # the file starts where the class's order starts
 
     # --- the shape -------------------------------------------------------
     def section(self, sec, sspec):
@@ -134,13 +161,41 @@ class Hazard:
 
     # --- sampling and placement --------------------------------------------
     def sampling(self, sm):
-        if self.name == "graze":
-            sm["graze"] = float(self.rng.uniform(0.05, 0.3))
+        r, n = self.rng, self.name
+        if n == "graze":
+            sm["graze"] = float(r.uniform(0.05, 0.3))
             sm["noise"] = max(sm["noise"], 1e-5)
+        elif n == "strokes":
+            sm["shuffle"] = False
+            self.keep_start = True
+        elif n == "shadow":
+            sm["n"] = int(np.round(np.exp(r.uniform(np.log(1000), np.log(4000)))))
+        elif n == "scale":
+            self.chord = float(np.exp(r.uniform(np.log(5), np.log(5000))))
+            if r.random() < 0.5:
+                mm = float(np.exp(r.uniform(np.log(0.002), np.log(0.05))))
+                sm["noise"] = min(mm / self.chord, 2e-3)
+                self.spec["noise_mm"] = mm
 
     def placement(self, pl):
         r, n = self.rng, self.name
-        if n == "ballr":
+        if n == "scale":
+            ch = self.chord
+            u = r.random()
+            if ch > 1000 and u < 0.7 or 100 < ch <= 1000 and u < 0.3:
+                units, f = "m", 1000.0
+            elif u > 0.8:
+                units, f = "in", 25.4
+            else:
+                units, f = "mm", 1.0
+            pl["chord_mm"] = ch / f
+            pl["offset_mm"] = [v / f for v in pl["offset_mm"]]
+            pl["units"] = units
+            self.spec.update(chord_mm=ch, units=units)
+        elif n == "columns" and r.random() < 0.5:
+            self.plane = {"tilt_deg": 0.0, "z": float(np.round(r.uniform(-500, 2000), 1)), "scatter_mm": 0.0}
+            self.spec["plane"] = self.plane
+        elif n == "ballr":
             pl["chord_mm"] = float(np.exp(r.uniform(np.log(60), np.log(600))))
             rad = r.uniform(0.5, 3.0)
             self.spec.update(ball_mm=float(rad), ball_c=float(rad / pl["chord_mm"]))
@@ -261,6 +316,84 @@ class Hazard:
             okey = np.concatenate([okey, 3 * ctx["perimeter"] + np.arange(k) / k])
             kinds = kinds + ["outlier"] * k
             self.spec.update(clamp_points=k, clamp_len_c=float(length), clamp_off_c=float(off))
+        elif n == "strokes":
+            p, nrm, s, piece, kinds, okey = self._strokes(p, nrm, s, piece, kinds, ctx)
+        elif n == "shadow":
+            keep = np.ones(len(p), bool)
+            good = np.array([k == "good" for k in kinds])
+            sparse_side = ol.PIECE_UPPER if r.random() < 0.5 else ol.PIECE_LOWER
+            ratio = r.uniform(3, 6)
+            keep &= ~((piece == sparse_side) & (r.random(len(p)) > 1 / ratio))
+            shadowed = ol.PIECE_UPPER if r.random() < 0.5 else ol.PIECE_LOWER
+            short = r.uniform(0.005, 0.04)
+            keep &= ~((piece == shadowed) & good & (p[:, 0] > 1 - short))
+            p, nrm, s, piece, okey = p[keep], nrm[keep], s[keep], piece[keep], okey[keep]
+            kinds = [k for k, on in zip(kinds, keep) if on]
+            self.spec.update(sparse="upper" if sparse_side == ol.PIECE_UPPER else "lower", ratio=float(ratio),
+                             shadowed="upper" if shadowed == ol.PIECE_UPPER else "lower", short_c=float(short))
+        elif n == "table":
+            q = ctx["q"]
+            off = r.uniform(0.02, 0.2)
+            tilt = np.radians(r.uniform(-2, 2))
+            x0, x1 = r.uniform(-0.2, 0.3), r.uniform(0.7, 1.1)
+            h = float(np.median(np.diff(np.sort(s)))) * r.uniform(0.5, 2.0)
+            k = int(min(max((x1 - x0) / max(h, 1e-6), 10), 600))
+            x = np.sort(r.uniform(x0, x1, k)) if r.random() < 0.3 else np.linspace(x0, x1, k)
+            y = q[:, 1].min() - off + (x - (x0 + x1) / 2) * np.tan(tilt)
+            pts = np.stack([x, y], axis=1) + max(ctx["sm"]["noise"], 1e-6) * r.standard_normal((k, 2))
+            p = np.vstack([p, pts])
+            nrm = np.vstack([nrm, np.tile([0.0, -1.0], (k, 1))])
+            s = np.concatenate([s, np.full(k, -1.0)])
+            piece = np.concatenate([piece, np.full(k, -1)])
+            per = ctx["perimeter"]
+            okey = np.concatenate([okey, (3 if r.random() < 0.5 else -3) * per + np.arange(k) / k])
+            kinds = kinds + ["outlier"] * k
+            self.spec.update(table_points=k, table_off_c=float(off), table_from=float(x0), table_to=float(x1))
+        return p, nrm, s, piece, kinds, okey
+
+    def _strokes(self, p, nrm, s, piece, kinds, ctx):
+        """The loop cut into strokes that overlap, each run either way, the
+        strokes in any order; okey orders the file."""
+        r = self.rng
+        per, noise = ctx["perimeter"], ctx["sm"]["noise"]
+        k = int(r.integers(3, 8))
+        cuts = np.sort(r.uniform(0, per, k))
+        # strokes at least 5 % of the perimeter long
+        for j in range(1, k):
+            cuts[j] = max(cuts[j], cuts[j - 1] + 0.05 * per)
+        cuts = cuts[cuts < cuts[0] + 0.95 * per]
+        k = len(cuts)
+        stroke = (np.searchsorted(cuts, s % per, side="right") - 1) % k
+        start = cuts[stroke]
+        local = (s - start) % per
+        extra_p, extra_n, extra_s, extra_pc, extra_st, extra_loc = [], [], [], [], [], []
+        dens = len(s) / per
+        overlaps = []
+        for j in range(k):
+            # stroke j runs on over the start of stroke j+1
+            if r.random() < 0.8:
+                ov = r.uniform(0.005, 0.03) * per
+                m = max(int(round(ov * dens * r.uniform(0.7, 1.3))), 1)
+                nxt = cuts[(j + 1) % k]
+                sj = np.sort((nxt + r.uniform(0, ov, m)) % per)
+                pj, nj, seg = ctx["at"](sj)
+                shift = r.uniform(-1, 1) * noise
+                pj = pj + nj * (shift + noise * r.standard_normal(m))[:, None]
+                extra_p.append(pj), extra_n.append(nj), extra_s.append(sj), extra_pc.append(ctx["piece"][seg])
+                extra_st.append(np.full(m, j)), extra_loc.append((sj - cuts[j]) % per)
+                overlaps.append(float(ov / per))
+        if extra_p:
+            p = np.vstack([p] + extra_p)
+            nrm = np.vstack([nrm] + extra_n)
+            s = np.concatenate([s] + extra_s)
+            piece = np.concatenate([piece] + extra_pc)
+            stroke = np.concatenate([stroke] + extra_st)
+            local = np.concatenate([local] + extra_loc)
+            kinds = kinds + ["good"] * sum(len(e) for e in extra_s)
+        rank = r.permutation(k)
+        back = r.random(k) < 0.5
+        okey = rank[stroke] * 2 * per + np.where(back[stroke], 2 * per - local, local) * 0.5
+        self.spec.update(strokes=k, overlaps=len(overlaps), reversed=int(back.sum()))
         return p, nrm, s, piece, kinds, okey
 
     # --- the file's text ---------------------------------------------------
@@ -269,6 +402,8 @@ class Hazard:
         opts = {"encoding": "utf-8", "newline": "\n", "bom": False, "trailing": 0}
         if self.name == "numbered":
             return self._numbered(rows, sep, opts)
+        if self.name == "columns":
+            return self._columns(rows, sep, opts)
         if self.name != "text":
             return header + rows, list(range(len(header) + 1, len(header) + len(rows) + 1)), opts
         r = self.rng
@@ -307,6 +442,41 @@ class Hazard:
             lines.append(out_sep.join([tag] + fields))
         self.spec.update(label=label, sep={",": "comma", ";": "semicolon", "\t": "tab", " ": "blank"}[out_sep])
         return lines, list(range(1, len(lines) + 1)), opts
+
+    def _columns(self, rows, sep, opts):
+        r = self.rng
+        three = self.plane is not None
+        extra = ["", "i", "n", "q"][int(r.integers(0, 4))]
+        out_sep = [",", ";", "\t", " "][int(r.choice(4, p=[0.35, 0.3, 0.2, 0.15]))]
+        comma = out_sep == ";" or (out_sep == "\t" and r.random() < 0.4)
+        units = bool(r.random() < 0.5)
+        names = ["x", "y"] + (["z"] if three else [])
+        if r.random() < 0.5:
+            names = [c.upper() for c in names]
+        if units:
+            names = ["%s [mm]" % c for c in names]
+        names += {"": [], "i": ["intensity"], "n": ["nx", "ny", "nz"], "q": ["quality"]}[extra]
+        header = [out_sep.join(names)]
+        if not extra and r.random() < 0.3:
+            header = []  # two or three coordinates need no names
+        lines = list(header)
+        for row in rows:
+            fields = row.split(sep)
+            if extra == "i":
+                fields.append(str(int(r.integers(0, 256))))
+            elif extra == "n":
+                v = r.standard_normal(3)
+                v /= np.linalg.norm(v)
+                fields += ["%.4f" % c for c in v]
+            elif extra == "q":
+                fields.append(str(int(r.random() < 0.95)))
+            if comma:
+                fields = [f.replace(".", ",") for f in fields]
+            lines.append(out_sep.join(fields))
+        opts["newline"] = "\r\n" if r.random() < 0.5 else "\n"
+        self.spec.update(sep={",": "comma", ";": "semicolon", "\t": "tab", " ": "blank"}[out_sep], decimal_comma=comma,
+                         extra=extra or "none", header=bool(header), crlf=opts["newline"] == "\r\n")
+        return lines, list(range(len(header) + 1, len(lines) + 1)), opts
 
     def write(self, path, lines, opts):
         text = opts["newline"].join(lines) + opts["newline"]

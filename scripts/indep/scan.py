@@ -275,7 +275,8 @@ def draw(seed, mode, planes=0.0, cls=None):
     if sm["reverse"]:
         order = order[::-1]
     start = int(rng.integers(0, n))
-    order = np.roll(order, -start)
+    if hz is None or not hz.keep_start:
+        order = np.roll(order, -start)
     rows = [rows[i] for i in order]
     kinds = [kinds[i] for i in order]
     s_rows = [float(s[i]) for i in order]
