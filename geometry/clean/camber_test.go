@@ -1,6 +1,7 @@
 package clean
 
 import (
+	"math"
 	"math/rand/v2"
 	"testing"
 
@@ -59,5 +60,38 @@ func TestTailBurstSidedAtEveryCount(t *testing.T) {
 	}
 	if bad > 0 {
 		t.Logf("%d of 81 counts wrong", bad)
+	}
+}
+
+// A cambered section (NACA 4412, NACA Report 824 equations) whose upper
+// surface is probed five times as densely as its lower, as by passes of
+// unequal density (campaign 6795), the points standing alike (no
+// weights). In every bin the lower surface holds about a sixth of the
+// points, under sideShare, yet runs across the bin: each bin must count,
+// and the camber line must lie between the surfaces from 10 to 90 % of
+// the chord, within a tenth of the local thickness of the true middle.
+func TestCamberSparseSideAcrossBin(t *testing.T) {
+	foil := shape.NACA4{Camber: 0.04, CamberPos: 0.4, Thickness: 0.12, SharpTE: true}
+	var xs, ys []float64
+	const m = 400
+	for i := 1; i < m; i++ {
+		x := float64(i) / m
+		p := foil.Upper(x)
+		xs, ys = append(xs, p.X), append(ys, p.Y)
+		if i%5 == 0 {
+			q := foil.Lower(x)
+			xs, ys = append(xs, q.X), append(ys, q.Y)
+		}
+	}
+	cl := camber(xs, ys, nil)
+	if len(cl.x) < 20 {
+		t.Fatalf("camber line on %d bins, want most of the %d", len(cl.x), min(max(len(xs)/12, 8), 64))
+	}
+	for x := 0.1; x <= 0.9; x += 0.01 {
+		up, lo := foil.Upper(x), foil.Lower(x)
+		mid, th := (up.Y+lo.Y)/2, up.Y-lo.Y
+		if d := math.Abs(cl.at(x) - mid); d > th/10 {
+			t.Errorf("x %.2f: camber line %.5f, middle %.5f (thickness %.5f)", x, cl.at(x), mid, th)
+		}
 	}
 }

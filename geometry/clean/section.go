@@ -108,7 +108,7 @@ func endWidth(xs, ys, ws []float64, lo, hi float64) float64 {
 	var in []weighted
 	for i, x := range xs {
 		if x >= lo && x <= hi {
-			in = append(in, weighted{ys[i], weightOf(ws, i)})
+			in = append(in, weighted{v: ys[i], w: weightOf(ws, i)})
 		}
 	}
 	if len(in) < 4 {
@@ -118,8 +118,9 @@ func endWidth(xs, ys, ws []float64, lo, hi float64) float64 {
 	return in[b].v - in[a].v
 }
 
-// weighted is a value with the length of outline it stands for.
-type weighted struct{ v, w float64 }
+// weighted is a value with the length of outline it stands for (and,
+// in a camber bin, the x of its point).
+type weighted struct{ v, w, x float64 }
 
 // weightOf returns ws[i], or 1 when ws is nil.
 func weightOf(ws []float64, i int) float64 {
@@ -253,7 +254,8 @@ func (c camberLine) at(x float64) float64 {
 // the surfaces; trimming keeps a far outlier from making the largest gap
 // outside the body), and a bin counts only when that gap is wider than the
 // spread of the values on either side of it and each side holds at least
-// sideShare of the bin's outline (both surfaces run across the bin; an
+// sideShare of the bin's outline or has points across a third of the bin
+// (runsAcross: both surfaces run across the bin, a sparser one too; an
 // outlier or a burst of a few beyond a thin tail, whose surfaces lie
 // closer together than it lies from them, stands for a few points). The
 // middles are then smoothed by a robust running line (Tukey's biweight,
@@ -292,7 +294,7 @@ func camber(xs, ys, ws []float64) camberLine {
 			continue
 		}
 		k := binOf(x)
-		bins[k] = append(bins[k], weighted{ys[i], weightOf(ws, i)})
+		bins[k] = append(bins[k], weighted{v: ys[i], w: weightOf(ws, i), x: x})
 	}
 	var bx, by []float64
 	for k, b := range bins {
@@ -323,7 +325,13 @@ func camber(xs, ys, ws []float64) camberLine {
 				above += b[j].w
 			}
 		}
-		if below < sideShare*(below+above) || above < sideShare*(below+above) {
+		// A side lighter than sideShare still counts when its points run
+		// across the bin: a surface probed more sparsely than the other
+		// (passes of unequal density, a coarse surface), not a burst of a
+		// few points at one place.
+		width := 1 / float64(nb)
+		if below < sideShare*(below+above) && !runsAcross(b[:at+1], width) ||
+			above < sideShare*(below+above) && !runsAcross(b[at+1:], width) {
 			continue
 		}
 		bx = append(bx, (float64(k)+0.5)/float64(nb))
@@ -387,6 +395,22 @@ func camber(xs, ys, ws []float64) camberLine {
 		return camberLine{x: append(bx, 1), y: append(fit, 0)}
 	}
 	return camberLine{x: bx, y: fit}
+}
+
+// runsAcross reports whether the points of one side of a camber bin of
+// the given width (trimmed or not) spread along x over at least a third
+// of it: a surface crossing the bin does, even one probed so coarsely
+// that it has two points in the bin; a burst of a few points at one
+// place does not.
+func runsAcross(side []weighted, width float64) bool {
+	if len(side) < 2 {
+		return false
+	}
+	lo, hi := side[0].x, side[0].x
+	for _, p := range side[1:] {
+		lo, hi = min(lo, p.x), max(hi, p.x)
+	}
+	return hi-lo >= width/3
 }
 
 // sideShare is the least share of a camber bin's outline (its points'
