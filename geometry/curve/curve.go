@@ -2,7 +2,6 @@ package curve
 
 import (
 	"math"
-	"sort"
 	"sync"
 	"sync/atomic"
 
@@ -211,7 +210,7 @@ func (c *Curve) partial(i int, u float64) float64 {
 			k++
 		}
 	} else {
-		k = sort.Search(len(us)-1, func(j int) bool { return us[j] > u })
+		k = searchAfter(us[:len(us)-1], u)
 	}
 	var a, before float64
 	if k > 0 {
@@ -271,7 +270,7 @@ func (c *Curve) Locate(s float64) (int, float64) {
 		i := len(c.xs) - 1
 		return i, c.Span(i)
 	}
-	i := sort.SearchFloat64s(c.ss, s) - 1
+	i := searchAtLeast(c.ss, s) - 1
 	if i < 0 {
 		i = 0
 	}
@@ -315,6 +314,37 @@ func (c *Curve) Locate(s float64) (int, float64) {
 		}
 	}
 	return i, (a + b) / 2
+}
+
+// searchAtLeast is sort.SearchFloat64s(a, x), the least index i with
+// a[i] >= x (len(a) if none), by the same halving with the comparison
+// inline rather than through a function value.
+func searchAtLeast(a []float64, x float64) int {
+	i, j := 0, len(a)
+	for i < j {
+		h := int(uint(i+j) >> 1)
+		if !(a[h] >= x) {
+			i = h + 1
+		} else {
+			j = h
+		}
+	}
+	return i
+}
+
+// searchAfter is sort.Search(len(a), func(j int) bool { return a[j] > x }),
+// the least index i with a[i] > x (len(a) if none), the comparison inline.
+func searchAfter(a []float64, x float64) int {
+	i, j := 0, len(a)
+	for i < j {
+		h := int(uint(i+j) >> 1)
+		if !(a[h] > x) {
+			i = h + 1
+		} else {
+			j = h
+		}
+	}
+	return i
 }
 
 // arc returns the arc length at piece i, local parameter u.

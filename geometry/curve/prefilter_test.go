@@ -3,6 +3,8 @@ package curve
 import (
 	"math"
 	"math/rand/v2"
+	"slices"
+	"sort"
 	"testing"
 
 	"github.com/foilwright/foilwright/geometry"
@@ -115,3 +117,24 @@ func projectFrom(c *Curve, p geometry.Point, bi int, bu, bd float64) (float64, f
 	return c.arc(fi, fu), fd
 }
 
+// TestSearchesMatchSort checks searchAtLeast and searchAfter against the
+// sort package's searches they stand for, on sorted tables with repeats,
+// at and between their values, beyond both ends and at NaN.
+func TestSearchesMatchSort(t *testing.T) {
+	rng := rand.New(rand.NewPCG(1, 2))
+	for trial := range 200 {
+		a := make([]float64, trial%37)
+		for k := range a {
+			a[k] = math.Floor(rng.Float64() * 20)
+		}
+		slices.Sort(a)
+		for _, x := range []float64{-1, 0, 0.5, 3, 7.25, 19, 20, 25, math.NaN(), math.Inf(1)} {
+			if got, want := searchAtLeast(a, x), sort.SearchFloat64s(a, x); got != want {
+				t.Fatalf("searchAtLeast(%v, %v) = %d, sort gives %d", a, x, got, want)
+			}
+			if got, want := searchAfter(a, x), sort.Search(len(a), func(j int) bool { return a[j] > x }); got != want {
+				t.Fatalf("searchAfter(%v, %v) = %d, sort gives %d", a, x, got, want)
+			}
+		}
+	}
+}
