@@ -1,7 +1,6 @@
 package clean
 
 import (
-	"cmp"
 	"math"
 	"slices"
 
@@ -135,7 +134,7 @@ func weightOf(ws []float64, i int) float64 {
 // weights, the positions len/10 and len−1−len/10 for q = 0.1 (n·q rounded
 // down points trimmed each end). Weights that sum to nothing count alike.
 func trimmed(vs []weighted, q float64) (a, b int) {
-	stableSort(vs, func(x, y weighted) int { return cmp.Compare(x.v, y.v) })
+	stableSortWeighted(vs)
 	n := len(vs)
 	var tot float64
 	for _, v := range vs {
@@ -835,7 +834,8 @@ func sectionOrder(pts []geometry.Point, sel []int32, f chordFrame, ws []float64)
 		// No strict weak order: keep the sort whose order it always was.
 		slices.SortStableFunc(order, byPlace)
 	} else {
-		stableSort(order, byPlace)
+		// Without NaN, byPlace is cmp.Compare.
+		stableSortBy(order, us)
 	}
 	out := make([]int32, n)
 	for k, o := range order {
@@ -861,7 +861,7 @@ func surfaceWeights(xs []float64, upper []bool) []float64 {
 				idx = append(idx, k)
 			}
 		}
-		stableSort(idx, func(a, b int) int { return cmp.Compare(xs[a], xs[b]) })
+		stableSortBy(idx, xs)
 		for j, k := range idx {
 			lo, hi := xs[k], xs[k]
 			if j > 0 {
