@@ -23,7 +23,7 @@ func atan2AVX2(dst, y, x *float64, n int) (special int)
 func vortexRowAsm(ca, cb []float64, g *panelArrays, p *[4]float64, scratch []float64) {
 	n := len(ca)
 	_, _ = cb[n-1], scratch[5*n-1]
-	_, _, _, _, _ = g.x0[n-1], g.y0[n-1], g.tx[n-1], g.ty[n-1], g.s[n-1]
+	_, _, _, _, _, _ = g.x0[n-1], g.y0[n-1], g.tx[n-1], g.ty[n-1], g.s[n-1], g.inv[n-1]
 	vortexRowAVX2(&ca[0], &cb[0], g, n, p, &scratch[0])
 }
 

@@ -258,25 +258,28 @@ GLOBL kc<>(SB), RODATA|NOPTR, $1248
 	VSUBPD    Y11, Y12, Y12
 
 // ATAN24 sets Y10 = atan2(Y0, Y1); it uses Y0–Y14. The steps and their
-// order are those of Go's math.Atan2 (atan2.go, atan.go: Cephes), unfused,
-// with the branches as masks, so the results are the same: q = |y/x|;
-// atan q = xatan(q) for q ≤ 0.66, π/4 + xatan((q − 1)/(q + 1)) + Morebits/2
-// up to tan 3π/8, π/2 − xatan(1/q) + Morebits beyond, where xatan(t) =
-// t + t·(z·P(z)/Q(z)), z = t²; then π − atan q if x is negative, and the
-// sign of y. Both arguments zero, both infinite, or a NaN give NaN.
+// order are those of angle (angle.go), unfused, with the branches as masks,
+// so the results are the same: with a = |y|, b = |x|, atan(a/b) =
+// xatan(a/b) for a ≤ 0.66·b, π/4 + xatan((a − b)/(a + b)) + Morebits/2 up
+// to a = b·tan 3π/8, π/2 − xatan(b/a) + Morebits beyond, where xatan(t) =
+// t + t·(z·P(z)/Q(z)), z = t² (Go's math.Atan: Cephes); then π − atan if x
+// is negative, and the sign of y. One division reduces the argument where
+// math.Atan2 takes two (y/x, then the reduction of the rounded quotient);
+// the results are within a unit in the last place of math.Atan2. Both
+// arguments zero, both infinite, or a NaN give NaN.
 #define ATAN24 \
 	VANDPD    absmask, Y0, Y2; \
 	VANDPD    absmask, Y1, Y3; \
-	VDIVPD    Y3, Y2, Y4; \
-	VCMPPD    $0x1E, tan3pio8, Y4, Y5; \
-	VCMPPD    $0x12, c066, Y4, Y6; \
-	VSUBPD    one, Y4, Y7; \
-	VADDPD    one, Y4, Y8; \
-	VBLENDVPD Y6, Y4, Y7, Y7; \
-	VMOVUPD   one, Y9; \
-	VBLENDVPD Y5, Y9, Y7, Y7; \
-	VBLENDVPD Y6, Y9, Y8, Y8; \
-	VBLENDVPD Y5, Y4, Y8, Y8; \
+	VMULPD    tan3pio8, Y3, Y4; \
+	VCMPPD    $0x1E, Y4, Y2, Y5; \
+	VMULPD    c066, Y3, Y4; \
+	VCMPPD    $0x12, Y4, Y2, Y6; \
+	VSUBPD    Y3, Y2, Y7; \
+	VADDPD    Y3, Y2, Y8; \
+	VBLENDVPD Y6, Y2, Y7, Y7; \
+	VBLENDVPD Y6, Y3, Y8, Y8; \
+	VBLENDVPD Y5, Y3, Y7, Y7; \
+	VBLENDVPD Y5, Y2, Y8, Y8; \
 	VDIVPD    Y8, Y7, Y7; \
 	VMULPD    Y7, Y7, Y9; \
 	VMULPD    P0, Y9, Y10; \
@@ -375,7 +378,7 @@ atanloop:
 // For panels j < n (a positive multiple of 4) and the point (px, py) with
 // normal (nx, ny) = p[0:4], the coefficients of the node strengths γ_j
 // (ca[j]) and γ_j+1 (cb[j]) in the normal velocity. arr holds the arrays
-// x0, y0, tx, ty, s of the panels; w is scratch for 5n values. The point
+// x0, y0, tx, ty, s, 1/s of the panels; w is scratch for 5n values. The point
 // must not be a panel's own midpoint (the caller redoes that one), nor on
 // a panel.
 //
@@ -480,25 +483,28 @@ angles:
 	LEAQ         (AX)(BX*2), BX  // l
 	VBROADCASTSD 16(DX), Y2      // nx
 	VBROADCASTSD 24(DX), Y3      // ny
+	MOVQ         arr+16(FP), DX
+	MOVQ         120(DX), DX     // 1/s
 	VMOVUPD      inv2pi, Y15
 	XORQ         SI, SI
 
 coeffs:
-	// I1u = xβ − y·l, I1v = x·l − s + yβ; u1 = I1u/s, v1 = I1v/s
+	// I1u = xβ − y·l, I1v = x·l − s + yβ; u1 = I1u·(1/s), v1 = I1v·(1/s)
 	VMOVUPD (DI)(SI*1), Y6     // x
 	VMOVUPD (R13)(SI*1), Y7    // y
 	VMOVUPD (BX)(SI*1), Y11    // l
 	VMOVUPD (AX)(SI*1), Y10    // β
 	VMOVUPD (R12)(SI*1), Y9    // s
+	VMOVUPD (DX)(SI*1), Y12    // 1/s
 	VMULPD  Y10, Y6, Y0
 	VMULPD  Y11, Y7, Y1
 	VSUBPD  Y1, Y0, Y0         // I1u
-	VDIVPD  Y9, Y0, Y0         // u1
+	VMULPD  Y12, Y0, Y0        // u1
 	VMULPD  Y11, Y6, Y1
 	VSUBPD  Y9, Y1, Y1
 	VMULPD  Y10, Y7, Y4
 	VADDPD  Y4, Y1, Y1         // I1v
-	VDIVPD  Y9, Y1, Y1         // v1
+	VMULPD  Y12, Y1, Y1        // v1
 
 	// tn = t·n, ln = nL·n
 	VMOVUPD (R10)(SI*1), Y4    // tx
