@@ -101,6 +101,28 @@ func TestBuildMatchesScalar(t *testing.T) {
 	}
 }
 
+// TestBuild512MatchesAVX2 checks the eight-lane row against the four-lane
+// row on panel counts with no, four and other remainders of eight: the
+// same matrix, bit for bit.
+func TestBuild512MatchesAVX2(t *testing.T) {
+	if !haveAVX512 {
+		t.Skip("no AVX-512 on this machine")
+	}
+	defer func(u bool) { use512 = u }(use512)
+	for _, n := range []int{8, 12, 15, 64, 101, 203, 400} {
+		sv, err := New(shape.NACA4{Camber: 0.04, CamberPos: 0.4, Thickness: 0.12, SharpTE: n%2 == 0}.Nodes(n))
+		if err != nil {
+			t.Fatal(err)
+		}
+		use512 = true
+		got := sv.build(1)
+		use512 = false
+		if want := sv.build(1); !equal(got, want) {
+			t.Errorf("%d panels: the eight-lane build differs from the four-lane one", n)
+		}
+	}
+}
+
 func equal(a, b []float64) bool {
 	if len(a) != len(b) {
 		return false

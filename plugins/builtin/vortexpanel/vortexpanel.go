@@ -203,9 +203,10 @@ type panelArrays struct {
 	x0, y0, tx, ty, s, inv []float64
 }
 
-// useAsm selects the assembly build where the CPU has AVX2 and FMA; tests
-// turn it off to compare with the Go formulas.
-var useAsm = haveAVX2
+// useAsm selects the assembly build where the CPU has AVX2 and FMA, and
+// use512 its eight-lane row where the CPU has AVX-512; tests turn them off
+// to compare with the Go formulas and the four-lane row.
+var useAsm, use512 = haveAVX2, haveAVX512
 
 // rowScratch holds fillRow's arrays for one goroutine: the coefficients
 // and the assembly's scratch.
@@ -231,7 +232,17 @@ func (sv *Solver) fillRow(row []float64, i int, w *rowScratch) {
 		}
 		ca, cb := w.ca[:done], w.cb[:done]
 		p := [4]float64{px, py, nx, ny}
-		vortexRowAsm(ca, cb, &sv.arr, &p, w.w[:5*done])
+		if d8 := n &^ 7; use512 && d8 > 0 {
+			// Eight panels at a time, and four more if n%8 ≥ 4.
+			vortexRow512(ca[:d8], cb[:d8], &sv.arr, &p, w.w[:5*d8])
+			if d8 < done {
+				a := &sv.arr
+				tail := panelArrays{a.x0[d8:], a.y0[d8:], a.tx[d8:], a.ty[d8:], a.s[d8:], a.inv[d8:]}
+				vortexRowAsm(ca[d8:], cb[d8:], &tail, &p, w.w[:5*(done-d8)])
+			}
+		} else {
+			vortexRowAsm(ca, cb, &sv.arr, &p, w.w[:5*done])
+		}
 		if i < done {
 			ca[i], cb[i] = sv.coeffs(i, px, py, nx, ny, true)
 		}
