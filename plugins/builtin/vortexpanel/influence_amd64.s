@@ -258,25 +258,28 @@ GLOBL kc<>(SB), RODATA|NOPTR, $1248
 	VSUBPD    Y11, Y12, Y12
 
 // ATAN24 sets Y10 = atan2(Y0, Y1); it uses Y0–Y14. The steps and their
-// order are those of Go's math.Atan2 (atan2.go, atan.go: Cephes), unfused,
-// with the branches as masks, so the results are the same: q = |y/x|;
-// atan q = xatan(q) for q ≤ 0.66, π/4 + xatan((q − 1)/(q + 1)) + Morebits/2
-// up to tan 3π/8, π/2 − xatan(1/q) + Morebits beyond, where xatan(t) =
-// t + t·(z·P(z)/Q(z)), z = t²; then π − atan q if x is negative, and the
-// sign of y. Both arguments zero, both infinite, or a NaN give NaN.
+// order are those of angle (angle.go), unfused, with the branches as masks,
+// so the results are the same: with a = |y|, b = |x|, atan(a/b) =
+// xatan(a/b) for a ≤ 0.66·b, π/4 + xatan((a − b)/(a + b)) + Morebits/2 up
+// to a = b·tan 3π/8, π/2 − xatan(b/a) + Morebits beyond, where xatan(t) =
+// t + t·(z·P(z)/Q(z)), z = t² (Go's math.Atan: Cephes); then π − atan if x
+// is negative, and the sign of y. One division reduces the argument where
+// math.Atan2 takes two (y/x, then the reduction of the rounded quotient);
+// the results are within a unit in the last place of math.Atan2. Both
+// arguments zero, both infinite, or a NaN give NaN.
 #define ATAN24 \
 	VANDPD    absmask, Y0, Y2; \
 	VANDPD    absmask, Y1, Y3; \
-	VDIVPD    Y3, Y2, Y4; \
-	VCMPPD    $0x1E, tan3pio8, Y4, Y5; \
-	VCMPPD    $0x12, c066, Y4, Y6; \
-	VSUBPD    one, Y4, Y7; \
-	VADDPD    one, Y4, Y8; \
-	VBLENDVPD Y6, Y4, Y7, Y7; \
-	VMOVUPD   one, Y9; \
-	VBLENDVPD Y5, Y9, Y7, Y7; \
-	VBLENDVPD Y6, Y9, Y8, Y8; \
-	VBLENDVPD Y5, Y4, Y8, Y8; \
+	VMULPD    tan3pio8, Y3, Y4; \
+	VCMPPD    $0x1E, Y4, Y2, Y5; \
+	VMULPD    c066, Y3, Y4; \
+	VCMPPD    $0x12, Y4, Y2, Y6; \
+	VSUBPD    Y3, Y2, Y7; \
+	VADDPD    Y3, Y2, Y8; \
+	VBLENDVPD Y6, Y2, Y7, Y7; \
+	VBLENDVPD Y6, Y3, Y8, Y8; \
+	VBLENDVPD Y5, Y3, Y7, Y7; \
+	VBLENDVPD Y5, Y2, Y8, Y8; \
 	VDIVPD    Y8, Y7, Y7; \
 	VMULPD    Y7, Y7, Y9; \
 	VMULPD    P0, Y9, Y10; \
@@ -375,7 +378,7 @@ atanloop:
 // For panels j < n (a positive multiple of 4) and the point (px, py) with
 // normal (nx, ny) = p[0:4], the coefficients of the node strengths γ_j
 // (ca[j]) and γ_j+1 (cb[j]) in the normal velocity. arr holds the arrays
-// x0, y0, tx, ty, s of the panels; w is scratch for 5n values. The point
+// x0, y0, tx, ty, s, 1/s of the panels; w is scratch for 5n values. The point
 // must not be a panel's own midpoint (the caller redoes that one), nor on
 // a panel.
 //
@@ -480,25 +483,28 @@ angles:
 	LEAQ         (AX)(BX*2), BX  // l
 	VBROADCASTSD 16(DX), Y2      // nx
 	VBROADCASTSD 24(DX), Y3      // ny
+	MOVQ         arr+16(FP), DX
+	MOVQ         120(DX), DX     // 1/s
 	VMOVUPD      inv2pi, Y15
 	XORQ         SI, SI
 
 coeffs:
-	// I1u = xβ − y·l, I1v = x·l − s + yβ; u1 = I1u/s, v1 = I1v/s
+	// I1u = xβ − y·l, I1v = x·l − s + yβ; u1 = I1u·(1/s), v1 = I1v·(1/s)
 	VMOVUPD (DI)(SI*1), Y6     // x
 	VMOVUPD (R13)(SI*1), Y7    // y
 	VMOVUPD (BX)(SI*1), Y11    // l
 	VMOVUPD (AX)(SI*1), Y10    // β
 	VMOVUPD (R12)(SI*1), Y9    // s
+	VMOVUPD (DX)(SI*1), Y12    // 1/s
 	VMULPD  Y10, Y6, Y0
 	VMULPD  Y11, Y7, Y1
 	VSUBPD  Y1, Y0, Y0         // I1u
-	VDIVPD  Y9, Y0, Y0         // u1
+	VMULPD  Y12, Y0, Y0        // u1
 	VMULPD  Y11, Y6, Y1
 	VSUBPD  Y9, Y1, Y1
 	VMULPD  Y10, Y7, Y4
 	VADDPD  Y4, Y1, Y1         // I1v
-	VDIVPD  Y9, Y1, Y1         // v1
+	VMULPD  Y12, Y1, Y1        // v1
 
 	// tn = t·n, ln = nL·n
 	VMOVUPD (R10)(SI*1), Y4    // tx
@@ -529,6 +535,251 @@ coeffs:
 	ADDQ    $32, SI
 	DECQ    CX
 	JNZ     coeffs
+
+	VZEROUPPER
+	RET
+
+// LOG8 sets Z12 = ln Z0 for Z0 in [minnorm, maxf] (other lanes are not
+// marked: the row's ratios are in the domain); it uses Z0–Z12 and K3. The
+// operations of LOG4 on eight lanes, in its order, with the constants
+// broadcast from their first lane and the reduction's branch as a mask.
+#define LOG8 \
+	VPSRLQ           $52, Z0, Z2; \
+	VPORQ.BCST       two52, Z2, Z2; \
+	VSUBPD.BCST      bias, Z2, Z2; \
+	VPANDQ.BCST      mantmask, Z0, Z3; \
+	VPORQ.BCST       one, Z3, Z3; \
+	VCMPPD.BCST      $0x1D, sqrt2, Z3, K3; \
+	VMULPD.BCST      half, Z3, Z5; \
+	VBLENDMPD        Z5, Z3, K3, Z3; \
+	VADDPD.BCST      one, Z2, K3, Z2; \
+	VSUBPD.BCST      one, Z3, Z3; \
+	VADDPD.BCST      two, Z3, Z4; \
+	VDIVPD           Z4, Z3, Z4; \
+	VMULPD           Z4, Z4, Z5; \
+	VMULPD           Z5, Z5, Z6; \
+	VMULPD.BCST      L7, Z6, Z7; \
+	VADDPD.BCST      L5, Z7, Z7; \
+	VMULPD           Z6, Z7, Z7; \
+	VADDPD.BCST      L3, Z7, Z7; \
+	VMULPD           Z6, Z7, Z7; \
+	VADDPD.BCST      L1, Z7, Z7; \
+	VMULPD           Z7, Z5, Z7; \
+	VMULPD.BCST      L6, Z6, Z8; \
+	VADDPD.BCST      L4, Z8, Z8; \
+	VMULPD           Z6, Z8, Z8; \
+	VADDPD.BCST      L2, Z8, Z8; \
+	VMULPD           Z8, Z6, Z8; \
+	VADDPD           Z8, Z7, Z7; \
+	VMULPD.BCST      half, Z3, Z9; \
+	VMULPD           Z3, Z9, Z9; \
+	VADDPD           Z9, Z7, Z10; \
+	VMULPD           Z10, Z4, Z10; \
+	VMULPD.BCST      ln2lo, Z2, Z11; \
+	VADDPD           Z11, Z10, Z10; \
+	VSUBPD           Z10, Z9, Z11; \
+	VSUBPD           Z3, Z11, Z11; \
+	VMULPD.BCST      ln2hi, Z2, Z12; \
+	VSUBPD           Z11, Z12, Z12
+
+// ATAN28 sets Z10 = atan2(Z0, Z1); it uses Z0–Z13 and K1–K3. The
+// operations of ATAN24 on eight lanes, in its order, with the branches as
+// masks.
+#define ATAN28 \
+	VPANDQ.BCST      absmask, Z0, Z2; \
+	VPANDQ.BCST      absmask, Z1, Z3; \
+	VMULPD.BCST      tan3pio8, Z3, Z4; \
+	VCMPPD           $0x1E, Z4, Z2, K1; \
+	VMULPD.BCST      c066, Z3, Z4; \
+	VCMPPD           $0x12, Z4, Z2, K2; \
+	VSUBPD           Z3, Z2, Z7; \
+	VADDPD           Z3, Z2, Z8; \
+	VBLENDMPD        Z2, Z7, K2, Z7; \
+	VBLENDMPD        Z3, Z8, K2, Z8; \
+	VBLENDMPD        Z3, Z7, K1, Z7; \
+	VBLENDMPD        Z2, Z8, K1, Z8; \
+	VDIVPD           Z8, Z7, Z7; \
+	VMULPD           Z7, Z7, Z9; \
+	VMULPD.BCST      P0, Z9, Z10; \
+	VADDPD.BCST      P1, Z10, Z10; \
+	VMULPD           Z9, Z10, Z10; \
+	VADDPD.BCST      P2, Z10, Z10; \
+	VMULPD           Z9, Z10, Z10; \
+	VADDPD.BCST      P3, Z10, Z10; \
+	VMULPD           Z9, Z10, Z10; \
+	VADDPD.BCST      P4, Z10, Z10; \
+	VADDPD.BCST      Q0, Z9, Z11; \
+	VMULPD           Z9, Z11, Z11; \
+	VADDPD.BCST      Q1, Z11, Z11; \
+	VMULPD           Z9, Z11, Z11; \
+	VADDPD.BCST      Q2, Z11, Z11; \
+	VMULPD           Z9, Z11, Z11; \
+	VADDPD.BCST      Q3, Z11, Z11; \
+	VMULPD           Z9, Z11, Z11; \
+	VADDPD.BCST      Q4, Z11, Z11; \
+	VMULPD           Z10, Z9, Z10; \
+	VDIVPD           Z11, Z10, Z10; \
+	VMULPD           Z10, Z7, Z10; \
+	VADDPD           Z7, Z10, Z10; \
+	VADDPD.BCST      pio4, Z10, Z12; \
+	VADDPD.BCST      halfmb, Z12, Z12; \
+	VBROADCASTSD     pio2, Z13; \
+	VSUBPD           Z10, Z13, Z13; \
+	VADDPD.BCST      morebits, Z13, Z13; \
+	VBLENDMPD        Z13, Z12, K1, Z12; \
+	VBLENDMPD        Z10, Z12, K2, Z10; \
+	VBROADCASTSD     pi, Z12; \
+	VSUBPD           Z10, Z12, Z12; \
+	VPTESTMQ.BCST    signmask, Z1, K3; \
+	VBLENDMPD        Z12, Z10, K3, Z10; \
+	VPANDQ.BCST      signmask, Z0, Z12; \
+	VPORQ            Z12, Z10, Z10
+
+// func vortexRowAVX512(ca, cb *float64, arr *panelArrays, n int, p *[4]float64, w *float64)
+//
+// vortexRowAVX2 on eight panels at a time (n a positive multiple of 8),
+// with the same operations in the same order on each lane: the same
+// coefficients, bit for bit.
+TEXT ·vortexRowAVX512(SB), NOSPLIT, $0-48
+	MOVQ arr+16(FP), AX
+	MOVQ n+24(FP), CX
+	MOVQ p+32(FP), DX
+	MOVQ w+40(FP), DI
+	MOVQ 0(AX), R8   // x0
+	MOVQ 24(AX), R9  // y0
+	MOVQ 48(AX), R10 // tx
+	MOVQ 72(AX), R11 // ty
+	MOVQ 96(AX), R12 // s
+	MOVQ CX, BX
+	SHLQ $3, BX      // n·8: the stride between the scratch arrays
+	SHRQ $3, CX
+	XORQ SI, SI
+	VBROADCASTSD 0(DX), Z2
+	VBROADCASTSD 8(DX), Z3
+
+geometry8:
+	VSUBPD  (R8)(SI*1), Z2, Z0 // dx
+	VSUBPD  (R9)(SI*1), Z3, Z1 // dy
+	VMOVUPD (R10)(SI*1), Z4    // tx
+	VMOVUPD (R11)(SI*1), Z5    // ty
+	VMULPD  Z0, Z4, Z6
+	VMULPD  Z1, Z5, Z7
+	VADDPD  Z7, Z6, Z6         // x = dx·tx + dy·ty
+	VMULPD  Z1, Z4, Z7
+	VMULPD  Z0, Z5, Z8
+	VSUBPD  Z8, Z7, Z7         // y = dy·tx − dx·ty
+	VMOVUPD (R12)(SI*1), Z8    // s
+	VSUBPD  Z8, Z6, Z9         // xs = x − s
+	VMULPD  Z7, Z7, Z10        // y²
+	VMULPD  Z8, Z7, Z11        // y·s
+	VMULPD  Z9, Z6, Z12
+	VADDPD  Z10, Z12, Z12      // x·xs + y²
+	VMULPD  Z6, Z6, Z13
+	VADDPD  Z10, Z13, Z13      // r₁²
+	VMULPD  Z9, Z9, Z14
+	VADDPD  Z10, Z14, Z14      // r₂²
+	VDIVPD  Z14, Z13, Z13      // r₁²/r₂²
+	MOVQ    DI, AX
+	VMOVUPD Z6, (AX)(SI*1)
+	ADDQ    BX, AX
+	VMOVUPD Z7, (AX)(SI*1)
+	ADDQ    BX, AX
+	VMOVUPD Z11, (AX)(SI*1)
+	ADDQ    BX, AX
+	VMOVUPD Z12, (AX)(SI*1)
+	ADDQ    BX, AX
+	VMOVUPD Z13, (AX)(SI*1)
+	ADDQ    $64, SI
+	DECQ    CX
+	JNZ     geometry8
+
+	// ½ln(r₁²/r₂²) in place of the ratio
+	LEAQ (DI)(BX*4), AX
+	MOVQ BX, CX
+	SHRQ $6, CX
+	XORQ SI, SI
+
+logs8:
+	VMOVUPD     (AX)(SI*1), Z0
+	LOG8
+	VMULPD.BCST half, Z12, Z12
+	VMOVUPD     Z12, (AX)(SI*1)
+	ADDQ        $64, SI
+	DECQ        CX
+	JNZ         logs8
+
+	// β = atan2(y·s, x(x − s) + y²) in place of y·s
+	LEAQ (DI)(BX*2), AX
+	LEAQ (AX)(BX*1), R13
+	MOVQ BX, CX
+	SHRQ $6, CX
+	XORQ SI, SI
+
+angles8:
+	VMOVUPD (AX)(SI*1), Z0
+	VMOVUPD (R13)(SI*1), Z1
+	ATAN28
+	VMOVUPD Z10, (AX)(SI*1)
+	ADDQ    $64, SI
+	DECQ    CX
+	JNZ     angles8
+
+	// The coefficients.
+	MOVQ         ca+0(FP), R8
+	MOVQ         cb+8(FP), R9
+	MOVQ         BX, CX
+	SHRQ         $6, CX
+	LEAQ         (DI)(BX*1), R13 // y
+	LEAQ         (R13)(BX*1), AX // β
+	LEAQ         (AX)(BX*2), BX  // l
+	VBROADCASTSD 16(DX), Z2      // nx
+	VBROADCASTSD 24(DX), Z3      // ny
+	MOVQ         arr+16(FP), DX
+	MOVQ         120(DX), DX     // 1/s
+	VBROADCASTSD inv2pi, Z15
+	XORQ         SI, SI
+
+coeffs8:
+	VMOVUPD (DI)(SI*1), Z6     // x
+	VMOVUPD (R13)(SI*1), Z7    // y
+	VMOVUPD (BX)(SI*1), Z11    // l
+	VMOVUPD (AX)(SI*1), Z10    // β
+	VMOVUPD (R12)(SI*1), Z9    // s
+	VMOVUPD (DX)(SI*1), Z12    // 1/s
+	VMULPD  Z10, Z6, Z0
+	VMULPD  Z11, Z7, Z1
+	VSUBPD  Z1, Z0, Z0         // I1u
+	VMULPD  Z12, Z0, Z0        // u1
+	VMULPD  Z11, Z6, Z1
+	VSUBPD  Z9, Z1, Z1
+	VMULPD  Z10, Z7, Z4
+	VADDPD  Z4, Z1, Z1         // I1v
+	VMULPD  Z12, Z1, Z1        // v1
+	VMOVUPD (R10)(SI*1), Z4    // tx
+	VMOVUPD (R11)(SI*1), Z5    // ty
+	VMULPD  Z2, Z4, Z6
+	VMULPD  Z3, Z5, Z7
+	VADDPD  Z7, Z6, Z6         // tn
+	VMULPD  Z3, Z4, Z7
+	VMULPD  Z2, Z5, Z8
+	VSUBPD  Z8, Z7, Z7         // ln
+	VSUBPD  Z0, Z10, Z8
+	VMULPD  Z15, Z8, Z8
+	VMULPD  Z6, Z8, Z8         // (β − u1)/2π · tn
+	VSUBPD  Z1, Z11, Z9
+	VMULPD  Z15, Z9, Z9
+	VMULPD  Z7, Z9, Z9         // va·ln
+	VSUBPD  Z8, Z9, Z9         // ca
+	VMOVUPD Z9, (R8)(SI*1)
+	VMULPD  Z15, Z0, Z8
+	VMULPD  Z6, Z8, Z8         // u1/2π · tn
+	VMULPD  Z15, Z1, Z9
+	VMULPD  Z7, Z9, Z9         // vb·ln
+	VSUBPD  Z8, Z9, Z9         // cb
+	VMOVUPD Z9, (R9)(SI*1)
+	ADDQ    $64, SI
+	DECQ    CX
+	JNZ     coeffs8
 
 	VZEROUPPER
 	RET
