@@ -603,7 +603,14 @@ func endGap(pts []geometry.Point, loop []int32, nu, nl int, tip geometry.Point) 
 		sum += d
 		top = max(top, d)
 		if k >= -nl-1 && k < nu {
-			if e := geometry.SegmentDist(tip, a, b); e < gd {
+			// A tip beyond a point (a corner put at the aftmost point,
+			// or carried past it) is nearest to that point on both
+			// segments that meet there: the two tie, and the tip lies
+			// in neither. The longer of them is the stretch the points
+			// leave open round the end, the shorter a step along a
+			// surface; the longer is taken, whichever comes first.
+			e := geometry.SegmentDist(tip, a, b)
+			if tie := math.Abs(e-gd) <= gapTie*(e+d+g); (tie && d > g) || (!tie && e < gd) {
 				g, gd = d, e
 			}
 		}
@@ -615,6 +622,11 @@ func endGap(pts []geometry.Point, loop []int32, nu, nl int, tip geometry.Point) 
 	return g / h
 }
 
+// gapTie is the relative difference below which endGap takes two
+// segments' distances to the tip for the same: that of their common point
+// (rounding of the feet found on each).
+const gapTie = 1e-9
+
 // gapSteps is the number of gaps either side whose mean endGap takes.
 const gapSteps = 4
 
@@ -623,10 +635,11 @@ const gapSteps = 4
 // end anywhere from a base through the aftmost point (xmax) to the corner
 // where the surfaces, carried on, meet, whatever the scores say (a missed
 // stretch of the outline is no sample of the end).
-func (m *endModel) openEnd(u, l quadFit, xa, xmax, ratio float64) bool {
+func (m *endModel) openEnd(fits endFits, xa, xmax, ratio float64) bool {
 	if !(ratio > edgeGapK) {
 		return false
 	}
+	u, l := fits.u, fits.l
 	bx, by := m.tipX(), m.tipY()
 	widen := func(x, y float64) {
 		m.spread = max(m.spread, math.Abs(x-bx))
@@ -648,6 +661,18 @@ func (m *endModel) openEnd(u, l quadFit, xa, xmax, ratio float64) bool {
 	if sep > 0 && slope < 0 {
 		if xt := xmax + sep/-slope; xt <= xmax+edgeCross {
 			widen(xt, u.at(xmax)+(u.c[1]+2*u.c[2]*xmax)*(xt-xmax))
+		}
+	}
+	// The fits carried over the missed stretch are known only to their
+	// standard errors there: the surfaces may close as far on as their
+	// separation, within √edgePlausible of those errors, runs out along
+	// its slope (cornerReach's statement, without its cap of a few
+	// spacings: the gaps of the points say nothing of a missed stretch).
+	if slope < 0 {
+		sd := math.Hypot(fits.eu.se(xmax), fits.el.se(xmax))
+		if d := (sep + math.Sqrt(edgePlausible)*sd) / -slope; d > 0 {
+			xr := xmax + min(d, edgeCross)
+			widen(xr, (u.at(xr)+l.at(xr))/2)
 		}
 	}
 	return true
@@ -734,6 +759,7 @@ func findEdgeIn(pts []geometry.Point, seq []int32, sigma float64, f chordFrame) 
 	var best endModel
 	var out []bool
 	var u, l quadFit
+	var eu, el fitSpread // what the winning fits leave unknown
 	var scat float64
 	coreU, coreL := slices.Clone(uidx), slices.Clone(lidx)
 	for round := range 2 {
@@ -744,7 +770,8 @@ func findEdgeIn(pts []geometry.Point, seq []int32, sigma float64, f chordFrame) 
 			return edgeFound{seq: seq}, false
 		}
 		scat = max(sigma/f.chord, us, ls, 1e-9)
-		m, o, ok := chooseEnd(endFits{u: u, l: l, eu: newFitSpread(xs, uidx, scat), el: newFitSpread(xs, lidx, scat), gaps: gm}, z, xmax, step, pstep, scat)
+		eu, el = newFitSpread(xs, uidx, scat), newFitSpread(xs, lidx, scat)
+		m, o, ok := chooseEnd(endFits{u: u, l: l, eu: eu, el: el, gaps: gm}, z, xmax, step, pstep, scat)
 		if !ok {
 			return edgeFound{seq: seq}, false
 		}
@@ -788,8 +815,9 @@ func findEdgeIn(pts []geometry.Point, seq []int32, sigma float64, f chordFrame) 
 	}
 	if u2, _ := fitScatter(xs, ys, coreU); u2.ok {
 		if l2, _ := fitScatter(xs, ys, coreL); l2.ok {
-			if m, o, ok := chooseEnd(endFits{u: u2, l: l2, eu: newFitSpread(xs, coreU, scat), el: newFitSpread(xs, coreL, scat), gaps: gm}, z, xmax, step, pstep, scat); ok && m.score < best.score {
-				best, out, u, l = m, o, u2, l2
+			eu2, el2 := newFitSpread(xs, coreU, scat), newFitSpread(xs, coreL, scat)
+			if m, o, ok := chooseEnd(endFits{u: u2, l: l2, eu: eu2, el: el2, gaps: gm}, z, xmax, step, pstep, scat); ok && m.score < best.score {
+				best, out, u, l, eu, el = m, o, u2, l2, eu2, el2
 			}
 		}
 	}
@@ -798,7 +826,7 @@ func findEdgeIn(pts []geometry.Point, seq []int32, sigma float64, f chordFrame) 
 	for _, p := range z {
 		xa = min(xa, p.X)
 	}
-	if ok && best.openEnd(u, l, xa, xmax, r.gapRatio) {
+	if ok && best.openEnd(endFits{u: u, l: l, eu: eu, el: el}, xa, xmax, r.gapRatio) {
 		r.edge.Spread, r.edge.SpreadAcross, r.edge.SpreadSurface = best.spread*f.chord, best.spreadY*f.chord, best.spreadS
 		// A base through the last points or a corner beyond them.
 		for _, k := range []string{EdgeSharp, EdgeBlunt} {
