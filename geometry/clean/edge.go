@@ -143,6 +143,45 @@ func plausibleTips(cands []endModel, best *endModel) (lo, hi float64) {
 	return lo, hi
 }
 
+// tipsBeyond returns best.tipHi raised to the trailing edges of the ends
+// at (bases or arcs at a station) tried on past the grid of candidates
+// cands, whose last station is xLast, for as long as they score within
+// edgePlausible of best, when the grid's last candidate still does: a
+// grid that stops while its ends are as likely as the best says nothing
+// of how far on they stay so, and the plausible range (and the spread it
+// gives) would end where the grid does. The ends are tried a twelfth of
+// the step between points apart, up to tipsMore of them and no farther
+// than edgeCross beyond the aftmost point xmax (as far as the fits'
+// crossing is sought).
+func tipsBeyond(at func(x float64) (endModel, bool), best *endModel, cands []endModel, xLast, step, xmax float64) float64 {
+	hi := best.tipHi
+	if len(cands) == 0 || !(step > 0) {
+		return hi
+	}
+	if last := cands[len(cands)-1]; last.score > best.score+edgePlausible {
+		return hi
+	}
+	dx := step / 12
+	for j := 1; j <= tipsMore; j++ {
+		x := xLast + float64(j)*dx
+		if x > xmax+edgeCross {
+			break
+		}
+		m, ok := at(x)
+		if !ok || m.score > best.score+edgePlausible {
+			break
+		}
+		hi = max(hi, m.tipX())
+	}
+	return hi
+}
+
+// tipsMore is the most ends tipsBeyond tries: eight steps between points
+// past the grid, a bound on its cost (an end that far on leaves eight
+// steps more unsampled either side, far beyond what the gaps' law allows
+// at the 95 % level, plausibleEnd).
+const tipsMore = 96
+
 // tipX returns the chord station of the model's trailing edge: the
 // corner, the base, the tip of the arc.
 func (m *endModel) tipX() float64 {
@@ -940,14 +979,10 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 	// steps (a base no point sampled, its position left open).
 	var bestB *endModel
 	var cands []endModel
-	for j := range edgeBases + edgeBases/2 {
-		xb := xmax + (float64(j)/float64(edgeBases-1)-0.75)*4*scat
-		if j >= edgeBases {
-			xb = xmax + 2*pstep*float64(j-edgeBases+1)/float64(edgeBases/2)
-		}
+	baseAt := func(xb float64) (endModel, bool) {
 		lo, hi := geometry.Point{X: xb, Y: l.at(xb)}, geometry.Point{X: xb, Y: u.at(xb)}
 		if hi.Y <= lo.Y {
-			continue
+			return endModel{}, false
 		}
 		m := endModel{kind: EdgeBlunt, xu: xb, xl: xb, lo: lo, hi: hi, extra: pen}
 		if cs := max(2*scat, snapTol(scat, step)); !sampled(z, hi, cs) || !sampled(z, lo, cs) {
@@ -958,6 +993,19 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 		}
 		m.extra += gapDeviance(m.path(u, l, xa), pstep)
 		m.scoreOf(u, l, z, scat, zs)
+		return m, true
+	}
+	var xLast float64
+	for j := range edgeBases + edgeBases/2 {
+		xb := xmax + (float64(j)/float64(edgeBases-1)-0.75)*4*scat
+		if j >= edgeBases {
+			xb = xmax + 2*pstep*float64(j-edgeBases+1)/float64(edgeBases/2)
+		}
+		xLast = max(xLast, xb)
+		m, ok := baseAt(xb)
+		if !ok {
+			continue
+		}
 		cands = append(cands, m)
 		if bestB == nil || m.score < bestB.score {
 			bestB = &m
@@ -965,6 +1013,7 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 	}
 	if bestB != nil {
 		bestB.tipLo, bestB.tipHi = plausibleTips(cands, bestB)
+		bestB.tipHi = tipsBeyond(baseAt, bestB, cands, xLast, step, xmax)
 		bestB.tips = true
 		models = append(models, *bestB)
 	}
@@ -1386,6 +1435,7 @@ func roundBest(u, l quadFit, z []geometry.Point, zs []float64, xmax, xa, step, p
 	}
 	defer func() {
 		best.tipLo, best.tipHi = plausibleTips(cands, best)
+		best.tipHi = tipsBeyond(tipAt, best, cands, hi, step, xmax)
 		best.tips = true
 	}()
 	// Golden-section search over the grid cells either side of the best.
