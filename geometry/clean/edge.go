@@ -1390,7 +1390,7 @@ func gapCarry(d, h, k float64) (beyond, even float64) {
 // fits cannot place may lie: leaving twice that much more outline
 // unsampled costs edgePlausible in gapDeviance (4·d/step), so a corner
 // farther on is less likely than the plausible ends by more than that.
-const edgeOpen = edgePlausible / 4
+const edgeOpen = edgePlausible / 4.0
 
 // roundBest returns the best scored rounded end whose tip lies between
 // 3 scatters short of xmax and a step beyond it (at least a scatter), nil

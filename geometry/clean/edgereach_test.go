@@ -7,6 +7,28 @@ import (
 	"github.com/foilwright/foilwright/geometry"
 )
 
+// A corner the fits cannot place (they have crossed already at the
+// aftmost point, so say nothing of how far on the surfaces meet) may lie
+// edgeOpen steps beyond it: as far as leaving the stretch twice that much
+// longer (once each side) costs edgePlausible in gapDeviance. The reach
+// must keep that balance: edgeOpen was once an integer division (6 / 4),
+// one step, and the chord's bound of thin edges read blunt from last
+// points 0.025 c short of their corner (campaign case 1198) fell short.
+func TestCornerReachOpenSteps(t *testing.T) {
+	const h = 0.01
+	// Straight surfaces crossed at x = 0.99: at x = 1 the upper fit lies
+	// below the lower one.
+	f := endFits{
+		u: quadFit{c: [3]float64{0.099, -0.1, 0}, ok: true},
+		l: quadFit{c: [3]float64{-0.099, 0.1, 0}, ok: true},
+	}
+	x, _ := f.cornerReach(1, h)
+	d := x - 1
+	if got := gapDeviance(2*d, h); math.Abs(got-edgePlausible) > 1e-9 {
+		t.Errorf("corner reach %.4g beyond the aftmost point (%.3g steps): the stretch it leaves costs %.4g, want edgePlausible %d", d, d/h, got, edgePlausible)
+	}
+}
+
 // endGap takes the gap that holds the trailing-edge point. A corner put at
 // the aftmost point lies on a point, which both segments that meet there
 // reach: the one along that point's surface (a step) and the one across

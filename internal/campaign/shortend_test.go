@@ -45,3 +45,23 @@ func TestMissedEndStretchCase(t *testing.T) {
 		t.Errorf("wrong beyond its stated uncertainty (%q): chord off %.4f, twist %.3f°, node %.4f c; stated chord %.4g, twist %.3g°, surface %.4f c", r.Wrong, r.ChordErr, r.TwistErr, r.NodeErr, r.Stated.Chord, r.Stated.TwistDeg, r.Stated.Surface)
 	}
 }
+
+// TestCornerReachCase runs case 1198 (internal/scangen: an invented scan
+// of a modified NACA 4-digit section, NACA Report 824 equations, invented
+// noise and spacing), wrong beyond its stated uncertainty at the start of
+// stop 26: a sharp edge whose points stop 0.025 c short of it, read blunt
+// through the last points. The sharp corner the fits cannot place
+// reached one step beyond where they put it, not the 1.5 steps meant
+// (edgeOpen, an integer division): chord 2.48 % off against 2.42 %
+// stated, twist 0.34° against 0.31°. Its chord and twist must be within
+// their bounds (its nodes, 0.0083 c off mid-chord against 0.0073 c, are
+// not yet).
+func TestCornerReachCase(t *testing.T) {
+	r, _, ok := runStated(t, 1198)
+	if !ok {
+		return
+	}
+	if !r.Covered[0] || !r.Covered[1] {
+		t.Errorf("chord off %.4f against %.4g stated, twist %.3f° against %.3g°", r.ChordErr, r.Stated.Chord, r.TwistErr, r.Stated.TwistDeg)
+	}
+}
