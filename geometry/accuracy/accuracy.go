@@ -409,6 +409,15 @@ func (p *Pending) estimate(nz *frame.Normalized) Uncertainty {
 			u.Surface += d
 		}
 	}
+	// The chord line runs from the leading edge to the trailing edge: a
+	// leading edge anywhere within its bound turns it by up to that bound
+	// seen from the trailing edge, a chord away, which the replicas' own
+	// twist need not show where the leading edge's bound holds more than
+	// their scatter (the two readings of the nose, the farthest point's
+	// slide); as for a sparse nose above.
+	if c := nz.Frame.Chord; c > 0 {
+		u.TwistDeg = math.Max(u.TwistDeg, math.Atan(u.LE/c)*180/math.Pi)
+	}
 	// Floors: what the arithmetic of the chain (projections, searches
 	// for the farthest point, quadrature) leaves even on exact data.
 	c := nz.Frame.Chord

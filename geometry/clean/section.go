@@ -259,8 +259,12 @@ func (c camberLine) at(x float64) float64 {
 // closer together than it lies from them, stands for a few points). The
 // middles are then smoothed by a robust running line (Tukey's biweight,
 // three rounds, common practice), which sets aside bins that a missing
-// stretch left one-sided. Beyond the first bin the line stays level, and
-// beyond the last too unless that leaves more than tailSide of the chord
+// stretch left one-sided. Aft of the last counted bin the line is
+// carried on along its slope over the bins whose points show both
+// surfaces about it (tailBins: a thin tail under a steeply falling camber
+// line, whose surfaces' values of y overlap within a bin). Beyond the
+// first bin the line stays level, and beyond the last too unless that
+// leaves more than tailSide of the chord
 // without a middle (a thin tail whose bins a few points sided), where it
 // runs on to the frame's tail end (1, 0). The frame's ends are the points
 // farthest apart, which a slip off the nose, or a fixture's face standing
@@ -296,45 +300,14 @@ func camber(xs, ys, ws []float64) camberLine {
 		bins[k] = append(bins[k], weighted{v: ys[i], w: weightOf(ws, i), x: x})
 	}
 	var bx, by []float64
+	var kb []int // each counted bin's index
+	width := 1 / float64(nb)
 	for k, b := range bins {
-		if len(b) < 4 {
-			continue
+		if mid, ok := binMiddle(b, width); ok {
+			bx = append(bx, (float64(k)+0.5)/float64(nb))
+			by = append(by, mid)
+			kb = append(kb, k)
 		}
-		// Trimmed by the length of outline the points stand for, so that
-		// the points of a surface probed far more coarsely than the other
-		// are not all trimmed off as the extremes.
-		lo, hi := trimmed(b, 0.1)
-		gap, mid, at := -1.0, 0.0, 0
-		for j := lo; j < hi; j++ {
-			if g := b[j+1].v - b[j].v; g > gap {
-				gap, mid, at = g, (b[j+1].v+b[j].v)/2, j
-			}
-		}
-		// Both surfaces must be there: the gap between them wider than the
-		// spread of either (a missing stretch leaves one surface alone, and
-		// the largest gap in it is a gap along it).
-		if gap < 0 || gap <= b[at].v-b[lo].v || gap <= b[hi].v-b[at+1].v {
-			continue
-		}
-		var below, above float64
-		for j := lo; j <= hi; j++ {
-			if j <= at {
-				below += b[j].w
-			} else {
-				above += b[j].w
-			}
-		}
-		// A side lighter than sideShare still counts when its points run
-		// across the bin: a surface probed more sparsely than the other
-		// (passes of unequal density, a coarse surface), not a burst of a
-		// few points at one place.
-		width := 1 / float64(nb)
-		if below < sideShare*(below+above) && !runsAcross(b[:at+1], width) ||
-			above < sideShare*(below+above) && !runsAcross(b[at+1:], width) {
-			continue
-		}
-		bx = append(bx, (float64(k)+0.5)/float64(nb))
-		by = append(by, mid)
 	}
 	if len(bx) < 3 {
 		return camberLine{x: []float64{0, 1}, y: []float64{0, 0}}
@@ -387,6 +360,7 @@ func camber(xs, ys, ws []float64) camberLine {
 			}
 		}
 	}
+	bx, fit = tailBins(bins, kb[len(kb)-1], bx, fit, width)
 	if 1-bx[len(bx)-1] > tailSide {
 		// No middle over the last stretch of the chord (a thin tail's
 		// bins, sided by a few points): the line runs on to the frame's
@@ -394,6 +368,105 @@ func camber(xs, ys, ws []float64) camberLine {
 		return camberLine{x: append(bx, 1), y: append(fit, 0)}
 	}
 	return camberLine{x: bx, y: fit}
+}
+
+// binMiddle returns the middle between the surfaces in one camber bin
+// of the given width: the middle of the largest gap between consecutive
+// values v inside the bin's 10–90 % quantiles (by weight), when both
+// surfaces are there (camber's rules). It sorts b by v.
+func binMiddle(b []weighted, width float64) (float64, bool) {
+	if len(b) < 4 {
+		return 0, false
+	}
+	// Trimmed by the length of outline the points stand for, so that
+	// the points of a surface probed far more coarsely than the other
+	// are not all trimmed off as the extremes.
+	lo, hi := trimmed(b, 0.1)
+	gap, mid, at := -1.0, 0.0, 0
+	for j := lo; j < hi; j++ {
+		if g := b[j+1].v - b[j].v; g > gap {
+			gap, mid, at = g, (b[j+1].v+b[j].v)/2, j
+		}
+	}
+	// Both surfaces must be there: the gap between them wider than the
+	// spread of either (a missing stretch leaves one surface alone, and
+	// the largest gap in it is a gap along it).
+	if gap < 0 || gap <= b[at].v-b[lo].v || gap <= b[hi].v-b[at+1].v {
+		return 0, false
+	}
+	var below, above float64
+	for j := lo; j <= hi; j++ {
+		if j <= at {
+			below += b[j].w
+		} else {
+			above += b[j].w
+		}
+	}
+	// A side lighter than sideShare still counts when its points run
+	// across the bin: a surface probed more sparsely than the other
+	// (passes of unequal density, a coarse surface), not a burst of a
+	// few points at one place.
+	if below < sideShare*(below+above) && !runsAcross(b[:at+1], width) ||
+		above < sideShare*(below+above) && !runsAcross(b[at+1:], width) {
+		return 0, false
+	}
+	return mid, true
+}
+
+// tailBins carries the camber line (bin centres bx, smoothed middles
+// fit) on over the bins aft of the last counted one, last, while their
+// points show both surfaces about the line carried along its own slope.
+// Where a thin section's camber line falls steeply to the tail, a bin's
+// two surfaces fall across it by more than they lie apart, so the values
+// of y alone overlap and the largest gap between them is no gap between
+// the surfaces; measured from the line along its slope, the surfaces
+// stand apart again. The line goes only as far aft as such bins run:
+// where the points stop (the tail's end), or only one surface, a burst or
+// a fixture's face remains, nothing is added, and the line stays level
+// beyond its last middle as before.
+func tailBins(bins [][]weighted, last int, bx, fit []float64, width float64) ([]float64, []float64) {
+	const m = 4 // middles the slope is taken over
+	for k := last + 1; k < len(bins); k++ {
+		n := len(bx)
+		if n < m || len(bins[k]) < 4 {
+			continue
+		}
+		slope, y0, x0 := lineThrough(bx[n-m:], fit[n-m:])
+		line := func(x float64) float64 { return y0 + slope*(x-x0) }
+		d := make([]weighted, len(bins[k]))
+		for j, p := range bins[k] {
+			d[j] = weighted{v: p.v - line(p.x), w: p.w, x: p.x}
+		}
+		mid, ok := binMiddle(d, width)
+		if !ok {
+			continue
+		}
+		xc := (float64(k) + 0.5) * width
+		bx = append(bx, xc)
+		fit = append(fit, line(xc)+mid)
+	}
+	return bx, fit
+}
+
+// lineThrough fits y = y0 + slope·(x − x0) to the points by least
+// squares, x0 their mean x.
+func lineThrough(xs, ys []float64) (slope, y0, x0 float64) {
+	var sx, sy float64
+	for i := range xs {
+		sx += xs[i]
+		sy += ys[i]
+	}
+	n := float64(len(xs))
+	x0, y0 = sx/n, sy/n
+	var sxx, sxy float64
+	for i := range xs {
+		sxx += (xs[i] - x0) * (xs[i] - x0)
+		sxy += (xs[i] - x0) * (ys[i] - y0)
+	}
+	if sxx > 0 {
+		slope = sxy / sxx
+	}
+	return slope, y0, x0
 }
 
 // runsAcross reports whether the points of one side of a camber bin of
