@@ -1102,10 +1102,19 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 	for k := range alts {
 		alts[k].score = alts[k].misfit(u, l, z, scat, edgeOutlier, out, zs) + alts[k].extra + fits.gaps.deviance(&alts[k], u, l, z, out, xa)
 	}
-	if b := models[bk]; b.kind == EdgeBlunt && endPts[bk] == 0 && !b.cornersSampled(z, max(2*scat, snapTol(scat, step))) {
+	if b := models[bk]; b.kind == EdgeBlunt && endPts[bk] == 0 && !b.cornersSampled(z, 2*scat) {
 		// A base no point lies on, nor both of whose corners a point
 		// sampled (a drawing's stations), is no sample of a base: it is
-		// seen only in where the surfaces' last points stop. Where a
+		// seen only in where the surfaces' last points stop. A corner is
+		// sampled by a point within two scatters of it, not within
+		// snapTol: the base's corners lie on the surfaces' fits where the
+		// last points stop, so on a scan whose scatter is far below its
+		// step the other surface's last point falls within a twentieth of
+		// a step of a corner by chance, and a drawing whose one station
+		// is the sharp corner has it within snapTol of both corners of a
+		// base through it; neither is a sample of two corners. (On exact
+		// data the scatter is the fits' own: their parabolas' miss of the
+		// stations.) Where a
 		// sharp corner within reach of them explains the points as well
 		// (its misfits within edgePlausible of the base's) and leaves
 		// unsampled stretches either side of the end that the spacing of
