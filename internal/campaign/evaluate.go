@@ -55,6 +55,15 @@ type Record struct {
 	// distance in scatters from the nearest outline of a rival kind of
 	// end; −1 when it weighs none.
 	TESeparation float64
+	// TEUndecidable26 is the stop 26 judgement (teJudge: one
+	// likelihood-ratio test, positions and the gap round the end, of the
+	// truth against the best rival of every other kind); TEUndecidable
+	// stays the stop 23 one, so a reader sees what changed. TERival26 is
+	// the best rival kind and TELambda26 its λ (−1 when none is weighed;
+	// then the stop 23 judgement stands).
+	TEUndecidable26 bool
+	TERival26       string  `json:",omitempty"`
+	TELambda26      float64 `json:",omitempty"`
 	// Good counts good lines that are not part of a duplicate pair;
 	// GoodDropped those the section lists as dropped for a reason other
 	// than being a duplicate. Planted counts planted outliers, Caught those
@@ -112,6 +121,13 @@ func evaluate(r *Record, tr *scangen.Truth, sec *section) {
 	r.TESeparation = -1
 	if !math.IsInf(lambda, 1) {
 		r.TESeparation = lambda
+	}
+	r.TEUndecidable26, r.TELambda26 = r.TEUndecidable, -1
+	if v := teJudge(tr); v.OK {
+		r.TEUndecidable26, r.TERival26 = !v.Decided, v.Rival
+		if !math.IsInf(v.Lambda, 0) {
+			r.TELambda26 = v.Lambda
+		}
 	}
 	countDropped(r, tr, sec)
 

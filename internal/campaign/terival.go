@@ -153,8 +153,12 @@ func newTEEnds(sh *scangen.Shape) (teEnds, bool) {
 	const m = 100
 	for j := 1; j <= m; j++ {
 		f := float64(j) / m
-		e.up = append(e.up, cu.Add(tu.Scale(a*f)))
-		e.lo = append(e.lo, cl.Add(tl.Scale(b*f)))
+		if a > 0 { // 0 for a sharp edge (teJudge): nothing to carry on
+			e.up = append(e.up, cu.Add(tu.Scale(a*f)))
+		}
+		if b > 0 {
+			e.lo = append(e.lo, cl.Add(tl.Scale(b*f)))
+		}
 	}
 	tip := e.up[len(e.up)-1]
 	e.xLo, e.xHi = min(cu.X, cl.X)-teRivalSpan/4, tip.X
