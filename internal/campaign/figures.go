@@ -156,10 +156,10 @@ func Figures(recs []Record) []Figure {
 		}
 	}
 	st26 := share(teOK26, len(succ)-undecided26)
-	add("trailing-edge kind right, stop 26 judgement (one likelihood-ratio test for every kind pair)", "≥ 97 %",
+	add("trailing-edge kind right, stop 26 judgement (of successes whose kind an ideal reader of the points, knowing their noise, tells from the best end of each other kind in 95 % of draws)", "≥ 97 %",
 		fmt.Sprintf("%s (%d of %d; undecidable %d; stop 23 judgement above: %s, undecidable %d)", pct(st26), teOK26,
 			len(succ)-undecided26, undecided26, pct(st), undecided), false, true)
-	add("trailing-edge kind undecidable at this sampling (of successes)", "(counted apart)", fmt.Sprintf("%d (%s; stated as generated %d)",
+	add("trailing-edge kind undecidable at this sampling (of successes; stop 23 judgement)", "(counted apart)", fmt.Sprintf("%d (%s; stated as generated %d)",
 		undecided, pct(share(undecided, len(succ))), undecidedAsTrue), false, true)
 
 	withGood := okRecords(recs, func(r *Record) bool { return r.Good > 0 })

@@ -61,6 +61,11 @@ type teVerdict struct {
 	Rival   string     // the best rival kind, "" when none is weighed
 	Lambda  float64    // its λ, +Inf when none is weighed
 	Each    [3]float64 // λ of each rival kind, teRivalKinds order; +Inf for the truth's own kind and rivals not weighed
+	// OnEnd counts the good points on the true end piece (a base or a
+	// rounded end); Gap says whether the gap round the end was weighed
+	// (no point on the end and the scan reached it).
+	OnEnd int
+	Gap   bool
 	// Miss is, for an end no good point lies on, the probability that an
 	// end piece of its length at this spacing leaves no point
 	// (teNoPointProb); −1 where there is none to weigh.
@@ -68,15 +73,32 @@ type teVerdict struct {
 	OK   bool // false when the judgement does not apply (no end pieces, noise-free points): the stop 23 one stands
 }
 
+// Why returns, for an undecided case, why the points do not decide it:
+// its end holds points that the rival fits within their scatter, or no
+// point lies on it and the gap round it fits the rival too, or no point
+// lies on it and the scan stops short of it (the gap says nothing).
+// It returns "" for a decided case.
+func (v teVerdict) Why() string {
+	switch {
+	case v.Decided:
+		return ""
+	case v.OnEnd > 0:
+		return "points on the end, within their scatter of the rival"
+	case v.Gap:
+		return "no point on the end, its gap fits the rival"
+	}
+	return "no point on the end, the scan stops short of it"
+}
+
 // teJudge returns the stop 26 judgement (above) of a case.
 func teJudge(tr *scangen.Truth) teVerdict {
-	v := teVerdict{Lambda: math.Inf(1), Each: [3]float64{math.Inf(1), math.Inf(1), math.Inf(1)}, Miss: -1}
-	d, rival, lambda, each, ok := teJudgeOf(tr, &v.Miss)
-	v.Decided, v.Rival, v.Lambda, v.Each, v.OK = d, rival, lambda, each, ok
+	v := teVerdict{Miss: -1}
+	v.Decided, v.Rival, v.Lambda, v.Each, v.OK = teJudgeOf(tr, &v)
 	return v
 }
 
-func teJudgeOf(tr *scangen.Truth, miss *float64) (decided bool, rival string, lambda float64, each [3]float64, ok bool) {
+// teJudgeOf makes the judgement; it also sets v's OnEnd, Gap and Miss.
+func teJudgeOf(tr *scangen.Truth, v *teVerdict) (decided bool, rival string, lambda float64, each [3]float64, ok bool) {
 	each = [3]float64{math.Inf(1), math.Inf(1), math.Inf(1)}
 	sec := tr.Section
 	if sec == nil || sec.Shape == nil {
@@ -116,6 +138,7 @@ func teJudgeOf(tr *scangen.Truth, miss *float64) (decided bool, rival string, la
 			pts = append(pts, p)
 		}
 	}
+	v.OnEnd = onEnd
 	if len(pts) == 0 {
 		return false, "", math.Inf(1), each, false
 	}
@@ -136,10 +159,11 @@ func teJudgeOf(tr *scangen.Truth, miss *float64) (decided bool, rival string, la
 		h, sigma := gapStats(gu, gl)
 		gapTest = h > 0 && teGapPlausible(max(du, dl), h, sigma)
 		if h > 0 && endLen > 0 {
-			*miss = teNoPointProb(endLen, h, sigma)
+			v.Miss = teNoPointProb(endLen, h, sigma)
 		}
 		gt, mu, sig = du+endLen+dl, math.Log(h)-sigma*sigma/2, sigma
 	}
+	v.Gap = gapTest
 	dev := func(g float64) float64 {
 		lg := math.Log(max(g, 1e-12))
 		return 2*lg + sq(lg-mu)/(sig*sig)
@@ -197,12 +221,16 @@ func teJudgeOf(tr *scangen.Truth, miss *float64) (decided bool, rival string, la
 	if sec.TEKind != scangen.TERounded {
 		rMax := e.rMax
 		if rLo := max(least/2, e.rTiny); rLo < rMax {
-			each[2] = minimise(rLo, rMax, true, func(r float64) float64 {
+			each[2] = minimiseArc(rLo, rMax, s, func(r float64) (float64, float64) {
 				out, ok := e.rounded(r)
 				if !ok {
-					return math.Inf(1)
+					return math.Inf(1), math.NaN()
 				}
-				return eval(out)
+				tip := math.Inf(-1)
+				for _, p := range out[2] {
+					tip = max(tip, p.X)
+				}
+				return eval(out), tip
 			})
 		}
 	}
@@ -214,6 +242,77 @@ func teJudgeOf(tr *scangen.Truth, miss *float64) (decided bool, rival string, la
 	}
 	return !(lambda < teSeparation), rival, lambda, each, true
 }
+
+// minimiseArc returns the least λ of the rounded rival over radii [a, b].
+// λ turns on where the arc lies, and where the surfaces close at a small
+// angle the arc's tip moves along them several times as fast as its
+// radius grows: the basin where it passes through the points of a base
+// may be a few per cent of the radius wide, narrower than a step of
+// minimise's grid, which then settles on the plateau of the small radii
+// (the sharp corner's λ). So the grid on ln r is refined until the tip
+// moves at most step (the scatter) between neighbours, where f gives it
+// (at most arcRefine points more, spread over the intervals as they
+// need them), and the best of it by golden-section search between its
+// neighbours. f returns λ and the station of the arc's tip (NaN when
+// there is no arc of that radius).
+func minimiseArc(a, b, step float64, f func(r float64) (lambda, tip float64)) float64 {
+	const n = 48
+	type at struct{ lr, v, tip float64 }
+	lo, hi := math.Log(a), math.Log(b)
+	grid := make([]at, n+1)
+	for j := range grid {
+		lr := lo + (hi-lo)*float64(j)/n
+		v, tip := f(math.Exp(lr))
+		grid[j] = at{lr, v, tip}
+	}
+	need := make([]int, n)
+	total := 0
+	for j := range need {
+		if d := math.Abs(grid[j+1].tip - grid[j].tip); d > step { // false for NaN
+			need[j] = int(math.Ceil(d/step)) - 1
+			total += need[j]
+		}
+	}
+	pts := grid[:1:1]
+	for j := range need {
+		m := need[j]
+		if total > arcRefine {
+			m = int(math.Ceil(float64(m) * arcRefine / float64(total)))
+		}
+		for k := 1; k <= m; k++ {
+			lr := grid[j].lr + (grid[j+1].lr-grid[j].lr)*float64(k)/float64(m+1)
+			v, tip := f(math.Exp(lr))
+			pts = append(pts, at{lr, v, tip})
+		}
+		pts = append(pts, grid[j+1])
+	}
+	bj := 0
+	for j, p := range pts {
+		if p.v < pts[bj].v {
+			bj = j
+		}
+	}
+	x0, x1 := pts[max(bj-1, 0)].lr, pts[min(bj+1, len(pts)-1)].lr
+	g := func(lr float64) float64 { v, _ := f(math.Exp(lr)); return v }
+	const gr = 0.6180339887498949
+	c, d := x1-gr*(x1-x0), x0+gr*(x1-x0)
+	fc, fd := g(c), g(d)
+	for range 40 {
+		if fc < fd {
+			x1, d, fd = d, c, fc
+			c = x1 - gr*(x1-x0)
+			fc = g(c)
+		} else {
+			x0, c, fc = c, d, fd
+			d = x0 + gr*(x1-x0)
+			fd = g(d)
+		}
+	}
+	return min(pts[bj].v, fc, fd)
+}
+
+// arcRefine bounds the points minimiseArc adds to its grid.
+const arcRefine = 400
 
 // aftArc returns the arc length along the polyline q (forward to aft)
 // from the foot of p on it to q's aft end.

@@ -96,6 +96,47 @@ def _minimise(f, a, b, log=False, n=60):
     return min(min(v), fc, fd)
 
 
+def _minimise_arc(f, a, b, step, n=60, extra=400):
+    """Least f(r) over radii [a, b] for the rounded rival, f(r, True)
+    giving (lam, station of the arc's tip). Where the surfaces close at a
+    small angle the tip runs along them much faster than r grows, and the
+    radii whose arc passes through a base's points may fill a few per cent
+    of r, less than a step of a plain grid on ln r; so every step of the
+    grid over which the tip moves more than step (the scatter) is split
+    until it moves about that much (extra points at most, shared out in
+    proportion), and the best point is refined by golden section between
+    its neighbours."""
+    lr = np.linspace(np.log(a), np.log(b), n + 1)
+    vals = [f(np.exp(x), True) for x in lr]
+    tips = np.array([np.nan if t is None else t for _, t in vals])
+    jump = np.abs(np.diff(tips))
+    want = np.where(np.isfinite(jump) & (jump > step), np.ceil(np.nan_to_num(jump) / step) - 1, 0).astype(int)
+    if want.sum() > extra:
+        want = np.ceil(want * extra / want.sum()).astype(int)
+    xs, vs = [lr[0]], [vals[0][0]]
+    for j, m in enumerate(want):
+        for x in lr[j] + (lr[j + 1] - lr[j]) * np.arange(1, m + 1) / (m + 1):
+            xs.append(x)
+            vs.append(f(np.exp(x)))
+        xs.append(lr[j + 1])
+        vs.append(vals[j + 1][0])
+    j = int(np.argmin(vs))
+    lo, hi = xs[max(j - 1, 0)], xs[min(j + 1, len(xs) - 1)]
+    g = (np.sqrt(5) - 1) / 2
+    c, d = hi - g * (hi - lo), lo + g * (hi - lo)
+    fc, fd = f(np.exp(c)), f(np.exp(d))
+    for _ in range(40):
+        if fc < fd:
+            hi, d, fd = d, c, fc
+            c = hi - g * (hi - lo)
+            fc = f(np.exp(c))
+        else:
+            lo, c, fc = c, d, fd
+            d = lo + g * (hi - lo)
+            fd = f(np.exp(d))
+    return min(min(vs), fc, fd)
+
+
 def _spacing(upper, lower):
     """(mean gap, sigma of the log gaps) of the last GAP_SPAN gaps of each
     surface; sigma from the median absolute deviation of each surface's log
@@ -209,12 +250,12 @@ def judge(truth):
     dd /= np.hypot(dd[:, 0], dd[:, 1])[:, None]
     inward = np.stack([dd[:, 1], -dd[:, 0]], axis=1)
 
-    def rounded(r):
+    def rounded(r, with_tip=False):
         c = up_x + r * inward
         g = _dist(c, lo_x)[0] - r
         ks = np.nonzero((g[:-1] >= 0) & (g[1:] < 0))[0]
         if len(ks) == 0:
-            return float("inf")
+            return (float("inf"), None) if with_tip else float("inf")
         k = ks[-1]
         w = g[k] / (g[k] - g[k + 1])
         centre = c[k] + w * (c[k + 1] - c[k])
@@ -227,7 +268,8 @@ def judge(truth):
             al -= 2 * np.pi
         t = np.linspace(au, al, 65)
         arc_pts = centre + r * np.stack([np.cos(t), np.sin(t)], axis=1)
-        return lam([np.vstack([up_x[: k + 1], pu]), np.vstack([lo_x[: kl[0] + 1], pl]), arc_pts])
+        v = lam([np.vstack([up_x[: k + 1], pu]), np.vstack([lo_x[: kl[0] + 1], pl]), arc_pts])
+        return (v, float(arc_pts[:, 0].max())) if with_tip else v
 
     each = {}
     if not small:
@@ -239,7 +281,7 @@ def judge(truth):
     if kind == "blunt":
         r_lo, r_hi = max(least / 2, 1e-6), 4 * float(np.hypot(*(cu - cl)))
         if r_lo < r_hi:
-            each["rounded"] = _minimise(rounded, r_lo, r_hi, log=True)
+            each["rounded"] = _minimise_arc(rounded, r_lo, r_hi, s)
     if not each:
         return True, "", float("inf"), each
     rival = min(each, key=each.get)
@@ -285,3 +327,49 @@ def selftest():
         elif got is None or got[0] or got[1] != "rounded":
             bad.append("tejudge: no base point, even spacing: %s, want undecided against rounded" % (got,))
     return bad
+
+
+class _Pieces:
+    """A stand-in outline for judge(): only its pieces are read."""
+
+    def __init__(self, piece):
+        self.piece = piece
+
+
+def main(argv):
+    """tejudge.py FILE: judges the cases of FILE, a JSON list of truths
+    written by another program (each: te_kind, te_size and scatter in chord
+    units; outline, the closed outline in the normalised frame from the
+    upper end corner, counter-clockwise, without its first point repeated;
+    outline_piece, 0 upper, 1 lower, 2 end, per vertex; s and piece, the
+    arc length from the first vertex and the piece of every good point),
+    and prints one JSON object a line: decided, rival, lam, each (null
+    where the judgement does not apply). The Go campaign's test of its own
+    judgement against this one uses it."""
+    import json
+
+    with open(argv[1]) as f:
+        cases = json.load(f)
+    for c in cases:
+        truth = {
+            "te_kind": c["te_kind"],
+            "te_size": float(c["te_size"]),
+            "scatter": float(c["scatter"]),
+            "normalized": np.asarray(c["outline"], dtype=float),
+            "outline": _Pieces(np.asarray(c["outline_piece"], dtype=int)),
+            "kinds": ["good"] * len(c["s"]),
+            "s": c["s"],
+            "piece": c["piece"],
+        }
+        got = judge(truth)
+        if got is None:
+            print(json.dumps(None))
+            continue
+        fin = lambda x: x if np.isfinite(x) else None
+        print(json.dumps({"decided": got[0], "rival": got[1], "lam": fin(got[2]), "each": {k: fin(v) for k, v in got[3].items()}}))
+
+
+if __name__ == "__main__":
+    import sys
+
+    main(sys.argv)
