@@ -33,6 +33,7 @@ import outline as ol  # noqa: E402
 import scan  # noqa: E402
 import score  # noqa: E402
 import shapes  # noqa: E402
+import tejudge  # noqa: E402
 
 HERE = os.path.relpath(os.path.abspath(__file__))
 
@@ -174,6 +175,9 @@ def table(args, recs, specs, prep):
     ct = ", ".join("%s %d" % kv for kv in sorted(conf.items(), key=lambda kv: -kv[1]))
     print("| TE kind right where decidable | %s%s; %d undecidable |" % (
         pct(len(right), len(dec)), " (" + ct + ")" if ct else "", len(ok) - len(dec)))
+    dec26 = [r for r in ok if r.get("te_decidable26", r["te_decidable"])]
+    print("| TE kind right where decidable, stop 26 judgement (tejudge.py; the row above is stop 23's) | %s; %d undecidable |" % (
+        pct(sum(r["te_right"] for r in dec26), len(dec26)), len(ok) - len(dec26)))
     stated = [r for r in ok if r["stated"] is not None]
     cov = [pct(sum(r["covered"][i] for r in stated), len(stated)) for i in range(4)]
     print("| uncertainty covers chord / twist / LE / surface | %s |" % " / ".join(cov))
@@ -310,7 +314,7 @@ def main():
         table(args, recs, specs, recs[0]["prep"] if recs else "")
         return
     if args.selftest:
-        bad = naca.selftest() + shapes.selftest() + hidden.selftest() + conventions_selftest()
+        bad = naca.selftest() + shapes.selftest() + hidden.selftest() + conventions_selftest() + tejudge.selftest()
         for b in bad:
             print("selftest: " + b)
         print("selftest: %s" % ("FAIL" if bad else "ok"))
