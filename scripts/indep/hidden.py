@@ -90,7 +90,9 @@ seed k mod its length):
               somewhere between 25 % and 75 % chord
     repass    the part measured twice, re-clamped between: the second pass
               (at its own spacing) moved 0.02-0.1 mm in any direction from
-              the first; the truth is the midway placement
+              the first, the file the two passes one after the other (each
+              starting anywhere; shuffled as the plain case says); the truth
+              is the midway placement
     shape26   shapes beyond "thick"/"thin"/"camber": t/c 3-5 %, t/c 25-35 %
               with the plain case's trailing edge, or aft-loaded camber
               (NACA 4-digit, 3-6 % camber at 70-80 % chord)
@@ -219,6 +221,8 @@ class Hazard:
             self.keep_start = True
         elif n == "shadow":
             sm["n"] = int(np.round(np.exp(r.uniform(np.log(1000), np.log(4000)))))
+        elif n == "repass":
+            self.keep_start = True
         elif n == "slice":
             sm["outliers"] = 0.0  # a mesh has no slipped probe hits
             sm["duplicates"] = 1.0 if r.random() < 0.5 else 0.0
@@ -440,7 +444,9 @@ class Hazard:
             nrm = np.vstack([nrm, n2])
             s = np.concatenate([s, s2])
             piece = np.concatenate([piece, ctx["piece"][seg]])
-            okey = np.concatenate([okey, 2 * per + s2])
+            # a file of the two passes one after the other, each starting
+            # where its operator began
+            okey = np.concatenate([(okey - r.uniform(0, per)) % per, 2 * per + (s2 - r.uniform(0, per)) % per])
             kinds = kinds + ["good"] * len(s2)
             self.spec.update(second_pass=len(s2))
         elif n == "table":
