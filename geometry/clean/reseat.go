@@ -48,6 +48,10 @@ const (
 	reseatClose = 4.0
 	// reseatSigmas is how many standard errors the move must stand out by.
 	reseatSigmas = 5.0
+	// reseatFloor is the least move, in diagonals, worth a correction: the
+	// passes of a file written twice from the same numbers differ by
+	// rounding alone.
+	reseatFloor = 1e-5
 )
 
 // reseat finds two whole passes in the file's order of the points all
@@ -56,7 +60,7 @@ const (
 // rigid move between them (a shift and a small turn fitted to the normal
 // distances of each pass's points from the other's polyline, taken both
 // ways and halved so that the chords' sagitta cancels) and, when it stands
-// out by reseatSigmas standard errors, moves the points of each pass half
+// out by reseatSigmas standard errors and exceeds reseatFloor diagonals, moves the points of each pass half
 // of it towards the other in place. It returns nil when the file is not two
 // such passes or they agree.
 func reseat(all []geometry.Point, origins []geometry.Origin, diag float64) *Reseat {
@@ -97,7 +101,7 @@ func reseat(all []geometry.Point, origins []geometry.Origin, diag float64) *Rese
 	shift := s1.Sub(s2).Scale(0.5)
 	turn := (t1 - t2) / 2
 	spread := math.Hypot(e1, e2) / 2
-	if !(shift.Norm() > reseatSigmas*spread) {
+	if !(shift.Norm() > reseatSigmas*spread) || !(shift.Norm() > reseatFloor*diag) {
 		return nil
 	}
 	move := func(p []geometry.Point, sh geometry.Point, tu float64) {
