@@ -46,6 +46,10 @@ const (
 	// lie, in the largest of the steps of the pass (95th percentile): a
 	// pass closes on itself.
 	reseatClose = 4.0
+	// reseatJump is the longest step, in diagonals, within a pass in
+	// order: a stretch a clamp hid may leave a quarter of the chord
+	// unsampled, a jump across the section is no pass.
+	reseatJump = 0.3
 	// reseatSigmas is how many standard errors the move must stand out by.
 	reseatSigmas = 5.0
 	// reseatFloor is the least move, in diagonals, worth a correction: the
@@ -56,7 +60,8 @@ const (
 
 // reseat finds two whole passes in the file's order of the points all
 // (each at least reseatShare of them, each closing on itself and spanning
-// the whole cloud, each walking at most reseatWalk diagonals), measures the
+// the whole cloud, each walking at most reseatWalk diagonals without a
+// jump), measures the
 // rigid move between them (a shift and a small turn fitted to the normal
 // distances of each pass's points from the other's polyline, taken both
 // ways and halved so that the chords' sagitta cancels) and, when it stands
@@ -116,7 +121,8 @@ func reseat(all []geometry.Point, origins []geometry.Origin, diag float64) *Rese
 
 // wholePass reports whether the points p, in order, walk once round the
 // whole cloud: a box spanning reseatCover of diag, a walk of at most
-// reseatWalk diagonals (steps capped), the last point within reseatClose large steps of
+// reseatWalk diagonals (steps capped) with no step beyond reseatJump
+// diagonals, the last point within reseatClose large steps of
 // the first.
 func wholePass(p []geometry.Point, diag float64) bool {
 	lo, hi := bounds(p)
@@ -133,7 +139,7 @@ func wholePass(p []geometry.Point, diag float64) bool {
 	for _, s := range st {
 		walk += math.Min(s, reseatStepCap*h)
 	}
-	if walk > reseatWalk*diag {
+	if walk > reseatWalk*diag || st[len(st)-1] > reseatJump*diag {
 		return false
 	}
 	big := st[int(0.95*float64(len(st)-1))]

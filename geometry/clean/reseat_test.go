@@ -32,8 +32,9 @@ func pass(rng *rand.Rand, k int, start, sd float64, shift geometry.Point, turn f
 // (moved 0.02-0.1 mm on a 100 mm chord, turned up to 0.02°; sizes common
 // practice): the move found is the one applied (the exact answer) within
 // a few standard errors, and each pass is moved half the way so that the
-// passes meet midway. One pass alone, two passes that agree, and two
-// passes in shuffled order are left as they are.
+// passes meet midway. One pass alone, two passes that agree, two
+// passes in shuffled order, and a loop with its nose measured again are
+// left as they are.
 func TestReseatTwoPasses(t *testing.T) {
 	const sd = 0.002
 	for i, tc := range []struct {
@@ -86,7 +87,16 @@ func TestReseatTwoPasses(t *testing.T) {
 		agree := append(pass(rng, 300, 0.1, sd, geometry.Point{}, 0), pass(rng, 300, 0.7, sd, geometry.Point{}, 0)...)
 		shuffled := append(pass(rng, 300, 0.1, sd, geometry.Point{}, 0), pass(rng, 300, 0.7, sd, geometry.Point{X: 0.1}, 0)...)
 		rng.Shuffle(len(shuffled), func(i, j int) { shuffled[i], shuffled[j] = shuffled[j], shuffled[i] })
-		for name, pts := range map[string][]geometry.Point{"one pass": one, "passes that agree": agree, "shuffled": shuffled} {
+		// The loop from the trailing edge with the nose measured again
+		// (a piece of the nose first, two passes over it after): split
+		// at the nose, each part closes on itself and spans the chord,
+		// but each jumps from nose to edge, so neither is a pass.
+		loop := pass(rng, 300, 0, sd, geometry.Point{}, 0)
+		nose := func(start float64, k int) []geometry.Point {
+			return pass(rng, 500, start, sd, geometry.Point{}, 0)[:k]
+		}
+		noseAgain := append(append(append(nose(0.5, 20), loop...), nose(0.46, 40)...), nose(0.47, 25)...)
+		for name, pts := range map[string][]geometry.Point{"one pass": one, "passes that agree": agree, "shuffled": shuffled, "nose measured again": noseAgain} {
 			if r := reseat(pts, origins(len(pts)), diagOf(pts)); r != nil {
 				t.Errorf("%s: moved by %v", name, r.Shift)
 			}
