@@ -289,7 +289,7 @@ def main():
     ap.add_argument("--prep-args", default="", help="more arguments for every prep run, e.g. \"--noise 0\" (split on blanks)")
     ap.add_argument("--planes", type=float, default=0.0, help="share of cases written in 3D, in a tilted plane (0 to 1; default 0)")
     ap.add_argument("--mode", default="normal", choices=["normal", "sparse"])
-    ap.add_argument("--class", dest="cls", default="", help="a practitioner's class layered on each case (hidden.py: %s), or all (class seed mod %d; by name only: %s; new25: class seed mod %d of %s)" % (", ".join(hidden.CLASSES), len(hidden.CLASSES), ", ".join(hidden.EXTRA), len(hidden.EXTRA25), ", ".join(hidden.EXTRA25)))
+    ap.add_argument("--class", dest="cls", default="", help="a practitioner's class layered on each case (hidden.py: %s), or all (class seed mod %d; by name only: %s; new25: class seed mod %d of %s; new26: class seed mod %d of %s)" % (", ".join(hidden.CLASSES), len(hidden.CLASSES), ", ".join(hidden.EXTRA), len(hidden.EXTRA25), ", ".join(hidden.EXTRA25), len(hidden.EXTRA26), ", ".join(hidden.EXTRA26)))
     ap.add_argument("--seeds", default="1-300", help="seeds, e.g. 1-300 or 3,7,9")
     ap.add_argument("--case", type=int, help="run one seed and print everything about it")
     ap.add_argument("--keep", help="keep the point files and section documents in this folder")
