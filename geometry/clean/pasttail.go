@@ -12,7 +12,9 @@ import (
 // chord frame f (drawn from the points of sel) and continue a surface
 // there: a surface of sel and in (the points withinChord let in) that runs
 // aft into the tail leads to them on its own fitted continuation, within
-// its scatter about that line, at its own spacing.
+// its scatter about that line, at its own spacing (continued); or close
+// the end there, between both surfaces carried on, within a step of a
+// surface's end, as a blunt end's base does (closing).
 //
 // Where one surface is shadowed short of the trailing edge, the other
 // surface's last points are the only evidence of the edge, and they are
@@ -45,22 +47,35 @@ func pastTail(pts []geometry.Point, idx, sel, in []int32, f chordFrame, ws []flo
 		}
 	}
 	upper, _ := sides(xs, ys, sw)
-	taken := make([]bool, len(cs))
-	var out []int32
-	for _, side := range [2]bool{true, false} {
+	var surf [2]tailSurface
+	var ends [2]geometry.Point
+	var fitted [2]bool
+	for k, side := range [2]bool{true, false} {
 		var ps []geometry.Point
-		for k := range all {
-			if upper[k] == side && xs[k] >= 1-tailSide {
-				ps = append(ps, geometry.Point{X: xs[k], Y: ys[k]})
+		for j := range all {
+			if upper[j] == side && xs[j] >= 1-tailSide {
+				ps = append(ps, geometry.Point{X: xs[j], Y: ys[j]})
 			}
 		}
-		s, end, ok := surfaceEnd(ps)
-		if !ok {
+		surf[k], ends[k], fitted[k] = surfaceEnd(ps)
+	}
+	taken := make([]bool, len(cs))
+	var out []int32
+	for k := range 2 {
+		if !fitted[k] {
 			continue
 		}
-		for _, k := range s.continued(end, cs, taken) {
-			taken[k] = true
-			out = append(out, cs[k].i)
+		for _, j := range surf[k].continued(ends[k], cs, taken) {
+			taken[j] = true
+			out = append(out, cs[j].i)
+		}
+	}
+	if fitted[0] && fitted[1] {
+		for k := range 2 {
+			for _, j := range surf[k].closing(ends[k], surf[1-k], ends[1-k], cs, taken) {
+				taken[j] = true
+				out = append(out, cs[j].i)
+			}
 		}
 	}
 	slices.Sort(out)
@@ -82,6 +97,7 @@ type tailSurface struct {
 	rms, step float64
 	length    float64
 	lastAlong float64 // the end's place along u from c
+	maxStep   float64 // the longest step between the points fitted
 }
 
 // surfaceEnd fits a straight line (total least squares) to the last
@@ -150,6 +166,7 @@ func fitTail(run []geometry.Point) tailSurface {
 		}
 	}
 	s.rms = math.Sqrt(s.rms / float64(len(run)-2))
+	s.maxStep = slices.Max(steps)
 	s.step = median(steps)
 	s.length = hi - lo
 	return s
@@ -157,12 +174,12 @@ func fitTail(run []geometry.Point) tailSurface {
 
 // continued returns the candidates cs (not yet taken) that continue the
 // surface s past its end: each ahead of the last one joined (or of the
-// end), off the line by no more than the band (off), and no more than
-// stepFar of the surface's steps on from it; or, across a hole in the
-// sampling up to holeFar of the chord long, the first of at least holePts
-// points that lie on the line and follow each other at the surface's
-// spacing (between a quarter and stepFar steps), as the points of a
-// surface do and a stray return or a burst of them at one place do not.
+// end), off the line by no more than its band (off), and no farther on
+// from it than the surface's reach; or, across a hole in the sampling up
+// to holeFar of the chord long, the first of at least holePts points that
+// lie on the line and follow each other within that reach over at least
+// one median step, as the points of a surface do and a stray return or a
+// burst of them at one place do not.
 func (s tailSurface) continued(end geometry.Point, cs []tailPoint, taken []bool) []int {
 	along := func(p geometry.Point) float64 { return s.u.Dot(p.Sub(s.c)) }
 	on := func(k int) bool {
@@ -185,7 +202,7 @@ func (s tailSurface) continued(end geometry.Point, cs []tailPoint, taken []bool)
 			return cmp.Compare(along(cs[a].p), along(cs[b].p))
 		})
 		gap := along(cs[ahead[0]].p) - cur
-		if gap <= stepFar*s.step {
+		if gap <= s.reach() {
 			out = append(out, ahead[0])
 			cur = along(cs[ahead[0]].p)
 			continue
@@ -195,18 +212,48 @@ func (s tailSurface) continued(end geometry.Point, cs []tailPoint, taken []bool)
 		}
 		run := 1
 		for k := 1; k < len(ahead) && run < holePts; k++ {
-			d := along(cs[ahead[k]].p) - along(cs[ahead[k-1]].p)
-			if d < s.step/4 || d > stepFar*s.step {
+			if along(cs[ahead[k]].p)-along(cs[ahead[k-1]].p) > s.reach() {
 				break
 			}
 			run++
 		}
-		if run < holePts {
-			return out
+		if run < holePts || along(cs[ahead[run-1]].p)-along(cs[ahead[0]].p) < s.step {
+			return out // no run beyond the hole, or a burst at one place
 		}
 		out = append(out, ahead[0])
 		cur = along(cs[ahead[0]].p)
 	}
+}
+
+// reach returns the longest step that continues the surface: stepFar of
+// its median steps, or half as long again as its longest step among the
+// points fitted (a surface sampled at random has steps of all lengths).
+func (s tailSurface) reach() float64 {
+	return max(stepFar*s.step, 1.5*s.maxStep)
+}
+
+// closing returns the candidates cs (not yet taken) that close the
+// section's end past the end of the surface s, as a blunt end's base
+// does: no farther from end than the surface's reach, and between the
+// lines of both surfaces carried on (s and o, whose end is oEnd), within
+// their bands. Where the surfaces' lines cross ahead of a point (a sharp
+// end), no point lies between them.
+func (s tailSurface) closing(end geometry.Point, o tailSurface, oEnd geometry.Point, cs []tailPoint, taken []bool) []int {
+	side := func(l tailSurface, p geometry.Point) float64 { return l.u.Cross(p.Sub(l.c)) }
+	toO := math.Copysign(1, side(s, oEnd)) // the side of s's line o lies on
+	toS := math.Copysign(1, side(o, end))
+	var out []int
+	for k, c := range cs {
+		if taken[k] || c.p.Dist(end) > s.reach() || s.u.Dot(c.p.Sub(end)) <= 0 {
+			continue
+		}
+		ts := s.u.Dot(c.p.Sub(s.c)) - s.lastAlong
+		to := o.u.Dot(c.p.Sub(o.c)) - o.lastAlong
+		if toO*side(s, c.p) >= -s.off(ts) && toS*side(o, c.p) >= -o.off(to) {
+			out = append(out, k)
+		}
+	}
+	return out
 }
 
 // off returns how far from the line a point t along it past the
@@ -228,8 +275,8 @@ func (s tailSurface) off(t float64) float64 {
 //     line's aft direction (a fixture's face across the chord behind the
 //     edge does not; campaign fixture case 73);
 //   - stepFar: the longest step, in the surface's median steps, that
-//     continues it; holeFar, holePts: a hole in its sampling, in chords, and
-//     the points beyond it that must run on at its spacing;
+//     continues it (see reach); holeFar, holePts: a hole in its sampling,
+//     in chords, and the points beyond it that must run on at its spacing;
 //   - bendAngle: a surface's bend away from its line over the distance it is
 //     carried (our choice: a trailing edge's surfaces straighten; 3°).
 const (
