@@ -90,3 +90,53 @@ func TestShadowedEdgeIndepCase(t *testing.T) {
 		})
 	}
 }
+
+// The independent check's shadow case 71 (testdata/shadow-indep71.txt,
+// written by scripts/indep: invented, generated data, not measured): a
+// NACA 11020 cut at x = 0.983 to a blunt base 0.0085 chord thick, 294 mm
+// chord, whose lower surface ends 2.5 % of the chord short of the base;
+// two points lie on the base. The base's lower corner is reconstructed
+// across that gap: the lower surface's fit, bent through the base's
+// points, meets the base 0.005 chord above where the surface carried on
+// does, and the trailing edge's point (the base's middle) lies 0.74 mm
+// across the chord from the true one. The edge's SpreadAcross, which the
+// twist's bound takes in, must reach it.
+//
+// The truth is the generator's own (scripts/indep prints it with --case
+// 71 --class shadow): the exact section's leading edge and the middle of
+// its base.
+func TestShadowedCornerSpreadAcross(t *testing.T) {
+	data, err := os.ReadFile("testdata/shadow-indep71.txt")
+	if err != nil {
+		t.Fatal(err)
+	}
+	c := &geometry.Cloud{Dim: 2}
+	for k, line := range strings.Split(string(data), "\n") {
+		var x, y float64
+		if _, err := fmt.Sscan(line, &x, &y); err != nil {
+			continue
+		}
+		c.Points = append(c.Points, geometry.Vec3{X: x, Y: y})
+		c.Origins = append(c.Origins, geometry.Origin{File: "shadow-indep71.txt", Line: k + 1})
+	}
+	if len(c.Points) != 576 {
+		t.Fatalf("%d points read, want 576", len(c.Points))
+	}
+	_, rep, err := Clean(c, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	e := rep.Edge
+	if e == nil || e.Kind != EdgeBlunt {
+		t.Fatalf("edge %+v, want a blunt one", e)
+	}
+	le := geometry.Point{X: 777.070797, Y: -837.957626}
+	te := geometry.Point{X: 1034.781461, Y: -979.539429}
+	d := te.Sub(le).Scale(1 / te.Dist(le))
+	mid := e.Upper.Add(e.Lower).Scale(0.5)
+	across := math.Abs(d.Cross(mid.Sub(te)))
+	t.Logf("trailing edge %.3f mm across the chord from the true one; SpreadAcross %.3f mm", across, e.SpreadAcross)
+	if across > e.SpreadAcross {
+		t.Errorf("the trailing edge lies %.3f mm across the chord from the true one, beyond its SpreadAcross %.3f mm", across, e.SpreadAcross)
+	}
+}
