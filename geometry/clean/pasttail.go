@@ -105,11 +105,12 @@ type tailSurface struct {
 // coordinates, by x, with the point farthest off it set aside once when
 // it lies off by more than three times the others' scatter (a stray
 // among them); it returns the line and the surface's end, its aftmost
-// point. It fails on too few points or a line not heading aft.
+// point. It fails on fewer than surfacePts+1 points (the points fitted)
+// or a line not heading aft.
 func surfaceEnd(ps []geometry.Point) (tailSurface, geometry.Point, bool) {
 	slices.SortFunc(ps, func(a, b geometry.Point) int { return cmp.Compare(a.X, b.X) })
 	ps = slices.CompactFunc(ps, func(a, b geometry.Point) bool { return a == b })
-	if len(ps) < surfacePts {
+	if len(ps) <= surfacePts {
 		return tailSurface{}, geometry.Point{}, false
 	}
 	run := slices.Clone(ps[len(ps)-surfacePts-1:])

@@ -140,3 +140,34 @@ func TestShadowedCornerSpreadAcross(t *testing.T) {
 		t.Errorf("the trailing edge lies %.3f mm across the chord from the true one, beyond its SpreadAcross %.3f mm", across, e.SpreadAcross)
 	}
 }
+
+// A surface with just surfacePts distinct points near the tail is too
+// short to fit (surfaceEnd fits one more and sets the farthest off
+// aside); it must fail, not index before the points (campaign case 1235
+// panicked there). One point more fits, on the line the points lie on.
+func TestSurfaceEndShort(t *testing.T) {
+	line := func(n int) []geometry.Point {
+		ps := make([]geometry.Point, n)
+		for k := range ps {
+			x := 0.9 + 0.01*float64(k)
+			ps[k] = geometry.Point{X: x, Y: 0.05 - 0.04*x}
+		}
+		return ps
+	}
+	for n := range surfacePts + 1 {
+		if _, _, ok := surfaceEnd(line(n)); ok {
+			t.Errorf("%d points: fitted, want too few", n)
+		}
+	}
+	s, end, ok := surfaceEnd(line(surfacePts + 1))
+	if !ok {
+		t.Fatalf("%d points: not fitted", surfacePts+1)
+	}
+	want := geometry.Point{X: 0.9 + 0.01*float64(surfacePts), Y: 0.05 - 0.04*(0.9+0.01*float64(surfacePts))}
+	if end.Dist(want) > 1e-12 {
+		t.Errorf("end %v, want %v", end, want)
+	}
+	if slope := s.u.Y / s.u.X; math.Abs(slope+0.04) > 1e-9 || s.rms > 1e-12 {
+		t.Errorf("line slope %.6g rms %.3g, want -0.04 and 0", slope, s.rms)
+	}
+}
