@@ -839,25 +839,41 @@ func findEdgeIn(pts []geometry.Point, seq []int32, sigma float64, f chordFrame) 
 // the outline by as much (the surface's).
 func (m *endModel) acrossGap(cores endFits, z []geometry.Point, foreU, foreL, scat, h float64) {
 	// A zone point on a surface lies on its core's fit (as in the second
-	// round of findEdgeIn); the fits u and l may have bent through the base.
+	// round of findEdgeIn; the fits u and l may have bent through the
+	// base); or, nearer it than the other's, within that fit's own error
+	// carried out to the point: a core fitted short of the zone
+	// misses a surface sampled right to its corner by more than the
+	// scatter where the surface bends into its edge (campaign 1732: the
+	// upper core 0.0014 c off at the corner, its points 0.0005–0.0015 c
+	// off all the way there).
+	band := func(sp fitSpread, x float64) float64 {
+		if !sp.ok {
+			return 0
+		}
+		return math.Sqrt(edgePlausible) * sp.se(x)
+	}
 	lastU, lastL := foreU, foreL
 	for _, p := range z {
 		on := max(edgeOn*scat, edgeShare*(cores.u.at(p.X)-cores.l.at(p.X)))
-		if math.Abs(p.Y-cores.u.at(p.X)) <= on {
+		du, dl := math.Abs(p.Y-cores.u.at(p.X)), math.Abs(p.Y-cores.l.at(p.X))
+		if du <= on || du <= dl && du <= band(cores.eu, p.X) {
 			lastU = max(lastU, p.X)
 		}
-		if math.Abs(p.Y-cores.l.at(p.X)) <= on {
+		if dl <= on || dl < du && dl <= band(cores.el, p.X) {
 			lastL = max(lastL, p.X)
 		}
 	}
+	// A core whose own error carried out to the corner exceeds the base's
+	// height (a few points far forward, their parabola carried across a
+	// long gap) cannot tell where on the base the corner lies, nor check
+	// it: it says nothing (campaign 15 and 584: the upper core's band
+	// 1.9 c and 0.14 c at a base 0.011 c and 0.005 c high would have
+	// stated the twist within 55 and 4.8 degrees).
 	widen := func(corner geometry.Point, last float64, fit quadFit, sp fitSpread) {
-		if !(corner.X-last > edgeReach*h) || !fit.ok {
+		if !(corner.X-last > edgeReach*h) || !fit.ok || band(sp, corner.X) > m.hi.Y-m.lo.Y {
 			return
 		}
-		d := math.Abs(fit.at(corner.X) - corner.Y)
-		if sp.ok {
-			d += math.Sqrt(edgePlausible) * sp.se(corner.X)
-		}
+		d := math.Abs(fit.at(corner.X)-corner.Y) + band(sp, corner.X)
 		m.spreadY = max(m.spreadY, d/2)
 		m.spreadS = max(m.spreadS, d)
 	}
