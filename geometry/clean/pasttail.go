@@ -106,7 +106,8 @@ type tailSurface struct {
 // it lies off by more than three times the others' scatter (a stray
 // among them); it returns the line and the surface's end, its aftmost
 // point. It fails on fewer than surfacePts+1 points (the points fitted)
-// or a line not heading aft.
+// or a line not heading aft, or points that do not follow a line: they
+// scatter about it by more than lineScatter of their median step.
 func surfaceEnd(ps []geometry.Point) (tailSurface, geometry.Point, bool) {
 	slices.SortFunc(ps, func(a, b geometry.Point) int { return cmp.Compare(a.X, b.X) })
 	ps = slices.CompactFunc(ps, func(a, b geometry.Point) bool { return a == b })
@@ -128,7 +129,7 @@ func surfaceEnd(ps []geometry.Point) (tailSurface, geometry.Point, bool) {
 		}
 	}
 	end := run[len(run)-1]
-	if s.u.X < math.Cos(aftCone) {
+	if s.u.X < math.Cos(aftCone) || s.rms > lineScatter*s.step {
 		return tailSurface{}, end, false
 	}
 	s.lastAlong = s.u.Dot(end.Sub(s.c))
@@ -279,14 +280,21 @@ func (s tailSurface) off(t float64) float64 {
 //     continues it (see reach); holeFar, holePts: a hole in its sampling,
 //     in chords, and the points beyond it that must run on at its spacing;
 //   - bendAngle: a surface's bend away from its line over the distance it is
-//     carried (our choice: a trailing edge's surfaces straighten; 3°).
+//     carried (our choice: a trailing edge's surfaces straighten; 3°);
+//   - lineScatter: the most the points of a surface's line scatter about
+//     it, in their median steps (our choice: the points of a surface near
+//     its edge follow a line to well within their spacing, where a mix of a
+//     surface and a fixture's face behind the edge, campaign fixture case
+//     73, scatters by 0.76 of its step, and a dense noisy run that would
+//     not is left to the points' own order).
 const (
-	surfacePts = 6
-	aftCone    = 45 * math.Pi / 180
-	stepFar    = 2.5
-	holeFar    = 0.03
-	holePts    = 3
-	bendAngle  = 3 * math.Pi / 180
+	surfacePts  = 6
+	aftCone     = 45 * math.Pi / 180
+	stepFar     = 2.5
+	holeFar     = 0.03
+	holePts     = 3
+	bendAngle   = 3 * math.Pi / 180
+	lineScatter = 0.5
 )
 
 // tailReach bounds, in chords, how far past the tail end of a frame a
