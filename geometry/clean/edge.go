@@ -801,6 +801,8 @@ func findEdgeIn(pts []geometry.Point, seq []int32, sigma float64, f chordFrame) 
 	var eu, el fitSpread // what the winning fits leave unknown
 	var scat float64
 	coreU, coreL := slices.Clone(uidx), slices.Clone(lidx)
+	uCore, lCore := len(coreU), len(coreL)
+	var cores endFits // the surfaces' fits on their cores alone
 	for round := range 2 {
 		var us, ls float64
 		u, us = fitScatter(xs, ys, uidx)
@@ -810,7 +812,11 @@ func findEdgeIn(pts []geometry.Point, seq []int32, sigma float64, f chordFrame) 
 		}
 		scat = max(sigma/f.chord, us, ls, 1e-9)
 		eu, el = newFitSpread(xs, uidx, scat), newFitSpread(xs, lidx, scat)
-		m, o, ok := chooseEnd(endFits{u: u, l: l, eu: eu, el: el, gaps: gm}, z, xmax, step, pstep, scat)
+		fits := endFits{u: u, l: l, eu: eu, el: el, gaps: gm}
+		if round == 0 {
+			cores = fits
+		}
+		m, o, ok := chooseEnd(fits, z, xmax, step, pstep, scat)
 		if !ok {
 			return edgeFound{seq: seq}, false
 		}
@@ -860,11 +866,21 @@ func findEdgeIn(pts []geometry.Point, seq []int32, sigma float64, f chordFrame) 
 			}
 		}
 	}
-	r, ok := best.apply(pts, seq, f, u, l, zpos, z, out, scat, step)
 	xa := xmax
 	for _, p := range z {
 		xa = min(xa, p.X)
 	}
+	if best.kind == EdgeBlunt {
+		lastU, lastL := math.Inf(-1), math.Inf(-1)
+		for _, k := range coreU[:uCore] {
+			lastU = max(lastU, xs[k])
+		}
+		for _, k := range coreL[:lCore] {
+			lastL = max(lastL, xs[k])
+		}
+		best.acrossGap(cores, z, lastU, lastL, scat, max(step, pstep))
+	}
+	r, ok := best.apply(pts, seq, f, u, l, zpos, z, out, scat, step)
 	if ok && best.openEnd(endFits{u: u, l: l, eu: eu, el: el}, xa, xmax, r.gapRatio) {
 		r.edge.Spread, r.edge.SpreadAcross, r.edge.SpreadSurface = best.spread*f.chord, best.spreadY*f.chord, best.spreadS
 		// A base through the last points or a corner beyond them.
@@ -875,6 +891,61 @@ func findEdgeIn(pts []geometry.Point, seq []int32, sigma float64, f chordFrame) 
 		}
 	}
 	return r, ok
+}
+
+// acrossGap widens the spreads of a blunt end m whose corner on a surface
+// lies across a gap in that surface's points, more than edgeReach steps h
+// past its last point (foreU, foreL: the last stations of the surfaces'
+// cores; zone points on a core's fit count too): a surface shadowed short
+// of the edge, or probed short of it. The corner there is where the
+// surface's fit (which may have taken in the base's points) meets the base,
+// a reconstruction the points do not check: the surface's fit on its own
+// core carried on to the base (cores) may put it elsewhere, as far again
+// as that fit's own error there. The trailing edge's point, the base's
+// middle, moves by half as much across the chord (the twist's bound), and
+// the outline by as much (the surface's).
+func (m *endModel) acrossGap(cores endFits, z []geometry.Point, foreU, foreL, scat, h float64) {
+	// A zone point on a surface lies on its core's fit (as in the second
+	// round of findEdgeIn; the fits u and l may have bent through the
+	// base); or, nearer it than the other's, within that fit's own error
+	// carried out to the point: a core fitted short of the zone
+	// misses a surface sampled right to its corner by more than the
+	// scatter where the surface bends into its edge (campaign 1732: the
+	// upper core 0.0014 c off at the corner, its points 0.0005–0.0015 c
+	// off all the way there).
+	band := func(sp fitSpread, x float64) float64 {
+		if !sp.ok {
+			return 0
+		}
+		return math.Sqrt(edgePlausible) * sp.se(x)
+	}
+	lastU, lastL := foreU, foreL
+	for _, p := range z {
+		on := max(edgeOn*scat, edgeShare*(cores.u.at(p.X)-cores.l.at(p.X)))
+		du, dl := math.Abs(p.Y-cores.u.at(p.X)), math.Abs(p.Y-cores.l.at(p.X))
+		if du <= on || du <= dl && du <= band(cores.eu, p.X) {
+			lastU = max(lastU, p.X)
+		}
+		if dl <= on || dl < du && dl <= band(cores.el, p.X) {
+			lastL = max(lastL, p.X)
+		}
+	}
+	// A core whose own error carried out to the corner exceeds the base's
+	// height (a few points far forward, their parabola carried across a
+	// long gap) cannot tell where on the base the corner lies, nor check
+	// it: it says nothing (campaign 15 and 584: the upper core's band
+	// 1.9 c and 0.14 c at a base 0.011 c and 0.005 c high would have
+	// stated the twist within 55 and 4.8 degrees).
+	widen := func(corner geometry.Point, last float64, fit quadFit, sp fitSpread) {
+		if !(corner.X-last > edgeReach*h) || !fit.ok || band(sp, corner.X) > m.hi.Y-m.lo.Y {
+			return
+		}
+		d := math.Abs(fit.at(corner.X)-corner.Y) + band(sp, corner.X)
+		m.spreadY = max(m.spreadY, d/2)
+		m.spreadS = max(m.spreadS, d)
+	}
+	widen(m.hi, lastU, cores.u, cores.eu)
+	widen(m.lo, lastL, cores.l, cores.el)
 }
 
 // chooseEnd fits the three end models to the zone points z and returns the

@@ -799,6 +799,31 @@ func robustQuad(xs, ys []float64, idx []int, x0 float64) quadFit {
 	return q
 }
 
+// sides returns which of the points (xs, ys), chord coordinates with
+// weights sw (nil: equal), lie on the upper surface, and the camber line
+// that tells the surfaces apart (near the tail, fits of both surfaces do:
+// tailSides).
+func sides(xs, ys, sw []float64) ([]bool, camberLine) {
+	n := len(xs)
+	cl := camber(xs, ys, sw)
+	upper := make([]bool, n)
+	for k := range n {
+		upper[k] = ys[k] >= cl.at(xs[k])
+	}
+	// Once more with each point standing for the stretch of its own
+	// surface it covers (surfaceWeights): the neighbour distances of
+	// spacingWeights mix the surfaces wherever the section is thinner than
+	// a coarsely probed surface's step, and a surface probed 5–20 times
+	// more coarsely than the other then weighs as a handful of points,
+	// trimmed off the camber line's bins as extremes.
+	cl = camber(xs, ys, surfaceWeights(xs, upper))
+	for k := range n {
+		upper[k] = ys[k] >= cl.at(xs[k])
+	}
+	tailSides(xs, ys, upper)
+	return upper, cl
+}
+
 // sectionOrder orders the points sel of a section-like cloud into one loop
 // without looking at their spacing: in the coarse chord frame every point
 // gets a place u round the loop, and the loop is the points sorted by u.
@@ -832,22 +857,7 @@ func sectionOrder(pts []geometry.Point, sel []int32, f chordFrame, ws []float64)
 			sw[k] = ws[i]
 		}
 	}
-	cl := camber(xs, ys, sw)
-	upper := make([]bool, n)
-	for k := range n {
-		upper[k] = ys[k] >= cl.at(xs[k])
-	}
-	// Once more with each point standing for the stretch of its own
-	// surface it covers (surfaceWeights): the neighbour distances of
-	// spacingWeights mix the surfaces wherever the section is thinner than
-	// a coarsely probed surface's step, and a surface probed 5–20 times
-	// more coarsely than the other then weighs as a handful of points,
-	// trimmed off the camber line's bins as extremes.
-	cl = camber(xs, ys, surfaceWeights(xs, upper))
-	for k := range n {
-		upper[k] = ys[k] >= cl.at(xs[k])
-	}
-	tailSides(xs, ys, upper)
+	upper, cl := sides(xs, ys, sw)
 	// The centres of the caps: the camber line's points at their edges.
 	xn, xt := noseCap, 1-tailCap
 	yn, yt := cl.at(xn), cl.at(xt)
