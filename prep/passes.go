@@ -44,3 +44,26 @@ func passWarnings(passes []clean.PassOffset, units geometry.Unit) []string {
 	}
 	return out
 }
+
+// widenForReseat takes in two whole passes moved apart (clean.Reseat):
+// the section is placed midway between them, and where the part was is
+// unknown to half their move either way, so half the shift is added to
+// the leading edge's bound and half the turn to the twist's; the shape,
+// the same in both passes, is not widened.
+func widenForReseat(u *accuracy.Uncertainty, r *clean.Reseat) {
+	if r == nil {
+		return
+	}
+	u.LE += r.Shift.Norm() / 2
+	u.TwistDeg += math.Abs(r.Turn) / 2 * 180 / math.Pi
+}
+
+// reseatWarning says that the file held two whole passes moved apart, by
+// how much, and where the section was placed.
+func reseatWarning(r *clean.Reseat, units geometry.Unit) string {
+	if r == nil {
+		return ""
+	}
+	return fmt.Sprintf("the file holds two whole passes round the section (starting at %s and %s) and the second lies %s from the first (x %s, y %s; turned %.3g°, ± %s): the part moved between them; each pass was moved half the way to the other, so the section is placed midway and the leading edge's and twist's bounds take in half the move; measure in one clamping to remove it",
+		r.First, r.Second, LengthText(r.Shift.Norm(), units), LengthText(r.Shift.X, units), LengthText(r.Shift.Y, units), r.Turn*180/math.Pi, LengthText(r.Spread, units))
+}

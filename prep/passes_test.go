@@ -35,3 +35,31 @@ func TestWidenForPasses(t *testing.T) {
 		t.Errorf("warning %q: want both passes' lines and the offset inside", w)
 	}
 }
+
+// Two whole passes 0.05 mm apart (3, 4), turned 0.01° between them: the
+// leading edge's bound takes in half the shift (0.025) and the twist's
+// half the turn (0.005°); chord and surface are left alone (the shape is
+// the same in both passes); no move leaves the bounds alone; the warning
+// names both passes' first lines and the move.
+func TestWidenForReseat(t *testing.T) {
+	r := &clean.Reseat{First: geometry.Origin{File: "b.csv", Line: 2}, Second: geometry.Origin{File: "b.csv", Line: 610},
+		Shift: geometry.Point{X: 0.03, Y: 0.04}, Turn: 0.01 * math.Pi / 180, Spread: 0.001, Points: 1200}
+	u := accuracy.Uncertainty{Chord: 0.1, TwistDeg: 0.05, LE: 0.02, Surface: 0.001}
+	widenForReseat(&u, r)
+	want := accuracy.Uncertainty{Chord: 0.1, TwistDeg: 0.055, LE: 0.045, Surface: 0.001}
+	if math.Abs(u.Chord-want.Chord) > 1e-12 || math.Abs(u.TwistDeg-want.TwistDeg) > 1e-12 || math.Abs(u.LE-want.LE) > 1e-12 || u.Surface != want.Surface {
+		t.Errorf("widened to %+v, want %+v", u, want)
+	}
+	v := accuracy.Uncertainty{Chord: 0.1, TwistDeg: 0.05, LE: 0.02, Surface: 0.001}
+	widenForReseat(&v, nil)
+	if v != (accuracy.Uncertainty{Chord: 0.1, TwistDeg: 0.05, LE: 0.02, Surface: 0.001}) {
+		t.Errorf("no move changed the bounds to %+v", v)
+	}
+	w := reseatWarning(r, geometry.Millimetre)
+	if !strings.Contains(w, "b.csv:2 and b.csv:610") || !strings.Contains(w, "0.05 mm from the first") {
+		t.Errorf("warning %q: want both passes' lines and the move", w)
+	}
+	if reseatWarning(nil, geometry.Millimetre) != "" {
+		t.Error("a warning without a move")
+	}
+}

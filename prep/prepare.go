@@ -397,6 +397,7 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 		widenForRejectedEdge(&p.Uncertainty, cl.Clean.Edge, p.Shape.Frame)
 	}
 	widenForPasses(&p.Uncertainty, cl.Clean.Passes, p.Shape.Frame.Chord)
+	widenForReseat(&p.Uncertainty, cl.Clean.Reseat)
 	if s.LEAt == nil {
 		// Which end is the nose, read against the section's own bound.
 		if g := endsUnsupported(nodes, le, p.Uncertainty.Shape); g != nil {
@@ -422,6 +423,9 @@ func finishChain(name string, cl *Cleaned, s Settings, useEdge bool) (*Preparati
 		}
 	}
 	p.Section.Warnings = append(p.Section.Warnings, passWarnings(cl.Clean.Passes, cl.Units)...)
+	if w := reseatWarning(cl.Clean.Reseat, cl.Units); w != "" {
+		p.Section.Warnings = append(p.Section.Warnings, w)
+	}
 	p.Section.Warnings = append(p.Section.Warnings, accuracy.Gaps(p.Contour, p.Fit, p.Curve, p.Shape)...)
 	p.Section.Panels.Deviation = dev
 	if rp.Panels == 0 {

@@ -3,7 +3,10 @@
 # machine's limit, in one run, interleaved, and checks first that both give
 # the same results. Prints: panels | Go ms | numpy ms | numpy/Go | limit ms
 # | Go/limit (medians over rounds, with the range over rounds), and, if the
-# Go build with -tags openblas succeeds, its columns too.
+# Go build with -tags openblas succeeds, its columns too; then the
+# processor time per solution of each program (user and system, all
+# threads), which a load from other jobs changes far less than the wall
+# time, with each program's ratio to the Go column's.
 #
 # Needs Debian's numpy on OpenBLAS and a C compiler:
 #   apt-get install python3-numpy libopenblas0 libopenblas-dev gcc
@@ -48,7 +51,7 @@ if [ -n "${BASELINE:-}" ]; then
   mkdir "$tmp/baseline"
   git archive "$BASELINE" | tar -x -C "$tmp/baseline"
   mkdir -p "$tmp/baseline/internal/solverbench"
-  cp internal/solverbench/main.go "$tmp/baseline/internal/solverbench/"
+  cp internal/solverbench/main.go internal/solverbench/cputime_*.go "$tmp/baseline/internal/solverbench/"
   if [ -d "$tmp/baseline/internal/dense" ]; then
     cp internal/solverbench/describe.go "$tmp/baseline/internal/solverbench/"
   else

@@ -409,6 +409,15 @@ func (p *Pending) estimate(nz *frame.Normalized) Uncertainty {
 			u.Surface += d
 		}
 	}
+	// The chord line runs from the leading edge to the trailing edge: a
+	// leading edge anywhere within its bound turns it by up to that bound
+	// seen from the trailing edge, a chord away, which the replicas' own
+	// twist need not show where the leading edge's bound holds more than
+	// their scatter (the two readings of the nose, the farthest point's
+	// slide); as for a sparse nose above.
+	if c := nz.Frame.Chord; c > 0 {
+		u.TwistDeg = math.Max(u.TwistDeg, math.Atan(u.LE/c)*180/math.Pi)
+	}
 	// Floors: what the arithmetic of the chain (projections, searches
 	// for the farthest point, quadrature) leaves even on exact data.
 	c := nz.Frame.Chord
@@ -456,6 +465,7 @@ func rms(ds []deltas) deltas {
 type reference struct {
 	fr, far frame.Frame
 	poly    []geometry.Point
+	reach   segReach // of poly
 }
 
 // refSamples is the number of points on each side of the reference
@@ -466,7 +476,8 @@ const (
 )
 
 func newReference(nz *frame.Normalized) reference {
-	return reference{fr: nz.Frame, far: nz.Farthest, poly: samples(nz.Path, nz.SLE, refSamples)}
+	poly := samples(nz.Path, nz.SLE, refSamples)
+	return reference{fr: nz.Frame, far: nz.Farthest, poly: poly, reach: newSegReach(poly)}
 }
 
 // samples returns points of the normalised outline p (leading edge at
@@ -498,7 +509,7 @@ func (r reference) compare(z *frame.Normalized) deltas {
 	// show. The bounds keep the larger spread of the two readings.
 	d.leFar = math.Hypot(z.Farthest.LE[0]-r.far.LE[0], z.Farthest.LE[1]-r.far.LE[1])
 	d.twistFar = math.Abs(math.Remainder(z.Farthest.TwistDeg-r.far.TwistDeg, 360))
-	d.surface = maxDistance(samples(z.Path, z.SLE, refSamples/refRatio), r.poly, refRatio)
+	d.surface = maxDistance(samples(z.Path, z.SLE, refSamples/refRatio), r.poly, refRatio, r.reach)
 	return d
 }
 
@@ -507,18 +518,97 @@ func (r reference) compare(z *frame.Normalized) deltas {
 // on each side (samples), poly ratio times as densely, so the segment
 // nearest to qs[k] lies near poly[ratio·k]; a window of distWindow
 // segments either side is searched.
-func maxDistance(qs, poly []geometry.Point, ratio int) float64 {
+func maxDistance(qs, poly []geometry.Point, ratio int, polyReach segReach) float64 {
 	var worst2 float64
+	reach := polyReach.with(qs)
 	for k, q := range qs {
 		c := ratio * k
 		lo, hi := max(0, c-distWindow), min(len(poly)-1, c+distWindow)
-		best := math.Inf(1)
-		for j := lo; j < hi; j++ {
-			best = min(best, segDist2(q, poly[j], poly[j+1]))
-		}
-		worst2 = max(worst2, best)
+		worst2 = max(worst2, nearestSeg2(q, poly, lo, hi, c, reach))
 	}
 	return math.Sqrt(worst2)
+}
+
+// nearestSeg2 returns the least segDist2 of q from the segments
+// poly[j]–poly[j+1], lo ≤ j < hi (+Inf when there is none), to the bit
+// what taking the least of every one gives. It measures segment first
+// (within [lo, hi)), then the others, skipping each segment whose start
+// lies farther from q than the nearest so far plus the longest segment
+// of poly and more than rounding (reach, segReach): the segment cannot
+// come nearer than that nearest, and the least of a set of squared
+// distances does not depend on the order they are taken in (a NaN, never
+// skipped, gives NaN either way).
+func nearestSeg2(q geometry.Point, poly []geometry.Point, lo, hi, first int, reach segReach) float64 {
+	best := math.Inf(1)
+	if lo >= hi {
+		return best
+	}
+	first = min(max(first, lo), hi-1)
+	best = segDist2(q, poly[first], poly[first+1])
+	r2 := reach.beyond(best)
+	for j := lo; j < hi; j++ {
+		a := poly[j]
+		dx, dy := a.X-q.X, a.Y-q.Y
+		if dx*dx+dy*dy > r2 || j == first {
+			continue
+		}
+		if d := segDist2(q, a, poly[j+1]); d < best || d != d { // min(best, d)
+			best = d
+			r2 = reach.beyond(best)
+		}
+	}
+	return best
+}
+
+// A segReach holds what nearestSeg2 skips segments by: the longest
+// segment of the polyline and the rounding allowed.
+type segReach struct {
+	long  float64 // the longest segment, a little over
+	mag   float64 // the largest magnitude of a coordinate
+	slack float64 // rounding of the distances, absolute
+}
+
+// newSegReach returns the segReach of poly. Nothing is skipped (long
+// +Inf) when a coordinate is not finite.
+func newSegReach(poly []geometry.Point) segReach {
+	r := segReach{}.with(poly)
+	l2 := 0.0
+	for j := 0; j+1 < len(poly); j++ {
+		d := poly[j+1].Sub(poly[j])
+		l2 = max(l2, d.X*d.X+d.Y*d.Y)
+	}
+	r.long = math.Sqrt(l2) * (1 + 1e-9)
+	if math.IsInf(r.slack, 0) || math.IsInf(l2, 0) {
+		r.long = math.Inf(1)
+	}
+	return r
+}
+
+// with returns r for distances from the points qs as well: slack is the
+// coordinates' largest magnitude S times 1e-13, where the rounding of
+// segDist2's differences and products stays within some 10 S ulp
+// (2.2e-15 S); +Inf, which skips nothing, when a coordinate is not finite.
+func (r segReach) with(qs []geometry.Point) segReach {
+	for _, p := range qs {
+		r.mag = max(r.mag, math.Abs(p.X), math.Abs(p.Y))
+	}
+	r.slack = 1e-13 * r.mag
+	if math.IsNaN(r.mag) || math.IsInf(r.mag, 0) {
+		r.slack = math.Inf(1)
+	}
+	return r
+}
+
+// beyond returns the squared distance from a point beyond which a
+// segment's start lies too far for the segment to come within √best2 of
+// it, rounding included: (√best2 + long + slack)², a little over; +Inf
+// when best2 is not a finite number.
+func (r segReach) beyond(best2 float64) float64 {
+	d := math.Sqrt(best2)*(1+1e-9) + r.long + r.slack
+	if math.IsNaN(d) {
+		return math.Inf(1)
+	}
+	return d * d * (1 + 1e-9)
 }
 
 // segDist2 returns the squared distance of q from the segment ab.
@@ -547,13 +637,12 @@ const mirrorStep = 16
 // segment of poly.
 func mirrorDistance(poly []geometry.Point) float64 {
 	var worst2 float64
+	reach := newSegReach(poly) // the image's coordinates are as large
 	for k := 0; k < len(poly); k += mirrorStep {
 		q := geometry.Point{X: poly[k].X, Y: -poly[k].Y}
-		best := math.Inf(1)
-		for j := 0; j+1 < len(poly); j++ {
-			best = min(best, segDist2(q, poly[j], poly[j+1]))
-		}
-		worst2 = max(worst2, best)
+		// The image of a point of one side lies near the point as far
+		// along the other (samples).
+		worst2 = max(worst2, nearestSeg2(q, poly, 0, len(poly)-1, len(poly)-2-k, reach))
 	}
 	return math.Sqrt(worst2)
 }

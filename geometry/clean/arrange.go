@@ -436,7 +436,9 @@ func (cl *cleaning) bySection(opts Options, sigma float64) *attempt {
 			// surface. Only the frame is drawn without them. As for
 			// sparse runs (see dense), not in a scan's cloud of tens of
 			// thousands, where isolated points are stray returns.
-			if in := withinChord(pts, rest[0], f); len(in) > 0 {
+			in := withinChord(pts, rest[0], f)
+			in = append(in, pastTail(pts, rest[0], sel, in, f, ws)...)
+			if len(in) > 0 {
 				sel = slices.Concat(sel, in)
 				slices.Sort(sel)
 				rest = outside(len(pts), sel)

@@ -136,6 +136,10 @@ type Report struct {
 	// Passes lists the passes of a probe program that measured a stretch
 	// twice and disagree there by more than the noise (see PassOffset).
 	Passes []PassOffset
+	// Reseat, when not nil, is a file of two whole passes whose second
+	// lies moved from the first (see Reseat); the points Clean ordered,
+	// and the contour's, are each pass moved half the way to the other.
+	Reseat *Reseat
 }
 
 // Clean merges duplicates, orders the cloud into loops, picks the section
@@ -225,6 +229,9 @@ func Clean(c *geometry.Cloud, opts Options) (*geometry.Contour, *Report, error) 
 	if n >= denseFrom && !opts.KeepOutliers && opts.Order != OrderFile {
 		return cleanDense(c, opts, sigma)
 	}
+	// 0. Two whole passes of a part re-clamped between them: each moved
+	// half the way towards the other.
+	rep.Reseat = reseat(all, c.Origins, diag)
 	// 1. Merge.
 	cl := &cleaning{c: c, rep: rep, lo: lo, hi: hi, diag: diag}
 	if err := cl.merge(all, tol); err != nil {

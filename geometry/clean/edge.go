@@ -143,6 +143,45 @@ func plausibleTips(cands []endModel, best *endModel) (lo, hi float64) {
 	return lo, hi
 }
 
+// tipsBeyond returns best.tipHi raised to the trailing edges of the ends
+// at (bases or arcs at a station) tried on past the grid of candidates
+// cands, whose last station is xLast, for as long as they score within
+// edgePlausible of best, when the grid's last candidate still does: a
+// grid that stops while its ends are as likely as the best says nothing
+// of how far on they stay so, and the plausible range (and the spread it
+// gives) would end where the grid does. The ends are tried a twelfth of
+// the step between points apart, up to tipsMore of them and no farther
+// than edgeCross beyond the aftmost point xmax (as far as the fits'
+// crossing is sought).
+func tipsBeyond(at func(x float64) (endModel, bool), best *endModel, cands []endModel, xLast, step, xmax float64) float64 {
+	hi := best.tipHi
+	if len(cands) == 0 || !(step > 0) {
+		return hi
+	}
+	if last := cands[len(cands)-1]; last.score > best.score+edgePlausible {
+		return hi
+	}
+	dx := step / 12
+	for j := 1; j <= tipsMore; j++ {
+		x := xLast + float64(j)*dx
+		if x > xmax+edgeCross {
+			break
+		}
+		m, ok := at(x)
+		if !ok || m.score > best.score+edgePlausible {
+			break
+		}
+		hi = max(hi, m.tipX())
+	}
+	return hi
+}
+
+// tipsMore is the most ends tipsBeyond tries: eight steps between points
+// past the grid, a bound on its cost (an end that far on leaves eight
+// steps more unsampled either side, far beyond what the gaps' law allows
+// at the 95 % level, plausibleEnd).
+const tipsMore = 96
+
 // tipX returns the chord station of the model's trailing edge: the
 // corner, the base, the tip of the arc.
 func (m *endModel) tipX() float64 {
@@ -603,7 +642,14 @@ func endGap(pts []geometry.Point, loop []int32, nu, nl int, tip geometry.Point) 
 		sum += d
 		top = max(top, d)
 		if k >= -nl-1 && k < nu {
-			if e := geometry.SegmentDist(tip, a, b); e < gd {
+			// A tip beyond a point (a corner put at the aftmost point,
+			// or carried past it) is nearest to that point on both
+			// segments that meet there: the two tie, and the tip lies
+			// in neither. The longer of them is the stretch the points
+			// leave open round the end, the shorter a step along a
+			// surface; the longer is taken, whichever comes first.
+			e := geometry.SegmentDist(tip, a, b)
+			if tie := math.Abs(e-gd) <= gapTie*(e+d+g); (tie && d > g) || (!tie && e < gd) {
 				g, gd = d, e
 			}
 		}
@@ -615,6 +661,11 @@ func endGap(pts []geometry.Point, loop []int32, nu, nl int, tip geometry.Point) 
 	return g / h
 }
 
+// gapTie is the relative difference below which endGap takes two
+// segments' distances to the tip for the same: that of their common point
+// (rounding of the feet found on each).
+const gapTie = 1e-9
+
 // gapSteps is the number of gaps either side whose mean endGap takes.
 const gapSteps = 4
 
@@ -623,10 +674,11 @@ const gapSteps = 4
 // end anywhere from a base through the aftmost point (xmax) to the corner
 // where the surfaces, carried on, meet, whatever the scores say (a missed
 // stretch of the outline is no sample of the end).
-func (m *endModel) openEnd(u, l quadFit, xa, xmax, ratio float64) bool {
+func (m *endModel) openEnd(fits endFits, xa, xmax, ratio float64) bool {
 	if !(ratio > edgeGapK) {
 		return false
 	}
+	u, l := fits.u, fits.l
 	bx, by := m.tipX(), m.tipY()
 	widen := func(x, y float64) {
 		m.spread = max(m.spread, math.Abs(x-bx))
@@ -648,6 +700,18 @@ func (m *endModel) openEnd(u, l quadFit, xa, xmax, ratio float64) bool {
 	if sep > 0 && slope < 0 {
 		if xt := xmax + sep/-slope; xt <= xmax+edgeCross {
 			widen(xt, u.at(xmax)+(u.c[1]+2*u.c[2]*xmax)*(xt-xmax))
+		}
+	}
+	// The fits carried over the missed stretch are known only to their
+	// standard errors there: the surfaces may close as far on as their
+	// separation, within √edgePlausible of those errors, runs out along
+	// its slope (cornerReach's statement, without its cap of a few
+	// spacings: the gaps of the points say nothing of a missed stretch).
+	if slope < 0 {
+		sd := math.Hypot(fits.eu.se(xmax), fits.el.se(xmax))
+		if d := (sep + math.Sqrt(edgePlausible)*sd) / -slope; d > 0 {
+			xr := xmax + min(d, edgeCross)
+			widen(xr, (u.at(xr)+l.at(xr))/2)
 		}
 	}
 	return true
@@ -734,8 +798,11 @@ func findEdgeIn(pts []geometry.Point, seq []int32, sigma float64, f chordFrame) 
 	var best endModel
 	var out []bool
 	var u, l quadFit
+	var eu, el fitSpread // what the winning fits leave unknown
 	var scat float64
 	coreU, coreL := slices.Clone(uidx), slices.Clone(lidx)
+	uCore, lCore := len(coreU), len(coreL)
+	var cores endFits // the surfaces' fits on their cores alone
 	for round := range 2 {
 		var us, ls float64
 		u, us = fitScatter(xs, ys, uidx)
@@ -744,7 +811,12 @@ func findEdgeIn(pts []geometry.Point, seq []int32, sigma float64, f chordFrame) 
 			return edgeFound{seq: seq}, false
 		}
 		scat = max(sigma/f.chord, us, ls, 1e-9)
-		m, o, ok := chooseEnd(endFits{u: u, l: l, eu: newFitSpread(xs, uidx, scat), el: newFitSpread(xs, lidx, scat), gaps: gm}, z, xmax, step, pstep, scat)
+		eu, el = newFitSpread(xs, uidx, scat), newFitSpread(xs, lidx, scat)
+		fits := endFits{u: u, l: l, eu: eu, el: el, gaps: gm}
+		if round == 0 {
+			cores = fits
+		}
+		m, o, ok := chooseEnd(fits, z, xmax, step, pstep, scat)
 		if !ok {
 			return edgeFound{seq: seq}, false
 		}
@@ -788,17 +860,28 @@ func findEdgeIn(pts []geometry.Point, seq []int32, sigma float64, f chordFrame) 
 	}
 	if u2, _ := fitScatter(xs, ys, coreU); u2.ok {
 		if l2, _ := fitScatter(xs, ys, coreL); l2.ok {
-			if m, o, ok := chooseEnd(endFits{u: u2, l: l2, eu: newFitSpread(xs, coreU, scat), el: newFitSpread(xs, coreL, scat), gaps: gm}, z, xmax, step, pstep, scat); ok && m.score < best.score {
-				best, out, u, l = m, o, u2, l2
+			eu2, el2 := newFitSpread(xs, coreU, scat), newFitSpread(xs, coreL, scat)
+			if m, o, ok := chooseEnd(endFits{u: u2, l: l2, eu: eu2, el: el2, gaps: gm}, z, xmax, step, pstep, scat); ok && m.score < best.score {
+				best, out, u, l, eu, el = m, o, u2, l2, eu2, el2
 			}
 		}
 	}
-	r, ok := best.apply(pts, seq, f, u, l, zpos, z, out, scat, step)
 	xa := xmax
 	for _, p := range z {
 		xa = min(xa, p.X)
 	}
-	if ok && best.openEnd(u, l, xa, xmax, r.gapRatio) {
+	if best.kind == EdgeBlunt {
+		lastU, lastL := math.Inf(-1), math.Inf(-1)
+		for _, k := range coreU[:uCore] {
+			lastU = max(lastU, xs[k])
+		}
+		for _, k := range coreL[:lCore] {
+			lastL = max(lastL, xs[k])
+		}
+		best.acrossGap(cores, z, lastU, lastL, scat, max(step, pstep))
+	}
+	r, ok := best.apply(pts, seq, f, u, l, zpos, z, out, scat, step)
+	if ok && best.openEnd(endFits{u: u, l: l, eu: eu, el: el}, xa, xmax, r.gapRatio) {
 		r.edge.Spread, r.edge.SpreadAcross, r.edge.SpreadSurface = best.spread*f.chord, best.spreadY*f.chord, best.spreadS
 		// A base through the last points or a corner beyond them.
 		for _, k := range []string{EdgeSharp, EdgeBlunt} {
@@ -808,6 +891,61 @@ func findEdgeIn(pts []geometry.Point, seq []int32, sigma float64, f chordFrame) 
 		}
 	}
 	return r, ok
+}
+
+// acrossGap widens the spreads of a blunt end m whose corner on a surface
+// lies across a gap in that surface's points, more than edgeReach steps h
+// past its last point (foreU, foreL: the last stations of the surfaces'
+// cores; zone points on a core's fit count too): a surface shadowed short
+// of the edge, or probed short of it. The corner there is where the
+// surface's fit (which may have taken in the base's points) meets the base,
+// a reconstruction the points do not check: the surface's fit on its own
+// core carried on to the base (cores) may put it elsewhere, as far again
+// as that fit's own error there. The trailing edge's point, the base's
+// middle, moves by half as much across the chord (the twist's bound), and
+// the outline by as much (the surface's).
+func (m *endModel) acrossGap(cores endFits, z []geometry.Point, foreU, foreL, scat, h float64) {
+	// A zone point on a surface lies on its core's fit (as in the second
+	// round of findEdgeIn; the fits u and l may have bent through the
+	// base); or, nearer it than the other's, within that fit's own error
+	// carried out to the point: a core fitted short of the zone
+	// misses a surface sampled right to its corner by more than the
+	// scatter where the surface bends into its edge (campaign 1732: the
+	// upper core 0.0014 c off at the corner, its points 0.0005–0.0015 c
+	// off all the way there).
+	band := func(sp fitSpread, x float64) float64 {
+		if !sp.ok {
+			return 0
+		}
+		return math.Sqrt(edgePlausible) * sp.se(x)
+	}
+	lastU, lastL := foreU, foreL
+	for _, p := range z {
+		on := max(edgeOn*scat, edgeShare*(cores.u.at(p.X)-cores.l.at(p.X)))
+		du, dl := math.Abs(p.Y-cores.u.at(p.X)), math.Abs(p.Y-cores.l.at(p.X))
+		if du <= on || du <= dl && du <= band(cores.eu, p.X) {
+			lastU = max(lastU, p.X)
+		}
+		if dl <= on || dl < du && dl <= band(cores.el, p.X) {
+			lastL = max(lastL, p.X)
+		}
+	}
+	// A core whose own error carried out to the corner exceeds the base's
+	// height (a few points far forward, their parabola carried across a
+	// long gap) cannot tell where on the base the corner lies, nor check
+	// it: it says nothing (campaign 15 and 584: the upper core's band
+	// 1.9 c and 0.14 c at a base 0.011 c and 0.005 c high would have
+	// stated the twist within 55 and 4.8 degrees).
+	widen := func(corner geometry.Point, last float64, fit quadFit, sp fitSpread) {
+		if !(corner.X-last > edgeReach*h) || !fit.ok || band(sp, corner.X) > m.hi.Y-m.lo.Y {
+			return
+		}
+		d := math.Abs(fit.at(corner.X)-corner.Y) + band(sp, corner.X)
+		m.spreadY = max(m.spreadY, d/2)
+		m.spreadS = max(m.spreadS, d)
+	}
+	widen(m.hi, lastU, cores.u, cores.eu)
+	widen(m.lo, lastL, cores.l, cores.el)
 }
 
 // chooseEnd fits the three end models to the zone points z and returns the
@@ -912,14 +1050,10 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 	// steps (a base no point sampled, its position left open).
 	var bestB *endModel
 	var cands []endModel
-	for j := range edgeBases + edgeBases/2 {
-		xb := xmax + (float64(j)/float64(edgeBases-1)-0.75)*4*scat
-		if j >= edgeBases {
-			xb = xmax + 2*pstep*float64(j-edgeBases+1)/float64(edgeBases/2)
-		}
+	baseAt := func(xb float64) (endModel, bool) {
 		lo, hi := geometry.Point{X: xb, Y: l.at(xb)}, geometry.Point{X: xb, Y: u.at(xb)}
 		if hi.Y <= lo.Y {
-			continue
+			return endModel{}, false
 		}
 		m := endModel{kind: EdgeBlunt, xu: xb, xl: xb, lo: lo, hi: hi, extra: pen}
 		if cs := max(2*scat, snapTol(scat, step)); !sampled(z, hi, cs) || !sampled(z, lo, cs) {
@@ -930,6 +1064,19 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 		}
 		m.extra += gapDeviance(m.path(u, l, xa), pstep)
 		m.scoreOf(u, l, z, scat, zs)
+		return m, true
+	}
+	var xLast float64
+	for j := range edgeBases + edgeBases/2 {
+		xb := xmax + (float64(j)/float64(edgeBases-1)-0.75)*4*scat
+		if j >= edgeBases {
+			xb = xmax + 2*pstep*float64(j-edgeBases+1)/float64(edgeBases/2)
+		}
+		xLast = max(xLast, xb)
+		m, ok := baseAt(xb)
+		if !ok {
+			continue
+		}
 		cands = append(cands, m)
 		if bestB == nil || m.score < bestB.score {
 			bestB = &m
@@ -937,6 +1084,7 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 	}
 	if bestB != nil {
 		bestB.tipLo, bestB.tipHi = plausibleTips(cands, bestB)
+		bestB.tipHi = tipsBeyond(baseAt, bestB, cands, xLast, step, xmax)
 		bestB.tips = true
 		models = append(models, *bestB)
 	}
@@ -1025,10 +1173,19 @@ func chooseEnd(fits endFits, z []geometry.Point, xmax, step, pstep, scat float64
 	for k := range alts {
 		alts[k].score = alts[k].misfit(u, l, z, scat, edgeOutlier, out, zs) + alts[k].extra + fits.gaps.deviance(&alts[k], u, l, z, out, xa)
 	}
-	if b := models[bk]; b.kind == EdgeBlunt && endPts[bk] == 0 && !b.cornersSampled(z, max(2*scat, snapTol(scat, step))) {
+	if b := models[bk]; b.kind == EdgeBlunt && endPts[bk] == 0 && !b.cornersSampled(z, 2*scat) {
 		// A base no point lies on, nor both of whose corners a point
 		// sampled (a drawing's stations), is no sample of a base: it is
-		// seen only in where the surfaces' last points stop. Where a
+		// seen only in where the surfaces' last points stop. A corner is
+		// sampled by a point within two scatters of it, not within
+		// snapTol: the base's corners lie on the surfaces' fits where the
+		// last points stop, so on a scan whose scatter is far below its
+		// step the other surface's last point falls within a twentieth of
+		// a step of a corner by chance, and a drawing whose one station
+		// is the sharp corner has it within snapTol of both corners of a
+		// base through it; neither is a sample of two corners. (On exact
+		// data the scatter is the fits' own: their parabolas' miss of the
+		// stations.) Where a
 		// sharp corner within reach of them explains the points as well
 		// (its misfits within edgePlausible of the base's) and leaves
 		// unsampled stretches either side of the end that the spacing of
@@ -1313,7 +1470,7 @@ func gapCarry(d, h, k float64) (beyond, even float64) {
 // fits cannot place may lie: leaving twice that much more outline
 // unsampled costs edgePlausible in gapDeviance (4·d/step), so a corner
 // farther on is less likely than the plausible ends by more than that.
-const edgeOpen = edgePlausible / 4
+const edgeOpen = edgePlausible / 4.0
 
 // roundBest returns the best scored rounded end whose tip lies between
 // 3 scatters short of xmax and a step beyond it (at least a scatter), nil
@@ -1358,6 +1515,7 @@ func roundBest(u, l quadFit, z []geometry.Point, zs []float64, xmax, xa, step, p
 	}
 	defer func() {
 		best.tipLo, best.tipHi = plausibleTips(cands, best)
+		best.tipHi = tipsBeyond(tipAt, best, cands, hi, step, xmax)
 		best.tips = true
 	}()
 	// Golden-section search over the grid cells either side of the best.

@@ -54,6 +54,46 @@ func TestEdgeSparseStationsBlunt(t *testing.T) {
 	}
 }
 
+// A drawing's stations, 20 a surface evenly along the chord, of sections
+// with the closed-edge coefficient (NACA Report 824 equations): both
+// surfaces end at one station, the sharp corner. A surface's parabola
+// over such sparse stations misses that corner by a little, so a base
+// through the corner has both its ends within a twentieth of a step of
+// the one station (the tolerance that snaps exact data's corners), though
+// many of the fits' scatters off it; that station samples no base's two
+// corners, and the end is read as sharp. (The campaign's exact drawings
+// of NACA 7613 and of a modified NACA 4-digit section, 20 stations a
+// surface, were read blunt this way, the 7613 below among them.)
+func TestEdgeSparseStationsSharp(t *testing.T) {
+	for _, foil := range []shape.NACA4{
+		{Camber: 0.07, CamberPos: 0.6, Thickness: 0.13, SharpTE: true},
+		{Camber: 0.04, CamberPos: 0.4, Thickness: 0.15, SharpTE: true},
+		{Camber: 0.02, CamberPos: 0.4, Thickness: 0.12, SharpTE: true},
+	} {
+		var pts []geometry.Point
+		for i := 20; i >= 1; i-- {
+			pts = append(pts, foil.Upper(float64(i)/20))
+		}
+		pts = append(pts, geometry.Point{})
+		for i := 1; i < 20; i++ {
+			pts = append(pts, foil.Lower(float64(i)/20))
+		}
+		for i := range pts {
+			pts[i] = pts[i].Scale(33.76).Rotate(0.275).Add(geometry.Point{X: 905, Y: -345})
+		}
+		_, rep, err := Clean(edgeTestCloud(pts), Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if rep.Edge == nil {
+			t.Fatalf("NACA %s: no trailing edge found on 40 stations", foil)
+		}
+		if rep.Edge.Kind != EdgeSharp {
+			t.Errorf("NACA %s: edge %s (%s), want sharp", foil, rep.Edge.Kind, rep.Edge.Why)
+		}
+	}
+}
+
 // A sharp trailing edge (NACA 2412, closed-edge coefficient, NACA Report
 // 824) probed with a little noise and irregular steps, its corner not
 // sampled: the last points of the surfaces stop short of it at different

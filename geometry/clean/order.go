@@ -94,38 +94,17 @@ func nearest(g *grid, pts []geometry.Point, self int32, nbr []int32, d2s []float
 	cnt := 0
 	p := pts[self]
 	ix, iy := g.cell(p)
-	visit := func(cx, cy int64) {
-		for _, q := range g.at(cx, cy) {
-			if q == self {
-				continue
-			}
-			dx, dy := pts[q].X-p.X, pts[q].Y-p.Y
-			d2 := dx*dx + dy*dy
-			if cnt == k && d2 >= d2s[k-1] {
-				continue
-			}
-			j := min(cnt, k-1)
-			for j > 0 && d2s[j-1] > d2 {
-				d2s[j], nbr[j] = d2s[j-1], nbr[j-1]
-				j--
-			}
-			d2s[j], nbr[j] = d2, q
-			if cnt < k {
-				cnt++
-			}
-		}
-	}
 	for r := int64(0); r <= maxRing; r++ {
 		if r == 0 {
-			visit(ix, iy)
+			cnt = nearestIn(g.at(ix, iy), pts, p, self, nbr, d2s, cnt)
 		} else {
 			for dx := -r; dx <= r; dx++ {
-				visit(ix+dx, iy-r)
-				visit(ix+dx, iy+r)
+				cnt = nearestIn(g.at(ix+dx, iy-r), pts, p, self, nbr, d2s, cnt)
+				cnt = nearestIn(g.at(ix+dx, iy+r), pts, p, self, nbr, d2s, cnt)
 			}
 			for dy := -r + 1; dy <= r-1; dy++ {
-				visit(ix-r, iy+dy)
-				visit(ix+r, iy+dy)
+				cnt = nearestIn(g.at(ix-r, iy+dy), pts, p, self, nbr, d2s, cnt)
+				cnt = nearestIn(g.at(ix+r, iy+dy), pts, p, self, nbr, d2s, cnt)
 			}
 		}
 		if reach := float64(r) * g.h; cnt == k && d2s[k-1] <= reach*reach {
@@ -135,6 +114,34 @@ func nearest(g *grid, pts []geometry.Point, self int32, nbr []int32, d2s []float
 	for j := cnt; j < k; j++ {
 		nbr[j] = -1
 	}
+}
+
+// nearestIn adds the points of one cell (cell) to the cnt nearest to p
+// found so far (nbr, their squared distances d2s, nearest first) and
+// returns their new count: a plain function whose count stays in a
+// register, where a closure kept it in the caller's frame.
+func nearestIn(cell []int32, pts []geometry.Point, p geometry.Point, self int32, nbr []int32, d2s []float64, cnt int) int {
+	k := len(nbr)
+	for _, q := range cell {
+		if q == self {
+			continue
+		}
+		dx, dy := pts[q].X-p.X, pts[q].Y-p.Y
+		d2 := dx*dx + dy*dy
+		if cnt == k && d2 >= d2s[k-1] {
+			continue
+		}
+		j := min(cnt, k-1)
+		for j > 0 && d2s[j-1] > d2 {
+			d2s[j], nbr[j] = d2s[j-1], nbr[j-1]
+			j--
+		}
+		d2s[j], nbr[j] = d2, q
+		if cnt < k {
+			cnt++
+		}
+	}
+	return cnt
 }
 
 // runsOf returns the ordered runs of c in compact indices: src maps

@@ -1,7 +1,6 @@
 package clean
 
 import (
-	"cmp"
 	"math"
 	"slices"
 
@@ -135,7 +134,7 @@ func weightOf(ws []float64, i int) float64 {
 // weights, the positions len/10 and len−1−len/10 for q = 0.1 (n·q rounded
 // down points trimmed each end). Weights that sum to nothing count alike.
 func trimmed(vs []weighted, q float64) (a, b int) {
-	stableSort(vs, func(x, y weighted) int { return cmp.Compare(x.v, y.v) })
+	stableSortWeighted(vs)
 	n := len(vs)
 	var tot float64
 	for _, v := range vs {
@@ -260,8 +259,12 @@ func (c camberLine) at(x float64) float64 {
 // closer together than it lies from them, stands for a few points). The
 // middles are then smoothed by a robust running line (Tukey's biweight,
 // three rounds, common practice), which sets aside bins that a missing
-// stretch left one-sided. Beyond the first bin the line stays level, and
-// beyond the last too unless that leaves more than tailSide of the chord
+// stretch left one-sided. Aft of the last counted bin the line is
+// carried on along its slope over the bins whose points show both
+// surfaces about it (tailBins: a thin tail under a steeply falling camber
+// line, whose surfaces' values of y overlap within a bin). Beyond the
+// first bin the line stays level, and beyond the last too unless that
+// leaves more than tailSide of the chord
 // without a middle (a thin tail whose bins a few points sided), where it
 // runs on to the frame's tail end (1, 0). The frame's ends are the points
 // farthest apart, which a slip off the nose, or a fixture's face standing
@@ -297,45 +300,14 @@ func camber(xs, ys, ws []float64) camberLine {
 		bins[k] = append(bins[k], weighted{v: ys[i], w: weightOf(ws, i), x: x})
 	}
 	var bx, by []float64
+	var kb []int // each counted bin's index
+	width := 1 / float64(nb)
 	for k, b := range bins {
-		if len(b) < 4 {
-			continue
+		if mid, ok := binMiddle(b, width); ok {
+			bx = append(bx, (float64(k)+0.5)/float64(nb))
+			by = append(by, mid)
+			kb = append(kb, k)
 		}
-		// Trimmed by the length of outline the points stand for, so that
-		// the points of a surface probed far more coarsely than the other
-		// are not all trimmed off as the extremes.
-		lo, hi := trimmed(b, 0.1)
-		gap, mid, at := -1.0, 0.0, 0
-		for j := lo; j < hi; j++ {
-			if g := b[j+1].v - b[j].v; g > gap {
-				gap, mid, at = g, (b[j+1].v+b[j].v)/2, j
-			}
-		}
-		// Both surfaces must be there: the gap between them wider than the
-		// spread of either (a missing stretch leaves one surface alone, and
-		// the largest gap in it is a gap along it).
-		if gap < 0 || gap <= b[at].v-b[lo].v || gap <= b[hi].v-b[at+1].v {
-			continue
-		}
-		var below, above float64
-		for j := lo; j <= hi; j++ {
-			if j <= at {
-				below += b[j].w
-			} else {
-				above += b[j].w
-			}
-		}
-		// A side lighter than sideShare still counts when its points run
-		// across the bin: a surface probed more sparsely than the other
-		// (passes of unequal density, a coarse surface), not a burst of a
-		// few points at one place.
-		width := 1 / float64(nb)
-		if below < sideShare*(below+above) && !runsAcross(b[:at+1], width) ||
-			above < sideShare*(below+above) && !runsAcross(b[at+1:], width) {
-			continue
-		}
-		bx = append(bx, (float64(k)+0.5)/float64(nb))
-		by = append(by, mid)
 	}
 	if len(bx) < 3 {
 		return camberLine{x: []float64{0, 1}, y: []float64{0, 0}}
@@ -388,6 +360,7 @@ func camber(xs, ys, ws []float64) camberLine {
 			}
 		}
 	}
+	bx, fit = tailBins(bins, kb[len(kb)-1], bx, fit, width)
 	if 1-bx[len(bx)-1] > tailSide {
 		// No middle over the last stretch of the chord (a thin tail's
 		// bins, sided by a few points): the line runs on to the frame's
@@ -395,6 +368,105 @@ func camber(xs, ys, ws []float64) camberLine {
 		return camberLine{x: append(bx, 1), y: append(fit, 0)}
 	}
 	return camberLine{x: bx, y: fit}
+}
+
+// binMiddle returns the middle between the surfaces in one camber bin
+// of the given width: the middle of the largest gap between consecutive
+// values v inside the bin's 10–90 % quantiles (by weight), when both
+// surfaces are there (camber's rules). It sorts b by v.
+func binMiddle(b []weighted, width float64) (float64, bool) {
+	if len(b) < 4 {
+		return 0, false
+	}
+	// Trimmed by the length of outline the points stand for, so that
+	// the points of a surface probed far more coarsely than the other
+	// are not all trimmed off as the extremes.
+	lo, hi := trimmed(b, 0.1)
+	gap, mid, at := -1.0, 0.0, 0
+	for j := lo; j < hi; j++ {
+		if g := b[j+1].v - b[j].v; g > gap {
+			gap, mid, at = g, (b[j+1].v+b[j].v)/2, j
+		}
+	}
+	// Both surfaces must be there: the gap between them wider than the
+	// spread of either (a missing stretch leaves one surface alone, and
+	// the largest gap in it is a gap along it).
+	if gap < 0 || gap <= b[at].v-b[lo].v || gap <= b[hi].v-b[at+1].v {
+		return 0, false
+	}
+	var below, above float64
+	for j := lo; j <= hi; j++ {
+		if j <= at {
+			below += b[j].w
+		} else {
+			above += b[j].w
+		}
+	}
+	// A side lighter than sideShare still counts when its points run
+	// across the bin: a surface probed more sparsely than the other
+	// (passes of unequal density, a coarse surface), not a burst of a
+	// few points at one place.
+	if below < sideShare*(below+above) && !runsAcross(b[:at+1], width) ||
+		above < sideShare*(below+above) && !runsAcross(b[at+1:], width) {
+		return 0, false
+	}
+	return mid, true
+}
+
+// tailBins carries the camber line (bin centres bx, smoothed middles
+// fit) on over the bins aft of the last counted one, last, while their
+// points show both surfaces about the line carried along its own slope.
+// Where a thin section's camber line falls steeply to the tail, a bin's
+// two surfaces fall across it by more than they lie apart, so the values
+// of y alone overlap and the largest gap between them is no gap between
+// the surfaces; measured from the line along its slope, the surfaces
+// stand apart again. The line goes only as far aft as such bins run:
+// where the points stop (the tail's end), or only one surface, a burst or
+// a fixture's face remains, nothing is added, and the line stays level
+// beyond its last middle as before.
+func tailBins(bins [][]weighted, last int, bx, fit []float64, width float64) ([]float64, []float64) {
+	const m = 4 // middles the slope is taken over
+	for k := last + 1; k < len(bins); k++ {
+		n := len(bx)
+		if n < m || len(bins[k]) < 4 {
+			continue
+		}
+		slope, y0, x0 := lineThrough(bx[n-m:], fit[n-m:])
+		line := func(x float64) float64 { return y0 + slope*(x-x0) }
+		d := make([]weighted, len(bins[k]))
+		for j, p := range bins[k] {
+			d[j] = weighted{v: p.v - line(p.x), w: p.w, x: p.x}
+		}
+		mid, ok := binMiddle(d, width)
+		if !ok {
+			continue
+		}
+		xc := (float64(k) + 0.5) * width
+		bx = append(bx, xc)
+		fit = append(fit, line(xc)+mid)
+	}
+	return bx, fit
+}
+
+// lineThrough fits y = y0 + slope·(x − x0) to the points by least
+// squares, x0 their mean x.
+func lineThrough(xs, ys []float64) (slope, y0, x0 float64) {
+	var sx, sy float64
+	for i := range xs {
+		sx += xs[i]
+		sy += ys[i]
+	}
+	n := float64(len(xs))
+	x0, y0 = sx/n, sy/n
+	var sxx, sxy float64
+	for i := range xs {
+		sxx += (xs[i] - x0) * (xs[i] - x0)
+		sxy += (xs[i] - x0) * (ys[i] - y0)
+	}
+	if sxx > 0 {
+		slope = sxy / sxx
+	}
+	return slope, y0, x0
 }
 
 // runsAcross reports whether the points of one side of a camber bin of
@@ -727,6 +799,31 @@ func robustQuad(xs, ys []float64, idx []int, x0 float64) quadFit {
 	return q
 }
 
+// sides returns which of the points (xs, ys), chord coordinates with
+// weights sw (nil: equal), lie on the upper surface, and the camber line
+// that tells the surfaces apart (near the tail, fits of both surfaces do:
+// tailSides).
+func sides(xs, ys, sw []float64) ([]bool, camberLine) {
+	n := len(xs)
+	cl := camber(xs, ys, sw)
+	upper := make([]bool, n)
+	for k := range n {
+		upper[k] = ys[k] >= cl.at(xs[k])
+	}
+	// Once more with each point standing for the stretch of its own
+	// surface it covers (surfaceWeights): the neighbour distances of
+	// spacingWeights mix the surfaces wherever the section is thinner than
+	// a coarsely probed surface's step, and a surface probed 5–20 times
+	// more coarsely than the other then weighs as a handful of points,
+	// trimmed off the camber line's bins as extremes.
+	cl = camber(xs, ys, surfaceWeights(xs, upper))
+	for k := range n {
+		upper[k] = ys[k] >= cl.at(xs[k])
+	}
+	tailSides(xs, ys, upper)
+	return upper, cl
+}
+
 // sectionOrder orders the points sel of a section-like cloud into one loop
 // without looking at their spacing: in the coarse chord frame every point
 // gets a place u round the loop, and the loop is the points sorted by u.
@@ -760,22 +857,7 @@ func sectionOrder(pts []geometry.Point, sel []int32, f chordFrame, ws []float64)
 			sw[k] = ws[i]
 		}
 	}
-	cl := camber(xs, ys, sw)
-	upper := make([]bool, n)
-	for k := range n {
-		upper[k] = ys[k] >= cl.at(xs[k])
-	}
-	// Once more with each point standing for the stretch of its own
-	// surface it covers (surfaceWeights): the neighbour distances of
-	// spacingWeights mix the surfaces wherever the section is thinner than
-	// a coarsely probed surface's step, and a surface probed 5–20 times
-	// more coarsely than the other then weighs as a handful of points,
-	// trimmed off the camber line's bins as extremes.
-	cl = camber(xs, ys, surfaceWeights(xs, upper))
-	for k := range n {
-		upper[k] = ys[k] >= cl.at(xs[k])
-	}
-	tailSides(xs, ys, upper)
+	upper, cl := sides(xs, ys, sw)
 	// The centres of the caps: the camber line's points at their edges.
 	xn, xt := noseCap, 1-tailCap
 	yn, yt := cl.at(xn), cl.at(xt)
@@ -835,7 +917,8 @@ func sectionOrder(pts []geometry.Point, sel []int32, f chordFrame, ws []float64)
 		// No strict weak order: keep the sort whose order it always was.
 		slices.SortStableFunc(order, byPlace)
 	} else {
-		stableSort(order, byPlace)
+		// Without NaN, byPlace is cmp.Compare.
+		stableSortBy(order, us)
 	}
 	out := make([]int32, n)
 	for k, o := range order {
@@ -861,7 +944,7 @@ func surfaceWeights(xs []float64, upper []bool) []float64 {
 				idx = append(idx, k)
 			}
 		}
-		stableSort(idx, func(a, b int) int { return cmp.Compare(xs[a], xs[b]) })
+		stableSortBy(idx, xs)
 		for j, k := range idx {
 			lo, hi := xs[k], xs[k]
 			if j > 0 {

@@ -2,7 +2,6 @@ package curve
 
 import (
 	"math"
-	"sort"
 	"sync"
 	"sync/atomic"
 
@@ -211,7 +210,7 @@ func (c *Curve) partial(i int, u float64) float64 {
 			k++
 		}
 	} else {
-		k = sort.Search(len(us)-1, func(j int) bool { return us[j] > u })
+		k = searchAfter(us[:len(us)-1], u)
 	}
 	var a, before float64
 	if k > 0 {
@@ -271,7 +270,7 @@ func (c *Curve) Locate(s float64) (int, float64) {
 		i := len(c.xs) - 1
 		return i, c.Span(i)
 	}
-	i := sort.SearchFloat64s(c.ss, s) - 1
+	i := searchAtLeast(c.ss, s) - 1
 	if i < 0 {
 		i = 0
 	}
@@ -317,6 +316,37 @@ func (c *Curve) Locate(s float64) (int, float64) {
 	return i, (a + b) / 2
 }
 
+// searchAtLeast is sort.SearchFloat64s(a, x), the least index i with
+// a[i] >= x (len(a) if none), by the same halving with the comparison
+// inline rather than through a function value.
+func searchAtLeast(a []float64, x float64) int {
+	i, j := 0, len(a)
+	for i < j {
+		h := int(uint(i+j) >> 1)
+		if !(a[h] >= x) {
+			i = h + 1
+		} else {
+			j = h
+		}
+	}
+	return i
+}
+
+// searchAfter is sort.Search(len(a), func(j int) bool { return a[j] > x }),
+// the least index i with a[i] > x (len(a) if none), the comparison inline.
+func searchAfter(a []float64, x float64) int {
+	i, j := 0, len(a)
+	for i < j {
+		h := int(uint(i+j) >> 1)
+		if !(a[h] > x) {
+			i = h + 1
+		} else {
+			j = h
+		}
+	}
+	return i
+}
+
 // arc returns the arc length at piece i, local parameter u.
 func (c *Curve) arc(i int, u float64) float64 { return c.ss[i] + c.partial(i, u) }
 
@@ -326,11 +356,35 @@ func (c *Curve) Eval(i int, u float64) (p, d1, d2 geometry.Point) {
 	return geometry.Point{X: x, Y: y}, geometry.Point{X: dx, Y: dy}, geometry.Point{X: ddx, Y: ddy}
 }
 
+// PointAt returns the point of piece i at local parameter u: Eval's
+// point, the same to the bit, without the derivatives (and inlined where
+// it is called).
+func (c *Curve) PointAt(i int, u float64) geometry.Point {
+	k, m := &c.xs[i], &c.ys[i]
+	return geometry.Point{X: k[0] + u*(k[1]+u*(k[2]+u*k[3])), Y: m[0] + u*(m[1]+u*(m[2]+u*m[3]))}
+}
+
 // At returns the point at arc length s.
 func (c *Curve) At(s float64) geometry.Point {
 	i, u := c.Locate(s)
-	p, _, _ := c.Eval(i, u)
-	return p
+	return c.PointAt(i, u)
+}
+
+// nearerThan reports whether the squared distance d2 of a point (its
+// coordinates' differences squared and summed) may make its distance,
+// as math.Hypot gives it, less than d: false only when the distance is
+// certainly no less (d2 beyond d² by far more than the rounding of
+// either), so that a caller skipping the Hypot of such points keeps the
+// same nearest point, to the bit. Distances below 1e-100 are always
+// measured.
+func nearerThan(d2, d float64) bool {
+	return !(d > 1e-100 && d2 > d*d*(1+1e-9))
+}
+
+// fartherThan is nearerThan the other way: false only when the distance
+// is certainly less than d.
+func fartherThan(d2, d float64) bool {
+	return !(d > 1e-100 && d2 < d*d*(1-1e-9))
 }
 
 // Tangent returns the unit tangent (direction of increasing s) at arc
@@ -390,8 +444,7 @@ func (c *Curve) Start() geometry.Point { return geometry.Point{X: c.xs[0][0], Y:
 // End returns the last point of c.
 func (c *Curve) End() geometry.Point {
 	i := len(c.xs) - 1
-	p, _, _ := c.Eval(i, c.Span(i))
-	return p
+	return c.PointAt(i, c.Span(i))
 }
 
 // Project returns the arc length of the point of c nearest to p and the
@@ -404,7 +457,11 @@ func (c *Curve) Project(p geometry.Point) (s, dist float64) {
 	for i := range c.xs {
 		for _, f := range [...]float64{0, 0.5} {
 			u := f * c.Span(i)
-			q, _, _ := c.Eval(i, u)
+			q := c.PointAt(i, u)
+			dx, dy := q.X-p.X, q.Y-p.Y
+			if !nearerThan(dx*dx+dy*dy, bd) {
+				continue
+			}
 			if d := q.Dist(p); d < bd {
 				bi, bu, bd = i, u, d
 			}
@@ -478,8 +535,7 @@ func (c *Curve) ProjectFrom(p geometry.Point, i int, u float64) (int, float64, f
 			break
 		}
 	}
-	q, _, _ := c.Eval(i, u)
-	return i, u, q.Dist(p)
+	return i, u, c.PointAt(i, u).Dist(p)
 }
 
 // residual returns the arc length of the foot of p on c, found by Newton's
@@ -669,7 +725,11 @@ func (cv *Curve) Farthest(p geometry.Point, s0, s1 float64) (float64, float64) {
 		whole := in(cv.ss[i]) && in(cv.ss[i+1]) && (s0 <= s1 || cv.ss[i] >= s0 || cv.ss[i+1] <= s1)
 		for _, f := range [...]float64{0, 0.25, 0.5, 0.75} {
 			u := f * cv.Span(i)
-			q, _, _ := cv.Eval(i, u)
+			q := cv.PointAt(i, u)
+			dx, dy := q.X-p.X, q.Y-p.Y
+			if !fartherThan(dx*dx+dy*dy, bestD) {
+				continue
+			}
 			d := q.Dist(p)
 			if !(d > bestD) {
 				continue

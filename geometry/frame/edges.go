@@ -256,7 +256,7 @@ func locate(cv *curve.Curve, leAt *geometry.Point) (*edges, error) {
 	lo, hi := math.Inf(1), math.Inf(-1)
 	for i := 0; i < cv.Pieces(); i++ {
 		for _, f := range [...]float64{0, 0.5} {
-			q, _, _ := cv.Eval(i, f*cv.Span(i))
+			q := cv.PointAt(i, f*cv.Span(i))
 			v := q.Sub(e.le).Dot(nrm)
 			lo, hi = math.Min(lo, v), math.Max(hi, v)
 		}
@@ -421,15 +421,14 @@ func reshapeEdge(cv *curve.Curve, e *edges, t, blend float64) (*curve.Curve, flo
 	var pts []geometry.Point
 	for i := 0; i < cv.Pieces(); i++ {
 		h := cv.Span(i)
-		p0, _, _ := cv.Eval(i, 0)
-		p1, _, _ := cv.Eval(i, h)
+		p0, p1 := cv.PointAt(i, 0), cv.PointAt(i, h)
 		sub := 1
 		if xi(p0) > x0-0.01 || xi(p1) > x0-0.01 {
 			sub = 8
 		}
 		for k := 0; k < sub; k++ {
 			uu := h * float64(k) / float64(sub)
-			q, _, _ := cv.Eval(i, uu)
+			q := cv.PointAt(i, uu)
 			pts = append(pts, shift(q, cv.PieceStart(i) < e.sLE))
 		}
 	}

@@ -143,7 +143,7 @@ func (ps side) bounds(i int) (float64, float64) {
 // same sign at both ends.
 func (ps side) cross(g func(geometry.Point) float64) (int, float64, geometry.Point, bool) {
 	c := ps.c
-	at := func(i int, u float64) geometry.Point { p, _, _ := c.Eval(i, u); return p }
+	at := func(i int, u float64) geometry.Point { return c.PointAt(i, u) }
 	a0, _ := ps.bounds(ps.i0)
 	_, b1 := ps.bounds(ps.i1)
 	ga, gb := g(at(ps.i0, a0)), g(at(ps.i1, b1))
@@ -405,8 +405,8 @@ func inscribed(c *curve.Curve, up, lo side, m0 geometry.Point, x float64) (geome
 		var pu, pl geometry.Point
 		iu, uu, du = c.ProjectFrom(m, iu, uu)
 		il, ul, dl = c.ProjectFrom(m, il, ul)
-		pu, _, _ = c.Eval(iu, uu)
-		pl, _, _ = c.Eval(il, ul)
+		pu = c.PointAt(iu, uu)
+		pl = c.PointAt(il, ul)
 		e := pu.Sub(pl)
 		n := e.Norm()
 		if n == 0 {

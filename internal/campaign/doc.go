@@ -25,11 +25,17 @@
 //   - trailing-edge kind: sharp, blunt or rounded as the truth, with a
 //     base or rounding smaller than four times the scatter of the points
 //     allowed to read as sharp; "open" is never right; the rate is over
-//     the cases whose points decide the kind, and those they cannot at
-//     their sampling (teUndecidable: a rounded end with fewer than three
-//     points on its arc, a blunt base with none on it whose surfaces,
-//     carried on to where they meet, leave a gap round the end that the
-//     spacing of the last points allows) are counted apart;
+//     the cases whose points decide the kind, and those they cannot are
+//     counted apart, under two judgements that read only the truth and
+//     the points as drawn, never the section: stop 23's (teUndecidable:
+//     a rounded end with fewer than three points on its arc, a blunt base
+//     with none on it whose surfaces, carried on to where they meet, leave
+//     a gap round the end that the spacing of the last points allows;
+//     teIndistinct: noise that hides a base from an arc or an arc from a
+//     corner) and stop 26's (teJudge: one likelihood-ratio test of the
+//     truth against the best end of every other kind, the points'
+//     positions and the gap round the end, at 95 %); -rejudge makes both
+//     again on the records of any run;
 //   - good points dropped (any drop but a duplicate merge, lines of
 //     duplicate pairs and repeated stretches left out) and planted
 //     outliers caught;

@@ -55,6 +55,21 @@ type Record struct {
 	// distance in scatters from the nearest outline of a rival kind of
 	// end; −1 when it weighs none.
 	TESeparation float64
+	// TEUndecidable26 is the stop 26 judgement (teJudge: one
+	// likelihood-ratio test, positions and the gap round the end, of the
+	// truth against the best rival of every other kind); TEUndecidable
+	// stays the stop 23 one, so a reader sees what changed. TERival26 is
+	// the best rival kind and TELambda26 its λ (−1 when none is weighed;
+	// then the stop 23 judgement stands).
+	// TEWhy26 says why an undecided case is undecided (teVerdict.Why);
+	// TEMiss26 is the probability that an end piece as long as the true
+	// one, at the spacing of the points there, holds no point (−1 unless
+	// no point lies on it).
+	TEUndecidable26 bool
+	TERival26       string  `json:",omitempty"`
+	TELambda26      float64 `json:",omitempty"`
+	TEWhy26         string  `json:",omitempty"`
+	TEMiss26        float64 `json:",omitempty"`
 	// Good counts good lines that are not part of a duplicate pair;
 	// GoodDropped those the section lists as dropped for a reason other
 	// than being a duplicate. Planted counts planted outliers, Caught those
@@ -106,13 +121,7 @@ func evaluate(r *Record, tr *scangen.Truth, sec *section) {
 	}
 	r.TEGot = sec.TrailingEdge.Kind
 	r.TERight = teRight(tr, r.TEGot)
-	r.TEUndecidable, r.TEEndPoints = teUndecidable(tr)
-	indistinct, lambda := teIndistinct(tr)
-	r.TEUndecidable = r.TEUndecidable || indistinct
-	r.TESeparation = -1
-	if !math.IsInf(lambda, 1) {
-		r.TESeparation = lambda
-	}
+	judgeTE(r, tr)
 	countDropped(r, tr, sec)
 
 	u := sec.Uncertainty
@@ -133,6 +142,39 @@ func evaluate(r *Record, tr *scangen.Truth, sec *section) {
 		why = append(why, "nodes")
 	}
 	r.Wrong = strings.Join(why, "+")
+}
+
+// judgeTE sets the record's judgements of whether the good points decide
+// the kind of the trailing edge, both the stop 23 one (teUndecidable,
+// teIndistinct) and the stop 26 one (teJudge). They read the truth and
+// the points as drawn, never the section: whether a case can be judged
+// does not depend on the answer.
+//
+// A sharp truth is decided by both whatever its points (see teUndecidable
+// and teJudge); judgeTE reads only its kind, so Rejudge need not generate
+// its case again.
+func judgeTE(r *Record, tr *scangen.Truth) {
+	if tr.TEKind == scangen.TESharp {
+		r.TEUndecidable, r.TEEndPoints, r.TESeparation = false, 0, -1
+		r.TEUndecidable26, r.TERival26, r.TELambda26, r.TEWhy26, r.TEMiss26 = false, "", -1, "", -1
+		return
+	}
+	r.TEUndecidable, r.TEEndPoints = teUndecidable(tr)
+	indistinct, lambda := teIndistinct(tr)
+	r.TEUndecidable = r.TEUndecidable || indistinct
+	r.TESeparation = -1
+	if !math.IsInf(lambda, 1) {
+		r.TESeparation = lambda
+	}
+	r.TEUndecidable26, r.TERival26, r.TELambda26, r.TEWhy26, r.TEMiss26 = r.TEUndecidable, "", -1, "", -1
+	if v := teJudge(tr); v.OK {
+		r.TEUndecidable26, r.TERival26, r.TEWhy26, r.TEMiss26 = !v.Decided, v.Rival, v.Why(), v.Miss
+		if !math.IsInf(v.Lambda, 0) {
+			r.TELambda26 = v.Lambda
+		}
+	} else if r.TEUndecidable {
+		r.TEWhy26 = "stop 23 judgement (noise-free points or no end to weigh)"
+	}
 }
 
 // teRight reports whether the trailing-edge kind the section states is

@@ -145,9 +145,21 @@ func Figures(recs []Record) []Figure {
 		}
 	}
 	st := share(teOK, len(succ)-undecided)
-	add("trailing-edge kind right (of successes whose points decide it)", "≥ 97 %", fmt.Sprintf("%s (%d of %d; of all successes %s)",
+	add("trailing-edge kind right (of successes whose points decide it; stop 23 judgement)", "≥ 97 %", fmt.Sprintf("%s (%d of %d; of all successes %s)",
 		pct(st), teOK, len(succ)-undecided, pct(share(teAll, len(succ)))), true, st >= targetTERight)
-	add("trailing-edge kind undecidable at this sampling (of successes)", "(counted apart)", fmt.Sprintf("%d (%s; stated as generated %d)",
+	teOK26, undecided26 := 0, 0
+	for _, r := range succ {
+		if r.TEUndecidable26 {
+			undecided26++
+		} else if r.TERight {
+			teOK26++
+		}
+	}
+	st26 := share(teOK26, len(succ)-undecided26)
+	add("trailing-edge kind right, stop 26 judgement (of successes whose kind an ideal reader of the points, knowing their noise, tells from the best end of each other kind in 95 % of draws)", "≥ 97 %",
+		fmt.Sprintf("%s (%d of %d; undecidable %d; stop 23 judgement above: %s, undecidable %d)", pct(st26), teOK26,
+			len(succ)-undecided26, undecided26, pct(st), undecided), false, true)
+	add("trailing-edge kind undecidable at this sampling (of successes; stop 23 judgement)", "(counted apart)", fmt.Sprintf("%d (%s; stated as generated %d)",
 		undecided, pct(share(undecided, len(succ))), undecidedAsTrue), false, true)
 
 	withGood := okRecords(recs, func(r *Record) bool { return r.Good > 0 })

@@ -153,8 +153,12 @@ func newTEEnds(sh *scangen.Shape) (teEnds, bool) {
 	const m = 100
 	for j := 1; j <= m; j++ {
 		f := float64(j) / m
-		e.up = append(e.up, cu.Add(tu.Scale(a*f)))
-		e.lo = append(e.lo, cl.Add(tl.Scale(b*f)))
+		if a > 0 { // 0 for a sharp edge (teJudge): nothing to carry on
+			e.up = append(e.up, cu.Add(tu.Scale(a*f)))
+		}
+		if b > 0 {
+			e.lo = append(e.lo, cl.Add(tl.Scale(b*f)))
+		}
 	}
 	tip := e.up[len(e.up)-1]
 	e.xLo, e.xHi = min(cu.X, cl.X)-teRivalSpan/4, tip.X
@@ -249,17 +253,19 @@ func nearestOn(p []geometry.Point, q geometry.Point) (int, geometry.Point) {
 
 // polyDist returns the distance of p from the nearest of the polylines,
 // and which that is.
-// A polyline longer than polyWindow points runs aft (its stations
-// increase, as a surface's do near the end) and only its segments about
-// p's station are searched.
+// On a polyline longer than 2·polyWindow points whose stations increase
+// along it (a surface's do near the end) only the segments about p's
+// station are searched; any other (a rounded end's arc turns back) is
+// searched whole.
 func polyDist(p geometry.Point, polys [][]geometry.Point) (float64, int) {
 	d, which := math.Inf(1), -1
+	byX := func(a, b geometry.Point) int { return cmp.Compare(a.X, b.X) }
 	for j, q := range polys {
 		if len(q) == 1 && p.Dist(q[0]) < d {
 			d, which = p.Dist(q[0]), j
 		}
 		k0, k1 := 0, len(q)-1
-		if len(q) > 2*polyWindow {
+		if len(q) > 2*polyWindow && slices.IsSortedFunc(q, byX) {
 			i, _ := slices.BinarySearchFunc(q, p.X, func(a geometry.Point, x float64) int { return cmp.Compare(a.X, x) })
 			k0, k1 = max(i-polyWindow, 0), min(i+polyWindow, len(q)-1)
 		}

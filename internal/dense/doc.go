@@ -11,9 +11,11 @@
 // two-column forms that solve for two right-hand sides at once, and the
 // absolute sum; in Go elsewhere or with the purego build tag). Where the
 // CPU has AVX-512 the products run on tiles of 12×16 and 12×8 from the same
-// packed slivers, and the panel's elimination step and the row swaps use
-// it too: the same factors, bit for bit, at the same block width, and
-// blocks of 96 columns (128 from 700 rows) instead of 64. Blocks are
+// packed slivers, and the panel's elimination step, the row swaps and the
+// leaves of the triangular solves (a strip of 8 columns of a row held in
+// a register) use it too: the same factors, bit for bit, at the same
+// block width, and blocks of 96 columns (128 from 700 rows) instead of
+// 64. Blocks are
 // used from 160 rows; from 300 rows one goroutine factors the next panel
 // while the others update the rest of the trailing matrix in column
 // pieces (look-ahead), so that both cores stay busy. Up to 80 rows the

@@ -402,6 +402,14 @@ func (f *factorizer) unblocked() {
 // L is the unit lower triangle of the m×m block at l (ldl).
 func trsmLower(m, nc int, l []float64, ldl int, b []float64, ldb int, ws *workspace) {
 	if m <= trsmBase {
+		if useAsm && useAVX512 && nc >= 8 && m > 1 {
+			// The same axpys, a strip of columns at a time with its row
+			// in a register (axpy below takes axpyAVX2 from 8 columns on,
+			// whose operations the leaf does).
+			_, _ = l[(m-1)*ldl+m-2], b[(m-1)*ldb+nc-1]
+			trsmLeafAVX512(m, nc, &l[0], ldl, &b[0], ldb)
+			return
+		}
 		for i := 1; i < m; i++ {
 			bi := b[i*ldb : i*ldb+nc]
 			for j, v := range l[i*ldl : i*ldl+i] {

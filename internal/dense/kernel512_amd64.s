@@ -454,3 +454,80 @@ tail:
 done:
 	VZEROUPPER
 	RET
+
+// func trsmLeafAVX512(m, nc int, l *float64, ldl int, b *float64, ldb int)
+//
+// Overwrites the m×nc block B (rows ldb apart) with L⁻¹B, L the unit lower
+// triangle of the m×m block at l (rows ldl apart): for each strip of 8
+// columns (the last one masked), row i held in Z0 takes
+// b[i] −= l[i][j]·b[j] for j = 0, 1, …, i−1 in turn, skipping l[i][j] = 0,
+// by one fused multiply-add each, rows j < i read back from the strip
+// just written: the operations of trsmLower's axpys (axpyAVX2: y + (−v)·x
+// fused) in their order, so the same results, bit for bit, without a call
+// and a store per row pair. m ≥ 1, nc ≥ 1.
+TEXT ·trsmLeafAVX512(SB), NOSPLIT, $0-48
+	MOVQ m+0(FP), R12
+	MOVQ nc+8(FP), CX
+	MOVQ l+16(FP), SI
+	MOVQ ldl+24(FP), R8
+	SHLQ $3, R8
+	MOVQ b+32(FP), DI
+	MOVQ ldb+40(FP), R9
+	SHLQ $3, R9
+	VXORPD X2, X2, X2
+
+strip:
+	TESTQ CX, CX
+	JLE   leafdone
+	MOVQ  $0xff, R10
+	CMPQ  CX, $8
+	JGE   fullmask
+	MOVQ  $1, R10
+	SHLQ  CX, R10
+	DECQ  R10
+
+fullmask:
+	KMOVQ R10, K1
+	MOVQ  $1, R13          // i
+	MOVQ  DI, R14
+	ADDQ  R9, R14          // row i of the strip
+	MOVQ  SI, R15
+	ADDQ  R8, R15          // row i of L
+
+row:
+	CMPQ      R13, R12
+	JGE       nextstrip
+	VMOVUPD.Z (R14), K1, Z0
+	XORQ      R11, R11     // j
+	MOVQ      DI, BX       // row j of the strip
+
+col:
+	VMOVSD       (R15)(R11*8), X1
+	VUCOMISD     X2, X1
+	JNE          fma
+	JPS          fma
+	JMP          skip
+
+fma:
+	VBROADCASTSD X1, Z1
+	VFNMADD231PD (BX), Z1, K1, Z0
+
+skip:
+	ADDQ R9, BX
+	INCQ R11
+	CMPQ R11, R13
+	JLT  col
+	VMOVUPD Z0, K1, (R14)
+	ADDQ    R9, R14
+	ADDQ    R8, R15
+	INCQ    R13
+	JMP     row
+
+nextstrip:
+	ADDQ $64, DI
+	SUBQ $8, CX
+	JMP  strip
+
+leafdone:
+	VZEROUPPER
+	RET

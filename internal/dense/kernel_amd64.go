@@ -57,6 +57,13 @@ func kernU12x8AVX512(k int, a *float64, lda int, b, c *float64, ldc int)
 //go:noescape
 func kernU6x8AVX512(k int, a *float64, lda int, b, c *float64, ldc int)
 
+// trsmLeafAVX512 overwrites the m×nc block at b (rows ldb apart) with
+// L⁻¹B, L the unit lower triangle at l (rows ldl apart), as trsmLower's
+// row-by-row axpys do, bit for bit (kernel512_amd64.s). m, nc ≥ 1.
+//
+//go:noescape
+func trsmLeafAVX512(m, nc int, l *float64, ldl int, b *float64, ldb int)
+
 // swapAVX512 exchanges x[i] and y[i] for i < n, n ≥ 1 (kernel512_amd64.s).
 //
 //go:noescape

@@ -30,6 +30,10 @@ func kernU6x8AVX512(k int, a *float64, lda int, b, c *float64, ldc int) {
 
 func swapAVX512(x, y *float64, n int) { panic("dense: no assembly") }
 
+func trsmLeafAVX512(m, nc int, l *float64, ldl int, b *float64, ldb int) {
+	panic("dense: no assembly")
+}
+
 func kern12x8AVX512(k int, a, b, c *float64, ldc int) { panic("dense: no assembly") }
 
 func kern6x8AVX512(k int, a, b, c *float64, ldc int) { panic("dense: no assembly") }

@@ -271,31 +271,35 @@ func exitDetail(err error) error {
 const warmup = 30 * time.Millisecond
 
 // timeGo returns the wall times of reps full solutions after a warm-up,
-// and the phases the solver timed (build, factor, solve) of each, in
-// seconds.
-func timeGo(nodes []geometry.Point, alphas []float64, reps int) (ts []float64, phases [][3]float64, err error) {
+// the processor time of each (user and system, all threads of the
+// process: what the solution costs the machine, which a load from other
+// jobs changes far less than the wall time), and the phases the solver
+// timed (build, factor, solve) of each, in seconds.
+func timeGo(nodes []geometry.Point, alphas []float64, reps int) (ts, cpu []float64, phases [][3]float64, err error) {
 	// Warm up as the numpy peer does: at least three solutions and 30 ms.
 	t0 := time.Now()
 	for k := 0; k < 3 || time.Since(t0) < warmup; k++ {
 		if _, _, err := solveGo(nodes, alphas); err != nil {
-			return nil, nil, err
+			return nil, nil, nil, err
 		}
 	}
 	for range reps {
-		t0 := time.Now()
+		c0, t0 := cpuTime(), time.Now()
 		sv, _, err := solveGo(nodes, alphas)
 		if err != nil {
-			return nil, nil, err
+			return nil, nil, nil, err
 		}
 		ts = append(ts, time.Since(t0).Seconds())
+		cpu = append(cpu, cpuTime()-c0)
 		tm := sv.Timings()
 		phases = append(phases, [3]float64{tm.Build.Seconds(), tm.Factor.Seconds(), tm.Solve.Seconds()})
 	}
-	return ts, phases, nil
+	return ts, cpu, phases, nil
 }
 
 // serve answers "time NODES REPS ANGLES" lines with the times of timeGo,
-// the protocol of the numpy peer's serve command.
+// the protocol of the numpy peer's serve command: the wall times, then
+// "cpu" and the processor times.
 func serve(r io.Reader, w io.Writer) error {
 	sc := bufio.NewScanner(r)
 	cache := map[string][]geometry.Point{}
@@ -320,12 +324,12 @@ func serve(r io.Reader, w io.Writer) error {
 			}
 			cache[f[1]] = nodes
 		}
-		ts, _, err := timeGo(nodes, sweep(count), reps)
+		ts, cpu, _, err := timeGo(nodes, sweep(count), reps)
 		if err != nil {
 			fmt.Fprintf(w, "error %v\n", err)
 			continue
 		}
-		fmt.Fprintln(w, formatTimes(ts))
+		fmt.Fprintln(w, formatTimes(ts), "cpu", formatTimes(cpu))
 	}
 	return sc.Err()
 }
@@ -403,19 +407,42 @@ func (p *peer) line(format string, a ...any) (string, error) {
 
 // ask sends one request line and parses the answer as times in seconds.
 func (p *peer) ask(format string, a ...any) ([]float64, error) {
+	ts, _, err := p.askCPU(format, a...)
+	return ts, err
+}
+
+// askCPU is ask for an answer that may carry processor times after the
+// wall times ("W… cpu C…", one of each per solution); cpu is nil if it
+// does not.
+func (p *peer) askCPU(format string, a ...any) (ts, cpu []float64, err error) {
 	line, err := p.line(format, a...)
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
-	var ts []float64
-	for _, f := range strings.Fields(line) {
-		t, err := strconv.ParseFloat(f, 64)
-		if err != nil {
-			return nil, fmt.Errorf("%s: bad answer %q", p.cmd.Path, line)
+	wall, cpus, hasCPU := strings.Cut(line, " cpu ")
+	parse := func(s string) ([]float64, error) {
+		var out []float64
+		for _, f := range strings.Fields(s) {
+			t, err := strconv.ParseFloat(f, 64)
+			if err != nil {
+				return nil, fmt.Errorf("%s: bad answer %q", p.cmd.Path, line)
+			}
+			out = append(out, t)
 		}
-		ts = append(ts, t)
+		return out, nil
 	}
-	return ts, nil
+	if ts, err = parse(wall); err != nil {
+		return nil, nil, err
+	}
+	if hasCPU {
+		if cpu, err = parse(cpus); err != nil {
+			return nil, nil, err
+		}
+		if len(cpu) != len(ts) {
+			return nil, nil, fmt.Errorf("%s: %d wall and %d processor times in %q", p.cmd.Path, len(ts), len(cpu), line)
+		}
+	}
+	return ts, cpu, nil
 }
 
 func (p *peer) close() error {
@@ -556,6 +583,12 @@ func bench(o options, w io.Writer) error {
 	for k := range pgT {
 		pgT[k] = make([]stat, len(panels))
 	}
+	// Processor times per solution, the medians of each round.
+	goC, npC := make([]stat, len(panels)), make([]stat, len(panels))
+	pgC := make([][]stat, len(o.goPeers))
+	for k := range pgC {
+		pgC[k] = make([]stat, len(panels))
+	}
 	ratio := make([]stat, len(panels))
 	bestKernel := 0.0 // kernel evaluations per second
 	bestLU := map[string]float64{}
@@ -565,11 +598,11 @@ func bench(o options, w io.Writer) error {
 	for r := range o.rounds {
 		fmt.Fprintf(os.Stderr, " %d", r+1)
 		for i, n := range panels {
-			_, ph, err := timeGo(nodes[i], alphas, o.reps)
+			_, _, ph, err := timeGo(nodes[i], alphas, o.reps)
 			if err != nil {
 				return err
 			}
-			ts, err := own.ask("time %s %d %d", paths[i], o.reps, o.angles)
+			ts, tc, err := own.askCPU("time %s %d %d", paths[i], o.reps, o.angles)
 			if err != nil {
 				return err
 			}
@@ -583,7 +616,7 @@ func bench(o options, w io.Writer) error {
 			for _, p := range ph {
 				bestKernel = max(bestKernel, float64(n)*float64(n)/p[0])
 			}
-			tp, err := py.ask("time %s %d %d", paths[i], o.reps, o.angles)
+			tp, cp, err := py.askCPU("time %s %d %d", paths[i], o.reps, o.angles)
 			if err != nil {
 				return err
 			}
@@ -592,13 +625,16 @@ func bench(o options, w io.Writer) error {
 			goT[i] = append(goT[i], g)
 			npT[i] = append(npT[i], p)
 			ratio[i] = append(ratio[i], p/g)
+			goC[i] = append(goC[i], median(tc))
+			npC[i] = append(npC[i], median(cp)) // NaN if the peer gave none
 			for k, pg := range pgs {
-				tg, err := pg.ask("time %s %d %d", paths[i], o.reps, o.angles)
+				tg, cg, err := pg.askCPU("time %s %d %d", paths[i], o.reps, o.angles)
 				if err != nil {
 					return err
 				}
 				time.Sleep(o.settle)
 				pgT[k][i] = append(pgT[k][i], median(tg))
+				pgC[k][i] = append(pgC[k][i], median(cg))
 			}
 		}
 		// The LU rate, measured between the rounds.
@@ -690,6 +726,34 @@ func bench(o options, w io.Writer) error {
 		fmt.Fprintln(w, "\ndgetrf ms: OpenBLAS dgetrf alone on a random matrix of the system's order, the")
 		fmt.Fprintln(w, "best of 1 and 2 threads over the run: what the library's factorisation takes at")
 		fmt.Fprintln(w, "that size, against the ⅔N³ at the large-matrix rate that the limit counts.")
+	}
+	fmt.Fprintln(w, "\nProcessor time per solution, ms: user and system, all threads of the process, the")
+	fmt.Fprintln(w, "medians of each round (the numpy peer's includes the time its BLAS threads spin")
+	fmt.Fprintln(w, "waiting for work). Under a load from other jobs, wall times and the ratios of")
+	fmt.Fprintln(w, "wall times say little; these change less. Ratios: the other program's over Go's,")
+	fmt.Fprintln(w, "round by round.")
+	fmt.Fprintln(w)
+	head = "| panels | Go cpu ms | numpy cpu ms | numpy/Go cpu |"
+	rule = "| ---: | ---: | ---: | ---: |"
+	for _, g := range o.goPeers {
+		head += fmt.Sprintf(" %s cpu ms | %s/Go cpu | %s/Go wall |", g.name, g.name, g.name)
+		rule += " ---: | ---: | ---: |"
+	}
+	fmt.Fprintln(w, head)
+	fmt.Fprintln(w, rule)
+	over := func(a, b stat) stat {
+		out := make(stat, len(a))
+		for r := range a {
+			out[r] = a[r] / b[r]
+		}
+		return out
+	}
+	for i, n := range panels {
+		fmt.Fprintf(w, "| %d | %v | %v | %v |", n, ms(goC[i]), ms(npC[i]), over(npC[i], goC[i]))
+		for k := range pgs {
+			fmt.Fprintf(w, " %v | %v | %v |", ms(pgC[k][i]), over(pgC[k][i], goC[i]), over(pgT[k][i], goT[i]))
+		}
+		fmt.Fprintln(w)
 	}
 	fmt.Fprintf(w, "\nGo phases, ms (as the solver times them): build the matrix | factor and estimate the condition | solve for %d angles\n\n", o.angles)
 	fmt.Fprintln(w, "| panels | build | factor | solve |")

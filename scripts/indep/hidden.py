@@ -67,6 +67,36 @@ EXTRA25 for seed k mod its length):
               commas, semicolons or tabs with decimal commas, blanks, a
               header naming the columns (some with units), CRLF line ends
 
+Run by name only, or together as --class new26 (class k of EXTRA26 for
+seed k mod its length):
+
+    slice     a section cut from a triangle mesh (a 3D scan's or a CAD
+              export's): the mesh's vertices along the outline at a chordal
+              tolerance of 0.005-0.05 mm (a CAD export: dense at the nose and
+              edge, sparse on the flat parts; some cap the edge length 2-6 %
+              c) or at a near-even edge of 0.1-1 mm (a scan's mesh), noise on
+              the vertices, flat facets between them; the
+              slice gives every vertex and one crossing of each facet's
+              diagonal, each point written twice in half the cases (the
+              shared ends of the slice's segments), in x, y, z on a plane
+              tilted 1-5 deg to the span
+    turned    the section chord-vertical (twist near +90 or -90 deg) or
+              upside down (near 180 deg), mirrored in half the cases
+    machine   a CMM's machine frame: x ~ 1500 mm, y ~ -800 mm, z ~ 300 mm
+              (x, y, z, the plane square to z within 0.3 deg), chord
+              15-150 mm, the numbers quantised to 0.01 mm or 1 um steps and
+              written with no trailing zeros
+    gap       a fixture clamp hid 10-25 % of the chord of one surface
+              somewhere between 25 % and 75 % chord
+    repass    the part measured twice, re-clamped between: the second pass
+              (at its own spacing) moved 0.02-0.1 mm in any direction from
+              the first, the file the two passes one after the other (each
+              starting anywhere; shuffled as the plain case says); the truth
+              is the midway placement
+    shape26   shapes beyond "thick"/"thin"/"camber": t/c 3-5 %, t/c 25-35 %
+              with the plain case's trailing edge, or aft-loaded camber
+              (NACA 4-digit, 3-6 % camber at 70-80 % chord)
+
 Sources: the shapes' equations are named in naca.py and shapes.py; the
 hazards' magnitudes are common practice (a CMM ball of 1-6 mm diameter,
 fixtures beside the part, scanner bias at grazing incidence), not from a
@@ -83,7 +113,8 @@ CLASSES = ["thick", "thin", "camber", "reflex", "kt", "ball", "graze", "nose", "
 # Classes run by name only: "all" keeps taking CLASSES by seed, so that its
 # cases stay the files they were.
 EXTRA25 = ["strokes", "shadow", "table", "scale", "columns"]
-EXTRA = ["ballr"] + EXTRA25
+EXTRA26 = ["slice", "turned", "machine", "gap", "repass", "shape26"]
+EXTRA = ["ballr"] + EXTRA25 + EXTRA26
 
 
 def pick(seed, name):
@@ -92,6 +123,8 @@ def pick(seed, name):
         return CLASSES[seed % len(CLASSES)]
     if name == "new25":
         return EXTRA25[seed % len(EXTRA25)]
+    if name == "new26":
+        return EXTRA26[seed % len(EXTRA26)]
     if name not in CLASSES + EXTRA:
         raise ValueError("unknown class %r (have %s)" % (name, ", ".join(CLASSES + EXTRA)))
     return name
@@ -138,6 +171,24 @@ class Hazard:
             t = r.uniform(0.08, 0.18)
             sec = naca.five_digit_reflex(int(r.integers(1, 5)), int(r.integers(2, 6)), t, sspec["closed_thickness"])
             sspec.update(section=sec.name, family="five", t=float(t))
+        elif n == "shape26":
+            u = r.random()
+            if u < 1 / 3:
+                t = r.uniform(0.03, 0.05)
+                m = 0.0 if r.random() < 0.3 else r.uniform(0.005, 0.03)
+                p = int(r.integers(2, 7)) / 10
+                self.spec["kind"] = "very thin"
+            elif u < 2 / 3:
+                t = r.uniform(0.25, 0.35)
+                m = 0.0 if r.random() < 0.4 else r.uniform(0.01, 0.04)
+                p = int(r.integers(3, 5)) / 10
+                self.spec["kind"] = "very thick"
+            else:
+                t = r.uniform(0.08, 0.16)
+                m, p = r.uniform(0.03, 0.06), r.uniform(0.7, 0.8)
+                self.spec["kind"] = "aft-loaded"
+            sec = naca.four_digit(m, p, t, sspec["closed_thickness"])
+            sspec.update(section=sec.name, family="sym" if m == 0 else "four", t=float(t))
         elif n == "kt":
             tau = 0.0 if r.random() < 0.6 else r.uniform(2, 10)
             sec = shapes.KarmanTrefftz(r.uniform(0.04, 0.14), r.uniform(0.0, 0.10), tau)
@@ -170,6 +221,13 @@ class Hazard:
             self.keep_start = True
         elif n == "shadow":
             sm["n"] = int(np.round(np.exp(r.uniform(np.log(1000), np.log(4000)))))
+        elif n == "repass":
+            self.keep_start = True
+        elif n == "slice":
+            sm["outliers"] = 0.0  # a mesh has no slipped probe hits
+            sm["duplicates"] = 1.0 if r.random() < 0.5 else 0.0
+            sm["noise"] = float(np.exp(r.uniform(np.log(2e-6), np.log(1e-4))))
+            self.spec.update(doubled=sm["duplicates"] > 0)
         elif n == "scale":
             self.chord = float(np.exp(r.uniform(np.log(5), np.log(5000))))
             if r.random() < 0.5:
@@ -192,6 +250,34 @@ class Hazard:
             pl["offset_mm"] = [v / f for v in pl["offset_mm"]]
             pl["units"] = units
             self.spec.update(chord_mm=ch, units=units)
+        elif n == "slice":
+            pl["chord_mm"] = float(np.exp(r.uniform(np.log(40), np.log(600))))
+            pl["decimals"] = 4
+            self.plane = {"tilt_deg": float(r.uniform(1, 5)), "z": float(r.uniform(-200, 800)), "scatter_mm": 0.0}
+            if r.random() < 0.5:  # a scan's mesh: edges of a near-even length
+                edge = float(np.exp(r.uniform(np.log(0.1), np.log(1.0))))
+                self.spec.update(mesh="scan", edge_mm=edge, tol_c=1.0, max_edge_c=edge / pl["chord_mm"])
+            else:  # a CAD export: the chordal tolerance, the edge capped or not
+                tol = float(np.exp(r.uniform(np.log(0.005), np.log(0.05))))
+                self.spec.update(mesh="cad", tol_mm=tol, tol_c=tol / pl["chord_mm"],
+                                 max_edge_c=float(r.uniform(0.02, 0.06)) if r.random() < 0.5 else 0.0)
+            self.spec["plane"] = self.plane
+        elif n == "turned":
+            pl["twist_deg"] = float([90.0, -90.0, 180.0][int(r.integers(0, 3))] + r.uniform(-8, 8))
+            pl["flip"] = ["none", "x", "y"][int(r.choice(3, p=[0.5, 0.25, 0.25]))]
+            self.spec.update(twist_deg=pl["twist_deg"], flip=pl["flip"])
+        elif n == "machine":
+            pl["offset_mm"] = [float(r.uniform(1400, 1600)), float(r.uniform(-900, -700))]
+            pl["chord_mm"] = float(np.exp(r.uniform(np.log(15), np.log(150))))
+            pl["decimals"] = 2 if r.random() < 0.5 else 3
+            pl["strip"] = True
+            self.plane = {"tilt_deg": float(r.uniform(0, 0.3)), "z": float(r.uniform(250, 350)), "scatter_mm": 0.0}
+            self.spec.update(plane=self.plane, step_mm=10.0 ** -pl["decimals"])
+        elif n == "repass":
+            pl["chord_mm"] = float(np.exp(r.uniform(np.log(40), np.log(300))))
+            d = r.uniform(0.02, 0.1)
+            a = r.uniform(0, 2 * np.pi)
+            self.spec.update(shift_mm=float(d), shift_dir_deg=float(np.degrees(a)))
         elif n == "columns" and r.random() < 0.5:
             self.plane = {"tilt_deg": 0.0, "z": float(np.round(r.uniform(-500, 2000), 1)), "scatter_mm": 0.0}
             self.spec["plane"] = self.plane
@@ -331,6 +417,38 @@ class Hazard:
             kinds = [k for k, on in zip(kinds, keep) if on]
             self.spec.update(sparse="upper" if sparse_side == ol.PIECE_UPPER else "lower", ratio=float(ratio),
                              shadowed="upper" if shadowed == ol.PIECE_UPPER else "lower", short_c=float(short))
+        elif n == "slice":
+            p, nrm, s, piece, kinds, okey = self._slice(ctx)
+        elif n == "gap":
+            side = ol.PIECE_UPPER if r.random() < 0.5 else ol.PIECE_LOWER
+            w = r.uniform(0.10, 0.25)
+            x0 = r.uniform(0.25, 0.75 - w)
+            keep = ~((piece == side) & (p[:, 0] > x0) & (p[:, 0] < x0 + w))
+            p, nrm, s, piece, okey = p[keep], nrm[keep], s[keep], piece[keep], okey[keep]
+            kinds = [k for k, on in zip(kinds, keep) if on]
+            self.spec.update(side="upper" if side == ol.PIECE_UPPER else "lower", gap_from=float(x0), gap_c=float(w))
+        elif n == "repass":
+            # The second pass at its own spacing: the first pass's arc
+            # positions moved by up to half a step each, then both passes
+            # moved half the shift either way (chord units of the placement).
+            per = ctx["perimeter"]
+            srt = np.sort(s)
+            h = float(np.median(np.diff(srt))) if len(s) > 2 else 0.01 * per
+            s2 = np.sort((s[np.array([k == "good" for k in kinds])] + r.uniform(-0.5, 0.5, int(sum(k == "good" for k in kinds))) * h) % per)
+            p2, n2, seg = ctx["at"](s2)
+            p2 = p2 + n2 * (ctx["sm"]["noise"] * r.standard_normal(len(s2)))[:, None]
+            ch = ctx["chord_mm"]
+            a = np.radians(self.spec["shift_dir_deg"])
+            half = 0.5 * self.spec["shift_mm"] / ch * np.array([np.cos(a), np.sin(a)])
+            p = np.vstack([p - half, p2 + half])
+            nrm = np.vstack([nrm, n2])
+            s = np.concatenate([s, s2])
+            piece = np.concatenate([piece, ctx["piece"][seg]])
+            # a file of the two passes one after the other, each starting
+            # where its operator began
+            okey = np.concatenate([(okey - r.uniform(0, per)) % per, 2 * per + (s2 - r.uniform(0, per)) % per])
+            kinds = kinds + ["good"] * len(s2)
+            self.spec.update(second_pass=len(s2))
         elif n == "table":
             q = ctx["q"]
             off = r.uniform(0.02, 0.2)
@@ -350,6 +468,70 @@ class Hazard:
             kinds = kinds + ["outlier"] * k
             self.spec.update(table_points=k, table_off_c=float(off), table_from=float(x0), table_to=float(x1))
         return p, nrm, s, piece, kinds, okey
+
+    def _slice(self, ctx):
+        """The slice of a triangle mesh: vertices along the outline at the
+        chordal tolerance (each facet's chord within tol of the curve,
+        no longer than max_edge), noise on the vertices, every vertex and
+        one point on each facet (where the slicing plane crosses the facet's
+        diagonal: a random fraction of the way along it)."""
+        r = self.rng
+        q, per = ctx["q"], ctx["perimeter"]
+        if self.spec["mesh"] == "scan":
+            ctx["sm"]["noise"] = max(ctx["sm"]["noise"], 0.01 / ctx["chord_mm"])
+        tol, cap = self.spec["tol_c"], self.spec["max_edge_c"] or np.inf
+        closed = np.vstack([q, q[:1]])
+        arc = np.concatenate([[0], np.cumsum(np.hypot(*np.diff(closed, axis=0).T))])
+        n = len(q)
+        verts = [0]
+        i = 0
+        while True:
+            # the farthest vertex j whose chord from i stays within tol
+            lo, hi = i + 1, min(i + 1, n)
+            step = 1
+            while hi < n and self._chord_ok(closed, i, hi, tol) and arc[hi] - arc[i] <= cap:
+                lo = hi
+                step *= 2
+                hi = min(i + step, n)
+            if hi >= n and self._chord_ok(closed, i, n, tol) and arc[n] - arc[i] <= cap:
+                break
+            while hi - lo > 1:
+                mid = (lo + hi) // 2
+                if self._chord_ok(closed, i, mid, tol) and arc[mid] - arc[i] <= cap:
+                    lo = mid
+                else:
+                    hi = mid
+            i = lo
+            verts.append(i)
+        sv = arc[np.array(verts)]
+        pv, nv, segv = ctx["at"](sv)
+        pv = pv + nv * (ctx["sm"]["noise"] * r.standard_normal(len(sv)))[:, None]
+        nxt = np.roll(np.arange(len(sv)), -1)
+        f = r.uniform(0.05, 0.95, len(sv))
+        pf = pv * (1 - f)[:, None] + pv[nxt] * f[:, None]
+        s_next = np.where(nxt == 0, per, sv[nxt])
+        sf = sv * (1 - f) + s_next * f
+        _, nf, segf = ctx["at"](sf % per)
+        p = np.vstack([pv, pf])
+        nrm = np.vstack([nv, nf])
+        s = np.concatenate([sv, sf % per])
+        piece = np.concatenate([ctx["piece"][segv], ctx["piece"][segf]])
+        okey = np.concatenate([sv, sf])
+        self.spec.update(vertices=len(sv))
+        return p, nrm, s, piece, ["good"] * len(s), okey
+
+    @staticmethod
+    def _chord_ok(closed, i, j, tol):
+        a, b = closed[i], closed[j]
+        mid = closed[i + 1 : j]
+        if len(mid) == 0:
+            return True
+        ab = b - a
+        L = np.hypot(*ab)
+        if L == 0:
+            return False
+        d = np.abs((mid[:, 0] - a[0]) * ab[1] - (mid[:, 1] - a[1]) * ab[0]) / L
+        return bool(d.max() <= tol)
 
     def _strokes(self, p, nrm, s, piece, kinds, ctx):
         """The loop cut into strokes that overlap, each run either way, the

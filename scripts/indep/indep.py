@@ -33,6 +33,7 @@ import outline as ol  # noqa: E402
 import scan  # noqa: E402
 import score  # noqa: E402
 import shapes  # noqa: E402
+import tejudge  # noqa: E402
 
 HERE = os.path.relpath(os.path.abspath(__file__))
 
@@ -174,6 +175,9 @@ def table(args, recs, specs, prep):
     ct = ", ".join("%s %d" % kv for kv in sorted(conf.items(), key=lambda kv: -kv[1]))
     print("| TE kind right where decidable | %s%s; %d undecidable |" % (
         pct(len(right), len(dec)), " (" + ct + ")" if ct else "", len(ok) - len(dec)))
+    dec26 = [r for r in ok if r.get("te_decidable26", r["te_decidable"])]
+    print("| TE kind right where decidable, stop 26 judgement (tejudge.py; the row above is stop 23's) | %s; %d undecidable |" % (
+        pct(sum(r["te_right"] for r in dec26), len(dec26)), len(ok) - len(dec26)))
     stated = [r for r in ok if r["stated"] is not None]
     cov = [pct(sum(r["covered"][i] for r in stated), len(stated)) for i in range(4)]
     print("| uncertainty covers chord / twist / LE / surface | %s |" % " / ".join(cov))
@@ -285,7 +289,7 @@ def main():
     ap.add_argument("--prep-args", default="", help="more arguments for every prep run, e.g. \"--noise 0\" (split on blanks)")
     ap.add_argument("--planes", type=float, default=0.0, help="share of cases written in 3D, in a tilted plane (0 to 1; default 0)")
     ap.add_argument("--mode", default="normal", choices=["normal", "sparse"])
-    ap.add_argument("--class", dest="cls", default="", help="a practitioner's class layered on each case (hidden.py: %s), or all (class seed mod %d; by name only: %s; new25: class seed mod %d of %s)" % (", ".join(hidden.CLASSES), len(hidden.CLASSES), ", ".join(hidden.EXTRA), len(hidden.EXTRA25), ", ".join(hidden.EXTRA25)))
+    ap.add_argument("--class", dest="cls", default="", help="a practitioner's class layered on each case (hidden.py: %s), or all (class seed mod %d; by name only: %s; new25: class seed mod %d of %s; new26: class seed mod %d of %s)" % (", ".join(hidden.CLASSES), len(hidden.CLASSES), ", ".join(hidden.EXTRA), len(hidden.EXTRA25), ", ".join(hidden.EXTRA25), len(hidden.EXTRA26), ", ".join(hidden.EXTRA26)))
     ap.add_argument("--seeds", default="1-300", help="seeds, e.g. 1-300 or 3,7,9")
     ap.add_argument("--case", type=int, help="run one seed and print everything about it")
     ap.add_argument("--keep", help="keep the point files and section documents in this folder")
@@ -310,7 +314,7 @@ def main():
         table(args, recs, specs, recs[0]["prep"] if recs else "")
         return
     if args.selftest:
-        bad = naca.selftest() + shapes.selftest() + hidden.selftest() + conventions_selftest()
+        bad = naca.selftest() + shapes.selftest() + hidden.selftest() + conventions_selftest() + tejudge.selftest()
         for b in bad:
             print("selftest: " + b)
         print("selftest: %s" % ("FAIL" if bad else "ok"))

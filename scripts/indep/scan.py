@@ -150,6 +150,13 @@ def _at(poly, arc, s):
     return p, nrm, seg
 
 
+def _strip(t):
+    """A number's text without trailing zeros ("1502.100" -> "1502.1")."""
+    if "." in t:
+        t = t.rstrip("0").rstrip(".")
+    return "0" if t in ("-0", "") else t
+
+
 def draw(seed, mode, planes=0.0, cls=None):
     """Draws case seed of mode; returns (spec, truth, lines) where lines are
     the point file's lines after its header and truth holds the frame and
@@ -218,7 +225,7 @@ def draw(seed, mode, planes=0.0, cls=None):
             kinds[i] = "outlier"
     okey = s
     if hz is not None:
-        ctx = {"sm": sm, "perimeter": perim, "s_le": s_le, "q": q, "piece": o.piece,
+        ctx = {"sm": sm, "perimeter": perim, "s_le": s_le, "q": q, "piece": o.piece, "chord_mm": pl["chord_mm"],
                "at": lambda ss: _at(q, arc, ss)}
         p, nrm, s, piece, kinds, okey = hz.points(p, nrm, s, piece, kinds, okey, ctx)
         n = len(p)
@@ -271,6 +278,8 @@ def draw(seed, mode, planes=0.0, cls=None):
         rows = [(fmt % x) + sep + (fmt % y) for x, y in part]
     else:
         rows = [(fmt % x) + sep + (fmt % y) + sep + (fmt % z) for x, y, z in part3]
+    if pl.get("strip"):  # a machine's export: no trailing zeros
+        rows = [sep.join(_strip(v) for v in row.split(sep)) for row in rows]
     order = np.argsort(okey, kind="stable")
     if sm["reverse"]:
         order = order[::-1]

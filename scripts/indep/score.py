@@ -25,6 +25,7 @@ import time
 import numpy as np
 
 import outline as ol
+import tejudge
 
 WRONG_CHORD, WRONG_TWIST, WRONG_NODE = 0.005, 0.2, 0.005
 
@@ -136,6 +137,9 @@ def evaluate(spec, truth, doc):
     rec["te_got"] = doc.get("trailing_edge", {}).get("kind", "")
     truth["end_spacing"] = end_spacing(truth)
     rec["te_decidable"], rec["te_right"] = te_verdict(truth, rec["te_got"])
+    # The stop 26 judgement (tejudge.py) beside the stop 23 one above.
+    j = tejudge.judge(truth)
+    rec["te_decidable26"] = rec["te_decidable"] if j is None else j[0]
     u = doc.get("uncertainty") or {}
     uc, ut, ul, us = (float(u.get(k, 0.0)) for k in ("chord", "twist_deg", "le", "surface"))
     rec["stated"] = {"chord": uc, "twist_deg": ut, "le": ul, "surface": us} if u else None

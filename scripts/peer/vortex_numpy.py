@@ -19,7 +19,8 @@ geometry). Commands:
       reads "time NODES REPS ANGLES" lines from stdin and answers with the
       wall times in seconds of REPS full solutions (build, solve, results for
       ANGLES angles evenly spaced in [-10°, 10°]) after a warm-up of at least
-      three solutions and 30 ms;
+      three solutions and 30 ms, then "cpu" and the processor time of each
+      (time.process_time: user and system, all threads of the process);
       reads "lu N REPS" and answers the times of np.linalg.solve on a random
       N×N system with one right-hand side; "info" answers the numpy version
       and the BLAS library the process loaded.
@@ -233,11 +234,14 @@ def serve():
             while k < 3 or time.perf_counter() - t0 < WARMUP:
                 solve(nodes, alphas)
                 k += 1
-            ts = []
+            ts, cpu = [], []
             for _ in range(reps):
-                t = time.perf_counter()
+                c, t = time.process_time(), time.perf_counter()
                 solve(nodes, alphas)
                 ts.append(time.perf_counter() - t)
+                cpu.append(time.process_time() - c)
+            print(" ".join("%.9g" % t for t in ts) + " cpu " + " ".join("%.9g" % c for c in cpu), flush=True)
+            continue
         elif f[0] == "info":
             print("numpy %s, %s" % (np.__version__, blas_library()), flush=True)
             continue

@@ -40,14 +40,14 @@ func BenchmarkBuild(b *testing.B) {
 // parallel build pays, with the assembly rows (where the CPU has them) and
 // with the Go formulas.
 func BenchmarkBuildSerial(b *testing.B) {
-	for _, asm := range []bool{true, false} {
-		if asm && !haveAVX2 {
+	for _, asm := range []string{"avx512", "avx2", "go"} {
+		if asm == "avx512" && !haveAVX512 || asm == "avx2" && !haveAVX2 {
 			continue
 		}
 		for _, n := range benchPanels {
 			b.Run(fmt.Sprintf("asm=%v/n=%d", asm, n), func(b *testing.B) {
-				defer func(a bool) { useAsm = a }(useAsm)
-				useAsm = asm
+				defer func(a, a512 bool) { useAsm, use512 = a, a512 }(useAsm, use512)
+				useAsm, use512 = asm != "go", asm == "avx512"
 				sv := benchSolver(b, n)
 				for b.Loop() {
 					sv.build(1)

@@ -73,10 +73,13 @@
 // # Speed
 //
 // On amd64 with AVX2 and FMA the influence rows are built four panels at a
-// time in assembly (influence_amd64.s), with the operations of the Go
-// formulas in their order and the algorithms of the math package's atan2
-// and log, so that the matrix is the same bit for bit; elsewhere, and with
-// the purego build tag, the Go formulas run. From 100 panels the rows are
+// time in assembly (influence_amd64.s), eight at a time where the CPU has
+// AVX-512F, with the operations of the Go formulas in their order, so that
+// the matrix is the same bit for bit: the logarithm is the math package's
+// algorithm, the angle its atan2's polynomial with the argument reduced in
+// one division (angle, within a unit in the last place of math.Atan2), and
+// the panel length's divisions are multiplications by its reciprocal;
+// elsewhere, and with the purego build tag, the Go formulas run. From 100 panels the rows are
 // shared between goroutines. The matrix is factored by package
 // internal/dense (blocked LU with partial pivoting on both cores, or
 // OpenBLAS with the openblas build tag), whose condition estimate is the

@@ -3,11 +3,13 @@
 #include "textflag.h"
 
 // The influence row of the vortex-panel build, four panels at a time with
-// AVX2 and FMA (see influence_amd64.go and fillRow for the formulas). The
-// logarithm and the angle follow the algorithms and coefficients of Go's
-// math.Log (FreeBSD's e_log.c) and math.Atan (Cephes), with the quadrants
-// of atan2 resolved by masks instead of branches; logAVX2 and atan2AVX2
-// run the same code over slices for the tests against the math package.
+// AVX2 and FMA, or eight with AVX-512 (see influence_amd64.go and fillRow
+// for the formulas). The logarithm and the angle follow the algorithms and
+// coefficients of Go's math.Log (FreeBSD's e_log.c) and math.Atan
+// (Cephes), with the quadrants of atan2 resolved by masks instead of
+// branches; logAVX2 and atan2AVX2 run the same code over slices for the
+// tests against the math package. Both widths expand from one text: the
+// macros after the constants take the registers as parameters.
 
 #define absmask kc<>+0(SB)
 #define signmask kc<>+32(SB)
@@ -207,111 +209,181 @@ DATA kc<>+1232(SB)/8, $0x4003504F333F9DE6
 DATA kc<>+1240(SB)/8, $0x4003504F333F9DE6
 GLOBL kc<>(SB), RODATA|NOPTR, $1248
 
+// The two row kernels, four lanes with AVX2 and eight with AVX-512, do the
+// same operations in the same order, and so do their logarithms and angles.
+// The macros below hold the text they share once, with the registers as
+// parameters and, where the two write an operation differently, the
+// instruction: mulc, addc, subc and andc multiply, add, subtract or and a
+// constant from kc, their first operand (VMULPD, VADDPD, VSUBPD and VANDPD
+// on the whole vector; VMULPD.BCST, VADDPD.BCST, VSUBPD.BCST and
+// VPANDQ.BCST on its first lane broadcast), and loadc loads one into a
+// register (VMOVUPD, VBROADCASTSD). lg is log₂ of the lanes: 2 or 3.
+
+// LOGCORE sets lnx = ln(m·2^k) for m in [√½, √2) and k an integer held as
+// a float64; m becomes f = m − 1, and s, s2, s4, r, r2, h, t and u are
+// scratch. The steps of
+// math.Log after its reduction, unfused: s = f/(2 + f); R = s²(L1 +
+// s⁴(L3 + s⁴(L5 + s⁴L7))) + s⁴(L2 + s⁴(L4 + s⁴L6)), hfsq = f²/2; ln x =
+// k·Ln2Hi − ((hfsq − (s(hfsq + R) + k·Ln2Lo)) − f).
+#define LOGCORE(k, m, s, s2, s4, r, r2, h, t, u, lnx, mulc, addc, subc) \
+	subc   one, m, m \
+	addc   two, m, s \
+	VDIVPD s, m, s \
+	VMULPD s, s, s2 \
+	VMULPD s2, s2, s4 \
+	mulc   L7, s4, r \
+	addc   L5, r, r \
+	VMULPD s4, r, r \
+	addc   L3, r, r \
+	VMULPD s4, r, r \
+	addc   L1, r, r \
+	VMULPD r, s2, r \
+	mulc   L6, s4, r2 \
+	addc   L4, r2, r2 \
+	VMULPD s4, r2, r2 \
+	addc   L2, r2, r2 \
+	VMULPD r2, s4, r2 \
+	VADDPD r2, r, r \
+	mulc   half, m, h \
+	VMULPD m, h, h \
+	VADDPD h, r, t \
+	VMULPD t, s, t \
+	mulc   ln2lo, k, u \
+	VADDPD u, t, t \
+	VSUBPD t, h, u \
+	VSUBPD m, u, u \
+	mulc   ln2hi, k, lnx \
+	VSUBPD u, lnx, lnx
+
+// BLENDV and BLENDK set d = a in the lanes of the mask m and b in the
+// others: m a vector whose lanes' sign bits mark them (VBLENDVPD), or a
+// mask register (VBLENDMPD).
+#define BLENDV(m, a, b, d) VBLENDVPD m, a, b, d
+#define BLENDK(m, a, b, d) VBLENDMPD a, b, m, d
+
+// ATANREDUCE sets a = |y|, b = |x|, the masks hi of a > b·tan 3π/8 and lo
+// of a ≤ 0.66·b (see ATAN24), and the numerator and denominator of the
+// reduced argument: a and b where lo, b and a where hi, a − b and a + b
+// between; w is scratch. BLEND is BLENDV or BLENDK.
+#define ATANREDUCE(y, x, a, b, w, hi, lo, num, den, andc, mulc, BLEND) \
+	andc   absmask, y, a \
+	andc   absmask, x, b \
+	mulc   tan3pio8, b, w \
+	VCMPPD $0x1E, w, a, hi \
+	mulc   c066, b, w \
+	VCMPPD $0x12, w, a, lo \
+	VSUBPD b, a, num \
+	VADDPD b, a, den \
+	BLEND(lo, a, num, num) \
+	BLEND(lo, b, den, den) \
+	BLEND(hi, b, num, num) \
+	BLEND(hi, a, den, den)
+
+// ATANCORE sets t to the reduced argument t/d, p = xatan(t) = t + t·(z·P(z)/
+// Q(z)), z = t² (Go's math.Atan: Cephes), and the angle of the other two
+// ranges: mid = π/4 + p + Morebits/2, far = π/2 − p + Morebits; z and q are
+// scratch.
+#define ATANCORE(t, d, z, p, q, mid, far, mulc, addc, loadc) \
+	VDIVPD d, t, t \
+	VMULPD t, t, z \
+	mulc   P0, z, p \
+	addc   P1, p, p \
+	VMULPD z, p, p \
+	addc   P2, p, p \
+	VMULPD z, p, p \
+	addc   P3, p, p \
+	VMULPD z, p, p \
+	addc   P4, p, p \
+	addc   Q0, z, q \
+	VMULPD z, q, q \
+	addc   Q1, q, q \
+	VMULPD z, q, q \
+	addc   Q2, q, q \
+	VMULPD z, q, q \
+	addc   Q3, q, q \
+	VMULPD z, q, q \
+	addc   Q4, q, q \
+	VMULPD p, z, p \
+	VDIVPD q, p, p \
+	VMULPD p, t, p \
+	VADDPD t, p, p \
+	addc   pio4, p, mid \
+	addc   halfmb, mid, mid \
+	loadc  pio2, far \
+	VSUBPD p, far, far \
+	addc   morebits, far, far
 
 // LOG4 sets Y12 = ln Y0 for Y0 in [minnorm, maxf], and Y1 to the mask of
 // those lanes; it uses Y0–Y12. The steps and their order are those of Go's
 // math.Log on amd64 (log_amd64.s), unfused, so the results are the same:
-// x = m·2^e with m in [√½, √2) and k = e; f = m − 1, s = f/(2 + f);
-// R = s²(L1 + s⁴(L3 + s⁴(L5 + s⁴L7))) + s⁴(L2 + s⁴(L4 + s⁴L6)), hfsq = f²/2;
-// ln x = k·Ln2Hi − ((hfsq − (s(hfsq + R) + k·Ln2Lo)) − f).
+// x = m·2^e with m in [√½, √2) and k = e, then LOGCORE.
 #define LOG4 \
-	VCMPPD    $0x1D, minnorm, Y0, Y1; \
-	VCMPPD    $0x12, maxf, Y0, Y2; \
-	VANDPD    Y2, Y1, Y1; \
-	VPSRLQ    $52, Y0, Y2; \
-	VPOR      two52, Y2, Y2; \
-	VSUBPD    bias, Y2, Y2; \
-	VANDPD    mantmask, Y0, Y3; \
-	VORPD     one, Y3, Y3; \
-	VCMPPD    $0x1D, sqrt2, Y3, Y4; \
-	VMULPD    half, Y3, Y5; \
-	VBLENDVPD Y4, Y5, Y3, Y3; \
-	VANDPD    one, Y4, Y4; \
-	VADDPD    Y4, Y2, Y2; \
-	VSUBPD    one, Y3, Y3; \
-	VADDPD    two, Y3, Y4; \
-	VDIVPD    Y4, Y3, Y4; \
-	VMULPD    Y4, Y4, Y5; \
-	VMULPD    Y5, Y5, Y6; \
-	VMULPD    L7, Y6, Y7; \
-	VADDPD    L5, Y7, Y7; \
-	VMULPD    Y6, Y7, Y7; \
-	VADDPD    L3, Y7, Y7; \
-	VMULPD    Y6, Y7, Y7; \
-	VADDPD    L1, Y7, Y7; \
-	VMULPD    Y7, Y5, Y7; \
-	VMULPD    L6, Y6, Y8; \
-	VADDPD    L4, Y8, Y8; \
-	VMULPD    Y6, Y8, Y8; \
-	VADDPD    L2, Y8, Y8; \
-	VMULPD    Y8, Y6, Y8; \
-	VADDPD    Y8, Y7, Y7; \
-	VMULPD    half, Y3, Y9; \
-	VMULPD    Y3, Y9, Y9; \
-	VADDPD    Y9, Y7, Y10; \
-	VMULPD    Y10, Y4, Y10; \
-	VMULPD    ln2lo, Y2, Y11; \
-	VADDPD    Y11, Y10, Y10; \
-	VSUBPD    Y10, Y9, Y11; \
-	VSUBPD    Y3, Y11, Y11; \
-	VMULPD    ln2hi, Y2, Y12; \
-	VSUBPD    Y11, Y12, Y12
+	VCMPPD    $0x1D, minnorm, Y0, Y1 \
+	VCMPPD    $0x12, maxf, Y0, Y2 \
+	VANDPD    Y2, Y1, Y1 \
+	VPSRLQ    $52, Y0, Y2 \
+	VPOR      two52, Y2, Y2 \
+	VSUBPD    bias, Y2, Y2 \
+	VANDPD    mantmask, Y0, Y3 \
+	VORPD     one, Y3, Y3 \
+	VCMPPD    $0x1D, sqrt2, Y3, Y4 \
+	VMULPD    half, Y3, Y5 \
+	VBLENDVPD Y4, Y5, Y3, Y3 \
+	VANDPD    one, Y4, Y4 \
+	VADDPD    Y4, Y2, Y2 \
+	LOGCORE(Y2, Y3, Y4, Y5, Y6, Y7, Y8, Y9, Y10, Y11, Y12, VMULPD, VADDPD, VSUBPD)
 
-// ATAN24 sets Y10 = atan2(Y0, Y1); it uses Y0–Y14. The steps and their
-// order are those of Go's math.Atan2 (atan2.go, atan.go: Cephes), unfused,
-// with the branches as masks, so the results are the same: q = |y/x|;
-// atan q = xatan(q) for q ≤ 0.66, π/4 + xatan((q − 1)/(q + 1)) + Morebits/2
-// up to tan 3π/8, π/2 − xatan(1/q) + Morebits beyond, where xatan(t) =
-// t + t·(z·P(z)/Q(z)), z = t²; then π − atan q if x is negative, and the
-// sign of y. Both arguments zero, both infinite, or a NaN give NaN.
+// ATAN24 sets Y10 = atan2(Y0, Y1); it uses Y0–Y13. The steps and their
+// order are those of angle (angle.go), unfused, with the branches as masks,
+// so the results are the same: with a = |y|, b = |x|, atan(a/b) =
+// xatan(a/b) for a ≤ 0.66·b, π/4 + xatan((a − b)/(a + b)) + Morebits/2 up
+// to a = b·tan 3π/8, π/2 − xatan(b/a) + Morebits beyond (ATANREDUCE,
+// ATANCORE); then
+// π − atan if x is negative, and the sign of y. One division reduces the
+// argument where math.Atan2 takes two (y/x, then the reduction of the
+// rounded quotient); the results are within a unit in the last place of
+// math.Atan2. Both arguments zero, both infinite, or a NaN give NaN.
 #define ATAN24 \
-	VANDPD    absmask, Y0, Y2; \
-	VANDPD    absmask, Y1, Y3; \
-	VDIVPD    Y3, Y2, Y4; \
-	VCMPPD    $0x1E, tan3pio8, Y4, Y5; \
-	VCMPPD    $0x12, c066, Y4, Y6; \
-	VSUBPD    one, Y4, Y7; \
-	VADDPD    one, Y4, Y8; \
-	VBLENDVPD Y6, Y4, Y7, Y7; \
-	VMOVUPD   one, Y9; \
-	VBLENDVPD Y5, Y9, Y7, Y7; \
-	VBLENDVPD Y6, Y9, Y8, Y8; \
-	VBLENDVPD Y5, Y4, Y8, Y8; \
-	VDIVPD    Y8, Y7, Y7; \
-	VMULPD    Y7, Y7, Y9; \
-	VMULPD    P0, Y9, Y10; \
-	VADDPD    P1, Y10, Y10; \
-	VMULPD    Y9, Y10, Y10; \
-	VADDPD    P2, Y10, Y10; \
-	VMULPD    Y9, Y10, Y10; \
-	VADDPD    P3, Y10, Y10; \
-	VMULPD    Y9, Y10, Y10; \
-	VADDPD    P4, Y10, Y10; \
-	VADDPD    Q0, Y9, Y11; \
-	VMULPD    Y9, Y11, Y11; \
-	VADDPD    Q1, Y11, Y11; \
-	VMULPD    Y9, Y11, Y11; \
-	VADDPD    Q2, Y11, Y11; \
-	VMULPD    Y9, Y11, Y11; \
-	VADDPD    Q3, Y11, Y11; \
-	VMULPD    Y9, Y11, Y11; \
-	VADDPD    Q4, Y11, Y11; \
-	VMULPD    Y10, Y9, Y10; \
-	VDIVPD    Y11, Y10, Y10; \
-	VMULPD    Y10, Y7, Y10; \
-	VADDPD    Y7, Y10, Y10; \
-	VADDPD    pio4, Y10, Y12; \
-	VADDPD    halfmb, Y12, Y12; \
-	VMOVUPD   pio2, Y13; \
-	VSUBPD    Y10, Y13, Y13; \
-	VADDPD    morebits, Y13, Y13; \
-	VBLENDVPD Y5, Y13, Y12, Y12; \
-	VBLENDVPD Y6, Y10, Y12, Y10; \
-	VMOVUPD   pi, Y12; \
-	VSUBPD    Y10, Y12, Y12; \
-	VBLENDVPD Y1, Y12, Y10, Y10; \
-	VANDPD    signmask, Y0, Y12; \
-	VORPD     Y12, Y10, Y10
+	ATANREDUCE(Y0, Y1, Y2, Y3, Y4, Y5, Y6, Y7, Y8, VANDPD, VMULPD, BLENDV) \
+	ATANCORE(Y7, Y8, Y9, Y10, Y11, Y12, Y13, VMULPD, VADDPD, VMOVUPD) \
+	BLENDV(Y5, Y13, Y12, Y12) \
+	BLENDV(Y6, Y10, Y12, Y10) \
+	VMOVUPD pi, Y12 \
+	VSUBPD  Y10, Y12, Y12 \
+	BLENDV(Y1, Y12, Y10, Y10) \
+	VANDPD  signmask, Y0, Y12 \
+	VORPD   Y12, Y10, Y10
+
+// LOG8 sets Z12 = ln Z0 for Z0 in [minnorm, maxf] (other lanes are not
+// marked: the row's ratios are in the domain); it uses Z0–Z12 and K3. The
+// operations of LOG4 on eight lanes, in its order, with the constants
+// broadcast from their first lane and the reduction's branch as a mask.
+#define LOG8 \
+	VPSRLQ      $52, Z0, Z2 \
+	VPORQ.BCST  two52, Z2, Z2 \
+	VSUBPD.BCST bias, Z2, Z2 \
+	VPANDQ.BCST mantmask, Z0, Z3 \
+	VPORQ.BCST  one, Z3, Z3 \
+	VCMPPD.BCST $0x1D, sqrt2, Z3, K3 \
+	VMULPD.BCST half, Z3, Z5 \
+	VBLENDMPD   Z5, Z3, K3, Z3 \
+	VADDPD.BCST one, Z2, K3, Z2 \
+	LOGCORE(Z2, Z3, Z4, Z5, Z6, Z7, Z8, Z9, Z10, Z11, Z12, VMULPD.BCST, VADDPD.BCST, VSUBPD.BCST)
+
+// ATAN28 sets Z10 = atan2(Z0, Z1); it uses Z0–Z13 and K1–K3. The
+// operations of ATAN24 on eight lanes, in its order, with the branches as
+// masks.
+#define ATAN28 \
+	ATANREDUCE(Z0, Z1, Z2, Z3, Z4, K1, K2, Z7, Z8, VPANDQ.BCST, VMULPD.BCST, BLENDK) \
+	ATANCORE(Z7, Z8, Z9, Z10, Z11, Z12, Z13, VMULPD.BCST, VADDPD.BCST, VBROADCASTSD) \
+	BLENDK(K1, Z13, Z12, Z12) \
+	BLENDK(K2, Z10, Z12, Z10) \
+	VBROADCASTSD  pi, Z12 \
+	VSUBPD        Z10, Z12, Z12 \
+	VPTESTMQ.BCST signmask, Z1, K3 \
+	BLENDK(K3, Z12, Z10, Z10) \
+	VPANDQ.BCST   signmask, Z0, Z12 \
+	VPORQ         Z12, Z10, Z10
 
 // func logAVX2(dst, x *float64, n int) (special int)
 // n is a positive multiple of 4. Lanes outside the domain are NaN and counted.
@@ -370,12 +442,167 @@ atanloop:
 	MOVQ R9, special+32(FP)
 	RET
 
+// The passes of the row (see vortexRowAVX2). DI holds w, whose five rows
+// (x, y, y·s, x(x − s) + y², r₁²/r₂²) stand BX = n·8 bytes apart, and
+// R8–R12 the arrays x0, y0, tx, ty, s (R8 and R9 hold ca and cb for the
+// last pass); in each pass CX counts the vectors, SI is the offset in bytes
+// of the current one, and AX and R13 point to the rows it reads or writes.
+
+// FRAME sets u = a·tx + b·ty and v = b·tx − a·ty, the components of (a, b)
+// along the panel's tangent (tx, ty) and its normal (−ty, tx); t is scratch.
+#define FRAME(a, b, tx, ty, u, v, t) \
+	VMULPD a, tx, u \
+	VMULPD b, ty, v \
+	VADDPD v, u, u \
+	VMULPD b, tx, v \
+	VMULPD a, ty, t \
+	VSUBPD t, v, v
+
+// ROWGEOMETRY, with AX = arr, CX = n, DX = p and DI = w, loads the arrays,
+// sets BX = n·8, broadcasts the point (px, py) = p[0:2] and writes the
+// point in each panel's frame: x, y (FRAME of dx = px − x0, dy = py − y0),
+// y·s, x(x − s) + y², and r₁²/r₂² = (x² + y²)/((x − s)² + y²).
+#define ROWGEOMETRY(lg, dx, dy, px, py, tx, ty, x, y, s, xs, yy, ys, g, r1, r2) \
+	MOVQ         0(AX), R8   /* x0 */ \
+	MOVQ         24(AX), R9  /* y0 */ \
+	MOVQ         48(AX), R10 /* tx */ \
+	MOVQ         72(AX), R11 /* ty */ \
+	MOVQ         96(AX), R12 /* s */ \
+	MOVQ         CX, BX \
+	SHLQ         $3, BX \
+	SHRQ         $lg, CX \
+	XORQ         SI, SI \
+	VBROADCASTSD 0(DX), px \
+	VBROADCASTSD 8(DX), py \
+geometry: \
+	VSUBPD  (R8)(SI*1), px, dx \
+	VSUBPD  (R9)(SI*1), py, dy \
+	VMOVUPD (R10)(SI*1), tx \
+	VMOVUPD (R11)(SI*1), ty \
+	FRAME(dx, dy, tx, ty, x, y, s) \
+	VMOVUPD (R12)(SI*1), s \
+	VSUBPD  s, x, xs \
+	VMULPD  y, y, yy \
+	VMULPD  s, y, ys \
+	VMULPD  xs, x, g \
+	VADDPD  yy, g, g \
+	VMULPD  x, x, r1 \
+	VADDPD  yy, r1, r1 \
+	VMULPD  xs, xs, r2 \
+	VADDPD  yy, r2, r2 \
+	VDIVPD  r2, r1, r1 \
+	MOVQ    DI, AX \
+	VMOVUPD x, (AX)(SI*1) \
+	ADDQ    BX, AX \
+	VMOVUPD y, (AX)(SI*1) \
+	ADDQ    BX, AX \
+	VMOVUPD ys, (AX)(SI*1) \
+	ADDQ    BX, AX \
+	VMOVUPD g, (AX)(SI*1) \
+	ADDQ    BX, AX \
+	VMOVUPD r1, (AX)(SI*1) \
+	ADDQ    $(8<<lg), SI \
+	DECQ    CX \
+	JNZ     geometry
+
+// ROWLOGS writes ½ln(r₁²/r₂²) in place of the ratio; LOG is LOG4 or LOG8,
+// which sets lnx = ln x.
+#define ROWLOGS(lg, LOG, mulc, x, lnx) \
+	LEAQ (DI)(BX*4), AX \
+	MOVQ BX, CX \
+	SHRQ $(lg+3), CX \
+	XORQ SI, SI \
+logs: \
+	VMOVUPD (AX)(SI*1), x \
+	LOG \
+	mulc    half, lnx, lnx \
+	VMOVUPD lnx, (AX)(SI*1) \
+	ADDQ    $(8<<lg), SI \
+	DECQ    CX \
+	JNZ     logs
+
+// ROWANGLES writes β = atan2(y·s, x(x − s) + y²) in place of y·s; ATAN is
+// ATAN24 or ATAN28, which sets a = atan2(y, x).
+#define ROWANGLES(lg, ATAN, y, x, a) \
+	LEAQ (DI)(BX*2), AX \
+	LEAQ (AX)(BX*1), R13 \
+	MOVQ BX, CX \
+	SHRQ $(lg+3), CX \
+	XORQ SI, SI \
+angles: \
+	VMOVUPD (AX)(SI*1), y \
+	VMOVUPD (R13)(SI*1), x \
+	ATAN \
+	VMOVUPD a, (AX)(SI*1) \
+	ADDQ    $(8<<lg), SI \
+	DECQ    CX \
+	JNZ     angles
+
+// ROWNORMAL, with DX = p, sets CX to the count, R13, AX and BX to the
+// rows y, β and l = ½ln(r₁²/r₂²), and broadcasts the normal (nx, ny) =
+// p[2:4].
+#define ROWNORMAL(lg, nx, ny) \
+	MOVQ         BX, CX \
+	SHRQ         $(lg+3), CX \
+	LEAQ         (DI)(BX*1), R13 \
+	LEAQ         (R13)(BX*1), AX \
+	LEAQ         (AX)(BX*2), BX \
+	VBROADCASTSD 16(DX), nx \
+	VBROADCASTSD 24(DX), ny
+
+// ROWCOEFFS, with R8 = ca, R9 = cb and DX = arr, writes the coefficients:
+// I1u = xβ − y·l, I1v = x·l − s + yβ; u1 = I1u·(1/s), v1 = I1v·(1/s);
+// tn = t·n and ln = nL·n (FRAME of the normal, into x and y); ua =
+// −(β − u1)/2π, ub = −u1/2π, va = (l − v1)/2π, vb = v1/2π; ca = ua·tn +
+// va·ln, cb = ub·tn + vb·ln. inv holds 1/s and c 1/2π; tx, t and, once
+// used, s are scratch.
+#define ROWCOEFFS(lg, loadc, u1, v1, nx, ny, tx, ty, x, y, t, s, beta, l, inv, c) \
+	MOVQ    120(DX), DX \
+	loadc   inv2pi, c \
+	XORQ    SI, SI \
+coeffs: \
+	VMOVUPD (DI)(SI*1), x \
+	VMOVUPD (R13)(SI*1), y \
+	VMOVUPD (BX)(SI*1), l \
+	VMOVUPD (AX)(SI*1), beta /* β */ \
+	VMOVUPD (R12)(SI*1), s \
+	VMOVUPD (DX)(SI*1), inv \
+	VMULPD  beta, x, u1 \
+	VMULPD  l, y, v1 \
+	VSUBPD  v1, u1, u1       /* I1u */ \
+	VMULPD  inv, u1, u1      /* u1 */ \
+	VMULPD  l, x, v1 \
+	VSUBPD  s, v1, v1 \
+	VMULPD  beta, y, tx \
+	VADDPD  tx, v1, v1       /* I1v */ \
+	VMULPD  inv, v1, v1      /* v1 */ \
+	VMOVUPD (R10)(SI*1), tx \
+	VMOVUPD (R11)(SI*1), ty \
+	FRAME(nx, ny, tx, ty, x, y, t) \
+	VSUBPD  u1, beta, t \
+	VMULPD  c, t, t \
+	VMULPD  x, t, t \
+	VSUBPD  v1, l, s \
+	VMULPD  c, s, s \
+	VMULPD  y, s, s \
+	VSUBPD  t, s, s          /* ca */ \
+	VMOVUPD s, (R8)(SI*1) \
+	VMULPD  c, u1, t \
+	VMULPD  x, t, t \
+	VMULPD  c, v1, s \
+	VMULPD  y, s, s \
+	VSUBPD  t, s, s          /* cb */ \
+	VMOVUPD s, (R9)(SI*1) \
+	ADDQ    $(8<<lg), SI \
+	DECQ    CX \
+	JNZ     coeffs
+
 // func vortexRowAVX2(ca, cb *float64, arr *panelArrays, n int, p *[4]float64, w *float64)
 //
 // For panels j < n (a positive multiple of 4) and the point (px, py) with
 // normal (nx, ny) = p[0:4], the coefficients of the node strengths γ_j
 // (ca[j]) and γ_j+1 (cb[j]) in the normal velocity. arr holds the arrays
-// x0, y0, tx, ty, s of the panels; w is scratch for 5n values. The point
+// x0, y0, tx, ty, s, 1/s of the panels; w is scratch for 5n values. The point
 // must not be a panel's own midpoint (the caller redoes that one), nor on
 // a panel.
 //
@@ -391,144 +618,34 @@ TEXT ·vortexRowAVX2(SB), NOSPLIT, $0-48
 	MOVQ n+24(FP), CX
 	MOVQ p+32(FP), DX
 	MOVQ w+40(FP), DI
-	MOVQ 0(AX), R8   // x0
-	MOVQ 24(AX), R9  // y0
-	MOVQ 48(AX), R10 // tx
-	MOVQ 72(AX), R11 // ty
-	MOVQ 96(AX), R12 // s
-	MOVQ CX, BX
-	SHLQ $3, BX      // n·8: the stride between the scratch arrays
-	SHRQ $2, CX
-	XORQ SI, SI
-	VBROADCASTSD 0(DX), Y2
-	VBROADCASTSD 8(DX), Y3
+	ROWGEOMETRY(2, Y0, Y1, Y2, Y3, Y4, Y5, Y6, Y7, Y8, Y9, Y10, Y11, Y12, Y13, Y14)
+	ROWLOGS(2, LOG4, VMULPD, Y0, Y12)
+	ROWANGLES(2, ATAN24, Y0, Y1, Y10)
+	MOVQ ca+0(FP), R8
+	MOVQ cb+8(FP), R9
+	ROWNORMAL(2, Y2, Y3)
+	MOVQ arr+16(FP), DX
+	ROWCOEFFS(2, VMOVUPD, Y0, Y1, Y2, Y3, Y4, Y5, Y6, Y7, Y8, Y9, Y10, Y11, Y12, Y15)
+	VZEROUPPER
+	RET
 
-geometry:
-	VSUBPD  (R8)(SI*1), Y2, Y0 // dx
-	VSUBPD  (R9)(SI*1), Y3, Y1 // dy
-	VMOVUPD (R10)(SI*1), Y4    // tx
-	VMOVUPD (R11)(SI*1), Y5    // ty
-	VMULPD  Y0, Y4, Y6
-	VMULPD  Y1, Y5, Y7
-	VADDPD  Y7, Y6, Y6         // x = dx·tx + dy·ty
-	VMULPD  Y1, Y4, Y7
-	VMULPD  Y0, Y5, Y8
-	VSUBPD  Y8, Y7, Y7         // y = dy·tx − dx·ty
-	VMOVUPD (R12)(SI*1), Y8    // s
-	VSUBPD  Y8, Y6, Y9         // xs = x − s
-	VMULPD  Y7, Y7, Y10        // y²
-	VMULPD  Y8, Y7, Y11        // y·s
-	VMULPD  Y9, Y6, Y12
-	VADDPD  Y10, Y12, Y12      // x·xs + y²
-	VMULPD  Y6, Y6, Y13
-	VADDPD  Y10, Y13, Y13      // r₁²
-	VMULPD  Y9, Y9, Y14
-	VADDPD  Y10, Y14, Y14      // r₂²
-	VDIVPD  Y14, Y13, Y13      // r₁²/r₂²
-	MOVQ    DI, AX
-	VMOVUPD Y6, (AX)(SI*1)
-	ADDQ    BX, AX
-	VMOVUPD Y7, (AX)(SI*1)
-	ADDQ    BX, AX
-	VMOVUPD Y11, (AX)(SI*1)
-	ADDQ    BX, AX
-	VMOVUPD Y12, (AX)(SI*1)
-	ADDQ    BX, AX
-	VMOVUPD Y13, (AX)(SI*1)
-	ADDQ    $32, SI
-	DECQ    CX
-	JNZ     geometry
-
-	// ½ln(r₁²/r₂²) in place of the ratio
-	LEAQ (DI)(BX*4), AX
-	MOVQ BX, CX
-	SHRQ $5, CX
-	XORQ SI, SI
-
-logs:
-	VMOVUPD (AX)(SI*1), Y0
-	LOG4
-	VMULPD  half, Y12, Y12
-	VMOVUPD Y12, (AX)(SI*1)
-	ADDQ    $32, SI
-	DECQ    CX
-	JNZ     logs
-
-	// β = atan2(y·s, x(x − s) + y²) in place of y·s
-	LEAQ (DI)(BX*2), AX
-	LEAQ (AX)(BX*1), R13
-	MOVQ BX, CX
-	SHRQ $5, CX
-	XORQ SI, SI
-
-angles:
-	VMOVUPD (AX)(SI*1), Y0
-	VMOVUPD (R13)(SI*1), Y1
-	ATAN24
-	VMOVUPD Y10, (AX)(SI*1)
-	ADDQ    $32, SI
-	DECQ    CX
-	JNZ     angles
-
-	// The coefficients.
-	MOVQ         ca+0(FP), R8
-	MOVQ         cb+8(FP), R9
-	MOVQ         BX, CX
-	SHRQ         $5, CX
-	LEAQ         (DI)(BX*1), R13 // y
-	LEAQ         (R13)(BX*1), AX // β
-	LEAQ         (AX)(BX*2), BX  // l
-	VBROADCASTSD 16(DX), Y2      // nx
-	VBROADCASTSD 24(DX), Y3      // ny
-	VMOVUPD      inv2pi, Y15
-	XORQ         SI, SI
-
-coeffs:
-	// I1u = xβ − y·l, I1v = x·l − s + yβ; u1 = I1u/s, v1 = I1v/s
-	VMOVUPD (DI)(SI*1), Y6     // x
-	VMOVUPD (R13)(SI*1), Y7    // y
-	VMOVUPD (BX)(SI*1), Y11    // l
-	VMOVUPD (AX)(SI*1), Y10    // β
-	VMOVUPD (R12)(SI*1), Y9    // s
-	VMULPD  Y10, Y6, Y0
-	VMULPD  Y11, Y7, Y1
-	VSUBPD  Y1, Y0, Y0         // I1u
-	VDIVPD  Y9, Y0, Y0         // u1
-	VMULPD  Y11, Y6, Y1
-	VSUBPD  Y9, Y1, Y1
-	VMULPD  Y10, Y7, Y4
-	VADDPD  Y4, Y1, Y1         // I1v
-	VDIVPD  Y9, Y1, Y1         // v1
-
-	// tn = t·n, ln = nL·n
-	VMOVUPD (R10)(SI*1), Y4    // tx
-	VMOVUPD (R11)(SI*1), Y5    // ty
-	VMULPD  Y2, Y4, Y6
-	VMULPD  Y3, Y5, Y7
-	VADDPD  Y7, Y6, Y6         // tn
-	VMULPD  Y3, Y4, Y7
-	VMULPD  Y2, Y5, Y8
-	VSUBPD  Y8, Y7, Y7         // ln
-
-	// ua = −(β − u1)/2π, ub = −u1/2π, va = (l − v1)/2π, vb = v1/2π;
-	// ca = ua·tn + va·ln, cb = ub·tn + vb·ln
-	VSUBPD  Y0, Y10, Y8
-	VMULPD  Y15, Y8, Y8
-	VMULPD  Y6, Y8, Y8         // (β − u1)/2π · tn
-	VSUBPD  Y1, Y11, Y9
-	VMULPD  Y15, Y9, Y9
-	VMULPD  Y7, Y9, Y9         // va·ln
-	VSUBPD  Y8, Y9, Y9         // ca
-	VMOVUPD Y9, (R8)(SI*1)
-	VMULPD  Y15, Y0, Y8
-	VMULPD  Y6, Y8, Y8         // u1/2π · tn
-	VMULPD  Y15, Y1, Y9
-	VMULPD  Y7, Y9, Y9         // vb·ln
-	VSUBPD  Y8, Y9, Y9         // cb
-	VMOVUPD Y9, (R9)(SI*1)
-	ADDQ    $32, SI
-	DECQ    CX
-	JNZ     coeffs
-
+// func vortexRowAVX512(ca, cb *float64, arr *panelArrays, n int, p *[4]float64, w *float64)
+//
+// vortexRowAVX2 on eight panels at a time (n a positive multiple of 8),
+// with the same operations in the same order on each lane: the same
+// coefficients, bit for bit.
+TEXT ·vortexRowAVX512(SB), NOSPLIT, $0-48
+	MOVQ arr+16(FP), AX
+	MOVQ n+24(FP), CX
+	MOVQ p+32(FP), DX
+	MOVQ w+40(FP), DI
+	ROWGEOMETRY(3, Z0, Z1, Z2, Z3, Z4, Z5, Z6, Z7, Z8, Z9, Z10, Z11, Z12, Z13, Z14)
+	ROWLOGS(3, LOG8, VMULPD.BCST, Z0, Z12)
+	ROWANGLES(3, ATAN28, Z0, Z1, Z10)
+	MOVQ ca+0(FP), R8
+	MOVQ cb+8(FP), R9
+	ROWNORMAL(3, Z2, Z3)
+	MOVQ arr+16(FP), DX
+	ROWCOEFFS(3, VBROADCASTSD, Z0, Z1, Z2, Z3, Z4, Z5, Z6, Z7, Z8, Z9, Z10, Z11, Z12, Z15)
 	VZEROUPPER
 	RET

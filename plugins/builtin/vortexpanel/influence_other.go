@@ -2,9 +2,13 @@
 
 package vortexpanel
 
-const haveAVX2 = false
+const haveAVX2, haveAVX512 = false, false
 
 func vortexRowAsm(ca, cb []float64, g *panelArrays, p *[4]float64, scratch []float64) {
+	panic("vortexpanel: no assembly build")
+}
+
+func vortexRow512(ca, cb []float64, g *panelArrays, p *[4]float64, scratch []float64) {
 	panic("vortexpanel: no assembly build")
 }
 

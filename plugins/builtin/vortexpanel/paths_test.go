@@ -10,13 +10,40 @@ import (
 	"gonum.org/v1/gonum/mat"
 )
 
+// A buildPath is a way the influence matrix can be built: the Go
+// formulas (the portable path, the only one off amd64 or with the purego
+// tag), the four-lane assembly rows (AVX2) or the eight-lane ones
+// (AVX-512).
+type buildPath struct {
+	name        string
+	asm, asm512 bool
+}
+
+// buildPaths returns the build paths this CPU runs, the portable one first.
+func buildPaths() []buildPath {
+	p := []buildPath{{name: "Go formulas"}}
+	if haveAVX2 {
+		p = append(p, buildPath{name: "AVX2 rows", asm: true})
+	}
+	if haveAVX512 {
+		p = append(p, buildPath{name: "AVX-512 rows", asm: true, asm512: true})
+	}
+	return p
+}
+
+// use makes the build take path b until the returned function restores
+// the previous one.
+func (b buildPath) use() (restore func()) {
+	a, a512 := useAsm, use512
+	useAsm, use512 = b.asm, b.asm512
+	return func() { useAsm, use512 = a, a512 }
+}
+
 // referenceCases solves the section with the influence matrix (built by
-// the assembly rows if asm, else by the Go formulas) factored by gonum's
-// mat.LU, a general-purpose reference library.
-func referenceCases(t *testing.T, nodes []geometry.Point, alphas []float64, asm bool) ([]Case, float64) {
+// path b) factored by gonum's mat.LU, a general-purpose reference library.
+func referenceCases(t *testing.T, nodes []geometry.Point, alphas []float64, b buildPath) ([]Case, float64) {
 	t.Helper()
-	defer func(a bool) { useAsm = a }(useAsm)
-	useAsm = asm
+	defer b.use()()
 	sv, err := New(nodes)
 	if err != nil {
 		t.Fatal(err)
@@ -112,10 +139,14 @@ func TestSweepForms(t *testing.T) {
 }
 
 // TestPathsAgree checks that the results do not depend on how the system
-// is solved: the factorisation by every path of package dense this build
-// offers (pure Go, AVX2 kernels, OpenBLAS with -tags openblas) against the
-// reference of gonum's mat.LU, with the matrix built by the assembly rows
-// and by the Go formulas (the same matrix: TestBuildMatchesScalar). Cl, Cm
+// is built and solved: the factorisation by every path of package dense
+// this build offers (pure Go, AVX2 kernels, AVX-512 kernels, OpenBLAS with
+// -tags openblas) against the reference of gonum's mat.LU, with the matrix
+// built by every build path (the Go formulas, which every CPU runs, the
+// four-lane AVX2 rows and the eight-lane AVX-512 rows where the CPU has
+// them; the same matrix: TestBuildMatchesScalar, TestBuild512MatchesAVX2),
+// each pair of paths in turn, against the reference built by the Go
+// formulas. The purego build tag runs the Go paths alone. Cl, Cm
 // agree to 1e-10, relative; Cp, relative to its largest magnitude, to
 // 1e-10 or 4κε if larger (κ the condition number); the condition estimates
 // agree.
@@ -141,16 +172,13 @@ func TestPathsAgree(t *testing.T) {
 	}
 	alphas := []float64{-0.15, 0, 0.07, 0.2}
 	for _, sec := range sections {
-		for _, asm := range []bool{false, true} {
-			if asm && !haveAVX2 {
-				continue
-			}
-			want, wantCond := referenceCases(t, sec.nodes, alphas, asm)
+		// The reference: the portable build, factored by gonum.
+		want, wantCond := referenceCases(t, sec.nodes, alphas, buildPaths()[0])
+		for _, bp := range buildPaths() {
 			for _, p := range dense.Paths() {
 				func() {
 					defer dense.Use(p)()
-					defer func(a bool) { useAsm = a }(useAsm)
-					useAsm = asm
+					defer bp.use()()
 					sv, err := New(sec.nodes)
 					if err != nil {
 						t.Fatal(err)
@@ -160,15 +188,15 @@ func TestPathsAgree(t *testing.T) {
 						t.Fatal(err)
 					}
 					if c := sv.Cond(); math.Abs(c-wantCond) > 1e-6*wantCond {
-						t.Errorf("%s, build asm %v, %v: Cond %.8g, gonum %.8g", sec.name, asm, p, c, wantCond)
+						t.Errorf("%s, build %s, %v: Cond %.8g, gonum %.8g", sec.name, bp.name, p, c, wantCond)
 					}
 					for k := range got {
 						g, w := got[k], want[k]
 						if d := math.Abs(g.Cl-w.Cl) / math.Abs(w.Cl); d > 1e-10 {
-							t.Errorf("%s, build asm %v, %v, α %g: Cl %.15g, reference %.15g (%.2g)", sec.name, asm, p, g.Alpha, g.Cl, w.Cl, d)
+							t.Errorf("%s, build %s, %v, α %g: Cl %.15g, reference %.15g (%.2g)", sec.name, bp.name, p, g.Alpha, g.Cl, w.Cl, d)
 						}
 						if d := math.Abs(g.Cm-w.Cm) / math.Abs(w.Cm); d > 1e-10 {
-							t.Errorf("%s, build asm %v, %v, α %g: Cm %.15g, reference %.15g (%.2g)", sec.name, asm, p, g.Alpha, g.Cm, w.Cm, d)
+							t.Errorf("%s, build %s, %v, α %g: Cm %.15g, reference %.15g (%.2g)", sec.name, bp.name, p, g.Alpha, g.Cm, w.Cm, d)
 						}
 						scale, worst := 0.0, 0.0
 						for i := range w.Cp {
@@ -183,7 +211,7 @@ func TestPathsAgree(t *testing.T) {
 						// correct factorisations differ there by up to a
 						// few κ·ε. Below κ = 2e5 that is within 1e-10.
 						if worst > max(1e-10, 4*wantCond*0x1p-52) {
-							t.Errorf("%s, build asm %v, %v, α %g: Cp differs by %.2g of its largest magnitude", sec.name, asm, p, g.Alpha, worst)
+							t.Errorf("%s, build %s, %v, α %g: Cp differs by %.2g of its largest magnitude", sec.name, bp.name, p, g.Alpha, worst)
 						}
 					}
 				}()

@@ -7,6 +7,7 @@
 //	go run ./internal/campaign/cmd/campaign -case 1234
 //	go run ./internal/campaign/cmd/campaign -n 100 -category lift
 //	go run ./internal/campaign/cmd/campaign -n 3000 -well -records /tmp/recs.jsonl
+//	go run ./internal/campaign/cmd/campaign -rejudge /tmp/recs.jsonl
 //
 // Every scan is invented data, never measured. The exit status is 0 even
 // when targets are missed (it measures); 2 on bad usage or a generator
@@ -40,10 +41,14 @@ func main() {
 	category := flag.String("category", "", "run only cases of this category (one of "+strings.Join(scangen.Categories(), ", ")+"): the first N seeds from -seed on that draw it")
 	hazard := flag.String("hazard", "", "run only cases that carry this measurement hazard (as the breakdown names it, e.g. \"outlier clusters up to 8\"): the first N seeds from -seed on that draw it")
 	fixture := flag.Bool("fixture", false, "add to every case a fixture's face measured with the part (3–12 points 0.01–0.15 chord off it, below or beyond an edge), drawn apart so the case is otherwise the plain one of its seed")
+	rejudge := flag.String("rejudge", "", "read the records of a run (-records, of any build) and make this build's trailing-edge judgements on them again, from the truth of each seed, without running the chain: prints the trailing-edge rows and how the judgements split the cases (-records writes the records rejudged)")
 	flag.Parse()
 	if flag.NArg() > 0 || *n <= 0 {
 		flag.Usage()
 		os.Exit(2)
+	}
+	if *rejudge != "" {
+		os.Exit(runRejudge(*rejudge, *records, *fixture, *workers))
 	}
 	if *one != 0 {
 		os.Exit(runOne(*one, *fixture))
@@ -82,6 +87,7 @@ func main() {
 		len(seeds), seeds[0], seeds[len(seeds)-1], time.Since(start).Seconds())
 	campaign.WriteTable(os.Stdout, campaign.Figures(recs))
 	campaign.WriteFailures(os.Stdout, recs, *top)
+	campaign.WriteTEJudgements(os.Stdout, recs)
 	campaign.WriteBreakdowns(os.Stdout, recs)
 	if *records != "" {
 		if err := campaign.WriteRecords(*records, recs); err != nil {
@@ -96,6 +102,34 @@ func main() {
 		}
 		fmt.Printf("\nfiles of the bad cases and %s/repro.txt written\n", *dump)
 	}
+}
+
+// runRejudge rejudges the records in the file in (Rejudge), prints the
+// trailing-edge rows of the table and the judgements' split, and writes
+// the records rejudged to out when it is set.
+func runRejudge(in, out string, fixture bool, workers int) int {
+	recs, err := campaign.ReadRecords(in)
+	if err == nil && len(recs) == 0 {
+		err = fmt.Errorf("%s: no records", in)
+	}
+	if err == nil {
+		err = campaign.Rejudge(recs, fixture, workers)
+	}
+	if err != nil {
+		fmt.Fprintln(os.Stderr, "campaign:", err)
+		return 2
+	}
+	fmt.Printf("campaign: %d records of %s, seeds %d to %d, trailing-edge judgements of this build made again (the stated kinds are the run's)\n\n",
+		len(recs), in, recs[0].Seed, recs[len(recs)-1].Seed)
+	campaign.WriteTable(os.Stdout, campaign.TEFigures(recs))
+	campaign.WriteTEJudgements(os.Stdout, recs)
+	if out != "" {
+		if err := campaign.WriteRecords(out, recs); err != nil {
+			fmt.Fprintln(os.Stderr, "campaign:", err)
+			return 2
+		}
+	}
+	return 0
 }
 
 // pickSeeds returns n seeds from seed on: every one, or with a category
