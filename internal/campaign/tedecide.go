@@ -50,20 +50,7 @@ func teUndecidable(tr *scangen.Truth) (undecidable bool, onEnd int) {
 		return false, 0
 	}
 	sh := sec.Shape
-	var upper, lower []float64 // arc lengths from t = 0 (the upper end corner)
-	for _, l := range tr.Lines {
-		if l.Kind != scangen.LineGood {
-			continue
-		}
-		switch sh.Kind(l.T) {
-		case scangen.Upper:
-			upper = append(upper, sh.ArcAt(l.T))
-		case scangen.Lower:
-			lower = append(lower, sh.ArcAt(l.T))
-		default:
-			onEnd++
-		}
-	}
+	upper, lower, onEnd := goodArcs(tr, sh)
 	if sec.TEKind == scangen.TERounded {
 		return onEnd < 3, onEnd
 	}
@@ -183,4 +170,24 @@ func sq(x float64) float64 { return x * x }
 // unit returns p scaled to unit length.
 func unit(p geometry.Point) geometry.Point {
 	return p.Scale(1 / p.Norm())
+}
+
+// goodArcs returns the arc lengths from t = 0 (the upper end corner) of
+// the good points of tr on the upper and on the lower surface of sh, and
+// how many good points lie on the end between them (a base or an arc).
+func goodArcs(tr *scangen.Truth, sh *scangen.Shape) (upper, lower []float64, onEnd int) {
+	for _, l := range tr.Lines {
+		if l.Kind != scangen.LineGood {
+			continue
+		}
+		switch sh.Kind(l.T) {
+		case scangen.Upper:
+			upper = append(upper, sh.ArcAt(l.T))
+		case scangen.Lower:
+			lower = append(lower, sh.ArcAt(l.T))
+		default:
+			onEnd++
+		}
+	}
+	return upper, lower, onEnd
 }

@@ -119,20 +119,11 @@ func teJudgeOf(tr *scangen.Truth, v *teVerdict) (decided bool, rival string, lam
 	if three {
 		endLen = sh.Length() - sLo
 	}
+	upper, lower, onEnd := goodArcs(tr, sh)
 	var pts []geometry.Point
-	var upper, lower []float64
-	onEnd := 0
 	for _, l := range tr.Lines {
 		if l.Kind != scangen.LineGood {
 			continue
-		}
-		switch sh.Kind(l.T) {
-		case scangen.Upper:
-			upper = append(upper, sh.ArcAt(l.T))
-		case scangen.Lower:
-			lower = append(lower, sh.ArcAt(l.T))
-		default:
-			onEnd++
 		}
 		if p := sh.At(l.T); p.X >= 1-teRivalSpan {
 			pts = append(pts, p)
