@@ -106,19 +106,7 @@ func TestShadowedEdgeIndepCase(t *testing.T) {
 // 71 --class shadow): the exact section's leading edge and the middle of
 // its base.
 func TestShadowedCornerSpreadAcross(t *testing.T) {
-	data, err := os.ReadFile("testdata/shadow-indep71.txt")
-	if err != nil {
-		t.Fatal(err)
-	}
-	c := &geometry.Cloud{Dim: 2}
-	for k, line := range strings.Split(string(data), "\n") {
-		var x, y float64
-		if _, err := fmt.Sscan(line, &x, &y); err != nil {
-			continue
-		}
-		c.Points = append(c.Points, geometry.Vec3{X: x, Y: y})
-		c.Origins = append(c.Origins, geometry.Origin{File: "shadow-indep71.txt", Line: k + 1})
-	}
+	c := readXY(t, "shadow-indep71.txt")
 	if len(c.Points) != 576 {
 		t.Fatalf("%d points read, want 576", len(c.Points))
 	}
@@ -200,19 +188,7 @@ func TestCornerSpreadNotAcrossGap(t *testing.T) {
 	} {
 		file := tc.file
 		t.Run(file, func(t *testing.T) {
-			data, err := os.ReadFile("testdata/" + file)
-			if err != nil {
-				t.Fatal(err)
-			}
-			c := &geometry.Cloud{Dim: 2}
-			for k, line := range strings.Split(string(data), "\n") {
-				var x, y float64
-				if _, err := fmt.Sscan(line, &x, &y); err != nil {
-					continue
-				}
-				c.Points = append(c.Points, geometry.Vec3{X: x, Y: y})
-				c.Origins = append(c.Origins, geometry.Origin{File: file, Line: k + 1})
-			}
+			c := readXY(t, file)
 			_, rep, err := Clean(c, Options{})
 			if err != nil {
 				t.Fatal(err)
@@ -231,4 +207,24 @@ func TestCornerSpreadNotAcrossGap(t *testing.T) {
 			}
 		})
 	}
+}
+
+// readXY reads testdata/file, a point a line as "x y" (other lines are
+// skipped), into a planar cloud whose origins name the file and line.
+func readXY(t *testing.T, file string) *geometry.Cloud {
+	t.Helper()
+	data, err := os.ReadFile("testdata/" + file)
+	if err != nil {
+		t.Fatal(err)
+	}
+	c := &geometry.Cloud{Dim: 2}
+	for k, line := range strings.Split(string(data), "\n") {
+		var x, y float64
+		if _, err := fmt.Sscan(line, &x, &y); err != nil {
+			continue
+		}
+		c.Points = append(c.Points, geometry.Vec3{X: x, Y: y})
+		c.Origins = append(c.Origins, geometry.Origin{File: file, Line: k + 1})
+	}
+	return c
 }
